@@ -1,0 +1,52 @@
+// The air a car meets: ISO 2533 standard atmosphere at altitude, with any of temperature,
+// pressure and humidity replaced by a given value, and moist-air density.
+#pragma once
+
+#include <optional>
+
+namespace lapwing {
+
+/// ISO 2533:1975 standard atmosphere in the troposphere (geometric altitude -2 km to 11 km).
+struct StandardAtmosphere {
+  double temperature_k;
+  double pressure_pa;
+  double density_kg_m3;
+};
+StandardAtmosphere standard_atmosphere(double geometric_altitude_m);
+
+/// Saturation vapour pressure over water, Magnus form (WMO Guide, Annex 4.B):
+/// e_s = 611.2 exp(17.62 t / (243.12 + t)) Pa, t in C.
+double saturation_vapour_pressure_pa(double temperature_k);
+
+/// Density of moist air as an ideal-gas mixture: rho = (p - 0.378 e) / (R_d T), e = RH e_s(T).
+double moist_air_density(double pressure_pa, double temperature_k, double relative_humidity);
+
+/// What a track file or the command line says of the air; unset values come from ISO 2533.
+struct AirSpec {
+  double altitude_m = 0.0;
+  std::optional<double> temperature_k;
+  std::optional<double> pressure_pa;
+  double relative_humidity = 0.0;  // 0..1; dry unless given
+};
+
+struct Air {
+  double altitude_m;
+  double temperature_k;
+  double pressure_pa;
+  double relative_humidity;
+  double density_kg_m3;
+  bool standard;  // true when nothing replaced the ISO 2533 values
+};
+
+Air make_air(const AirSpec& spec);
+
+namespace atmosphere {
+inline constexpr double sea_level_temperature_k = 288.15;  // ISO 2533
+inline constexpr double sea_level_pressure_pa = 101325.0;  // ISO 2533
+inline constexpr double lapse_rate_k_per_m = 0.0065;       // ISO 2533, troposphere
+inline constexpr double dry_air_gas_constant = 287.05287;  // J/(kg K), ISO 2533
+inline constexpr double earth_radius_m = 6356766.0;        // ISO 2533, for geopotential altitude
+inline constexpr double tropopause_m = 11000.0;            // geopotential
+}  // namespace atmosphere
+
+}  // namespace lapwing

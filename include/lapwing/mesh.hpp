@@ -1,0 +1,42 @@
+// The track laid out as points at a fixed spacing along the path: the solver's grid.
+#pragma once
+
+#include <cstddef>
+#include <vector>
+
+#include "lapwing/track.hpp"
+
+namespace lapwing {
+
+/// Points 0..n at s_i = i * step_m. For a closed track point n is point 0 again (one lap); the
+/// solver treats points 0..n-1 as periodic. Distance is measured along the path in plan view;
+/// elevation integrates grade over that distance (small-slope layout).
+struct Mesh {
+  bool closed = true;
+  double length_m = 0.0;
+  double step_m = 0.0;
+  std::vector<double> s_m, x_m, y_m, heading_rad, curvature_1pm, elevation_m, grade;
+
+  std::size_t size() const { return s_m.size(); }
+  std::size_t intervals() const { return s_m.size() - 1; }
+};
+
+/// How far the end of the path is from its start (what a closed track must bring to zero).
+struct Closure {
+  double position_gap_m;    // distance from the end point to the start point
+  double heading_gap_rad;   // end heading minus start heading, wrapped to (-pi, pi]
+  double elevation_gap_m;   // end elevation minus start elevation
+  double turning_rad;       // total heading change along the path
+};
+
+Closure closure(const Track& track);
+
+/// Lays the track out at spacing close to `step_m` (adjusted so that it divides the length).
+/// For a closed track, a gap larger than 0.5 % of the length or 2 deg is an InputError.
+Mesh build_mesh(const Track& track, double step_m);
+
+/// Tolerances on closure (SPEC section 3).
+inline constexpr double closure_position_fraction = 0.005;
+inline constexpr double closure_heading_deg = 2.0;
+
+}  // namespace lapwing

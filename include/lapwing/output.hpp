@@ -1,0 +1,21 @@
+// Output files: written whole to a temporary name in the same folder, then renamed, so that a
+// reader never sees a half-written file and a failed run changes nothing.
+#pragma once
+
+#include <filesystem>
+#include <string>
+#include <utility>
+#include <vector>
+
+namespace lapwing {
+
+/// Writes `content` to `path` atomically (temporary file in the same folder, then rename).
+/// Throws std::runtime_error when the folder cannot be written.
+void write_file_atomic(const std::filesystem::path& path, const std::string& content);
+
+/// Creates `dir` (and parents) if needed, then writes every file atomically. Call only after
+/// all results are computed: a failure before this point leaves the disk untouched.
+void write_outputs(const std::filesystem::path& dir,
+                   const std::vector<std::pair<std::string, std::string>>& files);
+
+}  // namespace lapwing

@@ -1,0 +1,35 @@
+// Results as text: summary.json, the trace and corners CSV files (full precision), and the
+// terminal tables (rounded for reading). All take the same summary objects.
+#pragma once
+
+#include <string>
+#include <vector>
+
+#include "lapwing/mesh.hpp"
+#include "lapwing/solver.hpp"
+#include "lapwing/summary.hpp"
+
+namespace lapwing {
+
+/// summary.json (SPEC section 5): {"lapwing", "car", "results": [...]}.
+std::string summary_json(const std::string& car_name, const std::vector<LapSummary>& results);
+
+/// trace-<track>-<config>.csv, one row per mesh point (SPEC section 5).
+std::string trace_csv(const Lap& lap, const Mesh& mesh);
+
+/// corners.csv: the corners arrays of all results, one row per corner, track and config first.
+std::string corners_csv(const std::vector<LapSummary>& results);
+
+/// The terminal report of one lap: headline figures, sectors, and the corners table.
+std::string lap_table(const LapSummary& s);
+
+/// Fixed-point text with `decimals` places (for terminal tables).
+std::string fixed(double v, int decimals);
+
+/// A plain-text table with right-aligned columns (first column left-aligned).
+std::string text_table(const std::vector<std::string>& header,
+                       const std::vector<std::vector<std::string>>& rows);
+
+std::string version();
+
+}  // namespace lapwing

@@ -1,0 +1,61 @@
+// The quasi-steady point-mass lap (SPEC section 6): a steady speed limit at every mesh point,
+// a forward sweep under drive, a backward sweep under braking, the speed their minimum.
+#pragma once
+
+#include <cstdint>
+#include <string_view>
+#include <vector>
+
+#include "lapwing/envelope.hpp"
+#include "lapwing/mesh.hpp"
+
+namespace lapwing {
+
+enum class Phase : std::uint8_t { accelerate, brake, corner, shift, top_speed };
+std::string_view phase_name(Phase p);
+
+/// Why the steady speed at a point is what it is.
+enum class SteadyLimit : std::uint8_t { grip, engine };
+
+/// The steady limits along the mesh: the highest speed the car can hold at each point.
+struct SteadyProfile {
+  std::vector<double> speed_mps;
+  std::vector<SteadyLimit> limit;
+};
+
+/// Steady speed at every mesh point: the highest v at which the tyres hold the lateral demand
+/// m v^2 |kappa| together with the longitudinal force that keeps v against drag, rolling
+/// resistance and grade (friction ellipse), and at which the engine can supply that force
+/// (toms748 bracketing root finder, Boost.Math).
+SteadyProfile steady_profile(const Envelope& env, const Mesh& mesh);
+
+/// Integrates u = v^2 along the mesh in one direction: forward under drive (with the drive cut
+/// for shift_time after each upshift), backward under braking. Every point is clipped to
+/// `limit`. `start` is the mesh index to begin at and `v_start` its speed; closed meshes wrap.
+/// `clipped[i]` is set where the limit, not the integration, gave the speed; `cut[i]` where the
+/// drive was cut for a shift over the step that reached i (forward only).
+enum class Sweep { forward, backward };
+struct SweepResult {
+  std::vector<double> speed_mps;
+  std::vector<std::uint8_t> clipped;
+  std::vector<std::uint8_t> cut;
+};
+SweepResult sweep(const Envelope& env, const Mesh& mesh, Sweep direction,
+                  const std::vector<double>& limit, std::size_t start, double v_start);
+
+/// A solved lap: one entry per mesh point (SI units).
+struct Lap {
+  std::vector<double> speed_mps, time_s, long_accel_mps2, lat_accel_mps2;
+  std::vector<int> gear;
+  std::vector<double> engine_radps, drag_n, downforce_n, front_load_n, rear_load_n;
+  std::vector<Phase> phase;
+  SteadyProfile steady;
+  double lap_time_s = 0.0;
+};
+
+/// Solves one lap. Closed meshes are periodic (both sweeps start at the slowest steady point);
+/// open ones start at `start_speed_mps` and end free. Throws CannotMove when the car cannot
+/// complete the track.
+Lap solve_lap(const Envelope& env, const Mesh& mesh, double start_speed_mps = 0.0);
+
+}  // namespace lapwing

@@ -1,0 +1,44 @@
+// The track as described by its file (SPEC section 3): fixed, validated, in SI units.
+#pragma once
+
+#include <string>
+#include <vector>
+
+#include "lapwing/air.hpp"
+#include "lapwing/error.hpp"
+
+namespace lapwing {
+
+/// A piece of the path whose curvature changes linearly with distance: a straight (0 -> 0), an
+/// arc (k -> k) or a clothoid (k0 -> k1). Curvature is signed, positive for a left turn.
+struct Segment {
+  enum class Kind { straight, arc, clothoid };
+  Kind kind;
+  double length_m;
+  double curvature_start_1pm;
+  double curvature_end_1pm;
+  double grade;  // rise over run, positive uphill
+  Mark mark;
+};
+
+struct Track {
+  std::string name;
+  std::string file;
+  std::string id;  // file name without folder and extension, used in output file names
+  bool closed = true;
+  double start_speed_mps = 0.0;  // open tracks
+  Mark start_speed_mark;
+  AirSpec air;
+  double mesh_m = 0.5;
+  std::vector<Segment> segments;
+  Mark segments_mark;
+  std::vector<double> sectors_m;  // sector start distances; first is 0
+  Mark sectors_mark;
+
+  double length_m() const;
+};
+
+/// Loads and validates a track file. Throws InputError.
+Track load_track(const std::string& file);
+
+}  // namespace lapwing

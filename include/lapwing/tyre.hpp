@@ -1,0 +1,56 @@
+// Tyre friction: peak coefficients that fall with load per tyre, and the friction ellipse that
+// shares them between longitudinal and lateral force.
+#pragma once
+
+#include <algorithm>
+#include <cmath>
+
+#include "lapwing/car.hpp"
+
+namespace lapwing {
+
+class TyreModel {
+ public:
+  explicit TyreModel(const Tyres& t)
+      : mu_long0_(t.mu_long),
+        mu_lat0_(t.mu_lat),
+        nominal_n_(t.nominal_load_n),
+        sensitivity_(t.load_sensitivity),
+        n_(t.ellipse_exponent),
+        quadratic_(t.ellipse_exponent == 2.0) {}
+
+  /// Load sensitivity (SPEC section 6): mu(Fz) = mu0 (1 - s (Fz - Fn) / Fn), never below 0.1 mu0.
+  /// Returns the factor mu(Fz) / mu0 for a per-tyre load Fz in N.
+  double mu_factor(double fz_per_tyre_n) const {
+    return std::max(floor_fraction, 1.0 - sensitivity_ * (fz_per_tyre_n - nominal_n_) / nominal_n_);
+  }
+
+  /// Peak longitudinal and lateral force of the whole car at total vertical load N (four tyres
+  /// sharing N equally).
+  double fx_max(double load_n) const { return mu_long0_ * mu_factor(0.25 * load_n) * load_n; }
+  double fy_max(double load_n) const { return mu_lat0_ * mu_factor(0.25 * load_n) * load_n; }
+
+  /// Friction ellipse (Fx/Fx_max)^n + (Fy/Fy_max)^n <= 1: the share of Fx_max left when the
+  /// tyres carry `lateral_ratio` = |Fy| / Fy_max. Zero when the ratio is 1 or more.
+  double long_share_left(double lateral_ratio) const {
+    if (lateral_ratio >= 1.0) return 0.0;
+    if (quadratic_) return std::sqrt(1.0 - lateral_ratio * lateral_ratio);
+    return std::pow(1.0 - std::pow(lateral_ratio, n_), 1.0 / n_);
+  }
+
+  /// Ellipse usage (Fx/Fx_max)^n + (Fy/Fy_max)^n for given force ratios (1 = at the limit).
+  double usage(double long_ratio, double lateral_ratio) const {
+    if (quadratic_) return long_ratio * long_ratio + lateral_ratio * lateral_ratio;
+    return std::pow(long_ratio, n_) + std::pow(lateral_ratio, n_);
+  }
+
+  double exponent() const { return n_; }
+
+  static constexpr double floor_fraction = 0.1;  // SPEC section 6
+
+ private:
+  double mu_long0_, mu_lat0_, nominal_n_, sensitivity_, n_;
+  bool quadratic_;
+};
+
+}  // namespace lapwing

@@ -1,0 +1,57 @@
+#include "lapwing/corners.hpp"
+
+#include <cmath>
+
+namespace lapwing {
+
+std::vector<CornerSpan> find_corners(const Mesh& mesh, const CornerOptions& o) {
+  std::vector<CornerSpan> raw;
+  const std::size_t n = mesh.size();
+  bool in = false;
+  CornerSpan cur{0, 0, 0, 0};
+  for (std::size_t i = 0; i < n; ++i) {
+    const double k = mesh.curvature_1pm[i];
+    const int dir = k > 0 ? 1 : (k < 0 ? -1 : 0);
+    if (in) {
+      // Hysteresis: stay in until |k| drops below the exit threshold or the direction changes.
+      if (std::abs(k) < o.exit_curvature_1pm || dir != cur.direction) {
+        cur.end = i - 1;
+        raw.push_back(cur);
+        in = false;
+      } else {
+        continue;
+      }
+    }
+    if (std::abs(k) >= o.enter_curvature_1pm) {
+      in = true;
+      cur = {0, i, i, dir};
+    }
+  }
+  if (in) {
+    cur.end = n - 1;
+    raw.push_back(cur);
+  }
+  // Merge same-direction corners separated by a short gap (a corner with a straighter middle).
+  std::vector<CornerSpan> merged;
+  for (const auto& c : raw) {
+    if (!merged.empty() && merged.back().direction == c.direction &&
+        mesh.s_m[c.start] - mesh.s_m[merged.back().end] < o.merge_gap_m) {
+      merged.back().end = c.end;
+      continue;
+    }
+    merged.push_back(c);
+  }
+  std::vector<CornerSpan> out;
+  for (auto& c : merged) {
+    if (c.end <= c.start) {
+      if (c.start == 0) continue;
+      c.start -= 1;  // a one-point run: give it its step
+    }
+    if (mesh.s_m[c.end] - mesh.s_m[c.start] < o.min_length_m) continue;
+    c.id = static_cast<int>(out.size()) + 1;
+    out.push_back(c);
+  }
+  return out;
+}
+
+}  // namespace lapwing

@@ -1,0 +1,148 @@
+#include "lapwing/mesh.hpp"
+
+#include <algorithm>
+#include <array>
+#include <cassert>
+#include <cmath>
+#include <sstream>
+
+#include "lapwing/units.hpp"
+
+namespace lapwing {
+
+namespace {
+
+// Five-point Gauss-Legendre rule on [-1, 1] (Abramowitz & Stegun 25.4.30): exact for polynomials
+// of degree 9; over a mesh step the heading is a quadratic of tiny span, so the error is at
+// round-off level.
+constexpr std::array<double, 5> gl_nodes{-0.9061798459386640, -0.5384693101056831, 0.0,
+                                         0.5384693101056831, 0.9061798459386640};
+constexpr std::array<double, 5> gl_weights{0.2369268850561891, 0.4786286704993665,
+                                           0.5688888888888889, 0.4786286704993665,
+                                           0.2369268850561891};
+
+// Walks the segments, giving position, heading and elevation at increasing distances.
+class Walker {
+ public:
+  explicit Walker(const Track& t) : track_(t) {}
+
+  struct State {
+    double x, y, heading, curvature, elevation, grade;
+  };
+
+  // Advances to distance s (not before the current one) and returns the state there.
+  State at(double s) {
+    // Move into the segment holding s; the last segment holds everything beyond.
+    while (seg_ + 1 < track_.segments.size() && s >= seg_start_ + seg().length_m) {
+      advance_to(seg().length_m);
+      heading0_ = heading(seg().length_m);
+      seg_start_ += seg().length_m;
+      ++seg_;
+      u_ = 0.0;
+    }
+    advance_to(std::max(u_, s - seg_start_));
+    const Segment& g = seg();
+    return {x_, y_, heading(u_), curvature(u_), z_, g.grade};
+  }
+
+ private:
+  const Segment& seg() const { return track_.segments[seg_]; }
+  double curvature(double u) const {
+    const Segment& g = seg();
+    return g.curvature_start_1pm + (g.curvature_end_1pm - g.curvature_start_1pm) * u / g.length_m;
+  }
+  // theta(u) = theta0 + k0 u + (k1 - k0) u^2 / (2 L)
+  double heading(double u) const {
+    const Segment& g = seg();
+    return heading0_ + g.curvature_start_1pm * u +
+           (g.curvature_end_1pm - g.curvature_start_1pm) * u * u / (2.0 * g.length_m);
+  }
+  // Walks on to distance u1 into the current segment.
+  void advance_to(double u1) {
+    assert(u1 >= u_);
+    // Pieces of at most max_piece_m keep the 5-point rule at round-off level however long the
+    // walk (closure() walks whole segments at once).
+    const int pieces = std::max(1, static_cast<int>(std::ceil((u1 - u_) / max_piece_m)));
+    const double piece = (u1 - u_) / pieces;
+    for (int p = 0; p < pieces; ++p) {
+      const double a = u_ + p * piece;
+      const double h = 0.5 * piece, c = a + h;
+      double dx = 0.0, dy = 0.0;
+      for (std::size_t k = 0; k < gl_nodes.size(); ++k) {
+        const double th = heading(c + h * gl_nodes[k]);
+        dx += gl_weights[k] * std::cos(th);
+        dy += gl_weights[k] * std::sin(th);
+      }
+      x_ += h * dx;
+      y_ += h * dy;
+    }
+    z_ += seg().grade * (u1 - u_);
+    u_ = u1;
+  }
+
+  static constexpr double max_piece_m = 1.0;
+  const Track& track_;
+  std::size_t seg_ = 0;
+  double seg_start_ = 0.0;  // distance at the segment's start
+  double u_ = 0.0;          // distance into the segment already walked
+  double x_ = 0.0, y_ = 0.0, z_ = 0.0, heading0_ = 0.0;
+};
+
+double wrap_angle(double a) {
+  a = std::fmod(a, 2 * units::pi);
+  if (a > units::pi) a -= 2 * units::pi;
+  if (a <= -units::pi) a += 2 * units::pi;
+  return a;
+}
+
+}  // namespace
+
+Closure closure(const Track& track) {
+  Walker w(track);
+  const auto end = w.at(track.length_m());
+  return {std::hypot(end.x, end.y), wrap_angle(end.heading), end.elevation, end.heading};
+}
+
+Mesh build_mesh(const Track& track, double step_m) {
+  const double length = track.length_m();
+  if (track.closed) {
+    const Closure c = closure(track);
+    if (c.position_gap_m > closure_position_fraction * length ||
+        std::abs(c.heading_gap_rad) > closure_heading_deg * units::deg) {
+      std::ostringstream os;
+      os.precision(4);
+      os << "closed track does not close: the end is " << c.position_gap_m << " m from the start"
+         << " and its heading differs by " << c.heading_gap_rad / units::deg
+         << " deg (tolerance " << closure_position_fraction * 100 << " % of the length = "
+         << closure_position_fraction * length << " m, " << closure_heading_deg << " deg)";
+      throw InputError(track.file, track.segments_mark, os.str(), "segments");
+    }
+  }
+  const std::size_t n = std::max<std::size_t>(2, static_cast<std::size_t>(std::llround(length / step_m)));
+  Mesh m;
+  m.closed = track.closed;
+  m.length_m = length;
+  m.step_m = length / static_cast<double>(n);
+  for (auto* v : {&m.s_m, &m.x_m, &m.y_m, &m.heading_rad, &m.curvature_1pm, &m.elevation_m, &m.grade})
+    v->resize(n + 1);
+  Walker w(track);
+  for (std::size_t i = 0; i <= n; ++i) {
+    const double s = (i == n) ? length : static_cast<double>(i) * m.step_m;
+    const auto st = w.at(s);
+    m.s_m[i] = s;
+    m.x_m[i] = st.x;
+    m.y_m[i] = st.y;
+    m.heading_rad[i] = st.heading;
+    m.curvature_1pm[i] = st.curvature;
+    m.elevation_m[i] = st.elevation;
+    m.grade[i] = st.grade;
+  }
+  if (track.closed) {
+    // One lap: the last point is the first again (the closure gap is within tolerance).
+    m.curvature_1pm[n] = m.curvature_1pm[0];
+    m.grade[n] = m.grade[0];
+  }
+  return m;
+}
+
+}  // namespace lapwing

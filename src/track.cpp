@@ -1,0 +1,141 @@
+#include "lapwing/track.hpp"
+
+#include <filesystem>
+
+#include "lapwing/document.hpp"
+#include "lapwing/units.hpp"
+
+namespace lapwing {
+
+namespace {
+
+constexpr Range grade_range{-0.5, 0.5};  // +-50 %: steeper is no road
+
+double turn_sign(Reader& r) {
+  return r.choice("turn", {"left", "right"}) == "left" ? 1.0 : -1.0;
+}
+
+Segment read_segment(const Document& doc, const Node& item, const std::string& path) {
+  if (item.kind != Node::Kind::map || item.entries.size() != 1)
+    throw InputError(doc.file, item.mark,
+                     "a segment is one of 'straight: LENGTH', 'straight: {...}', 'arc: {...}', "
+                     "'clothoid: {...}'",
+                     path);
+  const auto& [kind, body] = item.entries.front();
+  const std::string p = path + "." + kind;
+  Segment s{};
+  s.mark = item.mark;
+  if (kind == "straight") {
+    s.kind = Segment::Kind::straight;
+    if (body.kind == Node::Kind::scalar) {
+      Reader parent(doc, item, path);
+      s.length_m = parent.node_quantity(body, Quantity::length, positive(), p);
+      return s;
+    }
+    Reader r(doc, body, p);
+    s.length_m = r.quantity("length", Quantity::length, positive());
+    s.grade = r.quantity_or("grade", Quantity::fraction, grade_range, 0.0);
+    r.finish();
+    return s;
+  }
+  if (kind == "arc") {
+    s.kind = Segment::Kind::arc;
+    Reader r(doc, body, p);
+    const double radius = r.quantity("radius", Quantity::length, positive());
+    const double angle = r.quantity("angle", Quantity::angle, Range{0.0, 4 * units::pi, true, false});
+    const double sign = turn_sign(r);
+    s.length_m = radius * angle;
+    s.curvature_start_1pm = s.curvature_end_1pm = sign / radius;
+    s.grade = r.quantity_or("grade", Quantity::fraction, grade_range, 0.0);
+    r.finish();
+    return s;
+  }
+  if (kind == "clothoid") {
+    s.kind = Segment::Kind::clothoid;
+    Reader r(doc, body, p);
+    s.length_m = r.quantity("length", Quantity::length, positive());
+    auto from = r.optional_quantity("from_radius", Quantity::length, positive());
+    auto to = r.optional_quantity("to_radius", Quantity::length, positive());
+    if (!from && !to)
+      r.fail(body, "a clothoid needs from_radius, to_radius or both (a missing one is straight)");
+    const double sign = turn_sign(r);
+    s.curvature_start_1pm = from ? sign / *from : 0.0;
+    s.curvature_end_1pm = to ? sign / *to : 0.0;
+    s.grade = r.quantity_or("grade", Quantity::fraction, grade_range, 0.0);
+    r.finish();
+    return s;
+  }
+  const std::string near = closest(kind, {"straight", "arc", "clothoid"});
+  throw InputError(doc.file, item.mark,
+                   "unknown segment kind '" + kind + "'" +
+                       (near.empty() ? "" : "; did you mean '" + near + "'?"),
+                   path);
+}
+
+}  // namespace
+
+double Track::length_m() const {
+  double l = 0.0;
+  for (const auto& s : segments) l += s.length_m;
+  return l;
+}
+
+Track load_track(const std::string& file) {
+  Document doc = load_document(file);
+  Reader r(doc, doc.root, "");
+  {
+    const Node& n = r.require("format");
+    if (r.node_quantity(n, Quantity::number, Range{}, "format") != 1.0)
+      r.fail(n, "unsupported format " + n.scalar + " (this lapwing reads format 1)", "format");
+  }
+  Track t;
+  t.file = file;
+  t.id = std::filesystem::path(file).stem().string();
+  t.name = r.string("name");
+  t.closed = r.boolean_or("closed", true);
+  if (const Node* n = r.get("start_speed")) {
+    if (t.closed) r.fail(*n, "start_speed applies to open tracks only (closed: false)", "start_speed");
+    t.start_speed_mps = r.node_quantity(*n, Quantity::speed, Range{0.0, 150.0}, "start_speed");
+    t.start_speed_mark = n->mark;
+  }
+  t.air.altitude_m = r.quantity_or("altitude", Quantity::length, Range{-500.0, 6000.0}, 0.0);
+  if (r.has("ambient")) {
+    Reader a = r.map("ambient");
+    t.air.temperature_k = a.optional_quantity("temperature", Quantity::temperature, Range{223.15, 343.15});
+    t.air.pressure_pa = a.optional_quantity("pressure", Quantity::pressure, Range{30000.0, 110000.0});
+    t.air.relative_humidity = a.quantity_or("humidity", Quantity::fraction, Range{0.0, 1.0}, 0.0);
+    a.finish();
+  }
+  t.mesh_m = r.quantity_or("mesh", Quantity::length, Range{0.01, 10.0}, 0.5);
+  for (const char* k : {"centerline", "curvature"})
+    if (const Node* n = r.get(k))
+      r.fail(*n, std::string("'") + k + "' tracks are not read by this version yet; give segments", k);
+  const Node& segs = r.require("segments");
+  t.segments_mark = segs.mark;
+  if (segs.kind != Node::Kind::sequence || segs.items.empty())
+    r.fail(segs, "expected a non-empty list of segments", "segments");
+  for (std::size_t i = 0; i < segs.items.size(); ++i)
+    t.segments.push_back(read_segment(doc, segs.items[i], "segments[" + std::to_string(i) + "]"));
+  const double length = t.length_m();
+  if (r.has("sectors")) {
+    t.sectors_mark = r.node().find("sectors")->mark;
+    t.sectors_m = r.quantities("sectors", Quantity::length, non_negative());
+    const Node& list = *r.node().find("sectors");
+    if (t.sectors_m.empty() || t.sectors_m.front() != 0.0)
+      r.fail(list, "sectors must start at 0 m", "sectors");
+    for (std::size_t i = 1; i < t.sectors_m.size(); ++i) {
+      if (t.sectors_m[i] <= t.sectors_m[i - 1])
+        r.fail(list.items[i], "sector starts must be strictly increasing", "sectors");
+      if (t.sectors_m[i] >= length)
+        r.fail(list.items[i],
+               "sector start lies beyond the track's length (" + std::to_string(length) + " m)",
+               "sectors");
+    }
+  } else {
+    t.sectors_m = {0.0};
+  }
+  r.finish();
+  return t;
+}
+
+}  // namespace lapwing

@@ -1,0 +1,69 @@
+// Benchmark (not a test): solve one lap of a track many times and report the cost per mesh
+// point per lap, laps per second, and the envelope's build time on its own.
+//   lapwing_bench CAR TRACK [CONFIG] [--laps N] [--mesh M]
+#include <chrono>
+#include <cstdio>
+#include <cstdlib>
+#include <string>
+
+#include "lapwing/car.hpp"
+#include "lapwing/envelope.hpp"
+#include "lapwing/error.hpp"
+#include "lapwing/mesh.hpp"
+#include "lapwing/solver.hpp"
+#include "lapwing/track.hpp"
+
+int main(int argc, char** argv) {
+  using namespace lapwing;
+  using clock = std::chrono::steady_clock;
+  if (argc < 3) {
+    std::fprintf(stderr, "usage: lapwing_bench CAR TRACK [CONFIG] [--laps N] [--mesh M]\n");
+    return 2;
+  }
+  std::string config;
+  int laps = 200;
+  double mesh_m = 0.5;
+  for (int i = 3; i < argc; ++i) {
+    const std::string a = argv[i];
+    if (a == "--laps" && i + 1 < argc) laps = std::atoi(argv[++i]);
+    else if (a == "--mesh" && i + 1 < argc) mesh_m = std::atof(argv[++i]);
+    else config = a;
+  }
+  try {
+    const Car car = load_car(argv[1]);
+    const Track track = load_track(argv[2]);
+    const int ci = config.empty() ? 0 : car.config_index(config);
+    if (ci < 0) throw std::runtime_error("no config " + config);
+    const Car configured = car.configured(static_cast<std::size_t>(ci));
+    const Air air = make_air(track.air);
+    const Mesh mesh = build_mesh(track, mesh_m);
+
+    constexpr int envelope_builds = 50;
+    auto t0 = clock::now();
+    double sink = 0.0;
+    for (int k = 0; k < envelope_builds; ++k) {
+      const Envelope env(configured, air);
+      sink += env.top_speed_level_mps();
+    }
+    const double envelope_s = std::chrono::duration<double>(clock::now() - t0).count() / envelope_builds;
+
+    const Envelope env(configured, air);
+    const Lap warm = solve_lap(env, mesh, track.start_speed_mps);
+    t0 = clock::now();
+    for (int k = 0; k < laps; ++k) sink += solve_lap(env, mesh, track.start_speed_mps).lap_time_s;
+    const double per_lap = std::chrono::duration<double>(clock::now() - t0).count() / laps;
+
+    std::printf("track %s: %.1f m, %zu mesh points at %.3f m; config %s; lap %.3f s\n",
+                track.name.c_str(), mesh.length_m, mesh.size(), mesh.step_m,
+                configured.configs.front().name.c_str(), warm.lap_time_s);
+    std::printf("envelope build: %.3f ms (mean of %d)\n", envelope_s * 1e3, envelope_builds);
+    std::printf("lap solve: %.3f ms per lap, %.1f laps/s, %.1f ns per mesh point per lap (%d laps)\n",
+                per_lap * 1e3, 1.0 / per_lap, per_lap * 1e9 / static_cast<double>(mesh.size()),
+                laps);
+    if (sink == 0.0) std::printf("\n");  // keeps the work observable
+  } catch (const std::exception& e) {
+    std::fprintf(stderr, "lapwing_bench: %s\n", e.what());
+    return 1;
+  }
+  return 0;
+}
