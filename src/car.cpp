@@ -19,6 +19,8 @@ void check_format(Reader& r) {
 }
 
 Tyres read_tyres(Reader r) {
+  r.keys({"mu_long", "mu_lat", "nominal_load", "load_sensitivity", "ellipse_exponent",
+          "rolling_radius", "rolling_resistance"});
   Tyres t;
   t.mu_long = r.quantity("mu_long", Quantity::number, friction);
   t.mu_lat = r.quantity("mu_lat", Quantity::number, friction);
@@ -109,6 +111,8 @@ bool is_word(const std::string& s) {
 AeroConfig read_config(const std::string& name, Reader r) {
   AeroConfig c;
   c.name = name;
+  r.keys({"cda", "cla", "balance", "mass", "inertia_factor", "cg_height", "front_weight",
+          "drag_height"});
   c.cda_m2 = {r.quantity("cda", Quantity::area, Range{0.0, 20.0})};
   c.cla_m2 = {r.quantity("cla", Quantity::area, Range{0.0, 30.0})};
   c.balance = {r.quantity("balance", Quantity::fraction, Range{0.0, 1.0})};
@@ -150,6 +154,8 @@ Car Car::configured(std::size_t index) const {
 Car load_car(const std::string& file) {
   Document doc = load_document(file);
   Reader r(doc, doc.root, "");
+  r.keys({"format", "name", "mass", "inertia_factor", "cg_height", "wheelbase", "front_weight",
+          "tyres", "powertrain", "brakes", "aero"});
   check_format(r);
   Car car;
   car.file = file;

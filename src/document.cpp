@@ -245,8 +245,17 @@ const Node* Reader::get(std::string_view key) {
 
 const Node& Reader::require(std::string_view key) {
   const Node* n = get(key);
-  if (!n) fail(*node_, "missing key '" + std::string(key) + "'", key);
-  return *n;
+  if (n) return *n;
+  // A missing key next to a misspelt one: name the misspelling where it stands.
+  for (std::size_t i = 0; i < node_->entries.size() && !allowed_.empty(); ++i) {
+    const std::string& k = node_->entries[i].first;
+    if (std::find(allowed_.begin(), allowed_.end(), k) != allowed_.end()) continue;
+    if (closest(k, {std::string(key)}) == key)
+      throw InputError(doc_->file, node_->key_marks[i],
+                       "unknown key '" + k + "'; did you mean '" + std::string(key) + "'?",
+                       child_path(k));
+  }
+  fail(*node_, "missing key '" + std::string(key) + "'", key);
 }
 
 double Reader::node_quantity(const Node& n, Quantity q, Range r, const std::string& path) const {
@@ -345,6 +354,7 @@ Reader Reader::map(std::string_view key) {
 
 void Reader::finish(const std::vector<std::string>& also_known) {
   std::vector<std::string> known = asked_;
+  known.insert(known.end(), allowed_.begin(), allowed_.end());
   known.insert(known.end(), also_known.begin(), also_known.end());
   for (std::size_t i = 0; i < node_->entries.size(); ++i) {
     const std::string& k = node_->entries[i].first;

@@ -39,7 +39,6 @@ Envelope::Envelope(const Car& car, const Air& air, EnvelopeOptions options)
   inv_dv_ = 1.0 / dv_;
   const std::size_t n = options.speed_points;
   drive_.resize(n);
-  engine_.resize(n);
   gear_.resize(n);
   drag_coef_.resize(n);
   lift_coef_.resize(n);
@@ -49,7 +48,6 @@ Envelope::Envelope(const Car& car, const Air& air, EnvelopeOptions options)
     const Drive d = best_drive(p, r, v);
     drive_[k] = d.force_n;
     gear_[k] = d.gear;
-    engine_[k] = d.engine_radps;
     drag_coef_[k] = 0.5 * rho_ * interpolate(a.speed_mps, a.cda_m2, v);
     lift_coef_[k] = 0.5 * rho_ * interpolate(a.speed_mps, a.cla_m2, v);
     balance_[k] = interpolate(a.speed_mps, a.balance, v);

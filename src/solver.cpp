@@ -129,6 +129,7 @@ SweepResult sweep(const Envelope& env, const Mesh& mesh, Sweep direction,
   r.speed_mps.assign(n, 0.0);
   r.clipped.assign(n, 0);
   r.cut.assign(n, 0);
+  r.gear.assign(n, 0);
 
   const double ds = mesh.step_m;
   const double m_eff = env.effective_mass_kg();
@@ -139,6 +140,7 @@ SweepResult sweep(const Envelope& env, const Mesh& mesh, Sweep direction,
   double v = v_start;
   r.speed_mps[start] = v;
   int gear = ideal ? 0 : env.gear(v);
+  r.gear[start] = gear;
   double cut_left_s = 0.0;  // drive cut still to run after an upshift
   const std::size_t steps = mesh.closed ? period : (forward ? n - 1 - start : start);
   std::size_t i = start;
@@ -193,6 +195,7 @@ SweepResult sweep(const Envelope& env, const Mesh& mesh, Sweep direction,
         if (best > gear && shift_time > 0.0) cut_left_s = shift_time;
         if (best > gear || r.clipped[j]) gear = best;
       }
+      r.gear[j] = gear;
     }
     r.speed_mps[j] = v_next;
     v = v_next;
@@ -203,6 +206,7 @@ SweepResult sweep(const Envelope& env, const Mesh& mesh, Sweep direction,
     r.speed_mps[n - 1] = r.speed_mps[0];
     r.clipped[n - 1] = r.clipped[0];
     r.cut[n - 1] = r.cut[0];
+    r.gear[n - 1] = r.gear[0];
   }
   return r;
 }
@@ -278,8 +282,16 @@ Lap solve_lap(const Envelope& env, const Mesh& mesh, double start_speed_mps) {
                       (2.0 * mesh.step_m);
     lap.long_accel_mps2[i] = ax;
     lap.lat_accel_mps2[i] = v * v * mesh.curvature_1pm[i];
-    lap.gear[i] = car.powertrain.ideal ? 0 : env.gear(v);
-    lap.engine_radps[i] = car.powertrain.ideal ? 0.0 : env.engine_radps(v);
+    // Under drive the gear the forward sweep engaged (held through a shift's cut); under
+    // braking the best gear for the speed.
+    const Powertrain& pt = car.powertrain;
+    const int gear = pt.ideal ? 0 : (lap.phase[i] == Phase::brake ? env.gear(v) : fwd.gear[i]);
+    lap.gear[i] = gear;
+    lap.engine_radps[i] =
+        pt.ideal ? 0.0
+                 : std::clamp(v / car.tyres.rolling_radius_m * pt.gears[static_cast<std::size_t>(gear - 1)] *
+                                  pt.final_drive,
+                              pt.engine_radps.front(), pt.rev_limit_radps);
     const double drag = env.drag_n(v), down = env.downforce_n(v);
     lap.drag_n[i] = drag;
     lap.downforce_n[i] = down;

@@ -83,6 +83,8 @@ double Track::length_m() const {
 Track load_track(const std::string& file) {
   Document doc = load_document(file);
   Reader r(doc, doc.root, "");
+  r.keys({"format", "name", "closed", "start_speed", "altitude", "ambient", "mesh", "segments",
+          "sectors", "centerline", "curvature"});
   {
     const Node& n = r.require("format");
     if (r.node_quantity(n, Quantity::number, Range{}, "format") != 1.0)

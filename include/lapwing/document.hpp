@@ -66,6 +66,10 @@ class Reader {
   const std::string& path() const { return path_; }
   std::string child_path(std::string_view key) const;
 
+  /// Declares every key this map may hold. Then a missing required key standing next to a
+  /// misspelt one is reported as the misspelling, and suggestions draw on all of them.
+  void keys(std::vector<std::string> allowed) { allowed_ = std::move(allowed); }
+
   bool has(std::string_view key) const;
   const Node* get(std::string_view key);       // marks the key as read; nullptr when absent
   const Node& require(std::string_view key);  // error when absent
@@ -100,6 +104,7 @@ class Reader {
   std::string path_;
   std::vector<std::string> read_;   // keys present and taken
   std::vector<std::string> asked_;  // every key asked for: the known keys, for suggestions
+  std::vector<std::string> allowed_;  // declared keys (optional)
 };
 
 /// Edit distance for suggestions (Levenshtein).

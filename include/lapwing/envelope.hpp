@@ -35,7 +35,6 @@ class Envelope {
   /// Drive force at the wheels in the best gear (linear in the table).
   double drive_n(double v) const { return lookup(drive_, v); }
   int gear(double v) const { return gear_[index(v)]; }
-  double engine_radps(double v) const { return lookup(engine_, v); }
   /// Aero forces: 0.5 rho C(v) v^2 with C interpolated over speed.
   double drag_n(double v) const { return lookup(drag_coef_, v) * v * v; }
   double downforce_n(double v) const { return lookup(lift_coef_, v) * v * v; }
@@ -59,7 +58,7 @@ class Envelope {
   double mass_, mass_eff_, weight_, crr_, rho_;
   double v_max_, v_top_, dv_, inv_dv_;
   bool rev_limited_;
-  std::vector<double> drive_, engine_, drag_coef_, lift_coef_, balance_;
+  std::vector<double> drive_, drag_coef_, lift_coef_, balance_;
   std::vector<int> gear_;
 };
 

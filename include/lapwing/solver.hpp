@@ -34,11 +34,13 @@ SteadyProfile steady_profile(const Envelope& env, const Mesh& mesh);
 /// `limit`. `start` is the mesh index to begin at and `v_start` its speed; closed meshes wrap.
 /// `clipped[i]` is set where the limit, not the integration, gave the speed; `cut[i]` where the
 /// drive was cut for a shift over the step that reached i (forward only).
+/// `gear[i]` is the gear engaged on reaching i (forward only).
 enum class Sweep { forward, backward };
 struct SweepResult {
   std::vector<double> speed_mps;
   std::vector<std::uint8_t> clipped;
   std::vector<std::uint8_t> cut;
+  std::vector<int> gear;  // gear engaged (forward only; 0 for an ideal transmission)
 };
 SweepResult sweep(const Envelope& env, const Mesh& mesh, Sweep direction,
                   const std::vector<double>& limit, std::size_t start, double v_start);

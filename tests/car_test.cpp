@@ -1,0 +1,37 @@
+// Car files: the bundled ones load; values come out in SI; configs override car-level keys.
+#include <doctest/doctest.h>
+
+#include "lapwing/car.hpp"
+#include "lapwing/document.hpp"
+#include "lapwing/error.hpp"
+#include "lapwing/units.hpp"
+#include "test_support.hpp"
+
+using namespace lapwing;
+using lapwing::test::near;
+
+TEST_CASE("the bundled formula car loads in SI units") {
+  const Car c = load_car(test::source_path("cars/pellion-fr2.yaml"));
+  CHECK(c.mass_kg == 640.0);
+  CHECK(c.configs.size() == 3);
+  CHECK(c.config_names() == std::vector<std::string>{"low", "medium", "high"});
+  CHECK(near(c.powertrain.rev_limit_radps, 12200 * units::rpm, 1e-15));
+  CHECK(c.powertrain.gears.size() == 7);
+  CHECK(c.configs[2].cla_m2.front() == 4.3);
+}
+
+TEST_CASE("a power curve becomes torque = power / engine speed") {
+  const Car c = load_car(test::source_path("cars/caldra-gt.yaml"));
+  CHECK(near(c.powertrain.torque_nm[3], 460e3 / (7500 * units::rpm), 1e-12));
+}
+
+TEST_CASE("a config's overrides replace the car-level values") {
+  Car c = load_car(test::source_path("cars/pellion-fr2.yaml"));
+  c.configs[1].mass_kg = 652.0;
+  c.configs[1].drag_height_m = 0.5;
+  const Car k = c.configured(1);
+  CHECK(k.mass_kg == 652.0);
+  CHECK(k.drag_height_m == 0.5);
+  CHECK(k.configs.size() == 1);
+  CHECK(c.configured(0).mass_kg == 640.0);
+}

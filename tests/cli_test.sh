@@ -1,0 +1,90 @@
+#!/usr/bin/env bash
+# End-to-end tests of the real binary (STYLE habit 9): every bundled car x track through check
+# and run; every file in tests/data/bad/ exits 2 with its expected message and writes nothing;
+# outputs are deterministic; usage errors exit 2; a car that cannot move exits 3.
+#   cli_test.sh LAPWING_BINARY SOURCE_DIR
+set -u
+bin=$(realpath "$1")
+cd "$2" || exit 1
+tmp=$(mktemp -d)
+trap 'rm -rf "$tmp"' EXIT
+pass=0
+fail=0
+ok() { pass=$((pass + 1)); }
+bad() { fail=$((fail + 1)); echo "FAIL: $*"; }
+
+# 1. Bundled cars x tracks: check and run succeed, files appear with the contracted columns.
+for car in cars/*.yaml; do
+  "$bin" check --car "$car" --track tracks/*.yaml --json "$tmp/check.json" > "$tmp/check.txt" 2>&1 &&
+    grep -q '"corner_count"' "$tmp/check.json" && ok || bad "check $car"
+  for track in tracks/*.yaml; do
+    out="$tmp/run-$(basename "$car" .yaml)-$(basename "$track" .yaml)"
+    if "$bin" run --car "$car" --track "$track" --out "$out" > "$out.txt" 2>&1; then
+      ok
+    else
+      bad "run $car $track: $(cat "$out.txt")"
+      continue
+    fi
+    trace=$(ls "$out"/trace-*.csv)
+    [ "$(head -n 1 "$trace")" = "distance_m,time_s,x_m,y_m,curvature_1pm,speed_kph,long_accel_g,lat_accel_g,gear,rpm,phase,drag_N,downforce_N,front_load_N,rear_load_N" ] &&
+      ok || bad "trace header $trace"
+    ! grep -qiE 'nan|inf' "$trace" "$out/summary.json" "$out/corners.csv" && ok || bad "non-finite number in $out"
+    for key in lapwing car results track config lap_time_s length_m air_density_kg_m3 top_speed_kph \
+      min_speed_kph full_throttle_fraction braking_fraction sectors_s corners; do
+      grep -q "\"$key\":" "$out/summary.json" || bad "summary.json lacks $key ($out)"
+    done
+    ok
+    ls "$out" | grep -q '\.tmp\.' && bad "temporary file left in $out" || ok
+  done
+done
+
+# 2. Bad inputs: exit 2, FILE:LINE:COL: error: ..., the expected text, nothing written.
+for f in tests/data/bad/*.yaml; do
+  expect=$(sed -n '1s/^# expect: //p' "$f")
+  case $(basename "$f") in
+    car-*) args=(--car "$f" --track tracks/brannock-park.yaml) ;;
+    *) args=(--car cars/pellion-fr2.yaml --track "$f") ;;
+  esac
+  out="$tmp/bad-out"
+  "$bin" run "${args[@]}" --out "$out" > "$tmp/stdout" 2> "$tmp/stderr"
+  code=$?
+  msg=$(cat "$tmp/stderr")
+  if [ "$code" -ne 2 ]; then bad "$f: exit $code, expected 2 ($msg)"; continue; fi
+  [[ "$msg" =~ ^$f:[0-9]+:[0-9]+:\ error:\  ]] || [[ "$msg" =~ ^$f:\ error:\  ]] ||
+    { bad "$f: message not FILE:LINE:COL: error: ... ($msg)"; continue; }
+  [[ "$msg" == *"$expect"* ]] || { bad "$f: expected '$expect', got '$msg'"; continue; }
+  [ "$(wc -l < "$tmp/stderr")" -eq 1 ] || { bad "$f: more than one line on stderr"; continue; }
+  [ -e "$out" ] && { bad "$f: wrote $out"; rm -rf "$out"; continue; }
+  [ -s "$tmp/stdout" ] && { bad "$f: printed results"; continue; }
+  ok
+done
+
+# 3. A failed run changes nothing already there.
+mkdir -p "$tmp/keep" && echo before > "$tmp/keep/summary.json"
+"$bin" run --car tests/data/bad/car-negative-mass.yaml --track tracks/skidpad.yaml --out "$tmp/keep" 2>/dev/null
+[ $? -eq 2 ] && [ "$(cat "$tmp/keep/summary.json")" = before ] && ok || bad "failed run changed an existing file"
+
+# 4. Deterministic bytes for the same inputs.
+"$bin" run --car cars/caldra-gt.yaml --track tracks/cairnholt.yaml --config high_downforce --out "$tmp/d1" > /dev/null
+"$bin" run --car cars/caldra-gt.yaml --track tracks/cairnholt.yaml --config high_downforce --out "$tmp/d2" > /dev/null
+diff -r "$tmp/d1" "$tmp/d2" > /dev/null && ok || bad "outputs differ between identical runs"
+
+# 5. Usage errors exit 2; help has an example; version prints.
+"$bin" run --car cars/caldra-gt.yaml > /dev/null 2>&1; [ $? -eq 2 ] && ok || bad "missing --track not exit 2"
+"$bin" run --car cars/caldra-gt.yaml --track tracks/skidpad.yaml --bogus > /dev/null 2>&1
+[ $? -eq 2 ] && ok || bad "unknown option not exit 2"
+"$bin" run --car cars/caldra-gt.yaml --track tracks/skidpad.yaml --config nope --out "$tmp/nope" 2> "$tmp/stderr"
+[ $? -eq 2 ] && grep -q "no config named 'nope'" "$tmp/stderr" && [ ! -e "$tmp/nope" ] && ok || bad "unknown config"
+"$bin" > /dev/null 2>&1; [ $? -eq 2 ] && ok || bad "no command not exit 2"
+for cmd in check run; do
+  "$bin" $cmd --help | grep -q "Example:" && ok || bad "$cmd --help lacks an example"
+done
+"$bin" --version | grep -qE '^[0-9]+\.[0-9]+\.[0-9]+$' && ok || bad "--version"
+
+# 6. A car that cannot move: exit 3, a clear message, nothing written.
+"$bin" run --car tests/data/cannot-move/weak-car.yaml --track tracks/acceleration.yaml --out "$tmp/weak" 2> "$tmp/stderr"
+[ $? -eq 3 ] && grep -q "cannot complete the track" "$tmp/stderr" && [ ! -e "$tmp/weak" ] && ok ||
+  bad "cannot-move car: $(cat "$tmp/stderr")"
+
+echo "cli: $pass passed, $fail failed"
+[ "$fail" -eq 0 ]

@@ -1,0 +1,96 @@
+#include "test_support.hpp"
+
+#include <algorithm>
+#include <cmath>
+
+#include "lapwing/units.hpp"
+
+namespace lapwing::test {
+
+bool near(double a, double b, double rel, double abs) {
+  return std::abs(a - b) <= rel * std::max(std::abs(a), std::abs(b)) + abs;
+}
+
+std::string source_path(const std::string& relative) {
+  return std::string(LAPWING_SOURCE_DIR) + "/" + relative;
+}
+
+Car plain_car(double mass_kg, double mu, double power_w) {
+  Car c;
+  c.name = "test car";
+  c.file = "test.yaml";
+  c.mass_kg = mass_kg;
+  c.inertia_factor = 0.0;
+  c.cg_height_m = 0.3;
+  c.wheelbase_m = 2.8;
+  c.front_weight = 0.45;
+  c.tyres = Tyres{mu, mu, 1500.0, 0.0, 2.0, 0.3, 0.0};
+  c.powertrain.ideal = true;
+  c.powertrain.constant_power_w = power_w;
+  c.powertrain.efficiency = 1.0;
+  c.brake_front_bias = 0.6;
+  c.drag_height_m = 0.0;
+  AeroConfig a;
+  a.name = "none";
+  a.cda_m2 = {0.0};
+  a.cla_m2 = {0.0};
+  a.balance = {0.45};
+  c.configs = {a};
+  return c;
+}
+
+Car constant_force_car(double mass_kg, double force_n, double mu) {
+  Car c = plain_car(mass_kg, mu);
+  Powertrain& p = c.powertrain;
+  p.ideal = false;
+  p.constant_power_w = 0.0;
+  const double radius = c.tyres.rolling_radius_m, ratio = 3.0;
+  // F = T * ratio * efficiency / r, so a flat torque T = F r / ratio gives F at every speed.
+  p.engine_radps = {1000 * units::rpm, 40000 * units::rpm};
+  p.torque_nm = {force_n * radius / ratio, force_n * radius / ratio};
+  p.rev_limit_radps = p.engine_radps.back();
+  p.gears = {1.0};
+  p.final_drive = ratio;
+  p.shift_time_s = 0.0;
+  return c;
+}
+
+Segment straight(double length_m, double grade) {
+  return Segment{Segment::Kind::straight, length_m, 0.0, 0.0, grade, {}};
+}
+
+Segment arc(double radius_m, double angle_rad, bool left) {
+  const double k = (left ? 1.0 : -1.0) / radius_m;
+  return Segment{Segment::Kind::arc, radius_m * angle_rad, k, k, 0.0, {}};
+}
+
+Segment clothoid(double length_m, double from_curvature, double to_curvature) {
+  return Segment{Segment::Kind::clothoid, length_m, from_curvature, to_curvature, 0.0, {}};
+}
+
+Track circle_track(double radius_m, double mesh_m) {
+  Track t;
+  t.name = "circle";
+  t.file = "circle.yaml";
+  t.id = "circle";
+  t.closed = true;
+  t.mesh_m = mesh_m;
+  t.segments = {arc(radius_m, 2 * units::pi, true)};
+  t.sectors_m = {0.0};
+  return t;
+}
+
+Track straight_track(double length_m, double mesh_m, double start_speed_mps) {
+  Track t;
+  t.name = "straight";
+  t.file = "straight.yaml";
+  t.id = "straight";
+  t.closed = false;
+  t.start_speed_mps = start_speed_mps;
+  t.mesh_m = mesh_m;
+  t.segments = {straight(length_m)};
+  t.sectors_m = {0.0};
+  return t;
+}
+
+}  // namespace lapwing::test

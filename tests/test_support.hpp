@@ -1,0 +1,34 @@
+// Helpers shared by the tests: simple cars and tracks built in code (so that a closed form's
+// assumptions are visible in the test), and the tolerance rule.
+#pragma once
+
+#include <string>
+#include <vector>
+
+#include "lapwing/car.hpp"
+#include "lapwing/track.hpp"
+
+namespace lapwing::test {
+
+/// Tolerance rule used throughout: |a - b| <= rel * max(|a|, |b|) + abs.
+bool near(double a, double b, double rel, double abs = 0.0);
+
+/// The bundled files.
+std::string source_path(const std::string& relative);
+
+/// A point-mass test car with no aero, no rolling resistance, no inertia factor and no load
+/// sensitivity, driven by constant power through an ideal transmission (efficiency 1).
+Car plain_car(double mass_kg = 600.0, double mu = 1.5, double power_w = 300e3);
+
+/// A car whose drive is a constant force `force_n` at every speed: one gear and a flat torque
+/// curve (engine held at its lowest speed below the curve, so the force holds from standstill).
+Car constant_force_car(double mass_kg, double force_n, double mu);
+
+/// Tracks from segments.
+Track circle_track(double radius_m, double mesh_m);
+Track straight_track(double length_m, double mesh_m, double start_speed_mps);
+Segment straight(double length_m, double grade = 0.0);
+Segment arc(double radius_m, double angle_rad, bool left);
+Segment clothoid(double length_m, double from_curvature, double to_curvature);
+
+}  // namespace lapwing::test
