@@ -35,22 +35,18 @@ Envelope::Envelope(const Car& car, const Air& air, EnvelopeOptions options)
   const AeroConfig& a = car.configs.front();
   const double r = car.tyres.rolling_radius_m;
   v_max_ = p.ideal ? options.ideal_speed_cap_mps : rev_limited_speed_mps(p, r);
-  dv_ = v_max_ / static_cast<double>(options.speed_points - 1);
-  inv_dv_ = 1.0 / dv_;
+  du_ = v_max_ * v_max_ / static_cast<double>(options.speed_points - 1);
+  inv_du_ = 1.0 / du_;
   const std::size_t n = options.speed_points;
-  drive_.resize(n);
+  rows_.resize(n);
   gear_.resize(n);
-  drag_coef_.resize(n);
-  lift_coef_.resize(n);
-  balance_.resize(n);
   for (std::size_t k = 0; k < n; ++k) {
-    const double v = static_cast<double>(k) * dv_;
+    const double v = k + 1 == n ? v_max_ : std::sqrt(static_cast<double>(k) * du_);
     const Drive d = best_drive(p, r, v);
-    drive_[k] = d.force_n;
+    rows_[k] = {d.force_n, 0.5 * rho_ * interpolate(a.speed_mps, a.cda_m2, v),
+                0.5 * rho_ * interpolate(a.speed_mps, a.cla_m2, v),
+                interpolate(a.speed_mps, a.balance, v)};
     gear_[k] = d.gear;
-    drag_coef_[k] = 0.5 * rho_ * interpolate(a.speed_mps, a.cda_m2, v);
-    lift_coef_[k] = 0.5 * rho_ * interpolate(a.speed_mps, a.cla_m2, v);
-    balance_[k] = interpolate(a.speed_mps, a.balance, v);
   }
   // Top speed on the level: the one speed where drive = resistance (REFERENCES: the cubic
   // eta P = (k v^2 + Crr m g) v for constant power); the rev limit when drive still exceeds it.
@@ -71,20 +67,9 @@ Envelope::Envelope(const Car& car, const Air& air, EnvelopeOptions options)
 }
 
 std::size_t Envelope::index(double v) const {
-  const double f = std::clamp(v * inv_dv_, 0.0, static_cast<double>(drive_.size() - 1));
-  return static_cast<std::size_t>(f + 0.5);
-}
-
-double Envelope::lookup(const std::vector<double>& t, double v) const {
-  // Speeds beyond the table only occur transiently inside an integration stage; they read the
-  // end value.
-  const double f = v * inv_dv_;
-  if (f <= 0.0) return t.front();
-  const std::size_t last = t.size() - 1;
-  if (f >= static_cast<double>(last)) return t.back();
-  const std::size_t i = static_cast<std::size_t>(f);
-  const double w = f - static_cast<double>(i);
-  return t[i] + w * (t[i + 1] - t[i]);
+  // The row at or below v: the gear in use up to the speed where the next one takes over.
+  const double f = std::clamp(v * v * inv_du_, 0.0, static_cast<double>(rows_.size() - 1));
+  return static_cast<std::size_t>(f);
 }
 
 }  // namespace lapwing

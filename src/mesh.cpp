@@ -123,7 +123,8 @@ Mesh build_mesh(const Track& track, double step_m) {
   m.closed = track.closed;
   m.length_m = length;
   m.step_m = length / static_cast<double>(n);
-  for (auto* v : {&m.s_m, &m.x_m, &m.y_m, &m.heading_rad, &m.curvature_1pm, &m.elevation_m, &m.grade})
+  for (auto* v : {&m.s_m, &m.x_m, &m.y_m, &m.heading_rad, &m.curvature_1pm, &m.elevation_m,
+                  &m.grade, &m.cos_slope, &m.sin_slope})
     v->resize(n + 1);
   Walker w(track);
   for (std::size_t i = 0; i <= n; ++i) {
@@ -141,6 +142,11 @@ Mesh build_mesh(const Track& track, double step_m) {
     // One lap: the last point is the first again (the closure gap is within tolerance).
     m.curvature_1pm[n] = m.curvature_1pm[0];
     m.grade[n] = m.grade[0];
+  }
+  for (std::size_t i = 0; i <= n; ++i) {
+    // grade = tan(angle): cos = 1 / sqrt(1 + grade^2), sin = grade cos.
+    m.cos_slope[i] = 1.0 / std::sqrt(1.0 + m.grade[i] * m.grade[i]);
+    m.sin_slope[i] = m.grade[i] * m.cos_slope[i];
   }
   return m;
 }

@@ -4,9 +4,12 @@
 #include <boost/numeric/odeint/stepper/runge_kutta4.hpp>
 
 #include <algorithm>
+#include <array>
 #include <cassert>
 #include <cmath>
 #include <sstream>
+#include <tuple>
+#include <utility>
 
 #include "lapwing/error.hpp"
 #include "lapwing/units.hpp"
@@ -26,25 +29,31 @@ std::string_view phase_name(Phase p) {
 
 namespace {
 
-// cos and sin of the road's slope angle from grade = tan(angle).
+// cos and sin of the road's slope angle at a mesh point (Mesh keeps them: grade = tan(angle)).
 struct Slope {
   double cos, sin;
-  explicit Slope(double grade) {
-    const double h = 1.0 / std::sqrt(1.0 + grade * grade);
-    cos = h;
-    sin = grade * h;
-  }
+  Slope(double c, double s) : cos(c), sin(s) {}
+  Slope(const Mesh& m, std::size_t i) : cos(m.cos_slope[i]), sin(m.sin_slope[i]) {}
 };
 
 // Bracketing tolerance for steady speeds: 36 bits, about 1e-11 relative.
 constexpr int steady_bits = 36;
 
-// Longitudinal tyre force left by the friction ellipse at speed v with lateral demand
-// m v^2 |kappa|.
-double long_force_left(const Envelope& env, double v, double abs_curvature, const Slope& slope) {
-  const double load = env.normal_load_n(v, slope.cos);
-  const double fy = env.mass_kg() * v * v * abs_curvature;
-  return env.tyres().fx_max(load) * env.tyres().long_share_left(fy / env.tyres().fy_max(load));
+// The forces along the path at speed v on a point of curvature |kappa| and slope: what the
+// tyres have left for Fx after the lateral demand m v^2 |kappa| (friction ellipse), the
+// resistance (drag + rolling + grade), and the drive in the best gear. One table read.
+struct PathForces {
+  double grip_left_n, resistance_n, drive_n;
+};
+inline PathForces path_forces(const Envelope& env, double v2, double abs_curvature,
+                              const Slope& slope) {
+  const Envelope::Sample s = env.sample_sq(v2);
+  const double load = env.weight_n() * slope.cos + s.lift_coef * v2;
+  const TyreModel::Limits lim = env.tyres().limits(load);
+  const double fy = env.mass_kg() * v2 * abs_curvature;
+  return {env.tyres().long_force_left(lim, fy),
+          s.drag_coef * v2 + env.rolling_resistance() * load + env.weight_n() * slope.sin,
+          s.drive_n};
 }
 
 std::string where(const Mesh& mesh, std::size_t i) {
@@ -55,25 +64,42 @@ std::string where(const Mesh& mesh, std::size_t i) {
 }
 
 // Highest v in [0, v_max] with f(v) <= 0, for f <= 0 at 0 and monotone enough to have one
-// crossing; f(v_max) <= 0 gives v_max.
+// crossing; f(v_max) <= 0 gives v_max. `hint` (the answer at the previous mesh point, or 0)
+// first tries a bracket of +-2 % around it, which neighbouring points nearly always share.
 template <typename F>
-double highest_feasible(F f, double v_max) {
+double highest_feasible(F f, double v_max, double hint) {
+  namespace tools = boost::math::tools;
   const double f_hi = f(v_max);
   if (f_hi <= 0.0) return v_max;
+  std::uintmax_t iters = 100;
+  if (hint > 0.0 && hint < v_max) {
+    const double a = 0.98 * hint, b = std::min(1.02 * hint, v_max);
+    const double fa = f(a);
+    if (fa <= 0.0) {
+      const double fb = f(b);
+      if (fb > 0.0)
+        return tools::toms748_solve(f, a, b, fa, fb, tools::eps_tolerance<double>(steady_bits), iters)
+            .first;
+    }
+  }
   const double f_lo = f(0.0);
   if (f_lo > 0.0) return 0.0;
-  std::uintmax_t iters = 100;
-  auto [lo, hi] = boost::math::tools::toms748_solve(
-      f, 0.0, v_max, f_lo, f_hi, boost::math::tools::eps_tolerance<double>(steady_bits), iters);
-  (void)hi;
-  return lo;  // the feasible end of the final bracket
+  // The feasible end of the final bracket.
+  return tools::toms748_solve(f, 0.0, v_max, f_lo, f_hi, tools::eps_tolerance<double>(steady_bits),
+                              iters)
+      .first;
 }
 
 }  // namespace
 
 SteadyProfile steady_profile(const Envelope& env, const Mesh& mesh) {
-  const std::size_t n = mesh.size();
   SteadyProfile p;
+  steady_profile(env, mesh, p);
+  return p;
+}
+
+void steady_profile(const Envelope& env, const Mesh& mesh, SteadyProfile& p) {
+  const std::size_t n = mesh.size();
   p.speed_mps.resize(n);
   p.limit.resize(n);
   const double v_max = env.max_speed_mps();
@@ -82,12 +108,12 @@ SteadyProfile steady_profile(const Envelope& env, const Mesh& mesh) {
   double v_engine = 0.0, v_grip = 0.0;
   for (std::size_t i = 0; i < n; ++i) {
     const double grade = mesh.grade[i], curv = std::abs(mesh.curvature_1pm[i]);
-    const Slope slope(grade);
+    const Slope slope(mesh, i);
     if (grade != last_grade) {
       // Engine: drive in the best gear >= resistance, the top speed on this grade.
       v_engine = highest_feasible(
           [&](double v) { return env.resistance_n(v, slope.cos, slope.sin) - env.drive_n(v); },
-          v_max);
+          v_max, v_engine);
     }
     if (grade != last_grade || curv != last_curv) {
       // Tyres: (|R| / Fx_max)^n + (m v^2 |kappa| / Fy_max)^n <= 1, R = resistance to hold v.
@@ -98,7 +124,7 @@ SteadyProfile steady_profile(const Envelope& env, const Mesh& mesh) {
             const double fy = env.mass_kg() * v * v * curv;
             return tyres.usage(fx / tyres.fx_max(load), fy / tyres.fy_max(load)) - 1.0;
           },
-          v_max);
+          v_max, v_grip);
     }
     last_grade = grade;
     last_curv = curv;
@@ -116,127 +142,208 @@ SteadyProfile steady_profile(const Envelope& env, const Mesh& mesh) {
                             : "the tyres cannot hold the car on this grade") +
                        ")");
   }
-  return p;
 }
+
+namespace {
+
+// One sweep, one step at a time, so that the forward and the backward sweep can advance in
+// lockstep: two independent chains of dependent arithmetic keep the processor busier than one
+// (each RK4 stage waits on the last). Forward and backward differ only in the acceleration.
+class Sweeper {
+  SweepResult& r_;
+
+ public:
+  Sweeper(const Envelope& env, const Mesh& mesh, Sweep direction, const std::vector<double>& limit,
+          std::size_t start, double v_start, SweepResult& out)
+      : r_(out),
+        env_(env),
+        mesh_(mesh),
+        limit_(limit),
+        forward_(direction == Sweep::forward),
+        ideal_(env.car().powertrain.ideal),
+        n_(mesh.size()),
+        period_(mesh.closed ? n_ - 1 : n_),
+        ds_(mesh.step_m),
+        inv_m_eff_(1.0 / env.effective_mass_kg()),
+        shift_time_(env.car().powertrain.shift_time_s),
+        i_(start),
+        v_(v_start) {
+    r_.speed_mps.resize(n_);  // every point is written on the way
+    r_.clipped.assign(n_, 0);
+    r_.cut.assign(n_, 0);
+    r_.gear.assign(n_, 0);
+    r_.speed_mps[start] = v_;
+    gear_ = ideal_ ? 0 : env.gear(v_);
+    r_.gear[start] = gear_;
+  }
+
+  /// Steps this sweep takes over the mesh from its start.
+  std::size_t steps() const {
+    if (mesh_.closed) return period_;
+    return forward_ ? n_ - 1 - i_ : i_;
+  }
+
+  /// Prepares the step from the current point to the next; returns u = v^2 there.
+  double begin_step() {
+    const std::size_t i = i_;
+    // Next point along the sweep; a closed mesh wraps through its seam (point n-1 == point 0).
+    if (forward_) j_ = (i + 1 == period_ && mesh_.closed) ? 0 : i + 1;
+    else j_ = (i == 0) ? period_ - 1 : i - 1;
+    // Curvature varies linearly over the step; the grade is that of the step's first point in
+    // distance (piecewise constant along segments).
+    k0_ = std::abs(mesh_.curvature_1pm[i]);
+    dk_ = (std::abs(mesh_.curvature_1pm[j_]) - k0_) / ds_;
+    slope_ = Slope(mesh_, forward_ ? i : j_);
+    drive_share_ = 1.0;
+    if (forward_ && cut_left_s_ > 0.0) {
+      // Share of this step's time (estimated at the entry speed) with the drive still on.
+      const double step_time = ds_ / std::max(v_, 1e-3);
+      drive_share_ = 1.0 - std::min(1.0, cut_left_s_ / step_time);
+    }
+    return v_ * v_;
+  }
+
+  /// d(v^2)/dx = 2 a at u = v^2, a distance x (0 .. ds) into the step, along the sweep's own
+  /// direction of travel: forward under drive, backward under braking.
+  double rhs(double u, double x) const {
+    const double u0 = std::max(u, 0.0);
+    const PathForces f = path_forces(env_, u0, k0_ + dk_ * x, slope_);
+    const double force = forward_
+                             ? std::min(f.grip_left_n, drive_share_ * f.drive_n) - f.resistance_n
+                             : f.grip_left_n + f.resistance_n;
+    return 2.0 * force * inv_m_eff_;
+  }
+
+  /// Takes the integrated u at the next point: clips it to the limit and moves there.
+  void end_step(double u) {
+    const std::size_t j = j_;
+    if (!(u > 0.0))
+      throw CannotMove("the car stops at " + where(mesh_, j) +
+                       ": drive cannot overcome the resistance there");
+    double v_next = std::sqrt(u);
+    if (v_next >= limit_[j]) {
+      v_next = limit_[j];
+      r_.clipped[j] = 1;
+    }
+    if (forward_) {
+      const double dt = 2.0 * ds_ / (v_ + v_next);
+      if (cut_left_s_ > 0.0) {
+        r_.cut[j] = 1;
+        cut_left_s_ = std::max(0.0, cut_left_s_ - dt);
+      }
+      if (!ideal_) {
+        // An upshift cuts the drive. The speed lost in the cut must not shift back down (that
+        // would hunt at the shift point): under drive the engaged gear only goes up; it
+        // follows the speed down only where a limit, not the drive, set the speed.
+        const int best = env_.gear(v_next);
+        if (best > gear_ && shift_time_ > 0.0) cut_left_s_ = shift_time_;
+        if (best > gear_ || r_.clipped[j]) gear_ = best;
+      }
+      r_.gear[j] = gear_;
+    }
+    r_.speed_mps[j] = v_next;
+    v_ = v_next;
+    i_ = j;
+  }
+
+  void finish() {
+    if (mesh_.closed) {
+      // The seam: point n-1 is point 0 again.
+      r_.speed_mps[n_ - 1] = r_.speed_mps[0];
+      r_.clipped[n_ - 1] = r_.clipped[0];
+      r_.cut[n_ - 1] = r_.cut[0];
+      r_.gear[n_ - 1] = r_.gear[0];
+    }
+  }
+
+ private:
+  const Envelope& env_;
+  const Mesh& mesh_;
+  const std::vector<double>& limit_;
+  const bool forward_, ideal_;
+  const std::size_t n_, period_;
+  const double ds_, inv_m_eff_, shift_time_;
+  std::size_t i_;
+  double v_;
+  // The step in progress.
+  std::size_t j_ = 0;
+  double k0_ = 0.0, dk_ = 0.0, drive_share_ = 1.0;
+  Slope slope_{1.0, 0.0};
+  int gear_ = 0;
+  double cut_left_s_ = 0.0;  // drive cut still to run after an upshift
+};
+
+}  // namespace
 
 SweepResult sweep(const Envelope& env, const Mesh& mesh, Sweep direction,
                   const std::vector<double>& limit, std::size_t start, double v_start) {
   namespace odeint = boost::numeric::odeint;
-  const std::size_t n = mesh.size();
-  const std::size_t period = mesh.closed ? n - 1 : n;  // unique points
-  const bool forward = direction == Sweep::forward;
   SweepResult r;
-  r.speed_mps.assign(n, 0.0);
-  r.clipped.assign(n, 0);
-  r.cut.assign(n, 0);
-  r.gear.assign(n, 0);
-
-  const double ds = mesh.step_m;
-  const double m_eff = env.effective_mass_kg();
-  const double shift_time = env.car().powertrain.shift_time_s;
-  const bool ideal = env.car().powertrain.ideal;
+  Sweeper s(env, mesh, direction, limit, start, v_start, r);
   odeint::runge_kutta4<double> stepper;
-
-  double v = v_start;
-  r.speed_mps[start] = v;
-  int gear = ideal ? 0 : env.gear(v);
-  r.gear[start] = gear;
-  double cut_left_s = 0.0;  // drive cut still to run after an upshift
-  const std::size_t steps = mesh.closed ? period : (forward ? n - 1 - start : start);
-  std::size_t i = start;
-  for (std::size_t k = 0; k < steps; ++k) {
-    // Next point along the sweep; a closed mesh wraps through its seam (point n-1 == point 0).
-    std::size_t j;
-    if (forward) j = (i + 1 == period && mesh.closed) ? 0 : i + 1;
-    else j = (i == 0) ? period - 1 : i - 1;
-    // Curvature varies linearly over the step; the grade is the one of the step's first point
-    // in travel order (piecewise constant along segments).
-    const std::size_t lower = forward ? i : j;  // index where the step starts in distance
-    const double k0 = std::abs(mesh.curvature_1pm[i]), k1 = std::abs(mesh.curvature_1pm[j]);
-    const Slope slope(mesh.grade[lower]);
-    double drive_share = 1.0;
-    if (forward && cut_left_s > 0.0) {
-      // Fraction of this step's time (estimated at the entry speed) still under the cut.
-      const double step_time = ds / std::max(v, 1e-3);
-      drive_share = 1.0 - std::min(1.0, cut_left_s / step_time);
-    }
-    // d(v^2)/dx = 2 a along the sweep's own direction of travel x (0 .. ds over the step).
-    auto rhs = [&](const double& u, double& dudx, double x) {
-      const double vv = std::sqrt(std::max(u, 0.0));
-      const double curv = k0 + (k1 - k0) * (x / ds);
-      const double grip = long_force_left(env, vv, curv, slope);
-      const double resist = env.resistance_n(vv, slope.cos, slope.sin);
-      const double a = forward ? (std::min(grip, drive_share * env.drive_n(vv)) - resist) / m_eff
-                               : (grip + resist) / m_eff;
-      dudx = 2.0 * a;
-    };
-    double u = v * v;
-    stepper.do_step(rhs, u, 0.0, ds);
-    if (!(u > 0.0)) {
-      throw CannotMove("the car stops at " + where(mesh, j) +
-                       ": drive cannot overcome the resistance there");
-    }
-    double v_next = std::sqrt(u);
-    if (v_next >= limit[j]) {
-      v_next = limit[j];
-      r.clipped[j] = 1;
-    }
-    if (forward) {
-      const double dt = 2.0 * ds / (v + v_next);
-      if (cut_left_s > 0.0) {
-        r.cut[j] = 1;
-        cut_left_s = std::max(0.0, cut_left_s - dt);
-      }
-      if (!ideal) {
-        // An upshift cuts the drive. The speed lost in the cut must not shift back down (that
-        // would hunt at the shift point): under drive the engaged gear only goes up; it follows
-        // the speed down only where a limit, not the drive, set the speed.
-        const int best = env.gear(v_next);
-        if (best > gear && shift_time > 0.0) cut_left_s = shift_time;
-        if (best > gear || r.clipped[j]) gear = best;
-      }
-      r.gear[j] = gear;
-    }
-    r.speed_mps[j] = v_next;
-    v = v_next;
-    i = j;
+  auto system = [&s](const double& u, double& dudx, double x) { dudx = s.rhs(u, x); };
+  for (std::size_t k = 0, n = s.steps(); k < n; ++k) {
+    double u = s.begin_step();
+    stepper.do_step(system, u, 0.0, mesh.step_m);
+    s.end_step(u);
   }
-  if (mesh.closed) {
-    // The seam: point n-1 is point 0 again.
-    r.speed_mps[n - 1] = r.speed_mps[0];
-    r.clipped[n - 1] = r.clipped[0];
-    r.cut[n - 1] = r.cut[0];
-    r.gear[n - 1] = r.gear[0];
-  }
+  s.finish();
   return r;
 }
 
 Lap solve_lap(const Envelope& env, const Mesh& mesh, double start_speed_mps) {
+  LapSolver solver;
+  solver.solve(env, mesh, start_speed_mps);
+  return solver.take();
+}
+
+const Lap& LapSolver::solve(const Envelope& env, const Mesh& mesh, double start_speed_mps) {
   const std::size_t n = mesh.size();
   assert(n >= 3);
-  Lap lap;
-  lap.steady = steady_profile(env, mesh);
+  Lap& lap = lap_;
+  steady_profile(env, mesh, lap.steady);
   const auto& steady = lap.steady.speed_mps;
+  SweepResult& fwd = forward_;
+  SweepResult& bwd = backward_;
 
-  SweepResult fwd, bwd;
+  // Both sweeps advance in lockstep as one two-component state, (u_forward, u_backward): two
+  // independent chains of dependent arithmetic in one system keep the processor busier than
+  // one (each RK4 stage waits on the last).
+  auto both = [&](std::size_t f0, double vf, std::size_t b0, double vb) {
+    namespace odeint = boost::numeric::odeint;
+    using State = std::array<double, 2>;
+    Sweeper f(env, mesh, Sweep::forward, steady, f0, vf, fwd);
+    Sweeper b(env, mesh, Sweep::backward, steady, b0, vb, bwd);
+    assert(f.steps() == b.steps());
+    odeint::runge_kutta4<State> stepper;
+    auto system = [&f, &b](const State& u, State& dudx, double x) {
+      dudx[0] = f.rhs(u[0], x);
+      dudx[1] = b.rhs(u[1], x);
+    };
+    for (std::size_t k = 0, steps = f.steps(); k < steps; ++k) {
+      State u{f.begin_step(), b.begin_step()};
+      stepper.do_step(system, u, 0.0, mesh.step_m);
+      f.end_step(u[0]);
+      b.end_step(u[1]);
+    }
+    f.finish();
+    b.finish();
+  };
   if (mesh.closed) {
     // Periodic lap: start both sweeps at the slowest steady point, where the speed is known.
     const std::size_t period = n - 1;
     const std::size_t i0 = static_cast<std::size_t>(
         std::min_element(steady.begin(), steady.begin() + static_cast<std::ptrdiff_t>(period)) -
         steady.begin());
+    both(i0, steady[i0], i0, steady[i0]);
     // A sweep that comes round slower than it started (it could not regain the start speed)
-    // is run once more from the speed it arrived at, so that the lap is periodic.
-    auto periodic = [&](Sweep dir) {
-      SweepResult r = sweep(env, mesh, dir, steady, i0, steady[i0]);
-      if (r.speed_mps[i0] < steady[i0]) r = sweep(env, mesh, dir, steady, i0, r.speed_mps[i0]);
-      return r;
-    };
-    fwd = periodic(Sweep::forward);
-    bwd = periodic(Sweep::backward);
+    // runs once more from the speed it arrived at, so that the lap is periodic.
+    if (fwd.speed_mps[i0] < steady[i0])
+      fwd = sweep(env, mesh, Sweep::forward, steady, i0, fwd.speed_mps[i0]);
+    if (bwd.speed_mps[i0] < steady[i0])
+      bwd = sweep(env, mesh, Sweep::backward, steady, i0, bwd.speed_mps[i0]);
   } else {
-    fwd = sweep(env, mesh, Sweep::forward, steady, 0, start_speed_mps);
-    bwd = sweep(env, mesh, Sweep::backward, steady, n - 1, steady[n - 1]);
+    both(0, start_speed_mps, n - 1, steady[n - 1]);
   }
 
   lap.speed_mps.resize(n);
@@ -292,15 +399,16 @@ Lap solve_lap(const Envelope& env, const Mesh& mesh, double start_speed_mps) {
                  : std::clamp(v / car.tyres.rolling_radius_m * pt.gears[static_cast<std::size_t>(gear - 1)] *
                                   pt.final_drive,
                               pt.engine_radps.front(), pt.rev_limit_radps);
-    const double drag = env.drag_n(v), down = env.downforce_n(v);
+    const Envelope::Sample row = env.sample(v);
+    const double drag = row.drag_coef * v * v, down = row.lift_coef * v * v;
     lap.drag_n[i] = drag;
     lap.downforce_n[i] = down;
     // Axle loads, moments about the rear contact patch (REFERENCES: load transfer):
     // front = W cos(th) f + DF bal - D z_D / L - m a_x h / L - W sin(th) h / L.
-    const Slope slope(mesh.grade[i]);
+    const Slope slope(mesh, i);
     const double weight = m * g;
     const double total = weight * slope.cos + down;
-    const double front = weight * slope.cos * car.front_weight + down * env.aero_balance(v) -
+    const double front = weight * slope.cos * car.front_weight + down * row.balance -
                          drag * car.drag_height_m / wb - m * ax * car.cg_height_m / wb -
                          weight * slope.sin * car.cg_height_m / wb;
     lap.front_load_n[i] = front;
@@ -308,5 +416,7 @@ Lap solve_lap(const Envelope& env, const Mesh& mesh, double start_speed_mps) {
   }
   return lap;
 }
+
+Lap LapSolver::take() { return std::move(lap_); }
 
 }  // namespace lapwing

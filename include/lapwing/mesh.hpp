@@ -16,6 +16,7 @@ struct Mesh {
   double length_m = 0.0;
   double step_m = 0.0;
   std::vector<double> s_m, x_m, y_m, heading_rad, curvature_1pm, elevation_m, grade;
+  std::vector<double> cos_slope, sin_slope;  // of the slope angle atan(grade), for the solver
 
   std::size_t size() const { return s_m.size(); }
   std::size_t intervals() const { return s_m.size() - 1; }

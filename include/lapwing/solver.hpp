@@ -28,6 +28,8 @@ struct SteadyProfile {
 /// resistance and grade (friction ellipse), and at which the engine can supply that force
 /// (toms748 bracketing root finder, Boost.Math).
 SteadyProfile steady_profile(const Envelope& env, const Mesh& mesh);
+/// The same, into `out` (its storage reused).
+void steady_profile(const Envelope& env, const Mesh& mesh, SteadyProfile& out);
 
 /// Integrates u = v^2 along the mesh in one direction: forward under drive (with the drive cut
 /// for shift_time after each upshift), backward under braking. Every point is clipped to
@@ -59,5 +61,20 @@ struct Lap {
 /// open ones start at `start_speed_mps` and end free. Throws CannotMove when the car cannot
 /// complete the track.
 Lap solve_lap(const Envelope& env, const Mesh& mesh, double start_speed_mps = 0.0);
+
+/// Solves laps one after another, reusing its buffers (the lap, both sweeps), so that a study
+/// of many laps allocates once. The working state of a lap, kept apart from the Envelope and
+/// the Mesh it reads. One per thread.
+class LapSolver {
+ public:
+  /// As solve_lap; the result stays valid until the next solve.
+  const Lap& solve(const Envelope& env, const Mesh& mesh, double start_speed_mps = 0.0);
+  /// Moves the last lap out.
+  Lap take();
+
+ private:
+  Lap lap_;
+  SweepResult forward_, backward_;
+};
 
 }  // namespace lapwing

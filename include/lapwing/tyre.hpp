@@ -15,20 +15,28 @@ class TyreModel {
       : mu_long0_(t.mu_long),
         mu_lat0_(t.mu_lat),
         nominal_n_(t.nominal_load_n),
-        sensitivity_(t.load_sensitivity),
+        sensitivity_per_n_(t.load_sensitivity / t.nominal_load_n),
         n_(t.ellipse_exponent),
-        quadratic_(t.ellipse_exponent == 2.0) {}
+        quadratic_(t.ellipse_exponent == 2.0),
+        long_per_lat_(t.mu_long / t.mu_lat) {}
 
   /// Load sensitivity (SPEC section 6): mu(Fz) = mu0 (1 - s (Fz - Fn) / Fn), never below 0.1 mu0.
   /// Returns the factor mu(Fz) / mu0 for a per-tyre load Fz in N.
   double mu_factor(double fz_per_tyre_n) const {
-    return std::max(floor_fraction, 1.0 - sensitivity_ * (fz_per_tyre_n - nominal_n_) / nominal_n_);
+    return std::max(floor_fraction, 1.0 - sensitivity_per_n_ * (fz_per_tyre_n - nominal_n_));
   }
 
   /// Peak longitudinal and lateral force of the whole car at total vertical load N (four tyres
   /// sharing N equally).
   double fx_max(double load_n) const { return mu_long0_ * mu_factor(0.25 * load_n) * load_n; }
   double fy_max(double load_n) const { return mu_lat0_ * mu_factor(0.25 * load_n) * load_n; }
+  struct Limits {
+    double fx_max, fy_max;
+  };
+  Limits limits(double load_n) const {
+    const double f = mu_factor(0.25 * load_n) * load_n;
+    return {mu_long0_ * f, mu_lat0_ * f};
+  }
 
   /// Friction ellipse (Fx/Fx_max)^n + (Fy/Fy_max)^n <= 1: the share of Fx_max left when the
   /// tyres carry `lateral_ratio` = |Fy| / Fy_max. Zero when the ratio is 1 or more.
@@ -36,6 +44,17 @@ class TyreModel {
     if (lateral_ratio >= 1.0) return 0.0;
     if (quadratic_) return std::sqrt(1.0 - lateral_ratio * lateral_ratio);
     return std::pow(1.0 - std::pow(lateral_ratio, n_), 1.0 / n_);
+  }
+
+  /// Longitudinal force left by the ellipse at lateral force |fy| <= ... (0 beyond Fy_max).
+  /// For n = 2, Fx_max sqrt(1 - (fy/Fy_max)^2) = (mu_long/mu_lat) sqrt(Fy_max^2 - fy^2): no
+  /// division on the solver's critical path.
+  double long_force_left(const Limits& lim, double fy) const {
+    if (quadratic_) {
+      const double d = lim.fy_max * lim.fy_max - fy * fy;
+      return d > 0.0 ? long_per_lat_ * std::sqrt(d) : 0.0;
+    }
+    return lim.fx_max * long_share_left(std::abs(fy) / lim.fy_max);
   }
 
   /// Ellipse usage (Fx/Fx_max)^n + (Fy/Fy_max)^n for given force ratios (1 = at the limit).
@@ -49,8 +68,11 @@ class TyreModel {
   static constexpr double floor_fraction = 0.1;  // SPEC section 6
 
  private:
-  double mu_long0_, mu_lat0_, nominal_n_, sensitivity_, n_;
+  double mu_long0_, mu_lat0_, nominal_n_;
+  double sensitivity_per_n_;  // load_sensitivity / nominal_load (no division per call)
+  double n_;
   bool quadratic_;
+  double long_per_lat_;
 };
 
 }  // namespace lapwing
