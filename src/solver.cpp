@@ -380,13 +380,14 @@ const Lap& LapSolver::solve(const Envelope& env, const Mesh& mesh, double start_
   lap.downforce_n.resize(n);
   lap.front_load_n.resize(n);
   lap.rear_load_n.resize(n);
+  const double inv_2ds = 0.5 / mesh.step_m, inv_wb = 1.0 / wb;
   for (std::size_t i = 0; i < n; ++i) {
     const double v = lap.speed_mps[i];
     // a = d(v^2)/(2 ds) over the interval that starts at i (the one ending at i for the last).
     const std::size_t a0 = (i + 1 < n) ? i : i - 1;
     const double ax = (lap.speed_mps[a0 + 1] * lap.speed_mps[a0 + 1] -
-                       lap.speed_mps[a0] * lap.speed_mps[a0]) /
-                      (2.0 * mesh.step_m);
+                       lap.speed_mps[a0] * lap.speed_mps[a0]) *
+                      inv_2ds;
     lap.long_accel_mps2[i] = ax;
     lap.lat_accel_mps2[i] = v * v * mesh.curvature_1pm[i];
     // Under drive the gear the forward sweep engaged (held through a shift's cut); under
@@ -409,8 +410,9 @@ const Lap& LapSolver::solve(const Envelope& env, const Mesh& mesh, double start_
     const double weight = m * g;
     const double total = weight * slope.cos + down;
     const double front = weight * slope.cos * car.front_weight + down * row.balance -
-                         drag * car.drag_height_m / wb - m * ax * car.cg_height_m / wb -
-                         weight * slope.sin * car.cg_height_m / wb;
+                         (drag * car.drag_height_m + m * ax * car.cg_height_m +
+                          weight * slope.sin * car.cg_height_m) *
+                             inv_wb;
     lap.front_load_n[i] = front;
     lap.rear_load_n[i] = total - front;
   }
