@@ -14,9 +14,9 @@ StandardAtmosphere standard_atmosphere(double z) {
   assert(h <= tropopause_m && "standard_atmosphere: troposphere only");
   // T = T0 - L H;  p = p0 (T / T0)^(g0 / (R L));  rho = p / (R T).
   const double t = sea_level_temperature_k - lapse_rate_k_per_m * h;
-  const double p = sea_level_pressure_pa *
-                   std::pow(t / sea_level_temperature_k,
-                            units::g0 / (dry_air_gas_constant * lapse_rate_k_per_m));
+  const double p =
+      sea_level_pressure_pa * std::pow(t / sea_level_temperature_k,
+                                       units::g0 / (dry_air_gas_constant * lapse_rate_k_per_m));
   return {t, p, p / (dry_air_gas_constant * t)};
 }
 
@@ -39,9 +39,9 @@ Air make_air(const AirSpec& spec) {
   a.pressure_pa = spec.pressure_pa.value_or(isa.pressure_pa);
   a.relative_humidity = spec.relative_humidity;
   a.standard = !spec.temperature_k && !spec.pressure_pa && spec.relative_humidity == 0.0;
-  a.density_kg_m3 = a.standard ? isa.density_kg_m3
-                               : moist_air_density(a.pressure_pa, a.temperature_k,
-                                                   a.relative_humidity);
+  a.density_kg_m3 = a.standard
+                        ? isa.density_kg_m3
+                        : moist_air_density(a.pressure_pa, a.temperature_k, a.relative_humidity);
   return a;
 }
 

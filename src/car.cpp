@@ -15,7 +15,8 @@ constexpr Range friction{0.0, 3.0, true, false};
 void check_format(Reader& r) {
   const Node& n = r.require("format");
   double v = r.node_quantity(n, Quantity::number, Range{}, "format");
-  if (v != 1.0) r.fail(n, "unsupported format " + n.scalar + " (this lapwing reads format 1)", "format");
+  if (v != 1.0)
+    r.fail(n, "unsupported format " + n.scalar + " (this lapwing reads format 1)", "format");
 }
 
 Tyres read_tyres(Reader r) {
@@ -25,7 +26,8 @@ Tyres read_tyres(Reader r) {
   t.mu_long = r.quantity("mu_long", Quantity::number, friction);
   t.mu_lat = r.quantity("mu_lat", Quantity::number, friction);
   t.nominal_load_n = r.quantity("nominal_load", Quantity::force, positive());
-  t.load_sensitivity = r.quantity_or("load_sensitivity", Quantity::number, Range{0.0, 1.0, false, true}, 0.0);
+  t.load_sensitivity =
+      r.quantity_or("load_sensitivity", Quantity::number, Range{0.0, 1.0, false, true}, 0.0);
   t.ellipse_exponent = r.quantity_or("ellipse_exponent", Quantity::number, Range{1.0, 10.0}, 2.0);
   t.rolling_radius_m = r.quantity("rolling_radius", Quantity::length, Range{0.0, 2.0, true, false});
   t.rolling_resistance =
@@ -74,7 +76,9 @@ Powertrain read_powertrain(Reader r) {
     p.constant_power_w = r.quantity("constant_power", Quantity::power, positive());
     for (const char* k : {"gears", "final_drive", "rev_limit", "shift_time"})
       if (const Node* n = r.get(k))
-        r.fail(*n, std::string("'") + k + "' does not apply with constant_power (ideal transmission)", k);
+        r.fail(*n,
+               std::string("'") + k + "' does not apply with constant_power (ideal transmission)",
+               k);
   } else {
     if (has_torque) {
       read_curve(r.map("torque_curve"), "torque", Quantity::torque, p.engine_radps, p.torque_nm);
@@ -97,7 +101,9 @@ Powertrain read_powertrain(Reader r) {
   }
   p.efficiency = r.quantity_or("efficiency", Quantity::fraction, Range{0.0, 1.0, true, false}, 1.0);
   const std::string axle = r.choice("driven_axle", {"rear", "front", "all"}, "rear");
-  p.driven = axle == "rear" ? DrivenAxle::rear : axle == "front" ? DrivenAxle::front : DrivenAxle::all;
+  p.driven = axle == "rear"    ? DrivenAxle::rear
+             : axle == "front" ? DrivenAxle::front
+                               : DrivenAxle::all;
   r.finish();
   return p;
 }
@@ -117,7 +123,8 @@ AeroConfig read_config(const std::string& name, Reader r) {
   c.cla_m2 = {r.quantity("cla", Quantity::area, Range{0.0, 30.0})};
   c.balance = {r.quantity("balance", Quantity::fraction, Range{0.0, 1.0})};
   c.mass_kg = r.optional_quantity("mass", Quantity::mass, Range{0.0, 1e5, true, false});
-  c.inertia_factor = r.optional_quantity("inertia_factor", Quantity::number, Range{0.0, 1.0, false, true});
+  c.inertia_factor =
+      r.optional_quantity("inertia_factor", Quantity::number, Range{0.0, 1.0, false, true});
   c.cg_height_m = r.optional_quantity("cg_height", Quantity::length, positive());
   c.front_weight = r.optional_quantity("front_weight", Quantity::fraction, open_unit());
   c.drag_height_m = r.optional_quantity("drag_height", Quantity::length, non_negative());
@@ -161,7 +168,8 @@ Car load_car(const std::string& file) {
   car.file = file;
   car.name = r.string("name");
   car.mass_kg = r.quantity("mass", Quantity::mass, Range{0.0, 1e5, true, false});
-  car.inertia_factor = r.quantity_or("inertia_factor", Quantity::number, Range{0.0, 1.0, false, true}, 0.0);
+  car.inertia_factor =
+      r.quantity_or("inertia_factor", Quantity::number, Range{0.0, 1.0, false, true}, 0.0);
   car.wheelbase_m = r.quantity("wheelbase", Quantity::length, Range{0.5, 10.0});
   car.cg_height_m = r.quantity("cg_height", Quantity::length, positive());
   if (car.cg_height_m >= car.wheelbase_m)

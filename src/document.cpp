@@ -20,7 +20,9 @@ const Node* Node::find(std::string_view key) const {
 
 namespace {
 
-Mark to_mark(const YAML::Mark& m) { return Mark{m.line + 1, m.column + 1}; }
+Mark to_mark(const YAML::Mark& m) {
+  return Mark{m.line + 1, m.column + 1};
+}
 
 // Builds a Node tree from parser events, refusing what lapwing's formats do not use.
 class TreeBuilder : public YAML::EventHandler {
@@ -191,9 +193,15 @@ std::string Range::describe() const {
   return "any finite number";
 }
 
-Range positive() { return Range{0.0, 1e308, true, false}; }
-Range non_negative() { return Range{0.0, 1e308, false, false}; }
-Range open_unit() { return Range{0.0, 1.0, true, true}; }
+Range positive() {
+  return Range{0.0, 1e308, true, false};
+}
+Range non_negative() {
+  return Range{0.0, 1e308, false, false};
+}
+Range open_unit() {
+  return Range{0.0, 1.0, true, true};
+}
 
 std::size_t edit_distance(std::string_view a, std::string_view b) {
   std::vector<std::size_t> prev(b.size() + 1), cur(b.size() + 1);
@@ -222,8 +230,7 @@ std::string closest(std::string_view word, const std::vector<std::string>& candi
 
 Reader::Reader(const Document& doc, const Node& node, std::string path)
     : doc_(&doc), node_(&node), path_(std::move(path)) {
-  if (node.kind != Node::Kind::map)
-    fail(node, "expected a map of keys");
+  if (node.kind != Node::Kind::map) fail(node, "expected a map of keys");
 }
 
 std::string Reader::child_path(std::string_view key) const {
@@ -234,7 +241,9 @@ void Reader::fail(const Node& at, const std::string& what, std::string_view key)
   throw InputError(doc_->file, at.mark, what, key.empty() ? path_ : child_path(key));
 }
 
-bool Reader::has(std::string_view key) const { return node_->find(key) != nullptr; }
+bool Reader::has(std::string_view key) const {
+  return node_->find(key) != nullptr;
+}
 
 const Node* Reader::get(std::string_view key) {
   const Node* n = node_->find(key);
@@ -268,12 +277,11 @@ double Reader::node_quantity(const Node& n, Quantity q, Range r, const std::stri
   auto v = parse_quantity(n.scalar, q, err);
   if (!v) throw InputError(doc_->file, n.mark, err, path);
   if (!r.contains(*v))
-    throw InputError(doc_->file, n.mark,
-                     "value " + n.scalar + " is out of range: must be " + r.describe() +
-                         (q == Quantity::number || q == Quantity::fraction
-                              ? std::string()
-                              : " in SI units"),
-                     path);
+    throw InputError(
+        doc_->file, n.mark,
+        "value " + n.scalar + " is out of range: must be " + r.describe() +
+            (q == Quantity::number || q == Quantity::fraction ? std::string() : " in SI units"),
+        path);
   return *v;
 }
 
@@ -332,7 +340,8 @@ std::string Reader::choice(std::string_view key, const std::vector<std::string>&
   std::string list;
   for (const auto& c : choices) list += (list.empty() ? "" : " | ") + c;
   std::string near = closest(s, choices);
-  fail(*n, "'" + s + "' is not one of " + list + (near.empty() ? "" : "; did you mean '" + near + "'?"),
+  fail(*n,
+       "'" + s + "' is not one of " + list + (near.empty() ? "" : "; did you mean '" + near + "'?"),
        key);
 }
 
@@ -360,9 +369,10 @@ void Reader::finish(const std::vector<std::string>& also_known) {
     const std::string& k = node_->entries[i].first;
     if (std::find(read_.begin(), read_.end(), k) != read_.end()) continue;
     std::string near = closest(k, known);
-    throw InputError(doc_->file, node_->key_marks[i],
-                     "unknown key '" + k + "'" + (near.empty() ? "" : "; did you mean '" + near + "'?"),
-                     child_path(k));
+    throw InputError(
+        doc_->file, node_->key_marks[i],
+        "unknown key '" + k + "'" + (near.empty() ? "" : "; did you mean '" + near + "'?"),
+        child_path(k));
   }
 }
 

@@ -58,10 +58,9 @@ Envelope::Envelope(const Car& car, const Air& air, EnvelopeOptions options)
     v_top_ = 0.0;  // cannot move: reported by the solver where it matters
   } else {
     std::uintmax_t iters = 200;
-    auto [lo, hi] = boost::math::tools::toms748_solve(excess, 0.0, v_max_, excess(0.0),
-                                                      excess(v_max_),
-                                                      boost::math::tools::eps_tolerance<double>(48),
-                                                      iters);
+    auto [lo, hi] =
+        boost::math::tools::toms748_solve(excess, 0.0, v_max_, excess(0.0), excess(v_max_),
+                                          boost::math::tools::eps_tolerance<double>(48), iters);
     v_top_ = 0.5 * (lo + hi);
   }
 }

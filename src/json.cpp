@@ -21,11 +21,21 @@ std::string json_quote(std::string_view s) {
   std::string o = "\"";
   for (char c : s) {
     switch (c) {
-      case '"': o += "\\\""; break;
-      case '\\': o += "\\\\"; break;
-      case '\n': o += "\\n"; break;
-      case '\t': o += "\\t"; break;
-      case '\r': o += "\\r"; break;
+      case '"':
+        o += "\\\"";
+        break;
+      case '\\':
+        o += "\\\\";
+        break;
+      case '\n':
+        o += "\\n";
+        break;
+      case '\t':
+        o += "\\t";
+        break;
+      case '\r':
+        o += "\\r";
+        break;
       default:
         if (static_cast<unsigned char>(c) < 0x20) {
           char buf[8];

@@ -112,13 +112,15 @@ Mesh build_mesh(const Track& track, double step_m) {
       std::ostringstream os;
       os.precision(4);
       os << "closed track does not close: the end is " << c.position_gap_m << " m from the start"
-         << " and its heading differs by " << c.heading_gap_rad / units::deg
-         << " deg (tolerance " << closure_position_fraction * 100 << " % of the length = "
-         << closure_position_fraction * length << " m, " << closure_heading_deg << " deg)";
+         << " and its heading differs by " << c.heading_gap_rad / units::deg << " deg (tolerance "
+         << closure_position_fraction * 100
+         << " % of the length = " << closure_position_fraction * length << " m, "
+         << closure_heading_deg << " deg)";
       throw InputError(track.file, track.segments_mark, os.str(), "segments");
     }
   }
-  const std::size_t n = std::max<std::size_t>(2, static_cast<std::size_t>(std::llround(length / step_m)));
+  const std::size_t n =
+      std::max<std::size_t>(2, static_cast<std::size_t>(std::llround(length / step_m)));
   Mesh m;
   m.closed = track.closed;
   m.length_m = length;

@@ -12,10 +12,14 @@
 
 namespace lapwing {
 
-std::string version() { return LAPWING_VERSION; }
+std::string version() {
+  return LAPWING_VERSION;
+}
 
 namespace {
-double kph(double mps) { return mps / units::kph; }
+double kph(double mps) {
+  return mps / units::kph;
+}
 
 std::string csv_field(const std::string& s) {
   if (s.find_first_of(",\"\n") == std::string::npos) return s;
@@ -94,8 +98,7 @@ std::string trace_csv(const Lap& lap, const Mesh& mesh) {
 }
 
 std::string corners_csv(const std::vector<LapSummary>& results) {
-  std::string o =
-      "track,config,id,start_m,apex_m,end_m,entry_kph,apex_kph,exit_kph,time_s,limit\n";
+  std::string o = "track,config,id,start_m,apex_m,end_m,entry_kph,apex_kph,exit_kph,time_s,limit\n";
   for (const auto& s : results) {
     for (const auto& c : s.corners) {
       o += csv_field(s.track_name) + "," + csv_field(s.config) + "," + std::to_string(c.id);

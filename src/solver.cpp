@@ -18,11 +18,16 @@ namespace lapwing {
 
 std::string_view phase_name(Phase p) {
   switch (p) {
-    case Phase::accelerate: return "accelerate";
-    case Phase::brake: return "brake";
-    case Phase::corner: return "corner";
-    case Phase::shift: return "shift";
-    case Phase::top_speed: return "top_speed";
+    case Phase::accelerate:
+      return "accelerate";
+    case Phase::brake:
+      return "brake";
+    case Phase::corner:
+      return "corner";
+    case Phase::shift:
+      return "shift";
+    case Phase::top_speed:
+      return "top_speed";
   }
   return "accelerate";
 }
@@ -78,7 +83,8 @@ double highest_feasible(F f, double v_max, double hint) {
     if (fa <= 0.0) {
       const double fb = f(b);
       if (fb > 0.0)
-        return tools::toms748_solve(f, a, b, fa, fb, tools::eps_tolerance<double>(steady_bits), iters)
+        return tools::toms748_solve(f, a, b, fa, fb, tools::eps_tolerance<double>(steady_bits),
+                                    iters)
             .first;
     }
   }
@@ -187,8 +193,10 @@ class Sweeper {
   double begin_step() {
     const std::size_t i = i_;
     // Next point along the sweep; a closed mesh wraps through its seam (point n-1 == point 0).
-    if (forward_) j_ = (i + 1 == period_ && mesh_.closed) ? 0 : i + 1;
-    else j_ = (i == 0) ? period_ - 1 : i - 1;
+    if (forward_)
+      j_ = (i + 1 == period_ && mesh_.closed) ? 0 : i + 1;
+    else
+      j_ = (i == 0) ? period_ - 1 : i - 1;
     // Curvature varies linearly over the step; the grade is that of the step's first point in
     // distance (piecewise constant along segments).
     k0_ = std::abs(mesh_.curvature_1pm[i]);
@@ -352,10 +360,14 @@ const Lap& LapSolver::solve(const Envelope& env, const Mesh& mesh, double start_
     const double v = std::min(fwd.speed_mps[i], bwd.speed_mps[i]);
     lap.speed_mps[i] = v;
     Phase ph;
-    if (bwd.speed_mps[i] < fwd.speed_mps[i]) ph = Phase::brake;
-    else if (fwd.clipped[i]) ph = lap.steady.limit[i] == SteadyLimit::grip ? Phase::corner : Phase::top_speed;
-    else if (fwd.cut[i]) ph = Phase::shift;
-    else ph = Phase::accelerate;
+    if (bwd.speed_mps[i] < fwd.speed_mps[i])
+      ph = Phase::brake;
+    else if (fwd.clipped[i])
+      ph = lap.steady.limit[i] == SteadyLimit::grip ? Phase::corner : Phase::top_speed;
+    else if (fwd.cut[i])
+      ph = Phase::shift;
+    else
+      ph = Phase::accelerate;
     lap.phase[i] = ph;
   }
 
@@ -385,9 +397,9 @@ const Lap& LapSolver::solve(const Envelope& env, const Mesh& mesh, double start_
     const double v = lap.speed_mps[i];
     // a = d(v^2)/(2 ds) over the interval that starts at i (the one ending at i for the last).
     const std::size_t a0 = (i + 1 < n) ? i : i - 1;
-    const double ax = (lap.speed_mps[a0 + 1] * lap.speed_mps[a0 + 1] -
-                       lap.speed_mps[a0] * lap.speed_mps[a0]) *
-                      inv_2ds;
+    const double ax =
+        (lap.speed_mps[a0 + 1] * lap.speed_mps[a0 + 1] - lap.speed_mps[a0] * lap.speed_mps[a0]) *
+        inv_2ds;
     lap.long_accel_mps2[i] = ax;
     lap.lat_accel_mps2[i] = v * v * mesh.curvature_1pm[i];
     // Under drive the gear the forward sweep engaged (held through a shift's cut); under
@@ -397,8 +409,8 @@ const Lap& LapSolver::solve(const Envelope& env, const Mesh& mesh, double start_
     lap.gear[i] = gear;
     lap.engine_radps[i] =
         pt.ideal ? 0.0
-                 : std::clamp(v / car.tyres.rolling_radius_m * pt.gears[static_cast<std::size_t>(gear - 1)] *
-                                  pt.final_drive,
+                 : std::clamp(v / car.tyres.rolling_radius_m *
+                                  pt.gears[static_cast<std::size_t>(gear - 1)] * pt.final_drive,
                               pt.engine_radps.front(), pt.rev_limit_radps);
     const Envelope::Sample row = env.sample(v);
     const double drag = row.drag_coef * v * v, down = row.lift_coef * v * v;
@@ -419,6 +431,8 @@ const Lap& LapSolver::solve(const Envelope& env, const Mesh& mesh, double start_
   return lap;
 }
 
-Lap LapSolver::take() { return std::move(lap_); }
+Lap LapSolver::take() {
+  return std::move(lap_);
+}
 
 }  // namespace lapwing

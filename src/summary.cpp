@@ -56,9 +56,15 @@ LapSummary summarize(const Lap& lap, const Mesh& mesh, const Track& track,
     r.exit_mps = lap.speed_mps[c.end];
     r.time_s = lap.time_s[c.end] - lap.time_s[c.start];
     switch (lap.phase[apex]) {
-      case Phase::corner: r.limit = "grip"; break;
-      case Phase::brake: r.limit = "braking"; break;
-      default: r.limit = "power"; break;
+      case Phase::corner:
+        r.limit = "grip";
+        break;
+      case Phase::brake:
+        r.limit = "braking";
+        break;
+      default:
+        r.limit = "power";
+        break;
     }
     s.corners.push_back(r);
   }

@@ -42,7 +42,8 @@ Segment read_segment(const Document& doc, const Node& item, const std::string& p
     s.kind = Segment::Kind::arc;
     Reader r(doc, body, p);
     const double radius = r.quantity("radius", Quantity::length, positive());
-    const double angle = r.quantity("angle", Quantity::angle, Range{0.0, 4 * units::pi, true, false});
+    const double angle =
+        r.quantity("angle", Quantity::angle, Range{0.0, 4 * units::pi, true, false});
     const double sign = turn_sign(r);
     s.length_m = radius * angle;
     s.curvature_start_1pm = s.curvature_end_1pm = sign / radius;
@@ -96,22 +97,26 @@ Track load_track(const std::string& file) {
   t.name = r.string("name");
   t.closed = r.boolean_or("closed", true);
   if (const Node* n = r.get("start_speed")) {
-    if (t.closed) r.fail(*n, "start_speed applies to open tracks only (closed: false)", "start_speed");
+    if (t.closed)
+      r.fail(*n, "start_speed applies to open tracks only (closed: false)", "start_speed");
     t.start_speed_mps = r.node_quantity(*n, Quantity::speed, Range{0.0, 150.0}, "start_speed");
     t.start_speed_mark = n->mark;
   }
   t.air.altitude_m = r.quantity_or("altitude", Quantity::length, Range{-500.0, 6000.0}, 0.0);
   if (r.has("ambient")) {
     Reader a = r.map("ambient");
-    t.air.temperature_k = a.optional_quantity("temperature", Quantity::temperature, Range{223.15, 343.15});
-    t.air.pressure_pa = a.optional_quantity("pressure", Quantity::pressure, Range{30000.0, 110000.0});
+    t.air.temperature_k =
+        a.optional_quantity("temperature", Quantity::temperature, Range{223.15, 343.15});
+    t.air.pressure_pa =
+        a.optional_quantity("pressure", Quantity::pressure, Range{30000.0, 110000.0});
     t.air.relative_humidity = a.quantity_or("humidity", Quantity::fraction, Range{0.0, 1.0}, 0.0);
     a.finish();
   }
   t.mesh_m = r.quantity_or("mesh", Quantity::length, Range{0.01, 10.0}, 0.5);
   for (const char* k : {"centerline", "curvature"})
     if (const Node* n = r.get(k))
-      r.fail(*n, std::string("'") + k + "' tracks are not read by this version yet; give segments", k);
+      r.fail(*n, std::string("'") + k + "' tracks are not read by this version yet; give segments",
+             k);
   const Node& segs = r.require("segments");
   t.segments_mark = segs.mark;
   if (segs.kind != Node::Kind::sequence || segs.items.empty())

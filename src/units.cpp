@@ -28,16 +28,16 @@ constexpr double metric_hp = 735.49875;    // PS, SPEC section 1
 template <std::size_t N>
 using Units = std::array<Unit, N>;
 
-constexpr Units<7> length_units{{{"m", 1}, {"mm", 1e-3}, {"cm", 1e-2}, {"km", 1e3}, {"in", inch},
-                                 {"ft", foot}, {"mi", mile}}};
-constexpr Units<4> speed_units{{{"m/s", 1}, {"km/h", units::kph}, {"kph", units::kph},
-                                {"mph", mile / 3600.0}}};
+constexpr Units<7> length_units{
+    {{"m", 1}, {"mm", 1e-3}, {"cm", 1e-2}, {"km", 1e3}, {"in", inch}, {"ft", foot}, {"mi", mile}}};
+constexpr Units<4> speed_units{
+    {{"m/s", 1}, {"km/h", units::kph}, {"kph", units::kph}, {"mph", mile / 3600.0}}};
 constexpr Units<2> mass_units{{{"kg", 1}, {"lb", pound}}};
 constexpr Units<3> force_units{{{"N", 1}, {"kN", 1e3}, {"lbf", pound_force}}};
 constexpr Units<4> power_units{{{"W", 1}, {"kW", 1e3}, {"hp", horsepower}, {"PS", metric_hp}}};
-constexpr Units<4> torque_units{{{"N m", 1}, {"Nm", 1}, {"N*m", 1}, {"lbf ft", pound_force * foot}}};
+constexpr Units<4> torque_units{{{"N m", 1}, {"Nm", 1}, {"N*m", 1}, {"lbf ft", pound_force* foot}}};
 constexpr Units<2> angle_units{{{"deg", units::deg}, {"rad", 1}}};
-constexpr Units<3> area_units{{{"m2", 1}, {"cm2", 1e-4}, {"ft2", foot * foot}}};
+constexpr Units<3> area_units{{{"m2", 1}, {"cm2", 1e-4}, {"ft2", foot* foot}}};
 constexpr Units<3> temperature_units{{{"C", 1, units::celsius_zero_k},
                                       {"K", 1},
                                       {"F", 5.0 / 9.0, units::celsius_zero_k - 32.0 * 5.0 / 9.0}}};
@@ -51,23 +51,37 @@ constexpr Units<1> fraction_units{{{"%", 1e-2}}};
 template <typename F>
 auto with_units(Quantity q, F&& f) {
   switch (q) {
-    case Quantity::length: return f(length_units.data(), length_units.size(), true);
-    case Quantity::speed: return f(speed_units.data(), speed_units.size(), true);
-    case Quantity::mass: return f(mass_units.data(), mass_units.size(), true);
-    case Quantity::force: return f(force_units.data(), force_units.size(), true);
-    case Quantity::power: return f(power_units.data(), power_units.size(), true);
-    case Quantity::torque: return f(torque_units.data(), torque_units.size(), true);
-    case Quantity::angle: return f(angle_units.data(), angle_units.size(), true);
-    case Quantity::area: return f(area_units.data(), area_units.size(), true);
-    case Quantity::temperature: return f(temperature_units.data(), temperature_units.size(), true);
-    case Quantity::pressure: return f(pressure_units.data(), pressure_units.size(), true);
-    case Quantity::stiffness: return f(stiffness_units.data(), stiffness_units.size(), true);
-    case Quantity::time: return f(time_units.data(), time_units.size(), true);
+    case Quantity::length:
+      return f(length_units.data(), length_units.size(), true);
+    case Quantity::speed:
+      return f(speed_units.data(), speed_units.size(), true);
+    case Quantity::mass:
+      return f(mass_units.data(), mass_units.size(), true);
+    case Quantity::force:
+      return f(force_units.data(), force_units.size(), true);
+    case Quantity::power:
+      return f(power_units.data(), power_units.size(), true);
+    case Quantity::torque:
+      return f(torque_units.data(), torque_units.size(), true);
+    case Quantity::angle:
+      return f(angle_units.data(), angle_units.size(), true);
+    case Quantity::area:
+      return f(area_units.data(), area_units.size(), true);
+    case Quantity::temperature:
+      return f(temperature_units.data(), temperature_units.size(), true);
+    case Quantity::pressure:
+      return f(pressure_units.data(), pressure_units.size(), true);
+    case Quantity::stiffness:
+      return f(stiffness_units.data(), stiffness_units.size(), true);
+    case Quantity::time:
+      return f(time_units.data(), time_units.size(), true);
     case Quantity::engine_speed:
       return f(engine_speed_units.data(), engine_speed_units.size(), true);
     // A plain fraction is in (0..1); "%" is the only unit and is not the default.
-    case Quantity::fraction: return f(fraction_units.data(), fraction_units.size(), false);
-    case Quantity::number: break;
+    case Quantity::fraction:
+      return f(fraction_units.data(), fraction_units.size(), false);
+    case Quantity::number:
+      break;
   }
   return f(static_cast<const Unit*>(nullptr), std::size_t{0}, false);
 }
@@ -82,21 +96,36 @@ std::string_view trim(std::string_view s) {
 
 std::string_view quantity_name(Quantity q) {
   switch (q) {
-    case Quantity::length: return "length";
-    case Quantity::speed: return "speed";
-    case Quantity::mass: return "mass";
-    case Quantity::force: return "force";
-    case Quantity::power: return "power";
-    case Quantity::torque: return "torque";
-    case Quantity::angle: return "angle";
-    case Quantity::area: return "area";
-    case Quantity::temperature: return "temperature";
-    case Quantity::pressure: return "pressure";
-    case Quantity::stiffness: return "stiffness";
-    case Quantity::time: return "time";
-    case Quantity::engine_speed: return "engine speed";
-    case Quantity::fraction: return "fraction";
-    case Quantity::number: return "number";
+    case Quantity::length:
+      return "length";
+    case Quantity::speed:
+      return "speed";
+    case Quantity::mass:
+      return "mass";
+    case Quantity::force:
+      return "force";
+    case Quantity::power:
+      return "power";
+    case Quantity::torque:
+      return "torque";
+    case Quantity::angle:
+      return "angle";
+    case Quantity::area:
+      return "area";
+    case Quantity::temperature:
+      return "temperature";
+    case Quantity::pressure:
+      return "pressure";
+    case Quantity::stiffness:
+      return "stiffness";
+    case Quantity::time:
+      return "time";
+    case Quantity::engine_speed:
+      return "engine speed";
+    case Quantity::fraction:
+      return "fraction";
+    case Quantity::number:
+      return "number";
   }
   return "number";
 }

@@ -16,7 +16,8 @@ Mesh laid(std::vector<Segment> segs) {
 }  // namespace
 
 TEST_CASE("an arc between straights is one corner spanning the arc") {
-  const Mesh m = laid({test::straight(100), test::arc(40, units::pi / 2, false), test::straight(100)});
+  const Mesh m =
+      laid({test::straight(100), test::arc(40, units::pi / 2, false), test::straight(100)});
   const auto c = find_corners(m);
   REQUIRE(c.size() == 1);
   CHECK(c[0].direction == -1);

@@ -33,7 +33,8 @@ TEST_CASE("errors carry FILE:LINE:COL and the key path") {
 }
 
 TEST_CASE("duplicate keys, aliases, anchors and tags are refused") {
-  CHECK(error_of("mass: 640\nmass: 650\n").find("x.yaml:2:1: error: duplicate key 'mass' (first given at line 1)") == 0);
+  CHECK(error_of("mass: 640\nmass: 650\n")
+            .find("x.yaml:2:1: error: duplicate key 'mass' (first given at line 1)") == 0);
   CHECK(error_of("a: &m 640\nmass: *m\n").find("anchors") != std::string::npos);
   CHECK(error_of("mass: !!float 640\n").find("tags are not accepted") != std::string::npos);
 }
@@ -72,5 +73,6 @@ TEST_CASE("a missing key beside a misspelt one names the misspelling, not a vali
   };
   // 'cda' is a valid key one edit from 'cla': the error is the missing 'cla'.
   CHECK(run("cda: 1\n") == "c.yaml:1:1: error: missing key 'cla' (cla)");
-  CHECK(run("cda: 1\nclaa: 3\n") == "c.yaml:2:1: error: unknown key 'claa'; did you mean 'cla'? (claa)");
+  CHECK(run("cda: 1\nclaa: 3\n") ==
+        "c.yaml:2:1: error: unknown key 'claa'; did you mean 'cla'? (claa)");
 }

@@ -39,7 +39,8 @@ TEST_CASE("steady circle speed matches sqrt(mu g R) without aero (Milliken; 0.1 
   }
 }
 
-TEST_CASE("steady circle with downforce: v^2 = mu g R / (1 - mu rho ClA R / (2 m)) (Milliken; 0.1 %)") {
+TEST_CASE(
+    "steady circle with downforce: v^2 = mu g R / (1 - mu rho ClA R / (2 m)) (Milliken; 0.1 %)") {
   Car car = test::plain_car(600.0, 1.5);
   car.configs.front().cla_m2 = {3.0};
   const double radius = 50.0, rho = sea_level.density_kg_m3;
@@ -64,7 +65,8 @@ TEST_CASE("braking distance on the level is v^2 / (2 mu g) (Gillespie; 0.2 %)") 
   }
 }
 
-TEST_CASE("constant power sprint: traction-limited, then v^3 = v*^3 + 3 P s / m (REFERENCES; 0.2 %)") {
+TEST_CASE(
+    "constant power sprint: traction-limited, then v^3 = v*^3 + 3 P s / m (REFERENCES; 0.2 %)") {
   const double m = 600.0, mu = 1.0, power = 200e3, length = 400.0;
   const Car car = test::plain_car(m, mu, power);
   const Lap lap = solve(car, test::straight_track(length, 0.1, 0.0));
@@ -120,10 +122,12 @@ TEST_CASE("forward and backward sweeps are mirror images when drive and braking 
   const std::size_t n = mesh.size();
   const SweepResult f = sweep(env, mesh, Sweep::forward, free, 0, 12.0);
   const SweepResult b = sweep(env, mesh, Sweep::backward, free, n - 1, 12.0);
-  for (std::size_t i = 0; i < n; i += 50) CHECK(near(f.speed_mps[i], b.speed_mps[n - 1 - i], 1e-12));
+  for (std::size_t i = 0; i < n; i += 50)
+    CHECK(near(f.speed_mps[i], b.speed_mps[n - 1 - i], 1e-12));
 }
 
-TEST_CASE("the lap never goes faster than either sweep or the steady limit, and holds the ellipse") {
+TEST_CASE(
+    "the lap never goes faster than either sweep or the steady limit, and holds the ellipse") {
   const Car car = load_car(test::source_path("cars/pellion-fr2.yaml")).configured(1);
   const Track track = load_track(test::source_path("tracks/brannock-park.yaml"));
   const Envelope env(car, make_air(track.air));

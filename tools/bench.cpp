@@ -27,9 +27,12 @@ int main(int argc, char** argv) {
   double mesh_m = 0.5;
   for (int i = 3; i < argc; ++i) {
     const std::string a = argv[i];
-    if (a == "--laps" && i + 1 < argc) laps = std::atoi(argv[++i]);
-    else if (a == "--mesh" && i + 1 < argc) mesh_m = std::atof(argv[++i]);
-    else config = a;
+    if (a == "--laps" && i + 1 < argc)
+      laps = std::atoi(argv[++i]);
+    else if (a == "--mesh" && i + 1 < argc)
+      mesh_m = std::atof(argv[++i]);
+    else
+      config = a;
   }
   try {
     const Car car = load_car(argv[1]);
@@ -47,7 +50,8 @@ int main(int argc, char** argv) {
       const Envelope env(configured, air);
       sink += env.top_speed_level_mps();
     }
-    const double envelope_s = std::chrono::duration<double>(clock::now() - t0).count() / envelope_builds;
+    const double envelope_s =
+        std::chrono::duration<double>(clock::now() - t0).count() / envelope_builds;
 
     const Envelope env(configured, air);
     // One solver reused lap after lap, as a study does. The laps run in batches; the fastest
@@ -70,9 +74,10 @@ int main(int argc, char** argv) {
                 configured.configs.front().name.c_str(), warm.lap_time_s);
     std::printf("envelope build: %.3f ms (mean of %d)\n", envelope_s * 1e3, envelope_builds);
     const double points = static_cast<double>(mesh.size());
-    std::printf("lap solve (fastest of %d batches of %d laps): %.3f ms per lap, %.1f laps/s, "
-                "%.1f ns per mesh point per lap\n",
-                batches, per_batch, per_lap * 1e3, 1.0 / per_lap, per_lap * 1e9 / points);
+    std::printf(
+        "lap solve (fastest of %d batches of %d laps): %.3f ms per lap, %.1f laps/s, "
+        "%.1f ns per mesh point per lap\n",
+        batches, per_batch, per_lap * 1e3, 1.0 / per_lap, per_lap * 1e9 / points);
     std::printf("lap solve (median batch): %.3f ms per lap, %.1f ns per mesh point per lap\n",
                 median * 1e3, median * 1e9 / points);
     if (sink == 0.0) std::printf("\n");  // keeps the work observable

@@ -8,11 +8,11 @@
 namespace lapwing {
 
 struct Tyres {
-  double mu_long;            // peak longitudinal friction coefficient at nominal load
-  double mu_lat;             // peak lateral friction coefficient at nominal load
-  double nominal_load_n;     // per tyre
-  double load_sensitivity;   // fractional fall of mu per +100 % load over nominal
-  double ellipse_exponent;   // n in (Fx/Fx_max)^n + (Fy/Fy_max)^n <= 1
+  double mu_long;           // peak longitudinal friction coefficient at nominal load
+  double mu_lat;            // peak lateral friction coefficient at nominal load
+  double nominal_load_n;    // per tyre
+  double load_sensitivity;  // fractional fall of mu per +100 % load over nominal
+  double ellipse_exponent;  // n in (Fx/Fx_max)^n + (Fy/Fy_max)^n <= 1
   double rolling_radius_m;
   double rolling_resistance;  // coefficient of the vertical load
 };
@@ -20,8 +20,8 @@ struct Tyres {
 enum class DrivenAxle { rear, front, all };
 
 struct Powertrain {
-  bool ideal = false;               // constant power through an ideal transmission (no gears)
-  double constant_power_w = 0.0;    // when ideal
+  bool ideal = false;                // constant power through an ideal transmission (no gears)
+  double constant_power_w = 0.0;     // when ideal
   std::vector<double> engine_radps;  // torque curve abscissae, strictly increasing (rad/s)
   std::vector<double> torque_nm;     // engine torque at engine_radps
   double rev_limit_radps = 0.0;

@@ -71,7 +71,7 @@ class Reader {
   void keys(std::vector<std::string> allowed) { allowed_ = std::move(allowed); }
 
   bool has(std::string_view key) const;
-  const Node* get(std::string_view key);       // marks the key as read; nullptr when absent
+  const Node* get(std::string_view key);      // marks the key as read; nullptr when absent
   const Node& require(std::string_view key);  // error when absent
 
   double quantity(std::string_view key, Quantity q, Range r);
@@ -102,8 +102,8 @@ class Reader {
   const Document* doc_;
   const Node* node_;
   std::string path_;
-  std::vector<std::string> read_;   // keys present and taken
-  std::vector<std::string> asked_;  // every key asked for: the known keys, for suggestions
+  std::vector<std::string> read_;     // keys present and taken
+  std::vector<std::string> asked_;    // every key asked for: the known keys, for suggestions
   std::vector<std::string> allowed_;  // declared keys (optional)
 };
 

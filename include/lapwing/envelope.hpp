@@ -28,7 +28,7 @@ class Envelope {
   double mass_kg() const { return mass_; }
   double effective_mass_kg() const { return mass_eff_; }  // m (1 + inertia_factor)
   double air_density() const { return rho_; }
-  double max_speed_mps() const { return v_max_; }  // top of the table: rev limit in top gear
+  double max_speed_mps() const { return v_max_; }        // top of the table: rev limit in top gear
   double top_speed_level_mps() const { return v_top_; }  // drive = resistance on the level
   bool rev_limited() const { return rev_limited_; }
   const TyreModel& tyres() const { return tyres_; }
@@ -38,10 +38,10 @@ class Envelope {
   /// The speed-dependent quantities at one speed, read from the table with one index
   /// computation (linear between rows; rows at the table's ends outside it).
   struct Sample {
-    double drive_n;      // at the wheels, best gear
-    double drag_coef;    // 0.5 rho CdA(v): drag = drag_coef v^2
-    double lift_coef;    // 0.5 rho ClA(v): downforce = lift_coef v^2
-    double balance;      // front share of downforce
+    double drive_n;    // at the wheels, best gear
+    double drag_coef;  // 0.5 rho CdA(v): drag = drag_coef v^2
+    double lift_coef;  // 0.5 rho ClA(v): downforce = lift_coef v^2
+    double balance;    // front share of downforce
   };
   /// The row at speed squared u = v^2 (m^2/s^2).
   Sample sample_sq(double u) const {

@@ -26,7 +26,9 @@ class JsonWriter {
   JsonWriter& value(const char* s) { return value(std::string_view(s)); }
   JsonWriter& numbers(const std::vector<double>& v);  // an array of numbers on one line
   template <typename T>
-  JsonWriter& field(std::string_view k, const T& v) { return key(k).value(v); }
+  JsonWriter& field(std::string_view k, const T& v) {
+    return key(k).value(v);
+  }
 
   /// The text (with a final newline); all containers must be closed.
   std::string str() const;

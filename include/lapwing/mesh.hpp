@@ -24,10 +24,10 @@ struct Mesh {
 
 /// How far the end of the path is from its start (what a closed track must bring to zero).
 struct Closure {
-  double position_gap_m;    // distance from the end point to the start point
-  double heading_gap_rad;   // end heading minus start heading, wrapped to (-pi, pi]
-  double elevation_gap_m;   // end elevation minus start elevation
-  double turning_rad;       // total heading change along the path
+  double position_gap_m;   // distance from the end point to the start point
+  double heading_gap_rad;  // end heading minus start heading, wrapped to (-pi, pi]
+  double elevation_gap_m;  // end elevation minus start elevation
+  double turning_rad;      // total heading change along the path
 };
 
 Closure closure(const Track& track);

@@ -45,7 +45,7 @@ std::optional<double> parse_quantity(std::string_view text, Quantity q, std::str
 std::optional<double> parse_number(std::string_view text);
 
 namespace units {
-inline constexpr double g0 = 9.80665;             // standard gravity, m/s^2 (CGPM 1901)
+inline constexpr double g0 = 9.80665;  // standard gravity, m/s^2 (CGPM 1901)
 inline constexpr double pi = 3.14159265358979323846;
 inline constexpr double kph = 1.0 / 3.6;          // m/s per km/h
 inline constexpr double rpm = 2.0 * pi / 60.0;    // rad/s per rpm

@@ -20,7 +20,9 @@ namespace lapwing::cli {
 
 namespace {
 
-double kph(double mps) { return mps / units::kph; }
+double kph(double mps) {
+  return mps / units::kph;
+}
 
 std::string describe_air(const Air& a) {
   std::string s = fixed(a.density_kg_m3, 4) + " kg/m3 (";
@@ -78,8 +80,12 @@ int check(const CheckOptions& o) {
   std::vector<std::vector<std::string>> rows;
   JsonWriter j;
   j.begin_object().field("lapwing", version());
-  j.key("car").begin_object().field("name", car.name).field("mass_kg", car.mass_kg)
-      .field("front_weight", car.front_weight).field("wheelbase_m", car.wheelbase_m)
+  j.key("car")
+      .begin_object()
+      .field("name", car.name)
+      .field("mass_kg", car.mass_kg)
+      .field("front_weight", car.front_weight)
+      .field("wheelbase_m", car.wheelbase_m)
       .field("cg_height_m", car.cg_height_m);
   j.key("configs").begin_array();
   for (std::size_t c = 0; c < car.configs.size(); ++c) {
@@ -90,10 +96,14 @@ int check(const CheckOptions& o) {
     rows.push_back({a.name, fixed(cda, 3), fixed(cla, 3), cda > 0 ? fixed(cla / cda, 2) : "-",
                     fixed(100 * a.balance.front(), 1), fixed(kph(env.top_speed_level_mps()), 1),
                     env.rev_limited() ? "rev limit" : "drag"});
-    j.begin_object().field("name", a.name).field("cda_m2", cda).field("cla_m2", cla)
+    j.begin_object()
+        .field("name", a.name)
+        .field("cda_m2", cda)
+        .field("cla_m2", cla)
         .field("aero_balance", a.balance.front())
         .field("top_speed_sea_level_kph", kph(env.top_speed_level_mps()))
-        .field("top_speed_limit", env.rev_limited() ? "rev limit" : "drag").end_object();
+        .field("top_speed_limit", env.rev_limited() ? "rev limit" : "drag")
+        .end_object();
   }
   j.end_array().end_object();
   out += text_table({"config", "CdA m2", "ClA m2", "L/D", "aero balance %",
@@ -111,8 +121,11 @@ int check(const CheckOptions& o) {
            "\n       air " + describe_air(t.air) + ", mesh " + fixed(t.mesh.step_m, 4) + " m (" +
            std::to_string(t.mesh.intervals()) + " steps)\n";
     std::vector<std::vector<std::string>> trows;
-    j.begin_object().field("name", t.track.name).field("file", t.track.file)
-        .field("closed", t.track.closed).field("length_m", t.mesh.length_m)
+    j.begin_object()
+        .field("name", t.track.name)
+        .field("file", t.track.file)
+        .field("closed", t.track.closed)
+        .field("length_m", t.mesh.length_m)
         .field("closure_gap_m", cl.position_gap_m)
         .field("closure_heading_deg", cl.heading_gap_rad / units::deg)
         .field("elevation_gap_m", cl.elevation_gap_m)
@@ -122,8 +135,10 @@ int check(const CheckOptions& o) {
     for (std::size_t c = 0; c < car.configs.size(); ++c) {
       const Envelope env(car.configured(c), t.air);
       trows.push_back({car.configs[c].name, fixed(kph(env.top_speed_level_mps()), 1)});
-      j.begin_object().field("name", car.configs[c].name)
-          .field("top_speed_kph", kph(env.top_speed_level_mps())).end_object();
+      j.begin_object()
+          .field("name", car.configs[c].name)
+          .field("top_speed_kph", kph(env.top_speed_level_mps()))
+          .end_object();
     }
     j.end_array().end_object();
     out += text_table({"config", "top speed km/h (this air, level)"}, trows);

@@ -10,8 +10,9 @@
 
 int main(int argc, char** argv) {
   using namespace lapwing;
-  CLI::App app{"lapwing: lap times, corner limits and aero trade-offs from a car file, its aero "
-               "configurations and track curvature profiles"};
+  CLI::App app{
+      "lapwing: lap times, corner limits and aero trade-offs from a car file, its aero "
+      "configurations and track curvature profiles"};
   app.set_version_flag("--version", version());
   app.require_subcommand(1);
   app.footer("Run 'lapwing COMMAND --help' for a command's options and an example.");
@@ -21,7 +22,8 @@ int main(int argc, char** argv) {
   check->add_option("--car", check_o.car, "Car file (YAML)")->required();
   check->add_option("--track", check_o.tracks, "Track file(s) (YAML)");
   check->add_option("--json", check_o.json, "Also write the findings as JSON to FILE");
-  check->footer("Example:\n  lapwing check --car cars/tern-fr.yaml --track tracks/kestrel-park.yaml");
+  check->footer(
+      "Example:\n  lapwing check --car cars/tern-fr.yaml --track tracks/kestrel-park.yaml");
 
   cli::RunOptions run_o;
   auto* run = app.add_subcommand("run", "Simulate one lap of one track with one aero config");
