@@ -114,25 +114,221 @@ bool is_word(const std::string& s) {
   });
 }
 
-AeroConfig read_config(const std::string& name, Reader r) {
+// A list of quantities under `key` that must have `n` entries (a table's column).
+std::vector<double> column(Reader& r, std::string_view key, Quantity q, Range range, std::size_t n,
+                           std::string_view against) {
+  std::vector<double> v = r.quantities(key, q, range);
+  if (v.size() != n)
+    r.fail(*r.node().find(key),
+           "size differs from " + std::string(against) + ": expected " + std::to_string(n) +
+               ", got " + std::to_string(v.size()),
+           key);
+  return v;
+}
+
+void read_speed_table(Reader t, AeroConfig& c) {
+  c.speed_mps = t.quantities("speed", Quantity::speed, non_negative());
+  if (c.speed_mps.size() < 2)
+    t.fail(*t.node().find("speed"), "a table needs at least 2 rows", "speed");
+  check_increasing(t, "speed", c.speed_mps, true);
+  const std::size_t n = c.speed_mps.size();
+  c.cda_m2 = column(t, "cda", Quantity::area, Range{0.0, 20.0}, n, "speed");
+  c.cla_m2 = column(t, "cla", Quantity::area, Range{0.0, 30.0}, n, "speed");
+  c.balance = column(t, "balance", Quantity::fraction, Range{0.0, 1.0}, n, "speed");
+  t.finish();
+}
+
+void read_forces(Reader f, AeroConfig& c, double wheelbase) {
+  const double speed = f.quantity("speed", Quantity::speed, Range{0.0, 200.0, true, false});
+  const double density = f.quantity("density", Quantity::number, Range{0.5, 1.5});
+  const Node& list = f.require("parts");
+  if (list.kind != Node::Kind::sequence || list.items.empty())
+    f.fail(list, "expected a non-empty list of parts", "parts");
+  std::vector<AeroPart> parts;
+  for (std::size_t i = 0; i < list.items.size(); ++i) {
+    Reader p(f.doc(), list.items[i], f.child_path("parts") + "[" + std::to_string(i) + "]");
+    p.keys({"name", "drag", "downforce", "x", "z"});
+    AeroPart part;
+    part.name = p.string_or("name", "part " + std::to_string(i + 1));
+    part.drag_n = p.quantity("drag", Quantity::force, non_negative());
+    part.downforce_n = p.quantity("downforce", Quantity::force, Range{-1e6, 1e6});
+    part.x_m = p.quantity("x", Quantity::length, Range{-5.0, 15.0});
+    part.z_m = p.quantity("z", Quantity::length, Range{0.0, 3.0});
+    p.finish();
+    parts.push_back(part);
+  }
+  double down = 0.0;
+  for (const auto& p : parts) down += p.downforce_n;
+  if (!(down > 0.0))
+    f.fail(list,
+           "the parts' downforce sums to " + std::to_string(down) + " N: net lift is not modelled",
+           "parts");
+  const PartsReduction red = reduce_parts(parts, speed, density, wheelbase);
+  if (red.balance < 0.0 || red.balance > 1.0)
+    f.fail(list,
+           "the parts put " + std::to_string(100 * red.balance) +
+               " % of the downforce on the front axle: outside 0..100 %",
+           "parts");
+  if (red.cla_m2 > 30.0 || red.cda_m2 > 20.0)
+    f.fail(list,
+           "the parts give CdA " + std::to_string(red.cda_m2) + " m2, ClA " +
+               std::to_string(red.cla_m2) + " m2: beyond the ranges of a config",
+           "parts");
+  c.cda_m2 = {red.cda_m2};
+  c.cla_m2 = {red.cla_m2};
+  c.balance = {red.balance};
+  c.drag_height_m = red.drag_height_m;
+  f.finish();
+}
+
+Eigen::MatrixXd read_grid(Reader& m, std::string_view key, Range range, std::size_t rows,
+                          std::size_t cols) {
+  const Node& g = m.require(key);
+  const std::string path = m.child_path(key);
+  if (g.kind != Node::Kind::sequence)
+    m.fail(g, "expected a list of rows, one per front ride height", key);
+  if (g.items.size() != rows)
+    m.fail(g,
+           "rows differ from front: expected " + std::to_string(rows) + ", got " +
+               std::to_string(g.items.size()),
+           key);
+  Eigen::MatrixXd out(static_cast<Eigen::Index>(rows), static_cast<Eigen::Index>(cols));
+  for (std::size_t i = 0; i < rows; ++i) {
+    const Node& row = g.items[i];
+    const std::string rp = path + "[" + std::to_string(i) + "]";
+    if (row.kind != Node::Kind::sequence || row.items.size() != cols)
+      throw InputError(m.doc().file, row.mark,
+                       "columns differ from rear: expected " + std::to_string(cols) + ", got " +
+                           std::to_string(row.kind == Node::Kind::sequence ? row.items.size() : 0),
+                       rp);
+    for (std::size_t j = 0; j < cols; ++j)
+      out(static_cast<Eigen::Index>(i), static_cast<Eigen::Index>(j)) = m.node_quantity(
+          row.items[j], Quantity::number, range, rp + "[" + std::to_string(j) + "]");
+  }
+  return out;
+}
+
+void read_ride_height_map(Reader& c, Reader m, AeroConfig& a) {
+  RideHeightMap map;
+  map.front_m = m.quantities("front", Quantity::length, Range{-0.5, 1.0});
+  map.rear_m = m.quantities("rear", Quantity::length, Range{-0.5, 1.0});
+  for (const char* k : {"front", "rear"}) {
+    const auto& axis = std::string(k) == "front" ? map.front_m : map.rear_m;
+    if (axis.size() < 2) m.fail(*m.node().find(k), "a map needs at least 2 points per axis", k);
+    check_increasing(m, k, axis, true);
+  }
+  map.cda_m2 = read_grid(m, "cda", Range{0.0, 20.0}, map.front_m.size(), map.rear_m.size());
+  map.cla_m2 = read_grid(m, "cla", Range{0.0, 30.0}, map.front_m.size(), map.rear_m.size());
+  map.balance = read_grid(m, "balance", Range{0.0, 1.0}, map.front_m.size(), map.rear_m.size());
+  m.finish();
+  {
+    Reader s = c.map("static_ride_height");
+    s.keys({"front", "rear"});
+    map.static_front_m = s.quantity("front", Quantity::length, Range{0.0, 1.0, true, false});
+    map.static_rear_m = s.quantity("rear", Quantity::length, Range{0.0, 1.0, true, false});
+    s.finish();
+  }
+  {
+    Reader k = c.map("heave_stiffness");
+    k.keys({"front", "rear"});
+    map.stiffness_front_npm =
+        k.quantity("front", Quantity::stiffness, Range{0.0, 1e9, true, false});
+    map.stiffness_rear_npm = k.quantity("rear", Quantity::stiffness, Range{0.0, 1e9, true, false});
+    k.finish();
+  }
+  // The coefficients at rest stand for the config where one number is asked for (check).
+  const MapCoefficients at_rest = map_coefficients(map, map.static_front_m, map.static_rear_m);
+  a.cda_m2 = {at_rest.cda_m2};
+  a.cla_m2 = {at_rest.cla_m2};
+  a.balance = {at_rest.balance};
+  a.map = std::move(map);
+}
+
+StraightTrim read_trim(Reader t) {
+  t.keys({"cda", "cla", "balance", "below_curvature"});
+  StraightTrim s;
+  s.dcda_m2 = t.quantity_or("cda", Quantity::area, Range{-20.0, 20.0}, 0.0);
+  s.dcla_m2 = t.quantity_or("cla", Quantity::area, Range{-30.0, 30.0}, 0.0);
+  s.dbalance = t.quantity_or("balance", Quantity::number, Range{-1.0, 1.0}, 0.0);
+  // A curvature in 1/m, or given as the radius above which the car counts as on a straight.
+  s.below_curvature_1pm =
+      t.quantity("below_curvature", Quantity::number, Range{0.0, 1.0, true, false});
+  t.finish();
+  return s;
+}
+
+AeroConfig read_config(const std::string& name, Reader r, double wheelbase) {
   AeroConfig c;
   c.name = name;
-  r.keys({"cda", "cla", "balance", "mass", "inertia_factor", "cg_height", "front_weight",
+  c.file = r.doc().file;
+  c.mark = r.node().mark;
+  r.keys({"cda", "cla", "balance", "speed_table", "forces", "ride_height_map", "static_ride_height",
+          "heave_stiffness", "straight_trim", "mass", "inertia_factor", "cg_height", "front_weight",
           "drag_height"});
-  c.cda_m2 = {r.quantity("cda", Quantity::area, Range{0.0, 20.0})};
-  c.cla_m2 = {r.quantity("cla", Quantity::area, Range{0.0, 30.0})};
-  c.balance = {r.quantity("balance", Quantity::fraction, Range{0.0, 1.0})};
+  const int forms = int(r.has("cda") || r.has("cla") || r.has("balance")) +
+                    int(r.has("speed_table")) + int(r.has("forces")) +
+                    int(r.has("ride_height_map"));
+  if (forms != 1)
+    r.fail(r.node(),
+           "give exactly one of {cda, cla, balance}, speed_table, forces, ride_height_map");
+  if (r.has("speed_table")) {
+    c.form = AeroConfig::Form::speed_table;
+    read_speed_table(r.map("speed_table"), c);
+  } else if (r.has("forces")) {
+    c.form = AeroConfig::Form::forces;
+    if (const Node* n = r.get("drag_height"))
+      r.fail(*n, "drag_height comes from the parts' z with forces", "drag_height");
+    read_forces(r.map("forces"), c, wheelbase);
+  } else if (r.has("ride_height_map")) {
+    c.form = AeroConfig::Form::ride_height_map;
+    read_ride_height_map(r, r.map("ride_height_map"), c);
+  } else {
+    c.cda_m2 = {r.quantity("cda", Quantity::area, Range{0.0, 20.0})};
+    c.cla_m2 = {r.quantity("cla", Quantity::area, Range{0.0, 30.0})};
+    c.balance = {r.quantity("balance", Quantity::fraction, Range{0.0, 1.0})};
+  }
+  if (!c.map)
+    for (const char* k : {"static_ride_height", "heave_stiffness"})
+      if (const Node* n = r.get(k)) r.fail(*n, std::string(k) + " goes with ride_height_map", k);
+  if (r.has("straight_trim")) {
+    c.trim = read_trim(r.map("straight_trim"));
+    // Rows known now are checked now; a map's are checked where its ride heights are solved.
+    for (std::size_t k = 0; k < c.cda_m2.size() && !c.map; ++k) {
+      const double cda = c.cda_m2[k] + c.trim->dcda_m2, cla = c.cla_m2[k] + c.trim->dcla_m2,
+                   bal = c.balance[k] + c.trim->dbalance;
+      if (cda < 0.0 || cla < 0.0 || bal < 0.0 || bal > 1.0)
+        r.fail(*r.node().find("straight_trim"),
+               "straight_trim takes CdA, ClA or balance out of range (CdA " + std::to_string(cda) +
+                   " m2, ClA " + std::to_string(cla) + " m2, balance " + std::to_string(bal) + ")",
+               "straight_trim");
+    }
+  }
   c.mass_kg = r.optional_quantity("mass", Quantity::mass, Range{0.0, 1e5, true, false});
   c.inertia_factor =
       r.optional_quantity("inertia_factor", Quantity::number, Range{0.0, 1.0, false, true});
   c.cg_height_m = r.optional_quantity("cg_height", Quantity::length, positive());
   c.front_weight = r.optional_quantity("front_weight", Quantity::fraction, open_unit());
-  c.drag_height_m = r.optional_quantity("drag_height", Quantity::length, non_negative());
+  if (c.form != AeroConfig::Form::forces)
+    c.drag_height_m = r.optional_quantity("drag_height", Quantity::length, non_negative());
   r.finish();
   return c;
 }
 
 }  // namespace
+
+std::string_view form_name(AeroConfig::Form f) {
+  switch (f) {
+    case AeroConfig::Form::constant:
+      return "constant";
+    case AeroConfig::Form::speed_table:
+      return "speed_table";
+    case AeroConfig::Form::forces:
+      return "forces";
+    case AeroConfig::Form::ride_height_map:
+      return "ride_height_map";
+  }
+  return "constant";
+}
 
 int Car::config_index(const std::string& n) const {
   for (std::size_t i = 0; i < configs.size(); ++i)
@@ -193,7 +389,7 @@ Car load_car(const std::string& file) {
                        "config name '" + name + "' must use letters, digits, '_' or '-' only",
                        "aero.configs." + name);
     Reader cr(doc, node, "aero.configs." + name);
-    car.configs.push_back(read_config(name, cr));
+    car.configs.push_back(read_config(name, cr, car.wheelbase_m));
     const AeroConfig& c = car.configs.back();
     if (c.cg_height_m && *c.cg_height_m >= car.wheelbase_m)
       cr.fail(*node.find("cg_height"), "cg_height must be below the wheelbase", "cg_height");

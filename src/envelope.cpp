@@ -5,7 +5,11 @@
 #include <algorithm>
 #include <cassert>
 #include <cmath>
+#include <functional>
+#include <stdexcept>
+#include <string>
 
+#include "lapwing/error.hpp"
 #include "lapwing/powertrain.hpp"
 #include "lapwing/units.hpp"
 
@@ -38,19 +42,68 @@ Envelope::Envelope(const Car& car, const Air& air, EnvelopeOptions options)
   du_ = v_max_ * v_max_ / static_cast<double>(options.speed_points - 1);
   inv_du_ = 1.0 / du_;
   const std::size_t n = options.speed_points;
+  // Aero coefficients over speed: from the config's rows, or from ride heights solved at each
+  // speed of a grid (with continuation from the last) for a ride-height map.
+  std::function<AeroPoint(double)> aero_at;
+  if (a.map) {
+    constexpr double map_step_mps = 0.5;
+    const std::size_t steps = static_cast<std::size_t>(std::ceil(v_max_ / map_step_mps));
+    map_dv_ = v_max_ / static_cast<double>(steps);
+    double hf = a.map->static_front_m, hr = a.map->static_rear_m;
+    for (std::size_t k = 0; k <= steps; ++k) {
+      const double v = static_cast<double>(k) * map_dv_;
+      AeroPoint pt;
+      try {
+        pt = solve_ride_heights(*a.map, v, rho_, car.drag_height_m, car.wheelbase_m, hf, hr);
+      } catch (const std::runtime_error& e) {
+        throw InputError(a.file, a.mark,
+                         std::string(e.what()) + " at " + std::to_string(v / units::kph) +
+                             " km/h (config " + a.name + ")",
+                         "aero.configs." + a.name + ".ride_height_map");
+      }
+      hf = pt.front_ride_m;
+      hr = pt.rear_ride_m;
+      if (pt.off_map && off_map_speed_ < 0.0) off_map_speed_ = v;
+      if (pt.grounded && grounded_speed_ < 0.0) grounded_speed_ = v;
+      map_points_.push_back(pt);
+    }
+    aero_at = [this](double v) { return aero_point(v); };
+  } else {
+    aero_at = [&a](double v) {
+      return AeroPoint{interpolate(a.speed_mps, a.cda_m2, v), interpolate(a.speed_mps, a.cla_m2, v),
+                       interpolate(a.speed_mps, a.balance, v), 0.0, 0.0};
+    };
+  }
   rows_.resize(n);
   gear_.resize(n);
+  if (a.trim) {
+    trim_rows_.resize(n);
+    trim_below_curvature_ = a.trim->below_curvature_1pm;
+  }
   for (std::size_t k = 0; k < n; ++k) {
     const double v = k + 1 == n ? v_max_ : std::sqrt(static_cast<double>(k) * du_);
     const Drive d = best_drive(p, r, v);
-    rows_[k] = {d.force_n, 0.5 * rho_ * interpolate(a.speed_mps, a.cda_m2, v),
-                0.5 * rho_ * interpolate(a.speed_mps, a.cla_m2, v),
-                interpolate(a.speed_mps, a.balance, v)};
+    const AeroPoint c = aero_at(v);
+    rows_[k] = {d.force_n, 0.5 * rho_ * c.cda_m2, 0.5 * rho_ * c.cla_m2, c.balance};
     gear_[k] = d.gear;
+    if (a.trim) {
+      const StraightTrim& t = *a.trim;
+      const double cda = c.cda_m2 + t.dcda_m2, cla = c.cla_m2 + t.dcla_m2,
+                   bal = c.balance + t.dbalance;
+      if (cda < 0.0 || cla < 0.0 || bal < 0.0 || bal > 1.0)
+        throw InputError(a.file, a.mark,
+                         "straight_trim takes CdA, ClA or balance out of range at " +
+                             std::to_string(v / units::kph) + " km/h (CdA " + std::to_string(cda) +
+                             ", ClA " + std::to_string(cla) + ", balance " + std::to_string(bal) +
+                             ")",
+                         "aero.configs." + a.name + ".straight_trim");
+      trim_rows_[k] = {d.force_n, 0.5 * rho_ * cda, 0.5 * rho_ * cla, bal};
+    }
   }
   // Top speed on the level: the one speed where drive = resistance (REFERENCES: the cubic
   // eta P = (k v^2 + Crr m g) v for constant power); the rev limit when drive still exceeds it.
-  auto excess = [&](double v) { return drive_n(v) - resistance_n(v, 1.0, 0.0); };
+  const bool trimmed = has_trim();
+  auto excess = [&](double v) { return drive_n(v) - resistance_n(v, 1.0, 0.0, trimmed); };
   rev_limited_ = excess(v_max_) >= 0.0;
   if (rev_limited_) {
     v_top_ = v_max_;
@@ -63,6 +116,24 @@ Envelope::Envelope(const Car& car, const Air& air, EnvelopeOptions options)
                                           boost::math::tools::eps_tolerance<double>(48), iters);
     v_top_ = 0.5 * (lo + hi);
   }
+}
+
+AeroPoint Envelope::aero_point(double v) const {
+  if (map_points_.empty()) {
+    const AeroConfig& a = car_.configs.front();
+    return {interpolate(a.speed_mps, a.cda_m2, v), interpolate(a.speed_mps, a.cla_m2, v),
+            interpolate(a.speed_mps, a.balance, v), 0.0, 0.0};
+  }
+  const double f = std::clamp(v / map_dv_, 0.0, static_cast<double>(map_points_.size() - 1));
+  const std::size_t i = std::min(static_cast<std::size_t>(f), map_points_.size() - 2);
+  const double w = f - static_cast<double>(i);
+  const AeroPoint& p = map_points_[i];
+  const AeroPoint& q = map_points_[i + 1];
+  auto mix = [w](double x, double y) { return x + w * (y - x); };
+  return {mix(p.cda_m2, q.cda_m2),           mix(p.cla_m2, q.cla_m2),
+          mix(p.balance, q.balance),         mix(p.front_ride_m, q.front_ride_m),
+          mix(p.rear_ride_m, q.rear_ride_m), p.off_map || q.off_map,
+          p.grounded || q.grounded};
 }
 
 std::size_t Envelope::index(double v) const {

@@ -43,7 +43,11 @@ std::string summary_json(const std::string& car_name, const std::vector<LapSumma
         .field("top_speed_kph", kph(s.top_speed_mps))
         .field("min_speed_kph", kph(s.min_speed_mps))
         .field("full_throttle_fraction", s.full_throttle_fraction)
-        .field("braking_fraction", s.braking_fraction);
+        .field("braking_fraction", s.braking_fraction)
+        .field("trimmed_fraction", s.trimmed_fraction);
+    w.key("warnings").begin_array();
+    for (const auto& text : s.warnings) w.value(text);
+    w.end_array();
     w.key("sectors_s").numbers(s.sectors_s);
     w.key("corners").begin_array();
     for (const auto& c : s.corners) {
@@ -153,6 +157,9 @@ std::string lap_table(const LapSummary& s) {
   o += "full throttle " + fixed(100 * s.full_throttle_fraction, 1) + " %   braking " +
        fixed(100 * s.braking_fraction, 1) + " %   air " + fixed(s.air_density_kg_m3, 4) +
        " kg/m3\n";
+  if (s.trimmed_fraction > 0.0)
+    o += "straight-line trim " + fixed(100 * s.trimmed_fraction, 1) + " % of the lap\n";
+  for (const auto& text : s.warnings) o += "warning: " + text + "\n";
   o += "sectors (s)";
   for (double t : s.sectors_s) o += "  " + fixed(t, 3);
   o += "\n";

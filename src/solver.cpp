@@ -51,8 +51,8 @@ struct PathForces {
   double grip_left_n, resistance_n, drive_n;
 };
 inline PathForces path_forces(const Envelope& env, double v2, double abs_curvature,
-                              const Slope& slope) {
-  const Envelope::Sample s = env.sample_sq(v2);
+                              const Slope& slope, bool trimmed) {
+  const Envelope::Sample s = env.sample_sq(v2, trimmed);
   const double load = env.weight_n() * slope.cos + s.lift_coef * v2;
   const TyreModel::Limits lim = env.tyres().limits(load);
   const double fy = env.mass_kg() * v2 * abs_curvature;
@@ -111,16 +111,22 @@ void steady_profile(const Envelope& env, const Mesh& mesh, SteadyProfile& p) {
   const double v_max = env.max_speed_mps();
   const TyreModel& tyres = env.tyres();
   double last_grade = std::nan(""), last_curv = std::nan("");
+  bool last_trimmed = false;
   double v_engine = 0.0, v_grip = 0.0;
   for (std::size_t i = 0; i < n; ++i) {
     const double grade = mesh.grade[i], curv = std::abs(mesh.curvature_1pm[i]);
     const Slope slope(mesh, i);
-    if (grade != last_grade) {
+    // The engine's limit is reached under full drive, where the straight-line trim applies.
+    const bool trimmed = env.trims(curv);
+    if (grade != last_grade || trimmed != last_trimmed) {
       // Engine: drive in the best gear >= resistance, the top speed on this grade.
       v_engine = highest_feasible(
-          [&](double v) { return env.resistance_n(v, slope.cos, slope.sin) - env.drive_n(v); },
+          [&](double v) {
+            return env.resistance_n(v, slope.cos, slope.sin, trimmed) - env.drive_n(v);
+          },
           v_max, v_engine);
     }
+    last_trimmed = trimmed;
     if (grade != last_grade || curv != last_curv) {
       // Tyres: (|R| / Fx_max)^n + (m v^2 |kappa| / Fy_max)^n <= 1, R = resistance to hold v.
       v_grip = highest_feasible(
@@ -202,6 +208,9 @@ class Sweeper {
     k0_ = std::abs(mesh_.curvature_1pm[i]);
     dk_ = (std::abs(mesh_.curvature_1pm[j_]) - k0_) / ds_;
     slope_ = Slope(mesh_, forward_ ? i : j_);
+    // Under drive, movable aero trims where the step starts on a straight enough piece; under
+    // braking it does not.
+    trimmed_ = forward_ && env_.trims(k0_);
     drive_share_ = 1.0;
     if (forward_ && cut_left_s_ > 0.0) {
       // Share of this step's time (estimated at the entry speed) with the drive still on.
@@ -215,7 +224,7 @@ class Sweeper {
   /// direction of travel: forward under drive, backward under braking.
   double rhs(double u, double x) const {
     const double u0 = std::max(u, 0.0);
-    const PathForces f = path_forces(env_, u0, k0_ + dk_ * x, slope_);
+    const PathForces f = path_forces(env_, u0, k0_ + dk_ * x, slope_, trimmed_);
     const double force = forward_
                              ? std::min(f.grip_left_n, drive_share_ * f.drive_n) - f.resistance_n
                              : f.grip_left_n + f.resistance_n;
@@ -276,6 +285,7 @@ class Sweeper {
   // The step in progress.
   std::size_t j_ = 0;
   double k0_ = 0.0, dk_ = 0.0, drive_share_ = 1.0;
+  bool trimmed_ = false;
   Slope slope_{1.0, 0.0};
   int gear_ = 0;
   double cut_left_s_ = 0.0;  // drive cut still to run after an upshift
@@ -392,6 +402,7 @@ const Lap& LapSolver::solve(const Envelope& env, const Mesh& mesh, double start_
   lap.downforce_n.resize(n);
   lap.front_load_n.resize(n);
   lap.rear_load_n.resize(n);
+  lap.trimmed.resize(n);
   const double inv_2ds = 0.5 / mesh.step_m, inv_wb = 1.0 / wb;
   for (std::size_t i = 0; i < n; ++i) {
     const double v = lap.speed_mps[i];
@@ -412,7 +423,11 @@ const Lap& LapSolver::solve(const Envelope& env, const Mesh& mesh, double start_
                  : std::clamp(v / car.tyres.rolling_radius_m *
                                   pt.gears[static_cast<std::size_t>(gear - 1)] * pt.final_drive,
                               pt.engine_radps.front(), pt.rev_limit_radps);
-    const Envelope::Sample row = env.sample(v);
+    const bool trimmed = env.trims(std::abs(mesh.curvature_1pm[i])) &&
+                         (lap.phase[i] == Phase::accelerate || lap.phase[i] == Phase::top_speed ||
+                          lap.phase[i] == Phase::shift);
+    lap.trimmed[i] = trimmed;
+    const Envelope::Sample row = env.sample(v, trimmed);
     const double drag = row.drag_coef * v * v, down = row.lift_coef * v * v;
     lap.drag_n[i] = drag;
     lap.downforce_n[i] = down;

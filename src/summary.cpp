@@ -2,8 +2,34 @@
 
 #include <algorithm>
 #include <cmath>
+#include <cstdio>
+
+#include "lapwing/units.hpp"
 
 namespace lapwing {
+
+std::vector<std::string> aero_warnings(const Envelope& env, double top_speed_mps) {
+  std::vector<std::string> w;
+  auto kph_text = [](double v) {
+    char buf[32];
+    std::snprintf(buf, sizeof buf, "%.1f", v / units::kph);
+    return std::string(buf);
+  };
+  const AeroConfig& a = env.car().configs.front();
+  if (env.has_map()) {
+    if (env.grounded_speed_mps() >= 0.0 && env.grounded_speed_mps() <= top_speed_mps)
+      w.push_back("a ride height reaches zero at " + kph_text(env.grounded_speed_mps()) +
+                  " km/h (top speed " + kph_text(top_speed_mps) + " km/h)");
+    if (env.off_map_speed_mps() >= 0.0 && env.off_map_speed_mps() <= top_speed_mps)
+      w.push_back("a ride height leaves the map at " + kph_text(env.off_map_speed_mps()) +
+                  " km/h (top speed " + kph_text(top_speed_mps) +
+                  " km/h); coefficients held at the map's edge beyond");
+  }
+  if (a.speed_mps.size() > 1 && top_speed_mps > a.speed_mps.back())
+    w.push_back("speeds above the speed table's last row (" + kph_text(a.speed_mps.back()) +
+                " km/h) use its values");
+  return w;
+}
 
 double time_at(const Lap& lap, const Mesh& mesh, double s) {
   const double f = std::clamp(s / mesh.step_m, 0.0, static_cast<double>(mesh.intervals()));
@@ -25,13 +51,16 @@ LapSummary summarize(const Lap& lap, const Mesh& mesh, const Track& track,
   s.min_speed_mps = *std::min_element(lap.speed_mps.begin(), lap.speed_mps.end());
 
   // Time shares: each interval's time is split half to each of its end points' phases.
-  double full = 0.0, brake = 0.0;
+  double full = 0.0, brake = 0.0, trimmed = 0.0;
   auto is_full = [](Phase p) { return p == Phase::accelerate || p == Phase::top_speed; };
   for (std::size_t i = 0; i + 1 < mesh.size(); ++i) {
     const double half = 0.5 * (lap.time_s[i + 1] - lap.time_s[i]);
     full += half * (is_full(lap.phase[i]) + is_full(lap.phase[i + 1]));
     brake += half * ((lap.phase[i] == Phase::brake) + (lap.phase[i + 1] == Phase::brake));
+    trimmed += half * (lap.trimmed[i] + lap.trimmed[i + 1]);
   }
+  s.trimmed_fraction = trimmed / lap.lap_time_s;
+  s.warnings = aero_warnings(env, s.top_speed_mps);
   s.full_throttle_fraction = full / lap.lap_time_s;
   s.braking_fraction = brake / lap.lap_time_s;
 

@@ -46,6 +46,7 @@ for f in tests/data/bad/*.yaml; do
     *) args=(--car cars/pellion-fr2.yaml --track "$f") ;;
   esac
   out="$tmp/bad-out"
+  rm -rf "$out"
   "$bin" run "${args[@]}" --out "$out" > "$tmp/stdout" 2> "$tmp/stderr"
   code=$?
   msg=$(cat "$tmp/stderr")
@@ -85,6 +86,22 @@ done
 "$bin" run --car tests/data/cannot-move/weak-car.yaml --track tracks/acceleration.yaml --out "$tmp/weak" 2> "$tmp/stderr"
 [ $? -eq 3 ] && grep -q "cannot complete the track" "$tmp/stderr" && [ ! -e "$tmp/weak" ] && ok ||
   bad "cannot-move car: $(cat "$tmp/stderr")"
+
+# 7. Air options replace the track's air on every command; bad values are usage errors.
+density() { sed -n 's/.*"air_density_kg_m3": \([0-9.e+-]*\).*/\1/p' "$1" | head -n 1; }
+"$bin" run --car cars/pellion-fr2.yaml --track tracks/brannock-park.yaml --out "$tmp/air0" > /dev/null
+"$bin" run --car cars/pellion-fr2.yaml --track tracks/brannock-park.yaml --temperature "38 C" \
+  --out "$tmp/air1" > /dev/null
+awk -v a="$(density "$tmp/air0/summary.json")" -v b="$(density "$tmp/air1/summary.json")" \
+  'BEGIN { exit !(b < a) }' && ok || bad "--temperature 38 C did not thin the air"
+# ISO 2533 at 2000 m: 1.0066 kg/m3 (REFERENCES.md table, from memory).
+"$bin" check --car cars/pellion-fr2.yaml --track tracks/skidpad.yaml --altitude "2000 m" |
+  grep -q "1.0066 kg/m3 (ISO 2533 at 2000 m)" && ok || bad "--altitude 2000 m"
+"$bin" run --car cars/pellion-fr2.yaml --track tracks/skidpad.yaml --temperature hot --out "$tmp/hot" 2> "$tmp/stderr"
+[ $? -eq 2 ] && grep -q "^lapwing: error: --temperature: 'hot' is not a temperature" "$tmp/stderr" &&
+  [ ! -e "$tmp/hot" ] && ok || bad "bad --temperature: $(cat "$tmp/stderr")"
+"$bin" check --car cars/pellion-fr2.yaml --humidity "150 %" > /dev/null 2> "$tmp/stderr"
+[ $? -eq 2 ] && grep -q "out of range" "$tmp/stderr" && ok || bad "--humidity 150 %"
 
 echo "cli: $pass passed, $fail failed"
 [ "$fail" -eq 0 ]

@@ -3,7 +3,10 @@
 
 #include <optional>
 #include <string>
+#include <string_view>
 #include <vector>
+
+#include "lapwing/aero.hpp"
 
 namespace lapwing {
 
@@ -32,17 +35,28 @@ struct Powertrain {
   DrivenAxle driven = DrivenAxle::rear;
 };
 
-/// One aero configuration. Coefficients are tabulated over speed; a constant configuration has a
-/// single row (speed_mps empty).
+/// One aero configuration (SPEC section 2). Whatever form it was given in, it is coefficients
+/// over speed: a constant configuration has one row (speed_mps empty); a speed table many; a
+/// parts table is reduced to one row on load; a ride-height map is solved per air and speed by
+/// the Envelope (see aero.hpp).
 struct AeroConfig {
+  enum class Form { constant, speed_table, forces, ride_height_map };
   std::string name;
+  std::string file;  // the car file, for errors found later (a map that does not converge)
+  Mark mark;
+  Form form = Form::constant;
   std::vector<double> speed_mps;  // empty: constant coefficients
   std::vector<double> cda_m2;
   std::vector<double> cla_m2;
   std::vector<double> balance;  // front share of downforce, without the drag moment
-  // Car-level values this configuration overrides (SPEC section 2).
+  std::optional<RideHeightMap> map;
+  std::optional<StraightTrim> trim;
+  // Car-level values this configuration overrides (SPEC section 2); a parts table sets
+  // drag_height_m from its parts.
   std::optional<double> mass_kg, inertia_factor, cg_height_m, front_weight, drag_height_m;
 };
+
+std::string_view form_name(AeroConfig::Form f);
 
 struct Car {
   std::string name;

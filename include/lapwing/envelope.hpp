@@ -28,8 +28,9 @@ class Envelope {
   double mass_kg() const { return mass_; }
   double effective_mass_kg() const { return mass_eff_; }  // m (1 + inertia_factor)
   double air_density() const { return rho_; }
-  double max_speed_mps() const { return v_max_; }        // top of the table: rev limit in top gear
-  double top_speed_level_mps() const { return v_top_; }  // drive = resistance on the level
+  double max_speed_mps() const { return v_max_; }  // top of the table: rev limit in top gear
+  /// Drive = resistance on the level (with the straight-line trim, where the config has one).
+  double top_speed_level_mps() const { return v_top_; }
   bool rev_limited() const { return rev_limited_; }
   const TyreModel& tyres() const { return tyres_; }
   const Car& car() const { return car_; }
@@ -43,20 +44,37 @@ class Envelope {
     double lift_coef;  // 0.5 rho ClA(v): downforce = lift_coef v^2
     double balance;    // front share of downforce
   };
-  /// The row at speed squared u = v^2 (m^2/s^2).
-  Sample sample_sq(double u) const {
+  /// The row at speed squared u = v^2 (m^2/s^2); `trimmed` reads the straight-line trim's rows
+  /// (only where trims() says so).
+  Sample sample_sq(double u, bool trimmed = false) const {
+    const std::vector<Sample>& rows = trimmed ? trim_rows_ : rows_;
     const double f = u * inv_du_;
-    if (!(f > 0.0)) return rows_.front();
-    const std::size_t last = rows_.size() - 1;
-    if (f >= static_cast<double>(last)) return rows_.back();
+    if (!(f > 0.0)) return rows.front();
+    const std::size_t last = rows.size() - 1;
+    if (f >= static_cast<double>(last)) return rows.back();
     const std::size_t i = static_cast<std::size_t>(f);
     const double w = f - static_cast<double>(i);
-    const Sample& a = rows_[i];
-    const Sample& b = rows_[i + 1];
+    const Sample& a = rows[i];
+    const Sample& b = rows[i + 1];
     return {a.drive_n + w * (b.drive_n - a.drive_n), a.drag_coef + w * (b.drag_coef - a.drag_coef),
             a.lift_coef + w * (b.lift_coef - a.lift_coef), a.balance + w * (b.balance - a.balance)};
   }
-  Sample sample(double v) const { return sample_sq(v * v); }
+  Sample sample(double v, bool trimmed = false) const { return sample_sq(v * v, trimmed); }
+
+  /// Straight-line trim (movable aero): applies under full drive where |curvature| is below the
+  /// config's threshold.
+  bool has_trim() const { return !trim_rows_.empty(); }
+  bool trims(double abs_curvature_1pm) const {
+    return !trim_rows_.empty() && abs_curvature_1pm < trim_below_curvature_;
+  }
+
+  /// Ride-height map: the operating point at speed v (interpolated between solved speeds), and
+  /// the first speeds at which a ride height leaves the map or reaches zero (negative: never
+  /// within the table). Without a map: the config's coefficients, heights 0.
+  bool has_map() const { return !map_points_.empty(); }
+  AeroPoint aero_point(double v) const;
+  double off_map_speed_mps() const { return off_map_speed_; }
+  double grounded_speed_mps() const { return grounded_speed_; }
 
   double drive_n(double v) const { return sample(v).drive_n; }
   int gear(double v) const { return gear_[index(v)]; }
@@ -68,12 +86,14 @@ class Envelope {
   double rolling_resistance() const { return crr_; }
 
   /// Vertical load on the tyres, N = m g cos(theta) + downforce.
-  double normal_load_n(double v, double cos_grade) const {
-    return weight_ * cos_grade + downforce_n(v);
+  double normal_load_n(double v, double cos_grade, bool trimmed = false) const {
+    return weight_ * cos_grade + sample(v, trimmed).lift_coef * v * v;
   }
   /// Resistance to motion along the path: drag + rolling resistance + grade.
-  double resistance_n(double v, double cos_grade, double sin_grade) const {
-    return drag_n(v) + crr_ * normal_load_n(v, cos_grade) + weight_ * sin_grade;
+  double resistance_n(double v, double cos_grade, double sin_grade, bool trimmed = false) const {
+    const Sample s = sample(v, trimmed);
+    return s.drag_coef * v * v + crr_ * (weight_ * cos_grade + s.lift_coef * v * v) +
+           weight_ * sin_grade;
   }
 
  private:
@@ -84,7 +104,12 @@ class Envelope {
   double mass_, mass_eff_, weight_, crr_, rho_;
   double v_max_, v_top_, du_, inv_du_;
   bool rev_limited_;
-  std::vector<Sample> rows_;  // one row per step du_ of v^2
+  std::vector<Sample> rows_;       // one row per step du_ of v^2
+  std::vector<Sample> trim_rows_;  // the same with the straight-line trim (empty: none)
+  double trim_below_curvature_ = 0.0;
+  std::vector<AeroPoint> map_points_;  // ride-height solutions every map_dv_ (empty: no map)
+  double map_dv_ = 0.0;
+  double off_map_speed_ = -1.0, grounded_speed_ = -1.0;
   std::vector<int> gear_;
 };
 

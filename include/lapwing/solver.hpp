@@ -53,6 +53,7 @@ struct Lap {
   std::vector<int> gear;
   std::vector<double> engine_radps, drag_n, downforce_n, front_load_n, rear_load_n;
   std::vector<Phase> phase;
+  std::vector<std::uint8_t> trimmed;  // straight-line trim in use
   SteadyProfile steady;
   double lap_time_s = 0.0;
 };

@@ -30,14 +30,20 @@ struct LapSummary {
   double length_m;
   double air_density_kg_m3;
   double top_speed_mps, min_speed_mps;
-  double full_throttle_fraction;  // share of lap time under full drive (accelerate, top_speed)
-  double braking_fraction;        // share of lap time under braking
+  double full_throttle_fraction;      // share of lap time under full drive (accelerate, top_speed)
+  double braking_fraction;            // share of lap time under braking
+  double trimmed_fraction;            // share of lap time with the straight-line trim in use
+  std::vector<std::string> warnings;  // e.g. a ride height off the map within the lap's speeds
   std::vector<double> sectors_s;
   std::vector<CornerResult> corners;
 };
 
 LapSummary summarize(const Lap& lap, const Mesh& mesh, const Track& track,
                      const std::vector<CornerSpan>& corners, const Envelope& env);
+
+/// What the lap's speeds take the aero data beyond: ride heights off the map or at zero, speeds
+/// past a speed table's last row (for speeds up to `top_speed_mps`).
+std::vector<std::string> aero_warnings(const Envelope& env, double top_speed_mps);
 
 /// Time at distance s along the lap, linear between mesh points.
 double time_at(const Lap& lap, const Mesh& mesh, double s_m);

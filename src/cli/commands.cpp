@@ -2,9 +2,11 @@
 
 #include <iostream>
 
+#include "lapwing/aero.hpp"
 #include "lapwing/air.hpp"
 #include "lapwing/car.hpp"
 #include "lapwing/corners.hpp"
+#include "lapwing/document.hpp"
 #include "lapwing/envelope.hpp"
 #include "lapwing/error.hpp"
 #include "lapwing/json.hpp"
@@ -36,6 +38,39 @@ std::string describe_air(const Air& a) {
   return s + ")";
 }
 
+// The air overrides parsed against their quantities.
+struct AirOverride {
+  std::optional<double> altitude_m, temperature_k, pressure_pa, humidity;
+};
+
+std::optional<double> option_value(const std::string& text, const char* option, Quantity q,
+                                   Range r) {
+  if (text.empty()) return std::nullopt;
+  std::string err;
+  auto v = parse_quantity(text, q, err);
+  if (!v) throw UsageError{std::string(option) + ": " + err};
+  if (!r.contains(*v))
+    throw UsageError{std::string(option) + ": " + text + " is out of range (" + r.describe() +
+                     " in SI units)"};
+  return v;
+}
+
+AirOverride parse_air(const AirOptions& o) {
+  return {
+      option_value(o.altitude, "--altitude", Quantity::length, Range{-500.0, 6000.0}),
+      option_value(o.temperature, "--temperature", Quantity::temperature, Range{223.15, 343.15}),
+      option_value(o.pressure, "--pressure", Quantity::pressure, Range{30000.0, 110000.0}),
+      option_value(o.humidity, "--humidity", Quantity::fraction, Range{0.0, 1.0})};
+}
+
+AirSpec apply(AirSpec spec, const AirOverride& o) {
+  if (o.altitude_m) spec.altitude_m = *o.altitude_m;
+  if (o.temperature_k) spec.temperature_k = o.temperature_k;
+  if (o.pressure_pa) spec.pressure_pa = o.pressure_pa;
+  if (o.humidity) spec.relative_humidity = *o.humidity;
+  return spec;
+}
+
 // A track with its mesh and corners, ready to solve.
 struct LaidTrack {
   Track track;
@@ -44,10 +79,10 @@ struct LaidTrack {
   std::vector<CornerSpan> corners;
 };
 
-LaidTrack lay_out(const std::string& file) {
+LaidTrack lay_out(const std::string& file, const AirOverride& air) {
   LaidTrack t{load_track(file), {}, {}, {}};
   t.mesh = build_mesh(t.track, t.track.mesh_m);
-  t.air = make_air(t.track.air);
+  t.air = make_air(apply(t.track.air, air));
   t.corners = find_corners(t.mesh);
   return t;
 }
@@ -66,18 +101,111 @@ std::size_t pick_config(const Car& car, const std::string& name) {
 
 }  // namespace
 
+namespace {
+
+// Per config: what check reports of its aero at a few speeds in one air.
+void describe_config(const Car& car, std::size_t index, const Air& air, std::string& out,
+                     JsonWriter& j) {
+  const Car cc = car.configured(index);
+  const AeroConfig& a = cc.configs.front();
+  const Envelope env(cc, air);
+  const AeroPoint rest = env.aero_point(0.0);
+  j.begin_object()
+      .field("name", a.name)
+      .field("form", form_name(a.form))
+      .field("cda_m2", rest.cda_m2)
+      .field("cla_m2", rest.cla_m2)
+      .field("lift_to_drag", rest.cda_m2 > 0 ? rest.cla_m2 / rest.cda_m2 : 0.0)
+      .field("aero_balance", rest.balance)
+      .field("drag_height_m", cc.drag_height_m)
+      .field("top_speed_kph", kph(env.top_speed_level_mps()))
+      .field("top_speed_limit", env.rev_limited() ? "rev limit" : "drag");
+  out += "\nconfig " + a.name + " (" + std::string(form_name(a.form)) + "): CdA " +
+         fixed(rest.cda_m2, 3) + " m2, ClA " + fixed(rest.cla_m2, 3) + " m2, L/D " +
+         (rest.cda_m2 > 0 ? fixed(rest.cla_m2 / rest.cda_m2, 2) : std::string("-")) +
+         ", aero balance " + fixed(100 * rest.balance, 1) + " %" +
+         (env.has_map()         ? " (at rest)"
+          : a.speed_mps.empty() ? ""
+                                : " (first row)") +
+         ", drag height " + fixed(cc.drag_height_m, 3) + " m, top speed " +
+         fixed(kph(env.top_speed_level_mps()), 1) + " km/h (" +
+         (env.rev_limited() ? "rev limit" : "drag") + ")\n";
+  std::vector<std::vector<std::string>> rows;
+  j.key("at_speeds").begin_array();
+  for (double speed_kph : {100.0, 200.0, 300.0}) {
+    const double v = speed_kph * units::kph;
+    const AeroPoint p = env.aero_point(v);
+    const double q = 0.5 * air.density_kg_m3 * v * v;
+    const double down = q * p.cla_m2, drag = q * p.cda_m2;
+    // Front axle share of the aero load: the balance alone, then with the drag moment
+    // (drag x drag height / wheelbase off the front axle).
+    const double share = p.balance;
+    const double with_moment =
+        down > 0 ? (down * p.balance - drag * cc.drag_height_m / cc.wheelbase_m) / down : 0.0;
+    std::vector<std::string> row{fixed(speed_kph, 0), fixed(down, 0), fixed(drag, 0),
+                                 fixed(100 * share, 1), fixed(100 * with_moment, 1)};
+    j.begin_object()
+        .field("speed_kph", speed_kph)
+        .field("downforce_n", down)
+        .field("drag_n", drag)
+        .field("front_share", share)
+        .field("front_share_with_drag_moment", with_moment);
+    if (env.has_map()) {
+      row.push_back(fixed(1000 * p.front_ride_m, 1) + " / " + fixed(1000 * p.rear_ride_m, 1) +
+                    (p.off_map ? " off map" : "") + (p.grounded ? " grounded" : ""));
+      j.field("front_ride_height_m", p.front_ride_m).field("rear_ride_height_m", p.rear_ride_m);
+    }
+    j.end_object();
+    rows.push_back(row);
+  }
+  j.end_array();
+  std::vector<std::string> header{"speed km/h", "downforce N", "drag N", "front share %",
+                                  "with drag moment %"};
+  if (env.has_map()) header.push_back("ride height F / R mm");
+  out += text_table(header, rows);
+  // Notes: what the data does outside its range, said once.
+  std::vector<std::string> notes;
+  if (a.speed_mps.size() > 1)
+    notes.push_back("the speed table covers " + fixed(kph(a.speed_mps.front()), 1) + " to " +
+                    fixed(kph(a.speed_mps.back()), 1) +
+                    " km/h; outside it the end rows' values are held");
+  if (env.has_map()) {
+    if (env.off_map_speed_mps() >= 0.0)
+      notes.push_back("a ride height leaves the map at " + fixed(kph(env.off_map_speed_mps()), 1) +
+                      " km/h; the map's edge values are held beyond");
+    if (env.grounded_speed_mps() >= 0.0)
+      notes.push_back("a ride height reaches zero at " + fixed(kph(env.grounded_speed_mps()), 1) +
+                      " km/h");
+  }
+  if (a.trim)
+    notes.push_back("straight-line trim: CdA " + fixed(a.trim->dcda_m2, 3) + " m2, ClA " +
+                    fixed(a.trim->dcla_m2, 3) + " m2, balance " + fixed(100 * a.trim->dbalance, 1) +
+                    " points where |curvature| < " + fixed(a.trim->below_curvature_1pm, 4) +
+                    " 1/m under full drive");
+  j.key("notes").begin_array();
+  for (const auto& n : notes) {
+    out += "       note: " + n + "\n";
+    j.value(n);
+  }
+  j.end_array().end_object();
+}
+
+}  // namespace
+
 int check(const CheckOptions& o) {
+  const AirOverride air = parse_air(o.air);
   const Car car = load_car(o.car);
   std::vector<LaidTrack> tracks;
-  for (const auto& f : o.tracks) tracks.push_back(lay_out(f));
-  const Air sea_level = make_air(AirSpec{});
+  for (const auto& f : o.tracks) tracks.push_back(lay_out(f, air));
+  // The car's own figures in ISO 2533 sea-level air, or in the air the options give.
+  const Air reference = make_air(apply(AirSpec{}, air));
 
   std::string out;
   out += "car    " + car.name + " (" + car.file + ")\n";
   out += "       mass " + fixed(car.mass_kg, 1) + " kg, static front weight " +
          fixed(100 * car.front_weight, 1) + " %, wheelbase " + fixed(car.wheelbase_m, 3) +
-         " m, cg height " + fixed(car.cg_height_m, 3) + " m\n\n";
-  std::vector<std::vector<std::string>> rows;
+         " m, cg height " + fixed(car.cg_height_m, 3) + " m\n";
+  out += "       aero figures in air of " + describe_air(reference) + "\n";
   JsonWriter j;
   j.begin_object().field("lapwing", version());
   j.key("car")
@@ -86,29 +214,11 @@ int check(const CheckOptions& o) {
       .field("mass_kg", car.mass_kg)
       .field("front_weight", car.front_weight)
       .field("wheelbase_m", car.wheelbase_m)
-      .field("cg_height_m", car.cg_height_m);
+      .field("cg_height_m", car.cg_height_m)
+      .field("air_density_kg_m3", reference.density_kg_m3);
   j.key("configs").begin_array();
-  for (std::size_t c = 0; c < car.configs.size(); ++c) {
-    const Car cc = car.configured(c);
-    const AeroConfig& a = cc.configs.front();
-    const Envelope env(cc, sea_level);
-    const double cda = a.cda_m2.front(), cla = a.cla_m2.front();
-    rows.push_back({a.name, fixed(cda, 3), fixed(cla, 3), cda > 0 ? fixed(cla / cda, 2) : "-",
-                    fixed(100 * a.balance.front(), 1), fixed(kph(env.top_speed_level_mps()), 1),
-                    env.rev_limited() ? "rev limit" : "drag"});
-    j.begin_object()
-        .field("name", a.name)
-        .field("cda_m2", cda)
-        .field("cla_m2", cla)
-        .field("aero_balance", a.balance.front())
-        .field("top_speed_sea_level_kph", kph(env.top_speed_level_mps()))
-        .field("top_speed_limit", env.rev_limited() ? "rev limit" : "drag")
-        .end_object();
-  }
+  for (std::size_t c = 0; c < car.configs.size(); ++c) describe_config(car, c, reference, out, j);
   j.end_array().end_object();
-  out += text_table({"config", "CdA m2", "ClA m2", "L/D", "aero balance %",
-                     "top speed km/h (ISA sea level)", "set by"},
-                    rows);
 
   j.key("tracks").begin_array();
   for (const auto& t : tracks) {
@@ -151,9 +261,10 @@ int check(const CheckOptions& o) {
 }
 
 int run(const RunOptions& o) {
+  const AirOverride air = parse_air(o.air);
   const Car car = load_car(o.car);
   const std::size_t ci = pick_config(car, o.config);
-  const LaidTrack t = lay_out(o.track);
+  const LaidTrack t = lay_out(o.track, air);
   const Car configured = car.configured(ci);
   const Envelope env(configured, t.air);
   const Lap lap = solve_lap(env, t.mesh, t.track.start_speed_mps);

@@ -1,5 +1,5 @@
-// The command line's commands: each parses nothing itself (main does), calls the library, and
-// prints. Kept apart from main so that main is only option parsing and error mapping.
+// The command line's commands: each takes its parsed options, calls the library, and prints.
+// Kept apart from main so that main is only option parsing and error mapping.
 #pragma once
 
 #include <optional>
@@ -8,10 +8,17 @@
 
 namespace lapwing::cli {
 
+/// --altitude, --temperature, --pressure, --humidity as given (text with units); they replace
+/// every track's values. Parsed by the commands so that errors name the option.
+struct AirOptions {
+  std::string altitude, temperature, pressure, humidity;
+};
+
 struct CheckOptions {
   std::string car;
   std::vector<std::string> tracks;
   std::string json;
+  AirOptions air;
 };
 
 struct RunOptions {
@@ -19,6 +26,12 @@ struct RunOptions {
   std::string track;
   std::string config;
   std::string out;
+  AirOptions air;
+};
+
+/// A usage error found after parsing (a bad option value): exit 2.
+struct UsageError {
+  std::string message;
 };
 
 int check(const CheckOptions& o);
