@@ -177,4 +177,208 @@ std::string lap_table(const LapSummary& s) {
   return o;
 }
 
+namespace {
+std::string signed_fixed(double v, int decimals) {
+  const std::string t = fixed(v, decimals);
+  return (v >= 0 && t.find_first_not_of("0.") != std::string::npos ? "+" : "") + t;
+}
+}  // namespace
+
+std::string compare_json(const Car& car, const Comparison& c,
+                         const std::vector<Circuit>& circuits) {
+  JsonWriter w;
+  w.begin_object().field("lapwing", version()).field("car", car.name);
+  w.key("tracks").begin_array();
+  for (std::size_t t = 0; t < c.tracks.size(); ++t) {
+    const auto& pt = c.tracks[t];
+    w.begin_object()
+        .field("track", circuits[t].track.name)
+        .field("best", pt.entries[pt.best].run.summary.config)
+        .field("margin_s", pt.margin_s);
+    w.key("configs").begin_array();
+    for (const auto& e : pt.entries) {
+      const LapSummary& s = e.run.summary;
+      w.begin_object()
+          .field("config", s.config)
+          .field("lap_time_s", s.lap_time_s)
+          .field("delta_s", e.delta_to_best_s)
+          .field("top_speed_kph", kph(s.top_speed_mps))
+          .field("min_speed_kph", kph(s.min_speed_mps))
+          .field("full_throttle_fraction", s.full_throttle_fraction);
+      w.key("where_the_time_goes")
+          .begin_object()
+          .field("corners_s", e.split.corners_s)
+          .field("braking_s", e.split.braking_s)
+          .field("straights_s", e.split.straights_s)
+          .end_object();
+      w.key("pieces").begin_array();
+      for (const auto& p : e.pieces)
+        w.begin_object()
+            .field("kind", p.kind)
+            .field("id", p.id)
+            .field("start_m", p.start_m)
+            .field("end_m", p.end_m)
+            .field("delta_s", p.delta_s)
+            .end_object();
+      w.end_array().end_object();
+    }
+    w.end_array().end_object();
+  }
+  w.end_array().end_object();
+  return w.str();
+}
+
+std::string compare_table(const Car& car, const Comparison& c,
+                          const std::vector<Circuit>& circuits) {
+  std::string o = "car     " + car.name + " (" + car.file + ")\n";
+  // The matrix first: lap time per track x config, the best marked.
+  {
+    std::vector<std::string> header{"config"};
+    for (const auto& ci : circuits) header.push_back(ci.track.id);
+    std::vector<std::vector<std::string>> rows;
+    for (std::size_t k = 0; k < c.configs.size(); ++k) {
+      std::vector<std::string> row{car.configs[c.configs[k]].name};
+      for (const auto& pt : c.tracks)
+        row.push_back(fixed(pt.entries[k].run.summary.lap_time_s, 3) +
+                      (pt.best == k ? " *" : "  "));
+      rows.push_back(row);
+    }
+    o += "\nlap time s (* best on the track)\n" + text_table(header, rows);
+  }
+  for (std::size_t t = 0; t < c.tracks.size(); ++t) {
+    const auto& pt = c.tracks[t];
+    const LapSummary& best = pt.entries[pt.best].run.summary;
+    o += "\ntrack   " + circuits[t].track.name + " (" + circuits[t].track.file + "), air " +
+         fixed(circuits[t].air.density_kg_m3, 4) + " kg/m3\n";
+    o += "best    " + best.config +
+         (pt.entries.size() > 1 ? " by " + fixed(pt.margin_s, 3) + " s" : std::string()) + "\n";
+    std::vector<std::vector<std::string>> rows;
+    for (const auto& e : pt.entries) {
+      const LapSummary& s = e.run.summary;
+      rows.push_back({s.config, fixed(s.lap_time_s, 3), signed_fixed(e.delta_to_best_s, 3),
+                      fixed(kph(s.top_speed_mps), 1), fixed(kph(s.min_speed_mps), 1),
+                      fixed(100 * s.full_throttle_fraction, 1), signed_fixed(e.split.corners_s, 3),
+                      signed_fixed(e.split.braking_s, 3), signed_fixed(e.split.straights_s, 3)});
+    }
+    o += text_table({"config", "lap s", "delta s", "top km/h", "min km/h", "full throttle %",
+                     "in corners s", "braking s", "straights s"},
+                    rows);
+    // Per piece: which corners gain, which straights lose, against the best.
+    if (pt.entries.size() > 1) {
+      std::vector<std::string> header{"piece", "from m", "to m"};
+      for (const auto& e : pt.entries)
+        if (&e != &pt.entries[pt.best]) header.push_back(e.run.summary.config + " s");
+      std::vector<std::vector<std::string>> prow;
+      const auto& pieces = pt.entries.front().pieces;
+      for (std::size_t p = 0; p < pieces.size(); ++p) {
+        const LapPiece& lp = pieces[p];
+        std::vector<std::string> row{
+            lp.kind == "corner"
+                ? "corner " + std::to_string(lp.id)
+                : (lp.id ? "straight to " + std::to_string(lp.id) : "straight to line"),
+            fixed(lp.start_m, 0), fixed(lp.end_m, 0)};
+        for (const auto& e : pt.entries)
+          if (&e != &pt.entries[pt.best]) row.push_back(signed_fixed(e.pieces[p].delta_s, 3));
+        prow.push_back(row);
+      }
+      o += "\ntime lost (+) or gained (-) against " + best.config + ", piece by piece\n" +
+           text_table(header, prow);
+    }
+  }
+  return o;
+}
+
+std::string delta_csv(const Mesh& mesh, const std::vector<double>& delta_s) {
+  std::string o = "distance_m,delta_s\n";
+  for (std::size_t i = 0; i < mesh.size(); ++i)
+    o += format_number(mesh.s_m[i]) + "," + format_number(delta_s[i]) + "\n";
+  return o;
+}
+
+std::string trade_json(const Car& car, const Trade& t, const std::vector<Circuit>& circuits) {
+  JsonWriter w;
+  w.begin_object().field("lapwing", version()).field("car", car.name).field("step", t.options.step);
+  w.key("results").begin_array();
+  for (const auto& s : t.sensitivities)
+    w.begin_object()
+        .field("track", circuits[s.track].track.name)
+        .field("config", car.configs[s.config].name)
+        .field("lap_time_s", s.lap_time_s)
+        .field("cla_m2", s.cla_m2)
+        .field("cda_m2", s.cda_m2)
+        .field("mass_kg", s.mass_kg)
+        .field("dt_dcla_s_per_m2", s.dt_dcla_s_per_m2)
+        .field("dt_dcda_s_per_m2", s.dt_dcda_s_per_m2)
+        .field("dt_dmass_s_per_kg", s.dt_dmass_s_per_kg)
+        .field("dt_dpower_s_per_percent", s.dt_dpower_s_per_percent)
+        .field("breakeven_dcda_per_dcla", s.breakeven_dcda_per_dcla)
+        .end_object();
+  w.end_array();
+  w.key("attributions").begin_array();
+  for (const auto& a : t.attributions)
+    w.begin_object()
+        .field("track", circuits[a.track].track.name)
+        .field("from", car.configs[a.a].name)
+        .field("to", car.configs[a.b].name)
+        .field("sensitivities_of", car.configs[a.reference].name)
+        .field("total_s", a.total_s)
+        .field("from_cla_s", a.from_cla_s)
+        .field("from_cda_s", a.from_cda_s)
+        .field("residual_s", a.residual_s)
+        .end_object();
+  w.end_array().end_object();
+  return w.str();
+}
+
+std::string trade_table(const Car& car, const Trade& t, const std::vector<Circuit>& circuits) {
+  std::string o = "car     " + car.name + " (" + car.file + "), central differences of +-" +
+                  fixed(100 * t.options.step, 1) + " %\n";
+  std::vector<std::vector<std::string>> rows;
+  for (const auto& s : t.sensitivities)
+    rows.push_back(
+        {circuits[s.track].track.id, car.configs[s.config].name, fixed(s.lap_time_s, 3),
+         signed_fixed(0.1 * s.dt_dcla_s_per_m2, 4), signed_fixed(0.1 * s.dt_dcda_s_per_m2, 4),
+         signed_fixed(10 * s.dt_dmass_s_per_kg, 4), signed_fixed(s.dt_dpower_s_per_percent, 4),
+         fixed(s.breakeven_dcda_per_dcla, 3)});
+  o += "\n" + text_table({"track", "config", "lap s", "s per +0.1 m2 ClA", "s per +0.1 m2 CdA",
+                          "s per +10 kg", "s per +1 % power", "CdA m2 one m2 of ClA may cost"},
+                         rows);
+  o += "\nexchange rate: +1 m2 of ClA pays while it costs less than the last column in CdA\n";
+  if (!t.attributions.empty()) {
+    std::vector<std::vector<std::string>> arows;
+    auto traded = [&](std::size_t c) {
+      for (const auto& s : t.sensitivities)
+        if (s.config == c) return true;
+      return false;
+    };
+    for (const auto& a : t.attributions) {
+      // The terminal shows the changes to or from a traded config; trade.json has them all.
+      if (!traded(a.a) && !traded(a.b)) continue;
+      auto share = [&](double part) {
+        return a.total_s != 0.0 ? fixed(100 * part / a.total_s, 0) + " %" : std::string("-");
+      };
+      arows.push_back({circuits[a.track].track.id,
+                       car.configs[a.a].name + " -> " + car.configs[a.b].name,
+                       signed_fixed(a.total_s, 3),
+                       signed_fixed(a.from_cla_s, 3) + " (" + share(a.from_cla_s) + ")",
+                       signed_fixed(a.from_cda_s, 3) + " (" + share(a.from_cda_s) + ")",
+                       signed_fixed(a.residual_s, 3), car.configs[a.reference].name});
+    }
+    o += "\nwhere a config change's lap time comes from (first order, with the residual)\n" +
+         text_table({"track", "change", "total s", "from ClA s", "from CdA s", "residual s",
+                     "sensitivities of"},
+                    arows);
+  }
+  return o;
+}
+
+std::string trade_grid_csv(const TradeGrid& g) {
+  std::string o = "cla_m2,cda_m2,lap_time_s\n";
+  for (std::size_t i = 0; i < g.cla_m2.size(); ++i)
+    for (std::size_t j = 0; j < g.cda_m2.size(); ++j)
+      o += format_number(g.cla_m2[i]) + "," + format_number(g.cda_m2[j]) + "," +
+           format_number(g.lap_time_s[i * g.cda_m2.size() + j]) + "\n";
+  return o;
+}
+
 }  // namespace lapwing

@@ -103,5 +103,41 @@ awk -v a="$(density "$tmp/air0/summary.json")" -v b="$(density "$tmp/air1/summar
 "$bin" check --car cars/pellion-fr2.yaml --humidity "150 %" > /dev/null 2> "$tmp/stderr"
 [ $? -eq 2 ] && grep -q "out of range" "$tmp/stderr" && ok || bad "--humidity 150 %"
 
+# 8. compare and trade: identical bytes whatever the thread count; their bad input exits 2 and
+#    writes nothing.
+for t in 1 2; do
+  "$bin" compare --car cars/caldra-gt.yaml --track tracks/brannock-park.yaml --track tracks/skidpad.yaml \
+    --threads $t --out "$tmp/cmp$t" > "$tmp/cmp$t.txt" || bad "compare --threads $t"
+  "$bin" trade --car cars/caldra-gt.yaml --track tracks/brannock-park.yaml --config low_drag --grid 3 \
+    --threads $t --out "$tmp/trd$t" > "$tmp/trd$t.txt" || bad "trade --threads $t"
+done
+diff -r "$tmp/cmp1" "$tmp/cmp2" > /dev/null && cmp -s "$tmp/cmp1.txt" "$tmp/cmp2.txt" && ok || bad "compare differs with threads"
+diff -r "$tmp/trd1" "$tmp/trd2" > /dev/null && cmp -s "$tmp/trd1.txt" "$tmp/trd2.txt" && ok || bad "trade differs with threads"
+for f in compare.json summary.json corners.csv delta-brannock-park-low_drag-high_downforce.csv \
+  trace-skidpad-high_downforce.csv; do
+  [ -s "$tmp/cmp1/$f" ] && ok || bad "compare --out lacks $f"
+done
+for f in trade.json trade-grid-brannock-park.csv; do [ -s "$tmp/trd1/$f" ] && ok || bad "trade --out lacks $f"; done
+# compare's delta is the difference of two run lap times.
+"$bin" run --car cars/caldra-gt.yaml --track tracks/brannock-park.yaml --config low_drag --out "$tmp/r1" > /dev/null
+"$bin" run --car cars/caldra-gt.yaml --track tracks/brannock-park.yaml --config high_downforce --out "$tmp/r2" > /dev/null
+lap() { sed -n 's/.*"lap_time_s": \([0-9.e+-]*\).*/\1/p' "$1" | head -n 1; }
+awk -v a="$(lap "$tmp/r1/summary.json")" -v b="$(lap "$tmp/r2/summary.json")" \
+  -v d="$(tail -n 1 "$tmp/cmp1/delta-brannock-park-low_drag-high_downforce.csv" | cut -d, -f2)" \
+  'BEGIN { x = (b - a) - d; exit !(x < 1e-9 && x > -1e-9) }' && ok || bad "compare delta != run difference"
+expect_usage() {  # expected text, then the command
+  local want=$1; shift
+  rm -rf "$tmp/u"
+  "$bin" "$@" --out "$tmp/u" > /dev/null 2> "$tmp/stderr"
+  [ $? -eq 2 ] && grep -q -- "$want" "$tmp/stderr" && [ ! -e "$tmp/u" ] && ok || bad "$* -> $(cat "$tmp/stderr")"
+}
+expect_usage "no config named 'mid'" compare --car cars/caldra-gt.yaml --track tracks/skidpad.yaml --config mid
+expect_usage "no config named 'mid'" trade --car cars/caldra-gt.yaml --track tracks/skidpad.yaml --config mid
+expect_usage "--step: 60 % is out of range" trade --car cars/caldra-gt.yaml --track tracks/skidpad.yaml --step "60 %"
+expect_usage "--step: 0 % is out of range" trade --car cars/caldra-gt.yaml --track tracks/skidpad.yaml --step "0 %"
+expect_usage "is given twice" compare --car cars/caldra-gt.yaml --track tracks/skidpad.yaml --track ./tracks/skidpad.yaml
+expect_usage "is given twice" trade --car cars/caldra-gt.yaml --track tracks/skidpad.yaml --track tracks/skidpad.yaml
+for cmd in compare trade; do "$bin" $cmd --help | grep -q "Example:" && ok || bad "$cmd --help lacks an example"; done
+
 echo "cli: $pass passed, $fail failed"
 [ "$fail" -eq 0 ]

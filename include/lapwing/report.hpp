@@ -7,6 +7,7 @@
 
 #include "lapwing/mesh.hpp"
 #include "lapwing/solver.hpp"
+#include "lapwing/study.hpp"
 #include "lapwing/summary.hpp"
 
 namespace lapwing {
@@ -29,6 +30,21 @@ std::string fixed(double v, int decimals);
 /// A plain-text table with right-aligned columns (first column left-aligned).
 std::string text_table(const std::vector<std::string>& header,
                        const std::vector<std::vector<std::string>>& rows);
+
+/// compare.json: per track, each config's lap, delta to the best, where the time goes and the
+/// per-piece deltas; the best config and its margin.
+std::string compare_json(const Car& car, const Comparison& c, const std::vector<Circuit>& circuits);
+/// The terminal report of a comparison.
+std::string compare_table(const Car& car, const Comparison& c,
+                          const std::vector<Circuit>& circuits);
+/// delta-<track>-<a>-<b>.csv: distance_m,delta_s (t_b - t_a).
+std::string delta_csv(const Mesh& mesh, const std::vector<double>& delta_s);
+
+/// trade.json: {"lapwing", "car", "step", "results": [...], "attributions": [...]}.
+std::string trade_json(const Car& car, const Trade& t, const std::vector<Circuit>& circuits);
+std::string trade_table(const Car& car, const Trade& t, const std::vector<Circuit>& circuits);
+/// trade-grid-<track>.csv: cla_m2,cda_m2,lap_time_s.
+std::string trade_grid_csv(const TradeGrid& g);
 
 std::string version();
 

@@ -1,5 +1,7 @@
 #include "commands.hpp"
 
+#include <algorithm>
+#include <filesystem>
 #include <iostream>
 
 #include "lapwing/aero.hpp"
@@ -14,6 +16,7 @@
 #include "lapwing/output.hpp"
 #include "lapwing/report.hpp"
 #include "lapwing/solver.hpp"
+#include "lapwing/study.hpp"
 #include "lapwing/summary.hpp"
 #include "lapwing/track.hpp"
 #include "lapwing/units.hpp"
@@ -71,20 +74,24 @@ AirSpec apply(AirSpec spec, const AirOverride& o) {
   return spec;
 }
 
-// A track with its mesh and corners, ready to solve.
-struct LaidTrack {
-  Track track;
-  Mesh mesh;
-  Air air;
-  std::vector<CornerSpan> corners;
-};
+Circuit lay_out(const std::string& file, const AirOverride& air) {
+  const Track t = load_track(file);
+  return lapwing::lay_out(t, make_air(apply(t.air, air)));
+}
 
-LaidTrack lay_out(const std::string& file, const AirOverride& air) {
-  LaidTrack t{load_track(file), {}, {}, {}};
-  t.mesh = build_mesh(t.track, t.track.mesh_m);
-  t.air = make_air(apply(t.track.air, air));
-  t.corners = find_corners(t.mesh);
-  return t;
+std::vector<Circuit> lay_out_all(const std::vector<std::string>& files, const AirOverride& air) {
+  std::vector<Circuit> out;
+  for (std::size_t i = 0; i < files.size(); ++i) {
+    for (std::size_t j = 0; j < i; ++j) {
+      std::error_code e1, e2;
+      const auto a = std::filesystem::weakly_canonical(files[i], e1);
+      const auto b = std::filesystem::weakly_canonical(files[j], e2);
+      if (files[i] == files[j] || (!e1 && !e2 && a == b))
+        throw UsageError{"--track " + files[i] + " is given twice"};
+    }
+    out.push_back(lay_out(files[i], air));
+  }
+  return out;
 }
 
 std::size_t pick_config(const Car& car, const std::string& name) {
@@ -195,8 +202,7 @@ void describe_config(const Car& car, std::size_t index, const Air& air, std::str
 int check(const CheckOptions& o) {
   const AirOverride air = parse_air(o.air);
   const Car car = load_car(o.car);
-  std::vector<LaidTrack> tracks;
-  for (const auto& f : o.tracks) tracks.push_back(lay_out(f, air));
+  const std::vector<Circuit> tracks = lay_out_all(o.tracks, air);
   // The car's own figures in ISO 2533 sea-level air, or in the air the options give.
   const Air reference = make_air(apply(AirSpec{}, air));
 
@@ -264,17 +270,9 @@ int run(const RunOptions& o) {
   const AirOverride air = parse_air(o.air);
   const Car car = load_car(o.car);
   const std::size_t ci = pick_config(car, o.config);
-  const LaidTrack t = lay_out(o.track, air);
-  const Car configured = car.configured(ci);
-  const Envelope env(configured, t.air);
-  const Lap lap = solve_lap(env, t.mesh, t.track.start_speed_mps);
-  if (!t.track.closed && t.track.start_speed_mps > lap.steady.speed_mps.front() * (1 + 1e-9))
-    throw InputError(t.track.file, t.track.start_speed_mark,
-                     "start_speed " + fixed(kph(t.track.start_speed_mps), 1) +
-                         " km/h is more than the car can hold at the start (" +
-                         fixed(kph(lap.steady.speed_mps.front()), 1) + " km/h)",
-                     "start_speed");
-  const LapSummary s = summarize(lap, t.mesh, t.track, t.corners, env);
+  const Circuit t = lay_out(o.track, air);
+  const LapRun r = run_lap(car.configured(ci), t);
+  const LapSummary& s = r.summary;
 
   std::string out;
   out += "car     " + car.name + " (" + car.file + "), config " + s.config + "\n";
@@ -284,9 +282,89 @@ int run(const RunOptions& o) {
   out += lap_table(s);
 
   if (!o.out.empty()) {
-    write_outputs(o.out, {{"summary.json", summary_json(car.name, {s})},
-                          {"trace-" + t.track.id + "-" + s.config + ".csv", trace_csv(lap, t.mesh)},
-                          {"corners.csv", corners_csv({s})}});
+    write_outputs(o.out,
+                  {{"summary.json", summary_json(car.name, {s})},
+                   {"trace-" + t.track.id + "-" + s.config + ".csv", trace_csv(r.lap, t.mesh)},
+                   {"corners.csv", corners_csv({s})}});
+  }
+  std::cout << out;
+  return 0;
+}
+
+namespace {
+std::vector<std::size_t> pick_configs(const Car& car, const std::vector<std::string>& names) {
+  std::vector<std::size_t> out;
+  if (names.empty())
+    for (std::size_t i = 0; i < car.configs.size(); ++i) out.push_back(i);
+  for (const auto& n : names) {
+    const std::size_t i = pick_config(car, n);
+    if (std::find(out.begin(), out.end(), i) != out.end())
+      throw UsageError{"--config " + n + " is given twice"};
+    out.push_back(i);
+  }
+  return out;
+}
+
+double parse_fraction_option(const std::string& text, const char* option, Range r) {
+  auto v = option_value(text, option, Quantity::fraction, r);
+  return *v;
+}
+}  // namespace
+
+int compare(const CompareOptions& o) {
+  const AirOverride air = parse_air(o.air);
+  const Car car = load_car(o.car);
+  const std::vector<std::size_t> configs = pick_configs(car, o.configs);
+  const std::vector<Circuit> circuits = lay_out_all(o.tracks, air);
+  const Comparison c = lapwing::compare(car, configs, circuits, o.threads);
+  const std::string out = compare_table(car, c, circuits);
+  if (!o.out.empty()) {
+    std::vector<std::pair<std::string, std::string>> files;
+    std::vector<LapSummary> all;
+    for (std::size_t t = 0; t < c.tracks.size(); ++t) {
+      const auto& entries = c.tracks[t].entries;
+      for (const auto& e : entries) {
+        all.push_back(e.run.summary);
+        files.push_back({"trace-" + circuits[t].track.id + "-" + e.run.summary.config + ".csv",
+                         trace_csv(e.run.lap, circuits[t].mesh)});
+      }
+      for (std::size_t a = 0; a < entries.size(); ++a)
+        for (std::size_t b = a + 1; b < entries.size(); ++b)
+          files.push_back(
+              {"delta-" + circuits[t].track.id + "-" + entries[a].run.summary.config + "-" +
+                   entries[b].run.summary.config + ".csv",
+               delta_csv(circuits[t].mesh, delta_trace(entries[a].run.lap, entries[b].run.lap))});
+    }
+    files.push_back({"summary.json", summary_json(car.name, all)});
+    files.push_back({"corners.csv", corners_csv(all)});
+    files.push_back({"compare.json", compare_json(car, c, circuits)});
+    write_outputs(o.out, files);
+  }
+  std::cout << out;
+  return 0;
+}
+
+int trade(const TradeOptions& o) {
+  const AirOverride air = parse_air(o.air);
+  lapwing::TradeOptions options;
+  options.step = parse_fraction_option(o.step, "--step", Range{0.0, 0.5, true, false});
+  options.grid_span = parse_fraction_option(o.span, "--span", Range{0.0, 0.9, true, false});
+  options.grid_points = o.grid;
+  const Car car = load_car(o.car);
+  std::vector<std::size_t> configs;
+  if (o.config.empty())
+    for (std::size_t i = 0; i < car.configs.size(); ++i) configs.push_back(i);
+  else
+    configs.push_back(pick_config(car, o.config));
+  const std::vector<Circuit> circuits = lay_out_all(o.tracks, air);
+  const Trade t = lapwing::trade(car, configs, circuits, options, o.threads);
+  const std::string out = trade_table(car, t, circuits);
+  if (!o.out.empty()) {
+    std::vector<std::pair<std::string, std::string>> files{
+        {"trade.json", trade_json(car, t, circuits)}};
+    for (const auto& g : t.grids)
+      files.push_back({"trade-grid-" + circuits[g.track].track.id + ".csv", trade_grid_csv(g)});
+    write_outputs(o.out, files);
   }
   std::cout << out;
   return 0;

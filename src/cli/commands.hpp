@@ -29,6 +29,27 @@ struct RunOptions {
   AirOptions air;
 };
 
+struct CompareOptions {
+  std::string car;
+  std::vector<std::string> tracks;
+  std::vector<std::string> configs;
+  std::string out;
+  unsigned threads = 0;
+  AirOptions air;
+};
+
+struct TradeOptions {
+  std::string car;
+  std::vector<std::string> tracks;
+  std::string config;
+  std::string step = "2 %";
+  std::string span = "15 %";
+  int grid = 9;
+  std::string out;
+  unsigned threads = 0;
+  AirOptions air;
+};
+
 /// A usage error found after parsing (a bad option value): exit 2.
 struct UsageError {
   std::string message;
@@ -36,5 +57,7 @@ struct UsageError {
 
 int check(const CheckOptions& o);
 int run(const RunOptions& o);
+int compare(const CompareOptions& o);
+int trade(const TradeOptions& o);
 
 }  // namespace lapwing::cli

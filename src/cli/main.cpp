@@ -47,6 +47,42 @@ int main(int argc, char** argv) {
       "Example:\n  lapwing run --car cars/tern-fr.yaml --track tracks/kestrel-park.yaml "
       "--config high --out out/kestrel-high");
 
+  cli::CompareOptions compare_o;
+  auto* compare = app.add_subcommand(
+      "compare", "Rank aero configs on each track; where each wins or loses the time");
+  compare->add_option("--car", compare_o.car, "Car file (YAML)")->required();
+  compare->add_option("--track", compare_o.tracks, "Track file(s) (YAML)")->required();
+  compare->add_option("--config", compare_o.configs, "Config name(s) (default: all of the car's)");
+  compare->add_option(
+      "--out", compare_o.out,
+      "Folder for compare.json, delta-TRACK-A-B.csv, summary.json, traces, corners.csv");
+  compare->add_option("--threads", compare_o.threads, "Laps solved at once (default: all cores)")
+      ->check(CLI::Range(0, 256));
+  add_air(compare, compare_o.air);
+  compare->footer(
+      "Example:\n  lapwing compare --car cars/pellion-fr2.yaml --track tracks/brannock-park.yaml "
+      "--track tracks/saltmere-flats.yaml --config low --config high --out out/compare");
+
+  cli::TradeOptions trade_o;
+  auto* trade = app.add_subcommand(
+      "trade", "Lap-time sensitivities to downforce, drag, mass and power; the exchange rate");
+  trade->add_option("--car", trade_o.car, "Car file (YAML)")->required();
+  trade->add_option("--track", trade_o.tracks, "Track file(s) (YAML)")->required();
+  trade->add_option("--config", trade_o.config, "Config to trade (default: every config)");
+  trade->add_option("--step", trade_o.step,
+                    "Relative step of the central differences (default 2 %)");
+  trade->add_option("--grid", trade_o.grid, "Points per axis of the ClA x CdA grid (default 9)")
+      ->check(CLI::Range(3, 41));
+  trade->add_option("--span", trade_o.span,
+                    "Half-width of the grid around the config (default 15 %)");
+  trade->add_option("--out", trade_o.out, "Folder for trade.json and trade-grid-TRACK.csv");
+  trade->add_option("--threads", trade_o.threads, "Laps solved at once (default: all cores)")
+      ->check(CLI::Range(0, 256));
+  add_air(trade, trade_o.air);
+  trade->footer(
+      "Example:\n  lapwing trade --car cars/pellion-fr2.yaml --track tracks/cairnholt.yaml "
+      "--config medium --step 2% --out out/trade");
+
   try {
     app.parse(argc, argv);
   } catch (const CLI::ParseError& e) {
@@ -57,6 +93,8 @@ int main(int argc, char** argv) {
   try {
     if (*check) return cli::check(check_o);
     if (*run) return cli::run(run_o);
+    if (*compare) return cli::compare(compare_o);
+    if (*trade) return cli::trade(trade_o);
   } catch (const cli::UsageError& e) {
     std::cerr << "lapwing: error: " << e.message << "\n";
     return 2;

@@ -1,0 +1,136 @@
+// Studies of many laps: the wing-level comparison across tracks, and the trade between
+// downforce, drag, mass and power at a track. Laps are independent and run over a small thread
+// pool; every result lands at its own index, so output does not depend on the thread count.
+#pragma once
+
+#include <functional>
+#include <string>
+#include <vector>
+
+#include "lapwing/air.hpp"
+#include "lapwing/car.hpp"
+#include "lapwing/corners.hpp"
+#include "lapwing/mesh.hpp"
+#include "lapwing/solver.hpp"
+#include "lapwing/summary.hpp"
+#include "lapwing/track.hpp"
+
+namespace lapwing {
+
+/// A track laid out for study: its mesh, the air it is run in, its corners.
+struct Circuit {
+  Track track;
+  Mesh mesh;
+  Air air;
+  std::vector<CornerSpan> corners;
+};
+Circuit lay_out(const Track& track, const Air& air);
+
+/// One solved lap and what it comes to.
+struct LapRun {
+  Lap lap;
+  LapSummary summary;
+};
+
+/// Solves `configured_car` (one config) round `circuit`. An open track's start speed above what
+/// the car can hold there is an InputError on the track file.
+LapRun run_lap(const Car& configured_car, const Circuit& circuit, LapSolver& solver);
+LapRun run_lap(const Car& configured_car, const Circuit& circuit);
+
+/// Runs job(i, solver) for i in [0, count) over `threads` threads (0: all cores), each thread
+/// with its own LapSolver. The first exception thrown (lowest index) is rethrown after all stop.
+void parallel_for(std::size_t count, unsigned threads,
+                  const std::function<void(std::size_t, LapSolver&)>& job);
+
+/// What a trade varies. Each scales the configured car by `factor`: every ClA (or CdA) value of
+/// the config's form, the mass, or the engine's torque (constant power) at every speed.
+enum class Knob { cla, cda, mass, power };
+Car scaled(const Car& configured_car, Knob knob, double factor);
+
+/// The config's nominal coefficients: the constant values, a table's first row, a map's values
+/// at rest (what a trade's per-m2 figures refer to).
+double nominal_cla(const AeroConfig& a);
+double nominal_cda(const AeroConfig& a);
+
+/// A piece of the lap for "where the time goes": a corner (from the curvature) or the straight
+/// between two corners, with the time one config loses there against another.
+struct LapPiece {
+  std::string kind;  // "corner" or "straight"
+  int id;            // corner id, or the id of the corner the straight leads to (0: to the line)
+  double start_m, end_m;
+  double delta_s;
+};
+
+/// Lap-time delta of `b` against `a` split by where it is made: in corners (inside a corner's
+/// span), under braking (outside corners, where either lap brakes), on straights (the rest).
+/// Intervals are classified whole; the three add up to the whole delta.
+struct TimeSplit {
+  double corners_s = 0.0, braking_s = 0.0, straights_s = 0.0;
+};
+TimeSplit split_delta(const Lap& a, const Lap& b, const Mesh& mesh,
+                      const std::vector<CornerSpan>& corners);
+std::vector<LapPiece> piece_deltas(const Lap& a, const Lap& b, const Mesh& mesh,
+                                   const std::vector<CornerSpan>& corners);
+
+struct Comparison {
+  struct Entry {
+    LapRun run;
+    double delta_to_best_s;
+    TimeSplit split;               // against the track's best config
+    std::vector<LapPiece> pieces;  // against the track's best config
+  };
+  struct PerTrack {
+    std::vector<Entry> entries;  // in the order of `configs`
+    std::size_t best;            // index into entries
+    double margin_s;             // second best minus best (0 with one config)
+  };
+  std::vector<std::size_t> configs;  // indices into the car's configs
+  std::vector<PerTrack> tracks;      // in the order of the circuits
+};
+
+Comparison compare(const Car& car, const std::vector<std::size_t>& configs,
+                   const std::vector<Circuit>& circuits, unsigned threads);
+
+/// Cumulative time delta of `b` against `a` at every mesh point: t_b(s) - t_a(s).
+std::vector<double> delta_trace(const Lap& a, const Lap& b);
+
+struct TradeOptions {
+  double step = 0.02;       // relative step of the central differences
+  int grid_points = 9;      // per axis of the ClA x CdA grid
+  double grid_span = 0.15;  // +-15 % around the config
+};
+
+struct Sensitivity {
+  std::size_t track, config;  // indices: circuit, car config
+  double lap_time_s;
+  double cla_m2, cda_m2, mass_kg;  // the nominal values differentiated against
+  double dt_dcla_s_per_m2, dt_dcda_s_per_m2, dt_dmass_s_per_kg, dt_dpower_s_per_percent;
+  double breakeven_dcda_per_dcla;  // -dt/dClA / dt/dCdA: CdA one m2 of ClA may cost
+};
+
+struct TradeGrid {
+  std::size_t track, config;
+  std::vector<double> cla_m2, cda_m2;  // axes
+  std::vector<double> lap_time_s;      // row-major: [i_cla * cda.size() + i_cda]
+};
+
+/// First-order attribution of the lap-time difference of configs a -> b on a track to their
+/// nominal ClA and CdA changes: total = from_cla + from_cda + residual, from_cla = dt/dClA
+/// (ClA_b - ClA_a), with the sensitivities of `reference` (a when a is traded, else the first
+/// traded config).
+struct Attribution {
+  std::size_t track, a, b, reference;
+  double total_s, from_cla_s, from_cda_s, residual_s;
+};
+
+struct Trade {
+  TradeOptions options;
+  std::vector<Sensitivity> sensitivities;  // track-major, then config
+  std::vector<TradeGrid> grids;            // one per track, around the first traded config
+  std::vector<Attribution> attributions;   // every pair of the car's configs, per track
+};
+
+Trade trade(const Car& car, const std::vector<std::size_t>& configs,
+            const std::vector<Circuit>& circuits, const TradeOptions& options, unsigned threads);
+
+}  // namespace lapwing

@@ -1,0 +1,294 @@
+#include "lapwing/study.hpp"
+
+#include <algorithm>
+#include <atomic>
+#include <cassert>
+#include <exception>
+#include <mutex>
+#include <thread>
+
+#include "lapwing/envelope.hpp"
+#include "lapwing/error.hpp"
+#include "lapwing/units.hpp"
+
+namespace lapwing {
+
+Circuit lay_out(const Track& track, const Air& air) {
+  Circuit c{track, build_mesh(track, track.mesh_m), air, {}};
+  c.corners = find_corners(c.mesh);
+  return c;
+}
+
+LapRun run_lap(const Car& car, const Circuit& c, LapSolver& solver) {
+  const Envelope env(car, c.air);
+  const Lap& lap = solver.solve(env, c.mesh, c.track.start_speed_mps);
+  if (!c.track.closed && c.track.start_speed_mps > lap.steady.speed_mps.front() * (1 + 1e-9)) {
+    char buf[160];
+    std::snprintf(buf, sizeof buf,
+                  "start_speed %.1f km/h is more than the car can hold at the start (%.1f km/h)",
+                  c.track.start_speed_mps / units::kph, lap.steady.speed_mps.front() / units::kph);
+    throw InputError(c.track.file, c.track.start_speed_mark, buf, "start_speed");
+  }
+  LapRun r{lap, summarize(lap, c.mesh, c.track, c.corners, env)};
+  return r;
+}
+
+LapRun run_lap(const Car& car, const Circuit& c) {
+  LapSolver solver;
+  return run_lap(car, c, solver);
+}
+
+void parallel_for(std::size_t count, unsigned threads,
+                  const std::function<void(std::size_t, LapSolver&)>& job) {
+  if (threads == 0) threads = std::max(1u, std::thread::hardware_concurrency());
+  threads = static_cast<unsigned>(std::min<std::size_t>(threads, std::max<std::size_t>(count, 1)));
+  std::atomic<std::size_t> next{0};
+  std::mutex failure_mutex;
+  std::exception_ptr failure;
+  std::size_t failure_index = count;
+  auto worker = [&] {
+    LapSolver solver;
+    for (std::size_t i = next++; i < count; i = next++) {
+      try {
+        job(i, solver);
+      } catch (...) {
+        // Keep the failure of the lowest index: the same error whatever the thread count.
+        std::lock_guard<std::mutex> lock(failure_mutex);
+        if (i < failure_index) {
+          failure_index = i;
+          failure = std::current_exception();
+        }
+      }
+    }
+  };
+  if (threads <= 1) {
+    worker();
+  } else {
+    std::vector<std::thread> pool;
+    for (unsigned t = 0; t < threads; ++t) pool.emplace_back(worker);
+    for (auto& t : pool) t.join();
+  }
+  if (failure) std::rethrow_exception(failure);
+}
+
+Car scaled(const Car& car, Knob knob, double f) {
+  assert(car.configs.size() == 1 && "scaled takes a configured car");
+  Car c = car;
+  AeroConfig& a = c.configs.front();
+  switch (knob) {
+    case Knob::cla:
+      for (double& v : a.cla_m2) v *= f;
+      if (a.map) a.map->cla_m2 *= f;
+      break;
+    case Knob::cda:
+      for (double& v : a.cda_m2) v *= f;
+      if (a.map) a.map->cda_m2 *= f;
+      break;
+    case Knob::mass:
+      c.mass_kg *= f;
+      break;
+    case Knob::power:
+      if (c.powertrain.ideal) c.powertrain.constant_power_w *= f;
+      for (double& t : c.powertrain.torque_nm) t *= f;
+      break;
+  }
+  return c;
+}
+
+double nominal_cla(const AeroConfig& a) {
+  return a.cla_m2.front();
+}
+double nominal_cda(const AeroConfig& a) {
+  return a.cda_m2.front();
+}
+
+namespace {
+
+// Which piece of the lap an interval [i, i+1] belongs to: the index of the corner containing
+// it, or -1.
+std::vector<int> corner_of_interval(const Mesh& mesh, const std::vector<CornerSpan>& corners) {
+  std::vector<int> owner(mesh.intervals(), -1);
+  for (std::size_t k = 0; k < corners.size(); ++k)
+    for (std::size_t i = corners[k].start; i < corners[k].end; ++i) owner[i] = static_cast<int>(k);
+  return owner;
+}
+
+double interval_time(const Lap& lap, std::size_t i) {
+  return lap.time_s[i + 1] - lap.time_s[i];
+}
+
+}  // namespace
+
+TimeSplit split_delta(const Lap& a, const Lap& b, const Mesh& mesh,
+                      const std::vector<CornerSpan>& corners) {
+  const std::vector<int> owner = corner_of_interval(mesh, corners);
+  TimeSplit s;
+  for (std::size_t i = 0; i < mesh.intervals(); ++i) {
+    const double d = interval_time(b, i) - interval_time(a, i);
+    auto brakes = [i](const Lap& l) {
+      return l.phase[i] == Phase::brake || l.phase[i + 1] == Phase::brake;
+    };
+    if (owner[i] >= 0)
+      s.corners_s += d;
+    else if (brakes(a) || brakes(b))
+      s.braking_s += d;
+    else
+      s.straights_s += d;
+  }
+  return s;
+}
+
+std::vector<LapPiece> piece_deltas(const Lap& a, const Lap& b, const Mesh& mesh,
+                                   const std::vector<CornerSpan>& corners) {
+  std::vector<LapPiece> out;
+  auto add = [&](const std::string& kind, int id, std::size_t from, std::size_t to) {
+    if (to <= from) return;
+    out.push_back({kind, id, mesh.s_m[from], mesh.s_m[to],
+                   (b.time_s[to] - b.time_s[from]) - (a.time_s[to] - a.time_s[from])});
+  };
+  std::size_t at = 0;
+  for (const auto& c : corners) {
+    add("straight", c.id, at, c.start);  // the straight leading to corner c
+    add("corner", c.id, c.start, c.end);
+    at = c.end;
+  }
+  add("straight", 0, at, mesh.size() - 1);  // to the line
+  return out;
+}
+
+std::vector<double> delta_trace(const Lap& a, const Lap& b) {
+  std::vector<double> d(a.time_s.size());
+  for (std::size_t i = 0; i < d.size(); ++i) d[i] = b.time_s[i] - a.time_s[i];
+  return d;
+}
+
+Comparison compare(const Car& car, const std::vector<std::size_t>& configs,
+                   const std::vector<Circuit>& circuits, unsigned threads) {
+  const std::size_t nc = configs.size(), nt = circuits.size();
+  std::vector<LapRun> runs(nc * nt);
+  std::vector<Car> cars;
+  for (std::size_t c : configs) cars.push_back(car.configured(c));
+  parallel_for(runs.size(), threads, [&](std::size_t k, LapSolver& solver) {
+    runs[k] = run_lap(cars[k % nc], circuits[k / nc], solver);
+  });
+  Comparison out;
+  out.configs = configs;
+  for (std::size_t t = 0; t < nt; ++t) {
+    Comparison::PerTrack pt;
+    std::size_t best = 0;
+    for (std::size_t c = 1; c < nc; ++c)
+      if (runs[t * nc + c].summary.lap_time_s < runs[t * nc + best].summary.lap_time_s) best = c;
+    pt.best = best;
+    const LapRun& ref = runs[t * nc + best];
+    double second = 0.0;
+    bool have_second = false;
+    for (std::size_t c = 0; c < nc; ++c) {
+      const LapRun& r = runs[t * nc + c];
+      Comparison::Entry e;
+      e.delta_to_best_s = r.summary.lap_time_s - ref.summary.lap_time_s;
+      e.split = split_delta(ref.lap, r.lap, circuits[t].mesh, circuits[t].corners);
+      e.pieces = piece_deltas(ref.lap, r.lap, circuits[t].mesh, circuits[t].corners);
+      if (c != best && (!have_second || e.delta_to_best_s < second)) {
+        second = e.delta_to_best_s;
+        have_second = true;
+      }
+      pt.entries.push_back(std::move(e));
+    }
+    // Moved only now: every entry above read the best lap.
+    for (std::size_t c = 0; c < nc; ++c) pt.entries[c].run = std::move(runs[t * nc + c]);
+    pt.margin_s = have_second ? second : 0.0;
+    out.tracks.push_back(std::move(pt));
+  }
+  return out;
+}
+
+Trade trade(const Car& car, const std::vector<std::size_t>& configs,
+            const std::vector<Circuit>& circuits, const TradeOptions& o, unsigned threads) {
+  const std::size_t nt = circuits.size(), ncfg = car.configs.size();
+  // Jobs: per track, every config's own lap (for attributions), then per traded config the
+  // eight perturbed laps, then the grid around the first traded config.
+  struct Job {
+    std::size_t track;
+    Car car;
+  };
+  std::vector<Job> jobs;
+  const Knob knobs[] = {Knob::cla, Knob::cda, Knob::mass, Knob::power};
+  const int g = o.grid_points;
+  for (std::size_t t = 0; t < nt; ++t) {
+    for (std::size_t c = 0; c < ncfg; ++c) jobs.push_back({t, car.configured(c)});
+    for (std::size_t c : configs) {
+      const Car base = car.configured(c);
+      for (Knob k : knobs)
+        for (double sign : {1.0, -1.0}) jobs.push_back({t, scaled(base, k, 1.0 + sign * o.step)});
+    }
+    const Car base = car.configured(configs.front());
+    for (int i = 0; i < g; ++i)
+      for (int j = 0; j < g; ++j) {
+        const double fa = 1.0 + o.grid_span * (2.0 * i / (g - 1) - 1.0);
+        const double fd = 1.0 + o.grid_span * (2.0 * j / (g - 1) - 1.0);
+        jobs.push_back({t, scaled(scaled(base, Knob::cla, fa), Knob::cda, fd)});
+      }
+  }
+  std::vector<double> times(jobs.size());
+  parallel_for(jobs.size(), threads, [&](std::size_t k, LapSolver& solver) {
+    times[k] = run_lap(jobs[k].car, circuits[jobs[k].track], solver).summary.lap_time_s;
+  });
+
+  Trade out;
+  out.options = o;
+  std::size_t k = 0;
+  for (std::size_t t = 0; t < nt; ++t) {
+    std::vector<double> own(times.begin() + static_cast<std::ptrdiff_t>(k),
+                            times.begin() + static_cast<std::ptrdiff_t>(k + ncfg));
+    k += ncfg;
+    std::vector<Sensitivity> here;
+    for (std::size_t c : configs) {
+      const Car base = car.configured(c);
+      const AeroConfig& a = base.configs.front();
+      Sensitivity s{t, c, own[c], nominal_cla(a), nominal_cda(a), base.mass_kg, 0, 0, 0, 0, 0};
+      // Central differences: dt/dx = (t(x (1 + h)) - t(x (1 - h))) / (2 h x).
+      auto central = [&](double x) {
+        const double d = (times[k] - times[k + 1]) / (2.0 * o.step * x);
+        k += 2;
+        return d;
+      };
+      s.dt_dcla_s_per_m2 = central(s.cla_m2);
+      s.dt_dcda_s_per_m2 = central(s.cda_m2);
+      s.dt_dmass_s_per_kg = central(s.mass_kg);
+      s.dt_dpower_s_per_percent = central(100.0);  // x = 100 %: per percent of power
+      s.breakeven_dcda_per_dcla =
+          s.dt_dcda_s_per_m2 != 0.0 ? -s.dt_dcla_s_per_m2 / s.dt_dcda_s_per_m2 : 0.0;
+      here.push_back(s);
+      out.sensitivities.push_back(s);
+    }
+    TradeGrid grid{t, configs.front(), {}, {}, {}};
+    const AeroConfig& a0 = car.configs[configs.front()];
+    for (int i = 0; i < g; ++i) {
+      const double f = 1.0 + o.grid_span * (2.0 * i / (g - 1) - 1.0);
+      grid.cla_m2.push_back(nominal_cla(a0) * f);
+      grid.cda_m2.push_back(nominal_cda(a0) * f);
+    }
+    grid.lap_time_s.assign(times.begin() + static_cast<std::ptrdiff_t>(k),
+                           times.begin() + static_cast<std::ptrdiff_t>(k + g * g));
+    k += static_cast<std::size_t>(g * g);
+    out.grids.push_back(std::move(grid));
+    for (std::size_t a = 0; a < ncfg; ++a)
+      for (std::size_t b = a + 1; b < ncfg; ++b) {
+        std::size_t ref = 0;
+        for (std::size_t r = 0; r < here.size(); ++r)
+          if (here[r].config == a) ref = r;
+        const Sensitivity& s = here[ref];
+        const AeroConfig& ca = car.configs[a];
+        const AeroConfig& cb = car.configs[b];
+        Attribution at{t, a, b, s.config, own[b] - own[a], 0, 0, 0};
+        at.from_cla_s = s.dt_dcla_s_per_m2 * (nominal_cla(cb) - nominal_cla(ca));
+        at.from_cda_s = s.dt_dcda_s_per_m2 * (nominal_cda(cb) - nominal_cda(ca));
+        at.residual_s = at.total_s - at.from_cla_s - at.from_cda_s;
+        out.attributions.push_back(at);
+      }
+  }
+  assert(k == times.size());
+  return out;
+}
+
+}  // namespace lapwing

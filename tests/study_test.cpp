@@ -1,0 +1,175 @@
+// Studies: sensitivities against explicit runs of edited car files, their signs, attribution,
+// comparison deltas against single runs, and thread-count independence.
+#include <doctest/doctest.h>
+
+#include <cmath>
+#include <fstream>
+#include <regex>
+#include <sstream>
+
+#include "lapwing/car.hpp"
+#include "lapwing/study.hpp"
+#include "test_support.hpp"
+
+using namespace lapwing;
+using lapwing::test::near;
+
+namespace {
+
+std::string read(const std::string& path) {
+  std::ifstream in(path);
+  std::stringstream ss;
+  ss << in.rdbuf();
+  return ss.str();
+}
+
+Car load_text(const std::string& text, const std::string& name) {
+  const std::string path = "study_test_" + name + ".yaml";
+  std::ofstream(path) << text;
+  Car c = load_car(path);
+  std::remove(path.c_str());
+  return c;
+}
+
+Circuit circuit(const std::string& file) {
+  const Track t = load_track(test::source_path(file));
+  return lay_out(t, make_air(t.air));
+}
+
+// Replaces every number in `text` matched by `pattern` (group 1 the number) by number * f.
+std::string scale_numbers(const std::string& text, const std::regex& pattern, double f) {
+  std::string out;
+  auto begin = std::sregex_iterator(text.begin(), text.end(), pattern);
+  std::size_t at = 0;
+  for (auto it = begin; it != std::sregex_iterator(); ++it) {
+    const auto& m = *it;
+    out += text.substr(at, static_cast<std::size_t>(m.position(1)) - at);
+    std::ostringstream os;
+    os.precision(17);
+    os << std::stod(m.str(1)) * f;
+    out += os.str();
+    at = static_cast<std::size_t>(m.position(1) + m.length(1));
+  }
+  return out + text.substr(at);
+}
+
+double lap_of(const Car& car, const std::string& config, const Circuit& c) {
+  return run_lap(car.configured(static_cast<std::size_t>(car.config_index(config))), c)
+      .summary.lap_time_s;
+}
+
+}  // namespace
+
+TEST_CASE("sensitivities equal two explicit runs of the car file edited by +-step (1e-9)") {
+  const std::string text = read(test::source_path("cars/pellion-fr2.yaml"));
+  const Car car = load_text(text, "base");
+  const std::size_t high = static_cast<std::size_t>(car.config_index("high"));
+  const std::vector<Circuit> circuits{circuit("tracks/brannock-park.yaml")};
+  const double h = 0.02;
+  const Trade t = trade(car, {high}, circuits, TradeOptions{h, 3, 0.15}, 2);
+  REQUIRE(t.sensitivities.size() == 1);
+  const Sensitivity& s = t.sensitivities.front();
+  // The edits a person would make in the file.
+  struct Edit {
+    std::regex pattern;
+    double nominal, got;
+  };
+  const Edit edits[] = {
+      {std::regex(R"(high: +\{cda: [0-9.]+ m2, cla: ([0-9.]+))"), 4.3, s.dt_dcla_s_per_m2},
+      {std::regex(R"(high: +\{cda: ([0-9.]+))"), 1.38, s.dt_dcda_s_per_m2},
+      {std::regex(R"(\nmass: ([0-9.]+))"), 640.0, s.dt_dmass_s_per_kg},
+      // Power: every torque value of the curve, one at a time (power per percent: x = 100 %).
+      {std::regex(R"(torque: \[([0-9.]+))"), 100.0, s.dt_dpower_s_per_percent},
+  };
+  auto edited = [&](const Edit& e, double f) {
+    std::string out = scale_numbers(text, e.pattern, f);
+    if (&e == &edits[3])
+      for (const char* value : {"390", "420", "395", "350"})
+        out = scale_numbers(out, std::regex(std::string(", (") + value + ")(?=[,\\]])"), f);
+    return out;
+  };
+  for (const Edit& e : edits) {
+    const Car up = load_text(edited(e, 1 + h), "up");
+    const Car down = load_text(edited(e, 1 - h), "down");
+    const double explicit_rate =
+        (lap_of(up, "high", circuits[0]) - lap_of(down, "high", circuits[0])) / (2 * h * e.nominal);
+    CAPTURE(e.nominal);
+    CHECK(explicit_rate != 0.0);
+    CHECK(near(e.got, explicit_rate, 1e-9));
+  }
+}
+
+TEST_CASE("signs: downforce pays on the tight track, drag and mass cost everywhere, power pays") {
+  const Car car = load_car(test::source_path("cars/pellion-fr2.yaml"));
+  const std::vector<Circuit> circuits{circuit("tracks/brannock-park.yaml"),
+                                      circuit("tracks/saltmere-flats.yaml"),
+                                      circuit("tracks/cairnholt.yaml")};
+  const Trade t = trade(car, {1}, circuits, TradeOptions{0.02, 3, 0.15}, 0);
+  for (const Sensitivity& s : t.sensitivities) {
+    CAPTURE(circuits[s.track].track.name);
+    CHECK(s.dt_dcda_s_per_m2 > 0.0);
+    CHECK(s.dt_dmass_s_per_kg > 0.0);
+    CHECK(s.dt_dpower_s_per_percent < 0.0);
+    if (s.track == 0) CHECK(s.dt_dcla_s_per_m2 < 0.0);  // Brannock Park: tight and slow
+  }
+  // Common practice (REFERENCES, facts of the trade): drag weighs most where straights are
+  // long, so one m2 of downforce may cost less drag at the fast track than at the tight one.
+  CHECK(t.sensitivities[1].breakeven_dcda_per_dcla < t.sensitivities[0].breakeven_dcda_per_dcla);
+}
+
+TEST_CASE("attribution: ClA and CdA terms plus the residual make the lap-time difference") {
+  const std::string configs =
+      "    a: {cda: 1.2, cla: 3.6, balance: 0.42}\n"
+      "    b: {cda: 1.2, cla: 3.672, balance: 0.42}\n"  // +2 % ClA only
+      "    c: {cda: 1.26, cla: 3.6, balance: 0.42}\n";  // +5 % CdA only
+  std::string text = read(test::source_path("cars/pellion-fr2.yaml"));
+  text = text.substr(0, text.find("  configs:")) + "  configs:\n" + configs;
+  const Car car = load_text(text, "attr");
+  const std::vector<Circuit> circuits{circuit("tracks/cairnholt.yaml")};
+  const Trade t = trade(car, {0}, circuits, TradeOptions{0.02, 3, 0.15}, 2);
+  REQUIRE(t.attributions.size() == 3);
+  for (const Attribution& a : t.attributions) {
+    // The total is the difference of the two laps run on their own.
+    const double ta = run_lap(car.configured(a.a), circuits[0]).summary.lap_time_s;
+    const double tb = run_lap(car.configured(a.b), circuits[0]).summary.lap_time_s;
+    CHECK(near(a.total_s, tb - ta, 1e-12));
+    CHECK(near(a.from_cla_s + a.from_cda_s + a.residual_s, a.total_s, 1e-12, 1e-15));
+  }
+  // A change of ClA alone is explained by the ClA term to second order: 2 % of ClA leaves a
+  // residual of a few percent at most.
+  const Attribution& ab = t.attributions[0];
+  CHECK(ab.from_cda_s == 0.0);
+  CHECK(std::abs(ab.residual_s) < 0.05 * std::abs(ab.total_s));
+  const Attribution& ac = t.attributions[1];
+  CHECK(ac.from_cla_s == 0.0);
+  CHECK(std::abs(ac.residual_s) < 0.05 * std::abs(ac.total_s));
+}
+
+TEST_CASE(
+    "compare: deltas are differences of single runs; the split adds up; threads do not matter") {
+  const Car car = load_car(test::source_path("cars/caldra-gt.yaml"));
+  const std::vector<Circuit> circuits{circuit("tracks/brannock-park.yaml"),
+                                      circuit("tracks/saltmere-flats.yaml")};
+  const Comparison one = compare(car, {0, 1}, circuits, 1);
+  const Comparison two = compare(car, {0, 1}, circuits, 2);
+  for (std::size_t t = 0; t < circuits.size(); ++t) {
+    const auto& pt = one.tracks[t];
+    const double best = run_lap(car.configured(pt.best), circuits[t]).summary.lap_time_s;
+    for (std::size_t c = 0; c < 2; ++c) {
+      const auto& e = pt.entries[c];
+      const double lap = run_lap(car.configured(c), circuits[t]).summary.lap_time_s;
+      CHECK(near(e.delta_to_best_s, lap - best, 1e-12, 1e-15));
+      const double split = e.split.corners_s + e.split.braking_s + e.split.straights_s;
+      CHECK(near(split, e.delta_to_best_s, 1e-9, 1e-12));
+      double pieces = 0.0;
+      for (const auto& p : e.pieces) pieces += p.delta_s;
+      CHECK(near(pieces, e.delta_to_best_s, 1e-9, 1e-12));
+      // Identical with one thread or two.
+      CHECK(two.tracks[t].entries[c].run.summary.lap_time_s == e.run.summary.lap_time_s);
+    }
+    const std::vector<double> d = delta_trace(pt.entries[0].run.lap, pt.entries[1].run.lap);
+    CHECK(near(d.back(),
+               pt.entries[1].run.summary.lap_time_s - pt.entries[0].run.summary.lap_time_s, 1e-12,
+               1e-15));
+  }
+}
