@@ -357,12 +357,15 @@ Car Car::configured(std::size_t index) const {
 Car load_car(const std::string& file) {
   Document doc = load_document(file);
   Reader r(doc, doc.root, "");
-  r.keys({"format", "name", "mass", "inertia_factor", "cg_height", "wheelbase", "front_weight",
-          "tyres", "powertrain", "brakes", "aero"});
+  r.keys({"format", "name", "model", "mass", "inertia_factor", "cg_height", "wheelbase",
+          "front_weight", "tyres", "powertrain", "brakes", "aero"});
   check_format(r);
   Car car;
   car.file = file;
   car.name = r.string("name");
+  car.model = r.choice("model", {"point-mass", "axle"}, "point-mass") == "axle"
+                  ? VehicleModel::axle
+                  : VehicleModel::point_mass;
   car.mass_kg = r.quantity("mass", Quantity::mass, Range{0.0, 1e5, true, false});
   car.inertia_factor =
       r.quantity_or("inertia_factor", Quantity::number, Range{0.0, 1.0, false, true}, 0.0);

@@ -133,6 +133,12 @@ JsonWriter& JsonWriter::value(std::string_view s) {
   return *this;
 }
 
+JsonWriter& JsonWriter::null() {
+  before_value();
+  out_ += "null";
+  return *this;
+}
+
 JsonWriter& JsonWriter::numbers(const std::vector<double>& v) {
   before_value();
   out_ += "[";

@@ -29,6 +29,32 @@ std::string csv_field(const std::string& s) {
 }
 }  // namespace
 
+static void write_balance(JsonWriter& w, const BalanceSummary& b) {
+  w.key("balance")
+      .begin_object()
+      .field("static_front_share", b.static_front_share)
+      .field("aero_balance_150_kph", b.aero_balance_150)
+      .field("aero_balance_with_drag_150_kph", b.aero_balance_eff_150)
+      .field("aero_balance_250_kph", b.aero_balance_250)
+      .field("aero_balance_with_drag_250_kph", b.aero_balance_eff_250);
+  w.key("lowest_front_share_accelerating_above_200_kph");
+  if (b.has_fast_acceleration)
+    w.value(b.lowest_front_share_fast);
+  else
+    w.null();
+  w.key("lowest_front_share_at_m");
+  if (b.has_fast_acceleration)
+    w.value(b.lowest_front_share_at_m);
+  else
+    w.null();
+  w.key("front_limited_corners").begin_array();
+  for (int id : b.front_limited_corners) w.value(id);
+  w.end_array()
+      .field("balance_index_threshold", b.threshold)
+      .field("front_limited_length_m", b.front_limited_length_m)
+      .end_object();
+}
+
 std::string summary_json(const std::string& car_name, const std::vector<LapSummary>& results) {
   JsonWriter w;
   w.begin_object().field("lapwing", version()).field("car", car_name);
@@ -61,9 +87,14 @@ std::string summary_json(const std::string& car_name, const std::vector<LapSumma
           .field("exit_kph", kph(c.exit_mps))
           .field("time_s", c.time_s)
           .field("limit", c.limit)
+          .field("entry_axle", c.entry_axle)
+          .field("apex_axle", c.apex_axle)
+          .field("exit_axle", c.exit_axle)
           .end_object();
     }
-    w.end_array().end_object();
+    w.end_array();
+    write_balance(w, s.balance);
+    w.end_object();
   }
   w.end_array().end_object();
   return w.str();
@@ -72,7 +103,8 @@ std::string summary_json(const std::string& car_name, const std::vector<LapSumma
 std::string trace_csv(const Lap& lap, const Mesh& mesh) {
   std::string o =
       "distance_m,time_s,x_m,y_m,curvature_1pm,speed_kph,long_accel_g,lat_accel_g,gear,rpm,phase,"
-      "drag_N,downforce_N,front_load_N,rear_load_N\n";
+      "drag_N,downforce_N,front_load_N,rear_load_N,front_share,aero_balance_eff,front_usage,"
+      "rear_usage,balance_index\n";
   o.reserve(mesh.size() * 200);
   auto num = [&o](double v) {
     o += format_number(v);
@@ -95,7 +127,12 @@ std::string trace_csv(const Lap& lap, const Mesh& mesh) {
     num(lap.drag_n[i]);
     num(lap.downforce_n[i]);
     num(lap.front_load_n[i]);
-    o += format_number(lap.rear_load_n[i]);
+    num(lap.rear_load_n[i]);
+    num(lap.front_share[i]);
+    num(lap.aero_balance_eff[i]);
+    num(lap.front_usage[i]);
+    num(lap.rear_usage[i]);
+    o += format_number(lap.front_usage[i] - lap.rear_usage[i]);
     o += '\n';
   }
   return o;
@@ -109,7 +146,7 @@ std::string corners_csv(const std::vector<LapSummary>& results) {
       for (double v : {c.start_m, c.apex_m, c.end_m, kph(c.entry_mps), kph(c.apex_mps),
                        kph(c.exit_mps), c.time_s})
         o += "," + format_number(v);
-      o += "," + c.limit + "\n";
+      o += "," + c.limit + "," + c.entry_axle + "," + c.apex_axle + "," + c.exit_axle + "\n";
     }
   }
   return o;
@@ -149,6 +186,27 @@ std::string text_table(const std::vector<std::string>& header,
   return o;
 }
 
+std::string balance_text(const BalanceSummary& b) {
+  std::string o = "balance: static front weight " + fixed(100 * b.static_front_share, 1) +
+                  " %; aero balance " + fixed(100 * b.aero_balance_150, 1) + " % (" +
+                  fixed(100 * b.aero_balance_eff_150, 1) +
+                  " % with the drag moment) at 150 km/h, " + fixed(100 * b.aero_balance_250, 1) +
+                  " % (" + fixed(100 * b.aero_balance_eff_250, 1) + " %) at 250 km/h\n";
+  if (b.has_fast_acceleration)
+    o += "         lowest front share accelerating above 200 km/h: " +
+         fixed(100 * b.lowest_front_share_fast, 1) + " % at " +
+         fixed(b.lowest_front_share_at_m, 0) + " m\n";
+  else
+    o += "         the car does not accelerate above 200 km/h on this lap\n";
+  std::string ids;
+  for (int id : b.front_limited_corners) ids += (ids.empty() ? "" : ", ") + std::to_string(id);
+  o +=
+      "         front limits at the apex of corners: " + (ids.empty() ? std::string("none") : ids) +
+      "; front ahead of the rear by more than " + fixed(b.threshold, 2) + " of usage over " +
+      fixed(b.front_limited_length_m, 0) + " m of the lap\n";
+  return o;
+}
+
 std::string lap_table(const LapSummary& s) {
   std::string o;
   o += "lap time " + fixed(s.lap_time_s, 3) + " s   top speed " + fixed(kph(s.top_speed_mps), 1) +
@@ -169,11 +227,12 @@ std::string lap_table(const LapSummary& s) {
       rows.push_back({std::to_string(c.id), c.direction > 0 ? "L" : "R", fixed(c.start_m, 1),
                       fixed(c.apex_m, 1), fixed(c.end_m, 1), fixed(kph(c.entry_mps), 1),
                       fixed(kph(c.apex_mps), 1), fixed(kph(c.exit_mps), 1), fixed(c.time_s, 3),
-                      c.limit});
+                      c.limit, c.entry_axle + "/" + c.apex_axle + "/" + c.exit_axle});
     o += "\n" + text_table({"corner", "turn", "start m", "apex m", "end m", "entry km/h",
-                            "apex km/h", "exit km/h", "time s", "limit"},
+                            "apex km/h", "exit km/h", "time s", "limit", "axle entry/apex/exit"},
                            rows);
   }
+  o += "\n" + balance_text(s.balance);
   return o;
 }
 
@@ -205,6 +264,7 @@ std::string compare_json(const Car& car, const Comparison& c,
           .field("top_speed_kph", kph(s.top_speed_mps))
           .field("min_speed_kph", kph(s.min_speed_mps))
           .field("full_throttle_fraction", s.full_throttle_fraction);
+      write_balance(w, s.balance);
       w.key("where_the_time_goes")
           .begin_object()
           .field("corners_s", e.split.corners_s)
@@ -263,6 +323,27 @@ std::string compare_table(const Car& car, const Comparison& c,
     o += text_table({"config", "lap s", "delta s", "top km/h", "min km/h", "full throttle %",
                      "in corners s", "braking s", "straights s"},
                     rows);
+    // Balance per config, side by side.
+    {
+      std::vector<std::vector<std::string>> brows;
+      for (const auto& e : pt.entries) {
+        const BalanceSummary& b = e.run.summary.balance;
+        std::string ids;
+        for (int id : b.front_limited_corners) ids += (ids.empty() ? "" : ",") + std::to_string(id);
+        brows.push_back(
+            {e.run.summary.config,
+             fixed(100 * b.aero_balance_150, 1) + " / " + fixed(100 * b.aero_balance_eff_150, 1),
+             fixed(100 * b.aero_balance_250, 1) + " / " + fixed(100 * b.aero_balance_eff_250, 1),
+             b.has_fast_acceleration ? fixed(100 * b.lowest_front_share_fast, 1) + " at " +
+                                           fixed(b.lowest_front_share_at_m, 0) + " m"
+                                     : std::string("-"),
+             ids.empty() ? std::string("-") : ids, fixed(b.front_limited_length_m, 0)});
+      }
+      o += "\nbalance (aero balance % alone / with the drag moment; front share of the load)\n" +
+           text_table({"config", "aero 150 km/h", "aero 250 km/h", "lowest front % > 200 km/h",
+                       "front-limited corners", "front-limited m"},
+                      brows);
+    }
     // Per piece: which corners gain, which straights lose, against the best.
     if (pt.entries.size() > 1) {
       std::vector<std::string> header{"piece", "from m", "to m"};

@@ -11,6 +11,7 @@
 #include <tuple>
 #include <utility>
 
+#include "lapwing/axle.hpp"
 #include "lapwing/error.hpp"
 #include "lapwing/units.hpp"
 
@@ -110,6 +111,7 @@ void steady_profile(const Envelope& env, const Mesh& mesh, SteadyProfile& p) {
   p.limit.resize(n);
   const double v_max = env.max_speed_mps();
   const TyreModel& tyres = env.tyres();
+  const bool axle = env.car().model == VehicleModel::axle;
   double last_grade = std::nan(""), last_curv = std::nan("");
   bool last_trimmed = false;
   double v_engine = 0.0, v_grip = 0.0;
@@ -129,14 +131,21 @@ void steady_profile(const Envelope& env, const Mesh& mesh, SteadyProfile& p) {
     last_trimmed = trimmed;
     if (grade != last_grade || curv != last_curv) {
       // Tyres: (|R| / Fx_max)^n + (m v^2 |kappa| / Fy_max)^n <= 1, R = resistance to hold v.
-      v_grip = highest_feasible(
-          [&](double v) {
-            const double load = env.normal_load_n(v, slope.cos);
-            const double fx = std::abs(env.resistance_n(v, slope.cos, slope.sin));
-            const double fy = env.mass_kg() * v * v * curv;
-            return tyres.usage(fx / tyres.fx_max(load), fy / tyres.fy_max(load)) - 1.0;
-          },
-          v_max, v_grip);
+      // With the axle model, on the axle that saturates first.
+      v_grip =
+          axle ? highest_feasible(
+                     [&](double v) {
+                       return axle_steady_excess(env, v, curv, slope.cos, slope.sin);
+                     },
+                     v_max, v_grip)
+               : highest_feasible(
+                     [&](double v) {
+                       const double load = env.normal_load_n(v, slope.cos);
+                       const double fx = std::abs(env.resistance_n(v, slope.cos, slope.sin));
+                       const double fy = env.mass_kg() * v * v * curv;
+                       return tyres.usage(fx / tyres.fx_max(load), fy / tyres.fy_max(load)) - 1.0;
+                     },
+                     v_max, v_grip);
     }
     last_grade = grade;
     last_curv = curv;
@@ -172,6 +181,7 @@ class Sweeper {
         mesh_(mesh),
         limit_(limit),
         forward_(direction == Sweep::forward),
+        axle_(env.car().model == VehicleModel::axle),
         ideal_(env.car().powertrain.ideal),
         n_(mesh.size()),
         period_(mesh.closed ? n_ - 1 : n_),
@@ -224,7 +234,15 @@ class Sweeper {
   /// direction of travel: forward under drive, backward under braking.
   double rhs(double u, double x) const {
     const double u0 = std::max(u, 0.0);
-    const PathForces f = path_forces(env_, u0, k0_ + dk_ * x, slope_, trimmed_);
+    const double k = k0_ + dk_ * x;
+    if (axle_) {
+      const double force =
+          forward_ ? axle_drive_force(env_, u0, k, slope_.cos, slope_.sin,
+                                      drive_share_ * env_.sample_sq(u0).drive_n, trimmed_)
+                   : axle_brake_force(env_, u0, k, slope_.cos, slope_.sin);
+      return 2.0 * force * inv_m_eff_;
+    }
+    const PathForces f = path_forces(env_, u0, k, slope_, trimmed_);
     const double force = forward_
                              ? std::min(f.grip_left_n, drive_share_ * f.drive_n) - f.resistance_n
                              : f.grip_left_n + f.resistance_n;
@@ -277,7 +295,7 @@ class Sweeper {
   const Envelope& env_;
   const Mesh& mesh_;
   const std::vector<double>& limit_;
-  const bool forward_, ideal_;
+  const bool forward_, axle_, ideal_;
   const std::size_t n_, period_;
   const double ds_, inv_m_eff_, shift_time_;
   std::size_t i_;
@@ -403,7 +421,10 @@ const Lap& LapSolver::solve(const Envelope& env, const Mesh& mesh, double start_
   lap.front_load_n.resize(n);
   lap.rear_load_n.resize(n);
   lap.trimmed.resize(n);
+  for (auto* v : {&lap.front_share, &lap.aero_balance_eff, &lap.front_usage, &lap.rear_usage})
+    v->resize(n);
   const double inv_2ds = 0.5 / mesh.step_m, inv_wb = 1.0 / wb;
+  const double weight = m * g, m_eff = env.effective_mass_kg(), crr = env.rolling_resistance();
   for (std::size_t i = 0; i < n; ++i) {
     const double v = lap.speed_mps[i];
     // a = d(v^2)/(2 ds) over the interval that starts at i (the one ending at i for the last).
@@ -431,17 +452,21 @@ const Lap& LapSolver::solve(const Envelope& env, const Mesh& mesh, double start_
     const double drag = row.drag_coef * v * v, down = row.lift_coef * v * v;
     lap.drag_n[i] = drag;
     lap.downforce_n[i] = down;
-    // Axle loads, moments about the rear contact patch (REFERENCES: load transfer):
-    // front = W cos(th) f + DF bal - D z_D / L - m a_x h / L - W sin(th) h / L.
+    // Axle loads and what each axle carries (axle.hpp): the tyre force along the path is what
+    // accelerates m_eff plus the resistance.
     const Slope slope(mesh, i);
-    const double weight = m * g;
-    const double total = weight * slope.cos + down;
-    const double front = weight * slope.cos * car.front_weight + down * row.balance -
-                         (drag * car.drag_height_m + m * ax * car.cg_height_m +
-                          weight * slope.sin * car.cg_height_m) *
-                             inv_wb;
-    lap.front_load_n[i] = front;
-    lap.rear_load_n[i] = total - front;
+    const AxleLoads loads = axle_loads(car, drag, down, row.balance, slope.cos, slope.sin, ax);
+    lap.front_load_n[i] = loads.front_n;
+    lap.rear_load_n[i] = loads.rear_n;
+    lap.front_share[i] = loads.front_n / (loads.front_n + loads.rear_n);
+    // Front share of the aero load with the drag moment: (DF bal - D z_D / L) / DF.
+    lap.aero_balance_eff[i] =
+        down > 0.0 ? (down * row.balance - drag * car.drag_height_m * inv_wb) / down : row.balance;
+    const double resistance = drag + crr * (weight * slope.cos + down) + weight * slope.sin;
+    const AxleUsage use =
+        axle_usage(env, loads, m_eff * ax + resistance, v * v * std::abs(mesh.curvature_1pm[i]));
+    lap.front_usage[i] = use.front_usage;
+    lap.rear_usage[i] = use.rear_usage;
   }
   return lap;
 }

@@ -84,6 +84,12 @@ LapSummary summarize(const Lap& lap, const Mesh& mesh, const Track& track,
     r.apex_mps = lap.speed_mps[apex];
     r.exit_mps = lap.speed_mps[c.end];
     r.time_s = lap.time_s[c.end] - lap.time_s[c.start];
+    auto axle = [&lap](std::size_t i) {
+      return lap.front_usage[i] >= lap.rear_usage[i] ? std::string("front") : std::string("rear");
+    };
+    r.entry_axle = axle(c.start);
+    r.apex_axle = axle(apex);
+    r.exit_axle = axle(c.end);
     switch (lap.phase[apex]) {
       case Phase::corner:
         r.limit = "grip";
@@ -96,6 +102,44 @@ LapSummary summarize(const Lap& lap, const Mesh& mesh, const Track& track,
         break;
     }
     s.corners.push_back(r);
+  }
+
+  // Balance.
+  BalanceSummary& b = s.balance;
+  const Car& car = env.car();
+  b.static_front_share = car.front_weight;
+  auto balance_at = [&](double kph_value, double& plain, double& eff) {
+    const double v = kph_value * units::kph;
+    const AeroPoint p = env.aero_point(v);
+    const double q = 0.5 * env.air_density() * v * v;
+    const double down = q * p.cla_m2, drag = q * p.cda_m2;
+    plain = p.balance;
+    eff = down > 0.0 ? (down * p.balance - drag * car.drag_height_m / car.wheelbase_m) / down
+                     : p.balance;
+  };
+  balance_at(150.0, b.aero_balance_150, b.aero_balance_eff_150);
+  balance_at(250.0, b.aero_balance_250, b.aero_balance_eff_250);
+  b.has_fast_acceleration = false;
+  b.lowest_front_share_fast = 0.0;
+  b.lowest_front_share_at_m = 0.0;
+  for (std::size_t i = 0; i < mesh.size(); ++i) {
+    const bool accelerating = lap.phase[i] == Phase::accelerate || lap.phase[i] == Phase::top_speed;
+    if (!accelerating || lap.speed_mps[i] <= 200.0 * units::kph) continue;
+    if (!b.has_fast_acceleration || lap.front_share[i] < b.lowest_front_share_fast) {
+      b.lowest_front_share_fast = lap.front_share[i];
+      b.lowest_front_share_at_m = mesh.s_m[i];
+      b.has_fast_acceleration = true;
+    }
+  }
+  for (const auto& c : s.corners)
+    if (c.apex_axle == "front") b.front_limited_corners.push_back(c.id);
+  b.threshold = balance_index_threshold;
+  b.front_limited_length_m = 0.0;
+  for (std::size_t i = 0; i + 1 < mesh.size(); ++i) {
+    // Each interval counts half for each end above the threshold.
+    const double over = 0.5 * ((lap.front_usage[i] - lap.rear_usage[i] > b.threshold) +
+                               (lap.front_usage[i + 1] - lap.rear_usage[i + 1] > b.threshold));
+    b.front_limited_length_m += over * mesh.step_m;
   }
   return s;
 }

@@ -26,7 +26,7 @@ for car in cars/*.yaml; do
       continue
     fi
     trace=$(ls "$out"/trace-*.csv)
-    [ "$(head -n 1 "$trace")" = "distance_m,time_s,x_m,y_m,curvature_1pm,speed_kph,long_accel_g,lat_accel_g,gear,rpm,phase,drag_N,downforce_N,front_load_N,rear_load_N" ] &&
+    [ "$(head -n 1 "$trace")" = "distance_m,time_s,x_m,y_m,curvature_1pm,speed_kph,long_accel_g,lat_accel_g,gear,rpm,phase,drag_N,downforce_N,front_load_N,rear_load_N,front_share,aero_balance_eff,front_usage,rear_usage,balance_index" ] &&
       ok || bad "trace header $trace"
     ! grep -qiE 'nan|inf' "$trace" "$out/summary.json" "$out/corners.csv" && ok || bad "non-finite number in $out"
     for key in lapwing car results track config lap_time_s length_m air_density_kg_m3 top_speed_kph \
@@ -137,6 +137,8 @@ expect_usage "--step: 60 % is out of range" trade --car cars/caldra-gt.yaml --tr
 expect_usage "--step: 0 % is out of range" trade --car cars/caldra-gt.yaml --track tracks/skidpad.yaml --step "0 %"
 expect_usage "is given twice" compare --car cars/caldra-gt.yaml --track tracks/skidpad.yaml --track ./tracks/skidpad.yaml
 expect_usage "is given twice" trade --car cars/caldra-gt.yaml --track tracks/skidpad.yaml --track tracks/skidpad.yaml
+expect_usage "--model: 'bicycle' is not one of point-mass | axle" run --car cars/caldra-gt.yaml --track tracks/skidpad.yaml --model bicycle
+"$bin" run --car cars/caldra-gt.yaml --track tracks/brannock-park.yaml --model axle | grep -q "axle model" && ok || bad "--model axle"
 for cmd in compare trade; do "$bin" $cmd --help | grep -q "Example:" && ok || bad "$cmd --help lacks an example"; done
 
 echo "cli: $pass passed, $fail failed"

@@ -22,6 +22,10 @@ struct Tyres {
 
 enum class DrivenAxle { rear, front, all };
 
+/// Where the limits come from: the whole car's tyres as one (point mass), or the axle that
+/// saturates first, with drive limited to what the driven axle's load can transmit.
+enum class VehicleModel { point_mass, axle };
+
 struct Powertrain {
   bool ideal = false;                // constant power through an ideal transmission (no gears)
   double constant_power_w = 0.0;     // when ideal
@@ -70,6 +74,7 @@ struct Car {
   Powertrain powertrain;
   double brake_front_bias;
   double drag_height_m;
+  VehicleModel model = VehicleModel::point_mass;
   std::vector<AeroConfig> configs;
 
   /// Index of the config named `name`, or -1.

@@ -25,6 +25,7 @@ class JsonWriter {
   JsonWriter& value(std::string_view s);
   JsonWriter& value(const char* s) { return value(std::string_view(s)); }
   JsonWriter& numbers(const std::vector<double>& v);  // an array of numbers on one line
+  JsonWriter& null();
   template <typename T>
   JsonWriter& field(std::string_view k, const T& v) {
     return key(k).value(v);

@@ -21,6 +21,9 @@ std::string trace_csv(const Lap& lap, const Mesh& mesh);
 /// corners.csv: the corners arrays of all results, one row per corner, track and config first.
 std::string corners_csv(const std::vector<LapSummary>& results);
 
+/// The balance block of a lap (terminal).
+std::string balance_text(const BalanceSummary& b);
+
 /// The terminal report of one lap: headline figures, sectors, and the corners table.
 std::string lap_table(const LapSummary& s);
 

@@ -22,7 +22,25 @@ struct CornerResult {
   double time_s;
   std::string limit;  // "grip" (apex on the tyres' steady limit), "power" (taken under drive,
                       // never reaching the limit), "braking" (apex inside a braking zone)
+  // The axle using more of its ellipse ("front" or "rear") at entry, apex and exit.
+  std::string entry_axle, apex_axle, exit_axle;
 };
+
+/// The balance of one lap: where the front axle's share of the load goes, and where the front
+/// saturates first (balance_index = front usage - rear usage > 0: an understeer tendency).
+struct BalanceSummary {
+  double static_front_share;
+  // Aero balance (front share of downforce) at 150 and 250 km/h, alone and with the drag moment.
+  double aero_balance_150, aero_balance_eff_150, aero_balance_250, aero_balance_eff_250;
+  bool has_fast_acceleration;              // any point accelerating above 200 km/h
+  double lowest_front_share_fast;          // lowest front share accelerating above 200 km/h
+  double lowest_front_share_at_m;          // where
+  std::vector<int> front_limited_corners;  // corners whose apex the front axle limits
+  double threshold;                        // on balance_index
+  double front_limited_length_m;           // lap length with balance_index above it
+};
+
+inline constexpr double balance_index_threshold = 0.05;
 
 struct LapSummary {
   std::string track_name, track_id, config;
@@ -36,6 +54,7 @@ struct LapSummary {
   std::vector<std::string> warnings;  // e.g. a ride height off the map within the lap's speeds
   std::vector<double> sectors_s;
   std::vector<CornerResult> corners;
+  BalanceSummary balance;
 };
 
 LapSummary summarize(const Lap& lap, const Mesh& mesh, const Track& track,

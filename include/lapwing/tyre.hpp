@@ -33,6 +33,11 @@ class TyreModel {
   struct Limits {
     double fx_max, fy_max;
   };
+  /// One axle's peak forces at its load (two tyres sharing it equally).
+  Limits axle_limits(double axle_load_n) const {
+    const double f = mu_factor(0.5 * axle_load_n) * axle_load_n;
+    return {mu_long0_ * f, mu_lat0_ * f};
+  }
   Limits limits(double load_n) const {
     const double f = mu_factor(0.25 * load_n) * load_n;
     return {mu_long0_ * f, mu_lat0_ * f};

@@ -266,16 +266,28 @@ int check(const CheckOptions& o) {
   return 0;
 }
 
+void apply_model(const std::string& model, Car& car) {
+  if (model.empty()) return;
+  if (model == "point-mass")
+    car.model = VehicleModel::point_mass;
+  else if (model == "axle")
+    car.model = VehicleModel::axle;
+  else
+    throw UsageError{"--model: '" + model + "' is not one of point-mass | axle"};
+}
+
 int run(const RunOptions& o) {
   const AirOverride air = parse_air(o.air);
-  const Car car = load_car(o.car);
+  Car car = load_car(o.car);
+  apply_model(o.model, car);
   const std::size_t ci = pick_config(car, o.config);
   const Circuit t = lay_out(o.track, air);
   const LapRun r = run_lap(car.configured(ci), t);
   const LapSummary& s = r.summary;
 
   std::string out;
-  out += "car     " + car.name + " (" + car.file + "), config " + s.config + "\n";
+  out += "car     " + car.name + " (" + car.file + "), config " + s.config + ", " +
+         (car.model == VehicleModel::axle ? "axle" : "point-mass") + " model\n";
   out += "track   " + t.track.name + " (" + t.track.file + "), " + fixed(t.mesh.length_m, 1) +
          " m, " + (t.track.closed ? "closed lap" : "open") + "\n";
   out += "air     " + describe_air(t.air) + "\n\n";
@@ -313,7 +325,8 @@ double parse_fraction_option(const std::string& text, const char* option, Range 
 
 int compare(const CompareOptions& o) {
   const AirOverride air = parse_air(o.air);
-  const Car car = load_car(o.car);
+  Car car = load_car(o.car);
+  apply_model(o.model, car);
   const std::vector<std::size_t> configs = pick_configs(car, o.configs);
   const std::vector<Circuit> circuits = lay_out_all(o.tracks, air);
   const Comparison c = lapwing::compare(car, configs, circuits, o.threads);
@@ -350,7 +363,8 @@ int trade(const TradeOptions& o) {
   options.step = parse_fraction_option(o.step, "--step", Range{0.0, 0.5, true, false});
   options.grid_span = parse_fraction_option(o.span, "--span", Range{0.0, 0.9, true, false});
   options.grid_points = o.grid;
-  const Car car = load_car(o.car);
+  Car car = load_car(o.car);
+  apply_model(o.model, car);
   std::vector<std::size_t> configs;
   if (o.config.empty())
     for (std::size_t i = 0; i < car.configs.size(); ++i) configs.push_back(i);

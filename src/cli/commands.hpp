@@ -6,6 +6,10 @@
 #include <string>
 #include <vector>
 
+namespace lapwing {
+struct Car;
+}
+
 namespace lapwing::cli {
 
 /// --altitude, --temperature, --pressure, --humidity as given (text with units); they replace
@@ -13,6 +17,9 @@ namespace lapwing::cli {
 struct AirOptions {
   std::string altitude, temperature, pressure, humidity;
 };
+
+/// --model point-mass | axle (empty: the car file's).
+void apply_model(const std::string& model, lapwing::Car& car);
 
 struct CheckOptions {
   std::string car;
@@ -23,6 +30,7 @@ struct CheckOptions {
 
 struct RunOptions {
   std::string car;
+  std::string model;
   std::string track;
   std::string config;
   std::string out;
@@ -31,6 +39,7 @@ struct RunOptions {
 
 struct CompareOptions {
   std::string car;
+  std::string model;
   std::vector<std::string> tracks;
   std::vector<std::string> configs;
   std::string out;
@@ -40,6 +49,7 @@ struct CompareOptions {
 
 struct TradeOptions {
   std::string car;
+  std::string model;
   std::vector<std::string> tracks;
   std::string config;
   std::string step = "2 %";

@@ -42,6 +42,7 @@ int main(int argc, char** argv) {
   run->add_option("--config", run_o.config, "Aero config name (default: the car file's first)");
   run->add_option("--out", run_o.out,
                   "Folder for summary.json, trace-TRACK-CONFIG.csv and corners.csv");
+  run->add_option("--model", run_o.model, "point-mass or axle (default: the car file's model)");
   add_air(run, run_o.air);
   run->footer(
       "Example:\n  lapwing run --car cars/tern-fr.yaml --track tracks/kestrel-park.yaml "
@@ -58,6 +59,7 @@ int main(int argc, char** argv) {
       "Folder for compare.json, delta-TRACK-A-B.csv, summary.json, traces, corners.csv");
   compare->add_option("--threads", compare_o.threads, "Laps solved at once (default: all cores)")
       ->check(CLI::Range(0, 256));
+  compare->add_option("--model", compare_o.model, "point-mass or axle (default: the car file's)");
   add_air(compare, compare_o.air);
   compare->footer(
       "Example:\n  lapwing compare --car cars/pellion-fr2.yaml --track tracks/brannock-park.yaml "
@@ -78,6 +80,7 @@ int main(int argc, char** argv) {
   trade->add_option("--out", trade_o.out, "Folder for trade.json and trade-grid-TRACK.csv");
   trade->add_option("--threads", trade_o.threads, "Laps solved at once (default: all cores)")
       ->check(CLI::Range(0, 256));
+  trade->add_option("--model", trade_o.model, "point-mass or axle (default: the car file's)");
   add_air(trade, trade_o.air);
   trade->footer(
       "Example:\n  lapwing trade --car cars/pellion-fr2.yaml --track tracks/cairnholt.yaml "
