@@ -170,6 +170,8 @@ namespace {
 // One sweep, one step at a time, so that the forward and the backward sweep can advance in
 // lockstep: two independent chains of dependent arithmetic keep the processor busier than one
 // (each RK4 stage waits on the last). Forward and backward differ only in the acceleration.
+// `Axle` picks the vehicle model at compile time (one branch per lap, none per stage).
+template <bool Axle>
 class Sweeper {
   SweepResult& r_;
 
@@ -181,7 +183,6 @@ class Sweeper {
         mesh_(mesh),
         limit_(limit),
         forward_(direction == Sweep::forward),
-        axle_(env.car().model == VehicleModel::axle),
         ideal_(env.car().powertrain.ideal),
         n_(mesh.size()),
         period_(mesh.closed ? n_ - 1 : n_),
@@ -235,7 +236,7 @@ class Sweeper {
   double rhs(double u, double x) const {
     const double u0 = std::max(u, 0.0);
     const double k = k0_ + dk_ * x;
-    if (axle_) {
+    if constexpr (Axle) {
       const double force =
           forward_ ? axle_drive_force(env_, u0, k, slope_.cos, slope_.sin,
                                       drive_share_ * env_.sample_sq(u0).drive_n, trimmed_)
@@ -295,7 +296,7 @@ class Sweeper {
   const Envelope& env_;
   const Mesh& mesh_;
   const std::vector<double>& limit_;
-  const bool forward_, axle_, ideal_;
+  const bool forward_, ideal_;
   const std::size_t n_, period_;
   const double ds_, inv_m_eff_, shift_time_;
   std::size_t i_;
@@ -311,11 +312,13 @@ class Sweeper {
 
 }  // namespace
 
-SweepResult sweep(const Envelope& env, const Mesh& mesh, Sweep direction,
-                  const std::vector<double>& limit, std::size_t start, double v_start) {
+namespace {
+template <bool Axle>
+SweepResult sweep_one(const Envelope& env, const Mesh& mesh, Sweep direction,
+                      const std::vector<double>& limit, std::size_t start, double v_start) {
   namespace odeint = boost::numeric::odeint;
   SweepResult r;
-  Sweeper s(env, mesh, direction, limit, start, v_start, r);
+  Sweeper<Axle> s(env, mesh, direction, limit, start, v_start, r);
   odeint::runge_kutta4<double> stepper;
   auto system = [&s](const double& u, double& dudx, double x) { dudx = s.rhs(u, x); };
   for (std::size_t k = 0, n = s.steps(); k < n; ++k) {
@@ -325,6 +328,41 @@ SweepResult sweep(const Envelope& env, const Mesh& mesh, Sweep direction,
   }
   s.finish();
   return r;
+}
+
+// Both sweeps in lockstep as one two-component state, (u_forward, u_backward): two independent
+// chains of dependent arithmetic in one system keep the processor busier than one (each RK4
+// stage waits on the last).
+template <bool Axle>
+void sweep_both(const Envelope& env, const Mesh& mesh, const std::vector<double>& limit,
+                std::size_t f0, double vf, std::size_t b0, double vb, SweepResult& fwd,
+                SweepResult& bwd) {
+  namespace odeint = boost::numeric::odeint;
+  using State = std::array<double, 2>;
+  Sweeper<Axle> f(env, mesh, Sweep::forward, limit, f0, vf, fwd);
+  Sweeper<Axle> b(env, mesh, Sweep::backward, limit, b0, vb, bwd);
+  assert(f.steps() == b.steps());
+  odeint::runge_kutta4<State> stepper;
+  auto system = [&f, &b](const State& u, State& dudx, double x) {
+    dudx[0] = f.rhs(u[0], x);
+    dudx[1] = b.rhs(u[1], x);
+  };
+  for (std::size_t k = 0, steps = f.steps(); k < steps; ++k) {
+    State u{f.begin_step(), b.begin_step()};
+    stepper.do_step(system, u, 0.0, mesh.step_m);
+    f.end_step(u[0]);
+    b.end_step(u[1]);
+  }
+  f.finish();
+  b.finish();
+}
+}  // namespace
+
+SweepResult sweep(const Envelope& env, const Mesh& mesh, Sweep direction,
+                  const std::vector<double>& limit, std::size_t start, double v_start) {
+  return env.car().model == VehicleModel::axle
+             ? sweep_one<true>(env, mesh, direction, limit, start, v_start)
+             : sweep_one<false>(env, mesh, direction, limit, start, v_start);
 }
 
 Lap solve_lap(const Envelope& env, const Mesh& mesh, double start_speed_mps) {
@@ -342,28 +380,11 @@ const Lap& LapSolver::solve(const Envelope& env, const Mesh& mesh, double start_
   SweepResult& fwd = forward_;
   SweepResult& bwd = backward_;
 
-  // Both sweeps advance in lockstep as one two-component state, (u_forward, u_backward): two
-  // independent chains of dependent arithmetic in one system keep the processor busier than
-  // one (each RK4 stage waits on the last).
   auto both = [&](std::size_t f0, double vf, std::size_t b0, double vb) {
-    namespace odeint = boost::numeric::odeint;
-    using State = std::array<double, 2>;
-    Sweeper f(env, mesh, Sweep::forward, steady, f0, vf, fwd);
-    Sweeper b(env, mesh, Sweep::backward, steady, b0, vb, bwd);
-    assert(f.steps() == b.steps());
-    odeint::runge_kutta4<State> stepper;
-    auto system = [&f, &b](const State& u, State& dudx, double x) {
-      dudx[0] = f.rhs(u[0], x);
-      dudx[1] = b.rhs(u[1], x);
-    };
-    for (std::size_t k = 0, steps = f.steps(); k < steps; ++k) {
-      State u{f.begin_step(), b.begin_step()};
-      stepper.do_step(system, u, 0.0, mesh.step_m);
-      f.end_step(u[0]);
-      b.end_step(u[1]);
-    }
-    f.finish();
-    b.finish();
+    if (env.car().model == VehicleModel::axle)
+      sweep_both<true>(env, mesh, steady, f0, vf, b0, vb, fwd, bwd);
+    else
+      sweep_both<false>(env, mesh, steady, f0, vf, b0, vb, fwd, bwd);
   };
   if (mesh.closed) {
     // Periodic lap: start both sweeps at the slowest steady point, where the speed is known.
