@@ -11,6 +11,7 @@
 #include "lapwing/document.hpp"
 #include "lapwing/envelope.hpp"
 #include "lapwing/error.hpp"
+#include "lapwing/html_report.hpp"
 #include "lapwing/json.hpp"
 #include "lapwing/mesh.hpp"
 #include "lapwing/output.hpp"
@@ -282,8 +283,8 @@ int run(const RunOptions& o) {
   apply_model(o.model, car);
   const std::size_t ci = pick_config(car, o.config);
   const Circuit t = lay_out(o.track, air);
-  const LapRun r = run_lap(car.configured(ci), t);
-  const LapSummary& s = r.summary;
+  LapRun r = run_lap(car.configured(ci), t);
+  const LapSummary s = r.summary;
 
   std::string out;
   out += "car     " + car.name + " (" + car.file + "), config " + s.config + ", " +
@@ -351,6 +352,7 @@ int compare(const CompareOptions& o) {
     files.push_back({"summary.json", summary_json(car.name, all)});
     files.push_back({"corners.csv", corners_csv(all)});
     files.push_back({"compare.json", compare_json(car, c, circuits)});
+    files.push_back({"report.html", html_report({&car, &circuits, &c, nullptr, "compare"})});
     write_outputs(o.out, files);
   }
   std::cout << out;
@@ -378,6 +380,9 @@ int trade(const TradeOptions& o) {
         {"trade.json", trade_json(car, t, circuits)}};
     for (const auto& g : t.grids)
       files.push_back({"trade-grid-" + circuits[g.track].track.id + ".csv", trade_grid_csv(g)});
+    files.push_back(
+        {"report.html", html_report({&car, &circuits, nullptr, &t,
+                                     "trade, steps of " + fixed(100 * options.step, 1) + " %"})});
     write_outputs(o.out, files);
   }
   std::cout << out;
