@@ -97,7 +97,40 @@ double wrap_angle(double a) {
 
 }  // namespace
 
+namespace {
+
+// Linear interpolation in a profile's samples at distance s (increasing calls).
+class ProfileReader {
+ public:
+  explicit ProfileReader(const PathProfile& p) : p_(p) {}
+  double at(const std::vector<double>& v, double s) {
+    while (i_ + 2 < p_.s_m.size() && p_.s_m[i_ + 1] <= s) ++i_;
+    const double a = p_.s_m[i_], b = p_.s_m[i_ + 1];
+    const double w = b > a ? std::clamp((s - a) / (b - a), 0.0, 1.0) : 0.0;
+    return v[i_] + w * (v[i_ + 1] - v[i_]);
+  }
+
+ private:
+  const PathProfile& p_;
+  std::size_t i_ = 0;
+};
+
+double turning_of(const PathProfile& p) {
+  double th = 0.0;
+  for (std::size_t i = 1; i < p.s_m.size(); ++i)
+    th += 0.5 * (p.curvature_1pm[i - 1] + p.curvature_1pm[i]) * (p.s_m[i] - p.s_m[i - 1]);
+  return th;
+}
+
+}  // namespace
+
 Closure closure(const Track& track) {
+  if (track.profile) {
+    const PathProfile& p = *track.profile;
+    const double turning = turning_of(p);
+    return {std::hypot(p.x_m.back() - p.x_m.front(), p.y_m.back() - p.y_m.front()),
+            wrap_angle(turning), p.elevation_m.back() - p.elevation_m.front(), turning};
+  }
   Walker w(track);
   const auto end = w.at(track.length_m());
   return {std::hypot(end.x, end.y), wrap_angle(end.heading), end.elevation, end.heading};
@@ -107,7 +140,11 @@ Mesh build_mesh(const Track& track, double step_m) {
   const double length = track.length_m();
   if (track.closed) {
     const Closure c = closure(track);
-    if (c.position_gap_m > closure_position_fraction * length ||
+    // A curvature profile is taken as given: only its heading must close (its positions come
+    // from integrating it, and a logged lap's drift is no error of the track).
+    const bool check_position =
+        !track.profile || track.profile->source == PathProfile::Source::centerline;
+    if ((check_position && c.position_gap_m > closure_position_fraction * length) ||
         std::abs(c.heading_gap_rad) > closure_heading_deg * units::deg) {
       std::ostringstream os;
       os.precision(4);
@@ -128,8 +165,26 @@ Mesh build_mesh(const Track& track, double step_m) {
   for (auto* v : {&m.s_m, &m.x_m, &m.y_m, &m.heading_rad, &m.curvature_1pm, &m.elevation_m,
                   &m.grade, &m.cos_slope, &m.sin_slope})
     v->resize(n + 1);
+  if (track.profile) {
+    // From the profile's samples: curvature, grade, position and elevation linear between
+    // them; heading integrated from the curvature from the first chord's direction.
+    const PathProfile& p = *track.profile;
+    ProfileReader pr(p);
+    double heading = std::atan2(p.y_m[1] - p.y_m[0], p.x_m[1] - p.x_m[0]);
+    for (std::size_t i = 0; i <= n; ++i) {
+      const double s = (i == n) ? length : static_cast<double>(i) * m.step_m;
+      m.s_m[i] = s;
+      m.x_m[i] = pr.at(p.x_m, s);
+      m.y_m[i] = pr.at(p.y_m, s);
+      m.curvature_1pm[i] = pr.at(p.curvature_1pm, s);
+      m.grade[i] = pr.at(p.grade, s);
+      m.elevation_m[i] = pr.at(p.elevation_m, s);
+      if (i) heading += 0.5 * (m.curvature_1pm[i - 1] + m.curvature_1pm[i]) * m.step_m;
+      m.heading_rad[i] = heading;
+    }
+  }
   Walker w(track);
-  for (std::size_t i = 0; i <= n; ++i) {
+  for (std::size_t i = 0; i <= n && !track.profile; ++i) {
     const double s = (i == n) ? length : static_cast<double>(i) * m.step_m;
     const auto st = w.at(s);
     m.s_m[i] = s;

@@ -3,6 +3,7 @@
 #include <filesystem>
 
 #include "lapwing/document.hpp"
+#include "lapwing/track_import.hpp"
 #include "lapwing/units.hpp"
 
 namespace lapwing {
@@ -76,6 +77,7 @@ Segment read_segment(const Document& doc, const Node& item, const std::string& p
 }  // namespace
 
 double Track::length_m() const {
+  if (profile) return profile->s_m.back();
   double l = 0.0;
   for (const auto& s : segments) l += s.length_m;
   return l;
@@ -113,16 +115,43 @@ Track load_track(const std::string& file) {
     a.finish();
   }
   t.mesh_m = r.quantity_or("mesh", Quantity::length, Range{0.01, 10.0}, 0.5);
-  for (const char* k : {"centerline", "curvature"})
-    if (const Node* n = r.get(k))
-      r.fail(*n, std::string("'") + k + "' tracks are not read by this version yet; give segments",
-             k);
-  const Node& segs = r.require("segments");
-  t.segments_mark = segs.mark;
-  if (segs.kind != Node::Kind::sequence || segs.items.empty())
-    r.fail(segs, "expected a non-empty list of segments", "segments");
-  for (std::size_t i = 0; i < segs.items.size(); ++i)
-    t.segments.push_back(read_segment(doc, segs.items[i], "segments[" + std::to_string(i) + "]"));
+  const int forms = int(r.has("segments")) + int(r.has("centerline")) + int(r.has("curvature"));
+  if (forms != 1) r.fail(r.node(), "give exactly one of segments, centerline, curvature");
+  // A data file named inside the track file is found from the track file's folder.
+  auto data_file = [&](Reader& m) {
+    const Node& n = m.require("file");
+    const std::string f = m.node_string(n, m.child_path("file"));
+    const std::filesystem::path p =
+        std::filesystem::path(f).is_absolute() ? std::filesystem::path(f) : doc.directory / f;
+    if (!std::filesystem::exists(p)) m.fail(n, "no such file: " + p.string(), "file");
+    return p.string();
+  };
+  if (r.has("centerline")) {
+    Reader c = r.map("centerline");
+    c.keys({"file", "smoothing", "elevation_smoothing"});
+    CenterlineOptions o;
+    const std::string f = data_file(c);
+    o.smoothing_m = c.quantity_or("smoothing", Quantity::length, Range{1.0, 2000.0}, o.smoothing_m);
+    o.elevation_smoothing_m = c.quantity_or("elevation_smoothing", Quantity::length,
+                                            Range{1.0, 5000.0}, o.elevation_smoothing_m);
+    c.finish();
+    t.segments_mark = c.node().mark;
+    t.profile = import_centerline(f, t.closed, o);
+  } else if (r.has("curvature")) {
+    Reader c = r.map("curvature");
+    c.keys({"file"});
+    const std::string f = data_file(c);
+    c.finish();
+    t.segments_mark = c.node().mark;
+    t.profile = import_curvature(f, t.closed);
+  } else {
+    const Node& segs = r.require("segments");
+    t.segments_mark = segs.mark;
+    if (segs.kind != Node::Kind::sequence || segs.items.empty())
+      r.fail(segs, "expected a non-empty list of segments", "segments");
+    for (std::size_t i = 0; i < segs.items.size(); ++i)
+      t.segments.push_back(read_segment(doc, segs.items[i], "segments[" + std::to_string(i) + "]"));
+  }
   const double length = t.length_m();
   if (r.has("sectors")) {
     t.sectors_mark = r.node().find("sectors")->mark;

@@ -1,6 +1,7 @@
 // The track as described by its file (SPEC section 3): fixed, validated, in SI units.
 #pragma once
 
+#include <optional>
 #include <string>
 #include <vector>
 
@@ -21,6 +22,20 @@ struct Segment {
   Mark mark;
 };
 
+/// A path given as data instead of segments: a fitted centerline or a curvature profile, as
+/// samples along the distance (closed paths end where they start).
+struct PathProfile {
+  enum class Source { centerline, curvature };
+  Source source = Source::centerline;
+  std::string data_file;  // the CSV, as found from the track file's folder
+  std::vector<double> s_m, curvature_1pm, grade, x_m, y_m, elevation_m;
+  double smoothing_m = 0.0, elevation_smoothing_m = 0.0;  // centerline fits
+  double fit_residual_rms_m = 0.0;                        // raw points against the fitted path
+  double curvature_noise_rms_1pm = 0.0;  // raw curvature against the fitted curvature
+  bool has_bank = false;                 // a bank_deg column was read (not modelled)
+  bool geodetic = false;                 // lat/lon points projected to a tangent plane
+};
+
 struct Track {
   std::string name;
   std::string file;
@@ -30,8 +45,9 @@ struct Track {
   Mark start_speed_mark;
   AirSpec air;
   double mesh_m = 0.5;
-  std::vector<Segment> segments;
+  std::vector<Segment> segments;  // empty when the path is a profile
   Mark segments_mark;
+  std::optional<PathProfile> profile;
   std::vector<double> sectors_m;  // sector start distances; first is 0
   Mark sectors_mark;
 

@@ -20,6 +20,7 @@
 #include "lapwing/study.hpp"
 #include "lapwing/summary.hpp"
 #include "lapwing/track.hpp"
+#include "lapwing/track_import.hpp"
 #include "lapwing/units.hpp"
 
 namespace lapwing::cli {
@@ -237,6 +238,18 @@ int check(const CheckOptions& o) {
            fixed(cl.elevation_gap_m, 2) + " m, corners " + std::to_string(t.corners.size()) +
            "\n       air " + describe_air(t.air) + ", mesh " + fixed(t.mesh.step_m, 4) + " m (" +
            std::to_string(t.mesh.intervals()) + " steps)\n";
+    if (t.track.profile) {
+      const PathProfile& p = *t.track.profile;
+      const bool fitted = p.source == PathProfile::Source::centerline;
+      out += "       from " + p.data_file +
+             (fitted ? std::string(p.geodetic ? " (WGS-84 lat/lon, tangent plane)" : "") +
+                           ": smoothing " + fixed(p.smoothing_m, 1) + " m, fit residual " +
+                           fixed(1000 * p.fit_residual_rms_m, 1) + " mm rms, curvature noise " +
+                           fixed(p.curvature_noise_rms_1pm, 5) + " 1/m rms"
+                     : std::string(": curvature as given") +
+                           (p.has_bank ? "; bank_deg read but not modelled" : "")) +
+             "\n";
+    }
     std::vector<std::vector<std::string>> trows;
     j.begin_object()
         .field("name", t.track.name)
@@ -257,7 +270,44 @@ int check(const CheckOptions& o) {
           .field("top_speed_kph", kph(env.top_speed_level_mps()))
           .end_object();
     }
-    j.end_array().end_object();
+    j.end_array();
+    if (t.track.profile && t.track.profile->source == PathProfile::Source::centerline) {
+      // How much the smoothing choice matters: the lap at half and double the length.
+      const PathProfile& p = *t.track.profile;
+      std::vector<std::vector<std::string>> srows;
+      j.key("smoothing_sensitivity").begin_array();
+      std::vector<Circuit> variants;
+      for (double f : {0.5, 1.0, 2.0}) {
+        Track v = t.track;
+        CenterlineOptions co;
+        co.smoothing_m = p.smoothing_m * f;
+        co.elevation_smoothing_m = p.elevation_smoothing_m;
+        v.profile = import_centerline(p.data_file, v.closed, co);
+        variants.push_back(lapwing::lay_out(v, t.air));
+      }
+      for (std::size_t c = 0; c < car.configs.size(); ++c) {
+        const Car cc = car.configured(c);
+        double laps[3];
+        for (int k = 0; k < 3; ++k)
+          laps[k] = run_lap(cc, variants[static_cast<std::size_t>(k)]).summary.lap_time_s;
+        srows.push_back({car.configs[c].name, fixed(laps[0], 3), fixed(laps[1], 3),
+                         fixed(laps[2], 3), fixed(100 * (laps[2] - laps[0]) / laps[1], 2)});
+        j.begin_object()
+            .field("config", car.configs[c].name)
+            .field("half_s", laps[0])
+            .field("as_given_s", laps[1])
+            .field("double_s", laps[2])
+            .end_object();
+      }
+      j.end_array();
+      out +=
+          "       lap time with the centerline smoothed over half, the given and double length\n" +
+          text_table({"config", "lap s at " + fixed(0.5 * p.smoothing_m, 1) + " m",
+                      "at " + fixed(p.smoothing_m, 1) + " m",
+                      "at " + fixed(2 * p.smoothing_m, 1) + " m", "spread %"},
+                     srows);
+    }
+    j.end_object();
     out += text_table({"config", "top speed km/h (this air, level)"}, trows);
   }
   j.end_array().end_object();
@@ -386,6 +436,44 @@ int trade(const TradeOptions& o) {
     write_outputs(o.out, files);
   }
   std::cout << out;
+  return 0;
+}
+
+}  // namespace lapwing::cli
+
+namespace lapwing::cli {
+
+int track_from_log(const FromLogOptions& o) {
+  if (o.distance.empty() == o.time.empty())
+    throw UsageError{"give one of --distance COL and --time COL"};
+  if (o.lat_accel.empty() && o.yaw_rate.empty())
+    throw UsageError{"give --lat-accel COL (or --yaw-rate COL)"};
+  const std::filesystem::path out(o.out);
+  if (out.extension() != ".yaml") throw UsageError{"--out must name a .yaml track file"};
+  LogOptions l;
+  l.log = o.log;
+  l.speed = o.speed;
+  l.lat_accel = o.lat_accel;
+  l.yaw_rate = o.yaw_rate;
+  l.distance = o.distance;
+  l.time = o.time;
+  l.speed_unit = o.speed_unit;
+  l.accel_unit = o.accel_unit;
+  l.yaw_unit = o.yaw_unit;
+  l.closed = o.closed;
+  l.name = o.name;
+  l.smoothing_m = *option_value(o.smoothing, "--smoothing", Quantity::length, Range{1.0, 1000.0});
+  const std::string csv_name = out.stem().string() + ".csv";
+  const LogTrack t = lapwing::track_from_log(l, csv_name);
+  const std::filesystem::path dir = out.parent_path().empty() ? "." : out.parent_path();
+  write_outputs(dir, {{out.filename().string(), t.yaml}, {csv_name, t.csv}});
+  std::cout << "track   " << o.out << " and " << (dir / csv_name).string() << "\n"
+            << "length  " << fixed(t.length_m, 1) << " m"
+            << (o.closed
+                    ? ", closure spread along the lap: heading " + fixed(t.closure_heading_deg, 2) +
+                          " deg, position " + fixed(t.closure_gap_m, 1) + " m"
+                    : std::string())
+            << "\n";
   return 0;
 }
 

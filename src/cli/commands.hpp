@@ -60,6 +60,13 @@ struct TradeOptions {
   AirOptions air;
 };
 
+struct FromLogOptions {
+  std::string log, speed, lat_accel, yaw_rate, distance, time, out, name;
+  std::string speed_unit = "km/h", accel_unit = "g", yaw_unit = "deg/s";
+  std::string smoothing = "20 m";
+  bool closed = false;
+};
+
 /// A usage error found after parsing (a bad option value): exit 2.
 struct UsageError {
   std::string message;
@@ -69,5 +76,6 @@ int check(const CheckOptions& o);
 int run(const RunOptions& o);
 int compare(const CompareOptions& o);
 int trade(const TradeOptions& o);
+int track_from_log(const FromLogOptions& o);
 
 }  // namespace lapwing::cli

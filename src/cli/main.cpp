@@ -86,6 +86,32 @@ int main(int argc, char** argv) {
       "Example:\n  lapwing trade --car cars/pellion-fr2.yaml --track tracks/cairnholt.yaml "
       "--config medium --step 2% --out out/trade");
 
+  cli::FromLogOptions log_o;
+  auto* track = app.add_subcommand("track", "Make track files from data");
+  track->require_subcommand(1);
+  auto* from_log = track->add_subcommand(
+      "from-log", "A track (curvature profile) from a logged lap: speed and lateral acceleration");
+  from_log->add_option("--log", log_o.log, "Logged lap (CSV with a header)")->required();
+  from_log->add_option("--speed", log_o.speed, "Speed column")->required();
+  from_log->add_option("--lat-accel", log_o.lat_accel,
+                       "Lateral acceleration column (+ to the left)");
+  from_log->add_option("--yaw-rate", log_o.yaw_rate, "Yaw-rate column (+ to the left), instead");
+  from_log->add_option("--distance", log_o.distance, "Distance column (m)");
+  from_log->add_option("--time", log_o.time, "Time column (s), instead of distance");
+  from_log->add_flag("--closed", log_o.closed, "The log is one whole lap");
+  from_log->add_option("--speed-unit", log_o.speed_unit, "km/h (default), m/s or mph");
+  from_log->add_option("--accel-unit", log_o.accel_unit, "g (default) or m/s2");
+  from_log->add_option("--yaw-unit", log_o.yaw_unit, "deg/s (default) or rad/s");
+  from_log->add_option("--smoothing", log_o.smoothing,
+                       "Filter length on the curvature (default 20 m)");
+  from_log->add_option("--name", log_o.name, "Track name (default: the log's file name)");
+  from_log
+      ->add_option("--out", log_o.out, "Track file to write (TRACK.yaml, and TRACK.csv beside it)")
+      ->required();
+  from_log->footer(
+      "Example:\n  lapwing track from-log --log lap.csv --speed speed_kph --lat-accel lat_g "
+      "--distance distance_m --closed --out tracks/logged.yaml");
+
   try {
     app.parse(argc, argv);
   } catch (const CLI::ParseError& e) {
@@ -98,6 +124,7 @@ int main(int argc, char** argv) {
     if (*run) return cli::run(run_o);
     if (*compare) return cli::compare(compare_o);
     if (*trade) return cli::trade(trade_o);
+    if (*from_log) return cli::track_from_log(log_o);
   } catch (const cli::UsageError& e) {
     std::cerr << "lapwing: error: " << e.message << "\n";
     return 2;

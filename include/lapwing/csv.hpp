@@ -1,0 +1,34 @@
+// Strict CSV reading for data files (centerlines, curvature profiles, logs): a header line of
+// column names (after any '#' comment lines), commas between fields, numbers in every field. BOM
+// and CRLF are accepted; a file that looks semicolon- or tab-separated, a wrong field count or a
+// non-number is an InputError with file, line and column. Read line by line (large logs are
+// streamed, not slurped).
+#pragma once
+
+#include <string>
+#include <vector>
+
+namespace lapwing {
+
+struct CsvTable {
+  std::string file;
+  std::vector<std::string> names;
+  std::vector<std::vector<double>> columns;  // one per name
+  std::vector<int> lines;                    // file line of each row (for later errors)
+
+  std::size_t rows() const { return lines.size(); }
+  /// Index of column `name`, or -1.
+  int find(const std::string& name) const;
+  /// The column named `name`; an InputError (line 1, naming the columns there are) if absent.
+  const std::vector<double>& column(const std::string& name) const;
+};
+
+/// Reads `file`. `min_rows` rows at least (an InputError otherwise).
+CsvTable read_csv(const std::string& file, std::size_t min_rows = 10);
+
+/// Errors for a column that must increase strictly (distance, time) and for consecutive rows
+/// equal in all of `columns` (duplicate points).
+void require_increasing(const CsvTable& t, const std::string& column);
+void require_no_duplicates(const CsvTable& t, const std::vector<std::string>& columns);
+
+}  // namespace lapwing
