@@ -2,6 +2,8 @@
 
 #include <cmath>
 
+#include "lapwing/units.hpp"
+
 namespace lapwing {
 
 std::vector<CornerSpan> find_corners(const Mesh& mesh, const CornerOptions& o) {
@@ -48,6 +50,8 @@ std::vector<CornerSpan> find_corners(const Mesh& mesh, const CornerOptions& o) {
       c.start -= 1;  // a one-point run: give it its step
     }
     if (mesh.s_m[c.end] - mesh.s_m[c.start] < o.min_length_m) continue;
+    if (std::abs(mesh.heading_rad[c.end] - mesh.heading_rad[c.start]) < o.min_turn_deg * units::deg)
+      continue;
     c.id = static_cast<int>(out.size()) + 1;
     out.push_back(c);
   }

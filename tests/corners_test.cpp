@@ -48,3 +48,10 @@ TEST_CASE("a gentle bend above the entry radius is no corner; hysteresis holds a
   REQUIRE(c.size() == 1);
   CHECK(held.s_m[c[0].end] == doctest::Approx(100 + 50 + 120).epsilon(0.01));
 }
+
+TEST_CASE("a run turning less than 5 deg is a wiggle, not a corner") {
+  // Radius 300 m (inside the entry radius) over 3 deg: 15.7 m long, but hardly a turn.
+  const Mesh m =
+      laid({test::straight(100), test::arc(300, 3 * units::deg, true), test::straight(100)});
+  CHECK(find_corners(m).empty());
+}

@@ -14,6 +14,7 @@ struct CornerOptions {
   double exit_curvature_1pm = 1.0 / 800.0;   // ... and ends where it rises above 800 m
   double merge_gap_m = 20.0;                 // same-direction corners closer than this merge
   double min_length_m = 5.0;                 // shorter runs are kinks, not corners
+  double min_turn_deg = 5.0;                 // runs turning less are wiggles (survey noise)
 };
 
 struct CornerSpan {
