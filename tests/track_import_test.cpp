@@ -242,3 +242,19 @@ TEST_CASE("the surveyed Brannock Park has its segment twin's corners and apex sp
   // And the lap (README's measured example): within 0.1 % at the default 20 m smoothing.
   CHECK(near(b.summary.lap_time_s, a.summary.lap_time_s, 1e-3));
 }
+
+TEST_CASE("a centerline's elevation becomes its grade") {
+  // A straight 400 m climbing at 4 %, then level: grade 0.04 then 0 (away from the change, which
+  // the 100 m elevation smoothing spreads).
+  std::ostringstream os;
+  os << "x_m,y_m,z_m\n";
+  for (int i = 0; i <= 400; i += 4) os << i << ",0," << 0.04 * i << "\n";
+  for (int i = 404; i <= 800; i += 4) os << i << ",0,16\n";
+  const std::string f = write("import_grade.csv", os.str());
+  const PathProfile p = import_centerline(f, false, CenterlineOptions{});
+  for (std::size_t i = 0; i < p.s_m.size(); ++i) {
+    if (p.s_m[i] > 100 && p.s_m[i] < 300) CHECK(near(p.grade[i], 0.04, 0.0, 1e-3));
+    if (p.s_m[i] > 550 && p.s_m[i] < 750) CHECK(near(p.grade[i], 0.0, 0.0, 1e-3));
+  }
+  std::remove(f.c_str());
+}
