@@ -51,9 +51,9 @@ constexpr int steady_bits = 36;
 struct PathForces {
   double grip_left_n, resistance_n, drive_n;
 };
-inline PathForces path_forces(const Envelope& env, double v2, double abs_curvature,
-                              const Slope& slope, bool trimmed) {
-  const Envelope::Sample s = env.sample_sq(v2, trimmed);
+inline PathForces path_forces(const Envelope& env, const Envelope::Rows& rows, double v2,
+                              double abs_curvature, const Slope& slope) {
+  const Envelope::Sample s = rows.at(v2);
   const double load = env.weight_n() * slope.cos + s.lift_coef * v2;
   const TyreModel::Limits lim = env.tyres().limits(load);
   const double fy = env.mass_kg() * v2 * abs_curvature;
@@ -222,6 +222,7 @@ class Sweeper {
     // Under drive, movable aero trims where the step starts on a straight enough piece; under
     // braking it does not.
     trimmed_ = forward_ && env_.trims(k0_);
+    rows_ = env_.rows(trimmed_);
     drive_share_ = 1.0;
     if (forward_ && cut_left_s_ > 0.0) {
       // Share of this step's time (estimated at the entry speed) with the drive still on.
@@ -243,7 +244,7 @@ class Sweeper {
                    : axle_brake_force(env_, u0, k, slope_.cos, slope_.sin);
       return 2.0 * force * inv_m_eff_;
     }
-    const PathForces f = path_forces(env_, u0, k, slope_, trimmed_);
+    const PathForces f = path_forces(env_, rows_, u0, k, slope_);
     const double force = forward_
                              ? std::min(f.grip_left_n, drive_share_ * f.drive_n) - f.resistance_n
                              : f.grip_left_n + f.resistance_n;
@@ -305,6 +306,7 @@ class Sweeper {
   std::size_t j_ = 0;
   double k0_ = 0.0, dk_ = 0.0, drive_share_ = 1.0;
   bool trimmed_ = false;
+  Envelope::Rows rows_{nullptr, 0, 0.0};  // the table the step reads
   Slope slope_{1.0, 0.0};
   int gear_ = 0;
   double cut_left_s_ = 0.0;  // drive cut still to run after an upshift

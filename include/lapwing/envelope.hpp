@@ -44,21 +44,31 @@ class Envelope {
     double lift_coef;  // 0.5 rho ClA(v): downforce = lift_coef v^2
     double balance;    // front share of downforce
   };
-  /// The row at speed squared u = v^2 (m^2/s^2); `trimmed` reads the straight-line trim's rows
-  /// (only where trims() says so).
-  Sample sample_sq(double u, bool trimmed = false) const {
-    const std::vector<Sample>& rows = trimmed ? trim_rows_ : rows_;
-    const double f = u * inv_du_;
-    if (!(f > 0.0)) return rows.front();
-    const std::size_t last = rows.size() - 1;
-    if (f >= static_cast<double>(last)) return rows.back();
-    const std::size_t i = static_cast<std::size_t>(f);
-    const double w = f - static_cast<double>(i);
-    const Sample& a = rows[i];
-    const Sample& b = rows[i + 1];
-    return {a.drive_n + w * (b.drive_n - a.drive_n), a.drag_coef + w * (b.drag_coef - a.drag_coef),
-            a.lift_coef + w * (b.lift_coef - a.lift_coef), a.balance + w * (b.balance - a.balance)};
+  /// A view of one table (plain or trimmed) for the hot loop: its rows, last index and 1/du
+  /// held in registers, no choice of table per read.
+  struct Rows {
+    const Sample* rows;
+    std::size_t last;
+    double inv_du;
+    /// The row at speed squared u = v^2 (m^2/s^2), linear between rows, held at the ends.
+    Sample at(double u) const {
+      const double f = u * inv_du;
+      if (!(f > 0.0)) return rows[0];
+      if (f >= static_cast<double>(last)) return rows[last];
+      const std::size_t i = static_cast<std::size_t>(f);
+      const double w = f - static_cast<double>(i);
+      const Sample& a = rows[i];
+      const Sample& b = rows[i + 1];
+      return {a.drive_n + w * (b.drive_n - a.drive_n), a.drag_coef + w * (b.drag_coef - a.drag_coef),
+              a.lift_coef + w * (b.lift_coef - a.lift_coef), a.balance + w * (b.balance - a.balance)};
+    }
+  };
+  /// `trimmed` reads the straight-line trim's rows (only where trims() says so).
+  Rows rows(bool trimmed = false) const {
+    const std::vector<Sample>& r = trimmed ? trim_rows_ : rows_;
+    return {r.data(), r.size() - 1, inv_du_};
   }
+  Sample sample_sq(double u, bool trimmed = false) const { return rows(trimmed).at(u); }
   Sample sample(double v, bool trimmed = false) const { return sample_sq(v * v, trimmed); }
 
   /// Straight-line trim (movable aero): applies under full drive where |curvature| is below the
