@@ -14,6 +14,7 @@ if [ -z "$browser" ]; then
 fi
 tmp=$(mktemp -d)
 trap 'rm -rf "$tmp"' EXIT
+export HOME="${HOME:-$tmp}"  # the browser wants a home; CI may not set one
 pass=0
 fail=0
 "$bin" compare --car cars/pellion-fr2.yaml --track tracks/brannock-park.yaml \
