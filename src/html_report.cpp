@@ -187,7 +187,6 @@ std::string map_plot(const Circuit& c, const Comparison::PerTrack& pt, const Car
                 "Dark: slow, light: fast. Numbers are corners; the lap starts at (0, 0).");
 }
 
-// The key is drawn in the plot's margin: render it outside the clip by appending after.
 std::string front_share_plot(const Circuit& c, const Comparison::PerTrack& pt, const Car& car,
                              const std::vector<std::size_t>& configs) {
   Plot p("front-share-" + c.track.id, "Front axle share of the load: " + c.track.name,

@@ -143,7 +143,7 @@ Track load_track(const std::string& file) {
     const std::string f = data_file(c);
     c.finish();
     t.segments_mark = c.node().mark;
-    t.profile = import_curvature(f, t.closed);
+    t.profile = import_curvature(f);
   } else {
     const Node& segs = r.require("segments");
     t.segments_mark = segs.mark;

@@ -183,7 +183,7 @@ PathProfile import_centerline(const std::string& file, bool closed, const Center
   return p;
 }
 
-PathProfile import_curvature(const std::string& file, bool closed) {
+PathProfile import_curvature(const std::string& file) {
   const CsvTable t = read_csv(file, 10);
   require_increasing(t, "distance_m");
   PathProfile p;
@@ -206,7 +206,6 @@ PathProfile import_curvature(const std::string& file, bool closed) {
   for (std::size_t i = 1; i < d.size(); ++i)
     p.elevation_m[i] =
         p.elevation_m[i - 1] + 0.5 * (p.grade[i - 1] + p.grade[i]) * (p.s_m[i] - p.s_m[i - 1]);
-  (void)closed;
   return p;
 }
 

@@ -207,7 +207,7 @@ TEST_CASE("every bad CSV gives its error with file, line and column") {
     CAPTURE(file);
     try {
       if (entry.path().filename().string().rfind("curvature-", 0) == 0)
-        import_curvature(file, false);
+        import_curvature(file);
       else
         import_centerline(file, false, CenterlineOptions{});
       FAIL("no error");

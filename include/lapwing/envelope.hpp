@@ -59,8 +59,9 @@ class Envelope {
       const double w = f - static_cast<double>(i);
       const Sample& a = rows[i];
       const Sample& b = rows[i + 1];
-      return {a.drive_n + w * (b.drive_n - a.drive_n), a.drag_coef + w * (b.drag_coef - a.drag_coef),
-              a.lift_coef + w * (b.lift_coef - a.lift_coef), a.balance + w * (b.balance - a.balance)};
+      return {
+          a.drive_n + w * (b.drive_n - a.drive_n), a.drag_coef + w * (b.drag_coef - a.drag_coef),
+          a.lift_coef + w * (b.lift_coef - a.lift_coef), a.balance + w * (b.balance - a.balance)};
     }
   };
   /// `trimmed` reads the straight-line trim's rows (only where trims() says so).

@@ -21,8 +21,8 @@ PathProfile import_centerline(const std::string& csv_file, bool closed,
                               const CenterlineOptions& options);
 
 /// A CSV of distance_m,curvature_1pm[,grade,bank_deg] taken as given; positions by integrating
-/// the heading. A closed profile's last row is the lap's end.
-PathProfile import_curvature(const std::string& csv_file, bool closed);
+/// the heading. A closed profile's last row is the lap's end (the mesh checks its heading).
+PathProfile import_curvature(const std::string& csv_file);
 
 /// `lapwing track from-log`: curvature from a logged lap.
 struct LogOptions {
