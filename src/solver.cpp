@@ -373,7 +373,8 @@ Lap solve_lap(const Envelope& env, const Mesh& mesh, double start_speed_mps) {
   return solver.take();
 }
 
-const Lap& LapSolver::solve(const Envelope& env, const Mesh& mesh, double start_speed_mps) {
+const Lap& LapSolver::solve(const Envelope& env, const Mesh& mesh, double start_speed_mps,
+                            bool channels) {
   const std::size_t n = mesh.size();
   assert(n >= 3);
   Lap& lap = lap_;
@@ -431,6 +432,17 @@ const Lap& LapSolver::solve(const Envelope& env, const Mesh& mesh, double start_
     lap.time_s[i + 1] = lap.time_s[i] + 2.0 * mesh.step_m / vsum;
   }
   lap.lap_time_s = lap.time_s[n - 1];
+  lap.has_channels = channels;
+  if (!channels) {
+    // Speed, phase and time only: what a study that needs the lap time reads.
+    for (auto* v : {&lap.long_accel_mps2, &lap.lat_accel_mps2, &lap.engine_radps, &lap.drag_n,
+                    &lap.downforce_n, &lap.front_load_n, &lap.rear_load_n, &lap.front_share,
+                    &lap.aero_balance_eff, &lap.front_usage, &lap.rear_usage})
+      v->clear();
+    lap.gear.clear();
+    lap.trimmed.clear();
+    return lap;
+  }
 
   // Channels along the lap.
   const Car& car = env.car();

@@ -19,9 +19,9 @@ Circuit lay_out(const Track& track, const Air& air) {
   return c;
 }
 
-LapRun run_lap(const Car& car, const Circuit& c, LapSolver& solver) {
-  const Envelope env(car, c.air);
-  const Lap& lap = solver.solve(env, c.mesh, c.track.start_speed_mps);
+namespace {
+// An open track's start speed above what the car can hold there is bad input (the track's).
+void check_start_speed(const Circuit& c, const Lap& lap) {
   if (!c.track.closed && c.track.start_speed_mps > lap.steady.speed_mps.front() * (1 + 1e-9)) {
     char buf[160];
     std::snprintf(buf, sizeof buf,
@@ -29,8 +29,22 @@ LapRun run_lap(const Car& car, const Circuit& c, LapSolver& solver) {
                   c.track.start_speed_mps / units::kph, lap.steady.speed_mps.front() / units::kph);
     throw InputError(c.track.file, c.track.start_speed_mark, buf, "start_speed");
   }
+}
+}  // namespace
+
+LapRun run_lap(const Car& car, const Circuit& c, LapSolver& solver) {
+  const Envelope env(car, c.air);
+  const Lap& lap = solver.solve(env, c.mesh, c.track.start_speed_mps);
+  check_start_speed(c, lap);
   LapRun r{lap, summarize(lap, c.mesh, c.track, c.corners, env)};
   return r;
+}
+
+double lap_time(const Car& car, const Circuit& c, LapSolver& solver) {
+  const Envelope env(car, c.air);
+  const Lap& lap = solver.solve(env, c.mesh, c.track.start_speed_mps, false);
+  check_start_speed(c, lap);
+  return lap.lap_time_s;
 }
 
 LapRun run_lap(const Car& car, const Circuit& c) {
@@ -231,7 +245,7 @@ Trade trade(const Car& car, const std::vector<std::size_t>& configs,
   }
   std::vector<double> times(jobs.size());
   parallel_for(jobs.size(), threads, [&](std::size_t k, LapSolver& solver) {
-    times[k] = run_lap(jobs[k].car, circuits[jobs[k].track], solver).summary.lap_time_s;
+    times[k] = lap_time(jobs[k].car, circuits[jobs[k].track], solver);
   });
 
   Trade out;

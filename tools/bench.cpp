@@ -122,6 +122,15 @@ int main(int argc, char** argv) {
     }
     std::sort(batch_s.begin(), batch_s.end());
     const double per_lap = batch_s.front(), median = batch_s[batch_s.size() / 2];
+    // The same laps without the channels (loads, usage, forces): what a trade's laps cost.
+    std::vector<double> bare_s;
+    for (int b = 0; b < batches; ++b) {
+      t0 = clock::now();
+      for (int k = 0; k < per_batch; ++k)
+        sink += solver.solve(env, mesh, track.start_speed_mps, false).lap_time_s;
+      bare_s.push_back(std::chrono::duration<double>(clock::now() - t0).count() / per_batch);
+    }
+    std::sort(bare_s.begin(), bare_s.end());
     std::printf("track %s: %.1f m, %zu mesh points at %.3f m; config %s; lap %.3f s\n",
                 track.name.c_str(), mesh.length_m, mesh.size(), mesh.step_m,
                 configured.configs.front().name.c_str(), warm.lap_time_s);
@@ -133,6 +142,10 @@ int main(int argc, char** argv) {
         batches, per_batch, per_lap * 1e3, 1.0 / per_lap, per_lap * 1e9 / points);
     std::printf("lap solve (median batch): %.3f ms per lap, %.1f ns per mesh point per lap\n",
                 median * 1e3, median * 1e9 / points);
+    std::printf(
+        "lap time only, no channels (fastest / median batch): %.1f / %.1f ns per mesh "
+        "point per lap\n",
+        bare_s.front() * 1e9 / points, bare_s[bare_s.size() / 2] * 1e9 / points);
     if (sink == 0.0) std::printf("\n");  // keeps the work observable
   } catch (const std::exception& e) {
     std::fprintf(stderr, "lapwing_bench: %s\n", e.what());

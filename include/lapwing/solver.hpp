@@ -59,6 +59,7 @@ struct Lap {
   std::vector<std::uint8_t> trimmed;  // straight-line trim in use
   SteadyProfile steady;
   double lap_time_s = 0.0;
+  bool has_channels = false;  // accelerations, gear, forces, loads, usage filled
 };
 
 /// Solves one lap. Closed meshes are periodic (both sweeps start at the slowest steady point);
@@ -71,8 +72,10 @@ Lap solve_lap(const Envelope& env, const Mesh& mesh, double start_speed_mps = 0.
 /// the Mesh it reads. One per thread.
 class LapSolver {
  public:
-  /// As solve_lap; the result stays valid until the next solve.
-  const Lap& solve(const Envelope& env, const Mesh& mesh, double start_speed_mps = 0.0);
+  /// As solve_lap; the result stays valid until the next solve. With `channels` false only the
+  /// speed, phase and time traces are filled (a study that needs lap times skips the rest).
+  const Lap& solve(const Envelope& env, const Mesh& mesh, double start_speed_mps = 0.0,
+                   bool channels = true);
   /// Moves the last lap out.
   Lap take();
 

@@ -35,6 +35,8 @@ struct LapRun {
 /// Solves `configured_car` (one config) round `circuit`. An open track's start speed above what
 /// the car can hold there is an InputError on the track file.
 LapRun run_lap(const Car& configured_car, const Circuit& circuit, LapSolver& solver);
+/// The lap time alone (speed profile and time, no channels or summary).
+double lap_time(const Car& configured_car, const Circuit& circuit, LapSolver& solver);
 LapRun run_lap(const Car& configured_car, const Circuit& circuit);
 
 /// Runs job(i, solver) for i in [0, count) over `threads` threads (0: all cores), each thread
