@@ -19,10 +19,6 @@ using svg::Series;
 constexpr std::size_t trace_points = 1500;  // points per series drawn (decimated evenly)
 constexpr std::size_t gg_points = 700;
 
-double kph(double mps) {
-  return mps / units::kph;
-}
-
 std::size_t stride(std::size_t n, std::size_t want) {
   return std::max<std::size_t>(1, n / want);
 }
@@ -172,7 +168,8 @@ std::string map_plot(const Circuit& c, const Comparison::PerTrack& pt, const Car
   std::snprintf(buf, sizeof buf,
                 "<text class=\"legend\" x=\"%.1f\" y=\"%.1f\">%.0f km/h</text><text "
                 "class=\"legend\" x=\"%.1f\" y=\"%.1f\">%.0f km/h</text>\n",
-                sx.p1 + 30.0, sy.p1 + 50.0, kph(vmax), sx.p1 + 30.0, sy.p1 + 170.0, kph(vmin));
+                sx.p1 + 30.0, sy.p1 + 50.0, units::to_kph(vmax), sx.p1 + 30.0, sy.p1 + 170.0,
+                units::to_kph(vmin));
   p.overlay(cells);
   for (const auto& corner : pt.entries[pt.best].run.summary.corners) {
     const std::size_t i =
@@ -376,7 +373,7 @@ std::string html_report(const ReportInput& in) {
         std::vector<std::string> row{std::to_string(bc[i].id) + (bc[i].direction > 0 ? " L" : " R"),
                                      fixed(bc[i].apex_m, 0)};
         for (const auto& e : pt.entries)
-          row.push_back(fixed(kph(e.run.summary.corners[i].apex_mps), 1));
+          row.push_back(fixed(units::to_kph(e.run.summary.corners[i].apex_mps), 1));
         row.push_back(bc[i].limit);
         row.push_back(bc[i].entry_axle + "/" + bc[i].apex_axle + "/" + bc[i].exit_axle);
         crows.push_back(row);
@@ -385,18 +382,10 @@ std::string html_report(const ReportInput& in) {
       // Balance per config.
       std::vector<std::vector<std::string>> brows;
       for (std::size_t k = 0; k < pt.entries.size(); ++k) {
-        const BalanceSummary& b = pt.entries[k].run.summary.balance;
-        std::string ids;
-        for (int id : b.front_limited_corners)
-          ids += (ids.empty() ? "" : ", ") + std::to_string(id);
-        brows.push_back(
-            {names[k], fixed(100 * b.static_front_share, 1),
-             fixed(100 * b.aero_balance_150, 1) + " / " + fixed(100 * b.aero_balance_eff_150, 1),
-             fixed(100 * b.aero_balance_250, 1) + " / " + fixed(100 * b.aero_balance_eff_250, 1),
-             b.has_fast_acceleration ? fixed(100 * b.lowest_front_share_fast, 1) + " at " +
-                                           fixed(b.lowest_front_share_at_m, 0) + " m"
-                                     : "-",
-             ids.empty() ? "-" : ids, fixed(b.front_limited_length_m, 0)});
+        std::vector<std::string> row{names[k]};
+        const auto cells = balance_cells(pt.entries[k].run.summary.balance);
+        row.insert(row.end(), cells.begin(), cells.end());
+        brows.push_back(row);
       }
       o += "<h3>Balance</h3>" +
            table({"config", "static front %", "aero 150 km/h % (with drag moment)",

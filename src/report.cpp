@@ -17,10 +17,6 @@ std::string version() {
 }
 
 namespace {
-double kph(double mps) {
-  return mps / units::kph;
-}
-
 std::string csv_field(const std::string& s) {
   if (s.find_first_of(",\"\n") == std::string::npos) return s;
   std::string o = "\"";
@@ -66,8 +62,8 @@ std::string summary_json(const std::string& car_name, const std::vector<LapSumma
         .field("lap_time_s", s.lap_time_s)
         .field("length_m", s.length_m)
         .field("air_density_kg_m3", s.air_density_kg_m3)
-        .field("top_speed_kph", kph(s.top_speed_mps))
-        .field("min_speed_kph", kph(s.min_speed_mps))
+        .field("top_speed_kph", units::to_kph(s.top_speed_mps))
+        .field("min_speed_kph", units::to_kph(s.min_speed_mps))
         .field("full_throttle_fraction", s.full_throttle_fraction)
         .field("braking_fraction", s.braking_fraction)
         .field("trimmed_fraction", s.trimmed_fraction);
@@ -82,9 +78,9 @@ std::string summary_json(const std::string& car_name, const std::vector<LapSumma
           .field("start_m", c.start_m)
           .field("apex_m", c.apex_m)
           .field("end_m", c.end_m)
-          .field("entry_kph", kph(c.entry_mps))
-          .field("apex_kph", kph(c.apex_mps))
-          .field("exit_kph", kph(c.exit_mps))
+          .field("entry_kph", units::to_kph(c.entry_mps))
+          .field("apex_kph", units::to_kph(c.apex_mps))
+          .field("exit_kph", units::to_kph(c.exit_mps))
           .field("time_s", c.time_s)
           .field("limit", c.limit)
           .field("entry_axle", c.entry_axle)
@@ -116,7 +112,7 @@ std::string trace_csv(const Lap& lap, const Mesh& mesh) {
     num(mesh.x_m[i]);
     num(mesh.y_m[i]);
     num(mesh.curvature_1pm[i]);
-    num(kph(lap.speed_mps[i]));
+    num(units::to_kph(lap.speed_mps[i]));
     num(lap.long_accel_mps2[i] / units::g0);
     num(lap.lat_accel_mps2[i] / units::g0);
     o += std::to_string(lap.gear[i]);
@@ -143,8 +139,8 @@ std::string corners_csv(const std::vector<LapSummary>& results) {
   for (const auto& s : results) {
     for (const auto& c : s.corners) {
       o += csv_field(s.track_name) + "," + csv_field(s.config) + "," + std::to_string(c.id);
-      for (double v : {c.start_m, c.apex_m, c.end_m, kph(c.entry_mps), kph(c.apex_mps),
-                       kph(c.exit_mps), c.time_s})
+      for (double v : {c.start_m, c.apex_m, c.end_m, units::to_kph(c.entry_mps),
+                       units::to_kph(c.apex_mps), units::to_kph(c.exit_mps), c.time_s})
         o += "," + format_number(v);
       o += "," + c.limit + "," + c.entry_axle + "," + c.apex_axle + "," + c.exit_axle + "\n";
     }
@@ -186,6 +182,23 @@ std::string text_table(const std::vector<std::string>& header,
   return o;
 }
 
+std::string id_list(const std::vector<int>& ids) {
+  std::string o;
+  for (int id : ids) o += (o.empty() ? "" : ", ") + std::to_string(id);
+  return o.empty() ? "-" : o;
+}
+
+std::vector<std::string> balance_cells(const BalanceSummary& b) {
+  return {fixed(100 * b.static_front_share, 1),
+          fixed(100 * b.aero_balance_150, 1) + " / " + fixed(100 * b.aero_balance_eff_150, 1),
+          fixed(100 * b.aero_balance_250, 1) + " / " + fixed(100 * b.aero_balance_eff_250, 1),
+          b.has_fast_acceleration ? fixed(100 * b.lowest_front_share_fast, 1) + " at " +
+                                        fixed(b.lowest_front_share_at_m, 0) + " m"
+                                  : std::string("-"),
+          id_list(b.front_limited_corners),
+          fixed(b.front_limited_length_m, 0)};
+}
+
 std::string balance_text(const BalanceSummary& b) {
   std::string o = "balance: static front weight " + fixed(100 * b.static_front_share, 1) +
                   " %; aero balance " + fixed(100 * b.aero_balance_150, 1) + " % (" +
@@ -209,8 +222,9 @@ std::string balance_text(const BalanceSummary& b) {
 
 std::string lap_table(const LapSummary& s) {
   std::string o;
-  o += "lap time " + fixed(s.lap_time_s, 3) + " s   top speed " + fixed(kph(s.top_speed_mps), 1) +
-       " km/h   min speed " + fixed(kph(s.min_speed_mps), 1) + " km/h   corners " +
+  o += "lap time " + fixed(s.lap_time_s, 3) + " s   top speed " +
+       fixed(units::to_kph(s.top_speed_mps), 1) + " km/h   min speed " +
+       fixed(units::to_kph(s.min_speed_mps), 1) + " km/h   corners " +
        std::to_string(s.corners.size()) + "\n";
   o += "full throttle " + fixed(100 * s.full_throttle_fraction, 1) + " %   braking " +
        fixed(100 * s.braking_fraction, 1) + " %   air " + fixed(s.air_density_kg_m3, 4) +
@@ -225,9 +239,10 @@ std::string lap_table(const LapSummary& s) {
     std::vector<std::vector<std::string>> rows;
     for (const auto& c : s.corners)
       rows.push_back({std::to_string(c.id), c.direction > 0 ? "L" : "R", fixed(c.start_m, 1),
-                      fixed(c.apex_m, 1), fixed(c.end_m, 1), fixed(kph(c.entry_mps), 1),
-                      fixed(kph(c.apex_mps), 1), fixed(kph(c.exit_mps), 1), fixed(c.time_s, 3),
-                      c.limit, c.entry_axle + "/" + c.apex_axle + "/" + c.exit_axle});
+                      fixed(c.apex_m, 1), fixed(c.end_m, 1), fixed(units::to_kph(c.entry_mps), 1),
+                      fixed(units::to_kph(c.apex_mps), 1), fixed(units::to_kph(c.exit_mps), 1),
+                      fixed(c.time_s, 3), c.limit,
+                      c.entry_axle + "/" + c.apex_axle + "/" + c.exit_axle});
     o += "\n" + text_table({"corner", "turn", "start m", "apex m", "end m", "entry km/h",
                             "apex km/h", "exit km/h", "time s", "limit", "axle entry/apex/exit"},
                            rows);
@@ -261,8 +276,8 @@ std::string compare_json(const Car& car, const Comparison& c,
           .field("config", s.config)
           .field("lap_time_s", s.lap_time_s)
           .field("delta_s", e.delta_to_best_s)
-          .field("top_speed_kph", kph(s.top_speed_mps))
-          .field("min_speed_kph", kph(s.min_speed_mps))
+          .field("top_speed_kph", units::to_kph(s.top_speed_mps))
+          .field("min_speed_kph", units::to_kph(s.min_speed_mps))
           .field("full_throttle_fraction", s.full_throttle_fraction);
       write_balance(w, s.balance);
       w.key("where_the_time_goes")
@@ -316,7 +331,8 @@ std::string compare_table(const Car& car, const Comparison& c,
     for (const auto& e : pt.entries) {
       const LapSummary& s = e.run.summary;
       rows.push_back({s.config, fixed(s.lap_time_s, 3), signed_fixed(e.delta_to_best_s, 3),
-                      fixed(kph(s.top_speed_mps), 1), fixed(kph(s.min_speed_mps), 1),
+                      fixed(units::to_kph(s.top_speed_mps), 1),
+                      fixed(units::to_kph(s.min_speed_mps), 1),
                       fixed(100 * s.full_throttle_fraction, 1), signed_fixed(e.split.corners_s, 3),
                       signed_fixed(e.split.braking_s, 3), signed_fixed(e.split.straights_s, 3)});
     }
@@ -327,17 +343,10 @@ std::string compare_table(const Car& car, const Comparison& c,
     {
       std::vector<std::vector<std::string>> brows;
       for (const auto& e : pt.entries) {
-        const BalanceSummary& b = e.run.summary.balance;
-        std::string ids;
-        for (int id : b.front_limited_corners) ids += (ids.empty() ? "" : ",") + std::to_string(id);
-        brows.push_back(
-            {e.run.summary.config,
-             fixed(100 * b.aero_balance_150, 1) + " / " + fixed(100 * b.aero_balance_eff_150, 1),
-             fixed(100 * b.aero_balance_250, 1) + " / " + fixed(100 * b.aero_balance_eff_250, 1),
-             b.has_fast_acceleration ? fixed(100 * b.lowest_front_share_fast, 1) + " at " +
-                                           fixed(b.lowest_front_share_at_m, 0) + " m"
-                                     : std::string("-"),
-             ids.empty() ? std::string("-") : ids, fixed(b.front_limited_length_m, 0)});
+        std::vector<std::string> row{e.run.summary.config};
+        const auto cells = balance_cells(e.run.summary.balance);
+        row.insert(row.end(), cells.begin() + 1, cells.end());  // the static share is the car's
+        brows.push_back(row);
       }
       o += "\nbalance (aero balance % alone / with the drag moment; front share of the load)\n" +
            text_table({"config", "aero 150 km/h", "aero 250 km/h", "lowest front % > 200 km/h",

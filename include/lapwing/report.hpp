@@ -21,6 +21,14 @@ std::string trace_csv(const Lap& lap, const Mesh& mesh);
 /// corners.csv: the corners arrays of all results, one row per corner, track and config first.
 std::string corners_csv(const std::vector<LapSummary>& results);
 
+/// A balance summary as table cells: static front %, aero balance at 150 and at 250 km/h
+/// ("alone / with the drag moment", %), the lowest front share accelerating above 200 km/h and
+/// where, the front-limited corners, and the front-limited length (m). Shared by the terminal
+/// and the HTML tables.
+std::vector<std::string> balance_cells(const BalanceSummary& b);
+/// Corner ids joined with ", " ("-" for none).
+std::string id_list(const std::vector<int>& ids);
+
 /// The balance block of a lap (terminal).
 std::string balance_text(const BalanceSummary& b);
 

@@ -51,6 +51,10 @@ inline constexpr double kph = 1.0 / 3.6;          // m/s per km/h
 inline constexpr double rpm = 2.0 * pi / 60.0;    // rad/s per rpm
 inline constexpr double deg = pi / 180.0;         // rad per degree
 inline constexpr double celsius_zero_k = 273.15;  // K at 0 C
+/// m/s to km/h, for output.
+inline constexpr double to_kph(double mps) {
+  return mps / kph;
+}
 }  // namespace units
 
 }  // namespace lapwing

@@ -27,10 +27,6 @@ namespace lapwing::cli {
 
 namespace {
 
-double kph(double mps) {
-  return mps / units::kph;
-}
-
 std::string describe_air(const Air& a) {
   std::string s = fixed(a.density_kg_m3, 4) + " kg/m3 (";
   if (a.standard) {
@@ -127,7 +123,7 @@ void describe_config(const Car& car, std::size_t index, const Air& air, std::str
       .field("lift_to_drag", rest.cda_m2 > 0 ? rest.cla_m2 / rest.cda_m2 : 0.0)
       .field("aero_balance", rest.balance)
       .field("drag_height_m", cc.drag_height_m)
-      .field("top_speed_kph", kph(env.top_speed_level_mps()))
+      .field("top_speed_kph", units::to_kph(env.top_speed_level_mps()))
       .field("top_speed_limit", env.rev_limited() ? "rev limit" : "drag");
   out += "\nconfig " + a.name + " (" + std::string(form_name(a.form)) + "): CdA " +
          fixed(rest.cda_m2, 3) + " m2, ClA " + fixed(rest.cla_m2, 3) + " m2, L/D " +
@@ -137,7 +133,7 @@ void describe_config(const Car& car, std::size_t index, const Air& air, std::str
           : a.speed_mps.empty() ? ""
                                 : " (first row)") +
          ", drag height " + fixed(cc.drag_height_m, 3) + " m, top speed " +
-         fixed(kph(env.top_speed_level_mps()), 1) + " km/h (" +
+         fixed(units::to_kph(env.top_speed_level_mps()), 1) + " km/h (" +
          (env.rev_limited() ? "rev limit" : "drag") + ")\n";
   std::vector<std::vector<std::string>> rows;
   j.key("at_speeds").begin_array();
@@ -175,16 +171,17 @@ void describe_config(const Car& car, std::size_t index, const Air& air, std::str
   // Notes: what the data does outside its range, said once.
   std::vector<std::string> notes;
   if (a.speed_mps.size() > 1)
-    notes.push_back("the speed table covers " + fixed(kph(a.speed_mps.front()), 1) + " to " +
-                    fixed(kph(a.speed_mps.back()), 1) +
+    notes.push_back("the speed table covers " + fixed(units::to_kph(a.speed_mps.front()), 1) +
+                    " to " + fixed(units::to_kph(a.speed_mps.back()), 1) +
                     " km/h; outside it the end rows' values are held");
   if (env.has_map()) {
     if (env.off_map_speed_mps() >= 0.0)
-      notes.push_back("a ride height leaves the map at " + fixed(kph(env.off_map_speed_mps()), 1) +
+      notes.push_back("a ride height leaves the map at " +
+                      fixed(units::to_kph(env.off_map_speed_mps()), 1) +
                       " km/h; the map's edge values are held beyond");
     if (env.grounded_speed_mps() >= 0.0)
-      notes.push_back("a ride height reaches zero at " + fixed(kph(env.grounded_speed_mps()), 1) +
-                      " km/h");
+      notes.push_back("a ride height reaches zero at " +
+                      fixed(units::to_kph(env.grounded_speed_mps()), 1) + " km/h");
   }
   if (a.trim)
     notes.push_back("straight-line trim: CdA " + fixed(a.trim->dcda_m2, 3) + " m2, ClA " +
@@ -264,10 +261,10 @@ int check(const CheckOptions& o) {
     j.key("configs").begin_array();
     for (std::size_t c = 0; c < car.configs.size(); ++c) {
       const Envelope env(car.configured(c), t.air);
-      trows.push_back({car.configs[c].name, fixed(kph(env.top_speed_level_mps()), 1)});
+      trows.push_back({car.configs[c].name, fixed(units::to_kph(env.top_speed_level_mps()), 1)});
       j.begin_object()
           .field("name", car.configs[c].name)
-          .field("top_speed_kph", kph(env.top_speed_level_mps()))
+          .field("top_speed_kph", units::to_kph(env.top_speed_level_mps()))
           .end_object();
     }
     j.end_array();
