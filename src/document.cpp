@@ -312,7 +312,7 @@ std::string Reader::string(std::string_view key) {
 
 std::string Reader::string_or(std::string_view key, std::string fallback) {
   const Node* n = get(key);
-  return n ? node_string(*n, child_path(key)) : fallback;
+  return n ? node_string(*n, child_path(key)) : std::move(fallback);
 }
 
 bool Reader::boolean_or(std::string_view key, bool fallback) {

@@ -172,8 +172,8 @@ std::string map_plot(const Circuit& c, const Comparison::PerTrack& pt, const Car
                 units::to_kph(vmin));
   p.overlay(cells);
   for (const auto& corner : pt.entries[pt.best].run.summary.corners) {
-    const std::size_t i =
-        std::min(c.mesh.size() - 1, static_cast<std::size_t>(corner.apex_m / c.mesh.step_m + 0.5));
+    const std::size_t i = std::min(
+        c.mesh.size() - 1, static_cast<std::size_t>(std::lround(corner.apex_m / c.mesh.step_m)));
     // Label off the line, towards the inside of the turn.
     const double nx = -std::sin(c.mesh.heading_rad[i]) * corner.direction;
     const double ny = std::cos(c.mesh.heading_rad[i]) * corner.direction;

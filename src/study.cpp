@@ -282,8 +282,10 @@ Trade trade(const Car& car, const std::vector<std::size_t>& configs,
       grid.cla_m2.push_back(nominal_cla(a0) * f);
       grid.cda_m2.push_back(nominal_cda(a0) * f);
     }
-    grid.lap_time_s.assign(times.begin() + static_cast<std::ptrdiff_t>(k),
-                           times.begin() + static_cast<std::ptrdiff_t>(k + g * g));
+    grid.lap_time_s.assign(
+        times.begin() + static_cast<std::ptrdiff_t>(k),
+        times.begin() + static_cast<std::ptrdiff_t>(k + static_cast<std::size_t>(g) *
+                                                            static_cast<std::size_t>(g)));
     k += static_cast<std::size_t>(g * g);
     out.grids.push_back(std::move(grid));
     for (std::size_t a = 0; a < ncfg; ++a)
