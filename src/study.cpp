@@ -112,6 +112,23 @@ Car scaled(const Car& car, Knob knob, double f) {
 double nominal_cla(const AeroConfig& a) {
   return a.cla_m2.front();
 }
+
+Car shifted(const Car& car, Knob knob, double delta_m2) {
+  assert(knob == Knob::cla || knob == Knob::cda);
+  Car c = car;
+  AeroConfig& a = c.configs.front();
+  auto& rows = knob == Knob::cla ? a.cla_m2 : a.cda_m2;
+  for (double& v : rows) v += delta_m2;
+  if (a.map) (knob == Knob::cla ? a.map->cla_m2 : a.map->cda_m2).array() += delta_m2;
+  return c;
+}
+
+Car varied(const Car& car, Knob knob, double r) {
+  const AeroConfig& a = car.configs.front();
+  if ((knob == Knob::cla && nominal_cla(a) == 0.0) || (knob == Knob::cda && nominal_cda(a) == 0.0))
+    return shifted(car, knob, r);
+  return scaled(car, knob, 1.0 + r);
+}
 double nominal_cda(const AeroConfig& a) {
   return a.cda_m2.front();
 }
@@ -233,14 +250,14 @@ Trade trade(const Car& car, const std::vector<std::size_t>& configs,
     for (std::size_t c : configs) {
       const Car base = car.configured(c);
       for (Knob k : knobs)
-        for (double sign : {1.0, -1.0}) jobs.push_back({t, scaled(base, k, 1.0 + sign * o.step)});
+        for (double sign : {1.0, -1.0}) jobs.push_back({t, varied(base, k, sign * o.step)});
     }
     const Car base = car.configured(configs.front());
     for (int i = 0; i < g; ++i)
       for (int j = 0; j < g; ++j) {
-        const double fa = 1.0 + o.grid_span * (2.0 * i / (g - 1) - 1.0);
-        const double fd = 1.0 + o.grid_span * (2.0 * j / (g - 1) - 1.0);
-        jobs.push_back({t, scaled(scaled(base, Knob::cla, fa), Knob::cda, fd)});
+        const double ra = o.grid_span * (2.0 * i / (g - 1) - 1.0);
+        const double rd = o.grid_span * (2.0 * j / (g - 1) - 1.0);
+        jobs.push_back({t, varied(varied(base, Knob::cla, ra), Knob::cda, rd)});
       }
   }
   std::vector<double> times(jobs.size());
@@ -261,8 +278,9 @@ Trade trade(const Car& car, const std::vector<std::size_t>& configs,
       const AeroConfig& a = base.configs.front();
       Sensitivity s{t, c, own[c], nominal_cla(a), nominal_cda(a), base.mass_kg, 0, 0, 0, 0, 0};
       // Central differences: dt/dx = (t(x (1 + h)) - t(x (1 - h))) / (2 h x).
+      // A zero aero area is moved by step m2 instead of step x 0.
       auto central = [&](double x) {
-        const double d = (times[k] - times[k + 1]) / (2.0 * o.step * x);
+        const double d = (times[k] - times[k + 1]) / (2.0 * o.step * (x != 0.0 ? x : 1.0));
         k += 2;
         return d;
       };
@@ -279,8 +297,9 @@ Trade trade(const Car& car, const std::vector<std::size_t>& configs,
     const AeroConfig& a0 = car.configs[configs.front()];
     for (int i = 0; i < g; ++i) {
       const double f = 1.0 + o.grid_span * (2.0 * i / (g - 1) - 1.0);
-      grid.cla_m2.push_back(nominal_cla(a0) * f);
-      grid.cda_m2.push_back(nominal_cda(a0) * f);
+      auto at = [f](double x) { return x != 0.0 ? x * f : f - 1.0; };
+      grid.cla_m2.push_back(at(nominal_cla(a0)));
+      grid.cda_m2.push_back(at(nominal_cda(a0)));
     }
     grid.lap_time_s.assign(
         times.begin() + static_cast<std::ptrdiff_t>(k),

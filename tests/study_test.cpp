@@ -173,3 +173,20 @@ TEST_CASE(
                1e-15));
   }
 }
+
+TEST_CASE("a car without aero still has aero sensitivities (zero areas move by the step in m2)") {
+  const Car car = load_car(test::source_path("tests/data/no-aero-car.yaml"));
+  const std::vector<Circuit> circuits{circuit("tracks/brannock-park.yaml")};
+  const Trade t = trade(car, {0}, circuits, TradeOptions{0.02, 3, 0.15}, 2);
+  const Sensitivity& s = t.sensitivities.front();
+  CHECK(std::isfinite(s.dt_dcla_s_per_m2));
+  CHECK(std::isfinite(s.dt_dcda_s_per_m2));
+  CHECK(s.dt_dcla_s_per_m2 < 0.0);
+  CHECK(s.dt_dcda_s_per_m2 > 0.0);
+  // Against two explicit runs with +-0.02 m2 of ClA (1e-9).
+  const Car base = car.configured(0);
+  const double up = run_lap(shifted(base, Knob::cla, 0.02), circuits[0]).summary.lap_time_s;
+  const double down = run_lap(shifted(base, Knob::cla, -0.02), circuits[0]).summary.lap_time_s;
+  CHECK(near(s.dt_dcla_s_per_m2, (up - down) / 0.04, 1e-9));
+  for (double v : t.grids.front().lap_time_s) CHECK(std::isfinite(v));
+}

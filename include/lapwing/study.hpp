@@ -48,6 +48,11 @@ void parallel_for(std::size_t count, unsigned threads,
 /// the config's form, the mass, or the engine's torque (constant power) at every speed.
 enum class Knob { cla, cda, mass, power };
 Car scaled(const Car& configured_car, Knob knob, double factor);
+/// Adds `delta_m2` to every ClA (or CdA) value of the configured car's config.
+Car shifted(const Car& configured_car, Knob knob, double delta_m2);
+/// The knob moved by the relative amount r: x (1 + r), or, for an aero area that is zero,
+/// x + r m2 (so that a car without downforce still has a downforce sensitivity).
+Car varied(const Car& configured_car, Knob knob, double r);
 
 /// The config's nominal coefficients: the constant values, a table's first row, a map's values
 /// at rest (what a trade's per-m2 figures refer to).
