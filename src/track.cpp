@@ -11,6 +11,8 @@ namespace lapwing {
 namespace {
 
 constexpr Range grade_range{-0.5, 0.5};  // +-50 %: steeper is no road
+constexpr Range segment_length{0.0, 100e3, true, false};  // up to 100 km a piece
+constexpr Range radius_range{0.0, 100e3, true, false};
 
 double turn_sign(Reader& r) {
   return r.choice("turn", {"left", "right"}) == "left" ? 1.0 : -1.0;
@@ -30,11 +32,11 @@ Segment read_segment(const Document& doc, const Node& item, const std::string& p
     s.kind = Segment::Kind::straight;
     if (body.kind == Node::Kind::scalar) {
       Reader parent(doc, item, path);
-      s.length_m = parent.node_quantity(body, Quantity::length, positive(), p);
+      s.length_m = parent.node_quantity(body, Quantity::length, segment_length, p);
       return s;
     }
     Reader r(doc, body, p);
-    s.length_m = r.quantity("length", Quantity::length, positive());
+    s.length_m = r.quantity("length", Quantity::length, segment_length);
     s.grade = r.quantity_or("grade", Quantity::fraction, grade_range, 0.0);
     r.finish();
     return s;
@@ -42,7 +44,7 @@ Segment read_segment(const Document& doc, const Node& item, const std::string& p
   if (kind == "arc") {
     s.kind = Segment::Kind::arc;
     Reader r(doc, body, p);
-    const double radius = r.quantity("radius", Quantity::length, positive());
+    const double radius = r.quantity("radius", Quantity::length, radius_range);
     const double angle =
         r.quantity("angle", Quantity::angle, Range{0.0, 4 * units::pi, true, false});
     const double sign = turn_sign(r);
@@ -55,9 +57,9 @@ Segment read_segment(const Document& doc, const Node& item, const std::string& p
   if (kind == "clothoid") {
     s.kind = Segment::Kind::clothoid;
     Reader r(doc, body, p);
-    s.length_m = r.quantity("length", Quantity::length, positive());
-    auto from = r.optional_quantity("from_radius", Quantity::length, positive());
-    auto to = r.optional_quantity("to_radius", Quantity::length, positive());
+    s.length_m = r.quantity("length", Quantity::length, segment_length);
+    auto from = r.optional_quantity("from_radius", Quantity::length, radius_range);
+    auto to = r.optional_quantity("to_radius", Quantity::length, radius_range);
     if (!from && !to)
       r.fail(body, "a clothoid needs from_radius, to_radius or both (a missing one is straight)");
     const double sign = turn_sign(r);
@@ -153,6 +155,11 @@ Track load_track(const std::string& file) {
       t.segments.push_back(read_segment(doc, segs.items[i], "segments[" + std::to_string(i) + "]"));
   }
   const double length = t.length_m();
+  // A mesh of more than 20 million points is no circuit (and would exhaust the machine).
+  constexpr double max_points = 20e6;
+  if (length / t.mesh_m > max_points)
+    r.fail(r.node(), "the track is " + std::to_string(length) + " m long: at a mesh of " +
+                         std::to_string(t.mesh_m) + " m that is more than 20 million points");
   if (r.has("sectors")) {
     t.sectors_mark = r.node().find("sectors")->mark;
     t.sectors_m = r.quantities("sectors", Quantity::length, non_negative());
