@@ -16,6 +16,8 @@ namespace lapwing {
 
 namespace {
 
+constexpr double max_path_m = 200e3;  // a path longer than 200 km is no circuit: bad data
+
 // Derivative of evenly spaced samples: central differences, periodic or one-sided at the ends.
 std::vector<double> derivative(const std::vector<double>& f, double h, bool periodic) {
   const std::size_t n = f.size();
@@ -119,6 +121,17 @@ PathProfile import_centerline(const std::string& file, bool closed, const Center
     c[i] = c[i - 1] + std::hypot(x[b] - x[a], y[b] - y[a]);
   }
   const double total = c.back();
+  if (total > max_path_m) {
+    // Name the widest gap between points: a stray point is the usual cause.
+    std::size_t worst = 1;
+    for (std::size_t i = 1; i < c.size(); ++i)
+      if (c[i] - c[i - 1] > c[worst] - c[worst - 1]) worst = i;
+    const std::size_t row = std::min(worst, t.lines.size() - 1);
+    throw InputError(file, Mark{t.lines[row], 1},
+                     "the centerline is " + std::to_string(total / 1000.0) +
+                         " km long (at most 200 km); this point is " +
+                         std::to_string(c[worst] - c[worst - 1]) + " m from the one before");
+  }
   const std::size_t n =
       std::max<std::size_t>(10, static_cast<std::size_t>(std::llround(total / o.spacing_m)));
   const double h = total / static_cast<double>(n);
@@ -192,6 +205,8 @@ PathProfile import_curvature(const std::string& file) {
   const auto& d = t.column("distance_m");
   p.s_m.resize(d.size());
   for (std::size_t i = 0; i < d.size(); ++i) p.s_m[i] = d[i] - d[0];
+  if (p.s_m.back() > max_path_m)
+    throw InputError(file, Mark{t.lines.back(), 1}, "the profile is longer than 200 km");
   p.curvature_1pm = t.column("curvature_1pm");
   for (std::size_t i = 0; i < p.curvature_1pm.size(); ++i)
     if (std::abs(p.curvature_1pm[i]) > 1.0)
@@ -276,6 +291,8 @@ LogTrack track_from_log(const LogOptions& o, const std::string& csv_name) {
   }
   // Resample evenly and filter.
   const double length = s.back();
+  if (length > max_path_m)
+    throw InputError(o.log, Mark{t.lines.back(), 1}, "the log covers more than 200 km");
   const double h = 0.5;
   const std::size_t n = static_cast<std::size_t>(std::llround(length / h));
   const double step = length / static_cast<double>(n);
