@@ -163,5 +163,10 @@ awk -v a="$(lap "$tmp/log/summary.json")" -v b="$(lap "$tmp/logrun/summary.json"
   ok || bad "check on a centerline track lacks the smoothing sensitivity"
 "$bin" track from-log --help | grep -q "Example:" && ok || bad "track from-log --help lacks an example"
 
+# 10. An output folder that cannot be made is the user's error, not an internal one.
+"$bin" run --car cars/caldra-gt.yaml --track tracks/skidpad.yaml --out /proc/lapwing-nope > /dev/null 2> "$tmp/stderr"
+[ $? -eq 2 ] && grep -q "^lapwing: error: cannot create /proc/lapwing-nope" "$tmp/stderr" && ok ||
+  bad "unwritable --out: $(cat "$tmp/stderr")"
+
 echo "cli: $pass passed, $fail failed"
 [ "$fail" -eq 0 ]

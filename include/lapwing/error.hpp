@@ -29,6 +29,13 @@ class InputError : public std::runtime_error {
   std::string key_path_;
 };
 
+/// An output file or folder that cannot be written (permissions, a missing drive). Exit code 2:
+/// the place was the user's choice, and nothing else was written.
+class OutputError : public std::runtime_error {
+ public:
+  using std::runtime_error::runtime_error;
+};
+
 /// The car cannot complete the track (drive never exceeds resistance, a grade it cannot climb).
 /// Exit code 3.
 class CannotMove : public std::runtime_error {

@@ -131,6 +131,9 @@ int main(int argc, char** argv) {
   } catch (const InputError& e) {
     std::cerr << e.what() << "\n";
     return 2;
+  } catch (const OutputError& e) {
+    std::cerr << "lapwing: error: " << e.what() << "\n";
+    return 2;
   } catch (const CannotMove& e) {
     std::cerr << "lapwing: error: the car cannot complete the track: " << e.what() << "\n";
     return 3;
