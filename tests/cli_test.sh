@@ -140,6 +140,12 @@ expect_usage "is given twice" trade --car cars/caldra-gt.yaml --track tracks/ski
 expect_usage "--model: 'bicycle' is not one of point-mass | axle" run --car cars/caldra-gt.yaml --track tracks/skidpad.yaml --model bicycle
 "$bin" run --car cars/caldra-gt.yaml --track tracks/brannock-park.yaml --model axle | grep -q "axle model" && ok || bad "--model axle"
 for cmd in compare trade; do "$bin" $cmd --help | grep -q "Example:" && ok || bad "$cmd --help lacks an example"; done
+# Every file a help example names is a bundled file.
+for cmd in check run compare trade; do
+  for f in $("$bin" $cmd --help | grep -oE '(cars|tracks)/[A-Za-z0-9_.-]+\.yaml'); do
+    [ -f "$f" ] && ok || bad "$cmd --help names $f, which does not exist"
+  done
+done
 
 # 9. track from-log: a logged lap becomes a track that runs; its usage errors exit 2.
 "$bin" run --car cars/pellion-fr2.yaml --track tracks/cairnholt.yaml --out "$tmp/log" > /dev/null

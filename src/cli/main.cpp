@@ -33,7 +33,7 @@ int main(int argc, char** argv) {
   check->add_option("--json", check_o.json, "Also write the findings as JSON to FILE");
   add_air(check, check_o.air);
   check->footer(
-      "Example:\n  lapwing check --car cars/tern-fr.yaml --track tracks/kestrel-park.yaml");
+      "Example:\n  lapwing check --car cars/pellion-fr2.yaml --track tracks/brannock-park.yaml");
 
   cli::RunOptions run_o;
   auto* run = app.add_subcommand("run", "Simulate one lap of one track with one aero config");
@@ -45,21 +45,27 @@ int main(int argc, char** argv) {
   run->add_option("--model", run_o.model, "point-mass or axle (default: the car file's model)");
   add_air(run, run_o.air);
   run->footer(
-      "Example:\n  lapwing run --car cars/tern-fr.yaml --track tracks/kestrel-park.yaml "
-      "--config high --out out/kestrel-high");
+      "Example:\n  lapwing run --car cars/pellion-fr2.yaml --track tracks/brannock-park.yaml "
+      "--config high --out out/brannock-high");
+
+  // What compare and trade both take: the car, the tracks, the model and the thread count.
+  auto add_study = [](CLI::App* cmd, std::string& car, std::vector<std::string>& tracks,
+                      std::string& model, unsigned& threads) {
+    cmd->add_option("--car", car, "Car file (YAML)")->required();
+    cmd->add_option("--track", tracks, "Track file(s) (YAML)")->required();
+    cmd->add_option("--model", model, "point-mass or axle (default: the car file's)");
+    cmd->add_option("--threads", threads, "Laps solved at once (default: all cores)")
+        ->check(CLI::Range(0, 256));
+  };
 
   cli::CompareOptions compare_o;
   auto* compare = app.add_subcommand(
       "compare", "Rank aero configs on each track; where each wins or loses the time");
-  compare->add_option("--car", compare_o.car, "Car file (YAML)")->required();
-  compare->add_option("--track", compare_o.tracks, "Track file(s) (YAML)")->required();
+  add_study(compare, compare_o.car, compare_o.tracks, compare_o.model, compare_o.threads);
   compare->add_option("--config", compare_o.configs, "Config name(s) (default: all of the car's)");
   compare->add_option(
       "--out", compare_o.out,
       "Folder for compare.json, delta-TRACK-A-B.csv, summary.json, traces, corners.csv");
-  compare->add_option("--threads", compare_o.threads, "Laps solved at once (default: all cores)")
-      ->check(CLI::Range(0, 256));
-  compare->add_option("--model", compare_o.model, "point-mass or axle (default: the car file's)");
   add_air(compare, compare_o.air);
   compare->footer(
       "Example:\n  lapwing compare --car cars/pellion-fr2.yaml --track tracks/brannock-park.yaml "
@@ -68,8 +74,7 @@ int main(int argc, char** argv) {
   cli::TradeOptions trade_o;
   auto* trade = app.add_subcommand(
       "trade", "Lap-time sensitivities to downforce, drag, mass and power; the exchange rate");
-  trade->add_option("--car", trade_o.car, "Car file (YAML)")->required();
-  trade->add_option("--track", trade_o.tracks, "Track file(s) (YAML)")->required();
+  add_study(trade, trade_o.car, trade_o.tracks, trade_o.model, trade_o.threads);
   trade->add_option("--config", trade_o.config, "Config to trade (default: every config)");
   trade->add_option("--step", trade_o.step,
                     "Relative step of the central differences (default 2 %)");
@@ -78,9 +83,6 @@ int main(int argc, char** argv) {
   trade->add_option("--span", trade_o.span,
                     "Half-width of the grid around the config (default 15 %)");
   trade->add_option("--out", trade_o.out, "Folder for trade.json and trade-grid-TRACK.csv");
-  trade->add_option("--threads", trade_o.threads, "Laps solved at once (default: all cores)")
-      ->check(CLI::Range(0, 256));
-  trade->add_option("--model", trade_o.model, "point-mass or axle (default: the car file's)");
   add_air(trade, trade_o.air);
   trade->footer(
       "Example:\n  lapwing trade --car cars/pellion-fr2.yaml --track tracks/cairnholt.yaml "
