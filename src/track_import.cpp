@@ -2,6 +2,7 @@
 
 #include <algorithm>
 #include <cmath>
+#include <cstdio>
 #include <filesystem>
 #include <sstream>
 
@@ -276,13 +277,22 @@ LogTrack track_from_log(const LogOptions& o, const std::string& csv_name) {
     throw InputError(o.log, Mark{}, std::string("unknown ") + what + " unit '" + unit + "'");
   };
   const double vs = scale_of(o.speed_unit, "speed");
+  auto kph_text = [](double mps) {
+    char buf[32];
+    std::snprintf(buf, sizeof buf, "%.1f", mps / units::kph);
+    return std::string(buf);
+  };
   const auto& vcol = t.column(o.speed);
   std::vector<double> v(vcol.size());
   for (std::size_t i = 0; i < v.size(); ++i) v[i] = vcol[i] * vs;
+  if (!o.closed && v[0] < 0.0)
+    throw InputError(o.log, Mark{t.lines[0], 1},
+                     "the first logged speed is negative (" + kph_text(v[0]) +
+                         " km/h): an open log's first speed becomes the track's start_speed");
   if (!o.closed && v[0] > log_max_start_speed_mps)
     throw InputError(o.log, Mark{t.lines[0], 1},
-                     "the first logged speed, " + std::to_string(v[0] / units::kph) +
-                         " km/h read with --speed-unit " + o.speed_unit +
+                     "the first logged speed, " + kph_text(v[0]) + " km/h read with --speed-unit " +
+                         o.speed_unit +
                          ", is more than a track's start_speed may be (540 km/h); is the speed "
                          "in another unit?");
   // Distance: given, or integrated from time.

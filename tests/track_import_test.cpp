@@ -431,6 +431,12 @@ TEST_CASE("an open log keeps its first speed as start_speed; the air given goes 
   CHECK(track.air.altitude_m == 1200.0);
   REQUIRE(track.air.temperature_k);
   CHECK(*track.air.temperature_k == 304.15);
+  // The same log's km/h read as m/s: a first speed of about 181 m/s, beyond the 150 m/s a
+  // track's start_speed may be, is refused naming the option rather than written unloadable.
+  o.speed_unit = "m/s";
+  const std::string fast = error_of(o);
+  CAPTURE(fast);
+  CHECK(fast.find("read with --speed-unit m/s") != std::string::npos);
   for (const char* name :
        {"import_open_log.csv", "import_open_log_track.yaml", "import_open_log_track.csv"})
     std::remove(name);
