@@ -43,6 +43,18 @@ std::string trim(std::string s) {
   while (i < s.size() && (s[i] == ' ' || s[i] == '\t')) ++i;
   return s.substr(i);
 }
+// Whether `text` reads as a header of `fields` column names: as many comma-separated fields,
+// none empty and none a number.
+bool looks_like_header(const std::string& text, std::size_t fields) {
+  std::vector<int> starts;
+  const auto names = split(text, starts);
+  if (names.size() != fields || fields < 2) return false;
+  for (const auto& name : names) {
+    const std::string n = trim(name);
+    if (n.empty() || parse_number(n)) return false;
+  }
+  return true;
+}
 }  // namespace
 
 CsvTable read_csv(const std::string& file, std::size_t min_rows) {
@@ -53,12 +65,20 @@ CsvTable read_csv(const std::string& file, std::size_t min_rows) {
   std::string line;
   int n = 0;
   std::vector<int> starts;
+  // The last comment line before the header, and its line: when the header turns out to be
+  // numbers, a comment that reads like a header is the likely one ('#x_m,y_m').
+  std::string last_comment;
+  int last_comment_line = 0;
   while (std::getline(in, line)) {
     ++n;
     if (!line.empty() && line.back() == '\r') line.pop_back();
     if (n == 1 && line.rfind("\xEF\xBB\xBF", 0) == 0) line.erase(0, 3);  // UTF-8 BOM
     if (line.empty()) continue;
-    if (t.names.empty() && line[0] == '#') continue;  // comment lines before the header
+    if (t.names.empty() && line[0] == '#') {  // comment lines before the header
+      last_comment = line;
+      last_comment_line = n;
+      continue;
+    }
     if (t.names.empty()) {
       if (line.find(',') == std::string::npos) {
         if (line.find(';') != std::string::npos)
@@ -67,11 +87,19 @@ CsvTable read_csv(const std::string& file, std::size_t min_rows) {
         if (line.find('\t') != std::string::npos)
           throw InputError(file, Mark{n, 1}, "the file looks tab-separated; lapwing reads commas");
       }
-      for (auto& name : split(line, starts)) {
+      const auto header = split(line, starts);
+      for (auto name : header) {
         name = trim(name);
-        if (name.empty() || parse_number(name))
-          throw InputError(file, Mark{n, 1},
-                           "the first line must be a header of column names (got '" + line + "')");
+        if (name.empty() || parse_number(name)) {
+          std::string hint;
+          if (!last_comment.empty() && looks_like_header(last_comment.substr(1), header.size()))
+            hint = "; line " + std::to_string(last_comment_line) + " ('" + last_comment +
+                   "') looks like the header but was read as a comment because it starts with "
+                   "'#': remove the '#'";
+          throw InputError(
+              file, Mark{n, 1},
+              "the first line must be a header of column names (got '" + line + "')" + hint);
+        }
         t.names.push_back(name);
       }
       t.columns.resize(t.names.size());

@@ -4,6 +4,7 @@
 #include <array>
 #include <cassert>
 #include <cmath>
+#include <limits>
 #include <sstream>
 
 #include "lapwing/units.hpp"
@@ -128,7 +129,11 @@ Closure closure(const Track& track) {
   if (track.profile) {
     const PathProfile& p = *track.profile;
     const double turning = turning_of(p);
-    return {std::hypot(p.x_m.back() - p.x_m.front(), p.y_m.back() - p.y_m.front()),
+    // A closed centerline's fitted loop ends where it starts by construction: the gap that
+    // tells is the data's, from the last point to the first.
+    const bool data_gap = track.closed && p.source == PathProfile::Source::centerline;
+    return {data_gap ? p.data_closure_gap_m
+                     : std::hypot(p.x_m.back() - p.x_m.front(), p.y_m.back() - p.y_m.front()),
             wrap_angle(turning), p.elevation_m.back() - p.elevation_m.front(), turning};
   }
   Walker w(track);
@@ -136,26 +141,61 @@ Closure closure(const Track& track) {
   return {std::hypot(end.x, end.y), wrap_angle(end.heading), end.elevation, end.heading};
 }
 
+double closure_position_tolerance_m(const Track& track) {
+  const double by_length = closure_position_fraction * track.length_m();
+  if (!track.profile) return by_length;
+  if (track.profile->source == PathProfile::Source::curvature)
+    return std::numeric_limits<double>::infinity();
+  return std::max(closure_spacings * track.profile->point_spacing_m, by_length);
+}
+
+namespace {
+
+// The track's own key for its path, which closure errors name.
+const char* path_key(const Track& track) {
+  if (!track.profile) return "segments";
+  return track.profile->source == PathProfile::Source::centerline ? "centerline" : "curvature";
+}
+
+// A closed track must close: the error states the gap and the tolerance, at the path's key.
+void check_closure(const Track& track) {
+  const Closure c = closure(track);
+  const double position_tolerance = closure_position_tolerance_m(track);
+  const bool position_bad = c.position_gap_m > position_tolerance;
+  const bool heading_bad = std::abs(c.heading_gap_rad) > closure_heading_deg * units::deg;
+  if (!position_bad && !heading_bad) return;
+  std::ostringstream os;
+  os.precision(4);
+  if (!track.profile) {
+    os << "closed track does not close: the end is " << c.position_gap_m << " m from the start"
+       << " and its heading differs by " << c.heading_gap_rad / units::deg << " deg (tolerance "
+       << closure_position_fraction * 100 << " % of the length = " << position_tolerance << " m, "
+       << closure_heading_deg << " deg)";
+  } else if (position_bad) {
+    // Only a centerline's position is checked: the fit closes its loop itself (periodic), so
+    // the data's gap is what can fail.
+    const PathProfile& p = *track.profile;
+    os << "closed centerline does not close: its last point (" << p.data_file << " line "
+       << p.last_point_line << ") is " << c.position_gap_m << " m from its first (tolerance max("
+       << closure_spacings << " x the point spacing of " << p.point_spacing_m << " m, "
+       << closure_position_fraction * 100 << " % of the length) = " << position_tolerance
+       << " m); add the missing points, or set closed: false";
+  } else {
+    os << "closed "
+       << (track.profile->source == PathProfile::Source::centerline ? "centerline"
+                                                                    : "curvature profile")
+       << " does not close: its heading at the end differs by " << c.heading_gap_rad / units::deg
+       << " deg from a whole number of turns (tolerance " << closure_heading_deg
+       << " deg); its end is " << c.position_gap_m << " m from its start";
+  }
+  throw InputError(track.file, track.segments_mark, os.str(), path_key(track));
+}
+
+}  // namespace
+
 Mesh build_mesh(const Track& track, double step_m) {
   const double length = track.length_m();
-  if (track.closed) {
-    const Closure c = closure(track);
-    // A curvature profile is taken as given: only its heading must close (its positions come
-    // from integrating it, and a logged lap's drift is no error of the track).
-    const bool check_position =
-        !track.profile || track.profile->source == PathProfile::Source::centerline;
-    if ((check_position && c.position_gap_m > closure_position_fraction * length) ||
-        std::abs(c.heading_gap_rad) > closure_heading_deg * units::deg) {
-      std::ostringstream os;
-      os.precision(4);
-      os << "closed track does not close: the end is " << c.position_gap_m << " m from the start"
-         << " and its heading differs by " << c.heading_gap_rad / units::deg << " deg (tolerance "
-         << closure_position_fraction * 100
-         << " % of the length = " << closure_position_fraction * length << " m, "
-         << closure_heading_deg << " deg)";
-      throw InputError(track.file, track.segments_mark, os.str(), "segments");
-    }
-  }
+  if (track.closed) check_closure(track);
   const std::size_t n =
       std::max<std::size_t>(2, static_cast<std::size_t>(std::llround(length / step_m)));
   Mesh m;

@@ -2,6 +2,7 @@
 
 #include <algorithm>
 #include <cmath>
+#include <cstdio>
 #include <filesystem>
 #include <sstream>
 
@@ -72,6 +73,21 @@ void integrate_path(const std::vector<double>& s, const std::vector<double>& k,
   }
 }
 
+// A note naming the columns of `t` that are not among `used`: data the user may think was read.
+void note_unused_columns(const CsvTable& t, const std::vector<std::string>& used,
+                         const std::string& reads, PathProfile& p) {
+  std::string unused;
+  int count = 0;
+  for (const auto& name : t.names)
+    if (std::find(used.begin(), used.end(), name) == used.end()) {
+      unused += (unused.empty() ? "'" : ", '") + name + "'";
+      ++count;
+    }
+  if (count > 0)
+    p.notes.push_back(t.file + ": column" + (count > 1 ? "s " : " ") + unused + " not used (" +
+                      reads + ")");
+}
+
 }  // namespace
 
 PathProfile import_centerline(const std::string& file, bool closed, const CenterlineOptions& o) {
@@ -82,6 +98,7 @@ PathProfile import_centerline(const std::string& file, bool closed, const Center
   p.smoothing_m = o.smoothing_m;
   p.elevation_smoothing_m = o.elevation_smoothing_m;
   std::vector<double> x, y, z;
+  std::vector<int> lines = t.lines;  // file line of each point kept
   if (t.find("x_m") >= 0 || t.find("y_m") >= 0) {
     require_no_duplicates(t, {"x_m", "y_m"});
     x = t.column("x_m");
@@ -107,14 +124,31 @@ PathProfile import_centerline(const std::string& file, bool closed, const Center
     throw InputError(file, Mark{1, 1},
                      "a centerline needs columns x_m,y_m[,z_m] or lat_deg,lon_deg[,alt_m]");
   }
+  note_unused_columns(t,
+                      p.geodetic ? std::vector<std::string>{"lat_deg", "lon_deg", "alt_m"}
+                                 : std::vector<std::string>{"x_m", "y_m", "z_m"},
+                      "a centerline reads x_m, y_m, z_m or lat_deg, lon_deg, alt_m", p);
   // A closed centerline may repeat its first point at the end: drop it.
   if (closed && std::hypot(x.back() - x.front(), y.back() - y.front()) < 1e-6) {
     x.pop_back();
     y.pop_back();
+    lines.pop_back();
     if (!z.empty()) z.pop_back();
   }
-  // Chord lengths, then samples evenly spaced along them.
   const std::size_t m = x.size();
+  {
+    // The data as given, for the closure check (mesh.cpp): the gap from the last point to the
+    // first, which the closed fit bridges with a chord, against the median point spacing.
+    std::vector<double> chords(m - 1);
+    for (std::size_t i = 1; i < m; ++i)
+      chords[i - 1] = std::hypot(x[i] - x[i - 1], y[i] - y[i - 1]);
+    std::nth_element(chords.begin(),
+                     chords.begin() + static_cast<std::ptrdiff_t>(chords.size() / 2), chords.end());
+    p.point_spacing_m = chords[chords.size() / 2];
+    p.data_closure_gap_m = std::hypot(x.back() - x.front(), y.back() - y.front());
+    p.last_point_line = lines.back();
+  }
+  // Chord lengths, then samples evenly spaced along them.
   std::vector<double> c(m + (closed ? 1 : 0), 0.0);
   for (std::size_t i = 1; i < c.size(); ++i) {
     const std::size_t a = i - 1, b = i % m;
@@ -216,6 +250,8 @@ PathProfile import_curvature(const std::string& file) {
     if (std::abs(p.grade[i]) > 0.5)
       throw InputError(file, Mark{t.lines[i], 1}, "grade beyond +-50 %");
   p.has_bank = t.find("bank_deg") >= 0;
+  note_unused_columns(t, {"distance_m", "curvature_1pm", "grade", "bank_deg"},
+                      "a curvature profile reads distance_m, curvature_1pm, grade, bank_deg", p);
   integrate_path(p.s_m, p.curvature_1pm, p.x_m, p.y_m, nullptr);
   p.elevation_m.assign(d.size(), 0.0);
   for (std::size_t i = 1; i < d.size(); ++i)
@@ -241,9 +277,24 @@ LogTrack track_from_log(const LogOptions& o, const std::string& csv_name) {
     throw InputError(o.log, Mark{}, std::string("unknown ") + what + " unit '" + unit + "'");
   };
   const double vs = scale_of(o.speed_unit, "speed");
+  auto kph_text = [](double mps) {
+    char buf[32];
+    std::snprintf(buf, sizeof buf, "%.1f", mps / units::kph);
+    return std::string(buf);
+  };
   const auto& vcol = t.column(o.speed);
   std::vector<double> v(vcol.size());
   for (std::size_t i = 0; i < v.size(); ++i) v[i] = vcol[i] * vs;
+  if (!o.closed && v[0] < 0.0)
+    throw InputError(o.log, Mark{t.lines[0], 1},
+                     "the first logged speed is negative (" + kph_text(v[0]) +
+                         " km/h): an open log's first speed becomes the track's start_speed");
+  if (!o.closed && v[0] > log_max_start_speed_mps)
+    throw InputError(o.log, Mark{t.lines[0], 1},
+                     "the first logged speed, " + kph_text(v[0]) + " km/h read with --speed-unit " +
+                         o.speed_unit +
+                         ", is more than a track's start_speed may be (540 km/h); is the speed "
+                         "in another unit?");
   // Distance: given, or integrated from time.
   std::vector<double> s(v.size(), 0.0);
   if (!o.distance.empty()) {
@@ -296,7 +347,8 @@ LogTrack track_from_log(const LogOptions& o, const std::string& csv_name) {
   const double h = 0.5;
   const std::size_t n = static_cast<std::size_t>(std::llround(length / h));
   const double step = length / static_cast<double>(n);
-  std::vector<double> rs(n + 1), rk(n + 1);
+  std::vector<double> rs(n + 1), rk(n + 1), rv(n + 1);
+  std::vector<std::size_t> row(n + 1);  // the log row nearest each sample (for errors)
   std::size_t seg = 0;
   for (std::size_t j = 0; j <= n; ++j) {
     const double sj = std::min(length, static_cast<double>(j) * step);
@@ -304,10 +356,53 @@ LogTrack track_from_log(const LogOptions& o, const std::string& csv_name) {
     const double w = (sj - s[seg]) / (s[seg + 1] - s[seg]);
     rs[j] = sj;
     rk[j] = k[seg] + w * (k[seg + 1] - k[seg]);
+    rv[j] = v[seg] + w * (v[seg + 1] - v[seg]);
+    row[j] = w < 0.5 ? seg : seg + 1;
   }
   rk = smooth(rk, step, o.smoothing_m, 2, false);
   LogTrack out{};
   out.length_m = length;
+  out.start_speed_mps = v[0];
+  // What a unit read wrong does: a_y in m/s2 read as g is 9.81 times too large (and in g read
+  // as m/s2 9.81 times too small); a yaw rate in deg/s read as rad/s is 57.3 times too large;
+  // a speed in km/h read as m/s makes a_y / v^2 3.6^2 times too small.
+  const bool by_yaw = !o.yaw_rate.empty();
+  // The hint names the mistake that scales curvature the way seen: a number in the smaller
+  // unit read as the larger one is too large (m/s2 read as g, deg/s read as rad/s).
+  auto unit_hint = [&](bool too_large) {
+    const std::string what = by_yaw ? "a yaw rate" : "a lateral acceleration";
+    const std::string option = by_yaw ? "--yaw-unit" : "--accel-unit";
+    const std::string now = by_yaw ? o.yaw_unit : o.accel_unit;
+    const std::string larger = by_yaw ? "rad/s" : "g", smaller = by_yaw ? "deg/s" : "m/s2";
+    const std::string factor = by_yaw ? "57.3" : "9.81";
+    std::string hint = "check " + option + " (" + now + " now)";
+    if (too_large && now == larger)
+      hint = what + " in " + smaller + " read as " + larger + " is " + factor +
+             " times too large: if the log is in " + smaller + ", give " + option + " " + smaller;
+    if (!too_large && now == smaller)
+      hint = what + " in " + larger + " read as " + smaller + " is " + factor +
+             " times too small: if the log is in " + larger + ", give " + option + " " + larger;
+    return hint + "; else check --speed-unit (" + o.speed_unit + " now) and the columns given";
+  };
+  // No car corners at more than 8 g: curvature x speed^2 beyond that is a unit read wrong. On
+  // the filtered curvature, so that one spiky sample cannot refuse a log.
+  {
+    std::size_t worst = 0;
+    double peak = 0.0;
+    for (std::size_t j = 0; j <= n; ++j) {
+      const double ay = std::abs(rk[j]) * rv[j] * rv[j];
+      if (ay > peak) peak = ay, worst = j;
+    }
+    out.peak_lateral_g = peak / units::g0;
+    if (out.peak_lateral_g > log_max_lateral_g) {
+      std::ostringstream os;
+      os.precision(3);
+      os << "the log implies a lateral acceleration of " << out.peak_lateral_g
+         << " g here (curvature x speed^2, filtered over " << o.smoothing_m << " m), more than the "
+         << log_max_lateral_g << " g no car exceeds: " << unit_hint(true);
+      throw InputError(o.log, Mark{t.lines[row[worst]], 1}, os.str());
+    }
+  }
   std::vector<double> x, y, th;
   integrate_path(rs, rk, x, y, &th);
   if (o.closed) {
@@ -315,9 +410,23 @@ LogTrack track_from_log(const LogOptions& o, const std::string& csv_name) {
     const double turns = std::round(th.back() / (2 * units::pi));
     const double dth = turns * 2 * units::pi - th.back();
     out.closure_heading_deg = -dth / units::deg;  // before spreading
+    const double turns_read = th.back() / (2 * units::pi);
     for (double& kk : rk) kk += dth / length;
     integrate_path(rs, rk, x, y, &th);
     out.closure_gap_m = std::hypot(x.back() - x.front(), y.back() - y.front());
+    // A lap logged right closes to within the drift of its sensors; a gap that is a good part
+    // of the lap is curvature scaled wrong, and spreading it would draw another track.
+    if (out.closure_gap_m > log_max_closure_fraction * length) {
+      std::ostringstream os;
+      os.precision(4);
+      os << "the lap does not close: with its heading closed its end is " << out.closure_gap_m
+         << " m from its start, more than " << 100 * log_max_closure_fraction << " % of the lap's "
+         << length << " m (its curvature adds up to " << turns_read
+         << " turns where a lap makes a whole number): "
+         // Fewer than one turn: curvature too small (the usual case); more: too large.
+         << unit_hint(std::abs(turns_read) > 1.0);
+      throw InputError(o.log, Mark{}, os.str());
+    }
     // Position: heading changes d(theta)(s) = a sin(pi s / L) + b sin(2 pi s / L), which vanish
     // at both ends (the heading still closes), chosen so that the end moves by minus the gap:
     // d(end) = integral of (-sin(theta), cos(theta)) d(theta) ds. A few Newton passes.
@@ -353,7 +462,18 @@ LogTrack track_from_log(const LogOptions& o, const std::string& csv_name) {
         << (o.yaw_rate.empty() ? "lateral acceleration / speed^2" : "yaw rate / speed")
         << ", filtered over " << o.smoothing_m << " m.\n";
   y_out << "format: 1\nname: " << json_quote(name) << "\nclosed: " << (o.closed ? "true" : "false")
-        << "\nmesh: 0.5 m\ncurvature: {file: " << json_quote(csv_name) << "}\n";
+        << "\n";
+  if (!o.closed) y_out << "start_speed: " << format_number(v[0]) << " m/s  # the log's first\n";
+  y_out << "altitude: " << format_number(o.air.altitude_m) << " m\n";
+  if (o.air.temperature_k || o.air.pressure_pa || o.air.relative_humidity > 0.0) {
+    std::string ambient;
+    auto add = [&](const std::string& item) { ambient += (ambient.empty() ? "" : ", ") + item; };
+    if (o.air.temperature_k) add("temperature: " + format_number(*o.air.temperature_k) + " K");
+    if (o.air.pressure_pa) add("pressure: " + format_number(*o.air.pressure_pa) + " Pa");
+    if (o.air.relative_humidity > 0.0) add("humidity: " + format_number(o.air.relative_humidity));
+    y_out << "ambient: {" << ambient << "}\n";
+  }
+  y_out << "mesh: 0.5 m\ncurvature: {file: " << json_quote(csv_name) << "}\n";
   out.yaml = y_out.str();
   out.csv = csv;
   return out;

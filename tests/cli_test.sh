@@ -168,6 +168,26 @@ awk -v a="$(lap "$tmp/log/summary.json")" -v b="$(lap "$tmp/logrun/summary.json"
 "$bin" check --car cars/caldra-gt.yaml --track tracks/brannock-park-survey.yaml | grep -q "lap time with the centerline smoothed" &&
   ok || bad "check on a centerline track lacks the smoothing sensitivity"
 "$bin" track from-log --help | grep -q "Example:" && ok || bad "track from-log --help lacks an example"
+# A log read in the wrong acceleration unit (g read as m/s2: curvature 9.81 times too small) is
+# refused with the option that fixes it, and nothing is written.
+"$bin" track from-log --log "$tmp/lap.csv" --speed v_kph --lat-accel ay_g --accel-unit m/s2 --time t_s \
+  --closed --out "$tmp/wrong/lap.yaml" > /dev/null 2> "$tmp/stderr"
+[ $? -eq 2 ] && grep -q "does not close.*give --accel-unit g" "$tmp/stderr" && [ ! -e "$tmp/wrong" ] &&
+  ok || bad "from-log in the wrong unit: $(cat "$tmp/stderr")"
+# An open log keeps its first speed and the air options go into the track it writes.
+"$bin" track from-log --log "$tmp/lap.csv" --speed v_kph --lat-accel ay_g --time t_s --altitude "1200 m" \
+  --out "$tmp/open/lap.yaml" > /dev/null && grep -q "^start_speed: [0-9.]* m/s" "$tmp/open/lap.yaml" &&
+  grep -q "^altitude: 1200 m" "$tmp/open/lap.yaml" &&
+  "$bin" check --car cars/pellion-fr2.yaml --track "$tmp/open/lap.yaml" | grep -q "ISO 2533 at 1200 m" &&
+  ok || bad "from-log open lap: start_speed or altitude missing"
+# A data column lapwing does not read is named in a note by check and run.
+mkdir -p "$tmp/extra" && sed 's/^x_m,y_m$/x_m,y_m,width_m/; /^-\{0,1\}[0-9]/s/$/,12/' \
+  tracks/brannock-park-survey.csv > "$tmp/extra/survey.csv" &&
+  sed 's/brannock-park-survey.csv/survey.csv/' tracks/brannock-park-survey.yaml > "$tmp/extra/survey.yaml"
+for cmd in check run; do
+  "$bin" $cmd --car cars/caldra-gt.yaml --track "$tmp/extra/survey.yaml" |
+    grep -q "note.*column 'width_m' not used" && ok || bad "$cmd does not name an unused column"
+done
 
 # 10. An output folder that cannot be made is the user's error, not an internal one.
 "$bin" run --car cars/caldra-gt.yaml --track tracks/skidpad.yaml --out /proc/lapwing-nope > /dev/null 2> "$tmp/stderr"

@@ -1,7 +1,13 @@
 // Corner detection from curvature alone.
 #include <doctest/doctest.h>
 
+#include <cmath>
+#include <cstdio>
+#include <fstream>
+#include <sstream>
+
 #include "lapwing/corners.hpp"
+#include "lapwing/track_import.hpp"
 #include "lapwing/units.hpp"
 #include "test_support.hpp"
 
@@ -11,6 +17,28 @@ namespace {
 Mesh laid(std::vector<Segment> segs) {
   Track t = test::straight_track(1.0, 0.5, 0.0);
   t.segments = std::move(segs);
+  return build_mesh(t, 0.5);
+}
+
+// An open track from a curvature profile given as pieces of constant curvature (length m,
+// curvature 1/m), sampled every 0.1 m as a CSV would give it and read by import_curvature.
+Mesh from_profile(const std::vector<std::pair<double, double>>& pieces) {
+  std::ostringstream os;
+  os.precision(12);
+  os << "distance_m,curvature_1pm\n";
+  double s0 = 0.0;
+  for (const auto& [length, k] : pieces) {
+    const int n = static_cast<int>(std::lround(length / 0.1));
+    for (int i = 0; i < n; ++i) os << s0 + 0.1 * i << "," << k << "\n";
+    s0 += length;
+  }
+  os << s0 << ",0\n";
+  const std::string file = "corners_profile.csv";
+  std::ofstream(file) << os.str();
+  Track t = test::straight_track(1.0, 0.5, 0.0);
+  t.segments.clear();
+  t.profile = import_curvature(file);
+  std::remove(file.c_str());
   return build_mesh(t, 0.5);
 }
 }  // namespace
@@ -54,4 +82,36 @@ TEST_CASE("a run turning less than 5 deg is a wiggle, not a corner") {
   const Mesh m =
       laid({test::straight(100), test::arc(300, 3 * units::deg, true), test::straight(100)});
   CHECK(find_corners(m).empty());
+}
+
+TEST_CASE("a short opposite wiggle inside one corner does not split it (README: corners)") {
+  // Right at radius 40 m for 60 m (86 deg), a 3 m left kink at radius 60 m (2.9 deg: a wiggle,
+  // under both 5 m and 5 deg), then right again for 60 m. The two right runs are 3 m apart,
+  // within the 20 m merge gap once the wiggle is dropped: one corner from 100 m to 223 m.
+  const Mesh m =
+      from_profile({{100, 0.0}, {60, -1.0 / 40}, {3, 1.0 / 60}, {60, -1.0 / 40}, {100, 0.0}});
+  const auto c = find_corners(m);
+  REQUIRE(c.size() == 1);
+  CHECK(c[0].direction == -1);
+  // Ends within a mesh step and a sample (0.5 m + 0.1 m) of the pieces' ends.
+  CHECK(std::abs(m.s_m[c[0].start] - 100.0) <= 0.6);
+  CHECK(std::abs(m.s_m[c[0].end] - 223.0) <= 0.6);
+
+  // The same wiggle with 10 m of straight on each side: the right runs are 23 m apart, more
+  // than the 20 m merge gap: two corners.
+  const Mesh apart = from_profile({{100, 0.0},
+                                   {60, -1.0 / 40},
+                                   {10, 0.0},
+                                   {3, 1.0 / 60},
+                                   {10, 0.0},
+                                   {60, -1.0 / 40},
+                                   {100, 0.0}});
+  CHECK(find_corners(apart).size() == 2);
+
+  // A left that counts as a corner (20 m at radius 40 m: 29 deg) is a chicane's middle: three.
+  const Mesh chicane =
+      from_profile({{100, 0.0}, {60, -1.0 / 40}, {20, 1.0 / 40}, {60, -1.0 / 40}, {100, 0.0}});
+  const auto three = find_corners(chicane);
+  REQUIRE(three.size() == 3);
+  CHECK(three[1].direction == 1);
 }

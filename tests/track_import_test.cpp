@@ -258,3 +258,186 @@ TEST_CASE("a centerline's elevation becomes its grade") {
   }
   std::remove(f.c_str());
 }
+
+namespace {
+// A closed track from the centerline in `csv` (default smoothing).
+Track centerline_track(const std::string& csv) {
+  Track t = test::circle_track(100.0, 0.5);
+  t.file = "centerline.yaml";
+  t.segments.clear();
+  t.profile = import_centerline(csv, true, CenterlineOptions{});
+  return t;
+}
+}  // namespace
+
+TEST_CASE(
+    "a closed centerline reports its data's gap and refuses one over max(3 spacings, 0.5 %)") {
+  const double radius = 100.0;
+  // 40 points on a circle: spacing 2 R sin(pi / 40) = 15.69 m, and the last point is that far
+  // from the first (chord of the circle, closed form). 3 spacings (47 m) is the tolerance here,
+  // not 0.5 % of the 628 m length (3.1 m): the fit bridges one spacing as it bridges any other.
+  {
+    std::vector<double> x, y;
+    for (int i = 0; i < 40; ++i) {
+      x.push_back(radius * std::cos(2 * units::pi * i / 40));
+      y.push_back(radius * std::sin(2 * units::pi * i / 40));
+    }
+    const std::string f = write("import_sparse_circle.csv", points_csv(x, y));
+    const Track t = centerline_track(f);
+    const double chord = 2 * radius * std::sin(units::pi / 40);
+    CHECK(near(closure(t).position_gap_m, chord, 1e-9));
+    CHECK(near(t.profile->point_spacing_m, chord, 1e-9));
+    CHECK(near(closure_position_tolerance_m(t), 3 * chord, 1e-9));
+    CHECK_NOTHROW(build_mesh(t, 0.5));
+    std::remove(f.c_str());
+  }
+  // The same circle every 1.96 m (320 points round) with its last quarter missing: the last
+  // point is R sqrt(2) = 141.4 m from the first, over max(3 x 1.96 m, 0.5 % of the length): an
+  // error stating the gap, at the track's `centerline` key.
+  {
+    std::vector<double> x, y;
+    const int n = 320;
+    for (int i = 0; i <= 3 * n / 4; ++i) {
+      x.push_back(radius * std::cos(2 * units::pi * i / n));
+      y.push_back(radius * std::sin(2 * units::pi * i / n));
+    }
+    const std::string f = write("import_gap_circle.csv", points_csv(x, y));
+    const Track t = centerline_track(f);
+    const double gap = std::hypot(x.back() - x.front(), y.back() - y.front());
+    CHECK(near(gap, radius * std::sqrt(2.0), 1e-9));  // 3/4 of a turn: the chord R sqrt(2)
+    CHECK(near(closure(t).position_gap_m, gap, 1e-12));
+    try {
+      build_mesh(t, 0.5);
+      FAIL("expected an InputError");
+    } catch (const InputError& e) {
+      const std::string what = e.what();
+      CAPTURE(what);
+      CHECK(what.find("closed centerline does not close") != std::string::npos);
+      CHECK(what.find("is 141.4 m from its first") != std::string::npos);
+      CHECK(what.find("(centerline)") != std::string::npos);
+    }
+    std::remove(f.c_str());
+  }
+}
+
+TEST_CASE("columns a data file has but lapwing does not read are named in a note") {
+  std::ostringstream os;
+  os << "x_m,y_m,width_m\n";
+  for (int i = 0; i < 20; ++i) os << 10 * i << ",0,12\n";
+  const std::string f = write("import_extra_column.csv", os.str());
+  const PathProfile p = import_centerline(f, false, CenterlineOptions{});
+  REQUIRE(p.notes.size() == 1);
+  CHECK(p.notes[0].find("column 'width_m' not used") != std::string::npos);
+  std::remove(f.c_str());
+
+  std::ostringstream k;
+  k << "distance_m,curvature_1pm,speed_kph,bank_deg\n";
+  for (int i = 0; i < 20; ++i) k << 10 * i << ",0.01,100,2\n";
+  const std::string g = write("import_extra_column_k.csv", k.str());
+  const PathProfile q = import_curvature(g);
+  REQUIRE(q.notes.size() == 1);
+  CHECK(q.notes[0].find("column 'speed_kph' not used") != std::string::npos);
+  CHECK(q.has_bank);
+  std::remove(g.c_str());
+
+  // Only the columns read: no note.
+  std::ostringstream plain;
+  plain << "x_m,y_m\n";
+  for (int i = 0; i < 20; ++i) plain << 10 * i << ",0\n";
+  const std::string h = write("import_no_extra.csv", plain.str());
+  CHECK(import_centerline(h, false, CenterlineOptions{}).notes.empty());
+  std::remove(h.c_str());
+}
+
+namespace {
+// A logged lap of Brannock Park (the bundled car's solved lap, every other mesh point):
+// distance, speed in km/h, lateral acceleration in g and in m/s2.
+std::string brannock_log(const std::string& name, double* first_speed_mps = nullptr) {
+  const Car car = load_car(test::source_path("cars/pellion-fr2.yaml")).configured(1);
+  const Track track = load_track(test::source_path("tracks/brannock-park.yaml"));
+  const Circuit c = lay_out(track, make_air(track.air));
+  const LapRun run = run_lap(car, c);
+  std::ostringstream log;
+  log.precision(17);
+  log << "distance_m,speed_kph,lat_g,lat_ms2\n";
+  for (std::size_t i = 0; i < c.mesh.size(); i += 2)
+    log << c.mesh.s_m[i] << "," << run.lap.speed_mps[i] / units::kph << ","
+        << run.lap.lat_accel_mps2[i] / units::g0 << "," << run.lap.lat_accel_mps2[i] << "\n";
+  if (first_speed_mps) *first_speed_mps = run.lap.speed_mps[0];
+  return write(name, log.str());
+}
+
+LogOptions log_options(const std::string& file, const std::string& column,
+                       const std::string& unit) {
+  LogOptions o;
+  o.log = file;
+  o.speed = "speed_kph";
+  o.lat_accel = column;
+  o.accel_unit = unit;
+  o.distance = "distance_m";
+  o.closed = true;
+  return o;
+}
+
+std::string error_of(const LogOptions& o) {
+  try {
+    track_from_log(o, "unused.csv");
+  } catch (const InputError& e) {
+    return e.what();
+  }
+  return "";
+}
+}  // namespace
+
+TEST_CASE("a log read in the wrong acceleration unit is refused, naming --accel-unit") {
+  const std::string f = brannock_log("import_unit_log.csv");
+  // Read right (g as g, m/s2 as m/s2): a lap that closes within 2 % and stays under 8 g (the
+  // car's peak is about 2.3 g).
+  const LogTrack good = track_from_log(log_options(f, "lat_g", "g"), "unused.csv");
+  CHECK(good.closure_gap_m < 0.02 * good.length_m);
+  CHECK(good.peak_lateral_g < 8.0);
+  CHECK(near(track_from_log(log_options(f, "lat_ms2", "m/s2"), "unused.csv").peak_lateral_g,
+             good.peak_lateral_g, 1e-9));
+  // g read as m/s2: every curvature 9.81 times too small, so the lap turns about 1/9.81 of a
+  // turn (0.10) and its end lands nearly a lap's length from its start.
+  const std::string small = error_of(log_options(f, "lat_g", "m/s2"));
+  CAPTURE(small);
+  CHECK(small.find("the lap does not close") != std::string::npos);
+  CHECK(small.find("0.102 turns") != std::string::npos);
+  CHECK(small.find("give --accel-unit g") != std::string::npos);
+  // m/s2 read as g: 9.81 times too large; the peak (about 22 g) is over 8 g.
+  const std::string large = error_of(log_options(f, "lat_ms2", "g"));
+  CAPTURE(large);
+  CHECK(large.find("more than the 8 g") != std::string::npos);
+  CHECK(large.find("give --accel-unit m/s2") != std::string::npos);
+  std::remove(f.c_str());
+}
+
+TEST_CASE("an open log keeps its first speed as start_speed; the air given goes into the track") {
+  double first = 0.0;
+  const std::string f = brannock_log("import_open_log.csv", &first);
+  LogOptions o = log_options(f, "lat_g", "g");
+  o.closed = false;
+  o.air.altitude_m = 1200.0;
+  o.air.temperature_k = 304.15;
+  const LogTrack t = track_from_log(o, "import_open_log_track.csv");
+  write("import_open_log_track.yaml", t.yaml);
+  write("import_open_log_track.csv", t.csv);
+  const Track track = load_track("import_open_log_track.yaml");
+  CHECK_FALSE(track.closed);
+  // The log's speed went through km/h and back: equal to round-off (1e-12 relative).
+  CHECK(near(track.start_speed_mps, first, 1e-12));
+  CHECK(first > 10.0);  // a flying lap: the start is no standing start
+  CHECK(track.air.altitude_m == 1200.0);
+  REQUIRE(track.air.temperature_k);
+  CHECK(*track.air.temperature_k == 304.15);
+  // The same log's km/h read as m/s: a first speed of about 181 m/s, beyond the 150 m/s a
+  // track's start_speed may be, is refused naming the option rather than written unloadable.
+  o.speed_unit = "m/s";
+  const std::string fast = error_of(o);
+  CAPTURE(fast);
+  CHECK(fast.find("read with --speed-unit m/s") != std::string::npos);
+  for (const char* name :
+       {"import_open_log.csv", "import_open_log_track.yaml", "import_open_log_track.csv"})
+    std::remove(name);
+}

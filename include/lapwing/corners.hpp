@@ -1,5 +1,6 @@
 // Corners found from the curvature profile alone: a run of |curvature| above a threshold, with
-// hysteresis, in one direction, short gaps merged.
+// hysteresis, in one direction; kinks and wiggles dropped; short gaps merged (also a gap that
+// holds only a dropped opposite-direction wiggle).
 #pragma once
 
 #include <cstddef>

@@ -1,7 +1,8 @@
 // Strict CSV reading for data files (centerlines, curvature profiles, logs): a header line of
 // column names (after any '#' comment lines), commas between fields, numbers in every field. BOM
 // and CRLF are accepted; a file that looks semicolon- or tab-separated, a wrong field count or a
-// non-number is an InputError with file, line and column. Read line by line (large logs are
+// non-number is an InputError with file, line and column (a header that was commented out with
+// '#' is named as such). Read line by line (large logs are
 // streamed, not slurped).
 #pragma once
 

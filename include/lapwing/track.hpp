@@ -34,6 +34,15 @@ struct PathProfile {
   double curvature_noise_rms_1pm = 0.0;  // raw curvature against the fitted curvature
   bool has_bank = false;                 // a bank_deg column was read (not modelled)
   bool geodetic = false;                 // lat/lon points projected to a tangent plane
+  // A closed centerline's data as given, before the fit bridges its end to its start: the
+  // distance from the last point to the first, the median distance between consecutive points
+  // and the file line of the last point (for the closure check and `check`).
+  double data_closure_gap_m = 0.0;
+  double point_spacing_m = 0.0;
+  int last_point_line = 0;
+  /// Things about the data the user should know that are no error (an unused column): printed
+  /// by `check` and `run`.
+  std::vector<std::string> notes;
 };
 
 struct Track {

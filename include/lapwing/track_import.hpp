@@ -35,14 +35,27 @@ struct LogOptions {
   double smoothing_m = 20.0;   // filter on the curvature
   double min_speed_mps = 5.0;  // below it a_y / v^2 is too noisy: bridged over
   std::string name;            // the track's name (default: the log's file name)
+  AirSpec air;                 // written into the track: altitude, and ambient when given
 };
+
+/// Plausibility limits on a log (a unit read wrong scales every curvature by 9.81, 57.3 or 3.6^2).
+inline constexpr double log_max_lateral_g = 8.0;          // no car corners harder
+inline constexpr double log_max_closure_fraction = 0.02;  // of the lap's length
+inline constexpr double log_max_start_speed_mps = 150.0;  // a track's start_speed range
 
 /// The track file (YAML text) and its curvature CSV. Curvature = a_y / v^2 (a_y positive to the
 /// left), or yaw rate / v when a yaw-rate column is named; filtered; for a closed lap the
-/// heading and position closure errors are spread evenly along it.
+/// heading and position closure errors are spread evenly along it. An open log's first speed
+/// is the track's start_speed.
+///
+/// InputError (naming the likely unit mistake and the option that fixes it) when the filtered
+/// curvature times speed^2 exceeds 8 g anywhere, or when a closed lap's position gap, once its
+/// heading is closed, exceeds 2 % of its length.
 struct LogTrack {
   std::string yaml, csv;
   double length_m, closure_heading_deg, closure_gap_m;  // before spreading
+  double start_speed_mps;                               // open logs: the first logged speed
+  double peak_lateral_g;  // the largest |curvature| v^2 / g0 along the filtered log
 };
 LogTrack track_from_log(const LogOptions& o, const std::string& csv_name);
 

@@ -246,6 +246,7 @@ int check(const CheckOptions& o) {
                      : std::string(": curvature as given") +
                            (p.has_bank ? "; bank_deg read but not modelled" : "")) +
              "\n";
+      for (const auto& n : p.notes) out += "       note: " + n + "\n";
     }
     std::vector<std::vector<std::string>> trows;
     j.begin_object()
@@ -258,6 +259,10 @@ int check(const CheckOptions& o) {
         .field("elevation_gap_m", cl.elevation_gap_m)
         .field("corner_count", static_cast<int>(t.corners.size()))
         .field("air_density_kg_m3", t.air.density_kg_m3);
+    j.key("notes").begin_array();
+    if (t.track.profile)
+      for (const auto& n : t.track.profile->notes) j.value(n);
+    j.end_array();
     j.key("configs").begin_array();
     for (std::size_t c = 0; c < car.configs.size(); ++c) {
       const Envelope env(car.configured(c), t.air);
@@ -338,7 +343,10 @@ int run(const RunOptions& o) {
          (car.model == VehicleModel::axle ? "axle" : "point-mass") + " model\n";
   out += "track   " + t.track.name + " (" + t.track.file + "), " + fixed(t.mesh.length_m, 1) +
          " m, " + (t.track.closed ? "closed lap" : "open") + "\n";
-  out += "air     " + describe_air(t.air) + "\n\n";
+  out += "air     " + describe_air(t.air) + "\n";
+  if (t.track.profile)
+    for (const auto& n : t.track.profile->notes) out += "note    " + n + "\n";
+  out += "\n";
   out += lap_table(s);
 
   if (!o.out.empty()) {
@@ -460,6 +468,7 @@ int track_from_log(const FromLogOptions& o) {
   l.closed = o.closed;
   l.name = o.name;
   l.smoothing_m = *option_value(o.smoothing, "--smoothing", Quantity::length, Range{1.0, 1000.0});
+  l.air = apply(AirSpec{}, parse_air(o.air));
   const std::string csv_name = out.stem().string() + ".csv";
   const LogTrack t = lapwing::track_from_log(l, csv_name);
   const std::filesystem::path dir = out.parent_path().empty() ? "." : out.parent_path();
@@ -469,8 +478,9 @@ int track_from_log(const FromLogOptions& o) {
             << (o.closed
                     ? ", closure spread along the lap: heading " + fixed(t.closure_heading_deg, 2) +
                           " deg, position " + fixed(t.closure_gap_m, 1) + " m"
-                    : std::string())
-            << "\n";
+                    : ", start speed " + fixed(units::to_kph(t.start_speed_mps), 1) +
+                          " km/h (the log's first)")
+            << ", peak lateral acceleration " << fixed(t.peak_lateral_g, 2) << " g\n";
   return 0;
 }
 

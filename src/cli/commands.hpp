@@ -65,6 +65,7 @@ struct FromLogOptions {
   std::string speed_unit = "km/h", accel_unit = "g", yaw_unit = "deg/s";
   std::string smoothing = "20 m";
   bool closed = false;
+  AirOptions air;  // written into the track file
 };
 
 /// A usage error found after parsing (a bad option value): exit 2.

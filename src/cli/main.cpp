@@ -107,6 +107,7 @@ int main(int argc, char** argv) {
   from_log->add_option("--smoothing", log_o.smoothing,
                        "Filter length on the curvature (default 20 m)");
   from_log->add_option("--name", log_o.name, "Track name (default: the log's file name)");
+  add_air(from_log, log_o.air);
   from_log
       ->add_option("--out", log_o.out, "Track file to write (TRACK.yaml, and TRACK.csv beside it)")
       ->required();
