@@ -25,6 +25,12 @@ AxleLoads axle_loads(const Car& car, double drag_n, double downforce_n, double b
   return {front, total - front};
 }
 
+std::optional<double> aero_balance_with_drag_moment(double cla_m2, double cda_m2, double balance,
+                                                    double drag_height_m, double wheelbase_m) {
+  if (!(cla_m2 > 0.0)) return std::nullopt;
+  return (cla_m2 * balance - cda_m2 * drag_height_m / wheelbase_m) / cla_m2;
+}
+
 AxleUsage axle_usage(const Envelope& env, const AxleLoads& loads, double fx, double ay) {
   const Car& car = env.car();
   const TyreModel& t = env.tyres();

@@ -78,6 +78,7 @@ th { background: var(--band); font-weight: 600; }
 td.n { text-align: right; }
 figure { margin: 8px 0 18px; }
 figcaption { color: var(--muted); font-size: 12px; margin-top: 2px; }
+p.note { color: var(--muted); font-size: 12px; margin: -8px 0 14px; }
 svg.plot { display: block; max-width: 100%; height: auto; background: var(--paper); }
 svg .grid line { stroke: #e6e9ef; stroke-width: 1; }
 svg .frame { fill: none; stroke: #9aa3b2; stroke-width: 1; }
@@ -105,7 +106,8 @@ std::string speed_plot(const Circuit& c, const Comparison::PerTrack& pt, const C
                 car.configs[configs[k]].name, k));
   for (const auto& corner : pt.entries[pt.best].run.summary.corners)
     p.marker(corner.apex_m, std::to_string(corner.id));
-  return figure(p.render(), "Every config overlaid; numbered lines mark the corners' apexes.");
+  return figure(p.render(), std::string(pt.entries.size() > 1 ? "Every config overlaid; n" : "N") +
+                                "umbered lines mark the corners' apexes.");
 }
 
 std::string delta_plot(const Circuit& c, const Comparison::PerTrack& pt, const Car& car,
@@ -339,7 +341,9 @@ std::string html_report(const ReportInput& in) {
       for (std::size_t t = 0; t < cmp.tracks.size(); ++t) {
         const auto& e = cmp.tracks[t].entries[k];
         row.push_back(fixed(e.run.summary.lap_time_s, 3) +
-                      (cmp.tracks[t].best == k ? " best" : " +" + fixed(e.delta_to_best_s, 3)));
+                      (cmp.configs.size() == 1   ? ""
+                       : cmp.tracks[t].best == k ? " best"
+                                                 : " +" + fixed(e.delta_to_best_s, 3)));
         deltas[t].push_back(e.delta_to_best_s);
       }
       rows.push_back(row);
@@ -347,9 +351,11 @@ std::string html_report(const ReportInput& in) {
     o += "<section id=\"summary\"><h2>Lap times</h2>" + table(header, rows, "matrix");
     std::vector<std::string> groups;
     for (const auto& c : circuits) groups.push_back(c.track.name);
-    o += figure(svg::bar_chart("lap-bars", "Lap time against the best config on each track",
-                               "delta to the best (s)", groups, names, deltas),
-                "Zero: the best config on that track.");
+    // Bars of the delta to the best need two configs (one lap alone is its own best).
+    if (cmp.configs.size() > 1)
+      o += figure(svg::bar_chart("lap-bars", "Lap time against the best config on each track",
+                                 "delta to the best (s)", groups, names, deltas),
+                  "Zero: the best config on that track.");
     o += "</section>\n";
 
     for (std::size_t t = 0; t < cmp.tracks.size(); ++t) {
@@ -367,6 +373,7 @@ std::string html_report(const ReportInput& in) {
       for (std::size_t k = 0; k < pt.entries.size(); ++k) ch.push_back(names[k] + " apex km/h");
       ch.push_back("limit (" + names[pt.best] + ")");
       ch.push_back("axle entry/apex/exit");
+      ch.push_back("front-rear usage entry/apex/exit");
       std::vector<std::vector<std::string>> crows;
       const auto& bc = pt.entries[pt.best].run.summary.corners;
       for (std::size_t i = 0; i < bc.size(); ++i) {
@@ -375,10 +382,12 @@ std::string html_report(const ReportInput& in) {
         for (const auto& e : pt.entries)
           row.push_back(fixed(units::to_kph(e.run.summary.corners[i].apex_mps), 1));
         row.push_back(bc[i].limit);
-        row.push_back(bc[i].entry_axle + "/" + bc[i].apex_axle + "/" + bc[i].exit_axle);
+        row.push_back(axle_cell(bc[i]));
+        row.push_back(balance_index_cell(bc[i]));
         crows.push_back(row);
       }
-      o += "<h3>Corners</h3>" + table(ch, crows);
+      o += "<h3 id=\"corners-" + escape(c.track.id) + "\">Corners</h3>" + table(ch, crows) +
+           "<p class=\"note\">" + escape(axle_legend() + " (" + names[pt.best] + ")") + "</p>\n";
       // Balance per config.
       std::vector<std::vector<std::string>> brows;
       for (std::size_t k = 0; k < pt.entries.size(); ++k) {
@@ -387,7 +396,7 @@ std::string html_report(const ReportInput& in) {
         row.insert(row.end(), cells.begin(), cells.end());
         brows.push_back(row);
       }
-      o += "<h3>Balance</h3>" +
+      o += "<h3 id=\"balance-" + escape(c.track.id) + "\">Balance</h3>" +
            table({"config", "static front %", "aero 150 km/h % (with drag moment)",
                   "aero 250 km/h % (with drag moment)", "lowest front share > 200 km/h",
                   "front-limited corners", "front-limited m"},

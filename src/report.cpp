@@ -3,6 +3,7 @@
 #include <algorithm>
 #include <cstdio>
 
+#include "lapwing/csv_writer.hpp"
 #include "lapwing/json.hpp"
 #include "lapwing/units.hpp"
 
@@ -16,23 +17,28 @@ std::string version() {
   return LAPWING_VERSION;
 }
 
-namespace {
-std::string csv_field(const std::string& s) {
-  if (s.find_first_of(",\"\n") == std::string::npos) return s;
-  std::string o = "\"";
-  for (char c : s) o += (c == '"') ? std::string("\"\"") : std::string(1, c);
-  return o + "\"";
+// A number, or null where it is undefined.
+static void optional_field(JsonWriter& w, std::string_view key, const std::optional<double>& v) {
+  w.key(key);
+  if (v)
+    w.value(*v);
+  else
+    w.null();
 }
-}  // namespace
+
+// Percent with one decimal, or "-" where undefined.
+static std::string percent_or_dash(const std::optional<double>& v) {
+  return v ? fixed(100 * *v, 1) : std::string("-");
+}
 
 static void write_balance(JsonWriter& w, const BalanceSummary& b) {
   w.key("balance")
       .begin_object()
       .field("static_front_share", b.static_front_share)
-      .field("aero_balance_150_kph", b.aero_balance_150)
-      .field("aero_balance_with_drag_150_kph", b.aero_balance_eff_150)
-      .field("aero_balance_250_kph", b.aero_balance_250)
-      .field("aero_balance_with_drag_250_kph", b.aero_balance_eff_250);
+      .field("aero_balance_150_kph", b.aero_balance_150);
+  optional_field(w, "aero_balance_with_drag_150_kph", b.aero_balance_eff_150);
+  w.field("aero_balance_250_kph", b.aero_balance_250);
+  optional_field(w, "aero_balance_with_drag_250_kph", b.aero_balance_eff_250);
   w.key("lowest_front_share_accelerating_above_200_kph");
   if (b.has_fast_acceleration)
     w.value(b.lowest_front_share_fast);
@@ -86,6 +92,9 @@ std::string summary_json(const std::string& car_name, const std::vector<LapSumma
           .field("entry_axle", c.entry_axle)
           .field("apex_axle", c.apex_axle)
           .field("exit_axle", c.exit_axle)
+          .field("entry_balance_index", c.entry_balance_index)
+          .field("apex_balance_index", c.apex_balance_index)
+          .field("exit_balance_index", c.exit_balance_index)
           .end_object();
     }
     w.end_array();
@@ -96,56 +105,123 @@ std::string summary_json(const std::string& car_name, const std::vector<LapSumma
   return w.str();
 }
 
+namespace {
+
+// trace-TRACK-CONFIG.csv: one row per mesh point.
+struct TraceRow {
+  const Lap& lap;
+  const Mesh& mesh;
+  std::size_t i;
+};
+using TraceColumn = CsvColumn<TraceRow>;
+constexpr TraceColumn trace_columns[] = {
+    {"distance_m", [](std::string& o, const TraceRow& r) { csv_number(o, r.mesh.s_m[r.i]); }},
+    {"time_s", [](std::string& o, const TraceRow& r) { csv_number(o, r.lap.time_s[r.i]); }},
+    {"x_m", [](std::string& o, const TraceRow& r) { csv_number(o, r.mesh.x_m[r.i]); }},
+    {"y_m", [](std::string& o, const TraceRow& r) { csv_number(o, r.mesh.y_m[r.i]); }},
+    {"curvature_1pm",
+     [](std::string& o, const TraceRow& r) { csv_number(o, r.mesh.curvature_1pm[r.i]); }},
+    {"speed_kph",
+     [](std::string& o, const TraceRow& r) { csv_number(o, units::to_kph(r.lap.speed_mps[r.i])); }},
+    {"long_accel_g",
+     [](std::string& o, const TraceRow& r) {
+       csv_number(o, r.lap.long_accel_mps2[r.i] / units::g0);
+     }},
+    {"lat_accel_g",
+     [](std::string& o, const TraceRow& r) {
+       csv_number(o, r.lap.lat_accel_mps2[r.i] / units::g0);
+     }},
+    {"gear", [](std::string& o, const TraceRow& r) { o += std::to_string(r.lap.gear[r.i]); }},
+    {"rpm", [](std::string& o,
+               const TraceRow& r) { csv_number(o, r.lap.engine_radps[r.i] / units::rpm); }},
+    {"phase", [](std::string& o, const TraceRow& r) { o += phase_name(r.lap.phase[r.i]); }},
+    {"drag_N", [](std::string& o, const TraceRow& r) { csv_number(o, r.lap.drag_n[r.i]); }},
+    {"downforce_N",
+     [](std::string& o, const TraceRow& r) { csv_number(o, r.lap.downforce_n[r.i]); }},
+    {"front_load_N",
+     [](std::string& o, const TraceRow& r) { csv_number(o, r.lap.front_load_n[r.i]); }},
+    {"rear_load_N",
+     [](std::string& o, const TraceRow& r) { csv_number(o, r.lap.rear_load_n[r.i]); }},
+    {"front_share",
+     [](std::string& o, const TraceRow& r) { csv_number(o, r.lap.front_share[r.i]); }},
+    // Empty where the car has no downforce (the share of no load is undefined).
+    {"aero_balance_eff",
+     [](std::string& o, const TraceRow& r) {
+       csv_number_or_empty(o, r.lap.aero_balance_eff[r.i]);
+     }},
+    {"front_usage",
+     [](std::string& o, const TraceRow& r) { csv_number(o, r.lap.front_usage[r.i]); }},
+    {"rear_usage", [](std::string& o, const TraceRow& r) { csv_number(o, r.lap.rear_usage[r.i]); }},
+    {"balance_index",
+     [](std::string& o, const TraceRow& r) {
+       csv_number(o, r.lap.front_usage[r.i] - r.lap.rear_usage[r.i]);
+     }},
+};
+
+// corners.csv: one row per corner of every result.
+struct CornerRow {
+  const LapSummary& s;
+  const CornerResult& c;
+};
+using CornerColumn = CsvColumn<CornerRow>;
+constexpr CornerColumn corner_columns[] = {
+    {"track", [](std::string& o, const CornerRow& r) { csv_text(o, r.s.track_name); }},
+    {"config", [](std::string& o, const CornerRow& r) { csv_text(o, r.s.config); }},
+    {"id", [](std::string& o, const CornerRow& r) { o += std::to_string(r.c.id); }},
+    {"start_m", [](std::string& o, const CornerRow& r) { csv_number(o, r.c.start_m); }},
+    {"apex_m", [](std::string& o, const CornerRow& r) { csv_number(o, r.c.apex_m); }},
+    {"end_m", [](std::string& o, const CornerRow& r) { csv_number(o, r.c.end_m); }},
+    {"entry_kph",
+     [](std::string& o, const CornerRow& r) { csv_number(o, units::to_kph(r.c.entry_mps)); }},
+    {"apex_kph",
+     [](std::string& o, const CornerRow& r) { csv_number(o, units::to_kph(r.c.apex_mps)); }},
+    {"exit_kph",
+     [](std::string& o, const CornerRow& r) { csv_number(o, units::to_kph(r.c.exit_mps)); }},
+    {"time_s", [](std::string& o, const CornerRow& r) { csv_number(o, r.c.time_s); }},
+    {"limit", [](std::string& o, const CornerRow& r) { csv_text(o, r.c.limit); }},
+    {"entry_axle", [](std::string& o, const CornerRow& r) { csv_text(o, r.c.entry_axle); }},
+    {"apex_axle", [](std::string& o, const CornerRow& r) { csv_text(o, r.c.apex_axle); }},
+    {"exit_axle", [](std::string& o, const CornerRow& r) { csv_text(o, r.c.exit_axle); }},
+    {"entry_balance_index",
+     [](std::string& o, const CornerRow& r) { csv_number(o, r.c.entry_balance_index); }},
+    {"apex_balance_index",
+     [](std::string& o, const CornerRow& r) { csv_number(o, r.c.apex_balance_index); }},
+    {"exit_balance_index",
+     [](std::string& o, const CornerRow& r) { csv_number(o, r.c.exit_balance_index); }},
+};
+
+// delta-TRACK-A-B.csv: one row per mesh point.
+struct DeltaRow {
+  double s_m, delta_s;
+};
+constexpr CsvColumn<DeltaRow> delta_columns[] = {
+    {"distance_m", [](std::string& o, const DeltaRow& r) { csv_number(o, r.s_m); }},
+    {"delta_s", [](std::string& o, const DeltaRow& r) { csv_number(o, r.delta_s); }},
+};
+
+// trade-grid-TRACK.csv: one row per grid node.
+struct GridRow {
+  double cla_m2, cda_m2, lap_time_s;
+};
+constexpr CsvColumn<GridRow> grid_columns[] = {
+    {"cla_m2", [](std::string& o, const GridRow& r) { csv_number(o, r.cla_m2); }},
+    {"cda_m2", [](std::string& o, const GridRow& r) { csv_number(o, r.cda_m2); }},
+    {"lap_time_s", [](std::string& o, const GridRow& r) { csv_number(o, r.lap_time_s); }},
+};
+
+}  // namespace
+
 std::string trace_csv(const Lap& lap, const Mesh& mesh) {
-  std::string o =
-      "distance_m,time_s,x_m,y_m,curvature_1pm,speed_kph,long_accel_g,lat_accel_g,gear,rpm,phase,"
-      "drag_N,downforce_N,front_load_N,rear_load_N,front_share,aero_balance_eff,front_usage,"
-      "rear_usage,balance_index\n";
-  o.reserve(mesh.size() * 200);
-  auto num = [&o](double v) {
-    o += format_number(v);
-    o += ',';
-  };
-  for (std::size_t i = 0; i < mesh.size(); ++i) {
-    num(mesh.s_m[i]);
-    num(lap.time_s[i]);
-    num(mesh.x_m[i]);
-    num(mesh.y_m[i]);
-    num(mesh.curvature_1pm[i]);
-    num(units::to_kph(lap.speed_mps[i]));
-    num(lap.long_accel_mps2[i] / units::g0);
-    num(lap.lat_accel_mps2[i] / units::g0);
-    o += std::to_string(lap.gear[i]);
-    o += ',';
-    num(lap.engine_radps[i] / units::rpm);
-    o += phase_name(lap.phase[i]);
-    o += ',';
-    num(lap.drag_n[i]);
-    num(lap.downforce_n[i]);
-    num(lap.front_load_n[i]);
-    num(lap.rear_load_n[i]);
-    num(lap.front_share[i]);
-    num(lap.aero_balance_eff[i]);
-    num(lap.front_usage[i]);
-    num(lap.rear_usage[i]);
-    o += format_number(lap.front_usage[i] - lap.rear_usage[i]);
-    o += '\n';
-  }
-  return o;
+  CsvWriter<TraceRow> w(trace_columns, mesh.size());
+  for (std::size_t i = 0; i < mesh.size(); ++i) w.add({lap, mesh, i});
+  return w.take();
 }
 
 std::string corners_csv(const std::vector<LapSummary>& results) {
-  std::string o = "track,config,id,start_m,apex_m,end_m,entry_kph,apex_kph,exit_kph,time_s,limit\n";
-  for (const auto& s : results) {
-    for (const auto& c : s.corners) {
-      o += csv_field(s.track_name) + "," + csv_field(s.config) + "," + std::to_string(c.id);
-      for (double v : {c.start_m, c.apex_m, c.end_m, units::to_kph(c.entry_mps),
-                       units::to_kph(c.apex_mps), units::to_kph(c.exit_mps), c.time_s})
-        o += "," + format_number(v);
-      o += "," + c.limit + "," + c.entry_axle + "," + c.apex_axle + "," + c.exit_axle + "\n";
-    }
-  }
-  return o;
+  CsvWriter<CornerRow> w(corner_columns);
+  for (const auto& s : results)
+    for (const auto& c : s.corners) w.add({s, c});
+  return w.take();
 }
 
 std::string fixed(double v, int decimals) {
@@ -190,8 +266,8 @@ std::string id_list(const std::vector<int>& ids) {
 
 std::vector<std::string> balance_cells(const BalanceSummary& b) {
   return {fixed(100 * b.static_front_share, 1),
-          fixed(100 * b.aero_balance_150, 1) + " / " + fixed(100 * b.aero_balance_eff_150, 1),
-          fixed(100 * b.aero_balance_250, 1) + " / " + fixed(100 * b.aero_balance_eff_250, 1),
+          fixed(100 * b.aero_balance_150, 1) + " / " + percent_or_dash(b.aero_balance_eff_150),
+          fixed(100 * b.aero_balance_250, 1) + " / " + percent_or_dash(b.aero_balance_eff_250),
           b.has_fast_acceleration ? fixed(100 * b.lowest_front_share_fast, 1) + " at " +
                                         fixed(b.lowest_front_share_at_m, 0) + " m"
                                   : std::string("-"),
@@ -200,11 +276,15 @@ std::vector<std::string> balance_cells(const BalanceSummary& b) {
 }
 
 std::string balance_text(const BalanceSummary& b) {
-  std::string o = "balance: static front weight " + fixed(100 * b.static_front_share, 1) +
-                  " %; aero balance " + fixed(100 * b.aero_balance_150, 1) + " % (" +
-                  fixed(100 * b.aero_balance_eff_150, 1) +
-                  " % with the drag moment) at 150 km/h, " + fixed(100 * b.aero_balance_250, 1) +
-                  " % (" + fixed(100 * b.aero_balance_eff_250, 1) + " %) at 250 km/h\n";
+  std::string o = "balance: static front weight " + fixed(100 * b.static_front_share, 1) + " %; ";
+  if (b.aero_balance_eff_150 && b.aero_balance_eff_250)
+    o += "aero balance " + fixed(100 * b.aero_balance_150, 1) + " % (" +
+         fixed(100 * *b.aero_balance_eff_150, 1) + " % with the drag moment) at 150 km/h, " +
+         fixed(100 * b.aero_balance_250, 1) + " % (" + fixed(100 * *b.aero_balance_eff_250, 1) +
+         " %) at 250 km/h\n";
+  else
+    o += "no downforce at 150 and 250 km/h: no aero balance (the drag moment only unloads the "
+         "front axle)\n";
   if (b.has_fast_acceleration)
     o += "         lowest front share accelerating above 200 km/h: " +
          fixed(100 * b.lowest_front_share_fast, 1) + " % at " +
@@ -218,6 +298,27 @@ std::string balance_text(const BalanceSummary& b) {
       "; front ahead of the rear by more than " + fixed(b.threshold, 2) + " of usage over " +
       fixed(b.front_limited_length_m, 0) + " m of the lap\n";
   return o;
+}
+
+namespace {
+std::string signed_fixed(double v, int decimals) {
+  const std::string t = fixed(v, decimals);
+  return (v >= 0 && t.find_first_not_of("0.") != std::string::npos ? "+" : "") + t;
+}
+}  // namespace
+
+std::string axle_cell(const CornerResult& c) {
+  return c.entry_axle + "/" + c.apex_axle + "/" + c.exit_axle;
+}
+
+std::string balance_index_cell(const CornerResult& c) {
+  return signed_fixed(c.entry_balance_index, 3) + "/" + signed_fixed(c.apex_balance_index, 3) +
+         "/" + signed_fixed(c.exit_balance_index, 3);
+}
+
+std::string axle_legend() {
+  return "axle: the one using more of its grip (front - rear usage beside it); both within +-" +
+         fixed(axle_neutral_band, 2);
 }
 
 std::string lap_table(const LapSummary& s) {
@@ -241,22 +342,16 @@ std::string lap_table(const LapSummary& s) {
       rows.push_back({std::to_string(c.id), c.direction > 0 ? "L" : "R", fixed(c.start_m, 1),
                       fixed(c.apex_m, 1), fixed(c.end_m, 1), fixed(units::to_kph(c.entry_mps), 1),
                       fixed(units::to_kph(c.apex_mps), 1), fixed(units::to_kph(c.exit_mps), 1),
-                      fixed(c.time_s, 3), c.limit,
-                      c.entry_axle + "/" + c.apex_axle + "/" + c.exit_axle});
+                      fixed(c.time_s, 3), c.limit, axle_cell(c), balance_index_cell(c)});
     o += "\n" + text_table({"corner", "turn", "start m", "apex m", "end m", "entry km/h",
-                            "apex km/h", "exit km/h", "time s", "limit", "axle entry/apex/exit"},
+                            "apex km/h", "exit km/h", "time s", "limit", "axle entry/apex/exit",
+                            "front-rear usage entry/apex/exit"},
                            rows);
+    o += axle_legend() + "\n";
   }
   o += "\n" + balance_text(s.balance);
   return o;
 }
-
-namespace {
-std::string signed_fixed(double v, int decimals) {
-  const std::string t = fixed(v, decimals);
-  return (v >= 0 && t.find_first_not_of("0.") != std::string::npos ? "+" : "") + t;
-}
-}  // namespace
 
 std::string compare_json(const Car& car, const Comparison& c,
                          const std::vector<Circuit>& circuits) {
@@ -337,7 +432,7 @@ std::string compare_table(const Car& car, const Comparison& c,
                       signed_fixed(e.split.braking_s, 3), signed_fixed(e.split.straights_s, 3)});
     }
     o += text_table({"config", "lap s", "delta s", "top km/h", "min km/h", "full throttle %",
-                     "in corners s", "braking s", "straights s"},
+                     "delta in corners s", "delta under braking s", "delta on straights s"},
                     rows);
     // Balance per config, side by side.
     {
@@ -379,10 +474,9 @@ std::string compare_table(const Car& car, const Comparison& c,
 }
 
 std::string delta_csv(const Mesh& mesh, const std::vector<double>& delta_s) {
-  std::string o = "distance_m,delta_s\n";
-  for (std::size_t i = 0; i < mesh.size(); ++i)
-    o += format_number(mesh.s_m[i]) + "," + format_number(delta_s[i]) + "\n";
-  return o;
+  CsvWriter<DeltaRow> w(delta_columns, mesh.size());
+  for (std::size_t i = 0; i < mesh.size(); ++i) w.add({mesh.s_m[i], delta_s[i]});
+  return w.take();
 }
 
 std::string trade_json(const Car& car, const Trade& t, const std::vector<Circuit>& circuits) {
@@ -463,12 +557,11 @@ std::string trade_table(const Car& car, const Trade& t, const std::vector<Circui
 }
 
 std::string trade_grid_csv(const TradeGrid& g) {
-  std::string o = "cla_m2,cda_m2,lap_time_s\n";
+  CsvWriter<GridRow> w(grid_columns, g.lap_time_s.size());
   for (std::size_t i = 0; i < g.cla_m2.size(); ++i)
     for (std::size_t j = 0; j < g.cda_m2.size(); ++j)
-      o += format_number(g.cla_m2[i]) + "," + format_number(g.cda_m2[j]) + "," +
-           format_number(g.lap_time_s[i * g.cda_m2.size() + j]) + "\n";
-  return o;
+      w.add({g.cla_m2[i], g.cda_m2[j], g.lap_time_s[i * g.cda_m2.size() + j]});
+  return w.take();
 }
 
 }  // namespace lapwing

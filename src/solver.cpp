@@ -7,6 +7,7 @@
 #include <array>
 #include <cassert>
 #include <cmath>
+#include <limits>
 #include <sstream>
 #include <tuple>
 #include <utility>
@@ -458,7 +459,7 @@ const Lap& LapSolver::solve(const Envelope& env, const Mesh& mesh, double start_
   lap.trimmed.resize(n);
   for (auto* v : {&lap.front_share, &lap.aero_balance_eff, &lap.front_usage, &lap.rear_usage})
     v->resize(n);
-  const double inv_2ds = 0.5 / mesh.step_m, inv_wb = 1.0 / wb;
+  const double inv_2ds = 0.5 / mesh.step_m;
   const double weight = m * g, m_eff = env.effective_mass_kg(), crr = env.rolling_resistance();
   for (std::size_t i = 0; i < n; ++i) {
     const double v = lap.speed_mps[i];
@@ -494,9 +495,11 @@ const Lap& LapSolver::solve(const Envelope& env, const Mesh& mesh, double start_
     lap.front_load_n[i] = loads.front_n;
     lap.rear_load_n[i] = loads.rear_n;
     lap.front_share[i] = loads.front_n / (loads.front_n + loads.rear_n);
-    // Front share of the aero load with the drag moment: (DF bal - D z_D / L) / DF.
-    lap.aero_balance_eff[i] =
-        down > 0.0 ? (down * row.balance - drag * car.drag_height_m * inv_wb) / down : row.balance;
+    // Front share of the aero load with the drag moment (axle.hpp; the coefficients' rho / 2
+    // cancels); NaN, written as an empty field, where there is no downforce to share.
+    lap.aero_balance_eff[i] = aero_balance_with_drag_moment(row.lift_coef, row.drag_coef,
+                                                            row.balance, car.drag_height_m, wb)
+                                  .value_or(std::numeric_limits<double>::quiet_NaN());
     const double resistance = drag + crr * (weight * slope.cos + down) + weight * slope.sin;
     const AxleUsage use =
         axle_usage(env, loads, m_eff * ax + resistance, v * v * std::abs(mesh.curvature_1pm[i]));

@@ -4,6 +4,7 @@
 #include <cmath>
 #include <cstdio>
 
+#include "lapwing/axle.hpp"
 #include "lapwing/units.hpp"
 
 namespace lapwing {
@@ -29,6 +30,12 @@ std::vector<std::string> aero_warnings(const Envelope& env, double top_speed_mps
     w.push_back("speeds above the speed table's last row (" + kph_text(a.speed_mps.back()) +
                 " km/h) use its values");
   return w;
+}
+
+std::string limiting_axle(double balance_index) {
+  if (balance_index > axle_neutral_band) return "front";
+  if (balance_index < -axle_neutral_band) return "rear";
+  return "both";
 }
 
 double time_at(const Lap& lap, const Mesh& mesh, double s) {
@@ -84,12 +91,13 @@ LapSummary summarize(const Lap& lap, const Mesh& mesh, const Track& track,
     r.apex_mps = lap.speed_mps[apex];
     r.exit_mps = lap.speed_mps[c.end];
     r.time_s = lap.time_s[c.end] - lap.time_s[c.start];
-    auto axle = [&lap](std::size_t i) {
-      return lap.front_usage[i] >= lap.rear_usage[i] ? std::string("front") : std::string("rear");
-    };
-    r.entry_axle = axle(c.start);
-    r.apex_axle = axle(apex);
-    r.exit_axle = axle(c.end);
+    auto index = [&lap](std::size_t i) { return lap.front_usage[i] - lap.rear_usage[i]; };
+    r.entry_balance_index = index(c.start);
+    r.apex_balance_index = index(apex);
+    r.exit_balance_index = index(c.end);
+    r.entry_axle = limiting_axle(r.entry_balance_index);
+    r.apex_axle = limiting_axle(r.apex_balance_index);
+    r.exit_axle = limiting_axle(r.exit_balance_index);
     switch (lap.phase[apex]) {
       case Phase::corner:
         r.limit = "grip";
@@ -108,14 +116,11 @@ LapSummary summarize(const Lap& lap, const Mesh& mesh, const Track& track,
   BalanceSummary& b = s.balance;
   const Car& car = env.car();
   b.static_front_share = car.front_weight;
-  auto balance_at = [&](double kph_value, double& plain, double& eff) {
-    const double v = kph_value * units::kph;
-    const AeroPoint p = env.aero_point(v);
-    const double q = 0.5 * env.air_density() * v * v;
-    const double down = q * p.cla_m2, drag = q * p.cda_m2;
+  auto balance_at = [&](double kph_value, double& plain, std::optional<double>& eff) {
+    const AeroPoint p = env.aero_point(kph_value * units::kph);
     plain = p.balance;
-    eff = down > 0.0 ? (down * p.balance - drag * car.drag_height_m / car.wheelbase_m) / down
-                     : p.balance;
+    eff = aero_balance_with_drag_moment(p.cla_m2, p.cda_m2, p.balance, car.drag_height_m,
+                                        car.wheelbase_m);
   };
   balance_at(150.0, b.aero_balance_150, b.aero_balance_eff_150);
   balance_at(250.0, b.aero_balance_250, b.aero_balance_eff_250);

@@ -7,6 +7,7 @@
 #include <sstream>
 
 #include "lapwing/csv.hpp"
+#include "lapwing/csv_writer.hpp"
 #include "lapwing/error.hpp"
 #include "lapwing/geodesy.hpp"
 #include "lapwing/json.hpp"
@@ -260,6 +261,17 @@ PathProfile import_curvature(const std::string& file) {
   return p;
 }
 
+namespace {
+// The curvature profile a log becomes (the columns import_curvature reads).
+struct ProfileRow {
+  double s_m, curvature_1pm;
+};
+constexpr CsvColumn<ProfileRow> profile_columns[] = {
+    {"distance_m", [](std::string& o, const ProfileRow& r) { csv_number(o, r.s_m); }},
+    {"curvature_1pm", [](std::string& o, const ProfileRow& r) { csv_number(o, r.curvature_1pm); }},
+};
+}  // namespace
+
 LogTrack track_from_log(const LogOptions& o, const std::string& csv_name) {
   const CsvTable t = read_csv(o.log, 10);
   auto scale_of = [&](const std::string& unit, const char* what) {
@@ -452,9 +464,8 @@ LogTrack track_from_log(const LogOptions& o, const std::string& csv_name) {
       integrate_path(rs, rk, x, y, &th);
     }
   }
-  std::string csv = "distance_m,curvature_1pm\n";
-  for (std::size_t j = 0; j <= n; ++j)
-    csv += format_number(rs[j]) + "," + format_number(rk[j]) + "\n";
+  CsvWriter<ProfileRow> csv(profile_columns, n + 1);
+  for (std::size_t j = 0; j <= n; ++j) csv.add({rs[j], rk[j]});
   std::ostringstream y_out;
   const std::string name = o.name.empty() ? std::filesystem::path(o.log).stem().string() : o.name;
   y_out << "# Made by 'lapwing track from-log' from "
@@ -475,7 +486,7 @@ LogTrack track_from_log(const LogOptions& o, const std::string& csv_name) {
   }
   y_out << "mesh: 0.5 m\ncurvature: {file: " << json_quote(csv_name) << "}\n";
   out.yaml = y_out.str();
-  out.csv = csv;
+  out.csv = csv.take();
   return out;
 }
 

@@ -117,3 +117,29 @@ TEST_CASE("usage: the car on its steady limit uses all of the limiting axle's el
   const std::size_t i = c.mesh.size() / 2;
   CHECK(near(std::max(r.lap.front_usage[i], r.lap.rear_usage[i]), 1.0, 1e-6));
 }
+
+TEST_CASE(
+    "the aero balance with the drag moment is (ClA bal - CdA z_D / L) / ClA; none without "
+    "downforce") {
+  // Hand-worked (moments about the rear contact patch, REFERENCES load transfer): ClA 3.6 m2 at
+  // balance 0.42, CdA 1.2 m2 at 0.42 m, L = 2.9 m: 0.42 - (1.2 x 0.42 / 2.9) / 3.6 = 0.371724...
+  const auto b = aero_balance_with_drag_moment(3.6, 1.2, 0.42, 0.42, 2.9);
+  REQUIRE(b);
+  CHECK(near(*b, 0.42 - 1.2 * 0.42 / 2.9 / 3.6, 1e-15));
+  // The forces' ratio at any speed is the coefficients' ratio: the trace's channel agrees.
+  const Car car = formula(1);
+  const Circuit c = circuit("tracks/cairnholt.yaml");
+  const LapRun r = run_lap(car, c);
+  const std::size_t i = r.lap.speed_mps.size() / 3;
+  const double df = r.lap.downforce_n[i], d = r.lap.drag_n[i];
+  const double bal = car.configs.front().balance.front();  // a constant config
+  CHECK(near(r.lap.aero_balance_eff[i], (df * bal - d * car.drag_height_m / car.wheelbase_m) / df,
+             1e-12));
+  // No downforce: a share of no load is undefined, whatever the drag.
+  CHECK_FALSE(aero_balance_with_drag_moment(0.0, 0.9, 0.45, 0.5, 2.6));
+  const Car bare = load_car(test::source_path("tests/data/drag-only-car.yaml")).configured(0);
+  const LapRun nr = run_lap(bare, circuit("tracks/skidpad.yaml"));
+  CHECK(std::isnan(nr.lap.aero_balance_eff[10]));
+  CHECK_FALSE(nr.summary.balance.aero_balance_eff_150);
+  CHECK_FALSE(nr.summary.balance.aero_balance_eff_250);
+}

@@ -1,6 +1,6 @@
 #!/usr/bin/env bash
-# Real-browser test of report.html: headless Chromium renders a compare + trade report to a PNG
-# with networking features off; the picture must be neither blank nor one colour.
+# Real-browser test of report.html: headless Chromium renders a compare report and a run report
+# to PNGs with networking features off; each picture must be neither blank nor one colour.
 #   browser_test.sh LAPWING_BINARY PNG_STATS_BINARY SOURCE_DIR
 set -u
 bin=$(realpath "$1")
@@ -19,7 +19,10 @@ pass=0
 fail=0
 "$bin" compare --car cars/pellion-fr2.yaml --track tracks/brannock-park.yaml \
   --config low --config high --out "$tmp/report" > /dev/null || { echo "FAIL: compare"; exit 1; }
-for page in "$tmp/report/report.html"; do
+# run's single-lap page too.
+"$bin" run --car cars/caldra-gt.yaml --track tracks/cairnholt.yaml --out "$tmp/run" > /dev/null ||
+  { echo "FAIL: run"; exit 1; }
+for page in "$tmp/report/report.html" "$tmp/run/report.html"; do
   timeout 120 "$browser" --headless --no-sandbox --disable-gpu --disable-quic --no-first-run \
     --disable-background-networking --disable-component-update --disable-sync \
     --disable-extensions --disable-default-apps --user-data-dir="$tmp/profile" \

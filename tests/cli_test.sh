@@ -29,6 +29,15 @@ for car in cars/*.yaml; do
     [ "$(head -n 1 "$trace")" = "distance_m,time_s,x_m,y_m,curvature_1pm,speed_kph,long_accel_g,lat_accel_g,gear,rpm,phase,drag_N,downforce_N,front_load_N,rear_load_N,front_share,aero_balance_eff,front_usage,rear_usage,balance_index" ] &&
       ok || bad "trace header $trace"
     ! grep -qiE 'nan|inf' "$trace" "$out/summary.json" "$out/corners.csv" && ok || bad "non-finite number in $out"
+    # corners.csv names every field its rows have (issue 10, item 1; csv_files_test reads them all).
+    [ "$(head -n 1 "$out/corners.csv")" = "track,config,id,start_m,apex_m,end_m,entry_kph,apex_kph,exit_kph,time_s,limit,entry_axle,apex_axle,exit_axle,entry_balance_index,apex_balance_index,exit_balance_index" ] &&
+      ok || bad "corners header $out"
+    # run --out writes the single-lap page: speed, map, front share, g-g, corners, balance.
+    id=$(basename "$track" .yaml)
+    for want in "speed-$id" "map-$id" "front-share-$id" "gg-$id" "corners-$id" "balance-$id"; do
+      grep -q "id=\"$want\"" "$out/report.html" 2>/dev/null || { bad "run report lacks $want ($out)"; break; }
+    done
+    ok
     for key in lapwing car results track config lap_time_s length_m air_density_kg_m3 top_speed_kph \
       min_speed_kph full_throttle_fraction braking_fraction sectors_s corners; do
       grep -q "\"$key\":" "$out/summary.json" || bad "summary.json lacks $key ($out)"
@@ -193,6 +202,98 @@ done
 "$bin" run --car cars/caldra-gt.yaml --track tracks/skidpad.yaml --out /proc/lapwing-nope > /dev/null 2> "$tmp/stderr"
 [ $? -eq 2 ] && grep -q "^lapwing: error: cannot create /proc/lapwing-nope" "$tmp/stderr" && ok ||
   bad "unwritable --out: $(cat "$tmp/stderr")"
+
+# 11. Labels that say what they mean (issue 10, item 11).
+# The limiting axle is front, rear or both (within +-0.02 of usage), with the front - rear usage
+# beside it: every label must agree with the value printed next to it.
+"$bin" run --car cars/caldra-gt.yaml --track tracks/brannock-park.yaml > "$tmp/axles.txt"
+grep -q "front-rear usage entry/apex/exit" "$tmp/axles.txt" && grep -q "both within +-0.02" "$tmp/axles.txt" &&
+  ok || bad "run's corners table lacks the usage difference or the band"
+awk '/^corner  turn/ { on = 1; next } on && /^-/ { next } on && NF != 12 { on = 0 }
+  on { n = split($(NF - 1), a, "/"); split($NF, d, "/"); rows++
+       for (k = 1; k <= 3; k++) {
+         want = d[k] > 0.02 ? "front" : (d[k] < -0.02 ? "rear" : "both")
+         if (a[k] != want) { print "corner " $1 ": " a[k] " beside " d[k]; bad_rows++ }
+         if (a[k] == "both") both++ } }
+  END { exit !(rows > 0 && both > 0 && bad_rows == 0) }' "$tmp/axles.txt" &&
+  ok || bad "axle labels disagree with their usage difference: $(cat "$tmp/axles.txt")"
+# compare's where-the-time-goes columns say they are deltas.
+"$bin" compare --car cars/caldra-gt.yaml --track tracks/skidpad.yaml > "$tmp/cmp.txt"
+grep -q "delta in corners s  delta under braking s  delta on straights s" "$tmp/cmp.txt" && ok ||
+  bad "compare's split columns do not say delta: $(grep '^config' "$tmp/cmp.txt")"
+# check prints no closure gap for an open track (nothing to close), and JSON null.
+"$bin" check --car cars/caldra-gt.yaml --track tracks/acceleration.yaml --json "$tmp/open.json" > "$tmp/open.txt"
+! grep -q "closure gap" "$tmp/open.txt" && grep -q '"closure_gap_m": null' "$tmp/open.json" && ok ||
+  bad "check prints a closure gap for an open track: $(grep 'open (sprint)' "$tmp/open.txt")"
+"$bin" check --car cars/caldra-gt.yaml --track tracks/skidpad.yaml | grep -q "closure gap 0.000 m" && ok ||
+  bad "check lost the closure gap of a closed track"
+# A config with drag and no downforce: its front share of the aero load is undefined ('-', null),
+# and the drag moment takes D z_D / L off the front axle (REFERENCES, load transfer; moments about
+# the rear contact patch). At 200 km/h in ISO 2533 sea-level air (rho 1.2250 kg/m3, REFERENCES):
+# D = 0.5 rho CdA v^2, front aero load = -D 0.5 m / 2.6 m; to 1e-6 relative (the atmosphere's
+# formulas give 1.225000018 against the table's 1.2250: 1.5e-8).
+"$bin" check --car tests/data/drag-only-car.yaml --json "$tmp/drag.json" > "$tmp/drag.txt"
+grep -q '"front_share_with_drag_moment": null' "$tmp/drag.json" &&
+  ! grep -q '"front_share_with_drag_moment": 0' "$tmp/drag.json" &&
+  grep -qE '^200 +0 +1701 +- +- +-327$' "$tmp/drag.txt" && ok ||
+  bad "drag-only car's balance: $(cat "$tmp/drag.txt")"
+awk '/"speed_kph": 200/ { on = 1 } on && /"front_aero_load_n"/ { gsub(/[",]/, ""); got = $2; on = 0 }
+  END { v = 200 / 3.6; want = -0.5 * 1.225 * 0.9 * v * v * 0.5 / 2.6
+        d = (got - want) / want; exit !(d < 1e-6 && d > -1e-6) }' "$tmp/drag.json" && ok ||
+  bad "drag-only front aero load is not -D z_D / L"
+"$bin" run --car tests/data/drag-only-car.yaml --track tracks/skidpad.yaml --out "$tmp/dragrun" |
+  grep -q "no downforce at 150 and 250 km/h: no aero balance" && ok || bad "run's balance with no downforce"
+grep -q '"aero_balance_with_drag_150_kph": null' "$tmp/dragrun/summary.json" && ok ||
+  bad "summary.json balance with the drag moment and no downforce is not null"
+
+# 12. Messages in lapwing's own words (issue 10, item 12).
+expect_error() {  # expected text, then the command; exit 2, one line on stderr
+  local want=$1; shift
+  "$bin" "$@" > "$tmp/stdout" 2> "$tmp/stderr"
+  local code=$?
+  [ "$code" -eq 2 ] && grep -qF -- "$want" "$tmp/stderr" && [ "$(wc -l < "$tmp/stderr")" -eq 1 ] &&
+    ok || bad "$* -> exit $code: $(cat "$tmp/stderr")"
+}
+expect_error "lapwing: error: unknown command 'runn'; did you mean 'run'? (commands: check, run, compare, trade, track)" \
+  runn --car cars/caldra-gt.yaml --track tracks/skidpad.yaml
+expect_error "unknown command 'track from-lgo'; did you mean 'track from-log'? (commands of track: from-log)" \
+  track from-lgo --log x.csv
+expect_error "unknown command 'simulate' (commands: check, run, compare, trade, track)" simulate
+expect_error "lapwing: error: give a command (commands: check, run, compare, trade, track)"
+expect_error "no config named 'hgh_downforce'; did you mean 'high_downforce'? (the car has low_drag, high_downforce)" \
+  run --car cars/caldra-gt.yaml --track tracks/skidpad.yaml --config hgh_downforce
+expect_error "no config named 'high'; did you mean 'high_downforce'?" \
+  compare --car cars/caldra-gt.yaml --track tracks/skidpad.yaml --config high
+expect_error "no config named 'wet' (the car has low_drag, high_downforce)" \
+  trade --car cars/caldra-gt.yaml --track tracks/skidpad.yaml --config wet
+expect_error "lapwing: error: --track is given 2 times; run laps one track (compare and trade take several)" \
+  run --car cars/caldra-gt.yaml --track tracks/skidpad.yaml --track tracks/brannock-park.yaml
+! grep -q "At Most" "$tmp/stderr" && ok || bad "the parser library's words for --track twice"
+expect_error "lapwing: error: --car is given 2 times; check takes one" \
+  check --car cars/caldra-gt.yaml --car=cars/pellion-fr2.yaml
+expect_error "lapwing: error: --step: 2 is out of range ((0, 50] %); did you mean 2 %?" \
+  trade --car cars/caldra-gt.yaml --track tracks/skidpad.yaml --step 2
+expect_error "--humidity: 60 is out of range ([0, 100] %); did you mean 60 %?" \
+  run --car cars/caldra-gt.yaml --track tracks/skidpad.yaml --humidity 60
+expect_error "--pressure: 985 is out of range ([30000, 110000] Pa); did you mean 985 hPa or 985 mbar?" \
+  check --car cars/caldra-gt.yaml --pressure 985
+expect_error "--temperature: 300 is out of range ([-50, 70] C); did you mean 300 K?" \
+  check --car cars/caldra-gt.yaml --temperature 300
+# A value given with its unit and still out of range gets no guess.
+expect_error "--step: 60 % is out of range ((0, 50] %)" \
+  trade --car cars/caldra-gt.yaml --track tracks/skidpad.yaml --step "60 %"
+! grep -q "did you mean" "$tmp/stderr" && ok || bad "a guess for a value given with its unit"
+
+# 13. check's smoothing study: a variant that cannot be solved is a note naming it, not a failure
+# (issue 10, item 7b). Fitted over half its 20 m the test sprint's wiggle is too tight for its
+# 200 km/h start; run takes the track as given.
+"$bin" run --car cars/caldra-gt.yaml --track tests/data/sprint-wiggle.yaml > /dev/null 2>&1 && ok ||
+  bad "run refuses the wiggle sprint"
+"$bin" check --car cars/caldra-gt.yaml --track tests/data/sprint-wiggle.yaml --json "$tmp/wig.json" \
+  > "$tmp/wig.txt" 2> "$tmp/stderr" && ok || bad "check fails on the wiggle sprint: $(cat "$tmp/stderr")"
+grep -q "note: the centerline smoothed over 10.0 m (half) cannot be solved with config low_drag: start_speed 200.0 km/h is more than the car can hold" "$tmp/wig.txt" &&
+  grep -qE '^low_drag +- +[0-9.]+ +[0-9.]+ +-$' "$tmp/wig.txt" && grep -q '"half_s": null' "$tmp/wig.json" &&
+  grep -q '"smoothing_sensitivity_notes"' "$tmp/wig.json" && ok || bad "check's note on the half variant: $(cat "$tmp/wig.txt")"
 
 echo "cli: $pass passed, $fail failed"
 [ "$fail" -eq 0 ]

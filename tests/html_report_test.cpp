@@ -8,6 +8,7 @@
 #include <vector>
 
 #include "lapwing/html_report.hpp"
+#include "lapwing/report.hpp"
 #include "lapwing/study.hpp"
 #include "test_support.hpp"
 
@@ -142,6 +143,37 @@ TEST_CASE("a run report has its plots and no delta or trade map") {
   CHECK(ids.count("gg-skidpad") == 1);
   CHECK(ids.count("delta-skidpad") == 0);
   CHECK(ids.count("trade-map-skidpad") == 0);
+}
+
+TEST_CASE("run's single-lap page: speed, map, balance, g-g and the corners table; no bars of one") {
+  const Car car = load_car(test::source_path("cars/caldra-gt.yaml"));
+  const Circuit c = circuit("tracks/brannock-park.yaml");
+  const std::vector<Circuit> circuits{c};
+  const LapRun r = run_lap(car.configured(1), c);
+  const Comparison one = single_lap_comparison(1, r, c);
+  const std::string html = html_report({&car, &circuits, &one, nullptr, "run"});
+  const std::set<std::string> ids = parse_xml(html);
+  for (const char* id : {"speed-brannock-park", "map-brannock-park", "front-share-brannock-park",
+                         "gg-brannock-park", "corners-brannock-park", "balance-brannock-park"}) {
+    CAPTURE(id);
+    CHECK(ids.count(id) == 1);
+  }
+  // A bar of a lap's delta to itself is zero and says nothing.
+  CHECK(ids.count("lap-bars") == 0);
+  // Every corner of the lap is a row with its apex speed, limit and axles (with the values).
+  for (const auto& corner : r.summary.corners) {
+    const std::string row =
+        "<td>" + std::to_string(corner.id) + (corner.direction > 0 ? " L" : " R") + "</td>";
+    CAPTURE(corner.id);
+    const std::size_t at = html.find(row);
+    REQUIRE(at != std::string::npos);
+    const std::string rest = html.substr(at, html.find("</tr>", at) - at);
+    CHECK(rest.find(">" + corner.limit + "<") != std::string::npos);
+    CHECK(rest.find(">" + axle_cell(corner) + "<") != std::string::npos);
+    CHECK(rest.find(">" + balance_index_cell(corner) + "<") != std::string::npos);
+  }
+  CHECK(html.find("both within +-0.02") != std::string::npos);
+  CHECK(html.find("Caldra GT") != std::string::npos);
 }
 
 TEST_CASE("the XML reader refuses what is not well-formed") {

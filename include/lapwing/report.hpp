@@ -26,6 +26,14 @@ std::string corners_csv(const std::vector<LapSummary>& results);
 /// where, the front-limited corners, and the front-limited length (m). Shared by the terminal
 /// and the HTML tables.
 std::vector<std::string> balance_cells(const BalanceSummary& b);
+/// A corner's limiting axles, "entry/apex/exit" (e.g. "rear/both/front"), and the usage
+/// differences they are read from, "+0.031/-0.004/-0.120" (front - rear). Shared by the terminal
+/// and the HTML tables.
+std::string axle_cell(const CornerResult& c);
+std::string balance_index_cell(const CornerResult& c);
+/// The note under a corners table that says what the axle labels mean.
+std::string axle_legend();
+
 /// Corner ids joined with ", " ("-" for none).
 std::string id_list(const std::vector<int>& ids);
 

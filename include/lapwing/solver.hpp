@@ -54,6 +54,7 @@ struct Lap {
   std::vector<double> engine_radps, drag_n, downforce_n, front_load_n, rear_load_n;
   std::vector<double> front_share;              // front axle load / total
   std::vector<double> aero_balance_eff;         // front share of the aero load with the drag moment
+                                                // (NaN where there is no downforce)
   std::vector<double> front_usage, rear_usage;  // each axle's friction-ellipse usage (1: limit)
   std::vector<Phase> phase;
   std::vector<std::uint8_t> trimmed;  // straight-line trim in use

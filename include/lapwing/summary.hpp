@@ -3,6 +3,7 @@
 // the JSON and the CSV alike (STYLE, habit 6).
 #pragma once
 
+#include <optional>
 #include <string>
 #include <vector>
 
@@ -22,16 +23,31 @@ struct CornerResult {
   double time_s;
   std::string limit;  // "grip" (apex on the tyres' steady limit), "power" (taken under drive,
                       // never reaching the limit), "braking" (apex inside a braking zone)
-  // The axle using more of its ellipse ("front" or "rear") at entry, apex and exit.
+  // The axle using more of its ellipse at entry, apex and exit (limiting_axle: "front", "rear",
+  // or "both" within the neutral band), and the difference it is read from: front usage - rear
+  // usage (the trace's balance_index; > 0: the front saturates first).
   std::string entry_axle, apex_axle, exit_axle;
+  double entry_balance_index, apex_balance_index, exit_balance_index;
 };
+
+/// Neutral band on balance_index (front usage - rear usage, each 0..1 of its ellipse): within
+/// +-0.02 neither axle is named as the limit, since the model's usages carry about that much
+/// error (the axle loads ignore lateral load transfer, README Limitations) and two axles at 0.95
+/// and 0.96 are, for a set-up decision, both at the limit.
+inline constexpr double axle_neutral_band = 0.02;
+
+/// "front" when balance_index > axle_neutral_band, "rear" when < -axle_neutral_band, else
+/// "both".
+std::string limiting_axle(double balance_index);
 
 /// The balance of one lap: where the front axle's share of the load goes, and where the front
 /// saturates first (balance_index = front usage - rear usage > 0: an understeer tendency).
 struct BalanceSummary {
   double static_front_share;
-  // Aero balance (front share of downforce) at 150 and 250 km/h, alone and with the drag moment.
-  double aero_balance_150, aero_balance_eff_150, aero_balance_250, aero_balance_eff_250;
+  // Aero balance (front share of downforce) at 150 and 250 km/h, alone and with the drag moment
+  // (aero_balance_with_drag_moment: none without downforce, where the share is undefined).
+  double aero_balance_150, aero_balance_250;
+  std::optional<double> aero_balance_eff_150, aero_balance_eff_250;
   bool has_fast_acceleration;              // any point accelerating above 200 km/h
   double lowest_front_share_fast;          // lowest front share accelerating above 200 km/h
   double lowest_front_share_at_m;          // where

@@ -6,6 +6,7 @@
 
 #include "lapwing/aero.hpp"
 #include "lapwing/air.hpp"
+#include "lapwing/axle.hpp"
 #include "lapwing/car.hpp"
 #include "lapwing/corners.hpp"
 #include "lapwing/document.hpp"
@@ -44,15 +45,52 @@ struct AirOverride {
   std::optional<double> altitude_m, temperature_k, pressure_pa, humidity;
 };
 
+// The units a quantity accepts, as a list ("m", "mm", ...).
+std::vector<std::string> unit_names(Quantity q) {
+  std::vector<std::string> out;
+  const std::string all = accepted_units(q);
+  for (std::size_t a = 0; a < all.size();) {
+    const std::size_t b = std::min(all.find(", ", a), all.size());
+    out.push_back(all.substr(a, b - a));
+    a = b + 2;
+  }
+  return out;
+}
+
+// A range given in SI, described in the unit a reader types: the quantity's default unit (the
+// one a plain number is read in), or % for a fraction. E.g. "(0, 50] %", "[-50, 70] C".
+std::string describe_in_units(Quantity q, const Range& r) {
+  const std::string unit = q == Quantity::fraction ? "%" : unit_names(q).front();
+  // si = value scale + offset, so value = (si - offset) / scale.
+  const double offset = *to_si(0.0, unit, q), scale = *to_si(1.0, unit, q) - offset;
+  Range shown = r;
+  shown.lo = (r.lo - offset) / scale;
+  shown.hi = (r.hi - offset) / scale;
+  return shown.describe() + " " + unit;
+}
+
 std::optional<double> option_value(const std::string& text, const char* option, Quantity q,
                                    Range r) {
   if (text.empty()) return std::nullopt;
   std::string err;
   auto v = parse_quantity(text, q, err);
   if (!v) throw UsageError{std::string(option) + ": " + err};
-  if (!r.contains(*v))
-    throw UsageError{std::string(option) + ": " + text + " is out of range (" + r.describe() +
-                     " in SI units)"};
+  if (!r.contains(*v)) {
+    std::string msg =
+        std::string(option) + ": " + text + " is out of range (" + describe_in_units(q, r) + ")";
+    // A plain number out of range is most often a number typed in another unit (2 for 2 %):
+    // suggest every unit in which it is in range.
+    if (const auto plain = parse_number(text)) {
+      std::string suggestions;
+      for (const auto& unit : unit_names(q)) {
+        const auto si = to_si(*plain, unit, q);
+        if (si && r.contains(*si))
+          suggestions += (suggestions.empty() ? "" : " or ") + format_number(*plain) + " " + unit;
+      }
+      if (!suggestions.empty()) msg += "; did you mean " + suggestions + "?";
+    }
+    throw UsageError{msg};
+  }
   return v;
 }
 
@@ -96,9 +134,21 @@ std::size_t pick_config(const Car& car, const std::string& name) {
   if (name.empty()) return 0;
   const int i = car.config_index(name);
   if (i < 0) {
+    const std::vector<std::string> names = car.config_names();
     std::string list;
-    for (const auto& n : car.config_names()) list += (list.empty() ? "" : ", ") + n;
-    throw InputError(car.file, Mark{}, "no config named '" + name + "' (the car has " + list + ")",
+    for (const auto& n : names) list += (list.empty() ? "" : ", ") + n;
+    // The nearest name by spelling, else the one name that starts with what was typed.
+    std::string near = closest(name, names);
+    if (near.empty()) {
+      std::vector<std::string> starting;
+      for (const auto& n : names)
+        if (n.rfind(name, 0) == 0) starting.push_back(n);
+      if (starting.size() == 1) near = starting.front();
+    }
+    throw InputError(car.file, Mark{},
+                     "no config named '" + name + "'" +
+                         (near.empty() ? "" : "; did you mean '" + near + "'?") + " (the car has " +
+                         list + ")",
                      "aero.configs");
   }
   return static_cast<std::size_t>(i);
@@ -136,6 +186,7 @@ void describe_config(const Car& car, std::size_t index, const Air& air, std::str
          fixed(units::to_kph(env.top_speed_level_mps()), 1) + " km/h (" +
          (env.rev_limited() ? "rev limit" : "drag") + ")\n";
   std::vector<std::vector<std::string>> rows;
+  bool no_downforce = false;
   j.key("at_speeds").begin_array();
   for (double speed_kph : {100.0, 200.0, 300.0}) {
     const double v = speed_kph * units::kph;
@@ -143,18 +194,31 @@ void describe_config(const Car& car, std::size_t index, const Air& air, std::str
     const double q = 0.5 * air.density_kg_m3 * v * v;
     const double down = q * p.cla_m2, drag = q * p.cda_m2;
     // Front axle share of the aero load: the balance alone, then with the drag moment
-    // (drag x drag height / wheelbase off the front axle).
+    // (drag x drag height / wheelbase off the front axle); undefined without downforce. The
+    // aero load on the front axle itself, DF bal - D z_D / L, is defined either way.
     const double share = p.balance;
-    const double with_moment =
-        down > 0 ? (down * p.balance - drag * cc.drag_height_m / cc.wheelbase_m) / down : 0.0;
-    std::vector<std::string> row{fixed(speed_kph, 0), fixed(down, 0), fixed(drag, 0),
-                                 fixed(100 * share, 1), fixed(100 * with_moment, 1)};
-    j.begin_object()
-        .field("speed_kph", speed_kph)
-        .field("downforce_n", down)
-        .field("drag_n", drag)
-        .field("front_share", share)
-        .field("front_share_with_drag_moment", with_moment);
+    const std::optional<double> with_moment = aero_balance_with_drag_moment(
+        p.cla_m2, p.cda_m2, p.balance, cc.drag_height_m, cc.wheelbase_m);
+    const double front_aero = down * p.balance - drag * cc.drag_height_m / cc.wheelbase_m;
+    if (!with_moment) no_downforce = true;
+    std::vector<std::string> row{fixed(speed_kph, 0),
+                                 fixed(down, 0),
+                                 fixed(drag, 0),
+                                 with_moment ? fixed(100 * share, 1) : std::string("-"),
+                                 with_moment ? fixed(100 * *with_moment, 1) : std::string("-"),
+                                 fixed(front_aero, 0)};
+    j.begin_object().field("speed_kph", speed_kph).field("downforce_n", down).field("drag_n", drag);
+    j.key("front_share");
+    if (with_moment)
+      j.value(share);
+    else
+      j.null();
+    j.key("front_share_with_drag_moment");
+    if (with_moment)
+      j.value(*with_moment);
+    else
+      j.null();
+    j.field("front_aero_load_n", front_aero);
     if (env.has_map()) {
       row.push_back(fixed(1000 * p.front_ride_m, 1) + " / " + fixed(1000 * p.rear_ride_m, 1) +
                     (p.off_map ? " off map" : "") + (p.grounded ? " grounded" : ""));
@@ -164,8 +228,8 @@ void describe_config(const Car& car, std::size_t index, const Air& air, std::str
     rows.push_back(row);
   }
   j.end_array();
-  std::vector<std::string> header{"speed km/h", "downforce N", "drag N", "front share %",
-                                  "with drag moment %"};
+  std::vector<std::string> header{"speed km/h",    "downforce N",        "drag N",
+                                  "front share %", "with drag moment %", "front aero load N"};
   if (env.has_map()) header.push_back("ride height F / R mm");
   out += text_table(header, rows);
   // Notes: what the data does outside its range, said once.
@@ -183,6 +247,10 @@ void describe_config(const Car& car, std::size_t index, const Air& air, std::str
       notes.push_back("a ride height reaches zero at " +
                       fixed(units::to_kph(env.grounded_speed_mps()), 1) + " km/h");
   }
+  if (no_downforce)
+    notes.push_back(
+        "no downforce: the front share of the aero load is undefined ('-'); the drag moment "
+        "alone takes drag x drag height / wheelbase off the front axle (front aero load)");
   if (a.trim)
     notes.push_back("straight-line trim: CdA " + fixed(a.trim->dcda_m2, 3) + " m2, ClA " +
                     fixed(a.trim->dcla_m2, 3) + " m2, balance " + fixed(100 * a.trim->dbalance, 1) +
@@ -229,12 +297,16 @@ int check(const CheckOptions& o) {
   for (const auto& t : tracks) {
     const Closure cl = closure(t.track);
     out += "\ntrack  " + t.track.name + " (" + t.track.file + ")\n";
+    // The closure gap is what a lap must bring to zero: an open track has none to report.
     out += "       " + std::string(t.track.closed ? "closed lap" : "open (sprint)") + ", length " +
-           fixed(t.mesh.length_m, 1) + " m, closure gap " + fixed(cl.position_gap_m, 3) + " m / " +
-           fixed(cl.heading_gap_rad / units::deg, 2) + " deg, elevation gap " +
-           fixed(cl.elevation_gap_m, 2) + " m, corners " + std::to_string(t.corners.size()) +
-           "\n       air " + describe_air(t.air) + ", mesh " + fixed(t.mesh.step_m, 4) + " m (" +
-           std::to_string(t.mesh.intervals()) + " steps)\n";
+           fixed(t.mesh.length_m, 1) + " m" +
+           (t.track.closed ? ", closure gap " + fixed(cl.position_gap_m, 3) + " m / " +
+                                 fixed(cl.heading_gap_rad / units::deg, 2) +
+                                 " deg, elevation gap " + fixed(cl.elevation_gap_m, 2) + " m"
+                           : std::string(", rise ") + fixed(cl.elevation_gap_m, 2) + " m") +
+           ", corners " + std::to_string(t.corners.size()) + "\n       air " + describe_air(t.air) +
+           ", mesh " + fixed(t.mesh.step_m, 4) + " m (" + std::to_string(t.mesh.intervals()) +
+           " steps)\n";
     if (t.track.profile) {
       const PathProfile& p = *t.track.profile;
       const bool fitted = p.source == PathProfile::Source::centerline;
@@ -253,11 +325,18 @@ int check(const CheckOptions& o) {
         .field("name", t.track.name)
         .field("file", t.track.file)
         .field("closed", t.track.closed)
-        .field("length_m", t.mesh.length_m)
-        .field("closure_gap_m", cl.position_gap_m)
-        .field("closure_heading_deg", cl.heading_gap_rad / units::deg)
-        .field("elevation_gap_m", cl.elevation_gap_m)
-        .field("corner_count", static_cast<int>(t.corners.size()))
+        .field("length_m", t.mesh.length_m);
+    if (t.track.closed)
+      j.field("closure_gap_m", cl.position_gap_m)
+          .field("closure_heading_deg", cl.heading_gap_rad / units::deg)
+          .field("elevation_gap_m", cl.elevation_gap_m);
+    else
+      j.key("closure_gap_m")
+          .null()
+          .key("closure_heading_deg")
+          .null()
+          .field("rise_m", cl.elevation_gap_m);
+    j.field("corner_count", static_cast<int>(t.corners.size()))
         .field("air_density_kg_m3", t.air.density_kg_m3);
     j.key("notes").begin_array();
     if (t.track.profile)
@@ -274,33 +353,72 @@ int check(const CheckOptions& o) {
     }
     j.end_array();
     if (t.track.profile && t.track.profile->source == PathProfile::Source::centerline) {
-      // How much the smoothing choice matters: the lap at half and double the length.
+      // How much the smoothing choice matters: the lap at half and double the length. A variant
+      // that cannot be laid out or solved (a tighter fit can make a start speed too high, or a
+      // lap not close) is a note naming it: the track itself is what run takes.
       const PathProfile& p = *t.track.profile;
+      const double factors[3] = {0.5, 1.0, 2.0};
+      const char* variant_names[3] = {"half", "as given", "double"};
+      std::vector<std::string> notes;
+      auto variant_label = [&](int k) {
+        return "the centerline smoothed over " + fixed(factors[k] * p.smoothing_m, 1) + " m (" +
+               variant_names[k] + ")";
+      };
+      std::optional<Circuit> variants[3];
+      for (int k = 0; k < 3; ++k) {
+        if (factors[k] == 1.0) {
+          variants[k] = t;
+          continue;
+        }
+        try {
+          Track v = t.track;
+          CenterlineOptions co;
+          co.smoothing_m = p.smoothing_m * factors[k];
+          co.elevation_smoothing_m = p.elevation_smoothing_m;
+          v.profile = import_centerline(p.data_file, v.closed, co);
+          variants[k] = lapwing::lay_out(v, t.air);
+        } catch (const InputError& e) {
+          notes.push_back(variant_label(k) + " cannot be laid out: " + e.message());
+        }
+      }
       std::vector<std::vector<std::string>> srows;
       j.key("smoothing_sensitivity").begin_array();
-      std::vector<Circuit> variants;
-      for (double f : {0.5, 1.0, 2.0}) {
-        Track v = t.track;
-        CenterlineOptions co;
-        co.smoothing_m = p.smoothing_m * f;
-        co.elevation_smoothing_m = p.elevation_smoothing_m;
-        v.profile = import_centerline(p.data_file, v.closed, co);
-        variants.push_back(lapwing::lay_out(v, t.air));
-      }
       for (std::size_t c = 0; c < car.configs.size(); ++c) {
         const Car cc = car.configured(c);
-        double laps[3];
-        for (int k = 0; k < 3; ++k)
-          laps[k] = run_lap(cc, variants[static_cast<std::size_t>(k)]).summary.lap_time_s;
-        srows.push_back({car.configs[c].name, fixed(laps[0], 3), fixed(laps[1], 3),
-                         fixed(laps[2], 3), fixed(100 * (laps[2] - laps[0]) / laps[1], 2)});
-        j.begin_object()
-            .field("config", car.configs[c].name)
-            .field("half_s", laps[0])
-            .field("as_given_s", laps[1])
-            .field("double_s", laps[2])
-            .end_object();
+        std::optional<double> laps[3];
+        for (int k = 0; k < 3; ++k) {
+          if (!variants[k]) continue;
+          try {
+            laps[k] = run_lap(cc, *variants[k]).summary.lap_time_s;
+          } catch (const InputError& e) {
+            notes.push_back(variant_label(k) + " cannot be solved with config " +
+                            car.configs[c].name + ": " + e.message());
+          } catch (const CannotMove& e) {
+            notes.push_back(variant_label(k) + " cannot be solved with config " +
+                            car.configs[c].name + ": the car cannot complete it: " + e.what());
+          }
+        }
+        auto cell = [](const std::optional<double>& v) {
+          return v ? fixed(*v, 3) : std::string("-");
+        };
+        srows.push_back({car.configs[c].name, cell(laps[0]), cell(laps[1]), cell(laps[2]),
+                         laps[0] && laps[1] && laps[2]
+                             ? fixed(100 * (*laps[2] - *laps[0]) / *laps[1], 2)
+                             : std::string("-")});
+        j.begin_object().field("config", car.configs[c].name);
+        const char* keys[3] = {"half_s", "as_given_s", "double_s"};
+        for (int k = 0; k < 3; ++k) {
+          j.key(keys[k]);
+          if (laps[k])
+            j.value(*laps[k]);
+          else
+            j.null();
+        }
+        j.end_object();
       }
+      j.end_array();
+      j.key("smoothing_sensitivity_notes").begin_array();
+      for (const auto& n : notes) j.value(n);
       j.end_array();
       out +=
           "       lap time with the centerline smoothed over half, the given and double length\n" +
@@ -308,6 +426,7 @@ int check(const CheckOptions& o) {
                       "at " + fixed(p.smoothing_m, 1) + " m",
                       "at " + fixed(2 * p.smoothing_m, 1) + " m", "spread %"},
                      srows);
+      for (const auto& n : notes) out += "       note: " + n + "\n";
     }
     j.end_object();
     out += text_table({"config", "top speed km/h (this air, level)"}, trows);
@@ -350,10 +469,19 @@ int run(const RunOptions& o) {
   out += lap_table(s);
 
   if (!o.out.empty()) {
-    write_outputs(o.out,
-                  {{"summary.json", summary_json(car.name, {s})},
-                   {"trace-" + t.track.id + "-" + s.config + ".csv", trace_csv(r.lap, t.mesh)},
-                   {"corners.csv", corners_csv({s})}});
+    std::vector<std::pair<std::string, std::string>> files{
+        {"summary.json", summary_json(car.name, {s})},
+        {"trace-" + t.track.id + "-" + s.config + ".csv", trace_csv(r.lap, t.mesh)},
+        {"corners.csv", corners_csv({s})}};
+    // The single-lap page: the comparison report of one config on one track.
+    const std::vector<Circuit> circuits{t};
+    const Comparison one = single_lap_comparison(ci, std::move(r), t);
+    files.push_back(
+        {"report.html",
+         html_report({&car, &circuits, &one, nullptr,
+                      "run, config " + s.config + ", " +
+                          (car.model == VehicleModel::axle ? "axle" : "point-mass") + " model"})});
+    write_outputs(o.out, files);
   }
   std::cout << out;
   return 0;

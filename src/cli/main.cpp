@@ -2,11 +2,75 @@
 // codes: 0 success, 1 internal fault, 2 bad input or usage, 3 a car that cannot move.
 #include <CLI/CLI.hpp>
 
+#include <algorithm>
+#include <functional>
 #include <iostream>
+#include <optional>
+#include <string>
+#include <vector>
 
 #include "commands.hpp"
+#include "lapwing/document.hpp"
 #include "lapwing/error.hpp"
 #include "lapwing/report.hpp"
+
+namespace {
+
+// What the parser library would word in its own terms, said in lapwing's before parsing: a
+// command name that is not one ("did you mean", and the list), and an option that takes one
+// value given more than once. Returns the message, or nothing when the line is fine so far.
+std::optional<std::string> check_command_line(CLI::App& app, int argc, char** argv) {
+  const std::function<bool(CLI::App*)> all = [](CLI::App*) { return true; };
+  CLI::App* at = &app;
+  std::string path;
+  int i = 1;
+  // The command words: each must name a subcommand of the one before.
+  for (;; ++i) {
+    const std::vector<CLI::App*> subs = at->get_subcommands(all);
+    if (subs.empty()) break;
+    std::vector<std::string> names;
+    for (CLI::App* sub : subs) names.push_back(sub->get_name());
+    std::string list;
+    for (const auto& n : names) list += (list.empty() ? "" : ", ") + n;
+    const std::string of = path.empty() ? "" : " of " + path.substr(0, path.size() - 1);
+    const std::string word = i < argc ? argv[i] : "";
+    if (word.empty()) return "give a command (commands" + of + ": " + list + ")";
+    if (word[0] == '-') break;  // --help, --version; the parser says the rest
+    const auto it = std::find(names.begin(), names.end(), word);
+    if (it == names.end()) {
+      const std::string near = lapwing::closest(word, names);
+      return "unknown command '" + path + word + "'" +
+             (near.empty() ? "" : "; did you mean '" + path + near + "'?") + " (commands" + of +
+             ": " + list + ")";
+    }
+    at = subs[static_cast<std::size_t>(it - names.begin())];
+    path += word + " ";
+  }
+  // Options of the command that take one value, given more than once.
+  std::vector<std::pair<std::string, int>> counts;
+  for (; i < argc; ++i) {
+    std::string word = argv[i];
+    if (word.rfind("--", 0) != 0) continue;
+    word = word.substr(0, word.find('='));
+    const CLI::Option* opt = at->get_option_no_throw(word);
+    if (!opt || opt->get_items_expected_max() != 1) continue;
+    auto it = std::find_if(counts.begin(), counts.end(), [&](auto& c) { return c.first == word; });
+    if (it == counts.end())
+      counts.push_back({word, 1});
+    else
+      ++it->second;
+  }
+  for (const auto& [name, n] : counts) {
+    if (n < 2) continue;
+    if (at->get_name() == "run" && name == "--track")
+      return "--track is given " + std::to_string(n) +
+             " times; run laps one track (compare and trade take several)";
+    return name + " is given " + std::to_string(n) + " times; " + path + "takes one";
+  }
+  return std::nullopt;
+}
+
+}  // namespace
 
 int main(int argc, char** argv) {
   using namespace lapwing;
@@ -41,7 +105,7 @@ int main(int argc, char** argv) {
   run->add_option("--track", run_o.track, "Track file (YAML)")->required();
   run->add_option("--config", run_o.config, "Aero config name (default: the car file's first)");
   run->add_option("--out", run_o.out,
-                  "Folder for summary.json, trace-TRACK-CONFIG.csv and corners.csv");
+                  "Folder for summary.json, trace-TRACK-CONFIG.csv, corners.csv and report.html");
   run->add_option("--model", run_o.model, "point-mass or axle (default: the car file's model)");
   add_air(run, run_o.air);
   run->footer(
@@ -65,7 +129,8 @@ int main(int argc, char** argv) {
   compare->add_option("--config", compare_o.configs, "Config name(s) (default: all of the car's)");
   compare->add_option(
       "--out", compare_o.out,
-      "Folder for compare.json, delta-TRACK-A-B.csv, summary.json, traces, corners.csv");
+      "Folder for compare.json, delta-TRACK-A-B.csv, summary.json, traces, corners.csv, "
+      "report.html");
   add_air(compare, compare_o.air);
   compare->footer(
       "Example:\n  lapwing compare --car cars/pellion-fr2.yaml --track tracks/brannock-park.yaml "
@@ -82,7 +147,8 @@ int main(int argc, char** argv) {
       ->check(CLI::Range(3, 41));
   trade->add_option("--span", trade_o.span,
                     "Half-width of the grid around the config (default 15 %)");
-  trade->add_option("--out", trade_o.out, "Folder for trade.json and trade-grid-TRACK.csv");
+  trade->add_option("--out", trade_o.out,
+                    "Folder for trade.json, trade-grid-TRACK.csv and report.html");
   add_air(trade, trade_o.air);
   trade->footer(
       "Example:\n  lapwing trade --car cars/pellion-fr2.yaml --track tracks/cairnholt.yaml "
@@ -115,11 +181,17 @@ int main(int argc, char** argv) {
       "Example:\n  lapwing track from-log --log lap.csv --speed speed_kph --lat-accel lat_g "
       "--distance distance_m --closed --out tracks/logged.yaml");
 
+  if (const auto msg = check_command_line(app, argc, argv)) {
+    std::cerr << "lapwing: error: " << *msg << "\n";
+    return 2;
+  }
   try {
     app.parse(argc, argv);
   } catch (const CLI::ParseError& e) {
-    const int code = app.exit(e);
-    return code == 0 ? 0 : 2;
+    // Help and version print and succeed; anything else is a usage error in one line.
+    if (e.get_exit_code() == static_cast<int>(CLI::ExitCodes::Success)) return app.exit(e);
+    std::cerr << "lapwing: error: " << e.what() << " (see lapwing --help)\n";
+    return 2;
   }
 
   try {
