@@ -25,6 +25,69 @@ double interpolate(const std::vector<double>& xs, const std::vector<double>& ys,
   return ys[i - 1] + f * (ys[i] - ys[i - 1]);
 }
 
+const char* top_speed_limit_name(TopSpeedLimit l) {
+  switch (l) {
+    case TopSpeedLimit::drag:
+      return "drag";
+    case TopSpeedLimit::rev_limit:
+      return "rev limit";
+    case TopSpeedLimit::ceiling:
+      return "table ceiling";
+  }
+  return "drag";
+}
+
+namespace {
+
+// A ride-height map's operating point at speed v from the guess (hf, hr), which it updates
+// (continuation from the last speed); a map that does not converge is the car file's error.
+AeroPoint map_point(const Car& car, const AeroConfig& a, double v, double rho, double& hf,
+                    double& hr) {
+  AeroPoint pt;
+  try {
+    pt = solve_ride_heights(*a.map, v, rho, car.drag_height_m, car.wheelbase_m, hf, hr);
+  } catch (const std::runtime_error& e) {
+    throw InputError(a.file, a.mark,
+                     std::string(e.what()) + " at " + std::to_string(v / units::kph) +
+                         " km/h (config " + a.name + ")",
+                     "aero.configs." + a.name + ".ride_height_map");
+  }
+  hf = pt.front_ride_m;
+  hr = pt.rear_ride_m;
+  return pt;
+}
+
+AeroPoint table_point(const AeroConfig& a, double v) {
+  return {interpolate(a.speed_mps, a.cda_m2, v), interpolate(a.speed_mps, a.cla_m2, v),
+          interpolate(a.speed_mps, a.balance, v), 0.0, 0.0};
+}
+
+// The first speed on a grid of `step` at which a gearless car's drive falls below its
+// resistance on the level, with and without the straight-line trim (the higher of the two top
+// speeds), read straight from the config's data; 0 when there is none up to `ceiling`.
+double level_top_speed_bound(const Car& car, double rho, double step, double ceiling) {
+  const AeroConfig& a = car.configs.front();
+  const double weight = car.mass_kg * units::g0, crr = car.tyres.rolling_resistance;
+  double hf = a.map ? a.map->static_front_m : 0.0, hr = a.map ? a.map->static_rear_m : 0.0;
+  // Resistance on the level: 0.5 rho CdA v^2 + Crr (m g + 0.5 rho ClA v^2).
+  auto resistance = [&](double cda, double cla, double v) {
+    const double q = 0.5 * rho * v * v;
+    return cda * q + crr * (weight + cla * q);
+  };
+  const std::size_t steps = static_cast<std::size_t>(std::ceil(ceiling / step));
+  for (std::size_t k = 1; k <= steps; ++k) {
+    const double v = std::min(ceiling, static_cast<double>(k) * step);
+    const AeroPoint c = a.map ? map_point(car, a, v, rho, hf, hr) : table_point(a, v);
+    double r = resistance(c.cda_m2, c.cla_m2, v);
+    if (a.trim)
+      r = std::min(r, resistance(c.cda_m2 + a.trim->dcda_m2, c.cla_m2 + a.trim->dcla_m2, v));
+    if (best_drive(car.powertrain, car.tyres.rolling_radius_m, v).force_n < r) return v;
+  }
+  return 0.0;
+}
+
+}  // namespace
+
 Envelope::Envelope(const Car& car, const Air& air, EnvelopeOptions options)
     : car_(car),
       tyres_(car.tyres),
@@ -32,13 +95,30 @@ Envelope::Envelope(const Car& car, const Air& air, EnvelopeOptions options)
       mass_eff_(car.mass_kg * (1.0 + car.inertia_factor)),
       weight_(car.mass_kg * units::g0),
       crr_(car.tyres.rolling_resistance),
-      rho_(air.density_kg_m3) {
+      rho_(air.density_kg_m3),
+      table_margin_(options.table_margin) {
   assert(car.configs.size() == 1 && "Envelope takes a configured car");
   assert(options.speed_points >= 2);
+  assert(options.table_margin > 1.0 && options.speed_ceiling_mps > 0.0);
   const Powertrain& p = car.powertrain;
   const AeroConfig& a = car.configs.front();
   const double r = car.tyres.rolling_radius_m;
-  v_max_ = p.ideal ? options.ideal_speed_cap_mps : rev_limited_speed_mps(p, r);
+  // The tables' top, from the car. A geared car: its rev limit in top gear, beyond which the
+  // engine gives nothing and the speed is held (the model's cap). A gearless car: its
+  // level-road top speed times the margin (found on a 0.5 m/s grid from the config's own data,
+  // so that the tables' rows do not depend on where the search looked). Never above the ceiling.
+  const double ceiling = options.speed_ceiling_mps;
+  if (!p.ideal) {
+    const double v_rev = rev_limited_speed_mps(p, r);
+    v_max_ = std::min(v_rev, ceiling);
+    table_top_ = v_rev <= ceiling ? TopSpeedLimit::rev_limit : TopSpeedLimit::ceiling;
+  } else {
+    constexpr double search_step_mps = 0.5;
+    const double bound = level_top_speed_bound(car, rho_, search_step_mps, ceiling);
+    const bool finite = bound > 0.0 && options.table_margin * bound < ceiling;
+    v_max_ = finite ? options.table_margin * bound : ceiling;
+    table_top_ = finite ? TopSpeedLimit::drag : TopSpeedLimit::ceiling;
+  }
   du_ = v_max_ * v_max_ / static_cast<double>(options.speed_points - 1);
   inv_du_ = 1.0 / du_;
   const std::size_t n = options.speed_points;
@@ -52,27 +132,14 @@ Envelope::Envelope(const Car& car, const Air& air, EnvelopeOptions options)
     double hf = a.map->static_front_m, hr = a.map->static_rear_m;
     for (std::size_t k = 0; k <= steps; ++k) {
       const double v = static_cast<double>(k) * map_dv_;
-      AeroPoint pt;
-      try {
-        pt = solve_ride_heights(*a.map, v, rho_, car.drag_height_m, car.wheelbase_m, hf, hr);
-      } catch (const std::runtime_error& e) {
-        throw InputError(a.file, a.mark,
-                         std::string(e.what()) + " at " + std::to_string(v / units::kph) +
-                             " km/h (config " + a.name + ")",
-                         "aero.configs." + a.name + ".ride_height_map");
-      }
-      hf = pt.front_ride_m;
-      hr = pt.rear_ride_m;
+      const AeroPoint pt = map_point(car, a, v, rho_, hf, hr);
       if (pt.off_map && off_map_speed_ < 0.0) off_map_speed_ = v;
       if (pt.grounded && grounded_speed_ < 0.0) grounded_speed_ = v;
       map_points_.push_back(pt);
     }
     aero_at = [this](double v) { return aero_point(v); };
   } else {
-    aero_at = [&a](double v) {
-      return AeroPoint{interpolate(a.speed_mps, a.cda_m2, v), interpolate(a.speed_mps, a.cla_m2, v),
-                       interpolate(a.speed_mps, a.balance, v), 0.0, 0.0};
-    };
+    aero_at = [&a](double v) { return table_point(a, v); };
   }
   rows_.resize(n);
   gear_.resize(n);
@@ -101,12 +168,14 @@ Envelope::Envelope(const Car& car, const Air& air, EnvelopeOptions options)
     }
   }
   // Top speed on the level: the one speed where drive = resistance (REFERENCES: the cubic
-  // eta P = (k v^2 + Crr m g) v for constant power); the rev limit when drive still exceeds it.
+  // eta P = (k v^2 + Crr m g) v for constant power); the tables' top (the rev limit or the
+  // ceiling) when drive still exceeds it there.
   const bool trimmed = has_trim();
   auto excess = [&](double v) { return drive_n(v) - resistance_n(v, 1.0, 0.0, trimmed); };
-  rev_limited_ = excess(v_max_) >= 0.0;
-  if (rev_limited_) {
+  if (excess(v_max_) >= 0.0) {
     v_top_ = v_max_;
+    top_limit_ =
+        table_top_ == TopSpeedLimit::rev_limit ? TopSpeedLimit::rev_limit : TopSpeedLimit::ceiling;
   } else if (excess(0.0) <= 0.0) {
     v_top_ = 0.0;  // cannot move: reported by the solver where it matters
   } else {
@@ -119,11 +188,7 @@ Envelope::Envelope(const Car& car, const Air& air, EnvelopeOptions options)
 }
 
 AeroPoint Envelope::aero_point(double v) const {
-  if (map_points_.empty()) {
-    const AeroConfig& a = car_.configs.front();
-    return {interpolate(a.speed_mps, a.cda_m2, v), interpolate(a.speed_mps, a.cla_m2, v),
-            interpolate(a.speed_mps, a.balance, v), 0.0, 0.0};
-  }
+  if (map_points_.empty()) return table_point(car_.configs.front(), v);
   const double f = std::clamp(v / map_dv_, 0.0, static_cast<double>(map_points_.size() - 1));
   const std::size_t i = std::min(static_cast<std::size_t>(f), map_points_.size() - 2);
   const double w = f - static_cast<double>(i);

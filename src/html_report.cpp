@@ -268,8 +268,10 @@ std::string trade_plot(const Circuit& c, const TradeGrid& g, const Trade& t, con
   p.underlay(cells);
   // The car's configs where they fall on the map.
   Series marks{"configs", {}, {}, 6, true, 0.0, 4.0};
-  for (const auto& a : car.configs) {
-    const double x = nominal_cla(a), y = nominal_cda(a);
+  for (std::size_t k = 0; k < car.configs.size(); ++k) {
+    const AeroConfig& a = car.configs[k];
+    const AeroOperatingPoint& op = t.operating[g.track * car.configs.size() + k];
+    const double x = op.cla_m2, y = op.cda_m2;
     if (x < g.cla_m2.front() || x > g.cla_m2.back() || y < g.cda_m2.front() || y > g.cda_m2.back())
       continue;
     marks.x.push_back(x);

@@ -1,6 +1,7 @@
 #include "lapwing/report.hpp"
 
 #include <algorithm>
+#include <cmath>
 #include <cstdio>
 
 #include "lapwing/csv_writer.hpp"
@@ -479,6 +480,10 @@ std::string delta_csv(const Mesh& mesh, const std::vector<double>& delta_s) {
   return w.take();
 }
 
+std::string attribution_note(const Attribution& a) {
+  return a.first_order_reliable ? std::string() : "first-order split not reliable for this step";
+}
+
 std::string trade_json(const Car& car, const Trade& t, const std::vector<Circuit>& circuits) {
   JsonWriter w;
   w.begin_object().field("lapwing", version()).field("car", car.name).field("step", t.options.step);
@@ -509,6 +514,10 @@ std::string trade_json(const Car& car, const Trade& t, const std::vector<Circuit
         .field("from_cla_s", a.from_cla_s)
         .field("from_cda_s", a.from_cda_s)
         .field("residual_s", a.residual_s)
+        .field("delta_cla_m2", a.delta_cla_m2)
+        .field("delta_cda_m2", a.delta_cda_m2)
+        .field("first_order_reliable", a.first_order_reliable)
+        .field("note", attribution_note(a))
         .end_object();
   w.end_array().end_object();
   return w.str();
@@ -538,19 +547,22 @@ std::string trade_table(const Car& car, const Trade& t, const std::vector<Circui
     for (const auto& a : t.attributions) {
       // The terminal shows the changes to or from a traded config; trade.json has them all.
       if (!traded(a.a) && !traded(a.b)) continue;
-      auto share = [&](double part) {
-        return a.total_s != 0.0 ? fixed(100 * part / a.total_s, 0) + " %" : std::string("-");
+      // Shares of a total under attribution_share_min_total_s would be ratios of noise.
+      const bool shares = std::abs(a.total_s) >= attribution_share_min_total_s;
+      auto part = [&](double x) {
+        return signed_fixed(x, 3) +
+               (shares ? " (" + fixed(100 * x / a.total_s, 0) + " %)" : std::string());
       };
-      arows.push_back({circuits[a.track].track.id,
-                       car.configs[a.a].name + " -> " + car.configs[a.b].name,
-                       signed_fixed(a.total_s, 3),
-                       signed_fixed(a.from_cla_s, 3) + " (" + share(a.from_cla_s) + ")",
-                       signed_fixed(a.from_cda_s, 3) + " (" + share(a.from_cda_s) + ")",
-                       signed_fixed(a.residual_s, 3), car.configs[a.reference].name});
+      arows.push_back(
+          {circuits[a.track].track.id, car.configs[a.a].name + " -> " + car.configs[a.b].name,
+           signed_fixed(a.total_s, 3), part(a.from_cla_s), part(a.from_cda_s),
+           signed_fixed(a.residual_s, 3), car.configs[a.reference].name, attribution_note(a)});
     }
-    o += "\nwhere a config change's lap time comes from (first order, with the residual)\n" +
+    o += "\nwhere a config change's lap time comes from (first order at the configs' operating "
+         "points, with the residual; shares of totals of " +
+         fixed(attribution_share_min_total_s, 2) + " s and more)\n" +
          text_table({"track", "change", "total s", "from ClA s", "from CdA s", "residual s",
-                     "sensitivities of"},
+                     "sensitivities of", "note"},
                     arows);
   }
   return o;

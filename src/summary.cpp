@@ -9,27 +9,105 @@
 
 namespace lapwing {
 
-std::vector<std::string> aero_warnings(const Envelope& env, double top_speed_mps) {
-  std::vector<std::string> w;
-  auto kph_text = [](double v) {
-    char buf[32];
-    std::snprintf(buf, sizeof buf, "%.1f", v / units::kph);
-    return std::string(buf);
-  };
+namespace {
+std::string kph_text(double v) {
+  char buf[32];
+  std::snprintf(buf, sizeof buf, "%.1f", v / units::kph);
+  return std::string(buf);
+}
+
+// Speeds at or above this share of the tables' top are "at the top": the sweeps and the steady
+// limit hold the speed exactly at the top there, round-off aside.
+constexpr double at_top_rel = 1e-12;
+}  // namespace
+
+std::vector<RangeNote> range_notes(const Envelope& env) {
+  std::vector<RangeNote> notes;
   const AeroConfig& a = env.car().configs.front();
-  if (env.has_map()) {
-    if (env.grounded_speed_mps() >= 0.0 && env.grounded_speed_mps() <= top_speed_mps)
-      w.push_back("a ride height reaches zero at " + kph_text(env.grounded_speed_mps()) +
-                  " km/h (top speed " + kph_text(top_speed_mps) + " km/h)");
-    if (env.off_map_speed_mps() >= 0.0 && env.off_map_speed_mps() <= top_speed_mps)
-      w.push_back("a ride height leaves the map at " + kph_text(env.off_map_speed_mps()) +
-                  " km/h (top speed " + kph_text(top_speed_mps) +
-                  " km/h); coefficients held at the map's edge beyond");
+  if (a.speed_mps.size() > 1) {
+    if (a.speed_mps.front() > 0.0)
+      notes.push_back({RangeNote::Kind::below_speed_table, "below the speed table's first row (" +
+                                                               kph_text(a.speed_mps.front()) +
+                                                               " km/h) its values are held"});
+    notes.push_back({RangeNote::Kind::above_speed_table, "above the speed table's last row (" +
+                                                             kph_text(a.speed_mps.back()) +
+                                                             " km/h) its values are held"});
   }
-  if (a.speed_mps.size() > 1 && top_speed_mps > a.speed_mps.back())
-    w.push_back("speeds above the speed table's last row (" + kph_text(a.speed_mps.back()) +
-                " km/h) use its values");
-  return w;
+  if (env.has_map()) {
+    if (env.off_map_speed_mps() >= 0.0)
+      notes.push_back({RangeNote::Kind::off_map,
+                       "a ride height is off the map (from " + kph_text(env.off_map_speed_mps()) +
+                           " km/h): the map's edge values are held there"});
+    if (env.grounded_speed_mps() >= 0.0)
+      notes.push_back({RangeNote::Kind::grounded, "a ride height is at or below zero (from " +
+                                                      kph_text(env.grounded_speed_mps()) +
+                                                      " km/h)"});
+  }
+  const double top = env.max_speed_mps();
+  std::string why;
+  switch (env.table_top_reason()) {
+    case TopSpeedLimit::rev_limit:
+      why = "the rev limit in top gear";
+      break;
+    case TopSpeedLimit::drag: {
+      char buf[32];
+      std::snprintf(buf, sizeof buf, "%.2f", env.table_margin());
+      why = std::string(buf) + " x the level-road top speed";
+      break;
+    }
+    case TopSpeedLimit::ceiling:
+      why = "the ceiling of the tables";
+      break;
+  }
+  notes.push_back({RangeNote::Kind::table_top, "the car's tables end at " + kph_text(top) +
+                                                   " km/h (" + why +
+                                                   "): no speed goes beyond, it is held there"});
+  return notes;
+}
+
+bool range_note_applies(const Envelope& env, const RangeNote& note, double v) {
+  const AeroConfig& a = env.car().configs.front();
+  switch (note.kind) {
+    case RangeNote::Kind::below_speed_table:
+      return v < a.speed_mps.front();
+    case RangeNote::Kind::above_speed_table:
+      return v > a.speed_mps.back();
+    case RangeNote::Kind::off_map:
+      return env.aero_point(v).off_map;
+    case RangeNote::Kind::grounded:
+      return env.aero_point(v).grounded;
+    case RangeNote::Kind::table_top:
+      return v >= env.max_speed_mps() * (1.0 - at_top_rel);
+  }
+  return false;
+}
+
+double range_note_share(const Envelope& env, const RangeNote& note, const Lap& lap,
+                        const Mesh& mesh) {
+  // Share of distance: each interval counts half for each end point the note applies at.
+  double length = 0.0;
+  bool here = range_note_applies(env, note, lap.speed_mps[0]);
+  for (std::size_t i = 0; i + 1 < mesh.size(); ++i) {
+    const bool next = range_note_applies(env, note, lap.speed_mps[i + 1]);
+    length += 0.5 * (mesh.s_m[i + 1] - mesh.s_m[i]) * (here + next);
+    here = next;
+  }
+  return length / mesh.length_m;
+}
+
+std::vector<std::string> lap_range_warnings(const Envelope& env, const Lap& lap, const Mesh& mesh) {
+  std::vector<std::string> out;
+  for (const RangeNote& n : range_notes(env)) {
+    const double share = range_note_share(env, n, lap, mesh);
+    if (!(share > 0.0)) continue;
+    char buf[48];
+    if (share < 0.001)
+      std::snprintf(buf, sizeof buf, "under 0.1 %%");
+    else
+      std::snprintf(buf, sizeof buf, "%.1f %%", 100.0 * share);
+    out.push_back(n.text + ": " + buf + " of the lap distance");
+  }
+  return out;
 }
 
 std::string limiting_axle(double balance_index) {
@@ -67,7 +145,7 @@ LapSummary summarize(const Lap& lap, const Mesh& mesh, const Track& track,
     trimmed += half * (lap.trimmed[i] + lap.trimmed[i + 1]);
   }
   s.trimmed_fraction = trimmed / lap.lap_time_s;
-  s.warnings = aero_warnings(env, s.top_speed_mps);
+  s.warnings = lap_range_warnings(env, lap, mesh);
   s.full_throttle_fraction = full / lap.lap_time_s;
   s.braking_fraction = brake / lap.lap_time_s;
 

@@ -294,6 +294,23 @@ expect_error "--step: 60 % is out of range ((0, 50] %)" \
 grep -q "note: the centerline smoothed over 10.0 m (half) cannot be solved with config low_drag: start_speed 200.0 km/h is more than the car can hold" "$tmp/wig.txt" &&
   grep -qE '^low_drag +- +[0-9.]+ +[0-9.]+ +-$' "$tmp/wig.txt" && grep -q '"half_s": null' "$tmp/wig.json" &&
   grep -q '"smoothing_sensitivity_notes"' "$tmp/wig.json" && ok || bad "check's note on the half variant: $(cat "$tmp/wig.txt")"
+# 14. Limits said, not hidden. A gearless car with no drag has no finite top speed: check names
+#     the tables' ceiling as the limit (it once said "rev limit" of a car without gears).
+"$bin" check --car tests/data/no-aero-car.yaml --json "$tmp/noaero.json" > "$tmp/noaero.txt"
+grep -q "top speed 900.0 km/h (table ceiling)" "$tmp/noaero.txt" &&
+  grep -q '"top_speed_limit": "table ceiling"' "$tmp/noaero.json" && ok || bad "check: ceiling not named"
+# A speed table typed without units is in m/s (100 m/s = 360 km/h): every speed of the lap lies
+# below its first row, and run (and compare's summary.json) says so at once, with the share.
+sed 's/speed: *\[100 km\/h, 150 km\/h, 200 km\/h, 250 km\/h, 300 km\/h\]/speed: [100, 150, 200, 250, 300]/' \
+  cars/pellion-fr2.yaml > "$tmp/mps-table.yaml"
+grep -q "speed: \[100, 150, 200, 250, 300\]" "$tmp/mps-table.yaml" || bad "mps-table car not made"
+want="below the speed table's first row (360.0 km/h) its values are held: 100.0 % of the lap distance"
+"$bin" run --car "$tmp/mps-table.yaml" --track tracks/brannock-park.yaml --config medium_table \
+  --out "$tmp/mps" > "$tmp/mps.txt" && grep -qF "warning: $want" "$tmp/mps.txt" &&
+  grep -qF "\"$want\"" "$tmp/mps/summary.json" && ok || bad "run: speed table in m/s not warned of"
+"$bin" compare --car "$tmp/mps-table.yaml" --track tracks/brannock-park.yaml --config medium \
+  --config medium_table --out "$tmp/mpsc" > /dev/null && grep -qF "\"$want\"" "$tmp/mpsc/summary.json" &&
+  ok || bad "compare: speed table in m/s not in summary.json"
 
 echo "cli: $pass passed, $fail failed"
 [ "$fail" -eq 0 ]

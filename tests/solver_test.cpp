@@ -112,6 +112,35 @@ TEST_CASE("a long straight reaches the top speed of eta P = (k v^2 + Crr m g) v 
   CHECK(near(top, env.top_speed_level_mps(), 1e-3));
 }
 
+TEST_CASE(
+    "a gearless car faster than 150 m/s laps at its level top speed eta P = (k v^2 + Crr m g) v "
+    "(REFERENCES; 1e-6)") {
+  // 2 MW through an ideal transmission: the top speed is about 183 m/s (660 km/h), beyond the
+  // 150 m/s the tables once stopped at without a word.
+  const double m = 800.0, power = 2e6, eta = 0.95, cda = 0.5, crr = 0.01;
+  Car car = test::plain_car(m, 2.0, power);
+  car.configs.front().cda_m2 = {cda};
+  car.tyres.rolling_resistance = crr;
+  car.powertrain.efficiency = eta;
+  // k v^3 + Crr m g v - eta P = 0, solved by Newton's method from above (the cubic is convex
+  // for v > 0, so the iterates fall monotonically onto the one positive root).
+  const double k = 0.5 * sea_level.density_kg_m3 * cda;
+  double v = 300.0;
+  for (int i = 0; i < 60; ++i)
+    v -= (k * v * v * v + crr * m * g * v - eta * power) / (3 * k * v * v + crr * m * g);
+  REQUIRE(v > 150.0);
+  const Envelope env(car, sea_level);
+  CHECK(env.top_speed_limit() == TopSpeedLimit::drag);
+  CHECK(env.max_speed_mps() > v);
+  // A circle so wide that the tyres hold the car well past the top speed (lateral usage 3 %
+  // of the ellipse at 183 m/s): every point of the lap is at the engine's limit, the root of
+  // the cubic. Tolerance: the steady limit's bracketing (36 bits) and the table's linear
+  // interpolation in v^2 (relative error ~ (du / u)^2 ~ 1e-8) are far below 1e-6.
+  const Lap lap = solve(car, test::circle_track(10000.0, 5.0));
+  for (std::size_t i = 0; i < lap.speed_mps.size(); i += 1000)
+    CHECK(near(lap.speed_mps[i], v, 1e-6));
+}
+
 TEST_CASE("forward and backward sweeps are mirror images when drive and braking are equal") {
   // No resistance and drive always above the traction limit: accelerating from v0 over a
   // distance d and braking into v0 from d away are the same function of d.

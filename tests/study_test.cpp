@@ -8,6 +8,7 @@
 #include <sstream>
 
 #include "lapwing/car.hpp"
+#include "lapwing/report.hpp"
 #include "lapwing/study.hpp"
 #include "test_support.hpp"
 
@@ -143,6 +144,86 @@ TEST_CASE("attribution: ClA and CdA terms plus the residual make the lap-time di
   const Attribution& ac = t.attributions[1];
   CHECK(ac.from_cla_s == 0.0);
   CHECK(std::abs(ac.residual_s) < 0.05 * std::abs(ac.total_s));
+}
+
+TEST_CASE("attribution takes a speed table's ClA at the lap's operating point, not its first row") {
+  // b is a speed table whose first row (0 m/s) has ClA 1.0 but which holds ClA 3.8 from
+  // 10 m/s up; the lap never drops to 10 m/s, so b flies exactly as the constant config c
+  // (ClA 3.8). Its operating point is ClA 3.8, and a -> b splits as a -> c does. Taking the
+  // first row instead would give a ClA change of -2.6 m2 and flip the sign of the ClA term.
+  const std::string configs =
+      "    a: {cda: 1.2, cla: 3.6, balance: 0.42}\n"
+      "    b: {speed_table: {speed: [0, 10, 200], cda: [1.2, 1.2, 1.2], cla: [1.0, 3.8, 3.8],"
+      " balance: [0.42, 0.42, 0.42]}}\n"
+      "    c: {cda: 1.2, cla: 3.8, balance: 0.42}\n";
+  std::string text = read(test::source_path("cars/pellion-fr2.yaml"));
+  text = text.substr(0, text.find("  configs:")) + "  configs:\n" + configs;
+  const Car car = load_text(text, "op");
+  const std::vector<Circuit> circuits{circuit("tracks/brannock-park.yaml")};
+  const LapRun rb = run_lap(car.configured(1), circuits[0]);
+  // The lap stays clear of the rows below 10 m/s (with the envelope's row spacing to spare).
+  REQUIRE(rb.summary.min_speed_mps > 12.0);
+  const Trade t = trade(car, {0}, circuits, TradeOptions{0.02, 3, 0.15}, 2);
+  REQUIRE(t.operating.size() == 3);
+  // Tolerance: 0.5 rho C is stored and read back as C (two roundings): 1e-12.
+  CHECK(near(t.operating[1].cla_m2, 3.8, 1e-12));
+  CHECK(near(t.operating[1].cda_m2, 1.2, 1e-12));
+  CHECK(t.operating[2].cla_m2 == 3.8);  // a constant config: its value itself
+  REQUIRE(t.attributions.size() == 3);
+  const Attribution& ab = t.attributions[0];  // a -> b
+  const Attribution& ac = t.attributions[1];  // a -> c
+  REQUIRE((ab.b == 1 && ac.b == 2));
+  CHECK(near(ab.delta_cla_m2, 0.2, 1e-9));
+  // b and c fly the same lap; the steady limits' root finder (36 bits, ~1e-11 of a speed)
+  // may stop at other points of the two envelopes' rows: 1e-9 s on a 65 s lap.
+  CHECK(near(ab.total_s, ac.total_s, 0.0, 1e-9));
+  CHECK(near(ab.from_cla_s, ac.from_cla_s, 1e-9, 1e-15));
+  // More downforce pays at this tight circuit: both terms negative.
+  CHECK(ab.from_cla_s < 0.0);
+  CHECK(ab.total_s < 0.0);
+}
+
+TEST_CASE("trade prints no shares of a total under 0.05 s and flags a split the residual rules") {
+  const std::string configs =
+      "    a: {cda: 1.2, cla: 3.6, balance: 0.42}\n"
+      "    b: {cda: 1.2, cla: 3.601, balance: 0.42}\n"  // a thousandth of a m2: ~1 ms
+      "    c: {cda: 1.2, cla: 3.96, balance: 0.42}\n"   // +10 % ClA: ~0.5 s, first order holds
+      "    d: {cda: 1.2, cla: 3.6, balance: 0.42, mass: 700 kg}\n";  // no aero change at all
+  std::string text = read(test::source_path("cars/pellion-fr2.yaml"));
+  text = text.substr(0, text.find("  configs:")) + "  configs:\n" + configs;
+  const Car car = load_text(text, "shares");
+  const std::vector<Circuit> circuits{circuit("tracks/brannock-park.yaml")};
+  const Trade t = trade(car, {0}, circuits, TradeOptions{0.02, 3, 0.15}, 2);
+  REQUIRE(t.attributions.size() == 6);
+  const Attribution& ab = t.attributions[0];
+  const Attribution& ac = t.attributions[1];
+  const Attribution& ad = t.attributions[2];
+  REQUIRE(std::abs(ab.total_s) < attribution_share_min_total_s);
+  REQUIRE(std::abs(ac.total_s) > attribution_share_min_total_s);
+  // d differs from a by mass alone: ClA and CdA explain none of it, the residual is the total.
+  CHECK(ad.from_cla_s == 0.0);
+  CHECK(ad.from_cda_s == 0.0);
+  CHECK(ad.residual_s == ad.total_s);
+  CHECK_FALSE(ad.first_order_reliable);
+  CHECK(ac.first_order_reliable);
+  // The terminal: one line per pair from a; shares only where the total is 0.05 s or more, and
+  // the flag in words.
+  const std::string table = trade_table(car, t, circuits);
+  auto line_of = [&](const std::string& change) {
+    const std::size_t at = table.find(change);
+    REQUIRE(at != std::string::npos);
+    return table.substr(at, table.find('\n', at) - at);
+  };
+  CHECK(line_of("a -> b").find('%') == std::string::npos);
+  CHECK(line_of("a -> c").find('%') != std::string::npos);
+  CHECK(line_of("a -> c").find("not reliable") == std::string::npos);
+  CHECK(line_of("a -> d").find("first-order split not reliable for this step") !=
+        std::string::npos);
+  // trade.json: the same flag as a boolean and the words.
+  const std::string json = trade_json(car, t, circuits);
+  CHECK(json.find("\"first_order_reliable\": false") != std::string::npos);
+  CHECK(json.find("\"note\": \"first-order split not reliable for this step\"") !=
+        std::string::npos);
 }
 
 TEST_CASE(

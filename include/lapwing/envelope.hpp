@@ -16,8 +16,28 @@ struct EnvelopeOptions {
   // u = v^2 and reads the table without a square root. 8001 rows put them 0.03 m/s apart at
   // 200 km/h (and 0.25 m/s apart at 20 km/h) for a car topping out at 400 km/h.
   std::size_t speed_points = 8001;
-  double ideal_speed_cap_mps = 150.0;  // top of the table for a gearless car (540 km/h)
+  // Top of the tables of a gearless car: this factor times its level-road top speed. Above the
+  // level top speed only a downhill drives the car faster. At 1.25 x the top speed the drag is
+  // 1.56 x and the drive (eta P / v) 0.8 x their value there, so holding that speed takes a
+  // downhill of sin(theta) ~ 0.76 eta P / (v_top m g): about 0.3 (a 30 % grade) for a car of
+  // 400 W/kg topping out at 320 km/h. A lap that reaches the top is warned of all the same.
+  double table_margin = 1.25;
+  // The tables never go beyond this speed (900 km/h, about Mach 0.73 in sea-level air): a car
+  // with no finite top speed below it (no drag and no rolling resistance, or a gearbox geared
+  // beyond it) is tabulated up to here and a lap that reaches it is warned of. Coefficients
+  // measured at circuit speeds say nothing this close to the speed of sound (compressibility,
+  // common practice).
+  double speed_ceiling_mps = 250.0;
 };
+
+/// What sets the top of an Envelope's tables, and so the level-road top speed check reports.
+enum class TopSpeedLimit {
+  drag,       // drive equals drag + rolling resistance below the tables' top
+  rev_limit,  // the rev limit in top gear: the engine turns no faster (the tables' top)
+  ceiling     // EnvelopeOptions::speed_ceiling_mps: no finite top speed below it
+};
+/// "drag", "rev limit", "table ceiling".
+const char* top_speed_limit_name(TopSpeedLimit l);
 
 /// Car (with one config applied, see Car::configured) in one air, tabulated over speed.
 class Envelope {
@@ -28,10 +48,19 @@ class Envelope {
   double mass_kg() const { return mass_; }
   double effective_mass_kg() const { return mass_eff_; }  // m (1 + inertia_factor)
   double air_density() const { return rho_; }
-  double max_speed_mps() const { return v_max_; }  // top of the table: rev limit in top gear
-  /// Drive = resistance on the level (with the straight-line trim, where the config has one).
+  /// Top of the tables: a geared car's rev limit in top gear; a gearless car's level-road top
+  /// speed times EnvelopeOptions::table_margin; never above the ceiling. No speed of a lap
+  /// exceeds it: a lap that reaches it is held there (and warned of, see summary.hpp).
+  double max_speed_mps() const { return v_max_; }
+  /// Drive = resistance on the level (with the straight-line trim, where the config has one);
+  /// the tables' top where drive still exceeds resistance there (see top_speed_limit()).
   double top_speed_level_mps() const { return v_top_; }
-  bool rev_limited() const { return rev_limited_; }
+  TopSpeedLimit top_speed_limit() const { return top_limit_; }
+  bool rev_limited() const { return top_limit_ == TopSpeedLimit::rev_limit; }
+  /// What the tables' top is: the rev limit, the margin over the level top speed, or the
+  /// ceiling (TopSpeedLimit::drag here means the margin).
+  TopSpeedLimit table_top_reason() const { return table_top_; }
+  double table_margin() const { return table_margin_; }
   const TyreModel& tyres() const { return tyres_; }
   const Car& car() const { return car_; }
   const std::string& config_name() const { return car_.configs.front().name; }
@@ -114,7 +143,8 @@ class Envelope {
   TyreModel tyres_;
   double mass_, mass_eff_, weight_, crr_, rho_;
   double v_max_, v_top_, du_, inv_du_;
-  bool rev_limited_;
+  TopSpeedLimit top_limit_ = TopSpeedLimit::drag, table_top_ = TopSpeedLimit::drag;
+  double table_margin_;
   std::vector<Sample> rows_;       // one row per step du_ of v^2
   std::vector<Sample> trim_rows_;  // the same with the straight-line trim (empty: none)
   double trim_below_curvature_ = 0.0;

@@ -59,6 +59,9 @@ std::string compare_table(const Car& car, const Comparison& c,
 /// delta-<track>-<a>-<b>.csv: distance_m,delta_s (t_b - t_a).
 std::string delta_csv(const Mesh& mesh, const std::vector<double>& delta_s);
 
+/// "first-order split not reliable for this step" for an attribution whose residual exceeds
+/// attribution_residual_limit of its total; empty otherwise.
+std::string attribution_note(const Attribution& a);
 /// trade.json: {"lapwing", "car", "step", "results": [...], "attributions": [...]}.
 std::string trade_json(const Car& car, const Trade& t, const std::vector<Circuit>& circuits);
 std::string trade_table(const Car& car, const Trade& t, const std::vector<Circuit>& circuits);

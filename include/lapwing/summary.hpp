@@ -67,7 +67,7 @@ struct LapSummary {
   double full_throttle_fraction;      // share of lap time under full drive (accelerate, top_speed)
   double braking_fraction;            // share of lap time under braking
   double trimmed_fraction;            // share of lap time with the straight-line trim in use
-  std::vector<std::string> warnings;  // e.g. a ride height off the map within the lap's speeds
+  std::vector<std::string> warnings;  // range notes the lap reaches (lap_range_warnings)
   std::vector<double> sectors_s;
   std::vector<CornerResult> corners;
   BalanceSummary balance;
@@ -76,9 +76,26 @@ struct LapSummary {
 LapSummary summarize(const Lap& lap, const Mesh& mesh, const Track& track,
                      const std::vector<CornerSpan>& corners, const Envelope& env);
 
-/// What the lap's speeds take the aero data beyond: ride heights off the map or at zero, speeds
-/// past a speed table's last row (for speeds up to `top_speed_mps`).
-std::vector<std::string> aero_warnings(const Envelope& env, double top_speed_mps);
+/// A place where the car's data is used beyond its range, as a set of speeds: below or above
+/// a speed table's rows (the end rows' values are held), a ride height off the map (its edge
+/// values are held) or at or below zero, or the top of the envelope's tables (the speed is
+/// held there). `check` prints the notes; a lap that reaches one gets it as a warning.
+struct RangeNote {
+  enum class Kind { below_speed_table, above_speed_table, off_map, grounded, table_top };
+  Kind kind;
+  std::string text;  // e.g. "above the speed table's last row (300.0 km/h) its values are held"
+};
+/// Every note of a configured car's data in one air (the Envelope's), in a fixed order.
+std::vector<RangeNote> range_notes(const Envelope& env);
+/// Whether the note concerns a point of the lap at speed v (m/s).
+bool range_note_applies(const Envelope& env, const RangeNote& note, double speed_mps);
+/// Share of the lap's distance on which the note applies: each interval counts half for each
+/// end point it applies at (as the lap summary's shares), over the lap's length.
+double range_note_share(const Envelope& env, const RangeNote& note, const Lap& lap,
+                        const Mesh& mesh);
+/// The notes that apply anywhere on the lap, each as a warning with the share of the lap
+/// distance it applies on ("...: 12.3 % of the lap distance"). One producer for check and run.
+std::vector<std::string> lap_range_warnings(const Envelope& env, const Lap& lap, const Mesh& mesh);
 
 /// Time at distance s along the lap, linear between mesh points.
 double time_at(const Lap& lap, const Mesh& mesh, double s_m);

@@ -174,7 +174,7 @@ void describe_config(const Car& car, std::size_t index, const Air& air, std::str
       .field("aero_balance", rest.balance)
       .field("drag_height_m", cc.drag_height_m)
       .field("top_speed_kph", units::to_kph(env.top_speed_level_mps()))
-      .field("top_speed_limit", env.rev_limited() ? "rev limit" : "drag");
+      .field("top_speed_limit", top_speed_limit_name(env.top_speed_limit()));
   out += "\nconfig " + a.name + " (" + std::string(form_name(a.form)) + "): CdA " +
          fixed(rest.cda_m2, 3) + " m2, ClA " + fixed(rest.cla_m2, 3) + " m2, L/D " +
          (rest.cda_m2 > 0 ? fixed(rest.cla_m2 / rest.cda_m2, 2) : std::string("-")) +
@@ -184,7 +184,7 @@ void describe_config(const Car& car, std::size_t index, const Air& air, std::str
                                 : " (first row)") +
          ", drag height " + fixed(cc.drag_height_m, 3) + " m, top speed " +
          fixed(units::to_kph(env.top_speed_level_mps()), 1) + " km/h (" +
-         (env.rev_limited() ? "rev limit" : "drag") + ")\n";
+         top_speed_limit_name(env.top_speed_limit()) + ")\n";
   std::vector<std::vector<std::string>> rows;
   bool no_downforce = false;
   j.key("at_speeds").begin_array();
@@ -232,21 +232,10 @@ void describe_config(const Car& car, std::size_t index, const Air& air, std::str
                                   "front share %", "with drag moment %", "front aero load N"};
   if (env.has_map()) header.push_back("ride height F / R mm");
   out += text_table(header, rows);
-  // Notes: what the data does outside its range, said once.
+  // Notes: what the data does outside its range, said once (the same notes a lap that reaches
+  // them is warned of, summary.hpp).
   std::vector<std::string> notes;
-  if (a.speed_mps.size() > 1)
-    notes.push_back("the speed table covers " + fixed(units::to_kph(a.speed_mps.front()), 1) +
-                    " to " + fixed(units::to_kph(a.speed_mps.back()), 1) +
-                    " km/h; outside it the end rows' values are held");
-  if (env.has_map()) {
-    if (env.off_map_speed_mps() >= 0.0)
-      notes.push_back("a ride height leaves the map at " +
-                      fixed(units::to_kph(env.off_map_speed_mps()), 1) +
-                      " km/h; the map's edge values are held beyond");
-    if (env.grounded_speed_mps() >= 0.0)
-      notes.push_back("a ride height reaches zero at " +
-                      fixed(units::to_kph(env.grounded_speed_mps()), 1) + " km/h");
-  }
+  for (const RangeNote& n : range_notes(env)) notes.push_back(n.text);
   if (no_downforce)
     notes.push_back(
         "no downforce: the front share of the aero load is undefined ('-'); the drag moment "
@@ -345,10 +334,12 @@ int check(const CheckOptions& o) {
     j.key("configs").begin_array();
     for (std::size_t c = 0; c < car.configs.size(); ++c) {
       const Envelope env(car.configured(c), t.air);
-      trows.push_back({car.configs[c].name, fixed(units::to_kph(env.top_speed_level_mps()), 1)});
+      trows.push_back({car.configs[c].name, fixed(units::to_kph(env.top_speed_level_mps()), 1),
+                       top_speed_limit_name(env.top_speed_limit())});
       j.begin_object()
           .field("name", car.configs[c].name)
           .field("top_speed_kph", units::to_kph(env.top_speed_level_mps()))
+          .field("top_speed_limit", top_speed_limit_name(env.top_speed_limit()))
           .end_object();
     }
     j.end_array();
@@ -429,7 +420,7 @@ int check(const CheckOptions& o) {
       for (const auto& n : notes) out += "       note: " + n + "\n";
     }
     j.end_object();
-    out += text_table({"config", "top speed km/h (this air, level)"}, trows);
+    out += text_table({"config", "top speed km/h (this air, level)", "limit"}, trows);
   }
   j.end_array().end_object();
 
