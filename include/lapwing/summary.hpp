@@ -43,17 +43,17 @@ std::string limiting_axle(double balance_index);
 /// The balance of one lap: where the front axle's share of the load goes, and where the front
 /// saturates first (balance_index = front usage - rear usage > 0: an understeer tendency).
 struct BalanceSummary {
-  double static_front_share;
+  double static_front_share = 0.0;
   // Aero balance (front share of downforce) at 150 and 250 km/h, alone and with the drag moment
   // (aero_balance_with_drag_moment: none without downforce, where the share is undefined).
-  double aero_balance_150, aero_balance_250;
+  double aero_balance_150 = 0.0, aero_balance_250 = 0.0;
   std::optional<double> aero_balance_eff_150, aero_balance_eff_250;
-  bool has_fast_acceleration;              // any point accelerating above 200 km/h
-  double lowest_front_share_fast;          // lowest front share accelerating above 200 km/h
-  double lowest_front_share_at_m;          // where
+  bool has_fast_acceleration = false;      // any point accelerating above 200 km/h
+  double lowest_front_share_fast = 0.0;    // lowest front share accelerating above 200 km/h
+  double lowest_front_share_at_m = 0.0;    // where
   std::vector<int> front_limited_corners;  // corners whose apex the front axle limits
-  double threshold;                        // on balance_index
-  double front_limited_length_m;           // lap length with balance_index above it
+  double threshold = 0.0;                  // on balance_index
+  double front_limited_length_m = 0.0;     // lap length with balance_index above it
 };
 
 inline constexpr double balance_index_threshold = 0.05;
