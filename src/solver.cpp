@@ -187,6 +187,7 @@ class Sweeper {
         n_(mesh.size()),
         period_(mesh.closed ? n_ - 1 : n_),
         ds_(mesh.step_m),
+        inv_m_(1.0 / env.mass_kg()),
         inv_m_eff_(1.0 / env.effective_mass_kg()),
         shift_time_(env.car().powertrain.shift_time_s),
         i_(start),
@@ -233,22 +234,26 @@ class Sweeper {
   }
 
   /// d(v^2)/dx = 2 a at u = v^2, a distance x (0 .. ds) into the step, along the sweep's own
-  /// direction of travel: forward under drive, backward under braking.
+  /// direction of travel: forward under drive, backward under braking. The rotating parts'
+  /// inertia counts only where the engine limits (Gillespie, Fundamentals of Vehicle Dynamics,
+  /// ch. 2-3): a = min((drive - R) / m_eff, (grip left - R) / m) under drive; at the tyres'
+  /// limit the road force acts on m and the engine (or the brakes) supply the torque that spins
+  /// the wheels up (or down): a = (grip left + R) / m under braking.
   double rhs(double u, double x) const {
     const double u0 = std::max(u, 0.0);
     const double k = k0_ + dk_ * x;
     if constexpr (Axle) {
-      const double force =
-          forward_ ? axle_drive_force(env_, u0, k, slope_.cos, slope_.sin,
-                                      drive_share_ * env_.sample_sq(u0).drive_n, trimmed_)
-                   : axle_brake_force(env_, u0, k, slope_.cos, slope_.sin);
-      return 2.0 * force * inv_m_eff_;
+      const double a = forward_
+                           ? axle_drive_accel(env_, u0, k, slope_.cos, slope_.sin,
+                                              drive_share_ * env_.sample_sq(u0).drive_n, trimmed_)
+                           : axle_brake_accel(env_, u0, k, slope_.cos, slope_.sin);
+      return 2.0 * a;
     }
     const PathForces f = path_forces(env_, rows_, u0, k, slope_);
-    const double force = forward_
-                             ? std::min(f.grip_left_n, drive_share_ * f.drive_n) - f.resistance_n
-                             : f.grip_left_n + f.resistance_n;
-    return 2.0 * force * inv_m_eff_;
+    if (forward_)
+      return 2.0 * std::min((drive_share_ * f.drive_n - f.resistance_n) * inv_m_eff_,
+                            (f.grip_left_n - f.resistance_n) * inv_m_);
+    return 2.0 * (f.grip_left_n + f.resistance_n) * inv_m_;
   }
 
   /// Takes the integrated u at the next point: clips it to the limit and moves there.
@@ -299,7 +304,7 @@ class Sweeper {
   const std::vector<double>& limit_;
   const bool forward_, ideal_;
   const std::size_t n_, period_;
-  const double ds_, inv_m_eff_, shift_time_;
+  const double ds_, inv_m_, inv_m_eff_, shift_time_;
   std::size_t i_;
   double v_;
   // The step in progress.
@@ -459,7 +464,7 @@ const Lap& LapSolver::solve(const Envelope& env, const Mesh& mesh, double start_
   for (auto* v : {&lap.front_share, &lap.aero_balance_eff, &lap.front_usage, &lap.rear_usage})
     v->resize(n);
   const double inv_2ds = 0.5 / mesh.step_m, inv_wb = 1.0 / wb;
-  const double weight = m * g, m_eff = env.effective_mass_kg(), crr = env.rolling_resistance();
+  const double weight = m * g, crr = env.rolling_resistance();
   for (std::size_t i = 0; i < n; ++i) {
     const double v = lap.speed_mps[i];
     // a = d(v^2)/(2 ds) over the interval that starts at i (the one ending at i for the last).
@@ -488,7 +493,8 @@ const Lap& LapSolver::solve(const Envelope& env, const Mesh& mesh, double start_
     lap.drag_n[i] = drag;
     lap.downforce_n[i] = down;
     // Axle loads and what each axle carries (axle.hpp): the tyre force along the path is what
-    // accelerates m_eff plus the resistance.
+    // accelerates the car's mass m plus the resistance (the rotating parts' spin-up is torque
+    // inside the driveline, not road force).
     const Slope slope(mesh, i);
     const AxleLoads loads = axle_loads(car, drag, down, row.balance, slope.cos, slope.sin, ax);
     lap.front_load_n[i] = loads.front_n;
@@ -499,7 +505,7 @@ const Lap& LapSolver::solve(const Envelope& env, const Mesh& mesh, double start_
         down > 0.0 ? (down * row.balance - drag * car.drag_height_m * inv_wb) / down : row.balance;
     const double resistance = drag + crr * (weight * slope.cos + down) + weight * slope.sin;
     const AxleUsage use =
-        axle_usage(env, loads, m_eff * ax + resistance, v * v * std::abs(mesh.curvature_1pm[i]));
+        axle_usage(env, loads, m * ax + resistance, v * v * std::abs(mesh.curvature_1pm[i]));
     lap.front_usage[i] = use.front_usage;
     lap.rear_usage[i] = use.rear_usage;
   }
