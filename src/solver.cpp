@@ -51,8 +51,9 @@ constexpr int steady_bits = 36;
 struct PathForces {
   double grip_left_n, resistance_n, drive_n;
 };
-inline PathForces path_forces(const Envelope& env, const Envelope::Rows& rows, double v2,
-                              double abs_curvature, const Slope& slope) {
+[[gnu::always_inline]] inline PathForces path_forces(const Envelope& env,
+                                                     const Envelope::Rows& rows, double v2,
+                                                     double abs_curvature, const Slope& slope) {
   const Envelope::Sample s = rows.at(v2);
   const double load = env.weight_n() * slope.cos + s.lift_coef * v2;
   const TyreModel::Limits lim = env.tyres().limits(load);
@@ -60,6 +61,42 @@ inline PathForces path_forces(const Envelope& env, const Envelope::Rows& rows, d
   return {env.tyres().long_force_left(lim, fy),
           s.drag_coef * v2 + env.rolling_resistance() * load + env.weight_n() * slope.sin,
           s.drive_n};
+}
+
+// The model's accelerations (m/s^2) at u = v^2 on a point of curvature |k|, positive along the
+// sweep's own direction of travel. The rotating parts' inertia counts only where the engine
+// limits (Gillespie, Fundamentals of Vehicle Dynamics, ch. 2-3):
+//   drive:   a = min((share x drive - R) / m_eff, (grip left - R) / m)
+//   braking: a = (grip left + R) / m
+// at the tyres' limit the road force acts on m, and the engine (or the brakes) supply the torque
+// that spins the wheels up (or down). The axle model's forms are in axle.hpp.
+struct InverseMass {
+  double m, m_eff;  // 1 / m, 1 / m_eff: no division per stage
+};
+template <bool Axle>
+[[gnu::always_inline]] inline double drive_accel(const Envelope& env, const Envelope::Rows& rows,
+                                                 double u, double k, const Slope& slope,
+                                                 bool trimmed, double drive_share,
+                                                 const InverseMass& inv) {
+  if constexpr (Axle) {
+    return axle_drive_accel(env, u, k, slope.cos, slope.sin, drive_share * rows.at(u).drive_n,
+                            trimmed);
+  } else {
+    const PathForces f = path_forces(env, rows, u, k, slope);
+    return std::min((drive_share * f.drive_n - f.resistance_n) * inv.m_eff,
+                    (f.grip_left_n - f.resistance_n) * inv.m);
+  }
+}
+template <bool Axle>
+[[gnu::always_inline]] inline double brake_accel(const Envelope& env, const Envelope::Rows& rows,
+                                                 double u, double k, const Slope& slope,
+                                                 const InverseMass& inv) {
+  if constexpr (Axle) {
+    return axle_brake_accel(env, u, k, slope.cos, slope.sin);
+  } else {
+    const PathForces f = path_forces(env, rows, u, k, slope);
+    return (f.grip_left_n + f.resistance_n) * inv.m;
+  }
 }
 
 std::string where(const Mesh& mesh, std::size_t i) {
@@ -187,8 +224,7 @@ class Sweeper {
         n_(mesh.size()),
         period_(mesh.closed ? n_ - 1 : n_),
         ds_(mesh.step_m),
-        inv_m_(1.0 / env.mass_kg()),
-        inv_m_eff_(1.0 / env.effective_mass_kg()),
+        inv_mass_{1.0 / env.mass_kg(), 1.0 / env.effective_mass_kg()},
         shift_time_(env.car().powertrain.shift_time_s),
         i_(start),
         v_(v_start) {
@@ -234,26 +270,13 @@ class Sweeper {
   }
 
   /// d(v^2)/dx = 2 a at u = v^2, a distance x (0 .. ds) into the step, along the sweep's own
-  /// direction of travel: forward under drive, backward under braking. The rotating parts'
-  /// inertia counts only where the engine limits (Gillespie, Fundamentals of Vehicle Dynamics,
-  /// ch. 2-3): a = min((drive - R) / m_eff, (grip left - R) / m) under drive; at the tyres'
-  /// limit the road force acts on m and the engine (or the brakes) supply the torque that spins
-  /// the wheels up (or down): a = (grip left + R) / m under braking.
-  double rhs(double u, double x) const {
+  /// direction of travel: forward under drive, backward under braking.
+  [[gnu::always_inline]] double rhs(double u, double x) const {
     const double u0 = std::max(u, 0.0);
     const double k = k0_ + dk_ * x;
-    if constexpr (Axle) {
-      const double a = forward_
-                           ? axle_drive_accel(env_, u0, k, slope_.cos, slope_.sin,
-                                              drive_share_ * env_.sample_sq(u0).drive_n, trimmed_)
-                           : axle_brake_accel(env_, u0, k, slope_.cos, slope_.sin);
-      return 2.0 * a;
-    }
-    const PathForces f = path_forces(env_, rows_, u0, k, slope_);
-    if (forward_)
-      return 2.0 * std::min((drive_share_ * f.drive_n - f.resistance_n) * inv_m_eff_,
-                            (f.grip_left_n - f.resistance_n) * inv_m_);
-    return 2.0 * (f.grip_left_n + f.resistance_n) * inv_m_;
+    return 2.0 * (forward_ ? drive_accel<Axle>(env_, rows_, u0, k, slope_, trimmed_, drive_share_,
+                                               inv_mass_)
+                           : brake_accel<Axle>(env_, rows_, u0, k, slope_, inv_mass_));
   }
 
   /// Takes the integrated u at the next point: clips it to the limit and moves there.
@@ -304,7 +327,9 @@ class Sweeper {
   const std::vector<double>& limit_;
   const bool forward_, ideal_;
   const std::size_t n_, period_;
-  const double ds_, inv_m_, inv_m_eff_, shift_time_;
+  const double ds_;
+  const InverseMass inv_mass_;
+  const double shift_time_;
   std::size_t i_;
   double v_;
   // The step in progress.
@@ -463,15 +488,48 @@ const Lap& LapSolver::solve(const Envelope& env, const Mesh& mesh, double start_
   lap.trimmed.resize(n);
   for (auto* v : {&lap.front_share, &lap.aero_balance_eff, &lap.front_usage, &lap.rear_usage})
     v->resize(n);
-  const double inv_2ds = 0.5 / mesh.step_m, inv_wb = 1.0 / wb;
+  const double inv_wb = 1.0 / wb;
+  // The acceleration at a point: d(v^2)/(2 ds) by the central difference
+  // (v_{i+1}^2 - v_{i-1}^2) / (4 ds) (through the seam of a closed lap; one-sided at the ends of
+  // an open track), held within what the model allows in the state at the point: no harder than
+  // its braking, no more than its drive. The two differ only where the acceleration jumps: at an
+  // apex between braking and drive, where a grade or the straight-line trim changes, where a
+  // sweep meets the steady limit. There the difference mixes two states, and the loads and
+  // usage worked from it would show an axle beyond its grip that the solver never used.
+  const InverseMass inv{1.0 / m, 1.0 / env.effective_mass_kg()};
+  const bool axle_model = car.model == VehicleModel::axle;
+  const auto point_accel = [&](std::size_t i) {
+    std::size_t lo = i, hi = i;
+    if (i > 0)
+      lo = i - 1;
+    else if (mesh.closed)
+      lo = n - 2;
+    if (i + 1 < n)
+      hi = i + 1;
+    else if (mesh.closed)
+      hi = 1;
+    const double span = mesh.step_m * static_cast<double>((lo != i) + (hi != i));
+    const double u = lap.speed_mps[i] * lap.speed_mps[i];
+    const double diff =
+        (lap.speed_mps[hi] * lap.speed_mps[hi] - lap.speed_mps[lo] * lap.speed_mps[lo]) /
+        (2.0 * span);
+    const double k = std::abs(mesh.curvature_1pm[i]);
+    const Slope slope(mesh, i);
+    if (diff >= 0.0) {
+      const bool trims = env.trims(k);
+      const Envelope::Rows rows = env.rows(trims);
+      return std::min(diff, axle_model
+                                ? drive_accel<true>(env, rows, u, k, slope, trims, 1.0, inv)
+                                : drive_accel<false>(env, rows, u, k, slope, trims, 1.0, inv));
+    }
+    const Envelope::Rows rows = env.rows(false);
+    return std::max(diff, -(axle_model ? brake_accel<true>(env, rows, u, k, slope, inv)
+                                       : brake_accel<false>(env, rows, u, k, slope, inv)));
+  };
   const double weight = m * g, crr = env.rolling_resistance();
   for (std::size_t i = 0; i < n; ++i) {
     const double v = lap.speed_mps[i];
-    // a = d(v^2)/(2 ds) over the interval that starts at i (the one ending at i for the last).
-    const std::size_t a0 = (i + 1 < n) ? i : i - 1;
-    const double ax =
-        (lap.speed_mps[a0 + 1] * lap.speed_mps[a0 + 1] - lap.speed_mps[a0] * lap.speed_mps[a0]) *
-        inv_2ds;
+    const double ax = point_accel(i);
     lap.long_accel_mps2[i] = ax;
     lap.lat_accel_mps2[i] = v * v * mesh.curvature_1pm[i];
     // Under drive the gear the forward sweep engaged (held through a shift's cut); under

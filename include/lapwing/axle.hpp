@@ -30,9 +30,11 @@ AxleUsage axle_usage(const Envelope& env, const AxleLoads& loads, double fx_n, d
 
 /// The axle model's accelerations (m/s^2) at u = v^2 on a point of curvature |k|, both positive
 /// along the sweep's direction of travel:
-///  - drive: the least of (drive_n - resistance) / m_eff, where the engine limits, and
+///  - drive: the least of (drive_n - resistance) / m_eff, where the engine limits,
 ///    (traction - resistance) / m, where the driven axle(s) do: the traction they can transmit
-///    at their load, which grows with the acceleration itself (a fixed point in a_x);
+///    at their load, which grows with the acceleration itself (a fixed point in a_x; all-wheel
+///    drive shared by load, as axle_usage shares it), and, for a rear-driven car, the
+///    acceleration at which the front axle, unloaded by it, still holds its lateral force;
 ///  - brake: (braking force + resistance) / m, the braking force the largest at front_bias that
 ///    saturates neither axle at the loads the deceleration itself sets.
 /// The rotating parts' inertia (m_eff = m (1 + inertia_factor)) counts only where the engine
