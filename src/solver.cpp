@@ -1,7 +1,6 @@
 #include "lapwing/solver.hpp"
 
 #include <boost/math/tools/roots.hpp>
-#include <boost/numeric/odeint/stepper/runge_kutta4.hpp>
 
 #include <algorithm>
 #include <array>
@@ -44,6 +43,13 @@ struct Slope {
 
 // Bracketing tolerance for steady speeds: 36 bits, about 1e-11 relative.
 constexpr int steady_bits = 36;
+
+// A sweep that lands within this share of the limit is on it: the steady limit is known to
+// 2^-36 of itself and the axle model's accelerations to 1e-9 m/s^2, and a forward sweep that
+// settles on a limit where the drive is exactly spent (a = 0 there) lands a rounding error under
+// it or over it. Without the margin such a point read `accelerate` or `corner` by the sign of
+// that error, and a hairpin's limit with it.
+constexpr double clip_tolerance = 1e-9;
 
 // The forces along the path at speed v on a point of curvature |kappa| and slope: what the
 // tyres have left for Fx after the lateral demand m v^2 |kappa| (friction ellipse), the
@@ -244,7 +250,7 @@ class Sweeper {
   }
 
   /// Prepares the step from the current point to the next; returns u = v^2 there.
-  double begin_step() {
+  [[gnu::always_inline]] double begin_step() {
     const std::size_t i = i_;
     // Next point along the sweep; a closed mesh wraps through its seam (point n-1 == point 0).
     if (forward_)
@@ -255,6 +261,9 @@ class Sweeper {
     // distance (piecewise constant along segments).
     k0_ = std::abs(mesh_.curvature_1pm[i]);
     dk_ = (std::abs(mesh_.curvature_1pm[j_]) - k0_) / ds_;
+    // The limit in u = v^2 over the step, linear between its ends: no stage state goes above it.
+    ulim0_ = limit_[i] * limit_[i];
+    dulim_ = (limit_[j_] * limit_[j_] - ulim0_) / ds_;
     slope_ = Slope(mesh_, forward_ ? i : j_);
     // Under drive, movable aero trims where the step starts on a straight enough piece; under
     // braking it does not.
@@ -279,21 +288,27 @@ class Sweeper {
                            : brake_accel<Axle>(env_, rows_, u0, k, slope_, inv_mass_));
   }
 
+  /// The limit in u = v^2 a distance x into the step (linear between the step's ends).
+  double cap(double x) const { return ulim0_ + dulim_ * x; }
+
   /// Takes the integrated u at the next point: clips it to the limit and moves there.
-  void end_step(double u) {
+  [[gnu::always_inline]] void end_step(double u) {
     const std::size_t j = j_;
     if (!(u > 0.0))
       throw CannotMove("the car stops at " + where(mesh_, j) +
                        ": drive cannot overcome the resistance there");
     double v_next = std::sqrt(u);
-    if (v_next >= limit_[j]) {
+    if (v_next >= limit_[j] * (1.0 - clip_tolerance)) {
       v_next = limit_[j];
       r_.clipped[j] = 1;
     }
     if (forward_) {
       const double dt = 2.0 * ds_ / (v_ + v_next);
       if (cut_left_s_ > 0.0) {
-        r_.cut[j] = 1;
+        // The point counts as cut when the drive was off for at least half of the step that
+        // reached it: the cut's share of the lap is then the same on any mesh (rounded to the
+        // nearest step, not up to the next).
+        r_.cut[j] = cut_left_s_ >= 0.5 * dt;
         cut_left_s_ = std::max(0.0, cut_left_s_ - dt);
       }
       if (!ideal_) {
@@ -335,6 +350,7 @@ class Sweeper {
   // The step in progress.
   std::size_t j_ = 0;
   double k0_ = 0.0, dk_ = 0.0, drive_share_ = 1.0;
+  double ulim0_ = 0.0, dulim_ = 0.0;  // the limit in u at the step's start, and its slope
   bool trimmed_ = false;
   Envelope::Rows rows_{nullptr, 0, 0.0};  // the table the step reads
   Slope slope_{1.0, 0.0};
@@ -345,45 +361,135 @@ class Sweeper {
 }  // namespace
 
 namespace {
+
+constexpr double stiff_z = 1.0;     // |z| up to which RK4 is taken as it is
+constexpr int max_substeps = 16;    // per split; splits nest twice at most
+constexpr int max_split_depth = 2;  // worst case 16 x 16 substeps for one step
+// Below this relative spread of the mid-point stage states the estimate of z is rounding: the
+// sweep is within 1e-6 of a settled state and the step is taken as it is.
+constexpr double z_resolution = 1e-6;
+
+// The step. Classical fourth-order Runge-Kutta (Kutta 1901; Hairer, Norsett & Wanner, Solving
+// Ordinary Differential Equations I, sec. II.1) with two guards that the grip limit needs:
+//  - every stage state is held at or under the sweep's limit (linear in u over the step), so no
+//    stage reads the tyres beyond their steady limit, where the force left by the ellipse falls
+//    to nothing and d(v^2)/ds is not smooth;
+//  - near the limit d(v^2)/ds is stiff: for the sports car in a 15 m hairpin (sea-level air)
+//    z = ds d(du/ds)/du = 2 ds da/du is -0.13 at 90 % of the limiting v^2, -1.4 at 99.9 % and
+//    -4.2 on the limit at 0.5 m (computed here), outside RK4's stability interval on the real
+//    axis: |R(z)| = |1 + z + z^2/2 + z^3/6 + z^4/24| <= 1 down to z = -2.785 (Hairer & Wanner,
+//    Solving ODEs II, sec. IV.2). There the sweep oscillated just under the limit and never
+//    reached it. A step whose stage states had to be held, or whose z
+//    (estimated from its two mid-point stages, (k3 - k2) / (y3 - y2) = du'/du for free) is above
+//    1 in size, is taken again in substeps short enough for |z| <= 1, where RK4 follows
+//    exp(z) to 2 % per substep. The step is then what a finer mesh gives, and the sweep settles
+//    on the limit as the exact solution does. A step that starts on the limit and ends on it or
+//    above (the sweep holds the limit: most of the backward sweep, every arc taken at the limit)
+//    is clipped whatever its stages: it is not taken again.
+struct StageCheck {
+  double u1;   // u at the step's end
+  double z;    // step x d(du/ds)/du, estimated; 0 where the stages cannot tell
+  bool held;   // a stage state was held at the limit
+  bool stays;  // starts on the limit and ends on it or above
+  bool flagged() const { return !stays && (held || std::abs(z) > stiff_z); }
+};
+
+// One RK4 step of length h from x0 for N sweeps at once (N = 2: forward and backward in lockstep,
+// two independent chains of dependent arithmetic that keep the processor busier than one).
+template <class Sw, std::size_t N>
+[[gnu::always_inline]] inline std::array<StageCheck, N> rk4(const std::array<Sw*, N>& s,
+                                                            const std::array<double, N>& u0,
+                                                            double x0, double h) {
+  std::array<double, N> y1, k1, y2, k2, y3, k3, k4;
+  std::array<bool, N> held{};
+  const double xm = x0 + 0.5 * h, x1 = x0 + h;
+  for (std::size_t c = 0; c < N; ++c) {
+    const double top = s[c]->cap(x0);
+    held[c] = u0[c] > top;
+    y1[c] = held[c] ? top : u0[c];
+    k1[c] = s[c]->rhs(y1[c], x0);
+  }
+  for (std::size_t c = 0; c < N; ++c) {
+    const double y = y1[c] + 0.5 * h * k1[c], top = s[c]->cap(xm);
+    held[c] |= y > top;
+    y2[c] = std::min(y, top);
+    k2[c] = s[c]->rhs(y2[c], xm);
+  }
+  for (std::size_t c = 0; c < N; ++c) {
+    const double y = y1[c] + 0.5 * h * k2[c], top = s[c]->cap(xm);
+    held[c] |= y > top;
+    y3[c] = std::min(y, top);
+    k3[c] = s[c]->rhs(y3[c], xm);
+  }
+  for (std::size_t c = 0; c < N; ++c) {
+    const double y = y1[c] + h * k3[c], top = s[c]->cap(x1);
+    held[c] |= y > top;
+    k4[c] = s[c]->rhs(std::min(y, top), x1);
+  }
+  std::array<StageCheck, N> out;
+  for (std::size_t c = 0; c < N; ++c) {
+    const double u1 = y1[c] + h / 6.0 * (k1[c] + 2.0 * (k2[c] + k3[c]) + k4[c]);
+    const double dy = y3[c] - y2[c], dk = h * (k3[c] - k2[c]);
+    // |z| = |dk / dy| > stiff_z, without a division on the common path.
+    const bool stiff =
+        std::abs(dk) > stiff_z * std::abs(dy) && std::abs(dy) > z_resolution * std::max(y2[c], 1.0);
+    out[c] = {u1, stiff ? dk / dy : 0.0, held[c], false};
+    if (held[c] || stiff)  // on the limit as end_step clips (v within clip_tolerance)
+      out[c].stays = u0[c] >= s[c]->cap(x0) * (1.0 - 2.0 * clip_tolerance) &&
+                     u1 >= s[c]->cap(x1) * (1.0 - 2.0 * clip_tolerance);
+  }
+  return out;
+}
+
+// Substeps for a step (or substep) that rk4 flagged: |z| <= stiff_z each, as far as the split
+// allows. Returns u at x0 + h.
+template <class Sw>
+double split_step(Sw& s, double u0, double x0, double h, const StageCheck& flagged, int depth) {
+  const int n =
+      std::clamp(static_cast<int>(std::ceil(std::abs(flagged.z) / stiff_z)), 2, max_substeps);
+  const double sub = h / n;
+  double u = u0;
+  for (int k = 0; k < n; ++k) {
+    const double x = x0 + k * sub;
+    const StageCheck c = rk4<Sw, 1>({&s}, {u}, x, sub)[0];
+    const bool again = c.flagged() && depth < max_split_depth;
+    u = again ? split_step(s, u, x, sub, c, depth + 1) : c.u1;
+  }
+  return u;
+}
+
 template <bool Axle>
 SweepResult sweep_one(const Envelope& env, const Mesh& mesh, Sweep direction,
                       const std::vector<double>& limit, std::size_t start, double v_start) {
-  namespace odeint = boost::numeric::odeint;
+  using Sw = Sweeper<Axle>;
   SweepResult r;
-  Sweeper<Axle> s(env, mesh, direction, limit, start, v_start, r);
-  odeint::runge_kutta4<double> stepper;
-  auto system = [&s](const double& u, double& dudx, double x) { dudx = s.rhs(u, x); };
+  Sw s(env, mesh, direction, limit, start, v_start, r);
+  const double h = mesh.step_m;
   for (std::size_t k = 0, n = s.steps(); k < n; ++k) {
-    double u = s.begin_step();
-    stepper.do_step(system, u, 0.0, mesh.step_m);
-    s.end_step(u);
+    const double u0 = s.begin_step();
+    const StageCheck c = rk4<Sw, 1>({&s}, {u0}, 0.0, h)[0];
+    s.end_step(c.flagged() ? split_step(s, u0, 0.0, h, c, 1) : c.u1);
   }
   s.finish();
   return r;
 }
 
-// Both sweeps in lockstep as one two-component state, (u_forward, u_backward): two independent
-// chains of dependent arithmetic in one system keep the processor busier than one (each RK4
-// stage waits on the last).
+// Both sweeps in lockstep; a flagged step is split for the sweep that needs it alone.
 template <bool Axle>
 void sweep_both(const Envelope& env, const Mesh& mesh, const std::vector<double>& limit,
                 std::size_t f0, double vf, std::size_t b0, double vb, SweepResult& fwd,
                 SweepResult& bwd) {
-  namespace odeint = boost::numeric::odeint;
-  using State = std::array<double, 2>;
-  Sweeper<Axle> f(env, mesh, Sweep::forward, limit, f0, vf, fwd);
-  Sweeper<Axle> b(env, mesh, Sweep::backward, limit, b0, vb, bwd);
+  using Sw = Sweeper<Axle>;
+  Sw f(env, mesh, Sweep::forward, limit, f0, vf, fwd);
+  Sw b(env, mesh, Sweep::backward, limit, b0, vb, bwd);
   assert(f.steps() == b.steps());
-  odeint::runge_kutta4<State> stepper;
-  auto system = [&f, &b](const State& u, State& dudx, double x) {
-    dudx[0] = f.rhs(u[0], x);
-    dudx[1] = b.rhs(u[1], x);
-  };
+  const std::array<Sw*, 2> both{&f, &b};
+  const double h = mesh.step_m;
   for (std::size_t k = 0, steps = f.steps(); k < steps; ++k) {
-    State u{f.begin_step(), b.begin_step()};
-    stepper.do_step(system, u, 0.0, mesh.step_m);
-    f.end_step(u[0]);
-    b.end_step(u[1]);
+    const std::array<double, 2> u0{f.begin_step(), b.begin_step()};
+    const std::array<StageCheck, 2> c = rk4<Sw, 2>(both, u0, 0.0, h);
+    f.end_step(c[0].flagged() ? split_step(f, u0[0], 0.0, h, c[0], 1) : c[0].u1);
+    b.end_step(c[1].flagged() ? split_step(b, u0[1], 0.0, h, c[1], 1) : c[1].u1);
   }
   f.finish();
   b.finish();

@@ -8,6 +8,10 @@
 
 namespace lapwing {
 
+namespace {
+constexpr double apex_tie = 5e-4;  // relative: 0.05 km/h at 100 km/h
+}  // namespace
+
 std::vector<std::string> aero_warnings(const Envelope& env, double top_speed_mps) {
   std::vector<std::string> w;
   auto kph_text = [](double v) {
@@ -90,7 +94,15 @@ LapSummary summarize(const Lap& lap, const Mesh& mesh, const Track& track,
     r.entry_axle = axle(c.start);
     r.apex_axle = axle(apex);
     r.exit_axle = axle(c.end);
-    switch (lap.phase[apex]) {
+    // On the steady grip limit at the apex speed: at the apex, or anywhere in the corner within
+    // apex_tie of its speed. Speeds that close are a tie (tables show 0.1 km/h), and which of
+    // them is lowest turns on the mesh: an upshift's cut on the exit, which starts within a step
+    // of its speed, can dip 0.01 km/h under the speed of the arc the tyres limit.
+    bool on_grip_limit = false;
+    for (std::size_t i = c.start; i <= c.end && !on_grip_limit; ++i)
+      on_grip_limit = lap.phase[i] == Phase::corner &&
+                      lap.speed_mps[i] <= lap.speed_mps[apex] * (1.0 + apex_tie);
+    switch (on_grip_limit ? Phase::corner : lap.phase[apex]) {
       case Phase::corner:
         r.limit = "grip";
         break;

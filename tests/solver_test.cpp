@@ -11,6 +11,7 @@
 #include "lapwing/error.hpp"
 #include "lapwing/mesh.hpp"
 #include "lapwing/solver.hpp"
+#include "lapwing/study.hpp"
 #include "lapwing/track.hpp"
 #include "lapwing/units.hpp"
 #include "test_support.hpp"
@@ -254,4 +255,76 @@ TEST_CASE(
   CHECK(near(lap.lap_time_s, t_end, 2e-3));
   const std::size_t i = static_cast<std::size_t>(0.5 * s_star / 0.1);
   CHECK(near(lap.speed_mps[i], std::sqrt(2 * mu * g * 0.1 * static_cast<double>(i)), 2e-3));
+}
+
+// Hairpins at the grip limit (issue 10, item 3). In a slow corner d(v^2)/ds is stiff where the
+// car meets its steady limit: for the sports car at 0.5 m, 2 ds da/du is -4.2 on the limit of a
+// 15 m radius, outside the stability interval of classical RK4 on the real axis
+// (|1 + z + z^2/2 + z^3/6 + z^4/24| <= 1 down to -2.785; Hairer & Wanner, Solving ODEs II,
+// sec. IV.2). The sweep must still settle on the limit there, as it does on a fine mesh.
+namespace {
+// A stadium: two straights joined by two 180-degree hairpins of radius `radius_m`, each entered
+// and left by a 12 m clothoid (each turns 12 / (2 R) rad).
+Track hairpin_track(double radius_m, double mesh_m) {
+  Track t = test::circle_track(radius_m, mesh_m);
+  t.name = t.id = "hairpins";
+  const double k = -1.0 / radius_m, spiral = 12.0;
+  const double arc_angle = units::pi - spiral / radius_m;
+  const Segment end[] = {test::clothoid(spiral, 0.0, k), test::arc(radius_m, arc_angle, false),
+                         test::clothoid(spiral, k, 0.0)};
+  t.segments = {test::straight(250.0), end[0], end[1], end[2],
+                test::straight(250.0), end[0], end[1], end[2]};
+  return t;
+}
+}  // namespace
+
+TEST_CASE("a 15 m hairpin taken by the bundled sports car is limited by grip at 0.5 m") {
+  const Car file = load_car(test::source_path("cars/caldra-gt.yaml"));
+  const Track track = hairpin_track(15.0, 0.5);
+  const Circuit c = lay_out(track, make_air(track.air));
+  REQUIRE(c.corners.size() == 2);
+  for (std::size_t config = 0; config < file.configs.size(); ++config)
+    for (const VehicleModel model : {VehicleModel::point_mass, VehicleModel::axle}) {
+      Car car = file.configured(config);
+      car.model = model;
+      const LapRun r = run_lap(car, c);
+      CAPTURE(car.configs.front().name);
+      CAPTURE(static_cast<int>(model));
+      for (const CornerResult& corner : r.summary.corners) CHECK(corner.limit == "grip");
+    }
+}
+
+TEST_CASE("full-throttle shares and corner limits at 0.5 m are those of a 0.05 m mesh") {
+  // Every bundled car, config and circuit in both models. The share may move by 0.5 points (the
+  // issue's bound): each phase boundary may land a step of 0.5 m apart on the two meshes (0.03 s
+  // at 60 km/h), one way or the other, and a lap has a few dozen of them. Before issue 10 the
+  // sports car's share on the tight circuit was 57.0 % at 0.5 m and 51.5 % at 0.05 m. Limits
+  // must match corner by corner.
+  for (const char* car_file : {"cars/caldra-gt.yaml", "cars/pellion-fr2.yaml"}) {
+    const Car file = load_car(test::source_path(car_file));
+    for (const char* track_file : {"tracks/brannock-park.yaml", "tracks/saltmere-flats.yaml",
+                                   "tracks/cairnholt.yaml", "tracks/brannock-park-survey.yaml"}) {
+      Track track = load_track(test::source_path(track_file));
+      const Circuit coarse = lay_out(track, make_air(track.air));
+      REQUIRE(coarse.mesh.step_m == doctest::Approx(0.5).epsilon(0.01));
+      track.mesh_m = 0.05;
+      const Circuit fine = lay_out(track, make_air(track.air));
+      for (std::size_t config = 0; config < file.configs.size(); ++config)
+        for (const VehicleModel model : {VehicleModel::point_mass, VehicleModel::axle}) {
+          Car car = file.configured(config);
+          car.model = model;
+          const LapSummary a = run_lap(car, coarse).summary, b = run_lap(car, fine).summary;
+          CAPTURE(std::string(car_file));
+          CAPTURE(std::string(track_file));
+          CAPTURE(car.configs.front().name);
+          CAPTURE(static_cast<int>(model));
+          CHECK(std::abs(a.full_throttle_fraction - b.full_throttle_fraction) <= 0.005);
+          REQUIRE(a.corners.size() == b.corners.size());
+          for (std::size_t k = 0; k < a.corners.size(); ++k) {
+            CAPTURE(k + 1);
+            CHECK(a.corners[k].limit == b.corners[k].limit);
+          }
+        }
+    }
+  }
 }
