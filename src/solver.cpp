@@ -1,7 +1,6 @@
 #include "lapwing/solver.hpp"
 
 #include <boost/math/tools/roots.hpp>
-#include <boost/numeric/odeint/stepper/runge_kutta4.hpp>
 
 #include <algorithm>
 #include <array>
@@ -46,14 +45,22 @@ struct Slope {
 // Bracketing tolerance for steady speeds: 36 bits, about 1e-11 relative.
 constexpr int steady_bits = 36;
 
+// A sweep that lands within this share of the limit is on it: the steady limit is known to
+// 2^-36 of itself and the axle model's accelerations to 1e-9 m/s^2, and a forward sweep that
+// settles on a limit where the drive is exactly spent (a = 0 there) lands a rounding error under
+// it or over it. Without the margin such a point read `accelerate` or `corner` by the sign of
+// that error, and a hairpin's limit with it.
+constexpr double clip_tolerance = 1e-9;
+
 // The forces along the path at speed v on a point of curvature |kappa| and slope: what the
 // tyres have left for Fx after the lateral demand m v^2 |kappa| (friction ellipse), the
 // resistance (drag + rolling + grade), and the drive in the best gear. One table read.
 struct PathForces {
   double grip_left_n, resistance_n, drive_n;
 };
-inline PathForces path_forces(const Envelope& env, const Envelope::Rows& rows, double v2,
-                              double abs_curvature, const Slope& slope) {
+[[gnu::always_inline]] inline PathForces path_forces(const Envelope& env,
+                                                     const Envelope::Rows& rows, double v2,
+                                                     double abs_curvature, const Slope& slope) {
   const Envelope::Sample s = rows.at(v2);
   const double load = env.weight_n() * slope.cos + s.lift_coef * v2;
   const TyreModel::Limits lim = env.tyres().limits(load);
@@ -61,6 +68,42 @@ inline PathForces path_forces(const Envelope& env, const Envelope::Rows& rows, d
   return {env.tyres().long_force_left(lim, fy),
           s.drag_coef * v2 + env.rolling_resistance() * load + env.weight_n() * slope.sin,
           s.drive_n};
+}
+
+// The model's accelerations (m/s^2) at u = v^2 on a point of curvature |k|, positive along the
+// sweep's own direction of travel. The rotating parts' inertia counts only where the engine
+// limits (Gillespie, Fundamentals of Vehicle Dynamics, ch. 2-3):
+//   drive:   a = min((share x drive - R) / m_eff, (grip left - R) / m)
+//   braking: a = (grip left + R) / m
+// at the tyres' limit the road force acts on m, and the engine (or the brakes) supply the torque
+// that spins the wheels up (or down). The axle model's forms are in axle.hpp.
+struct InverseMass {
+  double m, m_eff;  // 1 / m, 1 / m_eff: no division per stage
+};
+template <bool Axle>
+[[gnu::always_inline]] inline double drive_accel(const Envelope& env, const Envelope::Rows& rows,
+                                                 double u, double k, const Slope& slope,
+                                                 bool trimmed, double drive_share,
+                                                 const InverseMass& inv) {
+  if constexpr (Axle) {
+    return axle_drive_accel(env, u, k, slope.cos, slope.sin, drive_share * rows.at(u).drive_n,
+                            trimmed);
+  } else {
+    const PathForces f = path_forces(env, rows, u, k, slope);
+    return std::min((drive_share * f.drive_n - f.resistance_n) * inv.m_eff,
+                    (f.grip_left_n - f.resistance_n) * inv.m);
+  }
+}
+template <bool Axle>
+[[gnu::always_inline]] inline double brake_accel(const Envelope& env, const Envelope::Rows& rows,
+                                                 double u, double k, const Slope& slope,
+                                                 const InverseMass& inv) {
+  if constexpr (Axle) {
+    return axle_brake_accel(env, u, k, slope.cos, slope.sin);
+  } else {
+    const PathForces f = path_forces(env, rows, u, k, slope);
+    return (f.grip_left_n + f.resistance_n) * inv.m;
+  }
 }
 
 std::string where(const Mesh& mesh, std::size_t i) {
@@ -188,7 +231,7 @@ class Sweeper {
         n_(mesh.size()),
         period_(mesh.closed ? n_ - 1 : n_),
         ds_(mesh.step_m),
-        inv_m_eff_(1.0 / env.effective_mass_kg()),
+        inv_mass_{1.0 / env.mass_kg(), 1.0 / env.effective_mass_kg()},
         shift_time_(env.car().powertrain.shift_time_s),
         i_(start),
         v_(v_start) {
@@ -208,7 +251,7 @@ class Sweeper {
   }
 
   /// Prepares the step from the current point to the next; returns u = v^2 there.
-  double begin_step() {
+  [[gnu::always_inline]] double begin_step() {
     const std::size_t i = i_;
     // Next point along the sweep; a closed mesh wraps through its seam (point n-1 == point 0).
     if (forward_)
@@ -219,6 +262,9 @@ class Sweeper {
     // distance (piecewise constant along segments).
     k0_ = std::abs(mesh_.curvature_1pm[i]);
     dk_ = (std::abs(mesh_.curvature_1pm[j_]) - k0_) / ds_;
+    // The limit in u = v^2 over the step, linear between its ends: no stage state goes above it.
+    ulim0_ = limit_[i] * limit_[i];
+    dulim_ = (limit_[j_] * limit_[j_] - ulim0_) / ds_;
     slope_ = Slope(mesh_, forward_ ? i : j_);
     // Under drive, movable aero trims where the step starts on a straight enough piece; under
     // braking it does not.
@@ -235,38 +281,35 @@ class Sweeper {
 
   /// d(v^2)/dx = 2 a at u = v^2, a distance x (0 .. ds) into the step, along the sweep's own
   /// direction of travel: forward under drive, backward under braking.
-  double rhs(double u, double x) const {
+  [[gnu::always_inline]] double rhs(double u, double x) const {
     const double u0 = std::max(u, 0.0);
     const double k = k0_ + dk_ * x;
-    if constexpr (Axle) {
-      const double force =
-          forward_ ? axle_drive_force(env_, u0, k, slope_.cos, slope_.sin,
-                                      drive_share_ * env_.sample_sq(u0).drive_n, trimmed_)
-                   : axle_brake_force(env_, u0, k, slope_.cos, slope_.sin);
-      return 2.0 * force * inv_m_eff_;
-    }
-    const PathForces f = path_forces(env_, rows_, u0, k, slope_);
-    const double force = forward_
-                             ? std::min(f.grip_left_n, drive_share_ * f.drive_n) - f.resistance_n
-                             : f.grip_left_n + f.resistance_n;
-    return 2.0 * force * inv_m_eff_;
+    return 2.0 * (forward_ ? drive_accel<Axle>(env_, rows_, u0, k, slope_, trimmed_, drive_share_,
+                                               inv_mass_)
+                           : brake_accel<Axle>(env_, rows_, u0, k, slope_, inv_mass_));
   }
 
+  /// The limit in u = v^2 a distance x into the step (linear between the step's ends).
+  double cap(double x) const { return ulim0_ + dulim_ * x; }
+
   /// Takes the integrated u at the next point: clips it to the limit and moves there.
-  void end_step(double u) {
+  [[gnu::always_inline]] void end_step(double u) {
     const std::size_t j = j_;
     if (!(u > 0.0))
       throw CannotMove("the car stops at " + where(mesh_, j) +
                        ": drive cannot overcome the resistance there");
     double v_next = std::sqrt(u);
-    if (v_next >= limit_[j]) {
+    if (v_next >= limit_[j] * (1.0 - clip_tolerance)) {
       v_next = limit_[j];
       r_.clipped[j] = 1;
     }
     if (forward_) {
       const double dt = 2.0 * ds_ / (v_ + v_next);
       if (cut_left_s_ > 0.0) {
-        r_.cut[j] = 1;
+        // The point counts as cut when the drive was off for at least half of the step that
+        // reached it: the cut's share of the lap is then the same on any mesh (rounded to the
+        // nearest step, not up to the next).
+        r_.cut[j] = cut_left_s_ >= 0.5 * dt;
         cut_left_s_ = std::max(0.0, cut_left_s_ - dt);
       }
       if (!ideal_) {
@@ -300,12 +343,15 @@ class Sweeper {
   const std::vector<double>& limit_;
   const bool forward_, ideal_;
   const std::size_t n_, period_;
-  const double ds_, inv_m_eff_, shift_time_;
+  const double ds_;
+  const InverseMass inv_mass_;
+  const double shift_time_;
   std::size_t i_;
   double v_;
   // The step in progress.
   std::size_t j_ = 0;
   double k0_ = 0.0, dk_ = 0.0, drive_share_ = 1.0;
+  double ulim0_ = 0.0, dulim_ = 0.0;  // the limit in u at the step's start, and its slope
   bool trimmed_ = false;
   Envelope::Rows rows_{nullptr, 0, 0.0};  // the table the step reads
   Slope slope_{1.0, 0.0};
@@ -316,45 +362,135 @@ class Sweeper {
 }  // namespace
 
 namespace {
+
+constexpr double stiff_z = 1.0;     // |z| up to which RK4 is taken as it is
+constexpr int max_substeps = 16;    // per split; splits nest twice at most
+constexpr int max_split_depth = 2;  // worst case 16 x 16 substeps for one step
+// Below this relative spread of the mid-point stage states the estimate of z is rounding: the
+// sweep is within 1e-6 of a settled state and the step is taken as it is.
+constexpr double z_resolution = 1e-6;
+
+// The step. Classical fourth-order Runge-Kutta (Kutta 1901; Hairer, Norsett & Wanner, Solving
+// Ordinary Differential Equations I, sec. II.1) with two guards that the grip limit needs:
+//  - every stage state is held at or under the sweep's limit (linear in u over the step), so no
+//    stage reads the tyres beyond their steady limit, where the force left by the ellipse falls
+//    to nothing and d(v^2)/ds is not smooth;
+//  - near the limit d(v^2)/ds is stiff: for the sports car in a 15 m hairpin (sea-level air)
+//    z = ds d(du/ds)/du = 2 ds da/du is -0.13 at 90 % of the limiting v^2, -1.4 at 99.9 % and
+//    -4.2 on the limit at 0.5 m (computed here), outside RK4's stability interval on the real
+//    axis: |R(z)| = |1 + z + z^2/2 + z^3/6 + z^4/24| <= 1 down to z = -2.785 (Hairer & Wanner,
+//    Solving ODEs II, sec. IV.2). There the sweep oscillated just under the limit and never
+//    reached it. A step whose stage states had to be held, or whose z
+//    (estimated from its two mid-point stages, (k3 - k2) / (y3 - y2) = du'/du for free) is above
+//    1 in size, is taken again in substeps short enough for |z| <= 1, where RK4 follows
+//    exp(z) to 2 % per substep. The step is then what a finer mesh gives, and the sweep settles
+//    on the limit as the exact solution does. A step that starts on the limit and ends on it or
+//    above (the sweep holds the limit: most of the backward sweep, every arc taken at the limit)
+//    is clipped whatever its stages: it is not taken again.
+struct StageCheck {
+  double u1;   // u at the step's end
+  double z;    // step x d(du/ds)/du, estimated; 0 where the stages cannot tell
+  bool held;   // a stage state was held at the limit
+  bool stays;  // starts on the limit and ends on it or above
+  bool flagged() const { return !stays && (held || std::abs(z) > stiff_z); }
+};
+
+// One RK4 step of length h from x0 for N sweeps at once (N = 2: forward and backward in lockstep,
+// two independent chains of dependent arithmetic that keep the processor busier than one).
+template <class Sw, std::size_t N>
+[[gnu::always_inline]] inline std::array<StageCheck, N> rk4(const std::array<Sw*, N>& s,
+                                                            const std::array<double, N>& u0,
+                                                            double x0, double h) {
+  std::array<double, N> y1, k1, y2, k2, y3, k3, k4;
+  std::array<bool, N> held{};
+  const double xm = x0 + 0.5 * h, x1 = x0 + h;
+  for (std::size_t c = 0; c < N; ++c) {
+    const double top = s[c]->cap(x0);
+    held[c] = u0[c] > top;
+    y1[c] = held[c] ? top : u0[c];
+    k1[c] = s[c]->rhs(y1[c], x0);
+  }
+  for (std::size_t c = 0; c < N; ++c) {
+    const double y = y1[c] + 0.5 * h * k1[c], top = s[c]->cap(xm);
+    held[c] |= y > top;
+    y2[c] = std::min(y, top);
+    k2[c] = s[c]->rhs(y2[c], xm);
+  }
+  for (std::size_t c = 0; c < N; ++c) {
+    const double y = y1[c] + 0.5 * h * k2[c], top = s[c]->cap(xm);
+    held[c] |= y > top;
+    y3[c] = std::min(y, top);
+    k3[c] = s[c]->rhs(y3[c], xm);
+  }
+  for (std::size_t c = 0; c < N; ++c) {
+    const double y = y1[c] + h * k3[c], top = s[c]->cap(x1);
+    held[c] |= y > top;
+    k4[c] = s[c]->rhs(std::min(y, top), x1);
+  }
+  std::array<StageCheck, N> out;
+  for (std::size_t c = 0; c < N; ++c) {
+    const double u1 = y1[c] + h / 6.0 * (k1[c] + 2.0 * (k2[c] + k3[c]) + k4[c]);
+    const double dy = y3[c] - y2[c], dk = h * (k3[c] - k2[c]);
+    // |z| = |dk / dy| > stiff_z, without a division on the common path.
+    const bool stiff =
+        std::abs(dk) > stiff_z * std::abs(dy) && std::abs(dy) > z_resolution * std::max(y2[c], 1.0);
+    out[c] = {u1, stiff ? dk / dy : 0.0, held[c], false};
+    if (held[c] || stiff)  // on the limit as end_step clips (v within clip_tolerance)
+      out[c].stays = u0[c] >= s[c]->cap(x0) * (1.0 - 2.0 * clip_tolerance) &&
+                     u1 >= s[c]->cap(x1) * (1.0 - 2.0 * clip_tolerance);
+  }
+  return out;
+}
+
+// Substeps for a step (or substep) that rk4 flagged: |z| <= stiff_z each, as far as the split
+// allows. Returns u at x0 + h.
+template <class Sw>
+double split_step(Sw& s, double u0, double x0, double h, const StageCheck& flagged, int depth) {
+  const int n =
+      std::clamp(static_cast<int>(std::ceil(std::abs(flagged.z) / stiff_z)), 2, max_substeps);
+  const double sub = h / n;
+  double u = u0;
+  for (int k = 0; k < n; ++k) {
+    const double x = x0 + k * sub;
+    const StageCheck c = rk4<Sw, 1>({&s}, {u}, x, sub)[0];
+    const bool again = c.flagged() && depth < max_split_depth;
+    u = again ? split_step(s, u, x, sub, c, depth + 1) : c.u1;
+  }
+  return u;
+}
+
 template <bool Axle>
 SweepResult sweep_one(const Envelope& env, const Mesh& mesh, Sweep direction,
                       const std::vector<double>& limit, std::size_t start, double v_start) {
-  namespace odeint = boost::numeric::odeint;
+  using Sw = Sweeper<Axle>;
   SweepResult r;
-  Sweeper<Axle> s(env, mesh, direction, limit, start, v_start, r);
-  odeint::runge_kutta4<double> stepper;
-  auto system = [&s](const double& u, double& dudx, double x) { dudx = s.rhs(u, x); };
+  Sw s(env, mesh, direction, limit, start, v_start, r);
+  const double h = mesh.step_m;
   for (std::size_t k = 0, n = s.steps(); k < n; ++k) {
-    double u = s.begin_step();
-    stepper.do_step(system, u, 0.0, mesh.step_m);
-    s.end_step(u);
+    const double u0 = s.begin_step();
+    const StageCheck c = rk4<Sw, 1>({&s}, {u0}, 0.0, h)[0];
+    s.end_step(c.flagged() ? split_step(s, u0, 0.0, h, c, 1) : c.u1);
   }
   s.finish();
   return r;
 }
 
-// Both sweeps in lockstep as one two-component state, (u_forward, u_backward): two independent
-// chains of dependent arithmetic in one system keep the processor busier than one (each RK4
-// stage waits on the last).
+// Both sweeps in lockstep; a flagged step is split for the sweep that needs it alone.
 template <bool Axle>
 void sweep_both(const Envelope& env, const Mesh& mesh, const std::vector<double>& limit,
                 std::size_t f0, double vf, std::size_t b0, double vb, SweepResult& fwd,
                 SweepResult& bwd) {
-  namespace odeint = boost::numeric::odeint;
-  using State = std::array<double, 2>;
-  Sweeper<Axle> f(env, mesh, Sweep::forward, limit, f0, vf, fwd);
-  Sweeper<Axle> b(env, mesh, Sweep::backward, limit, b0, vb, bwd);
+  using Sw = Sweeper<Axle>;
+  Sw f(env, mesh, Sweep::forward, limit, f0, vf, fwd);
+  Sw b(env, mesh, Sweep::backward, limit, b0, vb, bwd);
   assert(f.steps() == b.steps());
-  odeint::runge_kutta4<State> stepper;
-  auto system = [&f, &b](const State& u, State& dudx, double x) {
-    dudx[0] = f.rhs(u[0], x);
-    dudx[1] = b.rhs(u[1], x);
-  };
+  const std::array<Sw*, 2> both{&f, &b};
+  const double h = mesh.step_m;
   for (std::size_t k = 0, steps = f.steps(); k < steps; ++k) {
-    State u{f.begin_step(), b.begin_step()};
-    stepper.do_step(system, u, 0.0, mesh.step_m);
-    f.end_step(u[0]);
-    b.end_step(u[1]);
+    const std::array<double, 2> u0{f.begin_step(), b.begin_step()};
+    const std::array<StageCheck, 2> c = rk4<Sw, 2>(both, u0, 0.0, h);
+    f.end_step(c[0].flagged() ? split_step(f, u0[0], 0.0, h, c[0], 1) : c[0].u1);
+    b.end_step(c[1].flagged() ? split_step(b, u0[1], 0.0, h, c[1], 1) : c[1].u1);
   }
   f.finish();
   b.finish();
@@ -459,15 +595,47 @@ const Lap& LapSolver::solve(const Envelope& env, const Mesh& mesh, double start_
   lap.trimmed.resize(n);
   for (auto* v : {&lap.front_share, &lap.aero_balance_eff, &lap.front_usage, &lap.rear_usage})
     v->resize(n);
-  const double inv_2ds = 0.5 / mesh.step_m;
-  const double weight = m * g, m_eff = env.effective_mass_kg(), crr = env.rolling_resistance();
+  // The acceleration at a point: d(v^2)/(2 ds) by the central difference
+  // (v_{i+1}^2 - v_{i-1}^2) / (4 ds) (through the seam of a closed lap; one-sided at the ends of
+  // an open track), held within what the model allows in the state at the point: no harder than
+  // its braking, no more than its drive. The two differ only where the acceleration jumps: at an
+  // apex between braking and drive, where a grade or the straight-line trim changes, where a
+  // sweep meets the steady limit. There the difference mixes two states, and the loads and
+  // usage worked from it would show an axle beyond its grip that the solver never used.
+  const InverseMass inv{1.0 / m, 1.0 / env.effective_mass_kg()};
+  const bool axle_model = car.model == VehicleModel::axle;
+  const auto point_accel = [&](std::size_t i) {
+    std::size_t lo = i, hi = i;
+    if (i > 0)
+      lo = i - 1;
+    else if (mesh.closed)
+      lo = n - 2;
+    if (i + 1 < n)
+      hi = i + 1;
+    else if (mesh.closed)
+      hi = 1;
+    const double span = mesh.step_m * static_cast<double>((lo != i) + (hi != i));
+    const double u = lap.speed_mps[i] * lap.speed_mps[i];
+    const double diff =
+        (lap.speed_mps[hi] * lap.speed_mps[hi] - lap.speed_mps[lo] * lap.speed_mps[lo]) /
+        (2.0 * span);
+    const double k = std::abs(mesh.curvature_1pm[i]);
+    const Slope slope(mesh, i);
+    if (diff >= 0.0) {
+      const bool trims = env.trims(k);
+      const Envelope::Rows rows = env.rows(trims);
+      return std::min(diff, axle_model
+                                ? drive_accel<true>(env, rows, u, k, slope, trims, 1.0, inv)
+                                : drive_accel<false>(env, rows, u, k, slope, trims, 1.0, inv));
+    }
+    const Envelope::Rows rows = env.rows(false);
+    return std::max(diff, -(axle_model ? brake_accel<true>(env, rows, u, k, slope, inv)
+                                       : brake_accel<false>(env, rows, u, k, slope, inv)));
+  };
+  const double weight = m * g, crr = env.rolling_resistance();
   for (std::size_t i = 0; i < n; ++i) {
     const double v = lap.speed_mps[i];
-    // a = d(v^2)/(2 ds) over the interval that starts at i (the one ending at i for the last).
-    const std::size_t a0 = (i + 1 < n) ? i : i - 1;
-    const double ax =
-        (lap.speed_mps[a0 + 1] * lap.speed_mps[a0 + 1] - lap.speed_mps[a0] * lap.speed_mps[a0]) *
-        inv_2ds;
+    const double ax = point_accel(i);
     lap.long_accel_mps2[i] = ax;
     lap.lat_accel_mps2[i] = v * v * mesh.curvature_1pm[i];
     // Under drive the gear the forward sweep engaged (held through a shift's cut); under
@@ -489,7 +657,8 @@ const Lap& LapSolver::solve(const Envelope& env, const Mesh& mesh, double start_
     lap.drag_n[i] = drag;
     lap.downforce_n[i] = down;
     // Axle loads and what each axle carries (axle.hpp): the tyre force along the path is what
-    // accelerates m_eff plus the resistance.
+    // accelerates the car's mass m plus the resistance (the rotating parts' spin-up is torque
+    // inside the driveline, not road force).
     const Slope slope(mesh, i);
     const AxleLoads loads = axle_loads(car, drag, down, row.balance, slope.cos, slope.sin, ax);
     lap.front_load_n[i] = loads.front_n;
@@ -502,7 +671,7 @@ const Lap& LapSolver::solve(const Envelope& env, const Mesh& mesh, double start_
                                   .value_or(std::numeric_limits<double>::quiet_NaN());
     const double resistance = drag + crr * (weight * slope.cos + down) + weight * slope.sin;
     const AxleUsage use =
-        axle_usage(env, loads, m_eff * ax + resistance, v * v * std::abs(mesh.curvature_1pm[i]));
+        axle_usage(env, loads, m * ax + resistance, v * v * std::abs(mesh.curvature_1pm[i]));
     lap.front_usage[i] = use.front_usage;
     lap.rear_usage[i] = use.rear_usage;
   }

@@ -19,6 +19,7 @@ std::string kph_text(double v) {
 // Speeds at or above this share of the tables' top are "at the top": the sweeps and the steady
 // limit hold the speed exactly at the top there, round-off aside.
 constexpr double at_top_rel = 1e-12;
+constexpr double apex_tie = 5e-4;  // relative: 0.05 km/h at 100 km/h
 }  // namespace
 
 std::vector<RangeNote> range_notes(const Envelope& env) {
@@ -135,13 +136,31 @@ LapSummary summarize(const Lap& lap, const Mesh& mesh, const Track& track,
   s.top_speed_mps = *std::max_element(lap.speed_mps.begin(), lap.speed_mps.end());
   s.min_speed_mps = *std::min_element(lap.speed_mps.begin(), lap.speed_mps.end());
 
-  // Time shares: each interval's time is split half to each of its end points' phases.
+  // Time shares: each interval's time is split half to each of its end points' phases. A lone
+  // point on a steady limit between two other phases (braking into a limit that only touches
+  // the speed there, drive out of it) is the car touching its limit: no time is spent there,
+  // and its halves go to the phases on either side. Counted as its own, it took a step's time
+  // per touch: 0.5 points of a noisy survey lap at 0.5 m, nothing on a fine mesh.
+  const std::size_t n = mesh.size();
+  auto touch = [&](std::size_t i) {
+    const Phase p = lap.phase[i];
+    if (p != Phase::corner && p != Phase::top_speed) return false;
+    std::size_t before = i - 1, after = i + 1;
+    if (i == 0 || i + 1 == n) {
+      if (!mesh.closed) return false;
+      before = n - 2;  // the seam: point n-1 is point 0
+      after = 1;
+    }
+    return lap.phase[before] != p && lap.phase[after] != p;
+  };
   double full = 0.0, brake = 0.0, trimmed = 0.0;
   auto is_full = [](Phase p) { return p == Phase::accelerate || p == Phase::top_speed; };
-  for (std::size_t i = 0; i + 1 < mesh.size(); ++i) {
+  for (std::size_t i = 0; i + 1 < n; ++i) {
     const double half = 0.5 * (lap.time_s[i + 1] - lap.time_s[i]);
-    full += half * (is_full(lap.phase[i]) + is_full(lap.phase[i + 1]));
-    brake += half * ((lap.phase[i] == Phase::brake) + (lap.phase[i + 1] == Phase::brake));
+    const Phase a = touch(i) ? lap.phase[i + 1] : lap.phase[i];
+    const Phase b = touch(i + 1) ? lap.phase[i] : lap.phase[i + 1];
+    full += half * (is_full(a) + is_full(b));
+    brake += half * ((a == Phase::brake) + (b == Phase::brake));
     trimmed += half * (lap.trimmed[i] + lap.trimmed[i + 1]);
   }
   s.trimmed_fraction = trimmed / lap.lap_time_s;
@@ -176,7 +195,15 @@ LapSummary summarize(const Lap& lap, const Mesh& mesh, const Track& track,
     r.entry_axle = limiting_axle(r.entry_balance_index);
     r.apex_axle = limiting_axle(r.apex_balance_index);
     r.exit_axle = limiting_axle(r.exit_balance_index);
-    switch (lap.phase[apex]) {
+    // On the steady grip limit at the apex speed: at the apex, or anywhere in the corner within
+    // apex_tie of its speed. Speeds that close are a tie (tables show 0.1 km/h), and which of
+    // them is lowest turns on the mesh: an upshift's cut on the exit, which starts within a step
+    // of its speed, can dip 0.01 km/h under the speed of the arc the tyres limit.
+    bool on_grip_limit = false;
+    for (std::size_t i = c.start; i <= c.end && !on_grip_limit; ++i)
+      on_grip_limit = lap.phase[i] == Phase::corner &&
+                      lap.speed_mps[i] <= lap.speed_mps[apex] * (1.0 + apex_tie);
+    switch (on_grip_limit ? Phase::corner : lap.phase[apex]) {
       case Phase::corner:
         r.limit = "grip";
         break;

@@ -143,3 +143,52 @@ TEST_CASE(
   CHECK_FALSE(nr.summary.balance.aero_balance_eff_150);
   CHECK_FALSE(nr.summary.balance.aero_balance_eff_250);
 }
+
+TEST_CASE("axle model: no point of any bundled lap uses more than either axle's ellipse") {
+  // Issue 10, item 5: every phase (drive, braking, steady) checks both axles. The trace's usage
+  // is worked from the speed profile (a_x by the central difference of v^2, held within what
+  // the state at the point allows). One state is not exact: where braking meets the steady limit
+  // that a rear axle sets, the rear cannot shed the drive that holds the speed without losing
+  // the load that holds its lateral force, and the point between reads up to 1.015 (measured on
+  // these laps). Before issue 10 the front axle read 1.11-1.26 on corner exits.
+  constexpr double tol = 0.02;
+  for (const char* car_file : {"cars/caldra-gt.yaml", "cars/pellion-fr2.yaml"}) {
+    const Car file = load_car(test::source_path(car_file));
+    for (const char* track_file :
+         {"tracks/brannock-park.yaml", "tracks/saltmere-flats.yaml", "tracks/cairnholt.yaml",
+          "tracks/brannock-park-survey.yaml", "tracks/skidpad.yaml", "tracks/acceleration.yaml"}) {
+      const Circuit c = circuit(track_file);
+      for (std::size_t config = 0; config < file.configs.size(); ++config) {
+        Car car = file.configured(config);
+        car.model = VehicleModel::axle;
+        const LapRun r = run_lap(car, c);
+        const auto front = std::max_element(r.lap.front_usage.begin(), r.lap.front_usage.end());
+        const auto rear = std::max_element(r.lap.rear_usage.begin(), r.lap.rear_usage.end());
+        CAPTURE(std::string(car_file));
+        CAPTURE(std::string(track_file));
+        CAPTURE(car.configs.front().name);
+        CAPTURE(c.mesh.s_m[static_cast<std::size_t>(front - r.lap.front_usage.begin())]);
+        CAPTURE(c.mesh.s_m[static_cast<std::size_t>(rear - r.lap.rear_usage.begin())]);
+        CHECK(*front <= 1.0 + tol);
+        CHECK(*rear <= 1.0 + tol);
+      }
+    }
+  }
+}
+
+TEST_CASE("axle model: front-, rear- and all-wheel drive keep both axles within their ellipse") {
+  // The drive of an all-wheel-drive car is shared by load (axle.hpp): the largest total that
+  // neither axle refuses. Tolerance as above.
+  constexpr double tol = 0.02;
+  for (const DrivenAxle driven : {DrivenAxle::front, DrivenAxle::rear, DrivenAxle::all})
+    for (const char* track_file : {"tracks/brannock-park.yaml", "tracks/cairnholt.yaml"}) {
+      Car car = load_car(test::source_path("cars/caldra-gt.yaml")).configured(1);
+      car.model = VehicleModel::axle;
+      car.powertrain.driven = driven;
+      const LapRun r = run_lap(car, circuit(track_file));
+      CAPTURE(static_cast<int>(driven));
+      CAPTURE(std::string(track_file));
+      CHECK(*std::max_element(r.lap.front_usage.begin(), r.lap.front_usage.end()) <= 1.0 + tol);
+      CHECK(*std::max_element(r.lap.rear_usage.begin(), r.lap.rear_usage.end()) <= 1.0 + tol);
+    }
+}

@@ -206,7 +206,7 @@ done
 # 11. Labels that say what they mean (issue 10, item 11).
 # The limiting axle is front, rear or both (within +-0.02 of usage), with the front - rear usage
 # beside it: every label must agree with the value printed next to it.
-"$bin" run --car cars/caldra-gt.yaml --track tracks/brannock-park.yaml > "$tmp/axles.txt"
+"$bin" run --car cars/caldra-gt.yaml --track tracks/brannock-park.yaml --model axle > "$tmp/axles.txt"
 grep -q "front-rear usage entry/apex/exit" "$tmp/axles.txt" && grep -q "both within +-0.02" "$tmp/axles.txt" &&
   ok || bad "run's corners table lacks the usage difference or the band"
 awk '/^corner  turn/ { on = 1; next } on && /^-/ { next } on && NF != 12 { on = 0 }

@@ -46,7 +46,9 @@ TEST_CASE("the limiting axle is front, rear or both within the neutral band, bes
   CHECK(limiting_axle(0.0201) == "front");
   CHECK(limiting_axle(-0.0201) == "rear");
   // On a lap each corner's labels are read from the trace's balance_index at the same points.
-  const Car car = load_car(test::source_path("cars/caldra-gt.yaml")).configured(0);
+  // The axle model, where each axle's usage sets the limits and the labels matter most.
+  Car car = load_car(test::source_path("cars/caldra-gt.yaml")).configured(0);
+  car.model = VehicleModel::axle;
   const Track track = load_track(test::source_path("tracks/brannock-park.yaml"));
   const Envelope env(car, make_air(track.air));
   const Mesh mesh = build_mesh(track, track.mesh_m);
@@ -157,4 +159,30 @@ TEST_CASE("a gearless car with no top speed is held at the stated ceiling and wa
   // the v^3 law (far below that at a 1 m step): 5e-4 of the distance.
   CHECK(near(range_note_share(r.env, notes[0], r.lap, r.mesh), 1.0 - s_c / length, 0.0, 5e-4));
   CHECK(has_warning(r.summary, "the car's tables end at 900.0 km/h (the ceiling of the tables)"));
+}
+
+TEST_CASE(
+    "a lone point on the steady limit between braking and drive takes no time in the shares") {
+  // The car only touches its limit there (the apex of a corner without an arc): counted as its
+  // own phase it took a whole step's time, whatever the step (issue 10, item 3).
+  const Car car = test::plain_car();
+  const Track track = test::straight_track(10.0, 1.0, 10.0);
+  const Envelope env(car, make_air(track.air));
+  const Mesh mesh = build_mesh(track, 1.0);
+  REQUIRE(mesh.size() == 11);
+  Lap lap = solve_lap(env, mesh, track.start_speed_mps);
+  for (std::size_t i = 0; i < 11; ++i) {
+    lap.time_s[i] = static_cast<double>(i);  // 1 s per interval
+    lap.phase[i] = i < 5 ? Phase::brake : (i == 5 ? Phase::corner : Phase::accelerate);
+  }
+  lap.lap_time_s = 10.0;
+  const LapSummary s = summarize(lap, mesh, track, {}, env);
+  CHECK(s.braking_fraction == doctest::Approx(0.5).epsilon(1e-12));
+  CHECK(s.full_throttle_fraction == doctest::Approx(0.5).epsilon(1e-12));
+  // Two points on the limit are a stretch of it: the interval between them counts as corner,
+  // and the intervals on either side half: braking 4.5 s, drive 3.5 s.
+  lap.phase[6] = Phase::corner;
+  const LapSummary t = summarize(lap, mesh, track, {}, env);
+  CHECK(t.braking_fraction == doctest::Approx(0.45).epsilon(1e-12));
+  CHECK(t.full_throttle_fraction == doctest::Approx(0.35).epsilon(1e-12));
 }

@@ -38,16 +38,20 @@ struct AxleUsage {
 };
 AxleUsage axle_usage(const Envelope& env, const AxleLoads& loads, double fx_n, double ay_mps2);
 
-/// The axle model's accelerations at u = v^2 on a point of curvature |k| (per unit of m_eff,
-/// signs as the point-mass sweeps use them):
-///  - drive: the traction the driven axle(s) can transmit at their load (which grows with the
-///    acceleration itself: a fixed point in a_x), capped by `drive_n`; returns the force left
-///    for acceleration, min(traction, drive) - resistance;
-///  - brake: the braking force at front_bias that saturates neither axle (at the loads the
-///    deceleration itself sets), plus the resistance.
-double axle_drive_force(const Envelope& env, double u, double abs_curvature, double cos_slope,
+/// The axle model's accelerations (m/s^2) at u = v^2 on a point of curvature |k|, both positive
+/// along the sweep's direction of travel:
+///  - drive: the least of (drive_n - resistance) / m_eff, where the engine limits,
+///    (traction - resistance) / m, where the driven axle(s) do: the traction they can transmit
+///    at their load, which grows with the acceleration itself (a fixed point in a_x; all-wheel
+///    drive shared by load, as axle_usage shares it), and, for a rear-driven car, the
+///    acceleration at which the front axle, unloaded by it, still holds its lateral force;
+///  - brake: (braking force + resistance) / m, the braking force the largest at front_bias that
+///    saturates neither axle at the loads the deceleration itself sets.
+/// The rotating parts' inertia (m_eff = m (1 + inertia_factor)) counts only where the engine
+/// limits; at the tyres' limit the road force acts on m (Gillespie, ch. 2-3).
+double axle_drive_accel(const Envelope& env, double u, double abs_curvature, double cos_slope,
                         double sin_slope, double drive_n, bool trimmed);
-double axle_brake_force(const Envelope& env, double u, double abs_curvature, double cos_slope,
+double axle_brake_accel(const Envelope& env, double u, double abs_curvature, double cos_slope,
                         double sin_slope);
 
 /// Steady state at speed v (a_x = 0): the larger axle usage when the tyres carry the lateral

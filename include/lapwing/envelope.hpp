@@ -80,7 +80,7 @@ class Envelope {
     std::size_t last;
     double inv_du;
     /// The row at speed squared u = v^2 (m^2/s^2), linear between rows, held at the ends.
-    Sample at(double u) const {
+    [[gnu::always_inline]] Sample at(double u) const {
       const double f = u * inv_du;
       if (!(f > 0.0)) return rows[0];
       if (f >= static_cast<double>(last)) return rows[last];

@@ -21,7 +21,8 @@ struct CornerResult {
   double start_m, apex_m, end_m;
   double entry_mps, apex_mps, exit_mps;
   double time_s;
-  std::string limit;  // "grip" (apex on the tyres' steady limit), "power" (taken under drive,
+  std::string limit;  // "grip" (apex on the tyres' steady limit, or a point of the corner on
+                      // it within 0.05 % of the apex speed), "power" (taken under drive,
                       // never reaching the limit), "braking" (apex inside a braking zone)
   // The axle using more of its ellipse at entry, apex and exit (limiting_axle: "front", "rear",
   // or "both" within the neutral band), and the difference it is read from: front usage - rear

@@ -38,6 +38,19 @@ class TyreModel {
     const double f = mu_factor(0.5 * axle_load_n) * axle_load_n;
     return {mu_long0_ * f, mu_lat0_ * f};
   }
+  /// The least axle load (N, two tyres sharing it) at which the axle's lateral peak reaches
+  /// |fy_n|: the smaller root of mu_lat0 L (1 - s (L/2 - Fn) / Fn) = |fy|, in the form
+  /// L = 2 c / (b + sqrt(b^2 - 4 a c)) that holds without load sensitivity too (a = s / (2 Fn),
+  /// b = 1 + s, c = |fy| / mu_lat0). Beyond the peak of that parabola only the floor of
+  /// 0.1 mu0 holds the force: L = |fy| / (0.1 mu_lat0).
+  double axle_load_for_lateral(double fy_n) const {
+    const double c = std::abs(fy_n) / mu_lat0_;
+    const double a = 0.5 * sensitivity_per_n_, b = 1.0 + sensitivity_per_n_ * nominal_n_;
+    const double disc = b * b - 4.0 * a * c;
+    if (disc < 0.0) return c / floor_fraction;
+    return 2.0 * c / (b + std::sqrt(disc));
+  }
+
   Limits limits(double load_n) const {
     const double f = mu_factor(0.25 * load_n) * load_n;
     return {mu_long0_ * f, mu_lat0_ * f};
