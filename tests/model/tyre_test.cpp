@@ -1,0 +1,33 @@
+// Tyre model: load sensitivity as SPEC section 6 defines it, and the friction ellipse.
+#include <doctest/doctest.h>
+
+#include <cmath>
+
+#include "lapwing/model/tyre.hpp"
+#include "test_support.hpp"
+
+using namespace lapwing;
+using lapwing::test::near;
+
+TEST_CASE("mu falls by load_sensitivity for each +100 % of load, never below 0.1 mu0 (SPEC 6)") {
+  const TyreModel t(Tyres{1.5, 1.7, 1600.0, 0.08, 2.0, 0.33, 0.0});
+  CHECK(t.mu_factor(1600.0) == 1.0);
+  CHECK(near(t.mu_factor(3200.0), 0.92, 1e-12));
+  CHECK(near(t.mu_factor(800.0), 1.04, 1e-12));
+  CHECK(t.mu_factor(1e7) == TyreModel::floor_fraction);
+  // Whole-car peak force: mu(N/4) N.
+  CHECK(near(t.fy_max(4 * 3200.0), 1.7 * 0.92 * 4 * 3200.0, 1e-12));
+}
+
+TEST_CASE("the ellipse leaves (1 - r^n)^(1/n) of Fx_max at lateral ratio r") {
+  for (double n : {2.0, 1.5, 3.0}) {
+    const TyreModel t(Tyres{1.5, 1.7, 1600.0, 0.0, n, 0.33, 0.0});
+    for (double r : {0.0, 0.3, 0.8, 0.999}) {
+      const double left = t.long_share_left(r);
+      CHECK(near(left, std::pow(1 - std::pow(r, n), 1 / n), 1e-12));
+      CHECK(near(t.usage(left, r), 1.0, 1e-12));  // on the boundary
+    }
+    CHECK(t.long_share_left(1.0) == 0.0);
+    CHECK(t.long_share_left(1.2) == 0.0);
+  }
+}
