@@ -3,7 +3,8 @@
 #include <algorithm>
 #include <cmath>
 
-#include "lapwing/units.hpp"
+#include "lapwing/base/units.hpp"
+#include "lapwing/io/track_file.hpp"
 
 namespace lapwing::test {
 
@@ -13,6 +14,11 @@ bool near(double a, double b, double rel, double abs) {
 
 std::string source_path(const std::string& relative) {
   return std::string(LAPWING_SOURCE_DIR) + "/" + relative;
+}
+
+Circuit bundled_circuit(const std::string& relative) {
+  const Track t = load_track(source_path(relative));
+  return lay_out(t, make_air(t.air));
 }
 
 Car plain_car(double mass_kg, double mu, double power_w) {

@@ -5,8 +5,11 @@
 #include <string>
 #include <vector>
 
-#include "lapwing/car.hpp"
-#include "lapwing/track.hpp"
+#include "lapwing/io/car_file.hpp"
+#include "lapwing/io/track_file.hpp"
+#include "lapwing/model/car.hpp"
+#include "lapwing/model/track.hpp"
+#include "lapwing/study/circuit.hpp"
 
 namespace lapwing::test {
 
@@ -15,6 +18,9 @@ bool near(double a, double b, double rel, double abs = 0.0);
 
 /// The bundled files.
 std::string source_path(const std::string& relative);
+
+/// A bundled track file laid out in its own air.
+Circuit bundled_circuit(const std::string& relative);
 
 /// A point-mass test car with no aero, no rolling resistance, no inertia factor and no load
 /// sensitivity, driven by constant power through an ideal transmission (efficiency 1).

@@ -9,13 +9,14 @@
 #include <thread>
 #include <vector>
 
-#include "lapwing/car.hpp"
-#include "lapwing/envelope.hpp"
-#include "lapwing/error.hpp"
-#include "lapwing/mesh.hpp"
-#include "lapwing/solver.hpp"
-#include "lapwing/study.hpp"
-#include "lapwing/track.hpp"
+#include "lapwing/base/error.hpp"
+#include "lapwing/io/car_file.hpp"
+#include "lapwing/io/track_file.hpp"
+#include "lapwing/path/mesh.hpp"
+#include "lapwing/solve/envelope.hpp"
+#include "lapwing/solve/solver.hpp"
+#include "lapwing/study/circuit.hpp"
+#include "lapwing/study/trade.hpp"
 
 namespace {
 

@@ -10,9 +10,9 @@
 #include <vector>
 
 #include "commands.hpp"
-#include "lapwing/document.hpp"
-#include "lapwing/error.hpp"
-#include "lapwing/report.hpp"
+#include "lapwing/base/error.hpp"
+#include "lapwing/base/version.hpp"
+#include "lapwing/io/document.hpp"
 
 namespace {
 

@@ -1,0 +1,62 @@
+// Tracks from the data teams have: a surveyed or GPS centerline fitted by a smoothing spline,
+// a curvature profile taken as given, or a logged lap turned into curvature.
+#pragma once
+
+#include <string>
+
+#include "lapwing/model/track.hpp"
+
+namespace lapwing {
+
+struct CenterlineOptions {
+  double smoothing_m = 20.0;             // wavelength the x/y fit halves (see smoothing.hpp)
+  double elevation_smoothing_m = 100.0;  // the same for elevation, before it becomes grade
+  double spacing_m = 1.0;                // resampling step along the path
+};
+
+/// A CSV of x_m,y_m[,z_m] or lat_deg,lon_deg[,alt_m] (WGS-84, projected to the tangent plane at
+/// the first point). Resampled by arc length, smoothed (periodically for a closed track), and
+/// differentiated: curvature = (x' y'' - y' x'') / (x'^2 + y'^2)^(3/2); grade = dz/ds.
+PathProfile import_centerline(const std::string& csv_file, bool closed,
+                              const CenterlineOptions& options);
+
+/// A CSV of distance_m,curvature_1pm[,grade,bank_deg] taken as given; positions by integrating
+/// the heading. A closed profile's last row is the lap's end (the mesh checks its heading).
+PathProfile import_curvature(const std::string& csv_file);
+
+/// `lapwing track from-log`: curvature from a logged lap.
+struct LogOptions {
+  std::string log;                                         // CSV file
+  std::string speed, lat_accel, yaw_rate, distance, time;  // column names (yaw_rate optional)
+  std::string speed_unit = "km/h";                         // km/h | m/s | mph
+  std::string accel_unit = "g";                            // g | m/s2
+  std::string yaw_unit = "deg/s";                          // deg/s | rad/s
+  bool closed = false;
+  double smoothing_m = 20.0;   // filter on the curvature
+  double min_speed_mps = 5.0;  // below it a_y / v^2 is too noisy: bridged over
+  std::string name;            // the track's name (default: the log's file name)
+  AirSpec air;                 // written into the track: altitude, and ambient when given
+};
+
+/// Plausibility limits on a log (a unit read wrong scales every curvature by 9.81, 57.3 or 3.6^2).
+inline constexpr double log_max_lateral_g = 8.0;          // no car corners harder
+inline constexpr double log_max_closure_fraction = 0.02;  // of the lap's length
+inline constexpr double log_max_start_speed_mps = 150.0;  // a track's start_speed range
+
+/// The track file (YAML text) and its curvature CSV. Curvature = a_y / v^2 (a_y positive to the
+/// left), or yaw rate / v when a yaw-rate column is named; filtered; for a closed lap the
+/// heading and position closure errors are spread evenly along it. An open log's first speed
+/// is the track's start_speed.
+///
+/// InputError (naming the likely unit mistake and the option that fixes it) when the filtered
+/// curvature times speed^2 exceeds 8 g anywhere, or when a closed lap's position gap, once its
+/// heading is closed, exceeds 2 % of its length.
+struct LogTrack {
+  std::string yaml, csv;
+  double length_m, closure_heading_deg, closure_gap_m;  // before spreading
+  double start_speed_mps;                               // open logs: the first logged speed
+  double peak_lateral_g;  // the largest |curvature| v^2 / g0 along the filtered log
+};
+LogTrack track_from_log(const LogOptions& o, const std::string& csv_name);
+
+}  // namespace lapwing

@@ -1,0 +1,42 @@
+// The car as described by its file (SPEC section 2): fixed, validated, in SI units.
+#pragma once
+
+#include <optional>
+#include <string>
+#include <string_view>
+#include <vector>
+
+#include "lapwing/model/aero.hpp"
+#include "lapwing/model/powertrain.hpp"
+#include "lapwing/model/tyre.hpp"
+
+namespace lapwing {
+
+/// Where the limits come from: the whole car's tyres as one (point mass), or the axle that
+/// saturates first, with drive limited to what the driven axle's load can transmit.
+enum class VehicleModel { point_mass, axle };
+
+struct Car {
+  std::string name;
+  std::string file;
+  double mass_kg;
+  double inertia_factor;
+  double cg_height_m;
+  double wheelbase_m;
+  double front_weight;  // static share of weight on the front axle
+  Tyres tyres;
+  Powertrain powertrain;
+  double brake_front_bias;
+  double drag_height_m;
+  VehicleModel model = VehicleModel::point_mass;
+  std::vector<AeroConfig> configs;
+
+  /// Index of the config named `name`, or -1.
+  int config_index(const std::string& name) const;
+  /// This car with config `index` applied: its overrides replace the car-level values and it is
+  /// the only config left.
+  Car configured(std::size_t index) const;
+  std::vector<std::string> config_names() const;
+};
+
+}  // namespace lapwing

@@ -1,0 +1,66 @@
+// The track as described by its file (SPEC section 3): fixed, validated, in SI units.
+#pragma once
+
+#include <optional>
+#include <string>
+#include <vector>
+
+#include "lapwing/base/error.hpp"
+#include "lapwing/model/air.hpp"
+
+namespace lapwing {
+
+/// A piece of the path whose curvature changes linearly with distance: a straight (0 -> 0), an
+/// arc (k -> k) or a clothoid (k0 -> k1). Curvature is signed, positive for a left turn.
+struct Segment {
+  enum class Kind { straight, arc, clothoid };
+  Kind kind;
+  double length_m;
+  double curvature_start_1pm;
+  double curvature_end_1pm;
+  double grade;  // rise over run, positive uphill
+  Mark mark;
+};
+
+/// A path given as data instead of segments: a fitted centerline or a curvature profile, as
+/// samples along the distance (closed paths end where they start).
+struct PathProfile {
+  enum class Source { centerline, curvature };
+  Source source = Source::centerline;
+  std::string data_file;  // the CSV, as found from the track file's folder
+  std::vector<double> s_m, curvature_1pm, grade, x_m, y_m, elevation_m;
+  double smoothing_m = 0.0, elevation_smoothing_m = 0.0;  // centerline fits
+  double fit_residual_rms_m = 0.0;                        // raw points against the fitted path
+  double curvature_noise_rms_1pm = 0.0;  // raw curvature against the fitted curvature
+  bool has_bank = false;                 // a bank_deg column was read (not modelled)
+  bool geodetic = false;                 // lat/lon points projected to a tangent plane
+  // A closed centerline's data as given, before the fit bridges its end to its start: the
+  // distance from the last point to the first, the median distance between consecutive points
+  // and the file line of the last point (for the closure check and `check`).
+  double data_closure_gap_m = 0.0;
+  double point_spacing_m = 0.0;
+  int last_point_line = 0;
+  /// Things about the data the user should know that are no error (an unused column): printed
+  /// by `check` and `run`.
+  std::vector<std::string> notes;
+};
+
+struct Track {
+  std::string name;
+  std::string file;
+  std::string id;  // file name without folder and extension, used in output file names
+  bool closed = true;
+  double start_speed_mps = 0.0;  // open tracks
+  Mark start_speed_mark;
+  AirSpec air;
+  double mesh_m = 0.5;
+  std::vector<Segment> segments;  // empty when the path is a profile
+  Mark segments_mark;
+  std::optional<PathProfile> profile;
+  std::vector<double> sectors_m;  // sector start distances; first is 0
+  Mark sectors_mark;
+
+  double length_m() const;
+};
+
+}  // namespace lapwing

@@ -1,0 +1,55 @@
+// The track laid out as points at a fixed spacing along the path: the solver's grid.
+#pragma once
+
+#include <cstddef>
+#include <vector>
+
+#include "lapwing/model/track.hpp"
+
+namespace lapwing {
+
+/// Points 0..n at s_i = i * step_m. For a closed track point n is point 0 again (one lap); the
+/// solver treats points 0..n-1 as periodic. Distance is measured along the path in plan view;
+/// elevation integrates grade over that distance (small-slope layout).
+struct Mesh {
+  bool closed = true;
+  double length_m = 0.0;
+  double step_m = 0.0;
+  std::vector<double> s_m, x_m, y_m, heading_rad, curvature_1pm, elevation_m, grade;
+  std::vector<double> cos_slope, sin_slope;  // of the slope angle atan(grade), for the solver
+
+  std::size_t size() const { return s_m.size(); }
+  std::size_t intervals() const { return s_m.size() - 1; }
+};
+
+/// How far the end of the path is from its start (what a closed track must bring to zero).
+struct Closure {
+  double position_gap_m;   // distance from the end point to the start point; for a closed
+                           // centerline, from its last data point to its first (the gap the
+                           // fit bridges), not the fitted loop's (which is zero)
+  double heading_gap_rad;  // end heading minus start heading, wrapped to (-pi, pi]
+  double elevation_gap_m;  // end elevation minus start elevation
+  double turning_rad;      // total heading change along the path
+};
+
+Closure closure(const Track& track);
+
+/// Lays the track out at spacing close to `step_m` (adjusted so that it divides the length).
+/// For a closed track, a heading gap over 2 deg is an InputError, and so is a position gap over
+/// closure_position_tolerance_m(track). The error names the track's path key (`segments`,
+/// `centerline` or `curvature`).
+Mesh build_mesh(const Track& track, double step_m);
+
+/// Tolerances on closure (SPEC section 3).
+inline constexpr double closure_position_fraction = 0.005;
+inline constexpr double closure_heading_deg = 2.0;
+/// A closed centerline's last point may be this many point spacings from its first (the fit
+/// bridges one ordinary spacing; three leaves room for uneven survey steps).
+inline constexpr double closure_spacings = 3.0;
+
+/// The position gap a closed track may have: 0.5 % of the length for segments;
+/// max(3 x the median point spacing, 0.5 % of the length) for a centerline; none (infinity) for
+/// a curvature profile, whose positions are integrated and whose drift is shown, not refused.
+double closure_position_tolerance_m(const Track& track);
+
+}  // namespace lapwing

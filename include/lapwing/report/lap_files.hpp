@@ -1,0 +1,27 @@
+// A lap's output files: summary.json, the trace CSV and corners.csv (full precision). Each CSV's
+// columns are one list, for header and rows (STYLE habit 13).
+#pragma once
+
+#include <string>
+#include <vector>
+
+#include "lapwing/io/json.hpp"
+#include "lapwing/path/mesh.hpp"
+#include "lapwing/solve/solver.hpp"
+#include "lapwing/solve/summary.hpp"
+
+namespace lapwing {
+
+/// summary.json (README, outputs): {"lapwing", "car", "results": [...]}.
+std::string summary_json(const std::string& car_name, const std::vector<LapSummary>& results);
+
+/// The "balance" object of a result in summary.json; compare.json writes the same per config.
+void write_balance(JsonWriter& w, const BalanceSummary& b);
+
+/// trace-<track>-<config>.csv, one row per mesh point (README, outputs).
+std::string trace_csv(const Lap& lap, const Mesh& mesh);
+
+/// corners.csv: the corners arrays of all results, one row per corner, track and config first.
+std::string corners_csv(const std::vector<LapSummary>& results);
+
+}  // namespace lapwing

@@ -1,0 +1,62 @@
+// Balance along the lap: the load on each axle from weight, downforce (by the aero balance), the
+// drag moment, longitudinal load transfer and grade; the forces each axle must carry; how much
+// of its friction ellipse each uses; and the accelerations when the axle that saturates first
+// sets every limit (the `axle` vehicle model).
+#pragma once
+
+#include <optional>
+
+#include "lapwing/solve/envelope.hpp"
+
+namespace lapwing {
+
+/// Axle loads, moments about the rear contact patch (REFERENCES, load transfer):
+///   front = W cos(th) f + DF bal - (D z_D + m a_x h + W sin(th) h) / L,  rear = N - front,
+/// with W = m g, N = W cos(th) + DF, f the static front share, a_x > 0 accelerating.
+struct AxleLoads {
+  double front_n, rear_n;
+};
+AxleLoads axle_loads(const Car& car, double drag_n, double downforce_n, double balance,
+                     double cos_slope, double sin_slope, double ax_mps2);
+
+/// Front share of the aero load with the drag moment (moments about the rear contact patch,
+/// REFERENCES load transfer): (DF bal - D z_D / L) / DF = (ClA bal - CdA z_D / L) / ClA, the same
+/// at every speed since both forces scale with q = rho v^2 / 2. Without downforce (ClA <= 0) the
+/// share of no load is undefined: nullopt (the drag moment then only unloads the front axle, by
+/// D z_D / L, which axle_loads gives).
+std::optional<double> aero_balance_with_drag_moment(double cla_m2, double cda_m2, double balance,
+                                                    double drag_height_m, double wheelbase_m);
+
+/// What each axle carries and how much of its ellipse that uses, for a total longitudinal tyre
+/// force `fx_n` (> 0 driving: on the driven axle(s), shared by load for all-wheel drive; < 0
+/// braking: by brakes.front_bias) and lateral acceleration `ay` (front m a_y l_r / L = m a_y f,
+/// rear m a_y (1 - f)). Usage (Fx/Fx_max)^n + (Fy/Fy_max)^n per axle, mu at the per-tyre load.
+struct AxleUsage {
+  AxleLoads loads;
+  double front_fx_n, rear_fx_n, front_fy_n, rear_fy_n;
+  double front_usage, rear_usage;
+};
+AxleUsage axle_usage(const Envelope& env, const AxleLoads& loads, double fx_n, double ay_mps2);
+
+/// The axle model's accelerations (m/s^2) at u = v^2 on a point of curvature |k|, both positive
+/// along the sweep's direction of travel:
+///  - drive: the least of (drive_n - resistance) / m_eff, where the engine limits,
+///    (traction - resistance) / m, where the driven axle(s) do: the traction they can transmit
+///    at their load, which grows with the acceleration itself (a fixed point in a_x; all-wheel
+///    drive shared by load, as axle_usage shares it), and, for a rear-driven car, the
+///    acceleration at which the front axle, unloaded by it, still holds its lateral force;
+///  - brake: (braking force + resistance) / m, the braking force the largest at front_bias that
+///    saturates neither axle at the loads the deceleration itself sets.
+/// The rotating parts' inertia (m_eff = m (1 + inertia_factor)) counts only where the engine
+/// limits; at the tyres' limit the road force acts on m (Gillespie, ch. 2-3).
+double axle_drive_accel(const Envelope& env, double u, double abs_curvature, double cos_slope,
+                        double sin_slope, double drive_n, bool trimmed);
+double axle_brake_accel(const Envelope& env, double u, double abs_curvature, double cos_slope,
+                        double sin_slope);
+
+/// Steady state at speed v (a_x = 0): the larger axle usage when the tyres carry the lateral
+/// demand and the longitudinal force that holds v (minus 1: <= 0 is feasible).
+double axle_steady_excess(const Envelope& env, double v, double abs_curvature, double cos_slope,
+                          double sin_slope);
+
+}  // namespace lapwing

@@ -1,0 +1,157 @@
+// What the car can do at each speed, precomputed once per car x config x air, so that the
+// solver's per-point work is table look-ups and a few flops (STYLE, habit 12).
+#pragma once
+
+#include <cstddef>
+#include <vector>
+
+#include "lapwing/model/air.hpp"
+#include "lapwing/model/car.hpp"
+#include "lapwing/model/tyre.hpp"
+
+namespace lapwing {
+
+struct EnvelopeOptions {
+  // Table rows, evenly spaced in v^2 from 0 to the maximum speed squared: the solver works in
+  // u = v^2 and reads the table without a square root. 8001 rows put them 0.03 m/s apart at
+  // 200 km/h (and 0.25 m/s apart at 20 km/h) for a car topping out at 400 km/h.
+  std::size_t speed_points = 8001;
+  // Top of the tables of a gearless car: this factor times its level-road top speed. Above the
+  // level top speed only a downhill drives the car faster. At 1.25 x the top speed the drag is
+  // 1.56 x and the drive (eta P / v) 0.8 x their value there, so holding that speed takes a
+  // downhill of sin(theta) ~ 0.76 eta P / (v_top m g): about 0.3 (a 30 % grade) for a car of
+  // 400 W/kg topping out at 320 km/h. A lap that reaches the top is warned of all the same.
+  double table_margin = 1.25;
+  // The tables never go beyond this speed (900 km/h, about Mach 0.73 in sea-level air): a car
+  // with no finite top speed below it (no drag and no rolling resistance, or a gearbox geared
+  // beyond it) is tabulated up to here and a lap that reaches it is warned of. Coefficients
+  // measured at circuit speeds say nothing this close to the speed of sound (compressibility,
+  // common practice).
+  double speed_ceiling_mps = 250.0;
+};
+
+/// What sets the top of an Envelope's tables, and so the level-road top speed check reports.
+enum class TopSpeedLimit {
+  drag,       // drive equals drag + rolling resistance below the tables' top
+  rev_limit,  // the rev limit in top gear: the engine turns no faster (the tables' top)
+  ceiling     // EnvelopeOptions::speed_ceiling_mps: no finite top speed below it
+};
+/// "drag", "rev limit", "table ceiling".
+const char* top_speed_limit_name(TopSpeedLimit l);
+
+/// Car (with one config applied, see Car::configured) in one air, tabulated over speed.
+class Envelope {
+ public:
+  Envelope(const Car& configured_car, const Air& air, EnvelopeOptions options = {});
+
+  // Fixed parameters, SI.
+  double mass_kg() const { return mass_; }
+  double effective_mass_kg() const { return mass_eff_; }  // m (1 + inertia_factor)
+  double air_density() const { return rho_; }
+  /// Top of the tables: a geared car's rev limit in top gear; a gearless car's level-road top
+  /// speed times EnvelopeOptions::table_margin; never above the ceiling. No speed of a lap
+  /// exceeds it: a lap that reaches it is held there (and warned of, see summary.hpp).
+  double max_speed_mps() const { return v_max_; }
+  /// Drive = resistance on the level (with the straight-line trim, where the config has one);
+  /// the tables' top where drive still exceeds resistance there (see top_speed_limit()).
+  double top_speed_level_mps() const { return v_top_; }
+  TopSpeedLimit top_speed_limit() const { return top_limit_; }
+  bool rev_limited() const { return top_limit_ == TopSpeedLimit::rev_limit; }
+  /// What the tables' top is: the rev limit, the margin over the level top speed, or the
+  /// ceiling (TopSpeedLimit::drag here means the margin).
+  TopSpeedLimit table_top_reason() const { return table_top_; }
+  double table_margin() const { return table_margin_; }
+  const TyreModel& tyres() const { return tyres_; }
+  const Car& car() const { return car_; }
+  const std::string& config_name() const { return car_.configs.front().name; }
+
+  /// The speed-dependent quantities at one speed, read from the table with one index
+  /// computation (linear between rows; rows at the table's ends outside it).
+  struct Sample {
+    double drive_n;    // at the wheels, best gear
+    double drag_coef;  // 0.5 rho CdA(v): drag = drag_coef v^2
+    double lift_coef;  // 0.5 rho ClA(v): downforce = lift_coef v^2
+    double balance;    // front share of downforce
+  };
+  /// A view of one table (plain or trimmed) for the hot loop: its rows, last index and 1/du
+  /// held in registers, no choice of table per read.
+  struct Rows {
+    const Sample* rows;
+    std::size_t last;
+    double inv_du;
+    /// The row at speed squared u = v^2 (m^2/s^2), linear between rows, held at the ends.
+    [[gnu::always_inline]] Sample at(double u) const {
+      const double f = u * inv_du;
+      if (!(f > 0.0)) return rows[0];
+      if (f >= static_cast<double>(last)) return rows[last];
+      const std::size_t i = static_cast<std::size_t>(f);
+      const double w = f - static_cast<double>(i);
+      const Sample& a = rows[i];
+      const Sample& b = rows[i + 1];
+      return {
+          a.drive_n + w * (b.drive_n - a.drive_n), a.drag_coef + w * (b.drag_coef - a.drag_coef),
+          a.lift_coef + w * (b.lift_coef - a.lift_coef), a.balance + w * (b.balance - a.balance)};
+    }
+  };
+  /// `trimmed` reads the straight-line trim's rows (only where trims() says so).
+  Rows rows(bool trimmed = false) const {
+    const std::vector<Sample>& r = trimmed ? trim_rows_ : rows_;
+    return {r.data(), r.size() - 1, inv_du_};
+  }
+  Sample sample_sq(double u, bool trimmed = false) const { return rows(trimmed).at(u); }
+  Sample sample(double v, bool trimmed = false) const { return sample_sq(v * v, trimmed); }
+
+  /// Straight-line trim (movable aero): applies under full drive where |curvature| is below the
+  /// config's threshold.
+  bool has_trim() const { return !trim_rows_.empty(); }
+  bool trims(double abs_curvature_1pm) const {
+    return !trim_rows_.empty() && abs_curvature_1pm < trim_below_curvature_;
+  }
+
+  /// Ride-height map: the operating point at speed v (interpolated between solved speeds), and
+  /// the first speeds at which a ride height leaves the map or reaches zero (negative: never
+  /// within the table). Without a map: the config's coefficients, heights 0.
+  bool has_map() const { return !map_points_.empty(); }
+  AeroPoint aero_point(double v) const;
+  double off_map_speed_mps() const { return off_map_speed_; }
+  double grounded_speed_mps() const { return grounded_speed_; }
+
+  double drive_n(double v) const { return sample(v).drive_n; }
+  int gear(double v) const { return gear_[index(v)]; }
+  /// Aero forces: 0.5 rho C(v) v^2 with C interpolated over speed.
+  double drag_n(double v) const { return sample(v).drag_coef * v * v; }
+  double downforce_n(double v) const { return sample(v).lift_coef * v * v; }
+  double aero_balance(double v) const { return sample(v).balance; }
+  double weight_n() const { return weight_; }
+  double rolling_resistance() const { return crr_; }
+
+  /// Vertical load on the tyres, N = m g cos(theta) + downforce.
+  double normal_load_n(double v, double cos_grade, bool trimmed = false) const {
+    return weight_ * cos_grade + sample(v, trimmed).lift_coef * v * v;
+  }
+  /// Resistance to motion along the path: drag + rolling resistance + grade.
+  double resistance_n(double v, double cos_grade, double sin_grade, bool trimmed = false) const {
+    const Sample s = sample(v, trimmed);
+    return s.drag_coef * v * v + crr_ * (weight_ * cos_grade + s.lift_coef * v * v) +
+           weight_ * sin_grade;
+  }
+
+ private:
+  std::size_t index(double v) const;
+
+  Car car_;
+  TyreModel tyres_;
+  double mass_, mass_eff_, weight_, crr_, rho_;
+  double v_max_, v_top_, du_, inv_du_;
+  TopSpeedLimit top_limit_ = TopSpeedLimit::drag, table_top_ = TopSpeedLimit::drag;
+  double table_margin_;
+  std::vector<Sample> rows_;       // one row per step du_ of v^2
+  std::vector<Sample> trim_rows_;  // the same with the straight-line trim (empty: none)
+  double trim_below_curvature_ = 0.0;
+  std::vector<AeroPoint> map_points_;  // ride-height solutions every map_dv_ (empty: no map)
+  double map_dv_ = 0.0;
+  double off_map_speed_ = -1.0, grounded_speed_ = -1.0;
+  std::vector<int> gear_;
+};
+
+}  // namespace lapwing

@@ -1,0 +1,88 @@
+// The quasi-steady point-mass lap (SPEC section 6): a steady speed limit at every mesh point,
+// a forward sweep under drive, a backward sweep under braking, the speed their minimum.
+#pragma once
+
+#include <cstdint>
+#include <string_view>
+#include <vector>
+
+#include "lapwing/path/mesh.hpp"
+#include "lapwing/solve/envelope.hpp"
+
+namespace lapwing {
+
+enum class Phase : std::uint8_t { accelerate, brake, corner, shift, top_speed };
+std::string_view phase_name(Phase p);
+
+/// Why the steady speed at a point is what it is.
+enum class SteadyLimit : std::uint8_t { grip, engine };
+
+/// The steady limits along the mesh: the highest speed the car can hold at each point.
+struct SteadyProfile {
+  std::vector<double> speed_mps;
+  std::vector<SteadyLimit> limit;
+};
+
+/// Steady speed at every mesh point: the highest v at which the tyres hold the lateral demand
+/// m v^2 |kappa| together with the longitudinal force that keeps v against drag, rolling
+/// resistance and grade (friction ellipse), and at which the engine can supply that force
+/// (toms748 bracketing root finder, Boost.Math).
+SteadyProfile steady_profile(const Envelope& env, const Mesh& mesh);
+/// The same, into `out` (its storage reused).
+void steady_profile(const Envelope& env, const Mesh& mesh, SteadyProfile& out);
+
+/// Integrates u = v^2 along the mesh in one direction: forward under drive (with the drive cut
+/// for shift_time after each upshift), backward under braking. Every point is clipped to
+/// `limit`. `start` is the mesh index to begin at and `v_start` its speed; closed meshes wrap.
+/// `clipped[i]` is set where the limit, not the integration, gave the speed; `cut[i]` where the
+/// drive was cut for a shift over the step that reached i (forward only).
+/// `gear[i]` is the gear engaged on reaching i (forward only).
+enum class Sweep { forward, backward };
+struct SweepResult {
+  std::vector<double> speed_mps;
+  std::vector<std::uint8_t> clipped;
+  std::vector<std::uint8_t> cut;
+  std::vector<int> gear;  // gear engaged (forward only; 0 for an ideal transmission)
+};
+SweepResult sweep(const Envelope& env, const Mesh& mesh, Sweep direction,
+                  const std::vector<double>& limit, std::size_t start, double v_start);
+
+/// A solved lap: one entry per mesh point (SI units).
+struct Lap {
+  std::vector<double> speed_mps, time_s, long_accel_mps2, lat_accel_mps2;
+  std::vector<int> gear;
+  std::vector<double> engine_radps, drag_n, downforce_n, front_load_n, rear_load_n;
+  std::vector<double> front_share;              // front axle load / total
+  std::vector<double> aero_balance_eff;         // front share of the aero load with the drag moment
+                                                // (NaN where there is no downforce)
+  std::vector<double> front_usage, rear_usage;  // each axle's friction-ellipse usage (1: limit)
+  std::vector<Phase> phase;
+  std::vector<std::uint8_t> trimmed;  // straight-line trim in use
+  SteadyProfile steady;
+  double lap_time_s = 0.0;
+  bool has_channels = false;  // accelerations, gear, forces, loads, usage filled
+};
+
+/// Solves one lap. Closed meshes are periodic (both sweeps start at the slowest steady point);
+/// open ones start at `start_speed_mps` and end free. Throws CannotMove when the car cannot
+/// complete the track.
+Lap solve_lap(const Envelope& env, const Mesh& mesh, double start_speed_mps = 0.0);
+
+/// Solves laps one after another, reusing its buffers (the lap, both sweeps), so that a study
+/// of many laps allocates once. The working state of a lap, kept apart from the Envelope and
+/// the Mesh it reads. One per thread.
+class LapSolver {
+ public:
+  /// As solve_lap; the result stays valid until the next solve. With `channels` false only the
+  /// speed, phase and time traces are filled (a study that needs lap times skips the rest).
+  const Lap& solve(const Envelope& env, const Mesh& mesh, double start_speed_mps = 0.0,
+                   bool channels = true);
+  /// Moves the last lap out.
+  Lap take();
+
+ private:
+  Lap lap_;
+  SweepResult forward_, backward_;
+};
+
+}  // namespace lapwing

@@ -1,0 +1,104 @@
+// What a solved lap comes to: lap and sector times, speeds, time shares, and the corners with
+// their entry, apex and exit speeds and what limits them. One object feeds the terminal table,
+// the JSON and the CSV alike (STYLE, habit 6).
+#pragma once
+
+#include <optional>
+#include <string>
+#include <vector>
+
+#include "lapwing/model/track.hpp"
+#include "lapwing/path/corners.hpp"
+#include "lapwing/path/mesh.hpp"
+#include "lapwing/solve/envelope.hpp"
+#include "lapwing/solve/solver.hpp"
+
+namespace lapwing {
+
+struct CornerResult {
+  int id;
+  int direction;  // +1 left, -1 right
+  double start_m, apex_m, end_m;
+  double entry_mps, apex_mps, exit_mps;
+  double time_s;
+  std::string limit;  // "grip" (apex on the tyres' steady limit, or a point of the corner on
+                      // it within 0.05 % of the apex speed), "power" (taken under drive,
+                      // never reaching the limit), "braking" (apex inside a braking zone)
+  // The axle using more of its ellipse at entry, apex and exit (limiting_axle: "front", "rear",
+  // or "both" within the neutral band), and the difference it is read from: front usage - rear
+  // usage (the trace's balance_index; > 0: the front saturates first).
+  std::string entry_axle, apex_axle, exit_axle;
+  double entry_balance_index, apex_balance_index, exit_balance_index;
+};
+
+/// Neutral band on balance_index (front usage - rear usage, each 0..1 of its ellipse): within
+/// +-0.02 neither axle is named as the limit, since the model's usages carry about that much
+/// error (the axle loads ignore lateral load transfer, README Limitations) and two axles at 0.95
+/// and 0.96 are, for a set-up decision, both at the limit.
+inline constexpr double axle_neutral_band = 0.02;
+
+/// "front" when balance_index > axle_neutral_band, "rear" when < -axle_neutral_band, else
+/// "both".
+std::string limiting_axle(double balance_index);
+
+/// The balance of one lap: where the front axle's share of the load goes, and where the front
+/// saturates first (balance_index = front usage - rear usage > 0: an understeer tendency).
+struct BalanceSummary {
+  double static_front_share = 0.0;
+  // Aero balance (front share of downforce) at 150 and 250 km/h, alone and with the drag moment
+  // (aero_balance_with_drag_moment: none without downforce, where the share is undefined).
+  double aero_balance_150 = 0.0, aero_balance_250 = 0.0;
+  std::optional<double> aero_balance_eff_150, aero_balance_eff_250;
+  bool has_fast_acceleration = false;      // any point accelerating above 200 km/h
+  double lowest_front_share_fast = 0.0;    // lowest front share accelerating above 200 km/h
+  double lowest_front_share_at_m = 0.0;    // where
+  std::vector<int> front_limited_corners;  // corners whose apex the front axle limits
+  double threshold = 0.0;                  // on balance_index
+  double front_limited_length_m = 0.0;     // lap length with balance_index above it
+};
+
+inline constexpr double balance_index_threshold = 0.05;
+
+struct LapSummary {
+  std::string track_name, track_id, config;
+  double lap_time_s;
+  double length_m;
+  double air_density_kg_m3;
+  double top_speed_mps, min_speed_mps;
+  double full_throttle_fraction;      // share of lap time under full drive (accelerate, top_speed)
+  double braking_fraction;            // share of lap time under braking
+  double trimmed_fraction;            // share of lap time with the straight-line trim in use
+  std::vector<std::string> warnings;  // range notes the lap reaches (lap_range_warnings)
+  std::vector<double> sectors_s;
+  std::vector<CornerResult> corners;
+  BalanceSummary balance;
+};
+
+LapSummary summarize(const Lap& lap, const Mesh& mesh, const Track& track,
+                     const std::vector<CornerSpan>& corners, const Envelope& env);
+
+/// A place where the car's data is used beyond its range, as a set of speeds: below or above
+/// a speed table's rows (the end rows' values are held), a ride height off the map (its edge
+/// values are held) or at or below zero, or the top of the envelope's tables (the speed is
+/// held there). `check` prints the notes; a lap that reaches one gets it as a warning.
+struct RangeNote {
+  enum class Kind { below_speed_table, above_speed_table, off_map, grounded, table_top };
+  Kind kind;
+  std::string text;  // e.g. "above the speed table's last row (300.0 km/h) its values are held"
+};
+/// Every note of a configured car's data in one air (the Envelope's), in a fixed order.
+std::vector<RangeNote> range_notes(const Envelope& env);
+/// Whether the note concerns a point of the lap at speed v (m/s).
+bool range_note_applies(const Envelope& env, const RangeNote& note, double speed_mps);
+/// Share of the lap's distance on which the note applies: each interval counts half for each
+/// end point it applies at (as the lap summary's shares), over the lap's length.
+double range_note_share(const Envelope& env, const RangeNote& note, const Lap& lap,
+                        const Mesh& mesh);
+/// The notes that apply anywhere on the lap, each as a warning with the share of the lap
+/// distance it applies on ("...: 12.3 % of the lap distance"). One producer for check and run.
+std::vector<std::string> lap_range_warnings(const Envelope& env, const Lap& lap, const Mesh& mesh);
+
+/// Time at distance s along the lap, linear between mesh points.
+double time_at(const Lap& lap, const Mesh& mesh, double s_m);
+
+}  // namespace lapwing

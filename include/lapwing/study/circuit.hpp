@@ -1,0 +1,43 @@
+// A track laid out for study (its mesh, air and corners) and one lap round it: the unit of work
+// every study repeats.
+#pragma once
+
+#include <vector>
+
+#include "lapwing/model/air.hpp"
+#include "lapwing/model/car.hpp"
+#include "lapwing/model/track.hpp"
+#include "lapwing/path/corners.hpp"
+#include "lapwing/path/mesh.hpp"
+#include "lapwing/solve/envelope.hpp"
+#include "lapwing/solve/solver.hpp"
+#include "lapwing/solve/summary.hpp"
+
+namespace lapwing {
+
+/// A track laid out for study: its mesh, the air it is run in, its corners.
+struct Circuit {
+  Track track;
+  Mesh mesh;
+  Air air;
+  std::vector<CornerSpan> corners;
+};
+Circuit lay_out(const Track& track, const Air& air);
+
+/// One solved lap and what it comes to.
+struct LapRun {
+  Lap lap;
+  LapSummary summary;
+};
+
+/// Solves `configured_car` (one config) round `circuit`. An open track's start speed above what
+/// the car can hold there is an InputError on the track file.
+LapRun run_lap(const Car& configured_car, const Circuit& circuit, LapSolver& solver);
+/// The lap time alone (speed profile and time, no channels or summary).
+double lap_time(const Car& configured_car, const Circuit& circuit, LapSolver& solver);
+/// The speed profile and time alone of the car `env` tabulates, round `circuit` in `solver`
+/// (valid until its next solve); the start speed checked as run_lap does.
+const Lap& solve_speed_only(const Envelope& env, const Circuit& circuit, LapSolver& solver);
+LapRun run_lap(const Car& configured_car, const Circuit& circuit);
+
+}  // namespace lapwing

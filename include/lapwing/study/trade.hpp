@@ -1,0 +1,90 @@
+// The trade between downforce, drag, mass and power at a set of circuits: lap-time
+// sensitivities by central differences, a ClA x CdA grid, and the attribution of the lap-time
+// differences between configs to their ClA and CdA.
+#pragma once
+
+#include <string>
+#include <vector>
+
+#include "lapwing/model/car.hpp"
+#include "lapwing/solve/envelope.hpp"
+#include "lapwing/solve/solver.hpp"
+#include "lapwing/study/circuit.hpp"
+
+namespace lapwing {
+
+/// What a trade varies. Each scales the configured car by `factor`: every ClA (or CdA) value of
+/// the config's form, the mass, or the engine's torque (constant power) at every speed.
+enum class Knob { cla, cda, mass, power };
+Car scaled(const Car& configured_car, Knob knob, double factor);
+/// Adds `delta_m2` to every ClA (or CdA) value of the configured car's config.
+Car shifted(const Car& configured_car, Knob knob, double delta_m2);
+/// The knob moved by the relative amount r: x (1 + r), or, for an aero area that is zero,
+/// x + r m2 (so that a car without downforce still has a downforce sensitivity).
+Car varied(const Car& configured_car, Knob knob, double r);
+
+/// Whether every ClA (or CdA) value of the config is zero: `varied` then shifts the area by
+/// r m2 instead of scaling it.
+bool zero_area(const AeroConfig& a, Knob knob);
+
+/// The ClA and CdA a trade's per-m2 figures and attributions refer to. A constant (or parts)
+/// config: its coefficients. A speed table or a ride-height map: the coefficients at the lap's
+/// time-weighted operating point, sum_i C(v_i) dt_i / lap time (each interval's time split half
+/// to each end; C as the envelope reads it at the point's speed, without the straight-line
+/// trim, which the knobs do not scale), so that a table whose first row lies far from the
+/// lap's speeds does not stand for it.
+struct AeroOperatingPoint {
+  double cla_m2, cda_m2;
+};
+AeroOperatingPoint operating_point(const Envelope& env, const Lap& lap);
+
+struct TradeOptions {
+  double step = 0.02;       // relative step of the central differences
+  int grid_points = 9;      // per axis of the ClA x CdA grid
+  double grid_span = 0.15;  // +-15 % around the config
+};
+
+struct Sensitivity {
+  std::size_t track, config;  // indices: circuit, car config
+  double lap_time_s;
+  double cla_m2, cda_m2;  // the values differentiated against: the operating point on the lap
+  double mass_kg;
+  double dt_dcla_s_per_m2, dt_dcda_s_per_m2, dt_dmass_s_per_kg, dt_dpower_s_per_percent;
+  double breakeven_dcda_per_dcla;  // -dt/dClA / dt/dCdA: CdA one m2 of ClA may cost
+};
+
+struct TradeGrid {
+  std::size_t track, config;
+  std::vector<double> cla_m2, cda_m2;  // axes
+  std::vector<double> lap_time_s;      // row-major: [i_cla * cda.size() + i_cda]
+};
+
+/// First-order attribution of the lap-time difference of configs a -> b on a track to their
+/// ClA and CdA changes at their operating points on that track (operating_point):
+/// total = from_cla + from_cda + residual, from_cla = dt/dClA (ClA_b - ClA_a), with the
+/// sensitivities of `reference` (a when a is traded, else the first traded config).
+struct Attribution {
+  std::size_t track, a, b, reference;
+  double total_s, from_cla_s, from_cda_s, residual_s;
+  double delta_cla_m2, delta_cda_m2;  // ClA_b - ClA_a, CdA_b - CdA_a
+  /// |residual| <= attribution_residual_limit |total|; otherwise the first-order split does not
+  /// explain this step ("first-order split not reliable for this step").
+  bool first_order_reliable;
+};
+/// A residual above this share of the total marks the split as not reliable.
+inline constexpr double attribution_residual_limit = 0.5;
+/// Below this |total| (s) shares of the total are not printed: they would be ratios of noise.
+inline constexpr double attribution_share_min_total_s = 0.05;
+
+struct Trade {
+  TradeOptions options;
+  std::vector<Sensitivity> sensitivities;     // track-major, then config
+  std::vector<TradeGrid> grids;               // one per track, around the first traded config
+  std::vector<Attribution> attributions;      // every pair of the car's configs, per track
+  std::vector<AeroOperatingPoint> operating;  // per track, every config of the car (track-major)
+};
+
+Trade trade(const Car& car, const std::vector<std::size_t>& configs,
+            const std::vector<Circuit>& circuits, const TradeOptions& options, unsigned threads);
+
+}  // namespace lapwing

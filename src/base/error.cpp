@@ -1,0 +1,27 @@
+#include "lapwing/base/error.hpp"
+
+#include <sstream>
+
+namespace lapwing {
+
+namespace {
+std::string format_input_error(const std::string& file, Mark mark, const std::string& what,
+                               const std::string& key_path) {
+  // Built with a stream: GCC 12 warns falsely (-Wrestrict) on chains of string '+'.
+  std::ostringstream os;
+  os << file;
+  if (mark.line > 0) os << ':' << mark.line << ':' << mark.col;
+  os << ": error: " << what;
+  if (!key_path.empty()) os << " (" << key_path << ')';
+  return os.str();
+}
+}  // namespace
+
+InputError::InputError(std::string file, Mark mark, std::string what, std::string key_path)
+    : std::runtime_error(format_input_error(file, mark, what, key_path)),
+      file_(std::move(file)),
+      mark_(mark),
+      message_(std::move(what)),
+      key_path_(std::move(key_path)) {}
+
+}  // namespace lapwing

@@ -1,0 +1,153 @@
+#include "lapwing/io/csv.hpp"
+
+#include <fstream>
+
+#include "lapwing/base/error.hpp"
+#include "lapwing/base/units.hpp"
+
+namespace lapwing {
+
+int CsvTable::find(const std::string& name) const {
+  for (std::size_t i = 0; i < names.size(); ++i)
+    if (names[i] == name) return static_cast<int>(i);
+  return -1;
+}
+
+const std::vector<double>& CsvTable::column(const std::string& name) const {
+  const int i = find(name);
+  if (i < 0) {
+    std::string have;
+    for (const auto& n : names) have += (have.empty() ? "" : ", ") + n;
+    throw InputError(file, Mark{1, 1}, "no column '" + name + "' (the header has " + have + ")");
+  }
+  return columns[static_cast<std::size_t>(i)];
+}
+
+namespace {
+std::vector<std::string> split(const std::string& line, std::vector<int>& starts) {
+  std::vector<std::string> out;
+  starts.clear();
+  std::size_t at = 0;
+  while (true) {
+    const std::size_t comma = line.find(',', at);
+    starts.push_back(static_cast<int>(at) + 1);
+    out.push_back(line.substr(at, comma == std::string::npos ? std::string::npos : comma - at));
+    if (comma == std::string::npos) break;
+    at = comma + 1;
+  }
+  return out;
+}
+std::string trim(std::string s) {
+  while (!s.empty() && (s.back() == ' ' || s.back() == '\t')) s.pop_back();
+  std::size_t i = 0;
+  while (i < s.size() && (s[i] == ' ' || s[i] == '\t')) ++i;
+  return s.substr(i);
+}
+// Whether `text` reads as a header of `fields` column names: as many comma-separated fields,
+// none empty and none a number.
+bool looks_like_header(const std::string& text, std::size_t fields) {
+  std::vector<int> starts;
+  const auto names = split(text, starts);
+  if (names.size() != fields || fields < 2) return false;
+  for (const auto& name : names) {
+    const std::string n = trim(name);
+    if (n.empty() || parse_number(n)) return false;
+  }
+  return true;
+}
+}  // namespace
+
+CsvTable read_csv(const std::string& file, std::size_t min_rows) {
+  std::ifstream in(file, std::ios::binary);
+  if (!in) throw InputError(file, Mark{}, "cannot open the file");
+  CsvTable t;
+  t.file = file;
+  std::string line;
+  int n = 0;
+  std::vector<int> starts;
+  // The last comment line before the header, and its line: when the header turns out to be
+  // numbers, a comment that reads like a header is the likely one ('#x_m,y_m').
+  std::string last_comment;
+  int last_comment_line = 0;
+  while (std::getline(in, line)) {
+    ++n;
+    if (!line.empty() && line.back() == '\r') line.pop_back();
+    if (n == 1 && line.rfind("\xEF\xBB\xBF", 0) == 0) line.erase(0, 3);  // UTF-8 BOM
+    if (line.empty()) continue;
+    if (t.names.empty() && line[0] == '#') {  // comment lines before the header
+      last_comment = line;
+      last_comment_line = n;
+      continue;
+    }
+    if (t.names.empty()) {
+      if (line.find(',') == std::string::npos) {
+        if (line.find(';') != std::string::npos)
+          throw InputError(file, Mark{n, 1},
+                           "the file looks semicolon-separated; lapwing reads commas");
+        if (line.find('\t') != std::string::npos)
+          throw InputError(file, Mark{n, 1}, "the file looks tab-separated; lapwing reads commas");
+      }
+      const auto header = split(line, starts);
+      for (auto name : header) {
+        name = trim(name);
+        if (name.empty() || parse_number(name)) {
+          std::string hint;
+          if (!last_comment.empty() && looks_like_header(last_comment.substr(1), header.size()))
+            hint = "; line " + std::to_string(last_comment_line) + " ('" + last_comment +
+                   "') looks like the header but was read as a comment because it starts with "
+                   "'#': remove the '#'";
+          throw InputError(
+              file, Mark{n, 1},
+              "the first line must be a header of column names (got '" + line + "')" + hint);
+        }
+        t.names.push_back(name);
+      }
+      t.columns.resize(t.names.size());
+      continue;
+    }
+    const auto fields = split(line, starts);
+    if (fields.size() != t.names.size())
+      throw InputError(file, Mark{n, 1},
+                       "expected " + std::to_string(t.names.size()) + " fields, got " +
+                           std::to_string(fields.size()));
+    for (std::size_t c = 0; c < fields.size(); ++c) {
+      const auto v = parse_number(fields[c]);
+      if (!v)
+        throw InputError(file, Mark{n, starts[c]},
+                         "'" + trim(fields[c]) + "' is not a number (column " + t.names[c] + ")");
+      t.columns[c].push_back(*v);
+    }
+    t.lines.push_back(n);
+  }
+  if (t.names.empty()) throw InputError(file, Mark{}, "the file is empty");
+  if (t.rows() < min_rows)
+    throw InputError(file, Mark{n, 1},
+                     "only " + std::to_string(t.rows()) + " data rows; at least " +
+                         std::to_string(min_rows) + " are needed");
+  return t;
+}
+
+void require_increasing(const CsvTable& t, const std::string& column) {
+  const auto& v = t.column(column);
+  const int c = t.find(column);
+  for (std::size_t i = 1; i < v.size(); ++i)
+    if (!(v[i] > v[i - 1]))
+      throw InputError(t.file, Mark{t.lines[i], 1},
+                       column + " must increase strictly: " + std::to_string(v[i]) + " after " +
+                           std::to_string(v[i - 1]) + " (column " + std::to_string(c + 1) + ")");
+}
+
+void require_no_duplicates(const CsvTable& t, const std::vector<std::string>& columns) {
+  std::vector<const std::vector<double>*> cols;
+  for (const auto& c : columns) cols.push_back(&t.column(c));
+  for (std::size_t i = 1; i < t.rows(); ++i) {
+    bool same = true;
+    for (const auto* c : cols) same = same && (*c)[i] == (*c)[i - 1];
+    if (same)
+      throw InputError(
+          t.file, Mark{t.lines[i], 1},
+          "duplicate consecutive point (the same as line " + std::to_string(t.lines[i - 1]) + ")");
+  }
+}
+
+}  // namespace lapwing

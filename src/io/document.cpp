@@ -1,0 +1,379 @@
+#include "lapwing/io/document.hpp"
+
+#include <yaml-cpp/eventhandler.h>
+#include <yaml-cpp/exceptions.h>
+#include <yaml-cpp/mark.h>
+#include <yaml-cpp/parser.h>
+
+#include <algorithm>
+#include <cmath>
+#include <fstream>
+#include <sstream>
+
+namespace lapwing {
+
+const Node* Node::find(std::string_view key) const {
+  for (const auto& [k, v] : entries)
+    if (k == key) return &v;
+  return nullptr;
+}
+
+namespace {
+
+Mark to_mark(const YAML::Mark& m) {
+  return Mark{m.line + 1, m.column + 1};
+}
+
+// Builds a Node tree from parser events, refusing what lapwing's formats do not use.
+class TreeBuilder : public YAML::EventHandler {
+ public:
+  explicit TreeBuilder(std::string file) : file_(std::move(file)) {}
+
+  Node take() { return std::move(root_); }
+  bool complete() const { return done_; }
+
+  void OnDocumentStart(const YAML::Mark&) override {}
+  void OnDocumentEnd() override { done_ = true; }
+
+  void OnNull(const YAML::Mark& mark, YAML::anchor_t anchor) override {
+    check_anchor(mark, anchor);
+    Node n;
+    n.kind = Node::Kind::null;
+    n.mark = to_mark(mark);
+    add(std::move(n));
+  }
+  void OnAlias(const YAML::Mark& mark, YAML::anchor_t) override {
+    throw InputError(file_, to_mark(mark), "YAML aliases are not accepted; write the value out");
+  }
+  void OnAnchor(const YAML::Mark& mark, const std::string&) override {
+    throw InputError(file_, to_mark(mark), "YAML anchors are not accepted; write the value out");
+  }
+  void OnScalar(const YAML::Mark& mark, const std::string& tag, YAML::anchor_t anchor,
+                const std::string& value) override {
+    check_anchor(mark, anchor);
+    check_tag(mark, tag);
+    Node n;
+    n.kind = Node::Kind::scalar;
+    n.mark = to_mark(mark);
+    n.scalar = value;
+    add(std::move(n));
+  }
+  void OnSequenceStart(const YAML::Mark& mark, const std::string& tag, YAML::anchor_t anchor,
+                       YAML::EmitterStyle::value) override {
+    open(mark, tag, anchor, Node::Kind::sequence);
+  }
+  void OnSequenceEnd() override { close(); }
+  void OnMapStart(const YAML::Mark& mark, const std::string& tag, YAML::anchor_t anchor,
+                  YAML::EmitterStyle::value) override {
+    open(mark, tag, anchor, Node::Kind::map);
+  }
+  void OnMapEnd() override {
+    if (stack_.back().has_key)
+      throw InputError(file_, stack_.back().key_mark, "map key without a value");
+    close();
+  }
+
+ private:
+  struct Frame {
+    Node node;
+    bool has_key = false;
+    std::string key;
+    Mark key_mark;
+  };
+
+  void check_anchor(const YAML::Mark& mark, YAML::anchor_t anchor) const {
+    if (anchor != YAML::NullAnchor)
+      throw InputError(file_, to_mark(mark), "YAML anchors are not accepted; write the value out");
+  }
+  void check_tag(const YAML::Mark& mark, const std::string& tag) const {
+    // "?" marks a plain scalar, "!" a quoted one; anything else is an explicit tag.
+    if (!tag.empty() && tag != "?" && tag != "!")
+      throw InputError(file_, to_mark(mark), "YAML tags are not accepted ('" + tag + "')");
+  }
+  void open(const YAML::Mark& mark, const std::string& tag, YAML::anchor_t anchor,
+            Node::Kind kind) {
+    check_anchor(mark, anchor);
+    check_tag(mark, tag);
+    Frame f;
+    f.node.kind = kind;
+    f.node.mark = to_mark(mark);
+    stack_.push_back(std::move(f));
+  }
+  void close() {
+    Node n = std::move(stack_.back().node);
+    stack_.pop_back();
+    add(std::move(n));
+  }
+  void add(Node n) {
+    if (stack_.empty()) {
+      root_ = std::move(n);
+      return;
+    }
+    Frame& top = stack_.back();
+    if (top.node.kind == Node::Kind::sequence) {
+      top.node.items.push_back(std::move(n));
+      return;
+    }
+    if (!top.has_key) {
+      if (n.kind != Node::Kind::scalar)
+        throw InputError(file_, n.mark, "map keys must be plain words");
+      for (std::size_t i = 0; i < top.node.entries.size(); ++i)
+        if (top.node.entries[i].first == n.scalar)
+          throw InputError(file_, n.mark,
+                           "duplicate key '" + n.scalar + "' (first given at line " +
+                               std::to_string(top.node.key_marks[i].line) + ")");
+      top.has_key = true;
+      top.key = n.scalar;
+      top.key_mark = n.mark;
+      return;
+    }
+    top.node.entries.emplace_back(std::move(top.key), std::move(n));
+    top.node.key_marks.push_back(top.key_mark);
+    top.has_key = false;
+  }
+
+  std::string file_;
+  std::vector<Frame> stack_;
+  Node root_;
+  bool done_ = false;
+};
+
+std::string format_number(double v) {
+  std::ostringstream os;
+  os.precision(12);
+  os << v;
+  return os.str();
+}
+
+}  // namespace
+
+Document parse_document(const std::string& text, const std::string& file) {
+  Document doc;
+  doc.file = file;
+  doc.directory = std::filesystem::path(file).parent_path();
+  std::istringstream in(text);
+  try {
+    YAML::Parser parser(in);
+    TreeBuilder builder(file);
+    if (!parser.HandleNextDocument(builder))
+      throw InputError(file, Mark{1, 1}, "the file is empty");
+    doc.root = builder.take();
+    TreeBuilder rest(file);
+    if (parser.HandleNextDocument(rest))
+      throw InputError(file, Mark{}, "more than one YAML document in the file");
+  } catch (const YAML::Exception& e) {
+    throw InputError(file, to_mark(e.mark), "YAML syntax: " + e.msg);
+  }
+  if (doc.root.kind != Node::Kind::map)
+    throw InputError(file, doc.root.mark, "the file must be a map of keys");
+  return doc;
+}
+
+Document load_document(const std::string& file) {
+  std::ifstream in(file, std::ios::binary);
+  if (!in) throw InputError(file, Mark{}, "cannot open the file");
+  std::ostringstream ss;
+  ss << in.rdbuf();
+  return parse_document(ss.str(), file);
+}
+
+bool Range::contains(double v) const {
+  if (lo_open ? !(v > lo) : !(v >= lo)) return false;
+  if (hi_open ? !(v < hi) : !(v <= hi)) return false;
+  return true;
+}
+
+std::string Range::describe() const {
+  const bool has_lo = lo > -1e307, has_hi = hi < 1e307;
+  if (has_lo && has_hi)
+    return std::string(lo_open ? "(" : "[") + format_number(lo) + ", " + format_number(hi) +
+           (hi_open ? ")" : "]");
+  if (has_lo) return std::string(lo_open ? "> " : ">= ") + format_number(lo);
+  if (has_hi) return std::string(hi_open ? "< " : "<= ") + format_number(hi);
+  return "any finite number";
+}
+
+Range positive() {
+  return Range{0.0, 1e308, true, false};
+}
+Range non_negative() {
+  return Range{0.0, 1e308, false, false};
+}
+Range open_unit() {
+  return Range{0.0, 1.0, true, true};
+}
+
+std::size_t edit_distance(std::string_view a, std::string_view b) {
+  std::vector<std::size_t> prev(b.size() + 1), cur(b.size() + 1);
+  for (std::size_t j = 0; j <= b.size(); ++j) prev[j] = j;
+  for (std::size_t i = 1; i <= a.size(); ++i) {
+    cur[0] = i;
+    for (std::size_t j = 1; j <= b.size(); ++j)
+      cur[j] = std::min({prev[j] + 1, cur[j - 1] + 1, prev[j - 1] + (a[i - 1] != b[j - 1])});
+    std::swap(prev, cur);
+  }
+  return prev[b.size()];
+}
+
+std::string closest(std::string_view word, const std::vector<std::string>& candidates) {
+  std::string best;
+  std::size_t best_d = std::max<std::size_t>(2, word.size() / 3) + 1;
+  for (const auto& c : candidates) {
+    std::size_t d = edit_distance(word, c);
+    if (d < best_d) {
+      best_d = d;
+      best = c;
+    }
+  }
+  return best;
+}
+
+Reader::Reader(const Document& doc, const Node& node, std::string path)
+    : doc_(&doc), node_(&node), path_(std::move(path)) {
+  if (node.kind != Node::Kind::map) fail(node, "expected a map of keys");
+}
+
+std::string Reader::child_path(std::string_view key) const {
+  return path_.empty() ? std::string(key) : path_ + "." + std::string(key);
+}
+
+void Reader::fail(const Node& at, const std::string& what, std::string_view key) const {
+  throw InputError(doc_->file, at.mark, what, key.empty() ? path_ : child_path(key));
+}
+
+bool Reader::has(std::string_view key) const {
+  return node_->find(key) != nullptr;
+}
+
+const Node* Reader::get(std::string_view key) {
+  const Node* n = node_->find(key);
+  asked_.emplace_back(key);
+  if (n) read_.emplace_back(key);
+  return n;
+}
+
+const Node& Reader::require(std::string_view key) {
+  const Node* n = get(key);
+  if (n) return *n;
+  // A missing key next to a misspelt one: name the misspelling where it stands.
+  for (std::size_t i = 0; i < node_->entries.size() && !allowed_.empty(); ++i) {
+    const std::string& k = node_->entries[i].first;
+    if (std::find(allowed_.begin(), allowed_.end(), k) != allowed_.end()) continue;
+    if (closest(k, {std::string(key)}) == key)
+      throw InputError(doc_->file, node_->key_marks[i],
+                       "unknown key '" + k + "'; did you mean '" + std::string(key) + "'?",
+                       child_path(k));
+  }
+  fail(*node_, "missing key '" + std::string(key) + "'", key);
+}
+
+double Reader::node_quantity(const Node& n, Quantity q, Range r, const std::string& path) const {
+  if (n.kind != Node::Kind::scalar)
+    throw InputError(doc_->file, n.mark,
+                     "expected a " + std::string(quantity_name(q)) + ", got a " +
+                         (n.kind == Node::Kind::null ? "null" : "list or map"),
+                     path);
+  std::string err;
+  auto v = parse_quantity(n.scalar, q, err);
+  if (!v) throw InputError(doc_->file, n.mark, err, path);
+  if (!r.contains(*v))
+    throw InputError(
+        doc_->file, n.mark,
+        "value " + n.scalar + " is out of range: must be " + r.describe() +
+            (q == Quantity::number || q == Quantity::fraction ? std::string() : " in SI units"),
+        path);
+  return *v;
+}
+
+std::string Reader::node_string(const Node& n, const std::string& path) const {
+  if (n.kind != Node::Kind::scalar)
+    throw InputError(doc_->file, n.mark, "expected a text value", path);
+  return n.scalar;
+}
+
+double Reader::quantity(std::string_view key, Quantity q, Range r) {
+  return node_quantity(require(key), q, r, child_path(key));
+}
+
+double Reader::quantity_or(std::string_view key, Quantity q, Range r, double fallback) {
+  auto v = optional_quantity(key, q, r);
+  return v ? *v : fallback;
+}
+
+std::optional<double> Reader::optional_quantity(std::string_view key, Quantity q, Range r) {
+  const Node* n = get(key);
+  if (!n) return std::nullopt;
+  return node_quantity(*n, q, r, child_path(key));
+}
+
+std::string Reader::string(std::string_view key) {
+  return node_string(require(key), child_path(key));
+}
+
+std::string Reader::string_or(std::string_view key, std::string fallback) {
+  const Node* n = get(key);
+  return n ? node_string(*n, child_path(key)) : std::move(fallback);
+}
+
+bool Reader::boolean_or(std::string_view key, bool fallback) {
+  const Node* n = get(key);
+  if (!n) return fallback;
+  std::string s = node_string(*n, child_path(key));
+  if (s == "true") return true;
+  if (s == "false") return false;
+  fail(*n, "expected true or false, got '" + s + "'", key);
+}
+
+int Reader::integer(std::string_view key, int lo, int hi) {
+  const Node& n = require(key);
+  double v = node_quantity(n, Quantity::number, Range{double(lo), double(hi)}, child_path(key));
+  if (v != std::floor(v)) fail(n, "expected a whole number, got " + n.scalar, key);
+  return static_cast<int>(v);
+}
+
+std::string Reader::choice(std::string_view key, const std::vector<std::string>& choices,
+                           std::string fallback) {
+  const Node* n = fallback.empty() ? &require(key) : get(key);
+  if (!n) return fallback;
+  std::string s = node_string(*n, child_path(key));
+  if (std::find(choices.begin(), choices.end(), s) != choices.end()) return s;
+  std::string list;
+  for (const auto& c : choices) list += (list.empty() ? "" : " | ") + c;
+  std::string near = closest(s, choices);
+  fail(*n,
+       "'" + s + "' is not one of " + list + (near.empty() ? "" : "; did you mean '" + near + "'?"),
+       key);
+}
+
+std::vector<double> Reader::quantities(std::string_view key, Quantity q, Range r) {
+  const Node& n = require(key);
+  if (n.kind != Node::Kind::sequence) fail(n, "expected a list", key);
+  std::vector<double> out;
+  out.reserve(n.items.size());
+  for (std::size_t i = 0; i < n.items.size(); ++i)
+    out.push_back(node_quantity(n.items[i], q, r, child_path(key) + "[" + std::to_string(i) + "]"));
+  return out;
+}
+
+Reader Reader::map(std::string_view key) {
+  const Node& n = require(key);
+  if (n.kind != Node::Kind::map) fail(n, "expected a map of keys", key);
+  return Reader(*doc_, n, child_path(key));
+}
+
+void Reader::finish(const std::vector<std::string>& also_known) {
+  std::vector<std::string> known = asked_;
+  known.insert(known.end(), allowed_.begin(), allowed_.end());
+  known.insert(known.end(), also_known.begin(), also_known.end());
+  for (std::size_t i = 0; i < node_->entries.size(); ++i) {
+    const std::string& k = node_->entries[i].first;
+    if (std::find(read_.begin(), read_.end(), k) != read_.end()) continue;
+    std::string near = closest(k, known);
+    throw InputError(
+        doc_->file, node_->key_marks[i],
+        "unknown key '" + k + "'" + (near.empty() ? "" : "; did you mean '" + near + "'?"),
+        child_path(k));
+  }
+}
+
+}  // namespace lapwing

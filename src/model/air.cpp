@@ -1,0 +1,48 @@
+#include "lapwing/model/air.hpp"
+
+#include <cassert>
+#include <cmath>
+
+#include "lapwing/base/units.hpp"
+
+namespace lapwing {
+
+StandardAtmosphere standard_atmosphere(double z) {
+  using namespace atmosphere;
+  // Geopotential altitude H = r z / (r + z) (ISO 2533 section 2.3).
+  const double h = earth_radius_m * z / (earth_radius_m + z);
+  assert(h <= tropopause_m && "standard_atmosphere: troposphere only");
+  // T = T0 - L H;  p = p0 (T / T0)^(g0 / (R L));  rho = p / (R T).
+  const double t = sea_level_temperature_k - lapse_rate_k_per_m * h;
+  const double p =
+      sea_level_pressure_pa * std::pow(t / sea_level_temperature_k,
+                                       units::g0 / (dry_air_gas_constant * lapse_rate_k_per_m));
+  return {t, p, p / (dry_air_gas_constant * t)};
+}
+
+double saturation_vapour_pressure_pa(double temperature_k) {
+  const double t = temperature_k - units::celsius_zero_k;
+  return 611.2 * std::exp(17.62 * t / (243.12 + t));
+}
+
+double moist_air_density(double pressure_pa, double temperature_k, double relative_humidity) {
+  // 0.378 = 1 - M_w / M_d (ratio of molar masses of water and dry air, 0.622).
+  const double e = relative_humidity * saturation_vapour_pressure_pa(temperature_k);
+  return (pressure_pa - 0.378 * e) / (atmosphere::dry_air_gas_constant * temperature_k);
+}
+
+Air make_air(const AirSpec& spec) {
+  const StandardAtmosphere isa = standard_atmosphere(spec.altitude_m);
+  Air a;
+  a.altitude_m = spec.altitude_m;
+  a.temperature_k = spec.temperature_k.value_or(isa.temperature_k);
+  a.pressure_pa = spec.pressure_pa.value_or(isa.pressure_pa);
+  a.relative_humidity = spec.relative_humidity;
+  a.standard = !spec.temperature_k && !spec.pressure_pa && spec.relative_humidity == 0.0;
+  a.density_kg_m3 = a.standard
+                        ? isa.density_kg_m3
+                        : moist_air_density(a.pressure_pa, a.temperature_k, a.relative_humidity);
+  return a;
+}
+
+}  // namespace lapwing

@@ -1,0 +1,43 @@
+#include "lapwing/model/powertrain.hpp"
+
+#include <algorithm>
+#include <cassert>
+
+namespace lapwing {
+
+double engine_torque_nm(const Powertrain& p, double w) {
+  assert(!p.ideal);
+  const auto& x = p.engine_radps;
+  const auto& y = p.torque_nm;
+  if (w > p.rev_limit_radps) return 0.0;
+  if (w <= x.front()) return y.front();  // clutch slip: engine held at its lowest speed
+  auto it = std::upper_bound(x.begin(), x.end(), w);
+  if (it == x.end()) return y.back();
+  const std::size_t i = static_cast<std::size_t>(it - x.begin());
+  const double f = (w - x[i - 1]) / (x[i] - x[i - 1]);
+  return y[i - 1] + f * (y[i] - y[i - 1]);
+}
+
+Drive best_drive(const Powertrain& p, double r, double v) {
+  if (p.ideal) {
+    constexpr double standstill_floor_mps = 1e-3;
+    return {p.efficiency * p.constant_power_w / std::max(v, standstill_floor_mps), 0, 0.0};
+  }
+  Drive best{0.0, static_cast<int>(p.gears.size()), p.rev_limit_radps};
+  for (std::size_t g = 0; g < p.gears.size(); ++g) {
+    const double ratio = p.gears[g] * p.final_drive;
+    const double w = v / r * ratio;
+    // The rev limit itself is usable (round-off at the top of the table must not lose a gear).
+    if (w > p.rev_limit_radps * (1.0 + 1e-12)) continue;
+    const double f = engine_torque_nm(p, std::min(w, p.rev_limit_radps)) * ratio * p.efficiency / r;
+    if (f > best.force_n) best = {f, static_cast<int>(g + 1), std::max(w, p.engine_radps.front())};
+  }
+  return best;
+}
+
+double rev_limited_speed_mps(const Powertrain& p, double r) {
+  if (p.ideal) return 0.0;
+  return p.rev_limit_radps * r / (p.gears.back() * p.final_drive);
+}
+
+}  // namespace lapwing

@@ -1,0 +1,251 @@
+#include "lapwing/path/mesh.hpp"
+
+#include <algorithm>
+#include <array>
+#include <cassert>
+#include <cmath>
+#include <limits>
+#include <sstream>
+
+#include "lapwing/base/units.hpp"
+
+namespace lapwing {
+
+namespace {
+
+// Five-point Gauss-Legendre rule on [-1, 1] (Abramowitz & Stegun 25.4.30): exact for polynomials
+// of degree 9; over a mesh step the heading is a quadratic of tiny span, so the error is at
+// round-off level.
+constexpr std::array<double, 5> gl_nodes{-0.9061798459386640, -0.5384693101056831, 0.0,
+                                         0.5384693101056831, 0.9061798459386640};
+constexpr std::array<double, 5> gl_weights{0.2369268850561891, 0.4786286704993665,
+                                           0.5688888888888889, 0.4786286704993665,
+                                           0.2369268850561891};
+
+// Walks the segments, giving position, heading and elevation at increasing distances.
+class Walker {
+ public:
+  explicit Walker(const Track& t) : track_(t) {}
+
+  struct State {
+    double x, y, heading, curvature, elevation, grade;
+  };
+
+  // Advances to distance s (not before the current one) and returns the state there.
+  State at(double s) {
+    // Move into the segment holding s; the last segment holds everything beyond.
+    while (seg_ + 1 < track_.segments.size() && s >= seg_start_ + seg().length_m) {
+      advance_to(seg().length_m);
+      heading0_ = heading(seg().length_m);
+      seg_start_ += seg().length_m;
+      ++seg_;
+      u_ = 0.0;
+    }
+    advance_to(std::max(u_, s - seg_start_));
+    const Segment& g = seg();
+    return {x_, y_, heading(u_), curvature(u_), z_, g.grade};
+  }
+
+ private:
+  const Segment& seg() const { return track_.segments[seg_]; }
+  double curvature(double u) const {
+    const Segment& g = seg();
+    return g.curvature_start_1pm + (g.curvature_end_1pm - g.curvature_start_1pm) * u / g.length_m;
+  }
+  // theta(u) = theta0 + k0 u + (k1 - k0) u^2 / (2 L)
+  double heading(double u) const {
+    const Segment& g = seg();
+    return heading0_ + g.curvature_start_1pm * u +
+           (g.curvature_end_1pm - g.curvature_start_1pm) * u * u / (2.0 * g.length_m);
+  }
+  // Walks on to distance u1 into the current segment.
+  void advance_to(double u1) {
+    assert(u1 >= u_);
+    // Pieces of at most max_piece_m keep the 5-point rule at round-off level however long the
+    // walk (closure() walks whole segments at once).
+    const int pieces = std::max(1, static_cast<int>(std::ceil((u1 - u_) / max_piece_m)));
+    const double piece = (u1 - u_) / pieces;
+    for (int p = 0; p < pieces; ++p) {
+      const double a = u_ + p * piece;
+      const double h = 0.5 * piece, c = a + h;
+      double dx = 0.0, dy = 0.0;
+      for (std::size_t k = 0; k < gl_nodes.size(); ++k) {
+        const double th = heading(c + h * gl_nodes[k]);
+        dx += gl_weights[k] * std::cos(th);
+        dy += gl_weights[k] * std::sin(th);
+      }
+      x_ += h * dx;
+      y_ += h * dy;
+    }
+    z_ += seg().grade * (u1 - u_);
+    u_ = u1;
+  }
+
+  static constexpr double max_piece_m = 1.0;
+  const Track& track_;
+  std::size_t seg_ = 0;
+  double seg_start_ = 0.0;  // distance at the segment's start
+  double u_ = 0.0;          // distance into the segment already walked
+  double x_ = 0.0, y_ = 0.0, z_ = 0.0, heading0_ = 0.0;
+};
+
+double wrap_angle(double a) {
+  a = std::fmod(a, 2 * units::pi);
+  if (a > units::pi) a -= 2 * units::pi;
+  if (a <= -units::pi) a += 2 * units::pi;
+  return a;
+}
+
+}  // namespace
+
+namespace {
+
+// Linear interpolation in a profile's samples at distance s (increasing calls).
+class ProfileReader {
+ public:
+  explicit ProfileReader(const PathProfile& p) : p_(p) {}
+  double at(const std::vector<double>& v, double s) {
+    while (i_ + 2 < p_.s_m.size() && p_.s_m[i_ + 1] <= s) ++i_;
+    const double a = p_.s_m[i_], b = p_.s_m[i_ + 1];
+    const double w = b > a ? std::clamp((s - a) / (b - a), 0.0, 1.0) : 0.0;
+    return v[i_] + w * (v[i_ + 1] - v[i_]);
+  }
+
+ private:
+  const PathProfile& p_;
+  std::size_t i_ = 0;
+};
+
+double turning_of(const PathProfile& p) {
+  double th = 0.0;
+  for (std::size_t i = 1; i < p.s_m.size(); ++i)
+    th += 0.5 * (p.curvature_1pm[i - 1] + p.curvature_1pm[i]) * (p.s_m[i] - p.s_m[i - 1]);
+  return th;
+}
+
+}  // namespace
+
+Closure closure(const Track& track) {
+  if (track.profile) {
+    const PathProfile& p = *track.profile;
+    const double turning = turning_of(p);
+    // A closed centerline's fitted loop ends where it starts by construction: the gap that
+    // tells is the data's, from the last point to the first.
+    const bool data_gap = track.closed && p.source == PathProfile::Source::centerline;
+    return {data_gap ? p.data_closure_gap_m
+                     : std::hypot(p.x_m.back() - p.x_m.front(), p.y_m.back() - p.y_m.front()),
+            wrap_angle(turning), p.elevation_m.back() - p.elevation_m.front(), turning};
+  }
+  Walker w(track);
+  const auto end = w.at(track.length_m());
+  return {std::hypot(end.x, end.y), wrap_angle(end.heading), end.elevation, end.heading};
+}
+
+double closure_position_tolerance_m(const Track& track) {
+  const double by_length = closure_position_fraction * track.length_m();
+  if (!track.profile) return by_length;
+  if (track.profile->source == PathProfile::Source::curvature)
+    return std::numeric_limits<double>::infinity();
+  return std::max(closure_spacings * track.profile->point_spacing_m, by_length);
+}
+
+namespace {
+
+// The track's own key for its path, which closure errors name.
+const char* path_key(const Track& track) {
+  if (!track.profile) return "segments";
+  return track.profile->source == PathProfile::Source::centerline ? "centerline" : "curvature";
+}
+
+// A closed track must close: the error states the gap and the tolerance, at the path's key.
+void check_closure(const Track& track) {
+  const Closure c = closure(track);
+  const double position_tolerance = closure_position_tolerance_m(track);
+  const bool position_bad = c.position_gap_m > position_tolerance;
+  const bool heading_bad = std::abs(c.heading_gap_rad) > closure_heading_deg * units::deg;
+  if (!position_bad && !heading_bad) return;
+  std::ostringstream os;
+  os.precision(4);
+  if (!track.profile) {
+    os << "closed track does not close: the end is " << c.position_gap_m << " m from the start"
+       << " and its heading differs by " << c.heading_gap_rad / units::deg << " deg (tolerance "
+       << closure_position_fraction * 100 << " % of the length = " << position_tolerance << " m, "
+       << closure_heading_deg << " deg)";
+  } else if (position_bad) {
+    // Only a centerline's position is checked: the fit closes its loop itself (periodic), so
+    // the data's gap is what can fail.
+    const PathProfile& p = *track.profile;
+    os << "closed centerline does not close: its last point (" << p.data_file << " line "
+       << p.last_point_line << ") is " << c.position_gap_m << " m from its first (tolerance max("
+       << closure_spacings << " x the point spacing of " << p.point_spacing_m << " m, "
+       << closure_position_fraction * 100 << " % of the length) = " << position_tolerance
+       << " m); add the missing points, or set closed: false";
+  } else {
+    os << "closed "
+       << (track.profile->source == PathProfile::Source::centerline ? "centerline"
+                                                                    : "curvature profile")
+       << " does not close: its heading at the end differs by " << c.heading_gap_rad / units::deg
+       << " deg from a whole number of turns (tolerance " << closure_heading_deg
+       << " deg); its end is " << c.position_gap_m << " m from its start";
+  }
+  throw InputError(track.file, track.segments_mark, os.str(), path_key(track));
+}
+
+}  // namespace
+
+Mesh build_mesh(const Track& track, double step_m) {
+  const double length = track.length_m();
+  if (track.closed) check_closure(track);
+  const std::size_t n =
+      std::max<std::size_t>(2, static_cast<std::size_t>(std::llround(length / step_m)));
+  Mesh m;
+  m.closed = track.closed;
+  m.length_m = length;
+  m.step_m = length / static_cast<double>(n);
+  for (auto* v : {&m.s_m, &m.x_m, &m.y_m, &m.heading_rad, &m.curvature_1pm, &m.elevation_m,
+                  &m.grade, &m.cos_slope, &m.sin_slope})
+    v->resize(n + 1);
+  if (track.profile) {
+    // From the profile's samples: curvature, grade, position and elevation linear between
+    // them; heading integrated from the curvature from the first chord's direction.
+    const PathProfile& p = *track.profile;
+    ProfileReader pr(p);
+    double heading = std::atan2(p.y_m[1] - p.y_m[0], p.x_m[1] - p.x_m[0]);
+    for (std::size_t i = 0; i <= n; ++i) {
+      const double s = (i == n) ? length : static_cast<double>(i) * m.step_m;
+      m.s_m[i] = s;
+      m.x_m[i] = pr.at(p.x_m, s);
+      m.y_m[i] = pr.at(p.y_m, s);
+      m.curvature_1pm[i] = pr.at(p.curvature_1pm, s);
+      m.grade[i] = pr.at(p.grade, s);
+      m.elevation_m[i] = pr.at(p.elevation_m, s);
+      if (i) heading += 0.5 * (m.curvature_1pm[i - 1] + m.curvature_1pm[i]) * m.step_m;
+      m.heading_rad[i] = heading;
+    }
+  }
+  Walker w(track);
+  for (std::size_t i = 0; i <= n && !track.profile; ++i) {
+    const double s = (i == n) ? length : static_cast<double>(i) * m.step_m;
+    const auto st = w.at(s);
+    m.s_m[i] = s;
+    m.x_m[i] = st.x;
+    m.y_m[i] = st.y;
+    m.heading_rad[i] = st.heading;
+    m.curvature_1pm[i] = st.curvature;
+    m.elevation_m[i] = st.elevation;
+    m.grade[i] = st.grade;
+  }
+  if (track.closed) {
+    // One lap: the last point is the first again (the closure gap is within tolerance).
+    m.curvature_1pm[n] = m.curvature_1pm[0];
+    m.grade[n] = m.grade[0];
+  }
+  for (std::size_t i = 0; i <= n; ++i) {
+    // grade = tan(angle): cos = 1 / sqrt(1 + grade^2), sin = grade cos.
+    m.cos_slope[i] = 1.0 / std::sqrt(1.0 + m.grade[i] * m.grade[i]);
+    m.sin_slope[i] = m.grade[i] * m.cos_slope[i];
+  }
+  return m;
+}
+
+}  // namespace lapwing

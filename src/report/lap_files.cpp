@@ -1,0 +1,195 @@
+#include "lapwing/report/lap_files.hpp"
+
+#include "lapwing/base/units.hpp"
+#include "lapwing/base/version.hpp"
+#include "lapwing/io/csv_writer.hpp"
+
+namespace lapwing {
+
+namespace {
+// A number, or null where it is undefined.
+void optional_field(JsonWriter& w, std::string_view key, const std::optional<double>& v) {
+  w.key(key);
+  if (v)
+    w.value(*v);
+  else
+    w.null();
+}
+
+}  // namespace
+
+void write_balance(JsonWriter& w, const BalanceSummary& b) {
+  w.key("balance")
+      .begin_object()
+      .field("static_front_share", b.static_front_share)
+      .field("aero_balance_150_kph", b.aero_balance_150);
+  optional_field(w, "aero_balance_with_drag_150_kph", b.aero_balance_eff_150);
+  w.field("aero_balance_250_kph", b.aero_balance_250);
+  optional_field(w, "aero_balance_with_drag_250_kph", b.aero_balance_eff_250);
+  w.key("lowest_front_share_accelerating_above_200_kph");
+  if (b.has_fast_acceleration)
+    w.value(b.lowest_front_share_fast);
+  else
+    w.null();
+  w.key("lowest_front_share_at_m");
+  if (b.has_fast_acceleration)
+    w.value(b.lowest_front_share_at_m);
+  else
+    w.null();
+  w.key("front_limited_corners").begin_array();
+  for (int id : b.front_limited_corners) w.value(id);
+  w.end_array()
+      .field("balance_index_threshold", b.threshold)
+      .field("front_limited_length_m", b.front_limited_length_m)
+      .end_object();
+}
+
+std::string summary_json(const std::string& car_name, const std::vector<LapSummary>& results) {
+  JsonWriter w;
+  w.begin_object().field("lapwing", version()).field("car", car_name);
+  w.key("results").begin_array();
+  for (const auto& s : results) {
+    w.begin_object()
+        .field("track", s.track_name)
+        .field("config", s.config)
+        .field("lap_time_s", s.lap_time_s)
+        .field("length_m", s.length_m)
+        .field("air_density_kg_m3", s.air_density_kg_m3)
+        .field("top_speed_kph", units::to_kph(s.top_speed_mps))
+        .field("min_speed_kph", units::to_kph(s.min_speed_mps))
+        .field("full_throttle_fraction", s.full_throttle_fraction)
+        .field("braking_fraction", s.braking_fraction)
+        .field("trimmed_fraction", s.trimmed_fraction);
+    w.key("warnings").begin_array();
+    for (const auto& text : s.warnings) w.value(text);
+    w.end_array();
+    w.key("sectors_s").numbers(s.sectors_s);
+    w.key("corners").begin_array();
+    for (const auto& c : s.corners) {
+      w.begin_object()
+          .field("id", c.id)
+          .field("start_m", c.start_m)
+          .field("apex_m", c.apex_m)
+          .field("end_m", c.end_m)
+          .field("entry_kph", units::to_kph(c.entry_mps))
+          .field("apex_kph", units::to_kph(c.apex_mps))
+          .field("exit_kph", units::to_kph(c.exit_mps))
+          .field("time_s", c.time_s)
+          .field("limit", c.limit)
+          .field("entry_axle", c.entry_axle)
+          .field("apex_axle", c.apex_axle)
+          .field("exit_axle", c.exit_axle)
+          .field("entry_balance_index", c.entry_balance_index)
+          .field("apex_balance_index", c.apex_balance_index)
+          .field("exit_balance_index", c.exit_balance_index)
+          .end_object();
+    }
+    w.end_array();
+    write_balance(w, s.balance);
+    w.end_object();
+  }
+  w.end_array().end_object();
+  return w.str();
+}
+
+namespace {
+
+// trace-TRACK-CONFIG.csv: one row per mesh point.
+struct TraceRow {
+  const Lap& lap;
+  const Mesh& mesh;
+  std::size_t i;
+};
+using TraceColumn = CsvColumn<TraceRow>;
+constexpr TraceColumn trace_columns[] = {
+    {"distance_m", [](std::string& o, const TraceRow& r) { csv_number(o, r.mesh.s_m[r.i]); }},
+    {"time_s", [](std::string& o, const TraceRow& r) { csv_number(o, r.lap.time_s[r.i]); }},
+    {"x_m", [](std::string& o, const TraceRow& r) { csv_number(o, r.mesh.x_m[r.i]); }},
+    {"y_m", [](std::string& o, const TraceRow& r) { csv_number(o, r.mesh.y_m[r.i]); }},
+    {"curvature_1pm",
+     [](std::string& o, const TraceRow& r) { csv_number(o, r.mesh.curvature_1pm[r.i]); }},
+    {"speed_kph",
+     [](std::string& o, const TraceRow& r) { csv_number(o, units::to_kph(r.lap.speed_mps[r.i])); }},
+    {"long_accel_g",
+     [](std::string& o, const TraceRow& r) {
+       csv_number(o, r.lap.long_accel_mps2[r.i] / units::g0);
+     }},
+    {"lat_accel_g",
+     [](std::string& o, const TraceRow& r) {
+       csv_number(o, r.lap.lat_accel_mps2[r.i] / units::g0);
+     }},
+    {"gear", [](std::string& o, const TraceRow& r) { o += std::to_string(r.lap.gear[r.i]); }},
+    {"rpm", [](std::string& o,
+               const TraceRow& r) { csv_number(o, r.lap.engine_radps[r.i] / units::rpm); }},
+    {"phase", [](std::string& o, const TraceRow& r) { o += phase_name(r.lap.phase[r.i]); }},
+    {"drag_N", [](std::string& o, const TraceRow& r) { csv_number(o, r.lap.drag_n[r.i]); }},
+    {"downforce_N",
+     [](std::string& o, const TraceRow& r) { csv_number(o, r.lap.downforce_n[r.i]); }},
+    {"front_load_N",
+     [](std::string& o, const TraceRow& r) { csv_number(o, r.lap.front_load_n[r.i]); }},
+    {"rear_load_N",
+     [](std::string& o, const TraceRow& r) { csv_number(o, r.lap.rear_load_n[r.i]); }},
+    {"front_share",
+     [](std::string& o, const TraceRow& r) { csv_number(o, r.lap.front_share[r.i]); }},
+    // Empty where the car has no downforce (the share of no load is undefined).
+    {"aero_balance_eff",
+     [](std::string& o, const TraceRow& r) {
+       csv_number_or_empty(o, r.lap.aero_balance_eff[r.i]);
+     }},
+    {"front_usage",
+     [](std::string& o, const TraceRow& r) { csv_number(o, r.lap.front_usage[r.i]); }},
+    {"rear_usage", [](std::string& o, const TraceRow& r) { csv_number(o, r.lap.rear_usage[r.i]); }},
+    {"balance_index",
+     [](std::string& o, const TraceRow& r) {
+       csv_number(o, r.lap.front_usage[r.i] - r.lap.rear_usage[r.i]);
+     }},
+};
+
+// corners.csv: one row per corner of every result.
+struct CornerRow {
+  const LapSummary& s;
+  const CornerResult& c;
+};
+using CornerColumn = CsvColumn<CornerRow>;
+constexpr CornerColumn corner_columns[] = {
+    {"track", [](std::string& o, const CornerRow& r) { csv_text(o, r.s.track_name); }},
+    {"config", [](std::string& o, const CornerRow& r) { csv_text(o, r.s.config); }},
+    {"id", [](std::string& o, const CornerRow& r) { o += std::to_string(r.c.id); }},
+    {"start_m", [](std::string& o, const CornerRow& r) { csv_number(o, r.c.start_m); }},
+    {"apex_m", [](std::string& o, const CornerRow& r) { csv_number(o, r.c.apex_m); }},
+    {"end_m", [](std::string& o, const CornerRow& r) { csv_number(o, r.c.end_m); }},
+    {"entry_kph",
+     [](std::string& o, const CornerRow& r) { csv_number(o, units::to_kph(r.c.entry_mps)); }},
+    {"apex_kph",
+     [](std::string& o, const CornerRow& r) { csv_number(o, units::to_kph(r.c.apex_mps)); }},
+    {"exit_kph",
+     [](std::string& o, const CornerRow& r) { csv_number(o, units::to_kph(r.c.exit_mps)); }},
+    {"time_s", [](std::string& o, const CornerRow& r) { csv_number(o, r.c.time_s); }},
+    {"limit", [](std::string& o, const CornerRow& r) { csv_text(o, r.c.limit); }},
+    {"entry_axle", [](std::string& o, const CornerRow& r) { csv_text(o, r.c.entry_axle); }},
+    {"apex_axle", [](std::string& o, const CornerRow& r) { csv_text(o, r.c.apex_axle); }},
+    {"exit_axle", [](std::string& o, const CornerRow& r) { csv_text(o, r.c.exit_axle); }},
+    {"entry_balance_index",
+     [](std::string& o, const CornerRow& r) { csv_number(o, r.c.entry_balance_index); }},
+    {"apex_balance_index",
+     [](std::string& o, const CornerRow& r) { csv_number(o, r.c.apex_balance_index); }},
+    {"exit_balance_index",
+     [](std::string& o, const CornerRow& r) { csv_number(o, r.c.exit_balance_index); }},
+};
+
+}  // namespace
+
+std::string trace_csv(const Lap& lap, const Mesh& mesh) {
+  CsvWriter<TraceRow> w(trace_columns, mesh.size());
+  for (std::size_t i = 0; i < mesh.size(); ++i) w.add({lap, mesh, i});
+  return w.take();
+}
+
+std::string corners_csv(const std::vector<LapSummary>& results) {
+  CsvWriter<CornerRow> w(corner_columns);
+  for (const auto& s : results)
+    for (const auto& c : s.corners) w.add({s, c});
+  return w.take();
+}
+
+}  // namespace lapwing

@@ -1,0 +1,201 @@
+#include "lapwing/solve/envelope.hpp"
+
+#include <boost/math/tools/roots.hpp>
+
+#include <algorithm>
+#include <cassert>
+#include <cmath>
+#include <functional>
+#include <stdexcept>
+#include <string>
+
+#include "lapwing/base/error.hpp"
+#include "lapwing/base/interpolate.hpp"
+#include "lapwing/base/units.hpp"
+#include "lapwing/model/powertrain.hpp"
+
+namespace lapwing {
+
+const char* top_speed_limit_name(TopSpeedLimit l) {
+  switch (l) {
+    case TopSpeedLimit::drag:
+      return "drag";
+    case TopSpeedLimit::rev_limit:
+      return "rev limit";
+    case TopSpeedLimit::ceiling:
+      return "table ceiling";
+  }
+  return "drag";
+}
+
+namespace {
+
+// A ride-height map's operating point at speed v from the guess (hf, hr), which it updates
+// (continuation from the last speed); a map that does not converge is the car file's error.
+AeroPoint map_point(const Car& car, const AeroConfig& a, double v, double rho, double& hf,
+                    double& hr) {
+  AeroPoint pt;
+  try {
+    pt = solve_ride_heights(*a.map, v, rho, car.drag_height_m, car.wheelbase_m, hf, hr);
+  } catch (const std::runtime_error& e) {
+    throw InputError(a.file, a.mark,
+                     std::string(e.what()) + " at " + std::to_string(v / units::kph) +
+                         " km/h (config " + a.name + ")",
+                     "aero.configs." + a.name + ".ride_height_map");
+  }
+  hf = pt.front_ride_m;
+  hr = pt.rear_ride_m;
+  return pt;
+}
+
+AeroPoint table_point(const AeroConfig& a, double v) {
+  return {interpolate(a.speed_mps, a.cda_m2, v), interpolate(a.speed_mps, a.cla_m2, v),
+          interpolate(a.speed_mps, a.balance, v), 0.0, 0.0};
+}
+
+// The first speed on a grid of `step` at which a gearless car's drive falls below its
+// resistance on the level, with and without the straight-line trim (the higher of the two top
+// speeds), read straight from the config's data; 0 when there is none up to `ceiling`.
+double level_top_speed_bound(const Car& car, double rho, double step, double ceiling) {
+  const AeroConfig& a = car.configs.front();
+  const double weight = car.mass_kg * units::g0, crr = car.tyres.rolling_resistance;
+  double hf = a.map ? a.map->static_front_m : 0.0, hr = a.map ? a.map->static_rear_m : 0.0;
+  // Resistance on the level: 0.5 rho CdA v^2 + Crr (m g + 0.5 rho ClA v^2).
+  auto resistance = [&](double cda, double cla, double v) {
+    const double q = 0.5 * rho * v * v;
+    return cda * q + crr * (weight + cla * q);
+  };
+  const std::size_t steps = static_cast<std::size_t>(std::ceil(ceiling / step));
+  for (std::size_t k = 1; k <= steps; ++k) {
+    const double v = std::min(ceiling, static_cast<double>(k) * step);
+    const AeroPoint c = a.map ? map_point(car, a, v, rho, hf, hr) : table_point(a, v);
+    double r = resistance(c.cda_m2, c.cla_m2, v);
+    if (a.trim)
+      r = std::min(r, resistance(c.cda_m2 + a.trim->dcda_m2, c.cla_m2 + a.trim->dcla_m2, v));
+    if (best_drive(car.powertrain, car.tyres.rolling_radius_m, v).force_n < r) return v;
+  }
+  return 0.0;
+}
+
+}  // namespace
+
+Envelope::Envelope(const Car& car, const Air& air, EnvelopeOptions options)
+    : car_(car),
+      tyres_(car.tyres),
+      mass_(car.mass_kg),
+      mass_eff_(car.mass_kg * (1.0 + car.inertia_factor)),
+      weight_(car.mass_kg * units::g0),
+      crr_(car.tyres.rolling_resistance),
+      rho_(air.density_kg_m3),
+      table_margin_(options.table_margin) {
+  assert(car.configs.size() == 1 && "Envelope takes a configured car");
+  assert(options.speed_points >= 2);
+  assert(options.table_margin > 1.0 && options.speed_ceiling_mps > 0.0);
+  const Powertrain& p = car.powertrain;
+  const AeroConfig& a = car.configs.front();
+  const double r = car.tyres.rolling_radius_m;
+  // The tables' top, from the car. A geared car: its rev limit in top gear, beyond which the
+  // engine gives nothing and the speed is held (the model's cap). A gearless car: its
+  // level-road top speed times the margin (found on a 0.5 m/s grid from the config's own data,
+  // so that the tables' rows do not depend on where the search looked). Never above the ceiling.
+  const double ceiling = options.speed_ceiling_mps;
+  if (!p.ideal) {
+    const double v_rev = rev_limited_speed_mps(p, r);
+    v_max_ = std::min(v_rev, ceiling);
+    table_top_ = v_rev <= ceiling ? TopSpeedLimit::rev_limit : TopSpeedLimit::ceiling;
+  } else {
+    constexpr double search_step_mps = 0.5;
+    const double bound = level_top_speed_bound(car, rho_, search_step_mps, ceiling);
+    const bool finite = bound > 0.0 && options.table_margin * bound < ceiling;
+    v_max_ = finite ? options.table_margin * bound : ceiling;
+    table_top_ = finite ? TopSpeedLimit::drag : TopSpeedLimit::ceiling;
+  }
+  du_ = v_max_ * v_max_ / static_cast<double>(options.speed_points - 1);
+  inv_du_ = 1.0 / du_;
+  const std::size_t n = options.speed_points;
+  // Aero coefficients over speed: from the config's rows, or from ride heights solved at each
+  // speed of a grid (with continuation from the last) for a ride-height map.
+  std::function<AeroPoint(double)> aero_at;
+  if (a.map) {
+    constexpr double map_step_mps = 0.5;
+    const std::size_t steps = static_cast<std::size_t>(std::ceil(v_max_ / map_step_mps));
+    map_dv_ = v_max_ / static_cast<double>(steps);
+    double hf = a.map->static_front_m, hr = a.map->static_rear_m;
+    for (std::size_t k = 0; k <= steps; ++k) {
+      const double v = static_cast<double>(k) * map_dv_;
+      const AeroPoint pt = map_point(car, a, v, rho_, hf, hr);
+      if (pt.off_map && off_map_speed_ < 0.0) off_map_speed_ = v;
+      if (pt.grounded && grounded_speed_ < 0.0) grounded_speed_ = v;
+      map_points_.push_back(pt);
+    }
+    aero_at = [this](double v) { return aero_point(v); };
+  } else {
+    aero_at = [&a](double v) { return table_point(a, v); };
+  }
+  rows_.resize(n);
+  gear_.resize(n);
+  if (a.trim) {
+    trim_rows_.resize(n);
+    trim_below_curvature_ = a.trim->below_curvature_1pm;
+  }
+  for (std::size_t k = 0; k < n; ++k) {
+    const double v = k + 1 == n ? v_max_ : std::sqrt(static_cast<double>(k) * du_);
+    const Drive d = best_drive(p, r, v);
+    const AeroPoint c = aero_at(v);
+    rows_[k] = {d.force_n, 0.5 * rho_ * c.cda_m2, 0.5 * rho_ * c.cla_m2, c.balance};
+    gear_[k] = d.gear;
+    if (a.trim) {
+      const StraightTrim& t = *a.trim;
+      const double cda = c.cda_m2 + t.dcda_m2, cla = c.cla_m2 + t.dcla_m2,
+                   bal = c.balance + t.dbalance;
+      if (cda < 0.0 || cla < 0.0 || bal < 0.0 || bal > 1.0)
+        throw InputError(a.file, a.mark,
+                         "straight_trim takes CdA, ClA or balance out of range at " +
+                             std::to_string(v / units::kph) + " km/h (CdA " + std::to_string(cda) +
+                             ", ClA " + std::to_string(cla) + ", balance " + std::to_string(bal) +
+                             ")",
+                         "aero.configs." + a.name + ".straight_trim");
+      trim_rows_[k] = {d.force_n, 0.5 * rho_ * cda, 0.5 * rho_ * cla, bal};
+    }
+  }
+  // Top speed on the level: the one speed where drive = resistance (REFERENCES: the cubic
+  // eta P = (k v^2 + Crr m g) v for constant power); the tables' top (the rev limit or the
+  // ceiling) when drive still exceeds it there.
+  const bool trimmed = has_trim();
+  auto excess = [&](double v) { return drive_n(v) - resistance_n(v, 1.0, 0.0, trimmed); };
+  if (excess(v_max_) >= 0.0) {
+    v_top_ = v_max_;
+    top_limit_ =
+        table_top_ == TopSpeedLimit::rev_limit ? TopSpeedLimit::rev_limit : TopSpeedLimit::ceiling;
+  } else if (excess(0.0) <= 0.0) {
+    v_top_ = 0.0;  // cannot move: reported by the solver where it matters
+  } else {
+    std::uintmax_t iters = 200;
+    auto [lo, hi] =
+        boost::math::tools::toms748_solve(excess, 0.0, v_max_, excess(0.0), excess(v_max_),
+                                          boost::math::tools::eps_tolerance<double>(48), iters);
+    v_top_ = 0.5 * (lo + hi);
+  }
+}
+
+AeroPoint Envelope::aero_point(double v) const {
+  if (map_points_.empty()) return table_point(car_.configs.front(), v);
+  const double f = std::clamp(v / map_dv_, 0.0, static_cast<double>(map_points_.size() - 1));
+  const std::size_t i = std::min(static_cast<std::size_t>(f), map_points_.size() - 2);
+  const double w = f - static_cast<double>(i);
+  const AeroPoint& p = map_points_[i];
+  const AeroPoint& q = map_points_[i + 1];
+  auto mix = [w](double x, double y) { return x + w * (y - x); };
+  return {mix(p.cda_m2, q.cda_m2),           mix(p.cla_m2, q.cla_m2),
+          mix(p.balance, q.balance),         mix(p.front_ride_m, q.front_ride_m),
+          mix(p.rear_ride_m, q.rear_ride_m), p.off_map || q.off_map,
+          p.grounded || q.grounded};
+}
+
+std::size_t Envelope::index(double v) const {
+  // The row at or below v: the gear in use up to the speed where the next one takes over.
+  const double f = std::clamp(v * v * inv_du_, 0.0, static_cast<double>(rows_.size() - 1));
+  return static_cast<std::size_t>(f);
+}
+
+}  // namespace lapwing

@@ -1,0 +1,685 @@
+#include "lapwing/solve/solver.hpp"
+
+#include <boost/math/tools/roots.hpp>
+
+#include <algorithm>
+#include <array>
+#include <cassert>
+#include <cmath>
+#include <limits>
+#include <sstream>
+#include <tuple>
+#include <utility>
+
+#include "lapwing/base/error.hpp"
+#include "lapwing/base/units.hpp"
+#include "lapwing/solve/axle.hpp"
+
+namespace lapwing {
+
+std::string_view phase_name(Phase p) {
+  switch (p) {
+    case Phase::accelerate:
+      return "accelerate";
+    case Phase::brake:
+      return "brake";
+    case Phase::corner:
+      return "corner";
+    case Phase::shift:
+      return "shift";
+    case Phase::top_speed:
+      return "top_speed";
+  }
+  return "accelerate";
+}
+
+namespace {
+
+// cos and sin of the road's slope angle at a mesh point (Mesh keeps them: grade = tan(angle)).
+struct Slope {
+  double cos, sin;
+  Slope(double c, double s) : cos(c), sin(s) {}
+  Slope(const Mesh& m, std::size_t i) : cos(m.cos_slope[i]), sin(m.sin_slope[i]) {}
+};
+
+// Bracketing tolerance for steady speeds: 36 bits, about 1e-11 relative.
+constexpr int steady_bits = 36;
+
+// A sweep that lands within this share of the limit is on it: the steady limit is known to
+// 2^-36 of itself and the axle model's accelerations to 1e-9 m/s^2, and a forward sweep that
+// settles on a limit where the drive is exactly spent (a = 0 there) lands a rounding error under
+// it or over it. Without the margin such a point read `accelerate` or `corner` by the sign of
+// that error, and a hairpin's limit with it.
+constexpr double clip_tolerance = 1e-9;
+
+// The forces along the path at speed v on a point of curvature |kappa| and slope: what the
+// tyres have left for Fx after the lateral demand m v^2 |kappa| (friction ellipse), the
+// resistance (drag + rolling + grade), and the drive in the best gear. One table read.
+struct PathForces {
+  double grip_left_n, resistance_n, drive_n;
+};
+[[gnu::always_inline]] inline PathForces path_forces(const Envelope& env,
+                                                     const Envelope::Rows& rows, double v2,
+                                                     double abs_curvature, const Slope& slope) {
+  const Envelope::Sample s = rows.at(v2);
+  const double load = env.weight_n() * slope.cos + s.lift_coef * v2;
+  const TyreModel::Limits lim = env.tyres().limits(load);
+  const double fy = env.mass_kg() * v2 * abs_curvature;
+  return {env.tyres().long_force_left(lim, fy),
+          s.drag_coef * v2 + env.rolling_resistance() * load + env.weight_n() * slope.sin,
+          s.drive_n};
+}
+
+// The model's accelerations (m/s^2) at u = v^2 on a point of curvature |k|, positive along the
+// sweep's own direction of travel. The rotating parts' inertia counts only where the engine
+// limits (Gillespie, Fundamentals of Vehicle Dynamics, ch. 2-3):
+//   drive:   a = min((share x drive - R) / m_eff, (grip left - R) / m)
+//   braking: a = (grip left + R) / m
+// at the tyres' limit the road force acts on m, and the engine (or the brakes) supply the torque
+// that spins the wheels up (or down). The axle model's forms are in axle.hpp.
+struct InverseMass {
+  double m, m_eff;  // 1 / m, 1 / m_eff: no division per stage
+};
+template <bool Axle>
+[[gnu::always_inline]] inline double drive_accel(const Envelope& env, const Envelope::Rows& rows,
+                                                 double u, double k, const Slope& slope,
+                                                 bool trimmed, double drive_share,
+                                                 const InverseMass& inv) {
+  if constexpr (Axle) {
+    return axle_drive_accel(env, u, k, slope.cos, slope.sin, drive_share * rows.at(u).drive_n,
+                            trimmed);
+  } else {
+    const PathForces f = path_forces(env, rows, u, k, slope);
+    return std::min((drive_share * f.drive_n - f.resistance_n) * inv.m_eff,
+                    (f.grip_left_n - f.resistance_n) * inv.m);
+  }
+}
+template <bool Axle>
+[[gnu::always_inline]] inline double brake_accel(const Envelope& env, const Envelope::Rows& rows,
+                                                 double u, double k, const Slope& slope,
+                                                 const InverseMass& inv) {
+  if constexpr (Axle) {
+    return axle_brake_accel(env, u, k, slope.cos, slope.sin);
+  } else {
+    const PathForces f = path_forces(env, rows, u, k, slope);
+    return (f.grip_left_n + f.resistance_n) * inv.m;
+  }
+}
+
+std::string where(const Mesh& mesh, std::size_t i) {
+  std::ostringstream os;
+  os.precision(6);
+  os << mesh.s_m[i] << " m";
+  return os.str();
+}
+
+// Highest v in [0, v_max] with f(v) <= 0, for f <= 0 at 0 and monotone enough to have one
+// crossing; f(v_max) <= 0 gives v_max. `hint` (the answer at the previous mesh point, or 0)
+// first tries a bracket of +-2 % around it, which neighbouring points nearly always share.
+template <typename F>
+double highest_feasible(F f, double v_max, double hint) {
+  namespace tools = boost::math::tools;
+  const double f_hi = f(v_max);
+  if (f_hi <= 0.0) return v_max;
+  std::uintmax_t iters = 100;
+  if (hint > 0.0 && hint < v_max) {
+    const double a = 0.98 * hint, b = std::min(1.02 * hint, v_max);
+    const double fa = f(a);
+    if (fa <= 0.0) {
+      const double fb = f(b);
+      if (fb > 0.0)
+        return tools::toms748_solve(f, a, b, fa, fb, tools::eps_tolerance<double>(steady_bits),
+                                    iters)
+            .first;
+    }
+  }
+  const double f_lo = f(0.0);
+  if (f_lo > 0.0) return 0.0;
+  // The feasible end of the final bracket.
+  return tools::toms748_solve(f, 0.0, v_max, f_lo, f_hi, tools::eps_tolerance<double>(steady_bits),
+                              iters)
+      .first;
+}
+
+}  // namespace
+
+SteadyProfile steady_profile(const Envelope& env, const Mesh& mesh) {
+  SteadyProfile p;
+  steady_profile(env, mesh, p);
+  return p;
+}
+
+void steady_profile(const Envelope& env, const Mesh& mesh, SteadyProfile& p) {
+  const std::size_t n = mesh.size();
+  p.speed_mps.resize(n);
+  p.limit.resize(n);
+  const double v_max = env.max_speed_mps();
+  const TyreModel& tyres = env.tyres();
+  const bool axle = env.car().model == VehicleModel::axle;
+  double last_grade = std::nan(""), last_curv = std::nan("");
+  bool last_trimmed = false;
+  double v_engine = 0.0, v_grip = 0.0;
+  for (std::size_t i = 0; i < n; ++i) {
+    const double grade = mesh.grade[i], curv = std::abs(mesh.curvature_1pm[i]);
+    const Slope slope(mesh, i);
+    // The engine's limit is reached under full drive, where the straight-line trim applies.
+    const bool trimmed = env.trims(curv);
+    if (grade != last_grade || trimmed != last_trimmed) {
+      // Engine: drive in the best gear >= resistance, the top speed on this grade.
+      v_engine = highest_feasible(
+          [&](double v) {
+            return env.resistance_n(v, slope.cos, slope.sin, trimmed) - env.drive_n(v);
+          },
+          v_max, v_engine);
+    }
+    last_trimmed = trimmed;
+    if (grade != last_grade || curv != last_curv) {
+      // Tyres: (|R| / Fx_max)^n + (m v^2 |kappa| / Fy_max)^n <= 1, R = resistance to hold v.
+      // With the axle model, on the axle that saturates first.
+      v_grip =
+          axle ? highest_feasible(
+                     [&](double v) {
+                       return axle_steady_excess(env, v, curv, slope.cos, slope.sin);
+                     },
+                     v_max, v_grip)
+               : highest_feasible(
+                     [&](double v) {
+                       const double load = env.normal_load_n(v, slope.cos);
+                       const double fx = std::abs(env.resistance_n(v, slope.cos, slope.sin));
+                       const double fy = env.mass_kg() * v * v * curv;
+                       return tyres.usage(fx / tyres.fx_max(load), fy / tyres.fy_max(load)) - 1.0;
+                     },
+                     v_max, v_grip);
+    }
+    last_grade = grade;
+    last_curv = curv;
+    if (v_grip < v_engine) {
+      p.speed_mps[i] = v_grip;
+      p.limit[i] = SteadyLimit::grip;
+    } else {
+      p.speed_mps[i] = v_engine;
+      p.limit[i] = SteadyLimit::engine;
+    }
+    if (!(p.speed_mps[i] > 0.0))
+      throw CannotMove("the car cannot hold any speed at " + where(mesh, i) + " (" +
+                       (p.limit[i] == SteadyLimit::engine
+                            ? "drive never exceeds the resistance on this grade"
+                            : "the tyres cannot hold the car on this grade") +
+                       ")");
+  }
+}
+
+namespace {
+
+// One sweep, one step at a time, so that the forward and the backward sweep can advance in
+// lockstep: two independent chains of dependent arithmetic keep the processor busier than one
+// (each RK4 stage waits on the last). Forward and backward differ only in the acceleration.
+// `Axle` picks the vehicle model at compile time (one branch per lap, none per stage).
+template <bool Axle>
+class Sweeper {
+  SweepResult& r_;
+
+ public:
+  Sweeper(const Envelope& env, const Mesh& mesh, Sweep direction, const std::vector<double>& limit,
+          std::size_t start, double v_start, SweepResult& out)
+      : r_(out),
+        env_(env),
+        mesh_(mesh),
+        limit_(limit),
+        forward_(direction == Sweep::forward),
+        ideal_(env.car().powertrain.ideal),
+        n_(mesh.size()),
+        period_(mesh.closed ? n_ - 1 : n_),
+        ds_(mesh.step_m),
+        inv_mass_{1.0 / env.mass_kg(), 1.0 / env.effective_mass_kg()},
+        shift_time_(env.car().powertrain.shift_time_s),
+        i_(start),
+        v_(v_start) {
+    r_.speed_mps.resize(n_);  // every point is written on the way
+    r_.clipped.assign(n_, 0);
+    r_.cut.assign(n_, 0);
+    r_.gear.assign(n_, 0);
+    r_.speed_mps[start] = v_;
+    gear_ = ideal_ ? 0 : env.gear(v_);
+    r_.gear[start] = gear_;
+  }
+
+  /// Steps this sweep takes over the mesh from its start.
+  std::size_t steps() const {
+    if (mesh_.closed) return period_;
+    return forward_ ? n_ - 1 - i_ : i_;
+  }
+
+  /// Prepares the step from the current point to the next; returns u = v^2 there.
+  [[gnu::always_inline]] double begin_step() {
+    const std::size_t i = i_;
+    // Next point along the sweep; a closed mesh wraps through its seam (point n-1 == point 0).
+    if (forward_)
+      j_ = (i + 1 == period_ && mesh_.closed) ? 0 : i + 1;
+    else
+      j_ = (i == 0) ? period_ - 1 : i - 1;
+    // Curvature varies linearly over the step; the grade is that of the step's first point in
+    // distance (piecewise constant along segments).
+    k0_ = std::abs(mesh_.curvature_1pm[i]);
+    dk_ = (std::abs(mesh_.curvature_1pm[j_]) - k0_) / ds_;
+    // The limit in u = v^2 over the step, linear between its ends: no stage state goes above it.
+    ulim0_ = limit_[i] * limit_[i];
+    dulim_ = (limit_[j_] * limit_[j_] - ulim0_) / ds_;
+    slope_ = Slope(mesh_, forward_ ? i : j_);
+    // Under drive, movable aero trims where the step starts on a straight enough piece; under
+    // braking it does not.
+    trimmed_ = forward_ && env_.trims(k0_);
+    rows_ = env_.rows(trimmed_);
+    drive_share_ = 1.0;
+    if (forward_ && cut_left_s_ > 0.0) {
+      // Share of this step's time (estimated at the entry speed) with the drive still on.
+      const double step_time = ds_ / std::max(v_, 1e-3);
+      drive_share_ = 1.0 - std::min(1.0, cut_left_s_ / step_time);
+    }
+    return v_ * v_;
+  }
+
+  /// d(v^2)/dx = 2 a at u = v^2, a distance x (0 .. ds) into the step, along the sweep's own
+  /// direction of travel: forward under drive, backward under braking.
+  [[gnu::always_inline]] double rhs(double u, double x) const {
+    const double u0 = std::max(u, 0.0);
+    const double k = k0_ + dk_ * x;
+    return 2.0 * (forward_ ? drive_accel<Axle>(env_, rows_, u0, k, slope_, trimmed_, drive_share_,
+                                               inv_mass_)
+                           : brake_accel<Axle>(env_, rows_, u0, k, slope_, inv_mass_));
+  }
+
+  /// The limit in u = v^2 a distance x into the step (linear between the step's ends).
+  double cap(double x) const { return ulim0_ + dulim_ * x; }
+
+  /// Takes the integrated u at the next point: clips it to the limit and moves there.
+  [[gnu::always_inline]] void end_step(double u) {
+    const std::size_t j = j_;
+    if (!(u > 0.0))
+      throw CannotMove("the car stops at " + where(mesh_, j) +
+                       ": drive cannot overcome the resistance there");
+    double v_next = std::sqrt(u);
+    if (v_next >= limit_[j] * (1.0 - clip_tolerance)) {
+      v_next = limit_[j];
+      r_.clipped[j] = 1;
+    }
+    if (forward_) {
+      const double dt = 2.0 * ds_ / (v_ + v_next);
+      if (cut_left_s_ > 0.0) {
+        // The point counts as cut when the drive was off for at least half of the step that
+        // reached it: the cut's share of the lap is then the same on any mesh (rounded to the
+        // nearest step, not up to the next).
+        r_.cut[j] = cut_left_s_ >= 0.5 * dt;
+        cut_left_s_ = std::max(0.0, cut_left_s_ - dt);
+      }
+      if (!ideal_) {
+        // An upshift cuts the drive. The speed lost in the cut must not shift back down (that
+        // would hunt at the shift point): under drive the engaged gear only goes up; it
+        // follows the speed down only where a limit, not the drive, set the speed.
+        const int best = env_.gear(v_next);
+        if (best > gear_ && shift_time_ > 0.0) cut_left_s_ = shift_time_;
+        if (best > gear_ || r_.clipped[j]) gear_ = best;
+      }
+      r_.gear[j] = gear_;
+    }
+    r_.speed_mps[j] = v_next;
+    v_ = v_next;
+    i_ = j;
+  }
+
+  void finish() {
+    if (mesh_.closed) {
+      // The seam: point n-1 is point 0 again.
+      r_.speed_mps[n_ - 1] = r_.speed_mps[0];
+      r_.clipped[n_ - 1] = r_.clipped[0];
+      r_.cut[n_ - 1] = r_.cut[0];
+      r_.gear[n_ - 1] = r_.gear[0];
+    }
+  }
+
+ private:
+  const Envelope& env_;
+  const Mesh& mesh_;
+  const std::vector<double>& limit_;
+  const bool forward_, ideal_;
+  const std::size_t n_, period_;
+  const double ds_;
+  const InverseMass inv_mass_;
+  const double shift_time_;
+  std::size_t i_;
+  double v_;
+  // The step in progress.
+  std::size_t j_ = 0;
+  double k0_ = 0.0, dk_ = 0.0, drive_share_ = 1.0;
+  double ulim0_ = 0.0, dulim_ = 0.0;  // the limit in u at the step's start, and its slope
+  bool trimmed_ = false;
+  Envelope::Rows rows_{nullptr, 0, 0.0};  // the table the step reads
+  Slope slope_{1.0, 0.0};
+  int gear_ = 0;
+  double cut_left_s_ = 0.0;  // drive cut still to run after an upshift
+};
+
+}  // namespace
+
+namespace {
+
+constexpr double stiff_z = 1.0;     // |z| up to which RK4 is taken as it is
+constexpr int max_substeps = 16;    // per split; splits nest twice at most
+constexpr int max_split_depth = 2;  // worst case 16 x 16 substeps for one step
+// Below this relative spread of the mid-point stage states the estimate of z is rounding: the
+// sweep is within 1e-6 of a settled state and the step is taken as it is.
+constexpr double z_resolution = 1e-6;
+
+// The step. Classical fourth-order Runge-Kutta (Kutta 1901; Hairer, Norsett & Wanner, Solving
+// Ordinary Differential Equations I, sec. II.1) with two guards that the grip limit needs:
+//  - every stage state is held at or under the sweep's limit (linear in u over the step), so no
+//    stage reads the tyres beyond their steady limit, where the force left by the ellipse falls
+//    to nothing and d(v^2)/ds is not smooth;
+//  - near the limit d(v^2)/ds is stiff: for the sports car in a 15 m hairpin (sea-level air)
+//    z = ds d(du/ds)/du = 2 ds da/du is -0.13 at 90 % of the limiting v^2, -1.4 at 99.9 % and
+//    -4.2 on the limit at 0.5 m (computed here), outside RK4's stability interval on the real
+//    axis: |R(z)| = |1 + z + z^2/2 + z^3/6 + z^4/24| <= 1 down to z = -2.785 (Hairer & Wanner,
+//    Solving ODEs II, sec. IV.2). There the sweep oscillated just under the limit and never
+//    reached it. A step whose stage states had to be held, or whose z
+//    (estimated from its two mid-point stages, (k3 - k2) / (y3 - y2) = du'/du for free) is above
+//    1 in size, is taken again in substeps short enough for |z| <= 1, where RK4 follows
+//    exp(z) to 2 % per substep. The step is then what a finer mesh gives, and the sweep settles
+//    on the limit as the exact solution does. A step that starts on the limit and ends on it or
+//    above (the sweep holds the limit: most of the backward sweep, every arc taken at the limit)
+//    is clipped whatever its stages: it is not taken again.
+struct StageCheck {
+  double u1;   // u at the step's end
+  double z;    // step x d(du/ds)/du, estimated; 0 where the stages cannot tell
+  bool held;   // a stage state was held at the limit
+  bool stays;  // starts on the limit and ends on it or above
+  bool flagged() const { return !stays && (held || std::abs(z) > stiff_z); }
+};
+
+// One RK4 step of length h from x0 for N sweeps at once (N = 2: forward and backward in lockstep,
+// two independent chains of dependent arithmetic that keep the processor busier than one).
+template <class Sw, std::size_t N>
+[[gnu::always_inline]] inline std::array<StageCheck, N> rk4(const std::array<Sw*, N>& s,
+                                                            const std::array<double, N>& u0,
+                                                            double x0, double h) {
+  std::array<double, N> y1, k1, y2, k2, y3, k3, k4;
+  std::array<bool, N> held{};
+  const double xm = x0 + 0.5 * h, x1 = x0 + h;
+  for (std::size_t c = 0; c < N; ++c) {
+    const double top = s[c]->cap(x0);
+    held[c] = u0[c] > top;
+    y1[c] = held[c] ? top : u0[c];
+    k1[c] = s[c]->rhs(y1[c], x0);
+  }
+  for (std::size_t c = 0; c < N; ++c) {
+    const double y = y1[c] + 0.5 * h * k1[c], top = s[c]->cap(xm);
+    held[c] |= y > top;
+    y2[c] = std::min(y, top);
+    k2[c] = s[c]->rhs(y2[c], xm);
+  }
+  for (std::size_t c = 0; c < N; ++c) {
+    const double y = y1[c] + 0.5 * h * k2[c], top = s[c]->cap(xm);
+    held[c] |= y > top;
+    y3[c] = std::min(y, top);
+    k3[c] = s[c]->rhs(y3[c], xm);
+  }
+  for (std::size_t c = 0; c < N; ++c) {
+    const double y = y1[c] + h * k3[c], top = s[c]->cap(x1);
+    held[c] |= y > top;
+    k4[c] = s[c]->rhs(std::min(y, top), x1);
+  }
+  std::array<StageCheck, N> out;
+  for (std::size_t c = 0; c < N; ++c) {
+    const double u1 = y1[c] + h / 6.0 * (k1[c] + 2.0 * (k2[c] + k3[c]) + k4[c]);
+    const double dy = y3[c] - y2[c], dk = h * (k3[c] - k2[c]);
+    // |z| = |dk / dy| > stiff_z, without a division on the common path.
+    const bool stiff =
+        std::abs(dk) > stiff_z * std::abs(dy) && std::abs(dy) > z_resolution * std::max(y2[c], 1.0);
+    out[c] = {u1, stiff ? dk / dy : 0.0, held[c], false};
+    if (held[c] || stiff)  // on the limit as end_step clips (v within clip_tolerance)
+      out[c].stays = u0[c] >= s[c]->cap(x0) * (1.0 - 2.0 * clip_tolerance) &&
+                     u1 >= s[c]->cap(x1) * (1.0 - 2.0 * clip_tolerance);
+  }
+  return out;
+}
+
+// Substeps for a step (or substep) that rk4 flagged: |z| <= stiff_z each, as far as the split
+// allows. Returns u at x0 + h.
+template <class Sw>
+double split_step(Sw& s, double u0, double x0, double h, const StageCheck& flagged, int depth) {
+  const int n =
+      std::clamp(static_cast<int>(std::ceil(std::abs(flagged.z) / stiff_z)), 2, max_substeps);
+  const double sub = h / n;
+  double u = u0;
+  for (int k = 0; k < n; ++k) {
+    const double x = x0 + k * sub;
+    const StageCheck c = rk4<Sw, 1>({&s}, {u}, x, sub)[0];
+    const bool again = c.flagged() && depth < max_split_depth;
+    u = again ? split_step(s, u, x, sub, c, depth + 1) : c.u1;
+  }
+  return u;
+}
+
+template <bool Axle>
+SweepResult sweep_one(const Envelope& env, const Mesh& mesh, Sweep direction,
+                      const std::vector<double>& limit, std::size_t start, double v_start) {
+  using Sw = Sweeper<Axle>;
+  SweepResult r;
+  Sw s(env, mesh, direction, limit, start, v_start, r);
+  const double h = mesh.step_m;
+  for (std::size_t k = 0, n = s.steps(); k < n; ++k) {
+    const double u0 = s.begin_step();
+    const StageCheck c = rk4<Sw, 1>({&s}, {u0}, 0.0, h)[0];
+    s.end_step(c.flagged() ? split_step(s, u0, 0.0, h, c, 1) : c.u1);
+  }
+  s.finish();
+  return r;
+}
+
+// Both sweeps in lockstep; a flagged step is split for the sweep that needs it alone.
+template <bool Axle>
+void sweep_both(const Envelope& env, const Mesh& mesh, const std::vector<double>& limit,
+                std::size_t f0, double vf, std::size_t b0, double vb, SweepResult& fwd,
+                SweepResult& bwd) {
+  using Sw = Sweeper<Axle>;
+  Sw f(env, mesh, Sweep::forward, limit, f0, vf, fwd);
+  Sw b(env, mesh, Sweep::backward, limit, b0, vb, bwd);
+  assert(f.steps() == b.steps());
+  const std::array<Sw*, 2> both{&f, &b};
+  const double h = mesh.step_m;
+  for (std::size_t k = 0, steps = f.steps(); k < steps; ++k) {
+    const std::array<double, 2> u0{f.begin_step(), b.begin_step()};
+    const std::array<StageCheck, 2> c = rk4<Sw, 2>(both, u0, 0.0, h);
+    f.end_step(c[0].flagged() ? split_step(f, u0[0], 0.0, h, c[0], 1) : c[0].u1);
+    b.end_step(c[1].flagged() ? split_step(b, u0[1], 0.0, h, c[1], 1) : c[1].u1);
+  }
+  f.finish();
+  b.finish();
+}
+}  // namespace
+
+SweepResult sweep(const Envelope& env, const Mesh& mesh, Sweep direction,
+                  const std::vector<double>& limit, std::size_t start, double v_start) {
+  return env.car().model == VehicleModel::axle
+             ? sweep_one<true>(env, mesh, direction, limit, start, v_start)
+             : sweep_one<false>(env, mesh, direction, limit, start, v_start);
+}
+
+Lap solve_lap(const Envelope& env, const Mesh& mesh, double start_speed_mps) {
+  LapSolver solver;
+  solver.solve(env, mesh, start_speed_mps);
+  return solver.take();
+}
+
+const Lap& LapSolver::solve(const Envelope& env, const Mesh& mesh, double start_speed_mps,
+                            bool channels) {
+  const std::size_t n = mesh.size();
+  assert(n >= 3);
+  Lap& lap = lap_;
+  steady_profile(env, mesh, lap.steady);
+  const auto& steady = lap.steady.speed_mps;
+  SweepResult& fwd = forward_;
+  SweepResult& bwd = backward_;
+
+  auto both = [&](std::size_t f0, double vf, std::size_t b0, double vb) {
+    if (env.car().model == VehicleModel::axle)
+      sweep_both<true>(env, mesh, steady, f0, vf, b0, vb, fwd, bwd);
+    else
+      sweep_both<false>(env, mesh, steady, f0, vf, b0, vb, fwd, bwd);
+  };
+  if (mesh.closed) {
+    // Periodic lap: start both sweeps at the slowest steady point, where the speed is known.
+    const std::size_t period = n - 1;
+    const std::size_t i0 = static_cast<std::size_t>(
+        std::min_element(steady.begin(), steady.begin() + static_cast<std::ptrdiff_t>(period)) -
+        steady.begin());
+    both(i0, steady[i0], i0, steady[i0]);
+    // A sweep that comes round slower than it started (it could not regain the start speed)
+    // runs once more from the speed it arrived at, so that the lap is periodic.
+    if (fwd.speed_mps[i0] < steady[i0])
+      fwd = sweep(env, mesh, Sweep::forward, steady, i0, fwd.speed_mps[i0]);
+    if (bwd.speed_mps[i0] < steady[i0])
+      bwd = sweep(env, mesh, Sweep::backward, steady, i0, bwd.speed_mps[i0]);
+  } else {
+    both(0, start_speed_mps, n - 1, steady[n - 1]);
+  }
+
+  lap.speed_mps.resize(n);
+  lap.phase.resize(n);
+  for (std::size_t i = 0; i < n; ++i) {
+    const double v = std::min(fwd.speed_mps[i], bwd.speed_mps[i]);
+    lap.speed_mps[i] = v;
+    Phase ph;
+    if (bwd.speed_mps[i] < fwd.speed_mps[i])
+      ph = Phase::brake;
+    else if (fwd.clipped[i])
+      ph = lap.steady.limit[i] == SteadyLimit::grip ? Phase::corner : Phase::top_speed;
+    else if (fwd.cut[i])
+      ph = Phase::shift;
+    else
+      ph = Phase::accelerate;
+    lap.phase[i] = ph;
+  }
+
+  // Time: sum of 2 ds / (v_i + v_{i+1}) (SPEC section 6).
+  lap.time_s.resize(n);
+  lap.time_s[0] = 0.0;
+  for (std::size_t i = 0; i + 1 < n; ++i) {
+    const double vsum = lap.speed_mps[i] + lap.speed_mps[i + 1];
+    if (!(vsum > 0.0)) throw CannotMove("the car does not move at " + where(mesh, i));
+    lap.time_s[i + 1] = lap.time_s[i] + 2.0 * mesh.step_m / vsum;
+  }
+  lap.lap_time_s = lap.time_s[n - 1];
+  lap.has_channels = channels;
+  if (!channels) {
+    // Speed, phase and time only: what a study that needs the lap time reads.
+    for (auto* v : {&lap.long_accel_mps2, &lap.lat_accel_mps2, &lap.engine_radps, &lap.drag_n,
+                    &lap.downforce_n, &lap.front_load_n, &lap.rear_load_n, &lap.front_share,
+                    &lap.aero_balance_eff, &lap.front_usage, &lap.rear_usage})
+      v->clear();
+    lap.gear.clear();
+    lap.trimmed.clear();
+    return lap;
+  }
+
+  // Channels along the lap.
+  const Car& car = env.car();
+  const double g = units::g0, m = env.mass_kg(), wb = car.wheelbase_m;
+  lap.long_accel_mps2.resize(n);
+  lap.lat_accel_mps2.resize(n);
+  lap.gear.resize(n);
+  lap.engine_radps.resize(n);
+  lap.drag_n.resize(n);
+  lap.downforce_n.resize(n);
+  lap.front_load_n.resize(n);
+  lap.rear_load_n.resize(n);
+  lap.trimmed.resize(n);
+  for (auto* v : {&lap.front_share, &lap.aero_balance_eff, &lap.front_usage, &lap.rear_usage})
+    v->resize(n);
+  // The acceleration at a point: d(v^2)/(2 ds) by the central difference
+  // (v_{i+1}^2 - v_{i-1}^2) / (4 ds) (through the seam of a closed lap; one-sided at the ends of
+  // an open track), held within what the model allows in the state at the point: no harder than
+  // its braking, no more than its drive. The two differ only where the acceleration jumps: at an
+  // apex between braking and drive, where a grade or the straight-line trim changes, where a
+  // sweep meets the steady limit. There the difference mixes two states, and the loads and
+  // usage worked from it would show an axle beyond its grip that the solver never used.
+  const InverseMass inv{1.0 / m, 1.0 / env.effective_mass_kg()};
+  const bool axle_model = car.model == VehicleModel::axle;
+  const auto point_accel = [&](std::size_t i) {
+    std::size_t lo = i, hi = i;
+    if (i > 0)
+      lo = i - 1;
+    else if (mesh.closed)
+      lo = n - 2;
+    if (i + 1 < n)
+      hi = i + 1;
+    else if (mesh.closed)
+      hi = 1;
+    const double span = mesh.step_m * static_cast<double>((lo != i) + (hi != i));
+    const double u = lap.speed_mps[i] * lap.speed_mps[i];
+    const double diff =
+        (lap.speed_mps[hi] * lap.speed_mps[hi] - lap.speed_mps[lo] * lap.speed_mps[lo]) /
+        (2.0 * span);
+    const double k = std::abs(mesh.curvature_1pm[i]);
+    const Slope slope(mesh, i);
+    if (diff >= 0.0) {
+      const bool trims = env.trims(k);
+      const Envelope::Rows rows = env.rows(trims);
+      return std::min(diff, axle_model
+                                ? drive_accel<true>(env, rows, u, k, slope, trims, 1.0, inv)
+                                : drive_accel<false>(env, rows, u, k, slope, trims, 1.0, inv));
+    }
+    const Envelope::Rows rows = env.rows(false);
+    return std::max(diff, -(axle_model ? brake_accel<true>(env, rows, u, k, slope, inv)
+                                       : brake_accel<false>(env, rows, u, k, slope, inv)));
+  };
+  const double weight = m * g, crr = env.rolling_resistance();
+  for (std::size_t i = 0; i < n; ++i) {
+    const double v = lap.speed_mps[i];
+    const double ax = point_accel(i);
+    lap.long_accel_mps2[i] = ax;
+    lap.lat_accel_mps2[i] = v * v * mesh.curvature_1pm[i];
+    // Under drive the gear the forward sweep engaged (held through a shift's cut); under
+    // braking the best gear for the speed.
+    const Powertrain& pt = car.powertrain;
+    const int gear = pt.ideal ? 0 : (lap.phase[i] == Phase::brake ? env.gear(v) : fwd.gear[i]);
+    lap.gear[i] = gear;
+    lap.engine_radps[i] =
+        pt.ideal ? 0.0
+                 : std::clamp(v / car.tyres.rolling_radius_m *
+                                  pt.gears[static_cast<std::size_t>(gear - 1)] * pt.final_drive,
+                              pt.engine_radps.front(), pt.rev_limit_radps);
+    const bool trimmed = env.trims(std::abs(mesh.curvature_1pm[i])) &&
+                         (lap.phase[i] == Phase::accelerate || lap.phase[i] == Phase::top_speed ||
+                          lap.phase[i] == Phase::shift);
+    lap.trimmed[i] = trimmed;
+    const Envelope::Sample row = env.sample(v, trimmed);
+    const double drag = row.drag_coef * v * v, down = row.lift_coef * v * v;
+    lap.drag_n[i] = drag;
+    lap.downforce_n[i] = down;
+    // Axle loads and what each axle carries (axle.hpp): the tyre force along the path is what
+    // accelerates the car's mass m plus the resistance (the rotating parts' spin-up is torque
+    // inside the driveline, not road force).
+    const Slope slope(mesh, i);
+    const AxleLoads loads = axle_loads(car, drag, down, row.balance, slope.cos, slope.sin, ax);
+    lap.front_load_n[i] = loads.front_n;
+    lap.rear_load_n[i] = loads.rear_n;
+    lap.front_share[i] = loads.front_n / (loads.front_n + loads.rear_n);
+    // Front share of the aero load with the drag moment (axle.hpp; the coefficients' rho / 2
+    // cancels); NaN, written as an empty field, where there is no downforce to share.
+    lap.aero_balance_eff[i] = aero_balance_with_drag_moment(row.lift_coef, row.drag_coef,
+                                                            row.balance, car.drag_height_m, wb)
+                                  .value_or(std::numeric_limits<double>::quiet_NaN());
+    const double resistance = drag + crr * (weight * slope.cos + down) + weight * slope.sin;
+    const AxleUsage use =
+        axle_usage(env, loads, m * ax + resistance, v * v * std::abs(mesh.curvature_1pm[i]));
+    lap.front_usage[i] = use.front_usage;
+    lap.rear_usage[i] = use.rear_usage;
+  }
+  return lap;
+}
+
+Lap LapSolver::take() {
+  return std::move(lap_);
+}
+
+}  // namespace lapwing

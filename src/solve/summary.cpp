@@ -1,0 +1,257 @@
+#include "lapwing/solve/summary.hpp"
+
+#include <algorithm>
+#include <cmath>
+#include <cstdio>
+
+#include "lapwing/base/units.hpp"
+#include "lapwing/solve/axle.hpp"
+
+namespace lapwing {
+
+namespace {
+std::string kph_text(double v) {
+  char buf[32];
+  std::snprintf(buf, sizeof buf, "%.1f", v / units::kph);
+  return std::string(buf);
+}
+
+// Speeds at or above this share of the tables' top are "at the top": the sweeps and the steady
+// limit hold the speed exactly at the top there, round-off aside.
+constexpr double at_top_rel = 1e-12;
+constexpr double apex_tie = 5e-4;  // relative: 0.05 km/h at 100 km/h
+}  // namespace
+
+std::vector<RangeNote> range_notes(const Envelope& env) {
+  std::vector<RangeNote> notes;
+  const AeroConfig& a = env.car().configs.front();
+  if (a.speed_mps.size() > 1) {
+    if (a.speed_mps.front() > 0.0)
+      notes.push_back({RangeNote::Kind::below_speed_table, "below the speed table's first row (" +
+                                                               kph_text(a.speed_mps.front()) +
+                                                               " km/h) its values are held"});
+    notes.push_back({RangeNote::Kind::above_speed_table, "above the speed table's last row (" +
+                                                             kph_text(a.speed_mps.back()) +
+                                                             " km/h) its values are held"});
+  }
+  if (env.has_map()) {
+    if (env.off_map_speed_mps() >= 0.0)
+      notes.push_back({RangeNote::Kind::off_map,
+                       "a ride height is off the map (from " + kph_text(env.off_map_speed_mps()) +
+                           " km/h): the map's edge values are held there"});
+    if (env.grounded_speed_mps() >= 0.0)
+      notes.push_back({RangeNote::Kind::grounded, "a ride height is at or below zero (from " +
+                                                      kph_text(env.grounded_speed_mps()) +
+                                                      " km/h)"});
+  }
+  const double top = env.max_speed_mps();
+  std::string why;
+  switch (env.table_top_reason()) {
+    case TopSpeedLimit::rev_limit:
+      why = "the rev limit in top gear";
+      break;
+    case TopSpeedLimit::drag: {
+      char buf[32];
+      std::snprintf(buf, sizeof buf, "%.2f", env.table_margin());
+      why = std::string(buf) + " x the level-road top speed";
+      break;
+    }
+    case TopSpeedLimit::ceiling:
+      why = "the ceiling of the tables";
+      break;
+  }
+  notes.push_back({RangeNote::Kind::table_top, "the car's tables end at " + kph_text(top) +
+                                                   " km/h (" + why +
+                                                   "): no speed goes beyond, it is held there"});
+  return notes;
+}
+
+bool range_note_applies(const Envelope& env, const RangeNote& note, double v) {
+  const AeroConfig& a = env.car().configs.front();
+  switch (note.kind) {
+    case RangeNote::Kind::below_speed_table:
+      return v < a.speed_mps.front();
+    case RangeNote::Kind::above_speed_table:
+      return v > a.speed_mps.back();
+    case RangeNote::Kind::off_map:
+      return env.aero_point(v).off_map;
+    case RangeNote::Kind::grounded:
+      return env.aero_point(v).grounded;
+    case RangeNote::Kind::table_top:
+      return v >= env.max_speed_mps() * (1.0 - at_top_rel);
+  }
+  return false;
+}
+
+double range_note_share(const Envelope& env, const RangeNote& note, const Lap& lap,
+                        const Mesh& mesh) {
+  // Share of distance: each interval counts half for each end point the note applies at.
+  double length = 0.0;
+  bool here = range_note_applies(env, note, lap.speed_mps[0]);
+  for (std::size_t i = 0; i + 1 < mesh.size(); ++i) {
+    const bool next = range_note_applies(env, note, lap.speed_mps[i + 1]);
+    length += 0.5 * (mesh.s_m[i + 1] - mesh.s_m[i]) * (here + next);
+    here = next;
+  }
+  return length / mesh.length_m;
+}
+
+std::vector<std::string> lap_range_warnings(const Envelope& env, const Lap& lap, const Mesh& mesh) {
+  std::vector<std::string> out;
+  for (const RangeNote& n : range_notes(env)) {
+    const double share = range_note_share(env, n, lap, mesh);
+    if (!(share > 0.0)) continue;
+    char buf[48];
+    if (share < 0.001)
+      std::snprintf(buf, sizeof buf, "under 0.1 %%");
+    else
+      std::snprintf(buf, sizeof buf, "%.1f %%", 100.0 * share);
+    out.push_back(n.text + ": " + buf + " of the lap distance");
+  }
+  return out;
+}
+
+std::string limiting_axle(double balance_index) {
+  if (balance_index > axle_neutral_band) return "front";
+  if (balance_index < -axle_neutral_band) return "rear";
+  return "both";
+}
+
+double time_at(const Lap& lap, const Mesh& mesh, double s) {
+  const double f = std::clamp(s / mesh.step_m, 0.0, static_cast<double>(mesh.intervals()));
+  const std::size_t i = std::min(static_cast<std::size_t>(f), mesh.intervals() - 1);
+  const double w = f - static_cast<double>(i);
+  return lap.time_s[i] + w * (lap.time_s[i + 1] - lap.time_s[i]);
+}
+
+LapSummary summarize(const Lap& lap, const Mesh& mesh, const Track& track,
+                     const std::vector<CornerSpan>& spans, const Envelope& env) {
+  LapSummary s;
+  s.track_name = track.name;
+  s.track_id = track.id;
+  s.config = env.config_name();
+  s.lap_time_s = lap.lap_time_s;
+  s.length_m = mesh.length_m;
+  s.air_density_kg_m3 = env.air_density();
+  s.top_speed_mps = *std::max_element(lap.speed_mps.begin(), lap.speed_mps.end());
+  s.min_speed_mps = *std::min_element(lap.speed_mps.begin(), lap.speed_mps.end());
+
+  // Time shares: each interval's time is split half to each of its end points' phases. A lone
+  // point on a steady limit between two other phases (braking into a limit that only touches
+  // the speed there, drive out of it) is the car touching its limit: no time is spent there,
+  // and its halves go to the phases on either side. Counted as its own, it took a step's time
+  // per touch: 0.5 points of a noisy survey lap at 0.5 m, nothing on a fine mesh.
+  const std::size_t n = mesh.size();
+  auto touch = [&](std::size_t i) {
+    const Phase p = lap.phase[i];
+    if (p != Phase::corner && p != Phase::top_speed) return false;
+    std::size_t before = i - 1, after = i + 1;
+    if (i == 0 || i + 1 == n) {
+      if (!mesh.closed) return false;
+      before = n - 2;  // the seam: point n-1 is point 0
+      after = 1;
+    }
+    return lap.phase[before] != p && lap.phase[after] != p;
+  };
+  double full = 0.0, brake = 0.0, trimmed = 0.0;
+  auto is_full = [](Phase p) { return p == Phase::accelerate || p == Phase::top_speed; };
+  for (std::size_t i = 0; i + 1 < n; ++i) {
+    const double half = 0.5 * (lap.time_s[i + 1] - lap.time_s[i]);
+    const Phase a = touch(i) ? lap.phase[i + 1] : lap.phase[i];
+    const Phase b = touch(i + 1) ? lap.phase[i] : lap.phase[i + 1];
+    full += half * (is_full(a) + is_full(b));
+    brake += half * ((a == Phase::brake) + (b == Phase::brake));
+    trimmed += half * (lap.trimmed[i] + lap.trimmed[i + 1]);
+  }
+  s.trimmed_fraction = trimmed / lap.lap_time_s;
+  s.warnings = lap_range_warnings(env, lap, mesh);
+  s.full_throttle_fraction = full / lap.lap_time_s;
+  s.braking_fraction = brake / lap.lap_time_s;
+
+  for (std::size_t k = 0; k < track.sectors_m.size(); ++k) {
+    const double a = track.sectors_m[k];
+    const double b = k + 1 < track.sectors_m.size() ? track.sectors_m[k + 1] : mesh.length_m;
+    s.sectors_s.push_back(time_at(lap, mesh, b) - time_at(lap, mesh, a));
+  }
+
+  for (const auto& c : spans) {
+    CornerResult r;
+    r.id = c.id;
+    r.direction = c.direction;
+    std::size_t apex = c.start;
+    for (std::size_t i = c.start; i <= c.end; ++i)
+      if (lap.speed_mps[i] < lap.speed_mps[apex]) apex = i;
+    r.start_m = mesh.s_m[c.start];
+    r.apex_m = mesh.s_m[apex];
+    r.end_m = mesh.s_m[c.end];
+    r.entry_mps = lap.speed_mps[c.start];
+    r.apex_mps = lap.speed_mps[apex];
+    r.exit_mps = lap.speed_mps[c.end];
+    r.time_s = lap.time_s[c.end] - lap.time_s[c.start];
+    auto index = [&lap](std::size_t i) { return lap.front_usage[i] - lap.rear_usage[i]; };
+    r.entry_balance_index = index(c.start);
+    r.apex_balance_index = index(apex);
+    r.exit_balance_index = index(c.end);
+    r.entry_axle = limiting_axle(r.entry_balance_index);
+    r.apex_axle = limiting_axle(r.apex_balance_index);
+    r.exit_axle = limiting_axle(r.exit_balance_index);
+    // On the steady grip limit at the apex speed: at the apex, or anywhere in the corner within
+    // apex_tie of its speed. Speeds that close are a tie (tables show 0.1 km/h), and which of
+    // them is lowest turns on the mesh: an upshift's cut on the exit, which starts within a step
+    // of its speed, can dip 0.01 km/h under the speed of the arc the tyres limit.
+    bool on_grip_limit = false;
+    for (std::size_t i = c.start; i <= c.end && !on_grip_limit; ++i)
+      on_grip_limit = lap.phase[i] == Phase::corner &&
+                      lap.speed_mps[i] <= lap.speed_mps[apex] * (1.0 + apex_tie);
+    switch (on_grip_limit ? Phase::corner : lap.phase[apex]) {
+      case Phase::corner:
+        r.limit = "grip";
+        break;
+      case Phase::brake:
+        r.limit = "braking";
+        break;
+      default:
+        r.limit = "power";
+        break;
+    }
+    s.corners.push_back(r);
+  }
+
+  // Balance.
+  BalanceSummary& b = s.balance;
+  const Car& car = env.car();
+  b.static_front_share = car.front_weight;
+  auto balance_at = [&](double kph_value, double& plain, std::optional<double>& eff) {
+    const AeroPoint p = env.aero_point(kph_value * units::kph);
+    plain = p.balance;
+    eff = aero_balance_with_drag_moment(p.cla_m2, p.cda_m2, p.balance, car.drag_height_m,
+                                        car.wheelbase_m);
+  };
+  balance_at(150.0, b.aero_balance_150, b.aero_balance_eff_150);
+  balance_at(250.0, b.aero_balance_250, b.aero_balance_eff_250);
+  b.has_fast_acceleration = false;
+  b.lowest_front_share_fast = 0.0;
+  b.lowest_front_share_at_m = 0.0;
+  for (std::size_t i = 0; i < mesh.size(); ++i) {
+    const bool accelerating = lap.phase[i] == Phase::accelerate || lap.phase[i] == Phase::top_speed;
+    if (!accelerating || lap.speed_mps[i] <= 200.0 * units::kph) continue;
+    if (!b.has_fast_acceleration || lap.front_share[i] < b.lowest_front_share_fast) {
+      b.lowest_front_share_fast = lap.front_share[i];
+      b.lowest_front_share_at_m = mesh.s_m[i];
+      b.has_fast_acceleration = true;
+    }
+  }
+  for (const auto& c : s.corners)
+    if (c.apex_axle == "front") b.front_limited_corners.push_back(c.id);
+  b.threshold = balance_index_threshold;
+  b.front_limited_length_m = 0.0;
+  for (std::size_t i = 0; i + 1 < mesh.size(); ++i) {
+    // Each interval counts half for each end above the threshold.
+    const double over = 0.5 * ((lap.front_usage[i] - lap.rear_usage[i] > b.threshold) +
+                               (lap.front_usage[i + 1] - lap.rear_usage[i + 1] > b.threshold));
+    b.front_limited_length_m += over * mesh.step_m;
+  }
+  return s;
+}
+
+}  // namespace lapwing

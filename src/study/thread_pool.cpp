@@ -1,0 +1,45 @@
+#include "lapwing/study/thread_pool.hpp"
+
+#include <algorithm>
+#include <atomic>
+#include <exception>
+#include <mutex>
+#include <thread>
+#include <vector>
+
+namespace lapwing {
+
+void parallel_for(std::size_t count, unsigned threads,
+                  const std::function<void(std::size_t, LapSolver&)>& job) {
+  if (threads == 0) threads = std::max(1u, std::thread::hardware_concurrency());
+  threads = static_cast<unsigned>(std::min<std::size_t>(threads, std::max<std::size_t>(count, 1)));
+  std::atomic<std::size_t> next{0};
+  std::mutex failure_mutex;
+  std::exception_ptr failure;
+  std::size_t failure_index = count;
+  auto worker = [&] {
+    LapSolver solver;
+    for (std::size_t i = next++; i < count; i = next++) {
+      try {
+        job(i, solver);
+      } catch (...) {
+        // Keep the failure of the lowest index: the same error whatever the thread count.
+        std::lock_guard<std::mutex> lock(failure_mutex);
+        if (i < failure_index) {
+          failure_index = i;
+          failure = std::current_exception();
+        }
+      }
+    }
+  };
+  if (threads <= 1) {
+    worker();
+  } else {
+    std::vector<std::thread> pool;
+    for (unsigned t = 0; t < threads; ++t) pool.emplace_back(worker);
+    for (auto& t : pool) t.join();
+  }
+  if (failure) std::rethrow_exception(failure);
+}
+
+}  // namespace lapwing

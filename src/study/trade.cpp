@@ -1,0 +1,187 @@
+#include "lapwing/study/trade.hpp"
+
+#include <algorithm>
+#include <cassert>
+#include <cmath>
+
+#include "lapwing/solve/envelope.hpp"
+#include "lapwing/study/thread_pool.hpp"
+
+namespace lapwing {
+
+Car scaled(const Car& car, Knob knob, double f) {
+  assert(car.configs.size() == 1 && "scaled takes a configured car");
+  Car c = car;
+  AeroConfig& a = c.configs.front();
+  switch (knob) {
+    case Knob::cla:
+      for (double& v : a.cla_m2) v *= f;
+      if (a.map) a.map->cla_m2 *= f;
+      break;
+    case Knob::cda:
+      for (double& v : a.cda_m2) v *= f;
+      if (a.map) a.map->cda_m2 *= f;
+      break;
+    case Knob::mass:
+      c.mass_kg *= f;
+      break;
+    case Knob::power:
+      if (c.powertrain.ideal) c.powertrain.constant_power_w *= f;
+      for (double& t : c.powertrain.torque_nm) t *= f;
+      break;
+  }
+  return c;
+}
+
+bool zero_area(const AeroConfig& a, Knob knob) {
+  assert(knob == Knob::cla || knob == Knob::cda);
+  const auto& rows = knob == Knob::cla ? a.cla_m2 : a.cda_m2;
+  const bool rows_zero = std::all_of(rows.begin(), rows.end(), [](double v) { return v == 0.0; });
+  if (!a.map) return rows_zero;
+  const Eigen::MatrixXd& m = knob == Knob::cla ? a.map->cla_m2 : a.map->cda_m2;
+  return (m.array() == 0.0).all();
+}
+
+AeroOperatingPoint operating_point(const Envelope& env, const Lap& lap) {
+  const AeroConfig& a = env.car().configs.front();
+  if (a.speed_mps.empty() && !a.map) return {a.cla_m2.front(), a.cda_m2.front()};
+  // Time-weighted mean of the coefficients the envelope reads at the lap's speeds: interval i
+  // gives half its time to each end, C_mean = sum_i dt_i (C_i + C_{i+1}) / 2 / T.
+  const double to_area = 2.0 / env.air_density();  // coefficient 0.5 rho C -> C
+  auto coefs = [&](std::size_t i) { return env.sample(lap.speed_mps[i]); };
+  double cla = 0.0, cda = 0.0;
+  Envelope::Sample here = coefs(0);
+  for (std::size_t i = 0; i + 1 < lap.speed_mps.size(); ++i) {
+    const Envelope::Sample next = coefs(i + 1);
+    const double half = 0.5 * (lap.time_s[i + 1] - lap.time_s[i]);
+    cla += half * (here.lift_coef + next.lift_coef);
+    cda += half * (here.drag_coef + next.drag_coef);
+    here = next;
+  }
+  return {cla * to_area / lap.lap_time_s, cda * to_area / lap.lap_time_s};
+}
+
+Car shifted(const Car& car, Knob knob, double delta_m2) {
+  assert(knob == Knob::cla || knob == Knob::cda);
+  Car c = car;
+  AeroConfig& a = c.configs.front();
+  auto& rows = knob == Knob::cla ? a.cla_m2 : a.cda_m2;
+  for (double& v : rows) v += delta_m2;
+  if (a.map) (knob == Knob::cla ? a.map->cla_m2 : a.map->cda_m2).array() += delta_m2;
+  return c;
+}
+
+Car varied(const Car& car, Knob knob, double r) {
+  const AeroConfig& a = car.configs.front();
+  if ((knob == Knob::cla || knob == Knob::cda) && zero_area(a, knob)) return shifted(car, knob, r);
+  return scaled(car, knob, 1.0 + r);
+}
+
+Trade trade(const Car& car, const std::vector<std::size_t>& configs,
+            const std::vector<Circuit>& circuits, const TradeOptions& o, unsigned threads) {
+  const std::size_t nt = circuits.size(), ncfg = car.configs.size();
+  // Jobs: per track, every config's own lap (for attributions), then per traded config the
+  // eight perturbed laps, then the grid around the first traded config.
+  struct Job {
+    std::size_t track;
+    Car car;
+    bool own;  // a config's own lap: its operating point is wanted too
+  };
+  std::vector<Job> jobs;
+  const Knob knobs[] = {Knob::cla, Knob::cda, Knob::mass, Knob::power};
+  const int g = o.grid_points;
+  for (std::size_t t = 0; t < nt; ++t) {
+    for (std::size_t c = 0; c < ncfg; ++c) jobs.push_back({t, car.configured(c), true});
+    for (std::size_t c : configs) {
+      const Car base = car.configured(c);
+      for (Knob k : knobs)
+        for (double sign : {1.0, -1.0}) jobs.push_back({t, varied(base, k, sign * o.step), false});
+    }
+    const Car base = car.configured(configs.front());
+    for (int i = 0; i < g; ++i)
+      for (int j = 0; j < g; ++j) {
+        const double ra = o.grid_span * (2.0 * i / (g - 1) - 1.0);
+        const double rd = o.grid_span * (2.0 * j / (g - 1) - 1.0);
+        jobs.push_back({t, varied(varied(base, Knob::cla, ra), Knob::cda, rd), false});
+      }
+  }
+  std::vector<double> times(jobs.size());
+  std::vector<AeroOperatingPoint> ops(jobs.size(), AeroOperatingPoint{0.0, 0.0});
+  parallel_for(jobs.size(), threads, [&](std::size_t k, LapSolver& solver) {
+    // The lap time alone (no channels), and for a config's own lap its operating point.
+    const Envelope env(jobs[k].car, circuits[jobs[k].track].air);
+    const Lap& lap = solve_speed_only(env, circuits[jobs[k].track], solver);
+    if (jobs[k].own) ops[k] = operating_point(env, lap);
+    times[k] = lap.lap_time_s;
+  });
+
+  Trade out;
+  out.options = o;
+  std::size_t k = 0;
+  for (std::size_t t = 0; t < nt; ++t) {
+    std::vector<double> own(times.begin() + static_cast<std::ptrdiff_t>(k),
+                            times.begin() + static_cast<std::ptrdiff_t>(k + ncfg));
+    const std::vector<AeroOperatingPoint> op(ops.begin() + static_cast<std::ptrdiff_t>(k),
+                                             ops.begin() + static_cast<std::ptrdiff_t>(k + ncfg));
+    out.operating.insert(out.operating.end(), op.begin(), op.end());
+    k += ncfg;
+    std::vector<Sensitivity> here;
+    for (std::size_t c : configs) {
+      const Car base = car.configured(c);
+      const AeroConfig& a = base.configs.front();
+      Sensitivity s{t, c, own[c], op[c].cla_m2, op[c].cda_m2, base.mass_kg, 0, 0, 0, 0, 0};
+      // Central differences: dt/dx = (t(x (1 + h)) - t(x (1 - h))) / (2 h x): scaling every
+      // value of the config by 1 +- h moves its operating point by +-h x to first order.
+      // A zero aero area is moved by step m2 instead of step x 0.
+      auto central = [&](double x) {
+        const double d = (times[k] - times[k + 1]) / (2.0 * o.step * (x != 0.0 ? x : 1.0));
+        k += 2;
+        return d;
+      };
+      s.dt_dcla_s_per_m2 = central(zero_area(a, Knob::cla) ? 0.0 : s.cla_m2);
+      s.dt_dcda_s_per_m2 = central(zero_area(a, Knob::cda) ? 0.0 : s.cda_m2);
+      s.dt_dmass_s_per_kg = central(s.mass_kg);
+      s.dt_dpower_s_per_percent = central(100.0);  // x = 100 %: per percent of power
+      s.breakeven_dcda_per_dcla =
+          s.dt_dcda_s_per_m2 != 0.0 ? -s.dt_dcla_s_per_m2 / s.dt_dcda_s_per_m2 : 0.0;
+      here.push_back(s);
+      out.sensitivities.push_back(s);
+    }
+    TradeGrid grid{t, configs.front(), {}, {}, {}};
+    const AeroConfig& a0 = car.configs[configs.front()];
+    const AeroOperatingPoint& p0 = op[configs.front()];
+    for (int i = 0; i < g; ++i) {
+      const double f = 1.0 + o.grid_span * (2.0 * i / (g - 1) - 1.0);
+      // As `varied` moves the config: scaled, or shifted by f - 1 m2 from a zero area.
+      auto at = [f](double x, bool zero) { return zero ? f - 1.0 : x * f; };
+      grid.cla_m2.push_back(at(p0.cla_m2, zero_area(a0, Knob::cla)));
+      grid.cda_m2.push_back(at(p0.cda_m2, zero_area(a0, Knob::cda)));
+    }
+    grid.lap_time_s.assign(
+        times.begin() + static_cast<std::ptrdiff_t>(k),
+        times.begin() + static_cast<std::ptrdiff_t>(k + static_cast<std::size_t>(g) *
+                                                            static_cast<std::size_t>(g)));
+    k += static_cast<std::size_t>(g * g);
+    out.grids.push_back(std::move(grid));
+    for (std::size_t a = 0; a < ncfg; ++a)
+      for (std::size_t b = a + 1; b < ncfg; ++b) {
+        std::size_t ref = 0;
+        for (std::size_t r = 0; r < here.size(); ++r)
+          if (here[r].config == a) ref = r;
+        const Sensitivity& s = here[ref];
+        Attribution at{t, a, b, s.config, own[b] - own[a], 0, 0, 0, 0, 0, true};
+        at.delta_cla_m2 = op[b].cla_m2 - op[a].cla_m2;
+        at.delta_cda_m2 = op[b].cda_m2 - op[a].cda_m2;
+        at.from_cla_s = s.dt_dcla_s_per_m2 * at.delta_cla_m2;
+        at.from_cda_s = s.dt_dcda_s_per_m2 * at.delta_cda_m2;
+        at.residual_s = at.total_s - at.from_cla_s - at.from_cda_s;
+        at.first_order_reliable =
+            !(std::abs(at.residual_s) > attribution_residual_limit * std::abs(at.total_s));
+        out.attributions.push_back(at);
+      }
+  }
+  assert(k == times.size());
+  return out;
+}
+
+}  // namespace lapwing

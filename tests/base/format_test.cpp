@@ -1,0 +1,33 @@
+// Numbers as text: full precision (the shortest text that reads back to the same double) for
+// files, fixed decimals for tables.
+#include <doctest/doctest.h>
+
+#include <cmath>
+#include <cstdlib>
+#include <stdexcept>
+
+#include "lapwing/base/format.hpp"
+
+using namespace lapwing;
+
+TEST_CASE("numbers round-trip exactly through their text") {
+  for (double v : {0.1, 1.0 / 3.0, 83.21400000000001, 1e-300, 6.02214076e23, -2.5, 287.1}) {
+    const std::string s = format_number(v);
+    CHECK(std::strtod(s.c_str(), nullptr) == v);
+  }
+  CHECK(format_number(0.1) == "0.1");
+  CHECK(format_number(-0.0) == "0");
+}
+
+TEST_CASE("a non-finite number never reaches the output") {
+  CHECK_THROWS_AS(format_number(std::nan("")), std::logic_error);
+  CHECK_THROWS_AS(format_number(INFINITY), std::logic_error);
+}
+
+TEST_CASE("fixed decimals are printf's %.Nf, and a value that rounds to zero has no sign") {
+  // C11 7.21.6.1: %.Nf writes N decimals, rounded; "-0.000" would read as a negative value.
+  CHECK(fixed(2.0 / 3.0, 3) == "0.667");
+  CHECK(fixed(-0.0004, 3) == "0.000");
+  CHECK(fixed(-1.5, 1) == "-1.5");
+  CHECK(fixed(1234.5678, 0) == "1235");
+}

@@ -1,0 +1,15 @@
+// The JSON writer: nesting, keys in order, numbers in their shortest round-trip form.
+#include <doctest/doctest.h>
+
+#include "lapwing/io/json.hpp"
+
+using namespace lapwing;
+
+TEST_CASE("the writer nests objects and arrays with keys in order") {
+  JsonWriter w;
+  w.begin_object().field("a", 1).key("b").begin_array().value(2.5).value("x\"y").end_array();
+  w.key("c").numbers({1.0, 2.0}).key("d").begin_object().end_object().end_object();
+  CHECK(w.str() ==
+        "{\n  \"a\": 1,\n  \"b\": [\n    2.5,\n    \"x\\\"y\"\n  ],\n  \"c\": [1, 2],\n"
+        "  \"d\": {}\n}\n");
+}

@@ -1,0 +1,50 @@
+// Track files: segments, grades, sectors, and their checks.
+#include <doctest/doctest.h>
+
+#include <fstream>
+
+#include "lapwing/base/error.hpp"
+#include "lapwing/base/units.hpp"
+#include "lapwing/model/track.hpp"
+#include "test_support.hpp"
+
+using namespace lapwing;
+using lapwing::test::near;
+
+TEST_CASE("bundled tracks load; arc length is R x angle; turns are signed") {
+  const Track t = load_track(test::source_path("tracks/skidpad.yaml"));
+  REQUIRE(t.segments.size() == 2);
+  // Skid pad centre radius 9.125 m (student-formula rules, REFERENCES "Geometry").
+  CHECK(near(t.segments[0].length_m, 2 * units::pi * 9.125, 1e-14));
+  CHECK(near(t.segments[0].curvature_start_1pm, -1 / 9.125, 1e-14));  // right
+  CHECK(near(t.segments[1].curvature_start_1pm, 1 / 9.125, 1e-14));   // left
+  CHECK(t.closed);
+  CHECK(t.id == "skidpad");
+}
+
+TEST_CASE("the acceleration run is 75 m from a standing start (student-formula rules)") {
+  const Track t = load_track(test::source_path("tracks/acceleration.yaml"));
+  CHECK_FALSE(t.closed);
+  CHECK(t.length_m() == 75.0);
+  CHECK(t.start_speed_mps == 0.0);
+}
+
+TEST_CASE("segment forms: straight as a length or a map with grade; clothoid radii") {
+  const std::string path = "track_test_segments.yaml";
+  {
+    std::ofstream f(path);
+    f << "format: 1\nname: t\nclosed: false\nsegments:\n"
+         "  - straight: 100 m\n"
+         "  - straight: {length: 50 m, grade: 4 %}\n"
+         "  - clothoid: {length: 30 m, to_radius: 60 m, turn: left}\n"
+         "  - clothoid: {length: 30 m, from_radius: 60 m, to_radius: 30 m, turn: right}\n";
+  }
+  const Track t = load_track(path);
+  REQUIRE(t.segments.size() == 4);
+  CHECK(t.segments[1].grade == doctest::Approx(0.04));
+  CHECK(t.segments[2].curvature_start_1pm == 0.0);
+  CHECK(near(t.segments[2].curvature_end_1pm, 1 / 60.0, 1e-15));
+  CHECK(near(t.segments[3].curvature_end_1pm, -1 / 30.0, 1e-15));
+  CHECK(t.sectors_m == std::vector<double>{0.0});
+  std::remove(path.c_str());
+}

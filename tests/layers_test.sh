@@ -1,0 +1,51 @@
+#!/usr/bin/env bash
+# The layers keep one direction (DEVELOPERS.md, architecture): every #include "lapwing/<layer>/..."
+# in include/lapwing/<layer>/ and src/<layer>/ names a layer the including one may use, and the
+# third-party libraries stay in the layers that own them. A layer that reaches up fails here.
+#   layers_test.sh SOURCE_DIR
+set -u
+cd "$1" || exit 1
+declare -A may=(
+  [base]="base"
+  [model]="base model"
+  [path]="base model path"
+  [io]="base model path io"
+  [solve]="base model path solve"
+  [study]="base model path solve study"
+  [report]="base model path io solve study report"
+  [cli]="base model path io solve study report"
+)
+# Third-party headers and the only layers that may include them.
+declare -A owner=([yaml-cpp]="io" [boost]="solve" [CLI]="cli")
+fail=0
+checked=0
+for layer in "${!may[@]}"; do
+  for f in include/lapwing/$layer/*.hpp src/$layer/*.cpp src/$layer/*.hpp; do
+    [ -e "$f" ] || continue
+    checked=$((checked + 1))
+    while IFS= read -r inc; do
+      used=$(sed -n 's/^#include "lapwing\/\([a-z]*\)\/.*/\1/p' <<< "$inc")
+      if [ -n "$used" ] && [[ " ${may[$layer]} " != *" $used "* ]]; then
+        echo "FAIL: $f ($layer) includes $used: $inc"
+        fail=1
+      fi
+      if [[ "$inc" =~ ^#include\ \"lapwing/[a-z_]+\.hpp\" ]]; then
+        echo "FAIL: $f includes a header outside the layer folders: $inc"
+        fail=1
+      fi
+      for lib in "${!owner[@]}"; do
+        if [[ "$inc" == "#include <$lib/"* ]] && [ "$layer" != "${owner[$lib]}" ]; then
+          echo "FAIL: $f ($layer) includes $lib, which only ${owner[$lib]} may: $inc"
+          fail=1
+        fi
+      done
+    done < <(grep -h '^#include' "$f")
+  done
+done
+# Every source file of the library sits in a layer folder.
+for f in src/*.cpp include/lapwing/*.hpp; do
+  [ -e "$f" ] && { echo "FAIL: $f is outside the layer folders"; fail=1; }
+done
+[ "$checked" -gt 40 ] || { echo "FAIL: only $checked files checked"; fail=1; }
+echo "layers: $checked files checked"
+exit $fail

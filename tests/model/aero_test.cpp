@@ -1,0 +1,220 @@
+// Aero data forms reduced to the coefficients the solver uses: each form that stands for a
+// constant configuration gives that configuration's lap; the lever rule; ride heights at speed.
+#include <doctest/doctest.h>
+
+#include <cmath>
+#include <fstream>
+#include <string>
+
+#include "lapwing/base/units.hpp"
+#include "lapwing/model/aero.hpp"
+#include "lapwing/model/car.hpp"
+#include "lapwing/model/track.hpp"
+#include "lapwing/path/mesh.hpp"
+#include "lapwing/solve/envelope.hpp"
+#include "lapwing/solve/solver.hpp"
+#include "test_support.hpp"
+
+using namespace lapwing;
+using lapwing::test::near;
+
+namespace {
+
+// The bundled formula car with its configs replaced by `configs` (YAML text, indented 4).
+Car car_with(const std::string& configs, const std::string& name) {
+  std::ifstream in(test::source_path("cars/pellion-fr2.yaml"));
+  std::string text((std::istreambuf_iterator<char>(in)), std::istreambuf_iterator<char>());
+  text = text.substr(0, text.find("  configs:")) + "  configs:\n" + configs;
+  const std::string path = "aero_test_" + name + ".yaml";
+  std::ofstream(path) << text;
+  Car car = load_car(path);
+  std::remove(path.c_str());
+  return car;
+}
+
+double lap_time(const Car& car, std::size_t config, const std::string& track_file) {
+  const Track track = load_track(test::source_path(track_file));
+  const Envelope env(car.configured(config), make_air(track.air));
+  return solve_lap(env, build_mesh(track, track.mesh_m)).lap_time_s;
+}
+
+}  // namespace
+
+TEST_CASE("lever rule on a hand-worked two-part example") {
+  // L = 3 m. Front wing 1000 N at x = -0.5 m: (3 + 0.5) / 3 = 7/6 of it on the front axle,
+  // i.e. 1166.67 N front and -166.67 N rear. Rear wing 2000 N at x = 3.5 m: (3 - 3.5) / 3 =
+  // -1/6 on the front, -333.33 N. Front axle 833.33 N of 3000 N: balance 0.27778.
+  // Drag 200 N at z = 0.2 and 600 N at z = 1.0: height (40 + 600) / 800 = 0.8 m.
+  // q = 0.5 * 1.2 * 40^2 = 960 Pa: CdA = 800 / 960, ClA = 3000 / 960.
+  const std::vector<AeroPart> parts{{"front wing", 200.0, 1000.0, -0.5, 0.2},
+                                    {"rear wing", 600.0, 2000.0, 3.5, 1.0}};
+  const PartsReduction r = reduce_parts(parts, 40.0, 1.2, 3.0);
+  CHECK(near(r.balance, 2.5 / 9.0, 1e-12));
+  CHECK(near(r.drag_height_m, 0.8, 1e-12));
+  CHECK(near(r.cda_m2, 800.0 / 960.0, 1e-12));
+  CHECK(near(r.cla_m2, 3000.0 / 960.0, 1e-12));
+}
+
+TEST_CASE(
+    "a parts table, a flat speed table and a flat map equal to a constant config give its lap "
+    "(1e-9)") {
+  // Parts at 50 m/s, 1.225 kg/m3 (q = 1531.25 Pa) summing to CdA 1.2, ClA 3.6, balance 0.42
+  // (lever rule: 0.42 of 5512.5 N on the front axle), drag height 0.42 m.
+  const std::string configs =
+      "    constant: {cda: 1.2, cla: 3.6, balance: 0.42, drag_height: 0.42}\n"
+      "    parts:\n"
+      "      forces:\n"
+      "        speed: 50 m/s\n"
+      "        density: 1.225\n"
+      "        parts:\n"
+      "          - {name: a, drag: 918.75 N, downforce: 2315.25 N, x: 0 m, z: 0.42 m}\n"
+      "          - {name: b, drag: 918.75 N, downforce: 3197.25 N, x: 2.9 m, z: 0.42 m}\n"
+      "    table:\n"
+      "      speed_table: {speed: [20, 50, 90], cda: [1.2, 1.2, 1.2], cla: [3.6, 3.6, 3.6],\n"
+      "                    balance: [0.42, 0.42, 0.42]}\n"
+      "      drag_height: 0.42\n"
+      "    flat_map:\n"
+      "      ride_height_map:\n"
+      "        front: [0.01, 0.05]\n"
+      "        rear: [0.03, 0.09]\n"
+      "        cda: [[1.2, 1.2], [1.2, 1.2]]\n"
+      "        cla: [[3.6, 3.6], [3.6, 3.6]]\n"
+      "        balance: [[0.42, 0.42], [0.42, 0.42]]\n"
+      "      static_ride_height: {front: 0.03, rear: 0.06}\n"
+      "      heave_stiffness: {front: 200 N/mm, rear: 250 N/mm}\n"
+      "      drag_height: 0.42\n";
+  const Car car = car_with(configs, "forms");
+  REQUIRE(car.configs.size() == 4);
+  CHECK(car.configs[1].form == AeroConfig::Form::forces);
+  CHECK(near(car.configs[1].cda_m2.front(), 1.2, 1e-12));
+  CHECK(near(car.configs[1].balance.front(), 0.42, 1e-12));
+  CHECK(near(*car.configs[1].drag_height_m, 0.42, 1e-12));
+  for (const char* track : {"tracks/brannock-park.yaml", "tracks/cairnholt.yaml"}) {
+    const double reference = lap_time(car, 0, track);
+    for (std::size_t c = 1; c < 4; ++c) {
+      CAPTURE(track);
+      CAPTURE(car.configs[c].name);
+      CHECK(near(lap_time(car, c, track), reference, 1e-9));
+    }
+  }
+}
+
+TEST_CASE("very stiff springs hold the map at its static point") {
+  const std::string configs =
+      "    stiff:\n"
+      "      ride_height_map:\n"
+      "        front: [0.0, 0.1]\n"
+      "        rear: [0.0, 0.2]\n"
+      "        cda: [[1.3, 1.1], [1.2, 1.0]]\n"
+      "        cla: [[5.0, 4.0], [3.0, 2.0]]\n"
+      "        balance: [[0.46, 0.44], [0.42, 0.40]]\n"
+      "      static_ride_height: {front: 0.03, rear: 0.06}\n"
+      "      heave_stiffness: {front: 1000000 N/mm, rear: 1000000 N/mm}\n";
+  const Car car = car_with(configs, "stiff");
+  const Envelope env(car.configured(0), make_air(AirSpec{}));
+  const MapCoefficients at_rest = map_coefficients(*car.configs[0].map, 0.03, 0.06);
+  for (double v : {0.0, 40.0, 80.0}) {
+    const AeroPoint p = env.aero_point(v);
+    // Deflection at 80 m/s is below 20 um (load < 20 kN over 1e9 N/m); the map's slope is at
+    // most 20 m2/m, so the coefficients move by less than 4e-4 m2.
+    CHECK(near(p.cla_m2, at_rest.cla_m2, 0.0, 4e-4));
+    CHECK(near(p.cda_m2, at_rest.cda_m2, 0.0, 4e-4));
+    CHECK(near(p.balance, at_rest.balance, 0.0, 1e-4));
+  }
+}
+
+TEST_CASE("a map whose ClA rises as the front drops: faster steady circle, matching bisection") {
+  // ClA = 5 - 20 h_f (rear-independent), balance 0.5, no drag. Front axle aero load
+  // F_f = q ClA / 2, so h_f = h0 - q (5 - 20 h_f) / (2 k); the steady circle speed on radius R
+  // solves v^2 (1 - mu rho ClA(v) R / (2 m)) = mu g R (REFERENCES, steady circle with downforce).
+  const double h0 = 0.05, k = 2e5, radius = 60.0;
+  const std::string configs =
+      "    ground_effect:\n"
+      "      ride_height_map:\n"
+      "        front: [0.0, 0.1]\n"
+      "        rear: [0.0, 0.2]\n"
+      "        cda: [[0, 0], [0, 0]]\n"
+      "        cla: [[5.0, 5.0], [3.0, 3.0]]\n"
+      "        balance: [[0.5, 0.5], [0.5, 0.5]]\n"
+      "      static_ride_height: {front: 0.05, rear: 0.1}\n"
+      "      heave_stiffness: {front: 200 N/mm, rear: 200 N/mm}\n";
+  Car car = car_with(configs, "ground");
+  car.tyres.load_sensitivity = 0.0;
+  car.tyres.rolling_resistance = 0.0;
+  car.drag_height_m = 0.0;
+  const Air air = make_air(AirSpec{});
+  const double rho = air.density_kg_m3, mu = car.tyres.mu_lat, m = car.mass_kg;
+  auto cla_at = [&](double v) {
+    const double q = 0.5 * rho * v * v;
+    const double hf = (h0 - q * 5.0 / (2 * k)) / (1.0 - q * 20.0 / (2 * k));
+    return 5.0 - 20.0 * hf;
+  };
+  auto excess = [&](double v) {
+    return v * v * (1.0 - mu * rho * cla_at(v) * radius / (2 * m)) - mu * units::g0 * radius;
+  };
+  double lo = 1.0, hi = 80.0;  // excess(lo) < 0 < excess(hi)
+  REQUIRE(excess(lo) < 0.0);
+  REQUIRE(excess(hi) > 0.0);
+  for (int i = 0; i < 200; ++i) {
+    const double mid = 0.5 * (lo + hi);
+    (excess(mid) < 0.0 ? lo : hi) = mid;
+  }
+  const double v_bisect = 0.5 * (lo + hi);
+  const double cla_static = 5.0 - 20.0 * h0;
+  const double v_static =
+      std::sqrt(mu * units::g0 * radius / (1.0 - mu * rho * cla_static * radius / (2 * m)));
+
+  const Envelope env(car.configured(0), air);
+  const Mesh mesh = build_mesh(test::circle_track(radius, 0.5), 0.5);
+  const Lap lap = solve_lap(env, mesh);
+  const double v = lap.speed_mps[mesh.size() / 2];
+  CHECK(v > v_static * 1.005);
+  // The envelope holds the map's solution every 0.5 m/s, linear between: 1e-4.
+  CHECK(near(v, v_bisect, 1e-4));
+}
+
+TEST_CASE("a map's ride heights fall with speed as the springs deflect") {
+  RideHeightMap map;
+  map.front_m = {0.0, 0.1};
+  map.rear_m = {0.0, 0.2};
+  map.cda_m2 = Eigen::MatrixXd::Constant(2, 2, 1.0);
+  map.cla_m2 = Eigen::MatrixXd::Constant(2, 2, 4.0);
+  map.balance = Eigen::MatrixXd::Constant(2, 2, 0.4);
+  map.static_front_m = 0.04;
+  map.static_rear_m = 0.08;
+  map.stiffness_front_npm = 3e5;
+  map.stiffness_rear_npm = 4e5;
+  // Constant coefficients: h = h0 - F / k exactly, with the drag moment D z / L off the front.
+  const double v = 70.0, rho = 1.2, z = 0.4, wb = 2.9, q = 0.5 * rho * v * v;
+  const AeroPoint p = solve_ride_heights(map, v, rho, z, wb, 0.04, 0.08);
+  // To the solver's tolerance on the residual, 1e-10 m.
+  CHECK(near(p.front_ride_m, 0.04 - (q * 4.0 * 0.4 - q * 1.0 * z / wb) / 3e5, 0.0, 1e-9));
+  CHECK(near(p.rear_ride_m, 0.08 - (q * 4.0 * 0.6 + q * 1.0 * z / wb) / 4e5, 0.0, 1e-9));
+  CHECK_FALSE(p.off_map);
+  CHECK_FALSE(p.grounded);
+  // Soft enough springs ground the front.
+  map.stiffness_front_npm = 2e4;
+  CHECK(solve_ride_heights(map, v, rho, z, wb, 0.04, 0.08).grounded);
+}
+
+TEST_CASE("straight-line trim: less drag on straights is faster on a fast lap, and is reported") {
+  const Car car = load_car(test::source_path("cars/pellion-fr2.yaml"));
+  const std::size_t plain = static_cast<std::size_t>(car.config_index("high"));
+  const std::size_t trim = static_cast<std::size_t>(car.config_index("high_trim"));
+  const Track track = load_track(test::source_path("tracks/saltmere-flats.yaml"));
+  const Mesh mesh = build_mesh(track, track.mesh_m);
+  const Envelope a(car.configured(plain), make_air(track.air));
+  const Envelope b(car.configured(trim), make_air(track.air));
+  const Lap la = solve_lap(a, mesh), lb = solve_lap(b, mesh);
+  CHECK(lb.lap_time_s < la.lap_time_s);
+  CHECK(b.top_speed_level_mps() > a.top_speed_level_mps());
+  std::size_t trimmed = 0;
+  for (std::size_t i = 0; i < mesh.size(); ++i) {
+    if (!lb.trimmed[i]) continue;
+    ++trimmed;
+    // Trim only on straight enough pieces under drive.
+    CHECK(std::abs(mesh.curvature_1pm[i]) < 0.002);
+    CHECK(lb.phase[i] != Phase::brake);
+  }
+  CHECK(trimmed > mesh.size() / 4);
+}

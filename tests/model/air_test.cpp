@@ -1,0 +1,44 @@
+// The air: ISO 2533:1975 standard atmosphere and moist-air density (REFERENCES.md).
+#include <doctest/doctest.h>
+
+#include "lapwing/model/air.hpp"
+#include "test_support.hpp"
+
+using namespace lapwing;
+using lapwing::test::near;
+
+TEST_CASE("ISO 2533 sea level: 288.15 K, 101325 Pa, 1.2250 kg/m3") {
+  const StandardAtmosphere a = standard_atmosphere(0.0);
+  CHECK(a.temperature_k == 288.15);
+  CHECK(a.pressure_pa == 101325.0);
+  CHECK(near(a.density_kg_m3, 1.2250, 5e-5));
+}
+
+TEST_CASE("ISO 2533 densities at 500 to 3000 m match the table to 0.05 % (table from memory)") {
+  const double table[][2] = {{500, 1.1673},  {1000, 1.1117}, {1500, 1.0581},
+                             {2000, 1.0066}, {2500, 0.9569}, {3000, 0.9093}};
+  for (const auto& row : table) {
+    CAPTURE(row[0]);
+    CHECK(near(standard_atmosphere(row[0]).density_kg_m3, row[1], 5e-4));
+  }
+  // Pressure table values (from memory): 1000 m 89876 Pa, 2000 m 79501 Pa.
+  CHECK(near(standard_atmosphere(1000).pressure_pa, 89876.0, 5e-4));
+  CHECK(near(standard_atmosphere(2000).pressure_pa, 79501.0, 5e-4));
+}
+
+TEST_CASE("moist air at 20 C, 101325 Pa, 50 % RH is 1.1989 kg/m3 (REFERENCES check value; 0.1 %)") {
+  CHECK(near(moist_air_density(101325.0, 293.15, 0.5), 1.1989, 1e-3));
+  // Saturation vapour pressure over water at 20 C: 2339 Pa (CRC Handbook table, from memory);
+  // the Magnus form agrees within 0.3 %.
+  CHECK(near(saturation_vapour_pressure_pa(293.15), 2339.0, 3e-3));
+}
+
+TEST_CASE("given values replace the standard ones; none given is the standard atmosphere") {
+  const Air standard = make_air(AirSpec{320.0, {}, {}, 0.0});
+  CHECK(standard.standard);
+  CHECK(standard.density_kg_m3 == standard_atmosphere(320.0).density_kg_m3);
+  const Air hot = make_air(AirSpec{320.0, 308.15, {}, 0.0});
+  CHECK_FALSE(hot.standard);
+  CHECK(hot.pressure_pa == standard_atmosphere(320.0).pressure_pa);
+  CHECK(hot.density_kg_m3 < standard.density_kg_m3);
+}

@@ -1,0 +1,50 @@
+// Tyre model: load sensitivity as SPEC section 6 defines it, and the friction ellipse.
+#include <doctest/doctest.h>
+
+#include <cmath>
+
+#include "lapwing/model/tyre.hpp"
+#include "test_support.hpp"
+
+using namespace lapwing;
+using lapwing::test::near;
+
+TEST_CASE("mu falls by load_sensitivity for each +100 % of load, never below 0.1 mu0 (SPEC 6)") {
+  const TyreModel t(Tyres{1.5, 1.7, 1600.0, 0.08, 2.0, 0.33, 0.0});
+  CHECK(t.mu_factor(1600.0) == 1.0);
+  CHECK(near(t.mu_factor(3200.0), 0.92, 1e-12));
+  CHECK(near(t.mu_factor(800.0), 1.04, 1e-12));
+  CHECK(t.mu_factor(1e7) == TyreModel::floor_fraction);
+  // Whole-car peak force: mu(N/4) N.
+  CHECK(near(t.fy_max(4 * 3200.0), 1.7 * 0.92 * 4 * 3200.0, 1e-12));
+}
+
+TEST_CASE("the ellipse leaves (1 - r^n)^(1/n) of Fx_max at lateral ratio r") {
+  for (double n : {2.0, 1.5, 3.0}) {
+    const TyreModel t(Tyres{1.5, 1.7, 1600.0, 0.0, n, 0.33, 0.0});
+    for (double r : {0.0, 0.3, 0.8, 0.999}) {
+      const double left = t.long_share_left(r);
+      CHECK(near(left, std::pow(1 - std::pow(r, n), 1 / n), 1e-12));
+      CHECK(near(t.usage(left, r), 1.0, 1e-12));  // on the boundary
+    }
+    CHECK(t.long_share_left(1.0) == 0.0);
+    CHECK(t.long_share_left(1.2) == 0.0);
+  }
+}
+
+TEST_CASE("the least axle load for a lateral force is the smaller root of mu(L/2) L = Fy") {
+  // Round trip through the axle's peak force, mu_lat0 (1 - s (L/2 - Fn) / Fn) L (SPEC 6): with
+  // and without load sensitivity, and on the floor of 0.1 mu0 beyond the parabola's top.
+  for (const double s : {0.0, 0.08, 0.3}) {
+    const TyreModel t(Tyres{1.5, 1.7, 1600.0, s, 2.0, 0.33, 0.0});
+    for (const double load : {200.0, 1600.0, 3200.0, 6000.0}) {
+      const double fy = t.axle_limits(load).fy_max;
+      CHECK(near(t.axle_load_for_lateral(fy), load, 1e-12));
+      CHECK(near(t.axle_load_for_lateral(-fy), load, 1e-12));
+    }
+  }
+  // s = 0.3: the peak is at L = (1 + s) Fn / s (per axle 2 Fn (1 + s) / (2 s)), where
+  // mu_lat0 L (1 + s) / 2 = 1.7 x 6933 x 0.65 = 7661 N; more than that needs the floor's load.
+  const TyreModel t(Tyres{1.5, 1.7, 1600.0, 0.3, 2.0, 0.33, 0.0});
+  CHECK(near(t.axle_load_for_lateral(9000.0), 9000.0 / (0.1 * 1.7), 1e-12));
+}

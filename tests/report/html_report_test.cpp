@@ -1,0 +1,185 @@
+// report.html: well-formed (parsed here as XML), the expected plots by id, nothing fetched.
+#include <doctest/doctest.h>
+
+#include <cctype>
+#include <set>
+#include <stdexcept>
+#include <string>
+#include <vector>
+
+#include "lapwing/report/cells.hpp"
+#include "lapwing/report/html_report.hpp"
+#include "lapwing/study/trade.hpp"
+#include "test_support.hpp"
+
+using namespace lapwing;
+
+namespace {
+
+// A strict little XML reader: every element closed in order, attributes quoted and unique,
+// entities well-formed, no stray '<' or '&'. The report is written to pass it (so it is also
+// well-formed HTML). Returns the ids of all elements.
+std::set<std::string> parse_xml(const std::string& s) {
+  std::set<std::string> ids;
+  std::vector<std::string> stack;
+  std::size_t i = 0;
+  auto fail = [&](const std::string& what) {
+    throw std::runtime_error(what + " at offset " + std::to_string(i) + ": " + s.substr(i, 60));
+  };
+  auto name_char = [](char c) {
+    return std::isalnum(static_cast<unsigned char>(c)) || c == '-' || c == '_' || c == ':';
+  };
+  auto entity = [&] {
+    const std::size_t end = s.find(';', i);
+    if (end == std::string::npos || end - i > 10) fail("bad entity");
+    const std::string e = s.substr(i + 1, end - i - 1);
+    const bool numeric =
+        e.size() > 1 && e[0] == '#' && e.find_first_not_of("0123456789", 1) == std::string::npos;
+    if (!numeric && e != "amp" && e != "lt" && e != "gt" && e != "quot" && e != "apos")
+      fail("unknown entity &" + e + ";");
+    i = end + 1;
+  };
+  if (s.rfind("<!DOCTYPE html>", 0) == 0) i = 15;
+  while (i < s.size()) {
+    if (s[i] == '&') {
+      entity();
+      continue;
+    }
+    if (s[i] != '<') {
+      ++i;
+      continue;
+    }
+    if (s.compare(i, 2, "</") == 0) {
+      std::size_t j = i + 2;
+      while (j < s.size() && name_char(s[j])) ++j;
+      const std::string name = s.substr(i + 2, j - i - 2);
+      if (stack.empty() || stack.back() != name) fail("mismatched </" + name + ">");
+      stack.pop_back();
+      if (j >= s.size() || s[j] != '>') fail("bad end tag");
+      i = j + 1;
+      continue;
+    }
+    std::size_t j = i + 1;
+    while (j < s.size() && name_char(s[j])) ++j;
+    const std::string name = s.substr(i + 1, j - i - 1);
+    if (name.empty()) fail("bad tag");
+    std::set<std::string> attrs;
+    i = j;
+    while (true) {
+      while (i < s.size() && std::isspace(static_cast<unsigned char>(s[i]))) ++i;
+      if (i >= s.size()) fail("unterminated tag");
+      if (s.compare(i, 2, "/>") == 0) {
+        i += 2;
+        break;
+      }
+      if (s[i] == '>') {
+        ++i;
+        stack.push_back(name);
+        // Style text is CSS: skip to its end tag (it holds no markup).
+        if (name == "style") {
+          const std::size_t end = s.find("</style>", i);
+          if (end == std::string::npos) fail("unterminated style");
+          i = end;
+        }
+        break;
+      }
+      std::size_t k = i;
+      while (k < s.size() && name_char(s[k])) ++k;
+      const std::string attr = s.substr(i, k - i);
+      if (attr.empty() || k >= s.size() || s[k] != '=' || s[k + 1] != '"')
+        fail("attribute not quoted");
+      if (!attrs.insert(attr).second) fail("duplicate attribute " + attr);
+      const std::size_t close = s.find('"', k + 2);
+      if (close == std::string::npos) fail("unterminated attribute");
+      const std::string value = s.substr(k + 2, close - k - 2);
+      if (value.find('<') != std::string::npos) fail("'<' in an attribute");
+      if (attr == "id") ids.insert(value);
+      i = close + 1;
+    }
+  }
+  if (!stack.empty()) throw std::runtime_error("unclosed <" + stack.back() + ">");
+  return ids;
+}
+
+Circuit circuit(const std::string& file) {
+  const Track t = load_track(test::source_path(file));
+  return lay_out(t, make_air(t.air));
+}
+
+}  // namespace
+
+TEST_CASE("the compare and trade report is well-formed, holds every plot, and fetches nothing") {
+  const Car car = load_car(test::source_path("cars/caldra-gt.yaml"));
+  const std::vector<Circuit> circuits{circuit("tracks/brannock-park.yaml"),
+                                      circuit("tracks/cairnholt.yaml")};
+  const Comparison cmp = compare(car, {0, 1}, circuits, 2);
+  const Trade tr = trade(car, {0}, circuits, TradeOptions{0.02, 5, 0.15}, 2);
+  const std::string html = html_report({&car, &circuits, &cmp, &tr, "test"});
+  std::set<std::string> ids;
+  REQUIRE_NOTHROW(ids = parse_xml(html));
+  for (const char* id :
+       {"lap-bars", "speed-brannock-park", "delta-brannock-park", "map-brannock-park",
+        "front-share-brannock-park", "gg-brannock-park", "trade-map-brannock-park",
+        "speed-cairnholt", "trade-map-cairnholt", "inputs", "summary", "trade"}) {
+    CAPTURE(id);
+    CHECK(ids.count(id) == 1);
+  }
+  CHECK(html.find("http://") == std::string::npos);
+  CHECK(html.find("https://") == std::string::npos);
+  CHECK(html.find("<script") == std::string::npos);
+  CHECK(html.find("confirm any change") == std::string::npos);  // the caution is capitalised
+  CHECK(html.find("Confirm any change to a real car by testing") != std::string::npos);
+  CHECK(html.find("@media print") != std::string::npos);
+}
+
+TEST_CASE("a run report has its plots and no delta or trade map") {
+  const Car car = load_car(test::source_path("cars/pellion-fr2.yaml"));
+  const Circuit c = circuit("tracks/skidpad.yaml");
+  const std::vector<Circuit> circuits{c};
+  const Comparison one = single_lap_comparison(0, run_lap(car.configured(0), c), c);
+  const std::set<std::string> ids = parse_xml(html_report({&car, &circuits, &one, nullptr, "run"}));
+  CHECK(ids.count("speed-skidpad") == 1);
+  CHECK(ids.count("map-skidpad") == 1);
+  CHECK(ids.count("gg-skidpad") == 1);
+  CHECK(ids.count("delta-skidpad") == 0);
+  CHECK(ids.count("trade-map-skidpad") == 0);
+}
+
+TEST_CASE("run's single-lap page: speed, map, balance, g-g and the corners table; no bars of one") {
+  const Car car = load_car(test::source_path("cars/caldra-gt.yaml"));
+  const Circuit c = circuit("tracks/brannock-park.yaml");
+  const std::vector<Circuit> circuits{c};
+  const LapRun r = run_lap(car.configured(1), c);
+  const Comparison one = single_lap_comparison(1, r, c);
+  const std::string html = html_report({&car, &circuits, &one, nullptr, "run"});
+  const std::set<std::string> ids = parse_xml(html);
+  for (const char* id : {"speed-brannock-park", "map-brannock-park", "front-share-brannock-park",
+                         "gg-brannock-park", "corners-brannock-park", "balance-brannock-park"}) {
+    CAPTURE(id);
+    CHECK(ids.count(id) == 1);
+  }
+  // A bar of a lap's delta to itself is zero and says nothing.
+  CHECK(ids.count("lap-bars") == 0);
+  // Every corner of the lap is a row with its apex speed, limit and axles (with the values).
+  for (const auto& corner : r.summary.corners) {
+    const std::string row =
+        "<td>" + std::to_string(corner.id) + (corner.direction > 0 ? " L" : " R") + "</td>";
+    CAPTURE(corner.id);
+    const std::size_t at = html.find(row);
+    REQUIRE(at != std::string::npos);
+    const std::string rest = html.substr(at, html.find("</tr>", at) - at);
+    CHECK(rest.find(">" + corner.limit + "<") != std::string::npos);
+    CHECK(rest.find(">" + axle_cell(corner) + "<") != std::string::npos);
+    CHECK(rest.find(">" + balance_index_cell(corner) + "<") != std::string::npos);
+  }
+  CHECK(html.find("both within +-0.02") != std::string::npos);
+  CHECK(html.find("Caldra GT") != std::string::npos);
+}
+
+TEST_CASE("the XML reader refuses what is not well-formed") {
+  CHECK_THROWS(parse_xml("<a><b></a></b>"));
+  CHECK_THROWS(parse_xml("<a x=1></a>"));
+  CHECK_THROWS(parse_xml("<a>&nbsp;</a>"));
+  CHECK_THROWS(parse_xml("<a>"));
+  CHECK(parse_xml("<a id=\"q\"><b/>&amp;&#183;</a>").count("q") == 1);
+}

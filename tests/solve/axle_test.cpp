@@ -1,0 +1,194 @@
+// Balance along the lap: axle loads against a hand-worked state (moments about the rear contact
+// patch; REFERENCES, load transfer), and the axle model against the point mass where they must
+// agree and where they must not.
+#include <doctest/doctest.h>
+
+#include <algorithm>
+#include <cmath>
+
+#include "lapwing/base/units.hpp"
+#include "lapwing/solve/axle.hpp"
+#include "lapwing/study/trade.hpp"
+#include "test_support.hpp"
+
+using namespace lapwing;
+using lapwing::test::near;
+
+namespace {
+Circuit circuit(const std::string& file) {
+  const Track t = load_track(test::source_path(file));
+  return lay_out(t, make_air(t.air));
+}
+Car formula(std::size_t config) {
+  return load_car(test::source_path("cars/pellion-fr2.yaml")).configured(config);
+}
+}  // namespace
+
+TEST_CASE("axle loads at a hand-worked state (moments about the rear contact patch; 1e-9)") {
+  Car car = test::plain_car(700.0);
+  car.front_weight = 0.45;
+  car.cg_height_m = 0.3;
+  car.wheelbase_m = 3.0;
+  car.drag_height_m = 0.5;
+  // W = 700 g0 = 6864.655 N. Front = 0.45 W + 0.40 x 3000 - (1000 x 0.5 + 700 x 2 x 0.3) / 3
+  //       = 3089.09475 + 1200 - 306.6667 = 3982.428083 N; rear = W + 3000 - front.
+  const AxleLoads l = axle_loads(car, 1000.0, 3000.0, 0.40, 1.0, 0.0, 2.0);
+  CHECK(near(l.front_n, 3089.09475 + 1200.0 - 920.0 / 3.0, 1e-9));
+  CHECK(near(l.rear_n, 6864.655 + 3000.0 - l.front_n, 1e-9));
+  // Uphill 5 %: the weight's component along the slope acts at the cg height too.
+  const double c = 1 / std::sqrt(1 + 0.0025), s = 0.05 * c;
+  const AxleLoads up = axle_loads(car, 0.0, 0.0, 0.4, c, s, 0.0);
+  CHECK(near(up.front_n, 6864.655 * (c * 0.45 - s * 0.3 / 3.0), 1e-9));
+}
+
+TEST_CASE("with no aero, no drag height and no acceleration the shares are the static split") {
+  Car car = test::plain_car(600.0, 1.5);
+  car.front_weight = 0.45;
+  const Circuit c = lay_out(test::circle_track(50.0, 0.5), make_air(AirSpec{}));
+  const LapRun r = run_lap(car, c);
+  for (std::size_t i = 0; i < c.mesh.size(); i += 50) {
+    CHECK(r.lap.long_accel_mps2[i] == doctest::Approx(0.0).epsilon(1e-9));
+    CHECK(near(r.lap.front_share[i], 0.45, 1e-9));
+  }
+}
+
+TEST_CASE("the axle model of a balanced all-wheel-drive car is the point mass (1e-6)") {
+  // 50/50 weight and aero balance, no drag height, all-wheel drive, 50 % brake bias, and a
+  // centre of gravity 1 um up (the file rule asks for > 0): both axles carry the same at every
+  // point, so the first to saturate is either, and the limits are the point mass's.
+  Car car = formula(1);
+  car.front_weight = 0.5;
+  car.configs.front().balance = {0.5};
+  car.drag_height_m = 0.0;
+  car.cg_height_m = 1e-6;
+  car.powertrain.driven = DrivenAxle::all;
+  car.brake_front_bias = 0.5;
+  for (const char* track : {"tracks/brannock-park.yaml", "tracks/cairnholt.yaml"}) {
+    const Circuit c = circuit(track);
+    Car axle = car;
+    axle.model = VehicleModel::axle;
+    const double point = run_lap(car, c).summary.lap_time_s;
+    CHECK(near(run_lap(axle, c).summary.lap_time_s, point, 1e-6));
+  }
+}
+
+TEST_CASE(
+    "axle model: more weight on a rear-driven car's rear axle shortens traction-limited exits") {
+  Car forward = formula(1), rearward = formula(1);
+  forward.model = rearward.model = VehicleModel::axle;
+  rearward.front_weight = 0.38;
+  // A standing start is traction-limited from the line.
+  const Circuit accel = circuit("tracks/acceleration.yaml");
+  CHECK(run_lap(rearward, accel).summary.lap_time_s < run_lap(forward, accel).summary.lap_time_s);
+  // The exit of Brannock Park's first hairpin: from its apex to 150 m on.
+  const Circuit tight = circuit("tracks/brannock-park.yaml");
+  const LapRun a = run_lap(forward, tight), b = run_lap(rearward, tight);
+  const CornerResult& hairpin = a.summary.corners.front();
+  const std::size_t i0 = static_cast<std::size_t>(hairpin.apex_m / tight.mesh.step_m + 0.5);
+  const std::size_t i1 = i0 + static_cast<std::size_t>(150.0 / tight.mesh.step_m);
+  CHECK(b.lap.time_s[i1] - b.lap.time_s[i0] < a.lap.time_s[i1] - a.lap.time_s[i0]);
+  // and the point mass, which shares grip over all four tyres, does not see it at all.
+  forward.model = rearward.model = VehicleModel::point_mass;
+  CHECK(run_lap(rearward, accel).summary.lap_time_s == run_lap(forward, accel).summary.lap_time_s);
+}
+
+TEST_CASE("more drag height lowers the front share at top speed by exactly drag x dh / L") {
+  Car low = formula(1), tall = formula(1);
+  tall.drag_height_m = low.drag_height_m + 0.2;
+  const Circuit c = circuit("tracks/saltmere-flats.yaml");
+  const LapRun a = run_lap(low, c), b = run_lap(tall, c);
+  const auto top = static_cast<std::size_t>(
+      std::max_element(a.lap.speed_mps.begin(), a.lap.speed_mps.end()) - a.lap.speed_mps.begin());
+  // The point-mass speeds do not depend on the drag height: the same state, other loads.
+  REQUIRE(a.lap.speed_mps[top] == b.lap.speed_mps[top]);
+  const double drag = a.lap.drag_n[top];
+  CHECK(
+      near(a.lap.front_load_n[top] - b.lap.front_load_n[top], drag * 0.2 / low.wheelbase_m, 1e-9));
+  const double total = a.lap.front_load_n[top] + a.lap.rear_load_n[top];
+  CHECK(near(a.lap.front_share[top] - b.lap.front_share[top], drag * 0.2 / low.wheelbase_m / total,
+             1e-9));
+}
+
+TEST_CASE("usage: the car on its steady limit uses all of the limiting axle's ellipse") {
+  Car car = formula(1);
+  car.model = VehicleModel::axle;
+  const Circuit c = lay_out(test::circle_track(80.0, 0.5), make_air(AirSpec{}));
+  const LapRun r = run_lap(car, c);
+  const std::size_t i = c.mesh.size() / 2;
+  CHECK(near(std::max(r.lap.front_usage[i], r.lap.rear_usage[i]), 1.0, 1e-6));
+}
+
+TEST_CASE(
+    "the aero balance with the drag moment is (ClA bal - CdA z_D / L) / ClA; none without "
+    "downforce") {
+  // Hand-worked (moments about the rear contact patch, REFERENCES load transfer): ClA 3.6 m2 at
+  // balance 0.42, CdA 1.2 m2 at 0.42 m, L = 2.9 m: 0.42 - (1.2 x 0.42 / 2.9) / 3.6 = 0.371724...
+  const auto b = aero_balance_with_drag_moment(3.6, 1.2, 0.42, 0.42, 2.9);
+  REQUIRE(b);
+  CHECK(near(*b, 0.42 - 1.2 * 0.42 / 2.9 / 3.6, 1e-15));
+  // The forces' ratio at any speed is the coefficients' ratio: the trace's channel agrees.
+  const Car car = formula(1);
+  const Circuit c = circuit("tracks/cairnholt.yaml");
+  const LapRun r = run_lap(car, c);
+  const std::size_t i = r.lap.speed_mps.size() / 3;
+  const double df = r.lap.downforce_n[i], d = r.lap.drag_n[i];
+  const double bal = car.configs.front().balance.front();  // a constant config
+  CHECK(near(r.lap.aero_balance_eff[i], (df * bal - d * car.drag_height_m / car.wheelbase_m) / df,
+             1e-12));
+  // No downforce: a share of no load is undefined, whatever the drag.
+  CHECK_FALSE(aero_balance_with_drag_moment(0.0, 0.9, 0.45, 0.5, 2.6));
+  const Car bare = load_car(test::source_path("tests/data/drag-only-car.yaml")).configured(0);
+  const LapRun nr = run_lap(bare, circuit("tracks/skidpad.yaml"));
+  CHECK(std::isnan(nr.lap.aero_balance_eff[10]));
+  CHECK_FALSE(nr.summary.balance.aero_balance_eff_150);
+  CHECK_FALSE(nr.summary.balance.aero_balance_eff_250);
+}
+
+TEST_CASE("axle model: no point of any bundled lap uses more than either axle's ellipse") {
+  // Issue 10, item 5: every phase (drive, braking, steady) checks both axles. The trace's usage
+  // is worked from the speed profile (a_x by the central difference of v^2, held within what
+  // the state at the point allows). One state is not exact: where braking meets the steady limit
+  // that a rear axle sets, the rear cannot shed the drive that holds the speed without losing
+  // the load that holds its lateral force, and the point between reads up to 1.015 (measured on
+  // these laps). Before issue 10 the front axle read 1.11-1.26 on corner exits.
+  constexpr double tol = 0.02;
+  for (const char* car_file : {"cars/caldra-gt.yaml", "cars/pellion-fr2.yaml"}) {
+    const Car file = load_car(test::source_path(car_file));
+    for (const char* track_file :
+         {"tracks/brannock-park.yaml", "tracks/saltmere-flats.yaml", "tracks/cairnholt.yaml",
+          "tracks/brannock-park-survey.yaml", "tracks/skidpad.yaml", "tracks/acceleration.yaml"}) {
+      const Circuit c = circuit(track_file);
+      for (std::size_t config = 0; config < file.configs.size(); ++config) {
+        Car car = file.configured(config);
+        car.model = VehicleModel::axle;
+        const LapRun r = run_lap(car, c);
+        const auto front = std::max_element(r.lap.front_usage.begin(), r.lap.front_usage.end());
+        const auto rear = std::max_element(r.lap.rear_usage.begin(), r.lap.rear_usage.end());
+        CAPTURE(std::string(car_file));
+        CAPTURE(std::string(track_file));
+        CAPTURE(car.configs.front().name);
+        CAPTURE(c.mesh.s_m[static_cast<std::size_t>(front - r.lap.front_usage.begin())]);
+        CAPTURE(c.mesh.s_m[static_cast<std::size_t>(rear - r.lap.rear_usage.begin())]);
+        CHECK(*front <= 1.0 + tol);
+        CHECK(*rear <= 1.0 + tol);
+      }
+    }
+  }
+}
+
+TEST_CASE("axle model: front-, rear- and all-wheel drive keep both axles within their ellipse") {
+  // The drive of an all-wheel-drive car is shared by load (axle.hpp): the largest total that
+  // neither axle refuses. Tolerance as above.
+  constexpr double tol = 0.02;
+  for (const DrivenAxle driven : {DrivenAxle::front, DrivenAxle::rear, DrivenAxle::all})
+    for (const char* track_file : {"tracks/brannock-park.yaml", "tracks/cairnholt.yaml"}) {
+      Car car = load_car(test::source_path("cars/caldra-gt.yaml")).configured(1);
+      car.model = VehicleModel::axle;
+      car.powertrain.driven = driven;
+      const LapRun r = run_lap(car, circuit(track_file));
+      CAPTURE(static_cast<int>(driven));
+      CAPTURE(std::string(track_file));
+      CHECK(*std::max_element(r.lap.front_usage.begin(), r.lap.front_usage.end()) <= 1.0 + tol);
+      CHECK(*std::max_element(r.lap.rear_usage.begin(), r.lap.rear_usage.end()) <= 1.0 + tol);
+    }
+}

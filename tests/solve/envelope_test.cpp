@@ -1,0 +1,69 @@
+// The envelope: aero forces, drive, and the top speed against closed forms.
+#include <doctest/doctest.h>
+
+#include <Eigen/Eigenvalues>
+#include <cmath>
+
+#include "lapwing/base/units.hpp"
+#include "lapwing/model/powertrain.hpp"
+#include "lapwing/solve/envelope.hpp"
+#include "test_support.hpp"
+
+using namespace lapwing;
+using lapwing::test::near;
+
+namespace {
+// The one real positive root of a v^3 + b v^2 + c v + d, from the eigenvalues of the companion
+// matrix (Eigen, a general-purpose reference library).
+double positive_real_root(double a, double b, double c, double d) {
+  Eigen::Matrix3d comp;
+  comp << -b / a, -c / a, -d / a, 1, 0, 0, 0, 1, 0;
+  const Eigen::Vector3cd roots = comp.eigenvalues();
+  double best = -1.0;
+  for (int i = 0; i < 3; ++i)
+    if (std::abs(roots[i].imag()) < 1e-9 && roots[i].real() > 0) best = roots[i].real();
+  return best;
+}
+}  // namespace
+
+TEST_CASE("top speed on the level solves eta P = (k v^2 + Crr m g) v (REFERENCES; 0.1 %)") {
+  for (double cda : {0.6, 1.2, 1.5}) {
+    Car car = test::plain_car(640.0, 1.5, 400e3);
+    car.configs.front().cda_m2 = {cda};
+    car.tyres.rolling_resistance = 0.012;
+    car.powertrain.efficiency = 0.92;
+    const Air air = make_air(AirSpec{});
+    const Envelope env(car, air);
+    const double k = 0.5 * air.density_kg_m3 * cda;
+    // k v^3 + 0 v^2 + Crr m g v - eta P = 0
+    const double v = positive_real_root(k, 0.0, 0.012 * 640.0 * units::g0, -0.92 * 400e3);
+    CHECK(near(env.top_speed_level_mps(), v, 1e-3));
+    CHECK_FALSE(env.rev_limited());
+  }
+}
+
+TEST_CASE("aero forces are 0.5 rho C v^2 (definition of the coefficients)") {
+  Car car = test::plain_car();
+  car.configs.front().cda_m2 = {1.2};
+  car.configs.front().cla_m2 = {3.6};
+  const Air air = make_air(AirSpec{});
+  const Envelope env(car, air);
+  for (double v : {10.0, 55.5, 80.0}) {
+    CHECK(near(env.drag_n(v), 0.5 * air.density_kg_m3 * 1.2 * v * v, 1e-12));
+    CHECK(near(env.downforce_n(v), 0.5 * air.density_kg_m3 * 3.6 * v * v, 1e-12));
+  }
+  // N = m g cos(theta) + downforce; resistance = drag + Crr N + m g sin(theta).
+  CHECK(near(env.normal_load_n(30.0, 1.0), 600.0 * units::g0 + env.downforce_n(30.0), 1e-12));
+}
+
+TEST_CASE("a geared car is capped at the rev limit in top gear when drag allows more") {
+  Car car = test::constant_force_car(600.0, 3000.0, 1.5);
+  car.powertrain.rev_limit_radps = 8000 * units::rpm;
+  const Envelope env(car, make_air(AirSpec{}));
+  const double v_limit = 8000 * units::rpm * car.tyres.rolling_radius_m / 3.0;
+  CHECK(env.rev_limited());
+  CHECK(near(env.max_speed_mps(), v_limit, 1e-12));
+  CHECK(near(env.top_speed_level_mps(), v_limit, 1e-12));
+  // The table reads the drive of best_drive at its rows.
+  CHECK(near(env.drive_n(v_limit * 0.5), 3000.0, 1e-9));
+}

@@ -1,0 +1,188 @@
+// The lap summary: sectors, corners, time shares, all consistent with the traces.
+#include <doctest/doctest.h>
+
+#include <algorithm>
+#include <cmath>
+#include <numeric>
+
+#include "lapwing/base/units.hpp"
+#include "lapwing/solve/summary.hpp"
+#include "test_support.hpp"
+
+using namespace lapwing;
+using lapwing::test::near;
+
+TEST_CASE("sector times add up to the lap; corners hold their apex; shares are fractions") {
+  const Car car = load_car(test::source_path("cars/caldra-gt.yaml")).configured(1);
+  const Track track = load_track(test::source_path("tracks/saltmere-flats.yaml"));
+  const Envelope env(car, make_air(track.air));
+  const Mesh mesh = build_mesh(track, track.mesh_m);
+  const Lap lap = solve_lap(env, mesh);
+  const auto spans = find_corners(mesh);
+  const LapSummary s = summarize(lap, mesh, track, spans, env);
+  REQUIRE(s.sectors_s.size() == 3);
+  CHECK(near(std::accumulate(s.sectors_s.begin(), s.sectors_s.end(), 0.0), s.lap_time_s, 1e-12));
+  CHECK(s.corners.size() == spans.size());
+  for (const auto& c : s.corners) {
+    CHECK(c.start_m <= c.apex_m);
+    CHECK(c.apex_m <= c.end_m);
+    CHECK(c.apex_mps <= c.entry_mps);
+    CHECK(c.apex_mps <= c.exit_mps);
+    CHECK(c.time_s > 0.0);
+  }
+  CHECK(s.full_throttle_fraction > 0.0);
+  CHECK(s.braking_fraction > 0.0);
+  CHECK(s.full_throttle_fraction + s.braking_fraction <= 1.0);
+  CHECK(s.top_speed_mps >= s.min_speed_mps);
+  // Time at a distance interpolates the trace.
+  CHECK(near(time_at(lap, mesh, mesh.s_m[100]), lap.time_s[100], 1e-12));
+}
+
+TEST_CASE("the limiting axle is front, rear or both within the neutral band, beside its value") {
+  // The band is +-0.02 of usage (summary.hpp): its edges are "both", just past them an axle.
+  CHECK(limiting_axle(0.0) == "both");
+  CHECK(limiting_axle(axle_neutral_band) == "both");
+  CHECK(limiting_axle(-axle_neutral_band) == "both");
+  CHECK(limiting_axle(0.0201) == "front");
+  CHECK(limiting_axle(-0.0201) == "rear");
+  // On a lap each corner's labels are read from the trace's balance_index at the same points.
+  // The axle model, where each axle's usage sets the limits and the labels matter most.
+  Car car = load_car(test::source_path("cars/caldra-gt.yaml")).configured(0);
+  car.model = VehicleModel::axle;
+  const Track track = load_track(test::source_path("tracks/brannock-park.yaml"));
+  const Envelope env(car, make_air(track.air));
+  const Mesh mesh = build_mesh(track, track.mesh_m);
+  const Lap lap = solve_lap(env, mesh);
+  const LapSummary s = summarize(lap, mesh, track, find_corners(mesh), env);
+  REQUIRE(!s.corners.empty());
+  int both = 0;
+  for (const auto& c : s.corners) {
+    const auto at = [&](double s_m) {
+      return static_cast<std::size_t>(std::llround(s_m / mesh.step_m));
+    };
+    CHECK(c.apex_balance_index == lap.front_usage[at(c.apex_m)] - lap.rear_usage[at(c.apex_m)]);
+    CHECK(c.entry_balance_index == lap.front_usage[at(c.start_m)] - lap.rear_usage[at(c.start_m)]);
+    CHECK(c.entry_axle == limiting_axle(c.entry_balance_index));
+    CHECK(c.apex_axle == limiting_axle(c.apex_balance_index));
+    CHECK(c.exit_axle == limiting_axle(c.exit_balance_index));
+    both += c.apex_axle == "both";
+  }
+  // The sports car's apexes on this track sit near neutral: some fall inside the band (what the
+  // old two-way label called "front" or "rear" on a coin toss of 0.001).
+  CHECK(both > 0);
+  // Front-limited corners are those whose apex the front axle limits beyond the band.
+  for (const auto& c : s.corners) {
+    const auto& ids = s.balance.front_limited_corners;
+    const bool listed = std::find(ids.begin(), ids.end(), c.id) != ids.end();
+    CHECK(listed == (c.apex_axle == "front"));
+  }
+}
+
+namespace {
+// An open straight of `length_m` from a standing start: lap, mesh, summary of `car`.
+struct StraightRun {
+  Envelope env;
+  Mesh mesh;
+  Lap lap;
+  LapSummary summary;
+};
+StraightRun run_straight(const Car& car, double length_m, double mesh_m) {
+  const Track track = test::straight_track(length_m, mesh_m, 0.0);
+  Envelope env(car, make_air(AirSpec{}));
+  Mesh mesh = build_mesh(track, track.mesh_m);
+  Lap lap = solve_lap(env, mesh);
+  LapSummary s = summarize(lap, mesh, track, find_corners(mesh), env);
+  return {std::move(env), std::move(mesh), std::move(lap), std::move(s)};
+}
+
+bool has_warning(const LapSummary& s, const std::string& text) {
+  for (const auto& w : s.warnings)
+    if (w.find(text) != std::string::npos) return true;
+  return false;
+}
+}  // namespace
+
+TEST_CASE("a speed table that ends below the lap's speeds is a warning with its distance share") {
+  // Constant force F on mass m, no resistance: v^2 = 2 (F / m) s exactly (REFERENCES,
+  // constant force; the sweep's step is exact for a constant right-hand side). A table row at
+  // v_r is passed at s_r = v_r^2 m / (2 F): here the first row (9 m/s) at 8.1 m and the last
+  // (48 m/s) at 230.4 m of L = 400 m, so 2.025 % of the distance is below the table and
+  // 42.4 % above it.
+  const double m = 600.0, force = 3000.0, v_first = 9.0, v_last = 48.0, length = 400.0;
+  Car car = test::constant_force_car(m, force, 3.0);
+  AeroConfig& a = car.configs.front();
+  a.form = AeroConfig::Form::speed_table;
+  a.speed_mps = {v_first, v_last};  // 32.4 and 172.8 km/h
+  a.cda_m2 = {0.0, 0.0};
+  a.cla_m2 = {0.0, 0.0};
+  a.balance = {0.45, 0.45};
+  const StraightRun r = run_straight(car, length, 0.5);
+  auto passed_at = [&](double v) { return v * v * m / (2.0 * force); };
+  const double share_below = passed_at(v_first) / length;
+  const double share_above = 1.0 - passed_at(v_last) / length;
+  // Tolerance: the half-interval rule counts a crossing from the middle of the step it falls
+  // in, within half a step (0.25 m of 400 m, 6.3e-4 of the distance): 1e-3.
+  const std::vector<RangeNote> notes = range_notes(r.env);
+  REQUIRE(notes.size() == 3);  // below, above, the tables' top
+  CHECK(near(range_note_share(r.env, notes[0], r.lap, r.mesh), share_below, 0.0, 1e-3));
+  CHECK(near(range_note_share(r.env, notes[1], r.lap, r.mesh), share_above, 0.0, 1e-3));
+  CHECK(range_note_share(r.env, notes[2], r.lap, r.mesh) == 0.0);
+  // The lap's warnings (printed by run, written to summary.json) say the same, rounded.
+  CHECK(r.summary.warnings.size() == 2);
+  CHECK(has_warning(r.summary,
+                    "below the speed table's first row (32.4 km/h) its values are "
+                    "held: "));
+  CHECK(has_warning(r.summary,
+                    "above the speed table's last row (172.8 km/h) its values are "
+                    "held: 42.4 % of the lap distance"));
+}
+
+TEST_CASE("a gearless car with no top speed is held at the stated ceiling and warned of") {
+  // 1 MW, 500 kg, no drag, no rolling resistance: drive never falls to the resistance, so the
+  // tables stop at the ceiling and the lap is held there. Closed forms (REFERENCES, constant
+  // power): traction-limited at a = mu g up to v* = P / (m mu g), s* = v*^2 / (2 mu g); then
+  // v^3 = v*^3 + 3 P (s - s*) / m, which reaches the ceiling v_c at
+  // s_c = s* + m (v_c^3 - v*^3) / (3 P) = 2813.6 m of 4000 m.
+  const double m = 500.0, mu = 1.5, power = 1e6, length = 4000.0;
+  const StraightRun r = run_straight(test::plain_car(m, mu, power), length, 1.0);
+  const double v_c = EnvelopeOptions{}.speed_ceiling_mps;
+  CHECK(r.env.top_speed_limit() == TopSpeedLimit::ceiling);
+  CHECK(r.env.max_speed_mps() == v_c);
+  CHECK(r.summary.top_speed_mps == v_c);
+  const double g = units::g0, v_star = power / (m * mu * g);
+  const double s_c = v_star * v_star / (2 * mu * g) +
+                     m * (v_c * v_c * v_c - v_star * v_star * v_star) / (3 * power);
+  const std::vector<RangeNote> notes = range_notes(r.env);
+  REQUIRE(notes.size() == 1);
+  CHECK(notes[0].kind == RangeNote::Kind::table_top);
+  // Tolerance: half a step of the mesh (1 m of 4000 m) plus the sweep's fourth-order error on
+  // the v^3 law (far below that at a 1 m step): 5e-4 of the distance.
+  CHECK(near(range_note_share(r.env, notes[0], r.lap, r.mesh), 1.0 - s_c / length, 0.0, 5e-4));
+  CHECK(has_warning(r.summary, "the car's tables end at 900.0 km/h (the ceiling of the tables)"));
+}
+
+TEST_CASE(
+    "a lone point on the steady limit between braking and drive takes no time in the shares") {
+  // The car only touches its limit there (the apex of a corner without an arc): counted as its
+  // own phase it took a whole step's time, whatever the step (issue 10, item 3).
+  const Car car = test::plain_car();
+  const Track track = test::straight_track(10.0, 1.0, 10.0);
+  const Envelope env(car, make_air(track.air));
+  const Mesh mesh = build_mesh(track, 1.0);
+  REQUIRE(mesh.size() == 11);
+  Lap lap = solve_lap(env, mesh, track.start_speed_mps);
+  for (std::size_t i = 0; i < 11; ++i) {
+    lap.time_s[i] = static_cast<double>(i);  // 1 s per interval
+    lap.phase[i] = i < 5 ? Phase::brake : (i == 5 ? Phase::corner : Phase::accelerate);
+  }
+  lap.lap_time_s = 10.0;
+  const LapSummary s = summarize(lap, mesh, track, {}, env);
+  CHECK(s.braking_fraction == doctest::Approx(0.5).epsilon(1e-12));
+  CHECK(s.full_throttle_fraction == doctest::Approx(0.5).epsilon(1e-12));
+  // Two points on the limit are a stretch of it: the interval between them counts as corner,
+  // and the intervals on either side half: braking 4.5 s, drive 3.5 s.
+  lap.phase[6] = Phase::corner;
+  const LapSummary t = summarize(lap, mesh, track, {}, env);
+  CHECK(t.braking_fraction == doctest::Approx(0.45).epsilon(1e-12));
+  CHECK(t.full_throttle_fraction == doctest::Approx(0.35).epsilon(1e-12));
+}

@@ -1,0 +1,239 @@
+// Trade: sensitivities against explicit runs of edited car files, their signs, attribution.
+#include <doctest/doctest.h>
+
+#include <cmath>
+#include <fstream>
+#include <regex>
+#include <sstream>
+
+#include "lapwing/io/car_file.hpp"
+#include "lapwing/model/car.hpp"
+#include "lapwing/report/trade_report.hpp"
+#include "lapwing/study/trade.hpp"
+#include "test_support.hpp"
+
+using namespace lapwing;
+using lapwing::test::near;
+
+namespace {
+
+std::string read(const std::string& path) {
+  std::ifstream in(path);
+  std::stringstream ss;
+  ss << in.rdbuf();
+  return ss.str();
+}
+
+Car load_text(const std::string& text, const std::string& name) {
+  const std::string path = "study_test_" + name + ".yaml";
+  std::ofstream(path) << text;
+  Car c = load_car(path);
+  std::remove(path.c_str());
+  return c;
+}
+
+// Replaces every number in `text` matched by `pattern` (group 1 the number) by number * f.
+std::string scale_numbers(const std::string& text, const std::regex& pattern, double f) {
+  std::string out;
+  auto begin = std::sregex_iterator(text.begin(), text.end(), pattern);
+  std::size_t at = 0;
+  for (auto it = begin; it != std::sregex_iterator(); ++it) {
+    const auto& m = *it;
+    out += text.substr(at, static_cast<std::size_t>(m.position(1)) - at);
+    std::ostringstream os;
+    os.precision(17);
+    os << std::stod(m.str(1)) * f;
+    out += os.str();
+    at = static_cast<std::size_t>(m.position(1) + m.length(1));
+  }
+  return out + text.substr(at);
+}
+
+double lap_of(const Car& car, const std::string& config, const Circuit& c) {
+  return run_lap(car.configured(static_cast<std::size_t>(car.config_index(config))), c)
+      .summary.lap_time_s;
+}
+
+}  // namespace
+
+TEST_CASE("sensitivities equal two explicit runs of the car file edited by +-step (1e-9)") {
+  const std::string text = read(test::source_path("cars/pellion-fr2.yaml"));
+  const Car car = load_text(text, "base");
+  const std::size_t high = static_cast<std::size_t>(car.config_index("high"));
+  const std::vector<Circuit> circuits{test::bundled_circuit("tracks/brannock-park.yaml")};
+  const double h = 0.02;
+  const Trade t = trade(car, {high}, circuits, TradeOptions{h, 3, 0.15}, 2);
+  REQUIRE(t.sensitivities.size() == 1);
+  const Sensitivity& s = t.sensitivities.front();
+  // The edits a person would make in the file.
+  struct Edit {
+    std::regex pattern;
+    double nominal, got;
+  };
+  const Edit edits[] = {
+      {std::regex(R"(high: +\{cda: [0-9.]+ m2, cla: ([0-9.]+))"), 4.3, s.dt_dcla_s_per_m2},
+      {std::regex(R"(high: +\{cda: ([0-9.]+))"), 1.38, s.dt_dcda_s_per_m2},
+      {std::regex(R"(\nmass: ([0-9.]+))"), 640.0, s.dt_dmass_s_per_kg},
+      // Power: every torque value of the curve, one at a time (power per percent: x = 100 %).
+      {std::regex(R"(torque: \[([0-9.]+))"), 100.0, s.dt_dpower_s_per_percent},
+  };
+  auto edited = [&](const Edit& e, double f) {
+    std::string out = scale_numbers(text, e.pattern, f);
+    if (&e == &edits[3])
+      for (const char* value : {"390", "420", "395", "350"})
+        out = scale_numbers(out, std::regex(std::string(", (") + value + ")(?=[,\\]])"), f);
+    return out;
+  };
+  for (const Edit& e : edits) {
+    const Car up = load_text(edited(e, 1 + h), "up");
+    const Car down = load_text(edited(e, 1 - h), "down");
+    const double explicit_rate =
+        (lap_of(up, "high", circuits[0]) - lap_of(down, "high", circuits[0])) / (2 * h * e.nominal);
+    CAPTURE(e.nominal);
+    CHECK(explicit_rate != 0.0);
+    CHECK(near(e.got, explicit_rate, 1e-9));
+  }
+}
+
+TEST_CASE("signs: downforce pays on the tight track, drag and mass cost everywhere, power pays") {
+  const Car car = load_car(test::source_path("cars/pellion-fr2.yaml"));
+  const std::vector<Circuit> circuits{test::bundled_circuit("tracks/brannock-park.yaml"),
+                                      test::bundled_circuit("tracks/saltmere-flats.yaml"),
+                                      test::bundled_circuit("tracks/cairnholt.yaml")};
+  const Trade t = trade(car, {1}, circuits, TradeOptions{0.02, 3, 0.15}, 0);
+  for (const Sensitivity& s : t.sensitivities) {
+    CAPTURE(circuits[s.track].track.name);
+    CHECK(s.dt_dcda_s_per_m2 > 0.0);
+    CHECK(s.dt_dmass_s_per_kg > 0.0);
+    CHECK(s.dt_dpower_s_per_percent < 0.0);
+    if (s.track == 0) CHECK(s.dt_dcla_s_per_m2 < 0.0);  // Brannock Park: tight and slow
+  }
+  // Common practice (REFERENCES, facts of the trade): drag weighs most where straights are
+  // long, so one m2 of downforce may cost less drag at the fast track than at the tight one.
+  CHECK(t.sensitivities[1].breakeven_dcda_per_dcla < t.sensitivities[0].breakeven_dcda_per_dcla);
+}
+
+TEST_CASE("attribution: ClA and CdA terms plus the residual make the lap-time difference") {
+  const std::string configs =
+      "    a: {cda: 1.2, cla: 3.6, balance: 0.42}\n"
+      "    b: {cda: 1.2, cla: 3.672, balance: 0.42}\n"  // +2 % ClA only
+      "    c: {cda: 1.26, cla: 3.6, balance: 0.42}\n";  // +5 % CdA only
+  std::string text = read(test::source_path("cars/pellion-fr2.yaml"));
+  text = text.substr(0, text.find("  configs:")) + "  configs:\n" + configs;
+  const Car car = load_text(text, "attr");
+  const std::vector<Circuit> circuits{test::bundled_circuit("tracks/cairnholt.yaml")};
+  const Trade t = trade(car, {0}, circuits, TradeOptions{0.02, 3, 0.15}, 2);
+  REQUIRE(t.attributions.size() == 3);
+  for (const Attribution& a : t.attributions) {
+    // The total is the difference of the two laps run on their own.
+    const double ta = run_lap(car.configured(a.a), circuits[0]).summary.lap_time_s;
+    const double tb = run_lap(car.configured(a.b), circuits[0]).summary.lap_time_s;
+    CHECK(near(a.total_s, tb - ta, 1e-12));
+    CHECK(near(a.from_cla_s + a.from_cda_s + a.residual_s, a.total_s, 1e-12, 1e-15));
+  }
+  // A change of ClA alone is explained by the ClA term to second order: 2 % of ClA leaves a
+  // residual of a few percent at most.
+  const Attribution& ab = t.attributions[0];
+  CHECK(ab.from_cda_s == 0.0);
+  CHECK(std::abs(ab.residual_s) < 0.05 * std::abs(ab.total_s));
+  const Attribution& ac = t.attributions[1];
+  CHECK(ac.from_cla_s == 0.0);
+  CHECK(std::abs(ac.residual_s) < 0.05 * std::abs(ac.total_s));
+}
+
+TEST_CASE("attribution takes a speed table's ClA at the lap's operating point, not its first row") {
+  // b is a speed table whose first row (0 m/s) has ClA 1.0 but which holds ClA 3.8 from
+  // 10 m/s up; the lap never drops to 10 m/s, so b flies exactly as the constant config c
+  // (ClA 3.8). Its operating point is ClA 3.8, and a -> b splits as a -> c does. Taking the
+  // first row instead would give a ClA change of -2.6 m2 and flip the sign of the ClA term.
+  const std::string configs =
+      "    a: {cda: 1.2, cla: 3.6, balance: 0.42}\n"
+      "    b: {speed_table: {speed: [0, 10, 200], cda: [1.2, 1.2, 1.2], cla: [1.0, 3.8, 3.8],"
+      " balance: [0.42, 0.42, 0.42]}}\n"
+      "    c: {cda: 1.2, cla: 3.8, balance: 0.42}\n";
+  std::string text = read(test::source_path("cars/pellion-fr2.yaml"));
+  text = text.substr(0, text.find("  configs:")) + "  configs:\n" + configs;
+  const Car car = load_text(text, "op");
+  const std::vector<Circuit> circuits{test::bundled_circuit("tracks/brannock-park.yaml")};
+  const LapRun rb = run_lap(car.configured(1), circuits[0]);
+  // The lap stays clear of the rows below 10 m/s (with the envelope's row spacing to spare).
+  REQUIRE(rb.summary.min_speed_mps > 12.0);
+  const Trade t = trade(car, {0}, circuits, TradeOptions{0.02, 3, 0.15}, 2);
+  REQUIRE(t.operating.size() == 3);
+  // Tolerance: 0.5 rho C is stored and read back as C (two roundings): 1e-12.
+  CHECK(near(t.operating[1].cla_m2, 3.8, 1e-12));
+  CHECK(near(t.operating[1].cda_m2, 1.2, 1e-12));
+  CHECK(t.operating[2].cla_m2 == 3.8);  // a constant config: its value itself
+  REQUIRE(t.attributions.size() == 3);
+  const Attribution& ab = t.attributions[0];  // a -> b
+  const Attribution& ac = t.attributions[1];  // a -> c
+  REQUIRE((ab.b == 1 && ac.b == 2));
+  CHECK(near(ab.delta_cla_m2, 0.2, 1e-9));
+  // b and c fly the same lap; the steady limits' root finder (36 bits, ~1e-11 of a speed)
+  // may stop at other points of the two envelopes' rows: 1e-9 s on a 65 s lap.
+  CHECK(near(ab.total_s, ac.total_s, 0.0, 1e-9));
+  CHECK(near(ab.from_cla_s, ac.from_cla_s, 1e-9, 1e-15));
+  // More downforce pays at this tight circuit: both terms negative.
+  CHECK(ab.from_cla_s < 0.0);
+  CHECK(ab.total_s < 0.0);
+}
+
+TEST_CASE("trade prints no shares of a total under 0.05 s and flags a split the residual rules") {
+  const std::string configs =
+      "    a: {cda: 1.2, cla: 3.6, balance: 0.42}\n"
+      "    b: {cda: 1.2, cla: 3.601, balance: 0.42}\n"  // a thousandth of a m2: ~1 ms
+      "    c: {cda: 1.2, cla: 3.96, balance: 0.42}\n"   // +10 % ClA: ~0.5 s, first order holds
+      "    d: {cda: 1.2, cla: 3.6, balance: 0.42, mass: 700 kg}\n";  // no aero change at all
+  std::string text = read(test::source_path("cars/pellion-fr2.yaml"));
+  text = text.substr(0, text.find("  configs:")) + "  configs:\n" + configs;
+  const Car car = load_text(text, "shares");
+  const std::vector<Circuit> circuits{test::bundled_circuit("tracks/brannock-park.yaml")};
+  const Trade t = trade(car, {0}, circuits, TradeOptions{0.02, 3, 0.15}, 2);
+  REQUIRE(t.attributions.size() == 6);
+  const Attribution& ab = t.attributions[0];
+  const Attribution& ac = t.attributions[1];
+  const Attribution& ad = t.attributions[2];
+  REQUIRE(std::abs(ab.total_s) < attribution_share_min_total_s);
+  REQUIRE(std::abs(ac.total_s) > attribution_share_min_total_s);
+  // d differs from a by mass alone: ClA and CdA explain none of it, the residual is the total.
+  CHECK(ad.from_cla_s == 0.0);
+  CHECK(ad.from_cda_s == 0.0);
+  CHECK(ad.residual_s == ad.total_s);
+  CHECK_FALSE(ad.first_order_reliable);
+  CHECK(ac.first_order_reliable);
+  // The terminal: one line per pair from a; shares only where the total is 0.05 s or more, and
+  // the flag in words.
+  const std::string table = trade_table(car, t, circuits);
+  auto line_of = [&](const std::string& change) {
+    const std::size_t at = table.find(change);
+    REQUIRE(at != std::string::npos);
+    return table.substr(at, table.find('\n', at) - at);
+  };
+  CHECK(line_of("a -> b").find('%') == std::string::npos);
+  CHECK(line_of("a -> c").find('%') != std::string::npos);
+  CHECK(line_of("a -> c").find("not reliable") == std::string::npos);
+  CHECK(line_of("a -> d").find("first-order split not reliable for this step") !=
+        std::string::npos);
+  // trade.json: the same flag as a boolean and the words.
+  const std::string json = trade_json(car, t, circuits);
+  CHECK(json.find("\"first_order_reliable\": false") != std::string::npos);
+  CHECK(json.find("\"note\": \"first-order split not reliable for this step\"") !=
+        std::string::npos);
+}
+
+TEST_CASE("a car without aero still has aero sensitivities (zero areas move by the step in m2)") {
+  const Car car = load_car(test::source_path("tests/data/no-aero-car.yaml"));
+  const std::vector<Circuit> circuits{test::bundled_circuit("tracks/brannock-park.yaml")};
+  const Trade t = trade(car, {0}, circuits, TradeOptions{0.02, 3, 0.15}, 2);
+  const Sensitivity& s = t.sensitivities.front();
+  CHECK(std::isfinite(s.dt_dcla_s_per_m2));
+  CHECK(std::isfinite(s.dt_dcda_s_per_m2));
+  CHECK(s.dt_dcla_s_per_m2 < 0.0);
+  CHECK(s.dt_dcda_s_per_m2 > 0.0);
+  // Against two explicit runs with +-0.02 m2 of ClA (1e-9).
+  const Car base = car.configured(0);
+  const double up = run_lap(shifted(base, Knob::cla, 0.02), circuits[0]).summary.lap_time_s;
+  const double down = run_lap(shifted(base, Knob::cla, -0.02), circuits[0]).summary.lap_time_s;
+  CHECK(near(s.dt_dcla_s_per_m2, (up - down) / 0.04, 1e-9));
+  for (double v : t.grids.front().lap_time_s) CHECK(std::isfinite(v));
+}
