@@ -92,7 +92,17 @@ void note_unused_columns(const CsvTable& t, const std::vector<std::string>& used
 
 }  // namespace
 
+std::optional<Violation> CenterlineOptions::validate() const {
+  return FirstViolation()
+      .range("smoothing", smoothing_m, smoothing_range, Quantity::length)
+      .range("elevation_smoothing", elevation_smoothing_m, elevation_smoothing_range,
+             Quantity::length)
+      .range("spacing", spacing_m, spacing_range, Quantity::length)
+      .result();
+}
+
 PathProfile import_centerline(const std::string& file, bool closed, const CenterlineOptions& o) {
+  require_valid(o.validate(), "centerline options");
   const CsvTable t = read_csv(file, 10);
   PathProfile p;
   p.source = PathProfile::Source::centerline;

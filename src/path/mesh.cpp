@@ -7,6 +7,7 @@
 #include <limits>
 #include <sstream>
 
+#include "lapwing/base/error.hpp"
 #include "lapwing/base/units.hpp"
 
 namespace lapwing {
@@ -194,6 +195,10 @@ void check_closure(const Track& track) {
 }  // namespace
 
 Mesh build_mesh(const Track& track, double step_m) {
+  require_valid(track.validate(), track.subject());
+  require_valid(
+      FirstViolation().range("step_m", step_m, Track::mesh_range, Quantity::length).result(),
+      "mesh step");
   const double length = track.length_m();
   if (track.closed) check_closure(track);
   const std::size_t n =

@@ -2,7 +2,11 @@
 // a curvature profile taken as given, or a logged lap turned into curvature.
 #pragma once
 
+#include <optional>
 #include <string>
+
+#include "lapwing/base/range.hpp"
+#include "lapwing/base/violation.hpp"
 
 #include "lapwing/model/track.hpp"
 
@@ -12,6 +16,13 @@ struct CenterlineOptions {
   double smoothing_m = 20.0;             // wavelength the x/y fit halves (see smoothing.hpp)
   double elevation_smoothing_m = 100.0;  // the same for elevation, before it becomes grade
   double spacing_m = 1.0;                // resampling step along the path
+
+  static constexpr Range smoothing_range{1.0, 2000.0};            // m
+  static constexpr Range elevation_smoothing_range{1.0, 5000.0};  // m
+  static constexpr Range spacing_range{0.01, 100.0};              // m
+  /// The first value out of its range (key paths as under a track file's `centerline:`:
+  /// "smoothing", "elevation_smoothing"; "spacing").
+  std::optional<Violation> validate() const;
 };
 
 /// A CSV of x_m,y_m[,z_m] or lat_deg,lon_deg[,alt_m] (WGS-84, projected to the tangent plane at

@@ -2,6 +2,7 @@
 // every study repeats.
 #pragma once
 
+#include <optional>
 #include <vector>
 
 #include "lapwing/model/air.hpp"
@@ -14,6 +15,10 @@
 #include "lapwing/solve/summary.hpp"
 
 namespace lapwing {
+
+/// The first problem of a list of config indices into `car`: none, one out of range, or one
+/// given twice (key path "configs").
+std::optional<Violation> configs_violation(const Car& car, const std::vector<std::size_t>& configs);
 
 /// A track laid out for study: its mesh, the air it is run in, its corners.
 struct Circuit {
