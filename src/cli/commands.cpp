@@ -11,9 +11,10 @@
 #include "lapwing/io/car_file.hpp"
 #include "lapwing/io/document.hpp"
 #include "lapwing/io/json.hpp"
+#include "lapwing/io/log_file.hpp"
 #include "lapwing/io/output.hpp"
+#include "lapwing/io/track_data.hpp"
 #include "lapwing/io/track_file.hpp"
-#include "lapwing/io/track_import.hpp"
 #include "lapwing/model/aero.hpp"
 #include "lapwing/model/air.hpp"
 #include "lapwing/model/car.hpp"
@@ -651,7 +652,8 @@ int track_from_log(const FromLogOptions& o) {
   l.yaw_unit = o.yaw_unit;
   l.closed = o.closed;
   l.name = o.name;
-  l.smoothing_m = *option_value(o.smoothing, "--smoothing", Quantity::length, Range{1.0, 1000.0});
+  l.smoothing_m =
+      *option_value(o.smoothing, "--smoothing", Quantity::length, LogOptions::smoothing_range);
   l.air = apply(AirSpec{}, parse_air(o.air));
   const std::string csv_name = out.stem().string() + ".csv";
   const LogTrack t = lapwing::track_from_log(l, csv_name);

@@ -4,7 +4,7 @@
 
 #include "lapwing/base/units.hpp"
 #include "lapwing/io/document.hpp"
-#include "lapwing/io/track_import.hpp"
+#include "lapwing/io/track_data.hpp"
 
 namespace lapwing {
 
@@ -29,7 +29,6 @@ Segment read_segment(const Document& doc, const Node& item, const std::string& p
   const auto& [kind, body] = item.entries.front();
   const std::string p = path + "." + kind;
   Segment s{};
-  s.mark = item.mark;
   if (kind == "straight") {
     s.kind = Segment::Kind::straight;
     if (body.kind == Node::Kind::scalar) {
@@ -103,7 +102,6 @@ TrackFile read_track_file(const std::string& file) {
     if (t.closed)
       r.fail(*n, "start_speed applies to open tracks only (closed: false)", "start_speed");
     t.start_speed_mps = r.node_quantity(*n, Quantity::speed, "start_speed");
-    t.start_speed_mark = n->mark;
   }
   t.air.altitude_m = r.quantity_or("altitude", Quantity::length, 0.0);
   if (r.has("ambient")) {
@@ -130,23 +128,27 @@ TrackFile read_track_file(const std::string& file) {
     c.keys({"file", "smoothing", "elevation_smoothing"});
     CenterlineOptions o;
     const std::string f = data_file(c);
-    o.smoothing_m = c.quantity_or("smoothing", Quantity::length, o.smoothing_m);
-    o.elevation_smoothing_m =
-        c.quantity_or("elevation_smoothing", Quantity::length, o.elevation_smoothing_m);
+    // The file's ranges (the fit takes any positive length).
+    if (c.has("smoothing"))
+      o.smoothing_m =
+          c.quantity("smoothing", Quantity::length, CenterlineOptions::file_smoothing_range);
+    if (c.has("elevation_smoothing"))
+      o.elevation_smoothing_m = c.quantity("elevation_smoothing", Quantity::length,
+                                           CenterlineOptions::file_elevation_smoothing_range);
     c.finish();
-    check(o.validate(), "centerline");
-    t.segments_mark = c.node().mark;
-    t.profile = import_centerline(f, t.closed, o);
+    ProfileFile data = read_centerline_file(f, t.closed, o);
+    t.profile = std::move(data.profile);
+    out.sources.data("centerline", f, std::move(data.lines));
   } else if (r.has("curvature")) {
     Reader c = r.map("curvature");
     c.keys({"file"});
     const std::string f = data_file(c);
     c.finish();
-    t.segments_mark = c.node().mark;
-    t.profile = import_curvature(f);
+    ProfileFile data = read_curvature_file(f);
+    t.profile = std::move(data.profile);
+    out.sources.data("curvature", f, std::move(data.lines));
   } else {
     const Node& segs = r.require("segments");
-    t.segments_mark = segs.mark;
     if (segs.kind != Node::Kind::sequence || segs.items.empty())
       r.fail(segs, "expected a non-empty list of segments", "segments");
     for (std::size_t i = 0; i < segs.items.size(); ++i)
@@ -154,7 +156,6 @@ TrackFile read_track_file(const std::string& file) {
           read_segment(doc, segs.items[i], "segments[" + std::to_string(i) + "]", out.sources));
   }
   if (r.has("sectors")) {
-    t.sectors_mark = r.node().find("sectors")->mark;
     t.sectors_m = r.quantities("sectors", Quantity::length);
   }
   check(t.validate());

@@ -38,7 +38,7 @@ void check_start_speed(const Circuit& c, const Lap& lap) {
     std::snprintf(buf, sizeof buf,
                   "start_speed %.1f km/h is more than the car can hold at the start (%.1f km/h)",
                   c.track.start_speed_mps / units::kph, lap.steady.speed_mps.front() / units::kph);
-    throw InputError(c.track.file, c.track.start_speed_mark, buf, "start_speed");
+    throw InvalidInput(c.track.subject(), broken_rule("start_speed", buf));
   }
 }
 }  // namespace

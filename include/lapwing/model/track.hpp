@@ -6,7 +6,6 @@
 #include <string>
 #include <vector>
 
-#include "lapwing/base/error.hpp"
 #include "lapwing/base/range.hpp"
 #include "lapwing/base/violation.hpp"
 #include "lapwing/model/air.hpp"
@@ -22,7 +21,6 @@ struct Segment {
   double curvature_start_1pm;
   double curvature_end_1pm;
   double grade;  // rise over run, positive uphill
-  Mark mark;
 
   // The ranges of a segment (README, the track file): a piece up to 100 km, a radius up to
   // 100 km, an arc of up to two turns, a grade of +-50 % (steeper is no road).
@@ -49,14 +47,16 @@ struct PathProfile {
   bool geodetic = false;                 // lat/lon points projected to a tangent plane
   // A closed centerline's data as given, before the fit bridges its end to its start: the
   // distance from the last point to the first, the median distance between consecutive points
-  // and the file line of the last point (for the closure check and `check`).
+  // and the index of the last point among the data's (for the closure check and `check`).
   double data_closure_gap_m = 0.0;
   double point_spacing_m = 0.0;
-  int last_point_line = 0;
+  std::size_t last_point_index = 0;
   /// Things about the data the user should know that are no error (an unused column): printed
   /// by `check` and `run`.
   std::vector<std::string> notes;
 
+  /// A path longer than 200 km is no circuit: bad data (a stray point, a unit read wrong).
+  static constexpr double max_length_m = 200e3;
   /// At least two samples, every column as long as s_m, s_m from 0 strictly increasing.
   std::optional<Violation> validate() const;
 };
@@ -67,14 +67,11 @@ struct Track {
   std::string id;  // file name without folder and extension, used in output file names
   bool closed = true;
   double start_speed_mps = 0.0;  // open tracks
-  Mark start_speed_mark;
   AirSpec air;
   double mesh_m = 0.5;
   std::vector<Segment> segments;  // empty when the path is a profile
-  Mark segments_mark;
   std::optional<PathProfile> profile;
   std::vector<double> sectors_m{0.0};  // sector start distances; first is 0
-  Mark sectors_mark;
 
   double length_m() const;
   /// What errors about this track name: its file, or "track 'NAME'" for a track built in code.

@@ -36,7 +36,8 @@ struct LapRun {
 };
 
 /// Solves `configured_car` (one config) round `circuit`. An open track's start speed above what
-/// the car can hold there is an InputError on the track file.
+/// the car can hold there is an InvalidInput of the track ("start_speed"); a car that breaks a
+/// rule, of the car (the Envelope checks it).
 LapRun run_lap(const Car& configured_car, const Circuit& circuit, LapSolver& solver);
 /// The lap time alone (speed profile and time, no channels or summary).
 double lap_time(const Car& configured_car, const Circuit& circuit, LapSolver& solver);
