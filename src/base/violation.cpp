@@ -10,6 +10,18 @@ std::string join_path(std::string_view prefix, std::string_view path) {
   return std::string(prefix) + (path.front() == '[' ? "" : ".") + std::string(path);
 }
 
+std::optional<std::size_t> last_index(std::string_view path) {
+  if (path.size() < 3 || path.back() != ']') return std::nullopt;
+  const std::size_t open = path.rfind('[');
+  if (open == std::string_view::npos || open + 2 > path.size() - 1) return std::nullopt;
+  std::size_t i = 0;
+  for (const char c : path.substr(open + 1, path.size() - open - 2)) {
+    if (c < '0' || c > '9') return std::nullopt;
+    i = 10 * i + static_cast<std::size_t>(c - '0');
+  }
+  return i;
+}
+
 Violation& Violation::under(std::string_view prefix) {
   // A rule about the whole part (an empty field) names the part.
   field = join_path(prefix, field);

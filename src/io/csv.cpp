@@ -152,13 +152,8 @@ void require_no_duplicates(const CsvTable& t, const std::vector<std::string>& co
 
 InputError row_error(const CsvTable& t, const InvalidInput& e) {
   // The data row "COLUMN[i]" the violation points at is the table's row i.
-  const std::string& where = e.violation().where();
-  const std::size_t open = where.rfind('[');
-  Mark mark{};
-  if (open != std::string::npos && where.back() == ']') {
-    const std::size_t i = std::stoul(where.substr(open + 1, where.size() - open - 2));
-    if (i < t.lines.size()) mark = Mark{t.lines[i], 1};
-  }
+  const std::optional<std::size_t> i = last_index(e.violation().where());
+  const Mark mark = i && *i < t.lines.size() ? Mark{t.lines[*i], 1} : Mark{};
   return InputError(t.file, mark, e.message());
 }
 

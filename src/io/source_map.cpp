@@ -67,12 +67,11 @@ void SourceMap::data(std::string path, std::string file, std::vector<int> lines)
 std::optional<std::string> SourceMap::point_name(const std::string& path) const {
   // "PATH.points[i]": line i of PATH's data file.
   const std::size_t open = path.rfind(".points[");
-  if (open == std::string::npos || path.back() != ']') return std::nullopt;
+  const std::optional<std::size_t> i = last_index(path);
+  if (open == std::string::npos || !i) return std::nullopt;
   const auto it = data_.find(std::string_view(path).substr(0, open));
-  if (it == data_.end()) return std::nullopt;
-  const std::size_t i = std::stoul(path.substr(open + 8, path.size() - open - 9));
-  if (i >= it->second.lines.size()) return std::nullopt;
-  return it->second.file + " line " + std::to_string(it->second.lines[i]);
+  if (it == data_.end() || *i >= it->second.lines.size()) return std::nullopt;
+  return it->second.file + " line " + std::to_string(it->second.lines[*i]);
 }
 
 InputError SourceMap::error(const Violation& v) const {

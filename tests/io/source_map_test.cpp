@@ -81,3 +81,20 @@ TEST_CASE("an InvalidInput is placed in the file of its subject, or said without
   CHECK(std::string(maps.error(other).what()) == "other.yaml: error: too heavy (mass)");
   CHECK(std::string(other.what()) == "other.yaml: error: too heavy (mass)");
 }
+
+TEST_CASE("a key path's last index is read only from digits in brackets") {
+  CHECK(last_index("x_m[12]") == std::size_t{12});
+  CHECK(last_index("a.b[3][40]") == std::size_t{40});
+  CHECK_FALSE(last_index("x_m[]").has_value());
+  CHECK_FALSE(last_index("x_m[1a]").has_value());
+  CHECK_FALSE(last_index("x_m").has_value());
+  // A malformed point names no line: the library's words stay.
+  SourceMap map(parse_document(text, "track.yaml"));
+  map.data("centerline", "c.csv", {2, 3, 7});
+  Violation v = broken_rule("centerline", "point ({point})");
+  v.point = "centerline.points[x]";
+  v.point_text = "somewhere";
+  CHECK(map.error(v).message() == "point (somewhere)");
+  v.point = "centerline.points[9]";  // beyond the data
+  CHECK(map.error(v).message() == "point (somewhere)");
+}

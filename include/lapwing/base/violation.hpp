@@ -50,6 +50,9 @@ struct Violation {
   std::string message(const ValueText& text = {}, std::string_view point_name = {}) const;
 };
 
+/// The index a key path ends with ("x_m[12]" -> 12), or nothing.
+std::optional<std::size_t> last_index(std::string_view path);
+
 /// Joins key paths: "a" + "b" = "a.b", "a" + "[2]" = "a[2]", "" + "b" = "b".
 std::string join_path(std::string_view prefix, std::string_view path);
 
