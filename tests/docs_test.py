@@ -6,7 +6,8 @@
   README, "Heading"  and the heading exists (its first words), so that a reader finds the place.
 - Every key the car and track loaders read (src/io/car_file.cpp, track_file.cpp), each of a key's
   choices, and every unit spelling they accept (src/base/units.cpp) is named in README's
-  "Input formats"; every option of the command line (src/cli/main.cpp) in its "Commands".
+  "Input formats"; every option of the command line (src/cli/main.cpp), every JSON key written
+  (src/report, src/cli) and every CSV column (src/report) in its "Commands".
 The names are taken from the code by pattern, so a key added without its documentation fails here.
 """
 import pathlib
@@ -87,8 +88,20 @@ for o in sorted(options):
     if not named(o, commands):
         failures.append(f'option {o} (src/cli/main.cpp) is not named in README, "Commands"')
 
+# 4. Output names in "Commands" (its "Output files"): every JSON key the report layer and the
+# command line write, every CSV column the report layer defines.
+writers = "".join(p.read_text() for d in ["src/report", "src/cli"] for p in (root / d).glob("*.cpp"))
+json_keys = set(re.findall(r'(?:\.field|\.key|optional_field\(w,) ?\(?"([a-z_0-9]+)"', writers))
+columns = set(re.findall(r'^\s*\{"([A-Za-z_0-9]+)",', "".join(
+    p.read_text() for p in (root / "src/report").glob("*.cpp")), re.M))
+if len(json_keys) < 80 or len(columns) < 30:
+    failures.append(f"only {len(json_keys)} JSON keys and {len(columns)} CSV columns found")
+for k in sorted(json_keys | columns):
+    if not named(k, commands):
+        failures.append(f'output name "{k}" (src/report, src/cli) is not named in README, "Commands"')
+
 for f in failures:
     print("FAIL:", f)
 print(f"docs: {len(code_files)} files' citations, {len(keys)} keys, {len(spellings)} units, "
-      f"{len(options)} options checked")
+      f"{len(options)} options, {len(json_keys)} JSON keys, {len(columns)} CSV columns checked")
 sys.exit(1 if failures else 0)
