@@ -44,9 +44,11 @@ if grep -rn 'Boost' "$prefix/lib/cmake/lapwing/lapwingTargets.cmake"; then
   fail=1
 fi
 
-# The example, configured on its own: only the prefix to find lapwing in, no package registry.
+# The example, configured on its own: only the prefix to find lapwing in, no package registry;
+# warnings as errors, as lapwing's own code is built.
 cmake -S "$src/examples/library" -B "$tmp/example" -G "$generator" \
   -DCMAKE_CXX_COMPILER="$cxx" -DCMAKE_BUILD_TYPE="$build_type" \
+  -DCMAKE_CXX_FLAGS="-Wall -Wextra -Wpedantic -Wshadow -Werror" \
   -DCMAKE_PREFIX_PATH="$prefix" -DCMAKE_FIND_USE_PACKAGE_REGISTRY=OFF \
   -DFETCHCONTENT_FULLY_DISCONNECTED=ON "$@" > "$tmp/configure.log" 2>&1 ||
   { echo "FAIL: configuring the example:"; tail -20 "$tmp/configure.log"; exit 1; }
