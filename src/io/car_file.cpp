@@ -314,13 +314,35 @@ AeroConfig read_config(const std::string& name, Reader r, double wheelbase) {
   return c;
 }
 
+// balance_window: {front_share: [min, max], above: speed}.
+BalanceWindow read_balance_window(Reader w) {
+  w.keys({"front_share", "above"});
+  BalanceWindow b;
+  const std::vector<double> share =
+      w.quantities("front_share", Quantity::fraction, Range{0.0, 1.0});
+  const Node& list = *w.node().find("front_share");
+  if (share.size() != 2)
+    w.fail(list, "expected 2 values [min, max], got " + std::to_string(share.size()),
+           "front_share");
+  if (!(share[0] < share[1]))
+    w.fail(list.items[1],
+           "the window's max (" + list.items[1].scalar + ") must lie above its min (" +
+               list.items[0].scalar + ")",
+           "front_share");
+  b.front_share_min = share[0];
+  b.front_share_max = share[1];
+  b.above_mps = w.quantity("above", Quantity::speed, Range{0.0, 200.0});
+  w.finish();
+  return b;
+}
+
 }  // namespace
 
 Car load_car(const std::string& file) {
   Document doc = load_document(file);
   Reader r(doc, doc.root, "");
   r.keys({"format", "name", "model", "mass", "inertia_factor", "cg_height", "wheelbase",
-          "front_weight", "tyres", "powertrain", "brakes", "aero"});
+          "front_weight", "tyres", "powertrain", "brakes", "aero", "balance_window"});
   check_format(r);
   Car car;
   car.file = file;
@@ -343,6 +365,7 @@ Car load_car(const std::string& file) {
     car.brake_front_bias = b.quantity("front_bias", Quantity::fraction, open_unit());
     b.finish();
   }
+  if (r.has("balance_window")) car.balance_window = read_balance_window(r.map("balance_window"));
   Reader aero = r.map("aero");
   car.drag_height_m = aero.quantity_or("drag_height", Quantity::length, non_negative(), 0.0);
   Reader configs = aero.map("configs");

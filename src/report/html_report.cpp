@@ -300,6 +300,7 @@ Comparison single_lap_comparison(std::size_t config, LapRun run, const Circuit& 
   Comparison::PerTrack pt;
   pt.entries.push_back(std::move(e));
   pt.best = 0;
+  pt.runner_up = 0;
   pt.margin_s = 0.0;
   c.tracks.push_back(std::move(pt));
   return c;
