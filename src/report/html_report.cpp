@@ -73,7 +73,8 @@ std::vector<std::string> escaped(const std::vector<std::string>& v) {
 // `top`: an optional first header row (cells with their rowspan/colspan), in HTML.
 std::string table(const std::vector<std::string>& header,
                   const std::vector<std::vector<std::string>>& rows, const std::string& cls = "",
-                  const std::vector<std::size_t>& wrap = {}, const std::string& top = "") {
+                  const std::vector<std::size_t>& wrap = {}, const std::string& top = "",
+                  const std::vector<std::size_t>& soft = {}) {
   std::string o = "<table" + (cls.empty() ? std::string() : " class=\"" + cls + "\"") + "><thead>" +
                   (top.empty() ? std::string() : "<tr>" + top + "</tr>") + "<tr>";
   for (const auto& h : header) o += "<th>" + h + "</th>";
@@ -82,7 +83,12 @@ std::string table(const std::vector<std::string>& header,
     o += "<tr>";
     for (std::size_t c = 0; c < r.size(); ++c) {
       const bool w = std::find(wrap.begin(), wrap.end(), c) != wrap.end();
-      o += std::string(w ? "<td class=\"w\">" : c ? "<td class=\"n\">" : "<td>") + r[c] + "</td>";
+      const bool b = std::find(soft.begin(), soft.end(), c) != soft.end();
+      o += std::string(w   ? "<td class=\"w\">"
+                       : b ? "<td class=\"n b\">"
+                       : c ? "<td class=\"n\">"
+                           : "<td>") +
+           r[c] + "</td>";
     }
     o += "</tr>\n";
   }
@@ -138,6 +144,7 @@ th { background: var(--band); font-weight: 600; vertical-align: bottom; white-sp
 td { white-space: nowrap; }
 td.n { text-align: right; }
 td.w { white-space: normal; min-width: 11em; }
+td.b { white-space: normal; }
 td a.corner-link { color: #0072B2; }
 figure { margin: 8px 0 18px; min-width: 0; }
 figcaption { color: var(--muted); font-size: 12px; margin-top: 2px; }
@@ -832,7 +839,7 @@ std::string html_report(const ReportInput& in) {
       std::vector<std::vector<std::string>> arows;
       for (const auto& r : a.rows) arows.push_back(escaped(r));
       o += "<h3 id=\"attribution\">Where a config change's lap time comes from</h3>" +
-           table(escaped(a.header), arows, "", {7}) + "<p class=\"note\">" +
+           table(escaped(a.header), arows, "", {7}, "", {1, 3, 4}) + "<p class=\"note\">" +
            escape(attribution_caption()) + ".</p>\n";
     }
     o += "<div class=\"pair\">";
