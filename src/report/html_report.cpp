@@ -1,8 +1,10 @@
 #include "lapwing/report/html_report.hpp"
 
 #include <algorithm>
+#include <array>
 #include <cmath>
 #include <cstdio>
+#include <initializer_list>
 
 #include "lapwing/base/format.hpp"
 #include "lapwing/base/units.hpp"
@@ -544,6 +546,15 @@ std::string trade_plot(const Circuit& c, const TradeGrid& g, const Trade& t, con
       level_step >= 1.0 ? 0 : static_cast<int>(std::ceil(-std::log10(level_step) - 1e-9));
   std::string labels;
   const double cx = 0.5 * (sx.p0 + sx.p1), cy = 0.5 * (sy.p0 + sy.p1);
+  // Boxes of the labels placed so far (pixels: x0, y0, x1, y1), so that none covers another.
+  std::vector<std::array<double, 4>> taken;
+  auto free_at = [&](const std::array<double, 4>& b) {
+    if (b[0] < sx.p0 + 2 || b[2] > sx.p1 - 2 || b[1] < sy.p1 + 2 || b[3] > sy.p0 - 2) return false;
+    for (const auto& o : taken)
+      if (b[0] < o[2] && o[0] < b[2] && b[1] < o[3] && o[1] < b[3]) return false;
+    return true;
+  };
+  constexpr double char_px = 6.4, label_h = 12.0;  // 10-11 px text
   for (double level : levels) {
     const auto segs = svg::contour_segments(g.cla_m2, g.cda_m2, g.lap_time_s, level);
     double best_d = 1e300, lx = 0, ly = 0;
@@ -554,13 +565,16 @@ std::string trade_plot(const Circuit& c, const TradeGrid& g, const Trade& t, con
       cells += buf;
       const double mx = 0.5 * (sx(s[0]) + sx(s[2])), my = 0.5 * (sy(s[1]) + sy(s[3]));
       const double d = std::hypot(mx - cx, my - cy);
-      if (d < best_d) {
+      // Away from the edges, where the label would be cut.
+      const bool inside = mx > sx.p0 + 24 && mx < sx.p1 - 24 && my > sy.p1 + 10 && my < sy.p0 - 10;
+      if (inside && d < best_d) {
         best_d = d;
         lx = mx;
         ly = my;
       }
     }
-    if (!segs.empty()) {
+    if (best_d < 1e300) {
+      taken.push_back({lx - 22, ly - 6, lx + 22, ly + 6});
       std::snprintf(buf, sizeof buf,
                     "<text class=\"contour-label\" x=\"%.1f\" y=\"%.1f\" text-anchor=\"middle\">"
                     "%.*f s</text>",
@@ -582,21 +596,51 @@ std::string trade_plot(const Circuit& c, const TradeGrid& g, const Trade& t, con
   }
   p.underlay(cells + labels);
   // Every config of the car at its operating point on this track, labelled with its name and
-  // its own lap time.
-  Series marks{"configs (own lap time)", {}, {}, 6, true, 0.0, 4.0};
+  // its own lap time: each label at the first place around its mark (right, left, above,
+  // below, then farther out) that no other label or mark covers.
+  Series marks{"configs: own lap (s)", {}, {}, 6, true, 0.0, 4.0};
   const std::size_t nc = car.configs.size();
   for (std::size_t k = 0; k < nc; ++k) {
     const AeroOperatingPoint& op = t.operating[g.track * nc + k];
     marks.x.push_back(op.cla_m2);
     marks.y.push_back(op.cda_m2);
-    const double lap = t.own_lap_time_s[g.track * nc + k];
-    // Alternate above and below so that neighbours' labels do not sit on each other.
-    const double dy = (k % 2 ? -0.045 : 0.03) * (g.cda_m2.back() - g.cda_m2.front());
-    p.label(op.cla_m2, op.cda_m2 + dy,
-            shorten_middle(car.configs[k].name, 14) + " " + fixed(lap, 2));
+    taken.push_back({sx(op.cla_m2) - 4, sy(op.cda_m2) - 4, sx(op.cla_m2) + 4, sy(op.cda_m2) + 4});
   }
+  std::string config_labels;
+  for (std::size_t k = 0; k < nc; ++k) {
+    const std::string text = shorten_middle(car.configs[k].name, 14) + " " +
+                             fixed(t.own_lap_time_s[g.track * nc + k], 2);
+    const double w = char_px * static_cast<double>(display_width(text)), h = label_h;
+    const double mx = sx(marks.x[k]), my = sy(marks.y[k]);
+    std::array<double, 4> box{};
+    bool placed = false;
+    for (double r = 1.0; r <= 4.0 && !placed; r += 1.0)
+      for (const auto& [dx, dy] : std::initializer_list<std::pair<double, double>>{{7, -h / 2},
+                                                                                   {-7 - w, -h / 2},
+                                                                                   {-w / 2, -7 - h},
+                                                                                   {-w / 2, 7},
+                                                                                   {7, -7 - h},
+                                                                                   {-7 - w, -7 - h},
+                                                                                   {7, 7},
+                                                                                   {-7 - w, 7}}) {
+        const double ox = dx + (dx > 0 ? 1 : dx < -w / 2 - 1 ? -1 : 0) * (r - 1) * 14;
+        const double oy = dy + (dy > 0 ? 1 : dy < -h / 2 - 1 ? -1 : 0) * (r - 1) * 10;
+        box = {mx + ox, my + oy, mx + ox + w, my + oy + h};
+        if (free_at(box)) {
+          placed = true;
+          break;
+        }
+      }
+    if (!placed) box = {mx + 7, my - h / 2, mx + 7 + w, my + h / 2};  // crowded: beside the mark
+    taken.push_back(box);
+    std::snprintf(buf, sizeof buf, "<text class=\"label\" x=\"%.1f\" y=\"%.1f\">", box[0],
+                  box[3] - 2.5);
+    config_labels += buf + svg::text_with_title(text, 40) + "</text>";
+  }
+  p.overlay("<g clip-path=\"url(#trade-map-" + escape(c.track.id) + "-clip)\">" + config_labels +
+            "</g>\n");
   p.add(marks);
-  p.key({"break-even through " + car.configs[g.config].name,
+  p.key({"break-even: " + car.configs[g.config].name,
          "<line x1=\"0\" y1=\"5\" x2=\"16\" y2=\"5\" class=\"breakeven\"/>"});
   p.key({"equal lap time (s)", "<line x1=\"0\" y1=\"5\" x2=\"16\" y2=\"5\" class=\"contour\"/>"});
   p.overlay(svg::colour_bar("trade-map-" + c.track.id + "-ramp", sx.p1 + 16, sy.p1 + 90, 14, 200,
