@@ -11,9 +11,10 @@
 #include "lapwing/io/car_file.hpp"
 #include "lapwing/io/document.hpp"
 #include "lapwing/io/json.hpp"
+#include "lapwing/io/log_file.hpp"
 #include "lapwing/io/output.hpp"
+#include "lapwing/io/track_data.hpp"
 #include "lapwing/io/track_file.hpp"
-#include "lapwing/io/track_import.hpp"
 #include "lapwing/model/aero.hpp"
 #include "lapwing/model/air.hpp"
 #include "lapwing/model/car.hpp"
@@ -105,11 +106,11 @@ std::optional<double> option_value(const std::string& text, const char* option, 
 }
 
 AirOverride parse_air(const AirOptions& o) {
-  return {
-      option_value(o.altitude, "--altitude", Quantity::length, Range{-500.0, 6000.0}),
-      option_value(o.temperature, "--temperature", Quantity::temperature, Range{223.15, 343.15}),
-      option_value(o.pressure, "--pressure", Quantity::pressure, Range{30000.0, 110000.0}),
-      option_value(o.humidity, "--humidity", Quantity::fraction, Range{0.0, 1.0})};
+  return {option_value(o.altitude, "--altitude", Quantity::length, AirSpec::altitude_range),
+          option_value(o.temperature, "--temperature", Quantity::temperature,
+                       AirSpec::temperature_range),
+          option_value(o.pressure, "--pressure", Quantity::pressure, AirSpec::pressure_range),
+          option_value(o.humidity, "--humidity", Quantity::fraction, AirSpec::humidity_range)};
 }
 
 AirSpec apply(AirSpec spec, const AirOverride& o) {
@@ -120,12 +121,41 @@ AirSpec apply(AirSpec spec, const AirOverride& o) {
   return spec;
 }
 
-Circuit lay_out(const std::string& file, const AirOverride& air) {
-  const Track t = load_track(file);
-  return lapwing::lay_out(t, make_air(apply(t.air, air)));
+// The files a command loads, and where each of their values stands: an error the library finds
+// in them later (an InvalidInput: a start speed too high, a ride-height map that does not
+// converge) is reported at its place in the file, as the loader's own errors are.
+class Inputs {
+ public:
+  Car car(const std::string& file) {
+    CarFile f = read_car_file(file);
+    sources_.add(std::move(f.sources));
+    return std::move(f.car);
+  }
+  Circuit lay_out(const std::string& file, const AirOverride& air) {
+    TrackFile f = read_track_file(file);
+    sources_.add(std::move(f.sources));
+    return lapwing::lay_out(f.track, make_air(apply(f.track.air, air)));
+  }
+  std::vector<Circuit> lay_out_all(const std::vector<std::string>& files, const AirOverride& air);
+  InputError error(const InvalidInput& e) const { return sources_.error(e); }
+
+ private:
+  SourceMaps sources_;
+};
+
+// Runs a command with its Inputs; an InvalidInput becomes the input error at its place.
+template <typename Options>
+int located(int (*command)(const Options&, Inputs&), const Options& o) {
+  Inputs in;
+  try {
+    return command(o, in);
+  } catch (const InvalidInput& e) {
+    throw in.error(e);
+  }
 }
 
-std::vector<Circuit> lay_out_all(const std::vector<std::string>& files, const AirOverride& air) {
+std::vector<Circuit> Inputs::lay_out_all(const std::vector<std::string>& files,
+                                         const AirOverride& air) {
   std::vector<Circuit> out;
   for (std::size_t i = 0; i < files.size(); ++i) {
     for (std::size_t j = 0; j < i; ++j) {
@@ -135,7 +165,7 @@ std::vector<Circuit> lay_out_all(const std::vector<std::string>& files, const Ai
       if (files[i] == files[j] || (!e1 && !e2 && a == b))
         throw UsageError{"--track " + files[i] + " is given twice"};
     }
-    out.push_back(lay_out(files[i], air));
+    out.push_back(this->lay_out(files[i], air));
   }
   return out;
 }
@@ -265,10 +295,11 @@ void describe_config(const Car& car, std::size_t index, const Air& air, std::str
 
 }  // namespace
 
-int check(const CheckOptions& o) {
+namespace {
+int check(const CheckOptions& o, Inputs& in) {
   const AirOverride air = parse_air(o.air);
-  const Car car = load_car(o.car);
-  const std::vector<Circuit> tracks = lay_out_all(o.tracks, air);
+  const Car car = in.car(o.car);
+  const std::vector<Circuit> tracks = in.lay_out_all(o.tracks, air);
   // The car's own figures in ISO 2533 sea-level air, or in the air the options give.
   const Air reference = make_air(apply(AirSpec{}, air));
 
@@ -380,6 +411,8 @@ int check(const CheckOptions& o) {
           variants[k] = lapwing::lay_out(v, t.air);
         } catch (const InputError& e) {
           notes.push_back(variant_label(k) + " cannot be laid out: " + e.message());
+        } catch (const InvalidInput& e) {
+          notes.push_back(variant_label(k) + " cannot be laid out: " + in.error(e).message());
         }
       }
       std::vector<std::vector<std::string>> srows;
@@ -394,6 +427,9 @@ int check(const CheckOptions& o) {
           } catch (const InputError& e) {
             notes.push_back(variant_label(k) + " cannot be solved with config " +
                             car.configs[c].name + ": " + e.message());
+          } catch (const InvalidInput& e) {
+            notes.push_back(variant_label(k) + " cannot be solved with config " +
+                            car.configs[c].name + ": " + in.error(e).message());
           } catch (const CannotMove& e) {
             notes.push_back(variant_label(k) + " cannot be solved with config " +
                             car.configs[c].name + ": the car cannot complete it: " + e.what());
@@ -438,6 +474,11 @@ int check(const CheckOptions& o) {
   std::cout << out;
   return 0;
 }
+}  // namespace
+
+int check(const CheckOptions& o) {
+  return located(&check, o);
+}
 
 void apply_model(const std::string& model, Car& car) {
   if (model.empty()) return;
@@ -449,12 +490,13 @@ void apply_model(const std::string& model, Car& car) {
     throw UsageError{"--model: '" + model + "' is not one of point-mass | axle"};
 }
 
-int run(const RunOptions& o) {
+namespace {
+int run(const RunOptions& o, Inputs& in) {
   const AirOverride air = parse_air(o.air);
-  Car car = load_car(o.car);
+  Car car = in.car(o.car);
   apply_model(o.model, car);
   const std::size_t ci = pick_config(car, o.config);
-  const Circuit t = lay_out(o.track, air);
+  const Circuit t = in.lay_out(o.track, air);
   LapRun r = run_lap(car.configured(ci), t);
   const LapSummary s = r.summary;
 
@@ -487,6 +529,11 @@ int run(const RunOptions& o) {
   std::cout << out;
   return 0;
 }
+}  // namespace
+
+int run(const RunOptions& o) {
+  return located(&run, o);
+}
 
 namespace {
 std::vector<std::size_t> pick_configs(const Car& car, const std::vector<std::string>& names) {
@@ -506,14 +553,13 @@ double parse_fraction_option(const std::string& text, const char* option, Range 
   auto v = option_value(text, option, Quantity::fraction, r);
   return *v;
 }
-}  // namespace
 
-int compare(const CompareOptions& o) {
+int compare(const CompareOptions& o, Inputs& in) {
   const AirOverride air = parse_air(o.air);
-  Car car = load_car(o.car);
+  Car car = in.car(o.car);
   apply_model(o.model, car);
   const std::vector<std::size_t> configs = pick_configs(car, o.configs);
-  const std::vector<Circuit> circuits = lay_out_all(o.tracks, air);
+  const std::vector<Circuit> circuits = in.lay_out_all(o.tracks, air);
   const Comparison c = lapwing::compare(car, configs, circuits, o.threads);
   const std::string out = compare_table(car, c, circuits);
   if (!o.out.empty()) {
@@ -543,20 +589,21 @@ int compare(const CompareOptions& o) {
   return 0;
 }
 
-int trade(const TradeOptions& o) {
+int trade(const TradeOptions& o, Inputs& in) {
   const AirOverride air = parse_air(o.air);
   lapwing::TradeOptions options;
-  options.step = parse_fraction_option(o.step, "--step", Range{0.0, 0.5, true, false});
-  options.grid_span = parse_fraction_option(o.span, "--span", Range{0.0, 0.9, true, false});
+  options.step = parse_fraction_option(o.step, "--step", lapwing::TradeOptions::step_range);
+  options.grid_span =
+      parse_fraction_option(o.span, "--span", lapwing::TradeOptions::grid_span_range);
   options.grid_points = o.grid;
-  Car car = load_car(o.car);
+  Car car = in.car(o.car);
   apply_model(o.model, car);
   std::vector<std::size_t> configs;
   if (o.config.empty())
     for (std::size_t i = 0; i < car.configs.size(); ++i) configs.push_back(i);
   else
     configs.push_back(pick_config(car, o.config));
-  const std::vector<Circuit> circuits = lay_out_all(o.tracks, air);
+  const std::vector<Circuit> circuits = in.lay_out_all(o.tracks, air);
   const Trade t = lapwing::trade(car, configs, circuits, options, o.threads);
   const std::string out = trade_table(car, t, circuits);
   if (!o.out.empty()) {
@@ -571,6 +618,15 @@ int trade(const TradeOptions& o) {
   }
   std::cout << out;
   return 0;
+}
+}  // namespace
+
+int compare(const CompareOptions& o) {
+  return located(&compare, o);
+}
+
+int trade(const TradeOptions& o) {
+  return located(&trade, o);
 }
 
 }  // namespace lapwing::cli
@@ -596,7 +652,8 @@ int track_from_log(const FromLogOptions& o) {
   l.yaw_unit = o.yaw_unit;
   l.closed = o.closed;
   l.name = o.name;
-  l.smoothing_m = *option_value(o.smoothing, "--smoothing", Quantity::length, Range{1.0, 1000.0});
+  l.smoothing_m =
+      *option_value(o.smoothing, "--smoothing", Quantity::length, LogOptions::smoothing_range);
   l.air = apply(AirSpec{}, parse_air(o.air));
   const std::string csv_name = out.stem().string() + ".csv";
   const LogTrack t = lapwing::track_from_log(l, csv_name);

@@ -5,7 +5,10 @@
 
 #include "lapwing/base/error.hpp"
 #include "lapwing/base/units.hpp"
+#include "lapwing/io/source_map.hpp"
+#include "lapwing/io/track_file.hpp"
 #include "lapwing/model/track.hpp"
+#include "lapwing/study/circuit.hpp"
 #include "test_support.hpp"
 
 using namespace lapwing;
@@ -47,4 +50,26 @@ TEST_CASE("segment forms: straight as a length or a map with grade; clothoid rad
   CHECK(near(t.segments[3].curvature_end_1pm, -1 / 30.0, 1e-15));
   CHECK(t.sectors_m == std::vector<double>{0.0});
   std::remove(path.c_str());
+}
+
+TEST_CASE("a closure error found when the track is laid out names the data file's line") {
+  // The mesh names the centerline's last point by its index; the track file's source map turns
+  // it into the CSV's file and line, and the error into the track file's place of `centerline`.
+  const std::string file = test::source_path("tests/data/bad/track-centerline-gap.yaml");
+  const TrackFile t = read_track_file(file);
+  SourceMaps maps;
+  maps.add(t.sources);
+  try {
+    lay_out(t.track, make_air(t.track.air));
+    FAIL("expected an InvalidInput");
+  } catch (const InvalidInput& e) {
+    CHECK(e.message().find("its last point (data point ") != std::string::npos);
+    const InputError placed = maps.error(e);
+    CHECK(placed.file() == file);
+    CHECK(placed.mark().line == 5);
+    CHECK(placed.key_path() == "centerline");
+    CHECK(placed.message().find("its last point (" +
+                                test::source_path("tests/data/bad/track-centerline-gap.csv") +
+                                " line 254) is 955.3 m from its first") != std::string::npos);
+  }
 }

@@ -1,11 +1,13 @@
-// The track as described by its file (SPEC section 3): fixed, validated, in SI units.
+// The track as described by its file (README, the track file): fixed, in SI units, checked by
+// validate().
 #pragma once
 
 #include <optional>
 #include <string>
 #include <vector>
 
-#include "lapwing/base/error.hpp"
+#include "lapwing/base/range.hpp"
+#include "lapwing/base/violation.hpp"
 #include "lapwing/model/air.hpp"
 
 namespace lapwing {
@@ -19,7 +21,16 @@ struct Segment {
   double curvature_start_1pm;
   double curvature_end_1pm;
   double grade;  // rise over run, positive uphill
-  Mark mark;
+
+  // The ranges of a segment (README, the track file): a piece up to 100 km, a radius up to
+  // 100 km, an arc of up to two turns, a grade of +-50 % (steeper is no road).
+  static constexpr Range length_range{0.0, 100e3, true, false};         // m
+  static constexpr Range radius_range{0.0, 100e3, true, false};         // m
+  static constexpr Range angle_range{0.0, 4 * units::pi, true, false};  // rad
+  static constexpr Range grade_range{-0.5, 0.5};
+  /// The first value that breaks a rule, named as in a track file's segment ("arc.radius",
+  /// "clothoid.grade"): an arc's radius and angle are 1 / |curvature| and length x |curvature|.
+  std::optional<Violation> validate() const;
 };
 
 /// A path given as data instead of segments: a fitted centerline or a curvature profile, as
@@ -36,13 +47,18 @@ struct PathProfile {
   bool geodetic = false;                 // lat/lon points projected to a tangent plane
   // A closed centerline's data as given, before the fit bridges its end to its start: the
   // distance from the last point to the first, the median distance between consecutive points
-  // and the file line of the last point (for the closure check and `check`).
+  // and the index of the last point among the data's (for the closure check and `check`).
   double data_closure_gap_m = 0.0;
   double point_spacing_m = 0.0;
-  int last_point_line = 0;
+  std::size_t last_point_index = 0;
   /// Things about the data the user should know that are no error (an unused column): printed
   /// by `check` and `run`.
   std::vector<std::string> notes;
+
+  /// A path longer than 200 km is no circuit: bad data (a stray point, a unit read wrong).
+  static constexpr double max_length_m = 200e3;
+  /// At least two samples, every column as long as s_m, s_m from 0 strictly increasing.
+  std::optional<Violation> validate() const;
 };
 
 struct Track {
@@ -51,16 +67,25 @@ struct Track {
   std::string id;  // file name without folder and extension, used in output file names
   bool closed = true;
   double start_speed_mps = 0.0;  // open tracks
-  Mark start_speed_mark;
   AirSpec air;
   double mesh_m = 0.5;
   std::vector<Segment> segments;  // empty when the path is a profile
-  Mark segments_mark;
   std::optional<PathProfile> profile;
-  std::vector<double> sectors_m;  // sector start distances; first is 0
-  Mark sectors_mark;
+  std::vector<double> sectors_m{0.0};  // sector start distances; first is 0
 
   double length_m() const;
+  /// What errors about this track name: its file, or "track 'NAME'" for a track built in code.
+  std::string subject() const;
+  /// The track file's key for its path: "segments", "centerline" or "curvature".
+  const char* path_key() const;
+
+  static constexpr Range start_speed_range{0.0, 150.0};  // m/s
+  static constexpr Range mesh_range{0.01, 10.0};         // m
+  /// A mesh of more than 20 million points is no circuit (and would exhaust the machine).
+  static constexpr double max_mesh_points = 20e6;
+  /// The first value that breaks a rule, in the order of a track file, named by its key path
+  /// there ("start_speed", "ambient.pressure", "segments[2].arc.radius", "sectors").
+  std::optional<Violation> validate() const;
 };
 
 }  // namespace lapwing
