@@ -68,3 +68,4 @@
 #include "lapwing/report/svg.hpp"
 #include "lapwing/report/text_table.hpp"
 #include "lapwing/report/trade_report.hpp"
+#include "lapwing/report/verdict.hpp"

@@ -3,6 +3,8 @@
 #include <algorithm>
 #include <cctype>
 
+#include "lapwing/base/format.hpp"
+
 namespace lapwing {
 
 namespace {
@@ -12,6 +14,21 @@ constexpr Range mass_range{0.0, 1e5, true, false};
 constexpr Range inertia_range{0.0, 1.0, false, true};
 
 }  // namespace
+
+std::optional<Violation> BalanceWindow::validate() const {
+  auto percent = [](double v) { return fixed(100 * v, 1) + " %"; };
+  return FirstViolation()
+      .each("front_share", {front_share_min, front_share_max}, Range{0.0, 1.0}, Quantity::fraction)
+      .rule(
+          front_share_min < front_share_max, "front_share",
+          [&] {
+            return "the window's max (" + percent(front_share_max) + ") must lie above its min (" +
+                   percent(front_share_min) + ")";
+          },
+          "front_share[1]")
+      .range("above", above_mps, Range{0.0, 200.0}, Quantity::speed)
+      .result();
+}
 
 bool is_config_name(std::string_view name) {
   return !name.empty() && std::all_of(name.begin(), name.end(), [](unsigned char c) {
@@ -34,6 +51,8 @@ std::optional<Violation> Car::validate_without_configs() const {
       .part("tyres", [&] { return tyres.validate(); })
       .part("powertrain", [&] { return powertrain.validate(); })
       .range("brakes.front_bias", brake_front_bias, open_unit(), Quantity::fraction)
+      .part("balance_window",
+            [&] { return balance_window ? balance_window->validate() : std::nullopt; })
       .range("aero.drag_height", drag_height_m, non_negative(), Quantity::length)
       .result();
 }

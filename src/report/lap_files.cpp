@@ -3,6 +3,7 @@
 #include "lapwing/base/units.hpp"
 #include "lapwing/base/version.hpp"
 #include "lapwing/io/csv_writer.hpp"
+#include "lapwing/report/cells.hpp"
 
 namespace lapwing {
 
@@ -40,8 +41,62 @@ void write_balance(JsonWriter& w, const BalanceSummary& b) {
   for (int id : b.front_limited_corners) w.value(id);
   w.end_array()
       .field("balance_index_threshold", b.threshold)
-      .field("front_limited_length_m", b.front_limited_length_m)
-      .end_object();
+      .field("front_limited_length_m", b.front_limited_length_m);
+  w.key("window");
+  if (b.window)
+    write_balance_window(w, *b.window);
+  else
+    w.null();
+  w.end_object();
+}
+
+void write_balance_window(JsonWriter& w, const BalanceWindowResult& r) {
+  const bool tested = r.time_s > 0.0;
+  w.begin_object()
+      .field("front_share_min", r.window.front_share_min)
+      .field("front_share_max", r.window.front_share_max)
+      .field("above_kph", units::to_kph(r.window.above_mps))
+      .field("lateral_above_g", balance_window_lateral_g)
+      .field("result", window_result_name(r))
+      .field("time_s", r.time_s);
+  // Fields about the window's points are null when the lap never meets its conditions.
+  auto tested_field = [&](const char* key, double v) {
+    w.key(key);
+    if (tested)
+      w.value(v);
+    else
+      w.null();
+  };
+  tested_field("outside_fraction", r.outside_fraction);
+  tested_field("lowest_front_share", r.lowest_share);
+  tested_field("highest_front_share", r.highest_share);
+  tested_field("worst_excursion", r.worst_excursion);
+  tested_field("margin", r.margin);
+  tested_field("worst_at_m", r.worst_at_m);
+  tested_field("worst_speed_kph", units::to_kph(r.worst_speed_mps));
+  w.key("worst_phase");
+  if (tested)
+    w.value(std::string(phase_name(r.worst_phase)));
+  else
+    w.null();
+  w.key("worst_corner");
+  if (tested && r.worst_corner)
+    w.value(r.worst_corner);
+  else
+    w.null();
+  w.key("worst_before_corner");
+  if (tested && !r.worst_corner && r.next_corner)
+    w.value(r.next_corner);
+  else
+    w.null();
+  optional_field(w, "braking_front_share", r.braking_share);
+  optional_field(w, "accelerating_front_share", r.accelerating_share);
+  w.key("share_movement");
+  if (r.braking_share && r.accelerating_share)
+    w.value(*r.braking_share - *r.accelerating_share);
+  else
+    w.null();
+  w.end_object();
 }
 
 std::string summary_json(const std::string& car_name, const std::vector<LapSummary>& results) {

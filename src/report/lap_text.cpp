@@ -29,6 +29,20 @@ std::string balance_text(const BalanceSummary& b) {
       "         front limits at the apex of corners: " + (ids.empty() ? std::string("none") : ids) +
       "; front ahead of the rear by more than " + fixed(b.threshold, 2) + " of usage over " +
       fixed(b.front_limited_length_m, 0) + " m of the lap\n";
+  if (b.window) {
+    const BalanceWindowResult& w = *b.window;
+    const auto cells = window_cells(w);
+    o += "         balance window " + window_text(w.window) + ": " + cells[0];
+    if (w.time_s > 0.0)
+      o += ", front share " + cells[1] + " % there, worst " + cells[2] + ", outside " + cells[3] +
+           " % of its " + fixed(w.time_s, 2) + " s";
+    o += "\n";
+    if (w.braking_share && w.accelerating_share)
+      o += "         above " + fixed(units::to_kph(w.window.above_mps), 0) +
+           " km/h the front share moves " + cells[5] +
+           " points: " + fixed(100 * *w.braking_share, 1) + " % braking, " +
+           fixed(100 * *w.accelerating_share, 1) + " % under drive (time-weighted means)\n";
+  }
   return o;
 }
 

@@ -124,6 +124,79 @@ double time_at(const Lap& lap, const Mesh& mesh, double s) {
   return lap.time_s[i] + w * (lap.time_s[i + 1] - lap.time_s[i]);
 }
 
+BalanceWindowResult check_balance_window(const BalanceWindow& w, const Lap& lap, const Mesh& mesh,
+                                         const std::vector<CornerSpan>& corners) {
+  BalanceWindowResult r;
+  r.window = w;
+  const std::size_t n = mesh.size();
+  const double lateral_mps2 = balance_window_lateral_g * units::g0;
+  auto in_window = [&](std::size_t i) {
+    return lap.speed_mps[i] > w.above_mps && std::abs(lap.lat_accel_mps2[i]) > lateral_mps2;
+  };
+  // Signed excursion beyond the nearer edge (0 inside), and the distance to it inside.
+  auto excursion = [&](double share) {
+    return share < w.front_share_min   ? share - w.front_share_min
+           : share > w.front_share_max ? share - w.front_share_max
+                                       : 0.0;
+  };
+  auto margin = [&](double share) {
+    return std::min(share - w.front_share_min, w.front_share_max - share);
+  };
+  double outside_s = 0.0, brake_s = 0.0, brake_sum = 0.0, drive_s = 0.0, drive_sum = 0.0;
+  std::optional<std::size_t> worst;
+  for (std::size_t i = 0; i < n; ++i) {
+    // This point's time: half of each interval it ends (an open track's ends have one).
+    const double dt = 0.5 * ((i > 0 ? lap.time_s[i] - lap.time_s[i - 1] : 0.0) +
+                             (i + 1 < n ? lap.time_s[i + 1] - lap.time_s[i] : 0.0));
+    const double share = lap.front_share[i];
+    if (lap.speed_mps[i] > w.above_mps) {
+      if (lap.phase[i] == Phase::brake) {
+        brake_s += dt;
+        brake_sum += dt * share;
+      } else if (lap.phase[i] == Phase::accelerate || lap.phase[i] == Phase::top_speed) {
+        drive_s += dt;
+        drive_sum += dt * share;
+      }
+    }
+    if (!in_window(i)) continue;
+    r.time_s += dt;
+    const double e = excursion(share);
+    if (e != 0.0) outside_s += dt;
+    if (!worst) {
+      worst = i;
+      r.lowest_share = r.highest_share = share;
+    }
+    r.lowest_share = std::min(r.lowest_share, share);
+    r.highest_share = std::max(r.highest_share, share);
+    const double we = excursion(lap.front_share[*worst]);
+    if (std::abs(e) > std::abs(we) ||
+        (e == 0.0 && we == 0.0 && margin(share) < margin(lap.front_share[*worst])))
+      worst = i;
+  }
+  if (brake_s > 0.0) r.braking_share = brake_sum / brake_s;
+  if (drive_s > 0.0) r.accelerating_share = drive_sum / drive_s;
+  if (!worst) return r;
+  const std::size_t i = *worst;
+  r.outside_fraction = r.time_s > 0.0 ? outside_s / r.time_s : 0.0;
+  r.worst_excursion = excursion(lap.front_share[i]);
+  r.pass = outside_s == 0.0 && r.worst_excursion == 0.0;
+  r.margin = r.pass ? margin(lap.front_share[i]) : 0.0;
+  r.worst_at_m = mesh.s_m[i];
+  r.worst_speed_mps = lap.speed_mps[i];
+  r.worst_phase = lap.phase[i];
+  for (const auto& c : corners) {
+    if (i >= c.start && i <= c.end) {
+      r.worst_corner = c.id;
+      break;
+    }
+    if (c.start > i) {
+      r.next_corner = c.id;
+      break;
+    }
+  }
+  return r;
+}
+
 LapSummary summarize(const Lap& lap, const Mesh& mesh, const Track& track,
                      const std::vector<CornerSpan>& spans, const Envelope& env) {
   LapSummary s;
@@ -251,6 +324,7 @@ LapSummary summarize(const Lap& lap, const Mesh& mesh, const Track& track,
                                (lap.front_usage[i + 1] - lap.rear_usage[i + 1] > b.threshold));
     b.front_limited_length_m += over * mesh.step_m;
   }
+  if (car.balance_window) b.window = check_balance_window(*car.balance_window, lap, mesh, spans);
   return s;
 }
 

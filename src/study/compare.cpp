@@ -87,6 +87,7 @@ Comparison compare(const Car& car, const std::vector<std::size_t>& configs,
     const LapRun& ref = runs[t * nc + best];
     double second = 0.0;
     bool have_second = false;
+    pt.runner_up = best;
     for (std::size_t c = 0; c < nc; ++c) {
       const LapRun& r = runs[t * nc + c];
       Comparison::Entry e;
@@ -96,6 +97,7 @@ Comparison compare(const Car& car, const std::vector<std::size_t>& configs,
       if (c != best && (!have_second || e.delta_to_best_s < second)) {
         second = e.delta_to_best_s;
         have_second = true;
+        pt.runner_up = c;
       }
       pt.entries.push_back(std::move(e));
     }

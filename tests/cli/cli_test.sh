@@ -221,6 +221,36 @@ awk '/^corner  turn/ { on = 1; next } on && /^-/ { next } on && NF != 12 { on = 
 "$bin" compare --car cars/caldra-gt.yaml --track tracks/skidpad.yaml > "$tmp/cmp.txt"
 grep -q "delta in corners s  delta under braking s  delta on straights s" "$tmp/cmp.txt" && ok ||
   bad "compare's split columns do not say delta: $(grep '^config' "$tmp/cmp.txt")"
+# compare starts with a verdict per track (issue 17): winner and margin as the "best" line says,
+# the margin split into corners, braking and straights that add up to it (to the 0.001 s of
+# rounding per part: 0.002 s), and the balance window's verdict for a car that has one.
+"$bin" compare --car cars/pellion-fr2.yaml --track tracks/brannock-park.yaml \
+  --track tracks/saltmere-flats.yaml --config low --config high --out "$tmp/verdict" > "$tmp/verdict.txt"
+[ "$(sed -n 3p "$tmp/verdict.txt")" = "verdict (+: time the winner gains there)" ] && ok ||
+  bad "compare does not start with the verdict: $(head -4 "$tmp/verdict.txt")"
+for track in "Brannock Park" "Saltmere Flats"; do
+  line=$(grep "^$track: " "$tmp/verdict.txt" | head -1)
+  best=$(awk -v t="$track" '$0 ~ "^track   " t " \\(" { on = 1 } on && /^best / { print $2, $4; exit }' "$tmp/verdict.txt")
+  awk -v line="$line" -v best="$best" 'BEGIN {
+    n = split(line, w, " "); split(best, b, " ")
+    for (i = 1; i <= n; i++) {
+      if (w[i] == "wins" && w[i + 1] == "by") { winner = w[i - 1]; margin = w[i + 2] }
+      if (w[i] == "in" && w[i + 1] == "corners,") c = w[i - 2]
+      if (w[i] == "under" && w[i + 1] == "braking,") k = w[i - 2]
+      if (w[i] == "on" && w[i + 1] == "straights.") s = w[i - 2] }
+    d = c + k + s - margin
+    exit !(winner == b[1] && margin == b[2] && d < 0.002 && d > -0.002) }' && ok ||
+    bad "verdict on $track disagrees with the best line ($best): $line"
+done
+grep -q "^  balance window 33.5-57.5 % front above 150 km/h, > 0.5 g lateral: " "$tmp/verdict.txt" && ok ||
+  bad "compare lacks the balance window's verdict"
+python3 -c '
+import json, sys
+r = json.load(open(sys.argv[1]))["results"]
+w = [x["balance"]["window"] for x in r]
+ok = len(w) == 4 and all(abs(x["front_share_min"] - 0.335) < 1e-12 and x["above_kph"] == 150
+                         and x["result"] in ("pass", "fail", "not reached") for x in w)
+sys.exit(0 if ok else 1)' "$tmp/verdict/summary.json" && ok || bad "summary.json lacks the balance window"
 # check prints no closure gap for an open track (nothing to close), and JSON null.
 "$bin" check --car cars/caldra-gt.yaml --track tracks/acceleration.yaml --json "$tmp/open.json" > "$tmp/open.txt"
 ! grep -q "closure gap" "$tmp/open.txt" && grep -q '"closure_gap_m": null' "$tmp/open.json" && ok ||

@@ -79,3 +79,19 @@ TEST_CASE("a car built in code is named by its name; a loaded one by its file") 
   c.file = "cars/x.yaml";
   CHECK(c.subject() == "cars/x.yaml");
 }
+
+TEST_CASE("a balance window checks itself: shares in [0, 1], the max above the min, a speed") {
+  // Issue 17's key, balance_window {front_share: [min, max], above: speed}.
+  Car car = test::plain_car();
+  car.balance_window = BalanceWindow{0.38, 0.46, 150.0 / 3.6};
+  CHECK(test::describe(car.validate()) == "none");
+  car.balance_window = BalanceWindow{0.46, 0.38, 150.0 / 3.6};
+  CHECK(test::describe(car.validate()) ==
+        "balance_window.front_share: the window's max (38.0 %) must lie above its min (46.0 %)");
+  car.balance_window = BalanceWindow{0.38, 1.46, 150.0 / 3.6};
+  CHECK(test::describe(car.validate()) ==
+        "balance_window.front_share[1]: value 1.46 is out of range: must be [0, 1]");
+  car.balance_window = BalanceWindow{0.38, 0.46, -1.0};
+  CHECK(test::describe(car.validate()).rfind("balance_window.above: value -1 is out of range", 0) ==
+        0);
+}

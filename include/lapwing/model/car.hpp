@@ -18,6 +18,23 @@ namespace lapwing {
 /// saturates first, with drive limited to what the driven axle's load can transmit.
 enum class VehicleModel { point_mass, axle };
 
+/// The front axle's share of the load (weight, downforce by the aero balance, the drag moment and
+/// load transfer) the team accepts in fast corners: from `front_share_min` to `front_share_max`
+/// (0..1), at speeds above `above_mps`, wherever the lateral acceleration exceeds
+/// balance_window_lateral_g. Keeping the balance inside such a window at speed is what aero
+/// set-up aims for (common practice: the balance moves with braking, drive and aero load, and a
+/// driver commits to fast corners only when it stays within a known range).
+struct BalanceWindow {
+  double front_share_min = 0.0, front_share_max = 1.0;
+  double above_mps = 0.0;
+
+  /// Shares in [0, 1], the max above the min, `above` in [0, 200] m/s (key paths as in the car
+  /// file: "front_share[0]", "front_share[1]", "above").
+  std::optional<Violation> validate() const;
+};
+/// "While cornering": lateral acceleration above this many g (issue 17's definition).
+inline constexpr double balance_window_lateral_g = 0.5;
+
 struct Car {
   std::string name;
   std::string file;
@@ -32,6 +49,7 @@ struct Car {
   double drag_height_m;
   VehicleModel model = VehicleModel::point_mass;
   std::vector<AeroConfig> configs;
+  std::optional<BalanceWindow> balance_window;  // none: no window is checked
 
   /// Index of the config named `name`, or -1.
   int config_index(const std::string& name) const;

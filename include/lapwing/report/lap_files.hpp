@@ -17,6 +17,8 @@ std::string summary_json(const std::string& car_name, const std::vector<LapSumma
 
 /// The "balance" object of a result in summary.json; compare.json writes the same per config.
 void write_balance(JsonWriter& w, const BalanceSummary& b);
+/// The "window" object inside "balance": the balance window and how the lap kept to it.
+void write_balance_window(JsonWriter& w, const BalanceWindowResult& r);
 
 /// trace-<track>-<config>.csv, one row per mesh point (README, "Output files").
 std::string trace_csv(const Lap& lap, const Mesh& mesh);

@@ -43,6 +43,7 @@ struct Comparison {
   struct PerTrack {
     std::vector<Entry> entries;  // in the order of `configs`
     std::size_t best;            // index into entries
+    std::size_t runner_up;       // the second best (== best with one config)
     double margin_s;             // second best minus best (0 with one config)
   };
   std::vector<std::size_t> configs;  // indices into the car's configs
