@@ -5,6 +5,7 @@
 #include "lapwing/base/units.hpp"
 #include "lapwing/io/document.hpp"
 #include "lapwing/io/track_import.hpp"
+#include "lapwing/path/racing_line.hpp"
 
 namespace lapwing {
 
@@ -13,6 +14,7 @@ namespace {
 constexpr Range grade_range{-0.5, 0.5};                   // +-50 %: steeper is no road
 constexpr Range segment_length{0.0, 100e3, true, false};  // up to 100 km a piece
 constexpr Range radius_range{0.0, 100e3, true, false};
+constexpr Range width_range{0.0, 100.0, true, false};  // edge to edge: (0, 100] m
 
 double turn_sign(Reader& r) {
   return r.choice("turn", {"left", "right"}) == "left" ? 1.0 : -1.0;
@@ -38,6 +40,7 @@ Segment read_segment(const Document& doc, const Node& item, const std::string& p
     Reader r(doc, body, p);
     s.length_m = r.quantity("length", Quantity::length, segment_length);
     s.grade = r.quantity_or("grade", Quantity::fraction, grade_range, 0.0);
+    s.width_m = r.quantity_or("width", Quantity::length, width_range, 0.0);
     r.finish();
     return s;
   }
@@ -51,6 +54,7 @@ Segment read_segment(const Document& doc, const Node& item, const std::string& p
     s.length_m = radius * angle;
     s.curvature_start_1pm = s.curvature_end_1pm = sign / radius;
     s.grade = r.quantity_or("grade", Quantity::fraction, grade_range, 0.0);
+    s.width_m = r.quantity_or("width", Quantity::length, width_range, 0.0);
     r.finish();
     return s;
   }
@@ -66,6 +70,7 @@ Segment read_segment(const Document& doc, const Node& item, const std::string& p
     s.curvature_start_1pm = from ? sign / *from : 0.0;
     s.curvature_end_1pm = to ? sign / *to : 0.0;
     s.grade = r.quantity_or("grade", Quantity::fraction, grade_range, 0.0);
+    s.width_m = r.quantity_or("width", Quantity::length, width_range, 0.0);
     r.finish();
     return s;
   }
@@ -82,7 +87,7 @@ Track load_track(const std::string& file) {
   Document doc = load_document(file);
   Reader r(doc, doc.root, "");
   r.keys({"format", "name", "closed", "start_speed", "altitude", "ambient", "mesh", "segments",
-          "sectors", "centerline", "curvature"});
+          "sectors", "centerline", "curvature", "width", "line"});
   {
     const Node& n = r.require("format");
     if (r.node_quantity(n, Quantity::number, Range{}, "format") != 1.0)
@@ -126,7 +131,12 @@ Track load_track(const std::string& file) {
     c.keys({"file", "smoothing", "elevation_smoothing"});
     CenterlineOptions o;
     const std::string f = data_file(c);
-    o.smoothing_m = c.quantity_or("smoothing", Quantity::length, Range{1.0, 2000.0}, o.smoothing_m);
+    // `smoothing: auto` (the default) lets generalised cross-validation choose; a length
+    // overrides.
+    if (const Node* sm = c.get("smoothing");
+        sm && !(sm->kind == Node::Kind::scalar && sm->scalar == "auto"))
+      o.smoothing_m =
+          c.node_quantity(*sm, Quantity::length, Range{1.0, 2000.0}, c.child_path("smoothing"));
     o.elevation_smoothing_m = c.quantity_or("elevation_smoothing", Quantity::length,
                                             Range{1.0, 5000.0}, o.elevation_smoothing_m);
     c.finish();
@@ -146,6 +156,38 @@ Track load_track(const std::string& file) {
       r.fail(segs, "expected a non-empty list of segments", "segments");
     for (std::size_t i = 0; i < segs.items.size(); ++i)
       t.segments.push_back(read_segment(doc, segs.items[i], "segments[" + std::to_string(i) + "]"));
+  }
+  if (const Node* w = r.get("width")) {
+    if (!t.segments.empty())
+      t.width_m = r.node_quantity(*w, Quantity::length, width_range, "width");
+    else
+      r.fail(*w,
+             "width applies to segment tracks; a centerline gives its widths as the columns "
+             "width_left_m,width_right_m of its CSV",
+             "width");
+  }
+  if (r.has("line")) {
+    Reader l = r.map("line");
+    l.keys({"method", "vehicle_width", "margin"});
+    LineSpec spec;
+    const Node* method = l.get("method");
+    if (method) {
+      const std::string m = l.node_string(*method, l.child_path("method"));
+      if (m == "min-time")
+        l.fail(*method,
+               "the min-time line depends on the car: make it with 'lapwing track line --method "
+               "min-time --car CAR' and lap the track that writes",
+               "method");
+      if (m != "min-curvature")
+        l.fail(*method, "unknown line method '" + m + "' (a track file takes min-curvature)",
+               "method");
+    }
+    spec.vehicle_width_m =
+        l.quantity_or("vehicle_width", Quantity::length, Range{0.5, 5.0}, spec.vehicle_width_m);
+    spec.margin_m = l.quantity_or("margin", Quantity::length, Range{0.0, 5.0}, spec.margin_m);
+    l.finish();
+    t.line = spec;
+    t.line_mark = l.node().mark;
   }
   const double length = t.length_m();
   // A mesh of more than 20 million points is no circuit (and would exhaust the machine).
@@ -171,6 +213,15 @@ Track load_track(const std::string& file) {
     t.sectors_m = {0.0};
   }
   r.finish();
+  if (t.line) {
+    // The line over the path just read: what every command laps. Its errors (no widths, a
+    // track narrower than the vehicle and its margins) are the `line` key's.
+    try {
+      lay_racing_line(t);
+    } catch (const LineError& e) {
+      throw InputError(file, t.line_mark, e.what(), e.key_path());
+    }
+  }
   return t;
 }
 

@@ -12,6 +12,7 @@
 #include "lapwing/io/csv.hpp"
 #include "lapwing/io/csv_writer.hpp"
 #include "lapwing/io/json.hpp"
+#include "lapwing/path/centerline.hpp"
 #include "lapwing/path/geodesy.hpp"
 #include "lapwing/path/smoothing.hpp"
 
@@ -20,41 +21,6 @@ namespace lapwing {
 namespace {
 
 constexpr double max_path_m = 200e3;  // a path longer than 200 km is no circuit: bad data
-
-// Derivative of evenly spaced samples: central differences, periodic or one-sided at the ends.
-std::vector<double> derivative(const std::vector<double>& f, double h, bool periodic) {
-  const std::size_t n = f.size();
-  std::vector<double> d(n);
-  for (std::size_t i = 0; i < n; ++i) {
-    if (periodic) {
-      d[i] = (f[(i + 1) % n] - f[(i + n - 1) % n]) / (2 * h);
-    } else if (i == 0) {
-      d[i] = (f[1] - f[0]) / h;
-    } else if (i + 1 == n) {
-      d[i] = (f[n - 1] - f[n - 2]) / h;
-    } else {
-      d[i] = (f[i + 1] - f[i - 1]) / (2 * h);
-    }
-  }
-  return d;
-}
-
-// kappa = (x' y'' - y' x'') / (x'^2 + y'^2)^(3/2)
-std::vector<double> curvature_of(const std::vector<double>& x, const std::vector<double>& y,
-                                 double h, bool periodic) {
-  const auto x1 = derivative(x, h, periodic), y1 = derivative(y, h, periodic);
-  const auto x2 = derivative(x1, h, periodic), y2 = derivative(y1, h, periodic);
-  std::vector<double> k(x.size());
-  for (std::size_t i = 0; i < k.size(); ++i)
-    k[i] = (x1[i] * y2[i] - y1[i] * x2[i]) / std::pow(x1[i] * x1[i] + y1[i] * y1[i], 1.5);
-  return k;
-}
-
-double rms(const std::vector<double>& a, const std::vector<double>& b) {
-  double s = 0.0;
-  for (std::size_t i = 0; i < a.size(); ++i) s += (a[i] - b[i]) * (a[i] - b[i]);
-  return std::sqrt(s / static_cast<double>(a.size()));
-}
 
 // Heading and positions from curvature along s (trapezoid for heading, midpoint for position).
 void integrate_path(const std::vector<double>& s, const std::vector<double>& k,
@@ -94,12 +60,10 @@ void note_unused_columns(const CsvTable& t, const std::vector<std::string>& used
 
 PathProfile import_centerline(const std::string& file, bool closed, const CenterlineOptions& o) {
   const CsvTable t = read_csv(file, 10);
-  PathProfile p;
-  p.source = PathProfile::Source::centerline;
-  p.data_file = file;
-  p.smoothing_m = o.smoothing_m;
-  p.elevation_smoothing_m = o.elevation_smoothing_m;
-  std::vector<double> x, y, z;
+  auto pts = std::make_shared<CenterlinePoints>();
+  pts->closed = closed;
+  std::vector<double>&x = pts->x_m, &y = pts->y_m, &z = pts->z_m;
+  bool geodetic = false;
   std::vector<int> lines = t.lines;  // file line of each point kept
   if (t.find("x_m") >= 0 || t.find("y_m") >= 0) {
     require_no_duplicates(t, {"x_m", "y_m"});
@@ -121,114 +85,73 @@ PathProfile import_centerline(const std::string& file, bool closed, const Center
       y.push_back(enu[1]);
       if (has_alt) z.push_back(enu[2]);
     }
-    p.geodetic = true;
+    geodetic = true;
   } else {
     throw InputError(file, Mark{1, 1},
                      "a centerline needs columns x_m,y_m[,z_m] or lat_deg,lon_deg[,alt_m]");
   }
-  note_unused_columns(t,
-                      p.geodetic ? std::vector<std::string>{"lat_deg", "lon_deg", "alt_m"}
-                                 : std::vector<std::string>{"x_m", "y_m", "z_m"},
-                      "a centerline reads x_m, y_m, z_m or lat_deg, lon_deg, alt_m", p);
+  // Widths: both columns or neither; every width positive (the distance from the centerline to
+  // that edge).
+  {
+    const int left = t.find("width_left_m"), right = t.find("width_right_m");
+    if ((left >= 0) != (right >= 0))
+      throw InputError(file, Mark{1, 1},
+                       std::string("a centerline with widths needs both width_left_m and "
+                                   "width_right_m (only ") +
+                           (left >= 0 ? "width_left_m" : "width_right_m") + " is given)");
+    if (left >= 0) {
+      for (const int c : {left, right}) {
+        const auto& w = t.columns[static_cast<std::size_t>(c)];
+        for (std::size_t i = 0; i < w.size(); ++i)
+          if (!(w[i] > 0.0))
+            throw InputError(file, Mark{t.lines[i], 1},
+                             t.names[static_cast<std::size_t>(c)] + " " + format_number(w[i]) +
+                                 " m is not a width: the distance from the centerline to the "
+                                 "edge must be > 0");
+      }
+      pts->width_left_m = t.columns[static_cast<std::size_t>(left)];
+      pts->width_right_m = t.columns[static_cast<std::size_t>(right)];
+    }
+  }
+  PathProfile note_holder;
+  note_unused_columns(
+      t,
+      geodetic
+          ? std::vector<std::string>{"lat_deg", "lon_deg", "alt_m", "width_left_m", "width_right_m"}
+          : std::vector<std::string>{"x_m", "y_m", "z_m", "width_left_m", "width_right_m"},
+      "a centerline reads x_m, y_m, z_m or lat_deg, lon_deg, alt_m, and width_left_m, "
+      "width_right_m",
+      note_holder);
   // A closed centerline may repeat its first point at the end: drop it.
   if (closed && std::hypot(x.back() - x.front(), y.back() - y.front()) < 1e-6) {
-    x.pop_back();
-    y.pop_back();
+    for (auto* v : {&x, &y, &z, &pts->width_left_m, &pts->width_right_m})
+      if (!v->empty()) v->pop_back();
     lines.pop_back();
-    if (!z.empty()) z.pop_back();
   }
-  const std::size_t m = x.size();
   {
-    // The data as given, for the closure check (mesh.cpp): the gap from the last point to the
-    // first, which the closed fit bridges with a chord, against the median point spacing.
-    std::vector<double> chords(m - 1);
-    for (std::size_t i = 1; i < m; ++i)
-      chords[i - 1] = std::hypot(x[i] - x[i - 1], y[i] - y[i - 1]);
-    std::nth_element(chords.begin(),
-                     chords.begin() + static_cast<std::ptrdiff_t>(chords.size() / 2), chords.end());
-    p.point_spacing_m = chords[chords.size() / 2];
-    p.data_closure_gap_m = std::hypot(x.back() - x.front(), y.back() - y.front());
-    p.last_point_line = lines.back();
-  }
-  // Chord lengths, then samples evenly spaced along them.
-  std::vector<double> c(m + (closed ? 1 : 0), 0.0);
-  for (std::size_t i = 1; i < c.size(); ++i) {
-    const std::size_t a = i - 1, b = i % m;
-    c[i] = c[i - 1] + std::hypot(x[b] - x[a], y[b] - y[a]);
-  }
-  const double total = c.back();
-  if (total > max_path_m) {
-    // Name the widest gap between points: a stray point is the usual cause.
+    // A path longer than 200 km is no circuit: name the widest gap between points (a stray point
+    // is the usual cause).
+    const std::size_t m = x.size();
+    double total = 0.0, widest = 0.0;
     std::size_t worst = 1;
-    for (std::size_t i = 1; i < c.size(); ++i)
-      if (c[i] - c[i - 1] > c[worst] - c[worst - 1]) worst = i;
-    const std::size_t row = std::min(worst, t.lines.size() - 1);
-    throw InputError(file, Mark{t.lines[row], 1},
-                     "the centerline is " + std::to_string(total / 1000.0) +
-                         " km long (at most 200 km); this point is " +
-                         std::to_string(c[worst] - c[worst - 1]) + " m from the one before");
-  }
-  const std::size_t n =
-      std::max<std::size_t>(10, static_cast<std::size_t>(std::llround(total / o.spacing_m)));
-  const double h = total / static_cast<double>(n);
-  const std::size_t samples = closed ? n : n + 1;
-  std::vector<double> rx(samples), ry(samples), rz(z.empty() ? 0 : samples);
-  std::size_t seg = 0;
-  for (std::size_t j = 0; j < samples; ++j) {
-    const double s = std::min(total, static_cast<double>(j) * h);
-    while (seg + 2 < c.size() && c[seg + 1] < s) ++seg;
-    const std::size_t a = seg, b = (seg + 1) % m;
-    const double w = c[seg + 1] > c[seg] ? (s - c[seg]) / (c[seg + 1] - c[seg]) : 0.0;
-    rx[j] = x[a] + w * (x[b] - x[a]);
-    ry[j] = y[a] + w * (y[b] - y[a]);
-    if (!z.empty()) rz[j] = z[a] + w * (z[b] - z[a]);
-  }
-  // The fit.
-  constexpr int order = 3;
-  const auto fx = smooth(rx, h, o.smoothing_m, order, closed);
-  const auto fy = smooth(ry, h, o.smoothing_m, order, closed);
-  std::vector<double> res(samples);
-  for (std::size_t j = 0; j < samples; ++j) res[j] = std::hypot(rx[j] - fx[j], ry[j] - fy[j]);
-  p.fit_residual_rms_m = rms(res, std::vector<double>(samples, 0.0));
-  const auto k = curvature_of(fx, fy, h, closed);
-  // Raw curvature (over 5 m chords, so that it is finite) against the fitted one: the noise the
-  // fit removed.
-  {
-    const std::size_t step = std::max<std::size_t>(1, static_cast<std::size_t>(5.0 / h));
-    std::vector<double> rawk, fitk;
-    for (std::size_t j = step; j + step < samples; j += step) {
-      const double ax = rx[j - step], ay = ry[j - step], bx = rx[j], by = ry[j], cx = rx[j + step],
-                   cy = ry[j + step];
-      // Curvature of the circle through three points: 2 cross / (|ab| |bc| |ca|).
-      const double cross = (bx - ax) * (cy - ay) - (by - ay) * (cx - ax);
-      const double den = std::hypot(bx - ax, by - ay) * std::hypot(cx - bx, cy - by) *
-                         std::hypot(cx - ax, cy - ay);
-      if (den <= 0.0) continue;
-      rawk.push_back(2.0 * cross / den);
-      fitk.push_back(k[j]);
+    for (std::size_t i = 1; i < m + (closed ? 1 : 0); ++i) {
+      const double chord = std::hypot(x[i % m] - x[i - 1], y[i % m] - y[i - 1]);
+      total += chord;
+      if (chord > widest) widest = chord, worst = i;
     }
-    p.curvature_noise_rms_1pm = rawk.empty() ? 0.0 : rms(rawk, fitk);
+    if (total > max_path_m) {
+      const std::size_t row = std::min(worst, t.lines.size() - 1);
+      throw InputError(file, Mark{t.lines[row], 1},
+                       "the centerline is " + std::to_string(total / 1000.0) +
+                           " km long (at most 200 km); this point is " + std::to_string(widest) +
+                           " m from the one before");
+    }
   }
-  std::vector<double> grade(samples, 0.0), elev(samples, 0.0);
-  if (!z.empty()) {
-    elev = smooth(rz, h, o.elevation_smoothing_m, 2, closed);
-    grade = derivative(elev, h, closed);
-  }
-  // The profile along the fitted path's own length.
-  p.s_m.assign(samples, 0.0);
-  for (std::size_t j = 1; j < samples; ++j)
-    p.s_m[j] = p.s_m[j - 1] + std::hypot(fx[j] - fx[j - 1], fy[j] - fy[j - 1]);
-  p.x_m = fx;
-  p.y_m = fy;
-  p.curvature_1pm = k;
-  p.grade = grade;
-  p.elevation_m = elev;
-  if (closed) {
-    // Close the loop: the last sample is the first again.
-    p.s_m.push_back(p.s_m.back() + std::hypot(fx.front() - fx.back(), fy.front() - fy.back()));
-    for (auto* v : {&p.x_m, &p.y_m, &p.curvature_1pm, &p.grade, &p.elevation_m})
-      v->push_back(v->front());
-  }
+  PathProfile p = fit_centerline(pts, o);
+  p.data_file = file;
+  p.geodetic = geodetic;
+  p.last_point_line = lines.back();
+  p.notes = std::move(note_holder.notes);
   return p;
 }
 
@@ -372,9 +295,50 @@ LogTrack track_from_log(const LogOptions& o, const std::string& csv_name) {
     rv[j] = v[seg] + w * (v[seg + 1] - v[seg]);
     row[j] = w < 0.5 ? seg : seg + 1;
   }
-  rk = smooth(rk, step, o.smoothing_m, 2, false);
   LogTrack out{};
   out.length_m = length;
+  // The filter's length: given, or chosen by GCV on the curvature resampled at the log's own
+  // median row spacing (so that the samples are about the rows and their noise stays
+  // independent from one to the next, as GCV assumes). Second differences, as the filter; a
+  // closed lap's curvature is periodic.
+  constexpr int log_order = 2;
+  if (o.smoothing_m) {
+    out.smoothing_m = *o.smoothing_m;
+  } else {
+    std::vector<double> gaps(s.size() - 1);
+    for (std::size_t i = 1; i < s.size(); ++i) gaps[i - 1] = s[i] - s[i - 1];
+    std::nth_element(gaps.begin(), gaps.begin() + static_cast<std::ptrdiff_t>(gaps.size() / 2),
+                     gaps.end());
+    const std::size_t nr = std::max<std::size_t>(
+        10, static_cast<std::size_t>(std::llround(length / gaps[gaps.size() / 2])));
+    const double hr = length / static_cast<double>(nr);
+    std::vector<double> kr;
+    std::size_t at = 0;
+    for (std::size_t j = 0; j < (o.closed ? nr : nr + 1); ++j) {
+      const double sj = std::min(length, static_cast<double>(j) * hr);
+      while (at + 2 < s.size() && s[at + 1] < sj) ++at;
+      const double w = (sj - s[at]) / (s[at + 1] - s[at]);
+      kr.push_back(k[at] + w * (k[at + 1] - k[at]));
+    }
+    const double lo = gcv_min_spacings * hr;
+    const double hi = std::max(lo, std::min(gcv_max_spacings * hr, 0.5 * length));
+    const SmoothingChoice g = choose_smoothing({kr}, hr, log_order, o.closed, lo, hi);
+    out.smoothing_m = g.length_m;
+    out.smoothing.automatic = true;
+    out.smoothing.noise_rms = g.noise_rms;
+    out.smoothing.chosen_at_spacing_m = hr;
+    out.smoothing.at_lower_bound = g.at_lower_bound;
+    out.smoothing.at_upper_bound = g.at_upper_bound;
+    out.smoothing.exact_trace = g.exact_trace;
+  }
+  if (o.closed) {
+    // Periodic: the last sample is the first again.
+    rk.pop_back();
+    rk = smooth(rk, step, out.smoothing_m, log_order, true);
+    rk.push_back(rk.front());
+  } else {
+    rk = smooth(rk, step, out.smoothing_m, log_order, false);
+  }
   out.start_speed_mps = v[0];
   // What a unit read wrong does: a_y in m/s2 read as g is 9.81 times too large (and in g read
   // as m/s2 9.81 times too small); a yaw rate in deg/s read as rad/s is 57.3 times too large;
@@ -411,8 +375,8 @@ LogTrack track_from_log(const LogOptions& o, const std::string& csv_name) {
       std::ostringstream os;
       os.precision(3);
       os << "the log implies a lateral acceleration of " << out.peak_lateral_g
-         << " g here (curvature x speed^2, filtered over " << o.smoothing_m << " m), more than the "
-         << log_max_lateral_g << " g no car exceeds: " << unit_hint(true);
+         << " g here (curvature x speed^2, filtered over " << out.smoothing_m
+         << " m), more than the " << log_max_lateral_g << " g no car exceeds: " << unit_hint(true);
       throw InputError(o.log, Mark{t.lines[row[worst]], 1}, os.str());
     }
   }
@@ -472,7 +436,8 @@ LogTrack track_from_log(const LogOptions& o, const std::string& csv_name) {
   y_out << "# Made by 'lapwing track from-log' from "
         << std::filesystem::path(o.log).filename().string() << ": curvature from "
         << (o.yaw_rate.empty() ? "lateral acceleration / speed^2" : "yaw rate / speed")
-        << ", filtered over " << o.smoothing_m << " m.\n";
+        << ", filtered over " << fixed(out.smoothing_m, 1) << " m"
+        << (out.smoothing.automatic ? " (auto: generalised cross-validation)" : "") << ".\n";
   y_out << "format: 1\nname: " << json_quote(name) << "\nclosed: " << (o.closed ? "true" : "false")
         << "\n";
   if (!o.closed) y_out << "start_speed: " << format_number(v[0]) << " m/s  # the log's first\n";

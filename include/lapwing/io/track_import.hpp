@@ -4,19 +4,19 @@
 
 #include <string>
 
+#include <optional>
+
 #include "lapwing/model/track.hpp"
+#include "lapwing/path/centerline.hpp"
 
 namespace lapwing {
 
-struct CenterlineOptions {
-  double smoothing_m = 20.0;             // wavelength the x/y fit halves (see smoothing.hpp)
-  double elevation_smoothing_m = 100.0;  // the same for elevation, before it becomes grade
-  double spacing_m = 1.0;                // resampling step along the path
-};
+/// The smoothing of a centerline (path/centerline.hpp): a length, or none for auto (GCV).
+using CenterlineOptions = CenterlineFitOptions;
 
 /// A CSV of x_m,y_m[,z_m] or lat_deg,lon_deg[,alt_m] (WGS-84, projected to the tangent plane at
-/// the first point). Resampled by arc length, smoothed (periodically for a closed track), and
-/// differentiated: curvature = (x' y'' - y' x'') / (x'^2 + y'^2)^(3/2); grade = dz/ds.
+/// the first point), with optional widths width_left_m,width_right_m (both or neither; > 0).
+/// Fitted by fit_centerline (path/centerline.hpp).
 PathProfile import_centerline(const std::string& csv_file, bool closed,
                               const CenterlineOptions& options);
 
@@ -32,10 +32,10 @@ struct LogOptions {
   std::string accel_unit = "g";                            // g | m/s2
   std::string yaw_unit = "deg/s";                          // deg/s | rad/s
   bool closed = false;
-  double smoothing_m = 20.0;   // filter on the curvature
-  double min_speed_mps = 5.0;  // below it a_y / v^2 is too noisy: bridged over
-  std::string name;            // the track's name (default: the log's file name)
-  AirSpec air;                 // written into the track: altitude, and ambient when given
+  std::optional<double> smoothing_m;  // filter on the curvature; none: auto (GCV)
+  double min_speed_mps = 5.0;         // below it a_y / v^2 is too noisy: bridged over
+  std::string name;                   // the track's name (default: the log's file name)
+  AirSpec air;                        // written into the track: altitude, and ambient when given
 };
 
 /// Plausibility limits on a log (a unit read wrong scales every curvature by 9.81, 57.3 or 3.6^2).
@@ -54,6 +54,8 @@ inline constexpr double log_max_start_speed_mps = 150.0;  // a track's start_spe
 struct LogTrack {
   std::string yaml, csv;
   double length_m, closure_heading_deg, closure_gap_m;  // before spreading
+  double smoothing_m;                                   // the filter's length
+  SmoothingInfo smoothing;                              // how it was set
   double start_speed_mps;                               // open logs: the first logged speed
   double peak_lateral_g;  // the largest |curvature| v^2 / g0 along the filtered log
 };

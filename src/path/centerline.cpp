@@ -1,0 +1,226 @@
+#include "lapwing/path/centerline.hpp"
+
+#include <algorithm>
+#include <cassert>
+#include <cmath>
+
+#include "lapwing/path/smoothing.hpp"
+
+namespace lapwing {
+
+namespace {
+
+// Derivative of evenly spaced samples: central differences, periodic or one-sided at the ends.
+std::vector<double> derivative(const std::vector<double>& f, double h, bool periodic) {
+  const std::size_t n = f.size();
+  std::vector<double> d(n);
+  for (std::size_t i = 0; i < n; ++i) {
+    if (periodic) {
+      d[i] = (f[(i + 1) % n] - f[(i + n - 1) % n]) / (2 * h);
+    } else if (i == 0) {
+      d[i] = (f[1] - f[0]) / h;
+    } else if (i + 1 == n) {
+      d[i] = (f[n - 1] - f[n - 2]) / h;
+    } else {
+      d[i] = (f[i + 1] - f[i - 1]) / (2 * h);
+    }
+  }
+  return d;
+}
+
+// kappa = (x' y'' - y' x'') / (x'^2 + y'^2)^(3/2)
+std::vector<double> curvature_of(const std::vector<double>& x, const std::vector<double>& y,
+                                 double h, bool periodic) {
+  const auto x1 = derivative(x, h, periodic), y1 = derivative(y, h, periodic);
+  const auto x2 = derivative(x1, h, periodic), y2 = derivative(y1, h, periodic);
+  std::vector<double> k(x.size());
+  for (std::size_t i = 0; i < k.size(); ++i)
+    k[i] = (x1[i] * y2[i] - y1[i] * x2[i]) / std::pow(x1[i] * x1[i] + y1[i] * y1[i], 1.5);
+  return k;
+}
+
+double rms(const std::vector<double>& a, const std::vector<double>& b) {
+  double s = 0.0;
+  for (std::size_t i = 0; i < a.size(); ++i) s += (a[i] - b[i]) * (a[i] - b[i]);
+  return std::sqrt(s / static_cast<double>(a.size()));
+}
+
+// The points' polyline (closed: with the chord from the last point back to the first):
+// cumulative chord length at each point.
+std::vector<double> chord_lengths(const CenterlinePoints& p) {
+  const std::size_t m = p.x_m.size();
+  std::vector<double> c(m + (p.closed ? 1 : 0), 0.0);
+  for (std::size_t i = 1; i < c.size(); ++i) {
+    const std::size_t a = i - 1, b = i % m;
+    c[i] = c[i - 1] + std::hypot(p.x_m[b] - p.x_m[a], p.y_m[b] - p.y_m[a]);
+  }
+  return c;
+}
+
+// Samples every total / n along the polyline (n of them closed, n + 1 open), linear along each
+// chord; for every column the points have.
+struct Samples {
+  double h = 0.0;
+  std::vector<double> x, y, z, wl, wr;
+  std::size_t size() const { return x.size(); }
+};
+Samples resample(const CenterlinePoints& p, const std::vector<double>& c, std::size_t n) {
+  const std::size_t m = p.x_m.size();
+  const double total = c.back();
+  Samples r;
+  r.h = total / static_cast<double>(n);
+  const std::size_t samples = p.closed ? n : n + 1;
+  const bool has_z = !p.z_m.empty(), has_w = !p.width_left_m.empty();
+  std::size_t seg = 0;
+  for (std::size_t j = 0; j < samples; ++j) {
+    const double s = std::min(total, static_cast<double>(j) * r.h);
+    while (seg + 2 < c.size() && c[seg + 1] < s) ++seg;
+    const std::size_t a = seg, b = (seg + 1) % m;
+    const double w = c[seg + 1] > c[seg] ? (s - c[seg]) / (c[seg + 1] - c[seg]) : 0.0;
+    auto at = [&](const std::vector<double>& v) { return v[a] + w * (v[b] - v[a]); };
+    r.x.push_back(at(p.x_m));
+    r.y.push_back(at(p.y_m));
+    if (has_z) r.z.push_back(at(p.z_m));
+    if (has_w) {
+      r.wl.push_back(at(p.width_left_m));
+      r.wr.push_back(at(p.width_right_m));
+    }
+  }
+  return r;
+}
+
+constexpr int xy_order = 3;  // third differences: curvature (a second derivative) stays smooth
+
+}  // namespace
+
+double centerline_fit_spacing(double smoothing_m, double finest_m) {
+  // lambda = (L / (pi h))^6 roughly: at L / h = 40 that is 4.3e6.
+  return std::max(finest_m, smoothing_m / 40.0);
+}
+
+PathProfile fit_centerline(std::shared_ptr<const CenterlinePoints> points,
+                           const CenterlineFitOptions& o) {
+  assert(points && points->x_m.size() >= 3 && points->y_m.size() == points->x_m.size());
+  const CenterlinePoints& pts = *points;
+  const bool closed = pts.closed;
+  const std::size_t m = pts.x_m.size();
+  PathProfile p;
+  p.source = PathProfile::Source::centerline;
+  p.elevation_smoothing_m = o.elevation_smoothing_m;
+  {
+    // The data as given, for the closure check (mesh.cpp): the gap from the last point to the
+    // first, which the closed fit bridges with a chord, against the median point spacing.
+    std::vector<double> chords(m - 1);
+    for (std::size_t i = 1; i < m; ++i)
+      chords[i - 1] = std::hypot(pts.x_m[i] - pts.x_m[i - 1], pts.y_m[i] - pts.y_m[i - 1]);
+    std::nth_element(chords.begin(),
+                     chords.begin() + static_cast<std::ptrdiff_t>(chords.size() / 2), chords.end());
+    p.point_spacing_m = chords[chords.size() / 2];
+    p.data_closure_gap_m =
+        std::hypot(pts.x_m.back() - pts.x_m.front(), pts.y_m.back() - pts.y_m.front());
+  }
+  const std::vector<double> c = chord_lengths(pts);
+  const double total = c.back();
+  auto samples_at = [&](double step) {
+    return std::max<std::size_t>(10, static_cast<std::size_t>(std::llround(total / step)));
+  };
+
+  // The smoothing length: given, or chosen by GCV on the data resampled at its own median
+  // spacing, so that the samples are about the points themselves and their noise stays
+  // independent from one to the next (GCV assumes so; points interpolated between the data's
+  // would look like signal and be kept).
+  double length = 0.0;
+  if (o.smoothing_m) {
+    length = *o.smoothing_m;
+  } else {
+    const Samples d = resample(pts, c, samples_at(p.point_spacing_m));
+    const double lo = gcv_min_spacings * d.h;
+    const double hi = std::max(lo, std::min(gcv_max_spacings * d.h, 0.5 * total));
+    const SmoothingChoice g = choose_smoothing({d.x, d.y}, d.h, xy_order, closed, lo, hi);
+    length = g.length_m;
+    p.smoothing.automatic = true;
+    p.smoothing.noise_rms = g.noise_rms;
+    p.smoothing.chosen_at_spacing_m = d.h;
+    p.smoothing.at_lower_bound = g.at_lower_bound;
+    p.smoothing.at_upper_bound = g.at_upper_bound;
+    p.smoothing.exact_trace = g.exact_trace;
+  }
+  p.smoothing_m = length;
+
+  const Samples r = resample(
+      pts, c,
+      samples_at(o.fixed_spacing ? o.spacing_m : centerline_fit_spacing(length, o.spacing_m)));
+  const double h = r.h;
+  p.sample_spacing_m = h;
+  const std::size_t samples = r.size();
+  const auto fx = smooth(r.x, h, length, xy_order, closed);
+  const auto fy = smooth(r.y, h, length, xy_order, closed);
+  std::vector<double> res(samples);
+  for (std::size_t j = 0; j < samples; ++j) res[j] = std::hypot(r.x[j] - fx[j], r.y[j] - fy[j]);
+  p.fit_residual_rms_m = rms(res, std::vector<double>(samples, 0.0));
+  const auto k = curvature_of(fx, fy, h, closed);
+  // Raw curvature (over 5 m chords, so that it is finite) against the fitted one: the noise the
+  // fit removed.
+  {
+    const std::size_t step = std::max<std::size_t>(1, static_cast<std::size_t>(5.0 / h));
+    std::vector<double> rawk, fitk;
+    for (std::size_t j = step; j + step < samples; j += step) {
+      const double ax = r.x[j - step], ay = r.y[j - step], bx = r.x[j], by = r.y[j],
+                   cx = r.x[j + step], cy = r.y[j + step];
+      // Curvature of the circle through three points: 2 cross / (|ab| |bc| |ca|).
+      const double cross = (bx - ax) * (cy - ay) - (by - ay) * (cx - ax);
+      const double den = std::hypot(bx - ax, by - ay) * std::hypot(cx - bx, cy - by) *
+                         std::hypot(cx - ax, cy - ay);
+      if (den <= 0.0) continue;
+      rawk.push_back(2.0 * cross / den);
+      fitk.push_back(k[j]);
+    }
+    p.curvature_noise_rms_1pm = rawk.empty() ? 0.0 : rms(rawk, fitk);
+  }
+  std::vector<double> grade(samples, 0.0), elev(samples, 0.0);
+  if (!r.z.empty()) {
+    elev = smooth(r.z, h, o.elevation_smoothing_m, 2, closed);
+    grade = derivative(elev, h, closed);
+  }
+  if (!r.wl.empty()) {
+    p.width_left_m = smooth(r.wl, h, length, 1, closed);
+    p.width_right_m = smooth(r.wr, h, length, 1, closed);
+  }
+  // The profile along the fitted path's own length.
+  p.s_m.assign(samples, 0.0);
+  for (std::size_t j = 1; j < samples; ++j)
+    p.s_m[j] = p.s_m[j - 1] + std::hypot(fx[j] - fx[j - 1], fy[j] - fy[j - 1]);
+  p.x_m = fx;
+  p.y_m = fy;
+  p.curvature_1pm = k;
+  p.grade = grade;
+  p.elevation_m = elev;
+  if (closed) {
+    // Close the loop: the last sample is the first again.
+    p.s_m.push_back(p.s_m.back() + std::hypot(fx.front() - fx.back(), fy.front() - fy.back()));
+    for (auto* v : {&p.x_m, &p.y_m, &p.curvature_1pm, &p.grade, &p.elevation_m})
+      v->push_back(v->front());
+    if (!p.width_left_m.empty())
+      for (auto* v : {&p.width_left_m, &p.width_right_m}) v->push_back(v->front());
+  }
+  p.points = std::move(points);
+  return p;
+}
+
+PathProfile refit_centerline(const PathProfile& profile, double factor) {
+  assert(profile.points && profile.source == PathProfile::Source::centerline);
+  CenterlineFitOptions o;
+  o.smoothing_m = profile.smoothing_m * factor;
+  o.elevation_smoothing_m = profile.elevation_smoothing_m;
+  // The same samples as the fit itself, so that only the strength differs.
+  o.spacing_m = profile.sample_spacing_m;
+  o.fixed_spacing = true;
+  PathProfile p = fit_centerline(profile.points, o);
+  p.data_file = profile.data_file;
+  p.notes = profile.notes;
+  p.geodetic = profile.geodetic;
+  p.last_point_line = profile.last_point_line;
+  return p;
+}
+
+}  // namespace lapwing
