@@ -58,9 +58,15 @@ double smoothing_length(double h, double lambda, int order) {
 
 std::vector<double> smooth(const std::vector<double>& y, double h, double length, int order,
                            bool periodic) {
+  if (length <= 0.0) return y;
+  return smooth_lambda(y, smoothing_lambda(h, length, order), order, periodic);
+}
+
+std::vector<double> smooth_lambda(const std::vector<double>& y, double lambda, int order,
+                                  bool periodic) {
   const auto n = static_cast<Eigen::Index>(y.size());
-  if (length <= 0.0 || n < order + 2) return y;
-  SparseMatrix a = smoothing_lambda(h, length, order) * penalty(n, order, periodic);
+  if (n < order + 2) return y;
+  SparseMatrix a = lambda * penalty(n, order, periodic);
   a += identity(n);
   Eigen::SimplicialLDLT<SparseMatrix> solver(a);
   if (solver.info() != Eigen::Success) throw std::runtime_error("smoothing: factorisation failed");

@@ -155,7 +155,7 @@ TEST_CASE(
   std::remove(f.c_str());
 }
 
-TEST_CASE("round trip: a lap's speed and lateral acceleration rebuild the track within 0.5 %") {
+TEST_CASE("a clean lap rebuilt from its own log laps within 0.1 % of the original") {
   const Car car = load_car(test::source_path("cars/pellion-fr2.yaml")).configured(1);
   const Track original = load_track(test::source_path("tracks/brannock-park.yaml"));
   const Circuit c = lay_out(original, make_air(original.air));
@@ -179,7 +179,11 @@ TEST_CASE("round trip: a lap's speed and lateral acceleration rebuild the track 
   write("import_log_track.csv", t.csv);
   const Track rebuilt = load_track("import_log_track.yaml");
   const Circuit c2 = lay_out(rebuilt, make_air(original.air));
-  CHECK(near(run_lap(car, c2).summary.lap_time_s, run.summary.lap_time_s, 5e-3));
+  // Issue 13's target: smoothing auto (GCV on the log's rows, 1 m apart) keeps the lap within
+  // 0.1 % (at the old fixed 20 m it came out 1.2 % fast: the hairpins rounded off).
+  CHECK(t.smoothing.automatic);
+  const double rebuilt_lap = run_lap(car, c2).summary.lap_time_s;
+  CHECK(near(rebuilt_lap, run.summary.lap_time_s, 1e-3));
   // The closure errors were spread: the rebuilt lap closes.
   const Closure cl = closure(rebuilt);
   CHECK(std::abs(cl.heading_gap_rad) < 1e-6);
@@ -241,6 +245,47 @@ TEST_CASE("the surveyed Brannock Park has its segment twin's corners and apex sp
   }
   // And the lap (README's measured example): within 0.1 % at the default 20 m smoothing.
   CHECK(near(b.summary.lap_time_s, a.summary.lap_time_s, 1e-3));
+}
+
+TEST_CASE("a centerline with 0.5 m of noise laps within 3 % of the clean one (smoothing auto)") {
+  // Brannock Park's segment layout sampled every 2 m, once clean and once with Gaussian noise of
+  // 0.5 m rms on x and y (a coarse GPS survey). With smoothing auto, GCV chooses the strength for
+  // each, from the data alone. Issue 13's target: the noisy lap within 3 % of the clean one
+  // (measured: 0.4 to 0.6 % fast, both cars; at the old fixed 20 m another draw of the same
+  // noise lapped 30 % slow with 88 corners, the Caldra GT).
+  const Track twin = load_track(test::source_path("tracks/brannock-park.yaml"));
+  const Circuit c = lay_out(twin, make_air(twin.air));
+  Noise noise;
+  std::vector<double> x, y, nx, ny;
+  for (std::size_t i = 0; i + 1 < c.mesh.size(); i += 4) {
+    x.push_back(c.mesh.x_m[i]);
+    y.push_back(c.mesh.y_m[i]);
+    nx.push_back(c.mesh.x_m[i] + 0.5 * noise.gauss());
+    ny.push_back(c.mesh.y_m[i] + 0.5 * noise.gauss());
+  }
+  const std::string clean_csv = write("import_clean_2m.csv", points_csv(x, y));
+  const std::string noisy_csv = write("import_noisy_2m.csv", points_csv(nx, ny));
+  Track clean = twin, noisy = twin;
+  clean.segments.clear();
+  noisy.segments.clear();
+  clean.profile = import_centerline(clean_csv, true, CenterlineOptions{});
+  noisy.profile = import_centerline(noisy_csv, true, CenterlineOptions{});
+  CHECK(noisy.profile->smoothing.automatic);
+  // GCV's noise estimate: the 0.5 m put in, within 5 % (1370 points x 2: a standard error of
+  // about 1.4 %).
+  CHECK(near(noisy.profile->smoothing.noise_rms, 0.5, 0.05));
+  CHECK(noisy.profile->smoothing_m > clean.profile->smoothing_m);  // noisier: smoothed more
+  for (const char* file : {"cars/pellion-fr2.yaml", "cars/caldra-gt.yaml"}) {
+    const Car car = load_car(test::source_path(file)).configured(0);
+    const LapRun a = run_lap(car, lay_out(clean, make_air(twin.air)));
+    const LapRun b = run_lap(car, lay_out(noisy, make_air(twin.air)));
+    CAPTURE(file);
+    CHECK(near(b.summary.lap_time_s, a.summary.lap_time_s, 0.03));
+    // ... and the noise makes no extra corners.
+    CHECK(b.summary.corners.size() == a.summary.corners.size());
+  }
+  std::remove(clean_csv.c_str());
+  std::remove(noisy_csv.c_str());
 }
 
 TEST_CASE("a centerline's elevation becomes its grade") {

@@ -30,6 +30,9 @@ double smoothing_length(double spacing_m, double lambda, int order);
 
 std::vector<double> smooth(const std::vector<double>& y, double spacing_m, double length_m,
                            int order, bool periodic);
+/// The same with lambda given.
+std::vector<double> smooth_lambda(const std::vector<double>& y, double lambda, int order,
+                                  bool periodic);
 
 /// What generalised cross-validation chose for a set of series smoothed with one lambda (x and y
 /// of a path, so that the fit does not depend on the axes' directions).
