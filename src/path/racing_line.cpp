@@ -243,6 +243,14 @@ RacingLine min_curvature_line(const LineReference& ref, const LineOptions& o,
   return line;
 }
 
+RacingLine with_offsets(const LineReference& ref, RacingLine line) {
+  const State st = evaluate(ref, line.offset_m, std::vector<double>(ref.size(), 1.0));
+  line.x_m = st.x;
+  line.y_m = st.y;
+  line.curvature_1pm = discrete_curvature(st.x, st.y, ref.closed);
+  return line;
+}
+
 PathProfile line_profile(const LineReference& ref, const RacingLine& line) {
   const std::size_t n = ref.size();
   PathProfile p;

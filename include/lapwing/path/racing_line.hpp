@@ -86,6 +86,10 @@ struct RacingLine {
 RacingLine min_curvature_line(const LineReference& ref, const LineOptions& options,
                               const std::vector<double>& start = {});
 
+/// `line` with its points and curvature worked out again from its offset_m (after the offsets
+/// were changed by hand: a blend of two lines).
+RacingLine with_offsets(const LineReference& ref, RacingLine line);
+
 /// kappa_i of the discrete path (the formula above) at every point; an open path's end points
 /// take their neighbour's value.
 std::vector<double> discrete_curvature(const std::vector<double>& x, const std::vector<double>& y,
