@@ -12,6 +12,7 @@
 #include "lapwing/io/csv.hpp"
 #include "lapwing/io/csv_writer.hpp"
 #include "lapwing/io/json.hpp"
+#include "lapwing/io/line_track.hpp"
 #include "lapwing/path/centerline.hpp"
 #include "lapwing/path/geodesy.hpp"
 #include "lapwing/path/smoothing.hpp"
@@ -441,15 +442,7 @@ LogTrack track_from_log(const LogOptions& o, const std::string& csv_name) {
   y_out << "format: 1\nname: " << json_quote(name) << "\nclosed: " << (o.closed ? "true" : "false")
         << "\n";
   if (!o.closed) y_out << "start_speed: " << format_number(v[0]) << " m/s  # the log's first\n";
-  y_out << "altitude: " << format_number(o.air.altitude_m) << " m\n";
-  if (o.air.temperature_k || o.air.pressure_pa || o.air.relative_humidity > 0.0) {
-    std::string ambient;
-    auto add = [&](const std::string& item) { ambient += (ambient.empty() ? "" : ", ") + item; };
-    if (o.air.temperature_k) add("temperature: " + format_number(*o.air.temperature_k) + " K");
-    if (o.air.pressure_pa) add("pressure: " + format_number(*o.air.pressure_pa) + " Pa");
-    if (o.air.relative_humidity > 0.0) add("humidity: " + format_number(o.air.relative_humidity));
-    y_out << "ambient: {" << ambient << "}\n";
-  }
+  y_out << air_yaml(o.air);
   y_out << "mesh: 0.5 m\ncurvature: {file: " << json_quote(csv_name) << "}\n";
   out.yaml = y_out.str();
   out.csv = csv.take();

@@ -9,6 +9,7 @@
 #include "lapwing/base/version.hpp"
 #include "lapwing/report/cells.hpp"
 #include "lapwing/report/svg.hpp"
+#include "lapwing/report/track_quality_text.hpp"
 
 namespace lapwing {
 
@@ -81,6 +82,7 @@ td.n { text-align: right; }
 figure { margin: 8px 0 18px; }
 figcaption { color: var(--muted); font-size: 12px; margin-top: 2px; }
 p.note { color: var(--muted); font-size: 12px; margin: -8px 0 14px; }
+p.quality { font-size: 13px; }
 svg.plot { display: block; max-width: 100%; height: auto; background: var(--paper); }
 svg .grid line { stroke: #e6e9ef; stroke-width: 1; }
 svg .frame { fill: none; stroke: #9aa3b2; stroke-width: 1; }
@@ -145,6 +147,21 @@ std::string map_plot(const Circuit& c, const Comparison::PerTrack& pt, const Car
   outline.x.push_back(c.mesh.x_m.back());
   outline.y.push_back(c.mesh.y_m.back());
   p.add(outline);
+  // The track's edges, when it has widths: left and right of the path lapped along its normal
+  // (x - w sin(heading), y + w cos(heading) to the left).
+  const bool edges = !c.mesh.width_left_m.empty();
+  if (edges) {
+    Series left{"track edges", {}, {}, 7, false, 1.0}, right{"", {}, {}, 7, false, 1.0};
+    for (std::size_t i = 0; i < c.mesh.size(); i += k) {
+      const double sn = std::sin(c.mesh.heading_rad[i]), cs = std::cos(c.mesh.heading_rad[i]);
+      left.x.push_back(c.mesh.x_m[i] - c.mesh.width_left_m[i] * sn);
+      left.y.push_back(c.mesh.y_m[i] + c.mesh.width_left_m[i] * cs);
+      right.x.push_back(c.mesh.x_m[i] + c.mesh.width_right_m[i] * sn);
+      right.y.push_back(c.mesh.y_m[i] - c.mesh.width_right_m[i] * cs);
+    }
+    p.add(left);
+    p.add(right);
+  }
   const double vmin = *std::min_element(lap.speed_mps.begin(), lap.speed_mps.end());
   const double vmax = *std::max_element(lap.speed_mps.begin(), lap.speed_mps.end());
   const svg::Scale sx = p.x_scale(), sy = p.y_scale();
@@ -184,8 +201,15 @@ std::string map_plot(const Circuit& c, const Comparison::PerTrack& pt, const Car
     const double off = 0.035 * (p.x_scale().d1 - p.x_scale().d0);
     p.label(c.mesh.x_m[i] + nx * off, c.mesh.y_m[i] + ny * off, std::to_string(corner.id));
   }
-  return figure(p.render(),
-                "Dark: slow, light: fast. Numbers are corners; the lap starts at (0, 0).");
+  return figure(
+      p.render(),
+      std::string("Dark: slow, light: fast. Numbers are corners; the lap starts at (0, "
+                  "0).") +
+          (edges ? c.track.line_path ? " Thin lines: the track's edges; the coloured path is the "
+                                       "racing line lapped."
+                                     : " Thin lines: the track's edges; the coloured path is the "
+                                       "centerline lapped."
+                 : ""));
 }
 
 std::string front_share_plot(const Circuit& c, const Comparison::PerTrack& pt, const Car& car,
@@ -367,6 +391,19 @@ std::string html_report(const ReportInput& in) {
       const auto& pt = cmp.tracks[t];
       o += "<section id=\"track-" + escape(c.track.id) + "\"><h2>" + escape(c.track.name) +
            "</h2>\n";
+      // The data's verdict: the worst of the configs' (they differ only in the lap spread).
+      if (in.qualities) {
+        const TrackQuality* shown = nullptr;
+        for (const auto& q : *in.qualities)
+          if (q.track_id == c.track.id &&
+              (!shown || q.verdict > shown->verdict ||
+               (q.verdict == shown->verdict && q.spread.value_or(0) > shown->spread.value_or(0))))
+            shown = &q;
+        if (shown)
+          o += "<p class=\"quality\" id=\"quality-" + escape(c.track.id) + "\">" +
+               (shown->verdict == Verdict::poor ? "<strong>warning:</strong> " : "") +
+               escape(quality_line(*shown)) + "</p>\n";
+      }
       o += speed_plot(c, pt, car, cmp.configs);
       if (pt.entries.size() > 1) o += delta_plot(c, pt, car, cmp.configs);
       o += map_plot(c, pt, car, cmp.configs);
