@@ -76,8 +76,12 @@ State evaluate(const LineReference& ref, const std::vector<double>& alpha,
   return st;
 }
 
-// Each linearised step is solved to 0.1 mm (the line is wanted to 1 cm).
+// Each linearised step is solved to 0.1 mm (the line is wanted to 1 cm), in at most 20
+// projected-Newton steps: its answer is only the next point to linearise about, and the outer
+// loop converges all the same. Measured on Saltmere Flats (6 km, 14 m wide): the same line and
+// lap in 0.29 s instead of 0.57 s with up to 200 steps (a step costs one banded LDLT).
 constexpr double qp_tolerance_m = 1e-4;
+constexpr int qp_max_steps = 20;
 // The damping starts at 1e-6 of J'WJ's mean diagonal, falls tenfold per accepted step and stops
 // at 1e-12 of it: small enough that a step along a nearly flat direction (a straight's lateral
 // place between two gentle bends) is taken nearly whole, so that max |d alpha| < 1 cm comes in
@@ -207,8 +211,8 @@ RacingLine min_curvature_line(const LineReference& ref, const LineOptions& o,
     Eigen::SparseMatrix<double> eye(N, N);
     eye.setIdentity();
     // 1/2 d'(J'WJ + mu I)d + (J'W kappa)'d is half the linearised sum (plus the damping).
-    const BoxQpResult qp =
-        solve_box_qp(h + mu * eye, g, lo, hi, Eigen::VectorXd::Zero(N), qp_tolerance_m);
+    const BoxQpResult qp = solve_box_qp(h + mu * eye, g, lo, hi, Eigen::VectorXd::Zero(N),
+                                        qp_tolerance_m, qp_max_steps);
     std::vector<double> next(n);
     for (std::size_t i = 0; i < n; ++i)
       next[i] = std::clamp(alpha[i] + qp.x[static_cast<Eigen::Index>(i)], line.lower_m[i],
@@ -219,7 +223,8 @@ RacingLine min_curvature_line(const LineReference& ref, const LineOptions& o,
       alpha = next;
       st = cand;
       mu = std::max(mu / 10.0, mu_min);
-      if (step < o.tolerance_m) {
+      // Converged: a whole linearised step (its QP solved, not cut short) below the tolerance.
+      if (step < o.tolerance_m && qp.converged) {
         line.converged = true;
         ++line.iterations;
         break;
