@@ -138,7 +138,10 @@ std::string map_plot(const Circuit& c, const Comparison::PerTrack& pt, const Car
          "Track map coloured by speed (" + car.configs[configs[pt.best]].name + ")", "x (m)",
          "y (m)", 860, 520);
   p.equal_aspect();
-  Series outline{"", {}, {}, 6, false, 0.8};
+  const bool edges = !c.mesh.width_left_m.empty();
+  // A thin dark outline of the path; with edges it is not drawn (the coloured path shows between
+  // them) but still sets the plot's extent, edges included.
+  Series outline{"", {}, {}, 6, false, edges ? 0.0 : 0.8};
   const std::size_t k = stride(c.mesh.size(), trace_points);
   for (std::size_t i = 0; i < c.mesh.size(); i += k) {
     outline.x.push_back(c.mesh.x_m[i]);
@@ -146,34 +149,42 @@ std::string map_plot(const Circuit& c, const Comparison::PerTrack& pt, const Car
   }
   outline.x.push_back(c.mesh.x_m.back());
   outline.y.push_back(c.mesh.y_m.back());
+  if (edges)
+    for (std::size_t i = 0; i < c.mesh.size(); i += k)
+      for (const double w : {c.mesh.width_left_m[i], -c.mesh.width_right_m[i]}) {
+        outline.x.push_back(c.mesh.x_m[i] - w * std::sin(c.mesh.heading_rad[i]));
+        outline.y.push_back(c.mesh.y_m[i] + w * std::cos(c.mesh.heading_rad[i]));
+      }
   p.add(outline);
-  // The track's edges, when it has widths: left and right of the path lapped along its normal
-  // (x - w sin(heading), y + w cos(heading) to the left).
-  const bool edges = !c.mesh.width_left_m.empty();
-  if (edges) {
-    Series left{"track edges", {}, {}, 7, false, 1.0}, right{"", {}, {}, 7, false, 1.0};
-    for (std::size_t i = 0; i < c.mesh.size(); i += k) {
-      const double sn = std::sin(c.mesh.heading_rad[i]), cs = std::cos(c.mesh.heading_rad[i]);
-      left.x.push_back(c.mesh.x_m[i] - c.mesh.width_left_m[i] * sn);
-      left.y.push_back(c.mesh.y_m[i] + c.mesh.width_left_m[i] * cs);
-      right.x.push_back(c.mesh.x_m[i] + c.mesh.width_right_m[i] * sn);
-      right.y.push_back(c.mesh.y_m[i] - c.mesh.width_right_m[i] * cs);
-    }
-    p.add(left);
-    p.add(right);
-  }
   const double vmin = *std::min_element(lap.speed_mps.begin(), lap.speed_mps.end());
   const double vmax = *std::max_element(lap.speed_mps.begin(), lap.speed_mps.end());
   const svg::Scale sx = p.x_scale(), sy = p.y_scale();
   std::string cells;
   char buf[160];
+  if (edges) {
+    // The track's edges: left and right of the path lapped along its normal, x - w sin(heading),
+    // y + w cos(heading) to the left; thin grey lines either side of the path.
+    for (const int side : {1, -1}) {
+      cells += "<polyline fill=\"none\" stroke=\"#8a8a8a\" stroke-width=\"1\" points=\"";
+      for (std::size_t i = 0; i < c.mesh.size(); i += k) {
+        const double w = side > 0 ? c.mesh.width_left_m[i] : -c.mesh.width_right_m[i];
+        std::snprintf(buf, sizeof buf, "%.1f,%.1f ",
+                      sx(c.mesh.x_m[i] - w * std::sin(c.mesh.heading_rad[i])),
+                      sy(c.mesh.y_m[i] + w * std::cos(c.mesh.heading_rad[i])));
+        cells += buf;
+      }
+      cells += "\"/>";
+    }
+  }
+  // The path coloured by speed: narrower between the edges, so that they show.
+  const char* path_width = edges ? "3" : "6";
   for (std::size_t i = 0; i + k < c.mesh.size(); i += k) {
     const double t = vmax > vmin ? (lap.speed_mps[i] - vmin) / (vmax - vmin) : 0.5;
     std::snprintf(buf, sizeof buf,
                   "<line x1=\"%.1f\" y1=\"%.1f\" x2=\"%.1f\" y2=\"%.1f\" stroke=\"%s\" "
-                  "stroke-width=\"6\" stroke-linecap=\"round\"/>",
+                  "stroke-width=\"%s\" stroke-linecap=\"round\"/>",
                   sx(c.mesh.x_m[i]), sy(c.mesh.y_m[i]), sx(c.mesh.x_m[i + k]),
-                  sy(c.mesh.y_m[i + k]), svg::ramp_colour(t).c_str());
+                  sy(c.mesh.y_m[i + k]), svg::ramp_colour(t).c_str(), path_width);
     cells += buf;
   }
   cells += "\n";
@@ -205,10 +216,11 @@ std::string map_plot(const Circuit& c, const Comparison::PerTrack& pt, const Car
       p.render(),
       std::string("Dark: slow, light: fast. Numbers are corners; the lap starts at (0, "
                   "0).") +
-          (edges ? c.track.line_path ? " Thin lines: the track's edges; the coloured path is the "
-                                       "racing line lapped."
-                                     : " Thin lines: the track's edges; the coloured path is the "
-                                       "centerline lapped."
+          (edges ? c.track.line_path ? " Thin grey lines: the track's edges; the coloured path "
+                                       "is the racing line lapped."
+                                     : " Thin grey lines: the track's edges; the coloured path "
+                                       "is the one lapped (its centerline, or a line written "
+                                       "as one)."
                  : ""));
 }
 
