@@ -351,9 +351,10 @@ expect_error "a racing line needs the track's widths" \
 { cat tracks/cairnholt.yaml; echo "line: {method: min-curvature, vehicle_width: 1.9 m}"; } > "$tmp/cairnholt-line.yaml"
 "$bin" check --car cars/caldra-gt.yaml --track "$tmp/cairnholt-line.yaml" |
   grep -q "line: min-curvature, vehicle 1.90 m wide" && ok || bad "check does not describe the line"
-# The report's map draws the edges; summary.json has the data's verdict.
+# The report's map draws both edges (grey polylines); summary.json has the data's verdict.
 "$bin" run --car cars/caldra-gt.yaml --track "$tmp/cairnholt-line.yaml" --out "$tmp/lined" > /dev/null &&
-  grep -q "track edges" "$tmp/lined/report.html" && grep -q 'id="quality-cairnholt-line"' "$tmp/lined/report.html" &&
+  [ "$(grep -o 'polyline fill="none" stroke="#8a8a8a"' "$tmp/lined/report.html" | wc -l)" -eq 2 ] &&
+  grep -q 'id="quality-cairnholt-line"' "$tmp/lined/report.html" &&
   grep -q '"verdict": "good"' "$tmp/lined/summary.json" && ok || bad "run on a line: report or summary.json"
 # 16. Data-quality verdicts: the survey is good; its points taken 26 m apart are poor, a warning in
 #     run, in summary.json and in the report.
