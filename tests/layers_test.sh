@@ -42,6 +42,14 @@ for layer in "${!may[@]}"; do
     done < <(grep -h '^#include' "$f")
   done
 done
+# Only io (which reads files) and the command line know file positions: the other layers name a
+# bad value by its key path (InvalidInput), never by a Mark or an InputError.
+for layer in model path solve study report; do
+  if grep -nE '\b(InputError|Mark)\b' include/lapwing/$layer/*.hpp src/$layer/*.cpp; then
+    echo "FAIL: $layer knows file positions (above)"
+    fail=1
+  fi
+done
 # Every source file of the library sits in a layer folder.
 for f in src/*.cpp include/lapwing/*.hpp; do
   [ -e "$f" ] && { echo "FAIL: $f is outside the layer folders"; fail=1; }

@@ -12,6 +12,11 @@ bool near(double a, double b, double rel, double abs) {
   return std::abs(a - b) <= rel * std::max(std::abs(a), std::abs(b)) + abs;
 }
 
+std::string describe(const std::optional<Violation>& v) {
+  if (!v) return "none";
+  return v->field + ": " + v->message();
+}
+
 std::string source_path(const std::string& relative) {
   return std::string(LAPWING_SOURCE_DIR) + "/" + relative;
 }
@@ -62,16 +67,16 @@ Car constant_force_car(double mass_kg, double force_n, double mu) {
 }
 
 Segment straight(double length_m, double grade) {
-  return Segment{Segment::Kind::straight, length_m, 0.0, 0.0, grade, {}};
+  return Segment{Segment::Kind::straight, length_m, 0.0, 0.0, grade};
 }
 
 Segment arc(double radius_m, double angle_rad, bool left) {
   const double k = (left ? 1.0 : -1.0) / radius_m;
-  return Segment{Segment::Kind::arc, radius_m * angle_rad, k, k, 0.0, {}};
+  return Segment{Segment::Kind::arc, radius_m * angle_rad, k, k, 0.0};
 }
 
 Segment clothoid(double length_m, double from_curvature, double to_curvature) {
-  return Segment{Segment::Kind::clothoid, length_m, from_curvature, to_curvature, 0.0, {}};
+  return Segment{Segment::Kind::clothoid, length_m, from_curvature, to_curvature, 0.0};
 }
 
 Track circle_track(double radius_m, double mesh_m) {

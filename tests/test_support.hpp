@@ -2,9 +2,11 @@
 // assumptions are visible in the test), and the tolerance rule.
 #pragma once
 
+#include <optional>
 #include <string>
 #include <vector>
 
+#include "lapwing/base/violation.hpp"
 #include "lapwing/io/car_file.hpp"
 #include "lapwing/io/track_file.hpp"
 #include "lapwing/model/car.hpp"
@@ -15,6 +17,9 @@ namespace lapwing::test {
 
 /// Tolerance rule used throughout: |a - b| <= rel * max(|a|, |b|) + abs.
 bool near(double a, double b, double rel, double abs = 0.0);
+
+/// "KEY.PATH: MESSAGE" of a violation (SI values as the library words them), or "none".
+std::string describe(const std::optional<Violation>& v);
 
 /// The bundled files.
 std::string source_path(const std::string& relative);

@@ -24,4 +24,15 @@ InputError::InputError(std::string file, Mark mark, std::string what, std::strin
       message_(std::move(what)),
       key_path_(std::move(key_path)) {}
 
+InvalidInput::InvalidInput(std::string subject, Violation violation)
+    : std::runtime_error(
+          format_input_error(subject, Mark{}, violation.message(),
+                             violation.field.empty() ? violation.at : violation.field)),
+      subject_(std::move(subject)),
+      violation_(std::move(violation)) {}
+
+void require_valid(const std::optional<Violation>& v, const std::string& subject) {
+  if (v) throw InvalidInput(subject, *v);
+}
+
 }  // namespace lapwing

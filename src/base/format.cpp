@@ -4,6 +4,7 @@
 #include <charconv>
 #include <cmath>
 #include <cstdio>
+#include <sstream>
 #include <stdexcept>
 
 namespace lapwing {
@@ -15,6 +16,13 @@ std::string format_number(double v) {
   auto [end, ec] = std::to_chars(buf, buf + sizeof buf, v);
   assert(ec == std::errc());
   return std::string(buf, end);
+}
+
+std::string format_readable(double v) {
+  std::ostringstream os;
+  os.precision(12);
+  os << v;
+  return os.str();
 }
 
 std::string fixed(double v, int decimals) {

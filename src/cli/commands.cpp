@@ -12,9 +12,10 @@
 #include "lapwing/io/document.hpp"
 #include "lapwing/io/json.hpp"
 #include "lapwing/io/line_track.hpp"
+#include "lapwing/io/log_file.hpp"
 #include "lapwing/io/output.hpp"
+#include "lapwing/io/track_data.hpp"
 #include "lapwing/io/track_file.hpp"
-#include "lapwing/io/track_import.hpp"
 #include "lapwing/model/aero.hpp"
 #include "lapwing/model/air.hpp"
 #include "lapwing/model/car.hpp"
@@ -110,11 +111,11 @@ std::optional<double> option_value(const std::string& text, const char* option, 
 }
 
 AirOverride parse_air(const AirOptions& o) {
-  return {
-      option_value(o.altitude, "--altitude", Quantity::length, Range{-500.0, 6000.0}),
-      option_value(o.temperature, "--temperature", Quantity::temperature, Range{223.15, 343.15}),
-      option_value(o.pressure, "--pressure", Quantity::pressure, Range{30000.0, 110000.0}),
-      option_value(o.humidity, "--humidity", Quantity::fraction, Range{0.0, 1.0})};
+  return {option_value(o.altitude, "--altitude", Quantity::length, AirSpec::altitude_range),
+          option_value(o.temperature, "--temperature", Quantity::temperature,
+                       AirSpec::temperature_range),
+          option_value(o.pressure, "--pressure", Quantity::pressure, AirSpec::pressure_range),
+          option_value(o.humidity, "--humidity", Quantity::fraction, AirSpec::humidity_range)};
 }
 
 AirSpec apply(AirSpec spec, const AirOverride& o) {
@@ -125,12 +126,45 @@ AirSpec apply(AirSpec spec, const AirOverride& o) {
   return spec;
 }
 
-Circuit lay_out(const std::string& file, const AirOverride& air) {
-  const Track t = load_track(file);
-  return lapwing::lay_out(t, make_air(apply(t.air, air)));
+// The files a command loads, and where each of their values stands: an error the library finds
+// in them later (an InvalidInput: a start speed too high, a ride-height map that does not
+// converge) is reported at its place in the file, as the loader's own errors are.
+class Inputs {
+ public:
+  Car car(const std::string& file) {
+    CarFile f = read_car_file(file);
+    sources_.add(std::move(f.sources));
+    return std::move(f.car);
+  }
+  Track track(const std::string& file) {
+    TrackFile f = read_track_file(file);
+    sources_.add(std::move(f.sources));
+    return std::move(f.track);
+  }
+  Circuit lay_out(const std::string& file, const AirOverride& air) {
+    const Track t = track(file);
+    return lapwing::lay_out(t, make_air(apply(t.air, air)));
+  }
+  std::vector<Circuit> lay_out_all(const std::vector<std::string>& files, const AirOverride& air);
+  InputError error(const InvalidInput& e) const { return sources_.error(e); }
+
+ private:
+  SourceMaps sources_;
+};
+
+// Runs a command with its Inputs; an InvalidInput becomes the input error at its place.
+template <typename Options>
+int located(int (*command)(const Options&, Inputs&), const Options& o) {
+  Inputs in;
+  try {
+    return command(o, in);
+  } catch (const InvalidInput& e) {
+    throw in.error(e);
+  }
 }
 
-std::vector<Circuit> lay_out_all(const std::vector<std::string>& files, const AirOverride& air) {
+std::vector<Circuit> Inputs::lay_out_all(const std::vector<std::string>& files,
+                                         const AirOverride& air) {
   std::vector<Circuit> out;
   for (std::size_t i = 0; i < files.size(); ++i) {
     for (std::size_t j = 0; j < i; ++j) {
@@ -140,7 +174,7 @@ std::vector<Circuit> lay_out_all(const std::vector<std::string>& files, const Ai
       if (files[i] == files[j] || (!e1 && !e2 && a == b))
         throw UsageError{"--track " + files[i] + " is given twice"};
     }
-    out.push_back(lay_out(files[i], air));
+    out.push_back(this->lay_out(files[i], air));
   }
   return out;
 }
@@ -270,10 +304,11 @@ void describe_config(const Car& car, std::size_t index, const Air& air, std::str
 
 }  // namespace
 
-int check(const CheckOptions& o) {
+namespace {
+int check(const CheckOptions& o, Inputs& in) {
   const AirOverride air = parse_air(o.air);
-  const Car car = load_car(o.car);
-  const std::vector<Circuit> tracks = lay_out_all(o.tracks, air);
+  const Car car = in.car(o.car);
+  const std::vector<Circuit> tracks = in.lay_out_all(o.tracks, air);
   // The car's own figures in ISO 2533 sea-level air, or in the air the options give.
   const Air reference = make_air(apply(AirSpec{}, air));
 
@@ -369,9 +404,9 @@ int check(const CheckOptions& o) {
       try {
         const double lap = run_lap(cc, t).summary.lap_time_s;
         qualities.push_back(assess_track(t, variants, cc, car.configs[c].name, lap));
-      } catch (const InputError& e) {
+      } catch (const InvalidInput& e) {
         solve_notes.push_back("config " + car.configs[c].name +
-                              " cannot lap the track: " + e.message());
+                              " cannot lap the track: " + in.error(e).message());
       } catch (const CannotMove& e) {
         solve_notes.push_back("config " + car.configs[c].name +
                               " cannot complete the track: " + e.what());
@@ -440,6 +475,11 @@ int check(const CheckOptions& o) {
   std::cout << out;
   return 0;
 }
+}  // namespace
+
+int check(const CheckOptions& o) {
+  return located(&check, o);
+}
 
 void apply_model(const std::string& model, Car& car) {
   if (model.empty()) return;
@@ -451,12 +491,13 @@ void apply_model(const std::string& model, Car& car) {
     throw UsageError{"--model: '" + model + "' is not one of point-mass | axle"};
 }
 
-int run(const RunOptions& o) {
+namespace {
+int run(const RunOptions& o, Inputs& in) {
   const AirOverride air = parse_air(o.air);
-  Car car = load_car(o.car);
+  Car car = in.car(o.car);
   apply_model(o.model, car);
   const std::size_t ci = pick_config(car, o.config);
-  const Circuit t = lay_out(o.track, air);
+  const Circuit t = in.lay_out(o.track, air);
   const Car configured = car.configured(ci);
   LapRun r = run_lap(configured, t);
   // The data's verdict; a poor one is a warning with the lap's own.
@@ -501,6 +542,11 @@ int run(const RunOptions& o) {
   std::cout << out;
   return 0;
 }
+}  // namespace
+
+int run(const RunOptions& o) {
+  return located(&run, o);
+}
 
 namespace {
 std::vector<std::size_t> pick_configs(const Car& car, const std::vector<std::string>& names) {
@@ -520,14 +566,13 @@ double parse_fraction_option(const std::string& text, const char* option, Range 
   auto v = option_value(text, option, Quantity::fraction, r);
   return *v;
 }
-}  // namespace
 
-int compare(const CompareOptions& o) {
+int compare(const CompareOptions& o, Inputs& in) {
   const AirOverride air = parse_air(o.air);
-  Car car = load_car(o.car);
+  Car car = in.car(o.car);
   apply_model(o.model, car);
   const std::vector<std::size_t> configs = pick_configs(car, o.configs);
-  const std::vector<Circuit> circuits = lay_out_all(o.tracks, air);
+  const std::vector<Circuit> circuits = in.lay_out_all(o.tracks, air);
   const Comparison c = lapwing::compare(car, configs, circuits, o.threads);
   const std::string out = compare_table(car, c, circuits);
   if (!o.out.empty()) {
@@ -567,20 +612,21 @@ int compare(const CompareOptions& o) {
   return 0;
 }
 
-int trade(const TradeOptions& o) {
+int trade(const TradeOptions& o, Inputs& in) {
   const AirOverride air = parse_air(o.air);
   lapwing::TradeOptions options;
-  options.step = parse_fraction_option(o.step, "--step", Range{0.0, 0.5, true, false});
-  options.grid_span = parse_fraction_option(o.span, "--span", Range{0.0, 0.9, true, false});
+  options.step = parse_fraction_option(o.step, "--step", lapwing::TradeOptions::step_range);
+  options.grid_span =
+      parse_fraction_option(o.span, "--span", lapwing::TradeOptions::grid_span_range);
   options.grid_points = o.grid;
-  Car car = load_car(o.car);
+  Car car = in.car(o.car);
   apply_model(o.model, car);
   std::vector<std::size_t> configs;
   if (o.config.empty())
     for (std::size_t i = 0; i < car.configs.size(); ++i) configs.push_back(i);
   else
     configs.push_back(pick_config(car, o.config));
-  const std::vector<Circuit> circuits = lay_out_all(o.tracks, air);
+  const std::vector<Circuit> circuits = in.lay_out_all(o.tracks, air);
   const Trade t = lapwing::trade(car, configs, circuits, options, o.threads);
   const std::string out = trade_table(car, t, circuits);
   if (!o.out.empty()) {
@@ -595,6 +641,15 @@ int trade(const TradeOptions& o) {
   }
   std::cout << out;
   return 0;
+}
+}  // namespace
+
+int compare(const CompareOptions& o) {
+  return located(&compare, o);
+}
+
+int trade(const TradeOptions& o) {
+  return located(&trade, o);
 }
 
 }  // namespace lapwing::cli
@@ -621,7 +676,8 @@ int track_from_log(const FromLogOptions& o) {
   l.closed = o.closed;
   l.name = o.name;
   if (o.smoothing != "auto")
-    l.smoothing_m = *option_value(o.smoothing, "--smoothing", Quantity::length, Range{1.0, 1000.0});
+    l.smoothing_m =
+        *option_value(o.smoothing, "--smoothing", Quantity::length, LogOptions::smoothing_range);
   l.air = apply(AirSpec{}, parse_air(o.air));
   const std::string csv_name = out.stem().string() + ".csv";
   const LogTrack t = lapwing::track_from_log(l, csv_name);
@@ -651,7 +707,8 @@ int track_from_log(const FromLogOptions& o) {
   return 0;
 }
 
-int track_line(const TrackLineOptions& o) {
+namespace {
+int track_line(const TrackLineOptions& o, Inputs& in) {
   const std::filesystem::path out(o.out);
   if (out.extension() != ".yaml") throw UsageError{"--out must name a .yaml track file"};
   if (o.method != "min-curvature" && o.method != "min-time")
@@ -661,12 +718,12 @@ int track_line(const TrackLineOptions& o) {
     throw UsageError{"--method min-time needs --car: the minimum-time line depends on the car"};
   if (!o.config.empty() && o.car.empty()) throw UsageError{"--config needs --car"};
   const AirOverride air = parse_air(o.air);
-  const Track track = load_track(o.track);
+  const Track track = in.track(o.track);
   LineSpec spec = track.line.value_or(LineSpec{});
-  if (const auto w =
-          option_value(o.vehicle_width, "--vehicle-width", Quantity::length, Range{0.5, 5.0}))
+  if (const auto w = option_value(o.vehicle_width, "--vehicle-width", Quantity::length,
+                                  LineSpec::vehicle_width_range))
     spec.vehicle_width_m = *w;
-  if (const auto m = option_value(o.margin, "--margin", Quantity::length, Range{0.0, 5.0}))
+  if (const auto m = option_value(o.margin, "--margin", Quantity::length, LineSpec::margin_range))
     spec.margin_m = *m;
   spec.method = min_time ? LineSpec::Method::min_time : LineSpec::Method::min_curvature;
   const AirSpec air_spec = apply(track.air, air);
@@ -676,31 +733,28 @@ int track_line(const TrackLineOptions& o) {
   described.line.reset();
   described.line_path.reset();
   std::optional<Car> car;
-  if (!o.car.empty()) car = load_car(o.car);
+  if (!o.car.empty()) car = in.car(o.car);
   const std::size_t ci = car ? pick_config(*car, o.config) : 0;
   std::optional<Car> configured;
   if (car) configured = car->configured(ci);
 
+  // A track without widths, or too narrow for the vehicle and its margins: an InvalidInput of
+  // the track's "line" key (at the line: key, else the file as a whole).
   PathProfile line;
   std::optional<double> centerline_lap, min_curvature_lap, line_lap;
   int passes = 0;
-  try {
-    if (min_time) {
-      const MinTimeLine m = min_time_line(described, a, *configured, spec);
-      line = m.line;
-      min_curvature_lap = m.min_curvature_lap_s;
-      line_lap = m.lap_s;
-      passes = m.passes;
-    } else {
-      const LineReference ref = line_reference(described);
-      lapwing::LineOptions lo;
-      lo.vehicle_width_m = spec.vehicle_width_m;
-      lo.margin_m = spec.margin_m;
-      line = line_profile(ref, min_curvature_line(ref, lo));
-    }
-  } catch (const LineError& e) {
-    throw InputError(track.file, track.line ? track.line_mark : track.segments_mark, e.what(),
-                     track.line ? e.key_path() : std::string());
+  if (min_time) {
+    const MinTimeLine m = min_time_line(described, a, *configured, spec);
+    line = m.line;
+    min_curvature_lap = m.min_curvature_lap_s;
+    line_lap = m.lap_s;
+    passes = m.passes;
+  } else {
+    const LineReference ref = line_reference(described);
+    lapwing::LineOptions lo;
+    lo.vehicle_width_m = spec.vehicle_width_m;
+    lo.margin_m = spec.margin_m;
+    line = line_profile(ref, min_curvature_line(ref, lo));
   }
   Track lined = described;
   lined.line_path = line;
@@ -742,6 +796,11 @@ int track_line(const TrackLineOptions& o) {
   }
   std::cout << text;
   return 0;
+}
+}  // namespace
+
+int track_line(const TrackLineOptions& o) {
+  return located(&track_line, o);
 }
 
 }  // namespace lapwing::cli

@@ -13,6 +13,7 @@
 #include "lapwing/base/error.hpp"
 #include "lapwing/base/version.hpp"
 #include "lapwing/io/document.hpp"
+#include "lapwing/study/trade.hpp"
 
 namespace {
 
@@ -144,7 +145,8 @@ int main(int argc, char** argv) {
   trade->add_option("--step", trade_o.step,
                     "Relative step of the central differences (default 2 %)");
   trade->add_option("--grid", trade_o.grid, "Points per axis of the ClA x CdA grid (default 9)")
-      ->check(CLI::Range(3, 41));
+      ->check(CLI::Range(lapwing::TradeOptions::min_grid_points,
+                         lapwing::TradeOptions::max_grid_points));
   trade->add_option("--span", trade_o.span,
                     "Half-width of the grid around the config (default 15 %)");
   trade->add_option("--out", trade_o.out,
@@ -227,6 +229,10 @@ int main(int argc, char** argv) {
     std::cerr << "lapwing: error: " << e.message << "\n";
     return 2;
   } catch (const InputError& e) {
+    std::cerr << e.what() << "\n";
+    return 2;
+  } catch (const InvalidInput& e) {
+    // Bad input of no file the command loaded (the commands map the others to their place).
     std::cerr << e.what() << "\n";
     return 2;
   } catch (const OutputError& e) {

@@ -150,4 +150,11 @@ void require_no_duplicates(const CsvTable& t, const std::vector<std::string>& co
   }
 }
 
+InputError row_error(const CsvTable& t, const InvalidInput& e) {
+  // The data row "COLUMN[i]" the violation points at is the table's row i.
+  const std::optional<std::size_t> i = last_index(e.violation().where());
+  const Mark mark = i && *i < t.lines.size() ? Mark{t.lines[*i], 1} : Mark{};
+  return InputError(t.file, mark, e.message());
+}
+
 }  // namespace lapwing

@@ -138,13 +138,6 @@ class TreeBuilder : public YAML::EventHandler {
   bool done_ = false;
 };
 
-std::string format_number(double v) {
-  std::ostringstream os;
-  os.precision(12);
-  os << v;
-  return os.str();
-}
-
 }  // namespace
 
 Document parse_document(const std::string& text, const std::string& file) {
@@ -175,32 +168,6 @@ Document load_document(const std::string& file) {
   std::ostringstream ss;
   ss << in.rdbuf();
   return parse_document(ss.str(), file);
-}
-
-bool Range::contains(double v) const {
-  if (lo_open ? !(v > lo) : !(v >= lo)) return false;
-  if (hi_open ? !(v < hi) : !(v <= hi)) return false;
-  return true;
-}
-
-std::string Range::describe() const {
-  const bool has_lo = lo > -1e307, has_hi = hi < 1e307;
-  if (has_lo && has_hi)
-    return std::string(lo_open ? "(" : "[") + format_number(lo) + ", " + format_number(hi) +
-           (hi_open ? ")" : "]");
-  if (has_lo) return std::string(lo_open ? "> " : ">= ") + format_number(lo);
-  if (has_hi) return std::string(hi_open ? "< " : "<= ") + format_number(hi);
-  return "any finite number";
-}
-
-Range positive() {
-  return Range{0.0, 1e308, true, false};
-}
-Range non_negative() {
-  return Range{0.0, 1e308, false, false};
-}
-Range open_unit() {
-  return Range{0.0, 1.0, true, true};
 }
 
 std::size_t edit_distance(std::string_view a, std::string_view b) {
@@ -267,7 +234,8 @@ const Node& Reader::require(std::string_view key) {
   fail(*node_, "missing key '" + std::string(key) + "'", key);
 }
 
-double Reader::node_quantity(const Node& n, Quantity q, Range r, const std::string& path) const {
+double Reader::node_quantity(const Node& n, Quantity q, const std::string& path,
+                             std::optional<Range> r) const {
   if (n.kind != Node::Kind::scalar)
     throw InputError(doc_->file, n.mark,
                      "expected a " + std::string(quantity_name(q)) + ", got a " +
@@ -276,10 +244,10 @@ double Reader::node_quantity(const Node& n, Quantity q, Range r, const std::stri
   std::string err;
   auto v = parse_quantity(n.scalar, q, err);
   if (!v) throw InputError(doc_->file, n.mark, err, path);
-  if (!r.contains(*v))
+  if (r && !r->contains(*v))
     throw InputError(
         doc_->file, n.mark,
-        "value " + n.scalar + " is out of range: must be " + r.describe() +
+        "value " + n.scalar + " is out of range: must be " + r->describe() +
             (q == Quantity::number || q == Quantity::fraction ? std::string() : " in SI units"),
         path);
   return *v;
@@ -291,19 +259,20 @@ std::string Reader::node_string(const Node& n, const std::string& path) const {
   return n.scalar;
 }
 
-double Reader::quantity(std::string_view key, Quantity q, Range r) {
-  return node_quantity(require(key), q, r, child_path(key));
+double Reader::quantity(std::string_view key, Quantity q, std::optional<Range> r) {
+  return node_quantity(require(key), q, child_path(key), r);
 }
 
-double Reader::quantity_or(std::string_view key, Quantity q, Range r, double fallback) {
-  auto v = optional_quantity(key, q, r);
+double Reader::quantity_or(std::string_view key, Quantity q, double fallback) {
+  auto v = optional_quantity(key, q);
   return v ? *v : fallback;
 }
 
-std::optional<double> Reader::optional_quantity(std::string_view key, Quantity q, Range r) {
+std::optional<double> Reader::optional_quantity(std::string_view key, Quantity q,
+                                                std::optional<Range> r) {
   const Node* n = get(key);
   if (!n) return std::nullopt;
-  return node_quantity(*n, q, r, child_path(key));
+  return node_quantity(*n, q, child_path(key), r);
 }
 
 std::string Reader::string(std::string_view key) {
@@ -326,7 +295,7 @@ bool Reader::boolean_or(std::string_view key, bool fallback) {
 
 int Reader::integer(std::string_view key, int lo, int hi) {
   const Node& n = require(key);
-  double v = node_quantity(n, Quantity::number, Range{double(lo), double(hi)}, child_path(key));
+  double v = node_quantity(n, Quantity::number, child_path(key), Range{double(lo), double(hi)});
   if (v != std::floor(v)) fail(n, "expected a whole number, got " + n.scalar, key);
   return static_cast<int>(v);
 }
@@ -345,13 +314,13 @@ std::string Reader::choice(std::string_view key, const std::vector<std::string>&
        key);
 }
 
-std::vector<double> Reader::quantities(std::string_view key, Quantity q, Range r) {
+std::vector<double> Reader::quantities(std::string_view key, Quantity q, std::optional<Range> r) {
   const Node& n = require(key);
   if (n.kind != Node::Kind::sequence) fail(n, "expected a list", key);
   std::vector<double> out;
   out.reserve(n.items.size());
   for (std::size_t i = 0; i < n.items.size(); ++i)
-    out.push_back(node_quantity(n.items[i], q, r, child_path(key) + "[" + std::to_string(i) + "]"));
+    out.push_back(node_quantity(n.items[i], q, child_path(key) + "[" + std::to_string(i) + "]", r));
   return out;
 }
 

@@ -5,6 +5,7 @@
 #include <algorithm>
 #include <cmath>
 #include <stdexcept>
+#include <string>
 
 namespace lapwing {
 
@@ -97,6 +98,164 @@ PartsReduction reduce_parts(const std::vector<AeroPart>& parts, double v, double
   }
   return {drag / q, down / q, down != 0.0 ? front / down : 0.5,
           drag != 0.0 ? drag_moment / drag : 0.0};
+}
+
+namespace {
+
+// The ranges of a config's coefficients (README, the car file).
+constexpr Range cda_range{0.0, 20.0}, cla_range{0.0, 30.0}, balance_range{0.0, 1.0};
+
+std::string index_path(const std::string& key, std::size_t i) {
+  return key + "[" + std::to_string(i) + "]";
+}
+
+}  // namespace
+
+std::optional<Violation> RideHeightMap::validate_axes() const {
+  FirstViolation f;
+  const Range height{-0.5, 1.0};
+  f.each("ride_height_map.front", front_m, height, Quantity::length)
+      .each("ride_height_map.rear", rear_m, height, Quantity::length);
+  for (const auto& [key, axis] :
+       {std::pair<std::string, const std::vector<double>*>{"ride_height_map.front", &front_m},
+        {"ride_height_map.rear", &rear_m}})
+    f.rule(axis->size() >= 2, key, "a map needs at least 2 points per axis")
+        .order(key, *axis, true);
+  return f.result();
+}
+
+std::optional<Violation> RideHeightMap::validate() const {
+  FirstViolation f;
+  f.part("", [&] { return validate_axes(); });
+  struct Grid {
+    const char* key;
+    const Eigen::MatrixXd& m;
+    Range range;
+  };
+  for (const Grid& g : {Grid{"ride_height_map.cda", cda_m2, cda_range},
+                        Grid{"ride_height_map.cla", cla_m2, cla_range},
+                        Grid{"ride_height_map.balance", balance, balance_range}}) {
+    const auto rows = static_cast<std::size_t>(g.m.rows()),
+               cols = static_cast<std::size_t>(g.m.cols());
+    f.rule(rows == front_m.size(), g.key, [&] {
+       return "rows differ from front: expected " + std::to_string(front_m.size()) + ", got " +
+              std::to_string(rows);
+     }).rule(cols == rear_m.size(), g.key, [&] {
+      return "columns differ from rear: expected " + std::to_string(rear_m.size()) + ", got " +
+             std::to_string(cols);
+    });
+    for (std::size_t i = 0; i < rows && !f.found(); ++i)
+      for (std::size_t j = 0; j < cols && !f.found(); ++j)
+        f.range(index_path(index_path(g.key, i), j),
+                g.m(static_cast<Eigen::Index>(i), static_cast<Eigen::Index>(j)), g.range,
+                Quantity::number);
+  }
+  const Range at_rest{0.0, 1.0, true, false}, stiffness{0.0, 1e9, true, false};
+  return f.range("static_ride_height.front", static_front_m, at_rest, Quantity::length)
+      .range("static_ride_height.rear", static_rear_m, at_rest, Quantity::length)
+      .range("heave_stiffness.front", stiffness_front_npm, stiffness, Quantity::stiffness)
+      .range("heave_stiffness.rear", stiffness_rear_npm, stiffness, Quantity::stiffness)
+      .result();
+}
+
+std::optional<Violation> PartsTable::validate() const {
+  FirstViolation f;
+  f.range("speed", speed_mps, Range{0.0, 200.0, true, false}, Quantity::speed)
+      .range("density", density_kg_m3, Range{0.5, 1.5}, Quantity::number)
+      .rule(!parts.empty(), "parts", "a parts table needs at least one part");
+  for (std::size_t i = 0; i < parts.size() && !f.found(); ++i) {
+    const AeroPart& p = parts[i];
+    const std::string at = index_path("parts", i);
+    f.range(at + ".drag", p.drag_n, non_negative(), Quantity::force)
+        .range(at + ".downforce", p.downforce_n, Range{-1e6, 1e6}, Quantity::force)
+        .range(at + ".x", p.x_m, Range{-5.0, 15.0}, Quantity::length)
+        .range(at + ".z", p.z_m, Range{0.0, 3.0}, Quantity::length);
+  }
+  double down = 0.0;
+  for (const auto& p : parts) down += p.downforce_n;
+  return f
+      .rule(down > 0.0, "parts",
+            [&] {
+              return "the parts' downforce sums to " + std::to_string(down) +
+                     " N: net lift is not modelled";
+            })
+      .result();
+}
+
+std::optional<Violation> AeroConfig::validate() const {
+  FirstViolation f;
+  const bool one_row =
+      speed_mps.empty() && cda_m2.size() == 1 && cla_m2.size() == 1 && balance.size() == 1;
+  switch (form) {
+    case Form::constant:
+      f.rule(one_row, "", "a constant config has one value each of cda, cla and balance");
+      if (!f.found())
+        f.range("cda", cda_m2[0], cda_range, Quantity::area)
+            .range("cla", cla_m2[0], cla_range, Quantity::area)
+            .range("balance", balance[0], balance_range, Quantity::fraction);
+      break;
+    case Form::speed_table: {
+      const std::string speed = "speed_table.speed";
+      const std::size_t n = speed_mps.size();
+      f.each(speed, speed_mps, non_negative(), Quantity::speed)
+          .rule(n >= 2, speed, "a table needs at least 2 rows")
+          .order(speed, speed_mps, true);
+      struct Column {
+        const char* key;
+        const std::vector<double>& v;
+        Range range;
+        Quantity q;
+      };
+      for (const Column& c :
+           {Column{"speed_table.cda", cda_m2, cda_range, Quantity::area},
+            Column{"speed_table.cla", cla_m2, cla_range, Quantity::area},
+            Column{"speed_table.balance", balance, balance_range, Quantity::fraction}})
+        f.each(c.key, c.v, c.range, c.q).rule(c.v.size() == n, c.key, [&] {
+          return "size differs from speed: expected " + std::to_string(n) + ", got " +
+                 std::to_string(c.v.size());
+        });
+      break;
+    }
+    case Form::forces:
+      // The parts' own rules are PartsTable's; these are the coefficients they reduce to.
+      f.rule(one_row, "", "a config from forces has one value each of cda, cla and balance");
+      if (!f.found())
+        f.rule(balance_range.contains(balance[0]), "forces.parts",
+               [&] {
+                 return "the parts put " + std::to_string(100 * balance[0]) +
+                        " % of the downforce on the front axle: outside 0..100 %";
+               })
+            .rule(cla_range.contains(cla_m2[0]) && cda_range.contains(cda_m2[0]), "forces.parts",
+                  [&] {
+                    return "the parts give CdA " + std::to_string(cda_m2[0]) + " m2, ClA " +
+                           std::to_string(cla_m2[0]) + " m2: beyond the ranges of a config";
+                  });
+      break;
+    case Form::ride_height_map:
+      f.rule(map.has_value(), "ride_height_map", "a ride-height map config needs its map")
+          .part("", [&] { return map->validate(); })
+          .rule(one_row, "", "a map config has one value each of cda, cla and balance (at rest)");
+      break;
+  }
+  if (trim) {
+    const StraightTrim& t = *trim;
+    f.range("straight_trim.cda", t.dcda_m2, Range{-20.0, 20.0}, Quantity::area)
+        .range("straight_trim.cla", t.dcla_m2, Range{-30.0, 30.0}, Quantity::area)
+        .range("straight_trim.balance", t.dbalance, Range{-1.0, 1.0}, Quantity::number)
+        .range("straight_trim.below_curvature", t.below_curvature_1pm, Range{0.0, 1.0, true, false},
+               Quantity::number);
+    // Rows known now are checked now; a map's are checked where its ride heights are solved
+    // (the Envelope).
+    for (std::size_t k = 0; k < cda_m2.size() && !map && !f.found(); ++k) {
+      const double cda = cda_m2[k] + t.dcda_m2, cla = cla_m2[k] + t.dcla_m2,
+                   bal = balance[k] + t.dbalance;
+      f.rule(cda >= 0.0 && cla >= 0.0 && bal >= 0.0 && bal <= 1.0, "straight_trim", [&] {
+        return "straight_trim takes CdA, ClA or balance out of range (CdA " + std::to_string(cda) +
+               " m2, ClA " + std::to_string(cla) + " m2, balance " + std::to_string(bal) + ")";
+      });
+    }
+  }
+  return f.result();
 }
 
 std::string_view form_name(AeroConfig::Form f) {

@@ -3,6 +3,7 @@
 #include <cassert>
 #include <cmath>
 
+#include "lapwing/base/error.hpp"
 #include "lapwing/base/units.hpp"
 
 namespace lapwing {
@@ -31,7 +32,18 @@ double moist_air_density(double pressure_pa, double temperature_k, double relati
   return (pressure_pa - 0.378 * e) / (atmosphere::dry_air_gas_constant * temperature_k);
 }
 
+std::optional<Violation> AirSpec::validate() const {
+  FirstViolation f;
+  f.range("altitude", altitude_m, altitude_range, Quantity::length);
+  if (temperature_k)
+    f.range("ambient.temperature", *temperature_k, temperature_range, Quantity::temperature);
+  if (pressure_pa) f.range("ambient.pressure", *pressure_pa, pressure_range, Quantity::pressure);
+  return f.range("ambient.humidity", relative_humidity, humidity_range, Quantity::fraction)
+      .result();
+}
+
 Air make_air(const AirSpec& spec) {
+  require_valid(spec.validate(), "air");
   const StandardAtmosphere isa = standard_atmosphere(spec.altitude_m);
   Air a;
   a.altitude_m = spec.altitude_m;

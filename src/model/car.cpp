@@ -1,6 +1,75 @@
 #include "lapwing/model/car.hpp"
 
+#include <algorithm>
+#include <cctype>
+
 namespace lapwing {
+
+namespace {
+
+// The ranges of the car-level values (README, the car file), which a config may override.
+constexpr Range mass_range{0.0, 1e5, true, false};
+constexpr Range inertia_range{0.0, 1.0, false, true};
+
+}  // namespace
+
+bool is_config_name(std::string_view name) {
+  return !name.empty() && std::all_of(name.begin(), name.end(), [](unsigned char c) {
+    return std::isalnum(c) || c == '_' || c == '-';
+  });
+}
+
+std::string Car::subject() const {
+  return file.empty() ? "car '" + name + "'" : file;
+}
+
+std::optional<Violation> Car::validate_without_configs() const {
+  return FirstViolation()
+      .range("mass", mass_kg, mass_range, Quantity::mass)
+      .range("inertia_factor", inertia_factor, inertia_range, Quantity::number)
+      .range("wheelbase", wheelbase_m, Range{0.5, 10.0}, Quantity::length)
+      .range("cg_height", cg_height_m, positive(), Quantity::length)
+      .rule(cg_height_m < wheelbase_m, "cg_height", "cg_height must be below the wheelbase")
+      .range("front_weight", front_weight, open_unit(), Quantity::fraction)
+      .part("tyres", [&] { return tyres.validate(); })
+      .part("powertrain", [&] { return powertrain.validate(); })
+      .range("brakes.front_bias", brake_front_bias, open_unit(), Quantity::fraction)
+      .range("aero.drag_height", drag_height_m, non_negative(), Quantity::length)
+      .result();
+}
+
+std::optional<Violation> Car::validate_config(std::size_t index) const {
+  const AeroConfig& a = configs.at(index);
+  const std::string at = "aero.configs." + a.name;
+  FirstViolation f;
+  f.rule(is_config_name(a.name), at,
+         "config name '" + a.name + "' must use letters, digits, '_' or '-' only");
+  for (std::size_t i = 0; i < index; ++i)
+    f.rule(configs[i].name != a.name, at, "config name '" + a.name + "' is given twice");
+  f.part(at, [&] { return a.validate(); });
+  auto optional_range = [&](const char* key, const std::optional<double>& v, const Range& r,
+                            Quantity q) {
+    if (v) f.range(at + "." + key, *v, r, q);
+  };
+  optional_range("mass", a.mass_kg, mass_range, Quantity::mass);
+  optional_range("inertia_factor", a.inertia_factor, inertia_range, Quantity::number);
+  optional_range("cg_height", a.cg_height_m, positive(), Quantity::length);
+  optional_range("front_weight", a.front_weight, open_unit(), Quantity::fraction);
+  optional_range("drag_height", a.drag_height_m, non_negative(), Quantity::length);
+  return f
+      .rule(!a.cg_height_m || *a.cg_height_m < wheelbase_m, at + ".cg_height",
+            "cg_height must be below the wheelbase")
+      .result();
+}
+
+std::optional<Violation> Car::validate() const {
+  if (auto v = validate_without_configs()) return v;
+  for (std::size_t i = 0; i < configs.size(); ++i)
+    if (auto v = validate_config(i)) return v;
+  return FirstViolation()
+      .rule(!configs.empty(), "aero.configs", "at least one aero config is needed")
+      .result();
+}
 
 int Car::config_index(const std::string& n) const {
   for (std::size_t i = 0; i < configs.size(); ++i)

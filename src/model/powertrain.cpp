@@ -2,8 +2,40 @@
 
 #include <algorithm>
 #include <cassert>
+#include <string>
 
 namespace lapwing {
+
+std::optional<Violation> Powertrain::validate() const {
+  FirstViolation f;
+  if (ideal) {
+    f.range("constant_power", constant_power_w, positive(), Quantity::power);
+  } else {
+    const std::string rpm = "torque_curve.rpm", torque = "torque_curve.torque";
+    const std::size_t n = engine_radps.size();
+    f.each(rpm, engine_radps, positive(), Quantity::engine_speed)
+        .each(torque, torque_nm, non_negative(), Quantity::torque)
+        .rule(n >= 2, rpm, "a curve needs at least 2 points")
+        .rule(torque_nm.size() == n, torque,
+              [&] {
+                return "size differs from rpm: expected " + std::to_string(n) + ", got " +
+                       std::to_string(torque_nm.size());
+              })
+        .order(rpm, engine_radps, true)
+        .range("rev_limit", rev_limit_radps, positive(), Quantity::engine_speed)
+        // Up to the curve's last point, which a rev limit read in rpm may exceed by rounding.
+        .rule(n < 2 || (rev_limit_radps > engine_radps.front() &&
+                        rev_limit_radps <= engine_radps.back() * (1 + 1e-12)),
+              "rev_limit", "rev_limit must lie above the curve's first rpm and not beyond its last")
+        .each("gears", gears, positive(), Quantity::number)
+        .rule(!gears.empty(), "gears", "at least one gear is needed")
+        .order("gears", gears, false)
+        .range("final_drive", final_drive, positive(), Quantity::number)
+        .range("shift_time", shift_time_s, Range{0.0, 2.0}, Quantity::time);
+  }
+  return f.range("efficiency", efficiency, Range{0.0, 1.0, true, false}, Quantity::fraction)
+      .result();
+}
 
 double engine_torque_nm(const Powertrain& p, double w) {
   assert(!p.ideal);

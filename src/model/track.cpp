@@ -1,5 +1,8 @@
 #include "lapwing/model/track.hpp"
 
+#include <cmath>
+#include <string>
+
 namespace lapwing {
 
 double Track::length_m() const {
@@ -10,12 +13,152 @@ double Track::length_m() const {
   return l;
 }
 
+std::string Track::subject() const {
+  return file.empty() ? "track '" + name + "'" : file;
+}
+
 bool Track::has_widths() const {
   if (profile) return !profile->width_left_m.empty();
   if (segments.empty()) return false;
   for (const auto& s : segments)
-    if (s.width_m <= 0.0 && width_m <= 0.0) return false;
+    if (!s.width_m && !width_m) return false;
   return true;
+}
+
+const char* Track::path_key() const {
+  if (!profile) return "segments";
+  return profile->source == PathProfile::Source::centerline ? "centerline" : "curvature";
+}
+
+std::optional<Violation> Segment::validate() const {
+  FirstViolation f;
+  const double k0 = curvature_start_1pm, k1 = curvature_end_1pm;
+  // An arc's radius and angle come back from its curvature and length with the rounding of
+  // R angle and 1 / R: the upper bounds allow 1e-12 of it, so that a file's 100 km radius or
+  // two whole turns pass.
+  auto derived = [](Range r) {
+    r.hi *= 1 + 1e-12;
+    return r;
+  };
+  switch (kind) {
+    case Kind::straight:
+      f.rule(k0 == 0.0 && k1 == 0.0, "straight", "a straight has no curvature")
+          .range("straight.length", length_m, length_range, Quantity::length)
+          .range("straight.grade", grade, grade_range, Quantity::fraction);
+      break;
+    case Kind::arc:
+      f.rule(k0 == k1 && k0 != 0.0, "arc", "an arc has one curvature, and not zero");
+      if (!f.found())
+        f.range("arc.radius", 1.0 / std::abs(k0), derived(radius_range), Quantity::length)
+            .range("arc.angle", length_m * std::abs(k0), derived(angle_range), Quantity::angle);
+      f.range("arc.grade", grade, grade_range, Quantity::fraction);
+      if (width_m) f.range("arc.width", *width_m, width_range, Quantity::length);
+      break;
+    case Kind::clothoid:
+      f.range("clothoid.length", length_m, length_range, Quantity::length)
+          .rule(k0 != 0.0 || k1 != 0.0, "clothoid",
+                "a clothoid needs from_radius, to_radius or both (a missing one is straight)");
+      if (k0 != 0.0)
+        f.range("clothoid.from_radius", 1.0 / std::abs(k0), derived(radius_range),
+                Quantity::length);
+      if (k1 != 0.0)
+        f.range("clothoid.to_radius", 1.0 / std::abs(k1), derived(radius_range), Quantity::length);
+      f.rule(!(k0 * k1 < 0.0), "clothoid", "a clothoid turns one way: its curvatures have one sign")
+          .range("clothoid.grade", grade, grade_range, Quantity::fraction);
+      if (width_m) f.range("clothoid.width", *width_m, width_range, Quantity::length);
+      break;
+  }
+  return f.result();
+}
+
+std::optional<Violation> PathProfile::validate() const {
+  FirstViolation f;
+  const std::size_t n = s_m.size();
+  f.rule(n >= 2, "s_m", "a path profile needs at least 2 points");
+  for (const auto& [key, column] :
+       {std::pair<const char*, const std::vector<double>*>{"curvature_1pm", &curvature_1pm},
+        {"grade", &grade},
+        {"x_m", &x_m},
+        {"y_m", &y_m},
+        {"elevation_m", &elevation_m}})
+    f.rule(column->size() == n, key, [&, column = column] {
+      return "size differs from s_m: expected " + std::to_string(n) + ", got " +
+             std::to_string(column->size());
+    });
+  f.rule(n == 0 || s_m.front() == 0.0, "s_m", "a path profile starts at distance 0")
+      .order("s_m", s_m, true);
+  // Widths: both or neither, one per sample, every one > 0 (the distance to an edge).
+  f.rule(width_left_m.size() == width_right_m.size(), "width_right_m",
+         "give both widths (width_left_m and width_right_m) or neither");
+  if (!width_left_m.empty())
+    f.rule(width_left_m.size() == n, "width_left_m",
+           [&] {
+             return "size differs from s_m: expected " + std::to_string(n) + ", got " +
+                    std::to_string(width_left_m.size());
+           })
+        .each("width_left_m", width_left_m, positive(), Quantity::length)
+        .each("width_right_m", width_right_m, positive(), Quantity::length);
+  return f.result();
+}
+
+std::optional<Violation> LineSpec::validate() const {
+  return FirstViolation()
+      .rule(method == Method::min_curvature, "method",
+            "the min-time line depends on the car: make it with 'lapwing track line --method "
+            "min-time --car CAR' and lap the track that writes")
+      .range("vehicle_width", vehicle_width_m, vehicle_width_range, Quantity::length)
+      .range("margin", margin_m, margin_range, Quantity::length)
+      .result();
+}
+
+std::optional<Violation> Track::validate() const {
+  FirstViolation f;
+  f.rule(!closed || start_speed_mps == 0.0, "start_speed",
+         "start_speed applies to open tracks only (closed: false)")
+      .range("start_speed", start_speed_mps, start_speed_range, Quantity::speed)
+      .part("", [&] { return air.validate(); })
+      .range("mesh", mesh_m, mesh_range, Quantity::length)
+      .rule(segments.empty() == profile.has_value(), "",
+            "give exactly one of segments, centerline, curvature");
+  if (profile) {
+    f.part(path_key(), [&] { return profile->validate(); });
+  } else {
+    for (std::size_t i = 0; i < segments.size() && !f.found(); ++i)
+      f.part("segments[" + std::to_string(i) + "]", [&] { return segments[i].validate(); });
+  }
+  if (width_m)
+    f.rule(!segments.empty(), "width",
+           "width applies to segment tracks; a centerline gives its widths as the columns "
+           "width_left_m,width_right_m of its CSV")
+        .range("width", *width_m, Segment::width_range, Quantity::length);
+  if (line) f.part("line", [&] { return line->validate(); });
+  if (f.found()) return f.result();
+  // Sector starts are along the described path (a line moves them where it passes them).
+  double length = 0.0;
+  if (profile)
+    length = profile->s_m.back();
+  else
+    for (const auto& s : segments) length += s.length_m;
+  f.rule(length / mesh_m <= max_mesh_points, "",
+         [&] {
+           return "the track is " + std::to_string(length) + " m long: at a mesh of " +
+                  std::to_string(mesh_m) + " m that is more than 20 million points";
+         })
+      .each("sectors", sectors_m, non_negative(), Quantity::length)
+      .rule(!sectors_m.empty() && sectors_m.front() == 0.0, "sectors", "sectors must start at 0 m");
+  for (std::size_t i = 1; i < sectors_m.size() && !f.found(); ++i) {
+    const std::string at = "sectors[" + std::to_string(i) + "]";
+    f.rule(sectors_m[i] > sectors_m[i - 1], "sectors", "sector starts must be strictly increasing",
+           at)
+        .rule(
+            sectors_m[i] < length, "sectors",
+            [&] {
+              return "sector start lies beyond the track's length (" + std::to_string(length) +
+                     " m)";
+            },
+            at);
+  }
+  return f.result();
 }
 
 }  // namespace lapwing

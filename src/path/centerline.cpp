@@ -3,7 +3,11 @@
 #include <algorithm>
 #include <cassert>
 #include <cmath>
+#include <string>
 
+#include "lapwing/base/error.hpp"
+#include "lapwing/base/format.hpp"
+#include "lapwing/path/geodesy.hpp"
 #include "lapwing/path/smoothing.hpp"
 
 namespace lapwing {
@@ -47,9 +51,9 @@ double rms(const std::vector<double>& a, const std::vector<double>& b) {
 
 // The points' polyline (closed: with the chord from the last point back to the first):
 // cumulative chord length at each point.
-std::vector<double> chord_lengths(const CenterlinePoints& p) {
+std::vector<double> chord_lengths(const CenterlinePoints& p, bool closed) {
   const std::size_t m = p.x_m.size();
-  std::vector<double> c(m + (p.closed ? 1 : 0), 0.0);
+  std::vector<double> c(m + (closed ? 1 : 0), 0.0);
   for (std::size_t i = 1; i < c.size(); ++i) {
     const std::size_t a = i - 1, b = i % m;
     c[i] = c[i - 1] + std::hypot(p.x_m[b] - p.x_m[a], p.y_m[b] - p.y_m[a]);
@@ -69,10 +73,10 @@ struct Samples {
   std::vector<double> x, y, z, wl, wr;
   std::size_t size() const { return x.size(); }
 };
-Samples resample(const CenterlinePoints& p, const std::vector<double>& c, std::size_t n) {
+Samples resample(const CenterlinePoints& p, bool closed, const std::vector<double>& c,
+                 std::size_t n) {
   const std::size_t m = p.x_m.size();
   const double total = c.back();
-  const bool closed = p.closed;
   // Tangents (dx/dc, dy/dc) at each point.
   std::vector<double> tx(m), ty(m);
   for (std::size_t i = 0; i < m; ++i) {
@@ -122,18 +126,82 @@ double centerline_fit_spacing(double smoothing_m, double finest_m) {
   return std::max(finest_m, smoothing_m / 40.0);
 }
 
-PathProfile fit_centerline(std::shared_ptr<const CenterlinePoints> points,
-                           const CenterlineFitOptions& o) {
-  assert(points && points->x_m.size() >= 3 && points->y_m.size() == points->x_m.size());
+std::optional<Violation> CenterlineOptions::validate() const {
+  FirstViolation f;
+  if (smoothing_m) f.range("smoothing", *smoothing_m, positive(), Quantity::length);
+  return f.range("elevation_smoothing", elevation_smoothing_m, positive(), Quantity::length)
+      .range("spacing", spacing_m, Range{0.01, 100.0}, Quantity::length)
+      .result();
+}
+
+CenterlinePoints project_wgs84(std::string source, const std::vector<double>& lat,
+                               const std::vector<double>& lon, const std::vector<double>& alt) {
+  CenterlinePoints p;
+  p.source = std::move(source);
+  const bool has_alt = !alt.empty();
+  for (std::size_t i = 0; i < lat.size(); ++i) {
+    if (std::abs(lat[i]) > 90.0 || std::abs(lon[i]) > 180.0)
+      throw InvalidInput(p.source, broken_rule("", "latitude or longitude out of range",
+                                               "lat_deg[" + std::to_string(i) + "]"));
+    const double h = has_alt ? alt[i] : 0.0;
+    const auto enu =
+        wgs84::to_enu(wgs84::to_ecef(lat[i], lon[i], h), lat[0], lon[0], has_alt ? alt[0] : 0.0);
+    p.x_m.push_back(enu[0]);
+    p.y_m.push_back(enu[1]);
+    if (has_alt) p.z_m.push_back(enu[2]);
+  }
+  return p;
+}
+
+PathProfile fit_centerline(const CenterlinePoints& points, bool closed,
+                           const CenterlineOptions& o) {
+  return fit_centerline(std::make_shared<const CenterlinePoints>(points), closed, o);
+}
+
+PathProfile fit_centerline(std::shared_ptr<const CenterlinePoints> given, bool closed,
+                           const CenterlineOptions& o) {
+  assert(given);
+  require_valid(o.validate(), "centerline options");
+  {
+    const CenterlinePoints& g = *given;
+    const std::size_t n = g.x_m.size();
+    FirstViolation f;
+    f.rule(n >= 10, "x_m", "a centerline needs at least 10 points")
+        .rule(g.y_m.size() == n && (g.z_m.empty() || g.z_m.size() == n), "y_m",
+              "x_m, y_m (and z_m) differ in length")
+        .rule(g.width_left_m.size() == g.width_right_m.size() &&
+                  (g.width_left_m.empty() || g.width_left_m.size() == n),
+              "width_left_m", "give both widths (width_left_m and width_right_m) for every point");
+    // A width is the distance from the centerline to that edge: > 0.
+    for (const auto* w : {&g.width_left_m, &g.width_right_m}) {
+      const std::string name = w == &g.width_left_m ? "width_left_m" : "width_right_m";
+      for (std::size_t i = 0; i < w->size() && !f.found(); ++i)
+        f.rule((*w)[i] > 0.0, name,
+               name + " " + format_number((*w)[i]) +
+                   " m is not a width: the distance from the centerline to the edge must be > 0",
+               name + "[" + std::to_string(i) + "]");
+    }
+    require_valid(f.result(), g.source);
+  }
+  // A closed centerline may repeat its first point at the end: drop it.
+  std::shared_ptr<const CenterlinePoints> points = given;
+  if (closed && std::hypot(given->x_m.back() - given->x_m.front(),
+                           given->y_m.back() - given->y_m.front()) < 1e-6) {
+    auto trimmed = std::make_shared<CenterlinePoints>(*given);
+    for (auto* v : {&trimmed->x_m, &trimmed->y_m, &trimmed->z_m, &trimmed->width_left_m,
+                    &trimmed->width_right_m})
+      if (!v->empty()) v->pop_back();
+    points = std::move(trimmed);
+  }
   const CenterlinePoints& pts = *points;
-  const bool closed = pts.closed;
   const std::size_t m = pts.x_m.size();
   PathProfile p;
   p.source = PathProfile::Source::centerline;
+  p.data_file = pts.source;
   p.elevation_smoothing_m = o.elevation_smoothing_m;
   {
     // The data as given, for the closure check (mesh.cpp): the gap from the last point to the
-    // first, which the closed fit bridges with a chord, against the median point spacing.
+    // first, which the closed fit bridges, against the median point spacing.
     std::vector<double> chords(m - 1);
     for (std::size_t i = 1; i < m; ++i)
       chords[i - 1] = std::hypot(pts.x_m[i] - pts.x_m[i - 1], pts.y_m[i] - pts.y_m[i - 1]);
@@ -142,9 +210,24 @@ PathProfile fit_centerline(std::shared_ptr<const CenterlinePoints> points,
     p.point_spacing_m = chords[chords.size() / 2];
     p.data_closure_gap_m =
         std::hypot(pts.x_m.back() - pts.x_m.front(), pts.y_m.back() - pts.y_m.front());
+    p.last_point_index = m - 1;
   }
-  const std::vector<double> c = chord_lengths(pts);
+  const std::vector<double> c = chord_lengths(pts, closed);
   const double total = c.back();
+  if (total > PathProfile::max_length_m) {
+    // Name the widest gap between points: a stray point is the usual cause.
+    std::size_t worst = 1;
+    for (std::size_t i = 1; i < c.size(); ++i)
+      if (c[i] - c[i - 1] > c[worst] - c[worst - 1]) worst = i;
+    const std::size_t row = std::min(worst, m - 1);
+    throw InvalidInput(
+        pts.source,
+        broken_rule("",
+                    "the centerline is " + std::to_string(total / 1000.0) +
+                        " km long (at most 200 km); this point is " +
+                        std::to_string(c[worst] - c[worst - 1]) + " m from the one before",
+                    "x_m[" + std::to_string(row) + "]"));
+  }
   auto samples_at = [&](double step) {
     return std::max<std::size_t>(10, static_cast<std::size_t>(std::llround(total / step)));
   };
@@ -180,7 +263,7 @@ PathProfile fit_centerline(std::shared_ptr<const CenterlinePoints> points,
   p.smoothing_m = length;
 
   const Samples r = resample(
-      pts, c,
+      pts, closed, c,
       samples_at(o.fixed_spacing ? o.spacing_m : centerline_fit_spacing(length, o.spacing_m)));
   const double h = r.h;
   p.sample_spacing_m = h;
@@ -239,19 +322,17 @@ PathProfile fit_centerline(std::shared_ptr<const CenterlinePoints> points,
   return p;
 }
 
-PathProfile refit_centerline(const PathProfile& profile, double factor) {
+PathProfile refit_centerline(const PathProfile& profile, bool closed, double factor) {
   assert(profile.points && profile.source == PathProfile::Source::centerline);
-  CenterlineFitOptions o;
+  CenterlineOptions o;
   o.smoothing_m = profile.smoothing_m * factor;
   o.elevation_smoothing_m = profile.elevation_smoothing_m;
   // The same samples as the fit itself, so that only the strength differs.
   o.spacing_m = profile.sample_spacing_m;
   o.fixed_spacing = true;
-  PathProfile p = fit_centerline(profile.points, o);
-  p.data_file = profile.data_file;
+  PathProfile p = fit_centerline(profile.points, closed, o);
   p.notes = profile.notes;
   p.geodetic = profile.geodetic;
-  p.last_point_line = profile.last_point_line;
   return p;
 }
 

@@ -2,11 +2,26 @@
 
 #include <cmath>
 
+#include "lapwing/base/error.hpp"
 #include "lapwing/base/units.hpp"
 
 namespace lapwing {
 
+std::optional<Violation> CornerOptions::validate() const {
+  return FirstViolation()
+      .range("enter_curvature_1pm", enter_curvature_1pm, positive(), true)
+      .range("exit_curvature_1pm", exit_curvature_1pm, positive(), true)
+      .rule(exit_curvature_1pm <= enter_curvature_1pm, "exit_curvature_1pm",
+            "exit_curvature_1pm must not exceed enter_curvature_1pm (a corner ends at a larger "
+            "radius than it starts at)")
+      .range("merge_gap_m", merge_gap_m, non_negative(), true)
+      .range("min_length_m", min_length_m, non_negative(), true)
+      .range("min_turn_deg", min_turn_deg, non_negative(), false)
+      .result();
+}
+
 std::vector<CornerSpan> find_corners(const Mesh& mesh, const CornerOptions& o) {
+  require_valid(o.validate(), "corner options");
   std::vector<CornerSpan> raw;
   const std::size_t n = mesh.size();
   bool in = false;

@@ -6,7 +6,9 @@
 #include <cmath>
 #include <limits>
 #include <sstream>
+#include <string>
 
+#include "lapwing/base/error.hpp"
 #include "lapwing/base/interpolate.hpp"
 #include "lapwing/base/units.hpp"
 
@@ -50,7 +52,7 @@ class Walker {
             curvature(u_),
             z_,
             g.grade,
-            g.width_m > 0.0 ? g.width_m : track_.width_m};
+            g.width_m.value_or(track_.width_m.value_or(0.0))};
   }
 
  private:
@@ -172,13 +174,6 @@ double closure_position_tolerance_m(const Track& track) {
 
 namespace {
 
-// The track's own key for its path, which closure errors name.
-const char* path_key(const Track& track) {
-  if (track.line_path) return "line";
-  if (!track.profile) return "segments";
-  return track.profile->source == PathProfile::Source::centerline ? "centerline" : "curvature";
-}
-
 // A closed track must close: the error states the gap and the tolerance, at the path's key.
 void check_closure(const Track& track) {
   const Closure c = closure(track);
@@ -188,7 +183,9 @@ void check_closure(const Track& track) {
   if (!position_bad && !heading_bad) return;
   std::ostringstream os;
   os.precision(4);
+  Violation v;
   const PathProfile* lapped = lapped_profile(track);
+  v.field = track.line_path ? "line" : track.path_key();
   if (!lapped) {
     os << "closed track does not close: the end is " << c.position_gap_m << " m from the start"
        << " and its heading differs by " << c.heading_gap_rad / units::deg << " deg (tolerance "
@@ -197,11 +194,14 @@ void check_closure(const Track& track) {
   } else if (position_bad) {
     // Only a centerline's position is checked: the fit closes its loop itself (periodic), so
     // the data's gap is what can fail.
+    // The sentence names the last point where it says {point}: a loader, by its file and line.
     const PathProfile& p = *lapped;
-    os << "closed centerline does not close: its last point (" << p.data_file << " line "
-       << p.last_point_line << ") is " << c.position_gap_m << " m from its first (tolerance max("
-       << closure_spacings << " x the point spacing of " << p.point_spacing_m << " m, "
-       << closure_position_fraction * 100 << " % of the length) = " << position_tolerance
+    v.point = v.field + ".points[" + std::to_string(p.last_point_index) + "]";
+    v.point_text = "data point " + std::to_string(p.last_point_index + 1) + " of " + p.data_file;
+    os << "closed centerline does not close: its last point ({point}) is " << c.position_gap_m
+       << " m from its first (tolerance max(" << closure_spacings << " x the point spacing of "
+       << p.point_spacing_m << " m, " << closure_position_fraction * 100
+       << " % of the length) = " << position_tolerance
        << " m); add the missing points, or set closed: false";
   } else {
     os << "closed "
@@ -212,12 +212,17 @@ void check_closure(const Track& track) {
        << " deg from a whole number of turns (tolerance " << closure_heading_deg
        << " deg); its end is " << c.position_gap_m << " m from its start";
   }
-  throw InputError(track.file, track.segments_mark, os.str(), path_key(track));
+  v.rule = os.str();
+  throw InvalidInput(track.subject(), std::move(v));
 }
 
 }  // namespace
 
 Mesh build_mesh(const Track& track, double step_m) {
+  require_valid(track.validate(), track.subject());
+  require_valid(
+      FirstViolation().range("step_m", step_m, Track::mesh_range, Quantity::length).result(),
+      "mesh step");
   const double length = track.length_m();
   if (track.closed) check_closure(track);
   const std::size_t n =

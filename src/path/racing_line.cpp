@@ -7,6 +7,7 @@
 #include <cmath>
 #include <cstdio>
 
+#include "lapwing/base/error.hpp"
 #include "lapwing/path/box_qp.hpp"
 
 namespace lapwing {
@@ -111,21 +112,25 @@ std::vector<double> discrete_curvature(const std::vector<double>& x, const std::
 
 LineReference line_reference(const Track& track, double spacing_m) {
   if (track.profile && track.profile->source == PathProfile::Source::curvature)
-    throw LineError(
-        "a racing line needs the track's edges; a curvature profile has none (it is already a "
-        "driven line): give a centerline with width_left_m,width_right_m instead",
-        "line");
+    throw InvalidInput(
+        track.subject(),
+        broken_rule("line",
+                    "a racing line needs the track's edges; a curvature profile has none (it is "
+                    "already a driven line): give a centerline with width_left_m,width_right_m "
+                    "instead"));
   if (!track.has_widths())
-    throw LineError(track.profile
-                        ? "a racing line needs the track's widths: the centerline's CSV has no "
-                          "width_left_m,width_right_m columns"
-                        : "a racing line needs the track's widths: give width at track level or "
-                          "on every segment",
-                    "line");
+    throw InvalidInput(
+        track.subject(),
+        broken_rule("line", track.profile
+                                ? "a racing line needs the track's widths: the centerline's CSV "
+                                  "has no width_left_m,width_right_m columns"
+                                : "a racing line needs the track's widths: give width at track "
+                                  "level or on every segment"));
   Track described = track;
   described.line_path.reset();
   const Mesh m = build_mesh(described, spacing_m);
   LineReference r;
+  r.subject = track.subject();
   r.closed = m.closed;
   r.spacing_m = m.step_m;
   const std::size_t n = m.closed ? m.size() - 1 : m.size();
@@ -157,11 +162,13 @@ RacingLine min_curvature_line(const LineReference& ref, const LineOptions& o,
     line.lower_m[i] = -(ref.width_right_m[i] - keep);
     line.upper_m[i] = ref.width_left_m[i] - keep;
     if (line.lower_m[i] > line.upper_m[i])
-      throw LineError("the track is " + metres(ref.width_left_m[i] + ref.width_right_m[i], 2) +
-                          " m wide at " + metres(ref.s_m[i], 1) + " m, less than the vehicle's " +
-                          metres(o.vehicle_width_m, 2) + " m and a margin of " +
-                          metres(o.margin_m, 2) + " m each side",
-                      "line");
+      throw InvalidInput(
+          ref.subject,
+          broken_rule("line", "the track is " +
+                                  metres(ref.width_left_m[i] + ref.width_right_m[i], 2) +
+                                  " m wide at " + metres(ref.s_m[i], 1) +
+                                  " m, less than the vehicle's " + metres(o.vehicle_width_m, 2) +
+                                  " m and a margin of " + metres(o.margin_m, 2) + " m each side"));
   }
   const std::vector<double> w = o.weights.empty() ? std::vector<double>(n, 1.0) : o.weights;
   std::vector<double> alpha(n);

@@ -16,6 +16,14 @@
 
 namespace lapwing {
 
+std::optional<Violation> EnvelopeOptions::validate() const {
+  return FirstViolation()
+      .range("speed_points", static_cast<double>(speed_points), Range{2.0, 1e7}, false)
+      .range("table_margin", table_margin, Range{1.0, 1e308, true, false}, false)
+      .range("speed_ceiling_mps", speed_ceiling_mps, positive(), true)
+      .result();
+}
+
 const char* top_speed_limit_name(TopSpeedLimit l) {
   switch (l) {
     case TopSpeedLimit::drag:
@@ -38,10 +46,13 @@ AeroPoint map_point(const Car& car, const AeroConfig& a, double v, double rho, d
   try {
     pt = solve_ride_heights(*a.map, v, rho, car.drag_height_m, car.wheelbase_m, hf, hr);
   } catch (const std::runtime_error& e) {
-    throw InputError(a.file, a.mark,
-                     std::string(e.what()) + " at " + std::to_string(v / units::kph) +
-                         " km/h (config " + a.name + ")",
-                     "aero.configs." + a.name + ".ride_height_map");
+    // The car's error, at the config (its key path; a loader adds the position).
+    const std::string config = "aero.configs." + a.name;
+    throw InvalidInput(car.subject(),
+                       broken_rule(config + ".ride_height_map",
+                                   std::string(e.what()) + " at " + std::to_string(v / units::kph) +
+                                       " km/h (config " + a.name + ")",
+                                   config));
   }
   hf = pt.front_ride_m;
   hr = pt.rear_ride_m;
@@ -80,6 +91,9 @@ double level_top_speed_bound(const Car& car, double rho, double step, double cei
 }  // namespace
 
 Envelope::Envelope(const Car& car, const Air& air, EnvelopeOptions options)
+    : Envelope((require_valid(car.validate(), car.subject()), Unchecked{}), car, air, options) {}
+
+Envelope::Envelope(Unchecked, const Car& car, const Air& air, EnvelopeOptions options)
     : car_(car),
       tyres_(car.tyres),
       mass_(car.mass_kg),
@@ -89,8 +103,11 @@ Envelope::Envelope(const Car& car, const Air& air, EnvelopeOptions options)
       rho_(air.density_kg_m3),
       table_margin_(options.table_margin) {
   assert(car.configs.size() == 1 && "Envelope takes a configured car");
-  assert(options.speed_points >= 2);
-  assert(options.table_margin > 1.0 && options.speed_ceiling_mps > 0.0);
+  require_valid(FirstViolation()
+                    .range("density_kg_m3", air.density_kg_m3, positive(), Quantity::number)
+                    .result(),
+                "air");
+  require_valid(options.validate(), "envelope options");
   const Powertrain& p = car.powertrain;
   const AeroConfig& a = car.configs.front();
   const double r = car.tyres.rolling_radius_m;
@@ -149,12 +166,13 @@ Envelope::Envelope(const Car& car, const Air& air, EnvelopeOptions options)
       const double cda = c.cda_m2 + t.dcda_m2, cla = c.cla_m2 + t.dcla_m2,
                    bal = c.balance + t.dbalance;
       if (cda < 0.0 || cla < 0.0 || bal < 0.0 || bal > 1.0)
-        throw InputError(a.file, a.mark,
-                         "straight_trim takes CdA, ClA or balance out of range at " +
-                             std::to_string(v / units::kph) + " km/h (CdA " + std::to_string(cda) +
-                             ", ClA " + std::to_string(cla) + ", balance " + std::to_string(bal) +
-                             ")",
-                         "aero.configs." + a.name + ".straight_trim");
+        throw InvalidInput(car.subject(),
+                           broken_rule("aero.configs." + a.name + ".straight_trim",
+                                       "straight_trim takes CdA, ClA or balance out of range at " +
+                                           std::to_string(v / units::kph) + " km/h (CdA " +
+                                           std::to_string(cda) + ", ClA " + std::to_string(cla) +
+                                           ", balance " + std::to_string(bal) + ")",
+                                       "aero.configs." + a.name));
       trim_rows_[k] = {d.force_n, 0.5 * rho_ * cda, 0.5 * rho_ * cla, bal};
     }
   }

@@ -1,11 +1,28 @@
 #include "lapwing/study/circuit.hpp"
 
 #include <cstdio>
+#include <string>
 
 #include "lapwing/base/error.hpp"
 #include "lapwing/base/units.hpp"
 
 namespace lapwing {
+
+std::optional<Violation> configs_violation(const Car& car,
+                                           const std::vector<std::size_t>& configs) {
+  FirstViolation f;
+  f.rule(!configs.empty(), "configs", "at least one config is needed");
+  for (std::size_t k = 0; k < configs.size(); ++k) {
+    f.rule(configs[k] < car.configs.size(), "configs", [&] {
+      return "config index " + std::to_string(configs[k]) + " is not one of the car's (it has " +
+             std::to_string(car.configs.size()) + ")";
+    });
+    for (std::size_t j = 0; j < k; ++j)
+      f.rule(configs[j] != configs[k], "configs",
+             [&] { return "config index " + std::to_string(configs[k]) + " is given twice"; });
+  }
+  return f.result();
+}
 
 Circuit lay_out(const Track& track, const Air& air) {
   Circuit c{track, build_mesh(track, track.mesh_m), air, {}};
@@ -21,7 +38,7 @@ void check_start_speed(const Circuit& c, const Lap& lap) {
     std::snprintf(buf, sizeof buf,
                   "start_speed %.1f km/h is more than the car can hold at the start (%.1f km/h)",
                   c.track.start_speed_mps / units::kph, lap.steady.speed_mps.front() / units::kph);
-    throw InputError(c.track.file, c.track.start_speed_mark, buf, "start_speed");
+    throw InvalidInput(c.track.subject(), broken_rule("start_speed", buf));
   }
 }
 }  // namespace

@@ -1,5 +1,6 @@
 #include "lapwing/study/compare.hpp"
 
+#include "lapwing/base/error.hpp"
 #include "lapwing/study/thread_pool.hpp"
 
 namespace lapwing {
@@ -66,6 +67,8 @@ std::vector<double> delta_trace(const Lap& a, const Lap& b) {
 
 Comparison compare(const Car& car, const std::vector<std::size_t>& configs,
                    const std::vector<Circuit>& circuits, unsigned threads) {
+  require_valid(car.validate(), car.subject());
+  require_valid(configs_violation(car, configs), "compare");
   const std::size_t nc = configs.size(), nt = circuits.size();
   std::vector<LapRun> runs(nc * nt);
   std::vector<Car> cars;

@@ -50,15 +50,12 @@ SmoothingVariants smoothing_variants(const Circuit& c) {
   auto variant = [&](double f, const char* name) -> std::optional<Circuit> {
     try {
       Track t = c.track;
-      t.profile = refit_centerline(*p, f);
+      t.profile = refit_centerline(*p, t.closed, f);
       if (t.line) lay_racing_line(t);
       return lay_out(t, c.air);
-    } catch (const InputError& e) {
+    } catch (const InvalidInput& e) {
       v.notes.push_back(std::string("the centerline at ") + name + " strength (" +
                         fixed(p->smoothing_m * f, 1) + " m) cannot be laid out: " + e.message());
-    } catch (const LineError& e) {
-      v.notes.push_back(std::string("the centerline at ") + name + " strength (" +
-                        fixed(p->smoothing_m * f, 1) + " m) has no line: " + e.what());
     }
     return std::nullopt;
   };
@@ -101,7 +98,7 @@ TrackQuality assess_track(const Circuit& c, const SmoothingVariants& v, const Ca
     if (!variant) return std::nullopt;
     try {
       return run_lap(car, *variant).summary.lap_time_s;
-    } catch (const InputError& e) {
+    } catch (const InvalidInput& e) {
       q.notes.push_back(std::string("the centerline at ") + name + " strength (" +
                         fixed(length, 1) + " m) cannot be solved with config " + config + ": " +
                         e.message());

@@ -4,6 +4,7 @@
 #include <cassert>
 #include <cmath>
 
+#include "lapwing/base/error.hpp"
 #include "lapwing/solve/envelope.hpp"
 #include "lapwing/study/thread_pool.hpp"
 
@@ -77,8 +78,19 @@ Car varied(const Car& car, Knob knob, double r) {
   return scaled(car, knob, 1.0 + r);
 }
 
+std::optional<Violation> TradeOptions::validate() const {
+  return FirstViolation()
+      .range("step", step, step_range, Quantity::fraction)
+      .range("grid_points", grid_points, Range{min_grid_points, max_grid_points}, false)
+      .range("grid_span", grid_span, grid_span_range, Quantity::fraction)
+      .result();
+}
+
 Trade trade(const Car& car, const std::vector<std::size_t>& configs,
             const std::vector<Circuit>& circuits, const TradeOptions& o, unsigned threads) {
+  require_valid(o.validate(), "trade options");
+  require_valid(car.validate(), car.subject());
+  require_valid(configs_violation(car, configs), "trade");
   const std::size_t nt = circuits.size(), ncfg = car.configs.size();
   // Jobs: per track, every config's own lap (for attributions), then per traded config the
   // eight perturbed laps, then the grid around the first traded config.
@@ -109,7 +121,8 @@ Trade trade(const Car& car, const std::vector<std::size_t>& configs,
   std::vector<AeroOperatingPoint> ops(jobs.size(), AeroOperatingPoint{0.0, 0.0});
   parallel_for(jobs.size(), threads, [&](std::size_t k, LapSolver& solver) {
     // The lap time alone (no channels), and for a config's own lap its operating point.
-    const Envelope env(jobs[k].car, circuits[jobs[k].track].air);
+    // The base car is valid (checked above); its variations may leave the files' ranges.
+    const Envelope env(Envelope::Unchecked{}, jobs[k].car, circuits[jobs[k].track].air);
     const Lap& lap = solve_speed_only(env, circuits[jobs[k].track], solver);
     if (jobs[k].own) ops[k] = operating_point(env, lap);
     times[k] = lap.lap_time_s;

@@ -1,6 +1,11 @@
 // Car files: the bundled ones load; values come out in SI.
 #include <doctest/doctest.h>
 
+#include <fstream>
+#include <iterator>
+#include <optional>
+
+#include "lapwing/base/error.hpp"
 #include "lapwing/base/units.hpp"
 #include "lapwing/io/car_file.hpp"
 #include "test_support.hpp"
@@ -26,4 +31,59 @@ TEST_CASE("the bundled formula car loads in SI units") {
 TEST_CASE("a power curve becomes torque = power / engine speed") {
   const Car c = load_car(test::source_path("cars/caldra-gt.yaml"));
   CHECK(near(c.powertrain.torque_nm[3], 460e3 / (7500 * units::rpm), 1e-12));
+}
+
+namespace {
+// The input error a car file gives.
+InputError file_error(const std::string& relative) {
+  try {
+    read_car_file(test::source_path(relative));
+  } catch (const InputError& e) {
+    return e;
+  }
+  FAIL("no error");
+  return InputError("", Mark{}, "");
+}
+}  // namespace
+
+TEST_CASE("a file's value that breaks a rule is the library's violation, placed in the file") {
+  // The same rule on the same car built in code: the same words and key path, without the place.
+  const InputError from_file = file_error("tests/data/bad/car-cg-above-wheelbase.yaml");
+  CHECK(from_file.mark().line == 6);
+  CHECK(from_file.mark().col == 12);
+  Car car = load_car(test::source_path("cars/pellion-fr2.yaml"));
+  car.cg_height_m = 3.1;
+  const std::optional<Violation> v = car.validate();
+  REQUIRE(v);
+  CHECK(v->message() == from_file.message());
+  CHECK(v->field == from_file.key_path());
+  // A range: the same rule and key path; the file shows the value as written ("-640 kg"), the
+  // library its SI value.
+  const InputError mass = file_error("tests/data/bad/car-negative-mass.yaml");
+  car = load_car(test::source_path("cars/pellion-fr2.yaml"));
+  car.mass_kg = -640.0;
+  CHECK(mass.message() == "value -640 kg is out of range: must be (0, 100000] in SI units");
+  CHECK(car.validate()->message() == "value -640 is out of range: must be (0, 100000] in SI units");
+  CHECK(car.validate()->field == mass.key_path());
+}
+
+TEST_CASE("a power curve's rule on torque is reported at its power, as written") {
+  std::ifstream in(test::source_path("cars/caldra-gt.yaml"));
+  std::string text((std::istreambuf_iterator<char>(in)), std::istreambuf_iterator<char>());
+  const std::size_t at = text.find("power: [");
+  REQUIRE(at != std::string::npos);
+  // The curve's second power made negative.
+  const std::size_t first = text.find(',', at);
+  text.insert(first + 2, "-");
+  const std::string path = "car_file_test_power.yaml";
+  std::ofstream(path) << text;
+  try {
+    read_car_file(path);
+    FAIL("expected an InputError");
+  } catch (const InputError& e) {
+    CHECK(e.key_path() == "powertrain.power_curve.power[1]");
+    CHECK(e.message().rfind("value -", 0) == 0);
+    CHECK(e.message().find(" is out of range: must be >= 0 in SI units") != std::string::npos);
+  }
+  std::remove(path.c_str());
 }

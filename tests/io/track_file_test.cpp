@@ -5,8 +5,11 @@
 
 #include "lapwing/base/error.hpp"
 #include "lapwing/base/units.hpp"
+#include "lapwing/io/source_map.hpp"
+#include "lapwing/io/track_file.hpp"
 #include "lapwing/model/track.hpp"
 #include "lapwing/path/mesh.hpp"
+#include "lapwing/study/circuit.hpp"
 #include "test_support.hpp"
 
 using namespace lapwing;
@@ -63,6 +66,7 @@ TEST_CASE("widths: at track level, per segment; a line: key makes the line what 
   const Track plain = load_track(path);
   CHECK(plain.width_m == 12.0);
   CHECK(plain.segments[1].width_m == 14.0);
+  CHECK_FALSE(plain.segments[0].width_m);
   CHECK(plain.has_widths());
   CHECK_FALSE(plain.line_path);
   const Mesh m = build_mesh(plain, 1.0);
@@ -109,4 +113,26 @@ TEST_CASE("a centerline's smoothing is auto unless a length is given") {
     if (length_given) CHECK(t.profile->smoothing_m == 25.0);
   }
   std::remove(path.c_str());
+}
+
+TEST_CASE("a closure error found when the track is laid out names the data file's line") {
+  // The mesh names the centerline's last point by its index; the track file's source map turns
+  // it into the CSV's file and line, and the error into the track file's place of `centerline`.
+  const std::string file = test::source_path("tests/data/bad/track-centerline-gap.yaml");
+  const TrackFile t = read_track_file(file);
+  SourceMaps maps;
+  maps.add(t.sources);
+  try {
+    lay_out(t.track, make_air(t.track.air));
+    FAIL("expected an InvalidInput");
+  } catch (const InvalidInput& e) {
+    CHECK(e.message().find("its last point (data point ") != std::string::npos);
+    const InputError placed = maps.error(e);
+    CHECK(placed.file() == file);
+    CHECK(placed.mark().line == 5);
+    CHECK(placed.key_path() == "centerline");
+    CHECK(placed.message().find("its last point (" +
+                                test::source_path("tests/data/bad/track-centerline-gap.csv") +
+                                " line 254) is 955.3 m from its first") != std::string::npos);
+  }
 }

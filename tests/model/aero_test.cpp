@@ -218,3 +218,124 @@ TEST_CASE("straight-line trim: less drag on straights is faster on a fast lap, a
   }
   CHECK(trimmed > mesh.size() / 4);
 }
+
+namespace {
+// A 2 x 2 ride-height map in range.
+RideHeightMap small_map() {
+  RideHeightMap m;
+  m.front_m = {0.0, 0.1};
+  m.rear_m = {0.0, 0.2};
+  m.cda_m2 = Eigen::MatrixXd::Constant(2, 2, 1.2);
+  m.cla_m2 = Eigen::MatrixXd::Constant(2, 2, 3.5);
+  m.balance = Eigen::MatrixXd::Constant(2, 2, 0.42);
+  m.static_front_m = 0.03;
+  m.static_rear_m = 0.06;
+  m.stiffness_front_npm = 4e5;
+  m.stiffness_rear_npm = 4.5e5;
+  return m;
+}
+}  // namespace
+
+TEST_CASE("a ride-height map names its first bad axis, grid or spring (README, the car file)") {
+  CHECK(test::describe(small_map().validate()) == "none");
+  struct Case {
+    void (*spoil)(RideHeightMap&);
+    const char* want;
+  };
+  const Case cases[] = {
+      {[](RideHeightMap& m) { m.front_m[1] = 1.5; },
+       "ride_height_map.front[1]: value 1.5 is out of range: must be [-0.5, 1] in SI units"},
+      {[](RideHeightMap& m) { m.rear_m = {0.1}; },
+       "ride_height_map.rear: a map needs at least 2 points per axis"},
+      {[](RideHeightMap& m) {
+         m.front_m = {0.1, 0.0};
+       },
+       "ride_height_map.front: values must be strictly increasing (item 1: 0 after 0.1)"},
+      {[](RideHeightMap& m) { m.cla_m2 = Eigen::MatrixXd::Constant(3, 2, 3.5); },
+       "ride_height_map.cla: rows differ from front: expected 2, got 3"},
+      {[](RideHeightMap& m) { m.balance = Eigen::MatrixXd::Constant(2, 1, 0.4); },
+       "ride_height_map.balance: columns differ from rear: expected 2, got 1"},
+      {[](RideHeightMap& m) { m.cda_m2(1, 0) = 25.0; },
+       "ride_height_map.cda[1][0]: value 25 is out of range: must be [0, 20]"},
+      {[](RideHeightMap& m) { m.static_rear_m = 0.0; },
+       "static_ride_height.rear: value 0 is out of range: must be (0, 1] in SI units"},
+      {[](RideHeightMap& m) { m.stiffness_front_npm = -4e5; },
+       "heave_stiffness.front: value -400000 is out of range: must be (0, 1000000000] in SI "
+       "units"},
+  };
+  for (const Case& c : cases) {
+    RideHeightMap m = small_map();
+    c.spoil(m);
+    CHECK(test::describe(m.validate()) == c.want);
+  }
+}
+
+TEST_CASE("a parts table names a bad part value, then net lift") {
+  PartsTable t{50.0, 1.225, {{"front wing", 250.0, 1700.0, -0.65, 0.15}}};
+  CHECK(test::describe(t.validate()) == "none");
+  t.parts.push_back({"floor", 1000.0, 2700.0, 1.9, 3.5});
+  CHECK(test::describe(t.validate()) ==
+        "parts[1].z: value 3.5 is out of range: must be [0, 3] in SI units");
+  t.parts[1].z_m = 0.35;
+  t.parts[1].downforce_n = -5000.0;  // more lift than the wing's downforce
+  CHECK(test::describe(t.validate()) ==
+        "parts: the parts' downforce sums to -3300.000000 N: net lift is not modelled");
+  t.speed_mps = 0.0;
+  CHECK(test::describe(t.validate()) ==
+        "speed: value 0 is out of range: must be (0, 200] in SI units");
+}
+
+TEST_CASE("an aero config names its first bad value by the key of its form") {
+  AeroConfig c;
+  c.name = "x";
+  c.cda_m2 = {1.2};
+  c.cla_m2 = {3.5};
+  c.balance = {0.42};
+  CHECK(test::describe(c.validate()) == "none");
+  c.cla_m2 = {31.0};
+  CHECK(test::describe(c.validate()) ==
+        "cla: value 31 is out of range: must be [0, 30] in SI units");
+  // A speed table: rows checked against the speeds.
+  AeroConfig t = c;
+  t.form = AeroConfig::Form::speed_table;
+  t.speed_mps = {20.0, 40.0, 60.0};
+  t.cda_m2 = {1.2, 1.2, 1.2};
+  t.cla_m2 = {3.5, 3.5};
+  t.balance = {0.42, 0.42, 0.42};
+  CHECK(test::describe(t.validate()) ==
+        "speed_table.cla: size differs from speed: expected 3, got 2");
+  t.cla_m2.push_back(3.5);
+  t.balance[2] = 1.2;
+  CHECK(test::describe(t.validate()) ==
+        "speed_table.balance[2]: value 1.2 is out of range: must be [0, 1]");
+  // Reduced from parts: the parts' words.
+  AeroConfig f = c;
+  f.form = AeroConfig::Form::forces;
+  f.cla_m2 = {3.5};
+  f.balance = {1.2};
+  CHECK(test::describe(f.validate()) ==
+        "forces.parts: the parts put 120.000000 % of the downforce on the front axle: outside "
+        "0..100 %");
+  // A map config: its map's rules.
+  AeroConfig m = c;
+  m.form = AeroConfig::Form::ride_height_map;
+  m.cla_m2 = {3.5};
+  m.map = small_map();
+  CHECK(test::describe(m.validate()) == "none");
+  m.map->static_front_m = 2.0;
+  CHECK(test::describe(m.validate()) ==
+        "static_ride_height.front: value 2 is out of range: must be (0, 1] in SI units");
+  // A straight-line trim: its own ranges, then the rows it makes.
+  AeroConfig s = c;
+  s.cla_m2 = {3.5};
+  s.trim = StraightTrim{-0.3, -0.4, 0.0, 0.002};
+  CHECK(test::describe(s.validate()) == "none");
+  s.trim->below_curvature_1pm = 0.0;
+  CHECK(test::describe(s.validate()) ==
+        "straight_trim.below_curvature: value 0 is out of range: must be (0, 1]");
+  s.trim->below_curvature_1pm = 0.002;
+  s.trim->dcda_m2 = -1.5;
+  CHECK(test::describe(s.validate()) ==
+        "straight_trim: straight_trim takes CdA, ClA or balance out of range (CdA -0.300000 m2, "
+        "ClA 3.100000 m2, balance 0.420000)");
+}

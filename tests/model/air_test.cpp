@@ -42,3 +42,27 @@ TEST_CASE("given values replace the standard ones; none given is the standard at
   CHECK(hot.pressure_pa == standard_atmosphere(320.0).pressure_pa);
   CHECK(hot.density_kg_m3 < standard.density_kg_m3);
 }
+
+TEST_CASE("air outside the troposphere's circuits is refused by name (README, the track file)") {
+  CHECK(test::describe(AirSpec{}.validate()) == "none");
+  AirSpec a;
+  a.altitude_m = 7000.0;
+  CHECK(test::describe(a.validate()) ==
+        "altitude: value 7000 is out of range: must be [-500, 6000] in SI units");
+  a.altitude_m = 0.0;
+  a.temperature_k = 200.0;
+  CHECK(test::describe(a.validate()) ==
+        "ambient.temperature: value 200 is out of range: must be [223.15, 343.15] in SI units");
+  a.temperature_k.reset();
+  a.relative_humidity = 1.5;
+  CHECK(test::describe(a.validate()) ==
+        "ambient.humidity: value 1.5 is out of range: must be [0, 1]");
+  // make_air takes no air it cannot stand for.
+  try {
+    make_air(a);
+    FAIL("expected an InvalidInput");
+  } catch (const InvalidInput& e) {
+    CHECK(std::string(e.what()) ==
+          "air: error: value 1.5 is out of range: must be [0, 1] (ambient.humidity)");
+  }
+}

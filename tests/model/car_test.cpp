@@ -17,3 +17,65 @@ TEST_CASE("a config's overrides replace the car-level values") {
   CHECK(k.configs.size() == 1);
   CHECK(c.configured(0).mass_kg == 640.0);
 }
+
+TEST_CASE("the bundled cars break no rule") {
+  for (const char* file : {"cars/pellion-fr2.yaml", "cars/caldra-gt.yaml"}) {
+    const Car c = load_car(test::source_path(file));
+    CHECK(test::describe(c.validate()) == "none");
+    for (std::size_t i = 0; i < c.configs.size(); ++i)
+      CHECK(test::describe(c.configured(i).validate()) == "none");
+  }
+}
+
+TEST_CASE("a car names its first bad value by its key path in a car file") {
+  const Car good = test::plain_car();
+  CHECK(test::describe(good.validate()) == "none");
+  struct Case {
+    void (*spoil)(Car&);
+    const char* want;
+  };
+  const Case cases[] = {
+      {[](Car& c) { c.mass_kg = -5.0; },
+       "mass: value -5 is out of range: must be (0, 100000] in SI units"},
+      {[](Car& c) { c.inertia_factor = 1.0; },
+       "inertia_factor: value 1 is out of range: must be [0, 1)"},
+      {[](Car& c) { c.wheelbase_m = 0.2; },
+       "wheelbase: value 0.2 is out of range: must be [0.5, 10] in SI units"},
+      {[](Car& c) { c.cg_height_m = 3.0; }, "cg_height: cg_height must be below the wheelbase"},
+      {[](Car& c) { c.front_weight = 1.0; },
+       "front_weight: value 1 is out of range: must be (0, 1)"},
+      {[](Car& c) { c.tyres.mu_lat = 3.5; },
+       "tyres.mu_lat: value 3.5 is out of range: must be (0, 3]"},
+      {[](Car& c) { c.powertrain.efficiency = 0.0; },
+       "powertrain.efficiency: value 0 is out of range: must be (0, 1]"},
+      {[](Car& c) { c.brake_front_bias = 0.0; },
+       "brakes.front_bias: value 0 is out of range: must be (0, 1)"},
+      {[](Car& c) { c.drag_height_m = -0.1; },
+       "aero.drag_height: value -0.1 is out of range: must be >= 0 in SI units"},
+      {[](Car& c) { c.configs.front().name = "high downforce"; },
+       "aero.configs.high downforce: config name 'high downforce' must use letters, digits, '_' "
+       "or '-' only"},
+      {[](Car& c) { c.configs.push_back(c.configs.front()); },
+       "aero.configs.none: config name 'none' is given twice"},
+      {[](Car& c) { c.configs.front().balance = {1.5}; },
+       "aero.configs.none.balance: value 1.5 is out of range: must be [0, 1]"},
+      {[](Car& c) { c.configs.front().mass_kg = 0.0; },
+       "aero.configs.none.mass: value 0 is out of range: must be (0, 100000] in SI units"},
+      {[](Car& c) { c.configs.front().cg_height_m = 2.8; },
+       "aero.configs.none.cg_height: cg_height must be below the wheelbase"},
+      {[](Car& c) { c.configs.clear(); }, "aero.configs: at least one aero config is needed"},
+  };
+  for (const Case& c : cases) {
+    Car car = good;
+    c.spoil(car);
+    CHECK(test::describe(car.validate()) == c.want);
+  }
+}
+
+TEST_CASE("a car built in code is named by its name; a loaded one by its file") {
+  Car c = test::plain_car();
+  c.file.clear();
+  CHECK(c.subject() == "car 'test car'");
+  c.file = "cars/x.yaml";
+  CHECK(c.subject() == "cars/x.yaml");
+}

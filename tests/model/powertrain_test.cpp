@@ -75,3 +75,56 @@ TEST_CASE("an ideal transmission gives F = eta P / v") {
   CHECK(near(best_drive(p, 0.3, 50.0).force_n, 0.95 * 300e3 / 50.0, 1e-12));
   CHECK(best_drive(p, 0.3, 50.0).gear == 0);
 }
+
+TEST_CASE("a powertrain names the first value that breaks a rule (README, the car file)") {
+  const Powertrain good = test::constant_force_car(600.0, 3000.0, 1.5).powertrain;
+  CHECK(test::describe(good.validate()) == "none");
+  struct Case {
+    void (*spoil)(Powertrain&);
+    const char* want;
+  };
+  const Case cases[] = {
+      {[](Powertrain& p) { p.engine_radps[0] = 0.0; },
+       "torque_curve.rpm[0]: value 0 is out of range: must be > 0 in SI units"},
+      {[](Powertrain& p) { p.torque_nm[1] = -1.0; },
+       "torque_curve.torque[1]: value -1 is out of range: must be >= 0 in SI units"},
+      {[](Powertrain& p) {
+         p.engine_radps = {300.0};
+         p.torque_nm = {100.0};
+       },
+       "torque_curve.rpm: a curve needs at least 2 points"},
+      {[](Powertrain& p) { p.torque_nm.push_back(100.0); },
+       "torque_curve.torque: size differs from rpm: expected 2, got 3"},
+      {[](Powertrain& p) {
+         p.engine_radps = {200.0, 100.0};
+         p.rev_limit_radps = 100.0;
+       },
+       "torque_curve.rpm: values must be strictly increasing (item 1: 100 after 200)"},
+      {[](Powertrain& p) { p.rev_limit_radps = 0.0; },
+       "rev_limit: value 0 is out of range: must be > 0 in SI units"},
+      {[](Powertrain& p) { p.rev_limit_radps = p.engine_radps.back() * 1.01; },
+       "rev_limit: rev_limit must lie above the curve's first rpm and not beyond its last"},
+      {[](Powertrain& p) { p.gears = {-1.0}; }, "gears[0]: value -1 is out of range: must be > 0"},
+      {[](Powertrain& p) { p.gears.clear(); }, "gears: at least one gear is needed"},
+      {[](Powertrain& p) {
+         p.gears = {2.0, 3.0};
+       },
+       "gears: values must be strictly decreasing (item 1: 3 after 2)"},
+      {[](Powertrain& p) { p.final_drive = 0.0; },
+       "final_drive: value 0 is out of range: must be > 0"},
+      {[](Powertrain& p) { p.shift_time_s = 3.0; },
+       "shift_time: value 3 is out of range: must be [0, 2] in SI units"},
+      {[](Powertrain& p) { p.efficiency = 1.5; },
+       "efficiency: value 1.5 is out of range: must be (0, 1]"},
+      {[](Powertrain& p) {
+         p.ideal = true;
+         p.constant_power_w = 0.0;
+       },
+       "constant_power: value 0 is out of range: must be > 0 in SI units"},
+  };
+  for (const Case& c : cases) {
+    Powertrain p = good;
+    c.spoil(p);
+    CHECK(test::describe(p.validate()) == c.want);
+  }
+}

@@ -48,3 +48,37 @@ TEST_CASE("the least axle load for a lateral force is the smaller root of mu(L/2
   const TyreModel t(Tyres{1.5, 1.7, 1600.0, 0.3, 2.0, 0.33, 0.0});
   CHECK(near(t.axle_load_for_lateral(9000.0), 9000.0 / (0.1 * 1.7), 1e-12));
 }
+
+TEST_CASE("tyres name the first value out of its range (README, the car file's tyres)") {
+  const Tyres good{1.5, 1.7, 1600.0, 0.08, 2.0, 0.33, 0.012};
+  CHECK(test::describe(good.validate()) == "none");
+  struct Case {
+    void (*spoil)(Tyres&);
+    const char* want;
+  };
+  const Case cases[] = {
+      {[](Tyres& t) { t.mu_long = 0.0; }, "mu_long: value 0 is out of range: must be (0, 3]"},
+      {[](Tyres& t) { t.mu_lat = std::nan(""); },
+       "mu_lat: value nan is out of range: must be (0, 3]"},
+      {[](Tyres& t) { t.nominal_load_n = -1.0; },
+       "nominal_load: value -1 is out of range: must be > 0 in SI units"},
+      {[](Tyres& t) { t.load_sensitivity = 1.0; },
+       "load_sensitivity: value 1 is out of range: must be [0, 1)"},
+      {[](Tyres& t) { t.ellipse_exponent = 0.5; },
+       "ellipse_exponent: value 0.5 is out of range: must be [1, 10]"},
+      {[](Tyres& t) { t.rolling_radius_m = 2.5; },
+       "rolling_radius: value 2.5 is out of range: must be (0, 2] in SI units"},
+      {[](Tyres& t) { t.rolling_resistance = 0.2; },
+       "rolling_resistance: value 0.2 is out of range: must be [0, 0.1]"},
+  };
+  for (const Case& c : cases) {
+    Tyres t = good;
+    c.spoil(t);
+    CHECK(test::describe(t.validate()) == c.want);
+  }
+  // The first in the file's order: mu_long before rolling_radius.
+  Tyres two = good;
+  two.rolling_radius_m = 0.0;
+  two.mu_long = 9.0;
+  CHECK(two.validate()->field == "mu_long");
+}

@@ -7,7 +7,7 @@
 #include <sstream>
 
 #include "lapwing/base/units.hpp"
-#include "lapwing/io/track_import.hpp"
+#include "lapwing/io/track_data.hpp"
 #include "lapwing/path/corners.hpp"
 #include "test_support.hpp"
 
@@ -114,4 +114,21 @@ TEST_CASE("a short opposite wiggle inside one corner does not split it (README: 
   const auto three = find_corners(chicane);
   REQUIRE(three.size() == 3);
   CHECK(three[1].direction == 1);
+}
+
+TEST_CASE("corner options out of range are a typed error naming the option") {
+  CHECK(test::describe(CornerOptions{}.validate()) == "none");
+  CornerOptions o;
+  o.exit_curvature_1pm = 2.0 * o.enter_curvature_1pm;  // no hysteresis: ends before it starts
+  CHECK(test::describe(o.validate()) ==
+        "exit_curvature_1pm: exit_curvature_1pm must not exceed enter_curvature_1pm (a corner "
+        "ends at a larger radius than it starts at)");
+  o = CornerOptions{};
+  o.min_length_m = -1.0;
+  CHECK(test::describe(o.validate()) ==
+        "min_length_m: value -1 is out of range: must be >= 0 in SI units");
+  o.enter_curvature_1pm = 0.0;
+  CHECK(o.validate()->field == "enter_curvature_1pm");  // the first in order
+  const Mesh m = build_mesh(test::circle_track(50.0, 0.5), 0.5);
+  CHECK_THROWS_AS(find_corners(m, o), InvalidInput);
 }

@@ -6,6 +6,7 @@
 
 #include "lapwing/base/error.hpp"
 #include "lapwing/base/units.hpp"
+#include "lapwing/path/centerline.hpp"
 #include "lapwing/path/mesh.hpp"
 #include "test_support.hpp"
 
@@ -63,9 +64,73 @@ TEST_CASE("a closed track that does not close is an error that states the gap") 
   t.segments = {test::arc(50.0, 1.9 * units::pi, true)};
   try {
     build_mesh(t, 0.5);
-    FAIL("expected an InputError");
-  } catch (const InputError& e) {
+    FAIL("expected an InvalidInput");
+  } catch (const InvalidInput& e) {
+    CHECK(e.violation().field == "segments");
+    CHECK(e.subject() == "circle.yaml");
     CHECK(std::string(e.what()).find("does not close") != std::string::npos);
     CHECK(std::string(e.what()).find("m from the start") != std::string::npos);
+  }
+}
+
+namespace {
+// A closed track from a centerline's points (default smoothing).
+Track centerline_track(const std::vector<double>& x, const std::vector<double>& y) {
+  Track t = test::circle_track(100.0, 0.5);
+  t.file = "centerline.yaml";
+  t.segments.clear();
+  t.profile = fit_centerline(CenterlinePoints{"gap circle", x, y, {}}, true, CenterlineOptions{});
+  return t;
+}
+}  // namespace
+
+TEST_CASE(
+    "a closed centerline reports its data's gap and refuses one over max(3 spacings, 0.5 %)") {
+  const double radius = 100.0;
+  // 40 points on a circle: spacing 2 R sin(pi / 40) = 15.69 m, and the last point is that far
+  // from the first (chord of the circle, closed form). 3 spacings (47 m) is the tolerance here,
+  // not 0.5 % of the 628 m length (3.1 m): the fit bridges one spacing as it bridges any other.
+  {
+    std::vector<double> x, y;
+    for (int i = 0; i < 40; ++i) {
+      x.push_back(radius * std::cos(2 * units::pi * i / 40));
+      y.push_back(radius * std::sin(2 * units::pi * i / 40));
+    }
+    const Track t = centerline_track(x, y);
+    const double chord = 2 * radius * std::sin(units::pi / 40);
+    CHECK(near(closure(t).position_gap_m, chord, 1e-9));
+    CHECK(near(t.profile->point_spacing_m, chord, 1e-9));
+    CHECK(near(closure_position_tolerance_m(t), 3 * chord, 1e-9));
+    CHECK_NOTHROW(build_mesh(t, 0.5));
+  }
+  // The same circle every 1.96 m (320 points round) with its last quarter missing: the last
+  // point is R sqrt(2) = 141.4 m from the first, over max(3 x 1.96 m, 0.5 % of the length): an
+  // error stating the gap, at the track's `centerline` key.
+  {
+    std::vector<double> x, y;
+    const int n = 320;
+    for (int i = 0; i <= 3 * n / 4; ++i) {
+      x.push_back(radius * std::cos(2 * units::pi * i / n));
+      y.push_back(radius * std::sin(2 * units::pi * i / n));
+    }
+    const Track t = centerline_track(x, y);
+    const double gap = std::hypot(x.back() - x.front(), y.back() - y.front());
+    CHECK(near(gap, radius * std::sqrt(2.0), 1e-9));  // 3/4 of a turn: the chord R sqrt(2)
+    CHECK(near(closure(t).position_gap_m, gap, 1e-12));
+    // The error names the last data point by its index (a loader names its file and line).
+    try {
+      build_mesh(t, 0.5);
+      FAIL("expected an InvalidInput");
+    } catch (const InvalidInput& e) {
+      const std::string what = e.what();
+      CAPTURE(what);
+      CHECK(e.subject() == "centerline.yaml");
+      CHECK(e.violation().field == "centerline");
+      CHECK(e.violation().point == "centerline.points[240]");
+      CHECK(what.rfind("centerline.yaml: error: closed centerline does not close: its last point "
+                       "(data point 241 of gap circle) is 141.4 m from its first",
+                       0) == 0);
+      CHECK(what.find("(centerline)") != std::string::npos);
+    }
   }
 }

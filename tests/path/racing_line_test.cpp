@@ -8,6 +8,7 @@
 #include <algorithm>
 #include <cmath>
 
+#include "lapwing/base/error.hpp"
 #include "lapwing/base/units.hpp"
 #include "lapwing/path/box_qp.hpp"
 #include "lapwing/path/racing_line.hpp"
@@ -168,18 +169,20 @@ TEST_CASE("through a 90 deg corner between straights the line goes edge to apex 
 TEST_CASE("a track narrower than the vehicle and its margins, or without widths, has no line") {
   try {
     line_reference(test::circle_track(50.0, 0.5));
-    FAIL("expected a LineError");
-  } catch (const LineError& e) {
-    CHECK(std::string(e.what()).find("needs the track's widths") != std::string::npos);
-    CHECK(e.key_path() == "line");
+    FAIL("expected an InvalidInput");
+  } catch (const InvalidInput& e) {
+    CHECK(e.message().find("needs the track's widths") != std::string::npos);
+    CHECK(e.violation().where() == "line");
+    CHECK(e.subject() == "circle.yaml");
   }
   // 2.9 m wide: less than 2 m of car and 0.5 m each side.
   const LineReference ref = line_reference(ring(50.0, 2.9));
   try {
     min_curvature_line(ref, LineOptions{});
-    FAIL("expected a LineError");
-  } catch (const LineError& e) {
-    CHECK(std::string(e.what()).find("2.90 m wide at 0.0 m") != std::string::npos);
+    FAIL("expected an InvalidInput");
+  } catch (const InvalidInput& e) {
+    CHECK(e.message().find("2.90 m wide at 0.0 m") != std::string::npos);
+    CHECK(e.violation().where() == "line");
   }
 }
 

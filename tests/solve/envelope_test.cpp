@@ -4,9 +4,11 @@
 #include <Eigen/Eigenvalues>
 #include <cmath>
 
+#include "lapwing/base/error.hpp"
 #include "lapwing/base/units.hpp"
 #include "lapwing/model/powertrain.hpp"
 #include "lapwing/solve/envelope.hpp"
+#include "lapwing/solve/solver.hpp"
 #include "test_support.hpp"
 
 using namespace lapwing;
@@ -66,4 +68,54 @@ TEST_CASE("a geared car is capped at the rev limit in top gear when drag allows 
   CHECK(near(env.top_speed_level_mps(), v_limit, 1e-12));
   // The table reads the drive of best_drive at its rows.
   CHECK(near(env.drive_n(v_limit * 0.5), 3000.0, 1e-9));
+}
+
+TEST_CASE("a car built in code with a negative mass is a typed error, not a nonsense lap") {
+  // Issue 11: a program that built the formula car with mass -5 kg got "the car stops at ...".
+  Car car = load_car(test::source_path("cars/pellion-fr2.yaml")).configured(1);
+  car.file.clear();  // built in code: named by its name
+  car.mass_kg = -5.0;
+  const Circuit c = test::bundled_circuit("tracks/brannock-park.yaml");
+  // What the check prevents: the same car taken unchecked is solved into nonsense.
+  {
+    const Envelope unchecked(Envelope::Unchecked{}, car, c.air);
+    CHECK_THROWS_AS(solve_lap(unchecked, c.mesh), CannotMove);
+  }
+  try {
+    const Envelope env(car, c.air);
+    FAIL("expected an InvalidInput");
+  } catch (const InvalidInput& e) {
+    CHECK(e.subject() == "car 'Pellion FR-2'");
+    CHECK(e.violation().field == "mass");
+    CHECK(e.message() == "value -5 is out of range: must be (0, 100000] in SI units");
+    CHECK(std::string(e.what()) ==
+          "car 'Pellion FR-2': error: value -5 is out of range: must be (0, 100000] in SI units "
+          "(mass)");
+  }
+}
+
+TEST_CASE("envelope options and the air are checked too") {
+  const Car car = test::plain_car();
+  const Air air = make_air(AirSpec{});
+  CHECK(test::describe(EnvelopeOptions{}.validate()) == "none");
+  EnvelopeOptions o;
+  o.speed_points = 1;
+  CHECK(test::describe(o.validate()) ==
+        "speed_points: value 1 is out of range: must be [2, 10000000]");
+  o = EnvelopeOptions{};
+  o.table_margin = 1.0;
+  CHECK(test::describe(o.validate()) == "table_margin: value 1 is out of range: must be > 1");
+  o = EnvelopeOptions{};
+  o.speed_ceiling_mps = 0.0;
+  CHECK(test::describe(o.validate()) ==
+        "speed_ceiling_mps: value 0 is out of range: must be > 0 in SI units");
+  try {
+    const Envelope env(car, air, o);
+    FAIL("expected an InvalidInput");
+  } catch (const InvalidInput& e) {
+    CHECK(e.subject() == "envelope options");
+  }
+  Air thin = air;
+  thin.density_kg_m3 = 0.0;
+  CHECK_THROWS_AS(Envelope(car, thin), InvalidInput);
 }

@@ -1,6 +1,7 @@
 // Compare: deltas against single runs, the splits add up, and thread-count independence.
 #include <doctest/doctest.h>
 
+#include "lapwing/base/error.hpp"
 #include "lapwing/io/car_file.hpp"
 #include "lapwing/study/compare.hpp"
 #include "test_support.hpp"
@@ -34,5 +35,25 @@ TEST_CASE(
     CHECK(near(d.back(),
                pt.entries[1].run.summary.lap_time_s - pt.entries[0].run.summary.lap_time_s, 1e-12,
                1e-15));
+  }
+}
+
+TEST_CASE("compare refuses a bad car or config list before solving any lap") {
+  const std::vector<Circuit> circuits{lay_out(test::circle_track(50.0, 0.5), make_air(AirSpec{}))};
+  Car car = test::plain_car();
+  try {
+    compare(car, {0, 3}, circuits, 1);
+    FAIL("expected an InvalidInput");
+  } catch (const InvalidInput& e) {
+    CHECK(std::string(e.what()) ==
+          "compare: error: config index 3 is not one of the car's (it has 1) (configs)");
+  }
+  car.front_weight = 0.0;
+  try {
+    compare(car, {0}, circuits, 1);
+    FAIL("expected an InvalidInput");
+  } catch (const InvalidInput& e) {
+    CHECK(e.subject() == "test.yaml");
+    CHECK(e.violation().field == "front_weight");
   }
 }

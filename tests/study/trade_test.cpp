@@ -6,6 +6,7 @@
 #include <regex>
 #include <sstream>
 
+#include "lapwing/base/error.hpp"
 #include "lapwing/io/car_file.hpp"
 #include "lapwing/model/car.hpp"
 #include "lapwing/report/trade_report.hpp"
@@ -230,10 +231,40 @@ TEST_CASE("a car without aero still has aero sensitivities (zero areas move by t
   CHECK(std::isfinite(s.dt_dcda_s_per_m2));
   CHECK(s.dt_dcla_s_per_m2 < 0.0);
   CHECK(s.dt_dcda_s_per_m2 > 0.0);
-  // Against two explicit runs with +-0.02 m2 of ClA (1e-9).
+  // Against two explicit runs with +-0.02 m2 of ClA (1e-9). -0.02 m2 is lift, outside a car
+  // file's range: the run takes the car unchecked, as the trade does.
   const Car base = car.configured(0);
-  const double up = run_lap(shifted(base, Knob::cla, 0.02), circuits[0]).summary.lap_time_s;
-  const double down = run_lap(shifted(base, Knob::cla, -0.02), circuits[0]).summary.lap_time_s;
+  auto lap = [&](const Car& c) {
+    const Envelope env(Envelope::Unchecked{}, c, circuits[0].air);
+    LapSolver solver;
+    return solve_speed_only(env, circuits[0], solver).lap_time_s;
+  };
+  const double up = lap(shifted(base, Knob::cla, 0.02));
+  const double down = lap(shifted(base, Knob::cla, -0.02));
   CHECK(near(s.dt_dcla_s_per_m2, (up - down) / 0.04, 1e-9));
   for (double v : t.grids.front().lap_time_s) CHECK(std::isfinite(v));
+}
+
+TEST_CASE("trade options out of range are a typed error, not a failure inside the root finder") {
+  // Issue 11: TradeOptions{grid_points = 1} divided by grid_points - 1 = 0.
+  CHECK(test::describe(TradeOptions{}.validate()) == "none");
+  CHECK(test::describe(TradeOptions{0.02, 1, 0.15}.validate()) ==
+        "grid_points: value 1 is out of range: must be [3, 41]");
+  CHECK(test::describe(TradeOptions{0.0, 9, 0.15}.validate()) ==
+        "step: value 0 is out of range: must be (0, 0.5]");
+  CHECK(test::describe(TradeOptions{0.02, 9, 0.95}.validate()) ==
+        "grid_span: value 0.95 is out of range: must be (0, 0.9]");
+  const Car car = test::plain_car();
+  const std::vector<Circuit> circuits{lay_out(test::circle_track(50.0, 0.5), make_air(AirSpec{}))};
+  try {
+    trade(car, {0}, circuits, TradeOptions{0.02, 1, 0.15}, 1);
+    FAIL("expected an InvalidInput");
+  } catch (const InvalidInput& e) {
+    CHECK(std::string(e.what()) ==
+          "trade options: error: value 1 is out of range: must be [3, 41] (grid_points)");
+  }
+  CHECK_THROWS_AS(trade(car, {}, circuits, TradeOptions{}, 1), InvalidInput);
+  Car heavy = car;
+  heavy.mass_kg = 2e5;
+  CHECK_THROWS_AS(trade(heavy, {0}, circuits, TradeOptions{}, 1), InvalidInput);
 }

@@ -2,8 +2,11 @@
 // exit code (2 for input, 3 for a car that cannot move); a broken internal assumption is an assert.
 #pragma once
 
+#include <optional>
 #include <stdexcept>
 #include <string>
+
+#include "lapwing/base/violation.hpp"
 
 namespace lapwing {
 
@@ -28,6 +31,27 @@ class InputError : public std::runtime_error {
   std::string message_;
   std::string key_path_;
 };
+
+/// Bad input found by the library, which knows no file positions: the subject (the car's or
+/// track's file, or what else was given) and the first violation of a rule (key path, value,
+/// rule). what() is `SUBJECT: error: MESSAGE (KEY.PATH)`, the words of the file error without
+/// its position; the layer that read the file maps it to FILE:LINE:COL (io/source_map.hpp).
+/// Exit code 2.
+class InvalidInput : public std::runtime_error {
+ public:
+  InvalidInput(std::string subject, Violation violation);
+  const std::string& subject() const { return subject_; }
+  const Violation& violation() const { return violation_; }
+  /// The sentence alone (no subject, no key path).
+  std::string message() const { return violation_.message(); }
+
+ private:
+  std::string subject_;
+  Violation violation_;
+};
+
+/// Throws InvalidInput(subject, *v) when there is a violation.
+void require_valid(const std::optional<Violation>& v, const std::string& subject);
 
 /// An output file or folder that cannot be written (permissions, a missing drive). Exit code 2:
 /// the place was the user's choice, and nothing else was written.

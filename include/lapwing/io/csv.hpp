@@ -9,6 +9,8 @@
 #include <string>
 #include <vector>
 
+#include "lapwing/base/error.hpp"
+
 namespace lapwing {
 
 struct CsvTable {
@@ -31,5 +33,9 @@ CsvTable read_csv(const std::string& file, std::size_t min_rows = 10);
 /// equal in all of `columns` (duplicate points).
 void require_increasing(const CsvTable& t, const std::string& column);
 void require_no_duplicates(const CsvTable& t, const std::vector<std::string>& columns);
+
+/// A rule the library found about the table's data (an InvalidInput pointing at "COLUMN[i]",
+/// row i) as the file's error at that row's line (the file as a whole when no row is named).
+InputError row_error(const CsvTable& t, const InvalidInput& e);
 
 }  // namespace lapwing

@@ -12,6 +12,7 @@
 #include <vector>
 
 #include "lapwing/base/error.hpp"
+#include "lapwing/base/range.hpp"
 #include "lapwing/base/units.hpp"
 
 namespace lapwing {
@@ -42,19 +43,6 @@ Document load_document(const std::string& file);
 /// Parses YAML text held in memory (`file` is the name used in errors).
 Document parse_document(const std::string& text, const std::string& file);
 
-/// A closed interval, open or closed at each end, for range checks.
-struct Range {
-  double lo = -1e308;
-  double hi = 1e308;
-  bool lo_open = false;
-  bool hi_open = false;
-  bool contains(double v) const;
-  std::string describe() const;  // "(0, 3]", "> 0", ">= 0"
-};
-Range positive();      // (0, inf)
-Range non_negative();  // [0, inf)
-Range open_unit();     // (0, 1)
-
 /// Takes keys out of one map node. Call finish() after the last read: any key not read is an
 /// unknown key and an error.
 class Reader {
@@ -74,9 +62,13 @@ class Reader {
   const Node* get(std::string_view key);      // marks the key as read; nullptr when absent
   const Node& require(std::string_view key);  // error when absent
 
-  double quantity(std::string_view key, Quantity q, Range r);
-  double quantity_or(std::string_view key, Quantity q, Range r, double fallback);
-  std::optional<double> optional_quantity(std::string_view key, Quantity q, Range r);
+  // Quantities in SI. The loaders leave the ranges of the model's values to its validate()
+  // (which they call, mapping the key path back here); `r` checks a value of the file's own
+  // notation that the model does not keep (an arc's radius, whose sign is the turn's).
+  double quantity(std::string_view key, Quantity q, std::optional<Range> r = {});
+  double quantity_or(std::string_view key, Quantity q, double fallback);
+  std::optional<double> optional_quantity(std::string_view key, Quantity q,
+                                          std::optional<Range> r = {});
   std::string string(std::string_view key);
   std::string string_or(std::string_view key, std::string fallback);
   bool boolean_or(std::string_view key, bool fallback);
@@ -84,8 +76,8 @@ class Reader {
   /// One of `choices`; error lists them (and suggests the closest).
   std::string choice(std::string_view key, const std::vector<std::string>& choices,
                      std::string fallback = {});
-  /// A sequence of quantities; each checked against `r`.
-  std::vector<double> quantities(std::string_view key, Quantity q, Range r);
+  /// A sequence of quantities (each checked against `r` when given).
+  std::vector<double> quantities(std::string_view key, Quantity q, std::optional<Range> r = {});
 
   Reader map(std::string_view key);  // a nested map (error when absent or not a map)
 
@@ -95,7 +87,8 @@ class Reader {
   [[noreturn]] void fail(const Node& at, const std::string& what, std::string_view key = {}) const;
 
   // Conversions of a node already taken (for sequence items and the like).
-  double node_quantity(const Node& n, Quantity q, Range r, const std::string& path) const;
+  double node_quantity(const Node& n, Quantity q, const std::string& path,
+                       std::optional<Range> r = {}) const;
   std::string node_string(const Node& n, const std::string& path) const;
 
  private:

@@ -11,7 +11,7 @@
 #include <string_view>
 #include <vector>
 
-#include "lapwing/base/error.hpp"
+#include "lapwing/base/violation.hpp"
 
 namespace lapwing {
 
@@ -22,6 +22,12 @@ struct RideHeightMap {
   Eigen::MatrixXd cda_m2, cla_m2, balance;
   double static_front_m, static_rear_m;            // ride heights at rest
   double stiffness_front_npm, stiffness_rear_npm;  // heave stiffness at the axle, N/m
+
+  /// The first value that breaks a rule, in the order of a config's keys (key paths as there:
+  /// "ride_height_map.front[1]", "static_ride_height.rear", "heave_stiffness.front").
+  std::optional<Violation> validate() const;
+  /// The part of validate() on the axes, which the grids' sizes follow.
+  std::optional<Violation> validate_axes() const;
 };
 
 /// Changes to the coefficients where movable aero is trimmed for the straights: on points with
@@ -65,6 +71,16 @@ struct AeroPart {
   double z_m;                  // height of the part's drag
 };
 
+/// A parts table as a car file gives it (`forces:`): the parts at one reference speed and
+/// density.
+struct PartsTable {
+  double speed_mps, density_kg_m3;
+  std::vector<AeroPart> parts;
+  /// The first value that breaks a rule (key paths as under `forces:`: "speed",
+  /// "parts[2].drag"), then net lift, which is not modelled.
+  std::optional<Violation> validate() const;
+};
+
 /// The constant coefficients a parts table stands for:
 ///   CdA = sum(drag) / q,  ClA = sum(downforce) / q,  q = rho_ref V_ref^2 / 2;
 ///   balance (front share, lever rule about the axles) = sum(downforce (L - x) / L) /
@@ -82,8 +98,6 @@ PartsReduction reduce_parts(const std::vector<AeroPart>& parts, double speed_mps
 struct AeroConfig {
   enum class Form { constant, speed_table, forces, ride_height_map };
   std::string name;
-  std::string file;  // the car file, for errors found later (a map that does not converge)
-  Mark mark;
   Form form = Form::constant;
   std::vector<double> speed_mps;  // empty: constant coefficients
   std::vector<double> cda_m2;
@@ -94,6 +108,11 @@ struct AeroConfig {
   // Car-level values this configuration overrides (SPEC section 2); a parts table sets
   // drag_height_m from its parts.
   std::optional<double> mass_kg, inertia_factor, cg_height_m, front_weight, drag_height_m;
+
+  /// The first value of the aero data that breaks a rule, in the order of the config's keys in
+  /// a car file (key paths relative to the config: "cda", "speed_table.cla[2]",
+  /// "straight_trim"). The overrides are the car's values: Car::validate checks them.
+  std::optional<Violation> validate() const;
 };
 
 std::string_view form_name(AeroConfig::Form f);

@@ -4,6 +4,9 @@
 
 #include <optional>
 
+#include "lapwing/base/range.hpp"
+#include "lapwing/base/violation.hpp"
+
 namespace lapwing {
 
 /// ISO 2533:1975 standard atmosphere in the troposphere (geometric altitude -2 km to 11 km).
@@ -27,6 +30,16 @@ struct AirSpec {
   std::optional<double> temperature_k;
   std::optional<double> pressure_pa;
   double relative_humidity = 0.0;  // 0..1; dry unless given
+
+  // The ranges a track file or an option may give (README, the track file): the troposphere
+  // where circuits lie, and the air a car is run in.
+  static constexpr Range altitude_range{-500.0, 6000.0};     // m
+  static constexpr Range temperature_range{223.15, 343.15};  // K: -50 to 70 C
+  static constexpr Range pressure_range{30000.0, 110000.0};  // Pa
+  static constexpr Range humidity_range{0.0, 1.0};           // fraction
+  /// The first value out of its range (key paths as in a track file: "altitude",
+  /// "ambient.temperature", "ambient.pressure", "ambient.humidity").
+  std::optional<Violation> validate() const;
 };
 
 struct Air {
@@ -38,6 +51,7 @@ struct Air {
   bool standard;  // true when nothing replaced the ISO 2533 values
 };
 
+/// The air of `spec` (InvalidInput, subject "air", when spec.validate() finds a violation).
 Air make_air(const AirSpec& spec);
 
 namespace atmosphere {

@@ -1,7 +1,10 @@
 // Engine and gearbox: the drive force at the wheels at a road speed, in the best gear.
 #pragma once
 
+#include <optional>
 #include <vector>
+
+#include "lapwing/base/violation.hpp"
 
 namespace lapwing {
 
@@ -18,6 +21,10 @@ struct Powertrain {
   double efficiency = 1.0;    // drivetrain, engine to wheels
   double shift_time_s = 0.0;  // drive cut after each upshift
   DrivenAxle driven = DrivenAxle::rear;
+
+  /// The first value that breaks a rule, in the order of a car file's `powertrain:` (key paths
+  /// as there; the curve is named torque_curve, whichever form the file gave).
+  std::optional<Violation> validate() const;
 };
 
 struct Drive {

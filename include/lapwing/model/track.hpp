@@ -1,4 +1,5 @@
-// The track as described by its file (SPEC section 3): fixed, validated, in SI units.
+// The track as described by its file (README, the track file): fixed, in SI units, checked by
+// validate().
 #pragma once
 
 #include <memory>
@@ -6,7 +7,8 @@
 #include <string>
 #include <vector>
 
-#include "lapwing/base/error.hpp"
+#include "lapwing/base/range.hpp"
+#include "lapwing/base/violation.hpp"
 #include "lapwing/model/air.hpp"
 
 namespace lapwing {
@@ -19,19 +21,32 @@ struct Segment {
   double length_m;
   double curvature_start_1pm;
   double curvature_end_1pm;
-  double grade;  // rise over run, positive uphill
-  Mark mark;
-  double width_m = 0.0;  // edge to edge, the centerline in the middle; 0: the track's width
+  double grade;                                  // rise over run, positive uphill
+  std::optional<double> width_m = std::nullopt;  // edge to edge, the centerline in the middle;
+                                                 // none: the track's
+
+  // The ranges of a segment (README, the track file): a piece up to 100 km, a radius up to
+  // 100 km, an arc of up to two turns, a grade of +-50 % (steeper is no road), a width up to
+  // 100 m.
+  static constexpr Range length_range{0.0, 100e3, true, false};         // m
+  static constexpr Range radius_range{0.0, 100e3, true, false};         // m
+  static constexpr Range angle_range{0.0, 4 * units::pi, true, false};  // rad
+  static constexpr Range grade_range{-0.5, 0.5};
+  static constexpr Range width_range{0.0, 100.0, true, false};  // m (also the track's `width`)
+  /// The first value that breaks a rule, named as in a track file's segment ("arc.radius",
+  /// "clothoid.grade"): an arc's radius and angle are 1 / |curvature| and length x |curvature|.
+  std::optional<Violation> validate() const;
 };
 
-/// A centerline's data points as given (projected to the plane for lat/lon), kept with the fit so
-/// that it can be fitted again at another strength (the data-quality study).
+/// A centerline's points in order, as surveyed, in a plane (m), with the distance from the
+/// centerline to each edge, left and right in the direction of travel (empty when not given).
+/// z empty when there is no elevation. A closed centerline may repeat its first point at the
+/// end. A fit keeps them (PathProfile::points) so that it can be fitted again at another
+/// strength (the data-quality study).
 struct CenterlinePoints {
-  std::vector<double> x_m, y_m, z_m;                // z empty when not given
-  std::vector<double> width_left_m, width_right_m;  // centerline to each edge, left and right in
-                                                    // the direction of travel; empty when not
-                                                    // given, else every one > 0
-  bool closed = true;
+  std::string source;  // where the points come from (a file), for messages
+  std::vector<double> x_m, y_m, z_m;
+  std::vector<double> width_left_m{}, width_right_m{};
 };
 
 /// How a fit's smoothing length was set: given, or chosen from the data by generalised
@@ -39,7 +54,7 @@ struct CenterlinePoints {
 struct SmoothingInfo {
   bool automatic = false;
   double noise_rms = 0.0;  // GCV's estimate of the data's noise (m for points, 1/m for curvature)
-  double chosen_at_spacing_m = 0.0;  // the spacing GCV ran at: the data's median point spacing
+  double chosen_at_spacing_m = 0.0;  // the spacing GCV ran at: the data's mean point spacing
   bool at_lower_bound = false;       // GCV's minimum at the shortest length searched
   bool at_upper_bound = false;       // ... at the longest
   bool exact_trace = false;          // circulant trace (closed) or the stochastic estimate (open)
@@ -52,6 +67,12 @@ struct LineSpec {
   Method method = Method::min_curvature;
   double vehicle_width_m = 2.0;
   double margin_m = 0.5;  // kept from each edge, beyond half the vehicle's width
+
+  static constexpr Range vehicle_width_range{0.5, 5.0};  // m
+  static constexpr Range margin_range{0.0, 5.0};         // m
+  /// Ranges (key paths "vehicle_width", "margin"); a track file's line is min-curvature only
+  /// ("method": the minimum-time line depends on the car).
+  std::optional<Violation> validate() const;
 };
 
 /// A path given as data instead of segments: a fitted centerline or a curvature profile, as
@@ -79,13 +100,19 @@ struct PathProfile {
   bool geodetic = false;                 // lat/lon points projected to a tangent plane
   // A closed centerline's data as given, before the fit bridges its end to its start: the
   // distance from the last point to the first, the median distance between consecutive points
-  // and the file line of the last point (for the closure check and `check`).
+  // and the index of the last point among the data's (for the closure check and `check`).
   double data_closure_gap_m = 0.0;
   double point_spacing_m = 0.0;
-  int last_point_line = 0;
+  std::size_t last_point_index = 0;
   /// Things about the data the user should know that are no error (an unused column): printed
   /// by `check` and `run`.
   std::vector<std::string> notes;
+
+  /// A path longer than 200 km is no circuit: bad data (a stray point, a unit read wrong).
+  static constexpr double max_length_m = 200e3;
+  /// At least two samples, every column as long as s_m, s_m from 0 strictly increasing; widths,
+  /// when given, as long and every one > 0.
+  std::optional<Violation> validate() const;
 };
 
 struct Track {
@@ -94,25 +121,34 @@ struct Track {
   std::string id;  // file name without folder and extension, used in output file names
   bool closed = true;
   double start_speed_mps = 0.0;  // open tracks
-  Mark start_speed_mark;
   AirSpec air;
   double mesh_m = 0.5;
   std::vector<Segment> segments;  // empty when the path is a profile
-  Mark segments_mark;
   std::optional<PathProfile> profile;
-  double width_m = 0.0;           // edge to edge for segments that give none; 0: not given
-  std::vector<double> sectors_m;  // sector start distances along the described path; first is 0
-  Mark sectors_mark;
+  std::optional<double> width_m;       // edge to edge, for segments that give none
+  std::vector<double> sectors_m{0.0};  // sector start distances along the described path; first 0
   // The racing line the track file asks for (`line:`), and that line laid out over the path
   // above: when present it is what every command laps (build_mesh lays it out instead).
   std::optional<LineSpec> line;
-  Mark line_mark;
   std::optional<PathProfile> line_path;
 
   /// The length of what is lapped: the line's when there is one.
   double length_m() const;
   /// Whether the path has widths (every segment, or the centerline's data).
   bool has_widths() const;
+  /// What errors about this track name: its file, or "track 'NAME'" for a track built in code.
+  std::string subject() const;
+  /// The track file's key for its path: "segments", "centerline" or "curvature".
+  const char* path_key() const;
+
+  static constexpr Range start_speed_range{0.0, 150.0};  // m/s
+  static constexpr Range mesh_range{0.01, 10.0};         // m
+  /// A mesh of more than 20 million points is no circuit (and would exhaust the machine).
+  static constexpr double max_mesh_points = 20e6;
+  /// The first value that breaks a rule, in the order of a track file, named by its key path
+  /// there ("start_speed", "ambient.pressure", "segments[2].arc.radius", "width", "line",
+  /// "sectors").
+  std::optional<Violation> validate() const;
 };
 
 }  // namespace lapwing

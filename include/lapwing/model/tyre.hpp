@@ -4,6 +4,9 @@
 
 #include <algorithm>
 #include <cmath>
+#include <optional>
+
+#include "lapwing/base/violation.hpp"
 
 namespace lapwing {
 
@@ -16,6 +19,9 @@ struct Tyres {
   double ellipse_exponent;  // n in (Fx/Fx_max)^n + (Fy/Fy_max)^n <= 1
   double rolling_radius_m;
   double rolling_resistance;  // coefficient of the vertical load
+
+  /// The first value out of its range (key paths as under `tyres:` in a car file).
+  std::optional<Violation> validate() const;
 };
 
 class TyreModel {

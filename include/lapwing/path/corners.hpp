@@ -4,8 +4,10 @@
 #pragma once
 
 #include <cstddef>
+#include <optional>
 #include <vector>
 
+#include "lapwing/base/violation.hpp"
 #include "lapwing/path/mesh.hpp"
 
 namespace lapwing {
@@ -16,6 +18,10 @@ struct CornerOptions {
   double merge_gap_m = 20.0;                 // same-direction corners closer than this merge
   double min_length_m = 5.0;                 // shorter runs are kinks, not corners
   double min_turn_deg = 5.0;                 // runs turning less are wiggles (survey noise)
+
+  /// Positive curvatures, the exit one at most the entry one (hysteresis), lengths and the
+  /// turn not negative; key paths are the member names.
+  std::optional<Violation> validate() const;
 };
 
 struct CornerSpan {
@@ -25,8 +31,9 @@ struct CornerSpan {
   int direction;      // +1 left, -1 right
 };
 
-/// Corners in order of distance. On a closed track a corner is not carried across the start
-/// line: one that spans it is counted as two (the lap starts and ends inside it).
+/// Corners in order of distance (InvalidInput, subject "corner options", for bad options). On a
+/// closed track a corner is not carried across the start line: one that spans it is counted as two
+/// (the lap starts and ends inside it).
 std::vector<CornerSpan> find_corners(const Mesh& mesh, const CornerOptions& options = {});
 
 }  // namespace lapwing

@@ -45,9 +45,11 @@ const PathProfile* lapped_profile(const Track& track);
 std::vector<double> lapped_sectors_m(const Track& track);
 
 /// Lays the track out at spacing close to `step_m` (adjusted so that it divides the length).
-/// For a closed track, a heading gap over 2 deg is an InputError, and so is a position gap over
-/// closure_position_tolerance_m(track). The error names the track's path key (`segments`,
-/// `centerline` or `curvature`).
+/// A track that breaks a rule (Track::validate) or a step outside Track::mesh_range is an
+/// InvalidInput.
+/// For a closed track, a heading gap over 2 deg is an InvalidInput too, and so is a position gap
+/// over closure_position_tolerance_m(track). The error names the track's path key (`segments`,
+/// `centerline` or `curvature`); a centerline's, its last data point ("centerline.points[i]").
 Mesh build_mesh(const Track& track, double step_m);
 
 /// Tolerances on closure (SPEC section 3).

@@ -24,7 +24,6 @@
 #pragma once
 
 #include <optional>
-#include <stdexcept>
 #include <string>
 #include <vector>
 
@@ -33,22 +32,10 @@
 
 namespace lapwing {
 
-/// Bad input to the line (a track without widths, or narrower than the vehicle and its margins
-/// somewhere): the words and the track key they concern, without a file position (the loader
-/// that read the key adds it).
-class LineError : public std::runtime_error {
- public:
-  LineError(std::string message, std::string key_path)
-      : std::runtime_error(message), key_path_(std::move(key_path)) {}
-  const std::string& key_path() const { return key_path_; }
-
- private:
-  std::string key_path_;
-};
-
 /// The path a line is laid over: points evenly spaced along it, their headings and the room to
 /// each edge. A closed reference does not repeat its first point at the end.
 struct LineReference {
+  std::string subject;  // the track's (Track::subject), for errors
   bool closed = true;
   double spacing_m = 0.0;
   std::vector<double> s_m, x_m, y_m, heading_rad, width_left_m, width_right_m, elevation_m;
@@ -60,7 +47,8 @@ struct LineReference {
 inline constexpr double line_spacing_m = 1.0;
 
 /// The reference of a track: its described path (segments or data; not an existing line) laid
-/// out every `spacing_m` with its widths. LineError ("line") when the track has none.
+/// out every `spacing_m` with its widths. InvalidInput (the track's subject, key path "line")
+/// when the track has none.
 LineReference line_reference(const Track& track, double spacing_m = line_spacing_m);
 
 struct LineOptions {
@@ -81,8 +69,8 @@ struct RacingLine {
 };
 
 /// Solves for the line from `start` offsets (empty: the reference itself, alpha = 0, moved into
-/// the bounds). LineError ("line") when the bounds leave no room somewhere: the track narrower
-/// than the vehicle plus a margin each side.
+/// the bounds). InvalidInput (the reference's subject, key path "line") when the bounds leave no
+/// room somewhere: the track narrower than the vehicle plus a margin each side.
 RacingLine min_curvature_line(const LineReference& ref, const LineOptions& options,
                               const std::vector<double>& start = {});
 
@@ -111,7 +99,7 @@ LocalCurvature local_curvature(double x_prev, double x, double x_next, double y_
 PathProfile line_profile(const LineReference& ref, const RacingLine& line);
 
 /// Lays the track's `line` (its LineSpec, min-curvature) over its described path: sets
-/// track.line_path, which every lap then follows. LineError as line_reference and
+/// track.line_path, which every lap then follows. InvalidInput as line_reference and
 /// min_curvature_line.
 void lay_racing_line(Track& track);
 

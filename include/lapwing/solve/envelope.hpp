@@ -3,8 +3,10 @@
 #pragma once
 
 #include <cstddef>
+#include <optional>
 #include <vector>
 
+#include "lapwing/base/violation.hpp"
 #include "lapwing/model/air.hpp"
 #include "lapwing/model/car.hpp"
 #include "lapwing/model/tyre.hpp"
@@ -28,6 +30,9 @@ struct EnvelopeOptions {
   // measured at circuit speeds say nothing this close to the speed of sound (compressibility,
   // common practice).
   double speed_ceiling_mps = 250.0;
+
+  /// 2 to 10 million rows, a margin above 1, a positive ceiling (key paths: member names).
+  std::optional<Violation> validate() const;
 };
 
 /// What sets the top of an Envelope's tables, and so the level-road top speed check reports.
@@ -42,7 +47,14 @@ const char* top_speed_limit_name(TopSpeedLimit l);
 /// Car (with one config applied, see Car::configured) in one air, tabulated over speed.
 class Envelope {
  public:
+  /// A car that breaks a rule (Car::validate), air of no density or bad options are an
+  /// InvalidInput: a library caller gets the words a file would, not a nonsense lap.
   Envelope(const Car& configured_car, const Air& air, EnvelopeOptions options = {});
+  /// For a study that moves a valid car past the files' ranges on purpose (a trade's finite
+  /// differences: ClA +-0.02 m2 around a car without downforce, +15 % of a 30 m2 ClA): the car's
+  /// rules are not checked, the air's and the options' are.
+  struct Unchecked {};
+  Envelope(Unchecked, const Car& configured_car, const Air& air, EnvelopeOptions options = {});
 
   // Fixed parameters, SI.
   double mass_kg() const { return mass_; }

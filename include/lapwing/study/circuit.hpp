@@ -2,6 +2,7 @@
 // every study repeats.
 #pragma once
 
+#include <optional>
 #include <vector>
 
 #include "lapwing/model/air.hpp"
@@ -14,6 +15,10 @@
 #include "lapwing/solve/summary.hpp"
 
 namespace lapwing {
+
+/// The first problem of a list of config indices into `car`: none, one out of range, or one
+/// given twice (key path "configs").
+std::optional<Violation> configs_violation(const Car& car, const std::vector<std::size_t>& configs);
 
 /// A track laid out for study: its mesh, the air it is run in, its corners.
 struct Circuit {
@@ -31,7 +36,8 @@ struct LapRun {
 };
 
 /// Solves `configured_car` (one config) round `circuit`. An open track's start speed above what
-/// the car can hold there is an InputError on the track file.
+/// the car can hold there is an InvalidInput of the track ("start_speed"); a car that breaks a
+/// rule, of the car (the Envelope checks it).
 LapRun run_lap(const Car& configured_car, const Circuit& circuit, LapSolver& solver);
 /// The lap time alone (speed profile and time, no channels or summary).
 double lap_time(const Car& configured_car, const Circuit& circuit, LapSolver& solver);

@@ -49,6 +49,8 @@ struct Comparison {
   std::vector<PerTrack> tracks;      // in the order of the circuits
 };
 
+/// Every config of `configs` (indices into car.configs) round every circuit. A car that breaks a
+/// rule or no configs are an InvalidInput.
 Comparison compare(const Car& car, const std::vector<std::size_t>& configs,
                    const std::vector<Circuit>& circuits, unsigned threads);
 

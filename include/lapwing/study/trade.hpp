@@ -3,9 +3,11 @@
 // differences between configs to their ClA and CdA.
 #pragma once
 
+#include <optional>
 #include <string>
 #include <vector>
 
+#include "lapwing/base/violation.hpp"
 #include "lapwing/model/car.hpp"
 #include "lapwing/solve/envelope.hpp"
 #include "lapwing/solve/solver.hpp"
@@ -42,6 +44,12 @@ struct TradeOptions {
   double step = 0.02;       // relative step of the central differences
   int grid_points = 9;      // per axis of the ClA x CdA grid
   double grid_span = 0.15;  // +-15 % around the config
+
+  static constexpr Range step_range{0.0, 0.5, true, false};
+  static constexpr int min_grid_points = 3, max_grid_points = 41;
+  static constexpr Range grid_span_range{0.0, 0.9, true, false};
+  /// A step in (0, 50 %], 3 to 41 grid points, a span in (0, 90 %] (key paths: member names).
+  std::optional<Violation> validate() const;
 };
 
 struct Sensitivity {
@@ -84,6 +92,8 @@ struct Trade {
   std::vector<AeroOperatingPoint> operating;  // per track, every config of the car (track-major)
 };
 
+/// The trade of `configs` (indices into car.configs, the first also the grid's). Bad options
+/// ("trade options"), a car that breaks a rule, or no configs are an InvalidInput.
 Trade trade(const Car& car, const std::vector<std::size_t>& configs,
             const std::vector<Circuit>& circuits, const TradeOptions& options, unsigned threads);
 

@@ -1,34 +1,22 @@
-// Tracks from the data teams have: a surveyed or GPS centerline fitted by a smoothing spline,
-// a curvature profile taken as given, or a logged lap turned into curvature.
+// `lapwing track from-log`: a logged lap (CSV) read with its units, turned into curvature
+// (path/log_curvature.hpp), checked for plausibility, and written as a track file and its
+// curvature CSV.
 #pragma once
 
+#include <optional>
 #include <string>
 
-#include <optional>
-
+#include "lapwing/base/range.hpp"
+#include "lapwing/base/violation.hpp"
+#include "lapwing/model/air.hpp"
 #include "lapwing/model/track.hpp"
-#include "lapwing/path/centerline.hpp"
 
 namespace lapwing {
 
-/// The smoothing of a centerline (path/centerline.hpp): a length, or none for auto (GCV).
-using CenterlineOptions = CenterlineFitOptions;
-
-/// A CSV of x_m,y_m[,z_m] or lat_deg,lon_deg[,alt_m] (WGS-84, projected to the tangent plane at
-/// the first point), with optional widths width_left_m,width_right_m (both or neither; > 0).
-/// Fitted by fit_centerline (path/centerline.hpp).
-PathProfile import_centerline(const std::string& csv_file, bool closed,
-                              const CenterlineOptions& options);
-
-/// A CSV of distance_m,curvature_1pm[,grade,bank_deg] taken as given; positions by integrating
-/// the heading. A closed profile's last row is the lap's end (the mesh checks its heading).
-PathProfile import_curvature(const std::string& csv_file);
-
-/// `lapwing track from-log`: curvature from a logged lap.
 struct LogOptions {
   std::string log;                                         // CSV file
   std::string speed, lat_accel, yaw_rate, distance, time;  // column names (yaw_rate optional)
-  std::string speed_unit = "km/h";                         // km/h | m/s | mph
+  std::string speed_unit = "km/h";                         // km/h | kph | m/s | mph
   std::string accel_unit = "g";                            // g | m/s2
   std::string yaw_unit = "deg/s";                          // deg/s | rad/s
   bool closed = false;
@@ -36,6 +24,12 @@ struct LogOptions {
   double min_speed_mps = 5.0;         // below it a_y / v^2 is too noisy: bridged over
   std::string name;                   // the track's name (default: the log's file name)
   AirSpec air;                        // written into the track: altitude, and ambient when given
+
+  static constexpr Range smoothing_range{1.0, 1000.0};  // m
+  /// The columns named (speed; distance or time; lateral acceleration or yaw rate), the unit of
+  /// each channel used, the smoothing (when given) in range, a positive minimum speed, the air.
+  /// Key paths are the member names.
+  std::optional<Violation> validate() const;
 };
 
 /// Plausibility limits on a log (a unit read wrong scales every curvature by 9.81, 57.3 or 3.6^2).

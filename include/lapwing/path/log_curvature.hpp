@@ -1,0 +1,58 @@
+// A logged lap turned into curvature: a_y / v^2 (or yaw rate / v) along the distance, bridged
+// over rows too slow to read, resampled, filtered, and for a closed lap with its closure errors
+// spread evenly along it.
+#pragma once
+
+#include <cstddef>
+#include <optional>
+#include <string>
+#include <vector>
+
+#include "lapwing/base/violation.hpp"
+#include "lapwing/model/track.hpp"
+
+namespace lapwing {
+
+/// A log's channels, one value per row, in SI.
+struct LogChannels {
+  std::string source;                  // where the log comes from (a file), for messages
+  std::vector<double> speed_mps;       // every row
+  std::vector<double> distance_m;      // strictly increasing; or empty, and then ...
+  std::vector<double> time_s;          // ... strictly increasing, the distance integrated
+  std::vector<double> lat_accel_mps2;  // positive to the left; or empty, and then ...
+  std::vector<double> yaw_rate_radps;  // ... positive to the left
+};
+
+struct LogCurvatureOptions {
+  bool closed = false;                // the log is one whole lap
+  std::optional<double> smoothing_m;  // filter on the curvature (smoothing.hpp); none: auto
+  double min_speed_mps = 5.0;         // below it a_y / v^2 is too noisy: bridged over
+  /// Positive lengths and speed (key paths: "smoothing", "min_speed").
+  std::optional<Violation> validate() const;
+};
+
+struct LogCurvature {
+  std::vector<double> s_m, curvature_1pm;  // every 0.5 m or so, filtered (closure spread)
+  double length_m = 0.0;
+  double smoothing_m = 0.0;  // the filter's length: given, or chosen by GCV
+  SmoothingInfo smoothing;   // how it was set
+  /// The largest |curvature| v^2 / g0 along the filtered log (before any closure is spread),
+  /// and the log row nearest it.
+  double peak_lateral_g = 0.0;
+  std::size_t peak_row = 0;
+  // A closed lap, before its closure errors are spread: the heading left over a whole number of
+  // turns (deg), the turns the curvature adds up to, and with the heading closed the distance
+  // from the end to the start (m).
+  double closure_heading_deg = 0.0, turns = 0.0, closure_gap_m = 0.0;
+};
+
+/// Curvature from a log: kappa = a_y / v^2, or yaw rate / v; filtered (second differences;
+/// periodic for a closed lap) over the given length, or one chosen by generalised
+/// cross-validation on the curvature at the log's own median row spacing; for a closed lap the
+/// heading closed by a constant curvature change and the position by heading changes
+/// a sin(pi s / L) + b sin(2 pi s / L) that vanish at both ends. InvalidInput (subject: the
+/// source) for bad options, a car that does not move between two rows ("time_s[i]"), no row at
+/// min_speed or faster, or a log over 200 km ("speed_mps[last row]").
+LogCurvature log_curvature(const LogChannels& log, const LogCurvatureOptions& options);
+
+}  // namespace lapwing

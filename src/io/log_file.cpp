@@ -1,0 +1,200 @@
+#include "lapwing/io/log_file.hpp"
+
+#include <cstdio>
+#include <filesystem>
+#include <sstream>
+
+#include "lapwing/base/error.hpp"
+#include "lapwing/base/format.hpp"
+#include "lapwing/base/units.hpp"
+#include "lapwing/io/csv.hpp"
+#include "lapwing/io/csv_writer.hpp"
+#include "lapwing/io/json.hpp"
+#include "lapwing/io/line_track.hpp"
+#include "lapwing/path/log_curvature.hpp"
+
+namespace lapwing {
+
+namespace {
+
+// SI per unit of a log channel, or nothing for a unit not accepted.
+std::optional<double> speed_scale(const std::string& unit) {
+  if (unit == "km/h" || unit == "kph") return units::kph;
+  if (unit == "m/s") return 1.0;
+  if (unit == "mph") return 1609.344 / 3600.0;
+  return std::nullopt;
+}
+std::optional<double> accel_scale(const std::string& unit) {
+  if (unit == "g") return units::g0;
+  if (unit == "m/s2") return 1.0;
+  return std::nullopt;
+}
+std::optional<double> yaw_scale(const std::string& unit) {
+  if (unit == "deg/s") return units::deg;
+  if (unit == "rad/s") return 1.0;
+  return std::nullopt;
+}
+
+// The curvature profile a log becomes (the columns a curvature file has).
+struct ProfileRow {
+  double s_m, curvature_1pm;
+};
+constexpr CsvColumn<ProfileRow> profile_columns[] = {
+    {"distance_m", [](std::string& o, const ProfileRow& r) { csv_number(o, r.s_m); }},
+    {"curvature_1pm", [](std::string& o, const ProfileRow& r) { csv_number(o, r.curvature_1pm); }},
+};
+
+}  // namespace
+
+std::optional<Violation> LogOptions::validate() const {
+  const bool by_yaw = !yaw_rate.empty();
+  auto unit = [](const char* what, const std::string& u) {
+    return std::string("unknown ") + what + " unit '" + u + "'";
+  };
+  return FirstViolation()
+      .rule(!speed.empty(), "speed", "give the speed column")
+      .rule(distance.empty() != time.empty(), "distance",
+            "give one of the distance and time columns")
+      .rule(!lat_accel.empty() || by_yaw, "lat_accel",
+            "give the lateral acceleration column (or the yaw rate column)")
+      // The unit of each channel used (an option for a channel not used is not read).
+      .rule(speed_scale(speed_unit).has_value(), "speed_unit",
+            [&] { return unit("speed", speed_unit); })
+      .rule(by_yaw || accel_scale(accel_unit).has_value(), "accel_unit",
+            [&] { return unit("accel", accel_unit); })
+      .rule(!by_yaw || yaw_scale(yaw_unit).has_value(), "yaw_unit",
+            [&] { return unit("yaw", yaw_unit); })
+      .rule(!smoothing_m || smoothing_range.contains(*smoothing_m), "smoothing",
+            [&] {
+              return out_of_range("smoothing", *smoothing_m, smoothing_range, Quantity::length)
+                  .message();
+            })
+      .range("min_speed", min_speed_mps, positive(), Quantity::speed)
+      .part("air", [&] { return air.validate(); })
+      .result();
+}
+
+LogTrack track_from_log(const LogOptions& o, const std::string& csv_name) {
+  const CsvTable t = read_csv(o.log, 10);
+  // Bad options are this log's error, as a whole (they name no row).
+  if (const auto v = o.validate()) throw InputError(o.log, Mark{}, v->message());
+  auto kph_text = [](double mps) {
+    char buf[32];
+    std::snprintf(buf, sizeof buf, "%.1f", mps / units::kph);
+    return std::string(buf);
+  };
+  LogChannels log;
+  log.source = o.log;
+  const double vs = *speed_scale(o.speed_unit);
+  const auto& vcol = t.column(o.speed);
+  log.speed_mps.resize(vcol.size());
+  for (std::size_t i = 0; i < vcol.size(); ++i) log.speed_mps[i] = vcol[i] * vs;
+  const double v0 = log.speed_mps[0];
+  if (!o.closed && v0 < 0.0)
+    throw InputError(o.log, Mark{t.lines[0], 1},
+                     "the first logged speed is negative (" + kph_text(v0) +
+                         " km/h): an open log's first speed becomes the track's start_speed");
+  if (!o.closed && v0 > log_max_start_speed_mps)
+    throw InputError(o.log, Mark{t.lines[0], 1},
+                     "the first logged speed, " + kph_text(v0) + " km/h read with --speed-unit " +
+                         o.speed_unit +
+                         ", is more than a track's start_speed may be (540 km/h); is the speed "
+                         "in another unit?");
+  // Distance: given, or integrated from time (the path's).
+  if (!o.distance.empty()) {
+    require_increasing(t, o.distance);
+    log.distance_m = t.column(o.distance);
+  } else {
+    require_increasing(t, o.time);
+    log.time_s = t.column(o.time);
+  }
+  const bool by_yaw = !o.yaw_rate.empty();
+  {
+    const double scale = by_yaw ? *yaw_scale(o.yaw_unit) : *accel_scale(o.accel_unit);
+    const auto& c = t.column(by_yaw ? o.yaw_rate : o.lat_accel);
+    std::vector<double>& channel = by_yaw ? log.yaw_rate_radps : log.lat_accel_mps2;
+    channel.resize(c.size());
+    for (std::size_t i = 0; i < c.size(); ++i) channel[i] = c[i] * scale;
+  }
+  LogCurvatureOptions co;
+  co.closed = o.closed;
+  co.smoothing_m = o.smoothing_m;
+  co.min_speed_mps = o.min_speed_mps;
+  LogCurvature lc;
+  try {
+    lc = log_curvature(log, co);
+  } catch (const InvalidInput& e) {
+    if (e.subject() != o.log) throw;
+    throw row_error(t, e);
+  }
+  // What a unit read wrong does: a_y in m/s2 read as g is 9.81 times too large (and in g read
+  // as m/s2 9.81 times too small); a yaw rate in deg/s read as rad/s is 57.3 times too large;
+  // a speed in km/h read as m/s makes a_y / v^2 3.6^2 times too small.
+  // The hint names the mistake that scales curvature the way seen: a number in the smaller
+  // unit read as the larger one is too large (m/s2 read as g, deg/s read as rad/s).
+  auto unit_hint = [&](bool too_large) {
+    const std::string what = by_yaw ? "a yaw rate" : "a lateral acceleration";
+    const std::string option = by_yaw ? "--yaw-unit" : "--accel-unit";
+    const std::string now = by_yaw ? o.yaw_unit : o.accel_unit;
+    const std::string larger = by_yaw ? "rad/s" : "g", smaller = by_yaw ? "deg/s" : "m/s2";
+    const std::string factor = by_yaw ? "57.3" : "9.81";
+    std::string hint = "check " + option + " (" + now + " now)";
+    if (too_large && now == larger)
+      hint = what + " in " + smaller + " read as " + larger + " is " + factor +
+             " times too large: if the log is in " + smaller + ", give " + option + " " + smaller;
+    if (!too_large && now == smaller)
+      hint = what + " in " + larger + " read as " + smaller + " is " + factor +
+             " times too small: if the log is in " + larger + ", give " + option + " " + larger;
+    return hint + "; else check --speed-unit (" + o.speed_unit + " now) and the columns given";
+  };
+  // No car corners at more than 8 g: curvature x speed^2 beyond that is a unit read wrong (on
+  // the filtered curvature, so that one spiky sample cannot refuse a log).
+  if (lc.peak_lateral_g > log_max_lateral_g) {
+    std::ostringstream os;
+    os.precision(3);
+    os << "the log implies a lateral acceleration of " << lc.peak_lateral_g
+       << " g here (curvature x speed^2, filtered over " << lc.smoothing_m << " m), more than the "
+       << log_max_lateral_g << " g no car exceeds: " << unit_hint(true);
+    throw InputError(o.log, Mark{t.lines[lc.peak_row], 1}, os.str());
+  }
+  // A lap logged right closes to within the drift of its sensors; a gap that is a good part of
+  // the lap is curvature scaled wrong, and spreading it would draw another track.
+  if (o.closed && lc.closure_gap_m > log_max_closure_fraction * lc.length_m) {
+    std::ostringstream os;
+    os.precision(4);
+    os << "the lap does not close: with its heading closed its end is " << lc.closure_gap_m
+       << " m from its start, more than " << 100 * log_max_closure_fraction << " % of the lap's "
+       << lc.length_m << " m (its curvature adds up to " << lc.turns
+       << " turns where a lap makes a whole number): "
+       // Fewer than one turn: curvature too small (the usual case); more: too large.
+       << unit_hint(std::abs(lc.turns) > 1.0);
+    throw InputError(o.log, Mark{}, os.str());
+  }
+  LogTrack out{};
+  out.length_m = lc.length_m;
+  out.start_speed_mps = v0;
+  out.peak_lateral_g = lc.peak_lateral_g;
+  out.closure_heading_deg = lc.closure_heading_deg;
+  out.closure_gap_m = lc.closure_gap_m;
+  out.smoothing_m = lc.smoothing_m;
+  out.smoothing = lc.smoothing;
+  CsvWriter<ProfileRow> csv(profile_columns, lc.s_m.size());
+  for (std::size_t j = 0; j < lc.s_m.size(); ++j) csv.add({lc.s_m[j], lc.curvature_1pm[j]});
+  std::ostringstream y_out;
+  const std::string name = o.name.empty() ? std::filesystem::path(o.log).stem().string() : o.name;
+  y_out << "# Made by 'lapwing track from-log' from "
+        << std::filesystem::path(o.log).filename().string() << ": curvature from "
+        << (by_yaw ? "yaw rate / speed" : "lateral acceleration / speed^2") << ", filtered over "
+        << fixed(lc.smoothing_m, 1) << " m"
+        << (lc.smoothing.automatic ? " (auto: generalised cross-validation)" : "") << ".\n";
+  y_out << "format: 1\nname: " << json_quote(name) << "\nclosed: " << (o.closed ? "true" : "false")
+        << "\n";
+  if (!o.closed) y_out << "start_speed: " << format_number(v0) << " m/s  # the log's first\n";
+  y_out << air_yaml(o.air);
+  y_out << "mesh: 0.5 m\ncurvature: {file: " << json_quote(csv_name) << "}\n";
+  out.yaml = y_out.str();
+  out.csv = csv.take();
+  return out;
+}
+
+}  // namespace lapwing

@@ -1,0 +1,111 @@
+#include "lapwing/io/track_data.hpp"
+
+#include <algorithm>
+
+#include "lapwing/base/error.hpp"
+#include "lapwing/io/csv.hpp"
+#include "lapwing/path/curvature_profile.hpp"
+
+namespace lapwing {
+
+namespace {
+
+// A note naming the columns of `t` that are not among `used`: data the user may think was read.
+void note_unused_columns(const CsvTable& t, const std::vector<std::string>& used,
+                         const std::string& reads, PathProfile& p) {
+  std::string unused;
+  int count = 0;
+  for (const auto& name : t.names)
+    if (std::find(used.begin(), used.end(), name) == used.end()) {
+      unused += (unused.empty() ? "'" : ", '") + name + "'";
+      ++count;
+    }
+  if (count > 0)
+    p.notes.push_back(t.file + ": column" + (count > 1 ? "s " : " ") + unused + " not used (" +
+                      reads + ")");
+}
+
+}  // namespace
+
+ProfileFile read_centerline_file(const std::string& file, bool closed, const CenterlineOptions& o) {
+  const CsvTable t = read_csv(file, 10);
+  try {
+    CenterlinePoints points;
+    bool geodetic = false;
+    if (t.find("x_m") >= 0 || t.find("y_m") >= 0) {
+      require_no_duplicates(t, {"x_m", "y_m"});
+      points.source = file;
+      points.x_m = t.column("x_m");
+      points.y_m = t.column("y_m");
+      if (t.find("z_m") >= 0) points.z_m = t.column("z_m");
+    } else if (t.find("lat_deg") >= 0 || t.find("lon_deg") >= 0) {
+      require_no_duplicates(t, {"lat_deg", "lon_deg"});
+      const auto& lat = t.column("lat_deg");
+      const auto& lon = t.column("lon_deg");
+      points = project_wgs84(file, lat, lon,
+                             t.find("alt_m") >= 0 ? t.column("alt_m") : std::vector<double>{});
+      geodetic = true;
+    } else {
+      throw InputError(file, Mark{1, 1},
+                       "a centerline needs columns x_m,y_m[,z_m] or lat_deg,lon_deg[,alt_m]");
+    }
+    // Widths: both columns or neither (each > 0: fit_centerline's rule).
+    {
+      const int left = t.find("width_left_m"), right = t.find("width_right_m");
+      if ((left >= 0) != (right >= 0))
+        throw InputError(file, Mark{1, 1},
+                         std::string("a centerline with widths needs both width_left_m and "
+                                     "width_right_m (only ") +
+                             (left >= 0 ? "width_left_m" : "width_right_m") + " is given)");
+      if (left >= 0) {
+        points.width_left_m = t.column("width_left_m");
+        points.width_right_m = t.column("width_right_m");
+      }
+    }
+    ProfileFile out{fit_centerline(points, closed, o), t.lines};
+    out.profile.geodetic = geodetic;
+    note_unused_columns(
+        t,
+        geodetic ? std::vector<std::string>{"lat_deg", "lon_deg", "alt_m", "width_left_m",
+                                            "width_right_m"}
+                 : std::vector<std::string>{"x_m", "y_m", "z_m", "width_left_m", "width_right_m"},
+        "a centerline reads x_m, y_m, z_m or lat_deg, lon_deg, alt_m, and width_left_m, "
+        "width_right_m",
+        out.profile);
+    return out;
+  } catch (const InvalidInput& e) {
+    if (e.subject() != file) throw;  // not the data's (bad options)
+    throw row_error(t, e);
+  }
+}
+
+ProfileFile read_curvature_file(const std::string& file) {
+  const CsvTable t = read_csv(file, 10);
+  require_increasing(t, "distance_m");
+  try {
+    const auto& d = t.column("distance_m");
+    const auto& k = t.column("curvature_1pm");
+    ProfileFile out{
+        profile_from_curvature(file, d, k,
+                               t.find("grade") >= 0 ? t.column("grade") : std::vector<double>{}),
+        t.lines};
+    out.profile.has_bank = t.find("bank_deg") >= 0;
+    note_unused_columns(t, {"distance_m", "curvature_1pm", "grade", "bank_deg"},
+                        "a curvature profile reads distance_m, curvature_1pm, grade, bank_deg",
+                        out.profile);
+    return out;
+  } catch (const InvalidInput& e) {
+    if (e.subject() != file) throw;  // not the data's (bad options)
+    throw row_error(t, e);
+  }
+}
+
+PathProfile import_centerline(const std::string& file, bool closed, const CenterlineOptions& o) {
+  return read_centerline_file(file, closed, o).profile;
+}
+
+PathProfile import_curvature(const std::string& file) {
+  return read_curvature_file(file).profile;
+}
+
+}  // namespace lapwing

@@ -1,0 +1,19 @@
+#include "lapwing/model/tyre.hpp"
+
+namespace lapwing {
+
+std::optional<Violation> Tyres::validate() const {
+  // Peak friction up to 3: beyond any tyre on a dry road (common practice).
+  constexpr Range friction{0.0, 3.0, true, false};
+  return FirstViolation()
+      .range("mu_long", mu_long, friction, Quantity::number)
+      .range("mu_lat", mu_lat, friction, Quantity::number)
+      .range("nominal_load", nominal_load_n, positive(), Quantity::force)
+      .range("load_sensitivity", load_sensitivity, Range{0.0, 1.0, false, true}, Quantity::number)
+      .range("ellipse_exponent", ellipse_exponent, Range{1.0, 10.0}, Quantity::number)
+      .range("rolling_radius", rolling_radius_m, Range{0.0, 2.0, true, false}, Quantity::length)
+      .range("rolling_resistance", rolling_resistance, Range{0.0, 0.1}, Quantity::number)
+      .result();
+}
+
+}  // namespace lapwing

@@ -1,0 +1,191 @@
+#include "lapwing/path/log_curvature.hpp"
+
+#include <algorithm>
+#include <cmath>
+#include <string>
+
+#include "lapwing/base/error.hpp"
+#include "lapwing/base/units.hpp"
+#include "lapwing/model/track.hpp"
+#include "lapwing/path/curvature_profile.hpp"
+#include "lapwing/path/smoothing.hpp"
+
+namespace lapwing {
+
+std::optional<Violation> LogCurvatureOptions::validate() const {
+  FirstViolation f;
+  if (smoothing_m) f.range("smoothing", *smoothing_m, positive(), Quantity::length);
+  return f.range("min_speed", min_speed_mps, positive(), Quantity::speed).result();
+}
+
+LogCurvature log_curvature(const LogChannels& log, const LogCurvatureOptions& o) {
+  require_valid(o.validate(), "log options");
+  const std::vector<double>& v = log.speed_mps;
+  const bool by_distance = !log.distance_m.empty(), by_yaw = !log.yaw_rate_radps.empty();
+  const std::vector<double>& along = by_distance ? log.distance_m : log.time_s;
+  const std::vector<double>& turning = by_yaw ? log.yaw_rate_radps : log.lat_accel_mps2;
+  require_valid(FirstViolation()
+                    .rule(v.size() >= 2, "speed_mps", "a log needs at least 2 rows")
+                    .rule(along.size() == v.size(), by_distance ? "distance_m" : "time_s",
+                          "give the distance or the time of every row")
+                    .order(by_distance ? "distance_m" : "time_s", along, true)
+                    .rule(turning.size() == v.size(), by_yaw ? "yaw_rate_radps" : "lat_accel_mps2",
+                          "give the lateral acceleration or the yaw rate of every row")
+                    .result(),
+                log.source);
+  auto row_path = [](const char* column, std::size_t i) {
+    return std::string(column) + "[" + std::to_string(i) + "]";
+  };
+  // Distance: given, or integrated from time.
+  std::vector<double> s(v.size(), 0.0);
+  if (by_distance) {
+    for (std::size_t i = 0; i < s.size(); ++i) s[i] = along[i] - along[0];
+  } else {
+    for (std::size_t i = 1; i < s.size(); ++i)
+      s[i] = s[i - 1] + 0.5 * (v[i] + v[i - 1]) * (along[i] - along[i - 1]);
+    for (std::size_t i = 1; i < s.size(); ++i)
+      if (!(s[i] > s[i - 1]))
+        throw InvalidInput(log.source, broken_rule("", "the car does not move between these rows",
+                                                   row_path("time_s", i)));
+  }
+  // Curvature: a_y / v^2 or yaw rate / v, bridged over slow rows.
+  std::vector<double> k(v.size(), 0.0);
+  std::vector<bool> ok(v.size(), false);
+  for (std::size_t i = 0; i < k.size(); ++i)
+    if (v[i] >= o.min_speed_mps)
+      k[i] = by_yaw ? turning[i] / v[i] : turning[i] / (v[i] * v[i]), ok[i] = true;
+  {
+    // Linear bridges over rows too slow to read curvature from.
+    std::size_t last = k.size();
+    for (std::size_t i = 0; i < k.size(); ++i) {
+      if (!ok[i]) continue;
+      if (last == k.size())
+        for (std::size_t j = 0; j < i; ++j) k[j] = k[i];
+      else
+        for (std::size_t j = last + 1; j < i; ++j)
+          k[j] = k[last] + (k[i] - k[last]) * (s[j] - s[last]) / (s[i] - s[last]);
+      last = i;
+    }
+    if (last == k.size())
+      throw InvalidInput(log.source,
+                         broken_rule("", "no row is fast enough to read curvature from"));
+    for (std::size_t j = last + 1; j < k.size(); ++j) k[j] = k[last];
+  }
+  // Resample evenly and filter.
+  const double length = s.back();
+  if (length > PathProfile::max_length_m)
+    throw InvalidInput(log.source, broken_rule("", "the log covers more than 200 km",
+                                               row_path("speed_mps", v.size() - 1)));
+  const double h = 0.5;
+  const std::size_t n = static_cast<std::size_t>(std::llround(length / h));
+  const double step = length / static_cast<double>(n);
+  std::vector<double> rs(n + 1), rk(n + 1), rv(n + 1);
+  std::vector<std::size_t> row(n + 1);  // the log row nearest each sample (for errors)
+  std::size_t seg = 0;
+  for (std::size_t j = 0; j <= n; ++j) {
+    const double sj = std::min(length, static_cast<double>(j) * step);
+    while (seg + 2 < s.size() && s[seg + 1] < sj) ++seg;
+    const double w = (sj - s[seg]) / (s[seg + 1] - s[seg]);
+    rs[j] = sj;
+    rk[j] = k[seg] + w * (k[seg + 1] - k[seg]);
+    rv[j] = v[seg] + w * (v[seg + 1] - v[seg]);
+    row[j] = w < 0.5 ? seg : seg + 1;
+  }
+  LogCurvature out;
+  out.length_m = length;
+  // The filter's length: given, or chosen by GCV on the curvature resampled at the log's own
+  // median row spacing (so that the samples are about the rows and their noise stays
+  // independent from one to the next, as GCV assumes). Second differences, as the filter; a
+  // closed lap's curvature is periodic.
+  constexpr int log_order = 2;
+  if (o.smoothing_m) {
+    out.smoothing_m = *o.smoothing_m;
+  } else {
+    std::vector<double> gaps(s.size() - 1);
+    for (std::size_t i = 1; i < s.size(); ++i) gaps[i - 1] = s[i] - s[i - 1];
+    std::nth_element(gaps.begin(), gaps.begin() + static_cast<std::ptrdiff_t>(gaps.size() / 2),
+                     gaps.end());
+    const std::size_t nr = std::max<std::size_t>(
+        10, static_cast<std::size_t>(std::llround(length / gaps[gaps.size() / 2])));
+    const double hr = length / static_cast<double>(nr);
+    std::vector<double> kr;
+    std::size_t at = 0;
+    for (std::size_t j = 0; j < (o.closed ? nr : nr + 1); ++j) {
+      const double sj = std::min(length, static_cast<double>(j) * hr);
+      while (at + 2 < s.size() && s[at + 1] < sj) ++at;
+      const double w = (sj - s[at]) / (s[at + 1] - s[at]);
+      kr.push_back(k[at] + w * (k[at + 1] - k[at]));
+    }
+    // From 2 to 100 row spacings (as a centerline's points: centerline.hpp).
+    const double lo = 2.0 * hr;
+    const double hi = std::max(lo, std::min(100.0 * hr, 0.5 * length));
+    const SmoothingChoice g = choose_smoothing({kr}, hr, log_order, o.closed, lo, hi);
+    out.smoothing_m = g.length_m;
+    out.smoothing.automatic = true;
+    out.smoothing.noise_rms = g.noise_rms;
+    out.smoothing.chosen_at_spacing_m = hr;
+    out.smoothing.at_lower_bound = g.at_lower_bound;
+    out.smoothing.at_upper_bound = g.at_upper_bound;
+    out.smoothing.exact_trace = g.exact_trace;
+  }
+  if (o.closed) {
+    // Periodic: the last sample is the first again.
+    rk.pop_back();
+    rk = smooth(rk, step, out.smoothing_m, log_order, true);
+    rk.push_back(rk.front());
+  } else {
+    rk = smooth(rk, step, out.smoothing_m, log_order, false);
+  }
+  // The peak lateral acceleration, on the filtered curvature (one spiky sample says little).
+  {
+    std::size_t worst = 0;
+    double peak = 0.0;
+    for (std::size_t j = 0; j <= n; ++j) {
+      const double ay = std::abs(rk[j]) * rv[j] * rv[j];
+      if (ay > peak) peak = ay, worst = j;
+    }
+    out.peak_lateral_g = peak / units::g0;
+    out.peak_row = row[worst];
+  }
+  std::vector<double> x, y, th;
+  integrate_path(rs, rk, x, y, &th);
+  if (o.closed) {
+    // Heading: a whole number of turns. Spread the difference as a constant curvature change.
+    const double turns = std::round(th.back() / (2 * units::pi));
+    const double dth = turns * 2 * units::pi - th.back();
+    out.closure_heading_deg = -dth / units::deg;  // before spreading
+    out.turns = th.back() / (2 * units::pi);
+    for (double& kk : rk) kk += dth / length;
+    integrate_path(rs, rk, x, y, &th);
+    out.closure_gap_m = std::hypot(x.back() - x.front(), y.back() - y.front());
+    // Position: heading changes d(theta)(s) = a sin(pi s / L) + b sin(2 pi s / L), which vanish
+    // at both ends (the heading still closes), chosen so that the end moves by minus the gap:
+    // d(end) = integral of (-sin(theta), cos(theta)) d(theta) ds. A few Newton passes.
+    for (int pass = 0; pass < 4; ++pass) {
+      const double gx = x.back() - x.front(), gy = y.back() - y.front();
+      double m11 = 0, m12 = 0, m21 = 0, m22 = 0;
+      for (std::size_t j = 0; j < n; ++j) {
+        const double sm = 0.5 * (rs[j] + rs[j + 1]), tj = 0.5 * (th[j] + th[j + 1]);
+        const double f1 = std::sin(units::pi * sm / length),
+                     f2 = std::sin(2 * units::pi * sm / length);
+        m11 += -std::sin(tj) * f1 * step;
+        m12 += -std::sin(tj) * f2 * step;
+        m21 += std::cos(tj) * f1 * step;
+        m22 += std::cos(tj) * f2 * step;
+      }
+      const double det = m11 * m22 - m12 * m21;
+      if (std::abs(det) < 1e-12) break;
+      const double a = (-gx * m22 + gy * m12) / det, b = (-m11 * gy + m21 * gx) / det;
+      // d(kappa) = d/ds of d(theta).
+      for (std::size_t j = 0; j <= n; ++j)
+        rk[j] += a * units::pi / length * std::cos(units::pi * rs[j] / length) +
+                 b * 2 * units::pi / length * std::cos(2 * units::pi * rs[j] / length);
+      integrate_path(rs, rk, x, y, &th);
+    }
+  }
+  out.s_m = std::move(rs);
+  out.curvature_1pm = std::move(rk);
+  return out;
+}
+
+}  // namespace lapwing
