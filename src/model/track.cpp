@@ -45,6 +45,7 @@ std::optional<Violation> Segment::validate() const {
       f.rule(k0 == 0.0 && k1 == 0.0, "straight", "a straight has no curvature")
           .range("straight.length", length_m, length_range, Quantity::length)
           .range("straight.grade", grade, grade_range, Quantity::fraction);
+      if (width_m) f.range("straight.width", *width_m, width_range, Quantity::length);
       break;
     case Kind::arc:
       f.rule(k0 == k1 && k0 != 0.0, "arc", "an arc has one curvature, and not zero");
