@@ -27,12 +27,14 @@
 #include "lapwing/model/tyre.hpp"
 
 // path
+#include "lapwing/path/box_qp.hpp"
 #include "lapwing/path/centerline.hpp"
 #include "lapwing/path/corners.hpp"
 #include "lapwing/path/curvature_profile.hpp"
 #include "lapwing/path/geodesy.hpp"
 #include "lapwing/path/log_curvature.hpp"
 #include "lapwing/path/mesh.hpp"
+#include "lapwing/path/racing_line.hpp"
 #include "lapwing/path/smoothing.hpp"
 
 // io
@@ -41,6 +43,7 @@
 #include "lapwing/io/csv_writer.hpp"
 #include "lapwing/io/document.hpp"
 #include "lapwing/io/json.hpp"
+#include "lapwing/io/line_track.hpp"
 #include "lapwing/io/log_file.hpp"
 #include "lapwing/io/output.hpp"
 #include "lapwing/io/source_map.hpp"
@@ -56,7 +59,9 @@
 // study
 #include "lapwing/study/circuit.hpp"
 #include "lapwing/study/compare.hpp"
+#include "lapwing/study/min_time_line.hpp"
 #include "lapwing/study/thread_pool.hpp"
+#include "lapwing/study/track_quality.hpp"
 #include "lapwing/study/trade.hpp"
 
 // report
@@ -67,5 +72,6 @@
 #include "lapwing/report/lap_text.hpp"
 #include "lapwing/report/svg.hpp"
 #include "lapwing/report/text_table.hpp"
+#include "lapwing/report/track_quality_text.hpp"
 #include "lapwing/report/trade_report.hpp"
 #include "lapwing/report/verdict.hpp"

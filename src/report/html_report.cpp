@@ -13,6 +13,7 @@
 #include "lapwing/report/cells.hpp"
 #include "lapwing/report/svg.hpp"
 #include "lapwing/report/text_table.hpp"
+#include "lapwing/report/track_quality_text.hpp"
 #include "lapwing/report/trade_report.hpp"
 #include "lapwing/report/verdict.hpp"
 #include "traces_js.hpp"
@@ -151,6 +152,7 @@ td a.corner-link { color: #0072B2; }
 figure { margin: 8px 0 18px; min-width: 0; }
 figcaption { color: var(--muted); font-size: 12px; margin-top: 2px; }
 p.note { color: var(--muted); font-size: 12px; margin: -8px 0 14px; }
+p.quality { font-size: 13px; }
 .pair { display: grid; gap: 8px 24px;
         grid-template-columns: repeat(auto-fill, minmax(min(100%, 520px), 1fr)); }
 svg.plot { display: block; width: 100%; height: auto; background: var(--paper); }
@@ -456,26 +458,52 @@ std::string map_plot(const TrackView& v) {
          "Track map coloured by speed (" + shorten_middle(v.names[v.pt.best], 24) + ")", "x (m)",
          "y (m)", 640, 520);
   p.equal_aspect();
-  Series outline{"", {}, {}, 6, false, 0.8};
+  const bool edges = !mesh.width_left_m.empty();
+  // A thin dark outline of the path; with edges it is not drawn (the coloured path shows between
+  // them) but still sets the plot's extent, edges included.
+  Series outline{"", {}, {}, 6, false, edges ? 0.0 : 0.8};
   const auto at = picks(mesh.size(), trace_points);
   for (std::size_t i : at) {
     outline.x.push_back(mesh.x_m[i]);
     outline.y.push_back(mesh.y_m[i]);
   }
+  if (edges)
+    for (std::size_t i : at)
+      for (const double w : {mesh.width_left_m[i], -mesh.width_right_m[i]}) {
+        outline.x.push_back(mesh.x_m[i] - w * std::sin(mesh.heading_rad[i]));
+        outline.y.push_back(mesh.y_m[i] + w * std::cos(mesh.heading_rad[i]));
+      }
   p.add(outline);
   const double vmin = *std::min_element(lap.speed_mps.begin(), lap.speed_mps.end());
   const double vmax = *std::max_element(lap.speed_mps.begin(), lap.speed_mps.end());
   const svg::Scale sx = p.x_scale(), sy = p.y_scale();
   std::string cells;
   char buf[200];
+  if (edges) {
+    // The track's edges: left and right of the path lapped along its normal, x - w sin(heading),
+    // y + w cos(heading) to the left; thin grey lines either side of the path.
+    for (const int side : {1, -1}) {
+      cells += "<polyline fill=\"none\" stroke=\"#8a8a8a\" stroke-width=\"1\" points=\"";
+      for (std::size_t i : at) {
+        const double w = side > 0 ? mesh.width_left_m[i] : -mesh.width_right_m[i];
+        std::snprintf(buf, sizeof buf, "%.1f,%.1f ",
+                      sx(mesh.x_m[i] - w * std::sin(mesh.heading_rad[i])),
+                      sy(mesh.y_m[i] + w * std::cos(mesh.heading_rad[i])));
+        cells += buf;
+      }
+      cells += "\"/>";
+    }
+  }
+  // The path coloured by speed: narrower between the edges, so that they show.
+  const char* path_width = edges ? "3" : "6";
   for (std::size_t a = 0; a + 1 < at.size(); ++a) {
     const std::size_t i = at[a], j = at[a + 1];
     const double t = vmax > vmin ? (lap.speed_mps[i] - vmin) / (vmax - vmin) : 0.5;
     std::snprintf(buf, sizeof buf,
                   "<line x1=\"%.1f\" y1=\"%.1f\" x2=\"%.1f\" y2=\"%.1f\" stroke=\"%s\" "
-                  "stroke-width=\"6\" stroke-linecap=\"round\"/>",
+                  "stroke-width=\"%s\" stroke-linecap=\"round\"/>",
                   sx(mesh.x_m[i]), sy(mesh.y_m[i]), sx(mesh.x_m[j]), sy(mesh.y_m[j]),
-                  svg::ramp_colour(t).c_str());
+                  svg::ramp_colour(t).c_str(), path_width);
     cells += buf;
   }
   p.underlay(cells + "\n");
@@ -493,7 +521,14 @@ std::string map_plot(const TrackView& v) {
   }
   return figure(p.render(), "Colour: speed of " + v.names[v.pt.best] +
                                 " (scale beside the map). Numbers are corners; the lap starts "
-                                "at (0, 0).");
+                                "at (0, 0)." +
+                                (edges ? v.c.track.line_path
+                                             ? " Thin grey lines: the track's edges; the coloured "
+                                               "path is the racing line lapped."
+                                             : " Thin grey lines: the track's edges; the coloured "
+                                               "path is the one lapped (its centerline, or a line "
+                                               "written as one)."
+                                       : ""));
 }
 
 std::string gg_plot(const TrackView& v) {
@@ -763,6 +798,19 @@ std::string html_report(const ReportInput& in) {
       const TrackView v{c, pt, names, c.track.id};
       const std::string id = escape(c.track.id);
       o += "<section id=\"track-" + id + "\"><h2>" + escape(c.track.name) + "</h2>\n";
+      // The data's verdict: the worst of the configs' (they differ only in the lap spread).
+      if (in.qualities) {
+        const TrackQuality* shown = nullptr;
+        for (const auto& q : *in.qualities)
+          if (q.track_id == c.track.id &&
+              (!shown || q.verdict > shown->verdict ||
+               (q.verdict == shown->verdict && q.spread.value_or(0) > shown->spread.value_or(0))))
+            shown = &q;
+        if (shown)
+          o += "<p class=\"quality\" id=\"quality-" + id + "\">" +
+               (shown->verdict == Verdict::poor ? "<strong>warning:</strong> " : "") +
+               escape(quality_line(*shown)) + "</p>\n";
+      }
       if (pt.entries.size() > 1) o += verdict_html(c.track.name, pt, names);
       // The traces: static SVG, and the data the script draws the live plots from.
       o += "<div class=\"traces\" id=\"traces-" + id + "\">\n";

@@ -4,6 +4,7 @@
 #include "lapwing/base/version.hpp"
 #include "lapwing/io/csv_writer.hpp"
 #include "lapwing/report/cells.hpp"
+#include "lapwing/report/track_quality_text.hpp"
 
 namespace lapwing {
 
@@ -99,7 +100,8 @@ void write_balance_window(JsonWriter& w, const BalanceWindowResult& r) {
   w.end_object();
 }
 
-std::string summary_json(const std::string& car_name, const std::vector<LapSummary>& results) {
+std::string summary_json(const std::string& car_name, const std::vector<LapSummary>& results,
+                         const std::vector<TrackQuality>& qualities) {
   JsonWriter w;
   w.begin_object().field("lapwing", version()).field("car", car_name);
   w.key("results").begin_array();
@@ -141,6 +143,8 @@ std::string summary_json(const std::string& car_name, const std::vector<LapSumma
     }
     w.end_array();
     write_balance(w, s.balance);
+    for (const auto& q : qualities)
+      if (q.track_id == s.track_id && q.config == s.config) write_track_quality(w, q);
     w.end_object();
   }
   w.end_array().end_object();

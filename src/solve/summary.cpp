@@ -241,9 +241,10 @@ LapSummary summarize(const Lap& lap, const Mesh& mesh, const Track& track,
   s.full_throttle_fraction = full / lap.lap_time_s;
   s.braking_fraction = brake / lap.lap_time_s;
 
-  for (std::size_t k = 0; k < track.sectors_m.size(); ++k) {
-    const double a = track.sectors_m[k];
-    const double b = k + 1 < track.sectors_m.size() ? track.sectors_m[k + 1] : mesh.length_m;
+  const std::vector<double> sectors = lapped_sectors_m(track);
+  for (std::size_t k = 0; k < sectors.size(); ++k) {
+    const double a = sectors[k];
+    const double b = k + 1 < sectors.size() ? sectors[k + 1] : mesh.length_m;
     s.sectors_s.push_back(time_at(lap, mesh, b) - time_at(lap, mesh, a));
   }
 
