@@ -239,7 +239,8 @@ void describe_config(const Car& car, std::size_t index, const Air& air, std::str
     const double share = p.balance;
     const std::optional<double> with_moment = aero_balance_with_drag_moment(
         p.cla_m2, p.cda_m2, p.balance, cc.drag_height_m, cc.wheelbase_m);
-    const double front_aero = down * p.balance - drag * cc.drag_height_m / cc.wheelbase_m;
+    const double front_aero =
+        aero_axle_loads(down, p.balance, drag, cc.drag_height_m, cc.wheelbase_m).front_n;
     if (!with_moment) no_downforce = true;
     std::vector<std::string> row{fixed(speed_kph, 0),
                                  fixed(down, 0),

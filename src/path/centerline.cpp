@@ -5,6 +5,7 @@
 #include <string>
 
 #include "lapwing/base/error.hpp"
+#include "lapwing/base/interpolate.hpp"
 #include "lapwing/path/geodesy.hpp"
 #include "lapwing/path/smoothing.hpp"
 
@@ -136,15 +137,14 @@ PathProfile fit_centerline(const CenterlinePoints& points, bool closed,
   const double h = total / static_cast<double>(n);
   const std::size_t samples = closed ? n : n + 1;
   std::vector<double> rx(samples), ry(samples), rz(z.empty() ? 0 : samples);
-  std::size_t seg = 0;
+  AxisWalk walk(c);
   for (std::size_t j = 0; j < samples; ++j) {
     const double s = std::min(total, static_cast<double>(j) * h);
-    while (seg + 2 < c.size() && c[seg + 1] < s) ++seg;
-    const std::size_t a = seg, b = (seg + 1) % m;
-    const double w = c[seg + 1] > c[seg] ? (s - c[seg]) / (c[seg + 1] - c[seg]) : 0.0;
-    rx[j] = x[a] + w * (x[b] - x[a]);
-    ry[j] = y[a] + w * (y[b] - y[a]);
-    if (!z.empty()) rz[j] = z[a] + w * (z[b] - z[a]);
+    const Bracket w = walk.at(s);
+    const std::size_t a = w.i, b = (w.i + 1) % m;  // a closed path's last piece ends at point 0
+    rx[j] = lerp(x[a], x[b], w.w);
+    ry[j] = lerp(y[a], y[b], w.w);
+    if (!z.empty()) rz[j] = lerp(z[a], z[b], w.w);
   }
   // The fit.
   constexpr int order = 3;

@@ -2,7 +2,9 @@
 
 #include <algorithm>
 #include <cmath>
+
 #include <string>
+#include "lapwing/base/interpolate.hpp"
 
 #include "lapwing/base/error.hpp"
 #include "lapwing/base/units.hpp"
@@ -64,7 +66,7 @@ LogCurvature log_curvature(const LogChannels& log, const LogCurvatureOptions& o)
         for (std::size_t j = 0; j < i; ++j) k[j] = k[i];
       else
         for (std::size_t j = last + 1; j < i; ++j)
-          k[j] = k[last] + (k[i] - k[last]) * (s[j] - s[last]) / (s[i] - s[last]);
+          k[j] = lerp(k[last], k[i], (s[j] - s[last]) / (s[i] - s[last]));
       last = i;
     }
     if (last == k.size())
@@ -82,15 +84,14 @@ LogCurvature log_curvature(const LogChannels& log, const LogCurvatureOptions& o)
   const double step = length / static_cast<double>(n);
   std::vector<double> rs(n + 1), rk(n + 1), rv(n + 1);
   std::vector<std::size_t> row(n + 1);  // the log row nearest each sample (for errors)
-  std::size_t seg = 0;
+  AxisWalk walk(s);
   for (std::size_t j = 0; j <= n; ++j) {
     const double sj = std::min(length, static_cast<double>(j) * step);
-    while (seg + 2 < s.size() && s[seg + 1] < sj) ++seg;
-    const double w = (sj - s[seg]) / (s[seg + 1] - s[seg]);
+    const Bracket w = walk.at(sj);
     rs[j] = sj;
-    rk[j] = k[seg] + w * (k[seg + 1] - k[seg]);
-    rv[j] = v[seg] + w * (v[seg + 1] - v[seg]);
-    row[j] = w < 0.5 ? seg : seg + 1;
+    rk[j] = at(k, w);
+    rv[j] = at(v, w);
+    row[j] = w.w < 0.5 ? w.i : w.i + 1;
   }
   rk = smooth(rk, step, o.smoothing_m, 2, false);
   LogCurvature out;

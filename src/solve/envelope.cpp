@@ -74,7 +74,7 @@ double level_top_speed_bound(const Car& car, double rho, double step, double cei
   // Resistance on the level: 0.5 rho CdA v^2 + Crr (m g + 0.5 rho ClA v^2).
   auto resistance = [&](double cda, double cla, double v) {
     const double q = 0.5 * rho * v * v;
-    return cda * q + crr * (weight + cla * q);
+    return resistance_n(cda * q, crr, normal_load_n(weight, 1.0, cla * q), weight, 0.0);
   };
   const std::size_t steps = static_cast<std::size_t>(std::ceil(ceiling / step));
   for (std::size_t k = 1; k <= steps; ++k) {
@@ -198,12 +198,10 @@ Envelope::Envelope(Unchecked, const Car& car, const Air& air, EnvelopeOptions op
 
 AeroPoint Envelope::aero_point(double v) const {
   if (map_points_.empty()) return table_point(car_.configs.front(), v);
-  const double f = std::clamp(v / map_dv_, 0.0, static_cast<double>(map_points_.size() - 1));
-  const std::size_t i = std::min(static_cast<std::size_t>(f), map_points_.size() - 2);
-  const double w = f - static_cast<double>(i);
-  const AeroPoint& p = map_points_[i];
-  const AeroPoint& q = map_points_[i + 1];
-  auto mix = [w](double x, double y) { return x + w * (y - x); };
+  const Bracket b = even_bracket(v / map_dv_, map_points_.size() - 1);
+  const AeroPoint& p = map_points_[b.i];
+  const AeroPoint& q = map_points_[b.i + 1];
+  auto mix = [w = b.w](double x, double y) { return lerp(x, y, w); };
   return {mix(p.cda_m2, q.cda_m2),           mix(p.cla_m2, q.cla_m2),
           mix(p.balance, q.balance),         mix(p.front_ride_m, q.front_ride_m),
           mix(p.rear_ride_m, q.rear_ride_m), p.off_map || q.off_map,

@@ -62,11 +62,11 @@ struct PathForces {
                                                      const Envelope::Rows& rows, double v2,
                                                      double abs_curvature, const Slope& slope) {
   const Envelope::Sample s = rows.at(v2);
-  const double load = env.weight_n() * slope.cos + s.lift_coef * v2;
+  const double load = normal_load_n(env.weight_n(), slope.cos, s.lift_coef * v2);
   const TyreModel::Limits lim = env.tyres().limits(load);
   const double fy = env.mass_kg() * v2 * abs_curvature;
   return {env.tyres().long_force_left(lim, fy),
-          s.drag_coef * v2 + env.rolling_resistance() * load + env.weight_n() * slope.sin,
+          resistance_n(s.drag_coef * v2, env.rolling_resistance(), load, env.weight_n(), slope.sin),
           s.drive_n};
 }
 
@@ -669,7 +669,8 @@ const Lap& LapSolver::solve(const Envelope& env, const Mesh& mesh, double start_
     lap.aero_balance_eff[i] = aero_balance_with_drag_moment(row.lift_coef, row.drag_coef,
                                                             row.balance, car.drag_height_m, wb)
                                   .value_or(std::numeric_limits<double>::quiet_NaN());
-    const double resistance = drag + crr * (weight * slope.cos + down) + weight * slope.sin;
+    const double resistance =
+        resistance_n(drag, crr, normal_load_n(weight, slope.cos, down), weight, slope.sin);
     const AxleUsage use =
         axle_usage(env, loads, m * ax + resistance, v * v * std::abs(mesh.curvature_1pm[i]));
     lap.front_usage[i] = use.front_usage;

@@ -4,6 +4,7 @@
 #include <cmath>
 #include <cstdio>
 
+#include "lapwing/base/interpolate.hpp"
 #include "lapwing/base/units.hpp"
 #include "lapwing/solve/axle.hpp"
 
@@ -118,10 +119,7 @@ std::string limiting_axle(double balance_index) {
 }
 
 double time_at(const Lap& lap, const Mesh& mesh, double s) {
-  const double f = std::clamp(s / mesh.step_m, 0.0, static_cast<double>(mesh.intervals()));
-  const std::size_t i = std::min(static_cast<std::size_t>(f), mesh.intervals() - 1);
-  const double w = f - static_cast<double>(i);
-  return lap.time_s[i] + w * (lap.time_s[i + 1] - lap.time_s[i]);
+  return at(lap.time_s, even_bracket(s / mesh.step_m, mesh.intervals()));
 }
 
 LapSummary summarize(const Lap& lap, const Mesh& mesh, const Track& track,

@@ -1,6 +1,5 @@
-// Balance along the lap: axle loads against a hand-worked state (moments about the rear contact
-// patch; REFERENCES, load transfer), and the axle model against the point mass where they must
-// agree and where they must not.
+// Balance along the lap (the axle loads' formula is tested in model/loads_test.cpp), and the
+// axle model against the point mass where they must agree and where they must not.
 #include <doctest/doctest.h>
 
 #include <algorithm>
@@ -23,23 +22,6 @@ Car formula(std::size_t config) {
   return load_car(test::source_path("cars/pellion-fr2.yaml")).configured(config);
 }
 }  // namespace
-
-TEST_CASE("axle loads at a hand-worked state (moments about the rear contact patch; 1e-9)") {
-  Car car = test::plain_car(700.0);
-  car.front_weight = 0.45;
-  car.cg_height_m = 0.3;
-  car.wheelbase_m = 3.0;
-  car.drag_height_m = 0.5;
-  // W = 700 g0 = 6864.655 N. Front = 0.45 W + 0.40 x 3000 - (1000 x 0.5 + 700 x 2 x 0.3) / 3
-  //       = 3089.09475 + 1200 - 306.6667 = 3982.428083 N; rear = W + 3000 - front.
-  const AxleLoads l = axle_loads(car, 1000.0, 3000.0, 0.40, 1.0, 0.0, 2.0);
-  CHECK(near(l.front_n, 3089.09475 + 1200.0 - 920.0 / 3.0, 1e-9));
-  CHECK(near(l.rear_n, 6864.655 + 3000.0 - l.front_n, 1e-9));
-  // Uphill 5 %: the weight's component along the slope acts at the cg height too.
-  const double c = 1 / std::sqrt(1 + 0.0025), s = 0.05 * c;
-  const AxleLoads up = axle_loads(car, 0.0, 0.0, 0.4, c, s, 0.0);
-  CHECK(near(up.front_n, 6864.655 * (c * 0.45 - s * 0.3 / 3.0), 1e-9));
-}
 
 TEST_CASE("with no aero, no drag height and no acceleration the shares are the static split") {
   Car car = test::plain_car(600.0, 1.5);

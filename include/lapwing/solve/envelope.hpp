@@ -6,9 +6,11 @@
 #include <optional>
 #include <vector>
 
+#include "lapwing/base/interpolate.hpp"
 #include "lapwing/base/violation.hpp"
 #include "lapwing/model/air.hpp"
 #include "lapwing/model/car.hpp"
+#include "lapwing/model/loads.hpp"
 #include "lapwing/model/tyre.hpp"
 
 namespace lapwing {
@@ -100,9 +102,8 @@ class Envelope {
       const double w = f - static_cast<double>(i);
       const Sample& a = rows[i];
       const Sample& b = rows[i + 1];
-      return {
-          a.drive_n + w * (b.drive_n - a.drive_n), a.drag_coef + w * (b.drag_coef - a.drag_coef),
-          a.lift_coef + w * (b.lift_coef - a.lift_coef), a.balance + w * (b.balance - a.balance)};
+      return {lerp(a.drive_n, b.drive_n, w), lerp(a.drag_coef, b.drag_coef, w),
+              lerp(a.lift_coef, b.lift_coef, w), lerp(a.balance, b.balance, w)};
     }
   };
   /// `trimmed` reads the straight-line trim's rows (only where trims() says so).
@@ -137,15 +138,16 @@ class Envelope {
   double weight_n() const { return weight_; }
   double rolling_resistance() const { return crr_; }
 
-  /// Vertical load on the tyres, N = m g cos(theta) + downforce.
+  /// Vertical load on the tyres at speed v (lapwing::normal_load_n, model/loads.hpp).
   double normal_load_n(double v, double cos_grade, bool trimmed = false) const {
-    return weight_ * cos_grade + sample(v, trimmed).lift_coef * v * v;
+    return lapwing::normal_load_n(weight_, cos_grade, sample(v, trimmed).lift_coef * v * v);
   }
-  /// Resistance to motion along the path: drag + rolling resistance + grade.
+  /// Resistance to motion along the path at speed v (lapwing::resistance_n, model/loads.hpp).
   double resistance_n(double v, double cos_grade, double sin_grade, bool trimmed = false) const {
     const Sample s = sample(v, trimmed);
-    return s.drag_coef * v * v + crr_ * (weight_ * cos_grade + s.lift_coef * v * v) +
-           weight_ * sin_grade;
+    return lapwing::resistance_n(s.drag_coef * v * v, crr_,
+                                 lapwing::normal_load_n(weight_, cos_grade, s.lift_coef * v * v),
+                                 weight_, sin_grade);
   }
 
  private:
