@@ -1,6 +1,7 @@
 #include "lapwing/report/cells.hpp"
 
 #include "lapwing/base/format.hpp"
+#include "lapwing/report/labels.hpp"
 #include "lapwing/report/text_table.hpp"
 
 namespace lapwing {
@@ -31,7 +32,7 @@ std::vector<std::string> balance_cells(const BalanceSummary& b) {
 }
 
 std::string axle_cell(const CornerResult& c) {
-  return c.entry_axle + "/" + c.apex_axle + "/" + c.exit_axle;
+  return label(c.entry_axle) + "/" + label(c.apex_axle) + "/" + label(c.exit_axle);
 }
 
 std::string balance_index_cell(const CornerResult& c) {

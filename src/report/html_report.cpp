@@ -8,6 +8,7 @@
 #include "lapwing/base/units.hpp"
 #include "lapwing/base/version.hpp"
 #include "lapwing/report/cells.hpp"
+#include "lapwing/report/labels.hpp"
 #include "lapwing/report/svg.hpp"
 
 namespace lapwing {
@@ -385,7 +386,7 @@ std::string html_report(const ReportInput& in) {
                                      fixed(bc[i].apex_m, 0)};
         for (const auto& e : pt.entries)
           row.push_back(fixed(units::to_kph(e.run.summary.corners[i].apex_mps), 1));
-        row.push_back(bc[i].limit);
+        row.push_back(label(bc[i].limit));
         row.push_back(axle_cell(bc[i]));
         row.push_back(balance_index_cell(bc[i]));
         crows.push_back(row);

@@ -548,16 +548,8 @@ const Lap& LapSolver::solve(const Envelope& env, const Mesh& mesh, double start_
   for (std::size_t i = 0; i < n; ++i) {
     const double v = std::min(fwd.speed_mps[i], bwd.speed_mps[i]);
     lap.speed_mps[i] = v;
-    Phase ph;
-    if (bwd.speed_mps[i] < fwd.speed_mps[i])
-      ph = Phase::brake;
-    else if (fwd.clipped[i])
-      ph = lap.steady.limit[i] == SteadyLimit::grip ? Phase::corner : Phase::top_speed;
-    else if (fwd.cut[i])
-      ph = Phase::shift;
-    else
-      ph = Phase::accelerate;
-    lap.phase[i] = ph;
+    lap.phase[i] = classify_phase(bwd.speed_mps[i] < fwd.speed_mps[i], fwd.clipped[i],
+                                  lap.steady.limit[i], fwd.cut[i]);
   }
 
   // Time: sum of 2 ds / (v_i + v_{i+1}) (SPEC section 6).
@@ -648,9 +640,7 @@ const Lap& LapSolver::solve(const Envelope& env, const Mesh& mesh, double start_
                  : std::clamp(v / car.tyres.rolling_radius_m *
                                   pt.gears[static_cast<std::size_t>(gear - 1)] * pt.final_drive,
                               pt.engine_radps.front(), pt.rev_limit_radps);
-    const bool trimmed = env.trims(std::abs(mesh.curvature_1pm[i])) &&
-                         (lap.phase[i] == Phase::accelerate || lap.phase[i] == Phase::top_speed ||
-                          lap.phase[i] == Phase::shift);
+    const bool trimmed = env.trims(std::abs(mesh.curvature_1pm[i])) && under_drive(lap.phase[i]);
     lap.trimmed[i] = trimmed;
     const Envelope::Sample row = env.sample(v, trimmed);
     const double drag = row.drag_coef * v * v, down = row.lift_coef * v * v;

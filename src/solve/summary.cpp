@@ -112,10 +112,10 @@ std::vector<std::string> lap_range_warnings(const Envelope& env, const Lap& lap,
   return out;
 }
 
-std::string limiting_axle(double balance_index) {
-  if (balance_index > axle_neutral_band) return "front";
-  if (balance_index < -axle_neutral_band) return "rear";
-  return "both";
+Axle limiting_axle(double balance_index) {
+  if (balance_index > axle_neutral_band) return Axle::front;
+  if (balance_index < -axle_neutral_band) return Axle::rear;
+  return Axle::both;
 }
 
 double time_at(const Lap& lap, const Mesh& mesh, double s) {
@@ -142,7 +142,7 @@ LapSummary summarize(const Lap& lap, const Mesh& mesh, const Track& track,
   const std::size_t n = mesh.size();
   auto touch = [&](std::size_t i) {
     const Phase p = lap.phase[i];
-    if (p != Phase::corner && p != Phase::top_speed) return false;
+    if (!on_steady_limit(p)) return false;
     std::size_t before = i - 1, after = i + 1;
     if (i == 0 || i + 1 == n) {
       if (!mesh.closed) return false;
@@ -152,12 +152,11 @@ LapSummary summarize(const Lap& lap, const Mesh& mesh, const Track& track,
     return lap.phase[before] != p && lap.phase[after] != p;
   };
   double full = 0.0, brake = 0.0, trimmed = 0.0;
-  auto is_full = [](Phase p) { return p == Phase::accelerate || p == Phase::top_speed; };
   for (std::size_t i = 0; i + 1 < n; ++i) {
     const double half = 0.5 * (lap.time_s[i + 1] - lap.time_s[i]);
     const Phase a = touch(i) ? lap.phase[i + 1] : lap.phase[i];
     const Phase b = touch(i + 1) ? lap.phase[i] : lap.phase[i + 1];
-    full += half * (is_full(a) + is_full(b));
+    full += half * (full_drive(a) + full_drive(b));
     brake += half * ((a == Phase::brake) + (b == Phase::brake));
     trimmed += half * (lap.trimmed[i] + lap.trimmed[i + 1]);
   }
@@ -201,17 +200,9 @@ LapSummary summarize(const Lap& lap, const Mesh& mesh, const Track& track,
     for (std::size_t i = c.start; i <= c.end && !on_grip_limit; ++i)
       on_grip_limit = lap.phase[i] == Phase::corner &&
                       lap.speed_mps[i] <= lap.speed_mps[apex] * (1.0 + apex_tie);
-    switch (on_grip_limit ? Phase::corner : lap.phase[apex]) {
-      case Phase::corner:
-        r.limit = "grip";
-        break;
-      case Phase::brake:
-        r.limit = "braking";
-        break;
-      default:
-        r.limit = "power";
-        break;
-    }
+    r.limit = on_grip_limit                     ? CornerLimit::grip
+              : lap.phase[apex] == Phase::brake ? CornerLimit::braking
+                                                : CornerLimit::power;
     s.corners.push_back(r);
   }
 
@@ -231,8 +222,7 @@ LapSummary summarize(const Lap& lap, const Mesh& mesh, const Track& track,
   b.lowest_front_share_fast = 0.0;
   b.lowest_front_share_at_m = 0.0;
   for (std::size_t i = 0; i < mesh.size(); ++i) {
-    const bool accelerating = lap.phase[i] == Phase::accelerate || lap.phase[i] == Phase::top_speed;
-    if (!accelerating || lap.speed_mps[i] <= 200.0 * units::kph) continue;
+    if (!full_drive(lap.phase[i]) || lap.speed_mps[i] <= 200.0 * units::kph) continue;
     if (!b.has_fast_acceleration || lap.front_share[i] < b.lowest_front_share_fast) {
       b.lowest_front_share_fast = lap.front_share[i];
       b.lowest_front_share_at_m = mesh.s_m[i];
@@ -240,7 +230,7 @@ LapSummary summarize(const Lap& lap, const Mesh& mesh, const Track& track,
     }
   }
   for (const auto& c : s.corners)
-    if (c.apex_axle == "front") b.front_limited_corners.push_back(c.id);
+    if (c.apex_axle == Axle::front) b.front_limited_corners.push_back(c.id);
   b.threshold = balance_index_threshold;
   b.front_limited_length_m = 0.0;
   for (std::size_t i = 0; i + 1 < mesh.size(); ++i) {

@@ -9,6 +9,7 @@
 
 #include "lapwing/report/cells.hpp"
 #include "lapwing/report/html_report.hpp"
+#include "lapwing/report/labels.hpp"
 #include "lapwing/study/trade.hpp"
 #include "test_support.hpp"
 
@@ -168,7 +169,7 @@ TEST_CASE("run's single-lap page: speed, map, balance, g-g and the corners table
     const std::size_t at = html.find(row);
     REQUIRE(at != std::string::npos);
     const std::string rest = html.substr(at, html.find("</tr>", at) - at);
-    CHECK(rest.find(">" + corner.limit + "<") != std::string::npos);
+    CHECK(rest.find(">" + label(corner.limit) + "<") != std::string::npos);
     CHECK(rest.find(">" + axle_cell(corner) + "<") != std::string::npos);
     CHECK(rest.find(">" + balance_index_cell(corner) + "<") != std::string::npos);
   }

@@ -236,6 +236,41 @@ TEST_CASE("an upshift cuts the drive for shift_time and costs time") {
   CHECK(with.lap_time_s - without.lap_time_s < upshifts * 0.04);
 }
 
+TEST_CASE("the phase tests: a shift is under drive but not full drive; the trim follows drive") {
+  // The rules as README (Physics, Phases) states them: full-throttle share counts accelerate
+  // and top_speed; the straight-line trim stays open through an upshift's cut.
+  CHECK(full_drive(Phase::accelerate));
+  CHECK(full_drive(Phase::top_speed));
+  CHECK_FALSE(full_drive(Phase::shift));
+  CHECK_FALSE(full_drive(Phase::brake));
+  CHECK_FALSE(full_drive(Phase::corner));
+  CHECK(under_drive(Phase::shift));
+  CHECK(under_drive(Phase::accelerate));
+  CHECK(under_drive(Phase::top_speed));
+  CHECK_FALSE(under_drive(Phase::brake));
+  CHECK_FALSE(under_drive(Phase::corner));
+  CHECK(classify_phase(true, true, SteadyLimit::grip, true) == Phase::brake);
+  CHECK(classify_phase(false, true, SteadyLimit::grip, true) == Phase::corner);
+  CHECK(classify_phase(false, true, SteadyLimit::engine, false) == Phase::top_speed);
+  CHECK(classify_phase(false, false, SteadyLimit::grip, true) == Phase::shift);
+  CHECK(classify_phase(false, false, SteadyLimit::engine, false) == Phase::accelerate);
+  // On a lap with a trimmed config: the trace's trim is on only under drive and on straight
+  // enough points, and the shifts on the straights keep it.
+  const Car file = load_car(test::source_path("cars/pellion-fr2.yaml"));
+  const Car car = file.configured(static_cast<std::size_t>(file.config_index("high_trim")));
+  REQUIRE(car.configs.front().trim);
+  const Circuit c = test::bundled_circuit("tracks/saltmere-flats.yaml");
+  const Envelope env(car, c.air);
+  const Lap lap = solve_lap(env, c.mesh);
+  int trimmed_shifts = 0;
+  for (std::size_t i = 0; i < lap.phase.size(); ++i) {
+    const bool straight = env.trims(std::abs(c.mesh.curvature_1pm[i]));
+    CHECK(static_cast<bool>(lap.trimmed[i]) == (straight && under_drive(lap.phase[i])));
+    trimmed_shifts += lap.trimmed[i] && lap.phase[i] == Phase::shift;
+  }
+  CHECK(trimmed_shifts > 0);
+}
+
 // Rotating inertia (issue 10, item 4). At the tyre limit the road force acts on the car's mass m:
 // the brakes (or the engine) supply the torque that spins the wheels down (or up) (Gillespie,
 // Fundamentals of Vehicle Dynamics, ch. 2-3). Only drive that the engine limits spins up the
@@ -319,7 +354,7 @@ TEST_CASE("a 15 m hairpin taken by the bundled sports car is limited by grip at 
       const LapRun r = run_lap(car, c);
       CAPTURE(car.configs.front().name);
       CAPTURE(static_cast<int>(model));
-      for (const CornerResult& corner : r.summary.corners) CHECK(corner.limit == "grip");
+      for (const CornerResult& corner : r.summary.corners) CHECK(corner.limit == CornerLimit::grip);
     }
 }
 

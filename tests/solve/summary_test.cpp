@@ -39,12 +39,12 @@ TEST_CASE("sector times add up to the lap; corners hold their apex; shares are f
 }
 
 TEST_CASE("the limiting axle is front, rear or both within the neutral band, beside its value") {
-  // The band is +-0.02 of usage (summary.hpp): its edges are "both", just past them an axle.
-  CHECK(limiting_axle(0.0) == "both");
-  CHECK(limiting_axle(axle_neutral_band) == "both");
-  CHECK(limiting_axle(-axle_neutral_band) == "both");
-  CHECK(limiting_axle(0.0201) == "front");
-  CHECK(limiting_axle(-0.0201) == "rear");
+  // The band is +-0.02 of usage (summary.hpp): its edges are both, just past them an axle.
+  CHECK(limiting_axle(0.0) == Axle::both);
+  CHECK(limiting_axle(axle_neutral_band) == Axle::both);
+  CHECK(limiting_axle(-axle_neutral_band) == Axle::both);
+  CHECK(limiting_axle(0.0201) == Axle::front);
+  CHECK(limiting_axle(-0.0201) == Axle::rear);
   // On a lap each corner's labels are read from the trace's balance_index at the same points.
   // The axle model, where each axle's usage sets the limits and the labels matter most.
   Car car = load_car(test::source_path("cars/caldra-gt.yaml")).configured(0);
@@ -65,7 +65,7 @@ TEST_CASE("the limiting axle is front, rear or both within the neutral band, bes
     CHECK(c.entry_axle == limiting_axle(c.entry_balance_index));
     CHECK(c.apex_axle == limiting_axle(c.apex_balance_index));
     CHECK(c.exit_axle == limiting_axle(c.exit_balance_index));
-    both += c.apex_axle == "both";
+    both += c.apex_axle == Axle::both;
   }
   // The sports car's apexes on this track sit near neutral: some fall inside the band (what the
   // old two-way label called "front" or "rear" on a coin toss of 0.001).
@@ -74,7 +74,7 @@ TEST_CASE("the limiting axle is front, rear or both within the neutral band, bes
   for (const auto& c : s.corners) {
     const auto& ids = s.balance.front_limited_corners;
     const bool listed = std::find(ids.begin(), ids.end(), c.id) != ids.end();
-    CHECK(listed == (c.apex_axle == "front"));
+    CHECK(listed == (c.apex_axle == Axle::front));
   }
 }
 

@@ -31,7 +31,7 @@ struct RideHeightMap {
 };
 
 /// Changes to the coefficients where movable aero is trimmed for the straights: on points with
-/// |curvature| below `below_curvature_1pm` while the car is under full drive.
+/// |curvature| below `below_curvature_1pm` while the car is under drive (solver.hpp, under_drive).
 struct StraightTrim {
   double dcda_m2 = 0.0, dcla_m2 = 0.0, dbalance = 0.0;
   double below_curvature_1pm = 0.0;

@@ -17,6 +17,31 @@ std::string_view phase_name(Phase p);
 /// Why the steady speed at a point is what it is.
 enum class SteadyLimit : std::uint8_t { grip, engine };
 
+/// The phase at a point, the one classification: `brake` where the backward sweep is the slower
+/// (`braking`); else on the steady limit where the forward sweep was clipped to it, `corner`
+/// when the tyres set that limit and `top_speed` when the engine does; else `shift` where the
+/// drive was cut for an upshift; else `accelerate`.
+constexpr Phase classify_phase(bool braking, bool clipped, SteadyLimit limit, bool cut) {
+  if (braking) return Phase::brake;
+  if (clipped) return limit == SteadyLimit::grip ? Phase::corner : Phase::top_speed;
+  return cut ? Phase::shift : Phase::accelerate;
+}
+/// Full drive: the engine's whole drive applied (accelerate, top_speed). Not a shift: its
+/// drive is cut. The lap's full-throttle share counts these.
+constexpr bool full_drive(Phase p) {
+  return p == Phase::accelerate || p == Phase::top_speed;
+}
+/// Under drive: the forward sweep sets the speed with the driver on the throttle, at full drive
+/// or in an upshift's cut (the shift test). The straight-line trim stays deployed through the
+/// cut, as the sweep reads its rows.
+constexpr bool under_drive(Phase p) {
+  return full_drive(p) || p == Phase::shift;
+}
+/// On a steady limit: the speed the tyres (corner) or the engine (top_speed) can hold.
+constexpr bool on_steady_limit(Phase p) {
+  return p == Phase::corner || p == Phase::top_speed;
+}
+
 /// The steady limits along the mesh: the highest speed the car can hold at each point.
 struct SteadyProfile {
   std::vector<double> speed_mps;
