@@ -1,5 +1,5 @@
-// The outputs' words for the library's enums, as the README documents them: the corners CSV's
-// and summary.json's `limit` and `*_axle`, compare.json's `pieces[].kind`.
+// The outputs' words for the library's enums, as README, "Output files" documents them: the
+// corners CSV's and summary.json's `limit` and `*_axle`, compare.json's `pieces[].kind`.
 #include <doctest/doctest.h>
 
 #include <string>
@@ -8,7 +8,8 @@
 
 using namespace lapwing;
 
-TEST_CASE("every corner limit, axle and piece kind has the word the README documents") {
+TEST_CASE(
+    "every corner limit, axle and piece kind has its documented word (README, \"Output files\")") {
   CHECK(label(CornerLimit::grip) == "grip");
   CHECK(label(CornerLimit::power) == "power");
   CHECK(label(CornerLimit::braking) == "braking");

@@ -237,8 +237,9 @@ TEST_CASE("an upshift cuts the drive for shift_time and costs time") {
 }
 
 TEST_CASE("the phase tests: a shift is under drive but not full drive; the trim follows drive") {
-  // The rules as README (Physics, Phases) states them: full-throttle share counts accelerate
-  // and top_speed; the straight-line trim stays open through an upshift's cut.
+  // The rules as documented: the full-throttle share counts accelerate and
+  // top_speed (README, "Commands"); the straight-line trim stays open through an upshift's cut
+  // (README, "Car").
   CHECK(full_drive(Phase::accelerate));
   CHECK(full_drive(Phase::top_speed));
   CHECK_FALSE(full_drive(Phase::shift));
