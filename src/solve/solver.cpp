@@ -8,6 +8,7 @@
 #include <cmath>
 #include <limits>
 #include <sstream>
+#include <stdexcept>
 #include <tuple>
 #include <utility>
 
@@ -510,8 +511,12 @@ Lap solve_lap(const Envelope& env, const Mesh& mesh, double start_speed_mps) {
   return solver.take();
 }
 
-const Lap& LapSolver::solve(const Envelope& env, const Mesh& mesh, double start_speed_mps,
-                            bool channels) {
+const Lap& LapSolver::solve(const Envelope& env, const Mesh& mesh, double start_speed_mps) {
+  solve_speed(env, mesh, start_speed_mps);
+  return add_channels(env, mesh);
+}
+
+const Lap& LapSolver::solve_speed(const Envelope& env, const Mesh& mesh, double start_speed_mps) {
   const std::size_t n = mesh.size();
   assert(n >= 3);
   Lap& lap = lap_;
@@ -562,18 +567,26 @@ const Lap& LapSolver::solve(const Envelope& env, const Mesh& mesh, double start_
     lap.time_s[i + 1] = lap.time_s[i] + 2.0 * mesh.step_m / vsum;
   }
   lap.lap_time_s = lap.time_s[n - 1];
-  lap.has_channels = channels;
-  if (!channels) {
-    // Speed, phase and time only: what a study that needs the lap time reads.
-    for (auto* v : {&lap.long_accel_mps2, &lap.lat_accel_mps2, &lap.engine_radps, &lap.drag_n,
-                    &lap.downforce_n, &lap.front_load_n, &lap.rear_load_n, &lap.front_share,
-                    &lap.aero_balance_eff, &lap.front_usage, &lap.rear_usage})
-      v->clear();
-    lap.gear.clear();
-    lap.trimmed.clear();
-    return lap;
-  }
+  // Speed, phase and time only: what a study that needs the lap time reads. The channels of an
+  // earlier lap go, so that none is read against this lap's speeds.
+  lap.has_channels = false;
+  for (auto* v : {&lap.long_accel_mps2, &lap.lat_accel_mps2, &lap.engine_radps, &lap.drag_n,
+                  &lap.downforce_n, &lap.front_load_n, &lap.rear_load_n, &lap.front_share,
+                  &lap.aero_balance_eff, &lap.front_usage, &lap.rear_usage})
+    v->clear();
+  lap.gear.clear();
+  lap.trimmed.clear();
+  return lap;
+}
 
+const Lap& LapSolver::add_channels(const Envelope& env, const Mesh& mesh) {
+  const std::size_t n = mesh.size();
+  Lap& lap = lap_;
+  const SweepResult& fwd = forward_;
+  if (lap.speed_mps.size() != n || fwd.gear.size() != n)
+    throw std::logic_error("LapSolver::add_channels: no speed solve on this mesh");
+  if (lap.has_channels) return lap;
+  lap.has_channels = true;
   // Channels along the lap.
   const Car& car = env.car();
   const double g = units::g0, m = env.mass_kg(), wb = car.wheelbase_m;

@@ -52,7 +52,7 @@ LapRun run_lap(const Car& car, const Circuit& c, LapSolver& solver) {
 }
 
 const Lap& solve_speed_only(const Envelope& env, const Circuit& c, LapSolver& solver) {
-  const Lap& lap = solver.solve(env, c.mesh, c.track.start_speed_mps, false);
+  const Lap& lap = solver.solve_speed(env, c.mesh, c.track.start_speed_mps);
   check_start_speed(c, lap);
   return lap;
 }

@@ -5,6 +5,7 @@
 #include <doctest/doctest.h>
 
 #include <cmath>
+#include <stdexcept>
 
 #include "lapwing/base/error.hpp"
 #include "lapwing/base/units.hpp"
@@ -270,6 +271,38 @@ TEST_CASE("the phase tests: a shift is under drive but not full drive; the trim 
     trimmed_shifts += lap.trimmed[i] && lap.phase[i] == Phase::shift;
   }
   CHECK(trimmed_shifts > 0);
+}
+
+TEST_CASE("the speed solve fills no channel; the channels pass adds them, as solve does") {
+  // The two passes against the one-call solve on the same lap: the speed traces are the same
+  // numbers (the channels pass only reads them), every channel equal to the last bit.
+  const Car file = load_car(test::source_path("cars/caldra-gt.yaml"));
+  const Car car = file.configured(0);
+  const Circuit c = test::bundled_circuit("tracks/brannock-park.yaml");
+  const Envelope env(car, c.air);
+  const Lap whole = solve_lap(env, c.mesh, c.track.start_speed_mps);
+  REQUIRE(whole.has_channels);
+  LapSolver solver;
+  CHECK_THROWS_AS(solver.add_channels(env, c.mesh), std::logic_error);  // no speed solve yet
+  const Lap& speed = solver.solve_speed(env, c.mesh, c.track.start_speed_mps);
+  CHECK_FALSE(speed.has_channels);
+  CHECK(speed.lap_time_s == whole.lap_time_s);
+  CHECK(speed.speed_mps == whole.speed_mps);
+  CHECK(speed.phase == whole.phase);
+  CHECK(speed.front_share.empty());
+  CHECK(speed.front_usage.empty());
+  CHECK(speed.gear.empty());
+  const Lap& full = solver.add_channels(env, c.mesh);
+  CHECK(full.has_channels);
+  CHECK(full.long_accel_mps2 == whole.long_accel_mps2);
+  CHECK(full.gear == whole.gear);
+  CHECK(full.front_load_n == whole.front_load_n);
+  CHECK(full.front_share == whole.front_share);
+  CHECK(full.front_usage == whole.front_usage);
+  CHECK(full.trimmed == whole.trimmed);
+  // A later speed solve drops the channels it would otherwise leave behind from this lap.
+  CHECK_FALSE(solver.solve_speed(env, c.mesh, c.track.start_speed_mps).has_channels);
+  CHECK(solver.solve_speed(env, c.mesh).front_share.empty());
 }
 
 // Rotating inertia (issue 10, item 4). At the tyre limit the road force acts on the car's mass m:

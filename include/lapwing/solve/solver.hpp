@@ -100,10 +100,16 @@ Lap solve_lap(const Envelope& env, const Mesh& mesh, double start_speed_mps = 0.
 /// the Mesh it reads. One per thread.
 class LapSolver {
  public:
-  /// As solve_lap; the result stays valid until the next solve. With `channels` false only the
-  /// speed, phase and time traces are filled (a study that needs lap times skips the rest).
-  const Lap& solve(const Envelope& env, const Mesh& mesh, double start_speed_mps = 0.0,
-                   bool channels = true);
+  /// The speed solve: the steady limits, both sweeps, and the speed, phase and time traces
+  /// (lap_time_s). No channel is filled (has_channels false): a study that needs lap times
+  /// stops here. The result stays valid until the next solve.
+  const Lap& solve_speed(const Envelope& env, const Mesh& mesh, double start_speed_mps = 0.0);
+  /// The channels pass over the last speed solve, which must have been on this mesh with this
+  /// envelope: accelerations, gear and engine speed, trim, forces, axle loads, front shares and
+  /// usage (has_channels true). Throws std::logic_error without a speed solve on the mesh.
+  const Lap& add_channels(const Envelope& env, const Mesh& mesh);
+  /// Both passes, as solve_lap: solve_speed, then add_channels.
+  const Lap& solve(const Envelope& env, const Mesh& mesh, double start_speed_mps = 0.0);
   /// Moves the last lap out.
   Lap take();
 
