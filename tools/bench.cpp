@@ -93,7 +93,7 @@ int main(int argc, char** argv) {
     const Track track = load_track(argv[2]);
     const int ci = config.empty() ? 0 : car.config_index(config);
     if (ci < 0) throw std::runtime_error("no config " + config);
-    const Car configured = car.configured(static_cast<std::size_t>(ci));
+    const ConfiguredCar configured = car.configured(static_cast<std::size_t>(ci));
     const Air air = make_air(track.air);
     const Mesh mesh = build_mesh(track, mesh_m);
 
@@ -134,7 +134,7 @@ int main(int argc, char** argv) {
     std::sort(bare_s.begin(), bare_s.end());
     std::printf("track %s: %.1f m, %zu mesh points at %.3f m; config %s; lap %.3f s\n",
                 track.name.c_str(), mesh.length_m, mesh.size(), mesh.step_m,
-                configured.configs.front().name.c_str(), warm.lap_time_s);
+                configured.aero().name.c_str(), warm.lap_time_s);
     std::printf("envelope build: %.3f ms (mean of %d)\n", envelope_s * 1e3, envelope_builds);
     const double points = static_cast<double>(mesh.size());
     std::printf(

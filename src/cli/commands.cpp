@@ -201,9 +201,10 @@ namespace {
 // Per config: what check reports of its aero at a few speeds in one air.
 void describe_config(const Car& car, std::size_t index, const Air& air, std::string& out,
                      JsonWriter& j) {
-  const Car cc = car.configured(index);
-  const AeroConfig& a = cc.configs.front();
-  const Envelope env(cc, air);
+  const ConfiguredCar configured = car.configured(index);
+  const Car& cc = configured.car();
+  const AeroConfig& a = configured.aero();
+  const Envelope env(configured, air);
   const AeroPoint rest = env.aero_point(0.0);
   j.begin_object()
       .field("name", a.name)
@@ -285,7 +286,7 @@ void describe_config(const Car& car, std::size_t index, const Air& air, std::str
     notes.push_back("straight-line trim: CdA " + fixed(a.trim->dcda_m2, 3) + " m2, ClA " +
                     fixed(a.trim->dcla_m2, 3) + " m2, balance " + fixed(100 * a.trim->dbalance, 1) +
                     " points where |curvature| < " + fixed(a.trim->below_curvature_1pm, 4) +
-                    " 1/m under full drive");
+                    " 1/m under drive");
   j.key("notes").begin_array();
   for (const auto& n : notes) {
     out += "       note: " + n + "\n";
@@ -419,7 +420,7 @@ int check(const CheckOptions& o, Inputs& in) {
       std::vector<std::vector<std::string>> srows;
       j.key("smoothing_sensitivity").begin_array();
       for (std::size_t c = 0; c < car.configs.size(); ++c) {
-        const Car cc = car.configured(c);
+        const ConfiguredCar cc = car.configured(c);
         std::optional<double> laps[3];
         for (int k = 0; k < 3; ++k) {
           if (!variants[k]) continue;

@@ -25,7 +25,7 @@ constexpr double apex_tie = 5e-4;  // relative: 0.05 km/h at 100 km/h
 
 std::vector<RangeNote> range_notes(const Envelope& env) {
   std::vector<RangeNote> notes;
-  const AeroConfig& a = env.car().configs.front();
+  const AeroConfig& a = env.aero();
   if (a.speed_mps.size() > 1) {
     if (a.speed_mps.front() > 0.0)
       notes.push_back({RangeNote::Kind::below_speed_table, "below the speed table's first row (" +
@@ -68,7 +68,7 @@ std::vector<RangeNote> range_notes(const Envelope& env) {
 }
 
 bool range_note_applies(const Envelope& env, const RangeNote& note, double v) {
-  const AeroConfig& a = env.car().configs.front();
+  const AeroConfig& a = env.aero();
   switch (note.kind) {
     case RangeNote::Kind::below_speed_table:
       return v < a.speed_mps.front();

@@ -71,7 +71,7 @@ Comparison compare(const Car& car, const std::vector<std::size_t>& configs,
   require_valid(configs_violation(car, configs), "compare");
   const std::size_t nc = configs.size(), nt = circuits.size();
   std::vector<LapRun> runs(nc * nt);
-  std::vector<Car> cars;
+  std::vector<ConfiguredCar> cars;
   for (std::size_t c : configs) cars.push_back(car.configured(c));
   parallel_for(runs.size(), threads, [&](std::size_t k, LapSolver& solver) {
     runs[k] = run_lap(cars[k % nc], circuits[k / nc], solver);

@@ -22,7 +22,7 @@ TEST_CASE("the bundled formula car loads in SI units") {
   CHECK(c.configs[4].form == AeroConfig::Form::forces);
   CHECK(c.configs[5].form == AeroConfig::Form::ride_height_map);
   CHECK(c.configs[6].trim.has_value());
-  CHECK(c.configured(6).mass_kg == 642.0);  // the trim actuator's mass, an override
+  CHECK(c.configured(6).car().mass_kg == 642.0);  // the trim actuator's mass, an override
   CHECK(near(c.powertrain.rev_limit_radps, 12200 * units::rpm, 1e-15));
   CHECK(c.powertrain.gears.size() == 7);
   CHECK(c.configs[2].cla_m2.front() == 4.3);

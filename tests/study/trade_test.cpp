@@ -233,8 +233,8 @@ TEST_CASE("a car without aero still has aero sensitivities (zero areas move by t
   CHECK(s.dt_dcda_s_per_m2 > 0.0);
   // Against two explicit runs with +-0.02 m2 of ClA (1e-9). -0.02 m2 is lift, outside a car
   // file's range: the run takes the car unchecked, as the trade does.
-  const Car base = car.configured(0);
-  auto lap = [&](const Car& c) {
+  const ConfiguredCar base = car.configured(0);
+  auto lap = [&](const ConfiguredCar& c) {
     const Envelope env(Envelope::Unchecked{}, c, circuits[0].air);
     LapSolver solver;
     return solve_speed_only(env, circuits[0], solver).lap_time_s;

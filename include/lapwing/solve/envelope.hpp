@@ -46,17 +46,17 @@ enum class TopSpeedLimit {
 /// "drag", "rev limit", "table ceiling".
 const char* top_speed_limit_name(TopSpeedLimit l);
 
-/// Car (with one config applied, see Car::configured) in one air, tabulated over speed.
+/// A car with one config applied (ConfiguredCar) in one air, tabulated over speed.
 class Envelope {
  public:
   /// A car that breaks a rule (Car::validate), air of no density or bad options are an
   /// InvalidInput: a library caller gets the words a file would, not a nonsense lap.
-  Envelope(const Car& configured_car, const Air& air, EnvelopeOptions options = {});
+  Envelope(const ConfiguredCar& car, const Air& air, EnvelopeOptions options = {});
   /// For a study that moves a valid car past the files' ranges on purpose (a trade's finite
   /// differences: ClA +-0.02 m2 around a car without downforce, +15 % of a 30 m2 ClA): the car's
   /// rules are not checked, the air's and the options' are.
   struct Unchecked {};
-  Envelope(Unchecked, const Car& configured_car, const Air& air, EnvelopeOptions options = {});
+  Envelope(Unchecked, const ConfiguredCar& car, const Air& air, EnvelopeOptions options = {});
 
   // Fixed parameters, SI.
   double mass_kg() const { return mass_; }
@@ -76,8 +76,11 @@ class Envelope {
   TopSpeedLimit table_top_reason() const { return table_top_; }
   double table_margin() const { return table_margin_; }
   const TyreModel& tyres() const { return tyres_; }
-  const Car& car() const { return car_; }
-  const std::string& config_name() const { return car_.configs.front().name; }
+  /// The car-level values (with the config's overrides) and the applied config.
+  const Car& car() const { return car_.car(); }
+  const AeroConfig& aero() const { return car_.aero(); }
+  const ConfiguredCar& configured_car() const { return car_; }
+  const std::string& config_name() const { return car_.aero().name; }
 
   /// The speed-dependent quantities at one speed, read from the table with one index
   /// computation (linear between rows; rows at the table's ends outside it).
@@ -152,8 +155,10 @@ class Envelope {
 
  private:
   std::size_t index(double v) const;
+  Envelope(Unchecked, const ConfiguredCar& configured, const Car& car, const Air& air,
+           EnvelopeOptions options);
 
-  Car car_;
+  ConfiguredCar car_;
   TyreModel tyres_;
   double mass_, mass_eff_, weight_, crr_, rho_;
   double v_max_, v_top_, du_, inv_du_;
