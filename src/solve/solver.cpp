@@ -512,14 +512,31 @@ Lap solve_lap(const Envelope& env, const Mesh& mesh, double start_speed_mps) {
 }
 
 const Lap& LapSolver::solve(const Envelope& env, const Mesh& mesh, double start_speed_mps) {
-  solve_speed(env, mesh, start_speed_mps);
+  // The channels pass overwrites every channel: they keep their storage from the last lap (no
+  // clear, which would cost a fill of each on the way back).
+  speed_pass(env, mesh, start_speed_mps);
   return add_channels(env, mesh);
 }
 
 const Lap& LapSolver::solve_speed(const Envelope& env, const Mesh& mesh, double start_speed_mps) {
+  speed_pass(env, mesh, start_speed_mps);
+  // Speed, phase and time only: what a study that needs the lap time reads. The channels of an
+  // earlier lap go, so that none is read against this lap's speeds.
+  Lap& lap = lap_;
+  for (auto* v : {&lap.long_accel_mps2, &lap.lat_accel_mps2, &lap.engine_radps, &lap.drag_n,
+                  &lap.downforce_n, &lap.front_load_n, &lap.rear_load_n, &lap.front_share,
+                  &lap.aero_balance_eff, &lap.front_usage, &lap.rear_usage})
+    v->clear();
+  lap.gear.clear();
+  lap.trimmed.clear();
+  return lap;
+}
+
+void LapSolver::speed_pass(const Envelope& env, const Mesh& mesh, double start_speed_mps) {
   const std::size_t n = mesh.size();
   assert(n >= 3);
   Lap& lap = lap_;
+  lap.has_channels = false;  // none of this lap yet (also if the solve throws)
   steady_profile(env, mesh, lap.steady);
   const auto& steady = lap.steady.speed_mps;
   SweepResult& fwd = forward_;
@@ -567,16 +584,6 @@ const Lap& LapSolver::solve_speed(const Envelope& env, const Mesh& mesh, double 
     lap.time_s[i + 1] = lap.time_s[i] + 2.0 * mesh.step_m / vsum;
   }
   lap.lap_time_s = lap.time_s[n - 1];
-  // Speed, phase and time only: what a study that needs the lap time reads. The channels of an
-  // earlier lap go, so that none is read against this lap's speeds.
-  lap.has_channels = false;
-  for (auto* v : {&lap.long_accel_mps2, &lap.lat_accel_mps2, &lap.engine_radps, &lap.drag_n,
-                  &lap.downforce_n, &lap.front_load_n, &lap.rear_load_n, &lap.front_share,
-                  &lap.aero_balance_eff, &lap.front_usage, &lap.rear_usage})
-    v->clear();
-  lap.gear.clear();
-  lap.trimmed.clear();
-  return lap;
 }
 
 const Lap& LapSolver::add_channels(const Envelope& env, const Mesh& mesh) {

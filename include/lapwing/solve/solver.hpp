@@ -114,6 +114,8 @@ class LapSolver {
   Lap take();
 
  private:
+  /// The speed solve into lap_, its channels left as they were (has_channels false).
+  void speed_pass(const Envelope& env, const Mesh& mesh, double start_speed_mps);
   Lap lap_;
   SweepResult forward_, backward_;
 };
