@@ -58,6 +58,7 @@
 #include "lapwing/solve/summary.hpp"
 
 // study
+#include "lapwing/study/check_summary.hpp"
 #include "lapwing/study/circuit.hpp"
 #include "lapwing/study/compare.hpp"
 #include "lapwing/study/min_time_line.hpp"
@@ -67,6 +68,7 @@
 
 // report
 #include "lapwing/report/cells.hpp"
+#include "lapwing/report/check_report.hpp"
 #include "lapwing/report/compare_report.hpp"
 #include "lapwing/report/html_report.hpp"
 #include "lapwing/report/labels.hpp"

@@ -23,6 +23,7 @@
 #include "lapwing/path/corners.hpp"
 #include "lapwing/path/mesh.hpp"
 #include "lapwing/path/racing_line.hpp"
+#include "lapwing/report/check_report.hpp"
 #include "lapwing/report/compare_report.hpp"
 #include "lapwing/report/html_report.hpp"
 #include "lapwing/report/lap_files.hpp"
@@ -34,6 +35,7 @@
 #include "lapwing/solve/envelope.hpp"
 #include "lapwing/solve/solver.hpp"
 #include "lapwing/solve/summary.hpp"
+#include "lapwing/study/check_summary.hpp"
 #include "lapwing/study/circuit.hpp"
 #include "lapwing/study/compare.hpp"
 #include "lapwing/study/min_time_line.hpp"
@@ -43,18 +45,6 @@
 namespace lapwing::cli {
 
 namespace {
-
-std::string describe_air(const Air& a) {
-  std::string s = fixed(a.density_kg_m3, 4) + " kg/m3 (";
-  if (a.standard) {
-    s += "ISO 2533 at " + fixed(a.altitude_m, 0) + " m";
-  } else {
-    s += fixed(a.temperature_k - units::celsius_zero_k, 1) + " C, " +
-         fixed(a.pressure_pa / 100.0, 1) + " hPa, " + fixed(100 * a.relative_humidity, 0) +
-         " % humidity at " + fixed(a.altitude_m, 0) + " m";
-  }
-  return s + ")";
-}
 
 // The air overrides parsed against their quantities.
 struct AirOverride {
@@ -206,274 +196,16 @@ std::size_t pick_config(const Car& car, const std::string& name) {
 }  // namespace
 
 namespace {
-
-// Per config: what check reports of its aero at a few speeds in one air.
-void describe_config(const Car& car, std::size_t index, const Air& air, std::string& out,
-                     JsonWriter& j) {
-  const ConfiguredCar configured = car.configured(index);
-  const Car& cc = configured.car();
-  const AeroConfig& a = configured.aero();
-  const Envelope env(configured, air);
-  const AeroPoint rest = env.aero_point(0.0);
-  j.begin_object()
-      .field("name", a.name)
-      .field("form", form_name(a.form))
-      .field("cda_m2", rest.cda_m2)
-      .field("cla_m2", rest.cla_m2)
-      .field("lift_to_drag", rest.cda_m2 > 0 ? rest.cla_m2 / rest.cda_m2 : 0.0)
-      .field("aero_balance", rest.balance)
-      .field("drag_height_m", cc.drag_height_m)
-      .field("top_speed_kph", units::to_kph(env.top_speed_level_mps()))
-      .field("top_speed_limit", top_speed_limit_name(env.top_speed_limit()));
-  out += "\nconfig " + a.name + " (" + std::string(form_name(a.form)) + "): CdA " +
-         fixed(rest.cda_m2, 3) + " m2, ClA " + fixed(rest.cla_m2, 3) + " m2, L/D " +
-         (rest.cda_m2 > 0 ? fixed(rest.cla_m2 / rest.cda_m2, 2) : std::string("-")) +
-         ", aero balance " + fixed(100 * rest.balance, 1) + " %" +
-         (env.has_map()         ? " (at rest)"
-          : a.speed_mps.empty() ? ""
-                                : " (first row)") +
-         ", drag height " + fixed(cc.drag_height_m, 3) + " m, top speed " +
-         fixed(units::to_kph(env.top_speed_level_mps()), 1) + " km/h (" +
-         top_speed_limit_name(env.top_speed_limit()) + ")\n";
-  std::vector<std::vector<std::string>> rows;
-  bool no_downforce = false;
-  j.key("at_speeds").begin_array();
-  for (double speed_kph : {100.0, 200.0, 300.0}) {
-    const double v = speed_kph * units::kph;
-    const AeroPoint p = env.aero_point(v);
-    const double q = 0.5 * air.density_kg_m3 * v * v;
-    const double down = q * p.cla_m2, drag = q * p.cda_m2;
-    // Front axle share of the aero load: the balance alone, then with the drag moment
-    // (drag x drag height / wheelbase off the front axle); undefined without downforce. The
-    // aero load on the front axle itself, DF bal - D z_D / L, is defined either way.
-    const double share = p.balance;
-    const std::optional<double> with_moment = aero_balance_with_drag_moment(
-        p.cla_m2, p.cda_m2, p.balance, cc.drag_height_m, cc.wheelbase_m);
-    const double front_aero =
-        aero_axle_loads(down, p.balance, drag, cc.drag_height_m, cc.wheelbase_m).front_n;
-    if (!with_moment) no_downforce = true;
-    std::vector<std::string> row{fixed(speed_kph, 0),
-                                 fixed(down, 0),
-                                 fixed(drag, 0),
-                                 with_moment ? fixed(100 * share, 1) : std::string("-"),
-                                 with_moment ? fixed(100 * *with_moment, 1) : std::string("-"),
-                                 fixed(front_aero, 0)};
-    j.begin_object().field("speed_kph", speed_kph).field("downforce_n", down).field("drag_n", drag);
-    j.key("front_share");
-    if (with_moment)
-      j.value(share);
-    else
-      j.null();
-    j.key("front_share_with_drag_moment");
-    if (with_moment)
-      j.value(*with_moment);
-    else
-      j.null();
-    j.field("front_aero_load_n", front_aero);
-    if (env.has_map()) {
-      row.push_back(fixed(1000 * p.front_ride_m, 1) + " / " + fixed(1000 * p.rear_ride_m, 1) +
-                    (p.off_map ? " off map" : "") + (p.grounded ? " grounded" : ""));
-      j.field("front_ride_height_m", p.front_ride_m).field("rear_ride_height_m", p.rear_ride_m);
-    }
-    j.end_object();
-    rows.push_back(row);
-  }
-  j.end_array();
-  std::vector<std::string> header{"speed km/h",    "downforce N",        "drag N",
-                                  "front share %", "with drag moment %", "front aero load N"};
-  if (env.has_map()) header.push_back("ride height F / R mm");
-  out += text_table(header, rows);
-  // Notes: what the data does outside its range, said once (the same notes a lap that reaches
-  // them is warned of, summary.hpp).
-  std::vector<std::string> notes;
-  for (const RangeNote& n : range_notes(env)) notes.push_back(n.text);
-  if (no_downforce)
-    notes.push_back(
-        "no downforce: the front share of the aero load is undefined ('-'); the drag moment "
-        "alone takes drag x drag height / wheelbase off the front axle (front aero load)");
-  if (a.trim)
-    notes.push_back("straight-line trim: CdA " + fixed(a.trim->dcda_m2, 3) + " m2, ClA " +
-                    fixed(a.trim->dcla_m2, 3) + " m2, balance " + fixed(100 * a.trim->dbalance, 1) +
-                    " points where |curvature| < " + fixed(a.trim->below_curvature_1pm, 4) +
-                    " 1/m under drive");
-  j.key("notes").begin_array();
-  for (const auto& n : notes) {
-    out += "       note: " + n + "\n";
-    j.value(n);
-  }
-  j.end_array().end_object();
-}
-
-}  // namespace
-
-namespace {
 int check(const CheckOptions& o, Inputs& in) {
   const AirOverride air = parse_air(o.air);
   const Car car = in.car(o.car);
   const std::vector<Circuit> tracks = in.lay_out_all(o.tracks, air);
   // The car's own figures in ISO 2533 sea-level air, or in the air the options give.
-  const Air reference = make_air(apply(AirSpec{}, air));
-
-  std::string out;
-  out += "car    " + car.name + " (" + car.file + ")\n";
-  out += "       mass " + fixed(car.mass_kg, 1) + " kg, static front weight " +
-         fixed(100 * car.front_weight, 1) + " %, wheelbase " + fixed(car.wheelbase_m, 3) +
-         " m, cg height " + fixed(car.cg_height_m, 3) + " m\n";
-  out += "       aero figures in air of " + describe_air(reference) + "\n";
-  JsonWriter j;
-  j.begin_object().field("lapwing", version());
-  j.key("car")
-      .begin_object()
-      .field("name", car.name)
-      .field("mass_kg", car.mass_kg)
-      .field("front_weight", car.front_weight)
-      .field("wheelbase_m", car.wheelbase_m)
-      .field("cg_height_m", car.cg_height_m)
-      .field("air_density_kg_m3", reference.density_kg_m3);
-  j.key("configs").begin_array();
-  for (std::size_t c = 0; c < car.configs.size(); ++c) describe_config(car, c, reference, out, j);
-  j.end_array().end_object();
-
-  j.key("tracks").begin_array();
-  for (const auto& t : tracks) {
-    const Closure cl = closure(t.track);
-    out += "\ntrack  " + t.track.name + " (" + t.track.file + ")\n";
-    // The closure gap is what a lap must bring to zero: an open track has none to report.
-    out += "       " + std::string(t.track.closed ? "closed lap" : "open (sprint)") + ", length " +
-           fixed(t.mesh.length_m, 1) + " m" +
-           (t.track.closed ? ", closure gap " + fixed(cl.position_gap_m, 3) + " m / " +
-                                 fixed(cl.heading_gap_rad / units::deg, 2) +
-                                 " deg, elevation gap " + fixed(cl.elevation_gap_m, 2) + " m"
-                           : std::string(", rise ") + fixed(cl.elevation_gap_m, 2) + " m") +
-           ", corners " + std::to_string(t.corners.size()) + "\n       air " + describe_air(t.air) +
-           ", mesh " + fixed(t.mesh.step_m, 4) + " m (" + std::to_string(t.mesh.intervals()) +
-           " steps)\n";
-    if (t.track.profile) {
-      const PathProfile& p = *t.track.profile;
-      const bool fitted = p.source == PathProfile::Source::centerline;
-      out += "       from " + p.data_file +
-             (fitted ? std::string(p.geodetic ? " (WGS-84 lat/lon, tangent plane)" : "") +
-                           ": smoothing " + smoothing_text(p) + ", fit residual " +
-                           fixed(1000 * p.fit_residual_rms_m, 1) + " mm rms, curvature noise " +
-                           fixed(p.curvature_noise_rms_1pm, 5) + " 1/m rms"
-                     : std::string(": curvature as given") +
-                           (p.has_bank ? "; bank_deg read but not modelled" : "")) +
-             "\n";
-      for (const auto& n : p.notes) out += "       note: " + n + "\n";
-    }
-    if (t.track.line_path) out += "       " + line_text(t.track) + "\n";
-    std::vector<std::vector<std::string>> trows;
-    j.begin_object()
-        .field("name", t.track.name)
-        .field("file", t.track.file)
-        .field("closed", t.track.closed)
-        .field("length_m", t.mesh.length_m);
-    if (t.track.closed)
-      j.field("closure_gap_m", cl.position_gap_m)
-          .field("closure_heading_deg", cl.heading_gap_rad / units::deg)
-          .field("elevation_gap_m", cl.elevation_gap_m);
-    else
-      j.key("closure_gap_m")
-          .null()
-          .key("closure_heading_deg")
-          .null()
-          .field("rise_m", cl.elevation_gap_m);
-    j.field("corner_count", static_cast<int>(t.corners.size()))
-        .field("air_density_kg_m3", t.air.density_kg_m3);
-    j.key("notes").begin_array();
-    if (t.track.profile)
-      for (const auto& n : t.track.profile->notes) j.value(n);
-    j.end_array();
-    j.key("configs").begin_array();
-    for (std::size_t c = 0; c < car.configs.size(); ++c) {
-      const Envelope env(car.configured(c), t.air);
-      trows.push_back({car.configs[c].name, fixed(units::to_kph(env.top_speed_level_mps()), 1),
-                       top_speed_limit_name(env.top_speed_limit())});
-      j.begin_object()
-          .field("name", car.configs[c].name)
-          .field("top_speed_kph", units::to_kph(env.top_speed_level_mps()))
-          .field("top_speed_limit", top_speed_limit_name(env.top_speed_limit()))
-          .end_object();
-    }
-    j.end_array();
-    // The data's verdict: per config, from the lap at half and double the smoothing strength
-    // (study/track_quality.hpp); the track's line is the worst config's.
-    const SmoothingVariants variants = smoothing_variants(t);
-    std::vector<TrackQuality> qualities;
-    std::vector<std::string> solve_notes;
-    for (std::size_t c = 0; c < car.configs.size(); ++c) {
-      const ConfiguredCar cc = car.configured(c);
-      try {
-        const double lap = run_lap(cc, t).summary.lap_time_s;
-        qualities.push_back(assess_track(t, variants, cc, car.configs[c].name, lap));
-      } catch (const InvalidInput& e) {
-        solve_notes.push_back("config " + car.configs[c].name +
-                              " cannot lap the track: " + in.error(e).message());
-      } catch (const CannotMove& e) {
-        solve_notes.push_back("config " + car.configs[c].name +
-                              " cannot complete the track: " + e.what());
-      }
-    }
-    const bool fitted =
-        t.track.profile && t.track.profile->source == PathProfile::Source::centerline;
-    if (fitted) {
-      const PathProfile& p = *t.track.profile;
-      std::vector<std::vector<std::string>> srows;
-      std::vector<std::string> notes = variants.notes;
-      j.key("smoothing_sensitivity").begin_array();
-      for (const auto& q : qualities) {
-        auto cell = [](const std::optional<double>& v) {
-          return v ? fixed(*v, 3) : std::string("-");
-        };
-        srows.push_back({q.config, cell(q.lap_half_s), cell(q.lap_s), cell(q.lap_double_s),
-                         q.spread ? fixed(100 * *q.spread, 2) : std::string("-")});
-        for (const auto& n : q.notes)
-          if (std::find(notes.begin(), notes.end(), n) == notes.end()) notes.push_back(n);
-        j.begin_object().field("config", q.config);
-        const char* keys[3] = {"half_s", "as_given_s", "double_s"};
-        const std::optional<double>* laps[3] = {&q.lap_half_s, &q.lap_s, &q.lap_double_s};
-        for (int k = 0; k < 3; ++k) {
-          j.key(keys[k]);
-          if (*laps[k])
-            j.value(**laps[k]);
-          else
-            j.null();
-        }
-        j.end_object();
-      }
-      j.end_array();
-      j.field("smoothing_m", p.smoothing_m).field("smoothing_auto", p.smoothing.automatic);
-      j.field("smoothing_half_m", variants.half_length_m)
-          .field("smoothing_double_m", variants.double_length_m);
-      j.key("smoothing_sensitivity_notes").begin_array();
-      for (const auto& n : notes) j.value(n);
-      j.end_array();
-      out +=
-          "       lap time with the centerline smoothed at half, the chosen and double the "
-          "strength (lambda)\n" +
-          text_table({"config", "lap s at " + fixed(variants.half_length_m, 1) + " m",
-                      "at " + fixed(p.smoothing_m, 1) + " m",
-                      "at " + fixed(variants.double_length_m, 1) + " m", "spread %"},
-                     srows);
-      for (const auto& n : notes) out += "       note: " + n + "\n";
-    }
-    for (const auto& n : solve_notes) out += "       note: " + n + "\n";
-    // One line per track: the worst config's verdict (they differ only in the lap spread).
-    const TrackQuality* shown = nullptr;
-    for (const auto& q : qualities)
-      if (!shown || q.verdict > shown->verdict ||
-          (q.verdict == shown->verdict && q.spread.value_or(0) > shown->spread.value_or(0)))
-        shown = &q;
-    if (shown) {
-      out += "       " + quality_line(*shown) + "\n";
-      write_track_quality(j, *shown);
-    }
-    j.end_object();
-    out += text_table({"config", "top speed km/h (this air, level)", "limit"}, trows);
-  }
-  j.end_array().end_object();
-
-  if (!o.json.empty()) write_file_atomic(o.json, j.str());
+  const CheckSummary summary = check_summary(car, tracks, make_air(apply(AirSpec{}, air)));
+  // Bad input a lap found is worded at its place in the file that gave it.
+  const std::string out = check_text(car, tracks, summary,
+                                     [&](const InvalidInput& e) { return in.error(e).message(); });
+  if (!o.json.empty()) write_file_atomic(o.json, check_json(car, tracks, summary));
   std::cout << out;
   return 0;
 }
@@ -513,7 +245,7 @@ int run(const RunOptions& o, Inputs& in) {
          (car.model == VehicleModel::axle ? "axle" : "point-mass") + " model\n";
   out += "track   " + t.track.name + " (" + t.track.file + "), " + fixed(t.mesh.length_m, 1) +
          " m, " + (t.track.closed ? "closed lap" : "open") + "\n";
-  out += "air     " + describe_air(t.air) + "\n";
+  out += "air     " + air_text(t.air) + "\n";
   if (t.track.profile)
     for (const auto& n : t.track.profile->notes) out += "note    " + n + "\n";
   if (t.track.profile && t.track.profile->source == PathProfile::Source::centerline)
