@@ -22,6 +22,7 @@
 #include "lapwing/model/aero.hpp"
 #include "lapwing/model/air.hpp"
 #include "lapwing/model/car.hpp"
+#include "lapwing/model/loads.hpp"
 #include "lapwing/model/powertrain.hpp"
 #include "lapwing/model/track.hpp"
 #include "lapwing/model/tyre.hpp"

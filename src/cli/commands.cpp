@@ -19,6 +19,8 @@
 #include "lapwing/model/aero.hpp"
 #include "lapwing/model/air.hpp"
 #include "lapwing/model/car.hpp"
+#include "lapwing/model/loads.hpp"
+#include "lapwing/model/powertrain.hpp"
 #include "lapwing/model/track.hpp"
 #include "lapwing/path/corners.hpp"
 #include "lapwing/path/mesh.hpp"
@@ -305,6 +307,27 @@ void describe_config(const Car& car, std::size_t index, const Air& air, std::str
 }  // namespace
 
 namespace {
+const char* aspiration_name(Aspiration a) {
+  switch (a) {
+    case Aspiration::natural:
+      return "natural";
+    case Aspiration::turbo:
+      return "turbo";
+    case Aspiration::fixed:
+      break;
+  }
+  return "fixed";
+}
+
+// The rated power: a constant power, or the curve's peak of torque x engine speed.
+double rated_power_w(const Powertrain& p) {
+  if (p.ideal) return p.constant_power_w;
+  double peak = 0.0;
+  for (std::size_t i = 0; i < p.torque_nm.size(); ++i)
+    peak = std::max(peak, p.torque_nm[i] * p.engine_radps[i]);
+  return peak;
+}
+
 int check(const CheckOptions& o, Inputs& in) {
   const AirOverride air = parse_air(o.air);
   const Car car = in.car(o.car);
@@ -317,6 +340,20 @@ int check(const CheckOptions& o, Inputs& in) {
   out += "       mass " + fixed(car.mass_kg, 1) + " kg, static front weight " +
          fixed(100 * car.front_weight, 1) + " %, wheelbase " + fixed(car.wheelbase_m, 3) +
          " m, cg height " + fixed(car.cg_height_m, 3) + " m\n";
+  if (car.roll) {
+    const RollGeometry& g = *car.roll;
+    const TransferPerNewton d = lateral_transfer_per_n(car);
+    out += "       lateral load transfer: tracks " + fixed(g.track_front_m, 3) + " / " +
+           fixed(g.track_rear_m, 3) + " m, front roll stiffness " +
+           fixed(100 * g.roll_stiffness_front, 1) + " %, roll centres " +
+           fixed(g.roll_centre_front_m, 3) + " / " + fixed(g.roll_centre_rear_m, 3) +
+           " m: at 1 g, " + fixed(d.front * car.mass_kg * units::g0, 0) + " N front, " +
+           fixed(d.rear * car.mass_kg * units::g0, 0) + " N rear to the outer tyre\n";
+  } else {
+    out += "       no lateral load transfer (no track_width, roll_stiffness_front)\n";
+  }
+  out += "       model " + std::string(car.model == VehicleModel::axle ? "axle" : "point-mass") +
+         ", engine " + aspiration_name(car.powertrain.aspiration) + "\n";
   out += "       aero figures in air of " + describe_air(reference) + "\n";
   JsonWriter j;
   j.begin_object().field("lapwing", version());
@@ -327,7 +364,9 @@ int check(const CheckOptions& o, Inputs& in) {
       .field("front_weight", car.front_weight)
       .field("wheelbase_m", car.wheelbase_m)
       .field("cg_height_m", car.cg_height_m)
-      .field("air_density_kg_m3", reference.density_kg_m3);
+      .field("air_density_kg_m3", reference.density_kg_m3)
+      .field("lateral_load_transfer", car.roll.has_value())
+      .field("aspiration", aspiration_name(car.powertrain.aspiration));
   j.key("configs").begin_array();
   for (std::size_t c = 0; c < car.configs.size(); ++c) describe_config(car, c, reference, out, j);
   j.end_array().end_object();
@@ -354,12 +393,38 @@ int check(const CheckOptions& o, Inputs& in) {
                            ": smoothing " + smoothing_text(p) + ", fit residual " +
                            fixed(1000 * p.fit_residual_rms_m, 1) + " mm rms, curvature noise " +
                            fixed(p.curvature_noise_rms_1pm, 5) + " 1/m rms"
-                     : std::string(": curvature as given") +
-                           (p.has_bank ? "; bank_deg read but not modelled" : "")) +
+                     : std::string(": curvature as given")) +
              "\n";
       for (const auto& n : p.notes) out += "       note: " + n + "\n";
     }
     if (t.track.line_path) out += "       " + line_text(t.track) + "\n";
+    // The engine in this air, next to its rating (SAE J1349 for natural and turbo).
+    const double ratio = engine_power_ratio(car.powertrain, t.air.pressure_pa, t.air.temperature_k,
+                                            t.air.relative_humidity);
+    const double rated = rated_power_w(car.powertrain);
+    out += "       engine (" + std::string(aspiration_name(car.powertrain.aspiration)) +
+           ") in this air: " + fixed(ratio * rated / 1000, 1) + " kW of " + fixed(rated / 1000, 1) +
+           " kW rated (" + fixed(100 * ratio, 1) + " %)\n";
+    // The wind's head component on the longest straight, and the trim zones' share.
+    const PointRun straight = longest_straight(t.mesh);
+    double head = 0.0;
+    for (std::size_t i = straight.first; i <= straight.last; ++i) head += t.mesh.head_wind_mps[i];
+    head /= static_cast<double>(straight.last - straight.first + 1);
+    if (t.track.wind)
+      out += "       wind " + fixed(t.track.wind->speed_mps, 1) + " m/s from " +
+             fixed(t.track.wind->from_rad / units::deg, 0) +
+             " deg: " + (head >= 0 ? "head" : "tail") + " wind " + fixed(std::abs(head), 1) +
+             " m/s on the longest straight (" + fixed(t.mesh.s_m[straight.first], 0) + " to " +
+             fixed(t.mesh.s_m[straight.last], 0) + " m)\n";
+    double zone_share = 1.0;
+    if (!t.track.trim_zones.empty()) {
+      std::size_t zoned = 0;
+      for (std::size_t i = 0; i + 1 < t.mesh.size(); ++i) zoned += t.mesh.trim_zone[i];
+      zone_share = static_cast<double>(zoned) / static_cast<double>(t.mesh.intervals());
+      out += "       trim zones: " + std::to_string(t.track.trim_zones.size()) + ", " +
+             fixed(100 * zone_share, 1) +
+             " % of the lap (the straight-line trim opens only there)\n";
+    }
     std::vector<std::vector<std::string>> trows;
     j.begin_object()
         .field("name", t.track.name)
@@ -377,7 +442,10 @@ int check(const CheckOptions& o, Inputs& in) {
           .null()
           .field("rise_m", cl.elevation_gap_m);
     j.field("corner_count", static_cast<int>(t.corners.size()))
-        .field("air_density_kg_m3", t.air.density_kg_m3);
+        .field("air_density_kg_m3", t.air.density_kg_m3)
+        .field("engine_power_ratio", ratio)
+        .field("head_wind_longest_straight_mps", head)
+        .field("trim_zone_share", zone_share);
     j.key("notes").begin_array();
     if (t.track.profile)
       for (const auto& n : t.track.profile->notes) j.value(n);

@@ -2,7 +2,10 @@
 
 #include <algorithm>
 #include <cassert>
+#include <cmath>
 #include <string>
+
+#include "lapwing/model/air.hpp"
 
 namespace lapwing {
 
@@ -33,8 +36,39 @@ std::optional<Violation> Powertrain::validate() const {
         .range("final_drive", final_drive, positive(), Quantity::number)
         .range("shift_time", shift_time_s, Range{0.0, 2.0}, Quantity::time);
   }
-  return f.range("efficiency", efficiency, Range{0.0, 1.0, true, false}, Quantity::fraction)
-      .result();
+  f.range("efficiency", efficiency, Range{0.0, 1.0, true, false}, Quantity::fraction)
+      .rule(aspiration != Aspiration::turbo || full_power_altitude_m.has_value(), "aspiration",
+            "a turbo engine needs full_power_altitude (the altitude up to which it gives its "
+            "rated power)");
+  if (full_power_altitude_m)
+    f.rule(aspiration == Aspiration::turbo, "full_power_altitude",
+           "full_power_altitude applies to aspiration: turbo only")
+        .range("full_power_altitude", *full_power_altitude_m, full_power_altitude_range,
+               Quantity::length);
+  return f.result();
+}
+
+double j1349_correction_factor(double dry_pressure_pa, double temperature_k) {
+  return 1.18 * (j1349_dry_pressure_pa / dry_pressure_pa) *
+             std::sqrt(temperature_k / j1349_temperature_k) -
+         0.18;
+}
+
+double engine_power_ratio(const Powertrain& p, double pressure_pa, double temperature_k,
+                          double relative_humidity) {
+  const double dry = pressure_pa - relative_humidity * saturation_vapour_pressure_pa(temperature_k);
+  switch (p.aspiration) {
+    case Aspiration::fixed:
+      return 1.0;
+    case Aspiration::natural:
+      return 1.0 / j1349_correction_factor(dry, temperature_k);
+    case Aspiration::turbo: {
+      const double full = standard_atmosphere(*p.full_power_altitude_m).pressure_pa;
+      if (dry >= full) return 1.0;
+      return 1.0 / (1.18 * full / dry - 0.18);
+    }
+  }
+  return 1.0;
 }
 
 double engine_torque_nm(const Powertrain& p, double w) {

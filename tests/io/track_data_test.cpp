@@ -158,7 +158,9 @@ TEST_CASE("columns a data file has but lapwing does not read are named in a note
   const PathProfile q = import_curvature(g);
   REQUIRE(q.notes.size() == 1);
   CHECK(q.notes[0].find("column 'speed_kph' not used") != std::string::npos);
-  CHECK(q.has_bank);
+  // bank_deg is read, in rad, one per row (+ helping a left turn).
+  REQUIRE(q.bank_rad.size() == 20);
+  CHECK(q.bank_rad[5] == doctest::Approx(2 * units::deg));
   std::remove(g.c_str());
 
   // Only the columns read: no note.

@@ -9,6 +9,7 @@
 #include "lapwing/base/violation.hpp"
 #include "lapwing/model/air.hpp"
 #include "lapwing/model/car.hpp"
+#include "lapwing/model/loads.hpp"
 #include "lapwing/model/tyre.hpp"
 
 namespace lapwing {
@@ -75,6 +76,11 @@ class Envelope {
   double table_margin() const { return table_margin_; }
   const TyreModel& tyres() const { return tyres_; }
   const Car& car() const { return car_; }
+  /// The share of the rated engine curve the engine gives in this air (engine_power_ratio,
+  /// model/powertrain.hpp): every drive force in the tables carries it.
+  double power_ratio() const { return power_ratio_; }
+  /// Lateral load transfer per newton of lateral force, front and rear (model/loads.hpp).
+  const TransferPerNewton& transfer() const { return transfer_; }
   const std::string& config_name() const { return car_.configs.front().name; }
 
   /// The speed-dependent quantities at one speed, read from the table with one index
@@ -137,6 +143,30 @@ class Envelope {
   double weight_n() const { return weight_; }
   double rolling_resistance() const { return crr_; }
 
+  /// The forces on the road at u = v^2 on a point of curvature |k| (model/loads.hpp): the
+  /// aero forces at the airspeed, the normal load N = N_body + downforce, the lateral force the
+  /// tyres must supply (+ towards the turn's centre), the resistance along the path
+  /// R = drag + Crr N + W sin(theta), and the drive in the best gear. One table read.
+  struct RoadForces {
+    double drag_n, downforce_n, balance, body_normal_n, normal_n, lateral_n, resistance_n, drive_n;
+  };
+  [[gnu::always_inline]] RoadForces road_forces(const Rows& rows, double u, double abs_curvature,
+                                                const Road& road) const {
+    const Sample s = rows.at(u);
+    const AirspeedSquared q = airspeed_squared(u, road.head_wind_mps);
+    const double drag = s.drag_coef * q.drag, down = s.lift_coef * q.lift;
+    const BodyLoads b = body_loads(mass_, weight_, u, abs_curvature, road);
+    const double normal = b.normal_n + down;
+    return {drag,
+            down,
+            s.balance,
+            b.normal_n,
+            normal,
+            b.lateral_n,
+            drag + crr_ * normal + weight_ * road.sin_slope,
+            s.drive_n};
+  }
+
   /// Vertical load on the tyres, N = m g cos(theta) + downforce.
   double normal_load_n(double v, double cos_grade, bool trimmed = false) const {
     return weight_ * cos_grade + sample(v, trimmed).lift_coef * v * v;
@@ -153,6 +183,8 @@ class Envelope {
 
   Car car_;
   TyreModel tyres_;
+  double power_ratio_ = 1.0;
+  TransferPerNewton transfer_;
   double mass_, mass_eff_, weight_, crr_, rho_;
   double v_max_, v_top_, du_, inv_du_;
   TopSpeedLimit top_limit_ = TopSpeedLimit::drag, table_top_ = TopSpeedLimit::drag;
