@@ -74,7 +74,7 @@ int bench_line(int argc, char** argv) {
   const Car car = load_car(argv[2]);
   const int ci = car.config_index(argv[3]);
   if (ci < 0) throw std::runtime_error(std::string("no config ") + argv[3]);
-  const Car configured = car.configured(static_cast<std::size_t>(ci));
+  const ConfiguredCar configured = car.configured(static_cast<std::size_t>(ci));
   auto stats = [](std::vector<double> v) {
     std::sort(v.begin(), v.end());
     return std::pair<double, double>{v.front(), v[v.size() / 2]};
@@ -147,7 +147,7 @@ int main(int argc, char** argv) {
     const Track track = load_track(argv[2]);
     const int ci = config.empty() ? 0 : car.config_index(config);
     if (ci < 0) throw std::runtime_error("no config " + config);
-    const Car configured = car.configured(static_cast<std::size_t>(ci));
+    const ConfiguredCar configured = car.configured(static_cast<std::size_t>(ci));
     const Air air = make_air(track.air);
     const Mesh mesh = build_mesh(track, mesh_m);
 
@@ -182,13 +182,13 @@ int main(int argc, char** argv) {
     for (int b = 0; b < batches; ++b) {
       t0 = clock::now();
       for (int k = 0; k < per_batch; ++k)
-        sink += solver.solve(env, mesh, track.start_speed_mps, false).lap_time_s;
+        sink += solver.solve_speed(env, mesh, track.start_speed_mps).lap_time_s;
       bare_s.push_back(std::chrono::duration<double>(clock::now() - t0).count() / per_batch);
     }
     std::sort(bare_s.begin(), bare_s.end());
     std::printf("track %s: %.1f m, %zu mesh points at %.3f m; config %s; lap %.3f s\n",
                 track.name.c_str(), mesh.length_m, mesh.size(), mesh.step_m,
-                configured.configs.front().name.c_str(), warm.lap_time_s);
+                configured.aero().name.c_str(), warm.lap_time_s);
     std::printf("envelope build: %.3f ms (mean of %d)\n", envelope_s * 1e3, envelope_builds);
     const double points = static_cast<double>(mesh.size());
     std::printf(

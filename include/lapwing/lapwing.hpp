@@ -69,6 +69,7 @@
 #include "lapwing/report/cells.hpp"
 #include "lapwing/report/compare_report.hpp"
 #include "lapwing/report/html_report.hpp"
+#include "lapwing/report/labels.hpp"
 #include "lapwing/report/lap_files.hpp"
 #include "lapwing/report/lap_text.hpp"
 #include "lapwing/report/svg.hpp"

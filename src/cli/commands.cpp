@@ -212,9 +212,10 @@ namespace {
 // Per config: what check reports of its aero at a few speeds in one air.
 void describe_config(const Car& car, std::size_t index, const Air& air, std::string& out,
                      JsonWriter& j) {
-  const Car cc = car.configured(index);
-  const AeroConfig& a = cc.configs.front();
-  const Envelope env(cc, air);
+  const ConfiguredCar configured = car.configured(index);
+  const Car& cc = configured.car();
+  const AeroConfig& a = configured.aero();
+  const Envelope env(configured, air);
   const AeroPoint rest = env.aero_point(0.0);
   j.begin_object()
       .field("name", a.name)
@@ -250,7 +251,8 @@ void describe_config(const Car& car, std::size_t index, const Air& air, std::str
     const double share = p.balance;
     const std::optional<double> with_moment = aero_balance_with_drag_moment(
         p.cla_m2, p.cda_m2, p.balance, cc.drag_height_m, cc.wheelbase_m);
-    const double front_aero = down * p.balance - drag * cc.drag_height_m / cc.wheelbase_m;
+    const double front_aero =
+        aero_axle_loads(down, p.balance, drag, cc.drag_height_m, cc.wheelbase_m).front_n;
     if (!with_moment) no_downforce = true;
     std::vector<std::string> row{fixed(speed_kph, 0),
                                  fixed(down, 0),
@@ -295,7 +297,7 @@ void describe_config(const Car& car, std::size_t index, const Air& air, std::str
     notes.push_back("straight-line trim: CdA " + fixed(a.trim->dcda_m2, 3) + " m2, ClA " +
                     fixed(a.trim->dcla_m2, 3) + " m2, balance " + fixed(100 * a.trim->dbalance, 1) +
                     " points where |curvature| < " + fixed(a.trim->below_curvature_1pm, 4) +
-                    " 1/m under full drive");
+                    " 1/m under drive");
   j.key("notes").begin_array();
   for (const auto& n : notes) {
     out += "       note: " + n + "\n";
@@ -468,7 +470,7 @@ int check(const CheckOptions& o, Inputs& in) {
     std::vector<TrackQuality> qualities;
     std::vector<std::string> solve_notes;
     for (std::size_t c = 0; c < car.configs.size(); ++c) {
-      const Car cc = car.configured(c);
+      const ConfiguredCar cc = car.configured(c);
       try {
         const double lap = run_lap(cc, t).summary.lap_time_s;
         qualities.push_back(assess_track(t, variants, cc, car.configs[c].name, lap));
@@ -566,7 +568,7 @@ int run(const RunOptions& o, Inputs& in) {
   apply_model(o.model, car);
   const std::size_t ci = pick_config(car, o.config);
   const Circuit t = in.lay_out(o.track, air);
-  const Car configured = car.configured(ci);
+  const ConfiguredCar configured = car.configured(ci);
   LapRun r = run_lap(configured, t);
   // The data's verdict; a poor one is a warning with the lap's own.
   const TrackQuality quality = assess_track(t, smoothing_variants(t), configured,
@@ -803,8 +805,8 @@ int track_line(const TrackLineOptions& o, Inputs& in) {
   std::optional<Car> car;
   if (!o.car.empty()) car = in.car(o.car);
   const std::size_t ci = car ? pick_config(*car, o.config) : 0;
-  std::optional<Car> configured;
-  if (car) configured = car->configured(ci);
+  std::optional<ConfiguredCar> configured;
+  if (car) configured.emplace(*car, ci);
 
   // A track without widths, or too narrow for the vehicle and its margins: an InvalidInput of
   // the track's "line" key (at the line: key, else the file as a whole).

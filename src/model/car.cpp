@@ -118,16 +118,18 @@ std::vector<std::string> Car::config_names() const {
   return v;
 }
 
-Car Car::configured(std::size_t index) const {
-  Car c = *this;
-  const AeroConfig& a = configs.at(index);
-  c.mass_kg = a.mass_kg.value_or(mass_kg);
-  c.inertia_factor = a.inertia_factor.value_or(inertia_factor);
-  c.cg_height_m = a.cg_height_m.value_or(cg_height_m);
-  c.front_weight = a.front_weight.value_or(front_weight);
-  c.drag_height_m = a.drag_height_m.value_or(drag_height_m);
-  c.configs = {a};
-  return c;
+ConfiguredCar Car::configured(std::size_t index) const {
+  return ConfiguredCar(*this, index);
+}
+
+ConfiguredCar::ConfiguredCar(const Car& car, std::size_t index) : car_(car) {
+  const AeroConfig& a = car.configs.at(index);
+  car_.mass_kg = a.mass_kg.value_or(car.mass_kg);
+  car_.inertia_factor = a.inertia_factor.value_or(car.inertia_factor);
+  car_.cg_height_m = a.cg_height_m.value_or(car.cg_height_m);
+  car_.front_weight = a.front_weight.value_or(car.front_weight);
+  car_.drag_height_m = a.drag_height_m.value_or(car.drag_height_m);
+  car_.configs = {a};
 }
 
 }  // namespace lapwing

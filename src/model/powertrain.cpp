@@ -5,6 +5,7 @@
 #include <cmath>
 #include <string>
 
+#include "lapwing/base/interpolate.hpp"
 #include "lapwing/model/air.hpp"
 
 namespace lapwing {
@@ -48,10 +49,16 @@ std::optional<Violation> Powertrain::validate() const {
   return f.result();
 }
 
+namespace {
+// The SAE J1349 (June 1990) law once, in ratios to the reference air:
+//   CF = 1.18 (p_ref / p_dry) sqrt(T / T_ref) - 0.18.
+double j1349_law(double pressure_ratio, double temperature_ratio) {
+  return 1.18 * pressure_ratio * std::sqrt(temperature_ratio) - 0.18;
+}
+}  // namespace
+
 double j1349_correction_factor(double dry_pressure_pa, double temperature_k) {
-  return 1.18 * (j1349_dry_pressure_pa / dry_pressure_pa) *
-             std::sqrt(temperature_k / j1349_temperature_k) -
-         0.18;
+  return j1349_law(j1349_dry_pressure_pa / dry_pressure_pa, temperature_k / j1349_temperature_k);
 }
 
 double engine_power_ratio(const Powertrain& p, double pressure_pa, double temperature_k,
@@ -65,7 +72,7 @@ double engine_power_ratio(const Powertrain& p, double pressure_pa, double temper
     case Aspiration::turbo: {
       const double full = standard_atmosphere(*p.full_power_altitude_m).pressure_pa;
       if (dry >= full) return 1.0;
-      return 1.0 / (1.18 * full / dry - 0.18);
+      return 1.0 / j1349_law(full / dry, 1.0);  // 1 / (1.18 p_fp / p_dry - 0.18)
     }
   }
   return 1.0;
@@ -76,12 +83,8 @@ double engine_torque_nm(const Powertrain& p, double w) {
   const auto& x = p.engine_radps;
   const auto& y = p.torque_nm;
   if (w > p.rev_limit_radps) return 0.0;
-  if (w <= x.front()) return y.front();  // clutch slip: engine held at its lowest speed
-  auto it = std::upper_bound(x.begin(), x.end(), w);
-  if (it == x.end()) return y.back();
-  const std::size_t i = static_cast<std::size_t>(it - x.begin());
-  const double f = (w - x[i - 1]) / (x[i] - x[i - 1]);
-  return y[i - 1] + f * (y[i] - y[i - 1]);
+  // Below the curve's first speed the engine is held there (clutch slip): its first torque.
+  return interpolate(x, y, w);
 }
 
 Drive best_drive(const Powertrain& p, double r, double v) {

@@ -7,6 +7,7 @@
 
 #include "lapwing/base/error.hpp"
 #include "lapwing/base/format.hpp"
+#include "lapwing/base/interpolate.hpp"
 #include "lapwing/path/geodesy.hpp"
 #include "lapwing/path/smoothing.hpp"
 
@@ -100,7 +101,7 @@ Samples resample(const CenterlinePoints& p, bool closed, const std::vector<doubl
     const std::size_t a = seg, b = (seg + 1) % m;
     const double d = c[seg + 1] - c[seg];
     const double w = d > 0.0 ? (s - c[seg]) / d : 0.0;
-    auto at = [&](const std::vector<double>& v) { return v[a] + w * (v[b] - v[a]); };
+    auto at = [&](const std::vector<double>& v) { return lerp(v[a], v[b], w); };
     // Hermite basis: h00 = 2t^3 - 3t^2 + 1, h10 = t^3 - 2t^2 + t, h01 = -2t^3 + 3t^2,
     // h11 = t^3 - t^2.
     const double w2 = w * w, w3 = w2 * w;

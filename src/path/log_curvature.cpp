@@ -2,7 +2,9 @@
 
 #include <algorithm>
 #include <cmath>
+
 #include <string>
+#include "lapwing/base/interpolate.hpp"
 
 #include "lapwing/base/error.hpp"
 #include "lapwing/base/units.hpp"
@@ -63,7 +65,7 @@ LogCurvature log_curvature(const LogChannels& log, const LogCurvatureOptions& o)
         for (std::size_t j = 0; j < i; ++j) k[j] = k[i];
       else
         for (std::size_t j = last + 1; j < i; ++j)
-          k[j] = k[last] + (k[i] - k[last]) * (s[j] - s[last]) / (s[i] - s[last]);
+          k[j] = lerp(k[last], k[i], (s[j] - s[last]) / (s[i] - s[last]));
       last = i;
     }
     if (last == k.size())
@@ -81,15 +83,14 @@ LogCurvature log_curvature(const LogChannels& log, const LogCurvatureOptions& o)
   const double step = length / static_cast<double>(n);
   std::vector<double> rs(n + 1), rk(n + 1), rv(n + 1);
   std::vector<std::size_t> row(n + 1);  // the log row nearest each sample (for errors)
-  std::size_t seg = 0;
+  AxisWalk walk(s);
   for (std::size_t j = 0; j <= n; ++j) {
     const double sj = std::min(length, static_cast<double>(j) * step);
-    while (seg + 2 < s.size() && s[seg + 1] < sj) ++seg;
-    const double w = (sj - s[seg]) / (s[seg + 1] - s[seg]);
+    const Bracket w = walk.at(sj);
     rs[j] = sj;
-    rk[j] = k[seg] + w * (k[seg + 1] - k[seg]);
-    rv[j] = v[seg] + w * (v[seg + 1] - v[seg]);
-    row[j] = w < 0.5 ? seg : seg + 1;
+    rk[j] = at(k, w);
+    rv[j] = at(v, w);
+    row[j] = w.w < 0.5 ? w.i : w.i + 1;
   }
   LogCurvature out;
   out.length_m = length;
@@ -114,7 +115,7 @@ LogCurvature log_curvature(const LogChannels& log, const LogCurvatureOptions& o)
       const double sj = std::min(length, static_cast<double>(j) * hr);
       while (at + 2 < s.size() && s[at + 1] < sj) ++at;
       const double w = (sj - s[at]) / (s[at + 1] - s[at]);
-      kr.push_back(k[at] + w * (k[at + 1] - k[at]));
+      kr.push_back(lerp(k[at], k[at + 1], w));
     }
     // From 2 to 100 row spacings (as a centerline's points: centerline.hpp).
     const double lo = 2.0 * hr;

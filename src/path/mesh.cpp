@@ -110,22 +110,6 @@ double wrap_angle(double a) {
 
 namespace {
 
-// Linear interpolation in a profile's samples at distance s (increasing calls).
-class ProfileReader {
- public:
-  explicit ProfileReader(const PathProfile& p) : p_(p) {}
-  double at(const std::vector<double>& v, double s) {
-    while (i_ + 2 < p_.s_m.size() && p_.s_m[i_ + 1] <= s) ++i_;
-    const double a = p_.s_m[i_], b = p_.s_m[i_ + 1];
-    const double w = b > a ? std::clamp((s - a) / (b - a), 0.0, 1.0) : 0.0;
-    return v[i_] + w * (v[i_ + 1] - v[i_]);
-  }
-
- private:
-  const PathProfile& p_;
-  std::size_t i_ = 0;
-};
-
 double turning_of(const PathProfile& p) {
   double th = 0.0;
   for (std::size_t i = 1; i < p.s_m.size(); ++i)
@@ -261,19 +245,20 @@ Mesh build_mesh(const Track& track, double step_m) {
     // From the profile's samples: curvature, grade, position and elevation linear between
     // them; heading integrated from the curvature from the first chord's direction.
     const PathProfile& p = *lapped;
-    ProfileReader pr(p);
+    AxisWalk walk(p.s_m);
     double heading = std::atan2(p.y_m[1] - p.y_m[0], p.x_m[1] - p.x_m[0]);
     for (std::size_t i = 0; i <= n; ++i) {
       const double s = (i == n) ? length : static_cast<double>(i) * m.step_m;
+      const Bracket b = walk.at(s);
       m.s_m[i] = s;
-      m.x_m[i] = pr.at(p.x_m, s);
-      m.y_m[i] = pr.at(p.y_m, s);
-      m.curvature_1pm[i] = pr.at(p.curvature_1pm, s);
-      m.grade[i] = pr.at(p.grade, s);
-      m.elevation_m[i] = pr.at(p.elevation_m, s);
+      m.x_m[i] = at(p.x_m, b);
+      m.y_m[i] = at(p.y_m, b);
+      m.curvature_1pm[i] = at(p.curvature_1pm, b);
+      m.grade[i] = at(p.grade, b);
+      m.elevation_m[i] = at(p.elevation_m, b);
       if (widths) {
-        m.width_left_m[i] = pr.at(p.width_left_m, s);
-        m.width_right_m[i] = pr.at(p.width_right_m, s);
+        m.width_left_m[i] = at(p.width_left_m, b);
+        m.width_right_m[i] = at(p.width_right_m, b);
       }
       if (i) heading += 0.5 * (m.curvature_1pm[i - 1] + m.curvature_1pm[i]) * m.step_m;
       m.heading_rad[i] = heading;

@@ -2,6 +2,7 @@
 
 #include "lapwing/base/format.hpp"
 #include "lapwing/base/units.hpp"
+#include "lapwing/report/labels.hpp"
 #include "lapwing/report/text_table.hpp"
 
 namespace lapwing {
@@ -75,7 +76,7 @@ std::vector<std::string> window_cells(const BalanceWindowResult& r) {
 }
 
 std::string axle_cell(const CornerResult& c) {
-  return c.entry_axle + "/" + c.apex_axle + "/" + c.exit_axle;
+  return label(c.entry_axle) + "/" + label(c.apex_axle) + "/" + label(c.exit_axle);
 }
 
 std::string balance_index_cell(const CornerResult& c) {

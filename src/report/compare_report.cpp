@@ -6,6 +6,7 @@
 #include "lapwing/io/csv_writer.hpp"
 #include "lapwing/io/json.hpp"
 #include "lapwing/report/cells.hpp"
+#include "lapwing/report/labels.hpp"
 #include "lapwing/report/lap_files.hpp"
 #include "lapwing/report/text_table.hpp"
 #include "lapwing/report/verdict.hpp"
@@ -56,7 +57,7 @@ std::string compare_json(const Car& car, const Comparison& c,
       w.key("pieces").begin_array();
       for (const auto& p : e.pieces)
         w.begin_object()
-            .field("kind", p.kind)
+            .field("kind", label(p.kind))
             .field("id", p.id)
             .field("start_m", p.start_m)
             .field("end_m", p.end_m)
@@ -153,7 +154,7 @@ std::string compare_table(const Car& car, const Comparison& c,
       for (std::size_t p = 0; p < pieces.size(); ++p) {
         const LapPiece& lp = pieces[p];
         std::vector<std::string> row{
-            lp.kind == "corner"
+            lp.kind == PieceKind::corner
                 ? "corner " + std::to_string(lp.id)
                 : (lp.id ? "straight to " + std::to_string(lp.id) : "straight to line"),
             fixed(lp.start_m, 0), fixed(lp.end_m, 0)};

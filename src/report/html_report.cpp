@@ -11,6 +11,7 @@
 #include "lapwing/base/version.hpp"
 #include "lapwing/io/json.hpp"
 #include "lapwing/report/cells.hpp"
+#include "lapwing/report/labels.hpp"
 #include "lapwing/report/svg.hpp"
 #include "lapwing/report/text_table.hpp"
 #include "lapwing/report/track_quality_text.hpp"
@@ -863,7 +864,7 @@ std::string html_report(const ReportInput& in) {
                                      fixed(bc[i].apex_m, 0)};
         for (const auto& e : pt.entries)
           row.push_back(fixed(units::to_kph(e.run.summary.corners[i].apex_mps), 1));
-        row.push_back(escape(bc[i].limit));
+        row.push_back(escape(std::string(label(bc[i].limit))));
         // Breaks allowed after each '/' so that a narrow page wraps the three values.
         auto breakable = [](const std::string& text) {
           std::string out;

@@ -5,6 +5,7 @@
 #include "lapwing/io/csv_writer.hpp"
 #include "lapwing/report/cells.hpp"
 #include "lapwing/report/track_quality_text.hpp"
+#include "lapwing/report/labels.hpp"
 
 namespace lapwing {
 
@@ -132,10 +133,10 @@ std::string summary_json(const std::string& car_name, const std::vector<LapSumma
           .field("apex_kph", units::to_kph(c.apex_mps))
           .field("exit_kph", units::to_kph(c.exit_mps))
           .field("time_s", c.time_s)
-          .field("limit", c.limit)
-          .field("entry_axle", c.entry_axle)
-          .field("apex_axle", c.apex_axle)
-          .field("exit_axle", c.exit_axle)
+          .field("limit", label(c.limit))
+          .field("entry_axle", label(c.entry_axle))
+          .field("apex_axle", label(c.apex_axle))
+          .field("exit_axle", label(c.exit_axle))
           .field("entry_balance_index", c.entry_balance_index)
           .field("apex_balance_index", c.apex_balance_index)
           .field("exit_balance_index", c.exit_balance_index)
@@ -224,10 +225,10 @@ constexpr CornerColumn corner_columns[] = {
     {"exit_kph",
      [](std::string& o, const CornerRow& r) { csv_number(o, units::to_kph(r.c.exit_mps)); }},
     {"time_s", [](std::string& o, const CornerRow& r) { csv_number(o, r.c.time_s); }},
-    {"limit", [](std::string& o, const CornerRow& r) { csv_text(o, r.c.limit); }},
-    {"entry_axle", [](std::string& o, const CornerRow& r) { csv_text(o, r.c.entry_axle); }},
-    {"apex_axle", [](std::string& o, const CornerRow& r) { csv_text(o, r.c.apex_axle); }},
-    {"exit_axle", [](std::string& o, const CornerRow& r) { csv_text(o, r.c.exit_axle); }},
+    {"limit", [](std::string& o, const CornerRow& r) { csv_text(o, label(r.c.limit)); }},
+    {"entry_axle", [](std::string& o, const CornerRow& r) { csv_text(o, label(r.c.entry_axle)); }},
+    {"apex_axle", [](std::string& o, const CornerRow& r) { csv_text(o, label(r.c.apex_axle)); }},
+    {"exit_axle", [](std::string& o, const CornerRow& r) { csv_text(o, label(r.c.exit_axle)); }},
     {"entry_balance_index",
      [](std::string& o, const CornerRow& r) { csv_number(o, r.c.entry_balance_index); }},
     {"apex_balance_index",

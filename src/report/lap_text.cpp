@@ -3,6 +3,7 @@
 #include "lapwing/base/format.hpp"
 #include "lapwing/base/units.hpp"
 #include "lapwing/report/cells.hpp"
+#include "lapwing/report/labels.hpp"
 #include "lapwing/report/text_table.hpp"
 
 namespace lapwing {
@@ -67,7 +68,7 @@ std::string lap_table(const LapSummary& s) {
       rows.push_back({std::to_string(c.id), c.direction > 0 ? "L" : "R", fixed(c.start_m, 1),
                       fixed(c.apex_m, 1), fixed(c.end_m, 1), fixed(units::to_kph(c.entry_mps), 1),
                       fixed(units::to_kph(c.apex_mps), 1), fixed(units::to_kph(c.exit_mps), 1),
-                      fixed(c.time_s, 3), c.limit, axle_cell(c), balance_index_cell(c)});
+                      fixed(c.time_s, 3), label(c.limit), axle_cell(c), balance_index_cell(c)});
     o += "\n" + text_table({"corner", "turn", "start m", "apex m", "end m", "entry km/h",
                             "apex km/h", "exit km/h", "time s", "limit", "axle entry/apex/exit",
                             "front-rear usage entry/apex/exit"},

@@ -6,6 +6,7 @@
 #include <limits>
 
 #include "lapwing/report/text_table.hpp"
+#include "lapwing/base/interpolate.hpp"
 
 namespace lapwing::svg {
 
@@ -55,14 +56,12 @@ const std::string& series_colour(std::size_t i) {
 std::string ramp_colour(double t) {
   t = std::clamp(t, 0.0, 1.0);
   const double stops[3][3] = {{35, 48, 92}, {42, 127, 138}, {242, 229, 138}};
-  const double f = t * 2.0;
-  const int k = std::min(1, static_cast<int>(f));
-  const double w = f - k;
+  const Bracket b = even_bracket(t * 2.0, 2);
+  auto channel = [&](int c) {
+    return static_cast<int>(std::lround(lerp(stops[b.i][c], stops[b.i + 1][c], b.w)));
+  };
   char buf[8];
-  std::snprintf(buf, sizeof buf, "#%02x%02x%02x",
-                static_cast<int>(std::lround(stops[k][0] + w * (stops[k + 1][0] - stops[k][0]))),
-                static_cast<int>(std::lround(stops[k][1] + w * (stops[k + 1][1] - stops[k][1]))),
-                static_cast<int>(std::lround(stops[k][2] + w * (stops[k + 1][2] - stops[k][2]))));
+  std::snprintf(buf, sizeof buf, "#%02x%02x%02x", channel(0), channel(1), channel(2));
   return buf;
 }
 
@@ -334,7 +333,7 @@ std::vector<std::array<double, 4>> contour_segments(const std::vector<double>& x
   // Point where the level crosses the edge from (xa, ya, za) to (xb, yb, zb).
   auto cross = [level](double xa, double ya, double za, double xb, double yb, double zb) {
     const double t = (level - za) / (zb - za);
-    return std::array<double, 2>{xa + t * (xb - xa), ya + t * (yb - ya)};
+    return std::array<double, 2>{lerp(xa, xb, t), lerp(ya, yb, t)};
   };
   for (std::size_t i = 0; i + 1 < nx; ++i)
     for (std::size_t j = 0; j + 1 < ny; ++j) {

@@ -77,23 +77,6 @@ double transfer_fixed_point(Phi phi) {
 }
 }  // namespace
 
-AxleLoads axle_loads(const Car& car, double drag_n, double downforce_n, double balance,
-                     double cos_slope, double sin_slope, double ax) {
-  const double weight = car.mass_kg * units::g0;
-  const double total = weight * cos_slope + downforce_n;
-  const double front = weight * cos_slope * car.front_weight + downforce_n * balance -
-                       (drag_n * car.drag_height_m + car.mass_kg * ax * car.cg_height_m +
-                        weight * sin_slope * car.cg_height_m) /
-                           car.wheelbase_m;
-  return {front, total - front};
-}
-
-std::optional<double> aero_balance_with_drag_moment(double cla_m2, double cda_m2, double balance,
-                                                    double drag_height_m, double wheelbase_m) {
-  if (!(cla_m2 > 0.0)) return std::nullopt;
-  return (cla_m2 * balance - cda_m2 * drag_height_m / wheelbase_m) / cla_m2;
-}
-
 AxleUsage axle_usage(const Envelope& env, const AxleLoads& loads, double fx, double fy) {
   const Car& car = env.car();
   const TyreModel& t = env.tyres();
@@ -138,7 +121,7 @@ struct Forces {
 };
 Forces forces_at(const Envelope& env, double u, double k, const Road& road, bool trimmed) {
   const Envelope::RoadForces f = env.road_forces(env.rows(trimmed), u, k, road);
-  return {f.drag_n,       f.downforce_n,         f.balance, f.body_normal_n / env.weight_n(),
+  return {f.drag_n,       f.downforce_n,         f.balance, f.normal_share,
           f.resistance_n, std::abs(f.lateral_n), f.drive_n};
 }
 

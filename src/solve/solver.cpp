@@ -8,6 +8,7 @@
 #include <cmath>
 #include <limits>
 #include <sstream>
+#include <stdexcept>
 #include <tuple>
 #include <utility>
 
@@ -514,11 +515,32 @@ Lap solve_lap(const Envelope& env, const Mesh& mesh, double start_speed_mps) {
   return solver.take();
 }
 
-const Lap& LapSolver::solve(const Envelope& env, const Mesh& mesh, double start_speed_mps,
-                            bool channels) {
+const Lap& LapSolver::solve(const Envelope& env, const Mesh& mesh, double start_speed_mps) {
+  // The channels pass overwrites every channel: they keep their storage from the last lap (no
+  // clear, which would cost a fill of each on the way back).
+  speed_pass(env, mesh, start_speed_mps);
+  return add_channels(env, mesh);
+}
+
+const Lap& LapSolver::solve_speed(const Envelope& env, const Mesh& mesh, double start_speed_mps) {
+  speed_pass(env, mesh, start_speed_mps);
+  // Speed, phase and time only: what a study that needs the lap time reads. The channels of an
+  // earlier lap go, so that none is read against this lap's speeds.
+  Lap& lap = lap_;
+  for (auto* v : {&lap.long_accel_mps2, &lap.lat_accel_mps2, &lap.engine_radps, &lap.drag_n,
+                  &lap.downforce_n, &lap.front_load_n, &lap.rear_load_n, &lap.front_share,
+                  &lap.aero_balance_eff, &lap.front_usage, &lap.rear_usage})
+    v->clear();
+  lap.gear.clear();
+  lap.trimmed.clear();
+  return lap;
+}
+
+void LapSolver::speed_pass(const Envelope& env, const Mesh& mesh, double start_speed_mps) {
   const std::size_t n = mesh.size();
   assert(n >= 3);
   Lap& lap = lap_;
+  lap.has_channels = false;  // none of this lap yet (also if the solve throws)
   steady_profile(env, mesh, lap.steady);
   const auto& steady = lap.steady.speed_mps;
   SweepResult& fwd = forward_;
@@ -552,16 +574,8 @@ const Lap& LapSolver::solve(const Envelope& env, const Mesh& mesh, double start_
   for (std::size_t i = 0; i < n; ++i) {
     const double v = std::min(fwd.speed_mps[i], bwd.speed_mps[i]);
     lap.speed_mps[i] = v;
-    Phase ph;
-    if (bwd.speed_mps[i] < fwd.speed_mps[i])
-      ph = Phase::brake;
-    else if (fwd.clipped[i])
-      ph = lap.steady.limit[i] == SteadyLimit::grip ? Phase::corner : Phase::top_speed;
-    else if (fwd.cut[i])
-      ph = Phase::shift;
-    else
-      ph = Phase::accelerate;
-    lap.phase[i] = ph;
+    lap.phase[i] = classify_phase(bwd.speed_mps[i] < fwd.speed_mps[i], fwd.clipped[i],
+                                  lap.steady.limit[i], fwd.cut[i]);
   }
 
   // Time: sum of 2 ds / (v_i + v_{i+1}), exact for a constant acceleration over each step
@@ -574,21 +588,19 @@ const Lap& LapSolver::solve(const Envelope& env, const Mesh& mesh, double start_
     lap.time_s[i + 1] = lap.time_s[i] + 2.0 * mesh.step_m / vsum;
   }
   lap.lap_time_s = lap.time_s[n - 1];
-  lap.has_channels = channels;
-  if (!channels) {
-    // Speed, phase and time only: what a study that needs the lap time reads.
-    for (auto* v : {&lap.long_accel_mps2, &lap.lat_accel_mps2, &lap.engine_radps, &lap.drag_n,
-                    &lap.downforce_n, &lap.front_load_n, &lap.rear_load_n, &lap.front_share,
-                    &lap.aero_balance_eff, &lap.front_usage, &lap.rear_usage})
-      v->clear();
-    lap.gear.clear();
-    lap.trimmed.clear();
-    return lap;
-  }
+}
 
+const Lap& LapSolver::add_channels(const Envelope& env, const Mesh& mesh) {
+  const std::size_t n = mesh.size();
+  Lap& lap = lap_;
+  const SweepResult& fwd = forward_;
+  if (lap.speed_mps.size() != n || fwd.gear.size() != n)
+    throw std::logic_error("LapSolver::add_channels: no speed solve on this mesh");
+  if (lap.has_channels) return lap;
+  lap.has_channels = true;
   // Channels along the lap.
   const Car& car = env.car();
-  const double g = units::g0, m = env.mass_kg(), wb = car.wheelbase_m;
+  const double m = env.mass_kg(), wb = car.wheelbase_m;
   lap.long_accel_mps2.resize(n);
   lap.lat_accel_mps2.resize(n);
   lap.gear.resize(n);
@@ -637,7 +649,6 @@ const Lap& LapSolver::solve(const Envelope& env, const Mesh& mesh, double start_
     return std::max(diff, -(axle_model ? brake_accel<true>(env, rows, u, k, road, inv)
                                        : brake_accel<false>(env, rows, u, k, road, inv)));
   };
-  const double weight = m * g;
   for (std::size_t i = 0; i < n; ++i) {
     const double v = lap.speed_mps[i];
     const double ax = point_accel(i);
@@ -646,9 +657,7 @@ const Lap& LapSolver::solve(const Envelope& env, const Mesh& mesh, double start_
     // a flat road; less the weight's part down a bank).
     const Road road = road_at(mesh, i);
     const double k = std::abs(mesh.curvature_1pm[i]);
-    const bool trimmed = env.trims(k) && mesh.trim_zone[i] &&
-                         (lap.phase[i] == Phase::accelerate || lap.phase[i] == Phase::top_speed ||
-                          lap.phase[i] == Phase::shift);
+    const bool trimmed = env.trims(k) && mesh.trim_zone[i] && under_drive(lap.phase[i]);
     const Envelope::RoadForces f = env.road_forces(env.rows(trimmed), v * v, k, road);
     lap.lat_accel_mps2[i] = (mesh.curvature_1pm[i] < 0.0 ? -1.0 : 1.0) * f.lateral_n / m;
     // Under drive the gear the forward sweep engaged (held through a shift's cut); under
@@ -668,8 +677,8 @@ const Lap& LapSolver::solve(const Envelope& env, const Mesh& mesh, double start_
     // Axle loads and what each axle carries (axle.hpp): the tyre force along the path is what
     // accelerates the car's mass m plus the resistance (the rotating parts' spin-up is torque
     // inside the driveline, not road force).
-    const AxleLoads loads = axle_loads(car, f.drag_n, f.downforce_n, row.balance,
-                                       f.body_normal_n / weight, road.sin_slope, ax);
+    const AxleLoads loads =
+        axle_loads(car, f.drag_n, f.downforce_n, row.balance, f.normal_share, road.sin_slope, ax);
     lap.front_load_n[i] = loads.front_n;
     lap.rear_load_n[i] = loads.rear_n;
     lap.front_share[i] = loads.front_n / (loads.front_n + loads.rear_n);

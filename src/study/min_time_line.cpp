@@ -38,7 +38,7 @@ std::vector<double> grip_weights(const PathProfile& line, const Mesh& mesh, cons
 
 }  // namespace
 
-MinTimeLine min_time_line(const Track& track, const Air& air, const Car& car,
+MinTimeLine min_time_line(const Track& track, const Air& air, const ConfiguredCar& car,
                           const LineSpec& spec) {
   const LineReference ref = line_reference(track);
   LineOptions o;

@@ -64,7 +64,7 @@ SmoothingVariants smoothing_variants(const Circuit& c) {
   return v;
 }
 
-TrackQuality assess_track(const Circuit& c, const SmoothingVariants& v, const Car& car,
+TrackQuality assess_track(const Circuit& c, const SmoothingVariants& v, const ConfiguredCar& car,
                           const std::string& config, double lap_s) {
   TrackQuality q;
   q.track_id = c.track.id;

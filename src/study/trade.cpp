@@ -10,28 +10,26 @@
 
 namespace lapwing {
 
-Car scaled(const Car& car, Knob knob, double f) {
-  assert(car.configs.size() == 1 && "scaled takes a configured car");
-  Car c = car;
-  AeroConfig& a = c.configs.front();
-  switch (knob) {
-    case Knob::cla:
-      for (double& v : a.cla_m2) v *= f;
-      if (a.map) a.map->cla_m2 *= f;
-      break;
-    case Knob::cda:
-      for (double& v : a.cda_m2) v *= f;
-      if (a.map) a.map->cda_m2 *= f;
-      break;
-    case Knob::mass:
-      c.mass_kg *= f;
-      break;
-    case Knob::power:
-      if (c.powertrain.ideal) c.powertrain.constant_power_w *= f;
-      for (double& t : c.powertrain.torque_nm) t *= f;
-      break;
-  }
-  return c;
+ConfiguredCar scaled(const ConfiguredCar& car, Knob knob, double f) {
+  return car.changed([&](Car& c, AeroConfig& a) {
+    switch (knob) {
+      case Knob::cla:
+        for (double& v : a.cla_m2) v *= f;
+        if (a.map) a.map->cla_m2 *= f;
+        break;
+      case Knob::cda:
+        for (double& v : a.cda_m2) v *= f;
+        if (a.map) a.map->cda_m2 *= f;
+        break;
+      case Knob::mass:
+        c.mass_kg *= f;
+        break;
+      case Knob::power:
+        if (c.powertrain.ideal) c.powertrain.constant_power_w *= f;
+        for (double& t : c.powertrain.torque_nm) t *= f;
+        break;
+    }
+  });
 }
 
 bool zero_area(const AeroConfig& a, Knob knob) {
@@ -44,7 +42,7 @@ bool zero_area(const AeroConfig& a, Knob knob) {
 }
 
 AeroOperatingPoint operating_point(const Envelope& env, const Lap& lap) {
-  const AeroConfig& a = env.car().configs.front();
+  const AeroConfig& a = env.aero();
   if (a.speed_mps.empty() && !a.map) return {a.cla_m2.front(), a.cda_m2.front()};
   // Time-weighted mean of the coefficients the envelope reads at the lap's speeds: interval i
   // gives half its time to each end, C_mean = sum_i dt_i (C_i + C_{i+1}) / 2 / T.
@@ -62,18 +60,17 @@ AeroOperatingPoint operating_point(const Envelope& env, const Lap& lap) {
   return {cla * to_area / lap.lap_time_s, cda * to_area / lap.lap_time_s};
 }
 
-Car shifted(const Car& car, Knob knob, double delta_m2) {
+ConfiguredCar shifted(const ConfiguredCar& car, Knob knob, double delta_m2) {
   assert(knob == Knob::cla || knob == Knob::cda);
-  Car c = car;
-  AeroConfig& a = c.configs.front();
-  auto& rows = knob == Knob::cla ? a.cla_m2 : a.cda_m2;
-  for (double& v : rows) v += delta_m2;
-  if (a.map) (knob == Knob::cla ? a.map->cla_m2 : a.map->cda_m2).array() += delta_m2;
-  return c;
+  return car.changed([&](Car&, AeroConfig& a) {
+    auto& rows = knob == Knob::cla ? a.cla_m2 : a.cda_m2;
+    for (double& v : rows) v += delta_m2;
+    if (a.map) (knob == Knob::cla ? a.map->cla_m2 : a.map->cda_m2).array() += delta_m2;
+  });
 }
 
-Car varied(const Car& car, Knob knob, double r) {
-  const AeroConfig& a = car.configs.front();
+ConfiguredCar varied(const ConfiguredCar& car, Knob knob, double r) {
+  const AeroConfig& a = car.aero();
   if ((knob == Knob::cla || knob == Knob::cda) && zero_area(a, knob)) return shifted(car, knob, r);
   return scaled(car, knob, 1.0 + r);
 }
@@ -115,7 +112,7 @@ std::vector<double> grid_axis(double base, bool zero, const std::vector<double>&
 
 // The traded config with its ClA (or CdA) moved to `target`: scaled by target / base, or, for a
 // zero area, shifted by target m2 (as `varied`).
-Car moved_to(const Car& c, Knob knob, double base, bool zero, double target) {
+ConfiguredCar moved_to(const ConfiguredCar& c, Knob knob, double base, bool zero, double target) {
   return zero ? shifted(c, knob, target) : scaled(c, knob, target / base);
 }
 
@@ -132,7 +129,7 @@ Trade trade(const Car& car, const std::vector<std::size_t>& configs,
   // operating points the first laps give.
   struct Job {
     std::size_t track;
-    Car car;
+    ConfiguredCar car;
     bool own;  // a config's own lap: its operating point is wanted too
   };
   std::vector<Job> jobs;
@@ -141,7 +138,7 @@ Trade trade(const Car& car, const std::vector<std::size_t>& configs,
   for (std::size_t t = 0; t < nt; ++t) {
     for (std::size_t c = 0; c < ncfg; ++c) jobs.push_back({t, car.configured(c), true});
     for (std::size_t c : configs) {
-      const Car base = car.configured(c);
+      const ConfiguredCar base = car.configured(c);
       for (Knob k : knobs)
         for (double sign : {1.0, -1.0}) jobs.push_back({t, varied(base, k, sign * o.step), false});
     }
@@ -168,7 +165,7 @@ Trade trade(const Car& car, const std::vector<std::size_t>& configs,
   {
     std::vector<Job> grid_jobs;
     const std::size_t c0 = configs.front();
-    const Car base = car.configured(c0);
+    const ConfiguredCar base = car.configured(c0);
     const AeroConfig& a0 = car.configs[c0];
     const bool zero_cla = zero_area(a0, Knob::cla), zero_cda = zero_area(a0, Knob::cda);
     for (std::size_t t = 0; t < nt; ++t) {
@@ -215,9 +212,9 @@ Trade trade(const Car& car, const std::vector<std::size_t>& configs,
     k += ncfg;
     std::vector<Sensitivity> here;
     for (std::size_t c : configs) {
-      const Car base = car.configured(c);
-      const AeroConfig& a = base.configs.front();
-      Sensitivity s{t, c, own[c], op[c].cla_m2, op[c].cda_m2, base.mass_kg, 0, 0, 0, 0, 0};
+      const ConfiguredCar base = car.configured(c);
+      const AeroConfig& a = base.aero();
+      Sensitivity s{t, c, own[c], op[c].cla_m2, op[c].cda_m2, base.car().mass_kg, 0, 0, 0, 0, 0};
       // Central differences: dt/dx = (t(x (1 + h)) - t(x (1 - h))) / (2 h x): scaling every
       // value of the config by 1 +- h moves its operating point by +-h x to first order.
       // A zero aero area is moved by step m2 instead of step x 0.

@@ -77,9 +77,9 @@ TEST_CASE("every bad CSV gives its error with file, line and column") {
 TEST_CASE("the surveyed Brannock Park has its segment twin's corners and apex speeds") {
   const Track twin = load_track(test::source_path("tracks/brannock-park.yaml"));
   const Track survey = load_track(test::source_path("tracks/brannock-park-survey.yaml"));
-  const Car car = load_car(test::source_path("cars/caldra-gt.yaml")).configured(0);
-  const LapRun a = run_lap(car, lay_out(twin, make_air(twin.air)));
-  const LapRun b = run_lap(car, lay_out(survey, make_air(survey.air)));
+  const Car car = load_car(test::source_path("cars/caldra-gt.yaml")).configured(0).car();
+  const LapRun a = run_lap(test::configured(car), lay_out(twin, make_air(twin.air)));
+  const LapRun b = run_lap(test::configured(car), lay_out(survey, make_air(survey.air)));
   REQUIRE(a.summary.corners.size() == b.summary.corners.size());
   // Where a corner starts within 5 m (measured worst 3.6 m). Apex speeds: the fit leaves some
   // of the noise in the curvature and the apex is the slowest point, so the survey's apexes are
@@ -129,7 +129,7 @@ TEST_CASE("a centerline with 0.5 m of noise laps within 3 % of the clean one (sm
   CHECK(near(noisy.profile->smoothing.noise_rms, 0.5, 0.05));
   CHECK(noisy.profile->smoothing_m > clean.profile->smoothing_m);  // noisier: smoothed more
   for (const char* file : {"cars/pellion-fr2.yaml", "cars/caldra-gt.yaml"}) {
-    const Car car = load_car(test::source_path(file)).configured(0);
+    const ConfiguredCar car = load_car(test::source_path(file)).configured(0);
     const LapRun a = run_lap(car, lay_out(clean, make_air(twin.air)));
     const LapRun b = run_lap(car, lay_out(noisy, make_air(twin.air)));
     CAPTURE(file);

@@ -11,11 +11,11 @@ TEST_CASE("a config's overrides replace the car-level values") {
   Car c = load_car(test::source_path("cars/pellion-fr2.yaml"));
   c.configs[1].mass_kg = 652.0;
   c.configs[1].drag_height_m = 0.5;
-  const Car k = c.configured(1);
+  const Car k = c.configured(1).car();
   CHECK(k.mass_kg == 652.0);
   CHECK(k.drag_height_m == 0.5);
   CHECK(k.configs.size() == 1);
-  CHECK(c.configured(0).mass_kg == 640.0);
+  CHECK(c.configured(0).car().mass_kg == 640.0);
 }
 
 TEST_CASE("the bundled cars break no rule") {
@@ -23,7 +23,7 @@ TEST_CASE("the bundled cars break no rule") {
     const Car c = load_car(test::source_path(file));
     CHECK(test::describe(c.validate()) == "none");
     for (std::size_t i = 0; i < c.configs.size(); ++i)
-      CHECK(test::describe(c.configured(i).validate()) == "none");
+      CHECK(test::describe(c.configured(i).car().validate()) == "none");
   }
 }
 

@@ -9,6 +9,7 @@
 
 #include "lapwing/report/cells.hpp"
 #include "lapwing/report/html_report.hpp"
+#include "lapwing/report/labels.hpp"
 #include "lapwing/study/trade.hpp"
 #include "test_support.hpp"
 
@@ -182,7 +183,7 @@ TEST_CASE("run's single-lap page: speed, map, balance, g-g and the corners table
     const std::size_t at = html.find(row);
     REQUIRE(at != std::string::npos);
     const std::string rest = html.substr(at, html.find("</tr>", at) - at);
-    CHECK(rest.find(">" + corner.limit + "<") != std::string::npos);
+    CHECK(rest.find(">" + std::string(label(corner.limit)) + "<") != std::string::npos);
     // The axle and usage cells may break after each '/' (<wbr/>).
     auto breakable = [](std::string t) {
       for (std::size_t k = 0; (k = t.find('/', k)) != std::string::npos; k += 7)

@@ -46,7 +46,7 @@ TEST_CASE("a banked circle without aero: v^2 = g R (sin b + mu cos b) / (cos b -
       Track t = test::circle_track(radius, 0.5);
       t.segments.front().bank_rad = bank_deg * units::deg;
       const Circuit c = lay_out(t, sea_level);
-      const Lap& lap = run_lap(car, c).lap;
+      const Lap& lap = run_lap(test::configured(car), c).lap;
       const double b = bank_deg * units::deg;
       const double v = std::sqrt(units::g0 * radius * (std::sin(b) + mu * std::cos(b)) /
                                  (std::cos(b) - mu * std::sin(b)));
@@ -70,7 +70,8 @@ TEST_CASE("a right turn on a left-helping bank is off-camber (the CSV's sign con
   const Circuit cl = lay_out(left, sea_level), cr = lay_out(right, sea_level);
   CHECK(cl.mesh.bank_rad[10] == doctest::Approx(10 * units::deg));
   CHECK(cr.mesh.bank_rad[10] == doctest::Approx(-10 * units::deg));
-  CHECK(near(run_lap(car, cl).lap.lap_time_s, run_lap(car, cr).lap.lap_time_s, 1e-9));
+  CHECK(near(run_lap(test::configured(car), cl).lap.lap_time_s,
+             run_lap(test::configured(car), cr).lap.lap_time_s, 1e-9));
 }
 
 TEST_CASE("a straight into a head wind tops out where P = k (v + w)^2 v (REFERENCES, wind)") {
@@ -86,13 +87,13 @@ TEST_CASE("a straight into a head wind tops out where P = k (v + w)^2 v (REFEREN
     CHECK(near(c.mesh.head_wind_mps[100], head, 1e-12));  // heading +x: w sin(from + 0)
     const double v =
         bisect([&](double x) { return k * (x + head) * (x + head) * x - power; }, 0.0, 200.0);
-    const Envelope env(car, sea_level);
+    const Envelope env(test::configured(car), sea_level);
     const SteadyProfile p = steady_profile(env, c.mesh);
     // The engine's steady limit on the level: drive P / v read from tables in v^2 (0.01 %).
     CHECK(p.limit[100] == SteadyLimit::engine);
     CHECK(near(p.speed_mps[100], v, 1e-4));
     // And the lap approaches it without passing it.
-    const auto [lo, hi] = speed_range(run_lap(car, c).lap);
+    const auto [lo, hi] = speed_range(run_lap(test::configured(car), c).lap);
     CHECK(hi <= p.speed_mps[100] * (1 + 1e-12));
     CHECK(near(hi, v, 2e-3));
   }
@@ -108,13 +109,13 @@ TEST_CASE("a natural engine at 2000 m tops out at its J1349 power: v^3 = P / (CF
   const Air air = make_air(AirSpec{2000.0, {}, {}, 0.0});
   const double cf = 1.18 * (99e3 / air.pressure_pa) * std::sqrt(air.temperature_k / 298.0) - 0.18;
   const double v = std::cbrt(power / cf / (0.5 * air.density_kg_m3 * cda));
-  const Envelope env(car, air);
+  const Envelope env(test::configured(car), air);
   CHECK(near(env.power_ratio(), 1.0 / cf, 1e-14));
   // Root of the envelope's tabulated drive (0.01 %).
   CHECK(near(env.top_speed_level_mps(), v, 1e-4));
   // The same car with the curve held (fixed, the default) is faster by (CF)^(1/3).
   car.powertrain.aspiration = Aspiration::fixed;
-  CHECK(near(Envelope(car, air).top_speed_level_mps(), v * std::cbrt(cf), 1e-4));
+  CHECK(near(Envelope(test::configured(car), air).top_speed_level_mps(), v * std::cbrt(cf), 1e-4));
 }
 
 TEST_CASE("trim zones: a zone over one of two equal straights halves the trim's gain") {
@@ -134,13 +135,14 @@ TEST_CASE("trim zones: a zone over one of two equal straights halves the trim's 
   t.mesh_m = 0.5;
   t.segments = {test::straight(500.0), test::arc(50.0, units::pi, true), test::straight(500.0),
                 test::arc(50.0, units::pi, true)};
-  const double none = run_lap(car, lay_out(t, sea_level)).lap.lap_time_s;
-  const double everywhere = run_lap(trimmed, lay_out(t, sea_level)).lap.lap_time_s;
+  const double none = run_lap(test::configured(car), lay_out(t, sea_level)).lap.lap_time_s;
+  const double everywhere =
+      run_lap(test::configured(trimmed), lay_out(t, sea_level)).lap.lap_time_s;
   t.trim_zones = {TrimZone{0.0, 500.0}};
   const Circuit zoned = lay_out(t, sea_level);
   CHECK(zoned.mesh.trim_zone[10] == 1);
   CHECK(zoned.mesh.trim_zone[1200] == 0);  // 600 m: the first half circle
-  const double in_zone = run_lap(trimmed, zoned).lap.lap_time_s;
+  const double in_zone = run_lap(test::configured(trimmed), zoned).lap.lap_time_s;
   CHECK(everywhere < none);
   CHECK(near(none - in_zone, 0.5 * (none - everywhere), 1e-3));
 }

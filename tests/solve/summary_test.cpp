@@ -13,9 +13,9 @@ using namespace lapwing;
 using lapwing::test::near;
 
 TEST_CASE("sector times add up to the lap; corners hold their apex; shares are fractions") {
-  const Car car = load_car(test::source_path("cars/caldra-gt.yaml")).configured(1);
+  const Car car = load_car(test::source_path("cars/caldra-gt.yaml")).configured(1).car();
   const Track track = load_track(test::source_path("tracks/saltmere-flats.yaml"));
-  const Envelope env(car, make_air(track.air));
+  const Envelope env(test::configured(car), make_air(track.air));
   const Mesh mesh = build_mesh(track, track.mesh_m);
   const Lap lap = solve_lap(env, mesh);
   const auto spans = find_corners(mesh);
@@ -39,18 +39,18 @@ TEST_CASE("sector times add up to the lap; corners hold their apex; shares are f
 }
 
 TEST_CASE("the limiting axle is front, rear or both within the neutral band, beside its value") {
-  // The band is +-0.02 of usage (summary.hpp): its edges are "both", just past them an axle.
-  CHECK(limiting_axle(0.0) == "both");
-  CHECK(limiting_axle(axle_neutral_band) == "both");
-  CHECK(limiting_axle(-axle_neutral_band) == "both");
-  CHECK(limiting_axle(0.0201) == "front");
-  CHECK(limiting_axle(-0.0201) == "rear");
+  // The band is +-0.02 of usage (summary.hpp): its edges are both, just past them an axle.
+  CHECK(limiting_axle(0.0) == Axle::both);
+  CHECK(limiting_axle(axle_neutral_band) == Axle::both);
+  CHECK(limiting_axle(-axle_neutral_band) == Axle::both);
+  CHECK(limiting_axle(0.0201) == Axle::front);
+  CHECK(limiting_axle(-0.0201) == Axle::rear);
   // On a lap each corner's labels are read from the trace's balance_index at the same points.
   // The axle model, where each axle's usage sets the limits and the labels matter most.
-  Car car = load_car(test::source_path("cars/caldra-gt.yaml")).configured(0);
+  Car car = load_car(test::source_path("cars/caldra-gt.yaml")).configured(0).car();
   car.model = VehicleModel::axle;
   const Track track = load_track(test::source_path("tracks/brannock-park.yaml"));
-  const Envelope env(car, make_air(track.air));
+  const Envelope env(test::configured(car), make_air(track.air));
   const Mesh mesh = build_mesh(track, track.mesh_m);
   const Lap lap = solve_lap(env, mesh);
   const LapSummary s = summarize(lap, mesh, track, find_corners(mesh), env);
@@ -65,7 +65,7 @@ TEST_CASE("the limiting axle is front, rear or both within the neutral band, bes
     CHECK(c.entry_axle == limiting_axle(c.entry_balance_index));
     CHECK(c.apex_axle == limiting_axle(c.apex_balance_index));
     CHECK(c.exit_axle == limiting_axle(c.exit_balance_index));
-    both += c.apex_axle == "both";
+    both += c.apex_axle == Axle::both;
   }
   // The sports car's apexes on this track sit near neutral: some fall inside the band (what the
   // old two-way label called "front" or "rear" on a coin toss of 0.001).
@@ -74,7 +74,7 @@ TEST_CASE("the limiting axle is front, rear or both within the neutral band, bes
   for (const auto& c : s.corners) {
     const auto& ids = s.balance.front_limited_corners;
     const bool listed = std::find(ids.begin(), ids.end(), c.id) != ids.end();
-    CHECK(listed == (c.apex_axle == "front"));
+    CHECK(listed == (c.apex_axle == Axle::front));
   }
 }
 
@@ -88,7 +88,7 @@ struct StraightRun {
 };
 StraightRun run_straight(const Car& car, double length_m, double mesh_m) {
   const Track track = test::straight_track(length_m, mesh_m, 0.0);
-  Envelope env(car, make_air(AirSpec{}));
+  Envelope env(test::configured(car), make_air(AirSpec{}));
   Mesh mesh = build_mesh(track, track.mesh_m);
   Lap lap = solve_lap(env, mesh);
   LapSummary s = summarize(lap, mesh, track, find_corners(mesh), env);
@@ -167,7 +167,7 @@ TEST_CASE(
   // own phase it took a whole step's time, whatever the step (issue 10, item 3).
   const Car car = test::plain_car();
   const Track track = test::straight_track(10.0, 1.0, 10.0);
-  const Envelope env(car, make_air(track.air));
+  const Envelope env(test::configured(car), make_air(track.air));
   const Mesh mesh = build_mesh(track, 1.0);
   REQUIRE(mesh.size() == 11);
   Lap lap = solve_lap(env, mesh, track.start_speed_mps);

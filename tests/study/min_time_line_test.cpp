@@ -19,7 +19,7 @@ TEST_CASE(
   // measured 1.1 % here. It must gain at least its own stopping step, 0.01 s.
   Track t = load_track(test::source_path("tracks/brannock-park.yaml"));
   t.width_m = 12.0;
-  const Car car = load_car(test::source_path("cars/pellion-fr2.yaml")).configured(0);
+  const ConfiguredCar car = load_car(test::source_path("cars/pellion-fr2.yaml")).configured(0);
   const Air air = make_air(t.air);
   const MinTimeLine m = min_time_line(t, air, car, LineSpec{});
   CHECK(m.lap_s < m.min_curvature_lap_s - min_time_gain_s);

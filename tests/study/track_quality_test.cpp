@@ -24,7 +24,7 @@ TEST_CASE("the verdict's thresholds: good to 5 m and 1 %, usable to 10 m and 2 %
 
 TEST_CASE("the bundled survey is good; its variants are half and double the strength") {
   const Circuit c = test::bundled_circuit("tracks/brannock-park-survey.yaml");
-  const Car car = load_car(test::source_path("cars/caldra-gt.yaml")).configured(0);
+  const ConfiguredCar car = load_car(test::source_path("cars/caldra-gt.yaml")).configured(0);
   const SmoothingVariants v = smoothing_variants(c);
   REQUIRE(v.half);
   REQUIRE(v.twice);
@@ -51,7 +51,7 @@ TEST_CASE("a segment track is exact: good, with no variants") {
   const Circuit c = test::bundled_circuit("tracks/brannock-park.yaml");
   const SmoothingVariants v = smoothing_variants(c);
   CHECK_FALSE(v.half);
-  const Car car = load_car(test::source_path("cars/caldra-gt.yaml")).configured(0);
+  const ConfiguredCar car = load_car(test::source_path("cars/caldra-gt.yaml")).configured(0);
   const TrackQuality q = assess_track(c, v, car, "low_drag", 1.0);
   CHECK(q.segments);
   CHECK(q.verdict == Verdict::good);

@@ -233,8 +233,8 @@ TEST_CASE("a car without aero still has aero sensitivities (zero areas move by t
   CHECK(s.dt_dcda_s_per_m2 > 0.0);
   // Against two explicit runs with +-0.02 m2 of ClA (1e-9). -0.02 m2 is lift, outside a car
   // file's range: the run takes the car unchecked, as the trade does.
-  const Car base = car.configured(0);
-  auto lap = [&](const Car& c) {
+  const ConfiguredCar base = car.configured(0);
+  auto lap = [&](const ConfiguredCar& c) {
     const Envelope env(Envelope::Unchecked{}, c, circuits[0].air);
     LapSolver solver;
     return solve_speed_only(env, circuits[0], solver).lap_time_s;
@@ -294,8 +294,8 @@ TEST_CASE("the trade grid spans every config of the car with a margin, so each c
   CHECK(near(g.cla_m2.back(), hi + grid_margin * (hi - lo), 1e-12));
   // A node is the traded config with its areas scaled there: the same lap as an explicit run
   // (same solver, same inputs: to round-off).
-  const Car base = car.configured(traded);
-  const Car node =
+  const ConfiguredCar base = car.configured(traded);
+  const ConfiguredCar node =
       scaled(scaled(base, Knob::cla, g.cla_m2[2] / 3.6), Knob::cda, g.cda_m2[0] / 1.20);
   CHECK(near(g.lap_time_s[2 * 3 + 0], run_lap(node, circuits[0]).summary.lap_time_s, 1e-12));
   // Each config's own lap time comes with its operating point.

@@ -5,6 +5,7 @@
 #include <optional>
 #include <string>
 #include <string_view>
+#include <utility>
 #include <vector>
 
 #include "lapwing/base/range.hpp"
@@ -37,6 +38,7 @@ struct RollGeometry {
   /// axis under the centre of gravity, RCVD ch. 18's layout).
   std::optional<Violation> validate(double cg_height_m) const;
 };
+class ConfiguredCar;
 
 /// The front axle's share of the load (weight, downforce by the aero balance, the drag moment and
 /// load transfer) the team accepts in fast corners: from `front_share_min` to `front_share_max`
@@ -74,9 +76,9 @@ struct Car {
 
   /// Index of the config named `name`, or -1.
   int config_index(const std::string& name) const;
-  /// This car with config `index` applied: its overrides replace the car-level values and it is
-  /// the only config left.
-  Car configured(std::size_t index) const;
+  /// This car with config `index` applied (ConfiguredCar). Throws std::out_of_range for an
+  /// index past its configs.
+  ConfiguredCar configured(std::size_t index) const;
   std::vector<std::string> config_names() const;
 
   /// What errors about this car name: its file, or "car 'NAME'" for a car built in code.
@@ -92,6 +94,35 @@ struct Car {
   /// Config `index`'s part of validate(): its name, its aero data, its overrides of the
   /// car-level values (a cg height below the wheelbase), under "aero.configs.NAME".
   std::optional<Violation> validate_config(std::size_t index) const;
+};
+
+/// A car with one aero config applied: the config's overrides (mass, inertia_factor,
+/// cg_height, front_weight, drag_height) in the car-level values, and the config the only one
+/// left. What the solver, the studies and the envelope take: a Car with several configs, or
+/// none, cannot reach them, and none of them picks a config by position.
+class ConfiguredCar {
+ public:
+  /// `car` with config `index` applied. Throws std::out_of_range for an index past its configs.
+  ConfiguredCar(const Car& car, std::size_t index);
+  /// The car-level values with the overrides in place; `configs` holds aero() alone.
+  const Car& car() const { return car_; }
+  /// The applied config.
+  const AeroConfig& aero() const { return car_.configs.front(); }
+  /// A copy with the car-level values and the config changed by change(Car& values,
+  /// AeroConfig& aero) (a study's variations: a scaled ClA, a heavier car). The config passed
+  /// stays the only one: `values.configs` is not read.
+  template <class Change>
+  ConfiguredCar changed(Change&& change) const {
+    ConfiguredCar c = *this;
+    AeroConfig a = std::move(c.car_.configs.front());
+    c.car_.configs.clear();
+    change(c.car_, a);
+    c.car_.configs.assign(1, std::move(a));
+    return c;
+  }
+
+ private:
+  Car car_;
 };
 
 /// Whether `name` can name a config: letters, digits, '_' and '-' (it becomes part of output

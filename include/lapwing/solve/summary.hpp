@@ -3,6 +3,7 @@
 // the JSON and the CSV alike (STYLE, habit 6).
 #pragma once
 
+#include <cstdint>
 #include <optional>
 #include <string>
 #include <vector>
@@ -16,19 +17,26 @@
 
 namespace lapwing {
 
+/// What limits a corner: `grip` (apex on the tyres' steady limit, or a point of the corner on it
+/// within 0.05 % of the apex speed), `power` (taken under drive, never reaching the limit),
+/// `braking` (apex inside a braking zone). The outputs' words: report/labels.hpp.
+enum class CornerLimit : std::uint8_t { grip, power, braking };
+
+/// The axle using more of its ellipse (by balance_index), or `both` within the neutral band.
+/// The outputs' words: report/labels.hpp.
+enum class Axle : std::uint8_t { front, rear, both };
+
 struct CornerResult {
   int id;
   int direction;  // +1 left, -1 right
   double start_m, apex_m, end_m;
   double entry_mps, apex_mps, exit_mps;
   double time_s;
-  std::string limit;  // "grip" (apex on the tyres' steady limit, or a point of the corner on
-                      // it within 0.05 % of the apex speed), "power" (taken under drive,
-                      // never reaching the limit), "braking" (apex inside a braking zone)
-  // The axle using more of its ellipse at entry, apex and exit (limiting_axle: "front", "rear",
-  // or "both" within the neutral band), and the difference it is read from: front usage - rear
-  // usage (the trace's balance_index; > 0: the front saturates first).
-  std::string entry_axle, apex_axle, exit_axle;
+  CornerLimit limit;
+  // The axle using more of its ellipse at entry, apex and exit (limiting_axle), and the
+  // difference it is read from: front usage - rear usage (the trace's balance_index; > 0: the
+  // front saturates first).
+  Axle entry_axle, apex_axle, exit_axle;
   double entry_balance_index, apex_balance_index, exit_balance_index;
 };
 
@@ -38,9 +46,8 @@ struct CornerResult {
 /// and 0.96 are, for a set-up decision, both at the limit.
 inline constexpr double axle_neutral_band = 0.02;
 
-/// "front" when balance_index > axle_neutral_band, "rear" when < -axle_neutral_band, else
-/// "both".
-std::string limiting_axle(double balance_index);
+/// front when balance_index > axle_neutral_band, rear when < -axle_neutral_band, else both.
+Axle limiting_axle(double balance_index);
 
 /// The car's balance window (Car::balance_window) checked along one lap. The window's points
 /// are those above its speed with |lateral acceleration| > balance_window_lateral_g; times are

@@ -38,7 +38,7 @@ inline constexpr int min_time_max_passes = 20;
 /// The refined line over `track`'s described path, for `configured_car` (one config) in `air`,
 /// with the vehicle width and margin of `spec`. InvalidInput as min_curvature_line and as run_lap
 /// (an open track's start speed); CannotMove as run_lap.
-MinTimeLine min_time_line(const Track& track, const Air& air, const Car& configured_car,
+MinTimeLine min_time_line(const Track& track, const Air& air, const ConfiguredCar& configured_car,
                           const LineSpec& spec);
 
 }  // namespace lapwing

@@ -60,7 +60,8 @@ struct TrackQuality {
 /// The verdict on `circuit` for one configured car (`config` its name), with the lap on the
 /// circuit itself `lap_s` (already solved by the caller) and the variants' laps.
 TrackQuality assess_track(const Circuit& circuit, const SmoothingVariants& variants,
-                          const Car& configured_car, const std::string& config, double lap_s);
+                          const ConfiguredCar& configured_car, const std::string& config,
+                          double lap_s);
 
 /// The worst verdict of several (check: one per config).
 Verdict worst(const std::vector<TrackQuality>& qualities);

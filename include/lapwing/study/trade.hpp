@@ -18,12 +18,12 @@ namespace lapwing {
 /// What a trade varies. Each scales the configured car by `factor`: every ClA (or CdA) value of
 /// the config's form, the mass, or the engine's torque (constant power) at every speed.
 enum class Knob { cla, cda, mass, power };
-Car scaled(const Car& configured_car, Knob knob, double factor);
+ConfiguredCar scaled(const ConfiguredCar& car, Knob knob, double factor);
 /// Adds `delta_m2` to every ClA (or CdA) value of the configured car's config.
-Car shifted(const Car& configured_car, Knob knob, double delta_m2);
+ConfiguredCar shifted(const ConfiguredCar& car, Knob knob, double delta_m2);
 /// The knob moved by the relative amount r: x (1 + r), or, for an aero area that is zero,
 /// x + r m2 (so that a car without downforce still has a downforce sensitivity).
-Car varied(const Car& configured_car, Knob knob, double r);
+ConfiguredCar varied(const ConfiguredCar& car, Knob knob, double r);
 
 /// Whether every ClA (or CdA) value of the config is zero: `varied` then shifts the area by
 /// r m2 instead of scaling it.
