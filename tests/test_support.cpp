@@ -49,6 +49,7 @@ Car plain_car(double mass_kg, double mu, double power_w) {
   c.powertrain.efficiency = 1.0;
   c.brake_front_bias = 0.6;
   c.drag_height_m = 0.0;
+  c.model = VehicleModel::point_mass;  // the closed forms' model (the library's default is axle)
   AeroConfig a;
   a.name = "none";
   a.cda_m2 = {0.0};

@@ -27,8 +27,9 @@ std::string source_path(const std::string& relative);
 /// A bundled track file laid out in its own air.
 Circuit bundled_circuit(const std::string& relative);
 
-/// A point-mass test car with no aero, no rolling resistance, no inertia factor and no load
-/// sensitivity, driven by constant power through an ideal transmission (efficiency 1).
+/// A point-mass test car (model set explicitly: the default is the axle model) with no aero, no
+/// rolling resistance, no inertia factor and no load sensitivity, driven by constant power through
+/// an ideal transmission (efficiency 1).
 Car plain_car(double mass_kg = 600.0, double mu = 1.5, double power_w = 300e3);
 
 /// A car whose drive is a constant force `force_n` at every speed: one gear and a flat torque

@@ -85,6 +85,11 @@ Powertrain read_powertrain(Reader r, SourceMap& sources) {
     p.shift_time_s = r.quantity_or("shift_time", Quantity::time, 0.0);
   }
   p.efficiency = r.quantity_or("efficiency", Quantity::fraction, 1.0);
+  const std::string aspiration = r.choice("aspiration", {"fixed", "natural", "turbo"}, "fixed");
+  p.aspiration = aspiration == "natural" ? Aspiration::natural
+                 : aspiration == "turbo" ? Aspiration::turbo
+                                         : Aspiration::fixed;
+  p.full_power_altitude_m = r.optional_quantity("full_power_altitude", Quantity::length);
   const std::string axle = r.choice("driven_axle", {"rear", "front", "all"}, "rear");
   p.driven = axle == "rear"    ? DrivenAxle::rear
              : axle == "front" ? DrivenAxle::front
@@ -244,6 +249,43 @@ AeroConfig read_config(const std::string& name, Reader r, double wheelbase_m,
   return c;
 }
 
+// track_width: {front, rear}, roll_stiffness_front, roll_centre_height: {front, rear}: all of
+// the first two or neither (then no lateral load transfer); the roll centres default to the
+// ground and need the other two. The values' rules are RollGeometry::validate's.
+std::optional<RollGeometry> read_roll(Reader& r) {
+  const Node* width = r.get("track_width");
+  const Node* stiffness = r.get("roll_stiffness_front");
+  const Node* centres = r.get("roll_centre_height");
+  if (!width && !stiffness) {
+    if (centres)
+      r.fail(*centres, "roll_centre_height goes with track_width and roll_stiffness_front",
+             "roll_centre_height");
+    return std::nullopt;
+  }
+  if (!width || !stiffness)
+    r.fail(width ? *width : *stiffness,
+           "give track_width and roll_stiffness_front together (lateral load transfer needs "
+           "both; without either there is none)",
+           width ? "track_width" : "roll_stiffness_front");
+  RollGeometry g;
+  {
+    Reader t = r.map("track_width");
+    t.keys({"front", "rear"});
+    g.track_front_m = t.quantity("front", Quantity::length);
+    g.track_rear_m = t.quantity("rear", Quantity::length);
+    t.finish();
+  }
+  g.roll_stiffness_front = r.quantity("roll_stiffness_front", Quantity::fraction);
+  if (centres) {
+    Reader c = r.map("roll_centre_height");
+    c.keys({"front", "rear"});
+    g.roll_centre_front_m = c.quantity_or("front", Quantity::length, 0.0);
+    g.roll_centre_rear_m = c.quantity_or("rear", Quantity::length, 0.0);
+    c.finish();
+  }
+  return g;
+}
+
 // balance_window: {front_share: [min, max], above: speed}. The form (two shares) is the
 // reader's; the values' rules are BalanceWindow::validate's.
 BalanceWindow read_balance_window(Reader w) {
@@ -269,11 +311,12 @@ CarFile read_car_file(const std::string& file) {
   const Checker check{out.sources};
   Reader r(doc, doc.root, "");
   r.keys({"format", "name", "model", "mass", "inertia_factor", "cg_height", "wheelbase",
-          "front_weight", "tyres", "powertrain", "brakes", "aero", "balance_window"});
+          "front_weight", "track_width", "roll_stiffness_front", "roll_centre_height", "tyres",
+          "powertrain", "brakes", "aero", "balance_window"});
   check_format(r);
   car.file = file;
   car.name = r.string("name");
-  car.model = r.choice("model", {"point-mass", "axle"}, "point-mass") == "axle"
+  car.model = r.choice("model", {"point-mass", "axle"}, "axle") == "axle"
                   ? VehicleModel::axle
                   : VehicleModel::point_mass;
   car.mass_kg = r.quantity("mass", Quantity::mass);
@@ -281,6 +324,7 @@ CarFile read_car_file(const std::string& file) {
   car.wheelbase_m = r.quantity("wheelbase", Quantity::length);
   car.cg_height_m = r.quantity("cg_height", Quantity::length);
   car.front_weight = r.quantity("front_weight", Quantity::fraction);
+  car.roll = read_roll(r);
   car.tyres = read_tyres(r.map("tyres"));
   car.powertrain = read_powertrain(r.map("powertrain"), out.sources);
   {

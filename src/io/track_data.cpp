@@ -3,6 +3,8 @@
 #include <algorithm>
 
 #include "lapwing/base/error.hpp"
+#include "lapwing/base/format.hpp"
+#include "lapwing/base/units.hpp"
 #include "lapwing/io/csv.hpp"
 #include "lapwing/path/curvature_profile.hpp"
 
@@ -23,6 +25,23 @@ void note_unused_columns(const CsvTable& t, const std::vector<std::string>& used
   if (count > 0)
     p.notes.push_back(t.file + ": column" + (count > 1 ? "s " : " ") + unused + " not used (" +
                       reads + ")");
+}
+
+// The bank_deg column in rad (+ helping a left turn, the curvature's sign), each row within
+// Segment::bank_range (an InvalidInput at "bank_deg[i]": row_error places it on its line).
+std::vector<double> bank_column(const CsvTable& t) {
+  std::vector<double> out;
+  const auto& deg = t.column("bank_deg");
+  for (std::size_t i = 0; i < deg.size(); ++i) {
+    const double b = deg[i] * units::deg;
+    if (!Segment::bank_range.contains(b))
+      throw InvalidInput(t.file, broken_rule("",
+                                             "bank_deg " + format_number(deg[i]) +
+                                                 " is beyond +-45 deg (a road's steepest banking)",
+                                             "bank_deg[" + std::to_string(i) + "]"));
+    out.push_back(b);
+  }
+  return out;
 }
 
 }  // namespace
@@ -62,15 +81,18 @@ ProfileFile read_centerline_file(const std::string& file, bool closed, const Cen
         points.width_right_m = t.column("width_right_m");
       }
     }
+    // Bank (deg, + helping a left turn); its range is the fit's (PathProfile::validate).
+    if (t.find("bank_deg") >= 0) points.bank_rad = bank_column(t);
     ProfileFile out{fit_centerline(points, closed, o), t.lines};
     out.profile.geodetic = geodetic;
     note_unused_columns(
         t,
         geodetic ? std::vector<std::string>{"lat_deg", "lon_deg", "alt_m", "width_left_m",
-                                            "width_right_m"}
-                 : std::vector<std::string>{"x_m", "y_m", "z_m", "width_left_m", "width_right_m"},
+                                            "width_right_m", "bank_deg"}
+                 : std::vector<std::string>{"x_m", "y_m", "z_m", "width_left_m", "width_right_m",
+                                            "bank_deg"},
         "a centerline reads x_m, y_m, z_m or lat_deg, lon_deg, alt_m, and width_left_m, "
-        "width_right_m",
+        "width_right_m, bank_deg",
         out.profile);
     return out;
   } catch (const InvalidInput& e) {
@@ -89,7 +111,8 @@ ProfileFile read_curvature_file(const std::string& file) {
         profile_from_curvature(file, d, k,
                                t.find("grade") >= 0 ? t.column("grade") : std::vector<double>{}),
         t.lines};
-    out.profile.has_bank = t.find("bank_deg") >= 0;
+    // Bank per sample as given (one per row, as the distances).
+    if (t.find("bank_deg") >= 0) out.profile.bank_rad = bank_column(t);
     note_unused_columns(t, {"distance_m", "curvature_1pm", "grade", "bank_deg"},
                         "a curvature profile reads distance_m, curvature_1pm, grade, bank_deg",
                         out.profile);

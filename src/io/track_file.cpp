@@ -42,6 +42,7 @@ Segment read_segment(const Document& doc, const Node& item, const std::string& p
     s.length_m = r.quantity("length", Quantity::length);
     s.grade = r.quantity_or("grade", Quantity::fraction, 0.0);
     s.width_m = r.optional_quantity("width", Quantity::length);
+    s.bank_rad = r.quantity_or("bank", Quantity::angle, 0.0);
     r.finish();
     return s;
   }
@@ -55,6 +56,7 @@ Segment read_segment(const Document& doc, const Node& item, const std::string& p
     s.curvature_start_1pm = s.curvature_end_1pm = sign / radius;
     s.grade = r.quantity_or("grade", Quantity::fraction, 0.0);
     s.width_m = r.optional_quantity("width", Quantity::length);
+    s.bank_rad = r.quantity_or("bank", Quantity::angle, 0.0);
     r.finish();
     return s;
   }
@@ -70,6 +72,7 @@ Segment read_segment(const Document& doc, const Node& item, const std::string& p
     s.curvature_end_1pm = to ? sign / *to : 0.0;
     s.grade = r.quantity_or("grade", Quantity::fraction, 0.0);
     s.width_m = r.optional_quantity("width", Quantity::length);
+    s.bank_rad = r.quantity_or("bank", Quantity::angle, 0.0);
     r.finish();
     return s;
   }
@@ -91,7 +94,7 @@ TrackFile read_track_file(const std::string& file) {
   };
   Reader r(doc, doc.root, "");
   r.keys({"format", "name", "closed", "start_speed", "altitude", "ambient", "mesh", "segments",
-          "sectors", "centerline", "curvature", "width", "line"});
+          "sectors", "centerline", "curvature", "width", "line", "wind", "trim_zones"});
   {
     const Node& n = r.require("format");
     if (r.node_quantity(n, Quantity::number, "format") != 1.0)
@@ -174,6 +177,30 @@ TrackFile read_track_file(const std::string& file) {
     spec.margin_m = l.quantity_or("margin", Quantity::length, spec.margin_m);
     l.finish();
     t.line = spec;
+  }
+  if (r.has("wind")) {
+    // The wind's rules are Wind::validate's.
+    Reader w = r.map("wind");
+    w.keys({"speed", "from"});
+    Wind wind;
+    wind.speed_mps = w.quantity("speed", Quantity::speed);
+    wind.from_rad = w.quantity("from", Quantity::angle);
+    w.finish();
+    t.wind = wind;
+  }
+  if (const Node* zones = r.get("trim_zones")) {
+    // A list of [start, end] pairs (the form is the reader's; order and bounds are
+    // Track::validate's).
+    if (zones->kind != Node::Kind::sequence)
+      r.fail(*zones, "expected a list of [start, end] pairs", "trim_zones");
+    for (std::size_t i = 0; i < zones->items.size(); ++i) {
+      const Node& z = zones->items[i];
+      const std::string at = "trim_zones[" + std::to_string(i) + "]";
+      if (z.kind != Node::Kind::sequence || z.items.size() != 2)
+        throw InputError(doc.file, z.mark, "expected a pair [start, end]", at);
+      t.trim_zones.push_back({r.node_quantity(z.items[0], Quantity::length, at + "[0]"),
+                              r.node_quantity(z.items[1], Quantity::length, at + "[1]")});
+    }
   }
   if (r.has("sectors")) {
     t.sectors_m = r.quantities("sectors", Quantity::length);

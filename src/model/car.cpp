@@ -30,6 +30,19 @@ std::optional<Violation> BalanceWindow::validate() const {
       .result();
 }
 
+std::optional<Violation> RollGeometry::validate(double cg_height_m) const {
+  FirstViolation f;
+  f.range("track_width.front", track_front_m, track_range, Quantity::length)
+      .range("track_width.rear", track_rear_m, track_range, Quantity::length)
+      .range("roll_stiffness_front", roll_stiffness_front, Range{0.0, 1.0}, Quantity::fraction);
+  for (const auto& [key, z] :
+       {std::pair<const char*, double>{"roll_centre_height.front", roll_centre_front_m},
+        {"roll_centre_height.rear", roll_centre_rear_m}})
+    f.range(key, z, roll_centre_range, Quantity::length)
+        .rule(z < cg_height_m, key, "a roll centre must lie below cg_height");
+  return f.result();
+}
+
 bool is_config_name(std::string_view name) {
   return !name.empty() && std::all_of(name.begin(), name.end(), [](unsigned char c) {
     return std::isalnum(c) || c == '_' || c == '-';
@@ -48,6 +61,7 @@ std::optional<Violation> Car::validate_without_configs() const {
       .range("cg_height", cg_height_m, positive(), Quantity::length)
       .rule(cg_height_m < wheelbase_m, "cg_height", "cg_height must be below the wheelbase")
       .range("front_weight", front_weight, open_unit(), Quantity::fraction)
+      .part("", [&] { return roll ? roll->validate(cg_height_m) : std::nullopt; })
       .part("tyres", [&] { return tyres.validate(); })
       .part("powertrain", [&] { return powertrain.validate(); })
       .range("brakes.front_bias", brake_front_bias, open_unit(), Quantity::fraction)
@@ -75,10 +89,12 @@ std::optional<Violation> Car::validate_config(std::size_t index) const {
   optional_range("cg_height", a.cg_height_m, positive(), Quantity::length);
   optional_range("front_weight", a.front_weight, open_unit(), Quantity::fraction);
   optional_range("drag_height", a.drag_height_m, non_negative(), Quantity::length);
-  return f
-      .rule(!a.cg_height_m || *a.cg_height_m < wheelbase_m, at + ".cg_height",
-            "cg_height must be below the wheelbase")
-      .result();
+  f.rule(!a.cg_height_m || *a.cg_height_m < wheelbase_m, at + ".cg_height",
+         "cg_height must be below the wheelbase");
+  if (roll && a.cg_height_m)
+    f.rule(roll->roll_centre_front_m < *a.cg_height_m && roll->roll_centre_rear_m < *a.cg_height_m,
+           at + ".cg_height", "cg_height must lie above the roll centres (roll_centre_height)");
+  return f.result();
 }
 
 std::optional<Violation> Car::validate() const {

@@ -2,9 +2,11 @@
 
 #include <algorithm>
 #include <cassert>
+#include <cmath>
 #include <string>
 
 #include "lapwing/base/interpolate.hpp"
+#include "lapwing/model/air.hpp"
 
 namespace lapwing {
 
@@ -35,8 +37,45 @@ std::optional<Violation> Powertrain::validate() const {
         .range("final_drive", final_drive, positive(), Quantity::number)
         .range("shift_time", shift_time_s, Range{0.0, 2.0}, Quantity::time);
   }
-  return f.range("efficiency", efficiency, Range{0.0, 1.0, true, false}, Quantity::fraction)
-      .result();
+  f.range("efficiency", efficiency, Range{0.0, 1.0, true, false}, Quantity::fraction)
+      .rule(aspiration != Aspiration::turbo || full_power_altitude_m.has_value(), "aspiration",
+            "a turbo engine needs full_power_altitude (the altitude up to which it gives its "
+            "rated power)");
+  if (full_power_altitude_m)
+    f.rule(aspiration == Aspiration::turbo, "full_power_altitude",
+           "full_power_altitude applies to aspiration: turbo only")
+        .range("full_power_altitude", *full_power_altitude_m, full_power_altitude_range,
+               Quantity::length);
+  return f.result();
+}
+
+namespace {
+// The SAE J1349 (June 1990) law once, in ratios to the reference air:
+//   CF = 1.18 (p_ref / p_dry) sqrt(T / T_ref) - 0.18.
+double j1349_law(double pressure_ratio, double temperature_ratio) {
+  return 1.18 * pressure_ratio * std::sqrt(temperature_ratio) - 0.18;
+}
+}  // namespace
+
+double j1349_correction_factor(double dry_pressure_pa, double temperature_k) {
+  return j1349_law(j1349_dry_pressure_pa / dry_pressure_pa, temperature_k / j1349_temperature_k);
+}
+
+double engine_power_ratio(const Powertrain& p, double pressure_pa, double temperature_k,
+                          double relative_humidity) {
+  const double dry = pressure_pa - relative_humidity * saturation_vapour_pressure_pa(temperature_k);
+  switch (p.aspiration) {
+    case Aspiration::fixed:
+      return 1.0;
+    case Aspiration::natural:
+      return 1.0 / j1349_correction_factor(dry, temperature_k);
+    case Aspiration::turbo: {
+      const double full = standard_atmosphere(*p.full_power_altitude_m).pressure_pa;
+      if (dry >= full) return 1.0;
+      return 1.0 / j1349_law(full / dry, 1.0);  // 1 / (1.18 p_fp / p_dry - 0.18)
+    }
+  }
+  return 1.0;
 }
 
 double engine_torque_nm(const Powertrain& p, double w) {
@@ -68,6 +107,14 @@ Drive best_drive(const Powertrain& p, double r, double v) {
 double rev_limited_speed_mps(const Powertrain& p, double r) {
   if (p.ideal) return 0.0;
   return p.rev_limit_radps * r / (p.gears.back() * p.final_drive);
+}
+
+double rated_power_w(const Powertrain& p) {
+  if (p.ideal) return p.constant_power_w;
+  double peak = 0.0;
+  for (std::size_t i = 0; i < p.torque_nm.size(); ++i)
+    peak = std::max(peak, p.torque_nm[i] * p.engine_radps[i]);
+  return peak;
 }
 
 }  // namespace lapwing

@@ -46,6 +46,7 @@ std::optional<Violation> Segment::validate() const {
           .range("straight.length", length_m, length_range, Quantity::length)
           .range("straight.grade", grade, grade_range, Quantity::fraction);
       if (width_m) f.range("straight.width", *width_m, width_range, Quantity::length);
+      f.range("straight.bank", bank_rad, bank_range, Quantity::angle);
       break;
     case Kind::arc:
       f.rule(k0 == k1 && k0 != 0.0, "arc", "an arc has one curvature, and not zero");
@@ -54,6 +55,7 @@ std::optional<Violation> Segment::validate() const {
             .range("arc.angle", length_m * std::abs(k0), derived(angle_range), Quantity::angle);
       f.range("arc.grade", grade, grade_range, Quantity::fraction);
       if (width_m) f.range("arc.width", *width_m, width_range, Quantity::length);
+      f.range("arc.bank", bank_rad, bank_range, Quantity::angle);
       break;
     case Kind::clothoid:
       f.range("clothoid.length", length_m, length_range, Quantity::length)
@@ -67,9 +69,26 @@ std::optional<Violation> Segment::validate() const {
       f.rule(!(k0 * k1 < 0.0), "clothoid", "a clothoid turns one way: its curvatures have one sign")
           .range("clothoid.grade", grade, grade_range, Quantity::fraction);
       if (width_m) f.range("clothoid.width", *width_m, width_range, Quantity::length);
+      f.range("clothoid.bank", bank_rad, bank_range, Quantity::angle);
       break;
   }
   return f.result();
+}
+
+double Segment::signed_bank_rad() const {
+  const double k = curvature_start_1pm != 0.0 ? curvature_start_1pm : curvature_end_1pm;
+  return k < 0.0 ? -bank_rad : bank_rad;
+}
+
+double Wind::head_mps(double heading_rad) const {
+  return speed_mps * std::sin(from_rad + heading_rad);
+}
+
+std::optional<Violation> Wind::validate() const {
+  return FirstViolation()
+      .range("speed", speed_mps, speed_range, Quantity::speed)
+      .range("from", from_rad, from_range, Quantity::angle)
+      .result();
 }
 
 std::optional<Violation> PathProfile::validate() const {
@@ -86,6 +105,10 @@ std::optional<Violation> PathProfile::validate() const {
       return "size differs from s_m: expected " + std::to_string(n) + ", got " +
              std::to_string(column->size());
     });
+  f.rule(bank_rad.empty() || bank_rad.size() == n, "bank_rad", [&] {
+     return "size differs from s_m: expected " + std::to_string(n) + ", got " +
+            std::to_string(bank_rad.size());
+   }).each("bank_rad", bank_rad, Segment::bank_range, Quantity::angle);
   f.rule(n == 0 || s_m.front() == 0.0, "s_m", "a path profile starts at distance 0")
       .order("s_m", s_m, true);
   // Widths: both or neither, one per sample, every one > 0 (the distance to an edge).
@@ -133,6 +156,7 @@ std::optional<Violation> Track::validate() const {
            "width_left_m,width_right_m of its CSV")
         .range("width", *width_m, Segment::width_range, Quantity::length);
   if (line) f.part("line", [&] { return line->validate(); });
+  if (wind) f.part("wind", [&] { return wind->validate(); });
   if (f.found()) return f.result();
   // Sector starts are along the described path (a line moves them where it passes them).
   double length = 0.0;
@@ -147,6 +171,16 @@ std::optional<Violation> Track::validate() const {
          })
       .each("sectors", sectors_m, non_negative(), Quantity::length)
       .rule(!sectors_m.empty() && sectors_m.front() == 0.0, "sectors", "sectors must start at 0 m");
+  // Trim zones: inside the path, each ending after it starts, in order and apart.
+  for (std::size_t i = 0; i < trim_zones.size() && !f.found(); ++i) {
+    const std::string at = "trim_zones[" + std::to_string(i) + "]";
+    const TrimZone& z = trim_zones[i];
+    f.range(at + "[0]", z.start_m, Range{0.0, length, false, true}, Quantity::length)
+        .range(at + "[1]", z.end_m, Range{0.0, length}, Quantity::length)
+        .rule(z.end_m > z.start_m, at, "a trim zone ends after it starts", at + "[1]")
+        .rule(i == 0 || z.start_m >= trim_zones[i - 1].end_m, at,
+              "trim zones must be in order along the track and must not overlap", at + "[0]");
+  }
   for (std::size_t i = 1; i < sectors_m.size() && !f.found(); ++i) {
     const std::string at = "sectors[" + std::to_string(i) + "]";
     f.rule(sectors_m[i] > sectors_m[i - 1], "sectors", "sector starts must be strictly increasing",

@@ -71,7 +71,7 @@ std::vector<double> chord_lengths(const CenterlinePoints& p, bool closed) {
 // widths are linear along the chords.
 struct Samples {
   double h = 0.0;
-  std::vector<double> x, y, z, wl, wr;
+  std::vector<double> x, y, z, wl, wr, bank;
   std::size_t size() const { return x.size(); }
 };
 Samples resample(const CenterlinePoints& p, bool closed, const std::vector<double>& c,
@@ -114,6 +114,7 @@ Samples resample(const CenterlinePoints& p, bool closed, const std::vector<doubl
       r.wl.push_back(at(p.width_left_m));
       r.wr.push_back(at(p.width_right_m));
     }
+    if (!p.bank_rad.empty()) r.bank.push_back(at(p.bank_rad));
   }
   return r;
 }
@@ -172,7 +173,9 @@ PathProfile fit_centerline(std::shared_ptr<const CenterlinePoints> given, bool c
               "x_m, y_m (and z_m) differ in length")
         .rule(g.width_left_m.size() == g.width_right_m.size() &&
                   (g.width_left_m.empty() || g.width_left_m.size() == n),
-              "width_left_m", "give both widths (width_left_m and width_right_m) for every point");
+              "width_left_m", "give both widths (width_left_m and width_right_m) for every point")
+        .rule(g.bank_rad.empty() || g.bank_rad.size() == n, "bank_deg",
+              "give a bank angle for every point");
     // A width is the distance from the centerline to that edge: > 0.
     for (const auto* w : {&g.width_left_m, &g.width_right_m}) {
       const std::string name = w == &g.width_left_m ? "width_left_m" : "width_right_m";
@@ -190,7 +193,7 @@ PathProfile fit_centerline(std::shared_ptr<const CenterlinePoints> given, bool c
                            given->y_m.back() - given->y_m.front()) < 1e-6) {
     auto trimmed = std::make_shared<CenterlinePoints>(*given);
     for (auto* v : {&trimmed->x_m, &trimmed->y_m, &trimmed->z_m, &trimmed->width_left_m,
-                    &trimmed->width_right_m})
+                    &trimmed->width_right_m, &trimmed->bank_rad})
       if (!v->empty()) v->pop_back();
     points = std::move(trimmed);
   }
@@ -302,6 +305,9 @@ PathProfile fit_centerline(std::shared_ptr<const CenterlinePoints> given, bool c
     p.width_left_m = smooth(r.wl, h, length, 1, closed);
     p.width_right_m = smooth(r.wr, h, length, 1, closed);
   }
+  // The bank as the widths: smoothed over the path's smoothing length (a survey's bank is as
+  // noisy as its edges).
+  if (!r.bank.empty()) p.bank_rad = smooth(r.bank, h, length, 1, closed);
   // The profile along the fitted path's own length.
   p.s_m.assign(samples, 0.0);
   for (std::size_t j = 1; j < samples; ++j)
@@ -318,6 +324,7 @@ PathProfile fit_centerline(std::shared_ptr<const CenterlinePoints> given, bool c
       v->push_back(v->front());
     if (!p.width_left_m.empty())
       for (auto* v : {&p.width_left_m, &p.width_right_m}) v->push_back(v->front());
+    if (!p.bank_rad.empty()) p.bank_rad.push_back(p.bank_rad.front());
   }
   p.points = std::move(points);
   return p;

@@ -31,7 +31,7 @@ class Walker {
   explicit Walker(const Track& t) : track_(t) {}
 
   struct State {
-    double x, y, heading, curvature, elevation, grade, width;
+    double x, y, heading, curvature, elevation, grade, width, bank;
   };
 
   // Advances to distance s (not before the current one) and returns the state there.
@@ -52,7 +52,8 @@ class Walker {
             curvature(u_),
             z_,
             g.grade,
-            g.width_m.value_or(track_.width_m.value_or(0.0))};
+            g.width_m.value_or(track_.width_m.value_or(0.0)),
+            g.signed_bank_rad()};
   }
 
  private:
@@ -202,6 +203,22 @@ void check_closure(const Track& track) {
 
 }  // namespace
 
+PointRun longest_straight(const Mesh& mesh, double max_curvature_1pm) {
+  PointRun best, run;
+  bool in = false;
+  for (std::size_t i = 0; i < mesh.size(); ++i) {
+    if (std::abs(mesh.curvature_1pm[i]) < max_curvature_1pm) {
+      if (!in) run.first = i;
+      run.last = i;
+      in = true;
+      if (run.last - run.first > best.last - best.first) best = run;
+    } else {
+      in = false;
+    }
+  }
+  return best;
+}
+
 Mesh build_mesh(const Track& track, double step_m) {
   require_valid(track.validate(), track.subject());
   require_valid(
@@ -215,9 +232,11 @@ Mesh build_mesh(const Track& track, double step_m) {
   m.closed = track.closed;
   m.length_m = length;
   m.step_m = length / static_cast<double>(n);
-  for (auto* v : {&m.s_m, &m.x_m, &m.y_m, &m.heading_rad, &m.curvature_1pm, &m.elevation_m,
-                  &m.grade, &m.cos_slope, &m.sin_slope})
+  for (auto* v :
+       {&m.s_m, &m.x_m, &m.y_m, &m.heading_rad, &m.curvature_1pm, &m.elevation_m, &m.grade,
+        &m.cos_slope, &m.sin_slope, &m.bank_rad, &m.cos_bank, &m.sin_bank, &m.head_wind_mps})
     v->resize(n + 1);
+  m.trim_zone.assign(n + 1, 1);
   const PathProfile* lapped = lapped_profile(track);
   const bool widths = track.has_widths() || (lapped && !lapped->width_left_m.empty());
   if (widths)
@@ -256,17 +275,50 @@ Mesh build_mesh(const Track& track, double step_m) {
     m.curvature_1pm[i] = st.curvature;
     m.elevation_m[i] = st.elevation;
     m.grade[i] = st.grade;
+    m.bank_rad[i] = st.bank;
     if (widths) m.width_left_m[i] = m.width_right_m[i] = 0.5 * st.width;
+  }
+  if (lapped) {
+    // Bank and trim zones are given along the described path: a racing line reads them where
+    // it passes (its reference distance), as it does the sectors.
+    const bool line = track.line_path.has_value();
+    const PathProfile* described = track.profile ? &*track.profile : nullptr;
+    std::vector<double> seg_end;  // a segment track's segment ends, for a line over it
+    for (double l = 0.0; const auto& g : track.segments) seg_end.push_back(l += g.length_m);
+    for (std::size_t i = 0; i <= n; ++i) {
+      const double s = line ? interpolate(lapped->s_m, lapped->reference_s_m, m.s_m[i]) : m.s_m[i];
+      if (described && !described->bank_rad.empty())
+        m.bank_rad[i] = interpolate(described->s_m, described->bank_rad, s);
+      else if (!seg_end.empty()) {
+        const auto k = static_cast<std::size_t>(
+            std::upper_bound(seg_end.begin(), seg_end.end(), s) - seg_end.begin());
+        m.bank_rad[i] = track.segments[std::min(k, seg_end.size() - 1)].signed_bank_rad();
+      }
+    }
+  }
+  if (!track.trim_zones.empty()) {
+    const bool line = track.line_path.has_value();
+    for (std::size_t i = 0; i <= n; ++i) {
+      const double s = line ? interpolate(lapped->s_m, lapped->reference_s_m, m.s_m[i]) : m.s_m[i];
+      m.trim_zone[i] =
+          std::any_of(track.trim_zones.begin(), track.trim_zones.end(),
+                      [s](const TrimZone& z) { return s >= z.start_m && s < z.end_m; });
+    }
   }
   if (track.closed) {
     // One lap: the last point is the first again (the closure gap is within tolerance).
     m.curvature_1pm[n] = m.curvature_1pm[0];
     m.grade[n] = m.grade[0];
+    m.bank_rad[n] = m.bank_rad[0];
+    m.trim_zone[n] = m.trim_zone[0];
   }
   for (std::size_t i = 0; i <= n; ++i) {
     // grade = tan(angle): cos = 1 / sqrt(1 + grade^2), sin = grade cos.
     m.cos_slope[i] = 1.0 / std::sqrt(1.0 + m.grade[i] * m.grade[i]);
     m.sin_slope[i] = m.grade[i] * m.cos_slope[i];
+    m.cos_bank[i] = std::cos(m.bank_rad[i]);
+    m.sin_bank[i] = std::sin(m.bank_rad[i]);
+    m.head_wind_mps[i] = track.wind ? track.wind->head_mps(m.heading_rad[i]) : 0.0;
   }
   return m;
 }

@@ -4,6 +4,7 @@
 #include "lapwing/base/units.hpp"
 #include "lapwing/base/version.hpp"
 #include "lapwing/io/json.hpp"
+#include "lapwing/report/labels.hpp"
 #include "lapwing/report/text_table.hpp"
 #include "lapwing/report/track_quality_text.hpp"
 
@@ -77,7 +78,8 @@ std::string config_text(const ConfigCheck& c) {
   return out;
 }
 
-std::string track_text(const Circuit& t, const TrackCheck& tc, const InputWords& input_words) {
+std::string track_text(const Car& car, double rated_w, const Circuit& t, const TrackCheck& tc,
+                       const InputWords& input_words) {
   const Closure& cl = tc.closure;
   std::string out = "\ntrack  " + t.track.name + " (" + t.track.file + ")\n";
   // The closure gap is what a lap must bring to zero: an open track has none to report.
@@ -98,12 +100,26 @@ std::string track_text(const Circuit& t, const TrackCheck& tc, const InputWords&
                          ": smoothing " + smoothing_text(p) + ", fit residual " +
                          fixed(1000 * p.fit_residual_rms_m, 1) + " mm rms, curvature noise " +
                          fixed(p.curvature_noise_rms_1pm, 5) + " 1/m rms"
-                   : std::string(": curvature as given") +
-                         (p.has_bank ? "; bank_deg read but not modelled" : "")) +
+                   : std::string(": curvature as given")) +
            "\n";
     for (const auto& n : p.notes) out += "       note: " + n + "\n";
   }
   if (t.track.line_path) out += "       " + line_text(t.track) + "\n";
+  out += "       engine (" + label(car.powertrain.aspiration) + ") in this air: " +
+         fixed(tc.engine_power_ratio * rated_w / 1000, 1) + " kW of " + fixed(rated_w / 1000, 1) +
+         " kW rated (" + fixed(100 * tc.engine_power_ratio, 1) + " %)\n";
+  if (t.track.wind) {
+    const double head = tc.head_wind_longest_straight_mps;
+    out += "       wind " + fixed(t.track.wind->speed_mps, 1) + " m/s from " +
+           fixed(t.track.wind->from_rad / units::deg, 0) + " deg: " +
+           (head >= 0 ? "head" : "tail") + " wind " + fixed(std::abs(head), 1) +
+           " m/s on the longest straight (" + fixed(tc.straight_start_m, 0) + " to " +
+           fixed(tc.straight_end_m, 0) + " m)\n";
+  }
+  if (!t.track.trim_zones.empty())
+    out += "       trim zones: " + std::to_string(t.track.trim_zones.size()) + ", " +
+           fixed(100 * tc.trim_zone_share, 1) +
+           " % of the lap (the straight-line trim opens only there)\n";
   if (tc.smoothing) {
     const SmoothingStudy& s = *tc.smoothing;
     auto cell = [](const std::optional<double>& v) { return v ? fixed(*v, 3) : std::string("-"); };
@@ -192,7 +208,10 @@ void track_json(JsonWriter& j, const Circuit& t, const TrackCheck& tc) {
         .null()
         .field("rise_m", cl.elevation_gap_m);
   j.field("corner_count", static_cast<int>(tc.corner_count))
-      .field("air_density_kg_m3", t.air.density_kg_m3);
+      .field("air_density_kg_m3", t.air.density_kg_m3)
+      .field("engine_power_ratio", tc.engine_power_ratio)
+      .field("head_wind_longest_straight_mps", tc.head_wind_longest_straight_mps)
+      .field("trim_zone_share", tc.trim_zone_share);
   j.key("notes").begin_array();
   if (t.track.profile)
     for (const auto& n : t.track.profile->notes) j.value(n);
@@ -235,10 +254,23 @@ std::string check_text(const Car& car, const std::vector<Circuit>& circuits,
   out += "       mass " + fixed(car.mass_kg, 1) + " kg, static front weight " +
          fixed(100 * car.front_weight, 1) + " %, wheelbase " + fixed(car.wheelbase_m, 3) +
          " m, cg height " + fixed(car.cg_height_m, 3) + " m\n";
+  if (summary.transfer_at_1g_n) {
+    const RollGeometry& g = *car.roll;
+    out += "       lateral load transfer: tracks " + fixed(g.track_front_m, 3) + " / " +
+           fixed(g.track_rear_m, 3) + " m, front roll stiffness " +
+           fixed(100 * g.roll_stiffness_front, 1) + " %, roll centres " +
+           fixed(g.roll_centre_front_m, 3) + " / " + fixed(g.roll_centre_rear_m, 3) +
+           " m: at 1 g, " + fixed(summary.transfer_at_1g_n->front, 0) + " N front, " +
+           fixed(summary.transfer_at_1g_n->rear, 0) + " N rear to the outer tyre\n";
+  } else {
+    out += "       no lateral load transfer (no track_width, roll_stiffness_front)\n";
+  }
+  out += "       model " + std::string(car.model == VehicleModel::axle ? "axle" : "point-mass") +
+         ", engine " + label(car.powertrain.aspiration) + "\n";
   out += "       aero figures in air of " + air_text(summary.reference_air) + "\n";
   for (const ConfigCheck& c : summary.configs) out += config_text(c);
   for (std::size_t t = 0; t < circuits.size(); ++t)
-    out += track_text(circuits[t], summary.tracks[t], input_words);
+    out += track_text(car, summary.rated_power_w, circuits[t], summary.tracks[t], input_words);
   return out;
 }
 
@@ -253,7 +285,9 @@ std::string check_json(const Car& car, const std::vector<Circuit>& circuits,
       .field("front_weight", car.front_weight)
       .field("wheelbase_m", car.wheelbase_m)
       .field("cg_height_m", car.cg_height_m)
-      .field("air_density_kg_m3", summary.reference_air.density_kg_m3);
+      .field("air_density_kg_m3", summary.reference_air.density_kg_m3)
+      .field("lateral_load_transfer", summary.transfer_at_1g_n.has_value())
+      .field("aspiration", label(car.powertrain.aspiration));
   j.key("configs").begin_array();
   for (const ConfigCheck& c : summary.configs) config_json(j, c);
   j.end_array().end_object();

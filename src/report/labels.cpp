@@ -36,4 +36,16 @@ std::string label(PieceKind kind) {
   return "corner";
 }
 
+std::string label(Aspiration aspiration) {
+  switch (aspiration) {
+    case Aspiration::natural:
+      return "natural";
+    case Aspiration::turbo:
+      return "turbo";
+    case Aspiration::fixed:
+      break;
+  }
+  return "fixed";
+}
+
 }  // namespace lapwing

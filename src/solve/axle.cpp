@@ -77,7 +77,7 @@ double transfer_fixed_point(Phi phi) {
 }
 }  // namespace
 
-AxleUsage axle_usage(const Envelope& env, const AxleLoads& loads, double fx, double ay) {
+AxleUsage axle_usage(const Envelope& env, const AxleLoads& loads, double fx, double fy) {
   const Car& car = env.car();
   const TyreModel& t = env.tyres();
   AxleUsage u{loads, 0, 0, 0, 0, 0, 0};
@@ -99,45 +99,49 @@ AxleUsage axle_usage(const Envelope& env, const AxleLoads& loads, double fx, dou
     u.front_fx_n = fx * car.brake_front_bias;
     u.rear_fx_n = fx - u.front_fx_n;
   }
-  u.front_fy_n = car.mass_kg * ay * car.front_weight;
-  u.rear_fy_n = car.mass_kg * ay - u.front_fy_n;
-  auto usage = [&t](double load, double fxa, double fya) {
+  u.front_fy_n = fy * car.front_weight;
+  u.rear_fy_n = fy - u.front_fy_n;
+  const TransferPerNewton& d = env.transfer();
+  auto usage = [&t](double load, double transfer, double fxa, double fya) {
     if (!(load > 0.0)) return 1e9;  // an unloaded axle cannot carry anything
-    const TyreModel::Limits lim = t.axle_limits(load);
+    const TyreModel::Limits lim = t.axle_limits(load, transfer);
     return t.usage(std::abs(fxa) / lim.fx_max, std::abs(fya) / lim.fy_max);
   };
-  u.front_usage = usage(loads.front_n, u.front_fx_n, u.front_fy_n);
-  u.rear_usage = usage(loads.rear_n, u.rear_fx_n, u.rear_fy_n);
+  u.front_usage = usage(loads.front_n, d.front * std::abs(fy), u.front_fx_n, u.front_fy_n);
+  u.rear_usage = usage(loads.rear_n, d.rear * std::abs(fy), u.rear_fx_n, u.rear_fy_n);
   return u;
 }
 
 namespace {
 
-struct Aero {
-  double drag, down, balance, resistance;
+// The forces at u on a point of curvature |k| (Envelope::road_forces), with the share of the
+// weight the road carries normal to itself (axle_loads' c = N_body / W) and |F_y|.
+struct Forces {
+  double drag, down, balance, normal_share, resistance, fy, drive;
 };
-Aero aero_at(const Envelope& env, double u, double cos_slope, double sin_slope, bool trimmed) {
-  const Envelope::Sample s = env.sample_sq(u, trimmed);
-  const double down = s.lift_coef * u, drag = s.drag_coef * u;
-  const double load = normal_load_n(env.weight_n(), cos_slope, down);
-  return {drag, down, s.balance,
-          resistance_n(drag, env.rolling_resistance(), load, env.weight_n(), sin_slope)};
+Forces forces_at(const Envelope& env, double u, double k, const Road& road, bool trimmed) {
+  const Envelope::RoadForces f = env.road_forces(env.rows(trimmed), u, k, road);
+  return {f.drag_n,       f.downforce_n,         f.balance, f.normal_share,
+          f.resistance_n, std::abs(f.lateral_n), f.drive_n};
 }
 
-double left_on(const TyreModel& t, double axle_load, double fy) {
+// The longitudinal force an axle has left at its load with `transfer` moved to its outer tyre,
+// carrying lateral force fy.
+double left_on(const TyreModel& t, double axle_load, double transfer, double fy) {
   if (!(axle_load > 0.0)) return 0.0;
-  return t.long_force_left(t.axle_limits(axle_load), fy);
+  return t.long_force_left(t.axle_limits(axle_load, transfer), fy);
 }
 
 }  // namespace
 
-double axle_drive_accel(const Envelope& env, double u, double k, double cos_slope, double sin_slope,
-                        double drive_n, bool trimmed) {
+double axle_drive_accel(const Envelope& env, double u, double k, const Road& road, double drive_n,
+                        bool trimmed) {
   const Car& car = env.car();
   const TyreModel& t = env.tyres();
-  const Aero a = aero_at(env, u, cos_slope, sin_slope, trimmed);
-  const double fy = car.mass_kg * u * k;
+  const Forces a = forces_at(env, u, k, road, trimmed);
+  const double fy = a.fy;
   const double fy_front = fy * car.front_weight, fy_rear = fy - fy_front;
+  const double d_front = env.transfer().front * fy, d_rear = env.transfer().rear * fy;
   // Rotating inertia only where the engine limits (Gillespie, Fundamentals of Vehicle Dynamics,
   // ch. 2-3): the drive spins the rotating parts up too, (F_drive - R) = m_eff a; at the tyres'
   // limit the road force acts on m, (F_traction - R) = m a, and the engine supplies the wheels'
@@ -145,32 +149,33 @@ double axle_drive_accel(const Envelope& env, double u, double k, double cos_slop
   const double inv_m = 1.0 / env.mass_kg();
   const double engine = (drive_n - a.resistance) / env.effective_mass_kg();
   const AxleLoads static_loads =
-      axle_loads(car, a.drag, a.down, a.balance, cos_slope, sin_slope, 0.0);
+      axle_loads(car, a.drag, a.down, a.balance, a.normal_share, road.sin_slope, 0.0);
   // The front axle of a rear-driven car carries no drive but its share of the lateral force, on
   // a load that acceleration takes away (front = front(0) - m a h / L): it holds only while
   // front(a) >= the least load for fy_front, so a <= (front(0) - that load) L / (m h). The
   // rear of a front-driven car gains load under power: no bound there.
   double front_bound = std::numeric_limits<double>::infinity();
   if (car.powertrain.driven == DrivenAxle::rear && car.cg_height_m > 0.0)
-    front_bound = (static_loads.front_n - t.axle_load_for_lateral(fy_front)) * car.wheelbase_m /
-                  (car.mass_kg * car.cg_height_m);
+    front_bound = (static_loads.front_n - t.axle_load_for_lateral(fy_front, d_front)) *
+                  car.wheelbase_m / (car.mass_kg * car.cg_height_m);
   return transfer_fixed_point([&](double ax) {
-    const AxleLoads l = axle_loads(car, a.drag, a.down, a.balance, cos_slope, sin_slope, ax);
+    const AxleLoads l =
+        axle_loads(car, a.drag, a.down, a.balance, a.normal_share, road.sin_slope, ax);
     double traction = 0.0;
     switch (car.powertrain.driven) {
       case DrivenAxle::rear:
-        traction = left_on(t, l.rear_n, fy_rear);
+        traction = left_on(t, l.rear_n, d_rear, fy_rear);
         break;
       case DrivenAxle::front:
-        traction = left_on(t, l.front_n, fy_front);
+        traction = left_on(t, l.front_n, d_front, fy_front);
         break;
       case DrivenAxle::all: {
         // The drive shared by load (as axle_usage shares it): the largest total that neither
         // axle refuses, min(left_f N / front, left_r N / rear).
         const double total = l.front_n + l.rear_n;
         traction = l.front_n > 0.0 && l.rear_n > 0.0
-                       ? std::min(left_on(t, l.front_n, fy_front) * total / l.front_n,
-                                  left_on(t, l.rear_n, fy_rear) * total / l.rear_n)
+                       ? std::min(left_on(t, l.front_n, d_front, fy_front) * total / l.front_n,
+                                  left_on(t, l.rear_n, d_rear, fy_rear) * total / l.rear_n)
                        : 0.0;
         break;
       }
@@ -179,31 +184,32 @@ double axle_drive_accel(const Envelope& env, double u, double k, double cos_slop
   });
 }
 
-double axle_brake_accel(const Envelope& env, double u, double k, double cos_slope,
-                        double sin_slope) {
+double axle_brake_accel(const Envelope& env, double u, double k, const Road& road) {
   const Car& car = env.car();
   const TyreModel& t = env.tyres();
-  const Aero a = aero_at(env, u, cos_slope, sin_slope, false);
-  const double fy = car.mass_kg * u * k;
+  const Forces a = forces_at(env, u, k, road, false);
+  const double fy = a.fy;
   const double fy_front = fy * car.front_weight, fy_rear = fy - fy_front;
+  const double d_front = env.transfer().front * fy, d_rear = env.transfer().rear * fy;
   const double bias = car.brake_front_bias;
   // Braking at the tyres' limit decelerates m: the brakes spin the wheels down (as in drive).
   const double inv_m = 1.0 / env.mass_kg();
   return transfer_fixed_point([&](double decel) {
-    const AxleLoads l = axle_loads(car, a.drag, a.down, a.balance, cos_slope, sin_slope, -decel);
+    const AxleLoads l =
+        axle_loads(car, a.drag, a.down, a.balance, a.normal_share, road.sin_slope, -decel);
     // Braking force F splits bias F front, (1 - bias) F rear: the largest F neither axle refuses.
-    const double brake = std::min(left_on(t, l.front_n, fy_front) / bias,
-                                  left_on(t, l.rear_n, fy_rear) / (1.0 - bias));
+    const double brake = std::min(left_on(t, l.front_n, d_front, fy_front) / bias,
+                                  left_on(t, l.rear_n, d_rear, fy_rear) / (1.0 - bias));
     return (brake + a.resistance) * inv_m;
   });
 }
 
-double axle_steady_excess(const Envelope& env, double v, double k, double cos_slope,
-                          double sin_slope) {
+double axle_steady_excess(const Envelope& env, double v, double k, const Road& road) {
   const double u = v * v;
-  const Aero a = aero_at(env, u, cos_slope, sin_slope, false);
-  const AxleLoads l = axle_loads(env.car(), a.drag, a.down, a.balance, cos_slope, sin_slope, 0.0);
-  const AxleUsage use = axle_usage(env, l, a.resistance, u * k);
+  const Forces a = forces_at(env, u, k, road, false);
+  const AxleLoads l =
+      axle_loads(env.car(), a.drag, a.down, a.balance, a.normal_share, road.sin_slope, 0.0);
+  const AxleUsage use = axle_usage(env, l, a.resistance, a.fy);
   return std::max(use.front_usage, use.rear_usage) - 1.0;
 }
 

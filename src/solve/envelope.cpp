@@ -67,8 +67,8 @@ AeroPoint table_point(const AeroConfig& a, double v) {
 // The first speed on a grid of `step` at which a gearless car's drive falls below its
 // resistance on the level, with and without the straight-line trim (the higher of the two top
 // speeds), read straight from the config's data; 0 when there is none up to `ceiling`.
-double level_top_speed_bound(const ConfiguredCar& configured, double rho, double step,
-                             double ceiling) {
+double level_top_speed_bound(const ConfiguredCar& configured, double rho, double power_ratio,
+                             double step, double ceiling) {
   const Car& car = configured.car();
   const AeroConfig& a = configured.aero();
   const double weight = car.mass_kg * units::g0, crr = car.tyres.rolling_resistance;
@@ -85,7 +85,8 @@ double level_top_speed_bound(const ConfiguredCar& configured, double rho, double
     double r = resistance(c.cda_m2, c.cla_m2, v);
     if (a.trim)
       r = std::min(r, resistance(c.cda_m2 + a.trim->dcda_m2, c.cla_m2 + a.trim->dcla_m2, v));
-    if (best_drive(car.powertrain, car.tyres.rolling_radius_m, v).force_n < r) return v;
+    if (power_ratio * best_drive(car.powertrain, car.tyres.rolling_radius_m, v).force_n < r)
+      return v;
   }
   return 0.0;
 }
@@ -110,6 +111,9 @@ Envelope::Envelope(Unchecked, const ConfiguredCar& configured, const Car& car, c
       crr_(car.tyres.rolling_resistance),
       rho_(air.density_kg_m3),
       table_margin_(options.table_margin) {
+  power_ratio_ =
+      engine_power_ratio(car.powertrain, air.pressure_pa, air.temperature_k, air.relative_humidity);
+  transfer_ = lateral_transfer_per_n(car);
   require_valid(FirstViolation()
                     .range("density_kg_m3", air.density_kg_m3, positive(), Quantity::number)
                     .result(),
@@ -129,7 +133,8 @@ Envelope::Envelope(Unchecked, const ConfiguredCar& configured, const Car& car, c
     table_top_ = v_rev <= ceiling ? TopSpeedLimit::rev_limit : TopSpeedLimit::ceiling;
   } else {
     constexpr double search_step_mps = 0.5;
-    const double bound = level_top_speed_bound(configured, rho_, search_step_mps, ceiling);
+    const double bound =
+        level_top_speed_bound(configured, rho_, power_ratio_, search_step_mps, ceiling);
     const bool finite = bound > 0.0 && options.table_margin * bound < ceiling;
     v_max_ = finite ? options.table_margin * bound : ceiling;
     table_top_ = finite ? TopSpeedLimit::drag : TopSpeedLimit::ceiling;
@@ -164,7 +169,8 @@ Envelope::Envelope(Unchecked, const ConfiguredCar& configured, const Car& car, c
   }
   for (std::size_t k = 0; k < n; ++k) {
     const double v = k + 1 == n ? v_max_ : std::sqrt(static_cast<double>(k) * du_);
-    const Drive d = best_drive(p, r, v);
+    Drive d = best_drive(p, r, v);
+    d.force_n *= power_ratio_;  // the engine in this air (SAE J1349 for natural and turbo)
     const AeroPoint c = aero_at(v);
     rows_[k] = {d.force_n, 0.5 * rho_ * c.cda_m2, 0.5 * rho_ * c.cla_m2, c.balance};
     gear_[k] = d.gear;

@@ -36,12 +36,17 @@ std::string_view phase_name(Phase p) {
 
 namespace {
 
-// cos and sin of the road's slope angle at a mesh point (Mesh keeps them: grade = tan(angle)).
-struct Slope {
-  double cos, sin;
-  Slope(double c, double s) : cos(c), sin(s) {}
-  Slope(const Mesh& m, std::size_t i) : cos(m.cos_slope[i]), sin(m.sin_slope[i]) {}
-};
+// The road at mesh point i (model/loads.hpp): the slope (Mesh keeps cos and sin: grade =
+// tan(angle)), the bank taken in the direction of the point's turn (the mesh's bank helps a
+// left turn: a right turn sees it negated; a straight as given) and the head wind.
+Road road_at(const Mesh& m, std::size_t i) {
+  const double turn = m.curvature_1pm[i] < 0.0 ? -1.0 : 1.0;
+  return {m.cos_slope[i], m.sin_slope[i], m.cos_bank[i], turn * m.sin_bank[i], m.head_wind_mps[i]};
+}
+bool same_road(const Road& a, const Road& b) {
+  return a.cos_slope == b.cos_slope && a.sin_slope == b.sin_slope && a.cos_bank == b.cos_bank &&
+         a.sin_bank == b.sin_bank && a.head_wind_mps == b.head_wind_mps;
+}
 
 // Bracketing tolerance for steady speeds: 36 bits, about 1e-11 relative.
 constexpr int steady_bits = 36;
@@ -53,22 +58,19 @@ constexpr int steady_bits = 36;
 // that error, and a hairpin's limit with it.
 constexpr double clip_tolerance = 1e-9;
 
-// The forces along the path at speed v on a point of curvature |kappa| and slope: what the
-// tyres have left for Fx after the lateral demand m v^2 |kappa| (friction ellipse), the
-// resistance (drag + rolling + grade), and the drive in the best gear. One table read.
+// The forces along the path at speed v on a point of curvature |kappa| and its road: what the
+// tyres have left for Fx after the lateral demand (friction ellipse; m v^2 |kappa| on a flat
+// road), the resistance (drag + rolling + grade), and the drive in the best gear. One table
+// read (Envelope::road_forces).
 struct PathForces {
   double grip_left_n, resistance_n, drive_n;
 };
 [[gnu::always_inline]] inline PathForces path_forces(const Envelope& env,
                                                      const Envelope::Rows& rows, double v2,
-                                                     double abs_curvature, const Slope& slope) {
-  const Envelope::Sample s = rows.at(v2);
-  const double load = normal_load_n(env.weight_n(), slope.cos, s.lift_coef * v2);
-  const TyreModel::Limits lim = env.tyres().limits(load);
-  const double fy = env.mass_kg() * v2 * abs_curvature;
-  return {env.tyres().long_force_left(lim, fy),
-          resistance_n(s.drag_coef * v2, env.rolling_resistance(), load, env.weight_n(), slope.sin),
-          s.drive_n};
+                                                     double abs_curvature, const Road& road) {
+  const Envelope::RoadForces f = env.road_forces(rows, v2, abs_curvature, road);
+  const TyreModel::Limits lim = env.tyres().limits(f.normal_n);
+  return {env.tyres().long_force_left(lim, f.lateral_n), f.resistance_n, f.drive_n};
 }
 
 // The model's accelerations (m/s^2) at u = v^2 on a point of curvature |k|, positive along the
@@ -83,26 +85,24 @@ struct InverseMass {
 };
 template <bool Axle>
 [[gnu::always_inline]] inline double drive_accel(const Envelope& env, const Envelope::Rows& rows,
-                                                 double u, double k, const Slope& slope,
-                                                 bool trimmed, double drive_share,
-                                                 const InverseMass& inv) {
+                                                 double u, double k, const Road& road, bool trimmed,
+                                                 double drive_share, const InverseMass& inv) {
   if constexpr (Axle) {
-    return axle_drive_accel(env, u, k, slope.cos, slope.sin, drive_share * rows.at(u).drive_n,
-                            trimmed);
+    return axle_drive_accel(env, u, k, road, drive_share * rows.at(u).drive_n, trimmed);
   } else {
-    const PathForces f = path_forces(env, rows, u, k, slope);
+    const PathForces f = path_forces(env, rows, u, k, road);
     return std::min((drive_share * f.drive_n - f.resistance_n) * inv.m_eff,
                     (f.grip_left_n - f.resistance_n) * inv.m);
   }
 }
 template <bool Axle>
 [[gnu::always_inline]] inline double brake_accel(const Envelope& env, const Envelope::Rows& rows,
-                                                 double u, double k, const Slope& slope,
+                                                 double u, double k, const Road& road,
                                                  const InverseMass& inv) {
   if constexpr (Axle) {
-    return axle_brake_accel(env, u, k, slope.cos, slope.sin);
+    return axle_brake_accel(env, u, k, road);
   } else {
-    const PathForces f = path_forces(env, rows, u, k, slope);
+    const PathForces f = path_forces(env, rows, u, k, road);
     return (f.grip_left_n + f.resistance_n) * inv.m;
   }
 }
@@ -157,42 +157,46 @@ void steady_profile(const Envelope& env, const Mesh& mesh, SteadyProfile& p) {
   const double v_max = env.max_speed_mps();
   const TyreModel& tyres = env.tyres();
   const bool axle = env.car().model == VehicleModel::axle;
-  double last_grade = std::nan(""), last_curv = std::nan("");
+  double last_curv = std::nan("");
+  Road last_road{std::nan(""), 0.0, 0.0, 0.0, 0.0};
   bool last_trimmed = false;
   double v_engine = 0.0, v_grip = 0.0;
   for (std::size_t i = 0; i < n; ++i) {
-    const double grade = mesh.grade[i], curv = std::abs(mesh.curvature_1pm[i]);
-    const Slope slope(mesh, i);
+    const double curv = std::abs(mesh.curvature_1pm[i]);
+    const Road road = road_at(mesh, i);
+    const bool road_changed = !same_road(road, last_road);
     // The engine's limit is reached under full drive, where the straight-line trim applies.
-    const bool trimmed = env.trims(curv);
-    if (grade != last_grade || trimmed != last_trimmed) {
-      // Engine: drive in the best gear >= resistance, the top speed on this grade.
+    const bool trimmed = env.trims(curv) && mesh.trim_zone[i];
+    // A bank makes the normal load, and with it the rolling resistance, depend on the curvature.
+    if (road_changed || trimmed != last_trimmed || (road.sin_bank != 0.0 && curv != last_curv)) {
+      // Engine: drive in the best gear >= resistance, the top speed on this road.
+      const Envelope::Rows rows = env.rows(trimmed);
       v_engine = highest_feasible(
           [&](double v) {
-            return env.resistance_n(v, slope.cos, slope.sin, trimmed) - env.drive_n(v);
+            const Envelope::RoadForces f = env.road_forces(rows, v * v, curv, road);
+            return f.resistance_n - f.drive_n;
           },
           v_max, v_engine);
     }
     last_trimmed = trimmed;
-    if (grade != last_grade || curv != last_curv) {
-      // Tyres: (|R| / Fx_max)^n + (m v^2 |kappa| / Fy_max)^n <= 1, R = resistance to hold v.
-      // With the axle model, on the axle that saturates first.
+    if (road_changed || curv != last_curv) {
+      // Tyres: (|R| / Fx_max)^n + (|F_y| / Fy_max)^n <= 1, R = resistance to hold v, F_y the
+      // lateral demand (m v^2 |kappa| on a flat road). With the axle model, on the axle that
+      // saturates first.
+      const Envelope::Rows rows = env.rows(false);
       v_grip =
-          axle ? highest_feasible(
-                     [&](double v) {
-                       return axle_steady_excess(env, v, curv, slope.cos, slope.sin);
-                     },
-                     v_max, v_grip)
+          axle ? highest_feasible([&](double v) { return axle_steady_excess(env, v, curv, road); },
+                                  v_max, v_grip)
                : highest_feasible(
                      [&](double v) {
-                       const double load = env.normal_load_n(v, slope.cos);
-                       const double fx = std::abs(env.resistance_n(v, slope.cos, slope.sin));
-                       const double fy = env.mass_kg() * v * v * curv;
-                       return tyres.usage(fx / tyres.fx_max(load), fy / tyres.fy_max(load)) - 1.0;
+                       const Envelope::RoadForces f = env.road_forces(rows, v * v, curv, road);
+                       return tyres.usage(std::abs(f.resistance_n) / tyres.fx_max(f.normal_n),
+                                          std::abs(f.lateral_n) / tyres.fy_max(f.normal_n)) -
+                              1.0;
                      },
                      v_max, v_grip);
     }
-    last_grade = grade;
+    last_road = road;
     last_curv = curv;
     if (v_grip < v_engine) {
       p.speed_mps[i] = v_grip;
@@ -266,10 +270,10 @@ class Sweeper {
     // The limit in u = v^2 over the step, linear between its ends: no stage state goes above it.
     ulim0_ = limit_[i] * limit_[i];
     dulim_ = (limit_[j_] * limit_[j_] - ulim0_) / ds_;
-    slope_ = Slope(mesh_, forward_ ? i : j_);
-    // Under drive, movable aero trims where the step starts on a straight enough piece; under
-    // braking it does not.
-    trimmed_ = forward_ && env_.trims(k0_);
+    road_ = road_at(mesh_, forward_ ? i : j_);
+    // Under drive, movable aero trims where the step starts on a straight enough piece (inside
+    // a trim zone, where the track has them); under braking it does not.
+    trimmed_ = forward_ && env_.trims(k0_) && mesh_.trim_zone[i];
     rows_ = env_.rows(trimmed_);
     drive_share_ = 1.0;
     if (forward_ && cut_left_s_ > 0.0) {
@@ -285,9 +289,9 @@ class Sweeper {
   [[gnu::always_inline]] double rhs(double u, double x) const {
     const double u0 = std::max(u, 0.0);
     const double k = k0_ + dk_ * x;
-    return 2.0 * (forward_ ? drive_accel<Axle>(env_, rows_, u0, k, slope_, trimmed_, drive_share_,
+    return 2.0 * (forward_ ? drive_accel<Axle>(env_, rows_, u0, k, road_, trimmed_, drive_share_,
                                                inv_mass_)
-                           : brake_accel<Axle>(env_, rows_, u0, k, slope_, inv_mass_));
+                           : brake_accel<Axle>(env_, rows_, u0, k, road_, inv_mass_));
   }
 
   /// The limit in u = v^2 a distance x into the step (linear between the step's ends).
@@ -355,7 +359,7 @@ class Sweeper {
   double ulim0_ = 0.0, dulim_ = 0.0;  // the limit in u at the step's start, and its slope
   bool trimmed_ = false;
   Envelope::Rows rows_{nullptr, 0, 0.0};  // the table the step reads
-  Slope slope_{1.0, 0.0};
+  Road road_{};
   int gear_ = 0;
   double cut_left_s_ = 0.0;  // drive cut still to run after an upshift
 };
@@ -596,7 +600,7 @@ const Lap& LapSolver::add_channels(const Envelope& env, const Mesh& mesh) {
   lap.has_channels = true;
   // Channels along the lap.
   const Car& car = env.car();
-  const double g = units::g0, m = env.mass_kg(), wb = car.wheelbase_m;
+  const double m = env.mass_kg(), wb = car.wheelbase_m;
   lap.long_accel_mps2.resize(n);
   lap.lat_accel_mps2.resize(n);
   lap.gear.resize(n);
@@ -633,24 +637,29 @@ const Lap& LapSolver::add_channels(const Envelope& env, const Mesh& mesh) {
         (lap.speed_mps[hi] * lap.speed_mps[hi] - lap.speed_mps[lo] * lap.speed_mps[lo]) /
         (2.0 * span);
     const double k = std::abs(mesh.curvature_1pm[i]);
-    const Slope slope(mesh, i);
+    const Road road = road_at(mesh, i);
     if (diff >= 0.0) {
-      const bool trims = env.trims(k);
+      const bool trims = env.trims(k) && mesh.trim_zone[i];
       const Envelope::Rows rows = env.rows(trims);
       return std::min(diff, axle_model
-                                ? drive_accel<true>(env, rows, u, k, slope, trims, 1.0, inv)
-                                : drive_accel<false>(env, rows, u, k, slope, trims, 1.0, inv));
+                                ? drive_accel<true>(env, rows, u, k, road, trims, 1.0, inv)
+                                : drive_accel<false>(env, rows, u, k, road, trims, 1.0, inv));
     }
     const Envelope::Rows rows = env.rows(false);
-    return std::max(diff, -(axle_model ? brake_accel<true>(env, rows, u, k, slope, inv)
-                                       : brake_accel<false>(env, rows, u, k, slope, inv)));
+    return std::max(diff, -(axle_model ? brake_accel<true>(env, rows, u, k, road, inv)
+                                       : brake_accel<false>(env, rows, u, k, road, inv)));
   };
-  const double weight = m * g, crr = env.rolling_resistance();
   for (std::size_t i = 0; i < n; ++i) {
     const double v = lap.speed_mps[i];
     const double ax = point_accel(i);
     lap.long_accel_mps2[i] = ax;
-    lap.lat_accel_mps2[i] = v * v * mesh.curvature_1pm[i];
+    // Lateral acceleration in the road's plane, signed as the curvature: F_y / m (v^2 kappa on
+    // a flat road; less the weight's part down a bank).
+    const Road road = road_at(mesh, i);
+    const double k = std::abs(mesh.curvature_1pm[i]);
+    const bool trimmed = env.trims(k) && mesh.trim_zone[i] && under_drive(lap.phase[i]);
+    const Envelope::RoadForces f = env.road_forces(env.rows(trimmed), v * v, k, road);
+    lap.lat_accel_mps2[i] = (mesh.curvature_1pm[i] < 0.0 ? -1.0 : 1.0) * f.lateral_n / m;
     // Under drive the gear the forward sweep engaged (held through a shift's cut); under
     // braking the best gear for the speed.
     const Powertrain& pt = car.powertrain;
@@ -661,17 +670,15 @@ const Lap& LapSolver::add_channels(const Envelope& env, const Mesh& mesh) {
                  : std::clamp(v / car.tyres.rolling_radius_m *
                                   pt.gears[static_cast<std::size_t>(gear - 1)] * pt.final_drive,
                               pt.engine_radps.front(), pt.rev_limit_radps);
-    const bool trimmed = env.trims(std::abs(mesh.curvature_1pm[i])) && under_drive(lap.phase[i]);
     lap.trimmed[i] = trimmed;
     const Envelope::Sample row = env.sample(v, trimmed);
-    const double drag = row.drag_coef * v * v, down = row.lift_coef * v * v;
-    lap.drag_n[i] = drag;
-    lap.downforce_n[i] = down;
+    lap.drag_n[i] = f.drag_n;
+    lap.downforce_n[i] = f.downforce_n;
     // Axle loads and what each axle carries (axle.hpp): the tyre force along the path is what
     // accelerates the car's mass m plus the resistance (the rotating parts' spin-up is torque
     // inside the driveline, not road force).
-    const Slope slope(mesh, i);
-    const AxleLoads loads = axle_loads(car, drag, down, row.balance, slope.cos, slope.sin, ax);
+    const AxleLoads loads =
+        axle_loads(car, f.drag_n, f.downforce_n, row.balance, f.normal_share, road.sin_slope, ax);
     lap.front_load_n[i] = loads.front_n;
     lap.rear_load_n[i] = loads.rear_n;
     lap.front_share[i] = loads.front_n / (loads.front_n + loads.rear_n);
@@ -680,10 +687,7 @@ const Lap& LapSolver::add_channels(const Envelope& env, const Mesh& mesh) {
     lap.aero_balance_eff[i] = aero_balance_with_drag_moment(row.lift_coef, row.drag_coef,
                                                             row.balance, car.drag_height_m, wb)
                                   .value_or(std::numeric_limits<double>::quiet_NaN());
-    const double resistance =
-        resistance_n(drag, crr, normal_load_n(weight, slope.cos, down), weight, slope.sin);
-    const AxleUsage use =
-        axle_usage(env, loads, m * ax + resistance, v * v * std::abs(mesh.curvature_1pm[i]));
+    const AxleUsage use = axle_usage(env, loads, m * ax + f.resistance_n, std::abs(f.lateral_n));
     lap.front_usage[i] = use.front_usage;
     lap.rear_usage[i] = use.rear_usage;
   }

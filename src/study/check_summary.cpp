@@ -4,6 +4,7 @@
 
 #include "lapwing/base/units.hpp"
 #include "lapwing/model/loads.hpp"
+#include "lapwing/model/powertrain.hpp"
 #include "lapwing/solve/summary.hpp"
 
 namespace lapwing {
@@ -60,6 +61,20 @@ TrackCheck check_track(const Car& car, const Circuit& t) {
   TrackCheck out;
   out.closure = closure(t.track);
   out.corner_count = t.corners.size();
+  out.engine_power_ratio = engine_power_ratio(car.powertrain, t.air.pressure_pa,
+                                              t.air.temperature_k, t.air.relative_humidity);
+  // The wind's head component on the longest straight, and the trim zones' share.
+  const PointRun straight = longest_straight(t.mesh);
+  double head = 0.0;
+  for (std::size_t i = straight.first; i <= straight.last; ++i) head += t.mesh.head_wind_mps[i];
+  out.head_wind_longest_straight_mps = head / static_cast<double>(straight.last - straight.first + 1);
+  out.straight_start_m = t.mesh.s_m[straight.first];
+  out.straight_end_m = t.mesh.s_m[straight.last];
+  if (!t.track.trim_zones.empty()) {
+    std::size_t zoned = 0;
+    for (std::size_t i = 0; i + 1 < t.mesh.size(); ++i) zoned += t.mesh.trim_zone[i];
+    out.trim_zone_share = static_cast<double>(zoned) / static_cast<double>(t.mesh.intervals());
+  }
   for (std::size_t c = 0; c < car.configs.size(); ++c) {
     const Envelope env(car.configured(c), t.air);
     out.configs.push_back({car.configs[c].name, env.top_speed_level_mps(), env.top_speed_limit()});
@@ -110,6 +125,12 @@ CheckSummary check_summary(const Car& car, const std::vector<Circuit>& circuits,
                            const Air& reference_air) {
   CheckSummary s;
   s.reference_air = reference_air;
+  if (car.roll) {
+    const TransferPerNewton d = lateral_transfer_per_n(car);
+    const double w = car.mass_kg * units::g0;  // the lateral force at 1 g
+    s.transfer_at_1g_n = TransferPerNewton{d.front * w, d.rear * w};
+  }
+  s.rated_power_w = rated_power_w(car.powertrain);
   for (std::size_t c = 0; c < car.configs.size(); ++c)
     s.configs.push_back(check_config(car, c, reference_air));
   for (const Circuit& t : circuits) s.tracks.push_back(check_track(car, t));

@@ -316,12 +316,12 @@ expect_error "--step: 60 % is out of range ((0, 50] %)" \
 
 # 13. check's smoothing study: a variant that cannot be solved is a note naming it, not a failure
 # (issue 10, item 7b). Fitted at half its smoothing strength (13.4 m for the given 15 m) the test
-# sprint's wiggle is too tight for its 200 km/h start; run takes the track as given.
+# sprint's wiggle is too tight for its 180 km/h start; run takes the track as given.
 "$bin" run --car cars/caldra-gt.yaml --track tests/data/sprint-wiggle.yaml > /dev/null 2>&1 && ok ||
   bad "run refuses the wiggle sprint"
 "$bin" check --car cars/caldra-gt.yaml --track tests/data/sprint-wiggle.yaml --json "$tmp/wig.json" \
   > "$tmp/wig.txt" 2> "$tmp/stderr" && ok || bad "check fails on the wiggle sprint: $(cat "$tmp/stderr")"
-grep -q "note: the centerline at half strength (13.4 m) cannot be solved with config low_drag: start_speed 200.0 km/h is more than the car can hold" "$tmp/wig.txt" &&
+grep -q "note: the centerline at half strength (13.4 m) cannot be solved with config low_drag: start_speed 180.0 km/h is more than the car can hold" "$tmp/wig.txt" &&
   grep -qE '^low_drag +- +[0-9.]+ +[0-9.]+ +-$' "$tmp/wig.txt" && grep -q '"half_s": null' "$tmp/wig.json" &&
   grep -q '"smoothing_sensitivity_notes"' "$tmp/wig.json" && ok || bad "check's note on the half variant: $(cat "$tmp/wig.txt")"
 # 14. Limits said, not hidden. A gearless car with no drag has no finite top speed: check names
@@ -345,8 +345,11 @@ want="below the speed table's first row (360.0 km/h) its values are held: 100.0 
 # 15. The racing line (issue 13). track line writes OUT.yaml and OUT.csv (the line with the widths
 #     measured from it), prints the length, the largest offset and, with --car, both laps; lapping
 #     OUT.yaml laps the line (within 0.1 %: the file's points are refitted); laid again over its
-#     own output the line barely moves (within 0.1 % of the lap: the widths are measured along
-#     the first centerline's normals, not the line's).
+#     own output the line barely moves (within 0.25 % of the lap: the widths are measured along
+#     the first centerline's normals, not the line's). Measured 0.14 % with the axle model, the
+#     default since issue 12 (0.06 % with the point mass, which the 0.1 % bound was set for): the
+#     axle model drives out of corners on the rear axle's grip, where a small change of the
+#     line's curvature costs more drive.
 "$bin" track line --track tracks/brannock-park.yaml --out "$tmp/line/bp-line.yaml" \
   --car cars/caldra-gt.yaml > "$tmp/line.txt" 2> "$tmp/stderr" &&
   [ -s "$tmp/line/bp-line.yaml" ] &&
@@ -363,7 +366,7 @@ awk -v a="$line_lap" -v b="$file_lap" 'BEGIN { exit !(a > 0 && (a - b) ^ 2 <= (0
 "$bin" track line --track "$tmp/line/bp-line.yaml" --out "$tmp/line/again.yaml" \
   --car cars/caldra-gt.yaml > "$tmp/again.txt" &&
   again_lap=$(sed -n 's/.*, line \([0-9.]*\) s.*/\1/p' "$tmp/again.txt") &&
-  awk -v a="$line_lap" -v b="$again_lap" 'BEGIN { exit !(a > 0 && (a - b) ^ 2 <= (0.001 * a) ^ 2) }' &&
+  awk -v a="$line_lap" -v b="$again_lap" 'BEGIN { exit !(a > 0 && (a - b) ^ 2 <= (0.0025 * a) ^ 2) }' &&
   ok || bad "track line on its own output: $line_lap s, then $(cat "$tmp/again.txt")"
 # min-time: both laps, the min-time one no slower.
 "$bin" track line --track tracks/brannock-park.yaml --out "$tmp/line/bp-mt.yaml" --method min-time \

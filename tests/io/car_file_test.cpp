@@ -93,3 +93,24 @@ TEST_CASE("a power curve's rule on torque is reported at its power, as written")
   }
   std::remove(path.c_str());
 }
+
+TEST_CASE("a car file without issue 12's keys: axle model, no lateral transfer, engine fixed") {
+  // README, "Physics and assumptions": the keys' defaults keep a file's meaning (but the model).
+  const Car car = load_car(test::source_path("tests/data/no-aero-car.yaml"));
+  CHECK(car.model == VehicleModel::axle);
+  CHECK_FALSE(car.roll.has_value());
+  CHECK(car.powertrain.aspiration == Aspiration::fixed);
+  CHECK_FALSE(car.powertrain.full_power_altitude_m.has_value());
+}
+
+TEST_CASE("the bundled cars declare their roll geometry and aspiration") {
+  const Car formula = load_car(test::source_path("cars/pellion-fr2.yaml"));
+  REQUIRE(formula.roll.has_value());
+  CHECK(formula.roll->track_front_m == doctest::Approx(1.60));
+  CHECK(formula.roll->roll_stiffness_front == doctest::Approx(0.55));
+  CHECK(formula.roll->roll_centre_rear_m == doctest::Approx(0.06));
+  CHECK(formula.powertrain.aspiration == Aspiration::natural);
+  const Car gt = load_car(test::source_path("cars/caldra-gt.yaml"));
+  CHECK(gt.powertrain.aspiration == Aspiration::turbo);
+  CHECK(gt.powertrain.full_power_altitude_m.value_or(0) == doctest::Approx(1500.0));
+}

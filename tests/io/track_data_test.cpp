@@ -95,7 +95,19 @@ TEST_CASE("the surveyed Brannock Park has its segment twin's corners and apex sp
   // smoothing auto, which chooses about the 20 m once tuned by hand (measured 20.2 m, 0.03 %).
   CHECK(survey.profile->smoothing.automatic);
   CHECK(near(survey.profile->smoothing_m, 20.0, 0.05));
-  CHECK(near(b.summary.lap_time_s, a.summary.lap_time_s, 1e-3));
+  // That table was measured with the point mass, before the axle model became the default
+  // (issue 12): its laps stay within 0.1 % (measured 0.03 %).
+  Car point = car;
+  point.model = VehicleModel::point_mass;
+  const LapRun pa = run_lap(test::configured(point), lay_out(twin, make_air(twin.air)));
+  const LapRun pb = run_lap(test::configured(point), lay_out(survey, make_air(survey.air)));
+  CHECK(near(pb.summary.lap_time_s, pa.summary.lap_time_s, 1e-3));
+  // The axle model (the default) drives out of corners on the rear axle's grip, where what
+  // curvature noise the fit leaves costs drive (the ellipse's Fx left is concave in F_y, so
+  // wiggles about the mean cost more than they give): the survey is slower, measured 0.36 %
+  // (80.889 s against 80.595 s; 0.48 % without roll geometry), held to 0.5 %.
+  CHECK(b.summary.lap_time_s > a.summary.lap_time_s);
+  CHECK(near(b.summary.lap_time_s, a.summary.lap_time_s, 5e-3));
 }
 
 TEST_CASE("a centerline with 0.5 m of noise laps within 3 % of the clean one (smoothing auto)") {
@@ -158,7 +170,9 @@ TEST_CASE("columns a data file has but lapwing does not read are named in a note
   const PathProfile q = import_curvature(g);
   REQUIRE(q.notes.size() == 1);
   CHECK(q.notes[0].find("column 'speed_kph' not used") != std::string::npos);
-  CHECK(q.has_bank);
+  // bank_deg is read, in rad, one per row (+ helping a left turn).
+  REQUIRE(q.bank_rad.size() == 20);
+  CHECK(q.bank_rad[5] == doctest::Approx(2 * units::deg));
   std::remove(g.c_str());
 
   // Only the columns read: no note.

@@ -139,6 +139,10 @@ TEST_CASE("a map whose ClA rises as the front drops: faster steady circle, match
       "      static_ride_height: {front: 0.05, rear: 0.1}\n"
       "      heave_stiffness: {front: 200 N/mm, rear: 200 N/mm}\n";
   Car car = car_with(configs, "ground");
+  // The closed form above is the point mass's (the whole car's tyres as one, mu (W + DF)): the
+  // axle model, the default since issue 12, and the file's roll geometry are cleared.
+  car.model = VehicleModel::point_mass;
+  car.roll.reset();
   car.tyres.load_sensitivity = 0.0;
   car.tyres.rolling_resistance = 0.0;
   car.drag_height_m = 0.0;

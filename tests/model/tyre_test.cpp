@@ -84,3 +84,34 @@ TEST_CASE("tyres name the first value out of its range (README, \"Car\", tyres)"
   two.mu_long = 9.0;
   CHECK(two.validate()->field == "mu_long");
 }
+
+TEST_CASE("an axle's capacity with lateral transfer: each tyre at its own load (RCVD 18)") {
+  // Linear load sensitivity: mu(Fz) Fz summed over Fz = L/2 -+ d is the equal-load capacity
+  // less 2 mu0 s d^2 / Fn (REFERENCES: the loss grows as d^2; the algebra is in tyre.hpp).
+  const Tyres spec{1.5, 1.7, 2000.0, 0.1, 2.0, 0.3, 0.0};
+  const TyreModel t(spec);
+  const double load = 5000.0, d = 900.0;
+  const TyreModel::Limits even = t.axle_limits(load);
+  const TyreModel::Limits moved = t.axle_limits(load, d);
+  const double loss = 2.0 * 0.1 * d * d / 2000.0;  // per unit mu0
+  CHECK(near(moved.fy_max, even.fy_max - 1.7 * loss, 1e-12));
+  CHECK(near(moved.fx_max, even.fx_max - 1.5 * loss, 1e-12));
+  // Without load sensitivity the transfer changes nothing (rounding only), lifted wheel or not.
+  const TyreModel flat(Tyres{1.5, 1.7, 2000.0, 0.0, 2.0, 0.3, 0.0});
+  for (const double dd : {0.0, 900.0, 2500.0, 4000.0})
+    CHECK(near(flat.axle_limits(load, dd).fy_max, 1.7 * load, 1e-14));
+  // Beyond L/2 the inner tyre has lifted: the outer carries L alone, mu(L) L.
+  CHECK(near(t.axle_limits(load, 3000.0).fy_max, 1.7 * load * (1 - 0.1 * (load - 2000) / 2000),
+             1e-12));
+}
+
+TEST_CASE("the least axle load for a lateral force inverts the capacity with transfer") {
+  const TyreModel t(Tyres{1.5, 1.7, 2000.0, 0.1, 2.0, 0.3, 0.0});
+  for (const double d : {0.0, 400.0, 1500.0}) {
+    for (const double fy : {2000.0, 6000.0, 9000.0}) {
+      const double load = t.axle_load_for_lateral(fy, d);
+      // The capacity at that load is the force asked for (root of a quadratic: 1e-10).
+      CHECK(near(t.axle_limits(load, d).fy_max, fy, 1e-10));
+    }
+  }
+}

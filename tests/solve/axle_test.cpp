@@ -46,6 +46,8 @@ TEST_CASE("the axle model of a balanced all-wheel-drive car is the point mass (1
   car.cg_height_m = 1e-6;
   car.powertrain.driven = DrivenAxle::all;
   car.brake_front_bias = 0.5;
+  car.roll.reset();                      // both tyres of an axle alike, as the point mass's four
+  car.model = VehicleModel::point_mass;  // the file's default is the axle model
   for (const char* track : {"tracks/brannock-park.yaml", "tracks/cairnholt.yaml"}) {
     const Circuit c = circuit(track);
     Car axle = car;
@@ -79,7 +81,11 @@ TEST_CASE(
 }
 
 TEST_CASE("more drag height lowers the front share at top speed by exactly drag x dh / L") {
-  Car low = formula(1), tall = formula(1);
+  Car low = formula(1);
+  // The point mass: its speeds do not depend on the drag height (the axle model's do, the
+  // default since issue 12), so the two laps share their states and only the loads differ.
+  low.model = VehicleModel::point_mass;
+  Car tall = low;
   tall.drag_height_m = low.drag_height_m + 0.2;
   const Circuit c = circuit("tracks/saltmere-flats.yaml");
   const LapRun a = run_lap(test::configured(low), c), b = run_lap(test::configured(tall), c);
@@ -192,4 +198,73 @@ TEST_CASE("axle model: front-, rear- and all-wheel drive keep both axles within 
       CHECK(*std::max_element(r.lap.front_usage.begin(), r.lap.front_usage.end()) <= 1.0 + tol);
       CHECK(*std::max_element(r.lap.rear_usage.begin(), r.lap.rear_usage.end()) <= 1.0 + tol);
     }
+}
+
+TEST_CASE("a steady circle with lateral load transfer matches its derivation step by step") {
+  // Milliken & Milliken, RCVD ch. 18 (REFERENCES, load transfer): no aero, no rolling
+  // resistance, so at the steady limit each axle holds only its lateral force.
+  const double m = 700.0, mu = 1.5, fn = 1500.0, s = 0.12, radius = 40.0;
+  Car car = test::plain_car(m, mu);
+  car.model = VehicleModel::axle;
+  car.tyres.nominal_load_n = fn;
+  car.tyres.load_sensitivity = s;
+  car.cg_height_m = 0.35;
+  car.front_weight = 0.45;
+  car.roll = RollGeometry{1.60, 1.50, 0.55, 0.03, 0.06};
+  // 1. Static axle loads: L_f = f m g, L_r = (1 - f) m g.
+  const double w = m * units::g0, f = 0.45;
+  const double load[2] = {f * w, (1 - f) * w};
+  // 2. Transfer per newton of lateral force: h_ra = h - (f z_f + (1-f) z_r);
+  //    c_f = (h_ra k_f + f z_f) / t_f, c_r = (h_ra (1 - k_f) + (1 - f) z_r) / t_r.
+  const double h_ra = 0.35 - (f * 0.03 + (1 - f) * 0.06);
+  const double c[2] = {(h_ra * 0.55 + f * 0.03) / 1.60, (h_ra * 0.45 + (1 - f) * 0.06) / 1.50};
+  // 3. Axle i carries share_i m a (f front, 1 - f rear) and moves d_i = c_i m a to its outer
+  //    tyre; each tyre's mu(Fz) = mu (1 - s (Fz - Fn) / Fn), so the axle holds
+  //    mu [L (1 + s) - s (L^2 / 2 + 2 d^2) / Fn].
+  // 4. share m a = that capacity is a quadratic in a: A a^2 + B a - C = 0 with
+  //    A = 2 mu s c^2 m^2 / Fn, B = share m, C = mu (L (1 + s) - s L^2 / (2 Fn)).
+  const double share[2] = {f, 1 - f};
+  double a_max = 1e9;
+  for (int i = 0; i < 2; ++i) {
+    const double A = 2 * mu * s * c[i] * c[i] * m * m / fn, B = share[i] * m;
+    const double C = mu * (load[i] * (1 + s) - s * load[i] * load[i] / (2 * fn));
+    const double a = (-B + std::sqrt(B * B + 4 * A * C)) / (2 * A);
+    // Both tyres still on the ground: d <= L / 2.
+    REQUIRE(c[i] * m * a <= 0.5 * load[i]);
+    a_max = std::min(a_max, a);
+  }
+  // 5. The circle's speed: v^2 = R a.
+  const double v = std::sqrt(radius * a_max);
+  const Circuit circle = lay_out(test::circle_track(radius, 0.5), make_air(AirSpec{}));
+  const LapRun run = run_lap(test::configured(car), circle);
+  const Lap& lap = run.lap;
+  const auto [lo, hi] = std::minmax_element(lap.speed_mps.begin(), lap.speed_mps.end());
+  // The solver's steady root (2^-36) on a polygon of 0.5 m chords: 1e-6.
+  CHECK(near(*lo, v, 1e-6));
+  CHECK(near(*hi, v, 1e-6));
+  // The transfer costs speed: without it the same car is faster.
+  Car even = car;
+  even.roll.reset();
+  CHECK(run_lap(test::configured(even), circle).lap.speed_mps[0] > v * 1.01);
+}
+
+TEST_CASE("with no load sensitivity lateral transfer changes nothing: the axle model as before") {
+  // Each tyre's force is mu Fz: the axle holds mu L however L is shared (tyre.hpp), so the
+  // lap is the axle model's without roll geometry (rounding of the split: 1e-9).
+  Car car = formula(1);
+  car.model = VehicleModel::axle;
+  car.tyres.load_sensitivity = 0.0;
+  car.roll.reset();  // the file's roll geometry goes to `rolling` below
+  Car rolling = car;
+  rolling.roll = RollGeometry{1.6, 1.55, 0.55, 0.03, 0.06};
+  for (const char* track : {"tracks/brannock-park.yaml", "tracks/cairnholt.yaml"}) {
+    const Circuit c = circuit(track);
+    CHECK(near(run_lap(test::configured(rolling), c).summary.lap_time_s,
+               run_lap(test::configured(car), c).summary.lap_time_s, 1e-9));
+  }
+  // With load sensitivity it does: the loaded outer tyre gains less than the inner loses.
+  car.tyres.load_sensitivity = rolling.tyres.load_sensitivity = 0.08;
+  const Circuit c = circuit("tracks/brannock-park.yaml");
+  CHECK(run_lap(test::configured(rolling), c).summary.lap_time_s >
+        run_lap(test::configured(car), c).summary.lap_time_s + 0.05);
 }

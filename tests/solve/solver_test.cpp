@@ -159,7 +159,10 @@ TEST_CASE("forward and backward sweeps are mirror images when drive and braking 
 
 TEST_CASE(
     "the lap never goes faster than either sweep or the steady limit, and holds the ellipse") {
-  const Car car = load_car(test::source_path("cars/pellion-fr2.yaml")).configured(1).car();
+  // The whole car's ellipse is the point mass's (the axle model, the default since issue 12,
+  // saturates one axle first and leaves the whole car's ellipse short of 1: measured 0.952).
+  Car car = load_car(test::source_path("cars/pellion-fr2.yaml")).configured(1).car();
+  car.model = VehicleModel::point_mass;
   const Track track = load_track(test::source_path("tracks/brannock-park.yaml"));
   const Envelope env(test::configured(car), make_air(track.air));
   const Mesh mesh = build_mesh(track, 0.5);

@@ -31,7 +31,8 @@ struct RideHeightMap {
 };
 
 /// Changes to the coefficients where movable aero is trimmed for the straights: on points with
-/// |curvature| below `below_curvature_1pm` while the car is under drive (solver.hpp, under_drive).
+/// |curvature| below `below_curvature_1pm` while the car is under drive (solver.hpp, under_drive),
+/// and inside a trim zone where the track has them (Track::trim_zones).
 struct StraightTrim {
   double dcda_m2 = 0.0, dcla_m2 = 0.0, dbalance = 0.0;
   double below_curvature_1pm = 0.0;

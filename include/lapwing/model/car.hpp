@@ -8,6 +8,7 @@
 #include <utility>
 #include <vector>
 
+#include "lapwing/base/range.hpp"
 #include "lapwing/base/violation.hpp"
 #include "lapwing/model/aero.hpp"
 #include "lapwing/model/powertrain.hpp"
@@ -16,9 +17,27 @@
 namespace lapwing {
 
 /// Where the limits come from: the whole car's tyres as one (point mass), or the axle that
-/// saturates first, with drive limited to what the driven axle's load can transmit.
+/// saturates first, with drive limited to what the driven axle's load can transmit (the
+/// default: README, "Physics and assumptions").
 enum class VehicleModel { point_mass, axle };
 
+/// What sets the lateral load transfer of each axle (Milliken & Milliken, Race Car Vehicle
+/// Dynamics, ch. 18): the track widths, the front axle's share of the total roll stiffness and
+/// the roll-centre heights above the ground (0: roll axis on the ground). All mass is taken as
+/// sprung. A car without it has no lateral load transfer (both tyres of an axle equally
+/// loaded, as before these keys).
+struct RollGeometry {
+  double track_front_m = 0.0, track_rear_m = 0.0;
+  double roll_stiffness_front = 0.5;  // K_f / (K_f + K_r), 0..1
+  double roll_centre_front_m = 0.0, roll_centre_rear_m = 0.0;
+
+  static constexpr Range track_range{0.3, 5.0};         // m
+  static constexpr Range roll_centre_range{-0.5, 2.0};  // m (below the ground: a few cars)
+  /// Ranges (key paths "track_width.front", "track_width.rear", "roll_stiffness_front",
+  /// "roll_centre_height.front", ".rear"), and each roll centre below `cg_height_m` (the roll
+  /// axis under the centre of gravity, RCVD ch. 18's layout).
+  std::optional<Violation> validate(double cg_height_m) const;
+};
 class ConfiguredCar;
 
 /// The front axle's share of the load (weight, downforce by the aero balance, the drag moment and
@@ -50,7 +69,8 @@ struct Car {
   Powertrain powertrain;
   double brake_front_bias;
   double drag_height_m;
-  VehicleModel model = VehicleModel::point_mass;
+  VehicleModel model = VehicleModel::axle;
+  std::optional<RollGeometry> roll;  // none: no lateral load transfer
   std::vector<AeroConfig> configs;
   std::optional<BalanceWindow> balance_window;  // none: no window is checked
 

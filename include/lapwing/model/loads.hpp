@@ -1,8 +1,11 @@
-// The loads on the road, the one home of each formula: the normal load, the resistance along
-// the path, and the axle loads with the drag moment (the front share of the aero load follows
-// from them). Inline: the solver's hot loop calls them at every stage.
+// The loads on the road, the one home of each formula: the road under the car (slope, bank,
+// wind), the normal load and the lateral demand on a banked road, the resistance along the path,
+// the airspeed, the axle loads with the drag moment (the front share of the aero load follows
+// from them) and the lateral load transfer per axle. Inline: the solver's hot loop calls them at
+// every stage.
 #pragma once
 
+#include <cmath>
 #include <optional>
 
 #include "lapwing/base/units.hpp"
@@ -10,10 +13,37 @@
 
 namespace lapwing {
 
-/// Vertical load on the tyres (N): N = W cos(theta) + DF, theta the slope angle.
-[[gnu::always_inline]] inline double normal_load_n(double weight_n, double cos_slope,
+/// The road at a point as the car meets it: the slope angle theta (cos, sin; + uphill), the
+/// bank angle b taken in the direction of the turn (cos, sin; + where the bank helps the turn,
+/// raising its outside), and the wind's head component (m/s, + against the car).
+struct Road {
+  double cos_slope = 1.0, sin_slope = 0.0;
+  double cos_bank = 1.0, sin_bank = 0.0;
+  double head_wind_mps = 0.0;
+};
+
+/// What gravity and the turn ask of the road at u = v^2 on a point of curvature |k|, on a road
+/// of slope theta and bank b (REFERENCES, banked road; W cos(theta) the weight's part normal to
+/// the slope, as for the grade):
+///   normal_share c = N_body / W = cos(theta) cos(b) + (v^2 |k| / g) sin(b),
+///   F_y = m v^2 |k| cos(b) - m g cos(theta) sin(b)   (N, + towards the turn's centre),
+/// N_body the load normal to the road without downforce (normal_load_n adds it). Level and flat:
+/// c = 1, F_y = m v^2 |k|; flat on a slope: c = cos(theta).
+struct BodyLoads {
+  double normal_share, lateral_n;
+};
+[[gnu::always_inline]] inline BodyLoads body_loads(double mass_kg, double u, double abs_curvature,
+                                                   const Road& r) {
+  const double centripetal = u * abs_curvature;  // m/s^2
+  return {r.cos_slope * r.cos_bank + centripetal * r.sin_bank * (1.0 / units::g0),
+          mass_kg * (centripetal * r.cos_bank - units::g0 * r.cos_slope * r.sin_bank)};
+}
+
+/// Load normal to the road on the tyres (N): N = W c + DF, c the share of the weight the road
+/// carries normal to itself (body_loads; cos(theta) on a flat road, theta the slope angle).
+[[gnu::always_inline]] inline double normal_load_n(double weight_n, double normal_share,
                                                    double downforce_n) {
-  return weight_n * cos_slope + downforce_n;
+  return weight_n * normal_share + downforce_n;
 }
 
 /// Resistance to motion along the path (N): drag + rolling resistance + grade,
@@ -24,12 +54,27 @@ namespace lapwing {
   return drag_n + rolling_resistance * normal_load + weight_n * sin_slope;
 }
 
-/// The forces that load the axles: the weight W = m g on a slope, the downforce DF with its
-/// front share `balance`, the drag D (at the car's drag height) and the longitudinal
-/// acceleration a_x (> 0 accelerating). Zero weight and acceleration leave the aero forces alone.
+/// The dynamic pressure's factor of the aero forces at ground speed v = sqrt(u) in a head wind
+/// w (REFERENCES, wind: the airspeed along the path is v + w; crosswind ignored): downforce
+/// scales with (v + w)^2, drag with (v + w) |v + w| (a tail wind faster than the car pushes).
+/// Still air: both u, no root taken.
+struct AirspeedSquared {
+  double drag, lift;
+};
+[[gnu::always_inline]] inline AirspeedSquared airspeed_squared(double u, double head_wind_mps) {
+  if (head_wind_mps == 0.0) return {u, u};
+  const double va = std::sqrt(u) + head_wind_mps;
+  return {va * std::abs(va), va * va};
+}
+
+/// The forces that load the axles: the weight W = m g with the share c of it the road carries
+/// normal to itself (body_loads; cos(theta) on a flat road) and the slope's sin(theta), the
+/// downforce DF with its front share `balance`, the drag D (at the car's drag height) and the
+/// longitudinal acceleration a_x (> 0 accelerating). Zero weight and acceleration leave the aero
+/// forces alone.
 struct AxleForces {
   double weight_n = 0.0, mass_kg = 0.0;
-  double cos_slope = 1.0, sin_slope = 0.0;
+  double normal_share = 1.0, sin_slope = 0.0;
   double downforce_n = 0.0, balance = 0.0, drag_n = 0.0;
   double ax_mps2 = 0.0;
 };
@@ -44,14 +89,16 @@ inline AxleGeometry axle_geometry(const Car& car) {
 }
 
 /// Axle loads (N), moments about the rear contact patch (REFERENCES, load transfer):
-///   front = W cos(th) f + DF bal - (D z_D + m a_x h + W sin(th) h) / L,  rear = N - front,
-/// N the normal load. The drag moment D z_D / L moves load from the front axle to the rear.
+///   front = W c f + DF bal - (D z_D + m a_x h + W sin(th) h) / L,  rear = N - front,
+/// N the normal load (W c + DF, normal_load_n). c = cos(th) on a flat road; on a banked one the
+/// turn's part of N_body acts at the centre of gravity too, so it shares as the weight does.
+/// The drag moment D z_D / L moves load from the front axle to the rear.
 struct AxleLoads {
   double front_n, rear_n;
 };
 [[gnu::always_inline]] inline AxleLoads axle_loads(const AxleGeometry& g, const AxleForces& f) {
-  const double total = normal_load_n(f.weight_n, f.cos_slope, f.downforce_n);
-  const double front = f.weight_n * f.cos_slope * g.front_weight + f.downforce_n * f.balance -
+  const double total = normal_load_n(f.weight_n, f.normal_share, f.downforce_n);
+  const double front = f.weight_n * f.normal_share * g.front_weight + f.downforce_n * f.balance -
                        (f.drag_n * g.drag_height_m + f.mass_kg * f.ax_mps2 * g.cg_height_m +
                         f.weight_n * f.sin_slope * g.cg_height_m) /
                            g.wheelbase_m;
@@ -60,10 +107,10 @@ struct AxleLoads {
 /// The same for a car (W = m g0).
 [[gnu::always_inline]] inline AxleLoads axle_loads(const Car& car, double drag_n,
                                                    double downforce_n, double balance,
-                                                   double cos_slope, double sin_slope,
+                                                   double normal_share, double sin_slope,
                                                    double ax_mps2) {
-  return axle_loads(axle_geometry(car), {car.mass_kg * units::g0, car.mass_kg, cos_slope, sin_slope,
-                                         downforce_n, balance, drag_n, ax_mps2});
+  return axle_loads(axle_geometry(car), {car.mass_kg * units::g0, car.mass_kg, normal_share,
+                                         sin_slope, downforce_n, balance, drag_n, ax_mps2});
 }
 
 /// The aero forces' part of the axle loads, each axle's by moments about the other's contact
@@ -87,6 +134,28 @@ inline std::optional<double> aero_balance_with_drag_moment(double cla_m2, double
                                                            double wheelbase_m) {
   if (!(cla_m2 > 0.0)) return std::nullopt;
   return aero_axle_loads(cla_m2, balance, cda_m2, drag_height_m, wheelbase_m).front_n / cla_m2;
+}
+
+/// Lateral load transfer per newton of lateral force, per axle (Milliken & Milliken, Race Car
+/// Vehicle Dynamics, ch. 18; all mass sprung):
+///   dFz_f = F_y / t_f (h_ra k_f + f z_f),  dFz_r = F_y / t_r (h_ra (1 - k_f) + (1 - f) z_r),
+/// with h_ra = h - (f z_f + (1 - f) z_r) the centre of gravity's height above the roll axis,
+/// k_f the front's share of the roll stiffness, f the static front weight share (the front
+/// axle's share of F_y, m a_y l_r / L), z the roll-centre heights and t the track widths. Both
+/// roll centres at 0: dFz_f = m a_y h k_f / t_f. The moments add up:
+/// dFz_f t_f + dFz_r t_r = F_y h. A car without roll geometry has none: {0, 0}.
+struct TransferPerNewton {
+  double front = 0.0, rear = 0.0;
+};
+inline TransferPerNewton lateral_transfer_per_n(const Car& car) {
+  if (!car.roll) return {};
+  const RollGeometry& g = *car.roll;
+  const double f = car.front_weight;
+  const double h_ra =
+      car.cg_height_m - (f * g.roll_centre_front_m + (1.0 - f) * g.roll_centre_rear_m);
+  return {
+      (h_ra * g.roll_stiffness_front + f * g.roll_centre_front_m) / g.track_front_m,
+      (h_ra * (1.0 - g.roll_stiffness_front) + (1.0 - f) * g.roll_centre_rear_m) / g.track_rear_m};
 }
 
 }  // namespace lapwing

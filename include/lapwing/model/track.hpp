@@ -8,6 +8,7 @@
 #include <vector>
 
 #include "lapwing/base/range.hpp"
+#include "lapwing/base/units.hpp"
 #include "lapwing/base/violation.hpp"
 #include "lapwing/model/air.hpp"
 
@@ -24,6 +25,10 @@ struct Segment {
   double grade;                                  // rise over run, positive uphill
   std::optional<double> width_m = std::nullopt;  // edge to edge, the centerline in the middle;
                                                  // none: the track's
+  // Bank angle (rad), positive where the outside of the segment's turn is raised (it helps the
+  // turn), negative off-camber; a straight's positive bank raises its right side (the sign of a
+  // left turn, as bank_deg in a CSV).
+  double bank_rad = 0.0;
 
   // The ranges of a segment (README, "Track"): a piece up to 100 km, a radius up to
   // 100 km, an arc of up to two turns, a grade of +-50 % (steeper is no road), a width up to
@@ -33,6 +38,11 @@ struct Segment {
   static constexpr Range angle_range{0.0, 4 * units::pi, true, false};  // rad
   static constexpr Range grade_range{-0.5, 0.5};
   static constexpr Range width_range{0.0, 100.0, true, false};  // m (also the track's `width`)
+  // Banking up to 45 deg each way: the steepest oval banks are about 33 deg (common practice).
+  static constexpr Range bank_range{-units::pi / 4, units::pi / 4};  // rad
+  /// The bank in the curvature's sign convention (positive helps a left turn): the segment's
+  /// bank times the sign of its turn (a straight's as given).
+  double signed_bank_rad() const;
   /// The first value that breaks a rule, named as in a track file's segment ("arc.radius",
   /// "clothoid.grade"): an arc's radius and angle are 1 / |curvature| and length x |curvature|.
   std::optional<Violation> validate() const;
@@ -47,6 +57,7 @@ struct CenterlinePoints {
   std::string source;  // where the points come from (a file), for messages
   std::vector<double> x_m, y_m, z_m;
   std::vector<double> width_left_m{}, width_right_m{};
+  std::vector<double> bank_rad{};  // per point, + helping a left turn (empty: flat)
 };
 
 /// How a fit's smoothing length was set: given, or chosen from the data by generalised
@@ -82,6 +93,9 @@ struct PathProfile {
   Source source = Source::centerline;
   std::string data_file;  // the CSV, as found from the track file's folder
   std::vector<double> s_m, curvature_1pm, grade, x_m, y_m, elevation_m;
+  // Bank angle per sample (rad), positive helping a left turn (raising the right side); empty:
+  // flat (no bank_deg column).
+  std::vector<double> bank_rad;
   double smoothing_m = 0.0, elevation_smoothing_m = 0.0;  // centerline fits
   SmoothingInfo smoothing;
   double sample_spacing_m = 0.0;  // a centerline fit's resampling step
@@ -96,7 +110,6 @@ struct PathProfile {
   int line_iterations = 0;
   double fit_residual_rms_m = 0.0;       // raw points against the fitted path
   double curvature_noise_rms_1pm = 0.0;  // raw curvature against the fitted curvature
-  bool has_bank = false;                 // a bank_deg column was read (not modelled)
   bool geodetic = false;                 // lat/lon points projected to a tangent plane
   // A closed centerline's data as given, before the fit bridges its end to its start: the
   // distance from the last point to the first, the median distance between consecutive points
@@ -115,6 +128,28 @@ struct PathProfile {
   std::optional<Violation> validate() const;
 };
 
+/// The wind over the track: its speed and the bearing it blows from, in the track's x/y frame
+/// (0 = from +y, clockwise: 90 deg = from +x). Only the head component along the path counts.
+struct Wind {
+  double speed_mps = 0.0;
+  double from_rad = 0.0;
+
+  static constexpr Range speed_range{0.0, 50.0};                     // m/s: a storm
+  static constexpr Range from_range{-2 * units::pi, 2 * units::pi};  // rad
+  /// The head component (m/s, + against the car) for a car heading `heading_rad` (from +x,
+  /// counter-clockwise, as Mesh::heading_rad): w_head = speed sin(from + heading), the wind's
+  /// velocity -speed (sin from, cos from) dotted with minus the direction (cos h, sin h).
+  double head_mps(double heading_rad) const;
+  /// Ranges (key paths "wind.speed", "wind.from").
+  std::optional<Violation> validate() const;
+};
+
+/// A stretch where the straight-line trim may open (series rules name such zones), from
+/// `start_m` to `end_m` along the described path.
+struct TrimZone {
+  double start_m = 0.0, end_m = 0.0;
+};
+
 struct Track {
   std::string name;
   std::string file;
@@ -131,6 +166,8 @@ struct Track {
   // above: when present it is what every command laps (build_mesh lays it out instead).
   std::optional<LineSpec> line;
   std::optional<PathProfile> line_path;
+  std::optional<Wind> wind;          // none: still air
+  std::vector<TrimZone> trim_zones;  // empty: the trim opens wherever its rule allows
 
   /// The length of what is lapped: the line's when there is one.
   double length_m() const;

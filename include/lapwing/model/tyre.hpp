@@ -54,6 +54,20 @@ class TyreModel {
     const double f = mu_factor(0.5 * axle_load_n) * axle_load_n;
     return {mu_long0_ * f, mu_lat0_ * f};
   }
+  /// One axle's peak forces when `transfer_n` (>= 0) of its load L has moved from the inner
+  /// tyre to the outer: mu0 (mu(Fz_in) Fz_in + mu(Fz_out) Fz_out) / mu0 per direction, with
+  /// Fz = L/2 -+ transfer (Milliken & Milliken, RCVD ch. 18: each tyre at its own load). With a
+  /// linear load sensitivity s that is the equal-load capacity less 2 mu0 s transfer^2 / Fn
+  /// (REFERENCES: the loss grows as the square of the transfer); without load sensitivity it is
+  /// the equal-load capacity whatever the transfer. A transfer beyond L/2 lifts the inner tyre:
+  /// the outer carries all of L.
+  Limits axle_limits(double axle_load_n, double transfer_n) const {
+    if (transfer_n <= 0.0) return axle_limits(axle_load_n);
+    const double inner = std::max(0.0, 0.5 * axle_load_n - transfer_n);
+    const double outer = axle_load_n - inner;
+    const double f = mu_factor(inner) * inner + mu_factor(outer) * outer;
+    return {mu_long0_ * f, mu_lat0_ * f};
+  }
   /// The least axle load (N, two tyres sharing it) at which the axle's lateral peak reaches
   /// |fy_n|: the smaller root of mu_lat0 L (1 - s (L/2 - Fn) / Fn) = |fy|, in the form
   /// L = 2 c / (b + sqrt(b^2 - 4 a c)) that holds without load sensitivity too (a = s / (2 Fn),
@@ -65,6 +79,24 @@ class TyreModel {
     const double disc = b * b - 4.0 * a * c;
     if (disc < 0.0) return c / floor_fraction;
     return 2.0 * c / (b + std::sqrt(disc));
+  }
+  /// The same with `transfer_n` moved from the inner tyre to the outer (axle_limits above):
+  /// mu_lat0 (L (1 + s) - s (L^2 / 2 + 2 d^2) / Fn) = |fy| gives a = s / (2 Fn), b = 1 + s,
+  /// c = |fy| / mu_lat0 + 2 s d^2 / Fn. Where that load is below 2 d the inner tyre has lifted
+  /// and the outer alone holds fy: the least load of one tyre, mu_lat0 L (1 - s (L - Fn) / Fn)
+  /// = |fy| (a = s / Fn).
+  double axle_load_for_lateral(double fy_n, double transfer_n) const {
+    if (transfer_n <= 0.0) return axle_load_for_lateral(fy_n);
+    const double s = sensitivity_per_n_;
+    const double c0 = std::abs(fy_n) / mu_lat0_;
+    const double b = 1.0 + s * nominal_n_;
+    auto root = [&](double a, double c) {
+      const double disc = b * b - 4.0 * a * c;
+      return disc < 0.0 ? c0 / floor_fraction : 2.0 * c / (b + std::sqrt(disc));
+    };
+    const double both = root(0.5 * s, c0 + 2.0 * s * transfer_n * transfer_n);
+    if (both >= 2.0 * transfer_n) return both;
+    return root(s, c0);
   }
 
   Limits limits(double load_n) const {

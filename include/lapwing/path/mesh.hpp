@@ -2,6 +2,7 @@
 #pragma once
 
 #include <cstddef>
+#include <cstdint>
 #include <vector>
 
 #include "lapwing/model/track.hpp"
@@ -17,12 +18,28 @@ struct Mesh {
   double step_m = 0.0;
   std::vector<double> s_m, x_m, y_m, heading_rad, curvature_1pm, elevation_m, grade;
   std::vector<double> cos_slope, sin_slope;  // of the slope angle atan(grade), for the solver
+  // Bank angle (rad), positive where it helps a left turn (raises the right side), with its
+  // cos and sin for the solver; 0 where the track gives none.
+  std::vector<double> bank_rad, cos_bank, sin_bank;
+  // The wind's component against the direction of travel (m/s, + head wind); 0 in still air.
+  std::vector<double> head_wind_mps;
+  // 1 where the straight-line trim may open: everywhere on a track without trim zones, inside
+  // its zones on one with them.
+  std::vector<std::uint8_t> trim_zone;
   // Distance to each edge, left and right in the direction of travel (empty without widths).
   std::vector<double> width_left_m, width_right_m;
 
   std::size_t size() const { return s_m.size(); }
   std::size_t intervals() const { return s_m.size() - 1; }
 };
+
+/// The longest run of points whose |curvature| stays below `max_curvature_1pm` (default 1/800 m,
+/// where the corner finder ends a corner): first and last index; {0, 0} when there is none.
+/// (A closed lap's run does not wrap through the start.)
+struct PointRun {
+  std::size_t first = 0, last = 0;
+};
+PointRun longest_straight(const Mesh& mesh, double max_curvature_1pm = 1.0 / 800.0);
 
 /// How far the end of the path is from its start (what a closed track must bring to zero).
 struct Closure {

@@ -16,5 +16,7 @@ std::string label(CornerLimit limit);
 std::string label(Axle axle);
 /// "corner", "straight".
 std::string label(PieceKind kind);
+/// The aspiration as the car file spells it: fixed, natural, turbo.
+std::string label(Aspiration aspiration);
 
 }  // namespace lapwing

@@ -16,14 +16,16 @@ namespace lapwing {
 
 /// What each axle carries and how much of its ellipse that uses, for a total longitudinal tyre
 /// force `fx_n` (> 0 driving: on the driven axle(s), shared by load for all-wheel drive; < 0
-/// braking: by brakes.front_bias) and lateral acceleration `ay` (front m a_y l_r / L = m a_y f,
-/// rear m a_y (1 - f)). Usage (Fx/Fx_max)^n + (Fy/Fy_max)^n per axle, mu at the per-tyre load.
+/// braking: by brakes.front_bias) and lateral force `fy_n` in the road's plane (m a_y on a flat
+/// road; front F_y l_r / L = F_y f, rear F_y (1 - f)). Usage (Fx/Fx_max)^n + (Fy/Fy_max)^n per
+/// axle, each tyre's mu at its own load: the axle's load shared equally, less and plus the
+/// lateral load transfer (model/loads.hpp) on the inner and outer tyre.
 struct AxleUsage {
   AxleLoads loads;
   double front_fx_n, rear_fx_n, front_fy_n, rear_fy_n;
   double front_usage, rear_usage;
 };
-AxleUsage axle_usage(const Envelope& env, const AxleLoads& loads, double fx_n, double ay_mps2);
+AxleUsage axle_usage(const Envelope& env, const AxleLoads& loads, double fx_n, double fy_n);
 
 /// The axle model's accelerations (m/s^2) at u = v^2 on a point of curvature |k|, both positive
 /// along the sweep's direction of travel:
@@ -36,14 +38,12 @@ AxleUsage axle_usage(const Envelope& env, const AxleLoads& loads, double fx_n, d
 ///    saturates neither axle at the loads the deceleration itself sets.
 /// The rotating parts' inertia (m_eff = m (1 + inertia_factor)) counts only where the engine
 /// limits; at the tyres' limit the road force acts on m (Gillespie, ch. 2-3).
-double axle_drive_accel(const Envelope& env, double u, double abs_curvature, double cos_slope,
-                        double sin_slope, double drive_n, bool trimmed);
-double axle_brake_accel(const Envelope& env, double u, double abs_curvature, double cos_slope,
-                        double sin_slope);
+double axle_drive_accel(const Envelope& env, double u, double abs_curvature, const Road& road,
+                        double drive_n, bool trimmed);
+double axle_brake_accel(const Envelope& env, double u, double abs_curvature, const Road& road);
 
 /// Steady state at speed v (a_x = 0): the larger axle usage when the tyres carry the lateral
 /// demand and the longitudinal force that holds v (minus 1: <= 0 is feasible).
-double axle_steady_excess(const Envelope& env, double v, double abs_curvature, double cos_slope,
-                          double sin_slope);
+double axle_steady_excess(const Envelope& env, double v, double abs_curvature, const Road& road);
 
 }  // namespace lapwing

@@ -81,6 +81,11 @@ class Envelope {
   const AeroConfig& aero() const { return car_.aero(); }
   const ConfiguredCar& configured_car() const { return car_; }
   const std::string& config_name() const { return car_.aero().name; }
+  /// The share of the rated engine curve the engine gives in this air (engine_power_ratio,
+  /// model/powertrain.hpp): every drive force in the tables carries it.
+  double power_ratio() const { return power_ratio_; }
+  /// Lateral load transfer per newton of lateral force, front and rear (model/loads.hpp).
+  const TransferPerNewton& transfer() const { return transfer_; }
 
   /// The speed-dependent quantities at one speed, read from the table with one index
   /// computation (linear between rows; rows at the table's ends outside it).
@@ -141,6 +146,31 @@ class Envelope {
   double weight_n() const { return weight_; }
   double rolling_resistance() const { return crr_; }
 
+  /// The forces on the road at u = v^2 on a point of curvature |k| (model/loads.hpp): the
+  /// aero forces at the airspeed (airspeed_squared), the share of the weight the road carries
+  /// normal to itself and the lateral force the tyres must supply (body_loads, + towards the
+  /// turn's centre), the normal load (normal_load_n), the resistance along the path
+  /// (resistance_n), and the drive in the best gear. One table read.
+  struct RoadForces {
+    double drag_n, downforce_n, balance, normal_share, normal_n, lateral_n, resistance_n, drive_n;
+  };
+  [[gnu::always_inline]] RoadForces road_forces(const Rows& rows, double u, double abs_curvature,
+                                                const Road& road) const {
+    const Sample s = rows.at(u);
+    const AirspeedSquared q = airspeed_squared(u, road.head_wind_mps);
+    const double drag = s.drag_coef * q.drag, down = s.lift_coef * q.lift;
+    const BodyLoads b = body_loads(mass_, u, abs_curvature, road);
+    const double normal = lapwing::normal_load_n(weight_, b.normal_share, down);
+    return {drag,
+            down,
+            s.balance,
+            b.normal_share,
+            normal,
+            b.lateral_n,
+            lapwing::resistance_n(drag, crr_, normal, weight_, road.sin_slope),
+            s.drive_n};
+  }
+
   /// Vertical load on the tyres at speed v (lapwing::normal_load_n, model/loads.hpp).
   double normal_load_n(double v, double cos_grade, bool trimmed = false) const {
     return lapwing::normal_load_n(weight_, cos_grade, sample(v, trimmed).lift_coef * v * v);
@@ -160,6 +190,8 @@ class Envelope {
 
   ConfiguredCar car_;
   TyreModel tyres_;
+  double power_ratio_ = 1.0;
+  TransferPerNewton transfer_;
   double mass_, mass_eff_, weight_, crr_, rho_;
   double v_max_, v_top_, du_, inv_du_;
   TopSpeedLimit top_limit_ = TopSpeedLimit::drag, table_top_ = TopSpeedLimit::drag;

@@ -19,6 +19,7 @@
 #include "lapwing/model/aero.hpp"
 #include "lapwing/model/air.hpp"
 #include "lapwing/model/car.hpp"
+#include "lapwing/model/loads.hpp"
 #include "lapwing/path/mesh.hpp"
 #include "lapwing/solve/envelope.hpp"
 #include "lapwing/study/circuit.hpp"
@@ -106,10 +107,23 @@ struct TrackCheck {
   /// The track's verdict: the index in `qualities` of the worst config's (highest verdict, then
   /// largest spread; the first of equals); none when no config lapped.
   std::optional<std::size_t> shown;
+  // The engine in the track's air: the share of its rated curve it gives (engine_power_ratio,
+  // SAE J1349 for natural and turbo engines; 1 for fixed).
+  double engine_power_ratio = 1.0;
+  // The wind's head component (m/s, negative: tail) averaged over the longest straight, from
+  // straight_start_m to straight_end_m (0 without wind).
+  double head_wind_longest_straight_mps = 0.0;
+  double straight_start_m = 0.0, straight_end_m = 0.0;
+  // The share of the lap's steps inside trim zones (1 without zones: the trim may open anywhere).
+  double trim_zone_share = 1.0;
 };
 
 struct CheckSummary {
   Air reference_air;                 // the air of the configs' figures
+  // Lateral load transfer at 1 g to each axle's outer tyre (N; model/loads.hpp,
+  // lateral_transfer_per_n); none without roll geometry (the car file's default).
+  std::optional<TransferPerNewton> transfer_at_1g_n;
+  double rated_power_w = 0.0;  // a constant power, or the curve's peak of torque x speed
   std::vector<ConfigCheck> configs;  // every config of the car, in the car's order
   std::vector<TrackCheck> tracks;    // one per circuit, in the given order
 };

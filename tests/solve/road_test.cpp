@@ -1,0 +1,148 @@
+// The road under the car (issue 12): banking, wind, the engine in the track's air and trim
+// zones, each against a closed form or a symmetry that does not use the solver's code.
+#include <doctest/doctest.h>
+
+#include <algorithm>
+#include <cmath>
+
+#include "lapwing/base/units.hpp"
+#include "lapwing/model/powertrain.hpp"
+#include "lapwing/solve/solver.hpp"
+#include "lapwing/study/circuit.hpp"
+#include "test_support.hpp"
+
+using namespace lapwing;
+using lapwing::test::near;
+
+namespace {
+const Air sea_level = make_air(AirSpec{});
+
+// The slowest and fastest speed of a lap.
+std::pair<double, double> speed_range(const Lap& lap) {
+  const auto [lo, hi] = std::minmax_element(lap.speed_mps.begin(), lap.speed_mps.end());
+  return {*lo, *hi};
+}
+
+// Root of f on [lo, hi] by bisection (f(lo) < 0 < f(hi)): the test's own solver for a closed
+// form's equation, to 1e-12 relative.
+template <typename F>
+double bisect(F f, double lo, double hi) {
+  for (int k = 0; k < 200 && hi - lo > 1e-12 * hi; ++k) {
+    const double mid = 0.5 * (lo + hi);
+    (f(mid) < 0.0 ? lo : hi) = mid;
+  }
+  return 0.5 * (lo + hi);
+}
+}  // namespace
+
+TEST_CASE("a banked circle without aero: v^2 = g R (sin b + mu cos b) / (cos b - mu sin b)") {
+  // REFERENCES, banked road (derived there): N = m (g cos b + v^2 k sin b), the tyres hold
+  // m (v^2 k cos b - g sin b) at mu N. No drag and no rolling resistance: no longitudinal force.
+  const double radius = 60.0, mu = 1.2;
+  for (const double bank_deg : {12.0, 25.0, -6.0}) {
+    for (const VehicleModel model : {VehicleModel::point_mass, VehicleModel::axle}) {
+      Car car = test::plain_car(700.0, mu);
+      car.model = model;  // equal tyres on both axles, no load sensitivity: the same limit
+      Track t = test::circle_track(radius, 0.5);
+      t.segments.front().bank_rad = bank_deg * units::deg;
+      const Circuit c = lay_out(t, sea_level);
+      const Lap& lap = run_lap(test::configured(car), c).lap;
+      const double b = bank_deg * units::deg;
+      const double v = std::sqrt(units::g0 * radius * (std::sin(b) + mu * std::cos(b)) /
+                                 (std::cos(b) - mu * std::sin(b)));
+      // Steady speed by the root finder (2^-36) on a circle laid out as a polygon of 0.5 m
+      // chords: 1e-6.
+      const auto [lo, hi] = speed_range(lap);
+      CHECK(near(lo, v, 1e-6));
+      CHECK(near(hi, v, 1e-6));
+    }
+  }
+}
+
+TEST_CASE("a right turn on a left-helping bank is off-camber (the CSV's sign convention)") {
+  // A segment's bank is relative to its turn; the mesh keeps it in the curvature's sign: a
+  // right-hand arc banked +10 deg (its outside raised) holds the speed of a left-hand one.
+  Car car = test::plain_car(700.0, 1.2);
+  Track left = test::circle_track(60.0, 0.5), right = left;
+  left.segments.front().bank_rad = 10 * units::deg;
+  right.segments.front() = test::arc(60.0, 2 * units::pi, false);
+  right.segments.front().bank_rad = 10 * units::deg;
+  const Circuit cl = lay_out(left, sea_level), cr = lay_out(right, sea_level);
+  CHECK(cl.mesh.bank_rad[10] == doctest::Approx(10 * units::deg));
+  CHECK(cr.mesh.bank_rad[10] == doctest::Approx(-10 * units::deg));
+  CHECK(near(run_lap(test::configured(car), cl).lap.lap_time_s,
+             run_lap(test::configured(car), cr).lap.lap_time_s, 1e-9));
+}
+
+TEST_CASE("a straight into a head wind tops out where P = k (v + w)^2 v (REFERENCES, wind)") {
+  const double power = 300e3, cda = 1.0, w = 6.0;
+  Car car = test::plain_car(700.0, 1.6, power);
+  car.configs.front().cda_m2 = {cda};
+  const double k = 0.5 * sea_level.density_kg_m3 * cda;
+  for (const double from_deg : {90.0, 270.0}) {  // from +x (head wind), from -x (tail wind)
+    Track t = test::straight_track(6000.0, 0.5, 0.0);
+    t.wind = Wind{w, from_deg * units::deg};
+    const Circuit c = lay_out(t, sea_level);
+    const double head = from_deg == 90.0 ? w : -w;
+    CHECK(near(c.mesh.head_wind_mps[100], head, 1e-12));  // heading +x: w sin(from + 0)
+    const double v =
+        bisect([&](double x) { return k * (x + head) * (x + head) * x - power; }, 0.0, 200.0);
+    const Envelope env(test::configured(car), sea_level);
+    const SteadyProfile p = steady_profile(env, c.mesh);
+    // The engine's steady limit on the level: drive P / v read from tables in v^2 (0.01 %).
+    CHECK(p.limit[100] == SteadyLimit::engine);
+    CHECK(near(p.speed_mps[100], v, 1e-4));
+    // And the lap approaches it without passing it.
+    const auto [lo, hi] = speed_range(run_lap(test::configured(car), c).lap);
+    CHECK(hi <= p.speed_mps[100] * (1 + 1e-12));
+    CHECK(near(hi, v, 2e-3));
+  }
+}
+
+TEST_CASE("a natural engine at 2000 m tops out at its J1349 power: v^3 = P / (CF k)") {
+  // SAE J1349 (June 1990): P_site = P_ref / CF, CF = 1.18 (99 kPa / p_dry) sqrt(T / 298) - 0.18,
+  // in the ISO 2533 air at 2000 m (dry); drag only, so P_site = k v^3 with k = rho CdA / 2.
+  const double power = 300e3, cda = 0.9;
+  Car car = test::plain_car(700.0, 1.6, power);
+  car.configs.front().cda_m2 = {cda};
+  car.powertrain.aspiration = Aspiration::natural;
+  const Air air = make_air(AirSpec{2000.0, {}, {}, 0.0});
+  const double cf = 1.18 * (99e3 / air.pressure_pa) * std::sqrt(air.temperature_k / 298.0) - 0.18;
+  const double v = std::cbrt(power / cf / (0.5 * air.density_kg_m3 * cda));
+  const Envelope env(test::configured(car), air);
+  CHECK(near(env.power_ratio(), 1.0 / cf, 1e-14));
+  // Root of the envelope's tabulated drive (0.01 %).
+  CHECK(near(env.top_speed_level_mps(), v, 1e-4));
+  // The same car with the curve held (fixed, the default) is faster by (CF)^(1/3).
+  car.powertrain.aspiration = Aspiration::fixed;
+  CHECK(near(Envelope(test::configured(car), air).top_speed_level_mps(), v * std::cbrt(cf), 1e-4));
+}
+
+TEST_CASE("trim zones: a zone over one of two equal straights halves the trim's gain") {
+  // A stadium: two equal straights joined by equal half circles. The trim (less drag) pays on
+  // each straight alike, so a zone over the first straight alone gains half of what the trim
+  // gains without zones (symmetry; the mesh's points split the two halves alike to 1e-3).
+  Car car = test::plain_car(700.0, 1.6, 250e3);
+  AeroConfig& a = car.configs.front();
+  a.cda_m2 = {1.1};
+  a.cla_m2 = {3.0};
+  Car trimmed = car;
+  trimmed.configs.front().trim = StraightTrim{-0.35, -1.0, 0.0, 1e-3};
+  Track t;
+  t.name = "stadium";
+  t.file = "stadium.yaml";
+  t.closed = true;
+  t.mesh_m = 0.5;
+  t.segments = {test::straight(500.0), test::arc(50.0, units::pi, true), test::straight(500.0),
+                test::arc(50.0, units::pi, true)};
+  const double none = run_lap(test::configured(car), lay_out(t, sea_level)).lap.lap_time_s;
+  const double everywhere =
+      run_lap(test::configured(trimmed), lay_out(t, sea_level)).lap.lap_time_s;
+  t.trim_zones = {TrimZone{0.0, 500.0}};
+  const Circuit zoned = lay_out(t, sea_level);
+  CHECK(zoned.mesh.trim_zone[10] == 1);
+  CHECK(zoned.mesh.trim_zone[1200] == 0);  // 600 m: the first half circle
+  const double in_zone = run_lap(test::configured(trimmed), zoned).lap.lap_time_s;
+  CHECK(everywhere < none);
+  CHECK(near(none - in_zone, 0.5 * (none - everywhere), 1e-3));
+}
