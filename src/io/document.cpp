@@ -118,7 +118,7 @@ class TreeBuilder : public YAML::EventHandler {
       if (n.kind != Node::Kind::scalar)
         throw InputError(file_, n.mark, "map keys must be plain words");
       for (std::size_t i = 0; i < top.node.entries.size(); ++i)
-        if (top.node.entries[i].first == n.scalar)
+        if (top.node.entries[i].key == n.scalar)
           throw InputError(file_, n.mark,
                            "duplicate key '" + n.scalar + "' (first given at line " +
                                std::to_string(top.node.key_marks[i].line) + ")");
@@ -127,7 +127,7 @@ class TreeBuilder : public YAML::EventHandler {
       top.key_mark = n.mark;
       return;
     }
-    top.node.entries.emplace_back(std::move(top.key), std::move(n));
+    top.node.entries.push_back({std::move(top.key), std::move(n)});
     top.node.key_marks.push_back(top.key_mark);
     top.has_key = false;
   }
@@ -224,7 +224,7 @@ const Node& Reader::require(std::string_view key) {
   if (n) return *n;
   // A missing key next to a misspelt one: name the misspelling where it stands.
   for (std::size_t i = 0; i < node_->entries.size() && !allowed_.empty(); ++i) {
-    const std::string& k = node_->entries[i].first;
+    const std::string& k = node_->entries[i].key;
     if (std::find(allowed_.begin(), allowed_.end(), k) != allowed_.end()) continue;
     if (closest(k, {std::string(key)}) == key)
       throw InputError(doc_->file, node_->key_marks[i],
@@ -335,7 +335,7 @@ void Reader::finish(const std::vector<std::string>& also_known) {
   known.insert(known.end(), allowed_.begin(), allowed_.end());
   known.insert(known.end(), also_known.begin(), also_known.end());
   for (std::size_t i = 0; i < node_->entries.size(); ++i) {
-    const std::string& k = node_->entries[i].first;
+    const std::string& k = node_->entries[i].key;
     if (std::find(read_.begin(), read_.end(), k) != read_.end()) continue;
     std::string near = closest(k, known);
     throw InputError(
