@@ -11,6 +11,7 @@
 
 #include "commands.hpp"
 #include "lapwing/base/error.hpp"
+#include "lapwing/base/text.hpp"
 #include "lapwing/base/version.hpp"
 #include "lapwing/io/document.hpp"
 #include "lapwing/study/trade.hpp"
@@ -184,7 +185,7 @@ int main(int argc, char** argv) {
       "--distance distance_m --closed --out tracks/logged.yaml");
 
   if (const auto msg = check_command_line(app, argc, argv)) {
-    std::cerr << "lapwing: error: " << *msg << "\n";
+    std::cerr << "lapwing: error: " << printable(*msg) << "\n";
     return 2;
   }
   try {
@@ -192,7 +193,7 @@ int main(int argc, char** argv) {
   } catch (const CLI::ParseError& e) {
     // Help and version print and succeed; anything else is a usage error in one line.
     if (e.get_exit_code() == static_cast<int>(CLI::ExitCodes::Success)) return app.exit(e);
-    std::cerr << "lapwing: error: " << e.what() << " (see lapwing --help)\n";
+    std::cerr << "lapwing: error: " << printable(e.what()) << " (see lapwing --help)\n";
     return 2;
   }
 
@@ -203,7 +204,7 @@ int main(int argc, char** argv) {
     if (*trade) return cli::trade(trade_o);
     if (*from_log) return cli::track_from_log(log_o);
   } catch (const cli::UsageError& e) {
-    std::cerr << "lapwing: error: " << e.message << "\n";
+    std::cerr << "lapwing: error: " << printable(e.message) << "\n";
     return 2;
   } catch (const InputError& e) {
     std::cerr << e.what() << "\n";
@@ -213,13 +214,14 @@ int main(int argc, char** argv) {
     std::cerr << e.what() << "\n";
     return 2;
   } catch (const OutputError& e) {
-    std::cerr << "lapwing: error: " << e.what() << "\n";
+    std::cerr << "lapwing: error: " << printable(e.what()) << "\n";
     return 2;
   } catch (const CannotMove& e) {
-    std::cerr << "lapwing: error: the car cannot complete the track: " << e.what() << "\n";
+    std::cerr << "lapwing: error: the car cannot complete the track: " << printable(e.what())
+              << "\n";
     return 3;
   } catch (const std::exception& e) {
-    std::cerr << "lapwing: internal error: " << e.what() << "\n";
+    std::cerr << "lapwing: internal error: " << printable(e.what()) << "\n";
     return 1;
   }
   return 1;
