@@ -10,6 +10,7 @@
 #include "lapwing/path/centerline.hpp"
 #include "lapwing/path/geodesy.hpp"
 #include "lapwing/path/mesh.hpp"
+#include "lapwing/path/smoothing.hpp"
 #include "test_support.hpp"
 
 using namespace lapwing;
@@ -179,4 +180,69 @@ TEST_CASE("the fit's options and points are checked, a stray point named by its 
     CHECK(e.violation().at == "lat_deg[1]");
     CHECK(e.message() == "latitude or longitude out of range");
   }
+}
+
+// Issue 19, finding 5: at strengths of hundreds of metres on 1 m samples the smoother's lambda
+// reaches 1e13 to 1e17 (lambda = (2 sin(pi h / L))^-6), where the normal equations
+// (I + lambda D'D) f = y, solved as they stand, keep no significant digit.
+TEST_CASE("a circle of 1000 m radius keeps its length 2 pi R under a 1000 m smoothing") {
+  const double radius = 1000.0;
+  const int n = 6283;  // points every 1.00003 m
+  std::vector<double> x, y;
+  for (int i = 0; i < n; ++i) {
+    const double t = 2 * units::pi * i / n;
+    x.push_back(radius * std::cos(t) + 250.0);
+    y.push_back(radius * std::sin(t) - 400.0);
+  }
+  for (double smoothing : {100.0, 1000.0, 2000.0, 4000.0}) {
+    CAPTURE(smoothing);
+    const PathProfile p = fit_centerline(CenterlinePoints{"circle", x, y, {}}, true,
+                                         CenterlineOptions{smoothing, 100.0, 1.0});
+    // Closed form: the resampled points are the polygon's vertices (equal chords), and
+    // cos(2 pi i / n) is an eigenvector of the periodic D'D with eigenvalue (2 sin(pi / n))^6,
+    // so the fit is the circle of radius R H, H = 1 / (1 + lambda (2 sin(pi / n))^6). Its
+    // length is n chords, 2 n R H sin(pi / n), and central differences of a sampled circle give
+    // its curvature 1 / (R H) exactly. Round-off alone is left: to 1e-9.
+    const double h = 2 * radius * std::sin(units::pi / n);
+    const double gain =
+        1.0 / (1.0 + smoothing_lambda(h, smoothing, 3) * std::pow(2 * std::sin(units::pi / n), 6));
+    CHECK(near(p.s_m.back(), 2 * n * radius * gain * std::sin(units::pi / n), 1e-9));
+    for (std::size_t i = 0; i + 1 < p.s_m.size(); i += 97)
+      CHECK(near(p.curvature_1pm[i], 1.0 / (radius * gain), 1e-9));
+  }
+}
+
+TEST_CASE("a straight line of 3000 m stays 3000 m long and straight under strong smoothing") {
+  std::vector<double> x, y;
+  for (int i = 0; i <= 3000; ++i) {
+    x.push_back(0.6 * i + 1200.0);  // away from the origin, heading 53 deg: no help from zeros
+    y.push_back(0.8 * i - 700.0);
+  }
+  for (double smoothing : {1000.0, 2000.0, 4000.0}) {
+    CAPTURE(smoothing);
+    const PathProfile p = fit_centerline(CenterlinePoints{"line", x, y, {}}, false,
+                                         CenterlineOptions{smoothing, 100.0, 1.0});
+    // A line is in the null space of the third difference: the fit returns it unchanged, to
+    // round-off (1 mm over 3 km, and 1e-6 1/m of curvature, allow for it).
+    CHECK(near(p.s_m.back(), 3000.0, 0.0, 1e-3));
+    for (std::size_t i = 0; i < p.s_m.size(); i += 11)
+      CHECK(near(p.curvature_1pm[i], 0.0, 0.0, 1e-6));
+  }
+}
+
+TEST_CASE("a noisy 2000 m line fitted at double the file's largest smoothing stays straight") {
+  // What `check` does with a file's 2000 m: it fits at 4000 m too (issue 19, finding 5). 20 mm
+  // of survey noise every 2 m.
+  Noise noise;
+  std::vector<double> x, y;
+  for (int i = 0; i <= 1000; ++i) {
+    x.push_back(2.0 * i + 0.02 * noise.gauss());
+    y.push_back(0.02 * noise.gauss());
+  }
+  const PathProfile p = fit_centerline(CenterlinePoints{"noisy line", x, y, {}}, false,
+                                       CenterlineOptions{4000.0, 100.0, 1.0});
+  // The noise leaves the fit within a few mm of the line: length to 1 cm, curvature below 1e-5
+  // 1/m (a radius over 100 km).
+  CHECK(near(p.s_m.back(), 2000.0, 0.0, 0.01));
+  for (std::size_t i = 0; i < p.s_m.size(); i += 7) CHECK(near(p.curvature_1pm[i], 0.0, 0.0, 1e-5));
 }
