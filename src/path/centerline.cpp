@@ -2,6 +2,7 @@
 
 #include <algorithm>
 #include <cmath>
+#include <sstream>
 #include <string>
 
 #include "lapwing/base/error.hpp"
@@ -136,6 +137,7 @@ PathProfile fit_centerline(const CenterlinePoints& points, bool closed,
   const double h = total / static_cast<double>(n);
   const std::size_t samples = closed ? n : n + 1;
   std::vector<double> rx(samples), ry(samples), rz(z.empty() ? 0 : samples);
+  std::vector<std::size_t> nearest(samples);  // the data point nearest each sample (for errors)
   std::size_t seg = 0;
   for (std::size_t j = 0; j < samples; ++j) {
     const double s = std::min(total, static_cast<double>(j) * h);
@@ -145,6 +147,7 @@ PathProfile fit_centerline(const CenterlinePoints& points, bool closed,
     rx[j] = x[a] + w * (x[b] - x[a]);
     ry[j] = y[a] + w * (y[b] - y[a]);
     if (!z.empty()) rz[j] = z[a] + w * (z[b] - z[a]);
+    nearest[j] = w < 0.5 ? a : b;
   }
   // The fit.
   constexpr int order = 3;
@@ -154,6 +157,38 @@ PathProfile fit_centerline(const CenterlinePoints& points, bool closed,
   for (std::size_t j = 0; j < samples; ++j) res[j] = std::hypot(rx[j] - fx[j], ry[j] - fy[j]);
   p.fit_residual_rms_m = rms(res, std::vector<double>(samples, 0.0));
   const auto k = curvature_of(fx, fy, h, closed);
+  // The fit must be a road: nowhere tighter than a 1 m radius, as a curvature file's rows are
+  // checked. A path that runs out and straight back (a cusp) has none (0 / 0) at its turn, or
+  // one far beyond 1/m, and a lap of it would mean nothing (issue 19, finding 7).
+  // The turn between consecutive chords of the fit is checked too: where the path reverses
+  // between two samples its derivatives need not vanish on the grid, and the curvature formula
+  // can read 0 (a straight that runs back on itself).
+  auto chord_turn = [&](std::size_t j) {  // turn per metre from chord j - 1 to chord j
+    const std::size_t a = (j + samples - 1) % samples, b = (j + 1) % samples;
+    const double ux = fx[j] - fx[a], uy = fy[j] - fy[a], vx = fx[b] - fx[j], vy = fy[b] - fy[j];
+    const double turn = std::atan2(ux * vy - uy * vx, ux * vx + uy * vy);
+    return turn / (0.5 * (std::hypot(ux, uy) + std::hypot(vx, vy)));
+  };
+  for (std::size_t j = 0; j < samples; ++j) {
+    const bool inner = closed || (j > 0 && j + 1 < samples);
+    const double turn = inner ? chord_turn(j) : 0.0;
+    if (std::abs(k[j]) <= max_curvature_1pm && std::abs(turn) <= max_curvature_1pm) continue;
+    std::ostringstream os;
+    os.precision(3);
+    os << "the centerline fitted over " << o.smoothing_m << " m turns tighter than a 1 m radius "
+       << "near this point (";
+    if (std::isfinite(k[j]) && std::abs(k[j]) > max_curvature_1pm)
+      os << "curvature " << k[j] << " 1/m";
+    else if (std::isfinite(turn))
+      os << "a turn of " << std::abs(turn) << " rad/m between chords";
+    else
+      os << "no curvature: the path stops and turns back";
+    os << " at " << static_cast<double>(j) * h
+       << " m along the points): a cusp, a point out of place or points out of order; fix the "
+          "points, or smooth over a longer length";
+    throw InvalidInput(points.source,
+                       broken_rule("", os.str(), "x_m[" + std::to_string(nearest[j]) + "]"));
+  }
   // Raw curvature (over 5 m chords, so that it is finite) against the fitted one: the noise the
   // fit removed.
   {

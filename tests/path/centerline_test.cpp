@@ -246,3 +246,25 @@ TEST_CASE("a noisy 2000 m line fitted at double the file's largest smoothing sta
   CHECK(near(p.s_m.back(), 2000.0, 0.0, 0.01));
   for (std::size_t i = 0; i < p.s_m.size(); i += 7) CHECK(near(p.curvature_1pm[i], 0.0, 0.0, 1e-5));
 }
+
+TEST_CASE("a centerline that runs out and straight back is refused at its cusp (issue 19, 7)") {
+  // 200 m out along y = 0 and back on the same line: the fit turns back in a metre or less,
+  // where its curvature is 0 / 0 or, with the derivatives changing sign between samples, reads
+  // 0. Either way it is tighter than a 1 m radius.
+  CenterlinePoints p{"cusp.csv", {}, {}, {}};
+  for (int i = 0; i <= 200; ++i) p.x_m.push_back(i), p.y_m.push_back(0.0);
+  for (int i = 199; i >= 1; --i) p.x_m.push_back(i), p.y_m.push_back(0.0);
+  for (double smoothing : {2.5, 5.0, 20.0}) {
+    CAPTURE(smoothing);
+    try {
+      fit_centerline(p, true, CenterlineOptions{smoothing, 100.0, 1.0});
+      FAIL("expected an InvalidInput");
+    } catch (const InvalidInput& e) {
+      CHECK(e.subject() == "cusp.csv");
+      CHECK(e.message().find("turns tighter than a 1 m radius") != std::string::npos);
+      // The point named is one of the two ends of the out-and-back: x = 0 or x = 200.
+      const std::size_t i = last_index(e.violation().at).value();
+      CHECK((p.x_m[i] <= 2.0 || std::abs(p.x_m[i] - 200.0) <= 2.0));
+    }
+  }
+}

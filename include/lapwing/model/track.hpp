@@ -12,6 +12,11 @@
 
 namespace lapwing {
 
+/// The tightest turn a path may make: a radius of 1 m (|curvature| <= 1/m), for segments,
+/// curvature files and fitted centerlines alike. A tighter one is no road but bad data (a cusp, a
+/// point out of place, a unit read wrong), and the solver's speeds mean nothing there.
+inline constexpr double max_curvature_1pm = 1.0;
+
 /// A piece of the path whose curvature changes linearly with distance: a straight (0 -> 0), an
 /// arc (k -> k) or a clothoid (k0 -> k1). Curvature is signed, positive for a left turn.
 struct Segment {
@@ -22,10 +27,10 @@ struct Segment {
   double curvature_end_1pm;
   double grade;  // rise over run, positive uphill
 
-  // The ranges of a segment (README, the track file): a piece up to 100 km, a radius up to
+  // The ranges of a segment (README, the track file): a piece up to 100 km, a radius of 1 m to
   // 100 km, an arc of up to two turns, a grade of +-50 % (steeper is no road).
   static constexpr Range length_range{0.0, 100e3, true, false};         // m
-  static constexpr Range radius_range{0.0, 100e3, true, false};         // m
+  static constexpr Range radius_range{1.0 / max_curvature_1pm, 100e3};  // m
   static constexpr Range angle_range{0.0, 4 * units::pi, true, false};  // rad
   static constexpr Range grade_range{-0.5, 0.5};
   /// The first value that breaks a rule, named as in a track file's segment ("arc.radius",
@@ -57,7 +62,8 @@ struct PathProfile {
 
   /// A path longer than 200 km is no circuit: bad data (a stray point, a unit read wrong).
   static constexpr double max_length_m = 200e3;
-  /// At least two samples, every column as long as s_m, s_m from 0 strictly increasing.
+  /// At least two samples, every column as long as s_m, s_m from 0 strictly increasing, every
+  /// curvature finite and within +-max_curvature_1pm.
   std::optional<Violation> validate() const;
 };
 
