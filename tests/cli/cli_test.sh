@@ -144,6 +144,8 @@ expect_usage "no config named 'mid'" compare --car cars/caldra-gt.yaml --track t
 expect_usage "no config named 'mid'" trade --car cars/caldra-gt.yaml --track tracks/skidpad.yaml --config mid
 expect_usage "--step: 60 % is out of range" trade --car cars/caldra-gt.yaml --track tracks/skidpad.yaml --step "60 %"
 expect_usage "--step: 0 % is out of range" trade --car cars/caldra-gt.yaml --track tracks/skidpad.yaml --step "0 %"
+# A step so small that x (1 + step) == x once gave sensitivities of exactly 0 (issue 19, finding 12).
+expect_usage "--step: 1e-300 is out of range" trade --car cars/caldra-gt.yaml --track tracks/skidpad.yaml --step 1e-300
 expect_usage "is given twice" compare --car cars/caldra-gt.yaml --track tracks/skidpad.yaml --track ./tracks/skidpad.yaml
 expect_usage "is given twice" trade --car cars/caldra-gt.yaml --track tracks/skidpad.yaml --track tracks/skidpad.yaml
 expect_usage "--model: 'bicycle' is not one of point-mass | axle" run --car cars/caldra-gt.yaml --track tracks/skidpad.yaml --model bicycle
@@ -271,7 +273,7 @@ expect_error "lapwing: error: --track is given 2 times; run laps one track (comp
 ! grep -q "At Most" "$tmp/stderr" && ok || bad "the parser library's words for --track twice"
 expect_error "lapwing: error: --car is given 2 times; check takes one" \
   check --car cars/caldra-gt.yaml --car=cars/pellion-fr2.yaml
-expect_error "lapwing: error: --step: 2 is out of range ((0, 50] %); did you mean 2 %?" \
+expect_error "lapwing: error: --step: 2 is out of range ([0.1, 50] %); did you mean 2 %?" \
   trade --car cars/caldra-gt.yaml --track tracks/skidpad.yaml --step 2
 expect_error "--humidity: 60 is out of range ([0, 100] %); did you mean 60 %?" \
   run --car cars/caldra-gt.yaml --track tracks/skidpad.yaml --humidity 60
@@ -280,7 +282,7 @@ expect_error "--pressure: 985 is out of range ([30000, 110000] Pa); did you mean
 expect_error "--temperature: 300 is out of range ([-50, 70] C); did you mean 300 K?" \
   check --car cars/caldra-gt.yaml --temperature 300
 # A value given with its unit and still out of range gets no guess.
-expect_error "--step: 60 % is out of range ((0, 50] %)" \
+expect_error "--step: 60 % is out of range ([0.1, 50] %)" \
   trade --car cars/caldra-gt.yaml --track tracks/skidpad.yaml --step "60 %"
 ! grep -q "did you mean" "$tmp/stderr" && ok || bad "a guess for a value given with its unit"
 
