@@ -50,10 +50,41 @@ for layer in model path solve study report; do
     fail=1
   fi
 done
-# Every source file of the library sits in a layer folder.
+# Every source file of the library sits in a layer folder; the one header beside them is the
+# umbrella, lapwing/lapwing.hpp, for programs that use the library.
 for f in src/*.cpp include/lapwing/*.hpp; do
-  [ -e "$f" ] && { echo "FAIL: $f is outside the layer folders"; fail=1; }
+  [ -e "$f" ] && [ "$f" != include/lapwing/lapwing.hpp ] &&
+    { echo "FAIL: $f is outside the layer folders"; fail=1; }
 done
+# The umbrella includes every public header, each once, and nothing else; the library itself never
+# includes it (a layer would then include every layer).
+umbrella=include/lapwing/lapwing.hpp
+if [ ! -e "$umbrella" ]; then
+  echo "FAIL: $umbrella is missing"
+  fail=1
+else
+  listed=$(sed -n 's/^#include "\(lapwing\/[a-z]*\/[a-z_]*\.hpp\)"$/\1/p' "$umbrella" | sort)
+  present=$(cd include && ls lapwing/*/*.hpp | sort)
+  if [ "$listed" != "$present" ]; then
+    echo "FAIL: $umbrella does not include exactly the public headers:"
+    diff <(echo "$listed") <(echo "$present") | sed -n 's/^</  included, no such header or twice:/p; s/^>/  not included:/p'
+    fail=1
+  fi
+  if [ "$(grep -c '^#include' "$umbrella")" != "$(echo "$present" | wc -l)" ]; then
+    echo "FAIL: $umbrella includes something besides the public headers, or one twice"
+    fail=1
+  fi
+fi
+if grep -rn '#include "lapwing/lapwing.hpp"' src include/lapwing/*/; then
+  echo "FAIL: the library includes the umbrella header (above)"
+  fail=1
+fi
+# Boost and yaml-cpp are PRIVATE to the libraries that use them (src/CMakeLists.txt), so that the
+# installed package asks its users for neither's headers: no public header may include them.
+if grep -rnE '^#include <(boost|yaml-cpp)/' include; then
+  echo "FAIL: a public header includes Boost or yaml-cpp (above); they are private to the library"
+  fail=1
+fi
 [ "$checked" -gt 40 ] || { echo "FAIL: only $checked files checked"; fail=1; }
 echo "layers: $checked files checked"
 exit $fail

@@ -22,8 +22,11 @@ constexpr double foot = 0.3048;
 constexpr double mile = 1609.344;
 constexpr double pound = 0.45359237;
 constexpr double pound_force = pound * units::g0;
-constexpr double horsepower = 745.699872;  // mechanical hp, SPEC section 1
-constexpr double metric_hp = 735.49875;    // PS, SPEC section 1
+// Mechanical hp = 550 ft lbf/s = 745.69987158 W (NIST SP 811, appendix B), taken to the
+// micro-watt as README, "Input formats" states it; PS = 75 kgf m/s = 75 x 9.80665 W, exact
+// (DIN 66036; from memory).
+constexpr double horsepower = 745.699872;
+constexpr double metric_hp = 735.49875;
 
 template <std::size_t N>
 using Units = std::array<Unit, N>;

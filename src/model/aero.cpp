@@ -102,7 +102,7 @@ PartsReduction reduce_parts(const std::vector<AeroPart>& parts, double v, double
 
 namespace {
 
-// The ranges of a config's coefficients (README, the car file).
+// The ranges of a config's coefficients (README, "Car").
 constexpr Range cda_range{0.0, 20.0}, cla_range{0.0, 30.0}, balance_range{0.0, 1.0};
 
 std::string index_path(const std::string& key, std::size_t i) {

@@ -7,7 +7,7 @@ namespace lapwing {
 
 namespace {
 
-// The ranges of the car-level values (README, the car file), which a config may override.
+// The ranges of the car-level values (README, "Car"), which a config may override.
 constexpr Range mass_range{0.0, 1e5, true, false};
 constexpr Range inertia_range{0.0, 1.0, false, true};
 

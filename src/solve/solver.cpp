@@ -560,7 +560,8 @@ const Lap& LapSolver::solve(const Envelope& env, const Mesh& mesh, double start_
     lap.phase[i] = ph;
   }
 
-  // Time: sum of 2 ds / (v_i + v_{i+1}) (SPEC section 6).
+  // Time: sum of 2 ds / (v_i + v_{i+1}), exact for a constant acceleration over each step
+  // (ds / mean speed; README, "Physics and assumptions").
   lap.time_s.resize(n);
   lap.time_s[0] = 0.0;
   for (std::size_t i = 0; i + 1 < n; ++i) {

@@ -1,5 +1,6 @@
-// Unit conversions at the boundary. Factors exact by definition (NIST SP 811, appendix B;
-// SPEC section 1 for hp and PS).
+// Unit conversions at the boundary. Factors exact by definition (NIST SP 811, appendix B), hp
+// to the micro-watt as README, "Input formats" gives it (550 ft lbf/s = 745.69987158 W), PS =
+// 75 x 9.80665 W (DIN 66036; from memory).
 #include <doctest/doctest.h>
 
 #include "lapwing/base/units.hpp"

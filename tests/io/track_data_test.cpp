@@ -59,7 +59,7 @@ TEST_CASE("the surveyed Brannock Park has its segment twin's corners and apex sp
   REQUIRE(a.summary.corners.size() == b.summary.corners.size());
   // Where a corner starts within 5 m (measured worst 3.6 m). Apex speeds: the fit leaves some
   // of the noise in the curvature and the apex is the slowest point, so the survey's apexes are
-  // slower, never faster: measured 1 to 8 % (README, the smoothing choice).
+  // slower, never faster: measured 1 to 8 % (README, "Tracks from data", the smoothing choice).
   for (std::size_t i = 0; i < a.summary.corners.size(); ++i) {
     const auto& ca = a.summary.corners[i];
     const auto& cb = b.summary.corners[i];
@@ -67,7 +67,8 @@ TEST_CASE("the surveyed Brannock Park has its segment twin's corners and apex sp
     CHECK(cb.apex_mps <= ca.apex_mps * 1.01);
     CHECK(cb.apex_mps >= ca.apex_mps * 0.90);
   }
-  // And the lap (README's measured example): within 0.1 % at the default 20 m smoothing.
+  // And the lap (README, "Tracks from data", the measured example): within 0.1 % at the default 20
+  // m smoothing.
   CHECK(near(b.summary.lap_time_s, a.summary.lap_time_s, 1e-3));
 }
 

@@ -236,7 +236,7 @@ RideHeightMap small_map() {
 }
 }  // namespace
 
-TEST_CASE("a ride-height map names its first bad axis, grid or spring (README, the car file)") {
+TEST_CASE("a ride-height map names its first bad axis, grid or spring (README, \"Car\")") {
   CHECK(test::describe(small_map().validate()) == "none");
   struct Case {
     void (*spoil)(RideHeightMap&);

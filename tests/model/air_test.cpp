@@ -43,7 +43,7 @@ TEST_CASE("given values replace the standard ones; none given is the standard at
   CHECK(hot.density_kg_m3 < standard.density_kg_m3);
 }
 
-TEST_CASE("air outside the troposphere's circuits is refused by name (README, the track file)") {
+TEST_CASE("air outside the troposphere's circuits is refused by name (README, \"Track\")") {
   CHECK(test::describe(AirSpec{}.validate()) == "none");
   AirSpec a;
   a.altitude_m = 7000.0;

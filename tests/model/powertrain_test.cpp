@@ -76,7 +76,7 @@ TEST_CASE("an ideal transmission gives F = eta P / v") {
   CHECK(best_drive(p, 0.3, 50.0).gear == 0);
 }
 
-TEST_CASE("a powertrain names the first value that breaks a rule (README, the car file)") {
+TEST_CASE("a powertrain names the first value that breaks a rule (README, \"Car\")") {
   const Powertrain good = test::constant_force_car(600.0, 3000.0, 1.5).powertrain;
   CHECK(test::describe(good.validate()) == "none");
   struct Case {

@@ -1,5 +1,5 @@
 // Track: segments, profiles and the track as a whole name their first bad value by its key path
-// in a track file (README, the track file).
+// in a track file (README, "Track").
 #include <doctest/doctest.h>
 
 #include <cmath>

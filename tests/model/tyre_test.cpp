@@ -1,4 +1,5 @@
-// Tyre model: load sensitivity as SPEC section 6 defines it, and the friction ellipse.
+// Tyre model: load sensitivity as README, "Physics and assumptions" defines it (tyres), and the
+// friction ellipse.
 #include <doctest/doctest.h>
 
 #include <cmath>
@@ -9,7 +10,8 @@
 using namespace lapwing;
 using lapwing::test::near;
 
-TEST_CASE("mu falls by load_sensitivity for each +100 % of load, never below 0.1 mu0 (SPEC 6)") {
+TEST_CASE(
+    "mu falls by load_sensitivity per +100 % of load, not below 0.1 mu0 (README, \"Physics\")") {
   const TyreModel t(Tyres{1.5, 1.7, 1600.0, 0.08, 2.0, 0.33, 0.0});
   CHECK(t.mu_factor(1600.0) == 1.0);
   CHECK(near(t.mu_factor(3200.0), 0.92, 1e-12));
@@ -33,8 +35,8 @@ TEST_CASE("the ellipse leaves (1 - r^n)^(1/n) of Fx_max at lateral ratio r") {
 }
 
 TEST_CASE("the least axle load for a lateral force is the smaller root of mu(L/2) L = Fy") {
-  // Round trip through the axle's peak force, mu_lat0 (1 - s (L/2 - Fn) / Fn) L (SPEC 6): with
-  // and without load sensitivity, and on the floor of 0.1 mu0 beyond the parabola's top.
+  // Round trip through the axle's peak force (README, "Physics"), mu_lat0 (1 - s (L/2 - Fn) / Fn)
+  // L: with and without load sensitivity, and on the floor of 0.1 mu0 beyond the parabola's top.
   for (const double s : {0.0, 0.08, 0.3}) {
     const TyreModel t(Tyres{1.5, 1.7, 1600.0, s, 2.0, 0.33, 0.0});
     for (const double load : {200.0, 1600.0, 3200.0, 6000.0}) {
@@ -49,7 +51,7 @@ TEST_CASE("the least axle load for a lateral force is the smaller root of mu(L/2
   CHECK(near(t.axle_load_for_lateral(9000.0), 9000.0 / (0.1 * 1.7), 1e-12));
 }
 
-TEST_CASE("tyres name the first value out of its range (README, the car file's tyres)") {
+TEST_CASE("tyres name the first value out of its range (README, \"Car\", tyres)") {
   const Tyres good{1.5, 1.7, 1600.0, 0.08, 2.0, 0.33, 0.012};
   CHECK(test::describe(good.validate()) == "none");
   struct Case {

@@ -84,7 +84,8 @@ TEST_CASE("a run turning less than 5 deg is a wiggle, not a corner") {
   CHECK(find_corners(m).empty());
 }
 
-TEST_CASE("a short opposite wiggle inside one corner does not split it (README: corners)") {
+TEST_CASE(
+    "a short opposite wiggle inside one corner does not split it (README, \"Physics\", corners)") {
   // Right at radius 40 m for 60 m (86 deg), a 3 m left kink at radius 60 m (2.9 deg: a wiggle,
   // under both 5 m and 5 deg), then right again for 60 m. The two right runs are 3 m apart,
   // within the 20 m merge gap once the wiggle is dropped: one corner from 100 m to 223 m.

@@ -1,6 +1,6 @@
 // Units at the boundary: every quantity read from a file or an option is converted to SI here,
-// once, and never again (SPEC section 1). Inside the program: m, m/s, kg, N, W, N m, rad, m^2, K,
-// Pa, N/m, s, rad/s, and plain fractions.
+// once, and never again (README, "Input formats", lists the units). Inside the program: m, m/s, kg,
+// N, W, N m, rad, m^2, K, Pa, N/m, s, rad/s, and plain fractions.
 #pragma once
 
 #include <optional>

@@ -1,4 +1,4 @@
-// Reading a car file (README, the car file) into a Car.
+// Reading a car file (README, "Car") into a Car.
 #pragma once
 
 #include <string>

@@ -1,4 +1,4 @@
-// Reading a track file (README, the track file) into a Track, with its data files.
+// Reading a track file (README, "Track") into a Track, with its data files.
 #pragma once
 
 #include <string>

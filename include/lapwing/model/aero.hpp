@@ -91,10 +91,10 @@ struct PartsReduction {
 PartsReduction reduce_parts(const std::vector<AeroPart>& parts, double speed_mps,
                             double density_kg_m3, double wheelbase_m);
 
-/// One aero configuration (SPEC section 2). Whatever form it was given in, it is coefficients
-/// over speed: a constant configuration has one row (speed_mps empty); a speed table many; a
-/// parts table is reduced to one row on load; a ride-height map is solved per air and speed by
-/// the Envelope (see aero.hpp).
+/// One aero configuration (README, "Car", its four forms). Whatever form it was given in, it is
+/// coefficients over speed: a constant configuration has one row (speed_mps empty); a speed table
+/// many; a parts table is reduced to one row on load; a ride-height map is solved per air and speed
+/// by the Envelope (see aero.hpp).
 struct AeroConfig {
   enum class Form { constant, speed_table, forces, ride_height_map };
   std::string name;
@@ -105,7 +105,7 @@ struct AeroConfig {
   std::vector<double> balance;  // front share of downforce, without the drag moment
   std::optional<RideHeightMap> map;
   std::optional<StraightTrim> trim;
-  // Car-level values this configuration overrides (SPEC section 2); a parts table sets
+  // Car-level values this configuration overrides (README, "Car"); a parts table sets
   // drag_height_m from its parts.
   std::optional<double> mass_kg, inertia_factor, cg_height_m, front_weight, drag_height_m;
 

@@ -31,7 +31,7 @@ struct AirSpec {
   std::optional<double> pressure_pa;
   double relative_humidity = 0.0;  // 0..1; dry unless given
 
-  // The ranges a track file or an option may give (README, the track file): the troposphere
+  // The ranges a track file or an option may give (README, "Track"): the troposphere
   // where circuits lie, and the air a car is run in.
   static constexpr Range altitude_range{-500.0, 6000.0};     // m
   static constexpr Range temperature_range{223.15, 343.15};  // K: -50 to 70 C

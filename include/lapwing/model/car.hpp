@@ -1,4 +1,4 @@
-// The car as described by its file (README, the car file): fixed, in SI units, checked by
+// The car as described by its file (README, "Car"): fixed, in SI units, checked by
 // validate().
 #pragma once
 

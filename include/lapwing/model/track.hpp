@@ -1,4 +1,4 @@
-// The track as described by its file (README, the track file): fixed, in SI units, checked by
+// The track as described by its file (README, "Track"): fixed, in SI units, checked by
 // validate().
 #pragma once
 
@@ -27,7 +27,7 @@ struct Segment {
   double curvature_end_1pm;
   double grade;  // rise over run, positive uphill
 
-  // The ranges of a segment (README, the track file): a piece up to 100 km, a radius of 1 m to
+  // The ranges of a segment (README, "Track"): a piece up to 100 km, a radius of 1 m to
   // 100 km, an arc of up to two turns, a grade of +-50 % (steeper is no road).
   static constexpr Range length_range{0.0, 100e3, true, false};         // m
   static constexpr Range radius_range{1.0 / max_curvature_1pm, 100e3};  // m

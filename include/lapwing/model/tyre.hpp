@@ -35,7 +35,8 @@ class TyreModel {
         quadratic_(t.ellipse_exponent == 2.0),
         long_per_lat_(t.mu_long / t.mu_lat) {}
 
-  /// Load sensitivity (SPEC section 6): mu(Fz) = mu0 (1 - s (Fz - Fn) / Fn), never below 0.1 mu0.
+  /// Load sensitivity, linear in the per-tyre load (common practice; README, "Physics and
+  /// assumptions", tyres): mu(Fz) = mu0 (1 - s (Fz - Fn) / Fn), never below 0.1 mu0.
   /// Returns the factor mu(Fz) / mu0 for a per-tyre load Fz in N.
   double mu_factor(double fz_per_tyre_n) const {
     return std::max(floor_fraction, 1.0 - sensitivity_per_n_ * (fz_per_tyre_n - nominal_n_));
@@ -98,7 +99,9 @@ class TyreModel {
 
   double exponent() const { return n_; }
 
-  static constexpr double floor_fraction = 0.1;  // SPEC section 6
+  // The floor keeps a heavily loaded tyre's mu positive: lapwing's rule (README, "Physics and
+  // assumptions", tyres), not a measured one.
+  static constexpr double floor_fraction = 0.1;
 
  private:
   double mu_long0_, mu_lat0_, nominal_n_;

@@ -17,7 +17,7 @@ struct CenterlineOptions {
   double elevation_smoothing_m = 100.0;  // the same for elevation, before it becomes grade
   double spacing_m = 1.0;                // resampling step along the path
 
-  // What a track file may give (README, the track file); the fit itself takes any positive
+  // What a track file may give (README, "Tracks from data"); the fit itself takes any positive
   // length (`check` studies half and double the file's).
   static constexpr Range file_smoothing_range{1.0, 2000.0};            // m
   static constexpr Range file_elevation_smoothing_range{1.0, 5000.0};  // m

@@ -42,7 +42,8 @@ Closure closure(const Track& track);
 /// `centerline` or `curvature`); a centerline's, its last data point ("centerline.points[i]").
 Mesh build_mesh(const Track& track, double step_m);
 
-/// Tolerances on closure (SPEC section 3).
+/// Tolerances on closure: lapwing's rule for a closed track (README, "Track"): within 0.5 % of
+/// the length in position and 2 deg in heading, loose enough for a survey's rounding.
 inline constexpr double closure_position_fraction = 0.005;
 inline constexpr double closure_heading_deg = 2.0;
 /// A closed centerline's last point may be this many point spacings from its first (the fit

@@ -12,13 +12,13 @@
 
 namespace lapwing {
 
-/// summary.json (README, outputs): {"lapwing", "car", "results": [...]}.
+/// summary.json (README, "Output files"): {"lapwing", "car", "results": [...]}.
 std::string summary_json(const std::string& car_name, const std::vector<LapSummary>& results);
 
 /// The "balance" object of a result in summary.json; compare.json writes the same per config.
 void write_balance(JsonWriter& w, const BalanceSummary& b);
 
-/// trace-<track>-<config>.csv, one row per mesh point (README, outputs).
+/// trace-<track>-<config>.csv, one row per mesh point (README, "Output files").
 std::string trace_csv(const Lap& lap, const Mesh& mesh);
 
 /// corners.csv: the corners arrays of all results, one row per corner, track and config first.

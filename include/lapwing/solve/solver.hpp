@@ -1,5 +1,7 @@
-// The quasi-steady point-mass lap (SPEC section 6): a steady speed limit at every mesh point,
-// a forward sweep under drive, a backward sweep under braking, the speed their minimum.
+// The quasi-steady lap (README, "Physics and assumptions", speed profile): a steady speed limit
+// at every mesh point, a forward sweep under drive, a backward sweep under braking, the speed
+// their minimum; for a point mass on a fixed path that is the minimum-time profile (Velenis and
+// Tsiotras, J. Optimization Theory and Applications 138 (2008)).
 #pragma once
 
 #include <cstdint>

@@ -33,7 +33,7 @@ struct CornerResult {
 
 /// Neutral band on balance_index (front usage - rear usage, each 0..1 of its ellipse): within
 /// +-0.02 neither axle is named as the limit, since the model's usages carry about that much
-/// error (the axle loads ignore lateral load transfer, README Limitations) and two axles at 0.95
+/// error (the axle loads ignore lateral load transfer, README, "Limitations") and two axles at 0.95
 /// and 0.96 are, for a set-up decision, both at the limit.
 inline constexpr double axle_neutral_band = 0.02;
 
