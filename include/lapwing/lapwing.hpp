@@ -14,6 +14,7 @@
 #include "lapwing/base/format.hpp"
 #include "lapwing/base/interpolate.hpp"
 #include "lapwing/base/range.hpp"
+#include "lapwing/base/text.hpp"
 #include "lapwing/base/units.hpp"
 #include "lapwing/base/version.hpp"
 #include "lapwing/base/violation.hpp"
