@@ -170,6 +170,54 @@ std::vector<Circuit> Inputs::lay_out_all(const std::vector<std::string>& files,
   return out;
 }
 
+// Output file names, made from a track file's stem and config names: one function per kind, used
+// both to check the names before any work (below) and to write the files.
+std::string trace_file(const Circuit& t, const std::string& config) {
+  return "trace-" + t.track.id + "-" + config + ".csv";
+}
+std::string delta_file(const Circuit& t, const std::string& a, const std::string& b) {
+  return "delta-" + t.track.id + "-" + a + "-" + b + ".csv";
+}
+std::string grid_file(const Circuit& t) {
+  return "trade-grid-" + t.track.id + ".csv";
+}
+
+// An output file's name and the inputs it is made from.
+struct PlannedFile {
+  std::string name, from;
+};
+
+// Names are unique by construction: two inputs that would give one output file the same name
+// (tracks of the same file stem, "a/t.yaml" and "b/t.yaml"; config names joined by '-', "x" +
+// "y-z" and "x-y" + "z") are a usage error naming both, found before anything is solved or
+// written.
+void require_unique(const std::vector<PlannedFile>& files) {
+  for (std::size_t i = 0; i < files.size(); ++i)
+    for (std::size_t j = 0; j < i; ++j)
+      if (files[i].name == files[j].name)
+        throw UsageError{"two outputs would be named " + files[i].name + ": " + files[j].from +
+                         ", and " + files[i].from +
+                         " (rename a track file or a config, or write them to separate --out "
+                         "folders)"};
+}
+
+std::vector<PlannedFile> compare_files(const Car& car, const std::vector<std::size_t>& configs,
+                                       const std::vector<Circuit>& circuits) {
+  std::vector<PlannedFile> out;
+  for (const Circuit& t : circuits) {
+    const std::string track = "--track " + t.track.file;
+    for (std::size_t a = 0; a < configs.size(); ++a) {
+      const std::string& ca = car.configs[configs[a]].name;
+      out.push_back({trace_file(t, ca), track + " with config " + ca});
+      for (std::size_t b = a + 1; b < configs.size(); ++b) {
+        const std::string& cb = car.configs[configs[b]].name;
+        out.push_back({delta_file(t, ca, cb), track + " with configs " + ca + " and " + cb});
+      }
+    }
+  }
+  return out;
+}
+
 std::size_t pick_config(const Car& car, const std::string& name) {
   if (name.empty()) return 0;
   const int i = car.config_index(name);
@@ -514,7 +562,7 @@ int run(const RunOptions& o, Inputs& in) {
   if (!o.out.empty()) {
     std::vector<std::pair<std::string, std::string>> files{
         {"summary.json", summary_json(car.name, {s})},
-        {"trace-" + t.track.id + "-" + s.config + ".csv", trace_csv(r.lap, t.mesh)},
+        {trace_file(t, s.config), trace_csv(r.lap, t.mesh)},
         {"corners.csv", corners_csv({s})}};
     // The single-lap page: the comparison report of one config on one track.
     const std::vector<Circuit> circuits{t};
@@ -560,6 +608,7 @@ int compare(const CompareOptions& o, Inputs& in) {
   apply_model(o.model, car);
   const std::vector<std::size_t> configs = pick_configs(car, o.configs);
   const std::vector<Circuit> circuits = in.lay_out_all(o.tracks, air);
+  if (!o.out.empty()) require_unique(compare_files(car, configs, circuits));
   const Comparison c = lapwing::compare(car, configs, circuits, o.threads);
   const std::string out = compare_table(car, c, circuits);
   if (!o.out.empty()) {
@@ -569,14 +618,14 @@ int compare(const CompareOptions& o, Inputs& in) {
       const auto& entries = c.tracks[t].entries;
       for (const auto& e : entries) {
         all.push_back(e.run.summary);
-        files.push_back({"trace-" + circuits[t].track.id + "-" + e.run.summary.config + ".csv",
+        files.push_back({trace_file(circuits[t], e.run.summary.config),
                          trace_csv(e.run.lap, circuits[t].mesh)});
       }
       for (std::size_t a = 0; a < entries.size(); ++a)
         for (std::size_t b = a + 1; b < entries.size(); ++b)
           files.push_back(
-              {"delta-" + circuits[t].track.id + "-" + entries[a].run.summary.config + "-" +
-                   entries[b].run.summary.config + ".csv",
+              {delta_file(circuits[t], entries[a].run.summary.config,
+                          entries[b].run.summary.config),
                delta_csv(circuits[t].mesh, delta_trace(entries[a].run.lap, entries[b].run.lap))});
     }
     files.push_back({"summary.json", summary_json(car.name, all)});
@@ -604,13 +653,18 @@ int trade(const TradeOptions& o, Inputs& in) {
   else
     configs.push_back(pick_config(car, o.config));
   const std::vector<Circuit> circuits = in.lay_out_all(o.tracks, air);
+  if (!o.out.empty()) {
+    std::vector<PlannedFile> planned;
+    for (const Circuit& c : circuits) planned.push_back({grid_file(c), "--track " + c.track.file});
+    require_unique(planned);
+  }
   const Trade t = lapwing::trade(car, configs, circuits, options, o.threads);
   const std::string out = trade_table(car, t, circuits);
   if (!o.out.empty()) {
     std::vector<std::pair<std::string, std::string>> files{
         {"trade.json", trade_json(car, t, circuits)}};
     for (const auto& g : t.grids)
-      files.push_back({"trade-grid-" + circuits[g.track].track.id + ".csv", trade_grid_csv(g)});
+      files.push_back({grid_file(circuits[g.track]), trade_grid_csv(g)});
     files.push_back(
         {"report.html", html_report({&car, &circuits, nullptr, &t,
                                      "trade, steps of " + fixed(100 * options.step, 1) + " %"})});
@@ -658,7 +712,8 @@ int track_from_log(const FromLogOptions& o) {
   const std::string csv_name = out.stem().string() + ".csv";
   const LogTrack t = lapwing::track_from_log(l, csv_name);
   const std::filesystem::path dir = out.parent_path().empty() ? "." : out.parent_path();
-  write_outputs(dir, {{out.filename().string(), t.yaml}, {csv_name, t.csv}});
+  // The data first, the track file that names it last: a track file never names a missing CSV.
+  write_files_atomic(dir, {{csv_name, t.csv}, {out.filename().string(), t.yaml}});
   std::cout << "track   " << o.out << " and " << (dir / csv_name).string() << "\n"
             << "length  " << fixed(t.length_m, 1) << " m"
             << (o.closed

@@ -314,5 +314,48 @@ want="below the speed table's first row (360.0 km/h) its values are held: 100.0 
   --config medium_table --out "$tmp/mpsc" > /dev/null && grep -qF "\"$want\"" "$tmp/mpsc/summary.json" &&
   ok || bad "compare: speed table in m/s not in summary.json"
 
+# 15. Output names unique by construction and folders as transactions (issue 19, finding 2 and
+#     deliver 2). Two tracks of one file stem, or configs whose names joined by '-' read alike
+#     ("x" + "y-z" and "x-y" + "z"), are a usage error naming both, before anything is written.
+mkdir -p "$tmp/stem/a" "$tmp/stem/b" && cp tracks/skidpad.yaml "$tmp/stem/a/t.yaml" &&
+  cp tracks/skidpad.yaml "$tmp/stem/b/t.yaml"
+"$bin" compare --car cars/caldra-gt.yaml --track "$tmp/stem/a/t.yaml" --track "$tmp/stem/b/t.yaml" \
+  --out "$tmp/stem/out" > /dev/null 2> "$tmp/stderr"
+[ $? -eq 2 ] && grep -q "^lapwing: error: two outputs would be named trace-t-" "$tmp/stderr" &&
+  grep -qF "$tmp/stem/a/t.yaml" "$tmp/stderr" && grep -qF "$tmp/stem/b/t.yaml" "$tmp/stderr" &&
+  [ "$(ls -A "$tmp/stem" | tr '\n' ' ')" = "a b " ] && ok || bad "tracks of one stem: $(cat "$tmp/stderr")"
+"$bin" trade --car cars/caldra-gt.yaml --track "$tmp/stem/a/t.yaml" --track "$tmp/stem/b/t.yaml" \
+  --out "$tmp/stem/out" > /dev/null 2> "$tmp/stderr"
+[ $? -eq 2 ] && grep -q "two outputs would be named trade-grid-t.csv" "$tmp/stderr" &&
+  [ ! -e "$tmp/stem/out" ] && ok || bad "trade, tracks of one stem: $(cat "$tmp/stderr")"
+sed 's/^    low:/    x:/; s/^    medium:/    y-z:/; s/^    high:/    x-y:/; s/^    medium_table:/    z:/' \
+  cars/pellion-fr2.yaml > "$tmp/dash-car.yaml"
+"$bin" compare --car "$tmp/dash-car.yaml" --track tracks/skidpad.yaml --config x --config y-z \
+  --config x-y --config z --out "$tmp/dash" > /dev/null 2> "$tmp/stderr"
+[ $? -eq 2 ] && grep -qF "two outputs would be named delta-skidpad-x-y-z.csv: --track tracks/skidpad.yaml with configs x and y-z, and --track tracks/skidpad.yaml with configs x-y and z" "$tmp/stderr" &&
+  [ ! -e "$tmp/dash" ] && ok || bad "configs joined alike: $(cat "$tmp/stderr")"
+# A second run replaces the folder whole: a config of the first run leaves no file behind.
+"$bin" compare --car cars/caldra-gt.yaml --track tracks/skidpad.yaml --out "$tmp/again" > /dev/null &&
+  "$bin" run --car cars/caldra-gt.yaml --track tracks/skidpad.yaml --config low_drag --out "$tmp/again" \
+    > /dev/null && [ "$(ls "$tmp/again" | tr '\n' ' ')" = "corners.csv report.html summary.json trace-skidpad-low_drag.csv " ] &&
+  [ -z "$(ls -A "$tmp" | grep lapwing-stage)" ] && ok || bad "second run left a mix: $(ls -A "$tmp/again")"
+# A folder holding the user's own files is not replaced.
+mkdir -p "$tmp/mine" && echo keep > "$tmp/mine/notes.txt"
+"$bin" run --car cars/caldra-gt.yaml --track tracks/skidpad.yaml --out "$tmp/mine" > /dev/null 2> "$tmp/stderr"
+[ $? -eq 2 ] && grep -q "will not replace $tmp/mine: it holds notes.txt" "$tmp/stderr" &&
+  [ "$(ls -A "$tmp/mine")" = notes.txt ] && ok || bad "user's folder: $(cat "$tmp/stderr")"
+# Symlinks and devices are written through (finding 4): --json /dev/stdout reaches the pipe and
+# /dev/stdout stays the link it was; a linked --out folder keeps its link.
+"$bin" check --car cars/caldra-gt.yaml --track tracks/skidpad.yaml --json /dev/stdout |
+  grep -q '"corner_count"' && [ -L /dev/stdout ] && ok || bad "check --json /dev/stdout"
+mkdir -p "$tmp/real-out" && ln -s real-out "$tmp/link-out"
+"$bin" run --car cars/caldra-gt.yaml --track tracks/skidpad.yaml --out "$tmp/link-out" > /dev/null &&
+  [ -L "$tmp/link-out" ] && [ -s "$tmp/real-out/summary.json" ] && ok || bad "linked --out replaced"
+# "cannot write" says why (finding 12).
+"$bin" check --car cars/caldra-gt.yaml --track tracks/skidpad.yaml --json "$tmp/mine/notes.txt/x.json" \
+  > /dev/null 2> "$tmp/stderr"
+[ $? -eq 2 ] && grep -q "^lapwing: error: cannot write $tmp/mine/notes.txt/x.json: Not a directory$" "$tmp/stderr" &&
+  ok || bad "cannot write without a reason: $(cat "$tmp/stderr")"
+
 echo "cli: $pass passed, $fail failed"
 [ "$fail" -eq 0 ]
