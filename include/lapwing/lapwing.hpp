@@ -57,6 +57,7 @@
 // study
 #include "lapwing/study/circuit.hpp"
 #include "lapwing/study/compare.hpp"
+#include "lapwing/study/memory.hpp"
 #include "lapwing/study/thread_pool.hpp"
 #include "lapwing/study/trade.hpp"
 

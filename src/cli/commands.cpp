@@ -1,8 +1,10 @@
 #include "commands.hpp"
 
 #include <algorithm>
+#include <cmath>
 #include <filesystem>
 #include <iostream>
+#include <thread>
 
 #include "lapwing/base/error.hpp"
 #include "lapwing/base/format.hpp"
@@ -33,6 +35,7 @@
 #include "lapwing/solve/summary.hpp"
 #include "lapwing/study/circuit.hpp"
 #include "lapwing/study/compare.hpp"
+#include "lapwing/study/memory.hpp"
 #include "lapwing/study/trade.hpp"
 
 namespace lapwing::cli {
@@ -131,12 +134,30 @@ class Inputs {
     sources_.add(std::move(f.sources));
     return std::move(f.car);
   }
-  Circuit lay_out(const std::string& file, const AirOverride& air) {
+  // A track file read, in the air it is run in; laid out (its mesh built) later.
+  struct Loaded {
+    Track track;
+    Air air;
+  };
+  Loaded load(const std::string& file, const AirOverride& air) {
     TrackFile f = read_track_file(file);
     sources_.add(std::move(f.sources));
-    return lapwing::lay_out(f.track, make_air(apply(f.track.air, air)));
+    Air a = make_air(apply(f.track.air, air));
+    return {std::move(f.track), a};
   }
-  std::vector<Circuit> lay_out_all(const std::vector<std::string>& files, const AirOverride& air);
+  Circuit lay_out(const std::string& file, const AirOverride& air) {
+    const Loaded l = load(file, air);
+    return lapwing::lay_out(l.track, l.air);
+  }
+  std::vector<Loaded> load_all(const std::vector<std::string>& files, const AirOverride& air);
+  std::vector<Circuit> lay_out_all(const std::vector<std::string>& files, const AirOverride& air) {
+    return lay_out_each(load_all(files, air));
+  }
+  static std::vector<Circuit> lay_out_each(const std::vector<Loaded>& tracks) {
+    std::vector<Circuit> out;
+    for (const Loaded& l : tracks) out.push_back(lapwing::lay_out(l.track, l.air));
+    return out;
+  }
   InputError error(const InvalidInput& e) const { return sources_.error(e); }
 
  private:
@@ -154,9 +175,9 @@ int located(int (*command)(const Options&, Inputs&), const Options& o) {
   }
 }
 
-std::vector<Circuit> Inputs::lay_out_all(const std::vector<std::string>& files,
-                                         const AirOverride& air) {
-  std::vector<Circuit> out;
+std::vector<Inputs::Loaded> Inputs::load_all(const std::vector<std::string>& files,
+                                             const AirOverride& air) {
+  std::vector<Loaded> out;
   for (std::size_t i = 0; i < files.size(); ++i) {
     for (std::size_t j = 0; j < i; ++j) {
       std::error_code e1, e2;
@@ -165,9 +186,71 @@ std::vector<Circuit> Inputs::lay_out_all(const std::vector<std::string>& files,
       if (files[i] == files[j] || (!e1 && !e2 && a == b))
         throw UsageError{"--track " + files[i] + " is given twice"};
     }
-    out.push_back(this->lay_out(files[i], air));
+    out.push_back(load(files[i], air));
   }
   return out;
+}
+
+// --memory-limit: bytes, or a number with B, kB, MB, GB, TB (powers of 1000) or KiB, MiB, GiB,
+// TiB (powers of 1024), a space between allowed.
+double parse_memory_limit(const std::string& text) {
+  std::size_t used = 0;
+  double v = 0.0;
+  try {
+    v = std::stod(text, &used);
+  } catch (const std::exception&) {
+    used = 0;
+  }
+  std::string unit = text.substr(used);
+  unit.erase(0, std::min(unit.find_first_not_of(' '), unit.size()));
+  const std::pair<const char*, double> units[] = {{"", 1.0},
+                                                  {"B", 1.0},
+                                                  {"kB", 1e3},
+                                                  {"MB", 1e6},
+                                                  {"GB", 1e9},
+                                                  {"TB", 1e12},
+                                                  {"KiB", 1024.0},
+                                                  {"MiB", 1048576.0},
+                                                  {"GiB", 1073741824.0},
+                                                  {"TiB", 1099511627776.0}};
+  for (const auto& [name, scale] : units)
+    if (used > 0 && unit == name && std::isfinite(v) && v > 0) return v * scale;
+  throw UsageError{"--memory-limit: '" + text +
+                   "' is not a size (a positive number of bytes, or with B, kB, MB, GB, TB, KiB, "
+                   "MiB, GiB or TiB)"};
+}
+
+// Refuses, before any mesh is built or lap solved, a study whose estimated peak memory
+// (study/memory.hpp) is over the limit: a usage error naming the largest mesh, the estimate and
+// the limit.
+void require_memory(const std::string& option, const std::vector<Inputs::Loaded>& tracks,
+                    std::size_t laps_kept, bool channels, unsigned threads, std::size_t jobs) {
+  const double limit = option.empty() ? machine_memory_bytes() / 2 : parse_memory_limit(option);
+  if (!(limit > 0)) return;  // the machine's memory unknown: no default limit
+  MemoryPlan plan;
+  plan.laps_kept = laps_kept;
+  plan.channels = channels;
+  if (threads == 0) threads = std::max(1u, std::thread::hardware_concurrency());
+  plan.solvers = static_cast<unsigned>(std::clamp<std::size_t>(jobs, 1, threads));
+  std::size_t largest = 0;
+  for (std::size_t i = 0; i < tracks.size(); ++i) {
+    plan.mesh_points.push_back(mesh_point_count(tracks[i].track, tracks[i].track.mesh_m));
+    if (plan.mesh_points[i] > plan.mesh_points[largest]) largest = i;
+  }
+  const double need = estimate_peak_bytes(plan);
+  if (need <= limit) return;
+  const Track& t = tracks[largest].track;
+  throw UsageError{
+      "needs about " + describe_bytes(need) + " of memory, more than --memory-limit " +
+      describe_bytes(limit) + (option.empty() ? " (half the machine's memory)" : "") + ": " +
+      (tracks.size() > 1 ? "the largest mesh, of " + t.subject() + ", has "
+                         : "the mesh of " + t.subject() + " has ") +
+      std::to_string(plan.mesh_points[largest]) + " points (" + fixed(t.length_m(), 1) +
+      " m at a step of " + format_number(t.mesh_m) + " m)" +
+      (laps_kept > 1 ? ", with " + std::to_string(laps_kept) + " laps kept per track" : "") + ", " +
+      std::to_string(plan.solvers) + (plan.solvers > 1 ? " laps" : " lap") +
+      " solved at once; give a coarser mesh, fewer configs or --threads, or a higher "
+      "--memory-limit"};
 }
 
 // Output file names, made from a track file's stem and config names: one function per kind, used
@@ -544,7 +627,14 @@ int run(const RunOptions& o, Inputs& in) {
   Car car = in.car(o.car);
   apply_model(o.model, car);
   const std::size_t ci = pick_config(car, o.config);
-  const Circuit t = in.lay_out(o.track, air);
+  // In a list of one from the start: the report takes a list, and a copy of a long mesh is not
+  // free (README, "Memory").
+  std::vector<Inputs::Loaded> loaded;
+  loaded.push_back(in.load(o.track, air));
+  require_memory(o.memory_limit, loaded, 0, true, 1, 1);
+  std::vector<Circuit> circuits = Inputs::lay_out_each(loaded);
+  loaded.clear();
+  const Circuit& t = circuits.front();
   LapRun r = run_lap(car.configured(ci), t);
   const LapSummary s = r.summary;
 
@@ -560,13 +650,15 @@ int run(const RunOptions& o, Inputs& in) {
   out += lap_table(s);
 
   if (!o.out.empty()) {
-    std::vector<std::pair<std::string, std::string>> files{
-        {"summary.json", summary_json(car.name, {s})},
-        {trace_file(t, s.config), trace_csv(r.lap, t.mesh)},
-        {"corners.csv", corners_csv({s})}};
     // The single-lap page: the comparison report of one config on one track.
-    const std::vector<Circuit> circuits{t};
     const Comparison one = single_lap_comparison(ci, std::move(r), t);
+    const Lap& lap = one.tracks.front().entries.front().run.lap;
+    std::vector<OutputFile> files;
+    files.push_back({"summary.json", summary_json(car.name, {s})});
+    files.push_back({trace_file(t, s.config), {}, [&](const OutputSink& sink) {
+                       trace_csv(lap, t.mesh, sink);
+                     }});
+    files.push_back({"corners.csv", corners_csv({s})});
     files.push_back(
         {"report.html",
          html_report({&car, &circuits, &one, nullptr,
@@ -607,26 +699,37 @@ int compare(const CompareOptions& o, Inputs& in) {
   Car car = in.car(o.car);
   apply_model(o.model, car);
   const std::vector<std::size_t> configs = pick_configs(car, o.configs);
-  const std::vector<Circuit> circuits = in.lay_out_all(o.tracks, air);
+  std::vector<Inputs::Loaded> loaded = in.load_all(o.tracks, air);
+  require_memory(o.memory_limit, loaded, configs.size(), true, o.threads,
+                 loaded.size() * configs.size());
+  const std::vector<Circuit> circuits = Inputs::lay_out_each(loaded);
+  loaded.clear();
   if (!o.out.empty()) require_unique(compare_files(car, configs, circuits));
   const Comparison c = lapwing::compare(car, configs, circuits, o.threads);
   const std::string out = compare_table(car, c, circuits);
   if (!o.out.empty()) {
-    std::vector<std::pair<std::string, std::string>> files;
+    std::vector<OutputFile> files;
     std::vector<LapSummary> all;
     for (std::size_t t = 0; t < c.tracks.size(); ++t) {
       const auto& entries = c.tracks[t].entries;
       for (const auto& e : entries) {
         all.push_back(e.run.summary);
         files.push_back({trace_file(circuits[t], e.run.summary.config),
-                         trace_csv(e.run.lap, circuits[t].mesh)});
+                         {},
+                         [&e, &m = circuits[t].mesh](const OutputSink& sink) {
+                           trace_csv(e.run.lap, m, sink);
+                         }});
       }
       for (std::size_t a = 0; a < entries.size(); ++a)
         for (std::size_t b = a + 1; b < entries.size(); ++b)
+          // The delta trace is made as its file is written, and freed after it.
           files.push_back(
               {delta_file(circuits[t], entries[a].run.summary.config,
                           entries[b].run.summary.config),
-               delta_csv(circuits[t].mesh, delta_trace(entries[a].run.lap, entries[b].run.lap))});
+               {},
+               [&ea = entries[a], &eb = entries[b], &m = circuits[t].mesh](const OutputSink& sink) {
+                 delta_csv(m, delta_trace(ea.run.lap, eb.run.lap), sink);
+               }});
     }
     files.push_back({"summary.json", summary_json(car.name, all)});
     files.push_back({"corners.csv", corners_csv(all)});
@@ -652,7 +755,11 @@ int trade(const TradeOptions& o, Inputs& in) {
     for (std::size_t i = 0; i < car.configs.size(); ++i) configs.push_back(i);
   else
     configs.push_back(pick_config(car, o.config));
-  const std::vector<Circuit> circuits = in.lay_out_all(o.tracks, air);
+  std::vector<Inputs::Loaded> loaded = in.load_all(o.tracks, air);
+  // Speed and time only; no lap kept; many laps per track (the differences and the grid).
+  require_memory(o.memory_limit, loaded, 0, false, o.threads, std::size_t{1} << 20);
+  const std::vector<Circuit> circuits = Inputs::lay_out_each(loaded);
+  loaded.clear();
   if (!o.out.empty()) {
     std::vector<PlannedFile> planned;
     for (const Circuit& c : circuits) planned.push_back({grid_file(c), "--track " + c.track.file});
@@ -661,8 +768,7 @@ int trade(const TradeOptions& o, Inputs& in) {
   const Trade t = lapwing::trade(car, configs, circuits, options, o.threads);
   const std::string out = trade_table(car, t, circuits);
   if (!o.out.empty()) {
-    std::vector<std::pair<std::string, std::string>> files{
-        {"trade.json", trade_json(car, t, circuits)}};
+    std::vector<OutputFile> files{{"trade.json", trade_json(car, t, circuits)}};
     for (const auto& g : t.grids)
       files.push_back({grid_file(circuits[g.track]), trade_grid_csv(g)});
     files.push_back(

@@ -52,7 +52,7 @@ mode_t created_mode(mode_t full) {
 }
 
 // write(2) until all is written (it may write less, or be interrupted).
-bool write_all(int fd, const std::string& content) {
+bool write_all(int fd, std::string_view content) {
   const char* p = content.data();
   std::size_t left = content.size();
   while (left > 0) {
@@ -203,7 +203,8 @@ class PendingFile {
 // Names inside an output folder: plain file names, each once.
 void check_names(const std::vector<OutputFile>& files) {
   std::set<std::string> seen;
-  for (const auto& [name, content] : files) {
+  for (const auto& f : files) {
+    const std::string& name = f.name;
     if (name.empty() || name == "." || name == ".." || name.find('/') != std::string::npos ||
         name == output_folder_marker)
       throw OutputError("cannot write an output file named '" + name + "'");
@@ -216,7 +217,7 @@ void check_names(const std::vector<OutputFile>& files) {
 // their temporaries, as an earlier version wrote them); else the first entry that is the user's.
 std::string foreign_entry(const fs::path& folder, const std::vector<OutputFile>& files) {
   std::set<std::string> ours;
-  for (const auto& f : files) ours.insert(f.first);
+  for (const auto& f : files) ours.insert(f.name);
   std::vector<std::string> names;
   DIR* d = ::opendir(folder.c_str());
   if (!d) fail("cannot read " + folder.string(), errno);
@@ -253,9 +254,14 @@ void write_files_atomic(const fs::path& dir, const std::vector<OutputFile>& file
   fs::create_directories(dir, ec);
   if (ec) throw OutputError("cannot create " + dir.string() + ": " + ec.message());
   // Every file to its temporary first: a failure on any leaves the folder as it was.
+  std::vector<std::string> contents;  // a streamed file made whole: these files are small
+  for (const auto& f : files) {
+    contents.push_back(f.content);
+    if (f.stream) f.stream([&](std::string_view piece) { contents.back() += piece; });
+  }
   std::vector<std::unique_ptr<PendingFile>> pending;
-  for (const auto& [name, content] : files)
-    pending.push_back(std::make_unique<PendingFile>(dir / name, content));
+  for (std::size_t i = 0; i < files.size(); ++i)
+    pending.push_back(std::make_unique<PendingFile>(dir / files[i].name, contents[i]));
   for (auto& p : pending) p->commit();
 }
 
@@ -310,16 +316,22 @@ void write_outputs(const fs::path& dir, const std::vector<OutputFile>& files) {
     if (folder.get() < 0 || ::flock(folder.get(), LOCK_EX) != 0 ||
         ::fchmod(folder.get(), exists ? st.st_mode & 07777 : created_mode(0777)) != 0)
       fail("cannot create " + shown, errno);
-    std::vector<OutputFile> all = files;
-    all.emplace_back(output_folder_marker,
-                     "A folder lapwing wrote: the next lapwing run with --out here replaces it "
-                     "whole.\n");
-    for (const auto& [name, content] : all) {
+    const OutputFile marker{output_folder_marker,
+                            "A folder lapwing wrote: the next lapwing run with --out here "
+                            "replaces it whole.\n"};
+    auto put = [&](const OutputFile& f) {
       const Fd fd(
-          ::openat(folder.get(), name.c_str(), O_WRONLY | O_CREAT | O_EXCL | O_CLOEXEC, 0666));
-      if (fd.get() < 0 || !write_all(fd.get(), content) || ::fsync(fd.get()) != 0)
-        fail("cannot write " + (dir / name).string(), errno);
-    }
+          ::openat(folder.get(), f.name.c_str(), O_WRONLY | O_CREAT | O_EXCL | O_CLOEXEC, 0666));
+      const auto cannot = [&] { fail("cannot write " + (dir / f.name).string(), errno); };
+      if (fd.get() < 0 || !write_all(fd.get(), f.content)) cannot();
+      if (f.stream)
+        f.stream([&](std::string_view piece) {
+          if (!write_all(fd.get(), piece)) cannot();
+        });
+      if (::fsync(fd.get()) != 0) cannot();
+    };
+    for (const auto& f : files) put(f);
+    put(marker);
     if (::fsync(folder.get()) != 0) fail("cannot write " + shown, errno);
 
     // The one step a reader or a kill sees: the old folder and the new trade places.

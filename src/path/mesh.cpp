@@ -195,6 +195,12 @@ void check_closure(const Track& track) {
 
 }  // namespace
 
+std::size_t mesh_point_count(const Track& track, double step_m) {
+  return std::max<std::size_t>(2,
+                               static_cast<std::size_t>(std::llround(track.length_m() / step_m))) +
+         1;
+}
+
 Mesh build_mesh(const Track& track, double step_m) {
   require_valid(track.validate(), track.subject());
   require_valid(
@@ -202,8 +208,7 @@ Mesh build_mesh(const Track& track, double step_m) {
       "mesh step");
   const double length = track.length_m();
   if (track.closed) check_closure(track);
-  const std::size_t n =
-      std::max<std::size_t>(2, static_cast<std::size_t>(std::llround(length / step_m)));
+  const std::size_t n = mesh_point_count(track, step_m) - 1;
   Mesh m;
   m.closed = track.closed;
   m.length_m = length;

@@ -357,5 +357,19 @@ mkdir -p "$tmp/real-out" && ln -s real-out "$tmp/link-out"
 [ $? -eq 2 ] && grep -q "^lapwing: error: cannot write $tmp/mine/notes.txt/x.json: Not a directory$" "$tmp/stderr" &&
   ok || bad "cannot write without a reason: $(cat "$tmp/stderr")"
 
+# 16. Bounded memory (issue 19, finding 11; deliver 3): a study estimated to need more than
+#     --memory-limit is refused at once, exit 2, naming the mesh, the estimate and the limit, and
+#     writes nothing; under the limit it runs.
+"$bin" compare --car cars/caldra-gt.yaml --track tracks/brannock-park.yaml --threads 1 \
+  --memory-limit 10MB --out "$tmp/mem" > /dev/null 2> "$tmp/stderr"
+[ $? -eq 2 ] && grep -qE "^lapwing: error: needs about [0-9.]+ MB of memory, more than --memory-limit 10.0 MB: the mesh of tracks/brannock-park.yaml has [0-9]+ points \([0-9.]+ m at a step of 0.5 m\), with 2 laps kept per track, 1 lap solved at once" "$tmp/stderr" &&
+  [ ! -e "$tmp/mem" ] && ok || bad "compare over --memory-limit: $(cat "$tmp/stderr")"
+"$bin" run --car cars/caldra-gt.yaml --track tracks/skidpad.yaml --memory-limit "1 GiB" > /dev/null &&
+  ok || bad "run under --memory-limit 1 GiB"
+"$bin" trade --car cars/caldra-gt.yaml --track tracks/skidpad.yaml --memory-limit 1MB > /dev/null 2> "$tmp/stderr"
+[ $? -eq 2 ] && grep -q "more than --memory-limit 1.00 MB: the mesh of tracks/skidpad.yaml has" "$tmp/stderr" &&
+  ok || bad "trade over --memory-limit: $(cat "$tmp/stderr")"
+expect_usage "--memory-limit: '12 parsecs' is not a size" run --car cars/caldra-gt.yaml --track tracks/skidpad.yaml --memory-limit "12 parsecs"
+
 echo "cli: $pass passed, $fail failed"
 [ "$fail" -eq 0 ]

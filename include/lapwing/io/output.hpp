@@ -8,14 +8,24 @@
 #pragma once
 
 #include <filesystem>
+#include <functional>
 #include <string>
-#include <utility>
+#include <string_view>
 #include <vector>
 
 namespace lapwing {
 
-/// One output file: its name in the folder and its bytes.
-using OutputFile = std::pair<std::string, std::string>;
+/// Receives a file's bytes piece by piece, in order.
+using OutputSink = std::function<void(std::string_view)>;
+
+/// One output file: its name in the folder and its bytes, given whole (`content`) or, when
+/// `stream` is set, made piece by piece into the file as it is written: a trace of a long mesh
+/// is never held whole in memory.
+struct OutputFile {
+  std::string name;
+  std::string content;
+  std::function<void(const OutputSink&)> stream = {};
+};
 
 /// The hidden file every output folder holds: it marks the folder as one lapwing wrote, which
 /// the next run may replace whole.

@@ -42,6 +42,11 @@ Closure closure(const Track& track);
 /// `centerline` or `curvature`); a centerline's, its last data point ("centerline.points[i]").
 Mesh build_mesh(const Track& track, double step_m);
 
+/// The number of points build_mesh lays `track` out on at `step_m`: n + 1 for n = the nearest
+/// whole number of steps in the length (at least 2). Known before the mesh is built, so that a
+/// study can be sized first (study/memory.hpp).
+std::size_t mesh_point_count(const Track& track, double step_m);
+
 /// Tolerances on closure: lapwing's rule for a closed track (README, "Track"): within 0.5 % of
 /// the length in position and 2 deg in heading, loose enough for a survey's rounding.
 inline constexpr double closure_position_fraction = 0.005;

@@ -6,6 +6,7 @@
 #include <vector>
 
 #include "lapwing/io/json.hpp"
+#include "lapwing/io/output.hpp"
 #include "lapwing/path/mesh.hpp"
 #include "lapwing/solve/solver.hpp"
 #include "lapwing/solve/summary.hpp"
@@ -18,8 +19,9 @@ std::string summary_json(const std::string& car_name, const std::vector<LapSumma
 /// The "balance" object of a result in summary.json; compare.json writes the same per config.
 void write_balance(JsonWriter& w, const BalanceSummary& b);
 
-/// trace-<track>-<config>.csv, one row per mesh point (README, "Output files").
-std::string trace_csv(const Lap& lap, const Mesh& mesh);
+/// trace-<track>-<config>.csv, one row per mesh point (README, "Output files"), handed to `sink`
+/// in pieces of about 64 KB (never held whole).
+void trace_csv(const Lap& lap, const Mesh& mesh, const OutputSink& sink);
 
 /// corners.csv: the corners arrays of all results, one row per corner, track and config first.
 std::string corners_csv(const std::vector<LapSummary>& results);
