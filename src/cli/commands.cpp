@@ -13,6 +13,7 @@
 #include "lapwing/io/car_file.hpp"
 #include "lapwing/io/document.hpp"
 #include "lapwing/io/json.hpp"
+#include "lapwing/io/line_track.hpp"
 #include "lapwing/io/log_file.hpp"
 #include "lapwing/io/output.hpp"
 #include "lapwing/io/track_data.hpp"
@@ -23,11 +24,13 @@
 #include "lapwing/model/track.hpp"
 #include "lapwing/path/corners.hpp"
 #include "lapwing/path/mesh.hpp"
+#include "lapwing/path/racing_line.hpp"
 #include "lapwing/report/compare_report.hpp"
 #include "lapwing/report/html_report.hpp"
 #include "lapwing/report/lap_files.hpp"
 #include "lapwing/report/lap_text.hpp"
 #include "lapwing/report/text_table.hpp"
+#include "lapwing/report/track_quality_text.hpp"
 #include "lapwing/report/trade_report.hpp"
 #include "lapwing/solve/axle.hpp"
 #include "lapwing/solve/envelope.hpp"
@@ -36,6 +39,8 @@
 #include "lapwing/study/circuit.hpp"
 #include "lapwing/study/compare.hpp"
 #include "lapwing/study/memory.hpp"
+#include "lapwing/study/min_time_line.hpp"
+#include "lapwing/study/track_quality.hpp"
 #include "lapwing/study/trade.hpp"
 
 namespace lapwing::cli {
@@ -134,16 +139,21 @@ class Inputs {
     sources_.add(std::move(f.sources));
     return std::move(f.car);
   }
+  // A track file read, as it is.
+  Track track(const std::string& file) {
+    TrackFile f = read_track_file(file);
+    sources_.add(std::move(f.sources));
+    return std::move(f.track);
+  }
   // A track file read, in the air it is run in; laid out (its mesh built) later.
   struct Loaded {
     Track track;
     Air air;
   };
   Loaded load(const std::string& file, const AirOverride& air) {
-    TrackFile f = read_track_file(file);
-    sources_.add(std::move(f.sources));
-    Air a = make_air(apply(f.track.air, air));
-    return {std::move(f.track), a};
+    Track t = track(file);
+    const Air a = make_air(apply(t.air, air));
+    return {std::move(t), a};
   }
   Circuit lay_out(const std::string& file, const AirOverride& air) {
     const Loaded l = load(file, air);
@@ -222,9 +232,10 @@ double parse_memory_limit(const std::string& text) {
 
 // Refuses, before any mesh is built or lap solved, a study whose estimated peak memory
 // (study/memory.hpp) is over the limit: a usage error naming the largest mesh, the estimate and
-// the limit.
+// the limit. `verdict`: the data-quality verdict is made (its smoothing variants' meshes).
 void require_memory(const std::string& option, const std::vector<Inputs::Loaded>& tracks,
-                    std::size_t laps_kept, bool channels, unsigned threads, std::size_t jobs) {
+                    std::size_t laps_kept, bool channels, unsigned threads, std::size_t jobs,
+                    bool verdict) {
   const double limit = option.empty() ? machine_memory_bytes() / 2 : parse_memory_limit(option);
   if (!(limit > 0)) return;  // the machine's memory unknown: no default limit
   MemoryPlan plan;
@@ -236,6 +247,9 @@ void require_memory(const std::string& option, const std::vector<Inputs::Loaded>
   for (std::size_t i = 0; i < tracks.size(); ++i) {
     plan.mesh_points.push_back(mesh_point_count(tracks[i].track, tracks[i].track.mesh_m));
     if (plan.mesh_points[i] > plan.mesh_points[largest]) largest = i;
+    // A fitted centerline's verdict lays it out again at half and double the strength.
+    const auto& p = tracks[i].track.profile;
+    if (verdict && p && p->source == PathProfile::Source::centerline) plan.variant_meshes = 2;
   }
   const double need = estimate_peak_bytes(plan);
   if (need <= limit) return;
@@ -332,9 +346,10 @@ namespace {
 // Per config: what check reports of its aero at a few speeds in one air.
 void describe_config(const Car& car, std::size_t index, const Air& air, std::string& out,
                      JsonWriter& j) {
-  const Car cc = car.configured(index);
-  const AeroConfig& a = cc.configs.front();
-  const Envelope env(cc, air);
+  const ConfiguredCar configured = car.configured(index);
+  const Car& cc = configured.car();
+  const AeroConfig& a = configured.aero();
+  const Envelope env(configured, air);
   const AeroPoint rest = env.aero_point(0.0);
   j.begin_object()
       .field("name", a.name)
@@ -370,7 +385,8 @@ void describe_config(const Car& car, std::size_t index, const Air& air, std::str
     const double share = p.balance;
     const std::optional<double> with_moment = aero_balance_with_drag_moment(
         p.cla_m2, p.cda_m2, p.balance, cc.drag_height_m, cc.wheelbase_m);
-    const double front_aero = down * p.balance - drag * cc.drag_height_m / cc.wheelbase_m;
+    const double front_aero =
+        aero_axle_loads(down, p.balance, drag, cc.drag_height_m, cc.wheelbase_m).front_n;
     if (!with_moment) no_downforce = true;
     std::vector<std::string> row{fixed(speed_kph, 0),
                                  fixed(down, 0),
@@ -415,7 +431,7 @@ void describe_config(const Car& car, std::size_t index, const Air& air, std::str
     notes.push_back("straight-line trim: CdA " + fixed(a.trim->dcda_m2, 3) + " m2, ClA " +
                     fixed(a.trim->dcla_m2, 3) + " m2, balance " + fixed(100 * a.trim->dbalance, 1) +
                     " points where |curvature| < " + fixed(a.trim->below_curvature_1pm, 4) +
-                    " 1/m under full drive");
+                    " 1/m under drive");
   j.key("notes").begin_array();
   for (const auto& n : notes) {
     out += "       note: " + n + "\n";
@@ -473,7 +489,7 @@ int check(const CheckOptions& o, Inputs& in) {
       const bool fitted = p.source == PathProfile::Source::centerline;
       out += "       from " + p.data_file +
              (fitted ? std::string(p.geodetic ? " (WGS-84 lat/lon, tangent plane)" : "") +
-                           ": smoothing " + fixed(p.smoothing_m, 1) + " m, fit residual " +
+                           ": smoothing " + smoothing_text(p) + ", fit residual " +
                            fixed(1000 * p.fit_residual_rms_m, 1) + " mm rms, curvature noise " +
                            fixed(p.curvature_noise_rms_1pm, 5) + " 1/m rms"
                      : std::string(": curvature as given") +
@@ -481,6 +497,7 @@ int check(const CheckOptions& o, Inputs& in) {
              "\n";
       for (const auto& n : p.notes) out += "       note: " + n + "\n";
     }
+    if (t.track.line_path) out += "       " + line_text(t.track) + "\n";
     std::vector<std::vector<std::string>> trows;
     j.begin_object()
         .field("name", t.track.name)
@@ -515,86 +532,77 @@ int check(const CheckOptions& o, Inputs& in) {
           .end_object();
     }
     j.end_array();
-    if (t.track.profile && t.track.profile->source == PathProfile::Source::centerline) {
-      // How much the smoothing choice matters: the lap at half and double the length. A variant
-      // that cannot be laid out or solved (a tighter fit can make a start speed too high, or a
-      // lap not close) is a note naming it: the track itself is what run takes.
-      const PathProfile& p = *t.track.profile;
-      const double factors[3] = {0.5, 1.0, 2.0};
-      const char* variant_names[3] = {"half", "as given", "double"};
-      std::vector<std::string> notes;
-      auto variant_label = [&](int k) {
-        return "the centerline smoothed over " + fixed(factors[k] * p.smoothing_m, 1) + " m (" +
-               variant_names[k] + ")";
-      };
-      std::optional<Circuit> variants[3];
-      for (int k = 0; k < 3; ++k) {
-        if (factors[k] == 1.0) {
-          variants[k] = t;
-          continue;
-        }
-        try {
-          Track v = t.track;
-          CenterlineOptions co;
-          co.smoothing_m = p.smoothing_m * factors[k];
-          co.elevation_smoothing_m = p.elevation_smoothing_m;
-          v.profile = import_centerline(p.data_file, v.closed, co);
-          variants[k] = lapwing::lay_out(v, t.air);
-        } catch (const InputError& e) {
-          notes.push_back(variant_label(k) + " cannot be laid out: " + e.message());
-        } catch (const InvalidInput& e) {
-          notes.push_back(variant_label(k) + " cannot be laid out: " + in.error(e).message());
-        }
+    // The data's verdict: per config, from the lap at half and double the smoothing strength
+    // (study/track_quality.hpp); the track's line is the worst config's.
+    const SmoothingVariants variants = smoothing_variants(t);
+    std::vector<TrackQuality> qualities;
+    std::vector<std::string> solve_notes;
+    for (std::size_t c = 0; c < car.configs.size(); ++c) {
+      const ConfiguredCar cc = car.configured(c);
+      try {
+        const double lap = run_lap(cc, t).summary.lap_time_s;
+        qualities.push_back(assess_track(t, variants, cc, car.configs[c].name, lap));
+      } catch (const InvalidInput& e) {
+        solve_notes.push_back("config " + car.configs[c].name +
+                              " cannot lap the track: " + in.error(e).message());
+      } catch (const CannotMove& e) {
+        solve_notes.push_back("config " + car.configs[c].name +
+                              " cannot complete the track: " + e.what());
       }
+    }
+    const bool fitted =
+        t.track.profile && t.track.profile->source == PathProfile::Source::centerline;
+    if (fitted) {
+      const PathProfile& p = *t.track.profile;
       std::vector<std::vector<std::string>> srows;
+      std::vector<std::string> notes = variants.notes;
       j.key("smoothing_sensitivity").begin_array();
-      for (std::size_t c = 0; c < car.configs.size(); ++c) {
-        const Car cc = car.configured(c);
-        std::optional<double> laps[3];
-        for (int k = 0; k < 3; ++k) {
-          if (!variants[k]) continue;
-          try {
-            laps[k] = run_lap(cc, *variants[k]).summary.lap_time_s;
-          } catch (const InputError& e) {
-            notes.push_back(variant_label(k) + " cannot be solved with config " +
-                            car.configs[c].name + ": " + e.message());
-          } catch (const InvalidInput& e) {
-            notes.push_back(variant_label(k) + " cannot be solved with config " +
-                            car.configs[c].name + ": " + in.error(e).message());
-          } catch (const CannotMove& e) {
-            notes.push_back(variant_label(k) + " cannot be solved with config " +
-                            car.configs[c].name + ": the car cannot complete it: " + e.what());
-          }
-        }
+      for (const auto& q : qualities) {
         auto cell = [](const std::optional<double>& v) {
           return v ? fixed(*v, 3) : std::string("-");
         };
-        srows.push_back({car.configs[c].name, cell(laps[0]), cell(laps[1]), cell(laps[2]),
-                         laps[0] && laps[1] && laps[2]
-                             ? fixed(100 * (*laps[2] - *laps[0]) / *laps[1], 2)
-                             : std::string("-")});
-        j.begin_object().field("config", car.configs[c].name);
+        srows.push_back({q.config, cell(q.lap_half_s), cell(q.lap_s), cell(q.lap_double_s),
+                         q.spread ? fixed(100 * *q.spread, 2) : std::string("-")});
+        for (const auto& n : q.notes)
+          if (std::find(notes.begin(), notes.end(), n) == notes.end()) notes.push_back(n);
+        j.begin_object().field("config", q.config);
         const char* keys[3] = {"half_s", "as_given_s", "double_s"};
+        const std::optional<double>* laps[3] = {&q.lap_half_s, &q.lap_s, &q.lap_double_s};
         for (int k = 0; k < 3; ++k) {
           j.key(keys[k]);
-          if (laps[k])
-            j.value(*laps[k]);
+          if (*laps[k])
+            j.value(**laps[k]);
           else
             j.null();
         }
         j.end_object();
       }
       j.end_array();
+      j.field("smoothing_m", p.smoothing_m).field("smoothing_auto", p.smoothing.automatic);
+      j.field("smoothing_half_m", variants.half_length_m)
+          .field("smoothing_double_m", variants.double_length_m);
       j.key("smoothing_sensitivity_notes").begin_array();
       for (const auto& n : notes) j.value(n);
       j.end_array();
       out +=
-          "       lap time with the centerline smoothed over half, the given and double length\n" +
-          text_table({"config", "lap s at " + fixed(0.5 * p.smoothing_m, 1) + " m",
+          "       lap time with the centerline smoothed at half, the chosen and double the "
+          "strength (lambda)\n" +
+          text_table({"config", "lap s at " + fixed(variants.half_length_m, 1) + " m",
                       "at " + fixed(p.smoothing_m, 1) + " m",
-                      "at " + fixed(2 * p.smoothing_m, 1) + " m", "spread %"},
+                      "at " + fixed(variants.double_length_m, 1) + " m", "spread %"},
                      srows);
       for (const auto& n : notes) out += "       note: " + n + "\n";
+    }
+    for (const auto& n : solve_notes) out += "       note: " + n + "\n";
+    // One line per track: the worst config's verdict (they differ only in the lap spread).
+    const TrackQuality* shown = nullptr;
+    for (const auto& q : qualities)
+      if (!shown || q.verdict > shown->verdict ||
+          (q.verdict == shown->verdict && q.spread.value_or(0) > shown->spread.value_or(0)))
+        shown = &q;
+    if (shown) {
+      out += "       " + quality_line(*shown) + "\n";
+      write_track_quality(j, *shown);
     }
     j.end_object();
     out += text_table({"config", "top speed km/h (this air, level)", "limit"}, trows);
@@ -631,11 +639,16 @@ int run(const RunOptions& o, Inputs& in) {
   // free (README, "Memory").
   std::vector<Inputs::Loaded> loaded;
   loaded.push_back(in.load(o.track, air));
-  require_memory(o.memory_limit, loaded, 0, true, 1, 1);
+  require_memory(o.memory_limit, loaded, 0, true, 1, 1, true);
   std::vector<Circuit> circuits = Inputs::lay_out_each(loaded);
   loaded.clear();
   const Circuit& t = circuits.front();
-  LapRun r = run_lap(car.configured(ci), t);
+  const ConfiguredCar configured = car.configured(ci);
+  LapRun r = run_lap(configured, t);
+  // The data's verdict; a poor one is a warning with the lap's own.
+  const TrackQuality quality = assess_track(t, smoothing_variants(t), configured,
+                                            car.configs[ci].name, r.summary.lap_time_s);
+  if (quality.verdict == Verdict::poor) r.summary.warnings.push_back(quality_warning(quality));
   const LapSummary s = r.summary;
 
   std::string out;
@@ -646,6 +659,11 @@ int run(const RunOptions& o, Inputs& in) {
   out += "air     " + describe_air(t.air) + "\n";
   if (t.track.profile)
     for (const auto& n : t.track.profile->notes) out += "note    " + n + "\n";
+  if (t.track.profile && t.track.profile->source == PathProfile::Source::centerline)
+    out += "smoothing " + smoothing_text(*t.track.profile) + "\n";
+  if (t.track.line_path) out += line_text(t.track) + "\n";
+  out += quality_line(quality) + "\n";
+  for (const auto& n : quality.notes) out += "note    " + n + "\n";
   out += "\n";
   out += lap_table(s);
 
@@ -653,8 +671,9 @@ int run(const RunOptions& o, Inputs& in) {
     // The single-lap page: the comparison report of one config on one track.
     const Comparison one = single_lap_comparison(ci, std::move(r), t);
     const Lap& lap = one.tracks.front().entries.front().run.lap;
+    const std::vector<TrackQuality> qualities{quality};
     std::vector<OutputFile> files;
-    files.push_back({"summary.json", summary_json(car.name, {s})});
+    files.push_back({"summary.json", summary_json(car.name, {s}, qualities)});
     files.push_back({trace_file(t, s.config), {}, [&](const OutputSink& sink) {
                        trace_csv(lap, t.mesh, sink);
                      }});
@@ -663,7 +682,8 @@ int run(const RunOptions& o, Inputs& in) {
         {"report.html",
          html_report({&car, &circuits, &one, nullptr,
                       "run, config " + s.config + ", " +
-                          (car.model == VehicleModel::axle ? "axle" : "point-mass") + " model"})});
+                          (car.model == VehicleModel::axle ? "axle" : "point-mass") + " model",
+                      &qualities})});
     write_outputs(o.out, files);
   }
   std::cout << out;
@@ -700,14 +720,24 @@ int compare(const CompareOptions& o, Inputs& in) {
   apply_model(o.model, car);
   const std::vector<std::size_t> configs = pick_configs(car, o.configs);
   std::vector<Inputs::Loaded> loaded = in.load_all(o.tracks, air);
+  // The verdicts (with --out) lay a fitted centerline out twice more.
   require_memory(o.memory_limit, loaded, configs.size(), true, o.threads,
-                 loaded.size() * configs.size());
+                 loaded.size() * configs.size(), !o.out.empty());
   const std::vector<Circuit> circuits = Inputs::lay_out_each(loaded);
   loaded.clear();
   if (!o.out.empty()) require_unique(compare_files(car, configs, circuits));
   const Comparison c = lapwing::compare(car, configs, circuits, o.threads);
   const std::string out = compare_table(car, c, circuits);
   if (!o.out.empty()) {
+    // The data's verdicts, per track and config (summary.json, the report).
+    std::vector<TrackQuality> qualities;
+    for (std::size_t t = 0; t < c.tracks.size(); ++t) {
+      const SmoothingVariants variants = smoothing_variants(circuits[t]);
+      for (std::size_t k = 0; k < configs.size(); ++k)
+        qualities.push_back(assess_track(circuits[t], variants, car.configured(configs[k]),
+                                         car.configs[configs[k]].name,
+                                         c.tracks[t].entries[k].run.summary.lap_time_s));
+    }
     std::vector<OutputFile> files;
     std::vector<LapSummary> all;
     for (std::size_t t = 0; t < c.tracks.size(); ++t) {
@@ -731,10 +761,11 @@ int compare(const CompareOptions& o, Inputs& in) {
                  delta_csv(m, delta_trace(ea.run.lap, eb.run.lap), sink);
                }});
     }
-    files.push_back({"summary.json", summary_json(car.name, all)});
+    files.push_back({"summary.json", summary_json(car.name, all, qualities)});
     files.push_back({"corners.csv", corners_csv(all)});
     files.push_back({"compare.json", compare_json(car, c, circuits)});
-    files.push_back({"report.html", html_report({&car, &circuits, &c, nullptr, "compare"})});
+    files.push_back(
+        {"report.html", html_report({&car, &circuits, &c, nullptr, "compare", &qualities})});
     write_outputs(o.out, files);
   }
   std::cout << out;
@@ -757,7 +788,7 @@ int trade(const TradeOptions& o, Inputs& in) {
     configs.push_back(pick_config(car, o.config));
   std::vector<Inputs::Loaded> loaded = in.load_all(o.tracks, air);
   // Speed and time only; no lap kept; many laps per track (the differences and the grid).
-  require_memory(o.memory_limit, loaded, 0, false, o.threads, std::size_t{1} << 20);
+  require_memory(o.memory_limit, loaded, 0, false, o.threads, std::size_t{1} << 20, false);
   const std::vector<Circuit> circuits = Inputs::lay_out_each(loaded);
   loaded.clear();
   if (!o.out.empty()) {
@@ -812,8 +843,9 @@ int track_from_log(const FromLogOptions& o) {
   l.yaw_unit = o.yaw_unit;
   l.closed = o.closed;
   l.name = o.name;
-  l.smoothing_m =
-      *option_value(o.smoothing, "--smoothing", Quantity::length, LogOptions::smoothing_range);
+  if (o.smoothing != "auto")
+    l.smoothing_m =
+        *option_value(o.smoothing, "--smoothing", Quantity::length, LogOptions::smoothing_range);
   l.air = apply(AirSpec{}, parse_air(o.air));
   const std::string csv_name = out.stem().string() + ".csv";
   const LogTrack t = lapwing::track_from_log(l, csv_name);
@@ -827,8 +859,138 @@ int track_from_log(const FromLogOptions& o) {
                           " deg, position " + fixed(t.closure_gap_m, 1) + " m"
                     : ", start speed " + fixed(units::to_kph(t.start_speed_mps), 1) +
                           " km/h (the log's first)")
-            << ", peak lateral acceleration " << fixed(t.peak_lateral_g, 2) << " g\n";
+            << ", peak lateral acceleration " << fixed(t.peak_lateral_g, 2) << " g\n"
+            << "filter  " << fixed(t.smoothing_m, 1) << " m"
+            << (t.smoothing.automatic
+                    ? std::string(" (auto: ") +
+                          (t.smoothing.at_lower_bound ? "the shortest length searched, 2 row "
+                                                        "spacings: the log shows no noise GCV "
+                                                        "can tell from the path"
+                           : t.smoothing.at_upper_bound
+                               ? "the longest length searched: the log looks like noise"
+                               : "GCV's minimum on the rows, " +
+                                     fixed(t.smoothing.chosen_at_spacing_m, 2) + " m apart") +
+                          ")"
+                    : std::string(" (given)"))
+            << "\n";
   return 0;
+}
+
+namespace {
+// The files `track line` writes (OUT.yaml and OUT.csv beside it) must not replace the track it
+// reads or its data: the source would be lost, or a track left naming data of another path.
+// A usage error before anything is solved or written.
+void require_not_input(const std::filesystem::path& out, const Track& track) {
+  const std::filesystem::path dir = out.parent_path().empty() ? "." : out.parent_path();
+  std::vector<std::string> inputs{track.file};
+  for (const auto* p : {&track.profile, &track.line_path})
+    if (*p && !(*p)->data_file.empty()) inputs.push_back((*p)->data_file);
+  for (const std::filesystem::path& written : {out, dir / (out.stem().string() + ".csv")})
+    for (const std::string& input : inputs) {
+      std::error_code e1, e2;
+      const auto a = std::filesystem::weakly_canonical(written, e1);
+      const auto b = std::filesystem::weakly_canonical(input, e2);
+      if (!e1 && !e2 && a == b)
+        throw UsageError{"--out " + out.string() + " would replace " + input +
+                         ", which the track reads: write the line to another name"};
+    }
+}
+
+int track_line(const TrackLineOptions& o, Inputs& in) {
+  const std::filesystem::path out(o.out);
+  if (out.extension() != ".yaml") throw UsageError{"--out must name a .yaml track file"};
+  if (o.method != "min-curvature" && o.method != "min-time")
+    throw UsageError{"--method: '" + o.method + "' is not one of min-curvature | min-time"};
+  const bool min_time = o.method == "min-time";
+  if (min_time && o.car.empty())
+    throw UsageError{"--method min-time needs --car: the minimum-time line depends on the car"};
+  if (!o.config.empty() && o.car.empty()) throw UsageError{"--config needs --car"};
+  const AirOverride air = parse_air(o.air);
+  const Track track = in.track(o.track);
+  require_not_input(out, track);
+  LineSpec spec = track.line.value_or(LineSpec{});
+  if (const auto w = option_value(o.vehicle_width, "--vehicle-width", Quantity::length,
+                                  LineSpec::vehicle_width_range))
+    spec.vehicle_width_m = *w;
+  if (const auto m = option_value(o.margin, "--margin", Quantity::length, LineSpec::margin_range))
+    spec.margin_m = *m;
+  spec.method = min_time ? LineSpec::Method::min_time : LineSpec::Method::min_curvature;
+  const AirSpec air_spec = apply(track.air, air);
+  const Air a = make_air(air_spec);
+  // The line is laid over the described path (a line: key of the source is replaced).
+  Track described = track;
+  described.line.reset();
+  described.line_path.reset();
+  std::optional<Car> car;
+  if (!o.car.empty()) car = in.car(o.car);
+  const std::size_t ci = car ? pick_config(*car, o.config) : 0;
+  std::optional<ConfiguredCar> configured;
+  if (car) configured.emplace(*car, ci);
+
+  // A track without widths, or too narrow for the vehicle and its margins: an InvalidInput of
+  // the track's "line" key (at the line: key, else the file as a whole).
+  PathProfile line;
+  std::optional<double> centerline_lap, min_curvature_lap, line_lap;
+  int passes = 0;
+  if (min_time) {
+    const MinTimeLine m = min_time_line(described, a, *configured, spec);
+    line = m.line;
+    min_curvature_lap = m.min_curvature_lap_s;
+    line_lap = m.lap_s;
+    passes = m.passes;
+  } else {
+    const LineReference ref = line_reference(described);
+    lapwing::LineOptions lo;
+    lo.vehicle_width_m = spec.vehicle_width_m;
+    lo.margin_m = spec.margin_m;
+    line = line_profile(ref, min_curvature_line(ref, lo));
+  }
+  Track lined = described;
+  lined.line_path = line;
+  if (configured) {
+    centerline_lap = run_lap(*configured, lapwing::lay_out(described, a)).summary.lap_time_s;
+    if (!line_lap) line_lap = run_lap(*configured, lapwing::lay_out(lined, a)).summary.lap_time_s;
+  }
+  const std::string csv_name = out.stem().string() + ".csv";
+  const LineTrackFiles files =
+      line_track_files(described, line, air_spec, o.method, spec, csv_name);
+  const std::filesystem::path dir = out.parent_path().empty() ? "." : out.parent_path();
+  // Beside other tracks: file by file, the data first, the track file that names it last.
+  write_files_atomic(dir, {{csv_name, files.csv}, {out.filename().string(), files.yaml}});
+
+  std::size_t widest = 0;
+  for (std::size_t i = 0; i < line.offset_m.size(); ++i)
+    if (std::abs(line.offset_m[i]) > std::abs(line.offset_m[widest])) widest = i;
+  std::string text = "track   " + o.out + " and " + (dir / csv_name).string() + "\n";
+  text += "line    " + o.method + ", vehicle " + fixed(spec.vehicle_width_m, 2) +
+          " m wide, margin " + fixed(spec.margin_m, 2) + " m: " + fixed(line.s_m.back(), 1) +
+          " m long (the centerline " + fixed(described.length_m(), 1) + " m), largest offset " +
+          fixed(std::abs(line.offset_m[widest]), 2) + " m " +
+          (line.offset_m[widest] >= 0 ? "left" : "right") + " at " +
+          fixed(line.reference_s_m[widest], 1) + " m of the centerline\n";
+  if (configured) {
+    const std::string config = car->configs[ci].name;
+    auto delta = [&](double lap) {
+      return " (" + std::string(lap <= *centerline_lap ? "" : "+") +
+             fixed(100 * (lap / *centerline_lap - 1), 2) + " %)";
+    };
+    text += "lap     " + car->name + ", config " + config + ": centerline " +
+            fixed(*centerline_lap, 3) + " s";
+    if (min_curvature_lap)
+      text += ", min-curvature line " + fixed(*min_curvature_lap, 3) + " s" +
+              delta(*min_curvature_lap) + ", min-time line " + fixed(*line_lap, 3) + " s" +
+              delta(*line_lap) + " after " + std::to_string(passes) + " passes";
+    else
+      text += ", line " + fixed(*line_lap, 3) + " s" + delta(*line_lap);
+    text += "\n";
+  }
+  std::cout << text;
+  return 0;
+}
+}  // namespace
+
+int track_line(const TrackLineOptions& o) {
+  return located(&track_line, o);
 }
 
 }  // namespace lapwing::cli

@@ -11,6 +11,7 @@
 #include "lapwing/io/csv.hpp"
 #include "lapwing/io/csv_writer.hpp"
 #include "lapwing/io/json.hpp"
+#include "lapwing/io/line_track.hpp"
 #include "lapwing/model/track.hpp"
 #include "lapwing/path/log_curvature.hpp"
 
@@ -65,7 +66,11 @@ std::optional<Violation> LogOptions::validate() const {
             [&] { return unit("accel", accel_unit); })
       .rule(!by_yaw || yaw_scale(yaw_unit).has_value(), "yaw_unit",
             [&] { return unit("yaw", yaw_unit); })
-      .range("smoothing", smoothing_m, smoothing_range, Quantity::length)
+      .rule(!smoothing_m || smoothing_range.contains(*smoothing_m), "smoothing",
+            [&] {
+              return out_of_range("smoothing", *smoothing_m, smoothing_range, Quantity::length)
+                  .message();
+            })
       .range("min_speed", min_speed_mps, positive(), Quantity::speed)
       .part("air", [&] { return air.validate(); })
       .result();
@@ -150,7 +155,7 @@ LogTrack track_from_log(const LogOptions& o, const std::string& csv_name) {
     std::ostringstream os;
     os.precision(3);
     os << "the log implies a lateral acceleration of " << lc.peak_lateral_g
-       << " g here (curvature x speed^2, filtered over " << o.smoothing_m << " m), more than the "
+       << " g here (curvature x speed^2, filtered over " << lc.smoothing_m << " m), more than the "
        << log_max_lateral_g << " g no car exceeds: " << unit_hint(true);
     throw InputError(o.log, Mark{t.lines[lc.peak_row], 1}, os.str());
   }
@@ -173,7 +178,7 @@ LogTrack track_from_log(const LogOptions& o, const std::string& csv_name) {
     std::ostringstream os;
     os.precision(3);
     os << "the track from this log turns tighter than a 1 m radius near this row (curvature "
-       << lc.tightest_1pm << " 1/m, filtered over " << o.smoothing_m << " m"
+       << lc.tightest_1pm << " 1/m, filtered over " << lc.smoothing_m << " m"
        << (o.closed ? ", its closure spread along the lap" : "")
        << "); a track's is at most 1/m: is the log too short or too slow for a track?";
     throw InputError(o.log, Mark{t.lines[lc.tightest_row], 1}, os.str());
@@ -184,6 +189,8 @@ LogTrack track_from_log(const LogOptions& o, const std::string& csv_name) {
   out.peak_lateral_g = lc.peak_lateral_g;
   out.closure_heading_deg = lc.closure_heading_deg;
   out.closure_gap_m = lc.closure_gap_m;
+  out.smoothing_m = lc.smoothing_m;
+  out.smoothing = lc.smoothing;
   CsvWriter<ProfileRow> csv(profile_columns, lc.s_m.size());
   for (std::size_t j = 0; j < lc.s_m.size(); ++j) csv.add({lc.s_m[j], lc.curvature_1pm[j]});
   std::ostringstream y_out;
@@ -193,19 +200,12 @@ LogTrack track_from_log(const LogOptions& o, const std::string& csv_name) {
   y_out << "# Made by 'lapwing track from-log' from "
         << printable(std::filesystem::path(o.log).filename().string()) << ": curvature from "
         << (by_yaw ? "yaw rate / speed" : "lateral acceleration / speed^2") << ", filtered over "
-        << o.smoothing_m << " m.\n";
+        << fixed(lc.smoothing_m, 1) << " m"
+        << (lc.smoothing.automatic ? " (auto: generalised cross-validation)" : "") << ".\n";
   y_out << "format: 1\nname: " << json_quote(name) << "\nclosed: " << (o.closed ? "true" : "false")
         << "\n";
   if (!o.closed) y_out << "start_speed: " << format_number(v0) << " m/s  # the log's first\n";
-  y_out << "altitude: " << format_number(o.air.altitude_m) << " m\n";
-  if (o.air.temperature_k || o.air.pressure_pa || o.air.relative_humidity > 0.0) {
-    std::string ambient;
-    auto add = [&](const std::string& item) { ambient += (ambient.empty() ? "" : ", ") + item; };
-    if (o.air.temperature_k) add("temperature: " + format_number(*o.air.temperature_k) + " K");
-    if (o.air.pressure_pa) add("pressure: " + format_number(*o.air.pressure_pa) + " Pa");
-    if (o.air.relative_humidity > 0.0) add("humidity: " + format_number(o.air.relative_humidity));
-    y_out << "ambient: {" << ambient << "}\n";
-  }
+  y_out << air_yaml(o.air);
   y_out << "mesh: 0.5 m\ncurvature: {file: " << json_quote(csv_name) << "}\n";
   out.yaml = y_out.str();
   out.csv = csv.take();

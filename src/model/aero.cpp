@@ -7,37 +7,26 @@
 #include <stdexcept>
 #include <string>
 
+#include "lapwing/base/interpolate.hpp"
+#include "lapwing/model/loads.hpp"
+
 namespace lapwing {
 
 namespace {
 
-// Cell and weight of x on a strictly increasing axis, clamped to the ends.
-struct Cell {
-  std::size_t i;
-  double w;
-  bool off;
-};
-Cell locate(const std::vector<double>& axis, double x) {
-  if (x <= axis.front()) return {0, 0.0, x < axis.front()};
-  if (x >= axis.back()) return {axis.size() - 2, 1.0, x > axis.back()};
-  const auto it = std::upper_bound(axis.begin(), axis.end(), x);
-  const std::size_t i = static_cast<std::size_t>(it - axis.begin()) - 1;
-  return {i, (x - axis[i]) / (axis[i + 1] - axis[i]), false};
-}
-
-double bilinear(const Eigen::MatrixXd& m, const Cell& f, const Cell& r) {
+// Bilinear: linear along the rear axis on the two front nodes, then along the front axis.
+double bilinear(const Eigen::MatrixXd& m, const Bracket& f, const Bracket& r) {
   const auto i = static_cast<Eigen::Index>(f.i), j = static_cast<Eigen::Index>(r.i);
-  const double a = m(i, j) + r.w * (m(i, j + 1) - m(i, j));
-  const double b = m(i + 1, j) + r.w * (m(i + 1, j + 1) - m(i + 1, j));
-  return a + f.w * (b - a);
+  return lerp(lerp(m(i, j), m(i, j + 1), r.w), lerp(m(i + 1, j), m(i + 1, j + 1), r.w), f.w);
 }
 
 }  // namespace
 
 MapCoefficients map_coefficients(const RideHeightMap& map, double front_m, double rear_m) {
-  const Cell f = locate(map.front_m, front_m), r = locate(map.rear_m, rear_m);
+  bool f_off = false, r_off = false;
+  const Bracket f = bracket(map.front_m, front_m, &f_off), r = bracket(map.rear_m, rear_m, &r_off);
   return {bilinear(map.cda_m2, f, r), bilinear(map.cla_m2, f, r), bilinear(map.balance, f, r),
-          f.off || r.off};
+          f_off || r_off};
 }
 
 AeroPoint solve_ride_heights(const RideHeightMap& map, double v, double rho, double z_drag,
@@ -46,11 +35,9 @@ AeroPoint solve_ride_heights(const RideHeightMap& map, double v, double rho, dou
   // Residual G(h) = h - (h0 - F(h) / k), zero at the operating point.
   auto residual = [&](const Eigen::Vector2d& h) {
     const MapCoefficients c = map_coefficients(map, h[0], h[1]);
-    const double moment = q * c.cda_m2 * z_drag / wheelbase;
-    const double f_front = q * c.cla_m2 * c.balance - moment;
-    const double f_rear = q * c.cla_m2 * (1.0 - c.balance) + moment;
-    return Eigen::Vector2d(h[0] - (map.static_front_m - f_front / map.stiffness_front_npm),
-                           h[1] - (map.static_rear_m - f_rear / map.stiffness_rear_npm));
+    const AxleLoads f = aero_axle_loads(q * c.cla_m2, c.balance, q * c.cda_m2, z_drag, wheelbase);
+    return Eigen::Vector2d(h[0] - (map.static_front_m - f.front_n / map.stiffness_front_npm),
+                           h[1] - (map.static_rear_m - f.rear_n / map.stiffness_rear_npm));
   };
   constexpr double tolerance_m = 1e-10;  // far below any map's resolution
   constexpr int max_iterations = 60;

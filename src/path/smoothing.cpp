@@ -1,8 +1,11 @@
 #include "lapwing/path/smoothing.hpp"
 
 #include <algorithm>
+#include <cassert>
 #include <cmath>
+#include <cstdint>
 #include <limits>
+#include <variant>
 
 #include "lapwing/base/units.hpp"
 
@@ -34,12 +37,13 @@ struct Envelope {
   std::vector<T> a;                       // the rows, then L (unit lower) in place
   std::vector<T> d;                       // D of L D L'
 
-  explicit Envelope(std::vector<std::size_t> first_column) : first(std::move(first_column)) {
+  explicit Envelope(const std::vector<std::size_t>& first_column) : first(first_column) {
     start.resize(first.size() + 1, 0);
     for (std::size_t i = 0; i < first.size(); ++i) start[i + 1] = start[i] + (i - first[i] + 1);
     a.assign(start.back(), T(0));
   }
   T& at(std::size_t i, std::size_t j) { return a[start[i] + (j - first[i])]; }
+  const T& at(std::size_t i, std::size_t j) const { return a[start[i] + (j - first[i])]; }
 
   void factor() {
     const std::size_t n = first.size();
@@ -58,7 +62,7 @@ struct Envelope {
   }
 
   // L D L' x = b, in place.
-  void solve(std::vector<T>& x) {
+  void solve(std::vector<T>& x) const {
     const std::size_t n = first.size();
     for (std::size_t i = 0; i < n; ++i)
       for (std::size_t k = first[i]; k < i; ++k) x[i] -= at(i, k) * x[k];
@@ -71,6 +75,92 @@ struct Envelope {
 // lambda 4^d below which double precision is enough: eps 1e5 = 2e-11 relative error.
 constexpr double double_precision_limit = 1e5;
 
+// (I + lambda D'D) f = y for one operator D (order d on n samples, periodic or not) and any
+// lambda: factored once per lambda, solved for as many right-hand sides as wanted. Every solve of
+// the smoother, fixed strength or GCV's search, goes through here, so each has the precision
+// above.
+class PenalisedSystem {
+ public:
+  PenalisedSystem(std::size_t n, int order, bool periodic)
+      : n_(n), d_(static_cast<std::size_t>(order)), periodic_(periodic) {
+    // Binomial coefficients of the d-th difference: (-1)^(d-k) C(d, k).
+    coef_.resize(d_ + 1);
+    for (std::size_t k = 0; k <= d_; ++k) {
+      double c = 1.0;
+      for (std::size_t j = 0; j < k; ++j)
+        c = c * static_cast<double>(d_ - j) / static_cast<double>(j + 1);
+      coef_[k] = ((d_ - k) % 2 ? -1.0 : 1.0) * c;
+    }
+    // The envelope of I + lambda D'D: a band of half-width d; a periodic D also joins the last d
+    // rows to the first columns (the wrap), which makes those rows full.
+    first_.resize(n);
+    for (std::size_t i = 0; i < n; ++i)
+      first_[i] = periodic && i + d_ >= n ? 0 : (i > d_ ? i - d_ : 0);
+  }
+
+  // Factors I + lambda D'D in T: binary128 when double precision would lose more than about
+  // 1e-11 of the result (the factorisation's error grows as eps lambda 4^d), else double (16
+  // times faster).
+  void factor(double lambda) {
+    if (lambda * std::pow(4.0, static_cast<double>(d_)) < double_precision_limit)
+      m_ = build<double>(lambda);
+    else
+      m_ = build<wide>(lambda);
+  }
+
+  std::vector<double> solve(const std::vector<double>& y) const {
+    return std::visit(
+        [&](const auto& m) {
+          using T = typename std::decay_t<decltype(m)>::value_type;
+          std::vector<T> f(y.begin(), y.end());
+          m.solve(f);
+          return std::vector<double>(f.begin(), f.end());
+        },
+        m_);
+  }
+
+ private:
+  template <typename T>
+  struct Factored : Envelope<T> {
+    using value_type = T;
+    using Envelope<T>::Envelope;
+  };
+
+  template <typename T>
+  Factored<T> build(double lambda) const {
+    Factored<T> m(first_);
+    // Row r of D has coef[k] at column (r + k) mod n: (D'D)_ij = sum_r D_ri D_rj.
+    const std::size_t rows = periodic_ ? n_ : n_ - d_;
+    for (std::size_t r = 0; r < rows; ++r)
+      for (std::size_t k1 = 0; k1 <= d_; ++k1)
+        for (std::size_t k2 = 0; k2 <= d_; ++k2) {
+          const std::size_t i = (r + k1) % n_, j = (r + k2) % n_;
+          if (j <= i) m.at(i, j) += T(lambda) * T(coef_[k1] * coef_[k2]);
+        }
+    for (std::size_t i = 0; i < n_; ++i) m.at(i, i) += T(1);
+    m.factor();
+    return m;
+  }
+
+  std::size_t n_, d_;
+  bool periodic_;
+  std::vector<double> coef_;
+  std::vector<std::size_t> first_;
+  std::variant<Factored<double>, Factored<wide>> m_{Factored<double>(std::vector<std::size_t>{})};
+};
+
+double squared_distance(const std::vector<double>& a, const std::vector<double>& b) {
+  double s = 0.0;
+  for (std::size_t i = 0; i < a.size(); ++i) s += (a[i] - b[i]) * (a[i] - b[i]);
+  return s;
+}
+
+double dot(const std::vector<double>& a, const std::vector<double>& b) {
+  double s = 0.0;
+  for (std::size_t i = 0; i < a.size(); ++i) s += a[i] * b[i];
+  return s;
+}
+
 }  // namespace
 
 double smoothing_lambda(double h, double length, int order) {
@@ -78,45 +168,118 @@ double smoothing_lambda(double h, double length, int order) {
   return 1.0 / std::pow(s, 2 * order);
 }
 
+double smoothing_length(double h, double lambda, int order) {
+  // lambda = 1 / (2 sin(pi h / L))^(2d)  =>  L = pi h / asin(lambda^(-1/(2d)) / 2).
+  const double s = std::pow(lambda, -1.0 / (2 * order));
+  if (s >= 2.0) return 2.0 * h;
+  return units::pi * h / std::asin(0.5 * s);
+}
+
 std::vector<double> smooth(const std::vector<double>& y, double h, double length, int order,
                            bool periodic) {
-  const std::size_t n = y.size();
-  const auto d = static_cast<std::size_t>(order);
-  if (length <= 0.0 || n < d + 2) return y;
-  // Binomial coefficients of the d-th difference: (-1)^(d-k) C(d, k).
-  std::vector<double> coef(d + 1);
-  for (std::size_t k = 0; k <= d; ++k) {
-    double c = 1.0;
-    for (std::size_t j = 0; j < k; ++j)
-      c = c * static_cast<double>(d - j) / static_cast<double>(j + 1);
-    coef[k] = ((d - k) % 2 ? -1.0 : 1.0) * c;
+  if (length <= 0.0) return y;
+  return smooth_lambda(y, smoothing_lambda(h, length, order), order, periodic);
+}
+
+std::vector<double> smooth_lambda(const std::vector<double>& y, double lambda, int order,
+                                  bool periodic) {
+  if (y.size() < static_cast<std::size_t>(order) + 2) return y;
+  PenalisedSystem system(y.size(), order, periodic);
+  system.factor(lambda);
+  return system.solve(y);
+}
+
+SmoothingChoice choose_smoothing(const std::vector<std::vector<double>>& series, double h,
+                                 int order, bool periodic, double min_length, double max_length) {
+  assert(!series.empty());
+  const std::size_t n = series.front().size();
+  assert(n >= static_cast<std::size_t>(order) + 3 && min_length > 0.0 && max_length >= min_length);
+  const double nd = static_cast<double>(n);
+  PenalisedSystem system(n, order, periodic);
+
+  // Closed: the eigenvalues of the periodic D'D, (2 - 2 cos(2 pi k / n))^d.
+  std::vector<double> eig;
+  if (periodic)
+    for (std::size_t k = 0; k < n; ++k)
+      eig.push_back(
+          std::pow(2.0 - 2.0 * std::cos(2.0 * units::pi * static_cast<double>(k) / nd), order));
+  // Open: +-1 probes from a fixed-seed generator (64-bit LCG, Knuth's MMIX constants). 16 probes:
+  // the estimate's error is a few tenths of tr H's own size, and tr H is a small part of n where
+  // GCV's minimum lies, so n - tr H is known to well under 1 % (checked against the exact trace
+  // in the tests).
+  constexpr int probes = 16;
+  std::vector<std::vector<double>> z;
+  if (!periodic) {
+    std::uint64_t state = 0x853C49E6748FEA9Bull;
+    for (int k = 0; k < probes; ++k) {
+      std::vector<double> v(n);
+      for (std::size_t i = 0; i < n; ++i) {
+        state = state * 6364136223846793005ull + 1442695040888963407ull;
+        v[i] = (state >> 63) ? 1.0 : -1.0;
+      }
+      z.push_back(v);
+    }
   }
-  // The envelope of I + lambda D'D: a band of half-width d; a periodic D also joins the last d
-  // rows to the first columns (the wrap), which makes those rows full.
-  std::vector<std::size_t> first(n);
-  for (std::size_t i = 0; i < n; ++i) first[i] = periodic && i + d >= n ? 0 : (i > d ? i - d : 0);
-  const double lambda = smoothing_lambda(h, length, order);
-  // Solved in T: binary128 when double precision would lose more than about 1e-11 of the result
-  // (the factorisation's error grows as eps lambda 4^d), else double (16 times faster).
-  auto solve = [&](auto zero) {
-    using T = decltype(zero);
-    Envelope<T> m(first);
-    // Row r of D has coef[k] at column (r + k) mod n: (D'D)_ij = sum_r D_ri D_rj.
-    const std::size_t rows = periodic ? n : n - d;
-    for (std::size_t r = 0; r < rows; ++r)
-      for (std::size_t k1 = 0; k1 <= d; ++k1)
-        for (std::size_t k2 = 0; k2 <= d; ++k2) {
-          const std::size_t i = (r + k1) % n, j = (r + k2) % n;
-          if (j <= i) m.at(i, j) += T(lambda) * T(coef[k1] * coef[k2]);
-        }
-    for (std::size_t i = 0; i < n; ++i) m.at(i, i) += T(1);
-    m.factor();
-    std::vector<T> f(y.begin(), y.end());
-    m.solve(f);
-    return std::vector<double>(f.begin(), f.end());
+
+  struct Eval {
+    double length, lambda, gcv, rss, trace;
   };
-  if (lambda * std::pow(4.0, order) < double_precision_limit) return solve(0.0);
-  return solve(wide(0));
+  auto evaluate = [&](double length) {
+    Eval e{length, smoothing_lambda(h, length, order), 0.0, 0.0, 0.0};
+    system.factor(e.lambda);
+    for (const auto& y : series) e.rss += squared_distance(y, system.solve(y));
+    if (periodic) {
+      for (double ek : eig) e.trace += 1.0 / (1.0 + e.lambda * ek);
+    } else {
+      for (const auto& v : z) e.trace += dot(v, system.solve(v));
+      e.trace /= probes;
+    }
+    // GCV = n RSS / (n - tr H)^2 (Craven & Wahba 1979), RSS summed over the series.
+    e.gcv = nd * e.rss / std::pow(std::max(nd - e.trace, 1e-9), 2);
+    return e;
+  };
+
+  // Log-spaced candidates, then golden-section search in log(length) inside the best bracket.
+  constexpr int candidates = 41;
+  const double lo = std::log(min_length), hi = std::log(max_length);
+  std::vector<Eval> grid;
+  for (int k = 0; k < candidates; ++k)
+    grid.push_back(evaluate(std::exp(lo + (hi - lo) * k / (candidates - 1))));
+  std::size_t best = 0;
+  for (std::size_t k = 1; k < grid.size(); ++k)
+    if (grid[k].gcv < grid[best].gcv) best = k;
+  Eval chosen = grid[best];
+  if (best > 0 && best + 1 < grid.size()) {
+    double a = std::log(grid[best - 1].length), b = std::log(grid[best + 1].length);
+    const double r = 0.5 * (std::sqrt(5.0) - 1.0);
+    double c = b - r * (b - a), d = a + r * (b - a);
+    Eval ec = evaluate(std::exp(c)), ed = evaluate(std::exp(d));
+    while (b - a > 1e-3) {
+      if (ec.gcv < ed.gcv) {
+        b = d, d = c, ed = ec;
+        c = b - r * (b - a);
+        ec = evaluate(std::exp(c));
+      } else {
+        a = c, c = d, ec = ed;
+        d = a + r * (b - a);
+        ed = evaluate(std::exp(d));
+      }
+    }
+    for (const Eval& e : {ec, ed})
+      if (e.gcv < chosen.gcv) chosen = e;
+  }
+  SmoothingChoice out;
+  out.length_m = chosen.length;
+  out.lambda = chosen.lambda;
+  out.spacing_m = h;
+  out.equivalent_dof = chosen.trace;
+  out.samples = static_cast<int>(n);
+  out.noise_rms = std::sqrt(
+      chosen.rss / (static_cast<double>(series.size()) * std::max(nd - chosen.trace, 1e-9)));
+  out.at_lower_bound = best == 0;
+  out.at_upper_bound = best + 1 == grid.size();
+  out.exact_trace = periodic;
+  return out;
 }
 
 }  // namespace lapwing

@@ -51,7 +51,7 @@ TEST_CASE("noisy points on a circle give curvature 1/R within 1 %") {
   }
   // A constant curvature takes any smoothing; 60 m holds this noise (20 mm at 2 m) to 0.5 %
   // everywhere (measured: 12 % at 20 m, 1.7 % at 40 m).
-  const PathProfile p = fit_centerline(CenterlinePoints{"circle", x, y, {}}, true,
+  const PathProfile p = fit_centerline(CenterlinePoints{"circle", x, y, {}, {}, {}}, true,
                                        CenterlineOptions{60.0, 100.0, 1.0});
   double mean = 0.0;
   for (std::size_t i = 0; i + 1 < p.s_m.size(); ++i) {
@@ -74,7 +74,7 @@ TEST_CASE(
   }
   // Points every 0.75 to 1.26 m joined by chords: smoothing over 20 m (measured worst 0.22 %;
   // 1.1 % at 10 m, where the chords' corners begin to show).
-  const PathProfile p = fit_centerline(CenterlinePoints{"ellipse", x, y, {}}, true,
+  const PathProfile p = fit_centerline(CenterlinePoints{"ellipse", x, y, {}, {}, {}}, true,
                                        CenterlineOptions{20.0, 100.0, 1.0});
   for (std::size_t i = 0; i < p.s_m.size(); i += 7) {
     const double t = std::atan2(p.y_m[i] / b, p.x_m[i] / a);
@@ -91,7 +91,7 @@ TEST_CASE("points on a clothoid give curvature linear in distance") {
   seg.segments = {test::clothoid(200.0, 0.0, 1.0 / 50.0)};
   const Mesh m = build_mesh(seg, 1.0);
   std::vector<double> x(m.x_m.begin(), m.x_m.end()), y(m.y_m.begin(), m.y_m.end());
-  const PathProfile p = fit_centerline(CenterlinePoints{"clothoid", x, y, {}}, false,
+  const PathProfile p = fit_centerline(CenterlinePoints{"clothoid", x, y, {}, {}, {}}, false,
                                        CenterlineOptions{10.0, 100.0, 1.0});
   for_interior(p, 25.0, [&](std::size_t i) {
     CHECK(near(p.curvature_1pm[i], p.s_m[i] / (50.0 * 200.0), 0.0, 2e-5));
@@ -136,7 +136,7 @@ TEST_CASE(
 TEST_CASE("a centerline's elevation becomes its grade") {
   // A straight 400 m climbing at 4 %, then level: grade 0.04 then 0 (away from the change, which
   // the 100 m elevation smoothing spreads).
-  CenterlinePoints points{"climb", {}, {}, {}};
+  CenterlinePoints points{"climb", {}, {}, {}, {}, {}};
   for (int i = 0; i <= 800; i += 4) {
     points.x_m.push_back(i);
     points.y_m.push_back(0.0);
@@ -156,7 +156,7 @@ TEST_CASE("the fit's options and points are checked, a stray point named by its 
   CHECK(test::describe(CenterlineOptions{20.0, 100.0, 0.001}.validate()) ==
         "spacing: value 0.001 is out of range: must be [0.01, 100] in SI units");
   // Twelve points 10 m apart and one 300 km away: the path is over 200 km long.
-  CenterlinePoints p{"survey.csv", {}, {}, {}};
+  CenterlinePoints p{"survey.csv", {}, {}, {}, {}, {}};
   for (int i = 0; i < 12; ++i) {
     p.x_m.push_back(10.0 * i);
     p.y_m.push_back(i == 7 ? 300e3 : 0.0);
@@ -182,6 +182,17 @@ TEST_CASE("the fit's options and points are checked, a stray point named by its 
   }
 }
 
+// A fit at the 1 m spacing whatever the strength (as `check`'s refits at half and double the
+// strength are): lambda up to 1e17. The coarser L / 40 spacing a fit takes by default keeps
+// lambda near 4e6 and would not test the solver's precision.
+static CenterlineOptions fixed_1m(double smoothing) {
+  CenterlineOptions o;
+  o.smoothing_m = smoothing;
+  o.spacing_m = 1.0;
+  o.fixed_spacing = true;
+  return o;
+}
+
 // Issue 19, finding 5: at strengths of hundreds of metres on 1 m samples the smoother's lambda
 // reaches 1e13 to 1e17 (lambda = (2 sin(pi h / L))^-6), where the normal equations
 // (I + lambda D'D) f = y, solved as they stand, keep no significant digit.
@@ -196,9 +207,10 @@ TEST_CASE("a circle of 1000 m radius keeps its length 2 pi R under a 1000 m smoo
   }
   for (double smoothing : {100.0, 1000.0, 2000.0, 4000.0}) {
     CAPTURE(smoothing);
-    const PathProfile p = fit_centerline(CenterlinePoints{"circle", x, y, {}}, true,
-                                         CenterlineOptions{smoothing, 100.0, 1.0});
-    // Closed form: the resampled points are the polygon's vertices (equal chords), and
+    const PathProfile p =
+        fit_centerline(CenterlinePoints{"circle", x, y, {}}, true, fixed_1m(smoothing));
+    // Closed form: the resampled points are the polygon's vertices (equal chords: the Hermite
+    // curve passes through each point, and the samples fall on them), and
     // cos(2 pi i / n) is an eigenvector of the periodic D'D with eigenvalue (2 sin(pi / n))^6,
     // so the fit is the circle of radius R H, H = 1 / (1 + lambda (2 sin(pi / n))^6). Its
     // length is n chords, 2 n R H sin(pi / n), and central differences of a sampled circle give
@@ -220,8 +232,8 @@ TEST_CASE("a straight line of 3000 m stays 3000 m long and straight under strong
   }
   for (double smoothing : {1000.0, 2000.0, 4000.0}) {
     CAPTURE(smoothing);
-    const PathProfile p = fit_centerline(CenterlinePoints{"line", x, y, {}}, false,
-                                         CenterlineOptions{smoothing, 100.0, 1.0});
+    const PathProfile p =
+        fit_centerline(CenterlinePoints{"line", x, y, {}}, false, fixed_1m(smoothing));
     // A line is in the null space of the third difference: the fit returns it unchanged, to
     // round-off (1 mm over 3 km, and 1e-6 1/m of curvature, allow for it).
     CHECK(near(p.s_m.back(), 3000.0, 0.0, 1e-3));
@@ -239,8 +251,8 @@ TEST_CASE("a noisy 2000 m line fitted at double the file's largest smoothing sta
     x.push_back(2.0 * i + 0.02 * noise.gauss());
     y.push_back(0.02 * noise.gauss());
   }
-  const PathProfile p = fit_centerline(CenterlinePoints{"noisy line", x, y, {}}, false,
-                                       CenterlineOptions{4000.0, 100.0, 1.0});
+  const PathProfile p =
+      fit_centerline(CenterlinePoints{"noisy line", x, y, {}}, false, fixed_1m(4000.0));
   // The noise leaves the fit within a few mm of the line: length to 1 cm, curvature below 1e-5
   // 1/m (a radius over 100 km).
   CHECK(near(p.s_m.back(), 2000.0, 0.0, 0.01));

@@ -37,7 +37,7 @@ TEST_CASE("bytes per mesh point: every vector a mesh, a lap and a sweep hold is 
   CHECK(static_cast<double>(mesh) / n == mesh_bytes_per_point);
   CHECK(sizeof(Mesh) < 512);  // nothing else of the mesh's own: nine vectors and three scalars
 
-  const Car car = test::plain_car();
+  const ConfiguredCar car = test::configured(test::plain_car());
   const Envelope env(car, make_air(AirSpec{}));
   auto lap_bytes = [](const Lap& l) {
     return bytes(l.speed_mps) + bytes(l.time_s) + bytes(l.long_accel_mps2) +
@@ -50,7 +50,7 @@ TEST_CASE("bytes per mesh point: every vector a mesh, a lap and a sweep hold is 
   // A solver of its own for each, so that the speed-only lap holds no channel of another lap.
   LapSolver full, speed_only;
   CHECK(static_cast<double>(lap_bytes(full.solve(env, m))) / n == lap_bytes_per_point);
-  CHECK(static_cast<double>(lap_bytes(speed_only.solve(env, m, 0.0, false))) / n ==
+  CHECK(static_cast<double>(lap_bytes(speed_only.solve_speed(env, m))) / n ==
         speed_lap_bytes_per_point);
 
   const SweepResult s = sweep(env, m, Sweep::forward, full.solve(env, m).steady.speed_mps, 0, 10);
@@ -69,6 +69,10 @@ TEST_CASE("the estimate adds the parts: meshes, laps kept, solvers at the larges
                       4000.0 * (mesh_bytes_per_point + 2 * lap_bytes_per_point) +
                       3000.0 * (2 * (lap_bytes_per_point + sweeps_bytes_per_point) + 8);
   CHECK(estimate_peak_bytes(p) == want);
+  // The verdict's two smoothing variants: two more meshes at the largest.
+  p.variant_meshes = 2;
+  CHECK(estimate_peak_bytes(p) == want + 2 * 3000.0 * mesh_bytes_per_point);
+  p.variant_meshes = 0;
   p.channels = false;
   CHECK(estimate_peak_bytes(p) < want);
 }

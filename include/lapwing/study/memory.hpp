@@ -14,9 +14,13 @@ namespace lapwing {
 /// What a study holds at its peak.
 struct MemoryPlan {
   std::vector<std::size_t> mesh_points;  // per circuit, all laid out at once
-  std::size_t laps_kept = 0;  // laps per circuit held whole to the end (compare: its configs)
-  bool channels = true;       // the solver fills every channel (false: speed and time only)
-  unsigned solvers = 1;       // solvers at work at once (threads), each at the largest mesh
+  std::size_t laps_kept = 0;       // laps per circuit held whole to the end (compare: its configs)
+  bool channels = true;            // the solver fills every channel (false: speed and time only)
+  unsigned solvers = 1;            // solvers at work at once (threads), each at the largest mesh
+  std::size_t variant_meshes = 0;  // meshes laid out beside the circuits, at the largest mesh:
+                                   // the data-quality verdict's smoothing variants of a fitted
+                                   // centerline (study/track_quality.hpp), two for one track at
+                                   // a time
 };
 
 /// Bytes per mesh point of each part (8-byte doubles, 4-byte ints, 1-byte enums and flags),
@@ -40,7 +44,8 @@ inline constexpr std::size_t delta_bytes_per_point = 8;
 inline constexpr std::size_t fixed_bytes = std::size_t{16} << 20;
 
 /// The estimated peak in bytes: fixed_bytes + the meshes + the laps kept + every solver's lap
-/// and sweeps at the largest mesh + one delta trace at the largest mesh.
+/// and sweeps at the largest mesh + one delta trace at the largest mesh + the variant meshes at
+/// the largest mesh.
 double estimate_peak_bytes(const MemoryPlan& plan);
 
 /// The machine's memory in bytes: the physical memory (sysconf), or the control group's limit
