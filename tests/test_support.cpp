@@ -1,7 +1,11 @@
 #include "test_support.hpp"
 
+#include <stdlib.h>
+
 #include <algorithm>
 #include <cmath>
+#include <filesystem>
+#include <fstream>
 #include <stdexcept>
 
 #include "lapwing/base/units.hpp"
@@ -20,6 +24,35 @@ std::string describe(const std::optional<Violation>& v) {
 
 std::string source_path(const std::string& relative) {
   return std::string(LAPWING_SOURCE_DIR) + "/" + relative;
+}
+
+namespace {
+// The scratch folder, removed at exit.
+struct Scratch {
+  std::filesystem::path dir;
+  Scratch() {
+    std::string pattern = (std::filesystem::temp_directory_path() / "lapwing-test-XXXXXX").string();
+    if (!::mkdtemp(pattern.data())) throw std::runtime_error("cannot make a scratch folder");
+    dir = pattern;
+  }
+  ~Scratch() {
+    std::error_code ec;
+    std::filesystem::remove_all(dir, ec);
+  }
+};
+}  // namespace
+
+std::string scratch_dir() {
+  static const Scratch scratch;
+  return scratch.dir.string();
+}
+
+std::string scratch_file(const std::string& name, const std::string& text) {
+  const std::string path = scratch_dir() + "/" + name;
+  std::ofstream out(path, std::ios::binary | std::ios::trunc);
+  out << text;
+  if (!out) throw std::runtime_error("cannot write " + path);
+  return path;
 }
 
 Circuit bundled_circuit(const std::string& relative) {

@@ -24,6 +24,12 @@ std::string describe(const std::optional<Violation>& v);
 /// The bundled files.
 std::string source_path(const std::string& relative);
 
+/// A folder of this test process's own under the system's temporary folder (made on first use,
+/// removed with everything in it when the process ends).
+std::string scratch_dir();
+/// `text` written to scratch_dir()/name (replacing any earlier file of that name); its path.
+std::string scratch_file(const std::string& name, const std::string& text);
+
 /// A bundled track file laid out in its own air.
 Circuit bundled_circuit(const std::string& relative);
 

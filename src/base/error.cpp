@@ -2,17 +2,21 @@
 
 #include <sstream>
 
+#include "lapwing/base/text.hpp"
+
 namespace lapwing {
 
 namespace {
 std::string format_input_error(const std::string& file, Mark mark, const std::string& what,
                                const std::string& key_path) {
   // Built with a stream: GCC 12 warns falsely (-Wrestrict) on chains of string '+'.
+  // One printable line whatever the file's name, value or key holds (printable(): a quoted "\n"
+  // in a key or value, a byte that is not UTF-8).
   std::ostringstream os;
-  os << file;
+  os << printable(file);
   if (mark.line > 0) os << ':' << mark.line << ':' << mark.col;
-  os << ": error: " << what;
-  if (!key_path.empty()) os << " (" << key_path << ')';
+  os << ": error: " << printable(what);
+  if (!key_path.empty()) os << " (" << printable(key_path) << ')';
   return os.str();
 }
 }  // namespace

@@ -1,8 +1,10 @@
 #include "commands.hpp"
 
 #include <algorithm>
+#include <cmath>
 #include <filesystem>
 #include <iostream>
+#include <thread>
 
 #include "lapwing/base/error.hpp"
 #include "lapwing/base/format.hpp"
@@ -38,6 +40,7 @@
 #include "lapwing/study/check_summary.hpp"
 #include "lapwing/study/circuit.hpp"
 #include "lapwing/study/compare.hpp"
+#include "lapwing/study/memory.hpp"
 #include "lapwing/study/min_time_line.hpp"
 #include "lapwing/study/track_quality.hpp"
 #include "lapwing/study/trade.hpp"
@@ -126,16 +129,35 @@ class Inputs {
     sources_.add(std::move(f.sources));
     return std::move(f.car);
   }
+  // A track file read, as it is.
   Track track(const std::string& file) {
     TrackFile f = read_track_file(file);
     sources_.add(std::move(f.sources));
     return std::move(f.track);
   }
-  Circuit lay_out(const std::string& file, const AirOverride& air) {
-    const Track t = track(file);
-    return lapwing::lay_out(t, make_air(apply(t.air, air)));
+  // A track file read, in the air it is run in; laid out (its mesh built) later.
+  struct Loaded {
+    Track track;
+    Air air;
+  };
+  Loaded load(const std::string& file, const AirOverride& air) {
+    Track t = track(file);
+    const Air a = make_air(apply(t.air, air));
+    return {std::move(t), a};
   }
-  std::vector<Circuit> lay_out_all(const std::vector<std::string>& files, const AirOverride& air);
+  Circuit lay_out(const std::string& file, const AirOverride& air) {
+    const Loaded l = load(file, air);
+    return lapwing::lay_out(l.track, l.air);
+  }
+  std::vector<Loaded> load_all(const std::vector<std::string>& files, const AirOverride& air);
+  std::vector<Circuit> lay_out_all(const std::vector<std::string>& files, const AirOverride& air) {
+    return lay_out_each(load_all(files, air));
+  }
+  static std::vector<Circuit> lay_out_each(const std::vector<Loaded>& tracks) {
+    std::vector<Circuit> out;
+    for (const Loaded& l : tracks) out.push_back(lapwing::lay_out(l.track, l.air));
+    return out;
+  }
   InputError error(const InvalidInput& e) const { return sources_.error(e); }
 
  private:
@@ -153,9 +175,9 @@ int located(int (*command)(const Options&, Inputs&), const Options& o) {
   }
 }
 
-std::vector<Circuit> Inputs::lay_out_all(const std::vector<std::string>& files,
-                                         const AirOverride& air) {
-  std::vector<Circuit> out;
+std::vector<Inputs::Loaded> Inputs::load_all(const std::vector<std::string>& files,
+                                             const AirOverride& air) {
+  std::vector<Loaded> out;
   for (std::size_t i = 0; i < files.size(); ++i) {
     for (std::size_t j = 0; j < i; ++j) {
       std::error_code e1, e2;
@@ -164,7 +186,121 @@ std::vector<Circuit> Inputs::lay_out_all(const std::vector<std::string>& files,
       if (files[i] == files[j] || (!e1 && !e2 && a == b))
         throw UsageError{"--track " + files[i] + " is given twice"};
     }
-    out.push_back(this->lay_out(files[i], air));
+    out.push_back(load(files[i], air));
+  }
+  return out;
+}
+
+// --memory-limit: bytes, or a number with B, kB, MB, GB, TB (powers of 1000) or KiB, MiB, GiB,
+// TiB (powers of 1024), a space between allowed.
+double parse_memory_limit(const std::string& text) {
+  std::size_t used = 0;
+  double v = 0.0;
+  try {
+    v = std::stod(text, &used);
+  } catch (const std::exception&) {
+    used = 0;
+  }
+  std::string unit = text.substr(used);
+  unit.erase(0, std::min(unit.find_first_not_of(' '), unit.size()));
+  const std::pair<const char*, double> units[] = {{"", 1.0},
+                                                  {"B", 1.0},
+                                                  {"kB", 1e3},
+                                                  {"MB", 1e6},
+                                                  {"GB", 1e9},
+                                                  {"TB", 1e12},
+                                                  {"KiB", 1024.0},
+                                                  {"MiB", 1048576.0},
+                                                  {"GiB", 1073741824.0},
+                                                  {"TiB", 1099511627776.0}};
+  for (const auto& [name, scale] : units)
+    if (used > 0 && unit == name && std::isfinite(v) && v > 0) return v * scale;
+  throw UsageError{"--memory-limit: '" + text +
+                   "' is not a size (a positive number of bytes, or with B, kB, MB, GB, TB, KiB, "
+                   "MiB, GiB or TiB)"};
+}
+
+// Refuses, before any mesh is built or lap solved, a study whose estimated peak memory
+// (study/memory.hpp) is over the limit: a usage error naming the largest mesh, the estimate and
+// the limit. `verdict`: the data-quality verdict is made (its smoothing variants' meshes).
+void require_memory(const std::string& option, const std::vector<Inputs::Loaded>& tracks,
+                    std::size_t laps_kept, bool channels, unsigned threads, std::size_t jobs,
+                    bool verdict) {
+  const double limit = option.empty() ? machine_memory_bytes() / 2 : parse_memory_limit(option);
+  if (!(limit > 0)) return;  // the machine's memory unknown: no default limit
+  MemoryPlan plan;
+  plan.laps_kept = laps_kept;
+  plan.channels = channels;
+  if (threads == 0) threads = std::max(1u, std::thread::hardware_concurrency());
+  plan.solvers = static_cast<unsigned>(std::clamp<std::size_t>(jobs, 1, threads));
+  std::size_t largest = 0;
+  for (std::size_t i = 0; i < tracks.size(); ++i) {
+    plan.mesh_points.push_back(mesh_point_count(tracks[i].track, tracks[i].track.mesh_m));
+    if (plan.mesh_points[i] > plan.mesh_points[largest]) largest = i;
+    // A fitted centerline's verdict lays it out again at half and double the strength.
+    const auto& p = tracks[i].track.profile;
+    if (verdict && p && p->source == PathProfile::Source::centerline) plan.variant_meshes = 2;
+  }
+  const double need = estimate_peak_bytes(plan);
+  if (need <= limit) return;
+  const Track& t = tracks[largest].track;
+  throw UsageError{
+      "needs about " + describe_bytes(need) + " of memory, more than --memory-limit " +
+      describe_bytes(limit) + (option.empty() ? " (half the machine's memory)" : "") + ": " +
+      (tracks.size() > 1 ? "the largest mesh, of " + t.subject() + ", has "
+                         : "the mesh of " + t.subject() + " has ") +
+      std::to_string(plan.mesh_points[largest]) + " points (" + fixed(t.length_m(), 1) +
+      " m at a step of " + format_number(t.mesh_m) + " m)" +
+      (laps_kept > 1 ? ", with " + std::to_string(laps_kept) + " laps kept per track" : "") + ", " +
+      std::to_string(plan.solvers) + (plan.solvers > 1 ? " laps" : " lap") +
+      " solved at once; give a coarser mesh, fewer configs or --threads, or a higher "
+      "--memory-limit"};
+}
+
+// Output file names, made from a track file's stem and config names: one function per kind, used
+// both to check the names before any work (below) and to write the files.
+std::string trace_file(const Circuit& t, const std::string& config) {
+  return "trace-" + t.track.id + "-" + config + ".csv";
+}
+std::string delta_file(const Circuit& t, const std::string& a, const std::string& b) {
+  return "delta-" + t.track.id + "-" + a + "-" + b + ".csv";
+}
+std::string grid_file(const Circuit& t) {
+  return "trade-grid-" + t.track.id + ".csv";
+}
+
+// An output file's name and the inputs it is made from.
+struct PlannedFile {
+  std::string name, from;
+};
+
+// Names are unique by construction: two inputs that would give one output file the same name
+// (tracks of the same file stem, "a/t.yaml" and "b/t.yaml"; config names joined by '-', "x" +
+// "y-z" and "x-y" + "z") are a usage error naming both, found before anything is solved or
+// written.
+void require_unique(const std::vector<PlannedFile>& files) {
+  for (std::size_t i = 0; i < files.size(); ++i)
+    for (std::size_t j = 0; j < i; ++j)
+      if (files[i].name == files[j].name)
+        throw UsageError{"two outputs would be named " + files[i].name + ": " + files[j].from +
+                         ", and " + files[i].from +
+                         " (rename a track file or a config, or write them to separate --out "
+                         "folders)"};
+}
+
+std::vector<PlannedFile> compare_files(const Car& car, const std::vector<std::size_t>& configs,
+                                       const std::vector<Circuit>& circuits) {
+  std::vector<PlannedFile> out;
+  for (const Circuit& t : circuits) {
+    const std::string track = "--track " + t.track.file;
+    for (std::size_t a = 0; a < configs.size(); ++a) {
+      const std::string& ca = car.configs[configs[a]].name;
+      out.push_back({trace_file(t, ca), track + " with config " + ca});
+      for (std::size_t b = a + 1; b < configs.size(); ++b) {
+        const std::string& cb = car.configs[configs[b]].name;
+        out.push_back({delta_file(t, ca, cb), track + " with configs " + ca + " and " + cb});
+      }
+    }
   }
   return out;
 }
@@ -231,7 +367,14 @@ int run(const RunOptions& o, Inputs& in) {
   Car car = in.car(o.car);
   apply_model(o.model, car);
   const std::size_t ci = pick_config(car, o.config);
-  const Circuit t = in.lay_out(o.track, air);
+  // In a list of one from the start: the report takes a list, and a copy of a long mesh is not
+  // free (README, "Memory").
+  std::vector<Inputs::Loaded> loaded;
+  loaded.push_back(in.load(o.track, air));
+  require_memory(o.memory_limit, loaded, 0, true, 1, 1, true);
+  std::vector<Circuit> circuits = Inputs::lay_out_each(loaded);
+  loaded.clear();
+  const Circuit& t = circuits.front();
   const ConfiguredCar configured = car.configured(ci);
   LapRun r = run_lap(configured, t);
   // The data's verdict; a poor one is a warning with the lap's own.
@@ -257,14 +400,16 @@ int run(const RunOptions& o, Inputs& in) {
   out += lap_table(s);
 
   if (!o.out.empty()) {
-    std::vector<std::pair<std::string, std::string>> files{
-        {"summary.json", summary_json(car.name, {s}, {quality})},
-        {"trace-" + t.track.id + "-" + s.config + ".csv", trace_csv(r.lap, t.mesh)},
-        {"corners.csv", corners_csv({s})}};
     // The single-lap page: the comparison report of one config on one track.
-    const std::vector<Circuit> circuits{t};
     const Comparison one = single_lap_comparison(ci, std::move(r), t);
+    const Lap& lap = one.tracks.front().entries.front().run.lap;
     const std::vector<TrackQuality> qualities{quality};
+    std::vector<OutputFile> files;
+    files.push_back({"summary.json", summary_json(car.name, {s}, qualities)});
+    files.push_back({trace_file(t, s.config), {}, [&](const OutputSink& sink) {
+                       trace_csv(lap, t.mesh, sink);
+                     }});
+    files.push_back({"corners.csv", corners_csv({s})});
     files.push_back(
         {"report.html",
          html_report({&car, &circuits, &one, nullptr,
@@ -306,7 +451,13 @@ int compare(const CompareOptions& o, Inputs& in) {
   Car car = in.car(o.car);
   apply_model(o.model, car);
   const std::vector<std::size_t> configs = pick_configs(car, o.configs);
-  const std::vector<Circuit> circuits = in.lay_out_all(o.tracks, air);
+  std::vector<Inputs::Loaded> loaded = in.load_all(o.tracks, air);
+  // The verdicts (with --out) lay a fitted centerline out twice more.
+  require_memory(o.memory_limit, loaded, configs.size(), true, o.threads,
+                 loaded.size() * configs.size(), !o.out.empty());
+  const std::vector<Circuit> circuits = Inputs::lay_out_each(loaded);
+  loaded.clear();
+  if (!o.out.empty()) require_unique(compare_files(car, configs, circuits));
   const Comparison c = lapwing::compare(car, configs, circuits, o.threads);
   const std::string out = compare_table(car, c, circuits);
   if (!o.out.empty()) {
@@ -319,21 +470,28 @@ int compare(const CompareOptions& o, Inputs& in) {
                                          car.configs[configs[k]].name,
                                          c.tracks[t].entries[k].run.summary.lap_time_s));
     }
-    std::vector<std::pair<std::string, std::string>> files;
+    std::vector<OutputFile> files;
     std::vector<LapSummary> all;
     for (std::size_t t = 0; t < c.tracks.size(); ++t) {
       const auto& entries = c.tracks[t].entries;
       for (const auto& e : entries) {
         all.push_back(e.run.summary);
-        files.push_back({"trace-" + circuits[t].track.id + "-" + e.run.summary.config + ".csv",
-                         trace_csv(e.run.lap, circuits[t].mesh)});
+        files.push_back({trace_file(circuits[t], e.run.summary.config),
+                         {},
+                         [&e, &m = circuits[t].mesh](const OutputSink& sink) {
+                           trace_csv(e.run.lap, m, sink);
+                         }});
       }
       for (std::size_t a = 0; a < entries.size(); ++a)
         for (std::size_t b = a + 1; b < entries.size(); ++b)
+          // The delta trace is made as its file is written, and freed after it.
           files.push_back(
-              {"delta-" + circuits[t].track.id + "-" + entries[a].run.summary.config + "-" +
-                   entries[b].run.summary.config + ".csv",
-               delta_csv(circuits[t].mesh, delta_trace(entries[a].run.lap, entries[b].run.lap))});
+              {delta_file(circuits[t], entries[a].run.summary.config,
+                          entries[b].run.summary.config),
+               {},
+               [&ea = entries[a], &eb = entries[b], &m = circuits[t].mesh](const OutputSink& sink) {
+                 delta_csv(m, delta_trace(ea.run.lap, eb.run.lap), sink);
+               }});
     }
     files.push_back({"summary.json", summary_json(car.name, all, qualities)});
     files.push_back({"corners.csv", corners_csv(all)});
@@ -360,14 +518,22 @@ int trade(const TradeOptions& o, Inputs& in) {
     for (std::size_t i = 0; i < car.configs.size(); ++i) configs.push_back(i);
   else
     configs.push_back(pick_config(car, o.config));
-  const std::vector<Circuit> circuits = in.lay_out_all(o.tracks, air);
+  std::vector<Inputs::Loaded> loaded = in.load_all(o.tracks, air);
+  // Speed and time only; no lap kept; many laps per track (the differences and the grid).
+  require_memory(o.memory_limit, loaded, 0, false, o.threads, std::size_t{1} << 20, false);
+  const std::vector<Circuit> circuits = Inputs::lay_out_each(loaded);
+  loaded.clear();
+  if (!o.out.empty()) {
+    std::vector<PlannedFile> planned;
+    for (const Circuit& c : circuits) planned.push_back({grid_file(c), "--track " + c.track.file});
+    require_unique(planned);
+  }
   const Trade t = lapwing::trade(car, configs, circuits, options, o.threads);
   const std::string out = trade_table(car, t, circuits);
   if (!o.out.empty()) {
-    std::vector<std::pair<std::string, std::string>> files{
-        {"trade.json", trade_json(car, t, circuits)}};
+    std::vector<OutputFile> files{{"trade.json", trade_json(car, t, circuits)}};
     for (const auto& g : t.grids)
-      files.push_back({"trade-grid-" + circuits[g.track].track.id + ".csv", trade_grid_csv(g)});
+      files.push_back({grid_file(circuits[g.track]), trade_grid_csv(g)});
     files.push_back(
         {"report.html", html_report({&car, &circuits, nullptr, &t,
                                      "trade, steps of " + fixed(100 * options.step, 1) + " %"})});
@@ -416,7 +582,8 @@ int track_from_log(const FromLogOptions& o) {
   const std::string csv_name = out.stem().string() + ".csv";
   const LogTrack t = lapwing::track_from_log(l, csv_name);
   const std::filesystem::path dir = out.parent_path().empty() ? "." : out.parent_path();
-  write_outputs(dir, {{out.filename().string(), t.yaml}, {csv_name, t.csv}});
+  // The data first, the track file that names it last: a track file never names a missing CSV.
+  write_files_atomic(dir, {{csv_name, t.csv}, {out.filename().string(), t.yaml}});
   std::cout << "track   " << o.out << " and " << (dir / csv_name).string() << "\n"
             << "length  " << fixed(t.length_m, 1) << " m"
             << (o.closed
@@ -442,6 +609,25 @@ int track_from_log(const FromLogOptions& o) {
 }
 
 namespace {
+// The files `track line` writes (OUT.yaml and OUT.csv beside it) must not replace the track it
+// reads or its data: the source would be lost, or a track left naming data of another path.
+// A usage error before anything is solved or written.
+void require_not_input(const std::filesystem::path& out, const Track& track) {
+  const std::filesystem::path dir = out.parent_path().empty() ? "." : out.parent_path();
+  std::vector<std::string> inputs{track.file};
+  for (const auto* p : {&track.profile, &track.line_path})
+    if (*p && !(*p)->data_file.empty()) inputs.push_back((*p)->data_file);
+  for (const std::filesystem::path& written : {out, dir / (out.stem().string() + ".csv")})
+    for (const std::string& input : inputs) {
+      std::error_code e1, e2;
+      const auto a = std::filesystem::weakly_canonical(written, e1);
+      const auto b = std::filesystem::weakly_canonical(input, e2);
+      if (!e1 && !e2 && a == b)
+        throw UsageError{"--out " + out.string() + " would replace " + input +
+                         ", which the track reads: write the line to another name"};
+    }
+}
+
 int track_line(const TrackLineOptions& o, Inputs& in) {
   const std::filesystem::path out(o.out);
   if (out.extension() != ".yaml") throw UsageError{"--out must name a .yaml track file"};
@@ -453,6 +639,7 @@ int track_line(const TrackLineOptions& o, Inputs& in) {
   if (!o.config.empty() && o.car.empty()) throw UsageError{"--config needs --car"};
   const AirOverride air = parse_air(o.air);
   const Track track = in.track(o.track);
+  require_not_input(out, track);
   LineSpec spec = track.line.value_or(LineSpec{});
   if (const auto w = option_value(o.vehicle_width, "--vehicle-width", Quantity::length,
                                   LineSpec::vehicle_width_range))
@@ -500,7 +687,8 @@ int track_line(const TrackLineOptions& o, Inputs& in) {
   const LineTrackFiles files =
       line_track_files(described, line, air_spec, o.method, spec, csv_name);
   const std::filesystem::path dir = out.parent_path().empty() ? "." : out.parent_path();
-  write_outputs(dir, {{out.filename().string(), files.yaml}, {csv_name, files.csv}});
+  // Beside other tracks: file by file, the data first, the track file that names it last.
+  write_files_atomic(dir, {{csv_name, files.csv}, {out.filename().string(), files.yaml}});
 
   std::size_t widest = 0;
   for (std::size_t i = 0; i < line.offset_m.size(); ++i)

@@ -29,6 +29,7 @@ struct CheckOptions {
 };
 
 struct RunOptions {
+  std::string memory_limit;  // empty: half the machine's memory
   std::string car;
   std::string model;
   std::string track;
@@ -38,6 +39,7 @@ struct RunOptions {
 };
 
 struct CompareOptions {
+  std::string memory_limit;
   std::string car;
   std::string model;
   std::vector<std::string> tracks;
@@ -48,6 +50,7 @@ struct CompareOptions {
 };
 
 struct TradeOptions {
+  std::string memory_limit;
   std::string car;
   std::string model;
   std::vector<std::string> tracks;

@@ -11,6 +11,7 @@
 
 #include "commands.hpp"
 #include "lapwing/base/error.hpp"
+#include "lapwing/base/text.hpp"
 #include "lapwing/base/version.hpp"
 #include "lapwing/io/document.hpp"
 #include "lapwing/study/trade.hpp"
@@ -100,6 +101,13 @@ int main(int argc, char** argv) {
   check->footer(
       "Example:\n  lapwing check --car cars/pellion-fr2.yaml --track tracks/brannock-park.yaml");
 
+  // The memory a run may take: refused at once beyond it (README, "Memory").
+  auto add_memory = [](CLI::App* cmd, std::string& limit) {
+    cmd->add_option("--memory-limit", limit,
+                    "Refuse a study estimated to need more memory, e.g. 4GB or 500MB (default: "
+                    "half the machine's memory)");
+  };
+
   cli::RunOptions run_o;
   auto* run = app.add_subcommand("run", "Simulate one lap of one track with one aero config");
   run->add_option("--car", run_o.car, "Car file (YAML)")->required();
@@ -108,6 +116,7 @@ int main(int argc, char** argv) {
   run->add_option("--out", run_o.out,
                   "Folder for summary.json, trace-TRACK-CONFIG.csv, corners.csv and report.html");
   run->add_option("--model", run_o.model, "point-mass or axle (default: the car file's model)");
+  add_memory(run, run_o.memory_limit);
   add_air(run, run_o.air);
   run->footer(
       "Example:\n  lapwing run --car cars/pellion-fr2.yaml --track tracks/brannock-park.yaml "
@@ -127,6 +136,7 @@ int main(int argc, char** argv) {
   auto* compare = app.add_subcommand(
       "compare", "Rank aero configs on each track; where each wins or loses the time");
   add_study(compare, compare_o.car, compare_o.tracks, compare_o.model, compare_o.threads);
+  add_memory(compare, compare_o.memory_limit);
   compare->add_option("--config", compare_o.configs, "Config name(s) (default: all of the car's)");
   compare->add_option(
       "--out", compare_o.out,
@@ -141,6 +151,7 @@ int main(int argc, char** argv) {
   auto* trade = app.add_subcommand(
       "trade", "Lap-time sensitivities to downforce, drag, mass and power; the exchange rate");
   add_study(trade, trade_o.car, trade_o.tracks, trade_o.model, trade_o.threads);
+  add_memory(trade, trade_o.memory_limit);
   trade->add_option("--config", trade_o.config, "Config to trade (default: every config)");
   trade->add_option("--step", trade_o.step,
                     "Relative step of the central differences (default 2 %)");
@@ -206,7 +217,7 @@ int main(int argc, char** argv) {
       "out/brannock-line.yaml --car cars/pellion-fr2.yaml");
 
   if (const auto msg = check_command_line(app, argc, argv)) {
-    std::cerr << "lapwing: error: " << *msg << "\n";
+    std::cerr << "lapwing: error: " << printable(*msg) << "\n";
     return 2;
   }
   try {
@@ -214,7 +225,7 @@ int main(int argc, char** argv) {
   } catch (const CLI::ParseError& e) {
     // Help and version print and succeed; anything else is a usage error in one line.
     if (e.get_exit_code() == static_cast<int>(CLI::ExitCodes::Success)) return app.exit(e);
-    std::cerr << "lapwing: error: " << e.what() << " (see lapwing --help)\n";
+    std::cerr << "lapwing: error: " << printable(e.what()) << " (see lapwing --help)\n";
     return 2;
   }
 
@@ -226,7 +237,7 @@ int main(int argc, char** argv) {
     if (*from_log) return cli::track_from_log(log_o);
     if (*line) return cli::track_line(line_o);
   } catch (const cli::UsageError& e) {
-    std::cerr << "lapwing: error: " << e.message << "\n";
+    std::cerr << "lapwing: error: " << printable(e.message) << "\n";
     return 2;
   } catch (const InputError& e) {
     std::cerr << e.what() << "\n";
@@ -236,13 +247,14 @@ int main(int argc, char** argv) {
     std::cerr << e.what() << "\n";
     return 2;
   } catch (const OutputError& e) {
-    std::cerr << "lapwing: error: " << e.what() << "\n";
+    std::cerr << "lapwing: error: " << printable(e.what()) << "\n";
     return 2;
   } catch (const CannotMove& e) {
-    std::cerr << "lapwing: error: the car cannot complete the track: " << e.what() << "\n";
+    std::cerr << "lapwing: error: the car cannot complete the track: " << printable(e.what())
+              << "\n";
     return 3;
   } catch (const std::exception& e) {
-    std::cerr << "lapwing: internal error: " << e.what() << "\n";
+    std::cerr << "lapwing: internal error: " << printable(e.what()) << "\n";
     return 1;
   }
   return 1;

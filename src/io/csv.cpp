@@ -3,6 +3,7 @@
 #include <fstream>
 
 #include "lapwing/base/error.hpp"
+#include "lapwing/base/text.hpp"
 #include "lapwing/base/units.hpp"
 
 namespace lapwing {
@@ -72,7 +73,13 @@ CsvTable read_csv(const std::string& file, std::size_t min_rows) {
   while (std::getline(in, line)) {
     ++n;
     if (!line.empty() && line.back() == '\r') line.pop_back();
-    if (n == 1 && line.rfind("\xEF\xBB\xBF", 0) == 0) line.erase(0, 3);  // UTF-8 BOM
+    int bom = 0;  // bytes of a BOM taken off the line (columns count from the file's first byte)
+    if (n == 1 && line.rfind("\xEF\xBB\xBF", 0) == 0) line.erase(0, bom = 3);  // UTF-8 BOM
+    // Text is UTF-8: a byte that is not is refused where it stands (a name read from the header
+    // goes into JSON and YAML outputs, which must be UTF-8).
+    if (const auto bad = invalid_utf8_at(line))
+      throw InputError(file, Mark{n, static_cast<int>(*bad) + 1 + bom},
+                       invalid_utf8_message(line, *bad));
     if (line.empty()) continue;
     if (t.names.empty() && line[0] == '#') {  // comment lines before the header
       last_comment = line;
@@ -100,8 +107,15 @@ CsvTable read_csv(const std::string& file, std::size_t min_rows) {
               file, Mark{n, 1},
               "the first line must be a header of column names (got '" + line + "')" + hint);
         }
+        // Two columns of one name: which one a reader takes would be a guess.
+        if (const int first = t.find(name); first >= 0)
+          throw InputError(file, Mark{n, starts[t.names.size()] + bom},
+                           "column '" + name + "' is named twice (columns " +
+                               std::to_string(first + 1) + " and " +
+                               std::to_string(t.names.size() + 1) + ")");
         t.names.push_back(name);
       }
+      t.header_line = n;
       t.columns.resize(t.names.size());
       continue;
     }
@@ -119,7 +133,9 @@ CsvTable read_csv(const std::string& file, std::size_t min_rows) {
     }
     t.lines.push_back(n);
   }
-  if (t.names.empty()) throw InputError(file, Mark{}, "the file is empty");
+  if (t.names.empty())
+    throw InputError(file, Mark{1, 1},
+                     n == 0 ? "the file is empty" : "the file has no header line (only comments)");
   if (t.rows() < min_rows)
     throw InputError(file, Mark{n, 1},
                      "only " + std::to_string(t.rows()) + " data rows; at least " +
@@ -153,7 +169,8 @@ void require_no_duplicates(const CsvTable& t, const std::vector<std::string>& co
 InputError row_error(const CsvTable& t, const InvalidInput& e) {
   // The data row "COLUMN[i]" the violation points at is the table's row i.
   const std::optional<std::size_t> i = last_index(e.violation().where());
-  const Mark mark = i && *i < t.lines.size() ? Mark{t.lines[*i], 1} : Mark{};
+  // A rule of the data as a whole names the header, the nearest place to it.
+  const Mark mark = i && *i < t.lines.size() ? Mark{t.lines[*i], 1} : Mark{t.header_line, 1};
   return InputError(t.file, mark, e.message());
 }
 

@@ -10,6 +10,8 @@
 #include <fstream>
 #include <sstream>
 
+#include "lapwing/base/text.hpp"
+
 namespace lapwing {
 
 const Node* Node::find(std::string_view key) const {
@@ -31,8 +33,9 @@ class TreeBuilder : public YAML::EventHandler {
 
   Node take() { return std::move(root_); }
   bool complete() const { return done_; }
+  Mark start() const { return start_; }
 
-  void OnDocumentStart(const YAML::Mark&) override {}
+  void OnDocumentStart(const YAML::Mark& mark) override { start_ = to_mark(mark); }
   void OnDocumentEnd() override { done_ = true; }
 
   void OnNull(const YAML::Mark& mark, YAML::anchor_t anchor) override {
@@ -118,7 +121,7 @@ class TreeBuilder : public YAML::EventHandler {
       if (n.kind != Node::Kind::scalar)
         throw InputError(file_, n.mark, "map keys must be plain words");
       for (std::size_t i = 0; i < top.node.entries.size(); ++i)
-        if (top.node.entries[i].first == n.scalar)
+        if (top.node.entries[i].key == n.scalar)
           throw InputError(file_, n.mark,
                            "duplicate key '" + n.scalar + "' (first given at line " +
                                std::to_string(top.node.key_marks[i].line) + ")");
@@ -127,7 +130,7 @@ class TreeBuilder : public YAML::EventHandler {
       top.key_mark = n.mark;
       return;
     }
-    top.node.entries.emplace_back(std::move(top.key), std::move(n));
+    top.node.entries.push_back({std::move(top.key), std::move(n)});
     top.node.key_marks.push_back(top.key_mark);
     top.has_key = false;
   }
@@ -135,6 +138,7 @@ class TreeBuilder : public YAML::EventHandler {
   std::string file_;
   std::vector<Frame> stack_;
   Node root_;
+  Mark start_{1, 1};
   bool done_ = false;
 };
 
@@ -144,6 +148,12 @@ Document parse_document(const std::string& text, const std::string& file) {
   Document doc;
   doc.file = file;
   doc.directory = std::filesystem::path(file).parent_path();
+  // Text is UTF-8 (YAML 1.2, 5.2; lapwing's files and outputs are UTF-8): a byte that is not is
+  // refused where it stands, before the parser reads it.
+  if (const auto bad = invalid_utf8_at(text)) {
+    const TextPosition at = position_of(text, *bad);
+    throw InputError(file, Mark{at.line, at.col}, invalid_utf8_message(text, *bad));
+  }
   std::istringstream in(text);
   try {
     YAML::Parser parser(in);
@@ -153,7 +163,7 @@ Document parse_document(const std::string& text, const std::string& file) {
     doc.root = builder.take();
     TreeBuilder rest(file);
     if (parser.HandleNextDocument(rest))
-      throw InputError(file, Mark{}, "more than one YAML document in the file");
+      throw InputError(file, rest.start(), "more than one YAML document in the file");
   } catch (const YAML::Exception& e) {
     throw InputError(file, to_mark(e.mark), "YAML syntax: " + e.msg);
   }
@@ -224,7 +234,7 @@ const Node& Reader::require(std::string_view key) {
   if (n) return *n;
   // A missing key next to a misspelt one: name the misspelling where it stands.
   for (std::size_t i = 0; i < node_->entries.size() && !allowed_.empty(); ++i) {
-    const std::string& k = node_->entries[i].first;
+    const std::string& k = node_->entries[i].key;
     if (std::find(allowed_.begin(), allowed_.end(), k) != allowed_.end()) continue;
     if (closest(k, {std::string(key)}) == key)
       throw InputError(doc_->file, node_->key_marks[i],
@@ -335,7 +345,7 @@ void Reader::finish(const std::vector<std::string>& also_known) {
   known.insert(known.end(), allowed_.begin(), allowed_.end());
   known.insert(known.end(), also_known.begin(), also_known.end());
   for (std::size_t i = 0; i < node_->entries.size(); ++i) {
-    const std::string& k = node_->entries[i].first;
+    const std::string& k = node_->entries[i].key;
     if (std::find(read_.begin(), read_.end(), k) != read_.end()) continue;
     std::string near = closest(k, known);
     throw InputError(

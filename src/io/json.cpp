@@ -6,12 +6,15 @@
 #include <stdexcept>
 
 #include "lapwing/base/format.hpp"
+#include "lapwing/base/text.hpp"
 
 namespace lapwing {
 
 std::string json_quote(std::string_view s) {
+  // JSON text is UTF-8 (RFC 8259, 8.1): a byte that is not (a file name's, say) becomes U+FFFD.
+  const std::string text = valid_utf8(s);
   std::string o = "\"";
-  for (char c : s) {
+  for (char c : text) {
     switch (c) {
       case '"':
         o += "\\\"";

@@ -6,11 +6,13 @@
 
 #include "lapwing/base/error.hpp"
 #include "lapwing/base/format.hpp"
+#include "lapwing/base/text.hpp"
 #include "lapwing/base/units.hpp"
 #include "lapwing/io/csv.hpp"
 #include "lapwing/io/csv_writer.hpp"
 #include "lapwing/io/json.hpp"
 #include "lapwing/io/line_track.hpp"
+#include "lapwing/model/track.hpp"
 #include "lapwing/path/log_curvature.hpp"
 
 namespace lapwing {
@@ -168,7 +170,18 @@ LogTrack track_from_log(const LogOptions& o, const std::string& csv_name) {
        << " turns where a lap makes a whole number): "
        // Fewer than one turn: curvature too small (the usual case); more: too large.
        << unit_hint(std::abs(lc.turns) > 1.0);
-    throw InputError(o.log, Mark{}, os.str());
+    throw InputError(o.log, Mark{t.lines.back(), 1}, os.str());  // the end that misses
+  }
+  // What it writes must load: no turn tighter than any track's 1 m radius (issue 19, finding 12:
+  // a lap closed over a few metres, a slow log's a_y / v^2).
+  if (!(std::abs(lc.tightest_1pm) <= max_curvature_1pm)) {
+    std::ostringstream os;
+    os.precision(3);
+    os << "the track from this log turns tighter than a 1 m radius near this row (curvature "
+       << lc.tightest_1pm << " 1/m, filtered over " << lc.smoothing_m << " m"
+       << (o.closed ? ", its closure spread along the lap" : "")
+       << "); a track's is at most 1/m: is the log too short or too slow for a track?";
+    throw InputError(o.log, Mark{t.lines[lc.tightest_row], 1}, os.str());
   }
   LogTrack out{};
   out.length_m = lc.length_m;
@@ -182,8 +195,10 @@ LogTrack track_from_log(const LogOptions& o, const std::string& csv_name) {
   for (std::size_t j = 0; j < lc.s_m.size(); ++j) csv.add({lc.s_m[j], lc.curvature_1pm[j]});
   std::ostringstream y_out;
   const std::string name = o.name.empty() ? std::filesystem::path(o.log).stem().string() : o.name;
+  // The log's file name in a comment: one printable line (a newline in the name once wrote
+  // keys into the track: issue 19, finding 9), and UTF-8 as the file must be.
   y_out << "# Made by 'lapwing track from-log' from "
-        << std::filesystem::path(o.log).filename().string() << ": curvature from "
+        << printable(std::filesystem::path(o.log).filename().string()) << ": curvature from "
         << (by_yaw ? "yaw rate / speed" : "lateral acceleration / speed^2") << ", filtered over "
         << fixed(lc.smoothing_m, 1) << " m"
         << (lc.smoothing.automatic ? " (auto: generalised cross-validation)" : "") << ".\n";

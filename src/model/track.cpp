@@ -3,6 +3,8 @@
 #include <cmath>
 #include <string>
 
+#include "lapwing/base/format.hpp"
+
 namespace lapwing {
 
 double Track::length_m() const {
@@ -35,7 +37,7 @@ std::optional<Violation> Segment::validate() const {
   const double k0 = curvature_start_1pm, k1 = curvature_end_1pm;
   // An arc's radius and angle come back from its curvature and length with the rounding of
   // R angle and 1 / R: the upper bounds allow 1e-12 of it, so that a file's 100 km radius or
-  // two whole turns pass.
+  // two whole turns pass (1 m comes back exact: 1 / (1 / 1) = 1).
   auto derived = [](Range r) {
     r.hi *= 1 + 1e-12;
     return r;
@@ -111,6 +113,14 @@ std::optional<Violation> PathProfile::validate() const {
    }).each("bank_rad", bank_rad, Segment::bank_range, Quantity::angle);
   f.rule(n == 0 || s_m.front() == 0.0, "s_m", "a path profile starts at distance 0")
       .order("s_m", s_m, true);
+  for (std::size_t i = 0; i < curvature_1pm.size() && !f.found(); ++i)
+    f.rule(
+        std::abs(curvature_1pm[i]) <= max_curvature_1pm, "curvature_1pm",
+        [&] {
+          return "curvature " + format_readable(curvature_1pm[i]) + " 1/m at " +
+                 format_readable(s_m[i]) + " m is beyond 1/m (a radius under 1 m)";
+        },
+        "curvature_1pm[" + std::to_string(i) + "]");
   // Widths: both or neither, one per sample, every one > 0 (the distance to an edge).
   f.rule(width_left_m.size() == width_right_m.size(), "width_right_m",
          "give both widths (width_left_m and width_right_m) or neither");

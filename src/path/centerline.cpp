@@ -3,6 +3,7 @@
 #include <algorithm>
 #include <cassert>
 #include <cmath>
+#include <sstream>
 #include <string>
 
 #include "lapwing/base/error.hpp"
@@ -72,6 +73,7 @@ std::vector<double> chord_lengths(const CenterlinePoints& p, bool closed) {
 struct Samples {
   double h = 0.0;
   std::vector<double> x, y, z, wl, wr, bank;
+  std::vector<std::size_t> nearest;  // the data point nearest each sample (for errors)
   std::size_t size() const { return x.size(); }
 };
 Samples resample(const CenterlinePoints& p, bool closed, const std::vector<double>& c,
@@ -109,6 +111,7 @@ Samples resample(const CenterlinePoints& p, bool closed, const std::vector<doubl
                  h11 = w3 - w2;
     r.x.push_back(h00 * p.x_m[a] + h10 * d * tx[a] + h01 * p.x_m[b] + h11 * d * tx[b]);
     r.y.push_back(h00 * p.y_m[a] + h10 * d * ty[a] + h01 * p.y_m[b] + h11 * d * ty[b]);
+    r.nearest.push_back(w < 0.5 ? a : b);
     if (has_z) r.z.push_back(at(p.z_m));
     if (has_w) {
       r.wl.push_back(at(p.width_left_m));
@@ -278,6 +281,38 @@ PathProfile fit_centerline(std::shared_ptr<const CenterlinePoints> given, bool c
   for (std::size_t j = 0; j < samples; ++j) res[j] = std::hypot(r.x[j] - fx[j], r.y[j] - fy[j]);
   p.fit_residual_rms_m = rms(res, std::vector<double>(samples, 0.0));
   const auto k = curvature_of(fx, fy, h, closed);
+  // The fit must be a road: nowhere tighter than a 1 m radius, as a curvature file's rows are
+  // checked. A path that runs out and straight back (a cusp) has none (0 / 0) at its turn, or
+  // one far beyond 1/m, and a lap of it would mean nothing (issue 19, finding 7).
+  // The turn between consecutive chords of the fit is checked too: where the path reverses
+  // between two samples its derivatives need not vanish on the grid, and the curvature formula
+  // can read 0 (a straight that runs back on itself).
+  auto chord_turn = [&](std::size_t j) {  // turn per metre from chord j - 1 to chord j
+    const std::size_t a = (j + samples - 1) % samples, b = (j + 1) % samples;
+    const double ux = fx[j] - fx[a], uy = fy[j] - fy[a], vx = fx[b] - fx[j], vy = fy[b] - fy[j];
+    const double turn = std::atan2(ux * vy - uy * vx, ux * vx + uy * vy);
+    return turn / (0.5 * (std::hypot(ux, uy) + std::hypot(vx, vy)));
+  };
+  for (std::size_t j = 0; j < samples; ++j) {
+    const bool inner = closed || (j > 0 && j + 1 < samples);
+    const double turn = inner ? chord_turn(j) : 0.0;
+    if (std::abs(k[j]) <= max_curvature_1pm && std::abs(turn) <= max_curvature_1pm) continue;
+    std::ostringstream os;
+    os.precision(3);
+    os << "the centerline fitted over " << length << " m turns tighter than a 1 m radius "
+       << "near this point (";
+    if (std::isfinite(k[j]) && std::abs(k[j]) > max_curvature_1pm)
+      os << "curvature " << k[j] << " 1/m";
+    else if (std::isfinite(turn))
+      os << "a turn of " << std::abs(turn) << " rad/m between chords";
+    else
+      os << "no curvature: the path stops and turns back";
+    os << " at " << static_cast<double>(j) * h
+       << " m along the points): a cusp, a point out of place or points out of order; fix the "
+          "points, or smooth over a longer length";
+    throw InvalidInput(pts.source,
+                       broken_rule("", os.str(), "x_m[" + std::to_string(r.nearest[j]) + "]"));
+  }
   // Raw curvature (over 5 m chords, so that it is finite) against the fitted one: the noise the
   // fit removed.
   {

@@ -47,7 +47,7 @@ PathProfile profile_from_curvature(std::string source, const std::vector<double>
                                                 row("distance_m", d.size() - 1)));
   p.curvature_1pm = std::move(curvature);
   for (std::size_t i = 0; i < p.curvature_1pm.size(); ++i)
-    if (std::abs(p.curvature_1pm[i]) > 1.0)
+    if (!(std::abs(p.curvature_1pm[i]) <= max_curvature_1pm))
       throw InvalidInput(p.data_file, broken_rule("", "curvature beyond 1/m (a radius under 1 m)",
                                                   row("curvature_1pm", i)));
   p.grade = std::move(grade);

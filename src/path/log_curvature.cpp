@@ -2,11 +2,12 @@
 
 #include <algorithm>
 #include <cmath>
-
+#include <sstream>
 #include <string>
-#include "lapwing/base/interpolate.hpp"
 
 #include "lapwing/base/error.hpp"
+#include "lapwing/base/format.hpp"
+#include "lapwing/base/interpolate.hpp"
 #include "lapwing/base/units.hpp"
 #include "lapwing/model/track.hpp"
 #include "lapwing/path/curvature_profile.hpp"
@@ -38,6 +39,23 @@ LogCurvature log_curvature(const LogChannels& log, const LogCurvatureOptions& o)
   auto row_path = [](const char* column, std::size_t i) {
     return std::string(column) + "[" + std::to_string(i) + "]";
   };
+  // Each row within what a car logs: a value beyond is a unit read wrong or a corrupt row (one
+  // row of 1e308 m/s2 once overflowed the curvature to infinity: issue 19, finding 6).
+  auto beyond = [&](const char* column, const std::vector<double>& c, double limit,
+                    const char* what) {
+    for (std::size_t i = 0; i < c.size(); ++i)
+      if (!(std::abs(c[i]) <= limit))
+        throw InvalidInput(
+            log.source, broken_rule("", std::string(what) + ": no car logs one; is the unit right?",
+                                    row_path(column, i)));
+  };
+  beyond("speed_mps", v, log_max_row_speed_mps, "a speed beyond 900 km/h");
+  if (by_yaw)
+    beyond("yaw_rate_radps", turning, log_max_row_yaw_radps,
+           "a yaw rate beyond 10 rad/s (573 deg/s)");
+  else
+    beyond("lat_accel_mps2", turning, log_max_row_lateral_mps2,
+           "a lateral acceleration beyond 50 g");
   // Distance: given, or integrated from time.
   std::vector<double> s(v.size(), 0.0);
   if (by_distance) {
@@ -45,10 +63,12 @@ LogCurvature log_curvature(const LogChannels& log, const LogCurvatureOptions& o)
   } else {
     for (std::size_t i = 1; i < s.size(); ++i)
       s[i] = s[i - 1] + 0.5 * (v[i] + v[i - 1]) * (along[i] - along[i - 1]);
-    for (std::size_t i = 1; i < s.size(); ++i)
+    for (std::size_t i = 1; i < s.size(); ++i) {
+      if (!std::isfinite(s[i])) break;  // beyond any length: refused below
       if (!(s[i] > s[i - 1]))
         throw InvalidInput(log.source, broken_rule("", "the car does not move between these rows",
                                                    row_path("time_s", i)));
+    }
   }
   // Curvature: a_y / v^2 or yaw rate / v, bridged over slow rows.
   std::vector<double> k(v.size(), 0.0);
@@ -75,11 +95,22 @@ LogCurvature log_curvature(const LogChannels& log, const LogCurvatureOptions& o)
   }
   // Resample evenly and filter.
   const double length = s.back();
-  if (length > PathProfile::max_length_m)
+  if (!(length <= PathProfile::max_length_m))
     throw InvalidInput(log.source, broken_rule("", "the log covers more than 200 km",
                                                row_path("speed_mps", v.size() - 1)));
   const double h = 0.5;
   const std::size_t n = static_cast<std::size_t>(std::llround(length / h));
+  // Too short to be a track (a log of 0.18 m once became a one-row curvature file that no
+  // track could load, and a division by zero steps: issue 19, finding 6).
+  if (n + 1 < log_min_samples)
+    throw InvalidInput(
+        log.source,
+        broken_rule("",
+                    "the log covers " + format_readable(length) + " m; a track from a log needs " +
+                        format_readable(h * static_cast<double>(log_min_samples - 1)) +
+                        " m at least (" + std::to_string(log_min_samples) + " samples " +
+                        format_readable(h) + " m apart)",
+                    row_path("speed_mps", v.size() - 1)));
   const double step = length / static_cast<double>(n);
   std::vector<double> rs(n + 1), rk(n + 1), rv(n + 1);
   std::vector<std::size_t> row(n + 1);  // the log row nearest each sample (for errors)
@@ -184,6 +215,13 @@ LogCurvature log_curvature(const LogChannels& log, const LogCurvatureOptions& o)
       integrate_path(rs, rk, x, y, &th);
     }
   }
+  // The tightest turn left (a lap closed over a few metres, or a slow log's a_y / v^2, can end
+  // beyond the 1/m of any track: the caller refuses it, after its own checks).
+  for (std::size_t j = 0; j <= n; ++j)
+    if (!(std::abs(rk[j]) <= std::abs(out.tightest_1pm))) {
+      out.tightest_1pm = rk[j];
+      out.tightest_row = row[j];
+    }
   out.s_m = std::move(rs);
   out.curvature_1pm = std::move(rk);
   return out;

@@ -203,11 +203,11 @@ void check_closure(const Track& track) {
 
 }  // namespace
 
-PointRun longest_straight(const Mesh& mesh, double max_curvature_1pm) {
+PointRun longest_straight(const Mesh& mesh, double straight_below_1pm) {
   PointRun best, run;
   bool in = false;
   for (std::size_t i = 0; i < mesh.size(); ++i) {
-    if (std::abs(mesh.curvature_1pm[i]) < max_curvature_1pm) {
+    if (std::abs(mesh.curvature_1pm[i]) < straight_below_1pm) {
       if (!in) run.first = i;
       run.last = i;
       in = true;
@@ -219,6 +219,12 @@ PointRun longest_straight(const Mesh& mesh, double max_curvature_1pm) {
   return best;
 }
 
+std::size_t mesh_point_count(const Track& track, double step_m) {
+  return std::max<std::size_t>(2,
+                               static_cast<std::size_t>(std::llround(track.length_m() / step_m))) +
+         1;
+}
+
 Mesh build_mesh(const Track& track, double step_m) {
   require_valid(track.validate(), track.subject());
   require_valid(
@@ -226,8 +232,7 @@ Mesh build_mesh(const Track& track, double step_m) {
       "mesh step");
   const double length = track.length_m();
   if (track.closed) check_closure(track);
-  const std::size_t n =
-      std::max<std::size_t>(2, static_cast<std::size_t>(std::llround(length / step_m)));
+  const std::size_t n = mesh_point_count(track, step_m) - 1;
   Mesh m;
   m.closed = track.closed;
   m.length_m = length;

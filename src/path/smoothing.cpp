@@ -1,13 +1,11 @@
 #include "lapwing/path/smoothing.hpp"
 
-#include <Eigen/Sparse>
-#include <Eigen/SparseCholesky>
-
 #include <algorithm>
 #include <cassert>
 #include <cmath>
 #include <cstdint>
-#include <stdexcept>
+#include <limits>
+#include <variant>
 
 #include "lapwing/base/units.hpp"
 
@@ -15,31 +13,152 @@ namespace lapwing {
 
 namespace {
 
-using SparseMatrix = Eigen::SparseMatrix<double>;
+// The factorisation's number type: IEEE binary128 (113-bit significand). The matrix
+// I + lambda D'D holds lambda ~ 1e13..1e17 for strengths of hundreds of metres on 1 m samples
+// (and the 1 of I beside it): in double precision (53 bits) LDLT keeps no significant digit of
+// the smooth components the fit is made of (issue 19, finding 5: a 6283 m circle and a 3000 m
+// line came back with the wrong length). In binary128 the entries lambda c + 1 are exact (c a
+// small integer: 58 bits at most) and the solve loses log2(4^d lambda) ~ 62 bits of 113, leaving
+// the solution good to double precision. Only + - * / are used (libgcc's soft float).
+#if defined(__SIZEOF_FLOAT128__)
+__extension__ typedef __float128 wide;
+#else
+typedef long double wide;  // binary128 where __float128 is not offered (aarch64 Linux)
+static_assert(std::numeric_limits<long double>::digits >= 113,
+              "the smoother needs a 113-bit floating-point type");
+#endif
 
-// D'D for the d-th difference operator on n samples (periodic: n rows, else n - d).
-SparseMatrix penalty(Eigen::Index n, int order, bool periodic) {
-  // Binomial coefficients of the d-th difference: (-1)^(d-k) C(d, k).
-  std::vector<double> coef(static_cast<std::size_t>(order) + 1);
-  for (int k = 0; k <= order; ++k) {
-    double c = 1.0;
-    for (int j = 0; j < k; ++j) c = c * (order - j) / (j + 1);
-    coef[static_cast<std::size_t>(k)] = ((order - k) % 2 ? -1.0 : 1.0) * c;
+// A symmetric positive definite matrix stored by its envelope (profile): row i holds columns
+// first[i]..i of the lower triangle. LDL' without pivoting keeps its fill inside the envelope
+// (George & Liu, Computer Solution of Large Sparse Positive Definite Systems, 1981, ch. 4).
+template <typename T>
+struct Envelope {
+  std::vector<std::size_t> first, start;  // first column of each row; offset of its storage
+  std::vector<T> a;                       // the rows, then L (unit lower) in place
+  std::vector<T> d;                       // D of L D L'
+
+  explicit Envelope(const std::vector<std::size_t>& first_column) : first(first_column) {
+    start.resize(first.size() + 1, 0);
+    for (std::size_t i = 0; i < first.size(); ++i) start[i + 1] = start[i] + (i - first[i] + 1);
+    a.assign(start.back(), T(0));
   }
-  const Eigen::Index rows = periodic ? n : n - order;
-  std::vector<Eigen::Triplet<double>> t;
-  for (Eigen::Index r = 0; r < rows; ++r)
-    for (int k = 0; k <= order; ++k)
-      t.emplace_back(r, (r + k) % n, coef[static_cast<std::size_t>(k)]);
-  SparseMatrix d(rows, n);
-  d.setFromTriplets(t.begin(), t.end());
-  return SparseMatrix(d.transpose() * d);
+  T& at(std::size_t i, std::size_t j) { return a[start[i] + (j - first[i])]; }
+  const T& at(std::size_t i, std::size_t j) const { return a[start[i] + (j - first[i])]; }
+
+  void factor() {
+    const std::size_t n = first.size();
+    d.assign(n, T(0));
+    for (std::size_t i = 0; i < n; ++i) {
+      for (std::size_t j = first[i]; j < i; ++j) {
+        T s = at(i, j);
+        for (std::size_t k = std::max(first[i], first[j]); k < j; ++k)
+          s -= at(i, k) * at(j, k) * d[k];
+        at(i, j) = s / d[j];
+      }
+      T s = at(i, i);
+      for (std::size_t k = first[i]; k < i; ++k) s -= at(i, k) * at(i, k) * d[k];
+      d[i] = s;
+    }
+  }
+
+  // L D L' x = b, in place.
+  void solve(std::vector<T>& x) const {
+    const std::size_t n = first.size();
+    for (std::size_t i = 0; i < n; ++i)
+      for (std::size_t k = first[i]; k < i; ++k) x[i] -= at(i, k) * x[k];
+    for (std::size_t i = 0; i < n; ++i) x[i] /= d[i];
+    for (std::size_t i = n; i-- > 0;)
+      for (std::size_t k = first[i]; k < i; ++k) x[k] -= at(i, k) * x[i];
+  }
+};
+
+// lambda 4^d below which double precision is enough: eps 1e5 = 2e-11 relative error.
+constexpr double double_precision_limit = 1e5;
+
+// (I + lambda D'D) f = y for one operator D (order d on n samples, periodic or not) and any
+// lambda: factored once per lambda, solved for as many right-hand sides as wanted. Every solve of
+// the smoother, fixed strength or GCV's search, goes through here, so each has the precision
+// above.
+class PenalisedSystem {
+ public:
+  PenalisedSystem(std::size_t n, int order, bool periodic)
+      : n_(n), d_(static_cast<std::size_t>(order)), periodic_(periodic) {
+    // Binomial coefficients of the d-th difference: (-1)^(d-k) C(d, k).
+    coef_.resize(d_ + 1);
+    for (std::size_t k = 0; k <= d_; ++k) {
+      double c = 1.0;
+      for (std::size_t j = 0; j < k; ++j)
+        c = c * static_cast<double>(d_ - j) / static_cast<double>(j + 1);
+      coef_[k] = ((d_ - k) % 2 ? -1.0 : 1.0) * c;
+    }
+    // The envelope of I + lambda D'D: a band of half-width d; a periodic D also joins the last d
+    // rows to the first columns (the wrap), which makes those rows full.
+    first_.resize(n);
+    for (std::size_t i = 0; i < n; ++i)
+      first_[i] = periodic && i + d_ >= n ? 0 : (i > d_ ? i - d_ : 0);
+  }
+
+  // Factors I + lambda D'D in T: binary128 when double precision would lose more than about
+  // 1e-11 of the result (the factorisation's error grows as eps lambda 4^d), else double (16
+  // times faster).
+  void factor(double lambda) {
+    if (lambda * std::pow(4.0, static_cast<double>(d_)) < double_precision_limit)
+      m_ = build<double>(lambda);
+    else
+      m_ = build<wide>(lambda);
+  }
+
+  std::vector<double> solve(const std::vector<double>& y) const {
+    return std::visit(
+        [&](const auto& m) {
+          using T = typename std::decay_t<decltype(m)>::value_type;
+          std::vector<T> f(y.begin(), y.end());
+          m.solve(f);
+          return std::vector<double>(f.begin(), f.end());
+        },
+        m_);
+  }
+
+ private:
+  template <typename T>
+  struct Factored : Envelope<T> {
+    using value_type = T;
+    using Envelope<T>::Envelope;
+  };
+
+  template <typename T>
+  Factored<T> build(double lambda) const {
+    Factored<T> m(first_);
+    // Row r of D has coef[k] at column (r + k) mod n: (D'D)_ij = sum_r D_ri D_rj.
+    const std::size_t rows = periodic_ ? n_ : n_ - d_;
+    for (std::size_t r = 0; r < rows; ++r)
+      for (std::size_t k1 = 0; k1 <= d_; ++k1)
+        for (std::size_t k2 = 0; k2 <= d_; ++k2) {
+          const std::size_t i = (r + k1) % n_, j = (r + k2) % n_;
+          if (j <= i) m.at(i, j) += T(lambda) * T(coef_[k1] * coef_[k2]);
+        }
+    for (std::size_t i = 0; i < n_; ++i) m.at(i, i) += T(1);
+    m.factor();
+    return m;
+  }
+
+  std::size_t n_, d_;
+  bool periodic_;
+  std::vector<double> coef_;
+  std::vector<std::size_t> first_;
+  std::variant<Factored<double>, Factored<wide>> m_{Factored<double>(std::vector<std::size_t>{})};
+};
+
+double squared_distance(const std::vector<double>& a, const std::vector<double>& b) {
+  double s = 0.0;
+  for (std::size_t i = 0; i < a.size(); ++i) s += (a[i] - b[i]) * (a[i] - b[i]);
+  return s;
 }
 
-SparseMatrix identity(Eigen::Index n) {
-  SparseMatrix eye(n, n);
-  eye.setIdentity();
-  return eye;
+double dot(const std::vector<double>& a, const std::vector<double>& b) {
+  double s = 0.0;
+  for (std::size_t i = 0; i < a.size(); ++i) s += a[i] * b[i];
+  return s;
 }
 
 }  // namespace
@@ -64,34 +183,24 @@ std::vector<double> smooth(const std::vector<double>& y, double h, double length
 
 std::vector<double> smooth_lambda(const std::vector<double>& y, double lambda, int order,
                                   bool periodic) {
-  const auto n = static_cast<Eigen::Index>(y.size());
-  if (n < order + 2) return y;
-  SparseMatrix a = lambda * penalty(n, order, periodic);
-  a += identity(n);
-  Eigen::SimplicialLDLT<SparseMatrix> solver(a);
-  if (solver.info() != Eigen::Success) throw std::runtime_error("smoothing: factorisation failed");
-  const Eigen::VectorXd b = Eigen::Map<const Eigen::VectorXd>(y.data(), n);
-  const Eigen::VectorXd f = solver.solve(b);
-  return std::vector<double>(f.data(), f.data() + n);
+  if (y.size() < static_cast<std::size_t>(order) + 2) return y;
+  PenalisedSystem system(y.size(), order, periodic);
+  system.factor(lambda);
+  return system.solve(y);
 }
 
 SmoothingChoice choose_smoothing(const std::vector<std::vector<double>>& series, double h,
                                  int order, bool periodic, double min_length, double max_length) {
   assert(!series.empty());
-  const auto n = static_cast<Eigen::Index>(series.front().size());
-  assert(n >= order + 3 && min_length > 0.0 && max_length >= min_length);
+  const std::size_t n = series.front().size();
+  assert(n >= static_cast<std::size_t>(order) + 3 && min_length > 0.0 && max_length >= min_length);
   const double nd = static_cast<double>(n);
-  const SparseMatrix p = penalty(n, order, periodic);
-  const SparseMatrix eye = identity(n);
-  Eigen::SimplicialLDLT<SparseMatrix> ldlt;
-  ldlt.analyzePattern(SparseMatrix(eye + p));
-  std::vector<Eigen::VectorXd> ys;
-  for (const auto& s : series) ys.push_back(Eigen::Map<const Eigen::VectorXd>(s.data(), n));
+  PenalisedSystem system(n, order, periodic);
 
   // Closed: the eigenvalues of the periodic D'D, (2 - 2 cos(2 pi k / n))^d.
   std::vector<double> eig;
   if (periodic)
-    for (Eigen::Index k = 0; k < n; ++k)
+    for (std::size_t k = 0; k < n; ++k)
       eig.push_back(
           std::pow(2.0 - 2.0 * std::cos(2.0 * units::pi * static_cast<double>(k) / nd), order));
   // Open: +-1 probes from a fixed-seed generator (64-bit LCG, Knuth's MMIX constants). 16 probes:
@@ -99,12 +208,12 @@ SmoothingChoice choose_smoothing(const std::vector<std::vector<double>>& series,
   // GCV's minimum lies, so n - tr H is known to well under 1 % (checked against the exact trace
   // in the tests).
   constexpr int probes = 16;
-  std::vector<Eigen::VectorXd> z;
+  std::vector<std::vector<double>> z;
   if (!periodic) {
     std::uint64_t state = 0x853C49E6748FEA9Bull;
     for (int k = 0; k < probes; ++k) {
-      Eigen::VectorXd v(n);
-      for (Eigen::Index i = 0; i < n; ++i) {
+      std::vector<double> v(n);
+      for (std::size_t i = 0; i < n; ++i) {
         state = state * 6364136223846793005ull + 1442695040888963407ull;
         v[i] = (state >> 63) ? 1.0 : -1.0;
       }
@@ -117,13 +226,12 @@ SmoothingChoice choose_smoothing(const std::vector<std::vector<double>>& series,
   };
   auto evaluate = [&](double length) {
     Eval e{length, smoothing_lambda(h, length, order), 0.0, 0.0, 0.0};
-    ldlt.factorize(SparseMatrix(eye + e.lambda * p));
-    if (ldlt.info() != Eigen::Success) throw std::runtime_error("smoothing: factorisation failed");
-    for (const auto& y : ys) e.rss += (y - ldlt.solve(y)).squaredNorm();
+    system.factor(e.lambda);
+    for (const auto& y : series) e.rss += squared_distance(y, system.solve(y));
     if (periodic) {
       for (double ek : eig) e.trace += 1.0 / (1.0 + e.lambda * ek);
     } else {
-      for (const auto& v : z) e.trace += v.dot(ldlt.solve(v));
+      for (const auto& v : z) e.trace += dot(v, system.solve(v));
       e.trace /= probes;
     }
     // GCV = n RSS / (n - tr H)^2 (Craven & Wahba 1979), RSS summed over the series.
@@ -166,8 +274,8 @@ SmoothingChoice choose_smoothing(const std::vector<std::vector<double>>& series,
   out.spacing_m = h;
   out.equivalent_dof = chosen.trace;
   out.samples = static_cast<int>(n);
-  out.noise_rms =
-      std::sqrt(chosen.rss / (static_cast<double>(ys.size()) * std::max(nd - chosen.trace, 1e-9)));
+  out.noise_rms = std::sqrt(
+      chosen.rss / (static_cast<double>(series.size()) * std::max(nd - chosen.trace, 1e-9)));
   out.at_lower_bound = best == 0;
   out.at_upper_bound = best + 1 == grid.size();
   out.exact_trace = periodic;

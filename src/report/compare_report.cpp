@@ -169,10 +169,13 @@ std::string compare_table(const Car& car, const Comparison& c,
   return o;
 }
 
-std::string delta_csv(const Mesh& mesh, const std::vector<double>& delta_s) {
-  CsvWriter<DeltaRow> w(delta_columns, mesh.size());
-  for (std::size_t i = 0; i < mesh.size(); ++i) w.add({mesh.s_m[i], delta_s[i]});
-  return w.take();
+void delta_csv(const Mesh& mesh, const std::vector<double>& delta_s, const OutputSink& sink) {
+  CsvWriter<DeltaRow> w(delta_columns);
+  for (std::size_t i = 0; i < mesh.size(); ++i) {
+    w.add({mesh.s_m[i], delta_s[i]});
+    w.flush(sink);
+  }
+  w.flush(sink, 0);
 }
 
 }  // namespace lapwing

@@ -239,10 +239,13 @@ constexpr CornerColumn corner_columns[] = {
 
 }  // namespace
 
-std::string trace_csv(const Lap& lap, const Mesh& mesh) {
-  CsvWriter<TraceRow> w(trace_columns, mesh.size());
-  for (std::size_t i = 0; i < mesh.size(); ++i) w.add({lap, mesh, i});
-  return w.take();
+void trace_csv(const Lap& lap, const Mesh& mesh, const OutputSink& sink) {
+  CsvWriter<TraceRow> w(trace_columns);
+  for (std::size_t i = 0; i < mesh.size(); ++i) {
+    w.add({lap, mesh, i});
+    w.flush(sink);
+  }
+  w.flush(sink, 0);
 }
 
 std::string corners_csv(const std::vector<LapSummary>& results) {

@@ -144,6 +144,8 @@ expect_usage "no config named 'mid'" compare --car cars/caldra-gt.yaml --track t
 expect_usage "no config named 'mid'" trade --car cars/caldra-gt.yaml --track tracks/skidpad.yaml --config mid
 expect_usage "--step: 60 % is out of range" trade --car cars/caldra-gt.yaml --track tracks/skidpad.yaml --step "60 %"
 expect_usage "--step: 0 % is out of range" trade --car cars/caldra-gt.yaml --track tracks/skidpad.yaml --step "0 %"
+# A step so small that x (1 + step) == x once gave sensitivities of exactly 0 (issue 19, finding 12).
+expect_usage "--step: 1e-300 is out of range" trade --car cars/caldra-gt.yaml --track tracks/skidpad.yaml --step 1e-300
 expect_usage "is given twice" compare --car cars/caldra-gt.yaml --track tracks/skidpad.yaml --track ./tracks/skidpad.yaml
 expect_usage "is given twice" trade --car cars/caldra-gt.yaml --track tracks/skidpad.yaml --track tracks/skidpad.yaml
 expect_usage "--model: 'bicycle' is not one of point-mass | axle" run --car cars/caldra-gt.yaml --track tracks/skidpad.yaml --model bicycle
@@ -301,7 +303,7 @@ expect_error "lapwing: error: --track is given 2 times; run laps one track (comp
 ! grep -q "At Most" "$tmp/stderr" && ok || bad "the parser library's words for --track twice"
 expect_error "lapwing: error: --car is given 2 times; check takes one" \
   check --car cars/caldra-gt.yaml --car=cars/pellion-fr2.yaml
-expect_error "lapwing: error: --step: 2 is out of range ((0, 50] %); did you mean 2 %?" \
+expect_error "lapwing: error: --step: 2 is out of range ([0.1, 50] %); did you mean 2 %?" \
   trade --car cars/caldra-gt.yaml --track tracks/skidpad.yaml --step 2
 expect_error "--humidity: 60 is out of range ([0, 100] %); did you mean 60 %?" \
   run --car cars/caldra-gt.yaml --track tracks/skidpad.yaml --humidity 60
@@ -310,7 +312,7 @@ expect_error "--pressure: 985 is out of range ([30000, 110000] Pa); did you mean
 expect_error "--temperature: 300 is out of range ([-50, 70] C); did you mean 300 K?" \
   check --car cars/caldra-gt.yaml --temperature 300
 # A value given with its unit and still out of range gets no guess.
-expect_error "--step: 60 % is out of range ((0, 50] %)" \
+expect_error "--step: 60 % is out of range ([0.1, 50] %)" \
   trade --car cars/caldra-gt.yaml --track tracks/skidpad.yaml --step "60 %"
 ! grep -q "did you mean" "$tmp/stderr" && ok || bad "a guess for a value given with its unit"
 
@@ -342,7 +344,64 @@ want="below the speed table's first row (360.0 km/h) its values are held: 100.0 
   --config medium_table --out "$tmp/mpsc" > /dev/null && grep -qF "\"$want\"" "$tmp/mpsc/summary.json" &&
   ok || bad "compare: speed table in m/s not in summary.json"
 
-# 15. The racing line (issue 13). track line writes OUT.yaml and OUT.csv (the line with the widths
+# 15. Output names unique by construction and folders as transactions (issue 19, finding 2 and
+#     deliver 2). Two tracks of one file stem, or configs whose names joined by '-' read alike
+#     ("x" + "y-z" and "x-y" + "z"), are a usage error naming both, before anything is written.
+mkdir -p "$tmp/stem/a" "$tmp/stem/b" && cp tracks/skidpad.yaml "$tmp/stem/a/t.yaml" &&
+  cp tracks/skidpad.yaml "$tmp/stem/b/t.yaml"
+"$bin" compare --car cars/caldra-gt.yaml --track "$tmp/stem/a/t.yaml" --track "$tmp/stem/b/t.yaml" \
+  --out "$tmp/stem/out" > /dev/null 2> "$tmp/stderr"
+[ $? -eq 2 ] && grep -q "^lapwing: error: two outputs would be named trace-t-" "$tmp/stderr" &&
+  grep -qF "$tmp/stem/a/t.yaml" "$tmp/stderr" && grep -qF "$tmp/stem/b/t.yaml" "$tmp/stderr" &&
+  [ "$(ls -A "$tmp/stem" | tr '\n' ' ')" = "a b " ] && ok || bad "tracks of one stem: $(cat "$tmp/stderr")"
+"$bin" trade --car cars/caldra-gt.yaml --track "$tmp/stem/a/t.yaml" --track "$tmp/stem/b/t.yaml" \
+  --out "$tmp/stem/out" > /dev/null 2> "$tmp/stderr"
+[ $? -eq 2 ] && grep -q "two outputs would be named trade-grid-t.csv" "$tmp/stderr" &&
+  [ ! -e "$tmp/stem/out" ] && ok || bad "trade, tracks of one stem: $(cat "$tmp/stderr")"
+sed 's/^    low:/    x:/; s/^    medium:/    y-z:/; s/^    high:/    x-y:/; s/^    medium_table:/    z:/' \
+  cars/pellion-fr2.yaml > "$tmp/dash-car.yaml"
+"$bin" compare --car "$tmp/dash-car.yaml" --track tracks/skidpad.yaml --config x --config y-z \
+  --config x-y --config z --out "$tmp/dash" > /dev/null 2> "$tmp/stderr"
+[ $? -eq 2 ] && grep -qF "two outputs would be named delta-skidpad-x-y-z.csv: --track tracks/skidpad.yaml with configs x and y-z, and --track tracks/skidpad.yaml with configs x-y and z" "$tmp/stderr" &&
+  [ ! -e "$tmp/dash" ] && ok || bad "configs joined alike: $(cat "$tmp/stderr")"
+# A second run replaces the folder whole: a config of the first run leaves no file behind.
+"$bin" compare --car cars/caldra-gt.yaml --track tracks/skidpad.yaml --out "$tmp/again" > /dev/null &&
+  "$bin" run --car cars/caldra-gt.yaml --track tracks/skidpad.yaml --config low_drag --out "$tmp/again" \
+    > /dev/null && [ "$(ls "$tmp/again" | tr '\n' ' ')" = "corners.csv report.html summary.json trace-skidpad-low_drag.csv " ] &&
+  [ -z "$(ls -A "$tmp" | grep lapwing-stage)" ] && ok || bad "second run left a mix: $(ls -A "$tmp/again")"
+# A folder holding the user's own files is not replaced.
+mkdir -p "$tmp/mine" && echo keep > "$tmp/mine/notes.txt"
+"$bin" run --car cars/caldra-gt.yaml --track tracks/skidpad.yaml --out "$tmp/mine" > /dev/null 2> "$tmp/stderr"
+[ $? -eq 2 ] && grep -q "will not replace $tmp/mine: it holds notes.txt" "$tmp/stderr" &&
+  [ "$(ls -A "$tmp/mine")" = notes.txt ] && ok || bad "user's folder: $(cat "$tmp/stderr")"
+# Symlinks and devices are written through (finding 4): --json /dev/stdout reaches the pipe and
+# /dev/stdout stays the link it was; a linked --out folder keeps its link.
+"$bin" check --car cars/caldra-gt.yaml --track tracks/skidpad.yaml --json /dev/stdout |
+  grep -q '"corner_count"' && [ -L /dev/stdout ] && ok || bad "check --json /dev/stdout"
+mkdir -p "$tmp/real-out" && ln -s real-out "$tmp/link-out"
+"$bin" run --car cars/caldra-gt.yaml --track tracks/skidpad.yaml --out "$tmp/link-out" > /dev/null &&
+  [ -L "$tmp/link-out" ] && [ -s "$tmp/real-out/summary.json" ] && ok || bad "linked --out replaced"
+# "cannot write" says why (finding 12).
+"$bin" check --car cars/caldra-gt.yaml --track tracks/skidpad.yaml --json "$tmp/mine/notes.txt/x.json" \
+  > /dev/null 2> "$tmp/stderr"
+[ $? -eq 2 ] && grep -q "^lapwing: error: cannot write $tmp/mine/notes.txt/x.json: Not a directory$" "$tmp/stderr" &&
+  ok || bad "cannot write without a reason: $(cat "$tmp/stderr")"
+
+# 16. Bounded memory (issue 19, finding 11; deliver 3): a study estimated to need more than
+#     --memory-limit is refused at once, exit 2, naming the mesh, the estimate and the limit, and
+#     writes nothing; under the limit it runs.
+"$bin" compare --car cars/caldra-gt.yaml --track tracks/brannock-park.yaml --threads 1 \
+  --memory-limit 10MB --out "$tmp/mem" > /dev/null 2> "$tmp/stderr"
+[ $? -eq 2 ] && grep -qE "^lapwing: error: needs about [0-9.]+ MB of memory, more than --memory-limit 10.0 MB: the mesh of tracks/brannock-park.yaml has [0-9]+ points \([0-9.]+ m at a step of 0.5 m\), with 2 laps kept per track, 1 lap solved at once" "$tmp/stderr" &&
+  [ ! -e "$tmp/mem" ] && ok || bad "compare over --memory-limit: $(cat "$tmp/stderr")"
+"$bin" run --car cars/caldra-gt.yaml --track tracks/skidpad.yaml --memory-limit "1 GiB" > /dev/null &&
+  ok || bad "run under --memory-limit 1 GiB"
+"$bin" trade --car cars/caldra-gt.yaml --track tracks/skidpad.yaml --memory-limit 1MB > /dev/null 2> "$tmp/stderr"
+[ $? -eq 2 ] && grep -q "more than --memory-limit 1.00 MB: the mesh of tracks/skidpad.yaml has" "$tmp/stderr" &&
+  ok || bad "trade over --memory-limit: $(cat "$tmp/stderr")"
+expect_usage "--memory-limit: '12 parsecs' is not a size" run --car cars/caldra-gt.yaml --track tracks/skidpad.yaml --memory-limit "12 parsecs"
+
+# 17. The racing line (issue 13). track line writes OUT.yaml and OUT.csv (the line with the widths
 #     measured from it), prints the length, the largest offset and, with --car, both laps; lapping
 #     OUT.yaml laps the line (within 0.1 %: the file's points are refitted); laid again over its
 #     own output the line barely moves (within 0.25 % of the lap: the widths are measured along
@@ -368,6 +427,14 @@ awk -v a="$line_lap" -v b="$file_lap" 'BEGIN { exit !(a > 0 && (a - b) ^ 2 <= (0
   again_lap=$(sed -n 's/.*, line \([0-9.]*\) s.*/\1/p' "$tmp/again.txt") &&
   awk -v a="$line_lap" -v b="$again_lap" 'BEGIN { exit !(a > 0 && (a - b) ^ 2 <= (0.0025 * a) ^ 2) }' &&
   ok || bad "track line on its own output: $line_lap s, then $(cat "$tmp/again.txt")"
+# It writes beside the other files of its folder (no folder transaction: the first line is still
+# there), and never over the track it reads or that track's data (issue 19's output rules).
+[ -s "$tmp/line/bp-line.yaml" ] && [ -s "$tmp/line/bp-line.csv" ] && [ -s "$tmp/line/again.csv" ] &&
+  ok || bad "track line removed other files of its folder: $(ls -A "$tmp/line")"
+cp "$tmp/line/bp-line.csv" "$tmp/line/keep.csv"
+expect_error "would replace $tmp/line/bp-line.yaml, which the track reads" \
+  track line --track "$tmp/line/bp-line.yaml" --out "$tmp/line/bp-line.yaml"
+cmp -s "$tmp/line/bp-line.csv" "$tmp/line/keep.csv" && ok || bad "track line replaced its own input"
 # min-time: both laps, the min-time one no slower.
 "$bin" track line --track tracks/brannock-park.yaml --out "$tmp/line/bp-mt.yaml" --method min-time \
   --car cars/pellion-fr2.yaml > "$tmp/mt.txt" &&
@@ -389,7 +456,7 @@ expect_error "a racing line needs the track's widths" \
   [ "$(grep -o 'polyline fill="none" stroke="#8a8a8a"' "$tmp/lined/report.html" | wc -l)" -eq 2 ] &&
   grep -q 'id="quality-cairnholt-line"' "$tmp/lined/report.html" &&
   grep -q '"verdict": "good"' "$tmp/lined/summary.json" && ok || bad "run on a line: report or summary.json"
-# 16. Data-quality verdicts: the survey is good; its points taken 26 m apart are poor, a warning in
+# 18. Data-quality verdicts: the survey is good; its points taken 26 m apart are poor, a warning in
 #     run, in summary.json and in the report.
 "$bin" run --car cars/caldra-gt.yaml --track tracks/brannock-park-survey.yaml > "$tmp/survey.txt" &&
   grep -q "^track data: centerline, points 2.0 m apart, noise [0-9]* mm rms (GCV estimate), lap [0-9.]* % apart between half and double smoothing: good" "$tmp/survey.txt" &&

@@ -23,6 +23,41 @@ TEST_CASE("a rule about row i of a table is reported at that row's file line") {
   CHECK(placed.mark().col == 1);
   CHECK(std::string(placed.what()) ==
         t.file + ":" + std::to_string(t.lines[3]) + ":1: error: a bad point");
-  // No row named: the file as a whole.
-  CHECK(row_error(t, InvalidInput(t.file, broken_rule("", "no row"))).mark().line == 0);
+  // No row named: the header, the nearest place (issue 19, finding 12: no error without a line).
+  const InputError whole = row_error(t, InvalidInput(t.file, broken_rule("", "no row")));
+  CHECK(whole.mark().line == t.header_line);
+  CHECK(whole.mark().col == 1);
+}
+
+namespace {
+// The error text of reading `text` as a CSV file (written to a scratch file), or "".
+std::string csv_error(const std::string& text) {
+  const std::string file = test::scratch_file("csv_test.csv", text);
+  try {
+    read_csv(file, 1);
+  } catch (const InputError& e) {
+    return std::string(e.what()).substr(file.size());
+  }
+  return "";
+}
+}  // namespace
+
+TEST_CASE("a column named twice is refused at the second (issue 19, finding 12)") {
+  CHECK(csv_error("x_m,y_m,x_m\n1,2,3\n") ==
+        ":1:9: error: column 'x_m' is named twice (columns 1 and 3)");
+  CHECK(csv_error("# survey\nx_m, x_m\n1,2\n") ==
+        ":2:5: error: column 'x_m' is named twice (columns 1 and 2)");
+}
+
+TEST_CASE("a CSV byte that is not UTF-8 is refused at its line and column (issue 19, finding 10)") {
+  CHECK(csv_error("x_m,y\xE9m\n1,2\n") == ":1:6: error: the text is not valid UTF-8 (byte 0xE9)");
+  // After a BOM, columns still count from the file's first byte.
+  CHECK(csv_error("\xEF\xBB\xBFx_m,\xFFy\n1,2\n") ==
+        ":1:8: error: the text is not valid UTF-8 (byte 0xFF)");
+}
+
+TEST_CASE("an empty CSV file or one of comments alone is an error at 1:1 (issue 19, finding 12)") {
+  CHECK(csv_error("") == ":1:1: error: the file is empty");
+  CHECK(csv_error("# nothing but a note\n") ==
+        ":1:1: error: the file has no header line (only comments)");
 }

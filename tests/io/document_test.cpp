@@ -76,3 +76,25 @@ TEST_CASE("a missing key beside a misspelt one names the misspelling, not a vali
   CHECK(run("cda: 1\nclaa: 3\n") ==
         "c.yaml:2:1: error: unknown key 'claa'; did you mean 'cla'? (claa)");
 }
+
+TEST_CASE("a byte that is not UTF-8 is refused at its line and column (issue 19, finding 10)") {
+  CHECK(error_of("mass: 640\nname: \"Cald\xE9ra\"\n") ==
+        "x.yaml:2:12: error: the text is not valid UTF-8 (byte 0xE9)");
+  CHECK(error_of("mass: 640\nname: \"Caldera\"\n") ==
+        "x.yaml:2:1: error: unknown key 'name' (name)");
+}
+
+TEST_CASE(
+    "every document error names a line: an empty file 1:1, a second document where it starts") {
+  CHECK(error_of("") == "x.yaml:1:1: error: the file is empty");
+  CHECK(error_of("# only a comment\n") == "x.yaml:1:1: error: the file is empty");
+  CHECK(error_of("mass: 640\n---\nmass: 650\n") ==
+        "x.yaml:2:1: error: more than one YAML document in the file");
+}
+
+TEST_CASE("a newline in a quoted key or value stays inside one error line (issue 19, finding 8)") {
+  CHECK(error_of("mass: 640\n\"col\\nour\": red\n") ==
+        "x.yaml:2:1: error: unknown key 'col\\nour' (col\\nour)");
+  CHECK(error_of("mass: \"640\\nkg\"\n") ==
+        "x.yaml:1:7: error: unknown mass unit '\\nkg' (accepted: kg, lb) (mass)");
+}

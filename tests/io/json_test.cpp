@@ -13,3 +13,10 @@ TEST_CASE("the writer nests objects and arrays with keys in order") {
         "{\n  \"a\": 1,\n  \"b\": [\n    2.5,\n    \"x\\\"y\"\n  ],\n  \"c\": [1, 2],\n"
         "  \"d\": {}\n}\n");
 }
+
+TEST_CASE("JSON strings are valid UTF-8 whatever bytes they are given (issue 19, finding 10)") {
+  // RFC 8259, 8.1: JSON text is UTF-8. A byte that is not valid there becomes U+FFFD.
+  CHECK(json_quote("t\xE9st") == "\"t\xEF\xBF\xBDst\"");
+  CHECK(json_quote("Br\xC3\xA4nnock") == "\"Br\xC3\xA4nnock\"");
+  CHECK(json_quote("a\nb\x01") == "\"a\\nb\\u0001\"");
+}

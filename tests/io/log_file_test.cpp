@@ -3,11 +3,13 @@
 #include <doctest/doctest.h>
 
 #include <cmath>
+#include <filesystem>
 #include <fstream>
 #include <sstream>
 
 #include "lapwing/base/error.hpp"
 #include "lapwing/base/units.hpp"
+#include "lapwing/io/document.hpp"
 #include "lapwing/io/log_file.hpp"
 #include "lapwing/path/mesh.hpp"
 #include "lapwing/study/circuit.hpp"
@@ -178,4 +180,101 @@ TEST_CASE("log options name the first missing column, unknown unit or bad value"
   smooth.smoothing_m = 0.5;
   CHECK(test::describe(smooth.validate()) ==
         "smoothing: value 0.5 is out of range: must be [1, 1000] in SI units");
+}
+
+namespace {
+// A log of `rows` rows: distance every `step` m, speed in km/h, lateral acceleration in g, from
+// a function of the row.
+template <typename Row>
+std::string small_log(const std::string& name, int rows, Row row) {
+  std::ostringstream log;
+  log.precision(17);
+  log << "d,v,ay\n";
+  for (int i = 0; i < rows; ++i) log << row(i) << "\n";
+  return test::scratch_file(name, log.str());
+}
+
+LogOptions small_options(const std::string& file, bool closed) {
+  LogOptions o;
+  o.log = file;
+  o.speed = "v";
+  o.lat_accel = "ay";
+  o.distance = "d";
+  o.closed = closed;
+  return o;
+}
+}  // namespace
+
+TEST_CASE("a log too short for a track is refused at its last row (issue 19, finding 6)") {
+  // 10 rows over 0.18 m once became a one-row curvature file that no track loads.
+  const std::string f =
+      small_log("short.csv", 10, [](int i) { return std::to_string(0.02 * i) + ",100,0.1"; });
+  const std::string e = error_of(small_options(f, false));
+  CHECK(e == f + ":11:1: error: the log covers 0.18 m; a track from a log needs 4.5 m at least (10 "
+                 "samples 0.5 m apart)");
+}
+
+TEST_CASE("a row beyond what a car logs is refused at its line, not overflowed (issue 19, 6)") {
+  // One row of 1e308 g: finite in the file, infinite once scaled, once an internal error.
+  const std::string f = small_log("huge.csv", 40, [](int i) {
+    return std::to_string(2.0 * i) + "," + std::to_string(100 + i) + "," +
+           (i == 20 ? "1e308" : "0.1");
+  });
+  CHECK(
+      error_of(small_options(f, false)) ==
+      f + ":22:1: error: a lateral acceleration beyond 50 g: no car logs one; is the unit right?");
+  const std::string g = small_log("fast.csv", 40, [](int i) {
+    return std::to_string(2.0 * i) + "," + (i == 5 ? "1e300" : "100") + ",0.1";
+  });
+  CHECK(error_of(small_options(g, false)) ==
+        g + ":7:1: error: a speed beyond 900 km/h: no car logs one; is the unit right?");
+}
+
+TEST_CASE("what track from-log writes loads again: no turn tighter than 1 m (issue 19, 12)") {
+  // A closed 'lap' of a circle of 0.9 m radius at 18 km/h: a_y = v^2 / R = 2.8 g, under the 8 g
+  // check, and a whole turn that closes; its curvature 1.11 1/m is no track's (|k| <= 1/m).
+  const double radius = 0.9, v = 5.0;
+  const int rows = 60;
+  const std::string f = small_log("tight.csv", rows + 1, [&](int i) {
+    std::ostringstream os;
+    os.precision(17);
+    os << 2 * units::pi * radius * i / rows << "," << v / units::kph << ","
+       << v * v / radius / units::g0;
+    return os.str();
+  });
+  const std::string e = error_of(small_options(f, true));
+  CAPTURE(e);
+  CHECK(e.find("the track from this log turns tighter than a 1 m radius near this row") !=
+        std::string::npos);
+  CHECK(e.rfind(f + ":", 0) == 0);
+  // At 2 m it is a track, and what is written loads.
+  const double r2 = 2.0;
+  const std::string ok = small_log("ok.csv", rows + 1, [&](int i) {
+    std::ostringstream os;
+    os.precision(17);
+    os << 2 * units::pi * r2 * i / rows << "," << v / units::kph << "," << v * v / r2 / units::g0;
+    return os.str();
+  });
+  const LogTrack t = track_from_log(small_options(ok, true), "ok-track.csv");
+  test::scratch_file("ok-track.csv", t.csv);
+  const Track loaded = load_track(test::scratch_file("ok-track.yaml", t.yaml));
+  CHECK(near(loaded.length_m(), 2 * units::pi * r2, 1e-9));
+}
+
+TEST_CASE("a newline in the log's file name cannot write keys into the track (issue 19, 9)") {
+  // The log's name goes into a comment line of the track file and, without --name, into its
+  // name: the comment must stay one line, the name a quoted string.
+  const std::string dir = test::scratch_dir() + "/odd";
+  std::filesystem::create_directories(dir);
+  const std::string f = dir + "/lap\nclosed: false\nmesh: 9 m\n\xFF.csv";
+  std::ofstream(f) << "d,v,ay\n";
+  for (int i = 0; i < 40; ++i) std::ofstream(f, std::ios::app) << 2.0 * i << ",100,0.05\n";
+  const LogTrack t = track_from_log(small_options(f, false), "t.csv");
+  CAPTURE(t.yaml);
+  const Document d = parse_document(t.yaml, "t.yaml");  // valid UTF-8, one document
+  Reader r(d, d.root, "");
+  CHECK(r.string("name") == "lap\nclosed: false\nmesh: 9 m\n\xEF\xBF\xBD");
+  CHECK(r.boolean_or("closed", true) == false);  // from the log's being open, once only
+  CHECK(r.quantity("mesh", Quantity::length) == 0.5);
+  CHECK(t.yaml.find("\nmesh: 9 m") == std::string::npos);
 }

@@ -20,7 +20,7 @@ TEST_CASE("a segment's radius and angle are 1 / |curvature| and length x |curvat
   CHECK(test::describe(test::arc(100e3, 1e-3, true).validate()) == "none");  // 100 km radius
   CHECK(test::describe(test::arc(20.0, 4 * units::pi, false).validate()) == "none");  // 2 turns
   CHECK(test::describe(test::arc(200e3, 0.1, true).validate()) ==
-        "arc.radius: value 200000 is out of range: must be (0, 100000] in SI units");
+        "arc.radius: value 200000 is out of range: must be [1, 100000] in SI units");
   CHECK(test::describe(test::arc(20.0, 5 * units::pi, true).validate()) ==
         "arc.angle: value 15.7079632679 is out of range: must be (0, 12.5663706144] in SI units");
   CHECK(test::describe(test::straight(0.0).validate()) ==
@@ -35,7 +35,7 @@ TEST_CASE("a segment's radius and angle are 1 / |curvature| and length x |curvat
   CHECK(test::describe(test::clothoid(30.0, 0.02, -0.01).validate()) ==
         "clothoid: a clothoid turns one way: its curvatures have one sign");
   CHECK(test::describe(test::clothoid(30.0, 0.0, 1.0 / 150e3).validate()) ==
-        "clothoid.to_radius: value 150000 is out of range: must be (0, 100000] in SI "
+        "clothoid.to_radius: value 150000 is out of range: must be [1, 100000] in SI "
         "units");
 }
 
@@ -52,6 +52,31 @@ TEST_CASE("a path profile has at least two samples, columns of one length, s fro
         "s_m: values must be strictly increasing (item 2: 1 after 2)");
   p.s_m = {5.0, 6.0, 7.0};
   CHECK(test::describe(p.validate()) == "s_m: a path profile starts at distance 0");
+}
+
+TEST_CASE(
+    "no path turns tighter than a 1 m radius: segments, profiles (issue 19, findings 7, 12)") {
+  // A radius of 1 m passes (read back as 1 / (1 / 1)); below it, down to the 1e-300 m a file
+  // once got through, does not.
+  CHECK(test::describe(test::arc(1.0, 1.0, true).validate()) == "none");
+  CHECK(test::describe(test::arc(0.5, 1.0, true).validate()) ==
+        "arc.radius: value 0.5 is out of range: must be [1, 100000] in SI units");
+  CHECK(test::describe(test::arc(1e-300, 1.0, true).validate()) ==
+        "arc.radius: value 1e-300 is out of range: must be [1, 100000] in SI units");
+  CHECK(test::describe(test::clothoid(30.0, 0.0, 2.0).validate()) ==
+        "clothoid.to_radius: value 0.5 is out of range: must be [1, 100000] in SI units");
+  // A profile's curvature: within +-1/m, and a number (a fit that divided 0 by 0 gave NaN).
+  PathProfile p;
+  p.s_m = {0.0, 1.0, 2.0};
+  p.curvature_1pm = p.grade = p.x_m = p.y_m = p.elevation_m = {0.0, 0.0, 0.0};
+  p.curvature_1pm = {0.0, -1.0, 1.0};
+  CHECK(test::describe(p.validate()) == "none");
+  p.curvature_1pm = {0.0, -1.5, 0.0};
+  CHECK(test::describe(p.validate()) ==
+        "curvature_1pm: curvature -1.5 1/m at 1 m is beyond 1/m (a radius under 1 m)");
+  p.curvature_1pm = {0.0, 0.0, std::nan("")};
+  CHECK(test::describe(p.validate()) ==
+        "curvature_1pm: curvature nan 1/m at 2 m is beyond 1/m (a radius under 1 m)");
 }
 
 TEST_CASE("a track names its first bad value by its key path in a track file") {

@@ -10,6 +10,7 @@
 #include "lapwing/path/centerline.hpp"
 #include "lapwing/path/geodesy.hpp"
 #include "lapwing/path/mesh.hpp"
+#include "lapwing/path/smoothing.hpp"
 #include "test_support.hpp"
 
 using namespace lapwing;
@@ -178,5 +179,104 @@ TEST_CASE("the fit's options and points are checked, a stray point named by its 
   } catch (const InvalidInput& e) {
     CHECK(e.violation().at == "lat_deg[1]");
     CHECK(e.message() == "latitude or longitude out of range");
+  }
+}
+
+// A fit at the 1 m spacing whatever the strength (as `check`'s refits at half and double the
+// strength are): lambda up to 1e17. The coarser L / 40 spacing a fit takes by default keeps
+// lambda near 4e6 and would not test the solver's precision.
+static CenterlineOptions fixed_1m(double smoothing) {
+  CenterlineOptions o;
+  o.smoothing_m = smoothing;
+  o.spacing_m = 1.0;
+  o.fixed_spacing = true;
+  return o;
+}
+
+// Issue 19, finding 5: at strengths of hundreds of metres on 1 m samples the smoother's lambda
+// reaches 1e13 to 1e17 (lambda = (2 sin(pi h / L))^-6), where the normal equations
+// (I + lambda D'D) f = y, solved as they stand, keep no significant digit.
+TEST_CASE("a circle of 1000 m radius keeps its length 2 pi R under a 1000 m smoothing") {
+  const double radius = 1000.0;
+  const int n = 6283;  // points every 1.00003 m
+  std::vector<double> x, y;
+  for (int i = 0; i < n; ++i) {
+    const double t = 2 * units::pi * i / n;
+    x.push_back(radius * std::cos(t) + 250.0);
+    y.push_back(radius * std::sin(t) - 400.0);
+  }
+  for (double smoothing : {100.0, 1000.0, 2000.0, 4000.0}) {
+    CAPTURE(smoothing);
+    const PathProfile p =
+        fit_centerline(CenterlinePoints{"circle", x, y, {}}, true, fixed_1m(smoothing));
+    // Closed form: the resampled points are the polygon's vertices (equal chords: the Hermite
+    // curve passes through each point, and the samples fall on them), and
+    // cos(2 pi i / n) is an eigenvector of the periodic D'D with eigenvalue (2 sin(pi / n))^6,
+    // so the fit is the circle of radius R H, H = 1 / (1 + lambda (2 sin(pi / n))^6). Its
+    // length is n chords, 2 n R H sin(pi / n), and central differences of a sampled circle give
+    // its curvature 1 / (R H) exactly. Round-off alone is left: to 1e-9.
+    const double h = 2 * radius * std::sin(units::pi / n);
+    const double gain =
+        1.0 / (1.0 + smoothing_lambda(h, smoothing, 3) * std::pow(2 * std::sin(units::pi / n), 6));
+    CHECK(near(p.s_m.back(), 2 * n * radius * gain * std::sin(units::pi / n), 1e-9));
+    for (std::size_t i = 0; i + 1 < p.s_m.size(); i += 97)
+      CHECK(near(p.curvature_1pm[i], 1.0 / (radius * gain), 1e-9));
+  }
+}
+
+TEST_CASE("a straight line of 3000 m stays 3000 m long and straight under strong smoothing") {
+  std::vector<double> x, y;
+  for (int i = 0; i <= 3000; ++i) {
+    x.push_back(0.6 * i + 1200.0);  // away from the origin, heading 53 deg: no help from zeros
+    y.push_back(0.8 * i - 700.0);
+  }
+  for (double smoothing : {1000.0, 2000.0, 4000.0}) {
+    CAPTURE(smoothing);
+    const PathProfile p =
+        fit_centerline(CenterlinePoints{"line", x, y, {}}, false, fixed_1m(smoothing));
+    // A line is in the null space of the third difference: the fit returns it unchanged, to
+    // round-off (1 mm over 3 km, and 1e-6 1/m of curvature, allow for it).
+    CHECK(near(p.s_m.back(), 3000.0, 0.0, 1e-3));
+    for (std::size_t i = 0; i < p.s_m.size(); i += 11)
+      CHECK(near(p.curvature_1pm[i], 0.0, 0.0, 1e-6));
+  }
+}
+
+TEST_CASE("a noisy 2000 m line fitted at double the file's largest smoothing stays straight") {
+  // What `check` does with a file's 2000 m: it fits at 4000 m too (issue 19, finding 5). 20 mm
+  // of survey noise every 2 m.
+  Noise noise;
+  std::vector<double> x, y;
+  for (int i = 0; i <= 1000; ++i) {
+    x.push_back(2.0 * i + 0.02 * noise.gauss());
+    y.push_back(0.02 * noise.gauss());
+  }
+  const PathProfile p =
+      fit_centerline(CenterlinePoints{"noisy line", x, y, {}}, false, fixed_1m(4000.0));
+  // The noise leaves the fit within a few mm of the line: length to 1 cm, curvature below 1e-5
+  // 1/m (a radius over 100 km).
+  CHECK(near(p.s_m.back(), 2000.0, 0.0, 0.01));
+  for (std::size_t i = 0; i < p.s_m.size(); i += 7) CHECK(near(p.curvature_1pm[i], 0.0, 0.0, 1e-5));
+}
+
+TEST_CASE("a centerline that runs out and straight back is refused at its cusp (issue 19, 7)") {
+  // 200 m out along y = 0 and back on the same line: the fit turns back in a metre or less,
+  // where its curvature is 0 / 0 or, with the derivatives changing sign between samples, reads
+  // 0. Either way it is tighter than a 1 m radius.
+  CenterlinePoints p{"cusp.csv", {}, {}, {}};
+  for (int i = 0; i <= 200; ++i) p.x_m.push_back(i), p.y_m.push_back(0.0);
+  for (int i = 199; i >= 1; --i) p.x_m.push_back(i), p.y_m.push_back(0.0);
+  for (double smoothing : {2.5, 5.0, 20.0}) {
+    CAPTURE(smoothing);
+    try {
+      fit_centerline(p, true, CenterlineOptions{smoothing, 100.0, 1.0});
+      FAIL("expected an InvalidInput");
+    } catch (const InvalidInput& e) {
+      CHECK(e.subject() == "cusp.csv");
+      CHECK(e.message().find("turns tighter than a 1 m radius") != std::string::npos);
+      // The point named is one of the two ends of the out-and-back: x = 0 or x = 200.
+      const std::size_t i = last_index(e.violation().at).value();
+      CHECK((p.x_m[i] <= 2.0 || std::abs(p.x_m[i] - 200.0) <= 2.0));
+    }
   }
 }

@@ -251,7 +251,11 @@ TEST_CASE("trade options out of range are a typed error, not a failure inside th
   CHECK(test::describe(TradeOptions{0.02, 1, 0.15}.validate()) ==
         "grid_points: value 1 is out of range: must be [3, 41]");
   CHECK(test::describe(TradeOptions{0.0, 9, 0.15}.validate()) ==
-        "step: value 0 is out of range: must be (0, 0.5]");
+        "step: value 0 is out of range: must be [0.001, 0.5]");
+  // Issue 19, finding 12: a step of 1e-300 leaves x (1 + step) == x and every sensitivity 0.
+  CHECK(test::describe(TradeOptions{1e-300, 9, 0.15}.validate()) ==
+        "step: value 1e-300 is out of range: must be [0.001, 0.5]");
+  CHECK(test::describe(TradeOptions{1e-3, 9, 0.15}.validate()) == "none");
   CHECK(test::describe(TradeOptions{0.02, 9, 0.95}.validate()) ==
         "grid_span: value 0.95 is out of range: must be (0, 0.9]");
   const Car car = test::plain_car();

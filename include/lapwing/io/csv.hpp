@@ -1,9 +1,9 @@
 // Strict CSV reading for data files (centerlines, curvature profiles, logs): a header line of
 // column names (after any '#' comment lines), commas between fields, numbers in every field. BOM
-// and CRLF are accepted; a file that looks semicolon- or tab-separated, a wrong field count or a
-// non-number is an InputError with file, line and column (a header that was commented out with
-// '#' is named as such). Read line by line (large logs are
-// streamed, not slurped).
+// and CRLF are accepted; a file that looks semicolon- or tab-separated, a column named twice, a
+// wrong field count, a non-number or a byte that is not UTF-8 is an InputError with file, line and
+// column (a header that was commented out with '#' is named as such). Read line by line (large logs
+// are streamed, not slurped).
 #pragma once
 
 #include <string>
@@ -18,6 +18,7 @@ struct CsvTable {
   std::vector<std::string> names;
   std::vector<std::vector<double>> columns;  // one per name
   std::vector<int> lines;                    // file line of each row (for later errors)
+  int header_line = 1;                       // file line of the header
 
   std::size_t rows() const { return lines.size(); }
   /// Index of column `name`, or -1.

@@ -56,6 +56,14 @@ class CsvWriter {
     out_ += '\n';
   }
   std::string take() { return std::move(out_); }
+  /// Hands the text built so far to `sink` once it holds `chunk` bytes or more, and starts
+  /// anew: a long file goes out in pieces and is never held whole. flush(sink, 0) ends it.
+  template <typename Sink>
+  void flush(const Sink& sink, std::size_t chunk = std::size_t{1} << 16) {
+    if (out_.size() < chunk || out_.empty()) return;
+    sink(std::string_view(out_));
+    out_.clear();
+  }
 
  private:
   std::span<const CsvColumn<Row>> columns_;

@@ -19,14 +19,24 @@ namespace lapwing {
 
 struct Node {
   enum class Kind { null, scalar, sequence, map };
+  struct Entry;  // a map's key and value (below: a Node must be complete to hold one)
   Kind kind = Kind::null;
   Mark mark;
-  std::string scalar;                                 // scalar text
-  std::vector<Node> items;                            // sequence items
-  std::vector<std::pair<std::string, Node>> entries;  // map entries in file order
-  std::vector<Mark> key_marks;                        // mark of each map key
+  std::string scalar;           // scalar text
+  std::vector<Node> items;      // sequence items
+  std::vector<Entry> entries;   // map entries in file order
+  std::vector<Mark> key_marks;  // mark of each map key
 
   const Node* find(std::string_view key) const;
+};
+
+// Not a vector<pair<string, Node>> inside Node: clang instantiates the pair's destructor where
+// Node is declared, while Node is still incomplete, and stops (GCC defers it). An entry type
+// declared in Node and defined once Node is complete builds with both (a vector of an incomplete
+// type may be a member since C++17, [vector.overview]).
+struct Node::Entry {
+  std::string key;
+  Node value;
 };
 
 /// A parsed file: the root node and the file's name as errors print it.

@@ -42,7 +42,7 @@ class JsonWriter {
   bool after_key_ = false;
 };
 
-/// JSON string literal with escapes.
+/// JSON string literal with escapes; always valid UTF-8 (a byte that is not becomes U+FFFD).
 std::string json_quote(std::string_view s);
 
 }  // namespace lapwing

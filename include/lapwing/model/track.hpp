@@ -14,6 +14,11 @@
 
 namespace lapwing {
 
+/// The tightest turn a path may make: a radius of 1 m (|curvature| <= 1/m), for segments,
+/// curvature files and fitted centerlines alike. A tighter one is no road but bad data (a cusp, a
+/// point out of place, a unit read wrong), and the solver's speeds mean nothing there.
+inline constexpr double max_curvature_1pm = 1.0;
+
 /// A piece of the path whose curvature changes linearly with distance: a straight (0 -> 0), an
 /// arc (k -> k) or a clothoid (k0 -> k1). Curvature is signed, positive for a left turn.
 struct Segment {
@@ -30,11 +35,11 @@ struct Segment {
   // left turn, as bank_deg in a CSV).
   double bank_rad = 0.0;
 
-  // The ranges of a segment (README, "Track"): a piece up to 100 km, a radius up to
+  // The ranges of a segment (README, "Track"): a piece up to 100 km, a radius of 1 m to
   // 100 km, an arc of up to two turns, a grade of +-50 % (steeper is no road), a width up to
   // 100 m.
   static constexpr Range length_range{0.0, 100e3, true, false};         // m
-  static constexpr Range radius_range{0.0, 100e3, true, false};         // m
+  static constexpr Range radius_range{1.0 / max_curvature_1pm, 100e3};  // m
   static constexpr Range angle_range{0.0, 4 * units::pi, true, false};  // rad
   static constexpr Range grade_range{-0.5, 0.5};
   static constexpr Range width_range{0.0, 100.0, true, false};  // m (also the track's `width`)
@@ -123,8 +128,9 @@ struct PathProfile {
 
   /// A path longer than 200 km is no circuit: bad data (a stray point, a unit read wrong).
   static constexpr double max_length_m = 200e3;
-  /// At least two samples, every column as long as s_m, s_m from 0 strictly increasing; widths,
-  /// when given, as long and every one > 0.
+  /// At least two samples, every column as long as s_m, s_m from 0 strictly increasing, every
+  /// curvature finite and within +-max_curvature_1pm; widths, when given, as long and every one
+  /// > 0.
   std::optional<Violation> validate() const;
 };
 

@@ -23,6 +23,18 @@ struct LogChannels {
   std::vector<double> yaw_rate_radps;  // ... positive to the left
 };
 
+/// What a log's row may hold (beyond these it is no measurement of a car but a unit read wrong
+/// or a corrupt row, and the arithmetic that follows would overflow): a speed up to 900 km/h (the
+/// envelope tables' ceiling), a lateral acceleration up to 50 g (the filter takes spikes of a few
+/// g; no car's sensor logs 50), a yaw rate up to 10 rad/s (573 deg/s; a spinning car turns at
+/// 2 to 3 rad/s).
+inline constexpr double log_max_row_speed_mps = 250.0;
+inline constexpr double log_max_row_lateral_mps2 = 50.0 * 9.80665;
+inline constexpr double log_max_row_yaw_radps = 10.0;
+/// Samples along the log (every 0.5 m or so) that a curvature profile from it needs at least: a
+/// curvature file's minimum rows (csv.hpp), so that what the log becomes loads again.
+inline constexpr std::size_t log_min_samples = 10;
+
 struct LogCurvatureOptions {
   bool closed = false;                // the log is one whole lap
   std::optional<double> smoothing_m;  // filter on the curvature (smoothing.hpp); none: auto
@@ -44,6 +56,10 @@ struct LogCurvature {
   // turns (deg), the turns the curvature adds up to, and with the heading closed the distance
   // from the end to the start (m).
   double closure_heading_deg = 0.0, turns = 0.0, closure_gap_m = 0.0;
+  /// The curvature of largest magnitude in the result (NaN wins), and the log row nearest it: a
+  /// track's is at most max_curvature_1pm (1/m), which a log does not promise.
+  double tightest_1pm = 0.0;
+  std::size_t tightest_row = 0;
 };
 
 /// Curvature from a log: kappa = a_y / v^2, or yaw rate / v; filtered (second differences;
@@ -51,8 +67,10 @@ struct LogCurvature {
 /// cross-validation on the curvature at the log's own median row spacing; for a closed lap the
 /// heading closed by a constant curvature change and the position by heading changes
 /// a sin(pi s / L) + b sin(2 pi s / L) that vanish at both ends. InvalidInput (subject: the
-/// source) for bad options, a car that does not move between two rows ("time_s[i]"), no row at
-/// min_speed or faster, or a log over 200 km ("speed_mps[last row]").
+/// source) for bad options, a row beyond the limits above ("speed_mps[i]", "lat_accel_mps2[i]",
+/// "yaw_rate_radps[i]"), a car that does not move between two rows ("time_s[i]"), no row at
+/// min_speed or faster, or a log over 200 km ("speed_mps[last row]") or too short for
+/// log_min_samples.
 LogCurvature log_curvature(const LogChannels& log, const LogCurvatureOptions& options);
 
 }  // namespace lapwing

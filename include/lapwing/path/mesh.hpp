@@ -33,13 +33,13 @@ struct Mesh {
   std::size_t intervals() const { return s_m.size() - 1; }
 };
 
-/// The longest run of points whose |curvature| stays below `max_curvature_1pm` (default 1/800 m,
+/// The longest run of points whose |curvature| stays below `straight_below_1pm` (default 1/800 m,
 /// where the corner finder ends a corner): first and last index; {0, 0} when there is none.
 /// (A closed lap's run does not wrap through the start.)
 struct PointRun {
   std::size_t first = 0, last = 0;
 };
-PointRun longest_straight(const Mesh& mesh, double max_curvature_1pm = 1.0 / 800.0);
+PointRun longest_straight(const Mesh& mesh, double straight_below_1pm = 1.0 / 800.0);
 
 /// How far the end of the path is from its start (what a closed track must bring to zero).
 struct Closure {
@@ -68,6 +68,11 @@ std::vector<double> lapped_sectors_m(const Track& track);
 /// over closure_position_tolerance_m(track). The error names the track's path key (`segments`,
 /// `centerline` or `curvature`); a centerline's, its last data point ("centerline.points[i]").
 Mesh build_mesh(const Track& track, double step_m);
+
+/// The number of points build_mesh lays `track` out on at `step_m`: n + 1 for n = the nearest
+/// whole number of steps in the length (at least 2). Known before the mesh is built, so that a
+/// study can be sized first (study/memory.hpp).
+std::size_t mesh_point_count(const Track& track, double step_m);
 
 /// Tolerances on closure: lapwing's rule for a closed track (README, "Track"): within 0.5 % of
 /// the length in position and 2 deg in heading, loose enough for a survey's rounding.

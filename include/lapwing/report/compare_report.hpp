@@ -4,6 +4,7 @@
 #include <string>
 #include <vector>
 
+#include "lapwing/io/output.hpp"
 #include "lapwing/model/car.hpp"
 #include "lapwing/path/mesh.hpp"
 #include "lapwing/study/circuit.hpp"
@@ -18,6 +19,7 @@ std::string compare_json(const Car& car, const Comparison& c, const std::vector<
 std::string compare_table(const Car& car, const Comparison& c,
                           const std::vector<Circuit>& circuits);
 /// delta-<track>-<a>-<b>.csv: distance_m,delta_s (t_b - t_a).
-std::string delta_csv(const Mesh& mesh, const std::vector<double>& delta_s);
+/// Handed to `sink` in pieces of about 64 KB (never held whole).
+void delta_csv(const Mesh& mesh, const std::vector<double>& delta_s, const OutputSink& sink);
 
 }  // namespace lapwing

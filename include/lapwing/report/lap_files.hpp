@@ -6,6 +6,7 @@
 #include <vector>
 
 #include "lapwing/io/json.hpp"
+#include "lapwing/io/output.hpp"
 #include "lapwing/path/mesh.hpp"
 #include "lapwing/solve/solver.hpp"
 #include "lapwing/solve/summary.hpp"
@@ -23,8 +24,9 @@ void write_balance(JsonWriter& w, const BalanceSummary& b);
 /// The "window" object inside "balance": the balance window and how the lap kept to it.
 void write_balance_window(JsonWriter& w, const BalanceWindowResult& r);
 
-/// trace-<track>-<config>.csv, one row per mesh point (README, "Output files").
-std::string trace_csv(const Lap& lap, const Mesh& mesh);
+/// trace-<track>-<config>.csv, one row per mesh point (README, "Output files"), handed to `sink`
+/// in pieces of about 64 KB (never held whole).
+void trace_csv(const Lap& lap, const Mesh& mesh, const OutputSink& sink);
 
 /// corners.csv: the corners arrays of all results, one row per corner, track and config first.
 std::string corners_csv(const std::vector<LapSummary>& results);

@@ -45,10 +45,13 @@ struct TradeOptions {
   int grid_points = 9;      // per axis of the ClA x CdA grid
   double grid_span = 0.15;  // at least +-15 % around the traded config
 
-  static constexpr Range step_range{0.0, 0.5, true, false};
+  // A step under 0.1 % measures the mesh and the solver's tolerances, not the car (sensitivities
+  // on Brannock Park move by 10 % between steps of 2 %, 0.1 % and 0.01 %), and one so small that
+  // x (1 + step) == x gives exactly 0 (issue 19, finding 12: --step 1e-300 did).
+  static constexpr Range step_range{1e-3, 0.5};
   static constexpr int min_grid_points = 3, max_grid_points = 41;
   static constexpr Range grid_span_range{0.0, 0.9, true, false};
-  /// A step in (0, 50 %], 3 to 41 grid points, a span in (0, 90 %] (key paths: member names).
+  /// A step in [0.1 %, 50 %], 3 to 41 grid points, a span in (0, 90 %] (key paths: member names).
   std::optional<Violation> validate() const;
 };
 /// The grid reaches this share of its range beyond the outermost config on each side.

@@ -1,0 +1,58 @@
+// The memory a study will need, estimated before it solves (issue 19, finding 11): a study of a
+// long mesh at a fine step holds every mesh point several times over (the mesh, each lap kept,
+// each solver's working state), and should be refused at once, not die of std::bad_alloc after
+// minutes. README, "Memory" gives the model; tests/study/memory_test.cpp checks it against the
+// sizes of the structures it counts.
+#pragma once
+
+#include <cstddef>
+#include <string>
+#include <vector>
+
+namespace lapwing {
+
+/// What a study holds at its peak.
+struct MemoryPlan {
+  std::vector<std::size_t> mesh_points;  // per circuit, all laid out at once
+  std::size_t laps_kept = 0;       // laps per circuit held whole to the end (compare: its configs)
+  bool channels = true;            // the solver fills every channel (false: speed and time only)
+  unsigned solvers = 1;            // solvers at work at once (threads), each at the largest mesh
+  std::size_t variant_meshes = 0;  // meshes laid out beside the circuits, at the largest mesh:
+                                   // the data-quality verdict's smoothing variants of a fitted
+                                   // centerline (study/track_quality.hpp), two for one track at
+                                   // a time
+};
+
+/// Bytes per mesh point of each part (8-byte doubles, 4-byte ints, 1-byte enums and flags),
+/// counted member by member from the structures (path/mesh.hpp, solve/solver.hpp):
+/// - Mesh: s, x, y, heading, curvature, elevation, grade, cos and sin of the slope: 9 doubles;
+/// - Lap with every channel: speed, time, two accelerations, engine speed, drag, downforce, two
+///   axle loads, front share, effective aero balance, two axle usages (13 doubles), gear (int),
+///   phase, trim flag, and its SteadyProfile (a double and a limit);
+/// - Lap of speed and time only: speed, time, phase and the SteadyProfile;
+/// - a solver's two sweeps: speed (double), clipped and cut (flags), gear (int) each;
+/// - while a delta file is written, its trace: one double.
+inline constexpr std::size_t mesh_bytes_per_point = 9 * 8;
+inline constexpr std::size_t lap_bytes_per_point = 13 * 8 + 4 + 1 + 1 + (8 + 1);
+inline constexpr std::size_t speed_lap_bytes_per_point = 2 * 8 + 1 + (8 + 1);
+inline constexpr std::size_t sweeps_bytes_per_point = 2 * (8 + 1 + 1 + 4);
+inline constexpr std::size_t delta_bytes_per_point = 8;
+/// What does not grow with the mesh: the program, its libraries, the car's tables, the
+/// summaries and the small output files (a 64 KB piece of a streamed trace among them). 16 MiB:
+/// a run of the bundled tracks peaks at about 6 MB (/usr/bin/time -v), with room for larger
+/// cars' tables.
+inline constexpr std::size_t fixed_bytes = std::size_t{16} << 20;
+
+/// The estimated peak in bytes: fixed_bytes + the meshes + the laps kept + every solver's lap
+/// and sweeps at the largest mesh + one delta trace at the largest mesh + the variant meshes at
+/// the largest mesh.
+double estimate_peak_bytes(const MemoryPlan& plan);
+
+/// The machine's memory in bytes: the physical memory (sysconf), or the control group's limit
+/// (cgroup v2 memory.max) where that is lower. 0 when neither can be read.
+double machine_memory_bytes();
+
+/// "6.5 GB", "480 MB": bytes in decimal units, three significant figures.
+std::string describe_bytes(double bytes);
+
+}  // namespace lapwing

@@ -1,0 +1,86 @@
+// The memory estimate (issue 19, finding 11; README, "Memory"): its bytes per mesh point are
+// those the structures hold, so that a new channel cannot slip past it, and the point count is
+// build_mesh's. Its accuracy on whole runs (within 10 % above the peak /usr/bin/time -v
+// measures) is a measurement (README, "Memory"), not a timed test.
+#include <doctest/doctest.h>
+
+#include "lapwing/model/air.hpp"
+#include "lapwing/path/mesh.hpp"
+#include "lapwing/solve/envelope.hpp"
+#include "lapwing/solve/solver.hpp"
+#include "lapwing/study/memory.hpp"
+#include "test_support.hpp"
+
+using namespace lapwing;
+
+namespace {
+template <typename T>
+std::size_t bytes(const std::vector<T>& v) {
+  return v.size() * sizeof(T);
+}
+}  // namespace
+
+TEST_CASE("the point count is the mesh's, known before the mesh is built") {
+  for (double step : {0.01, 0.3, 0.5, 7.0}) {
+    const Track t = test::circle_track(100.0, step);
+    CHECK(mesh_point_count(t, step) == build_mesh(t, step).size());
+  }
+}
+
+TEST_CASE("bytes per mesh point: every vector a mesh, a lap and a sweep hold is counted") {
+  const Track t = test::circle_track(200.0, 0.5);
+  const Mesh m = build_mesh(t, t.mesh_m);
+  const double n = static_cast<double>(m.size());
+  const std::size_t mesh = bytes(m.s_m) + bytes(m.x_m) + bytes(m.y_m) + bytes(m.heading_rad) +
+                           bytes(m.curvature_1pm) + bytes(m.elevation_m) + bytes(m.grade) +
+                           bytes(m.cos_slope) + bytes(m.sin_slope);
+  CHECK(static_cast<double>(mesh) / n == mesh_bytes_per_point);
+  CHECK(sizeof(Mesh) < 512);  // nothing else of the mesh's own: nine vectors and three scalars
+
+  const ConfiguredCar car = test::configured(test::plain_car());
+  const Envelope env(car, make_air(AirSpec{}));
+  auto lap_bytes = [](const Lap& l) {
+    return bytes(l.speed_mps) + bytes(l.time_s) + bytes(l.long_accel_mps2) +
+           bytes(l.lat_accel_mps2) + bytes(l.gear) + bytes(l.engine_radps) + bytes(l.drag_n) +
+           bytes(l.downforce_n) + bytes(l.front_load_n) + bytes(l.rear_load_n) +
+           bytes(l.front_share) + bytes(l.aero_balance_eff) + bytes(l.front_usage) +
+           bytes(l.rear_usage) + bytes(l.phase) + bytes(l.trimmed) + bytes(l.steady.speed_mps) +
+           bytes(l.steady.limit);
+  };
+  // A solver of its own for each, so that the speed-only lap holds no channel of another lap.
+  LapSolver full, speed_only;
+  CHECK(static_cast<double>(lap_bytes(full.solve(env, m))) / n == lap_bytes_per_point);
+  CHECK(static_cast<double>(lap_bytes(speed_only.solve_speed(env, m))) / n ==
+        speed_lap_bytes_per_point);
+
+  const SweepResult s = sweep(env, m, Sweep::forward, full.solve(env, m).steady.speed_mps, 0, 10);
+  const std::size_t one = bytes(s.speed_mps) + bytes(s.clipped) + bytes(s.cut) + bytes(s.gear);
+  CHECK(2.0 * static_cast<double>(one) / n == sweeps_bytes_per_point);
+}
+
+TEST_CASE("the estimate adds the parts: meshes, laps kept, solvers at the largest mesh") {
+  MemoryPlan p;
+  p.mesh_points = {1000, 3000};
+  p.laps_kept = 2;
+  p.channels = true;
+  p.solvers = 2;
+  // fixed + (1000 + 3000) (mesh + 2 laps) + 3000 (2 solvers' lap and sweeps + one delta trace)
+  const double want = static_cast<double>(fixed_bytes) +
+                      4000.0 * (mesh_bytes_per_point + 2 * lap_bytes_per_point) +
+                      3000.0 * (2 * (lap_bytes_per_point + sweeps_bytes_per_point) + 8);
+  CHECK(estimate_peak_bytes(p) == want);
+  // The verdict's two smoothing variants: two more meshes at the largest.
+  p.variant_meshes = 2;
+  CHECK(estimate_peak_bytes(p) == want + 2 * 3000.0 * mesh_bytes_per_point);
+  p.variant_meshes = 0;
+  p.channels = false;
+  CHECK(estimate_peak_bytes(p) < want);
+}
+
+TEST_CASE("sizes read in decimal units, three figures") {
+  CHECK(describe_bytes(6.5e9) == "6.50 GB");
+  CHECK(describe_bytes(480e6) == "480 MB");
+  CHECK(describe_bytes(12.34e3) == "12.3 kB");
+  CHECK(describe_bytes(999) == "999 B");
+  CHECK(machine_memory_bytes() > 0);  // sysconf reads it on Linux
+}
