@@ -2,6 +2,8 @@
 // assumptions are visible in the test), and the tolerance rule.
 #pragma once
 
+#include <cmath>
+#include <cstdint>
 #include <optional>
 #include <string>
 #include <vector>
@@ -14,6 +16,20 @@
 #include "lapwing/study/circuit.hpp"
 
 namespace lapwing::test {
+
+/// Deterministic Gaussian noise (a 64-bit linear congruential generator with Knuth's MMIX
+/// constants, and the Box-Muller transform): the same samples every run, on every machine.
+struct Noise {
+  std::uint64_t state = 0x9E3779B97F4A7C15ull;
+  double uniform() {
+    state = state * 6364136223846793005ull + 1442695040888963407ull;
+    return (static_cast<double>(state >> 11) + 0.5) / 9007199254740992.0;
+  }
+  double gauss() {
+    const double u1 = uniform(), u2 = uniform();
+    return std::sqrt(-2 * std::log(u1)) * std::cos(2 * 3.14159265358979323846 * u2);
+  }
+};
 
 /// Tolerance rule used throughout: |a - b| <= rel * max(|a|, |b|) + abs.
 bool near(double a, double b, double rel, double abs = 0.0);

@@ -16,6 +16,7 @@
 
 using namespace lapwing;
 using lapwing::test::near;
+using lapwing::test::Noise;
 
 namespace {
 
@@ -23,19 +24,6 @@ std::string write(const std::string& name, const std::string& text) {
   std::ofstream(name) << text;
   return name;
 }
-
-// Deterministic Gaussian noise (a 64-bit LCG and Box-Muller): the same points every run.
-struct Noise {
-  std::uint64_t state = 0x9E3779B97F4A7C15ull;
-  double uniform() {
-    state = state * 6364136223846793005ull + 1442695040888963407ull;
-    return (static_cast<double>(state >> 11) + 0.5) / 9007199254740992.0;
-  }
-  double gauss() {
-    const double u1 = uniform(), u2 = uniform();
-    return std::sqrt(-2 * std::log(u1)) * std::cos(2 * units::pi * u2);
-  }
-};
 
 std::string points_csv(const std::vector<double>& x, const std::vector<double>& y) {
   std::ostringstream os;

@@ -17,21 +17,9 @@
 
 using namespace lapwing;
 using lapwing::test::near;
+using lapwing::test::Noise;
 
 namespace {
-
-// Deterministic Gaussian noise (a 64-bit LCG and Box-Muller): the same samples every run.
-struct Noise {
-  std::uint64_t state = 0x2545F4914F6CDD1Dull;
-  double uniform() {
-    state = state * 6364136223846793005ull + 1442695040888963407ull;
-    return (static_cast<double>(state >> 11) + 0.5) / 9007199254740992.0;
-  }
-  double gauss() {
-    const double u1 = uniform(), u2 = uniform();
-    return std::sqrt(-2 * std::log(u1)) * std::cos(2 * units::pi * u2);
-  }
-};
 
 // tr (I + lambda D'D)^-1, inverted densely: the reference for the trace formulas.
 double dense_trace(int n, int order, bool periodic, double lambda) {
@@ -81,7 +69,7 @@ TEST_CASE("on a closed path the circulant trace equals the dense hat matrix's tr
   // eigenvalues 1 / (1 + lambda (2 - 2 cos(2 pi k / n))^d) (REFERENCES.md, smoothing): exact,
   // so to round-off.
   const int n = 120;
-  Noise noise;
+  Noise noise{0x2545F4914F6CDD1Dull};
   std::vector<double> y = signal(n, 2.0), x = signal(n, 2.0);
   for (auto& v : y) v += 0.5 * noise.gauss();
   for (auto& v : x) v = 0.3 * v + 0.5 * noise.gauss();
@@ -94,7 +82,7 @@ TEST_CASE("on an open path the stochastic trace estimate is within 1 % of n - tr
   // GCV's denominator is n - tr H: 16 +-1 probes estimate tr H with a standard error of about
   // sqrt(2 tr(H^2) / 16), here a few per cent of tr H, which is a small part of n.
   const int n = 400;
-  Noise noise;
+  Noise noise{0x2545F4914F6CDD1Dull};
   std::vector<double> y = signal(n, 1.0);
   for (auto& v : y) v += 0.5 * noise.gauss();
   const SmoothingChoice c = choose_smoothing({y}, 1.0, 2, false, 2.0, 100.0);
@@ -111,7 +99,7 @@ TEST_CASE("GCV's noise estimate matches the noise put in, and its fit is near th
   // GCV is asymptotically optimal (Craven & Wahba 1979), within 30 % here.
   const int n = 2000;
   const double h = 1.0, sigma = 0.3;
-  Noise noise;
+  Noise noise{0x2545F4914F6CDD1Dull};
   const std::vector<double> truth_x = signal(n, h);
   std::vector<double> truth_y(truth_x.rbegin(), truth_x.rend());
   std::vector<double> x = truth_x, y = truth_y;
