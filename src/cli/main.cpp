@@ -36,8 +36,7 @@ std::optional<std::string> check_command_line(CLI::App& app, int argc, char** ar
     const std::string of = path.empty() ? "" : " of " + path.substr(0, path.size() - 1);
     const std::string word = i < argc ? argv[i] : "";
     // A command with options of its own and optional subcommands (sweep; sweep merge).
-    if (at != &app && at->get_require_subcommand_min() == 0 &&
-        (word.empty() || std::find(names.begin(), names.end(), word) == names.end()))
+    if (at != &app && at->get_require_subcommand_min() == 0 && (word.empty() || word[0] == '-'))
       break;
     if (word.empty()) return "give a command (commands" + of + ": " + list + ")";
     if (word[0] == '-') break;  // --help, --version; the parser says the rest
@@ -213,12 +212,12 @@ int main(int argc, char** argv) {
       "--csv OUT.csv");
   cli::SweepMergeOptions merge_o;
   auto* merge = sweep->add_subcommand("merge", "Join results stores of one study (shards)");
-  merge->add_option("out", merge_o.out, "Results store to write (or add to)")->required();
-  merge->add_option("inputs", merge_o.inputs, "Results stores to join")->required();
+  merge->add_option("OUT", merge_o.out, "Results store to write (or add to)")->required();
+  merge->add_option("IN", merge_o.inputs, "Results stores to join")->required();
   merge->footer("Example:\n  lapwing sweep merge out/all.sqlite out/shard-*.sqlite");
   cli::SweepExportOptions export_o;
   auto* exp = sweep->add_subcommand("export", "Write a results store's laps table as CSV");
-  exp->add_option("file", export_o.file, "Results store")->required();
+  exp->add_option("FILE", export_o.file, "Results store")->required();
   exp->add_option("--csv", export_o.csv, "CSV file to write")->required();
   exp->footer("Example:\n  lapwing sweep export out/all.sqlite --csv out/all.csv");
 

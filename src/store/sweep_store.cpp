@@ -267,8 +267,11 @@ std::vector<BestPoint> best_points(const std::string& file) {
     best.bind(1, tracks.text(0));
     if (!best.step()) continue;
     BestPoint b{tracks.text(0), best.text(0), best.integer(1), {}, best.real(2)};
-    for (std::size_t k = 0; k < keys.size(); ++k)
-      b.values.push_back({keys[k], best.text(3 + int(k))});
+    for (std::size_t k = 0; k < keys.size(); ++k) {
+      const int col = 3 + static_cast<int>(k);
+      b.values.push_back({keys[k], best.type(col) == SQLITE_FLOAT ? format_number(best.real(col))
+                                                                  : best.text(col)});
+    }
     out.push_back(std::move(b));
   }
   return out;

@@ -1,7 +1,7 @@
 #!/usr/bin/env bash
 # End to end: lapwing sweep and its results store (README, "Sweep"). The same study on one thread
 # or two is the same file; shards merge to the unsharded study; shards of another study are
-# refused; a sweep killed with SIGKILL resumes to the complete and identical table; a bad --set
+# refused; a sweep killed with SIGKILL (or stopped by SIGINT) resumes to the complete and identical table; a bad --set
 # is refused before anything runs (exit 2, no file); a family at a measured setting laps as that
 # config does with `run`.
 #   sweep_test.sh LAPWING_BINARY SOURCE_DIR
@@ -86,6 +86,26 @@ if [ "$rows" -gt 0 ] && [ "$rows" -lt 900 ]; then ok; else bad "kill -9 left $ro
 grep -q "already in" "$tmp/resume.txt" && ok || bad "resume output: $(cat "$tmp/resume.txt")"
 export_csv "$tmp/killed.sqlite" "$tmp/resumed.csv"
 cmp -s "$tmp/whole.csv" "$tmp/resumed.csv" && ok || bad "killed and resumed differs from the whole run"
+
+# Ctrl-C (SIGINT): the sweep stops after committing the points in flight, exit 130, and the same
+# command completes it.
+"$bin" sweep "${long[@]}" --out "$tmp/int.sqlite" > "$tmp/int.txt" 2>&1 &
+child=$!
+for _ in $(seq 1 600); do
+  sleep 0.05
+  [ -e "$tmp/int.sqlite" ] && export_csv "$tmp/int.sqlite" "$tmp/int.csv" 2> /dev/null &&
+    [ "$(wc -l < "$tmp/int.csv")" -gt 1 ] && break
+done
+kill -INT "$child"
+wait "$child"
+rc=$?
+child=
+export_csv "$tmp/int.sqlite" "$tmp/int.csv"
+rows=$(($(wc -l < "$tmp/int.csv") - 1))
+[ $rc = 130 ] && grep -q "^stopped: .* committed" "$tmp/int.txt" && [ "$rows" -gt 0 ] && [ "$rows" -lt 900 ] &&
+  [ $((rows % 64)) = 0 ] && ok || bad "Ctrl-C: rc $rc, $rows rows, $(cat "$tmp/int.txt")"
+"$bin" sweep "${long[@]}" --out "$tmp/int.sqlite" > /dev/null 2>&1 && export_csv "$tmp/int.sqlite" "$tmp/int.csv" &&
+  cmp -s "$tmp/whole.csv" "$tmp/int.csv" && ok || bad "resumed after Ctrl-C differs"
 
 # 4. A bad --set is refused before anything runs: exit 2, one line, no file.
 expect_refused() {
