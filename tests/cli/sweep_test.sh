@@ -142,6 +142,19 @@ for r in csv.DictReader(open(sys.argv[1])):
 [ -n "$want" ] && [ "$want" = "$got" ] && ok || bad "front_flap at 17 deg laps in $got s, flap17 in $want s"
 grep -q "^cairnholt  *front_flap" "$tmp/flap.txt" && ok || bad "best point: $(cat "$tmp/flap.txt")"
 
+# A point that cannot lap (drive below the rolling resistance) is a row with its status and reason;
+# the study goes on. A file that is no results store is refused and left alone.
+"$bin" sweep --car "$car" --track tracks/acceleration.yaml --set powertrain.efficiency=1,0.002 \
+  --out "$tmp/cm.sqlite" > "$tmp/cm.txt" 2>&1 || bad "cannot-move sweep: $(cat "$tmp/cm.txt")"
+export_csv "$tmp/cm.sqlite" "$tmp/cm.csv"
+grep -q '^0,acceleration,low,1,[0-9.]*,.*,ok,$' "$tmp/cm.csv" &&
+  grep -q '^1,acceleration,low,0.002,,,,,,,cannot-move,the car cannot hold any speed' "$tmp/cm.csv" &&
+  grep -q "^note    1 laps cannot complete" "$tmp/cm.txt" && ok || bad "cannot-move rows: $(cat "$tmp/cm.csv")"
+cp README.md "$tmp/not-a-store.sqlite"
+"$bin" sweep "${study[@]}" --out "$tmp/not-a-store.sqlite" > /dev/null 2> "$tmp/err.txt"
+[ $? = 2 ] && grep -q "not a database" "$tmp/err.txt" && cmp -s README.md "$tmp/not-a-store.sqlite" && ok ||
+  bad "a file that is no store: $(cat "$tmp/err.txt")"
+
 # 6. Sampled designs: lhs and sobol give their N points inside the box, the same on every run.
 for d in lhs:7 sobol:7; do
   "$bin" sweep --car "$car" --track tracks/skidpad.yaml --set mass=600kg:700kg --set tyres.mu_lat=1.4:1.8 \
