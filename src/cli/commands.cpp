@@ -729,6 +729,13 @@ int sweep(const SweepOptions& o, Inputs& in) {
   for (std::size_t t = 0; t < circuits.size(); ++t) {
     study.inputs.push_back({"track", o.tracks[t], hex64(fnv1a64(read_bytes(o.tracks[t])))});
     identity += "track " + study.inputs.back().fnv1a64 + "\n";
+    // A track's data (centerline or curvature CSV) is an input too: a changed file is another
+    // study.
+    if (const auto& p = circuits[t].track.profile; p && !p->data_file.empty()) {
+      study.inputs.push_back(
+          {"track-data", p->data_file, hex64(fnv1a64(read_bytes(p->data_file)))});
+      identity += "track-data " + study.inputs.back().fnv1a64 + "\n";
+    }
     study.tracks.push_back(circuits[t].track.id);
   }
   study.configs = configs;
@@ -817,8 +824,11 @@ int sweep(const SweepOptions& o) {
 int sweep_merge(const SweepMergeOptions& o) {
   merge_stores(o.out, o.inputs);
   const StoreCounts c = store_counts(o.out);
-  std::cout << "merged  " << o.inputs.size() << " files into " << o.out << ": " << c.rows
-            << " laps\n";
+  std::cout << "merged  " << o.inputs.size() << " files into " << o.out << ": " << c.rows << " of "
+            << c.expected << " laps of the study"
+            << (c.rows == c.expected ? " (complete)"
+                                     : " (incomplete: run the missing shards, then merge them in)")
+            << "\n";
   return 0;
 }
 

@@ -108,7 +108,8 @@ void create_schema(Connection& c, const StudyRecord& st, const SweepPlan& plan) 
       "design TEXT NOT NULL, points INTEGER NOT NULL, shard TEXT NOT NULL);"
       "CREATE TABLE inputs (role TEXT NOT NULL, file TEXT NOT NULL, fnv1a64 TEXT NOT NULL);"
       "CREATE TABLE sets (key TEXT NOT NULL, unit TEXT NOT NULL, \"values\" TEXT NOT NULL);"
-      "CREATE TABLE tracks (track_index INTEGER NOT NULL, track TEXT NOT NULL);");
+      "CREATE TABLE tracks (track_index INTEGER NOT NULL, track TEXT NOT NULL);"
+      "CREATE TABLE configs (config_index INTEGER NOT NULL, config TEXT NOT NULL);");
   {
     Statement s(c, "INSERT INTO study VALUES (?, ?, ?, ?, ?, ?)");
     s.bind(1, st.study_id);
@@ -145,6 +146,15 @@ void create_schema(Connection& c, const StudyRecord& st, const SweepPlan& plan) 
       s.reset();
       s.bind(1, static_cast<std::int64_t>(t));
       s.bind(2, st.tracks[t]);
+      s.step();
+    }
+  }
+  {
+    Statement s(c, "INSERT INTO configs VALUES (?, ?)");
+    for (std::size_t k = 0; k < st.configs.size(); ++k) {
+      s.reset();
+      s.bind(1, static_cast<std::int64_t>(k));
+      s.bind(2, st.configs[k]);
       s.step();
     }
   }
@@ -279,9 +289,14 @@ std::vector<BestPoint> best_points(const std::string& file) {
 
 StoreCounts store_counts(const std::string& file) {
   Connection c(file, false);
-  Statement s(c, "SELECT count(*), coalesce(sum(status != 'ok'), 0) FROM laps");
+  Statement s(c,
+              "SELECT (SELECT count(*) FROM laps), "
+              "(SELECT coalesce(sum(status != 'ok'), 0) FROM laps), "
+              "(SELECT points FROM study) * (SELECT count(*) FROM tracks) * "
+              "(SELECT count(*) FROM configs)");
   s.step();
-  return {static_cast<std::size_t>(s.integer(0)), static_cast<std::size_t>(s.integer(1))};
+  return {static_cast<std::size_t>(s.integer(0)), static_cast<std::size_t>(s.integer(1)),
+          static_cast<std::size_t>(s.integer(2))};
 }
 
 void merge_stores(const std::string& out, const std::vector<std::string>& inputs) {

@@ -41,12 +41,13 @@ cmp -s "$tmp/t1.csv" "$tmp/again.csv" && ok || bad "a rerun changed the rows"
 for k in 1 2 3; do
   "$bin" sweep "${study[@]}" --shard $k/3 --out "$tmp/s$k.sqlite" > /dev/null 2>&1 || bad "shard $k/3"
 done
-"$bin" sweep merge "$tmp/merged.sqlite" "$tmp/s1.sqlite" "$tmp/s2.sqlite" "$tmp/s3.sqlite" > /dev/null 2>&1 ||
-  bad "merge"
+"$bin" sweep merge "$tmp/merged.sqlite" "$tmp/s1.sqlite" "$tmp/s2.sqlite" "$tmp/s3.sqlite" > "$tmp/merge.txt" 2>&1 &&
+  grep -q ": 40 of 40 laps of the study (complete)" "$tmp/merge.txt" && ok || bad "merge: $(cat "$tmp/merge.txt")"
 export_csv "$tmp/merged.sqlite" "$tmp/merged.csv"
 cmp -s "$tmp/t1.csv" "$tmp/merged.csv" && ok || bad "merged shards differ from the unsharded study"
 # Two shards alone are not the whole study.
-"$bin" sweep merge "$tmp/part.sqlite" "$tmp/s1.sqlite" "$tmp/s2.sqlite" > /dev/null 2>&1
+"$bin" sweep merge "$tmp/part.sqlite" "$tmp/s1.sqlite" "$tmp/s2.sqlite" > "$tmp/merge.txt" 2>&1
+grep -q "(incomplete: run the missing shards" "$tmp/merge.txt" && ok || bad "partial merge: $(cat "$tmp/merge.txt")"
 export_csv "$tmp/part.sqlite" "$tmp/part.csv"
 [ "$(wc -l < "$tmp/part.csv")" -lt 41 ] && ok || bad "two shards hold every row"
 # A shard of another study (another set) is refused, and nothing is written.

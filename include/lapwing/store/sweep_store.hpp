@@ -69,9 +69,10 @@ struct BestPoint {
 /// completes is left out. OutputError when `file` is no results store.
 std::vector<BestPoint> best_points(const std::string& file);
 
-/// Row counts: laps stored, and how many of them are not ok.
+/// Row counts: laps stored, how many of them are not ok, and the laps of the whole study
+/// (points x tracks x configs).
 struct StoreCounts {
-  std::size_t rows = 0, not_ok = 0;
+  std::size_t rows = 0, not_ok = 0, expected = 0;
 };
 StoreCounts store_counts(const std::string& file);
 

@@ -46,8 +46,10 @@ struct SweepDesign {
 /// "grid", "lhs:N" or "sobol:N" (N in [1, max_sweep_points]); InvalidInput ("--design TEXT").
 SweepDesign parse_design(std::string_view text);
 
-/// The most points one study may have (a grid is refused above it before anything runs).
-inline constexpr std::size_t max_sweep_points = 100'000'000;
+/// The most points one study may have (a grid is refused above it before anything runs): the run
+/// keeps a list of its points and a sampled design its samples in memory (8 bytes each per
+/// point and set), so 10^7 points stay below a gigabyte. Bigger studies are several studies.
+inline constexpr std::size_t max_sweep_points = 10'000'000;
 
 /// Shard K of N (K 1-based as typed): the points i with i mod N = K - 1.
 struct Shard {
