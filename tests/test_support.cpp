@@ -2,6 +2,7 @@
 
 #include <algorithm>
 #include <cmath>
+#include <stdexcept>
 
 #include "lapwing/base/units.hpp"
 #include "lapwing/io/track_file.hpp"
@@ -24,6 +25,13 @@ std::string source_path(const std::string& relative) {
 Circuit bundled_circuit(const std::string& relative) {
   const Track t = load_track(source_path(relative));
   return lay_out(t, make_air(t.air));
+}
+
+ConfiguredCar configured(Car car) {
+  if (car.configs.size() != 1) throw std::invalid_argument("test::configured: not one config");
+  AeroConfig& a = car.configs.front();
+  a.mass_kg = a.inertia_factor = a.cg_height_m = a.front_weight = a.drag_height_m = std::nullopt;
+  return ConfiguredCar(car, 0);
 }
 
 Car plain_car(double mass_kg, double mu, double power_w) {

@@ -35,6 +35,12 @@ Car plain_car(double mass_kg = 600.0, double mu = 1.5, double power_w = 300e3);
 /// curve (engine held at its lowest speed below the curve, so the force holds from standstill).
 Car constant_force_car(double mass_kg, double force_n, double mu);
 
+/// A car a test built or changed (one config, whose overrides are already in the car-level
+/// values or which has none), as the solver takes it: the config's overrides are dropped so
+/// that the car-level values the test set stand. Throws std::invalid_argument for a car with
+/// other than one config.
+ConfiguredCar configured(Car car);
+
 /// Tracks from segments.
 Track circle_track(double radius_m, double mesh_m);
 Track straight_track(double length_m, double mesh_m, double start_speed_mps);

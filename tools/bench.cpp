@@ -13,9 +13,11 @@
 #include "lapwing/io/car_file.hpp"
 #include "lapwing/io/track_file.hpp"
 #include "lapwing/path/mesh.hpp"
+#include "lapwing/path/racing_line.hpp"
 #include "lapwing/solve/envelope.hpp"
 #include "lapwing/solve/solver.hpp"
 #include "lapwing/study/circuit.hpp"
+#include "lapwing/study/min_time_line.hpp"
 #include "lapwing/study/trade.hpp"
 
 namespace {
@@ -59,14 +61,66 @@ int bench_trade(int argc, char** argv) {
   return 0;
 }
 
+// lapwing_bench --line CAR CONFIG TRACK... : the racing line of each track (its widths, a 2 m
+// car with 0.5 m margins): the minimum-curvature solve (reference laid out, then the line) and
+// the minimum-time refinement for CONFIG, each the fastest and the median of 5 runs.
+int bench_line(int argc, char** argv) {
+  using namespace lapwing;
+  using clock = std::chrono::steady_clock;
+  if (argc < 5) {
+    std::fprintf(stderr, "usage: lapwing_bench --line CAR CONFIG TRACK...\n");
+    return 2;
+  }
+  const Car car = load_car(argv[2]);
+  const int ci = car.config_index(argv[3]);
+  if (ci < 0) throw std::runtime_error(std::string("no config ") + argv[3]);
+  const ConfiguredCar configured = car.configured(static_cast<std::size_t>(ci));
+  auto stats = [](std::vector<double> v) {
+    std::sort(v.begin(), v.end());
+    return std::pair<double, double>{v.front(), v[v.size() / 2]};
+  };
+  for (int i = 4; i < argc; ++i) {
+    Track t = load_track(argv[i]);
+    t.line.reset();
+    t.line_path.reset();
+    const Air air = make_air(t.air);
+    std::vector<double> mc, mt;
+    int iterations = 0, passes = 0;
+    std::size_t points = 0;
+    double mc_lap = 0.0, mt_lap = 0.0;
+    for (int k = 0; k < 5; ++k) {
+      const auto t0 = clock::now();
+      const LineReference ref = line_reference(t);
+      const RacingLine line = min_curvature_line(ref, LineOptions{});
+      mc.push_back(std::chrono::duration<double>(clock::now() - t0).count());
+      iterations = line.iterations;
+      points = ref.size();
+      const auto t1 = clock::now();
+      const MinTimeLine m = min_time_line(t, air, configured, LineSpec{});
+      mt.push_back(std::chrono::duration<double>(clock::now() - t1).count());
+      passes = m.passes;
+      mc_lap = m.min_curvature_lap_s;
+      mt_lap = m.lap_s;
+    }
+    const auto [mc_fast, mc_median] = stats(mc);
+    const auto [mt_fast, mt_median] = stats(mt);
+    std::printf(
+        "line: %s, %.1f m, %zu points: min-curvature %.3f s (median %.3f s, %d linearisations, "
+        "lap %.3f s); min-time %.3f s (median %.3f s, %d passes, lap %.3f s)\n",
+        t.id.c_str(), t.length_m(), points, mc_fast, mc_median, iterations, mc_lap, mt_fast,
+        mt_median, passes, mt_lap);
+  }
+  return 0;
+}
+
 }  // namespace
 
 int main(int argc, char** argv) {
   using namespace lapwing;
   using clock = std::chrono::steady_clock;
-  if (argc >= 2 && std::string(argv[1]) == "--trade") {
+  if (argc >= 2 && (std::string(argv[1]) == "--trade" || std::string(argv[1]) == "--line")) {
     try {
-      return bench_trade(argc, argv);
+      return std::string(argv[1]) == "--trade" ? bench_trade(argc, argv) : bench_line(argc, argv);
     } catch (const std::exception& e) {
       std::fprintf(stderr, "lapwing_bench: %s\n", e.what());
       return 1;
@@ -93,7 +147,7 @@ int main(int argc, char** argv) {
     const Track track = load_track(argv[2]);
     const int ci = config.empty() ? 0 : car.config_index(config);
     if (ci < 0) throw std::runtime_error("no config " + config);
-    const Car configured = car.configured(static_cast<std::size_t>(ci));
+    const ConfiguredCar configured = car.configured(static_cast<std::size_t>(ci));
     const Air air = make_air(track.air);
     const Mesh mesh = build_mesh(track, mesh_m);
 
@@ -128,13 +182,13 @@ int main(int argc, char** argv) {
     for (int b = 0; b < batches; ++b) {
       t0 = clock::now();
       for (int k = 0; k < per_batch; ++k)
-        sink += solver.solve(env, mesh, track.start_speed_mps, false).lap_time_s;
+        sink += solver.solve_speed(env, mesh, track.start_speed_mps).lap_time_s;
       bare_s.push_back(std::chrono::duration<double>(clock::now() - t0).count() / per_batch);
     }
     std::sort(bare_s.begin(), bare_s.end());
     std::printf("track %s: %.1f m, %zu mesh points at %.3f m; config %s; lap %.3f s\n",
                 track.name.c_str(), mesh.length_m, mesh.size(), mesh.step_m,
-                configured.configs.front().name.c_str(), warm.lap_time_s);
+                configured.aero().name.c_str(), warm.lap_time_s);
     std::printf("envelope build: %.3f ms (mean of %d)\n", envelope_s * 1e3, envelope_builds);
     const double points = static_cast<double>(mesh.size());
     std::printf(

@@ -23,17 +23,20 @@
 #include "lapwing/model/aero.hpp"
 #include "lapwing/model/air.hpp"
 #include "lapwing/model/car.hpp"
+#include "lapwing/model/loads.hpp"
 #include "lapwing/model/powertrain.hpp"
 #include "lapwing/model/track.hpp"
 #include "lapwing/model/tyre.hpp"
 
 // path
+#include "lapwing/path/box_qp.hpp"
 #include "lapwing/path/centerline.hpp"
 #include "lapwing/path/corners.hpp"
 #include "lapwing/path/curvature_profile.hpp"
 #include "lapwing/path/geodesy.hpp"
 #include "lapwing/path/log_curvature.hpp"
 #include "lapwing/path/mesh.hpp"
+#include "lapwing/path/racing_line.hpp"
 #include "lapwing/path/smoothing.hpp"
 
 // io
@@ -42,6 +45,7 @@
 #include "lapwing/io/csv_writer.hpp"
 #include "lapwing/io/document.hpp"
 #include "lapwing/io/json.hpp"
+#include "lapwing/io/line_track.hpp"
 #include "lapwing/io/log_file.hpp"
 #include "lapwing/io/output.hpp"
 #include "lapwing/io/source_map.hpp"
@@ -55,10 +59,13 @@
 #include "lapwing/solve/summary.hpp"
 
 // study
+#include "lapwing/study/check_summary.hpp"
 #include "lapwing/study/circuit.hpp"
 #include "lapwing/study/compare.hpp"
+#include "lapwing/study/min_time_line.hpp"
 #include "lapwing/study/sweep.hpp"
 #include "lapwing/study/thread_pool.hpp"
+#include "lapwing/study/track_quality.hpp"
 #include "lapwing/study/trade.hpp"
 
 // store
@@ -66,10 +73,14 @@
 
 // report
 #include "lapwing/report/cells.hpp"
+#include "lapwing/report/check_report.hpp"
 #include "lapwing/report/compare_report.hpp"
 #include "lapwing/report/html_report.hpp"
+#include "lapwing/report/labels.hpp"
 #include "lapwing/report/lap_files.hpp"
 #include "lapwing/report/lap_text.hpp"
 #include "lapwing/report/svg.hpp"
 #include "lapwing/report/text_table.hpp"
+#include "lapwing/report/track_quality_text.hpp"
 #include "lapwing/report/trade_report.hpp"
+#include "lapwing/report/verdict.hpp"

@@ -19,6 +19,7 @@
 #include "lapwing/io/car_file.hpp"
 #include "lapwing/io/document.hpp"
 #include "lapwing/io/json.hpp"
+#include "lapwing/io/line_track.hpp"
 #include "lapwing/io/log_file.hpp"
 #include "lapwing/io/output.hpp"
 #include "lapwing/io/track_data.hpp"
@@ -29,38 +30,32 @@
 #include "lapwing/model/track.hpp"
 #include "lapwing/path/corners.hpp"
 #include "lapwing/path/mesh.hpp"
+#include "lapwing/path/racing_line.hpp"
+#include "lapwing/report/check_report.hpp"
 #include "lapwing/report/compare_report.hpp"
 #include "lapwing/report/html_report.hpp"
 #include "lapwing/report/lap_files.hpp"
 #include "lapwing/report/lap_text.hpp"
 #include "lapwing/report/text_table.hpp"
+#include "lapwing/report/track_quality_text.hpp"
 #include "lapwing/report/trade_report.hpp"
 #include "lapwing/solve/axle.hpp"
 #include "lapwing/solve/envelope.hpp"
 #include "lapwing/solve/solver.hpp"
 #include "lapwing/solve/summary.hpp"
 #include "lapwing/store/sweep_store.hpp"
+#include "lapwing/study/check_summary.hpp"
 #include "lapwing/study/circuit.hpp"
 #include "lapwing/study/compare.hpp"
+#include "lapwing/study/min_time_line.hpp"
 #include "lapwing/study/sweep.hpp"
 #include "lapwing/study/thread_pool.hpp"
+#include "lapwing/study/track_quality.hpp"
 #include "lapwing/study/trade.hpp"
 
 namespace lapwing::cli {
 
 namespace {
-
-std::string describe_air(const Air& a) {
-  std::string s = fixed(a.density_kg_m3, 4) + " kg/m3 (";
-  if (a.standard) {
-    s += "ISO 2533 at " + fixed(a.altitude_m, 0) + " m";
-  } else {
-    s += fixed(a.temperature_k - units::celsius_zero_k, 1) + " C, " +
-         fixed(a.pressure_pa / 100.0, 1) + " hPa, " + fixed(100 * a.relative_humidity, 0) +
-         " % humidity at " + fixed(a.altitude_m, 0) + " m";
-  }
-  return s + ")";
-}
 
 // The air overrides parsed against their quantities.
 struct AirOverride {
@@ -142,10 +137,14 @@ class Inputs {
     sources_.add(std::move(f.sources));
     return std::move(f.car);
   }
-  Circuit lay_out(const std::string& file, const AirOverride& air) {
+  Track track(const std::string& file) {
     TrackFile f = read_track_file(file);
     sources_.add(std::move(f.sources));
-    return lapwing::lay_out(f.track, make_air(apply(f.track.air, air)));
+    return std::move(f.track);
+  }
+  Circuit lay_out(const std::string& file, const AirOverride& air) {
+    const Track t = track(file);
+    return lapwing::lay_out(t, make_air(apply(t.air, air)));
   }
   std::vector<Circuit> lay_out_all(const std::vector<std::string>& files, const AirOverride& air);
   InputError error(const InvalidInput& e) const { return sources_.error(e); }
@@ -208,280 +207,16 @@ std::size_t pick_config(const Car& car, const std::string& name) {
 }  // namespace
 
 namespace {
-
-// Per config: what check reports of its aero at a few speeds in one air.
-void describe_config(const Car& car, std::size_t index, const Air& air, std::string& out,
-                     JsonWriter& j) {
-  const Car cc = car.configured(index);
-  const AeroConfig& a = cc.configs.front();
-  const Envelope env(cc, air);
-  const AeroPoint rest = env.aero_point(0.0);
-  j.begin_object()
-      .field("name", a.name)
-      .field("form", form_name(a.form))
-      .field("cda_m2", rest.cda_m2)
-      .field("cla_m2", rest.cla_m2)
-      .field("lift_to_drag", rest.cda_m2 > 0 ? rest.cla_m2 / rest.cda_m2 : 0.0)
-      .field("aero_balance", rest.balance)
-      .field("drag_height_m", cc.drag_height_m)
-      .field("top_speed_kph", units::to_kph(env.top_speed_level_mps()))
-      .field("top_speed_limit", top_speed_limit_name(env.top_speed_limit()));
-  out += "\nconfig " + a.name + " (" + std::string(form_name(a.form)) + "): CdA " +
-         fixed(rest.cda_m2, 3) + " m2, ClA " + fixed(rest.cla_m2, 3) + " m2, L/D " +
-         (rest.cda_m2 > 0 ? fixed(rest.cla_m2 / rest.cda_m2, 2) : std::string("-")) +
-         ", aero balance " + fixed(100 * rest.balance, 1) + " %" +
-         (env.has_map()         ? " (at rest)"
-          : a.speed_mps.empty() ? ""
-                                : " (first row)") +
-         ", drag height " + fixed(cc.drag_height_m, 3) + " m, top speed " +
-         fixed(units::to_kph(env.top_speed_level_mps()), 1) + " km/h (" +
-         top_speed_limit_name(env.top_speed_limit()) + ")\n";
-  std::vector<std::vector<std::string>> rows;
-  bool no_downforce = false;
-  j.key("at_speeds").begin_array();
-  for (double speed_kph : {100.0, 200.0, 300.0}) {
-    const double v = speed_kph * units::kph;
-    const AeroPoint p = env.aero_point(v);
-    const double q = 0.5 * air.density_kg_m3 * v * v;
-    const double down = q * p.cla_m2, drag = q * p.cda_m2;
-    // Front axle share of the aero load: the balance alone, then with the drag moment
-    // (drag x drag height / wheelbase off the front axle); undefined without downforce. The
-    // aero load on the front axle itself, DF bal - D z_D / L, is defined either way.
-    const double share = p.balance;
-    const std::optional<double> with_moment = aero_balance_with_drag_moment(
-        p.cla_m2, p.cda_m2, p.balance, cc.drag_height_m, cc.wheelbase_m);
-    const double front_aero = down * p.balance - drag * cc.drag_height_m / cc.wheelbase_m;
-    if (!with_moment) no_downforce = true;
-    std::vector<std::string> row{fixed(speed_kph, 0),
-                                 fixed(down, 0),
-                                 fixed(drag, 0),
-                                 with_moment ? fixed(100 * share, 1) : std::string("-"),
-                                 with_moment ? fixed(100 * *with_moment, 1) : std::string("-"),
-                                 fixed(front_aero, 0)};
-    j.begin_object().field("speed_kph", speed_kph).field("downforce_n", down).field("drag_n", drag);
-    j.key("front_share");
-    if (with_moment)
-      j.value(share);
-    else
-      j.null();
-    j.key("front_share_with_drag_moment");
-    if (with_moment)
-      j.value(*with_moment);
-    else
-      j.null();
-    j.field("front_aero_load_n", front_aero);
-    if (env.has_map()) {
-      row.push_back(fixed(1000 * p.front_ride_m, 1) + " / " + fixed(1000 * p.rear_ride_m, 1) +
-                    (p.off_map ? " off map" : "") + (p.grounded ? " grounded" : ""));
-      j.field("front_ride_height_m", p.front_ride_m).field("rear_ride_height_m", p.rear_ride_m);
-    }
-    j.end_object();
-    rows.push_back(row);
-  }
-  j.end_array();
-  std::vector<std::string> header{"speed km/h",    "downforce N",        "drag N",
-                                  "front share %", "with drag moment %", "front aero load N"};
-  if (env.has_map()) header.push_back("ride height F / R mm");
-  out += text_table(header, rows);
-  // Notes: what the data does outside its range, said once (the same notes a lap that reaches
-  // them is warned of, summary.hpp).
-  std::vector<std::string> notes;
-  for (const RangeNote& n : range_notes(env)) notes.push_back(n.text);
-  if (no_downforce)
-    notes.push_back(
-        "no downforce: the front share of the aero load is undefined ('-'); the drag moment "
-        "alone takes drag x drag height / wheelbase off the front axle (front aero load)");
-  if (a.trim)
-    notes.push_back("straight-line trim: CdA " + fixed(a.trim->dcda_m2, 3) + " m2, ClA " +
-                    fixed(a.trim->dcla_m2, 3) + " m2, balance " + fixed(100 * a.trim->dbalance, 1) +
-                    " points where |curvature| < " + fixed(a.trim->below_curvature_1pm, 4) +
-                    " 1/m under full drive");
-  j.key("notes").begin_array();
-  for (const auto& n : notes) {
-    out += "       note: " + n + "\n";
-    j.value(n);
-  }
-  j.end_array().end_object();
-}
-
-}  // namespace
-
-namespace {
 int check(const CheckOptions& o, Inputs& in) {
   const AirOverride air = parse_air(o.air);
   const Car car = in.car(o.car);
   const std::vector<Circuit> tracks = in.lay_out_all(o.tracks, air);
   // The car's own figures in ISO 2533 sea-level air, or in the air the options give.
-  const Air reference = make_air(apply(AirSpec{}, air));
-
-  std::string out;
-  out += "car    " + car.name + " (" + car.file + ")\n";
-  out += "       mass " + fixed(car.mass_kg, 1) + " kg, static front weight " +
-         fixed(100 * car.front_weight, 1) + " %, wheelbase " + fixed(car.wheelbase_m, 3) +
-         " m, cg height " + fixed(car.cg_height_m, 3) + " m\n";
-  out += "       aero figures in air of " + describe_air(reference) + "\n";
-  JsonWriter j;
-  j.begin_object().field("lapwing", version());
-  j.key("car")
-      .begin_object()
-      .field("name", car.name)
-      .field("mass_kg", car.mass_kg)
-      .field("front_weight", car.front_weight)
-      .field("wheelbase_m", car.wheelbase_m)
-      .field("cg_height_m", car.cg_height_m)
-      .field("air_density_kg_m3", reference.density_kg_m3);
-  j.key("configs").begin_array();
-  for (std::size_t c = 0; c < car.configs.size(); ++c) describe_config(car, c, reference, out, j);
-  j.end_array().end_object();
-
-  j.key("tracks").begin_array();
-  for (const auto& t : tracks) {
-    const Closure cl = closure(t.track);
-    out += "\ntrack  " + t.track.name + " (" + t.track.file + ")\n";
-    // The closure gap is what a lap must bring to zero: an open track has none to report.
-    out += "       " + std::string(t.track.closed ? "closed lap" : "open (sprint)") + ", length " +
-           fixed(t.mesh.length_m, 1) + " m" +
-           (t.track.closed ? ", closure gap " + fixed(cl.position_gap_m, 3) + " m / " +
-                                 fixed(cl.heading_gap_rad / units::deg, 2) +
-                                 " deg, elevation gap " + fixed(cl.elevation_gap_m, 2) + " m"
-                           : std::string(", rise ") + fixed(cl.elevation_gap_m, 2) + " m") +
-           ", corners " + std::to_string(t.corners.size()) + "\n       air " + describe_air(t.air) +
-           ", mesh " + fixed(t.mesh.step_m, 4) + " m (" + std::to_string(t.mesh.intervals()) +
-           " steps)\n";
-    if (t.track.profile) {
-      const PathProfile& p = *t.track.profile;
-      const bool fitted = p.source == PathProfile::Source::centerline;
-      out += "       from " + p.data_file +
-             (fitted ? std::string(p.geodetic ? " (WGS-84 lat/lon, tangent plane)" : "") +
-                           ": smoothing " + fixed(p.smoothing_m, 1) + " m, fit residual " +
-                           fixed(1000 * p.fit_residual_rms_m, 1) + " mm rms, curvature noise " +
-                           fixed(p.curvature_noise_rms_1pm, 5) + " 1/m rms"
-                     : std::string(": curvature as given") +
-                           (p.has_bank ? "; bank_deg read but not modelled" : "")) +
-             "\n";
-      for (const auto& n : p.notes) out += "       note: " + n + "\n";
-    }
-    std::vector<std::vector<std::string>> trows;
-    j.begin_object()
-        .field("name", t.track.name)
-        .field("file", t.track.file)
-        .field("closed", t.track.closed)
-        .field("length_m", t.mesh.length_m);
-    if (t.track.closed)
-      j.field("closure_gap_m", cl.position_gap_m)
-          .field("closure_heading_deg", cl.heading_gap_rad / units::deg)
-          .field("elevation_gap_m", cl.elevation_gap_m);
-    else
-      j.key("closure_gap_m")
-          .null()
-          .key("closure_heading_deg")
-          .null()
-          .field("rise_m", cl.elevation_gap_m);
-    j.field("corner_count", static_cast<int>(t.corners.size()))
-        .field("air_density_kg_m3", t.air.density_kg_m3);
-    j.key("notes").begin_array();
-    if (t.track.profile)
-      for (const auto& n : t.track.profile->notes) j.value(n);
-    j.end_array();
-    j.key("configs").begin_array();
-    for (std::size_t c = 0; c < car.configs.size(); ++c) {
-      const Envelope env(car.configured(c), t.air);
-      trows.push_back({car.configs[c].name, fixed(units::to_kph(env.top_speed_level_mps()), 1),
-                       top_speed_limit_name(env.top_speed_limit())});
-      j.begin_object()
-          .field("name", car.configs[c].name)
-          .field("top_speed_kph", units::to_kph(env.top_speed_level_mps()))
-          .field("top_speed_limit", top_speed_limit_name(env.top_speed_limit()))
-          .end_object();
-    }
-    j.end_array();
-    if (t.track.profile && t.track.profile->source == PathProfile::Source::centerline) {
-      // How much the smoothing choice matters: the lap at half and double the length. A variant
-      // that cannot be laid out or solved (a tighter fit can make a start speed too high, or a
-      // lap not close) is a note naming it: the track itself is what run takes.
-      const PathProfile& p = *t.track.profile;
-      const double factors[3] = {0.5, 1.0, 2.0};
-      const char* variant_names[3] = {"half", "as given", "double"};
-      std::vector<std::string> notes;
-      auto variant_label = [&](int k) {
-        return "the centerline smoothed over " + fixed(factors[k] * p.smoothing_m, 1) + " m (" +
-               variant_names[k] + ")";
-      };
-      std::optional<Circuit> variants[3];
-      for (int k = 0; k < 3; ++k) {
-        if (factors[k] == 1.0) {
-          variants[k] = t;
-          continue;
-        }
-        try {
-          Track v = t.track;
-          CenterlineOptions co;
-          co.smoothing_m = p.smoothing_m * factors[k];
-          co.elevation_smoothing_m = p.elevation_smoothing_m;
-          v.profile = import_centerline(p.data_file, v.closed, co);
-          variants[k] = lapwing::lay_out(v, t.air);
-        } catch (const InputError& e) {
-          notes.push_back(variant_label(k) + " cannot be laid out: " + e.message());
-        } catch (const InvalidInput& e) {
-          notes.push_back(variant_label(k) + " cannot be laid out: " + in.error(e).message());
-        }
-      }
-      std::vector<std::vector<std::string>> srows;
-      j.key("smoothing_sensitivity").begin_array();
-      for (std::size_t c = 0; c < car.configs.size(); ++c) {
-        const Car cc = car.configured(c);
-        std::optional<double> laps[3];
-        for (int k = 0; k < 3; ++k) {
-          if (!variants[k]) continue;
-          try {
-            laps[k] = run_lap(cc, *variants[k]).summary.lap_time_s;
-          } catch (const InputError& e) {
-            notes.push_back(variant_label(k) + " cannot be solved with config " +
-                            car.configs[c].name + ": " + e.message());
-          } catch (const InvalidInput& e) {
-            notes.push_back(variant_label(k) + " cannot be solved with config " +
-                            car.configs[c].name + ": " + in.error(e).message());
-          } catch (const CannotMove& e) {
-            notes.push_back(variant_label(k) + " cannot be solved with config " +
-                            car.configs[c].name + ": the car cannot complete it: " + e.what());
-          }
-        }
-        auto cell = [](const std::optional<double>& v) {
-          return v ? fixed(*v, 3) : std::string("-");
-        };
-        srows.push_back({car.configs[c].name, cell(laps[0]), cell(laps[1]), cell(laps[2]),
-                         laps[0] && laps[1] && laps[2]
-                             ? fixed(100 * (*laps[2] - *laps[0]) / *laps[1], 2)
-                             : std::string("-")});
-        j.begin_object().field("config", car.configs[c].name);
-        const char* keys[3] = {"half_s", "as_given_s", "double_s"};
-        for (int k = 0; k < 3; ++k) {
-          j.key(keys[k]);
-          if (laps[k])
-            j.value(*laps[k]);
-          else
-            j.null();
-        }
-        j.end_object();
-      }
-      j.end_array();
-      j.key("smoothing_sensitivity_notes").begin_array();
-      for (const auto& n : notes) j.value(n);
-      j.end_array();
-      out +=
-          "       lap time with the centerline smoothed over half, the given and double length\n" +
-          text_table({"config", "lap s at " + fixed(0.5 * p.smoothing_m, 1) + " m",
-                      "at " + fixed(p.smoothing_m, 1) + " m",
-                      "at " + fixed(2 * p.smoothing_m, 1) + " m", "spread %"},
-                     srows);
-      for (const auto& n : notes) out += "       note: " + n + "\n";
-    }
-    j.end_object();
-    out += text_table({"config", "top speed km/h (this air, level)", "limit"}, trows);
-  }
-  j.end_array().end_object();
-
-  if (!o.json.empty()) write_file_atomic(o.json, j.str());
+  const CheckSummary summary = check_summary(car, tracks, make_air(apply(AirSpec{}, air)));
+  // Bad input a lap found is worded at its place in the file that gave it.
+  const std::string out = check_text(car, tracks, summary,
+                                     [&](const InvalidInput& e) { return in.error(e).message(); });
+  if (!o.json.empty()) write_file_atomic(o.json, check_json(car, tracks, summary));
   std::cout << out;
   return 0;
 }
@@ -508,7 +243,12 @@ int run(const RunOptions& o, Inputs& in) {
   apply_model(o.model, car);
   const std::size_t ci = pick_config(car, o.config);
   const Circuit t = in.lay_out(o.track, air);
-  LapRun r = run_lap(car.configured(ci), t);
+  const ConfiguredCar configured = car.configured(ci);
+  LapRun r = run_lap(configured, t);
+  // The data's verdict; a poor one is a warning with the lap's own.
+  const TrackQuality quality = assess_track(t, smoothing_variants(t), configured,
+                                            car.configs[ci].name, r.summary.lap_time_s);
+  if (quality.verdict == Verdict::poor) r.summary.warnings.push_back(quality_warning(quality));
   const LapSummary s = r.summary;
 
   std::string out;
@@ -516,25 +256,32 @@ int run(const RunOptions& o, Inputs& in) {
          (car.model == VehicleModel::axle ? "axle" : "point-mass") + " model\n";
   out += "track   " + t.track.name + " (" + t.track.file + "), " + fixed(t.mesh.length_m, 1) +
          " m, " + (t.track.closed ? "closed lap" : "open") + "\n";
-  out += "air     " + describe_air(t.air) + "\n";
+  out += "air     " + air_text(t.air) + "\n";
   if (t.track.profile)
     for (const auto& n : t.track.profile->notes) out += "note    " + n + "\n";
+  if (t.track.profile && t.track.profile->source == PathProfile::Source::centerline)
+    out += "smoothing " + smoothing_text(*t.track.profile) + "\n";
+  if (t.track.line_path) out += line_text(t.track) + "\n";
+  out += quality_line(quality) + "\n";
+  for (const auto& n : quality.notes) out += "note    " + n + "\n";
   out += "\n";
   out += lap_table(s);
 
   if (!o.out.empty()) {
     std::vector<std::pair<std::string, std::string>> files{
-        {"summary.json", summary_json(car.name, {s})},
+        {"summary.json", summary_json(car.name, {s}, {quality})},
         {"trace-" + t.track.id + "-" + s.config + ".csv", trace_csv(r.lap, t.mesh)},
         {"corners.csv", corners_csv({s})}};
     // The single-lap page: the comparison report of one config on one track.
     const std::vector<Circuit> circuits{t};
     const Comparison one = single_lap_comparison(ci, std::move(r), t);
+    const std::vector<TrackQuality> qualities{quality};
     files.push_back(
         {"report.html",
          html_report({&car, &circuits, &one, nullptr,
                       "run, config " + s.config + ", " +
-                          (car.model == VehicleModel::axle ? "axle" : "point-mass") + " model"})});
+                          (car.model == VehicleModel::axle ? "axle" : "point-mass") + " model",
+                      &qualities})});
     write_outputs(o.out, files);
   }
   std::cout << out;
@@ -574,6 +321,15 @@ int compare(const CompareOptions& o, Inputs& in) {
   const Comparison c = lapwing::compare(car, configs, circuits, o.threads);
   const std::string out = compare_table(car, c, circuits);
   if (!o.out.empty()) {
+    // The data's verdicts, per track and config (summary.json, the report).
+    std::vector<TrackQuality> qualities;
+    for (std::size_t t = 0; t < c.tracks.size(); ++t) {
+      const SmoothingVariants variants = smoothing_variants(circuits[t]);
+      for (std::size_t k = 0; k < configs.size(); ++k)
+        qualities.push_back(assess_track(circuits[t], variants, car.configured(configs[k]),
+                                         car.configs[configs[k]].name,
+                                         c.tracks[t].entries[k].run.summary.lap_time_s));
+    }
     std::vector<std::pair<std::string, std::string>> files;
     std::vector<LapSummary> all;
     for (std::size_t t = 0; t < c.tracks.size(); ++t) {
@@ -590,10 +346,11 @@ int compare(const CompareOptions& o, Inputs& in) {
                    entries[b].run.summary.config + ".csv",
                delta_csv(circuits[t].mesh, delta_trace(entries[a].run.lap, entries[b].run.lap))});
     }
-    files.push_back({"summary.json", summary_json(car.name, all)});
+    files.push_back({"summary.json", summary_json(car.name, all, qualities)});
     files.push_back({"corners.csv", corners_csv(all)});
     files.push_back({"compare.json", compare_json(car, c, circuits)});
-    files.push_back({"report.html", html_report({&car, &circuits, &c, nullptr, "compare"})});
+    files.push_back(
+        {"report.html", html_report({&car, &circuits, &c, nullptr, "compare", &qualities})});
     write_outputs(o.out, files);
   }
   std::cout << out;
@@ -862,8 +619,9 @@ int track_from_log(const FromLogOptions& o) {
   l.yaw_unit = o.yaw_unit;
   l.closed = o.closed;
   l.name = o.name;
-  l.smoothing_m =
-      *option_value(o.smoothing, "--smoothing", Quantity::length, LogOptions::smoothing_range);
+  if (o.smoothing != "auto")
+    l.smoothing_m =
+        *option_value(o.smoothing, "--smoothing", Quantity::length, LogOptions::smoothing_range);
   l.air = apply(AirSpec{}, parse_air(o.air));
   const std::string csv_name = out.stem().string() + ".csv";
   const LogTrack t = lapwing::track_from_log(l, csv_name);
@@ -876,8 +634,117 @@ int track_from_log(const FromLogOptions& o) {
                           " deg, position " + fixed(t.closure_gap_m, 1) + " m"
                     : ", start speed " + fixed(units::to_kph(t.start_speed_mps), 1) +
                           " km/h (the log's first)")
-            << ", peak lateral acceleration " << fixed(t.peak_lateral_g, 2) << " g\n";
+            << ", peak lateral acceleration " << fixed(t.peak_lateral_g, 2) << " g\n"
+            << "filter  " << fixed(t.smoothing_m, 1) << " m"
+            << (t.smoothing.automatic
+                    ? std::string(" (auto: ") +
+                          (t.smoothing.at_lower_bound ? "the shortest length searched, 2 row "
+                                                        "spacings: the log shows no noise GCV "
+                                                        "can tell from the path"
+                           : t.smoothing.at_upper_bound
+                               ? "the longest length searched: the log looks like noise"
+                               : "GCV's minimum on the rows, " +
+                                     fixed(t.smoothing.chosen_at_spacing_m, 2) + " m apart") +
+                          ")"
+                    : std::string(" (given)"))
+            << "\n";
   return 0;
+}
+
+namespace {
+int track_line(const TrackLineOptions& o, Inputs& in) {
+  const std::filesystem::path out(o.out);
+  if (out.extension() != ".yaml") throw UsageError{"--out must name a .yaml track file"};
+  if (o.method != "min-curvature" && o.method != "min-time")
+    throw UsageError{"--method: '" + o.method + "' is not one of min-curvature | min-time"};
+  const bool min_time = o.method == "min-time";
+  if (min_time && o.car.empty())
+    throw UsageError{"--method min-time needs --car: the minimum-time line depends on the car"};
+  if (!o.config.empty() && o.car.empty()) throw UsageError{"--config needs --car"};
+  const AirOverride air = parse_air(o.air);
+  const Track track = in.track(o.track);
+  LineSpec spec = track.line.value_or(LineSpec{});
+  if (const auto w = option_value(o.vehicle_width, "--vehicle-width", Quantity::length,
+                                  LineSpec::vehicle_width_range))
+    spec.vehicle_width_m = *w;
+  if (const auto m = option_value(o.margin, "--margin", Quantity::length, LineSpec::margin_range))
+    spec.margin_m = *m;
+  spec.method = min_time ? LineSpec::Method::min_time : LineSpec::Method::min_curvature;
+  const AirSpec air_spec = apply(track.air, air);
+  const Air a = make_air(air_spec);
+  // The line is laid over the described path (a line: key of the source is replaced).
+  Track described = track;
+  described.line.reset();
+  described.line_path.reset();
+  std::optional<Car> car;
+  if (!o.car.empty()) car = in.car(o.car);
+  const std::size_t ci = car ? pick_config(*car, o.config) : 0;
+  std::optional<ConfiguredCar> configured;
+  if (car) configured.emplace(*car, ci);
+
+  // A track without widths, or too narrow for the vehicle and its margins: an InvalidInput of
+  // the track's "line" key (at the line: key, else the file as a whole).
+  PathProfile line;
+  std::optional<double> centerline_lap, min_curvature_lap, line_lap;
+  int passes = 0;
+  if (min_time) {
+    const MinTimeLine m = min_time_line(described, a, *configured, spec);
+    line = m.line;
+    min_curvature_lap = m.min_curvature_lap_s;
+    line_lap = m.lap_s;
+    passes = m.passes;
+  } else {
+    const LineReference ref = line_reference(described);
+    lapwing::LineOptions lo;
+    lo.vehicle_width_m = spec.vehicle_width_m;
+    lo.margin_m = spec.margin_m;
+    line = line_profile(ref, min_curvature_line(ref, lo));
+  }
+  Track lined = described;
+  lined.line_path = line;
+  if (configured) {
+    centerline_lap = run_lap(*configured, lapwing::lay_out(described, a)).summary.lap_time_s;
+    if (!line_lap) line_lap = run_lap(*configured, lapwing::lay_out(lined, a)).summary.lap_time_s;
+  }
+  const std::string csv_name = out.stem().string() + ".csv";
+  const LineTrackFiles files =
+      line_track_files(described, line, air_spec, o.method, spec, csv_name);
+  const std::filesystem::path dir = out.parent_path().empty() ? "." : out.parent_path();
+  write_outputs(dir, {{out.filename().string(), files.yaml}, {csv_name, files.csv}});
+
+  std::size_t widest = 0;
+  for (std::size_t i = 0; i < line.offset_m.size(); ++i)
+    if (std::abs(line.offset_m[i]) > std::abs(line.offset_m[widest])) widest = i;
+  std::string text = "track   " + o.out + " and " + (dir / csv_name).string() + "\n";
+  text += "line    " + o.method + ", vehicle " + fixed(spec.vehicle_width_m, 2) +
+          " m wide, margin " + fixed(spec.margin_m, 2) + " m: " + fixed(line.s_m.back(), 1) +
+          " m long (the centerline " + fixed(described.length_m(), 1) + " m), largest offset " +
+          fixed(std::abs(line.offset_m[widest]), 2) + " m " +
+          (line.offset_m[widest] >= 0 ? "left" : "right") + " at " +
+          fixed(line.reference_s_m[widest], 1) + " m of the centerline\n";
+  if (configured) {
+    const std::string config = car->configs[ci].name;
+    auto delta = [&](double lap) {
+      return " (" + std::string(lap <= *centerline_lap ? "" : "+") +
+             fixed(100 * (lap / *centerline_lap - 1), 2) + " %)";
+    };
+    text += "lap     " + car->name + ", config " + config + ": centerline " +
+            fixed(*centerline_lap, 3) + " s";
+    if (min_curvature_lap)
+      text += ", min-curvature line " + fixed(*min_curvature_lap, 3) + " s" +
+              delta(*min_curvature_lap) + ", min-time line " + fixed(*line_lap, 3) + " s" +
+              delta(*line_lap) + " after " + std::to_string(passes) + " passes";
+    else
+      text += ", line " + fixed(*line_lap, 3) + " s" + delta(*line_lap);
+    text += "\n";
+  }
+  std::cout << text;
+  return 0;
+}
+}  // namespace
+
+int track_line(const TrackLineOptions& o) {
+  return located(&track_line, o);
 }
 
 }  // namespace lapwing::cli

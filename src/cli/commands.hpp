@@ -63,7 +63,7 @@ struct TradeOptions {
 struct FromLogOptions {
   std::string log, speed, lat_accel, yaw_rate, distance, time, out, name;
   std::string speed_unit = "km/h", accel_unit = "g", yaw_unit = "deg/s";
-  std::string smoothing = "20 m";
+  std::string smoothing = "auto";
   bool closed = false;
   AirOptions air;  // written into the track file
 };
@@ -91,6 +91,13 @@ struct SweepExportOptions {
   std::string file, csv;
 };
 
+struct TrackLineOptions {
+  std::string track, out, car, config;
+  std::string method = "min-curvature";  // or min-time (needs --car)
+  std::string vehicle_width, margin;     // with units; default the track's line: or 2 m, 0.5 m
+  AirOptions air;
+};
+
 /// A usage error found after parsing (a bad option value): exit 2.
 struct UsageError {
   std::string message;
@@ -104,5 +111,6 @@ int track_from_log(const FromLogOptions& o);
 int sweep(const SweepOptions& o);
 int sweep_merge(const SweepMergeOptions& o);
 int sweep_export(const SweepExportOptions& o);
+int track_line(const TrackLineOptions& o);
 
 }  // namespace lapwing::cli

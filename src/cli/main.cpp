@@ -176,7 +176,8 @@ int main(int argc, char** argv) {
   from_log->add_option("--accel-unit", log_o.accel_unit, "g (default) or m/s2");
   from_log->add_option("--yaw-unit", log_o.yaw_unit, "deg/s (default) or rad/s");
   from_log->add_option("--smoothing", log_o.smoothing,
-                       "Filter length on the curvature (default 20 m)");
+                       "Filter length on the curvature, or auto (default: chosen by "
+                       "generalised cross-validation)");
   from_log->add_option("--name", log_o.name, "Track name (default: the log's file name)");
   add_air(from_log, log_o.air);
   from_log
@@ -186,6 +187,26 @@ int main(int argc, char** argv) {
       "Example:\n  lapwing track from-log --log lap.csv --speed speed_kph --lat-accel lat_g "
       "--distance distance_m --closed --out tracks/logged.yaml");
 
+  cli::TrackLineOptions line_o;
+  auto* line = track->add_subcommand(
+      "line", "A racing line over a track with widths: minimum curvature, or minimum time");
+  line->add_option("--track", line_o.track, "Track file (YAML) with widths")->required();
+  line->add_option("--out", line_o.out,
+                   "Track file to write (OUT.yaml, and OUT.csv beside it: the line)")
+      ->required();
+  line->add_option("--car", line_o.car,
+                   "Car file: laps on the path and the line (min-time: the "
+                   "car the line is for)");
+  line->add_option("--config", line_o.config, "Config of --car (default: the car file's first)");
+  line->add_option("--method", line_o.method, "min-curvature (default) or min-time (needs --car)");
+  line->add_option("--vehicle-width", line_o.vehicle_width,
+                   "Vehicle width (default: the track's line:, else 2.0 m)");
+  line->add_option("--margin", line_o.margin,
+                   "Room kept from each edge beyond half the width (default: 0.5 m)");
+  add_air(line, line_o.air);
+  line->footer(
+      "Example:\n  lapwing track line --track tracks/brannock-park.yaml --out "
+      "out/brannock-line.yaml --car cars/pellion-fr2.yaml");
   cli::SweepOptions sweep_o;
   for (int i = 0; i < argc; ++i) sweep_o.command += (i ? " " : "") + std::string(argv[i]);
   auto* sweep = app.add_subcommand(
@@ -240,6 +261,7 @@ int main(int argc, char** argv) {
     if (*compare) return cli::compare(compare_o);
     if (*trade) return cli::trade(trade_o);
     if (*from_log) return cli::track_from_log(log_o);
+    if (*line) return cli::track_line(line_o);
     if (*merge) return cli::sweep_merge(merge_o);
     if (*exp) return cli::sweep_export(export_o);
     if (*sweep) return cli::sweep(sweep_o);

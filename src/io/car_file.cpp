@@ -299,6 +299,22 @@ void read_families(Reader families, Car& car, const Checker& check) {
   families.finish();
 }
 
+// balance_window: {front_share: [min, max], above: speed}. The form (two shares) is the
+// reader's; the values' rules are BalanceWindow::validate's.
+BalanceWindow read_balance_window(Reader w) {
+  w.keys({"front_share", "above"});
+  BalanceWindow b;
+  const std::vector<double> share = w.quantities("front_share", Quantity::fraction);
+  if (share.size() != 2)
+    w.fail(*w.node().find("front_share"),
+           "expected 2 values [min, max], got " + std::to_string(share.size()), "front_share");
+  b.front_share_min = share[0];
+  b.front_share_max = share[1];
+  b.above_mps = w.quantity("above", Quantity::speed);
+  w.finish();
+  return b;
+}
+
 }  // namespace
 
 CarFile read_car_file(const std::string& file) {
@@ -312,7 +328,7 @@ CarFile read_car_document(const Document& doc) {
   const Checker check{out.sources};
   Reader r(doc, doc.root, "");
   r.keys({"format", "name", "model", "mass", "inertia_factor", "cg_height", "wheelbase",
-          "front_weight", "tyres", "powertrain", "brakes", "aero"});
+          "front_weight", "tyres", "powertrain", "brakes", "aero", "balance_window"});
   check_format(r);
   car.file = file;
   car.name = r.string("name");
@@ -331,6 +347,7 @@ CarFile read_car_document(const Document& doc) {
     car.brake_front_bias = b.quantity("front_bias", Quantity::fraction);
     b.finish();
   }
+  if (r.has("balance_window")) car.balance_window = read_balance_window(r.map("balance_window"));
   Reader aero = r.map("aero");
   aero.keys({"drag_height", "configs", "families"});
   car.drag_height_m = aero.quantity_or("drag_height", Quantity::length, 0.0);

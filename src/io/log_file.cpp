@@ -10,6 +10,7 @@
 #include "lapwing/io/csv.hpp"
 #include "lapwing/io/csv_writer.hpp"
 #include "lapwing/io/json.hpp"
+#include "lapwing/io/line_track.hpp"
 #include "lapwing/path/log_curvature.hpp"
 
 namespace lapwing {
@@ -63,7 +64,11 @@ std::optional<Violation> LogOptions::validate() const {
             [&] { return unit("accel", accel_unit); })
       .rule(!by_yaw || yaw_scale(yaw_unit).has_value(), "yaw_unit",
             [&] { return unit("yaw", yaw_unit); })
-      .range("smoothing", smoothing_m, smoothing_range, Quantity::length)
+      .rule(!smoothing_m || smoothing_range.contains(*smoothing_m), "smoothing",
+            [&] {
+              return out_of_range("smoothing", *smoothing_m, smoothing_range, Quantity::length)
+                  .message();
+            })
       .range("min_speed", min_speed_mps, positive(), Quantity::speed)
       .part("air", [&] { return air.validate(); })
       .result();
@@ -148,7 +153,7 @@ LogTrack track_from_log(const LogOptions& o, const std::string& csv_name) {
     std::ostringstream os;
     os.precision(3);
     os << "the log implies a lateral acceleration of " << lc.peak_lateral_g
-       << " g here (curvature x speed^2, filtered over " << o.smoothing_m << " m), more than the "
+       << " g here (curvature x speed^2, filtered over " << lc.smoothing_m << " m), more than the "
        << log_max_lateral_g << " g no car exceeds: " << unit_hint(true);
     throw InputError(o.log, Mark{t.lines[lc.peak_row], 1}, os.str());
   }
@@ -171,6 +176,8 @@ LogTrack track_from_log(const LogOptions& o, const std::string& csv_name) {
   out.peak_lateral_g = lc.peak_lateral_g;
   out.closure_heading_deg = lc.closure_heading_deg;
   out.closure_gap_m = lc.closure_gap_m;
+  out.smoothing_m = lc.smoothing_m;
+  out.smoothing = lc.smoothing;
   CsvWriter<ProfileRow> csv(profile_columns, lc.s_m.size());
   for (std::size_t j = 0; j < lc.s_m.size(); ++j) csv.add({lc.s_m[j], lc.curvature_1pm[j]});
   std::ostringstream y_out;
@@ -178,19 +185,12 @@ LogTrack track_from_log(const LogOptions& o, const std::string& csv_name) {
   y_out << "# Made by 'lapwing track from-log' from "
         << std::filesystem::path(o.log).filename().string() << ": curvature from "
         << (by_yaw ? "yaw rate / speed" : "lateral acceleration / speed^2") << ", filtered over "
-        << o.smoothing_m << " m.\n";
+        << fixed(lc.smoothing_m, 1) << " m"
+        << (lc.smoothing.automatic ? " (auto: generalised cross-validation)" : "") << ".\n";
   y_out << "format: 1\nname: " << json_quote(name) << "\nclosed: " << (o.closed ? "true" : "false")
         << "\n";
   if (!o.closed) y_out << "start_speed: " << format_number(v0) << " m/s  # the log's first\n";
-  y_out << "altitude: " << format_number(o.air.altitude_m) << " m\n";
-  if (o.air.temperature_k || o.air.pressure_pa || o.air.relative_humidity > 0.0) {
-    std::string ambient;
-    auto add = [&](const std::string& item) { ambient += (ambient.empty() ? "" : ", ") + item; };
-    if (o.air.temperature_k) add("temperature: " + format_number(*o.air.temperature_k) + " K");
-    if (o.air.pressure_pa) add("pressure: " + format_number(*o.air.pressure_pa) + " Pa");
-    if (o.air.relative_humidity > 0.0) add("humidity: " + format_number(o.air.relative_humidity));
-    y_out << "ambient: {" << ambient << "}\n";
-  }
+  y_out << air_yaml(o.air);
   y_out << "mesh: 0.5 m\ncurvature: {file: " << json_quote(csv_name) << "}\n";
   out.yaml = y_out.str();
   out.csv = csv.take();

@@ -49,12 +49,29 @@ ProfileFile read_centerline_file(const std::string& file, bool closed, const Cen
       throw InputError(file, Mark{1, 1},
                        "a centerline needs columns x_m,y_m[,z_m] or lat_deg,lon_deg[,alt_m]");
     }
+    // Widths: both columns or neither (each > 0: fit_centerline's rule).
+    {
+      const int left = t.find("width_left_m"), right = t.find("width_right_m");
+      if ((left >= 0) != (right >= 0))
+        throw InputError(file, Mark{1, 1},
+                         std::string("a centerline with widths needs both width_left_m and "
+                                     "width_right_m (only ") +
+                             (left >= 0 ? "width_left_m" : "width_right_m") + " is given)");
+      if (left >= 0) {
+        points.width_left_m = t.column("width_left_m");
+        points.width_right_m = t.column("width_right_m");
+      }
+    }
     ProfileFile out{fit_centerline(points, closed, o), t.lines};
     out.profile.geodetic = geodetic;
-    note_unused_columns(t,
-                        geodetic ? std::vector<std::string>{"lat_deg", "lon_deg", "alt_m"}
-                                 : std::vector<std::string>{"x_m", "y_m", "z_m"},
-                        "a centerline reads x_m, y_m, z_m or lat_deg, lon_deg, alt_m", out.profile);
+    note_unused_columns(
+        t,
+        geodetic ? std::vector<std::string>{"lat_deg", "lon_deg", "alt_m", "width_left_m",
+                                            "width_right_m"}
+                 : std::vector<std::string>{"x_m", "y_m", "z_m", "width_left_m", "width_right_m"},
+        "a centerline reads x_m, y_m, z_m or lat_deg, lon_deg, alt_m, and width_left_m, "
+        "width_right_m",
+        out.profile);
     return out;
   } catch (const InvalidInput& e) {
     if (e.subject() != file) throw;  // not the data's (bad options)

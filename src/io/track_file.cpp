@@ -5,6 +5,7 @@
 #include "lapwing/base/units.hpp"
 #include "lapwing/io/document.hpp"
 #include "lapwing/io/track_data.hpp"
+#include "lapwing/path/racing_line.hpp"
 
 namespace lapwing {
 
@@ -40,6 +41,7 @@ Segment read_segment(const Document& doc, const Node& item, const std::string& p
     Reader r(doc, body, p);
     s.length_m = r.quantity("length", Quantity::length);
     s.grade = r.quantity_or("grade", Quantity::fraction, 0.0);
+    s.width_m = r.optional_quantity("width", Quantity::length);
     r.finish();
     return s;
   }
@@ -52,6 +54,7 @@ Segment read_segment(const Document& doc, const Node& item, const std::string& p
     s.length_m = radius * angle;
     s.curvature_start_1pm = s.curvature_end_1pm = sign / radius;
     s.grade = r.quantity_or("grade", Quantity::fraction, 0.0);
+    s.width_m = r.optional_quantity("width", Quantity::length);
     r.finish();
     return s;
   }
@@ -66,6 +69,7 @@ Segment read_segment(const Document& doc, const Node& item, const std::string& p
     s.curvature_start_1pm = from ? sign / *from : 0.0;
     s.curvature_end_1pm = to ? sign / *to : 0.0;
     s.grade = r.quantity_or("grade", Quantity::fraction, 0.0);
+    s.width_m = r.optional_quantity("width", Quantity::length);
     r.finish();
     return s;
   }
@@ -87,7 +91,7 @@ TrackFile read_track_file(const std::string& file) {
   };
   Reader r(doc, doc.root, "");
   r.keys({"format", "name", "closed", "start_speed", "altitude", "ambient", "mesh", "segments",
-          "sectors", "centerline", "curvature"});
+          "sectors", "centerline", "curvature", "width", "line"});
   {
     const Node& n = r.require("format");
     if (r.node_quantity(n, Quantity::number, "format") != 1.0)
@@ -128,10 +132,12 @@ TrackFile read_track_file(const std::string& file) {
     c.keys({"file", "smoothing", "elevation_smoothing"});
     CenterlineOptions o;
     const std::string f = data_file(c);
-    // The file's ranges (the fit takes any positive length).
-    if (c.has("smoothing"))
-      o.smoothing_m =
-          c.quantity("smoothing", Quantity::length, CenterlineOptions::file_smoothing_range);
+    // `smoothing: auto` (the default) lets generalised cross-validation choose; a length
+    // overrides, in the file's range (the fit takes any positive length).
+    if (const Node* sm = c.get("smoothing");
+        sm && !(sm->kind == Node::Kind::scalar && sm->scalar == "auto"))
+      o.smoothing_m = c.node_quantity(*sm, Quantity::length, c.child_path("smoothing"),
+                                      CenterlineOptions::file_smoothing_range);
     if (c.has("elevation_smoothing"))
       o.elevation_smoothing_m = c.quantity("elevation_smoothing", Quantity::length,
                                            CenterlineOptions::file_elevation_smoothing_range);
@@ -155,11 +161,35 @@ TrackFile read_track_file(const std::string& file) {
       t.segments.push_back(
           read_segment(doc, segs.items[i], "segments[" + std::to_string(i) + "]", out.sources));
   }
+  t.width_m = r.optional_quantity("width", Quantity::length);
+  if (r.has("line")) {
+    // The racing line to lap (path/racing_line.hpp); its rules are LineSpec::validate's.
+    Reader l = r.map("line");
+    l.keys({"method", "vehicle_width", "margin"});
+    LineSpec spec;
+    const std::string method = l.choice("method", {"min-curvature", "min-time"}, "min-curvature");
+    spec.method =
+        method == "min-time" ? LineSpec::Method::min_time : LineSpec::Method::min_curvature;
+    spec.vehicle_width_m = l.quantity_or("vehicle_width", Quantity::length, spec.vehicle_width_m);
+    spec.margin_m = l.quantity_or("margin", Quantity::length, spec.margin_m);
+    l.finish();
+    t.line = spec;
+  }
   if (r.has("sectors")) {
     t.sectors_m = r.quantities("sectors", Quantity::length);
   }
   check(t.validate());
   r.finish();
+  if (t.line) {
+    // The line over the path just read: what every command laps. Its errors (no widths, a
+    // track narrower than the vehicle and its margins) are the `line` key's.
+    try {
+      lay_racing_line(t);
+    } catch (const InvalidInput& e) {
+      if (e.subject() != t.subject()) throw;
+      throw out.sources.error(e.violation());
+    }
+  }
   return out;
 }
 

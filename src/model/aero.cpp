@@ -7,37 +7,26 @@
 #include <stdexcept>
 #include <string>
 
+#include "lapwing/base/interpolate.hpp"
+#include "lapwing/model/loads.hpp"
+
 namespace lapwing {
 
 namespace {
 
-// Cell and weight of x on a strictly increasing axis, clamped to the ends.
-struct Cell {
-  std::size_t i;
-  double w;
-  bool off;
-};
-Cell locate(const std::vector<double>& axis, double x) {
-  if (x <= axis.front()) return {0, 0.0, x < axis.front()};
-  if (x >= axis.back()) return {axis.size() - 2, 1.0, x > axis.back()};
-  const auto it = std::upper_bound(axis.begin(), axis.end(), x);
-  const std::size_t i = static_cast<std::size_t>(it - axis.begin()) - 1;
-  return {i, (x - axis[i]) / (axis[i + 1] - axis[i]), false};
-}
-
-double bilinear(const Eigen::MatrixXd& m, const Cell& f, const Cell& r) {
+// Bilinear: linear along the rear axis on the two front nodes, then along the front axis.
+double bilinear(const Eigen::MatrixXd& m, const Bracket& f, const Bracket& r) {
   const auto i = static_cast<Eigen::Index>(f.i), j = static_cast<Eigen::Index>(r.i);
-  const double a = m(i, j) + r.w * (m(i, j + 1) - m(i, j));
-  const double b = m(i + 1, j) + r.w * (m(i + 1, j + 1) - m(i + 1, j));
-  return a + f.w * (b - a);
+  return lerp(lerp(m(i, j), m(i, j + 1), r.w), lerp(m(i + 1, j), m(i + 1, j + 1), r.w), f.w);
 }
 
 }  // namespace
 
 MapCoefficients map_coefficients(const RideHeightMap& map, double front_m, double rear_m) {
-  const Cell f = locate(map.front_m, front_m), r = locate(map.rear_m, rear_m);
+  bool f_off = false, r_off = false;
+  const Bracket f = bracket(map.front_m, front_m, &f_off), r = bracket(map.rear_m, rear_m, &r_off);
   return {bilinear(map.cda_m2, f, r), bilinear(map.cla_m2, f, r), bilinear(map.balance, f, r),
-          f.off || r.off};
+          f_off || r_off};
 }
 
 AeroPoint solve_ride_heights(const RideHeightMap& map, double v, double rho, double z_drag,
@@ -46,11 +35,9 @@ AeroPoint solve_ride_heights(const RideHeightMap& map, double v, double rho, dou
   // Residual G(h) = h - (h0 - F(h) / k), zero at the operating point.
   auto residual = [&](const Eigen::Vector2d& h) {
     const MapCoefficients c = map_coefficients(map, h[0], h[1]);
-    const double moment = q * c.cda_m2 * z_drag / wheelbase;
-    const double f_front = q * c.cla_m2 * c.balance - moment;
-    const double f_rear = q * c.cla_m2 * (1.0 - c.balance) + moment;
-    return Eigen::Vector2d(h[0] - (map.static_front_m - f_front / map.stiffness_front_npm),
-                           h[1] - (map.static_rear_m - f_rear / map.stiffness_rear_npm));
+    const AxleLoads f = aero_axle_loads(q * c.cla_m2, c.balance, q * c.cda_m2, z_drag, wheelbase);
+    return Eigen::Vector2d(h[0] - (map.static_front_m - f.front_n / map.stiffness_front_npm),
+                           h[1] - (map.static_rear_m - f.rear_n / map.stiffness_rear_npm));
   };
   constexpr double tolerance_m = 1e-10;  // far below any map's resolution
   constexpr int max_iterations = 60;
@@ -296,32 +283,31 @@ std::optional<std::string> blend_mismatch(const AeroConfig& a, const AeroConfig&
 }
 
 namespace {
-// x = (1 - t) a + t b
-double lerp(double a, double b, double t) {
-  return (1.0 - t) * a + t * b;
-}
-std::vector<double> lerp(const std::vector<double>& a, const std::vector<double>& b, double t) {
+// base's lerp (a + t (b - a), the one home of linear interpolation) over each element, and
+// over a value two configs override alike (blend_mismatch checked that both have it or not).
+std::vector<double> lerp_each(const std::vector<double>& a, const std::vector<double>& b,
+                              double t) {
   std::vector<double> out(a.size());
   for (std::size_t i = 0; i < a.size(); ++i) out[i] = lerp(a[i], b[i], t);
   return out;
 }
-std::optional<double> lerp(const std::optional<double>& a, const std::optional<double>& b,
-                           double t) {
+std::optional<double> lerp_if(const std::optional<double>& a, const std::optional<double>& b,
+                              double t) {
   return a ? std::optional<double>(lerp(*a, *b, t)) : std::nullopt;
 }
 }  // namespace
 
 AeroConfig blend(const AeroConfig& a, const AeroConfig& b, double t, double wheelbase_m) {
   AeroConfig c = a;
-  c.cda_m2 = lerp(a.cda_m2, b.cda_m2, t);
-  c.cla_m2 = lerp(a.cla_m2, b.cla_m2, t);
-  c.balance = lerp(a.balance, b.balance, t);
+  c.cda_m2 = lerp_each(a.cda_m2, b.cda_m2, t);
+  c.cla_m2 = lerp_each(a.cla_m2, b.cla_m2, t);
+  c.balance = lerp_each(a.balance, b.balance, t);
   if (a.map) {
     RideHeightMap& m = *c.map;
     const RideHeightMap &ma = *a.map, &mb = *b.map;
-    m.cda_m2 = (1.0 - t) * ma.cda_m2 + t * mb.cda_m2;
-    m.cla_m2 = (1.0 - t) * ma.cla_m2 + t * mb.cla_m2;
-    m.balance = (1.0 - t) * ma.balance + t * mb.balance;
+    m.cda_m2 = ma.cda_m2 + t * (mb.cda_m2 - ma.cda_m2);      // lerp cell by cell
+    m.cla_m2 = ma.cla_m2 + t * (mb.cla_m2 - ma.cla_m2);      // lerp cell by cell
+    m.balance = ma.balance + t * (mb.balance - ma.balance);  // lerp cell by cell
     m.static_front_m = lerp(ma.static_front_m, mb.static_front_m, t);
     m.static_rear_m = lerp(ma.static_rear_m, mb.static_rear_m, t);
     m.stiffness_front_npm = lerp(ma.stiffness_front_npm, mb.stiffness_front_npm, t);
@@ -350,7 +336,7 @@ AeroConfig blend(const AeroConfig& a, const AeroConfig& b, double t, double whee
     c.balance = {red.balance};
     c.drag_height_m = red.drag_height_m;
   } else {
-    c.drag_height_m = lerp(a.drag_height_m, b.drag_height_m, t);
+    c.drag_height_m = lerp_if(a.drag_height_m, b.drag_height_m, t);
   }
   if (a.trim) {
     c.trim->dcda_m2 = lerp(a.trim->dcda_m2, b.trim->dcda_m2, t);
@@ -358,10 +344,10 @@ AeroConfig blend(const AeroConfig& a, const AeroConfig& b, double t, double whee
     c.trim->dbalance = lerp(a.trim->dbalance, b.trim->dbalance, t);
     c.trim->below_curvature_1pm = lerp(a.trim->below_curvature_1pm, b.trim->below_curvature_1pm, t);
   }
-  c.mass_kg = lerp(a.mass_kg, b.mass_kg, t);
-  c.inertia_factor = lerp(a.inertia_factor, b.inertia_factor, t);
-  c.cg_height_m = lerp(a.cg_height_m, b.cg_height_m, t);
-  c.front_weight = lerp(a.front_weight, b.front_weight, t);
+  c.mass_kg = lerp_if(a.mass_kg, b.mass_kg, t);
+  c.inertia_factor = lerp_if(a.inertia_factor, b.inertia_factor, t);
+  c.cg_height_m = lerp_if(a.cg_height_m, b.cg_height_m, t);
+  c.front_weight = lerp_if(a.front_weight, b.front_weight, t);
   return c;
 }
 
@@ -381,11 +367,14 @@ std::optional<Violation> AeroFamily::validate() const {
 AeroConfig family_config(const AeroFamily& fam, const std::vector<AeroConfig>& configs,
                          double wheelbase_m) {
   // The measured setting pair around `at`: s_i <= at <= s_i+1, t = (at - s_i) / (s_i+1 - s_i).
+  // A measured setting starts its pair (t = 0), so that lerp's a + t (b - a) gives its config
+  // exactly; the last setting is the top pair's b, blended from that end (t = 0 again).
   std::size_t i = 0;
-  while (i + 2 < fam.setting_rad.size() && fam.at_rad > fam.setting_rad[i + 1]) ++i;
+  while (i + 2 < fam.setting_rad.size() && fam.at_rad >= fam.setting_rad[i + 1]) ++i;
   const double t =
       (fam.at_rad - fam.setting_rad[i]) / (fam.setting_rad[i + 1] - fam.setting_rad[i]);
-  AeroConfig c = blend(configs[fam.configs[i]], configs[fam.configs[i + 1]], t, wheelbase_m);
+  const AeroConfig &a = configs[fam.configs[i]], &b = configs[fam.configs[i + 1]];
+  AeroConfig c = t >= 1.0 ? blend(b, a, 0.0, wheelbase_m) : blend(a, b, t, wheelbase_m);
   c.name = fam.name;
   return c;
 }

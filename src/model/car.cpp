@@ -3,6 +3,8 @@
 #include <algorithm>
 #include <cctype>
 
+#include "lapwing/base/format.hpp"
+
 namespace lapwing {
 
 namespace {
@@ -12,6 +14,21 @@ constexpr Range mass_range{0.0, 1e5, true, false};
 constexpr Range inertia_range{0.0, 1.0, false, true};
 
 }  // namespace
+
+std::optional<Violation> BalanceWindow::validate() const {
+  auto percent = [](double v) { return fixed(100 * v, 1) + " %"; };
+  return FirstViolation()
+      .each("front_share", {front_share_min, front_share_max}, Range{0.0, 1.0}, Quantity::fraction)
+      .rule(
+          front_share_min < front_share_max, "front_share",
+          [&] {
+            return "the window's max (" + percent(front_share_max) + ") must lie above its min (" +
+                   percent(front_share_min) + ")";
+          },
+          "front_share[1]")
+      .range("above", above_mps, Range{0.0, 200.0}, Quantity::speed)
+      .result();
+}
 
 bool is_config_name(std::string_view name) {
   return !name.empty() && std::all_of(name.begin(), name.end(), [](unsigned char c) {
@@ -34,6 +51,8 @@ std::optional<Violation> Car::validate_without_configs() const {
       .part("tyres", [&] { return tyres.validate(); })
       .part("powertrain", [&] { return powertrain.validate(); })
       .range("brakes.front_bias", brake_front_bias, open_unit(), Quantity::fraction)
+      .part("balance_window",
+            [&] { return balance_window ? balance_window->validate() : std::nullopt; })
       .range("aero.drag_height", drag_height_m, non_negative(), Quantity::length)
       .result();
 }
@@ -83,16 +102,18 @@ std::vector<std::string> Car::config_names() const {
   return v;
 }
 
-Car Car::configured(std::size_t index) const {
-  Car c = *this;
-  const AeroConfig& a = configs.at(index);
-  c.mass_kg = a.mass_kg.value_or(mass_kg);
-  c.inertia_factor = a.inertia_factor.value_or(inertia_factor);
-  c.cg_height_m = a.cg_height_m.value_or(cg_height_m);
-  c.front_weight = a.front_weight.value_or(front_weight);
-  c.drag_height_m = a.drag_height_m.value_or(drag_height_m);
-  c.configs = {a};
-  return c;
+ConfiguredCar Car::configured(std::size_t index) const {
+  return ConfiguredCar(*this, index);
+}
+
+ConfiguredCar::ConfiguredCar(const Car& car, std::size_t index) : car_(car) {
+  const AeroConfig& a = car.configs.at(index);
+  car_.mass_kg = a.mass_kg.value_or(car.mass_kg);
+  car_.inertia_factor = a.inertia_factor.value_or(car.inertia_factor);
+  car_.cg_height_m = a.cg_height_m.value_or(car.cg_height_m);
+  car_.front_weight = a.front_weight.value_or(car.front_weight);
+  car_.drag_height_m = a.drag_height_m.value_or(car.drag_height_m);
+  car_.configs = {a};
 }
 
 }  // namespace lapwing

@@ -4,6 +4,8 @@
 #include <cassert>
 #include <string>
 
+#include "lapwing/base/interpolate.hpp"
+
 namespace lapwing {
 
 std::optional<Violation> Powertrain::validate() const {
@@ -42,12 +44,8 @@ double engine_torque_nm(const Powertrain& p, double w) {
   const auto& x = p.engine_radps;
   const auto& y = p.torque_nm;
   if (w > p.rev_limit_radps) return 0.0;
-  if (w <= x.front()) return y.front();  // clutch slip: engine held at its lowest speed
-  auto it = std::upper_bound(x.begin(), x.end(), w);
-  if (it == x.end()) return y.back();
-  const std::size_t i = static_cast<std::size_t>(it - x.begin());
-  const double f = (w - x[i - 1]) / (x[i] - x[i - 1]);
-  return y[i - 1] + f * (y[i] - y[i - 1]);
+  // Below the curve's first speed the engine is held there (clutch slip): its first torque.
+  return interpolate(x, y, w);
 }
 
 Drive best_drive(const Powertrain& p, double r, double v) {

@@ -6,6 +6,7 @@
 namespace lapwing {
 
 double Track::length_m() const {
+  if (line_path) return line_path->s_m.back();
   if (profile) return profile->s_m.back();
   double l = 0.0;
   for (const auto& s : segments) l += s.length_m;
@@ -14,6 +15,14 @@ double Track::length_m() const {
 
 std::string Track::subject() const {
   return file.empty() ? "track '" + name + "'" : file;
+}
+
+bool Track::has_widths() const {
+  if (profile) return !profile->width_left_m.empty();
+  if (segments.empty()) return false;
+  for (const auto& s : segments)
+    if (!s.width_m && !width_m) return false;
+  return true;
 }
 
 const char* Track::path_key() const {
@@ -36,6 +45,7 @@ std::optional<Violation> Segment::validate() const {
       f.rule(k0 == 0.0 && k1 == 0.0, "straight", "a straight has no curvature")
           .range("straight.length", length_m, length_range, Quantity::length)
           .range("straight.grade", grade, grade_range, Quantity::fraction);
+      if (width_m) f.range("straight.width", *width_m, width_range, Quantity::length);
       break;
     case Kind::arc:
       f.rule(k0 == k1 && k0 != 0.0, "arc", "an arc has one curvature, and not zero");
@@ -43,6 +53,7 @@ std::optional<Violation> Segment::validate() const {
         f.range("arc.radius", 1.0 / std::abs(k0), derived(radius_range), Quantity::length)
             .range("arc.angle", length_m * std::abs(k0), derived(angle_range), Quantity::angle);
       f.range("arc.grade", grade, grade_range, Quantity::fraction);
+      if (width_m) f.range("arc.width", *width_m, width_range, Quantity::length);
       break;
     case Kind::clothoid:
       f.range("clothoid.length", length_m, length_range, Quantity::length)
@@ -55,6 +66,7 @@ std::optional<Violation> Segment::validate() const {
         f.range("clothoid.to_radius", 1.0 / std::abs(k1), derived(radius_range), Quantity::length);
       f.rule(!(k0 * k1 < 0.0), "clothoid", "a clothoid turns one way: its curvatures have one sign")
           .range("clothoid.grade", grade, grade_range, Quantity::fraction);
+      if (width_m) f.range("clothoid.width", *width_m, width_range, Quantity::length);
       break;
   }
   return f.result();
@@ -74,8 +86,29 @@ std::optional<Violation> PathProfile::validate() const {
       return "size differs from s_m: expected " + std::to_string(n) + ", got " +
              std::to_string(column->size());
     });
-  return f.rule(n == 0 || s_m.front() == 0.0, "s_m", "a path profile starts at distance 0")
-      .order("s_m", s_m, true)
+  f.rule(n == 0 || s_m.front() == 0.0, "s_m", "a path profile starts at distance 0")
+      .order("s_m", s_m, true);
+  // Widths: both or neither, one per sample, every one > 0 (the distance to an edge).
+  f.rule(width_left_m.size() == width_right_m.size(), "width_right_m",
+         "give both widths (width_left_m and width_right_m) or neither");
+  if (!width_left_m.empty())
+    f.rule(width_left_m.size() == n, "width_left_m",
+           [&] {
+             return "size differs from s_m: expected " + std::to_string(n) + ", got " +
+                    std::to_string(width_left_m.size());
+           })
+        .each("width_left_m", width_left_m, positive(), Quantity::length)
+        .each("width_right_m", width_right_m, positive(), Quantity::length);
+  return f.result();
+}
+
+std::optional<Violation> LineSpec::validate() const {
+  return FirstViolation()
+      .rule(method == Method::min_curvature, "method",
+            "the min-time line depends on the car: make it with 'lapwing track line --method "
+            "min-time --car CAR' and lap the track that writes")
+      .range("vehicle_width", vehicle_width_m, vehicle_width_range, Quantity::length)
+      .range("margin", margin_m, margin_range, Quantity::length)
       .result();
 }
 
@@ -94,8 +127,19 @@ std::optional<Violation> Track::validate() const {
     for (std::size_t i = 0; i < segments.size() && !f.found(); ++i)
       f.part("segments[" + std::to_string(i) + "]", [&] { return segments[i].validate(); });
   }
+  if (width_m)
+    f.rule(!segments.empty(), "width",
+           "width applies to segment tracks; a centerline gives its widths as the columns "
+           "width_left_m,width_right_m of its CSV")
+        .range("width", *width_m, Segment::width_range, Quantity::length);
+  if (line) f.part("line", [&] { return line->validate(); });
   if (f.found()) return f.result();
-  const double length = length_m();
+  // Sector starts are along the described path (a line moves them where it passes them).
+  double length = 0.0;
+  if (profile)
+    length = profile->s_m.back();
+  else
+    for (const auto& s : segments) length += s.length_m;
   f.rule(length / mesh_m <= max_mesh_points, "",
          [&] {
            return "the track is " + std::to_string(length) + " m long: at a mesh of " +

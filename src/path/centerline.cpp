@@ -1,10 +1,13 @@
 #include "lapwing/path/centerline.hpp"
 
 #include <algorithm>
+#include <cassert>
 #include <cmath>
 #include <string>
 
 #include "lapwing/base/error.hpp"
+#include "lapwing/base/format.hpp"
+#include "lapwing/base/interpolate.hpp"
 #include "lapwing/path/geodesy.hpp"
 #include "lapwing/path/smoothing.hpp"
 
@@ -47,12 +50,87 @@ double rms(const std::vector<double>& a, const std::vector<double>& b) {
   return std::sqrt(s / static_cast<double>(a.size()));
 }
 
+// The points' polyline (closed: with the chord from the last point back to the first):
+// cumulative chord length at each point.
+std::vector<double> chord_lengths(const CenterlinePoints& p, bool closed) {
+  const std::size_t m = p.x_m.size();
+  std::vector<double> c(m + (closed ? 1 : 0), 0.0);
+  for (std::size_t i = 1; i < c.size(); ++i) {
+    const std::size_t a = i - 1, b = i % m;
+    c[i] = c[i - 1] + std::hypot(p.x_m[b] - p.x_m[a], p.y_m[b] - p.y_m[a]);
+  }
+  return c;
+}
+
+// Samples every total / n of chord length along the points (n of them closed, n + 1 open). x and
+// y follow a cubic Hermite curve through the points, parametrised by chord length, with the
+// tangents of central differences, (p_{i+1} - p_{i-1}) / (c_{i+1} - c_{i-1}) (Catmull-Rom in
+// chord length; one-sided at an open path's ends): samples on straight chords would cut every
+// bend by the chord's sagitta, c^2 / (8 R), which a light fit reads as curvature noise (points
+// 1 m apart round an 18 m hairpin: 7 mm, a tenth of the hairpin's curvature). Elevation and
+// widths are linear along the chords.
+struct Samples {
+  double h = 0.0;
+  std::vector<double> x, y, z, wl, wr;
+  std::size_t size() const { return x.size(); }
+};
+Samples resample(const CenterlinePoints& p, bool closed, const std::vector<double>& c,
+                 std::size_t n) {
+  const std::size_t m = p.x_m.size();
+  const double total = c.back();
+  // Tangents (dx/dc, dy/dc) at each point.
+  std::vector<double> tx(m), ty(m);
+  for (std::size_t i = 0; i < m; ++i) {
+    std::size_t a = i == 0 ? (closed ? m - 1 : 0) : i - 1;
+    std::size_t b = i + 1 == m ? (closed ? 0 : m - 1) : i + 1;
+    // Chord distance from a to b through i (c holds the closing chord at index m).
+    double ca = i == 0 ? (closed ? c[m - 1] - c[m] : c[0]) : c[i - 1];
+    double cb = i + 1 == m ? (closed ? c[m] : c[m - 1]) : c[i + 1];
+    const double dc = cb - ca;
+    tx[i] = dc > 0.0 ? (p.x_m[b] - p.x_m[a]) / dc : 0.0;
+    ty[i] = dc > 0.0 ? (p.y_m[b] - p.y_m[a]) / dc : 0.0;
+  }
+  Samples r;
+  r.h = total / static_cast<double>(n);
+  const std::size_t samples = closed ? n : n + 1;
+  const bool has_z = !p.z_m.empty(), has_w = !p.width_left_m.empty();
+  std::size_t seg = 0;
+  for (std::size_t j = 0; j < samples; ++j) {
+    const double s = std::min(total, static_cast<double>(j) * r.h);
+    while (seg + 2 < c.size() && c[seg + 1] < s) ++seg;
+    const std::size_t a = seg, b = (seg + 1) % m;
+    const double d = c[seg + 1] - c[seg];
+    const double w = d > 0.0 ? (s - c[seg]) / d : 0.0;
+    auto at = [&](const std::vector<double>& v) { return lerp(v[a], v[b], w); };
+    // Hermite basis: h00 = 2t^3 - 3t^2 + 1, h10 = t^3 - 2t^2 + t, h01 = -2t^3 + 3t^2,
+    // h11 = t^3 - t^2.
+    const double w2 = w * w, w3 = w2 * w;
+    const double h00 = 2 * w3 - 3 * w2 + 1, h10 = w3 - 2 * w2 + w, h01 = -2 * w3 + 3 * w2,
+                 h11 = w3 - w2;
+    r.x.push_back(h00 * p.x_m[a] + h10 * d * tx[a] + h01 * p.x_m[b] + h11 * d * tx[b]);
+    r.y.push_back(h00 * p.y_m[a] + h10 * d * ty[a] + h01 * p.y_m[b] + h11 * d * ty[b]);
+    if (has_z) r.z.push_back(at(p.z_m));
+    if (has_w) {
+      r.wl.push_back(at(p.width_left_m));
+      r.wr.push_back(at(p.width_right_m));
+    }
+  }
+  return r;
+}
+
+constexpr int xy_order = 3;  // third differences: curvature (a second derivative) stays smooth
+
 }  // namespace
 
+double centerline_fit_spacing(double smoothing_m, double finest_m) {
+  // lambda = (L / (pi h))^6 roughly: at L / h = 40 that is 4.3e6.
+  return std::max(finest_m, smoothing_m / 40.0);
+}
+
 std::optional<Violation> CenterlineOptions::validate() const {
-  return FirstViolation()
-      .range("smoothing", smoothing_m, positive(), Quantity::length)
-      .range("elevation_smoothing", elevation_smoothing_m, positive(), Quantity::length)
+  FirstViolation f;
+  if (smoothing_m) f.range("smoothing", *smoothing_m, positive(), Quantity::length);
+  return f.range("elevation_smoothing", elevation_smoothing_m, positive(), Quantity::length)
       .range("spacing", spacing_m, Range{0.01, 100.0}, Quantity::length)
       .result();
 }
@@ -78,80 +156,123 @@ CenterlinePoints project_wgs84(std::string source, const std::vector<double>& la
 
 PathProfile fit_centerline(const CenterlinePoints& points, bool closed,
                            const CenterlineOptions& o) {
+  return fit_centerline(std::make_shared<const CenterlinePoints>(points), closed, o);
+}
+
+PathProfile fit_centerline(std::shared_ptr<const CenterlinePoints> given, bool closed,
+                           const CenterlineOptions& o) {
+  assert(given);
   require_valid(o.validate(), "centerline options");
-  std::vector<double> x = points.x_m, y = points.y_m, z = points.z_m;
-  require_valid(FirstViolation()
-                    .rule(x.size() >= 10, "x_m", "a centerline needs at least 10 points")
-                    .rule(y.size() == x.size() && (z.empty() || z.size() == x.size()), "y_m",
-                          "x_m, y_m (and z_m) differ in length")
-                    .result(),
-                points.source);
+  {
+    const CenterlinePoints& g = *given;
+    const std::size_t n = g.x_m.size();
+    FirstViolation f;
+    f.rule(n >= 10, "x_m", "a centerline needs at least 10 points")
+        .rule(g.y_m.size() == n && (g.z_m.empty() || g.z_m.size() == n), "y_m",
+              "x_m, y_m (and z_m) differ in length")
+        .rule(g.width_left_m.size() == g.width_right_m.size() &&
+                  (g.width_left_m.empty() || g.width_left_m.size() == n),
+              "width_left_m", "give both widths (width_left_m and width_right_m) for every point");
+    // A width is the distance from the centerline to that edge: > 0.
+    for (const auto* w : {&g.width_left_m, &g.width_right_m}) {
+      const std::string name = w == &g.width_left_m ? "width_left_m" : "width_right_m";
+      for (std::size_t i = 0; i < w->size() && !f.found(); ++i)
+        f.rule((*w)[i] > 0.0, name,
+               name + " " + format_number((*w)[i]) +
+                   " m is not a width: the distance from the centerline to the edge must be > 0",
+               name + "[" + std::to_string(i) + "]");
+    }
+    require_valid(f.result(), g.source);
+  }
+  // A closed centerline may repeat its first point at the end: drop it.
+  std::shared_ptr<const CenterlinePoints> points = given;
+  if (closed && std::hypot(given->x_m.back() - given->x_m.front(),
+                           given->y_m.back() - given->y_m.front()) < 1e-6) {
+    auto trimmed = std::make_shared<CenterlinePoints>(*given);
+    for (auto* v : {&trimmed->x_m, &trimmed->y_m, &trimmed->z_m, &trimmed->width_left_m,
+                    &trimmed->width_right_m})
+      if (!v->empty()) v->pop_back();
+    points = std::move(trimmed);
+  }
+  const CenterlinePoints& pts = *points;
+  const std::size_t m = pts.x_m.size();
   PathProfile p;
   p.source = PathProfile::Source::centerline;
-  p.data_file = points.source;
-  p.smoothing_m = o.smoothing_m;
+  p.data_file = pts.source;
   p.elevation_smoothing_m = o.elevation_smoothing_m;
-  // A closed centerline may repeat its first point at the end: drop it.
-  if (closed && std::hypot(x.back() - x.front(), y.back() - y.front()) < 1e-6) {
-    x.pop_back();
-    y.pop_back();
-    if (!z.empty()) z.pop_back();
-  }
-  const std::size_t m = x.size();
   {
     // The data as given, for the closure check (mesh.cpp): the gap from the last point to the
-    // first, which the closed fit bridges with a chord, against the median point spacing.
+    // first, which the closed fit bridges, against the median point spacing.
     std::vector<double> chords(m - 1);
     for (std::size_t i = 1; i < m; ++i)
-      chords[i - 1] = std::hypot(x[i] - x[i - 1], y[i] - y[i - 1]);
+      chords[i - 1] = std::hypot(pts.x_m[i] - pts.x_m[i - 1], pts.y_m[i] - pts.y_m[i - 1]);
     std::nth_element(chords.begin(),
                      chords.begin() + static_cast<std::ptrdiff_t>(chords.size() / 2), chords.end());
     p.point_spacing_m = chords[chords.size() / 2];
-    p.data_closure_gap_m = std::hypot(x.back() - x.front(), y.back() - y.front());
+    p.data_closure_gap_m =
+        std::hypot(pts.x_m.back() - pts.x_m.front(), pts.y_m.back() - pts.y_m.front());
     p.last_point_index = m - 1;
   }
-  // Chord lengths, then samples evenly spaced along them.
-  std::vector<double> c(m + (closed ? 1 : 0), 0.0);
-  for (std::size_t i = 1; i < c.size(); ++i) {
-    const std::size_t a = i - 1, b = i % m;
-    c[i] = c[i - 1] + std::hypot(x[b] - x[a], y[b] - y[a]);
-  }
+  const std::vector<double> c = chord_lengths(pts, closed);
   const double total = c.back();
   if (total > PathProfile::max_length_m) {
     // Name the widest gap between points: a stray point is the usual cause.
     std::size_t worst = 1;
     for (std::size_t i = 1; i < c.size(); ++i)
       if (c[i] - c[i - 1] > c[worst] - c[worst - 1]) worst = i;
-    const std::size_t row = std::min(worst, points.x_m.size() - 1);
+    const std::size_t row = std::min(worst, m - 1);
     throw InvalidInput(
-        points.source,
+        pts.source,
         broken_rule("",
                     "the centerline is " + std::to_string(total / 1000.0) +
                         " km long (at most 200 km); this point is " +
                         std::to_string(c[worst] - c[worst - 1]) + " m from the one before",
                     "x_m[" + std::to_string(row) + "]"));
   }
-  const std::size_t n =
-      std::max<std::size_t>(10, static_cast<std::size_t>(std::llround(total / o.spacing_m)));
-  const double h = total / static_cast<double>(n);
-  const std::size_t samples = closed ? n : n + 1;
-  std::vector<double> rx(samples), ry(samples), rz(z.empty() ? 0 : samples);
-  std::size_t seg = 0;
-  for (std::size_t j = 0; j < samples; ++j) {
-    const double s = std::min(total, static_cast<double>(j) * h);
-    while (seg + 2 < c.size() && c[seg + 1] < s) ++seg;
-    const std::size_t a = seg, b = (seg + 1) % m;
-    const double w = c[seg + 1] > c[seg] ? (s - c[seg]) / (c[seg + 1] - c[seg]) : 0.0;
-    rx[j] = x[a] + w * (x[b] - x[a]);
-    ry[j] = y[a] + w * (y[b] - y[a]);
-    if (!z.empty()) rz[j] = z[a] + w * (z[b] - z[a]);
+  auto samples_at = [&](double step) {
+    return std::max<std::size_t>(10, static_cast<std::size_t>(std::llround(total / step)));
+  };
+
+  // The smoothing length: given, or chosen by GCV on the points themselves, one sample each
+  // (their noise is independent from one to the next, as GCV assumes; samples interpolated
+  // between them would look like signal and be kept). Their spacing is taken as even; the
+  // length follows from lambda at the spacing of the path GCV fitted through them (noise
+  // lengthens the chords between the raw points: 0.5 m of it on points 2 m apart, by 10 %).
+  double length = 0.0;
+  if (o.smoothing_m) {
+    length = *o.smoothing_m;
+  } else {
+    const double intervals = static_cast<double>(closed ? m : m - 1);
+    const double h0 = total / intervals;
+    const double lo = gcv_min_spacings * h0;
+    const double hi = std::max(lo, std::min(gcv_max_spacings * h0, 0.5 * total));
+    const SmoothingChoice g = choose_smoothing({pts.x_m, pts.y_m}, h0, xy_order, closed, lo, hi);
+    const auto gx = smooth_lambda(pts.x_m, g.lambda, xy_order, closed);
+    const auto gy = smooth_lambda(pts.y_m, g.lambda, xy_order, closed);
+    double fitted = 0.0;
+    for (std::size_t i = 1; i < m + (closed ? 1 : 0); ++i)
+      fitted += std::hypot(gx[i % m] - gx[i - 1], gy[i % m] - gy[i - 1]);
+    const double h1 = fitted / intervals;
+    length = smoothing_length(h1, g.lambda, xy_order);
+    p.smoothing.automatic = true;
+    p.smoothing.noise_rms = g.noise_rms;
+    p.smoothing.chosen_at_spacing_m = h1;
+    p.smoothing.at_lower_bound = g.at_lower_bound;
+    p.smoothing.at_upper_bound = g.at_upper_bound;
+    p.smoothing.exact_trace = g.exact_trace;
   }
-  // The fit.
-  constexpr int order = 3;
-  const auto fx = smooth(rx, h, o.smoothing_m, order, closed);
-  const auto fy = smooth(ry, h, o.smoothing_m, order, closed);
+  p.smoothing_m = length;
+
+  const Samples r = resample(
+      pts, closed, c,
+      samples_at(o.fixed_spacing ? o.spacing_m : centerline_fit_spacing(length, o.spacing_m)));
+  const double h = r.h;
+  p.sample_spacing_m = h;
+  const std::size_t samples = r.size();
+  const auto fx = smooth(r.x, h, length, xy_order, closed);
+  const auto fy = smooth(r.y, h, length, xy_order, closed);
   std::vector<double> res(samples);
-  for (std::size_t j = 0; j < samples; ++j) res[j] = std::hypot(rx[j] - fx[j], ry[j] - fy[j]);
+  for (std::size_t j = 0; j < samples; ++j) res[j] = std::hypot(r.x[j] - fx[j], r.y[j] - fy[j]);
   p.fit_residual_rms_m = rms(res, std::vector<double>(samples, 0.0));
   const auto k = curvature_of(fx, fy, h, closed);
   // Raw curvature (over 5 m chords, so that it is finite) against the fitted one: the noise the
@@ -160,8 +281,8 @@ PathProfile fit_centerline(const CenterlinePoints& points, bool closed,
     const std::size_t step = std::max<std::size_t>(1, static_cast<std::size_t>(5.0 / h));
     std::vector<double> rawk, fitk;
     for (std::size_t j = step; j + step < samples; j += step) {
-      const double ax = rx[j - step], ay = ry[j - step], bx = rx[j], by = ry[j], cx = rx[j + step],
-                   cy = ry[j + step];
+      const double ax = r.x[j - step], ay = r.y[j - step], bx = r.x[j], by = r.y[j],
+                   cx = r.x[j + step], cy = r.y[j + step];
       // Curvature of the circle through three points: 2 cross / (|ab| |bc| |ca|).
       const double cross = (bx - ax) * (cy - ay) - (by - ay) * (cx - ax);
       const double den = std::hypot(bx - ax, by - ay) * std::hypot(cx - bx, cy - by) *
@@ -173,9 +294,13 @@ PathProfile fit_centerline(const CenterlinePoints& points, bool closed,
     p.curvature_noise_rms_1pm = rawk.empty() ? 0.0 : rms(rawk, fitk);
   }
   std::vector<double> grade(samples, 0.0), elev(samples, 0.0);
-  if (!z.empty()) {
-    elev = smooth(rz, h, o.elevation_smoothing_m, 2, closed);
+  if (!r.z.empty()) {
+    elev = smooth(r.z, h, o.elevation_smoothing_m, 2, closed);
     grade = derivative(elev, h, closed);
+  }
+  if (!r.wl.empty()) {
+    p.width_left_m = smooth(r.wl, h, length, 1, closed);
+    p.width_right_m = smooth(r.wr, h, length, 1, closed);
   }
   // The profile along the fitted path's own length.
   p.s_m.assign(samples, 0.0);
@@ -191,7 +316,24 @@ PathProfile fit_centerline(const CenterlinePoints& points, bool closed,
     p.s_m.push_back(p.s_m.back() + std::hypot(fx.front() - fx.back(), fy.front() - fy.back()));
     for (auto* v : {&p.x_m, &p.y_m, &p.curvature_1pm, &p.grade, &p.elevation_m})
       v->push_back(v->front());
+    if (!p.width_left_m.empty())
+      for (auto* v : {&p.width_left_m, &p.width_right_m}) v->push_back(v->front());
   }
+  p.points = std::move(points);
+  return p;
+}
+
+PathProfile refit_centerline(const PathProfile& profile, bool closed, double factor) {
+  assert(profile.points && profile.source == PathProfile::Source::centerline);
+  CenterlineOptions o;
+  o.smoothing_m = profile.smoothing_m * factor;
+  o.elevation_smoothing_m = profile.elevation_smoothing_m;
+  // The same samples as the fit itself, so that only the strength differs.
+  o.spacing_m = profile.sample_spacing_m;
+  o.fixed_spacing = true;
+  PathProfile p = fit_centerline(profile.points, closed, o);
+  p.notes = profile.notes;
+  p.geodetic = profile.geodetic;
   return p;
 }
 

@@ -2,7 +2,9 @@
 
 #include <algorithm>
 #include <cmath>
+
 #include <string>
+#include "lapwing/base/interpolate.hpp"
 
 #include "lapwing/base/error.hpp"
 #include "lapwing/base/units.hpp"
@@ -13,10 +15,9 @@
 namespace lapwing {
 
 std::optional<Violation> LogCurvatureOptions::validate() const {
-  return FirstViolation()
-      .range("smoothing", smoothing_m, positive(), Quantity::length)
-      .range("min_speed", min_speed_mps, positive(), Quantity::speed)
-      .result();
+  FirstViolation f;
+  if (smoothing_m) f.range("smoothing", *smoothing_m, positive(), Quantity::length);
+  return f.range("min_speed", min_speed_mps, positive(), Quantity::speed).result();
 }
 
 LogCurvature log_curvature(const LogChannels& log, const LogCurvatureOptions& o) {
@@ -64,7 +65,7 @@ LogCurvature log_curvature(const LogChannels& log, const LogCurvatureOptions& o)
         for (std::size_t j = 0; j < i; ++j) k[j] = k[i];
       else
         for (std::size_t j = last + 1; j < i; ++j)
-          k[j] = k[last] + (k[i] - k[last]) * (s[j] - s[last]) / (s[i] - s[last]);
+          k[j] = lerp(k[last], k[i], (s[j] - s[last]) / (s[i] - s[last]));
       last = i;
     }
     if (last == k.size())
@@ -82,19 +83,60 @@ LogCurvature log_curvature(const LogChannels& log, const LogCurvatureOptions& o)
   const double step = length / static_cast<double>(n);
   std::vector<double> rs(n + 1), rk(n + 1), rv(n + 1);
   std::vector<std::size_t> row(n + 1);  // the log row nearest each sample (for errors)
-  std::size_t seg = 0;
+  AxisWalk walk(s);
   for (std::size_t j = 0; j <= n; ++j) {
     const double sj = std::min(length, static_cast<double>(j) * step);
-    while (seg + 2 < s.size() && s[seg + 1] < sj) ++seg;
-    const double w = (sj - s[seg]) / (s[seg + 1] - s[seg]);
+    const Bracket w = walk.at(sj);
     rs[j] = sj;
-    rk[j] = k[seg] + w * (k[seg + 1] - k[seg]);
-    rv[j] = v[seg] + w * (v[seg + 1] - v[seg]);
-    row[j] = w < 0.5 ? seg : seg + 1;
+    rk[j] = at(k, w);
+    rv[j] = at(v, w);
+    row[j] = w.w < 0.5 ? w.i : w.i + 1;
   }
-  rk = smooth(rk, step, o.smoothing_m, 2, false);
   LogCurvature out;
   out.length_m = length;
+  // The filter's length: given, or chosen by GCV on the curvature resampled at the log's own
+  // median row spacing (so that the samples are about the rows and their noise stays
+  // independent from one to the next, as GCV assumes). Second differences, as the filter; a
+  // closed lap's curvature is periodic.
+  constexpr int log_order = 2;
+  if (o.smoothing_m) {
+    out.smoothing_m = *o.smoothing_m;
+  } else {
+    std::vector<double> gaps(s.size() - 1);
+    for (std::size_t i = 1; i < s.size(); ++i) gaps[i - 1] = s[i] - s[i - 1];
+    std::nth_element(gaps.begin(), gaps.begin() + static_cast<std::ptrdiff_t>(gaps.size() / 2),
+                     gaps.end());
+    const std::size_t nr = std::max<std::size_t>(
+        10, static_cast<std::size_t>(std::llround(length / gaps[gaps.size() / 2])));
+    const double hr = length / static_cast<double>(nr);
+    std::vector<double> kr;
+    std::size_t at = 0;
+    for (std::size_t j = 0; j < (o.closed ? nr : nr + 1); ++j) {
+      const double sj = std::min(length, static_cast<double>(j) * hr);
+      while (at + 2 < s.size() && s[at + 1] < sj) ++at;
+      const double w = (sj - s[at]) / (s[at + 1] - s[at]);
+      kr.push_back(lerp(k[at], k[at + 1], w));
+    }
+    // From 2 to 100 row spacings (as a centerline's points: centerline.hpp).
+    const double lo = 2.0 * hr;
+    const double hi = std::max(lo, std::min(100.0 * hr, 0.5 * length));
+    const SmoothingChoice g = choose_smoothing({kr}, hr, log_order, o.closed, lo, hi);
+    out.smoothing_m = g.length_m;
+    out.smoothing.automatic = true;
+    out.smoothing.noise_rms = g.noise_rms;
+    out.smoothing.chosen_at_spacing_m = hr;
+    out.smoothing.at_lower_bound = g.at_lower_bound;
+    out.smoothing.at_upper_bound = g.at_upper_bound;
+    out.smoothing.exact_trace = g.exact_trace;
+  }
+  if (o.closed) {
+    // Periodic: the last sample is the first again.
+    rk.pop_back();
+    rk = smooth(rk, step, out.smoothing_m, log_order, true);
+    rk.push_back(rk.front());
+  } else {
+    rk = smooth(rk, step, out.smoothing_m, log_order, false);
+  }
   // The peak lateral acceleration, on the filtered curvature (one spiky sample says little).
   {
     std::size_t worst = 0;

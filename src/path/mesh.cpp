@@ -9,6 +9,7 @@
 #include <string>
 
 #include "lapwing/base/error.hpp"
+#include "lapwing/base/interpolate.hpp"
 #include "lapwing/base/units.hpp"
 
 namespace lapwing {
@@ -30,7 +31,7 @@ class Walker {
   explicit Walker(const Track& t) : track_(t) {}
 
   struct State {
-    double x, y, heading, curvature, elevation, grade;
+    double x, y, heading, curvature, elevation, grade, width;
   };
 
   // Advances to distance s (not before the current one) and returns the state there.
@@ -45,7 +46,13 @@ class Walker {
     }
     advance_to(std::max(u_, s - seg_start_));
     const Segment& g = seg();
-    return {x_, y_, heading(u_), curvature(u_), z_, g.grade};
+    return {x_,
+            y_,
+            heading(u_),
+            curvature(u_),
+            z_,
+            g.grade,
+            g.width_m.value_or(track_.width_m.value_or(0.0))};
   }
 
  private:
@@ -102,22 +109,6 @@ double wrap_angle(double a) {
 
 namespace {
 
-// Linear interpolation in a profile's samples at distance s (increasing calls).
-class ProfileReader {
- public:
-  explicit ProfileReader(const PathProfile& p) : p_(p) {}
-  double at(const std::vector<double>& v, double s) {
-    while (i_ + 2 < p_.s_m.size() && p_.s_m[i_ + 1] <= s) ++i_;
-    const double a = p_.s_m[i_], b = p_.s_m[i_ + 1];
-    const double w = b > a ? std::clamp((s - a) / (b - a), 0.0, 1.0) : 0.0;
-    return v[i_] + w * (v[i_ + 1] - v[i_]);
-  }
-
- private:
-  const PathProfile& p_;
-  std::size_t i_ = 0;
-};
-
 double turning_of(const PathProfile& p) {
   double th = 0.0;
   for (std::size_t i = 1; i < p.s_m.size(); ++i)
@@ -127,9 +118,23 @@ double turning_of(const PathProfile& p) {
 
 }  // namespace
 
+const PathProfile* lapped_profile(const Track& track) {
+  if (track.line_path) return &*track.line_path;
+  if (track.profile) return &*track.profile;
+  return nullptr;
+}
+
+std::vector<double> lapped_sectors_m(const Track& track) {
+  if (!track.line_path) return track.sectors_m;
+  const PathProfile& l = *track.line_path;
+  std::vector<double> out;
+  for (double s : track.sectors_m) out.push_back(interpolate(l.reference_s_m, l.s_m, s));
+  return out;
+}
+
 Closure closure(const Track& track) {
-  if (track.profile) {
-    const PathProfile& p = *track.profile;
+  if (const PathProfile* lapped = lapped_profile(track)) {
+    const PathProfile& p = *lapped;
     const double turning = turning_of(p);
     // A closed centerline's fitted loop ends where it starts by construction: the gap that
     // tells is the data's, from the last point to the first.
@@ -145,10 +150,10 @@ Closure closure(const Track& track) {
 
 double closure_position_tolerance_m(const Track& track) {
   const double by_length = closure_position_fraction * track.length_m();
-  if (!track.profile) return by_length;
-  if (track.profile->source == PathProfile::Source::curvature)
-    return std::numeric_limits<double>::infinity();
-  return std::max(closure_spacings * track.profile->point_spacing_m, by_length);
+  const PathProfile* p = lapped_profile(track);
+  if (!p) return by_length;
+  if (p->source == PathProfile::Source::curvature) return std::numeric_limits<double>::infinity();
+  return std::max(closure_spacings * p->point_spacing_m, by_length);
 }
 
 namespace {
@@ -163,8 +168,9 @@ void check_closure(const Track& track) {
   std::ostringstream os;
   os.precision(4);
   Violation v;
-  v.field = track.path_key();
-  if (!track.profile) {
+  const PathProfile* lapped = lapped_profile(track);
+  v.field = track.line_path ? "line" : track.path_key();
+  if (!lapped) {
     os << "closed track does not close: the end is " << c.position_gap_m << " m from the start"
        << " and its heading differs by " << c.heading_gap_rad / units::deg << " deg (tolerance "
        << closure_position_fraction * 100 << " % of the length = " << position_tolerance << " m, "
@@ -173,7 +179,7 @@ void check_closure(const Track& track) {
     // Only a centerline's position is checked: the fit closes its loop itself (periodic), so
     // the data's gap is what can fail.
     // The sentence names the last point where it says {point}: a loader, by its file and line.
-    const PathProfile& p = *track.profile;
+    const PathProfile& p = *lapped;
     v.point = v.field + ".points[" + std::to_string(p.last_point_index) + "]";
     v.point_text = "data point " + std::to_string(p.last_point_index + 1) + " of " + p.data_file;
     os << "closed centerline does not close: its last point ({point}) is " << c.position_gap_m
@@ -183,8 +189,9 @@ void check_closure(const Track& track) {
        << " m); add the missing points, or set closed: false";
   } else {
     os << "closed "
-       << (track.profile->source == PathProfile::Source::centerline ? "centerline"
-                                                                    : "curvature profile")
+       << (lapped->source == PathProfile::Source::centerline ? "centerline"
+           : lapped->source == PathProfile::Source::line     ? "racing line"
+                                                             : "curvature profile")
        << " does not close: its heading at the end differs by " << c.heading_gap_rad / units::deg
        << " deg from a whole number of turns (tolerance " << closure_heading_deg
        << " deg); its end is " << c.position_gap_m << " m from its start";
@@ -211,26 +218,35 @@ Mesh build_mesh(const Track& track, double step_m) {
   for (auto* v : {&m.s_m, &m.x_m, &m.y_m, &m.heading_rad, &m.curvature_1pm, &m.elevation_m,
                   &m.grade, &m.cos_slope, &m.sin_slope})
     v->resize(n + 1);
-  if (track.profile) {
+  const PathProfile* lapped = lapped_profile(track);
+  const bool widths = track.has_widths() || (lapped && !lapped->width_left_m.empty());
+  if (widths)
+    for (auto* v : {&m.width_left_m, &m.width_right_m}) v->resize(n + 1);
+  if (lapped) {
     // From the profile's samples: curvature, grade, position and elevation linear between
     // them; heading integrated from the curvature from the first chord's direction.
-    const PathProfile& p = *track.profile;
-    ProfileReader pr(p);
+    const PathProfile& p = *lapped;
+    AxisWalk walk(p.s_m);
     double heading = std::atan2(p.y_m[1] - p.y_m[0], p.x_m[1] - p.x_m[0]);
     for (std::size_t i = 0; i <= n; ++i) {
       const double s = (i == n) ? length : static_cast<double>(i) * m.step_m;
+      const Bracket b = walk.at(s);
       m.s_m[i] = s;
-      m.x_m[i] = pr.at(p.x_m, s);
-      m.y_m[i] = pr.at(p.y_m, s);
-      m.curvature_1pm[i] = pr.at(p.curvature_1pm, s);
-      m.grade[i] = pr.at(p.grade, s);
-      m.elevation_m[i] = pr.at(p.elevation_m, s);
+      m.x_m[i] = at(p.x_m, b);
+      m.y_m[i] = at(p.y_m, b);
+      m.curvature_1pm[i] = at(p.curvature_1pm, b);
+      m.grade[i] = at(p.grade, b);
+      m.elevation_m[i] = at(p.elevation_m, b);
+      if (widths) {
+        m.width_left_m[i] = at(p.width_left_m, b);
+        m.width_right_m[i] = at(p.width_right_m, b);
+      }
       if (i) heading += 0.5 * (m.curvature_1pm[i - 1] + m.curvature_1pm[i]) * m.step_m;
       m.heading_rad[i] = heading;
     }
   }
   Walker w(track);
-  for (std::size_t i = 0; i <= n && !track.profile; ++i) {
+  for (std::size_t i = 0; i <= n && !lapped; ++i) {
     const double s = (i == n) ? length : static_cast<double>(i) * m.step_m;
     const auto st = w.at(s);
     m.s_m[i] = s;
@@ -240,6 +256,7 @@ Mesh build_mesh(const Track& track, double step_m) {
     m.curvature_1pm[i] = st.curvature;
     m.elevation_m[i] = st.elevation;
     m.grade[i] = st.grade;
+    if (widths) m.width_left_m[i] = m.width_right_m[i] = 0.5 * st.width;
   }
   if (track.closed) {
     // One lap: the last point is the first again (the closure gap is within tolerance).

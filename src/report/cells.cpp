@@ -1,6 +1,8 @@
 #include "lapwing/report/cells.hpp"
 
 #include "lapwing/base/format.hpp"
+#include "lapwing/base/units.hpp"
+#include "lapwing/report/labels.hpp"
 #include "lapwing/report/text_table.hpp"
 
 namespace lapwing {
@@ -30,8 +32,51 @@ std::vector<std::string> balance_cells(const BalanceSummary& b) {
           fixed(b.front_limited_length_m, 0)};
 }
 
+std::string window_result_name(const BalanceWindowResult& r) {
+  return !(r.time_s > 0.0) ? "not reached" : r.pass ? "pass" : "fail";
+}
+
+std::string window_text(const BalanceWindow& w) {
+  return fixed(100 * w.front_share_min, 1) + "-" + fixed(100 * w.front_share_max, 1) +
+         " % front above " + fixed(units::to_kph(w.above_mps), 0) + " km/h, > " +
+         fixed(balance_window_lateral_g, 1) + " g lateral";
+}
+
+std::string window_where(const BalanceWindowResult& r) {
+  if (r.worst_corner) return "corner " + std::to_string(r.worst_corner);
+  return r.next_corner ? "straight to " + std::to_string(r.next_corner) : "straight to the line";
+}
+
+std::string window_worst(const BalanceWindowResult& r) {
+  if (!(r.time_s > 0.0)) return "-";
+  const std::string at = " at " + fixed(r.worst_at_m, 0) + " m (" + window_where(r) + ", " +
+                         std::string(phase_name(r.worst_phase)) + ", " +
+                         fixed(units::to_kph(r.worst_speed_mps), 0) + " km/h)";
+  if (r.pass) return fixed(100 * r.margin, 1) + " points to spare" + at;
+  return fixed(100 * std::abs(r.worst_excursion), 1) +
+         (r.worst_excursion < 0 ? " points below" : " points above") + at;
+}
+
+std::vector<std::string> window_header() {
+  return {"window",    "front % in window", "worst point",
+          "outside %", "braking / drive %", "moves points"};
+}
+
+std::vector<std::string> window_cells(const BalanceWindowResult& r) {
+  const bool tested = r.time_s > 0.0;
+  const bool both = r.braking_share && r.accelerating_share;
+  return {window_result_name(r),
+          tested ? fixed(100 * r.lowest_share, 1) + "-" + fixed(100 * r.highest_share, 1)
+                 : std::string("-"),
+          window_worst(r),
+          tested ? fixed(100 * r.outside_fraction, 1) : std::string("-"),
+          (r.braking_share ? fixed(100 * *r.braking_share, 1) : std::string("-")) + " / " +
+              (r.accelerating_share ? fixed(100 * *r.accelerating_share, 1) : std::string("-")),
+          both ? fixed(100 * (*r.braking_share - *r.accelerating_share), 1) : std::string("-")};
+}
+
 std::string axle_cell(const CornerResult& c) {
-  return c.entry_axle + "/" + c.apex_axle + "/" + c.exit_axle;
+  return label(c.entry_axle) + "/" + label(c.apex_axle) + "/" + label(c.exit_axle);
 }
 
 std::string balance_index_cell(const CornerResult& c) {

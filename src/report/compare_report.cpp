@@ -6,8 +6,10 @@
 #include "lapwing/io/csv_writer.hpp"
 #include "lapwing/io/json.hpp"
 #include "lapwing/report/cells.hpp"
+#include "lapwing/report/labels.hpp"
 #include "lapwing/report/lap_files.hpp"
 #include "lapwing/report/text_table.hpp"
+#include "lapwing/report/verdict.hpp"
 
 namespace lapwing {
 
@@ -55,7 +57,7 @@ std::string compare_json(const Car& car, const Comparison& c,
       w.key("pieces").begin_array();
       for (const auto& p : e.pieces)
         w.begin_object()
-            .field("kind", p.kind)
+            .field("kind", label(p.kind))
             .field("id", p.id)
             .field("start_m", p.start_m)
             .field("end_m", p.end_m)
@@ -72,7 +74,16 @@ std::string compare_json(const Car& car, const Comparison& c,
 std::string compare_table(const Car& car, const Comparison& c,
                           const std::vector<Circuit>& circuits) {
   std::string o = "car     " + car.name + " (" + car.file + ")\n";
-  // The matrix first: lap time per track x config, the best marked.
+  std::vector<std::string> names;
+  for (std::size_t k : c.configs) names.push_back(car.configs[k].name);
+  // The answer first: a sentence per track, and the balance window's verdict.
+  o += std::string("\nverdict (") + verdict_sign_note + ")\n";
+  for (std::size_t t = 0; t < c.tracks.size(); ++t) {
+    o += circuits[t].track.name + ": " + verdict_sentence(c.tracks[t], names) + ".\n";
+    const std::string b = balance_verdict(c.tracks[t], names);
+    if (!b.empty()) o += "  " + b + ".\n";
+  }
+  // Then the matrix: lap time per track x config, the best marked.
   {
     std::vector<std::string> header{"config"};
     for (const auto& ci : circuits) header.push_back(ci.track.id);
@@ -119,6 +130,20 @@ std::string compare_table(const Car& car, const Comparison& c,
                        "front-limited corners", "front-limited m"},
                       brows);
     }
+    // The balance window per config.
+    if (best.balance.window) {
+      std::vector<std::vector<std::string>> wrows;
+      for (const auto& e : pt.entries) {
+        std::vector<std::string> row{e.run.summary.config};
+        const auto cells = window_cells(*e.run.summary.balance.window);
+        row.insert(row.end(), cells.begin(), cells.end());
+        wrows.push_back(row);
+      }
+      std::vector<std::string> header{"config"};
+      for (const auto& h : window_header()) header.push_back(h);
+      o += "\nbalance window " + window_text(best.balance.window->window) +
+           " (braking / drive: mean front share above its speed)\n" + text_table(header, wrows);
+    }
     // Per piece: which corners gain, which straights lose, against the best.
     if (pt.entries.size() > 1) {
       std::vector<std::string> header{"piece", "from m", "to m"};
@@ -129,7 +154,7 @@ std::string compare_table(const Car& car, const Comparison& c,
       for (std::size_t p = 0; p < pieces.size(); ++p) {
         const LapPiece& lp = pieces[p];
         std::vector<std::string> row{
-            lp.kind == "corner"
+            lp.kind == PieceKind::corner
                 ? "corner " + std::to_string(lp.id)
                 : (lp.id ? "straight to " + std::to_string(lp.id) : "straight to line"),
             fixed(lp.start_m, 0), fixed(lp.end_m, 0)};

@@ -1,14 +1,23 @@
 #include "lapwing/report/html_report.hpp"
 
 #include <algorithm>
+#include <array>
 #include <cmath>
 #include <cstdio>
+#include <initializer_list>
 
 #include "lapwing/base/format.hpp"
 #include "lapwing/base/units.hpp"
 #include "lapwing/base/version.hpp"
+#include "lapwing/io/json.hpp"
 #include "lapwing/report/cells.hpp"
+#include "lapwing/report/labels.hpp"
 #include "lapwing/report/svg.hpp"
+#include "lapwing/report/text_table.hpp"
+#include "lapwing/report/track_quality_text.hpp"
+#include "lapwing/report/trade_report.hpp"
+#include "lapwing/report/verdict.hpp"
+#include "traces_js.hpp"
 
 namespace lapwing {
 
@@ -18,46 +27,100 @@ using svg::escape;
 using svg::Plot;
 using svg::Series;
 
-constexpr std::size_t trace_points = 1500;  // points per series drawn (decimated evenly)
+constexpr std::size_t trace_points = 1500;  // points per series in a static plot (decimated)
+constexpr std::size_t live_points = 4000;   // points per series the live plots read
 constexpr std::size_t gg_points = 700;
+constexpr int trace_width = 1240;        // design width of the static traces (scaled to fit)
+constexpr std::size_t name_chars = 16;   // config names in tables, shortened beyond
+constexpr std::size_t track_chars = 28;  // track names in table headers and labels
 
 std::size_t stride(std::size_t n, std::size_t want) {
-  return std::max<std::size_t>(1, n / want);
+  return std::max<std::size_t>(1, (n + want - 1) / want);
+}
+
+// Indices of a decimated trace: every k-th point and the last.
+std::vector<std::size_t> picks(std::size_t n, std::size_t want) {
+  std::vector<std::size_t> out;
+  const std::size_t k = stride(n, want);
+  for (std::size_t i = 0; i < n; i += k) out.push_back(i);
+  if (out.back() != n - 1) out.push_back(n - 1);
+  return out;
 }
 
 // Decimated (x, y) of a channel along the lap, keeping the last point.
 Series along(const Mesh& mesh, const std::vector<double>& y, double scale, std::string name,
              std::size_t colour) {
   Series s{std::move(name), {}, {}, colour, false, 1.6};
-  const std::size_t k = stride(mesh.size(), trace_points);
-  for (std::size_t i = 0; i < mesh.size(); i += k) {
+  for (std::size_t i : picks(mesh.size(), trace_points)) {
     s.x.push_back(mesh.s_m[i]);
     s.y.push_back(y[i] * scale);
-  }
-  if ((mesh.size() - 1) % k) {
-    s.x.push_back(mesh.s_m.back());
-    s.y.push_back(y.back() * scale);
   }
   return s;
 }
 
+// A name as HTML, shortened past `max` code points with the full name on hover.
+std::string nm(const std::string& name, std::size_t max = name_chars) {
+  const std::string shown = shorten_middle(name, max);
+  if (shown == name) return escape(name);
+  return "<span title=\"" + escape(name) + "\">" + escape(shown) + "</span>";
+}
+
+std::vector<std::string> escaped(const std::vector<std::string>& v) {
+  std::vector<std::string> o;
+  for (const auto& x : v) o.push_back(escape(x));
+  return o;
+}
+
+// A table of cells already in HTML. Columns listed in `wrap` may wrap their text; the rest
+// stay on one line (numbers). The first column is left-aligned, the others right-aligned,
+// except wrapping ones.
+// `top`: an optional first header row (cells with their rowspan/colspan), in HTML.
 std::string table(const std::vector<std::string>& header,
-                  const std::vector<std::vector<std::string>>& rows, const std::string& cls = "") {
-  std::string o =
-      "<table" + (cls.empty() ? std::string() : " class=\"" + cls + "\"") + "><thead><tr>";
-  for (const auto& h : header) o += "<th>" + escape(h) + "</th>";
+                  const std::vector<std::vector<std::string>>& rows, const std::string& cls = "",
+                  const std::vector<std::size_t>& wrap = {}, const std::string& top = "",
+                  const std::vector<std::size_t>& soft = {}) {
+  std::string o = "<table" + (cls.empty() ? std::string() : " class=\"" + cls + "\"") + "><thead>" +
+                  (top.empty() ? std::string() : "<tr>" + top + "</tr>") + "<tr>";
+  for (const auto& h : header) o += "<th>" + h + "</th>";
   o += "</tr></thead><tbody>\n";
   for (const auto& r : rows) {
     o += "<tr>";
-    for (std::size_t c = 0; c < r.size(); ++c)
-      o += (c ? "<td class=\"n\">" : "<td>") + escape(r[c]) + "</td>";
+    for (std::size_t c = 0; c < r.size(); ++c) {
+      const bool w = std::find(wrap.begin(), wrap.end(), c) != wrap.end();
+      const bool b = std::find(soft.begin(), soft.end(), c) != soft.end();
+      o += std::string(w   ? "<td class=\"w\">"
+                       : b ? "<td class=\"n b\">"
+                       : c ? "<td class=\"n\">"
+                           : "<td>") +
+           r[c] + "</td>";
+    }
     o += "</tr>\n";
   }
   return o + "</tbody></table>\n";
 }
 
-std::string figure(const std::string& svg_text, const std::string& caption) {
-  return "<figure>" + svg_text + "<figcaption>" + escape(caption) + "</figcaption></figure>\n";
+std::string figure(const std::string& svg_text, const std::string& caption,
+                   const std::string& cls = "") {
+  return "<figure" + (cls.empty() ? std::string() : " class=\"" + cls + "\"") + ">" + svg_text +
+         "<figcaption>" + escape(caption) + "</figcaption></figure>\n";
+}
+
+// Text as a JSON string for an inline <script>: '<' escaped so that no "</script>" can end it.
+std::string js_string(const std::string& s) {
+  std::string o = json_quote(s), out;
+  for (char c : o) out += c == '<' ? std::string("\\u003c") : std::string(1, c);
+  return out;
+}
+
+// Numbers at fixed decimals, comma-separated (the same bytes for the same lap).
+std::string js_numbers(const std::vector<double>& v, const std::vector<std::size_t>& at,
+                       double scale, int decimals) {
+  std::string o = "[";
+  for (std::size_t k = 0; k < at.size(); ++k) {
+    if (k) o += ',';
+    o += fixed(v[at[k]] * scale, decimals);
+  }
+  return o + "]";
 }
 
 const char* css = R"(
@@ -71,17 +134,29 @@ header p { margin: 2px 0; color: var(--muted); }
 .caution { margin: 12px 32px; padding: 8px 12px; border-left: 4px solid #D55E00; background: #fbf1ea; }
 main { padding: 0 32px 32px; }
 section { margin-top: 24px; }
-h2 { font-size: 18px; margin: 28px 0 8px; padding-bottom: 4px; border-bottom: 1px solid var(--rule); }
+h2 { font-size: 18px; margin: 28px 0 8px; padding-bottom: 4px; border-bottom: 1px solid var(--rule);
+     overflow-wrap: anywhere; }
 h3 { font-size: 15px; margin: 18px 0 6px; color: var(--muted); }
-table { border-collapse: collapse; margin: 6px 0 14px; font-variant-numeric: tabular-nums;
-        display: block; max-width: 100%; overflow-x: auto; }
-th, td { padding: 3px 10px; border-bottom: 1px solid var(--rule); text-align: left; white-space: nowrap; }
-th { background: var(--band); font-weight: 600; }
+p.verdict { margin: 6px 0 2px; font-size: 15px; }
+p.verdict-balance { margin: 0 0 10px 18px; color: var(--ink); }
+p.verdict b { overflow-wrap: anywhere; }
+table { border-collapse: collapse; margin: 6px 0 14px; font-size: 13px;
+        font-variant-numeric: tabular-nums; display: block; max-width: 100%; overflow-x: auto; }
+th, td { padding: 3px 6px; border-bottom: 1px solid var(--rule); text-align: left; }
+th { background: var(--band); font-weight: 600; vertical-align: bottom; white-space: normal;
+     overflow-wrap: anywhere; }
+td { white-space: nowrap; }
 td.n { text-align: right; }
-figure { margin: 8px 0 18px; }
+td.w { white-space: normal; min-width: 11em; }
+td.b { white-space: normal; }
+td a.corner-link { color: #0072B2; }
+figure { margin: 8px 0 18px; min-width: 0; }
 figcaption { color: var(--muted); font-size: 12px; margin-top: 2px; }
 p.note { color: var(--muted); font-size: 12px; margin: -8px 0 14px; }
-svg.plot { display: block; max-width: 100%; height: auto; background: var(--paper); }
+p.quality { font-size: 13px; }
+.pair { display: grid; gap: 8px 24px;
+        grid-template-columns: repeat(auto-fill, minmax(min(100%, 520px), 1fr)); }
+svg.plot { display: block; width: 100%; height: auto; background: var(--paper); }
 svg .grid line { stroke: #e6e9ef; stroke-width: 1; }
 svg .frame { fill: none; stroke: #9aa3b2; stroke-width: 1; }
 svg .tick, svg .legend, svg .label, svg .marker-text { font-size: 11px; fill: var(--ink); }
@@ -89,129 +164,382 @@ svg .axis-title { font-size: 12px; fill: var(--muted); }
 svg .plot-title { font-size: 13px; font-weight: 600; fill: var(--ink); }
 svg .marker { stroke: #b9c0cc; stroke-width: 0.8; stroke-dasharray: 3 3; }
 svg .contour { fill: none; stroke: #1d2430; stroke-width: 0.7; stroke-opacity: 0.55; }
+svg .contour-label { font-size: 10px; fill: #1d2430; stroke: #ffffff; stroke-width: 3px;
+                     stroke-opacity: 0.85; paint-order: stroke; }
+svg .label { stroke: #ffffff; stroke-width: 3px; stroke-opacity: 0.85; paint-order: stroke; }
 svg .breakeven { stroke: #D55E00; stroke-width: 1.6; stroke-dasharray: 6 4; }
+svg .colour-bar { stroke: #9aa3b2; stroke-width: 0.5; }
+svg .bar-tick { stroke: #5b6577; stroke-width: 1; }
+svg .bar-value { font-size: 10px; fill: var(--ink); }
+svg .bar-best { font-size: 11px; font-weight: 600; fill: var(--ink); }
+svg .window-band { fill: #009E73; fill-opacity: 0.12; }
+svg .window-edge { stroke: #009E73; stroke-width: 1; stroke-dasharray: 4 3; }
+svg .worst-mark { fill: none; stroke-width: 2; }
+svg .raw { stroke-opacity: 0.35; }
+.zoom-bar { font-size: 12px; color: var(--muted); margin: 4px 0; }
+.zoom-bar button { font: inherit; margin: 0 6px; }
+.zoom-range { font-weight: 600; color: var(--ink); }
+.live { display: none; position: relative; }
+.live-traces .live { display: block; }
+.live-traces .static { display: none; }
+.live-plot { touch-action: none; user-select: none; }
+svg .cursor { stroke: #1d2430; stroke-width: 1; stroke-dasharray: 2 2; }
+svg .selection { fill: #0072B2; fill-opacity: 0.12; }
+svg .corner-link { cursor: pointer; fill: #0072B2; text-decoration: underline; }
+.readout { position: absolute; z-index: 2; pointer-events: none; background: rgba(255,255,255,0.94);
+           border: 1px solid var(--rule); border-radius: 3px; padding: 3px 6px; font-size: 12px;
+           white-space: nowrap; box-shadow: 0 1px 3px rgba(0,0,0,0.12); }
+.readout-head { font-weight: 600; }
+.readout-row { display: flex; gap: 6px; align-items: center; }
+.readout-name { flex: 1; }
+.readout-value { font-variant-numeric: tabular-nums; text-align: right; min-width: 6em; }
+.swatch { display: inline-block; width: 10px; height: 3px; }
+@media (max-width: 900px) {
+  main { padding: 0 16px 24px; }
+  header { padding: 16px 16px 10px; }
+  .caution { margin: 12px 16px; }
+  table { font-size: 12px; }
+  th { font-size: 11px; }
+  th, td { padding: 2px 4px; }
+}
 @media print {
   body { font-size: 11px; }
   header, main { padding-left: 0; padding-right: 0; }
   .caution { margin-left: 0; margin-right: 0; }
   figure, table { break-inside: avoid; }
   h2 { break-before: auto; break-after: avoid; }
+  .live-traces .live, .zoom-bar { display: none !important; }
+  .live-traces .static { display: block !important; }
 }
 )";
 
-std::string speed_plot(const Circuit& c, const Comparison::PerTrack& pt, const Car& car,
-                       const std::vector<std::size_t>& configs) {
-  Plot p("speed-" + c.track.id, "Speed along the lap: " + c.track.name, "distance (m)",
-         "speed (km/h)");
+// The front share with each gear shift's drive cut bridged: the points of a shift and one
+// either side (where the acceleration changes sign) replaced by a straight line between the
+// points around them. The cut is 0.04 s or so of load moving forward and back; bridged, the
+// trend through the lap is what shows.
+std::vector<double> bridged_shifts(const std::vector<double>& y, const std::vector<Phase>& phase) {
+  const std::size_t n = y.size();
+  std::vector<char> cut(n, 0);
+  for (std::size_t i = 0; i < n; ++i)
+    if (phase[i] == Phase::shift)
+      for (std::size_t j = i ? i - 1 : 0; j <= std::min(n - 1, i + 1); ++j) cut[j] = 1;
+  std::vector<double> out = y;
+  for (std::size_t i = 0; i < n;) {
+    if (!cut[i]) {
+      ++i;
+      continue;
+    }
+    std::size_t j = i;
+    while (j < n && cut[j]) ++j;  // [i, j) is cut
+    const bool has_a = i > 0, has_b = j < n;
+    for (std::size_t k = i; k < j; ++k) {
+      if (has_a && has_b) {
+        const double w = static_cast<double>(k - (i - 1)) / static_cast<double>(j - (i - 1));
+        out[k] = y[i - 1] + w * (y[j] - y[i - 1]);
+      } else {
+        out[k] = has_a ? y[i - 1] : has_b ? y[j] : y[k];
+      }
+    }
+    i = j;
+  }
+  return out;
+}
+
+// Decimated values of a raw channel that keep its spikes: in each stretch of `k` points, the
+// value farthest from the trend (so that the cuts behind the trend still show).
+std::vector<double> spikes_kept(const std::vector<double>& raw, const std::vector<double>& trend,
+                                const std::vector<std::size_t>& at) {
+  std::vector<double> out;
+  for (std::size_t p = 0; p < at.size(); ++p) {
+    const std::size_t a = at[p], b = p + 1 < at.size() ? at[p + 1] : at[p] + 1;
+    std::size_t best = a;
+    for (std::size_t i = a; i < b && i < raw.size(); ++i)
+      if (std::abs(raw[i] - trend[i]) > std::abs(raw[best] - trend[best])) best = i;
+    out.push_back(raw[best]);
+  }
+  return out;
+}
+
+struct TrackView {
+  const Circuit& c;
+  const Comparison::PerTrack& pt;
+  std::vector<std::string> names;  // configs, in entry order
+  std::string id;                  // the track's id, for element ids
+};
+
+std::string corner_marks(Plot& p, const TrackView& v) {
+  for (const auto& corner : v.pt.entries[v.pt.best].run.summary.corners)
+    p.marker(corner.apex_m, std::to_string(corner.id));
+  return {};
+}
+
+std::string speed_plot(const TrackView& v) {
+  Plot p("speed-" + v.id, "Speed along the lap: " + shorten_middle(v.c.track.name, 60),
+         "distance (m)", "speed (km/h)", trace_width, 320);
+  for (std::size_t k = 0; k < v.pt.entries.size(); ++k)
+    p.add(along(v.c.mesh, v.pt.entries[k].run.lap.speed_mps, 1.0 / units::kph, v.names[k], k));
+  corner_marks(p, v);
+  return p.render();
+}
+
+std::string delta_plot(const TrackView& v) {
+  const Lap& best = v.pt.entries[v.pt.best].run.lap;
+  Plot p("delta-" + v.id, "Time delta to " + v.names[v.pt.best], "distance (m)",
+         "cumulative delta (s)", trace_width, 300);
+  for (std::size_t k = 0; k < v.pt.entries.size(); ++k) {
+    if (k == v.pt.best) continue;
+    p.add(along(v.c.mesh, delta_trace(best, v.pt.entries[k].run.lap), 1.0, v.names[k], k));
+  }
+  corner_marks(p, v);
+  return p.render();
+}
+
+const BalanceWindowResult* window_of(const Comparison::Entry& e) {
+  const auto& w = e.run.summary.balance.window;
+  return w ? &*w : nullptr;
+}
+
+std::string front_share_plot(const TrackView& v) {
+  Plot p("front-share-" + v.id, "Front axle share of the load", "distance (m)", "front share (%)",
+         trace_width, 340);
+  const BalanceWindowResult* win = window_of(v.pt.entries[v.pt.best]);
+  for (std::size_t k = 0; k < v.pt.entries.size(); ++k) {
+    const Lap& lap = v.pt.entries[k].run.lap;
+    const std::vector<double> trend = bridged_shifts(lap.front_share, lap.phase);
+    Series raw = along(v.c.mesh, lap.front_share, 100.0, v.names[k], k);
+    const auto at = picks(v.c.mesh.size(), trace_points);
+    raw.y = spikes_kept(lap.front_share, trend, at);
+    for (double& y : raw.y) y *= 100.0;
+    raw.width = 0.8;
+    raw.opacity = 0.35;
+    raw.in_legend = false;
+    p.add(raw);
+  }
+  for (std::size_t k = 0; k < v.pt.entries.size(); ++k) {
+    const Lap& lap = v.pt.entries[k].run.lap;
+    p.add(along(v.c.mesh, bridged_shifts(lap.front_share, lap.phase), 100.0, v.names[k], k));
+  }
+  p.key({"as solved (shift cuts)",
+         "<line x1=\"0\" y1=\"5\" x2=\"16\" y2=\"5\" stroke=\"#5b6577\" "
+         "stroke-width=\"0.8\" stroke-opacity=\"0.6\"/>"});
+  if (win) {
+    // The window as a band; the y range takes it in.
+    double lo = 100 * win->window.front_share_min, hi = 100 * win->window.front_share_max;
+    double y0 = lo, y1 = hi;
+    for (const auto& e : v.pt.entries)
+      for (double f : e.run.lap.front_share) {
+        y0 = std::min(y0, 100 * f);
+        y1 = std::max(y1, 100 * f);
+      }
+    const double step = svg::nice_ticks(y0, y1, 5).size() > 1
+                            ? svg::nice_ticks(y0, y1, 5)[1] - svg::nice_ticks(y0, y1, 5)[0]
+                            : 1.0;
+    p.y_range(std::floor(y0 / step) * step, std::ceil(y1 / step) * step);
+    const svg::Scale sx = p.x_scale(), sy = p.y_scale();
+    char buf[320];
+    std::snprintf(buf, sizeof buf,
+                  "<rect class=\"window-band\" x=\"%.1f\" y=\"%.1f\" width=\"%.1f\" "
+                  "height=\"%.1f\"/><line class=\"window-edge\" x1=\"%.1f\" y1=\"%.1f\" "
+                  "x2=\"%.1f\" y2=\"%.1f\"/><line class=\"window-edge\" x1=\"%.1f\" y1=\"%.1f\" "
+                  "x2=\"%.1f\" y2=\"%.1f\"/>\n",
+                  sx.p0, sy(hi), sx.p1 - sx.p0, sy(lo) - sy(hi), sx.p0, sy(hi), sx.p1, sy(hi),
+                  sx.p0, sy(lo), sx.p1, sy(lo));
+    p.underlay(buf);
+    p.key({"balance window (above " + fixed(units::to_kph(win->window.above_mps), 0) + " km/h, > " +
+               fixed(balance_window_lateral_g, 1) + " g)",
+           "<rect x=\"0\" y=\"1\" width=\"16\" height=\"8\" class=\"window-band\"/>"});
+    // Each config's worst point in the window, ringed in its colour.
+    std::string marks;
+    for (std::size_t k = 0; k < v.pt.entries.size(); ++k) {
+      const BalanceWindowResult* w = window_of(v.pt.entries[k]);
+      if (!w || !(w->time_s > 0.0)) continue;
+      const double share =
+          w->worst_excursion +
+          (w->worst_excursion < 0 ? w->window.front_share_min : w->window.front_share_max);
+      const double y = w->pass ? 0.0 : share;
+      if (w->pass) continue;
+      std::snprintf(buf, sizeof buf,
+                    "<circle class=\"worst-mark\" cx=\"%.1f\" cy=\"%.1f\" r=\"4.5\" "
+                    "stroke=\"%s\"><title>",
+                    sx(w->worst_at_m), sy(100 * y), svg::series_colour(k).c_str());
+      marks += buf + escape(v.names[k] + ": " + window_worst(*w)) + "</title></circle>";
+    }
+    p.overlay("<g clip-path=\"url(#front-share-" + escape(v.id) + "-clip)\">" + marks + "</g>\n");
+    p.key({"worst point outside the window",
+           "<circle cx=\"8\" cy=\"5\" r=\"4\" fill=\"none\" stroke=\"#5b6577\" "
+           "stroke-width=\"2\"/>"});
+  }
+  corner_marks(p, v);
+  return p.render();
+}
+
+// The data the live traces read: distance, the corners, and per plot each config's values.
+std::string trace_data(const TrackView& v) {
+  const Mesh& mesh = v.c.mesh;
+  const auto at = picks(mesh.size(), live_points);
+  const auto& pt = v.pt;
+  std::string o = "{\"x\":" + js_numbers(mesh.s_m, at, 1.0, 2) + ",\"corners\":[";
+  const auto& corners = pt.entries[pt.best].run.summary.corners;
+  for (std::size_t i = 0; i < corners.size(); ++i)
+    o += std::string(i ? "," : "") + "[" + std::to_string(corners[i].id) + "," +
+         fixed(corners[i].start_m, 1) + "," + fixed(corners[i].apex_m, 1) + "," +
+         fixed(corners[i].end_m, 1) + "]";
+  o += "],\"colours\":[";
+  for (std::size_t k = 0; k < 8; ++k)
+    o += std::string(k ? "," : "") + js_string(svg::series_colour(k));
+  o += "],\"plots\":{";
+  auto series_head = [&](std::size_t k) {
+    return "{\"name\":" + js_string(v.names[k]) +
+           ",\"short\":" + js_string(shorten_middle(v.names[k], svg::legend_chars)) +
+           ",\"c\":" + std::to_string(k % 8);
+  };
+  auto plot_head = [&](const std::string& key, const std::string& title, const std::string& ytitle,
+                       const std::string& unit, int decimals, int height) {
+    return js_string(key) + ":{\"title\":" + js_string(title) + ",\"ytitle\":" + js_string(ytitle) +
+           ",\"unit\":" + js_string(unit) + ",\"decimals\":" + std::to_string(decimals) +
+           ",\"height\":" + std::to_string(height);
+  };
+  // Speed.
+  o += plot_head("speed", "Speed along the lap", "speed (km/h)", "km/h", 1, 320) + ",\"series\":[";
   for (std::size_t k = 0; k < pt.entries.size(); ++k)
-    p.add(along(c.mesh, pt.entries[k].run.lap.speed_mps, 1.0 / units::kph,
-                car.configs[configs[k]].name, k));
-  for (const auto& corner : pt.entries[pt.best].run.summary.corners)
-    p.marker(corner.apex_m, std::to_string(corner.id));
-  return figure(p.render(), std::string(pt.entries.size() > 1 ? "Every config overlaid; n" : "N") +
-                                "umbered lines mark the corners' apexes.");
-}
-
-std::string delta_plot(const Circuit& c, const Comparison::PerTrack& pt, const Car& car,
-                       const std::vector<std::size_t>& configs) {
-  const Lap& best = pt.entries[pt.best].run.lap;
-  Plot p("delta-" + c.track.id,
-         "Time delta to " + car.configs[configs[pt.best]].name + ": " + c.track.name,
-         "distance (m)", "cumulative delta (s)");
+    o += std::string(k ? "," : "") + series_head(k) +
+         ",\"y\":" + js_numbers(pt.entries[k].run.lap.speed_mps, at, 1.0 / units::kph, 2) + "}";
+  o += "]}";
+  // Delta.
+  if (pt.entries.size() > 1) {
+    o += "," +
+         plot_head("delta", "Time delta to " + v.names[pt.best], "cumulative delta (s)", "s", 3,
+                   300) +
+         ",\"series\":[";
+    bool first = true;
+    for (std::size_t k = 0; k < pt.entries.size(); ++k) {
+      if (k == pt.best) continue;
+      o += std::string(first ? "" : ",") + series_head(k) + ",\"y\":" +
+           js_numbers(delta_trace(pt.entries[pt.best].run.lap, pt.entries[k].run.lap), at, 1.0, 4) +
+           "}";
+      first = false;
+    }
+    o += "]}";
+  }
+  // Front share: the bridged trend read out, the raw behind it.
+  o += "," + plot_head("front", "Front axle share of the load", "front share (%)", "%", 1, 340);
+  if (const BalanceWindowResult* w = window_of(pt.entries[pt.best]))
+    o += ",\"band\":[" + fixed(100 * w->window.front_share_min, 2) + "," +
+         fixed(100 * w->window.front_share_max, 2) + "]";
+  o += ",\"marks\":[";
+  bool first = true;
   for (std::size_t k = 0; k < pt.entries.size(); ++k) {
-    if (k == pt.best) continue;
-    p.add(along(c.mesh, delta_trace(best, pt.entries[k].run.lap), 1.0, car.configs[configs[k]].name,
-                k));
+    const BalanceWindowResult* w = window_of(pt.entries[k]);
+    if (!w || w->pass || !(w->time_s > 0.0)) continue;
+    const double share = w->worst_excursion + (w->worst_excursion < 0 ? w->window.front_share_min
+                                                                      : w->window.front_share_max);
+    o += std::string(first ? "" : ",") + "[" + fixed(w->worst_at_m, 1) + "," +
+         fixed(100 * share, 2) + "," + std::to_string(k % 8) + "," +
+         js_string(v.names[k] + ": " + window_worst(*w)) + "]";
+    first = false;
   }
-  for (const auto& corner : pt.entries[pt.best].run.summary.corners)
-    p.marker(corner.apex_m, std::to_string(corner.id));
-  return figure(p.render(),
-                "Rising: the config loses time there against the best; falling: it gains.");
+  o += "],\"series\":[";
+  for (std::size_t k = 0; k < pt.entries.size(); ++k) {
+    const Lap& lap = pt.entries[k].run.lap;
+    const std::vector<double> trend = bridged_shifts(lap.front_share, lap.phase);
+    std::vector<double> raw = spikes_kept(lap.front_share, trend, at);
+    std::vector<std::size_t> all(raw.size());
+    for (std::size_t i = 0; i < all.size(); ++i) all[i] = i;
+    o += std::string(k ? "," : "") + series_head(k) + ",\"y\":" + js_numbers(trend, at, 100.0, 2) +
+         ",\"raw\":" + js_numbers(raw, all, 100.0, 2) + "}";
+  }
+  o += "]}}}";
+  return o;
 }
 
-std::string map_plot(const Circuit& c, const Comparison::PerTrack& pt, const Car& car,
-                     const std::vector<std::size_t>& configs) {
-  const Lap& lap = pt.entries[pt.best].run.lap;
-  Plot p("map-" + c.track.id,
-         "Track map coloured by speed (" + car.configs[configs[pt.best]].name + ")", "x (m)",
-         "y (m)", 860, 520);
+std::string map_plot(const TrackView& v) {
+  const Lap& lap = v.pt.entries[v.pt.best].run.lap;
+  const Mesh& mesh = v.c.mesh;
+  Plot p("map-" + v.id,
+         "Track map coloured by speed (" + shorten_middle(v.names[v.pt.best], 24) + ")", "x (m)",
+         "y (m)", 640, 520);
   p.equal_aspect();
-  Series outline{"", {}, {}, 6, false, 0.8};
-  const std::size_t k = stride(c.mesh.size(), trace_points);
-  for (std::size_t i = 0; i < c.mesh.size(); i += k) {
-    outline.x.push_back(c.mesh.x_m[i]);
-    outline.y.push_back(c.mesh.y_m[i]);
+  const bool edges = !mesh.width_left_m.empty();
+  // A thin dark outline of the path; with edges it is not drawn (the coloured path shows between
+  // them) but still sets the plot's extent, edges included.
+  Series outline{"", {}, {}, 6, false, edges ? 0.0 : 0.8};
+  const auto at = picks(mesh.size(), trace_points);
+  for (std::size_t i : at) {
+    outline.x.push_back(mesh.x_m[i]);
+    outline.y.push_back(mesh.y_m[i]);
   }
-  outline.x.push_back(c.mesh.x_m.back());
-  outline.y.push_back(c.mesh.y_m.back());
+  if (edges)
+    for (std::size_t i : at)
+      for (const double w : {mesh.width_left_m[i], -mesh.width_right_m[i]}) {
+        outline.x.push_back(mesh.x_m[i] - w * std::sin(mesh.heading_rad[i]));
+        outline.y.push_back(mesh.y_m[i] + w * std::cos(mesh.heading_rad[i]));
+      }
   p.add(outline);
   const double vmin = *std::min_element(lap.speed_mps.begin(), lap.speed_mps.end());
   const double vmax = *std::max_element(lap.speed_mps.begin(), lap.speed_mps.end());
   const svg::Scale sx = p.x_scale(), sy = p.y_scale();
   std::string cells;
-  char buf[160];
-  for (std::size_t i = 0; i + k < c.mesh.size(); i += k) {
+  char buf[200];
+  if (edges) {
+    // The track's edges: left and right of the path lapped along its normal, x - w sin(heading),
+    // y + w cos(heading) to the left; thin grey lines either side of the path.
+    for (const int side : {1, -1}) {
+      cells += "<polyline fill=\"none\" stroke=\"#8a8a8a\" stroke-width=\"1\" points=\"";
+      for (std::size_t i : at) {
+        const double w = side > 0 ? mesh.width_left_m[i] : -mesh.width_right_m[i];
+        std::snprintf(buf, sizeof buf, "%.1f,%.1f ",
+                      sx(mesh.x_m[i] - w * std::sin(mesh.heading_rad[i])),
+                      sy(mesh.y_m[i] + w * std::cos(mesh.heading_rad[i])));
+        cells += buf;
+      }
+      cells += "\"/>";
+    }
+  }
+  // The path coloured by speed: narrower between the edges, so that they show.
+  const char* path_width = edges ? "3" : "6";
+  for (std::size_t a = 0; a + 1 < at.size(); ++a) {
+    const std::size_t i = at[a], j = at[a + 1];
     const double t = vmax > vmin ? (lap.speed_mps[i] - vmin) / (vmax - vmin) : 0.5;
     std::snprintf(buf, sizeof buf,
                   "<line x1=\"%.1f\" y1=\"%.1f\" x2=\"%.1f\" y2=\"%.1f\" stroke=\"%s\" "
-                  "stroke-width=\"6\" stroke-linecap=\"round\"/>",
-                  sx(c.mesh.x_m[i]), sy(c.mesh.y_m[i]), sx(c.mesh.x_m[i + k]),
-                  sy(c.mesh.y_m[i + k]), svg::ramp_colour(t).c_str());
+                  "stroke-width=\"%s\" stroke-linecap=\"round\"/>",
+                  sx(mesh.x_m[i]), sy(mesh.y_m[i]), sx(mesh.x_m[j]), sy(mesh.y_m[j]),
+                  svg::ramp_colour(t).c_str(), path_width);
     cells += buf;
   }
-  cells += "\n";
-  p.underlay(cells);
-  cells.clear();
-  // Colour key in the plot's right margin.
-  for (int s = 0; s <= 10; ++s) {
-    std::snprintf(buf, sizeof buf,
-                  "<rect x=\"%.1f\" y=\"%.1f\" width=\"14\" height=\"12\" fill=\"%s\"/>",
-                  sx.p1 + 12.0, sy.p1 + 40.0 + 12.0 * (10 - s), svg::ramp_colour(s / 10.0).c_str());
-    cells += buf;
-  }
-  std::snprintf(buf, sizeof buf,
-                "<text class=\"legend\" x=\"%.1f\" y=\"%.1f\">%.0f km/h</text><text "
-                "class=\"legend\" x=\"%.1f\" y=\"%.1f\">%.0f km/h</text>\n",
-                sx.p1 + 30.0, sy.p1 + 50.0, units::to_kph(vmax), sx.p1 + 30.0, sy.p1 + 170.0,
-                units::to_kph(vmin));
-  p.overlay(cells);
-  for (const auto& corner : pt.entries[pt.best].run.summary.corners) {
+  p.underlay(cells + "\n");
+  // The colour bar in the right margin: speed in km/h, fast (light) at the top.
+  p.overlay(svg::colour_bar("map-" + v.id + "-ramp", sx.p1 + 16, sy.p1 + 24, 14, 220,
+                            units::to_kph(vmin), units::to_kph(vmax), true, "speed (km/h)"));
+  for (const auto& corner : v.pt.entries[v.pt.best].run.summary.corners) {
     const std::size_t i = std::min(
-        c.mesh.size() - 1, static_cast<std::size_t>(std::lround(corner.apex_m / c.mesh.step_m)));
+        mesh.size() - 1, static_cast<std::size_t>(std::lround(corner.apex_m / mesh.step_m)));
     // Label off the line, towards the inside of the turn.
-    const double nx = -std::sin(c.mesh.heading_rad[i]) * corner.direction;
-    const double ny = std::cos(c.mesh.heading_rad[i]) * corner.direction;
-    const double off = 0.035 * (p.x_scale().d1 - p.x_scale().d0);
-    p.label(c.mesh.x_m[i] + nx * off, c.mesh.y_m[i] + ny * off, std::to_string(corner.id));
+    const double nx = -std::sin(mesh.heading_rad[i]) * corner.direction;
+    const double ny = std::cos(mesh.heading_rad[i]) * corner.direction;
+    const double off = 0.035 * (sx.d1 - sx.d0);
+    p.label(mesh.x_m[i] + nx * off, mesh.y_m[i] + ny * off, std::to_string(corner.id));
   }
-  return figure(p.render(),
-                "Dark: slow, light: fast. Numbers are corners; the lap starts at (0, 0).");
+  return figure(p.render(), "Colour: speed of " + v.names[v.pt.best] +
+                                " (scale beside the map). Numbers are corners; the lap starts "
+                                "at (0, 0)." +
+                                (edges ? v.c.track.line_path
+                                             ? " Thin grey lines: the track's edges; the coloured "
+                                               "path is the racing line lapped."
+                                             : " Thin grey lines: the track's edges; the coloured "
+                                               "path is the one lapped (its centerline, or a line "
+                                               "written as one)."
+                                       : ""));
 }
 
-std::string front_share_plot(const Circuit& c, const Comparison::PerTrack& pt, const Car& car,
-                             const std::vector<std::size_t>& configs) {
-  Plot p("front-share-" + c.track.id, "Front axle share of the load: " + c.track.name,
-         "distance (m)", "front share (%)");
-  for (std::size_t k = 0; k < pt.entries.size(); ++k)
-    p.add(along(c.mesh, pt.entries[k].run.lap.front_share, 100.0, car.configs[configs[k]].name, k));
-  for (const auto& corner : pt.entries[pt.best].run.summary.corners)
-    p.marker(corner.apex_m, std::to_string(corner.id));
-  return figure(
-      p.render(),
-      "Weight, downforce by the aero balance, the drag moment and load transfer; it falls "
-      "where drag and acceleration take load off the front at speed.");
-}
-
-std::string gg_plot(const Circuit& c, const Comparison::PerTrack& pt, const Car& car,
-                    const std::vector<std::size_t>& configs) {
-  Plot p("gg-" + c.track.id, "g-g diagram: " + c.track.name, "lateral acceleration (g)",
-         "longitudinal acceleration (g)", 520, 440);
+std::string gg_plot(const TrackView& v) {
+  Plot p("gg-" + v.id, "g-g diagram", "lateral acceleration (g)", "longitudinal acceleration (g)",
+         640, 520);
   p.equal_aspect();
-  for (std::size_t k = 0; k < pt.entries.size(); ++k) {
-    const Lap& lap = pt.entries[k].run.lap;
-    Series s{car.configs[configs[k]].name, {}, {}, k, true, 0.0};
-    const std::size_t st = stride(lap.speed_mps.size(), gg_points);
-    for (std::size_t i = 0; i < lap.speed_mps.size(); i += st) {
+  for (std::size_t k = 0; k < v.pt.entries.size(); ++k) {
+    const Lap& lap = v.pt.entries[k].run.lap;
+    Series s{v.names[k], {}, {}, k, true, 0.0};
+    for (std::size_t i : picks(lap.speed_mps.size(), gg_points)) {
       s.x.push_back(lap.lat_accel_mps2[i] / units::g0);
       s.y.push_back(lap.long_accel_mps2[i] / units::g0);
     }
@@ -221,15 +549,15 @@ std::string gg_plot(const Circuit& c, const Comparison::PerTrack& pt, const Car&
 }
 
 std::string trade_plot(const Circuit& c, const TradeGrid& g, const Trade& t, const Car& car) {
-  Plot p("trade-map-" + c.track.id, "Trade map: lap time over ClA x CdA, " + c.track.name,
-         "ClA (m2)", "CdA (m2)", 640, 480);
+  Plot p("trade-map-" + c.track.id, "Trade map: lap time over ClA x CdA", "ClA (m2)", "CdA (m2)",
+         700, 560);
   p.x_range(g.cla_m2.front(), g.cla_m2.back());
   p.y_range(g.cda_m2.front(), g.cda_m2.back());
   const svg::Scale sx = p.x_scale(), sy = p.y_scale();
   const double tmin = *std::min_element(g.lap_time_s.begin(), g.lap_time_s.end());
   const double tmax = *std::max_element(g.lap_time_s.begin(), g.lap_time_s.end());
   std::string cells;
-  char buf[200];
+  char buf[240];
   const std::size_t n = g.cla_m2.size(), m = g.cda_m2.size();
   // Heat cells around each grid node (light: faster).
   for (std::size_t i = 0; i < n; ++i)
@@ -246,13 +574,48 @@ std::string trade_plot(const Circuit& c, const TradeGrid& g, const Trade& t, con
       cells += buf;
     }
   cells += "\n";
-  // Contour lines at round lap times.
-  for (double level : svg::nice_ticks(tmin, tmax, 8)) {
-    for (const auto& s : svg::contour_segments(g.cla_m2, g.cda_m2, g.lap_time_s, level)) {
+  // Contour lines at round lap times, each labelled with its time where it passes nearest the
+  // middle of the map.
+  const auto levels = svg::nice_ticks(tmin, tmax, 8);
+  const double level_step = levels.size() > 1 ? levels[1] - levels[0] : 1.0;
+  const int decimals =
+      level_step >= 1.0 ? 0 : static_cast<int>(std::ceil(-std::log10(level_step) - 1e-9));
+  std::string labels;
+  const double cx = 0.5 * (sx.p0 + sx.p1), cy = 0.5 * (sy.p0 + sy.p1);
+  // Boxes of the labels placed so far (pixels: x0, y0, x1, y1), so that none covers another.
+  std::vector<std::array<double, 4>> taken;
+  auto free_at = [&](const std::array<double, 4>& b) {
+    if (b[0] < sx.p0 + 2 || b[2] > sx.p1 - 2 || b[1] < sy.p1 + 2 || b[3] > sy.p0 - 2) return false;
+    for (const auto& o : taken)
+      if (b[0] < o[2] && o[0] < b[2] && b[1] < o[3] && o[1] < b[3]) return false;
+    return true;
+  };
+  constexpr double char_px = 6.4, label_h = 12.0;  // 10-11 px text
+  for (double level : levels) {
+    const auto segs = svg::contour_segments(g.cla_m2, g.cda_m2, g.lap_time_s, level);
+    double best_d = 1e300, lx = 0, ly = 0;
+    for (const auto& s : segs) {
       std::snprintf(buf, sizeof buf,
                     "<line class=\"contour\" x1=\"%.1f\" y1=\"%.1f\" x2=\"%.1f\" y2=\"%.1f\"/>",
                     sx(s[0]), sy(s[1]), sx(s[2]), sy(s[3]));
       cells += buf;
+      const double mx = 0.5 * (sx(s[0]) + sx(s[2])), my = 0.5 * (sy(s[1]) + sy(s[3]));
+      const double d = std::hypot(mx - cx, my - cy);
+      // Away from the edges, where the label would be cut.
+      const bool inside = mx > sx.p0 + 24 && mx < sx.p1 - 24 && my > sy.p1 + 10 && my < sy.p0 - 10;
+      if (inside && d < best_d) {
+        best_d = d;
+        lx = mx;
+        ly = my;
+      }
+    }
+    if (best_d < 1e300) {
+      taken.push_back({lx - 22, ly - 6, lx + 22, ly + 6});
+      std::snprintf(buf, sizeof buf,
+                    "<text class=\"contour-label\" x=\"%.1f\" y=\"%.1f\" text-anchor=\"middle\">"
+                    "%.*f s</text>",
+                    lx, ly + 3.5, decimals, level);
+      labels += buf;
     }
   }
   cells += "\n";
@@ -267,25 +630,76 @@ std::string trade_plot(const Circuit& c, const TradeGrid& g, const Trade& t, con
                   sy(s.cda_m2 + b * (xb - s.cla_m2)));
     cells += buf;
   }
-  p.underlay(cells);
-  // The car's configs where they fall on the map.
-  Series marks{"configs", {}, {}, 6, true, 0.0, 4.0};
-  for (std::size_t k = 0; k < car.configs.size(); ++k) {
-    const AeroConfig& a = car.configs[k];
-    const AeroOperatingPoint& op = t.operating[g.track * car.configs.size() + k];
-    const double x = op.cla_m2, y = op.cda_m2;
-    if (x < g.cla_m2.front() || x > g.cla_m2.back() || y < g.cda_m2.front() || y > g.cda_m2.back())
-      continue;
-    marks.x.push_back(x);
-    marks.y.push_back(y);
-    p.label(x, y + 0.035 * (g.cda_m2.back() - g.cda_m2.front()), a.name);
+  p.underlay(cells + labels);
+  // Every config of the car at its operating point on this track, labelled with its name and
+  // its own lap time: each label at the first place around its mark (right, left, above,
+  // below, then farther out) that no other label or mark covers.
+  Series marks{"configs: own lap (s)", {}, {}, 6, true, 0.0, 4.0};
+  const std::size_t nc = car.configs.size();
+  for (std::size_t k = 0; k < nc; ++k) {
+    const AeroOperatingPoint& op = t.operating[g.track * nc + k];
+    marks.x.push_back(op.cla_m2);
+    marks.y.push_back(op.cda_m2);
+    taken.push_back({sx(op.cla_m2) - 4, sy(op.cda_m2) - 4, sx(op.cla_m2) + 4, sy(op.cda_m2) + 4});
   }
+  std::string config_labels;
+  for (std::size_t k = 0; k < nc; ++k) {
+    const std::string text = shorten_middle(car.configs[k].name, 14) + " " +
+                             fixed(t.own_lap_time_s[g.track * nc + k], 2);
+    const double w = char_px * static_cast<double>(display_width(text)), h = label_h;
+    const double mx = sx(marks.x[k]), my = sy(marks.y[k]);
+    std::array<double, 4> box{};
+    bool placed = false;
+    for (double r = 1.0; r <= 4.0 && !placed; r += 1.0)
+      for (const auto& [dx, dy] : std::initializer_list<std::pair<double, double>>{{7, -h / 2},
+                                                                                   {-7 - w, -h / 2},
+                                                                                   {-w / 2, -7 - h},
+                                                                                   {-w / 2, 7},
+                                                                                   {7, -7 - h},
+                                                                                   {-7 - w, -7 - h},
+                                                                                   {7, 7},
+                                                                                   {-7 - w, 7}}) {
+        const double ox = dx + (dx > 0 ? 1 : dx < -w / 2 - 1 ? -1 : 0) * (r - 1) * 14;
+        const double oy = dy + (dy > 0 ? 1 : dy < -h / 2 - 1 ? -1 : 0) * (r - 1) * 10;
+        box = {mx + ox, my + oy, mx + ox + w, my + oy + h};
+        if (free_at(box)) {
+          placed = true;
+          break;
+        }
+      }
+    if (!placed) box = {mx + 7, my - h / 2, mx + 7 + w, my + h / 2};  // crowded: beside the mark
+    taken.push_back(box);
+    std::snprintf(buf, sizeof buf, "<text class=\"label\" x=\"%.1f\" y=\"%.1f\">", box[0],
+                  box[3] - 2.5);
+    config_labels += buf + svg::text_with_title(text, 40) + "</text>";
+  }
+  p.overlay("<g clip-path=\"url(#trade-map-" + escape(c.track.id) + "-clip)\">" + config_labels +
+            "</g>\n");
   p.add(marks);
-  return figure(p.render(),
-                "Light: faster. Thin lines join equal lap times; the dashed line is the break-even "
-                "through " +
-                    car.configs[g.config].name +
-                    ": above it extra downforce costs more drag than it pays.");
+  p.key({"break-even: " + car.configs[g.config].name,
+         "<line x1=\"0\" y1=\"5\" x2=\"16\" y2=\"5\" class=\"breakeven\"/>"});
+  p.key({"equal lap time (s)", "<line x1=\"0\" y1=\"5\" x2=\"16\" y2=\"5\" class=\"contour\"/>"});
+  p.overlay(svg::colour_bar("trade-map-" + c.track.id + "-ramp", sx.p1 + 16, sy.p1 + 90, 14, 200,
+                            tmin, tmax, false, "lap time (s)"));
+  return figure(
+      p.render(),
+      shorten_middle(c.track.name, 60) + ": lap time of " + car.configs[g.config].name +
+          " with its ClA and CdA moved over the map (light: faster; thin lines join "
+          "equal lap times, labelled in s). Every config is marked at its operating point "
+          "with its own lap time; the others differ from " +
+          car.configs[g.config].name +
+          " in more than ClA and CdA (balance, mass). The dashed line is the break-even "
+          "through " +
+          car.configs[g.config].name + ": above it extra downforce costs more drag than it pays.");
+}
+
+std::string verdict_html(const std::string& track_name, const Comparison::PerTrack& pt,
+                         const std::vector<std::string>& names) {
+  std::string o = "<p class=\"verdict\"><b>" + escape(track_name) +
+                  "</b>: " + escape(verdict_sentence(pt, names)) + ".</p>\n";
+  const std::string b = balance_verdict(pt, names);
+  if (!b.empty()) o += "<p class=\"verdict-balance\">" + escape(b) + ".</p>\n";
+  return o;
 }
 
 }  // namespace
@@ -300,6 +714,7 @@ Comparison single_lap_comparison(std::size_t config, LapRun run, const Circuit& 
   Comparison::PerTrack pt;
   pt.entries.push_back(std::move(e));
   pt.best = 0;
+  pt.runner_up = 0;
   pt.margin_s = 0.0;
   c.tracks.push_back(std::move(pt));
   return c;
@@ -319,35 +734,50 @@ std::string html_report(const ReportInput& in) {
       "to a real car by testing, under the series&#8217; rules and the team&#8217;s safety "
       "procedures.</p>\n<main>\n";
 
+  std::vector<std::string> names;
+  if (in.comparison)
+    for (std::size_t k : in.comparison->configs) names.push_back(car.configs[k].name);
+
+  // The answer first: a verdict per track.
+  if (in.comparison && in.comparison->configs.size() > 1) {
+    o += "<section id=\"verdict\"><h2>Verdict</h2>\n";
+    for (std::size_t t = 0; t < circuits.size(); ++t)
+      o += verdict_html(circuits[t].track.name, in.comparison->tracks[t], names);
+    o += "<p class=\"note\">" +
+         escape(std::string(verdict_sign_note) +
+                "; corners, braking and straights add up to the margin.") +
+         "</p></section>\n";
+  }
+
   // Inputs.
   {
     std::vector<std::vector<std::string>> rows;
-    rows.push_back({"car", car.file, car.name, ""});
+    rows.push_back({"car", escape(car.file), escape(car.name), ""});
     for (const auto& c : circuits)
-      rows.push_back(
-          {"track", c.track.file, c.track.name,
-           fixed(c.mesh.length_m, 1) + " m, air " + fixed(c.air.density_kg_m3, 4) + " kg/m3"});
-    o += "<section id=\"inputs\"><h2>Inputs</h2>" + table({"", "file", "name", ""}, rows) +
-         "</section>\n";
+      rows.push_back({"track", escape(c.track.file), escape(c.track.name),
+                      escape(fixed(c.mesh.length_m, 1) + " m, air " +
+                             fixed(c.air.density_kg_m3, 4) + " kg/m3")});
+    if (car.balance_window)
+      rows.push_back({"balance window", "", escape(window_text(*car.balance_window)), ""});
+    o += "<section id=\"inputs\"><h2>Inputs</h2>" +
+         table({"", "file", "name", ""}, rows, "", {1, 2}) + "</section>\n";
   }
 
   if (in.comparison) {
     const Comparison& cmp = *in.comparison;
     // Summary matrix and bars.
     std::vector<std::string> header{"config"};
-    for (const auto& c : circuits) header.push_back(c.track.name + " (s)");
+    for (const auto& c : circuits) header.push_back(nm(c.track.name, track_chars) + " (s)");
     std::vector<std::vector<std::string>> rows;
     std::vector<std::vector<double>> deltas(circuits.size());
-    std::vector<std::string> names;
     for (std::size_t k = 0; k < cmp.configs.size(); ++k) {
-      names.push_back(car.configs[cmp.configs[k]].name);
-      std::vector<std::string> row{names.back()};
+      std::vector<std::string> row{nm(names[k])};
       for (std::size_t t = 0; t < cmp.tracks.size(); ++t) {
         const auto& e = cmp.tracks[t].entries[k];
-        row.push_back(fixed(e.run.summary.lap_time_s, 3) +
-                      (cmp.configs.size() == 1   ? ""
-                       : cmp.tracks[t].best == k ? " best"
-                                                 : " +" + fixed(e.delta_to_best_s, 3)));
+        row.push_back(escape(fixed(e.run.summary.lap_time_s, 3) +
+                             (cmp.configs.size() == 1   ? ""
+                              : cmp.tracks[t].best == k ? " best"
+                                                        : " +" + fixed(e.delta_to_best_s, 3))));
         deltas[t].push_back(e.delta_to_best_s);
       }
       rows.push_back(row);
@@ -358,53 +788,128 @@ std::string html_report(const ReportInput& in) {
     // Bars of the delta to the best need two configs (one lap alone is its own best).
     if (cmp.configs.size() > 1)
       o += figure(svg::bar_chart("lap-bars", "Lap time against the best config on each track",
-                                 "delta to the best (s)", groups, names, deltas),
-                  "Zero: the best config on that track.");
+                                 "delta to the best (s)", groups, names, deltas, trace_width, 320),
+                  "Each bar: the config's lap time minus the track's best; the best is marked "
+                  "\"best\" at zero.");
     o += "</section>\n";
 
     for (std::size_t t = 0; t < cmp.tracks.size(); ++t) {
       const Circuit& c = circuits[t];
       const auto& pt = cmp.tracks[t];
-      o += "<section id=\"track-" + escape(c.track.id) + "\"><h2>" + escape(c.track.name) +
-           "</h2>\n";
-      o += speed_plot(c, pt, car, cmp.configs);
-      if (pt.entries.size() > 1) o += delta_plot(c, pt, car, cmp.configs);
-      o += map_plot(c, pt, car, cmp.configs);
-      o += front_share_plot(c, pt, car, cmp.configs);
-      o += gg_plot(c, pt, car, cmp.configs);
-      // Corners: the best config's, with every config's apex speed.
-      std::vector<std::string> ch{"corner", "apex m"};
-      for (std::size_t k = 0; k < pt.entries.size(); ++k) ch.push_back(names[k] + " apex km/h");
-      ch.push_back("limit (" + names[pt.best] + ")");
-      ch.push_back("axle entry/apex/exit");
-      ch.push_back("front-rear usage entry/apex/exit");
+      const TrackView v{c, pt, names, c.track.id};
+      const std::string id = escape(c.track.id);
+      o += "<section id=\"track-" + id + "\"><h2>" + escape(c.track.name) + "</h2>\n";
+      // The data's verdict: the worst of the configs' (they differ only in the lap spread).
+      if (in.qualities) {
+        const TrackQuality* shown = nullptr;
+        for (const auto& q : *in.qualities)
+          if (q.track_id == c.track.id &&
+              (!shown || q.verdict > shown->verdict ||
+               (q.verdict == shown->verdict && q.spread.value_or(0) > shown->spread.value_or(0))))
+            shown = &q;
+        if (shown)
+          o += "<p class=\"quality\" id=\"quality-" + id + "\">" +
+               (shown->verdict == Verdict::poor ? "<strong>warning:</strong> " : "") +
+               escape(quality_line(*shown)) + "</p>\n";
+      }
+      if (pt.entries.size() > 1) o += verdict_html(c.track.name, pt, names);
+      // The traces: static SVG, and the data the script draws the live plots from.
+      o += "<div class=\"traces\" id=\"traces-" + id + "\">\n";
+      o += "<p class=\"zoom-bar\" hidden=\"hidden\">Traces from <span class=\"zoom-range\"></span>"
+           "<button type=\"button\">whole lap</button>drag across a trace to zoom, double-click "
+           "for the whole lap, click a corner&#8217;s number to zoom to it; the cursor reads out "
+           "every config.</p>\n";
+      o +=
+          "<script type=\"application/json\" class=\"trace-data\">" + trace_data(v) + "</script>\n";
+      o += "<figure class=\"trace\" data-plot=\"speed\"><div class=\"static\">" + speed_plot(v) +
+           "</div><figcaption>" +
+           escape(std::string(pt.entries.size() > 1 ? "Every config overlaid; n" : "N") +
+                  "umbered lines mark the corners' apexes.") +
+           "</figcaption></figure>\n";
+      if (pt.entries.size() > 1)
+        o += "<figure class=\"trace\" data-plot=\"delta\"><div class=\"static\">" + delta_plot(v) +
+             "</div><figcaption>Rising: the config loses time there against " +
+             escape(names[pt.best]) + "; falling: it gains.</figcaption></figure>\n";
+      o += "<figure class=\"trace\" data-plot=\"front\"><div class=\"static\">" +
+           front_share_plot(v) + "</div><figcaption>" +
+           escape(
+               "Weight, downforce by the aero balance, the drag moment and load transfer. Gear "
+               "shifts: each shift's drive cut is bridged by a straight line (the shift's points "
+               "and one either side) in the solid lines; the faint lines behind are the trace as "
+               "solved, with the cuts' spikes. The cursor reads the solid lines." +
+               std::string(window_of(pt.entries[pt.best])
+                               ? " The band is the car's balance window (it applies above its "
+                                 "speed while cornering); rings mark each failing config's worst "
+                                 "point."
+                               : "")) +
+           "</figcaption></figure>\n";
+      o += "</div>\n";
+      o += "<div class=\"pair\">" + map_plot(v) + gg_plot(v) + "</div>\n";
+      // Corners: the best config's, with every config's apex speed; each number zooms the traces.
+      // Two header rows: the apex speeds grouped under one heading, one column per config.
+      std::vector<std::string> ch;
+      for (std::size_t k = 0; k < pt.entries.size(); ++k) ch.push_back(nm(names[k], 14));
+      const std::string top =
+          "<th rowspan=\"2\">corner</th><th rowspan=\"2\">apex m</th><th colspan=\"" +
+          std::to_string(pt.entries.size()) +
+          "\">apex speed (km/h)</th><th rowspan=\"2\">limit</th><th rowspan=\"2\">axle "
+          "entry/apex/exit</th><th rowspan=\"2\">front-rear usage entry/apex/exit</th>";
       std::vector<std::vector<std::string>> crows;
       const auto& bc = pt.entries[pt.best].run.summary.corners;
       for (std::size_t i = 0; i < bc.size(); ++i) {
-        std::vector<std::string> row{std::to_string(bc[i].id) + (bc[i].direction > 0 ? " L" : " R"),
+        std::vector<std::string> row{"<a class=\"corner-link\" href=\"#traces-" + id +
+                                         "\" data-corner=\"" + std::to_string(bc[i].id) + "\">" +
+                                         std::to_string(bc[i].id) +
+                                         (bc[i].direction > 0 ? " L" : " R") + "</a>",
                                      fixed(bc[i].apex_m, 0)};
         for (const auto& e : pt.entries)
           row.push_back(fixed(units::to_kph(e.run.summary.corners[i].apex_mps), 1));
-        row.push_back(bc[i].limit);
-        row.push_back(axle_cell(bc[i]));
-        row.push_back(balance_index_cell(bc[i]));
+        row.push_back(escape(std::string(label(bc[i].limit))));
+        // Breaks allowed after each '/' so that a narrow page wraps the three values.
+        auto breakable = [](const std::string& text) {
+          std::string out;
+          for (char ch_ : text)
+            out += ch_ == '/' ? std::string("/<wbr/>") : escape(std::string(1, ch_));
+          return out;
+        };
+        row.push_back(breakable(axle_cell(bc[i])));
+        row.push_back(breakable(balance_index_cell(bc[i])));
         crows.push_back(row);
       }
-      o += "<h3 id=\"corners-" + escape(c.track.id) + "\">Corners</h3>" + table(ch, crows) +
-           "<p class=\"note\">" + escape(axle_legend() + " (" + names[pt.best] + ")") + "</p>\n";
+      o += "<h3 id=\"corners-" + id + "\">Corners</h3>" + table(ch, crows, "", {}, top) +
+           "<p class=\"note\">" +
+           escape("Corners, limit, axles and usage of the best config, " + names[pt.best] + "; " +
+                  axle_legend() + ". A corner's number zooms the traces to it.") +
+           "</p>\n";
       // Balance per config.
       std::vector<std::vector<std::string>> brows;
       for (std::size_t k = 0; k < pt.entries.size(); ++k) {
-        std::vector<std::string> row{names[k]};
-        const auto cells = balance_cells(pt.entries[k].run.summary.balance);
-        row.insert(row.end(), cells.begin(), cells.end());
+        std::vector<std::string> row{nm(names[k])};
+        for (const auto& cell : balance_cells(pt.entries[k].run.summary.balance))
+          row.push_back(escape(cell));
         brows.push_back(row);
       }
-      o += "<h3 id=\"balance-" + escape(c.track.id) + "\">Balance</h3>" +
-           table({"config", "static front %", "aero 150 km/h % (with drag moment)",
-                  "aero 250 km/h % (with drag moment)", "lowest front share > 200 km/h",
-                  "front-limited corners", "front-limited m"},
+      o += "<h3 id=\"balance-" + id + "\">Balance</h3>" +
+           table(escaped({"config", "static front %", "aero 150 km/h % (with drag moment)",
+                          "aero 250 km/h % (with drag moment)", "lowest front share > 200 km/h",
+                          "front-limited corners", "front-limited m"}),
                  brows);
+      if (const BalanceWindowResult* w = window_of(pt.entries[pt.best])) {
+        std::vector<std::vector<std::string>> wrows;
+        for (std::size_t k = 0; k < pt.entries.size(); ++k) {
+          std::vector<std::string> row{nm(names[k])};
+          for (const auto& cell : window_cells(*pt.entries[k].run.summary.balance.window))
+            row.push_back(escape(cell));
+          wrows.push_back(row);
+        }
+        std::vector<std::string> wh{"config"};
+        for (const auto& h : window_header()) wh.push_back(escape(h));
+        o += "<h3 id=\"window-" + id + "\">Balance window: " + escape(window_text(w->window)) +
+             "</h3>" + table(wh, wrows, "", {3}) +
+             "<p class=\"note\">Front share of the load in fast corners against the window; "
+             "braking / drive: the mean front share above its speed under braking and under "
+             "drive, and how far it moves between them.</p>\n";
+      }
       o += "</section>\n";
     }
   }
@@ -413,18 +918,30 @@ std::string html_report(const ReportInput& in) {
     const Trade& t = *in.trade;
     std::vector<std::vector<std::string>> rows;
     for (const auto& s : t.sensitivities)
-      rows.push_back({circuits[s.track].track.name, car.configs[s.config].name,
+      rows.push_back({nm(circuits[s.track].track.name, track_chars), nm(car.configs[s.config].name),
                       fixed(s.lap_time_s, 3), fixed(0.1 * s.dt_dcla_s_per_m2, 4),
                       fixed(0.1 * s.dt_dcda_s_per_m2, 4), fixed(10 * s.dt_dmass_s_per_kg, 4),
                       fixed(s.dt_dpower_s_per_percent, 4), fixed(s.breakeven_dcda_per_dcla, 3)});
     o += "<section id=\"trade\"><h2>Sensitivities</h2>" +
-         table({"track", "config", "lap s", "s per +0.1 m2 ClA", "s per +0.1 m2 CdA",
-                "s per +10 kg", "s per +1 % power", "CdA m2 one m2 of ClA may cost"},
+         table(escaped({"track", "config", "lap s", "s per +0.1 m2 ClA", "s per +0.1 m2 CdA",
+                        "s per +10 kg", "s per +1 % power", "CdA m2 one m2 of ClA may cost"}),
                rows);
+    // Where each config change's lap time comes from: the terminal's table.
+    const TextTable a = attribution_table(car, t, circuits);
+    if (!a.rows.empty()) {
+      std::vector<std::vector<std::string>> arows;
+      for (const auto& r : a.rows) arows.push_back(escaped(r));
+      o += "<h3 id=\"attribution\">Where a config change's lap time comes from</h3>" +
+           table(escaped(a.header), arows, "", {7}, "", {1, 3, 4}) + "<p class=\"note\">" +
+           escape(attribution_caption()) + ".</p>\n";
+    }
+    o += "<div class=\"pair\">";
     for (const auto& g : t.grids) o += trade_plot(circuits[g.track], g, t, car);
-    o += "</section>\n";
+    o += "</div></section>\n";
   }
-  o += "</main>\n</body>\n</html>\n";
+  o += "</main>\n";
+  if (in.comparison) o += "<script>" + std::string(traces_js) + "</script>\n";
+  o += "</body>\n</html>\n";
   return o;
 }
 

@@ -3,6 +3,9 @@
 #include "lapwing/base/units.hpp"
 #include "lapwing/base/version.hpp"
 #include "lapwing/io/csv_writer.hpp"
+#include "lapwing/report/cells.hpp"
+#include "lapwing/report/track_quality_text.hpp"
+#include "lapwing/report/labels.hpp"
 
 namespace lapwing {
 
@@ -40,11 +43,66 @@ void write_balance(JsonWriter& w, const BalanceSummary& b) {
   for (int id : b.front_limited_corners) w.value(id);
   w.end_array()
       .field("balance_index_threshold", b.threshold)
-      .field("front_limited_length_m", b.front_limited_length_m)
-      .end_object();
+      .field("front_limited_length_m", b.front_limited_length_m);
+  w.key("window");
+  if (b.window)
+    write_balance_window(w, *b.window);
+  else
+    w.null();
+  w.end_object();
 }
 
-std::string summary_json(const std::string& car_name, const std::vector<LapSummary>& results) {
+void write_balance_window(JsonWriter& w, const BalanceWindowResult& r) {
+  const bool tested = r.time_s > 0.0;
+  w.begin_object()
+      .field("front_share_min", r.window.front_share_min)
+      .field("front_share_max", r.window.front_share_max)
+      .field("above_kph", units::to_kph(r.window.above_mps))
+      .field("lateral_above_g", balance_window_lateral_g)
+      .field("result", window_result_name(r))
+      .field("time_s", r.time_s);
+  // Fields about the window's points are null when the lap never meets its conditions.
+  auto tested_field = [&](const char* key, double v) {
+    w.key(key);
+    if (tested)
+      w.value(v);
+    else
+      w.null();
+  };
+  tested_field("outside_fraction", r.outside_fraction);
+  tested_field("lowest_front_share", r.lowest_share);
+  tested_field("highest_front_share", r.highest_share);
+  tested_field("worst_excursion", r.worst_excursion);
+  tested_field("margin", r.margin);
+  tested_field("worst_at_m", r.worst_at_m);
+  tested_field("worst_speed_kph", units::to_kph(r.worst_speed_mps));
+  w.key("worst_phase");
+  if (tested)
+    w.value(std::string(phase_name(r.worst_phase)));
+  else
+    w.null();
+  w.key("worst_corner");
+  if (tested && r.worst_corner)
+    w.value(r.worst_corner);
+  else
+    w.null();
+  w.key("worst_before_corner");
+  if (tested && !r.worst_corner && r.next_corner)
+    w.value(r.next_corner);
+  else
+    w.null();
+  optional_field(w, "braking_front_share", r.braking_share);
+  optional_field(w, "accelerating_front_share", r.accelerating_share);
+  w.key("share_movement");
+  if (r.braking_share && r.accelerating_share)
+    w.value(*r.braking_share - *r.accelerating_share);
+  else
+    w.null();
+  w.end_object();
+}
+
+std::string summary_json(const std::string& car_name, const std::vector<LapSummary>& results,
+                         const std::vector<TrackQuality>& qualities) {
   JsonWriter w;
   w.begin_object().field("lapwing", version()).field("car", car_name);
   w.key("results").begin_array();
@@ -75,10 +133,10 @@ std::string summary_json(const std::string& car_name, const std::vector<LapSumma
           .field("apex_kph", units::to_kph(c.apex_mps))
           .field("exit_kph", units::to_kph(c.exit_mps))
           .field("time_s", c.time_s)
-          .field("limit", c.limit)
-          .field("entry_axle", c.entry_axle)
-          .field("apex_axle", c.apex_axle)
-          .field("exit_axle", c.exit_axle)
+          .field("limit", label(c.limit))
+          .field("entry_axle", label(c.entry_axle))
+          .field("apex_axle", label(c.apex_axle))
+          .field("exit_axle", label(c.exit_axle))
           .field("entry_balance_index", c.entry_balance_index)
           .field("apex_balance_index", c.apex_balance_index)
           .field("exit_balance_index", c.exit_balance_index)
@@ -86,6 +144,8 @@ std::string summary_json(const std::string& car_name, const std::vector<LapSumma
     }
     w.end_array();
     write_balance(w, s.balance);
+    for (const auto& q : qualities)
+      if (q.track_id == s.track_id && q.config == s.config) write_track_quality(w, q);
     w.end_object();
   }
   w.end_array().end_object();
@@ -165,10 +225,10 @@ constexpr CornerColumn corner_columns[] = {
     {"exit_kph",
      [](std::string& o, const CornerRow& r) { csv_number(o, units::to_kph(r.c.exit_mps)); }},
     {"time_s", [](std::string& o, const CornerRow& r) { csv_number(o, r.c.time_s); }},
-    {"limit", [](std::string& o, const CornerRow& r) { csv_text(o, r.c.limit); }},
-    {"entry_axle", [](std::string& o, const CornerRow& r) { csv_text(o, r.c.entry_axle); }},
-    {"apex_axle", [](std::string& o, const CornerRow& r) { csv_text(o, r.c.apex_axle); }},
-    {"exit_axle", [](std::string& o, const CornerRow& r) { csv_text(o, r.c.exit_axle); }},
+    {"limit", [](std::string& o, const CornerRow& r) { csv_text(o, label(r.c.limit)); }},
+    {"entry_axle", [](std::string& o, const CornerRow& r) { csv_text(o, label(r.c.entry_axle)); }},
+    {"apex_axle", [](std::string& o, const CornerRow& r) { csv_text(o, label(r.c.apex_axle)); }},
+    {"exit_axle", [](std::string& o, const CornerRow& r) { csv_text(o, label(r.c.exit_axle)); }},
     {"entry_balance_index",
      [](std::string& o, const CornerRow& r) { csv_number(o, r.c.entry_balance_index); }},
     {"apex_balance_index",

@@ -3,6 +3,7 @@
 #include "lapwing/base/format.hpp"
 #include "lapwing/base/units.hpp"
 #include "lapwing/report/cells.hpp"
+#include "lapwing/report/labels.hpp"
 #include "lapwing/report/text_table.hpp"
 
 namespace lapwing {
@@ -29,6 +30,20 @@ std::string balance_text(const BalanceSummary& b) {
       "         front limits at the apex of corners: " + (ids.empty() ? std::string("none") : ids) +
       "; front ahead of the rear by more than " + fixed(b.threshold, 2) + " of usage over " +
       fixed(b.front_limited_length_m, 0) + " m of the lap\n";
+  if (b.window) {
+    const BalanceWindowResult& w = *b.window;
+    const auto cells = window_cells(w);
+    o += "         balance window " + window_text(w.window) + ": " + cells[0];
+    if (w.time_s > 0.0)
+      o += ", front share " + cells[1] + " % there, worst " + cells[2] + ", outside " + cells[3] +
+           " % of its " + fixed(w.time_s, 2) + " s";
+    o += "\n";
+    if (w.braking_share && w.accelerating_share)
+      o += "         above " + fixed(units::to_kph(w.window.above_mps), 0) +
+           " km/h the front share moves " + cells[5] +
+           " points: " + fixed(100 * *w.braking_share, 1) + " % braking, " +
+           fixed(100 * *w.accelerating_share, 1) + " % under drive (time-weighted means)\n";
+  }
   return o;
 }
 
@@ -53,7 +68,7 @@ std::string lap_table(const LapSummary& s) {
       rows.push_back({std::to_string(c.id), c.direction > 0 ? "L" : "R", fixed(c.start_m, 1),
                       fixed(c.apex_m, 1), fixed(c.end_m, 1), fixed(units::to_kph(c.entry_mps), 1),
                       fixed(units::to_kph(c.apex_mps), 1), fixed(units::to_kph(c.exit_mps), 1),
-                      fixed(c.time_s, 3), c.limit, axle_cell(c), balance_index_cell(c)});
+                      fixed(c.time_s, 3), label(c.limit), axle_cell(c), balance_index_cell(c)});
     o += "\n" + text_table({"corner", "turn", "start m", "apex m", "end m", "entry km/h",
                             "apex km/h", "exit km/h", "time s", "limit", "axle entry/apex/exit",
                             "front-rear usage entry/apex/exit"},

@@ -5,6 +5,9 @@
 #include <cstdio>
 #include <limits>
 
+#include "lapwing/report/text_table.hpp"
+#include "lapwing/base/interpolate.hpp"
+
 namespace lapwing::svg {
 
 namespace {
@@ -53,14 +56,12 @@ const std::string& series_colour(std::size_t i) {
 std::string ramp_colour(double t) {
   t = std::clamp(t, 0.0, 1.0);
   const double stops[3][3] = {{35, 48, 92}, {42, 127, 138}, {242, 229, 138}};
-  const double f = t * 2.0;
-  const int k = std::min(1, static_cast<int>(f));
-  const double w = f - k;
+  const Bracket b = even_bracket(t * 2.0, 2);
+  auto channel = [&](int c) {
+    return static_cast<int>(std::lround(lerp(stops[b.i][c], stops[b.i + 1][c], b.w)));
+  };
   char buf[8];
-  std::snprintf(buf, sizeof buf, "#%02x%02x%02x",
-                static_cast<int>(std::lround(stops[k][0] + w * (stops[k + 1][0] - stops[k][0]))),
-                static_cast<int>(std::lround(stops[k][1] + w * (stops[k + 1][1] - stops[k][1]))),
-                static_cast<int>(std::lround(stops[k][2] + w * (stops[k + 1][2] - stops[k][2]))));
+  std::snprintf(buf, sizeof buf, "#%02x%02x%02x", channel(0), channel(1), channel(2));
   return buf;
 }
 
@@ -85,6 +86,49 @@ std::string escape(const std::string& s) {
     }
   }
   return o;
+}
+
+std::string text_with_title(const std::string& text, std::size_t max) {
+  const std::string shown = shorten_middle(text, max);
+  return escape(shown) + (shown == text ? std::string() : "<title>" + escape(text) + "</title>");
+}
+
+std::string legend_symbol(const Series& s) {
+  const std::string& c = series_colour(s.colour);
+  if (s.points)
+    return "<circle cx=\"8\" cy=\"5\" r=\"" + num(std::max(s.radius, 2.5)) + "\" fill=\"" + c +
+           "\" fill-opacity=\"" + (s.radius > 2.0 ? "0.9" : "0.45") + "\"/>";
+  return "<line x1=\"0\" y1=\"5\" x2=\"16\" y2=\"5\" stroke=\"" + c + "\" stroke-width=\"" +
+         num(std::max(s.width, 1.0)) + "\" stroke-opacity=\"" + num(s.opacity) + "\"/>";
+}
+
+std::string colour_bar(const std::string& id, double x, double y, double width, double height,
+                       double lo, double hi, bool light_high, const std::string& title) {
+  // A gradient through the ramp's stops (the ramp is piecewise linear in three stops, so 11
+  // stops reproduce it), top = hi.
+  std::string o =
+      "<defs><linearGradient id=\"" + escape(id) + "\" x1=\"0\" y1=\"1\" x2=\"0\" y2=\"0\">";
+  for (int k = 0; k <= 10; ++k) {
+    const double f = k / 10.0;  // 0 at the bottom (lo), 1 at the top (hi)
+    o += "<stop offset=\"" + num(100 * f) + "%\" stop-color=\"" +
+         ramp_colour(light_high ? f : 1.0 - f) + "\"/>";
+  }
+  o += "</linearGradient></defs>";
+  o += "<text class=\"legend\" x=\"" + num(x) + "\" y=\"" + num(y - 8) + "\">" + escape(title) +
+       "</text>";
+  o += "<rect class=\"colour-bar\" x=\"" + num(x) + "\" y=\"" + num(y) + "\" width=\"" +
+       num(width) + "\" height=\"" + num(height) + "\" fill=\"url(#" + escape(id) + ")\"/>";
+  if (hi > lo) {
+    const auto t = nice_ticks(lo, hi, 5);
+    const double step = t.size() > 1 ? t[1] - t[0] : hi - lo;
+    for (double v : t) {
+      const double py = y + height * (hi - v) / (hi - lo);
+      o += "<line class=\"bar-tick\" x1=\"" + num(x + width) + "\" y1=\"" + num(py) + "\" x2=\"" +
+           num(x + width + 4) + "\" y2=\"" + num(py) + "\"/><text class=\"tick\" x=\"" +
+           num(x + width + 7) + "\" y=\"" + num(py + 4) + "\">" + tick_text(v, step) + "</text>";
+    }
+  }
+  return o + "\n";
 }
 
 Plot::Plot(std::string id, std::string title, std::string x_title, std::string y_title, int width,
@@ -182,6 +226,7 @@ std::string Plot::render() const {
       o += "</g>\n";
     } else {
       o += "<polyline fill=\"none\" stroke=\"" + c + "\" stroke-width=\"" + num(s.width) +
+           (s.opacity < 1.0 ? "\" stroke-opacity=\"" + num(s.opacity) : std::string()) +
            "\" stroke-linejoin=\"round\" points=\"";
       for (std::size_t i = 0; i < s.x.size(); ++i)
         o += (i ? " " : "") + num(sx(s.x[i])) + "," + num(sy(s.y[i]));
@@ -198,15 +243,17 @@ std::string Plot::render() const {
          "\" text-anchor=\"middle\">" + escape(l.text) + "</text>\n";
   o += "</g>\n";
   // Legend, right of the plot area.
-  double ly = sy.p1 + 6;
-  for (const auto& s : series_) {
-    if (s.name.empty()) continue;
-    o += "<rect x=\"" + num(sx.p1 + 12) + "\" y=\"" + num(ly) +
-         "\" width=\"14\" height=\"4\" fill=\"" + series_colour(s.colour) +
-         "\"/><text class=\"legend\" x=\"" + num(sx.p1 + 32) + "\" y=\"" + num(ly + 6) + "\">" +
-         escape(s.name) + "</text>\n";
+  // Legend, right of the plot area: each entry's symbol as it is drawn in the plot.
+  double ly = sy.p1 + 4;
+  auto entry = [&](const std::string& name, const std::string& symbol) {
+    o += "<g class=\"legend-entry\" transform=\"translate(" + num(sx.p1 + 12) + " " + num(ly) +
+         ")\">" + symbol + "<text class=\"legend\" x=\"22\" y=\"9\">" +
+         text_with_title(name, legend_chars) + "</text></g>\n";
     ly += 16;
-  }
+  };
+  for (const auto& s : series_)
+    if (!s.name.empty() && s.in_legend) entry(s.name, legend_symbol(s));
+  for (const auto& k : keys_) entry(k.name, k.symbol);
   o += "<text class=\"axis-title\" x=\"" + num(0.5 * (sx.p0 + sx.p1)) + "\" y=\"" +
        num(height_ - 8) + "\" text-anchor=\"middle\">" + escape(x_title_) + "</text>\n";
   o += "<text class=\"axis-title\" transform=\"translate(16 " + num(0.5 * (sy.p0 + sy.p1)) +
@@ -224,26 +271,56 @@ std::string bar_chart(const std::string& id, const std::string& title, const std
   for (const auto& g : values)
     for (double v : g) top = std::max(top, v);
   p.x_range(0.0, static_cast<double>(groups.size()));
-  p.y_range(0.0, top > 0 ? top * 1.1 : 1.0);
+  p.y_range(0.0, top > 0 ? top * 1.15 : 1.0);  // room for the values above the bars
   const Scale sx = p.x_scale(), sy = p.y_scale();
   std::string cells, labels;
   const double group_w = (sx.p1 - sx.p0) / std::max<std::size_t>(1, groups.size());
   const double bar_w = 0.8 * group_w / std::max<std::size_t>(1, bars.size());
+  // Values above the bars where a bar is wide enough for "+0.00" at 10 px, upright otherwise.
+  const bool upright = bar_w >= 30.0;
   for (std::size_t g = 0; g < groups.size(); ++g) {
     for (std::size_t b = 0; b < bars.size() && b < values[g].size(); ++b) {
       const double x = sx.p0 + g * group_w + 0.1 * group_w + b * bar_w;
-      const double y = sy(values[g][b]);
-      cells += "<rect x=\"" + num(x) + "\" y=\"" + num(y) + "\" width=\"" + num(bar_w * 0.9) +
-               "\" height=\"" + num(sy.p0 - y) + "\" fill=\"" + series_colour(b) + "\"><title>" +
-               escape(groups[g] + ", " + bars[b]) + "</title></rect>\n";
+      const double v = values[g][b];
+      const double y = sy(v);
+      const double cx = x + 0.45 * bar_w;
+      const std::string tip = "<title>" + escape(groups[g] + ", " + bars[b]) + "</title>";
+      if (v > 0.0) {
+        cells += "<rect x=\"" + num(x) + "\" y=\"" + num(y) + "\" width=\"" + num(bar_w * 0.9) +
+                 "\" height=\"" + num(sy.p0 - y) + "\" fill=\"" + series_colour(b) + "\">" + tip +
+                 "</rect>\n";
+        char buf[32];
+        std::snprintf(buf, sizeof buf, "+%.*f", top >= 1.0 ? 2 : 3, v);
+        labels += upright ? "<text class=\"bar-value\" x=\"" + num(cx) + "\" y=\"" + num(y - 4) +
+                                "\" text-anchor=\"middle\">" + buf + "</text>\n"
+                          : "<text class=\"bar-value\" transform=\"translate(" + num(cx + 3) + " " +
+                                num(y - 4) + ") rotate(-90)\">" + buf + "</text>\n";
+      } else {
+        // The best: no height to show, so a marked foot and the word.
+        cells += "<rect class=\"best-bar\" x=\"" + num(x) + "\" y=\"" + num(sy.p0 - 4) +
+                 "\" width=\"" + num(bar_w * 0.9) + "\" height=\"4\" fill=\"" + series_colour(b) +
+                 "\">" + tip + "</rect>\n";
+        labels += "<path class=\"best-mark\" d=\"M" + num(cx - 5) + " " + num(sy.p0 - 14) + " L" +
+                  num(cx + 5) + " " + num(sy.p0 - 14) + " L" + num(cx) + " " + num(sy.p0 - 6) +
+                  " Z\" fill=\"" + series_colour(b) + "\"/>";
+        labels += upright ? "<text class=\"bar-best\" x=\"" + num(cx) + "\" y=\"" +
+                                num(sy.p0 - 18) + "\" text-anchor=\"middle\">best</text>\n"
+                          : "<text class=\"bar-best\" transform=\"translate(" + num(cx + 4) + " " +
+                                num(sy.p0 - 18) + ") rotate(-90)\">best</text>\n";
+      }
     }
+    // The group's name, shortened to the group's width (about 6.5 px a character at 11 px).
+    const auto fits = static_cast<std::size_t>(std::max(4.0, group_w / 6.5));
     labels += "<text class=\"tick\" x=\"" + num(sx.p0 + (g + 0.5) * group_w) + "\" y=\"" +
-              num(sy.p0 + 15) + "\" text-anchor=\"middle\">" + escape(groups[g]) + "</text>\n";
+              num(sy.p0 + 15) + "\" text-anchor=\"middle\">" + text_with_title(groups[g], fits) +
+              "</text>\n";
   }
   p.underlay(cells);
   p.overlay(labels);
   p.hide_x_ticks();
-  for (std::size_t b = 0; b < bars.size(); ++b) p.add(Series{bars[b], {}, {}, b, false, 0.0});
+  for (std::size_t b = 0; b < bars.size(); ++b)
+    p.key({bars[b],
+           "<rect x=\"2\" y=\"0\" width=\"12\" height=\"10\" fill=\"" + series_colour(b) + "\"/>"});
   return p.render();
 }
 
@@ -256,7 +333,7 @@ std::vector<std::array<double, 4>> contour_segments(const std::vector<double>& x
   // Point where the level crosses the edge from (xa, ya, za) to (xb, yb, zb).
   auto cross = [level](double xa, double ya, double za, double xb, double yb, double zb) {
     const double t = (level - za) / (zb - za);
-    return std::array<double, 2>{xa + t * (xb - xa), ya + t * (yb - ya)};
+    return std::array<double, 2>{lerp(xa, xb, t), lerp(ya, yb, t)};
   };
   for (std::size_t i = 0; i + 1 < nx; ++i)
     for (std::size_t j = 0; j + 1 < ny; ++j) {

@@ -67,6 +67,38 @@ std::string trade_json(const Car& car, const Trade& t, const std::vector<Circuit
   return w.str();
 }
 
+std::string attribution_caption() {
+  return "where a config change's lap time comes from (first order at the configs' operating "
+         "points, with the residual; shares of totals of " +
+         fixed(attribution_share_min_total_s, 2) + " s and more)";
+}
+
+TextTable attribution_table(const Car& car, const Trade& t, const std::vector<Circuit>& circuits) {
+  TextTable out;
+  out.header = {"track",      "change",     "total s",          "from ClA s",
+                "from CdA s", "residual s", "sensitivities of", "note"};
+  auto traded = [&](std::size_t c) {
+    for (const auto& s : t.sensitivities)
+      if (s.config == c) return true;
+    return false;
+  };
+  for (const auto& a : t.attributions) {
+    // The changes to or from a traded config; trade.json has them all.
+    if (!traded(a.a) && !traded(a.b)) continue;
+    // Shares of a total under attribution_share_min_total_s would be ratios of noise.
+    const bool shares = std::abs(a.total_s) >= attribution_share_min_total_s;
+    auto part = [&](double x) {
+      return signed_fixed(x, 3) +
+             (shares ? " (" + fixed(100 * x / a.total_s, 0) + " %)" : std::string());
+    };
+    out.rows.push_back(
+        {circuits[a.track].track.id, car.configs[a.a].name + " -> " + car.configs[a.b].name,
+         signed_fixed(a.total_s, 3), part(a.from_cla_s), part(a.from_cda_s),
+         signed_fixed(a.residual_s, 3), car.configs[a.reference].name, attribution_note(a)});
+  }
+  return out;
+}
+
 std::string trade_table(const Car& car, const Trade& t, const std::vector<Circuit>& circuits) {
   std::string o = "car     " + car.name + " (" + car.file + "), central differences of +-" +
                   fixed(100 * t.options.step, 1) + " %\n";
@@ -81,34 +113,8 @@ std::string trade_table(const Car& car, const Trade& t, const std::vector<Circui
                           "s per +10 kg", "s per +1 % power", "CdA m2 one m2 of ClA may cost"},
                          rows);
   o += "\nexchange rate: +1 m2 of ClA pays while it costs less than the last column in CdA\n";
-  if (!t.attributions.empty()) {
-    std::vector<std::vector<std::string>> arows;
-    auto traded = [&](std::size_t c) {
-      for (const auto& s : t.sensitivities)
-        if (s.config == c) return true;
-      return false;
-    };
-    for (const auto& a : t.attributions) {
-      // The terminal shows the changes to or from a traded config; trade.json has them all.
-      if (!traded(a.a) && !traded(a.b)) continue;
-      // Shares of a total under attribution_share_min_total_s would be ratios of noise.
-      const bool shares = std::abs(a.total_s) >= attribution_share_min_total_s;
-      auto part = [&](double x) {
-        return signed_fixed(x, 3) +
-               (shares ? " (" + fixed(100 * x / a.total_s, 0) + " %)" : std::string());
-      };
-      arows.push_back(
-          {circuits[a.track].track.id, car.configs[a.a].name + " -> " + car.configs[a.b].name,
-           signed_fixed(a.total_s, 3), part(a.from_cla_s), part(a.from_cda_s),
-           signed_fixed(a.residual_s, 3), car.configs[a.reference].name, attribution_note(a)});
-    }
-    o += "\nwhere a config change's lap time comes from (first order at the configs' operating "
-         "points, with the residual; shares of totals of " +
-         fixed(attribution_share_min_total_s, 2) + " s and more)\n" +
-         text_table({"track", "change", "total s", "from ClA s", "from CdA s", "residual s",
-                     "sensitivities of", "note"},
-                    arows);
-  }
+  const TextTable a = attribution_table(car, t, circuits);
+  if (!a.rows.empty()) o += "\n" + attribution_caption() + "\n" + text_table(a.header, a.rows);
   return o;
 }
 

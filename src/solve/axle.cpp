@@ -77,23 +77,6 @@ double transfer_fixed_point(Phi phi) {
 }
 }  // namespace
 
-AxleLoads axle_loads(const Car& car, double drag_n, double downforce_n, double balance,
-                     double cos_slope, double sin_slope, double ax) {
-  const double weight = car.mass_kg * units::g0;
-  const double total = weight * cos_slope + downforce_n;
-  const double front = weight * cos_slope * car.front_weight + downforce_n * balance -
-                       (drag_n * car.drag_height_m + car.mass_kg * ax * car.cg_height_m +
-                        weight * sin_slope * car.cg_height_m) /
-                           car.wheelbase_m;
-  return {front, total - front};
-}
-
-std::optional<double> aero_balance_with_drag_moment(double cla_m2, double cda_m2, double balance,
-                                                    double drag_height_m, double wheelbase_m) {
-  if (!(cla_m2 > 0.0)) return std::nullopt;
-  return (cla_m2 * balance - cda_m2 * drag_height_m / wheelbase_m) / cla_m2;
-}
-
 AxleUsage axle_usage(const Envelope& env, const AxleLoads& loads, double fx, double ay) {
   const Car& car = env.car();
   const TyreModel& t = env.tyres();
@@ -136,9 +119,9 @@ struct Aero {
 Aero aero_at(const Envelope& env, double u, double cos_slope, double sin_slope, bool trimmed) {
   const Envelope::Sample s = env.sample_sq(u, trimmed);
   const double down = s.lift_coef * u, drag = s.drag_coef * u;
-  const double load = env.weight_n() * cos_slope + down;
+  const double load = normal_load_n(env.weight_n(), cos_slope, down);
   return {drag, down, s.balance,
-          drag + env.rolling_resistance() * load + env.weight_n() * sin_slope};
+          resistance_n(drag, env.rolling_resistance(), load, env.weight_n(), sin_slope)};
 }
 
 double left_on(const TyreModel& t, double axle_load, double fy) {

@@ -67,14 +67,16 @@ AeroPoint table_point(const AeroConfig& a, double v) {
 // The first speed on a grid of `step` at which a gearless car's drive falls below its
 // resistance on the level, with and without the straight-line trim (the higher of the two top
 // speeds), read straight from the config's data; 0 when there is none up to `ceiling`.
-double level_top_speed_bound(const Car& car, double rho, double step, double ceiling) {
-  const AeroConfig& a = car.configs.front();
+double level_top_speed_bound(const ConfiguredCar& configured, double rho, double step,
+                             double ceiling) {
+  const Car& car = configured.car();
+  const AeroConfig& a = configured.aero();
   const double weight = car.mass_kg * units::g0, crr = car.tyres.rolling_resistance;
   double hf = a.map ? a.map->static_front_m : 0.0, hr = a.map ? a.map->static_rear_m : 0.0;
   // Resistance on the level: 0.5 rho CdA v^2 + Crr (m g + 0.5 rho ClA v^2).
   auto resistance = [&](double cda, double cla, double v) {
     const double q = 0.5 * rho * v * v;
-    return cda * q + crr * (weight + cla * q);
+    return resistance_n(cda * q, crr, normal_load_n(weight, 1.0, cla * q), weight, 0.0);
   };
   const std::size_t steps = static_cast<std::size_t>(std::ceil(ceiling / step));
   for (std::size_t k = 1; k <= steps; ++k) {
@@ -90,11 +92,17 @@ double level_top_speed_bound(const Car& car, double rho, double step, double cei
 
 }  // namespace
 
-Envelope::Envelope(const Car& car, const Air& air, EnvelopeOptions options)
-    : Envelope((require_valid(car.validate(), car.subject()), Unchecked{}), car, air, options) {}
+Envelope::Envelope(const ConfiguredCar& car, const Air& air, EnvelopeOptions options)
+    : Envelope((require_valid(car.car().validate(), car.car().subject()), Unchecked{}), car, air,
+               options) {}
 
-Envelope::Envelope(Unchecked, const Car& car, const Air& air, EnvelopeOptions options)
-    : car_(car),
+Envelope::Envelope(Unchecked, const ConfiguredCar& configured, const Air& air,
+                   EnvelopeOptions options)
+    : Envelope(Unchecked{}, configured, configured.car(), air, options) {}
+
+Envelope::Envelope(Unchecked, const ConfiguredCar& configured, const Car& car, const Air& air,
+                   EnvelopeOptions options)
+    : car_(configured),
       tyres_(car.tyres),
       mass_(car.mass_kg),
       mass_eff_(car.mass_kg * (1.0 + car.inertia_factor)),
@@ -102,14 +110,13 @@ Envelope::Envelope(Unchecked, const Car& car, const Air& air, EnvelopeOptions op
       crr_(car.tyres.rolling_resistance),
       rho_(air.density_kg_m3),
       table_margin_(options.table_margin) {
-  assert(car.configs.size() == 1 && "Envelope takes a configured car");
   require_valid(FirstViolation()
                     .range("density_kg_m3", air.density_kg_m3, positive(), Quantity::number)
                     .result(),
                 "air");
   require_valid(options.validate(), "envelope options");
   const Powertrain& p = car.powertrain;
-  const AeroConfig& a = car.configs.front();
+  const AeroConfig& a = configured.aero();
   const double r = car.tyres.rolling_radius_m;
   // The tables' top, from the car. A geared car: its rev limit in top gear, beyond which the
   // engine gives nothing and the speed is held (the model's cap). A gearless car: its
@@ -122,7 +129,7 @@ Envelope::Envelope(Unchecked, const Car& car, const Air& air, EnvelopeOptions op
     table_top_ = v_rev <= ceiling ? TopSpeedLimit::rev_limit : TopSpeedLimit::ceiling;
   } else {
     constexpr double search_step_mps = 0.5;
-    const double bound = level_top_speed_bound(car, rho_, search_step_mps, ceiling);
+    const double bound = level_top_speed_bound(configured, rho_, search_step_mps, ceiling);
     const bool finite = bound > 0.0 && options.table_margin * bound < ceiling;
     v_max_ = finite ? options.table_margin * bound : ceiling;
     table_top_ = finite ? TopSpeedLimit::drag : TopSpeedLimit::ceiling;
@@ -197,13 +204,11 @@ Envelope::Envelope(Unchecked, const Car& car, const Air& air, EnvelopeOptions op
 }
 
 AeroPoint Envelope::aero_point(double v) const {
-  if (map_points_.empty()) return table_point(car_.configs.front(), v);
-  const double f = std::clamp(v / map_dv_, 0.0, static_cast<double>(map_points_.size() - 1));
-  const std::size_t i = std::min(static_cast<std::size_t>(f), map_points_.size() - 2);
-  const double w = f - static_cast<double>(i);
-  const AeroPoint& p = map_points_[i];
-  const AeroPoint& q = map_points_[i + 1];
-  auto mix = [w](double x, double y) { return x + w * (y - x); };
+  if (map_points_.empty()) return table_point(car_.aero(), v);
+  const Bracket b = even_bracket(v / map_dv_, map_points_.size() - 1);
+  const AeroPoint& p = map_points_[b.i];
+  const AeroPoint& q = map_points_[b.i + 1];
+  auto mix = [w = b.w](double x, double y) { return lerp(x, y, w); };
   return {mix(p.cda_m2, q.cda_m2),           mix(p.cla_m2, q.cla_m2),
           mix(p.balance, q.balance),         mix(p.front_ride_m, q.front_ride_m),
           mix(p.rear_ride_m, q.rear_ride_m), p.off_map || q.off_map,

@@ -8,6 +8,7 @@
 #include <cmath>
 #include <limits>
 #include <sstream>
+#include <stdexcept>
 #include <tuple>
 #include <utility>
 
@@ -62,11 +63,11 @@ struct PathForces {
                                                      const Envelope::Rows& rows, double v2,
                                                      double abs_curvature, const Slope& slope) {
   const Envelope::Sample s = rows.at(v2);
-  const double load = env.weight_n() * slope.cos + s.lift_coef * v2;
+  const double load = normal_load_n(env.weight_n(), slope.cos, s.lift_coef * v2);
   const TyreModel::Limits lim = env.tyres().limits(load);
   const double fy = env.mass_kg() * v2 * abs_curvature;
   return {env.tyres().long_force_left(lim, fy),
-          s.drag_coef * v2 + env.rolling_resistance() * load + env.weight_n() * slope.sin,
+          resistance_n(s.drag_coef * v2, env.rolling_resistance(), load, env.weight_n(), slope.sin),
           s.drive_n};
 }
 
@@ -510,11 +511,32 @@ Lap solve_lap(const Envelope& env, const Mesh& mesh, double start_speed_mps) {
   return solver.take();
 }
 
-const Lap& LapSolver::solve(const Envelope& env, const Mesh& mesh, double start_speed_mps,
-                            bool channels) {
+const Lap& LapSolver::solve(const Envelope& env, const Mesh& mesh, double start_speed_mps) {
+  // The channels pass overwrites every channel: they keep their storage from the last lap (no
+  // clear, which would cost a fill of each on the way back).
+  speed_pass(env, mesh, start_speed_mps);
+  return add_channels(env, mesh);
+}
+
+const Lap& LapSolver::solve_speed(const Envelope& env, const Mesh& mesh, double start_speed_mps) {
+  speed_pass(env, mesh, start_speed_mps);
+  // Speed, phase and time only: what a study that needs the lap time reads. The channels of an
+  // earlier lap go, so that none is read against this lap's speeds.
+  Lap& lap = lap_;
+  for (auto* v : {&lap.long_accel_mps2, &lap.lat_accel_mps2, &lap.engine_radps, &lap.drag_n,
+                  &lap.downforce_n, &lap.front_load_n, &lap.rear_load_n, &lap.front_share,
+                  &lap.aero_balance_eff, &lap.front_usage, &lap.rear_usage})
+    v->clear();
+  lap.gear.clear();
+  lap.trimmed.clear();
+  return lap;
+}
+
+void LapSolver::speed_pass(const Envelope& env, const Mesh& mesh, double start_speed_mps) {
   const std::size_t n = mesh.size();
   assert(n >= 3);
   Lap& lap = lap_;
+  lap.has_channels = false;  // none of this lap yet (also if the solve throws)
   steady_profile(env, mesh, lap.steady);
   const auto& steady = lap.steady.speed_mps;
   SweepResult& fwd = forward_;
@@ -548,16 +570,8 @@ const Lap& LapSolver::solve(const Envelope& env, const Mesh& mesh, double start_
   for (std::size_t i = 0; i < n; ++i) {
     const double v = std::min(fwd.speed_mps[i], bwd.speed_mps[i]);
     lap.speed_mps[i] = v;
-    Phase ph;
-    if (bwd.speed_mps[i] < fwd.speed_mps[i])
-      ph = Phase::brake;
-    else if (fwd.clipped[i])
-      ph = lap.steady.limit[i] == SteadyLimit::grip ? Phase::corner : Phase::top_speed;
-    else if (fwd.cut[i])
-      ph = Phase::shift;
-    else
-      ph = Phase::accelerate;
-    lap.phase[i] = ph;
+    lap.phase[i] = classify_phase(bwd.speed_mps[i] < fwd.speed_mps[i], fwd.clipped[i],
+                                  lap.steady.limit[i], fwd.cut[i]);
   }
 
   // Time: sum of 2 ds / (v_i + v_{i+1}), exact for a constant acceleration over each step
@@ -570,18 +584,16 @@ const Lap& LapSolver::solve(const Envelope& env, const Mesh& mesh, double start_
     lap.time_s[i + 1] = lap.time_s[i] + 2.0 * mesh.step_m / vsum;
   }
   lap.lap_time_s = lap.time_s[n - 1];
-  lap.has_channels = channels;
-  if (!channels) {
-    // Speed, phase and time only: what a study that needs the lap time reads.
-    for (auto* v : {&lap.long_accel_mps2, &lap.lat_accel_mps2, &lap.engine_radps, &lap.drag_n,
-                    &lap.downforce_n, &lap.front_load_n, &lap.rear_load_n, &lap.front_share,
-                    &lap.aero_balance_eff, &lap.front_usage, &lap.rear_usage})
-      v->clear();
-    lap.gear.clear();
-    lap.trimmed.clear();
-    return lap;
-  }
+}
 
+const Lap& LapSolver::add_channels(const Envelope& env, const Mesh& mesh) {
+  const std::size_t n = mesh.size();
+  Lap& lap = lap_;
+  const SweepResult& fwd = forward_;
+  if (lap.speed_mps.size() != n || fwd.gear.size() != n)
+    throw std::logic_error("LapSolver::add_channels: no speed solve on this mesh");
+  if (lap.has_channels) return lap;
+  lap.has_channels = true;
   // Channels along the lap.
   const Car& car = env.car();
   const double g = units::g0, m = env.mass_kg(), wb = car.wheelbase_m;
@@ -649,9 +661,7 @@ const Lap& LapSolver::solve(const Envelope& env, const Mesh& mesh, double start_
                  : std::clamp(v / car.tyres.rolling_radius_m *
                                   pt.gears[static_cast<std::size_t>(gear - 1)] * pt.final_drive,
                               pt.engine_radps.front(), pt.rev_limit_radps);
-    const bool trimmed = env.trims(std::abs(mesh.curvature_1pm[i])) &&
-                         (lap.phase[i] == Phase::accelerate || lap.phase[i] == Phase::top_speed ||
-                          lap.phase[i] == Phase::shift);
+    const bool trimmed = env.trims(std::abs(mesh.curvature_1pm[i])) && under_drive(lap.phase[i]);
     lap.trimmed[i] = trimmed;
     const Envelope::Sample row = env.sample(v, trimmed);
     const double drag = row.drag_coef * v * v, down = row.lift_coef * v * v;
@@ -670,7 +680,8 @@ const Lap& LapSolver::solve(const Envelope& env, const Mesh& mesh, double start_
     lap.aero_balance_eff[i] = aero_balance_with_drag_moment(row.lift_coef, row.drag_coef,
                                                             row.balance, car.drag_height_m, wb)
                                   .value_or(std::numeric_limits<double>::quiet_NaN());
-    const double resistance = drag + crr * (weight * slope.cos + down) + weight * slope.sin;
+    const double resistance =
+        resistance_n(drag, crr, normal_load_n(weight, slope.cos, down), weight, slope.sin);
     const AxleUsage use =
         axle_usage(env, loads, m * ax + resistance, v * v * std::abs(mesh.curvature_1pm[i]));
     lap.front_usage[i] = use.front_usage;

@@ -4,6 +4,7 @@
 #include <cmath>
 #include <cstdio>
 
+#include "lapwing/base/interpolate.hpp"
 #include "lapwing/base/units.hpp"
 #include "lapwing/solve/axle.hpp"
 
@@ -24,7 +25,7 @@ constexpr double apex_tie = 5e-4;  // relative: 0.05 km/h at 100 km/h
 
 std::vector<RangeNote> range_notes(const Envelope& env) {
   std::vector<RangeNote> notes;
-  const AeroConfig& a = env.car().configs.front();
+  const AeroConfig& a = env.aero();
   if (a.speed_mps.size() > 1) {
     if (a.speed_mps.front() > 0.0)
       notes.push_back({RangeNote::Kind::below_speed_table, "below the speed table's first row (" +
@@ -67,7 +68,7 @@ std::vector<RangeNote> range_notes(const Envelope& env) {
 }
 
 bool range_note_applies(const Envelope& env, const RangeNote& note, double v) {
-  const AeroConfig& a = env.car().configs.front();
+  const AeroConfig& a = env.aero();
   switch (note.kind) {
     case RangeNote::Kind::below_speed_table:
       return v < a.speed_mps.front();
@@ -111,17 +112,87 @@ std::vector<std::string> lap_range_warnings(const Envelope& env, const Lap& lap,
   return out;
 }
 
-std::string limiting_axle(double balance_index) {
-  if (balance_index > axle_neutral_band) return "front";
-  if (balance_index < -axle_neutral_band) return "rear";
-  return "both";
+Axle limiting_axle(double balance_index) {
+  if (balance_index > axle_neutral_band) return Axle::front;
+  if (balance_index < -axle_neutral_band) return Axle::rear;
+  return Axle::both;
 }
 
 double time_at(const Lap& lap, const Mesh& mesh, double s) {
-  const double f = std::clamp(s / mesh.step_m, 0.0, static_cast<double>(mesh.intervals()));
-  const std::size_t i = std::min(static_cast<std::size_t>(f), mesh.intervals() - 1);
-  const double w = f - static_cast<double>(i);
-  return lap.time_s[i] + w * (lap.time_s[i + 1] - lap.time_s[i]);
+  return at(lap.time_s, even_bracket(s / mesh.step_m, mesh.intervals()));
+}
+
+BalanceWindowResult check_balance_window(const BalanceWindow& w, const Lap& lap, const Mesh& mesh,
+                                         const std::vector<CornerSpan>& corners) {
+  BalanceWindowResult r;
+  r.window = w;
+  const std::size_t n = mesh.size();
+  const double lateral_mps2 = balance_window_lateral_g * units::g0;
+  auto in_window = [&](std::size_t i) {
+    return lap.speed_mps[i] > w.above_mps && std::abs(lap.lat_accel_mps2[i]) > lateral_mps2;
+  };
+  // Signed excursion beyond the nearer edge (0 inside), and the distance to it inside.
+  auto excursion = [&](double share) {
+    return share < w.front_share_min   ? share - w.front_share_min
+           : share > w.front_share_max ? share - w.front_share_max
+                                       : 0.0;
+  };
+  auto margin = [&](double share) {
+    return std::min(share - w.front_share_min, w.front_share_max - share);
+  };
+  double outside_s = 0.0, brake_s = 0.0, brake_sum = 0.0, drive_s = 0.0, drive_sum = 0.0;
+  std::optional<std::size_t> worst;
+  for (std::size_t i = 0; i < n; ++i) {
+    // This point's time: half of each interval it ends (an open track's ends have one).
+    const double dt = 0.5 * ((i > 0 ? lap.time_s[i] - lap.time_s[i - 1] : 0.0) +
+                             (i + 1 < n ? lap.time_s[i + 1] - lap.time_s[i] : 0.0));
+    const double share = lap.front_share[i];
+    if (lap.speed_mps[i] > w.above_mps) {
+      if (lap.phase[i] == Phase::brake) {
+        brake_s += dt;
+        brake_sum += dt * share;
+      } else if (lap.phase[i] == Phase::accelerate || lap.phase[i] == Phase::top_speed) {
+        drive_s += dt;
+        drive_sum += dt * share;
+      }
+    }
+    if (!in_window(i)) continue;
+    r.time_s += dt;
+    const double e = excursion(share);
+    if (e != 0.0) outside_s += dt;
+    if (!worst) {
+      worst = i;
+      r.lowest_share = r.highest_share = share;
+    }
+    r.lowest_share = std::min(r.lowest_share, share);
+    r.highest_share = std::max(r.highest_share, share);
+    const double we = excursion(lap.front_share[*worst]);
+    if (std::abs(e) > std::abs(we) ||
+        (e == 0.0 && we == 0.0 && margin(share) < margin(lap.front_share[*worst])))
+      worst = i;
+  }
+  if (brake_s > 0.0) r.braking_share = brake_sum / brake_s;
+  if (drive_s > 0.0) r.accelerating_share = drive_sum / drive_s;
+  if (!worst) return r;
+  const std::size_t i = *worst;
+  r.outside_fraction = r.time_s > 0.0 ? outside_s / r.time_s : 0.0;
+  r.worst_excursion = excursion(lap.front_share[i]);
+  r.pass = outside_s == 0.0 && r.worst_excursion == 0.0;
+  r.margin = r.pass ? margin(lap.front_share[i]) : 0.0;
+  r.worst_at_m = mesh.s_m[i];
+  r.worst_speed_mps = lap.speed_mps[i];
+  r.worst_phase = lap.phase[i];
+  for (const auto& c : corners) {
+    if (i >= c.start && i <= c.end) {
+      r.worst_corner = c.id;
+      break;
+    }
+    if (c.start > i) {
+      r.next_corner = c.id;
+      break;
+    }
+  }
+  return r;
 }
 
 LapSummary summarize(const Lap& lap, const Mesh& mesh, const Track& track,
@@ -144,7 +215,7 @@ LapSummary summarize(const Lap& lap, const Mesh& mesh, const Track& track,
   const std::size_t n = mesh.size();
   auto touch = [&](std::size_t i) {
     const Phase p = lap.phase[i];
-    if (p != Phase::corner && p != Phase::top_speed) return false;
+    if (!on_steady_limit(p)) return false;
     std::size_t before = i - 1, after = i + 1;
     if (i == 0 || i + 1 == n) {
       if (!mesh.closed) return false;
@@ -154,12 +225,11 @@ LapSummary summarize(const Lap& lap, const Mesh& mesh, const Track& track,
     return lap.phase[before] != p && lap.phase[after] != p;
   };
   double full = 0.0, brake = 0.0, trimmed = 0.0;
-  auto is_full = [](Phase p) { return p == Phase::accelerate || p == Phase::top_speed; };
   for (std::size_t i = 0; i + 1 < n; ++i) {
     const double half = 0.5 * (lap.time_s[i + 1] - lap.time_s[i]);
     const Phase a = touch(i) ? lap.phase[i + 1] : lap.phase[i];
     const Phase b = touch(i + 1) ? lap.phase[i] : lap.phase[i + 1];
-    full += half * (is_full(a) + is_full(b));
+    full += half * (full_drive(a) + full_drive(b));
     brake += half * ((a == Phase::brake) + (b == Phase::brake));
     trimmed += half * (lap.trimmed[i] + lap.trimmed[i + 1]);
   }
@@ -168,9 +238,10 @@ LapSummary summarize(const Lap& lap, const Mesh& mesh, const Track& track,
   s.full_throttle_fraction = full / lap.lap_time_s;
   s.braking_fraction = brake / lap.lap_time_s;
 
-  for (std::size_t k = 0; k < track.sectors_m.size(); ++k) {
-    const double a = track.sectors_m[k];
-    const double b = k + 1 < track.sectors_m.size() ? track.sectors_m[k + 1] : mesh.length_m;
+  const std::vector<double> sectors = lapped_sectors_m(track);
+  for (std::size_t k = 0; k < sectors.size(); ++k) {
+    const double a = sectors[k];
+    const double b = k + 1 < sectors.size() ? sectors[k + 1] : mesh.length_m;
     s.sectors_s.push_back(time_at(lap, mesh, b) - time_at(lap, mesh, a));
   }
 
@@ -203,17 +274,9 @@ LapSummary summarize(const Lap& lap, const Mesh& mesh, const Track& track,
     for (std::size_t i = c.start; i <= c.end && !on_grip_limit; ++i)
       on_grip_limit = lap.phase[i] == Phase::corner &&
                       lap.speed_mps[i] <= lap.speed_mps[apex] * (1.0 + apex_tie);
-    switch (on_grip_limit ? Phase::corner : lap.phase[apex]) {
-      case Phase::corner:
-        r.limit = "grip";
-        break;
-      case Phase::brake:
-        r.limit = "braking";
-        break;
-      default:
-        r.limit = "power";
-        break;
-    }
+    r.limit = on_grip_limit                     ? CornerLimit::grip
+              : lap.phase[apex] == Phase::brake ? CornerLimit::braking
+                                                : CornerLimit::power;
     s.corners.push_back(r);
   }
 
@@ -233,8 +296,7 @@ LapSummary summarize(const Lap& lap, const Mesh& mesh, const Track& track,
   b.lowest_front_share_fast = 0.0;
   b.lowest_front_share_at_m = 0.0;
   for (std::size_t i = 0; i < mesh.size(); ++i) {
-    const bool accelerating = lap.phase[i] == Phase::accelerate || lap.phase[i] == Phase::top_speed;
-    if (!accelerating || lap.speed_mps[i] <= 200.0 * units::kph) continue;
+    if (!full_drive(lap.phase[i]) || lap.speed_mps[i] <= 200.0 * units::kph) continue;
     if (!b.has_fast_acceleration || lap.front_share[i] < b.lowest_front_share_fast) {
       b.lowest_front_share_fast = lap.front_share[i];
       b.lowest_front_share_at_m = mesh.s_m[i];
@@ -242,7 +304,7 @@ LapSummary summarize(const Lap& lap, const Mesh& mesh, const Track& track,
     }
   }
   for (const auto& c : s.corners)
-    if (c.apex_axle == "front") b.front_limited_corners.push_back(c.id);
+    if (c.apex_axle == Axle::front) b.front_limited_corners.push_back(c.id);
   b.threshold = balance_index_threshold;
   b.front_limited_length_m = 0.0;
   for (std::size_t i = 0; i + 1 < mesh.size(); ++i) {
@@ -251,6 +313,7 @@ LapSummary summarize(const Lap& lap, const Mesh& mesh, const Track& track,
                                (lap.front_usage[i + 1] - lap.rear_usage[i + 1] > b.threshold));
     b.front_limited_length_m += over * mesh.step_m;
   }
+  if (car.balance_window) b.window = check_balance_window(*car.balance_window, lap, mesh, spans);
   return s;
 }
 

@@ -43,7 +43,7 @@ void check_start_speed(const Circuit& c, const Lap& lap) {
 }
 }  // namespace
 
-LapRun run_lap(const Car& car, const Circuit& c, LapSolver& solver) {
+LapRun run_lap(const ConfiguredCar& car, const Circuit& c, LapSolver& solver) {
   const Envelope env(car, c.air);
   const Lap& lap = solver.solve(env, c.mesh, c.track.start_speed_mps);
   check_start_speed(c, lap);
@@ -52,17 +52,17 @@ LapRun run_lap(const Car& car, const Circuit& c, LapSolver& solver) {
 }
 
 const Lap& solve_speed_only(const Envelope& env, const Circuit& c, LapSolver& solver) {
-  const Lap& lap = solver.solve(env, c.mesh, c.track.start_speed_mps, false);
+  const Lap& lap = solver.solve_speed(env, c.mesh, c.track.start_speed_mps);
   check_start_speed(c, lap);
   return lap;
 }
 
-double lap_time(const Car& car, const Circuit& c, LapSolver& solver) {
+double lap_time(const ConfiguredCar& car, const Circuit& c, LapSolver& solver) {
   const Envelope env(car, c.air);
   return solve_speed_only(env, c, solver).lap_time_s;
 }
 
-LapRun run_lap(const Car& car, const Circuit& c) {
+LapRun run_lap(const ConfiguredCar& car, const Circuit& c) {
   LapSolver solver;
   return run_lap(car, c, solver);
 }

@@ -44,18 +44,18 @@ TimeSplit split_delta(const Lap& a, const Lap& b, const Mesh& mesh,
 std::vector<LapPiece> piece_deltas(const Lap& a, const Lap& b, const Mesh& mesh,
                                    const std::vector<CornerSpan>& corners) {
   std::vector<LapPiece> out;
-  auto add = [&](const std::string& kind, int id, std::size_t from, std::size_t to) {
+  auto add = [&](PieceKind kind, int id, std::size_t from, std::size_t to) {
     if (to <= from) return;
     out.push_back({kind, id, mesh.s_m[from], mesh.s_m[to],
                    (b.time_s[to] - b.time_s[from]) - (a.time_s[to] - a.time_s[from])});
   };
   std::size_t at = 0;
   for (const auto& c : corners) {
-    add("straight", c.id, at, c.start);  // the straight leading to corner c
-    add("corner", c.id, c.start, c.end);
+    add(PieceKind::straight, c.id, at, c.start);  // the straight leading to corner c
+    add(PieceKind::corner, c.id, c.start, c.end);
     at = c.end;
   }
-  add("straight", 0, at, mesh.size() - 1);  // to the line
+  add(PieceKind::straight, 0, at, mesh.size() - 1);  // to the line
   return out;
 }
 
@@ -71,7 +71,7 @@ Comparison compare(const Car& car, const std::vector<std::size_t>& configs,
   require_valid(configs_violation(car, configs), "compare");
   const std::size_t nc = configs.size(), nt = circuits.size();
   std::vector<LapRun> runs(nc * nt);
-  std::vector<Car> cars;
+  std::vector<ConfiguredCar> cars;
   for (std::size_t c : configs) cars.push_back(car.configured(c));
   parallel_for(runs.size(), threads, [&](std::size_t k, LapSolver& solver) {
     runs[k] = run_lap(cars[k % nc], circuits[k / nc], solver);
@@ -87,6 +87,7 @@ Comparison compare(const Car& car, const std::vector<std::size_t>& configs,
     const LapRun& ref = runs[t * nc + best];
     double second = 0.0;
     bool have_second = false;
+    pt.runner_up = best;
     for (std::size_t c = 0; c < nc; ++c) {
       const LapRun& r = runs[t * nc + c];
       Comparison::Entry e;
@@ -96,6 +97,7 @@ Comparison compare(const Car& car, const std::vector<std::size_t>& configs,
       if (c != best && (!have_second || e.delta_to_best_s < second)) {
         second = e.delta_to_best_s;
         have_second = true;
+        pt.runner_up = c;
       }
       pt.entries.push_back(std::move(e));
     }

@@ -295,15 +295,21 @@ SweepOutcome run_sweep(const SweepPlan& plan, const std::vector<Circuit>& circui
         if (index < 0)
           throw InvalidInput(car.subject(),
                              broken_rule("aero.configs", "no config named '" + configs[c] + "'"));
-        const Car configured = car.configured(static_cast<std::size_t>(index));
+        const ConfiguredCar configured = car.configured(static_cast<std::size_t>(index));
         for (std::size_t t = 0; t < circuits.size(); ++t) {
           SweepRow& r = rows[i * per_point + c * circuits.size() + t];
           r.point = point;
           r.track = t;
           r.config = c;
           try {
-            const LapRun run = run_lap(configured, circuits[t], solver);
-            const LapSummary& s = run.summary;
+            // The lowest front share at speed and the balance window read the front-share
+            // channel, so a point needs both passes; the lap is summarised in the solver's
+            // buffers (run_lap would copy it out) and nothing is written but the figures below.
+            const Envelope env(configured, circuits[t].air);
+            solve_speed_only(env, circuits[t], solver);
+            const Lap& lap = solver.add_channels(env, circuits[t].mesh);
+            const LapSummary s =
+                summarize(lap, circuits[t].mesh, circuits[t].track, circuits[t].corners, env);
             r.lap_time_s = s.lap_time_s;
             r.top_speed_kph = units::to_kph(s.top_speed_mps);
             r.min_speed_kph = units::to_kph(s.min_speed_mps);

@@ -10,28 +10,26 @@
 
 namespace lapwing {
 
-Car scaled(const Car& car, Knob knob, double f) {
-  assert(car.configs.size() == 1 && "scaled takes a configured car");
-  Car c = car;
-  AeroConfig& a = c.configs.front();
-  switch (knob) {
-    case Knob::cla:
-      for (double& v : a.cla_m2) v *= f;
-      if (a.map) a.map->cla_m2 *= f;
-      break;
-    case Knob::cda:
-      for (double& v : a.cda_m2) v *= f;
-      if (a.map) a.map->cda_m2 *= f;
-      break;
-    case Knob::mass:
-      c.mass_kg *= f;
-      break;
-    case Knob::power:
-      if (c.powertrain.ideal) c.powertrain.constant_power_w *= f;
-      for (double& t : c.powertrain.torque_nm) t *= f;
-      break;
-  }
-  return c;
+ConfiguredCar scaled(const ConfiguredCar& car, Knob knob, double f) {
+  return car.changed([&](Car& c, AeroConfig& a) {
+    switch (knob) {
+      case Knob::cla:
+        for (double& v : a.cla_m2) v *= f;
+        if (a.map) a.map->cla_m2 *= f;
+        break;
+      case Knob::cda:
+        for (double& v : a.cda_m2) v *= f;
+        if (a.map) a.map->cda_m2 *= f;
+        break;
+      case Knob::mass:
+        c.mass_kg *= f;
+        break;
+      case Knob::power:
+        if (c.powertrain.ideal) c.powertrain.constant_power_w *= f;
+        for (double& t : c.powertrain.torque_nm) t *= f;
+        break;
+    }
+  });
 }
 
 bool zero_area(const AeroConfig& a, Knob knob) {
@@ -44,7 +42,7 @@ bool zero_area(const AeroConfig& a, Knob knob) {
 }
 
 AeroOperatingPoint operating_point(const Envelope& env, const Lap& lap) {
-  const AeroConfig& a = env.car().configs.front();
+  const AeroConfig& a = env.aero();
   if (a.speed_mps.empty() && !a.map) return {a.cla_m2.front(), a.cda_m2.front()};
   // Time-weighted mean of the coefficients the envelope reads at the lap's speeds: interval i
   // gives half its time to each end, C_mean = sum_i dt_i (C_i + C_{i+1}) / 2 / T.
@@ -62,18 +60,17 @@ AeroOperatingPoint operating_point(const Envelope& env, const Lap& lap) {
   return {cla * to_area / lap.lap_time_s, cda * to_area / lap.lap_time_s};
 }
 
-Car shifted(const Car& car, Knob knob, double delta_m2) {
+ConfiguredCar shifted(const ConfiguredCar& car, Knob knob, double delta_m2) {
   assert(knob == Knob::cla || knob == Knob::cda);
-  Car c = car;
-  AeroConfig& a = c.configs.front();
-  auto& rows = knob == Knob::cla ? a.cla_m2 : a.cda_m2;
-  for (double& v : rows) v += delta_m2;
-  if (a.map) (knob == Knob::cla ? a.map->cla_m2 : a.map->cda_m2).array() += delta_m2;
-  return c;
+  return car.changed([&](Car&, AeroConfig& a) {
+    auto& rows = knob == Knob::cla ? a.cla_m2 : a.cda_m2;
+    for (double& v : rows) v += delta_m2;
+    if (a.map) (knob == Knob::cla ? a.map->cla_m2 : a.map->cda_m2).array() += delta_m2;
+  });
 }
 
-Car varied(const Car& car, Knob knob, double r) {
-  const AeroConfig& a = car.configs.front();
+ConfiguredCar varied(const ConfiguredCar& car, Knob knob, double r) {
+  const AeroConfig& a = car.aero();
   if ((knob == Knob::cla || knob == Knob::cda) && zero_area(a, knob)) return shifted(car, knob, r);
   return scaled(car, knob, 1.0 + r);
 }
@@ -86,17 +83,53 @@ std::optional<Violation> TradeOptions::validate() const {
       .result();
 }
 
+namespace {
+
+// The grid's axis for one coefficient on one track: every config's operating point and +-span
+// around the traded config's, widened by grid_margin of that range on each side. A zero area
+// (a car without downforce) is moved in m2 as `varied` moves it: +-span m2 around zero. Drag
+// areas stay above half the smallest config's (a car with no drag has no top speed).
+std::vector<double> grid_axis(double base, bool zero, const std::vector<double>& configs,
+                              const TradeOptions& o, bool is_drag) {
+  double lo = zero ? -o.grid_span : base * (1.0 - o.grid_span);
+  double hi = zero ? o.grid_span : base * (1.0 + o.grid_span);
+  for (double v : configs) {
+    lo = std::min(lo, v);
+    hi = std::max(hi, v);
+  }
+  const double pad = grid_margin * (hi - lo);
+  lo -= pad;
+  hi += pad;
+  if (!zero) {
+    const double floor = is_drag ? 0.5 * *std::min_element(configs.begin(), configs.end()) : 0.0;
+    lo = std::max(lo, floor);
+  }
+  std::vector<double> axis;
+  const int g = o.grid_points;
+  for (int i = 0; i < g; ++i) axis.push_back(lo + (hi - lo) * i / (g - 1));
+  return axis;
+}
+
+// The traded config with its ClA (or CdA) moved to `target`: scaled by target / base, or, for a
+// zero area, shifted by target m2 (as `varied`).
+ConfiguredCar moved_to(const ConfiguredCar& c, Knob knob, double base, bool zero, double target) {
+  return zero ? shifted(c, knob, target) : scaled(c, knob, target / base);
+}
+
+}  // namespace
+
 Trade trade(const Car& car, const std::vector<std::size_t>& configs,
             const std::vector<Circuit>& circuits, const TradeOptions& o, unsigned threads) {
   require_valid(o.validate(), "trade options");
   require_valid(car.validate(), car.subject());
   require_valid(configs_violation(car, configs), "trade");
   const std::size_t nt = circuits.size(), ncfg = car.configs.size();
-  // Jobs: per track, every config's own lap (for attributions), then per traded config the
-  // eight perturbed laps, then the grid around the first traded config.
+  // Jobs: per track, every config's own lap (for attributions and operating points), then per
+  // traded config the eight perturbed laps. The grids come second: their axes span the
+  // operating points the first laps give.
   struct Job {
     std::size_t track;
-    Car car;
+    ConfiguredCar car;
     bool own;  // a config's own lap: its operating point is wanted too
   };
   std::vector<Job> jobs;
@@ -105,31 +138,69 @@ Trade trade(const Car& car, const std::vector<std::size_t>& configs,
   for (std::size_t t = 0; t < nt; ++t) {
     for (std::size_t c = 0; c < ncfg; ++c) jobs.push_back({t, car.configured(c), true});
     for (std::size_t c : configs) {
-      const Car base = car.configured(c);
+      const ConfiguredCar base = car.configured(c);
       for (Knob k : knobs)
         for (double sign : {1.0, -1.0}) jobs.push_back({t, varied(base, k, sign * o.step), false});
     }
-    const Car base = car.configured(configs.front());
-    for (int i = 0; i < g; ++i)
-      for (int j = 0; j < g; ++j) {
-        const double ra = o.grid_span * (2.0 * i / (g - 1) - 1.0);
-        const double rd = o.grid_span * (2.0 * j / (g - 1) - 1.0);
-        jobs.push_back({t, varied(varied(base, Knob::cla, ra), Knob::cda, rd), false});
-      }
   }
-  std::vector<double> times(jobs.size());
-  std::vector<AeroOperatingPoint> ops(jobs.size(), AeroOperatingPoint{0.0, 0.0});
-  parallel_for(jobs.size(), threads, [&](std::size_t k, LapSolver& solver) {
-    // The lap time alone (no channels), and for a config's own lap its operating point.
-    // The base car is valid (checked above); its variations may leave the files' ranges.
-    const Envelope env(Envelope::Unchecked{}, jobs[k].car, circuits[jobs[k].track].air);
-    const Lap& lap = solve_speed_only(env, circuits[jobs[k].track], solver);
-    if (jobs[k].own) ops[k] = operating_point(env, lap);
-    times[k] = lap.lap_time_s;
-  });
+  auto solve = [&](std::vector<double>& times, std::vector<AeroOperatingPoint>& ops) {
+    times.assign(jobs.size(), 0.0);
+    ops.assign(jobs.size(), AeroOperatingPoint{0.0, 0.0});
+    parallel_for(jobs.size(), threads, [&](std::size_t k, LapSolver& solver) {
+      // The lap time alone (no channels), and for a config's own lap its operating point.
+      // The base car is valid (checked above); its variations may leave the files' ranges.
+      const Envelope env(Envelope::Unchecked{}, jobs[k].car, circuits[jobs[k].track].air);
+      const Lap& lap = solve_speed_only(env, circuits[jobs[k].track], solver);
+      if (jobs[k].own) ops[k] = operating_point(env, lap);
+      times[k] = lap.lap_time_s;
+    });
+  };
+  std::vector<double> times;
+  std::vector<AeroOperatingPoint> ops;
+  solve(times, ops);
+  const std::size_t per_track = ncfg + 8 * configs.size();
+
+  // The grids: per track, the first traded config moved over ClA x CdA.
+  std::vector<TradeGrid> grids;
+  {
+    std::vector<Job> grid_jobs;
+    const std::size_t c0 = configs.front();
+    const ConfiguredCar base = car.configured(c0);
+    const AeroConfig& a0 = car.configs[c0];
+    const bool zero_cla = zero_area(a0, Knob::cla), zero_cda = zero_area(a0, Knob::cda);
+    for (std::size_t t = 0; t < nt; ++t) {
+      std::vector<double> clas, cdas;
+      for (std::size_t c = 0; c < ncfg; ++c) {
+        clas.push_back(ops[t * per_track + c].cla_m2);
+        cdas.push_back(ops[t * per_track + c].cda_m2);
+      }
+      const AeroOperatingPoint& p0 = ops[t * per_track + c0];
+      TradeGrid grid{t,
+                     c0,
+                     grid_axis(p0.cla_m2, zero_cla, clas, o, false),
+                     grid_axis(p0.cda_m2, zero_cda, cdas, o, true),
+                     {}};
+      for (double cla : grid.cla_m2)
+        for (double cda : grid.cda_m2)
+          grid_jobs.push_back({t,
+                               moved_to(moved_to(base, Knob::cla, p0.cla_m2, zero_cla, cla),
+                                        Knob::cda, p0.cda_m2, zero_cda, cda),
+                               false});
+      grids.push_back(std::move(grid));
+    }
+    jobs = std::move(grid_jobs);
+    std::vector<double> grid_times;
+    std::vector<AeroOperatingPoint> unused;
+    solve(grid_times, unused);
+    const std::size_t nodes = static_cast<std::size_t>(g) * static_cast<std::size_t>(g);
+    for (std::size_t t = 0; t < nt; ++t)
+      grids[t].lap_time_s.assign(grid_times.begin() + static_cast<std::ptrdiff_t>(t * nodes),
+                                 grid_times.begin() + static_cast<std::ptrdiff_t>((t + 1) * nodes));
+  }
 
   Trade out;
   out.options = o;
+  out.grids = std::move(grids);
   std::size_t k = 0;
   for (std::size_t t = 0; t < nt; ++t) {
     std::vector<double> own(times.begin() + static_cast<std::ptrdiff_t>(k),
@@ -137,12 +208,13 @@ Trade trade(const Car& car, const std::vector<std::size_t>& configs,
     const std::vector<AeroOperatingPoint> op(ops.begin() + static_cast<std::ptrdiff_t>(k),
                                              ops.begin() + static_cast<std::ptrdiff_t>(k + ncfg));
     out.operating.insert(out.operating.end(), op.begin(), op.end());
+    out.own_lap_time_s.insert(out.own_lap_time_s.end(), own.begin(), own.end());
     k += ncfg;
     std::vector<Sensitivity> here;
     for (std::size_t c : configs) {
-      const Car base = car.configured(c);
-      const AeroConfig& a = base.configs.front();
-      Sensitivity s{t, c, own[c], op[c].cla_m2, op[c].cda_m2, base.mass_kg, 0, 0, 0, 0, 0};
+      const ConfiguredCar base = car.configured(c);
+      const AeroConfig& a = base.aero();
+      Sensitivity s{t, c, own[c], op[c].cla_m2, op[c].cda_m2, base.car().mass_kg, 0, 0, 0, 0, 0};
       // Central differences: dt/dx = (t(x (1 + h)) - t(x (1 - h))) / (2 h x): scaling every
       // value of the config by 1 +- h moves its operating point by +-h x to first order.
       // A zero aero area is moved by step m2 instead of step x 0.
@@ -160,22 +232,6 @@ Trade trade(const Car& car, const std::vector<std::size_t>& configs,
       here.push_back(s);
       out.sensitivities.push_back(s);
     }
-    TradeGrid grid{t, configs.front(), {}, {}, {}};
-    const AeroConfig& a0 = car.configs[configs.front()];
-    const AeroOperatingPoint& p0 = op[configs.front()];
-    for (int i = 0; i < g; ++i) {
-      const double f = 1.0 + o.grid_span * (2.0 * i / (g - 1) - 1.0);
-      // As `varied` moves the config: scaled, or shifted by f - 1 m2 from a zero area.
-      auto at = [f](double x, bool zero) { return zero ? f - 1.0 : x * f; };
-      grid.cla_m2.push_back(at(p0.cla_m2, zero_area(a0, Knob::cla)));
-      grid.cda_m2.push_back(at(p0.cda_m2, zero_area(a0, Knob::cda)));
-    }
-    grid.lap_time_s.assign(
-        times.begin() + static_cast<std::ptrdiff_t>(k),
-        times.begin() + static_cast<std::ptrdiff_t>(k + static_cast<std::size_t>(g) *
-                                                            static_cast<std::size_t>(g)));
-    k += static_cast<std::size_t>(g * g);
-    out.grids.push_back(std::move(grid));
     for (std::size_t a = 0; a < ncfg; ++a)
       for (std::size_t b = a + 1; b < ncfg; ++b) {
         std::size_t ref = 0;

@@ -24,10 +24,16 @@ TEST_CASE("the bundled formula car loads in SI units") {
   CHECK(c.configs[4].form == AeroConfig::Form::forces);
   CHECK(c.configs[5].form == AeroConfig::Form::ride_height_map);
   CHECK(c.configs[6].trim.has_value());
-  CHECK(c.configured(6).mass_kg == 642.0);  // the trim actuator's mass, an override
+  CHECK(c.configured(6).car().mass_kg == 642.0);  // the trim actuator's mass, an override
   CHECK(near(c.powertrain.rev_limit_radps, 12200 * units::rpm, 1e-15));
   CHECK(c.powertrain.gears.size() == 7);
   CHECK(c.configs[2].cla_m2.front() == 4.3);
+  // balance_window: {front_share: [33.5 %, 57.5 %], above: 150 km/h}, in SI (150 / 3.6 m/s).
+  REQUIRE(c.balance_window.has_value());
+  CHECK(near(c.balance_window->front_share_min, 0.335, 1e-15));
+  CHECK(near(c.balance_window->front_share_max, 0.575, 1e-15));
+  CHECK(near(c.balance_window->above_mps, 150.0 / 3.6, 1e-14));
+  CHECK(c.configured(2).car().balance_window.has_value());  // every config is held to it
 }
 
 TEST_CASE("a power curve becomes torque = power / engine speed") {

@@ -11,11 +11,11 @@ TEST_CASE("a config's overrides replace the car-level values") {
   Car c = load_car(test::source_path("cars/pellion-fr2.yaml"));
   c.configs[1].mass_kg = 652.0;
   c.configs[1].drag_height_m = 0.5;
-  const Car k = c.configured(1);
+  const Car k = c.configured(1).car();
   CHECK(k.mass_kg == 652.0);
   CHECK(k.drag_height_m == 0.5);
   CHECK(k.configs.size() == 1);
-  CHECK(c.configured(0).mass_kg == 640.0);
+  CHECK(c.configured(0).car().mass_kg == 640.0);
 }
 
 TEST_CASE("the bundled cars break no rule") {
@@ -23,7 +23,7 @@ TEST_CASE("the bundled cars break no rule") {
     const Car c = load_car(test::source_path(file));
     CHECK(test::describe(c.validate()) == "none");
     for (std::size_t i = 0; i < c.configs.size(); ++i)
-      CHECK(test::describe(c.configured(i).validate()) == "none");
+      CHECK(test::describe(c.configured(i).car().validate()) == "none");
   }
 }
 
@@ -78,4 +78,20 @@ TEST_CASE("a car built in code is named by its name; a loaded one by its file") 
   CHECK(c.subject() == "car 'test car'");
   c.file = "cars/x.yaml";
   CHECK(c.subject() == "cars/x.yaml");
+}
+
+TEST_CASE("a balance window checks itself: shares in [0, 1], the max above the min, a speed") {
+  // Issue 17's key, balance_window {front_share: [min, max], above: speed}.
+  Car car = test::plain_car();
+  car.balance_window = BalanceWindow{0.38, 0.46, 150.0 / 3.6};
+  CHECK(test::describe(car.validate()) == "none");
+  car.balance_window = BalanceWindow{0.46, 0.38, 150.0 / 3.6};
+  CHECK(test::describe(car.validate()) ==
+        "balance_window.front_share: the window's max (38.0 %) must lie above its min (46.0 %)");
+  car.balance_window = BalanceWindow{0.38, 1.46, 150.0 / 3.6};
+  CHECK(test::describe(car.validate()) ==
+        "balance_window.front_share[1]: value 1.46 is out of range: must be [0, 1]");
+  car.balance_window = BalanceWindow{0.38, 0.46, -1.0};
+  CHECK(test::describe(car.validate()).rfind("balance_window.above: value -1 is out of range", 0) ==
+        0);
 }

@@ -105,3 +105,40 @@ TEST_CASE("a track names its first bad value by its key path in a track file") {
   t.sectors_m = {0.0, 300.0, 200.0};
   CHECK(t.validate()->where() == "sectors[2]");
 }
+
+TEST_CASE("widths and the line are checked: ranges, the segment form, both centerline widths") {
+  // A segment's width and the track's: (0, 100] m (README, "Track").
+  Segment s = test::straight(100.0);
+  s.width_m = 0.0;
+  CHECK(test::describe(s.validate()) ==
+        "straight.width: value 0 is out of range: must be (0, 100] in SI units");
+  Track t = test::circle_track(50.0, 0.5);
+  t.width_m = 120.0;
+  CHECK(test::describe(t.validate()) ==
+        "width: value 120 is out of range: must be (0, 100] in SI units");
+  t.width_m = 12.0;
+  CHECK(test::describe(t.validate()) == "none");
+  // The line: min-curvature only in a track file (the min-time line depends on the car), a
+  // vehicle 0.5 to 5 m wide, a margin of 0 to 5 m.
+  t.line = LineSpec{};
+  CHECK(test::describe(t.validate()) == "none");
+  t.line->vehicle_width_m = 6.0;
+  CHECK(test::describe(t.validate()) ==
+        "line.vehicle_width: value 6 is out of range: must be [0.5, 5] in SI units");
+  t.line->vehicle_width_m = 2.0;
+  t.line->method = LineSpec::Method::min_time;
+  CHECK(
+      test::describe(t.validate()).rfind("line.method: the min-time line depends on the car", 0) ==
+      0);
+  // A centerline's widths: both, one per sample, every one > 0.
+  PathProfile p;
+  p.s_m = {0.0, 1.0, 2.0};
+  p.curvature_1pm = p.grade = p.x_m = p.y_m = p.elevation_m = {0.0, 0.0, 0.0};
+  p.width_left_m = {5.0, 5.0, 5.0};
+  CHECK(test::describe(p.validate()) ==
+        "width_right_m: give both widths (width_left_m and width_right_m) or neither");
+  p.width_right_m = {5.0, -1.0, 5.0};
+  CHECK(test::describe(p.validate()).rfind("width_right_m", 0) == 0);
+  p.width_right_m = {5.0, 5.0, 5.0};
+  CHECK(test::describe(p.validate()) == "none");
+}

@@ -50,7 +50,7 @@ TEST_CASE("noisy points on a circle give curvature 1/R within 1 %") {
   }
   // A constant curvature takes any smoothing; 60 m holds this noise (20 mm at 2 m) to 0.5 %
   // everywhere (measured: 12 % at 20 m, 1.7 % at 40 m).
-  const PathProfile p = fit_centerline(CenterlinePoints{"circle", x, y, {}}, true,
+  const PathProfile p = fit_centerline(CenterlinePoints{"circle", x, y, {}, {}, {}}, true,
                                        CenterlineOptions{60.0, 100.0, 1.0});
   double mean = 0.0;
   for (std::size_t i = 0; i + 1 < p.s_m.size(); ++i) {
@@ -73,7 +73,7 @@ TEST_CASE(
   }
   // Points every 0.75 to 1.26 m joined by chords: smoothing over 20 m (measured worst 0.22 %;
   // 1.1 % at 10 m, where the chords' corners begin to show).
-  const PathProfile p = fit_centerline(CenterlinePoints{"ellipse", x, y, {}}, true,
+  const PathProfile p = fit_centerline(CenterlinePoints{"ellipse", x, y, {}, {}, {}}, true,
                                        CenterlineOptions{20.0, 100.0, 1.0});
   for (std::size_t i = 0; i < p.s_m.size(); i += 7) {
     const double t = std::atan2(p.y_m[i] / b, p.x_m[i] / a);
@@ -90,7 +90,7 @@ TEST_CASE("points on a clothoid give curvature linear in distance") {
   seg.segments = {test::clothoid(200.0, 0.0, 1.0 / 50.0)};
   const Mesh m = build_mesh(seg, 1.0);
   std::vector<double> x(m.x_m.begin(), m.x_m.end()), y(m.y_m.begin(), m.y_m.end());
-  const PathProfile p = fit_centerline(CenterlinePoints{"clothoid", x, y, {}}, false,
+  const PathProfile p = fit_centerline(CenterlinePoints{"clothoid", x, y, {}, {}, {}}, false,
                                        CenterlineOptions{10.0, 100.0, 1.0});
   for_interior(p, 25.0, [&](std::size_t i) {
     CHECK(near(p.curvature_1pm[i], p.s_m[i] / (50.0 * 200.0), 0.0, 2e-5));
@@ -135,7 +135,7 @@ TEST_CASE(
 TEST_CASE("a centerline's elevation becomes its grade") {
   // A straight 400 m climbing at 4 %, then level: grade 0.04 then 0 (away from the change, which
   // the 100 m elevation smoothing spreads).
-  CenterlinePoints points{"climb", {}, {}, {}};
+  CenterlinePoints points{"climb", {}, {}, {}, {}, {}};
   for (int i = 0; i <= 800; i += 4) {
     points.x_m.push_back(i);
     points.y_m.push_back(0.0);
@@ -155,7 +155,7 @@ TEST_CASE("the fit's options and points are checked, a stray point named by its 
   CHECK(test::describe(CenterlineOptions{20.0, 100.0, 0.001}.validate()) ==
         "spacing: value 0.001 is out of range: must be [0.01, 100] in SI units");
   // Twelve points 10 m apart and one 300 km away: the path is over 200 km long.
-  CenterlinePoints p{"survey.csv", {}, {}, {}};
+  CenterlinePoints p{"survey.csv", {}, {}, {}, {}, {}};
   for (int i = 0; i < 12; ++i) {
     p.x_m.push_back(10.0 * i);
     p.y_m.push_back(i == 7 ? 300e3 : 0.0);

@@ -61,3 +61,48 @@ TEST_CASE("the ramp runs dark to light; the palette repeats after eight") {
   CHECK(svg::series_colour(0) == svg::series_colour(8));
   CHECK(svg::escape("a<b & \"c\"") == "a&lt;b &amp; &quot;c&quot;");
 }
+
+TEST_CASE("a colour bar carries round numbers over its range, light at the end it is told") {
+  // 61.3 .. 87.9 km/h: ticks every 10 (nice_ticks' 1-2-5 step above 26.6 / 5), each a number.
+  const std::string b = svg::colour_bar("ramp", 0, 0, 14, 200, 61.3, 87.9, true, "speed (km/h)");
+  CHECK(b.find(">70<") != std::string::npos);
+  CHECK(b.find(">80<") != std::string::npos);
+  CHECK(b.find(">60<") == std::string::npos);  // outside the range
+  CHECK(b.find(">90<") == std::string::npos);
+  CHECK(b.find("speed (km/h)") != std::string::npos);
+  // Top stop (offset 100 %) is the light end when light stands for high, the dark end when not.
+  CHECK(b.find("offset=\"100.0%\" stop-color=\"" + svg::ramp_colour(1.0)) != std::string::npos);
+  const std::string r = svg::colour_bar("ramp", 0, 0, 14, 200, 63.0, 66.0, false, "lap time (s)");
+  CHECK(r.find("offset=\"100.0%\" stop-color=\"" + svg::ramp_colour(0.0)) != std::string::npos);
+}
+
+TEST_CASE("a legend draws a point series as a point and a line series as a line") {
+  svg::Plot p("l", "t", "x", "y");
+  p.add(svg::Series{"marks", {1.0}, {1.0}, 2, true, 0.0, 4.0});
+  p.add(svg::Series{"trace", {0.0, 1.0}, {0.0, 1.0}, 3, false, 1.6});
+  p.key({"band", "<rect class=\"band\"/>"});
+  const std::string s = p.render();
+  const std::size_t marks = s.find(">marks<"), trace = s.find(">trace<");
+  REQUIRE(marks != std::string::npos);
+  REQUIRE(trace != std::string::npos);
+  // Each entry is a group: its symbol, then its name.
+  const std::size_t g1 = s.rfind("<g class=\"legend-entry\"", marks);
+  const std::size_t g2 = s.rfind("<g class=\"legend-entry\"", trace);
+  CHECK(s.substr(g1, marks - g1).find("<circle") != std::string::npos);
+  CHECK(s.substr(g2, trace - g2).find("<line") != std::string::npos);
+  CHECK(s.find("<rect class=\"band\"/>") != std::string::npos);
+  // A long name is shortened, with the full name as a <title>.
+  svg::Plot q("q", "t", "x", "y");
+  q.add(svg::Series{"high_downforce_twin_element_front_wing_c", {0, 1}, {0, 1}, 0});
+  const std::string t = q.render();
+  CHECK(t.find("<title>high_downforce_twin_element_front_wing_c</title>") != std::string::npos);
+}
+
+TEST_CASE("a bar chart marks the zero bar as the best and gives every other bar its value") {
+  const std::string s =
+      svg::bar_chart("b", "t", "delta (s)", {"track"}, {"a", "b", "c"}, {{0.297, 0.0, 1.751}});
+  CHECK(s.find(">best<") != std::string::npos);
+  CHECK(s.find("class=\"best-mark\"") != std::string::npos);
+  CHECK(s.find(">+0.30<") != std::string::npos);  // two decimals where the largest is >= 1 s
+  CHECK(s.find(">+1.75<") != std::string::npos);
+}

@@ -35,7 +35,7 @@ TEST_CASE("top speed on the level solves eta P = (k v^2 + Crr m g) v (REFERENCES
     car.tyres.rolling_resistance = 0.012;
     car.powertrain.efficiency = 0.92;
     const Air air = make_air(AirSpec{});
-    const Envelope env(car, air);
+    const Envelope env(test::configured(car), air);
     const double k = 0.5 * air.density_kg_m3 * cda;
     // k v^3 + 0 v^2 + Crr m g v - eta P = 0
     const double v = positive_real_root(k, 0.0, 0.012 * 640.0 * units::g0, -0.92 * 400e3);
@@ -49,7 +49,7 @@ TEST_CASE("aero forces are 0.5 rho C v^2 (definition of the coefficients)") {
   car.configs.front().cda_m2 = {1.2};
   car.configs.front().cla_m2 = {3.6};
   const Air air = make_air(AirSpec{});
-  const Envelope env(car, air);
+  const Envelope env(test::configured(car), air);
   for (double v : {10.0, 55.5, 80.0}) {
     CHECK(near(env.drag_n(v), 0.5 * air.density_kg_m3 * 1.2 * v * v, 1e-12));
     CHECK(near(env.downforce_n(v), 0.5 * air.density_kg_m3 * 3.6 * v * v, 1e-12));
@@ -61,7 +61,7 @@ TEST_CASE("aero forces are 0.5 rho C v^2 (definition of the coefficients)") {
 TEST_CASE("a geared car is capped at the rev limit in top gear when drag allows more") {
   Car car = test::constant_force_car(600.0, 3000.0, 1.5);
   car.powertrain.rev_limit_radps = 8000 * units::rpm;
-  const Envelope env(car, make_air(AirSpec{}));
+  const Envelope env(test::configured(car), make_air(AirSpec{}));
   const double v_limit = 8000 * units::rpm * car.tyres.rolling_radius_m / 3.0;
   CHECK(env.rev_limited());
   CHECK(near(env.max_speed_mps(), v_limit, 1e-12));
@@ -72,17 +72,17 @@ TEST_CASE("a geared car is capped at the rev limit in top gear when drag allows 
 
 TEST_CASE("a car built in code with a negative mass is a typed error, not a nonsense lap") {
   // Issue 11: a program that built the formula car with mass -5 kg got "the car stops at ...".
-  Car car = load_car(test::source_path("cars/pellion-fr2.yaml")).configured(1);
+  Car car = load_car(test::source_path("cars/pellion-fr2.yaml")).configured(1).car();
   car.file.clear();  // built in code: named by its name
   car.mass_kg = -5.0;
   const Circuit c = test::bundled_circuit("tracks/brannock-park.yaml");
   // What the check prevents: the same car taken unchecked is solved into nonsense.
   {
-    const Envelope unchecked(Envelope::Unchecked{}, car, c.air);
+    const Envelope unchecked(Envelope::Unchecked{}, test::configured(car), c.air);
     CHECK_THROWS_AS(solve_lap(unchecked, c.mesh), CannotMove);
   }
   try {
-    const Envelope env(car, c.air);
+    const Envelope env(test::configured(car), c.air);
     FAIL("expected an InvalidInput");
   } catch (const InvalidInput& e) {
     CHECK(e.subject() == "car 'Pellion FR-2'");
@@ -110,12 +110,12 @@ TEST_CASE("envelope options and the air are checked too") {
   CHECK(test::describe(o.validate()) ==
         "speed_ceiling_mps: value 0 is out of range: must be > 0 in SI units");
   try {
-    const Envelope env(car, air, o);
+    const Envelope env(test::configured(car), air, o);
     FAIL("expected an InvalidInput");
   } catch (const InvalidInput& e) {
     CHECK(e.subject() == "envelope options");
   }
   Air thin = air;
   thin.density_kg_m3 = 0.0;
-  CHECK_THROWS_AS(Envelope(car, thin), InvalidInput);
+  CHECK_THROWS_AS(Envelope(test::configured(car), thin), InvalidInput);
 }

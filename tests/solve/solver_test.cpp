@@ -5,6 +5,7 @@
 #include <doctest/doctest.h>
 
 #include <cmath>
+#include <stdexcept>
 
 #include "lapwing/base/error.hpp"
 #include "lapwing/base/units.hpp"
@@ -24,7 +25,7 @@ const Air sea_level = make_air(AirSpec{});
 constexpr double g = units::g0;
 
 Lap solve(const Car& car, const Track& track) {
-  const Envelope env(car, sea_level);
+  const Envelope env(test::configured(car), sea_level);
   return solve_lap(env, build_mesh(track, track.mesh_m), track.start_speed_mps);
 }
 }  // namespace
@@ -54,7 +55,7 @@ TEST_CASE(
 TEST_CASE("braking distance on the level is v^2 / (2 mu g) (Gillespie; 0.2 %)") {
   const double mu = 1.2, length = 200.0;
   const Car car = test::plain_car(700.0, mu);
-  const Envelope env(car, sea_level);
+  const Envelope env(test::configured(car), sea_level);
   const Mesh mesh = build_mesh(test::straight_track(length, 0.1, 0.0), 0.1);
   // Backward sweep from a stop at the end: the speed at each point is the fastest from which
   // the car can still stop there; the distance left is then v^2 / (2 mu g).
@@ -103,7 +104,7 @@ TEST_CASE("a long straight reaches the top speed of eta P = (k v^2 + Crr m g) v 
   car.configs.front().cda_m2 = {0.9};
   car.tyres.rolling_resistance = 0.015;
   car.powertrain.efficiency = 0.9;
-  const Envelope env(car, sea_level);
+  const Envelope env(test::configured(car), sea_level);
   const Lap lap = solve(car, test::straight_track(8000.0, 0.5, 0.0));
   double top = 0.0;
   for (double v : lap.speed_mps) top = std::max(top, v);
@@ -130,7 +131,7 @@ TEST_CASE(
   for (int i = 0; i < 60; ++i)
     v -= (k * v * v * v + crr * m * g * v - eta * power) / (3 * k * v * v + crr * m * g);
   REQUIRE(v > 150.0);
-  const Envelope env(car, sea_level);
+  const Envelope env(test::configured(car), sea_level);
   CHECK(env.top_speed_limit() == TopSpeedLimit::drag);
   CHECK(env.max_speed_mps() > v);
   // A circle so wide that the tyres hold the car well past the top speed (lateral usage 3 %
@@ -146,7 +147,7 @@ TEST_CASE("forward and backward sweeps are mirror images when drive and braking 
   // No resistance and drive always above the traction limit: accelerating from v0 over a
   // distance d and braking into v0 from d away are the same function of d.
   const Car car = test::plain_car(650.0, 1.3, 5e6);
-  const Envelope env(car, sea_level);
+  const Envelope env(test::configured(car), sea_level);
   const Mesh mesh = build_mesh(test::straight_track(300.0, 0.25, 0.0), 0.25);
   const std::vector<double> free(mesh.size(), 1e9);
   const std::size_t n = mesh.size();
@@ -158,9 +159,9 @@ TEST_CASE("forward and backward sweeps are mirror images when drive and braking 
 
 TEST_CASE(
     "the lap never goes faster than either sweep or the steady limit, and holds the ellipse") {
-  const Car car = load_car(test::source_path("cars/pellion-fr2.yaml")).configured(1);
+  const Car car = load_car(test::source_path("cars/pellion-fr2.yaml")).configured(1).car();
   const Track track = load_track(test::source_path("tracks/brannock-park.yaml"));
-  const Envelope env(car, make_air(track.air));
+  const Envelope env(test::configured(car), make_air(track.air));
   const Mesh mesh = build_mesh(track, 0.5);
   const Lap lap = solve_lap(env, mesh);
   double worst = 0.0;
@@ -185,18 +186,18 @@ TEST_CASE(
 }
 
 TEST_CASE("mesh convergence: a bundled lap moves less than 0.1 % from 1 m to 0.25 m") {
-  const Car car = load_car(test::source_path("cars/pellion-fr2.yaml")).configured(2);
+  const Car car = load_car(test::source_path("cars/pellion-fr2.yaml")).configured(2).car();
   const Track track = load_track(test::source_path("tracks/cairnholt.yaml"));
-  const Envelope env(car, make_air(track.air));
+  const Envelope env(test::configured(car), make_air(track.air));
   const double coarse = solve_lap(env, build_mesh(track, 1.0)).lap_time_s;
   const double fine = solve_lap(env, build_mesh(track, 0.25)).lap_time_s;
   CHECK(near(coarse, fine, 1e-3));
 }
 
 TEST_CASE("a closed lap is periodic: moving the start line does not change it") {
-  const Car car = load_car(test::source_path("cars/pellion-fr2.yaml")).configured(0);
+  const Car car = load_car(test::source_path("cars/pellion-fr2.yaml")).configured(0).car();
   Track track = load_track(test::source_path("tracks/brannock-park.yaml"));
-  const Envelope env(car, make_air(track.air));
+  const Envelope env(test::configured(car), make_air(track.air));
   const Lap a = solve_lap(env, build_mesh(track, 0.25));
   // Same circuit, start line 100 m further on: the first straight is split.
   REQUIRE(track.segments.front().kind == Segment::Kind::straight);
@@ -219,7 +220,7 @@ TEST_CASE("a grade the car cannot climb is reported, not solved") {
 }
 
 TEST_CASE("an upshift cuts the drive for shift_time and costs time") {
-  Car car = load_car(test::source_path("cars/pellion-fr2.yaml")).configured(1);
+  Car car = load_car(test::source_path("cars/pellion-fr2.yaml")).configured(1).car();
   const Track track = test::straight_track(1000.0, 0.25, 0.0);
   const Lap with = solve(car, track);
   car.powertrain.shift_time_s = 0.0;
@@ -234,6 +235,74 @@ TEST_CASE("an upshift cuts the drive for shift_time and costs time") {
   CHECK(with.lap_time_s > without.lap_time_s);
   // A cut cannot cost more than the time the drive is off.
   CHECK(with.lap_time_s - without.lap_time_s < upshifts * 0.04);
+}
+
+TEST_CASE("the phase tests: a shift is under drive but not full drive; the trim follows drive") {
+  // The rules as documented: the full-throttle share counts accelerate and
+  // top_speed (README, "Commands"); the straight-line trim stays open through an upshift's cut
+  // (README, "Car").
+  CHECK(full_drive(Phase::accelerate));
+  CHECK(full_drive(Phase::top_speed));
+  CHECK_FALSE(full_drive(Phase::shift));
+  CHECK_FALSE(full_drive(Phase::brake));
+  CHECK_FALSE(full_drive(Phase::corner));
+  CHECK(under_drive(Phase::shift));
+  CHECK(under_drive(Phase::accelerate));
+  CHECK(under_drive(Phase::top_speed));
+  CHECK_FALSE(under_drive(Phase::brake));
+  CHECK_FALSE(under_drive(Phase::corner));
+  CHECK(classify_phase(true, true, SteadyLimit::grip, true) == Phase::brake);
+  CHECK(classify_phase(false, true, SteadyLimit::grip, true) == Phase::corner);
+  CHECK(classify_phase(false, true, SteadyLimit::engine, false) == Phase::top_speed);
+  CHECK(classify_phase(false, false, SteadyLimit::grip, true) == Phase::shift);
+  CHECK(classify_phase(false, false, SteadyLimit::engine, false) == Phase::accelerate);
+  // On a lap with a trimmed config: the trace's trim is on only under drive and on straight
+  // enough points, and the shifts on the straights keep it.
+  const Car file = load_car(test::source_path("cars/pellion-fr2.yaml"));
+  const Car car = file.configured(static_cast<std::size_t>(file.config_index("high_trim"))).car();
+  REQUIRE(car.configs.front().trim);
+  const Circuit c = test::bundled_circuit("tracks/saltmere-flats.yaml");
+  const Envelope env(test::configured(car), c.air);
+  const Lap lap = solve_lap(env, c.mesh);
+  int trimmed_shifts = 0;
+  for (std::size_t i = 0; i < lap.phase.size(); ++i) {
+    const bool straight = env.trims(std::abs(c.mesh.curvature_1pm[i]));
+    CHECK(static_cast<bool>(lap.trimmed[i]) == (straight && under_drive(lap.phase[i])));
+    trimmed_shifts += lap.trimmed[i] && lap.phase[i] == Phase::shift;
+  }
+  CHECK(trimmed_shifts > 0);
+}
+
+TEST_CASE("the speed solve fills no channel; the channels pass adds them, as solve does") {
+  // The two passes against the one-call solve on the same lap: the speed traces are the same
+  // numbers (the channels pass only reads them), every channel equal to the last bit.
+  const Car file = load_car(test::source_path("cars/caldra-gt.yaml"));
+  const Car car = file.configured(0).car();
+  const Circuit c = test::bundled_circuit("tracks/brannock-park.yaml");
+  const Envelope env(test::configured(car), c.air);
+  const Lap whole = solve_lap(env, c.mesh, c.track.start_speed_mps);
+  REQUIRE(whole.has_channels);
+  LapSolver solver;
+  CHECK_THROWS_AS(solver.add_channels(env, c.mesh), std::logic_error);  // no speed solve yet
+  const Lap& speed = solver.solve_speed(env, c.mesh, c.track.start_speed_mps);
+  CHECK_FALSE(speed.has_channels);
+  CHECK(speed.lap_time_s == whole.lap_time_s);
+  CHECK(speed.speed_mps == whole.speed_mps);
+  CHECK(speed.phase == whole.phase);
+  CHECK(speed.front_share.empty());
+  CHECK(speed.front_usage.empty());
+  CHECK(speed.gear.empty());
+  const Lap& full = solver.add_channels(env, c.mesh);
+  CHECK(full.has_channels);
+  CHECK(full.long_accel_mps2 == whole.long_accel_mps2);
+  CHECK(full.gear == whole.gear);
+  CHECK(full.front_load_n == whole.front_load_n);
+  CHECK(full.front_share == whole.front_share);
+  CHECK(full.front_usage == whole.front_usage);
+  CHECK(full.trimmed == whole.trimmed);
+  // A later speed solve drops the channels it would otherwise leave behind from this lap.
+  CHECK_FALSE(solver.solve_speed(env, c.mesh, c.track.start_speed_mps).has_channels);
+  CHECK(solver.solve_speed(env, c.mesh).front_share.empty());
 }
 
 // Rotating inertia (issue 10, item 4). At the tyre limit the road force acts on the car's mass m:
@@ -252,7 +321,7 @@ TEST_CASE(
     // The axle model brakes at mu m g only with the bias that matches the loads at that
     // deceleration: front share f + mu h / L (moments about the rear contact patch).
     car.brake_front_bias = car.front_weight + mu * car.cg_height_m / car.wheelbase_m;
-    const Envelope env(car, sea_level);
+    const Envelope env(test::configured(car), sea_level);
     const Mesh mesh = build_mesh(test::straight_track(length, 0.1, 0.0), 0.1);
     const std::vector<double> free(mesh.size(), 1e9);
     const SweepResult b = sweep(env, mesh, Sweep::backward, free, mesh.size() - 1, 0.0);
@@ -314,12 +383,12 @@ TEST_CASE("a 15 m hairpin taken by the bundled sports car is limited by grip at 
   REQUIRE(c.corners.size() == 2);
   for (std::size_t config = 0; config < file.configs.size(); ++config)
     for (const VehicleModel model : {VehicleModel::point_mass, VehicleModel::axle}) {
-      Car car = file.configured(config);
+      Car car = file.configured(config).car();
       car.model = model;
-      const LapRun r = run_lap(car, c);
+      const LapRun r = run_lap(test::configured(car), c);
       CAPTURE(car.configs.front().name);
       CAPTURE(static_cast<int>(model));
-      for (const CornerResult& corner : r.summary.corners) CHECK(corner.limit == "grip");
+      for (const CornerResult& corner : r.summary.corners) CHECK(corner.limit == CornerLimit::grip);
     }
 }
 
@@ -340,9 +409,10 @@ TEST_CASE("full-throttle shares and corner limits at 0.5 m are those of a 0.05 m
       const Circuit fine = lay_out(track, make_air(track.air));
       for (std::size_t config = 0; config < file.configs.size(); ++config)
         for (const VehicleModel model : {VehicleModel::point_mass, VehicleModel::axle}) {
-          Car car = file.configured(config);
+          Car car = file.configured(config).car();
           car.model = model;
-          const LapSummary a = run_lap(car, coarse).summary, b = run_lap(car, fine).summary;
+          const LapSummary a = run_lap(test::configured(car), coarse).summary,
+                           b = run_lap(test::configured(car), fine).summary;
           CAPTURE(std::string(car_file));
           CAPTURE(std::string(track_file));
           CAPTURE(car.configs.front().name);

@@ -13,9 +13,9 @@ using namespace lapwing;
 using lapwing::test::near;
 
 TEST_CASE("sector times add up to the lap; corners hold their apex; shares are fractions") {
-  const Car car = load_car(test::source_path("cars/caldra-gt.yaml")).configured(1);
+  const Car car = load_car(test::source_path("cars/caldra-gt.yaml")).configured(1).car();
   const Track track = load_track(test::source_path("tracks/saltmere-flats.yaml"));
-  const Envelope env(car, make_air(track.air));
+  const Envelope env(test::configured(car), make_air(track.air));
   const Mesh mesh = build_mesh(track, track.mesh_m);
   const Lap lap = solve_lap(env, mesh);
   const auto spans = find_corners(mesh);
@@ -39,18 +39,18 @@ TEST_CASE("sector times add up to the lap; corners hold their apex; shares are f
 }
 
 TEST_CASE("the limiting axle is front, rear or both within the neutral band, beside its value") {
-  // The band is +-0.02 of usage (summary.hpp): its edges are "both", just past them an axle.
-  CHECK(limiting_axle(0.0) == "both");
-  CHECK(limiting_axle(axle_neutral_band) == "both");
-  CHECK(limiting_axle(-axle_neutral_band) == "both");
-  CHECK(limiting_axle(0.0201) == "front");
-  CHECK(limiting_axle(-0.0201) == "rear");
+  // The band is +-0.02 of usage (summary.hpp): its edges are both, just past them an axle.
+  CHECK(limiting_axle(0.0) == Axle::both);
+  CHECK(limiting_axle(axle_neutral_band) == Axle::both);
+  CHECK(limiting_axle(-axle_neutral_band) == Axle::both);
+  CHECK(limiting_axle(0.0201) == Axle::front);
+  CHECK(limiting_axle(-0.0201) == Axle::rear);
   // On a lap each corner's labels are read from the trace's balance_index at the same points.
   // The axle model, where each axle's usage sets the limits and the labels matter most.
-  Car car = load_car(test::source_path("cars/caldra-gt.yaml")).configured(0);
+  Car car = load_car(test::source_path("cars/caldra-gt.yaml")).configured(0).car();
   car.model = VehicleModel::axle;
   const Track track = load_track(test::source_path("tracks/brannock-park.yaml"));
-  const Envelope env(car, make_air(track.air));
+  const Envelope env(test::configured(car), make_air(track.air));
   const Mesh mesh = build_mesh(track, track.mesh_m);
   const Lap lap = solve_lap(env, mesh);
   const LapSummary s = summarize(lap, mesh, track, find_corners(mesh), env);
@@ -65,7 +65,7 @@ TEST_CASE("the limiting axle is front, rear or both within the neutral band, bes
     CHECK(c.entry_axle == limiting_axle(c.entry_balance_index));
     CHECK(c.apex_axle == limiting_axle(c.apex_balance_index));
     CHECK(c.exit_axle == limiting_axle(c.exit_balance_index));
-    both += c.apex_axle == "both";
+    both += c.apex_axle == Axle::both;
   }
   // The sports car's apexes on this track sit near neutral: some fall inside the band (what the
   // old two-way label called "front" or "rear" on a coin toss of 0.001).
@@ -74,7 +74,7 @@ TEST_CASE("the limiting axle is front, rear or both within the neutral band, bes
   for (const auto& c : s.corners) {
     const auto& ids = s.balance.front_limited_corners;
     const bool listed = std::find(ids.begin(), ids.end(), c.id) != ids.end();
-    CHECK(listed == (c.apex_axle == "front"));
+    CHECK(listed == (c.apex_axle == Axle::front));
   }
 }
 
@@ -88,7 +88,7 @@ struct StraightRun {
 };
 StraightRun run_straight(const Car& car, double length_m, double mesh_m) {
   const Track track = test::straight_track(length_m, mesh_m, 0.0);
-  Envelope env(car, make_air(AirSpec{}));
+  Envelope env(test::configured(car), make_air(AirSpec{}));
   Mesh mesh = build_mesh(track, track.mesh_m);
   Lap lap = solve_lap(env, mesh);
   LapSummary s = summarize(lap, mesh, track, find_corners(mesh), env);
@@ -167,7 +167,7 @@ TEST_CASE(
   // own phase it took a whole step's time, whatever the step (issue 10, item 3).
   const Car car = test::plain_car();
   const Track track = test::straight_track(10.0, 1.0, 10.0);
-  const Envelope env(car, make_air(track.air));
+  const Envelope env(test::configured(car), make_air(track.air));
   const Mesh mesh = build_mesh(track, 1.0);
   REQUIRE(mesh.size() == 11);
   Lap lap = solve_lap(env, mesh, track.start_speed_mps);
@@ -185,4 +185,78 @@ TEST_CASE(
   const LapSummary t = summarize(lap, mesh, track, {}, env);
   CHECK(t.braking_fraction == doctest::Approx(0.45).epsilon(1e-12));
   CHECK(t.full_throttle_fraction == doctest::Approx(0.35).epsilon(1e-12));
+}
+
+TEST_CASE(
+    "the balance window finds the worst excursion, the time outside and the braking-drive "
+    "shift, worked by hand") {
+  // A hand-made lap of 11 points, 1 s per interval (each inner point holds 1 s, the ends 0.5 s),
+  // so that every figure below is simple arithmetic on the values set here.
+  Mesh mesh;
+  mesh.closed = false;
+  mesh.step_m = 10.0;
+  for (int i = 0; i <= 10; ++i) mesh.s_m.push_back(10.0 * i);
+  mesh.length_m = 100.0;
+  Lap lap;
+  const double fast = 200.0 * units::kph, slow = 100.0 * units::kph, g = units::g0;
+  //              0     1     2     3     4     5     6     7     8     9     10
+  const double share[] = {0.40, 0.50, 0.55, 0.47, 0.42, 0.36, 0.30, 0.38, 0.40, 0.44, 0.45};
+  const double lat_g[] = {0.0, 1.0, 1.0, 1.0, 1.0, 1.0, 0.3, 1.0, 1.0, 1.0, 1.0};
+  const Phase phase[] = {Phase::brake,      Phase::brake,      Phase::brake,      Phase::corner,
+                         Phase::accelerate, Phase::accelerate, Phase::accelerate, Phase::accelerate,
+                         Phase::shift,      Phase::accelerate, Phase::accelerate};
+  for (int i = 0; i <= 10; ++i) {
+    lap.speed_mps.push_back(i == 10 ? slow : fast);  // the last point is below the window's speed
+    lap.time_s.push_back(i);
+    lap.lat_accel_mps2.push_back(lat_g[i] * g * (i % 2 ? 1.0 : -1.0));  // either direction
+    lap.front_share.push_back(share[i]);
+    lap.phase.push_back(phase[i]);
+  }
+  // Corner 1 spans points 1..3, corner 2 points 7..9.
+  const std::vector<CornerSpan> corners{{1, 1, 3, 1}, {2, 7, 9, -1}};
+  const BalanceWindow w{0.38, 0.46, 150.0 * units::kph};
+  const BalanceWindowResult r = check_balance_window(w, lap, mesh, corners);
+  // In the window: points 1-5 and 7-9 (0: under 0.5 g; 6: 0.3 g; 10: too slow): 8 s.
+  CHECK(r.time_s == doctest::Approx(8.0).epsilon(1e-12));
+  CHECK_FALSE(r.pass);
+  // Outside: 1 (0.50), 2 (0.55), 3 (0.47), 5 (0.36): 4 s of 8.
+  CHECK(r.outside_fraction == doctest::Approx(0.5).epsilon(1e-12));
+  // Worst: point 2, 0.55 - 0.46 = +0.09 (point 5 is 0.02 below; point 6's 0.30 is not cornering).
+  CHECK(r.worst_excursion == doctest::Approx(0.09).epsilon(1e-12));
+  CHECK(r.worst_at_m == 20.0);
+  CHECK(r.worst_corner == 1);
+  CHECK(r.worst_phase == Phase::brake);
+  CHECK(r.lowest_share == 0.36);
+  CHECK(r.highest_share == 0.55);
+  // Above 150 km/h, whether cornering or not: braking at 0 (0.5 s), 1 and 2 (1 s each):
+  // (0.5 x 0.40 + 0.50 + 0.55) / 2.5 = 0.50; drive at 4, 5, 6, 7, 9 (1 s each; 8 is a shift,
+  // 10 too slow): (0.42 + 0.36 + 0.30 + 0.38 + 0.44) / 5 = 0.38.
+  REQUIRE(r.braking_share.has_value());
+  REQUIRE(r.accelerating_share.has_value());
+  CHECK(*r.braking_share == doctest::Approx(0.50).epsilon(1e-12));
+  CHECK(*r.accelerating_share == doctest::Approx(0.38).epsilon(1e-12));
+
+  // Inside everywhere: a pass, with the margin to the nearest edge at the closest point.
+  for (double& s : lap.front_share) s = std::clamp(s, 0.39, 0.45);
+  lap.front_share[8] = 0.445;  // 0.015 from the max: the closest of the window's points
+  const BalanceWindowResult p = check_balance_window(w, lap, mesh, corners);
+  CHECK(p.pass);
+  CHECK(p.outside_fraction == 0.0);
+  CHECK(p.worst_excursion == 0.0);
+  // Points 1, 2 and 3 (clamped to 0.45) lie 0.01 from the max, closer than 0.445: the first.
+  CHECK(p.margin == doctest::Approx(0.01).epsilon(1e-9));
+  CHECK(p.worst_at_m == 10.0);
+
+  // A point between corners is placed on the straight to the next one.
+  lap.front_share[5] = 0.30;
+  const BalanceWindowResult q = check_balance_window(w, lap, mesh, corners);
+  CHECK(q.worst_at_m == 50.0);
+  CHECK(q.worst_corner == 0);
+  CHECK(q.next_corner == 2);
+
+  // Never fast and cornering at once: not reached (no time), which is not a failure.
+  for (double& a : lap.lat_accel_mps2) a = 0.1 * g;
+  const BalanceWindowResult n = check_balance_window(w, lap, mesh, corners);
+  CHECK(n.time_s == 0.0);
+  CHECK(n.pass);
 }

@@ -18,7 +18,7 @@ TEST_CASE("an open track's start speed above the car's steady limit is the track
   t.segments = {test::arc(20.0, units::pi / 2, true), test::straight(100.0)};
   const Circuit c = lay_out(t, make_air(t.air));
   try {
-    run_lap(test::plain_car(), c);
+    run_lap(test::configured(test::plain_car()), c);
     FAIL("expected an InvalidInput");
   } catch (const InvalidInput& e) {
     CHECK(e.subject() == "straight.yaml");
@@ -33,7 +33,7 @@ TEST_CASE("run_lap refuses a car that breaks a rule, naming the car") {
   car.tyres.mu_lat = 0.0;
   const Circuit c = lay_out(test::circle_track(50.0, 0.5), make_air(AirSpec{}));
   try {
-    run_lap(car, c);
+    run_lap(test::configured(car), c);
     FAIL("expected an InvalidInput");
   } catch (const InvalidInput& e) {
     CHECK(std::string(e.what()) ==

@@ -233,8 +233,8 @@ TEST_CASE("a car without aero still has aero sensitivities (zero areas move by t
   CHECK(s.dt_dcda_s_per_m2 > 0.0);
   // Against two explicit runs with +-0.02 m2 of ClA (1e-9). -0.02 m2 is lift, outside a car
   // file's range: the run takes the car unchecked, as the trade does.
-  const Car base = car.configured(0);
-  auto lap = [&](const Car& c) {
+  const ConfiguredCar base = car.configured(0);
+  auto lap = [&](const ConfiguredCar& c) {
     const Envelope env(Envelope::Unchecked{}, c, circuits[0].air);
     LapSolver solver;
     return solve_speed_only(env, circuits[0], solver).lap_time_s;
@@ -267,4 +267,37 @@ TEST_CASE("trade options out of range are a typed error, not a failure inside th
   Car heavy = car;
   heavy.mass_kg = 2e5;
   CHECK_THROWS_AS(trade(heavy, {0}, circuits, TradeOptions{}, 1), InvalidInput);
+}
+
+TEST_CASE("the trade grid spans every config of the car with a margin, so each can be marked") {
+  // Issue 17: a +-15 % grid around one config left most of the car's configs off the map.
+  const Car car = load_car(test::source_path("cars/pellion-fr2.yaml"));
+  const std::vector<Circuit> circuits{test::bundled_circuit("tracks/brannock-park.yaml")};
+  const std::size_t traded = 1;  // medium
+  const Trade t = trade(car, {traded}, circuits, TradeOptions{0.02, 3, 0.15}, 2);
+  const TradeGrid& g = t.grids.front();
+  REQUIRE(g.cla_m2.size() == 3);
+  REQUIRE(t.operating.size() == car.configs.size());
+  REQUIRE(t.own_lap_time_s.size() == car.configs.size());
+  double lo = 1e9, hi = -1e9;
+  for (const auto& op : t.operating) {
+    CHECK(op.cla_m2 > g.cla_m2.front());
+    CHECK(op.cla_m2 < g.cla_m2.back());
+    CHECK(op.cda_m2 > g.cda_m2.front());
+    CHECK(op.cda_m2 < g.cda_m2.back());
+    lo = std::min(lo, op.cla_m2);
+    hi = std::max(hi, op.cla_m2);
+  }
+  // The configs' ClA range (2.9 .. 4.3 m2, wider than +-15 % of medium's 3.6) plus 10 % of the
+  // range each side.
+  CHECK(near(g.cla_m2.front(), lo - grid_margin * (hi - lo), 1e-12));
+  CHECK(near(g.cla_m2.back(), hi + grid_margin * (hi - lo), 1e-12));
+  // A node is the traded config with its areas scaled there: the same lap as an explicit run
+  // (same solver, same inputs: to round-off).
+  const ConfiguredCar base = car.configured(traded);
+  const ConfiguredCar node =
+      scaled(scaled(base, Knob::cla, g.cla_m2[2] / 3.6), Knob::cda, g.cda_m2[0] / 1.20);
+  CHECK(near(g.lap_time_s[2 * 3 + 0], run_lap(node, circuits[0]).summary.lap_time_s, 1e-12));
+  // Each config's own lap time comes with its operating point.
+  CHECK(near(t.own_lap_time_s[traded], t.sensitivities.front().lap_time_s, 0.0));
 }

@@ -9,6 +9,7 @@
 #include "lapwing/base/range.hpp"
 #include "lapwing/base/violation.hpp"
 #include "lapwing/model/air.hpp"
+#include "lapwing/model/track.hpp"
 
 namespace lapwing {
 
@@ -19,15 +20,15 @@ struct LogOptions {
   std::string accel_unit = "g";                            // g | m/s2
   std::string yaw_unit = "deg/s";                          // deg/s | rad/s
   bool closed = false;
-  double smoothing_m = 20.0;   // filter on the curvature
-  double min_speed_mps = 5.0;  // below it a_y / v^2 is too noisy: bridged over
-  std::string name;            // the track's name (default: the log's file name)
-  AirSpec air;                 // written into the track: altitude, and ambient when given
+  std::optional<double> smoothing_m;  // filter on the curvature; none: auto (GCV)
+  double min_speed_mps = 5.0;         // below it a_y / v^2 is too noisy: bridged over
+  std::string name;                   // the track's name (default: the log's file name)
+  AirSpec air;                        // written into the track: altitude, and ambient when given
 
   static constexpr Range smoothing_range{1.0, 1000.0};  // m
   /// The columns named (speed; distance or time; lateral acceleration or yaw rate), the unit of
-  /// each channel used, the smoothing in range, a positive minimum speed, the air. Key paths are
-  /// the member names.
+  /// each channel used, the smoothing (when given) in range, a positive minimum speed, the air.
+  /// Key paths are the member names.
   std::optional<Violation> validate() const;
 };
 
@@ -47,6 +48,8 @@ inline constexpr double log_max_start_speed_mps = 150.0;  // a track's start_spe
 struct LogTrack {
   std::string yaml, csv;
   double length_m, closure_heading_deg, closure_gap_m;  // before spreading
+  double smoothing_m;                                   // the filter's length
+  SmoothingInfo smoothing;                              // how it was set
   double start_speed_mps;                               // open logs: the first logged speed
   double peak_lateral_g;  // the largest |curvature| v^2 / g0 along the filtered log
 };

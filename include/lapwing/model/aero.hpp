@@ -31,7 +31,7 @@ struct RideHeightMap {
 };
 
 /// Changes to the coefficients where movable aero is trimmed for the straights: on points with
-/// |curvature| below `below_curvature_1pm` while the car is under full drive.
+/// |curvature| below `below_curvature_1pm` while the car is under drive (solver.hpp, under_drive).
 struct StraightTrim {
   double dcda_m2 = 0.0, dcla_m2 = 0.0, dbalance = 0.0;
   double below_curvature_1pm = 0.0;
@@ -56,7 +56,8 @@ MapCoefficients map_coefficients(const RideHeightMap& map, double front_m, doubl
 /// Solves the ride heights at speed v where each axle's deflection equals its aero load over its
 /// stiffness:  h_f = h_f0 - F_f / k_f,  h_r = h_r0 - F_r / k_r, with
 ///   F_f = q ClA(h) bal(h) - q CdA(h) z_D / L,   F_r = q ClA(h) (1 - bal(h)) + q CdA(h) z_D / L,
-/// q = rho v^2 / 2 (the drag moment loads the rear and unloads the front). Newton's method with a
+/// q = rho v^2 / 2 (the drag moment loads the rear and unloads the front: aero_axle_loads,
+/// loads.hpp). Newton's method with a
 /// finite-difference Jacobian, damped, from `guess`. Throws std::runtime_error when it does not
 /// converge (the caller names the config).
 AeroPoint solve_ride_heights(const RideHeightMap& map, double speed_mps, double density_kg_m3,

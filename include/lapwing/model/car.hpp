@@ -5,6 +5,7 @@
 #include <optional>
 #include <string>
 #include <string_view>
+#include <utility>
 #include <vector>
 
 #include "lapwing/base/violation.hpp"
@@ -17,6 +18,25 @@ namespace lapwing {
 /// Where the limits come from: the whole car's tyres as one (point mass), or the axle that
 /// saturates first, with drive limited to what the driven axle's load can transmit.
 enum class VehicleModel { point_mass, axle };
+
+class ConfiguredCar;
+
+/// The front axle's share of the load (weight, downforce by the aero balance, the drag moment and
+/// load transfer) the team accepts in fast corners: from `front_share_min` to `front_share_max`
+/// (0..1), at speeds above `above_mps`, wherever the lateral acceleration exceeds
+/// balance_window_lateral_g. Keeping the balance inside such a window at speed is what aero
+/// set-up aims for (common practice: the balance moves with braking, drive and aero load, and a
+/// driver commits to fast corners only when it stays within a known range).
+struct BalanceWindow {
+  double front_share_min = 0.0, front_share_max = 1.0;
+  double above_mps = 0.0;
+
+  /// Shares in [0, 1], the max above the min, `above` in [0, 200] m/s (key paths as in the car
+  /// file: "front_share[0]", "front_share[1]", "above").
+  std::optional<Violation> validate() const;
+};
+/// "While cornering": lateral acceleration above this many g (issue 17's definition).
+inline constexpr double balance_window_lateral_g = 0.5;
 
 struct Car {
   std::string name;
@@ -32,12 +52,13 @@ struct Car {
   double drag_height_m;
   VehicleModel model = VehicleModel::point_mass;
   std::vector<AeroConfig> configs;
+  std::optional<BalanceWindow> balance_window;  // none: no window is checked
 
   /// Index of the config named `name`, or -1.
   int config_index(const std::string& name) const;
-  /// This car with config `index` applied: its overrides replace the car-level values and it is
-  /// the only config left.
-  Car configured(std::size_t index) const;
+  /// This car with config `index` applied (ConfiguredCar). Throws std::out_of_range for an
+  /// index past its configs.
+  ConfiguredCar configured(std::size_t index) const;
   std::vector<std::string> config_names() const;
 
   /// What errors about this car name: its file, or "car 'NAME'" for a car built in code.
@@ -53,6 +74,35 @@ struct Car {
   /// Config `index`'s part of validate(): its name, its aero data, its overrides of the
   /// car-level values (a cg height below the wheelbase), under "aero.configs.NAME".
   std::optional<Violation> validate_config(std::size_t index) const;
+};
+
+/// A car with one aero config applied: the config's overrides (mass, inertia_factor,
+/// cg_height, front_weight, drag_height) in the car-level values, and the config the only one
+/// left. What the solver, the studies and the envelope take: a Car with several configs, or
+/// none, cannot reach them, and none of them picks a config by position.
+class ConfiguredCar {
+ public:
+  /// `car` with config `index` applied. Throws std::out_of_range for an index past its configs.
+  ConfiguredCar(const Car& car, std::size_t index);
+  /// The car-level values with the overrides in place; `configs` holds aero() alone.
+  const Car& car() const { return car_; }
+  /// The applied config.
+  const AeroConfig& aero() const { return car_.configs.front(); }
+  /// A copy with the car-level values and the config changed by change(Car& values,
+  /// AeroConfig& aero) (a study's variations: a scaled ClA, a heavier car). The config passed
+  /// stays the only one: `values.configs` is not read.
+  template <class Change>
+  ConfiguredCar changed(Change&& change) const {
+    ConfiguredCar c = *this;
+    AeroConfig a = std::move(c.car_.configs.front());
+    c.car_.configs.clear();
+    change(c.car_, a);
+    c.car_.configs.assign(1, std::move(a));
+    return c;
+  }
+
+ private:
+  Car car_;
 };
 
 /// Whether `name` can name a config: letters, digits, '_' and '-' (it becomes part of output

@@ -2,6 +2,7 @@
 // validate().
 #pragma once
 
+#include <memory>
 #include <optional>
 #include <string>
 #include <vector>
@@ -20,28 +21,80 @@ struct Segment {
   double length_m;
   double curvature_start_1pm;
   double curvature_end_1pm;
-  double grade;  // rise over run, positive uphill
+  double grade;                                  // rise over run, positive uphill
+  std::optional<double> width_m = std::nullopt;  // edge to edge, the centerline in the middle;
+                                                 // none: the track's
 
   // The ranges of a segment (README, "Track"): a piece up to 100 km, a radius up to
-  // 100 km, an arc of up to two turns, a grade of +-50 % (steeper is no road).
+  // 100 km, an arc of up to two turns, a grade of +-50 % (steeper is no road), a width up to
+  // 100 m.
   static constexpr Range length_range{0.0, 100e3, true, false};         // m
   static constexpr Range radius_range{0.0, 100e3, true, false};         // m
   static constexpr Range angle_range{0.0, 4 * units::pi, true, false};  // rad
   static constexpr Range grade_range{-0.5, 0.5};
+  static constexpr Range width_range{0.0, 100.0, true, false};  // m (also the track's `width`)
   /// The first value that breaks a rule, named as in a track file's segment ("arc.radius",
   /// "clothoid.grade"): an arc's radius and angle are 1 / |curvature| and length x |curvature|.
+  std::optional<Violation> validate() const;
+};
+
+/// A centerline's points in order, as surveyed, in a plane (m), with the distance from the
+/// centerline to each edge, left and right in the direction of travel (empty when not given).
+/// z empty when there is no elevation. A closed centerline may repeat its first point at the
+/// end. A fit keeps them (PathProfile::points) so that it can be fitted again at another
+/// strength (the data-quality study).
+struct CenterlinePoints {
+  std::string source;  // where the points come from (a file), for messages
+  std::vector<double> x_m, y_m, z_m;
+  std::vector<double> width_left_m{}, width_right_m{};
+};
+
+/// How a fit's smoothing length was set: given, or chosen from the data by generalised
+/// cross-validation (path/smoothing.hpp).
+struct SmoothingInfo {
+  bool automatic = false;
+  double noise_rms = 0.0;  // GCV's estimate of the data's noise (m for points, 1/m for curvature)
+  double chosen_at_spacing_m = 0.0;  // the spacing GCV ran at: the data's mean point spacing
+  bool at_lower_bound = false;       // GCV's minimum at the shortest length searched
+  bool at_upper_bound = false;       // ... at the longest
+  bool exact_trace = false;          // circulant trace (closed) or the stochastic estimate (open)
+};
+
+/// A racing line laid over the track (path/racing_line.hpp): what every command laps when the
+/// track file asks for one.
+struct LineSpec {
+  enum class Method { min_curvature, min_time };
+  Method method = Method::min_curvature;
+  double vehicle_width_m = 2.0;
+  double margin_m = 0.5;  // kept from each edge, beyond half the vehicle's width
+
+  static constexpr Range vehicle_width_range{0.5, 5.0};  // m
+  static constexpr Range margin_range{0.0, 5.0};         // m
+  /// Ranges (key paths "vehicle_width", "margin"); a track file's line is min-curvature only
+  /// ("method": the minimum-time line depends on the car).
   std::optional<Violation> validate() const;
 };
 
 /// A path given as data instead of segments: a fitted centerline or a curvature profile, as
 /// samples along the distance (closed paths end where they start).
 struct PathProfile {
-  enum class Source { centerline, curvature };
+  enum class Source { centerline, curvature, line };
   Source source = Source::centerline;
   std::string data_file;  // the CSV, as found from the track file's folder
   std::vector<double> s_m, curvature_1pm, grade, x_m, y_m, elevation_m;
   double smoothing_m = 0.0, elevation_smoothing_m = 0.0;  // centerline fits
-  double fit_residual_rms_m = 0.0;                        // raw points against the fitted path
+  SmoothingInfo smoothing;
+  double sample_spacing_m = 0.0;  // a centerline fit's resampling step
+  // Distance from the path to each edge, left and right in the direction of travel, per sample
+  // (empty when the track has no widths).
+  std::vector<double> width_left_m, width_right_m;
+  std::shared_ptr<const CenterlinePoints> points;  // a centerline's data, for refits
+  // A racing line's lateral offset from the path it was laid over (+ left), per sample, and the
+  // iterations its solve took.
+  std::vector<double> offset_m;
+  std::vector<double> reference_s_m;  // a racing line's: the reference's distance per sample
+  int line_iterations = 0;
+  double fit_residual_rms_m = 0.0;       // raw points against the fitted path
   double curvature_noise_rms_1pm = 0.0;  // raw curvature against the fitted curvature
   bool has_bank = false;                 // a bank_deg column was read (not modelled)
   bool geodetic = false;                 // lat/lon points projected to a tangent plane
@@ -57,7 +110,8 @@ struct PathProfile {
 
   /// A path longer than 200 km is no circuit: bad data (a stray point, a unit read wrong).
   static constexpr double max_length_m = 200e3;
-  /// At least two samples, every column as long as s_m, s_m from 0 strictly increasing.
+  /// At least two samples, every column as long as s_m, s_m from 0 strictly increasing; widths,
+  /// when given, as long and every one > 0.
   std::optional<Violation> validate() const;
 };
 
@@ -71,9 +125,17 @@ struct Track {
   double mesh_m = 0.5;
   std::vector<Segment> segments;  // empty when the path is a profile
   std::optional<PathProfile> profile;
-  std::vector<double> sectors_m{0.0};  // sector start distances; first is 0
+  std::optional<double> width_m;       // edge to edge, for segments that give none
+  std::vector<double> sectors_m{0.0};  // sector start distances along the described path; first 0
+  // The racing line the track file asks for (`line:`), and that line laid out over the path
+  // above: when present it is what every command laps (build_mesh lays it out instead).
+  std::optional<LineSpec> line;
+  std::optional<PathProfile> line_path;
 
+  /// The length of what is lapped: the line's when there is one.
   double length_m() const;
+  /// Whether the path has widths (every segment, or the centerline's data).
+  bool has_widths() const;
   /// What errors about this track name: its file, or "track 'NAME'" for a track built in code.
   std::string subject() const;
   /// The track file's key for its path: "segments", "centerline" or "curvature".
@@ -84,7 +146,8 @@ struct Track {
   /// A mesh of more than 20 million points is no circuit (and would exhaust the machine).
   static constexpr double max_mesh_points = 20e6;
   /// The first value that breaks a rule, in the order of a track file, named by its key path
-  /// there ("start_speed", "ambient.pressure", "segments[2].arc.radius", "sectors").
+  /// there ("start_speed", "ambient.pressure", "segments[2].arc.radius", "width", "line",
+  /// "sectors").
   std::optional<Violation> validate() const;
 };
 

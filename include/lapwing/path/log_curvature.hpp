@@ -9,6 +9,7 @@
 #include <vector>
 
 #include "lapwing/base/violation.hpp"
+#include "lapwing/model/track.hpp"
 
 namespace lapwing {
 
@@ -23,9 +24,9 @@ struct LogChannels {
 };
 
 struct LogCurvatureOptions {
-  bool closed = false;         // the log is one whole lap
-  double smoothing_m = 20.0;   // filter on the curvature (see smoothing.hpp)
-  double min_speed_mps = 5.0;  // below it a_y / v^2 is too noisy: bridged over
+  bool closed = false;                // the log is one whole lap
+  std::optional<double> smoothing_m;  // filter on the curvature (smoothing.hpp); none: auto
+  double min_speed_mps = 5.0;         // below it a_y / v^2 is too noisy: bridged over
   /// Positive lengths and speed (key paths: "smoothing", "min_speed").
   std::optional<Violation> validate() const;
 };
@@ -33,6 +34,8 @@ struct LogCurvatureOptions {
 struct LogCurvature {
   std::vector<double> s_m, curvature_1pm;  // every 0.5 m or so, filtered (closure spread)
   double length_m = 0.0;
+  double smoothing_m = 0.0;  // the filter's length: given, or chosen by GCV
+  SmoothingInfo smoothing;   // how it was set
   /// The largest |curvature| v^2 / g0 along the filtered log (before any closure is spread),
   /// and the log row nearest it.
   double peak_lateral_g = 0.0;
@@ -43,7 +46,9 @@ struct LogCurvature {
   double closure_heading_deg = 0.0, turns = 0.0, closure_gap_m = 0.0;
 };
 
-/// Curvature from a log: kappa = a_y / v^2, or yaw rate / v; filtered; for a closed lap the
+/// Curvature from a log: kappa = a_y / v^2, or yaw rate / v; filtered (second differences;
+/// periodic for a closed lap) over the given length, or one chosen by generalised
+/// cross-validation on the curvature at the log's own median row spacing; for a closed lap the
 /// heading closed by a constant curvature change and the position by heading changes
 /// a sin(pi s / L) + b sin(2 pi s / L) that vanish at both ends. InvalidInput (subject: the
 /// source) for bad options, a car that does not move between two rows ("time_s[i]"), no row at

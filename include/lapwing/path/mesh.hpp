@@ -17,6 +17,8 @@ struct Mesh {
   double step_m = 0.0;
   std::vector<double> s_m, x_m, y_m, heading_rad, curvature_1pm, elevation_m, grade;
   std::vector<double> cos_slope, sin_slope;  // of the slope angle atan(grade), for the solver
+  // Distance to each edge, left and right in the direction of travel (empty without widths).
+  std::vector<double> width_left_m, width_right_m;
 
   std::size_t size() const { return s_m.size(); }
   std::size_t intervals() const { return s_m.size() - 1; }
@@ -33,6 +35,14 @@ struct Closure {
 };
 
 Closure closure(const Track& track);
+
+/// The profile a track's laps follow: its racing line when it has one, else its data profile;
+/// nullptr for a segment track.
+const PathProfile* lapped_profile(const Track& track);
+
+/// The sector starts along what is lapped: the track's own, or where the racing line passes them
+/// (sectors are given along the described path).
+std::vector<double> lapped_sectors_m(const Track& track);
 
 /// Lays the track out at spacing close to `step_m` (adjusted so that it divides the length).
 /// A track that breaks a rule (Track::validate) or a step outside Track::mesh_range is an

@@ -8,6 +8,7 @@
 #include "lapwing/model/car.hpp"
 #include "lapwing/study/circuit.hpp"
 #include "lapwing/study/compare.hpp"
+#include "lapwing/study/track_quality.hpp"
 #include "lapwing/study/trade.hpp"
 
 namespace lapwing {
@@ -18,6 +19,7 @@ struct ReportInput {
   const Comparison* comparison = nullptr;  // laps: traces, delta, map, balance, g-g, bars
   const Trade* trade = nullptr;            // sensitivities and the trade maps
   std::string command;                     // what produced it, for the header
+  const std::vector<TrackQuality>* qualities = nullptr;  // data-quality verdicts (run, compare)
 };
 
 std::string html_report(const ReportInput& in);

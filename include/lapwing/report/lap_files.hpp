@@ -9,14 +9,19 @@
 #include "lapwing/path/mesh.hpp"
 #include "lapwing/solve/solver.hpp"
 #include "lapwing/solve/summary.hpp"
+#include "lapwing/study/track_quality.hpp"
 
 namespace lapwing {
 
-/// summary.json (README, "Output files"): {"lapwing", "car", "results": [...]}.
-std::string summary_json(const std::string& car_name, const std::vector<LapSummary>& results);
+/// summary.json (README, "Output files"): {"lapwing", "car", "results": [...]}. Each result whose
+/// track and config have a verdict in `qualities` gets it as "track_quality".
+std::string summary_json(const std::string& car_name, const std::vector<LapSummary>& results,
+                         const std::vector<TrackQuality>& qualities = {});
 
 /// The "balance" object of a result in summary.json; compare.json writes the same per config.
 void write_balance(JsonWriter& w, const BalanceSummary& b);
+/// The "window" object inside "balance": the balance window and how the lap kept to it.
+void write_balance_window(JsonWriter& w, const BalanceWindowResult& r);
 
 /// trace-<track>-<config>.csv, one row per mesh point (README, "Output files").
 std::string trace_csv(const Lap& lap, const Mesh& mesh);

@@ -29,13 +29,40 @@ std::string ramp_colour(double t);
 std::string escape(const std::string& s);
 
 struct Series {
-  std::string name;
+  std::string name;  // in the legend (shortened past legend_chars, the full name on hover)
   std::vector<double> x, y;
   std::size_t colour = 0;
-  bool points = false;  // points (scatter) instead of a line
-  double width = 1.6;   // line width
-  double radius = 1.6;  // point radius
+  bool points = false;   // points (scatter) instead of a line
+  double width = 1.6;    // line width
+  double radius = 1.6;   // point radius
+  double opacity = 1.0;  // of the line (points: 0.45 when small, 0.9 when marks)
+  bool in_legend = true;
 };
+
+/// A legend entry that is not a series: its symbol as SVG in a 16 x 10 box with its top-left
+/// corner at (0, 0), and its name.
+struct Key {
+  std::string name;
+  std::string symbol;
+};
+
+/// Names in legends and on axes longer than this many code points are shortened in the
+/// middle (text_table's shorten_middle), the full name in a <title> (shown on hover).
+inline constexpr std::size_t legend_chars = 20;
+
+/// `text` as SVG text content, shortened to `max` code points with the full text as a
+/// <title> child when longer.
+std::string text_with_title(const std::string& text, std::size_t max);
+
+/// The symbol a series has in the legend: a line of its width and opacity, or a point of its
+/// radius and opacity, in its colour.
+std::string legend_symbol(const Series& s);
+
+/// A vertical colour bar for the ramp: `lo` at the bottom, `hi` at the top, ticks at round
+/// values with their numbers, and a title (with the unit) above. `light_high`: the light end
+/// of the ramp stands for `hi` (else for `lo`). Drawn with its top-left corner at (x, y).
+std::string colour_bar(const std::string& id, double x, double y, double width, double height,
+                       double lo, double hi, bool light_high, const std::string& title);
 
 struct Label {
   double x, y;  // data coordinates
@@ -50,6 +77,8 @@ class Plot {
        int height = 300);
 
   void add(Series s) { series_.push_back(std::move(s)); }
+  /// A legend entry that is not a series (a contour line, a band), after the series'.
+  void key(Key k) { keys_.push_back(std::move(k)); }
   void label(double x, double y, std::string text) { labels_.push_back({x, y, std::move(text)}); }
   /// A vertical marker at x with a short text at the top (corner numbers along a trace).
   void marker(double x, std::string text) { markers_.push_back({x, 0.0, std::move(text)}); }
@@ -81,6 +110,7 @@ class Plot {
   int width_, height_;
   std::vector<Series> series_;
   std::vector<Label> labels_, markers_;
+  std::vector<Key> keys_;
   std::string underlay_, overlay_;
   bool hide_x_ticks_ = false;
   mutable std::pair<double, double> xr_{0, 1}, yr_{0, 1};
@@ -88,10 +118,12 @@ class Plot {
   mutable bool fitted_ = false;
 };
 
-/// Plot area margins (pixels), shared by every plot.
-inline constexpr int margin_left = 64, margin_right = 150, margin_top = 30, margin_bottom = 46;
+/// Plot area margins (pixels), shared by every plot; the legend sits in the right margin.
+inline constexpr int margin_left = 64, margin_right = 170, margin_top = 30, margin_bottom = 46;
 
-/// A grouped bar chart: groups (e.g. tracks) of bars (e.g. configs), one value each.
+/// A grouped bar chart: groups (e.g. tracks) of bars (e.g. configs), one value each. Each bar
+/// carries its value above it; a bar of zero height (the best config on a track, against
+/// which the others are measured) is drawn as a marked "best" at the baseline.
 std::string bar_chart(const std::string& id, const std::string& title, const std::string& y_title,
                       const std::vector<std::string>& groups, const std::vector<std::string>& bars,
                       const std::vector<std::vector<double>>& values, int width = 860,

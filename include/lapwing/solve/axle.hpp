@@ -6,26 +6,13 @@
 
 #include <optional>
 
+#include "lapwing/model/loads.hpp"
 #include "lapwing/solve/envelope.hpp"
 
 namespace lapwing {
 
-/// Axle loads, moments about the rear contact patch (REFERENCES, load transfer):
-///   front = W cos(th) f + DF bal - (D z_D + m a_x h + W sin(th) h) / L,  rear = N - front,
-/// with W = m g, N = W cos(th) + DF, f the static front share, a_x > 0 accelerating.
-struct AxleLoads {
-  double front_n, rear_n;
-};
-AxleLoads axle_loads(const Car& car, double drag_n, double downforce_n, double balance,
-                     double cos_slope, double sin_slope, double ax_mps2);
-
-/// Front share of the aero load with the drag moment (moments about the rear contact patch,
-/// REFERENCES load transfer): (DF bal - D z_D / L) / DF = (ClA bal - CdA z_D / L) / ClA, the same
-/// at every speed since both forces scale with q = rho v^2 / 2. Without downforce (ClA <= 0) the
-/// share of no load is undefined: nullopt (the drag moment then only unloads the front axle, by
-/// D z_D / L, which axle_loads gives).
-std::optional<double> aero_balance_with_drag_moment(double cla_m2, double cda_m2, double balance,
-                                                    double drag_height_m, double wheelbase_m);
+// The axle loads (axle_loads) and the front share of the aero load with the drag moment
+// (aero_balance_with_drag_moment) have their home in model/loads.hpp.
 
 /// What each axle carries and how much of its ellipse that uses, for a total longitudinal tyre
 /// force `fx_n` (> 0 driving: on the driven axle(s), shared by load for all-wheel drive; < 0

@@ -6,9 +6,11 @@
 #include <optional>
 #include <vector>
 
+#include "lapwing/base/interpolate.hpp"
 #include "lapwing/base/violation.hpp"
 #include "lapwing/model/air.hpp"
 #include "lapwing/model/car.hpp"
+#include "lapwing/model/loads.hpp"
 #include "lapwing/model/tyre.hpp"
 
 namespace lapwing {
@@ -44,17 +46,17 @@ enum class TopSpeedLimit {
 /// "drag", "rev limit", "table ceiling".
 const char* top_speed_limit_name(TopSpeedLimit l);
 
-/// Car (with one config applied, see Car::configured) in one air, tabulated over speed.
+/// A car with one config applied (ConfiguredCar) in one air, tabulated over speed.
 class Envelope {
  public:
   /// A car that breaks a rule (Car::validate), air of no density or bad options are an
   /// InvalidInput: a library caller gets the words a file would, not a nonsense lap.
-  Envelope(const Car& configured_car, const Air& air, EnvelopeOptions options = {});
+  Envelope(const ConfiguredCar& car, const Air& air, EnvelopeOptions options = {});
   /// For a study that moves a valid car past the files' ranges on purpose (a trade's finite
   /// differences: ClA +-0.02 m2 around a car without downforce, +15 % of a 30 m2 ClA): the car's
   /// rules are not checked, the air's and the options' are.
   struct Unchecked {};
-  Envelope(Unchecked, const Car& configured_car, const Air& air, EnvelopeOptions options = {});
+  Envelope(Unchecked, const ConfiguredCar& car, const Air& air, EnvelopeOptions options = {});
 
   // Fixed parameters, SI.
   double mass_kg() const { return mass_; }
@@ -74,8 +76,11 @@ class Envelope {
   TopSpeedLimit table_top_reason() const { return table_top_; }
   double table_margin() const { return table_margin_; }
   const TyreModel& tyres() const { return tyres_; }
-  const Car& car() const { return car_; }
-  const std::string& config_name() const { return car_.configs.front().name; }
+  /// The car-level values (with the config's overrides) and the applied config.
+  const Car& car() const { return car_.car(); }
+  const AeroConfig& aero() const { return car_.aero(); }
+  const ConfiguredCar& configured_car() const { return car_; }
+  const std::string& config_name() const { return car_.aero().name; }
 
   /// The speed-dependent quantities at one speed, read from the table with one index
   /// computation (linear between rows; rows at the table's ends outside it).
@@ -100,9 +105,8 @@ class Envelope {
       const double w = f - static_cast<double>(i);
       const Sample& a = rows[i];
       const Sample& b = rows[i + 1];
-      return {
-          a.drive_n + w * (b.drive_n - a.drive_n), a.drag_coef + w * (b.drag_coef - a.drag_coef),
-          a.lift_coef + w * (b.lift_coef - a.lift_coef), a.balance + w * (b.balance - a.balance)};
+      return {lerp(a.drive_n, b.drive_n, w), lerp(a.drag_coef, b.drag_coef, w),
+              lerp(a.lift_coef, b.lift_coef, w), lerp(a.balance, b.balance, w)};
     }
   };
   /// `trimmed` reads the straight-line trim's rows (only where trims() says so).
@@ -137,21 +141,24 @@ class Envelope {
   double weight_n() const { return weight_; }
   double rolling_resistance() const { return crr_; }
 
-  /// Vertical load on the tyres, N = m g cos(theta) + downforce.
+  /// Vertical load on the tyres at speed v (lapwing::normal_load_n, model/loads.hpp).
   double normal_load_n(double v, double cos_grade, bool trimmed = false) const {
-    return weight_ * cos_grade + sample(v, trimmed).lift_coef * v * v;
+    return lapwing::normal_load_n(weight_, cos_grade, sample(v, trimmed).lift_coef * v * v);
   }
-  /// Resistance to motion along the path: drag + rolling resistance + grade.
+  /// Resistance to motion along the path at speed v (lapwing::resistance_n, model/loads.hpp).
   double resistance_n(double v, double cos_grade, double sin_grade, bool trimmed = false) const {
     const Sample s = sample(v, trimmed);
-    return s.drag_coef * v * v + crr_ * (weight_ * cos_grade + s.lift_coef * v * v) +
-           weight_ * sin_grade;
+    return lapwing::resistance_n(s.drag_coef * v * v, crr_,
+                                 lapwing::normal_load_n(weight_, cos_grade, s.lift_coef * v * v),
+                                 weight_, sin_grade);
   }
 
  private:
   std::size_t index(double v) const;
+  Envelope(Unchecked, const ConfiguredCar& configured, const Car& car, const Air& air,
+           EnvelopeOptions options);
 
-  Car car_;
+  ConfiguredCar car_;
   TyreModel tyres_;
   double mass_, mass_eff_, weight_, crr_, rho_;
   double v_max_, v_top_, du_, inv_du_;

@@ -19,6 +19,31 @@ std::string_view phase_name(Phase p);
 /// Why the steady speed at a point is what it is.
 enum class SteadyLimit : std::uint8_t { grip, engine };
 
+/// The phase at a point, the one classification: `brake` where the backward sweep is the slower
+/// (`braking`); else on the steady limit where the forward sweep was clipped to it, `corner`
+/// when the tyres set that limit and `top_speed` when the engine does; else `shift` where the
+/// drive was cut for an upshift; else `accelerate`.
+constexpr Phase classify_phase(bool braking, bool clipped, SteadyLimit limit, bool cut) {
+  if (braking) return Phase::brake;
+  if (clipped) return limit == SteadyLimit::grip ? Phase::corner : Phase::top_speed;
+  return cut ? Phase::shift : Phase::accelerate;
+}
+/// Full drive: the engine's whole drive applied (accelerate, top_speed). Not a shift: its
+/// drive is cut. The lap's full-throttle share counts these.
+constexpr bool full_drive(Phase p) {
+  return p == Phase::accelerate || p == Phase::top_speed;
+}
+/// Under drive: the forward sweep sets the speed with the driver on the throttle, at full drive
+/// or in an upshift's cut (the shift test). The straight-line trim stays deployed through the
+/// cut, as the sweep reads its rows.
+constexpr bool under_drive(Phase p) {
+  return full_drive(p) || p == Phase::shift;
+}
+/// On a steady limit: the speed the tyres (corner) or the engine (top_speed) can hold.
+constexpr bool on_steady_limit(Phase p) {
+  return p == Phase::corner || p == Phase::top_speed;
+}
+
 /// The steady limits along the mesh: the highest speed the car can hold at each point.
 struct SteadyProfile {
   std::vector<double> speed_mps;
@@ -75,14 +100,22 @@ Lap solve_lap(const Envelope& env, const Mesh& mesh, double start_speed_mps = 0.
 /// the Mesh it reads. One per thread.
 class LapSolver {
  public:
-  /// As solve_lap; the result stays valid until the next solve. With `channels` false only the
-  /// speed, phase and time traces are filled (a study that needs lap times skips the rest).
-  const Lap& solve(const Envelope& env, const Mesh& mesh, double start_speed_mps = 0.0,
-                   bool channels = true);
+  /// The speed solve: the steady limits, both sweeps, and the speed, phase and time traces
+  /// (lap_time_s). No channel is filled (has_channels false): a study that needs lap times
+  /// stops here. The result stays valid until the next solve.
+  const Lap& solve_speed(const Envelope& env, const Mesh& mesh, double start_speed_mps = 0.0);
+  /// The channels pass over the last speed solve, which must have been on this mesh with this
+  /// envelope: accelerations, gear and engine speed, trim, forces, axle loads, front shares and
+  /// usage (has_channels true). Throws std::logic_error without a speed solve on the mesh.
+  const Lap& add_channels(const Envelope& env, const Mesh& mesh);
+  /// Both passes, as solve_lap: solve_speed, then add_channels.
+  const Lap& solve(const Envelope& env, const Mesh& mesh, double start_speed_mps = 0.0);
   /// Moves the last lap out.
   Lap take();
 
  private:
+  /// The speed solve into lap_, its channels left as they were (has_channels false).
+  void speed_pass(const Envelope& env, const Mesh& mesh, double start_speed_mps);
   Lap lap_;
   SweepResult forward_, backward_;
 };

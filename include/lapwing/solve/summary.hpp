@@ -3,10 +3,12 @@
 // the JSON and the CSV alike (STYLE, habit 6).
 #pragma once
 
+#include <cstdint>
 #include <optional>
 #include <string>
 #include <vector>
 
+#include "lapwing/model/car.hpp"
 #include "lapwing/model/track.hpp"
 #include "lapwing/path/corners.hpp"
 #include "lapwing/path/mesh.hpp"
@@ -15,19 +17,26 @@
 
 namespace lapwing {
 
+/// What limits a corner: `grip` (apex on the tyres' steady limit, or a point of the corner on it
+/// within 0.05 % of the apex speed), `power` (taken under drive, never reaching the limit),
+/// `braking` (apex inside a braking zone). The outputs' words: report/labels.hpp.
+enum class CornerLimit : std::uint8_t { grip, power, braking };
+
+/// The axle using more of its ellipse (by balance_index), or `both` within the neutral band.
+/// The outputs' words: report/labels.hpp.
+enum class Axle : std::uint8_t { front, rear, both };
+
 struct CornerResult {
   int id;
   int direction;  // +1 left, -1 right
   double start_m, apex_m, end_m;
   double entry_mps, apex_mps, exit_mps;
   double time_s;
-  std::string limit;  // "grip" (apex on the tyres' steady limit, or a point of the corner on
-                      // it within 0.05 % of the apex speed), "power" (taken under drive,
-                      // never reaching the limit), "braking" (apex inside a braking zone)
-  // The axle using more of its ellipse at entry, apex and exit (limiting_axle: "front", "rear",
-  // or "both" within the neutral band), and the difference it is read from: front usage - rear
-  // usage (the trace's balance_index; > 0: the front saturates first).
-  std::string entry_axle, apex_axle, exit_axle;
+  CornerLimit limit;
+  // The axle using more of its ellipse at entry, apex and exit (limiting_axle), and the
+  // difference it is read from: front usage - rear usage (the trace's balance_index; > 0: the
+  // front saturates first).
+  Axle entry_axle, apex_axle, exit_axle;
   double entry_balance_index, apex_balance_index, exit_balance_index;
 };
 
@@ -37,9 +46,31 @@ struct CornerResult {
 /// and 0.96 are, for a set-up decision, both at the limit.
 inline constexpr double axle_neutral_band = 0.02;
 
-/// "front" when balance_index > axle_neutral_band, "rear" when < -axle_neutral_band, else
-/// "both".
-std::string limiting_axle(double balance_index);
+/// front when balance_index > axle_neutral_band, rear when < -axle_neutral_band, else both.
+Axle limiting_axle(double balance_index);
+
+/// The car's balance window (Car::balance_window) checked along one lap. The window's points
+/// are those above its speed with |lateral acceleration| > balance_window_lateral_g; times are
+/// time-weighted, each interval's time split half to each end point (as the lap's shares).
+struct BalanceWindowResult {
+  BalanceWindow window;
+  double time_s = 0.0;            // lap time spent in the window's conditions; 0: never tested
+  bool pass = true;               // the front share never left the window there
+  double outside_fraction = 0.0;  // of time_s, spent outside the window
+  double lowest_share = 0.0, highest_share = 0.0;  // front share seen in the window's points
+  // The worst point: the largest excursion beyond an edge (signed, share - edge: < 0 below the
+  // min, > 0 above the max), or, when the lap passes, the point closest to an edge (excursion
+  // 0, margin > 0 the distance to that edge).
+  double worst_excursion = 0.0, margin = 0.0;
+  double worst_at_m = 0.0, worst_speed_mps = 0.0;
+  Phase worst_phase = Phase::corner;
+  int worst_corner = 0;  // the corner it lies in (0: none) ...
+  int next_corner = 0;   // ... else the corner the straight leads to (0: the line)
+  // How the share moves between braking and drive at speed: time-weighted mean front share
+  // above the window's speed under braking, and under drive (accelerate, top_speed), whether
+  // cornering or not; none where the lap has no such point.
+  std::optional<double> braking_share, accelerating_share;
+};
 
 /// The balance of one lap: where the front axle's share of the load goes, and where the front
 /// saturates first (balance_index = front usage - rear usage > 0: an understeer tendency).
@@ -49,13 +80,18 @@ struct BalanceSummary {
   // (aero_balance_with_drag_moment: none without downforce, where the share is undefined).
   double aero_balance_150 = 0.0, aero_balance_250 = 0.0;
   std::optional<double> aero_balance_eff_150, aero_balance_eff_250;
-  bool has_fast_acceleration = false;      // any point accelerating above 200 km/h
-  double lowest_front_share_fast = 0.0;    // lowest front share accelerating above 200 km/h
-  double lowest_front_share_at_m = 0.0;    // where
-  std::vector<int> front_limited_corners;  // corners whose apex the front axle limits
-  double threshold = 0.0;                  // on balance_index
-  double front_limited_length_m = 0.0;     // lap length with balance_index above it
+  bool has_fast_acceleration = false;         // any point accelerating above 200 km/h
+  double lowest_front_share_fast = 0.0;       // lowest front share accelerating above 200 km/h
+  double lowest_front_share_at_m = 0.0;       // where
+  std::vector<int> front_limited_corners;     // corners whose apex the front axle limits
+  double threshold = 0.0;                     // on balance_index
+  double front_limited_length_m = 0.0;        // lap length with balance_index above it
+  std::optional<BalanceWindowResult> window;  // when the car has a balance window
 };
+
+/// The balance window checked along a lap (corners: the lap's, for where the worst point lies).
+BalanceWindowResult check_balance_window(const BalanceWindow& w, const Lap& lap, const Mesh& mesh,
+                                         const std::vector<CornerSpan>& corners);
 
 inline constexpr double balance_index_threshold = 0.05;
 

@@ -35,15 +35,15 @@ struct LapRun {
   LapSummary summary;
 };
 
-/// Solves `configured_car` (one config) round `circuit`. An open track's start speed above what
+/// Solves `car` (one config applied) round `circuit`. An open track's start speed above what
 /// the car can hold there is an InvalidInput of the track ("start_speed"); a car that breaks a
 /// rule, of the car (the Envelope checks it).
-LapRun run_lap(const Car& configured_car, const Circuit& circuit, LapSolver& solver);
+LapRun run_lap(const ConfiguredCar& car, const Circuit& circuit, LapSolver& solver);
 /// The lap time alone (speed profile and time, no channels or summary).
-double lap_time(const Car& configured_car, const Circuit& circuit, LapSolver& solver);
+double lap_time(const ConfiguredCar& car, const Circuit& circuit, LapSolver& solver);
 /// The speed profile and time alone of the car `env` tabulates, round `circuit` in `solver`
 /// (valid until its next solve); the start speed checked as run_lap does.
 const Lap& solve_speed_only(const Envelope& env, const Circuit& circuit, LapSolver& solver);
-LapRun run_lap(const Car& configured_car, const Circuit& circuit);
+LapRun run_lap(const ConfiguredCar& car, const Circuit& circuit);
 
 }  // namespace lapwing

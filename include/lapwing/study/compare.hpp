@@ -2,6 +2,7 @@
 // where each config wins or loses its time against the best.
 #pragma once
 
+#include <cstdint>
 #include <string>
 #include <vector>
 
@@ -14,10 +15,12 @@
 namespace lapwing {
 
 /// A piece of the lap for "where the time goes": a corner (from the curvature) or the straight
-/// between two corners, with the time one config loses there against another.
+/// between two corners, with the time one config loses there against another. The outputs'
+/// words for the kind: report/labels.hpp.
+enum class PieceKind : std::uint8_t { corner, straight };
 struct LapPiece {
-  std::string kind;  // "corner" or "straight"
-  int id;            // corner id, or the id of the corner the straight leads to (0: to the line)
+  PieceKind kind;
+  int id;  // corner id, or the id of the corner the straight leads to (0: to the line)
   double start_m, end_m;
   double delta_s;
 };
@@ -43,6 +46,7 @@ struct Comparison {
   struct PerTrack {
     std::vector<Entry> entries;  // in the order of `configs`
     std::size_t best;            // index into entries
+    std::size_t runner_up;       // the second best (== best with one config)
     double margin_s;             // second best minus best (0 with one config)
   };
   std::vector<std::size_t> configs;  // indices into the car's configs

@@ -18,12 +18,12 @@ namespace lapwing {
 /// What a trade varies. Each scales the configured car by `factor`: every ClA (or CdA) value of
 /// the config's form, the mass, or the engine's torque (constant power) at every speed.
 enum class Knob { cla, cda, mass, power };
-Car scaled(const Car& configured_car, Knob knob, double factor);
+ConfiguredCar scaled(const ConfiguredCar& car, Knob knob, double factor);
 /// Adds `delta_m2` to every ClA (or CdA) value of the configured car's config.
-Car shifted(const Car& configured_car, Knob knob, double delta_m2);
+ConfiguredCar shifted(const ConfiguredCar& car, Knob knob, double delta_m2);
 /// The knob moved by the relative amount r: x (1 + r), or, for an aero area that is zero,
 /// x + r m2 (so that a car without downforce still has a downforce sensitivity).
-Car varied(const Car& configured_car, Knob knob, double r);
+ConfiguredCar varied(const ConfiguredCar& car, Knob knob, double r);
 
 /// Whether every ClA (or CdA) value of the config is zero: `varied` then shifts the area by
 /// r m2 instead of scaling it.
@@ -43,7 +43,7 @@ AeroOperatingPoint operating_point(const Envelope& env, const Lap& lap);
 struct TradeOptions {
   double step = 0.02;       // relative step of the central differences
   int grid_points = 9;      // per axis of the ClA x CdA grid
-  double grid_span = 0.15;  // +-15 % around the config
+  double grid_span = 0.15;  // at least +-15 % around the traded config
 
   static constexpr Range step_range{0.0, 0.5, true, false};
   static constexpr int min_grid_points = 3, max_grid_points = 41;
@@ -51,6 +51,8 @@ struct TradeOptions {
   /// A step in (0, 50 %], 3 to 41 grid points, a span in (0, 90 %] (key paths: member names).
   std::optional<Violation> validate() const;
 };
+/// The grid reaches this share of its range beyond the outermost config on each side.
+inline constexpr double grid_margin = 0.1;
 
 struct Sensitivity {
   std::size_t track, config;  // indices: circuit, car config
@@ -61,6 +63,11 @@ struct Sensitivity {
   double breakeven_dcda_per_dcla;  // -dt/dClA / dt/dCdA: CdA one m2 of ClA may cost
 };
 
+/// Lap times of the first traded config with its ClA and CdA moved (scaled; a zero area
+/// shifted) to each node. The axes span every config's operating point on the track and
+/// +-grid_span around the traded config, widened by grid_margin of the range on each side (a
+/// drag area no lower than half the smallest config's), so that every config can be placed on
+/// the map.
 struct TradeGrid {
   std::size_t track, config;
   std::vector<double> cla_m2, cda_m2;  // axes
@@ -87,9 +94,10 @@ inline constexpr double attribution_share_min_total_s = 0.05;
 struct Trade {
   TradeOptions options;
   std::vector<Sensitivity> sensitivities;     // track-major, then config
-  std::vector<TradeGrid> grids;               // one per track, around the first traded config
+  std::vector<TradeGrid> grids;               // one per track, over the first traded config
   std::vector<Attribution> attributions;      // every pair of the car's configs, per track
   std::vector<AeroOperatingPoint> operating;  // per track, every config of the car (track-major)
+  std::vector<double> own_lap_time_s;         // the same configs' own lap times
 };
 
 /// The trade of `configs` (indices into car.configs, the first also the grid's). Bad options

@@ -1,0 +1,266 @@
+#include "lapwing/report/check_report.hpp"
+
+#include "lapwing/base/format.hpp"
+#include "lapwing/base/units.hpp"
+#include "lapwing/base/version.hpp"
+#include "lapwing/io/json.hpp"
+#include "lapwing/report/text_table.hpp"
+#include "lapwing/report/track_quality_text.hpp"
+
+namespace lapwing {
+
+std::string air_text(const Air& a) {
+  std::string s = fixed(a.density_kg_m3, 4) + " kg/m3 (";
+  if (a.standard) {
+    s += "ISO 2533 at " + fixed(a.altitude_m, 0) + " m";
+  } else {
+    s += fixed(a.temperature_k - units::celsius_zero_k, 1) + " C, " +
+         fixed(a.pressure_pa / 100.0, 1) + " hPa, " + fixed(100 * a.relative_humidity, 0) +
+         " % humidity at " + fixed(a.altitude_m, 0) + " m";
+  }
+  return s + ")";
+}
+
+namespace {
+
+// A config's notes, the same in the terminal and the JSON: what the data does outside its
+// range, said once (the notes a lap that reaches them is warned of, summary.hpp), then what a
+// reader might misread.
+std::vector<std::string> config_notes(const ConfigCheck& c) {
+  std::vector<std::string> notes = c.range_notes;
+  if (c.no_downforce)
+    notes.push_back(
+        "no downforce: the front share of the aero load is undefined ('-'); the drag moment "
+        "alone takes drag x drag height / wheelbase off the front axle (front aero load)");
+  if (c.trim)
+    notes.push_back("straight-line trim: CdA " + fixed(c.trim->dcda_m2, 3) + " m2, ClA " +
+                    fixed(c.trim->dcla_m2, 3) + " m2, balance " + fixed(100 * c.trim->dbalance, 1) +
+                    " points where |curvature| < " + fixed(c.trim->below_curvature_1pm, 4) +
+                    " 1/m under drive");
+  return notes;
+}
+
+std::string config_text(const ConfigCheck& c) {
+  std::string out = "\nconfig " + c.name + " (" + std::string(form_name(c.form)) + "): CdA " +
+                    fixed(c.cda_m2, 3) + " m2, ClA " + fixed(c.cla_m2, 3) + " m2, L/D " +
+                    (c.lift_to_drag ? fixed(*c.lift_to_drag, 2) : std::string("-")) +
+                    ", aero balance " + fixed(100 * c.aero_balance, 1) + " %" +
+                    (c.has_map       ? " (at rest)"
+                     : c.speed_table ? " (first row)"
+                                     : "") +
+                    ", drag height " + fixed(c.drag_height_m, 3) + " m, top speed " +
+                    fixed(units::to_kph(c.top_speed_mps), 1) + " km/h (" +
+                    top_speed_limit_name(c.top_speed_limit) + ")\n";
+  auto percent = [](const std::optional<double>& v) {
+    return v ? fixed(100 * *v, 1) : std::string("-");
+  };
+  std::vector<std::vector<std::string>> rows;
+  for (const AeroAtSpeed& s : c.at_speeds) {
+    std::vector<std::string> row{fixed(s.speed_kph, 0),
+                                 fixed(s.downforce_n, 0),
+                                 fixed(s.drag_n, 0),
+                                 percent(s.front_share),
+                                 percent(s.front_share_with_drag_moment),
+                                 fixed(s.front_aero_load_n, 0)};
+    if (s.ride_heights)
+      row.push_back(fixed(1000 * s.ride_heights->front_m, 1) + " / " +
+                    fixed(1000 * s.ride_heights->rear_m, 1) +
+                    (s.ride_heights->off_map ? " off map" : "") +
+                    (s.ride_heights->grounded ? " grounded" : ""));
+    rows.push_back(row);
+  }
+  std::vector<std::string> header{"speed km/h",    "downforce N",        "drag N",
+                                  "front share %", "with drag moment %", "front aero load N"};
+  if (c.has_map) header.push_back("ride height F / R mm");
+  out += text_table(header, rows);
+  for (const auto& n : config_notes(c)) out += "       note: " + n + "\n";
+  return out;
+}
+
+std::string track_text(const Circuit& t, const TrackCheck& tc, const InputWords& input_words) {
+  const Closure& cl = tc.closure;
+  std::string out = "\ntrack  " + t.track.name + " (" + t.track.file + ")\n";
+  // The closure gap is what a lap must bring to zero: an open track has none to report.
+  out += "       " + std::string(t.track.closed ? "closed lap" : "open (sprint)") + ", length " +
+         fixed(t.mesh.length_m, 1) + " m" +
+         (t.track.closed ? ", closure gap " + fixed(cl.position_gap_m, 3) + " m / " +
+                               fixed(cl.heading_gap_rad / units::deg, 2) + " deg, elevation gap " +
+                               fixed(cl.elevation_gap_m, 2) + " m"
+                         : std::string(", rise ") + fixed(cl.elevation_gap_m, 2) + " m") +
+         ", corners " + std::to_string(tc.corner_count) + "\n       air " + air_text(t.air) +
+         ", mesh " + fixed(t.mesh.step_m, 4) + " m (" + std::to_string(t.mesh.intervals()) +
+         " steps)\n";
+  if (t.track.profile) {
+    const PathProfile& p = *t.track.profile;
+    const bool fitted = p.source == PathProfile::Source::centerline;
+    out += "       from " + p.data_file +
+           (fitted ? std::string(p.geodetic ? " (WGS-84 lat/lon, tangent plane)" : "") +
+                         ": smoothing " + smoothing_text(p) + ", fit residual " +
+                         fixed(1000 * p.fit_residual_rms_m, 1) + " mm rms, curvature noise " +
+                         fixed(p.curvature_noise_rms_1pm, 5) + " 1/m rms"
+                   : std::string(": curvature as given") +
+                         (p.has_bank ? "; bank_deg read but not modelled" : "")) +
+           "\n";
+    for (const auto& n : p.notes) out += "       note: " + n + "\n";
+  }
+  if (t.track.line_path) out += "       " + line_text(t.track) + "\n";
+  if (tc.smoothing) {
+    const SmoothingStudy& s = *tc.smoothing;
+    auto cell = [](const std::optional<double>& v) { return v ? fixed(*v, 3) : std::string("-"); };
+    std::vector<std::vector<std::string>> srows;
+    for (const auto& q : tc.qualities)
+      srows.push_back({q.config, cell(q.lap_half_s), cell(q.lap_s), cell(q.lap_double_s),
+                       q.spread ? fixed(100 * *q.spread, 2) : std::string("-")});
+    out +=
+        "       lap time with the centerline smoothed at half, the chosen and double the "
+        "strength (lambda)\n" +
+        text_table({"config", "lap s at " + fixed(s.half_length_m, 1) + " m",
+                    "at " + fixed(s.smoothing_m, 1) + " m",
+                    "at " + fixed(s.double_length_m, 1) + " m", "spread %"},
+                   srows);
+    for (const auto& n : s.notes) out += "       note: " + n + "\n";
+  }
+  for (const LapFailure& f : tc.failures)
+    out += "       note: config " + f.config +
+           (f.input ? " cannot lap the track: " +
+                          (input_words ? input_words(*f.input) : f.input->message())
+                    : " cannot complete the track: " + f.cannot_move) +
+           "\n";
+  if (tc.shown) out += "       " + quality_line(tc.qualities[*tc.shown]) + "\n";
+  std::vector<std::vector<std::string>> trows;
+  for (const TrackConfigCheck& c : tc.configs)
+    trows.push_back({c.config, fixed(units::to_kph(c.top_speed_mps), 1),
+                     top_speed_limit_name(c.top_speed_limit)});
+  out += text_table({"config", "top speed km/h (this air, level)", "limit"}, trows);
+  return out;
+}
+
+void optional_value(JsonWriter& j, const char* key, const std::optional<double>& v) {
+  j.key(key);
+  if (v)
+    j.value(*v);
+  else
+    j.null();
+}
+
+void config_json(JsonWriter& j, const ConfigCheck& c) {
+  j.begin_object()
+      .field("name", c.name)
+      .field("form", form_name(c.form))
+      .field("cda_m2", c.cda_m2)
+      .field("cla_m2", c.cla_m2)
+      .field("lift_to_drag", c.lift_to_drag.value_or(0.0))
+      .field("aero_balance", c.aero_balance)
+      .field("drag_height_m", c.drag_height_m)
+      .field("top_speed_kph", units::to_kph(c.top_speed_mps))
+      .field("top_speed_limit", top_speed_limit_name(c.top_speed_limit));
+  j.key("at_speeds").begin_array();
+  for (const AeroAtSpeed& s : c.at_speeds) {
+    j.begin_object()
+        .field("speed_kph", s.speed_kph)
+        .field("downforce_n", s.downforce_n)
+        .field("drag_n", s.drag_n);
+    optional_value(j, "front_share", s.front_share);
+    optional_value(j, "front_share_with_drag_moment", s.front_share_with_drag_moment);
+    j.field("front_aero_load_n", s.front_aero_load_n);
+    if (s.ride_heights)
+      j.field("front_ride_height_m", s.ride_heights->front_m)
+          .field("rear_ride_height_m", s.ride_heights->rear_m);
+    j.end_object();
+  }
+  j.end_array();
+  j.key("notes").begin_array();
+  for (const auto& n : config_notes(c)) j.value(n);
+  j.end_array().end_object();
+}
+
+void track_json(JsonWriter& j, const Circuit& t, const TrackCheck& tc) {
+  const Closure& cl = tc.closure;
+  j.begin_object()
+      .field("name", t.track.name)
+      .field("file", t.track.file)
+      .field("closed", t.track.closed)
+      .field("length_m", t.mesh.length_m);
+  if (t.track.closed)
+    j.field("closure_gap_m", cl.position_gap_m)
+        .field("closure_heading_deg", cl.heading_gap_rad / units::deg)
+        .field("elevation_gap_m", cl.elevation_gap_m);
+  else
+    j.key("closure_gap_m")
+        .null()
+        .key("closure_heading_deg")
+        .null()
+        .field("rise_m", cl.elevation_gap_m);
+  j.field("corner_count", static_cast<int>(tc.corner_count))
+      .field("air_density_kg_m3", t.air.density_kg_m3);
+  j.key("notes").begin_array();
+  if (t.track.profile)
+    for (const auto& n : t.track.profile->notes) j.value(n);
+  j.end_array();
+  j.key("configs").begin_array();
+  for (const TrackConfigCheck& c : tc.configs)
+    j.begin_object()
+        .field("name", c.config)
+        .field("top_speed_kph", units::to_kph(c.top_speed_mps))
+        .field("top_speed_limit", top_speed_limit_name(c.top_speed_limit))
+        .end_object();
+  j.end_array();
+  if (tc.smoothing) {
+    const SmoothingStudy& s = *tc.smoothing;
+    j.key("smoothing_sensitivity").begin_array();
+    for (const auto& q : tc.qualities) {
+      j.begin_object().field("config", q.config);
+      optional_value(j, "half_s", q.lap_half_s);
+      optional_value(j, "as_given_s", q.lap_s);
+      optional_value(j, "double_s", q.lap_double_s);
+      j.end_object();
+    }
+    j.end_array();
+    j.field("smoothing_m", s.smoothing_m).field("smoothing_auto", s.automatic);
+    j.field("smoothing_half_m", s.half_length_m).field("smoothing_double_m", s.double_length_m);
+    j.key("smoothing_sensitivity_notes").begin_array();
+    for (const auto& n : s.notes) j.value(n);
+    j.end_array();
+  }
+  if (tc.shown) write_track_quality(j, tc.qualities[*tc.shown]);
+  j.end_object();
+}
+
+}  // namespace
+
+std::string check_text(const Car& car, const std::vector<Circuit>& circuits,
+                       const CheckSummary& summary, const InputWords& input_words) {
+  std::string out;
+  out += "car    " + car.name + " (" + car.file + ")\n";
+  out += "       mass " + fixed(car.mass_kg, 1) + " kg, static front weight " +
+         fixed(100 * car.front_weight, 1) + " %, wheelbase " + fixed(car.wheelbase_m, 3) +
+         " m, cg height " + fixed(car.cg_height_m, 3) + " m\n";
+  out += "       aero figures in air of " + air_text(summary.reference_air) + "\n";
+  for (const ConfigCheck& c : summary.configs) out += config_text(c);
+  for (std::size_t t = 0; t < circuits.size(); ++t)
+    out += track_text(circuits[t], summary.tracks[t], input_words);
+  return out;
+}
+
+std::string check_json(const Car& car, const std::vector<Circuit>& circuits,
+                       const CheckSummary& summary) {
+  JsonWriter j;
+  j.begin_object().field("lapwing", version());
+  j.key("car")
+      .begin_object()
+      .field("name", car.name)
+      .field("mass_kg", car.mass_kg)
+      .field("front_weight", car.front_weight)
+      .field("wheelbase_m", car.wheelbase_m)
+      .field("cg_height_m", car.cg_height_m)
+      .field("air_density_kg_m3", summary.reference_air.density_kg_m3);
+  j.key("configs").begin_array();
+  for (const ConfigCheck& c : summary.configs) config_json(j, c);
+  j.end_array().end_object();
+  j.key("tracks").begin_array();
+  for (std::size_t t = 0; t < circuits.size(); ++t) track_json(j, circuits[t], summary.tracks[t]);
+  j.end_array().end_object();
+  return j.str();
+}
+
+}  // namespace lapwing

@@ -1,0 +1,119 @@
+#include "lapwing/study/check_summary.hpp"
+
+#include <algorithm>
+
+#include "lapwing/base/units.hpp"
+#include "lapwing/model/loads.hpp"
+#include "lapwing/solve/summary.hpp"
+
+namespace lapwing {
+
+ConfigCheck check_config(const Car& car, std::size_t index, const Air& air) {
+  const ConfiguredCar configured = car.configured(index);
+  const Car& cc = configured.car();
+  const AeroConfig& a = configured.aero();
+  const Envelope env(configured, air);
+  const AeroPoint rest = env.aero_point(0.0);
+  ConfigCheck c;
+  c.name = a.name;
+  c.form = a.form;
+  c.cda_m2 = rest.cda_m2;
+  c.cla_m2 = rest.cla_m2;
+  c.aero_balance = rest.balance;
+  if (rest.cda_m2 > 0) c.lift_to_drag = rest.cla_m2 / rest.cda_m2;
+  c.has_map = env.has_map();
+  c.speed_table = !a.speed_mps.empty();
+  c.drag_height_m = cc.drag_height_m;
+  c.top_speed_mps = env.top_speed_level_mps();
+  c.top_speed_limit = env.top_speed_limit();
+  for (const double speed_kph : check_speeds_kph) {
+    const double v = speed_kph * units::kph;
+    const AeroPoint p = env.aero_point(v);
+    const double q = 0.5 * air.density_kg_m3 * v * v;  // dynamic pressure, Pa
+    AeroAtSpeed s;
+    s.speed_kph = speed_kph;
+    s.downforce_n = q * p.cla_m2;
+    s.drag_n = q * p.cda_m2;
+    // Front axle share of the aero load: the balance alone, then with the drag moment (drag x
+    // drag height / wheelbase off the front axle); undefined without downforce. The aero load on
+    // the front axle itself, DF bal - D z_D / L, is defined either way (model/loads.hpp).
+    s.front_share_with_drag_moment = aero_balance_with_drag_moment(
+        p.cla_m2, p.cda_m2, p.balance, cc.drag_height_m, cc.wheelbase_m);
+    if (s.front_share_with_drag_moment)
+      s.front_share = p.balance;
+    else
+      c.no_downforce = true;
+    s.front_aero_load_n =
+        aero_axle_loads(s.downforce_n, p.balance, s.drag_n, cc.drag_height_m, cc.wheelbase_m)
+            .front_n;
+    if (c.has_map)
+      s.ride_heights = RideHeights{p.front_ride_m, p.rear_ride_m, p.off_map, p.grounded};
+    c.at_speeds.push_back(s);
+  }
+  // What the data does outside its range: the same notes a lap that reaches them is warned of.
+  for (const RangeNote& n : range_notes(env)) c.range_notes.push_back(n.text);
+  c.trim = a.trim;
+  return c;
+}
+
+TrackCheck check_track(const Car& car, const Circuit& t) {
+  TrackCheck out;
+  out.closure = closure(t.track);
+  out.corner_count = t.corners.size();
+  for (std::size_t c = 0; c < car.configs.size(); ++c) {
+    const Envelope env(car.configured(c), t.air);
+    out.configs.push_back({car.configs[c].name, env.top_speed_level_mps(), env.top_speed_limit()});
+  }
+  // The data's verdict: per config, from the lap at half and double the smoothing strength
+  // (track_quality.hpp). A config that cannot lap is a failure, not an error: check describes.
+  const SmoothingVariants variants = smoothing_variants(t);
+  for (std::size_t c = 0; c < car.configs.size(); ++c) {
+    const ConfiguredCar cc = car.configured(c);
+    try {
+      const double lap = run_lap(cc, t).summary.lap_time_s;
+      out.qualities.push_back(assess_track(t, variants, cc, car.configs[c].name, lap));
+    } catch (const InvalidInput& e) {
+      out.failures.push_back({car.configs[c].name, e, {}});
+    } catch (const CannotMove& e) {
+      out.failures.push_back({car.configs[c].name, std::nullopt, e.what()});
+    }
+  }
+  if (t.track.profile && t.track.profile->source == PathProfile::Source::centerline) {
+    const PathProfile& p = *t.track.profile;
+    SmoothingStudy s;
+    s.smoothing_m = p.smoothing_m;
+    s.automatic = p.smoothing.automatic;
+    s.half_length_m = variants.half_length_m;
+    s.double_length_m = variants.double_length_m;
+    s.notes = variants.notes;
+    for (const auto& q : out.qualities)
+      for (const auto& n : q.notes)
+        if (std::find(s.notes.begin(), s.notes.end(), n) == s.notes.end()) s.notes.push_back(n);
+    out.smoothing = std::move(s);
+  }
+  // One verdict per track: the worst config's (they differ only in the lap spread).
+  for (std::size_t i = 0; i < out.qualities.size(); ++i) {
+    const TrackQuality& q = out.qualities[i];
+    if (!out.shown) {
+      out.shown = i;
+      continue;
+    }
+    const TrackQuality& s = out.qualities[*out.shown];
+    if (q.verdict > s.verdict ||
+        (q.verdict == s.verdict && q.spread.value_or(0) > s.spread.value_or(0)))
+      out.shown = i;
+  }
+  return out;
+}
+
+CheckSummary check_summary(const Car& car, const std::vector<Circuit>& circuits,
+                           const Air& reference_air) {
+  CheckSummary s;
+  s.reference_air = reference_air;
+  for (std::size_t c = 0; c < car.configs.size(); ++c)
+    s.configs.push_back(check_config(car, c, reference_air));
+  for (const Circuit& t : circuits) s.tracks.push_back(check_track(car, t));
+  return s;
+}
+
+}  // namespace lapwing

@@ -1,0 +1,147 @@
+// The Whittaker smoother's strength chosen by generalised cross-validation (Craven & Wahba,
+// Numer. Math. 31 (1979) 377; Eilers, Analytical Chemistry 75 (2003) 3631): the circulant
+// trace formula against the trace of the hat matrix inverted densely, the stochastic trace
+// estimate against the same, the noise estimate against the noise put in, and the chosen
+// strength against the best one (the fit's error to the true signal, which GCV does not see).
+#include <doctest/doctest.h>
+
+#include <Eigen/Dense>
+
+#include <cmath>
+#include <cstdint>
+#include <vector>
+
+#include "lapwing/base/units.hpp"
+#include "lapwing/path/smoothing.hpp"
+#include "test_support.hpp"
+
+using namespace lapwing;
+using lapwing::test::near;
+
+namespace {
+
+// Deterministic Gaussian noise (a 64-bit LCG and Box-Muller): the same samples every run.
+struct Noise {
+  std::uint64_t state = 0x2545F4914F6CDD1Dull;
+  double uniform() {
+    state = state * 6364136223846793005ull + 1442695040888963407ull;
+    return (static_cast<double>(state >> 11) + 0.5) / 9007199254740992.0;
+  }
+  double gauss() {
+    const double u1 = uniform(), u2 = uniform();
+    return std::sqrt(-2 * std::log(u1)) * std::cos(2 * units::pi * u2);
+  }
+};
+
+// tr (I + lambda D'D)^-1, inverted densely: the reference for the trace formulas.
+double dense_trace(int n, int order, bool periodic, double lambda) {
+  std::vector<double> coef(static_cast<std::size_t>(order) + 1);
+  for (int k = 0; k <= order; ++k) {
+    double c = 1.0;
+    for (int j = 0; j < k; ++j) c = c * (order - j) / (j + 1);
+    coef[static_cast<std::size_t>(k)] = ((order - k) % 2 ? -1.0 : 1.0) * c;
+  }
+  const int rows = periodic ? n : n - order;
+  Eigen::MatrixXd d = Eigen::MatrixXd::Zero(rows, n);
+  for (int r = 0; r < rows; ++r)
+    for (int k = 0; k <= order; ++k) d(r, (r + k) % n) += coef[static_cast<std::size_t>(k)];
+  const Eigen::MatrixXd a = Eigen::MatrixXd::Identity(n, n) + lambda * d.transpose() * d;
+  return a.inverse().trace();
+}
+
+// A smooth signal of a few wavelengths (the whole length down to 50 samples), sampled at h over
+// n samples (periodic over n h).
+std::vector<double> signal(int n, double h) {
+  std::vector<double> y(static_cast<std::size_t>(n));
+  const double length = n * h;
+  for (int i = 0; i < n; ++i) {
+    const double s = i * h;
+    y[static_cast<std::size_t>(i)] =
+        40.0 * std::sin(2 * units::pi * s / length) + 6.0 * std::cos(6 * units::pi * s / length) +
+        2.0 * std::sin(14 * units::pi * s / length) + 1.0 * std::cos(2 * units::pi * s / (50 * h));
+  }
+  return y;
+}
+
+}  // namespace
+
+TEST_CASE("the smoothing length and lambda invert each other") {
+  for (int order : {1, 2, 3})
+    for (double length : {3.0, 20.0, 150.0}) {
+      CAPTURE(order);
+      CAPTURE(length);
+      CHECK(
+          near(smoothing_length(1.0, smoothing_lambda(1.0, length, order), order), length, 1e-12));
+    }
+  // At two spacings or less the filter halves the shortest wavelength the samples hold.
+  CHECK(smoothing_length(2.0, smoothing_lambda(2.0, 3.0, 3), 3) == 4.0);
+}
+
+TEST_CASE("on a closed path the circulant trace equals the dense hat matrix's trace") {
+  // eigenvalues 1 / (1 + lambda (2 - 2 cos(2 pi k / n))^d) (REFERENCES.md, smoothing): exact,
+  // so to round-off.
+  const int n = 120;
+  Noise noise;
+  std::vector<double> y = signal(n, 2.0), x = signal(n, 2.0);
+  for (auto& v : y) v += 0.5 * noise.gauss();
+  for (auto& v : x) v = 0.3 * v + 0.5 * noise.gauss();
+  const SmoothingChoice c = choose_smoothing({x, y}, 2.0, 3, true, 4.0, 200.0);
+  CHECK(c.exact_trace);
+  CHECK(near(c.equivalent_dof, dense_trace(n, 3, true, c.lambda), 1e-10));
+}
+
+TEST_CASE("on an open path the stochastic trace estimate is within 1 % of n - tr H") {
+  // GCV's denominator is n - tr H: 16 +-1 probes estimate tr H with a standard error of about
+  // sqrt(2 tr(H^2) / 16), here a few per cent of tr H, which is a small part of n.
+  const int n = 400;
+  Noise noise;
+  std::vector<double> y = signal(n, 1.0);
+  for (auto& v : y) v += 0.5 * noise.gauss();
+  const SmoothingChoice c = choose_smoothing({y}, 1.0, 2, false, 2.0, 100.0);
+  CHECK_FALSE(c.exact_trace);
+  const double exact = dense_trace(n, 2, false, c.lambda);
+  CHECK(near(n - c.equivalent_dof, n - exact, 0.01));
+  CHECK(near(c.equivalent_dof, exact, 0.15));  // the estimate itself: within 15 %
+}
+
+TEST_CASE("GCV's noise estimate matches the noise put in, and its fit is near the best one") {
+  // Gaussian noise of 0.3 on 2 x 2000 samples: the estimate sqrt(RSS / (k (n - tr H))) has a
+  // relative standard error of about 1 / sqrt(2 k n) = 1.1 %: within 5 %. The fit's mean squared
+  // error to the true signal at GCV's lambda against the least over lambda (a fine scan):
+  // GCV is asymptotically optimal (Craven & Wahba 1979), within 30 % here.
+  const int n = 2000;
+  const double h = 1.0, sigma = 0.3;
+  Noise noise;
+  const std::vector<double> truth_x = signal(n, h);
+  std::vector<double> truth_y(truth_x.rbegin(), truth_x.rend());
+  std::vector<double> x = truth_x, y = truth_y;
+  for (auto& v : x) v += sigma * noise.gauss();
+  for (auto& v : y) v += sigma * noise.gauss();
+  for (bool periodic : {true, false}) {
+    CAPTURE(periodic);
+    const SmoothingChoice c = choose_smoothing({x, y}, h, 3, periodic, 2.0, 100.0);
+    CHECK_FALSE(c.at_lower_bound);
+    CHECK_FALSE(c.at_upper_bound);
+    CHECK(near(c.noise_rms, sigma, 0.05));
+    auto mse = [&](double length) {
+      const auto fx = smooth(x, h, length, 3, periodic), fy = smooth(y, h, length, 3, periodic);
+      double e = 0.0;
+      for (int i = 0; i < n; ++i) {
+        const auto k = static_cast<std::size_t>(i);
+        e += std::pow(fx[k] - truth_x[k], 2) + std::pow(fy[k] - truth_y[k], 2);
+      }
+      return e / (2 * n);
+    };
+    double best = mse(c.length_m);
+    for (double length = 2.0; length <= 100.0; length *= 1.05) best = std::min(best, mse(length));
+    CHECK(mse(c.length_m) <= 1.3 * best);
+  }
+}
+
+TEST_CASE("noise-free samples put GCV's choice at the shortest length searched") {
+  // A signal with no noise: every bit of smoothing costs fit, so GCV goes as short as it may,
+  // and says so.
+  const SmoothingChoice c = choose_smoothing({signal(500, 1.0)}, 1.0, 3, true, 2.0, 100.0);
+  CHECK(c.at_lower_bound);
+  CHECK(c.noise_rms < 1e-3);
+}
