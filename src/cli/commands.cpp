@@ -31,6 +31,7 @@
 #include "lapwing/path/corners.hpp"
 #include "lapwing/path/mesh.hpp"
 #include "lapwing/path/racing_line.hpp"
+#include "lapwing/report/cells.hpp"
 #include "lapwing/report/check_report.hpp"
 #include "lapwing/report/compare_report.hpp"
 #include "lapwing/report/html_report.hpp"
@@ -546,17 +547,31 @@ int sweep(const SweepOptions& o, Inputs& in) {
   if (counts.not_ok)
     std::cout << "note    " << counts.not_ok
               << " laps cannot complete their track (status cannot-move in the laps table)\n";
-  std::vector<std::vector<std::string>> rows;
   std::vector<std::string> header{"track", "config", "lap s"};
   for (const auto& s : plan.sets()) header.push_back(s.key + (s.unit.empty() ? "" : " " + s.unit));
   header.push_back("point");
-  for (const BestPoint& b : best_points(o.out)) {
-    std::vector<std::string> row{b.track, b.config, fixed(b.lap_time_s, 3)};
-    for (const auto& v : b.values) row.push_back(v.second);
-    row.push_back(std::to_string(b.point));
-    rows.push_back(row);
+  const auto best_table = [&](const std::vector<BestPoint>& best) {
+    std::vector<std::vector<std::string>> rows;
+    for (const BestPoint& b : best) {
+      std::vector<std::string> row{b.track, b.config, fixed(b.lap_time_s, 3)};
+      for (const auto& v : b.values) row.push_back(v.second);
+      row.push_back(std::to_string(b.point));
+      rows.push_back(row);
+    }
+    return text_table(header, rows);
+  };
+  std::cout << "\nbest point per track (" << o.out << ")\n" << best_table(best_points(o.out));
+  // The fastest point whose lap keeps the front share inside the car's balance window: the best
+  // overall may be one the driver would not accept (README, "Sweep").
+  if (const auto& w = base.balance_window) {
+    const std::vector<BestPoint> inside = best_points_in_window(o.out);
+    std::cout << "\nbest point per track inside the balance window (" << window_text(*w) << ")\n"
+              << best_table(inside);
+    for (const auto& t : study.tracks)
+      if (std::none_of(inside.begin(), inside.end(),
+                       [&](const BestPoint& b) { return b.track == t; }))
+        std::cout << t << ": no point's lap stays inside the window\n";
   }
-  std::cout << "\nbest point per track (" << o.out << ")\n" << text_table(header, rows);
   if (r.stopped) {
     std::cout << "stopped: " << r.run << " of " << (r.in_shard - r.skipped)
               << " points done and committed; run the same command again to resume\n";

@@ -164,10 +164,9 @@ void create_schema(Connection& c, const StudyRecord& st, const SweepPlan& plan) 
       "CREATE TABLE laps (point INTEGER NOT NULL, track TEXT NOT NULL, "
       "config TEXT NOT NULL";
   for (const auto& set : plan.sets()) sql += ", " + quoted(set.key);
-  sql +=
-      ", lap_time_s REAL, top_speed_kph REAL, min_speed_kph REAL, full_throttle_fraction REAL, "
-      "braking_fraction REAL, min_front_share_200kph REAL, status TEXT NOT NULL, "
-      "message TEXT NOT NULL, PRIMARY KEY (point, track, config))";
+  for (const StoreColumn& col : sweep_result_columns)
+    sql += ", " + std::string(col.name) + " " + col.type;
+  sql += ", PRIMARY KEY (point, track, config))";
   c.exec(sql);
 }
 
@@ -205,7 +204,8 @@ SweepStore::SweepStore(const std::string& file, const StudyRecord& study, const 
   }
   std::string sql = "INSERT OR IGNORE INTO laps VALUES (?, ?, ?";
   for (std::size_t i = 0; i < plan.sets().size(); ++i) sql += ", ?";
-  sql += ", ?, ?, ?, ?, ?, ?, ?, ?)";
+  for (std::size_t i = 0; i < std::size(sweep_result_columns); ++i) sql += ", ?";
+  sql += ")";
   db_->insert = std::make_unique<Statement>(c, sql);
 }
 
@@ -240,9 +240,14 @@ void SweepStore::commit(const std::vector<SweepRow>& rows) {
         s.bind(i++, *r.lowest_front_share_fast);
       else
         s.bind_null(i++);
+      if (r.window)
+        s.bind(i++, std::string(window_column_text(*r.window)));
+      else
+        s.bind_null(i++);
       s.bind(i++, std::string("ok"));
     } else {
-      for (int k = 0; k < 6; ++k) s.bind_null(i++);
+      // Every result column but status and message is NULL for a lap that cannot move.
+      for (std::size_t k = 0; k + 2 < std::size(sweep_result_columns); ++k) s.bind_null(i++);
       s.bind(i++, std::string("cannot-move"));
     }
     s.bind(i++, r.message);
@@ -250,6 +255,18 @@ void SweepStore::commit(const std::vector<SweepRow>& rows) {
     done_[r.point] = true;
   }
   c.exec("COMMIT");
+}
+
+const char* window_column_text(WindowResult w) {
+  switch (w) {
+    case WindowResult::pass:
+      return "pass";
+    case WindowResult::fail:
+      return "fail";
+    case WindowResult::not_reached:
+      return "not reached";  // the words of summary.json's "result" (README, "Output files")
+  }
+  return "?";
 }
 
 namespace {
@@ -261,7 +278,9 @@ std::vector<std::string> set_keys(Connection& c) {
 }
 }  // namespace
 
-std::vector<BestPoint> best_points(const std::string& file) {
+namespace {
+// Per track, the fastest ok lap that meets `where` (SQL over the laps table's columns).
+std::vector<BestPoint> best_where(const std::string& file, const std::string& where) {
   if (!std::filesystem::exists(file)) throw OutputError(file + ": no such results store");
   Connection c(file, false);
   const std::vector<std::string> keys = set_keys(c);
@@ -270,8 +289,8 @@ std::vector<BestPoint> best_points(const std::string& file) {
   std::vector<BestPoint> out;
   Statement tracks(c, "SELECT track FROM tracks ORDER BY track_index");
   Statement best(c, "SELECT config, point, lap_time_s" + cols +
-                        " FROM laps WHERE track = ? AND status = 'ok' "
-                        "ORDER BY lap_time_s, point, config LIMIT 1");
+                        " FROM laps WHERE track = ? AND status = 'ok'" + where +
+                        " ORDER BY lap_time_s, point, config LIMIT 1");
   while (tracks.step()) {
     best.reset();
     best.bind(1, tracks.text(0));
@@ -285,6 +304,15 @@ std::vector<BestPoint> best_points(const std::string& file) {
     out.push_back(std::move(b));
   }
   return out;
+}
+}  // namespace
+
+std::vector<BestPoint> best_points(const std::string& file) {
+  return best_where(file, "");
+}
+
+std::vector<BestPoint> best_points_in_window(const std::string& file) {
+  return best_where(file, " AND balance_window = 'pass'");
 }
 
 StoreCounts store_counts(const std::string& file) {

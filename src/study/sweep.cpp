@@ -317,6 +317,7 @@ SweepOutcome run_sweep(const SweepPlan& plan, const std::vector<Circuit>& circui
             r.braking_fraction = s.braking_fraction;
             if (s.balance.has_fast_acceleration)
               r.lowest_front_share_fast = s.balance.lowest_front_share_fast;
+            if (s.balance.window) r.window = window_result(*s.balance.window);
           } catch (const CannotMove& e) {
             // A point that cannot lap is a result of the study, not a stop (README, "Sweep").
             r.ok = false;

@@ -3,7 +3,8 @@
 # or two is the same file; shards merge to the unsharded study; shards of another study are
 # refused; a sweep killed with SIGKILL (or stopped by SIGINT) resumes to the complete and identical table; a bad --set
 # is refused before anything runs (exit 2, no file); a family at a measured setting laps as that
-# config does with `run`.
+# config does with `run`, its balance window's result is run's, and the terminal's best point
+# inside the window is the fastest lap that passes it.
 #   sweep_test.sh LAPWING_BINARY SOURCE_DIR
 set -u
 bin=$(realpath "$1")
@@ -26,7 +27,7 @@ export_csv() { "$bin" sweep export "$1" --csv "$2" > /dev/null; }
 export_csv "$tmp/t1.sqlite" "$tmp/t1.csv" && export_csv "$tmp/t2.sqlite" "$tmp/t2.csv" || bad export
 # 10 points x 2 tracks x 2 configs = 40 rows and the header.
 [ "$(wc -l < "$tmp/t1.csv")" = 41 ] && ok || bad "expected 41 lines, got $(wc -l < "$tmp/t1.csv")"
-[ "$(head -n 1 "$tmp/t1.csv")" = "point,track,config,mass,tyres.mu_lat,lap_time_s,top_speed_kph,min_speed_kph,full_throttle_fraction,braking_fraction,min_front_share_200kph,status,message" ] &&
+[ "$(head -n 1 "$tmp/t1.csv")" = "point,track,config,mass,tyres.mu_lat,lap_time_s,top_speed_kph,min_speed_kph,full_throttle_fraction,braking_fraction,min_front_share_200kph,balance_window,status,message" ] &&
   ok || bad "csv header: $(head -n 1 "$tmp/t1.csv")"
 cmp -s "$tmp/t1.csv" "$tmp/t2.csv" && ok || bad "threads change the rows"
 grep -q "^best point per track" "$tmp/t1.txt" && grep -q "^skidpad " "$tmp/t1.txt" && ok ||
@@ -142,6 +143,30 @@ for r in csv.DictReader(open(sys.argv[1])):
     if float(r['front_flap']) == 17: print(repr(float(r['lap_time_s'])))" "$tmp/flap.csv")
 [ -n "$want" ] && [ "$want" = "$got" ] && ok || bad "front_flap at 17 deg laps in $got s, flap17 in $want s"
 grep -q "^cairnholt  *front_flap" "$tmp/flap.txt" && ok || bad "best point: $(cat "$tmp/flap.txt")"
+# The balance window (the car has one): each lap's result is `run`'s for that config, and the
+# terminal's best point inside the window is the fastest lap whose result is pass.
+want=$(python3 -c "import json,sys; print(json.load(open(sys.argv[1]))['results'][0]['balance']['window']['result'])" "$tmp/run17/summary.json")
+got=$(python3 -c "
+import csv, sys
+for r in csv.DictReader(open(sys.argv[1])):
+    if float(r['front_flap']) == 17: print(r['balance_window'])" "$tmp/flap.csv")
+[ -n "$want" ] && [ "$want" = "$got" ] && ok || bad "front_flap at 17 deg: window '$got', flap17 in run '$want'"
+python3 - "$tmp/flap.csv" "$tmp/flap.txt" << 'EOF' && ok || bad "best inside the window: $(cat "$tmp/flap.txt")"
+import csv, sys
+rows = list(csv.DictReader(open(sys.argv[1])))
+assert all(r["balance_window"] in ("pass", "fail", "not reached") for r in rows), rows
+inside = [r for r in rows if r["balance_window"] == "pass"]
+text = open(sys.argv[2]).read()
+part = text.split("best point per track inside the balance window", 1)
+assert len(part) == 2, "no inside-window table"
+lines = [l for l in part[1].splitlines() if l.startswith("cairnholt")]
+if inside:
+    best = min(inside, key=lambda r: (float(r["lap_time_s"]), int(r["point"])))
+    assert len(lines) == 1, lines
+    assert lines[0].split()[-1] == best["point"], (lines, best)
+else:
+    assert "cairnholt: no point's lap stays inside the window" in part[1], part[1]
+EOF
 
 # A point that cannot lap (drive below the rolling resistance) is a row with its status and reason;
 # the study goes on. A file that is no results store is refused and left alone.
@@ -149,7 +174,7 @@ grep -q "^cairnholt  *front_flap" "$tmp/flap.txt" && ok || bad "best point: $(ca
   --out "$tmp/cm.sqlite" > "$tmp/cm.txt" 2>&1 || bad "cannot-move sweep: $(cat "$tmp/cm.txt")"
 export_csv "$tmp/cm.sqlite" "$tmp/cm.csv"
 grep -q '^0,acceleration,low,1,[0-9.]*,.*,ok,$' "$tmp/cm.csv" &&
-  grep -q '^1,acceleration,low,0.002,,,,,,,cannot-move,the car cannot hold any speed' "$tmp/cm.csv" &&
+  grep -q '^1,acceleration,low,0.002,,,,,,,,cannot-move,the car cannot hold any speed' "$tmp/cm.csv" &&
   grep -q "^note    1 laps cannot complete" "$tmp/cm.txt" && ok || bad "cannot-move rows: $(cat "$tmp/cm.csv")"
 cp README.md "$tmp/not-a-store.sqlite"
 "$bin" sweep "${study[@]}" --out "$tmp/not-a-store.sqlite" > /dev/null 2> "$tmp/err.txt"

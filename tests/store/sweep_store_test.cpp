@@ -1,5 +1,6 @@
 // The results store: rows survive a reopen and are skipped there, doubles come back bit for bit,
-// another study is refused, and merge joins shards of one study only.
+// another study is refused, merge joins shards of one study only, and the balance window's
+// result is a column the best point inside the window is read from.
 #include <doctest/doctest.h>
 
 #include <cstdint>
@@ -81,7 +82,7 @@ TEST_CASE("committed rows are held on reopening, and their doubles come back exa
   const std::size_t line2 = csv.find('\n') + 1;
   CHECK(csv.substr(0, line2) ==
         "point,track,config,mass,lap_time_s,top_speed_kph,min_speed_kph,full_throttle_fraction,"
-        "braking_fraction,min_front_share_200kph,status,message\n");
+        "braking_fraction,min_front_share_200kph,balance_window,status,message\n");
   const std::string first = csv.substr(line2, csv.find(',', csv.find("650,") + 4) - line2);
   CHECK(first.rfind("1,oval,low,650,", 0) == 0);
   const double back = std::stod(first.substr(first.rfind(',') + 1));
@@ -118,4 +119,41 @@ TEST_CASE("merge joins the shards of one study, each row once") {
   CHECK(c.rows == 3);
   CHECK(c.expected == 3);  // 3 points x 1 track x 1 config
   CHECK(best_points(s.file("m.sqlite")).at(0).lap_time_s == 61.0);
+}
+
+TEST_CASE("the balance window's result is stored per lap, and the best point inside it is found") {
+  const Scratch s;
+  const SweepPlan plan({parse_set("mass=600kg:700kg:3")}, {});
+  {
+    SweepStore store(s.file("w.sqlite"), record("00000000000000dd", "1/1"), plan);
+    // The fastest lap leaves the window; the next passes; the slowest never reaches it.
+    SweepRow fast = row(0, 60.0), mid = row(1, 61.0), slow = row(2, 62.0);
+    fast.window = WindowResult::fail;
+    mid.window = WindowResult::pass;
+    slow.window = WindowResult::not_reached;
+    store.commit({fast, mid, slow});
+  }
+  export_csv(s.file("w.sqlite"), s.file("w.csv"));
+  const std::string csv = slurp(s.file("w.csv"));
+  CHECK(csv.find("0,oval,low,600,60,250,80,0.6,0.1,,fail,ok,\n") != std::string::npos);
+  CHECK(csv.find("1,oval,low,650,61,250,80,0.6,0.1,,pass,ok,\n") != std::string::npos);
+  CHECK(csv.find("2,oval,low,700,62,250,80,0.6,0.1,,not reached,ok,\n") != std::string::npos);
+  CHECK(best_points(s.file("w.sqlite")).at(0).point == 0);
+  const std::vector<BestPoint> inside = best_points_in_window(s.file("w.sqlite"));
+  REQUIRE(inside.size() == 1);
+  CHECK(inside[0].point == 1);
+  CHECK(inside[0].lap_time_s == 61.0);
+}
+
+TEST_CASE("without a window the column is NULL and no point is inside it") {
+  const Scratch s;
+  const SweepPlan plan({parse_set("mass=600kg:700kg:3")}, {});
+  {
+    SweepStore store(s.file("n.sqlite"), record("00000000000000ee", "1/1"), plan);
+    store.commit({row(0, 60.0)});
+  }
+  export_csv(s.file("n.sqlite"), s.file("n.csv"));
+  CHECK(slurp(s.file("n.csv")).find("0,oval,low,600,60,250,80,0.6,0.1,,,ok,\n") !=
+        std::string::npos);
+  CHECK(best_points_in_window(s.file("n.sqlite")).empty());
 }

@@ -1,12 +1,15 @@
 // The sweep's sets, designs and shards, and its run: what it stores does not depend on the thread
-// count, shards partition the points, and points a sink holds are skipped.
+// count, shards partition the points, points a sink holds are skipped, and each row holds the
+// lap against the car's balance window.
 #include <doctest/doctest.h>
 
 #include <algorithm>
 #include <cmath>
 #include <map>
+#include <optional>
 #include <set>
 #include <tuple>
+#include <vector>
 
 #include "lapwing/base/error.hpp"
 #include "lapwing/study/sweep.hpp"
@@ -185,4 +188,45 @@ TEST_CASE("shards partition the points, and held points are skipped") {
   const MemorySink rest = f.run(1, {}, {0, 1, 2, 3});
   CHECK(rest.rows.size() == 6);
   CHECK(rest.rows.count({0, 0, 0}) == 0);
+}
+
+namespace {
+// The window's result of each row of a one-point sweep round the 60 m circle (mu 1.2).
+std::vector<std::optional<WindowResult>> window_rows(std::optional<BalanceWindow> window) {
+  struct Sink : SweepSink {
+    std::vector<std::optional<WindowResult>> got;
+    bool has(std::size_t) const override { return false; }
+    void commit(const std::vector<SweepRow>& r) override {
+      for (const auto& row : r) got.push_back(row.window);
+    }
+  } sink;
+  const Circuit circuit = lay_out(test::circle_track(60.0, 2.0), make_air(AirSpec{}));
+  const SweepPlan plan({parse_set("mass=600")}, {});
+  run_sweep(plan, {circuit}, {test::plain_car().configs.front().name},
+            [&](std::size_t) {
+              Car c = test::plain_car(600.0, 1.2);
+              c.balance_window = window;
+              return c;
+            },
+            sink, {});
+  return sink.got;
+}
+}  // namespace
+
+TEST_CASE("each row holds the lap against the car's balance window: pass, fail, not reached") {
+  // On a flat circle the lap is the steady corner: v = sqrt(mu g R) = sqrt(1.2 g0 60 m) = 95.8
+  // km/h, 1.2 g lateral (closed form of the point mass), no longitudinal acceleration, and the
+  // plain car has no drag or downforce, so the front axle carries its static share, 0.45, all
+  // lap (axle loads: moments about the rear contact patch, no transfer without ax or drag).
+  const auto at = [](double lo, double hi, double above_kph) {
+    return window_rows(BalanceWindow{lo, hi, above_kph * units::kph});
+  };
+  CHECK(at(0.40, 0.50, 50.0) == std::vector<std::optional<WindowResult>>{WindowResult::pass});
+  CHECK(at(0.46, 0.60, 50.0) == std::vector<std::optional<WindowResult>>{WindowResult::fail});
+  CHECK(at(0.30, 0.44, 50.0) == std::vector<std::optional<WindowResult>>{WindowResult::fail});
+  // Never above 100 km/h: the window's conditions are not met, nothing is tested.
+  CHECK(at(0.40, 0.50, 100.0) ==
+        std::vector<std::optional<WindowResult>>{WindowResult::not_reached});
+  // No window: no result (a NULL in the store).
+  CHECK(window_rows(std::nullopt) == std::vector<std::optional<WindowResult>>{std::nullopt});
 }

@@ -65,6 +65,10 @@ struct BestPoint {
   std::vector<std::pair<std::string, std::string>> values;  // set key, value as stored
   double lap_time_s = 0.0;
 };
+/// Per track (in the order the study names them), the best point among the laps whose
+/// balance_window is pass; a track with none is left out, and so is every track when the car
+/// has no balance window (the column is NULL throughout).
+std::vector<BestPoint> best_points_in_window(const std::string& file);
 /// Per track (in the order the study names them), the best point; a track with no lap that
 /// completes is left out. OutputError when `file` is no results store.
 std::vector<BestPoint> best_points(const std::string& file);
@@ -86,9 +90,20 @@ void merge_stores(const std::string& out, const std::vector<std::string>& inputs
 /// Written atomically.
 void export_csv(const std::string& file, const std::string& csv_file);
 
-/// The laps table's fixed columns after the sets (README, "Sweep"), in order.
-inline constexpr const char* sweep_result_columns[] = {
-    "lap_time_s",       "top_speed_kph",          "min_speed_kph", "full_throttle_fraction",
-    "braking_fraction", "min_front_share_200kph", "status",        "message"};
+/// The laps table's fixed columns after the sets (README, "Sweep"), in order, with their SQL
+/// type: the one definition the table, its rows and the CSV export follow.
+struct StoreColumn {
+  const char* name;
+  const char* type;
+};
+inline constexpr StoreColumn sweep_result_columns[] = {
+    {"lap_time_s", "REAL"},       {"top_speed_kph", "REAL"},
+    {"min_speed_kph", "REAL"},    {"full_throttle_fraction", "REAL"},
+    {"braking_fraction", "REAL"}, {"min_front_share_200kph", "REAL"},
+    {"balance_window", "TEXT"},  // pass, fail, not reached; NULL: the car has no window
+    {"status", "TEXT NOT NULL"},  {"message", "TEXT NOT NULL"}};
+
+/// The word a balance window's result is stored as ("pass", "fail", "not reached").
+const char* window_column_text(WindowResult w);
 
 }  // namespace lapwing

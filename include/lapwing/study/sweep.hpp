@@ -112,6 +112,7 @@ struct SweepRow {
   double lap_time_s = 0, top_speed_kph = 0, min_speed_kph = 0;
   double full_throttle_fraction = 0, braking_fraction = 0;
   std::optional<double> lowest_front_share_fast;  // accelerating above 200 km/h, when it does
+  std::optional<WindowResult> window;             // none: the car has no balance window
 };
 
 /// Where finished points go. `has` says a point is stored already (a resumed study skips it);
