@@ -208,7 +208,17 @@ int main(int argc, char** argv) {
       "Example:\n  lapwing track line --track tracks/brannock-park.yaml --out "
       "out/brannock-line.yaml --car cars/pellion-fr2.yaml");
   cli::SweepOptions sweep_o;
-  for (int i = 0; i < argc; ++i) sweep_o.command += (i ? " " : "") + std::string(argv[i]);
+  // The command as typed, stored with the results, without --threads: the store's bytes do not
+  // depend on the thread count (README, "Sweep").
+  for (int i = 0; i < argc; ++i) {
+    const std::string a = argv[i];
+    if (a == "--threads") {
+      ++i;
+      continue;
+    }
+    if (a.rfind("--threads=", 0) == 0) continue;
+    sweep_o.command += (sweep_o.command.empty() ? "" : " ") + a;
+  }
   auto* sweep = app.add_subcommand(
       "sweep", "Laps over any values of the car (a grid or samples) into an SQLite results store");
   sweep->add_option("--car", sweep_o.car, "Car file (YAML)");

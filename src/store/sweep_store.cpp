@@ -187,6 +187,12 @@ SweepStore::SweepStore(const std::string& file, const StudyRecord& study, const 
   // In SQLite").
   c.exec("PRAGMA synchronous = FULL");
   if (!exists) {
+    // The file's layout fixed here rather than left to how the library was built (its compiled
+    // defaults), so that the same study gives the same bytes: 4096-byte pages, no auto-vacuum.
+    // Nothing in the file depends on the clock or the thread count (rows go in point order, 64
+    // points per transaction); what still differs between machines is the SQLite version
+    // stamped in the header (SQLite, "Database File Format", offsets 92-99).
+    c.exec("PRAGMA page_size = 4096; PRAGMA auto_vacuum = NONE");
     c.exec("BEGIN");
     create_schema(c, study, plan);
     c.exec("COMMIT");

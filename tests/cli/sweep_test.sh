@@ -1,6 +1,6 @@
 #!/usr/bin/env bash
 # End to end: lapwing sweep and its results store (README, "Sweep"). The same study on one thread
-# or two is the same file; shards merge to the unsharded study; shards of another study are
+# or two is the same file, byte for byte; shards merge to the unsharded study; shards of another study are
 # refused; a sweep killed with SIGKILL (or stopped by SIGINT) resumes to the complete and identical table; a bad --set
 # is refused before anything runs (exit 2, no file); a family at a measured setting laps as that
 # config does with `run`, its balance window's result is run's, and the terminal's best point
@@ -21,15 +21,28 @@ study=(--car "$car" --track tracks/skidpad.yaml --track tracks/acceleration.yaml
   --set mass=600kg:680kg:5 --set tyres.mu_lat=1.5,1.7 --config low --config high)
 export_csv() { "$bin" sweep export "$1" --csv "$2" > /dev/null; }
 
-# 1. Threads: the same rows in the same order (the files differ only in the command stored).
-"$bin" sweep "${study[@]}" --threads 1 --out "$tmp/t1.sqlite" > "$tmp/t1.txt" 2>&1 || bad "sweep: $(cat "$tmp/t1.txt")"
-"$bin" sweep "${study[@]}" --threads 2 --out "$tmp/t2.sqlite" > "$tmp/t2.txt" 2>&1 || bad "sweep -j2"
+# 1. Threads: the same file, byte for byte (the project's rule for output files; the command
+# stored leaves --threads out: README, "Sweep").
+# The same --out for both (it is part of the command stored), then moved aside.
+"$bin" sweep "${study[@]}" --threads 1 --out "$tmp/t.sqlite" > "$tmp/t1.txt" 2>&1 || bad "sweep: $(cat "$tmp/t1.txt")"
+mv "$tmp/t.sqlite" "$tmp/t1.sqlite"
+"$bin" sweep "${study[@]}" --threads 2 --out "$tmp/t.sqlite" > "$tmp/t2.txt" 2>&1 || bad "sweep -j2"
+mv "$tmp/t.sqlite" "$tmp/t2.sqlite"
 export_csv "$tmp/t1.sqlite" "$tmp/t1.csv" && export_csv "$tmp/t2.sqlite" "$tmp/t2.csv" || bad export
 # 10 points x 2 tracks x 2 configs = 40 rows and the header.
 [ "$(wc -l < "$tmp/t1.csv")" = 41 ] && ok || bad "expected 41 lines, got $(wc -l < "$tmp/t1.csv")"
 [ "$(head -n 1 "$tmp/t1.csv")" = "point,track,config,mass,tyres.mu_lat,lap_time_s,top_speed_kph,min_speed_kph,full_throttle_fraction,braking_fraction,min_front_share_200kph,balance_window,status,message" ] &&
   ok || bad "csv header: $(head -n 1 "$tmp/t1.csv")"
 cmp -s "$tmp/t1.csv" "$tmp/t2.csv" && ok || bad "threads change the rows"
+cmp "$tmp/t1.sqlite" "$tmp/t2.sqlite" && ok || bad "the results stores of --threads 1 and 2 differ"
+# --threads=2 is left out too, and the command is otherwise the one typed.
+"$bin" sweep "${study[@]}" --threads=2 --out "$tmp/t.sqlite" > /dev/null 2>&1 || bad "sweep --threads=2"
+cmp "$tmp/t1.sqlite" "$tmp/t.sqlite" && ok || bad "--threads=2 changes the results store"
+python3 - "$tmp/t1.sqlite" "$tmp/t.sqlite" << 'EOF' && ok || bad "stored command: $(python3 -c "import sqlite3,sys; print(sqlite3.connect(sys.argv[1]).execute('SELECT command FROM study').fetchone())" "$tmp/t1.sqlite")"
+import sqlite3, sys
+(command,) = sqlite3.connect(sys.argv[1]).execute("SELECT command FROM study").fetchone()
+assert "--threads" not in command and command.endswith("--config high --out " + sys.argv[2]), command
+EOF
 grep -q "^best point per track" "$tmp/t1.txt" && grep -q "^skidpad " "$tmp/t1.txt" && ok ||
   bad "no best point per track: $(cat "$tmp/t1.txt")"
 # The same command again: every point is stored, none is run again, nothing changes.
