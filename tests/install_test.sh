@@ -29,7 +29,7 @@ for f in include/lapwing/lapwing.hpp include/lapwing/solve/solver.hpp \
   lib/cmake/lapwing/lapwingTargets.cmake; do
   [ -e "$prefix/$f" ] || { echo "FAIL: the install lacks $f"; fail=1; }
 done
-for layer in base model path io solve study report; do
+for layer in base model path io solve study store report; do
   [ -e "$prefix/lib/liblapwing_$layer.a" ] || { echo "FAIL: no lib/liblapwing_$layer.a"; fail=1; }
 done
 # Relocatable: the package names neither the source tree nor the build tree (a consumer on

@@ -12,6 +12,7 @@
 // base
 #include "lapwing/base/error.hpp"
 #include "lapwing/base/format.hpp"
+#include "lapwing/base/hash.hpp"
 #include "lapwing/base/interpolate.hpp"
 #include "lapwing/base/range.hpp"
 #include "lapwing/base/text.hpp"
@@ -64,9 +65,13 @@
 #include "lapwing/study/compare.hpp"
 #include "lapwing/study/memory.hpp"
 #include "lapwing/study/min_time_line.hpp"
+#include "lapwing/study/sweep.hpp"
 #include "lapwing/study/thread_pool.hpp"
 #include "lapwing/study/track_quality.hpp"
 #include "lapwing/study/trade.hpp"
+
+// store
+#include "lapwing/store/sweep_store.hpp"
 
 // report
 #include "lapwing/report/cells.hpp"

@@ -1,13 +1,21 @@
 #include "commands.hpp"
 
+#include <unistd.h>
+
 #include <algorithm>
 #include <cmath>
+#include <atomic>
+#include <chrono>
+#include <csignal>
 #include <filesystem>
+#include <fstream>
 #include <iostream>
 #include <thread>
+#include <sstream>
 
 #include "lapwing/base/error.hpp"
 #include "lapwing/base/format.hpp"
+#include "lapwing/base/hash.hpp"
 #include "lapwing/base/units.hpp"
 #include "lapwing/base/version.hpp"
 #include "lapwing/io/car_file.hpp"
@@ -25,6 +33,7 @@
 #include "lapwing/path/corners.hpp"
 #include "lapwing/path/mesh.hpp"
 #include "lapwing/path/racing_line.hpp"
+#include "lapwing/report/cells.hpp"
 #include "lapwing/report/check_report.hpp"
 #include "lapwing/report/compare_report.hpp"
 #include "lapwing/report/html_report.hpp"
@@ -37,11 +46,14 @@
 #include "lapwing/solve/envelope.hpp"
 #include "lapwing/solve/solver.hpp"
 #include "lapwing/solve/summary.hpp"
+#include "lapwing/store/sweep_store.hpp"
 #include "lapwing/study/check_summary.hpp"
 #include "lapwing/study/circuit.hpp"
 #include "lapwing/study/compare.hpp"
 #include "lapwing/study/memory.hpp"
 #include "lapwing/study/min_time_line.hpp"
+#include "lapwing/study/sweep.hpp"
+#include "lapwing/study/thread_pool.hpp"
 #include "lapwing/study/track_quality.hpp"
 #include "lapwing/study/trade.hpp"
 
@@ -542,6 +554,197 @@ int trade(const TradeOptions& o, Inputs& in) {
   std::cout << out;
   return 0;
 }
+
+// --- sweep -------------------------------------------------------------------------------------
+
+std::atomic<bool> sweep_interrupted{false};
+extern "C" void on_sigint(int) {
+  sweep_interrupted.store(true);
+}
+
+std::string read_bytes(const std::string& file) {
+  std::ifstream in(file, std::ios::binary);
+  std::ostringstream ss;
+  ss << in.rdbuf();
+  return ss.str();
+}
+
+// A point's car refused by the car file's rules, said as the set (or the point's values) that
+// made it: "--set mass=500kg:700kg:3: value 500 kg: ... (mass)".
+UsageError point_error(const SweepPlan& plan, const std::vector<std::string>& paths,
+                       std::size_t point, const InputError& e) {
+  for (std::size_t s = 0; s < paths.size(); ++s) {
+    const std::string& p = paths[s];
+    const std::string& k = e.key_path();
+    if (k == p || k.rfind(p + ".", 0) == 0 || k.rfind(p + "[", 0) == 0)
+      return UsageError{"--set " + plan.sets()[s].text + ": at " + plan.value(point, s).text +
+                        ": " + e.message() + " (" + k + ")"};
+  }
+  std::string values;
+  for (std::size_t s = 0; s < paths.size(); ++s)
+    values += (values.empty() ? "" : ", ") + plan.sets()[s].key + " = " + plan.value(point, s).text;
+  return UsageError{"--set: the point " + values + ": " + e.message() +
+                    (e.key_path().empty() ? "" : " (" + e.key_path() + ")")};
+}
+
+int sweep(const SweepOptions& o, Inputs& in) {
+  if (o.car.empty()) throw UsageError{"sweep: --car is required"};
+  if (o.tracks.empty()) throw UsageError{"sweep: --track is required"};
+  if (o.sets.empty()) throw UsageError{"sweep: give at least one --set KEY=VALUES"};
+  if (o.out.empty()) throw UsageError{"sweep: --out FILE.sqlite is required"};
+  const AirOverride air = parse_air(o.air);
+  std::vector<SweepSet> sets;
+  for (const auto& text : o.sets) sets.push_back(parse_set(text));
+  const SweepDesign design = parse_design(o.design);
+  const Shard shard = parse_shard(o.shard);
+  const SweepPlan plan(sets, design);
+
+  // The car file as a document: each point sets its values there and is read like a car file.
+  const Document doc = load_document(o.car);
+  Car base = in.car(o.car);
+  apply_model(o.model, base);
+  std::vector<std::string> paths;
+  std::vector<std::string> configs = o.configs;
+  for (const auto& s : plan.sets()) {
+    paths.push_back(car_key_path(doc, s.key));
+    const std::string fam = "aero.families." + s.key + ".at";
+    // Without --config, a swept family's config is what is run.
+    if (o.configs.empty() && paths.back() == fam) configs.push_back(s.key);
+  }
+  if (configs.empty()) configs.push_back(base.configs.front().name);
+  for (const auto& c : configs) pick_config(base, c);
+  for (std::size_t i = 0; i < configs.size(); ++i)
+    for (std::size_t j = 0; j < i; ++j)
+      if (configs[i] == configs[j]) throw UsageError{"--config " + configs[i] + " is given twice"};
+  const std::vector<Circuit> circuits = in.lay_out_all(o.tracks, air);
+
+  const auto car_at = [&](std::size_t point) {
+    Document d = doc;
+    for (std::size_t s = 0; s < paths.size(); ++s)
+      set_car_value(d, paths[s], plan.value(point, s).text);
+    Car car = read_car_document(d).car;
+    apply_model(o.model, car);
+    return car;
+  };
+  // Every point of the shard is read and checked before any lap is run.
+  std::vector<std::size_t> mine;
+  for (std::size_t p = 0; p < plan.points(); ++p)
+    if (shard.contains(p)) mine.push_back(p);
+  parallel_for(mine.size(), o.threads, [&](std::size_t i, LapSolver&) {
+    try {
+      const Car car = car_at(mine[i]);
+      for (const auto& c : configs)
+        if (car.config_index(c) < 0) throw InputError(o.car, Mark{}, "no config named '" + c + "'");
+    } catch (const InputError& e) {
+      throw point_error(plan, paths, mine[i], e);
+    }
+  });
+
+  StudyRecord study;
+  study.version = version();
+  study.command = o.command;
+  study.design = design.text();
+  study.shard = shard.text();
+  study.points = plan.points();
+  std::string identity = "lapwing " + study.version + "\n";
+  const std::string car_bytes = read_bytes(o.car);
+  study.inputs.push_back({"car", o.car, hex64(fnv1a64(car_bytes))});
+  identity += "car " + study.inputs.back().fnv1a64 + "\n";
+  for (std::size_t t = 0; t < circuits.size(); ++t) {
+    study.inputs.push_back({"track", o.tracks[t], hex64(fnv1a64(read_bytes(o.tracks[t])))});
+    identity += "track " + study.inputs.back().fnv1a64 + "\n";
+    // A track's data (centerline or curvature CSV) is an input too: a changed file is another
+    // study.
+    if (const auto& p = circuits[t].track.profile; p && !p->data_file.empty()) {
+      study.inputs.push_back(
+          {"track-data", p->data_file, hex64(fnv1a64(read_bytes(p->data_file)))});
+      identity += "track-data " + study.inputs.back().fnv1a64 + "\n";
+    }
+    study.tracks.push_back(circuits[t].track.id);
+  }
+  study.configs = configs;
+  for (const auto& c : configs) identity += "config " + c + "\n";
+  for (const auto& s : plan.sets()) identity += "set " + s.text + "\n";
+  identity += "design " + design.text() + "\nmodel " + o.model + "\nair " + o.air.altitude + "|" +
+              o.air.temperature + "|" + o.air.pressure + "|" + o.air.humidity + "\n";
+  study.study_id = hex64(fnv1a64(identity));
+  for (std::size_t t = 0; t < study.tracks.size(); ++t)
+    for (std::size_t j = 0; j < t; ++j)
+      if (study.tracks[t] == study.tracks[j])
+        throw UsageError{"--track: two tracks share the name '" + study.tracks[t] +
+                         "' (the results name tracks by file name)"};
+
+  SweepStore store(o.out, study, plan);
+  lapwing::SweepOptions run;
+  run.shard = shard;
+  run.threads = o.threads;
+  run.stop = &sweep_interrupted;
+  const bool terminal = isatty(STDERR_FILENO);
+  if (terminal)
+    run.progress = [](const SweepProgress& p) {
+      const double rate = p.elapsed_s > 0 ? p.laps / p.elapsed_s : 0.0;
+      const double left =
+          p.done ? p.elapsed_s * static_cast<double>(p.total - p.done) / p.done : 0.0;
+      std::cerr << "\r" << p.done << "/" << p.total << " points   " << fixed(rate, 1)
+                << " laps/s   " << fixed(left, 0) << " s left   " << std::flush;
+    };
+  sweep_interrupted.store(false);
+  const auto previous = std::signal(SIGINT, on_sigint);
+  const auto start = std::chrono::steady_clock::now();
+  SweepOutcome r;
+  try {
+    r = run_sweep(plan, circuits, configs, car_at, store, run);
+  } catch (...) {
+    std::signal(SIGINT, previous);
+    throw;
+  }
+  std::signal(SIGINT, previous);
+  const double secs =
+      std::chrono::duration<double>(std::chrono::steady_clock::now() - start).count();
+  if (terminal) std::cerr << "\n";
+
+  std::cout << "study   " << study.study_id << ", " << plan.points() << " points x "
+            << circuits.size() << " tracks x " << configs.size() << " configs, design "
+            << design.text() << (shard.n > 1 ? ", shard " + shard.text() : "") << "\n"
+            << "laps    " << r.laps << " in " << fixed(secs, 1) << " s ("
+            << fixed(secs > 0 ? static_cast<double>(r.laps) / secs : 0.0, 1) << " laps/s); points "
+            << r.run << " run, " << r.skipped << " already in " << o.out << "\n";
+  const StoreCounts counts = store_counts(o.out);
+  if (counts.not_ok)
+    std::cout << "note    " << counts.not_ok
+              << " laps cannot complete their track (status cannot-move in the laps table)\n";
+  std::vector<std::string> header{"track", "config", "lap s"};
+  for (const auto& s : plan.sets()) header.push_back(s.key + (s.unit.empty() ? "" : " " + s.unit));
+  header.push_back("point");
+  const auto best_table = [&](const std::vector<BestPoint>& best) {
+    std::vector<std::vector<std::string>> rows;
+    for (const BestPoint& b : best) {
+      std::vector<std::string> row{b.track, b.config, fixed(b.lap_time_s, 3)};
+      for (const auto& v : b.values) row.push_back(v.second);
+      row.push_back(std::to_string(b.point));
+      rows.push_back(row);
+    }
+    return text_table(header, rows);
+  };
+  std::cout << "\nbest point per track (" << o.out << ")\n" << best_table(best_points(o.out));
+  // The fastest point whose lap keeps the front share inside the car's balance window: the best
+  // overall may be one the driver would not accept (README, "Sweep").
+  if (const auto& w = base.balance_window) {
+    const std::vector<BestPoint> inside = best_points_in_window(o.out);
+    std::cout << "\nbest point per track inside the balance window (" << window_text(*w) << ")\n"
+              << best_table(inside);
+    for (const auto& t : study.tracks)
+      if (std::none_of(inside.begin(), inside.end(),
+                       [&](const BestPoint& b) { return b.track == t; }))
+        std::cout << t << ": no point's lap stays inside the window\n";
+  }
+  if (r.stopped) {
+    std::cout << "stopped: " << r.run << " of " << (r.in_shard - r.skipped)
+              << " points done and committed; run the same command again to resume\n";
+    return 130;
+  }
+  return 0;
+}
 }  // namespace
 
 int compare(const CompareOptions& o) {
@@ -550,6 +753,28 @@ int compare(const CompareOptions& o) {
 
 int trade(const TradeOptions& o) {
   return located(&trade, o);
+}
+
+int sweep(const SweepOptions& o) {
+  return located(&sweep, o);
+}
+
+int sweep_merge(const SweepMergeOptions& o) {
+  merge_stores(o.out, o.inputs);
+  const StoreCounts c = store_counts(o.out);
+  std::cout << "merged  " << o.inputs.size() << " files into " << o.out << ": " << c.rows << " of "
+            << c.expected << " laps of the study"
+            << (c.rows == c.expected ? " (complete)"
+                                     : " (incomplete: run the missing shards, then merge them in)")
+            << "\n";
+  return 0;
+}
+
+int sweep_export(const SweepExportOptions& o) {
+  if (o.csv.empty()) throw UsageError{"sweep export: --csv OUT.csv is required"};
+  export_csv(o.file, o.csv);
+  std::cout << "wrote   " << o.csv << "\n";
+  return 0;
 }
 
 }  // namespace lapwing::cli

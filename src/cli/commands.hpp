@@ -71,6 +71,29 @@ struct FromLogOptions {
   AirOptions air;  // written into the track file
 };
 
+struct SweepOptions {
+  std::string car;
+  std::string model;
+  std::vector<std::string> tracks;
+  std::vector<std::string> configs;
+  std::vector<std::string> sets;
+  std::string design = "grid";
+  std::string shard = "1/1";
+  std::string out;
+  unsigned threads = 0;
+  AirOptions air;
+  std::string command;  // the command line as typed (stored with the results)
+};
+
+struct SweepMergeOptions {
+  std::string out;
+  std::vector<std::string> inputs;
+};
+
+struct SweepExportOptions {
+  std::string file, csv;
+};
+
 struct TrackLineOptions {
   std::string track, out, car, config;
   std::string method = "min-curvature";  // or min-time (needs --car)
@@ -88,6 +111,9 @@ int run(const RunOptions& o);
 int compare(const CompareOptions& o);
 int trade(const TradeOptions& o);
 int track_from_log(const FromLogOptions& o);
+int sweep(const SweepOptions& o);
+int sweep_merge(const SweepMergeOptions& o);
+int sweep_export(const SweepExportOptions& o);
 int track_line(const TrackLineOptions& o);
 
 }  // namespace lapwing::cli

@@ -36,6 +36,9 @@ std::optional<std::string> check_command_line(CLI::App& app, int argc, char** ar
     for (const auto& n : names) list += (list.empty() ? "" : ", ") + n;
     const std::string of = path.empty() ? "" : " of " + path.substr(0, path.size() - 1);
     const std::string word = i < argc ? argv[i] : "";
+    // A command with options of its own and optional subcommands (sweep; sweep merge).
+    if (at != &app && at->get_require_subcommand_min() == 0 && (word.empty() || word[0] == '-'))
+      break;
     if (word.empty()) return "give a command (commands" + of + ": " + list + ")";
     if (word[0] == '-') break;  // --help, --version; the parser says the rest
     const auto it = std::find(names.begin(), names.end(), word);
@@ -215,6 +218,50 @@ int main(int argc, char** argv) {
   line->footer(
       "Example:\n  lapwing track line --track tracks/brannock-park.yaml --out "
       "out/brannock-line.yaml --car cars/pellion-fr2.yaml");
+  cli::SweepOptions sweep_o;
+  // The command as typed, stored with the results, without --threads: the store's bytes do not
+  // depend on the thread count (README, "Sweep").
+  for (int i = 0; i < argc; ++i) {
+    const std::string a = argv[i];
+    if (a == "--threads") {
+      ++i;
+      continue;
+    }
+    if (a.rfind("--threads=", 0) == 0) continue;
+    sweep_o.command += (sweep_o.command.empty() ? "" : " ") + a;
+  }
+  auto* sweep = app.add_subcommand(
+      "sweep", "Laps over any values of the car (a grid or samples) into an SQLite results store");
+  sweep->add_option("--car", sweep_o.car, "Car file (YAML)");
+  sweep->add_option("--track", sweep_o.tracks, "Track file(s) (YAML)");
+  sweep->add_option("--set", sweep_o.sets,
+                    "KEY=VALUES: a car key path or a wing family, a list a,b,c or a range "
+                    "start:stop:count with units (repeat for more sets)");
+  sweep->add_option("--config", sweep_o.configs,
+                    "Config name(s) (default: the swept families', else the car file's first)");
+  sweep->add_option("--design", sweep_o.design, "grid (default), lhs:N or sobol:N");
+  sweep->add_option("--shard", sweep_o.shard, "Run shard K of N of the points (K/N; default 1/1)");
+  sweep->add_option("--model", sweep_o.model, "point-mass or axle (default: the car file's)");
+  sweep->add_option("--threads", sweep_o.threads, "Laps solved at once (default: all cores)")
+      ->check(CLI::Range(0, 256));
+  sweep->add_option("--out", sweep_o.out,
+                    "Results store (SQLite) to create, or to resume when it holds this study");
+  add_air(sweep, sweep_o.air);
+  sweep->footer(
+      "Example:\n  lapwing sweep --car cars/pellion-fr2.yaml --track tracks/cairnholt.yaml "
+      "--set front_flap=7deg:22deg:16 --set mass=620kg:680kg:4 --out out/flap.sqlite\n"
+      "Also: lapwing sweep merge OUT.sqlite IN.sqlite ...   lapwing sweep export FILE.sqlite "
+      "--csv OUT.csv");
+  cli::SweepMergeOptions merge_o;
+  auto* merge = sweep->add_subcommand("merge", "Join results stores of one study (shards)");
+  merge->add_option("OUT", merge_o.out, "Results store to write (or add to)")->required();
+  merge->add_option("IN", merge_o.inputs, "Results stores to join")->required();
+  merge->footer("Example:\n  lapwing sweep merge out/all.sqlite out/shard-*.sqlite");
+  cli::SweepExportOptions export_o;
+  auto* exp = sweep->add_subcommand("export", "Write a results store's laps table as CSV");
+  exp->add_option("FILE", export_o.file, "Results store")->required();
+  exp->add_option("--csv", export_o.csv, "CSV file to write")->required();
+  exp->footer("Example:\n  lapwing sweep export out/all.sqlite --csv out/all.csv");
 
   if (const auto msg = check_command_line(app, argc, argv)) {
     std::cerr << "lapwing: error: " << printable(*msg) << "\n";
@@ -236,6 +283,9 @@ int main(int argc, char** argv) {
     if (*trade) return cli::trade(trade_o);
     if (*from_log) return cli::track_from_log(log_o);
     if (*line) return cli::track_line(line_o);
+    if (*merge) return cli::sweep_merge(merge_o);
+    if (*exp) return cli::sweep_export(export_o);
+    if (*sweep) return cli::sweep(sweep_o);
   } catch (const cli::UsageError& e) {
     std::cerr << "lapwing: error: " << printable(e.message) << "\n";
     return 2;

@@ -214,6 +214,7 @@ AeroConfig read_config(const std::string& name, Reader r, double wheelbase_m,
       r.fail(*n, "drag_height comes from the parts' z with forces", "drag_height");
     const PartsTable table = read_forces(r.map("forces"));
     check(table.validate(), r.child_path("forces"));
+    c.parts = table;
     const PartsReduction red =
         reduce_parts(table.parts, table.speed_mps, table.density_kg_m3, wheelbase_m);
     c.cda_m2 = {red.cda_m2};
@@ -286,6 +287,60 @@ std::optional<RollGeometry> read_roll(Reader& r) {
   return g;
 }
 
+// aero.families (README, "Wing families"): each family becomes one more config, named after it,
+// blended from its measured configs at its setting `at`.
+void read_families(Reader families, Car& car, const Checker& check) {
+  const std::size_t measured = car.configs.size();
+  for (std::size_t i = 0; i < families.node().entries.size(); ++i) {
+    const auto& [name, node] = families.node().entries[i];
+    families.get(name);
+    const std::string path = "aero.families." + name;
+    if (!is_config_name(name))
+      throw InputError(families.doc().file, families.node().key_marks[i],
+                       "family name '" + name + "' must use letters, digits, '_' or '-' only",
+                       path);
+    if (car.config_index(name) >= 0)
+      throw InputError(families.doc().file, families.node().key_marks[i],
+                       "family '" + name + "' has the name of a config (it adds a config so named)",
+                       path);
+    Reader f(families.doc(), node, path);
+    f.keys({"setting", "configs", "at"});
+    AeroFamily fam;
+    fam.name = name;
+    fam.setting_rad = f.quantities("setting", Quantity::angle);
+    const Node& list = f.require("configs");
+    if (list.kind != Node::Kind::sequence)
+      f.fail(list, "expected a list of config names, one per setting", "configs");
+    for (std::size_t k = 0; k < list.items.size(); ++k) {
+      const std::string item_path = f.child_path("configs") + "[" + std::to_string(k) + "]";
+      const std::string config = f.node_string(list.items[k], item_path);
+      const int index = car.config_index(config);
+      if (index < 0 || static_cast<std::size_t>(index) >= measured) {
+        std::vector<std::string> names;
+        for (std::size_t c = 0; c < measured; ++c) names.push_back(car.configs[c].name);
+        const std::string near = closest(config, names);
+        throw InputError(families.doc().file, list.items[k].mark,
+                         "no config named '" + config + "'" +
+                             (near.empty() ? "" : "; did you mean '" + near + "'?"),
+                         item_path);
+      }
+      fam.configs.push_back(static_cast<std::size_t>(index));
+      if (k > 0)
+        if (const auto why =
+                blend_mismatch(car.configs[fam.configs[k - 1]], car.configs[fam.configs[k]]))
+          throw InputError(families.doc().file, list.items[k].mark, "cannot blend: " + *why,
+                           item_path);
+    }
+    fam.at_rad = f.quantity_or("at", Quantity::angle,
+                               fam.setting_rad.empty() ? 0.0 : fam.setting_rad.front());
+    f.finish();
+    check(fam.validate(), path);
+    car.configs.push_back(family_config(fam, car.configs, car.wheelbase_m));
+    check(car.validate_config(car.configs.size() - 1));
+  }
+  families.finish();
+}
+
 // balance_window: {front_share: [min, max], above: speed}. The form (two shares) is the
 // reader's; the values' rules are BalanceWindow::validate's.
 BalanceWindow read_balance_window(Reader w) {
@@ -305,7 +360,11 @@ BalanceWindow read_balance_window(Reader w) {
 }  // namespace
 
 CarFile read_car_file(const std::string& file) {
-  Document doc = load_document(file);
+  return read_car_document(load_document(file));
+}
+
+CarFile read_car_document(const Document& doc) {
+  const std::string& file = doc.file;
   CarFile out{Car{}, SourceMap(doc)};
   Car& car = out.car;
   const Checker check{out.sources};
@@ -334,6 +393,7 @@ CarFile read_car_file(const std::string& file) {
   }
   if (r.has("balance_window")) car.balance_window = read_balance_window(r.map("balance_window"));
   Reader aero = r.map("aero");
+  aero.keys({"drag_height", "configs", "families"});
   car.drag_height_m = aero.quantity_or("drag_height", Quantity::length, 0.0);
   check(car.validate_without_configs());
   Reader configs = aero.map("configs");
@@ -349,8 +409,9 @@ CarFile read_car_file(const std::string& file) {
     car.configs.push_back(read_config(name, cr, car.wheelbase_m, check));
     check(car.validate_config(car.configs.size() - 1));
   }
-  check(car.validate());  // what is left: a car needs a config
   configs.finish();
+  if (aero.has("families")) read_families(aero.map("families"), car, check);
+  check(car.validate());  // what is left: a car needs a config
   aero.finish();
   r.finish();
   return out;
@@ -358,6 +419,102 @@ CarFile read_car_file(const std::string& file) {
 
 Car load_car(const std::string& file) {
   return read_car_file(file).car;
+}
+
+}  // namespace lapwing
+
+namespace lapwing {
+
+std::string car_key_path(const Document& doc, std::string_view key) {
+  const std::string k(key);
+  if (k.find('.') != std::string::npos || doc.root.find(k)) return k;
+  const Node* aero = doc.root.find("aero");
+  const Node* families = aero ? aero->find("families") : nullptr;
+  if (families && families->find(k)) return "aero.families." + k + ".at";
+  return k;
+}
+
+namespace {
+[[noreturn]] void no_key(const Document& doc, const Node& at, const std::string& what,
+                         const std::string& key_path) {
+  throw InputError(doc.file, at.mark, what, key_path);
+}
+
+std::vector<std::string> map_keys(const Node& n) {
+  std::vector<std::string> keys;
+  for (const auto& e : n.entries) keys.push_back(e.key);
+  return keys;
+}
+}  // namespace
+
+void set_car_value(Document& doc, std::string_view key_path, const std::string& text) {
+  const std::string path(key_path);
+  Node* node = &doc.root;
+  std::string walked;
+  std::size_t a = 0;
+  while (true) {
+    const std::size_t dot = path.find('.', a);
+    std::string part = path.substr(a, dot == std::string::npos ? dot : dot - a);
+    // "gears[2]": a key, then an index into the list it holds.
+    std::optional<std::size_t> index;
+    if (const std::size_t open = part.find('['); open != std::string::npos) {
+      const auto i = last_index(part);
+      if (!i || part.back() != ']')
+        no_key(doc, *node, "'" + part + "' is not a key or key[INDEX]", path);
+      index = i;
+      part = part.substr(0, open);
+    }
+    if (part.empty()) no_key(doc, *node, "empty key in '" + path + "'", path);
+    if (node->kind != Node::Kind::map)
+      no_key(doc, *node, "'" + walked + "' holds no keys (it is a value)", path);
+    const bool last = dot == std::string::npos;
+    Node* child = nullptr;
+    for (auto& [k, n] : node->entries)
+      if (k == part) child = &n;
+    const std::string here = walked.empty() ? part : walked + "." + part;
+    if (!child) {
+      if (!last || index) {
+        const std::string near = closest(part, map_keys(*node));
+        no_key(doc, *node,
+               "no key '" + part + "'" + (walked.empty() ? "" : " under '" + walked + "'") +
+                   (near.empty() ? "" : "; did you mean '" + near + "'?"),
+               path);
+      }
+      // A key the file leaves to its default: added, and the loader judges it.
+      Node value;
+      value.kind = Node::Kind::scalar;
+      value.mark = node->mark;
+      value.scalar = text;
+      node->entries.emplace_back(part, std::move(value));
+      node->key_marks.push_back(node->mark);
+      return;
+    }
+    if (index) {
+      if (child->kind != Node::Kind::sequence || *index >= child->items.size())
+        no_key(doc, *child,
+               "'" + here + "' has no item " + std::to_string(*index) +
+                   (child->kind == Node::Kind::sequence
+                        ? " (it has " + std::to_string(child->items.size()) + ")"
+                        : " (it is not a list)"),
+               path);
+      child = &child->items[*index];
+    }
+    walked = path.substr(0, last ? path.size() : dot);
+    if (last) {
+      if (child->kind != Node::Kind::scalar && child->kind != Node::Kind::null) {
+        const std::string what = child->kind == Node::Kind::map ? "a map" : "a list";
+        no_key(doc, *child,
+               "'" + walked + "' is " + what + "; set one of its " +
+                   (child->kind == Node::Kind::map ? "keys" : "items ([INDEX])"),
+               path);
+      }
+      child->kind = Node::Kind::scalar;
+      child->scalar = text;
+      return;
+    }
+    node = child;
+    a = dot + 1;
+  }
 }
 
 }  // namespace lapwing

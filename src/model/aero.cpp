@@ -259,4 +259,124 @@ std::string_view form_name(AeroConfig::Form f) {
   return "constant";
 }
 
+std::optional<std::string> blend_mismatch(const AeroConfig& a, const AeroConfig& b) {
+  if (a.form != b.form)
+    return "'" + a.name + "' is " + std::string(form_name(a.form)) + " and '" + b.name + "' is " +
+           std::string(form_name(b.form)) + " (a family's configs share one form)";
+  if (a.speed_mps != b.speed_mps)
+    return "'" + a.name + "' and '" + b.name + "' have different speed rows";
+  if (a.parts) {
+    if (a.parts->parts.size() != b.parts->parts.size())
+      return "'" + a.name + "' and '" + b.name + "' have different numbers of parts";
+  }
+  if (a.map && (a.map->front_m != b.map->front_m || a.map->rear_m != b.map->rear_m))
+    return "'" + a.name + "' and '" + b.name + "' have different ride-height axes";
+  if (a.trim.has_value() != b.trim.has_value())
+    return "one of '" + a.name + "' and '" + b.name + "' has a straight_trim, the other not";
+  if (a.mass_kg.has_value() != b.mass_kg.has_value() ||
+      a.inertia_factor.has_value() != b.inertia_factor.has_value() ||
+      a.cg_height_m.has_value() != b.cg_height_m.has_value() ||
+      a.front_weight.has_value() != b.front_weight.has_value() ||
+      a.drag_height_m.has_value() != b.drag_height_m.has_value())
+    return "'" + a.name + "' and '" + b.name + "' override different car-level values";
+  return std::nullopt;
+}
+
+namespace {
+// base's lerp (a + t (b - a), the one home of linear interpolation) over each element, and
+// over a value two configs override alike (blend_mismatch checked that both have it or not).
+std::vector<double> lerp_each(const std::vector<double>& a, const std::vector<double>& b,
+                              double t) {
+  std::vector<double> out(a.size());
+  for (std::size_t i = 0; i < a.size(); ++i) out[i] = lerp(a[i], b[i], t);
+  return out;
+}
+std::optional<double> lerp_if(const std::optional<double>& a, const std::optional<double>& b,
+                              double t) {
+  return a ? std::optional<double>(lerp(*a, *b, t)) : std::nullopt;
+}
+}  // namespace
+
+AeroConfig blend(const AeroConfig& a, const AeroConfig& b, double t, double wheelbase_m) {
+  AeroConfig c = a;
+  c.cda_m2 = lerp_each(a.cda_m2, b.cda_m2, t);
+  c.cla_m2 = lerp_each(a.cla_m2, b.cla_m2, t);
+  c.balance = lerp_each(a.balance, b.balance, t);
+  if (a.map) {
+    RideHeightMap& m = *c.map;
+    const RideHeightMap &ma = *a.map, &mb = *b.map;
+    m.cda_m2 = ma.cda_m2 + t * (mb.cda_m2 - ma.cda_m2);      // lerp cell by cell
+    m.cla_m2 = ma.cla_m2 + t * (mb.cla_m2 - ma.cla_m2);      // lerp cell by cell
+    m.balance = ma.balance + t * (mb.balance - ma.balance);  // lerp cell by cell
+    m.static_front_m = lerp(ma.static_front_m, mb.static_front_m, t);
+    m.static_rear_m = lerp(ma.static_rear_m, mb.static_rear_m, t);
+    m.stiffness_front_npm = lerp(ma.stiffness_front_npm, mb.stiffness_front_npm, t);
+    m.stiffness_rear_npm = lerp(ma.stiffness_rear_npm, mb.stiffness_rear_npm, t);
+    const MapCoefficients at_rest = map_coefficients(m, m.static_front_m, m.static_rear_m);
+    c.cda_m2 = {at_rest.cda_m2};
+    c.cla_m2 = {at_rest.cla_m2};
+    c.balance = {at_rest.balance};
+  }
+  if (a.parts) {
+    // Each part's force coefficient F / q blends (the tables may be at different speeds);
+    // the blended table is held at a's reference speed and density.
+    const double qa = 0.5 * a.parts->density_kg_m3 * a.parts->speed_mps * a.parts->speed_mps;
+    const double qb = 0.5 * b.parts->density_kg_m3 * b.parts->speed_mps * b.parts->speed_mps;
+    PartsTable& p = *c.parts;
+    for (std::size_t i = 0; i < p.parts.size(); ++i) {
+      const AeroPart &pa = a.parts->parts[i], &pb = b.parts->parts[i];
+      p.parts[i].drag_n = qa * lerp(pa.drag_n / qa, pb.drag_n / qb, t);
+      p.parts[i].downforce_n = qa * lerp(pa.downforce_n / qa, pb.downforce_n / qb, t);
+      p.parts[i].x_m = lerp(pa.x_m, pb.x_m, t);
+      p.parts[i].z_m = lerp(pa.z_m, pb.z_m, t);
+    }
+    const PartsReduction red = reduce_parts(p.parts, p.speed_mps, p.density_kg_m3, wheelbase_m);
+    c.cda_m2 = {red.cda_m2};
+    c.cla_m2 = {red.cla_m2};
+    c.balance = {red.balance};
+    c.drag_height_m = red.drag_height_m;
+  } else {
+    c.drag_height_m = lerp_if(a.drag_height_m, b.drag_height_m, t);
+  }
+  if (a.trim) {
+    c.trim->dcda_m2 = lerp(a.trim->dcda_m2, b.trim->dcda_m2, t);
+    c.trim->dcla_m2 = lerp(a.trim->dcla_m2, b.trim->dcla_m2, t);
+    c.trim->dbalance = lerp(a.trim->dbalance, b.trim->dbalance, t);
+    c.trim->below_curvature_1pm = lerp(a.trim->below_curvature_1pm, b.trim->below_curvature_1pm, t);
+  }
+  c.mass_kg = lerp_if(a.mass_kg, b.mass_kg, t);
+  c.inertia_factor = lerp_if(a.inertia_factor, b.inertia_factor, t);
+  c.cg_height_m = lerp_if(a.cg_height_m, b.cg_height_m, t);
+  c.front_weight = lerp_if(a.front_weight, b.front_weight, t);
+  return c;
+}
+
+std::optional<Violation> AeroFamily::validate() const {
+  FirstViolation f;
+  f.rule(setting_rad.size() >= 2, "setting", "a family needs 2 or more settings");
+  f.order("setting", setting_rad, true);
+  f.rule(configs.size() == setting_rad.size(), "configs", [&] {
+    return "expected one config per setting: expected " + std::to_string(setting_rad.size()) +
+           ", got " + std::to_string(configs.size());
+  });
+  if (!f.found() && !setting_rad.empty())
+    f.range("at", at_rad, Range{setting_rad.front(), setting_rad.back()}, Quantity::angle);
+  return f.result();
+}
+
+AeroConfig family_config(const AeroFamily& fam, const std::vector<AeroConfig>& configs,
+                         double wheelbase_m) {
+  // The measured setting pair around `at`: s_i <= at <= s_i+1, t = (at - s_i) / (s_i+1 - s_i).
+  // A measured setting starts its pair (t = 0), so that lerp's a + t (b - a) gives its config
+  // exactly; the last setting is the top pair's b, blended from that end (t = 0 again).
+  std::size_t i = 0;
+  while (i + 2 < fam.setting_rad.size() && fam.at_rad >= fam.setting_rad[i + 1]) ++i;
+  const double t =
+      (fam.at_rad - fam.setting_rad[i]) / (fam.setting_rad[i + 1] - fam.setting_rad[i]);
+  const AeroConfig &a = configs[fam.configs[i]], &b = configs[fam.configs[i + 1]];
+  AeroConfig c = t >= 1.0 ? blend(b, a, 0.0, wheelbase_m) : blend(a, b, t, wheelbase_m);
+  c.name = fam.name;
+  return c;
+}
+
 }  // namespace lapwing

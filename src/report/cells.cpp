@@ -33,7 +33,15 @@ std::vector<std::string> balance_cells(const BalanceSummary& b) {
 }
 
 std::string window_result_name(const BalanceWindowResult& r) {
-  return !(r.time_s > 0.0) ? "not reached" : r.pass ? "pass" : "fail";
+  switch (window_result(r)) {
+    case WindowResult::pass:
+      return "pass";
+    case WindowResult::fail:
+      return "fail";
+    case WindowResult::not_reached:
+      break;
+  }
+  return "not reached";
 }
 
 std::string window_text(const BalanceWindow& w) {

@@ -195,6 +195,12 @@ BalanceWindowResult check_balance_window(const BalanceWindow& w, const Lap& lap,
   return r;
 }
 
+WindowResult window_result(const BalanceWindowResult& r) {
+  return !(r.time_s > 0.0) ? WindowResult::not_reached
+         : r.pass          ? WindowResult::pass
+                           : WindowResult::fail;
+}
+
 LapSummary summarize(const Lap& lap, const Mesh& mesh, const Track& track,
                      const std::vector<CornerSpan>& spans, const Envelope& env) {
   LapSummary s;

@@ -8,6 +8,7 @@
 #include "lapwing/base/error.hpp"
 #include "lapwing/base/units.hpp"
 #include "lapwing/io/car_file.hpp"
+#include "lapwing/io/document.hpp"
 #include "test_support.hpp"
 
 using namespace lapwing;
@@ -17,7 +18,8 @@ TEST_CASE("the bundled formula car loads in SI units") {
   const Car c = load_car(test::source_path("cars/pellion-fr2.yaml"));
   CHECK(c.mass_kg == 640.0);
   CHECK(c.config_names() == std::vector<std::string>{"low", "medium", "high", "medium_table",
-                                                     "high_tunnel", "high_map", "high_trim"});
+                                                     "high_tunnel", "high_map", "high_trim",
+                                                     "flap7", "flap17", "flap22", "front_flap"});
   CHECK(c.configs[3].form == AeroConfig::Form::speed_table);
   CHECK(c.configs[4].form == AeroConfig::Form::forces);
   CHECK(c.configs[5].form == AeroConfig::Form::ride_height_map);
@@ -113,4 +115,51 @@ TEST_CASE("the bundled cars declare their roll geometry and aspiration") {
   const Car gt = load_car(test::source_path("cars/caldra-gt.yaml"));
   CHECK(gt.powertrain.aspiration == Aspiration::turbo);
   CHECK(gt.powertrain.full_power_altitude_m.value_or(0) == doctest::Approx(1500.0));
+}
+
+namespace {
+// The bundled formula car with `key` set to `text`, read as a car file.
+std::string set_error(const std::string& key, const std::string& text) {
+  Document doc = load_document(test::source_path("cars/pellion-fr2.yaml"));
+  try {
+    set_car_value(doc, car_key_path(doc, key), text);
+    read_car_document(doc);
+  } catch (const InputError& e) {
+    return e.message() + " (" + e.key_path() + ")";
+  }
+  return "no error";
+}
+}  // namespace
+
+TEST_CASE("a value set in the car's document is read like the file's own, units and rules") {
+  Document doc = load_document(test::source_path("cars/pellion-fr2.yaml"));
+  set_car_value(doc, "mass", "1000 lb");
+  set_car_value(doc, "tyres.rolling_resistance", "0.02");  // in the file
+  set_car_value(doc, "powertrain.gears[6]", "1.01");
+  set_car_value(doc, "aero.configs.medium.cla", "3.9 m2");
+  set_car_value(doc, car_key_path(doc, "front_flap"), "12 deg");
+  const Car c = read_car_document(doc).car;
+  CHECK(near(c.mass_kg, 453.59237, 1e-12));  // 1 lb = 0.45359237 kg (exact by definition)
+  CHECK(c.tyres.rolling_resistance == 0.02);
+  CHECK(c.powertrain.gears[6] == 1.01);
+  CHECK(c.configs[1].cla_m2.front() == 3.9);
+  CHECK(car_key_path(doc, "front_flap") == "aero.families.front_flap.at");
+  // Unset keys the schema knows are added: the default inertia factor of a car without one.
+  set_car_value(doc, "tyres.load_sensitivity", "0.1");
+  CHECK(read_car_document(doc).car.tyres.load_sensitivity == 0.1);
+}
+
+TEST_CASE("a bad key or value set in the car's document is the car file's error") {
+  CHECK(set_error("tyres.mu_latt", "1.6") ==
+        "unknown key 'mu_latt'; did you mean 'mu_lat'? (tyres.mu_latt)");
+  CHECK(set_error("tyre.mu_lat", "1.6").find("no key 'tyre'; did you mean 'tyres'?") == 0);
+  CHECK(set_error("aero.configs.medum.cla", "3").find("did you mean 'medium'?") !=
+        std::string::npos);
+  CHECK(set_error("mass", "-600 kg").find("(mass)") != std::string::npos);
+  CHECK(set_error("mass", "600 m").find("(mass)") != std::string::npos);
+  CHECK(set_error("tyres", "1").find("is a map") != std::string::npos);
+  CHECK(set_error("powertrain.gears[9]", "1").find("has no item 9 (it has 7)") !=
+        std::string::npos);
+  CHECK(set_error("front_flap", "30 deg").find("(aero.families.front_flap.at)") !=
+        std::string::npos);
 }

@@ -343,3 +343,68 @@ TEST_CASE("an aero config names its first bad value by the key of its form") {
         "straight_trim: straight_trim takes CdA, ClA or balance out of range (CdA -0.300000 m2, "
         "ClA 3.100000 m2, balance 0.420000)");
 }
+
+TEST_CASE("a family blends its configs linearly between the measured settings") {
+  // Three flap settings, constant coefficients: at 12 deg, halfway between 7 and 17 deg, each
+  // coefficient is the mean of theirs (x = (1 - t) x_a + t x_b with t = (12 - 7) / (17 - 7)).
+  const Car car = car_with(
+      "    flap7: {cda: 1.10 m2, cla: 3.2 m2, balance: 0.40}\n"
+      "    flap17: {cda: 1.30 m2, cla: 4.0 m2, balance: 0.44}\n"
+      "    flap22: {cda: 1.42 m2, cla: 4.2 m2, balance: 0.45}\n",
+      "family");
+  AeroFamily fam{
+      "front_flap", {7 * units::deg, 17 * units::deg, 22 * units::deg}, {0, 1, 2}, 12 * units::deg};
+  CHECK_FALSE(fam.validate());
+  AeroConfig c = family_config(fam, car.configs, car.wheelbase_m);
+  CHECK(c.name == "front_flap");
+  CHECK(near(c.cda_m2.front(), 1.20, 1e-12));
+  CHECK(near(c.cla_m2.front(), 3.6, 1e-12));
+  CHECK(near(c.balance.front(), 0.42, 1e-12));
+  // At a measured setting the family is that config exactly (t = 0 or 1).
+  fam.at_rad = 17 * units::deg;
+  c = family_config(fam, car.configs, car.wheelbase_m);
+  CHECK(c.cla_m2.front() == 4.0);
+  CHECK(c.balance.front() == 0.44);
+  fam.at_rad = 22 * units::deg;
+  CHECK(family_config(fam, car.configs, car.wheelbase_m).cda_m2.front() == 1.42);
+  fam.at_rad = 23 * units::deg;
+  CHECK(test::describe(fam.validate()).rfind("at: value", 0) == 0);
+  fam.at_rad = 12 * units::deg;
+  fam.setting_rad = {7 * units::deg, 17 * units::deg, 17 * units::deg};
+  CHECK(test::describe(fam.validate()).find("strictly increasing") != std::string::npos);
+}
+
+TEST_CASE("a parts family blends each part, so the balance follows the parts' positions") {
+  // Two tables at the same speed and density: the blend at t = 1/2 is the reduction of the
+  // parts' mean forces and positions (lever rule, as in the hand-worked example above), not the
+  // mean of the two balances.
+  const Car car = car_with(
+      "    a:\n      forces:\n        speed: 40 m/s\n        density: 1.2\n        parts:\n"
+      "          - {drag: 200 N, downforce: 1000 N, x: -0.5 m, z: 0.2 m}\n"
+      "          - {drag: 600 N, downforce: 2000 N, x: 3.5 m, z: 1.0 m}\n"
+      "    b:\n      forces:\n        speed: 40 m/s\n        density: 1.2\n        parts:\n"
+      "          - {drag: 300 N, downforce: 2000 N, x: -0.7 m, z: 0.2 m}\n"
+      "          - {drag: 600 N, downforce: 2000 N, x: 3.5 m, z: 1.0 m}\n",
+      "parts_family");
+  REQUIRE_FALSE(blend_mismatch(car.configs[0], car.configs[1]));
+  const AeroConfig c = blend(car.configs[0], car.configs[1], 0.5, car.wheelbase_m);
+  const std::vector<AeroPart> mean{{"", 250.0, 1500.0, -0.6, 0.2}, {"", 600.0, 2000.0, 3.5, 1.0}};
+  const PartsReduction r = reduce_parts(mean, 40.0, 1.2, car.wheelbase_m);
+  CHECK(near(c.balance.front(), r.balance, 1e-12));
+  CHECK(near(c.cla_m2.front(), r.cla_m2, 1e-12));
+  CHECK(near(*c.drag_height_m, r.drag_height_m, 1e-12));
+  const double mean_balance =
+      0.5 * (car.configs[0].balance.front() + car.configs[1].balance.front());
+  CHECK(std::abs(c.balance.front() - mean_balance) > 1e-3);
+}
+
+TEST_CASE("configs of different forms do not blend") {
+  const Car car = car_with(
+      "    a: {cda: 1.1 m2, cla: 3.2 m2, balance: 0.40}\n"
+      "    b:\n      speed_table:\n        speed: [100 km/h, 200 km/h]\n        cda: [1.2, 1.2]\n"
+      "        cla: [3.5, 3.5]\n        balance: [0.42, 0.42]\n",
+      "mismatch");
+  const auto why = blend_mismatch(car.configs[0], car.configs[1]);
+  REQUIRE(why);
+  CHECK(why->find("one form") != std::string::npos);
+}

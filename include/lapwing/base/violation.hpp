@@ -20,7 +20,7 @@ namespace lapwing {
 
 /// A value's text for a message, from its key path and its value in SI: a loader gives the text
 /// as the file wrote it ("-640 kg"); without one, the SI value with 12 significant digits.
-using ValueText = std::function<std::string(const std::string& path, double si_value)>;
+using ValueText = std::function<std::string(const std::string& path, double value_si)>;  // not si_value: a macro of <csignal>
 
 struct Violation {
   enum class Kind {

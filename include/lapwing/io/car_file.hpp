@@ -2,6 +2,9 @@
 #pragma once
 
 #include <string>
+#include <string_view>
+
+#include "lapwing/io/document.hpp"
 
 #include "lapwing/io/source_map.hpp"
 #include "lapwing/model/car.hpp"
@@ -17,6 +20,21 @@ struct CarFile {
 /// Reads a car file and checks it (Car::validate). Throws InputError at the place of the first
 /// problem: FILE:LINE:COL: error: ... (key.path).
 CarFile read_car_file(const std::string& file);
+
+/// Reads a car from a parsed car file (one with values set by a sweep, say), as read_car_file.
+CarFile read_car_document(const Document& doc);
+
+/// The key path a sweep's key names in this car file: a wing family's name (README, "Wing
+/// families") stands for its setting, "aero.families.NAME.at"; any other key is a key path as
+/// given ("mass", "tyres.mu_lat", "powertrain.gears[2]", "aero.configs.medium.cla").
+std::string car_key_path(const Document& doc, std::string_view key);
+
+/// Sets the value at `key_path` to the scalar `text` ("620 kg"), as if the file said so: an
+/// existing scalar's text is replaced (its place in the file kept, for errors); a key missing
+/// from a map that exists is added there (the car loader then checks that the key is one of the
+/// schema's, with "did you mean"). A path through a map or list the file does not have, or to a
+/// map or a list, is an InputError naming the key path (with the nearest key, "did you mean").
+void set_car_value(Document& doc, std::string_view key_path, const std::string& text);
 
 /// The car alone.
 Car load_car(const std::string& file);

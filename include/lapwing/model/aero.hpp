@@ -106,6 +106,7 @@ struct AeroConfig {
   std::vector<double> cla_m2;
   std::vector<double> balance;  // front share of downforce, without the drag moment
   std::optional<RideHeightMap> map;
+  std::optional<PartsTable> parts;  // the forces form's table as given (a family blends it)
   std::optional<StraightTrim> trim;
   // Car-level values this configuration overrides (README, "Car"); a parts table sets
   // drag_height_m from its parts.
@@ -118,5 +119,36 @@ struct AeroConfig {
 };
 
 std::string_view form_name(AeroConfig::Form f);
+
+/// Why configs `a` and `b` cannot be blended, or nothing: they must have the same form, the same
+/// speed rows (speed table), the same parts in the same order (forces), the same map axes (ride
+/// height map), both or neither a straight trim and each override.
+std::optional<std::string> blend_mismatch(const AeroConfig& a, const AeroConfig& b);
+
+/// The config a fraction t in [0, 1] of the way from `a` to `b`, every value linear:
+///   x = (1 - t) x_a + t x_b
+/// for the coefficients (each speed row), a map's cells, static heights and stiffnesses, the
+/// trim and the overrides. A parts table blends each part's force coefficients F / q and its
+/// positions, then is reduced at `wheelbase_m` (reduce_parts), so the balance follows the
+/// parts' positions rather than blending the two balances. `a` and `b` must blend
+/// (blend_mismatch); the result keeps a's name.
+AeroConfig blend(const AeroConfig& a, const AeroConfig& b, double t, double wheelbase_m);
+
+/// A wing family (README, "Wing families"): configs measured at settings of one device (a flap
+/// angle), and the config it stands for at the setting `at`, linear between the two measured
+/// settings around it.
+struct AeroFamily {
+  std::string name;
+  std::vector<double> setting_rad;   // strictly increasing, 2 or more
+  std::vector<std::size_t> configs;  // indices into the car's configs, one per setting
+  double at_rad;                     // in [setting.front(), setting.back()]
+  /// Key paths relative to the family: "setting", "configs", "at".
+  std::optional<Violation> validate() const;
+};
+
+/// The family's config at its setting `at` (named after the family): blend of the measured
+/// configs around it. The family must be valid and its neighbours blend.
+AeroConfig family_config(const AeroFamily& family, const std::vector<AeroConfig>& configs,
+                         double wheelbase_m);
 
 }  // namespace lapwing

@@ -72,6 +72,12 @@ struct BalanceWindowResult {
   std::optional<double> braking_share, accelerating_share;
 };
 
+/// A lap against its balance window: the front share stayed inside it wherever it applies,
+/// left it, or the lap never met the window's conditions (above its speed, cornering harder
+/// than balance_window_lateral_g), so nothing was tested. The one place that decides it.
+enum class WindowResult { pass, fail, not_reached };
+WindowResult window_result(const BalanceWindowResult& r);
+
 /// The balance of one lap: where the front axle's share of the load goes, and where the front
 /// saturates first (balance_index = front usage - rear usage > 0: an understeer tendency).
 struct BalanceSummary {

@@ -1,0 +1,438 @@
+#include "lapwing/store/sweep_store.hpp"
+
+#include <sqlite3.h>
+
+#include <algorithm>
+#include <filesystem>
+#include <set>
+
+#include "lapwing/base/error.hpp"
+#include "lapwing/base/format.hpp"
+#include "lapwing/io/csv_writer.hpp"
+#include "lapwing/io/output.hpp"
+
+namespace lapwing {
+
+namespace {
+
+// A connection, closed on scope exit; every failure an OutputError naming the file.
+class Connection {
+ public:
+  Connection(const std::string& file, bool create) : file_(file) {
+    const int flags = SQLITE_OPEN_READWRITE | (create ? SQLITE_OPEN_CREATE : 0);
+    if (sqlite3_open_v2(file.c_str(), &db_, flags, nullptr) != SQLITE_OK) fail("cannot open");
+    // Wait for a lock held by another process (a merge reading while a shard commits) rather
+    // than fail at once.
+    sqlite3_busy_timeout(db_, 10000);
+  }
+  ~Connection() { sqlite3_close(db_); }
+  Connection(const Connection&) = delete;
+  Connection& operator=(const Connection&) = delete;
+
+  [[noreturn]] void fail(const std::string& what) const {
+    throw OutputError(file_ + ": " + what + " (" + (db_ ? sqlite3_errmsg(db_) : "no memory") + ")");
+  }
+  void exec(const std::string& sql) {
+    char* err = nullptr;
+    if (sqlite3_exec(db_, sql.c_str(), nullptr, nullptr, &err) != SQLITE_OK) {
+      const std::string msg = err ? err : "?";
+      sqlite3_free(err);
+      throw OutputError(file_ + ": " + msg);
+    }
+  }
+  sqlite3* get() const { return db_; }
+  const std::string& file() const { return file_; }
+
+ private:
+  std::string file_;
+  sqlite3* db_ = nullptr;
+};
+
+class Statement {
+ public:
+  Statement(Connection& c, const std::string& sql) : c_(&c) {
+    if (sqlite3_prepare_v2(c.get(), sql.c_str(), -1, &s_, nullptr) != SQLITE_OK)
+      c.fail("not a lapwing results store");
+  }
+  ~Statement() { sqlite3_finalize(s_); }
+  Statement(const Statement&) = delete;
+  Statement& operator=(const Statement&) = delete;
+  // SQLITE_ROW: true; SQLITE_DONE: false.
+  bool step() {
+    const int rc = sqlite3_step(s_);
+    if (rc == SQLITE_ROW) return true;
+    if (rc != SQLITE_DONE) c_->fail("cannot write");
+    return false;
+  }
+  void reset() {
+    sqlite3_reset(s_);
+    sqlite3_clear_bindings(s_);
+  }
+  void bind(int i, const std::string& v) {
+    sqlite3_bind_text(s_, i, v.c_str(), static_cast<int>(v.size()), SQLITE_TRANSIENT);
+  }
+  void bind(int i, double v) { sqlite3_bind_double(s_, i, v); }
+  void bind(int i, std::int64_t v) { sqlite3_bind_int64(s_, i, v); }
+  void bind_null(int i) { sqlite3_bind_null(s_, i); }
+  std::string text(int i) const {
+    const unsigned char* t = sqlite3_column_text(s_, i);
+    return t ? reinterpret_cast<const char*>(t) : "";
+  }
+  std::int64_t integer(int i) const { return sqlite3_column_int64(s_, i); }
+  double real(int i) const { return sqlite3_column_double(s_, i); }
+  int type(int i) const { return sqlite3_column_type(s_, i); }
+  int columns() const { return sqlite3_column_count(s_); }
+  std::string name(int i) const { return sqlite3_column_name(s_, i); }
+
+ private:
+  Connection* c_;
+  sqlite3_stmt* s_ = nullptr;
+};
+
+// An SQL identifier: "KEY" with any quote doubled (a set's key holds dots).
+std::string quoted(const std::string& name) {
+  std::string out = "\"";
+  for (char c : name) out += c == '"' ? std::string("\"\"") : std::string(1, c);
+  return out + "\"";
+}
+
+std::string study_id_of(Connection& c) {
+  Statement s(c, "SELECT study_id FROM study");
+  if (!s.step()) c.fail("not a lapwing results store");
+  return s.text(0);
+}
+
+void create_schema(Connection& c, const StudyRecord& st, const SweepPlan& plan) {
+  c.exec(
+      "CREATE TABLE study (study_id TEXT NOT NULL, lapwing TEXT NOT NULL, command TEXT NOT NULL, "
+      "design TEXT NOT NULL, points INTEGER NOT NULL, shard TEXT NOT NULL);"
+      "CREATE TABLE inputs (role TEXT NOT NULL, file TEXT NOT NULL, fnv1a64 TEXT NOT NULL);"
+      "CREATE TABLE sets (key TEXT NOT NULL, unit TEXT NOT NULL, \"values\" TEXT NOT NULL);"
+      "CREATE TABLE tracks (track_index INTEGER NOT NULL, track TEXT NOT NULL);"
+      "CREATE TABLE configs (config_index INTEGER NOT NULL, config TEXT NOT NULL);");
+  {
+    Statement s(c, "INSERT INTO study VALUES (?, ?, ?, ?, ?, ?)");
+    s.bind(1, st.study_id);
+    s.bind(2, st.version);
+    s.bind(3, st.command);
+    s.bind(4, st.design);
+    s.bind(5, static_cast<std::int64_t>(st.points));
+    s.bind(6, st.shard);
+    s.step();
+  }
+  {
+    Statement s(c, "INSERT INTO inputs VALUES (?, ?, ?)");
+    for (const auto& in : st.inputs) {
+      s.reset();
+      s.bind(1, in.role);
+      s.bind(2, in.file);
+      s.bind(3, in.fnv1a64);
+      s.step();
+    }
+  }
+  {
+    Statement s(c, "INSERT INTO sets VALUES (?, ?, ?)");
+    for (const auto& set : plan.sets()) {
+      s.reset();
+      s.bind(1, set.key);
+      s.bind(2, set.unit);
+      s.bind(3, set.text.substr(set.text.find('=') + 1));
+      s.step();
+    }
+  }
+  {
+    Statement s(c, "INSERT INTO tracks VALUES (?, ?)");
+    for (std::size_t t = 0; t < st.tracks.size(); ++t) {
+      s.reset();
+      s.bind(1, static_cast<std::int64_t>(t));
+      s.bind(2, st.tracks[t]);
+      s.step();
+    }
+  }
+  {
+    Statement s(c, "INSERT INTO configs VALUES (?, ?)");
+    for (std::size_t k = 0; k < st.configs.size(); ++k) {
+      s.reset();
+      s.bind(1, static_cast<std::int64_t>(k));
+      s.bind(2, st.configs[k]);
+      s.step();
+    }
+  }
+  // A set's column has no declared type, so SQLite keeps each value as given: a number as a
+  // REAL, a word as TEXT.
+  std::string sql =
+      "CREATE TABLE laps (point INTEGER NOT NULL, track TEXT NOT NULL, "
+      "config TEXT NOT NULL";
+  for (const auto& set : plan.sets()) sql += ", " + quoted(set.key);
+  for (const StoreColumn& col : sweep_result_columns)
+    sql += ", " + std::string(col.name) + " " + col.type;
+  sql += ", PRIMARY KEY (point, track, config))";
+  c.exec(sql);
+}
+
+}  // namespace
+
+struct SweepStore::Db {
+  Connection c;
+  std::unique_ptr<Statement> insert;
+  Db(const std::string& file, bool create) : c(file, create) {}
+};
+
+SweepStore::SweepStore(const std::string& file, const StudyRecord& study, const SweepPlan& plan)
+    : plan_(&plan), study_(study), done_(plan.points(), false) {
+  const bool exists = std::filesystem::exists(file);
+  db_ = std::make_unique<Db>(file, !exists);
+  Connection& c = db_->c;
+  // The default rollback journal, fully synced: a commit survives a kill (SQLite, "Atomic Commit
+  // In SQLite").
+  c.exec("PRAGMA synchronous = FULL");
+  if (!exists) {
+    // The file's layout fixed here rather than left to how the library was built (its compiled
+    // defaults), so that the same study gives the same bytes: 4096-byte pages, no auto-vacuum.
+    // Nothing in the file depends on the clock or the thread count (rows go in point order, 64
+    // points per transaction); what still differs between machines is the SQLite version
+    // stamped in the header (SQLite, "Database File Format", offsets 92-99).
+    c.exec("PRAGMA page_size = 4096; PRAGMA auto_vacuum = NONE");
+    c.exec("BEGIN");
+    create_schema(c, study, plan);
+    c.exec("COMMIT");
+  } else {
+    if (study_id_of(c) != study.study_id)
+      throw OutputError(file +
+                        " holds another study (other inputs, sets, design or configs); give a "
+                        "new --out, or the same command to resume it");
+    Statement s(c, "SELECT DISTINCT point FROM laps");
+    while (s.step()) {
+      const std::int64_t p = s.integer(0);
+      if (p >= 0 && static_cast<std::size_t>(p) < done_.size())
+        done_[static_cast<std::size_t>(p)] = true;
+    }
+  }
+  std::string sql = "INSERT OR IGNORE INTO laps VALUES (?, ?, ?";
+  for (std::size_t i = 0; i < plan.sets().size(); ++i) sql += ", ?";
+  for (std::size_t i = 0; i < std::size(sweep_result_columns); ++i) sql += ", ?";
+  sql += ")";
+  db_->insert = std::make_unique<Statement>(c, sql);
+}
+
+SweepStore::~SweepStore() = default;
+
+bool SweepStore::has(std::size_t point) const {
+  return point < done_.size() && done_[point];
+}
+
+void SweepStore::commit(const std::vector<SweepRow>& rows) {
+  Connection& c = db_->c;
+  Statement& s = *db_->insert;
+  c.exec("BEGIN");
+  for (const SweepRow& r : rows) {
+    s.reset();
+    int i = 1;
+    s.bind(i++, static_cast<std::int64_t>(r.point));
+    s.bind(i++, study_.tracks[r.track]);
+    s.bind(i++, study_.configs[r.config]);
+    for (std::size_t k = 0; k < plan_->sets().size(); ++k) {
+      const SetValue v = plan_->value(r.point, k);
+      if (v.number)
+        s.bind(i++, *v.number);
+      else
+        s.bind(i++, v.text);
+    }
+    if (r.ok) {
+      for (double v : {r.lap_time_s, r.top_speed_kph, r.min_speed_kph, r.full_throttle_fraction,
+                       r.braking_fraction})
+        s.bind(i++, v);
+      if (r.lowest_front_share_fast)
+        s.bind(i++, *r.lowest_front_share_fast);
+      else
+        s.bind_null(i++);
+      if (r.window)
+        s.bind(i++, std::string(window_column_text(*r.window)));
+      else
+        s.bind_null(i++);
+      s.bind(i++, std::string("ok"));
+    } else {
+      // Every result column but status and message is NULL for a lap that cannot move.
+      for (std::size_t k = 0; k + 2 < std::size(sweep_result_columns); ++k) s.bind_null(i++);
+      s.bind(i++, std::string("cannot-move"));
+    }
+    s.bind(i++, r.message);
+    s.step();
+    done_[r.point] = true;
+  }
+  c.exec("COMMIT");
+}
+
+const char* window_column_text(WindowResult w) {
+  switch (w) {
+    case WindowResult::pass:
+      return "pass";
+    case WindowResult::fail:
+      return "fail";
+    case WindowResult::not_reached:
+      return "not reached";  // the words of summary.json's "result" (README, "Output files")
+  }
+  return "?";
+}
+
+namespace {
+std::vector<std::string> set_keys(Connection& c) {
+  std::vector<std::string> keys;
+  Statement s(c, "SELECT key FROM sets ORDER BY rowid");
+  while (s.step()) keys.push_back(s.text(0));
+  return keys;
+}
+}  // namespace
+
+namespace {
+// Per track, the fastest ok lap that meets `where` (SQL over the laps table's columns).
+std::vector<BestPoint> best_where(const std::string& file, const std::string& where) {
+  if (!std::filesystem::exists(file)) throw OutputError(file + ": no such results store");
+  Connection c(file, false);
+  const std::vector<std::string> keys = set_keys(c);
+  std::string cols;
+  for (const auto& k : keys) cols += ", " + quoted(k);
+  std::vector<BestPoint> out;
+  Statement tracks(c, "SELECT track FROM tracks ORDER BY track_index");
+  Statement best(c, "SELECT config, point, lap_time_s" + cols +
+                        " FROM laps WHERE track = ? AND status = 'ok'" + where +
+                        " ORDER BY lap_time_s, point, config LIMIT 1");
+  while (tracks.step()) {
+    best.reset();
+    best.bind(1, tracks.text(0));
+    if (!best.step()) continue;
+    BestPoint b{tracks.text(0), best.text(0), best.integer(1), {}, best.real(2)};
+    for (std::size_t k = 0; k < keys.size(); ++k) {
+      const int col = 3 + static_cast<int>(k);
+      b.values.push_back({keys[k], best.type(col) == SQLITE_FLOAT ? format_number(best.real(col))
+                                                                  : best.text(col)});
+    }
+    out.push_back(std::move(b));
+  }
+  return out;
+}
+}  // namespace
+
+std::vector<BestPoint> best_points(const std::string& file) {
+  return best_where(file, "");
+}
+
+std::vector<BestPoint> best_points_in_window(const std::string& file) {
+  return best_where(file, " AND balance_window = 'pass'");
+}
+
+StoreCounts store_counts(const std::string& file) {
+  Connection c(file, false);
+  Statement s(c,
+              "SELECT (SELECT count(*) FROM laps), "
+              "(SELECT coalesce(sum(status != 'ok'), 0) FROM laps), "
+              "(SELECT points FROM study) * (SELECT count(*) FROM tracks) * "
+              "(SELECT count(*) FROM configs)");
+  s.step();
+  return {static_cast<std::size_t>(s.integer(0)), static_cast<std::size_t>(s.integer(1)),
+          static_cast<std::size_t>(s.integer(2))};
+}
+
+void merge_stores(const std::string& out, const std::vector<std::string>& inputs) {
+  if (inputs.empty()) throw OutputError("sweep merge: give the results stores to merge");
+  std::string id;
+  std::set<std::string> shards;
+  for (const auto& in : inputs) {
+    if (!std::filesystem::exists(in)) throw OutputError(in + ": no such results store");
+    Connection c(in, false);
+    const std::string this_id = study_id_of(c);
+    if (id.empty()) id = this_id;
+    if (this_id != id)
+      throw OutputError(in + " holds another study than " + inputs.front() + " (study_id " +
+                        this_id + ", not " + id + "); refusing to merge");
+    Statement s(c, "SELECT shard FROM study");
+    if (s.step()) shards.insert(s.text(0));
+  }
+  const bool exists = std::filesystem::exists(out);
+  if (exists) {
+    Connection c(out, false);
+    if (study_id_of(c) != id)
+      throw OutputError(out + " holds another study than " + inputs.front() +
+                        "; refusing to merge");
+  }
+  // A new file is built under a temporary name and renamed when whole.
+  const std::string target = exists ? out : out + ".tmp-merge";
+  if (!exists) std::filesystem::remove(target);
+  try {
+    if (!exists) std::filesystem::copy_file(inputs.front(), target);
+    Connection c(target, false);
+    c.exec("PRAGMA synchronous = FULL");
+    // One transaction per input (a database is attached outside a transaction); rows go in
+    // with INSERT OR IGNORE, so a merge interrupted and run again adds each row once.
+    for (std::size_t i = exists ? 0 : 1; i < inputs.size(); ++i) {
+      {
+        Statement attach(c, "ATTACH DATABASE ? AS shard");
+        attach.bind(1, inputs[i]);
+        attach.step();
+      }  // finalized: an unfinished statement would hold the attached file
+      c.exec("BEGIN");
+      c.exec("INSERT OR IGNORE INTO main.laps SELECT * FROM shard.laps");
+      c.exec("COMMIT");
+      c.exec("DETACH DATABASE shard");
+    }
+    c.exec("BEGIN");
+    {
+      Statement s(c, "SELECT shard FROM study");
+      if (s.step()) shards.insert(s.text(0));
+    }
+    // The shards the file now holds, each once ("1/4,2/4,...").
+    std::set<std::string> each;
+    for (const auto& sh : shards)
+      for (std::size_t x = 0; x <= sh.size();) {
+        const std::size_t y = std::min(sh.find(',', x), sh.size());
+        if (y > x) each.insert(sh.substr(x, y - x));
+        x = y + 1;
+      }
+    std::string list;
+    for (const auto& one : each) list += (list.empty() ? "" : ",") + one;
+    Statement upd(c, "UPDATE study SET shard = ?");
+    upd.bind(1, list);
+    upd.step();
+    c.exec("COMMIT");
+  } catch (...) {
+    if (!exists) std::filesystem::remove(target);
+    throw;
+  }
+  if (!exists) std::filesystem::rename(target, out);
+}
+
+void export_csv(const std::string& file, const std::string& csv_file) {
+  if (!std::filesystem::exists(file)) throw OutputError(file + ": no such results store");
+  Connection c(file, false);
+  study_id_of(c);
+  Statement s(c,
+              "SELECT laps.* FROM laps JOIN tracks USING (track) "
+              "ORDER BY point, track_index, config");
+  std::string out;
+  for (int i = 0; i < s.columns(); ++i) {
+    if (i) out += ',';
+    csv_text(out, s.name(i));
+  }
+  out += '\n';
+  while (s.step()) {
+    for (int i = 0; i < s.columns(); ++i) {
+      if (i) out += ',';
+      switch (s.type(i)) {
+        case SQLITE_INTEGER:
+          out += std::to_string(s.integer(i));
+          break;
+        case SQLITE_FLOAT:
+          csv_number(out, s.real(i));
+          break;
+        case SQLITE_NULL:
+          break;
+        default:
+          csv_text(out, s.text(i));
+      }
+    }
+    out += '\n';
+  }
+  write_file_atomic(csv_file, out);
+}
+
+}  // namespace lapwing
