@@ -260,12 +260,7 @@ PathProfile fit_centerline(std::shared_ptr<const CenterlinePoints> given, bool c
       fitted += std::hypot(gx[i % m] - gx[i - 1], gy[i % m] - gy[i - 1]);
     const double h1 = fitted / intervals;
     length = smoothing_length(h1, g.lambda, xy_order);
-    p.smoothing.automatic = true;
-    p.smoothing.noise_rms = g.noise_rms;
-    p.smoothing.chosen_at_spacing_m = h1;
-    p.smoothing.at_lower_bound = g.at_lower_bound;
-    p.smoothing.at_upper_bound = g.at_upper_bound;
-    p.smoothing.exact_trace = g.exact_trace;
+    p.smoothing = automatic_smoothing_info(g, h1);
   }
   p.smoothing_m = length;
 

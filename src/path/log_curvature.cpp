@@ -153,12 +153,7 @@ LogCurvature log_curvature(const LogChannels& log, const LogCurvatureOptions& o)
     const double hi = std::max(lo, std::min(100.0 * hr, 0.5 * length));
     const SmoothingChoice g = choose_smoothing({kr}, hr, log_order, o.closed, lo, hi);
     out.smoothing_m = g.length_m;
-    out.smoothing.automatic = true;
-    out.smoothing.noise_rms = g.noise_rms;
-    out.smoothing.chosen_at_spacing_m = hr;
-    out.smoothing.at_lower_bound = g.at_lower_bound;
-    out.smoothing.at_upper_bound = g.at_upper_bound;
-    out.smoothing.exact_trace = g.exact_trace;
+    out.smoothing = automatic_smoothing_info(g, hr);
   }
   if (o.closed) {
     // Periodic: the last sample is the first again.

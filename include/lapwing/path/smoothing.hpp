@@ -22,6 +22,8 @@
 
 #include <vector>
 
+#include "lapwing/model/track.hpp"
+
 namespace lapwing {
 
 /// lambda of the filter that halves the wavelength `length_m` at sample spacing `spacing_m`.
@@ -50,6 +52,11 @@ struct SmoothingChoice {
   bool at_upper_bound = false;  // ... at the longest: the data look like noise throughout
   bool exact_trace = false;     // circulant formula (closed) or Hutchinson estimate (open)
 };
+
+/// What a fit records of a GCV choice made at `spacing_m` (the spacing its length refers to).
+inline SmoothingInfo automatic_smoothing_info(const SmoothingChoice& g, double spacing_m) {
+  return {true, g.noise_rms, spacing_m, g.at_lower_bound, g.at_upper_bound, g.exact_trace};
+}
 
 /// GCV over the lengths [min_length_m, max_length_m] (log-spaced candidates, then a golden-section
 /// refinement of the best bracket to 0.1 %). All series have the same size, at least order + 3
