@@ -124,6 +124,43 @@ std::optional<double> newton_upper_root(Phi phi) {
   return std::nullopt;
 }
 
+// Warm start: the same Newton iteration from the last answer of this axle's fixed point (the
+// neighbouring stage or step of a sweep: within a few per cent of this one), where a point of
+// known sign brackets nothing yet on the other side. Two or three evaluations instead of four
+// or five. Where the iterate would leave what is known (an unbounded side, a step at g' >= 0
+// without a feasible point to its left), the cold start from a = 0 decides.
+template <typename Phi>
+std::optional<double> newton_from(Phi phi, double& hint) {
+  constexpr double step_tolerance = 0.1 * transfer_tolerance_mps2;
+  constexpr double feasible_side = 0.2 * transfer_tolerance_mps2;
+  constexpr double inf = std::numeric_limits<double>::infinity();
+  std::optional<double> r;
+  if (hint > 0.0 && std::isfinite(hint)) {
+    double lo = -inf, hi = inf, a = hint;
+    for (int k = 0; k < 8; ++k) {
+      const PhiSlope p = phi(a);
+      const double g = p.phi - a, dg = p.slope - 1.0;
+      if (g >= 0.0)
+        lo = std::max(lo, a);
+      else if (g < 0.0)
+        hi = std::min(hi, a);
+      else
+        break;
+      if (!(dg < 0.0)) break;
+      const double next = a - g / dg;
+      if (std::abs(next - a) <= step_tolerance) {
+        r = std::max(lo, next - feasible_side);
+        break;
+      }
+      if (!(next > lo && next < hi)) break;
+      a = next;
+    }
+  }
+  if (!r) r = newton_upper_root(phi);
+  if (r) hint = *r;
+  return r;
+}
+
 }  // namespace
 
 AxleUsage axle_usage(const Envelope& env, const AxleLoads& loads, double fx, double fy) {
@@ -184,7 +221,9 @@ double left_on(const TyreModel& t, double axle_load, double transfer, double fy)
 }  // namespace
 
 double axle_drive_accel(const Envelope& env, double u, double k, const Road& road, double drive_n,
-                        bool trimmed) {
+                        bool trimmed, AxleHints* hints) {
+  AxleHints scratch;
+  AxleHints& h = hints ? *hints : scratch;
   const Car& car = env.car();
   const TyreModel& t = env.tyres();
   const Forces a = forces_at(env, u, k, road, trimmed);
@@ -215,31 +254,35 @@ double axle_drive_accel(const Envelope& env, double u, double k, const Road& roa
     const double per_mps2 =
         car.mass_kg * car.cg_height_m / car.wheelbase_m;  // load moved per m/s^2
     const double total = l0.front_n + l0.rear_n;
-    auto driven = [&](double load0, double per_a, double d, double fy_axle, bool by_load) {
-      return newton_upper_root([&](double ax) {
-        const double load = load0 + per_a * ax;
-        const TyreModel::LeftAndSlope s = t.axle_long_left(load, d, fy_axle);
-        if (!by_load)
-          return PhiSlope{(s.left_n - a.resistance) * inv_m, s.per_load * per_a * inv_m};
-        // All-wheel drive: the total this axle allows, left total / load.
-        if (!(load > 0.0)) return PhiSlope{-a.resistance * inv_m, 0.0};
-        const double q = total / load;
-        return PhiSlope{(s.left_n * q - a.resistance) * inv_m,
-                        (s.per_load * q - s.left_n * q / load) * per_a * inv_m};
-      });
+    auto driven = [&](double load0, double per_a, double d, double fy_axle, bool by_load,
+                      double& hint) {
+      return newton_from(
+          [&](double ax) {
+            const double load = load0 + per_a * ax;
+            const TyreModel::LeftAndSlope s = t.axle_long_left(load, d, fy_axle);
+            if (!by_load)
+              return PhiSlope{(s.left_n - a.resistance) * inv_m, s.per_load * per_a * inv_m};
+            // All-wheel drive: the total this axle allows, left total / load.
+            if (!(load > 0.0)) return PhiSlope{-a.resistance * inv_m, 0.0};
+            const double q = total / load;
+            return PhiSlope{(s.left_n * q - a.resistance) * inv_m,
+                            (s.per_load * q - s.left_n * q / load) * per_a * inv_m};
+          },
+          hint);
     };
     std::optional<double> r;
     switch (car.powertrain.driven) {
       case DrivenAxle::rear:
-        r = driven(l0.rear_n, per_mps2, d_rear, fy_rear, false);
+        r = driven(l0.rear_n, per_mps2, d_rear, fy_rear, false, h.rear);
         break;
       case DrivenAxle::front:
-        r = driven(l0.front_n, -per_mps2, d_front, fy_front, false);
+        r = driven(l0.front_n, -per_mps2, d_front, fy_front, false, h.front);
         break;
       case DrivenAxle::all: {
-        const std::optional<double> rf = driven(l0.front_n, -per_mps2, d_front, fy_front, true);
+        const std::optional<double> rf =
+            driven(l0.front_n, -per_mps2, d_front, fy_front, true, h.front);
         if (rf) {
-          r = driven(l0.rear_n, per_mps2, d_rear, fy_rear, true);
+          r = driven(l0.rear_n, per_mps2, d_rear, fy_rear, true, h.rear);
           if (r) r = std::min(*r, *rf);
         }
         break;
@@ -273,7 +316,10 @@ double axle_drive_accel(const Envelope& env, double u, double k, const Road& roa
   });
 }
 
-double axle_brake_accel(const Envelope& env, double u, double k, const Road& road) {
+double axle_brake_accel(const Envelope& env, double u, double k, const Road& road,
+                        AxleHints* hints) {
+  AxleHints scratch;
+  AxleHints& h = hints ? *hints : scratch;
   const Car& car = env.car();
   const TyreModel& t = env.tyres();
   const Forces a = forces_at(env, u, k, road, false);
@@ -289,17 +335,21 @@ double axle_brake_accel(const Envelope& env, double u, double k, const Road& roa
     const AxleLoads l0 =
         axle_loads(car, a.drag, a.down, a.balance, a.normal_share, road.sin_slope, 0.0);
     const double per_mps2 = car.mass_kg * car.cg_height_m / car.wheelbase_m;
-    auto axle = [&](double load0, double per_a, double d, double fy_axle, double share) {
+    auto axle = [&](double load0, double per_a, double d, double fy_axle, double share,
+                    double& hint) {
       const double inv_share = 1.0 / share;
-      return newton_upper_root([&](double decel) {
-        const TyreModel::LeftAndSlope s = t.axle_long_left(load0 + per_a * decel, d, fy_axle);
-        return PhiSlope{(s.left_n * inv_share + a.resistance) * inv_m,
-                        s.per_load * per_a * inv_share * inv_m};
-      });
+      return newton_from(
+          [&](double decel) {
+            const TyreModel::LeftAndSlope s = t.axle_long_left(load0 + per_a * decel, d, fy_axle);
+            return PhiSlope{(s.left_n * inv_share + a.resistance) * inv_m,
+                            s.per_load * per_a * inv_share * inv_m};
+          },
+          hint);
     };
-    const std::optional<double> rf = axle(l0.front_n, per_mps2, d_front, fy_front, bias);
+    const std::optional<double> rf = axle(l0.front_n, per_mps2, d_front, fy_front, bias, h.front);
     if (rf) {
-      const std::optional<double> rr = axle(l0.rear_n, -per_mps2, d_rear, fy_rear, 1.0 - bias);
+      const std::optional<double> rr =
+          axle(l0.rear_n, -per_mps2, d_rear, fy_rear, 1.0 - bias, h.rear);
       if (rr) return std::min(*rf, *rr);
     }
   }

@@ -86,9 +86,10 @@ struct InverseMass {
 template <bool Axle>
 [[gnu::always_inline]] inline double drive_accel(const Envelope& env, const Envelope::Rows& rows,
                                                  double u, double k, const Road& road, bool trimmed,
-                                                 double drive_share, const InverseMass& inv) {
+                                                 double drive_share, const InverseMass& inv,
+                                                 AxleHints* hints = nullptr) {
   if constexpr (Axle) {
-    return axle_drive_accel(env, u, k, road, drive_share * rows.at(u).drive_n, trimmed);
+    return axle_drive_accel(env, u, k, road, drive_share * rows.at(u).drive_n, trimmed, hints);
   } else {
     const PathForces f = path_forces(env, rows, u, k, road);
     return std::min((drive_share * f.drive_n - f.resistance_n) * inv.m_eff,
@@ -98,9 +99,10 @@ template <bool Axle>
 template <bool Axle>
 [[gnu::always_inline]] inline double brake_accel(const Envelope& env, const Envelope::Rows& rows,
                                                  double u, double k, const Road& road,
-                                                 const InverseMass& inv) {
+                                                 const InverseMass& inv,
+                                                 AxleHints* hints = nullptr) {
   if constexpr (Axle) {
-    return axle_brake_accel(env, u, k, road);
+    return axle_brake_accel(env, u, k, road, hints);
   } else {
     const PathForces f = path_forces(env, rows, u, k, road);
     return (f.grip_left_n + f.resistance_n) * inv.m;
@@ -290,8 +292,8 @@ class Sweeper {
     const double u0 = std::max(u, 0.0);
     const double k = k0_ + dk_ * x;
     return 2.0 * (forward_ ? drive_accel<Axle>(env_, rows_, u0, k, road_, trimmed_, drive_share_,
-                                               inv_mass_)
-                           : brake_accel<Axle>(env_, rows_, u0, k, road_, inv_mass_));
+                                               inv_mass_, &hints_)
+                           : brake_accel<Axle>(env_, rows_, u0, k, road_, inv_mass_, &hints_));
   }
 
   /// The limit in u = v^2 a distance x into the step (linear between the step's ends).
@@ -362,6 +364,8 @@ class Sweeper {
   Road road_{};
   int gear_ = 0;
   double cut_left_s_ = 0.0;  // drive cut still to run after an upshift
+  // The axle model's last answers, where its next solve starts (rhs is const: a cache).
+  mutable AxleHints hints_;
 };
 
 }  // namespace
