@@ -161,6 +161,24 @@ std::optional<double> newton_from(Phi phi, double& hint) {
   return r;
 }
 
+// Whether a is feasible for one term: g(a) = phi(a) - a >= 0.
+template <typename Phi>
+bool feasible(const Phi& phi, double a) {
+  return phi(a).phi - a >= 0.0;
+}
+
+// The least of `bound` and a term's upper root, where they meet its feasible interval: `bound`
+// itself where the term allows it (g(bound) >= 0: bound lies in [lower root, upper root]),
+// else the term's upper root found by newton_from, when that is below `bound`. nullopt where
+// neither holds: the caller takes the bracketing search.
+template <typename Phi>
+std::optional<double> lower_to(const Phi& phi, double& hint, double bound) {
+  if (std::isfinite(bound) && feasible(phi, bound)) return bound;
+  const std::optional<double> r = newton_from(phi, hint);
+  if (r && *r <= bound) return r;
+  return std::nullopt;
+}
+
 }  // namespace
 
 AxleUsage axle_usage(const Envelope& env, const AxleLoads& loads, double fx, double fy) {
@@ -246,49 +264,50 @@ double axle_drive_accel(const Envelope& env, double u, double k, const Road& roa
   if (car.powertrain.driven == DrivenAxle::rear && car.cg_height_m > 0.0)
     front_bound = (static_loads.front_n - t.axle_load_for_lateral(fy_front, d_front)) *
                   car.wheelbase_m / (car.mass_kg * car.cg_height_m);
-  // Fast path: each driven axle's own fixed point by Newton; the least of them, the engine's
-  // limit and the front's bound is the upper root of their minimum (each term's feasible set
-  // is an interval that holds a = 0). Anything else takes the bracketing search below.
-  if (engine >= 0.0 && front_bound >= 0.0) {
+  // Fast path: the answer is the least of the engine's limit, the front's bound and each
+  // driven axle's own fixed point (the upper root of a minimum of concave terms, where their
+  // feasible intervals meet). Each axle is solved only where it refuses the least so far
+  // (lower_to), by Newton from its last answer. Anything else takes the bracketing search below.
+  {
     const AxleLoads l0 = static_loads;
     const double per_mps2 =
         car.mass_kg * car.cg_height_m / car.wheelbase_m;  // load moved per m/s^2
     const double total = l0.front_n + l0.rear_n;
-    auto driven = [&](double load0, double per_a, double d, double fy_axle, bool by_load,
-                      double& hint) {
-      return newton_from(
-          [&](double ax) {
-            const double load = load0 + per_a * ax;
-            const TyreModel::LeftAndSlope s = t.axle_long_left(load, d, fy_axle);
-            if (!by_load)
-              return PhiSlope{(s.left_n - a.resistance) * inv_m, s.per_load * per_a * inv_m};
-            // All-wheel drive: the total this axle allows, left total / load.
-            if (!(load > 0.0)) return PhiSlope{-a.resistance * inv_m, 0.0};
-            const double q = total / load;
-            return PhiSlope{(s.left_n * q - a.resistance) * inv_m,
-                            (s.per_load * q - s.left_n * q / load) * per_a * inv_m};
-          },
-          hint);
+    const bool by_load = car.powertrain.driven == DrivenAxle::all;
+    auto driven = [&](double load0, double per_a, double d, double fy_axle) {
+      return [&, load0, per_a, d, fy_axle](double ax) {
+        const double load = load0 + per_a * ax;
+        const TyreModel::LeftAndSlope s = t.axle_long_left(load, d, fy_axle);
+        if (!by_load)
+          return PhiSlope{(s.left_n - a.resistance) * inv_m, s.per_load * per_a * inv_m};
+        // All-wheel drive: the total this axle allows, left total / load.
+        if (!(load > 0.0)) return PhiSlope{-a.resistance * inv_m, 0.0};
+        const double q = total / load;
+        return PhiSlope{(s.left_n * q - a.resistance) * inv_m,
+                        (s.per_load * q - s.left_n * q / load) * per_a * inv_m};
+      };
     };
+    const auto front = driven(l0.front_n, -per_mps2, d_front, fy_front);
+    const auto rear = driven(l0.rear_n, per_mps2, d_rear, fy_rear);
+    const double bound = std::min(engine, front_bound);
     std::optional<double> r;
     switch (car.powertrain.driven) {
       case DrivenAxle::rear:
-        r = driven(l0.rear_n, per_mps2, d_rear, fy_rear, false, h.rear);
+        r = lower_to(rear, h.rear, bound);
         break;
       case DrivenAxle::front:
-        r = driven(l0.front_n, -per_mps2, d_front, fy_front, false, h.front);
+        r = lower_to(front, h.front, bound);
         break;
       case DrivenAxle::all: {
-        const std::optional<double> rf =
-            driven(l0.front_n, -per_mps2, d_front, fy_front, true, h.front);
+        const std::optional<double> rf = lower_to(front, h.front, bound);
         if (rf) {
-          r = driven(l0.rear_n, per_mps2, d_rear, fy_rear, true, h.rear);
-          if (r) r = std::min(*r, *rf);
+          r = lower_to(rear, h.rear, *rf);
+          if (r && *r != *rf && !feasible(front, *r)) r.reset();
         }
         break;
       }
     }
-    if (r) return std::min({engine, *r, front_bound});
+    if (r) return *r;
   }
   return transfer_fixed_point([&](double ax) {
     const AxleLoads l =
@@ -329,28 +348,36 @@ double axle_brake_accel(const Envelope& env, double u, double k, const Road& roa
   const double bias = car.brake_front_bias;
   // Braking at the tyres' limit decelerates m: the brakes spin the wheels down (as in drive).
   const double inv_m = 1.0 / env.mass_kg();
-  // Fast path: each axle's own fixed point by Newton (the front gains m h / L per m/s^2 of
-  // deceleration, the rear loses it); the smaller is the upper root of their minimum.
+  // Fast path: each axle's own fixed point (the front gains m h / L per m/s^2 of deceleration,
+  // the rear loses it), the smaller the answer; the axle that set the last answer is solved
+  // first, and the other only where it refuses that (lower_to).
   {
     const AxleLoads l0 =
         axle_loads(car, a.drag, a.down, a.balance, a.normal_share, road.sin_slope, 0.0);
     const double per_mps2 = car.mass_kg * car.cg_height_m / car.wheelbase_m;
-    auto axle = [&](double load0, double per_a, double d, double fy_axle, double share,
-                    double& hint) {
-      const double inv_share = 1.0 / share;
-      return newton_from(
-          [&](double decel) {
-            const TyreModel::LeftAndSlope s = t.axle_long_left(load0 + per_a * decel, d, fy_axle);
-            return PhiSlope{(s.left_n * inv_share + a.resistance) * inv_m,
-                            s.per_load * per_a * inv_share * inv_m};
-          },
-          hint);
+    auto axle = [&](double load0, double per_a, double d, double fy_axle, double share) {
+      return [&, load0, per_a, d, fy_axle, inv_share = 1.0 / share](double decel) {
+        const TyreModel::LeftAndSlope s = t.axle_long_left(load0 + per_a * decel, d, fy_axle);
+        return PhiSlope{(s.left_n * inv_share + a.resistance) * inv_m,
+                        s.per_load * per_a * inv_share * inv_m};
+      };
     };
-    const std::optional<double> rf = axle(l0.front_n, per_mps2, d_front, fy_front, bias, h.front);
-    if (rf) {
-      const std::optional<double> rr =
-          axle(l0.rear_n, -per_mps2, d_rear, fy_rear, 1.0 - bias, h.rear);
-      if (rr) return std::min(*rf, *rr);
+    const auto front = axle(l0.front_n, per_mps2, d_front, fy_front, bias);
+    const auto rear = axle(l0.rear_n, -per_mps2, d_rear, fy_rear, 1.0 - bias);
+    const bool rear_first = h.rear_binds;
+    const auto& first = rear_first ? rear : front;
+    const auto& second = rear_first ? front : rear;
+    double& hint_first = rear_first ? h.rear : h.front;
+    double& hint_second = rear_first ? h.front : h.rear;
+    const double inf = std::numeric_limits<double>::infinity();
+    const std::optional<double> r1 = lower_to(first, hint_first, inf);
+    if (r1) {
+      const std::optional<double> r2 = lower_to(second, hint_second, *r1);
+      if (r2 && *r2 == *r1) return *r1;
+      if (r2 && feasible(first, *r2)) {
+        h.rear_binds = !rear_first;
+        return *r2;
+      }
     }
   }
   return transfer_fixed_point([&](double decel) {

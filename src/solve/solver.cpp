@@ -625,6 +625,7 @@ const Lap& LapSolver::add_channels(const Envelope& env, const Mesh& mesh) {
   // usage worked from it would show an axle beyond its grip that the solver never used.
   const InverseMass inv{1.0 / m, 1.0 / env.effective_mass_kg()};
   const bool axle_model = car.model == VehicleModel::axle;
+  AxleHints drive_hints, brake_hints;  // from point to point, as in the sweeps
   const auto point_accel = [&](std::size_t i) {
     std::size_t lo = i, hi = i;
     if (i > 0)
@@ -645,12 +646,12 @@ const Lap& LapSolver::add_channels(const Envelope& env, const Mesh& mesh) {
     if (diff >= 0.0) {
       const bool trims = env.trims(k) && mesh.trim_zone[i];
       const Envelope::Rows rows = env.rows(trims);
-      return std::min(diff, axle_model
-                                ? drive_accel<true>(env, rows, u, k, road, trims, 1.0, inv)
-                                : drive_accel<false>(env, rows, u, k, road, trims, 1.0, inv));
+      return std::min(
+          diff, axle_model ? drive_accel<true>(env, rows, u, k, road, trims, 1.0, inv, &drive_hints)
+                           : drive_accel<false>(env, rows, u, k, road, trims, 1.0, inv));
     }
     const Envelope::Rows rows = env.rows(false);
-    return std::max(diff, -(axle_model ? brake_accel<true>(env, rows, u, k, road, inv)
+    return std::max(diff, -(axle_model ? brake_accel<true>(env, rows, u, k, road, inv, &brake_hints)
                                        : brake_accel<false>(env, rows, u, k, road, inv)));
   };
   for (std::size_t i = 0; i < n; ++i) {

@@ -43,6 +43,7 @@ AxleUsage axle_usage(const Envelope& env, const AxleLoads& loads, double fx_n, d
 /// cold. Either way the answer is the same fixed point, to its 1e-9 m/s^2 tolerance.
 struct AxleHints {
   double front = 0.0, rear = 0.0;  // m/s^2; 0: none yet
+  bool rear_binds = false;         // braking: the rear axle set the last answer
 };
 double axle_drive_accel(const Envelope& env, double u, double abs_curvature, const Road& road,
                         double drive_n, bool trimmed, AxleHints* hints = nullptr);
