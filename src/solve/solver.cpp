@@ -298,6 +298,9 @@ class Sweeper {
 
   /// The limit in u = v^2 a distance x into the step (linear between the step's ends).
   double cap(double x) const { return ulim0_ + dulim_ * x; }
+  /// Curvature and limit the same at both ends (an arc or a straight on its steady limit):
+  /// every stage held at the limit reads the same state.
+  bool uniform() const { return dk_ == 0.0 && dulim_ == 0.0; }
 
   /// Takes the integrated u at the next point: clips it to the limit and moves there.
   [[gnu::always_inline]] void end_step(double u) {
@@ -412,29 +415,35 @@ template <class Sw, std::size_t N>
                                                             double x0, double h) {
   std::array<double, N> y1, k1, y2, k2, y3, k3, k4;
   std::array<bool, N> held{};
+  // A lane that starts on its limit with d(u)/dx > 0 on a uniform step (an arc taken at its
+  // limit, where the backward sweep spends most of its steps) holds every stage at the same
+  // limit in the same state: stages 2 to 4 are stage 1 again (the held stages' rhs reads the
+  // same u, curvature and road), and the step ends above the limit and is clipped to it.
+  std::array<bool, N> same{};
   const double xm = x0 + 0.5 * h, x1 = x0 + h;
   for (std::size_t c = 0; c < N; ++c) {
     const double top = s[c]->cap(x0);
     held[c] = u0[c] > top;
     y1[c] = held[c] ? top : u0[c];
     k1[c] = s[c]->rhs(y1[c], x0);
+    same[c] = u0[c] >= top && k1[c] > 0.0 && s[c]->uniform();
   }
   for (std::size_t c = 0; c < N; ++c) {
     const double y = y1[c] + 0.5 * h * k1[c], top = s[c]->cap(xm);
     held[c] |= y > top;
     y2[c] = std::min(y, top);
-    k2[c] = s[c]->rhs(y2[c], xm);
+    k2[c] = same[c] ? k1[c] : s[c]->rhs(y2[c], xm);
   }
   for (std::size_t c = 0; c < N; ++c) {
     const double y = y1[c] + 0.5 * h * k2[c], top = s[c]->cap(xm);
     held[c] |= y > top;
     y3[c] = std::min(y, top);
-    k3[c] = s[c]->rhs(y3[c], xm);
+    k3[c] = same[c] ? k1[c] : s[c]->rhs(y3[c], xm);
   }
   for (std::size_t c = 0; c < N; ++c) {
     const double y = y1[c] + h * k3[c], top = s[c]->cap(x1);
     held[c] |= y > top;
-    k4[c] = s[c]->rhs(std::min(y, top), x1);
+    k4[c] = same[c] ? k1[c] : s[c]->rhs(std::min(y, top), x1);
   }
   std::array<StageCheck, N> out;
   for (std::size_t c = 0; c < N; ++c) {
