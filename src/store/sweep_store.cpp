@@ -178,35 +178,58 @@ struct SweepStore::Db {
   Db(const std::string& file, bool create) : c(file, create) {}
 };
 
-SweepStore::SweepStore(const std::string& file, const StudyRecord& study, const SweepPlan& plan)
-    : plan_(&plan), study_(study), done_(plan.points(), false) {
-  const bool exists = std::filesystem::exists(file);
-  db_ = std::make_unique<Db>(file, !exists);
-  Connection& c = db_->c;
-  // The default rollback journal, fully synced: a commit survives a kill (SQLite, "Atomic Commit
-  // In SQLite").
-  c.exec("PRAGMA synchronous = FULL");
-  if (!exists) {
+namespace {
+
+// A new results store is built whole under a temporary name beside `file` (its schema and study
+// committed), then renamed into place: a sweep killed while it creates the store leaves either no
+// store or one that resumes, never a file without the study (which the next run would refuse). A
+// temporary left by such a kill is removed by the next run that creates the store.
+void create_store(const std::string& file, const StudyRecord& study, const SweepPlan& plan) {
+  namespace fs = std::filesystem;
+  const fs::path target(file);
+  const fs::path tmp = target.parent_path() / ("." + target.filename().string() + ".lapwing-new");
+  std::error_code ec;
+  fs::remove(tmp, ec);
+  fs::remove(tmp.string() + "-journal", ec);
+  {
+    Connection c(tmp.string(), true);
+    // The default rollback journal, fully synced: a commit survives a kill (SQLite, "Atomic
+    // Commit In SQLite").
+    c.exec("PRAGMA synchronous = FULL");
     // The file's layout fixed here rather than left to how the library was built (its compiled
     // defaults), so that the same study gives the same bytes: 4096-byte pages, no auto-vacuum.
-    // Nothing in the file depends on the clock or the thread count (rows go in point order, 64
-    // points per transaction); what still differs between machines is the SQLite version
-    // stamped in the header (SQLite, "Database File Format", offsets 92-99).
+    // Nothing in the file depends on the clock, the thread count or its name (rows go in point
+    // order, 64 points per transaction); what still differs between machines is the SQLite
+    // version stamped in the header (SQLite, "Database File Format", offsets 92-99).
     c.exec("PRAGMA page_size = 4096; PRAGMA auto_vacuum = NONE");
     c.exec("BEGIN");
     create_schema(c, study, plan);
     c.exec("COMMIT");
-  } else {
-    if (study_id_of(c) != study.study_id)
-      throw OutputError(file +
-                        " holds another study (other inputs, sets, design or configs); give a "
-                        "new --out, or the same command to resume it");
-    Statement s(c, "SELECT DISTINCT point FROM laps");
-    while (s.step()) {
-      const std::int64_t p = s.integer(0);
-      if (p >= 0 && static_cast<std::size_t>(p) < done_.size())
-        done_[static_cast<std::size_t>(p)] = true;
-    }
+  }
+  fs::rename(tmp, target, ec);
+  if (ec) {
+    fs::remove(tmp, ec);
+    throw OutputError(file + ": cannot create the results store (" + ec.message() + ")");
+  }
+}
+
+}  // namespace
+
+SweepStore::SweepStore(const std::string& file, const StudyRecord& study, const SweepPlan& plan)
+    : plan_(&plan), study_(study), done_(plan.points(), false) {
+  if (!std::filesystem::exists(file)) create_store(file, study, plan);
+  db_ = std::make_unique<Db>(file, false);
+  Connection& c = db_->c;
+  c.exec("PRAGMA synchronous = FULL");
+  if (study_id_of(c) != study.study_id)
+    throw OutputError(file +
+                      " holds another study (other inputs, sets, design or configs); give a "
+                      "new --out, or the same command to resume it");
+  Statement s(c, "SELECT DISTINCT point FROM laps");
+  while (s.step()) {
+    const std::int64_t p = s.integer(0);
+    if (p >= 0 && static_cast<std::size_t>(p) < done_.size())
+      done_[static_cast<std::size_t>(p)] = true;
   }
   std::string sql = "INSERT OR IGNORE INTO laps VALUES (?, ?, ?";
   for (std::size_t i = 0; i < plan.sets().size(); ++i) sql += ", ?";
