@@ -3,15 +3,15 @@
 #include <unistd.h>
 
 #include <algorithm>
-#include <cmath>
 #include <atomic>
 #include <chrono>
+#include <cmath>
 #include <csignal>
 #include <filesystem>
 #include <fstream>
 #include <iostream>
-#include <thread>
 #include <sstream>
+#include <thread>
 
 #include "lapwing/base/error.hpp"
 #include "lapwing/base/format.hpp"
@@ -1005,16 +1005,21 @@ int correlate(const CorrelateOptions& o, Inputs& in) {
   std::string out;
   out += "car     " + car.name + " (" + car.file + "), config " + car.configs[ci].name + ", " +
          model_name(car) + " model\n";
-  out += "track   " + t.track.name + " (" + t.track.file + "), " + fixed(t.mesh.length_m, 1) +
-         " m\n";
+  out +=
+      "track   " + t.track.name + " (" + t.track.file + "), " + fixed(t.mesh.length_m, 1) + " m\n";
   out += "log     " + o.log + ", " + std::to_string(logs.front().table.rows()) + " rows\n";
   out += correlate_text(t, r.lap, c);
   if (!o.out.empty()) {
     std::vector<OutputFile> files;
-    files.push_back({"correlate.json", correlate_json(car.name, car.configs[ci].name, o.log, t, c)});
+    files.push_back(
+        {"correlate.json", correlate_json(car.name, car.configs[ci].name, o.log, t, c)});
     files.push_back({"correlate-" + t.track.id + ".csv", correlate_csv(t.mesh, r.lap, c)});
-    ReportInput ri{&car, &circuits, nullptr, nullptr,
-                   "correlate, config " + car.configs[ci].name + ", log " + o.log, nullptr};
+    ReportInput ri{&car,
+                   &circuits,
+                   nullptr,
+                   nullptr,
+                   "correlate, config " + car.configs[ci].name + ", log " + o.log,
+                   nullptr};
     ri.correlation = &c;
     ri.correlated_lap = &r.lap;
     files.push_back({"report.html", html_report(ri)});
@@ -1027,8 +1032,8 @@ int correlate(const CorrelateOptions& o, Inputs& in) {
 std::vector<FitParameter> parse_free(const std::string& list) {
   std::vector<FitParameter> out;
   std::vector<std::string> names;
-  for (std::string_view n : {"grip", "grip_lat", "grip_long", "power", "cda", "cla", "balance",
-                             "mass"})
+  for (std::string_view n :
+       {"grip", "grip_lat", "grip_long", "power", "cda", "cla", "balance", "mass"})
     names.emplace_back(n);
   std::size_t a = 0;
   while (a <= list.size()) {
@@ -1077,10 +1082,10 @@ int fit(const FitOptions& o, Inputs& in) {
   lapwing::FitOptions fo;
   fo.threads = o.threads;
   const ConfiguredCar start = car.configured(ci);
-  const FitResult r =
-      at_log_rows(logs, [&] { return lapwing::fit(start, fit_logs, params, fo); });
+  const FitResult r = at_log_rows(logs, [&] { return lapwing::fit(start, fit_logs, params, fo); });
   std::vector<std::string> track_names;
-  for (std::size_t i = 0; i < logs.size(); ++i) track_names.push_back(circuits[track_of[i]].track.name);
+  for (std::size_t i = 0; i < logs.size(); ++i)
+    track_names.push_back(circuits[track_of[i]].track.name);
   std::string out;
   out += "car     " + car.name + " (" + car.file + "), config " + car.configs[ci].name + ", " +
          model_name(car) + " model\n";
@@ -1091,9 +1096,8 @@ int fit(const FitOptions& o, Inputs& in) {
     // The input car with the fitted values written in, and a header saying what was fitted to
     // what; read back as a car file before anything is written.
     std::string header = "# Fitted by 'lapwing fit' (lapwing " + version() + ") from " +
-                         printable(std::filesystem::path(o.car).filename().string()) +
-                         ", config " + car.configs[ci].name + ", " + model_name(car) +
-                         " model, to ";
+                         printable(std::filesystem::path(o.car).filename().string()) + ", config " +
+                         car.configs[ci].name + ", " + model_name(car) + " model, to ";
     for (std::size_t i = 0; i < logs.size(); ++i)
       header += (i ? "; " : "") + printable(std::filesystem::path(o.logs[i]).filename().string()) +
                 " on " + printable(track_names[i]);

@@ -263,7 +263,8 @@ int main(int argc, char** argv) {
   fit->add_option("--out", fit_o.out, "Folder for fit.json and car.yaml (the fitted car)");
   add_air(fit, fit_o.air);
   fit->footer(
-      "Example:\n  lapwing fit --car cars/pellion-fr2.yaml --track tracks/brannock-park-survey.yaml "
+      "Example:\n  lapwing fit --car cars/pellion-fr2.yaml --track "
+      "tracks/brannock-park-survey.yaml "
       "--log examples/logs/brannock-park-lap.csv --distance distance_m --speed speed_kph --config "
       "medium --free grip,power,cda --out out/fit");
 

@@ -585,12 +585,15 @@ std::string edited_car_text(const std::string& file, const std::vector<CarValueE
     if (nodes.empty() && e.key_path == torque)
       scalars_at(doc.root, "powertrain.power_curve.power", nodes);
     if (nodes.empty())
-      throw InputError(file, Mark{}, "the file holds no value at this key path to write a fitted "
+      throw InputError(file, Mark{},
+                       "the file holds no value at this key path to write a fitted "
                        "value into (a config made by a wing family is fitted as one of its "
-                       "measured configs)", e.key_path);
+                       "measured configs)",
+                       e.key_path);
     for (Node* n : nodes) {
       const std::size_t line = static_cast<std::size_t>(n->mark.line);
-      if (line < 1 || line > line_at.size()) throw InputError(file, n->mark, "no place", e.key_path);
+      if (line < 1 || line > line_at.size())
+        throw InputError(file, n->mark, "no place", e.key_path);
       std::size_t at = line_at[line - 1] + static_cast<std::size_t>(n->mark.col - 1);
       if (at < text.size() && (text[at] == '"' || text[at] == '\'')) ++at;
       if (text.compare(at, n->scalar.size(), n->scalar) != 0)
@@ -600,8 +603,7 @@ std::string edited_car_text(const std::string& file, const std::vector<CarValueE
       char* end = nullptr;
       const double v = std::strtod(begin, &end);
       if (end == begin || !std::isfinite(v))
-        throw InputError(file, n->mark, "'" + n->scalar + "' is not a number to scale",
-                         e.key_path);
+        throw InputError(file, n->mark, "'" + n->scalar + "' is not a number to scale", e.key_path);
       const std::string unit = n->scalar.substr(static_cast<std::size_t>(end - begin));
       const bool percent = unit.find('%') != std::string::npos;
       const double nv = v * e.scale + (percent ? 100.0 : 1.0) * e.add;

@@ -240,13 +240,13 @@ SpeedLogFile read_speed_log(const SpeedLogOptions& o) {
     if (!(log.speed_mps[i] >= 0.0) || !(log.speed_mps[i] <= log_max_row_speed_mps)) {
       char buf[64];
       std::snprintf(buf, sizeof buf, "%.6g", vcol[i]);
-      throw InputError(o.log, Mark{t.lines[i], 1},
-                       std::string("speed ") + buf + " " + o.speed_unit +
-                           (log.speed_mps[i] < 0.0
-                                ? " is negative: a logged speed is at least 0"
-                                : " is beyond 900 km/h, which no car logs: is the speed in "
-                                  "another unit? (--speed-unit " +
-                                      o.speed_unit + " now)"));
+      throw InputError(
+          o.log, Mark{t.lines[i], 1},
+          std::string("speed ") + buf + " " + o.speed_unit +
+              (log.speed_mps[i] < 0.0 ? " is negative: a logged speed is at least 0"
+                                      : " is beyond 900 km/h, which no car logs: is the speed in "
+                                        "another unit? (--speed-unit " +
+                                            o.speed_unit + " now)"));
     }
   }
   if (!o.distance.empty()) {

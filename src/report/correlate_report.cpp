@@ -56,10 +56,11 @@ void number_or_null(JsonWriter& w, std::string_view key, double v) {
 std::string correlate_text(const Circuit& circuit, const Lap& lap, const Correlation& c) {
   (void)lap;
   std::string o;
-  o += "aligned  offset " + fixed(c.alignment.offset_m, 2) + " m (the log's distance at the line), "
-       "scale " + fixed(c.alignment.scale, 4) + ", speed correlation " +
-       fixed(c.alignment.correlation, 4) + ", " + fixed(100.0 * c.coverage, 1) +
-       " % of the track covered\n";
+  o += "aligned  offset " + fixed(c.alignment.offset_m, 2) +
+       " m (the log's distance at the line), "
+       "scale " +
+       fixed(c.alignment.scale, 4) + ", speed correlation " + fixed(c.alignment.correlation, 4) +
+       ", " + fixed(100.0 * c.coverage, 1) + " % of the track covered\n";
   o += "lap      simulated " + fixed(c.lap_time_sim_s, 3) + " s, logged " +
        fixed(c.lap_time_log_s, 3) + " s, difference " +
        signed_fixed(c.lap_time_sim_s - c.lap_time_log_s, 3) + " s (sim - log)\n";
@@ -80,8 +81,8 @@ std::string correlate_text(const Circuit& circuit, const Lap& lap, const Correla
                     b ? signed_fixed(*b, 1) : "-"});
   }
   if (!rows.empty())
-    o += text_table({"corner", "apex m", "sim apex km/h", "log apex km/h", "entry err",
-                     "apex err", "exit err", "braking m"},
+    o += text_table({"corner", "apex m", "sim apex km/h", "log apex km/h", "entry err", "apex err",
+                     "exit err", "braking m"},
                     rows) +
          "(errors sim - log, km/h; braking m: simulated braking point - logged, > 0 brakes "
          "later; - where either takes the corner without braking)\n\n";
@@ -180,9 +181,9 @@ std::string fit_text(const FitResult& r, const std::vector<std::string>& log_nam
   for (std::size_t i = 0; i < r.params.size(); ++i) {
     const bool shift = r.params[i] == FitParameter::balance;
     const double se = r.std_errors[i];
-    rows.push_back({std::string(fit_parameter_name(r.params[i])), fit_value_text(r.params[i], r.values[i]),
-                    std::isfinite(se) ? fixed(shift ? 100.0 * se : se, 4) + (shift ? " %" : "")
-                                      : "-"});
+    rows.push_back(
+        {std::string(fit_parameter_name(r.params[i])), fit_value_text(r.params[i], r.values[i]),
+         std::isfinite(se) ? fixed(shift ? 100.0 * se : se, 4) + (shift ? " %" : "") : "-"});
   }
   o += text_table({"parameter", "fitted", "std error"}, rows) + "\n";
   if (r.params.size() > 1) {
@@ -199,13 +200,15 @@ std::string fit_text(const FitResult& r, const std::vector<std::string>& log_nam
   }
   rows.clear();
   for (std::size_t l = 0; l < log_names.size(); ++l)
-    rows.push_back({log_names[l], fixed(r.alignments[l].offset_m, 2),
-                    fixed(r.alignments[l].scale, 4), fixed(units::to_kph(r.rms_before_mps[l]), 2),
+    rows.push_back({log_names[l], fixed(r.final_alignments[l].offset_m, 2),
+                    fixed(r.final_alignments[l].scale, 4),
+                    fixed(units::to_kph(r.rms_before_mps[l]), 2),
                     fixed(units::to_kph(r.rms_after_mps[l]), 2)});
   rows.push_back({"all", "", "", fixed(units::to_kph(r.rms_before_mps_all), 2),
                   fixed(units::to_kph(r.rms_after_mps_all), 2)});
   o += text_table({"log", "offset m", "scale", "RMS before km/h", "RMS after km/h"}, rows);
-  o += "solver   " + std::to_string(r.iterations) + " iterations, " +
+  o += "solver   " + std::to_string(r.rounds) + (r.rounds > 1 ? " rounds" : " round") +
+       " of fit and alignment, " + std::to_string(r.iterations) + " iterations, " +
        std::to_string(r.laps_solved) + " laps solved: " + r.termination + "\n";
   if (!r.covariance_found)
     o += "warning: the covariance could not be found (the logs do not determine every "
@@ -249,8 +252,8 @@ std::string fit_json(const std::string& car_name, const std::string& config,
     w.begin_object()
         .field("log", log_names[l])
         .field("track", track_names[l])
-        .field("offset_m", r.alignments[l].offset_m)
-        .field("scale", r.alignments[l].scale)
+        .field("offset_m", r.final_alignments[l].offset_m)
+        .field("scale", r.final_alignments[l].scale)
         .field("rms_before_kph", units::to_kph(r.rms_before_mps[l]))
         .field("rms_after_kph", units::to_kph(r.rms_after_mps[l]))
         .end_object();

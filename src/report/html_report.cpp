@@ -321,23 +321,24 @@ std::string correlation_section(const Circuit& c, const Lap& lap, const Correlat
     dt.marker(mesh.s_m[span.start], std::to_string(span.id));
   }
   std::string o = "<section id=\"correlation\"><h2>Against the log</h2>\n";
-  o += table(escaped({"", "value"}),
-             {{"alignment", escape("offset " + fixed(k.alignment.offset_m, 2) + " m, scale " +
-                                   fixed(k.alignment.scale, 4) + ", speed correlation " +
-                                   fixed(k.alignment.correlation, 4))},
-              {"lap time", escape("simulated " + fixed(k.lap_time_sim_s, 3) + " s, logged " +
-                                  fixed(k.lap_time_log_s, 3) + " s, difference " +
-                                  signed_fixed(k.lap_time_sim_s - k.lap_time_log_s, 3) + " s")},
-              {"RMS speed error",
-               escape(fixed(units::to_kph(k.rms_speed_error_mps), 2) + " km/h")}},
-             "", {1});
+  o +=
+      table(escaped({"", "value"}),
+            {{"alignment", escape("offset " + fixed(k.alignment.offset_m, 2) + " m, scale " +
+                                  fixed(k.alignment.scale, 4) + ", speed correlation " +
+                                  fixed(k.alignment.correlation, 4))},
+             {"lap time", escape("simulated " + fixed(k.lap_time_sim_s, 3) + " s, logged " +
+                                 fixed(k.lap_time_log_s, 3) + " s, difference " +
+                                 signed_fixed(k.lap_time_sim_s - k.lap_time_log_s, 3) + " s")},
+             {"RMS speed error", escape(fixed(units::to_kph(k.rms_speed_error_mps), 2) + " km/h")}},
+            "", {1});
   o += figure(speed.render(), "Numbered lines mark where the corners begin.");
-  o += figure(dt.render(), "Rising: the simulated car is slower there than the logged one; "
-                           "falling: faster.");
+  o += figure(dt.render(),
+              "Rising: the simulated car is slower there than the logged one; "
+              "falling: faster.");
   std::vector<std::vector<std::string>> rows;
   for (std::size_t i = 0; i < k.sectors.size(); ++i)
-    rows.push_back({std::to_string(i + 1), fixed(k.sectors[i].sim_s, 3), fixed(k.sectors[i].log_s, 3),
-                    signed_fixed(k.sectors[i].error_s, 3)});
+    rows.push_back({std::to_string(i + 1), fixed(k.sectors[i].sim_s, 3),
+                    fixed(k.sectors[i].log_s, 3), signed_fixed(k.sectors[i].error_s, 3)});
   o += "<h3>Sectors</h3>" + table(escaped({"sector", "sim s", "log s", "error s"}), rows);
   rows.clear();
   auto d = [](double mps) { return signed_fixed(units::to_kph(mps), 1); };

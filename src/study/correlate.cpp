@@ -52,8 +52,8 @@ Grid sim_grid(const Mesh& mesh, const std::vector<double>& speed, double h) {
     g.v[j] = at(speed, walk.at(s));
   }
   // The grid's last node stands at n h >= L: on a closed lap it is the line again.
-  if (g.periodic) g.v[n] = interpolate(mesh.s_m, speed, std::fmod(static_cast<double>(n) * h,
-                                                                  mesh.length_m));
+  if (g.periodic)
+    g.v[n] = interpolate(mesh.s_m, speed, std::fmod(static_cast<double>(n) * h, mesh.length_m));
   return g;
 }
 
@@ -142,20 +142,21 @@ Alignment align_log(const LoggedSpeed& log, const Mesh& mesh, const std::vector<
         std::max_element(log.speed_mps.begin(), log.speed_mps.end()) - log.speed_mps.begin());
     throw InvalidInput(
         log.source,
-        broken_rule("",
-                    "the log's median speed, " + fixed(units::to_kph(log_median), 1) +
-                        " km/h, is " +
-                        fixed(log_median > sim_median ? log_median / sim_median
-                                                      : sim_median / log_median,
-                              2) +
-                        " times the simulated lap's " + fixed(units::to_kph(sim_median), 1) +
-                        " km/h: is --speed-unit right (m/s read as km/h is 3.6 times too slow, "
-                        "mph read as km/h 1.6)?",
-                    row("speed_mps", fastest)));
+        broken_rule(
+            "",
+            "the log's median speed, " + fixed(units::to_kph(log_median), 1) + " km/h, is " +
+                fixed(log_median > sim_median ? log_median / sim_median : sim_median / log_median,
+                      2) +
+                " times the simulated lap's " + fixed(units::to_kph(sim_median), 1) +
+                " km/h: is --speed-unit right (m/s read as km/h is 3.6 times too slow, "
+                "mph read as km/h 1.6)?",
+            row("speed_mps", fastest)));
   }
   const double L = mesh.length_m;
   const double d0 = log.distance_m.front();
-  // Stage 1: every offset on a 2 m grid at scale 1 (a closed lap's offsets repeat after L).
+  // Stage 1: every offset on a 2 m grid (a closed lap's offsets repeat after L) at scales 0.4 %
+  // apart: at the nearest scale the log drifts at most 0.2 % of the lap from the track, which
+  // the correlation's peak survives.
   const Grid coarse = sim_grid(mesh, speed, 2.0);
   const LogSamples lc = log_samples(log, 2.0);
   Alignment best;
@@ -163,18 +164,31 @@ Alignment align_log(const LoggedSpeed& log, const Mesh& mesh, const std::vector<
   const double lo = mesh.closed ? d0 : d0 - 0.5 * L, hi = mesh.closed ? d0 + L : d0 + 0.5 * L;
   // An open track's candidates must lay most of the log on the track.
   const double min_overlap = mesh.closed ? 0.0 : 0.5;
-  for (double off = lo; off < hi; off += 2.0) {
-    const Score s = score(lc, coarse, off, 1.0);
-    if (s.overlap >= min_overlap && s.r > best.correlation) best = {off, 1.0, s.r};
+  const int n_scales = static_cast<int>(std::lround(alignment_max_scale_error / 0.004));
+  for (int k = -n_scales; k <= n_scales; ++k) {
+    const double sc = 1.0 + 0.004 * k;
+    for (double off = lo; off < hi; off += 2.0) {
+      const Score s = score(lc, coarse, off, sc);
+      if (s.overlap >= min_overlap && s.r > best.correlation) best = {off, sc, s.r};
+    }
   }
+  return refine_alignment(log, mesh, speed, best);
+}
+
+Alignment refine_alignment(const LoggedSpeed& log, const Mesh& mesh,
+                           const std::vector<double>& speed, const Alignment& start) {
+  const double L = mesh.length_m;
+  const double d0 = log.distance_m.front();
+  const double min_overlap = mesh.closed ? 0.0 : 0.5;
+  Alignment best = start;
   // Stages 2 and 3: offset and scale together, around the best, on finer grids.
   const Grid fine = sim_grid(mesh, speed, 0.5);
   const LogSamples lf = log_samples(log, 0.5);
+  best.correlation = score(lf, fine, best.offset_m, best.scale).r;
   struct Stage {
     double offset_span, offset_step, scale_span, scale_step;
   };
-  for (const Stage st : {Stage{3.0, 0.5, alignment_max_scale_error, 0.002},
-                         Stage{0.6, 0.05, 0.003, 0.0002}}) {
+  for (const Stage st : {Stage{4.0, 0.5, 0.004, 0.0005}, Stage{0.6, 0.05, 0.0006, 0.0001}}) {
     const Alignment centre = best;
     const int no = static_cast<int>(std::lround(st.offset_span / st.offset_step));
     const int ns = static_cast<int>(std::lround(st.scale_span / st.scale_step));
@@ -188,20 +202,20 @@ Alignment align_log(const LoggedSpeed& log, const Mesh& mesh, const std::vector<
       }
   }
   // A closed lap's offset is named within one lap after the log's start.
-  if (mesh.closed) best.offset_m = d0 + std::fmod(std::fmod(best.offset_m - d0, L / best.scale) +
-                                                      L / best.scale,
-                                                  L / best.scale);
+  if (mesh.closed)
+    best.offset_m = d0 + std::fmod(std::fmod(best.offset_m - d0, L / best.scale) + L / best.scale,
+                                   L / best.scale);
   const LogOnMesh on = log_on_mesh(log, mesh, best);
   const double coverage = static_cast<double>(on.covered_points) / static_cast<double>(mesh.size());
   if (coverage < correlate_min_coverage)
-    throw InvalidInput(log.source,
-                       broken_rule("",
-                                   "aligned to the track, the log covers " +
-                                       fixed(100.0 * coverage, 1) + " % of its " + fixed(L, 1) +
-                                       " m; correlate needs " +
-                                       fixed(100.0 * correlate_min_coverage, 0) +
-                                       " % (a whole lap, or the whole run of an open track)",
-                                   row("distance_m", log.distance_m.size() - 1)));
+    throw InvalidInput(
+        log.source,
+        broken_rule("",
+                    "aligned to the track, the log covers " + fixed(100.0 * coverage, 1) +
+                        " % of its " + fixed(L, 1) + " m; correlate needs " +
+                        fixed(100.0 * correlate_min_coverage, 0) +
+                        " % (a whole lap, or the whole run of an open track)",
+                    row("distance_m", log.distance_m.size() - 1)));
   return best;
 }
 
@@ -246,8 +260,8 @@ Correlation correlate(const Lap& lap, const Circuit& circuit, const LoggedSpeed&
   double sum2 = 0.0;
   for (std::size_t i = 0; i < n; ++i)
     if (c.covered[i]) sum2 += (vs[i] - vl[i]) * (vs[i] - vl[i]);
-  c.rms_speed_error_mps = on.covered_points ? std::sqrt(sum2 / static_cast<double>(on.covered_points))
-                                            : 0.0;
+  c.rms_speed_error_mps =
+      on.covered_points ? std::sqrt(sum2 / static_cast<double>(on.covered_points)) : 0.0;
   // Times over the intervals the log covers at both ends: the log's dt = 2 ds / (v_a + v_b)
   // (constant acceleration over the interval, as the solver's own times).
   c.time_delta_s.assign(n, 0.0);
@@ -296,8 +310,9 @@ Correlation correlate(const Lap& lap, const Circuit& circuit, const LoggedSpeed&
       if (vls[i] < vls[la]) la = i;
     }
     if (all) {
-      CornerError e{span.id, mesh.s_m[sa], vs[span.start], vs[sa], vs[span.end], vls[span.start],
-                    vls[la], vls[span.end], braking_point(vss, mesh, prev_sim_apex, sa),
+      CornerError e{span.id,     mesh.s_m[sa],  vs[span.start],
+                    vs[sa],      vs[span.end],  vls[span.start],
+                    vls[la],     vls[span.end], braking_point(vss, mesh, prev_sim_apex, sa),
                     std::nullopt};
       bool from_covered = true;
       for (std::size_t i = prev_log_apex; i <= la; ++i) from_covered = from_covered && c.covered[i];

@@ -20,10 +20,9 @@ namespace lapwing {
 
 namespace {
 
-constexpr FitParameter all_params[] = {FitParameter::grip,    FitParameter::grip_lat,
-                                       FitParameter::grip_long, FitParameter::power,
-                                       FitParameter::cda,     FitParameter::cla,
-                                       FitParameter::balance, FitParameter::mass};
+constexpr FitParameter all_params[] = {
+    FitParameter::grip, FitParameter::grip_lat, FitParameter::grip_long, FitParameter::power,
+    FitParameter::cda,  FitParameter::cla,      FitParameter::balance,   FitParameter::mass};
 
 double start_value(FitParameter p) {
   return p == FitParameter::balance ? 0.0 : 1.0;
@@ -170,14 +169,22 @@ double rms_kph(const std::vector<double>& r, std::size_t from, std::size_t to) {
 
 std::string_view fit_parameter_name(FitParameter p) {
   switch (p) {
-    case FitParameter::grip: return "grip";
-    case FitParameter::grip_lat: return "grip_lat";
-    case FitParameter::grip_long: return "grip_long";
-    case FitParameter::power: return "power";
-    case FitParameter::cda: return "cda";
-    case FitParameter::cla: return "cla";
-    case FitParameter::balance: return "balance";
-    case FitParameter::mass: return "mass";
+    case FitParameter::grip:
+      return "grip";
+    case FitParameter::grip_lat:
+      return "grip_lat";
+    case FitParameter::grip_long:
+      return "grip_long";
+    case FitParameter::power:
+      return "power";
+    case FitParameter::cda:
+      return "cda";
+    case FitParameter::cla:
+      return "cla";
+    case FitParameter::balance:
+      return "balance";
+    case FitParameter::mass:
+      return "mass";
   }
   return "";
 }
@@ -190,7 +197,8 @@ std::optional<FitParameter> fit_parameter(std::string_view name) {
 
 std::string fit_parameter_names() {
   std::string out;
-  for (FitParameter p : all_params) out += (out.empty() ? "" : ", ") + std::string(fit_parameter_name(p));
+  for (FitParameter p : all_params)
+    out += (out.empty() ? "" : ", ") + std::string(fit_parameter_name(p));
   return out;
 }
 
@@ -209,10 +217,18 @@ ConfiguredCar fitted_car(const ConfiguredCar& car, const std::vector<FitParamete
           if (params[i] != FitParameter::grip_lat) k.tyres.mu_long *= f;
         });
         break;
-      case FitParameter::power: c = scaled(c, Knob::power, f); break;
-      case FitParameter::cda: c = scaled(c, Knob::cda, f); break;
-      case FitParameter::cla: c = scaled(c, Knob::cla, f); break;
-      case FitParameter::mass: c = scaled(c, Knob::mass, f); break;
+      case FitParameter::power:
+        c = scaled(c, Knob::power, f);
+        break;
+      case FitParameter::cda:
+        c = scaled(c, Knob::cda, f);
+        break;
+      case FitParameter::cla:
+        c = scaled(c, Knob::cla, f);
+        break;
+      case FitParameter::mass:
+        c = scaled(c, Knob::mass, f);
+        break;
       case FitParameter::balance:
         c = c.changed([&](Car&, AeroConfig& a) {
           for (double& b : a.balance) b += f;
@@ -271,18 +287,13 @@ FitResult fit(const ConfiguredCar& car, const std::vector<FitLog>& logs,
   FitResult out;
   out.params = params;
   const std::size_t np = params.size();
-  // Each log aligned with the starting car; residual points every residual_spacing_m.
-  std::vector<LogPoints> points;
-  {
-    LapSolver solver;
-    const std::vector<double> x0(np, 1.0);
-    for (const FitLog& l : logs) {
-      const Circuit& c = *l.circuit;
-      const Lap& lap = run_lap(car, c, solver).lap;  // checked car: the one the user gave
-      const Alignment a = align_log(*l.log, c.mesh, lap.speed_mps);
-      out.alignments.push_back(a);
-      const LogOnMesh on = log_on_mesh(*l.log, c.mesh, a);
-      LogPoints p{&l, {}, {}};
+  // Residual points every residual_spacing_m under the logs' alignments.
+  auto points_at = [&](const std::vector<Alignment>& al) {
+    std::vector<LogPoints> points;
+    for (std::size_t k = 0; k < logs.size(); ++k) {
+      const Circuit& c = *logs[k].circuit;
+      const LogOnMesh on = log_on_mesh(*logs[k].log, c.mesh, al[k]);
+      LogPoints p{&logs[k], {}, {}};
       const std::size_t every = std::max<std::size_t>(
           1, static_cast<std::size_t>(std::lround(options.residual_spacing_m / c.mesh.step_m)));
       for (std::size_t i = 0; i < c.mesh.size(); i += every)
@@ -292,51 +303,92 @@ FitResult fit(const ConfiguredCar& car, const std::vector<FitLog>& logs,
         }
       points.push_back(std::move(p));
     }
-  }
-  std::vector<std::size_t> first{0};
-  for (const auto& p : points) first.push_back(first.back() + p.at.size());
-  Residuals all(car, params, std::move(points), options.step, options.threads);
-  const std::size_t n = all.count();
-  if (n <= np)
-    throw InvalidInput("fit", broken_rule("log", "the logs give " + std::to_string(n) +
-                                                     " points for " + std::to_string(np) +
-                                                     " parameters"));
-
+    return points;
+  };
+  // Each log aligned with a car: the alignment by cross-correlation leans towards the car's own
+  // braking points, so it is found again with the fitted car (below).
+  // The first search is over every offset; the next rounds refine the last round's.
+  auto aligned = [&](const ConfiguredCar& c, const std::vector<Alignment>* near) {
+    std::vector<Alignment> al;
+    LapSolver solver;
+    for (std::size_t k = 0; k < logs.size(); ++k) {
+      const Circuit& circuit = *logs[k].circuit;
+      const Envelope env =
+          near ? Envelope(Envelope::Unchecked{}, c, circuit.air) : Envelope(c, circuit.air);
+      const Lap& lap = solve_speed_only(env, circuit, solver);
+      al.push_back(near ? refine_alignment(*logs[k].log, circuit.mesh, lap.speed_mps, (*near)[k])
+                        : align_log(*logs[k].log, circuit.mesh, lap.speed_mps));
+    }
+    return al;
+  };
   std::vector<double> x(np);
   for (std::size_t j = 0; j < np; ++j) x[j] = start_value(params[j]);
-  std::vector<double> r0(n);
-  if (!all.residuals(x, r0.data()))
-    throw InvalidInput("fit", broken_rule("", "the starting car cannot lap a track"));
-  for (std::size_t l = 0; l + 1 < first.size(); ++l)
-    out.rms_before_mps.push_back(rms_kph(r0, first[l], first[l + 1]) * units::kph);
-  out.rms_before_mps_all = rms_kph(r0, 0, n) * units::kph;
-
-  ceres::Problem::Options po;
-  po.cost_function_ownership = ceres::TAKE_OWNERSHIP;
-  po.loss_function_ownership = ceres::TAKE_OWNERSHIP;
-  ceres::Problem problem(po);
-  for (std::size_t k = 0; k < n; ++k)
-    problem.AddResidualBlock(new PointCost(all, k, static_cast<int>(np)),
-                             new ceres::HuberLoss(options.huber_kph), x.data());
-  ceres::Solver::Options so;
-  so.linear_solver_type = ceres::DENSE_QR;
-  so.minimizer_type = ceres::TRUST_REGION;
-  so.trust_region_strategy_type = ceres::LEVENBERG_MARQUARDT;
-  so.max_num_iterations = options.max_iterations;
-  so.num_threads = 1;  // the residual cache is not shared between threads; laps run in parallel
-  so.logging_type = ceres::SILENT;
-  so.minimizer_progress_to_stdout = false;
-  // A factor to 1e-5 is far below what the logs resolve (standard errors of 0.1 % and more).
-  so.parameter_tolerance = 1e-5;
-  so.function_tolerance = 1e-7;
+  std::vector<Alignment> al = aligned(car, nullptr);  // checked: the car the user gave
+  std::unique_ptr<Residuals> all;
+  std::unique_ptr<ceres::Problem> problem;
   ceres::Solver::Summary summary;
-  ceres::Solve(so, &problem, &summary);
-  out.iterations = static_cast<int>(summary.iterations.size());
-  out.termination = summary.message;
+  std::vector<std::size_t> first;
+  std::size_t n = 0;
+  // Fit and alignment in turn (block coordinate descent): at most fit_alignment_rounds, until
+  // the alignment moves less than 0.05 m and 1e-4 of scale.
+  for (int round = 0; round < fit_alignment_rounds; ++round) {
+    std::vector<LogPoints> points = points_at(al);
+    first.assign(1, 0);
+    for (const auto& p : points) first.push_back(first.back() + p.at.size());
+    all =
+        std::make_unique<Residuals>(car, params, std::move(points), options.step, options.threads);
+    n = all->count();
+    if (n <= np)
+      throw InvalidInput("fit",
+                         broken_rule("log", "the logs give " + std::to_string(n) + " points for " +
+                                                std::to_string(np) + " parameters"));
+    if (round == 0) {
+      out.alignments = al;
+      std::vector<double> r0(n);
+      if (!all->residuals(x, r0.data()))
+        throw InvalidInput("fit", broken_rule("", "the starting car cannot lap a track"));
+      for (std::size_t l = 0; l + 1 < first.size(); ++l)
+        out.rms_before_mps.push_back(rms_kph(r0, first[l], first[l + 1]) * units::kph);
+      out.rms_before_mps_all = rms_kph(r0, 0, n) * units::kph;
+    }
+    ceres::Problem::Options po;
+    po.cost_function_ownership = ceres::TAKE_OWNERSHIP;
+    po.loss_function_ownership = ceres::TAKE_OWNERSHIP;
+    problem = std::make_unique<ceres::Problem>(po);
+    for (std::size_t k = 0; k < n; ++k)
+      problem->AddResidualBlock(new PointCost(*all, k, static_cast<int>(np)),
+                                new ceres::HuberLoss(options.huber_kph), x.data());
+    ceres::Solver::Options so;
+    so.linear_solver_type = ceres::DENSE_QR;
+    so.minimizer_type = ceres::TRUST_REGION;
+    so.trust_region_strategy_type = ceres::LEVENBERG_MARQUARDT;
+    so.max_num_iterations = options.max_iterations;
+    so.num_threads = 1;  // the residual cache is not shared between threads; laps run in parallel
+    so.logging_type = ceres::SILENT;
+    so.minimizer_progress_to_stdout = false;
+    // A factor to 1e-4 is below what the logs resolve (standard errors of 0.03 % and more in
+    // the tests' fits, README, "Correlating with your data").
+    so.parameter_tolerance = 1e-4;
+    so.function_tolerance = 1e-6;
+    ceres::Solve(so, problem.get(), &summary);
+    out.iterations += static_cast<int>(summary.iterations.size());
+    out.laps_solved += all->laps();
+    out.termination = summary.message;
+    const std::vector<Alignment> next = aligned(fitted_car(car, params, x), &al);
+    bool moved = false;
+    for (std::size_t k = 0; k < al.size(); ++k)
+      moved = moved || std::abs(next[k].offset_m - al[k].offset_m) > 0.05 ||
+              std::abs(next[k].scale - al[k].scale) > 1e-4;
+    out.rounds = round + 1;
+    if (!moved) break;
+    if (round + 1 < fit_alignment_rounds) al = next;
+  }
+  out.final_alignments = al;
   out.values = x;
 
   std::vector<double> r1(n);
-  if (!all.residuals(x, r1.data()))
+  out.laps_solved += static_cast<int>(logs.size()) * (out.rounds + 1);  // the alignments' laps
+  if (!all->residuals(x, r1.data()))
     throw InvalidInput("fit", broken_rule("", "the fitted car cannot lap a track"));
   for (std::size_t l = 0; l + 1 < first.size(); ++l)
     out.rms_after_mps.push_back(rms_kph(r1, first[l], first[l + 1]) * units::kph);
@@ -354,7 +406,7 @@ FitResult fit(const ConfiguredCar& car, const std::vector<FitLog>& logs,
   ceres::Covariance cov(co);
   const std::vector<std::pair<const double*, const double*>> blocks{{x.data(), x.data()}};
   std::vector<double> c(np * np);
-  if (cov.Compute(blocks, &problem) && cov.GetCovarianceBlock(x.data(), x.data(), c.data())) {
+  if (cov.Compute(blocks, problem.get()) && cov.GetCovarianceBlock(x.data(), x.data(), c.data())) {
     const double s2 = 2.0 * summary.final_cost / static_cast<double>(n - np);
     bool finite = true;
     for (double& v : c) {
@@ -363,7 +415,8 @@ FitResult fit(const ConfiguredCar& car, const std::vector<FitLog>& logs,
     }
     if (finite) {
       out.covariance_found = true;
-      for (std::size_t i = 0; i < np; ++i) out.std_errors[i] = std::sqrt(std::max(0.0, c[i * np + i]));
+      for (std::size_t i = 0; i < np; ++i)
+        out.std_errors[i] = std::sqrt(std::max(0.0, c[i * np + i]));
       for (std::size_t i = 0; i < np; ++i)
         for (std::size_t j = 0; j < np; ++j) {
           const double d = std::sqrt(c[i * np + i] * c[j * np + j]);
@@ -377,7 +430,6 @@ FitResult fit(const ConfiguredCar& car, const std::vector<FitLog>& logs,
       if (!out.covariance_found || std::abs(rho) > options.separable_limit)
         out.inseparable.push_back({i, j, rho, separation_advice(params[i], params[j])});
     }
-  out.laps_solved = all.laps();
   return out;
 }
 
@@ -387,7 +439,9 @@ std::vector<CarValueEdit> fitted_edits(const Car& car, std::size_t config, const
   const std::string cfg = "aero.configs." + a.name + ".";
   auto area = [&](const char* key, const char* part_key, double f) {
     switch (a.form) {
-      case AeroConfig::Form::constant: out.push_back({cfg + key, f, 0.0}); break;
+      case AeroConfig::Form::constant:
+        out.push_back({cfg + key, f, 0.0});
+        break;
       case AeroConfig::Form::speed_table:
         out.push_back({cfg + "speed_table." + key, f, 0.0});
         break;
@@ -404,16 +458,26 @@ std::vector<CarValueEdit> fitted_edits(const Car& car, std::size_t config, const
   for (std::size_t i = 0; i < r.params.size(); ++i) {
     const double v = r.values[i];
     switch (r.params[i]) {
-      case FitParameter::grip: mu_lat *= v, mu_long *= v; break;
-      case FitParameter::grip_lat: mu_lat *= v; break;
-      case FitParameter::grip_long: mu_long *= v; break;
-      case FitParameter::power:
-        out.push_back({car.powertrain.ideal ? "powertrain.constant_power"
-                                            : "powertrain.torque_curve.torque",
-                       v, 0.0});
+      case FitParameter::grip:
+        mu_lat *= v, mu_long *= v;
         break;
-      case FitParameter::cda: area("cda", "drag", v); break;
-      case FitParameter::cla: area("cla", "downforce", v); break;
+      case FitParameter::grip_lat:
+        mu_lat *= v;
+        break;
+      case FitParameter::grip_long:
+        mu_long *= v;
+        break;
+      case FitParameter::power:
+        out.push_back(
+            {car.powertrain.ideal ? "powertrain.constant_power" : "powertrain.torque_curve.torque",
+             v, 0.0});
+        break;
+      case FitParameter::cda:
+        area("cda", "drag", v);
+        break;
+      case FitParameter::cla:
+        area("cla", "downforce", v);
+        break;
       case FitParameter::mass:
         out.push_back({"mass", v, 0.0});
         if (a.mass_kg) out.push_back({cfg + "mass", v, 0.0});
@@ -424,10 +488,11 @@ std::vector<CarValueEdit> fitted_edits(const Car& car, std::size_t config, const
                                                             "' comes from its parts' positions: "
                                                             "a fitted shift cannot be written "
                                                             "into its file"));
-        out.push_back({cfg + (a.form == AeroConfig::Form::constant      ? "balance"
-                              : a.form == AeroConfig::Form::speed_table ? "speed_table.balance"
-                                                                        : "ride_height_map.balance"),
-                       1.0, v});
+        out.push_back(
+            {cfg + (a.form == AeroConfig::Form::constant      ? "balance"
+                    : a.form == AeroConfig::Form::speed_table ? "speed_table.balance"
+                                                              : "ride_height_map.balance"),
+             1.0, v});
         break;
     }
   }

@@ -34,13 +34,19 @@ inline constexpr double correlate_max_speed_ratio = 1.45;
 
 /// The alignment that maximises the correlation of the log's speed with `speed_mps` (the
 /// simulated speed at each mesh point): a search over every offset (the whole lap for a closed
-/// track, half the track either way for an open one) on a 2 m grid at scale 1, then offset and
-/// scale refined on finer grids around the best (0.5 m and 0.2 %, then 0.05 m and 0.02 %).
+/// track, half the track either way for an open one) on a 2 m grid at scales 0.4 % apart, then
+/// offset and scale refined on finer grids around the best (0.5 m and 0.05 %, then 0.05 m and
+/// 0.01 %).
 /// InvalidInput (subject: the log's source) when the log is read in a wrong unit (its median
 /// speed more than correlate_max_speed_ratio from the simulated lap's: "speed_mps[i]" at the
 /// fastest row) or, aligned, covers less than correlate_min_coverage of the track
 /// ("distance_m[last]").
 Alignment align_log(const LoggedSpeed& log, const Mesh& mesh, const std::vector<double>& speed_mps);
+
+/// align_log's refinement alone, around `start` (offsets within 4.6 m, scales within 0.46 %),
+/// with align_log's checks: for a car whose speed trace has moved little (a fit's next round).
+Alignment refine_alignment(const LoggedSpeed& log, const Mesh& mesh,
+                           const std::vector<double>& speed_mps, const Alignment& start);
 
 /// The log's speed at each mesh point under an alignment (a closed lap's log wraps round the
 /// line), and whether the log covers the point.
@@ -58,9 +64,9 @@ struct SectorError {
 
 /// A corner's speeds, simulated and logged (the logged speed smoothed over 5 m, so that the
 /// noise of one sample does not set an apex), and its braking points: where the speed (both
-/// traces smoothed over 5 m alike) peaks between the previous corner's apex and this one's, when it falls at least
-/// braking_min_drop_mps from there to the apex (none otherwise: the corner is taken without
-/// braking).
+/// traces smoothed over 5 m alike) peaks between the previous corner's apex and this one's, when it
+/// falls at least braking_min_drop_mps from there to the apex (none otherwise: the corner is taken
+/// without braking).
 struct CornerError {
   int id;
   double apex_m;
@@ -88,10 +94,10 @@ inline constexpr double correlate_peak_separation_m = 100.0;
 
 struct Correlation {
   Alignment alignment;
-  double coverage = 0.0;       // share of the mesh's points the log covers
+  double coverage = 0.0;        // share of the mesh's points the log covers
   double lap_time_sim_s = 0.0;  // over the intervals the log covers (the whole lap when it does)
   double lap_time_log_s = 0.0;
-  double rms_speed_error_mps = 0.0;  // over the covered points
+  double rms_speed_error_mps = 0.0;   // over the covered points
   std::vector<double> log_speed_mps;  // per mesh point (0 where not covered)
   std::vector<std::uint8_t> covered;
   std::vector<double> time_delta_s;  // running t_sim - t_log from the first covered point

@@ -60,14 +60,19 @@ struct FitOptions {
   std::optional<Violation> validate() const;
 };
 
+/// Rounds of fit then alignment at most (the alignment found again with the fitted car).
+inline constexpr int fit_alignment_rounds = 3;
+
 struct FitResult {
   std::vector<FitParameter> params;
   std::vector<double> values;      // factors (balance: the shift added)
   std::vector<double> std_errors;  // from the covariance at the optimum; NaN when not found
   std::vector<std::vector<double>> correlation;  // params x params; NaN when not found
-  bool covariance_found = false;   // false: the Jacobian is rank-deficient (not separable)
-  std::vector<Alignment> alignments;  // per log, from the starting car
-  std::vector<double> rms_before_mps, rms_after_mps;  // per log
+  bool covariance_found = false;            // false: the Jacobian is rank-deficient (not separable)
+  std::vector<Alignment> alignments;        // per log, with the starting car
+  std::vector<Alignment> final_alignments;  // per log, the last round's (RMS after uses them)
+  int rounds = 0;                           // of fit, then alignment
+  std::vector<double> rms_before_mps, rms_after_mps;         // per log
   double rms_before_mps_all = 0.0, rms_after_mps_all = 0.0;  // over every log's points
   int iterations = 0;
   int laps_solved = 0;
@@ -83,7 +88,9 @@ struct FitResult {
 };
 
 /// Fits `params` (each once, at least one) of `car` to the logs, jointly. Each log is aligned
-/// to its circuit once, with the starting car (align_log); residuals are sim - log speed in km/h
+/// to its circuit with the starting car (align_log), the parameters fitted, the logs aligned
+/// again with the fitted car, and so on until the alignment stays (fit_alignment_rounds at
+/// most); residuals are sim - log speed in km/h
 /// at points residual_spacing_m apart. Ceres' Levenberg-Marquardt with the Huber loss; the
 /// Jacobian by central differences (FitOptions::step); standard errors from Ceres' covariance
 /// of the parameters scaled by the residuals' variance s^2 = 2 cost / (N - P). InvalidInput for
