@@ -240,8 +240,8 @@ int main(int argc, char** argv) {
   add_air(correlate, corr_o.air);
   correlate->footer(
       "Example:\n  lapwing correlate --car cars/pellion-fr2.yaml --track "
-      "tracks/brannock-park-survey.yaml --log examples/logs/brannock-park-lap.csv --distance "
-      "distance_m --speed speed_kph --config medium --out out/correlate");
+      "tracks/brannock-park-survey.yaml --log logs/brannock-park-survey-lap.csv --time "
+      "time_s --speed speed_kph --config medium --out out/correlate");
 
   cli::FitOptions fit_o;
   auto* fit = app.add_subcommand(
@@ -265,7 +265,7 @@ int main(int argc, char** argv) {
   fit->footer(
       "Example:\n  lapwing fit --car cars/pellion-fr2.yaml --track "
       "tracks/brannock-park-survey.yaml "
-      "--log examples/logs/brannock-park-lap.csv --distance distance_m --speed speed_kph --config "
+      "--log logs/brannock-park-survey-lap.csv --distance distance_m --speed speed_kph --config "
       "medium --free grip,power,cda --out out/fit");
 
   cli::SweepOptions sweep_o;

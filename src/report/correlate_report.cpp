@@ -63,7 +63,11 @@ std::string correlate_text(const Circuit& circuit, const Lap& lap, const Correla
        ", " + fixed(100.0 * c.coverage, 1) + " % of the track covered\n";
   o += "lap      simulated " + fixed(c.lap_time_sim_s, 3) + " s, logged " +
        fixed(c.lap_time_log_s, 3) + " s, difference " +
-       signed_fixed(c.lap_time_sim_s - c.lap_time_log_s, 3) + " s (sim - log)\n";
+       signed_fixed(c.lap_time_sim_s - c.lap_time_log_s, 3) + " s (sim - log)" +
+       (c.covered_length_m < circuit.mesh.length_m
+            ? ", over the " + fixed(c.covered_length_m, 1) + " m the log covers"
+            : std::string()) +
+       "\n";
   o += "speed    RMS error " + fixed(units::to_kph(c.rms_speed_error_mps), 2) + " km/h\n\n";
   std::vector<std::vector<std::string>> rows;
   for (std::size_t k = 0; k < c.sectors.size(); ++k) {
@@ -91,7 +95,6 @@ std::string correlate_text(const Circuit& circuit, const Lap& lap, const Correla
     o += std::string(k ? "," : "") + " " + dkph(c.peaks[k].error_mps) + " km/h at " +
          fixed(c.peaks[k].at_m, 0) + " m (" + where(c.peaks[k]) + ")";
   o += "\n";
-  (void)circuit;
   return o;
 }
 
@@ -111,7 +114,8 @@ std::string correlate_json(const std::string& car_name, const std::string& confi
       .field("offset_m", c.alignment.offset_m)
       .field("scale", c.alignment.scale)
       .field("speed_correlation", c.alignment.correlation)
-      .field("coverage", c.coverage);
+      .field("coverage", c.coverage)
+      .field("covered_length_m", c.covered_length_m);
   w.key("sectors").begin_array();
   for (const SectorError& s : c.sectors)
     w.begin_object()

@@ -277,6 +277,7 @@ Correlation correlate(const Lap& lap, const Circuit& circuit, const LoggedSpeed&
     dt_log[i] = 2.0 * (mesh.s_m[i + 1] - mesh.s_m[i]) / vsum;
     dt_sim[i] = lap.time_s[i + 1] - lap.time_s[i];
     c.lap_time_log_s += dt_log[i];
+    c.covered_length_m += mesh.s_m[i + 1] - mesh.s_m[i];
     c.lap_time_sim_s += dt_sim[i];
   }
   for (std::size_t i = 1; i < n; ++i)

@@ -94,8 +94,9 @@ inline constexpr double correlate_peak_separation_m = 100.0;
 
 struct Correlation {
   Alignment alignment;
-  double coverage = 0.0;        // share of the mesh's points the log covers
-  double lap_time_sim_s = 0.0;  // over the intervals the log covers (the whole lap when it does)
+  double coverage = 0.0;          // share of the mesh's points the log covers
+  double covered_length_m = 0.0;  // the intervals covered at both ends (the lap times')
+  double lap_time_sim_s = 0.0;    // over the intervals the log covers (the whole lap when it does)
   double lap_time_log_s = 0.0;
   double rms_speed_error_mps = 0.0;   // over the covered points
   std::vector<double> log_speed_mps;  // per mesh point (0 where not covered)
