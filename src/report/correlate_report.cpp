@@ -7,6 +7,7 @@
 #include "lapwing/base/version.hpp"
 #include "lapwing/io/csv_writer.hpp"
 #include "lapwing/io/json.hpp"
+#include "lapwing/report/lap_files.hpp"
 #include "lapwing/report/text_table.hpp"
 
 namespace lapwing {
@@ -43,12 +44,9 @@ std::string where(const ErrorPeak& p) {
   return "before the line";
 }
 
+// A number, or null where it is not a number (a standard error not found).
 void number_or_null(JsonWriter& w, std::string_view key, double v) {
-  w.key(key);
-  if (std::isfinite(v))
-    w.value(v);
-  else
-    w.null();
+  optional_field(w, key, std::isfinite(v) ? std::optional<double>(v) : std::nullopt);
 }
 
 }  // namespace
@@ -140,16 +138,9 @@ std::string correlate_json(const std::string& car_name, const std::string& confi
         .field("entry_error_kph", units::to_kph(e.sim_entry_mps - e.log_entry_mps))
         .field("apex_error_kph", units::to_kph(e.sim_apex_mps - e.log_apex_mps))
         .field("exit_error_kph", units::to_kph(e.sim_exit_mps - e.log_exit_mps));
-    auto opt = [&](std::string_view key, const std::optional<double>& v) {
-      w.key(key);
-      if (v)
-        w.value(*v);
-      else
-        w.null();
-    };
-    opt("sim_braking_m", e.sim_braking_m);
-    opt("log_braking_m", e.log_braking_m);
-    opt("braking_error_m", e.braking_error_m());
+    optional_field(w, "sim_braking_m", e.sim_braking_m);
+    optional_field(w, "log_braking_m", e.log_braking_m);
+    optional_field(w, "braking_error_m", e.braking_error_m());
     w.end_object();
   }
   w.end_array();
@@ -243,11 +234,7 @@ std::string fit_json(const std::string& car_name, const std::string& config,
   w.key("correlation").begin_array();
   for (const auto& row : r.correlation) {
     w.begin_array();
-    for (double v : row)
-      if (std::isfinite(v))
-        w.value(v);
-      else
-        w.null();
+    for (double v : row) std::isfinite(v) ? w.value(v) : w.null();
     w.end_array();
   }
   w.end_array();
