@@ -21,8 +21,8 @@ using lapwing::test::near;
 
 namespace {
 
-// Bundled circuits on a 2 m mesh (the bundled 0.5 m, or 1 m): a fit's hundred-odd laps stay
-// fast. Both the log's car and the fitted one are lapped on it, so the mesh changes nothing the
+// Bundled circuits on a coarser mesh than their 0.5 m (2 m; the survey 1 m): a fit's hundred-odd
+// laps stay fast. Both the log's car and the fitted one are lapped on it, so the mesh changes nothing the
 // test compares.
 Circuit circuit(const char* file, double mesh_m) {
   Track t = load_track(test::source_path(file));
@@ -187,4 +187,26 @@ TEST_CASE("a fitted car file keeps its layout and units, with the new values in 
   // The balance of a config given by forces cannot be written.
   CHECK_THROWS_AS(fitted_edits(car, static_cast<std::size_t>(car.config_index("high_tunnel")), r),
                   InvalidInput);
+}
+
+TEST_CASE("grip and downforce from one slow circuit are flagged as not separable; a fast one helps") {
+  const Circuit slow = circuit("tracks/brannock-park-survey.yaml", 1.0);
+  const Circuit fast = circuit("tracks/saltmere-flats.yaml", 2.0);
+  const ConfiguredCar truth = true_car(1.03, 1.0, 1.0);
+  const SpeedLogFile ls = written_log(truth, slow, "fit_sep_slow.csv");
+  const std::vector<FitParameter> grip_cla{FitParameter::grip, FitParameter::cla};
+  const FitResult one = fit(medium(), {{&slow, &ls.speed}}, grip_cla);
+  // In slow corners downforce is small against weight: more mu or more ClA raise the same
+  // speeds (common practice: the classic confound of a slow-circuit correlation).
+  REQUIRE(one.covariance_found);
+  MESSAGE("grip-cla correlation, slow circuit: " << one.correlation[0][1]);
+  CHECK(std::abs(one.correlation[0][1]) > 0.9);
+  REQUIRE(one.inseparable.size() == 1);
+  CHECK(one.inseparable[0].advice.find("fast corners") != std::string::npos);
+  // With a fast circuit's log too, downforce's speed-squared growth tells them apart better.
+  const SpeedLogFile lf = written_log(truth, fast, "fit_sep_fast.csv");
+  const FitResult both = fit(medium(), {{&slow, &ls.speed}, {&fast, &lf.speed}}, grip_cla);
+  MESSAGE("grip-cla correlation, slow and fast circuits: " << both.correlation[0][1]);
+  CHECK(std::abs(both.correlation[0][1]) < std::abs(one.correlation[0][1]));
+  CHECK(near(both.values[0], 1.03, 0.01));
 }
