@@ -261,6 +261,13 @@ SpeedLogFile read_speed_log(const SpeedLogOptions& o) {
                          "the car does not move between this row and the one before (speed 0 "
                          "at both): a log's distance must increase");
   }
+  // No lap is longer than a track may be (200 km; a time column in ms read as s, or an
+  // overflow, is not a lap).
+  const double span = log.distance_m.back() - log.distance_m.front();
+  if (!(span <= PathProfile::max_length_m))
+    throw InputError(o.log, Mark{t.lines.back(), 1},
+                     "the log covers more than 200 km, which no track does: is the time or "
+                     "distance column in another unit?");
   return f;
 }
 

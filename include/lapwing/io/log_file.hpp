@@ -76,7 +76,8 @@ struct SpeedLogFile {
 /// Reads a log's speed against distance (given, or integrated from time). InputError at the
 /// place: a missing column (naming those there are), fewer than 10 rows, a distance or time
 /// that does not increase strictly, a speed below 0 or beyond 900 km/h in the unit given (with
-/// the unit option that would make it plausible), a car that does not move between two rows.
+/// the unit option that would make it plausible), a car that does not move between two rows, a
+/// log longer than 200 km (a track's most).
 SpeedLogFile read_speed_log(const SpeedLogOptions& o);
 
 }  // namespace lapwing
