@@ -1008,7 +1008,7 @@ int correlate(const CorrelateOptions& o, Inputs& in) {
   out +=
       "track   " + t.track.name + " (" + t.track.file + "), " + fixed(t.mesh.length_m, 1) + " m\n";
   out += "log     " + o.log + ", " + std::to_string(logs.front().table.rows()) + " rows\n";
-  out += correlate_text(t, r.lap, c);
+  out += correlate_text(t, c);
   if (!o.out.empty()) {
     std::vector<OutputFile> files;
     files.push_back(

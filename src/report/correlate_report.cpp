@@ -51,8 +51,7 @@ void number_or_null(JsonWriter& w, std::string_view key, double v) {
 
 }  // namespace
 
-std::string correlate_text(const Circuit& circuit, const Lap& lap, const Correlation& c) {
-  (void)lap;
+std::string correlate_text(const Circuit& circuit, const Correlation& c) {
   std::string o;
   o += "aligned  offset " + fixed(c.alignment.offset_m, 2) +
        " m (the log's distance at the line), "

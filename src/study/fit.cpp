@@ -71,9 +71,10 @@ class Residuals {
   // Residuals at one vector into out (count_); false where a lap cannot be solved (the car
   // cannot move, a start speed it cannot hold: a step too far).
   bool residuals(const std::vector<double>& x, double* out) {
-    std::vector<std::vector<double>> xs{x};
     std::vector<std::vector<double>> rs;
-    return many(xs, rs) && (std::copy(rs[0].begin(), rs[0].end(), out), true);
+    if (!many({x}, rs)) return false;
+    std::copy(rs[0].begin(), rs[0].end(), out);
+    return true;
   }
 
  private:

@@ -14,7 +14,7 @@ namespace lapwing {
 
 /// The terminal's text of a correlation: alignment, lap times, RMS error, the sectors' time
 /// errors, the corners' speed and braking-point errors, and where the largest errors sit.
-std::string correlate_text(const Circuit& circuit, const Lap& lap, const Correlation& c);
+std::string correlate_text(const Circuit& circuit, const Correlation& c);
 /// correlate.json (README, "Correlating with your data").
 std::string correlate_json(const std::string& car_name, const std::string& config,
                            const std::string& log_file, const Circuit& circuit,
