@@ -1,4 +1,4 @@
-// correlate's and fit's files: the columns and keys README names, undefined figures as null (never
+// correlate's and fit's files: the columns and keys of README, "Correlating with your data", undefined
 // a NaN in a file), and the fit's words.
 #include <doctest/doctest.h>
 
