@@ -1,5 +1,5 @@
-// correlate's and fit's files: the columns and keys of README, "Correlating with your data", undefined
-// a NaN in a file), and the fit's words.
+// correlate's and fit's files: the keys of README, "Correlating with your data", undefined
+// figures as null (never a NaN in a file), and the fit's words.
 #include <doctest/doctest.h>
 
 #include <cmath>
