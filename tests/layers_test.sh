@@ -17,7 +17,8 @@ declare -A may=(
   [cli]="base model path io solve study store report"
 )
 # Third-party headers (by the start of their include) and the only layers that may include them.
-declare -A owner=([yaml-cpp]="io" [boost]="solve study" [CLI]="cli" [sqlite3.h]="store")
+declare -A owner=([yaml-cpp]="io" [boost]="solve study" [CLI]="cli" [sqlite3.h]="store"
+  [ceres]="study")
 fail=0
 checked=0
 for layer in "${!may[@]}"; do
@@ -82,8 +83,8 @@ if grep -rn '#include "lapwing/lapwing.hpp"' src include/lapwing/*/; then
 fi
 # Boost and yaml-cpp are PRIVATE to the libraries that use them (src/CMakeLists.txt), so that the
 # installed package asks its users for neither's headers: no public header may include them.
-if grep -rnE '^#include <(boost/|yaml-cpp/|sqlite3)' include; then
-  echo "FAIL: a public header includes Boost, yaml-cpp or SQLite (above); they are private to the library"
+if grep -rnE '^#include <(boost/|yaml-cpp/|sqlite3|ceres/)' include; then
+  echo "FAIL: a public header includes Boost, yaml-cpp, SQLite or Ceres (above); they are private to the library"
   fail=1
 fi
 [ "$checked" -gt 40 ] || { echo "FAIL: only $checked files checked"; fail=1; }

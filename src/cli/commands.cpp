@@ -3,22 +3,24 @@
 #include <unistd.h>
 
 #include <algorithm>
-#include <cmath>
 #include <atomic>
 #include <chrono>
+#include <cmath>
 #include <csignal>
 #include <filesystem>
 #include <fstream>
 #include <iostream>
-#include <thread>
 #include <sstream>
+#include <thread>
 
 #include "lapwing/base/error.hpp"
 #include "lapwing/base/format.hpp"
 #include "lapwing/base/hash.hpp"
+#include "lapwing/base/text.hpp"
 #include "lapwing/base/units.hpp"
 #include "lapwing/base/version.hpp"
 #include "lapwing/io/car_file.hpp"
+#include "lapwing/io/csv.hpp"
 #include "lapwing/io/document.hpp"
 #include "lapwing/io/json.hpp"
 #include "lapwing/io/line_track.hpp"
@@ -36,6 +38,7 @@
 #include "lapwing/report/cells.hpp"
 #include "lapwing/report/check_report.hpp"
 #include "lapwing/report/compare_report.hpp"
+#include "lapwing/report/correlate_report.hpp"
 #include "lapwing/report/html_report.hpp"
 #include "lapwing/report/lap_files.hpp"
 #include "lapwing/report/lap_text.hpp"
@@ -50,6 +53,8 @@
 #include "lapwing/study/check_summary.hpp"
 #include "lapwing/study/circuit.hpp"
 #include "lapwing/study/compare.hpp"
+#include "lapwing/study/correlate.hpp"
+#include "lapwing/study/fit.hpp"
 #include "lapwing/study/memory.hpp"
 #include "lapwing/study/min_time_line.hpp"
 #include "lapwing/study/sweep.hpp"
@@ -948,6 +953,183 @@ int track_line(const TrackLineOptions& o, Inputs& in) {
 
 int track_line(const TrackLineOptions& o) {
   return located(&track_line, o);
+}
+
+}  // namespace lapwing::cli
+
+namespace lapwing::cli {
+
+namespace {
+
+SpeedLogOptions speed_log_options(const std::string& log, const LogColumns& c) {
+  if (c.distance.empty() == c.time.empty())
+    throw UsageError{"give one of --distance COL and --time COL"};
+  SpeedLogOptions s;
+  s.log = log;
+  s.speed = c.speed;
+  s.distance = c.distance;
+  s.time = c.time;
+  s.speed_unit = c.speed_unit;
+  return s;
+}
+
+// A log's error the library found (an InvalidInput naming the log and a row) at its line.
+template <typename F>
+auto at_log_rows(const std::vector<SpeedLogFile>& logs, F&& f) {
+  try {
+    return f();
+  } catch (const InvalidInput& e) {
+    for (const SpeedLogFile& l : logs)
+      if (e.subject() == l.speed.source) throw row_error(l.table, e);
+    throw;
+  }
+}
+
+std::string model_name(const Car& car) {
+  return car.model == VehicleModel::axle ? "axle" : "point-mass";
+}
+
+int correlate(const CorrelateOptions& o, Inputs& in) {
+  const AirOverride air = parse_air(o.air);
+  Car car = in.car(o.car);
+  apply_model(o.model, car);
+  const std::size_t ci = pick_config(car, o.config);
+  std::vector<SpeedLogFile> logs;
+  logs.push_back(read_speed_log(speed_log_options(o.log, o.columns)));
+  std::vector<Circuit> circuits;
+  circuits.push_back(in.lay_out(o.track, air));
+  const Circuit& t = circuits.front();
+  const LapRun r = run_lap(car.configured(ci), t);
+  const Correlation c =
+      at_log_rows(logs, [&] { return lapwing::correlate(r.lap, t, logs.front().speed); });
+  std::string out;
+  out += "car     " + car.name + " (" + car.file + "), config " + car.configs[ci].name + ", " +
+         model_name(car) + " model\n";
+  out +=
+      "track   " + t.track.name + " (" + t.track.file + "), " + fixed(t.mesh.length_m, 1) + " m\n";
+  out += "log     " + o.log + ", " + std::to_string(logs.front().table.rows()) + " rows\n";
+  out += correlate_text(t, c);
+  if (!o.out.empty()) {
+    std::vector<OutputFile> files;
+    files.push_back(
+        {"correlate.json", correlate_json(car.name, car.configs[ci].name, o.log, t, c)});
+    files.push_back({"correlate-" + t.track.id + ".csv", correlate_csv(t.mesh, r.lap, c)});
+    ReportInput ri{&car,
+                   &circuits,
+                   nullptr,
+                   nullptr,
+                   "correlate, config " + car.configs[ci].name + ", log " + o.log,
+                   nullptr};
+    ri.correlation = &c;
+    ri.correlated_lap = &r.lap;
+    files.push_back({"report.html", html_report(ri)});
+    write_outputs(o.out, files);
+  }
+  std::cout << out;
+  return 0;
+}
+
+std::vector<FitParameter> parse_free(const std::string& list) {
+  std::vector<FitParameter> out;
+  std::vector<std::string> names;
+  for (std::string_view n :
+       {"grip", "grip_lat", "grip_long", "power", "cda", "cla", "balance", "mass"})
+    names.emplace_back(n);
+  std::size_t a = 0;
+  while (a <= list.size()) {
+    const std::size_t b = std::min(list.find(',', a), list.size());
+    std::string word = list.substr(a, b - a);
+    word.erase(0, std::min(word.find_first_not_of(' '), word.size()));
+    word.erase(word.find_last_not_of(' ') + 1);
+    const auto p = fit_parameter(word);
+    if (!p) {
+      const std::string near = closest(word, names);
+      throw UsageError{"--free: '" + word + "' is not a parameter" +
+                       (near.empty() ? "" : "; did you mean '" + near + "'?") + " (" +
+                       fit_parameter_names() + ")"};
+    }
+    if (std::find(out.begin(), out.end(), *p) != out.end())
+      throw UsageError{"--free: " + word + " is given twice"};
+    out.push_back(*p);
+    a = b + 1;
+  }
+  return out;
+}
+
+int fit(const FitOptions& o, Inputs& in) {
+  if (o.tracks.size() != o.logs.size())
+    throw UsageError{"give one --log per --track, in pairs (" + std::to_string(o.tracks.size()) +
+                     " --track, " + std::to_string(o.logs.size()) + " --log)"};
+  const std::vector<FitParameter> params = parse_free(o.free);
+  const AirOverride air = parse_air(o.air);
+  Car car = in.car(o.car);
+  apply_model(o.model, car);
+  const std::size_t ci = pick_config(car, o.config);
+  // A track may be given more than once (two logs of one circuit): each laid out once.
+  std::vector<std::string> unique_tracks;
+  std::vector<std::size_t> track_of;
+  for (const auto& t : o.tracks) {
+    auto it = std::find(unique_tracks.begin(), unique_tracks.end(), t);
+    if (it == unique_tracks.end()) it = unique_tracks.insert(unique_tracks.end(), t);
+    track_of.push_back(static_cast<std::size_t>(it - unique_tracks.begin()));
+  }
+  std::vector<SpeedLogFile> logs;
+  for (const auto& l : o.logs) logs.push_back(read_speed_log(speed_log_options(l, o.columns)));
+  const std::vector<Circuit> circuits = in.lay_out_all(unique_tracks, air);
+  std::vector<FitLog> fit_logs;
+  for (std::size_t i = 0; i < logs.size(); ++i)
+    fit_logs.push_back({&circuits[track_of[i]], &logs[i].speed});
+  lapwing::FitOptions fo;
+  fo.threads = o.threads;
+  const ConfiguredCar start = car.configured(ci);
+  const FitResult r = at_log_rows(logs, [&] { return lapwing::fit(start, fit_logs, params, fo); });
+  std::vector<std::string> track_names;
+  for (std::size_t i = 0; i < logs.size(); ++i)
+    track_names.push_back(circuits[track_of[i]].track.name);
+  std::string out;
+  out += "car     " + car.name + " (" + car.file + "), config " + car.configs[ci].name + ", " +
+         model_name(car) + " model\n";
+  for (std::size_t i = 0; i < logs.size(); ++i)
+    out += "log     " + o.logs[i] + " on " + track_names[i] + "\n";
+  out += "\n" + fit_text(r, o.logs);
+  if (!o.out.empty()) {
+    // The input car with the fitted values written in, and a header saying what was fitted to
+    // what; read back as a car file before anything is written.
+    std::string header = "# Fitted by 'lapwing fit' (lapwing " + version() + ") from " +
+                         printable(std::filesystem::path(o.car).filename().string()) + ", config " +
+                         car.configs[ci].name + ", " + model_name(car) + " model, to ";
+    for (std::size_t i = 0; i < logs.size(); ++i)
+      header += (i ? "; " : "") + printable(std::filesystem::path(o.logs[i]).filename().string()) +
+                " on " + printable(track_names[i]);
+    header += ".\n# Fitted:";
+    for (std::size_t i = 0; i < params.size(); ++i)
+      header += std::string(i ? "," : "") + " " + std::string(fit_parameter_name(params[i])) + " " +
+                fit_value_text(params[i], r.values[i]);
+    header += "; RMS speed error " + fixed(units::to_kph(r.rms_before_mps_all), 2) + " -> " +
+              fixed(units::to_kph(r.rms_after_mps_all), 2) + " km/h.\n";
+    const std::string text = header + edited_car_text(o.car, fitted_edits(car, ci, r));
+    try {
+      read_car_document(parse_document(text, "car.yaml"));
+    } catch (const InputError& e) {
+      throw UsageError{"the fitted car breaks a rule of a car file, so car.yaml is not written: " +
+                       e.message() + " (" + e.key_path() + ")"};
+    }
+    std::vector<OutputFile> files;
+    files.push_back({"fit.json", fit_json(car.name, car.configs[ci].name, o.logs, track_names, r)});
+    files.push_back({"car.yaml", text});
+    write_outputs(o.out, files);
+  }
+  std::cout << out;
+  return 0;
+}
+
+}  // namespace
+
+int correlate(const CorrelateOptions& o) {
+  return located(&correlate, o);
+}
+int fit(const FitOptions& o) {
+  return located(&fit, o);
 }
 
 }  // namespace lapwing::cli

@@ -101,6 +101,26 @@ struct TrackLineOptions {
   AirOptions air;
 };
 
+/// What correlate and fit read of each log (the column options apply to every log).
+struct LogColumns {
+  std::string distance, time, speed;
+  std::string speed_unit = "km/h";
+};
+
+struct CorrelateOptions {
+  std::string car, model, track, log, config, out;
+  LogColumns columns;
+  AirOptions air;
+};
+
+struct FitOptions {
+  std::string car, model, config, out, free;
+  std::vector<std::string> tracks, logs;  // in pairs: the i-th log is a lap of the i-th track
+  LogColumns columns;
+  unsigned threads = 0;
+  AirOptions air;
+};
+
 /// A usage error found after parsing (a bad option value): exit 2.
 struct UsageError {
   std::string message;
@@ -115,5 +135,7 @@ int sweep(const SweepOptions& o);
 int sweep_merge(const SweepMergeOptions& o);
 int sweep_export(const SweepExportOptions& o);
 int track_line(const TrackLineOptions& o);
+int correlate(const CorrelateOptions& o);
+int fit(const FitOptions& o);
 
 }  // namespace lapwing::cli

@@ -218,6 +218,56 @@ int main(int argc, char** argv) {
   line->footer(
       "Example:\n  lapwing track line --track tracks/brannock-park.yaml --out "
       "out/brannock-line.yaml --car cars/pellion-fr2.yaml");
+  // What correlate and fit read of each log.
+  auto add_log_columns = [](CLI::App* cmd, cli::LogColumns& c) {
+    cmd->add_option("--distance", c.distance, "Distance column (m)");
+    cmd->add_option("--time", c.time, "Time column (s), instead of distance");
+    cmd->add_option("--speed", c.speed, "Speed column")->required();
+    cmd->add_option("--speed-unit", c.speed_unit, "km/h (default), kph, m/s or mph");
+  };
+  cli::CorrelateOptions corr_o;
+  auto* correlate = app.add_subcommand(
+      "correlate", "Hold a simulated lap against a logged one: lap, sector and corner errors");
+  correlate->add_option("--car", corr_o.car, "Car file (YAML)")->required();
+  correlate->add_option("--track", corr_o.track, "Track file (YAML)")->required();
+  correlate->add_option("--log", corr_o.log, "Logged lap (CSV with a header)")->required();
+  add_log_columns(correlate, corr_o.columns);
+  correlate->add_option("--config", corr_o.config,
+                        "Aero config name (default: the car file's first)");
+  correlate->add_option("--model", corr_o.model, "point-mass or axle (default: the car file's)");
+  correlate->add_option("--out", corr_o.out,
+                        "Folder for correlate.json, correlate-TRACK.csv and report.html");
+  add_air(correlate, corr_o.air);
+  correlate->footer(
+      "Example:\n  lapwing correlate --car cars/pellion-fr2.yaml --track "
+      "tracks/brannock-park-survey.yaml --log logs/brannock-park-survey-lap.csv --time "
+      "time_s --speed speed_kph --config medium --out out/correlate");
+
+  cli::FitOptions fit_o;
+  auto* fit = app.add_subcommand(
+      "fit", "Fit the car's grip, power, drag, downforce, balance or mass to logged laps");
+  fit->add_option("--car", fit_o.car, "Car file (YAML)")->required();
+  fit->add_option("--track", fit_o.tracks, "Track file (YAML); one per --log, in order")
+      ->required();
+  fit->add_option("--log", fit_o.logs, "Logged lap (CSV) of the --track in the same place")
+      ->required();
+  add_log_columns(fit, fit_o.columns);
+  fit->add_option("--free", fit_o.free,
+                  "Parameters to fit, comma-separated: grip, grip_lat, grip_long, power, cda, "
+                  "cla, balance, mass")
+      ->required();
+  fit->add_option("--config", fit_o.config, "Aero config name (default: the car file's first)");
+  fit->add_option("--model", fit_o.model, "point-mass or axle (default: the car file's)");
+  fit->add_option("--threads", fit_o.threads, "Laps solved at once (default: all cores)")
+      ->check(CLI::Range(0, 256));
+  fit->add_option("--out", fit_o.out, "Folder for fit.json and car.yaml (the fitted car)");
+  add_air(fit, fit_o.air);
+  fit->footer(
+      "Example:\n  lapwing fit --car cars/pellion-fr2.yaml --track "
+      "tracks/brannock-park-survey.yaml "
+      "--log logs/brannock-park-survey-lap.csv --distance distance_m --speed speed_kph --config "
+      "medium --free grip,power,cda --out out/fit");
+
   cli::SweepOptions sweep_o;
   // The command as typed, stored with the results, without --threads: the store's bytes do not
   // depend on the thread count (README, "Sweep").
@@ -283,6 +333,8 @@ int main(int argc, char** argv) {
     if (*trade) return cli::trade(trade_o);
     if (*from_log) return cli::track_from_log(log_o);
     if (*line) return cli::track_line(line_o);
+    if (*correlate) return cli::correlate(corr_o);
+    if (*fit) return cli::fit(fit_o);
     if (*merge) return cli::sweep_merge(merge_o);
     if (*exp) return cli::sweep_export(export_o);
     if (*sweep) return cli::sweep(sweep_o);

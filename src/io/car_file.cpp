@@ -1,5 +1,12 @@
 #include "lapwing/io/car_file.hpp"
 
+#include <algorithm>
+#include <cmath>
+#include <cstdio>
+#include <cstdlib>
+#include <fstream>
+#include <sstream>
+
 #include "lapwing/base/units.hpp"
 #include "lapwing/io/document.hpp"
 
@@ -515,6 +522,105 @@ void set_car_value(Document& doc, std::string_view key_path, const std::string& 
     node = child;
     a = dot + 1;
   }
+}
+
+namespace {
+
+// The scalar nodes at a key path ("a.b[2].c"); a list or a list of lists gives every scalar in
+// it. Nothing when the path is not in the document.
+void scalars_at(Node& root, const std::string& path, std::vector<Node*>& out) {
+  Node* node = &root;
+  std::size_t a = 0;
+  while (a <= path.size()) {
+    const std::size_t dot = std::min(path.find('.', a), path.size());
+    std::string part = path.substr(a, dot - a);
+    std::optional<std::size_t> index;
+    if (const std::size_t open = part.find('['); open != std::string::npos) {
+      index = last_index(part);
+      part = part.substr(0, open);
+    }
+    if (node->kind != Node::Kind::map) return;
+    Node* child = nullptr;
+    for (auto& [k, n] : node->entries)
+      if (k == part) child = &n;
+    if (!child) return;
+    if (index) {
+      if (child->kind != Node::Kind::sequence || *index >= child->items.size()) return;
+      child = &child->items[*index];
+    }
+    node = child;
+    a = dot + 1;
+  }
+  std::vector<Node*> stack{node};
+  while (!stack.empty()) {
+    Node* n = stack.back();
+    stack.pop_back();
+    if (n->kind == Node::Kind::scalar) out.push_back(n);
+    if (n->kind == Node::Kind::sequence)
+      for (auto it = n->items.rbegin(); it != n->items.rend(); ++it) stack.push_back(&*it);
+  }
+}
+
+}  // namespace
+
+std::string edited_car_text(const std::string& file, const std::vector<CarValueEdit>& edits) {
+  std::ifstream in(file, std::ios::binary);
+  std::ostringstream ss;
+  ss << in.rdbuf();
+  const std::string text = ss.str();
+  Document doc = parse_document(text, file);
+  // Line starts, to place a node's (line, column).
+  std::vector<std::size_t> line_at{0};
+  for (std::size_t i = 0; i < text.size(); ++i)
+    if (text[i] == '\n') line_at.push_back(i + 1);
+  struct Replace {
+    std::size_t at, length;
+    std::string with;
+  };
+  std::vector<Replace> replaces;
+  for (const CarValueEdit& e : edits) {
+    std::vector<Node*> nodes;
+    scalars_at(doc.root, e.key_path, nodes);
+    const std::string torque = "powertrain.torque_curve.torque";
+    if (nodes.empty() && e.key_path == torque)
+      scalars_at(doc.root, "powertrain.power_curve.power", nodes);
+    if (nodes.empty())
+      throw InputError(file, Mark{},
+                       "the file holds no value at this key path to write a fitted "
+                       "value into (a config made by a wing family is fitted as one of its "
+                       "measured configs)",
+                       e.key_path);
+    for (Node* n : nodes) {
+      const std::size_t line = static_cast<std::size_t>(n->mark.line);
+      if (line < 1 || line > line_at.size())
+        throw InputError(file, n->mark, "no place", e.key_path);
+      std::size_t at = line_at[line - 1] + static_cast<std::size_t>(n->mark.col - 1);
+      if (at < text.size() && (text[at] == '"' || text[at] == '\'')) ++at;
+      if (text.compare(at, n->scalar.size(), n->scalar) != 0)
+        throw InputError(file, n->mark, "cannot place the value to write here", e.key_path);
+      // The number, then its unit as written ("1.05 m2", "43 %").
+      const char* begin = n->scalar.c_str();
+      char* end = nullptr;
+      const double v = std::strtod(begin, &end);
+      if (end == begin || !std::isfinite(v))
+        throw InputError(file, n->mark, "'" + n->scalar + "' is not a number to scale", e.key_path);
+      const std::string unit = n->scalar.substr(static_cast<std::size_t>(end - begin));
+      const bool percent = unit.find('%') != std::string::npos;
+      const double nv = v * e.scale + (percent ? 100.0 : 1.0) * e.add;
+      char buf[40];
+      std::snprintf(buf, sizeof buf, "%.6g", nv);
+      replaces.push_back({at, n->scalar.size(), buf + unit});
+    }
+  }
+  // From the end, so that earlier places stay where they are.
+  std::sort(replaces.begin(), replaces.end(),
+            [](const Replace& x, const Replace& y) { return x.at > y.at; });
+  std::string out = text;
+  for (std::size_t i = 0; i < replaces.size(); ++i) {
+    if (i && replaces[i].at == replaces[i - 1].at) continue;  // one value edited twice: once
+    out.replace(replaces[i].at, replaces[i].length, replaces[i].with);
+  }
+  return out;
 }
 
 }  // namespace lapwing

@@ -14,6 +14,7 @@
 #include "lapwing/io/line_track.hpp"
 #include "lapwing/model/track.hpp"
 #include "lapwing/path/log_curvature.hpp"
+#include "lapwing/path/logged_speed.hpp"
 
 namespace lapwing {
 
@@ -210,6 +211,64 @@ LogTrack track_from_log(const LogOptions& o, const std::string& csv_name) {
   out.yaml = y_out.str();
   out.csv = csv.take();
   return out;
+}
+
+std::optional<Violation> SpeedLogOptions::validate() const {
+  return FirstViolation()
+      .rule(!speed.empty(), "speed", "give the speed column")
+      .rule(distance.empty() != time.empty(), "distance",
+            "give one of the distance and time columns")
+      .rule(speed_scale(speed_unit).has_value(), "speed_unit",
+            [&] { return "unknown speed unit '" + speed_unit + "' (km/h, kph, m/s or mph)"; })
+      .result();
+}
+
+SpeedLogFile read_speed_log(const SpeedLogOptions& o) {
+  if (const auto v = o.validate()) throw InputError(o.log, Mark{}, v->message());
+  SpeedLogFile f;
+  f.table = read_csv(o.log, log_min_samples);
+  const CsvTable& t = f.table;
+  LoggedSpeed& log = f.speed;
+  log.source = o.log;
+  const double vs = *speed_scale(o.speed_unit);
+  const auto& vcol = t.column(o.speed);
+  log.speed_mps.resize(vcol.size());
+  for (std::size_t i = 0; i < vcol.size(); ++i) {
+    log.speed_mps[i] = vcol[i] * vs;
+    // A speed in km/h read as m/s is 3.6 times too large: beyond what any car logs it is a unit
+    // read wrong (the log's curvature has the same limit, log_max_row_speed_mps).
+    if (!(log.speed_mps[i] >= 0.0) || !(log.speed_mps[i] <= log_max_row_speed_mps)) {
+      char buf[64];
+      std::snprintf(buf, sizeof buf, "%.6g", vcol[i]);
+      throw InputError(
+          o.log, Mark{t.lines[i], 1},
+          std::string("speed ") + buf + " " + o.speed_unit +
+              (log.speed_mps[i] < 0.0 ? " is negative: a logged speed is at least 0"
+                                      : " is beyond 900 km/h, which no car logs: is the speed in "
+                                        "another unit? (--speed-unit " +
+                                            o.speed_unit + " now)"));
+    }
+  }
+  if (!o.distance.empty()) {
+    require_increasing(t, o.distance);
+    log.distance_m = t.column(o.distance);
+  } else {
+    require_increasing(t, o.time);
+    log.distance_m = distance_from_time(t.column(o.time), log.speed_mps);
+    for (std::size_t i = 1; i < log.distance_m.size(); ++i)
+      if (!(log.distance_m[i] > log.distance_m[i - 1]))
+        throw InputError(o.log, Mark{t.lines[i], 1},
+                         "the car does not move between this row and the one before (speed 0 "
+                         "at both): a log's distance must increase");
+  }
+  // No lap is longer than a track may be (200 km; a time column in ms read as s, or an
+  // overflow, is not a lap).
+  const double span = log.distance_m.back() - log.distance_m.front();
+  if (!(span <= PathProfile::max_length_m))
+    throw InputError(o.log, Mark{t.lines.back(), 1},
+                     "the log covers more than 200 km, which no track does: is the time or "
+                     "distance column in another unit?");
+  return f;
 }
 
 }  // namespace lapwing

@@ -11,6 +11,7 @@
 #include "lapwing/base/units.hpp"
 #include "lapwing/model/track.hpp"
 #include "lapwing/path/curvature_profile.hpp"
+#include "lapwing/path/logged_speed.hpp"
 #include "lapwing/path/smoothing.hpp"
 
 namespace lapwing {
@@ -61,8 +62,7 @@ LogCurvature log_curvature(const LogChannels& log, const LogCurvatureOptions& o)
   if (by_distance) {
     for (std::size_t i = 0; i < s.size(); ++i) s[i] = along[i] - along[0];
   } else {
-    for (std::size_t i = 1; i < s.size(); ++i)
-      s[i] = s[i - 1] + 0.5 * (v[i] + v[i - 1]) * (along[i] - along[i - 1]);
+    s = distance_from_time(along, v);
     for (std::size_t i = 1; i < s.size(); ++i) {
       if (!std::isfinite(s[i])) break;  // beyond any length: refused below
       if (!(s[i] > s[i - 1]))

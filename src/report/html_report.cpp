@@ -294,6 +294,69 @@ std::string delta_plot(const TrackView& v) {
   return p.render();
 }
 
+// correlate: the simulated and the logged speed overlaid, and the running time difference, over
+// the points the log covers (decimated as the other traces).
+std::string correlation_section(const Circuit& c, const Lap& lap, const Correlation& k) {
+  const Mesh& mesh = c.mesh;
+  Series sim{"simulated", {}, {}, 0, false, 1.6}, log{"logged", {}, {}, 1, false, 1.2};
+  Series delta{"sim - log", {}, {}, 0, false, 1.6};
+  for (std::size_t i : picks(mesh.size(), trace_points)) {
+    if (!k.covered[i]) continue;
+    sim.x.push_back(mesh.s_m[i]);
+    sim.y.push_back(units::to_kph(lap.speed_mps[i]));
+    log.x.push_back(mesh.s_m[i]);
+    log.y.push_back(units::to_kph(k.log_speed_mps[i]));
+    delta.x.push_back(mesh.s_m[i]);
+    delta.y.push_back(k.time_delta_s[i]);
+  }
+  Plot speed("correlate-speed", "Speed, simulated and logged: " + shorten_middle(c.track.name, 60),
+             "distance (m)", "speed (km/h)", trace_width, 320);
+  speed.add(std::move(sim));
+  speed.add(std::move(log));
+  Plot dt("correlate-delta", "Time difference, simulated - logged", "distance (m)",
+          "cumulative delta (s)", trace_width, 300);
+  dt.add(std::move(delta));
+  for (const CornerSpan& span : c.corners) {
+    speed.marker(mesh.s_m[span.start], std::to_string(span.id));
+    dt.marker(mesh.s_m[span.start], std::to_string(span.id));
+  }
+  std::string o = "<section id=\"correlation\"><h2>Against the log</h2>\n";
+  o +=
+      table(escaped({"", "value"}),
+            {{"alignment", escape("offset " + fixed(k.alignment.offset_m, 2) + " m, scale " +
+                                  fixed(k.alignment.scale, 4) + ", speed correlation " +
+                                  fixed(k.alignment.correlation, 4))},
+             {"lap time", escape("simulated " + fixed(k.lap_time_sim_s, 3) + " s, logged " +
+                                 fixed(k.lap_time_log_s, 3) + " s, difference " +
+                                 signed_fixed(k.lap_time_sim_s - k.lap_time_log_s, 3) + " s")},
+             {"RMS speed error", escape(fixed(units::to_kph(k.rms_speed_error_mps), 2) + " km/h")}},
+            "", {1});
+  o += figure(speed.render(), "Numbered lines mark where the corners begin.");
+  o += figure(dt.render(),
+              "Rising: the simulated car is slower there than the logged one; "
+              "falling: faster.");
+  std::vector<std::vector<std::string>> rows;
+  for (std::size_t i = 0; i < k.sectors.size(); ++i)
+    rows.push_back({std::to_string(i + 1), fixed(k.sectors[i].sim_s, 3),
+                    fixed(k.sectors[i].log_s, 3), signed_fixed(k.sectors[i].error_s, 3)});
+  o += "<h3>Sectors</h3>" + table(escaped({"sector", "sim s", "log s", "error s"}), rows);
+  rows.clear();
+  auto d = [](double mps) { return signed_fixed(units::to_kph(mps), 1); };
+  for (const CornerError& e : k.corners) {
+    const auto b = e.braking_error_m();
+    rows.push_back({std::to_string(e.id), fixed(e.apex_m, 0), d(e.sim_entry_mps - e.log_entry_mps),
+                    d(e.sim_apex_mps - e.log_apex_mps), d(e.sim_exit_mps - e.log_exit_mps),
+                    b ? signed_fixed(*b, 1) : "-"});
+  }
+  o += "<h3>Corners</h3>" +
+       table(escaped({"corner", "apex m", "entry error km/h", "apex error km/h", "exit error km/h",
+                      "braking point error m"}),
+             rows) +
+       "<p class=\"note\">Errors are simulated - logged; a braking point error &gt; 0: the "
+       "simulated car brakes later.</p></section>\n";
+  return o;
+}
+
 const BalanceWindowResult* window_of(const Comparison::Entry& e) {
   const auto& w = e.run.summary.balance.window;
   return w ? &*w : nullptr;
@@ -939,6 +1002,8 @@ std::string html_report(const ReportInput& in) {
     for (const auto& g : t.grids) o += trade_plot(circuits[g.track], g, t, car);
     o += "</div></section>\n";
   }
+  if (in.correlation && in.correlated_lap)
+    o += correlation_section(circuits.front(), *in.correlated_lap, *in.correlation);
   o += "</main>\n";
   if (in.comparison) o += "<script>" + std::string(traces_js) + "</script>\n";
   o += "</body>\n</html>\n";

@@ -4,13 +4,11 @@
 #include "lapwing/base/version.hpp"
 #include "lapwing/io/csv_writer.hpp"
 #include "lapwing/report/cells.hpp"
-#include "lapwing/report/track_quality_text.hpp"
 #include "lapwing/report/labels.hpp"
+#include "lapwing/report/track_quality_text.hpp"
 
 namespace lapwing {
 
-namespace {
-// A number, or null where it is undefined.
 void optional_field(JsonWriter& w, std::string_view key, const std::optional<double>& v) {
   w.key(key);
   if (v)
@@ -18,8 +16,6 @@ void optional_field(JsonWriter& w, std::string_view key, const std::optional<dou
   else
     w.null();
 }
-
-}  // namespace
 
 void write_balance(JsonWriter& w, const BalanceSummary& b) {
   w.key("balance")

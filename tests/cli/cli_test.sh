@@ -286,12 +286,12 @@ expect_error() {  # expected text, then the command; exit 2, one line on stderr
   [ "$code" -eq 2 ] && grep -qF -- "$want" "$tmp/stderr" && [ "$(wc -l < "$tmp/stderr")" -eq 1 ] &&
     ok || bad "$* -> exit $code: $(cat "$tmp/stderr")"
 }
-expect_error "lapwing: error: unknown command 'runn'; did you mean 'run'? (commands: check, run, compare, trade, track, sweep)" \
+expect_error "lapwing: error: unknown command 'runn'; did you mean 'run'? (commands: check, run, compare, trade, track, correlate, fit, sweep)" \
   runn --car cars/caldra-gt.yaml --track tracks/skidpad.yaml
 expect_error "unknown command 'track from-lgo'; did you mean 'track from-log'? (commands of track: from-log, line)" \
   track from-lgo --log x.csv
-expect_error "unknown command 'simulate' (commands: check, run, compare, trade, track, sweep)" simulate
-expect_error "lapwing: error: give a command (commands: check, run, compare, trade, track, sweep)"
+expect_error "unknown command 'simulate' (commands: check, run, compare, trade, track, correlate, fit, sweep)" simulate
+expect_error "lapwing: error: give a command (commands: check, run, compare, trade, track, correlate, fit, sweep)"
 expect_error "no config named 'hgh_downforce'; did you mean 'high_downforce'? (the car has low_drag, high_downforce)" \
   run --car cars/caldra-gt.yaml --track tracks/skidpad.yaml --config hgh_downforce
 expect_error "no config named 'high'; did you mean 'high_downforce'?" \

@@ -12,7 +12,7 @@ fail=0
 # A scratch repo: the demo script, the bundled data, the built binary, and no set-up step (the
 # binary is built already).
 mkdir -p "$tmp/repo/tools" "$tmp/repo/build"
-cp -r "$src/cars" "$src/tracks" "$tmp/repo/"
+cp -r "$src/cars" "$src/tracks" "$src/logs" "$tmp/repo/"
 cp "$src/tools/demo" "$tmp/repo/tools/demo"
 printf '#!/usr/bin/env bash\n' > "$tmp/repo/tools/setup"
 chmod +x "$tmp/repo/tools/setup"
@@ -31,7 +31,7 @@ awk -F, 'NR == 1 { for (i = 1; i <= NF; i++) c[$i] = i; print "t_s,v_kph,ay_g"; 
 mapfile -t files < <(find "$tmp/repo/out" -name '*.csv' | sort)
 # Each kind of file the demo and from-log write must be among them (else the check proves little).
 for kind in '/trace-[^/]*\.csv$' '/corners\.csv$' '/delta-[^/]*\.csv$' '/trade-grid-[^/]*\.csv$' \
-  '/from-log/lap\.csv$'; do
+  '/from-log/lap\.csv$' '/correlate-[^/]*\.csv$'; do
   printf '%s\n' "${files[@]}" | grep -qE "$kind" || { echo "FAIL: no file matching $kind"; fail=1; }
 done
 python3 "$src/tests/cli/csv_fields.py" "${files[@]}" || fail=1

@@ -3,6 +3,7 @@
 
 #include <string>
 #include <string_view>
+#include <vector>
 
 #include "lapwing/io/document.hpp"
 
@@ -35,6 +36,13 @@ std::string car_key_path(const Document& doc, std::string_view key);
 /// schema's, with "did you mean"). A path through a map or list the file does not have, or to a
 /// map or a list, is an InputError naming the key path (with the nearest key, "did you mean").
 void set_car_value(Document& doc, std::string_view key_path, const std::string& text);
+
+/// The text of car file `file` with `edits` applied in place (README, "Correlating with your
+/// data", `fit --out`): each number keeps its unit and its place, comments and layout stay; a
+/// path to a list (or a list of lists) edits every number in it. `powertrain.torque_curve.torque`
+/// edits `power_curve.power` in a file that gives power. Numbers are written to 6 significant
+/// digits. InputError for a path the file does not hold, or a value that is not a number.
+std::string edited_car_text(const std::string& file, const std::vector<CarValueEdit>& edits);
 
 /// The car alone.
 Car load_car(const std::string& file);

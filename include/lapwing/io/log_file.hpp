@@ -8,8 +8,10 @@
 
 #include "lapwing/base/range.hpp"
 #include "lapwing/base/violation.hpp"
+#include "lapwing/io/csv.hpp"
 #include "lapwing/model/air.hpp"
 #include "lapwing/model/track.hpp"
+#include "lapwing/path/logged_speed.hpp"
 
 namespace lapwing {
 
@@ -54,5 +56,28 @@ struct LogTrack {
   double peak_lateral_g;  // the largest |curvature| v^2 / g0 along the filtered log
 };
 LogTrack track_from_log(const LogOptions& o, const std::string& csv_name);
+
+/// What `correlate` and `fit` read of a log: its speed, and its distance or its time.
+struct SpeedLogOptions {
+  std::string log;                    // CSV file
+  std::string speed, distance, time;  // column names: speed, and one of distance and time
+  std::string speed_unit = "km/h";    // km/h | kph | m/s | mph
+  /// The speed column, one of distance and time, a known speed unit (key paths: member names).
+  std::optional<Violation> validate() const;
+};
+
+/// A logged speed trace and the table it was read from (whose row lines place later errors:
+/// row_error).
+struct SpeedLogFile {
+  LoggedSpeed speed;
+  CsvTable table;
+};
+
+/// Reads a log's speed against distance (given, or integrated from time). InputError at the
+/// place: a missing column (naming those there are), fewer than 10 rows, a distance or time
+/// that does not increase strictly, a speed below 0 or beyond 900 km/h in the unit given (with
+/// the unit option that would make it plausible), a car that does not move between two rows, a
+/// log longer than 200 km (a track's most).
+SpeedLogFile read_speed_log(const SpeedLogOptions& o);
 
 }  // namespace lapwing

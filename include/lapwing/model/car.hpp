@@ -125,6 +125,15 @@ class ConfiguredCar {
   Car car_;
 };
 
+/// A change to one value of a car file, named by its key path there ("tyres.mu_lat",
+/// "aero.configs.high.speed_table.cla": a path to a list, or a list of lists, changes every
+/// number in it): multiplied by `scale`, then `add` added (in the value's own unit; a share
+/// written with % gets 100 add %). What a fitted car's file is written with (io/car_file.hpp).
+struct CarValueEdit {
+  std::string key_path;
+  double scale = 1.0, add = 0.0;
+};
+
 /// Whether `name` can name a config: letters, digits, '_' and '-' (it becomes part of output
 /// file names and key paths).
 bool is_config_name(std::string_view name);

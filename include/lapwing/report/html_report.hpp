@@ -8,6 +8,7 @@
 #include "lapwing/model/car.hpp"
 #include "lapwing/study/circuit.hpp"
 #include "lapwing/study/compare.hpp"
+#include "lapwing/study/correlate.hpp"
 #include "lapwing/study/track_quality.hpp"
 #include "lapwing/study/trade.hpp"
 
@@ -20,6 +21,10 @@ struct ReportInput {
   const Trade* trade = nullptr;            // sensitivities and the trade maps
   std::string command;                     // what produced it, for the header
   const std::vector<TrackQuality>* qualities = nullptr;  // data-quality verdicts (run, compare)
+  // correlate: the simulated lap round circuits->front() against the log (speeds overlaid, the
+  // time delta, the sectors' and corners' errors).
+  const Correlation* correlation = nullptr;
+  const Lap* correlated_lap = nullptr;
 };
 
 std::string html_report(const ReportInput& in);

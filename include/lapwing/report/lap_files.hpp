@@ -2,6 +2,7 @@
 // columns are one list, for header and rows (STYLE habit 13).
 #pragma once
 
+#include <optional>
 #include <string>
 #include <vector>
 
@@ -20,6 +21,8 @@ std::string summary_json(const std::string& car_name, const std::vector<LapSumma
                          const std::vector<TrackQuality>& qualities = {});
 
 /// The "balance" object of a result in summary.json; compare.json writes the same per config.
+/// `"key": number`, or `"key": null` where the value is undefined.
+void optional_field(JsonWriter& w, std::string_view key, const std::optional<double>& v);
 void write_balance(JsonWriter& w, const BalanceSummary& b);
 /// The "window" object inside "balance": the balance window and how the lap kept to it.
 void write_balance_window(JsonWriter& w, const BalanceWindowResult& r);

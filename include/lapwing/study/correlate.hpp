@@ -1,0 +1,115 @@
+// A simulated lap held against a logged one (README, "Correlating with your data"): the log's
+// distance aligned to the track's by cross-correlating the two speed traces, then lap, sector and
+// corner errors and where the largest speed errors sit.
+#pragma once
+
+#include <cstdint>
+#include <optional>
+#include <vector>
+
+#include "lapwing/path/logged_speed.hpp"
+#include "lapwing/solve/solver.hpp"
+#include "lapwing/study/circuit.hpp"
+
+namespace lapwing {
+
+/// Where a log's rows lie on the track: a row logged at distance d is at track distance
+/// s = scale (d - offset_m). offset_m is the log's distance at the start line (7 m for a log
+/// that starts counting 7 m before it); scale corrects a distance channel that reads long or
+/// short (a wheel-speed distance off by the tyre's rolling radius, a GPS path cut or widened).
+struct Alignment {
+  double offset_m = 0.0;
+  double scale = 1.0;
+  double correlation = 0.0;  // of the speed traces at this alignment (Pearson's r, -1 .. 1)
+};
+
+/// Scales searched: a distance channel within 4 % of the track's (a tyre's rolling radius grows
+/// a few % with speed and wear; a wrong wheel circumference is of that order). Common practice.
+inline constexpr double alignment_max_scale_error = 0.04;
+/// The share of the track a log must cover (the rest is not compared).
+inline constexpr double correlate_min_coverage = 0.98;
+/// A log whose typical speed is this factor away from the simulated lap's is read in the wrong
+/// unit (km/h against m/s is 3.6, mph against km/h 1.6), not a car off by that much.
+inline constexpr double correlate_max_speed_ratio = 1.45;
+
+/// The alignment that maximises the correlation of the log's speed with `speed_mps` (the
+/// simulated speed at each mesh point): a search over every offset (the whole lap for a closed
+/// track, half the track either way for an open one) on a 2 m grid at scales 0.4 % apart, then
+/// offset and scale refined on finer grids around the best (0.5 m and 0.05 %, then 0.05 m and
+/// 0.01 %).
+/// InvalidInput (subject: the log's source) when the log is read in a wrong unit (its median
+/// speed more than correlate_max_speed_ratio from the simulated lap's: "speed_mps[i]" at the
+/// fastest row) or, aligned, covers less than correlate_min_coverage of the track
+/// ("distance_m[last]").
+Alignment align_log(const LoggedSpeed& log, const Mesh& mesh, const std::vector<double>& speed_mps);
+
+/// align_log's refinement alone, around `start` (offsets within 4.6 m, scales within 0.46 %),
+/// with align_log's checks: for a car whose speed trace has moved little (a fit's next round).
+Alignment refine_alignment(const LoggedSpeed& log, const Mesh& mesh,
+                           const std::vector<double>& speed_mps, const Alignment& start);
+
+/// The log's speed at each mesh point under an alignment (a closed lap's log wraps round the
+/// line), and whether the log covers the point.
+struct LogOnMesh {
+  std::vector<double> speed_mps;  // 0 where not covered
+  std::vector<std::uint8_t> covered;
+  std::size_t covered_points = 0;
+};
+LogOnMesh log_on_mesh(const LoggedSpeed& log, const Mesh& mesh, const Alignment& a);
+
+struct SectorError {
+  double start_m, end_m;
+  double sim_s, log_s, error_s;  // error = sim - log
+};
+
+/// A corner's speeds, simulated and logged (the logged speed smoothed over 5 m, so that the
+/// noise of one sample does not set an apex), and its braking points: where the speed (both
+/// traces smoothed over 5 m alike) peaks between the previous corner's apex and this one's, when it
+/// falls at least braking_min_drop_mps from there to the apex (none otherwise: the corner is taken
+/// without braking).
+struct CornerError {
+  int id;
+  double apex_m;
+  double sim_entry_mps, sim_apex_mps, sim_exit_mps;
+  double log_entry_mps, log_apex_mps, log_exit_mps;
+  std::optional<double> sim_braking_m, log_braking_m;
+  /// sim - log, of the braking points when both brake (> 0: the simulated car brakes later).
+  std::optional<double> braking_error_m() const {
+    if (sim_braking_m && log_braking_m) return *sim_braking_m - *log_braking_m;
+    return std::nullopt;
+  }
+};
+inline constexpr double braking_min_drop_mps = 5.0 / 3.6;
+inline constexpr double corner_smoothing_m = 5.0;
+
+/// A place of large speed error: the point, its error (sim - log), and the corner it lies in
+/// (0: none), else the corner the straight leads to (0: to the line).
+struct ErrorPeak {
+  double at_m, error_mps;
+  int corner, next_corner;
+};
+/// The largest errors listed, at least this far apart.
+inline constexpr std::size_t correlate_peaks = 3;
+inline constexpr double correlate_peak_separation_m = 100.0;
+
+struct Correlation {
+  Alignment alignment;
+  double coverage = 0.0;          // share of the mesh's points the log covers
+  double covered_length_m = 0.0;  // the intervals covered at both ends (the lap times')
+  double lap_time_sim_s = 0.0;    // over the intervals the log covers (the whole lap when it does)
+  double lap_time_log_s = 0.0;
+  double rms_speed_error_mps = 0.0;   // over the covered points
+  std::vector<double> log_speed_mps;  // per mesh point (0 where not covered)
+  std::vector<std::uint8_t> covered;
+  std::vector<double> time_delta_s;  // running t_sim - t_log from the first covered point
+  std::vector<SectorError> sectors;
+  std::vector<CornerError> corners;  // the corners the log covers
+  std::vector<ErrorPeak> peaks;      // largest |error| first
+};
+
+/// `lap` (solved round `circuit`) against the log, aligned by align_log, or as given.
+Correlation correlate(const Lap& lap, const Circuit& circuit, const LoggedSpeed& log);
+Correlation correlate(const Lap& lap, const Circuit& circuit, const LoggedSpeed& log,
+                      const Alignment& alignment);
+
+}  // namespace lapwing

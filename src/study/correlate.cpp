@@ -1,0 +1,350 @@
+#include "lapwing/study/correlate.hpp"
+
+#include <algorithm>
+#include <cassert>
+#include <cmath>
+#include <string>
+
+#include "lapwing/base/error.hpp"
+#include "lapwing/base/format.hpp"
+#include "lapwing/base/interpolate.hpp"
+#include "lapwing/base/units.hpp"
+
+namespace lapwing {
+
+namespace {
+
+std::string row(const char* column, std::size_t i) {
+  return std::string(column) + "[" + std::to_string(i) + "]";
+}
+
+// A trace on an even grid (step h from 0), read by linear interpolation; periodic over the
+// track's length for a closed track.
+struct Grid {
+  double h = 1.0, length = 0.0;
+  bool periodic = false;
+  std::vector<double> v;
+  // The value at s, or nothing off an open trace.
+  bool at(double s, double& out) const {
+    if (periodic) {
+      s = std::fmod(s, length);
+      if (s < 0.0) s += length;
+    } else if (s < 0.0 || s > length) {
+      return false;
+    }
+    const Bracket b = even_bracket(s / h, v.size() - 1);
+    out = lerp(v[b.i], v[b.i + 1], b.w);
+    return true;
+  }
+};
+
+// The simulated speed on a grid of step h over the track.
+Grid sim_grid(const Mesh& mesh, const std::vector<double>& speed, double h) {
+  Grid g;
+  g.h = h;
+  g.length = mesh.length_m;
+  g.periodic = mesh.closed;
+  const std::size_t n = static_cast<std::size_t>(std::ceil(mesh.length_m / h));
+  g.v.resize(n + 1);
+  AxisWalk walk(mesh.s_m);
+  for (std::size_t j = 0; j <= n; ++j) {
+    const double s = std::min(mesh.length_m, static_cast<double>(j) * h);
+    g.v[j] = at(speed, walk.at(s));
+  }
+  // The grid's last node stands at n h >= L: on a closed lap it is the line again.
+  if (g.periodic)
+    g.v[n] = interpolate(mesh.s_m, speed, std::fmod(static_cast<double>(n) * h, mesh.length_m));
+  return g;
+}
+
+// The log's samples on a grid of step h along its own distance.
+struct LogSamples {
+  std::vector<double> d, v;
+};
+LogSamples log_samples(const LoggedSpeed& log, double h) {
+  LogSamples out;
+  const double d0 = log.distance_m.front(), d1 = log.distance_m.back();
+  AxisWalk walk(log.distance_m);
+  for (double d = d0; d <= d1; d += h) {
+    out.d.push_back(d);
+    out.v.push_back(at(log.speed_mps, walk.at(d)));
+  }
+  return out;
+}
+
+// Pearson's r of the log's samples against the simulated grid at an alignment, with the share of
+// samples on the track (open tracks: the rest fall off its ends).
+struct Score {
+  double r = -2.0, overlap = 0.0;
+};
+Score score(const LogSamples& l, const Grid& g, double offset, double scale) {
+  double n = 0, sa = 0, sb = 0, saa = 0, sbb = 0, sab = 0;
+  for (std::size_t j = 0; j < l.d.size(); ++j) {
+    double b;
+    if (!g.at(scale * (l.d[j] - offset), b)) continue;
+    const double a = l.v[j];
+    n += 1;
+    sa += a;
+    sb += b;
+    saa += a * a;
+    sbb += b * b;
+    sab += a * b;
+  }
+  Score s;
+  s.overlap = n / static_cast<double>(l.d.size());
+  if (n < 3) return s;
+  // r = cov(a, b) / (sd(a) sd(b)), the sums' form.
+  const double cov = sab - sa * sb / n, va = saa - sa * sa / n, vb = sbb - sb * sb / n;
+  s.r = va > 0 && vb > 0 ? cov / std::sqrt(va * vb) : 0.0;
+  return s;
+}
+
+double median(std::vector<double> v) {
+  std::nth_element(v.begin(), v.begin() + static_cast<std::ptrdiff_t>(v.size() / 2), v.end());
+  return v[v.size() / 2];
+}
+
+// A centred moving average over `window_m` of mesh distance (for corner figures).
+std::vector<double> smoothed(const std::vector<double>& v, const std::vector<std::uint8_t>& ok,
+                             const Mesh& mesh, double window_m) {
+  const std::size_t half =
+      std::max<std::size_t>(1, static_cast<std::size_t>(std::lround(0.5 * window_m / mesh.step_m)));
+  std::vector<double> out(v.size(), 0.0);
+  for (std::size_t i = 0; i < v.size(); ++i) {
+    if (!ok[i]) continue;
+    double sum = 0.0, n = 0.0;
+    for (std::size_t j = i >= half ? i - half : 0; j <= std::min(v.size() - 1, i + half); ++j)
+      if (ok[j]) sum += v[j], n += 1.0;
+    out[i] = sum / n;
+  }
+  return out;
+}
+
+// Where the speed peaks between `from` and `apex` (indices), if it falls enough to the apex.
+std::optional<double> braking_point(const std::vector<double>& v, const Mesh& mesh,
+                                    std::size_t from, std::size_t apex) {
+  std::size_t peak = apex;
+  for (std::size_t i = from; i <= apex; ++i)
+    if (v[i] > v[peak]) peak = i;
+  if (v[peak] - v[apex] < braking_min_drop_mps) return std::nullopt;
+  return mesh.s_m[peak];
+}
+
+}  // namespace
+
+Alignment align_log(const LoggedSpeed& log, const Mesh& mesh, const std::vector<double>& speed) {
+  assert(speed.size() == mesh.size() && log.distance_m.size() >= 2);
+  // A unit read wrong first: it would align to nonsense.
+  const double log_median = median(log.speed_mps), sim_median = median(speed);
+  if (!(log_median <= correlate_max_speed_ratio * sim_median &&
+        sim_median <= correlate_max_speed_ratio * log_median)) {
+    const std::size_t fastest = static_cast<std::size_t>(
+        std::max_element(log.speed_mps.begin(), log.speed_mps.end()) - log.speed_mps.begin());
+    throw InvalidInput(
+        log.source,
+        broken_rule(
+            "",
+            "the log's median speed, " + fixed(units::to_kph(log_median), 1) + " km/h, is " +
+                fixed(log_median > sim_median ? log_median / sim_median : sim_median / log_median,
+                      2) +
+                " times the simulated lap's " + fixed(units::to_kph(sim_median), 1) +
+                " km/h: is --speed-unit right (m/s read as km/h is 3.6 times too slow, "
+                "mph read as km/h 1.6)?",
+            row("speed_mps", fastest)));
+  }
+  const double L = mesh.length_m;
+  const double d0 = log.distance_m.front();
+  // Stage 1: every offset on a 2 m grid (a closed lap's offsets repeat after L) at scales 0.4 %
+  // apart: at the nearest scale the log drifts at most 0.2 % of the lap from the track, which
+  // the correlation's peak survives.
+  const Grid coarse = sim_grid(mesh, speed, 2.0);
+  const LogSamples lc = log_samples(log, 2.0);
+  Alignment best;
+  best.correlation = -2.0;
+  const double lo = mesh.closed ? d0 : d0 - 0.5 * L, hi = mesh.closed ? d0 + L : d0 + 0.5 * L;
+  // An open track's candidates must lay most of the log on the track.
+  const double min_overlap = mesh.closed ? 0.0 : 0.5;
+  const int n_scales = static_cast<int>(std::lround(alignment_max_scale_error / 0.004));
+  for (int k = -n_scales; k <= n_scales; ++k) {
+    const double sc = 1.0 + 0.004 * k;
+    for (double off = lo; off < hi; off += 2.0) {
+      const Score s = score(lc, coarse, off, sc);
+      if (s.overlap >= min_overlap && s.r > best.correlation) best = {off, sc, s.r};
+    }
+  }
+  return refine_alignment(log, mesh, speed, best);
+}
+
+Alignment refine_alignment(const LoggedSpeed& log, const Mesh& mesh,
+                           const std::vector<double>& speed, const Alignment& start) {
+  const double L = mesh.length_m;
+  const double d0 = log.distance_m.front();
+  const double min_overlap = mesh.closed ? 0.0 : 0.5;
+  Alignment best = start;
+  // Stages 2 and 3: offset and scale together, around the best, on finer grids.
+  const Grid fine = sim_grid(mesh, speed, 0.5);
+  const LogSamples lf = log_samples(log, 0.5);
+  best.correlation = score(lf, fine, best.offset_m, best.scale).r;
+  struct Stage {
+    double offset_span, offset_step, scale_span, scale_step;
+  };
+  for (const Stage st : {Stage{4.0, 0.5, 0.004, 0.0005}, Stage{0.6, 0.05, 0.0006, 0.0001}}) {
+    const Alignment centre = best;
+    const int no = static_cast<int>(std::lround(st.offset_span / st.offset_step));
+    const int ns = static_cast<int>(std::lround(st.scale_span / st.scale_step));
+    for (int i = -no; i <= no; ++i)
+      for (int k = -ns; k <= ns; ++k) {
+        const double off = centre.offset_m + i * st.offset_step;
+        const double sc = centre.scale + k * st.scale_step;
+        if (std::abs(sc - 1.0) > alignment_max_scale_error + 1e-12) continue;
+        const Score s = score(lf, fine, off, sc);
+        if (s.overlap >= min_overlap && s.r > best.correlation) best = {off, sc, s.r};
+      }
+  }
+  // A closed lap's offset is named within one lap after the log's start.
+  if (mesh.closed)
+    best.offset_m = d0 + std::fmod(std::fmod(best.offset_m - d0, L / best.scale) + L / best.scale,
+                                   L / best.scale);
+  const LogOnMesh on = log_on_mesh(log, mesh, best);
+  const double coverage = static_cast<double>(on.covered_points) / static_cast<double>(mesh.size());
+  if (coverage < correlate_min_coverage)
+    throw InvalidInput(
+        log.source,
+        broken_rule("",
+                    "aligned to the track, the log covers " + fixed(100.0 * coverage, 1) +
+                        " % of its " + fixed(L, 1) + " m; correlate needs " +
+                        fixed(100.0 * correlate_min_coverage, 0) +
+                        " % (a whole lap, or the whole run of an open track)",
+                    row("distance_m", log.distance_m.size() - 1)));
+  return best;
+}
+
+LogOnMesh log_on_mesh(const LoggedSpeed& log, const Mesh& mesh, const Alignment& a) {
+  LogOnMesh out;
+  out.speed_mps.assign(mesh.size(), 0.0);
+  out.covered.assign(mesh.size(), 0);
+  const double d0 = log.distance_m.front(), d1 = log.distance_m.back();
+  const double lap_d = mesh.length_m / a.scale;  // one lap in the log's distance
+  for (std::size_t i = 0; i < mesh.size(); ++i) {
+    // d = s / scale + offset, and for a closed lap the same place a lap earlier or later.
+    double d = mesh.s_m[i] / a.scale + a.offset_m;
+    if (mesh.closed) {
+      if (d > d1) d -= lap_d * std::ceil((d - d1) / lap_d);
+      if (d < d0) d += lap_d * std::ceil((d0 - d) / lap_d);
+    }
+    if (d < d0 || d > d1) continue;
+    out.speed_mps[i] = interpolate(log.distance_m, log.speed_mps, d);
+    out.covered[i] = 1;
+    ++out.covered_points;
+  }
+  return out;
+}
+
+Correlation correlate(const Lap& lap, const Circuit& circuit, const LoggedSpeed& log) {
+  return correlate(lap, circuit, log, align_log(log, circuit.mesh, lap.speed_mps));
+}
+
+Correlation correlate(const Lap& lap, const Circuit& circuit, const LoggedSpeed& log,
+                      const Alignment& alignment) {
+  const Mesh& mesh = circuit.mesh;
+  const std::size_t n = mesh.size();
+  Correlation c;
+  c.alignment = alignment;
+  LogOnMesh on = log_on_mesh(log, mesh, alignment);
+  c.log_speed_mps = std::move(on.speed_mps);
+  c.covered = std::move(on.covered);
+  c.coverage = static_cast<double>(on.covered_points) / static_cast<double>(n);
+  const auto& vs = lap.speed_mps;
+  const auto& vl = c.log_speed_mps;
+  // RMS over the covered points.
+  double sum2 = 0.0;
+  for (std::size_t i = 0; i < n; ++i)
+    if (c.covered[i]) sum2 += (vs[i] - vl[i]) * (vs[i] - vl[i]);
+  c.rms_speed_error_mps =
+      on.covered_points ? std::sqrt(sum2 / static_cast<double>(on.covered_points)) : 0.0;
+  // Times over the intervals the log covers at both ends: the log's dt = 2 ds / (v_a + v_b)
+  // (constant acceleration over the interval, as the solver's own times).
+  c.time_delta_s.assign(n, 0.0);
+  std::vector<double> dt_log(n, 0.0), dt_sim(n, 0.0);  // interval i -> i + 1
+  for (std::size_t i = 0; i + 1 < n; ++i) {
+    if (!c.covered[i] || !c.covered[i + 1]) continue;
+    const double vsum = vl[i] + vl[i + 1];
+    if (!(vsum > 0.0))
+      throw InvalidInput(log.source,
+                         broken_rule("", "the logged speed is 0 at both ends of " +
+                                             fixed(mesh.s_m[i + 1] - mesh.s_m[i], 2) +
+                                             " m of track: the log's distance and speed disagree"));
+    dt_log[i] = 2.0 * (mesh.s_m[i + 1] - mesh.s_m[i]) / vsum;
+    dt_sim[i] = lap.time_s[i + 1] - lap.time_s[i];
+    c.lap_time_log_s += dt_log[i];
+    c.covered_length_m += mesh.s_m[i + 1] - mesh.s_m[i];
+    c.lap_time_sim_s += dt_sim[i];
+  }
+  for (std::size_t i = 1; i < n; ++i)
+    c.time_delta_s[i] = c.time_delta_s[i - 1] + dt_sim[i - 1] - dt_log[i - 1];
+  // Sectors: intervals by their start's distance.
+  const auto& starts = circuit.track.sectors_m;
+  for (std::size_t k = 0; k < starts.size(); ++k) {
+    SectorError s{starts[k], k + 1 < starts.size() ? starts[k + 1] : mesh.length_m, 0, 0, 0};
+    for (std::size_t i = 0; i + 1 < n; ++i)
+      if (mesh.s_m[i] >= s.start_m && mesh.s_m[i] < s.end_m) {
+        s.sim_s += dt_sim[i];
+        s.log_s += dt_log[i];
+      }
+    s.error_s = s.sim_s - s.log_s;
+    c.sectors.push_back(s);
+  }
+  // Corners: entry, apex, exit as the lap summary takes them (summarize), on the logged speed
+  // smoothed over corner_smoothing_m.
+  const std::vector<double> vls = smoothed(vl, c.covered, mesh, corner_smoothing_m);
+  // Braking points on both traces smoothed alike: a moving average moves a peak whose two sides
+  // differ in slope (drive gentler than braking), and so moves both peaks the same way.
+  const std::vector<std::uint8_t> all_points(n, 1);
+  const std::vector<double> vss = smoothed(vs, all_points, mesh, corner_smoothing_m);
+  std::size_t prev_sim_apex = 0, prev_log_apex = 0;
+  for (const CornerSpan& span : circuit.corners) {
+    std::size_t sa = span.start, la = span.start;
+    bool all = true;
+    for (std::size_t i = span.start; i <= span.end; ++i) {
+      all = all && c.covered[i];
+      if (vs[i] < vs[sa]) sa = i;
+      if (vls[i] < vls[la]) la = i;
+    }
+    if (all) {
+      CornerError e{span.id,     mesh.s_m[sa],  vs[span.start],
+                    vs[sa],      vs[span.end],  vls[span.start],
+                    vls[la],     vls[span.end], braking_point(vss, mesh, prev_sim_apex, sa),
+                    std::nullopt};
+      bool from_covered = true;
+      for (std::size_t i = prev_log_apex; i <= la; ++i) from_covered = from_covered && c.covered[i];
+      if (from_covered) e.log_braking_m = braking_point(vls, mesh, prev_log_apex, la);
+      c.corners.push_back(e);
+    }
+    prev_sim_apex = sa;
+    prev_log_apex = la;
+  }
+  // The largest errors, each at least correlate_peak_separation_m from the ones before.
+  std::vector<std::uint8_t> taken(n, 0);
+  for (std::size_t p = 0; p < correlate_peaks; ++p) {
+    std::size_t at_i = n;
+    for (std::size_t i = 0; i < n; ++i)
+      if (c.covered[i] && !taken[i] &&
+          (at_i == n || std::abs(vs[i] - vl[i]) > std::abs(vs[at_i] - vl[at_i])))
+        at_i = i;
+    if (at_i == n) break;
+    ErrorPeak e{mesh.s_m[at_i], vs[at_i] - vl[at_i], 0, 0};
+    for (const CornerSpan& span : circuit.corners) {
+      if (at_i >= span.start && at_i <= span.end) e.corner = span.id;
+      if (!e.corner && !e.next_corner && span.start > at_i) e.next_corner = span.id;
+    }
+    c.peaks.push_back(e);
+    for (std::size_t i = 0; i < n; ++i) {
+      double d = std::abs(mesh.s_m[i] - e.at_m);
+      if (mesh.closed) d = std::min(d, mesh.length_m - d);
+      if (d < correlate_peak_separation_m) taken[i] = 1;
+    }
+  }
+  return c;
+}
+
+}  // namespace lapwing

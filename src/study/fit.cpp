@@ -1,0 +1,505 @@
+#include "lapwing/study/fit.hpp"
+
+#include <ceres/ceres.h>
+#include <ceres/covariance.h>
+
+#include <algorithm>
+#include <cassert>
+#include <cmath>
+#include <limits>
+#include <map>
+#include <memory>
+
+#include "lapwing/base/error.hpp"
+#include "lapwing/base/units.hpp"
+#include "lapwing/solve/envelope.hpp"
+#include "lapwing/study/thread_pool.hpp"
+#include "lapwing/study/trade.hpp"
+
+namespace lapwing {
+
+namespace {
+
+constexpr FitParameter all_params[] = {
+    FitParameter::grip, FitParameter::grip_lat, FitParameter::grip_long, FitParameter::power,
+    FitParameter::cda,  FitParameter::cla,      FitParameter::balance,   FitParameter::mass};
+
+double start_value(FitParameter p) {
+  return p == FitParameter::balance ? 0.0 : 1.0;
+}
+
+// One log's residual points: mesh indices and the logged speed there.
+struct LogPoints {
+  const FitLog* log;
+  std::vector<std::size_t> at;
+  std::vector<double> speed_mps;
+};
+
+// The residuals of every log at a parameter vector, sim - log in km/h, and by central
+// differences their Jacobian; the last evaluations kept, since Ceres asks each one-residual
+// block in turn at the same point.
+class Residuals {
+ public:
+  Residuals(const ConfiguredCar& car, const std::vector<FitParameter>& params,
+            std::vector<LogPoints> points, double step, unsigned threads)
+      : car_(car), params_(params), points_(std::move(points)), step_(step), threads_(threads) {
+    for (const auto& p : points_) count_ += p.at.size();
+  }
+  std::size_t count() const { return count_; }
+  int laps() const { return laps_; }
+
+  struct Eval {
+    bool ok = false;
+    std::vector<double> r;  // count
+    std::vector<double> J;  // count x params, row-major; empty until asked
+  };
+  // The residuals (and the Jacobian when asked) at x.
+  const Eval& at(const double* x, bool jacobian) {
+    std::vector<double> key(x, x + params_.size());
+    auto it = cache_.find(key);
+    if (it == cache_.end()) {
+      if (cache_.size() > 64) cache_.clear();
+      it = cache_.emplace(key, Eval{}).first;
+      it->second.r.resize(count_);
+      it->second.ok = residuals(key, it->second.r.data());
+    }
+    Eval& e = it->second;
+    if (jacobian && e.ok && e.J.empty()) e.ok = jacobian_at(key, e);
+    return e;
+  }
+
+  // Residuals at one vector into out (count_); false where a lap cannot be solved (the car
+  // cannot move, a start speed it cannot hold: a step too far).
+  bool residuals(const std::vector<double>& x, double* out) {
+    std::vector<std::vector<double>> rs;
+    if (!many({x}, rs)) return false;
+    std::copy(rs[0].begin(), rs[0].end(), out);
+    return true;
+  }
+
+ private:
+  // Residuals at several vectors, the laps in parallel (each vector x log one job; results
+  // at their own indices, so the same for any thread count).
+  bool many(const std::vector<std::vector<double>>& xs, std::vector<std::vector<double>>& rs) {
+    const std::size_t nl = points_.size();
+    rs.assign(xs.size(), std::vector<double>(count_));
+    std::vector<std::uint8_t> ok(xs.size() * nl, 1);
+    std::vector<std::size_t> first(nl, 0);
+    for (std::size_t l = 1; l < nl; ++l) first[l] = first[l - 1] + points_[l - 1].at.size();
+    parallel_for(xs.size() * nl, threads_, [&](std::size_t job, LapSolver& solver) {
+      const std::size_t v = job / nl, l = job % nl;
+      const LogPoints& p = points_[l];
+      try {
+        const ConfiguredCar c = fitted_car(car_, params_, xs[v]);
+        const Envelope env(Envelope::Unchecked{}, c, p.log->circuit->air);
+        const Lap& lap = solve_speed_only(env, *p.log->circuit, solver);
+        for (std::size_t k = 0; k < p.at.size(); ++k)
+          rs[v][first[l] + k] = units::to_kph(lap.speed_mps[p.at[k]] - p.speed_mps[k]);
+      } catch (const CannotMove&) {
+        ok[job] = 0;
+      } catch (const InvalidInput&) {
+        ok[job] = 0;
+      }
+    });
+    laps_ += static_cast<int>(xs.size() * nl);
+    return std::all_of(ok.begin(), ok.end(), [](std::uint8_t b) { return b != 0; });
+  }
+
+  // dr/dx_j = (r(x + h e_j) - r(x - h e_j)) / 2h, h = step max(1, |x_j|).
+  bool jacobian_at(const std::vector<double>& x, Eval& e) {
+    const std::size_t np = params_.size();
+    std::vector<std::vector<double>> xs;
+    std::vector<double> h(np);
+    for (std::size_t j = 0; j < np; ++j) {
+      h[j] = step_ * std::max(1.0, std::abs(x[j]));
+      for (const double sign : {1.0, -1.0}) {
+        xs.push_back(x);
+        xs.back()[j] += sign * h[j];
+      }
+    }
+    std::vector<std::vector<double>> rs;
+    if (!many(xs, rs)) return false;
+    e.J.assign(count_ * np, 0.0);
+    for (std::size_t j = 0; j < np; ++j)
+      for (std::size_t k = 0; k < count_; ++k)
+        e.J[k * np + j] = (rs[2 * j][k] - rs[2 * j + 1][k]) / (2.0 * h[j]);
+    return true;
+  }
+
+  const ConfiguredCar& car_;
+  const std::vector<FitParameter>& params_;
+  std::vector<LogPoints> points_;
+  double step_;
+  unsigned threads_;
+  std::size_t count_ = 0;
+  int laps_ = 0;
+  std::map<std::vector<double>, Eval> cache_;
+};
+
+// One residual of the problem (its own block, so that the Huber loss applies to each point).
+class PointCost : public ceres::CostFunction {
+ public:
+  PointCost(Residuals& all, std::size_t k, int params) : all_(all), k_(k) {
+    set_num_residuals(1);
+    mutable_parameter_block_sizes()->push_back(params);
+  }
+  bool Evaluate(double const* const* x, double* r, double** jacobians) const override {
+    const bool want = jacobians && jacobians[0];
+    const Residuals::Eval& e = all_.at(x[0], want);
+    if (!e.ok) return false;
+    r[0] = e.r[k_];
+    if (want) {
+      const std::size_t np = static_cast<std::size_t>(parameter_block_sizes()[0]);
+      for (std::size_t j = 0; j < np; ++j) jacobians[0][j] = e.J[k_ * np + j];
+    }
+    return true;
+  }
+
+ private:
+  Residuals& all_;
+  std::size_t k_;
+};
+
+double rms_kph(const std::vector<double>& r, std::size_t from, std::size_t to) {
+  double s = 0.0;
+  for (std::size_t k = from; k < to; ++k) s += r[k] * r[k];
+  return to > from ? std::sqrt(s / static_cast<double>(to - from)) : 0.0;
+}
+
+}  // namespace
+
+std::string_view fit_parameter_name(FitParameter p) {
+  switch (p) {
+    case FitParameter::grip:
+      return "grip";
+    case FitParameter::grip_lat:
+      return "grip_lat";
+    case FitParameter::grip_long:
+      return "grip_long";
+    case FitParameter::power:
+      return "power";
+    case FitParameter::cda:
+      return "cda";
+    case FitParameter::cla:
+      return "cla";
+    case FitParameter::balance:
+      return "balance";
+    case FitParameter::mass:
+      return "mass";
+  }
+  return "";
+}
+
+std::optional<FitParameter> fit_parameter(std::string_view name) {
+  for (FitParameter p : all_params)
+    if (fit_parameter_name(p) == name) return p;
+  return std::nullopt;
+}
+
+std::string fit_parameter_names() {
+  std::string out;
+  for (FitParameter p : all_params)
+    out += (out.empty() ? "" : ", ") + std::string(fit_parameter_name(p));
+  return out;
+}
+
+ConfiguredCar fitted_car(const ConfiguredCar& car, const std::vector<FitParameter>& params,
+                         const std::vector<double>& values) {
+  assert(params.size() == values.size());
+  ConfiguredCar c = car;
+  for (std::size_t i = 0; i < params.size(); ++i) {
+    const double f = values[i];
+    switch (params[i]) {
+      case FitParameter::grip:
+      case FitParameter::grip_lat:
+      case FitParameter::grip_long:
+        c = c.changed([&](Car& k, AeroConfig&) {
+          if (params[i] != FitParameter::grip_long) k.tyres.mu_lat *= f;
+          if (params[i] != FitParameter::grip_lat) k.tyres.mu_long *= f;
+        });
+        break;
+      case FitParameter::power:
+        c = scaled(c, Knob::power, f);
+        break;
+      case FitParameter::cda:
+        c = scaled(c, Knob::cda, f);
+        break;
+      case FitParameter::cla:
+        c = scaled(c, Knob::cla, f);
+        break;
+      case FitParameter::mass:
+        c = scaled(c, Knob::mass, f);
+        break;
+      case FitParameter::balance:
+        c = c.changed([&](Car&, AeroConfig& a) {
+          for (double& b : a.balance) b += f;
+          if (a.map) a.map->balance.array() += f;
+        });
+        break;
+    }
+  }
+  return c;
+}
+
+std::optional<Violation> FitOptions::validate() const {
+  return FirstViolation()
+      .range("step", step, Range{0.0, 0.2, true, false}, Quantity::fraction)
+      .range("huber_kph", huber_kph, positive(), false)
+      .range("residual_spacing_m", residual_spacing_m, positive(), Quantity::length)
+      .rule(max_iterations >= 1 && max_iterations <= 200, "max_iterations", "must be 1 to 200")
+      .range("separable_limit", separable_limit, Range{0.0, 1.0, true, true}, false)
+      .result();
+}
+
+std::string separation_advice(FitParameter a, FitParameter b) {
+  using P = FitParameter;
+  auto is = [&](P x, P y) { return (a == x && b == y) || (a == y && b == x); };
+  auto grip = [](P p) { return p == P::grip || p == P::grip_lat || p == P::grip_long; };
+  if ((grip(a) && b == P::cla) || (grip(b) && a == P::cla))
+    return "a log of a circuit with fast corners as well as slow ones (downforce grows with "
+           "speed squared, mu does not), or of this one at other wing levels";
+  if (is(P::power, P::cda))
+    return "a log with full-throttle runs ending at different speeds (drag grows with speed "
+           "squared, the engine's force falls with it), or a coast-down in neutral (drag alone)";
+  if (a == P::mass || b == P::mass)
+    return "the car weighed (fix the mass): mass scales every force's effect at once";
+  if (is(P::grip_lat, P::grip_long) || (grip(a) && grip(b)))
+    return "a log with long braking zones as well as long steady corners (braking reads "
+           "mu_long, steady corners mu_lat)";
+  if (a == P::balance || b == P::balance)
+    return "logs at other wing levels or ride heights (the balance shows where one axle "
+           "limits: fast corners against slow ones)";
+  return "a log of another circuit, whose corners and straights weigh the two differently";
+}
+
+FitResult fit(const ConfiguredCar& car, const std::vector<FitLog>& logs,
+              const std::vector<FitParameter>& params, const FitOptions& options) {
+  require_valid(options.validate(), "fit options");
+  require_valid(FirstViolation()
+                    .rule(!params.empty(), "free", "free at least one parameter")
+                    .rule(!logs.empty(), "log", "give at least one log")
+                    .result(),
+                "fit");
+  for (std::size_t i = 0; i < params.size(); ++i)
+    for (std::size_t j = 0; j < i; ++j)
+      if (params[i] == params[j])
+        throw InvalidInput("fit", broken_rule("free", std::string(fit_parameter_name(params[i])) +
+                                                          " is freed twice"));
+  FitResult out;
+  out.params = params;
+  const std::size_t np = params.size();
+  // Residual points every residual_spacing_m under the logs' alignments.
+  auto points_at = [&](const std::vector<Alignment>& al) {
+    std::vector<LogPoints> points;
+    for (std::size_t k = 0; k < logs.size(); ++k) {
+      const Circuit& c = *logs[k].circuit;
+      const LogOnMesh on = log_on_mesh(*logs[k].log, c.mesh, al[k]);
+      LogPoints p{&logs[k], {}, {}};
+      const std::size_t every = std::max<std::size_t>(
+          1, static_cast<std::size_t>(std::lround(options.residual_spacing_m / c.mesh.step_m)));
+      for (std::size_t i = 0; i < c.mesh.size(); i += every)
+        if (on.covered[i]) {
+          p.at.push_back(i);
+          p.speed_mps.push_back(on.speed_mps[i]);
+        }
+      points.push_back(std::move(p));
+    }
+    return points;
+  };
+  // Each log aligned with a car: the alignment by cross-correlation leans towards the car's own
+  // braking points, so it is found again with the fitted car (below).
+  // The first search is over every offset; the next rounds refine the last round's.
+  auto aligned = [&](const ConfiguredCar& c, const std::vector<Alignment>* near) {
+    std::vector<Alignment> al;
+    LapSolver solver;
+    for (std::size_t k = 0; k < logs.size(); ++k) {
+      const Circuit& circuit = *logs[k].circuit;
+      const Envelope env =
+          near ? Envelope(Envelope::Unchecked{}, c, circuit.air) : Envelope(c, circuit.air);
+      const Lap& lap = solve_speed_only(env, circuit, solver);
+      al.push_back(near ? refine_alignment(*logs[k].log, circuit.mesh, lap.speed_mps, (*near)[k])
+                        : align_log(*logs[k].log, circuit.mesh, lap.speed_mps));
+    }
+    return al;
+  };
+  std::vector<double> x(np);
+  for (std::size_t j = 0; j < np; ++j) x[j] = start_value(params[j]);
+  std::vector<Alignment> al = aligned(car, nullptr);  // checked: the car the user gave
+  std::unique_ptr<Residuals> all;
+  std::unique_ptr<ceres::Problem> problem;
+  ceres::Solver::Summary summary;
+  std::vector<std::size_t> first;
+  std::size_t n = 0;
+  // Fit and alignment in turn (block coordinate descent): at most fit_alignment_rounds, until
+  // the alignment moves less than 0.05 m and 1e-4 of scale.
+  for (int round = 0; round < fit_alignment_rounds; ++round) {
+    std::vector<LogPoints> points = points_at(al);
+    first.assign(1, 0);
+    for (const auto& p : points) first.push_back(first.back() + p.at.size());
+    all =
+        std::make_unique<Residuals>(car, params, std::move(points), options.step, options.threads);
+    n = all->count();
+    if (n <= np)
+      throw InvalidInput("fit",
+                         broken_rule("log", "the logs give " + std::to_string(n) + " points for " +
+                                                std::to_string(np) + " parameters"));
+    if (round == 0) {
+      out.alignments = al;
+      std::vector<double> r0(n);
+      if (!all->residuals(x, r0.data()))
+        throw InvalidInput("fit", broken_rule("", "the starting car cannot lap a track"));
+      for (std::size_t l = 0; l + 1 < first.size(); ++l)
+        out.rms_before_mps.push_back(rms_kph(r0, first[l], first[l + 1]) * units::kph);
+      out.rms_before_mps_all = rms_kph(r0, 0, n) * units::kph;
+    }
+    ceres::Problem::Options po;
+    po.cost_function_ownership = ceres::TAKE_OWNERSHIP;
+    po.loss_function_ownership = ceres::TAKE_OWNERSHIP;
+    problem = std::make_unique<ceres::Problem>(po);
+    for (std::size_t k = 0; k < n; ++k)
+      problem->AddResidualBlock(new PointCost(*all, k, static_cast<int>(np)),
+                                new ceres::HuberLoss(options.huber_kph), x.data());
+    ceres::Solver::Options so;
+    so.linear_solver_type = ceres::DENSE_QR;
+    so.minimizer_type = ceres::TRUST_REGION;
+    so.trust_region_strategy_type = ceres::LEVENBERG_MARQUARDT;
+    so.max_num_iterations = options.max_iterations;
+    so.num_threads = 1;  // the residual cache is not shared between threads; laps run in parallel
+    so.logging_type = ceres::SILENT;
+    so.minimizer_progress_to_stdout = false;
+    // A factor to 1e-4 is below what the logs resolve (standard errors of 0.03 % and more in
+    // the tests' fits, README, "Correlating with your data").
+    so.parameter_tolerance = 1e-4;
+    so.function_tolerance = 1e-6;
+    ceres::Solve(so, problem.get(), &summary);
+    out.iterations += static_cast<int>(summary.iterations.size());
+    out.laps_solved += all->laps();
+    out.termination = summary.message;
+    const std::vector<Alignment> next = aligned(fitted_car(car, params, x), &al);
+    bool moved = false;
+    for (std::size_t k = 0; k < al.size(); ++k)
+      moved = moved || std::abs(next[k].offset_m - al[k].offset_m) > 0.05 ||
+              std::abs(next[k].scale - al[k].scale) > 1e-4;
+    out.rounds = round + 1;
+    if (!moved) break;
+    if (round + 1 < fit_alignment_rounds) al = next;
+  }
+  out.final_alignments = al;
+  out.values = x;
+
+  std::vector<double> r1(n);
+  out.laps_solved += static_cast<int>(logs.size()) * (out.rounds + 1);  // the alignments' laps
+  if (!all->residuals(x, r1.data()))
+    throw InvalidInput("fit", broken_rule("", "the fitted car cannot lap a track"));
+  for (std::size_t l = 0; l + 1 < first.size(); ++l)
+    out.rms_after_mps.push_back(rms_kph(r1, first[l], first[l + 1]) * units::kph);
+  out.rms_after_mps_all = rms_kph(r1, 0, n) * units::kph;
+
+  // Covariance of the parameters: Ceres gives (J^T J)^-1 for unit-variance residuals; scaled by
+  // the residuals' variance, s^2 = 2 cost / (N - P) (cost = 1/2 sum rho(r^2), the robust one).
+  const double nan = std::numeric_limits<double>::quiet_NaN();
+  out.std_errors.assign(np, nan);
+  out.correlation.assign(np, std::vector<double>(np, nan));
+  ceres::Covariance::Options co;
+  co.algorithm_type = ceres::DENSE_SVD;
+  co.null_space_rank = -1;  // a rank-deficient Jacobian: report none (not separable)
+  co.num_threads = 1;
+  ceres::Covariance cov(co);
+  const std::vector<std::pair<const double*, const double*>> blocks{{x.data(), x.data()}};
+  std::vector<double> c(np * np);
+  if (cov.Compute(blocks, problem.get()) && cov.GetCovarianceBlock(x.data(), x.data(), c.data())) {
+    const double s2 = 2.0 * summary.final_cost / static_cast<double>(n - np);
+    bool finite = true;
+    for (double& v : c) {
+      v *= s2;
+      finite = finite && std::isfinite(v);
+    }
+    if (finite) {
+      out.covariance_found = true;
+      for (std::size_t i = 0; i < np; ++i)
+        out.std_errors[i] = std::sqrt(std::max(0.0, c[i * np + i]));
+      for (std::size_t i = 0; i < np; ++i)
+        for (std::size_t j = 0; j < np; ++j) {
+          const double d = std::sqrt(c[i * np + i] * c[j * np + j]);
+          out.correlation[i][j] = i == j ? 1.0 : d > 0 ? c[i * np + j] / d : 0.0;
+        }
+    }
+  }
+  for (std::size_t i = 0; i < np; ++i)
+    for (std::size_t j = i + 1; j < np; ++j) {
+      const double rho = out.correlation[i][j];
+      if (!out.covariance_found || std::abs(rho) > options.separable_limit)
+        out.inseparable.push_back({i, j, rho, separation_advice(params[i], params[j])});
+    }
+  return out;
+}
+
+std::vector<CarValueEdit> fitted_edits(const Car& car, std::size_t config, const FitResult& r) {
+  std::vector<CarValueEdit> out;
+  const AeroConfig& a = car.configs.at(config);
+  const std::string cfg = "aero.configs." + a.name + ".";
+  auto area = [&](const char* key, const char* part_key, double f) {
+    switch (a.form) {
+      case AeroConfig::Form::constant:
+        out.push_back({cfg + key, f, 0.0});
+        break;
+      case AeroConfig::Form::speed_table:
+        out.push_back({cfg + "speed_table." + key, f, 0.0});
+        break;
+      case AeroConfig::Form::ride_height_map:
+        out.push_back({cfg + "ride_height_map." + key, f, 0.0});
+        break;
+      case AeroConfig::Form::forces:
+        for (std::size_t i = 0; i < a.parts->parts.size(); ++i)
+          out.push_back({cfg + "forces.parts[" + std::to_string(i) + "]." + part_key, f, 0.0});
+        break;
+    }
+  };
+  double mu_lat = 1.0, mu_long = 1.0;
+  for (std::size_t i = 0; i < r.params.size(); ++i) {
+    const double v = r.values[i];
+    switch (r.params[i]) {
+      case FitParameter::grip:
+        mu_lat *= v, mu_long *= v;
+        break;
+      case FitParameter::grip_lat:
+        mu_lat *= v;
+        break;
+      case FitParameter::grip_long:
+        mu_long *= v;
+        break;
+      case FitParameter::power:
+        out.push_back(
+            {car.powertrain.ideal ? "powertrain.constant_power" : "powertrain.torque_curve.torque",
+             v, 0.0});
+        break;
+      case FitParameter::cda:
+        area("cda", "drag", v);
+        break;
+      case FitParameter::cla:
+        area("cla", "downforce", v);
+        break;
+      case FitParameter::mass:
+        out.push_back({"mass", v, 0.0});
+        if (a.mass_kg) out.push_back({cfg + "mass", v, 0.0});
+        break;
+      case FitParameter::balance:
+        if (a.form == AeroConfig::Form::forces)
+          throw InvalidInput("fit", broken_rule("free", "the balance of config '" + a.name +
+                                                            "' comes from its parts' positions: "
+                                                            "a fitted shift cannot be written "
+                                                            "into its file"));
+        out.push_back(
+            {cfg + (a.form == AeroConfig::Form::constant      ? "balance"
+                    : a.form == AeroConfig::Form::speed_table ? "speed_table.balance"
+                                                              : "ride_height_map.balance"),
+             1.0, v});
+        break;
+    }
+  }
+  if (mu_long != 1.0) out.insert(out.begin(), {"tyres.mu_long", mu_long, 0.0});
+  if (mu_lat != 1.0) out.insert(out.begin(), {"tyres.mu_lat", mu_lat, 0.0});
+  return out;
+}
+
+}  // namespace lapwing

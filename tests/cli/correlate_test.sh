@@ -1,0 +1,94 @@
+#!/usr/bin/env bash
+# correlate and fit end to end on the real binary: the bundled invented log of the surveyed
+# circuit correlates and fits, their files appear with their keys and columns and are the same
+# bytes for any thread count; bad logs (too short, distance not increasing, a missing column, a
+# speed unit that gives absurd speeds) and bad options exit 2 with FILE:LINE:COL or the option,
+# and write nothing.
+#   correlate_test.sh LAPWING_BINARY SOURCE_DIR
+set -u
+bin=$(realpath "$1")
+cd "$2" || exit 1
+tmp=$(mktemp -d)
+trap 'rm -rf "$tmp"' EXIT
+pass=0
+fail=0
+ok() { pass=$((pass + 1)); }
+bad() { fail=$((fail + 1)); echo "FAIL: $*"; }
+car=cars/pellion-fr2.yaml
+track=tracks/brannock-park-survey.yaml
+log=logs/brannock-park-survey-lap.csv
+common=(--car "$car" --track "$track" --config medium --speed speed_kph)
+
+# 1. correlate: the files and their keys and columns.
+if "$bin" correlate "${common[@]}" --log "$log" --time time_s --out "$tmp/c" > "$tmp/c.txt" 2>&1; then
+  ok
+else
+  bad "correlate: $(cat "$tmp/c.txt")"
+fi
+for key in lap_time_sim_s lap_time_log_s rms_speed_error_kph offset_m scale sectors corners \
+  braking_error_m; do
+  grep -q "\"$key\"" "$tmp/c/correlate.json" && ok || bad "correlate.json lacks $key"
+done
+[ "$(head -n 1 "$tmp/c/correlate-brannock-park-survey.csv")" = \
+  "distance_m,sim_speed_kph,log_speed_kph,speed_error_kph,time_delta_s" ] && ok ||
+  bad "correlate CSV header"
+grep -q 'id="correlation"' "$tmp/c/report.html" && grep -q 'id="correlate-speed"' "$tmp/c/report.html" &&
+  grep -q 'id="correlate-delta"' "$tmp/c/report.html" && ok || bad "report.html lacks the correlation"
+grep -q '^largest speed errors' "$tmp/c.txt" && ok || bad "correlate prints no largest errors"
+! grep -qiE 'nan|inf' "$tmp/c/correlate.json" "$tmp/c/correlate-brannock-park-survey.csv" && ok ||
+  bad "non-finite number in correlate's files"
+
+# 2. fit: the files, the fitted car loads, and the same bytes with one thread and two.
+for n in 1 2; do
+  "$bin" fit "${common[@]}" --log "$log" --time time_s --free grip,power,cda --threads $n \
+    --out "$tmp/f$n" > "$tmp/f$n.txt" 2>&1 && ok || bad "fit --threads $n: $(cat "$tmp/f$n.txt")"
+done
+cmp -s "$tmp/f1/fit.json" "$tmp/f2/fit.json" && cmp -s "$tmp/f1/car.yaml" "$tmp/f2/car.yaml" && ok ||
+  bad "fit's files differ between 1 and 2 threads"
+for key in parameters scale std_error rms_before_kph rms_after_kph correlation; do
+  grep -q "\"$key\"" "$tmp/f1/fit.json" && ok || bad "fit.json lacks $key"
+done
+head -n 1 "$tmp/f1/car.yaml" | grep -q "^# Fitted by 'lapwing fit'" && ok || bad "car.yaml header"
+"$bin" check --car "$tmp/f1/car.yaml" > "$tmp/check.txt" 2>&1 && ok || bad "the fitted car does not load"
+grep -q "not separable" "$tmp/f1.txt" && ok || bad "fit gives no separability warning for power and cda"
+
+# 3. Bad logs: exit 2, FILE:LINE:COL, the words, nothing written.
+printf 'distance_m,speed_kph\n' > "$tmp/short.csv"
+for i in 0 1 2 3 4; do echo "$((i * 2)),100" >> "$tmp/short.csv"; done
+{ echo "distance_m,speed_kph"; for i in $(seq 0 20); do echo "$((i * 2)),100"; done; echo "30,100"; } > "$tmp/backwards.csv"
+{ echo "distance_m,v"; for i in $(seq 0 20); do echo "$((i * 2)),100"; done; } > "$tmp/nocolumn.csv"
+# The bundled log's speed in km/h read as m/s: beyond 900 km/h.
+expect() {  # FILE COLUMN-OPTION UNIT TEXT
+  rm -rf "$tmp/bad"
+  "$bin" correlate "${common[@]}" --log "$1" $2 --speed-unit "$3" --out "$tmp/bad" > /dev/null 2> "$tmp/err.txt"
+  local rc=$?
+  [ $rc -eq 2 ] && ok || bad "$1: exit $rc, not 2"
+  grep -qE "^$1:[0-9]+:[0-9]+: error: " "$tmp/err.txt" && ok || bad "$1: not FILE:LINE:COL: $(cat "$tmp/err.txt")"
+  grep -q "$4" "$tmp/err.txt" && ok || bad "$1: no '$4' in $(cat "$tmp/err.txt")"
+  [ ! -e "$tmp/bad" ] && ok || bad "$1: wrote output"
+}
+expect "$tmp/short.csv" "--distance distance_m" km/h "rows"
+expect "$tmp/backwards.csv" "--distance distance_m" km/h "increas"
+expect "$tmp/nocolumn.csv" "--distance distance_m" km/h "speed_kph"
+expect "$log" "--time time_s" m/s "900 km/h"
+# The speed in km/h, the log in mph read as km/h is 1.6 times too slow: the median check.
+awk -F, 'NR <= 3 { print; next } { printf "%s,%s,%.2f,%s\n", $1, $2, $3 / 1.609344, $4 }' "$log" > "$tmp/mph.csv"
+expect "$tmp/mph.csv" "--time time_s" km/h "speed-unit"
+# Half a lap: too short for the track.
+head -n 700 "$log" > "$tmp/half.csv"
+expect "$tmp/half.csv" "--time time_s" km/h "covers"
+
+# 4. Usage errors: exit 2, one line.
+usage() {  # TEXT ARGS...
+  local want=$1
+  shift
+  "$bin" "$@" > /dev/null 2> "$tmp/err.txt"
+  local rc=$?
+  [ $rc -eq 2 ] && grep -q "$want" "$tmp/err.txt" && ok || bad "$* -> exit $rc: $(cat "$tmp/err.txt")"
+}
+usage "did you mean 'grip'" fit "${common[@]}" --log "$log" --time time_s --free gripp
+usage "one --log per --track" fit "${common[@]}" --track "$track" --log "$log" --time time_s --free grip
+usage "one of --distance COL and --time COL" correlate "${common[@]}" --log "$log"
+
+echo "correlate_test: $pass passed, $fail failed"
+[ $fail -eq 0 ]

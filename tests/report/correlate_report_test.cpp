@@ -1,0 +1,57 @@
+// correlate's and fit's files: the keys of README, "Correlating with your data", undefined
+// figures as null (never a NaN in a file), and the fit's words.
+#include <doctest/doctest.h>
+
+#include <cmath>
+#include <limits>
+
+#include "lapwing/report/correlate_report.hpp"
+
+using namespace lapwing;
+
+namespace {
+
+FitResult two_parameters(bool covariance) {
+  const double nan = std::numeric_limits<double>::quiet_NaN();
+  FitResult r;
+  r.params = {FitParameter::grip, FitParameter::balance};
+  r.values = {1.02, -0.01};
+  r.std_errors = covariance ? std::vector<double>{0.001, 0.002} : std::vector<double>{nan, nan};
+  r.correlation = covariance ? std::vector<std::vector<double>>{{1.0, 0.95}, {0.95, 1.0}}
+                             : std::vector<std::vector<double>>{{nan, nan}, {nan, nan}};
+  r.covariance_found = covariance;
+  r.alignments = r.final_alignments = {Alignment{7.0, 1.0, 0.99}};
+  r.rms_before_mps = {2.0};
+  r.rms_after_mps = {0.5};
+  r.rms_before_mps_all = 2.0;
+  r.rms_after_mps_all = 0.5;
+  r.inseparable.push_back({0, 1, covariance ? 0.95 : nan, "more data"});
+  return r;
+}
+
+}  // namespace
+
+TEST_CASE(
+    "fit.json names each parameter's scale (the balance's shift) and writes null for a "
+    "figure not found") {
+  const std::string found = fit_json("car", "medium", {"a.csv"}, {"Track"}, two_parameters(true));
+  CHECK(found.find("\"grip\": {\n      \"scale\": 1.02") != std::string::npos);
+  CHECK(found.find("\"shift\": -0.01") != std::string::npos);
+  // 2 and 0.5 m/s are 7.2 and 1.8 km/h, give or take the last digit of a division by 1/3.6.
+  for (const std::string key : {"\"rms_before_kph\": 7.", "\"rms_after_kph\": 1.",
+                                "\"correlation\"", "\"not_separable\"", "\"offset_m\": 7"})
+    CHECK_MESSAGE(found.find(key) != std::string::npos, key);
+  // Without a covariance: null, not a NaN (JSON has none; the writer throws on one).
+  const std::string none = fit_json("car", "medium", {"a.csv"}, {"Track"}, two_parameters(false));
+  CHECK(none.find("\"std_error\": null") != std::string::npos);
+  CHECK(none.find("nan") == std::string::npos);
+  CHECK(fit_text(two_parameters(false), {"a.csv"}).find("no standard errors") != std::string::npos);
+  CHECK(fit_text(two_parameters(true), {"a.csv"})
+            .find("warning: grip and balance are not separable by these logs (correlation "
+                  "0.950); to separate them: more data") != std::string::npos);
+}
+
+TEST_CASE("a fitted value reads as a factor, the balance as a shift in %") {
+  CHECK(fit_value_text(FitParameter::cda, 1.05) == "x1.0500");
+  CHECK(fit_value_text(FitParameter::balance, -0.012) == "-1.20 % (added)");
+}

@@ -1,0 +1,218 @@
+// Fitting a car to logged laps: a known "true" car (a bundled car with its grip, power and drag
+// area scaled by known factors) writes its lap as a noisy log with a distance offset, and the fit
+// from the bundled car recovers the factors (the check data is made here: issue 14, item 3).
+#include <doctest/doctest.h>
+
+#include <chrono>
+#include <cmath>
+#include <sstream>
+
+#include "lapwing/base/error.hpp"
+#include "lapwing/base/units.hpp"
+#include "lapwing/io/car_file.hpp"
+#include "lapwing/io/log_file.hpp"
+#include "lapwing/io/track_file.hpp"
+#include "lapwing/study/fit.hpp"
+#include "lapwing/study/trade.hpp"
+#include "test_support.hpp"
+
+using namespace lapwing;
+using lapwing::test::near;
+
+namespace {
+
+// Bundled circuits on a coarser mesh than their 0.5 m (2 m; the survey 1 m): a fit's hundred-odd
+// laps stay fast. Both the log's car and the fitted one are lapped on it, so the mesh changes
+// nothing the test compares.
+Circuit circuit(const char* file, double mesh_m) {
+  Track t = load_track(test::source_path(file));
+  t.mesh_m = mesh_m;
+  return lay_out(t, make_air(t.air));
+}
+
+ConfiguredCar medium() {
+  return load_car(test::source_path("cars/pellion-fr2.yaml")).configured(1);
+}
+
+// The true car, made without the code under test: each value scaled in place.
+ConfiguredCar true_car(double grip, double power, double cda, double ellipse_exponent = 2.0) {
+  return medium().changed([&](Car& k, AeroConfig& a) {
+    k.tyres.mu_lat *= grip;
+    k.tyres.mu_long *= grip;
+    k.tyres.ellipse_exponent = ellipse_exponent;
+    for (double& t : k.powertrain.torque_nm) t *= power;
+    for (double& v : a.cda_m2) v *= cda;
+  });
+}
+
+// The true car's lap written as a log (distance_m, speed_kph every 2 m of track), its distance
+// counted from 7 m before the line, its speed with Gaussian noise of 0.5 km/h, then read back.
+SpeedLogFile written_log(const ConfiguredCar& car, const Circuit& c, const std::string& name) {
+  const LapRun run = run_lap(car, c);
+  std::ostringstream out;
+  out.precision(10);
+  out << "distance_m,speed_kph\n";
+  test::Noise noise;
+  const std::size_t every = std::max<std::size_t>(1, std::lround(2.0 / c.mesh.step_m));
+  for (std::size_t i = 0; i < c.mesh.size(); i += every)
+    out << c.mesh.s_m[i] + 7.0 << "," << units::to_kph(run.lap.speed_mps[i]) + 0.5 * noise.gauss()
+        << "\n";
+  SpeedLogOptions o;
+  o.log = test::scratch_file(name, out.str());
+  o.speed = "speed_kph";
+  o.distance = "distance_m";
+  return read_speed_log(o);
+}
+
+const std::vector<FitParameter> grip_power_cda{FitParameter::grip, FitParameter::power,
+                                               FitParameter::cda};
+
+}  // namespace
+
+TEST_CASE("fit recovers the grip, power and drag area of the car that wrote a noisy log") {
+  const Circuit c = circuit("tracks/brannock-park.yaml", 2.0);
+  const ConfiguredCar truth = true_car(1.04, 0.95, 1.06);
+  const SpeedLogFile log = written_log(truth, c, "fit_true.csv");
+  // correlate on the true car: its RMS is the noise's (0.5 km/h); the issue's bound is 1 km/h.
+  const Correlation k = correlate(run_lap(truth, c).lap, c, log.speed);
+  CHECK(units::to_kph(k.rms_speed_error_mps) < 1.0);
+  CHECK(near(k.alignment.offset_m, 7.0, 0.0, 0.5));
+  const auto t0 = std::chrono::steady_clock::now();
+  const FitResult r = fit(medium(), {{&c, &log.speed}}, grip_power_cda);
+  MESSAGE("fit: " << std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count()
+                  << " s, " << r.laps_solved << " laps; grip " << r.values[0] << ", power "
+                  << r.values[1] << ", cda " << r.values[2] << "; RMS "
+                  << units::to_kph(r.rms_before_mps_all) << " -> "
+                  << units::to_kph(r.rms_after_mps_all) << " km/h");
+  // The issue's bounds: 1 % for grip, 2 % for power, 3 % for CdA.
+  CHECK(near(r.values[0], 1.04, 0.01));
+  CHECK(near(r.values[1], 0.95, 0.02));
+  CHECK(near(r.values[2], 1.06, 0.03));
+  // At the optimum the residuals are the log's noise (0.5 km/h RMS; 0.7 allows the fit's last
+  // digits and the linear reading between rows).
+  CHECK(units::to_kph(r.rms_after_mps_all) < 0.7);
+  CHECK(r.rms_after_mps_all < 0.5 * r.rms_before_mps_all);
+  // The alignment found again with the fitted car: the log's 7 m (0.5 m: a grid step).
+  CHECK(near(r.final_alignments[0].offset_m, 7.0, 0.0, 0.5));
+  // Standard errors exist and are small against the factors; the truth lies within 5 of them
+  // or 0.5 %, whichever is wider (points along a lap are not independent: they understate).
+  REQUIRE(r.covariance_found);
+  const double factors[] = {1.04, 0.95, 1.06};
+  for (std::size_t i = 0; i < 3; ++i) {
+    CHECK(r.std_errors[i] > 0.0);
+    CHECK(r.std_errors[i] < 0.05);
+    CHECK(std::abs(r.values[i] - factors[i]) < std::max(5 * r.std_errors[i], 0.005 * factors[i]));
+    CHECK(r.correlation[i][i] == doctest::Approx(1.0));
+  }
+  CHECK(r.correlation[0][1] == doctest::Approx(r.correlation[1][0]));
+}
+
+TEST_CASE("with a tyre model the true car does not share, fit still more than halves the RMS") {
+  const Circuit c = circuit("tracks/brannock-park.yaml", 2.0);
+  // The true car's friction ellipse is squarer (exponent 2.6 against the model's 2): it
+  // combines braking and cornering better than any scaling of the model's mu can copy.
+  const SpeedLogFile log = written_log(true_car(1.04, 0.95, 1.06, 2.6), c, "fit_mismatch.csv");
+  const FitResult r = fit(medium(), {{&c, &log.speed}}, grip_power_cda);
+  MESSAGE("mismatch: RMS " << units::to_kph(r.rms_before_mps_all) << " -> "
+                           << units::to_kph(r.rms_after_mps_all) << " km/h");
+  CHECK(r.rms_after_mps_all < 0.5 * r.rms_before_mps_all);
+}
+
+TEST_CASE("logs of two circuits are fitted jointly, each with its own alignment") {
+  const Circuit a = circuit("tracks/brannock-park.yaml", 2.0);
+  const Circuit b = circuit("tracks/saltmere-flats.yaml", 2.0);
+  const ConfiguredCar truth = true_car(1.03, 1.0, 1.05);
+  const SpeedLogFile la = written_log(truth, a, "fit_joint_a.csv");
+  const SpeedLogFile lb = written_log(truth, b, "fit_joint_b.csv");
+  const FitResult r =
+      fit(medium(), {{&a, &la.speed}, {&b, &lb.speed}}, {FitParameter::grip, FitParameter::cda});
+  REQUIRE(r.rms_after_mps.size() == 2);
+  CHECK(near(r.values[0], 1.03, 0.01));
+  CHECK(near(r.values[1], 1.05, 0.03));
+  for (std::size_t l = 0; l < 2; ++l) CHECK(units::to_kph(r.rms_after_mps[l]) < 0.7);
+}
+
+TEST_CASE("fitted_car scales what each parameter names, and shifts the balance") {
+  const ConfiguredCar car = medium();
+  const ConfiguredCar f =
+      fitted_car(car,
+                 {FitParameter::grip_lat, FitParameter::grip_long, FitParameter::power,
+                  FitParameter::cla, FitParameter::cda, FitParameter::mass, FitParameter::balance},
+                 {1.1, 0.9, 1.2, 1.3, 0.8, 1.05, 0.02});
+  CHECK(f.car().tyres.mu_lat == doctest::Approx(car.car().tyres.mu_lat * 1.1));
+  CHECK(f.car().tyres.mu_long == doctest::Approx(car.car().tyres.mu_long * 0.9));
+  CHECK(f.car().powertrain.torque_nm[2] ==
+        doctest::Approx(car.car().powertrain.torque_nm[2] * 1.2));
+  CHECK(f.aero().cla_m2[0] == doctest::Approx(car.aero().cla_m2[0] * 1.3));
+  CHECK(f.aero().cda_m2[0] == doctest::Approx(car.aero().cda_m2[0] * 0.8));
+  CHECK(f.car().mass_kg == doctest::Approx(car.car().mass_kg * 1.05));
+  CHECK(f.aero().balance[0] == doctest::Approx(car.aero().balance[0] + 0.02));
+}
+
+TEST_CASE("fit refuses no parameter and a parameter freed twice") {
+  const Circuit c = circuit("tracks/brannock-park.yaml", 2.0);
+  LoggedSpeed none;
+  CHECK_THROWS_AS(fit(medium(), {{&c, &none}}, {}), InvalidInput);
+  CHECK_THROWS_AS(fit(medium(), {{&c, &none}}, {FitParameter::grip, FitParameter::grip}),
+                  InvalidInput);
+  CHECK(fit_parameter("grip_lat") == FitParameter::grip_lat);
+  CHECK(!fit_parameter("downforce"));
+}
+
+TEST_CASE("a fitted car file keeps its layout and units, with the new values in place") {
+  const Car car = load_car(test::source_path("cars/pellion-fr2.yaml"));
+  FitResult r;
+  r.params = {FitParameter::grip, FitParameter::power, FitParameter::cla, FitParameter::balance};
+  r.values = {1.1, 0.9, 1.2, 0.01};
+  const std::vector<CarValueEdit> edits = fitted_edits(car, 1, r);
+  const std::string text = edited_car_text(test::source_path("cars/pellion-fr2.yaml"), edits);
+  const Car f = load_car(test::scratch_file("fitted.yaml", text));
+  CHECK(f.tyres.mu_lat == doctest::Approx(1.70 * 1.1));
+  CHECK(f.tyres.mu_long == doctest::Approx(1.55 * 1.1));
+  for (std::size_t i = 0; i < f.powertrain.torque_nm.size(); ++i)
+    CHECK(f.powertrain.torque_nm[i] == doctest::Approx(car.powertrain.torque_nm[i] * 0.9));
+  const int m = f.config_index("medium");
+  CHECK(f.configs[m].cla_m2[0] == doctest::Approx(3.6 * 1.2));
+  CHECK(f.configs[m].balance[0] == doctest::Approx(0.42 + 0.01));
+  // The other configs and values as they were; comments kept.
+  CHECK(f.configs[f.config_index("high")].cla_m2[0] == doctest::Approx(4.3));
+  CHECK(f.mass_kg == doctest::Approx(car.mass_kg));
+  CHECK(text.find("# running mass: car, driver, fuel") != std::string::npos);
+  // A speed table's every row.
+  const std::string t2 = edited_car_text(
+      test::source_path("cars/pellion-fr2.yaml"),
+      fitted_edits(car, static_cast<std::size_t>(car.config_index("medium_table")), r));
+  const Car f2 = load_car(test::scratch_file("fitted2.yaml", t2));
+  const AeroConfig& a2 = f2.configs[f2.config_index("medium_table")];
+  const AeroConfig& o2 = car.configs[car.config_index("medium_table")];
+  for (std::size_t i = 0; i < a2.cla_m2.size(); ++i) {
+    CHECK(a2.cla_m2[i] == doctest::Approx(o2.cla_m2[i] * 1.2));
+    CHECK(a2.balance[i] == doctest::Approx(o2.balance[i] + 0.01));
+  }
+  // The balance of a config given by forces cannot be written.
+  CHECK_THROWS_AS(fitted_edits(car, static_cast<std::size_t>(car.config_index("high_tunnel")), r),
+                  InvalidInput);
+}
+
+TEST_CASE(
+    "grip and downforce from one slow circuit are flagged as not separable; a fast one helps") {
+  const Circuit slow = circuit("tracks/brannock-park-survey.yaml", 1.0);
+  const Circuit fast = circuit("tracks/saltmere-flats.yaml", 2.0);
+  const ConfiguredCar truth = true_car(1.03, 1.0, 1.0);
+  const SpeedLogFile ls = written_log(truth, slow, "fit_sep_slow.csv");
+  const std::vector<FitParameter> grip_cla{FitParameter::grip, FitParameter::cla};
+  const FitResult one = fit(medium(), {{&slow, &ls.speed}}, grip_cla);
+  // In slow corners downforce is small against weight: more mu or more ClA raise the same
+  // speeds (common practice: the classic confound of a slow-circuit correlation).
+  REQUIRE(one.covariance_found);
+  MESSAGE("grip-cla correlation, slow circuit: " << one.correlation[0][1]);
+  CHECK(std::abs(one.correlation[0][1]) > 0.9);
+  REQUIRE(one.inseparable.size() == 1);
+  CHECK(one.inseparable[0].advice.find("fast corners") != std::string::npos);
+  // With a fast circuit's log too, downforce's speed-squared growth tells them apart better.
+  const SpeedLogFile lf = written_log(truth, fast, "fit_sep_fast.csv");
+  const FitResult both = fit(medium(), {{&slow, &ls.speed}, {&fast, &lf.speed}}, grip_cla);
+  MESSAGE("grip-cla correlation, slow and fast circuits: " << both.correlation[0][1]);
+  CHECK(std::abs(both.correlation[0][1]) < std::abs(one.correlation[0][1]));
+  CHECK(near(both.values[0], 1.03, 0.01));
+}
