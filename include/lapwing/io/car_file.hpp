@@ -36,6 +36,11 @@ std::string car_key_path(const Document& doc, std::string_view key);
 /// map or a list, is an InputError naming the key path (with the nearest key, "did you mean").
 void set_car_value(Document& doc, std::string_view key_path, const std::string& text);
 
+/// The index of the config named `name` in `car` (the first config when `name` is empty). An
+/// unknown name is an InputError of the car's file (key path aero.configs) with the nearest
+/// name ("did you mean") and the list of the car's configs.
+std::size_t pick_config(const Car& car, const std::string& name);
+
 /// The car alone.
 Car load_car(const std::string& file);
 
