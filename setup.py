@@ -44,5 +44,6 @@ class CMakeBuild(build_ext):
 version = re.search(r"project\(lapwing VERSION ([0-9.]+)",
                     (ROOT / "CMakeLists.txt").read_text()).group(1)
 
-setup(version=version, ext_modules=[CMakeModule("lapwing")], cmdclass={"build_ext": CMakeBuild},
-      options={"build": {"build_base": "build-python"}})
+# The module is the only thing packed: no Python packages to discover (src/ holds C++).
+setup(version=version, packages=[], py_modules=[], ext_modules=[CMakeModule("lapwing")],
+      cmdclass={"build_ext": CMakeBuild}, options={"build": {"build_base": "build-python"}})

@@ -97,10 +97,6 @@ Car with_model(Car car, const std::optional<std::string>& model) {
 // air={"altitude": ..., "temperature": ..., "pressure": ..., "humidity": ...}: each replaces the
 // track's value, as --altitude, --temperature, --pressure and --humidity do; a number is in the
 // key's default unit (m, C, Pa, a fraction), a string may carry a unit ("31 C", "985 hPa").
-struct AirOverride {
-  std::optional<double> altitude_m, temperature_k, pressure_pa, humidity;
-};
-
 AirOverride parse_air(const std::optional<py::dict>& air) {
   AirOverride o;
   if (!air) return o;
@@ -128,14 +124,6 @@ AirOverride parse_air(const std::optional<py::dict>& air) {
     o.*(key->field) = *si;
   }
   return o;
-}
-
-AirSpec apply(AirSpec spec, const AirOverride& o) {
-  if (o.altitude_m) spec.altitude_m = *o.altitude_m;
-  if (o.temperature_k) spec.temperature_k = o.temperature_k;
-  if (o.pressure_pa) spec.pressure_pa = o.pressure_pa;
-  if (o.humidity) spec.relative_humidity = *o.humidity;
-  return spec;
 }
 
 // The circuits of `tracks` in the air asked for (an air value out of range: InvalidInput of

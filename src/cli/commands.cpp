@@ -61,11 +61,6 @@ namespace lapwing::cli {
 
 namespace {
 
-// The air overrides parsed against their quantities.
-struct AirOverride {
-  std::optional<double> altitude_m, temperature_k, pressure_pa, humidity;
-};
-
 // The units a quantity accepts, as a list ("m", "mm", ...).
 std::vector<std::string> unit_names(Quantity q) {
   std::vector<std::string> out;
@@ -121,14 +116,6 @@ AirOverride parse_air(const AirOptions& o) {
                        AirSpec::temperature_range),
           option_value(o.pressure, "--pressure", Quantity::pressure, AirSpec::pressure_range),
           option_value(o.humidity, "--humidity", Quantity::fraction, AirSpec::humidity_range)};
-}
-
-AirSpec apply(AirSpec spec, const AirOverride& o) {
-  if (o.altitude_m) spec.altitude_m = *o.altitude_m;
-  if (o.temperature_k) spec.temperature_k = o.temperature_k;
-  if (o.pressure_pa) spec.pressure_pa = o.pressure_pa;
-  if (o.humidity) spec.relative_humidity = *o.humidity;
-  return spec;
 }
 
 // The files a command loads, and where each of their values stands: an error the library finds
@@ -316,7 +303,6 @@ std::vector<PlannedFile> compare_files(const Car& car, const std::vector<std::si
   }
   return out;
 }
-
 
 }  // namespace
 
