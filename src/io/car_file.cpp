@@ -485,7 +485,7 @@ void set_car_value(Document& doc, std::string_view key_path, const std::string& 
       value.kind = Node::Kind::scalar;
       value.mark = node->mark;
       value.scalar = text;
-      node->entries.emplace_back(part, std::move(value));
+      node->entries.push_back(Node::Entry{part, std::move(value)});
       node->key_marks.push_back(node->mark);
       return;
     }
