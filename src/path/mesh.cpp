@@ -73,6 +73,26 @@ class Walker {
     assert(u1 >= u_);
     // Pieces of at most max_piece_m keep the 5-point rule at round-off level however long the
     // walk (closure() walks whole segments at once).
+    const Segment& g = seg();
+    if (g.curvature_start_1pm == g.curvature_end_1pm) {
+      // Straight or arc: the closed form, no quadrature. A straight moves along its heading;
+      // an arc of curvature k from heading t0 to t1 moves by ((sin t1 - sin t0) / k,
+      // (cos t0 - cos t1) / k) (the integral of (cos t, sin t) ds with dt = k ds). The cosine
+      // and sine at a step's end are the next step's start (one sincos a mesh point).
+      const double k = g.curvature_start_1pm;
+      const Direction d0 = direction(heading(u_));
+      if (k == 0.0) {
+        x_ += (u1 - u_) * d0.cos;
+        y_ += (u1 - u_) * d0.sin;
+      } else {
+        const Direction d1 = direction(heading(u1));
+        x_ += (d1.sin - d0.sin) / k;
+        y_ += (d0.cos - d1.cos) / k;
+      }
+      z_ += g.grade * (u1 - u_);
+      u_ = u1;
+      return;
+    }
     const int pieces = std::max(1, static_cast<int>(std::ceil((u1 - u_) / max_piece_m)));
     const double piece = (u1 - u_) / pieces;
     for (int p = 0; p < pieces; ++p) {
@@ -91,7 +111,21 @@ class Walker {
     u_ = u1;
   }
 
+  // cos and sin of a heading, the last one kept (a step's end is the next one's start).
+  struct Direction {
+    double cos, sin;
+  };
+  Direction direction(double th) {
+    if (th != last_heading_) {
+      last_heading_ = th;
+      last_direction_ = {std::cos(th), std::sin(th)};
+    }
+    return last_direction_;
+  }
+
   static constexpr double max_piece_m = 1.0;
+  double last_heading_ = std::numeric_limits<double>::quiet_NaN();
+  Direction last_direction_{1.0, 0.0};
   const Track& track_;
   std::size_t seg_ = 0;
   double seg_start_ = 0.0;  // distance at the segment's start
@@ -321,8 +355,13 @@ Mesh build_mesh(const Track& track, double step_m) {
     // grade = tan(angle): cos = 1 / sqrt(1 + grade^2), sin = grade cos.
     m.cos_slope[i] = 1.0 / std::sqrt(1.0 + m.grade[i] * m.grade[i]);
     m.sin_slope[i] = m.grade[i] * m.cos_slope[i];
-    m.cos_bank[i] = std::cos(m.bank_rad[i]);
-    m.sin_bank[i] = std::sin(m.bank_rad[i]);
+    if (i > 0 && m.bank_rad[i] == m.bank_rad[i - 1]) {  // banks are piecewise constant
+      m.cos_bank[i] = m.cos_bank[i - 1];
+      m.sin_bank[i] = m.sin_bank[i - 1];
+    } else {
+      m.cos_bank[i] = std::cos(m.bank_rad[i]);
+      m.sin_bank[i] = std::sin(m.bank_rad[i]);
+    }
     m.head_wind_mps[i] = track.wind ? track.wind->head_mps(m.heading_rad[i]) : 0.0;
   }
   return m;

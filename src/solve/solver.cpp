@@ -86,9 +86,10 @@ struct InverseMass {
 template <bool Axle>
 [[gnu::always_inline]] inline double drive_accel(const Envelope& env, const Envelope::Rows& rows,
                                                  double u, double k, const Road& road, bool trimmed,
-                                                 double drive_share, const InverseMass& inv) {
+                                                 double drive_share, const InverseMass& inv,
+                                                 AxleHints* hints = nullptr) {
   if constexpr (Axle) {
-    return axle_drive_accel(env, u, k, road, drive_share * rows.at(u).drive_n, trimmed);
+    return axle_drive_accel(env, u, k, road, drive_share * rows.at(u).drive_n, trimmed, hints);
   } else {
     const PathForces f = path_forces(env, rows, u, k, road);
     return std::min((drive_share * f.drive_n - f.resistance_n) * inv.m_eff,
@@ -98,9 +99,10 @@ template <bool Axle>
 template <bool Axle>
 [[gnu::always_inline]] inline double brake_accel(const Envelope& env, const Envelope::Rows& rows,
                                                  double u, double k, const Road& road,
-                                                 const InverseMass& inv) {
+                                                 const InverseMass& inv,
+                                                 AxleHints* hints = nullptr) {
   if constexpr (Axle) {
-    return axle_brake_accel(env, u, k, road);
+    return axle_brake_accel(env, u, k, road, hints);
   } else {
     const PathForces f = path_forces(env, rows, u, k, road);
     return (f.grip_left_n + f.resistance_n) * inv.m;
@@ -290,12 +292,15 @@ class Sweeper {
     const double u0 = std::max(u, 0.0);
     const double k = k0_ + dk_ * x;
     return 2.0 * (forward_ ? drive_accel<Axle>(env_, rows_, u0, k, road_, trimmed_, drive_share_,
-                                               inv_mass_)
-                           : brake_accel<Axle>(env_, rows_, u0, k, road_, inv_mass_));
+                                               inv_mass_, &hints_)
+                           : brake_accel<Axle>(env_, rows_, u0, k, road_, inv_mass_, &hints_));
   }
 
   /// The limit in u = v^2 a distance x into the step (linear between the step's ends).
   double cap(double x) const { return ulim0_ + dulim_ * x; }
+  /// Curvature and limit the same at both ends (an arc or a straight on its steady limit):
+  /// every stage held at the limit reads the same state.
+  bool uniform() const { return dk_ == 0.0 && dulim_ == 0.0; }
 
   /// Takes the integrated u at the next point: clips it to the limit and moves there.
   [[gnu::always_inline]] void end_step(double u) {
@@ -362,6 +367,8 @@ class Sweeper {
   Road road_{};
   int gear_ = 0;
   double cut_left_s_ = 0.0;  // drive cut still to run after an upshift
+  // The axle model's last answers, where its next solve starts (rhs is const: a cache).
+  mutable AxleHints hints_;
 };
 
 }  // namespace
@@ -408,29 +415,35 @@ template <class Sw, std::size_t N>
                                                             double x0, double h) {
   std::array<double, N> y1, k1, y2, k2, y3, k3, k4;
   std::array<bool, N> held{};
+  // A lane that starts on its limit with d(u)/dx > 0 on a uniform step (an arc taken at its
+  // limit, where the backward sweep spends most of its steps) holds every stage at the same
+  // limit in the same state: stages 2 to 4 are stage 1 again (the held stages' rhs reads the
+  // same u, curvature and road), and the step ends above the limit and is clipped to it.
+  std::array<bool, N> same{};
   const double xm = x0 + 0.5 * h, x1 = x0 + h;
   for (std::size_t c = 0; c < N; ++c) {
     const double top = s[c]->cap(x0);
     held[c] = u0[c] > top;
     y1[c] = held[c] ? top : u0[c];
     k1[c] = s[c]->rhs(y1[c], x0);
+    same[c] = u0[c] >= top && k1[c] > 0.0 && s[c]->uniform();
   }
   for (std::size_t c = 0; c < N; ++c) {
     const double y = y1[c] + 0.5 * h * k1[c], top = s[c]->cap(xm);
     held[c] |= y > top;
     y2[c] = std::min(y, top);
-    k2[c] = s[c]->rhs(y2[c], xm);
+    k2[c] = same[c] ? k1[c] : s[c]->rhs(y2[c], xm);
   }
   for (std::size_t c = 0; c < N; ++c) {
     const double y = y1[c] + 0.5 * h * k2[c], top = s[c]->cap(xm);
     held[c] |= y > top;
     y3[c] = std::min(y, top);
-    k3[c] = s[c]->rhs(y3[c], xm);
+    k3[c] = same[c] ? k1[c] : s[c]->rhs(y3[c], xm);
   }
   for (std::size_t c = 0; c < N; ++c) {
     const double y = y1[c] + h * k3[c], top = s[c]->cap(x1);
     held[c] |= y > top;
-    k4[c] = s[c]->rhs(std::min(y, top), x1);
+    k4[c] = same[c] ? k1[c] : s[c]->rhs(std::min(y, top), x1);
   }
   std::array<StageCheck, N> out;
   for (std::size_t c = 0; c < N; ++c) {
@@ -621,6 +634,7 @@ const Lap& LapSolver::add_channels(const Envelope& env, const Mesh& mesh) {
   // usage worked from it would show an axle beyond its grip that the solver never used.
   const InverseMass inv{1.0 / m, 1.0 / env.effective_mass_kg()};
   const bool axle_model = car.model == VehicleModel::axle;
+  AxleHints drive_hints, brake_hints;  // from point to point, as in the sweeps
   const auto point_accel = [&](std::size_t i) {
     std::size_t lo = i, hi = i;
     if (i > 0)
@@ -641,12 +655,12 @@ const Lap& LapSolver::add_channels(const Envelope& env, const Mesh& mesh) {
     if (diff >= 0.0) {
       const bool trims = env.trims(k) && mesh.trim_zone[i];
       const Envelope::Rows rows = env.rows(trims);
-      return std::min(diff, axle_model
-                                ? drive_accel<true>(env, rows, u, k, road, trims, 1.0, inv)
-                                : drive_accel<false>(env, rows, u, k, road, trims, 1.0, inv));
+      return std::min(
+          diff, axle_model ? drive_accel<true>(env, rows, u, k, road, trims, 1.0, inv, &drive_hints)
+                           : drive_accel<false>(env, rows, u, k, road, trims, 1.0, inv));
     }
     const Envelope::Rows rows = env.rows(false);
-    return std::max(diff, -(axle_model ? brake_accel<true>(env, rows, u, k, road, inv)
+    return std::max(diff, -(axle_model ? brake_accel<true>(env, rows, u, k, road, inv, &brake_hints)
                                        : brake_accel<false>(env, rows, u, k, road, inv)));
   };
   for (std::size_t i = 0; i < n; ++i) {

@@ -38,9 +38,17 @@ AxleUsage axle_usage(const Envelope& env, const AxleLoads& loads, double fx_n, d
 ///    saturates neither axle at the loads the deceleration itself sets.
 /// The rotating parts' inertia (m_eff = m (1 + inertia_factor)) counts only where the engine
 /// limits; at the tyres' limit the road force acts on m (Gillespie, ch. 2-3).
+/// `hints` (optional): each axle's last answer, where the next solve starts (a sweep's
+/// neighbouring stages and steps are close); updated on return. Without it the solve starts
+/// cold. Either way the answer is the same fixed point, to its 1e-9 m/s^2 tolerance.
+struct AxleHints {
+  double front = 0.0, rear = 0.0;  // m/s^2; 0: none yet
+  bool rear_binds = false;         // braking: the rear axle set the last answer
+};
 double axle_drive_accel(const Envelope& env, double u, double abs_curvature, const Road& road,
-                        double drive_n, bool trimmed);
-double axle_brake_accel(const Envelope& env, double u, double abs_curvature, const Road& road);
+                        double drive_n, bool trimmed, AxleHints* hints = nullptr);
+double axle_brake_accel(const Envelope& env, double u, double abs_curvature, const Road& road,
+                        AxleHints* hints = nullptr);
 
 /// Steady state at speed v (a_x = 0): the larger axle usage when the tyres carry the lateral
 /// demand and the longitudinal force that holds v (minus 1: <= 0 is feasible).
