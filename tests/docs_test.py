@@ -33,7 +33,7 @@ def named(word, text):
     return re.search(r"(?<![\w/*-])" + re.escape(word) + r"(?![\w/*-])", text) is not None
 
 
-code_dirs = ["src", "include", "tests", "tools", "examples", "cmake"]
+code_dirs = ["src", "include", "tests", "tools", "examples", "cmake", "python"]
 code_files = [p for d in code_dirs for p in (root / d).rglob("*") if p.is_file()
               and p.suffix in {".cpp", ".hpp", ".h", ".sh", ".py", ".txt", ".cmake", ".in", ""}
               and p.name != "docs_test.py"]

@@ -87,6 +87,20 @@ if grep -rnE '^#include <(boost/|yaml-cpp/|sqlite3|ceres/)' include; then
   echo "FAIL: a public header includes Boost, yaml-cpp, SQLite or Ceres (above); they are private to the library"
   fail=1
 fi
+# The Python module (python/) is a program over the library's public API: it includes the
+# umbrella header and no single layer, and pybind11 and Python's headers appear nowhere else.
+for f in python/*.cpp; do
+  [ -e "$f" ] || continue
+  checked=$((checked + 1))
+  if grep -nE '^#include "lapwing/' "$f" | grep -v '"lapwing/lapwing.hpp"'; then
+    echo "FAIL: $f includes a layer's header; the module uses the umbrella lapwing/lapwing.hpp"
+    fail=1
+  fi
+done
+if grep -rnE '^#include [<"](pybind11/|Python\.h)' src include tests examples tools; then
+  echo "FAIL: pybind11 or Python's headers outside python/ (above)"
+  fail=1
+fi
 [ "$checked" -gt 40 ] || { echo "FAIL: only $checked files checked"; fail=1; }
 echo "layers: $checked files checked"
 exit $fail

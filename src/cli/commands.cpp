@@ -66,11 +66,6 @@ namespace lapwing::cli {
 
 namespace {
 
-// The air overrides parsed against their quantities.
-struct AirOverride {
-  std::optional<double> altitude_m, temperature_k, pressure_pa, humidity;
-};
-
 // The units a quantity accepts, as a list ("m", "mm", ...).
 std::vector<std::string> unit_names(Quantity q) {
   std::vector<std::string> out;
@@ -126,14 +121,6 @@ AirOverride parse_air(const AirOptions& o) {
                        AirSpec::temperature_range),
           option_value(o.pressure, "--pressure", Quantity::pressure, AirSpec::pressure_range),
           option_value(o.humidity, "--humidity", Quantity::fraction, AirSpec::humidity_range)};
-}
-
-AirSpec apply(AirSpec spec, const AirOverride& o) {
-  if (o.altitude_m) spec.altitude_m = *o.altitude_m;
-  if (o.temperature_k) spec.temperature_k = o.temperature_k;
-  if (o.pressure_pa) spec.pressure_pa = o.pressure_pa;
-  if (o.humidity) spec.relative_humidity = *o.humidity;
-  return spec;
 }
 
 // The files a command loads, and where each of their values stands: an error the library finds
@@ -320,30 +307,6 @@ std::vector<PlannedFile> compare_files(const Car& car, const std::vector<std::si
     }
   }
   return out;
-}
-
-std::size_t pick_config(const Car& car, const std::string& name) {
-  if (name.empty()) return 0;
-  const int i = car.config_index(name);
-  if (i < 0) {
-    const std::vector<std::string> names = car.config_names();
-    std::string list;
-    for (const auto& n : names) list += (list.empty() ? "" : ", ") + n;
-    // The nearest name by spelling, else the one name that starts with what was typed.
-    std::string near = closest(name, names);
-    if (near.empty()) {
-      std::vector<std::string> starting;
-      for (const auto& n : names)
-        if (n.rfind(name, 0) == 0) starting.push_back(n);
-      if (starting.size() == 1) near = starting.front();
-    }
-    throw InputError(car.file, Mark{},
-                     "no config named '" + name + "'" +
-                         (near.empty() ? "" : "; did you mean '" + near + "'?") + " (the car has " +
-                         list + ")",
-                     "aero.configs");
-  }
-  return static_cast<std::size_t>(i);
 }
 
 }  // namespace

@@ -623,4 +623,28 @@ std::string edited_car_text(const std::string& file, const std::vector<CarValueE
   return out;
 }
 
+std::size_t pick_config(const Car& car, const std::string& name) {
+  if (name.empty()) return 0;
+  const int i = car.config_index(name);
+  if (i < 0) {
+    const std::vector<std::string> names = car.config_names();
+    std::string list;
+    for (const auto& n : names) list += (list.empty() ? "" : ", ") + n;
+    // The nearest name by spelling, else the one name that starts with what was typed.
+    std::string near = closest(name, names);
+    if (near.empty()) {
+      std::vector<std::string> starting;
+      for (const auto& n : names)
+        if (n.rfind(name, 0) == 0) starting.push_back(n);
+      if (starting.size() == 1) near = starting.front();
+    }
+    throw InputError(car.file, Mark{},
+                     "no config named '" + name + "'" +
+                         (near.empty() ? "" : "; did you mean '" + near + "'?") + " (the car has " +
+                         list + ")",
+                     "aero.configs");
+  }
+  return static_cast<std::size_t>(i);
+}
+
 }  // namespace lapwing

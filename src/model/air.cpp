@@ -42,6 +42,14 @@ std::optional<Violation> AirSpec::validate() const {
       .result();
 }
 
+AirSpec apply(AirSpec spec, const AirOverride& o) {
+  if (o.altitude_m) spec.altitude_m = *o.altitude_m;
+  if (o.temperature_k) spec.temperature_k = o.temperature_k;
+  if (o.pressure_pa) spec.pressure_pa = o.pressure_pa;
+  if (o.humidity) spec.relative_humidity = *o.humidity;
+  return spec;
+}
+
 Air make_air(const AirSpec& spec) {
   require_valid(spec.validate(), "air");
   const StandardAtmosphere isa = standard_atmosphere(spec.altitude_m);

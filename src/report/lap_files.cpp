@@ -1,5 +1,9 @@
 #include "lapwing/report/lap_files.hpp"
 
+#include <array>
+#include <iterator>
+#include <utility>
+
 #include "lapwing/base/units.hpp"
 #include "lapwing/base/version.hpp"
 #include "lapwing/io/csv_writer.hpp"
@@ -150,56 +154,90 @@ std::string summary_json(const std::string& car_name, const std::vector<LapSumma
 
 namespace {
 
-// trace-TRACK-CONFIG.csv: one row per mesh point.
+// trace-TRACK-CONFIG.csv: one row per mesh point, its columns the trace's channels (below).
 struct TraceRow {
   const Lap& lap;
   const Mesh& mesh;
   std::size_t i;
 };
 using TraceColumn = CsvColumn<TraceRow>;
-constexpr TraceColumn trace_columns[] = {
-    {"distance_m", [](std::string& o, const TraceRow& r) { csv_number(o, r.mesh.s_m[r.i]); }},
-    {"time_s", [](std::string& o, const TraceRow& r) { csv_number(o, r.lap.time_s[r.i]); }},
-    {"x_m", [](std::string& o, const TraceRow& r) { csv_number(o, r.mesh.x_m[r.i]); }},
-    {"y_m", [](std::string& o, const TraceRow& r) { csv_number(o, r.mesh.y_m[r.i]); }},
-    {"curvature_1pm",
-     [](std::string& o, const TraceRow& r) { csv_number(o, r.mesh.curvature_1pm[r.i]); }},
-    {"speed_kph",
-     [](std::string& o, const TraceRow& r) { csv_number(o, units::to_kph(r.lap.speed_mps[r.i])); }},
-    {"long_accel_g",
-     [](std::string& o, const TraceRow& r) {
-       csv_number(o, r.lap.long_accel_mps2[r.i] / units::g0);
-     }},
-    {"lat_accel_g",
-     [](std::string& o, const TraceRow& r) {
-       csv_number(o, r.lap.lat_accel_mps2[r.i] / units::g0);
-     }},
-    {"gear", [](std::string& o, const TraceRow& r) { o += std::to_string(r.lap.gear[r.i]); }},
-    {"rpm", [](std::string& o,
-               const TraceRow& r) { csv_number(o, r.lap.engine_radps[r.i] / units::rpm); }},
-    {"phase", [](std::string& o, const TraceRow& r) { o += phase_name(r.lap.phase[r.i]); }},
-    {"drag_N", [](std::string& o, const TraceRow& r) { csv_number(o, r.lap.drag_n[r.i]); }},
-    {"downforce_N",
-     [](std::string& o, const TraceRow& r) { csv_number(o, r.lap.downforce_n[r.i]); }},
-    {"front_load_N",
-     [](std::string& o, const TraceRow& r) { csv_number(o, r.lap.front_load_n[r.i]); }},
-    {"rear_load_N",
-     [](std::string& o, const TraceRow& r) { csv_number(o, r.lap.rear_load_n[r.i]); }},
-    {"front_share",
-     [](std::string& o, const TraceRow& r) { csv_number(o, r.lap.front_share[r.i]); }},
-    // Empty where the car has no downforce (the share of no load is undefined).
-    {"aero_balance_eff",
-     [](std::string& o, const TraceRow& r) {
-       csv_number_or_empty(o, r.lap.aero_balance_eff[r.i]);
-     }},
-    {"front_usage",
-     [](std::string& o, const TraceRow& r) { csv_number(o, r.lap.front_usage[r.i]); }},
-    {"rear_usage", [](std::string& o, const TraceRow& r) { csv_number(o, r.lap.rear_usage[r.i]); }},
-    {"balance_index",
-     [](std::string& o, const TraceRow& r) {
-       csv_number(o, r.lap.front_usage[r.i] - r.lap.rear_usage[r.i]);
-     }},
+
+double number_at(const TraceChannel& c, const TraceRow& r) {
+  return c.number(r.lap, r.mesh, r.i);
+}
+
+// The channels, in the file's order: one list for the CSV's header and rows and for
+// trace_channels()' users (the Python module's arrays).
+constexpr TraceChannel trace_channel_list[] = {
+    {"distance_m", TraceChannel::Kind::number,
+     [](const Lap&, const Mesh& m, std::size_t i) { return m.s_m[i]; }},
+    {"time_s", TraceChannel::Kind::number,
+     [](const Lap& l, const Mesh&, std::size_t i) { return l.time_s[i]; }},
+    {"x_m", TraceChannel::Kind::number,
+     [](const Lap&, const Mesh& m, std::size_t i) { return m.x_m[i]; }},
+    {"y_m", TraceChannel::Kind::number,
+     [](const Lap&, const Mesh& m, std::size_t i) { return m.y_m[i]; }},
+    {"curvature_1pm", TraceChannel::Kind::number,
+     [](const Lap&, const Mesh& m, std::size_t i) { return m.curvature_1pm[i]; }},
+    {"speed_kph", TraceChannel::Kind::number,
+     [](const Lap& l, const Mesh&, std::size_t i) { return units::to_kph(l.speed_mps[i]); }},
+    {"long_accel_g", TraceChannel::Kind::number,
+     [](const Lap& l, const Mesh&, std::size_t i) { return l.long_accel_mps2[i] / units::g0; }},
+    {"lat_accel_g", TraceChannel::Kind::number,
+     [](const Lap& l, const Mesh&, std::size_t i) { return l.lat_accel_mps2[i] / units::g0; }},
+    {"gear", TraceChannel::Kind::integer,
+     [](const Lap& l, const Mesh&, std::size_t i) { return static_cast<double>(l.gear[i]); }},
+    {"rpm", TraceChannel::Kind::number,
+     [](const Lap& l, const Mesh&, std::size_t i) { return l.engine_radps[i] / units::rpm; }},
+    {"phase", TraceChannel::Kind::phase,
+     [](const Lap& l, const Mesh&, std::size_t i) { return static_cast<double>(l.phase[i]); }},
+    {"drag_N", TraceChannel::Kind::number,
+     [](const Lap& l, const Mesh&, std::size_t i) { return l.drag_n[i]; }},
+    {"downforce_N", TraceChannel::Kind::number,
+     [](const Lap& l, const Mesh&, std::size_t i) { return l.downforce_n[i]; }},
+    {"front_load_N", TraceChannel::Kind::number,
+     [](const Lap& l, const Mesh&, std::size_t i) { return l.front_load_n[i]; }},
+    {"rear_load_N", TraceChannel::Kind::number,
+     [](const Lap& l, const Mesh&, std::size_t i) { return l.rear_load_n[i]; }},
+    {"front_share", TraceChannel::Kind::number,
+     [](const Lap& l, const Mesh&, std::size_t i) { return l.front_share[i]; }},
+    // Undefined (empty in the file) where the car has no downforce: a share of no load.
+    {"aero_balance_eff", TraceChannel::Kind::number_or_empty,
+     [](const Lap& l, const Mesh&, std::size_t i) { return l.aero_balance_eff[i]; }},
+    {"front_usage", TraceChannel::Kind::number,
+     [](const Lap& l, const Mesh&, std::size_t i) { return l.front_usage[i]; }},
+    {"rear_usage", TraceChannel::Kind::number,
+     [](const Lap& l, const Mesh&, std::size_t i) { return l.rear_usage[i]; }},
+    {"balance_index", TraceChannel::Kind::number,
+     [](const Lap& l, const Mesh&, std::size_t i) { return l.front_usage[i] - l.rear_usage[i]; }},
 };
+
+// A channel's field in the CSV: full precision; the gear a whole number; the phase its word.
+template <std::size_t I>
+void write_channel(std::string& o, const TraceRow& r) {
+  const TraceChannel& c = trace_channel_list[I];
+  const double v = number_at(c, r);
+  switch (c.kind) {
+    case TraceChannel::Kind::number:
+      csv_number(o, v);
+      break;
+    case TraceChannel::Kind::number_or_empty:
+      csv_number_or_empty(o, v);
+      break;
+    case TraceChannel::Kind::integer:
+      o += std::to_string(static_cast<long long>(v));
+      break;
+    case TraceChannel::Kind::phase:
+      o += phase_name(r.lap.phase[r.i]);
+      break;
+  }
+}
+template <std::size_t... I>
+constexpr std::array<TraceColumn, sizeof...(I)> make_trace_columns(std::index_sequence<I...>) {
+  return {{{trace_channel_list[I].name, &write_channel<I>}...}};
+}
+constexpr auto trace_columns =
+    make_trace_columns(std::make_index_sequence<std::size(trace_channel_list)>{});
 
 // corners.csv: one row per corner of every result.
 struct CornerRow {
@@ -234,6 +272,10 @@ constexpr CornerColumn corner_columns[] = {
 };
 
 }  // namespace
+
+std::span<const TraceChannel> trace_channels() {
+  return trace_channel_list;
+}
 
 void trace_csv(const Lap& lap, const Mesh& mesh, const OutputSink& sink) {
   CsvWriter<TraceRow> w(trace_columns);

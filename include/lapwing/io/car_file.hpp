@@ -44,6 +44,11 @@ void set_car_value(Document& doc, std::string_view key_path, const std::string& 
 /// digits. InputError for a path the file does not hold, or a value that is not a number.
 std::string edited_car_text(const std::string& file, const std::vector<CarValueEdit>& edits);
 
+/// The index of the config named `name` in `car` (the first config when `name` is empty). An
+/// unknown name is an InputError of the car's file (key path aero.configs) with the nearest
+/// name ("did you mean") and the list of the car's configs.
+std::size_t pick_config(const Car& car, const std::string& name);
+
 /// The car alone.
 Car load_car(const std::string& file);
 

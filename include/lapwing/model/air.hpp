@@ -42,6 +42,14 @@ struct AirSpec {
   std::optional<Violation> validate() const;
 };
 
+/// Values that replace a spec's (the command line's air options, the Python module's `air`),
+/// in SI; each one given replaces the spec's value, the others stay.
+struct AirOverride {
+  std::optional<double> altitude_m, temperature_k, pressure_pa, humidity;
+};
+/// `spec` with the values `o` gives in place of its own.
+AirSpec apply(AirSpec spec, const AirOverride& o);
+
 struct Air {
   double altitude_m;
   double temperature_k;

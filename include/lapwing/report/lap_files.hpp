@@ -3,7 +3,9 @@
 #pragma once
 
 #include <optional>
+#include <span>
 #include <string>
+#include <string_view>
 #include <vector>
 
 #include "lapwing/io/json.hpp"
@@ -26,6 +28,20 @@ void optional_field(JsonWriter& w, std::string_view key, const std::optional<dou
 void write_balance(JsonWriter& w, const BalanceSummary& b);
 /// The "window" object inside "balance": the balance window and how the lap kept to it.
 void write_balance_window(JsonWriter& w, const BalanceWindowResult& r);
+
+/// One channel of a lap's trace: a column of trace-<track>-<config>.csv, by its name there, and
+/// its value at mesh point i in the file's units. `number` gives every kind's value: the gear as a
+/// whole number, the phase as its enumerator (phase_name() gives its word), NaN where a
+/// `number_or_empty` channel is undefined (its field is empty in the file).
+struct TraceChannel {
+  enum class Kind { number, number_or_empty, integer, phase };
+  std::string_view name;
+  Kind kind;
+  double (*number)(const Lap& lap, const Mesh& mesh, std::size_t i);
+};
+/// The trace's channels in the file's order (the file's header): one list, for the CSV's header
+/// and rows and for a program that wants the trace's columns without the file.
+std::span<const TraceChannel> trace_channels();
 
 /// trace-<track>-<config>.csv, one row per mesh point (README, "Output files"), handed to `sink`
 /// in pieces of about 64 KB (never held whole).

@@ -1,0 +1,376 @@
+// The `lapwing` Python module (README, "In Python"): the library's public API (the umbrella
+// header) bound with pybind11. Results come back as the output files hold them: summary,
+// compare and trade as the dicts their JSON files parse to (made by the report layer's own
+// writers, read back by Python's json module, so the two cannot differ), the trace as one NumPy
+// array per column of the trace CSV (the report layer's list of channels). Laps are solved with
+// the GIL released, so that Python threads run laps in parallel.
+#include <pybind11/numpy.h>
+#include <pybind11/pybind11.h>
+#include <pybind11/stl.h>
+
+#include <cmath>
+#include <memory>
+#include <optional>
+#include <string>
+#include <utility>
+#include <vector>
+
+#include "lapwing/lapwing.hpp"
+
+namespace py = pybind11;
+
+namespace lapwing::python {
+
+namespace {
+
+// A car as read from its file: the parsed file (with_values edits a copy of it, as `sweep --set`
+// does), the car, and where each value stands (to place the errors a lap finds later).
+struct CarHandle {
+  std::shared_ptr<const Document> doc;
+  std::shared_ptr<const CarFile> file;
+  const Car& car() const { return file->car; }
+};
+
+struct TrackHandle {
+  std::shared_ptr<const TrackFile> file;
+  const Track& track() const { return file->track; }
+};
+
+// A solved lap as Python sees it.
+struct PyLap {
+  double lap_time_s = 0.0;
+  py::dict summary;
+  py::dict trace;
+  py::list corners;
+};
+
+py::object parse_json(const std::string& text) {
+  return py::module_::import("json").attr("loads")(text);
+}
+
+// Runs `work` (no Python object may be touched in it) with the GIL released; an error the
+// library finds in a loaded file (InvalidInput) is raised at its place in that file, as the
+// command line reports it.
+template <typename Work>
+auto solve_unlocked(const SourceMaps& maps, Work&& work) {
+  py::gil_scoped_release unlocked;
+  try {
+    return work();
+  } catch (const InvalidInput& e) {
+    throw maps.error(e);
+  }
+}
+
+SourceMaps maps_of(const CarHandle& car, const std::vector<TrackHandle>& tracks) {
+  SourceMaps maps;
+  maps.add(car.file->sources);
+  for (const auto& t : tracks) maps.add(t.file->sources);
+  return maps;
+}
+
+// A value of a dict as the text a file would hold: a string as given ("650 kg"), a number in
+// the key's default unit (full precision).
+std::string value_text(const py::handle& v, const std::string& what) {
+  if (py::isinstance<py::str>(v)) return v.cast<std::string>();
+  if (py::isinstance<py::bool_>(v) ||
+      !(py::isinstance<py::int_>(v) || py::isinstance<py::float_>(v)))
+    throw py::type_error(what + ": give a number or a string with a unit, not " +
+                         std::string(py::str(py::type::of(v).attr("__name__"))));
+  const double x = v.cast<double>();
+  if (!std::isfinite(x))
+    throw py::value_error(what + ": " + std::string(py::str(v)) + " is not finite");
+  return format_number(x);
+}
+
+// model=None keeps the car file's; "axle" or "point-mass" replaces it (as --model does).
+Car with_model(Car car, const std::optional<std::string>& model) {
+  if (!model) return car;
+  if (*model == "axle")
+    car.model = VehicleModel::axle;
+  else if (*model == "point-mass")
+    car.model = VehicleModel::point_mass;
+  else
+    throw py::value_error("model: '" + *model + "' is not one of axle | point-mass");
+  return car;
+}
+
+// air={"altitude": ..., "temperature": ..., "pressure": ..., "humidity": ...}: each replaces the
+// track's value, as --altitude, --temperature, --pressure and --humidity do; a number is in the
+// key's default unit (m, C, Pa, a fraction), a string may carry a unit ("31 C", "985 hPa").
+AirOverride parse_air(const std::optional<py::dict>& air) {
+  AirOverride o;
+  if (!air) return o;
+  struct Key {
+    const char* name;
+    Quantity q;
+    std::optional<double> AirOverride::*field;
+  };
+  const Key keys[] = {{"altitude", Quantity::length, &AirOverride::altitude_m},
+                      {"temperature", Quantity::temperature, &AirOverride::temperature_k},
+                      {"pressure", Quantity::pressure, &AirOverride::pressure_pa},
+                      {"humidity", Quantity::fraction, &AirOverride::humidity}};
+  for (const auto& [k, v] : *air) {
+    const std::string name = py::str(k);
+    const Key* key = nullptr;
+    for (const Key& c : keys)
+      if (name == c.name) key = &c;
+    if (!key)
+      throw py::value_error("air: unknown key '" + name +
+                            "' (keys: altitude, temperature, pressure, humidity)");
+    const std::string text = value_text(v, "air['" + name + "']");
+    std::string error;
+    const auto si = parse_quantity(text, key->q, error);
+    if (!si) throw py::value_error("air['" + name + "']: " + error);
+    o.*(key->field) = *si;
+  }
+  return o;
+}
+
+// The circuits of `tracks` in the air asked for (an air value out of range: InvalidInput of
+// "air", as make_air says it).
+std::vector<Circuit> lay_out_all(const std::vector<TrackHandle>& tracks, const AirOverride& air) {
+  std::vector<Circuit> out;
+  for (const auto& t : tracks)
+    out.push_back(lay_out(t.track(), make_air(apply(t.track().air, air))));
+  return out;
+}
+
+std::vector<std::size_t> pick_configs(const Car& car,
+                                      const std::optional<std::vector<std::string>>& names) {
+  std::vector<std::size_t> out;
+  if (!names)
+    for (std::size_t i = 0; i < car.configs.size(); ++i) out.push_back(i);
+  else
+    for (const auto& n : *names) out.push_back(pick_config(car, n));
+  return out;
+}
+
+CarHandle read_car(const Document& doc) {
+  return {std::make_shared<const Document>(doc),
+          std::make_shared<const CarFile>(read_car_document(doc))};
+}
+
+CarHandle load_car_file(const std::string& path) {
+  return read_car(load_document(path));
+}
+
+TrackHandle load_track_file(const std::string& path) {
+  return {std::make_shared<const TrackFile>(read_track_file(path))};
+}
+
+// car.with_values({"mass": 650, "aero.configs.medium.cla": 3.8}): each key set in the car file's
+// text and the car read again from it, as `sweep --set` makes each point's car, so the keys,
+// units and rules are the file's.
+CarHandle with_values(const CarHandle& car, const py::dict& values) {
+  Document doc = *car.doc;
+  for (const auto& [k, v] : values) {
+    const std::string key = py::str(k);
+    set_car_value(doc, car_key_path(doc, key), value_text(v, key));
+  }
+  return read_car(doc);
+}
+
+// What `run` computes for one lap: the lap, its summary with the data's verdict (a poor one is a
+// warning too), and summary.json's text of it.
+struct SolvedLap {
+  LapRun run;
+  Circuit circuit;
+  std::string summary_json;
+};
+
+PyLap run(const CarHandle& car_handle, const TrackHandle& track_handle,
+          const std::optional<std::string>& config, const std::optional<std::string>& model,
+          const std::optional<py::dict>& air_dict) {
+  const Car car = with_model(car_handle.car(), model);
+  const std::size_t ci = pick_config(car, config.value_or(""));
+  const AirOverride air = parse_air(air_dict);
+  const std::vector<TrackHandle> tracks{track_handle};
+  SolvedLap solved = solve_unlocked(maps_of(car_handle, tracks), [&] {
+    std::vector<Circuit> circuits = lay_out_all(tracks, air);
+    SolvedLap s{{}, std::move(circuits.front()), {}};
+    const ConfiguredCar configured = car.configured(ci);
+    s.run = run_lap(configured, s.circuit);
+    const TrackQuality quality = assess_track(s.circuit, smoothing_variants(s.circuit), configured,
+                                              car.configs[ci].name, s.run.summary.lap_time_s);
+    if (quality.verdict == Verdict::poor)
+      s.run.summary.warnings.push_back(quality_warning(quality));
+    s.summary_json = summary_json(car.name, {s.run.summary}, {quality});
+    return s;
+  });
+
+  PyLap out;
+  out.lap_time_s = solved.run.summary.lap_time_s;
+  out.summary = parse_json(solved.summary_json)["results"][py::int_(0)];
+  out.corners = out.summary["corners"];
+  const Lap& lap = solved.run.lap;
+  const Mesh& mesh = solved.circuit.mesh;
+  const std::size_t n = mesh.size();
+  for (const TraceChannel& c : trace_channels()) {
+    const std::string name(c.name);
+    if (c.kind == TraceChannel::Kind::phase) {
+      py::list words;
+      for (std::size_t i = 0; i < n; ++i) words.append(std::string(phase_name(lap.phase[i])));
+      out.trace[name.c_str()] = py::module_::import("numpy").attr("array")(words);
+    } else if (c.kind == TraceChannel::Kind::integer) {
+      py::array_t<long long> a(static_cast<py::ssize_t>(n));
+      auto v = a.mutable_unchecked<1>();
+      for (std::size_t i = 0; i < n; ++i)
+        v(static_cast<py::ssize_t>(i)) = std::llround(c.number(lap, mesh, i));
+      out.trace[name.c_str()] = a;
+    } else {
+      py::array_t<double> a(static_cast<py::ssize_t>(n));
+      auto v = a.mutable_unchecked<1>();
+      for (std::size_t i = 0; i < n; ++i) v(static_cast<py::ssize_t>(i)) = c.number(lap, mesh, i);
+      out.trace[name.c_str()] = a;
+    }
+  }
+  return out;
+}
+
+py::object compare(const CarHandle& car_handle, const std::vector<TrackHandle>& tracks,
+                   const std::optional<std::vector<std::string>>& configs,
+                   const std::optional<std::string>& model, const std::optional<py::dict>& air_dict,
+                   unsigned threads) {
+  const Car car = with_model(car_handle.car(), model);
+  const std::vector<std::size_t> picked = pick_configs(car, configs);
+  const AirOverride air = parse_air(air_dict);
+  const std::string text = solve_unlocked(maps_of(car_handle, tracks), [&] {
+    const std::vector<Circuit> circuits = lay_out_all(tracks, air);
+    return compare_json(car, lapwing::compare(car, picked, circuits, threads), circuits);
+  });
+  return parse_json(text);
+}
+
+// A fraction given as a number (0.02) or as text with its unit ("2 %").
+double fraction(const py::handle& v, const std::string& what) {
+  if (!py::isinstance<py::str>(v)) {
+    value_text(v, what);  // refuses what is not a finite number
+    return v.cast<double>();
+  }
+  std::string error;
+  const auto x = parse_quantity(v.cast<std::string>(), Quantity::fraction, error);
+  if (!x) throw py::value_error(what + ": " + error);
+  return *x;
+}
+
+py::object trade(const CarHandle& car_handle, const std::vector<TrackHandle>& tracks,
+                 const std::optional<std::string>& config, const py::object& step,
+                 const py::object& span, int grid, const std::optional<std::string>& model,
+                 const std::optional<py::dict>& air_dict, unsigned threads) {
+  const Car car = with_model(car_handle.car(), model);
+  std::vector<std::size_t> configs;
+  if (config)
+    configs.push_back(pick_config(car, *config));
+  else
+    configs = pick_configs(car, std::nullopt);
+  TradeOptions options;
+  options.step = fraction(step, "step");
+  options.grid_span = fraction(span, "span");
+  options.grid_points = grid;
+  const AirOverride air = parse_air(air_dict);
+  const std::string text = solve_unlocked(maps_of(car_handle, tracks), [&] {
+    const std::vector<Circuit> circuits = lay_out_all(tracks, air);
+    return trade_json(car, lapwing::trade(car, configs, circuits, options, threads), circuits);
+  });
+  return parse_json(text);
+}
+
+std::string model_name(VehicleModel m) {
+  return m == VehicleModel::axle ? "axle" : "point-mass";
+}
+
+}  // namespace
+
+}  // namespace lapwing::python
+
+PYBIND11_MODULE(lapwing, m) {
+  using namespace lapwing::python;
+  namespace lw = lapwing;
+  m.doc() =
+      "lapwing: quasi-steady lap-time simulation with aero maps. Load a car and a track, run "
+      "laps, compare aero configs and trade downforce for drag; results as dicts (the JSON "
+      "files' content) and NumPy arrays (the trace's columns).";
+  m.attr("__version__") = lw::version();
+
+  // Bad input: the text the command line prints, FILE:LINE:COL: error: ... (key.path).
+  static py::exception<lw::InputError> input_error(m, "InputError", PyExc_ValueError);
+  // A car that cannot complete the track (exit 3 on the command line).
+  static py::exception<lw::CannotMove> cannot_move(m, "CannotMove", PyExc_RuntimeError);
+  py::register_exception_translator([](std::exception_ptr p) {
+    try {
+      if (p) std::rethrow_exception(p);
+    } catch (const lw::InputError& e) {
+      input_error(e.what());
+    } catch (const lw::InvalidInput& e) {  // of no file loaded (the air, the trade's options)
+      input_error(e.what());
+    } catch (const lw::CannotMove& e) {
+      cannot_move((std::string("the car cannot complete the track: ") + e.what()).c_str());
+    }
+  });
+
+  py::class_<CarHandle>(m, "Car", "A car read from its file (lapwing.load_car).")
+      .def_property_readonly("name", [](const CarHandle& c) { return c.car().name; })
+      .def_property_readonly("file", [](const CarHandle& c) { return c.car().file; })
+      .def_property_readonly(
+          "configs", [](const CarHandle& c) { return c.car().config_names(); },
+          "The aero configs' names, in the file's order.")
+      .def_property_readonly(
+          "model", [](const CarHandle& c) { return model_name(c.car().model); },
+          "The vehicle model the file asks for: 'axle' or 'point-mass'.")
+      .def_property_readonly("mass_kg", [](const CarHandle& c) { return c.car().mass_kg; })
+      .def("with_values", &with_values, py::arg("values"),
+           "A copy with values set by the car file's key paths, as `sweep --set` sets them: "
+           "{'mass': 650, 'aero.configs.medium.cla': 3.8, 'tyres.mu_lat': '1.8'}. A number is "
+           "in the key's default unit, a string may carry a unit ('650 kg'). Checked as the "
+           "file is: a bad key or value raises InputError.")
+      .def("__repr__", [](const CarHandle& c) {
+        return "<lapwing.Car '" + c.car().name + "' from " + c.car().file + ">";
+      });
+
+  py::class_<TrackHandle>(m, "Track", "A track read from its file (lapwing.load_track).")
+      .def_property_readonly("name", [](const TrackHandle& t) { return t.track().name; })
+      .def_property_readonly("file", [](const TrackHandle& t) { return t.track().file; })
+      .def_property_readonly(
+          "id", [](const TrackHandle& t) { return t.track().id; },
+          "The file's name without folder and extension.")
+      .def_property_readonly("closed", [](const TrackHandle& t) { return t.track().closed; })
+      .def_property_readonly("length_m", [](const TrackHandle& t) { return t.track().length_m(); })
+      .def_property_readonly(
+          "mesh_m", [](const TrackHandle& t) { return t.track().mesh_m; },
+          "The solver step the file asks for (adjusted to divide the length).")
+      .def("__repr__", [](const TrackHandle& t) {
+        return "<lapwing.Track '" + t.track().name + "' from " + t.track().file + ">";
+      });
+
+  py::class_<PyLap>(m, "Lap", "One solved lap (lapwing.run).")
+      .def_readonly("lap_time_s", &PyLap::lap_time_s)
+      .def_readonly("summary", &PyLap::summary,
+                    "The lap's result as summary.json holds it (one entry of its 'results').")
+      .def_readonly("trace", &PyLap::trace,
+                    "One NumPy array per column of the trace CSV, one entry per mesh point.")
+      .def_readonly("corners", &PyLap::corners, "The summary's corners (a list of dicts).")
+      .def("__repr__", [](const PyLap& l) {
+        return "<lapwing.Lap " + std::string(py::str(l.summary["track"])) + ", " +
+               std::string(py::str(l.summary["config"])) + ": " + lw::format_number(l.lap_time_s) +
+               " s>";
+      });
+
+  m.def("load_car", &load_car_file, py::arg("path"), "Reads and checks a car file.");
+  m.def("load_track", &load_track_file, py::arg("path"),
+        "Reads and checks a track file (and the data file it names).");
+  m.def("run", &run, py::arg("car"), py::arg("track"), py::arg("config") = py::none(),
+        py::arg("model") = py::none(), py::arg("air") = py::none(),
+        "One lap, as `lapwing run` solves it. config: a config's name (default the car's "
+        "first); model: 'axle' or 'point-mass' (default the car file's, axle unless it says "
+        "otherwise); air: {'altitude', 'temperature', 'pressure', 'humidity'} replacing the "
+        "track's values.");
+  m.def("compare", &compare, py::arg("car"), py::arg("tracks"), py::arg("configs") = py::none(),
+        py::arg("model") = py::none(), py::arg("air") = py::none(), py::arg("threads") = 0u,
+        "Every config (default all of the car's) round every track, as `lapwing compare`: "
+        "what compare.json holds, as a dict. threads=0: all cores.");
+  m.def("trade", &trade, py::arg("car"), py::arg("tracks"), py::arg("config") = py::none(),
+        py::arg("step") = 0.02, py::arg("span") = 0.15, py::arg("grid") = 9,
+        py::arg("model") = py::none(), py::arg("air") = py::none(), py::arg("threads") = 0u,
+        "The downforce-for-drag trade, as `lapwing trade`: what trade.json holds, as a dict. "
+        "step and span: fractions (0.02) or text ('2 %').");
+}

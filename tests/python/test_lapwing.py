@@ -1,0 +1,295 @@
+"""The Python module against the command line (README, "In Python").
+
+The command line is the reference: every result the module returns must be what `lapwing run`,
+`compare` and `trade` write for the same inputs, to the bit (both print numbers in their
+shortest round-trip form, so a parsed value equals the double the solver produced). Run by ctest
+(python.pytest) with
+  PYTHONPATH   the build's python/ folder (the module)
+  LAPWING_CLI  the command line binary
+  LAPWING_SOURCE_DIR  the repository (cars/, tracks/, tests/data/)
+"""
+import csv
+import json
+import math
+import os
+import pathlib
+import subprocess
+import sys
+import threading
+import time
+
+import numpy as np
+import pytest
+
+import lapwing
+
+SOURCE = pathlib.Path(os.environ["LAPWING_SOURCE_DIR"])
+CLI = os.environ["LAPWING_CLI"]
+CARS = sorted(p.relative_to(SOURCE).as_posix() for p in (SOURCE / "cars").glob("*.yaml"))
+TRACKS = sorted(p.relative_to(SOURCE).as_posix() for p in (SOURCE / "tracks").glob("*.yaml"))
+CIRCUITS = ["tracks/brannock-park.yaml", "tracks/saltmere-flats.yaml", "tracks/cairnholt.yaml"]
+
+
+@pytest.fixture(autouse=True)
+def in_source_dir(monkeypatch):
+    # Files are named relative to the repository, as the command line is given them: the error
+    # texts then name the same paths.
+    monkeypatch.chdir(SOURCE)
+
+
+def cli(*args, expect=0):
+    r = subprocess.run([CLI, *args], cwd=SOURCE, capture_output=True, text=True)
+    assert r.returncode == expect, f"lapwing {' '.join(args)}: exit {r.returncode}: {r.stderr}"
+    return r
+
+
+def cases():
+    """Every bundled car x track with the car's first config (what `run` laps by default), and
+    every config of every car on every track laid out from segments (the survey's fitted
+    centerline laps each config at about 0.5 s, its smoothing study included: the first
+    config stands for the rest)."""
+    out = []
+    for car in CARS:
+        configs = lapwing.load_car(str(SOURCE / car)).configs
+        for track in TRACKS:
+            survey = "survey" in track
+            for config in configs[:1] if survey else configs:
+                out.append((car, track, config))
+    return out
+
+
+CASES = cases()
+
+
+def cli_run(tmp_path, car, track, config, *extra):
+    out = tmp_path / "out"
+    cli("run", "--car", car, "--track", track, "--config", config, *extra, "--out", str(out))
+    summary = json.loads((out / "summary.json").read_text())
+    (trace_file,) = out.glob("trace-*.csv")
+    with open(trace_file, newline="") as f:
+        rows = list(csv.reader(f))
+    return summary, rows
+
+
+def assert_trace_equal(trace, rows):
+    header, body = rows[0], rows[1:]
+    # Named as the trace CSV's columns, in its order, one entry per row (mesh point).
+    assert list(trace) == header
+    for j, name in enumerate(header):
+        column = trace[name]
+        assert len(column) == len(body), name
+        if name == "phase":
+            assert list(column) == [r[j] for r in body]
+            continue
+        # An empty field (aero_balance_eff without downforce) is NaN in the array; every other
+        # field is the double itself (shortest round trip: exact, no tolerance).
+        want = np.array([float(r[j]) if r[j] != "" else math.nan for r in body])
+        got = column.astype(float)
+        same = (got == want) | (np.isnan(got) & np.isnan(want))
+        assert same.all(), f"{name}: first difference at row {int(np.argmin(same))}"
+
+
+@pytest.mark.parametrize("car,track,config", CASES, ids=["-".join(
+    pathlib.Path(x).stem for x in c) for c in CASES])
+def test_run_gives_the_cli_lap_summary_and_trace(tmp_path, car, track, config):
+    summary, rows = cli_run(tmp_path, car, track, config)
+    t = lapwing.load_track(track)
+    lap = lapwing.run(lapwing.load_car(car), t, config=config)
+    want = summary["results"][0]
+    assert lap.lap_time_s == want["lap_time_s"]
+    assert lap.summary == want
+    assert lap.corners == want["corners"]
+    assert_trace_equal(lap.trace, rows)
+    # One entry per mesh point: the length in whole steps of about `mesh` (README, "Track": the
+    # step is adjusted to divide the length), ends included.
+    points = max(2, round(t.length_m / t.mesh_m)) + 1
+    assert len(lap.trace["distance_m"]) == points
+    assert lap.trace["distance_m"][0] == 0.0
+    assert lap.trace["distance_m"][-1] == pytest.approx(t.length_m, rel=1e-12)
+
+
+def test_model_and_air_options_give_the_cli_lap(tmp_path):
+    car, track = "cars/caldra-gt.yaml", "tracks/cairnholt.yaml"
+    summary, rows = cli_run(tmp_path, car, track, "high_downforce", "--model", "point-mass",
+                            "--temperature", "31 C", "--altitude", "450 m")
+    lap = lapwing.run(lapwing.load_car(car), lapwing.load_track(track), config="high_downforce",
+                      model="point-mass", air={"temperature": "31 C", "altitude": 450})
+    assert lap.summary == summary["results"][0]
+    assert_trace_equal(lap.trace, rows)
+    # The options change the lap (a check that they were applied at all).
+    default = lapwing.run(lapwing.load_car(car), lapwing.load_track(track), "high_downforce")
+    assert default.lap_time_s != lap.lap_time_s
+
+
+def test_compare_returns_compare_json(tmp_path):
+    car = "cars/caldra-gt.yaml"
+    tracks = ["tracks/brannock-park.yaml", "tracks/skidpad.yaml"]
+    cli("compare", "--car", car, *[a for t in tracks for a in ("--track", t)], "--out",
+        str(tmp_path / "cmp"))
+    want = json.loads((tmp_path / "cmp" / "compare.json").read_text())
+    got = lapwing.compare(lapwing.load_car(car), [lapwing.load_track(t) for t in tracks])
+    assert got == want
+    # A list of configs, as --config NAME ...
+    one = lapwing.compare(lapwing.load_car(car), [lapwing.load_track(tracks[0])],
+                          configs=["high_downforce"])
+    assert [c["config"] for c in one["tracks"][0]["configs"]] == ["high_downforce"]
+
+
+def test_trade_returns_trade_json(tmp_path):
+    car, track = "cars/caldra-gt.yaml", "tracks/brannock-park.yaml"
+    cli("trade", "--car", car, "--track", track, "--config", "low_drag", "--grid", "3",
+        "--step", "3 %", "--out", str(tmp_path / "trd"))
+    want = json.loads((tmp_path / "trd" / "trade.json").read_text())
+    got = lapwing.trade(lapwing.load_car(car), [lapwing.load_track(track)], config="low_drag",
+                        grid=3, step="3 %")
+    assert got == want
+    assert lapwing.trade(lapwing.load_car(car), [lapwing.load_track(track)], config="low_drag",
+                         grid=3, step=0.03) == want
+
+
+BAD = sorted(p.relative_to(SOURCE).as_posix() for p in (SOURCE / "tests/data/bad").glob("*.yaml"))
+
+
+@pytest.mark.parametrize("bad", BAD, ids=[pathlib.Path(b).stem for b in BAD])
+def test_bad_input_raises_input_error_with_the_cli_message(bad):
+    # As tests/cli/cli_test.sh runs them: a bad car round Brannock Park, a bad track with the
+    # Pellion FR-2.
+    car, track = ((bad, "tracks/brannock-park.yaml") if pathlib.Path(bad).name.startswith("car-")
+                  else ("cars/pellion-fr2.yaml", bad))
+    expect = (SOURCE / bad).read_bytes().split(b"\n")[0].decode()
+    assert expect.startswith("# expect: ")
+    stderr = cli("run", "--car", car, "--track", track, expect=2).stderr.rstrip("\n")
+    with pytest.raises(lapwing.InputError) as e:
+        lapwing.run(lapwing.load_car(car), lapwing.load_track(track))
+    assert str(e.value) == stderr
+    assert expect[len("# expect: "):] in str(e.value)
+    assert isinstance(e.value, ValueError)
+
+
+def test_unknown_config_is_the_cli_error():
+    stderr = cli("run", "--car", "cars/caldra-gt.yaml", "--track", "tracks/skidpad.yaml",
+                 "--config", "high", expect=2).stderr.rstrip("\n")
+    with pytest.raises(lapwing.InputError) as e:
+        lapwing.run(lapwing.load_car("cars/caldra-gt.yaml"), lapwing.load_track(
+            "tracks/skidpad.yaml"), config="high")
+    assert str(e.value) == stderr
+
+
+def test_a_car_that_cannot_move_raises_cannot_move():
+    stderr = cli("run", "--car", "tests/data/cannot-move/weak-car.yaml", "--track",
+                 "tracks/acceleration.yaml", expect=3).stderr
+    with pytest.raises(lapwing.CannotMove) as e:
+        lapwing.run(lapwing.load_car("tests/data/cannot-move/weak-car.yaml"),
+                    lapwing.load_track("tracks/acceleration.yaml"))
+    # The command line says "lapwing: error: " before the same sentence.
+    assert stderr == "lapwing: error: " + str(e.value) + "\n"
+
+
+def test_with_values_matches_a_car_file_edited_by_hand(tmp_path):
+    text = (SOURCE / "cars/pellion-fr2.yaml").read_text()
+    lines = text.split("\n")
+    # By hand: the mass line, and medium's cla inside its one-line map.
+    (m,) = [i for i, l in enumerate(lines) if l.startswith("mass:")]
+    lines[m] = "mass: 650 kg"
+    (c,) = [i for i, l in enumerate(lines) if l.strip().startswith("medium:")]
+    assert "cla: 3.6" in lines[c]
+    lines[c] = lines[c].replace("cla: 3.6", "cla: 3.8")
+    edited = tmp_path / "pellion-fr2.yaml"
+    edited.write_text("\n".join(lines))
+    track = lapwing.load_track("tracks/cairnholt.yaml")
+    by_hand = lapwing.run(lapwing.load_car(str(edited)), track, "medium")
+    car = lapwing.load_car("cars/pellion-fr2.yaml")
+    set_ = car.with_values({"mass": 650, "aero.configs.medium.cla": 3.8})
+    assert set_.mass_kg == 650.0
+    in_python = lapwing.run(set_, track, "medium")
+    assert in_python.summary == by_hand.summary
+    assert in_python.lap_time_s != lapwing.run(car, track, "medium").lap_time_s
+    # Units in a string, as the file takes them: 650 kg = 1433.0047 lb (1 lb = 0.45359237 kg
+    # exactly, the international pound of 1959); 1e-4 kg covers the 4 decimals of the pounds.
+    lb = car.with_values({"mass": "1433.0047 lb"}).mass_kg
+    assert lb == pytest.approx(650.0, abs=1e-4)
+
+
+def test_with_values_refuses_what_the_file_refuses():
+    car = lapwing.load_car("cars/pellion-fr2.yaml")
+    with pytest.raises(lapwing.InputError, match=r"pellion-fr2\.yaml:\d+:\d+: error: unknown "
+                       r"key 'mas'; did you mean 'mass'\?"):
+        car.with_values({"mas": 650})
+    with pytest.raises(lapwing.InputError, match=r"out of range.*\(mass\)"):
+        car.with_values({"mass": -1})
+    with pytest.raises(lapwing.InputError, match=r"not a mass|unit"):
+        car.with_values({"mass": "650 m"})
+    with pytest.raises(TypeError):
+        car.with_values({"mass": [650]})
+
+
+def test_two_threads_give_the_answers_of_one():
+    car = lapwing.load_car("cars/caldra-gt.yaml")
+    tracks = [lapwing.load_track(t) for t in CIRCUITS]
+    jobs = [(t, c) for t in tracks for c in car.configs]
+    alone = [lapwing.run(car, t, c) for t, c in jobs]
+    barrier = threading.Barrier(2)
+    got = [None, None]
+
+    def work(k):
+        order = jobs if k == 0 else jobs[::-1]  # the two threads meet on different laps
+        barrier.wait()
+        laps = [lapwing.run(car, t, c) for t, c in order]
+        got[k] = laps if k == 0 else laps[::-1]
+
+    threads = [threading.Thread(target=work, args=(k,)) for k in (0, 1)]
+    for t in threads:
+        t.start()
+    for t in threads:
+        t.join()
+    for laps in got:
+        assert laps is not None
+        for a, b in zip(alone, laps):
+            assert a.summary == b.summary
+            for name in a.trace:
+                x, y = a.trace[name], b.trace[name]
+                assert (x == y).all() or (x.dtype.kind == "f" and np.array_equal(x, y, equal_nan=True))
+
+
+def test_a_python_thread_runs_while_a_lap_is_solved():
+    # The GIL is released while laps are solved: the main thread keeps running through the
+    # worker's call. It notes when it first and last sees the worker inside the call; that
+    # span must cover most of the call as the worker timed it. Were the GIL held, the main
+    # thread could run only before the call or, after it returns, for one switch interval
+    # (set to 0.5 ms here) before the worker notes that it is done: a span of about 0.5 ms
+    # against a call of 100 ms and more (three laps of each of three configs).
+    car = lapwing.load_car("cars/pellion-fr2.yaml")
+    tracks = [lapwing.load_track(t) for t in CIRCUITS]
+    state = {"start": None, "end": None}
+
+    def work():
+        state["start"] = time.perf_counter()
+        lapwing.compare(car, tracks, configs=["low", "medium", "high"], threads=1)
+        state["end"] = time.perf_counter()
+
+    interval = sys.getswitchinterval()
+    sys.setswitchinterval(0.0005)
+    try:
+        first = last = None
+        worker = threading.Thread(target=work)
+        worker.start()
+        while state["end"] is None:
+            if state["start"] is not None:
+                now = time.perf_counter()
+                first = now if first is None else first
+                last = now
+        worker.join()
+    finally:
+        sys.setswitchinterval(interval)
+    call = state["end"] - state["start"]
+    assert first is not None and last - first > 0.5 * call, (first, last, call)
+
+
+def test_air_and_model_are_checked():
+    car, track = lapwing.load_car("cars/caldra-gt.yaml"), lapwing.load_track("tracks/skidpad.yaml")
+    with pytest.raises(lapwing.InputError, match=r"^air: error: .*\(altitude\)$"):
+        lapwing.run(car, track, air={"altitude": "7 km"})
+    with pytest.raises(ValueError, match="unknown key 'altitud'"):
+        lapwing.run(car, track, air={"altitud": 100})
+    with pytest.raises(ValueError, match="not one of axle | point-mass"):
+        lapwing.run(car, track, model="bicycle")
