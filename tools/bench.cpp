@@ -127,23 +127,36 @@ int main(int argc, char** argv) {
     }
   }
   if (argc < 3) {
-    std::fprintf(stderr, "usage: lapwing_bench CAR TRACK [CONFIG] [--laps N] [--mesh M]\n");
+    std::fprintf(stderr,
+                 "usage: lapwing_bench CAR TRACK [CONFIG] [--laps N] [--mesh M] "
+                 "[--model point-mass|axle]\n");
     return 2;
   }
   std::string config;
   int laps = 200;
   double mesh_m = 0.5;
+  std::string model;  // empty: the car file's model
   for (int i = 3; i < argc; ++i) {
     const std::string a = argv[i];
     if (a == "--laps" && i + 1 < argc)
       laps = std::atoi(argv[++i]);
     else if (a == "--mesh" && i + 1 < argc)
       mesh_m = std::atof(argv[++i]);
+    else if (a == "--model" && i + 1 < argc)
+      model = argv[++i];
     else
       config = a;
   }
   try {
-    const Car car = load_car(argv[1]);
+    Car car = load_car(argv[1]);
+    // As `lapwing run --model`: the plain script of the speed ratio (tools/plain-script-lap.py)
+    // solves the point mass.
+    if (model == "point-mass")
+      car.model = VehicleModel::point_mass;
+    else if (model == "axle")
+      car.model = VehicleModel::axle;
+    else if (!model.empty())
+      throw std::runtime_error("--model: '" + model + "' is not one of point-mass | axle");
     const Track track = load_track(argv[2]);
     const int ci = config.empty() ? 0 : car.config_index(config);
     if (ci < 0) throw std::runtime_error("no config " + config);
