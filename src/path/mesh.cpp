@@ -271,9 +271,8 @@ Mesh build_mesh(const Track& track, double step_m) {
   m.closed = track.closed;
   m.length_m = length;
   m.step_m = length / static_cast<double>(n);
-  for (auto* v :
-       {&m.s_m, &m.x_m, &m.y_m, &m.heading_rad, &m.curvature_1pm, &m.elevation_m, &m.grade,
-        &m.cos_slope, &m.sin_slope, &m.bank_rad, &m.cos_bank, &m.sin_bank, &m.head_wind_mps})
+  for (auto* v : {&m.s_m, &m.x_m, &m.y_m, &m.heading_rad, &m.curvature_1pm, &m.elevation_m,
+                  &m.grade, &m.bank_rad})
     v->resize(n + 1);
   m.trim_zone.assign(n + 1, 1);
   const PathProfile* lapped = lapped_profile(track);
@@ -351,18 +350,13 @@ Mesh build_mesh(const Track& track, double step_m) {
     m.bank_rad[n] = m.bank_rad[0];
     m.trim_zone[n] = m.trim_zone[0];
   }
-  for (std::size_t i = 0; i <= n; ++i) {
-    // grade = tan(angle): cos = 1 / sqrt(1 + grade^2), sin = grade cos.
-    m.cos_slope[i] = 1.0 / std::sqrt(1.0 + m.grade[i] * m.grade[i]);
-    m.sin_slope[i] = m.grade[i] * m.cos_slope[i];
-    if (i > 0 && m.bank_rad[i] == m.bank_rad[i - 1]) {  // banks are piecewise constant
-      m.cos_bank[i] = m.cos_bank[i - 1];
-      m.sin_bank[i] = m.sin_bank[i - 1];
-    } else {
-      m.cos_bank[i] = std::cos(m.bank_rad[i]);
-      m.sin_bank[i] = std::sin(m.bank_rad[i]);
-    }
-    m.head_wind_mps[i] = track.wind ? track.wind->head_mps(m.heading_rad[i]) : 0.0;
+  // A flat track keeps no bank, and still air no head wind (Mesh: empty, read as 0).
+  if (std::all_of(m.bank_rad.begin(), m.bank_rad.end(), [](double b) { return b == 0.0; }))
+    m.bank_rad = {};
+  if (track.wind) {
+    m.head_wind_mps.resize(n + 1);
+    for (std::size_t i = 0; i <= n; ++i)
+      m.head_wind_mps[i] = track.wind->head_mps(m.heading_rad[i]);
   }
   return m;
 }

@@ -36,13 +36,36 @@ std::string_view phase_name(Phase p) {
 
 namespace {
 
-// The road at mesh point i (model/loads.hpp): the slope (Mesh keeps cos and sin: grade =
-// tan(angle)), the bank taken in the direction of the point's turn (the mesh's bank helps a
-// left turn: a right turn sees it negated; a straight as given) and the head wind.
-Road road_at(const Mesh& m, std::size_t i) {
-  const double turn = m.curvature_1pm[i] < 0.0 ? -1.0 : 1.0;
-  return {m.cos_slope[i], m.sin_slope[i], m.cos_bank[i], turn * m.sin_bank[i], m.head_wind_mps[i]};
-}
+// The road at mesh points (model/loads.hpp): the slope's cos and sin from the mesh's grade
+// (grade = tan(angle): cos = 1 / sqrt(1 + grade^2), sin = grade cos), the bank's taken in the
+// direction of the point's turn (the mesh's bank helps a left turn: a right turn sees it negated;
+// a straight as given) and the head wind. Grade and bank are piecewise constant along segments:
+// their cos and sin are worked again only where they differ from the last point read, not at
+// every point (a reader per pass, so that each keeps its own last point).
+class RoadReader {
+ public:
+  explicit RoadReader(const Mesh& m) : m_(m) {}
+  [[gnu::always_inline]] Road operator()(std::size_t i) {
+    const double grade = m_.grade[i], bank = m_.bank_at(i);
+    if (!(grade == grade_)) {
+      grade_ = grade;
+      cos_slope_ = 1.0 / std::sqrt(1.0 + grade * grade);
+      sin_slope_ = grade * cos_slope_;
+    }
+    if (!(bank == bank_)) {
+      bank_ = bank;
+      cos_bank_ = std::cos(bank);
+      sin_bank_ = std::sin(bank);
+    }
+    const double turn = m_.curvature_1pm[i] < 0.0 ? -1.0 : 1.0;
+    return {cos_slope_, sin_slope_, cos_bank_, turn * sin_bank_, m_.head_wind_at(i)};
+  }
+
+ private:
+  const Mesh& m_;
+  double grade_ = std::numeric_limits<double>::quiet_NaN(), cos_slope_ = 1.0, sin_slope_ = 0.0;
+  double bank_ = std::numeric_limits<double>::quiet_NaN(), cos_bank_ = 1.0, sin_bank_ = 0.0;
+};
 bool same_road(const Road& a, const Road& b) {
   return a.cos_slope == b.cos_slope && a.sin_slope == b.sin_slope && a.cos_bank == b.cos_bank &&
          a.sin_bank == b.sin_bank && a.head_wind_mps == b.head_wind_mps;
@@ -163,9 +186,10 @@ void steady_profile(const Envelope& env, const Mesh& mesh, SteadyProfile& p) {
   Road last_road{std::nan(""), 0.0, 0.0, 0.0, 0.0};
   bool last_trimmed = false;
   double v_engine = 0.0, v_grip = 0.0;
+  RoadReader road_at(mesh);
   for (std::size_t i = 0; i < n; ++i) {
     const double curv = std::abs(mesh.curvature_1pm[i]);
-    const Road road = road_at(mesh, i);
+    const Road road = road_at(i);
     const bool road_changed = !same_road(road, last_road);
     // The engine's limit is reached under full drive, where the straight-line trim applies.
     const bool trimmed = env.trims(curv) && mesh.trim_zone[i];
@@ -232,6 +256,7 @@ class Sweeper {
       : r_(out),
         env_(env),
         mesh_(mesh),
+        road_at_(mesh),
         limit_(limit),
         forward_(direction == Sweep::forward),
         ideal_(env.car().powertrain.ideal),
@@ -244,11 +269,16 @@ class Sweeper {
         v_(v_start) {
     r_.speed_mps.resize(n_);  // every point is written on the way
     r_.clipped.assign(n_, 0);
-    r_.cut.assign(n_, 0);
-    r_.gear.assign(n_, 0);
     r_.speed_mps[start] = v_;
-    gear_ = ideal_ ? 0 : env.gear(v_);
-    r_.gear[start] = gear_;
+    if (forward_) {
+      r_.cut.assign(n_, 0);
+      r_.gear.assign(n_, 0);
+      gear_ = ideal_ ? 0 : env.gear(v_);
+      r_.gear[start] = gear_;
+    } else {  // no shift under braking: the backward sweep keeps no cut or gear
+      r_.cut = {};
+      r_.gear = {};
+    }
   }
 
   /// Steps this sweep takes over the mesh from its start.
@@ -272,7 +302,7 @@ class Sweeper {
     // The limit in u = v^2 over the step, linear between its ends: no stage state goes above it.
     ulim0_ = limit_[i] * limit_[i];
     dulim_ = (limit_[j_] * limit_[j_] - ulim0_) / ds_;
-    road_ = road_at(mesh_, forward_ ? i : j_);
+    road_ = road_at_(forward_ ? i : j_);
     // Under drive, movable aero trims where the step starts on a straight enough piece (inside
     // a trim zone, where the track has them); under braking it does not.
     trimmed_ = forward_ && env_.trims(k0_) && mesh_.trim_zone[i];
@@ -342,14 +372,17 @@ class Sweeper {
       // The seam: point n-1 is point 0 again.
       r_.speed_mps[n_ - 1] = r_.speed_mps[0];
       r_.clipped[n_ - 1] = r_.clipped[0];
-      r_.cut[n_ - 1] = r_.cut[0];
-      r_.gear[n_ - 1] = r_.gear[0];
+      if (forward_) {
+        r_.cut[n_ - 1] = r_.cut[0];
+        r_.gear[n_ - 1] = r_.gear[0];
+      }
     }
   }
 
  private:
   const Envelope& env_;
   const Mesh& mesh_;
+  RoadReader road_at_;
   const std::vector<double>& limit_;
   const bool forward_, ideal_;
   const std::size_t n_, period_;
@@ -523,9 +556,7 @@ SweepResult sweep(const Envelope& env, const Mesh& mesh, Sweep direction,
 }
 
 Lap solve_lap(const Envelope& env, const Mesh& mesh, double start_speed_mps) {
-  LapSolver solver;
-  solver.solve(env, mesh, start_speed_mps);
-  return solver.take();
+  return LapSolver().solve_once(env, mesh, start_speed_mps);
 }
 
 const Lap& LapSolver::solve(const Envelope& env, const Mesh& mesh, double start_speed_mps) {
@@ -606,17 +637,36 @@ void LapSolver::speed_pass(const Envelope& env, const Mesh& mesh, double start_s
 const Lap& LapSolver::add_channels(const Envelope& env, const Mesh& mesh) {
   const std::size_t n = mesh.size();
   Lap& lap = lap_;
-  const SweepResult& fwd = forward_;
-  if (lap.speed_mps.size() != n || fwd.gear.size() != n)
+  if (lap.speed_mps.size() != n || forward_.gear.size() != n)
     throw std::logic_error("LapSolver::add_channels: no speed solve on this mesh");
   if (lap.has_channels) return lap;
+  // A copy: the forward sweep keeps its buffer for the next lap.
+  lap.gear.assign(forward_.gear.begin(), forward_.gear.end());
+  channels_pass(env, mesh);
+  return lap;
+}
+
+Lap LapSolver::solve_once(const Envelope& env, const Mesh& mesh, double start_speed_mps) {
+  speed_pass(env, mesh, start_speed_mps);
+  // The channels pass reads the forward sweep's gears alone: the lap takes them, and the sweeps'
+  // other buffers go before the channels are made (README, "Memory").
+  lap_.gear = std::move(forward_.gear);
+  forward_ = {};
+  backward_ = {};
+  channels_pass(env, mesh);
+  return take();
+}
+
+void LapSolver::channels_pass(const Envelope& env, const Mesh& mesh) {
+  const std::size_t n = mesh.size();
+  Lap& lap = lap_;
+  assert(lap.speed_mps.size() == n && lap.gear.size() == n);
   lap.has_channels = true;
   // Channels along the lap.
   const Car& car = env.car();
   const double m = env.mass_kg(), wb = car.wheelbase_m;
   lap.long_accel_mps2.resize(n);
   lap.lat_accel_mps2.resize(n);
-  lap.gear.resize(n);
   lap.engine_radps.resize(n);
   lap.drag_n.resize(n);
   lap.downforce_n.resize(n);
@@ -635,7 +685,7 @@ const Lap& LapSolver::add_channels(const Envelope& env, const Mesh& mesh) {
   const InverseMass inv{1.0 / m, 1.0 / env.effective_mass_kg()};
   const bool axle_model = car.model == VehicleModel::axle;
   AxleHints drive_hints, brake_hints;  // from point to point, as in the sweeps
-  const auto point_accel = [&](std::size_t i) {
+  const auto point_accel = [&](std::size_t i, const Road& road) {
     std::size_t lo = i, hi = i;
     if (i > 0)
       lo = i - 1;
@@ -651,7 +701,6 @@ const Lap& LapSolver::add_channels(const Envelope& env, const Mesh& mesh) {
         (lap.speed_mps[hi] * lap.speed_mps[hi] - lap.speed_mps[lo] * lap.speed_mps[lo]) /
         (2.0 * span);
     const double k = std::abs(mesh.curvature_1pm[i]);
-    const Road road = road_at(mesh, i);
     if (diff >= 0.0) {
       const bool trims = env.trims(k) && mesh.trim_zone[i];
       const Envelope::Rows rows = env.rows(trims);
@@ -663,21 +712,22 @@ const Lap& LapSolver::add_channels(const Envelope& env, const Mesh& mesh) {
     return std::max(diff, -(axle_model ? brake_accel<true>(env, rows, u, k, road, inv, &brake_hints)
                                        : brake_accel<false>(env, rows, u, k, road, inv)));
   };
+  RoadReader road_at(mesh);
   for (std::size_t i = 0; i < n; ++i) {
     const double v = lap.speed_mps[i];
-    const double ax = point_accel(i);
+    const Road road = road_at(i);
+    const double ax = point_accel(i, road);
     lap.long_accel_mps2[i] = ax;
     // Lateral acceleration in the road's plane, signed as the curvature: F_y / m (v^2 kappa on
     // a flat road; less the weight's part down a bank).
-    const Road road = road_at(mesh, i);
     const double k = std::abs(mesh.curvature_1pm[i]);
     const bool trimmed = env.trims(k) && mesh.trim_zone[i] && under_drive(lap.phase[i]);
     const Envelope::RoadForces f = env.road_forces(env.rows(trimmed), v * v, k, road);
     lap.lat_accel_mps2[i] = (mesh.curvature_1pm[i] < 0.0 ? -1.0 : 1.0) * f.lateral_n / m;
-    // Under drive the gear the forward sweep engaged (held through a shift's cut); under
-    // braking the best gear for the speed.
+    // Under drive the gear the forward sweep engaged (held through a shift's cut; lap.gear holds
+    // it on entry); under braking the best gear for the speed.
     const Powertrain& pt = car.powertrain;
-    const int gear = pt.ideal ? 0 : (lap.phase[i] == Phase::brake ? env.gear(v) : fwd.gear[i]);
+    const int gear = pt.ideal ? 0 : (lap.phase[i] == Phase::brake ? env.gear(v) : lap.gear[i]);
     lap.gear[i] = gear;
     lap.engine_radps[i] =
         pt.ideal ? 0.0
@@ -705,7 +755,6 @@ const Lap& LapSolver::add_channels(const Envelope& env, const Mesh& mesh) {
     lap.front_usage[i] = use.front_usage;
     lap.rear_usage[i] = use.rear_usage;
   }
-  return lap;
 }
 
 Lap LapSolver::take() {

@@ -63,11 +63,10 @@ double lap_time(const ConfiguredCar& car, const Circuit& c, LapSolver& solver) {
 }
 
 LapRun run_lap(const ConfiguredCar& car, const Circuit& c) {
-  // The lap moved out of a solver of its own, not copied: one lap in memory, not two.
-  LapSolver solver;
+  // The lap moved out of a solver of its own, not copied: one lap in memory, not two, and the
+  // sweeps' buffers freed before its channels are made.
   const Envelope env(car, c.air);
-  solver.solve(env, c.mesh, c.track.start_speed_mps);
-  Lap lap = solver.take();
+  Lap lap = LapSolver().solve_once(env, c.mesh, c.track.start_speed_mps);
   check_start_speed(c, lap);
   LapSummary summary = summarize(lap, c.mesh, c.track, c.corners, env);
   return LapRun{std::move(lap), std::move(summary)};

@@ -4,6 +4,7 @@
 // measures) is a measurement (README, "Memory"), not a timed test.
 #include <doctest/doctest.h>
 
+#include "lapwing/base/units.hpp"
 #include "lapwing/model/air.hpp"
 #include "lapwing/path/mesh.hpp"
 #include "lapwing/solve/envelope.hpp"
@@ -28,14 +29,20 @@ TEST_CASE("the point count is the mesh's, known before the mesh is built") {
 }
 
 TEST_CASE("bytes per mesh point: every vector a mesh, a lap and a sweep hold is counted") {
-  const Track t = test::circle_track(200.0, 0.5);
+  // Banked, in a wind: the mesh holds its bank and head wind (a flat track in still air not).
+  Track t = test::circle_track(200.0, 0.5);
+  for (auto& g : t.segments) g.bank_rad = 5 * units::deg;
+  t.wind = Wind{4.0, 0.0};
   const Mesh m = build_mesh(t, t.mesh_m);
   const double n = static_cast<double>(m.size());
   const std::size_t mesh = bytes(m.s_m) + bytes(m.x_m) + bytes(m.y_m) + bytes(m.heading_rad) +
                            bytes(m.curvature_1pm) + bytes(m.elevation_m) + bytes(m.grade) +
-                           bytes(m.cos_slope) + bytes(m.sin_slope);
+                           bytes(m.bank_rad) + bytes(m.head_wind_mps) + bytes(m.trim_zone);
   CHECK(static_cast<double>(mesh) / n == mesh_bytes_per_point);
-  CHECK(sizeof(Mesh) < 512);  // nothing else of the mesh's own: nine vectors and three scalars
+  CHECK(m.width_left_m.empty());  // a track without widths: the edges hold nothing
+  const Mesh flat = build_mesh(test::circle_track(200.0, 0.5), 0.5);
+  CHECK((flat.bank_rad.empty() && flat.head_wind_mps.empty()));
+  CHECK(sizeof(Mesh) < 512);  // nothing else of the mesh's own: twelve vectors and three scalars
 
   const ConfiguredCar car = test::configured(test::plain_car());
   const Envelope env(car, make_air(AirSpec{}));
@@ -53,9 +60,13 @@ TEST_CASE("bytes per mesh point: every vector a mesh, a lap and a sweep hold is 
   CHECK(static_cast<double>(lap_bytes(speed_only.solve_speed(env, m))) / n ==
         speed_lap_bytes_per_point);
 
-  const SweepResult s = sweep(env, m, Sweep::forward, full.solve(env, m).steady.speed_mps, 0, 10);
-  const std::size_t one = bytes(s.speed_mps) + bytes(s.clipped) + bytes(s.cut) + bytes(s.gear);
-  CHECK(2.0 * static_cast<double>(one) / n == sweeps_bytes_per_point);
+  const std::vector<double>& limit = full.solve(env, m).steady.speed_mps;
+  auto sweep_bytes = [](const SweepResult& s) {
+    return bytes(s.speed_mps) + bytes(s.clipped) + bytes(s.cut) + bytes(s.gear);
+  };
+  const std::size_t both = sweep_bytes(sweep(env, m, Sweep::forward, limit, 0, 10)) +
+                           sweep_bytes(sweep(env, m, Sweep::backward, limit, m.size() - 1, 10));
+  CHECK(static_cast<double>(both) / n == sweeps_bytes_per_point);
 }
 
 TEST_CASE("the estimate adds the parts: meshes, laps kept, solvers at the largest mesh") {

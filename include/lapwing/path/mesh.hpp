@@ -16,12 +16,13 @@ struct Mesh {
   bool closed = true;
   double length_m = 0.0;
   double step_m = 0.0;
+  // grade: tan of the slope angle (the solver works its cos and sin where the grade changes).
   std::vector<double> s_m, x_m, y_m, heading_rad, curvature_1pm, elevation_m, grade;
-  std::vector<double> cos_slope, sin_slope;  // of the slope angle atan(grade), for the solver
-  // Bank angle (rad), positive where it helps a left turn (raises the right side), with its
-  // cos and sin for the solver; 0 where the track gives none.
-  std::vector<double> bank_rad, cos_bank, sin_bank;
-  // The wind's component against the direction of travel (m/s, + head wind); 0 in still air.
+  // Bank angle (rad), positive where it helps a left turn (raises the right side); empty on a
+  // track with no bank anywhere (read it by bank_at).
+  std::vector<double> bank_rad;
+  // The wind's component against the direction of travel (m/s, + head wind); empty in still air
+  // (read it by head_wind_at).
   std::vector<double> head_wind_mps;
   // 1 where the straight-line trim may open: everywhere on a track without trim zones, inside
   // its zones on one with them.
@@ -30,6 +31,10 @@ struct Mesh {
   std::vector<double> width_left_m, width_right_m;
 
   std::size_t size() const { return s_m.size(); }
+  double bank_at(std::size_t i) const { return bank_rad.empty() ? 0.0 : bank_rad[i]; }
+  double head_wind_at(std::size_t i) const {
+    return head_wind_mps.empty() ? 0.0 : head_wind_mps[i];
+  }
   std::size_t intervals() const { return s_m.size() - 1; }
 };
 

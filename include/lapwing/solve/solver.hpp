@@ -63,13 +63,15 @@ void steady_profile(const Envelope& env, const Mesh& mesh, SteadyProfile& out);
 /// `limit`. `start` is the mesh index to begin at and `v_start` its speed; closed meshes wrap.
 /// `clipped[i]` is set where the limit, not the integration, gave the speed; `cut[i]` where the
 /// drive was cut for a shift over the step that reached i (forward only).
-/// `gear[i]` is the gear engaged on reaching i (forward only).
+/// `gear[i]` is the gear engaged on reaching i (forward only). A backward sweep leaves `cut`
+/// and `gear` empty.
 enum class Sweep { forward, backward };
 struct SweepResult {
   std::vector<double> speed_mps;
   std::vector<std::uint8_t> clipped;
-  std::vector<std::uint8_t> cut;
-  std::vector<int> gear;  // gear engaged (forward only; 0 for an ideal transmission)
+  std::vector<std::uint8_t> cut;  // forward only (empty backward)
+  std::vector<int>
+      gear;  // gear engaged (forward only, empty backward; 0 for an ideal transmission)
 };
 SweepResult sweep(const Envelope& env, const Mesh& mesh, Sweep direction,
                   const std::vector<double>& limit, std::size_t start, double v_start);
@@ -110,12 +112,18 @@ class LapSolver {
   const Lap& add_channels(const Envelope& env, const Mesh& mesh);
   /// Both passes, as solve_lap: solve_speed, then add_channels.
   const Lap& solve(const Envelope& env, const Mesh& mesh, double start_speed_mps = 0.0);
+  /// Both passes for a lap solved once (solve_lap, run_lap), moved out: the sweeps' buffers are
+  /// freed before the channels pass, so that they are never held beside the channels. The
+  /// solver may be used again (its sweeps then allocate anew).
+  Lap solve_once(const Envelope& env, const Mesh& mesh, double start_speed_mps = 0.0);
   /// Moves the last lap out.
   Lap take();
 
  private:
   /// The speed solve into lap_, its channels left as they were (has_channels false).
   void speed_pass(const Envelope& env, const Mesh& mesh, double start_speed_mps);
+  /// The channels pass over the last speed solve, lap_.gear holding the forward sweep's gears.
+  void channels_pass(const Envelope& env, const Mesh& mesh);
   Lap lap_;
   SweepResult forward_, backward_;
 };

@@ -25,17 +25,20 @@ struct MemoryPlan {
 
 /// Bytes per mesh point of each part (8-byte doubles, 4-byte ints, 1-byte enums and flags),
 /// counted member by member from the structures (path/mesh.hpp, solve/solver.hpp):
-/// - Mesh: s, x, y, heading, curvature, elevation, grade, cos and sin of the slope: 9 doubles;
+/// - Mesh: s, x, y, heading, curvature, elevation, grade, bank, head wind (9 doubles) and the
+///   trim-zone flag: the most it holds without widths (a flat track keeps no bank, still air no
+///   head wind; the two edges' widths, where a track has them, are not counted);
 /// - Lap with every channel: speed, time, two accelerations, engine speed, drag, downforce, two
 ///   axle loads, front share, effective aero balance, two axle usages (13 doubles), gear (int),
 ///   phase, trim flag, and its SteadyProfile (a double and a limit);
 /// - Lap of speed and time only: speed, time, phase and the SteadyProfile;
-/// - a solver's two sweeps: speed (double), clipped and cut (flags), gear (int) each;
+/// - a solver's two sweeps: speed (double) and clipped (flag) each, the forward one's cut (flag)
+///   and gear (int);
 /// - while a delta file is written, its trace: one double.
-inline constexpr std::size_t mesh_bytes_per_point = 9 * 8;
+inline constexpr std::size_t mesh_bytes_per_point = 9 * 8 + 1;
 inline constexpr std::size_t lap_bytes_per_point = 13 * 8 + 4 + 1 + 1 + (8 + 1);
 inline constexpr std::size_t speed_lap_bytes_per_point = 2 * 8 + 1 + (8 + 1);
-inline constexpr std::size_t sweeps_bytes_per_point = 2 * (8 + 1 + 1 + 4);
+inline constexpr std::size_t sweeps_bytes_per_point = 2 * (8 + 1) + 1 + 4;
 inline constexpr std::size_t delta_bytes_per_point = 8;
 /// What does not grow with the mesh: the program, its libraries, the car's tables, the
 /// summaries and the small output files (a 64 KB piece of a streamed trace among them). 16 MiB:
