@@ -120,8 +120,7 @@ int bench_line(int argc, char** argv) {
 void convergence(const lapwing::Envelope& env, const lapwing::Track& track) {
   using namespace lapwing;
   const auto lap = [&](double mesh_m, Integrator integrator) {
-    return solve_lap(env, build_mesh(track, mesh_m), track.start_speed_mps, integrator)
-        .lap_time_s;
+    return solve_lap(env, build_mesh(track, mesh_m), track.start_speed_mps, integrator).lap_time_s;
   };
   const double ref = lap(0.0625, Integrator::rk4);
   std::printf("convergence: %s; reference RK4 at 0.0625 m %.9f s, exponential there %.9f s\n",
@@ -130,8 +129,7 @@ void convergence(const lapwing::Envelope& env, const lapwing::Track& track) {
               "exp_rel_err");
   for (const double m : {2.0, 1.0, 0.5, 0.25, 0.125}) {
     const double a = lap(m, Integrator::rk4), b = lap(m, Integrator::exponential);
-    std::printf("%8.4f %14.9f %12.3e %14.9f %12.3e\n", m, a, (a - ref) / ref, b,
-                (b - ref) / ref);
+    std::printf("%8.4f %14.9f %12.3e %14.9f %12.3e\n", m, a, (a - ref) / ref, b, (b - ref) / ref);
   }
 }
 

@@ -458,8 +458,7 @@ TEST_CASE(
   const double k = 0.5 * sea_level.density_kg_m3 * cda, a = force / m, b = k / m;
   REQUIRE(2 * b * h > 0.45);
   const std::size_t n = mesh.size();
-  const SweepResult f =
-      sweep(env, mesh, Sweep::forward, free, 0, 0.0, Integrator::exponential);
+  const SweepResult f = sweep(env, mesh, Sweep::forward, free, 0, 0.0, Integrator::exponential);
   const SweepResult f4 = sweep(env, mesh, Sweep::forward, free, 0, 0.0, Integrator::rk4);
   double rk4_worst = 0.0;
   for (std::size_t i = 0; i < n; ++i) {
