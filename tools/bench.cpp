@@ -1,6 +1,8 @@
 // Benchmark (not a test): solve one lap of a track many times and report the cost per mesh
 // point per lap, laps per second, and the envelope's build time on its own.
-//   lapwing_bench CAR TRACK [CONFIG] [--laps N] [--mesh M]
+//   lapwing_bench CAR TRACK [CONFIG] [--laps N] [--mesh M] [--integrator rk4|exponential]
+//   lapwing_bench CAR TRACK [CONFIG] --convergence : lap time against the mesh step for both
+//     integrators, against RK4 on a 0.0625 m mesh
 #include <algorithm>
 #include <chrono>
 #include <cstdio>
@@ -113,6 +115,24 @@ int bench_line(int argc, char** argv) {
   return 0;
 }
 
+// The lap time on meshes of 2 m to 0.125 m with each integrator, and its error relative to
+// RK4's at 0.0625 m (the exponential step's own lap there too: the two must agree).
+void convergence(const lapwing::Envelope& env, const lapwing::Track& track) {
+  using namespace lapwing;
+  const auto lap = [&](double mesh_m, Integrator integrator) {
+    return solve_lap(env, build_mesh(track, mesh_m), track.start_speed_mps, integrator).lap_time_s;
+  };
+  const double ref = lap(0.0625, Integrator::rk4);
+  std::printf("convergence: %s; reference RK4 at 0.0625 m %.9f s, exponential there %.9f s\n",
+              track.name.c_str(), ref, lap(0.0625, Integrator::exponential));
+  std::printf("%8s %14s %12s %14s %12s\n", "mesh_m", "rk4_s", "rk4_rel_err", "exp_s",
+              "exp_rel_err");
+  for (const double m : {2.0, 1.0, 0.5, 0.25, 0.125}) {
+    const double a = lap(m, Integrator::rk4), b = lap(m, Integrator::exponential);
+    std::printf("%8.4f %14.9f %12.3e %14.9f %12.3e\n", m, a, (a - ref) / ref, b, (b - ref) / ref);
+  }
+}
+
 }  // namespace
 
 int main(int argc, char** argv) {
@@ -129,13 +149,15 @@ int main(int argc, char** argv) {
   if (argc < 3) {
     std::fprintf(stderr,
                  "usage: lapwing_bench CAR TRACK [CONFIG] [--laps N] [--mesh M] "
-                 "[--model point-mass|axle]\n");
+                 "[--model point-mass|axle] [--integrator rk4|exponential] [--convergence]\n");
     return 2;
   }
   std::string config;
   int laps = 200;
   double mesh_m = 0.5;
   std::string model;  // empty: the car file's model
+  std::string integrator_name = "rk4";
+  bool convergence_table = false;
   for (int i = 3; i < argc; ++i) {
     const std::string a = argv[i];
     if (a == "--laps" && i + 1 < argc)
@@ -144,6 +166,10 @@ int main(int argc, char** argv) {
       mesh_m = std::atof(argv[++i]);
     else if (a == "--model" && i + 1 < argc)
       model = argv[++i];
+    else if (a == "--integrator" && i + 1 < argc)
+      integrator_name = argv[++i];
+    else if (a == "--convergence")
+      convergence_table = true;
     else
       config = a;
   }
@@ -157,11 +183,20 @@ int main(int argc, char** argv) {
       car.model = VehicleModel::axle;
     else if (!model.empty())
       throw std::runtime_error("--model: '" + model + "' is not one of point-mass | axle");
+    if (integrator_name != "rk4" && integrator_name != "exponential")
+      throw std::runtime_error("--integrator: '" + integrator_name +
+                               "' is not one of rk4 | exponential");
+    const Integrator integrator =
+        integrator_name == "rk4" ? Integrator::rk4 : Integrator::exponential;
     const Track track = load_track(argv[2]);
     const int ci = config.empty() ? 0 : car.config_index(config);
     if (ci < 0) throw std::runtime_error("no config " + config);
     const ConfiguredCar configured = car.configured(static_cast<std::size_t>(ci));
     const Air air = make_air(track.air);
+    if (convergence_table) {
+      convergence(Envelope(configured, air), track);
+      return 0;
+    }
     const Mesh mesh = build_mesh(track, mesh_m);
 
     constexpr int envelope_builds = 50;
@@ -177,8 +212,8 @@ int main(int argc, char** argv) {
     const Envelope env(configured, air);
     // One solver reused lap after lap, as a study does. The laps run in batches; the fastest
     // batch and the median batch are reported (a shared machine's noise only ever adds time).
-    LapSolver solver;
-    const Lap warm = solve_lap(env, mesh, track.start_speed_mps);
+    LapSolver solver(integrator);
+    const Lap warm = solve_lap(env, mesh, track.start_speed_mps, integrator);
     constexpr int batches = 10;
     const int per_batch = std::max(1, laps / batches);
     std::vector<double> batch_s;
@@ -199,9 +234,9 @@ int main(int argc, char** argv) {
       bare_s.push_back(std::chrono::duration<double>(clock::now() - t0).count() / per_batch);
     }
     std::sort(bare_s.begin(), bare_s.end());
-    std::printf("track %s: %.1f m, %zu mesh points at %.3f m; config %s; lap %.3f s\n",
+    std::printf("track %s: %.1f m, %zu mesh points at %.3f m; config %s; %s; lap %.6f s\n",
                 track.name.c_str(), mesh.length_m, mesh.size(), mesh.step_m,
-                configured.aero().name.c_str(), warm.lap_time_s);
+                configured.aero().name.c_str(), integrator_name.c_str(), warm.lap_time_s);
     std::printf("envelope build: %.3f ms (mean of %d)\n", envelope_s * 1e3, envelope_builds);
     const double points = static_cast<double>(mesh.size());
     std::printf(

@@ -510,7 +510,87 @@ double split_step(Sw& s, double u0, double x0, double h, const StageCheck& flagg
   return u;
 }
 
-template <bool Axle>
+// The exponential step (Integrator::exponential). Over a step of length h, d(u)/dx = f(u, x),
+// f = 2 a(u, kappa(x)), is linearised in u at the step's midpoint in x,
+//   f(u, x) ~ f_m + J (u - u_m),  f_m = f(u_m, x_m),  J = df/du there,
+// and that linear equation is solved exactly from u0 (its closed form: w = u - u_m + f_m / J
+// has w' = J w):
+//   u1 = u0 + h phi1(h J) (f_m + J (u0 - u_m)),  phi1(z) = (e^z - 1) / z,
+// with u_m = u0 except where the limit falls below u0 within the step (then u_m is held at the
+// limit, as RK4's stages are). This is the exponential Rosenbrock-Euler step (Hochbruck &
+// Ostermann, "Exponential integrators", Acta Numerica 19 (2010), sec. 2.4; from memory) with
+// the x-dependence taken by the midpoint. Its order, by Taylor expansion (derived here): the
+// exact solution is u(h) = u0 + h f + h^2/2 (f_u f + f_x) + O(h^3) (f and its partials at
+// (u0, x0)); the step gives f_m = f + h/2 f_x + O(h^2) and h phi1(h J) = h + h^2 J / 2 + O(h^3),
+// so u1 = u0 + h f + h^2/2 (J f + f_x) + O(h^3): local error O(h^3) when J = f_u + O(h), second
+// order over a lap. It is exact (to rounding) where f is affine in u at an x-independent
+// curvature and road: a drive force and resistance linear in v^2 on a straight, a = A - B u,
+// whose closed form is u(x) = A/B + (u0 - A/B) e^{-2 B x}. For z = h J -> -inf, u1 ->
+// u_m - f_m / J: the root of the linearisation, where the sweep settles at the grip limit, for
+// any step (no substeps: phi1 is bounded by 1 for z <= 0).
+//
+// J is the difference quotient of two evaluations at the midpoint, the second a reach
+// d = max(2/3 h |f_m|, 1e-5 max(u_m, 1 m^2/s^2)) from u_m the way the sweep moves (the other
+// way where that would read above the limit, where the tyres have nothing left). A reach of
+// c h f_m makes J = f_u + h/2 f_ux + c h f f_uu / 2 + O(h^2), so the order holds; in the local
+// error, h^3 (c/4 - 1/6) f^2 f_uu (the rest: h^3 (f_u f_x / 12 - f f_ux / 12 - f_xx / 24)), and
+// c = 2/3 cancels that term, which dominates near the grip limit (measured on Brannock Park:
+// a backward secant, c = -1/2, left 10 times the lap-time difference from RK4). The floor keeps
+// the quotient well above the axle model's 1e-9 m/s^2 resolution (2e-9 / d < 2e-4 of J's
+// typical 1e-3 per m).
+constexpr double slope_spread = 1e-5;
+constexpr double secant_reach = 2.0 / 3.0;
+
+// phi1(z) = (e^z - 1) / z, 1 at z = 0. expm1 keeps full relative accuracy for small |z|, where
+// e^z - 1 would cancel; for z -> -inf phi1 -> -1 / z.
+inline double phi1(double z) {
+  return z == 0.0 ? 1.0 : std::expm1(z) / z;
+}
+
+template <class Sw, std::size_t N>
+[[gnu::always_inline]] inline std::array<double, N> exponential_step(
+    const std::array<Sw*, N>& s, const std::array<double, N>& u0, double h) {
+  const double xm = 0.5 * h;
+  std::array<double, N> um, fm, ud, u1;
+  std::array<bool, N> clipped;
+  for (std::size_t c = 0; c < N; ++c) {
+    um[c] = std::min(u0[c], s[c]->cap(xm));
+    fm[c] = s[c]->rhs(um[c], xm);
+    clipped[c] = fm[c] > 0.0 && u0[c] >= s[c]->cap(h);
+    const double d =
+        std::max(secant_reach * h * std::abs(fm[c]), slope_spread * std::max(um[c], 1.0));
+    const double ahead = fm[c] >= 0.0 ? um[c] + d : um[c] - d;
+    ud[c] = ahead >= 0.0 && ahead <= s[c]->cap(xm) ? ahead : (fm[c] >= 0.0 ? um[c] - d : um[c] + d);
+  }
+  for (std::size_t c = 0; c < N; ++c) {
+    if (clipped[c]) {
+      u1[c] = u0[c] + h * fm[c];
+      continue;
+    }
+    const double j = (fm[c] - s[c]->rhs(ud[c], xm)) / (um[c] - ud[c]);
+    u1[c] = u0[c] + h * phi1(h * j) * (fm[c] + j * (u0[c] - um[c]));
+  }
+  return u1;
+}
+
+// One step of N sweeps in lockstep with the integrator I; u at the step's end, for end_step.
+// RK4 takes a flagged step again in substeps, for the sweep that needs it alone.
+template <Integrator I, class Sw, std::size_t N>
+[[gnu::always_inline]] inline std::array<double, N> step(const std::array<Sw*, N>& s,
+                                                         const std::array<double, N>& u0,
+                                                         double h) {
+  if constexpr (I == Integrator::exponential) {
+    return exponential_step<Sw, N>(s, u0, h);
+  } else {
+    const std::array<StageCheck, N> c = rk4<Sw, N>(s, u0, 0.0, h);
+    std::array<double, N> u1;
+    for (std::size_t k = 0; k < N; ++k)
+      u1[k] = c[k].flagged() ? split_step(*s[k], u0[k], 0.0, h, c[k], 1) : c[k].u1;
+    return u1;
+  }
+}
+
+template <bool Axle, Integrator I>
 SweepResult sweep_one(const Envelope& env, const Mesh& mesh, Sweep direction,
                       const std::vector<double>& limit, std::size_t start, double v_start) {
   using Sw = Sweeper<Axle>;
@@ -519,15 +599,14 @@ SweepResult sweep_one(const Envelope& env, const Mesh& mesh, Sweep direction,
   const double h = mesh.step_m;
   for (std::size_t k = 0, n = s.steps(); k < n; ++k) {
     const double u0 = s.begin_step();
-    const StageCheck c = rk4<Sw, 1>({&s}, {u0}, 0.0, h)[0];
-    s.end_step(c.flagged() ? split_step(s, u0, 0.0, h, c, 1) : c.u1);
+    s.end_step(step<I, Sw, 1>({&s}, {u0}, h)[0]);
   }
   s.finish();
   return r;
 }
 
-// Both sweeps in lockstep; a flagged step is split for the sweep that needs it alone.
-template <bool Axle>
+// Both sweeps in lockstep.
+template <bool Axle, Integrator I>
 void sweep_both(const Envelope& env, const Mesh& mesh, const std::vector<double>& limit,
                 std::size_t f0, double vf, std::size_t b0, double vb, SweepResult& fwd,
                 SweepResult& bwd) {
@@ -538,25 +617,38 @@ void sweep_both(const Envelope& env, const Mesh& mesh, const std::vector<double>
   const std::array<Sw*, 2> both{&f, &b};
   const double h = mesh.step_m;
   for (std::size_t k = 0, steps = f.steps(); k < steps; ++k) {
-    const std::array<double, 2> u0{f.begin_step(), b.begin_step()};
-    const std::array<StageCheck, 2> c = rk4<Sw, 2>(both, u0, 0.0, h);
-    f.end_step(c[0].flagged() ? split_step(f, u0[0], 0.0, h, c[0], 1) : c[0].u1);
-    b.end_step(c[1].flagged() ? split_step(b, u0[1], 0.0, h, c[1], 1) : c[1].u1);
+    const std::array<double, 2> u1 = step<I, Sw, 2>(both, {f.begin_step(), b.begin_step()}, h);
+    f.end_step(u1[0]);
+    b.end_step(u1[1]);
   }
   f.finish();
   b.finish();
 }
+
+// The vehicle model and the integrator, picked once per sweep: F is called as
+// F.template operator()<Axle, I>().
+template <typename F>
+decltype(auto) dispatch(const Envelope& env, Integrator integrator, F&& f) {
+  const bool axle = env.car().model == VehicleModel::axle;
+  if (integrator == Integrator::exponential)
+    return axle ? f.template operator()<true, Integrator::exponential>()
+                : f.template operator()<false, Integrator::exponential>();
+  return axle ? f.template operator()<true, Integrator::rk4>()
+              : f.template operator()<false, Integrator::rk4>();
+}
 }  // namespace
 
 SweepResult sweep(const Envelope& env, const Mesh& mesh, Sweep direction,
-                  const std::vector<double>& limit, std::size_t start, double v_start) {
-  return env.car().model == VehicleModel::axle
-             ? sweep_one<true>(env, mesh, direction, limit, start, v_start)
-             : sweep_one<false>(env, mesh, direction, limit, start, v_start);
+                  const std::vector<double>& limit, std::size_t start, double v_start,
+                  Integrator integrator) {
+  return dispatch(env, integrator, [&]<bool Axle, Integrator I>() {
+    return sweep_one<Axle, I>(env, mesh, direction, limit, start, v_start);
+  });
 }
 
-Lap solve_lap(const Envelope& env, const Mesh& mesh, double start_speed_mps) {
-  return LapSolver().solve_once(env, mesh, start_speed_mps);
+Lap solve_lap(const Envelope& env, const Mesh& mesh, double start_speed_mps,
+              Integrator integrator) {
+  return LapSolver(integrator).solve_once(env, mesh, start_speed_mps);
 }
 
 const Lap& LapSolver::solve(const Envelope& env, const Mesh& mesh, double start_speed_mps) {
@@ -591,10 +683,9 @@ void LapSolver::speed_pass(const Envelope& env, const Mesh& mesh, double start_s
   SweepResult& bwd = backward_;
 
   auto both = [&](std::size_t f0, double vf, std::size_t b0, double vb) {
-    if (env.car().model == VehicleModel::axle)
-      sweep_both<true>(env, mesh, steady, f0, vf, b0, vb, fwd, bwd);
-    else
-      sweep_both<false>(env, mesh, steady, f0, vf, b0, vb, fwd, bwd);
+    dispatch(env, integrator_, [&]<bool Axle, Integrator I>() {
+      sweep_both<Axle, I>(env, mesh, steady, f0, vf, b0, vb, fwd, bwd);
+    });
   };
   if (mesh.closed) {
     // Periodic lap: start both sweeps at the slowest steady point, where the speed is known.
@@ -606,9 +697,9 @@ void LapSolver::speed_pass(const Envelope& env, const Mesh& mesh, double start_s
     // A sweep that comes round slower than it started (it could not regain the start speed)
     // runs once more from the speed it arrived at, so that the lap is periodic.
     if (fwd.speed_mps[i0] < steady[i0])
-      fwd = sweep(env, mesh, Sweep::forward, steady, i0, fwd.speed_mps[i0]);
+      fwd = sweep(env, mesh, Sweep::forward, steady, i0, fwd.speed_mps[i0], integrator_);
     if (bwd.speed_mps[i0] < steady[i0])
-      bwd = sweep(env, mesh, Sweep::backward, steady, i0, bwd.speed_mps[i0]);
+      bwd = sweep(env, mesh, Sweep::backward, steady, i0, bwd.speed_mps[i0], integrator_);
   } else {
     both(0, start_speed_mps, n - 1, steady[n - 1]);
   }

@@ -4,8 +4,11 @@
 // convergence, periodicity). Tolerances: relative, rule in test_support.hpp.
 #include <doctest/doctest.h>
 
+#include <algorithm>
 #include <cmath>
 #include <stdexcept>
+#include <utility>
+#include <vector>
 
 #include "lapwing/base/error.hpp"
 #include "lapwing/base/units.hpp"
@@ -429,4 +432,90 @@ TEST_CASE("full-throttle shares and corner limits at 0.5 m are those of a 0.05 m
         }
     }
   }
+}
+
+TEST_CASE(
+    "the exponential step is exact for a = A - B v^2 on a straight: u = A/B + (u0 - A/B) "
+    "e^(-2 B s) (closed form of the linear ODE; 1e-11)") {
+  // A constant force F against drag k v^2 (no rolling resistance, no rotating inertia, grip to
+  // spare): d(v^2)/ds = 2 (F - k v^2) / m, linear in u = v^2 with A = F / m, B = k / m. Its
+  // closed form (the linear first-order ODE's solution) from u0 at s = 0 is
+  //   u(s) = A/B + (u0 - A/B) e^{-2 B s};
+  // braking from the end with a = mu g + B u (the tyres' constant mu m g plus the drag) it is,
+  // backward from u_end, u = -C/B + (u_end + C/B) e^{2 B d}, C = mu g, d the distance back.
+  // A drag this strong for the mass makes z = 2 B h about 0.5 per 2 m step, where RK4's growth
+  // factor differs from e^z by z^5 / 120 ~ 2e-4 per step (shown below): the step is exact
+  // because it solves the linear equation, not because the steps are small. Tolerance: 1e-11
+  // relative, rounding over 50 steps (the table's interpolation of the linear drag and the
+  // constant force is exact to rounding).
+  const double m = 100.0, force = 2000.0, mu = 3.0, cda = 20.0, length = 100.0, h = 2.0;
+  Car car = test::constant_force_car(m, force, mu);
+  car.configs.front().cda_m2 = {cda};
+  const Envelope env(test::configured(car), sea_level);
+  const Mesh mesh = build_mesh(test::straight_track(length, h, 0.0), h);
+  REQUIRE(mesh.step_m == h);
+  const std::vector<double> free(mesh.size(), 1e9);
+  const double k = 0.5 * sea_level.density_kg_m3 * cda, a = force / m, b = k / m;
+  REQUIRE(2 * b * h > 0.45);
+  const std::size_t n = mesh.size();
+  const SweepResult f = sweep(env, mesh, Sweep::forward, free, 0, 0.0, Integrator::exponential);
+  const SweepResult f4 = sweep(env, mesh, Sweep::forward, free, 0, 0.0, Integrator::rk4);
+  double rk4_worst = 0.0;
+  for (std::size_t i = 0; i < n; ++i) {
+    const double u = a / b * (1.0 - std::exp(-2 * b * mesh.s_m[i]));
+    CHECK(near(f.speed_mps[i] * f.speed_mps[i], u, 1e-11));
+    if (i > 0) rk4_worst = std::max(rk4_worst, std::abs(f4.speed_mps[i] * f4.speed_mps[i] / u - 1));
+  }
+  CHECK(rk4_worst > 1e-6);  // RK4 on the same mesh is not exact
+  const double v_end = 20.0, c = mu * g;
+  const SweepResult r =
+      sweep(env, mesh, Sweep::backward, free, n - 1, v_end, Integrator::exponential);
+  for (std::size_t i = 0; i < n; ++i) {
+    const double d = length - mesh.s_m[i];
+    const double u = -c / b + (v_end * v_end + c / b) * std::exp(2 * b * d);
+    CHECK(near(r.speed_mps[i] * r.speed_mps[i], u, 1e-11));
+  }
+}
+
+TEST_CASE(
+    "the exponential step converges at second order: the bundled formula car braking into a "
+    "corner, error ratio 4 per halving of the step (3.6 to 4.4)") {
+  // The bundled formula car (medium wings, axle model) braking backward from the end of a
+  // corner entry, a 150 m straight and a 60 m clothoid to a 60 m radius (as Brannock Park's
+  // entries are built), from its steady limit there, every point held to the limit. Braking
+  // reads no gear and no shift cut (events placed at mesh points, first order whatever the
+  // step); the entry has what the step must handle: curvature that varies over each step, the
+  // stiff start from the grip limit. Meshes of 2, 1, 0.5 and 0.25 m against RK4 on 1/16 m.
+  // Second order (solver.cpp, the step's Taylor expansion) makes the largest error in v at the
+  // common points fall by 4 per halving; the bounds allow 10 % for higher-order terms (measured
+  // 4.01 each).
+  const Car car = load_car(test::source_path("cars/pellion-fr2.yaml")).configured(1).car();
+  const Envelope env(test::configured(car), sea_level);
+  Track entry = test::straight_track(150.0, 2.0, 0.0);
+  entry.segments.push_back(test::clothoid(60.0, 0.0, 1.0 / 60.0));
+  auto backward = [&](double step, Integrator integrator) {
+    const Mesh mesh = build_mesh(entry, step);
+    const SteadyProfile p = steady_profile(env, mesh);
+    const std::size_t end = mesh.size() - 1;
+    return std::pair{
+        sweep(env, mesh, Sweep::backward, p.speed_mps, end, p.speed_mps[end], integrator), mesh};
+  };
+  const auto [ref, ref_mesh] = backward(1.0 / 16, Integrator::rk4);
+  std::vector<double> err;
+  for (const double step : {2.0, 1.0, 0.5, 0.25}) {
+    const auto [s, mesh] = backward(step, Integrator::exponential);
+    const std::size_t stride = static_cast<std::size_t>(std::lround(step * 16));
+    REQUIRE((mesh.size() - 1) * stride == ref_mesh.size() - 1);
+    double worst = 0.0;
+    for (std::size_t i = 0; i < mesh.size(); ++i)
+      worst = std::max(worst, std::abs(s.speed_mps[i] / ref.speed_mps[i * stride] - 1));
+    err.push_back(worst);
+  }
+  CAPTURE(err[0]);
+  CAPTURE(err[1]);
+  CAPTURE(err[2]);
+  CAPTURE(err[3]);
+  REQUIRE(err[3] > 0.0);
+  for (std::size_t k = 0; k + 1 < err.size(); ++k)
+    CHECK(err[k] / err[k + 1] == doctest::Approx(4.0).epsilon(0.1));
 }

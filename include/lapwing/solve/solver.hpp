@@ -58,6 +58,19 @@ SteadyProfile steady_profile(const Envelope& env, const Mesh& mesh);
 /// The same, into `out` (its storage reused).
 void steady_profile(const Envelope& env, const Mesh& mesh, SteadyProfile& out);
 
+/// How a sweep steps u = v^2 from one mesh point to the next (d(v^2)/ds = 2 a(v^2, kappa(s))).
+///  - rk4: classical fourth-order Runge-Kutta, four evaluations of the acceleration per step; a
+///    step whose stages meet the steady limit, or where z = step x d(du/ds)/du is beyond 1 in
+///    size (near the grip limit), is taken again in substeps. The default.
+///  - exponential: an exponential Rosenbrock-type step, two evaluations per step (one where the
+///    step starts on its limit and ends above it). The slope is linearised at the step's
+///    midpoint in s, f(u) ~ f_m + J (u - u0), J = df/du by a difference, and the linear equation
+///    solved exactly over the step: u1 = u0 + h phi1(h J) f_m, phi1(z) = (e^z - 1) / z. Exact
+///    where the acceleration is affine in v^2 on a step of constant curvature (the drive against
+///    drag on a straight), stable for any negative z, second order in the step elsewhere
+///    (solver.cpp gives the derivation; tests/solve/solver_test.cpp the convergence).
+enum class Integrator : std::uint8_t { rk4, exponential };
+
 /// Integrates u = v^2 along the mesh in one direction: forward under drive (with the drive cut
 /// for shift_time after each upshift), backward under braking. Every point is clipped to
 /// `limit`. `start` is the mesh index to begin at and `v_start` its speed; closed meshes wrap.
@@ -74,7 +87,8 @@ struct SweepResult {
       gear;  // gear engaged (forward only, empty backward; 0 for an ideal transmission)
 };
 SweepResult sweep(const Envelope& env, const Mesh& mesh, Sweep direction,
-                  const std::vector<double>& limit, std::size_t start, double v_start);
+                  const std::vector<double>& limit, std::size_t start, double v_start,
+                  Integrator integrator = Integrator::rk4);
 
 /// A solved lap: one entry per mesh point (SI units).
 struct Lap {
@@ -95,13 +109,17 @@ struct Lap {
 /// Solves one lap. Closed meshes are periodic (both sweeps start at the slowest steady point);
 /// open ones start at `start_speed_mps` and end free. Throws CannotMove when the car cannot
 /// complete the track.
-Lap solve_lap(const Envelope& env, const Mesh& mesh, double start_speed_mps = 0.0);
+Lap solve_lap(const Envelope& env, const Mesh& mesh, double start_speed_mps = 0.0,
+              Integrator integrator = Integrator::rk4);
 
 /// Solves laps one after another, reusing its buffers (the lap, both sweeps), so that a study
 /// of many laps allocates once. The working state of a lap, kept apart from the Envelope and
 /// the Mesh it reads. One per thread.
 class LapSolver {
  public:
+  /// A solver whose sweeps step with `integrator`.
+  explicit LapSolver(Integrator integrator = Integrator::rk4) : integrator_(integrator) {}
+  Integrator integrator() const { return integrator_; }
   /// The speed solve: the steady limits, both sweeps, and the speed, phase and time traces
   /// (lap_time_s). No channel is filled (has_channels false): a study that needs lap times
   /// stops here. The result stays valid until the next solve.
@@ -124,6 +142,7 @@ class LapSolver {
   void speed_pass(const Envelope& env, const Mesh& mesh, double start_speed_mps);
   /// The channels pass over the last speed solve, lap_.gear holding the forward sweep's gears.
   void channels_pass(const Envelope& env, const Mesh& mesh);
+  Integrator integrator_;
   Lap lap_;
   SweepResult forward_, backward_;
 };
