@@ -161,10 +161,26 @@ std::optional<double> newton_from(Phi phi, double& hint) {
   return r;
 }
 
-// Whether a is feasible for one term: g(a) = phi(a) - a >= 0.
-template <typename Phi>
-bool feasible(const Phi& phi, double a) {
-  return phi(a).phi - a >= 0.0;
+// A term of the fixed point: phi(a) with its slope, and `surely(a)`, a test without powers that
+// is true only where g(a) = phi(a) - a >= 0 beyond doubt (TyreModel::surely_leaves: the axle
+// has the force a asks of it with room to spare), false where it cannot tell.
+template <typename Phi, typename Surely>
+struct Term {
+  Phi phi;
+  Surely surely;
+  PhiSlope operator()(double a) const { return phi(a); }
+};
+template <typename Phi, typename Surely>
+Term<Phi, Surely> term(Phi phi, Surely surely) {
+  return {phi, surely};
+}
+
+// Whether a is feasible for one term: g(a) = phi(a) - a >= 0. Most checks are of an axle far
+// from its limit (the undriven or unbraked side, the drive at the engine's limit): those the
+// test without powers settles, and the answer is the same.
+template <typename T>
+bool feasible(const T& t, double a) {
+  return t.surely(a) || t(a).phi - a >= 0.0;
 }
 
 // The least of `bound` and a term's upper root, where they meet its feasible interval: `bound`
@@ -274,18 +290,26 @@ double axle_drive_accel(const Envelope& env, double u, double k, const Road& roa
         car.mass_kg * car.cg_height_m / car.wheelbase_m;  // load moved per m/s^2
     const double total = l0.front_n + l0.rear_n;
     const bool by_load = car.powertrain.driven == DrivenAxle::all;
+    const double m = env.mass_kg();
     auto driven = [&](double load0, double per_a, double d, double fy_axle) {
-      return [&, load0, per_a, d, fy_axle](double ax) {
-        const double load = load0 + per_a * ax;
-        const TyreModel::LeftAndSlope s = t.axle_long_left(load, d, fy_axle);
-        if (!by_load)
-          return PhiSlope{(s.left_n - a.resistance) * inv_m, s.per_load * per_a * inv_m};
-        // All-wheel drive: the total this axle allows, left total / load.
-        if (!(load > 0.0)) return PhiSlope{-a.resistance * inv_m, 0.0};
-        const double q = total / load;
-        return PhiSlope{(s.left_n * q - a.resistance) * inv_m,
-                        (s.per_load * q - s.left_n * q / load) * per_a * inv_m};
-      };
+      return term(
+          [&, load0, per_a, d, fy_axle](double ax) {
+            const double load = load0 + per_a * ax;
+            const TyreModel::LeftAndSlope s = t.axle_long_left(load, d, fy_axle);
+            if (!by_load)
+              return PhiSlope{(s.left_n - a.resistance) * inv_m, s.per_load * per_a * inv_m};
+            // All-wheel drive: the total this axle allows, left total / load.
+            if (!(load > 0.0)) return PhiSlope{-a.resistance * inv_m, 0.0};
+            const double q = total / load;
+            return PhiSlope{(s.left_n * q - a.resistance) * inv_m,
+                            (s.per_load * q - s.left_n * q / load) * per_a * inv_m};
+          },
+          // phi(a) >= a: the axle leaves m a + R (its load's share of it, all-wheel drive).
+          [&, load0, per_a, d, fy_axle](double ax) {
+            const double load = load0 + per_a * ax;
+            const double need = m * ax + a.resistance;
+            return t.surely_leaves(load, d, fy_axle, by_load ? need * load / total : need);
+          });
     };
     const auto front = driven(l0.front_n, -per_mps2, d_front, fy_front);
     const auto rear = driven(l0.rear_n, per_mps2, d_rear, fy_rear);
@@ -355,12 +379,20 @@ double axle_brake_accel(const Envelope& env, double u, double k, const Road& roa
     const AxleLoads l0 =
         axle_loads(car, a.drag, a.down, a.balance, a.normal_share, road.sin_slope, 0.0);
     const double per_mps2 = car.mass_kg * car.cg_height_m / car.wheelbase_m;
+    const double m = env.mass_kg();
     auto axle = [&](double load0, double per_a, double d, double fy_axle, double share) {
-      return [&, load0, per_a, d, fy_axle, inv_share = 1.0 / share](double decel) {
-        const TyreModel::LeftAndSlope s = t.axle_long_left(load0 + per_a * decel, d, fy_axle);
-        return PhiSlope{(s.left_n * inv_share + a.resistance) * inv_m,
-                        s.per_load * per_a * inv_share * inv_m};
-      };
+      return term(
+          [&, load0, per_a, d, fy_axle, inv_share = 1.0 / share](double decel) {
+            const TyreModel::LeftAndSlope s =
+                t.axle_long_left(load0 + per_a * decel, d, fy_axle);
+            return PhiSlope{(s.left_n * inv_share + a.resistance) * inv_m,
+                            s.per_load * per_a * inv_share * inv_m};
+          },
+          // phi(decel) >= decel: the axle leaves its share of m decel - R.
+          [&, load0, per_a, d, fy_axle, share](double decel) {
+            return t.surely_leaves(load0 + per_a * decel, d, fy_axle,
+                                   share * (m * decel - a.resistance));
+          });
     };
     const auto front = axle(l0.front_n, per_mps2, d_front, fy_front, bias);
     const auto rear = axle(l0.rear_n, -per_mps2, d_rear, fy_rear, 1.0 - bias);

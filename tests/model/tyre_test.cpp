@@ -115,3 +115,31 @@ TEST_CASE("the least axle load for a lateral force inverts the capacity with tra
     }
   }
 }
+
+TEST_CASE("the test without powers says 'surely' only where the ellipse leaves the force") {
+  // The ellipse (Fx/Fx_max)^n + (Fy/Fy_max)^n <= 1 is the closed form: where surely_leaves says
+  // true, axle_long_left (the ellipse with its powers) must leave at least fx. A grid over
+  // load, transfer, lateral and longitudinal ratios for exponents below, at and above 2; the
+  // test must also answer "surely" on most of the ellipse's inside, or it saves nothing.
+  for (const double n : {1.0, 1.5, 2.0, 2.2, 3.0, 6.0}) {
+    const TyreModel t(Tyres{1.5, 1.7, 1600.0, 0.08, n, 0.33, 0.0});
+    int sure = 0, inside = 0;
+    for (const double load : {200.0, 1500.0, 3200.0, 9000.0})
+      for (const double transfer : {0.0, 300.0, 1200.0, 6000.0})
+        for (int i = 0; i <= 20; ++i)
+          for (int j = -2; j <= 22; ++j) {
+            const TyreModel::Limits lim = t.axle_limits(load, transfer);
+            const double fy = lim.fy_max * i / 20.0, fx = lim.fx_max * j / 20.0;
+            const double left = t.axle_long_left(load, transfer, fy).left_n;
+            const bool ok = t.surely_leaves(load, transfer, fy, fx);
+            if (ok) {
+              CHECK(left >= fx);
+              ++sure;
+            }
+            if (left >= fx * 1.0001 + 1e-9 * lim.fx_max) ++inside;
+          }
+    CHECK(sure > inside / 3);
+  }
+  const TyreModel t(Tyres{1.5, 1.7, 1600.0, 0.08, 2.2, 0.33, 0.0});
+  CHECK_FALSE(t.surely_leaves(0.0, 0.0, 0.0, 0.0));  // an unloaded axle leaves nothing
+}

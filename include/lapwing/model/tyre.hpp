@@ -174,6 +174,21 @@ class TyreModel {
     return {mu_long0_ * f * share, mu_long0_ * share / rest * df};
   }
 
+  /// Whether an axle at load L, `transfer_n` moved to its outer tyre and carrying lateral force
+  /// fy, surely has `fx_n` of longitudinal force left: axle_long_left(L, transfer, fy).left_n
+  /// >= fx_n, told without a power where the answer is clear by a margin (false: not sure, the
+  /// caller evaluates axle_long_left). With x = fx / Fx_max and y = |fy| / Fy_max in [0, 1],
+  /// the ellipse holds x^n + y^n <= 1, and x^n + y^n <= x^2 + y^2 for n >= 2, <= x + y for
+  /// n >= 1; either sum at most 1 - 1e-6 puts the force left above fx by some 1e-7 Fx_max at
+  /// least, far beyond the rounding of either side (1e-15 of Fx_max).
+  bool surely_leaves(double axle_load_n, double transfer_n, double fy_n, double fx_n) const {
+    if (!(axle_load_n > 0.0)) return false;
+    const Limits lim = axle_limits(axle_load_n, transfer_n);
+    const double x = std::max(fx_n, 0.0) / lim.fx_max, y = std::abs(fy_n) / lim.fy_max;
+    constexpr double margin = 1e-6;
+    return n_ >= 2.0 ? x * x + y * y <= 1.0 - margin : x + y <= 1.0 - margin;
+  }
+
   /// Ellipse usage (Fx/Fx_max)^n + (Fy/Fy_max)^n for given force ratios (1 = at the limit).
   double usage(double long_ratio, double lateral_ratio) const {
     if (quadratic_) return long_ratio * long_ratio + lateral_ratio * lateral_ratio;
