@@ -677,8 +677,8 @@ void LapSolver::speed_pass(const Envelope& env, const Mesh& mesh, double start_s
   assert(n >= 3);
   Lap& lap = lap_;
   lap.has_channels = false;  // none of this lap yet (also if the solve throws)
-  steady_profile(env, mesh, lap.steady);
-  const auto& steady = lap.steady.speed_mps;
+  steady_profile(env, mesh, steady_);
+  const auto& steady = steady_.speed_mps;
   SweepResult& fwd = forward_;
   SweepResult& bwd = backward_;
 
@@ -710,7 +710,7 @@ void LapSolver::speed_pass(const Envelope& env, const Mesh& mesh, double start_s
     const double v = std::min(fwd.speed_mps[i], bwd.speed_mps[i]);
     lap.speed_mps[i] = v;
     lap.phase[i] = classify_phase(bwd.speed_mps[i] < fwd.speed_mps[i], fwd.clipped[i],
-                                  lap.steady.limit[i], fwd.cut[i]);
+                                  steady_.limit[i], fwd.cut[i]);
   }
 
   // Time: sum of 2 ds / (v_i + v_{i+1}), exact for a constant acceleration over each step

@@ -32,12 +32,12 @@ Circuit lay_out(const Track& track, const Air& air) {
 
 namespace {
 // An open track's start speed above what the car can hold there is bad input (the track's).
-void check_start_speed(const Circuit& c, const Lap& lap) {
-  if (!c.track.closed && c.track.start_speed_mps > lap.steady.speed_mps.front() * (1 + 1e-9)) {
+void check_start_speed(const Circuit& c, const SteadyProfile& steady) {
+  if (!c.track.closed && c.track.start_speed_mps > steady.speed_mps.front() * (1 + 1e-9)) {
     char buf[160];
     std::snprintf(buf, sizeof buf,
                   "start_speed %.1f km/h is more than the car can hold at the start (%.1f km/h)",
-                  c.track.start_speed_mps / units::kph, lap.steady.speed_mps.front() / units::kph);
+                  c.track.start_speed_mps / units::kph, steady.speed_mps.front() / units::kph);
     throw InvalidInput(c.track.subject(), broken_rule("start_speed", buf));
   }
 }
@@ -46,14 +46,14 @@ void check_start_speed(const Circuit& c, const Lap& lap) {
 LapRun run_lap(const ConfiguredCar& car, const Circuit& c, LapSolver& solver) {
   const Envelope env(car, c.air);
   const Lap& lap = solver.solve(env, c.mesh, c.track.start_speed_mps);
-  check_start_speed(c, lap);
+  check_start_speed(c, solver.steady());
   LapRun r{lap, summarize(lap, c.mesh, c.track, c.corners, env)};
   return r;
 }
 
 const Lap& solve_speed_only(const Envelope& env, const Circuit& c, LapSolver& solver) {
   const Lap& lap = solver.solve_speed(env, c.mesh, c.track.start_speed_mps);
-  check_start_speed(c, lap);
+  check_start_speed(c, solver.steady());
   return lap;
 }
 
@@ -64,10 +64,14 @@ double lap_time(const ConfiguredCar& car, const Circuit& c, LapSolver& solver) {
 
 LapRun run_lap(const ConfiguredCar& car, const Circuit& c) {
   // The lap moved out of a solver of its own, not copied: one lap in memory, not two, and the
-  // sweeps' buffers freed before its channels are made.
+  // sweeps' buffers freed before its channels are made; the solver's steady limits go with it.
   const Envelope env(car, c.air);
-  Lap lap = LapSolver().solve_once(env, c.mesh, c.track.start_speed_mps);
-  check_start_speed(c, lap);
+  Lap lap;
+  {
+    LapSolver solver;
+    lap = solver.solve_once(env, c.mesh, c.track.start_speed_mps);
+    check_start_speed(c, solver.steady());
+  }
   LapSummary summary = summarize(lap, c.mesh, c.track, c.corners, env);
   return LapRun{std::move(lap), std::move(summary)};
 }

@@ -18,7 +18,7 @@ double estimate_peak_bytes(const MemoryPlan& plan) {
   const double lap = plan.channels ? lap_bytes_per_point : speed_lap_bytes_per_point;
   return static_cast<double>(fixed_bytes) + points * mesh_bytes_per_point +
          points * static_cast<double>(plan.laps_kept) * lap_bytes_per_point +
-         largest * plan.solvers * (lap + sweeps_bytes_per_point) + largest * delta_bytes_per_point +
+         largest * plan.solvers * (lap + solver_bytes_per_point) + largest * delta_bytes_per_point +
          largest * static_cast<double>(plan.variant_meshes) * mesh_bytes_per_point;
 }
 

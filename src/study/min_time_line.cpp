@@ -21,16 +21,16 @@ constexpr double weight_power = 8.0;
 
 // Per reference point: how close the lap on the line runs to the tyres' steady limit.
 std::vector<double> grip_weights(const PathProfile& line, const Mesh& mesh, const Lap& lap,
-                                 std::size_t points) {
+                                 const SteadyProfile& steady, std::size_t points) {
   std::vector<double> w(points);
   for (std::size_t i = 0; i < points; ++i) {
     const auto j =
         std::min(mesh.size() - 1, static_cast<std::size_t>(std::lround(line.s_m[i] / mesh.step_m)));
-    if (lap.steady.limit[j] != SteadyLimit::grip) {
+    if (steady.limit[j] != SteadyLimit::grip) {
       w[i] = weight_floor;
       continue;
     }
-    const double r = std::min(1.0, lap.speed_mps[j] / lap.steady.speed_mps[j]);
+    const double r = std::min(1.0, lap.speed_mps[j] / steady.speed_mps[j]);
     w[i] = weight_floor + (1.0 - weight_floor) * std::pow(r, weight_power);
   }
   return w;
@@ -58,7 +58,7 @@ MinTimeLine min_time_line(const Track& track, const Air& air, const ConfiguredCa
   out.line = *t.line_path;
   out.lap_s = lap;
   for (int pass = 0; pass < min_time_max_passes; ++pass) {
-    o.weights = grip_weights(*t.line_path, c.mesh, *current, ref.size());
+    o.weights = grip_weights(*t.line_path, c.mesh, *current, solver.steady(), ref.size());
     const RacingLine candidate = min_curvature_line(ref, o, line.offset_m);
     // The update's step: the whole way to the weighted line, or half or a quarter of it (the
     // weights were read on the line before; a full step can overshoot where the lap becomes

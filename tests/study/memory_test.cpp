@@ -42,6 +42,7 @@ TEST_CASE("bytes per mesh point: every vector a mesh, a lap and a sweep hold is 
   CHECK(m.width_left_m.empty());  // a track without widths: the edges hold nothing
   const Mesh flat = build_mesh(test::circle_track(200.0, 0.5), 0.5);
   CHECK((flat.bank_rad.empty() && flat.head_wind_mps.empty()));
+  CHECK(flat.bank_rad.capacity() == 0);  // its storage freed, not only emptied
   CHECK(sizeof(Mesh) < 512);  // nothing else of the mesh's own: twelve vectors and three scalars
 
   const ConfiguredCar car = test::configured(test::plain_car());
@@ -51,8 +52,7 @@ TEST_CASE("bytes per mesh point: every vector a mesh, a lap and a sweep hold is 
            bytes(l.lat_accel_mps2) + bytes(l.gear) + bytes(l.engine_radps) + bytes(l.drag_n) +
            bytes(l.downforce_n) + bytes(l.front_load_n) + bytes(l.rear_load_n) +
            bytes(l.front_share) + bytes(l.aero_balance_eff) + bytes(l.front_usage) +
-           bytes(l.rear_usage) + bytes(l.phase) + bytes(l.trimmed) + bytes(l.steady.speed_mps) +
-           bytes(l.steady.limit);
+           bytes(l.rear_usage) + bytes(l.phase) + bytes(l.trimmed);
   };
   // A solver of its own for each, so that the speed-only lap holds no channel of another lap.
   LapSolver full, speed_only;
@@ -60,13 +60,16 @@ TEST_CASE("bytes per mesh point: every vector a mesh, a lap and a sweep hold is 
   CHECK(static_cast<double>(lap_bytes(speed_only.solve_speed(env, m))) / n ==
         speed_lap_bytes_per_point);
 
-  const std::vector<double>& limit = full.solve(env, m).steady.speed_mps;
+  // A solver's own state: its steady limits and its two sweeps.
+  const SteadyProfile& steady = full.steady();
+  const std::vector<double>& limit = steady.speed_mps;
   auto sweep_bytes = [](const SweepResult& s) {
     return bytes(s.speed_mps) + bytes(s.clipped) + bytes(s.cut) + bytes(s.gear);
   };
-  const std::size_t both = sweep_bytes(sweep(env, m, Sweep::forward, limit, 0, 10)) +
-                           sweep_bytes(sweep(env, m, Sweep::backward, limit, m.size() - 1, 10));
-  CHECK(static_cast<double>(both) / n == sweeps_bytes_per_point);
+  const std::size_t state = bytes(steady.speed_mps) + bytes(steady.limit) +
+                            sweep_bytes(sweep(env, m, Sweep::forward, limit, 0, 10)) +
+                            sweep_bytes(sweep(env, m, Sweep::backward, limit, m.size() - 1, 10));
+  CHECK(static_cast<double>(state) / n == solver_bytes_per_point);
 }
 
 TEST_CASE("the estimate adds the parts: meshes, laps kept, solvers at the largest mesh") {
@@ -78,7 +81,7 @@ TEST_CASE("the estimate adds the parts: meshes, laps kept, solvers at the larges
   // fixed + (1000 + 3000) (mesh + 2 laps) + 3000 (2 solvers' lap and sweeps + one delta trace)
   const double want = static_cast<double>(fixed_bytes) +
                       4000.0 * (mesh_bytes_per_point + 2 * lap_bytes_per_point) +
-                      3000.0 * (2 * (lap_bytes_per_point + sweeps_bytes_per_point) + 8);
+                      3000.0 * (2 * (lap_bytes_per_point + solver_bytes_per_point) + 8);
   CHECK(estimate_peak_bytes(p) == want);
   // The verdict's two smoothing variants: two more meshes at the largest.
   p.variant_meshes = 2;

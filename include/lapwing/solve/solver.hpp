@@ -101,7 +101,6 @@ struct Lap {
   std::vector<double> front_usage, rear_usage;  // each axle's friction-ellipse usage (1: limit)
   std::vector<Phase> phase;
   std::vector<std::uint8_t> trimmed;  // straight-line trim in use
-  SteadyProfile steady;
   double lap_time_s = 0.0;
   bool has_channels = false;  // accelerations, gear, forces, loads, usage filled
 };
@@ -131,11 +130,15 @@ class LapSolver {
   /// Both passes, as solve_lap: solve_speed, then add_channels.
   const Lap& solve(const Envelope& env, const Mesh& mesh, double start_speed_mps = 0.0);
   /// Both passes for a lap solved once (solve_lap, run_lap), moved out: the sweeps' buffers are
-  /// freed before the channels pass, so that they are never held beside the channels. The
-  /// solver may be used again (its sweeps then allocate anew).
+  /// freed before the channels pass, so that they are never held beside the channels (the
+  /// steady limits stay, for steady()). The solver may be used again (its sweeps then allocate
+  /// anew).
   Lap solve_once(const Envelope& env, const Mesh& mesh, double start_speed_mps = 0.0);
   /// Moves the last lap out.
   Lap take();
+  /// The steady limits of the last speed solve (working state of the solve, not part of the
+  /// lap: a lap kept or written out does not carry them). Valid until the next solve.
+  const SteadyProfile& steady() const { return steady_; }
 
  private:
   /// The speed solve into lap_, its channels left as they were (has_channels false).
@@ -144,6 +147,7 @@ class LapSolver {
   void channels_pass(const Envelope& env, const Mesh& mesh);
   Integrator integrator_;
   Lap lap_;
+  SteadyProfile steady_;
   SweepResult forward_, backward_;
 };
 

@@ -30,15 +30,15 @@ struct MemoryPlan {
 ///   head wind; the two edges' widths, where a track has them, are not counted);
 /// - Lap with every channel: speed, time, two accelerations, engine speed, drag, downforce, two
 ///   axle loads, front share, effective aero balance, two axle usages (13 doubles), gear (int),
-///   phase, trim flag, and its SteadyProfile (a double and a limit);
-/// - Lap of speed and time only: speed, time, phase and the SteadyProfile;
-/// - a solver's two sweeps: speed (double) and clipped (flag) each, the forward one's cut (flag)
-///   and gear (int);
+///   phase, trim flag;
+/// - Lap of speed and time only: speed, time, phase;
+/// - a solver's own state: its steady limits (SteadyProfile: a double and a limit) and its two
+///   sweeps: speed (double) and clipped (flag) each, the forward one's cut (flag) and gear (int);
 /// - while a delta file is written, its trace: one double.
 inline constexpr std::size_t mesh_bytes_per_point = 9 * 8 + 1;
-inline constexpr std::size_t lap_bytes_per_point = 13 * 8 + 4 + 1 + 1 + (8 + 1);
-inline constexpr std::size_t speed_lap_bytes_per_point = 2 * 8 + 1 + (8 + 1);
-inline constexpr std::size_t sweeps_bytes_per_point = 2 * (8 + 1) + 1 + 4;
+inline constexpr std::size_t lap_bytes_per_point = 13 * 8 + 4 + 1 + 1;
+inline constexpr std::size_t speed_lap_bytes_per_point = 2 * 8 + 1;
+inline constexpr std::size_t solver_bytes_per_point = (8 + 1) + 2 * (8 + 1) + 1 + 4;
 inline constexpr std::size_t delta_bytes_per_point = 8;
 /// What does not grow with the mesh: the program, its libraries, the car's tables, the
 /// summaries and the small output files (a 64 KB piece of a streamed trace among them). 16 MiB:
@@ -47,7 +47,7 @@ inline constexpr std::size_t delta_bytes_per_point = 8;
 inline constexpr std::size_t fixed_bytes = std::size_t{16} << 20;
 
 /// The estimated peak in bytes: fixed_bytes + the meshes + the laps kept + every solver's lap
-/// and sweeps at the largest mesh + one delta trace at the largest mesh + the variant meshes at
+/// and own state at the largest mesh + one delta trace at the largest mesh + the variant meshes at
 /// the largest mesh.
 double estimate_peak_bytes(const MemoryPlan& plan);
 
