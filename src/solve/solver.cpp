@@ -15,6 +15,7 @@
 #include "lapwing/base/error.hpp"
 #include "lapwing/base/units.hpp"
 #include "lapwing/solve/axle.hpp"
+#include "lapwing/solve/straight_tables.hpp"
 
 namespace lapwing {
 
@@ -106,12 +107,46 @@ struct PathForces {
 struct InverseMass {
   double m, m_eff;  // 1 / m, 1 / m_eff: no division per stage
 };
+//
+// `straight`: a level straight in still air (curvature 0 over the step, no grade, bank or head
+// wind), where the axle model's accelerations depend on u alone and its Envelope has them in
+// tables (solve/straight_tables.hpp). Braking reads its table. Under drive the engine's limit is
+// worked as axle_drive_accel works it, and the table gives the tyres' (the largest acceleration
+// they allow with no limit from the engine); the smaller is the answer, the model's to the
+// table's tolerance. Within `straight_margin` of each other, or where the table has no cell, the
+// model decides.
+constexpr double straight_margin = 1e-6;  // m/s^2: 100 x StraightTables::tolerance_mps2
+bool level_in_still_air(const Road& r) {
+  return r.sin_slope == 0.0 && r.sin_bank == 0.0 && r.cos_slope == 1.0 && r.cos_bank == 1.0 &&
+         r.head_wind_mps == 0.0;
+}
+[[gnu::always_inline]] inline bool straight_drive(const Envelope& env, const Envelope::Rows& rows,
+                                                  double u, const Road& road, bool trimmed,
+                                                  double drive_share, double& out) {
+  const StraightTables& t = *env.straight_tables();
+  double grip;
+  if (!(trimmed ? t.grip_trimmed : t.grip).at(u, grip)) return false;
+  const Envelope::RoadForces f = env.road_forces(rows, u, 0.0, road);
+  const double engine = (drive_share * f.drive_n - f.resistance_n) / env.effective_mass_kg();
+  if (engine >= 0.0 && engine <= grip - straight_margin) {
+    out = engine;  // as axle_drive_accel: the engine's limit, which the tyres allow
+    return true;
+  }
+  if (engine >= grip + straight_margin) {
+    out = grip;
+    return true;
+  }
+  return false;
+}
 template <bool Axle>
 [[gnu::always_inline]] inline double drive_accel(const Envelope& env, const Envelope::Rows& rows,
                                                  double u, double k, const Road& road, bool trimmed,
                                                  double drive_share, const InverseMass& inv,
-                                                 AxleHints* hints = nullptr) {
+                                                 AxleHints* hints = nullptr,
+                                                 bool straight = false) {
   if constexpr (Axle) {
+    double a;
+    if (straight && straight_drive(env, rows, u, road, trimmed, drive_share, a)) return a;
     return axle_drive_accel(env, u, k, road, drive_share * rows.at(u).drive_n, trimmed, hints);
   } else {
     const PathForces f = path_forces(env, rows, u, k, road);
@@ -123,8 +158,11 @@ template <bool Axle>
 [[gnu::always_inline]] inline double brake_accel(const Envelope& env, const Envelope::Rows& rows,
                                                  double u, double k, const Road& road,
                                                  const InverseMass& inv,
-                                                 AxleHints* hints = nullptr) {
+                                                 AxleHints* hints = nullptr,
+                                                 bool straight = false) {
   if constexpr (Axle) {
+    double a;
+    if (straight && env.straight_tables()->brake.at(u, a)) return a;
     return axle_brake_accel(env, u, k, road, hints);
   } else {
     const PathForces f = path_forces(env, rows, u, k, road);
@@ -303,6 +341,8 @@ class Sweeper {
     ulim0_ = limit_[i] * limit_[i];
     dulim_ = (limit_[j_] * limit_[j_] - ulim0_) / ds_;
     road_ = road_at_(forward_ ? i : j_);
+    straight_ = Axle && env_.straight_tables() && k0_ == 0.0 && dk_ == 0.0 &&
+                level_in_still_air(road_);
     // Under drive, movable aero trims where the step starts on a straight enough piece (inside
     // a trim zone, where the track has them); under braking it does not.
     trimmed_ = forward_ && env_.trims(k0_) && mesh_.trim_zone[i];
@@ -322,8 +362,9 @@ class Sweeper {
     const double u0 = std::max(u, 0.0);
     const double k = k0_ + dk_ * x;
     return 2.0 * (forward_ ? drive_accel<Axle>(env_, rows_, u0, k, road_, trimmed_, drive_share_,
-                                               inv_mass_, &hints_)
-                           : brake_accel<Axle>(env_, rows_, u0, k, road_, inv_mass_, &hints_));
+                                               inv_mass_, &hints_, straight_)
+                           : brake_accel<Axle>(env_, rows_, u0, k, road_, inv_mass_, &hints_,
+                                               straight_));
   }
 
   /// The limit in u = v^2 a distance x into the step (linear between the step's ends).
@@ -396,6 +437,7 @@ class Sweeper {
   double k0_ = 0.0, dk_ = 0.0, drive_share_ = 1.0;
   double ulim0_ = 0.0, dulim_ = 0.0;  // the limit in u at the step's start, and its slope
   bool trimmed_ = false;
+  bool straight_ = false;  // a level straight in still air: the straight-line tables apply
   Envelope::Rows rows_{nullptr, 0, 0.0};  // the table the step reads
   Road road_{};
   int gear_ = 0;
@@ -776,6 +818,7 @@ void LapSolver::channels_pass(const Envelope& env, const Mesh& mesh) {
   const InverseMass inv{1.0 / m, 1.0 / env.effective_mass_kg()};
   const bool axle_model = car.model == VehicleModel::axle;
   AxleHints drive_hints, brake_hints;  // from point to point, as in the sweeps
+  const bool tables = axle_model && env.straight_tables();
   const auto point_accel = [&](std::size_t i, const Road& road) {
     std::size_t lo = i, hi = i;
     if (i > 0)
@@ -792,16 +835,18 @@ void LapSolver::channels_pass(const Envelope& env, const Mesh& mesh) {
         (lap.speed_mps[hi] * lap.speed_mps[hi] - lap.speed_mps[lo] * lap.speed_mps[lo]) /
         (2.0 * span);
     const double k = std::abs(mesh.curvature_1pm[i]);
+    const bool straight = tables && k == 0.0 && level_in_still_air(road);
     if (diff >= 0.0) {
       const bool trims = env.trims(k) && mesh.trim_zone[i];
       const Envelope::Rows rows = env.rows(trims);
-      return std::min(
-          diff, axle_model ? drive_accel<true>(env, rows, u, k, road, trims, 1.0, inv, &drive_hints)
-                           : drive_accel<false>(env, rows, u, k, road, trims, 1.0, inv));
+      return std::min(diff, axle_model ? drive_accel<true>(env, rows, u, k, road, trims, 1.0, inv,
+                                                           &drive_hints, straight)
+                                       : drive_accel<false>(env, rows, u, k, road, trims, 1.0, inv));
     }
     const Envelope::Rows rows = env.rows(false);
-    return std::max(diff, -(axle_model ? brake_accel<true>(env, rows, u, k, road, inv, &brake_hints)
-                                       : brake_accel<false>(env, rows, u, k, road, inv)));
+    return std::max(diff, -(axle_model
+                                ? brake_accel<true>(env, rows, u, k, road, inv, &brake_hints, straight)
+                                : brake_accel<false>(env, rows, u, k, road, inv)));
   };
   RoadReader road_at(mesh);
   for (std::size_t i = 0; i < n; ++i) {

@@ -1,0 +1,71 @@
+// The axle model's accelerations on a level straight in still air, tabulated over u = v^2 once
+// per Envelope, so that the sweeps read a braking zone or a traction-limited launch from a table
+// instead of solving the load-transfer fixed point at every stage (README, "Performance"). There
+// the accelerations depend on u alone. Each cell of the table is the cubic
+// through the four nearest nodes, kept only where it matches the model at the cell's middle to
+// within `tolerance_mps2` (and its neighbours' too); elsewhere (a kink where the binding axle
+// changes, the breaks of a ride-height map's speeds) the caller asks the model itself. The
+// answers stay the model's to 3e-8 m/s^2, a few billionths of a braking deceleration.
+#pragma once
+
+#include <array>
+#include <cstddef>
+#include <functional>
+#include <vector>
+
+namespace lapwing {
+
+class Envelope;
+
+/// A function of x >= 0 on a uniform grid, one cubic per cell (x_i = i h); cells that failed
+/// the check at build hold none (at() says false there).
+class CellCubics {
+ public:
+  CellCubics() = default;
+  /// Cubics from node values f(i h), i = 0..n-1 (n >= 4): cell i's the cubic through the four
+  /// nodes nearest it (i-1..i+2, shifted inwards at the ends). `exact_mid(i)` is f at the
+  /// middle of cell i; a cell whose cubic misses it by more than `tolerance` goes, with its
+  /// two neighbours (their stencils share the cell's nodes).
+  CellCubics(const std::vector<double>& nodes, double h, double tolerance,
+             const std::function<double(std::size_t)>& exact_mid);
+
+  bool empty() const { return cells_.empty(); }
+  std::size_t cells() const { return cells_.size(); }
+  std::size_t kept_cells() const;
+  /// f(x) by its cell's cubic into `out`; false outside the grid or in a cell without one.
+  [[gnu::always_inline]] bool at(double x, double& out) const {
+    const double f = x * inv_h_;
+    if (!(f >= 0.0 && f < top_)) return false;
+    const std::size_t i = static_cast<std::size_t>(f);
+    const std::array<double, 4>& c = cells_[i];
+    if (!(c[0] == c[0])) return false;  // NaN: no cubic here
+    const double t = f - static_cast<double>(i);
+    out = c[0] + t * (c[1] + t * (c[2] + t * c[3]));
+    return true;
+  }
+
+ private:
+  std::vector<std::array<double, 4>> cells_;  // monomial coefficients in t = x / h - i
+  double inv_h_ = 0.0, top_ = 0.0;
+};
+
+/// The straight-line tables of an axle-model Envelope (level road, still air, curvature 0).
+struct StraightTables {
+  /// Agreement with the model asked of every kept cell (m/s^2): thirty times the fixed point's
+  /// own tolerance (axle.cpp, 1e-9 m/s^2), and about the ripple the Envelope's rows (linear in
+  /// u between rows 1/8000 of the range apart) leave in the model's answers where an aero
+  /// coefficient varies with speed (measured: up to 1.3e-8 m/s^2 between the cubics and the
+  /// model, Pellion FR-2 medium_table). Against braking and drive of several m/s^2 it moves a
+  /// lap time by some 1e-11 (tools/lap-times, all bundled cases).
+  static constexpr double tolerance_mps2 = 3e-8;
+  /// Cells over [0, the Envelope's top speed squared].
+  static constexpr std::size_t cell_count = 1024;
+  CellCubics brake;         // axle_brake_accel
+  CellCubics grip;          // axle_drive_accel with no limit from the engine, untrimmed rows
+  CellCubics grip_trimmed;  // the same on the straight-line trim's rows (empty without one)
+};
+
+/// Builds the tables from the model (solve/axle.hpp) over the Envelope's speed range.
+StraightTables build_straight_tables(const Envelope& env);
+
+}  // namespace lapwing
