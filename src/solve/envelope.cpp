@@ -13,7 +13,7 @@
 #include "lapwing/base/interpolate.hpp"
 #include "lapwing/base/units.hpp"
 #include "lapwing/model/powertrain.hpp"
-#include "lapwing/solve/straight_tables.hpp"
+#include "lapwing/solve/level_tables.hpp"
 
 namespace lapwing {
 
@@ -208,8 +208,8 @@ Envelope::Envelope(Unchecked, const ConfiguredCar& configured, const Car& car, c
                                           boost::math::tools::eps_tolerance<double>(48), iters);
     v_top_ = 0.5 * (lo + hi);
   }
-  if (options.straight_tables && car.model == VehicleModel::axle)
-    straight_ = std::make_shared<const StraightTables>(build_straight_tables(*this));
+  if (options.level_tables && car.model == VehicleModel::axle)
+    level_ = std::make_shared<const LevelTables>(build_level_tables(*this));
 }
 
 AeroPoint Envelope::aero_point(double v) const {

@@ -15,7 +15,7 @@
 #include "lapwing/base/error.hpp"
 #include "lapwing/base/units.hpp"
 #include "lapwing/solve/axle.hpp"
-#include "lapwing/solve/straight_tables.hpp"
+#include "lapwing/solve/level_tables.hpp"
 
 namespace lapwing {
 
@@ -110,12 +110,12 @@ struct InverseMass {
 //
 // `straight`: a level straight in still air (curvature 0 over the step, no grade, bank or head
 // wind), where the axle model's accelerations depend on u alone and its Envelope has them in
-// tables (solve/straight_tables.hpp). Braking reads its table. Under drive the engine's limit is
+// tables (solve/level_tables.hpp). Braking reads its table. Under drive the engine's limit is
 // worked as axle_drive_accel works it, and the table gives the tyres' (the largest acceleration
 // they allow with no limit from the engine); the smaller is the answer, the model's to the
 // table's tolerance. Within `straight_margin` of each other, or where the table has no cell, the
 // model decides.
-constexpr double straight_margin = 1e-6;  // m/s^2: 100 x StraightTables::tolerance_mps2
+constexpr double straight_margin = 1e-6;  // m/s^2: 100 x LevelTables::tolerance_mps2
 bool level_in_still_air(const Road& r) {
   return r.sin_slope == 0.0 && r.sin_bank == 0.0 && r.cos_slope == 1.0 && r.cos_bank == 1.0 &&
          r.head_wind_mps == 0.0;
@@ -123,7 +123,7 @@ bool level_in_still_air(const Road& r) {
 [[gnu::always_inline]] inline bool straight_drive(const Envelope& env, const Envelope::Rows& rows,
                                                   double u, const Road& road, bool trimmed,
                                                   double drive_share, double& out) {
-  const StraightTables& t = *env.straight_tables();
+  const LevelTables& t = *env.level_tables();
   double grip;
   if (!(trimmed ? t.grip_trimmed : t.grip).at(u, grip)) return false;
   const Envelope::RoadForces f = env.road_forces(rows, u, 0.0, road);
@@ -162,7 +162,7 @@ template <bool Axle>
                                                  bool straight = false) {
   if constexpr (Axle) {
     double a;
-    if (straight && env.straight_tables()->brake.at(u, a)) return a;
+    if (straight && env.level_tables()->brake.at(u, a)) return a;
     return axle_brake_accel(env, u, k, road, hints);
   } else {
     const PathForces f = path_forces(env, rows, u, k, road);
@@ -341,7 +341,7 @@ class Sweeper {
     ulim0_ = limit_[i] * limit_[i];
     dulim_ = (limit_[j_] * limit_[j_] - ulim0_) / ds_;
     road_ = road_at_(forward_ ? i : j_);
-    straight_ = Axle && env_.straight_tables() && k0_ == 0.0 && dk_ == 0.0 &&
+    straight_ = Axle && env_.level_tables() && k0_ == 0.0 && dk_ == 0.0 &&
                 level_in_still_air(road_);
     // Under drive, movable aero trims where the step starts on a straight enough piece (inside
     // a trim zone, where the track has them); under braking it does not.
@@ -818,7 +818,7 @@ void LapSolver::channels_pass(const Envelope& env, const Mesh& mesh) {
   const InverseMass inv{1.0 / m, 1.0 / env.effective_mass_kg()};
   const bool axle_model = car.model == VehicleModel::axle;
   AxleHints drive_hints, brake_hints;  // from point to point, as in the sweeps
-  const bool tables = axle_model && env.straight_tables();
+  const bool tables = axle_model && env.level_tables();
   const auto point_accel = [&](std::size_t i, const Road& road) {
     std::size_t lo = i, hi = i;
     if (i > 0)

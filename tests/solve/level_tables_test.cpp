@@ -1,4 +1,4 @@
-// The straight-line tables (solve/straight_tables.hpp): the cubics against closed forms, the
+// The straight-line tables (solve/level_tables.hpp): the cubics against closed forms, the
 // tables against the axle model they stand in for, and laps with them against laps without.
 #include <doctest/doctest.h>
 
@@ -15,7 +15,7 @@
 #include "lapwing/model/loads.hpp"
 #include "lapwing/solve/axle.hpp"
 #include "lapwing/solve/solver.hpp"
-#include "lapwing/solve/straight_tables.hpp"
+#include "lapwing/solve/level_tables.hpp"
 #include "lapwing/study/circuit.hpp"
 #include "test_support.hpp"
 
@@ -86,7 +86,7 @@ TEST_CASE("a kink drops the cells whose cubic it spoils, and only those") {
 }
 
 TEST_CASE("the tables give the axle model's straight-line accelerations to 1e-8 m/s^2") {
-  // The stand-in's promise (StraightTables::tolerance_mps2), checked between the build's own
+  // The stand-in's promise (LevelTables::tolerance_mps2), checked between the build's own
   // check points: 4,000 speeds per table, against axle_brake_accel and axle_drive_accel (no
   // limit from the engine) on a level road in still air at curvature 0. The cells kept must be
   // most of them, or the tables would buy nothing: at least 90 % (a kink where the binding axle
@@ -98,7 +98,7 @@ TEST_CASE("the tables give the axle model's straight-line accelerations to 1e-8 
   int tables = 0;
   for (const ConfiguredCar& car : cars()) {
     const Envelope env(car, make_air(AirSpec{}));
-    const StraightTables* t = env.straight_tables();
+    const LevelTables* t = env.level_tables();
     REQUIRE(t != nullptr);
     const double top = env.max_speed_mps() * env.max_speed_mps();
     auto check = [&](const CellCubics& c, const std::function<double(double)>& model) {
@@ -111,7 +111,7 @@ TEST_CASE("the tables give the axle model's straight-line accelerations to 1e-8 
         if (c.at(u, y)) worst = std::max(worst, std::abs(y - model(u)));
       }
       INFO(car.car().name << " " << car.aero().name);
-      CHECK(worst <= StraightTables::tolerance_mps2);
+      CHECK(worst <= LevelTables::tolerance_mps2);
     };
     check(t->brake, [&](double u) { return axle_brake_accel(env, u, 0.0, level); });
     check(t->grip, [&](double u) { return axle_drive_accel(env, u, 0.0, level, inf, false); });
@@ -132,10 +132,10 @@ TEST_CASE("laps with the straight-line tables are the model's laps (1e-9 relativ
     const Circuit c = test::bundled_circuit(track);
     for (const ConfiguredCar& car : cars()) {
       EnvelopeOptions off;
-      off.straight_tables = false;
+      off.level_tables = false;
       const Envelope with(car, c.air), without(car, c.air, off);
-      CHECK(with.straight_tables() != nullptr);
-      CHECK(without.straight_tables() == nullptr);
+      CHECK(with.level_tables() != nullptr);
+      CHECK(without.level_tables() == nullptr);
       const double a = solve_lap(with, c.mesh).lap_time_s, b = solve_lap(without, c.mesh).lap_time_s;
       INFO(car.car().name << " " << car.aero().name << " " << track);
       CHECK(test::near(a, b, 1e-9));
@@ -146,5 +146,5 @@ TEST_CASE("laps with the straight-line tables are the model's laps (1e-9 relativ
 TEST_CASE("the point mass has no straight-line tables") {
   Car car = load_car(test::source_path("cars/caldra-gt.yaml"));
   car.model = VehicleModel::point_mass;
-  CHECK(Envelope(car.configured(0), make_air(AirSpec{})).straight_tables() == nullptr);
+  CHECK(Envelope(car.configured(0), make_air(AirSpec{})).level_tables() == nullptr);
 }

@@ -50,7 +50,7 @@ class CellCubics {
 };
 
 /// The straight-line tables of an axle-model Envelope (level road, still air, curvature 0).
-struct StraightTables {
+struct LevelTables {
   /// Agreement with the model asked of every kept cell (m/s^2): thirty times the fixed point's
   /// own tolerance (axle.cpp, 1e-9 m/s^2), and about the ripple the Envelope's rows (linear in
   /// u between rows 1/8000 of the range apart) leave in the model's answers where an aero
@@ -66,6 +66,6 @@ struct StraightTables {
 };
 
 /// Builds the tables from the model (solve/axle.hpp) over the Envelope's speed range.
-StraightTables build_straight_tables(const Envelope& env);
+LevelTables build_level_tables(const Envelope& env);
 
 }  // namespace lapwing

@@ -1,4 +1,4 @@
-#include "lapwing/solve/straight_tables.hpp"
+#include "lapwing/solve/level_tables.hpp"
 
 #include <algorithm>
 #include <cmath>
@@ -15,7 +15,7 @@ namespace lapwing {
 // whose factor peaks over the cell at t = 1/2: 9/16); where the function kinks in a
 // neighbouring cell (the breaks of a speed-dependent aero coefficient) the error elsewhere in
 // the cell can be a few times that at the middle. A quarter of the tolerance keeps the whole
-// cell within it (tests/solve/straight_tables_test.cpp samples the cells between their middles).
+// cell within it (tests/solve/level_tables_test.cpp samples the cells between their middles).
 constexpr double check_share = 0.25;
 
 CellCubics::CellCubics(const std::vector<double>& nodes, double h, double tolerance,
@@ -58,18 +58,18 @@ std::size_t CellCubics::kept_cells() const {
       cells_.begin(), cells_.end(), [](const std::array<double, 4>& c) { return c[0] == c[0]; }));
 }
 
-StraightTables build_straight_tables(const Envelope& env) {
-  StraightTables t;
+LevelTables build_level_tables(const Envelope& env) {
+  LevelTables t;
   const Road level{};
   const double top = env.max_speed_mps() * env.max_speed_mps();
-  const std::size_t cells = StraightTables::cell_count;
+  const std::size_t cells = LevelTables::cell_count;
   const double h = top / static_cast<double>(cells);
   constexpr double unlimited = std::numeric_limits<double>::infinity();
   auto table = [&](auto f) {
     AxleHints hints;  // node to node, as a sweep's steps
     std::vector<double> nodes(cells + 1);
     for (std::size_t i = 0; i <= cells; ++i) nodes[i] = f(static_cast<double>(i) * h, hints);
-    return CellCubics(nodes, h, StraightTables::tolerance_mps2, [&](std::size_t i) {
+    return CellCubics(nodes, h, LevelTables::tolerance_mps2, [&](std::size_t i) {
       return f((static_cast<double>(i) + 0.5) * h, hints);
     });
   };
