@@ -239,6 +239,7 @@ void steady_profile(const Envelope& env, const Mesh& mesh, SteadyProfile& p) {
   const double v_max = env.max_speed_mps();
   const TyreModel& tyres = env.tyres();
   const bool axle = env.car().model == VehicleModel::axle;
+  const LevelTables* tables = axle ? env.level_tables() : nullptr;
   double last_curv = std::nan("");
   Road last_road{std::nan(""), 0.0, 0.0, 0.0, 0.0};
   bool last_trimmed = false;
@@ -278,8 +279,14 @@ void steady_profile(const Envelope& env, const Mesh& mesh, SteadyProfile& p) {
       // Tyres: (|R| / Fx_max)^n + (|F_y| / Fy_max)^n <= 1, R = resistance to hold v, F_y the
       // lateral demand (m v^2 |kappa| on a flat road). With the axle model, on the axle that
       // saturates first.
+      // On a level road in still air the axle model's Envelope has the grip limit in a table
+      // (LevelTables::steady_grip_speed).
       const Envelope::Rows rows = env.rows(false);
-      v_grip =
+      double v_table = 0.0;
+      if (tables && level_in_still_air(road) && tables->steady_grip_speed(curv, v_table))
+        v_grip = v_table;
+      else
+        v_grip =
           axle ? highest_feasible([&](double v) { return axle_steady_excess(env, v, curv, road); },
                                   v_max, hint, width)
                : highest_feasible(

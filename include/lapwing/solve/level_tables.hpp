@@ -30,6 +30,10 @@ class CellCubics {
              const std::function<double(std::size_t)>& exact_mid);
 
   bool empty() const { return cells_.empty(); }
+  /// Cell i's cubic in t = x / h - i (monomial coefficients), or nullptr where it has none.
+  const std::array<double, 4>* cubic(std::size_t i) const {
+    return i < cells_.size() && cells_[i][0] == cells_[i][0] ? &cells_[i] : nullptr;
+  }
   std::size_t cells() const { return cells_.size(); }
   std::size_t kept_cells() const;
   /// f(x) by its cell's cubic into `out`; false outside the grid or in a cell without one.
@@ -63,6 +67,29 @@ struct LevelTables {
   CellCubics brake;         // axle_brake_accel
   CellCubics grip;          // axle_drive_accel with no limit from the engine, untrimmed rows
   CellCubics grip_trimmed;  // the same on the straight-line trim's rows (empty without one)
+
+  /// The steady grip limit of a level turn in still air. Tabulated the other way round: the
+  /// largest lateral acceleration A(u) = u |kappa| the tyres hold in a steady turn at speed
+  /// squared u (axle_steady_excess <= 0), smooth in u where the speed at a given curvature is
+  /// not (it grows without bound towards the curvature at which downforce alone would hold the
+  /// car), in `lateral_cell_count` cells up to the top speed squared; nodes solved to 50 bits.
+  /// The grip limit at |kappa| is then the highest u with A(u) >= |kappa| u: the node where
+  /// that changes sign by bisection, the cell's cubic by a safeguarded Newton iteration. An
+  /// error dA moves u by dA / (|kappa| - A'(u)), u times dA / A(0) for A affine in u: a share of
+  /// the speed that does not grow where the speed does.
+  static constexpr std::size_t lateral_cell_count = 256;
+  static constexpr double lateral_tolerance_mps2 = 1e-8;
+  /// The share the table's speed is moved to the feasible side by (and half the agreement asked
+  /// of it with the model's limit): several times what lateral_tolerance_mps2 moves it by at
+  /// most (dA / (2 A(0)), some 4e-10 for the bundled cars, A(0) at 12 to 16 m/s^2).
+  static constexpr double steady_speed_share = 2e-9;
+  CellCubics lateral_limit;
+  std::vector<double> lateral_nodes;  // A(u) at the nodes, u = i lateral_du
+  double lateral_du = 0.0;
+  /// The grip limit at |kappa| into `v`; false where the table does not settle it: a straight,
+  /// a limit at the top speed or below the first node's, or in a cell without a cubic (the
+  /// caller searches).
+  bool steady_grip_speed(double abs_curvature, double& v) const;
 };
 
 /// Builds the tables from the model (solve/axle.hpp) over the Envelope's speed range.
