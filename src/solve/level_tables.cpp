@@ -107,7 +107,7 @@ LevelTables build_level_tables(const Envelope& env) {
       for (double w = 1e-6; w < 0.05; w *= 100.0) {
         const double a = (1.0 - w) * guess, b = (1.0 + w) * guess;
         const double fa = excess(a);
-        if (fa > 0.0) continue;
+        if (!(fa <= 0.0)) continue;
         const double fb = excess(b);
         if (fb > 0.0) return tools::toms748_solve(excess, a, b, fa, fb, eps, iters).first;
       }
@@ -118,8 +118,11 @@ LevelTables build_level_tables(const Envelope& env) {
       hi *= 2.0;
       f_hi = excess(hi);
     }
-    if (!(f_hi > 0.0)) return std::numeric_limits<double>::quiet_NaN();
-    return tools::toms748_solve(excess, lo, hi, excess(lo), f_hi, eps, iters).first;
+    const double f_lo = excess(lo);
+    // No bracket (a car that cannot hold itself on the level, or no limit found): no node, and
+    // the cells around it keep no cubic.
+    if (!(f_hi > 0.0) || !(f_lo <= 0.0)) return std::numeric_limits<double>::quiet_NaN();
+    return tools::toms748_solve(excess, lo, hi, f_lo, f_hi, eps, iters).first;
   };
   // Node 0 (u = 0, where a curvature cannot make a lateral acceleration) is read a thousandth of
   // a cell up: cell 0's check fails if that is not close enough, and the search answers there.
