@@ -738,12 +738,19 @@ const Lap& LapSolver::add_channels(const Envelope& env, const Mesh& mesh) {
 }
 
 Lap LapSolver::solve_once(const Envelope& env, const Mesh& mesh, double start_speed_mps) {
-  speed_pass(env, mesh, start_speed_mps);
-  // The channels pass reads the forward sweep's gears alone: the lap takes them, and the sweeps'
-  // other buffers go before the channels are made (README, "Memory").
+  solve_speed(env, mesh, start_speed_mps);
+  return take_with_channels(env, mesh);
+}
+
+Lap LapSolver::take_with_channels(const Envelope& env, const Mesh& mesh) {
+  if (lap_.speed_mps.size() != mesh.size() || forward_.gear.size() != mesh.size())
+    throw std::logic_error("LapSolver::take_with_channels: no speed solve on this mesh");
+  // The channels pass reads the forward sweep's gears alone: the lap takes them, and the rest
+  // of the solver's state goes before the channels are made (README, "Memory").
   lap_.gear = std::move(forward_.gear);
   forward_ = {};
   backward_ = {};
+  steady_ = {};
   channels_pass(env, mesh);
   return take();
 }

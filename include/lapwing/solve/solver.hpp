@@ -129,11 +129,15 @@ class LapSolver {
   const Lap& add_channels(const Envelope& env, const Mesh& mesh);
   /// Both passes, as solve_lap: solve_speed, then add_channels.
   const Lap& solve(const Envelope& env, const Mesh& mesh, double start_speed_mps = 0.0);
-  /// Both passes for a lap solved once (solve_lap, run_lap), moved out: the sweeps' buffers are
-  /// freed before the channels pass, so that they are never held beside the channels (the
-  /// steady limits stay, for steady()). The solver may be used again (its sweeps then allocate
-  /// anew).
+  /// Both passes for a lap solved once (solve_lap), moved out: solve_speed, then
+  /// take_with_channels.
   Lap solve_once(const Envelope& env, const Mesh& mesh, double start_speed_mps = 0.0);
+  /// The channels pass over the last speed solve (as add_channels), the lap moved out: the
+  /// solver's own state, its steady limits and both sweeps, is freed first (the lap takes the
+  /// forward sweep's gears, all the channels pass reads of it), so that it is never held beside
+  /// the channels (README, "Memory"). steady() is then empty; the solver may be used again (its
+  /// buffers then allocate anew). Throws std::logic_error without a speed solve on the mesh.
+  Lap take_with_channels(const Envelope& env, const Mesh& mesh);
   /// Moves the last lap out.
   Lap take();
   /// The steady limits of the last speed solve (working state of the solve, not part of the
