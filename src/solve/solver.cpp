@@ -664,8 +664,7 @@ const Lap& LapSolver::solve_speed(const Envelope& env, const Mesh& mesh, double 
   // earlier lap go, so that none is read against this lap's speeds.
   Lap& lap = lap_;
   for (auto* v : {&lap.long_accel_mps2, &lap.lat_accel_mps2, &lap.engine_radps, &lap.drag_n,
-                  &lap.downforce_n, &lap.front_load_n, &lap.rear_load_n, &lap.front_share,
-                  &lap.aero_balance_eff, &lap.front_usage, &lap.rear_usage})
+                  &lap.downforce_n, &lap.front_load_n, &lap.rear_load_n, &lap.aero_balance_eff, &lap.front_usage, &lap.rear_usage})
     v->clear();
   lap.gear.clear();
   lap.trimmed.clear();
@@ -771,7 +770,7 @@ void LapSolver::channels_pass(const Envelope& env, const Mesh& mesh) {
   lap.front_load_n.resize(n);
   lap.rear_load_n.resize(n);
   lap.trimmed.resize(n);
-  for (auto* v : {&lap.front_share, &lap.aero_balance_eff, &lap.front_usage, &lap.rear_usage})
+  for (auto* v : {&lap.aero_balance_eff, &lap.front_usage, &lap.rear_usage})
     v->resize(n);
   // The acceleration at a point: d(v^2)/(2 ds) by the central difference
   // (v_{i+1}^2 - v_{i-1}^2) / (4 ds) (through the seam of a closed lap; one-sided at the ends of
@@ -843,7 +842,6 @@ void LapSolver::channels_pass(const Envelope& env, const Mesh& mesh) {
         axle_loads(car, f.drag_n, f.downforce_n, row.balance, f.normal_share, road.sin_slope, ax);
     lap.front_load_n[i] = loads.front_n;
     lap.rear_load_n[i] = loads.rear_n;
-    lap.front_share[i] = loads.front_n / (loads.front_n + loads.rear_n);
     // Front share of the aero load with the drag moment (axle.hpp; the coefficients' rho / 2
     // cancels); NaN, written as an empty field, where there is no downforce to share.
     lap.aero_balance_eff[i] = aero_balance_with_drag_moment(row.lift_coef, row.drag_coef,
