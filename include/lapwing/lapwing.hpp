@@ -58,6 +58,7 @@
 #include "lapwing/solve/axle.hpp"
 #include "lapwing/solve/envelope.hpp"
 #include "lapwing/solve/solver.hpp"
+#include "lapwing/solve/level_tables.hpp"
 #include "lapwing/solve/summary.hpp"
 
 // study

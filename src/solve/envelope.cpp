@@ -13,6 +13,7 @@
 #include "lapwing/base/interpolate.hpp"
 #include "lapwing/base/units.hpp"
 #include "lapwing/model/powertrain.hpp"
+#include "lapwing/solve/level_tables.hpp"
 
 namespace lapwing {
 
@@ -207,6 +208,8 @@ Envelope::Envelope(Unchecked, const ConfiguredCar& configured, const Car& car, c
                                           boost::math::tools::eps_tolerance<double>(48), iters);
     v_top_ = 0.5 * (lo + hi);
   }
+  if (options.level_tables && car.model == VehicleModel::axle)
+    level_ = std::make_shared<const LevelTables>(build_level_tables(*this));
 }
 
 AeroPoint Envelope::aero_point(double v) const {

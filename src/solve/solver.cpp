@@ -15,6 +15,7 @@
 #include "lapwing/base/error.hpp"
 #include "lapwing/base/units.hpp"
 #include "lapwing/solve/axle.hpp"
+#include "lapwing/solve/level_tables.hpp"
 
 namespace lapwing {
 
@@ -106,12 +107,46 @@ struct PathForces {
 struct InverseMass {
   double m, m_eff;  // 1 / m, 1 / m_eff: no division per stage
 };
+//
+// `straight`: a level straight in still air (curvature 0 over the step, no grade, bank or head
+// wind), where the axle model's accelerations depend on u alone and its Envelope has them in
+// tables (solve/level_tables.hpp). Braking reads its table. Under drive the engine's limit is
+// worked as axle_drive_accel works it, and the table gives the tyres' (the largest acceleration
+// they allow with no limit from the engine); the smaller is the answer, the model's to the
+// table's tolerance. Within `straight_margin` of each other, or where the table has no cell, the
+// model decides.
+constexpr double straight_margin = 1e-6;  // m/s^2: 100 x LevelTables::tolerance_mps2
+bool level_in_still_air(const Road& r) {
+  return r.sin_slope == 0.0 && r.sin_bank == 0.0 && r.cos_slope == 1.0 && r.cos_bank == 1.0 &&
+         r.head_wind_mps == 0.0;
+}
+[[gnu::always_inline]] inline bool straight_drive(const Envelope& env, const Envelope::Rows& rows,
+                                                  double u, const Road& road, bool trimmed,
+                                                  double drive_share, double& out) {
+  const LevelTables& t = *env.level_tables();
+  double grip;
+  if (!(trimmed ? t.grip_trimmed : t.grip).at(u, grip)) return false;
+  const Envelope::RoadForces f = env.road_forces(rows, u, 0.0, road);
+  const double engine = (drive_share * f.drive_n - f.resistance_n) / env.effective_mass_kg();
+  if (engine >= 0.0 && engine <= grip - straight_margin) {
+    out = engine;  // as axle_drive_accel: the engine's limit, which the tyres allow
+    return true;
+  }
+  if (engine >= grip + straight_margin) {
+    out = grip;
+    return true;
+  }
+  return false;
+}
 template <bool Axle>
 [[gnu::always_inline]] inline double drive_accel(const Envelope& env, const Envelope::Rows& rows,
                                                  double u, double k, const Road& road, bool trimmed,
                                                  double drive_share, const InverseMass& inv,
-                                                 AxleHints* hints = nullptr) {
+                                                 AxleHints* hints = nullptr,
+                                                 bool straight = false) {
   if constexpr (Axle) {
+    double a;
+    if (straight && straight_drive(env, rows, u, road, trimmed, drive_share, a)) return a;
     return axle_drive_accel(env, u, k, road, drive_share * rows.at(u).drive_n, trimmed, hints);
   } else {
     const PathForces f = path_forces(env, rows, u, k, road);
@@ -123,8 +158,11 @@ template <bool Axle>
 [[gnu::always_inline]] inline double brake_accel(const Envelope& env, const Envelope::Rows& rows,
                                                  double u, double k, const Road& road,
                                                  const InverseMass& inv,
-                                                 AxleHints* hints = nullptr) {
+                                                 AxleHints* hints = nullptr,
+                                                 bool straight = false) {
   if constexpr (Axle) {
+    double a;
+    if (straight && env.level_tables()->brake.at(u, a)) return a;
     return axle_brake_accel(env, u, k, road, hints);
   } else {
     const PathForces f = path_forces(env, rows, u, k, road);
@@ -140,23 +178,28 @@ std::string where(const Mesh& mesh, std::size_t i) {
 }
 
 // Highest v in [0, v_max] with f(v) <= 0, for f <= 0 at 0 and monotone enough to have one
-// crossing; f(v_max) <= 0 gives v_max. `hint` (the answer at the previous mesh point, or 0)
-// first tries a bracket of +-2 % around it, which neighbouring points nearly always share.
+// crossing; f(v_max) <= 0 gives v_max. `hint` (a guess of the answer: the previous mesh
+// point's, or one extrapolated from the last two; 0 for none) first tries a bracket of
+// +-`width` of itself, then one of +-2 %, which neighbouring points nearly always share; the
+// narrower the bracket, the fewer steps TOMS 748 takes to 2^-36 of the answer.
 template <typename F>
-double highest_feasible(F f, double v_max, double hint) {
+double highest_feasible(F f, double v_max, double hint, double width = 0.02) {
   namespace tools = boost::math::tools;
   const double f_hi = f(v_max);
   if (f_hi <= 0.0) return v_max;
   std::uintmax_t iters = 100;
   if (hint > 0.0 && hint < v_max) {
-    const double a = 0.98 * hint, b = std::min(1.02 * hint, v_max);
-    const double fa = f(a);
-    if (fa <= 0.0) {
-      const double fb = f(b);
-      if (fb > 0.0)
-        return tools::toms748_solve(f, a, b, fa, fb, tools::eps_tolerance<double>(steady_bits),
-                                    iters)
-            .first;
+    for (const double w : {width, 0.02}) {
+      const double a = (1.0 - w) * hint, b = std::min((1.0 + w) * hint, v_max);
+      const double fa = f(a);
+      if (fa <= 0.0) {
+        const double fb = f(b);
+        if (fb > 0.0)
+          return tools::toms748_solve(f, a, b, fa, fb, tools::eps_tolerance<double>(steady_bits),
+                                      iters)
+              .first;
+      }
+      if (w >= 0.02) break;
     }
   }
   const double f_lo = f(0.0);
@@ -166,6 +209,20 @@ double highest_feasible(F f, double v_max, double hint) {
                               iters)
       .first;
 }
+
+// The grip limit's guess at a point of curvature `k` from the last two points of the same road
+// (k1, v1 the last, k0, v0 the one before): w = 1 / v^2 is nearly affine in |kappa| (mu (m g +
+// L v^2) = m v^2 kappa gives w = (m kappa - mu L) / (mu m g), L the downforce per v^2), so its
+// straight-line extrapolation lands within some 1e-4 of the answer along a clothoid, where the
+// curvature changes at every point. 0 (no guess) where the two do not make a line.
+double extrapolated_grip(double k, double k1, double v1, double k0, double v0) {
+  if (!(v1 > 0.0 && v0 > 0.0) || !(k1 != k0)) return 0.0;
+  const double w1 = 1.0 / (v1 * v1), w0 = 1.0 / (v0 * v0);
+  const double w = w1 + (w1 - w0) * (k - k1) / (k1 - k0);
+  return w > 0.0 ? 1.0 / std::sqrt(w) : 0.0;
+}
+// The bracket tried first around an extrapolated guess.
+constexpr double extrapolated_width = 2e-4;
 
 }  // namespace
 
@@ -182,10 +239,13 @@ void steady_profile(const Envelope& env, const Mesh& mesh, SteadyProfile& p) {
   const double v_max = env.max_speed_mps();
   const TyreModel& tyres = env.tyres();
   const bool axle = env.car().model == VehicleModel::axle;
+  const LevelTables* tables = axle ? env.level_tables() : nullptr;
   double last_curv = std::nan("");
   Road last_road{std::nan(""), 0.0, 0.0, 0.0, 0.0};
   bool last_trimmed = false;
   double v_engine = 0.0, v_grip = 0.0;
+  double prev_curv = 0.0, prev_grip = 0.0;  // the point before the last whose grip was solved
+  bool have_two = false;
   RoadReader road_at(mesh);
   for (std::size_t i = 0; i < n; ++i) {
     const double curv = std::abs(mesh.curvature_1pm[i]);
@@ -206,13 +266,29 @@ void steady_profile(const Envelope& env, const Mesh& mesh, SteadyProfile& p) {
     }
     last_trimmed = trimmed;
     if (road_changed || curv != last_curv) {
+      // The guess: extrapolated along a clothoid (two earlier points on this road), else the
+      // last answer.
+      const bool line = !road_changed && have_two && curv != last_curv;
+      const double guess = line ? extrapolated_grip(curv, last_curv, v_grip, prev_curv, prev_grip)
+                                : 0.0;
+      prev_curv = last_curv;
+      prev_grip = v_grip;
+      have_two = !road_changed;
+      const double hint = guess > 0.0 ? guess : v_grip;
+      const double width = guess > 0.0 ? extrapolated_width : 0.02;
       // Tyres: (|R| / Fx_max)^n + (|F_y| / Fy_max)^n <= 1, R = resistance to hold v, F_y the
       // lateral demand (m v^2 |kappa| on a flat road). With the axle model, on the axle that
       // saturates first.
+      // On a level road in still air the axle model's Envelope has the grip limit in a table
+      // (LevelTables::steady_grip_speed).
       const Envelope::Rows rows = env.rows(false);
-      v_grip =
+      double v_table = 0.0;
+      if (tables && level_in_still_air(road) && tables->steady_grip_speed(curv, v_table))
+        v_grip = v_table;
+      else
+        v_grip =
           axle ? highest_feasible([&](double v) { return axle_steady_excess(env, v, curv, road); },
-                                  v_max, v_grip)
+                                  v_max, hint, width)
                : highest_feasible(
                      [&](double v) {
                        const Envelope::RoadForces f = env.road_forces(rows, v * v, curv, road);
@@ -220,7 +296,7 @@ void steady_profile(const Envelope& env, const Mesh& mesh, SteadyProfile& p) {
                                           std::abs(f.lateral_n) / tyres.fy_max(f.normal_n)) -
                               1.0;
                      },
-                     v_max, v_grip);
+                     v_max, hint, width);
     }
     last_road = road;
     last_curv = curv;
@@ -303,27 +379,49 @@ class Sweeper {
     ulim0_ = limit_[i] * limit_[i];
     dulim_ = (limit_[j_] * limit_[j_] - ulim0_) / ds_;
     road_ = road_at_(forward_ ? i : j_);
+    straight_ = Axle && env_.level_tables() && k0_ == 0.0 && dk_ == 0.0 &&
+                level_in_still_air(road_);
+    const bool trims_now = forward_ && env_.trims(k0_) && mesh_.trim_zone[i];
     // Under drive, movable aero trims where the step starts on a straight enough piece (inside
     // a trim zone, where the track has them); under braking it does not.
-    trimmed_ = forward_ && env_.trims(k0_) && mesh_.trim_zone[i];
+    trimmed_ = trims_now;
     rows_ = env_.rows(trimmed_);
+    const double last_share = drive_share_;
     drive_share_ = 1.0;
     if (forward_ && cut_left_s_ > 0.0) {
       // Share of this step's time (estimated at the entry speed) with the drive still on.
       const double step_time = ds_ / std::max(v_, 1e-3);
       drive_share_ = 1.0 - std::min(1.0, cut_left_s_ / step_time);
     }
+    // The last answer stands for a stage of the same state (memo_): the same road, trim, drive
+    // share and table choice as the step it came from.
+    if (!(same_road(road_, memo_road_) && trimmed_ == memo_trimmed_ &&
+          drive_share_ == last_share && straight_ == memo_straight_)) {
+      memo_.valid = false;
+      memo_road_ = road_;
+      memo_trimmed_ = trimmed_;
+      memo_straight_ = straight_;
+    }
     return v_ * v_;
   }
 
   /// d(v^2)/dx = 2 a at u = v^2, a distance x (0 .. ds) into the step, along the sweep's own
   /// direction of travel: forward under drive, backward under braking.
+  ///
+  /// A stage of the same u and curvature as the last one asked, in the same state (an arc taken
+  /// at its limit: every step's first stage held at the same limit), gets the last answer
+  /// again without asking the model.
   [[gnu::always_inline]] double rhs(double u, double x) const {
     const double u0 = std::max(u, 0.0);
     const double k = k0_ + dk_ * x;
-    return 2.0 * (forward_ ? drive_accel<Axle>(env_, rows_, u0, k, road_, trimmed_, drive_share_,
-                                               inv_mass_, &hints_)
-                           : brake_accel<Axle>(env_, rows_, u0, k, road_, inv_mass_, &hints_));
+    if (memo_.valid && u0 == memo_.u && k == memo_.k) return memo_.f;
+    const double f =
+        2.0 * (forward_ ? drive_accel<Axle>(env_, rows_, u0, k, road_, trimmed_, drive_share_,
+                                            inv_mass_, &hints_, straight_)
+                        : brake_accel<Axle>(env_, rows_, u0, k, road_, inv_mass_, &hints_,
+                                            straight_));
+    memo_ = {u0, k, f, true};
+    return f;
   }
 
   /// The limit in u = v^2 a distance x into the step (linear between the step's ends).
@@ -396,12 +494,21 @@ class Sweeper {
   double k0_ = 0.0, dk_ = 0.0, drive_share_ = 1.0;
   double ulim0_ = 0.0, dulim_ = 0.0;  // the limit in u at the step's start, and its slope
   bool trimmed_ = false;
+  bool straight_ = false;  // a level straight in still air: the straight-line tables apply
   Envelope::Rows rows_{nullptr, 0, 0.0};  // the table the step reads
   Road road_{};
   int gear_ = 0;
   double cut_left_s_ = 0.0;  // drive cut still to run after an upshift
   // The axle model's last answers, where its next solve starts (rhs is const: a cache).
   mutable AxleHints hints_;
+  // The last stage's state and answer (rhs), and the step state it holds for.
+  struct Memo {
+    double u = 0.0, k = 0.0, f = 0.0;
+    bool valid = false;
+  };
+  mutable Memo memo_;
+  Road memo_road_{std::numeric_limits<double>::quiet_NaN(), 0.0, 0.0, 0.0, 0.0};
+  bool memo_trimmed_ = false, memo_straight_ = false;
 };
 
 }  // namespace
@@ -782,6 +889,7 @@ void LapSolver::channels_pass(const Envelope& env, const Mesh& mesh) {
   const InverseMass inv{1.0 / m, 1.0 / env.effective_mass_kg()};
   const bool axle_model = car.model == VehicleModel::axle;
   AxleHints drive_hints, brake_hints;  // from point to point, as in the sweeps
+  const bool tables = axle_model && env.level_tables();
   const auto point_accel = [&](std::size_t i, const Road& road) {
     std::size_t lo = i, hi = i;
     if (i > 0)
@@ -798,16 +906,18 @@ void LapSolver::channels_pass(const Envelope& env, const Mesh& mesh) {
         (lap.speed_mps[hi] * lap.speed_mps[hi] - lap.speed_mps[lo] * lap.speed_mps[lo]) /
         (2.0 * span);
     const double k = std::abs(mesh.curvature_1pm[i]);
+    const bool straight = tables && k == 0.0 && level_in_still_air(road);
     if (diff >= 0.0) {
       const bool trims = env.trims(k) && mesh.trim_zone[i];
       const Envelope::Rows rows = env.rows(trims);
-      return std::min(
-          diff, axle_model ? drive_accel<true>(env, rows, u, k, road, trims, 1.0, inv, &drive_hints)
-                           : drive_accel<false>(env, rows, u, k, road, trims, 1.0, inv));
+      return std::min(diff, axle_model ? drive_accel<true>(env, rows, u, k, road, trims, 1.0, inv,
+                                                           &drive_hints, straight)
+                                       : drive_accel<false>(env, rows, u, k, road, trims, 1.0, inv));
     }
     const Envelope::Rows rows = env.rows(false);
-    return std::max(diff, -(axle_model ? brake_accel<true>(env, rows, u, k, road, inv, &brake_hints)
-                                       : brake_accel<false>(env, rows, u, k, road, inv)));
+    return std::max(diff, -(axle_model
+                                ? brake_accel<true>(env, rows, u, k, road, inv, &brake_hints, straight)
+                                : brake_accel<false>(env, rows, u, k, road, inv)));
   };
   RoadReader road_at(mesh);
   for (std::size_t i = 0; i < n; ++i) {

@@ -3,6 +3,7 @@
 #pragma once
 
 #include <cstddef>
+#include <memory>
 #include <optional>
 #include <vector>
 
@@ -32,6 +33,10 @@ struct EnvelopeOptions {
   // measured at circuit speeds say nothing this close to the speed of sound (compressibility,
   // common practice).
   double speed_ceiling_mps = 250.0;
+  // The axle model's straight-line tables (solve/level_tables.hpp), built with the Envelope
+  // and read by the solver on level straights in still air. Off: the solver asks the model at
+  // every stage (tests compare the two).
+  bool level_tables = true;
 
   /// 2 to 10 million rows, a margin above 1, a positive ceiling (key paths: member names).
   std::optional<Violation> validate() const;
@@ -47,6 +52,8 @@ enum class TopSpeedLimit {
 const char* top_speed_limit_name(TopSpeedLimit l);
 
 /// A car with one config applied (ConfiguredCar) in one air, tabulated over speed.
+struct LevelTables;
+
 class Envelope {
  public:
   /// A car that breaks a rule (Car::validate), air of no density or bad options are an
@@ -144,6 +151,9 @@ class Envelope {
   double downforce_n(double v) const { return sample(v).lift_coef * v * v; }
   double aero_balance(double v) const { return sample(v).balance; }
   double weight_n() const { return weight_; }
+  /// The axle model's straight-line tables (level road, still air, curvature 0); null for the
+  /// point mass or where EnvelopeOptions::level_tables is off.
+  const LevelTables* level_tables() const { return level_.get(); }
   double rolling_resistance() const { return crr_; }
 
   /// The forces on the road at u = v^2 on a point of curvature |k| (model/loads.hpp): the
@@ -203,6 +213,7 @@ class Envelope {
   double map_dv_ = 0.0;
   double off_map_speed_ = -1.0, grounded_speed_ = -1.0;
   std::vector<int> gear_;
+  std::shared_ptr<const LevelTables> level_;  // shared by copies: the same car and air
 };
 
 }  // namespace lapwing

@@ -1,0 +1,98 @@
+// The axle model's accelerations on a level straight in still air, tabulated over u = v^2 once
+// per Envelope, so that the sweeps read a braking zone or a traction-limited launch from a table
+// instead of solving the load-transfer fixed point at every stage (README, "Performance"). There
+// the accelerations depend on u alone. Each cell of the table is the cubic
+// through the four nearest nodes, kept only where it matches the model at the cell's middle to
+// within `tolerance_mps2` (and its neighbours' too); elsewhere (a kink where the binding axle
+// changes, the breaks of a ride-height map's speeds) the caller asks the model itself. The
+// answers stay the model's to 3e-8 m/s^2, a few billionths of a braking deceleration.
+#pragma once
+
+#include <array>
+#include <cstddef>
+#include <functional>
+#include <vector>
+
+namespace lapwing {
+
+class Envelope;
+
+/// A function of x >= 0 on a uniform grid, one cubic per cell (x_i = i h); cells that failed
+/// the check at build hold none (at() says false there).
+class CellCubics {
+ public:
+  CellCubics() = default;
+  /// Cubics from node values f(i h), i = 0..n-1 (n >= 4): cell i's the cubic through the four
+  /// nodes nearest it (i-1..i+2, shifted inwards at the ends). `exact_mid(i)` is f at the
+  /// middle of cell i; a cell whose cubic misses it by more than `tolerance` goes, with its
+  /// two neighbours (their stencils share the cell's nodes).
+  CellCubics(const std::vector<double>& nodes, double h, double tolerance,
+             const std::function<double(std::size_t)>& exact_mid);
+
+  bool empty() const { return cells_.empty(); }
+  /// Cell i's cubic in t = x / h - i (monomial coefficients), or nullptr where it has none.
+  const std::array<double, 4>* cubic(std::size_t i) const {
+    return i < cells_.size() && cells_[i][0] == cells_[i][0] ? &cells_[i] : nullptr;
+  }
+  std::size_t cells() const { return cells_.size(); }
+  std::size_t kept_cells() const;
+  /// f(x) by its cell's cubic into `out`; false outside the grid or in a cell without one.
+  [[gnu::always_inline]] bool at(double x, double& out) const {
+    const double f = x * inv_h_;
+    if (!(f >= 0.0 && f < top_)) return false;
+    const std::size_t i = static_cast<std::size_t>(f);
+    const std::array<double, 4>& c = cells_[i];
+    if (!(c[0] == c[0])) return false;  // NaN: no cubic here
+    const double t = f - static_cast<double>(i);
+    out = c[0] + t * (c[1] + t * (c[2] + t * c[3]));
+    return true;
+  }
+
+ private:
+  std::vector<std::array<double, 4>> cells_;  // monomial coefficients in t = x / h - i
+  double inv_h_ = 0.0, top_ = 0.0;
+};
+
+/// The straight-line tables of an axle-model Envelope (level road, still air, curvature 0).
+struct LevelTables {
+  /// Agreement with the model asked of every kept cell (m/s^2): thirty times the fixed point's
+  /// own tolerance (axle.cpp, 1e-9 m/s^2), and about the ripple the Envelope's rows (linear in
+  /// u between rows 1/8000 of the range apart) leave in the model's answers where an aero
+  /// coefficient varies with speed (measured: up to 1.3e-8 m/s^2 between the cubics and the
+  /// model, Pellion FR-2 medium_table). Against braking and drive of several m/s^2 it moves a
+  /// lap time by some 1e-11 (tools/lap-times, all bundled cases).
+  static constexpr double tolerance_mps2 = 3e-8;
+  /// Cells over [0, the Envelope's top speed squared].
+  static constexpr std::size_t cell_count = 1024;
+  CellCubics brake;         // axle_brake_accel
+  CellCubics grip;          // axle_drive_accel with no limit from the engine, untrimmed rows
+  CellCubics grip_trimmed;  // the same on the straight-line trim's rows (empty without one)
+
+  /// The steady grip limit of a level turn in still air. Tabulated the other way round: the
+  /// largest lateral acceleration A(u) = u |kappa| the tyres hold in a steady turn at speed
+  /// squared u (axle_steady_excess <= 0), smooth in u where the speed at a given curvature is
+  /// not (it grows without bound towards the curvature at which downforce alone would hold the
+  /// car), in `lateral_cell_count` cells up to the top speed squared; nodes solved to 50 bits.
+  /// The grip limit at |kappa| is then the highest u with A(u) >= |kappa| u: the node where
+  /// that changes sign by bisection, the cell's cubic by a safeguarded Newton iteration. An
+  /// error dA moves u by dA / (|kappa| - A'(u)), u times dA / A(0) for A affine in u: a share of
+  /// the speed that does not grow where the speed does.
+  static constexpr std::size_t lateral_cell_count = 256;
+  static constexpr double lateral_tolerance_mps2 = 1e-8;
+  /// The share the table's speed is moved to the feasible side by (and half the agreement asked
+  /// of it with the model's limit): several times what lateral_tolerance_mps2 moves it by at
+  /// most (dA / (2 A(0)), some 4e-10 for the bundled cars, A(0) at 12 to 16 m/s^2).
+  static constexpr double steady_speed_share = 2e-9;
+  CellCubics lateral_limit;
+  std::vector<double> lateral_nodes;  // A(u) at the nodes, u = i lateral_du
+  double lateral_du = 0.0;
+  /// The grip limit at |kappa| into `v`; false where the table does not settle it: a straight,
+  /// a limit at the top speed or below the first node's, or in a cell without a cubic (the
+  /// caller searches).
+  bool steady_grip_speed(double abs_curvature, double& v) const;
+};
+
+/// Builds the tables from the model (solve/axle.hpp) over the Envelope's speed range.
+LevelTables build_level_tables(const Envelope& env);
+
+}  // namespace lapwing
