@@ -350,10 +350,13 @@ Mesh build_mesh(const Track& track, double step_m) {
     m.bank_rad[n] = m.bank_rad[0];
     m.trim_zone[n] = m.trim_zone[0];
   }
-  // A flat track keeps no bank, and still air no head wind (Mesh: empty, read as 0). The bank's
-  // storage goes with a new vector: `= {}` would assign an empty list and keep the storage.
-  if (std::all_of(m.bank_rad.begin(), m.bank_rad.end(), [](double b) { return b == 0.0; }))
-    m.bank_rad = std::vector<double>();
+  // A flat track keeps no bank and no elevation, and still air no head wind (Mesh: empty, read
+  // as 0). The storage goes with a new vector: `= {}` would assign an empty list and keep it.
+  const auto zero = [](const std::vector<double>& v) {
+    return std::all_of(v.begin(), v.end(), [](double x) { return x == 0.0; });
+  };
+  if (zero(m.bank_rad)) m.bank_rad = std::vector<double>();
+  if (zero(m.elevation_m)) m.elevation_m = std::vector<double>();
   if (track.wind) {
     m.head_wind_mps.resize(n + 1);
     for (std::size_t i = 0; i <= n; ++i)

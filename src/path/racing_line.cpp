@@ -143,8 +143,8 @@ LineReference line_reference(const Track& track, double spacing_m) {
                         m.width_left_m.begin() + static_cast<std::ptrdiff_t>(n));
   r.width_right_m.assign(m.width_right_m.begin(),
                          m.width_right_m.begin() + static_cast<std::ptrdiff_t>(n));
-  r.elevation_m.assign(m.elevation_m.begin(),
-                       m.elevation_m.begin() + static_cast<std::ptrdiff_t>(n));
+  r.elevation_m.resize(n);
+  for (std::size_t i = 0; i < n; ++i) r.elevation_m[i] = m.elevation_at(i);
   return r;
 }
 

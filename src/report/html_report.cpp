@@ -4,6 +4,7 @@
 #include <array>
 #include <cmath>
 #include <cstdio>
+#include <functional>
 #include <initializer_list>
 
 #include "lapwing/base/format.hpp"
@@ -47,13 +48,24 @@ std::vector<std::size_t> picks(std::size_t n, std::size_t want) {
   return out;
 }
 
+// A channel's value at point i: a stored channel (a vector), or one worked point by point (a
+// function of the index: the front share from the axle loads, its shifts bridged), so that no
+// channel is copied whole for a plot.
+double value_at(const std::vector<double>& y, std::size_t i) {
+  return y[i];
+}
+template <typename F>
+double value_at(const F& y, std::size_t i) {
+  return y(i);
+}
+
 // Decimated (x, y) of a channel along the lap, keeping the last point.
-Series along(const Mesh& mesh, const std::vector<double>& y, double scale, std::string name,
-             std::size_t colour) {
+template <typename Y>
+Series along(const Mesh& mesh, const Y& y, double scale, std::string name, std::size_t colour) {
   Series s{std::move(name), {}, {}, colour, false, 1.6};
   for (std::size_t i : picks(mesh.size(), trace_points)) {
     s.x.push_back(mesh.s_m[i]);
-    s.y.push_back(y[i] * scale);
+    s.y.push_back(value_at(y, i) * scale);
   }
   return s;
 }
@@ -113,12 +125,13 @@ std::string js_string(const std::string& s) {
 }
 
 // Numbers at fixed decimals, comma-separated (the same bytes for the same lap).
-std::string js_numbers(const std::vector<double>& v, const std::vector<std::size_t>& at,
-                       double scale, int decimals) {
+template <typename Y>
+std::string js_numbers(const Y& v, const std::vector<std::size_t>& at, double scale,
+                       int decimals) {
   std::string o = "[";
   for (std::size_t k = 0; k < at.size(); ++k) {
     if (k) o += ',';
-    o += fixed(v[at[k]] * scale, decimals);
+    o += fixed(value_at(v, at[k]) * scale, decimals);
   }
   return o + "]";
 }
@@ -216,46 +229,56 @@ svg .corner-link { cursor: pointer; fill: #0072B2; text-decoration: underline; }
 // The front share with each gear shift's drive cut bridged: the points of a shift and one
 // either side (where the acceleration changes sign) replaced by a straight line between the
 // points around them. The cut is 0.04 s or so of load moving forward and back; bridged, the
-// trend through the lap is what shows.
-std::vector<double> bridged_shifts(const std::vector<double>& y, const std::vector<Phase>& phase) {
-  const std::size_t n = y.size();
-  std::vector<char> cut(n, 0);
-  for (std::size_t i = 0; i < n; ++i)
-    if (phase[i] == Phase::shift)
-      for (std::size_t j = i ? i - 1 : 0; j <= std::min(n - 1, i + 1); ++j) cut[j] = 1;
-  std::vector<double> out = y;
-  for (std::size_t i = 0; i < n;) {
-    if (!cut[i]) {
-      ++i;
-      continue;
+// trend through the lap is what shows. Worked point by point from the runs of bridged points
+// (one per upshift), not copied whole: a long lap's report holds no channel of its length.
+class BridgedShifts {
+ public:
+  BridgedShifts(std::function<double(std::size_t)> y, const std::vector<Phase>& phase)
+      : y_(std::move(y)), n_(phase.size()) {
+    for (std::size_t i = 0; i < n_; ++i) {
+      if (phase[i] != Phase::shift) continue;
+      const std::size_t a = i ? i - 1 : 0, b = std::min(n_ - 1, i + 1) + 1;  // [a, b) bridged
+      if (!runs_.empty() && a <= runs_.back().second)
+        runs_.back().second = std::max(runs_.back().second, b);  // one run with the last
+      else
+        runs_.push_back({a, b});
     }
-    std::size_t j = i;
-    while (j < n && cut[j]) ++j;  // [i, j) is cut
-    const bool has_a = i > 0, has_b = j < n;
-    for (std::size_t k = i; k < j; ++k) {
-      if (has_a && has_b) {
-        const double w = static_cast<double>(k - (i - 1)) / static_cast<double>(j - (i - 1));
-        out[k] = y[i - 1] + w * (y[j] - y[i - 1]);
-      } else {
-        out[k] = has_a ? y[i - 1] : has_b ? y[j] : y[k];
-      }
-    }
-    i = j;
   }
-  return out;
-}
+  double operator()(std::size_t k) const {
+    // The run [i, j) that holds k, if one does.
+    const auto after = std::upper_bound(
+        runs_.begin(), runs_.end(), k,
+        [](std::size_t p, const std::pair<std::size_t, std::size_t>& r) { return p < r.first; });
+    if (after == runs_.begin() || k >= std::prev(after)->second) return y_(k);
+    const auto [i, j] = *std::prev(after);
+    const bool has_a = i > 0, has_b = j < n_;
+    if (has_a && has_b) {
+      const double w = static_cast<double>(k - (i - 1)) / static_cast<double>(j - (i - 1));
+      return y_(i - 1) + w * (y_(j) - y_(i - 1));
+    }
+    return has_a ? y_(i - 1) : has_b ? y_(j) : y_(k);
+  }
 
-// Decimated values of a raw channel that keep its spikes: in each stretch of `k` points, the
-// value farthest from the trend (so that the cuts behind the trend still show).
-std::vector<double> spikes_kept(const std::vector<double>& raw, const std::vector<double>& trend,
-                                const std::vector<std::size_t>& at) {
+ private:
+  std::function<double(std::size_t)> y_;
+  std::size_t n_;
+  std::vector<std::pair<std::size_t, std::size_t>> runs_;
+};
+
+// Decimated values of a raw channel of n points that keep its spikes: in each stretch of `k`
+// points, the value farthest from the trend (so that the cuts behind the trend still show).
+template <typename R, typename T>
+std::vector<double> spikes_kept(const R& raw, const T& trend, const std::vector<std::size_t>& at,
+                                std::size_t n) {
   std::vector<double> out;
   for (std::size_t p = 0; p < at.size(); ++p) {
     const std::size_t a = at[p], b = p + 1 < at.size() ? at[p + 1] : at[p] + 1;
     std::size_t best = a;
-    for (std::size_t i = a; i < b && i < raw.size(); ++i)
-      if (std::abs(raw[i] - trend[i]) > std::abs(raw[best] - trend[best])) best = i;
-    out.push_back(raw[best]);
+    for (std::size_t i = a; i < b && i < n; ++i)
+      if (std::abs(value_at(raw, i) - value_at(trend, i)) >
+          std::abs(value_at(raw, best) - value_at(trend, best)))
+        best = i;
+    out.push_back(value_at(raw, best));
   }
   return out;
 }
@@ -368,10 +391,11 @@ std::string front_share_plot(const TrackView& v) {
   const BalanceWindowResult* win = window_of(v.pt.entries[v.pt.best]);
   for (std::size_t k = 0; k < v.pt.entries.size(); ++k) {
     const Lap& lap = v.pt.entries[k].run.lap;
-    const std::vector<double> trend = bridged_shifts(lap.front_share, lap.phase);
-    Series raw = along(v.c.mesh, lap.front_share, 100.0, v.names[k], k);
+    const auto share = [&lap](std::size_t i) { return front_share(lap, i); };
+    const BridgedShifts trend(share, lap.phase);
+    Series raw = along(v.c.mesh, share, 100.0, v.names[k], k);
     const auto at = picks(v.c.mesh.size(), trace_points);
-    raw.y = spikes_kept(lap.front_share, trend, at);
+    raw.y = spikes_kept(share, trend, at, lap.phase.size());
     for (double& y : raw.y) y *= 100.0;
     raw.width = 0.8;
     raw.opacity = 0.35;
@@ -380,7 +404,8 @@ std::string front_share_plot(const TrackView& v) {
   }
   for (std::size_t k = 0; k < v.pt.entries.size(); ++k) {
     const Lap& lap = v.pt.entries[k].run.lap;
-    p.add(along(v.c.mesh, bridged_shifts(lap.front_share, lap.phase), 100.0, v.names[k], k));
+    const BridgedShifts trend([&lap](std::size_t i) { return front_share(lap, i); }, lap.phase);
+    p.add(along(v.c.mesh, trend, 100.0, v.names[k], k));
   }
   p.key({"as solved (shift cuts)",
          "<line x1=\"0\" y1=\"5\" x2=\"16\" y2=\"5\" stroke=\"#5b6577\" "
@@ -390,7 +415,8 @@ std::string front_share_plot(const TrackView& v) {
     double lo = 100 * win->window.front_share_min, hi = 100 * win->window.front_share_max;
     double y0 = lo, y1 = hi;
     for (const auto& e : v.pt.entries)
-      for (double f : e.run.lap.front_share) {
+      for (std::size_t i = 0; i < e.run.lap.front_load_n.size(); ++i) {
+        const double f = front_share(e.run.lap, i);
         y0 = std::min(y0, 100 * f);
         y1 = std::max(y1, 100 * f);
       }
@@ -504,8 +530,9 @@ std::string trace_data(const TrackView& v) {
   o += "],\"series\":[";
   for (std::size_t k = 0; k < pt.entries.size(); ++k) {
     const Lap& lap = pt.entries[k].run.lap;
-    const std::vector<double> trend = bridged_shifts(lap.front_share, lap.phase);
-    std::vector<double> raw = spikes_kept(lap.front_share, trend, at);
+    const auto share = [&lap](std::size_t i) { return front_share(lap, i); };
+    const BridgedShifts trend(share, lap.phase);
+    std::vector<double> raw = spikes_kept(share, trend, at, lap.phase.size());
     std::vector<std::size_t> all(raw.size());
     for (std::size_t i = 0; i < all.size(); ++i) all[i] = i;
     o += std::string(k ? "," : "") + series_head(k) + ",\"y\":" + js_numbers(trend, at, 100.0, 2) +

@@ -200,7 +200,7 @@ constexpr TraceChannel trace_channel_list[] = {
     {"rear_load_N", TraceChannel::Kind::number,
      [](const Lap& l, const Mesh&, std::size_t i) { return l.rear_load_n[i]; }},
     {"front_share", TraceChannel::Kind::number,
-     [](const Lap& l, const Mesh&, std::size_t i) { return l.front_share[i]; }},
+     [](const Lap& l, const Mesh&, std::size_t i) { return front_share(l, i); }},
     // Undefined (empty in the file) where the car has no downforce: a share of no load.
     {"aero_balance_eff", TraceChannel::Kind::number_or_empty,
      [](const Lap& l, const Mesh&, std::size_t i) { return l.aero_balance_eff[i]; }},

@@ -771,8 +771,7 @@ const Lap& LapSolver::solve_speed(const Envelope& env, const Mesh& mesh, double 
   // earlier lap go, so that none is read against this lap's speeds.
   Lap& lap = lap_;
   for (auto* v : {&lap.long_accel_mps2, &lap.lat_accel_mps2, &lap.engine_radps, &lap.drag_n,
-                  &lap.downforce_n, &lap.front_load_n, &lap.rear_load_n, &lap.front_share,
-                  &lap.aero_balance_eff, &lap.front_usage, &lap.rear_usage})
+                  &lap.downforce_n, &lap.front_load_n, &lap.rear_load_n, &lap.aero_balance_eff, &lap.front_usage, &lap.rear_usage})
     v->clear();
   lap.gear.clear();
   lap.trimmed.clear();
@@ -845,12 +844,19 @@ const Lap& LapSolver::add_channels(const Envelope& env, const Mesh& mesh) {
 }
 
 Lap LapSolver::solve_once(const Envelope& env, const Mesh& mesh, double start_speed_mps) {
-  speed_pass(env, mesh, start_speed_mps);
-  // The channels pass reads the forward sweep's gears alone: the lap takes them, and the sweeps'
-  // other buffers go before the channels are made (README, "Memory").
+  solve_speed(env, mesh, start_speed_mps);
+  return take_with_channels(env, mesh);
+}
+
+Lap LapSolver::take_with_channels(const Envelope& env, const Mesh& mesh) {
+  if (lap_.speed_mps.size() != mesh.size() || forward_.gear.size() != mesh.size())
+    throw std::logic_error("LapSolver::take_with_channels: no speed solve on this mesh");
+  // The channels pass reads the forward sweep's gears alone: the lap takes them, and the rest
+  // of the solver's state goes before the channels are made (README, "Memory").
   lap_.gear = std::move(forward_.gear);
   forward_ = {};
   backward_ = {};
+  steady_ = {};
   channels_pass(env, mesh);
   return take();
 }
@@ -871,7 +877,7 @@ void LapSolver::channels_pass(const Envelope& env, const Mesh& mesh) {
   lap.front_load_n.resize(n);
   lap.rear_load_n.resize(n);
   lap.trimmed.resize(n);
-  for (auto* v : {&lap.front_share, &lap.aero_balance_eff, &lap.front_usage, &lap.rear_usage})
+  for (auto* v : {&lap.aero_balance_eff, &lap.front_usage, &lap.rear_usage})
     v->resize(n);
   // The acceleration at a point: d(v^2)/(2 ds) by the central difference
   // (v_{i+1}^2 - v_{i-1}^2) / (4 ds) (through the seam of a closed lap; one-sided at the ends of
@@ -946,7 +952,6 @@ void LapSolver::channels_pass(const Envelope& env, const Mesh& mesh) {
         axle_loads(car, f.drag_n, f.downforce_n, row.balance, f.normal_share, road.sin_slope, ax);
     lap.front_load_n[i] = loads.front_n;
     lap.rear_load_n[i] = loads.rear_n;
-    lap.front_share[i] = loads.front_n / (loads.front_n + loads.rear_n);
     // Front share of the aero load with the drag moment (axle.hpp; the coefficients' rho / 2
     // cancels); NaN, written as an empty field, where there is no downforce to share.
     lap.aero_balance_eff[i] = aero_balance_with_drag_moment(row.lift_coef, row.drag_coef,

@@ -146,7 +146,7 @@ BalanceWindowResult check_balance_window(const BalanceWindow& w, const Lap& lap,
     // This point's time: half of each interval it ends (an open track's ends have one).
     const double dt = 0.5 * ((i > 0 ? lap.time_s[i] - lap.time_s[i - 1] : 0.0) +
                              (i + 1 < n ? lap.time_s[i + 1] - lap.time_s[i] : 0.0));
-    const double share = lap.front_share[i];
+    const double share = front_share(lap, i);
     if (lap.speed_mps[i] > w.above_mps) {
       if (lap.phase[i] == Phase::brake) {
         brake_s += dt;
@@ -166,9 +166,9 @@ BalanceWindowResult check_balance_window(const BalanceWindow& w, const Lap& lap,
     }
     r.lowest_share = std::min(r.lowest_share, share);
     r.highest_share = std::max(r.highest_share, share);
-    const double we = excursion(lap.front_share[*worst]);
+    const double we = excursion(front_share(lap, *worst));
     if (std::abs(e) > std::abs(we) ||
-        (e == 0.0 && we == 0.0 && margin(share) < margin(lap.front_share[*worst])))
+        (e == 0.0 && we == 0.0 && margin(share) < margin(front_share(lap, *worst))))
       worst = i;
   }
   if (brake_s > 0.0) r.braking_share = brake_sum / brake_s;
@@ -176,9 +176,9 @@ BalanceWindowResult check_balance_window(const BalanceWindow& w, const Lap& lap,
   if (!worst) return r;
   const std::size_t i = *worst;
   r.outside_fraction = r.time_s > 0.0 ? outside_s / r.time_s : 0.0;
-  r.worst_excursion = excursion(lap.front_share[i]);
+  r.worst_excursion = excursion(front_share(lap, i));
   r.pass = outside_s == 0.0 && r.worst_excursion == 0.0;
-  r.margin = r.pass ? margin(lap.front_share[i]) : 0.0;
+  r.margin = r.pass ? margin(front_share(lap, i)) : 0.0;
   r.worst_at_m = mesh.s_m[i];
   r.worst_speed_mps = lap.speed_mps[i];
   r.worst_phase = lap.phase[i];
@@ -303,8 +303,8 @@ LapSummary summarize(const Lap& lap, const Mesh& mesh, const Track& track,
   b.lowest_front_share_at_m = 0.0;
   for (std::size_t i = 0; i < mesh.size(); ++i) {
     if (!full_drive(lap.phase[i]) || lap.speed_mps[i] <= 200.0 * units::kph) continue;
-    if (!b.has_fast_acceleration || lap.front_share[i] < b.lowest_front_share_fast) {
-      b.lowest_front_share_fast = lap.front_share[i];
+    if (!b.has_fast_acceleration || front_share(lap, i) < b.lowest_front_share_fast) {
+      b.lowest_front_share_fast = front_share(lap, i);
       b.lowest_front_share_at_m = mesh.s_m[i];
       b.has_fast_acceleration = true;
     }

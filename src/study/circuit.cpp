@@ -64,13 +64,14 @@ double lap_time(const ConfiguredCar& car, const Circuit& c, LapSolver& solver) {
 
 LapRun run_lap(const ConfiguredCar& car, const Circuit& c) {
   // The lap moved out of a solver of its own, not copied: one lap in memory, not two, and the
-  // sweeps' buffers freed before its channels are made; the solver's steady limits go with it.
+  // solver's steady limits and sweeps freed before its channels are made (the start speed is
+  // checked against the steady limits first).
   const Envelope env(car, c.air);
   Lap lap;
   {
     LapSolver solver;
-    lap = solver.solve_once(env, c.mesh, c.track.start_speed_mps);
-    check_start_speed(c, solver.steady());
+    solve_speed_only(env, c, solver);
+    lap = solver.take_with_channels(env, c.mesh);
   }
   LapSummary summary = summarize(lap, c.mesh, c.track, c.corners, env);
   return LapRun{std::move(lap), std::move(summary)};

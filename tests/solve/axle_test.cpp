@@ -31,7 +31,7 @@ TEST_CASE("with no aero, no drag height and no acceleration the shares are the s
   const LapRun r = run_lap(test::configured(car), c);
   for (std::size_t i = 0; i < c.mesh.size(); i += 50) {
     CHECK(r.lap.long_accel_mps2[i] == doctest::Approx(0.0).epsilon(1e-9));
-    CHECK(near(r.lap.front_share[i], 0.45, 1e-9));
+    CHECK(near(front_share(r.lap, i), 0.45, 1e-9));
   }
 }
 
@@ -97,8 +97,8 @@ TEST_CASE("more drag height lowers the front share at top speed by exactly drag 
   CHECK(
       near(a.lap.front_load_n[top] - b.lap.front_load_n[top], drag * 0.2 / low.wheelbase_m, 1e-9));
   const double total = a.lap.front_load_n[top] + a.lap.rear_load_n[top];
-  CHECK(near(a.lap.front_share[top] - b.lap.front_share[top], drag * 0.2 / low.wheelbase_m / total,
-             1e-9));
+  CHECK(near(front_share(a.lap, top) - front_share(b.lap, top),
+             drag * 0.2 / low.wheelbase_m / total, 1e-9));
 }
 
 TEST_CASE("usage: the car on its steady limit uses all of the limiting axle's ellipse") {

@@ -296,7 +296,7 @@ TEST_CASE("the speed solve fills no channel; the channels pass adds them, as sol
   CHECK(speed.lap_time_s == whole.lap_time_s);
   CHECK(speed.speed_mps == whole.speed_mps);
   CHECK(speed.phase == whole.phase);
-  CHECK(speed.front_share.empty());
+  CHECK(speed.front_load_n.empty());
   CHECK(speed.front_usage.empty());
   CHECK(speed.gear.empty());
   const Lap& full = solver.add_channels(env, c.mesh);
@@ -304,12 +304,12 @@ TEST_CASE("the speed solve fills no channel; the channels pass adds them, as sol
   CHECK(full.long_accel_mps2 == whole.long_accel_mps2);
   CHECK(full.gear == whole.gear);
   CHECK(full.front_load_n == whole.front_load_n);
-  CHECK(full.front_share == whole.front_share);
+  CHECK(full.rear_load_n == whole.rear_load_n);
   CHECK(full.front_usage == whole.front_usage);
   CHECK(full.trimmed == whole.trimmed);
   // A later speed solve drops the channels it would otherwise leave behind from this lap.
   CHECK_FALSE(solver.solve_speed(env, c.mesh, c.track.start_speed_mps).has_channels);
-  CHECK(solver.solve_speed(env, c.mesh).front_share.empty());
+  CHECK(solver.solve_speed(env, c.mesh).front_load_n.empty());
 }
 
 // Rotating inertia (issue 10, item 4). At the tyre limit the road force acts on the car's mass m:

@@ -209,9 +209,17 @@ TEST_CASE(
     lap.speed_mps.push_back(i == 10 ? slow : fast);  // the last point is below the window's speed
     lap.time_s.push_back(i);
     lap.lat_accel_mps2.push_back(lat_g[i] * g * (i % 2 ? 1.0 : -1.0));  // either direction
-    lap.front_share.push_back(share[i]);
+    lap.front_load_n.push_back(share[i]);  // the share is the front load over both (N)
+    lap.rear_load_n.push_back(1.0 - share[i]);
     lap.phase.push_back(phase[i]);
   }
+  // Sets point i's share, and checks that it reads back as set (these values do, exactly).
+  auto set_share = [&](std::size_t i, double s) {
+    lap.front_load_n[i] = s;
+    lap.rear_load_n[i] = 1.0 - s;
+    REQUIRE(front_share(lap, i) == s);
+  };
+  for (std::size_t i = 0; i <= 10; ++i) set_share(i, share[i]);
   // Corner 1 spans points 1..3, corner 2 points 7..9.
   const std::vector<CornerSpan> corners{{1, 1, 3, 1}, {2, 7, 9, -1}};
   const BalanceWindow w{0.38, 0.46, 150.0 * units::kph};
@@ -237,8 +245,8 @@ TEST_CASE(
   CHECK(*r.accelerating_share == doctest::Approx(0.38).epsilon(1e-12));
 
   // Inside everywhere: a pass, with the margin to the nearest edge at the closest point.
-  for (double& s : lap.front_share) s = std::clamp(s, 0.39, 0.45);
-  lap.front_share[8] = 0.445;  // 0.015 from the max: the closest of the window's points
+  for (std::size_t i = 0; i <= 10; ++i) set_share(i, std::clamp(share[i], 0.39, 0.45));
+  set_share(8, 0.445);  // 0.015 from the max: the closest of the window's points
   const BalanceWindowResult p = check_balance_window(w, lap, mesh, corners);
   CHECK(p.pass);
   CHECK(p.outside_fraction == 0.0);
@@ -248,7 +256,7 @@ TEST_CASE(
   CHECK(p.worst_at_m == 10.0);
 
   // A point between corners is placed on the straight to the next one.
-  lap.front_share[5] = 0.30;
+  set_share(5, 0.30);
   const BalanceWindowResult q = check_balance_window(w, lap, mesh, corners);
   CHECK(q.worst_at_m == 50.0);
   CHECK(q.worst_corner == 0);

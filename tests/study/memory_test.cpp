@@ -29,9 +29,13 @@ TEST_CASE("the point count is the mesh's, known before the mesh is built") {
 }
 
 TEST_CASE("bytes per mesh point: every vector a mesh, a lap and a sweep hold is counted") {
-  // Banked, in a wind: the mesh holds its bank and head wind (a flat track in still air not).
+  // Banked, climbing, in a wind: the mesh holds its bank, elevation and head wind (a flat track
+  // in still air not).
   Track t = test::circle_track(200.0, 0.5);
-  for (auto& g : t.segments) g.bank_rad = 5 * units::deg;
+  for (auto& g : t.segments) {
+    g.bank_rad = 5 * units::deg;
+    g.grade = 0.01;
+  }
   t.wind = Wind{4.0, 0.0};
   const Mesh m = build_mesh(t, t.mesh_m);
   const double n = static_cast<double>(m.size());
@@ -41,8 +45,9 @@ TEST_CASE("bytes per mesh point: every vector a mesh, a lap and a sweep hold is 
   CHECK(static_cast<double>(mesh) / n == mesh_bytes_per_point);
   CHECK(m.width_left_m.empty());  // a track without widths: the edges hold nothing
   const Mesh flat = build_mesh(test::circle_track(200.0, 0.5), 0.5);
-  CHECK((flat.bank_rad.empty() && flat.head_wind_mps.empty()));
-  CHECK(flat.bank_rad.capacity() == 0);  // its storage freed, not only emptied
+  CHECK((flat.bank_rad.empty() && flat.elevation_m.empty() && flat.head_wind_mps.empty()));
+  CHECK(flat.bank_rad.capacity() == 0);  // their storage freed, not only emptied
+  CHECK(flat.elevation_m.capacity() == 0);
   CHECK(sizeof(Mesh) < 512);  // nothing else of the mesh's own: twelve vectors and three scalars
 
   const ConfiguredCar car = test::configured(test::plain_car());
@@ -51,7 +56,7 @@ TEST_CASE("bytes per mesh point: every vector a mesh, a lap and a sweep hold is 
     return bytes(l.speed_mps) + bytes(l.time_s) + bytes(l.long_accel_mps2) +
            bytes(l.lat_accel_mps2) + bytes(l.gear) + bytes(l.engine_radps) + bytes(l.drag_n) +
            bytes(l.downforce_n) + bytes(l.front_load_n) + bytes(l.rear_load_n) +
-           bytes(l.front_share) + bytes(l.aero_balance_eff) + bytes(l.front_usage) +
+           bytes(l.aero_balance_eff) + bytes(l.front_usage) +
            bytes(l.rear_usage) + bytes(l.phase) + bytes(l.trimmed);
   };
   // A solver of its own for each, so that the speed-only lap holds no channel of another lap.

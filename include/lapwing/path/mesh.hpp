@@ -17,7 +17,10 @@ struct Mesh {
   double length_m = 0.0;
   double step_m = 0.0;
   // grade: tan of the slope angle (the solver works its cos and sin where the grade changes).
-  std::vector<double> s_m, x_m, y_m, heading_rad, curvature_1pm, elevation_m, grade;
+  std::vector<double> s_m, x_m, y_m, heading_rad, curvature_1pm, grade;
+  // Elevation (m); empty where it is zero at every point, as on a flat segment track (read it
+  // by elevation_at).
+  std::vector<double> elevation_m;
   // Bank angle (rad), positive where it helps a left turn (raises the right side); empty on a
   // track with no bank anywhere (read it by bank_at).
   std::vector<double> bank_rad;
@@ -32,6 +35,7 @@ struct Mesh {
 
   std::size_t size() const { return s_m.size(); }
   double bank_at(std::size_t i) const { return bank_rad.empty() ? 0.0 : bank_rad[i]; }
+  double elevation_at(std::size_t i) const { return elevation_m.empty() ? 0.0 : elevation_m[i]; }
   double head_wind_at(std::size_t i) const {
     return head_wind_mps.empty() ? 0.0 : head_wind_mps[i];
   }

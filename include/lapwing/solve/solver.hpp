@@ -95,7 +95,6 @@ struct Lap {
   std::vector<double> speed_mps, time_s, long_accel_mps2, lat_accel_mps2;
   std::vector<int> gear;
   std::vector<double> engine_radps, drag_n, downforce_n, front_load_n, rear_load_n;
-  std::vector<double> front_share;              // front axle load / total
   std::vector<double> aero_balance_eff;         // front share of the aero load with the drag moment
                                                 // (NaN where there is no downforce)
   std::vector<double> front_usage, rear_usage;  // each axle's friction-ellipse usage (1: limit)
@@ -104,6 +103,12 @@ struct Lap {
   double lap_time_s = 0.0;
   bool has_channels = false;  // accelerations, gear, forces, loads, usage filled
 };
+
+/// The front axle's share of the load at point i of a lap with channels: its load over both
+/// axles'. Worked where it is read from the two loads the lap holds, not stored beside them.
+inline double front_share(const Lap& lap, std::size_t i) {
+  return lap.front_load_n[i] / (lap.front_load_n[i] + lap.rear_load_n[i]);
+}
 
 /// Solves one lap. Closed meshes are periodic (both sweeps start at the slowest steady point);
 /// open ones start at `start_speed_mps` and end free. Throws CannotMove when the car cannot
@@ -124,16 +129,20 @@ class LapSolver {
   /// stops here. The result stays valid until the next solve.
   const Lap& solve_speed(const Envelope& env, const Mesh& mesh, double start_speed_mps = 0.0);
   /// The channels pass over the last speed solve, which must have been on this mesh with this
-  /// envelope: accelerations, gear and engine speed, trim, forces, axle loads, front shares and
-  /// usage (has_channels true). Throws std::logic_error without a speed solve on the mesh.
+  /// envelope: accelerations, gear and engine speed, trim, forces, axle loads (and so the front
+  /// shares) and usage (has_channels true). Throws std::logic_error without a speed solve on the mesh.
   const Lap& add_channels(const Envelope& env, const Mesh& mesh);
   /// Both passes, as solve_lap: solve_speed, then add_channels.
   const Lap& solve(const Envelope& env, const Mesh& mesh, double start_speed_mps = 0.0);
-  /// Both passes for a lap solved once (solve_lap, run_lap), moved out: the sweeps' buffers are
-  /// freed before the channels pass, so that they are never held beside the channels (the
-  /// steady limits stay, for steady()). The solver may be used again (its sweeps then allocate
-  /// anew).
+  /// Both passes for a lap solved once (solve_lap), moved out: solve_speed, then
+  /// take_with_channels.
   Lap solve_once(const Envelope& env, const Mesh& mesh, double start_speed_mps = 0.0);
+  /// The channels pass over the last speed solve (as add_channels), the lap moved out: the
+  /// solver's own state, its steady limits and both sweeps, is freed first (the lap takes the
+  /// forward sweep's gears, all the channels pass reads of it), so that it is never held beside
+  /// the channels (README, "Memory"). steady() is then empty; the solver may be used again (its
+  /// buffers then allocate anew). Throws std::logic_error without a speed solve on the mesh.
+  Lap take_with_channels(const Envelope& env, const Mesh& mesh);
   /// Moves the last lap out.
   Lap take();
   /// The steady limits of the last speed solve (working state of the solve, not part of the

@@ -26,17 +26,18 @@ struct MemoryPlan {
 /// Bytes per mesh point of each part (8-byte doubles, 4-byte ints, 1-byte enums and flags),
 /// counted member by member from the structures (path/mesh.hpp, solve/solver.hpp):
 /// - Mesh: s, x, y, heading, curvature, elevation, grade, bank, head wind (9 doubles) and the
-///   trim-zone flag: the most it holds without widths (a flat track keeps no bank, still air no
-///   head wind; the two edges' widths, where a track has them, are not counted);
+///   trim-zone flag: the most it holds without widths (a flat track keeps no bank and no
+///   elevation, still air no head wind; the two edges' widths, where a track has them, are not
+///   counted);
 /// - Lap with every channel: speed, time, two accelerations, engine speed, drag, downforce, two
-///   axle loads, front share, effective aero balance, two axle usages (13 doubles), gear (int),
-///   phase, trim flag;
+///   axle loads, effective aero balance, two axle usages (12 doubles), gear (int), phase, trim
+///   flag (the front share is worked from the axle loads where it is read);
 /// - Lap of speed and time only: speed, time, phase;
 /// - a solver's own state: its steady limits (SteadyProfile: a double and a limit) and its two
 ///   sweeps: speed (double) and clipped (flag) each, the forward one's cut (flag) and gear (int);
 /// - while a delta file is written, its trace: one double.
 inline constexpr std::size_t mesh_bytes_per_point = 9 * 8 + 1;
-inline constexpr std::size_t lap_bytes_per_point = 13 * 8 + 4 + 1 + 1;
+inline constexpr std::size_t lap_bytes_per_point = 12 * 8 + 4 + 1 + 1;
 inline constexpr std::size_t speed_lap_bytes_per_point = 2 * 8 + 1;
 inline constexpr std::size_t solver_bytes_per_point = (8 + 1) + 2 * (8 + 1) + 1 + 4;
 inline constexpr std::size_t delta_bytes_per_point = 8;
