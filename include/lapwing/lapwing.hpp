@@ -57,8 +57,8 @@
 // solve
 #include "lapwing/solve/axle.hpp"
 #include "lapwing/solve/envelope.hpp"
-#include "lapwing/solve/solver.hpp"
 #include "lapwing/solve/level_tables.hpp"
+#include "lapwing/solve/solver.hpp"
 #include "lapwing/solve/summary.hpp"
 
 // study

@@ -126,8 +126,7 @@ std::string js_string(const std::string& s) {
 
 // Numbers at fixed decimals, comma-separated (the same bytes for the same lap).
 template <typename Y>
-std::string js_numbers(const Y& v, const std::vector<std::size_t>& at, double scale,
-                       int decimals) {
+std::string js_numbers(const Y& v, const std::vector<std::size_t>& at, double scale, int decimals) {
   std::string o = "[";
   for (std::size_t k = 0; k < at.size(); ++k) {
     if (k) o += ',';

@@ -77,9 +77,8 @@ LevelTables build_level_tables(const Envelope& env) {
     AxleHints hints;  // node to node, as a sweep's steps
     std::vector<double> nodes(cells + 1);
     for (std::size_t i = 0; i <= cells; ++i) nodes[i] = f(static_cast<double>(i) * h, hints);
-    return CellCubics(nodes, h, LevelTables::tolerance_mps2, [&](std::size_t i) {
-      return f((static_cast<double>(i) + 0.5) * h, hints);
-    });
+    return CellCubics(nodes, h, LevelTables::tolerance_mps2,
+                      [&](std::size_t i) { return f((static_cast<double>(i) + 0.5) * h, hints); });
   };
   t.brake = table(
       [&](double u, AxleHints& hints) { return axle_brake_accel(env, u, 0.0, level, &hints); });
@@ -132,15 +131,13 @@ LevelTables build_level_tables(const Envelope& env) {
     const double guess = i >= 2 ? 2.0 * a[i - 1] - a[i - 2] : (i == 1 ? a[0] : 0.0);
     a[i] = lateral((i == 0 ? 1e-3 : static_cast<double>(i)) * t.lateral_du, guess);
   }
-  t.lateral_limit = CellCubics(a, t.lateral_du, LevelTables::lateral_tolerance_mps2,
-                               [&](std::size_t i) {
-                                 const double guess =
-                                     i >= 1 && i + 2 <= lc
-                                         ? (9.0 * (a[i] + a[i + 1]) - a[i - 1] - a[i + 2]) / 16.0
-                                         : 0.5 * (a[i] + a[i + 1]);
-                                 return lateral((static_cast<double>(i) + 0.5) * t.lateral_du,
-                                                guess);
-                               });
+  t.lateral_limit =
+      CellCubics(a, t.lateral_du, LevelTables::lateral_tolerance_mps2, [&](std::size_t i) {
+        const double guess = i >= 1 && i + 2 <= lc
+                                 ? (9.0 * (a[i] + a[i + 1]) - a[i - 1] - a[i + 2]) / 16.0
+                                 : 0.5 * (a[i] + a[i + 1]);
+        return lateral((static_cast<double>(i) + 0.5) * t.lateral_du, guess);
+      });
   return t;
 }
 

@@ -157,8 +157,7 @@ template <bool Axle>
 template <bool Axle>
 [[gnu::always_inline]] inline double brake_accel(const Envelope& env, const Envelope::Rows& rows,
                                                  double u, double k, const Road& road,
-                                                 const InverseMass& inv,
-                                                 AxleHints* hints = nullptr,
+                                                 const InverseMass& inv, AxleHints* hints = nullptr,
                                                  bool straight = false) {
   if constexpr (Axle) {
     double a;
@@ -269,8 +268,8 @@ void steady_profile(const Envelope& env, const Mesh& mesh, SteadyProfile& p) {
       // The guess: extrapolated along a clothoid (two earlier points on this road), else the
       // last answer.
       const bool line = !road_changed && have_two && curv != last_curv;
-      const double guess = line ? extrapolated_grip(curv, last_curv, v_grip, prev_curv, prev_grip)
-                                : 0.0;
+      const double guess =
+          line ? extrapolated_grip(curv, last_curv, v_grip, prev_curv, prev_grip) : 0.0;
       prev_curv = last_curv;
       prev_grip = v_grip;
       have_two = !road_changed;
@@ -287,16 +286,17 @@ void steady_profile(const Envelope& env, const Mesh& mesh, SteadyProfile& p) {
         v_grip = v_table;
       else
         v_grip =
-          axle ? highest_feasible([&](double v) { return axle_steady_excess(env, v, curv, road); },
-                                  v_max, hint, width)
-               : highest_feasible(
-                     [&](double v) {
-                       const Envelope::RoadForces f = env.road_forces(rows, v * v, curv, road);
-                       return tyres.usage(std::abs(f.resistance_n) / tyres.fx_max(f.normal_n),
-                                          std::abs(f.lateral_n) / tyres.fy_max(f.normal_n)) -
-                              1.0;
-                     },
-                     v_max, hint, width);
+            axle
+                ? highest_feasible([&](double v) { return axle_steady_excess(env, v, curv, road); },
+                                   v_max, hint, width)
+                : highest_feasible(
+                      [&](double v) {
+                        const Envelope::RoadForces f = env.road_forces(rows, v * v, curv, road);
+                        return tyres.usage(std::abs(f.resistance_n) / tyres.fx_max(f.normal_n),
+                                           std::abs(f.lateral_n) / tyres.fy_max(f.normal_n)) -
+                               1.0;
+                      },
+                      v_max, hint, width);
     }
     last_road = road;
     last_curv = curv;
@@ -379,8 +379,8 @@ class Sweeper {
     ulim0_ = limit_[i] * limit_[i];
     dulim_ = (limit_[j_] * limit_[j_] - ulim0_) / ds_;
     road_ = road_at_(forward_ ? i : j_);
-    straight_ = Axle && env_.level_tables() && k0_ == 0.0 && dk_ == 0.0 &&
-                level_in_still_air(road_);
+    straight_ =
+        Axle && env_.level_tables() && k0_ == 0.0 && dk_ == 0.0 && level_in_still_air(road_);
     const bool trims_now = forward_ && env_.trims(k0_) && mesh_.trim_zone[i];
     // Under drive, movable aero trims where the step starts on a straight enough piece (inside
     // a trim zone, where the track has them); under braking it does not.
@@ -395,8 +395,8 @@ class Sweeper {
     }
     // The last answer stands for a stage of the same state (memo_): the same road, trim, drive
     // share and table choice as the step it came from.
-    if (!(same_road(road_, memo_road_) && trimmed_ == memo_trimmed_ &&
-          drive_share_ == last_share && straight_ == memo_straight_)) {
+    if (!(same_road(road_, memo_road_) && trimmed_ == memo_trimmed_ && drive_share_ == last_share &&
+          straight_ == memo_straight_)) {
       memo_.valid = false;
       memo_road_ = road_;
       memo_trimmed_ = trimmed_;
@@ -416,10 +416,10 @@ class Sweeper {
     const double k = k0_ + dk_ * x;
     if (memo_.valid && u0 == memo_.u && k == memo_.k) return memo_.f;
     const double f =
-        2.0 * (forward_ ? drive_accel<Axle>(env_, rows_, u0, k, road_, trimmed_, drive_share_,
-                                            inv_mass_, &hints_, straight_)
-                        : brake_accel<Axle>(env_, rows_, u0, k, road_, inv_mass_, &hints_,
-                                            straight_));
+        2.0 * (forward_
+                   ? drive_accel<Axle>(env_, rows_, u0, k, road_, trimmed_, drive_share_, inv_mass_,
+                                       &hints_, straight_)
+                   : brake_accel<Axle>(env_, rows_, u0, k, road_, inv_mass_, &hints_, straight_));
     memo_ = {u0, k, f, true};
     return f;
   }
@@ -771,7 +771,8 @@ const Lap& LapSolver::solve_speed(const Envelope& env, const Mesh& mesh, double 
   // earlier lap go, so that none is read against this lap's speeds.
   Lap& lap = lap_;
   for (auto* v : {&lap.long_accel_mps2, &lap.lat_accel_mps2, &lap.engine_radps, &lap.drag_n,
-                  &lap.downforce_n, &lap.front_load_n, &lap.rear_load_n, &lap.aero_balance_eff, &lap.front_usage, &lap.rear_usage})
+                  &lap.downforce_n, &lap.front_load_n, &lap.rear_load_n, &lap.aero_balance_eff,
+                  &lap.front_usage, &lap.rear_usage})
     v->clear();
   lap.gear.clear();
   lap.trimmed.clear();
@@ -877,8 +878,7 @@ void LapSolver::channels_pass(const Envelope& env, const Mesh& mesh) {
   lap.front_load_n.resize(n);
   lap.rear_load_n.resize(n);
   lap.trimmed.resize(n);
-  for (auto* v : {&lap.aero_balance_eff, &lap.front_usage, &lap.rear_usage})
-    v->resize(n);
+  for (auto* v : {&lap.aero_balance_eff, &lap.front_usage, &lap.rear_usage}) v->resize(n);
   // The acceleration at a point: d(v^2)/(2 ds) by the central difference
   // (v_{i+1}^2 - v_{i-1}^2) / (4 ds) (through the seam of a closed lap; one-sided at the ends of
   // an open track), held within what the model allows in the state at the point: no harder than
@@ -910,14 +910,15 @@ void LapSolver::channels_pass(const Envelope& env, const Mesh& mesh) {
     if (diff >= 0.0) {
       const bool trims = env.trims(k) && mesh.trim_zone[i];
       const Envelope::Rows rows = env.rows(trims);
-      return std::min(diff, axle_model ? drive_accel<true>(env, rows, u, k, road, trims, 1.0, inv,
-                                                           &drive_hints, straight)
-                                       : drive_accel<false>(env, rows, u, k, road, trims, 1.0, inv));
+      return std::min(diff, axle_model
+                                ? drive_accel<true>(env, rows, u, k, road, trims, 1.0, inv,
+                                                    &drive_hints, straight)
+                                : drive_accel<false>(env, rows, u, k, road, trims, 1.0, inv));
     }
     const Envelope::Rows rows = env.rows(false);
-    return std::max(diff, -(axle_model
-                                ? brake_accel<true>(env, rows, u, k, road, inv, &brake_hints, straight)
-                                : brake_accel<false>(env, rows, u, k, road, inv)));
+    return std::max(
+        diff, -(axle_model ? brake_accel<true>(env, rows, u, k, road, inv, &brake_hints, straight)
+                           : brake_accel<false>(env, rows, u, k, road, inv)));
   };
   RoadReader road_at(mesh);
   for (std::size_t i = 0; i < n; ++i) {

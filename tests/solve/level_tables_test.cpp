@@ -14,8 +14,8 @@
 #include "lapwing/model/air.hpp"
 #include "lapwing/model/loads.hpp"
 #include "lapwing/solve/axle.hpp"
-#include "lapwing/solve/solver.hpp"
 #include "lapwing/solve/level_tables.hpp"
+#include "lapwing/solve/solver.hpp"
 #include "lapwing/study/circuit.hpp"
 #include "test_support.hpp"
 
@@ -139,7 +139,8 @@ TEST_CASE("laps with the level tables are the model's laps (5e-9 relative)") {
       const Envelope with(car, c.air), without(car, c.air, off);
       CHECK(with.level_tables() != nullptr);
       CHECK(without.level_tables() == nullptr);
-      const double a = solve_lap(with, c.mesh).lap_time_s, b = solve_lap(without, c.mesh).lap_time_s;
+      const double a = solve_lap(with, c.mesh).lap_time_s,
+                   b = solve_lap(without, c.mesh).lap_time_s;
       INFO(car.car().name << " " << car.aero().name << " " << track);
       CHECK(test::near(a, b, 5e-9));
     }

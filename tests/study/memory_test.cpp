@@ -56,8 +56,8 @@ TEST_CASE("bytes per mesh point: every vector a mesh, a lap and a sweep hold is 
     return bytes(l.speed_mps) + bytes(l.time_s) + bytes(l.long_accel_mps2) +
            bytes(l.lat_accel_mps2) + bytes(l.gear) + bytes(l.engine_radps) + bytes(l.drag_n) +
            bytes(l.downforce_n) + bytes(l.front_load_n) + bytes(l.rear_load_n) +
-           bytes(l.aero_balance_eff) + bytes(l.front_usage) +
-           bytes(l.rear_usage) + bytes(l.phase) + bytes(l.trimmed);
+           bytes(l.aero_balance_eff) + bytes(l.front_usage) + bytes(l.rear_usage) + bytes(l.phase) +
+           bytes(l.trimmed);
   };
   // A solver of its own for each, so that the speed-only lap holds no channel of another lap.
   LapSolver full, speed_only;

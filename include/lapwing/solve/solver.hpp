@@ -130,7 +130,8 @@ class LapSolver {
   const Lap& solve_speed(const Envelope& env, const Mesh& mesh, double start_speed_mps = 0.0);
   /// The channels pass over the last speed solve, which must have been on this mesh with this
   /// envelope: accelerations, gear and engine speed, trim, forces, axle loads (and so the front
-  /// shares) and usage (has_channels true). Throws std::logic_error without a speed solve on the mesh.
+  /// shares) and usage (has_channels true). Throws std::logic_error without a speed solve on the
+  /// mesh.
   const Lap& add_channels(const Envelope& env, const Mesh& mesh);
   /// Both passes, as solve_lap: solve_speed, then add_channels.
   const Lap& solve(const Envelope& env, const Mesh& mesh, double start_speed_mps = 0.0);
