@@ -156,7 +156,7 @@ int main(int argc, char** argv) {
   int laps = 200;
   double mesh_m = 0.5;
   std::string model;  // empty: the car file's model
-  std::string integrator_name = "rk4";
+  std::string integrator_name = default_integrator == Integrator::rk4 ? "rk4" : "exponential";
   bool convergence_table = false;
   for (int i = 3; i < argc; ++i) {
     const std::string a = argv[i];

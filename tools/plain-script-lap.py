@@ -15,6 +15,7 @@ Inputs are what lapwing itself writes:
 and the car file, read by a tiny parser of the subset of YAML the bundled cars use.
 
   tools/plain-script-lap.py CAR DIR [--check-json CHECK.json] [--config NAME] [--repeats N]
+                            [--integrator exponential|rk4]
 
 prints the lap time, lapwing's lap time from DIR/summary.json, their relative difference, and
 the solve's time per mesh point per lap (best of N repeats of the solve alone: the tables and
@@ -27,8 +28,12 @@ The method, step for step as lapwing's (src/solve/solver.cpp, envelope.cpp):
     (Fx/Fx_max)^n + (Fy/Fy_max)^n <= 1;
   steady speed per point: the highest v with usage(R, F_y) <= 1 and drive >= R (bisection to
     2^-36 relative, first in +-2 % of the last point's answer);
-  sweeps in u: du/ds = 2 a, classical RK4 per mesh step with curvature linear over the step,
-    stage states held under the steady limit, stiff steps (|z| > 1) taken again in substeps;
+  sweeps in u: du/ds = 2 a with curvature linear over the step, by lapwing's default step (the
+    exponential step: du/ds linearised in u at the step's midpoint, J by a secant of reach
+    2/3 h |f| the way the sweep moves, u1 = u0 + h phi1(h J) (f_m + J (u0 - u_m)),
+    phi1(z) = (e^z - 1) / z; a step that starts on its limit and would rise is clipped) or, with
+    --integrator rk4, classical RK4 with stage states held under the steady limit and stiff
+    steps (|z| > 1) taken again in substeps;
     drive a = min((drive - R) / m_eff, (grip left - R) / m), braking a = (grip left + R) / m;
     upshifts cut the drive for shift_time;
   closed lap: both sweeps start at the slowest steady point; lap time = sum 2 ds / (v_i + v_i+1).
@@ -277,7 +282,15 @@ def steady_profile(car, curv):
 CLIP = 1e-9  # a speed within 1e-9 of the limit is on it (solver.cpp clip_tolerance)
 
 
-def sweep(car, curv, limit, ds, start, v_start, forward):
+SLOPE_SPREAD = 1e-5  # solver.cpp slope_spread: the secant's least reach, relative to u
+SECANT_REACH = 2.0 / 3.0  # solver.cpp secant_reach
+
+
+def phi1(z):
+    return 1.0 if z == 0.0 else math.expm1(z) / z
+
+
+def sweep(car, curv, limit, ds, start, v_start, forward, integrator="exponential"):
     """One sweep round a closed mesh (point n-1 is point 0) from `start`; speeds per point."""
     n = len(curv)
     period = n - 1
@@ -341,10 +354,27 @@ def sweep(car, curv, limit, ds, start, v_start, forward):
                 u = split(u, x0 + s * sub, sub, z1, depth + 1) if flagged and depth < 2 else u1
             return u
 
+        def exponential(u0, h):
+            """One exponential step (solver.cpp exponential_step)."""
+            xm = 0.5 * h
+            capm = ulim0 + dulim * xm
+            um = min(u0, capm)
+            fm = rhs(um, xm)
+            if fm > 0.0 and u0 >= ulim0 + dulim * h:
+                return u0 + h * fm  # starts on its limit and rises: clipped at the end
+            d = max(SECANT_REACH * h * abs(fm), SLOPE_SPREAD * max(um, 1.0))
+            ahead = um + d if fm >= 0.0 else um - d
+            ud = ahead if 0.0 <= ahead <= capm else (um - d if fm >= 0.0 else um + d)
+            j = (fm - rhs(ud, xm)) / (um - ud)
+            return u0 + h * phi1(h * j) * (fm + j * (u0 - um))
+
         u0 = v * v
-        u1, z, flagged = rk4(u0, 0.0, ds)
-        if flagged:
-            u1 = split(u0, 0.0, ds, z, 1)
+        if integrator == "exponential":
+            u1 = exponential(u0, ds)
+        else:
+            u1, z, flagged = rk4(u0, 0.0, ds)
+            if flagged:
+                u1 = split(u0, 0.0, ds, z, 1)
         if not u1 > 0.0:
             raise RuntimeError(f"the car stops at point {j}")
         v_next = math.sqrt(u1)
@@ -367,18 +397,18 @@ def sweep(car, curv, limit, ds, start, v_start, forward):
     return speed
 
 
-def solve(car, curv, ds):
+def solve(car, curv, ds, integrator="exponential"):
     """Lap time (s) of a closed mesh: steady profile, both sweeps, the least of the three."""
     steady = steady_profile(car, curv)
     period = len(curv) - 1
     i0 = min(range(period), key=lambda i: steady[i])
-    fwd = sweep(car, curv, steady, ds, i0, steady[i0], True)
-    bwd = sweep(car, curv, steady, ds, i0, steady[i0], False)
+    fwd = sweep(car, curv, steady, ds, i0, steady[i0], True, integrator)
+    bwd = sweep(car, curv, steady, ds, i0, steady[i0], False, integrator)
     # A sweep that comes round slower than it started runs once more (a periodic lap).
     if fwd[i0] < steady[i0]:
-        fwd = sweep(car, curv, steady, ds, i0, fwd[i0], True)
+        fwd = sweep(car, curv, steady, ds, i0, fwd[i0], True, integrator)
     if bwd[i0] < steady[i0]:
-        bwd = sweep(car, curv, steady, ds, i0, bwd[i0], False)
+        bwd = sweep(car, curv, steady, ds, i0, bwd[i0], False, integrator)
     v = [min(a, b) for a, b in zip(fwd, bwd)]
     return sum(2.0 * ds / (v[i] + v[i + 1]) for i in range(len(v) - 1))
 
@@ -390,6 +420,9 @@ def main():
     ap.add_argument("--check-json", help="`lapwing check --json` of the same car and track")
     ap.add_argument("--config", help="the config (default: the car's first, as lapwing's)")
     ap.add_argument("--repeats", type=int, default=3)
+    ap.add_argument("--integrator", choices=["exponential", "rk4"], default="exponential",
+                    help="the sweeps' step (lapwing's default: exponential; rk4 for a lapwing "
+                    "built with the other step)")
     a = ap.parse_args()
 
     with open(os.path.join(a.out_dir, "summary.json"), encoding="utf-8") as f:
@@ -409,7 +442,7 @@ def main():
     best = math.inf
     for _ in range(max(1, a.repeats)):
         t0 = time.perf_counter()
-        lap = solve(car, curv, ds)
+        lap = solve(car, curv, ds, a.integrator)
         best = min(best, time.perf_counter() - t0)
     ref = result["lap_time_s"]
     print(f"points {len(curv)}, step {ds:.6f} m, config {result['config']}")

@@ -61,8 +61,9 @@ void steady_profile(const Envelope& env, const Mesh& mesh, SteadyProfile& out);
 /// How a sweep steps u = v^2 from one mesh point to the next (d(v^2)/ds = 2 a(v^2, kappa(s))).
 ///  - rk4: classical fourth-order Runge-Kutta, four evaluations of the acceleration per step; a
 ///    step whose stages meet the steady limit, or where z = step x d(du/ds)/du is beyond 1 in
-///    size (near the grip limit), is taken again in substeps. The default.
-///  - exponential: an exponential Rosenbrock-type step, two evaluations per step (one where the
+///    size (near the grip limit), is taken again in substeps. The default until the speed work of
+///    issue 15; kept for cross-checks (`lapwing_bench --integrator rk4 --convergence`).
+///  - exponential (the default): an exponential Rosenbrock-type step, two evaluations per step (one where the
 ///    step starts on its limit and ends above it). The slope is linearised at the step's
 ///    midpoint in s, f(u) ~ f_m + J (u - u0), J = df/du by a difference, and the linear equation
 ///    solved exactly over the step: u1 = u0 + h phi1(h J) f_m, phi1(z) = (e^z - 1) / z. Exact
@@ -70,6 +71,10 @@ void steady_profile(const Envelope& env, const Mesh& mesh, SteadyProfile& out);
 ///    drag on a straight), stable for any negative z, second order in the step elsewhere
 ///    (solver.cpp gives the derivation; tests/solve/solver_test.cpp the convergence).
 enum class Integrator : std::uint8_t { rk4, exponential };
+/// The sweeps' step where none is asked for. The exponential step: as accurate as RK4 at every
+/// mesh tried (README, "Performance": the mesh's error, from limits met between points, shift
+/// points and curvature kinks, dominates both) for about 30 % fewer instructions in the sweeps.
+inline constexpr Integrator default_integrator = Integrator::exponential;
 
 /// Integrates u = v^2 along the mesh in one direction: forward under drive (with the drive cut
 /// for shift_time after each upshift), backward under braking. Every point is clipped to
@@ -88,7 +93,7 @@ struct SweepResult {
 };
 SweepResult sweep(const Envelope& env, const Mesh& mesh, Sweep direction,
                   const std::vector<double>& limit, std::size_t start, double v_start,
-                  Integrator integrator = Integrator::rk4);
+                  Integrator integrator = default_integrator);
 
 /// A solved lap: one entry per mesh point (SI units).
 struct Lap {
@@ -114,7 +119,7 @@ inline double front_share(const Lap& lap, std::size_t i) {
 /// open ones start at `start_speed_mps` and end free. Throws CannotMove when the car cannot
 /// complete the track.
 Lap solve_lap(const Envelope& env, const Mesh& mesh, double start_speed_mps = 0.0,
-              Integrator integrator = Integrator::rk4);
+              Integrator integrator = default_integrator);
 
 /// Solves laps one after another, reusing its buffers (the lap, both sweeps), so that a study
 /// of many laps allocates once. The working state of a lap, kept apart from the Envelope and
@@ -122,7 +127,7 @@ Lap solve_lap(const Envelope& env, const Mesh& mesh, double start_speed_mps = 0.
 class LapSolver {
  public:
   /// A solver whose sweeps step with `integrator`.
-  explicit LapSolver(Integrator integrator = Integrator::rk4) : integrator_(integrator) {}
+  explicit LapSolver(Integrator integrator = default_integrator) : integrator_(integrator) {}
   Integrator integrator() const { return integrator_; }
   /// The speed solve: the steady limits, both sweeps, and the speed, phase and time traces
   /// (lap_time_s). No channel is filled (has_channels false): a study that needs lap times
