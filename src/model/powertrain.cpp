@@ -104,6 +104,40 @@ Drive best_drive(const Powertrain& p, double r, double v) {
   return best;
 }
 
+DriveWalk::DriveWalk(const Powertrain& p, double r)
+    : p_(p), r_(r), node_(p.ideal ? 0 : p.gears.size(), 0) {}
+
+Drive DriveWalk::at(double v) {
+  assert(v >= last_v_);
+  last_v_ = v;
+  const Powertrain& p = p_;
+  if (p.ideal) return best_drive(p, r_, v);
+  const std::vector<double>& x = p.engine_radps;
+  const std::vector<double>& y = p.torque_nm;
+  // best_drive's loop, with engine_torque_nm's interpolate (held at the curve's ends, exactly
+  // its end values there) read from each gear's walked interval: engine speeds rise with v.
+  Drive best{0.0, static_cast<int>(p.gears.size()), p.rev_limit_radps};
+  for (std::size_t g = 0; g < p.gears.size(); ++g) {
+    const double ratio = p.gears[g] * p.final_drive;
+    const double w = v / r_ * ratio;
+    if (w > p.rev_limit_radps * (1.0 + 1e-12)) continue;
+    const double we = std::min(w, p.rev_limit_radps);
+    double torque;
+    if (we <= x.front()) {
+      torque = y.front();
+    } else if (we >= x.back()) {
+      torque = y.back();
+    } else {
+      std::size_t& i = node_[g];
+      while (x[i + 1] <= we) ++i;  // the last node at or below we (x.back() > we stops it)
+      torque = lerp(y[i], y[i + 1], (we - x[i]) / (x[i + 1] - x[i]));
+    }
+    const double f = torque * ratio * p.efficiency / r_;
+    if (f > best.force_n) best = {f, static_cast<int>(g + 1), std::max(w, x.front())};
+  }
+  return best;
+}
+
 double rev_limited_speed_mps(const Powertrain& p, double r) {
   if (p.ideal) return 0.0;
   return p.rev_limit_radps * r / (p.gears.back() * p.final_drive);

@@ -168,9 +168,10 @@ Envelope::Envelope(Unchecked, const ConfiguredCar& configured, const Car& car, c
     trim_rows_.resize(n);
     trim_below_curvature_ = a.trim->below_curvature_1pm;
   }
+  DriveWalk drive_at(p, r);
   for (std::size_t k = 0; k < n; ++k) {
     const double v = k + 1 == n ? v_max_ : std::sqrt(static_cast<double>(k) * du_);
-    Drive d = best_drive(p, r, v);
+    Drive d = drive_at.at(v);
     d.force_n *= power_ratio_;  // the engine in this air (SAE J1349 for natural and turbo)
     const AeroPoint c = aero_at(v);
     rows_[k] = {d.force_n, 0.5 * rho_ * c.cda_m2, 0.5 * rho_ * c.cla_m2, c.balance};

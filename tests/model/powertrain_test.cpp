@@ -2,12 +2,15 @@
 // speed; rpm = v / r_wheel x gear x final x 60 / (2 pi)).
 #include <doctest/doctest.h>
 
+#include <algorithm>
 #include <cmath>
+#include <vector>
 
 #include "lapwing/base/units.hpp"
 #include "lapwing/model/air.hpp"
 #include "lapwing/model/car.hpp"
 #include "lapwing/model/powertrain.hpp"
+#include "lapwing/io/car_file.hpp"
 #include "test_support.hpp"
 
 using namespace lapwing;
@@ -68,6 +71,41 @@ TEST_CASE("past the rev limit in top gear there is no drive") {
   CHECK(near(v_top, 12000 * units::rpm * r / 3.5, 1e-12));
   CHECK(best_drive(p, r, v_top).force_n > 0.0);
   CHECK(best_drive(p, r, v_top * 1.001).force_n == 0.0);
+}
+
+TEST_CASE("DriveWalk gives best_drive bit for bit at increasing speeds") {
+  // DriveWalk is best_drive read along a walk of the torque curve (the Envelope's rows): the
+  // same force, gear and engine speed, exactly, at speeds that land on curve nodes, between
+  // them, below the first, at the rev limit and beyond it in top gear, for the gearbox above
+  // and the bundled cars' (a search and a walk must pick the same interval).
+  const auto check = [](const Powertrain& p, double r) {
+    DriveWalk walk(p, r);
+    const double v_top = p.ideal ? 90.0 : rev_limited_speed_mps(p, r);
+    std::vector<double> speeds;
+    for (int k = 0; k <= 4000; ++k) speeds.push_back(1.05 * v_top * k / 4000.0);
+    // Speeds that put the engine exactly on each curve node in each gear, and the rev limit.
+    if (!p.ideal)
+      for (double g : p.gears)
+        for (double w : p.engine_radps) speeds.push_back(w * r / (g * p.final_drive));
+    speeds.push_back(v_top);
+    std::sort(speeds.begin(), speeds.end());
+    int mismatches = 0;
+    for (double v : speeds) {
+      const Drive a = best_drive(p, r, v), b = walk.at(v);
+      mismatches += !(a.force_n == b.force_n && a.gear == b.gear && a.engine_radps == b.engine_radps);
+    }
+    CHECK(mismatches == 0);
+  };
+  check(gearbox(), 0.33);
+  for (const char* file : {"cars/caldra-gt.yaml", "cars/pellion-fr2.yaml"}) {
+    CAPTURE(file);
+    const Car car = load_car(test::source_path(file));
+    check(car.powertrain, car.tyres.rolling_radius_m);
+  }
+  Powertrain ideal;
+  ideal.ideal = true;
+  ideal.constant_power_w = 300e3;
+  check(ideal, 0.33);
 }
 
 TEST_CASE("an ideal transmission gives F = eta P / v") {

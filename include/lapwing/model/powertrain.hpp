@@ -79,6 +79,22 @@ double engine_torque_nm(const Powertrain& p, double engine_radps);
 /// tyres limit the force long before).
 Drive best_drive(const Powertrain& p, double rolling_radius_m, double speed_mps);
 
+/// best_drive at road speeds given in increasing order (an Envelope's rows): each gear walks on
+/// along the torque curve from the last speed's interval instead of searching it, with the same
+/// answers bit for bit (the same interval and blend as engine_torque_nm).
+class DriveWalk {
+ public:
+  DriveWalk(const Powertrain& p, double rolling_radius_m);
+  /// best_drive(p, rolling_radius_m, v); v no less than the last call's.
+  Drive at(double speed_mps);
+
+ private:
+  const Powertrain& p_;
+  double r_;
+  double last_v_ = 0.0;
+  std::vector<std::size_t> node_;  // per gear: the torque curve's interval of the last speed
+};
+
 /// The road speed at the rev limit in top gear (m/s); 0 for an ideal transmission.
 double rev_limited_speed_mps(const Powertrain& p, double rolling_radius_m);
 
