@@ -7,10 +7,10 @@
 #include <vector>
 
 #include "lapwing/base/units.hpp"
+#include "lapwing/io/car_file.hpp"
 #include "lapwing/model/air.hpp"
 #include "lapwing/model/car.hpp"
 #include "lapwing/model/powertrain.hpp"
-#include "lapwing/io/car_file.hpp"
 #include "test_support.hpp"
 
 using namespace lapwing;
@@ -92,7 +92,8 @@ TEST_CASE("DriveWalk gives best_drive bit for bit at increasing speeds") {
     int mismatches = 0;
     for (double v : speeds) {
       const Drive a = best_drive(p, r, v), b = walk.at(v);
-      mismatches += !(a.force_n == b.force_n && a.gear == b.gear && a.engine_radps == b.engine_radps);
+      mismatches +=
+          !(a.force_n == b.force_n && a.gear == b.gear && a.engine_radps == b.engine_radps);
     }
     CHECK(mismatches == 0);
   };

@@ -63,8 +63,8 @@ void steady_profile(const Envelope& env, const Mesh& mesh, SteadyProfile& out);
 ///    step whose stages meet the steady limit, or where z = step x d(du/ds)/du is beyond 1 in
 ///    size (near the grip limit), is taken again in substeps. The default until the speed work of
 ///    issue 15; kept for cross-checks (`lapwing_bench --integrator rk4 --convergence`).
-///  - exponential (the default): an exponential Rosenbrock-type step, two evaluations per step (one where the
-///    step starts on its limit and ends above it). The slope is linearised at the step's
+///  - exponential (the default): an exponential Rosenbrock-type step, two evaluations per step
+///    (one where the step starts on its limit and ends above it). The slope is linearised at the step's
 ///    midpoint in s, f(u) ~ f_m + J (u - u0), J = df/du by a difference, and the linear equation
 ///    solved exactly over the step: u1 = u0 + h phi1(h J) f_m, phi1(z) = (e^z - 1) / z. Exact
 ///    where the acceleration is affine in v^2 on a step of constant curvature (the drive against
