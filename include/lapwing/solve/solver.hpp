@@ -64,11 +64,11 @@ void steady_profile(const Envelope& env, const Mesh& mesh, SteadyProfile& out);
 ///    size (near the grip limit), is taken again in substeps. The default until the speed work of
 ///    issue 15; kept for cross-checks (`lapwing_bench --integrator rk4 --convergence`).
 ///  - exponential (the default): an exponential Rosenbrock-type step, two evaluations per step
-///    (one where the step starts on its limit and ends above it). The slope is linearised at the step's
-///    midpoint in s, f(u) ~ f_m + J (u - u0), J = df/du by a difference, and the linear equation
-///    solved exactly over the step: u1 = u0 + h phi1(h J) f_m, phi1(z) = (e^z - 1) / z. Exact
-///    where the acceleration is affine in v^2 on a step of constant curvature (the drive against
-///    drag on a straight), stable for any negative z, second order in the step elsewhere
+///    (one where the step starts on its limit and ends above it). The slope is linearised at the
+///    step's midpoint in s, f(u) ~ f_m + J (u - u0), J = df/du by a difference, and the linear
+///    equation solved exactly over the step: u1 = u0 + h phi1(h J) f_m, phi1(z) = (e^z - 1) / z.
+///    Exact where the acceleration is affine in v^2 on a step of constant curvature (the drive
+///    against drag on a straight), stable for any negative z, second order in the step elsewhere
 ///    (solver.cpp gives the derivation; tests/solve/solver_test.cpp the convergence).
 enum class Integrator : std::uint8_t { rk4, exponential };
 /// The sweeps' step where none is asked for. The exponential step: as accurate as RK4 at every
