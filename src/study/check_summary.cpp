@@ -9,11 +9,21 @@
 
 namespace lapwing {
 
+namespace {
+// The Envelopes check reads for their tables' top speed and aero points only: no lap is solved
+// on them, so the axle model's level tables (most of an Envelope's build) are left out.
+EnvelopeOptions without_level_tables() {
+  EnvelopeOptions o;
+  o.level_tables = false;
+  return o;
+}
+}  // namespace
+
 ConfigCheck check_config(const Car& car, std::size_t index, const Air& air) {
   const ConfiguredCar configured = car.configured(index);
   const Car& cc = configured.car();
   const AeroConfig& a = configured.aero();
-  const Envelope env(configured, air);
+  const Envelope env(configured, air, without_level_tables());
   const AeroPoint rest = env.aero_point(0.0);
   ConfigCheck c;
   c.name = a.name;
@@ -77,16 +87,17 @@ TrackCheck check_track(const Car& car, const Circuit& t) {
     out.trim_zone_share = static_cast<double>(zoned) / static_cast<double>(t.mesh.intervals());
   }
   for (std::size_t c = 0; c < car.configs.size(); ++c) {
-    const Envelope env(car.configured(c), t.air);
+    const Envelope env(car.configured(c), t.air, without_level_tables());
     out.configs.push_back({car.configs[c].name, env.top_speed_level_mps(), env.top_speed_limit()});
   }
   // The data's verdict: per config, from the lap at half and double the smoothing strength
   // (track_quality.hpp). A config that cannot lap is a failure, not an error: check describes.
   const SmoothingVariants variants = smoothing_variants(t);
+  LapSolver solver;  // the lap times alone: no channel is read here
   for (std::size_t c = 0; c < car.configs.size(); ++c) {
     const ConfiguredCar cc = car.configured(c);
     try {
-      const double lap = run_lap(cc, t).summary.lap_time_s;
+      const double lap = lap_time(cc, t, solver);
       out.qualities.push_back(assess_track(t, variants, cc, car.configs[c].name, lap));
     } catch (const InvalidInput& e) {
       out.failures.push_back({car.configs[c].name, e, {}});

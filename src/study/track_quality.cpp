@@ -97,7 +97,8 @@ TrackQuality assess_track(const Circuit& c, const SmoothingVariants& v, const Co
                     double length) -> std::optional<double> {
     if (!variant) return std::nullopt;
     try {
-      return run_lap(car, *variant).summary.lap_time_s;
+      LapSolver solver;  // the lap time alone: no channel is read here
+      return lap_time(car, *variant, solver);
     } catch (const InvalidInput& e) {
       q.notes.push_back(std::string("the centerline at ") + name + " strength (" +
                         fixed(length, 1) + " m) cannot be solved with config " + config + ": " +
