@@ -873,8 +873,9 @@ int track_line(const TrackLineOptions& o, Inputs& in) {
   Track lined = described;
   lined.line_path = line;
   if (configured) {
-    centerline_lap = run_lap(*configured, lapwing::lay_out(described, a)).summary.lap_time_s;
-    if (!line_lap) line_lap = run_lap(*configured, lapwing::lay_out(lined, a)).summary.lap_time_s;
+    LapSolver solver;  // the lap times alone: no channel is read here
+    centerline_lap = lap_time(*configured, lapwing::lay_out(described, a), solver);
+    if (!line_lap) line_lap = lap_time(*configured, lapwing::lay_out(lined, a), solver);
   }
   const std::string csv_name = out.stem().string() + ".csv";
   const LineTrackFiles files =
