@@ -139,12 +139,12 @@ PartsTable read_forces(Reader f) {
 // A grid of the ride-height map: a list of rows, one per front height, each with one value per
 // rear height (a ragged table is no matrix: its rows are checked here; the rest is the map's
 // validate()).
-Eigen::MatrixXd read_grid(Reader& m, std::string_view key, std::size_t cols) {
+MapGrid read_grid(Reader& m, std::string_view key, std::size_t cols) {
   const Node& g = m.require(key);
   const std::string path = m.child_path(key);
   if (g.kind != Node::Kind::sequence)
     m.fail(g, "expected a list of rows, one per front ride height", key);
-  Eigen::MatrixXd out(static_cast<Eigen::Index>(g.items.size()), static_cast<Eigen::Index>(cols));
+  MapGrid out(g.items.size(), cols);
   for (std::size_t i = 0; i < g.items.size(); ++i) {
     const Node& row = g.items[i];
     const std::string rp = path + "[" + std::to_string(i) + "]";
@@ -154,7 +154,7 @@ Eigen::MatrixXd read_grid(Reader& m, std::string_view key, std::size_t cols) {
                            std::to_string(row.kind == Node::Kind::sequence ? row.items.size() : 0),
                        rp);
     for (std::size_t j = 0; j < cols; ++j)
-      out(static_cast<Eigen::Index>(i), static_cast<Eigen::Index>(j)) =
+      out(i, j) =
           m.node_quantity(row.items[j], Quantity::number, rp + "[" + std::to_string(j) + "]");
   }
   return out;

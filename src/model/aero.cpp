@@ -15,8 +15,8 @@ namespace lapwing {
 namespace {
 
 // Bilinear: linear along the rear axis on the two front nodes, then along the front axis.
-double bilinear(const Eigen::MatrixXd& m, const Bracket& f, const Bracket& r) {
-  const auto i = static_cast<Eigen::Index>(f.i), j = static_cast<Eigen::Index>(r.i);
+double bilinear(const MapGrid& m, const Bracket& f, const Bracket& r) {
+  const std::size_t i = f.i, j = r.i;
   return lerp(lerp(m(i, j), m(i, j + 1), r.w), lerp(m(i + 1, j), m(i + 1, j + 1), r.w), f.w);
 }
 
@@ -116,14 +116,13 @@ std::optional<Violation> RideHeightMap::validate() const {
   f.part("", [&] { return validate_axes(); });
   struct Grid {
     const char* key;
-    const Eigen::MatrixXd& m;
+    const MapGrid& m;
     Range range;
   };
   for (const Grid& g : {Grid{"ride_height_map.cda", cda_m2, cda_range},
                         Grid{"ride_height_map.cla", cla_m2, cla_range},
                         Grid{"ride_height_map.balance", balance, balance_range}}) {
-    const auto rows = static_cast<std::size_t>(g.m.rows()),
-               cols = static_cast<std::size_t>(g.m.cols());
+    const std::size_t rows = g.m.rows(), cols = g.m.cols();
     f.rule(rows == front_m.size(), g.key, [&] {
        return "rows differ from front: expected " + std::to_string(front_m.size()) + ", got " +
               std::to_string(rows);
@@ -134,7 +133,7 @@ std::optional<Violation> RideHeightMap::validate() const {
     for (std::size_t i = 0; i < rows && !f.found(); ++i)
       for (std::size_t j = 0; j < cols && !f.found(); ++j)
         f.range(index_path(index_path(g.key, i), j),
-                g.m(static_cast<Eigen::Index>(i), static_cast<Eigen::Index>(j)), g.range,
+                g.m(i, j), g.range,
                 Quantity::number);
   }
   const Range at_rest{0.0, 1.0, true, false}, stiffness{0.0, 1e9, true, false};
@@ -305,9 +304,10 @@ AeroConfig blend(const AeroConfig& a, const AeroConfig& b, double t, double whee
   if (a.map) {
     RideHeightMap& m = *c.map;
     const RideHeightMap &ma = *a.map, &mb = *b.map;
-    m.cda_m2 = ma.cda_m2 + t * (mb.cda_m2 - ma.cda_m2);      // lerp cell by cell
-    m.cla_m2 = ma.cla_m2 + t * (mb.cla_m2 - ma.cla_m2);      // lerp cell by cell
-    m.balance = ma.balance + t * (mb.balance - ma.balance);  // lerp cell by cell
+    // Cell by cell (the grids share their axes: blend's precondition).
+    m.cda_m2.values() = lerp_each(ma.cda_m2.values(), mb.cda_m2.values(), t);
+    m.cla_m2.values() = lerp_each(ma.cla_m2.values(), mb.cla_m2.values(), t);
+    m.balance.values() = lerp_each(ma.balance.values(), mb.balance.values(), t);
     m.static_front_m = lerp(ma.static_front_m, mb.static_front_m, t);
     m.static_rear_m = lerp(ma.static_rear_m, mb.static_rear_m, t);
     m.stiffness_front_npm = lerp(ma.stiffness_front_npm, mb.stiffness_front_npm, t);

@@ -233,7 +233,8 @@ ConfiguredCar fitted_car(const ConfiguredCar& car, const std::vector<FitParamete
       case FitParameter::balance:
         c = c.changed([&](Car&, AeroConfig& a) {
           for (double& b : a.balance) b += f;
-          if (a.map) a.map->balance.array() += f;
+          if (a.map)
+            for (double& v : a.map->balance.values()) v += f;
         });
         break;
     }

@@ -15,11 +15,13 @@ ConfiguredCar scaled(const ConfiguredCar& car, Knob knob, double f) {
     switch (knob) {
       case Knob::cla:
         for (double& v : a.cla_m2) v *= f;
-        if (a.map) a.map->cla_m2 *= f;
+        if (a.map)
+          for (double& v : a.map->cla_m2.values()) v *= f;
         break;
       case Knob::cda:
         for (double& v : a.cda_m2) v *= f;
-        if (a.map) a.map->cda_m2 *= f;
+        if (a.map)
+          for (double& v : a.map->cda_m2.values()) v *= f;
         break;
       case Knob::mass:
         c.mass_kg *= f;
@@ -37,8 +39,8 @@ bool zero_area(const AeroConfig& a, Knob knob) {
   const auto& rows = knob == Knob::cla ? a.cla_m2 : a.cda_m2;
   const bool rows_zero = std::all_of(rows.begin(), rows.end(), [](double v) { return v == 0.0; });
   if (!a.map) return rows_zero;
-  const Eigen::MatrixXd& m = knob == Knob::cla ? a.map->cla_m2 : a.map->cda_m2;
-  return (m.array() == 0.0).all();
+  const std::vector<double>& m = (knob == Knob::cla ? a.map->cla_m2 : a.map->cda_m2).values();
+  return std::all_of(m.begin(), m.end(), [](double v) { return v == 0.0; });
 }
 
 AeroOperatingPoint operating_point(const Envelope& env, const Lap& lap) {
@@ -65,7 +67,8 @@ ConfiguredCar shifted(const ConfiguredCar& car, Knob knob, double delta_m2) {
   return car.changed([&](Car&, AeroConfig& a) {
     auto& rows = knob == Knob::cla ? a.cla_m2 : a.cda_m2;
     for (double& v : rows) v += delta_m2;
-    if (a.map) (knob == Knob::cla ? a.map->cla_m2 : a.map->cda_m2).array() += delta_m2;
+    if (a.map)
+      for (double& v : (knob == Knob::cla ? a.map->cla_m2 : a.map->cda_m2).values()) v += delta_m2;
   });
 }
 

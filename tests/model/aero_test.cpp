@@ -181,9 +181,9 @@ TEST_CASE("a map's ride heights fall with speed as the springs deflect") {
   RideHeightMap map;
   map.front_m = {0.0, 0.1};
   map.rear_m = {0.0, 0.2};
-  map.cda_m2 = Eigen::MatrixXd::Constant(2, 2, 1.0);
-  map.cla_m2 = Eigen::MatrixXd::Constant(2, 2, 4.0);
-  map.balance = Eigen::MatrixXd::Constant(2, 2, 0.4);
+  map.cda_m2 = MapGrid(2, 2, 1.0);
+  map.cla_m2 = MapGrid(2, 2, 4.0);
+  map.balance = MapGrid(2, 2, 0.4);
   map.static_front_m = 0.04;
   map.static_rear_m = 0.08;
   map.stiffness_front_npm = 3e5;
@@ -229,9 +229,9 @@ RideHeightMap small_map() {
   RideHeightMap m;
   m.front_m = {0.0, 0.1};
   m.rear_m = {0.0, 0.2};
-  m.cda_m2 = Eigen::MatrixXd::Constant(2, 2, 1.2);
-  m.cla_m2 = Eigen::MatrixXd::Constant(2, 2, 3.5);
-  m.balance = Eigen::MatrixXd::Constant(2, 2, 0.42);
+  m.cda_m2 = MapGrid(2, 2, 1.2);
+  m.cla_m2 = MapGrid(2, 2, 3.5);
+  m.balance = MapGrid(2, 2, 0.42);
   m.static_front_m = 0.03;
   m.static_rear_m = 0.06;
   m.stiffness_front_npm = 4e5;
@@ -255,9 +255,9 @@ TEST_CASE("a ride-height map names its first bad axis, grid or spring (README, \
          m.front_m = {0.1, 0.0};
        },
        "ride_height_map.front: values must be strictly increasing (item 1: 0 after 0.1)"},
-      {[](RideHeightMap& m) { m.cla_m2 = Eigen::MatrixXd::Constant(3, 2, 3.5); },
+      {[](RideHeightMap& m) { m.cla_m2 = MapGrid(3, 2, 3.5); },
        "ride_height_map.cla: rows differ from front: expected 2, got 3"},
-      {[](RideHeightMap& m) { m.balance = Eigen::MatrixXd::Constant(2, 1, 0.4); },
+      {[](RideHeightMap& m) { m.balance = MapGrid(2, 1, 0.4); },
        "ride_height_map.balance: columns differ from rear: expected 2, got 1"},
       {[](RideHeightMap& m) { m.cda_m2(1, 0) = 25.0; },
        "ride_height_map.cda[1][0]: value 25 is out of range: must be [0, 20]"},

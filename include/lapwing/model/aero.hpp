@@ -4,8 +4,7 @@
 // deflection under the aero load at each speed.
 #pragma once
 
-#include <Eigen/Core>
-
+#include <cstddef>
 #include <optional>
 #include <string>
 #include <string_view>
@@ -15,11 +14,32 @@
 
 namespace lapwing {
 
+/// Values over a grid of front x rear ride height: rows() front heights x cols() rear ones,
+/// read (front, rear). A plain grid (no linear algebra is done on it), so that the headers that
+/// carry a car need no matrix library.
+class MapGrid {
+ public:
+  MapGrid() = default;
+  MapGrid(std::size_t rows, std::size_t cols, double value = 0.0)
+      : rows_(rows), cols_(cols), values_(rows * cols, value) {}
+  std::size_t rows() const { return rows_; }
+  std::size_t cols() const { return cols_; }
+  double& operator()(std::size_t i, std::size_t j) { return values_[i * cols_ + j]; }
+  double operator()(std::size_t i, std::size_t j) const { return values_[i * cols_ + j]; }
+  /// Every node, row by row (to scale or shift the whole grid).
+  std::vector<double>& values() { return values_; }
+  const std::vector<double>& values() const { return values_; }
+
+ private:
+  std::size_t rows_ = 0, cols_ = 0;
+  std::vector<double> values_;
+};
+
 /// CdA, ClA and balance over a grid of front x rear ride height (m), bilinear between nodes.
-/// Matrices are indexed (front, rear).
+/// Grids are indexed (front, rear).
 struct RideHeightMap {
   std::vector<double> front_m, rear_m;  // strictly increasing, >= 2 points each
-  Eigen::MatrixXd cda_m2, cla_m2, balance;
+  MapGrid cda_m2, cla_m2, balance;
   double static_front_m, static_rear_m;            // ride heights at rest
   double stiffness_front_npm, stiffness_rear_npm;  // heave stiffness at the axle, N/m
 
