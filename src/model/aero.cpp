@@ -132,9 +132,7 @@ std::optional<Violation> RideHeightMap::validate() const {
     });
     for (std::size_t i = 0; i < rows && !f.found(); ++i)
       for (std::size_t j = 0; j < cols && !f.found(); ++j)
-        f.range(index_path(index_path(g.key, i), j),
-                g.m(i, j), g.range,
-                Quantity::number);
+        f.range(index_path(index_path(g.key, i), j), g.m(i, j), g.range, Quantity::number);
   }
   const Range at_rest{0.0, 1.0, true, false}, stiffness{0.0, 1e9, true, false};
   return f.range("static_ride_height.front", static_front_m, at_rest, Quantity::length)
