@@ -87,55 +87,50 @@ double engine_torque_nm(const Powertrain& p, double w) {
   return interpolate(x, y, w);
 }
 
-Drive best_drive(const Powertrain& p, double r, double v) {
-  if (p.ideal) {
-    constexpr double standstill_floor_mps = 1e-3;
-    return {p.efficiency * p.constant_power_w / std::max(v, standstill_floor_mps), 0, 0.0};
-  }
+namespace {
+// The drive in the best usable gear at road speed v (a gearbox), the engine's torque in gear g
+// at engine speed w (capped at the rev limit) read by torque(g, w): best_drive's and
+// DriveWalk's one loop.
+template <typename Torque>
+Drive best_gear(const Powertrain& p, double r, double v, Torque torque) {
   Drive best{0.0, static_cast<int>(p.gears.size()), p.rev_limit_radps};
   for (std::size_t g = 0; g < p.gears.size(); ++g) {
     const double ratio = p.gears[g] * p.final_drive;
     const double w = v / r * ratio;
     // The rev limit itself is usable (round-off at the top of the table must not lose a gear).
     if (w > p.rev_limit_radps * (1.0 + 1e-12)) continue;
-    const double f = engine_torque_nm(p, std::min(w, p.rev_limit_radps)) * ratio * p.efficiency / r;
+    const double f = torque(g, std::min(w, p.rev_limit_radps)) * ratio * p.efficiency / r;
     if (f > best.force_n) best = {f, static_cast<int>(g + 1), std::max(w, p.engine_radps.front())};
   }
   return best;
 }
+}  // namespace
 
-DriveWalk::DriveWalk(const Powertrain& p, double r)
-    : p_(p), r_(r), node_(p.ideal ? 0 : p.gears.size(), 0) {}
+Drive best_drive(const Powertrain& p, double r, double v) {
+  if (p.ideal) {
+    constexpr double standstill_floor_mps = 1e-3;
+    return {p.efficiency * p.constant_power_w / std::max(v, standstill_floor_mps), 0, 0.0};
+  }
+  return best_gear(p, r, v, [&p](std::size_t, double w) { return engine_torque_nm(p, w); });
+}
+
+DriveWalk::DriveWalk(const Powertrain& p, double r) : p_(p), r_(r) {
+  if (!p.ideal) walks_ = std::vector<AxisWalk>(p.gears.size(), AxisWalk(p.engine_radps));
+}
 
 Drive DriveWalk::at(double v) {
   assert(v >= last_v_);
   last_v_ = v;
-  const Powertrain& p = p_;
-  if (p.ideal) return best_drive(p, r_, v);
-  const std::vector<double>& x = p.engine_radps;
-  const std::vector<double>& y = p.torque_nm;
-  // best_drive's loop, with engine_torque_nm's interpolate (held at the curve's ends, exactly
-  // its end values there) read from each gear's walked interval: engine speeds rise with v.
-  Drive best{0.0, static_cast<int>(p.gears.size()), p.rev_limit_radps};
-  for (std::size_t g = 0; g < p.gears.size(); ++g) {
-    const double ratio = p.gears[g] * p.final_drive;
-    const double w = v / r_ * ratio;
-    if (w > p.rev_limit_radps * (1.0 + 1e-12)) continue;
-    const double we = std::min(w, p.rev_limit_radps);
-    double torque;
-    if (we <= x.front()) {
-      torque = y.front();
-    } else if (we >= x.back()) {
-      torque = y.back();
-    } else {
-      std::size_t& i = node_[g];
-      while (x[i + 1] <= we) ++i;  // the last node at or below we (x.back() > we stops it)
-      torque = lerp(y[i], y[i + 1], (we - x[i]) / (x[i + 1] - x[i]));
-    }
-    const double f = torque * ratio * p.efficiency / r_;
-    if (f > best.force_n) best = {f, static_cast<int>(g + 1), std::max(w, x.front())};
-  }
-  return best;
+  if (p_.ideal) return best_drive(p_, r_, v);
+  // engine_torque_nm's interpolate (held at the curve's ends, exactly its end values there),
+  // its interval walked on per gear: engine speeds rise with v.
+  const std::vector<double>& x = p_.engine_radps;
+  const std::vector<double>& y = p_.torque_nm;
+  return best_gear(p_, r_, v, [&](std::size_t g, double w) {
+    if (w <= x.front()) return y.front();
+    if (w >= x.back()) return y.back();
+    return lapwing::at(y, walks_[g].at(w));
+  });
 }
 
 double rev_limited_speed_mps(const Powertrain& p, double r) {

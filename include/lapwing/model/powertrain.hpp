@@ -4,6 +4,7 @@
 #include <optional>
 #include <vector>
 
+#include "lapwing/base/interpolate.hpp"
 #include "lapwing/base/range.hpp"
 #include "lapwing/base/violation.hpp"
 
@@ -92,7 +93,7 @@ class DriveWalk {
   const Powertrain& p_;
   double r_;
   double last_v_ = 0.0;
-  std::vector<std::size_t> node_;  // per gear: the torque curve's interval of the last speed
+  std::vector<AxisWalk> walks_;  // per gear: along the torque curve, from the last speed's interval
 };
 
 /// The road speed at the rev limit in top gear (m/s); 0 for an ideal transmission.
