@@ -141,6 +141,21 @@ LevelTables build_level_tables(const Envelope& env) {
   return t;
 }
 
+std::shared_ptr<const StepTables> StepTableCache::get(double h,
+                                                      const std::function<StepTables()>& build) {
+  const std::lock_guard<std::mutex> lock(mutex_);
+  for (const auto& t : kept_)
+    if (t->h == h) return t;
+  auto t = std::make_shared<const StepTables>(build());
+  if (kept_.size() < max_kept) kept_.push_back(t);
+  return t;
+}
+
+std::size_t StepTableCache::kept() {
+  const std::lock_guard<std::mutex> lock(mutex_);
+  return kept_.size();
+}
+
 bool LevelTables::steady_grip_speed(double k, double& v) const {
   if (!(k > 0.0) || lateral_nodes.empty()) return false;
   const std::size_t n = lateral_nodes.size() - 1;

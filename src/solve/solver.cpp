@@ -7,6 +7,7 @@
 #include <cassert>
 #include <cmath>
 #include <limits>
+#include <memory>
 #include <sstream>
 #include <stdexcept>
 #include <tuple>
@@ -318,6 +319,10 @@ void steady_profile(const Envelope& env, const Mesh& mesh, SteadyProfile& p) {
 
 namespace {
 
+// The exponential step's secant (exponential_step, below): its relative floor and its reach.
+constexpr double slope_spread = 1e-5;
+constexpr double secant_reach = 2.0 / 3.0;
+
 // One sweep, one step at a time, so that the forward and the backward sweep can advance in
 // lockstep: two independent chains of dependent arithmetic keep the processor busier than one
 // (each RK4 stage waits on the last). Forward and backward differ only in the acceleration.
@@ -328,7 +333,7 @@ class Sweeper {
 
  public:
   Sweeper(const Envelope& env, const Mesh& mesh, Sweep direction, const std::vector<double>& limit,
-          std::size_t start, double v_start, SweepResult& out)
+          std::size_t start, double v_start, SweepResult& out, const StepTables* steps = nullptr)
       : r_(out),
         env_(env),
         mesh_(mesh),
@@ -341,6 +346,7 @@ class Sweeper {
         ds_(mesh.step_m),
         inv_mass_{1.0 / env.mass_kg(), 1.0 / env.effective_mass_kg()},
         shift_time_(env.car().powertrain.shift_time_s),
+        steps_(steps),
         i_(start),
         v_(v_start) {
     r_.speed_mps.resize(n_);  // every point is written on the way
@@ -363,14 +369,43 @@ class Sweeper {
     return forward_ ? n_ - 1 - i_ : i_;
   }
 
+  /// The next point along the sweep; a closed mesh wraps through its seam (point n-1 == 0).
+  std::size_t next(std::size_t i) const {
+    if (forward_) return (i + 1 == period_ && mesh_.closed) ? 0 : i + 1;
+    return (i == 0) ? period_ - 1 : i - 1;
+  }
+
+  /// The step from the current point to the next read from the step tables (StepTables), where
+  /// they hold it: a level straight in still air (curvature 0 at both ends), the drive fully on,
+  /// and the limit further above the start than the step reads the model (so that the step is
+  /// the one the tables hold, unlimited), in a cell with a cubic. Then u at the next point goes
+  /// into `u1` (for end_step) and true; otherwise the step is the integrator's (begin_step).
+  [[gnu::always_inline]] bool table_step(double& u1) {
+    if (!steps_) return false;
+    const std::size_t i = i_, j = next(i);
+    if (mesh_.curvature_1pm[i] != 0.0 || mesh_.curvature_1pm[j] != 0.0) return false;
+    const std::size_t p = forward_ ? i : j;  // where begin_step reads the road
+    if (mesh_.grade[p] != 0.0 || mesh_.bank_at(p) != 0.0 || mesh_.head_wind_at(p) != 0.0)
+      return false;
+    const CellCubics* table = &steps_->brake;
+    if (forward_) {
+      if (cut_left_s_ > 0.0) return false;
+      table = env_.trims(0.0) && mesh_.trim_zone[i] ? &steps_->drive_trimmed : &steps_->drive;
+    }
+    const double u0 = v_ * v_;
+    // The step reads the model at u0 and at most this far from it (exponential_step's secant).
+    const double reach = ds_ * steps_->slope_bound + slope_spread * std::max(u0, 1.0);
+    if (!(u0 >= reach && u0 + reach <= std::min(limit_[i] * limit_[i], limit_[j] * limit_[j])))
+      return false;
+    if (!table->at(u0, u1)) return false;
+    j_ = j;
+    return true;
+  }
+
   /// Prepares the step from the current point to the next; returns u = v^2 there.
   [[gnu::always_inline]] double begin_step() {
     const std::size_t i = i_;
-    // Next point along the sweep; a closed mesh wraps through its seam (point n-1 == point 0).
-    if (forward_)
-      j_ = (i + 1 == period_ && mesh_.closed) ? 0 : i + 1;
-    else
-      j_ = (i == 0) ? period_ - 1 : i - 1;
+    j_ = next(i);
     // Curvature varies linearly over the step; the grade is that of the step's first point in
     // distance (piecewise constant along segments).
     k0_ = std::abs(mesh_.curvature_1pm[i]);
@@ -487,6 +522,7 @@ class Sweeper {
   const double ds_;
   const InverseMass inv_mass_;
   const double shift_time_;
+  const StepTables* const steps_;  // null: every step is the integrator's
   std::size_t i_;
   double v_;
   // The step in progress.
@@ -645,8 +681,7 @@ double split_step(Sw& s, double u0, double x0, double h, const StageCheck& flagg
 // a backward secant, c = -1/2, left 10 times the lap-time difference from RK4). The floor keeps
 // the quotient well above the axle model's 1e-9 m/s^2 resolution (2e-9 / d < 2e-4 of J's
 // typical 1e-3 per m).
-constexpr double slope_spread = 1e-5;
-constexpr double secant_reach = 2.0 / 3.0;
+// slope_spread and secant_reach: above the Sweeper (its table steps bound the step's reach).
 
 // phi1(z) = (e^z - 1) / z, 1 at z = 0. expm1 keeps full relative accuracy for small |z|, where
 // e^z - 1 would cancel; for z -> -inf phi1 -> -1 / z.
@@ -699,37 +734,132 @@ template <Integrator I, class Sw, std::size_t N>
 
 template <bool Axle, Integrator I>
 SweepResult sweep_one(const Envelope& env, const Mesh& mesh, Sweep direction,
-                      const std::vector<double>& limit, std::size_t start, double v_start) {
+                      const std::vector<double>& limit, std::size_t start, double v_start,
+                      const StepTables* steps = nullptr) {
   using Sw = Sweeper<Axle>;
   SweepResult r;
-  Sw s(env, mesh, direction, limit, start, v_start, r);
+  Sw s(env, mesh, direction, limit, start, v_start, r, steps);
   const double h = mesh.step_m;
   for (std::size_t k = 0, n = s.steps(); k < n; ++k) {
-    const double u0 = s.begin_step();
-    s.end_step(step<I, Sw, 1>({&s}, {u0}, h)[0]);
+    double u1 = 0.0;
+    if (!s.table_step(u1)) u1 = step<I, Sw, 1>({&s}, {s.begin_step()}, h)[0];
+    s.end_step(u1);
   }
   s.finish();
   return r;
 }
 
-// Both sweeps in lockstep.
+// Both sweeps in lockstep: a step of each from the tables where they hold it, the others
+// together.
 template <bool Axle, Integrator I>
 void sweep_both(const Envelope& env, const Mesh& mesh, const std::vector<double>& limit,
                 std::size_t f0, double vf, std::size_t b0, double vb, SweepResult& fwd,
-                SweepResult& bwd) {
+                SweepResult& bwd, const StepTables* steps) {
   using Sw = Sweeper<Axle>;
-  Sw f(env, mesh, Sweep::forward, limit, f0, vf, fwd);
-  Sw b(env, mesh, Sweep::backward, limit, b0, vb, bwd);
+  Sw f(env, mesh, Sweep::forward, limit, f0, vf, fwd, steps);
+  Sw b(env, mesh, Sweep::backward, limit, b0, vb, bwd, steps);
   assert(f.steps() == b.steps());
   const std::array<Sw*, 2> both{&f, &b};
   const double h = mesh.step_m;
-  for (std::size_t k = 0, steps = f.steps(); k < steps; ++k) {
-    const std::array<double, 2> u1 = step<I, Sw, 2>(both, {f.begin_step(), b.begin_step()}, h);
-    f.end_step(u1[0]);
-    b.end_step(u1[1]);
+  for (std::size_t k = 0, n = f.steps(); k < n; ++k) {
+    double uf = 0.0, ub = 0.0;
+    const bool tf = f.table_step(uf), tb = b.table_step(ub);
+    if (!tf && !tb) {
+      const std::array<double, 2> u1 = step<I, Sw, 2>(both, {f.begin_step(), b.begin_step()}, h);
+      uf = u1[0];
+      ub = u1[1];
+    } else if (!tf) {
+      uf = step<I, Sw, 1>({&f}, {f.begin_step()}, h)[0];
+    } else if (!tb) {
+      ub = step<I, Sw, 1>({&b}, {b.begin_step()}, h)[0];
+    }
+    f.end_step(uf);
+    b.end_step(ub);
   }
   f.finish();
   b.finish();
+}
+
+// The exponential step with no limit on a level straight in still air, as the sweeps take it
+// there (Sweeper::rhs at curvature 0 on a level road): the lane the step tables are built from.
+struct FreeLane {
+  const Envelope& env;
+  Envelope::Rows rows;
+  bool forward, trimmed;
+  InverseMass inv;
+  mutable AxleHints hints;
+  double cap(double) const { return std::numeric_limits<double>::infinity(); }
+  double rhs(double u, double) const {
+    const double u0 = std::max(u, 0.0);
+    const Road level{};
+    return 2.0 *
+           (forward ? drive_accel<true>(env, rows, u0, 0.0, level, trimmed, 1.0, inv, &hints, true)
+                    : brake_accel<true>(env, rows, u0, 0.0, level, inv, &hints, true));
+  }
+};
+
+// A step table needs this many straight steps on a lap's mesh (curvature 0 at both ends) to be
+// built: building costs about 2 million instructions and a straight step read from the tables
+// saves about 570 over both sweeps (measured; README, "Performance"), so one lap of a mesh
+// with fewer straight steps would pay more than it gains.
+constexpr std::size_t min_straight_steps = 2000;
+
+}  // namespace
+
+double free_straight_step(const Envelope& env, double u0, double h, Sweep direction, bool trimmed) {
+  const bool forward = direction == Sweep::forward;
+  FreeLane lane{env,
+                env.rows(forward && trimmed),
+                forward,
+                forward && trimmed,
+                {1.0 / env.mass_kg(), 1.0 / env.effective_mass_kg()},
+                {}};
+  return exponential_step<FreeLane, 1>({&lane}, {u0}, h)[0];
+}
+
+StepTables build_step_tables(const Envelope& env, double h) {
+  StepTables t;
+  if (!env.level_tables()) return t;
+  t.h = h;
+  const double top = env.max_speed_mps() * env.max_speed_mps();
+  const std::size_t cells = LevelTables::cell_count;
+  const double du = top / static_cast<double>(cells);
+  const InverseMass inv{1.0 / env.mass_kg(), 1.0 / env.effective_mass_kg()};
+  // The bound on |f| first (from the nodes and cell middles, with a quarter to spare for
+  // between them and the secant's reach beyond the top), then the steps.
+  double bound = 0.0;
+  auto table = [&](bool forward, bool trimmed) {
+    FreeLane lane{env, env.rows(trimmed), forward, trimmed, inv, {}};
+    for (std::size_t i = 0; i <= 2 * cells; ++i)
+      bound = std::max(bound, std::abs(lane.rhs(0.5 * static_cast<double>(i) * du, 0.0)));
+    FreeLane* l = &lane;
+    auto step_from = [&](double u0) { return exponential_step<FreeLane, 1>({l}, {u0}, h)[0]; };
+    std::vector<double> nodes(cells + 1);
+    for (std::size_t i = 0; i <= cells; ++i) nodes[i] = step_from(static_cast<double>(i) * du);
+    return CellCubics(nodes, du, StepTables::check_per_m * h, [&](std::size_t i) {
+      return step_from((static_cast<double>(i) + 0.5) * du);
+    });
+  };
+  t.brake = table(false, false);
+  t.drive = table(true, false);
+  if (env.has_trim()) t.drive_trimmed = table(true, true);
+  t.slope_bound = 1.25 * bound;
+  return t;
+}
+
+namespace {
+
+// The step tables for a lap on `mesh` with the exponential step, where the Envelope has
+// straight-line tables and the mesh enough straight steps; else null.
+std::shared_ptr<const StepTables> step_tables_for(const Envelope& env, const Mesh& mesh,
+                                                  Integrator integrator, bool wanted) {
+  if (!wanted || integrator != Integrator::exponential || !env.level_tables()) return nullptr;
+  std::size_t straight = 0;
+  const auto& k = mesh.curvature_1pm;
+  for (std::size_t i = 0; i + 1 < k.size(); ++i) straight += (k[i] == 0.0) & (k[i + 1] == 0.0);
+  if (straight < min_straight_steps) return nullptr;
+  const double h = mesh.step_m;
+  return env.level_tables()->steps->get(h, [&] { return build_step_tables(env, h); });
 }
 
 // The vehicle model and the integrator, picked once per sweep: F is called as
@@ -789,9 +919,16 @@ void LapSolver::speed_pass(const Envelope& env, const Mesh& mesh, double start_s
   SweepResult& fwd = forward_;
   SweepResult& bwd = backward_;
 
+  const std::shared_ptr<const StepTables> tables =
+      step_tables_for(env, mesh, integrator_, step_tables_);
   auto both = [&](std::size_t f0, double vf, std::size_t b0, double vb) {
     dispatch(env, integrator_, [&]<bool Axle, Integrator I>() {
-      sweep_both<Axle, I>(env, mesh, steady, f0, vf, b0, vb, fwd, bwd);
+      sweep_both<Axle, I>(env, mesh, steady, f0, vf, b0, vb, fwd, bwd, tables.get());
+    });
+  };
+  auto again = [&](Sweep direction, std::size_t start, double v) {
+    return dispatch(env, integrator_, [&]<bool Axle, Integrator I>() {
+      return sweep_one<Axle, I>(env, mesh, direction, steady, start, v, tables.get());
     });
   };
   if (mesh.closed) {
@@ -803,10 +940,8 @@ void LapSolver::speed_pass(const Envelope& env, const Mesh& mesh, double start_s
     both(i0, steady[i0], i0, steady[i0]);
     // A sweep that comes round slower than it started (it could not regain the start speed)
     // runs once more from the speed it arrived at, so that the lap is periodic.
-    if (fwd.speed_mps[i0] < steady[i0])
-      fwd = sweep(env, mesh, Sweep::forward, steady, i0, fwd.speed_mps[i0], integrator_);
-    if (bwd.speed_mps[i0] < steady[i0])
-      bwd = sweep(env, mesh, Sweep::backward, steady, i0, bwd.speed_mps[i0], integrator_);
+    if (fwd.speed_mps[i0] < steady[i0]) fwd = again(Sweep::forward, i0, fwd.speed_mps[i0]);
+    if (bwd.speed_mps[i0] < steady[i0]) bwd = again(Sweep::backward, i0, bwd.speed_mps[i0]);
   } else {
     both(0, start_speed_mps, n - 1, steady[n - 1]);
   }

@@ -11,6 +11,8 @@
 #include <array>
 #include <cstddef>
 #include <functional>
+#include <memory>
+#include <mutex>
 #include <vector>
 
 namespace lapwing {
@@ -53,6 +55,49 @@ class CellCubics {
   double inv_h_ = 0.0, top_ = 0.0;
 };
 
+/// The sweeps' step itself on a level straight in still air, tabulated over the speed squared
+/// at the step's start for one step length h (solve/solver.cpp): there the step's end depends
+/// on its start alone, so a step is one cubic read instead of two readings of the model and an
+/// exponential (README, "Performance"). Built by the sweeps on the first lap of an Envelope
+/// and a mesh step that has enough straight steps to pay for it.
+struct StepTables {
+  /// The build keeps a cell whose cubic meets the step at the cell's middle to a quarter of
+  /// `check_per_m` x h (in u = v^2, m^2/s^2), with its neighbours (CellCubics).
+  static constexpr double check_per_m = 1e-6;
+  /// What a kept cell holds the step to anywhere in it (m^2/s^2 per metre of step). The step
+  /// is not smooth at this level (the Envelope's rows are linear in u between rows 1/8000 of
+  /// the range apart, and the step's secant reads across them), so a cell's middle does not
+  /// bound its error as it would for a smooth function: measured 1.7e-6 at most at 40,000
+  /// speeds per table (tests/solve/level_tables_test.cpp: the bundled cars, three step
+  /// lengths). As an acceleration over the step (u1 - u0 = 2 a h) that is 2e-6 m/s^2, a
+  /// ten-millionth of a braking deceleration; measured on every bundled case it moves no lap
+  /// time by more than 1e-10 (README, "Performance").
+  static constexpr double tolerance_per_m = 4e-6;
+  double h = 0.0;                          // the step length (m) the tables are of
+  CellCubics drive, drive_trimmed, brake;  // u at the step's end from u at its start
+  /// A bound on |d(u)/dx| over the tables (m/s^2 x 2): the step reads the model no further
+  /// than h times this from its start, so a step whose limit is that far above it does not
+  /// meet the limit.
+  double slope_bound = 0.0;
+};
+
+/// The step tables of one Envelope, by step length: built once by whichever lap asks first
+/// (the content depends on the Envelope and h alone, so which thread builds it does not
+/// matter), shared by the Envelope's copies.
+class StepTableCache {
+ public:
+  /// The tables for step h: the cached ones, or `build()`'s, kept while fewer than
+  /// `max_kept` step lengths are.
+  std::shared_ptr<const StepTables> get(double h, const std::function<StepTables()>& build);
+  static constexpr std::size_t max_kept = 8;
+  /// Step lengths kept.
+  std::size_t kept();
+
+ private:
+  std::mutex mutex_;
+  std::vector<std::shared_ptr<const StepTables>> kept_;
+};
+
 /// The straight-line tables of an axle-model Envelope (level road, still air, curvature 0).
 struct LevelTables {
   /// Agreement with the model asked of every kept cell (m/s^2): thirty times the fixed point's
@@ -90,6 +135,9 @@ struct LevelTables {
   /// a limit at the top speed or below the first node's, or in a cell without a cubic (the
   /// caller searches).
   bool steady_grip_speed(double abs_curvature, double& v) const;
+
+  /// The step tables by step length (built by the sweeps, solve/solver.cpp).
+  std::shared_ptr<StepTableCache> steps = std::make_shared<StepTableCache>();
 };
 
 /// Builds the tables from the model (solve/axle.hpp) over the Envelope's speed range.

@@ -10,6 +10,7 @@
 
 #include "lapwing/path/mesh.hpp"
 #include "lapwing/solve/envelope.hpp"
+#include "lapwing/solve/level_tables.hpp"
 
 namespace lapwing {
 
@@ -95,6 +96,15 @@ SweepResult sweep(const Envelope& env, const Mesh& mesh, Sweep direction,
                   const std::vector<double>& limit, std::size_t start, double v_start,
                   Integrator integrator = default_integrator);
 
+/// The exponential step on a level straight in still air with no limit near: u = v^2 a step h
+/// on from u0, forward under full drive (on the straight-line trim's rows where `trimmed`) or
+/// backward under braking, as the sweeps take it there. What the step tables hold.
+double free_straight_step(const Envelope& env, double u0, double h, Sweep direction,
+                          bool trimmed = false);
+/// The step tables (level_tables.hpp) of an axle-model Envelope with straight-line tables for
+/// step h: free_straight_step over u0 in [0, the Envelope's top speed squared].
+StepTables build_step_tables(const Envelope& env, double h);
+
 /// A solved lap: one entry per mesh point (SI units).
 struct Lap {
   std::vector<double> speed_mps, time_s, long_accel_mps2, lat_accel_mps2;
@@ -126,8 +136,11 @@ Lap solve_lap(const Envelope& env, const Mesh& mesh, double start_speed_mps = 0.
 /// the Mesh it reads. One per thread.
 class LapSolver {
  public:
-  /// A solver whose sweeps step with `integrator`.
-  explicit LapSolver(Integrator integrator = default_integrator) : integrator_(integrator) {}
+  /// A solver whose sweeps step with `integrator`; the exponential step reads its straight
+  /// steps from the step tables (StepTables) where a mesh has enough of them, unless
+  /// `step_tables` is false (for a check of the tables against the step itself).
+  explicit LapSolver(Integrator integrator = default_integrator, bool step_tables = true)
+      : integrator_(integrator), step_tables_(step_tables) {}
   Integrator integrator() const { return integrator_; }
   /// The speed solve: the steady limits, both sweeps, and the speed, phase and time traces
   /// (lap_time_s). No channel is filled (has_channels false): a study that needs lap times
@@ -161,6 +174,7 @@ class LapSolver {
   /// The channels pass over the last speed solve, lap_.gear holding the forward sweep's gears.
   void channels_pass(const Envelope& env, const Mesh& mesh);
   Integrator integrator_;
+  bool step_tables_;
   Lap lap_;
   SteadyProfile steady_;
   SweepResult forward_, backward_;
