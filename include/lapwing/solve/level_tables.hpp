@@ -89,7 +89,7 @@ class StepTableCache {
   /// The tables for step h: the cached ones, or `build()`'s, kept while fewer than
   /// `max_kept` step lengths are.
   std::shared_ptr<const StepTables> get(double h, const std::function<StepTables()>& build);
-  static constexpr std::size_t max_kept = 8;
+  static constexpr std::size_t max_kept = 16;
   /// Step lengths kept.
   std::size_t kept();
 
