@@ -322,6 +322,10 @@ namespace {
 // The exponential step's secant (exponential_step, below): its relative floor and its reach.
 constexpr double slope_spread = 1e-5;
 constexpr double secant_reach = 2.0 / 3.0;
+// Deceleration by the resistance alone (m/s^2) above which a held backward step's braking is
+// surely positive: a thousand times the axle model's tolerance (1e-9 m/s^2) and thirty times
+// the straight-line tables' (3e-8 m/s^2), so that neither can turn it.
+constexpr double held_margin_mps2 = 1e-6;
 
 // One sweep, one step at a time, so that the forward and the backward sweep can advance in
 // lockstep: two independent chains of dependent arithmetic keep the processor busier than one
@@ -399,6 +403,33 @@ class Sweeper {
       return false;
     if (!table->at(u0, u1)) return false;
     j_ = j;
+    return true;
+  }
+
+  /// A backward step held on the limit, told without asking the model: one that starts at or
+  /// above the limit at its end (the exponential step's `clipped` test) where braking surely
+  /// decelerates. The model's braking is the tyres' force left, which is never negative, plus
+  /// the resistance (drag, rolling resistance and grade); where the resistance alone
+  /// decelerates by more than `held_margin`, the step's reading is positive, and the step ends
+  /// on the limit whatever its size (end_step clips it there). Then `u1` (at or above the limit,
+  /// for end_step) and true; otherwise the step is the integrator's.
+  [[gnu::always_inline]] bool held_step(double& u1) {
+    if (forward_) return false;
+    const std::size_t i = i_, j = next(i);
+    // As begin_step and exponential_step work the limit over the step, to the same rounding.
+    const double ulim0 = limit_[i] * limit_[i];
+    const double dulim = (limit_[j] * limit_[j] - ulim0) / ds_;
+    const double u0 = v_ * v_;
+    if (!(u0 >= ulim0 + dulim * ds_)) return false;
+    const double xm = 0.5 * ds_;
+    const double um = std::min(u0, ulim0 + dulim * xm);
+    const double k0 = std::abs(mesh_.curvature_1pm[i]);
+    const double k = k0 + (std::abs(mesh_.curvature_1pm[j]) - k0) / ds_ * xm;
+    const Road road = road_at_(j);
+    const double r = env_.road_forces(env_.rows(false), std::max(um, 0.0), k, road).resistance_n;
+    if (!(r * inv_mass_.m > held_margin_mps2)) return false;
+    j_ = j;
+    u1 = u0;
     return true;
   }
 
@@ -732,17 +763,27 @@ template <Integrator I, class Sw, std::size_t N>
   }
 }
 
+// A step the exponential step's sweeps take without it: from the step tables, or held on the
+// limit (RK4 takes every step itself).
+template <Integrator I, class Sw>
+[[gnu::always_inline]] inline bool quick_step(Sw& s, double& u1, bool quick) {
+  if constexpr (I == Integrator::exponential)
+    return quick && (s.table_step(u1) || s.held_step(u1));
+  else
+    return false;
+}
+
 template <bool Axle, Integrator I>
 SweepResult sweep_one(const Envelope& env, const Mesh& mesh, Sweep direction,
                       const std::vector<double>& limit, std::size_t start, double v_start,
-                      const StepTables* steps = nullptr) {
+                      const StepTables* steps = nullptr, bool quick = false) {
   using Sw = Sweeper<Axle>;
   SweepResult r;
   Sw s(env, mesh, direction, limit, start, v_start, r, steps);
   const double h = mesh.step_m;
   for (std::size_t k = 0, n = s.steps(); k < n; ++k) {
     double u1 = 0.0;
-    if (!s.table_step(u1)) u1 = step<I, Sw, 1>({&s}, {s.begin_step()}, h)[0];
+    if (!quick_step<I>(s, u1, quick)) u1 = step<I, Sw, 1>({&s}, {s.begin_step()}, h)[0];
     s.end_step(u1);
   }
   s.finish();
@@ -754,7 +795,7 @@ SweepResult sweep_one(const Envelope& env, const Mesh& mesh, Sweep direction,
 template <bool Axle, Integrator I>
 void sweep_both(const Envelope& env, const Mesh& mesh, const std::vector<double>& limit,
                 std::size_t f0, double vf, std::size_t b0, double vb, SweepResult& fwd,
-                SweepResult& bwd, const StepTables* steps) {
+                SweepResult& bwd, const StepTables* steps, bool quick) {
   using Sw = Sweeper<Axle>;
   Sw f(env, mesh, Sweep::forward, limit, f0, vf, fwd, steps);
   Sw b(env, mesh, Sweep::backward, limit, b0, vb, bwd, steps);
@@ -763,7 +804,7 @@ void sweep_both(const Envelope& env, const Mesh& mesh, const std::vector<double>
   const double h = mesh.step_m;
   for (std::size_t k = 0, n = f.steps(); k < n; ++k) {
     double uf = 0.0, ub = 0.0;
-    const bool tf = f.table_step(uf), tb = b.table_step(ub);
+    const bool tf = quick_step<I>(f, uf, quick), tb = quick_step<I>(b, ub, quick);
     if (!tf && !tb) {
       const std::array<double, 2> u1 = step<I, Sw, 2>(both, {f.begin_step(), b.begin_step()}, h);
       uf = u1[0];
@@ -920,15 +961,15 @@ void LapSolver::speed_pass(const Envelope& env, const Mesh& mesh, double start_s
   SweepResult& bwd = backward_;
 
   const std::shared_ptr<const StepTables> tables =
-      step_tables_for(env, mesh, integrator_, step_tables_);
+      step_tables_for(env, mesh, integrator_, quick_steps_);
   auto both = [&](std::size_t f0, double vf, std::size_t b0, double vb) {
     dispatch(env, integrator_, [&]<bool Axle, Integrator I>() {
-      sweep_both<Axle, I>(env, mesh, steady, f0, vf, b0, vb, fwd, bwd, tables.get());
+      sweep_both<Axle, I>(env, mesh, steady, f0, vf, b0, vb, fwd, bwd, tables.get(), quick_steps_);
     });
   };
   auto again = [&](Sweep direction, std::size_t start, double v) {
     return dispatch(env, integrator_, [&]<bool Axle, Integrator I>() {
-      return sweep_one<Axle, I>(env, mesh, direction, steady, start, v, tables.get());
+      return sweep_one<Axle, I>(env, mesh, direction, steady, start, v, tables.get(), quick_steps_);
     });
   };
   if (mesh.closed) {

@@ -136,11 +136,12 @@ Lap solve_lap(const Envelope& env, const Mesh& mesh, double start_speed_mps = 0.
 /// the Mesh it reads. One per thread.
 class LapSolver {
  public:
-  /// A solver whose sweeps step with `integrator`; the exponential step reads its straight
-  /// steps from the step tables (StepTables) where a mesh has enough of them, unless
-  /// `step_tables` is false (for a check of the tables against the step itself).
-  explicit LapSolver(Integrator integrator = default_integrator, bool step_tables = true)
-      : integrator_(integrator), step_tables_(step_tables) {}
+  /// A solver whose sweeps step with `integrator`. The exponential step's sweeps take some
+  /// steps without it where its answer is known (`quick_steps`): straight steps from the step
+  /// tables (StepTables) where a mesh has enough of them, and backward steps held on their
+  /// limit. `quick_steps` false takes every step (a check of the quick ones).
+  explicit LapSolver(Integrator integrator = default_integrator, bool quick_steps = true)
+      : integrator_(integrator), quick_steps_(quick_steps) {}
   Integrator integrator() const { return integrator_; }
   /// The speed solve: the steady limits, both sweeps, and the speed, phase and time traces
   /// (lap_time_s). No channel is filled (has_channels false): a study that needs lap times
@@ -174,7 +175,7 @@ class LapSolver {
   /// The channels pass over the last speed solve, lap_.gear holding the forward sweep's gears.
   void channels_pass(const Envelope& env, const Mesh& mesh);
   Integrator integrator_;
-  bool step_tables_;
+  bool quick_steps_;
   Lap lap_;
   SteadyProfile steady_;
   SweepResult forward_, backward_;
