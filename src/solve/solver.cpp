@@ -897,7 +897,8 @@ std::shared_ptr<const StepTables> step_tables_for(const Envelope& env, const Mes
   if (!wanted || integrator != Integrator::exponential || !env.level_tables()) return nullptr;
   std::size_t straight = 0;
   const auto& k = mesh.curvature_1pm;
-  for (std::size_t i = 0; i + 1 < k.size(); ++i) straight += (k[i] == 0.0) & (k[i + 1] == 0.0);
+  for (std::size_t i = 0; i + 1 < k.size() && straight < min_straight_steps; ++i)
+    straight += (k[i] == 0.0) & (k[i + 1] == 0.0);
   if (straight < min_straight_steps) return nullptr;
   const double h = mesh.step_m;
   return env.level_tables()->steps->get(h, [&] { return build_step_tables(env, h); });
