@@ -225,10 +225,4 @@ AeroPoint Envelope::aero_point(double v) const {
           p.grounded || q.grounded};
 }
 
-std::size_t Envelope::index(double v) const {
-  // The row at or below v: the gear in use up to the speed where the next one takes over.
-  const double f = std::clamp(v * v * inv_du_, 0.0, static_cast<double>(rows_.size() - 1));
-  return static_cast<std::size_t>(f);
-}
-
 }  // namespace lapwing

@@ -2,6 +2,7 @@
 // solver's per-point work is table look-ups and a few flops (STYLE, habit 12).
 #pragma once
 
+#include <algorithm>
 #include <cstddef>
 #include <memory>
 #include <optional>
@@ -194,7 +195,11 @@ class Envelope {
   }
 
  private:
-  std::size_t index(double v) const;
+  /// The row at or below v: the gear in use up to the speed where the next one takes over.
+  std::size_t index(double v) const {
+    const double f = std::clamp(v * v * inv_du_, 0.0, static_cast<double>(rows_.size() - 1));
+    return static_cast<std::size_t>(f);
+  }
   Envelope(Unchecked, const ConfiguredCar& configured, const Car& car, const Air& air,
            EnvelopeOptions options);
 
