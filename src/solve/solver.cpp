@@ -1120,21 +1120,20 @@ void LapSolver::channels_pass(const Envelope& env, const Mesh& mesh) {
                                   pt.gears[static_cast<std::size_t>(gear - 1)] * pt.final_drive,
                               pt.engine_radps.front(), pt.rev_limit_radps);
     lap.trimmed[i] = trimmed;
-    const Envelope::Sample row = env.sample(v, trimmed);
     lap.drag_n[i] = f.drag_n;
     lap.downforce_n[i] = f.downforce_n;
     // Axle loads and what each axle carries (axle.hpp): the tyre force along the path is what
     // accelerates the car's mass m plus the resistance (the rotating parts' spin-up is torque
     // inside the driveline, not road force).
     const AxleLoads loads =
-        axle_loads(car, f.drag_n, f.downforce_n, row.balance, f.normal_share, road.sin_slope, ax);
+        axle_loads(car, f.drag_n, f.downforce_n, f.balance, f.normal_share, road.sin_slope, ax);
     lap.front_load_n[i] = loads.front_n;
     lap.rear_load_n[i] = loads.rear_n;
     // Front share of the aero load with the drag moment (axle.hpp; the coefficients' rho / 2
     // cancels); NaN, written as an empty field, where there is no downforce to share.
-    lap.aero_balance_eff[i] = aero_balance_with_drag_moment(row.lift_coef, row.drag_coef,
-                                                            row.balance, car.drag_height_m, wb)
-                                  .value_or(std::numeric_limits<double>::quiet_NaN());
+    lap.aero_balance_eff[i] =
+        aero_balance_with_drag_moment(f.lift_coef, f.drag_coef, f.balance, car.drag_height_m, wb)
+            .value_or(std::numeric_limits<double>::quiet_NaN());
     const AxleUsage use = axle_usage(env, loads, m * ax + f.resistance_n, std::abs(f.lateral_n));
     lap.front_usage[i] = use.front_usage;
     lap.rear_usage[i] = use.rear_usage;

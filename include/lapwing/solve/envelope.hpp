@@ -164,6 +164,7 @@ class Envelope {
   /// (resistance_n), and the drive in the best gear. One table read.
   struct RoadForces {
     double drag_n, downforce_n, balance, normal_share, normal_n, lateral_n, resistance_n, drive_n;
+    double drag_coef, lift_coef;  // the row's coefficients (Sample), for the channels
   };
   [[gnu::always_inline]] RoadForces road_forces(const Rows& rows, double u, double abs_curvature,
                                                 const Road& road) const {
@@ -179,7 +180,9 @@ class Envelope {
             normal,
             b.lateral_n,
             lapwing::resistance_n(drag, crr_, normal, weight_, road.sin_slope),
-            s.drive_n};
+            s.drive_n,
+            s.drag_coef,
+            s.lift_coef};
   }
 
   /// Vertical load on the tyres at speed v (lapwing::normal_load_n, model/loads.hpp).
