@@ -248,6 +248,17 @@ void steady_profile(const Envelope& env, const Mesh& mesh, SteadyProfile& p) {
   bool have_two = false;
   RoadReader road_at(mesh);
   for (std::size_t i = 0; i < n; ++i) {
+    // A point in the same state as the one before it (the same signed curvature, road and trim
+    // zone: most points of a straight or an arc) has the same limit; the loop below would find
+    // nothing changed there.
+    if (i > 0 && mesh.curvature_1pm[i] == mesh.curvature_1pm[i - 1] &&
+        mesh.grade[i] == mesh.grade[i - 1] && mesh.bank_at(i) == mesh.bank_at(i - 1) &&
+        mesh.head_wind_at(i) == mesh.head_wind_at(i - 1) &&
+        mesh.trim_zone[i] == mesh.trim_zone[i - 1]) {
+      p.speed_mps[i] = p.speed_mps[i - 1];
+      p.limit[i] = p.limit[i - 1];
+      continue;
+    }
     const double curv = std::abs(mesh.curvature_1pm[i]);
     const Road road = road_at(i);
     const bool road_changed = !same_road(road, last_road);
