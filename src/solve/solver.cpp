@@ -850,10 +850,10 @@ struct FreeLane {
   }
 };
 
-// A step table needs this many straight steps on a lap's mesh (curvature 0 at both ends) to be
-// built: building costs about 2 million instructions and a straight step read from the tables
-// saves about 570 over both sweeps (measured; README, "Performance"), so one lap of a mesh
-// with fewer straight steps would pay more than it gains.
+// A step table needs this many level still-air straight steps on a lap's mesh to be built: building
+// costs about 2 million instructions and a straight step read from the tables saves about 570 over
+// both sweeps (measured; README, "Performance"), so one lap of a mesh with fewer straight steps
+// would pay more than it gains.
 constexpr std::size_t min_straight_steps = 2000;
 
 }  // namespace
@@ -906,10 +906,13 @@ namespace {
 std::shared_ptr<const StepTables> step_tables_for(const Envelope& env, const Mesh& mesh,
                                                   Integrator integrator, bool wanted) {
   if (!wanted || integrator != Integrator::exponential || !env.level_tables()) return nullptr;
+  // Steps the tables can answer: curvature 0 at both ends, level and in still air (where the
+  // sweeps read the road, either end).
   std::size_t straight = 0;
   const auto& k = mesh.curvature_1pm;
   for (std::size_t i = 0; i + 1 < k.size() && straight < min_straight_steps; ++i)
-    straight += (k[i] == 0.0) & (k[i + 1] == 0.0);
+    straight += k[i] == 0.0 && k[i + 1] == 0.0 && mesh.grade[i] == 0.0 && mesh.bank_at(i) == 0.0 &&
+                mesh.head_wind_at(i) == 0.0;
   if (straight < min_straight_steps) return nullptr;
   const double h = mesh.step_m;
   return env.level_tables()->steps->get(h, [&] { return build_step_tables(env, h); });
