@@ -400,8 +400,7 @@ class Sweeper {
     const std::size_t i = i_, j = next(i);
     if (mesh_.curvature_1pm[i] != 0.0 || mesh_.curvature_1pm[j] != 0.0) return false;
     const std::size_t p = forward_ ? i : j;  // where begin_step reads the road
-    if (mesh_.grade[p] != 0.0 || mesh_.bank_at(p) != 0.0 || mesh_.head_wind_at(p) != 0.0)
-      return false;
+    if (!mesh_.level_in_still_air(p)) return false;
     const CellCubics* table = &steps_->brake;
     if (forward_) {
       if (cut_left_s_ > 0.0) return false;
@@ -907,12 +906,11 @@ std::shared_ptr<const StepTables> step_tables_for(const Envelope& env, const Mes
                                                   Integrator integrator, bool wanted) {
   if (!wanted || integrator != Integrator::exponential || !env.level_tables()) return nullptr;
   // Steps the tables can answer: curvature 0 at both ends, level and in still air (where the
-  // sweeps read the road, either end).
+  // step's first point; a count that decides whether to build, not which step reads them).
   std::size_t straight = 0;
   const auto& k = mesh.curvature_1pm;
   for (std::size_t i = 0; i + 1 < k.size() && straight < min_straight_steps; ++i)
-    straight += k[i] == 0.0 && k[i + 1] == 0.0 && mesh.grade[i] == 0.0 && mesh.bank_at(i) == 0.0 &&
-                mesh.head_wind_at(i) == 0.0;
+    straight += k[i] == 0.0 && k[i + 1] == 0.0 && mesh.level_in_still_air(i);
   if (straight < min_straight_steps) return nullptr;
   const double h = mesh.step_m;
   return env.level_tables()->steps->get(h, [&] { return build_step_tables(env, h); });

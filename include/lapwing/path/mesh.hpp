@@ -40,6 +40,11 @@ struct Mesh {
     return head_wind_mps.empty() ? 0.0 : head_wind_mps[i];
   }
   std::size_t intervals() const { return s_m.size() - 1; }
+  /// No grade, bank or head wind at point i: where the axle model's straight-line and step
+  /// tables apply on a straight.
+  bool level_in_still_air(std::size_t i) const {
+    return grade[i] == 0.0 && bank_at(i) == 0.0 && head_wind_at(i) == 0.0;
+  }
 };
 
 /// The longest run of points whose |curvature| stays below `straight_below_1pm` (default 1/800 m,
