@@ -905,8 +905,8 @@ namespace {
 std::shared_ptr<const StepTables> step_tables_for(const Envelope& env, const Mesh& mesh,
                                                   Integrator integrator, bool wanted) {
   if (!wanted || integrator != Integrator::exponential || !env.level_tables()) return nullptr;
-  // Steps the tables can answer: curvature 0 at both ends, level and in still air (where the
-  // step's first point; a count that decides whether to build, not which step reads them).
+  // Steps the tables can answer: curvature 0 at both ends, level and in still air at the first
+  // (a count that decides whether to build, not which step reads the tables).
   std::size_t straight = 0;
   const auto& k = mesh.curvature_1pm;
   for (std::size_t i = 0; i + 1 < k.size() && straight < min_straight_steps; ++i)
