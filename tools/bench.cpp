@@ -7,6 +7,7 @@
 #include <chrono>
 #include <cstdio>
 #include <cstdlib>
+#include <stdexcept>
 #include <string>
 #include <thread>
 #include <vector>
@@ -216,24 +217,33 @@ int main(int argc, char** argv) {
     const Lap warm = solve_lap(env, mesh, track.start_speed_mps, integrator);
     constexpr int batches = 10;
     const int per_batch = std::max(1, laps / batches);
-    std::vector<double> batch_s;
-    for (int b = 0; b < batches; ++b) {
-      t0 = clock::now();
-      for (int k = 0; k < per_batch; ++k)
-        sink += solver.solve(env, mesh, track.start_speed_mps).lap_time_s;
-      batch_s.push_back(std::chrono::duration<double>(clock::now() - t0).count() / per_batch);
-    }
-    std::sort(batch_s.begin(), batch_s.end());
+    // Seconds per lap of each batch of `lap()`, fastest first.
+    const auto batched = [&](const auto& lap) {
+      std::vector<double> per_lap_s;
+      for (int b = 0; b < batches; ++b) {
+        const auto start = clock::now();
+        for (int k = 0; k < per_batch; ++k) sink += lap();
+        per_lap_s.push_back(std::chrono::duration<double>(clock::now() - start).count() /
+                            per_batch);
+      }
+      std::sort(per_lap_s.begin(), per_lap_s.end());
+      return per_lap_s;
+    };
+    const std::vector<double> batch_s =
+        batched([&] { return solver.solve(env, mesh, track.start_speed_mps).lap_time_s; });
     const double per_lap = batch_s.front(), median = batch_s[batch_s.size() / 2];
     // The same laps without the channels (loads, usage, forces): what a trade's laps cost.
-    std::vector<double> bare_s;
-    for (int b = 0; b < batches; ++b) {
-      t0 = clock::now();
-      for (int k = 0; k < per_batch; ++k)
-        sink += solver.solve_speed(env, mesh, track.start_speed_mps).lap_time_s;
-      bare_s.push_back(std::chrono::duration<double>(clock::now() - t0).count() / per_batch);
-    }
-    std::sort(bare_s.begin(), bare_s.end());
+    const std::vector<double> bare_s =
+        batched([&] { return solver.solve_speed(env, mesh, track.start_speed_mps).lap_time_s; });
+    // One lap on two threads (LapSolver::set_threads), as lapwing run solves it: the same lap.
+    LapSolver two(integrator);
+    two.set_threads(2);
+    if (two.solve(env, mesh, track.start_speed_mps).lap_time_s != warm.lap_time_s)
+      throw std::runtime_error("the lap on two threads differs from the lap on one");
+    const std::vector<double> two_s =
+        batched([&] { return two.solve(env, mesh, track.start_speed_mps).lap_time_s; });
+    const std::vector<double> two_bare_s =
+        batched([&] { return two.solve_speed(env, mesh, track.start_speed_mps).lap_time_s; });
     std::printf("track %s: %.1f m, %zu mesh points at %.3f m; config %s; %s; lap %.6f s\n",
                 track.name.c_str(), mesh.length_m, mesh.size(), mesh.step_m,
                 configured.aero().name.c_str(), integrator_name.c_str(), warm.lap_time_s);
@@ -249,6 +259,10 @@ int main(int argc, char** argv) {
         "lap time only, no channels (fastest / median batch): %.1f / %.1f ns per mesh "
         "point per lap\n",
         bare_s.front() * 1e9 / points, bare_s[bare_s.size() / 2] * 1e9 / points);
+    std::printf(
+        "one lap on 2 threads, with every channel / lap time only (fastest batch): %.1f / %.1f "
+        "ns per mesh point per lap\n",
+        two_s.front() * 1e9 / points, two_bare_s.front() * 1e9 / points);
     if (sink == 0.0) std::printf("\n");  // keeps the work observable
   } catch (const std::exception& e) {
     std::fprintf(stderr, "lapwing_bench: %s\n", e.what());

@@ -874,6 +874,7 @@ int track_line(const TrackLineOptions& o, Inputs& in) {
   lined.line_path = line;
   if (configured) {
     LapSolver solver;  // the lap times alone: no channel is read here
+    solver.set_threads(lone_lap_threads());
     centerline_lap = lap_time(*configured, lapwing::lay_out(described, a), solver);
     if (!line_lap) line_lap = lap_time(*configured, lapwing::lay_out(lined, a), solver);
   }

@@ -6,10 +6,12 @@
 #include <array>
 #include <cassert>
 #include <cmath>
+#include <exception>
 #include <limits>
 #include <memory>
 #include <sstream>
 #include <stdexcept>
+#include <thread>
 #include <tuple>
 #include <utility>
 
@@ -783,20 +785,32 @@ template <Integrator I, class Sw>
     return false;
 }
 
+// One sweep into `r`. `at` counts its steps as they go: where a step throws, the step it was
+// (the constructor's throw leaves it at -1).
 template <bool Axle, Integrator I>
-SweepResult sweep_one(const Envelope& env, const Mesh& mesh, Sweep direction,
-                      const std::vector<double>& limit, std::size_t start, double v_start,
-                      const StepTables* steps = nullptr, bool quick = false) {
+void sweep_into(const Envelope& env, const Mesh& mesh, Sweep direction,
+                const std::vector<double>& limit, std::size_t start, double v_start, SweepResult& r,
+                const StepTables* steps, bool quick, std::ptrdiff_t& at) {
   using Sw = Sweeper<Axle>;
-  SweepResult r;
+  at = -1;
   Sw s(env, mesh, direction, limit, start, v_start, r, steps);
   const double h = mesh.step_m;
   for (std::size_t k = 0, n = s.steps(); k < n; ++k) {
+    at = static_cast<std::ptrdiff_t>(k);
     double u1 = 0.0;
     if (!quick_step<I>(s, u1, quick)) u1 = step<I, Sw, 1>({&s}, {s.begin_step()}, h)[0];
     s.end_step(u1);
   }
   s.finish();
+}
+
+template <bool Axle, Integrator I>
+SweepResult sweep_one(const Envelope& env, const Mesh& mesh, Sweep direction,
+                      const std::vector<double>& limit, std::size_t start, double v_start,
+                      const StepTables* steps = nullptr, bool quick = false) {
+  SweepResult r;
+  std::ptrdiff_t at = 0;
+  sweep_into<Axle, I>(env, mesh, direction, limit, start, v_start, r, steps, quick, at);
   return r;
 }
 
@@ -831,6 +845,35 @@ void sweep_both(const Envelope& env, const Mesh& mesh, const std::vector<double>
   b.finish();
 }
 
+// Both sweeps side by side: the backward sweep on a second thread, the forward on this one.
+// Each lane takes the steps it takes in sweep_both's lockstep (the lanes share nothing but the
+// Envelope, the mesh, the limits and the step tables, all read only), so the results are the
+// same bit for bit. Where a sweep cannot go on (end_step throws), the lockstep would have met
+// the throw of the lower step first, the forward sweep's first at the same step (its
+// constructor and each of its steps come first): that one is rethrown, the same error.
+template <bool Axle, Integrator I>
+void sweep_apart(const Envelope& env, const Mesh& mesh, const std::vector<double>& limit,
+                 std::size_t f0, double vf, std::size_t b0, double vb, SweepResult& fwd,
+                 SweepResult& bwd, const StepTables* steps, bool quick) {
+  std::exception_ptr f_error, b_error;
+  std::ptrdiff_t f_at = 0, b_at = 0;
+  std::thread backward([&] {
+    try {
+      sweep_into<Axle, I>(env, mesh, Sweep::backward, limit, b0, vb, bwd, steps, quick, b_at);
+    } catch (...) {
+      b_error = std::current_exception();
+    }
+  });
+  try {
+    sweep_into<Axle, I>(env, mesh, Sweep::forward, limit, f0, vf, fwd, steps, quick, f_at);
+  } catch (...) {
+    f_error = std::current_exception();
+  }
+  backward.join();
+  if (f_error && (!b_error || f_at <= b_at)) std::rethrow_exception(f_error);
+  if (b_error) std::rethrow_exception(b_error);
+}
+
 // The exponential step with no limit on a level straight in still air, as the sweeps take it
 // there (Sweeper::rhs at curvature 0 on a level road): the lane the step tables are built from.
 struct FreeLane {
@@ -854,6 +897,11 @@ struct FreeLane {
 // both sweeps (measured; README, "Performance"), so one lap of a mesh with fewer straight steps
 // would pay more than it gains.
 constexpr std::size_t min_straight_steps = 2000;
+
+// A lap on two threads (LapSolver::set_threads) puts its sweeps and channels apart on meshes of
+// at least this many points: a thread's start and join cost some 30-60 microseconds here
+// (README, "Performance"), what a few hundred points of a sweep take.
+constexpr std::size_t min_points_apart = 2000;
 
 }  // namespace
 
@@ -975,9 +1023,15 @@ void LapSolver::speed_pass(const Envelope& env, const Mesh& mesh, double start_s
 
   const std::shared_ptr<const StepTables> tables =
       step_tables_for(env, mesh, integrator_, quick_steps_);
+  const bool apart = threads_ >= 2 && n >= min_points_apart;
   auto both = [&](std::size_t f0, double vf, std::size_t b0, double vb) {
     dispatch(env, integrator_, [&]<bool Axle, Integrator I>() {
-      sweep_both<Axle, I>(env, mesh, steady, f0, vf, b0, vb, fwd, bwd, tables.get(), quick_steps_);
+      if (apart)
+        sweep_apart<Axle, I>(env, mesh, steady, f0, vf, b0, vb, fwd, bwd, tables.get(),
+                             quick_steps_);
+      else
+        sweep_both<Axle, I>(env, mesh, steady, f0, vf, b0, vb, fwd, bwd, tables.get(),
+                            quick_steps_);
     });
   };
   auto again = [&](Sweep direction, std::size_t start, double v) {
@@ -1077,78 +1131,106 @@ void LapSolver::channels_pass(const Envelope& env, const Mesh& mesh) {
   // usage worked from it would show an axle beyond its grip that the solver never used.
   const InverseMass inv{1.0 / m, 1.0 / env.effective_mass_kg()};
   const bool axle_model = car.model == VehicleModel::axle;
-  AxleHints drive_hints, brake_hints;  // from point to point, as in the sweeps
   const bool tables = axle_model && env.level_tables();
-  const auto point_accel = [&](std::size_t i, const Road& road) {
-    std::size_t lo = i, hi = i;
-    if (i > 0)
-      lo = i - 1;
-    else if (mesh.closed)
-      lo = n - 2;
-    if (i + 1 < n)
-      hi = i + 1;
-    else if (mesh.closed)
-      hi = 1;
-    const double span = mesh.step_m * static_cast<double>((lo != i) + (hi != i));
-    const double u = lap.speed_mps[i] * lap.speed_mps[i];
-    const double diff =
-        (lap.speed_mps[hi] * lap.speed_mps[hi] - lap.speed_mps[lo] * lap.speed_mps[lo]) /
-        (2.0 * span);
-    const double k = std::abs(mesh.curvature_1pm[i]);
-    const bool straight = tables && k == 0.0 && level_in_still_air(road);
-    if (diff >= 0.0) {
-      const bool trims = env.trims(k) && mesh.trim_zone[i];
-      const Envelope::Rows rows = env.rows(trims);
-      return std::min(diff, axle_model
-                                ? drive_accel<true>(env, rows, u, k, road, trims, 1.0, inv,
-                                                    &drive_hints, straight)
-                                : drive_accel<false>(env, rows, u, k, road, trims, 1.0, inv));
+  // The points from lo to hi (not included). The axle model's hints go from point to point, as
+  // in the sweeps, and start afresh at lo.
+  const auto points = [&](std::size_t lo_point, std::size_t hi_point) {
+    AxleHints drive_hints, brake_hints;
+    const auto point_accel = [&](std::size_t i, const Road& road) {
+      std::size_t lo = i, hi = i;
+      if (i > 0)
+        lo = i - 1;
+      else if (mesh.closed)
+        lo = n - 2;
+      if (i + 1 < n)
+        hi = i + 1;
+      else if (mesh.closed)
+        hi = 1;
+      const double span = mesh.step_m * static_cast<double>((lo != i) + (hi != i));
+      const double u = lap.speed_mps[i] * lap.speed_mps[i];
+      const double diff =
+          (lap.speed_mps[hi] * lap.speed_mps[hi] - lap.speed_mps[lo] * lap.speed_mps[lo]) /
+          (2.0 * span);
+      const double k = std::abs(mesh.curvature_1pm[i]);
+      const bool straight = tables && k == 0.0 && level_in_still_air(road);
+      if (diff >= 0.0) {
+        const bool trims = env.trims(k) && mesh.trim_zone[i];
+        const Envelope::Rows rows = env.rows(trims);
+        return std::min(diff, axle_model
+                                  ? drive_accel<true>(env, rows, u, k, road, trims, 1.0, inv,
+                                                      &drive_hints, straight)
+                                  : drive_accel<false>(env, rows, u, k, road, trims, 1.0, inv));
+      }
+      const Envelope::Rows rows = env.rows(false);
+      return std::max(
+          diff, -(axle_model ? brake_accel<true>(env, rows, u, k, road, inv, &brake_hints, straight)
+                             : brake_accel<false>(env, rows, u, k, road, inv)));
+    };
+    RoadReader road_at(mesh);
+    for (std::size_t i = lo_point; i < hi_point; ++i) {
+      const double v = lap.speed_mps[i];
+      const Road road = road_at(i);
+      const double ax = point_accel(i, road);
+      lap.long_accel_mps2[i] = ax;
+      // Lateral acceleration in the road's plane, signed as the curvature: F_y / m (v^2 kappa on
+      // a flat road; less the weight's part down a bank).
+      const double k = std::abs(mesh.curvature_1pm[i]);
+      const bool trimmed = env.trims(k) && mesh.trim_zone[i] && under_drive(lap.phase[i]);
+      const Envelope::RoadForces f = env.road_forces(env.rows(trimmed), v * v, k, road);
+      lap.lat_accel_mps2[i] = (mesh.curvature_1pm[i] < 0.0 ? -1.0 : 1.0) * f.lateral_n / m;
+      // Under drive the gear the forward sweep engaged (held through a shift's cut; lap.gear holds
+      // it on entry); under braking the best gear for the speed.
+      const Powertrain& pt = car.powertrain;
+      const int gear = pt.ideal ? 0 : (lap.phase[i] == Phase::brake ? env.gear(v) : lap.gear[i]);
+      lap.gear[i] = gear;
+      lap.engine_radps[i] =
+          pt.ideal ? 0.0
+                   : std::clamp(v / car.tyres.rolling_radius_m *
+                                    pt.gears[static_cast<std::size_t>(gear - 1)] * pt.final_drive,
+                                pt.engine_radps.front(), pt.rev_limit_radps);
+      lap.trimmed[i] = trimmed;
+      lap.drag_n[i] = f.drag_n;
+      lap.downforce_n[i] = f.downforce_n;
+      // Axle loads and what each axle carries (axle.hpp): the tyre force along the path is what
+      // accelerates the car's mass m plus the resistance (the rotating parts' spin-up is torque
+      // inside the driveline, not road force).
+      const AxleLoads loads =
+          axle_loads(car, f.drag_n, f.downforce_n, f.balance, f.normal_share, road.sin_slope, ax);
+      lap.front_load_n[i] = loads.front_n;
+      lap.rear_load_n[i] = loads.rear_n;
+      // Front share of the aero load with the drag moment (axle.hpp; the coefficients' rho / 2
+      // cancels); NaN, written as an empty field, where there is no downforce to share.
+      lap.aero_balance_eff[i] =
+          aero_balance_with_drag_moment(f.lift_coef, f.drag_coef, f.balance, car.drag_height_m, wb)
+              .value_or(std::numeric_limits<double>::quiet_NaN());
+      const AxleUsage use = axle_usage(env, loads, m * ax + f.resistance_n, std::abs(f.lateral_n));
+      lap.front_usage[i] = use.front_usage;
+      lap.rear_usage[i] = use.rear_usage;
     }
-    const Envelope::Rows rows = env.rows(false);
-    return std::max(
-        diff, -(axle_model ? brake_accel<true>(env, rows, u, k, road, inv, &brake_hints, straight)
-                           : brake_accel<false>(env, rows, u, k, road, inv)));
   };
-  RoadReader road_at(mesh);
-  for (std::size_t i = 0; i < n; ++i) {
-    const double v = lap.speed_mps[i];
-    const Road road = road_at(i);
-    const double ax = point_accel(i, road);
-    lap.long_accel_mps2[i] = ax;
-    // Lateral acceleration in the road's plane, signed as the curvature: F_y / m (v^2 kappa on
-    // a flat road; less the weight's part down a bank).
-    const double k = std::abs(mesh.curvature_1pm[i]);
-    const bool trimmed = env.trims(k) && mesh.trim_zone[i] && under_drive(lap.phase[i]);
-    const Envelope::RoadForces f = env.road_forces(env.rows(trimmed), v * v, k, road);
-    lap.lat_accel_mps2[i] = (mesh.curvature_1pm[i] < 0.0 ? -1.0 : 1.0) * f.lateral_n / m;
-    // Under drive the gear the forward sweep engaged (held through a shift's cut; lap.gear holds
-    // it on entry); under braking the best gear for the speed.
-    const Powertrain& pt = car.powertrain;
-    const int gear = pt.ideal ? 0 : (lap.phase[i] == Phase::brake ? env.gear(v) : lap.gear[i]);
-    lap.gear[i] = gear;
-    lap.engine_radps[i] =
-        pt.ideal ? 0.0
-                 : std::clamp(v / car.tyres.rolling_radius_m *
-                                  pt.gears[static_cast<std::size_t>(gear - 1)] * pt.final_drive,
-                              pt.engine_radps.front(), pt.rev_limit_radps);
-    lap.trimmed[i] = trimmed;
-    lap.drag_n[i] = f.drag_n;
-    lap.downforce_n[i] = f.downforce_n;
-    // Axle loads and what each axle carries (axle.hpp): the tyre force along the path is what
-    // accelerates the car's mass m plus the resistance (the rotating parts' spin-up is torque
-    // inside the driveline, not road force).
-    const AxleLoads loads =
-        axle_loads(car, f.drag_n, f.downforce_n, f.balance, f.normal_share, road.sin_slope, ax);
-    lap.front_load_n[i] = loads.front_n;
-    lap.rear_load_n[i] = loads.rear_n;
-    // Front share of the aero load with the drag moment (axle.hpp; the coefficients' rho / 2
-    // cancels); NaN, written as an empty field, where there is no downforce to share.
-    lap.aero_balance_eff[i] =
-        aero_balance_with_drag_moment(f.lift_coef, f.drag_coef, f.balance, car.drag_height_m, wb)
-            .value_or(std::numeric_limits<double>::quiet_NaN());
-    const AxleUsage use = axle_usage(env, loads, m * ax + f.resistance_n, std::abs(f.lateral_n));
-    lap.front_usage[i] = use.front_usage;
-    lap.rear_usage[i] = use.rear_usage;
+  // Always the same two halves, whatever the threads (the hints start afresh at the second), so
+  // that the channels are the same bit for bit on one thread or two.
+  const std::size_t mid = n / 2;
+  if (threads_ >= 2 && n >= min_points_apart) {
+    std::exception_ptr error;
+    std::thread second([&] {
+      try {
+        points(mid, n);
+      } catch (...) {
+        error = std::current_exception();
+      }
+    });
+    try {
+      points(0, mid);
+    } catch (...) {
+      second.join();
+      throw;
+    }
+    second.join();
+    if (error) std::rethrow_exception(error);
+  } else {
+    points(0, mid);
+    points(mid, n);
   }
 }
 

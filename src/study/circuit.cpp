@@ -2,6 +2,7 @@
 
 #include <cstdio>
 #include <string>
+#include <thread>
 
 #include "lapwing/base/error.hpp"
 #include "lapwing/base/units.hpp"
@@ -70,11 +71,16 @@ LapRun run_lap(const ConfiguredCar& car, const Circuit& c) {
   Lap lap;
   {
     LapSolver solver;
+    solver.set_threads(lone_lap_threads());
     solve_speed_only(env, c, solver);
     lap = solver.take_with_channels(env, c.mesh);
   }
   LapSummary summary = summarize(lap, c.mesh, c.track, c.corners, env);
   return LapRun{std::move(lap), std::move(summary)};
+}
+
+unsigned lone_lap_threads() {
+  return std::thread::hardware_concurrency() >= 2 ? 2 : 1;
 }
 
 }  // namespace lapwing

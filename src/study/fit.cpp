@@ -313,6 +313,7 @@ FitResult fit(const ConfiguredCar& car, const std::vector<FitLog>& logs,
   auto aligned = [&](const ConfiguredCar& c, const std::vector<Alignment>* near) {
     std::vector<Alignment> al;
     LapSolver solver;
+    solver.set_threads(lone_lap_threads());
     for (std::size_t k = 0; k < logs.size(); ++k) {
       const Circuit& circuit = *logs[k].circuit;
       const Envelope env =

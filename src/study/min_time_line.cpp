@@ -48,6 +48,7 @@ MinTimeLine min_time_line(const Track& track, const Air& air, const ConfiguredCa
   Track t = track;
   t.line_path = line_profile(ref, line);
   LapSolver solver;
+  solver.set_threads(lone_lap_threads());
   const Envelope env(car, air);
   Circuit c = lay_out(t, air);
   const Lap* current = &solve_speed_only(env, c, solver);

@@ -5,13 +5,18 @@
 #include <doctest/doctest.h>
 
 #include <algorithm>
+#include <bit>
 #include <cmath>
+#include <cstdint>
 #include <stdexcept>
+#include <string>
+#include <type_traits>
 #include <utility>
 #include <vector>
 
 #include "lapwing/base/error.hpp"
 #include "lapwing/base/units.hpp"
+#include "lapwing/io/car_file.hpp"
 #include "lapwing/model/car.hpp"
 #include "lapwing/model/track.hpp"
 #include "lapwing/path/mesh.hpp"
@@ -521,4 +526,86 @@ TEST_CASE(
   REQUIRE(err[3] > 0.0);
   for (std::size_t k = 0; k + 1 < err.size(); ++k)
     CHECK(err[k] / err[k + 1] == doctest::Approx(4.0).epsilon(0.1));
+}
+
+namespace {
+// Every value of two laps' traces the same bit for bit (NaN where the other is NaN too).
+template <typename T>
+bool same_bits(const std::vector<T>& a, const std::vector<T>& b) {
+  if (a.size() != b.size()) return false;
+  for (std::size_t i = 0; i < a.size(); ++i) {
+    if constexpr (std::is_floating_point_v<T>) {
+      if (std::bit_cast<std::uint64_t>(static_cast<double>(a[i])) !=
+          std::bit_cast<std::uint64_t>(static_cast<double>(b[i])))
+        return false;
+    } else if (a[i] != b[i]) {
+      return false;
+    }
+  }
+  return true;
+}
+
+void check_same_lap(const Lap& a, const Lap& b) {
+  CHECK(std::bit_cast<std::uint64_t>(a.lap_time_s) == std::bit_cast<std::uint64_t>(b.lap_time_s));
+  CHECK(a.has_channels == b.has_channels);
+  for (auto channel :
+       {&Lap::speed_mps, &Lap::time_s, &Lap::long_accel_mps2, &Lap::lat_accel_mps2,
+        &Lap::engine_radps, &Lap::drag_n, &Lap::downforce_n, &Lap::front_load_n, &Lap::rear_load_n,
+        &Lap::aero_balance_eff, &Lap::front_usage, &Lap::rear_usage})
+    CHECK(same_bits(a.*channel, b.*channel));
+  CHECK(same_bits(a.gear, b.gear));
+  CHECK(same_bits(a.phase, b.phase));
+  CHECK(same_bits(a.trimmed, b.trimmed));
+}
+}  // namespace
+
+TEST_CASE("a lap on two threads is the lap on one, bit for bit, and fails the same way") {
+  // LapSolver::set_threads(2) runs the two sweeps side by side and the channels pass's two
+  // halves apart; the lap must not depend on it (STYLE: outputs byte-identical whatever the
+  // number of threads). Every bundled car, config and model on four tracks above the
+  // 2 000-point threshold, every trace compared bit for bit, with and without the channels.
+  for (const char* track : {"tracks/brannock-park.yaml", "tracks/brannock-park-survey.yaml",
+                            "tracks/cairnholt.yaml", "tracks/saltmere-flats.yaml"}) {
+    const Circuit c = test::bundled_circuit(track);
+    REQUIRE(c.mesh.size() >= 2000);
+    for (const char* file : {"cars/caldra-gt.yaml", "cars/pellion-fr2.yaml",
+                             "tests/data/caldra-gt-exponent-2.2.yaml"}) {
+      for (VehicleModel model : {VehicleModel::axle, VehicleModel::point_mass}) {
+        Car car = load_car(test::source_path(file));
+        car.model = model;
+        for (std::size_t k = 0; k < car.configs.size(); ++k) {
+          INFO(track << " " << file << " config " << k << " model " << static_cast<int>(model));
+          const Envelope env(car.configured(k), c.air);
+          LapSolver one, two;
+          two.set_threads(2);
+          check_same_lap(one.solve_speed(env, c.mesh, c.track.start_speed_mps),
+                         two.solve_speed(env, c.mesh, c.track.start_speed_mps));
+          check_same_lap(one.solve(env, c.mesh, c.track.start_speed_mps),
+                         two.solve(env, c.mesh, c.track.start_speed_mps));
+        }
+      }
+    }
+  }
+  // A grade the car cannot climb, on a mesh long enough for two threads: the same error.
+  Track t = test::straight_track(1500.0, 0.5, 0.0);
+  t.segments = {test::straight(1000.0), test::straight(500.0, 0.45)};
+  const Car car = test::constant_force_car(800.0, 2000.0, 1.5);
+  const Circuit c = lay_out(t, make_air(t.air));
+  REQUIRE(c.mesh.size() >= 2000);
+  const Envelope env(test::configured(car), c.air);
+  std::string one_error, two_error;
+  LapSolver one, two;
+  two.set_threads(2);
+  try {
+    one.solve(env, c.mesh);
+  } catch (const CannotMove& e) {
+    one_error = e.what();
+  }
+  try {
+    two.solve(env, c.mesh);
+  } catch (const CannotMove& e) {
+    two_error = e.what();
+  }
+  CHECK(!one_error.empty());
+  CHECK(one_error == two_error);
 }

@@ -143,6 +143,12 @@ class LapSolver {
   explicit LapSolver(Integrator integrator = default_integrator, bool quick_steps = true)
       : integrator_(integrator), quick_steps_(quick_steps) {}
   Integrator integrator() const { return integrator_; }
+  /// Threads one lap may use: 1 (the default: a solver in a pool of threads, one lap each) or 2
+  /// (more count as 2): then, on a mesh of 2 000 points or more, the two sweeps run side by side
+  /// and the channels pass's two halves too. The lap is the same bit for bit whatever the
+  /// number. For a lap solved alone (lapwing run, the racing line's laps).
+  void set_threads(unsigned threads) { threads_ = threads; }
+  unsigned threads() const { return threads_; }
   /// The speed solve: the steady limits, both sweeps, and the speed, phase and time traces
   /// (lap_time_s). No channel is filled (has_channels false): a study that needs lap times
   /// stops here. The result stays valid until the next solve.
@@ -176,6 +182,7 @@ class LapSolver {
   void channels_pass(const Envelope& env, const Mesh& mesh);
   Integrator integrator_;
   bool quick_steps_;
+  unsigned threads_ = 1;
   Lap lap_;
   SteadyProfile steady_;
   SweepResult forward_, backward_;

@@ -44,6 +44,10 @@ double lap_time(const ConfiguredCar& car, const Circuit& circuit, LapSolver& sol
 /// The speed profile and time alone of the car `env` tabulates, round `circuit` in `solver`
 /// (valid until its next solve); the start speed checked as run_lap does.
 const Lap& solve_speed_only(const Envelope& env, const Circuit& circuit, LapSolver& solver);
+/// The same in a solver of its own, on lone_lap_threads() threads.
 LapRun run_lap(const ConfiguredCar& car, const Circuit& circuit);
+/// Threads a lap solved alone, outside a pool of threads, may use (LapSolver::set_threads): 2
+/// where the machine has two cores or more, else 1. The lap is the same either way.
+unsigned lone_lap_threads();
 
 }  // namespace lapwing
