@@ -228,16 +228,69 @@ constexpr double extrapolated_width = 2e-4;
 
 }  // namespace
 
+namespace {
+
+// A lap on two threads (LapSolver::set_threads) puts its sweeps and its passes' halves apart on
+// meshes of at least this many points: a thread's start and join cost some 25 microseconds here
+// (measured), what a few hundred points of a sweep take.
+constexpr std::size_t min_points_apart = 2000;
+
+// A pass over points 0 to n-1 worked as two halves, [0, n/2) and [n/2, n), each from a fresh
+// start: `half(lo, hi)`. On `threads` >= 2 and a long enough mesh the second half runs on a
+// second thread. The halves are the same whatever the threads, so the pass's results are too;
+// where both halves throw, the first half's error is the one rethrown (the one a pass from
+// point 0 would meet first).
+template <typename Half>
+void in_halves(std::size_t n, unsigned threads, const Half& half) {
+  const std::size_t mid = n / 2;
+  if (threads < 2 || n < min_points_apart) {
+    half(std::size_t{0}, mid);
+    half(mid, n);
+    return;
+  }
+  std::exception_ptr second_error;
+  std::thread second([&] {
+    try {
+      half(mid, n);
+    } catch (...) {
+      second_error = std::current_exception();
+    }
+  });
+  try {
+    half(std::size_t{0}, mid);
+  } catch (...) {
+    second.join();
+    throw;
+  }
+  second.join();
+  if (second_error) std::rethrow_exception(second_error);
+}
+
+void steady_points(const Envelope& env, const Mesh& mesh, SteadyProfile& p, std::size_t lo,
+                   std::size_t hi);
+
+}  // namespace
+
 SteadyProfile steady_profile(const Envelope& env, const Mesh& mesh) {
   SteadyProfile p;
   steady_profile(env, mesh, p);
   return p;
 }
 
-void steady_profile(const Envelope& env, const Mesh& mesh, SteadyProfile& p) {
+void steady_profile(const Envelope& env, const Mesh& mesh, SteadyProfile& p, unsigned threads) {
   const std::size_t n = mesh.size();
   p.speed_mps.resize(n);
   p.limit.resize(n);
+  in_halves(n, threads,
+            [&](std::size_t lo, std::size_t hi) { steady_points(env, mesh, p, lo, hi); });
+}
+
+namespace {
+
+// The steady limits of points lo to hi (not included), each half of the mesh from a fresh start
+// (no answer carried in from the point before lo).
+void steady_points(const Envelope& env, const Mesh& mesh, SteadyProfile& p, std::size_t lo,
+                   std::size_t hi) {
   const double v_max = env.max_speed_mps();
   const TyreModel& tyres = env.tyres();
   const bool axle = env.car().model == VehicleModel::axle;
@@ -249,11 +302,11 @@ void steady_profile(const Envelope& env, const Mesh& mesh, SteadyProfile& p) {
   double prev_curv = 0.0, prev_grip = 0.0;  // the point before the last whose grip was solved
   bool have_two = false;
   RoadReader road_at(mesh);
-  for (std::size_t i = 0; i < n; ++i) {
+  for (std::size_t i = lo; i < hi; ++i) {
     // A point in the same state as the one before it (the same signed curvature, road and trim
     // zone: most points of a straight or an arc) has the same limit; the loop below would find
     // nothing changed there.
-    if (i > 0 && mesh.curvature_1pm[i] == mesh.curvature_1pm[i - 1] &&
+    if (i > lo && mesh.curvature_1pm[i] == mesh.curvature_1pm[i - 1] &&
         mesh.grade[i] == mesh.grade[i - 1] && mesh.bank_at(i) == mesh.bank_at(i - 1) &&
         mesh.head_wind_at(i) == mesh.head_wind_at(i - 1) &&
         mesh.trim_zone[i] == mesh.trim_zone[i - 1]) {
@@ -329,8 +382,6 @@ void steady_profile(const Envelope& env, const Mesh& mesh, SteadyProfile& p) {
                        ")");
   }
 }
-
-namespace {
 
 // The exponential step's secant (exponential_step, below): its relative floor and its reach.
 constexpr double slope_spread = 1e-5;
@@ -898,11 +949,6 @@ struct FreeLane {
 // would pay more than it gains.
 constexpr std::size_t min_straight_steps = 2000;
 
-// A lap on two threads (LapSolver::set_threads) puts its sweeps and channels apart on meshes of
-// at least this many points: a thread's start and join cost some 30-60 microseconds here
-// (README, "Performance"), what a few hundred points of a sweep take.
-constexpr std::size_t min_points_apart = 2000;
-
 }  // namespace
 
 double free_straight_step(const Envelope& env, double u0, double h, Sweep direction, bool trimmed) {
@@ -1016,7 +1062,7 @@ void LapSolver::speed_pass(const Envelope& env, const Mesh& mesh, double start_s
   assert(n >= 3);
   Lap& lap = lap_;
   lap.has_channels = false;  // none of this lap yet (also if the solve throws)
-  steady_profile(env, mesh, steady_);
+  steady_profile(env, mesh, steady_, threads_);
   const auto& steady = steady_.speed_mps;
   SweepResult& fwd = forward_;
   SweepResult& bwd = backward_;
@@ -1210,28 +1256,7 @@ void LapSolver::channels_pass(const Envelope& env, const Mesh& mesh) {
   };
   // Always the same two halves, whatever the threads (the hints start afresh at the second), so
   // that the channels are the same bit for bit on one thread or two.
-  const std::size_t mid = n / 2;
-  if (threads_ >= 2 && n >= min_points_apart) {
-    std::exception_ptr error;
-    std::thread second([&] {
-      try {
-        points(mid, n);
-      } catch (...) {
-        error = std::current_exception();
-      }
-    });
-    try {
-      points(0, mid);
-    } catch (...) {
-      second.join();
-      throw;
-    }
-    second.join();
-    if (error) std::rethrow_exception(error);
-  } else {
-    points(0, mid);
-    points(mid, n);
-  }
+  in_halves(n, threads_, points);
 }
 
 Lap LapSolver::take() {

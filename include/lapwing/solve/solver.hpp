@@ -56,8 +56,11 @@ struct SteadyProfile {
 /// resistance and grade (friction ellipse), and at which the engine can supply that force
 /// (toms748 bracketing root finder, Boost.Math).
 SteadyProfile steady_profile(const Envelope& env, const Mesh& mesh);
-/// The same, into `out` (its storage reused).
-void steady_profile(const Envelope& env, const Mesh& mesh, SteadyProfile& out);
+/// The same, into `out` (its storage reused). The mesh's two halves are each solved from a fresh
+/// start (the root searches' guesses are not carried across the middle), on two threads where
+/// `threads` >= 2 and the mesh has 2 000 points or more: the same limits whatever the threads.
+void steady_profile(const Envelope& env, const Mesh& mesh, SteadyProfile& out,
+                    unsigned threads = 1);
 
 /// How a sweep steps u = v^2 from one mesh point to the next (d(v^2)/ds = 2 a(v^2, kappa(s))).
 ///  - rk4: classical fourth-order Runge-Kutta, four evaluations of the acceleration per step; a
@@ -144,9 +147,9 @@ class LapSolver {
       : integrator_(integrator), quick_steps_(quick_steps) {}
   Integrator integrator() const { return integrator_; }
   /// Threads one lap may use: 1 (the default: a solver in a pool of threads, one lap each) or 2
-  /// (more count as 2): then, on a mesh of 2 000 points or more, the two sweeps run side by side
-  /// and the channels pass's two halves too. The lap is the same bit for bit whatever the
-  /// number. For a lap solved alone (lapwing run, the racing line's laps).
+  /// (more count as 2): then, on a mesh of 2 000 points or more, the two sweeps run side by side,
+  /// and the two halves of the steady limits and of the channels pass too. The lap is the same bit
+  /// for bit whatever the number. For a lap solved alone (lapwing run, the racing line's laps).
   void set_threads(unsigned threads) { threads_ = threads; }
   unsigned threads() const { return threads_; }
   /// The speed solve: the steady limits, both sweeps, and the speed, phase and time traces
