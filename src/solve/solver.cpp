@@ -6,9 +6,12 @@
 #include <array>
 #include <cassert>
 #include <cmath>
+#include <condition_variable>
 #include <exception>
+#include <functional>
 #include <limits>
 #include <memory>
+#include <mutex>
 #include <sstream>
 #include <stdexcept>
 #include <thread>
@@ -228,6 +231,75 @@ constexpr double extrapolated_width = 2e-4;
 
 }  // namespace
 
+// The second thread of a lap on two: one job at a time, started by start() and waited for by
+// wait(), which rethrows what the job threw. Lives as long as its LapSolver, so that a lap does
+// not pay a thread's start (some 25 microseconds here, measured) for each of its passes.
+class SecondThread {
+ public:
+  SecondThread() : thread_([this] { loop(); }) {}
+  ~SecondThread() {
+    {
+      const std::lock_guard<std::mutex> lock(mutex_);
+      stop_ = true;
+    }
+    wake_.notify_all();
+    thread_.join();
+  }
+  SecondThread(const SecondThread&) = delete;
+  SecondThread& operator=(const SecondThread&) = delete;
+
+  /// Runs `job` on the thread; wait() for it before the next.
+  void start(std::function<void()> job) {
+    {
+      const std::lock_guard<std::mutex> lock(mutex_);
+      job_ = std::move(job);
+      busy_ = true;
+      error_ = nullptr;
+    }
+    wake_.notify_all();
+  }
+  /// Waits for the job; rethrows what it threw.
+  void wait() {
+    std::unique_lock<std::mutex> lock(mutex_);
+    wake_.wait(lock, [this] { return !busy_; });
+    if (error_) std::rethrow_exception(std::exchange(error_, nullptr));
+  }
+  /// Waits for the job, dropping what it threw (the caller has an error of its own to report).
+  void wait_quietly() {
+    std::unique_lock<std::mutex> lock(mutex_);
+    wake_.wait(lock, [this] { return !busy_; });
+    error_ = nullptr;
+  }
+
+ private:
+  void loop() {
+    std::unique_lock<std::mutex> lock(mutex_);
+    for (;;) {
+      wake_.wait(lock, [this] { return stop_ || job_ != nullptr; });
+      if (stop_) return;
+      std::function<void()> job = std::move(job_);
+      job_ = nullptr;
+      lock.unlock();
+      std::exception_ptr error;
+      try {
+        job();
+      } catch (...) {
+        error = std::current_exception();
+      }
+      lock.lock();
+      error_ = error;
+      busy_ = false;
+      wake_.notify_all();
+    }
+  }
+  std::mutex mutex_;
+  std::condition_variable wake_;
+  std::function<void()> job_;
+  bool busy_ = false, stop_ = false;
+  std::exception_ptr error_;
+  std::thread thread_;  // last: it starts once the rest is built
+};
+
 namespace {
 
 // A lap on two threads (LapSolver::set_threads) puts its sweeps and its passes' halves apart on
@@ -236,36 +308,28 @@ namespace {
 constexpr std::size_t min_points_apart = 2000;
 
 // A pass over points 0 to n-1 worked as two halves, [0, n/2) and [n/2, n), each from a fresh
-// start: `half(lo, hi)`. On `threads` >= 2 and a long enough mesh the second half runs on a
-// second thread. The halves are the same whatever the threads, so the pass's results are too;
-// where both halves throw, the first half's error is the one rethrown (the one a pass from
-// point 0 would meet first).
+// start: `half(lo, hi)`. With a second thread the second half runs there. The halves are the
+// same either way, so the pass's results are too; where both halves throw, the first half's
+// error is the one rethrown (the one a pass from point 0 would meet first).
 template <typename Half>
-void in_halves(std::size_t n, unsigned threads, const Half& half) {
+void in_halves(std::size_t n, SecondThread* second, const Half& half) {
   const std::size_t mid = n / 2;
-  if (threads < 2 || n < min_points_apart) {
+  if (!second) {
     half(std::size_t{0}, mid);
     half(mid, n);
     return;
   }
-  std::exception_ptr second_error;
-  std::thread second([&] {
-    try {
-      half(mid, n);
-    } catch (...) {
-      second_error = std::current_exception();
-    }
-  });
+  second->start([&] { half(mid, n); });
   try {
     half(std::size_t{0}, mid);
   } catch (...) {
-    second.join();
+    second->wait_quietly();
     throw;
   }
-  second.join();
-  if (second_error) std::rethrow_exception(second_error);
+  second->wait();
 }
 
+void steady_halves(const Envelope& env, const Mesh& mesh, SteadyProfile& p, SecondThread* second);
 void steady_points(const Envelope& env, const Mesh& mesh, SteadyProfile& p, std::size_t lo,
                    std::size_t hi);
 
@@ -277,15 +341,19 @@ SteadyProfile steady_profile(const Envelope& env, const Mesh& mesh) {
   return p;
 }
 
-void steady_profile(const Envelope& env, const Mesh& mesh, SteadyProfile& p, unsigned threads) {
-  const std::size_t n = mesh.size();
-  p.speed_mps.resize(n);
-  p.limit.resize(n);
-  in_halves(n, threads,
-            [&](std::size_t lo, std::size_t hi) { steady_points(env, mesh, p, lo, hi); });
+void steady_profile(const Envelope& env, const Mesh& mesh, SteadyProfile& p) {
+  steady_halves(env, mesh, p, nullptr);
 }
 
 namespace {
+
+void steady_halves(const Envelope& env, const Mesh& mesh, SteadyProfile& p, SecondThread* second) {
+  const std::size_t n = mesh.size();
+  p.speed_mps.resize(n);
+  p.limit.resize(n);
+  in_halves(n, second,
+            [&](std::size_t lo, std::size_t hi) { steady_points(env, mesh, p, lo, hi); });
+}
 
 // The steady limits of points lo to hi (not included), each half of the mesh from a fresh start
 // (no answer carried in from the point before lo).
@@ -896,7 +964,7 @@ void sweep_both(const Envelope& env, const Mesh& mesh, const std::vector<double>
   b.finish();
 }
 
-// Both sweeps side by side: the backward sweep on a second thread, the forward on this one.
+// Both sweeps side by side: the backward sweep on the second thread, the forward on this one.
 // Each lane takes the steps it takes in sweep_both's lockstep (the lanes share nothing but the
 // Envelope, the mesh, the limits and the step tables, all read only), so the results are the
 // same bit for bit. Where a sweep cannot go on (end_step throws), the lockstep would have met
@@ -905,10 +973,10 @@ void sweep_both(const Envelope& env, const Mesh& mesh, const std::vector<double>
 template <bool Axle, Integrator I>
 void sweep_apart(const Envelope& env, const Mesh& mesh, const std::vector<double>& limit,
                  std::size_t f0, double vf, std::size_t b0, double vb, SweepResult& fwd,
-                 SweepResult& bwd, const StepTables* steps, bool quick) {
+                 SweepResult& bwd, const StepTables* steps, bool quick, SecondThread& second) {
   std::exception_ptr f_error, b_error;
   std::ptrdiff_t f_at = 0, b_at = 0;
-  std::thread backward([&] {
+  second.start([&] {
     try {
       sweep_into<Axle, I>(env, mesh, Sweep::backward, limit, b0, vb, bwd, steps, quick, b_at);
     } catch (...) {
@@ -920,7 +988,7 @@ void sweep_apart(const Envelope& env, const Mesh& mesh, const std::vector<double
   } catch (...) {
     f_error = std::current_exception();
   }
-  backward.join();
+  second.wait();
   if (f_error && (!b_error || f_at <= b_at)) std::rethrow_exception(f_error);
   if (b_error) std::rethrow_exception(b_error);
 }
@@ -1031,6 +1099,18 @@ SweepResult sweep(const Envelope& env, const Mesh& mesh, Sweep direction,
   });
 }
 
+LapSolver::LapSolver(Integrator integrator, bool quick_steps)
+    : integrator_(integrator), quick_steps_(quick_steps) {}
+LapSolver::~LapSolver() = default;
+LapSolver::LapSolver(LapSolver&&) noexcept = default;
+LapSolver& LapSolver::operator=(LapSolver&&) noexcept = default;
+
+SecondThread* LapSolver::second_thread(std::size_t points) {
+  if (threads_ < 2 || points < min_points_apart) return nullptr;
+  if (!second_) second_ = std::make_unique<SecondThread>();
+  return second_.get();
+}
+
 Lap solve_lap(const Envelope& env, const Mesh& mesh, double start_speed_mps,
               Integrator integrator) {
   return LapSolver(integrator).solve_once(env, mesh, start_speed_mps);
@@ -1062,19 +1142,19 @@ void LapSolver::speed_pass(const Envelope& env, const Mesh& mesh, double start_s
   assert(n >= 3);
   Lap& lap = lap_;
   lap.has_channels = false;  // none of this lap yet (also if the solve throws)
-  steady_profile(env, mesh, steady_, threads_);
+  SecondThread* const second = second_thread(n);
+  steady_halves(env, mesh, steady_, second);
   const auto& steady = steady_.speed_mps;
   SweepResult& fwd = forward_;
   SweepResult& bwd = backward_;
 
   const std::shared_ptr<const StepTables> tables =
       step_tables_for(env, mesh, integrator_, quick_steps_);
-  const bool apart = threads_ >= 2 && n >= min_points_apart;
   auto both = [&](std::size_t f0, double vf, std::size_t b0, double vb) {
     dispatch(env, integrator_, [&]<bool Axle, Integrator I>() {
-      if (apart)
+      if (second)
         sweep_apart<Axle, I>(env, mesh, steady, f0, vf, b0, vb, fwd, bwd, tables.get(),
-                             quick_steps_);
+                             quick_steps_, *second);
       else
         sweep_both<Axle, I>(env, mesh, steady, f0, vf, b0, vb, fwd, bwd, tables.get(),
                             quick_steps_);
@@ -1256,7 +1336,7 @@ void LapSolver::channels_pass(const Envelope& env, const Mesh& mesh) {
   };
   // Always the same two halves, whatever the threads (the hints start afresh at the second), so
   // that the channels are the same bit for bit on one thread or two.
-  in_halves(n, threads_, points);
+  in_halves(n, second_thread(n), points);
 }
 
 Lap LapSolver::take() {

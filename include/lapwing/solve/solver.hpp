@@ -5,6 +5,7 @@
 #pragma once
 
 #include <cstdint>
+#include <memory>
 #include <string_view>
 #include <vector>
 
@@ -57,10 +58,9 @@ struct SteadyProfile {
 /// (toms748 bracketing root finder, Boost.Math).
 SteadyProfile steady_profile(const Envelope& env, const Mesh& mesh);
 /// The same, into `out` (its storage reused). The mesh's two halves are each solved from a fresh
-/// start (the root searches' guesses are not carried across the middle), on two threads where
-/// `threads` >= 2 and the mesh has 2 000 points or more: the same limits whatever the threads.
-void steady_profile(const Envelope& env, const Mesh& mesh, SteadyProfile& out,
-                    unsigned threads = 1);
+/// start (the root searches' guesses are not carried across the middle), as a lap on two
+/// threads solves them (LapSolver::set_threads): the same limits.
+void steady_profile(const Envelope& env, const Mesh& mesh, SteadyProfile& out);
 
 /// How a sweep steps u = v^2 from one mesh point to the next (d(v^2)/ds = 2 a(v^2, kappa(s))).
 ///  - rk4: classical fourth-order Runge-Kutta, four evaluations of the acceleration per step; a
@@ -134,6 +134,9 @@ inline double front_share(const Lap& lap, std::size_t i) {
 Lap solve_lap(const Envelope& env, const Mesh& mesh, double start_speed_mps = 0.0,
               Integrator integrator = default_integrator);
 
+/// A thread that runs one job at a time for a lap on two threads (solver.cpp).
+class SecondThread;
+
 /// Solves laps one after another, reusing its buffers (the lap, both sweeps), so that a study
 /// of many laps allocates once. The working state of a lap, kept apart from the Envelope and
 /// the Mesh it reads. One per thread.
@@ -143,13 +146,16 @@ class LapSolver {
   /// steps without it where its answer is known (`quick_steps`): straight steps from the step
   /// tables (StepTables) where a mesh has enough of them, and backward steps held on their
   /// limit. `quick_steps` false takes every step (a check of the quick ones).
-  explicit LapSolver(Integrator integrator = default_integrator, bool quick_steps = true)
-      : integrator_(integrator), quick_steps_(quick_steps) {}
+  explicit LapSolver(Integrator integrator = default_integrator, bool quick_steps = true);
+  ~LapSolver();
+  LapSolver(LapSolver&&) noexcept;
+  LapSolver& operator=(LapSolver&&) noexcept;
   Integrator integrator() const { return integrator_; }
   /// Threads one lap may use: 1 (the default: a solver in a pool of threads, one lap each) or 2
   /// (more count as 2): then, on a mesh of 2 000 points or more, the two sweeps run side by side,
   /// and the two halves of the steady limits and of the channels pass too. The lap is the same bit
   /// for bit whatever the number. For a lap solved alone (lapwing run, the racing line's laps).
+  /// The second thread starts with the first lap that uses it and lives as long as the solver.
   void set_threads(unsigned threads) { threads_ = threads; }
   unsigned threads() const { return threads_; }
   /// The speed solve: the steady limits, both sweeps, and the speed, phase and time traces
@@ -183,9 +189,12 @@ class LapSolver {
   void speed_pass(const Envelope& env, const Mesh& mesh, double start_speed_mps);
   /// The channels pass over the last speed solve, lap_.gear holding the forward sweep's gears.
   void channels_pass(const Envelope& env, const Mesh& mesh);
+  /// The second thread of a lap on two, started on first use (nullptr: none yet, or one thread).
+  SecondThread* second_thread(std::size_t points);
   Integrator integrator_;
   bool quick_steps_;
   unsigned threads_ = 1;
+  std::unique_ptr<SecondThread> second_;
   Lap lap_;
   SteadyProfile steady_;
   SweepResult forward_, backward_;
