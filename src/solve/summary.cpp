@@ -21,6 +21,13 @@ std::string kph_text(double v) {
 // limit hold the speed exactly at the top there, round-off aside.
 constexpr double at_top_rel = 1e-12;
 constexpr double apex_tie = 5e-4;  // relative: 0.05 km/h at 100 km/h
+// Speeds within this share of a corner's lowest are one plateau: an arc taken on its steady
+// limit holds the same speed from point to point, and where that limit is worked again (the
+// two halves of the steady limits start afresh, LapSolver) it can come out an ulp or two apart.
+// The apex is the plateau's first point, whichever of its points rounding makes the lowest. Far
+// above rounding (1e-16) and the root searches' tolerance (2^-36, 1.5e-11), far below anything
+// a table shows (1e-9 of 100 km/h is 1e-7 km/h).
+constexpr double apex_plateau = 1e-9;
 }  // namespace
 
 std::vector<RangeNote> range_notes(const Envelope& env) {
@@ -255,9 +262,10 @@ LapSummary summarize(const Lap& lap, const Mesh& mesh, const Track& track,
     CornerResult r;
     r.id = c.id;
     r.direction = c.direction;
+    double lowest = lap.speed_mps[c.start];
+    for (std::size_t i = c.start; i <= c.end; ++i) lowest = std::min(lowest, lap.speed_mps[i]);
     std::size_t apex = c.start;
-    for (std::size_t i = c.start; i <= c.end; ++i)
-      if (lap.speed_mps[i] < lap.speed_mps[apex]) apex = i;
+    while (lap.speed_mps[apex] > lowest * (1.0 + apex_plateau)) ++apex;
     r.start_m = mesh.s_m[c.start];
     r.apex_m = mesh.s_m[apex];
     r.end_m = mesh.s_m[c.end];

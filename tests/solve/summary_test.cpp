@@ -268,3 +268,34 @@ TEST_CASE(
   CHECK(n.time_s == 0.0);
   CHECK(n.pass);
 }
+
+TEST_CASE("an arc held on its limit has its apex where the plateau starts, whatever its rounding") {
+  // The speeds of an arc taken on its steady limit are one plateau; the ulp or two by which a
+  // limit worked again can differ (the steady limits' two halves, LapSolver) must not move the
+  // apex along the arc (the apex's axle reading moves with it). A real dip, 1e-6 of the speed
+  // (0.1 mm/s at 100 km/h: beyond rounding and the root searches' 1.5e-11), still does.
+  const Car car = load_car(test::source_path("cars/caldra-gt.yaml")).configured(1).car();
+  const Track track = load_track(test::source_path("tracks/brannock-park.yaml"));
+  const Envelope env(test::configured(car), make_air(track.air));
+  const Mesh mesh = build_mesh(track, track.mesh_m);
+  const Lap lap = solve_lap(env, mesh);
+  const auto spans = find_corners(mesh);
+  const LapSummary s = summarize(lap, mesh, track, spans, env);
+  int plateaus = 0;
+  for (std::size_t k = 0; k < spans.size(); ++k) {
+    const CornerSpan& c = spans[k];
+    const auto apex = static_cast<std::size_t>(std::lround(s.corners[k].apex_m / mesh.step_m));
+    // The plateau's points after the apex: the same speed as the apex's, to the bit.
+    std::size_t last = apex;
+    while (last + 1 <= c.end && lap.speed_mps[last + 1] == lap.speed_mps[apex]) ++last;
+    if (last < apex + 10) continue;  // not an arc held on its limit
+    ++plateaus;
+    const std::size_t later = (apex + last) / 2;
+    Lap moved = lap;
+    moved.speed_mps[later] = std::nextafter(moved.speed_mps[later], 0.0);
+    CHECK(summarize(moved, mesh, track, spans, env).corners[k].apex_m == s.corners[k].apex_m);
+    moved.speed_mps[later] = lap.speed_mps[later] * (1.0 - 1e-6);
+    CHECK(summarize(moved, mesh, track, spans, env).corners[k].apex_m == mesh.s_m[later]);
+  }
+  CHECK(plateaus >= 3);
+}
