@@ -134,3 +134,28 @@ TEST_CASE(
     }
   }
 }
+
+TEST_CASE("a mesh laid out on two threads is the mesh on one, bit for bit") {
+  // build_mesh lays a track of segments out in two halves of its points, each walked from its
+  // segments' starts; on two threads or one the halves are the same (STYLE: outputs the same
+  // whatever the number of threads). Cairnholt has grades and banks; at 0.1 m both are long
+  // enough for the automatic choice to take two threads on a two-core machine.
+  for (const char* file : {"tracks/brannock-park.yaml", "tracks/cairnholt.yaml"}) {
+    const Track track = load_track(test::source_path(file));
+    const Mesh one = build_mesh(track, 0.1, 1), two = build_mesh(track, 0.1, 2),
+               automatic = build_mesh(track, 0.1);
+    REQUIRE(one.size() >= 20000);
+    for (const Mesh* m : {&two, &automatic}) {
+      CHECK(m->s_m == one.s_m);
+      CHECK(m->x_m == one.x_m);
+      CHECK(m->y_m == one.y_m);
+      CHECK(m->heading_rad == one.heading_rad);
+      CHECK(m->curvature_1pm == one.curvature_1pm);
+      CHECK(m->elevation_m == one.elevation_m);
+      CHECK(m->grade == one.grade);
+      CHECK(m->bank_rad == one.bank_rad);
+      CHECK(m->trim_zone == one.trim_zone);
+      CHECK(m->width_left_m == one.width_left_m);
+    }
+  }
+}

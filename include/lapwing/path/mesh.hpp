@@ -81,7 +81,10 @@ std::vector<double> lapped_sectors_m(const Track& track);
 /// For a closed track, a heading gap over 2 deg is an InvalidInput too, and so is a position gap
 /// over closure_position_tolerance_m(track). The error names the track's path key (`segments`,
 /// `centerline` or `curvature`); a centerline's, its last data point ("centerline.points[i]").
-Mesh build_mesh(const Track& track, double step_m);
+/// A track of segments is laid out in two halves of its points, on two threads where the mesh
+/// has 20 000 points or more and the machine two cores (`threads` 0), or as `threads` says (1
+/// or 2): the mesh is the same bit for bit either way.
+Mesh build_mesh(const Track& track, double step_m, unsigned threads = 0);
 
 /// The number of points build_mesh lays `track` out on at `step_m`: n + 1 for n = the nearest
 /// whole number of steps in the length (at least 2). Known before the mesh is built, so that a
