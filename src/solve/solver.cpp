@@ -1224,6 +1224,13 @@ Lap LapSolver::take_with_channels(const Envelope& env, const Mesh& mesh) {
   // The channels pass reads the forward sweep's gears alone: the lap takes them, and the rest
   // of the solver's state goes before the channels are made (README, "Memory").
   lap_.gear = std::move(forward_.gear);
+  // Three channels take the storage of the sweeps' and the steady limits' speeds, already
+  // touched: the first touch of a page costs more than the channels pass's writes to it
+  // (README, "A lone lap on two threads"). The channels pass overwrites every value.
+  for (auto [to, from] : {std::pair{&lap_.long_accel_mps2, &forward_.speed_mps},
+                          std::pair{&lap_.lat_accel_mps2, &backward_.speed_mps},
+                          std::pair{&lap_.engine_radps, &steady_.speed_mps}})
+    if (to->capacity() < mesh.size()) *to = std::move(*from);
   forward_ = {};
   backward_ = {};
   steady_ = {};
