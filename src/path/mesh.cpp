@@ -7,6 +7,7 @@
 #include <limits>
 #include <sstream>
 #include <string>
+#include <system_error>
 #include <thread>
 #include <vector>
 
@@ -381,9 +382,16 @@ Mesh build_mesh(const Track& track, double step_m, unsigned threads) {
     const std::size_t mid = (n + 1) / 2;
     if (threads == 0)
       threads = n + 1 >= points_apart && std::thread::hardware_concurrency() >= 2 ? 2 : 1;
+    std::thread second;
     if (threads >= 2) {
-      std::thread second([&] { points(mid, n + 1); });  // nothing in it throws
-      points(0, mid);
+      try {
+        second = std::thread([&] { points(mid, n + 1); });  // nothing in it throws
+      } catch (const std::system_error&) {
+        // No thread to be had: both halves here, the same mesh.
+      }
+    }
+    if (second.joinable()) {
+      points(0, mid);  // nothing here throws either: the join below always runs
       second.join();
     } else {
       points(0, mid);

@@ -14,6 +14,7 @@
 #include <mutex>
 #include <sstream>
 #include <stdexcept>
+#include <system_error>
 #include <thread>
 #include <tuple>
 #include <utility>
@@ -1107,7 +1108,15 @@ LapSolver& LapSolver::operator=(LapSolver&&) noexcept = default;
 
 SecondThread* LapSolver::second_thread(std::size_t points) {
   if (threads_ < 2 || points < min_points_apart) return nullptr;
-  if (!second_) second_ = std::make_unique<SecondThread>();
+  if (!second_) {
+    try {
+      second_ = std::make_unique<SecondThread>();
+    } catch (const std::system_error&) {
+      // No thread to be had (a process at its limit): the lap on one, the same lap.
+      threads_ = 1;
+      return nullptr;
+    }
+  }
   return second_.get();
 }
 

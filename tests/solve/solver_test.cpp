@@ -609,3 +609,85 @@ TEST_CASE("a lap on two threads is the lap on one, bit for bit, and fails the sa
   CHECK(!one_error.empty());
   CHECK(one_error == two_error);
 }
+
+TEST_CASE("where both sweeps or both halves stop, two threads report the error one thread does") {
+  // On one thread the sweeps advance in lockstep and stop at the first step that throws (the
+  // forward sweep's first at the same step); on two each runs to its own end and the lower step
+  // must win. Uphill from a standstill the forward sweep stops in a long shift cut; the
+  // backward sweep stops coming down a steep descent out of the final arc. The grade up and
+  // the arc's angle move the two stops past each other: forward first, backward first, and at
+  // the same step (0.2745 and 0.275 rad). Scenarios from a second reader's review, built here
+  // from the test car; invented data.
+  int forward_first = 0, backward_first = 0;
+  for (double up : {0.25, 0.2745, 0.285}) {
+    for (double angle : {0.25, 0.275, 0.3}) {
+      Track t = test::straight_track(1500.0, 0.5, 0.0);
+      t.segments = {test::straight(200.0, up), test::straight(300.0), test::straight(600.0, -0.5),
+                    test::arc(20.0, angle, true)};
+      Car car = test::constant_force_car(800.0, 4000.0, 0.3);
+      car.configs[0].cla_m2 = {5.0};
+      car.powertrain.engine_radps = {1000 * units::rpm, 6000 * units::rpm};
+      car.powertrain.rev_limit_radps = 6000 * units::rpm;
+      car.powertrain.gears = {20.0, 1.0};
+      car.powertrain.shift_time_s = 2.0;
+      const Circuit c = lay_out(t, make_air(t.air));
+      REQUIRE(c.mesh.size() >= 2000);
+      const Envelope env(test::configured(car), c.air);
+      const SteadyProfile steady = steady_profile(env, c.mesh);
+      const std::size_t n = c.mesh.size();
+      auto error_of = [](const auto& run) -> std::string {
+        try {
+          run();
+        } catch (const CannotMove& e) {
+          return e.what();
+        }
+        return "";
+      };
+      // Each sweep alone stops.
+      const std::string forward =
+          error_of([&] { sweep(env, c.mesh, Sweep::forward, steady.speed_mps, 0, 0.0); });
+      const std::string backward = error_of([&] {
+        sweep(env, c.mesh, Sweep::backward, steady.speed_mps, n - 1, steady.speed_mps[n - 1]);
+      });
+      INFO("up " << up << " angle " << angle);
+      REQUIRE(!forward.empty());
+      REQUIRE(!backward.empty());
+      REQUIRE(forward != backward);
+      LapSolver one, two;
+      two.set_threads(2);
+      const std::string a = error_of([&] { one.solve(env, c.mesh); }),
+                        b = error_of([&] { two.solve(env, c.mesh); });
+      CHECK(a == b);
+      forward_first += a == forward;
+      backward_first += a == backward;
+    }
+  }
+  // Both orders occur among the cases.
+  CHECK(forward_first > 0);
+  CHECK(backward_first > 0);
+  CHECK(forward_first + backward_first == 9);
+
+  // Both halves of the steady limits stop (a grade the car cannot hold in each): the first
+  // half's error, as a pass from the first point meets it.
+  Track t = test::straight_track(1500.0, 0.5, 0.0);
+  t.segments = {test::straight(300.0), test::straight(100.0, 0.45), test::straight(700.0),
+                test::straight(400.0, 0.45)};
+  const Car car = test::constant_force_car(800.0, 2000.0, 1.5);
+  const Circuit c = lay_out(t, make_air(t.air));
+  const Envelope env(test::configured(car), c.air);
+  LapSolver one, two;
+  two.set_threads(2);
+  std::string a, b;
+  try {
+    one.solve(env, c.mesh);
+  } catch (const CannotMove& e) {
+    a = e.what();
+  }
+  try {
+    two.solve(env, c.mesh);
+  } catch (const CannotMove& e) {
+    b = e.what();
+  }
+  CHECK(a.find("at 300") != std::string::npos);
+  CHECK(a == b);
+}
