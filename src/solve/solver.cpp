@@ -1150,7 +1150,7 @@ void LapSolver::speed_pass(const Envelope& env, const Mesh& mesh, double start_s
   const std::size_t n = mesh.size();
   assert(n >= 3);
   Lap& lap = lap_;
-  lap.has_channels = false;  // none of this lap yet (also if the solve throws)
+  lap.has_channels = lap.has_loads = false;  // none of this lap yet (also if the solve throws)
   SecondThread* const second = second_thread(n);
   steady_halves(env, mesh, steady_, second);
   const auto& steady = steady_.speed_mps;
@@ -1210,15 +1210,15 @@ void LapSolver::speed_pass(const Envelope& env, const Mesh& mesh, double start_s
   lap.lap_time_s = lap.time_s[n - 1];
 }
 
-const Lap& LapSolver::add_channels(const Envelope& env, const Mesh& mesh) {
+const Lap& LapSolver::add_channels(const Envelope& env, const Mesh& mesh, ChannelSet set) {
   const std::size_t n = mesh.size();
   Lap& lap = lap_;
   if (lap.speed_mps.size() != n || forward_.gear.size() != n)
     throw std::logic_error("LapSolver::add_channels: no speed solve on this mesh");
-  if (lap.has_channels) return lap;
+  if (lap.has_channels || (set == ChannelSet::loads && lap.has_loads)) return lap;
   // A copy: the forward sweep keeps its buffer for the next lap.
   lap.gear.assign(forward_.gear.begin(), forward_.gear.end());
-  channels_pass(env, mesh);
+  channels_pass(env, mesh, set);
   return lap;
 }
 
@@ -1247,23 +1247,26 @@ Lap LapSolver::take_with_channels(const Envelope& env, const Mesh& mesh) {
   return take();
 }
 
-void LapSolver::channels_pass(const Envelope& env, const Mesh& mesh) {
+void LapSolver::channels_pass(const Envelope& env, const Mesh& mesh, ChannelSet set) {
   const std::size_t n = mesh.size();
   Lap& lap = lap_;
   assert(lap.speed_mps.size() == n && lap.gear.size() == n);
-  lap.has_channels = true;
+  const bool all = set == ChannelSet::all;
+  lap.has_channels = all;
+  lap.has_loads = true;
   // Channels along the lap.
   const Car& car = env.car();
   const double m = env.mass_kg(), wb = car.wheelbase_m;
   lap.long_accel_mps2.resize(n);
   lap.lat_accel_mps2.resize(n);
-  lap.engine_radps.resize(n);
   lap.drag_n.resize(n);
   lap.downforce_n.resize(n);
   lap.front_load_n.resize(n);
   lap.rear_load_n.resize(n);
   lap.trimmed.resize(n);
-  for (auto* v : {&lap.aero_balance_eff, &lap.front_usage, &lap.rear_usage}) v->resize(n);
+  for (auto* v : {&lap.engine_radps, &lap.aero_balance_eff, &lap.front_usage, &lap.rear_usage})
+    all ? v->resize(n) : v->clear();
+  if (!all) lap.gear.clear();
   // The acceleration at a point: d(v^2)/(2 ds) by the central difference
   // (v_{i+1}^2 - v_{i-1}^2) / (4 ds) (through the seam of a closed lap; one-sided at the ends of
   // an open track), held within what the model allows in the state at the point: no harder than
@@ -1320,16 +1323,6 @@ void LapSolver::channels_pass(const Envelope& env, const Mesh& mesh) {
       const bool trimmed = env.trims(k) && mesh.trim_zone[i] && under_drive(lap.phase[i]);
       const Envelope::RoadForces f = env.road_forces(env.rows(trimmed), v * v, k, road);
       lap.lat_accel_mps2[i] = (mesh.curvature_1pm[i] < 0.0 ? -1.0 : 1.0) * f.lateral_n / m;
-      // Under drive the gear the forward sweep engaged (held through a shift's cut; lap.gear holds
-      // it on entry); under braking the best gear for the speed.
-      const Powertrain& pt = car.powertrain;
-      const int gear = pt.ideal ? 0 : (lap.phase[i] == Phase::brake ? env.gear(v) : lap.gear[i]);
-      lap.gear[i] = gear;
-      lap.engine_radps[i] =
-          pt.ideal ? 0.0
-                   : std::clamp(v / car.tyres.rolling_radius_m *
-                                    pt.gears[static_cast<std::size_t>(gear - 1)] * pt.final_drive,
-                                pt.engine_radps.front(), pt.rev_limit_radps);
       lap.trimmed[i] = trimmed;
       lap.drag_n[i] = f.drag_n;
       lap.downforce_n[i] = f.downforce_n;
@@ -1340,6 +1333,19 @@ void LapSolver::channels_pass(const Envelope& env, const Mesh& mesh) {
           axle_loads(car, f.drag_n, f.downforce_n, f.balance, f.normal_share, road.sin_slope, ax);
       lap.front_load_n[i] = loads.front_n;
       lap.rear_load_n[i] = loads.rear_n;
+      // The rest for every channel alone (ChannelSet::all): gear and engine speed, the aero
+      // balance with the drag moment, the axles' usage (the ellipse's powers).
+      if (!all) continue;
+      // Under drive the gear the forward sweep engaged (held through a shift's cut; lap.gear holds
+      // it on entry); under braking the best gear for the speed.
+      const Powertrain& pt = car.powertrain;
+      const int gear = pt.ideal ? 0 : (lap.phase[i] == Phase::brake ? env.gear(v) : lap.gear[i]);
+      lap.gear[i] = gear;
+      lap.engine_radps[i] =
+          pt.ideal ? 0.0
+                   : std::clamp(v / car.tyres.rolling_radius_m *
+                                    pt.gears[static_cast<std::size_t>(gear - 1)] * pt.final_drive,
+                                pt.engine_radps.front(), pt.rev_limit_radps);
       // Front share of the aero load with the drag moment (axle.hpp; the coefficients' rho / 2
       // cancels); NaN, written as an empty field, where there is no downforce to share.
       lap.aero_balance_eff[i] =

@@ -3,6 +3,7 @@
 #include <algorithm>
 #include <cmath>
 #include <cstdio>
+#include <limits>
 
 #include "lapwing/base/interpolate.hpp"
 #include "lapwing/base/units.hpp"
@@ -218,6 +219,8 @@ LapSummary summarize(const Lap& lap, const Mesh& mesh, const Track& track,
   s.length_m = mesh.length_m;
   s.air_density_kg_m3 = env.air_density();
   s.top_speed_mps = *std::max_element(lap.speed_mps.begin(), lap.speed_mps.end());
+  // The corners' and the balance's usage readings need the usage channels (ChannelSet::all).
+  const bool usage = lap.front_usage.size() == mesh.size();
   s.min_speed_mps = *std::min_element(lap.speed_mps.begin(), lap.speed_mps.end());
 
   // Time shares: each interval's time is split half to each of its end points' phases. A lone
@@ -273,7 +276,11 @@ LapSummary summarize(const Lap& lap, const Mesh& mesh, const Track& track,
     r.apex_mps = lap.speed_mps[apex];
     r.exit_mps = lap.speed_mps[c.end];
     r.time_s = lap.time_s[c.end] - lap.time_s[c.start];
-    auto index = [&lap](std::size_t i) { return lap.front_usage[i] - lap.rear_usage[i]; };
+    // NaN (axle `both`) for a lap without the usage channels (ChannelSet::loads).
+    auto index = [&lap, usage](std::size_t i) {
+      return usage ? lap.front_usage[i] - lap.rear_usage[i]
+                   : std::numeric_limits<double>::quiet_NaN();
+    };
     r.entry_balance_index = index(c.start);
     r.apex_balance_index = index(apex);
     r.exit_balance_index = index(c.end);
@@ -321,7 +328,7 @@ LapSummary summarize(const Lap& lap, const Mesh& mesh, const Track& track,
     if (c.apex_axle == Axle::front) b.front_limited_corners.push_back(c.id);
   b.threshold = balance_index_threshold;
   b.front_limited_length_m = 0.0;
-  for (std::size_t i = 0; i + 1 < mesh.size(); ++i) {
+  for (std::size_t i = 0; usage && i + 1 < mesh.size(); ++i) {
     // Each interval counts half for each end above the threshold.
     const double over = 0.5 * ((lap.front_usage[i] - lap.rear_usage[i] > b.threshold) +
                                (lap.front_usage[i + 1] - lap.rear_usage[i + 1] > b.threshold));

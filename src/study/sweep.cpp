@@ -303,11 +303,12 @@ SweepOutcome run_sweep(const SweepPlan& plan, const std::vector<Circuit>& circui
           r.config = c;
           try {
             // The lowest front share at speed and the balance window read the front-share
-            // channel, so a point needs both passes; the lap is summarised in the solver's
-            // buffers (run_lap would copy it out) and nothing is written but the figures below.
+            // channel, so a point needs both passes, the second for the loads alone (no usage:
+            // a row keeps no corner's axle); the lap is summarised in the solver's buffers
+            // (run_lap would copy it out) and nothing is written but the figures below.
             const Envelope env(configured, circuits[t].air);
             solve_speed_only(env, circuits[t], solver);
-            const Lap& lap = solver.add_channels(env, circuits[t].mesh);
+            const Lap& lap = solver.add_channels(env, circuits[t].mesh, ChannelSet::loads);
             const LapSummary s =
                 summarize(lap, circuits[t].mesh, circuits[t].track, circuits[t].corners, env);
             r.lap_time_s = s.lap_time_s;

@@ -22,6 +22,7 @@
 #include "lapwing/path/mesh.hpp"
 #include "lapwing/solve/envelope.hpp"
 #include "lapwing/solve/solver.hpp"
+#include "lapwing/solve/summary.hpp"
 #include "lapwing/study/circuit.hpp"
 #include "test_support.hpp"
 
@@ -315,6 +316,58 @@ TEST_CASE("the speed solve fills no channel; the channels pass adds them, as sol
   // A later speed solve drops the channels it would otherwise leave behind from this lap.
   CHECK_FALSE(solver.solve_speed(env, c.mesh, c.track.start_speed_mps).has_channels);
   CHECK(solver.solve_speed(env, c.mesh).front_load_n.empty());
+}
+
+TEST_CASE("the loads alone are the full pass's loads, and summarise to the same sweep figures") {
+  // ChannelSet::loads (a sweep's laps) leaves out the gear, the engine speed, the aero balance
+  // with the drag moment and the usage; what it fills is the full pass's to the last bit, and
+  // the figures a sweep row keeps come out the same. The Pellion FR-2 has a balance window.
+  const Car car = load_car(test::source_path("cars/pellion-fr2.yaml"));
+  REQUIRE(car.balance_window);
+  for (const char* track : {"tracks/brannock-park.yaml", "tracks/saltmere-flats.yaml"}) {
+    const Circuit c = test::bundled_circuit(track);
+    for (std::size_t k = 0; k < car.configs.size(); ++k) {
+      INFO(track << " config " << k);
+      const Envelope env(car.configured(k), c.air);
+      LapSolver all_solver, loads_solver;
+      all_solver.solve_speed(env, c.mesh, c.track.start_speed_mps);
+      const Lap& all = all_solver.add_channels(env, c.mesh);
+      loads_solver.solve_speed(env, c.mesh, c.track.start_speed_mps);
+      const Lap& loads = loads_solver.add_channels(env, c.mesh, ChannelSet::loads);
+      CHECK_FALSE(loads.has_channels);
+      CHECK(loads.has_loads);
+      CHECK(loads.long_accel_mps2 == all.long_accel_mps2);
+      CHECK(loads.lat_accel_mps2 == all.lat_accel_mps2);
+      CHECK(loads.drag_n == all.drag_n);
+      CHECK(loads.downforce_n == all.downforce_n);
+      CHECK(loads.front_load_n == all.front_load_n);
+      CHECK(loads.rear_load_n == all.rear_load_n);
+      CHECK(loads.trimmed == all.trimmed);
+      CHECK(loads.front_usage.empty());
+      CHECK(loads.rear_usage.empty());
+      CHECK(loads.engine_radps.empty());
+      CHECK(loads.aero_balance_eff.empty());
+      CHECK(loads.gear.empty());
+      const auto spans = find_corners(c.mesh);
+      const LapSummary a = summarize(all, c.mesh, c.track, spans, env),
+                       b = summarize(loads, c.mesh, c.track, spans, env);
+      CHECK(b.lap_time_s == a.lap_time_s);
+      CHECK(b.top_speed_mps == a.top_speed_mps);
+      CHECK(b.min_speed_mps == a.min_speed_mps);
+      CHECK(b.full_throttle_fraction == a.full_throttle_fraction);
+      CHECK(b.braking_fraction == a.braking_fraction);
+      CHECK(b.balance.has_fast_acceleration == a.balance.has_fast_acceleration);
+      CHECK(b.balance.lowest_front_share_fast == a.balance.lowest_front_share_fast);
+      REQUIRE(a.balance.window);
+      REQUIRE(b.balance.window);
+      CHECK(window_result(*b.balance.window) == window_result(*a.balance.window));
+      CHECK(b.balance.window->lowest_share == a.balance.window->lowest_share);
+      // The corners' usage readings are not there to read.
+      for (const CornerResult& r : b.corners) CHECK(std::isnan(r.apex_balance_index));
+      // The full pass after the loads alone fills the rest.
+      CHECK(loads_solver.add_channels(env, c.mesh).front_usage == all.front_usage);
+    }
+  }
 }
 
 // Rotating inertia (issue 10, item 4). At the tyre limit the road force acts on the car's mass m:

@@ -120,6 +120,7 @@ struct Lap {
   std::vector<std::uint8_t> trimmed;  // straight-line trim in use
   double lap_time_s = 0.0;
   bool has_channels = false;  // accelerations, gear, forces, loads, usage filled
+  bool has_loads = false;     // accelerations, forces, loads and trim filled (ChannelSet::loads)
 };
 
 /// The front axle's share of the load at point i of a lap with channels: its load over both
@@ -127,6 +128,12 @@ struct Lap {
 inline double front_share(const Lap& lap, std::size_t i) {
   return lap.front_load_n[i] / (lap.front_load_n[i] + lap.rear_load_n[i]);
 }
+
+/// What a channels pass fills: every channel, or the loads alone (accelerations, forces, axle
+/// loads and the trim in use: what the front share, the balance window and the time shares
+/// read), without the gear and engine speed, the axles' usage and the aero balance with the drag
+/// moment. A study that keeps only those figures (a sweep's rows) saves the ellipse's powers.
+enum class ChannelSet { all, loads };
 
 /// Solves one lap. Closed meshes are periodic (both sweeps start at the slowest steady point);
 /// open ones start at `start_speed_mps` and end free. Throws CannotMove when the car cannot
@@ -166,7 +173,7 @@ class LapSolver {
   /// envelope: accelerations, gear and engine speed, trim, forces, axle loads (and so the front
   /// shares) and usage (has_channels true). Throws std::logic_error without a speed solve on the
   /// mesh.
-  const Lap& add_channels(const Envelope& env, const Mesh& mesh);
+  const Lap& add_channels(const Envelope& env, const Mesh& mesh, ChannelSet set = ChannelSet::all);
   /// Both passes, as solve_lap: solve_speed, then add_channels.
   const Lap& solve(const Envelope& env, const Mesh& mesh, double start_speed_mps = 0.0);
   /// Both passes for a lap solved once (solve_lap), moved out: solve_speed, then
@@ -188,7 +195,7 @@ class LapSolver {
   /// The speed solve into lap_, its channels left as they were (has_channels false).
   void speed_pass(const Envelope& env, const Mesh& mesh, double start_speed_mps);
   /// The channels pass over the last speed solve, lap_.gear holding the forward sweep's gears.
-  void channels_pass(const Envelope& env, const Mesh& mesh);
+  void channels_pass(const Envelope& env, const Mesh& mesh, ChannelSet set = ChannelSet::all);
   /// The second thread of a lap on two, started on first use (nullptr: none yet, or one thread).
   SecondThread* second_thread(std::size_t points);
   Integrator integrator_;
