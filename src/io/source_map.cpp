@@ -20,11 +20,11 @@ std::string_view parent(std::string_view path) {
 
 }  // namespace
 
-SourceMap::SourceMap(const Document& doc) : file_(doc.file) {
+void SourceMap::fill(Nodes& nodes, const Document& doc) {
   struct Walk {
-    SourceMap& map;
+    Nodes& nodes;
     void operator()(const Node& n, const std::string& path) const {
-      map.nodes_[path] =
+      nodes[path] =
           Entry{n.mark,
                 n.kind == Node::Kind::scalar ? std::optional<std::string>(n.scalar) : std::nullopt};
       for (const auto& [key, child] : n.entries) (*this)(child, join_path(path, key));
@@ -32,7 +32,23 @@ SourceMap::SourceMap(const Document& doc) : file_(doc.file) {
         (*this)(n.items[i], path + "[" + std::to_string(i) + "]");
     }
   };
-  Walk{*this}(doc.root, "");
+  Walk{nodes}(doc.root, "");
+}
+
+SourceMap::SourceMap(const Document& doc) : file_(doc.file), index_(std::make_shared<Index>()) {
+  std::call_once(index_->built, [&] { fill(index_->nodes, doc); });
+}
+
+SourceMap::SourceMap(std::shared_ptr<const Document> doc)
+    : file_(doc->file), doc_(std::move(doc)), index_(std::make_shared<Index>()) {}
+
+const SourceMap::Nodes& SourceMap::nodes() const {
+  static const Nodes none;
+  if (!index_) return none;
+  std::call_once(index_->built, [this] {
+    if (doc_) fill(index_->nodes, *doc_);
+  });
+  return index_->nodes;
 }
 
 void SourceMap::alias(std::string model_path, std::string file_path) {
@@ -50,14 +66,14 @@ std::string SourceMap::file_path(std::string_view path) const {
 
 Mark SourceMap::mark(std::string_view path) const {
   for (std::string_view p = path;; p = parent(p)) {
-    if (const auto it = nodes_.find(p); it != nodes_.end()) return it->second.mark;
+    if (const auto it = nodes().find(p); it != nodes().end()) return it->second.mark;
     if (p.empty()) return Mark{};
   }
 }
 
 std::optional<std::string> SourceMap::text(std::string_view path) const {
-  const auto it = nodes_.find(path);
-  return it == nodes_.end() ? std::nullopt : it->second.text;
+  const auto it = nodes().find(path);
+  return it == nodes().end() ? std::nullopt : it->second.text;
 }
 
 void SourceMap::data(std::string path, std::string file, std::vector<int> lines) {

@@ -1,6 +1,7 @@
 #include "lapwing/io/track_file.hpp"
 
 #include <filesystem>
+#include <memory>
 
 #include "lapwing/base/units.hpp"
 #include "lapwing/io/document.hpp"
@@ -86,8 +87,10 @@ Segment read_segment(const Document& doc, const Node& item, const std::string& p
 }  // namespace
 
 TrackFile read_track_file(const std::string& file) {
-  Document doc = load_document(file);
-  TrackFile out{Track{}, SourceMap(doc)};
+  const auto shared = std::make_shared<const Document>(load_document(file));
+  const Document& doc = *shared;
+  // Positions are indexed only if an error asks for one: a long track's file is mostly segments.
+  TrackFile out{Track{}, SourceMap(shared)};
   Track& t = out.track;
   auto check = [&](std::optional<Violation> v, std::string_view prefix = {}) {
     if (v) throw out.sources.error(v->under(prefix));

@@ -5,6 +5,8 @@
 #pragma once
 
 #include <map>
+#include <memory>
+#include <mutex>
 #include <optional>
 #include <string>
 #include <string_view>
@@ -22,6 +24,9 @@ class SourceMap {
   SourceMap() = default;
   /// Every node of the document by its key path ("" the root, "a.b", "a[2]").
   explicit SourceMap(const Document& doc);
+  /// The same, the paths indexed on first use (a position or a text asked for: an error): a
+  /// file read without one, a long track's, pays nothing for them. The document is kept.
+  explicit SourceMap(std::shared_ptr<const Document> doc);
 
   const std::string& file() const { return file_; }
 
@@ -54,9 +59,18 @@ class SourceMap {
     std::string file;
     std::vector<int> lines;
   };
+  using Nodes = std::map<std::string, Entry, std::less<>>;
+  // The index, shared by copies; built once (at construction, or on first use of a lazy map).
+  struct Index {
+    std::once_flag built;
+    Nodes nodes;
+  };
   std::optional<std::string> point_name(const std::string& path) const;
+  const Nodes& nodes() const;
+  static void fill(Nodes& nodes, const Document& doc);
   std::string file_;
-  std::map<std::string, Entry, std::less<>> nodes_;
+  std::shared_ptr<const Document> doc_;  // a lazy map's document
+  std::shared_ptr<Index> index_;
   std::vector<std::pair<std::string, std::string>> aliases_;
   std::map<std::string, DataFile, std::less<>> data_;
 };
