@@ -13,6 +13,7 @@
 
 #include "lapwing/base/error.hpp"
 #include "lapwing/base/interpolate.hpp"
+#include "lapwing/base/memory.hpp"
 #include "lapwing/base/units.hpp"
 
 namespace lapwing {
@@ -327,7 +328,7 @@ Mesh build_mesh(const Track& track, double step_m, unsigned threads) {
   m.step_m = length / static_cast<double>(n);
   for (auto* v : {&m.s_m, &m.x_m, &m.y_m, &m.heading_rad, &m.curvature_1pm, &m.elevation_m,
                   &m.grade, &m.bank_rad})
-    v->resize(n + 1);
+    resize_ready(*v, n + 1);
   m.trim_zone.assign(n + 1, 1);
   const PathProfile* lapped = lapped_profile(track);
   const bool widths = track.has_widths() || (lapped && !lapped->width_left_m.empty());

@@ -20,6 +20,7 @@
 #include <utility>
 
 #include "lapwing/base/error.hpp"
+#include "lapwing/base/memory.hpp"
 #include "lapwing/base/units.hpp"
 #include "lapwing/solve/axle.hpp"
 #include "lapwing/solve/level_tables.hpp"
@@ -350,7 +351,7 @@ namespace {
 
 void steady_halves(const Envelope& env, const Mesh& mesh, SteadyProfile& p, SecondThread* second) {
   const std::size_t n = mesh.size();
-  p.speed_mps.resize(n);
+  resize_ready(p.speed_mps, n);
   p.limit.resize(n);
   in_halves(n, second,
             [&](std::size_t lo, std::size_t hi) { steady_points(env, mesh, p, lo, hi); });
@@ -486,7 +487,7 @@ class Sweeper {
         steps_(steps),
         i_(start),
         v_(v_start) {
-    r_.speed_mps.resize(n_);  // every point is written on the way
+    resize_ready(r_.speed_mps, n_);  // every point is written on the way
     r_.clipped.assign(n_, 0);
     r_.speed_mps[start] = v_;
     if (forward_) {
@@ -1189,7 +1190,7 @@ void LapSolver::speed_pass(const Envelope& env, const Mesh& mesh, double start_s
     both(0, start_speed_mps, n - 1, steady[n - 1]);
   }
 
-  lap.speed_mps.resize(n);
+  resize_ready(lap.speed_mps, n);
   lap.phase.resize(n);
   for (std::size_t i = 0; i < n; ++i) {
     const double v = std::min(fwd.speed_mps[i], bwd.speed_mps[i]);
@@ -1200,7 +1201,7 @@ void LapSolver::speed_pass(const Envelope& env, const Mesh& mesh, double start_s
 
   // Time: sum of 2 ds / (v_i + v_{i+1}), exact for a constant acceleration over each step
   // (ds / mean speed; README, "Physics and assumptions").
-  lap.time_s.resize(n);
+  resize_ready(lap.time_s, n);
   lap.time_s[0] = 0.0;
   for (std::size_t i = 0; i + 1 < n; ++i) {
     const double vsum = lap.speed_mps[i] + lap.speed_mps[i + 1];
@@ -1257,15 +1258,12 @@ void LapSolver::channels_pass(const Envelope& env, const Mesh& mesh, ChannelSet 
   // Channels along the lap.
   const Car& car = env.car();
   const double m = env.mass_kg(), wb = car.wheelbase_m;
-  lap.long_accel_mps2.resize(n);
-  lap.lat_accel_mps2.resize(n);
-  lap.drag_n.resize(n);
-  lap.downforce_n.resize(n);
-  lap.front_load_n.resize(n);
-  lap.rear_load_n.resize(n);
+  for (auto* v : {&lap.long_accel_mps2, &lap.lat_accel_mps2, &lap.drag_n, &lap.downforce_n,
+                  &lap.front_load_n, &lap.rear_load_n})
+    resize_ready(*v, n);
   lap.trimmed.resize(n);
   for (auto* v : {&lap.engine_radps, &lap.aero_balance_eff, &lap.front_usage, &lap.rear_usage})
-    all ? v->resize(n) : v->clear();
+    all ? resize_ready(*v, n) : v->clear();
   if (!all) lap.gear.clear();
   // The acceleration at a point: d(v^2)/(2 ds) by the central difference
   // (v_{i+1}^2 - v_{i-1}^2) / (4 ds) (through the seam of a closed lap; one-sided at the ends of
