@@ -14,6 +14,7 @@
 #include "lapwing/base/format.hpp"
 #include "lapwing/base/hash.hpp"
 #include "lapwing/base/interpolate.hpp"
+#include "lapwing/base/memory.hpp"
 #include "lapwing/base/range.hpp"
 #include "lapwing/base/text.hpp"
 #include "lapwing/base/units.hpp"
