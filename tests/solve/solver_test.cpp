@@ -598,6 +598,17 @@ bool same_bits(const std::vector<T>& a, const std::vector<T>& b) {
   return true;
 }
 
+// What a run throws as CannotMove, or "" where it does not.
+template <typename Run>
+std::string cannot_move_error(const Run& run) {
+  try {
+    run();
+  } catch (const CannotMove& e) {
+    return e.what();
+  }
+  return "";
+}
+
 void check_same_lap(const Lap& a, const Lap& b) {
   CHECK(std::bit_cast<std::uint64_t>(a.lap_time_s) == std::bit_cast<std::uint64_t>(b.lap_time_s));
   CHECK(a.has_channels == b.has_channels);
@@ -646,19 +657,10 @@ TEST_CASE("a lap on two threads is the lap on one, bit for bit, and fails the sa
   const Circuit c = lay_out(t, make_air(t.air));
   REQUIRE(c.mesh.size() >= 2000);
   const Envelope env(test::configured(car), c.air);
-  std::string one_error, two_error;
   LapSolver one, two;
   two.set_threads(2);
-  try {
-    one.solve(env, c.mesh);
-  } catch (const CannotMove& e) {
-    one_error = e.what();
-  }
-  try {
-    two.solve(env, c.mesh);
-  } catch (const CannotMove& e) {
-    two_error = e.what();
-  }
+  const std::string one_error = cannot_move_error([&] { one.solve(env, c.mesh); }),
+                    two_error = cannot_move_error([&] { two.solve(env, c.mesh); });
   CHECK(!one_error.empty());
   CHECK(one_error == two_error);
 }
@@ -688,18 +690,10 @@ TEST_CASE("where both sweeps or both halves stop, two threads report the error o
       const Envelope env(test::configured(car), c.air);
       const SteadyProfile steady = steady_profile(env, c.mesh);
       const std::size_t n = c.mesh.size();
-      auto error_of = [](const auto& run) -> std::string {
-        try {
-          run();
-        } catch (const CannotMove& e) {
-          return e.what();
-        }
-        return "";
-      };
       // Each sweep alone stops.
       const std::string forward =
-          error_of([&] { sweep(env, c.mesh, Sweep::forward, steady.speed_mps, 0, 0.0); });
-      const std::string backward = error_of([&] {
+          cannot_move_error([&] { sweep(env, c.mesh, Sweep::forward, steady.speed_mps, 0, 0.0); });
+      const std::string backward = cannot_move_error([&] {
         sweep(env, c.mesh, Sweep::backward, steady.speed_mps, n - 1, steady.speed_mps[n - 1]);
       });
       INFO("up " << up << " angle " << angle);
@@ -708,8 +702,8 @@ TEST_CASE("where both sweeps or both halves stop, two threads report the error o
       REQUIRE(forward != backward);
       LapSolver one, two;
       two.set_threads(2);
-      const std::string a = error_of([&] { one.solve(env, c.mesh); }),
-                        b = error_of([&] { two.solve(env, c.mesh); });
+      const std::string a = cannot_move_error([&] { one.solve(env, c.mesh); }),
+                        b = cannot_move_error([&] { two.solve(env, c.mesh); });
       CHECK(a == b);
       forward_first += a == forward;
       backward_first += a == backward;
@@ -730,17 +724,8 @@ TEST_CASE("where both sweeps or both halves stop, two threads report the error o
   const Envelope env(test::configured(car), c.air);
   LapSolver one, two;
   two.set_threads(2);
-  std::string a, b;
-  try {
-    one.solve(env, c.mesh);
-  } catch (const CannotMove& e) {
-    a = e.what();
-  }
-  try {
-    two.solve(env, c.mesh);
-  } catch (const CannotMove& e) {
-    b = e.what();
-  }
+  const std::string a = cannot_move_error([&] { one.solve(env, c.mesh); }),
+                    b = cannot_move_error([&] { two.solve(env, c.mesh); });
   CHECK(a.find("at 300") != std::string::npos);
   CHECK(a == b);
 }
