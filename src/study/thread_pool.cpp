@@ -12,6 +12,9 @@ namespace lapwing {
 void parallel_for(std::size_t count, unsigned threads,
                   const std::function<void(std::size_t, LapSolver&)>& job) {
   if (threads == 0) threads = std::max(1u, std::thread::hardware_concurrency());
+  // Fewer laps than threads (a compare of one config on one track): a lap takes two of the
+  // threads it leaves idle (LapSolver::set_threads; the same lap whatever it takes).
+  const unsigned per_lap = count == 1 && threads >= 2 ? 2 : 1;
   threads = static_cast<unsigned>(std::min<std::size_t>(threads, std::max<std::size_t>(count, 1)));
   std::atomic<std::size_t> next{0};
   std::mutex failure_mutex;
@@ -19,6 +22,7 @@ void parallel_for(std::size_t count, unsigned threads,
   std::size_t failure_index = count;
   auto worker = [&] {
     LapSolver solver;
+    solver.set_threads(per_lap);
     for (std::size_t i = next++; i < count; i = next++) {
       try {
         job(i, solver);

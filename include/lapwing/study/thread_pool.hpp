@@ -11,6 +11,7 @@ namespace lapwing {
 
 /// Runs job(i, solver) for i in [0, count) over `threads` threads (0: all cores), each thread
 /// with its own LapSolver. The first exception thrown (lowest index) is rethrown after all stop.
+/// A single job given two threads or more gets a solver on two (LapSolver::set_threads).
 void parallel_for(std::size_t count, unsigned threads,
                   const std::function<void(std::size_t, LapSolver&)>& job);
 
