@@ -12,6 +12,7 @@
 // base
 #include "lapwing/base/error.hpp"
 #include "lapwing/base/format.hpp"
+#include "lapwing/base/halves.hpp"
 #include "lapwing/base/hash.hpp"
 #include "lapwing/base/interpolate.hpp"
 #include "lapwing/base/memory.hpp"

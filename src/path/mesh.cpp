@@ -5,13 +5,14 @@
 #include <cassert>
 #include <cmath>
 #include <limits>
+#include <memory>
 #include <sstream>
 #include <string>
-#include <system_error>
 #include <thread>
 #include <vector>
 
 #include "lapwing/base/error.hpp"
+#include "lapwing/base/halves.hpp"
 #include "lapwing/base/interpolate.hpp"
 #include "lapwing/base/memory.hpp"
 #include "lapwing/base/units.hpp"
@@ -380,24 +381,11 @@ Mesh build_mesh(const Track& track, double step_m, unsigned threads) {
         if (widths) m.width_left_m[i] = m.width_right_m[i] = 0.5 * st.width;
       }
     };
-    const std::size_t mid = (n + 1) / 2;
     if (threads == 0)
       threads = n + 1 >= points_apart && std::thread::hardware_concurrency() >= 2 ? 2 : 1;
-    std::thread second;
-    if (threads >= 2) {
-      try {
-        second = std::thread([&] { points(mid, n + 1); });  // nothing in it throws
-      } catch (const std::system_error&) {
-        // No thread to be had: both halves here, the same mesh.
-      }
-    }
-    if (second.joinable()) {
-      points(0, mid);  // nothing here throws either: the join below always runs
-      second.join();
-    } else {
-      points(0, mid);
-      points(mid, n + 1);
-    }
+    const std::unique_ptr<SecondThread> second =
+        threads >= 2 ? SecondThread::try_start() : nullptr;  // none to be had: one thread
+    in_halves(n + 1, second.get(), points);
   }
   if (lapped) {
     // Bank and trim zones are given along the described path: a racing line reads them where

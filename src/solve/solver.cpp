@@ -6,20 +6,15 @@
 #include <array>
 #include <cassert>
 #include <cmath>
-#include <condition_variable>
-#include <exception>
-#include <functional>
 #include <limits>
 #include <memory>
-#include <mutex>
 #include <sstream>
 #include <stdexcept>
-#include <system_error>
-#include <thread>
 #include <tuple>
 #include <utility>
 
 #include "lapwing/base/error.hpp"
+#include "lapwing/base/halves.hpp"
 #include "lapwing/base/memory.hpp"
 #include "lapwing/base/units.hpp"
 #include "lapwing/solve/axle.hpp"
@@ -233,103 +228,12 @@ constexpr double extrapolated_width = 2e-4;
 
 }  // namespace
 
-// The second thread of a lap on two: one job at a time, started by start() and waited for by
-// wait(), which rethrows what the job threw. Lives as long as its LapSolver, so that a lap does
-// not pay a thread's start (some 25 microseconds here, measured) for each of its passes.
-class SecondThread {
- public:
-  SecondThread() : thread_([this] { loop(); }) {}
-  ~SecondThread() {
-    {
-      const std::lock_guard<std::mutex> lock(mutex_);
-      stop_ = true;
-    }
-    wake_.notify_all();
-    thread_.join();
-  }
-  SecondThread(const SecondThread&) = delete;
-  SecondThread& operator=(const SecondThread&) = delete;
-
-  /// Runs `job` on the thread; wait() for it before the next.
-  void start(std::function<void()> job) {
-    {
-      const std::lock_guard<std::mutex> lock(mutex_);
-      job_ = std::move(job);
-      busy_ = true;
-      error_ = nullptr;
-    }
-    wake_.notify_all();
-  }
-  /// Waits for the job; rethrows what it threw.
-  void wait() {
-    std::unique_lock<std::mutex> lock(mutex_);
-    wake_.wait(lock, [this] { return !busy_; });
-    if (error_) std::rethrow_exception(std::exchange(error_, nullptr));
-  }
-  /// Waits for the job, dropping what it threw (the caller has an error of its own to report).
-  void wait_quietly() {
-    std::unique_lock<std::mutex> lock(mutex_);
-    wake_.wait(lock, [this] { return !busy_; });
-    error_ = nullptr;
-  }
-
- private:
-  void loop() {
-    std::unique_lock<std::mutex> lock(mutex_);
-    for (;;) {
-      wake_.wait(lock, [this] { return stop_ || job_ != nullptr; });
-      if (stop_) return;
-      std::function<void()> job = std::move(job_);
-      job_ = nullptr;
-      lock.unlock();
-      std::exception_ptr error;
-      try {
-        job();
-      } catch (...) {
-        error = std::current_exception();
-      }
-      lock.lock();
-      error_ = error;
-      busy_ = false;
-      wake_.notify_all();
-    }
-  }
-  std::mutex mutex_;
-  std::condition_variable wake_;
-  std::function<void()> job_;
-  bool busy_ = false, stop_ = false;
-  std::exception_ptr error_;
-  std::thread thread_;  // last: it starts once the rest is built
-};
-
 namespace {
 
 // A lap on two threads (LapSolver::set_threads) puts its sweeps and its passes' halves apart on
 // meshes of at least this many points: a thread's start and join cost some 25 microseconds here
 // (measured), what a few hundred points of a sweep take.
 constexpr std::size_t min_points_apart = 2000;
-
-// A pass over points 0 to n-1 worked as two halves, [0, n/2) and [n/2, n), each from a fresh
-// start: `half(lo, hi)`. With a second thread the second half runs there. The halves are the
-// same either way, so the pass's results are too; where both halves throw, the first half's
-// error is the one rethrown (the one a pass from point 0 would meet first).
-template <typename Half>
-void in_halves(std::size_t n, SecondThread* second, const Half& half) {
-  const std::size_t mid = n / 2;
-  if (!second) {
-    half(std::size_t{0}, mid);
-    half(mid, n);
-    return;
-  }
-  second->start([&] { half(mid, n); });
-  try {
-    half(std::size_t{0}, mid);
-  } catch (...) {
-    second->wait_quietly();
-    throw;
-  }
-  second->wait();
-}
 
 void steady_halves(const Envelope& env, const Mesh& mesh, SteadyProfile& p, SecondThread* second);
 void steady_points(const Envelope& env, const Mesh& mesh, SteadyProfile& p, std::size_t lo,
@@ -1110,13 +1014,8 @@ LapSolver& LapSolver::operator=(LapSolver&&) noexcept = default;
 SecondThread* LapSolver::second_thread(std::size_t points) {
   if (threads_ < 2 || points < min_points_apart) return nullptr;
   if (!second_) {
-    try {
-      second_ = std::make_unique<SecondThread>();
-    } catch (const std::system_error&) {
-      // No thread to be had (a process at its limit): the lap on one, the same lap.
-      threads_ = 1;
-      return nullptr;
-    }
+    second_ = SecondThread::try_start();
+    if (!second_) threads_ = 1;  // no thread to be had: the lap on one, the same lap
   }
   return second_.get();
 }

@@ -141,8 +141,7 @@ enum class ChannelSet { all, loads };
 Lap solve_lap(const Envelope& env, const Mesh& mesh, double start_speed_mps = 0.0,
               Integrator integrator = default_integrator);
 
-/// A thread that runs one job at a time for a lap on two threads (solver.cpp).
-class SecondThread;
+class SecondThread;  // base/halves.hpp: the second thread of a lap on two
 
 /// Solves laps one after another, reusing its buffers (the lap, both sweeps), so that a study
 /// of many laps allocates once. The working state of a lap, kept apart from the Envelope and
