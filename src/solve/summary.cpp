@@ -4,6 +4,8 @@
 #include <cmath>
 #include <cstdio>
 #include <limits>
+#include <optional>
+#include <string>
 
 #include "lapwing/base/interpolate.hpp"
 #include "lapwing/base/units.hpp"
@@ -29,6 +31,48 @@ constexpr double apex_tie = 5e-4;  // relative: 0.05 km/h at 100 km/h
 // above rounding (1e-16) and the root searches' tolerance (2^-36, 1.5e-11), far below anything
 // a table shows (1e-9 of 100 km/h is 1e-7 km/h).
 constexpr double apex_plateau = 1e-9;
+
+// An axle's usage above this reads as asking more of its tyres than they hold. The axle model
+// holds each axle within it (README, "Physics and assumptions": its traces stay within 1 + 0.02
+// where braking meets a rear axle's steady limit); the point mass limits the car as a whole,
+// four equally loaded tyres, and its axle readings can go far beyond.
+constexpr double usage_over = 1.02;
+
+// The warning for a lap whose axle usage goes beyond usage_over somewhere (nothing if nowhere):
+// the highest reading, its axle and place, and the share of the lap distance above it.
+std::optional<std::string> over_usage_warning(const Envelope& env, const Lap& lap,
+                                              const Mesh& mesh) {
+  const std::size_t n = mesh.size();
+  if (lap.front_usage.size() != n || lap.rear_usage.size() != n) return std::nullopt;
+  std::size_t worst = 0;
+  bool front = true;
+  double highest = 0.0, length = 0.0;
+  auto over = [&](std::size_t i) {
+    return std::max(lap.front_usage[i], lap.rear_usage[i]) > usage_over;
+  };
+  for (std::size_t i = 0; i < n; ++i) {
+    const double u = std::max(lap.front_usage[i], lap.rear_usage[i]);
+    if (u > highest) {
+      highest = u;
+      worst = i;
+      front = lap.front_usage[i] >= lap.rear_usage[i];
+    }
+    if (i + 1 < n) length += 0.5 * (mesh.s_m[i + 1] - mesh.s_m[i]) * (over(i) + over(i + 1));
+  }
+  if (!(highest > usage_over)) return std::nullopt;
+  char buf[160];
+  std::snprintf(
+      buf, sizeof buf,
+      "the %s axle's usage reaches %.2f at %.0f m, above %.2f on %.1f %% of the lap distance",
+      front ? "front" : "rear", highest, mesh.s_m[worst], usage_over,
+      100.0 * length / mesh.length_m);
+  std::string text = buf;
+  if (env.car().model == VehicleModel::point_mass)
+    text +=
+        " (the point mass shares drive and braking over four equally loaded tyres and does "
+        "not limit each axle; --model axle does)";
+  return text;
+}
 }  // namespace
 
 std::vector<RangeNote> range_notes(const Envelope& env) {
@@ -251,6 +295,7 @@ LapSummary summarize(const Lap& lap, const Mesh& mesh, const Track& track,
   }
   s.trimmed_fraction = trimmed / lap.lap_time_s;
   s.warnings = lap_range_warnings(env, lap, mesh);
+  if (std::optional<std::string> w = over_usage_warning(env, lap, mesh)) s.warnings.push_back(*w);
   s.full_throttle_fraction = full / lap.lap_time_s;
   s.braking_fraction = brake / lap.lap_time_s;
 

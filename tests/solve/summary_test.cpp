@@ -3,7 +3,10 @@
 
 #include <algorithm>
 #include <cmath>
+#include <cstdio>
 #include <numeric>
+#include <string>
+#include <vector>
 
 #include "lapwing/base/units.hpp"
 #include "lapwing/solve/summary.hpp"
@@ -298,4 +301,59 @@ TEST_CASE("an arc held on its limit has its apex where the plateau starts, whate
     CHECK(summarize(moved, mesh, track, spans, env).corners[k].apex_m == mesh.s_m[later]);
   }
   CHECK(plateaus >= 3);
+}
+
+TEST_CASE(
+    "an axle asked beyond its grip is a warning: the point mass's readings, never the axle's") {
+  // Usage 1 is an axle's friction ellipse filled (its definition, common practice). The point
+  // mass limits the car as one body on four equally loaded tyres: a rear-driven car's drive is
+  // put down as if all four carried it, so its rear axle reads far above 1 under power. The
+  // axle model limits each axle, and no warning may appear there.
+  const Track track = load_track(test::source_path("tracks/brannock-park.yaml"));
+  const Mesh mesh = build_mesh(track, track.mesh_m);
+  const auto spans = find_corners(mesh);
+  Car car = load_car(test::source_path("cars/pellion-fr2.yaml")).configured(0).car();
+  REQUIRE(car.powertrain.driven == DrivenAxle::rear);
+  auto over_warnings = [&](const LapSummary& s) {
+    std::vector<std::string> out;
+    for (const auto& w : s.warnings)
+      if (w.find("usage reaches") != std::string::npos) out.push_back(w);
+    return out;
+  };
+  car.model = VehicleModel::axle;
+  const Envelope axle_env(test::configured(car), make_air(track.air));
+  const Lap axle_lap = solve_lap(axle_env, mesh);
+  CHECK(over_warnings(summarize(axle_lap, mesh, track, spans, axle_env)).empty());
+
+  car.model = VehicleModel::point_mass;
+  const Envelope env(test::configured(car), make_air(track.air));
+  const Lap lap = solve_lap(env, mesh);
+  const std::vector<std::string> w = over_warnings(summarize(lap, mesh, track, spans, env));
+  REQUIRE(w.size() == 1);
+  // The highest reading, its axle and place, worked out again from the trace.
+  std::size_t worst = 0;
+  for (std::size_t i = 0; i < mesh.size(); ++i)
+    if (std::max(lap.front_usage[i], lap.rear_usage[i]) >
+        std::max(lap.front_usage[worst], lap.rear_usage[worst]))
+      worst = i;
+  const double highest = std::max(lap.front_usage[worst], lap.rear_usage[worst]);
+  CHECK(highest > 1.5);
+  CHECK(lap.rear_usage[worst] > lap.front_usage[worst]);
+  char expect[96];
+  std::snprintf(expect, sizeof expect, "the rear axle's usage reaches %.2f at %.0f m", highest,
+                mesh.s_m[worst]);
+  CHECK(w[0].rfind(expect, 0) == 0);
+  CHECK(w[0].find("--model axle") != std::string::npos);
+  // The share of the distance above 1.02, each interval half for each end above it.
+  double above = 0.0;
+  for (std::size_t i = 0; i + 1 < mesh.size(); ++i) {
+    auto over = [&](std::size_t k) {
+      return std::max(lap.front_usage[k], lap.rear_usage[k]) > 1.02;
+    };
+    above += 0.5 * mesh.step_m * (over(i) + over(i + 1));
+  }
+  char share[64];
+  std::snprintf(share, sizeof share, "above 1.02 on %.1f %% of the lap distance",
+                100.0 * above / mesh.length_m);
+  CHECK(w[0].find(share) != std::string::npos);
 }
