@@ -729,3 +729,38 @@ TEST_CASE("where both sweeps or both halves stop, two threads report the error o
   CHECK(a.find("at 300") != std::string::npos);
   CHECK(a == b);
 }
+
+TEST_CASE(
+    "a point held on its steady limit at the speed of both its neighbours does not accelerate") {
+  // Speed unchanged from the point before to the point after: dv/dt = 0, no longitudinal load
+  // transfer (the loads are the static ones with the aero forces and the drag moment: Milliken
+  // & Milliken, RCVD ch. 18, moments about each contact patch), on an arc taken at its limit.
+  // Before the rule the trace read the model's rounding there (up to 7e-15 m/s^2).
+  const Track track = load_track(test::source_path("tracks/brannock-park.yaml"));
+  const Mesh mesh = build_mesh(track, track.mesh_m);
+  for (const char* file : {"cars/caldra-gt.yaml", "cars/pellion-fr2.yaml"})
+    for (const VehicleModel model : {VehicleModel::point_mass, VehicleModel::axle}) {
+      Car car = load_car(test::source_path(file)).configured(0).car();
+      car.model = model;
+      const Envelope env(test::configured(car), make_air(track.air));
+      const Lap lap = solve_lap(env, mesh);
+      CAPTURE(file);
+      CAPTURE(static_cast<int>(model));
+      std::size_t held = 0;
+      for (std::size_t i = 1; i + 1 < mesh.size(); ++i) {
+        if (!on_steady_limit(lap.phase[i]) || lap.speed_mps[i - 1] != lap.speed_mps[i + 1])
+          continue;
+        ++held;
+        CHECK(lap.long_accel_mps2[i] == 0.0);
+        const double u = lap.speed_mps[i] * lap.speed_mps[i];
+        const Envelope::RoadForces f = env.road_forces(env.rows(lap.trimmed[i] != 0), u,
+                                                       std::abs(mesh.curvature_1pm[i]), Road{});
+        REQUIRE(mesh.level_in_still_air(i));  // Road{} above: a level road in still air
+        const AxleLoads at_rest =
+            axle_loads(car, f.drag_n, f.downforce_n, f.balance, f.normal_share, 0.0, 0.0);
+        CHECK(lap.front_load_n[i] == at_rest.front_n);
+        CHECK(lap.rear_load_n[i] == at_rest.rear_n);
+      }
+      CHECK(held > 100);  // Brannock Park's arcs taken at their limits
+    }
+}
