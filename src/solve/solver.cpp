@@ -1110,15 +1110,18 @@ void LapSolver::speed_pass(const Envelope& env, const Mesh& mesh, double start_s
   lap.lap_time_s = lap.time_s[n - 1];
 }
 
-const Lap& LapSolver::add_channels(const Envelope& env, const Mesh& mesh, ChannelSet set) {
+const Lap& LapSolver::add_channels(const Envelope& env, const Mesh& mesh, ChannelSet set,
+                                   double loads_above_mps) {
   const std::size_t n = mesh.size();
   Lap& lap = lap_;
   if (lap.speed_mps.size() != n || forward_.gear.size() != n)
     throw std::logic_error("LapSolver::add_channels: no speed solve on this mesh");
-  if (lap.has_channels || (set == ChannelSet::loads && lap.has_loads)) return lap;
+  if (lap.has_channels ||
+      (set == ChannelSet::loads && lap.has_loads && lap.loads_above_mps <= loads_above_mps))
+    return lap;
   // A copy: the forward sweep keeps its buffer for the next lap.
   lap.gear.assign(forward_.gear.begin(), forward_.gear.end());
-  channels_pass(env, mesh, set);
+  channels_pass(env, mesh, set, set == ChannelSet::loads ? loads_above_mps : 0.0);
   return lap;
 }
 
@@ -1147,13 +1150,16 @@ Lap LapSolver::take_with_channels(const Envelope& env, const Mesh& mesh) {
   return take();
 }
 
-void LapSolver::channels_pass(const Envelope& env, const Mesh& mesh, ChannelSet set) {
+void LapSolver::channels_pass(const Envelope& env, const Mesh& mesh, ChannelSet set,
+                              double loads_above_mps) {
   const std::size_t n = mesh.size();
   Lap& lap = lap_;
   assert(lap.speed_mps.size() == n && lap.gear.size() == n);
   const bool all = set == ChannelSet::all;
   lap.has_channels = all;
   lap.has_loads = true;
+  lap.loads_above_mps = all ? 0.0 : loads_above_mps;
+  const double floor_mps = lap.loads_above_mps;
   // Channels along the lap.
   const Car& car = env.car();
   const double m = env.mass_kg(), wb = car.wheelbase_m;
@@ -1218,7 +1224,8 @@ void LapSolver::channels_pass(const Envelope& env, const Mesh& mesh, ChannelSet 
     for (std::size_t i = lo_point; i < hi_point; ++i) {
       const double v = lap.speed_mps[i];
       const Road road = road_at(i);
-      const double ax = point_accel(i, road);
+      const double ax =
+          v >= floor_mps ? point_accel(i, road) : std::numeric_limits<double>::quiet_NaN();
       lap.long_accel_mps2[i] = ax;
       // Lateral acceleration in the road's plane, signed as the curvature: F_y / m (v^2 kappa on
       // a flat road; less the weight's part down a bank).

@@ -174,6 +174,11 @@ double time_at(const Lap& lap, const Mesh& mesh, double s) {
   return at(lap.time_s, even_bracket(s / mesh.step_m, mesh.intervals()));
 }
 
+double summary_loads_above_mps(const Car& car) {
+  const double fast = fast_acceleration_kph * units::kph;
+  return car.balance_window ? std::min(fast, car.balance_window->above_mps) : fast;
+}
+
 BalanceWindowResult check_balance_window(const BalanceWindow& w, const Lap& lap, const Mesh& mesh,
                                          const std::vector<CornerSpan>& corners) {
   BalanceWindowResult r;
@@ -362,7 +367,8 @@ LapSummary summarize(const Lap& lap, const Mesh& mesh, const Track& track,
   b.lowest_front_share_fast = 0.0;
   b.lowest_front_share_at_m = 0.0;
   for (std::size_t i = 0; i < mesh.size(); ++i) {
-    if (!full_drive(lap.phase[i]) || lap.speed_mps[i] <= 200.0 * units::kph) continue;
+    if (!full_drive(lap.phase[i]) || lap.speed_mps[i] <= fast_acceleration_kph * units::kph)
+      continue;
     if (!b.has_fast_acceleration || front_share(lap, i) < b.lowest_front_share_fast) {
       b.lowest_front_share_fast = front_share(lap, i);
       b.lowest_front_share_at_m = mesh.s_m[i];

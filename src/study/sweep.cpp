@@ -304,11 +304,13 @@ SweepOutcome run_sweep(const SweepPlan& plan, const std::vector<Circuit>& circui
           try {
             // The lowest front share at speed and the balance window read the front-share
             // channel, so a point needs both passes, the second for the loads alone (no usage:
-            // a row keeps no corner's axle); the lap is summarised in the solver's buffers
-            // (run_lap would copy it out) and nothing is written but the figures below.
+            // a row keeps no corner's axle) and only at the speeds those figures read; the lap
+            // is summarised in the solver's buffers (run_lap would copy it out) and nothing is
+            // written but the figures below.
             const Envelope env(configured, circuits[t].air);
             solve_speed_only(env, circuits[t], solver);
-            const Lap& lap = solver.add_channels(env, circuits[t].mesh, ChannelSet::loads);
+            const Lap& lap = solver.add_channels(env, circuits[t].mesh, ChannelSet::loads,
+                                                 summary_loads_above_mps(car));
             const LapSummary s =
                 summarize(lap, circuits[t].mesh, circuits[t].track, circuits[t].corners, env);
             r.lap_time_s = s.lap_time_s;

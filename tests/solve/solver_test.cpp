@@ -366,6 +366,45 @@ TEST_CASE("the loads alone are the full pass's loads, and summarise to the same 
       for (const CornerResult& r : b.corners) CHECK(std::isnan(r.apex_balance_index));
       // The full pass after the loads alone fills the rest.
       CHECK(loads_solver.add_channels(env, c.mesh).front_usage == all.front_usage);
+
+      // The loads from the speed the summary reads them at (a sweep's laps): NaN below it,
+      // the full pass's above to the model's rounding (its Newton hints skip the slow points;
+      // the axle model's fixed point is solved to 1e-9 m/s^2, a load transfer of some 1e-7 N
+      // here, 1e-10 of a front share), and the same figures to that rounding.
+      LapSolver fast_solver;
+      fast_solver.solve_speed(env, c.mesh, c.track.start_speed_mps);
+      const double floor = summary_loads_above_mps(car);
+      REQUIRE(floor == car.balance_window->above_mps);  // 150 km/h, below 200 km/h
+      const Lap& fast = fast_solver.add_channels(env, c.mesh, ChannelSet::loads, floor);
+      CHECK(fast.loads_above_mps == floor);
+      std::size_t filled = 0, skipped = 0;
+      for (std::size_t i = 0; i < c.mesh.size(); ++i) {
+        if (fast.speed_mps[i] < floor) {
+          ++skipped;
+          CHECK(std::isnan(fast.front_load_n[i]));
+          CHECK(std::isnan(fast.long_accel_mps2[i]));
+        } else {
+          ++filled;
+          CHECK(near(fast.front_load_n[i], all.front_load_n[i], 1e-10));
+          CHECK(near(fast.long_accel_mps2[i], all.long_accel_mps2[i], 1e-6, 1e-9));
+        }
+        CHECK(fast.lat_accel_mps2[i] == all.lat_accel_mps2[i]);
+        CHECK(fast.trimmed[i] == all.trimmed[i]);
+      }
+      CHECK(filled > 0);
+      CHECK(skipped > 0);
+      const LapSummary f = summarize(fast, c.mesh, c.track, spans, env);
+      CHECK(f.lap_time_s == a.lap_time_s);
+      CHECK(f.full_throttle_fraction == a.full_throttle_fraction);
+      CHECK(f.balance.has_fast_acceleration == a.balance.has_fast_acceleration);
+      CHECK(near(f.balance.lowest_front_share_fast, a.balance.lowest_front_share_fast, 1e-10));
+      REQUIRE(f.balance.window);
+      CHECK(window_result(*f.balance.window) == window_result(*a.balance.window));
+      CHECK(near(f.balance.window->lowest_share, a.balance.window->lowest_share, 1e-10));
+      REQUIRE(f.balance.window->braking_share.has_value() ==
+              a.balance.window->braking_share.has_value());
+      if (a.balance.window->braking_share)
+        CHECK(near(*f.balance.window->braking_share, *a.balance.window->braking_share, 1e-10));
     }
   }
 }

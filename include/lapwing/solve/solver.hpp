@@ -121,6 +121,9 @@ struct Lap {
   double lap_time_s = 0.0;
   bool has_channels = false;  // accelerations, gear, forces, loads, usage filled
   bool has_loads = false;     // accelerations, forces, loads and trim filled (ChannelSet::loads)
+  // The longitudinal acceleration and the axle loads are filled where the speed is at least
+  // this, NaN below it (LapSolver::add_channels' `loads_above_mps`; 0: everywhere).
+  double loads_above_mps = 0.0;
 };
 
 /// The front axle's share of the load at point i of a lap with channels: its load over both
@@ -172,7 +175,14 @@ class LapSolver {
   /// envelope: accelerations, gear and engine speed, trim, forces, axle loads (and so the front
   /// shares) and usage (has_channels true). Throws std::logic_error without a speed solve on the
   /// mesh.
-  const Lap& add_channels(const Envelope& env, const Mesh& mesh, ChannelSet set = ChannelSet::all);
+  /// With ChannelSet::loads and `loads_above_mps` > 0, the longitudinal acceleration and the
+  /// axle loads are worked only where the speed is at least that, NaN below (the rest as
+  /// before): a study that reads the front share only at speed (a sweep's rows:
+  /// summary_loads_above_mps) skips the model's answers in the slow corners. The loads it fills
+  /// are the full pass's to the model's rounding (its Newton hints go from filled point to
+  /// filled point).
+  const Lap& add_channels(const Envelope& env, const Mesh& mesh, ChannelSet set = ChannelSet::all,
+                          double loads_above_mps = 0.0);
   /// Both passes, as solve_lap: solve_speed, then add_channels.
   const Lap& solve(const Envelope& env, const Mesh& mesh, double start_speed_mps = 0.0);
   /// Both passes for a lap solved once (solve_lap), moved out: solve_speed, then
@@ -194,7 +204,8 @@ class LapSolver {
   /// The speed solve into lap_, its channels left as they were (has_channels false).
   void speed_pass(const Envelope& env, const Mesh& mesh, double start_speed_mps);
   /// The channels pass over the last speed solve, lap_.gear holding the forward sweep's gears.
-  void channels_pass(const Envelope& env, const Mesh& mesh, ChannelSet set = ChannelSet::all);
+  void channels_pass(const Envelope& env, const Mesh& mesh, ChannelSet set = ChannelSet::all,
+                     double loads_above_mps = 0.0);
   /// The second thread of a lap on two, started on first use (nullptr: none yet, or one thread).
   SecondThread* second_thread(std::size_t points);
   Integrator integrator_;

@@ -119,6 +119,15 @@ struct LapSummary {
 LapSummary summarize(const Lap& lap, const Mesh& mesh, const Track& track,
                      const std::vector<CornerSpan>& corners, const Envelope& env);
 
+/// Speed above which the balance summary's lowest front share under drive is read (200 km/h).
+inline constexpr double fast_acceleration_kph = 200.0;
+/// The lowest speed at which summarize reads the axle loads of a lap without the usage
+/// channels (ChannelSet::loads): the lowest front share under drive above
+/// fast_acceleration_kph, and the balance window above its `above` speed. A lap whose loads
+/// are filled from there up (LapSolver::add_channels' `loads_above_mps`) summarises to the same
+/// figures, to the model's rounding.
+double summary_loads_above_mps(const Car& car);
+
 /// A place where the car's data is used beyond its range, as a set of speeds: below or above
 /// a speed table's rows (the end rows' values are held), a ride height off the map (its edge
 /// values are held) or at or below zero, or the top of the envelope's tables (the speed is
