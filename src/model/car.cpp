@@ -11,6 +11,9 @@ namespace {
 
 // The ranges of the car-level values (README, "Car"), which a config may override.
 constexpr Range mass_range{0.0, 1e5, true, false};
+// The drag force's line of action: at most as high as the aero force points may be (3 m, the
+// aero points' z); a height typed in mm as m (420) is refused, not a car that tips.
+constexpr Range drag_height_range{0.0, 3.0};
 constexpr Range inertia_range{0.0, 1.0, false, true};
 
 }  // namespace
@@ -67,7 +70,7 @@ std::optional<Violation> Car::validate_without_configs() const {
       .range("brakes.front_bias", brake_front_bias, open_unit(), Quantity::fraction)
       .part("balance_window",
             [&] { return balance_window ? balance_window->validate() : std::nullopt; })
-      .range("aero.drag_height", drag_height_m, non_negative(), Quantity::length)
+      .range("aero.drag_height", drag_height_m, drag_height_range, Quantity::length)
       .result();
 }
 
@@ -88,7 +91,7 @@ std::optional<Violation> Car::validate_config(std::size_t index) const {
   optional_range("inertia_factor", a.inertia_factor, inertia_range, Quantity::number);
   optional_range("cg_height", a.cg_height_m, positive(), Quantity::length);
   optional_range("front_weight", a.front_weight, open_unit(), Quantity::fraction);
-  optional_range("drag_height", a.drag_height_m, non_negative(), Quantity::length);
+  optional_range("drag_height", a.drag_height_m, drag_height_range, Quantity::length);
   f.rule(!a.cg_height_m || *a.cg_height_m < wheelbase_m, at + ".cg_height",
          "cg_height must be below the wheelbase");
   if (roll && a.cg_height_m)

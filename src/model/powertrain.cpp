@@ -13,12 +13,12 @@ namespace lapwing {
 std::optional<Violation> Powertrain::validate() const {
   FirstViolation f;
   if (ideal) {
-    f.range("constant_power", constant_power_w, positive(), Quantity::power);
+    f.range("constant_power", constant_power_w, power_range, Quantity::power);
   } else {
     const std::string rpm = "torque_curve.rpm", torque = "torque_curve.torque";
     const std::size_t n = engine_radps.size();
     f.each(rpm, engine_radps, positive(), Quantity::engine_speed)
-        .each(torque, torque_nm, non_negative(), Quantity::torque)
+        .each(torque, torque_nm, torque_range, Quantity::torque)
         .rule(n >= 2, rpm, "a curve needs at least 2 points")
         .rule(torque_nm.size() == n, torque,
               [&] {
@@ -31,10 +31,10 @@ std::optional<Violation> Powertrain::validate() const {
         .rule(n < 2 || (rev_limit_radps > engine_radps.front() &&
                         rev_limit_radps <= engine_radps.back() * (1 + 1e-12)),
               "rev_limit", "rev_limit must lie above the curve's first rpm and not beyond its last")
-        .each("gears", gears, positive(), Quantity::number)
+        .each("gears", gears, ratio_range, Quantity::number)
         .rule(!gears.empty(), "gears", "at least one gear is needed")
         .order("gears", gears, false)
-        .range("final_drive", final_drive, positive(), Quantity::number)
+        .range("final_drive", final_drive, ratio_range, Quantity::number)
         .range("shift_time", shift_time_s, Range{0.0, 2.0}, Quantity::time);
   }
   f.range("efficiency", efficiency, Range{0.0, 1.0, true, false}, Quantity::fraction)

@@ -223,7 +223,10 @@ AxleUsage axle_usage(const Envelope& env, const AxleLoads& loads, double fx, dou
   u.rear_fy_n = fy - u.front_fy_n;
   const TransferPerNewton& d = env.transfer();
   auto usage = [&t](double load, double transfer, double fxa, double fya) {
-    if (!(load > 0.0)) return 1e9;  // an unloaded axle cannot carry anything
+    // An axle with no load (lifted, or at 0 to rounding: a rear-driven car's front at the
+    // acceleration that unloads it) asked for nothing uses nothing; asked for a force it cannot
+    // carry it at all: lifted_axle_usage stands for that (the lap's warning says so).
+    if (!(load > 0.0)) return fxa == 0.0 && fya == 0.0 ? 0.0 : lifted_axle_usage;
     const TyreModel::Limits lim = t.axle_limits(load, transfer);
     return t.usage(std::abs(fxa) / lim.fx_max, std::abs(fya) / lim.fy_max);
   };

@@ -60,12 +60,19 @@ std::optional<std::string> over_usage_warning(const Envelope& env, const Lap& la
     if (i + 1 < n) length += 0.5 * (mesh.s_m[i + 1] - mesh.s_m[i]) * (over(i) + over(i + 1));
   }
   if (!(highest > usage_over)) return std::nullopt;
-  char buf[160];
-  std::snprintf(
-      buf, sizeof buf,
-      "the %s axle's usage reaches %.2f at %.0f m, above %.2f on %.1f %% of the lap distance",
-      front ? "front" : "rear", highest, mesh.s_m[worst], usage_over,
-      100.0 * length / mesh.length_m);
+  char buf[200];
+  const char* axle = front ? "front" : "rear";
+  // axle_usage's lifted_axle_usage: an axle asked for force with no load left on it.
+  if (highest >= lifted_axle_usage)
+    std::snprintf(buf, sizeof buf,
+                  "the %s axle is asked for force with no load on it (it would lift; its usage "
+                  "reads 1e9) at %.0f m; usage above %.2f on %.1f %% of the lap distance",
+                  axle, mesh.s_m[worst], usage_over, 100.0 * length / mesh.length_m);
+  else
+    std::snprintf(buf, sizeof buf,
+                  "the %s axle's usage reaches %.2f at %.0f m, above %.2f on %.1f %% of the lap "
+                  "distance",
+                  axle, highest, mesh.s_m[worst], usage_over, 100.0 * length / mesh.length_m);
   std::string text = buf;
   if (env.car().model == VehicleModel::point_mass)
     text +=

@@ -91,7 +91,8 @@ TEST_CASE("a power curve's rule on torque is reported at its power, as written")
   } catch (const InputError& e) {
     CHECK(e.key_path() == "powertrain.power_curve.power[1]");
     CHECK(e.message().rfind("value -", 0) == 0);
-    CHECK(e.message().find(" is out of range: must be >= 0 in SI units") != std::string::npos);
+    CHECK(e.message().find(" is out of range: must be [0, 1000000] in SI units") !=
+          std::string::npos);
   }
   std::remove(path.c_str());
 }

@@ -51,7 +51,7 @@ TEST_CASE("a car names its first bad value by its key path in a car file") {
       {[](Car& c) { c.brake_front_bias = 0.0; },
        "brakes.front_bias: value 0 is out of range: must be (0, 1)"},
       {[](Car& c) { c.drag_height_m = -0.1; },
-       "aero.drag_height: value -0.1 is out of range: must be >= 0 in SI units"},
+       "aero.drag_height: value -0.1 is out of range: must be [0, 3] in SI units"},
       {[](Car& c) { c.configs.front().name = "high downforce"; },
        "aero.configs.high downforce: config name 'high downforce' must use letters, digits, '_' "
        "or '-' only"},

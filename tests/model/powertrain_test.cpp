@@ -129,7 +129,7 @@ TEST_CASE("a powertrain names the first value that breaks a rule (README, \"Car\
       {[](Powertrain& p) { p.engine_radps[0] = 0.0; },
        "torque_curve.rpm[0]: value 0 is out of range: must be > 0 in SI units"},
       {[](Powertrain& p) { p.torque_nm[1] = -1.0; },
-       "torque_curve.torque[1]: value -1 is out of range: must be >= 0 in SI units"},
+       "torque_curve.torque[1]: value -1 is out of range: must be [0, 1000000] in SI units"},
       {[](Powertrain& p) {
          p.engine_radps = {300.0};
          p.torque_nm = {100.0};
@@ -146,14 +146,15 @@ TEST_CASE("a powertrain names the first value that breaks a rule (README, \"Car\
        "rev_limit: value 0 is out of range: must be > 0 in SI units"},
       {[](Powertrain& p) { p.rev_limit_radps = p.engine_radps.back() * 1.01; },
        "rev_limit: rev_limit must lie above the curve's first rpm and not beyond its last"},
-      {[](Powertrain& p) { p.gears = {-1.0}; }, "gears[0]: value -1 is out of range: must be > 0"},
+      {[](Powertrain& p) { p.gears = {-1.0}; },
+       "gears[0]: value -1 is out of range: must be (0, 100]"},
       {[](Powertrain& p) { p.gears.clear(); }, "gears: at least one gear is needed"},
       {[](Powertrain& p) {
          p.gears = {2.0, 3.0};
        },
        "gears: values must be strictly decreasing (item 1: 3 after 2)"},
       {[](Powertrain& p) { p.final_drive = 0.0; },
-       "final_drive: value 0 is out of range: must be > 0"},
+       "final_drive: value 0 is out of range: must be (0, 100]"},
       {[](Powertrain& p) { p.shift_time_s = 3.0; },
        "shift_time: value 3 is out of range: must be [0, 2] in SI units"},
       {[](Powertrain& p) { p.efficiency = 1.5; },
@@ -162,7 +163,7 @@ TEST_CASE("a powertrain names the first value that breaks a rule (README, \"Car\
          p.ideal = true;
          p.constant_power_w = 0.0;
        },
-       "constant_power: value 0 is out of range: must be > 0 in SI units"},
+       "constant_power: value 0 is out of range: must be (0, 100000000] in SI units"},
   };
   for (const Case& c : cases) {
     Powertrain p = good;

@@ -9,6 +9,7 @@
 #include <vector>
 
 #include "lapwing/base/units.hpp"
+#include "lapwing/solve/axle.hpp"
 #include "lapwing/solve/summary.hpp"
 #include "test_support.hpp"
 
@@ -356,4 +357,41 @@ TEST_CASE(
   std::snprintf(share, sizeof share, "above 1.02 on %.1f %% of the lap distance",
                 100.0 * above / mesh.length_m);
   CHECK(w[0].find(share) != std::string::npos);
+}
+
+TEST_CASE("an axle with no load is asked for nothing or warned of: never a number in its place") {
+  // A rear-driven car with a tenth of its weight on the front: under full drive the front
+  // unloads (load transfer m a h / L, Milliken & Milliken, RCVD ch. 18). The axle model holds
+  // the front at the load its lateral force needs (0 on a straight, reached to rounding), where
+  // it carries nothing and uses nothing; the point mass does not know the front lifts, asks it
+  // for force with no load, and the lap says so.
+  const Track track = load_track(test::source_path("tracks/brannock-park.yaml"));
+  const Mesh mesh = build_mesh(track, track.mesh_m);
+  const auto spans = find_corners(mesh);
+  Car car = load_car(test::source_path("cars/pellion-fr2.yaml")).configured(0).car();
+  car.front_weight = 0.1;
+  for (const VehicleModel model : {VehicleModel::axle, VehicleModel::point_mass}) {
+    car.model = model;
+    const Envelope env(test::configured(car), make_air(track.air));
+    const Lap lap = solve_lap(env, mesh);
+    const LapSummary s = summarize(lap, mesh, track, spans, env);
+    double highest = 0.0;
+    std::size_t unloaded = 0;
+    for (std::size_t i = 0; i < mesh.size(); ++i) {
+      highest = std::max({highest, lap.front_usage[i], lap.rear_usage[i]});
+      unloaded += !(lap.front_load_n[i] > 0.0);
+    }
+    bool lifted_warning = false;
+    for (const auto& w : s.warnings)
+      lifted_warning |= w.rfind("the front axle is asked for force with no load on it", 0) == 0;
+    CAPTURE(static_cast<int>(model));
+    CHECK(unloaded > 0);  // the front reaches no load somewhere in both models
+    if (model == VehicleModel::axle) {
+      CHECK(highest <= 1.02);  // README, "Physics and assumptions": within 1 + 0.02
+      CHECK_FALSE(lifted_warning);
+    } else {
+      CHECK(highest == lifted_axle_usage);
+      CHECK(lifted_warning);
+    }
+  }
 }

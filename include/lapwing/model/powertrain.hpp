@@ -33,6 +33,12 @@ struct Powertrain {
   std::optional<double> full_power_altitude_m;  // turbo: rated power up to this ISA altitude
 
   static constexpr Range full_power_altitude_range{0.0, 6000.0};  // m (AirSpec's altitudes)
+  // Bounds far beyond any car's, so that a value typed in the wrong unit or order of magnitude
+  // is refused instead of overflowing the tables (1e307 N m made a car that "cannot move"):
+  // 1 MN m, 100 MW, ratios up to 100.
+  static constexpr Range torque_range{0.0, 1e6};              // N m
+  static constexpr Range power_range{0.0, 1e8, true, false};  // W
+  static constexpr Range ratio_range{0.0, 100.0, true, false};
   /// The first value that breaks a rule that breaks a rule, in the order of a car file's
   /// `powertrain:` (key paths as there; the curve is named torque_curve, whichever form the file
   /// gave).

@@ -20,6 +20,10 @@ namespace lapwing {
 /// road; front F_y l_r / L = F_y f, rear F_y (1 - f)). Usage (Fx/Fx_max)^n + (Fy/Fy_max)^n per
 /// axle, each tyre's mu at its own load: the axle's load shared equally, less and plus the
 /// lateral load transfer (model/loads.hpp) on the inner and outer tyre.
+/// The usage an axle reads when it is asked for force with no load on it (it would lift: only
+/// the point mass, which does not limit each axle, asks that): a lap that reaches it is warned
+/// of (summary.hpp), and the trace carries this value there.
+inline constexpr double lifted_axle_usage = 1e9;
 struct AxleUsage {
   AxleLoads loads;
   double front_fx_n, rear_fx_n, front_fy_n, rear_fy_n;
