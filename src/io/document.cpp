@@ -11,6 +11,7 @@
 #include <sstream>
 
 #include "lapwing/base/text.hpp"
+#include "lapwing/io/input_file.hpp"
 
 namespace lapwing {
 
@@ -46,10 +47,27 @@ class TreeBuilder : public YAML::EventHandler {
     add(std::move(n));
   }
   void OnAlias(const YAML::Mark& mark, YAML::anchor_t) override {
-    throw InputError(file_, to_mark(mark), "YAML aliases are not accepted; write the value out");
+    throw InputError(file_, to_mark(mark), "YAML aliases are not accepted; write the value out",
+                     path());
   }
   void OnAnchor(const YAML::Mark& mark, const std::string&) override {
-    throw InputError(file_, to_mark(mark), "YAML anchors are not accepted; write the value out");
+    throw InputError(file_, to_mark(mark), "YAML anchors are not accepted; write the value out",
+                     path());
+  }
+
+  /// The key path of the value about to be read ("tyres.mu_lat", "segments[2]"; "" the root):
+  /// for an error met while reading it (a duplicate key, an anchor, a syntax error).
+  std::string path() const {
+    std::string p;
+    for (const Frame& f : stack_) {
+      if (f.node.kind == Node::Kind::sequence)
+        p += "[" + std::to_string(f.node.items.size()) + "]";
+      else if (f.has_key)
+        p = join_path(p, f.key);
+      else
+        break;  // a key, not yet a value: the map's own path
+    }
+    return p;
   }
   void OnScalar(const YAML::Mark& mark, const std::string& tag, YAML::anchor_t anchor,
                 const std::string& value) override {
@@ -72,7 +90,7 @@ class TreeBuilder : public YAML::EventHandler {
   }
   void OnMapEnd() override {
     if (stack_.back().has_key)
-      throw InputError(file_, stack_.back().key_mark, "map key without a value");
+      throw InputError(file_, stack_.back().key_mark, "map key without a value", path());
     close();
   }
 
@@ -86,12 +104,13 @@ class TreeBuilder : public YAML::EventHandler {
 
   void check_anchor(const YAML::Mark& mark, YAML::anchor_t anchor) const {
     if (anchor != YAML::NullAnchor)
-      throw InputError(file_, to_mark(mark), "YAML anchors are not accepted; write the value out");
+      throw InputError(file_, to_mark(mark), "YAML anchors are not accepted; write the value out",
+                       path());
   }
   void check_tag(const YAML::Mark& mark, const std::string& tag) const {
     // "?" marks a plain scalar, "!" a quoted one; anything else is an explicit tag.
     if (!tag.empty() && tag != "?" && tag != "!")
-      throw InputError(file_, to_mark(mark), "YAML tags are not accepted ('" + tag + "')");
+      throw InputError(file_, to_mark(mark), "YAML tags are not accepted ('" + tag + "')", path());
   }
   void open(const YAML::Mark& mark, const std::string& tag, YAML::anchor_t anchor,
             Node::Kind kind) {
@@ -119,12 +138,13 @@ class TreeBuilder : public YAML::EventHandler {
     }
     if (!top.has_key) {
       if (n.kind != Node::Kind::scalar)
-        throw InputError(file_, n.mark, "map keys must be plain words");
+        throw InputError(file_, n.mark, "map keys must be plain words", path());
       for (std::size_t i = 0; i < top.node.entries.size(); ++i)
         if (top.node.entries[i].key == n.scalar)
           throw InputError(file_, n.mark,
                            "duplicate key '" + n.scalar + "' (first given at line " +
-                               std::to_string(top.node.key_marks[i].line) + ")");
+                               std::to_string(top.node.key_marks[i].line) + ")",
+                           join_path(path(), n.scalar));
       top.has_key = true;
       top.key = n.scalar;
       top.key_mark = n.mark;
@@ -149,23 +169,34 @@ Document parse_document(const std::string& text, const std::string& file) {
   doc.file = file;
   doc.directory = std::filesystem::path(file).parent_path();
   // Text is UTF-8 (YAML 1.2, 5.2; lapwing's files and outputs are UTF-8): a byte that is not is
-  // refused where it stands, before the parser reads it.
-  if (const auto bad = invalid_utf8_at(text)) {
+  // refused where it stands, before the parser reads it. A NUL byte is valid UTF-8 but no text
+  // file holds one (the parser would stop there and call the file empty): the file is binary.
+  // Whichever comes first is named.
+  const std::size_t nul = text.find('\0');
+  if (const auto bad = invalid_utf8_at(std::string_view(text).substr(0, nul))) {
     const TextPosition at = position_of(text, *bad);
     throw InputError(file, Mark{at.line, at.col}, invalid_utf8_message(text, *bad));
   }
+  if (nul != std::string::npos) {
+    const TextPosition at = position_of(text, nul);
+    throw InputError(file, Mark{at.line, at.col},
+                     "a NUL byte (byte " + std::to_string(nul + 1) + "): not a text file");
+  }
   std::istringstream in(text);
+  TreeBuilder builder(file);
+  TreeBuilder rest(file);
+  const TreeBuilder* reading = &builder;
   try {
     YAML::Parser parser(in);
-    TreeBuilder builder(file);
     if (!parser.HandleNextDocument(builder))
       throw InputError(file, Mark{1, 1}, "the file is empty");
     doc.root = builder.take();
-    TreeBuilder rest(file);
+    reading = &rest;
     if (parser.HandleNextDocument(rest))
       throw InputError(file, rest.start(), "more than one YAML document in the file");
   } catch (const YAML::Exception& e) {
-    throw InputError(file, to_mark(e.mark), "YAML syntax: " + e.msg);
+    // Named by the key whose value was being read (a tab in its indentation, say).
+    throw InputError(file, to_mark(e.mark), "YAML syntax: " + e.msg, reading->path());
   }
   if (doc.root.kind != Node::Kind::map)
     throw InputError(file, doc.root.mark, "the file must be a map of keys");
@@ -173,11 +204,23 @@ Document parse_document(const std::string& text, const std::string& file) {
 }
 
 Document load_document(const std::string& file) {
-  std::ifstream in(file, std::ios::binary);
-  if (!in) throw InputError(file, Mark{}, "cannot open the file");
-  std::ostringstream ss;
-  ss << in.rdbuf();
-  return parse_document(ss.str(), file);
+  std::ifstream in = open_input(file);
+  // Read up to the cap and one byte more: a special file that never ends (/dev/zero, a pipe) is
+  // refused there instead of being read for ever.
+  std::string text;
+  char buffer[1 << 16];
+  while (in.read(buffer, sizeof buffer) || in.gcount() > 0) {
+    const auto got = static_cast<std::size_t>(in.gcount());
+    text.append(buffer, got);
+    // A NUL byte: parse_document refuses the file there; what follows need not be read.
+    if (std::string_view(buffer, got).find('\0') != std::string_view::npos) break;
+    if (text.size() > max_document_bytes)
+      throw InputError(file, Mark{},
+                       "the file is larger than " + mib_text(max_document_bytes) +
+                           " (lapwing's largest car or track file): not a car or track file");
+  }
+  if (in.bad()) throw InputError(file, Mark{}, "cannot read the file");
+  return parse_document(text, file);
 }
 
 std::size_t edit_distance(std::string_view a, std::string_view b) {
