@@ -650,11 +650,11 @@ std::size_t pick_config(const Car& car, const std::string& name) {
       if (starting.size() == 1) near = starting.front();
     }
     // The car file's aero.configs: a command maps it to its line (io/source_map.hpp).
-    throw InvalidInput(car.file,
-                       broken_rule("aero.configs",
-                                   "no config named '" + name + "'" +
-                                       (near.empty() ? "" : "; did you mean '" + near + "'?") +
-                                       " (the car has " + list + ")"));
+    throw InvalidInput(
+        car.file,
+        broken_rule("aero.configs", "no config named '" + name + "'" +
+                                        (near.empty() ? "" : "; did you mean '" + near + "'?") +
+                                        " (the car has " + list + ")"));
   }
   return static_cast<std::size_t>(i);
 }

@@ -69,9 +69,9 @@ bool next_line(std::istream& in, std::string& line, std::size_t& read, const std
   for (int c = buf.sbumpc(); c != std::char_traits<char>::eof(); c = buf.sbumpc()) {
     any = true;
     if (++read > max_data_bytes)
-      throw InputError(file, Mark{n, static_cast<int>(line.size()) + 1},
-                       "the file is larger than " + mib_text(max_data_bytes) +
-                           " (lapwing's largest data file)");
+      throw InputError(
+          file, Mark{n, static_cast<int>(line.size()) + 1},
+          "the file is larger than " + mib_text(max_data_bytes) + " (lapwing's largest data file)");
     if (c == '\n') return true;
     if (c == 0)
       throw InputError(file, Mark{n, static_cast<int>(line.size()) + 1},

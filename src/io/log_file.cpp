@@ -168,8 +168,8 @@ LogTrack track_from_log(const LogOptions& o, const std::string& csv_name) {
           "track");
     return by_yaw ? "check --yaw-unit (" + o.yaw_unit + " now), --speed-unit (" + o.speed_unit +
                         " now) and the columns given"
-                  : "check --accel-unit (" + o.accel_unit + " now), --speed-unit (" +
-                        o.speed_unit + " now) and the columns given";
+                  : "check --accel-unit (" + o.accel_unit + " now), --speed-unit (" + o.speed_unit +
+                        " now) and the columns given";
   };
   // No car corners at more than 8 g: curvature x speed^2 beyond that is a unit read wrong (on
   // the filtered curvature, so that one spiky sample cannot refuse a log).

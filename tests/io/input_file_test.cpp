@@ -1,6 +1,6 @@
-// Input files that cannot be read say why (README, "Output files": one line FILE:LINE:COL: error: WHAT
-// (KEY.PATH)): a missing file with the system's reason, a directory, a binary file, a file with
-// no end; and the YAML reader's own refusals name the key path where they stand.
+// Input files that cannot be read say why (README, "Output files": one line FILE:LINE:COL: error:
+// WHAT (KEY.PATH)): a missing file with the system's reason, a directory, a binary file, a file
+// with no end; and the YAML reader's own refusals name the key path where they stand.
 #include <doctest/doctest.h>
 
 #include <filesystem>
@@ -46,7 +46,8 @@ TEST_CASE("a file that cannot be opened gives the system's reason, without a pos
   std::filesystem::remove(missing);
   // ENOENT's text as glibc's strerror gives it (POSIX names the error; the words are the C
   // library's, as every program on the system prints them).
-  CHECK(load_error(missing) == missing + ": error: cannot open the file: No such file or directory");
+  CHECK(load_error(missing) ==
+        missing + ": error: cannot open the file: No such file or directory");
   CHECK(csv_error(missing) == missing + ": error: cannot open the file: No such file or directory");
   CHECK(unreadable(missing).value_or("") == "cannot open the file: No such file or directory");
 }
@@ -60,13 +61,15 @@ TEST_CASE("a directory is named as one, not read as an empty file") {
 }
 
 TEST_CASE("a NUL byte makes a file binary: refused where it stands, not called empty") {
-  CHECK(parse_error(std::string(3, '\0')) == "x.yaml:1:1: error: a NUL byte (byte 1): not a text file");
+  CHECK(parse_error(std::string(3, '\0')) ==
+        "x.yaml:1:1: error: a NUL byte (byte 1): not a text file");
   CHECK(parse_error(std::string("mass: 640\nname: a\0b\n", 20)) ==
         "x.yaml:2:8: error: a NUL byte (byte 18): not a text file");
   // The first of a byte that is not UTF-8 and a NUL is named.
   CHECK(parse_error(std::string("a: \xE9\0", 5)) ==
         "x.yaml:1:4: error: the text is not valid UTF-8 (byte 0xE9)");
-  const std::string csv = test::scratch_file("input_file_nul.csv", std::string("x_m,y_m\n1,\0\n", 12));
+  const std::string csv =
+      test::scratch_file("input_file_nul.csv", std::string("x_m,y_m\n1,\0\n", 12));
   CHECK(csv_error(csv) == csv + ":2:3: error: a NUL byte (byte 11): not a text file");
 }
 
@@ -99,6 +102,7 @@ TEST_CASE("duplicate keys, anchors, tags and syntax errors name their key path")
   // names the key whose value was being read as well.
   CHECK(parse_error("a: 1\ntyres: {mu_lat: *m}\n") ==
         "x.yaml:2:17: error: YAML syntax: the referenced anchor is not defined (tyres.mu_lat)");
-  CHECK(parse_error("tyres:\n  mu_lat: !!float 1.7\n") ==
-        "x.yaml:2:11: error: YAML tags are not accepted ('tag:yaml.org,2002:float') (tyres.mu_lat)");
+  CHECK(
+      parse_error("tyres:\n  mu_lat: !!float 1.7\n") ==
+      "x.yaml:2:11: error: YAML tags are not accepted ('tag:yaml.org,2002:float') (tyres.mu_lat)");
 }
