@@ -6,6 +6,7 @@
 #include <yaml-cpp/parser.h>
 
 #include <algorithm>
+#include <cctype>
 #include <cmath>
 #include <fstream>
 #include <sstream>
@@ -25,6 +26,50 @@ namespace {
 
 Mark to_mark(const YAML::Mark& m) {
   return Mark{m.line + 1, m.column + 1};
+}
+
+// The key path of block-style line `line` (1-based) read from the indentation of the lines above
+// it: its own key under each less indented "key:" line that opens a map ("tyres:" then "\tmu_long:"
+// is tyres.mu_long). For a syntax error met before the parser has handed over the keys around
+// it (a tab in an indentation); "" where a list or a flow map makes it a guess.
+std::string block_path(const std::string& text, int line) {
+  std::vector<std::string_view> lines;
+  for (std::size_t at = 0; at <= text.size();) {
+    const std::size_t end = std::min(text.find('\n', at), text.size());
+    lines.push_back(std::string_view(text).substr(at, end - at));
+    at = end + 1;
+  }
+  if (line < 1 || static_cast<std::size_t>(line) > lines.size()) return "";
+  // A line's indentation (spaces and tabs) and its key, if it is "key:" or "key: value".
+  const auto split = [](std::string_view l, std::size_t& indent, bool& opens) {
+    indent = l.find_first_not_of(" \t");
+    if (indent == std::string_view::npos) return std::string_view();
+    const std::string_view rest = l.substr(indent);
+    const std::size_t colon = rest.find(':');
+    if (colon == 0 || colon == std::string_view::npos) return std::string_view();
+    const std::string_view key = rest.substr(0, colon);
+    for (char c : key)
+      if (!(std::isalnum(static_cast<unsigned char>(c)) || c == '_')) return std::string_view();
+    const std::size_t value = rest.find_first_not_of(" \t\r", colon + 1);
+    opens = value == std::string_view::npos || rest[value] == '#';
+    return key;
+  };
+  std::size_t indent = 0;
+  bool opens = false;
+  std::string path(split(lines[static_cast<std::size_t>(line) - 1], indent, opens));
+  if (path.empty()) return "";
+  for (std::size_t i = static_cast<std::size_t>(line) - 1; i-- > 0 && indent > 0;) {
+    std::size_t at = 0;
+    const std::string_view l = lines[i];
+    const std::size_t first = l.find_first_not_of(" \t\r");
+    if (first == std::string_view::npos || l[first] == '#') continue;  // blank or a comment
+    const std::string_view key = split(l, at, opens);
+    if (at >= indent) continue;
+    if (key.empty() || !opens) return "";  // a list item, a flow map: not a plain block map
+    path = std::string(key) + "." + path;
+    indent = at;
+  }
+  return indent == 0 ? path : "";
 }
 
 // Builds a Node tree from parser events, refusing what lapwing's formats do not use.
@@ -195,8 +240,26 @@ Document parse_document(const std::string& text, const std::string& file) {
     if (parser.HandleNextDocument(rest))
       throw InputError(file, rest.start(), "more than one YAML document in the file");
   } catch (const YAML::Exception& e) {
-    // Named by the key whose value was being read (a tab in its indentation, say).
-    throw InputError(file, to_mark(e.mark), "YAML syntax: " + e.msg, reading->path());
+    // Named by the key whose value was being read; else by the indentation around the error
+    // (the parser reads ahead: a tab in an indentation is met before the key above is handed
+    // over).
+    std::string path = reading->path();
+    if (path.empty()) path = block_path(text, e.mark.line + 1);
+    // A tab in the line's indentation is the likely cause (YAML 1.2, 6.1: tabs must not indent).
+    std::string tab;
+    {
+      std::size_t at = 0;
+      for (int l = 0; l < e.mark.line && at != std::string::npos; ++l) {
+        at = text.find('\n', at);
+        if (at != std::string::npos) ++at;
+      }
+      if (at != std::string::npos) {
+        const std::size_t first = text.find_first_not_of(" \t", at);
+        if (text.find('\t', at) < std::min(first, text.size()))
+          tab = "; the line is indented with a tab (YAML indents with spaces)";
+      }
+    }
+    throw InputError(file, to_mark(e.mark), "YAML syntax: " + e.msg + tab, path);
   }
   if (doc.root.kind != Node::Kind::map)
     throw InputError(file, doc.root.mark, "the file must be a map of keys");

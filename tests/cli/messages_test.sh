@@ -55,7 +55,7 @@ printf 'format: 1\nname: "S"\nclosed: false\ncurvature: {file: nowhere.csv}\n' >
 expect 2 "$tmp/t/missing.yaml:4:19: error: $tmp/t/nowhere.csv: cannot open the file: No such file or directory (curvature.file)" \
   run --car $car --track "$tmp/t/missing.yaml"
 
-# 3. Duplicate keys and anchors name their key path.
+# 3. Duplicate keys, anchors and a tab in an indentation name their key path.
 sed 's/^  mu_lat: 1.70$/&\n  mu_lat: 1.70/' $car > "$tmp/dup.yaml"
 line=$(grep -n "^  mu_lat" "$tmp/dup.yaml" | tail -n 1 | cut -d: -f1)
 expect 2 "$tmp/dup.yaml:$line:3: error: duplicate key 'mu_lat' (first given at line $((line - 1))) (tyres.mu_lat)" \
@@ -64,6 +64,10 @@ sed 's/^mass: 640 kg/mass: \&m 640 kg/' $car > "$tmp/anchor.yaml"
 line=$(grep -n "^mass:" "$tmp/anchor.yaml" | cut -d: -f1)
 expect 2 "$tmp/anchor.yaml:$line:7: error: YAML anchors are not accepted; write the value out (mass)" \
   run --car "$tmp/anchor.yaml" --track $track
+sed 's/^  mu_long: 1.55$/\tmu_long: 1.55/' $car > "$tmp/tab.yaml"
+line=$(grep -n "mu_long" "$tmp/tab.yaml" | cut -d: -f1)
+expect 2 "$tmp/tab.yaml:$line:9: error: YAML syntax: illegal map value; the line is indented with a tab (YAML indents with spaces) (tyres.mu_long)" \
+  run --car "$tmp/tab.yaml" --track $track
 
 # 4. --config of no config: at the car file's aero.configs, the suggestion case-insensitive.
 at=$(grep -n "^  configs:" $car | cut -d: -f1)

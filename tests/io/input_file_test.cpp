@@ -105,4 +105,10 @@ TEST_CASE("duplicate keys, anchors, tags and syntax errors name their key path")
   CHECK(
       parse_error("tyres:\n  mu_lat: !!float 1.7\n") ==
       "x.yaml:2:11: error: YAML tags are not accepted ('tag:yaml.org,2002:float') (tyres.mu_lat)");
+  // A tab in an indentation is met before the parser hands over the key above it: the path
+  // comes from the indentation, and the tab is named (YAML 1.2, 6.1, from memory: tabs do not
+  // indent).
+  CHECK(parse_error("mass: 640\ntyres:\n\tmu_long: 1.55\n  mu_lat: 1.70\n") ==
+        "x.yaml:3:9: error: YAML syntax: illegal map value; the line is indented with a tab (YAML "
+        "indents with spaces) (tyres.mu_long)");
 }
