@@ -115,6 +115,21 @@ std::optional<double> option_value(const std::string& text, const char* option, 
   return v;
 }
 
+// The air of a track's own values with the options' in their place. Where the options made it
+// impossible (water vapour above the air's pressure), the options are named; an impossible air
+// of the track file's own values is the file's error, at its place.
+Air air_of(const AirSpec& track_air, const AirOverride& o) {
+  try {
+    return make_air(apply(track_air, o));
+  } catch (const InvalidInput& e) {
+    if (!(o.altitude_m || o.temperature_k || o.pressure_pa || o.humidity)) throw;
+    throw UsageError{
+        "the air the options --altitude, --temperature, --pressure and --humidity "
+        "give (the track's own values for the rest): " +
+        e.message()};
+  }
+}
+
 AirOverride parse_air(const AirOptions& o) {
   return {option_value(o.altitude, "--altitude", Quantity::length, AirSpec::altitude_range),
           option_value(o.temperature, "--temperature", Quantity::temperature,
@@ -146,7 +161,7 @@ class Inputs {
   };
   Loaded load(const std::string& file, const AirOverride& air) {
     Track t = track(file);
-    const Air a = make_air(apply(t.air, air));
+    const Air a = air_of(t.air, air);
     return {std::move(t), a};
   }
   Circuit lay_out(const std::string& file, const AirOverride& air) {
@@ -317,7 +332,7 @@ int check(const CheckOptions& o, Inputs& in) {
   const Car car = in.car(o.car);
   const std::vector<Circuit> tracks = in.lay_out_all(o.tracks, air);
   // The car's own figures in ISO 2533 sea-level air, or in the air the options give.
-  const CheckSummary summary = check_summary(car, tracks, make_air(apply(AirSpec{}, air)));
+  const CheckSummary summary = check_summary(car, tracks, air_of(AirSpec{}, air));
   // Bad input a lap found is worded at its place in the file that gave it.
   const std::string out = check_text(car, tracks, summary,
                                      [&](const InvalidInput& e) { return in.error(e).message(); });
@@ -841,7 +856,7 @@ int track_line(const TrackLineOptions& o, Inputs& in) {
     spec.margin_m = *m;
   spec.method = min_time ? LineSpec::Method::min_time : LineSpec::Method::min_curvature;
   const AirSpec air_spec = apply(track.air, air);
-  const Air a = make_air(air_spec);
+  const Air a = air_of(track.air, air);
   // The line is laid over the described path (a line: key of the source is replaced).
   Track described = track;
   described.line.reset();

@@ -51,11 +51,22 @@ std::optional<std::string> check_command_line(CLI::App& app, int argc, char** ar
     at = subs[static_cast<std::size_t>(it - names.begin())];
     path += word + " ";
   }
-  // Options of the command that take one value, given more than once.
+  // Options of the command that take one value, given more than once; and any option given an
+  // empty value ("--out ''", "--json=": a script's unset variable), which the parser would take
+  // as not given at all: the output would silently not be written.
   std::vector<std::pair<std::string, int>> counts;
   for (; i < argc; ++i) {
     std::string word = argv[i];
     if (word.rfind("--", 0) != 0) continue;
+    {
+      const std::size_t eq = word.find('=');
+      const std::string name = word.substr(0, eq);
+      const CLI::Option* opt = at->get_option_no_throw(name);
+      const bool takes_value = opt && opt->get_items_expected_max() >= 1;
+      const bool empty = eq != std::string::npos ? eq + 1 == word.size()
+                                                 : (takes_value && i + 1 < argc && argv[i + 1][0] == '\0');
+      if (takes_value && empty) return name + " is given an empty value";
+    }
     word = word.substr(0, word.find('='));
     const CLI::Option* opt = at->get_option_no_throw(word);
     if (!opt || opt->get_items_expected_max() != 1) continue;

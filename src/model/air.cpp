@@ -2,6 +2,8 @@
 
 #include <cassert>
 #include <cmath>
+#include <cstdio>
+#include <string>
 
 #include "lapwing/base/error.hpp"
 #include "lapwing/base/units.hpp"
@@ -38,7 +40,26 @@ std::optional<Violation> AirSpec::validate() const {
   if (temperature_k)
     f.range("ambient.temperature", *temperature_k, temperature_range, Quantity::temperature);
   if (pressure_pa) f.range("ambient.pressure", *pressure_pa, pressure_range, Quantity::pressure);
-  return f.range("ambient.humidity", relative_humidity, humidity_range, Quantity::fraction)
+  f.range("ambient.humidity", relative_humidity, humidity_range, Quantity::fraction);
+  if (f.found() || relative_humidity == 0.0) return f.result();
+  // The water vapour's pressure is part of the air's: at 100 % and 70 C it is 312 hPa, more
+  // than the whole air's at 300 hPa. Such air does not exist (its dry part would be negative,
+  // and the engine's correction with it).
+  const StandardAtmosphere isa = standard_atmosphere(altitude_m);
+  const double t = temperature_k.value_or(isa.temperature_k);
+  const double p = pressure_pa.value_or(isa.pressure_pa);
+  const double e = relative_humidity * saturation_vapour_pressure_pa(t);
+  return f
+      .rule(e < p, "ambient.humidity",
+            [&] {
+              char buf[200];
+              std::snprintf(buf, sizeof buf,
+                            "the water vapour at %.0f %% humidity and %.1f C (%.0f hPa) is not "
+                            "below the air's pressure (%.0f hPa): no such air",
+                            100.0 * relative_humidity, t - units::celsius_zero_k, e / 100.0,
+                            p / 100.0);
+              return std::string(buf);
+            })
       .result();
 }
 

@@ -5,6 +5,7 @@
 #include <algorithm>
 #include <cctype>
 #include <charconv>
+#include <cmath>
 #include <chrono>
 #include <limits>
 #include <random>
@@ -39,7 +40,8 @@ std::optional<NumberText> split_number(std::string_view text) {
   const char* first = text.data();
   if (!text.empty() && text.front() == '+') ++first;
   const auto [end, ec] = std::from_chars(first, text.data() + text.size(), v);
-  if (ec != std::errc() || end == first) return std::nullopt;
+  // from_chars reads "nan" and "inf" too: not a value any key takes (a car file refuses them).
+  if (ec != std::errc() || end == first || !std::isfinite(v)) return std::nullopt;
   const std::string_view unit = trim(text.substr(static_cast<std::size_t>(end - text.data())));
   // A unit is a word (letters, digits, '/', '%', '^'); "1.5.2" is not a number with a unit.
   if (!unit.empty() &&

@@ -303,6 +303,14 @@ expect_error "lapwing: error: --track is given 2 times; run laps one track (comp
 ! grep -q "At Most" "$tmp/stderr" && ok || bad "the parser library's words for --track twice"
 expect_error "lapwing: error: --car is given 2 times; check takes one" \
   check --car cars/caldra-gt.yaml --car=cars/pellion-fr2.yaml
+# An empty value (a script's unset variable) is not "not given": the output would silently not
+# be written.
+expect_error "lapwing: error: --out is given an empty value" \
+  run --car cars/caldra-gt.yaml --track tracks/skidpad.yaml --out ""
+expect_error "lapwing: error: --json is given an empty value" check --car cars/caldra-gt.yaml --json=
+# Air that cannot be (water vapour above the air's own pressure) from the options: named as theirs.
+expect_error "--humidity give (the track's own values for the rest): the water vapour at 100 % humidity and 70.0 C (314 hPa) is not below the air's pressure (300 hPa): no such air" \
+  run --car cars/caldra-gt.yaml --track tracks/skidpad.yaml --temperature "70 C" --pressure "300 hPa" --humidity "100 %"
 expect_error "lapwing: error: --step: 2 is out of range ([0.1, 50] %); did you mean 2 %?" \
   trade --car cars/caldra-gt.yaml --track tracks/skidpad.yaml --step 2
 expect_error "--humidity: 60 is out of range ([0, 100] %); did you mean 60 %?" \

@@ -159,6 +159,10 @@ expect_refused "one unit" --set mass=600kg:0.7t:3
 expect_refused "no config named 'hihg'" --set mass=600,610 --config hihg
 expect_refused "lhs:N" --set mass=600:610 --design lhs
 expect_refused "1 <= K <= N" --set mass=600,610 --shard 4/3
+# Not-a-number and infinity are no value of any key (as in a car file), in a list or a range.
+expect_refused "--set mass=nan,600: at nan: 'nan' is not a finite number (mass)" --set mass=nan,600
+expect_refused "'inf' is not a finite number (tyres.mu_lat)" --set tyres.mu_lat=inf
+expect_refused "range stop 'nan' is not a number (mass)" --set mass=600:nan:3
 
 # 5. A family at a measured setting is that config: the same lap time as `run --config flap17`.
 "$bin" sweep --car "$car" --track tracks/cairnholt.yaml --set front_flap=7deg:22deg:4 \

@@ -66,3 +66,28 @@ TEST_CASE("air outside the troposphere's circuits is refused by name (README, \"
           "air: error: value 1.5 is out of range: must be [0, 1] (ambient.humidity)");
   }
 }
+
+TEST_CASE("air whose water vapour would exceed its pressure is refused (Magnus, WMO Guide 4.B)") {
+  // e_s(70 C) = 611.2 exp(17.62 x 70 / (243.12 + 70)) = 31,398 Pa (worked by hand from the
+  // Magnus form the project uses): at 100 % humidity the air's pressure must exceed it.
+  AirSpec a;
+  a.temperature_k = 343.15;
+  a.relative_humidity = 1.0;
+  a.pressure_pa = 31300.0;
+  CHECK(test::describe(a.validate()) ==
+        "ambient.humidity: the water vapour at 100 % humidity and 70.0 C (314 hPa) is not below "
+        "the air's pressure (313 hPa): no such air");
+  a.pressure_pa = 31500.0;
+  CHECK(test::describe(a.validate()) == "none");
+  CHECK(make_air(a).density_kg_m3 > 0.0);
+  // Half the humidity halves the vapour: 157 hPa under the same 313 hPa is air.
+  a.pressure_pa = 31300.0;
+  a.relative_humidity = 0.5;
+  CHECK(test::describe(a.validate()) == "none");
+  // The pressure from the standard atmosphere where none is given: 6000 m (472 hPa) at 70 C
+  // and 100 % is still air; the rule reads the same pressure make_air uses.
+  a.pressure_pa.reset();
+  a.altitude_m = 6000.0;
+  a.relative_humidity = 1.0;
+  CHECK(test::describe(a.validate()) == "none");
+}
