@@ -48,6 +48,7 @@
 #include "lapwing/io/csv.hpp"
 #include "lapwing/io/csv_writer.hpp"
 #include "lapwing/io/document.hpp"
+#include "lapwing/io/input_file.hpp"
 #include "lapwing/io/json.hpp"
 #include "lapwing/io/line_track.hpp"
 #include "lapwing/io/log_file.hpp"

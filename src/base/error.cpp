@@ -39,4 +39,11 @@ void require_valid(const std::optional<Violation>& v, const std::string& subject
   if (v) throw InvalidInput(subject, *v);
 }
 
+CannotMove cannot_move_in(const CannotMove& e, const std::string& track_name,
+                          const std::string& track_file, const std::string& config) {
+  std::ostringstream os;
+  os << "track " << track_name << " (" << track_file << "), config " << config << ": " << e.what();
+  return CannotMove(os.str());
+}
+
 }  // namespace lapwing

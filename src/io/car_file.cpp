@@ -630,19 +630,31 @@ std::size_t pick_config(const Car& car, const std::string& name) {
     const std::vector<std::string> names = car.config_names();
     std::string list;
     for (const auto& n : names) list += (list.empty() ? "" : ", ") + n;
-    // The nearest name by spelling, else the one name that starts with what was typed.
-    std::string near = closest(name, names);
+    // The nearest name by spelling, case aside ('LOW' for 'low'), else the one name that starts
+    // with what was typed.
+    const auto lower = [](std::string s) {
+      for (char& c : s)
+        if (c >= 'A' && c <= 'Z') c = static_cast<char>(c - 'A' + 'a');
+      return s;
+    };
+    std::vector<std::string> lowered;
+    for (const auto& n : names) lowered.push_back(lower(n));
+    std::string near;
+    if (const std::string l = closest(lower(name), lowered); !l.empty())
+      near = names[static_cast<std::size_t>(std::find(lowered.begin(), lowered.end(), l) -
+                                            lowered.begin())];
     if (near.empty()) {
       std::vector<std::string> starting;
-      for (const auto& n : names)
-        if (n.rfind(name, 0) == 0) starting.push_back(n);
+      for (std::size_t k = 0; k < names.size(); ++k)
+        if (lowered[k].rfind(lower(name), 0) == 0) starting.push_back(names[k]);
       if (starting.size() == 1) near = starting.front();
     }
-    throw InputError(car.file, Mark{},
-                     "no config named '" + name + "'" +
-                         (near.empty() ? "" : "; did you mean '" + near + "'?") + " (the car has " +
-                         list + ")",
-                     "aero.configs");
+    // The car file's aero.configs: a command maps it to its line (io/source_map.hpp).
+    throw InvalidInput(
+        car.file,
+        broken_rule("aero.configs", "no config named '" + name + "'" +
+                                        (near.empty() ? "" : "; did you mean '" + near + "'?") +
+                                        " (the car has " + list + ")"));
   }
   return static_cast<std::size_t>(i);
 }

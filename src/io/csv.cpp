@@ -5,6 +5,7 @@
 #include "lapwing/base/error.hpp"
 #include "lapwing/base/text.hpp"
 #include "lapwing/base/units.hpp"
+#include "lapwing/io/input_file.hpp"
 
 namespace lapwing {
 
@@ -56,11 +57,37 @@ bool looks_like_header(const std::string& text, std::size_t fields) {
   }
   return true;
 }
+// The next line of `in` into `line` (without its '\n'); false at the end of the file. Read byte
+// by byte from the stream's buffer, so that a NUL byte (a binary file), a line longer than
+// max_line_bytes or a file beyond max_data_bytes is refused as soon as it is met: a file with no
+// line ends (/dev/zero) or no end (a pipe) is not read for ever. `read` counts the bytes so far.
+bool next_line(std::istream& in, std::string& line, std::size_t& read, const std::string& file,
+               int n) {
+  line.clear();
+  std::streambuf& buf = *in.rdbuf();
+  bool any = false;
+  for (int c = buf.sbumpc(); c != std::char_traits<char>::eof(); c = buf.sbumpc()) {
+    any = true;
+    if (++read > max_data_bytes)
+      throw InputError(
+          file, Mark{n, static_cast<int>(line.size()) + 1},
+          "the file is larger than " + mib_text(max_data_bytes) + " (lapwing's largest data file)");
+    if (c == '\n') return true;
+    if (c == 0)
+      throw InputError(file, Mark{n, static_cast<int>(line.size()) + 1},
+                       "a NUL byte (byte " + std::to_string(read) + "): not a text file");
+    if (line.size() >= max_line_bytes)
+      throw InputError(file, Mark{n, 1},
+                       "the line is longer than " + mib_text(max_line_bytes) +
+                           " (lapwing's longest CSV row): not a CSV file of numbers");
+    line.push_back(static_cast<char>(c));
+  }
+  return any;
+}
 }  // namespace
 
 CsvTable read_csv(const std::string& file, std::size_t min_rows) {
-  std::ifstream in(file, std::ios::binary);
-  if (!in) throw InputError(file, Mark{}, "cannot open the file");
+  std::ifstream in = open_input(file);
   CsvTable t;
   t.file = file;
   std::string line;
@@ -70,7 +97,8 @@ CsvTable read_csv(const std::string& file, std::size_t min_rows) {
   // numbers, a comment that reads like a header is the likely one ('#x_m,y_m').
   std::string last_comment;
   int last_comment_line = 0;
-  while (std::getline(in, line)) {
+  std::size_t read = 0;
+  while (next_line(in, line, read, file, n + 1)) {
     ++n;
     if (!line.empty() && line.back() == '\r') line.pop_back();
     int bom = 0;  // bytes of a BOM taken off the line (columns count from the file's first byte)

@@ -6,11 +6,13 @@
 #include <yaml-cpp/parser.h>
 
 #include <algorithm>
+#include <cctype>
 #include <cmath>
 #include <fstream>
 #include <sstream>
 
 #include "lapwing/base/text.hpp"
+#include "lapwing/io/input_file.hpp"
 
 namespace lapwing {
 
@@ -24,6 +26,50 @@ namespace {
 
 Mark to_mark(const YAML::Mark& m) {
   return Mark{m.line + 1, m.column + 1};
+}
+
+// The key path of block-style line `line` (1-based) read from the indentation of the lines above
+// it: its own key under each less indented "key:" line that opens a map ("tyres:" then "\tmu_long:"
+// is tyres.mu_long). For a syntax error met before the parser has handed over the keys around
+// it (a tab in an indentation); "" where a list or a flow map makes it a guess.
+std::string block_path(const std::string& text, int line) {
+  std::vector<std::string_view> lines;
+  for (std::size_t at = 0; at <= text.size();) {
+    const std::size_t end = std::min(text.find('\n', at), text.size());
+    lines.push_back(std::string_view(text).substr(at, end - at));
+    at = end + 1;
+  }
+  if (line < 1 || static_cast<std::size_t>(line) > lines.size()) return "";
+  // A line's indentation (spaces and tabs) and its key, if it is "key:" or "key: value".
+  const auto split = [](std::string_view l, std::size_t& indent, bool& opens) {
+    indent = l.find_first_not_of(" \t");
+    if (indent == std::string_view::npos) return std::string_view();
+    const std::string_view rest = l.substr(indent);
+    const std::size_t colon = rest.find(':');
+    if (colon == 0 || colon == std::string_view::npos) return std::string_view();
+    const std::string_view key = rest.substr(0, colon);
+    for (char c : key)
+      if (!(std::isalnum(static_cast<unsigned char>(c)) || c == '_')) return std::string_view();
+    const std::size_t value = rest.find_first_not_of(" \t\r", colon + 1);
+    opens = value == std::string_view::npos || rest[value] == '#';
+    return key;
+  };
+  std::size_t indent = 0;
+  bool opens = false;
+  std::string path(split(lines[static_cast<std::size_t>(line) - 1], indent, opens));
+  if (path.empty()) return "";
+  for (std::size_t i = static_cast<std::size_t>(line) - 1; i-- > 0 && indent > 0;) {
+    std::size_t at = 0;
+    const std::string_view l = lines[i];
+    const std::size_t first = l.find_first_not_of(" \t\r");
+    if (first == std::string_view::npos || l[first] == '#') continue;  // blank or a comment
+    const std::string_view key = split(l, at, opens);
+    if (at >= indent) continue;
+    if (key.empty() || !opens) return "";  // a list item, a flow map: not a plain block map
+    path = std::string(key) + "." + path;
+    indent = at;
+  }
+  return indent == 0 ? path : "";
 }
 
 // Builds a Node tree from parser events, refusing what lapwing's formats do not use.
@@ -46,10 +92,27 @@ class TreeBuilder : public YAML::EventHandler {
     add(std::move(n));
   }
   void OnAlias(const YAML::Mark& mark, YAML::anchor_t) override {
-    throw InputError(file_, to_mark(mark), "YAML aliases are not accepted; write the value out");
+    throw InputError(file_, to_mark(mark), "YAML aliases are not accepted; write the value out",
+                     path());
   }
   void OnAnchor(const YAML::Mark& mark, const std::string&) override {
-    throw InputError(file_, to_mark(mark), "YAML anchors are not accepted; write the value out");
+    throw InputError(file_, to_mark(mark), "YAML anchors are not accepted; write the value out",
+                     path());
+  }
+
+  /// The key path of the value about to be read ("tyres.mu_lat", "segments[2]"; "" the root):
+  /// for an error met while reading it (a duplicate key, an anchor, a syntax error).
+  std::string path() const {
+    std::string p;
+    for (const Frame& f : stack_) {
+      if (f.node.kind == Node::Kind::sequence)
+        p += "[" + std::to_string(f.node.items.size()) + "]";
+      else if (f.has_key)
+        p = join_path(p, f.key);
+      else
+        break;  // a key, not yet a value: the map's own path
+    }
+    return p;
   }
   void OnScalar(const YAML::Mark& mark, const std::string& tag, YAML::anchor_t anchor,
                 const std::string& value) override {
@@ -72,7 +135,7 @@ class TreeBuilder : public YAML::EventHandler {
   }
   void OnMapEnd() override {
     if (stack_.back().has_key)
-      throw InputError(file_, stack_.back().key_mark, "map key without a value");
+      throw InputError(file_, stack_.back().key_mark, "map key without a value", path());
     close();
   }
 
@@ -86,12 +149,13 @@ class TreeBuilder : public YAML::EventHandler {
 
   void check_anchor(const YAML::Mark& mark, YAML::anchor_t anchor) const {
     if (anchor != YAML::NullAnchor)
-      throw InputError(file_, to_mark(mark), "YAML anchors are not accepted; write the value out");
+      throw InputError(file_, to_mark(mark), "YAML anchors are not accepted; write the value out",
+                       path());
   }
   void check_tag(const YAML::Mark& mark, const std::string& tag) const {
     // "?" marks a plain scalar, "!" a quoted one; anything else is an explicit tag.
     if (!tag.empty() && tag != "?" && tag != "!")
-      throw InputError(file_, to_mark(mark), "YAML tags are not accepted ('" + tag + "')");
+      throw InputError(file_, to_mark(mark), "YAML tags are not accepted ('" + tag + "')", path());
   }
   void open(const YAML::Mark& mark, const std::string& tag, YAML::anchor_t anchor,
             Node::Kind kind) {
@@ -119,12 +183,13 @@ class TreeBuilder : public YAML::EventHandler {
     }
     if (!top.has_key) {
       if (n.kind != Node::Kind::scalar)
-        throw InputError(file_, n.mark, "map keys must be plain words");
+        throw InputError(file_, n.mark, "map keys must be plain words", path());
       for (std::size_t i = 0; i < top.node.entries.size(); ++i)
         if (top.node.entries[i].key == n.scalar)
           throw InputError(file_, n.mark,
                            "duplicate key '" + n.scalar + "' (first given at line " +
-                               std::to_string(top.node.key_marks[i].line) + ")");
+                               std::to_string(top.node.key_marks[i].line) + ")",
+                           join_path(path(), n.scalar));
       top.has_key = true;
       top.key = n.scalar;
       top.key_mark = n.mark;
@@ -149,23 +214,52 @@ Document parse_document(const std::string& text, const std::string& file) {
   doc.file = file;
   doc.directory = std::filesystem::path(file).parent_path();
   // Text is UTF-8 (YAML 1.2, 5.2; lapwing's files and outputs are UTF-8): a byte that is not is
-  // refused where it stands, before the parser reads it.
-  if (const auto bad = invalid_utf8_at(text)) {
+  // refused where it stands, before the parser reads it. A NUL byte is valid UTF-8 but no text
+  // file holds one (the parser would stop there and call the file empty): the file is binary.
+  // Whichever comes first is named.
+  const std::size_t nul = text.find('\0');
+  if (const auto bad = invalid_utf8_at(std::string_view(text).substr(0, nul))) {
     const TextPosition at = position_of(text, *bad);
     throw InputError(file, Mark{at.line, at.col}, invalid_utf8_message(text, *bad));
   }
+  if (nul != std::string::npos) {
+    const TextPosition at = position_of(text, nul);
+    throw InputError(file, Mark{at.line, at.col},
+                     "a NUL byte (byte " + std::to_string(nul + 1) + "): not a text file");
+  }
   std::istringstream in(text);
+  TreeBuilder builder(file);
+  TreeBuilder rest(file);
+  const TreeBuilder* reading = &builder;
   try {
     YAML::Parser parser(in);
-    TreeBuilder builder(file);
     if (!parser.HandleNextDocument(builder))
       throw InputError(file, Mark{1, 1}, "the file is empty");
     doc.root = builder.take();
-    TreeBuilder rest(file);
+    reading = &rest;
     if (parser.HandleNextDocument(rest))
       throw InputError(file, rest.start(), "more than one YAML document in the file");
   } catch (const YAML::Exception& e) {
-    throw InputError(file, to_mark(e.mark), "YAML syntax: " + e.msg);
+    // Named by the key whose value was being read; else by the indentation around the error
+    // (the parser reads ahead: a tab in an indentation is met before the key above is handed
+    // over).
+    std::string path = reading->path();
+    if (path.empty()) path = block_path(text, e.mark.line + 1);
+    // A tab in the line's indentation is the likely cause (YAML 1.2, 6.1: tabs must not indent).
+    std::string tab;
+    {
+      std::size_t at = 0;
+      for (int l = 0; l < e.mark.line && at != std::string::npos; ++l) {
+        at = text.find('\n', at);
+        if (at != std::string::npos) ++at;
+      }
+      if (at != std::string::npos) {
+        const std::size_t first = text.find_first_not_of(" \t", at);
+        if (text.find('\t', at) < std::min(first, text.size()))
+          tab = "; the line is indented with a tab (YAML indents with spaces)";
+      }
+    }
+    throw InputError(file, to_mark(e.mark), "YAML syntax: " + e.msg + tab, path);
   }
   if (doc.root.kind != Node::Kind::map)
     throw InputError(file, doc.root.mark, "the file must be a map of keys");
@@ -173,11 +267,23 @@ Document parse_document(const std::string& text, const std::string& file) {
 }
 
 Document load_document(const std::string& file) {
-  std::ifstream in(file, std::ios::binary);
-  if (!in) throw InputError(file, Mark{}, "cannot open the file");
-  std::ostringstream ss;
-  ss << in.rdbuf();
-  return parse_document(ss.str(), file);
+  std::ifstream in = open_input(file);
+  // Read up to the cap and one byte more: a special file that never ends (/dev/zero, a pipe) is
+  // refused there instead of being read for ever.
+  std::string text;
+  char buffer[1 << 16];
+  while (in.read(buffer, sizeof buffer) || in.gcount() > 0) {
+    const auto got = static_cast<std::size_t>(in.gcount());
+    text.append(buffer, got);
+    // A NUL byte: parse_document refuses the file there; what follows need not be read.
+    if (std::string_view(buffer, got).find('\0') != std::string_view::npos) break;
+    if (text.size() > max_document_bytes)
+      throw InputError(file, Mark{},
+                       "the file is larger than " + mib_text(max_document_bytes) +
+                           " (lapwing's largest car or track file): not a car or track file");
+  }
+  if (in.bad()) throw InputError(file, Mark{}, "cannot read the file");
+  return parse_document(text, file);
 }
 
 std::size_t edit_distance(std::string_view a, std::string_view b) {

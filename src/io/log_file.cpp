@@ -1,5 +1,6 @@
 #include "lapwing/io/log_file.hpp"
 
+#include <cmath>
 #include <cstdio>
 #include <filesystem>
 #include <sstream>
@@ -150,6 +151,26 @@ LogTrack track_from_log(const LogOptions& o, const std::string& csv_name) {
              " times too small: if the log is in " + larger + ", give " + option + " " + larger;
     return hint + "; else check --speed-unit (" + o.speed_unit + " now) and the columns given";
   };
+  // The turns a lap adds up to say which: a unit read wrong scales them all, so a lap of one
+  // turn reads about 9.81 (57.3 for a yaw rate) times one turn, or that part of one; near a
+  // whole number the units are right and the gap is the log's own (within a factor of 1.5 of
+  // each: 3.6^2 = 13 turns, a speed in km/h read as m/s with a yaw rate, is none of them).
+  auto closure_hint = [&](double turns) {
+    const double factor = by_yaw ? 57.3 : 9.81;
+    const auto about = [](double x, double target) { return x > target / 1.5 && x < target * 1.5; };
+    if (about(turns, factor)) return unit_hint(true);
+    if (about(turns, 1.0 / factor)) return unit_hint(false);
+    if (turns >= 0.5 && std::abs(turns - std::round(turns)) < 0.1)
+      return std::string(
+          "the turns are close to a whole number, so the units look right: the log may not start "
+          "and end at the same place (a lap cut before or after the line), or its distance may "
+          "read long or short; give a log from line to line, or leave out --closed for an open "
+          "track");
+    return by_yaw ? "check --yaw-unit (" + o.yaw_unit + " now), --speed-unit (" + o.speed_unit +
+                        " now) and the columns given"
+                  : "check --accel-unit (" + o.accel_unit + " now), --speed-unit (" + o.speed_unit +
+                        " now) and the columns given";
+  };
   // No car corners at more than 8 g: curvature x speed^2 beyond that is a unit read wrong (on
   // the filtered curvature, so that one spiky sample cannot refuse a log).
   if (lc.peak_lateral_g > log_max_lateral_g) {
@@ -168,9 +189,7 @@ LogTrack track_from_log(const LogOptions& o, const std::string& csv_name) {
     os << "the lap does not close: with its heading closed its end is " << lc.closure_gap_m
        << " m from its start, more than " << 100 * log_max_closure_fraction << " % of the lap's "
        << lc.length_m << " m (its curvature adds up to " << lc.turns
-       << " turns where a lap makes a whole number): "
-       // Fewer than one turn: curvature too small (the usual case); more: too large.
-       << unit_hint(std::abs(lc.turns) > 1.0);
+       << " turns where a lap makes a whole number): " << closure_hint(std::abs(lc.turns));
     throw InputError(o.log, Mark{t.lines.back(), 1}, os.str());  // the end that misses
   }
   // What it writes must load: no turn tighter than any track's 1 m radius (issue 19, finding 12:

@@ -5,6 +5,7 @@
 
 #include "lapwing/base/units.hpp"
 #include "lapwing/io/document.hpp"
+#include "lapwing/io/input_file.hpp"
 #include "lapwing/io/track_data.hpp"
 #include "lapwing/path/racing_line.hpp"
 
@@ -130,7 +131,8 @@ TrackFile read_track_file(const std::string& file) {
     const std::string f = m.node_string(n, m.child_path("file"));
     const std::filesystem::path p =
         std::filesystem::path(f).is_absolute() ? std::filesystem::path(f) : doc.directory / f;
-    if (!std::filesystem::exists(p)) m.fail(n, "no such file: " + p.string(), "file");
+    // One that cannot be read is this key's error, with the reason (no such file, a folder).
+    if (const auto why = unreadable(p.string())) m.fail(n, p.string() + ": " + *why, "file");
     return p.string();
   };
   if (r.has("centerline")) {

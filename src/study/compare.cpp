@@ -74,7 +74,12 @@ Comparison compare(const Car& car, const std::vector<std::size_t>& configs,
   std::vector<ConfiguredCar> cars;
   for (std::size_t c : configs) cars.push_back(car.configured(c));
   parallel_for(runs.size(), threads, [&](std::size_t k, LapSolver& solver) {
-    runs[k] = run_lap(cars[k % nc], circuits[k / nc], solver);
+    try {
+      runs[k] = run_lap(cars[k % nc], circuits[k / nc], solver);
+    } catch (const CannotMove& e) {
+      const Track& track = circuits[k / nc].track;
+      throw cannot_move_in(e, track.name, track.file, cars[k % nc].aero().name);
+    }
   });
   Comparison out;
   out.configs = configs;

@@ -152,10 +152,15 @@ Trade trade(const Car& car, const std::vector<std::size_t>& configs,
     parallel_for(jobs.size(), threads, [&](std::size_t k, LapSolver& solver) {
       // The lap time alone (no channels), and for a config's own lap its operating point.
       // The base car is valid (checked above); its variations may leave the files' ranges.
-      const Envelope env(Envelope::Unchecked{}, jobs[k].car, circuits[jobs[k].track].air);
-      const Lap& lap = solve_speed_only(env, circuits[jobs[k].track], solver);
-      if (jobs[k].own) ops[k] = operating_point(env, lap);
-      times[k] = lap.lap_time_s;
+      try {
+        const Envelope env(Envelope::Unchecked{}, jobs[k].car, circuits[jobs[k].track].air);
+        const Lap& lap = solve_speed_only(env, circuits[jobs[k].track], solver);
+        if (jobs[k].own) ops[k] = operating_point(env, lap);
+        times[k] = lap.lap_time_s;
+      } catch (const CannotMove& e) {
+        const Track& track = circuits[jobs[k].track].track;
+        throw cannot_move_in(e, track.name, track.file, jobs[k].car.aero().name);
+      }
     });
   };
   std::vector<double> times;

@@ -67,4 +67,9 @@ class CannotMove : public std::runtime_error {
   using std::runtime_error::runtime_error;
 };
 
+/// `e` said of one lap of a study of several (compare, trade): "track NAME (FILE), config
+/// CONFIG: " and its sentence, so that the lap that failed is known.
+CannotMove cannot_move_in(const CannotMove& e, const std::string& track_name,
+                          const std::string& track_file, const std::string& config);
+
 }  // namespace lapwing

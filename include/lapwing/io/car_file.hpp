@@ -45,8 +45,9 @@ void set_car_value(Document& doc, std::string_view key_path, const std::string& 
 std::string edited_car_text(const std::string& file, const std::vector<CarValueEdit>& edits);
 
 /// The index of the config named `name` in `car` (the first config when `name` is empty). An
-/// unknown name is an InputError of the car's file (key path aero.configs) with the nearest
-/// name ("did you mean") and the list of the car's configs.
+/// unknown name is an InvalidInput of the car's file (key path aero.configs, which the car's
+/// SourceMap places at its line) with the nearest name, case aside ("did you mean"), and the
+/// list of the car's configs.
 std::size_t pick_config(const Car& car, const std::string& name);
 
 /// The car alone.
