@@ -135,13 +135,23 @@ std::vector<Circuit> lay_out_all(const std::vector<TrackHandle>& tracks, const A
   return out;
 }
 
-std::vector<std::size_t> pick_configs(const Car& car,
+// A config by name; an unknown name is the car file's error at its aero.configs, as the command
+// line reports it.
+std::size_t config_of(const CarHandle& car_handle, const Car& car, const std::string& name) {
+  try {
+    return pick_config(car, name);
+  } catch (const InvalidInput& e) {
+    throw maps_of(car_handle, {}).error(e);
+  }
+}
+
+std::vector<std::size_t> pick_configs(const CarHandle& car_handle, const Car& car,
                                       const std::optional<std::vector<std::string>>& names) {
   std::vector<std::size_t> out;
   if (!names)
     for (std::size_t i = 0; i < car.configs.size(); ++i) out.push_back(i);
   else
-    for (const auto& n : *names) out.push_back(pick_config(car, n));
+    for (const auto& n : *names) out.push_back(config_of(car_handle, car, n));
   return out;
 }
 
@@ -182,7 +192,7 @@ PyLap run(const CarHandle& car_handle, const TrackHandle& track_handle,
           const std::optional<std::string>& config, const std::optional<std::string>& model,
           const std::optional<py::dict>& air_dict) {
   const Car car = with_model(car_handle.car(), model);
-  const std::size_t ci = pick_config(car, config.value_or(""));
+  const std::size_t ci = config_of(car_handle, car, config.value_or(""));
   const AirOverride air = parse_air(air_dict);
   const std::vector<TrackHandle> tracks{track_handle};
   SolvedLap solved = solve_unlocked(maps_of(car_handle, tracks), [&] {
@@ -232,7 +242,7 @@ py::object compare(const CarHandle& car_handle, const std::vector<TrackHandle>& 
                    const std::optional<std::string>& model, const std::optional<py::dict>& air_dict,
                    unsigned threads) {
   const Car car = with_model(car_handle.car(), model);
-  const std::vector<std::size_t> picked = pick_configs(car, configs);
+  const std::vector<std::size_t> picked = pick_configs(car_handle, car, configs);
   const AirOverride air = parse_air(air_dict);
   const std::string text = solve_unlocked(maps_of(car_handle, tracks), [&] {
     const std::vector<Circuit> circuits = lay_out_all(tracks, air);
@@ -260,9 +270,9 @@ py::object trade(const CarHandle& car_handle, const std::vector<TrackHandle>& tr
   const Car car = with_model(car_handle.car(), model);
   std::vector<std::size_t> configs;
   if (config)
-    configs.push_back(pick_config(car, *config));
+    configs.push_back(config_of(car_handle, car, *config));
   else
-    configs = pick_configs(car, std::nullopt);
+    configs = pick_configs(car_handle, car, std::nullopt);
   TradeOptions options;
   options.step = fraction(step, "step");
   options.grid_span = fraction(span, "span");
