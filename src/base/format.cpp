@@ -26,9 +26,11 @@ std::string format_readable(double v) {
 }
 
 std::string fixed(double v, int decimals) {
-  char buf[64];
-  std::snprintf(buf, sizeof buf, "%.*f", decimals, v);
-  std::string s = buf;
+  // A double's integer part takes up to 309 digits in %f: the length asked first, so that no
+  // value is cut (a 64-byte buffer once cut a lap time of 2.5e155 s to 63 digits).
+  const int n = std::snprintf(nullptr, 0, "%.*f", decimals, v);
+  std::string s(static_cast<std::size_t>(n > 0 ? n : 0), '\0');
+  std::snprintf(s.data(), s.size() + 1, "%.*f", decimals, v);
   if (s.rfind("-0", 0) == 0 && s.find_first_not_of("-0.") == std::string::npos) s.erase(0, 1);
   return s;
 }

@@ -31,4 +31,11 @@ TEST_CASE("fixed decimals are printf's %.Nf, and a value that rounds to zero has
   CHECK(fixed(-0.0004, 3) == "0.000");
   CHECK(fixed(-1.5, 1) == "-1.5");
   CHECK(fixed(1234.5678, 0) == "1235");
+  // However long the integer part: 1e155 is exactly representable to %f as 156 digits
+  // (1 followed by the digits of the double nearest 1e155), never cut at a buffer's end.
+  const std::string big = fixed(1e155, 3);
+  CHECK(big.size() == 156 + 4);
+  CHECK(big.rfind("1000000000", 0) == 0);
+  CHECK(big.substr(big.size() - 4) == ".000");
+  CHECK(fixed(-1.7976931348623157e308, 0).size() == 310);  // DBL_MAX: 309 digits and a sign
 }
