@@ -8,6 +8,7 @@
 #include <algorithm>
 #include <cctype>
 #include <cmath>
+#include <cstdio>
 #include <fstream>
 #include <sstream>
 
@@ -372,6 +373,17 @@ double Reader::node_quantity(const Node& n, Quantity q, const std::string& path,
 std::string Reader::node_string(const Node& n, const std::string& path) const {
   if (n.kind != Node::Kind::scalar)
     throw InputError(doc_->file, n.mark, "expected a text value", path);
+  // A control character (a double-quoted "\u0000", "\e") is no part of a name or a path, and
+  // the reports could not show it (HTML has no NUL); a tab is text.
+  for (const char c : n.scalar) {
+    const auto u = static_cast<unsigned char>(c);
+    if ((u < 0x20 && c != '\t') || u == 0x7f) {
+      char code[8];
+      std::snprintf(code, sizeof code, "U+%04X", u);
+      throw InputError(doc_->file, n.mark,
+                       std::string("a control character (") + code + ") in a text value", path);
+    }
+  }
   return n.scalar;
 }
 

@@ -214,7 +214,10 @@ LogTrack track_from_log(const LogOptions& o, const std::string& csv_name) {
   CsvWriter<ProfileRow> csv(profile_columns, lc.s_m.size());
   for (std::size_t j = 0; j < lc.s_m.size(); ++j) csv.add({lc.s_m[j], lc.curvature_1pm[j]});
   std::ostringstream y_out;
-  const std::string name = o.name.empty() ? std::filesystem::path(o.log).stem().string() : o.name;
+  // The name on one printable line too: a control character is no part of a track's name (the
+  // track file would be refused), a byte that is not UTF-8 none of the file's.
+  const std::string name =
+      printable(o.name.empty() ? std::filesystem::path(o.log).stem().string() : o.name);
   // The log's file name in a comment: one printable line (a newline in the name once wrote
   // keys into the track: issue 19, finding 9), and UTF-8 as the file must be.
   y_out << "# Made by 'lapwing track from-log' from "
