@@ -330,6 +330,18 @@ PathProfile fit_centerline(std::shared_ptr<const CenterlinePoints> given, bool c
   if (!r.z.empty()) {
     elev = smooth(r.z, h, o.elevation_smoothing_m, 2, closed);
     grade = derivative(elev, h, closed);
+    // The grades segment tracks and curvature profiles take (Segment::grade_range, +-50 %:
+    // steeper is no road); beyond it, most likely z_m in another unit than metres.
+    for (std::size_t j = 0; j < grade.size(); ++j) {
+      if (std::abs(grade[j]) <= Segment::grade_range.hi) continue;
+      std::ostringstream os;
+      os.precision(3);
+      os << "the elevation climbs or falls by more than 50 % (a grade of " << 100.0 * grade[j]
+         << " % at " << static_cast<double>(j) * h << " m along the points, smoothed over "
+         << o.elevation_smoothing_m << " m): steeper is no road; z_m in metres?";
+      throw InvalidInput(pts.source,
+                         broken_rule("", os.str(), "z_m[" + std::to_string(r.nearest[j]) + "]"));
+    }
   }
   if (!r.wl.empty()) {
     p.width_left_m = smooth(r.wl, h, length, 1, closed);

@@ -268,3 +268,36 @@ TEST_CASE("a centerline that runs out and straight back is refused at its cusp (
     }
   }
 }
+
+TEST_CASE("a centerline steeper than a segment's +-50 % grade is refused at a point of the climb") {
+  // 400 m level, then 200 m climbing 60 % (z in feet read as metres would be 3.3 times a real
+  // 18 %), then level: the smoothed grade tops 50 % on the climb, which the segment forms refuse
+  // (README, "Track": steeper is no road). 45 % is still a road.
+  for (const double climb : {0.6, 0.45}) {
+    CAPTURE(climb);
+    CenterlinePoints points{"steep.csv", {}, {}, {}, {}, {}};
+    for (int i = 0; i <= 1000; i += 4) {
+      points.x_m.push_back(i);
+      points.y_m.push_back(0.0);
+      points.z_m.push_back(i <= 400 ? 0.0 : climb * (std::min(i, 600) - 400));
+    }
+    if (climb < 0.5) {
+      const PathProfile p = fit_centerline(points, false, CenterlineOptions{});
+      const double steepest = *std::max_element(p.grade.begin(), p.grade.end());
+      CHECK(steepest <= 0.5);
+      CHECK(steepest > 0.3);  // the smoothing (100 m) leaves most of the climb
+      continue;
+    }
+    try {
+      fit_centerline(points, false, CenterlineOptions{});
+      FAIL("expected an InvalidInput");
+    } catch (const InvalidInput& e) {
+      CHECK(e.subject() == "steep.csv");
+      CHECK(e.message().find("climbs or falls by more than 50 %") != std::string::npos);
+      const std::size_t i = last_index(e.violation().at).value();
+      CHECK(e.violation().at.rfind("z_m[", 0) == 0);
+      CHECK(points.x_m[i] >= 350.0);  // on the climb, within the smoothing of its ends
+      CHECK(points.x_m[i] <= 650.0);
+    }
+  }
+}
