@@ -11,7 +11,8 @@ std::optional<Violation> Tyres::validate() const {
       .range("nominal_load", nominal_load_n, positive(), Quantity::force)
       .range("load_sensitivity", load_sensitivity, Range{0.0, 1.0, false, true}, Quantity::number)
       .range("ellipse_exponent", ellipse_exponent, Range{1.0, 10.0}, Quantity::number)
-      .range("rolling_radius", rolling_radius_m, Range{0.0, 2.0, true, false}, Quantity::length)
+      // A kart's wheel is some 0.13 m in radius: below 0.05 m is no car's (or a unit slip).
+      .range("rolling_radius", rolling_radius_m, Range{0.05, 2.0}, Quantity::length)
       .range("rolling_resistance", rolling_resistance, Range{0.0, 0.1}, Quantity::number)
       .result();
 }

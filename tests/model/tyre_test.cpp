@@ -69,7 +69,7 @@ TEST_CASE("tyres name the first value out of its range (README, \"Car\", tyres)"
       {[](Tyres& t) { t.ellipse_exponent = 0.5; },
        "ellipse_exponent: value 0.5 is out of range: must be [1, 10]"},
       {[](Tyres& t) { t.rolling_radius_m = 2.5; },
-       "rolling_radius: value 2.5 is out of range: must be (0, 2] in SI units"},
+       "rolling_radius: value 2.5 is out of range: must be [0.05, 2] in SI units"},
       {[](Tyres& t) { t.rolling_resistance = 0.2; },
        "rolling_resistance: value 0.2 is out of range: must be [0, 0.1]"},
   };
