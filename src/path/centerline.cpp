@@ -230,9 +230,9 @@ PathProfile fit_centerline(std::shared_ptr<const CenterlinePoints> given, bool c
     throw InvalidInput(
         pts.source,
         broken_rule("",
-                    "the centerline is " + std::to_string(total / 1000.0) +
+                    "the centerline is " + format_readable(total / 1000.0) +
                         " km long (at most 200 km); this point is " +
-                        std::to_string(c[worst] - c[worst - 1]) + " m from the one before",
+                        format_readable(c[worst] - c[worst - 1]) + " m from the one before",
                     "x_m[" + std::to_string(row) + "]"));
   }
   auto samples_at = [&](double step) {
