@@ -1223,17 +1223,23 @@ void LapSolver::channels_pass(const Envelope& env, const Mesh& mesh, ChannelSet 
     RoadReader road_at(mesh);
     for (std::size_t i = lo_point; i < hi_point; ++i) {
       const double v = lap.speed_mps[i];
+      const double k = std::abs(mesh.curvature_1pm[i]);
+      const bool trimmed = env.trims(k) && mesh.trim_zone[i] && under_drive(lap.phase[i]);
+      lap.trimmed[i] = trimmed;
+      if (v < floor_mps) {  // below the loads' floor (never with every channel): NaN
+        const double nan = std::numeric_limits<double>::quiet_NaN();
+        for (auto* c : {&lap.long_accel_mps2, &lap.lat_accel_mps2, &lap.drag_n, &lap.downforce_n,
+                        &lap.front_load_n, &lap.rear_load_n})
+          (*c)[i] = nan;
+        continue;
+      }
       const Road road = road_at(i);
-      const double ax =
-          v >= floor_mps ? point_accel(i, road) : std::numeric_limits<double>::quiet_NaN();
+      const double ax = point_accel(i, road);
       lap.long_accel_mps2[i] = ax;
       // Lateral acceleration in the road's plane, signed as the curvature: F_y / m (v^2 kappa on
       // a flat road; less the weight's part down a bank).
-      const double k = std::abs(mesh.curvature_1pm[i]);
-      const bool trimmed = env.trims(k) && mesh.trim_zone[i] && under_drive(lap.phase[i]);
       const Envelope::RoadForces f = env.road_forces(env.rows(trimmed), v * v, k, road);
       lap.lat_accel_mps2[i] = (mesh.curvature_1pm[i] < 0.0 ? -1.0 : 1.0) * f.lateral_n / m;
-      lap.trimmed[i] = trimmed;
       lap.drag_n[i] = f.drag_n;
       lap.downforce_n[i] = f.downforce_n;
       // Axle loads and what each axle carries (axle.hpp): the tyre force along the path is what

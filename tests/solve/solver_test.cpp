@@ -383,12 +383,15 @@ TEST_CASE("the loads alone are the full pass's loads, and summarise to the same 
           ++skipped;
           CHECK(std::isnan(fast.front_load_n[i]));
           CHECK(std::isnan(fast.long_accel_mps2[i]));
+          CHECK(std::isnan(fast.lat_accel_mps2[i]));
+          CHECK(std::isnan(fast.downforce_n[i]));
         } else {
           ++filled;
           CHECK(near(fast.front_load_n[i], all.front_load_n[i], 1e-10));
           CHECK(near(fast.long_accel_mps2[i], all.long_accel_mps2[i], 1e-6, 1e-9));
+          CHECK(fast.lat_accel_mps2[i] == all.lat_accel_mps2[i]);
+          CHECK(fast.drag_n[i] == all.drag_n[i]);
         }
-        CHECK(fast.lat_accel_mps2[i] == all.lat_accel_mps2[i]);
         CHECK(fast.trimmed[i] == all.trimmed[i]);
       }
       CHECK(filled > 0);

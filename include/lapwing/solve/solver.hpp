@@ -121,8 +121,8 @@ struct Lap {
   double lap_time_s = 0.0;
   bool has_channels = false;  // accelerations, gear, forces, loads, usage filled
   bool has_loads = false;     // accelerations, forces, loads and trim filled (ChannelSet::loads)
-  // The longitudinal acceleration and the axle loads are filled where the speed is at least
-  // this, NaN below it (LapSolver::add_channels' `loads_above_mps`; 0: everywhere).
+  // The accelerations, aero forces and axle loads are filled where the speed is at least this,
+  // NaN below it (LapSolver::add_channels' `loads_above_mps`; 0: everywhere). The trim, always.
   double loads_above_mps = 0.0;
 };
 
@@ -175,12 +175,12 @@ class LapSolver {
   /// envelope: accelerations, gear and engine speed, trim, forces, axle loads (and so the front
   /// shares) and usage (has_channels true). Throws std::logic_error without a speed solve on the
   /// mesh.
-  /// With ChannelSet::loads and `loads_above_mps` > 0, the longitudinal acceleration and the
-  /// axle loads are worked only where the speed is at least that, NaN below (the rest as
-  /// before): a study that reads the front share only at speed (a sweep's rows:
-  /// summary_loads_above_mps) skips the model's answers in the slow corners. The loads it fills
-  /// are the full pass's to the model's rounding (its Newton hints go from filled point to
-  /// filled point).
+  /// With ChannelSet::loads and `loads_above_mps` > 0, the accelerations, aero forces and axle
+  /// loads are worked only where the speed is at least that, NaN below (the trim everywhere): a
+  /// study that reads them only at speed (a sweep's rows: the balance window's lateral
+  /// acceleration and front share above its speed, summary_loads_above_mps) skips the model's
+  /// answers in the slow corners. The loads it fills are the full pass's to the model's
+  /// rounding (its Newton hints go from filled point to filled point).
   const Lap& add_channels(const Envelope& env, const Mesh& mesh, ChannelSet set = ChannelSet::all,
                           double loads_above_mps = 0.0);
   /// Both passes, as solve_lap: solve_speed, then add_channels.
