@@ -742,7 +742,28 @@ int sweep(const SweepOptions& o) {
   return located(&sweep, o);
 }
 
+// Whether two paths name one file (through "..", links and symlinks): for a command that would
+// write over what it reads.
+bool same_file(const std::string& a, const std::string& b) {
+  std::error_code e1, e2, e3;
+  if (std::filesystem::equivalent(a, b, e3) && !e3) return true;
+  const auto ca = std::filesystem::weakly_canonical(a, e1);
+  const auto cb = std::filesystem::weakly_canonical(b, e2);
+  return !e1 && !e2 && ca == cb;
+}
+
 int sweep_merge(const SweepMergeOptions& o) {
+  // A store given twice would be read twice, and the output as an input read while written
+  // (SQLite: "database is locked"): both refused before anything is opened.
+  for (std::size_t i = 0; i < o.inputs.size(); ++i) {
+    if (same_file(o.inputs[i], o.out))
+      throw UsageError{"sweep merge: the output " + o.out + " is also given to merge (" +
+                       o.inputs[i] + "): give the other stores to merge into it"};
+    for (std::size_t j = 0; j < i; ++j)
+      if (same_file(o.inputs[i], o.inputs[j]))
+        throw UsageError{"sweep merge: " + o.inputs[i] + " is given twice (as " + o.inputs[j] +
+                         ")"};
+  }
   merge_stores(o.out, o.inputs);
   const StoreCounts c = store_counts(o.out);
   std::cout << "merged  " << o.inputs.size() << " files into " << o.out << ": " << c.rows << " of "
@@ -755,6 +776,9 @@ int sweep_merge(const SweepMergeOptions& o) {
 
 int sweep_export(const SweepExportOptions& o) {
   if (o.csv.empty()) throw UsageError{"sweep export: --csv OUT.csv is required"};
+  if (same_file(o.csv, o.file))
+    throw UsageError{"sweep export: --csv " + o.csv + " would replace the results store " + o.file +
+                     " it exports: write the CSV to another name"};
   export_csv(o.file, o.csv);
   std::cout << "wrote   " << o.csv << "\n";
   return 0;
