@@ -32,6 +32,7 @@
 #include "lapwing/model/air.hpp"
 #include "lapwing/model/car.hpp"
 #include "lapwing/model/track.hpp"
+#include "lapwing/path/centerline.hpp"
 #include "lapwing/path/corners.hpp"
 #include "lapwing/path/mesh.hpp"
 #include "lapwing/path/racing_line.hpp"
@@ -921,6 +922,14 @@ int track_line(const TrackLineOptions& o, Inputs& in) {
   const LineTrackFiles files =
       line_track_files(described, line, air_spec, o.method, spec, csv_name);
   const std::filesystem::path dir = out.parent_path().empty() ? "." : out.parent_path();
+  // The line's file is a centerline, which needs 10 points to be read back (a line is laid a
+  // point a metre or so): a track too short for that would be written and then refused.
+  const auto rows = static_cast<std::size_t>(std::count(files.csv.begin(), files.csv.end(), '\n'));
+  if (rows < 1 + min_centerline_points)
+    throw UsageError{"track line: the line over " + fixed(described.length_m(), 1) +
+                     " m of track has " + std::to_string(rows > 0 ? rows - 1 : 0) +
+                     " points, and a centerline track needs at least " +
+                     std::to_string(min_centerline_points) + ": a line needs a longer track"};
   // Beside other tracks: file by file, the data first, the track file that names it last.
   write_files_atomic(dir, {{csv_name, files.csv}, {out.filename().string(), files.yaml}});
 
