@@ -131,6 +131,14 @@ Air air_of(const AirSpec& track_air, const AirOverride& o) {
   }
 }
 
+// An option's rule broken (a log's columns and units): the option's error, not the log file's.
+void require_options(const std::optional<Violation>& v) {
+  if (!v) return;
+  std::string option = v->field;
+  std::replace(option.begin(), option.end(), '_', '-');
+  throw UsageError{"--" + option + ": " + v->message()};
+}
+
 AirOverride parse_air(const AirOptions& o) {
   return {option_value(o.altitude, "--altitude", Quantity::length, AirSpec::altitude_range),
           option_value(o.temperature, "--temperature", Quantity::temperature,
@@ -812,6 +820,8 @@ int track_from_log(const FromLogOptions& o) {
     l.smoothing_m =
         *option_value(o.smoothing, "--smoothing", Quantity::length, LogOptions::smoothing_range);
   l.air = apply(AirSpec{}, parse_air(o.air));
+  (void)air_of(AirSpec{}, parse_air(o.air));  // air no air can be: the options' error
+  require_options(l.validate());              // a unit or column option: the option's error
   const std::string csv_name = out.stem().string() + ".csv";
   const LogTrack t = lapwing::track_from_log(l, csv_name);
   const std::filesystem::path dir = out.parent_path().empty() ? "." : out.parent_path();
@@ -983,6 +993,7 @@ SpeedLogOptions speed_log_options(const std::string& log, const LogColumns& c) {
   s.distance = c.distance;
   s.time = c.time;
   s.speed_unit = c.speed_unit;
+  require_options(s.validate());
   return s;
 }
 
@@ -1142,7 +1153,14 @@ int correlate(const CorrelateOptions& o) {
   return located(&correlate, o);
 }
 int fit(const FitOptions& o) {
-  return located(&fit, o);
+  try {
+    return located(&fit, o);
+  } catch (const InputError& e) {
+    // The fit's own rules on what is freed (subject "fit", key "free"): the option's error.
+    if (e.file() != "fit") throw;
+    throw UsageError{(e.key_path().empty() ? std::string("fit") : "--" + e.key_path()) + ": " +
+                     e.message()};
+  }
 }
 
 }  // namespace lapwing::cli

@@ -587,7 +587,8 @@ std::string edited_car_text(const std::string& file, const std::vector<CarValueE
     if (nodes.empty() && e.key_path == torque)
       scalars_at(doc.root, "powertrain.power_curve.power", nodes);
     if (nodes.empty())
-      throw InputError(file, Mark{},
+      // At the nearest key the file holds on the way (a family's configs: aero.configs).
+      throw InputError(file, SourceMap(doc).mark(e.key_path),
                        "the file holds no value at this key path to write a fitted "
                        "value into (a config made by a wing family is fitted as one of its "
                        "measured configs)",

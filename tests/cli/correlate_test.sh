@@ -89,6 +89,11 @@ usage() {  # TEXT ARGS...
 usage "did you mean 'grip'" fit "${common[@]}" --log "$log" --time time_s --free gripp
 usage "one --log per --track" fit "${common[@]}" --track "$track" --log "$log" --time time_s --free grip
 usage "one of --distance COL and --time COL" correlate "${common[@]}" --log "$log"
+# An option's rule is the option's error, not the log file's (nor "fit: error").
+usage "lapwing: error: --speed-unit: unknown speed unit 'knots'" correlate "${common[@]}" \
+  --log "$log" --time time_s --speed-unit knots
+usage "lapwing: error: --free: grip is given twice" fit "${common[@]}" --log "$log" --time time_s \
+  --free grip,grip
 
 echo "correlate_test: $pass passed, $fail failed"
 [ $fail -eq 0 ]
