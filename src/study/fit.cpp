@@ -404,7 +404,10 @@ FitResult fit(const ConfiguredCar& car, const std::vector<FitLog>& logs,
   out.correlation.assign(np, std::vector<double>(np, nan));
   ceres::Covariance::Options co;
   co.algorithm_type = ceres::DENSE_SVD;
-  co.null_space_rank = -1;  // a rank-deficient Jacobian: report none (not separable)
+  // A rank-deficient Jacobian (a freed factor with no effect on the lap, or three that are two:
+  // grip_lat, grip_long and grip) has no covariance: Compute() says so and none is reported (the
+  // pseudo-inverse, null_space_rank -1, gave such a factor a standard error of 0: certain).
+  co.null_space_rank = 0;
   co.num_threads = 1;
   ceres::Covariance cov(co);
   const std::vector<std::pair<const double*, const double*>> blocks{{x.data(), x.data()}};

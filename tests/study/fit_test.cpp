@@ -216,3 +216,19 @@ TEST_CASE(
   CHECK(std::abs(both.correlation[0][1]) < std::abs(one.correlation[0][1]));
   CHECK(near(both.values[0], 1.03, 0.01));
 }
+
+TEST_CASE("a freed factor with no effect on the lap has no standard error, not a certain one") {
+  // A config without downforce: scaling its ClA (0) changes nothing, so the Jacobian's column
+  // for cla is zero and J^T J singular (Ceres's covariance, DENSE_SVD: Compute() fails on a
+  // rank-deficient Jacobian when null_space_rank is 0). The fit must say it cannot tell, not
+  // report cla as known to 0 %.
+  const Circuit c = circuit("tracks/brannock-park.yaml", 2.0);
+  const ConfiguredCar flat = medium().changed([](Car&, AeroConfig& a) {
+    for (double& v : a.cla_m2) v = 0.0;
+  });
+  const SpeedLogFile log = written_log(flat, c, "fit_flat.csv");
+  const FitResult r = fit(flat, {{&c, &log.speed}}, {FitParameter::grip, FitParameter::cla});
+  CHECK_FALSE(r.covariance_found);
+  for (const double e : r.std_errors) CHECK(std::isnan(e));
+  REQUIRE(r.inseparable.size() == 1);  // the one pair, flagged
+}
