@@ -58,6 +58,7 @@ std::string correlate_text(const Circuit& circuit, const Correlation& c) {
        "scale " +
        fixed(c.alignment.scale, 4) + ", speed correlation " + fixed(c.alignment.correlation, 4) +
        ", " + fixed(100.0 * c.coverage, 1) + " % of the track covered\n";
+  if (const auto w = alignment_warning(c.alignment)) o += "warning: " + *w + "\n";
   o += "lap      simulated " + fixed(c.lap_time_sim_s, 3) + " s, logged " +
        fixed(c.lap_time_log_s, 3) + " s, difference " +
        signed_fixed(c.lap_time_sim_s - c.lap_time_log_s, 3) + " s (sim - log)" +
@@ -113,6 +114,9 @@ std::string correlate_json(const std::string& car_name, const std::string& confi
       .field("speed_correlation", c.alignment.correlation)
       .field("coverage", c.coverage)
       .field("covered_length_m", c.covered_length_m);
+  w.key("warnings").begin_array();
+  if (const auto warning = alignment_warning(c.alignment)) w.value(*warning);
+  w.end_array();
   w.key("sectors").begin_array();
   for (const SectorError& s : c.sectors)
     w.begin_object()

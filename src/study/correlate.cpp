@@ -132,6 +132,13 @@ std::optional<double> braking_point(const std::vector<double>& v, const Mesh& me
 
 }  // namespace
 
+std::optional<std::string> alignment_warning(const Alignment& a) {
+  if (a.correlation >= correlate_min_trusted_correlation) return std::nullopt;
+  return "the log's speed correlates with the lap's at only " + fixed(a.correlation, 2) +
+         " at its best alignment: the alignment and every comparison on it are not to be "
+         "trusted (is the log of this track, and does its speed vary?)";
+}
+
 Alignment align_log(const LoggedSpeed& log, const Mesh& mesh, const std::vector<double>& speed) {
   assert(speed.size() == mesh.size() && log.distance_m.size() >= 2);
   // A unit read wrong first: it would align to nonsense. Both medians by distance (the log's

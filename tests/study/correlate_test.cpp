@@ -167,3 +167,21 @@ TEST_CASE("a log sampled in time with mph read as km/h is refused, its ratio tol
     }
   }
 }
+
+TEST_CASE("a log that hardly correlates with the lap at its best alignment is warned of") {
+  // A log of constant speed has no shape to align: Pearson's r with any lap is 0 (a constant
+  // has no variance). The car's own lap correlates near 1 (above), and is not warned of.
+  const Circuit c = brannock();
+  const LapRun run = run_lap(medium(), c);
+  LoggedSpeed flat;
+  flat.source = "constant";
+  for (int i = 0; i <= 1500; ++i) {
+    flat.distance_m.push_back(2.0 * i);
+    flat.speed_mps.push_back(150.0 * units::kph);
+  }
+  const Alignment a = align_log(flat, c.mesh, run.lap.speed_mps);
+  REQUIRE(alignment_warning(a).has_value());
+  CHECK(alignment_warning(a)->find("not to be trusted") != std::string::npos);
+  const LoggedSpeed own = log_of(run.lap, c.mesh, 7.0, 1.0, 0.5);
+  CHECK_FALSE(alignment_warning(align_log(own, c.mesh, run.lap.speed_mps)).has_value());
+}

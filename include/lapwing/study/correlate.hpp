@@ -5,6 +5,7 @@
 
 #include <cstdint>
 #include <optional>
+#include <string>
 #include <vector>
 
 #include "lapwing/path/logged_speed.hpp"
@@ -32,6 +33,12 @@ inline constexpr double correlate_min_coverage = 0.98;
 /// the simulated lap's is read in the wrong unit (km/h against m/s is 3.6, mph against km/h
 /// 1.6), not a car off by that much.
 inline constexpr double correlate_max_speed_ratio = 1.45;
+/// Below this speed correlation at the best alignment the log and the lap hardly share a shape
+/// (another track, a log of constant speed): the alignment, and every comparison made on it, is
+/// warned of. A log of another car on the right track correlates above 0.9 (tested).
+inline constexpr double correlate_min_trusted_correlation = 0.5;
+/// The warning for an alignment below correlate_min_trusted_correlation, or nothing.
+std::optional<std::string> alignment_warning(const Alignment& a);
 
 /// The alignment that maximises the correlation of the log's speed with `speed_mps` (the
 /// simulated speed at each mesh point): a search over every offset (the whole lap for a closed
