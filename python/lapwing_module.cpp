@@ -95,13 +95,14 @@ std::string utf8(const py::handle& v, const std::string& what) {
 }
 
 // A real number of any Python type (int, float, numpy.int64, numpy.float32, Fraction: what
-// numbers.Real or __float__ makes one; not bool, not str) as a double. An integer beyond a
-// double's range is refused as too large, not cast into an error.
+// numbers.Real or __float__ makes one; not bool, not str) as a double, NaN and infinities as
+// they are. An integer beyond a double's range is refused as too large, not cast into an error.
 double real_number(const py::handle& v, const std::string& what) {
   const bool real = py::isinstance(v, py::module_::import("numbers").attr("Real")) ||
                     py::hasattr(v, "__float__");
-  if (py::isinstance<py::bool_>(v) || py::isinstance<py::str>(v) || py::isinstance<py::bytes>(v) ||
-      !real)
+  const std::string type = type_name(v);
+  if (py::isinstance<py::bool_>(v) || type == "bool_" || py::isinstance<py::str>(v) ||
+      py::isinstance<py::bytes>(v) || !real)
     throw py::type_error(what + ": give a number or a string with a unit, not " + type_name(v));
   PyObject* f = PyNumber_Float(v.ptr());
   if (!f) {
@@ -113,7 +114,6 @@ double real_number(const py::handle& v, const std::string& what) {
   }
   const double x = PyFloat_AsDouble(f);
   Py_DECREF(f);
-  if (!std::isfinite(x)) throw BadArgument(what + ": " + format_number(x) + " is not finite");
   return x;
 }
 
@@ -121,7 +121,10 @@ double real_number(const py::handle& v, const std::string& what) {
 // the key's default unit (full precision).
 std::string value_text(const py::handle& v, const std::string& what) {
   if (py::isinstance<py::str>(v)) return utf8(v, what);
-  return format_number(real_number(v, what));
+  const double x = real_number(v, what);
+  // Non-finite as the text a file or an option would hold, refused in the same words.
+  if (!std::isfinite(x)) return std::isnan(x) ? "nan" : x > 0 ? "inf" : "-inf";
+  return format_number(x);
 }
 
 // A count given as a Python int (or numpy integer) in [lo, hi], with the command line's words

@@ -327,6 +327,19 @@ def test_numbers_beyond_a_double_are_input_errors_not_cast_errors():
         car.with_values({"name": "\ud800"})
     with pytest.raises(TypeError, match=r"^air\['altitude'\]: give a number"):
         lapwing.run(car, track, air={"altitude": [100]})
+    with pytest.raises(TypeError, match=r"^air\['altitude'\]: give a number"):
+        lapwing.run(car, track, air={"altitude": np.bool_(True)})
+    # Not finite: the command line's words for --altitude nan, not an internal error.
+    for x, text in ((float("nan"), "nan"), (np.float64("inf"), "inf"), (-math.inf, "-inf")):
+        with pytest.raises(lapwing.InputError) as e:
+            lapwing.run(car, track, air={"altitude": x})
+        assert str(e.value) == cli_error("run", "--car", CAR, "--track", TRACK,
+                                         f"--altitude={text}").replace("--altitude",
+                                                                      "air['altitude']")
+    with pytest.raises(lapwing.InputError):
+        lapwing.trade(car, [track], step=math.nan)
+    with pytest.raises(lapwing.InputError):
+        car.with_values({"mass": math.inf})
     with pytest.raises(lapwing.InputError, match=r"^threads: Value \(a huge number\) not in"):
         lapwing.compare(car, [track], threads=10**5000)
     with pytest.raises(TypeError, match=r"^threads: give an integer"):
