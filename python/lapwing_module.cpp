@@ -94,6 +94,23 @@ std::string utf8(const py::handle& v, const std::string& what) {
   return std::string(data, static_cast<std::size_t>(size));
 }
 
+// An optional text argument (config, model): None, or a str with UTF-8.
+std::optional<std::string> optional_text(const py::object& v, const std::string& what) {
+  if (v.is_none()) return std::nullopt;
+  return utf8(v, what);
+}
+
+// An optional list of names (configs): None, or a list or tuple of str.
+std::optional<std::vector<std::string>> optional_texts(const py::object& v,
+                                                       const std::string& what) {
+  if (v.is_none()) return std::nullopt;
+  if (!py::isinstance<py::list>(v) && !py::isinstance<py::tuple>(v))
+    throw py::type_error(what + ": give a list of names, not " + type_name(v));
+  std::vector<std::string> out;
+  for (const auto& item : v) out.push_back(utf8(item, what));
+  return out;
+}
+
 // A real number of any Python type (int, float, numpy.int64, numpy.float32, Fraction: what
 // numbers.Real or __float__ makes one; not bool, not str) as a double, NaN and infinities as
 // they are. An integer beyond a double's range is refused as too large, not cast into an error.
@@ -304,8 +321,10 @@ struct SolvedLap {
 };
 
 PyLap run(const CarHandle& car_handle, const TrackHandle& track_handle,
-          const std::optional<std::string>& config, const std::optional<std::string>& model,
+          const py::object& config_arg, const py::object& model_arg,
           const std::optional<py::dict>& air_dict) {
+  const std::optional<std::string> config = optional_text(config_arg, "config");
+  const std::optional<std::string> model = optional_text(model_arg, "model");
   const AirOverride air = parse_air(air_dict);
   const Car car = with_model(car_handle.car(), model);
   const std::size_t ci =
@@ -354,9 +373,10 @@ PyLap run(const CarHandle& car_handle, const TrackHandle& track_handle,
 }
 
 py::object compare(const CarHandle& car_handle, const std::vector<TrackHandle>& tracks,
-                   const std::optional<std::vector<std::string>>& configs,
-                   const std::optional<std::string>& model, const std::optional<py::dict>& air_dict,
-                   const py::object& threads_arg) {
+                   const py::object& configs_arg, const py::object& model_arg,
+                   const std::optional<py::dict>& air_dict, const py::object& threads_arg) {
+  const std::optional<std::vector<std::string>> configs = optional_texts(configs_arg, "configs");
+  const std::optional<std::string> model = optional_text(model_arg, "model");
   const unsigned threads = count_in(threads_arg, "threads", 0, 256);
   check_tracks(tracks);
   const AirOverride air = parse_air(air_dict);
@@ -378,10 +398,12 @@ double fraction(const py::handle& v, const std::string& what, const Range& range
 }
 
 py::object trade(const CarHandle& car_handle, const std::vector<TrackHandle>& tracks,
-                 const std::optional<std::string>& config, const py::object& step,
+                 const py::object& config_arg, const py::object& step,
                  const py::object& span, const py::object& grid,
-                 const std::optional<std::string>& model, const std::optional<py::dict>& air_dict,
+                 const py::object& model_arg, const std::optional<py::dict>& air_dict,
                  const py::object& threads_arg) {
+  const std::optional<std::string> config = optional_text(config_arg, "config");
+  const std::optional<std::string> model = optional_text(model_arg, "model");
   const unsigned threads = count_in(threads_arg, "threads", 0, 256);
   check_tracks(tracks);
   // In the command line's order: the air and the trade's options, then the car's config.

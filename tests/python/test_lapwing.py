@@ -329,6 +329,15 @@ def test_numbers_beyond_a_double_are_input_errors_not_cast_errors():
         lapwing.run(car, track, air={"altitude": [100]})
     with pytest.raises(TypeError, match=r"^air\['altitude'\]: give a number"):
         lapwing.run(car, track, air={"altitude": np.bool_(True)})
+    for kw in ({"config": "\ud800"}, {"model": "\udcff"}):
+        with pytest.raises(lapwing.InputError, match=r"lone surrogate"):
+            lapwing.run(car, track, **kw)
+    with pytest.raises(lapwing.InputError, match=r"^configs: .*lone surrogate"):
+        lapwing.compare(car, [track], configs=["low", "\ud800"])
+    with pytest.raises(TypeError, match=r"^configs: give a list of names, not str"):
+        lapwing.compare(car, [track], configs="low")
+    with pytest.raises(TypeError, match=r"^config: give a string, not int"):
+        lapwing.trade(car, [track], config=1)
     # Not finite: the command line's words for --altitude nan, not an internal error.
     for x, text in ((float("nan"), "nan"), (np.float64("inf"), "inf"), (-math.inf, "-inf")):
         with pytest.raises(lapwing.InputError) as e:
