@@ -15,9 +15,14 @@ std::optional<std::size_t> last_index(std::string_view path) {
   const std::size_t open = path.rfind('[');
   if (open == std::string_view::npos || open + 2 > path.size() - 1) return std::nullopt;
   std::size_t i = 0;
+  constexpr std::size_t most = std::numeric_limits<std::size_t>::max();
   for (const char c : path.substr(open + 1, path.size() - open - 2)) {
     if (c < '0' || c > '9') return std::nullopt;
-    i = 10 * i + static_cast<std::size_t>(c - '0');
+    const auto d = static_cast<std::size_t>(c - '0');
+    // An index beyond what a size_t holds is no item of any list (it wrapped round to a small
+    // one: gears[18446744073709551617] was gears[1]): the largest, which no list reaches.
+    if (i > (most - d) / 10) return most;
+    i = 10 * i + d;
   }
   return i;
 }

@@ -33,6 +33,7 @@
 #include "lapwing/model/air.hpp"
 #include "lapwing/model/car.hpp"
 #include "lapwing/model/track.hpp"
+#include "lapwing/path/centerline.hpp"
 #include "lapwing/path/corners.hpp"
 #include "lapwing/path/mesh.hpp"
 #include "lapwing/path/racing_line.hpp"
@@ -703,7 +704,28 @@ int sweep(const SweepOptions& o) {
   return located(&sweep, o);
 }
 
+// Whether two paths name one file (through "..", links and symlinks): for a command that would
+// write over what it reads.
+bool same_file(const std::string& a, const std::string& b) {
+  std::error_code e1, e2, e3;
+  if (std::filesystem::equivalent(a, b, e3) && !e3) return true;
+  const auto ca = std::filesystem::weakly_canonical(a, e1);
+  const auto cb = std::filesystem::weakly_canonical(b, e2);
+  return !e1 && !e2 && ca == cb;
+}
+
 int sweep_merge(const SweepMergeOptions& o) {
+  // A store given twice would be read twice, and the output as an input read while written
+  // (SQLite: "database is locked"): both refused before anything is opened.
+  for (std::size_t i = 0; i < o.inputs.size(); ++i) {
+    if (same_file(o.inputs[i], o.out))
+      throw UsageError{"sweep merge: the output " + o.out + " is also given to merge (" +
+                       o.inputs[i] + "): give the other stores to merge into it"};
+    for (std::size_t j = 0; j < i; ++j)
+      if (same_file(o.inputs[i], o.inputs[j]))
+        throw UsageError{"sweep merge: " + o.inputs[i] + " is given twice (as " + o.inputs[j] +
+                         ")"};
+  }
   merge_stores(o.out, o.inputs);
   const StoreCounts c = store_counts(o.out);
   std::cout << "merged  " << o.inputs.size() << " files into " << o.out << ": " << c.rows << " of "
@@ -716,6 +738,9 @@ int sweep_merge(const SweepMergeOptions& o) {
 
 int sweep_export(const SweepExportOptions& o) {
   if (o.csv.empty()) throw UsageError{"sweep export: --csv OUT.csv is required"};
+  if (same_file(o.csv, o.file))
+    throw UsageError{"sweep export: --csv " + o.csv + " would replace the results store " + o.file +
+                     " it exports: write the CSV to another name"};
   export_csv(o.file, o.csv);
   std::cout << "wrote   " << o.csv << "\n";
   return 0;
@@ -858,6 +883,14 @@ int track_line(const TrackLineOptions& o, Inputs& in) {
   const LineTrackFiles files =
       line_track_files(described, line, air_spec, o.method, spec, csv_name);
   const std::filesystem::path dir = out.parent_path().empty() ? "." : out.parent_path();
+  // The line's file is a centerline, which needs 10 points to be read back (a line is laid a
+  // point a metre or so): a track too short for that would be written and then refused.
+  const auto rows = static_cast<std::size_t>(std::count(files.csv.begin(), files.csv.end(), '\n'));
+  if (rows < 1 + min_centerline_points)
+    throw UsageError{"track line: the line over " + fixed(described.length_m(), 1) +
+                     " m of track has " + std::to_string(rows > 0 ? rows - 1 : 0) +
+                     " points, and a centerline track needs at least " +
+                     std::to_string(min_centerline_points) + ": a line needs a longer track"};
   // Beside other tracks: file by file, the data first, the track file that names it last.
   write_files_atomic(dir, {{csv_name, files.csv}, {out.filename().string(), files.yaml}});
 

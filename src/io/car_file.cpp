@@ -464,11 +464,13 @@ void set_car_value(Document& doc, std::string_view key_path, const std::string& 
     std::string part = path.substr(a, dot == std::string::npos ? dot : dot - a);
     // "gears[2]": a key, then an index into the list it holds.
     std::optional<std::size_t> index;
+    std::string index_text;  // as typed (an index too large for a number is no item either)
     if (const std::size_t open = part.find('['); open != std::string::npos) {
       const auto i = last_index(part);
       if (!i || part.back() != ']')
         no_key(doc, *node, "'" + part + "' is not a key or key[INDEX]", path);
       index = i;
+      index_text = part.substr(open + 1, part.size() - open - 2);
       part = part.substr(0, open);
     }
     if (part.empty()) no_key(doc, *node, "empty key in '" + path + "'", path);
@@ -499,7 +501,7 @@ void set_car_value(Document& doc, std::string_view key_path, const std::string& 
     if (index) {
       if (child->kind != Node::Kind::sequence || *index >= child->items.size())
         no_key(doc, *child,
-               "'" + here + "' has no item " + std::to_string(*index) +
+               "'" + here + "' has no item " + index_text +
                    (child->kind == Node::Kind::sequence
                         ? " (it has " + std::to_string(child->items.size()) + ")"
                         : " (it is not a list)"),

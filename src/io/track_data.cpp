@@ -47,7 +47,7 @@ std::vector<double> bank_column(const CsvTable& t) {
 }  // namespace
 
 ProfileFile read_centerline_file(const std::string& file, bool closed, const CenterlineOptions& o) {
-  const CsvTable t = read_csv(file, 10);
+  const CsvTable t = read_csv(file, min_centerline_points);
   try {
     CenterlinePoints points;
     bool geodetic = false;

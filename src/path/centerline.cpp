@@ -171,7 +171,7 @@ PathProfile fit_centerline(std::shared_ptr<const CenterlinePoints> given, bool c
     const CenterlinePoints& g = *given;
     const std::size_t n = g.x_m.size();
     FirstViolation f;
-    f.rule(n >= 10, "x_m", "a centerline needs at least 10 points")
+    f.rule(n >= min_centerline_points, "x_m", "a centerline needs at least 10 points")
         .rule(g.y_m.size() == n && (g.z_m.empty() || g.z_m.size() == n), "y_m",
               "x_m, y_m (and z_m) differ in length")
         .rule(g.width_left_m.size() == g.width_right_m.size() &&

@@ -308,6 +308,13 @@ expect_error "lapwing: error: --car is given 2 times; check takes one" \
 expect_error "lapwing: error: --out is given an empty value" \
   run --car cars/caldra-gt.yaml --track tracks/skidpad.yaml --out ""
 expect_error "lapwing: error: --json is given an empty value" check --car cars/caldra-gt.yaml --json=
+# A line over a track too short for its file to be read back (a centerline of 10 points at
+# least) is refused, and nothing is written.
+printf 'format: 1\nname: "short"\nclosed: false\nwidth: 10 m\nsegments:\n  - straight: 5 m\n' \
+  > "$tmp/short5.yaml"
+expect_error "track line: the line over 5.0 m of track has 6 points, and a centerline track needs at least 10" \
+  track line --track "$tmp/short5.yaml" --out "$tmp/short-line/line.yaml"
+[ ! -e "$tmp/short-line" ] && ok || bad "a line too short was written"
 # Air that cannot be (water vapour above the air's own pressure) from the options: named as theirs.
 expect_error "--humidity give (the track's own values for the rest): the water vapour at 100 % humidity and 70.0 C (314 hPa) is not below the air's pressure (300 hPa): no such air" \
   run --car cars/caldra-gt.yaml --track tracks/skidpad.yaml --temperature "70 C" --pressure "300 hPa" --humidity "100 %"

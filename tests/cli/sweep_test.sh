@@ -70,6 +70,22 @@ export_csv "$tmp/part.sqlite" "$tmp/part.csv"
 "$bin" sweep merge "$tmp/refused.sqlite" "$tmp/s1.sqlite" "$tmp/other.sqlite" 2> "$tmp/err.txt"
 [ $? = 2 ] && grep -q "holds another study" "$tmp/err.txt" && [ ! -e "$tmp/refused.sqlite" ] && ok ||
   bad "merge of two studies: $(cat "$tmp/err.txt")"
+# A store given twice, or the output among the inputs, is refused before anything is opened; and
+# an export never writes over the store it reads (through a symlink neither).
+before=$(sha256sum < "$tmp/s1.sqlite")
+"$bin" sweep merge "$tmp/twice.sqlite" "$tmp/s1.sqlite" "$tmp/./s1.sqlite" 2> "$tmp/err.txt"
+[ $? = 2 ] && grep -q "is given twice" "$tmp/err.txt" && [ ! -e "$tmp/twice.sqlite" ] && ok ||
+  bad "merge of a store twice: $(cat "$tmp/err.txt")"
+"$bin" sweep merge "$tmp/s1.sqlite" "$tmp/s1.sqlite" 2> "$tmp/err.txt"
+[ $? = 2 ] && grep -q "is also given to merge" "$tmp/err.txt" && ok ||
+  bad "merge of a store into itself: $(cat "$tmp/err.txt")"
+ln -s "$tmp/s1.sqlite" "$tmp/link.csv"
+for target in "$tmp/s1.sqlite" "$tmp/link.csv"; do
+  "$bin" sweep export "$tmp/s1.sqlite" --csv "$target" 2> "$tmp/err.txt"
+  [ $? = 2 ] && grep -q "would replace the results store" "$tmp/err.txt" && ok ||
+    bad "export over its own store ($target): $(cat "$tmp/err.txt")"
+done
+[ "$(sha256sum < "$tmp/s1.sqlite")" = "$before" ] && ok || bad "the store changed"
 # Nor may another study resume into a results store.
 "$bin" sweep --car "$car" --track tracks/skidpad.yaml --set mass=600kg,610kg --out "$tmp/t1.sqlite" \
   > /dev/null 2> "$tmp/err.txt"

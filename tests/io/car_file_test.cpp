@@ -161,6 +161,12 @@ TEST_CASE("a bad key or value set in the car's document is the car file's error"
   CHECK(set_error("tyres", "1").find("is a map") != std::string::npos);
   CHECK(set_error("powertrain.gears[9]", "1").find("has no item 9 (it has 7)") !=
         std::string::npos);
+  // An index past what a 64-bit size holds does not wrap round to a small one (2^64 + 1 was
+  // item 1): it is no item, named as typed.
+  CHECK(set_error("powertrain.gears[18446744073709551617]", "1")
+            .find("has no item 18446744073709551617 (it has 7)") != std::string::npos);
+  CHECK(set_error("powertrain.gears[99999999999999999999]", "1")
+            .find("has no item 99999999999999999999 (it has 7)") != std::string::npos);
   CHECK(set_error("front_flap", "30 deg").find("(aero.families.front_flap.at)") !=
         std::string::npos);
 }

@@ -134,3 +134,36 @@ TEST_CASE("a log in the wrong unit or too short for the track is refused at a ro
           "distance_m[" + std::to_string(half.distance_m.size() - 1) + "]");
   }
 }
+
+TEST_CASE("a log sampled in time with mph read as km/h is refused, its ratio told the right way") {
+  // A log sampled every 0.1 s holds more rows in the slow corners than the fast straights: by
+  // row, its median speed reads well below the lap's. The check compares both by distance, so
+  // a log in mph read as km/h (1.609 times too fast: 1 mi = 1.609344 km, NIST SP 811) stands out
+  // against the 1.45 bound, and one 1.609 times too slow says 0.62, not 1.61.
+  const Circuit c = brannock();
+  const LapRun run = run_lap(medium(), c);
+  LoggedSpeed timed;
+  timed.source = "timed log";
+  double t_next = 0.0;
+  for (std::size_t i = 0; i < c.mesh.size(); ++i) {
+    if (run.lap.time_s[i] < t_next) continue;
+    timed.distance_m.push_back(c.mesh.s_m[i]);
+    timed.speed_mps.push_back(run.lap.speed_mps[i]);
+    t_next += 0.1;
+  }
+  // The log as it is aligns (the check passes by distance).
+  CHECK_NOTHROW((void)align_log(timed, c.mesh, run.lap.speed_mps));
+  for (const double factor : {1.609344, 1.0 / 1.609344}) {
+    LoggedSpeed wrong = timed;
+    for (double& v : wrong.speed_mps) v *= factor;
+    CAPTURE(factor);
+    try {
+      (void)align_log(wrong, c.mesh, run.lap.speed_mps);
+      FAIL("no error");
+    } catch (const InvalidInput& e) {
+      const std::string what = e.what();
+      CHECK(what.find(factor > 1.0 ? "is 1.61 times the simulated lap's"
+                                   : "is 0.62 times the simulated lap's") != std::string::npos);
+    }
+  }
+}

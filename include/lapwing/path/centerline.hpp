@@ -18,6 +18,9 @@
 
 namespace lapwing {
 
+/// The fewest points a centerline is fitted from (its file's rows).
+inline constexpr std::size_t min_centerline_points = 10;
+
 struct CenterlineOptions {
   std::optional<double> smoothing_m;     // wavelength the x/y fit halves; none: auto (GCV)
   double elevation_smoothing_m = 100.0;  // the same for elevation, before it becomes grade

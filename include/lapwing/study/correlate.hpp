@@ -28,8 +28,9 @@ struct Alignment {
 inline constexpr double alignment_max_scale_error = 0.04;
 /// The share of the track a log must cover (the rest is not compared).
 inline constexpr double correlate_min_coverage = 0.98;
-/// A log whose typical speed is this factor away from the simulated lap's is read in the wrong
-/// unit (km/h against m/s is 3.6, mph against km/h 1.6), not a car off by that much.
+/// A log whose median speed (by distance, as the lap's mesh points) is this factor away from
+/// the simulated lap's is read in the wrong unit (km/h against m/s is 3.6, mph against km/h
+/// 1.6), not a car off by that much.
 inline constexpr double correlate_max_speed_ratio = 1.45;
 
 /// The alignment that maximises the correlation of the log's speed with `speed_mps` (the
