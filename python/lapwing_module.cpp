@@ -8,7 +8,9 @@
 #include <pybind11/pybind11.h>
 #include <pybind11/stl.h>
 
+#include <algorithm>
 #include <cmath>
+#include <filesystem>
 #include <memory>
 #include <optional>
 #include <string>
@@ -22,6 +24,13 @@ namespace py = pybind11;
 namespace lapwing::python {
 
 namespace {
+
+// Bad input of no file (an argument: the air, a config, the trade's step): raised as
+// lapwing.InputError with the command line's words for the same input, the Python argument
+// named where the command line names its option.
+struct BadArgument : std::runtime_error {
+  using std::runtime_error::runtime_error;
+};
 
 // A car as read from its file: the parsed file (with_values edits a copy of it, as `sweep --set`
 // does), the car, and where each value stands (to place the errors a lap finds later).
@@ -68,18 +77,92 @@ SourceMaps maps_of(const CarHandle& car, const std::vector<TrackHandle>& tracks)
   return maps;
 }
 
+std::string type_name(const py::handle& v) {
+  return std::string(py::str(py::type::of(v).attr("__name__")));
+}
+
+// A Python str as UTF-8; one that has none (a lone surrogate, '\ud800') is refused by name.
+std::string utf8(const py::handle& v, const std::string& what) {
+  if (!py::isinstance<py::str>(v))
+    throw py::type_error(what + ": give a string, not " + type_name(v));
+  Py_ssize_t size = 0;
+  const char* data = PyUnicode_AsUTF8AndSize(v.ptr(), &size);
+  if (!data) {
+    PyErr_Clear();
+    throw BadArgument(what + ": the text is not valid Unicode (it holds a lone surrogate)");
+  }
+  return std::string(data, static_cast<std::size_t>(size));
+}
+
+// An optional text argument (config, model): None, or a str with UTF-8.
+std::optional<std::string> optional_text(const py::object& v, const std::string& what) {
+  if (v.is_none()) return std::nullopt;
+  return utf8(v, what);
+}
+
+// An optional list of names (configs): None, or a list or tuple of str.
+std::optional<std::vector<std::string>> optional_texts(const py::object& v,
+                                                       const std::string& what) {
+  if (v.is_none()) return std::nullopt;
+  if (!py::isinstance<py::list>(v) && !py::isinstance<py::tuple>(v))
+    throw py::type_error(what + ": give a list of names, not " + type_name(v));
+  std::vector<std::string> out;
+  for (const auto& item : v) out.push_back(utf8(item, what));
+  return out;
+}
+
+// A real number of any Python type (int, float, numpy.int64, numpy.float32, Fraction: what
+// numbers.Real or __float__ makes one; not bool, not str) as a double, NaN and infinities as
+// they are. An integer beyond a double's range is refused as too large, not cast into an error.
+double real_number(const py::handle& v, const std::string& what) {
+  const bool real = py::isinstance(v, py::module_::import("numbers").attr("Real")) ||
+                    py::hasattr(v, "__float__");
+  const std::string type = type_name(v);
+  if (py::isinstance<py::bool_>(v) || type == "bool_" || py::isinstance<py::str>(v) ||
+      py::isinstance<py::bytes>(v) || !real)
+    throw py::type_error(what + ": give a number or a string with a unit, not " + type_name(v));
+  PyObject* f = PyNumber_Float(v.ptr());
+  if (!f) {
+    if (PyErr_ExceptionMatches(PyExc_OverflowError)) {
+      PyErr_Clear();
+      throw BadArgument(what + ": the number is too large (beyond 1.8e308 in magnitude)");
+    }
+    throw py::error_already_set();
+  }
+  const double x = PyFloat_AsDouble(f);
+  Py_DECREF(f);
+  return x;
+}
+
 // A value of a dict as the text a file would hold: a string as given ("650 kg"), a number in
 // the key's default unit (full precision).
 std::string value_text(const py::handle& v, const std::string& what) {
-  if (py::isinstance<py::str>(v)) return v.cast<std::string>();
-  if (py::isinstance<py::bool_>(v) ||
-      !(py::isinstance<py::int_>(v) || py::isinstance<py::float_>(v)))
-    throw py::type_error(what + ": give a number or a string with a unit, not " +
-                         std::string(py::str(py::type::of(v).attr("__name__"))));
-  const double x = v.cast<double>();
-  if (!std::isfinite(x))
-    throw py::value_error(what + ": " + std::string(py::str(v)) + " is not finite");
+  if (py::isinstance<py::str>(v)) return utf8(v, what);
+  const double x = real_number(v, what);
+  // Non-finite as the text a file or an option would hold, refused in the same words.
+  if (!std::isfinite(x)) return std::isnan(x) ? "nan" : x > 0 ? "inf" : "-inf";
   return format_number(x);
+}
+
+// A count given as a Python int (or numpy integer) in [lo, hi], with the command line's words
+// for one out of range (its parser's: "Value 300 not in range 0 to 256").
+unsigned count_in(const py::handle& v, const std::string& what, long long lo, long long hi) {
+  if (py::isinstance<py::bool_>(v) ||
+      !py::isinstance(v, py::module_::import("numbers").attr("Integral")))
+    throw py::type_error(what + ": give an integer, not " + type_name(v));
+  const py::int_ i = py::reinterpret_steal<py::int_>(PyNumber_Index(v.ptr()));
+  if (!i) throw py::error_already_set();
+  int overflow = 0;
+  const long long n = PyLong_AsLongLongAndOverflow(i.ptr(), &overflow);
+  if (overflow == 0 && n >= lo && n <= hi) return static_cast<unsigned>(n);
+  std::string digits;
+  try {
+    digits = std::string(py::str(py::handle(i)));
+  } catch (const py::error_already_set&) {  // beyond Python's limit on an int's digits
+    digits = overflow > 0 ? "(a huge number)" : "(a huge negative number)";
+  }
+  throw BadArgument(what + ": Value " + digits + " not in range " + std::to_string(lo) + " to " +
+                    std::to_string(hi));
 }
 
 // model=None keeps the car file's; "axle" or "point-mass" replaces it (as --model does).
@@ -90,7 +173,7 @@ Car with_model(Car car, const std::optional<std::string>& model) {
   else if (*model == "point-mass")
     car.model = VehicleModel::point_mass;
   else
-    throw py::value_error("model: '" + *model + "' is not one of axle | point-mass");
+    throw BadArgument("model: '" + *model + "' is not one of point-mass | axle");
   return car;
 }
 
@@ -103,24 +186,28 @@ AirOverride parse_air(const std::optional<py::dict>& air) {
   struct Key {
     const char* name;
     Quantity q;
+    Range range;
     std::optional<double> AirOverride::*field;
   };
-  const Key keys[] = {{"altitude", Quantity::length, &AirOverride::altitude_m},
-                      {"temperature", Quantity::temperature, &AirOverride::temperature_k},
-                      {"pressure", Quantity::pressure, &AirOverride::pressure_pa},
-                      {"humidity", Quantity::fraction, &AirOverride::humidity}};
+  const Key keys[] = {
+      {"altitude", Quantity::length, AirSpec::altitude_range, &AirOverride::altitude_m},
+      {"temperature", Quantity::temperature, AirSpec::temperature_range,
+       &AirOverride::temperature_k},
+      {"pressure", Quantity::pressure, AirSpec::pressure_range, &AirOverride::pressure_pa},
+      {"humidity", Quantity::fraction, AirSpec::humidity_range, &AirOverride::humidity}};
   for (const auto& [k, v] : *air) {
-    const std::string name = py::str(k);
+    const std::string name = utf8(k, "air key");
     const Key* key = nullptr;
     for (const Key& c : keys)
       if (name == c.name) key = &c;
     if (!key)
-      throw py::value_error("air: unknown key '" + name +
+      throw BadArgument("air: unknown key '" + name +
                             "' (keys: altitude, temperature, pressure, humidity)");
-    const std::string text = value_text(v, "air['" + name + "']");
+    const std::string what = "air['" + name + "']";
+    const std::string text = value_text(v, what);
     std::string error;
-    const auto si = parse_quantity(text, key->q, error);
-    if (!si) throw py::value_error("air['" + name + "']: " + error);
+    const auto si = parse_named_value(text, what, key->q, key->range, error);
+    if (!si) throw BadArgument(error);
     o.*(key->field) = *si;
   }
   return o;
@@ -130,14 +217,42 @@ AirOverride parse_air(const std::optional<py::dict>& air) {
 // "air", as make_air says it).
 std::vector<Circuit> lay_out_all(const std::vector<TrackHandle>& tracks, const AirOverride& air) {
   std::vector<Circuit> out;
-  for (const auto& t : tracks)
-    out.push_back(lay_out(t.track(), make_air(apply(t.track().air, air))));
+  for (const auto& t : tracks) {
+    Air a;
+    try {
+      a = make_air(apply(t.track().air, air));
+    } catch (const InvalidInput& e) {
+      // Impossible through the argument's values (the command line's words, the argument named);
+      // of the track file's own values, the file's error at its place.
+      if (!(air.altitude_m || air.temperature_k || air.pressure_pa || air.humidity)) throw;
+      throw BadArgument("the air that air gives (the track's own values for the rest): " +
+                        e.message());
+    }
+    out.push_back(lay_out(t.track(), a));
+  }
   return out;
+}
+
+// The tracks of compare and trade: at least one, none twice (by file, as --track is checked).
+void check_tracks(const std::vector<TrackHandle>& tracks) {
+  if (tracks.empty()) throw BadArgument("tracks is required: give at least one track");
+  for (std::size_t i = 0; i < tracks.size(); ++i)
+    for (std::size_t j = 0; j < i; ++j) {
+      const std::string& a = tracks[i].track().file;
+      const std::string& b = tracks[j].track().file;
+      std::error_code e1, e2;
+      const auto ca = std::filesystem::weakly_canonical(a, e1);
+      const auto cb = std::filesystem::weakly_canonical(b, e2);
+      if (tracks[i].file == tracks[j].file || a == b || (!e1 && !e2 && ca == cb))
+        throw BadArgument("tracks: " + a + " is given twice");
+    }
 }
 
 // A config by name; an unknown name is the car file's error at its aero.configs, as the command
 // line reports it.
-std::size_t config_of(const CarHandle& car_handle, const Car& car, const std::string& name) {
+std::size_t config_of(const CarHandle& car_handle, const Car& car, const std::string& name,
+                      const std::string& what) {
+  if (name.empty()) throw BadArgument(what + " is given an empty value");
   try {
     return pick_config(car, name);
   } catch (const InvalidInput& e) {
@@ -148,10 +263,18 @@ std::size_t config_of(const CarHandle& car_handle, const Car& car, const std::st
 std::vector<std::size_t> pick_configs(const CarHandle& car_handle, const Car& car,
                                       const std::optional<std::vector<std::string>>& names) {
   std::vector<std::size_t> out;
-  if (!names)
+  if (!names) {
     for (std::size_t i = 0; i < car.configs.size(); ++i) out.push_back(i);
-  else
-    for (const auto& n : *names) out.push_back(config_of(car_handle, car, n));
+    return out;
+  }
+  if (names->empty())
+    throw BadArgument("configs is empty: give at least one config, or None for all of the car's");
+  for (const auto& n : *names) {
+    const std::size_t i = config_of(car_handle, car, n, "configs");
+    if (std::find(out.begin(), out.end(), i) != out.end())
+      throw BadArgument("configs: " + n + " is given twice");
+    out.push_back(i);
+  }
   return out;
 }
 
@@ -160,11 +283,20 @@ CarHandle read_car(const Document& doc) {
           std::make_shared<const CarFile>(read_car_document(doc))};
 }
 
+// A path with a NUL character would be opened cut at it (the C library's end of a name): refused.
+void check_path(const std::string& path) {
+  if (path.find('\0') != std::string::npos)
+    throw BadArgument("path '" + printable(path) +
+                      "': a file name cannot hold a NUL character");
+}
+
 CarHandle load_car_file(const std::string& path) {
+  check_path(path);
   return read_car(load_document(path));
 }
 
 TrackHandle load_track_file(const std::string& path) {
+  check_path(path);
   return {std::make_shared<const TrackFile>(read_track_file(path))};
 }
 
@@ -174,7 +306,7 @@ TrackHandle load_track_file(const std::string& path) {
 CarHandle with_values(const CarHandle& car, const py::dict& values) {
   Document doc = *car.doc;
   for (const auto& [k, v] : values) {
-    const std::string key = py::str(k);
+    const std::string key = utf8(k, "with_values key");
     set_car_value(doc, car_key_path(doc, key), value_text(v, key));
   }
   return read_car(doc);
@@ -189,11 +321,14 @@ struct SolvedLap {
 };
 
 PyLap run(const CarHandle& car_handle, const TrackHandle& track_handle,
-          const std::optional<std::string>& config, const std::optional<std::string>& model,
+          const py::object& config_arg, const py::object& model_arg,
           const std::optional<py::dict>& air_dict) {
-  const Car car = with_model(car_handle.car(), model);
-  const std::size_t ci = config_of(car_handle, car, config.value_or(""));
+  const std::optional<std::string> config = optional_text(config_arg, "config");
+  const std::optional<std::string> model = optional_text(model_arg, "model");
   const AirOverride air = parse_air(air_dict);
+  const Car car = with_model(car_handle.car(), model);
+  const std::size_t ci =
+      config ? config_of(car_handle, car, *config, "config") : pick_config(car, "");
   const std::vector<TrackHandle> tracks{track_handle};
   SolvedLap solved = solve_unlocked(maps_of(car_handle, tracks), [&] {
     std::vector<Circuit> circuits = lay_out_all(tracks, air);
@@ -238,12 +373,15 @@ PyLap run(const CarHandle& car_handle, const TrackHandle& track_handle,
 }
 
 py::object compare(const CarHandle& car_handle, const std::vector<TrackHandle>& tracks,
-                   const std::optional<std::vector<std::string>>& configs,
-                   const std::optional<std::string>& model, const std::optional<py::dict>& air_dict,
-                   unsigned threads) {
+                   const py::object& configs_arg, const py::object& model_arg,
+                   const std::optional<py::dict>& air_dict, const py::object& threads_arg) {
+  const std::optional<std::vector<std::string>> configs = optional_texts(configs_arg, "configs");
+  const std::optional<std::string> model = optional_text(model_arg, "model");
+  const unsigned threads = count_in(threads_arg, "threads", 0, 256);
+  check_tracks(tracks);
+  const AirOverride air = parse_air(air_dict);
   const Car car = with_model(car_handle.car(), model);
   const std::vector<std::size_t> picked = pick_configs(car_handle, car, configs);
-  const AirOverride air = parse_air(air_dict);
   const std::string text = solve_unlocked(maps_of(car_handle, tracks), [&] {
     const std::vector<Circuit> circuits = lay_out_all(tracks, air);
     return compare_json(car, lapwing::compare(car, picked, circuits, threads), circuits);
@@ -251,33 +389,36 @@ py::object compare(const CarHandle& car_handle, const std::vector<TrackHandle>& 
   return parse_json(text);
 }
 
-// A fraction given as a number (0.02) or as text with its unit ("2 %").
-double fraction(const py::handle& v, const std::string& what) {
-  if (!py::isinstance<py::str>(v)) {
-    value_text(v, what);  // refuses what is not a finite number
-    return v.cast<double>();
-  }
+// A fraction given as a number (0.02) or as text with its unit ("2 %"), in its range.
+double fraction(const py::handle& v, const std::string& what, const Range& range) {
   std::string error;
-  const auto x = parse_quantity(v.cast<std::string>(), Quantity::fraction, error);
-  if (!x) throw py::value_error(what + ": " + error);
+  const auto x = parse_named_value(value_text(v, what), what, Quantity::fraction, range, error);
+  if (!x) throw BadArgument(error);
   return *x;
 }
 
 py::object trade(const CarHandle& car_handle, const std::vector<TrackHandle>& tracks,
-                 const std::optional<std::string>& config, const py::object& step,
-                 const py::object& span, int grid, const std::optional<std::string>& model,
-                 const std::optional<py::dict>& air_dict, unsigned threads) {
+                 const py::object& config_arg, const py::object& step,
+                 const py::object& span, const py::object& grid,
+                 const py::object& model_arg, const std::optional<py::dict>& air_dict,
+                 const py::object& threads_arg) {
+  const std::optional<std::string> config = optional_text(config_arg, "config");
+  const std::optional<std::string> model = optional_text(model_arg, "model");
+  const unsigned threads = count_in(threads_arg, "threads", 0, 256);
+  check_tracks(tracks);
+  // In the command line's order: the air and the trade's options, then the car's config.
+  const AirOverride air = parse_air(air_dict);
+  TradeOptions options;
+  options.step = fraction(step, "step", TradeOptions::step_range);
+  options.grid_span = fraction(span, "span", TradeOptions::grid_span_range);
+  options.grid_points = static_cast<int>(
+      count_in(grid, "grid", TradeOptions::min_grid_points, TradeOptions::max_grid_points));
   const Car car = with_model(car_handle.car(), model);
   std::vector<std::size_t> configs;
   if (config)
-    configs.push_back(config_of(car_handle, car, *config));
+    configs.push_back(config_of(car_handle, car, *config, "config"));
   else
     configs = pick_configs(car_handle, car, std::nullopt);
-  TradeOptions options;
-  options.step = fraction(step, "step");
-  options.grid_span = fraction(span, "span");
-  options.grid_points = grid;
-  const AirOverride air = parse_air(air_dict);
   const std::string text = solve_unlocked(maps_of(car_handle, tracks), [&] {
     const std::vector<Circuit> circuits = lay_out_all(tracks, air);
     return trade_json(car, lapwing::trade(car, configs, circuits, options, threads), circuits);
@@ -312,6 +453,8 @@ PYBIND11_MODULE(lapwing, m) {
     } catch (const lw::InputError& e) {
       input_error(e.what());
     } catch (const lw::InvalidInput& e) {  // of no file loaded (the air, the trade's options)
+      input_error(e.what());
+    } catch (const BadArgument& e) {
       input_error(e.what());
     } catch (const lw::CannotMove& e) {
       cannot_move((std::string("the car cannot complete the track: ") + e.what()).c_str());
@@ -375,12 +518,12 @@ PYBIND11_MODULE(lapwing, m) {
         "otherwise); air: {'altitude', 'temperature', 'pressure', 'humidity'} replacing the "
         "track's values.");
   m.def("compare", &compare, py::arg("car"), py::arg("tracks"), py::arg("configs") = py::none(),
-        py::arg("model") = py::none(), py::arg("air") = py::none(), py::arg("threads") = 0u,
+        py::arg("model") = py::none(), py::arg("air") = py::none(), py::arg("threads") = 0,
         "Every config (default all of the car's) round every track, as `lapwing compare`: "
         "what compare.json holds, as a dict. threads=0: all cores.");
   m.def("trade", &trade, py::arg("car"), py::arg("tracks"), py::arg("config") = py::none(),
         py::arg("step") = 0.02, py::arg("span") = 0.15, py::arg("grid") = 9,
-        py::arg("model") = py::none(), py::arg("air") = py::none(), py::arg("threads") = 0u,
+        py::arg("model") = py::none(), py::arg("air") = py::none(), py::arg("threads") = 0,
         "The downforce-for-drag trade, as `lapwing trade`: what trade.json holds, as a dict. "
         "step and span: fractions (0.02) or text ('2 %').");
 }

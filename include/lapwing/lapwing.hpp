@@ -16,6 +16,7 @@
 #include "lapwing/base/hash.hpp"
 #include "lapwing/base/interpolate.hpp"
 #include "lapwing/base/memory.hpp"
+#include "lapwing/base/named_value.hpp"
 #include "lapwing/base/range.hpp"
 #include "lapwing/base/text.hpp"
 #include "lapwing/base/units.hpp"

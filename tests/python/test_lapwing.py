@@ -287,9 +287,152 @@ def test_a_python_thread_runs_while_a_lap_is_solved():
 
 def test_air_and_model_are_checked():
     car, track = lapwing.load_car("cars/caldra-gt.yaml"), lapwing.load_track("tracks/skidpad.yaml")
-    with pytest.raises(lapwing.InputError, match=r"^air: error: .*\(altitude\)$"):
+    with pytest.raises(lapwing.InputError, match=r"^air\[.altitude.\]: 7 km is out of range"):
         lapwing.run(car, track, air={"altitude": "7 km"})
     with pytest.raises(ValueError, match="unknown key 'altitud'"):
         lapwing.run(car, track, air={"altitud": 100})
     with pytest.raises(ValueError, match="not one of axle | point-mass"):
         lapwing.run(car, track, model="bicycle")
+
+
+# The module's refusals against the command line's (README, "In Python": the same words, the
+# Python argument named where the command line names its option). The reference is the command
+# line's stderr for the same input, so each check fails when the two texts differ.
+CAR, TRACK = "cars/pellion-fr2.yaml", "tracks/skidpad.yaml"
+
+
+def cli_error(*args):
+    r = cli(*args, expect=2)
+    assert r.stderr.startswith("lapwing: error: "), r.stderr
+    return r.stderr[len("lapwing: error: "):].rstrip("\n")
+
+
+@pytest.mark.parametrize("load", [lapwing.load_car, lapwing.load_track])
+def test_a_path_with_a_nul_character_is_refused(load):
+    # Opened as given, the name would be cut at the NUL and another file read.
+    path = (CAR if load is lapwing.load_car else TRACK) + "\0.ignored"
+    with pytest.raises(lapwing.InputError, match=r"pellion-fr2\.yaml.*NUL|skidpad\.yaml.*NUL"):
+        load(path)
+
+
+def test_numbers_beyond_a_double_are_input_errors_not_cast_errors():
+    car, track = lapwing.load_car(CAR), lapwing.load_track(TRACK)
+    with pytest.raises(lapwing.InputError, match=r"^air\['altitude'\]: .*too large"):
+        lapwing.run(car, track, air={"altitude": 10**400})
+    with pytest.raises(lapwing.InputError, match=r"^step: .*too large"):
+        lapwing.trade(car, [track], step=10**400)
+    with pytest.raises(lapwing.InputError, match=r"^mass: .*too large"):
+        car.with_values({"mass": 10**400})
+    with pytest.raises(lapwing.InputError, match=r"^name: .*lone surrogate"):
+        car.with_values({"name": "\ud800"})
+    with pytest.raises(TypeError, match=r"^air\['altitude'\]: give a number"):
+        lapwing.run(car, track, air={"altitude": [100]})
+    with pytest.raises(TypeError, match=r"^air\['altitude'\]: give a number"):
+        lapwing.run(car, track, air={"altitude": np.bool_(True)})
+    for kw in ({"config": "\ud800"}, {"model": "\udcff"}):
+        with pytest.raises(lapwing.InputError, match=r"lone surrogate"):
+            lapwing.run(car, track, **kw)
+    with pytest.raises(lapwing.InputError, match=r"^configs: .*lone surrogate"):
+        lapwing.compare(car, [track], configs=["low", "\ud800"])
+    with pytest.raises(TypeError, match=r"^configs: give a list of names, not str"):
+        lapwing.compare(car, [track], configs="low")
+    with pytest.raises(TypeError, match=r"^config: give a string, not int"):
+        lapwing.trade(car, [track], config=1)
+    # Not finite: the command line's words for --altitude nan, not an internal error.
+    for x, text in ((float("nan"), "nan"), (np.float64("inf"), "inf"), (-math.inf, "-inf")):
+        with pytest.raises(lapwing.InputError) as e:
+            lapwing.run(car, track, air={"altitude": x})
+        assert str(e.value) == cli_error("run", "--car", CAR, "--track", TRACK,
+                                         f"--altitude={text}").replace("--altitude",
+                                                                      "air['altitude']")
+    with pytest.raises(lapwing.InputError):
+        lapwing.trade(car, [track], step=math.nan)
+    with pytest.raises(lapwing.InputError):
+        car.with_values({"mass": math.inf})
+    with pytest.raises(lapwing.InputError, match=r"^threads: Value \(a huge number\) not in"):
+        lapwing.compare(car, [track], threads=10**5000)
+    with pytest.raises(TypeError, match=r"^threads: give an integer"):
+        lapwing.compare(car, [track], threads=2.0)
+
+
+def test_any_real_number_type_is_a_number():
+    # numpy.int64 and numpy.float64 are numbers.Real as int and float are: the same lap.
+    car, track = lapwing.load_car(CAR), lapwing.load_track(TRACK)
+    want = lapwing.run(car, track, air={"altitude": 800, "temperature": 31}).lap_time_s
+    for kind in (np.int64, np.float64, np.int32, np.float32):
+        got = lapwing.run(car, track, air={"altitude": kind(800), "temperature": kind(31)})
+        assert got.lap_time_s == want, kind
+    assert lapwing.trade(car, [track], step=np.float64(0.02), grid=np.int64(3)) == \
+        lapwing.trade(car, [track], step=0.02, grid=3)
+
+
+def test_what_the_command_line_refuses_the_module_refuses():
+    car, track = lapwing.load_car(CAR), lapwing.load_track(TRACK)
+    # --track is required (CLI11's words): an empty list laps nothing.
+    assert "--track is required" in cli("compare", "--car", CAR, expect=2).stderr
+    for study in (lapwing.compare, lapwing.trade):
+        with pytest.raises(lapwing.InputError, match=r"^tracks is required"):
+            study(car, [])
+    # The same track twice, as the same object or loaded again.
+    assert cli_error("compare", "--car", CAR, "--track", TRACK, "--track", TRACK) == \
+        f"--track {TRACK} is given twice"
+    for again in (track, lapwing.load_track(TRACK)):
+        for study in (lapwing.compare, lapwing.trade):
+            with pytest.raises(lapwing.InputError) as e:
+                study(car, [track, again])
+            assert str(e.value) == f"tracks: {TRACK} is given twice"
+    # An empty config is not the first one.
+    assert cli_error("run", "--car", CAR, "--track", TRACK, "--config", "") == \
+        "--config is given an empty value"
+    with pytest.raises(lapwing.InputError, match=r"^config is given an empty value$"):
+        lapwing.run(car, track, config="")
+    with pytest.raises(lapwing.InputError, match=r"^config is given an empty value$"):
+        lapwing.trade(car, [track], config="")
+    with pytest.raises(lapwing.InputError, match=r"^configs is given an empty value$"):
+        lapwing.compare(car, [track], configs=[""])
+    with pytest.raises(lapwing.InputError, match=r"^configs is empty"):
+        lapwing.compare(car, [track], configs=[])
+    # threads in 0..256, as --threads.
+    for threads in (257, 2**32 - 1, 2**70, -1):
+        expect = cli_error("compare", "--car", CAR, "--track", TRACK, "--threads",
+                           str(threads)).removesuffix(" (see lapwing --help)")
+        for study in (lapwing.compare, lapwing.trade):
+            with pytest.raises(lapwing.InputError) as e:
+                study(car, [track], threads=threads)
+            assert str(e.value) == expect.replace("--threads", "threads")
+
+
+@pytest.mark.parametrize("key,value", [
+    ("temperature", -300), ("temperature", "-300"), ("temperature", "400 K"),
+    ("pressure", 985), ("pressure", "985"), ("altitude", 7000), ("altitude", "7 km"),
+    ("humidity", 60), ("humidity", "60 %x"),
+])
+def test_air_errors_are_the_command_line_words(key, value):
+    car, track = lapwing.load_car(CAR), lapwing.load_track(TRACK)
+    expect = cli_error("run", "--car", CAR, "--track", TRACK, f"--{key}", str(value))
+    with pytest.raises(lapwing.InputError) as e:
+        lapwing.run(car, track, air={key: value})
+    assert str(e.value) == expect.replace(f"--{key}", f"air['{key}']")
+
+
+@pytest.mark.parametrize("option,value", [
+    ("step", 2), ("step", "2"), ("step", "60 %"), ("span", 0), ("span", "95 %"), ("grid", 2),
+    ("grid", 42),
+])
+def test_trade_option_errors_are_the_command_line_words(option, value):
+    car, track = lapwing.load_car(CAR), lapwing.load_track(TRACK)
+    expect = cli_error("trade", "--car", CAR, "--track", TRACK, f"--{option}", str(value))
+    expect = expect.removesuffix(" (see lapwing --help)")
+    with pytest.raises(lapwing.InputError) as e:
+        lapwing.trade(car, [track], **{option: value})
+    assert str(e.value) == expect.replace(f"--{option}", option)
+
+
+def test_a_config_given_twice_is_the_command_line_words():
+    car, track = lapwing.load_car(CAR), lapwing.load_track(TRACK)
+    expect = cli_error("compare", "--car", CAR, "--track", TRACK, "--config", "low", "--config",
+                       "low")
+    assert expect == "--config low is given twice"
+    with pytest.raises(lapwing.InputError) as e:
+        lapwing.compare(car, [track], configs=["low", "low"])
+    assert str(e.value) == "configs: low is given twice"
