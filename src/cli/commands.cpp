@@ -1066,6 +1066,15 @@ int fit(const FitOptions& o, Inputs& in) {
     fit_logs.push_back({&circuits[track_of[i]], &logs[i].speed});
   lapwing::FitOptions fo;
   fo.threads = o.threads;
+  if (!o.out.empty()) {
+    // Where each freed value will be written in the car file, found before the fit runs (a
+    // wing family's config has no value of its own to write into): its neutral value written.
+    FitResult neutral;
+    neutral.params = params;
+    for (const FitParameter p : params)
+      neutral.values.push_back(p == FitParameter::balance ? 0.0 : 1.0);
+    (void)edited_car_text(o.car, fitted_edits(car, ci, neutral));
+  }
   const ConfiguredCar start = car.configured(ci);
   const FitResult r = at_log_rows(logs, [&] { return lapwing::fit(start, fit_logs, params, fo); });
   std::vector<std::string> track_names;

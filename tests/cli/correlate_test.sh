@@ -94,6 +94,13 @@ usage "lapwing: error: --speed-unit: unknown speed unit 'knots'" correlate "${co
   --log "$log" --time time_s --speed-unit knots
 usage "lapwing: error: --free: grip is given twice" fit "${common[@]}" --log "$log" --time time_s \
   --free grip,grip
+# A freed value with no place in the car file to be written (a wing family's config) is found
+# before the fit runs, at the car file's nearest key, and nothing is written.
+"$bin" fit --car "$car" --track "$track" --config front_flap --speed speed_kph --log "$log" \
+  --time time_s --free cla --out "$tmp/nowhere" > /dev/null 2> "$tmp/err.txt"
+rc=$?
+[ $rc -eq 2 ] && grep -qE "^$car:[0-9]+:[0-9]+: error: the file holds no value at this key path" \
+  "$tmp/err.txt" && [ ! -e "$tmp/nowhere" ] && ok || bad "fit of a family's cla: rc $rc, $(cat "$tmp/err.txt")"
 
 echo "correlate_test: $pass passed, $fail failed"
 [ $fail -eq 0 ]
