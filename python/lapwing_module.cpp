@@ -290,12 +290,21 @@ void check_path(const std::string& path) {
                       "': a file name cannot hold a NUL character");
 }
 
-CarHandle load_car_file(const std::string& path) {
+// A path as Python gives it: a str, bytes or any os.PathLike (pathlib.Path), as open() takes
+// (os.fsdecode: bytes by the file system's encoding); anything else a TypeError.
+std::string path_text(const py::object& path) {
+  const py::object text = py::module_::import("os").attr("fsdecode")(path);
+  return text.cast<std::string>();
+}
+
+CarHandle load_car_file(const py::object& path_object) {
+  const std::string path = path_text(path_object);
   check_path(path);
   return read_car(load_document(path));
 }
 
-TrackHandle load_track_file(const std::string& path) {
+TrackHandle load_track_file(const py::object& path_object) {
+  const std::string path = path_text(path_object);
   check_path(path);
   return {std::make_shared<const TrackFile>(read_track_file(path))};
 }

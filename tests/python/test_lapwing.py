@@ -315,6 +315,17 @@ def test_a_path_with_a_nul_character_is_refused(load):
         load(path)
 
 
+@pytest.mark.parametrize("load", [lapwing.load_car, lapwing.load_track])
+def test_a_path_may_be_a_pathlib_path_or_bytes_as_open_takes_it(load):
+    # os.fsdecode's forms (Python's open() takes the same): the file read is the one named.
+    import pathlib
+    path = CAR if load is lapwing.load_car else TRACK
+    assert repr(load(pathlib.Path(path))) == repr(load(path))
+    assert repr(load(path.encode())) == repr(load(path))
+    with pytest.raises(TypeError, match="os.PathLike"):
+        load(3)
+
+
 def test_numbers_beyond_a_double_are_input_errors_not_cast_errors():
     car, track = lapwing.load_car(CAR), lapwing.load_track(TRACK)
     with pytest.raises(lapwing.InputError, match=r"^air\['altitude'\]: .*too large"):
