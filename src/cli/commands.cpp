@@ -164,17 +164,23 @@ int located(int (*command)(const Options&, Inputs&), const Options& o) {
   }
 }
 
+// Whether two paths name one file (through "..", links and symlinks): a file given twice, or a
+// command that would write over what it reads.
+bool same_file(const std::string& a, const std::string& b) {
+  std::error_code e1, e2, e3;
+  if (std::filesystem::equivalent(a, b, e3) && !e3) return true;
+  const auto ca = std::filesystem::weakly_canonical(a, e1);
+  const auto cb = std::filesystem::weakly_canonical(b, e2);
+  return !e1 && !e2 && ca == cb;
+}
+
 std::vector<Inputs::Loaded> Inputs::load_all(const std::vector<std::string>& files,
                                              const AirOverride& air) {
   std::vector<Loaded> out;
   for (std::size_t i = 0; i < files.size(); ++i) {
-    for (std::size_t j = 0; j < i; ++j) {
-      std::error_code e1, e2;
-      const auto a = std::filesystem::weakly_canonical(files[i], e1);
-      const auto b = std::filesystem::weakly_canonical(files[j], e2);
-      if (files[i] == files[j] || (!e1 && !e2 && a == b))
+    for (std::size_t j = 0; j < i; ++j)
+      if (files[i] == files[j] || same_file(files[i], files[j]))
         throw UsageError{"--track " + files[i] + " is given twice"};
-    }
     out.push_back(load(files[i], air));
   }
   return out;
@@ -712,16 +718,6 @@ int sweep(const SweepOptions& o) {
   return located(&sweep, o);
 }
 
-// Whether two paths name one file (through "..", links and symlinks): for a command that would
-// write over what it reads.
-bool same_file(const std::string& a, const std::string& b) {
-  std::error_code e1, e2, e3;
-  if (std::filesystem::equivalent(a, b, e3) && !e3) return true;
-  const auto ca = std::filesystem::weakly_canonical(a, e1);
-  const auto cb = std::filesystem::weakly_canonical(b, e2);
-  return !e1 && !e2 && ca == cb;
-}
-
 int sweep_merge(const SweepMergeOptions& o) {
   // A store given twice would be read twice, and the output as an input read while written
   // (SQLite: "database is locked"): both refused before anything is opened.
@@ -780,8 +776,9 @@ int track_from_log(const FromLogOptions& o) {
   if (o.smoothing != "auto")
     l.smoothing_m =
         *option_value(o.smoothing, "--smoothing", Quantity::length, LogOptions::smoothing_range);
-  l.air = apply(AirSpec{}, parse_air(o.air));
-  (void)air_of(AirSpec{}, parse_air(o.air));  // air no air can be: the options' error
+  const AirOverride air = parse_air(o.air);
+  l.air = apply(AirSpec{}, air);
+  (void)air_of(AirSpec{}, air);  // air no air can be: the options' error
   require_options(l.validate());              // a unit or column option: the option's error
   const std::string csv_name = out.stem().string() + ".csv";
   const LogTrack t = lapwing::track_from_log(l, csv_name);
@@ -823,10 +820,7 @@ void require_not_input(const std::filesystem::path& out, const Track& track) {
     if (*p && !(*p)->data_file.empty()) inputs.push_back((*p)->data_file);
   for (const std::filesystem::path& written : {out, dir / (out.stem().string() + ".csv")})
     for (const std::string& input : inputs) {
-      std::error_code e1, e2;
-      const auto a = std::filesystem::weakly_canonical(written, e1);
-      const auto b = std::filesystem::weakly_canonical(input, e2);
-      if (!e1 && !e2 && a == b)
+      if (same_file(written.string(), input))
         throw UsageError{"--out " + out.string() + " would replace " + input +
                          ", which the track reads: write the line to another name"};
     }
