@@ -901,6 +901,29 @@ std::string html_report(const ReportInput& in) {
                (shown->verdict == Verdict::poor ? "<strong>warning:</strong> " : "") +
                escape(quality_line(*shown)) + "</p>\n";
       }
+      // The laps' warnings (a table's end reached, an axle beyond its grip), as the text and
+      // summary.json give them: each once, with the configs it applies to where there are
+      // several (the data's verdict is the line above).
+      std::vector<std::string> skip;
+      if (in.qualities)
+        for (const auto& q : *in.qualities)
+          if (q.track_id == c.track.id) skip.push_back(quality_warning(q));
+      std::vector<std::pair<std::string, std::vector<std::string>>> warnings;
+      for (std::size_t k = 0; k < pt.entries.size(); ++k)
+        for (const std::string& w : pt.entries[k].run.summary.warnings) {
+          if (std::find(skip.begin(), skip.end(), w) != skip.end()) continue;
+          auto it = std::find_if(warnings.begin(), warnings.end(),
+                                 [&](const auto& x) { return x.first == w; });
+          if (it == warnings.end()) it = warnings.insert(warnings.end(), {w, {}});
+          it->second.push_back(names[k]);
+        }
+      for (const auto& [w, configs] : warnings) {
+        std::string which;
+        for (const auto& n : configs) which += (which.empty() ? "" : ", ") + n;
+        o += "<p class=\"quality\"><strong>warning" +
+             (names.size() > 1 ? " (" + escape(which) + ")" : std::string()) + ":</strong> " +
+             escape(w) + "</p>\n";
+      }
       if (pt.entries.size() > 1) o += verdict_html(c.track.name, pt, names);
       // The traces: static SVG, and the data the script draws the live plots from.
       o += "<div class=\"traces\" id=\"traces-" + id + "\">\n";

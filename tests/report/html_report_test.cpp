@@ -10,6 +10,7 @@
 #include "lapwing/report/cells.hpp"
 #include "lapwing/report/html_report.hpp"
 #include "lapwing/report/labels.hpp"
+#include "lapwing/report/svg.hpp"
 #include "lapwing/study/trade.hpp"
 #include "test_support.hpp"
 
@@ -157,6 +158,26 @@ TEST_CASE("a run report has its plots and no delta or trade map") {
   CHECK(ids.count("gg-skidpad") == 1);
   CHECK(ids.count("delta-skidpad") == 0);
   CHECK(ids.count("trade-map-skidpad") == 0);
+}
+
+TEST_CASE("a lap's warnings are on its report as in the text, each once, marked as warnings") {
+  // The point mass on Brannock Park asks the rear axle for twice its grip under power (a lap
+  // warning, summary.hpp); the page says it where the track's section starts, as the terminal
+  // and summary.json do, and stays well-formed.
+  Car car = load_car(test::source_path("cars/pellion-fr2.yaml"));
+  car.model = VehicleModel::point_mass;
+  const Circuit c = circuit("tracks/brannock-park.yaml");
+  const std::vector<Circuit> circuits{c};
+  const Comparison one = single_lap_comparison(0, run_lap(car.configured(0), c), c);
+  const std::vector<std::string>& warnings = one.tracks[0].entries[0].run.summary.warnings;
+  REQUIRE_FALSE(warnings.empty());
+  const std::string page = html_report({&car, &circuits, &one, nullptr, "run"});
+  (void)parse_xml(page);  // throws where the page is not well-formed
+  for (const std::string& w : warnings) {
+    const std::string shown = "<strong>warning:</strong> " + svg::escape(w) + "</p>";
+    CHECK(page.find(shown) != std::string::npos);
+    CHECK(page.find(shown) == page.rfind(shown));  // once
+  }
 }
 
 TEST_CASE("run's single-lap page: speed, map, balance, g-g and the corners table; no bars of one") {
