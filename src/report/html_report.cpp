@@ -343,6 +343,8 @@ std::string correlation_section(const Circuit& c, const Lap& lap, const Correlat
     dt.marker(mesh.s_m[span.start], std::to_string(span.id));
   }
   std::string o = "<section id=\"correlation\"><h2>Against the log</h2>\n";
+  if (const auto w = alignment_warning(k.alignment))
+    o += "<p class=\"quality\"><strong>warning:</strong> " + escape(*w) + "</p>\n";
   o +=
       table(escaped({"", "value"}),
             {{"alignment", escape("offset " + fixed(k.alignment.offset_m, 2) + " m, scale " +

@@ -78,6 +78,14 @@ expect "$tmp/mph.csv" "--time time_s" km/h "speed-unit"
 head -n 700 "$log" > "$tmp/half.csv"
 expect "$tmp/half.csv" "--time time_s" km/h "covers"
 
+# A log of constant speed aligns at r = 0: warned of in the text, correlate.json and the report.
+{ echo "distance_m,speed_kph"; for i in $(seq 0 1400); do echo "$((i * 2)),150"; done; } > "$tmp/flat.csv"
+"$bin" correlate "${common[@]}" --log "$tmp/flat.csv" --distance distance_m --out "$tmp/flat" \
+  > "$tmp/flat.txt" 2>&1 && grep -q "^warning: the log's speed correlates" "$tmp/flat.txt" &&
+  python3 -c "import json, sys; w = json.load(open(sys.argv[1]))['warnings']; sys.exit(not (
+    len(w) == 1 and w[0].startswith(\"the log's speed correlates\")))" "$tmp/flat/correlate.json" &&
+  grep -q "<strong>warning:</strong> the log's speed correlates" "$tmp/flat/report.html" && ok || bad "constant log: no warning ($(head -c 300 "$tmp/flat.txt"))"
+
 # 4. Usage errors: exit 2, one line.
 usage() {  # TEXT ARGS...
   local want=$1
