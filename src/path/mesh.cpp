@@ -6,6 +6,7 @@
 #include <cmath>
 #include <limits>
 #include <memory>
+#include <optional>
 #include <sstream>
 #include <string>
 #include <thread>
@@ -40,7 +41,7 @@ class Walker {
 
   /// A walk from the track's start, each segment walked to its end before the next.
   explicit Walker(const Track& t) : track_(t) {}
-  /// A walk that takes each segment's start from `starts` (segment_starts) instead of walking
+  /// A walk that takes each segment's start from `starts` (segment_walk) instead of walking
   /// the segment before to its end: it may start anywhere, and where it passes a point it
   /// finds the same state as any other such walk that steps to that point from the same
   /// segment start the same way.
@@ -48,27 +49,34 @@ class Walker {
     enter(0);
   }
 
+  struct State {
+    double x, y, heading, curvature, elevation, grade, width, bank;
+  };
+
   /// The start of every segment, each walked whole from the last (one step for a straight or an
-  /// arc, pieces of at most max_piece_m for a clothoid), as closure() walks them.
-  static std::vector<Start> segment_starts(const Track& t) {
-    Walker w(t);
+  /// arc, pieces of at most max_piece_m for a clothoid), and the state at the track's end.
+  struct Walk {
     std::vector<Start> starts;
-    starts.reserve(t.segments.size());
-    starts.push_back({0.0, 0.0, 0.0, 0.0});
+    State end;
+  };
+  static Walk segment_walk(const Track& t) {
+    Walker w(t);
+    Walk out;
+    out.starts.reserve(t.segments.size());
+    out.starts.push_back({0.0, 0.0, 0.0, 0.0});
+    // The steps at() takes from one segment to the next on its way to the track's end, so that
+    // `end` is what a walk from the start to the end finds (closure() reads it).
     for (std::size_t k = 0; k + 1 < t.segments.size(); ++k) {
       w.advance_to(w.seg().length_m);
-      starts.push_back({w.x_, w.y_, w.z_, w.heading(w.seg().length_m)});
-      w.heading0_ = starts.back().heading;
+      out.starts.push_back({w.x_, w.y_, w.z_, w.heading(w.seg().length_m)});
+      w.heading0_ = out.starts.back().heading;
       w.seg_start_ += w.seg().length_m;
       ++w.seg_;
       w.u_ = 0.0;
     }
-    return starts;
+    out.end = w.at(t.length_m());
+    return out;
   }
-
-  struct State {
-    double x, y, heading, curvature, elevation, grade, width, bank;
-  };
 
   // Advances to distance s (not before the current one) and returns the state there.
   State at(double s) {
@@ -192,6 +200,11 @@ double wrap_angle(double a) {
   return a;
 }
 
+// A segment track's closure from the state at its end (its start is the origin, heading 0).
+Closure closure_at(const Walker::State& end) {
+  return {std::hypot(end.x, end.y), wrap_angle(end.heading), end.elevation, end.heading};
+}
+
 }  // namespace
 
 namespace {
@@ -230,9 +243,7 @@ Closure closure(const Track& track) {
                      : std::hypot(p.x_m.back() - p.x_m.front(), p.y_m.back() - p.y_m.front()),
             wrap_angle(turning), p.elevation_m.back() - p.elevation_m.front(), turning};
   }
-  Walker w(track);
-  const auto end = w.at(track.length_m());
-  return {std::hypot(end.x, end.y), wrap_angle(end.heading), end.elevation, end.heading};
+  return closure_at(Walker::segment_walk(track).end);
 }
 
 double closure_position_tolerance_m(const Track& track) {
@@ -246,8 +257,7 @@ double closure_position_tolerance_m(const Track& track) {
 namespace {
 
 // A closed track must close: the error states the gap and the tolerance, at the path's key.
-void check_closure(const Track& track) {
-  const Closure c = closure(track);
+void check_closure(const Track& track, const Closure& c) {
   const double position_tolerance = closure_position_tolerance_m(track);
   const bool position_bad = c.position_gap_m > position_tolerance;
   const bool heading_bad = std::abs(c.heading_gap_rad) > closure_heading_deg * units::deg;
@@ -321,17 +331,28 @@ Mesh build_mesh(const Track& track, double step_m, unsigned threads) {
       FirstViolation().range("step_m", step_m, Track::mesh_range, Quantity::length).result(),
       "mesh step");
   const double length = track.length_m();
-  if (track.closed) check_closure(track);
+  const PathProfile* lapped = lapped_profile(track);
+  // A segment track's walk to each segment's start, which also finds where its end is.
+  std::optional<Walker::Walk> segments;
+  if (!lapped) segments = Walker::segment_walk(track);
+  if (track.closed) check_closure(track, segments ? closure_at(segments->end) : closure(track));
   const std::size_t n = mesh_point_count(track, step_m) - 1;
   Mesh m;
   m.closed = track.closed;
   m.length_m = length;
   m.step_m = length / static_cast<double>(n);
-  for (auto* v : {&m.s_m, &m.x_m, &m.y_m, &m.heading_rad, &m.curvature_1pm, &m.elevation_m,
-                  &m.grade, &m.bank_rad})
+  // A level segment track has no elevation and an unbanked one no bank (Mesh: empty, read as
+  // 0): those are not laid out at all (a profile's are, and kept where they are not all 0).
+  const bool elevation =
+      lapped || std::any_of(track.segments.begin(), track.segments.end(),
+                            [](const Segment& g) { return g.grade != 0.0; });
+  const bool bank = lapped || std::any_of(track.segments.begin(), track.segments.end(),
+                                          [](const Segment& g) { return g.signed_bank_rad() != 0.0; });
+  for (auto* v : {&m.s_m, &m.x_m, &m.y_m, &m.heading_rad, &m.curvature_1pm, &m.grade})
     resize_ready(*v, n + 1);
+  if (elevation) resize_ready(m.elevation_m, n + 1);
+  if (bank) resize_ready(m.bank_rad, n + 1);
   m.trim_zone.assign(n + 1, 1);
-  const PathProfile* lapped = lapped_profile(track);
   const bool widths = track.has_widths() || (lapped && !lapped->width_left_m.empty());
   if (widths)
     for (auto* v : {&m.width_left_m, &m.width_right_m}) v->resize(n + 1);
@@ -359,12 +380,12 @@ Mesh build_mesh(const Track& track, double step_m, unsigned threads) {
     }
   }
   if (!lapped) {
-    // Segments: each point walked from its segment's start (Walker::segment_starts), point by
+    // Segments: each point walked from its segment's start (Walker::segment_walk), point by
     // point; the points in two halves, each with a walk of its own (on two threads for a long
     // mesh). A point's state depends on its segment's start and the steps the walk took to it
     // in the segment alone: the halves are always the same, so the mesh is whatever the
     // threads.
-    const std::vector<Walker::Start> starts = Walker::segment_starts(track);
+    const std::vector<Walker::Start>& starts = segments->starts;
     const auto points = [&](std::size_t lo, std::size_t hi) {
       Walker w(track, starts);
       for (std::size_t i = lo; i < hi; ++i) {
@@ -375,9 +396,9 @@ Mesh build_mesh(const Track& track, double step_m, unsigned threads) {
         m.y_m[i] = st.y;
         m.heading_rad[i] = st.heading;
         m.curvature_1pm[i] = st.curvature;
-        m.elevation_m[i] = st.elevation;
+        if (elevation) m.elevation_m[i] = st.elevation;
         m.grade[i] = st.grade;
-        m.bank_rad[i] = st.bank;
+        if (bank) m.bank_rad[i] = st.bank;
         if (widths) m.width_left_m[i] = m.width_right_m[i] = 0.5 * st.width;
       }
     };
@@ -418,7 +439,7 @@ Mesh build_mesh(const Track& track, double step_m, unsigned threads) {
     // One lap: the last point is the first again (the closure gap is within tolerance).
     m.curvature_1pm[n] = m.curvature_1pm[0];
     m.grade[n] = m.grade[0];
-    m.bank_rad[n] = m.bank_rad[0];
+    if (bank) m.bank_rad[n] = m.bank_rad[0];
     m.trim_zone[n] = m.trim_zone[0];
   }
   // A flat track keeps no bank and no elevation, and still air no head wind (Mesh: empty, read
