@@ -341,16 +341,17 @@ Mesh build_mesh(const Track& track, double step_m, unsigned threads) {
   m.closed = track.closed;
   m.length_m = length;
   m.step_m = length / static_cast<double>(n);
-  // A level segment track has no elevation and an unbanked one no bank (Mesh: empty, read as
-  // 0): those are not laid out at all (a profile's are, and kept where they are not all 0).
-  const bool elevation =
+  // A level segment track has no grade or elevation and an unbanked one no bank (Mesh: empty,
+  // read as 0): those are not laid out at all (a profile's are, and kept where not all 0).
+  const bool graded =
       lapped || std::any_of(track.segments.begin(), track.segments.end(),
                             [](const Segment& g) { return g.grade != 0.0; });
   const bool bank = lapped || std::any_of(track.segments.begin(), track.segments.end(),
                                           [](const Segment& g) { return g.signed_bank_rad() != 0.0; });
-  for (auto* v : {&m.s_m, &m.x_m, &m.y_m, &m.heading_rad, &m.curvature_1pm, &m.grade})
+  for (auto* v : {&m.s_m, &m.x_m, &m.y_m, &m.heading_rad, &m.curvature_1pm})
     resize_ready(*v, n + 1);
-  if (elevation) resize_ready(m.elevation_m, n + 1);
+  if (graded)
+    for (auto* v : {&m.grade, &m.elevation_m}) resize_ready(*v, n + 1);
   if (bank) resize_ready(m.bank_rad, n + 1);
   m.trim_zone.assign(n + 1, 1);
   const bool widths = track.has_widths() || (lapped && !lapped->width_left_m.empty());
@@ -396,8 +397,10 @@ Mesh build_mesh(const Track& track, double step_m, unsigned threads) {
         m.y_m[i] = st.y;
         m.heading_rad[i] = st.heading;
         m.curvature_1pm[i] = st.curvature;
-        if (elevation) m.elevation_m[i] = st.elevation;
-        m.grade[i] = st.grade;
+        if (graded) {
+          m.elevation_m[i] = st.elevation;
+          m.grade[i] = st.grade;
+        }
         if (bank) m.bank_rad[i] = st.bank;
         if (widths) m.width_left_m[i] = m.width_right_m[i] = 0.5 * st.width;
       }
@@ -438,7 +441,7 @@ Mesh build_mesh(const Track& track, double step_m, unsigned threads) {
   if (track.closed) {
     // One lap: the last point is the first again (the closure gap is within tolerance).
     m.curvature_1pm[n] = m.curvature_1pm[0];
-    m.grade[n] = m.grade[0];
+    if (graded) m.grade[n] = m.grade[0];
     if (bank) m.bank_rad[n] = m.bank_rad[0];
     m.trim_zone[n] = m.trim_zone[0];
   }
@@ -449,6 +452,7 @@ Mesh build_mesh(const Track& track, double step_m, unsigned threads) {
   };
   if (zero(m.bank_rad)) m.bank_rad = std::vector<double>();
   if (zero(m.elevation_m)) m.elevation_m = std::vector<double>();
+  if (zero(m.grade)) m.grade = std::vector<double>();
   if (track.wind) {
     m.head_wind_mps.resize(n + 1);
     for (std::size_t i = 0; i <= n; ++i)

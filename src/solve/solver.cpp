@@ -50,7 +50,7 @@ class RoadReader {
  public:
   explicit RoadReader(const Mesh& m) : m_(m) {}
   [[gnu::always_inline]] Road operator()(std::size_t i) {
-    const double grade = m_.grade[i], bank = m_.bank_at(i);
+    const double grade = m_.grade_at(i), bank = m_.bank_at(i);
     if (!(grade == grade_)) {
       grade_ = grade;
       cos_slope_ = 1.0 / std::sqrt(1.0 + grade * grade);
@@ -281,7 +281,7 @@ void steady_points(const Envelope& env, const Mesh& mesh, SteadyProfile& p, std:
     // zone: most points of a straight or an arc) has the same limit; the loop below would find
     // nothing changed there.
     if (i > lo && mesh.curvature_1pm[i] == mesh.curvature_1pm[i - 1] &&
-        mesh.grade[i] == mesh.grade[i - 1] && mesh.bank_at(i) == mesh.bank_at(i - 1) &&
+        mesh.grade_at(i) == mesh.grade_at(i - 1) && mesh.bank_at(i) == mesh.bank_at(i - 1) &&
         mesh.head_wind_at(i) == mesh.head_wind_at(i - 1) &&
         mesh.trim_zone[i] == mesh.trim_zone[i - 1]) {
       p.speed_mps[i] = p.speed_mps[i - 1];

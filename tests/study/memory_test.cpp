@@ -45,9 +45,11 @@ TEST_CASE("bytes per mesh point: every vector a mesh, a lap and a sweep hold is 
   CHECK(static_cast<double>(mesh) / n == mesh_bytes_per_point);
   CHECK(m.width_left_m.empty());  // a track without widths: the edges hold nothing
   const Mesh flat = build_mesh(test::circle_track(200.0, 0.5), 0.5);
-  CHECK((flat.bank_rad.empty() && flat.elevation_m.empty() && flat.head_wind_mps.empty()));
-  CHECK(flat.bank_rad.capacity() == 0);  // their storage freed, not only emptied
+  CHECK((flat.bank_rad.empty() && flat.elevation_m.empty() && flat.grade.empty() &&
+         flat.head_wind_mps.empty()));
+  CHECK(flat.bank_rad.capacity() == 0);  // never laid out (or freed), not only emptied
   CHECK(flat.elevation_m.capacity() == 0);
+  CHECK(flat.grade.capacity() == 0);
   CHECK(sizeof(Mesh) < 512);  // nothing else of the mesh's own: twelve vectors and three scalars
 
   const ConfiguredCar car = test::configured(test::plain_car());

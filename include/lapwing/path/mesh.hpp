@@ -16,8 +16,10 @@ struct Mesh {
   bool closed = true;
   double length_m = 0.0;
   double step_m = 0.0;
-  // grade: tan of the slope angle (the solver works its cos and sin where the grade changes).
-  std::vector<double> s_m, x_m, y_m, heading_rad, curvature_1pm, grade;
+  std::vector<double> s_m, x_m, y_m, heading_rad, curvature_1pm;
+  // Grade: tan of the slope angle (the solver works its cos and sin where the grade changes);
+  // empty where it is zero at every point, as on a level segment track (read it by grade_at).
+  std::vector<double> grade;
   // Elevation (m); empty where it is zero at every point, as on a flat segment track (read it
   // by elevation_at).
   std::vector<double> elevation_m;
@@ -34,6 +36,7 @@ struct Mesh {
   std::vector<double> width_left_m, width_right_m;
 
   std::size_t size() const { return s_m.size(); }
+  double grade_at(std::size_t i) const { return grade.empty() ? 0.0 : grade[i]; }
   double bank_at(std::size_t i) const { return bank_rad.empty() ? 0.0 : bank_rad[i]; }
   double elevation_at(std::size_t i) const { return elevation_m.empty() ? 0.0 : elevation_m[i]; }
   double head_wind_at(std::size_t i) const {
@@ -43,7 +46,7 @@ struct Mesh {
   /// No grade, bank or head wind at point i: where the axle model's straight-line and step
   /// tables apply on a straight.
   bool level_in_still_air(std::size_t i) const {
-    return grade[i] == 0.0 && bank_at(i) == 0.0 && head_wind_at(i) == 0.0;
+    return grade_at(i) == 0.0 && bank_at(i) == 0.0 && head_wind_at(i) == 0.0;
   }
 };
 
