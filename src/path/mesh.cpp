@@ -32,7 +32,7 @@ constexpr std::array<double, 5> gl_weights{0.2369268850561891, 0.478628670499366
                                            0.2369268850561891};
 
 // The cosine and sine of a turn |psi| <= small_turn_rad by their Taylor series (Abramowitz &
-// Stegun 4.3.65-66): the first term left out, psi^12 / 12! and psi^11 / 11!, is below 3e-19
+// Stegun 4.3.65-66; from memory): the first term left out, psi^12 / 12! and psi^11 / 11!, is below 3e-19
 // there, under a unit in the last place of either.
 constexpr double small_turn_rad = 0.1;
 struct TurnBy {
