@@ -116,8 +116,14 @@ struct LapSummary {
   BalanceSummary balance;
 };
 
+/// How much of a lap summarize reads: everything, or the figures a sweep's row keeps (lap time,
+/// top and lowest speed, the time shares, the balance; no warnings, sectors or corners, whose
+/// lists stay empty, and no corner the front limits).
+enum class SummaryDetail { full, row_figures };
+
 LapSummary summarize(const Lap& lap, const Mesh& mesh, const Track& track,
-                     const std::vector<CornerSpan>& corners, const Envelope& env);
+                     const std::vector<CornerSpan>& corners, const Envelope& env,
+                     SummaryDetail detail = SummaryDetail::full);
 
 /// Speed above which the balance summary's lowest front share under drive is read (200 km/h).
 inline constexpr double fast_acceleration_kph = 200.0;
