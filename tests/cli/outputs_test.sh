@@ -1,6 +1,6 @@
 #!/usr/bin/env bash
-# Outputs against the command's own inputs and against a write that fails (README, "Outputs as
-# one transaction"): no output replaces a file the command read (a log, a car, a track, a store),
+# Outputs against the command's own inputs and against a write that fails (README, "Output
+# files"): no output replaces a file the command read (a log, a car, a track, a store),
 # no --out folder replaced removes one, a write that fails (a file size limit standing in for a
 # full disk: write(2) fails with EFBIG as it would with ENOSPC) exits 2 with the system's reason
 # and leaves no temporary or folder of its own, missing parent folders are made by every writer,
@@ -125,7 +125,7 @@ refused $? "cannot write full/m.sqlite: File too large" && [ "$(names full)" = "
 limited check "${C[@]}" --json made/here/c.json
 refused $? "File too large" && [ ! -e made ] && ok || bad "a failed write left its folders: $(cat err.txt)"
 
-# 5. Missing parent folders are made by every writer (README): check --json and sweep too.
+# 5. Missing parent folders are made by every writer (README, "Output files"): check --json and sweep too.
 "$bin" check "${C[@]}" --json p1/q/c.json > /dev/null 2> err.txt && [ -s p1/q/c.json ] && ok ||
   bad "check --json into a new folder: $(cat err.txt)"
 "$bin" sweep "${C[@]}" --set mass=600,610 --threads 1 --out p2/q/s.sqlite > /dev/null 2> err.txt &&

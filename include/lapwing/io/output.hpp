@@ -40,7 +40,7 @@ void require_not_input(const std::filesystem::path& path);
 /// The missing folders above an output: made when constructed (OutputError "cannot create SHOWN:"
 /// and the system's reason when one cannot be), and removed again, those still empty, when
 /// destroyed before keep(): a write that fails leaves no folder it made. Every writer here makes
-/// an output's missing parent folders this way (README, "Outputs as one transaction").
+/// an output's missing parent folders this way (README, "Output files").
 class MadeFolders {
  public:
   MadeFolders(const std::filesystem::path& folder, const std::string& shown);
