@@ -66,6 +66,7 @@ class Connection {
     int sys = 0;
     if (sqlite3_file_control(db_, "main", SQLITE_FCNTL_LAST_ERRNO, &sys) != SQLITE_OK) sys = 0;
     if (sys == 0) sys = sqlite3_system_errno(db_);
+    if (sys == 0 && code == SQLITE_FULL) sys = ENOSPC;  // a short write on a full disk sets none
     return sys != 0 ? std::string(std::strerror(sys)) : std::string(sqlite3_errmsg(db_));
   }
   sqlite3* get() const { return db_; }
