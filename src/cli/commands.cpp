@@ -165,6 +165,13 @@ int located(int (*command)(const Options&, Inputs&), const Options& o) {
   }
 }
 
+// An --out folder that holds an input of the command (a car written by fit, a track kept there)
+// is refused as soon as the inputs are read, before the laps are solved; write_outputs would
+// refuse it after.
+void require_out_keeps_inputs(const std::string& out) {
+  if (!out.empty()) require_no_input_inside(out);
+}
+
 std::vector<Inputs::Loaded> Inputs::load_all(const std::vector<std::string>& files,
                                              const AirOverride& air) {
   std::vector<Loaded> out;
@@ -333,6 +340,7 @@ int run(const RunOptions& o, Inputs& in) {
   // free (README, "Memory").
   std::vector<Inputs::Loaded> loaded;
   loaded.push_back(in.load(o.track, air));
+  require_out_keeps_inputs(o.out);
   require_memory(o.memory_limit, loaded, 0, true, 1, 1, true);
   std::vector<Circuit> circuits = Inputs::lay_out_each(loaded);
   loaded.clear();
@@ -414,6 +422,7 @@ int compare(const CompareOptions& o, Inputs& in) {
   apply_model(o.model, car);
   const std::vector<std::size_t> configs = pick_configs(car, o.configs);
   std::vector<Inputs::Loaded> loaded = in.load_all(o.tracks, air);
+  require_out_keeps_inputs(o.out);
   // The verdicts (with --out) lay a fitted centerline out twice more.
   require_memory(o.memory_limit, loaded, configs.size(), true, o.threads,
                  loaded.size() * configs.size(), !o.out.empty());
@@ -481,6 +490,7 @@ int trade(const TradeOptions& o, Inputs& in) {
   else
     configs.push_back(pick_config(car, o.config));
   std::vector<Inputs::Loaded> loaded = in.load_all(o.tracks, air);
+  require_out_keeps_inputs(o.out);
   // Speed and time only; no lap kept; many laps per track (the differences and the grid).
   require_memory(o.memory_limit, loaded, 0, false, o.threads, std::size_t{1} << 20, false);
   const std::vector<Circuit> circuits = Inputs::lay_out_each(loaded);
@@ -952,6 +962,7 @@ int correlate(const CorrelateOptions& o, Inputs& in) {
   logs.push_back(read_speed_log(speed_log_options(o.log, o.columns)));
   std::vector<Circuit> circuits;
   circuits.push_back(in.lay_out(o.track, air));
+  require_out_keeps_inputs(o.out);
   const Circuit& t = circuits.front();
   const LapRun r = run_lap(car.configured(ci), t);
   const Correlation c =
@@ -1030,6 +1041,7 @@ int fit(const FitOptions& o, Inputs& in) {
   std::vector<SpeedLogFile> logs;
   for (const auto& l : o.logs) logs.push_back(read_speed_log(speed_log_options(l, o.columns)));
   const std::vector<Circuit> circuits = in.lay_out_all(unique_tracks, air);
+  require_out_keeps_inputs(o.out);
   std::vector<FitLog> fit_logs;
   for (std::size_t i = 0; i < logs.size(); ++i)
     fit_logs.push_back({&circuits[track_of[i]], &logs[i].speed});

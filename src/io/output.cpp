@@ -314,6 +314,17 @@ void require_not_input(const fs::path& path) {
                         ", which this command reads (write it to another name)");
 }
 
+void require_no_input_inside(const fs::path& dir, const std::string& shown) {
+  std::error_code ec;
+  const fs::path real = fs::weakly_canonical(dir, ec);
+  if (ec) return;  // no folder there: nothing in it
+  for (const std::string& input : inputs_read())
+    if (lies_inside(input, real))
+      throw OutputError("will not replace " + (shown.empty() ? dir.string() : shown) +
+                        ": it holds " + input +
+                        ", which this command reads (write to another folder)");
+}
+
 void write_file_atomic(const fs::path& path, const std::string& content) {
   PendingFile(path, content).commit();
 }
@@ -359,13 +370,7 @@ void write_outputs(const fs::path& dir, const std::vector<OutputFile>& files) {
   if (exists && !S_ISDIR(st.st_mode))
     throw OutputError("cannot create " + shown + ": it is not a folder");
   // Inputs of this command inside the folder would be removed with it.
-  if (exists) {
-    const fs::path real = fs::weakly_canonical(target, ec);
-    for (const std::string& input : inputs_read())
-      if (!ec && lies_inside(input, real))
-        throw OutputError("will not replace " + shown + ": it holds " + input +
-                          ", which this command reads (write to another folder)");
-  }
+  if (exists) require_no_input_inside(target, shown);
   if (exists) {
     const std::string n = foreign_entry(target, files);
     if (!n.empty())

@@ -37,6 +37,12 @@ inline constexpr const char* output_folder_marker = ".lapwing-output";
 /// refuse before long work.
 void require_not_input(const std::filesystem::path& path);
 
+/// OutputError ("will not replace DIR: it holds INPUT, which this command reads") when the folder
+/// `dir` (followed if a symlink) holds an input the command read, as named or at a symlink's end:
+/// replacing the folder would remove it. write_outputs checks it; a command may call it early.
+/// `shown`: the name in the message (default `dir`).
+void require_no_input_inside(const std::filesystem::path& dir, const std::string& shown = {});
+
 /// The missing folders above an output: made when constructed (OutputError "cannot create SHOWN:"
 /// and the system's reason when one cannot be), and removed again, those still empty, when
 /// destroyed before keep(): a write that fails leaves no folder it made. Every writer here makes
