@@ -7,8 +7,8 @@
 #include <algorithm>
 #include <cerrno>
 #include <cstring>
-#include <optional>
 #include <filesystem>
+#include <optional>
 #include <set>
 
 #include "lapwing/base/error.hpp"

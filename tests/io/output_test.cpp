@@ -238,7 +238,8 @@ TEST_CASE("an output that is an input read under a ledger is refused; the input 
     (void)open_input((base / "lap.csv").string());  // recorded as read
     const std::string e = output_error([&] { write_file_atomic(base / "link.csv", "x"); });
     CHECK(e == "cannot write " + (base / "link.csv").string() + ": it would replace " +
-                   (base / "lap.csv").string() + ", which this command reads (write it to another name)");
+                   (base / "lap.csv").string() +
+                   ", which this command reads (write it to another name)");
     CHECK(output_error([&] {
             write_files_atomic(base, {{"other.yaml", "y"}, {"lap.csv", "x"}});
           }).find("which this command reads") != std::string::npos);
