@@ -1,7 +1,7 @@
 #include "lapwing/io/input_file.hpp"
 
-#include <cerrno>
 #include <algorithm>
+#include <cerrno>
 #include <filesystem>
 #include <mutex>
 #include <system_error>
