@@ -226,6 +226,8 @@ class PendingFile {
       const int err = errno;
       ::unlink(tmp_.c_str());
       tmp_.clear();
+      ::close(fd_);  // the destructor does not run for a constructor that throws
+      fd_ = -1;
       fail("cannot write " + shown_.string(), err);
     }
   }
@@ -362,7 +364,7 @@ void write_outputs(const fs::path& dir, const std::vector<OutputFile>& files) {
   if (exists && S_ISLNK(st.st_mode)) {
     const fs::path link = target;
     target = fs::canonical(link, ec);
-    if (ec && ec == std::errc::no_such_file_or_directory)
+    if (ec == std::errc::no_such_file_or_directory)
       dangling("cannot create " + shown, link, ec.value());
     if (ec) throw OutputError("cannot create " + shown + ": " + ec.message());
     if (::stat(target.c_str(), &st) != 0) fail("cannot create " + shown, errno);

@@ -54,9 +54,9 @@ class Connection {
     }
   }
   // The system's reason for the last failure (strerror: "No space left on device", "Permission
-  // denied") when the file system refused (SQLite's result codes for that), else nothing.
-  // The errno of the database file's own failed call (SQLITE_FCNTL_LAST_ERRNO) where it has one,
-  // else the one SQLite kept for the connection; SQLite's words when neither says.
+  // denied") when the file system refused (SQLite's result codes for that), else nothing: the
+  // errno of the database file's own failed call (SQLITE_FCNTL_LAST_ERRNO) where it has one, else
+  // the one SQLite kept for the connection; SQLite's words when neither says.
   std::optional<std::string> system_reason() const {
     if (!db_) return std::nullopt;
     const int code = sqlite3_errcode(db_) & 0xff;  // the primary result code
@@ -209,10 +209,6 @@ struct SweepStore::Db {
 
 namespace {
 
-// A new results store is built whole under a temporary name beside `file` (its schema and study
-// committed), then renamed into place: a sweep killed while it creates the store leaves either no
-// store or one that resumes, never a file without the study (which the next run would refuse). A
-// temporary left by such a kill is removed by the next run that creates the store.
 // A store under construction beside its name (`.NAME.lapwing-new`, and SQLite's journal beside
 // that): removed again when destroyed before it is renamed into place, so that a write that fails
 // (a full disk, an I/O error) leaves nothing behind; only a kill leaves one, which the next run
@@ -252,8 +248,8 @@ class NewStore {
 };
 
 // `from` copied byte for byte to the new file `to` and synced; "cannot write SHOWN: " and the
-// system's reason (errno) when it cannot be (std::filesystem::copy_file was not used: it does
-// not say which side failed).
+// system's reason (errno) when it cannot be. (std::filesystem::copy_file's error says neither
+// which side failed nor, under a file size limit, the reason: libstdc++ gave EIO for EFBIG.)
 void copy_store(const std::string& from, const std::string& to, const std::string& shown) {
   const auto closed = [](int fd) {
     if (fd >= 0) ::close(fd);
@@ -293,6 +289,10 @@ void copy_store(const std::string& from, const std::string& to, const std::strin
   if (!failure.empty()) throw OutputError(failure);
 }
 
+// A new results store is built whole under a temporary name beside `file` (its schema and study
+// committed), then renamed into place: a sweep killed while it creates the store leaves either no
+// store or one that resumes, never a file without the study (which the next run would refuse). A
+// temporary left by such a kill is removed by the next run that creates the store.
 void create_store(const std::string& file, const StudyRecord& study, const SweepPlan& plan) {
   NewStore fresh(file);
   {
