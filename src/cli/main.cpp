@@ -14,6 +14,7 @@
 #include "lapwing/base/text.hpp"
 #include "lapwing/base/version.hpp"
 #include "lapwing/io/document.hpp"
+#include "lapwing/io/input_file.hpp"
 #include "lapwing/study/trade.hpp"
 
 namespace {
@@ -338,6 +339,8 @@ int main(int argc, char** argv) {
   }
 
   try {
+    // Every file the command reads is recorded, and no output may replace one (io/input_file.hpp).
+    const InputLedger inputs;
     if (*check) return cli::check(check_o);
     if (*run) return cli::run(run_o);
     if (*compare) return cli::compare(compare_o);

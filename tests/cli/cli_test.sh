@@ -447,7 +447,7 @@ awk -v a="$line_lap" -v b="$file_lap" 'BEGIN { exit !(a > 0 && (a - b) ^ 2 <= (0
 [ -s "$tmp/line/bp-line.yaml" ] && [ -s "$tmp/line/bp-line.csv" ] && [ -s "$tmp/line/again.csv" ] &&
   ok || bad "track line removed other files of its folder: $(ls -A "$tmp/line")"
 cp "$tmp/line/bp-line.csv" "$tmp/line/keep.csv"
-expect_error "would replace $tmp/line/bp-line.yaml, which the track reads" \
+expect_error "would replace $tmp/line/bp-line.yaml, which this command reads" \
   track line --track "$tmp/line/bp-line.yaml" --out "$tmp/line/bp-line.yaml"
 cmp -s "$tmp/line/bp-line.csv" "$tmp/line/keep.csv" && ok || bad "track line replaced its own input"
 # min-time: both laps, the min-time one no slower.

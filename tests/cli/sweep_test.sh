@@ -77,12 +77,12 @@ before=$(sha256sum < "$tmp/s1.sqlite")
 [ $? = 2 ] && grep -q "is given twice" "$tmp/err.txt" && [ ! -e "$tmp/twice.sqlite" ] && ok ||
   bad "merge of a store twice: $(cat "$tmp/err.txt")"
 "$bin" sweep merge "$tmp/s1.sqlite" "$tmp/s1.sqlite" 2> "$tmp/err.txt"
-[ $? = 2 ] && grep -q "is also given to merge" "$tmp/err.txt" && ok ||
+[ $? = 2 ] && grep -q "cannot write $tmp/s1.sqlite: it would replace $tmp/s1.sqlite, which this command reads" "$tmp/err.txt" && ok ||
   bad "merge of a store into itself: $(cat "$tmp/err.txt")"
 ln -s "$tmp/s1.sqlite" "$tmp/link.csv"
 for target in "$tmp/s1.sqlite" "$tmp/link.csv"; do
   "$bin" sweep export "$tmp/s1.sqlite" --csv "$target" 2> "$tmp/err.txt"
-  [ $? = 2 ] && grep -q "would replace the results store" "$tmp/err.txt" && ok ||
+  [ $? = 2 ] && grep -qF "cannot write $target: it would replace $tmp/s1.sqlite, which this command reads" "$tmp/err.txt" && ok ||
     bad "export over its own store ($target): $(cat "$tmp/err.txt")"
 done
 [ "$(sha256sum < "$tmp/s1.sqlite")" = "$before" ] && ok || bad "the store changed"
