@@ -243,6 +243,14 @@ TEST_CASE("a car without aero still has aero sensitivities (zero areas move by t
   const double down = lap(shifted(base, Knob::cla, -0.02));
   CHECK(near(s.dt_dcla_s_per_m2, (up - down) / 0.04, 1e-9));
   for (double v : t.grids.front().lap_time_s) CHECK(std::isfinite(v));
+  // The grid's axes (README, "trade"): no negative ClA or CdA, which no car has (the axes
+  // once ran -0.2 to 0.2 m2 here, 56 of 81 nodes negative); from 0 up to at least the span.
+  const TradeGrid& g = t.grids.front();
+  for (const auto* axis : {&g.cla_m2, &g.cda_m2}) {
+    CHECK(axis->front() == 0.0);
+    CHECK(axis->back() >= 0.15);
+    for (double v : *axis) CHECK(v >= 0.0);
+  }
 }
 
 TEST_CASE("trade options out of range are a typed error, not a failure inside the root finder") {
