@@ -175,6 +175,14 @@ expect_refused "one unit" --set mass=600kg:0.7t:3
 expect_refused "no config named 'hihg'" --set mass=600,610 --config hihg
 expect_refused "lhs:N" --set mass=600:610 --design lhs
 expect_refused "1 <= K <= N" --set mass=600,610 --shard 4/3
+# Option errors are usage errors, prefixed as every command's (README, "lapwing: error: ... for a
+# bad option"); these once printed "--shard 0/2: error: ...", the form of a file's error.
+expect_refused "lapwing: error: --shard 0/2: expected K/N" --set mass=600,610 --shard 0/2
+expect_refused "lapwing: error: --design lhs:0: lhs needs its number of points" --set mass=600:610:3 --design lhs:0
+expect_refused "lapwing: error: --set mass=: no values after '='" --set mass=
+expect_refused "lapwing: error: --set mass=600:610:0: range count '0' must be a whole number >= 1 (mass)" --set mass=600:610:0
+expect_refused "lapwing: error: --set mass=610: key 'mass' is set twice (mass)" --set mass=600 --set mass=610
+expect_refused "lapwing: error: --set mass=600,610: sobol:4 samples ranges" --set mass=600,610 --design sobol:4
 # Not-a-number and infinity are no value of any key (as in a car file), in a list or a range.
 expect_refused "--set mass=nan,600: at nan: 'nan' is not a finite number (mass)" --set mass=nan,600
 expect_refused "'inf' is not a finite number (tyres.mu_lat)" --set tyres.mu_lat=inf
