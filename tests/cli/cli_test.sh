@@ -277,6 +277,10 @@ awk '/"speed_kph": 200/ { on = 1 } on && /"front_aero_load_n"/ { gsub(/[",]/, ""
   grep -q "no downforce at 150 and 250 km/h: no aero balance" && ok || bad "run's balance with no downforce"
 grep -q '"aero_balance_with_drag_150_kph": null' "$tmp/dragrun/summary.json" && ok ||
   bad "summary.json balance with the drag moment and no downforce is not null"
+# The share alone is null too (README, "Outputs"; it read the config's 0.45 once).
+grep -q '"aero_balance_150_kph": null' "$tmp/dragrun/summary.json" &&
+  grep -q '"aero_balance_250_kph": null' "$tmp/dragrun/summary.json" && ok ||
+  bad "summary.json aero balance without downforce is not null"
 
 # 12. Messages in lapwing's own words (issue 10, item 12).
 expect_error() {  # expected text, then the command; exit 2, one line on stderr
