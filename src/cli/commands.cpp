@@ -698,7 +698,12 @@ int sweep(const SweepOptions& o, Inputs& in) {
     }
     return text_table(header, rows);
   };
-  std::cout << "\nbest point per track (" << o.out << ")\n" << best_table(best_points(o.out));
+  const std::vector<BestPoint> best = best_points(o.out);
+  std::cout << "\nbest point per track (" << o.out << ")\n" << best_table(best);
+  // A track none of whose laps completes has no row: said, not left out in silence.
+  for (const auto& t : study.tracks)
+    if (std::none_of(best.begin(), best.end(), [&](const BestPoint& b) { return b.track == t; }))
+      std::cout << t << ": no stored lap completes the track (status cannot-move)\n";
   // The fastest point whose lap keeps the front share inside the car's balance window: the best
   // overall may be one the driver would not accept (README, "Sweep").
   if (const auto& w = base.balance_window) {

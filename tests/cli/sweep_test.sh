@@ -233,6 +233,16 @@ export_csv "$tmp/cm.sqlite" "$tmp/cm.csv"
 grep -q '^0,acceleration,low,1,[0-9.]*,.*,ok,$' "$tmp/cm.csv" &&
   grep -q '^1,acceleration,low,0.002,,,,,,,,cannot-move,the car cannot hold any speed' "$tmp/cm.csv" &&
   grep -q "^note    1 laps cannot complete" "$tmp/cm.txt" && ok || bad "cannot-move rows: $(cat "$tmp/cm.csv")"
+# A track where no point completes has no best point: a line says so (it was left out silently),
+# and the track where one does keeps its row.
+# An invented 50 % wall the car cannot climb at 5 or 10 % of its drive; the skidpad it laps.
+printf 'format: 1\nname: "wall"\nclosed: false\nsegments:\n  - straight: 20 m\n  - straight: {length: 100 m, grade: 50 %%}\n' > "$tmp/wall.yaml"
+"$bin" sweep --car "$car" --track "$tmp/wall.yaml" --track tracks/skidpad.yaml \
+  --set powertrain.efficiency=0.05,0.1 --out "$tmp/none.sqlite" > "$tmp/none.txt" 2>&1 ||
+  bad "sweep with no completed lap: $(cat "$tmp/none.txt")"
+grep -q "^wall: no stored lap completes the track" "$tmp/none.txt" &&
+  ! grep -q "^wall " "$tmp/none.txt" && grep -q "^skidpad " "$tmp/none.txt" && ok ||
+  bad "no best point, not said: $(cat "$tmp/none.txt")"
 cp README.md "$tmp/not-a-store.sqlite"
 "$bin" sweep "${study[@]}" --out "$tmp/not-a-store.sqlite" > /dev/null 2> "$tmp/err.txt"
 [ $? = 2 ] && grep -q "not a database" "$tmp/err.txt" && cmp -s README.md "$tmp/not-a-store.sqlite" && ok ||
