@@ -215,6 +215,14 @@ TEST_CASE("trade prints no shares of a total under 0.05 s and flags a split the 
   CHECK(line_of("a -> c").find("not reliable") == std::string::npos);
   CHECK(line_of("a -> d").find("first-order split not reliable for this step") !=
         std::string::npos);
+  // Only the changes to or from the traded config (a) are printed, and the caption says so
+  // and where the rest are (README, "trade"); trade.json holds all six pairs.
+  CHECK(table.find("b -> c") == std::string::npos);
+  CHECK(table.find("c -> d") == std::string::npos);
+  CHECK(table.find("the changes to or from a traded config, every pair in trade.json") !=
+        std::string::npos);
+  const std::string all = trade_json(car, t, circuits);
+  CHECK(all.find("\"from\": \"b\",\n      \"to\": \"c\"") != std::string::npos);
   // trade.json: the same flag as a boolean and the words.
   const std::string json = trade_json(car, t, circuits);
   CHECK(json.find("\"first_order_reliable\": false") != std::string::npos);
