@@ -287,7 +287,7 @@ awk '/"speed_kph": 200/ { on = 1 } on && /"front_aero_load_n"/ { gsub(/[",]/, ""
   grep -q "no downforce at 150 and 250 km/h: no aero balance" && ok || bad "run's balance with no downforce"
 grep -q '"aero_balance_with_drag_150_kph": null' "$tmp/dragrun/summary.json" && ok ||
   bad "summary.json balance with the drag moment and no downforce is not null"
-# The share alone is null too (README, "Outputs"; it read the config's 0.45 once).
+# The share alone is null too (README, "Output files"; it read the config's 0.45 once).
 grep -q '"aero_balance_150_kph": null' "$tmp/dragrun/summary.json" &&
   grep -q '"aero_balance_250_kph": null' "$tmp/dragrun/summary.json" && ok ||
   bad "summary.json aero balance without downforce is not null"

@@ -72,7 +72,7 @@ TEST_CASE("air outside the troposphere's circuits is refused by name (README, \"
 }
 
 TEST_CASE("the documented ends of the air's ranges are inside in every unit (README, \"Track\")") {
-  // README gives the temperature range as [-50, 70] C; -58 F and 158 F are the same ends
+  // README, "Track" gives the temperature range as [-50, 70] C; -58 F and 158 F are the same ends
   // (F = C x 9/5 + 32, the definition), 223.15 K and 343.15 K too (K = C + 273.15, SI
   // brochure). Each is read as a user gives it (the option's parser) and must be in range; a
   // hair beyond each is still refused.

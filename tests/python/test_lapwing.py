@@ -419,7 +419,7 @@ def test_what_the_command_line_refuses_the_module_refuses():
 
 
 def test_the_documented_ends_of_the_temperature_range_are_taken():
-    # README: the temperature range is [-50, 70] C; -50 + 273.15 is 223.14999999999998 in
+    # README, "In Python": the temperature range is [-50, 70] C; -50 + 273.15 is 223.14999999999998 in
     # binary, below the nearest double to 223.15, and the lower end was once refused.
     car, track = lapwing.load_car(CAR), lapwing.load_track(TRACK)
     for t in (-50, "-50 C", "-58 F", 70, "158 F"):

@@ -135,7 +135,7 @@ TEST_CASE(
   CHECK(std::isnan(nr.lap.aero_balance_eff[10]));
   CHECK_FALSE(nr.summary.balance.aero_balance_eff_150);
   CHECK_FALSE(nr.summary.balance.aero_balance_eff_250);
-  // Nor the share alone (README, "Outputs": null without downforce; it once read the config's
+  // Nor the share alone (README, "Output files": null without downforce; it once read the config's
   // balance, 0.45, for a share of nothing), and the tables say "-" for both.
   CHECK_FALSE(nr.summary.balance.aero_balance_150);
   CHECK_FALSE(nr.summary.balance.aero_balance_250);
