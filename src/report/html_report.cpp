@@ -999,8 +999,8 @@ std::string html_report(const ReportInput& in) {
       else
         o += "<h3 id=\"corners-" + id + "\">Corners</h3>" + table(ch, crows, "", {}, top) +
              "<p class=\"note\">" +
-             escape("Corners, limit, axles and usage of the best config, " + names[pt.best] +
-                    "; " + axle_legend() + ". A corner's number zooms the traces to it.") +
+             escape("Corners, limit, axles and usage of the best config, " + names[pt.best] + "; " +
+                    axle_legend() + ". A corner's number zooms the traces to it.") +
              "</p>\n";
       // Balance per config.
       std::vector<std::vector<std::string>> brows;

@@ -22,9 +22,7 @@ void optional_field(JsonWriter& w, std::string_view key, const std::optional<dou
 }
 
 void write_balance(JsonWriter& w, const BalanceSummary& b) {
-  w.key("balance")
-      .begin_object()
-      .field("static_front_share", b.static_front_share);
+  w.key("balance").begin_object().field("static_front_share", b.static_front_share);
   optional_field(w, "aero_balance_150_kph", b.aero_balance_150);
   optional_field(w, "aero_balance_with_drag_150_kph", b.aero_balance_eff_150);
   optional_field(w, "aero_balance_250_kph", b.aero_balance_250);

@@ -295,8 +295,7 @@ FitResult fit(const ConfiguredCar& car, const std::vector<FitLog>& logs,
   const auto freed = [&](FitParameter p) {
     return std::find(params.begin(), params.end(), p) != params.end();
   };
-  if (freed(FitParameter::grip) && freed(FitParameter::grip_lat) &&
-      freed(FitParameter::grip_long))
+  if (freed(FitParameter::grip) && freed(FitParameter::grip_lat) && freed(FitParameter::grip_long))
     throw InvalidInput(
         "fit", broken_rule("free",
                            "grip, grip_lat and grip_long are two factors, not three: grip scales "
@@ -422,8 +421,9 @@ FitResult fit(const ConfiguredCar& car, const std::vector<FitLog>& logs,
   ceres::Covariance::Options co;
   co.algorithm_type = ceres::DENSE_SVD;
   // A rank-deficient Jacobian (a freed factor with no effect on the lap; grip_lat, grip_long and
-  // grip, three that are two, are refused above) has no covariance: Compute() says so and none is reported (the
-  // pseudo-inverse, null_space_rank -1, gave such a factor a standard error of 0: certain).
+  // grip, three that are two, are refused above) has no covariance: Compute() says so and none is
+  // reported (the pseudo-inverse, null_space_rank -1, gave such a factor a standard error of 0:
+  // certain).
   co.null_space_rank = 0;
   co.num_threads = 1;
   ceres::Covariance cov(co);

@@ -34,7 +34,7 @@ struct AirSpec {
 
   // The ranges a track file or an option may give (README, "Track"): the troposphere
   // where circuits lie, and the air a car is run in.
-  static constexpr Range altitude_range{-500.0, 6000.0};     // m
+  static constexpr Range altitude_range{-500.0, 6000.0};  // m
   // K: -50 to 70 C, each end as a value in C is converted (-50 + 273.15 is 223.14999999999998,
   // below the double nearest 223.15, which once refused the documented -50 C; -58 F converts
   // to the same double).
