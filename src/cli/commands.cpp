@@ -553,11 +553,24 @@ int sweep(const SweepOptions& o, Inputs& in) {
   if (o.sets.empty()) throw UsageError{"sweep: give at least one --set KEY=VALUES"};
   if (o.out.empty()) throw UsageError{"sweep: --out FILE.sqlite is required"};
   const AirOverride air = parse_air(o.air);
+  // A bad --set, --design or --shard is a usage error ("lapwing: error: --shard 0/2: ..."),
+  // as every other option's; the parsers name the option and its text as the subject.
+  const auto option_error = [](const InvalidInput& e) {
+    const std::string& key = e.violation().field;
+    return UsageError{e.subject() + ": " + e.message() + (key.empty() ? "" : " (" + key + ")")};
+  };
   std::vector<SweepSet> sets;
-  for (const auto& text : o.sets) sets.push_back(parse_set(text));
-  const SweepDesign design = parse_design(o.design);
-  const Shard shard = parse_shard(o.shard);
-  const SweepPlan plan(sets, design);
+  SweepDesign design;
+  Shard shard;
+  SweepPlan plan;
+  try {
+    for (const auto& text : o.sets) sets.push_back(parse_set(text));
+    design = parse_design(o.design);
+    shard = parse_shard(o.shard);
+    plan = SweepPlan(sets, design);
+  } catch (const InvalidInput& e) {
+    throw option_error(e);
+  }
 
   // The car file as a document: each point sets its values there and is read like a car file.
   const Document doc = load_document(o.car);
@@ -686,7 +699,12 @@ int sweep(const SweepOptions& o, Inputs& in) {
     }
     return text_table(header, rows);
   };
-  std::cout << "\nbest point per track (" << o.out << ")\n" << best_table(best_points(o.out));
+  const std::vector<BestPoint> best = best_points(o.out);
+  std::cout << "\nbest point per track (" << o.out << ")\n" << best_table(best);
+  // A track none of whose laps completes has no row: said, not left out in silence.
+  for (const auto& t : study.tracks)
+    if (std::none_of(best.begin(), best.end(), [&](const BestPoint& b) { return b.track == t; }))
+      std::cout << t << ": no stored lap completes the track (status cannot-move)\n";
   // The fastest point whose lap keeps the front share inside the car's balance window: the best
   // overall may be one the driver would not accept (README, "Sweep").
   if (const auto& w = base.balance_window) {

@@ -207,8 +207,8 @@ int main(int argc, char** argv) {
       ->add_option("--out", log_o.out, "Track file to write (TRACK.yaml, and TRACK.csv beside it)")
       ->required();
   from_log->footer(
-      "Example:\n  lapwing track from-log --log lap.csv --speed speed_kph --lat-accel lat_g "
-      "--distance distance_m --closed --out tracks/logged.yaml");
+      "Example:\n  lapwing track from-log --log logs/brannock-park-survey-lap.csv "
+      "--speed speed_kph --lat-accel lat_accel_g --time time_s --out out/brannock-logged.yaml");
 
   cli::TrackLineOptions line_o;
   auto* line = track->add_subcommand(

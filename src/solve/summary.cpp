@@ -369,9 +369,10 @@ LapSummary summarize(const Lap& lap, const Mesh& mesh, const Track& track,
   BalanceSummary& b = s.balance;
   const Car& car = env.car();
   b.static_front_share = car.front_weight;
-  auto balance_at = [&](double kph_value, double& plain, std::optional<double>& eff) {
+  auto balance_at = [&](double kph_value, std::optional<double>& plain,
+                        std::optional<double>& eff) {
     const AeroPoint p = env.aero_point(kph_value * units::kph);
-    plain = p.balance;
+    if (p.cla_m2 > 0.0) plain = p.balance;  // the share of no downforce is no number
     eff = aero_balance_with_drag_moment(p.cla_m2, p.cda_m2, p.balance, car.drag_height_m,
                                         car.wheelbase_m);
   };

@@ -83,8 +83,9 @@ WindowResult window_result(const BalanceWindowResult& r);
 struct BalanceSummary {
   double static_front_share = 0.0;
   // Aero balance (front share of downforce) at 150 and 250 km/h, alone and with the drag moment
-  // (aero_balance_with_drag_moment: none without downforce, where the share is undefined).
-  double aero_balance_150 = 0.0, aero_balance_250 = 0.0;
+  // (aero_balance_with_drag_moment): none of either without downforce (ClA <= 0 at that speed),
+  // where the share of no load is undefined.
+  std::optional<double> aero_balance_150, aero_balance_250;
   std::optional<double> aero_balance_eff_150, aero_balance_eff_250;
   bool has_fast_acceleration = false;         // any point accelerating above 200 km/h
   double lowest_front_share_fast = 0.0;       // lowest front share accelerating above 200 km/h
