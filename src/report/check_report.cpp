@@ -41,7 +41,17 @@ std::vector<std::string> config_notes(const ConfigCheck& c) {
   return notes;
 }
 
-std::string config_text(const ConfigCheck& c) {
+// The top speed's limit word; `traction` names the model whose tyres set it (the axle model's
+// driven axle, or the point mass's four tyres).
+std::string limit_text(TopSpeedLimit l, const Car& car) {
+  std::string s = top_speed_limit_name(l);
+  if (l == TopSpeedLimit::traction)
+    s += car.model == VehicleModel::axle ? " (axle model: driven axle)"
+                                         : " (point mass: four tyres)";
+  return s;
+}
+
+std::string config_text(const ConfigCheck& c, const Car& car) {
   std::string out = "\nconfig " + c.name + " (" + std::string(form_name(c.form)) + "): CdA " +
                     fixed(c.cda_m2, 3) + " m2, ClA " + fixed(c.cla_m2, 3) + " m2, L/D " +
                     (c.lift_to_drag ? fixed(*c.lift_to_drag, 2) : std::string("-")) +
@@ -51,7 +61,14 @@ std::string config_text(const ConfigCheck& c) {
                                      : "") +
                     ", drag height " + fixed(c.drag_height_m, 3) + " m, top speed " +
                     fixed(units::to_kph(c.top_speed_mps), 1) + " km/h (" +
-                    top_speed_limit_name(c.top_speed_limit) + ")\n";
+                    limit_text(c.top_speed_limit, car) + ")\n";
+  if (c.tyre_peak_load_n)
+    out += "       tyre force peak (load sensitivity): " + fixed(*c.tyre_peak_load_n, 0) +
+           " N a tyre, " +
+           (c.tyre_peak_speed_mps ? "reached at " + fixed(units::to_kph(*c.tyre_peak_speed_mps), 1) +
+                                        " km/h (level straight): faster, more load gives less force"
+                                  : std::string("not within the envelope (level straight)")) +
+           "\n";
   auto percent = [](const std::optional<double>& v) {
     return v ? fixed(100 * *v, 1) : std::string("-");
   };
@@ -146,7 +163,7 @@ std::string track_text(const Car& car, double rated_w, const Circuit& t, const T
   std::vector<std::vector<std::string>> trows;
   for (const TrackConfigCheck& c : tc.configs)
     trows.push_back({c.config, fixed(units::to_kph(c.top_speed_mps), 1),
-                     top_speed_limit_name(c.top_speed_limit)});
+                     limit_text(c.top_speed_limit, car)});
   out += text_table({"config", "top speed km/h (this air, level)", "limit"}, trows);
   return out;
 }
@@ -170,6 +187,10 @@ void config_json(JsonWriter& j, const ConfigCheck& c) {
       .field("drag_height_m", c.drag_height_m)
       .field("top_speed_kph", units::to_kph(c.top_speed_mps))
       .field("top_speed_limit", top_speed_limit_name(c.top_speed_limit));
+  optional_value(j, "tyre_peak_load_n", c.tyre_peak_load_n);
+  optional_value(j, "tyre_peak_kph",
+                 c.tyre_peak_speed_mps ? std::optional<double>(units::to_kph(*c.tyre_peak_speed_mps))
+                                       : std::nullopt);
   j.key("at_speeds").begin_array();
   for (const AeroAtSpeed& s : c.at_speeds) {
     j.begin_object()
@@ -268,7 +289,7 @@ std::string check_text(const Car& car, const std::vector<Circuit>& circuits,
   out += "       model " + std::string(car.model == VehicleModel::axle ? "axle" : "point-mass") +
          ", engine " + label(car.powertrain.aspiration) + "\n";
   out += "       aero figures in air of " + air_text(summary.reference_air) + "\n";
-  for (const ConfigCheck& c : summary.configs) out += config_text(c);
+  for (const ConfigCheck& c : summary.configs) out += config_text(c, car);
   for (std::size_t t = 0; t < circuits.size(); ++t)
     out += track_text(car, summary.rated_power_w, circuits[t], summary.tracks[t], input_words);
   return out;

@@ -425,9 +425,10 @@ double axle_brake_accel(const Envelope& env, double u, double k, const Road& roa
   });
 }
 
-double axle_steady_excess(const Envelope& env, double v, double k, const Road& road) {
+double axle_steady_excess(const Envelope& env, double v, double k, const Road& road,
+                          bool trimmed) {
   const double u = v * v;
-  const Forces a = forces_at(env, u, k, road, false);
+  const Forces a = forces_at(env, u, k, road, trimmed);
   const AxleLoads l =
       axle_loads(env.car(), a.drag, a.down, a.balance, a.normal_share, road.sin_slope, 0.0);
   const AxleUsage use = axle_usage(env, l, a.resistance, a.fy);

@@ -33,6 +33,8 @@ const char* top_speed_limit_name(TopSpeedLimit l) {
       return "rev limit";
     case TopSpeedLimit::ceiling:
       return "table ceiling";
+    case TopSpeedLimit::traction:
+      return "traction";
   }
   return "drag";
 }

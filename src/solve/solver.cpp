@@ -357,6 +357,30 @@ void steady_points(const Envelope& env, const Mesh& mesh, SteadyProfile& p, std:
   }
 }
 
+}  // namespace
+
+double level_traction_speed_mps(const Envelope& env) {
+  const Road level{};
+  // With the straight-line trim where the config has one, as Envelope's level top speed.
+  const bool trimmed = env.has_trim();
+  if (env.car().model == VehicleModel::axle)
+    return highest_feasible(
+        [&](double v) { return axle_steady_excess(env, v, 0.0, level, trimmed); },
+        env.max_speed_mps(), 0.0);
+  const TyreModel& tyres = env.tyres();
+  const Envelope::Rows rows = env.rows(trimmed);
+  return highest_feasible(
+      [&](double v) {
+        const Envelope::RoadForces f = env.road_forces(rows, v * v, 0.0, level);
+        return tyres.usage(std::abs(f.resistance_n) / tyres.fx_max(f.normal_n),
+                           std::abs(f.lateral_n) / tyres.fy_max(f.normal_n)) -
+               1.0;
+      },
+      env.max_speed_mps(), 0.0);
+}
+
+namespace {
+
 // The exponential step's secant (exponential_step, below): its relative floor and its reach.
 constexpr double slope_spread = 1e-5;
 constexpr double secant_reach = 2.0 / 3.0;
@@ -1254,14 +1278,24 @@ void LapSolver::channels_pass(const Envelope& env, const Mesh& mesh, ChannelSet 
       if (!all) continue;
       // Under drive the gear the forward sweep engaged (held through a shift's cut; lap.gear holds
       // it on entry); under braking the best gear for the speed.
+      // The gear tables hold a row's gear up to the next row (Envelope::gear), so the point
+      // where an upshift falls can read the old gear a little past its rev limit: the trace
+      // takes the lowest gear from there up in which the speed is within the rev limit (to the
+      // 1e-12 best_drive allows), so that gear, rpm and speed agree. The rpm is the speed's in
+      // that gear, held only at the curve's first rpm below it (the clutch slips: README,
+      // "Physics and assumptions").
       const Powertrain& pt = car.powertrain;
-      const int gear = pt.ideal ? 0 : (lap.phase[i] == Phase::brake ? env.gear(v) : lap.gear[i]);
+      int gear = pt.ideal ? 0 : (lap.phase[i] == Phase::brake ? env.gear(v) : lap.gear[i]);
+      const double wheel_radps = v / car.tyres.rolling_radius_m;
+      const auto engine_in = [&](int g) {
+        return wheel_radps * pt.gears[static_cast<std::size_t>(g - 1)] * pt.final_drive;
+      };
+      if (!pt.ideal)
+        while (gear < static_cast<int>(pt.gears.size()) &&
+               engine_in(gear) > pt.rev_limit_radps * (1.0 + 1e-12))
+          ++gear;
       lap.gear[i] = gear;
-      lap.engine_radps[i] =
-          pt.ideal ? 0.0
-                   : std::clamp(v / car.tyres.rolling_radius_m *
-                                    pt.gears[static_cast<std::size_t>(gear - 1)] * pt.final_drive,
-                                pt.engine_radps.front(), pt.rev_limit_radps);
+      lap.engine_radps[i] = pt.ideal ? 0.0 : std::max(engine_in(gear), pt.engine_radps.front());
       // Front share of the aero load with the drag moment (axle.hpp; the coefficients' rho / 2
       // cancels); NaN, written as an empty field, where there is no downforce to share.
       lap.aero_balance_eff[i] =

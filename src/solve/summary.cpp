@@ -80,6 +80,55 @@ std::optional<std::string> over_usage_warning(const Envelope& env, const Lap& la
         "not limit each axle; --model axle does)";
   return text;
 }
+
+// The warning for a lap on which a tyre's load passes the load where its force peaks under the
+// linear load sensitivity (TyreModel::force_peak_load_n; nothing if nowhere): beyond it more
+// downforce or load transfer gives that tyre less force, the car slows with more downforce at
+// the same drag, and the law is used where it no longer describes a tyre (README, "Physics and
+// assumptions", tyres). The heaviest tyre as the model loads it: the point mass shares the
+// normal load by four; the axle model gives each axle's two tyres half its load, -+ the lateral
+// transfer (Envelope::transfer: F_y = m |a_y| per newton, the outer tyre at most the axle's).
+std::optional<std::string> tyre_peak_warning(const Envelope& env, const Lap& lap,
+                                             const Mesh& mesh) {
+  const std::size_t n = mesh.size();
+  const double peak = env.tyres().force_peak_load_n();
+  if (!std::isfinite(peak) || lap.front_load_n.size() != n || lap.rear_load_n.size() != n ||
+      lap.lat_accel_mps2.size() != n)
+    return std::nullopt;
+  const bool axle = env.car().model == VehicleModel::axle;
+  const TransferPerNewton& d = env.transfer();
+  const double m = env.mass_kg();
+  auto heaviest = [&](std::size_t i) {
+    const double front = lap.front_load_n[i], rear = lap.rear_load_n[i];
+    if (!axle) return 0.25 * (front + rear);
+    const double fy = m * std::abs(lap.lat_accel_mps2[i]);
+    return std::max(std::min(front, 0.5 * front + d.front * fy),
+                    std::min(rear, 0.5 * rear + d.rear * fy));
+  };
+  std::size_t worst = 0;
+  double highest = 0.0, length = 0.0;
+  bool past_before = false;
+  for (std::size_t i = 0; i < n; ++i) {
+    const double load = heaviest(i);  // NaN below the loads' floor: never past
+    const bool past = load > peak;
+    if (past && load > highest) {
+      highest = load;
+      worst = i;
+    }
+    if (i > 0) length += 0.5 * (mesh.s_m[i] - mesh.s_m[i - 1]) * (past + past_before);
+    past_before = past;
+  }
+  if (!(highest > peak)) return std::nullopt;
+  char buf[400];
+  std::snprintf(buf, sizeof buf,
+                "a tyre's load reaches %.0f N at %.0f m (%s km/h), past %.0f N where its force "
+                "mu(Fz) Fz peaks under the load sensitivity (Fn (1 + s) / (2 s), s = %.3g): "
+                "beyond it more load gives that tyre less force; past it on %.1f %% of the lap "
+                "distance",
+                highest, mesh.s_m[worst], kph_text(lap.speed_mps[worst]).c_str(), peak,
+                env.tyres().load_sensitivity(), 100.0 * length / mesh.length_m);
+  return std::string(buf);
+}
 }  // namespace
 
 std::vector<RangeNote> range_notes(const Envelope& env) {
@@ -117,6 +166,7 @@ std::vector<RangeNote> range_notes(const Envelope& env) {
       break;
     }
     case TopSpeedLimit::ceiling:
+    case TopSpeedLimit::traction:  // not a table's top (check's alone)
       why = "the ceiling of the tables";
       break;
   }
@@ -313,6 +363,8 @@ LapSummary summarize(const Lap& lap, const Mesh& mesh, const Track& track,
   if (full_detail) {
     s.warnings = lap_range_warnings(env, lap, mesh);
     if (std::optional<std::string> w = over_usage_warning(env, lap, mesh))
+      s.warnings.push_back(*w);
+    if (std::optional<std::string> w = tyre_peak_warning(env, lap, mesh))
       s.warnings.push_back(*w);
   }
 

@@ -1,10 +1,14 @@
 #include "lapwing/study/check_summary.hpp"
 
 #include <algorithm>
+#include <cmath>
+#include <tuple>
+#include <utility>
 
 #include "lapwing/base/units.hpp"
 #include "lapwing/model/loads.hpp"
 #include "lapwing/model/powertrain.hpp"
+#include "lapwing/solve/solver.hpp"
 #include "lapwing/solve/summary.hpp"
 
 namespace lapwing {
@@ -16,6 +20,52 @@ EnvelopeOptions without_level_tables() {
   EnvelopeOptions o;
   o.level_tables = false;
   return o;
+}
+
+// The level-road top speed of the car's model: the least of the engine's (drag, rev limit or
+// the tables' ceiling) and the tyres' (the speed beyond which the driven axle, or the point
+// mass's four tyres, cannot carry the resistance: a low mu_long, or tyres loaded past their
+// force's peak by downforce). A lap on a long enough straight reaches it, not the engine's.
+std::pair<double, TopSpeedLimit> level_top_speed(const Envelope& env) {
+  const double engine = env.top_speed_level_mps();
+  const double tyres = level_traction_speed_mps(env);
+  if (tyres < engine) return {tyres, TopSpeedLimit::traction};
+  return {engine, env.top_speed_limit()};
+}
+// Where the heaviest tyre on a level straight at steady speed (a_x = 0, no lateral force)
+// reaches the load of its force's peak: scanned in steps of 0.5 m/s up to the tables' top, the
+// crossing then bisected to 1e-6 m/s.
+void tyre_peak(const Envelope& env, ConfigCheck& c) {
+  const double peak = env.tyres().force_peak_load_n();
+  if (!std::isfinite(peak)) return;
+  c.tyre_peak_load_n = peak;
+  const Car& car = env.car();
+  const bool axle = car.model == VehicleModel::axle;
+  auto heaviest = [&](double v) {
+    const AxleLoads l = axle_loads(car, env.drag_n(v), env.downforce_n(v), env.aero_balance(v),
+                                   1.0, 0.0, 0.0);
+    return axle ? 0.5 * std::max(l.front_n, l.rear_n) : 0.25 * (l.front_n + l.rear_n);
+  };
+  const double top = env.max_speed_mps();
+  constexpr double scan_mps = 0.5;
+  double lo = 0.0;
+  if (heaviest(0.0) > peak) {
+    c.tyre_peak_speed_mps = 0.0;
+    return;
+  }
+  for (double v = scan_mps;; v = std::min(v + scan_mps, top)) {
+    if (heaviest(v) > peak) {
+      double hi = v;
+      while (hi - lo > 1e-6) {
+        const double mid = 0.5 * (lo + hi);
+        (heaviest(mid) > peak ? hi : lo) = mid;
+      }
+      c.tyre_peak_speed_mps = hi;
+      return;
+    }
+    lo = v;
+    if (v >= top) return;
+  }
 }
 }  // namespace
 
@@ -35,8 +85,8 @@ ConfigCheck check_config(const Car& car, std::size_t index, const Air& air) {
   c.has_map = env.has_map();
   c.speed_table = !a.speed_mps.empty();
   c.drag_height_m = cc.drag_height_m;
-  c.top_speed_mps = env.top_speed_level_mps();
-  c.top_speed_limit = env.top_speed_limit();
+  std::tie(c.top_speed_mps, c.top_speed_limit) = level_top_speed(env);
+  tyre_peak(env, c);
   for (const double speed_kph : check_speeds_kph) {
     const double v = speed_kph * units::kph;
     const AeroPoint p = env.aero_point(v);
@@ -88,7 +138,8 @@ TrackCheck check_track(const Car& car, const Circuit& t) {
   }
   for (std::size_t c = 0; c < car.configs.size(); ++c) {
     const Envelope env(car.configured(c), t.air, without_level_tables());
-    out.configs.push_back({car.configs[c].name, env.top_speed_level_mps(), env.top_speed_limit()});
+    const auto [top, limit] = level_top_speed(env);
+    out.configs.push_back({car.configs[c].name, top, limit});
   }
   // The data's verdict: per config, from the lap at half and double the smoothing strength
   // (track_quality.hpp). A config that cannot lap is a failure, not an error: check describes.

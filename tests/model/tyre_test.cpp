@@ -143,3 +143,22 @@ TEST_CASE("the test without powers says 'surely' only where the ellipse leaves t
   const TyreModel t(Tyres{1.5, 1.7, 1600.0, 0.08, 2.2, 0.33, 0.0});
   CHECK_FALSE(t.surely_leaves(0.0, 0.0, 0.0, 0.0));  // an unloaded axle leaves nothing
 }
+
+TEST_CASE("the least axle load for a lateral force with a transfer past the tyre's vertex") {
+  // s = 0.08, Fn = 1600 N: one tyre's force mu0 Fz (1 - s (Fz - Fn) / Fn) peaks at
+  // Fn (1 + s) / (2 s) = 10.8 kN. With d = 9 kN moved to the outer tyre (2 d = 18 kN, past that
+  // vertex) the two-tyre equation mu0 (L (1 + s) - s (L^2 / 2 + 2 d^2) / Fn) = |fy| has no
+  // root for |fy| = 8 kN (b^2 - 4 a c = 1.1664 - 1.31 < 0), but the outer tyre alone holds it
+  // at a load below 2 d: mu0 L (1 - s (L - Fn) / Fn) = |fy|, the smaller root of
+  // (s / Fn) L^2 - (1 + s) L + |fy| / mu0 = 0 (quadratic formula): L = 6720 N with mu0 = 1.6.
+  // The floor's load |fy| / (0.1 mu0) = 50 kN was returned before.
+  const TyreModel t(Tyres{1.6, 1.6, 1600.0, 0.08, 2.0, 0.3, 0.0});
+  const double fy = 8000.0, d = 9000.0, s = 0.08, fn = 1600.0;
+  const double a = s / fn, b = 1.0 + s, c = fy / 1.6;
+  const double load = (b - std::sqrt(b * b - 4.0 * a * c)) / (2.0 * a);
+  CHECK(near(load, 6720.0, 1e-3));  // the figure in the comment, rounded
+  // 1e-12: the same root in its other form, 2 c / (b + sqrt(b^2 - 4 a c)).
+  CHECK(near(t.axle_load_for_lateral(fy, d), load, 1e-12));
+  // The axle's own capacity at that load (inner tyre lifted) is fy (1e-12: rounding).
+  CHECK(near(t.axle_limits(load, d).fy_max, fy, 1e-12));
+}

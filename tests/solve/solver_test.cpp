@@ -829,3 +829,31 @@ TEST_CASE("a steady limit that ripples by 1e-6 is still a corner: no throttle or
                       [](Phase p) { return p == Phase::corner; }));
   }
 }
+
+TEST_CASE("the trace's rpm is the speed's in its gear, within the rev limit (kinematics)") {
+  // Engine speed through a gearbox is w = v / r x gear ratio x final drive (rolling without
+  // slip: kinematics, common practice). The point where an upshift falls read the old gear past
+  // its rev limit, its rpm clamped to the limit (Cairnholt, Pellion FR-2 medium, 2044 m:
+  // 221.93 km/h in gear 3 is 12201.8 rpm, the trace said 12200). Every point of every bundled
+  // Pellion lap on Cairnholt: the rpm is the speed's in the row's gear to 1e-12 (rounding),
+  // never past the rev limit by more than best_drive's 1e-12, and held at the curve's first
+  // rpm only below it (the clutch slips: README, "Physics and assumptions").
+  const Car pellion = load_car(test::source_path("cars/pellion-fr2.yaml"));
+  const Circuit c = test::bundled_circuit("tracks/cairnholt.yaml");
+  for (std::size_t k = 0; k < pellion.configs.size(); ++k) {
+    const ConfiguredCar cc = pellion.configured(k);
+    const Powertrain& pt = cc.car().powertrain;
+    const Envelope env(cc, c.air);
+    const Lap lap = solve_lap(env, c.mesh, c.track.start_speed_mps);
+    REQUIRE(lap.gear.size() == lap.speed_mps.size());
+    int past = 0;
+    for (std::size_t i = 0; i < lap.gear.size(); ++i) {
+      REQUIRE(lap.gear[i] >= 1);
+      const double w = lap.speed_mps[i] / cc.car().tyres.rolling_radius_m *
+                       pt.gears[static_cast<std::size_t>(lap.gear[i] - 1)] * pt.final_drive;
+      past += w > pt.rev_limit_radps * (1.0 + 1e-12);
+      CHECK(near(lap.engine_radps[i], std::max(w, pt.engine_radps.front()), 1e-12));
+    }
+    CHECK(past == 0);
+  }
+}

@@ -395,3 +395,42 @@ TEST_CASE("an axle with no load is asked for nothing or warned of: never a numbe
     }
   }
 }
+
+TEST_CASE("a lap whose tyre load passes the force's peak Fn (1 + s) / (2 s) carries a warning") {
+  // mu(Fz) Fz = mu0 Fz (1 - s (Fz - Fn) / Fn) peaks at Fz* = Fn (1 + s) / (2 s) (calculus: the
+  // vertex of the parabola). A point mass (four tyres at N / 4 each, N = m g + q ClA on the
+  // level) with s = 0.2 and Fn = 1500 N: Fz* = 4500 N, reached at q = (4 Fz* - m g) / ClA. On a
+  // straight long enough to pass that speed the lap must say so, naming the heaviest tyre load
+  // (worked out again from the trace); on a short one, below it, it must not.
+  const double m = 640.0, cla = 8.0, fn = 1500.0, s = 0.2;
+  Car car = test::plain_car(m, 1.5, 600e3);
+  car.configs.front().cda_m2 = {1.0};
+  car.configs.front().cla_m2 = {cla};
+  car.tyres.nominal_load_n = fn;
+  car.tyres.load_sensitivity = s;
+  const double peak = fn * (1.0 + s) / (2.0 * s);
+  auto peak_warnings = [&](double length_m, double& heaviest) {
+    const Track track = test::straight_track(length_m, 0.5, 0.0);
+    const Mesh mesh = build_mesh(track, track.mesh_m);
+    const Envelope env(test::configured(car), make_air(track.air));
+    const Lap lap = solve_lap(env, mesh);
+    heaviest = 0.0;
+    for (std::size_t i = 0; i < mesh.size(); ++i)
+      heaviest = std::max(heaviest, 0.25 * (lap.front_load_n[i] + lap.rear_load_n[i]));
+    std::vector<std::string> out;
+    for (const auto& w : summarize(lap, mesh, track, find_corners(mesh), env).warnings)
+      if (w.find("peaks under the load sensitivity") != std::string::npos) out.push_back(w);
+    return out;
+  };
+  double heaviest = 0.0;
+  const std::vector<std::string> w = peak_warnings(2000.0, heaviest);
+  REQUIRE(heaviest > peak);
+  REQUIRE(w.size() == 1);
+  char expect[64];
+  std::snprintf(expect, sizeof expect, "a tyre's load reaches %.0f N", heaviest);
+  CHECK(w.front().find(expect) != std::string::npos);
+  std::snprintf(expect, sizeof expect, "past %.0f N", peak);
+  CHECK(w.front().find(expect) != std::string::npos);
+  CHECK(peak_warnings(40.0, heaviest).empty());
+  CHECK(heaviest < peak);
+}

@@ -196,3 +196,60 @@ TEST_CASE(
     if (q.verdict == shown.verdict) CHECK(*q.spread <= *shown.spread);
   }
 }
+
+TEST_CASE("check's top speed is the tyres' where they cannot carry the resistance (closed form)") {
+  // Point mass, no load sensitivity: the four tyres carry at most mu_long N along the road,
+  // N = m g + q ClA; the speed holds while that covers drag + rolling resistance, so the level
+  // top speed the tyres allow solves mu_long (m g + q ClA) = q CdA + Crr (m g + q ClA),
+  // q = rho v^2 / 2: v^2 = 2 (mu - Crr) m g / (rho (CdA - (mu - Crr) ClA)) (a force balance,
+  // closed form; the tester's car: mu_long 0.3, the lap reached 204.5 km/h, check said 281.7
+  // km/h (drag)). The engine here (400 kW) alone would go faster: check must name `traction`.
+  const double m = 640.0, mu = 0.3, crr = 0.015, cda = 1.0, cla = 0.5;
+  Car car = aero_car(cda, cla, 0.45, 0.0);
+  car.tyres.mu_long = mu;
+  car.tyres.rolling_resistance = crr;
+  const Air air = make_air(AirSpec{});
+  const double rho = air.density_kg_m3, g = units::g0;
+  const double v = std::sqrt(2.0 * (mu - crr) * m * g / (rho * (cda - (mu - crr) * cla)));
+  const ConfigCheck c = check_config(car, 0, air);
+  CHECK(c.top_speed_limit == TopSpeedLimit::traction);
+  // 1e-9: a bracketing root (TOMS 748 to 2^-36 relative) of the same force balance.
+  CHECK(near(c.top_speed_mps, v, 1e-9));
+  // Grip to spare (mu_long 1.5): the engine's limit stands, as before.
+  car.tyres.mu_long = 1.5;
+  CHECK(check_config(car, 0, air).top_speed_limit == TopSpeedLimit::drag);
+  // The axle model puts the drive on the rear axle alone: less than the point mass's four tyres.
+  car.tyres.mu_long = mu;
+  car.model = VehicleModel::axle;
+  const ConfigCheck axle = check_config(car, 0, air);
+  CHECK(axle.top_speed_limit == TopSpeedLimit::traction);
+  CHECK(axle.top_speed_mps < 0.9 * v);
+}
+
+TEST_CASE("check places the load where a tyre's force peaks: Fn (1 + s) / (2 s) (closed form)") {
+  // mu(Fz) Fz = mu0 Fz (1 - s (Fz - Fn) / Fn) is a parabola in Fz with its vertex at
+  // Fz* = Fn (1 + s) / (2 s) (calculus: the derivative mu0 (1 + s - 2 s Fz / Fn) is 0 there).
+  // Point mass on the level at steady speed: each tyre carries (m g + q ClA) / 4, which reaches
+  // Fz* at q = (4 Fz* - m g) / ClA, q = rho v^2 / 2.
+  const double m = 640.0, cla = 8.0, fn = 1500.0, s = 0.2;
+  Car car = aero_car(1.0, cla, 0.45, 0.0);
+  car.tyres.nominal_load_n = fn;
+  car.tyres.load_sensitivity = s;
+  const Air air = make_air(AirSpec{});
+  const double peak = fn * (1.0 + s) / (2.0 * s);  // 4500 N
+  const double v = std::sqrt(2.0 * (4.0 * peak - m * units::g0) / (air.density_kg_m3 * cla));
+  const ConfigCheck c = check_config(car, 0, air);
+  REQUIRE(c.tyre_peak_load_n);
+  CHECK(near(*c.tyre_peak_load_n, peak, 1e-15));
+  REQUIRE(c.tyre_peak_speed_mps);
+  // 1e-7: bisected to 1e-6 m/s.
+  CHECK(near(*c.tyre_peak_speed_mps, v, 1e-7, 1e-6));
+  // Below that speed at the tables' top (little downforce): not within the envelope.
+  car.configs.front().cla_m2 = {0.5};
+  const ConfigCheck low = check_config(car, 0, air);
+  REQUIRE(low.tyre_peak_load_n);
+  CHECK_FALSE(low.tyre_peak_speed_mps);
+  // No load sensitivity: no peak at all.
+  car.tyres.load_sensitivity = 0.0;
+  CHECK_FALSE(check_config(car, 0, air).tyre_peak_load_n);
+}

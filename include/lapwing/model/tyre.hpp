@@ -4,6 +4,7 @@
 
 #include <algorithm>
 #include <cmath>
+#include <limits>
 #include <optional>
 
 #include "lapwing/base/violation.hpp"
@@ -42,6 +43,18 @@ class TyreModel {
   double mu_factor(double fz_per_tyre_n) const {
     return std::max(floor_fraction, 1.0 - sensitivity_per_n_ * (fz_per_tyre_n - nominal_n_));
   }
+
+  /// The per-tyre load at which a tyre's peak force mu(Fz) Fz is highest: d/dFz of
+  /// mu0 Fz (1 - s (Fz - Fn) / Fn) is 0 at Fz = Fn (1 + s) / (2 s), below the floor's load
+  /// Fn (1 + 0.9 / s) for every s > 0. Beyond it more load gives less force (until the floor):
+  /// the linear law holds as a tyre's behaviour only below it. Infinity without load
+  /// sensitivity (s <= 0: the force grows with the load).
+  double force_peak_load_n() const {
+    const double s = sensitivity_per_n_ * nominal_n_;
+    if (!(s > 0.0)) return std::numeric_limits<double>::infinity();
+    return nominal_n_ * (1.0 + s) / (2.0 * s);
+  }
+  double load_sensitivity() const { return sensitivity_per_n_ * nominal_n_; }
 
   /// Peak longitudinal and lateral force of the whole car at total vertical load N (four tyres
   /// sharing N equally).
@@ -85,7 +98,14 @@ class TyreModel {
   /// mu_lat0 (L (1 + s) - s (L^2 / 2 + 2 d^2) / Fn) = |fy| gives a = s / (2 Fn), b = 1 + s,
   /// c = |fy| / mu_lat0 + 2 s d^2 / Fn. Where that load is below 2 d the inner tyre has lifted
   /// and the outer alone holds fy: the least load of one tyre, mu_lat0 L (1 - s (L - Fn) / Fn)
-  /// = |fy| (a = s / Fn).
+  /// = |fy| (a = s / Fn). The two-tyre equation may have no root at all where the lifted case
+  /// has one: with 2 d beyond the one tyre's vertex Fn (1 + s) / (2 s) (a transfer of over
+  /// 5 kN: a cg height of 2 m and more), the outer tyre alone below 2 d holds more than two do
+  /// at any load above it. Then the lifted root decides where it lies below 2 d (the floor's
+  /// load only where neither holds fy). Reading the floor's load there instead (it was) put
+  /// the least load some five times too high: a rear-driven car's front bound then read a
+  /// deceleration of several g at a point the front held (cg 2.5 m: -2.8 g, the rear axle's
+  /// load -10 kN).
   double axle_load_for_lateral(double fy_n, double transfer_n) const {
     if (transfer_n <= 0.0) return axle_load_for_lateral(fy_n);
     const double s = sensitivity_per_n_;
@@ -95,7 +115,12 @@ class TyreModel {
       const double disc = b * b - 4.0 * a * c;
       return disc < 0.0 ? c0 / floor_fraction : 2.0 * c / (b + std::sqrt(disc));
     };
-    const double both = root(0.5 * s, c0 + 2.0 * s * transfer_n * transfer_n);
+    const double c2 = c0 + 2.0 * s * transfer_n * transfer_n;
+    if (b * b - 2.0 * s * c2 < 0.0) {  // no root with both tyres down
+      const double lifted = root(s, c0);
+      return lifted <= 2.0 * transfer_n ? lifted : c0 / floor_fraction;
+    }
+    const double both = root(0.5 * s, c2);
     if (both >= 2.0 * transfer_n) return both;
     return root(s, c0);
   }

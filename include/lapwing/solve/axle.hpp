@@ -56,6 +56,7 @@ double axle_brake_accel(const Envelope& env, double u, double abs_curvature, con
 
 /// Steady state at speed v (a_x = 0): the larger axle usage when the tyres carry the lateral
 /// demand and the longitudinal force that holds v (minus 1: <= 0 is feasible).
-double axle_steady_excess(const Envelope& env, double v, double abs_curvature, const Road& road);
+double axle_steady_excess(const Envelope& env, double v, double abs_curvature, const Road& road,
+                          bool trimmed = false);
 
 }  // namespace lapwing

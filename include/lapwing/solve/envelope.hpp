@@ -47,9 +47,11 @@ struct EnvelopeOptions {
 enum class TopSpeedLimit {
   drag,       // drive equals drag + rolling resistance below the tables' top
   rev_limit,  // the rev limit in top gear: the engine turns no faster (the tables' top)
-  ceiling     // EnvelopeOptions::speed_ceiling_mps: no finite top speed below it
+  ceiling,    // EnvelopeOptions::speed_ceiling_mps: no finite top speed below it
+  traction    // check only (level_traction_speed_mps): the tyres cannot carry the resistance
+              // beyond; never an Envelope's own limit
 };
-/// "drag", "rev limit", "table ceiling".
+/// "drag", "rev limit", "table ceiling", "traction".
 const char* top_speed_limit_name(TopSpeedLimit l);
 
 /// A car with one config applied (ConfiguredCar) in one air, tabulated over speed.

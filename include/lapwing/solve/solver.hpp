@@ -64,6 +64,12 @@ struct SteadyProfile {
 /// resistance and grade (friction ellipse), and at which the engine can supply that force
 /// (toms748 bracketing root finder, Boost.Math).
 SteadyProfile steady_profile(const Envelope& env, const Mesh& mesh);
+/// The highest speed the tyres hold on a level straight in still air (the steady grip limit at
+/// curvature 0, as steady_profile finds it): where the driven axle (axle model) or the four
+/// tyres (point mass) can just carry the resistance, drag + rolling resistance, at a_x = 0.
+/// max_speed_mps() where they carry it all the way to the tables' top. On the straight-line
+/// trim's rows where the config has one (as top_speed_level_mps).
+double level_traction_speed_mps(const Envelope& env);
 /// The same, into `out` (its storage reused). The mesh's two halves are each solved from a fresh
 /// start (the root searches' guesses are not carried across the middle), as a lap on two
 /// threads solves them (LapSolver::set_threads): the same limits.

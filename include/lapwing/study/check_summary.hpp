@@ -63,8 +63,16 @@ struct ConfigCheck {
   bool has_map = false;                // a ride-height map (figures at rest, ride heights)
   bool speed_table = false;            // coefficients over speed (figures of the first row)
   double drag_height_m = 0.0;          // the config's (an override, or the car's)
-  double top_speed_mps = 0.0;          // level road (Envelope::top_speed_level_mps)
+  // Level road, the car's model: the engine's (Envelope::top_speed_level_mps) or, where lower,
+  // the tyres' (level_traction_speed_mps; limit `traction`).
+  double top_speed_mps = 0.0;
   TopSpeedLimit top_speed_limit = TopSpeedLimit::drag;
+  // The per-tyre load where a tyre's force mu(Fz) Fz peaks under the load sensitivity
+  // (TyreModel::force_peak_load_n; none without it), and the lowest speed at which the
+  // heaviest tyre reaches it on a level straight at steady speed in this air (the model's
+  // loads: a quarter of the normal load, or half the heavier axle's); none where no speed up to
+  // the tables' top does.
+  std::optional<double> tyre_peak_load_n, tyre_peak_speed_mps;
   std::vector<AeroAtSpeed> at_speeds;    // at check_speeds_kph, in that order
   std::vector<std::string> range_notes;  // where the data is used beyond its range (summary.hpp)
   bool no_downforce = false;             // some speed has no downforce: shares undefined there
