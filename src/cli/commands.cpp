@@ -858,7 +858,24 @@ int track_line(const TrackLineOptions& o, Inputs& in) {
   if (car) configured.emplace(*car, ci);
 
   // A track without widths, or too narrow for the vehicle and its margins: an InvalidInput of
-  // the track's "line" key (at the line: key, else the file as a whole).
+  // the track's "line" key (at the line: key, else the file as a whole). Too narrow for the
+  // width or margin the options gave: the options' usage error, naming the narrowest point.
+  if (!o.vehicle_width.empty() || !o.margin.empty()) {
+    const LineReference ref = line_reference(described);
+    const std::size_t i = ref.narrowest();
+    const double room = spec.vehicle_width_m + 2.0 * spec.margin_m;
+    if (ref.width_m(i) < room) {
+      const std::string given = !o.vehicle_width.empty() && !o.margin.empty()
+                                    ? "--vehicle-width and --margin"
+                                : !o.vehicle_width.empty() ? "--vehicle-width"
+                                                           : "--margin";
+      throw UsageError{given + ": a vehicle " + fixed(spec.vehicle_width_m, 2) +
+                       " m wide with a margin of " + fixed(spec.margin_m, 2) +
+                       " m each side needs " + fixed(room, 2) + " m, and " + o.track +
+                       " is " + fixed(ref.width_m(i), 2) + " m wide at " + fixed(ref.s_m[i], 1) +
+                       " m, its narrowest"};
+    }
+  }
   PathProfile line;
   std::optional<double> centerline_lap, min_curvature_lap, line_lap;
   int passes = 0;

@@ -490,6 +490,16 @@ expect_error "lapwing: error: --method min-time needs --car" \
   track line --track tracks/brannock-park.yaml --out "$tmp/line/x.yaml" --method min-time
 expect_error "a racing line needs the track's widths" \
   track line --track tracks/acceleration.yaml --out "$tmp/line/x.yaml"
+# Too wide a vehicle or margin given as options: their usage error, naming the track's narrowest
+# point (it was reported at the track file's first key as if the file were wrong).
+expect_error "lapwing: error: --vehicle-width: a vehicle 2.50 m wide with a margin of 0.50 m each side needs 3.50 m, and tracks/skidpad.yaml is 3.00 m wide at 0.0 m, its narrowest" \
+  track line --track tracks/skidpad.yaml --out "$tmp/line/x.yaml" --vehicle-width 2.5
+expect_error "lapwing: error: --margin: a vehicle 2.00 m wide with a margin of 4.50 m each side needs 11.00 m, and tracks/brannock-park.yaml is 10.00 m wide at 0.0 m, its narrowest" \
+  track line --track tracks/brannock-park.yaml --out "$tmp/line/x.yaml" --margin 4.5
+# The track's own line: key too wide: the track's error at that key.
+{ cat tracks/brannock-park.yaml; echo "line: {vehicle_width: 5 m, margin: 3 m}"; } > "$tmp/too-wide.yaml"
+expect_error "too-wide.yaml:$(($(wc -l < tracks/brannock-park.yaml) + 1)):7: error: the track is 10.00 m wide at 0.0 m, its narrowest, less than the vehicle's 5.00 m and a margin of 3.00 m each side (line)" \
+  track line --track "$tmp/too-wide.yaml" --out "$tmp/line/x.yaml"
 [ -e "$tmp/line/x.yaml" ] && bad "track line wrote after an error" || ok
 # The line: key: every command laps the line; check says so.
 { cat tracks/cairnholt.yaml; echo "line: {method: min-curvature, vehicle_width: 1.9 m}"; } > "$tmp/cairnholt-line.yaml"
