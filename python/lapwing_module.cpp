@@ -291,10 +291,12 @@ void check_path(const std::string& path) {
 }
 
 // A path as Python gives it: a str, bytes or any os.PathLike (pathlib.Path), as open() takes
-// (os.fsdecode: bytes by the file system's encoding); anything else a TypeError.
+// (os.fsdecode: bytes by the file system's encoding); anything else a TypeError. The text read
+// as every other text argument is: one with no UTF-8 (a lone surrogate) an InputError naming
+// the path, not a failed cast.
 std::string path_text(const py::object& path) {
   const py::object text = py::module_::import("os").attr("fsdecode")(path);
-  return text.cast<std::string>();
+  return utf8(text, "path");
 }
 
 CarHandle load_car_file(const py::object& path_object) {

@@ -23,6 +23,7 @@
 #include "lapwing/io/car_file.hpp"
 #include "lapwing/io/csv.hpp"
 #include "lapwing/io/document.hpp"
+#include "lapwing/io/input_file.hpp"
 #include "lapwing/io/json.hpp"
 #include "lapwing/io/line_track.hpp"
 #include "lapwing/io/log_file.hpp"
@@ -164,14 +165,11 @@ int located(int (*command)(const Options&, Inputs&), const Options& o) {
   }
 }
 
-// Whether two paths name one file (through "..", links and symlinks): a file given twice, or a
-// command that would write over what it reads.
-bool same_file(const std::string& a, const std::string& b) {
-  std::error_code e1, e2, e3;
-  if (std::filesystem::equivalent(a, b, e3) && !e3) return true;
-  const auto ca = std::filesystem::weakly_canonical(a, e1);
-  const auto cb = std::filesystem::weakly_canonical(b, e2);
-  return !e1 && !e2 && ca == cb;
+// An --out folder that holds an input of the command (a car written by fit, a track kept there)
+// is refused as soon as the inputs are read, before the laps are solved; write_outputs would
+// refuse it after.
+void require_out_keeps_inputs(const std::string& out) {
+  if (!out.empty()) require_no_input_inside(out);
 }
 
 std::vector<Inputs::Loaded> Inputs::load_all(const std::vector<std::string>& files,
@@ -342,6 +340,7 @@ int run(const RunOptions& o, Inputs& in) {
   // free (README, "Memory").
   std::vector<Inputs::Loaded> loaded;
   loaded.push_back(in.load(o.track, air));
+  require_out_keeps_inputs(o.out);
   require_memory(o.memory_limit, loaded, 0, true, 1, 1, true);
   std::vector<Circuit> circuits = Inputs::lay_out_each(loaded);
   loaded.clear();
@@ -423,6 +422,7 @@ int compare(const CompareOptions& o, Inputs& in) {
   apply_model(o.model, car);
   const std::vector<std::size_t> configs = pick_configs(car, o.configs);
   std::vector<Inputs::Loaded> loaded = in.load_all(o.tracks, air);
+  require_out_keeps_inputs(o.out);
   // The verdicts (with --out) lay a fitted centerline out twice more.
   require_memory(o.memory_limit, loaded, configs.size(), true, o.threads,
                  loaded.size() * configs.size(), !o.out.empty());
@@ -490,6 +490,7 @@ int trade(const TradeOptions& o, Inputs& in) {
   else
     configs.push_back(pick_config(car, o.config));
   std::vector<Inputs::Loaded> loaded = in.load_all(o.tracks, air);
+  require_out_keeps_inputs(o.out);
   // Speed and time only; no lap kept; many laps per track (the differences and the grid).
   require_memory(o.memory_limit, loaded, 0, false, o.threads, std::size_t{1} << 20, false);
   const std::vector<Circuit> circuits = Inputs::lay_out_each(loaded);
@@ -552,11 +553,24 @@ int sweep(const SweepOptions& o, Inputs& in) {
   if (o.sets.empty()) throw UsageError{"sweep: give at least one --set KEY=VALUES"};
   if (o.out.empty()) throw UsageError{"sweep: --out FILE.sqlite is required"};
   const AirOverride air = parse_air(o.air);
+  // A bad --set, --design or --shard is a usage error ("lapwing: error: --shard 0/2: ..."),
+  // as every other option's; the parsers name the option and its text as the subject.
+  const auto option_error = [](const InvalidInput& e) {
+    const std::string& key = e.violation().field;
+    return UsageError{e.subject() + ": " + e.message() + (key.empty() ? "" : " (" + key + ")")};
+  };
   std::vector<SweepSet> sets;
-  for (const auto& text : o.sets) sets.push_back(parse_set(text));
-  const SweepDesign design = parse_design(o.design);
-  const Shard shard = parse_shard(o.shard);
-  const SweepPlan plan(sets, design);
+  SweepDesign design;
+  Shard shard;
+  SweepPlan plan;
+  try {
+    for (const auto& text : o.sets) sets.push_back(parse_set(text));
+    design = parse_design(o.design);
+    shard = parse_shard(o.shard);
+    plan = SweepPlan(sets, design);
+  } catch (const InvalidInput& e) {
+    throw option_error(e);
+  }
 
   // The car file as a document: each point sets its values there and is read like a car file.
   const Document doc = load_document(o.car);
@@ -685,7 +699,12 @@ int sweep(const SweepOptions& o, Inputs& in) {
     }
     return text_table(header, rows);
   };
-  std::cout << "\nbest point per track (" << o.out << ")\n" << best_table(best_points(o.out));
+  const std::vector<BestPoint> best = best_points(o.out);
+  std::cout << "\nbest point per track (" << o.out << ")\n" << best_table(best);
+  // A track none of whose laps completes has no row: said, not left out in silence.
+  for (const auto& t : study.tracks)
+    if (std::none_of(best.begin(), best.end(), [&](const BestPoint& b) { return b.track == t; }))
+      std::cout << t << ": no stored lap completes the track (status cannot-move)\n";
   // The fastest point whose lap keeps the front share inside the car's balance window: the best
   // overall may be one the driver would not accept (README, "Sweep").
   if (const auto& w = base.balance_window) {
@@ -719,12 +738,11 @@ int sweep(const SweepOptions& o) {
 }
 
 int sweep_merge(const SweepMergeOptions& o) {
-  // A store given twice would be read twice, and the output as an input read while written
-  // (SQLite: "database is locked"): both refused before anything is opened.
+  if (o.out.empty())
+    throw UsageError{"sweep merge: OUT is empty: give the results store to write (or add to)"};
+  // A store given twice would be read twice: refused before anything is opened. (OUT given among
+  // the inputs is refused as any output that is an input: io/output.hpp, require_not_input.)
   for (std::size_t i = 0; i < o.inputs.size(); ++i) {
-    if (same_file(o.inputs[i], o.out))
-      throw UsageError{"sweep merge: the output " + o.out + " is also given to merge (" +
-                       o.inputs[i] + "): give the other stores to merge into it"};
     for (std::size_t j = 0; j < i; ++j)
       if (same_file(o.inputs[i], o.inputs[j]))
         throw UsageError{"sweep merge: " + o.inputs[i] + " is given twice (as " + o.inputs[j] +
@@ -742,9 +760,7 @@ int sweep_merge(const SweepMergeOptions& o) {
 
 int sweep_export(const SweepExportOptions& o) {
   if (o.csv.empty()) throw UsageError{"sweep export: --csv OUT.csv is required"};
-  if (same_file(o.csv, o.file))
-    throw UsageError{"sweep export: --csv " + o.csv + " would replace the results store " + o.file +
-                     " it exports: write the CSV to another name"};
+  // An OUT.csv that is the store read is refused by the writer (require_not_input).
   export_csv(o.file, o.csv);
   std::cout << "wrote   " << o.csv << "\n";
   return 0;
@@ -810,22 +826,6 @@ int track_from_log(const FromLogOptions& o) {
 }
 
 namespace {
-// The files `track line` writes (OUT.yaml and OUT.csv beside it) must not replace the track it
-// reads or its data: the source would be lost, or a track left naming data of another path.
-// A usage error before anything is solved or written.
-void require_not_input(const std::filesystem::path& out, const Track& track) {
-  const std::filesystem::path dir = out.parent_path().empty() ? "." : out.parent_path();
-  std::vector<std::string> inputs{track.file};
-  for (const auto* p : {&track.profile, &track.line_path})
-    if (*p && !(*p)->data_file.empty()) inputs.push_back((*p)->data_file);
-  for (const std::filesystem::path& written : {out, dir / (out.stem().string() + ".csv")})
-    for (const std::string& input : inputs) {
-      if (same_file(written.string(), input))
-        throw UsageError{"--out " + out.string() + " would replace " + input +
-                         ", which the track reads: write the line to another name"};
-    }
-}
-
 int track_line(const TrackLineOptions& o, Inputs& in) {
   const std::filesystem::path out(o.out);
   if (out.extension() != ".yaml") throw UsageError{"--out must name a .yaml track file"};
@@ -837,7 +837,14 @@ int track_line(const TrackLineOptions& o, Inputs& in) {
   if (!o.config.empty() && o.car.empty()) throw UsageError{"--config needs --car"};
   const AirOverride air = parse_air(o.air);
   const Track track = in.track(o.track);
-  require_not_input(out, track);
+  std::optional<Car> car;
+  if (!o.car.empty()) car = in.car(o.car);
+  // The files it writes (OUT.yaml and OUT.csv beside it) must not replace the track, its data or
+  // the car: refused before the line is solved (the writer would refuse them after).
+  const std::filesystem::path dir = out.parent_path().empty() ? "." : out.parent_path();
+  const std::string csv_name = out.stem().string() + ".csv";
+  require_not_input(out);
+  require_not_input(dir / csv_name);
   LineSpec spec = track.line.value_or(LineSpec{});
   if (const auto w = option_value(o.vehicle_width, "--vehicle-width", Quantity::length,
                                   LineSpec::vehicle_width_range))
@@ -851,8 +858,6 @@ int track_line(const TrackLineOptions& o, Inputs& in) {
   Track described = track;
   described.line.reset();
   described.line_path.reset();
-  std::optional<Car> car;
-  if (!o.car.empty()) car = in.car(o.car);
   const std::size_t ci = car ? pick_config(*car, o.config) : 0;
   std::optional<ConfiguredCar> configured;
   if (car) configured.emplace(*car, ci);
@@ -900,10 +905,8 @@ int track_line(const TrackLineOptions& o, Inputs& in) {
     centerline_lap = lap_time(*configured, lapwing::lay_out(described, a), solver);
     if (!line_lap) line_lap = lap_time(*configured, lapwing::lay_out(lined, a), solver);
   }
-  const std::string csv_name = out.stem().string() + ".csv";
   const LineTrackFiles files =
       line_track_files(described, line, air_spec, o.method, spec, csv_name);
-  const std::filesystem::path dir = out.parent_path().empty() ? "." : out.parent_path();
   // The line's file is a centerline, which needs 10 points to be read back (a line is laid a
   // point a metre or so): a track too short for that would be written and then refused.
   const auto rows = static_cast<std::size_t>(std::count(files.csv.begin(), files.csv.end(), '\n'));
@@ -994,6 +997,7 @@ int correlate(const CorrelateOptions& o, Inputs& in) {
   logs.push_back(read_speed_log(speed_log_options(o.log, o.columns)));
   std::vector<Circuit> circuits;
   circuits.push_back(in.lay_out(o.track, air));
+  require_out_keeps_inputs(o.out);
   const Circuit& t = circuits.front();
   const LapRun r = run_lap(car.configured(ci), t);
   const Correlation c =
@@ -1072,6 +1076,7 @@ int fit(const FitOptions& o, Inputs& in) {
   std::vector<SpeedLogFile> logs;
   for (const auto& l : o.logs) logs.push_back(read_speed_log(speed_log_options(l, o.columns)));
   const std::vector<Circuit> circuits = in.lay_out_all(unique_tracks, air);
+  require_out_keeps_inputs(o.out);
   std::vector<FitLog> fit_logs;
   for (std::size_t i = 0; i < logs.size(); ++i)
     fit_logs.push_back({&circuits[track_of[i]], &logs[i].speed});

@@ -14,6 +14,7 @@
 #include "lapwing/base/text.hpp"
 #include "lapwing/base/version.hpp"
 #include "lapwing/io/document.hpp"
+#include "lapwing/io/input_file.hpp"
 #include "lapwing/study/trade.hpp"
 
 namespace {
@@ -206,8 +207,8 @@ int main(int argc, char** argv) {
       ->add_option("--out", log_o.out, "Track file to write (TRACK.yaml, and TRACK.csv beside it)")
       ->required();
   from_log->footer(
-      "Example:\n  lapwing track from-log --log lap.csv --speed speed_kph --lat-accel lat_g "
-      "--distance distance_m --closed --out tracks/logged.yaml");
+      "Example:\n  lapwing track from-log --log logs/brannock-park-survey-lap.csv "
+      "--speed speed_kph --lat-accel lat_accel_g --time time_s --out out/brannock-logged.yaml");
 
   cli::TrackLineOptions line_o;
   auto* line = track->add_subcommand(
@@ -338,6 +339,8 @@ int main(int argc, char** argv) {
   }
 
   try {
+    // Every file the command reads is recorded, and no output may replace one (io/input_file.hpp).
+    const InputLedger inputs;
     if (*check) return cli::check(check_o);
     if (*run) return cli::run(run_o);
     if (*compare) return cli::compare(compare_o);

@@ -16,6 +16,7 @@
 #include <system_error>
 
 #include "lapwing/base/error.hpp"
+#include "lapwing/io/input_file.hpp"
 
 namespace lapwing {
 
@@ -112,11 +113,36 @@ std::optional<int> own_descriptor(fs::path p) {
   return std::nullopt;
 }
 
+// Whether `file` lies inside `folder` (a real path, no symlink in it), so that removing the
+// folder removes it: as named (the real path of its folder, and its name: a symlink inside goes
+// with the folder) or where it leads (a symlink elsewhere to a file inside).
+bool lies_inside(const fs::path& file, const fs::path& folder) {
+  std::error_code e1, e2, e3;
+  const fs::path abs = fs::absolute(file, e1);
+  const fs::path named = fs::weakly_canonical(abs.parent_path(), e2) / abs.filename();
+  const fs::path real = fs::weakly_canonical(abs, e3);
+  const auto under = [&](const fs::path& p, bool ok) {
+    const auto [f, q] = std::mismatch(folder.begin(), folder.end(), p.begin(), p.end());
+    return ok && f == folder.end() && q != p.end();
+  };
+  return under(named, !e1 && !e2) || under(real, !e1 && !e3);
+}
+
+// "it is a symlink that leads nowhere (to T: reason)": a link whose end is missing is not
+// followed to make a file or folder there; the user said where the link goes, not what to make.
+[[noreturn]] void dangling(const std::string& what, const fs::path& link, int err) {
+  std::error_code ec;
+  const fs::path to = fs::read_symlink(link, ec);
+  throw OutputError(what + ": it is a symlink that leads nowhere (to " +
+                    (ec ? std::string("?") : to.string()) + ": " + std::strerror(err) + ")");
+}
+
 // One file on its way out: either a temporary beside its target, renamed over it by commit(),
 // or a target written through (a device, a pipe, a descriptor of ours) at commit().
 class PendingFile {
  public:
   PendingFile(const fs::path& path, const std::string& content) : shown_(path), content_(content) {
+    require_not_input(path);
     struct stat st;
     if (::lstat(path.c_str(), &st) != 0) {
       if (errno != ENOENT) fail("cannot write " + shown_.string(), errno);
@@ -129,7 +155,10 @@ class PendingFile {
         return;
       }
       struct stat end;
-      if (::stat(path.c_str(), &end) != 0) fail("cannot write " + shown_.string(), errno);
+      if (::stat(path.c_str(), &end) != 0) {
+        if (errno == ENOENT) dangling("cannot write " + shown_.string(), path, errno);
+        fail("cannot write " + shown_.string(), errno);
+      }
       if (S_ISDIR(end.st_mode))
         throw OutputError("cannot write " + shown_.string() + ": it leads to a folder");
       if (!S_ISREG(end.st_mode)) {
@@ -173,15 +202,19 @@ class PendingFile {
     if (::rename(tmp_.c_str(), target_.c_str()) != 0)
       fail("cannot rename " + tmp_.string() + " to " + shown_.string(), errno);
     tmp_.clear();
+    if (folders_) folders_->keep();
   }
 
  private:
   // Writes the content to `.NAME.tmp.XXXXXX` beside `target` (the same folder: rename is atomic
   // only within a file system), locked while this process lives, synced before the rename so
   // that the name never points at a file the disk does not hold whole.
+  // A write that fails (a full disk, an I/O error) removes its temporary before it says so: only
+  // a kill leaves one, for the next run to remove. The folders it made for a new file go too.
   void stage(const fs::path& target, mode_t mode) {
     target_ = target;
     const fs::path folder = target.parent_path().empty() ? fs::path(".") : target.parent_path();
+    folders_.emplace(folder, shown_.string());
     const std::string prefix = "." + target.filename().string() + ".tmp.";
     remove_leftovers(folder, prefix);
     std::string name = (folder / (prefix + "XXXXXX")).string();
@@ -189,8 +222,14 @@ class PendingFile {
     if (fd_ < 0) fail("cannot write " + shown_.string(), errno);
     tmp_ = name;
     if (::flock(fd_, LOCK_EX) != 0 || ::fchmod(fd_, mode) != 0 || !write_all(fd_, content_) ||
-        ::fsync(fd_) != 0)
-      fail("cannot write " + shown_.string(), errno);
+        ::fsync(fd_) != 0) {
+      const int err = errno;
+      ::unlink(tmp_.c_str());
+      tmp_.clear();
+      ::close(fd_);  // the destructor does not run for a constructor that throws
+      fd_ = -1;
+      fail("cannot write " + shown_.string(), err);
+    }
   }
 
   fs::path shown_;  // as the user gave it
@@ -198,6 +237,7 @@ class PendingFile {
   fs::path target_, tmp_, through_;
   std::optional<int> descriptor_;
   int fd_ = -1;
+  std::optional<MadeFolders> folders_;  // destroyed after the destructor's unlink of tmp_
 };
 
 // Names inside an output folder: plain file names, each once.
@@ -244,15 +284,57 @@ std::string foreign_entry(const fs::path& folder, const std::vector<OutputFile>&
 
 }  // namespace
 
+MadeFolders::MadeFolders(const fs::path& folder, const std::string& shown) {
+  std::error_code ec;
+  const fs::path f = folder.empty() ? fs::path(".") : folder;
+  for (fs::path p = f; !p.empty() && !fs::exists(p, ec); p = p.parent_path()) {
+    made_.push_back(p);
+    if (p == p.root_path() || p == p.parent_path()) break;
+  }
+  if (made_.empty()) return;
+  fs::create_directories(f, ec);
+  if (ec) {
+    remove_made();  // those made before the failure
+    throw OutputError("cannot create " + shown + ": " + ec.message());
+  }
+}
+
+MadeFolders::~MadeFolders() {
+  remove_made();
+}
+
+void MadeFolders::remove_made() {
+  std::error_code ec;
+  for (const auto& p : made_) fs::remove(p, ec);  // only an empty folder is removed
+  made_.clear();
+}
+
+void require_not_input(const fs::path& path) {
+  for (const std::string& input : inputs_read())
+    if (same_file(path.string(), input))
+      throw OutputError("cannot write " + path.string() + ": it would replace " + input +
+                        ", which this command reads (write it to another name)");
+}
+
+void require_no_input_inside(const fs::path& dir, const std::string& shown) {
+  std::error_code ec;
+  const fs::path real = fs::weakly_canonical(dir, ec);
+  if (ec) return;  // no folder there: nothing in it
+  for (const std::string& input : inputs_read())
+    if (lies_inside(input, real))
+      throw OutputError("will not replace " + (shown.empty() ? dir.string() : shown) +
+                        ": it holds " + input +
+                        ", which this command reads (write to another folder)");
+}
+
 void write_file_atomic(const fs::path& path, const std::string& content) {
   PendingFile(path, content).commit();
 }
 
 void write_files_atomic(const fs::path& dir, const std::vector<OutputFile>& files) {
   check_names(files);
-  std::error_code ec;
-  fs::create_directories(dir, ec);
-  if (ec) throw OutputError("cannot create " + dir.string() + ": " + ec.message());
+  for (const auto& f : files) require_not_input(dir / f.name);
+  MadeFolders folders(dir, dir.string());
   // Every file to its temporary first: a failure on any leaves the folder as it was.
   std::vector<std::string> contents;  // a streamed file made whole: these files are small
   for (const auto& f : files) {
@@ -263,6 +345,7 @@ void write_files_atomic(const fs::path& dir, const std::vector<OutputFile>& file
   for (std::size_t i = 0; i < files.size(); ++i)
     pending.push_back(std::make_unique<PendingFile>(dir / files[i].name, contents[i]));
   for (auto& p : pending) p->commit();
+  folders.keep();
 }
 
 void write_outputs(const fs::path& dir, const std::vector<OutputFile>& files) {
@@ -279,12 +362,17 @@ void write_outputs(const fs::path& dir, const std::vector<OutputFile>& files) {
   bool exists = ::lstat(target.c_str(), &st) == 0;
   if (!exists && errno != ENOENT) fail("cannot create " + shown, errno);
   if (exists && S_ISLNK(st.st_mode)) {
-    target = fs::canonical(target, ec);
+    const fs::path link = target;
+    target = fs::canonical(link, ec);
+    if (ec == std::errc::no_such_file_or_directory)
+      dangling("cannot create " + shown, link, ec.value());
     if (ec) throw OutputError("cannot create " + shown + ": " + ec.message());
     if (::stat(target.c_str(), &st) != 0) fail("cannot create " + shown, errno);
   }
   if (exists && !S_ISDIR(st.st_mode))
     throw OutputError("cannot create " + shown + ": it is not a folder");
+  // Inputs of this command inside the folder would be removed with it.
+  if (exists) require_no_input_inside(target, shown);
   if (exists) {
     const std::string n = foreign_entry(target, files);
     if (!n.empty())
@@ -295,22 +383,12 @@ void write_outputs(const fs::path& dir, const std::vector<OutputFile>& files) {
 
   // The parents it needs, removed again (if still empty) when the run fails.
   const fs::path parent = target.parent_path();
-  std::vector<fs::path> made;
-  for (fs::path p = parent; !p.empty() && !fs::exists(p, ec); p = p.parent_path()) {
-    made.push_back(p);
-    if (p == p.root_path()) break;
-  }
-  fs::create_directories(parent, ec);
-  if (ec) throw OutputError("cannot create " + shown + ": " + ec.message());
+  MadeFolders folders(parent, shown);
 
   const std::string prefix = "." + target.filename().string() + ".lapwing-stage.";
   remove_leftovers(parent, prefix);
   std::string stage = (parent / (prefix + "XXXXXX")).string();
-  if (!::mkdtemp(stage.data())) {
-    const int err = errno;
-    for (const auto& p : made) fs::remove(p, ec);
-    fail("cannot create " + shown, err);
-  }
+  if (!::mkdtemp(stage.data())) fail("cannot create " + shown, errno);
   const Fd folder(::open(stage.c_str(), O_RDONLY | O_DIRECTORY | O_CLOEXEC));
   try {
     if (folder.get() < 0 || ::flock(folder.get(), LOCK_EX) != 0 ||
@@ -362,9 +440,9 @@ void write_outputs(const fs::path& dir, const std::vector<OutputFile>& files) {
     }
   } catch (...) {
     if (!stage.empty()) fs::remove_all(stage, ec);
-    for (const auto& p : made) fs::remove(p, ec);
     throw;
   }
+  folders.keep();
   // The old folder now stands at the staging name. A failure to remove it is left to the next
   // run; the outputs are in place.
   if (!stage.empty()) fs::remove_all(stage, ec);

@@ -31,6 +31,25 @@ constexpr std::array<double, 5> gl_weights{0.2369268850561891, 0.478628670499366
                                            0.5688888888888889, 0.4786286704993665,
                                            0.2369268850561891};
 
+// The cosine and sine of a turn |psi| <= small_turn_rad by their Taylor series (Abramowitz &
+// Stegun 4.3.65-66; from memory): the first term left out, psi^12 / 12! and psi^11 / 11!, is below 3e-19
+// there, under a unit in the last place of either.
+constexpr double small_turn_rad = 0.1;
+struct TurnBy {
+  double cos, sin;
+};
+inline TurnBy small_turn(double psi) {
+  const double p2 = psi * psi;
+  const double c =
+      1.0 - p2 / 2.0 *
+                (1.0 - p2 / 12.0 *
+                           (1.0 - p2 / 30.0 * (1.0 - p2 / 56.0 * (1.0 - p2 / 90.0))));
+  const double s =
+      psi * (1.0 - p2 / 6.0 *
+                       (1.0 - p2 / 20.0 * (1.0 - p2 / 42.0 * (1.0 - p2 / 72.0))));
+  return {c, s};
+}
+
 // Walks the segments, giving position, heading and elevation at increasing distances.
 class Walker {
  public:
@@ -154,17 +173,33 @@ class Walker {
     }
     const int pieces = std::max(1, static_cast<int>(std::ceil((u1 - u_) / max_piece_m)));
     const double piece = (u1 - u_) / pieces;
+    // Over a piece the heading is theta_c + psi(d), d from the piece's middle c, psi(d) =
+    // kappa_c d + q d^2 exactly (q = (k1 - k0) / (2 L)): the nodes' directions are the middle's
+    // turned by psi, whose cosine and sine are short series where |psi| is small (one sincos
+    // a piece, not five).
+    const double q = (g.curvature_end_1pm - g.curvature_start_1pm) / (2.0 * g.length_m);
     for (int p = 0; p < pieces; ++p) {
       const double a = u_ + p * piece;
       const double h = 0.5 * piece, c = a + h;
-      double dx = 0.0, dy = 0.0;
-      for (std::size_t k = 0; k < gl_nodes.size(); ++k) {
-        const double th = heading(c + h * gl_nodes[k]);
-        dx += gl_weights[k] * std::cos(th);
-        dy += gl_weights[k] * std::sin(th);
+      const double kc = curvature(c);
+      double cs = 0.0, sn = 0.0;  // sum of w_k cos psi_k and w_k sin psi_k
+      if (std::abs(kc) * h + std::abs(q) * h * h <= small_turn_rad) {
+        for (std::size_t k = 0; k < gl_nodes.size(); ++k) {
+          const double d = h * gl_nodes[k];
+          const TurnBy t = small_turn((kc + q * d) * d);
+          cs += gl_weights[k] * t.cos;
+          sn += gl_weights[k] * t.sin;
+        }
+      } else {
+        for (std::size_t k = 0; k < gl_nodes.size(); ++k) {
+          const double d = h * gl_nodes[k], psi = (kc + q * d) * d;
+          cs += gl_weights[k] * std::cos(psi);
+          sn += gl_weights[k] * std::sin(psi);
+        }
       }
-      x_ += h * dx;
-      y_ += h * dy;
+      const double th = heading(c), ct = std::cos(th), st = std::sin(th);
+      x_ += h * (ct * cs - st * sn);
+      y_ += h * (st * cs + ct * sn);
     }
     z_ += seg().grade * (u1 - u_);
     u_ = u1;

@@ -13,6 +13,12 @@ std::string percent_or_dash(const std::optional<double>& v) {
   return v ? fixed(100 * *v, 1) : std::string("-");
 }
 
+// "alone / with the drag moment", or "-" without downforce (neither is defined then).
+std::string aero_balance_cell(const std::optional<double>& plain,
+                              const std::optional<double>& eff) {
+  return plain ? fixed(100 * *plain, 1) + " / " + percent_or_dash(eff) : std::string("-");
+}
+
 }  // namespace
 
 std::string id_list(const std::vector<int>& ids) {
@@ -23,8 +29,8 @@ std::string id_list(const std::vector<int>& ids) {
 
 std::vector<std::string> balance_cells(const BalanceSummary& b) {
   return {fixed(100 * b.static_front_share, 1),
-          fixed(100 * b.aero_balance_150, 1) + " / " + percent_or_dash(b.aero_balance_eff_150),
-          fixed(100 * b.aero_balance_250, 1) + " / " + percent_or_dash(b.aero_balance_eff_250),
+          aero_balance_cell(b.aero_balance_150, b.aero_balance_eff_150),
+          aero_balance_cell(b.aero_balance_250, b.aero_balance_eff_250),
           b.has_fast_acceleration ? fixed(100 * b.lowest_front_share_fast, 1) + " at " +
                                         fixed(b.lowest_front_share_at_m, 0) + " m"
                                   : std::string("-"),

@@ -372,12 +372,15 @@ std::string correlation_section(const Circuit& c, const Lap& lap, const Correlat
                     d(e.sim_apex_mps - e.log_apex_mps), d(e.sim_exit_mps - e.log_exit_mps),
                     b ? signed_fixed(*b, 1) : "-"});
   }
-  o += "<h3>Corners</h3>" +
-       table(escaped({"corner", "apex m", "entry error km/h", "apex error km/h", "exit error km/h",
-                      "braking point error m"}),
-             rows) +
-       "<p class=\"note\">Errors are simulated - logged; a braking point error &gt; 0: the "
-       "simulated car brakes later.</p></section>\n";
+  if (rows.empty())
+    o += "<h3>Corners</h3><p class=\"note\">no corners</p></section>\n";
+  else
+    o += "<h3>Corners</h3>" +
+         table(escaped({"corner", "apex m", "entry error km/h", "apex error km/h",
+                        "exit error km/h", "braking point error m"}),
+               rows) +
+         "<p class=\"note\">Errors are simulated - logged; a braking point error &gt; 0: the "
+         "simulated car brakes later.</p></section>\n";
   return o;
 }
 
@@ -990,11 +993,15 @@ std::string html_report(const ReportInput& in) {
         row.push_back(breakable(balance_index_cell(bc[i])));
         crows.push_back(row);
       }
-      o += "<h3 id=\"corners-" + id + "\">Corners</h3>" + table(ch, crows, "", {}, top) +
-           "<p class=\"note\">" +
-           escape("Corners, limit, axles and usage of the best config, " + names[pt.best] + "; " +
-                  axle_legend() + ". A corner's number zooms the traces to it.") +
-           "</p>\n";
+      // A track without corners (a straight) says so rather than showing a header of no rows.
+      if (crows.empty())
+        o += "<h3 id=\"corners-" + id + "\">Corners</h3><p class=\"note\">no corners</p>\n";
+      else
+        o += "<h3 id=\"corners-" + id + "\">Corners</h3>" + table(ch, crows, "", {}, top) +
+             "<p class=\"note\">" +
+             escape("Corners, limit, axles and usage of the best config, " + names[pt.best] + "; " +
+                    axle_legend() + ". A corner's number zooms the traces to it.") +
+             "</p>\n";
       // Balance per config.
       std::vector<std::vector<std::string>> brows;
       for (std::size_t k = 0; k < pt.entries.size(); ++k) {

@@ -22,12 +22,10 @@ void optional_field(JsonWriter& w, std::string_view key, const std::optional<dou
 }
 
 void write_balance(JsonWriter& w, const BalanceSummary& b) {
-  w.key("balance")
-      .begin_object()
-      .field("static_front_share", b.static_front_share)
-      .field("aero_balance_150_kph", b.aero_balance_150);
+  w.key("balance").begin_object().field("static_front_share", b.static_front_share);
+  optional_field(w, "aero_balance_150_kph", b.aero_balance_150);
   optional_field(w, "aero_balance_with_drag_150_kph", b.aero_balance_eff_150);
-  w.field("aero_balance_250_kph", b.aero_balance_250);
+  optional_field(w, "aero_balance_250_kph", b.aero_balance_250);
   optional_field(w, "aero_balance_with_drag_250_kph", b.aero_balance_eff_250);
   w.key("lowest_front_share_accelerating_above_200_kph");
   if (b.has_fast_acceleration)

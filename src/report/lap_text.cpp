@@ -10,10 +10,10 @@ namespace lapwing {
 
 std::string balance_text(const BalanceSummary& b) {
   std::string o = "balance: static front weight " + fixed(100 * b.static_front_share, 1) + " %; ";
-  if (b.aero_balance_eff_150 && b.aero_balance_eff_250)
-    o += "aero balance " + fixed(100 * b.aero_balance_150, 1) + " % (" +
+  if (b.aero_balance_150 && b.aero_balance_eff_150 && b.aero_balance_250 && b.aero_balance_eff_250)
+    o += "aero balance " + fixed(100 * *b.aero_balance_150, 1) + " % (" +
          fixed(100 * *b.aero_balance_eff_150, 1) + " % with the drag moment) at 150 km/h, " +
-         fixed(100 * b.aero_balance_250, 1) + " % (" + fixed(100 * *b.aero_balance_eff_250, 1) +
+         fixed(100 * *b.aero_balance_250, 1) + " % (" + fixed(100 * *b.aero_balance_eff_250, 1) +
          " %) at 250 km/h\n";
   else
     o += "no downforce at 150 and 250 km/h: no aero balance (the drag moment only unloads the "

@@ -70,7 +70,8 @@ std::string trade_json(const Car& car, const Trade& t, const std::vector<Circuit
 std::string attribution_caption() {
   return "where a config change's lap time comes from (first order at the configs' operating "
          "points, with the residual; shares of totals of " +
-         fixed(attribution_share_min_total_s, 2) + " s and more)";
+         fixed(attribution_share_min_total_s, 2) +
+         " s and more; the changes to or from a traded config, every pair in trade.json)";
 }
 
 TextTable attribution_table(const Car& car, const Trade& t, const std::vector<Circuit>& circuits) {

@@ -266,7 +266,9 @@ WindowResult window_result(const BalanceWindowResult& r) {
 }
 
 LapSummary summarize(const Lap& lap, const Mesh& mesh, const Track& track,
-                     const std::vector<CornerSpan>& spans, const Envelope& env) {
+                     const std::vector<CornerSpan>& spans, const Envelope& env,
+                     SummaryDetail detail) {
+  const bool full_detail = detail == SummaryDetail::full;
   LapSummary s;
   s.track_name = track.name;
   s.track_id = track.id;
@@ -306,19 +308,24 @@ LapSummary summarize(const Lap& lap, const Mesh& mesh, const Track& track,
     trimmed += half * (lap.trimmed[i] + lap.trimmed[i + 1]);
   }
   s.trimmed_fraction = trimmed / lap.lap_time_s;
-  s.warnings = lap_range_warnings(env, lap, mesh);
-  if (std::optional<std::string> w = over_usage_warning(env, lap, mesh)) s.warnings.push_back(*w);
   s.full_throttle_fraction = full / lap.lap_time_s;
   s.braking_fraction = brake / lap.lap_time_s;
+  if (full_detail) {
+    s.warnings = lap_range_warnings(env, lap, mesh);
+    if (std::optional<std::string> w = over_usage_warning(env, lap, mesh))
+      s.warnings.push_back(*w);
+  }
 
-  const std::vector<double> sectors = lapped_sectors_m(track);
+  const std::vector<double> sectors =
+      full_detail ? lapped_sectors_m(track) : std::vector<double>{};
   for (std::size_t k = 0; k < sectors.size(); ++k) {
     const double a = sectors[k];
     const double b = k + 1 < sectors.size() ? sectors[k + 1] : mesh.length_m;
     s.sectors_s.push_back(time_at(lap, mesh, b) - time_at(lap, mesh, a));
   }
 
-  for (const auto& c : spans) {
+  const std::vector<CornerSpan> no_corners;
+  for (const auto& c : full_detail ? spans : no_corners) {
     CornerResult r;
     r.id = c.id;
     r.direction = c.direction;
@@ -362,9 +369,10 @@ LapSummary summarize(const Lap& lap, const Mesh& mesh, const Track& track,
   BalanceSummary& b = s.balance;
   const Car& car = env.car();
   b.static_front_share = car.front_weight;
-  auto balance_at = [&](double kph_value, double& plain, std::optional<double>& eff) {
+  auto balance_at = [&](double kph_value, std::optional<double>& plain,
+                        std::optional<double>& eff) {
     const AeroPoint p = env.aero_point(kph_value * units::kph);
-    plain = p.balance;
+    if (p.cla_m2 > 0.0) plain = p.balance;  // the share of no downforce is no number
     eff = aero_balance_with_drag_moment(p.cla_m2, p.cda_m2, p.balance, car.drag_height_m,
                                         car.wheelbase_m);
   };

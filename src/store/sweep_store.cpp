@@ -1,24 +1,32 @@
 #include "lapwing/store/sweep_store.hpp"
 
+#include <fcntl.h>
 #include <sqlite3.h>
+#include <unistd.h>
 
 #include <algorithm>
+#include <cerrno>
+#include <cstring>
 #include <filesystem>
+#include <optional>
 #include <set>
 
 #include "lapwing/base/error.hpp"
 #include "lapwing/base/format.hpp"
 #include "lapwing/io/csv_writer.hpp"
+#include "lapwing/io/input_file.hpp"
 #include "lapwing/io/output.hpp"
 
 namespace lapwing {
 
 namespace {
 
-// A connection, closed on scope exit; every failure an OutputError naming the file.
+// A connection, closed on scope exit; every failure an OutputError naming the file (`shown`: the
+// name the user gave, where the file opened is a temporary beside it).
 class Connection {
  public:
-  Connection(const std::string& file, bool create) : file_(file) {
+  Connection(const std::string& file, bool create, const std::string& shown = {})
+      : file_(shown.empty() ? file : shown) {
     const int flags = SQLITE_OPEN_READWRITE | (create ? SQLITE_OPEN_CREATE : 0);
     if (sqlite3_open_v2(file.c_str(), &db_, flags, nullptr) != SQLITE_OK) fail("cannot open");
     // Wait for a lock held by another process (a merge reading while a shard commits) rather
@@ -29,7 +37,10 @@ class Connection {
   Connection(const Connection&) = delete;
   Connection& operator=(const Connection&) = delete;
 
+  // A failure the file system gave is "cannot write FILE: " and the system's reason; any other,
+  // "FILE: WHAT (" and SQLite's words ")" ("file is not a database").
   [[noreturn]] void fail(const std::string& what) const {
+    if (const auto why = system_reason()) throw OutputError("cannot write " + file_ + ": " + *why);
     throw OutputError(file_ + ": " + what + " (" + (db_ ? sqlite3_errmsg(db_) : "no memory") + ")");
   }
   void exec(const std::string& sql) {
@@ -37,8 +48,26 @@ class Connection {
     if (sqlite3_exec(db_, sql.c_str(), nullptr, nullptr, &err) != SQLITE_OK) {
       const std::string msg = err ? err : "?";
       sqlite3_free(err);
+      if (const auto why = system_reason())
+        throw OutputError("cannot write " + file_ + ": " + *why);
       throw OutputError(file_ + ": " + msg);
     }
+  }
+  // The system's reason for the last failure (strerror: "No space left on device", "Permission
+  // denied") when the file system refused (SQLite's result codes for that), else nothing: the
+  // errno of the database file's own failed call (SQLITE_FCNTL_LAST_ERRNO) where it has one, else
+  // the one SQLite kept for the connection; SQLite's words when neither says.
+  std::optional<std::string> system_reason() const {
+    if (!db_) return std::nullopt;
+    const int code = sqlite3_errcode(db_) & 0xff;  // the primary result code
+    if (code != SQLITE_CANTOPEN && code != SQLITE_IOERR && code != SQLITE_FULL &&
+        code != SQLITE_READONLY && code != SQLITE_PERM)
+      return std::nullopt;
+    int sys = 0;
+    if (sqlite3_file_control(db_, "main", SQLITE_FCNTL_LAST_ERRNO, &sys) != SQLITE_OK) sys = 0;
+    if (sys == 0) sys = sqlite3_system_errno(db_);
+    if (sys == 0 && code == SQLITE_FULL) sys = ENOSPC;  // a short write on a full disk sets none
+    return sys != 0 ? std::string(std::strerror(sys)) : std::string(sqlite3_errmsg(db_));
   }
   sqlite3* get() const { return db_; }
   const std::string& file() const { return file_; }
@@ -180,19 +209,94 @@ struct SweepStore::Db {
 
 namespace {
 
+// A store under construction beside its name (`.NAME.lapwing-new`, and SQLite's journal beside
+// that): removed again when destroyed before it is renamed into place, so that a write that fails
+// (a full disk, an I/O error) leaves nothing behind; only a kill leaves one, which the next run
+// that makes the store removes. The folders made for it go too.
+class NewStore {
+ public:
+  explicit NewStore(const std::string& file)
+      : target_(file),
+        tmp_(target_.parent_path() / ("." + target_.filename().string() + ".lapwing-new")),
+        folders_(target_.parent_path(), file) {
+    clear();
+  }
+  ~NewStore() {
+    if (!placed_) clear();
+  }
+  NewStore(const NewStore&) = delete;
+  NewStore& operator=(const NewStore&) = delete;
+  std::string tmp() const { return tmp_.string(); }
+  // Renamed over its name: "cannot write FILE: " and the system's reason when it cannot be.
+  void place() {
+    std::error_code ec;
+    std::filesystem::rename(tmp_, target_, ec);
+    if (ec) throw OutputError("cannot write " + target_.string() + ": " + ec.message());
+    placed_ = true;
+    folders_.keep();
+  }
+
+ private:
+  void clear() const {
+    std::error_code ec;
+    std::filesystem::remove(tmp_, ec);
+    std::filesystem::remove(tmp_.string() + "-journal", ec);
+  }
+  std::filesystem::path target_, tmp_;
+  MadeFolders folders_;
+  bool placed_ = false;
+};
+
+// `from` copied byte for byte to the new file `to` and synced; "cannot write SHOWN: " and the
+// system's reason (errno) when it cannot be. (std::filesystem::copy_file's error says neither
+// which side failed nor, under a file size limit, the reason: libstdc++ gave EIO for EFBIG.)
+void copy_store(const std::string& from, const std::string& to, const std::string& shown) {
+  const auto closed = [](int fd) {
+    if (fd >= 0) ::close(fd);
+  };
+  const int in = ::open(from.c_str(), O_RDONLY | O_CLOEXEC);
+  if (in < 0) throw OutputError("cannot read " + from + ": " + std::strerror(errno));
+  const int out = ::open(to.c_str(), O_WRONLY | O_CREAT | O_EXCL | O_CLOEXEC, 0666);
+  if (out < 0) {
+    const int err = errno;
+    closed(in);
+    throw OutputError("cannot write " + shown + ": " + std::strerror(err));
+  }
+  std::vector<char> buf(std::size_t{1} << 20);
+  std::string failure;
+  for (;;) {
+    const ssize_t n = ::read(in, buf.data(), buf.size());
+    if (n < 0 && errno == EINTR) continue;
+    if (n < 0) {
+      failure = "cannot read " + from + ": " + std::strerror(errno);
+      break;
+    }
+    if (n == 0) {
+      if (::fsync(out) != 0) failure = "cannot write " + shown + ": " + std::strerror(errno);
+      break;
+    }
+    for (ssize_t done = 0; done < n && failure.empty();) {
+      const ssize_t w = ::write(out, buf.data() + done, static_cast<std::size_t>(n - done));
+      if (w < 0 && errno == EINTR) continue;
+      if (w < 0) failure = "cannot write " + shown + ": " + std::strerror(errno);
+      done += w > 0 ? w : 0;
+    }
+    if (!failure.empty()) break;
+  }
+  closed(in);
+  if (::close(out) != 0 && failure.empty())
+    failure = "cannot write " + shown + ": " + std::strerror(errno);
+  if (!failure.empty()) throw OutputError(failure);
+}
+
 // A new results store is built whole under a temporary name beside `file` (its schema and study
 // committed), then renamed into place: a sweep killed while it creates the store leaves either no
 // store or one that resumes, never a file without the study (which the next run would refuse). A
 // temporary left by such a kill is removed by the next run that creates the store.
 void create_store(const std::string& file, const StudyRecord& study, const SweepPlan& plan) {
-  namespace fs = std::filesystem;
-  const fs::path target(file);
-  const fs::path tmp = target.parent_path() / ("." + target.filename().string() + ".lapwing-new");
-  std::error_code ec;
-  fs::remove(tmp, ec);
-  fs::remove(tmp.string() + "-journal", ec);
+  NewStore fresh(file);
   {
-    Connection c(tmp.string(), true);
+    Connection c(fresh.tmp(), true, file);
     // The default rollback journal, fully synced: a commit survives a kill (SQLite, "Atomic
     // Commit In SQLite").
     c.exec("PRAGMA synchronous = FULL");
@@ -206,17 +310,14 @@ void create_store(const std::string& file, const StudyRecord& study, const Sweep
     create_schema(c, study, plan);
     c.exec("COMMIT");
   }
-  fs::rename(tmp, target, ec);
-  if (ec) {
-    fs::remove(tmp, ec);
-    throw OutputError(file + ": cannot create the results store (" + ec.message() + ")");
-  }
+  fresh.place();
 }
 
 }  // namespace
 
 SweepStore::SweepStore(const std::string& file, const StudyRecord& study, const SweepPlan& plan)
     : plan_(&plan), study_(study), done_(plan.points(), false) {
+  require_not_input(file);
   if (!std::filesystem::exists(file)) create_store(file, study, plan);
   db_ = std::make_unique<Db>(file, false);
   Connection& c = db_->c;
@@ -357,11 +458,13 @@ StoreCounts store_counts(const std::string& file) {
 }
 
 void merge_stores(const std::string& out, const std::vector<std::string>& inputs) {
+  if (out.empty()) throw OutputError("sweep merge: the name of the store to write is empty");
   if (inputs.empty()) throw OutputError("sweep merge: give the results stores to merge");
   std::string id;
   std::set<std::string> shards;
   for (const auto& in : inputs) {
     if (!std::filesystem::exists(in)) throw OutputError(in + ": no such results store");
+    note_input(in);
     Connection c(in, false);
     const std::string this_id = study_id_of(c);
     if (id.empty()) id = this_id;
@@ -371,6 +474,7 @@ void merge_stores(const std::string& out, const std::vector<std::string>& inputs
     Statement s(c, "SELECT shard FROM study");
     if (s.step()) shards.insert(s.text(0));
   }
+  require_not_input(out);
   const bool exists = std::filesystem::exists(out);
   if (exists) {
     Connection c(out, false);
@@ -378,12 +482,16 @@ void merge_stores(const std::string& out, const std::vector<std::string>& inputs
       throw OutputError(out + " holds another study than " + inputs.front() +
                         "; refusing to merge");
   }
-  // A new file is built under a temporary name and renamed when whole.
-  const std::string target = exists ? out : out + ".tmp-merge";
-  if (!exists) std::filesystem::remove(target);
-  try {
-    if (!exists) std::filesystem::copy_file(inputs.front(), target);
-    Connection c(target, false);
+  // A new file is built under a temporary name beside it (the first input copied there) and
+  // renamed when whole; the temporary is removed when anything fails.
+  std::optional<NewStore> fresh;
+  if (!exists) {
+    fresh.emplace(out);
+    copy_store(inputs.front(), fresh->tmp(), out);
+  }
+  const std::string target = exists ? out : fresh->tmp();
+  {
+    Connection c(target, false, out);
     c.exec("PRAGMA synchronous = FULL");
     // One transaction per input (a database is attached outside a transaction); rows go in
     // with INSERT OR IGNORE, so a merge interrupted and run again adds each row once.
@@ -417,15 +525,13 @@ void merge_stores(const std::string& out, const std::vector<std::string>& inputs
     upd.bind(1, list);
     upd.step();
     c.exec("COMMIT");
-  } catch (...) {
-    if (!exists) std::filesystem::remove(target);
-    throw;
   }
-  if (!exists) std::filesystem::rename(target, out);
+  if (fresh) fresh->place();
 }
 
 void export_csv(const std::string& file, const std::string& csv_file) {
   if (!std::filesystem::exists(file)) throw OutputError(file + ": no such results store");
+  note_input(file);
   Connection c(file, false);
   study_id_of(c);
   Statement s(c,

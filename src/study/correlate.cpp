@@ -225,7 +225,7 @@ Alignment refine_alignment(const LoggedSpeed& log, const Mesh& mesh,
         log.source,
         broken_rule("",
                     "aligned to the track, the log covers " + fixed(100.0 * coverage, 1) +
-                        " % of its " + fixed(L, 1) + " m; correlate needs " +
+                        " % of its " + fixed(L, 1) + " m; a log must cover " +
                         fixed(100.0 * correlate_min_coverage, 0) +
                         " % (a whole lap, or the whole run of an open track)",
                     row("distance_m", log.distance_m.size() - 1)));

@@ -286,6 +286,22 @@ FitResult fit(const ConfiguredCar& car, const std::vector<FitLog>& logs,
       if (params[i] == params[j])
         throw InvalidInput("fit", broken_rule("free", std::string(fit_parameter_name(params[i])) +
                                                           " is freed twice"));
+  // grip scales mu_lat and mu_long together: with grip_lat and grip_long freed too, any change of
+  // grip is undone by the other two (mu_lat = grip grip_lat, mu_long = grip grip_long), so the
+  // three are two factors and no log can tell them apart. Their Jacobian columns differ by the
+  // central differences' noise alone (a smallest singular value of 2 % of the largest in a test
+  // of a bundled log, against 11 % for four factors the log separates): no rank test on it tells
+  // the two cases apart, so the combination is refused by what it is.
+  const auto freed = [&](FitParameter p) {
+    return std::find(params.begin(), params.end(), p) != params.end();
+  };
+  if (freed(FitParameter::grip) && freed(FitParameter::grip_lat) && freed(FitParameter::grip_long))
+    throw InvalidInput(
+        "fit", broken_rule("free",
+                           "grip, grip_lat and grip_long are two factors, not three: grip scales "
+                           "mu_lat and mu_long together, so the other two undo any change of it "
+                           "and no log tells them apart (free grip_lat and grip_long, or grip "
+                           "and one of them)"));
   FitResult out;
   out.params = params;
   const std::size_t np = params.size();
@@ -404,9 +420,10 @@ FitResult fit(const ConfiguredCar& car, const std::vector<FitLog>& logs,
   out.correlation.assign(np, std::vector<double>(np, nan));
   ceres::Covariance::Options co;
   co.algorithm_type = ceres::DENSE_SVD;
-  // A rank-deficient Jacobian (a freed factor with no effect on the lap, or three that are two:
-  // grip_lat, grip_long and grip) has no covariance: Compute() says so and none is reported (the
-  // pseudo-inverse, null_space_rank -1, gave such a factor a standard error of 0: certain).
+  // A rank-deficient Jacobian (a freed factor with no effect on the lap; grip_lat, grip_long and
+  // grip, three that are two, are refused above) has no covariance: Compute() says so and none is
+  // reported (the pseudo-inverse, null_space_rank -1, gave such a factor a standard error of 0:
+  // certain).
   co.null_space_rank = 0;
   co.num_threads = 1;
   ceres::Covariance cov(co);

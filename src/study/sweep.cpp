@@ -313,8 +313,8 @@ SweepOutcome run_sweep(const SweepPlan& plan, const std::vector<Circuit>& circui
             solve_speed_only(env, circuits[t], solver);
             const Lap& lap = solver.add_channels(env, circuits[t].mesh, ChannelSet::loads,
                                                  summary_loads_above_mps(car));
-            const LapSummary s =
-                summarize(lap, circuits[t].mesh, circuits[t].track, circuits[t].corners, env);
+            const LapSummary s = summarize(lap, circuits[t].mesh, circuits[t].track,
+                                           circuits[t].corners, env, SummaryDetail::row_figures);
             r.lap_time_s = s.lap_time_s;
             r.top_speed_kph = units::to_kph(s.top_speed_mps);
             r.min_speed_kph = units::to_kph(s.min_speed_mps);

@@ -90,11 +90,12 @@ namespace {
 
 // The grid's axis for one coefficient on one track: every config's operating point and +-span
 // around the traded config's, widened by grid_margin of that range on each side. A zero area
-// (a car without downforce) is moved in m2 as `varied` moves it: +-span m2 around zero. Drag
-// areas stay above half the smallest config's (a car with no drag has no top speed).
+// (a car without downforce) is moved in m2 as `varied` moves it: up to span m2 above zero. No
+// axis goes below zero (a negative ClA or CdA is no car), and drag areas stay above half the
+// smallest config's (a car with no drag has no top speed).
 std::vector<double> grid_axis(double base, bool zero, const std::vector<double>& configs,
                               const TradeOptions& o, bool is_drag) {
-  double lo = zero ? -o.grid_span : base * (1.0 - o.grid_span);
+  double lo = zero ? 0.0 : base * (1.0 - o.grid_span);
   double hi = zero ? o.grid_span : base * (1.0 + o.grid_span);
   for (double v : configs) {
     lo = std::min(lo, v);
@@ -103,10 +104,8 @@ std::vector<double> grid_axis(double base, bool zero, const std::vector<double>&
   const double pad = grid_margin * (hi - lo);
   lo -= pad;
   hi += pad;
-  if (!zero) {
-    const double floor = is_drag ? 0.5 * *std::min_element(configs.begin(), configs.end()) : 0.0;
-    lo = std::max(lo, floor);
-  }
+  const double smallest = *std::min_element(configs.begin(), configs.end());
+  lo = std::max(lo, is_drag ? std::max(0.0, 0.5 * smallest) : 0.0);
   std::vector<double> axis;
   const int g = o.grid_points;
   for (int i = 0; i < g; ++i) axis.push_back(lo + (hi - lo) * i / (g - 1));

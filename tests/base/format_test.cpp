@@ -3,7 +3,11 @@
 #include <doctest/doctest.h>
 
 #include <cmath>
+#include <cstdio>
 #include <cstdlib>
+#include <cstring>
+#include <random>
+#include <string>
 #include <limits>
 #include <stdexcept>
 
@@ -38,4 +42,36 @@ TEST_CASE("fixed decimals are printf's %.Nf, and a value that rounds to zero has
   CHECK(big.rfind("1000000000", 0) == 0);
   CHECK(big.substr(big.size() - 4) == ".000");
   CHECK(fixed(-1.7976931348623157e308, 0).size() == 310);  // DBL_MAX: 309 digits and a sign
+}
+
+TEST_CASE("fixed decimals agree with the C library's printf for any double") {
+  // The C library's %.*f (C11 7.21.6.1) as the reference: random bit patterns (every magnitude,
+  // both signs), values near the table's ties (k + 0.5 units of the last decimal, exactly
+  // representable halves among them: 0.125 to 2 decimals), NaN and the infinities.
+  const auto printf_fixed = [](double v, int d) {
+    const int n = std::snprintf(nullptr, 0, "%.*f", d, v);
+    std::string s(static_cast<std::size_t>(n), '\0');
+    std::snprintf(s.data(), s.size() + 1, "%.*f", d, v);
+    if (s.rfind("-0", 0) == 0 && s.find_first_not_of("-0.") == std::string::npos) s.erase(0, 1);
+    return s;
+  };
+  std::mt19937_64 random(20261203);
+  int differ = 0, checked = 0;
+  for (int k = 0; k < 100000; ++k) {
+    const std::uint64_t bits = random();
+    double v = 0.0;
+    static_assert(sizeof v == sizeof bits);
+    std::memcpy(&v, &bits, sizeof v);
+    const int d = static_cast<int>(random() % 10);
+    const double tie = (static_cast<double>(random() % 200000) + 0.5) / std::pow(10.0, d);
+    for (double x : {v, tie, -tie, std::ldexp(static_cast<double>(random() % 4096), -10)}) {
+      ++checked;
+      differ += fixed(x, d) != printf_fixed(x, d);
+    }
+  }
+  CHECK(checked == 400000);
+  CHECK(differ == 0);
+  for (double x : {std::nan(""), -std::nan(""), std::numeric_limits<double>::infinity(),
+                   -std::numeric_limits<double>::infinity()})
+    CHECK(fixed(x, 2) == printf_fixed(x, 2));
 }

@@ -179,6 +179,16 @@ awk -v a="$(lap "$tmp/log/summary.json")" -v b="$(lap "$tmp/logrun/summary.json"
 "$bin" check --car cars/caldra-gt.yaml --track tracks/brannock-park-survey.yaml | grep -q "lap time with the centerline smoothed" &&
   ok || bad "check on a centerline track lacks the smoothing sensitivity"
 "$bin" track from-log --help | grep -q "Example:" && ok || bad "track from-log --help lacks an example"
+# The example runs as written on the bundled log (its --out moved into the test's folder): it
+# once named a lap.csv with a lat_g column that is not bundled, and --closed on a log that is no
+# closed lap.
+read -ra example <<< "$("$bin" track from-log --help | sed -n '/^Example:/{n;p;}')"
+for ((i = 0; i < ${#example[@]}; i++)); do
+  [ "${example[i]}" = --out ] && example[i + 1]="$tmp/example/$(basename "${example[i + 1]}")"
+done
+[ "${example[0]}" = lapwing ] && [ -f "${example[4]}" ] &&
+  "$bin" "${example[@]:1}" > "$tmp/example.txt" 2>&1 && [ -s "$tmp/example/brannock-logged.yaml" ] &&
+  ok || bad "track from-log --help's example: ${example[*]}: $(cat "$tmp/example.txt")"
 # A log read in the wrong acceleration unit (g read as m/s2: curvature 9.81 times too small) is
 # refused with the option that fixes it, and nothing is written.
 "$bin" track from-log --log "$tmp/lap.csv" --speed v_kph --lat-accel ay_g --accel-unit m/s2 --time t_s \
@@ -277,6 +287,10 @@ awk '/"speed_kph": 200/ { on = 1 } on && /"front_aero_load_n"/ { gsub(/[",]/, ""
   grep -q "no downforce at 150 and 250 km/h: no aero balance" && ok || bad "run's balance with no downforce"
 grep -q '"aero_balance_with_drag_150_kph": null' "$tmp/dragrun/summary.json" && ok ||
   bad "summary.json balance with the drag moment and no downforce is not null"
+# The share alone is null too (README, "Output files"; it read the config's 0.45 once).
+grep -q '"aero_balance_150_kph": null' "$tmp/dragrun/summary.json" &&
+  grep -q '"aero_balance_250_kph": null' "$tmp/dragrun/summary.json" && ok ||
+  bad "summary.json aero balance without downforce is not null"
 
 # 12. Messages in lapwing's own words (issue 10, item 12).
 expect_error() {  # expected text, then the command; exit 2, one line on stderr
@@ -476,7 +490,7 @@ line_vs_file 0.005 cars/pellion-fr2.yaml "$tmp/line-bank.yaml"
 [ -s "$tmp/line/bp-line.yaml" ] && [ -s "$tmp/line/bp-line.csv" ] && [ -s "$tmp/line/again.csv" ] &&
   ok || bad "track line removed other files of its folder: $(ls -A "$tmp/line")"
 cp "$tmp/line/bp-line.csv" "$tmp/line/keep.csv"
-expect_error "would replace $tmp/line/bp-line.yaml, which the track reads" \
+expect_error "would replace $tmp/line/bp-line.yaml, which this command reads" \
   track line --track "$tmp/line/bp-line.yaml" --out "$tmp/line/bp-line.yaml"
 cmp -s "$tmp/line/bp-line.csv" "$tmp/line/keep.csv" && ok || bad "track line replaced its own input"
 # min-time: both laps, the min-time one no slower.

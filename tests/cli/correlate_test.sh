@@ -77,6 +77,14 @@ expect "$tmp/mph.csv" "--time time_s" km/h "speed-unit"
 # Half a lap: too short for the track.
 head -n 700 "$log" > "$tmp/half.csv"
 expect "$tmp/half.csv" "--time time_s" km/h "covers"
+# fit aligns its logs the same way: its error names no other command (it said "correlate
+# needs 98 %").
+rm -rf "$tmp/bad"
+"$bin" fit "${common[@]}" --log "$tmp/half.csv" --time time_s --free grip --out "$tmp/bad" \
+  > /dev/null 2> "$tmp/err.txt"
+rc=$?
+[ $rc -eq 2 ] && grep -qE "^$tmp/half.csv:[0-9]+:[0-9]+: error: .*covers .* a log must cover 98 %" "$tmp/err.txt" &&
+  ! grep -q correlate "$tmp/err.txt" && [ ! -e "$tmp/bad" ] && ok || bad "fit, half a lap: exit $rc, $(cat "$tmp/err.txt")"
 
 # A log of constant speed aligns at r = 0: warned of in the text, correlate.json and the report.
 { echo "distance_m,speed_kph"; for i in $(seq 0 1400); do echo "$((i * 2)),150"; done; } > "$tmp/flat.csv"

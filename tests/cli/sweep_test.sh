@@ -77,12 +77,12 @@ before=$(sha256sum < "$tmp/s1.sqlite")
 [ $? = 2 ] && grep -q "is given twice" "$tmp/err.txt" && [ ! -e "$tmp/twice.sqlite" ] && ok ||
   bad "merge of a store twice: $(cat "$tmp/err.txt")"
 "$bin" sweep merge "$tmp/s1.sqlite" "$tmp/s1.sqlite" 2> "$tmp/err.txt"
-[ $? = 2 ] && grep -q "is also given to merge" "$tmp/err.txt" && ok ||
+[ $? = 2 ] && grep -q "cannot write $tmp/s1.sqlite: it would replace $tmp/s1.sqlite, which this command reads" "$tmp/err.txt" && ok ||
   bad "merge of a store into itself: $(cat "$tmp/err.txt")"
 ln -s "$tmp/s1.sqlite" "$tmp/link.csv"
 for target in "$tmp/s1.sqlite" "$tmp/link.csv"; do
   "$bin" sweep export "$tmp/s1.sqlite" --csv "$target" 2> "$tmp/err.txt"
-  [ $? = 2 ] && grep -q "would replace the results store" "$tmp/err.txt" && ok ||
+  [ $? = 2 ] && grep -qF "cannot write $target: it would replace $tmp/s1.sqlite, which this command reads" "$tmp/err.txt" && ok ||
     bad "export over its own store ($target): $(cat "$tmp/err.txt")"
 done
 [ "$(sha256sum < "$tmp/s1.sqlite")" = "$before" ] && ok || bad "the store changed"
@@ -175,6 +175,14 @@ expect_refused "one unit" --set mass=600kg:0.7t:3
 expect_refused "no config named 'hihg'" --set mass=600,610 --config hihg
 expect_refused "lhs:N" --set mass=600:610 --design lhs
 expect_refused "1 <= K <= N" --set mass=600,610 --shard 4/3
+# Option errors are usage errors, prefixed as every command's (README, "lapwing: error: ... for a
+# bad option"); these once printed "--shard 0/2: error: ...", the form of a file's error.
+expect_refused "lapwing: error: --shard 0/2: expected K/N" --set mass=600,610 --shard 0/2
+expect_refused "lapwing: error: --design lhs:0: lhs needs its number of points" --set mass=600:610:3 --design lhs:0
+expect_refused "lapwing: error: --set mass=: no values after '='" --set mass=
+expect_refused "lapwing: error: --set mass=600:610:0: range count '0' must be a whole number >= 1 (mass)" --set mass=600:610:0
+expect_refused "lapwing: error: --set mass=610: key 'mass' is set twice (mass)" --set mass=600 --set mass=610
+expect_refused "lapwing: error: --set mass=600,610: sobol:4 samples ranges" --set mass=600,610 --design sobol:4
 # Not-a-number and infinity are no value of any key (as in a car file), in a list or a range.
 expect_refused "--set mass=nan,600: at nan: 'nan' is not a finite number (mass)" --set mass=nan,600
 expect_refused "'inf' is not a finite number (tyres.mu_lat)" --set tyres.mu_lat=inf
@@ -225,6 +233,16 @@ export_csv "$tmp/cm.sqlite" "$tmp/cm.csv"
 grep -q '^0,acceleration,low,1,[0-9.]*,.*,ok,$' "$tmp/cm.csv" &&
   grep -q '^1,acceleration,low,0.002,,,,,,,,cannot-move,the car cannot hold any speed' "$tmp/cm.csv" &&
   grep -q "^note    1 laps cannot complete" "$tmp/cm.txt" && ok || bad "cannot-move rows: $(cat "$tmp/cm.csv")"
+# A track where no point completes has no best point: a line says so (it was left out silently),
+# and the track where one does keeps its row.
+# An invented 50 % wall the car cannot climb at 5 or 10 % of its drive; the skidpad it laps.
+printf 'format: 1\nname: "wall"\nclosed: false\nsegments:\n  - straight: 20 m\n  - straight: {length: 100 m, grade: 50 %%}\n' > "$tmp/wall.yaml"
+"$bin" sweep --car "$car" --track "$tmp/wall.yaml" --track tracks/skidpad.yaml \
+  --set powertrain.efficiency=0.05,0.1 --out "$tmp/none.sqlite" > "$tmp/none.txt" 2>&1 ||
+  bad "sweep with no completed lap: $(cat "$tmp/none.txt")"
+grep -q "^wall: no stored lap completes the track" "$tmp/none.txt" &&
+  ! grep -q "^wall " "$tmp/none.txt" && grep -q "^skidpad " "$tmp/none.txt" && ok ||
+  bad "no best point, not said: $(cat "$tmp/none.txt")"
 cp README.md "$tmp/not-a-store.sqlite"
 "$bin" sweep "${study[@]}" --out "$tmp/not-a-store.sqlite" > /dev/null 2> "$tmp/err.txt"
 [ $? = 2 ] && grep -q "not a database" "$tmp/err.txt" && cmp -s README.md "$tmp/not-a-store.sqlite" && ok ||

@@ -4,15 +4,18 @@
 #include <doctest/doctest.h>
 #include <fcntl.h>
 #include <sys/file.h>
+#include <sys/resource.h>
 #include <sys/stat.h>
 #include <unistd.h>
 
+#include <csignal>
 #include <filesystem>
 #include <fstream>
 #include <set>
 #include <sstream>
 
 #include "lapwing/base/error.hpp"
+#include "lapwing/io/input_file.hpp"
 #include "lapwing/io/output.hpp"
 #include "test_support.hpp"
 
@@ -221,4 +224,79 @@ TEST_CASE("files written beside others: each replaced atomically, the rest of th
   write_files_atomic(base, {{"lap.csv", "data"}, {"lap.yaml", "track"}});
   CHECK(names_in(base) == std::set<std::string>{"lap.csv", "lap.yaml", "other.yaml"});
   CHECK(read(base / "lap.yaml") == "track");
+}
+
+// The inputs a command reads are never replaced or removed by its outputs (io/input_file.hpp,
+// InputLedger): the review's cases of a log, a car and a store overwritten, and of a car deleted
+// with the --out folder it was read from.
+TEST_CASE("an output that is an input read under a ledger is refused; the input is kept") {
+  const fs::path base = fresh("inputs");
+  put(base / "lap.csv", "the log");
+  fs::create_symlink("lap.csv", base / "link.csv");
+  {
+    const InputLedger ledger;
+    (void)open_input((base / "lap.csv").string());  // recorded as read
+    const std::string e = output_error([&] { write_file_atomic(base / "link.csv", "x"); });
+    CHECK(e == "cannot write " + (base / "link.csv").string() + ": it would replace " +
+                   (base / "lap.csv").string() +
+                   ", which this command reads (write it to another name)");
+    CHECK(output_error([&] {
+            write_files_atomic(base, {{"other.yaml", "y"}, {"lap.csv", "x"}});
+          }).find("which this command reads") != std::string::npos);
+    CHECK(read(base / "lap.csv") == "the log");
+    // write_files_atomic checked every file before writing any: other.yaml was not written.
+    CHECK(names_in(base) == std::set<std::string>{"lap.csv", "link.csv"});
+  }
+  // Outside a ledger (a program using the library) nothing is recorded or refused.
+  write_file_atomic(base / "lap.csv", "replaced");
+  CHECK(read(base / "lap.csv") == "replaced");
+}
+
+TEST_CASE("an output folder holding an input read under a ledger is not replaced") {
+  const fs::path base = fresh("inside");
+  const fs::path out = base / "fitted";
+  write_outputs(out, {{"fit.json", "{}"}, {"car.yaml", "the car"}});
+  fs::create_directory_symlink("fitted", base / "link");
+  for (const fs::path& read_as : {out / "car.yaml", base / "link" / "car.yaml"}) {
+    const InputLedger ledger;
+    note_input(read_as.string());
+    const std::string e = output_error([&] { write_outputs(out, {{"summary.json", "new"}}); });
+    CHECK(e == "will not replace " + out.string() + ": it holds " + read_as.string() +
+                   ", which this command reads (write to another folder)");
+    CHECK(read(out / "car.yaml") == "the car");
+  }
+  // An input beside the folder (not in it) stops nothing.
+  put(base / "car.yaml", "another car");
+  const InputLedger ledger;
+  note_input((base / "car.yaml").string());
+  write_outputs(out, {{"summary.json", "new"}});
+  CHECK(names_in(out) == std::set<std::string>{"summary.json", output_folder_marker});
+}
+
+TEST_CASE("a write that fails removes its temporary and the folders it made") {
+  const fs::path base = fresh("parents");
+  write_file_atomic(base / "a" / "b" / "c.json", "x");
+  CHECK(read(base / "a" / "b" / "c.json") == "x");
+  // A file size limit of 1 KiB makes write(2) fail with EFBIG past it, as a full disk fails
+  // with ENOSPC, after the folders and the temporary are made (SIGXFSZ ignored, as a full disk
+  // sends none); the limit is restored before any check.
+  struct rlimit old;
+  REQUIRE(::getrlimit(RLIMIT_FSIZE, &old) == 0);
+  const auto previous = std::signal(SIGXFSZ, SIG_IGN);
+  struct rlimit small = old;
+  small.rlim_cur = 1024;
+  REQUIRE(::setrlimit(RLIMIT_FSIZE, &small) == 0);
+  const std::string big(4096, 'x');
+  const std::string e1 = output_error([&] { write_file_atomic(base / "a" / "b" / "c.json", big); });
+  const std::string e2 = output_error([&] { write_file_atomic(base / "d" / "e" / "c.json", big); });
+  const std::string e3 = output_error([&] { write_outputs(base / "f" / "out", {{"t.csv", big}}); });
+  ::setrlimit(RLIMIT_FSIZE, &old);
+  std::signal(SIGXFSZ, previous);
+  // strerror(EFBIG) on glibc: "File too large".
+  CHECK(e1 == "cannot write " + (base / "a" / "b" / "c.json").string() + ": File too large");
+  CHECK(e2 == "cannot write " + (base / "d" / "e" / "c.json").string() + ": File too large");
+  CHECK(e3 == "cannot write " + (base / "f" / "out" / "t.csv").string() + ": File too large");
+  CHECK(names_in(base) == std::set<std::string>{"a"});
+  CHECK(names_in(base / "a" / "b") == std::set<std::string>{"c.json"});
+  CHECK(read(base / "a" / "b" / "c.json") == "x");
 }

@@ -1,6 +1,10 @@
 // The air: ISO 2533:1975 standard atmosphere and moist-air density (REFERENCES.md).
 #include <doctest/doctest.h>
 
+#include <string>
+#include <tuple>
+
+#include "lapwing/base/named_value.hpp"
 #include "lapwing/model/air.hpp"
 #include "test_support.hpp"
 
@@ -64,6 +68,43 @@ TEST_CASE("air outside the troposphere's circuits is refused by name (README, \"
   } catch (const InvalidInput& e) {
     CHECK(std::string(e.what()) ==
           "air: error: value 1.5 is out of range: must be [0, 1] (ambient.humidity)");
+  }
+}
+
+TEST_CASE("the documented ends of the air's ranges are inside in every unit (README, \"Track\")") {
+  // README, "Track" gives the temperature range as [-50, 70] C; -58 F and 158 F are the same ends
+  // (F = C x 9/5 + 32, the definition), 223.15 K and 343.15 K too (K = C + 273.15, SI
+  // brochure). Each is read as a user gives it (the option's parser) and must be in range; a
+  // hair beyond each is still refused.
+  const char* ends[] = {"-50 C", "70 C", "-58 F", "158 F", "223.15 K", "343.15 K"};
+  for (const char* text : ends) {
+    CAPTURE(text);
+    std::string error;
+    const auto k = parse_named_value(text, "--temperature", Quantity::temperature,
+                                     AirSpec::temperature_range, error);
+    CHECK(error.empty());
+    REQUIRE(k);
+    AirSpec a;
+    a.temperature_k = *k;
+    CHECK(test::describe(a.validate()) == "none");
+  }
+  for (const char* text : {"-50.001 C", "70.001 C", "-58.01 F", "158.01 F"}) {
+    CAPTURE(text);
+    std::string error;
+    CHECK_FALSE(parse_named_value(text, "--temperature", Quantity::temperature,
+                                  AirSpec::temperature_range, error));
+    CHECK(error.find("is out of range ([-50, 70] C)") != std::string::npos);
+  }
+  // The other air ranges' ends in their other units: 300 and 1100 hPa (1 hPa = 100 Pa, SI
+  // brochure), 100 % humidity; all exact in binary, checked so that a change of unit table
+  // cannot move them out.
+  for (const auto& [text, q, r] :
+       {std::tuple{"300 hPa", Quantity::pressure, AirSpec::pressure_range},
+        std::tuple{"1100 hPa", Quantity::pressure, AirSpec::pressure_range},
+        std::tuple{"100 %", Quantity::fraction, AirSpec::humidity_range}}) {
+    CAPTURE(text);
+    std::string error;
+    CHECK(parse_named_value(text, "x", q, r, error));
   }
 }
 

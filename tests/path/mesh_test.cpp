@@ -2,6 +2,7 @@
 // against the Fresnel integrals (Abramowitz & Stegun, Table 7.7; NIST DLMF ch. 7).
 #include <doctest/doctest.h>
 
+#include <boost/math/quadrature/gauss_kronrod.hpp>
 #include <cmath>
 
 #include "lapwing/base/error.hpp"
@@ -47,6 +48,35 @@ TEST_CASE("a clothoid's end point is A sqrt(pi) (C(t), S(t)) (A&S Table 7.7)") {
     // Curvature linear in distance.
     const std::size_t mid = m.size() / 2;
     CHECK(near(m.curvature_1pm[mid], m.s_m[mid] / a2, 1e-12));
+  }
+}
+
+TEST_CASE("a clothoid's points against adaptive Gauss-Kronrod quadrature (Boost.Math)") {
+  // x(s) = int_0^s cos theta, y(s) = int_0^s sin theta with theta = k0 u + (k1 - k0) u^2 / (2 L):
+  // Boost's adaptive 61-point Gauss-Kronrod rule to 1e-14 relative as the reference. A gentle
+  // clothoid (every step's turn within the mesh's series, |psi| <= 0.1 rad) and a tight one
+  // (from 1/40 to 1/1.2 m, where the steps turn by more and the mesh takes sin and cos).
+  struct Case {
+    double length, k0, k1;
+  };
+  for (const Case& c : {Case{60.0, 0.0, 1.0 / 45.0}, Case{25.0, 1.0 / 40.0, 1.0 / 1.2}}) {
+    Track t = test::straight_track(c.length, 0.5, 0.0);
+    t.segments = {test::clothoid(c.length, c.k0, c.k1)};
+    const Mesh m = build_mesh(t, 0.5);
+    const auto theta = [&](double u) { return c.k0 * u + (c.k1 - c.k0) * u * u / (2 * c.length); };
+    using boost::math::quadrature::gauss_kronrod;
+    CAPTURE(c.k1);
+    for (std::size_t i : {m.size() / 3, m.size() - 1}) {
+      const double s = m.s_m[i];
+      const double x = gauss_kronrod<double, 61>::integrate(
+          [&](double u) { return std::cos(theta(u)); }, 0.0, s, 15, 1e-14);
+      const double y = gauss_kronrod<double, 61>::integrate(
+          [&](double u) { return std::sin(theta(u)); }, 0.0, s, 15, 1e-14);
+      // Round-off of a walk of 2 s steps: 1e-12 m over tens of metres.
+      CHECK(near(m.x_m[i], x, 0.0, 1e-12 * s));
+      CHECK(near(m.y_m[i], y, 0.0, 1e-12 * s));
+      CHECK(near(m.heading_rad[i], theta(s), 1e-14, 1e-14));
+    }
   }
 }
 

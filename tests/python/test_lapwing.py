@@ -324,6 +324,11 @@ def test_a_path_may_be_a_pathlib_path_or_bytes_as_open_takes_it(load):
     assert repr(load(path.encode())) == repr(load(path))
     with pytest.raises(TypeError, match="os.PathLike"):
         load(3)
+    # A path with no UTF-8 (a lone surrogate) is an InputError as any other text argument
+    # (README, "In Python"), not pybind11's RuntimeError of a failed cast.
+    for bad in ("\ud800", "cars/\udcff.yaml", pathlib.Path("\ud800.yaml")):
+        with pytest.raises(lapwing.InputError, match=r"^path: .*lone surrogate"):
+            load(bad)
 
 
 def test_numbers_beyond_a_double_are_input_errors_not_cast_errors():
@@ -411,6 +416,16 @@ def test_what_the_command_line_refuses_the_module_refuses():
             with pytest.raises(lapwing.InputError) as e:
                 study(car, [track], threads=threads)
             assert str(e.value) == expect.replace("--threads", "threads")
+
+
+def test_the_documented_ends_of_the_temperature_range_are_taken():
+    # README, "In Python": the temperature range is [-50, 70] C; -50 + 273.15 is 223.14999999999998 in
+    # binary, below the nearest double to 223.15, and the lower end was once refused.
+    car, track = lapwing.load_car(CAR), lapwing.load_track(TRACK)
+    for t in (-50, "-50 C", "-58 F", 70, "158 F"):
+        assert math.isfinite(lapwing.run(car, track, air={"temperature": t}).lap_time_s)
+    with pytest.raises(lapwing.InputError, match=r"out of range \(\[-50, 70\] C\)"):
+        lapwing.run(car, track, air={"temperature": -50.001})
 
 
 @pytest.mark.parametrize("key,value", [

@@ -160,6 +160,23 @@ TEST_CASE("a run report has its plots and no delta or trade map") {
   CHECK(ids.count("trade-map-skidpad") == 0);
 }
 
+TEST_CASE("a track without corners says 'no corners' where the table would be, not an empty one") {
+  // The acceleration run (a straight, bundled) has no corner: the page once showed the
+  // table's header over no rows.
+  const Car car = load_car(test::source_path("cars/pellion-fr2.yaml"));
+  const Circuit c = circuit("tracks/acceleration.yaml");
+  const std::vector<Circuit> circuits{c};
+  const LapRun r = run_lap(car.configured(0), c);
+  REQUIRE(r.summary.corners.empty());
+  const Comparison one = single_lap_comparison(0, r, c);
+  const std::string html = html_report({&car, &circuits, &one, nullptr, "run"});
+  const std::set<std::string> ids = parse_xml(html);
+  CHECK(ids.count("corners-acceleration") == 1);  // the section's anchor stays
+  CHECK(html.find("<h3 id=\"corners-acceleration\">Corners</h3><p class=\"note\">no corners</p>") !=
+        std::string::npos);
+  CHECK(html.find("<th rowspan=\"2\">corner</th>") == std::string::npos);
+}
+
 TEST_CASE("a lap's warnings are on its report as in the text, each once, marked as warnings") {
   // The point mass on Brannock Park asks the rear axle for twice its grip under power (a lap
   // warning, summary.hpp); the page says it where the track's section starts, as the terminal

@@ -7,6 +7,7 @@
 
 #include "lapwing/base/units.hpp"
 #include "lapwing/model/loads.hpp"
+#include "lapwing/report/cells.hpp"
 #include "lapwing/solve/axle.hpp"
 #include "lapwing/study/trade.hpp"
 #include "test_support.hpp"
@@ -134,6 +135,17 @@ TEST_CASE(
   CHECK(std::isnan(nr.lap.aero_balance_eff[10]));
   CHECK_FALSE(nr.summary.balance.aero_balance_eff_150);
   CHECK_FALSE(nr.summary.balance.aero_balance_eff_250);
+  // Nor the share alone (README, "Output files": null without downforce; it once read the config's
+  // balance, 0.45, for a share of nothing), and the tables say "-" for both.
+  CHECK_FALSE(nr.summary.balance.aero_balance_150);
+  CHECK_FALSE(nr.summary.balance.aero_balance_250);
+  CHECK(balance_cells(nr.summary.balance)[1] == "-");
+  CHECK(balance_cells(nr.summary.balance)[2] == "-");
+  // With downforce the share is the constant config's balance at both speeds.
+  REQUIRE(r.summary.balance.aero_balance_150);
+  CHECK(*r.summary.balance.aero_balance_150 == bal);
+  REQUIRE(r.summary.balance.aero_balance_250);
+  CHECK(*r.summary.balance.aero_balance_250 == bal);
   // The copies agree at zero downforce (issue 11 found three that did not): at every point the
   // trace's share is undefined, as the summary's above and check's ('-', null; cli_test), and
   // the front axle's load is the weight's part less the drag moment D z_D / L, the aero front

@@ -264,9 +264,9 @@ TEST_CASE("the phase tests: a shift is under drive but not full drive; the trim 
   CHECK(under_drive(Phase::top_speed));
   CHECK_FALSE(under_drive(Phase::brake));
   CHECK_FALSE(under_drive(Phase::corner));
-  CHECK(classify_phase(true, true, SteadyLimit::grip, true) == Phase::brake);
-  CHECK(classify_phase(false, true, SteadyLimit::grip, true) == Phase::corner);
-  CHECK(classify_phase(false, true, SteadyLimit::engine, false) == Phase::top_speed);
+  CHECK(classify_phase(true, true, SteadyLimit::grip, true) == Phase::corner);
+  CHECK(classify_phase(false, true, SteadyLimit::grip, true) == Phase::brake);
+  CHECK(classify_phase(true, false, SteadyLimit::engine, false) == Phase::top_speed);
   CHECK(classify_phase(false, false, SteadyLimit::grip, true) == Phase::shift);
   CHECK(classify_phase(false, false, SteadyLimit::engine, false) == Phase::accelerate);
   // On a lap with a trimmed config: the trace's trim is on only under drive and on straight
@@ -805,4 +805,27 @@ TEST_CASE(
       }
       CHECK(held > 100);  // Brannock Park's arcs taken at their limits
     }
+}
+
+TEST_CASE("a steady limit that ripples by 1e-6 is still a corner: no throttle or braking share") {
+  // A circle of radius 100 m as 24 arcs whose radii alternate 1e-6 above and below (a survey's
+  // ripple, far below anything a table shows): the lap is the exact circle's to 1e-6, and so
+  // are its phases. Under the clip alone (1e-9) the sweeps' tiny accelerations between the
+  // arcs read `accelerate` and `brake` (the full-throttle share was 66 % for such a lap).
+  const Car file = load_car(test::source_path("cars/pellion-fr2.yaml"));
+  const ConfiguredCar car = file.configured(static_cast<std::size_t>(file.config_index("medium")));
+  Track exact = test::circle_track(100.0, 0.5);
+  Track ripple = exact;
+  ripple.segments.clear();
+  for (int k = 0; k < 24; ++k)
+    ripple.segments.push_back(
+        test::arc(100.0 * (1.0 + (k % 2 ? 1e-6 : -1e-6)), 2.0 * units::pi / 24.0, true));
+  for (const Track* t : {&exact, &ripple}) {
+    const LapRun r = run_lap(car, lay_out(*t, make_air(AirSpec{})));
+    CAPTURE(t == &ripple);
+    CHECK(r.summary.full_throttle_fraction == 0.0);
+    CHECK(r.summary.braking_fraction == 0.0);
+    CHECK(std::all_of(r.lap.phase.begin(), r.lap.phase.end(),
+                      [](Phase p) { return p == Phase::corner; }));
+  }
 }

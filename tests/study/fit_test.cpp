@@ -232,3 +232,25 @@ TEST_CASE("a freed factor with no effect on the lap has no standard error, not a
   for (const double e : r.std_errors) CHECK(std::isnan(e));
   REQUIRE(r.inseparable.size() == 1);  // the one pair, flagged
 }
+
+TEST_CASE("grip with grip_lat and grip_long is refused: three factors that are two") {
+  // mu_lat = grip x grip_lat and mu_long = grip x grip_long (README, "Correlating with your
+  // data"): any grip is undone by the other two, so no log separates them. The fit once
+  // reported finite standard errors (0.026, 0.023, 0.023) for them, the central differences'
+  // noise read as information. Refused before any lap is run, naming why.
+  const Circuit c = circuit("tracks/brannock-park.yaml", 2.0);
+  const SpeedLogFile log = written_log(medium(), c, "fit_three_grips.csv");
+  for (const auto& free : {std::vector<FitParameter>{FitParameter::grip, FitParameter::grip_lat,
+                                                     FitParameter::grip_long},
+                           std::vector<FitParameter>{FitParameter::grip_long, FitParameter::cda,
+                                                     FitParameter::grip_lat, FitParameter::grip}}) {
+    try {
+      fit(medium(), {{&c, &log.speed}}, free);
+      FAIL("expected an InvalidInput");
+    } catch (const InvalidInput& e) {
+      CHECK(e.subject() == "fit");
+      CHECK(e.violation().field == "free");
+      CHECK(e.message().find("grip, grip_lat and grip_long are two factors, not three") == 0);
+    }
+  }
+}

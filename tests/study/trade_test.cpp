@@ -215,6 +215,14 @@ TEST_CASE("trade prints no shares of a total under 0.05 s and flags a split the 
   CHECK(line_of("a -> c").find("not reliable") == std::string::npos);
   CHECK(line_of("a -> d").find("first-order split not reliable for this step") !=
         std::string::npos);
+  // Only the changes to or from the traded config (a) are printed, and the caption says so
+  // and where the rest are (README, "Commands"); trade.json holds all six pairs.
+  CHECK(table.find("b -> c") == std::string::npos);
+  CHECK(table.find("c -> d") == std::string::npos);
+  CHECK(table.find("the changes to or from a traded config, every pair in trade.json") !=
+        std::string::npos);
+  const std::string all = trade_json(car, t, circuits);
+  CHECK(all.find("\"from\": \"b\",\n      \"to\": \"c\"") != std::string::npos);
   // trade.json: the same flag as a boolean and the words.
   const std::string json = trade_json(car, t, circuits);
   CHECK(json.find("\"first_order_reliable\": false") != std::string::npos);
@@ -243,6 +251,14 @@ TEST_CASE("a car without aero still has aero sensitivities (zero areas move by t
   const double down = lap(shifted(base, Knob::cla, -0.02));
   CHECK(near(s.dt_dcla_s_per_m2, (up - down) / 0.04, 1e-9));
   for (double v : t.grids.front().lap_time_s) CHECK(std::isfinite(v));
+  // The grid's axes (README, "Commands"): no negative ClA or CdA, which no car has (the axes
+  // once ran -0.2 to 0.2 m2 here, 56 of 81 nodes negative); from 0 up to at least the span.
+  const TradeGrid& g = t.grids.front();
+  for (const auto* axis : {&g.cla_m2, &g.cda_m2}) {
+    CHECK(axis->front() == 0.0);
+    CHECK(axis->back() >= 0.15);
+    for (double v : *axis) CHECK(v >= 0.0);
+  }
 }
 
 TEST_CASE("trade options out of range are a typed error, not a failure inside the root finder") {

@@ -9,6 +9,7 @@
 #include <fstream>
 #include <optional>
 #include <string>
+#include <vector>
 
 namespace lapwing {
 
@@ -29,6 +30,40 @@ std::optional<std::string> unreadable(const std::string& file);
 /// `file` opened to read (binary). An InputError for the file as a whole (`FILE: error: `
 /// and unreadable()'s sentence) when it cannot be read.
 std::ifstream open_input(const std::string& file);
+
+/// Whether two paths name one file: the same file (device and inode, through symlinks, ".." and
+/// hard links) when both exist, else the same path once symlinks and ".." are resolved. The one
+/// test lapwing uses for "these paths are one file": a file given twice, an output that would
+/// replace an input.
+bool same_file(const std::string& a, const std::string& b);
+
+/// The input files a command reads, recorded while an InputLedger lives (the command line holds
+/// one for each command): open_input() records every file it opens, other readers (the results
+/// stores) call note_input(). The output writers (io/output.hpp) refuse to replace any of them,
+/// or to remove a folder that holds one. Outside a ledger (a program using the library) nothing
+/// is recorded, and nothing refused on that account. Only regular files are recorded: a device
+/// or pipe read (/dev/stdin) is never replaced by an output.
+class InputLedger {
+ public:
+  InputLedger();
+  ~InputLedger();
+  InputLedger(const InputLedger&) = delete;
+  InputLedger& operator=(const InputLedger&) = delete;
+
+ private:
+  friend void note_input(const std::string& file);
+  friend std::vector<std::string> inputs_read();
+  std::vector<std::string> files_;
+  InputLedger* outer_;
+};
+
+/// Records `file` (as given) as read by the command, when a ledger lives and `file` is a
+/// regular file. Safe to call from any thread.
+void note_input(const std::string& file);
+
+/// The files recorded by the living ledger, each once, in the order first read; empty when none
+/// lives.
+std::vector<std::string> inputs_read();
 
 /// "64 MiB": a byte count of whole MiB for messages.
 std::string mib_text(std::size_t bytes);

@@ -31,12 +31,44 @@ struct OutputFile {
 /// the next run may replace whole.
 inline constexpr const char* output_folder_marker = ".lapwing-output";
 
+/// OutputError ("cannot write PATH: it would replace INPUT, which this command reads") when `path`
+/// is one file (same_file) with an input the command read (io/input_file.hpp, InputLedger).
+/// Every writer here checks each file before it writes anything; a command may call it early, to
+/// refuse before long work.
+void require_not_input(const std::filesystem::path& path);
+
+/// OutputError ("will not replace DIR: it holds INPUT, which this command reads") when the folder
+/// `dir` (followed if a symlink) holds an input the command read, as named or at a symlink's end:
+/// replacing the folder would remove it. write_outputs checks it; a command may call it early.
+/// `shown`: the name in the message (default `dir`).
+void require_no_input_inside(const std::filesystem::path& dir, const std::string& shown = {});
+
+/// The missing folders above an output: made when constructed (OutputError "cannot create SHOWN:"
+/// and the system's reason when one cannot be), and removed again, those still empty, when
+/// destroyed before keep(): a write that fails leaves no folder it made. Every writer here makes
+/// an output's missing parent folders this way (README, "Output files").
+class MadeFolders {
+ public:
+  MadeFolders(const std::filesystem::path& folder, const std::string& shown);
+  ~MadeFolders();
+  MadeFolders(const MadeFolders&) = delete;
+  MadeFolders& operator=(const MadeFolders&) = delete;
+  /// The write succeeded: the folders stay.
+  void keep() { made_.clear(); }
+
+ private:
+  void remove_made();
+  std::vector<std::filesystem::path> made_;  // the deepest first
+};
+
 /// Writes `content` to `path`.
 /// - A new path or a regular file: written to `.NAME.tmp.XXXXXX` beside it, then renamed over it
 ///   (atomic); the file keeps its permissions.
 /// - A symlink: followed; a regular file at its end is replaced the same way (the link stays),
 ///   anything else (a device, a pipe: `/dev/stdout`) is opened and written through, never
-///   replaced. A link that leads nowhere is refused.
+///   replaced. A link that leads nowhere is refused ("it is a symlink that leads nowhere").
+/// - A path that is an input the command read (require_not_input): refused.
+/// Missing parent folders are made (MadeFolders). A write that fails removes its temporary.
 /// - A device, pipe or socket: opened and written through.
 /// - A folder: refused.
 /// Throws OutputError (the path and the system's reason).
@@ -55,7 +87,9 @@ void write_files_atomic(const std::filesystem::path& dir, const std::vector<Outp
 /// `dir` given as a symlink is followed (the folder it leads to is replaced, the link stays).
 /// An existing `dir` is replaced only if it is empty, holds the marker, or holds nothing but
 /// regular files named as in `files` (and temporaries of them): anything else is the user's,
-/// and refused. Names must be unique (a repeated name is an OutputError naming it).
+/// and refused; so is one that holds (as named, or at a symlink's end) an input the command read
+/// (InputLedger), which the replacement would remove. Missing parents are made (MadeFolders).
+/// Names must be unique (a repeated name is an OutputError naming it).
 /// Call only after all results are computed. Throws OutputError.
 void write_outputs(const std::filesystem::path& dir, const std::vector<OutputFile>& files);
 

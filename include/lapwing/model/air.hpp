@@ -5,6 +5,7 @@
 #include <optional>
 
 #include "lapwing/base/range.hpp"
+#include "lapwing/base/units.hpp"
 #include "lapwing/base/violation.hpp"
 
 namespace lapwing {
@@ -33,8 +34,12 @@ struct AirSpec {
 
   // The ranges a track file or an option may give (README, "Track"): the troposphere
   // where circuits lie, and the air a car is run in.
-  static constexpr Range altitude_range{-500.0, 6000.0};     // m
-  static constexpr Range temperature_range{223.15, 343.15};  // K: -50 to 70 C
+  static constexpr Range altitude_range{-500.0, 6000.0};  // m
+  // K: -50 to 70 C, each end as a value in C is converted (-50 + 273.15 is 223.14999999999998,
+  // below the double nearest 223.15, which once refused the documented -50 C; -58 F converts
+  // to the same double).
+  static constexpr Range temperature_range{-50.0 + units::celsius_zero_k,
+                                           70.0 + units::celsius_zero_k};
   static constexpr Range pressure_range{30000.0, 110000.0};  // Pa
   static constexpr Range humidity_range{0.0, 1.0};           // fraction
   /// The first value out of its range (key paths as in a track file: "altitude",

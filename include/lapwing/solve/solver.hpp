@@ -21,13 +21,20 @@ std::string_view phase_name(Phase p);
 /// Why the steady speed at a point is what it is.
 enum class SteadyLimit : std::uint8_t { grip, engine };
 
-/// The phase at a point, the one classification: `brake` where the backward sweep is the slower
-/// (`braking`); else on the steady limit where the forward sweep was clipped to it, `corner`
-/// when the tyres set that limit and `top_speed` when the engine does; else `shift` where the
+/// A point whose speed is within this share of its steady limit is on that limit, whichever
+/// sweep set it (0.05 km/h at 100 km/h; the corner table's tie, summary.cpp): a limit that
+/// ripples with the curvature (a surveyed centerline's, to 1e-6 of itself) has the sweeps follow
+/// it by tiny accelerations and decelerations, and those points read `accelerate` and `brake`
+/// (a circle lapped at 116.18 km/h read 66 % full throttle with a 1e-6 ripple, 0 % without).
+inline constexpr double phase_on_limit = 5e-4;
+
+/// The phase at a point, the one classification: on the steady limit (`on_limit`: within
+/// phase_on_limit of it), `corner` when the tyres set that limit and `top_speed` when the engine
+/// does; else `brake` where the backward sweep is the slower (`braking`); else `shift` where the
 /// drive was cut for an upshift; else `accelerate`.
-constexpr Phase classify_phase(bool braking, bool clipped, SteadyLimit limit, bool cut) {
+constexpr Phase classify_phase(bool on_limit, bool braking, SteadyLimit limit, bool cut) {
+  if (on_limit) return limit == SteadyLimit::grip ? Phase::corner : Phase::top_speed;
   if (braking) return Phase::brake;
-  if (clipped) return limit == SteadyLimit::grip ? Phase::corner : Phase::top_speed;
   return cut ? Phase::shift : Phase::accelerate;
 }
 /// Full drive: the engine's whole drive applied (accelerate, top_speed). Not a shift: its

@@ -83,8 +83,9 @@ WindowResult window_result(const BalanceWindowResult& r);
 struct BalanceSummary {
   double static_front_share = 0.0;
   // Aero balance (front share of downforce) at 150 and 250 km/h, alone and with the drag moment
-  // (aero_balance_with_drag_moment: none without downforce, where the share is undefined).
-  double aero_balance_150 = 0.0, aero_balance_250 = 0.0;
+  // (aero_balance_with_drag_moment): none of either without downforce (ClA <= 0 at that speed),
+  // where the share of no load is undefined.
+  std::optional<double> aero_balance_150, aero_balance_250;
   std::optional<double> aero_balance_eff_150, aero_balance_eff_250;
   bool has_fast_acceleration = false;         // any point accelerating above 200 km/h
   double lowest_front_share_fast = 0.0;       // lowest front share accelerating above 200 km/h
@@ -116,8 +117,14 @@ struct LapSummary {
   BalanceSummary balance;
 };
 
+/// How much of a lap summarize reads: everything, or the figures a sweep's row keeps (lap time,
+/// top and lowest speed, the time shares, the balance; no warnings, sectors or corners, whose
+/// lists stay empty, and no corner the front limits).
+enum class SummaryDetail { full, row_figures };
+
 LapSummary summarize(const Lap& lap, const Mesh& mesh, const Track& track,
-                     const std::vector<CornerSpan>& corners, const Envelope& env);
+                     const std::vector<CornerSpan>& corners, const Envelope& env,
+                     SummaryDetail detail = SummaryDetail::full);
 
 /// Speed above which the balance summary's lowest front share under drive is read (200 km/h).
 inline constexpr double fast_acceleration_kph = 200.0;

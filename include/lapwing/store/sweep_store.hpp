@@ -40,7 +40,8 @@ class SweepStore : public SweepSink {
  public:
   /// Opens `file` for the study: creates it, or, when it holds this study already, opens it to
   /// resume (has() then says which points are stored). A file of another study, or one that is
-  /// no results store, is an OutputError; nothing is changed then.
+  /// no results store, or an input of the command (require_not_input), is an OutputError;
+  /// nothing is changed then. A new store's missing folders are made.
   SweepStore(const std::string& file, const StudyRecord& study, const SweepPlan& plan);
   ~SweepStore() override;
   SweepStore(const SweepStore&) = delete;
@@ -81,8 +82,11 @@ struct StoreCounts {
 StoreCounts store_counts(const std::string& file);
 
 /// Joins the results stores `inputs` (shards of one study) into `out`, created when it does not
-/// exist (written whole under a temporary name, then renamed), else added to (one transaction).
+/// exist (written whole under `.NAME.lapwing-new` beside it, its missing folders made, then
+/// renamed; a failure removes both), else added to (one transaction per input). The inputs are
+/// recorded as read (note_input): an `out` that is one of them is refused (require_not_input).
 /// A file of another study than the first's is an OutputError, naming it; nothing is written.
+/// A write the system refuses: "cannot write OUT: " and its reason.
 void merge_stores(const std::string& out, const std::vector<std::string>& inputs);
 
 /// The laps table as CSV: the columns in the table's order (point, track, config, the sets,

@@ -68,9 +68,9 @@ struct Sensitivity {
 
 /// Lap times of the first traded config with its ClA and CdA moved (scaled; a zero area
 /// shifted) to each node. The axes span every config's operating point on the track and
-/// +-grid_span around the traded config, widened by grid_margin of the range on each side (a
-/// drag area no lower than half the smallest config's), so that every config can be placed on
-/// the map.
+/// +-grid_span around the traded config (a zero area: 0 to grid_span m2), widened by
+/// grid_margin of the range on each side (no area below 0, a drag area no lower than half the
+/// smallest config's), so that every config can be placed on the map.
 struct TradeGrid {
   std::size_t track, config;
   std::vector<double> cla_m2, cda_m2;  // axes
