@@ -711,10 +711,17 @@ int sweep(const SweepOptions& o, Inputs& in) {
     const std::vector<BestPoint> inside = best_points_in_window(o.out);
     std::cout << "\nbest point per track inside the balance window (" << window_text(*w) << ")\n"
               << best_table(inside);
+    const std::vector<BestPoint> reaching = best_points_reaching_window(o.out);
+    const auto has = [](const std::vector<BestPoint>& v, const std::string& t) {
+      return std::any_of(v.begin(), v.end(), [&](const BestPoint& b) { return b.track == t; });
+    };
+    // A lap that never runs where the window applies is not outside it (summary.json's "not
+    // reached"): said as such.
     for (const auto& t : study.tracks)
-      if (std::none_of(inside.begin(), inside.end(),
-                       [&](const BestPoint& b) { return b.track == t; }))
-        std::cout << t << ": no point's lap stays inside the window\n";
+      if (!has(inside, t))
+        std::cout << t
+                  << (has(reaching, t) ? ": no point's lap stays inside the window\n"
+                                       : ": no point's lap reaches the window (not reached)\n");
   }
   if (r.stopped) {
     std::cout << "stopped: " << r.run << " of " << (r.in_shard - r.skipped)
