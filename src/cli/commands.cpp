@@ -711,10 +711,17 @@ int sweep(const SweepOptions& o, Inputs& in) {
     const std::vector<BestPoint> inside = best_points_in_window(o.out);
     std::cout << "\nbest point per track inside the balance window (" << window_text(*w) << ")\n"
               << best_table(inside);
+    const std::vector<BestPoint> reaching = best_points_reaching_window(o.out);
+    const auto has = [](const std::vector<BestPoint>& v, const std::string& t) {
+      return std::any_of(v.begin(), v.end(), [&](const BestPoint& b) { return b.track == t; });
+    };
+    // A lap that never runs where the window applies is not outside it (summary.json's "not
+    // reached"): said as such.
     for (const auto& t : study.tracks)
-      if (std::none_of(inside.begin(), inside.end(),
-                       [&](const BestPoint& b) { return b.track == t; }))
-        std::cout << t << ": no point's lap stays inside the window\n";
+      if (!has(inside, t))
+        std::cout << t
+                  << (has(reaching, t) ? ": no point's lap stays inside the window\n"
+                                       : ": no point's lap reaches the window (not reached)\n");
   }
   if (r.stopped) {
     std::cout << "stopped: " << r.run << " of " << (r.in_shard - r.skipped)
@@ -863,7 +870,24 @@ int track_line(const TrackLineOptions& o, Inputs& in) {
   if (car) configured.emplace(*car, ci);
 
   // A track without widths, or too narrow for the vehicle and its margins: an InvalidInput of
-  // the track's "line" key (at the line: key, else the file as a whole).
+  // the track's "line" key (at the line: key, else the file as a whole). Too narrow for the
+  // width or margin the options gave: the options' usage error, naming the narrowest point.
+  if (!o.vehicle_width.empty() || !o.margin.empty()) {
+    const LineReference ref = line_reference(described);
+    const std::size_t i = ref.narrowest();
+    const double room = spec.vehicle_width_m + 2.0 * spec.margin_m;
+    if (ref.width_m(i) < room) {
+      const std::string given = !o.vehicle_width.empty() && !o.margin.empty()
+                                    ? "--vehicle-width and --margin"
+                                : !o.vehicle_width.empty() ? "--vehicle-width"
+                                                           : "--margin";
+      throw UsageError{given + ": a vehicle " + fixed(spec.vehicle_width_m, 2) +
+                       " m wide with a margin of " + fixed(spec.margin_m, 2) +
+                       " m each side needs " + fixed(room, 2) + " m, and " + o.track +
+                       " is " + fixed(ref.width_m(i), 2) + " m wide at " + fixed(ref.s_m[i], 1) +
+                       " m, its narrowest"};
+    }
+  }
   PathProfile line;
   std::optional<double> centerline_lap, min_curvature_lap, line_lap;
   int passes = 0;

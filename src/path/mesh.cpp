@@ -360,6 +360,21 @@ std::size_t mesh_point_count(const Track& track, double step_m) {
          1;
 }
 
+DescribedBank::DescribedBank(const Track& track) : track_(track) {
+  for (double l = 0.0; const auto& g : track.segments) segment_end_m_.push_back(l += g.length_m);
+}
+
+double DescribedBank::at(double s) const {
+  if (track_.profile) {
+    const PathProfile& p = *track_.profile;
+    return p.bank_rad.empty() ? 0.0 : interpolate(p.s_m, p.bank_rad, s);
+  }
+  if (segment_end_m_.empty()) return 0.0;
+  const auto k = static_cast<std::size_t>(
+      std::upper_bound(segment_end_m_.begin(), segment_end_m_.end(), s) - segment_end_m_.begin());
+  return track_.segments[std::min(k, segment_end_m_.size() - 1)].signed_bank_rad();
+}
+
 Mesh build_mesh(const Track& track, double step_m, unsigned threads) {
   require_valid(track.validate(), track.subject());
   require_valid(
@@ -450,18 +465,10 @@ Mesh build_mesh(const Track& track, double step_m, unsigned threads) {
     // Bank and trim zones are given along the described path: a racing line reads them where
     // it passes (its reference distance), as it does the sectors.
     const bool line = track.line_path.has_value();
-    const PathProfile* described = track.profile ? &*track.profile : nullptr;
-    std::vector<double> seg_end;  // a segment track's segment ends, for a line over it
-    for (double l = 0.0; const auto& g : track.segments) seg_end.push_back(l += g.length_m);
+    const DescribedBank described_bank(track);
     for (std::size_t i = 0; i <= n; ++i) {
       const double s = line ? interpolate(lapped->s_m, lapped->reference_s_m, m.s_m[i]) : m.s_m[i];
-      if (described && !described->bank_rad.empty())
-        m.bank_rad[i] = interpolate(described->s_m, described->bank_rad, s);
-      else if (!seg_end.empty()) {
-        const auto k = static_cast<std::size_t>(
-            std::upper_bound(seg_end.begin(), seg_end.end(), s) - seg_end.begin());
-        m.bank_rad[i] = track.segments[std::min(k, seg_end.size() - 1)].signed_bank_rad();
-      }
+      m.bank_rad[i] = described_bank.at(s);
     }
   }
   if (!track.trim_zones.empty()) {

@@ -32,7 +32,7 @@ std::string trade_json(const Car& car, const Trade& t, const std::vector<Circuit
   JsonWriter w;
   w.begin_object().field("lapwing", version()).field("car", car.name).field("step", t.options.step);
   w.key("results").begin_array();
-  for (const auto& s : t.sensitivities)
+  for (const auto& s : t.sensitivities) {
     w.begin_object()
         .field("track", circuits[s.track].track.name)
         .field("config", car.configs[s.config].name)
@@ -44,8 +44,13 @@ std::string trade_json(const Car& car, const Trade& t, const std::vector<Circuit
         .field("dt_dcda_s_per_m2", s.dt_dcda_s_per_m2)
         .field("dt_dmass_s_per_kg", s.dt_dmass_s_per_kg)
         .field("dt_dpower_s_per_percent", s.dt_dpower_s_per_percent)
-        .field("breakeven_dcda_per_dcla", s.breakeven_dcda_per_dcla)
-        .end_object();
+        .key("breakeven_dcda_per_dcla");
+    if (s.breakeven_dcda_per_dcla)
+      w.value(*s.breakeven_dcda_per_dcla);
+    else
+      w.null();
+    w.end_object();
+  }
   w.end_array();
   w.key("attributions").begin_array();
   for (const auto& a : t.attributions)
@@ -109,7 +114,7 @@ std::string trade_table(const Car& car, const Trade& t, const std::vector<Circui
         {circuits[s.track].track.id, car.configs[s.config].name, fixed(s.lap_time_s, 3),
          signed_fixed(0.1 * s.dt_dcla_s_per_m2, 4), signed_fixed(0.1 * s.dt_dcda_s_per_m2, 4),
          signed_fixed(10 * s.dt_dmass_s_per_kg, 4), signed_fixed(s.dt_dpower_s_per_percent, 4),
-         fixed(s.breakeven_dcda_per_dcla, 3)});
+         s.breakeven_dcda_per_dcla ? fixed(*s.breakeven_dcda_per_dcla, 3) : "-"});
   o += "\n" + text_table({"track", "config", "lap s", "s per +0.1 m2 ClA", "s per +0.1 m2 CdA",
                           "s per +10 kg", "s per +1 % power", "CdA m2 one m2 of ClA may cost"},
                          rows);

@@ -445,6 +445,10 @@ std::vector<BestPoint> best_points_in_window(const std::string& file) {
   return best_where(file, " AND balance_window = 'pass'");
 }
 
+std::vector<BestPoint> best_points_reaching_window(const std::string& file) {
+  return best_where(file, " AND balance_window IN ('pass', 'fail')");
+}
+
 StoreCounts store_counts(const std::string& file) {
   Connection c(file, false);
   Statement s(c,

@@ -221,7 +221,7 @@ Trade trade(const Car& car, const std::vector<std::size_t>& configs,
     for (std::size_t c : configs) {
       const ConfiguredCar base = car.configured(c);
       const AeroConfig& a = base.aero();
-      Sensitivity s{t, c, own[c], op[c].cla_m2, op[c].cda_m2, base.car().mass_kg, 0, 0, 0, 0, 0};
+      Sensitivity s{t, c, own[c], op[c].cla_m2, op[c].cda_m2, base.car().mass_kg, 0, 0, 0, 0, {}};
       // Central differences: dt/dx = (t(x (1 + h)) - t(x (1 - h))) / (2 h x): scaling every
       // value of the config by 1 +- h moves its operating point by +-h x to first order.
       // A zero aero area is moved by step m2 instead of step x 0.
@@ -234,8 +234,8 @@ Trade trade(const Car& car, const std::vector<std::size_t>& configs,
       s.dt_dcda_s_per_m2 = central(zero_area(a, Knob::cda) ? 0.0 : s.cda_m2);
       s.dt_dmass_s_per_kg = central(s.mass_kg);
       s.dt_dpower_s_per_percent = central(100.0);  // x = 100 %: per percent of power
-      s.breakeven_dcda_per_dcla =
-          s.dt_dcda_s_per_m2 != 0.0 ? -s.dt_dcla_s_per_m2 / s.dt_dcda_s_per_m2 : 0.0;
+      if (s.dt_dcla_s_per_m2 < 0.0 && s.dt_dcda_s_per_m2 > 0.0)
+        s.breakeven_dcda_per_dcla = -s.dt_dcla_s_per_m2 / s.dt_dcda_s_per_m2;
       here.push_back(s);
       out.sensitivities.push_back(s);
     }

@@ -7,6 +7,7 @@
 
 #include <algorithm>
 #include <cmath>
+#include <cstdio>
 
 #include "lapwing/base/error.hpp"
 #include "lapwing/base/units.hpp"
@@ -166,6 +167,14 @@ TEST_CASE("through a 90 deg corner between straights the line goes edge to apex 
   CHECK(1.0 / kmax > 40.0);
 }
 
+namespace {
+std::string buf_metres(double v) {
+  char b[48];
+  std::snprintf(b, sizeof b, "%.1f", v);
+  return b;
+}
+}  // namespace
+
 TEST_CASE("a track narrower than the vehicle and its margins, or without widths, has no line") {
   try {
     line_reference(test::circle_track(50.0, 0.5));
@@ -183,6 +192,17 @@ TEST_CASE("a track narrower than the vehicle and its margins, or without widths,
   } catch (const InvalidInput& e) {
     CHECK(e.message().find("2.90 m wide at 0.0 m") != std::string::npos);
     CHECK(e.violation().where() == "line");
+  }
+  // Narrower further on: the error names the narrowest point, not the first too narrow (a
+  // made-up reference: 2.9 m everywhere but 2.5 m at the 10th point).
+  LineReference narrowing = ref;
+  narrowing.width_left_m[10] = narrowing.width_right_m[10] = 1.25;
+  try {
+    min_curvature_line(narrowing, LineOptions{});
+    FAIL("expected an InvalidInput");
+  } catch (const InvalidInput& e) {
+    CHECK(e.message().find("2.50 m wide at " + std::string(buf_metres(narrowing.s_m[10])) +
+                           " m, its narrowest") != std::string::npos);
   }
 }
 

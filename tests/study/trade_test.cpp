@@ -111,7 +111,24 @@ TEST_CASE("signs: downforce pays on the tight track, drag and mass cost everywhe
   }
   // Common practice (REFERENCES, facts of the trade): drag weighs most where straights are
   // long, so one m2 of downforce may cost less drag at the fast track than at the tight one.
-  CHECK(t.sensitivities[1].breakeven_dcda_per_dcla < t.sensitivities[0].breakeven_dcda_per_dcla);
+  REQUIRE((t.sensitivities[0].breakeven_dcda_per_dcla && t.sensitivities[1].breakeven_dcda_per_dcla));
+  CHECK(*t.sensitivities[1].breakeven_dcda_per_dcla < *t.sensitivities[0].breakeven_dcda_per_dcla);
+}
+
+TEST_CASE("no exchange rate where more drag does not cost: the skid pad's drag moment") {
+  // On the skid pad more CdA is faster for the Pellion FR-2 (its drag, acting above the ground,
+  // moves load onto the rear axle that limits it: tester's finding, with drag_height 0 the
+  // sensitivity turns positive). Downforce and drag then both help: no exchange rate (the ratio
+  // read -4.8 m2, meaningless), null in trade.json and "-" in the table.
+  const Car car = load_car(test::source_path("cars/pellion-fr2.yaml"));
+  const std::vector<Circuit> circuits{test::bundled_circuit("tracks/skidpad.yaml")};
+  const Trade t = trade(car, {1}, circuits, TradeOptions{0.02, 3, 0.15}, 0);
+  REQUIRE(t.sensitivities.size() == 1);
+  const Sensitivity& s = t.sensitivities[0];
+  CHECK(s.dt_dcda_s_per_m2 < 0.0);
+  CHECK(s.dt_dcla_s_per_m2 < 0.0);
+  CHECK_FALSE(s.breakeven_dcda_per_dcla);
+  CHECK(trade_json(car, t, circuits).find("\"breakeven_dcda_per_dcla\": null") != std::string::npos);
 }
 
 TEST_CASE("attribution: ClA and CdA terms plus the residual make the lap-time difference") {

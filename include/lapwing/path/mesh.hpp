@@ -74,6 +74,19 @@ Closure closure(const Track& track);
 /// nullptr for a segment track.
 const PathProfile* lapped_profile(const Track& track);
 
+/// The bank (rad, + helping a left turn) along a track's described path (its segments or its
+/// data profile; 0 where it gives none), at a distance along that path: what a racing line over
+/// the track reads where it passes (its reference distance), as build_mesh does.
+class DescribedBank {
+ public:
+  explicit DescribedBank(const Track& track);
+  double at(double s_m) const;
+
+ private:
+  const Track& track_;
+  std::vector<double> segment_end_m_;
+};
+
 /// The sector starts along what is lapped: the track's own, or where the racing line passes them
 /// (sectors are given along the described path).
 std::vector<double> lapped_sectors_m(const Track& track);

@@ -40,6 +40,15 @@ struct LineReference {
   double spacing_m = 0.0;
   std::vector<double> s_m, x_m, y_m, heading_rad, width_left_m, width_right_m, elevation_m;
   std::size_t size() const { return x_m.size(); }
+  /// Edge to edge at point i (m).
+  double width_m(std::size_t i) const { return width_left_m[i] + width_right_m[i]; }
+  /// The narrowest point's index (the first of equals); the reference has points.
+  std::size_t narrowest() const {
+    std::size_t k = 0;
+    for (std::size_t i = 1; i < size(); ++i)
+      if (width_m(i) < width_m(k)) k = i;
+    return k;
+  }
 };
 
 /// The spacing of the line's points (m): a tenth of the tightest radius the bundled circuits

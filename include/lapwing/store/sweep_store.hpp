@@ -70,6 +70,9 @@ struct BestPoint {
 /// balance_window is pass; a track with none is left out, and so is every track when the car
 /// has no balance window (the column is NULL throughout).
 std::vector<BestPoint> best_points_in_window(const std::string& file);
+/// The same among the laps that reach the window (inside it or not; not those that never run
+/// where it applies).
+std::vector<BestPoint> best_points_reaching_window(const std::string& file);
 /// Per track (in the order the study names them), the best point; a track with no lap that
 /// completes is left out. OutputError when `file` is no results store.
 std::vector<BestPoint> best_points(const std::string& file);

@@ -63,7 +63,9 @@ struct Sensitivity {
   double cla_m2, cda_m2;  // the values differentiated against: the operating point on the lap
   double mass_kg;
   double dt_dcla_s_per_m2, dt_dcda_s_per_m2, dt_dmass_s_per_kg, dt_dpower_s_per_percent;
-  double breakeven_dcda_per_dcla;  // -dt/dClA / dt/dCdA: CdA one m2 of ClA may cost
+  // -dt/dClA / dt/dCdA: CdA one m2 of ClA may cost; none where downforce does not help or drag
+  // does not cost (dt/dClA >= 0 or dt/dCdA <= 0: no exchange, both help or both hurt).
+  std::optional<double> breakeven_dcda_per_dcla;
 };
 
 /// Lap times of the first traded config with its ClA and CdA moved (scaled; a zero area
