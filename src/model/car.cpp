@@ -2,6 +2,8 @@
 
 #include <algorithm>
 #include <cctype>
+#include <cstdio>
+#include <string>
 
 #include "lapwing/base/format.hpp"
 
@@ -52,6 +54,26 @@ bool is_config_name(std::string_view name) {
   });
 }
 
+namespace {
+// The rear axle's load, moments about the front contact patch without aero, is
+// W (1 - f) L / L - m a h / L: 0 at a deceleration a = g (1 - f) L / h (a stoppie; Gillespie,
+// Fundamentals of Vehicle Dynamics, ch. 2, load transfer under braking, a = g b / h with b the
+// cg's distance behind the front axle). The tyres brake up to some mu_long g, so a car with
+// mu_long h >= (1 - f) L can lift its rear axle within its grip; the axle model has no wheel lift
+// under braking (its axle loads would go negative), and such a car is refused here.
+bool below_stoppie(double h, double f, double wheelbase, double mu_long) {
+  return !(mu_long * h >= (1.0 - f) * wheelbase);
+}
+std::string stoppie_words(double f, double wheelbase, double mu_long) {
+  char buf[64];
+  std::snprintf(buf, sizeof buf, "%.3f m", (1.0 - f) * wheelbase / mu_long);
+  return std::string("cg_height must be below (1 - front_weight) wheelbase / mu_long = ") + buf +
+         ": higher, braking within the tyres' grip lifts the rear axle (its load is 0 at a "
+         "deceleration of g (1 - front_weight) wheelbase / cg_height), which the model does not "
+         "describe";
+}
+}  // namespace
+
 std::string Car::subject() const {
   return file.empty() ? "car '" + name + "'" : file;
 }
@@ -66,6 +88,8 @@ std::optional<Violation> Car::validate_without_configs() const {
       .range("front_weight", front_weight, open_unit(), Quantity::fraction)
       .part("", [&] { return roll ? roll->validate(cg_height_m) : std::nullopt; })
       .part("tyres", [&] { return tyres.validate(); })
+      .rule(below_stoppie(cg_height_m, front_weight, wheelbase_m, tyres.mu_long), "cg_height",
+            stoppie_words(front_weight, wheelbase_m, tyres.mu_long))
       .part("powertrain", [&] { return powertrain.validate(); })
       .range("brakes.front_bias", brake_front_bias, open_unit(), Quantity::fraction)
       .part("balance_window",
@@ -94,6 +118,12 @@ std::optional<Violation> Car::validate_config(std::size_t index) const {
   optional_range("drag_height", a.drag_height_m, drag_height_range, Quantity::length);
   f.rule(!a.cg_height_m || *a.cg_height_m < wheelbase_m, at + ".cg_height",
          "cg_height must be below the wheelbase");
+  if (a.cg_height_m || a.front_weight) {
+    const double fw = a.front_weight.value_or(front_weight);
+    f.rule(below_stoppie(a.cg_height_m.value_or(cg_height_m), fw, wheelbase_m, tyres.mu_long),
+           at + (a.cg_height_m ? ".cg_height" : ".front_weight"),
+           stoppie_words(fw, wheelbase_m, tyres.mu_long));
+  }
   if (roll && a.cg_height_m)
     f.rule(roll->roll_centre_front_m < *a.cg_height_m && roll->roll_centre_rear_m < *a.cg_height_m,
            at + ".cg_height", "cg_height must lie above the roll centres (roll_centre_height)");

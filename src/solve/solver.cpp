@@ -1269,8 +1269,15 @@ void LapSolver::channels_pass(const Envelope& env, const Mesh& mesh, ChannelSet 
       // Axle loads and what each axle carries (axle.hpp): the tyre force along the path is what
       // accelerates the car's mass m plus the resistance (the rotating parts' spin-up is torque
       // inside the driveline, not road force).
-      const AxleLoads loads =
+      AxleLoads loads =
           axle_loads(car, f.drag_n, f.downforce_n, f.balance, f.normal_share, road.sin_slope, ax);
+      // An axle at its lift limit (a rear-driven car's front at front_bound with no lateral
+      // force to hold: axle.cpp) carries 0 N, which the sum above rounds to some -1e-12 N: within
+      // 1e-12 of the total load it is written 0. A larger negative load stays as it is (a
+      // defect to see, not to hide).
+      const double rounding = 1e-12 * std::abs(loads.front_n + loads.rear_n);
+      for (double* axle_n : {&loads.front_n, &loads.rear_n})
+        if (*axle_n < 0.0 && *axle_n >= -rounding) *axle_n = 0.0;
       lap.front_load_n[i] = loads.front_n;
       lap.rear_load_n[i] = loads.rear_n;
       // The rest for every channel alone (ChannelSet::all): gear and engine speed, the aero
@@ -1282,8 +1289,8 @@ void LapSolver::channels_pass(const Envelope& env, const Mesh& mesh, ChannelSet 
       // where an upshift falls can read the old gear a little past its rev limit: the trace
       // takes the lowest gear from there up in which the speed is within the rev limit (to the
       // 1e-12 best_drive allows), so that gear, rpm and speed agree. The rpm is the speed's in
-      // that gear, held only at the curve's first rpm below it (the clutch slips: README,
-      // "Physics and assumptions").
+      // that gear, held only at the curve's first rpm below it, where the clutch slips
+      // (README, "Physics and assumptions").
       const Powertrain& pt = car.powertrain;
       int gear = pt.ideal ? 0 : (lap.phase[i] == Phase::brake ? env.gear(v) : lap.gear[i]);
       const double wheel_radps = v / car.tyres.rolling_radius_m;

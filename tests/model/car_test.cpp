@@ -95,3 +95,26 @@ TEST_CASE("a balance window checks itself: shares in [0, 1], the max above the m
   CHECK(test::describe(car.validate()).rfind("balance_window.above: value -1 is out of range", 0) ==
         0);
 }
+
+TEST_CASE("a cg so high that braking within grip lifts the rear axle is refused at its key") {
+  // Moments about the front contact patch without aero: the rear axle's load is
+  // W (1 - f) - m a h / L, 0 at a deceleration a = g (1 - f) L / h (Gillespie, Fundamentals of
+  // Vehicle Dynamics, ch. 2: a = g b / h, b the cg's distance behind the front axle). The tyres
+  // brake up to about mu_long g, so mu_long h >= (1 - f) L lifts the rear within grip. The
+  // Pellion (f 0.43, L 2.90 m, mu_long 1.55): h < 1.653 / 1.55 = 1.066 m.
+  Car c = load_car(test::source_path("cars/pellion-fr2.yaml"));
+  const double limit = (1.0 - c.front_weight) * c.wheelbase_m / c.tyres.mu_long;
+  CHECK(limit == doctest::Approx(1.0665).epsilon(1e-3));  // the figure above
+  c.cg_height_m = 0.99 * limit;
+  CHECK(test::describe(c.validate()) == "none");
+  c.cg_height_m = 1.01 * limit;
+  const std::string why = test::describe(c.validate());
+  CHECK(why.rfind("cg_height: cg_height must be below (1 - front_weight) wheelbase / mu_long", 0) ==
+        0);
+  // A config's own cg_height is checked against the same bound, at its key.
+  c.cg_height_m = 0.29;
+  REQUIRE(test::describe(c.validate()) == "none");
+  c.configs[0].cg_height_m = 1.01 * limit;
+  CHECK(test::describe(c.validate()).find("aero.configs." + c.configs[0].name + ".cg_height") !=
+        std::string::npos);
+}

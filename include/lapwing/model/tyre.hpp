@@ -99,13 +99,13 @@ class TyreModel {
   /// c = |fy| / mu_lat0 + 2 s d^2 / Fn. Where that load is below 2 d the inner tyre has lifted
   /// and the outer alone holds fy: the least load of one tyre, mu_lat0 L (1 - s (L - Fn) / Fn)
   /// = |fy| (a = s / Fn). The two-tyre equation may have no root at all where the lifted case
-  /// has one: with 2 d beyond the one tyre's vertex Fn (1 + s) / (2 s) (a transfer of over
-  /// 5 kN: a cg height of 2 m and more), the outer tyre alone below 2 d holds more than two do
-  /// at any load above it. Then the lifted root decides where it lies below 2 d (the floor's
-  /// load only where neither holds fy). Reading the floor's load there instead (it was) put
-  /// the least load some five times too high: a rear-driven car's front bound then read a
-  /// deceleration of several g at a point the front held (cg 2.5 m: -2.8 g, the rear axle's
-  /// load -10 kN).
+  /// has one: with 2 d beyond the one tyre's vertex Fn (1 + s) / (2 s) (d over 5.4 kN for the
+  /// Pellion's tyres), the outer tyre alone below 2 d can hold more than two do at any load
+  /// above it. Then the lifted root decides where it lies below 2 d (the floor's load only
+  /// where neither holds fy). Reading the floor's load there instead (it did) put the least load
+  /// far too high: a rear-driven car's front bound then read a deceleration of several g at a
+  /// point the front held (the tester's Pellion with cg 2.5 m: -2.79 g, the rear axle's load
+  /// -10 kN, on Brannock Park).
   double axle_load_for_lateral(double fy_n, double transfer_n) const {
     if (transfer_n <= 0.0) return axle_load_for_lateral(fy_n);
     const double s = sensitivity_per_n_;
