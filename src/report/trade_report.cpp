@@ -118,7 +118,8 @@ std::string trade_table(const Car& car, const Trade& t, const std::vector<Circui
   o += "\n" + text_table({"track", "config", "lap s", "s per +0.1 m2 ClA", "s per +0.1 m2 CdA",
                           "s per +10 kg", "s per +1 % power", "CdA m2 one m2 of ClA may cost"},
                          rows);
-  o += "\nexchange rate: +1 m2 of ClA pays while it costs less than the last column in CdA\n";
+  o += "\nexchange rate: +1 m2 of ClA pays while it costs less than the last column in CdA (-: no "
+       "exchange, where downforce does not pay or drag does not cost)\n";
   const TextTable a = attribution_table(car, t, circuits);
   if (!a.rows.empty()) o += "\n" + attribution_caption() + "\n" + text_table(a.header, a.rows);
   return o;
