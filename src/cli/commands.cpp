@@ -883,8 +883,8 @@ int track_line(const TrackLineOptions& o, Inputs& in) {
                                                            : "--margin";
       throw UsageError{given + ": a vehicle " + fixed(spec.vehicle_width_m, 2) +
                        " m wide with a margin of " + fixed(spec.margin_m, 2) +
-                       " m each side needs " + fixed(room, 2) + " m, and " + o.track +
-                       " is " + fixed(ref.width_m(i), 2) + " m wide at " + fixed(ref.s_m[i], 1) +
+                       " m each side needs " + fixed(room, 2) + " m, and " + o.track + " is " +
+                       fixed(ref.width_m(i), 2) + " m wide at " + fixed(ref.s_m[i], 1) +
                        " m, its narrowest"};
     }
   }

@@ -7,10 +7,10 @@
 #include <sstream>
 
 #include "lapwing/base/format.hpp"
-#include "lapwing/io/csv_writer.hpp"
-#include "lapwing/io/json.hpp"
 #include "lapwing/base/interpolate.hpp"
 #include "lapwing/base/units.hpp"
+#include "lapwing/io/csv_writer.hpp"
+#include "lapwing/io/json.hpp"
 #include "lapwing/path/centerline.hpp"
 #include "lapwing/path/mesh.hpp"
 

@@ -32,8 +32,8 @@ constexpr std::array<double, 5> gl_weights{0.2369268850561891, 0.478628670499366
                                            0.2369268850561891};
 
 // The cosine and sine of a turn |psi| <= small_turn_rad by their Taylor series (Abramowitz &
-// Stegun 4.3.65-66; from memory): the first term left out, psi^12 / 12! and psi^11 / 11!, is below 3e-19
-// there, under a unit in the last place of either.
+// Stegun 4.3.65-66; from memory): the first term left out, psi^12 / 12! and psi^11 / 11!, is below
+// 3e-19 there, under a unit in the last place of either.
 constexpr double small_turn_rad = 0.1;
 struct TurnBy {
   double cos, sin;
@@ -41,12 +41,10 @@ struct TurnBy {
 inline TurnBy small_turn(double psi) {
   const double p2 = psi * psi;
   const double c =
-      1.0 - p2 / 2.0 *
-                (1.0 - p2 / 12.0 *
-                           (1.0 - p2 / 30.0 * (1.0 - p2 / 56.0 * (1.0 - p2 / 90.0))));
+      1.0 -
+      p2 / 2.0 * (1.0 - p2 / 12.0 * (1.0 - p2 / 30.0 * (1.0 - p2 / 56.0 * (1.0 - p2 / 90.0))));
   const double s =
-      psi * (1.0 - p2 / 6.0 *
-                       (1.0 - p2 / 20.0 * (1.0 - p2 / 42.0 * (1.0 - p2 / 72.0))));
+      psi * (1.0 - p2 / 6.0 * (1.0 - p2 / 20.0 * (1.0 - p2 / 42.0 * (1.0 - p2 / 72.0))));
   return {c, s};
 }
 
@@ -393,11 +391,11 @@ Mesh build_mesh(const Track& track, double step_m, unsigned threads) {
   m.step_m = length / static_cast<double>(n);
   // A level segment track has no grade or elevation and an unbanked one no bank (Mesh: empty,
   // read as 0): those are not laid out at all (a profile's are, and kept where not all 0).
-  const bool graded =
+  const bool graded = lapped || std::any_of(track.segments.begin(), track.segments.end(),
+                                            [](const Segment& g) { return g.grade != 0.0; });
+  const bool bank =
       lapped || std::any_of(track.segments.begin(), track.segments.end(),
-                            [](const Segment& g) { return g.grade != 0.0; });
-  const bool bank = lapped || std::any_of(track.segments.begin(), track.segments.end(),
-                                          [](const Segment& g) { return g.signed_bank_rad() != 0.0; });
+                            [](const Segment& g) { return g.signed_bank_rad() != 0.0; });
   for (auto* v : {&m.s_m, &m.x_m, &m.y_m, &m.heading_rad, &m.curvature_1pm})
     resize_ready(*v, n + 1);
   if (graded)

@@ -165,11 +165,11 @@ RacingLine min_curvature_line(const LineReference& ref, const LineOptions& o,
   // No room somewhere: named at the narrowest point.
   if (const std::size_t i = ref.narrowest(); line.lower_m[i] > line.upper_m[i])
     throw InvalidInput(
-        ref.subject,
-        broken_rule("line", "the track is " + metres(ref.width_m(i), 2) + " m wide at " +
-                                metres(ref.s_m[i], 1) + " m, its narrowest, less than the vehicle's " +
-                                metres(o.vehicle_width_m, 2) + " m and a margin of " +
-                                metres(o.margin_m, 2) + " m each side"));
+        ref.subject, broken_rule("line", "the track is " + metres(ref.width_m(i), 2) +
+                                             " m wide at " + metres(ref.s_m[i], 1) +
+                                             " m, its narrowest, less than the vehicle's " +
+                                             metres(o.vehicle_width_m, 2) + " m and a margin of " +
+                                             metres(o.margin_m, 2) + " m each side"));
   const std::vector<double> w = o.weights.empty() ? std::vector<double>(n, 1.0) : o.weights;
   std::vector<double> alpha(n);
   for (std::size_t i = 0; i < n; ++i)

@@ -63,12 +63,13 @@ std::string config_text(const ConfigCheck& c, const Car& car) {
                     fixed(units::to_kph(c.top_speed_mps), 1) + " km/h (" +
                     limit_text(c.top_speed_limit, car) + ")\n";
   if (c.tyre_peak_load_n)
-    out += "       tyre force peak (load sensitivity): " + fixed(*c.tyre_peak_load_n, 0) +
-           " N a tyre, " +
-           (c.tyre_peak_speed_mps ? "reached at " + fixed(units::to_kph(*c.tyre_peak_speed_mps), 1) +
-                                        " km/h (level straight): faster, more load gives less force"
-                                  : std::string("not within the envelope (level straight)")) +
-           "\n";
+    out +=
+        "       tyre force peak (load sensitivity): " + fixed(*c.tyre_peak_load_n, 0) +
+        " N a tyre, " +
+        (c.tyre_peak_speed_mps ? "reached at " + fixed(units::to_kph(*c.tyre_peak_speed_mps), 1) +
+                                     " km/h (level straight): faster, more load gives less force"
+                               : std::string("not within the envelope (level straight)")) +
+        "\n";
   auto percent = [](const std::optional<double>& v) {
     return v ? fixed(100 * *v, 1) : std::string("-");
   };
@@ -162,8 +163,8 @@ std::string track_text(const Car& car, double rated_w, const Circuit& t, const T
   if (tc.shown) out += "       " + quality_line(tc.qualities[*tc.shown]) + "\n";
   std::vector<std::vector<std::string>> trows;
   for (const TrackConfigCheck& c : tc.configs)
-    trows.push_back({c.config, fixed(units::to_kph(c.top_speed_mps), 1),
-                     limit_text(c.top_speed_limit, car)});
+    trows.push_back(
+        {c.config, fixed(units::to_kph(c.top_speed_mps), 1), limit_text(c.top_speed_limit, car)});
   out += text_table({"config", "top speed km/h (this air, level)", "limit"}, trows);
   return out;
 }
@@ -189,8 +190,9 @@ void config_json(JsonWriter& j, const ConfigCheck& c) {
       .field("top_speed_limit", top_speed_limit_name(c.top_speed_limit));
   optional_value(j, "tyre_peak_load_n", c.tyre_peak_load_n);
   optional_value(j, "tyre_peak_kph",
-                 c.tyre_peak_speed_mps ? std::optional<double>(units::to_kph(*c.tyre_peak_speed_mps))
-                                       : std::nullopt);
+                 c.tyre_peak_speed_mps
+                     ? std::optional<double>(units::to_kph(*c.tyre_peak_speed_mps))
+                     : std::nullopt);
   j.key("at_speeds").begin_array();
   for (const AeroAtSpeed& s : c.at_speeds) {
     j.begin_object()

@@ -1042,7 +1042,8 @@ std::string html_report(const ReportInput& in) {
       rows.push_back({nm(circuits[s.track].track.name, track_chars), nm(car.configs[s.config].name),
                       fixed(s.lap_time_s, 3), fixed(0.1 * s.dt_dcla_s_per_m2, 4),
                       fixed(0.1 * s.dt_dcda_s_per_m2, 4), fixed(10 * s.dt_dmass_s_per_kg, 4),
-                      fixed(s.dt_dpower_s_per_percent, 4), s.breakeven_dcda_per_dcla ? fixed(*s.breakeven_dcda_per_dcla, 3) : "-"});
+                      fixed(s.dt_dpower_s_per_percent, 4),
+                      s.breakeven_dcda_per_dcla ? fixed(*s.breakeven_dcda_per_dcla, 3) : "-"});
     o += "<section id=\"trade\"><h2>Sensitivities</h2>" +
          table(escaped({"track", "config", "lap s", "s per +0.1 m2 ClA", "s per +0.1 m2 CdA",
                         "s per +10 kg", "s per +1 % power", "CdA m2 one m2 of ClA may cost"}),

@@ -425,8 +425,7 @@ double axle_brake_accel(const Envelope& env, double u, double k, const Road& roa
   });
 }
 
-double axle_steady_excess(const Envelope& env, double v, double k, const Road& road,
-                          bool trimmed) {
+double axle_steady_excess(const Envelope& env, double v, double k, const Road& road, bool trimmed) {
   const double u = v * v;
   const Forces a = forces_at(env, u, k, road, trimmed);
   const AxleLoads l =

@@ -1118,8 +1118,9 @@ void LapSolver::speed_pass(const Envelope& env, const Mesh& mesh, double start_s
   for (std::size_t i = 0; i < n; ++i) {
     const double v = std::min(fwd.speed_mps[i], bwd.speed_mps[i]);
     lap.speed_mps[i] = v;
-    lap.phase[i] = classify_phase(v >= steady[i] * (1.0 - phase_on_limit),
-                                  bwd.speed_mps[i] < fwd.speed_mps[i], steady_.limit[i], fwd.cut[i]);
+    lap.phase[i] =
+        classify_phase(v >= steady[i] * (1.0 - phase_on_limit), bwd.speed_mps[i] < fwd.speed_mps[i],
+                       steady_.limit[i], fwd.cut[i]);
   }
 
   // Time: sum of 2 ds / (v_i + v_{i+1}), exact for a constant acceleration over each step

@@ -362,14 +362,11 @@ LapSummary summarize(const Lap& lap, const Mesh& mesh, const Track& track,
   s.braking_fraction = brake / lap.lap_time_s;
   if (full_detail) {
     s.warnings = lap_range_warnings(env, lap, mesh);
-    if (std::optional<std::string> w = over_usage_warning(env, lap, mesh))
-      s.warnings.push_back(*w);
-    if (std::optional<std::string> w = tyre_peak_warning(env, lap, mesh))
-      s.warnings.push_back(*w);
+    if (std::optional<std::string> w = over_usage_warning(env, lap, mesh)) s.warnings.push_back(*w);
+    if (std::optional<std::string> w = tyre_peak_warning(env, lap, mesh)) s.warnings.push_back(*w);
   }
 
-  const std::vector<double> sectors =
-      full_detail ? lapped_sectors_m(track) : std::vector<double>{};
+  const std::vector<double> sectors = full_detail ? lapped_sectors_m(track) : std::vector<double>{};
   for (std::size_t k = 0; k < sectors.size(); ++k) {
     const double a = sectors[k];
     const double b = k + 1 < sectors.size() ? sectors[k + 1] : mesh.length_m;

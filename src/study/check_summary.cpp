@@ -42,8 +42,8 @@ void tyre_peak(const Envelope& env, ConfigCheck& c) {
   const Car& car = env.car();
   const bool axle = car.model == VehicleModel::axle;
   auto heaviest = [&](double v) {
-    const AxleLoads l = axle_loads(car, env.drag_n(v), env.downforce_n(v), env.aero_balance(v),
-                                   1.0, 0.0, 0.0);
+    const AxleLoads l =
+        axle_loads(car, env.drag_n(v), env.downforce_n(v), env.aero_balance(v), 1.0, 0.0, 0.0);
     return axle ? 0.5 * std::max(l.front_n, l.rear_n) : 0.25 * (l.front_n + l.rear_n);
   };
   const double top = env.max_speed_mps();

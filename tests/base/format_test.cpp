@@ -6,10 +6,10 @@
 #include <cstdio>
 #include <cstdlib>
 #include <cstring>
-#include <random>
-#include <string>
 #include <limits>
+#include <random>
 #include <stdexcept>
+#include <string>
 
 #include "lapwing/base/format.hpp"
 

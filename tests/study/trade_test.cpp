@@ -111,7 +111,8 @@ TEST_CASE("signs: downforce pays on the tight track, drag and mass cost everywhe
   }
   // Common practice (REFERENCES, facts of the trade): drag weighs most where straights are
   // long, so one m2 of downforce may cost less drag at the fast track than at the tight one.
-  REQUIRE((t.sensitivities[0].breakeven_dcda_per_dcla && t.sensitivities[1].breakeven_dcda_per_dcla));
+  REQUIRE(
+      (t.sensitivities[0].breakeven_dcda_per_dcla && t.sensitivities[1].breakeven_dcda_per_dcla));
   CHECK(*t.sensitivities[1].breakeven_dcda_per_dcla < *t.sensitivities[0].breakeven_dcda_per_dcla);
 }
 
@@ -128,7 +129,8 @@ TEST_CASE("no exchange rate where more drag does not cost: the skid pad's drag m
   CHECK(s.dt_dcda_s_per_m2 < 0.0);
   CHECK(s.dt_dcla_s_per_m2 < 0.0);
   CHECK_FALSE(s.breakeven_dcda_per_dcla);
-  CHECK(trade_json(car, t, circuits).find("\"breakeven_dcda_per_dcla\": null") != std::string::npos);
+  CHECK(trade_json(car, t, circuits).find("\"breakeven_dcda_per_dcla\": null") !=
+        std::string::npos);
 }
 
 TEST_CASE("attribution: ClA and CdA terms plus the residual make the lap-time difference") {
