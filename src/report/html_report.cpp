@@ -770,8 +770,13 @@ std::string trade_plot(const Circuit& c, const TradeGrid& g, const Trade& t, con
   p.overlay("<g clip-path=\"url(#trade-map-" + escape(c.track.id) + "-clip)\">" + config_labels +
             "</g>\n");
   p.add(marks);
-  p.key({"break-even: " + car.configs[g.config].name,
-         "<line x1=\"0\" y1=\"5\" x2=\"16\" y2=\"5\" class=\"breakeven\"/>"});
+  // The break-even line is drawn only where there is an exchange (Sensitivity).
+  const bool breakeven = std::any_of(t.sensitivities.begin(), t.sensitivities.end(), [&](const auto& s) {
+    return s.track == g.track && s.config == g.config && s.breakeven_dcda_per_dcla.has_value();
+  });
+  if (breakeven)
+    p.key({"break-even: " + car.configs[g.config].name,
+           "<line x1=\"0\" y1=\"5\" x2=\"16\" y2=\"5\" class=\"breakeven\"/>"});
   p.key({"equal lap time (s)", "<line x1=\"0\" y1=\"5\" x2=\"16\" y2=\"5\" class=\"contour\"/>"});
   p.overlay(svg::colour_bar("trade-map-" + c.track.id + "-ramp", sx.p1 + 16, sy.p1 + 90, 14, 200,
                             tmin, tmax, false, "lap time (s)"));
@@ -782,9 +787,10 @@ std::string trade_plot(const Circuit& c, const TradeGrid& g, const Trade& t, con
           "equal lap times, labelled in s). Every config is marked at its operating point "
           "with its own lap time; the others differ from " +
           car.configs[g.config].name +
-          " in more than ClA and CdA (balance, mass). The dashed line is the break-even "
-          "through " +
-          car.configs[g.config].name + ": above it extra downforce costs more drag than it pays.");
+          " in more than ClA and CdA (balance, mass)." +
+          (breakeven ? " The dashed line is the break-even through " + car.configs[g.config].name +
+                           ": above it extra downforce costs more drag than it pays."
+                     : " No break-even line: here downforce does not pay or drag does not cost."));
 }
 
 std::string verdict_html(const std::string& track_name, const Comparison::PerTrack& pt,
