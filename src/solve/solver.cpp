@@ -416,7 +416,6 @@ class Sweeper {
         i_(start),
         v_(v_start) {
     resize_ready(r_.speed_mps, n_);  // every point is written on the way
-    r_.clipped.assign(n_, 0);
     r_.speed_mps[start] = v_;
     if (forward_) {
       r_.cut.assign(n_, 0);
@@ -564,10 +563,9 @@ class Sweeper {
       throw CannotMove("the car stops at " + where(mesh_, j) +
                        ": drive cannot overcome the resistance there");
     double v_next = std::sqrt(u);
-    if (v_next >= limit_[j] * (1.0 - clip_tolerance)) {
-      v_next = limit_[j];
-      r_.clipped[j] = 1;
-    }
+    // Where the limit, not the integration, gives the speed.
+    const bool clipped = v_next >= limit_[j] * (1.0 - clip_tolerance);
+    if (clipped) v_next = limit_[j];
     if (forward_) {
       const double dt = 2.0 * ds_ / (v_ + v_next);
       if (cut_left_s_ > 0.0) {
@@ -583,7 +581,7 @@ class Sweeper {
         // follows the speed down only where a limit, not the drive, set the speed.
         const int best = env_.gear(v_next);
         if (best > gear_ && shift_time_ > 0.0) cut_left_s_ = shift_time_;
-        if (best > gear_ || r_.clipped[j]) gear_ = best;
+        if (best > gear_ || clipped) gear_ = best;
       }
       r_.gear[j] = gear_;
     }
@@ -596,7 +594,6 @@ class Sweeper {
     if (mesh_.closed) {
       // The seam: point n-1 is point 0 again.
       r_.speed_mps[n_ - 1] = r_.speed_mps[0];
-      r_.clipped[n_ - 1] = r_.clipped[0];
       if (forward_) {
         r_.cut[n_ - 1] = r_.cut[0];
         r_.gear[n_ - 1] = r_.gear[0];

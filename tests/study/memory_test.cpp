@@ -71,7 +71,7 @@ TEST_CASE("bytes per mesh point: every vector a mesh, a lap and a sweep hold is 
   const SteadyProfile& steady = full.steady();
   const std::vector<double>& limit = steady.speed_mps;
   auto sweep_bytes = [](const SweepResult& s) {
-    return bytes(s.speed_mps) + bytes(s.clipped) + bytes(s.cut) + bytes(s.gear);
+    return bytes(s.speed_mps) + bytes(s.cut) + bytes(s.gear);
   };
   const std::size_t state = bytes(steady.speed_mps) + bytes(steady.limit) +
                             sweep_bytes(sweep(env, m, Sweep::forward, limit, 0, 10)) +

@@ -96,14 +96,13 @@ inline constexpr Integrator default_integrator = Integrator::exponential;
 /// Integrates u = v^2 along the mesh in one direction: forward under drive (with the drive cut
 /// for shift_time after each upshift), backward under braking. Every point is clipped to
 /// `limit`. `start` is the mesh index to begin at and `v_start` its speed; closed meshes wrap.
-/// `clipped[i]` is set where the limit, not the integration, gave the speed; `cut[i]` where the
-/// drive was cut for a shift over the step that reached i (forward only).
+/// `cut[i]` is set where the drive was cut for a shift over the step that reached i (forward
+/// only).
 /// `gear[i]` is the gear engaged on reaching i (forward only). A backward sweep leaves `cut`
 /// and `gear` empty.
 enum class Sweep { forward, backward };
 struct SweepResult {
   std::vector<double> speed_mps;
-  std::vector<std::uint8_t> clipped;
   std::vector<std::uint8_t> cut;  // forward only (empty backward)
   std::vector<int>
       gear;  // gear engaged (forward only, empty backward; 0 for an ideal transmission)
