@@ -212,6 +212,21 @@ double highest_feasible(F f, double v_max, double hint, double width = 0.02) {
       .first;
 }
 
+// Whether the tyres hold the car at v on a point of curvature |curv| and its road: their usage
+// less 1 (<= 0: they do), (|R| / Fx_max)^n + (|F_y| / Fy_max)^n with R the resistance that
+// holds v and F_y the lateral demand (m v^2 |kappa| on a flat road); with the axle model on
+// the axle that saturates first (axle_steady_excess). The steady grip limit's test, and the
+// level-road traction limit's.
+double grip_excess(const Envelope& env, bool axle, double v, double curv, const Road& road,
+                   bool trimmed) {
+  if (axle) return axle_steady_excess(env, v, curv, road, trimmed);
+  const TyreModel& tyres = env.tyres();
+  const Envelope::RoadForces f = env.road_forces(env.rows(trimmed), v * v, curv, road);
+  return tyres.usage(std::abs(f.resistance_n) / tyres.fx_max(f.normal_n),
+                     std::abs(f.lateral_n) / tyres.fy_max(f.normal_n)) -
+         1.0;
+}
+
 // The grip limit's guess at a point of curvature `k` from the last two points of the same road
 // (k1, v1 the last, k0, v0 the one before): w = 1 / v^2 is nearly affine in |kappa| (mu (m g +
 // L v^2) = m v^2 kappa gives w = (m kappa - mu L) / (mu m g), L the downforce per v^2), so its
@@ -266,7 +281,6 @@ void steady_halves(const Envelope& env, const Mesh& mesh, SteadyProfile& p, Seco
 void steady_points(const Envelope& env, const Mesh& mesh, SteadyProfile& p, std::size_t lo,
                    std::size_t hi) {
   const double v_max = env.max_speed_mps();
-  const TyreModel& tyres = env.tyres();
   const bool axle = env.car().model == VehicleModel::axle;
   const LevelTables* tables = axle ? env.level_tables() : nullptr;
   double last_curv = std::nan("");
@@ -316,28 +330,15 @@ void steady_points(const Envelope& env, const Mesh& mesh, SteadyProfile& p, std:
       have_two = !road_changed;
       const double hint = guess > 0.0 ? guess : v_grip;
       const double width = guess > 0.0 ? extrapolated_width : 0.02;
-      // Tyres: (|R| / Fx_max)^n + (|F_y| / Fy_max)^n <= 1, R = resistance to hold v, F_y the
-      // lateral demand (m v^2 |kappa| on a flat road). With the axle model, on the axle that
-      // saturates first.
-      // On a level road in still air the axle model's Envelope has the grip limit in a table
-      // (LevelTables::steady_grip_speed).
-      const Envelope::Rows rows = env.rows(false);
+      // Tyres (grip_excess). On a level road in still air the axle model's Envelope has the
+      // grip limit in a table (LevelTables::steady_grip_speed).
       double v_table = 0.0;
       if (tables && level_in_still_air(road) && tables->steady_grip_speed(curv, v_table))
         v_grip = v_table;
       else
         v_grip =
-            axle
-                ? highest_feasible([&](double v) { return axle_steady_excess(env, v, curv, road); },
-                                   v_max, hint, width)
-                : highest_feasible(
-                      [&](double v) {
-                        const Envelope::RoadForces f = env.road_forces(rows, v * v, curv, road);
-                        return tyres.usage(std::abs(f.resistance_n) / tyres.fx_max(f.normal_n),
-                                           std::abs(f.lateral_n) / tyres.fy_max(f.normal_n)) -
-                               1.0;
-                      },
-                      v_max, hint, width);
+            highest_feasible([&](double v) { return grip_excess(env, axle, v, curv, road, false); },
+                             v_max, hint, width);
     }
     last_road = road;
     last_curv = curv;
@@ -363,20 +364,9 @@ double level_traction_speed_mps(const Envelope& env) {
   const Road level{};
   // With the straight-line trim where the config has one, as Envelope's level top speed.
   const bool trimmed = env.has_trim();
-  if (env.car().model == VehicleModel::axle)
-    return highest_feasible(
-        [&](double v) { return axle_steady_excess(env, v, 0.0, level, trimmed); },
-        env.max_speed_mps(), 0.0);
-  const TyreModel& tyres = env.tyres();
-  const Envelope::Rows rows = env.rows(trimmed);
-  return highest_feasible(
-      [&](double v) {
-        const Envelope::RoadForces f = env.road_forces(rows, v * v, 0.0, level);
-        return tyres.usage(std::abs(f.resistance_n) / tyres.fx_max(f.normal_n),
-                           std::abs(f.lateral_n) / tyres.fy_max(f.normal_n)) -
-               1.0;
-      },
-      env.max_speed_mps(), 0.0);
+  const bool axle = env.car().model == VehicleModel::axle;
+  return highest_feasible([&](double v) { return grip_excess(env, axle, v, 0.0, level, trimmed); },
+                          env.max_speed_mps(), 0.0);
 }
 
 namespace {
