@@ -44,6 +44,14 @@ std::string where(const ErrorPeak& p) {
   return "before the line";
 }
 
+// The share of a sector the log covers, "100 %" when all of it (to the metre).
+std::string sector_logged(const SectorError& s) {
+  const double length = s.end_m - s.start_m;
+  return s.covered_m >= length - 1e-6 * std::max(1.0, length)
+             ? "100 %"
+             : fixed(std::min(99.9, 100.0 * s.covered_m / length), 1) + " %";
+}
+
 // A number, or null where it is not a number (a standard error not found).
 void number_or_null(JsonWriter& w, std::string_view key, double v) {
   optional_field(w, key, std::isfinite(v) ? std::optional<double>(v) : std::nullopt);
@@ -58,7 +66,7 @@ std::string correlate_text(const Circuit& circuit, const Correlation& c) {
        "scale " +
        fixed(c.alignment.scale, 4) + ", speed correlation " + fixed(c.alignment.correlation, 4) +
        ", " + fixed(100.0 * c.coverage, 1) + " % of the track covered\n";
-  if (const auto w = alignment_warning(c.alignment)) o += "warning: " + *w + "\n";
+  for (const std::string& w : c.warnings) o += "warning: " + w + "\n";
   o += "lap      simulated " + fixed(c.lap_time_sim_s, 3) + " s, logged " +
        fixed(c.lap_time_log_s, 3) + " s, difference " +
        signed_fixed(c.lap_time_sim_s - c.lap_time_log_s, 3) + " s (sim - log)" +
@@ -71,9 +79,11 @@ std::string correlate_text(const Circuit& circuit, const Correlation& c) {
   for (std::size_t k = 0; k < c.sectors.size(); ++k) {
     const SectorError& s = c.sectors[k];
     rows.push_back({std::to_string(k + 1), fixed(s.start_m, 0) + "-" + fixed(s.end_m, 0),
-                    fixed(s.sim_s, 3), fixed(s.log_s, 3), signed_fixed(s.error_s, 3)});
+                    sector_logged(s), fixed(s.sim_s, 3), fixed(s.log_s, 3),
+                    signed_fixed(s.error_s, 3)});
   }
-  o += text_table({"sector", "m", "sim s", "log s", "error s"}, rows) + "\n";
+  o += text_table({"sector", "m", "logged", "sim s", "log s", "error s"}, rows) +
+       "(sector times over the part of each sector the log covers)\n\n";
   rows.clear();
   for (const CornerError& e : c.corners) {
     const auto b = e.braking_error_m();
@@ -115,7 +125,7 @@ std::string correlate_json(const std::string& car_name, const std::string& confi
       .field("coverage", c.coverage)
       .field("covered_length_m", c.covered_length_m);
   w.key("warnings").begin_array();
-  if (const auto warning = alignment_warning(c.alignment)) w.value(*warning);
+  for (const std::string& warning : c.warnings) w.value(warning);
   w.end_array();
   w.key("sectors").begin_array();
   for (const SectorError& s : c.sectors)
@@ -125,6 +135,7 @@ std::string correlate_json(const std::string& car_name, const std::string& confi
         .field("sim_s", s.sim_s)
         .field("log_s", s.log_s)
         .field("error_s", s.error_s)
+        .field("covered_length_m", s.covered_m)
         .end_object();
   w.end_array();
   w.key("corners").begin_array();
@@ -200,14 +211,17 @@ std::string fit_text(const FitResult& r, const std::vector<std::string>& log_nam
   for (std::size_t l = 0; l < log_names.size(); ++l)
     rows.push_back({log_names[l], fixed(r.final_alignments[l].offset_m, 2),
                     fixed(r.final_alignments[l].scale, 4),
+                    fixed(r.final_alignments[l].correlation, 4),
                     fixed(units::to_kph(r.rms_before_mps[l]), 2),
                     fixed(units::to_kph(r.rms_after_mps[l]), 2)});
-  rows.push_back({"all", "", "", fixed(units::to_kph(r.rms_before_mps_all), 2),
+  rows.push_back({"all", "", "", "", fixed(units::to_kph(r.rms_before_mps_all), 2),
                   fixed(units::to_kph(r.rms_after_mps_all), 2)});
-  o += text_table({"log", "offset m", "scale", "RMS before km/h", "RMS after km/h"}, rows);
+  o += text_table({"log", "offset m", "scale", "speed r", "RMS before km/h", "RMS after km/h"},
+                  rows);
   o += "solver   " + std::to_string(r.rounds) + (r.rounds > 1 ? " rounds" : " round") +
        " of fit and alignment, " + std::to_string(r.iterations) + " iterations, " +
        std::to_string(r.laps_solved) + " laps solved: " + r.termination + "\n";
+  for (const std::string& w : r.warnings) o += "warning: " + w + "\n";
   if (!r.covariance_found)
     o += "warning: the covariance could not be found (the logs do not determine every "
          "parameter): no standard errors\n";
@@ -248,6 +262,7 @@ std::string fit_json(const std::string& car_name, const std::string& config,
         .field("track", track_names[l])
         .field("offset_m", r.final_alignments[l].offset_m)
         .field("scale", r.final_alignments[l].scale)
+        .field("speed_correlation", r.final_alignments[l].correlation)
         .field("rms_before_kph", units::to_kph(r.rms_before_mps[l]))
         .field("rms_after_kph", units::to_kph(r.rms_after_mps[l]))
         .end_object();
@@ -261,6 +276,10 @@ std::string fit_json(const std::string& car_name, const std::string& config,
     w.field("advice", p.advice).end_object();
   }
   w.end_array();
+  w.key("warnings").begin_array();
+  for (const std::string& warning : r.warnings) w.value(warning);
+  w.end_array();
+  w.field("rounds", r.rounds).field("settled", r.settled);
   w.field("iterations", r.iterations).end_object();
   return w.str();
 }

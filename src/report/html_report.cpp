@@ -320,31 +320,49 @@ std::string delta_plot(const TrackView& v) {
 // the points the log covers (decimated as the other traces).
 std::string correlation_section(const Circuit& c, const Lap& lap, const Correlation& k) {
   const Mesh& mesh = c.mesh;
-  Series sim{"simulated", {}, {}, 0, false, 1.6}, log{"logged", {}, {}, 1, false, 1.2};
-  Series delta{"sim - log", {}, {}, 0, false, 1.6};
-  for (std::size_t i : picks(mesh.size(), trace_points)) {
-    if (!k.covered[i]) continue;
-    sim.x.push_back(mesh.s_m[i]);
-    sim.y.push_back(units::to_kph(lap.speed_mps[i]));
-    log.x.push_back(mesh.s_m[i]);
-    log.y.push_back(units::to_kph(k.log_speed_mps[i]));
-    delta.x.push_back(mesh.s_m[i]);
-    delta.y.push_back(k.time_delta_s[i]);
-  }
   Plot speed("correlate-speed", "Speed, simulated and logged: " + shorten_middle(c.track.name, 60),
              "distance (m)", "speed (km/h)", trace_width, 320);
-  speed.add(std::move(sim));
-  speed.add(std::move(log));
   Plot dt("correlate-delta", "Time difference, simulated - logged", "distance (m)",
           "cumulative delta (s)", trace_width, 300);
-  dt.add(std::move(delta));
+  // One line per run of covered points: nothing is drawn across a stretch the log does not
+  // cover (a gap in it), and each trace is in the legend once.
+  std::size_t runs = 0;
+  const std::vector<std::size_t> shown = picks(mesh.size(), trace_points);
+  for (std::size_t p = 0; p < shown.size();) {
+    if (!k.covered[shown[p]]) {
+      ++p;
+      continue;
+    }
+    Series sim{"simulated", {}, {}, 0, false, 1.6}, log{"logged", {}, {}, 1, false, 1.2};
+    Series delta{"sim - log", {}, {}, 0, false, 1.6};
+    sim.in_legend = log.in_legend = delta.in_legend = runs++ == 0;
+    for (; p < shown.size(); ++p) {
+      const std::size_t i = shown[p];
+      if (!k.covered[i]) break;
+      // Points skipped by the decimation must be covered too, or the run ends here.
+      if (!sim.x.empty()) {
+        bool all = true;
+        for (std::size_t j = shown[p - 1]; j <= i; ++j) all = all && k.covered[j];
+        if (!all) break;
+      }
+      sim.x.push_back(mesh.s_m[i]);
+      sim.y.push_back(units::to_kph(lap.speed_mps[i]));
+      log.x.push_back(mesh.s_m[i]);
+      log.y.push_back(units::to_kph(k.log_speed_mps[i]));
+      delta.x.push_back(mesh.s_m[i]);
+      delta.y.push_back(k.time_delta_s[i]);
+    }
+    speed.add(std::move(sim));
+    speed.add(std::move(log));
+    dt.add(std::move(delta));
+  }
   for (const CornerSpan& span : c.corners) {
     speed.marker(mesh.s_m[span.start], std::to_string(span.id));
     dt.marker(mesh.s_m[span.start], std::to_string(span.id));
   }
   std::string o = "<section id=\"correlation\"><h2>Against the log</h2>\n";
-  if (const auto w = alignment_warning(k.alignment))
-    o += "<p class=\"quality\"><strong>warning:</strong> " + escape(*w) + "</p>\n";
+  for (const std::string& w : k.warnings)
+    o += "<p class=\"quality\"><strong>warning:</strong> " + escape(w) + "</p>\n";
   o +=
       table(escaped({"", "value"}),
             {{"alignment", escape("offset " + fixed(k.alignment.offset_m, 2) + " m, scale " +

@@ -3,6 +3,7 @@
 #include <algorithm>
 #include <cassert>
 #include <cmath>
+#include <limits>
 #include <string>
 
 #include "lapwing/base/error.hpp"
@@ -61,13 +62,16 @@ Grid sim_grid(const Mesh& mesh, const std::vector<double>& speed, double h) {
 struct LogSamples {
   std::vector<double> d, v;
 };
-LogSamples log_samples(const LoggedSpeed& log, double h) {
+// Nothing is sampled inside the log's gaps (log_gaps): a line drawn across one is not logged.
+LogSamples log_samples(const LoggedSpeed& log, const std::vector<std::uint8_t>& gaps, double h) {
   LogSamples out;
   const double d0 = log.distance_m.front(), d1 = log.distance_m.back();
   AxisWalk walk(log.distance_m);
   for (double d = d0; d <= d1; d += h) {
+    const Bracket b = walk.at(d);
+    if (gaps[b.i] && b.w > 0.0 && b.w < 1.0) continue;
     out.d.push_back(d);
-    out.v.push_back(at(log.speed_mps, walk.at(d)));
+    out.v.push_back(at(log.speed_mps, b));
   }
   return out;
 }
@@ -120,23 +124,64 @@ std::vector<double> smoothed(const std::vector<double>& v, const std::vector<std
   return out;
 }
 
-// Where the speed peaks between `from` and `apex` (indices), if it falls enough to the apex.
+// The mesh indices from `from` to `apex`; on a closed track with from > apex, round the line
+// (the last point, the line again, left out: point 0 stands for it).
+std::vector<std::size_t> span_to_apex(const Mesh& mesh, std::size_t from, std::size_t apex) {
+  std::vector<std::size_t> out;
+  if (from > apex && mesh.closed) {
+    for (std::size_t i = from; i + 1 < mesh.size(); ++i) out.push_back(i);
+    from = 0;
+  }
+  for (std::size_t i = std::min(from, apex); i <= apex; ++i) out.push_back(i);
+  return out;
+}
+
+// Where the speed peaks over `span` (indices ending at the apex), if it falls enough to the apex:
+// its distance, negative (before the line) for a point reached round the line.
 std::optional<double> braking_point(const std::vector<double>& v, const Mesh& mesh,
-                                    std::size_t from, std::size_t apex) {
-  std::size_t peak = apex;
-  for (std::size_t i = from; i <= apex; ++i)
-    if (v[i] > v[peak]) peak = i;
-  if (v[peak] - v[apex] < braking_min_drop_mps) return std::nullopt;
-  return mesh.s_m[peak];
+                                    const std::vector<std::size_t>& span) {
+  const std::size_t apex = span.back();
+  std::size_t peak = span.size() - 1;
+  for (std::size_t k = 0; k < span.size(); ++k)
+    if (v[span[k]] > v[span[peak]]) peak = k;
+  if (v[span[peak]] - v[apex] < braking_min_drop_mps) return std::nullopt;
+  const std::size_t i = span[peak];
+  return i > apex ? mesh.s_m[i] - mesh.length_m : mesh.s_m[i];
+}
+
+// A row's interval in time, 2 ds / (v_a + v_b) (infinite where the car stands: no interval).
+double interval_s(const LoggedSpeed& log, std::size_t i) {
+  const double vsum = log.speed_mps[i] + log.speed_mps[i + 1];
+  const double ds = log.distance_m[i + 1] - log.distance_m[i];
+  return vsum > 0.0 ? 2.0 * ds / vsum : std::numeric_limits<double>::infinity();
 }
 
 }  // namespace
 
-std::optional<std::string> alignment_warning(const Alignment& a) {
-  if (a.correlation >= correlate_min_trusted_correlation) return std::nullopt;
-  return "the log's speed correlates with the lap's at only " + fixed(a.correlation, 2) +
-         " at its best alignment: the alignment and every comparison on it are not to be "
-         "trusted (is the log of this track, and does its speed vary?)";
+std::vector<std::string> alignment_warnings(const Alignment& a) {
+  std::vector<std::string> out;
+  if (a.correlation < correlate_min_trusted_correlation)
+    out.push_back("the log's speed correlates with the lap's at only " + fixed(a.correlation, 2) +
+                  " at its best alignment: the alignment and every comparison on it are not to "
+                  "be trusted (is the log of this track, and does its speed vary?)");
+  // The finest grid's half step (0.01 %) from the edge: the search stopped there.
+  if (std::abs(a.scale - 1.0) > alignment_max_scale_error - 0.5e-4)
+    out.push_back("the alignment's scale, " + fixed(a.scale, 4) +
+                  ", is at the edge of its search (" + fixed(100.0 * alignment_max_scale_error, 0) +
+                  " %): the log's distance reads that much off the track's or more, or the log "
+                  "is not of this track; the alignment and every comparison on it are not to be "
+                  "trusted (check the distance channel, or give --time)");
+  return out;
+}
+
+std::vector<std::uint8_t> log_gaps(const LoggedSpeed& log) {
+  const std::size_t m = log.distance_m.size() - 1;
+  std::vector<double> dt(m);
+  for (std::size_t i = 0; i < m; ++i) dt[i] = interval_s(log, i);
+  const double limit = std::max(log_gap_min_s, log_gap_median_factor * median(dt));
+  std::vector<std::uint8_t> gaps(m, 0);
+  for (std::size_t i = 0; i < m; ++i) gaps[i] = !(dt[i] <= limit);
+  return gaps;
 }
 
 Alignment align_log(const LoggedSpeed& log, const Mesh& mesh, const std::vector<double>& speed) {
@@ -145,7 +190,8 @@ Alignment align_log(const LoggedSpeed& log, const Mesh& mesh, const std::vector<
   // on a 2 m grid, as the lap's mesh points are): a log sampled in time holds more rows where it
   // is slow, and its median per row read 1.19 times below the lap's on the bundled survey lap,
   // enough to hide mph read as km/h (1.61) under the 1.45 bound.
-  const LogSamples by_distance = log_samples(log, 2.0);
+  const std::vector<std::uint8_t> gaps = log_gaps(log);
+  const LogSamples by_distance = log_samples(log, gaps, 2.0);
   const double log_median =
       by_distance.v.size() >= 2 ? median(by_distance.v) : median(log.speed_mps);
   const double sim_median = median(speed);
@@ -171,7 +217,7 @@ Alignment align_log(const LoggedSpeed& log, const Mesh& mesh, const std::vector<
   // apart: at the nearest scale the log drifts at most 0.2 % of the lap from the track, which
   // the correlation's peak survives.
   const Grid coarse = sim_grid(mesh, speed, 2.0);
-  const LogSamples lc = log_samples(log, 2.0);
+  const LogSamples lc = log_samples(log, gaps, 2.0);
   Alignment best;
   best.correlation = -2.0;
   const double lo = mesh.closed ? d0 : d0 - 0.5 * L, hi = mesh.closed ? d0 + L : d0 + 0.5 * L;
@@ -196,7 +242,7 @@ Alignment refine_alignment(const LoggedSpeed& log, const Mesh& mesh,
   Alignment best = start;
   // Stages 2 and 3: offset and scale together, around the best, on finer grids.
   const Grid fine = sim_grid(mesh, speed, 0.5);
-  const LogSamples lf = log_samples(log, 0.5);
+  const LogSamples lf = log_samples(log, log_gaps(log), 0.5);
   best.correlation = score(lf, fine, best.offset_m, best.scale).r;
   struct Stage {
     double offset_span, offset_step, scale_span, scale_step;
@@ -219,38 +265,87 @@ Alignment refine_alignment(const LoggedSpeed& log, const Mesh& mesh,
     best.offset_m = d0 + std::fmod(std::fmod(best.offset_m - d0, L / best.scale) + L / best.scale,
                                    L / best.scale);
   const LogOnMesh on = log_on_mesh(log, mesh, best);
+  // Named at the line of the lap compared (a log that starts just after the line: the crossing
+  // just before its first row).
+  best.offset_m = on.lap_start_d;
   const double coverage = static_cast<double>(on.covered_points) / static_cast<double>(mesh.size());
-  if (coverage < correlate_min_coverage)
+  if (coverage < correlate_min_coverage) {
+    // Named at the row after the longest gap when the log has one, else at its last row.
+    std::string why = " (a whole lap, or the whole run of an open track";
+    std::size_t at_row = log.distance_m.size() - 1;
+    if (on.longest_gap_row) {
+      double gap_m = 0.0;
+      for (const auto& g : on.gaps_m) gap_m += g.second - g.first;
+      at_row = *on.longest_gap_row + 1;
+      why += "; " + fixed(gap_m, 0) + " m of it lie in gaps of the log, the longest " +
+             fixed(on.longest_gap_s, 1) + " s without a row before this one";
+    }
     throw InvalidInput(
         log.source,
         broken_rule("",
                     "aligned to the track, the log covers " + fixed(100.0 * coverage, 1) +
                         " % of its " + fixed(L, 1) + " m; a log must cover " +
-                        fixed(100.0 * correlate_min_coverage, 0) +
-                        " % (a whole lap, or the whole run of an open track)",
-                    row("distance_m", log.distance_m.size() - 1)));
+                        fixed(100.0 * correlate_min_coverage, 0) + " %" + why + ")",
+                    row("distance_m", at_row)));
+  }
   return best;
 }
 
 LogOnMesh log_on_mesh(const LoggedSpeed& log, const Mesh& mesh, const Alignment& a) {
-  LogOnMesh out;
-  out.speed_mps.assign(mesh.size(), 0.0);
-  out.covered.assign(mesh.size(), 0);
+  const std::vector<std::uint8_t> gaps = log_gaps(log);
   const double d0 = log.distance_m.front(), d1 = log.distance_m.back();
   const double lap_d = mesh.length_m / a.scale;  // one lap in the log's distance
-  for (std::size_t i = 0; i < mesh.size(); ++i) {
-    // d = s / scale + offset, and for a closed lap the same place a lap earlier or later.
-    double d = mesh.s_m[i] / a.scale + a.offset_m;
-    if (mesh.closed) {
-      if (d > d1) d -= lap_d * std::ceil((d - d1) / lap_d);
-      if (d < d0) d += lap_d * std::ceil((d0 - d) / lap_d);
-    }
-    if (d < d0 || d > d1) continue;
-    out.speed_mps[i] = interpolate(log.distance_m, log.speed_mps, d);
-    out.covered[i] = 1;
-    ++out.covered_points;
+  // The laps (line to line) the log reaches: k = 0 from the crossing at the offset.
+  long k_lo = 0, k_hi = 0;
+  if (mesh.closed) {
+    k_lo = static_cast<long>(std::floor((d0 - a.offset_m) / lap_d));
+    k_hi = static_cast<long>(std::floor((d1 - a.offset_m) / lap_d));
   }
-  return out;
+  auto lap = [&](long k) {
+    LogOnMesh out;
+    out.speed_mps.assign(mesh.size(), 0.0);
+    out.covered.assign(mesh.size(), 0);
+    out.lap_start_d = a.offset_m + static_cast<double>(k) * lap_d;
+    AxisWalk walk(log.distance_m);
+    std::size_t gap_from = mesh.size();  // the first point of the gap being passed
+    for (std::size_t i = 0; i < mesh.size(); ++i) {
+      const double d = mesh.s_m[i] / a.scale + out.lap_start_d;  // d = s / scale + offset
+      if (d < d0 || d > d1) continue;
+      const Bracket b = walk.at(d);
+      if (gaps[b.i] && b.w > 0.0 && b.w < 1.0) {
+        if (gap_from == mesh.size()) gap_from = i;
+        const double dt = interval_s(log, b.i);
+        if (!out.longest_gap_row || dt > out.longest_gap_s) {
+          out.longest_gap_row = b.i;
+          out.longest_gap_s = dt;
+        }
+        continue;
+      }
+      if (gap_from < mesh.size()) {
+        out.gaps_m.push_back({mesh.s_m[gap_from - (gap_from > 0)], mesh.s_m[i]});
+        gap_from = mesh.size();
+      }
+      out.speed_mps[i] = at(log.speed_mps, b);
+      out.covered[i] = 1;
+      ++out.covered_points;
+    }
+    if (gap_from < mesh.size())
+      out.gaps_m.push_back({mesh.s_m[gap_from - (gap_from > 0)], mesh.s_m.back()});
+    return out;
+  };
+  LogOnMesh best = lap(k_lo);
+  const auto full = [&](const LogOnMesh& l) {
+    return static_cast<double>(l.covered_points) >=
+           correlate_min_coverage * static_cast<double>(mesh.size());
+  };
+  int full_laps = full(best);
+  for (long k = k_lo + 1; k <= k_hi; ++k) {
+    LogOnMesh next = lap(k);
+    full_laps += full(next);
+    if (next.covered_points > best.covered_points) best = std::move(next);
+  }
+  best.full_laps = full_laps;
+  return best;
 }
 
 Correlation correlate(const Lap& lap, const Circuit& circuit, const LoggedSpeed& log) {
@@ -267,6 +362,23 @@ Correlation correlate(const Lap& lap, const Circuit& circuit, const LoggedSpeed&
   c.log_speed_mps = std::move(on.speed_mps);
   c.covered = std::move(on.covered);
   c.coverage = static_cast<double>(on.covered_points) / static_cast<double>(n);
+  c.warnings = alignment_warnings(alignment);
+  if (!on.gaps_m.empty()) {
+    std::string at;
+    for (const auto& g : on.gaps_m)
+      at += (at.empty() ? "" : ", ") + fixed(g.first, 0) + "-" + fixed(g.second, 0) + " m";
+    c.warnings.push_back("the log has gaps (up to " + fixed(on.longest_gap_s, 1) +
+                         " s without a row) over " + at +
+                         " of the track: not compared or drawn there (a gap: neighbouring rows "
+                         "more than " +
+                         fixed(log_gap_min_s, 1) + " s and " + fixed(log_gap_median_factor, 0) +
+                         " median intervals apart)");
+  }
+  if (on.full_laps > 1)
+    c.warnings.push_back("the log holds " + std::to_string(on.full_laps) +
+                         " laps (line to line); the one from the log's distance " +
+                         fixed(on.lap_start_d, 1) +
+                         " m is compared (the one covering most, the first on a tie)");
   const auto& vs = lap.speed_mps;
   const auto& vl = c.log_speed_mps;
   // RMS over the covered points.
@@ -295,15 +407,19 @@ Correlation correlate(const Lap& lap, const Circuit& circuit, const LoggedSpeed&
   }
   for (std::size_t i = 1; i < n; ++i)
     c.time_delta_s[i] = c.time_delta_s[i - 1] + dt_sim[i - 1] - dt_log[i - 1];
-  // Sectors: intervals by their start's distance.
+  // Sectors: an interval across a sector's boundary shared by the length on either side (time
+  // linear in distance within it, as run's sector times read the lap's time at the boundary).
   const auto& starts = circuit.track.sectors_m;
   for (std::size_t k = 0; k < starts.size(); ++k) {
     SectorError s{starts[k], k + 1 < starts.size() ? starts[k + 1] : mesh.length_m, 0, 0, 0};
-    for (std::size_t i = 0; i + 1 < n; ++i)
-      if (mesh.s_m[i] >= s.start_m && mesh.s_m[i] < s.end_m) {
-        s.sim_s += dt_sim[i];
-        s.log_s += dt_log[i];
-      }
+    for (std::size_t i = 0; i + 1 < n; ++i) {
+      const double a = std::max(s.start_m, mesh.s_m[i]), b = std::min(s.end_m, mesh.s_m[i + 1]);
+      if (!(b > a) || !c.covered[i] || !c.covered[i + 1]) continue;
+      const double share = (b - a) / (mesh.s_m[i + 1] - mesh.s_m[i]);
+      s.sim_s += share * dt_sim[i];
+      s.log_s += share * dt_log[i];
+      s.covered_m += b - a;
+    }
     s.error_s = s.sim_s - s.log_s;
     c.sectors.push_back(s);
   }
@@ -314,27 +430,41 @@ Correlation correlate(const Lap& lap, const Circuit& circuit, const LoggedSpeed&
   // differ in slope (drive gentler than braking), and so moves both peaks the same way.
   const std::vector<std::uint8_t> all_points(n, 1);
   const std::vector<double> vss = smoothed(vs, all_points, mesh, corner_smoothing_m);
-  std::size_t prev_sim_apex = 0, prev_log_apex = 0;
-  for (const CornerSpan& span : circuit.corners) {
+  // Each corner's apexes first: on a closed track the first corner's braking point is sought
+  // from the last corner's apex, round the line.
+  const std::size_t nc = circuit.corners.size();
+  std::vector<std::size_t> sim_apex(nc), log_apex(nc);
+  std::vector<std::uint8_t> corner_covered(nc, 1);
+  for (std::size_t k = 0; k < nc; ++k) {
+    const CornerSpan& span = circuit.corners[k];
     std::size_t sa = span.start, la = span.start;
-    bool all = true;
     for (std::size_t i = span.start; i <= span.end; ++i) {
-      all = all && c.covered[i];
+      corner_covered[k] = corner_covered[k] && c.covered[i];
       if (vs[i] < vs[sa]) sa = i;
       if (vls[i] < vls[la]) la = i;
     }
-    if (all) {
-      CornerError e{span.id,     mesh.s_m[sa],  vs[span.start],
-                    vs[sa],      vs[span.end],  vls[span.start],
-                    vls[la],     vls[span.end], braking_point(vss, mesh, prev_sim_apex, sa),
-                    std::nullopt};
-      bool from_covered = true;
-      for (std::size_t i = prev_log_apex; i <= la; ++i) from_covered = from_covered && c.covered[i];
-      if (from_covered) e.log_braking_m = braking_point(vls, mesh, prev_log_apex, la);
-      c.corners.push_back(e);
-    }
-    prev_sim_apex = sa;
-    prev_log_apex = la;
+    sim_apex[k] = sa;
+    log_apex[k] = la;
+  }
+  for (std::size_t k = 0; k < nc; ++k) {
+    if (!corner_covered[k]) continue;
+    const CornerSpan& span = circuit.corners[k];
+    const std::size_t sa = sim_apex[k], la = log_apex[k];
+    // From the previous corner's apex; the first corner of an open track from the start.
+    const std::size_t prev = k > 0 ? k - 1 : nc - 1;
+    const bool from_start = k == 0 && !mesh.closed;
+    const std::vector<std::size_t> sim_span =
+        span_to_apex(mesh, from_start ? 0 : sim_apex[prev], sa);
+    const std::vector<std::size_t> log_span =
+        span_to_apex(mesh, from_start ? 0 : log_apex[prev], la);
+    CornerError e{span.id,     mesh.s_m[sa],  vs[span.start],
+                  vs[sa],      vs[span.end],  vls[span.start],
+                  vls[la],     vls[span.end], braking_point(vss, mesh, sim_span),
+                  std::nullopt};
+    bool from_covered = true;
+    for (const std::size_t i : log_span) from_covered = from_covered && c.covered[i];
+    if (from_covered) e.log_braking_m = braking_point(vls, mesh, log_span);
+    c.corners.push_back(e);
   }
   // The largest errors, each at least correlate_peak_separation_m from the ones before.
   std::vector<std::uint8_t> taken(n, 0);

@@ -2,6 +2,7 @@
 
 #include <ceres/ceres.h>
 #include <ceres/covariance.h>
+#include <glog/logging.h>
 
 #include <algorithm>
 #include <cassert>
@@ -11,6 +12,7 @@
 #include <memory>
 
 #include "lapwing/base/error.hpp"
+#include "lapwing/base/format.hpp"
 #include "lapwing/base/units.hpp"
 #include "lapwing/solve/envelope.hpp"
 #include "lapwing/study/thread_pool.hpp"
@@ -160,6 +162,20 @@ class PointCost : public ceres::CostFunction {
   std::size_t k_;
 };
 
+// Ceres reports through glog, to stderr, in glog's format ("E... covariance_impl.cc:772] Error:
+// ..." for a rank-deficient covariance, which fit reports in its own words as a warning):
+// silenced while Ceres runs, the level put back after.
+class QuietCeres {
+ public:
+  QuietCeres() : level_(FLAGS_minloglevel) { FLAGS_minloglevel = google::GLOG_FATAL; }
+  ~QuietCeres() { FLAGS_minloglevel = level_; }
+  QuietCeres(const QuietCeres&) = delete;
+  QuietCeres& operator=(const QuietCeres&) = delete;
+
+ private:
+  int level_;
+};
+
 double rms_kph(const std::vector<double>& r, std::size_t from, std::size_t to) {
   double s = 0.0;
   for (std::size_t k = from; k < to; ++k) s += r[k] * r[k];
@@ -248,6 +264,7 @@ std::optional<Violation> FitOptions::validate() const {
       .range("huber_kph", huber_kph, positive(), false)
       .range("residual_spacing_m", residual_spacing_m, positive(), Quantity::length)
       .rule(max_iterations >= 1 && max_iterations <= 200, "max_iterations", "must be 1 to 200")
+      .rule(alignment_rounds >= 1 && alignment_rounds <= 50, "alignment_rounds", "must be 1 to 50")
       .range("separable_limit", separable_limit, Range{0.0, 1.0, true, true}, false)
       .result();
 }
@@ -257,8 +274,9 @@ std::string separation_advice(FitParameter a, FitParameter b) {
   auto is = [&](P x, P y) { return (a == x && b == y) || (a == y && b == x); };
   auto grip = [](P p) { return p == P::grip || p == P::grip_lat || p == P::grip_long; };
   if ((grip(a) && b == P::cla) || (grip(b) && a == P::cla))
-    return "a log of a circuit with fast corners as well as slow ones (downforce grows with "
-           "speed squared, mu does not), or of this one at other wing levels";
+    return "a log of a circuit with fast corners as well as slow ones, fitted with this one "
+           "(downforce grows with speed squared, mu does not); fit takes one config, so a log "
+           "at another wing level is a fit of its own, whose grip should agree";
   if (is(P::power, P::cda))
     return "a log with full-throttle runs ending at different speeds (drag grows with speed "
            "squared, the engine's force falls with it), or a coast-down in neutral (drag alone)";
@@ -268,8 +286,9 @@ std::string separation_advice(FitParameter a, FitParameter b) {
     return "a log with long braking zones as well as long steady corners (braking reads "
            "mu_long, steady corners mu_lat)";
   if (a == P::balance || b == P::balance)
-    return "logs at other wing levels or ride heights (the balance shows where one axle "
-           "limits: fast corners against slow ones)";
+    return "a log of a circuit with fast corners as well as slow ones, fitted with this one "
+           "(the balance shows where one axle limits: fast corners against slow ones); fit takes "
+           "one config, so a log at another wing level is a fit of its own";
   return "a log of another circuit, whose corners and straights weigh the two differently";
 }
 
@@ -348,9 +367,11 @@ FitResult fit(const ConfiguredCar& car, const std::vector<FitLog>& logs,
   ceres::Solver::Summary summary;
   std::vector<std::size_t> first;
   std::size_t n = 0;
-  // Fit and alignment in turn (block coordinate descent): at most fit_alignment_rounds, until
-  // the alignment moves less than 0.05 m and 1e-4 of scale.
-  for (int round = 0; round < fit_alignment_rounds; ++round) {
+  // Fit and alignment in turn (block coordinate descent): at most options.alignment_rounds, until
+  // the alignment moves less than fit_alignment_settled_m and fit_alignment_settled_scale.
+  const QuietCeres quiet;
+  double moved_m = 0.0, moved_scale = 0.0;  // the last round's largest move
+  for (int round = 0; round < options.alignment_rounds; ++round) {
     std::vector<LogPoints> points = points_at(al);
     first.assign(1, 0);
     for (const auto& p : points) first.push_back(first.back() + p.at.size());
@@ -394,24 +415,68 @@ FitResult fit(const ConfiguredCar& car, const std::vector<FitLog>& logs,
     out.laps_solved += all->laps();
     out.termination = summary.message;
     const std::vector<Alignment> next = aligned(fitted_car(car, params, x), &al);
-    bool moved = false;
-    for (std::size_t k = 0; k < al.size(); ++k)
-      moved = moved || std::abs(next[k].offset_m - al[k].offset_m) > 0.05 ||
-              std::abs(next[k].scale - al[k].scale) > 1e-4;
+    moved_m = moved_scale = 0.0;
+    for (std::size_t k = 0; k < al.size(); ++k) {
+      moved_m = std::max(moved_m, std::abs(next[k].offset_m - al[k].offset_m));
+      moved_scale = std::max(moved_scale, std::abs(next[k].scale - al[k].scale));
+    }
     out.rounds = round + 1;
-    if (!moved) break;
-    if (round + 1 < fit_alignment_rounds) al = next;
+    al = next;
+    out.settled = moved_m <= fit_alignment_settled_m && moved_scale <= fit_alignment_settled_scale;
+    if (out.settled) break;
   }
   out.final_alignments = al;
   out.values = x;
-
-  std::vector<double> r1(n);
   out.laps_solved += static_cast<int>(logs.size()) * (out.rounds + 1);  // the alignments' laps
-  if (!all->residuals(x, r1.data()))
-    throw InvalidInput("fit", broken_rule("", "the fitted car cannot lap a track"));
-  for (std::size_t l = 0; l + 1 < first.size(); ++l)
-    out.rms_after_mps.push_back(rms_kph(r1, first[l], first[l + 1]) * units::kph);
-  out.rms_after_mps_all = rms_kph(r1, 0, n) * units::kph;
+
+  // RMS after: the fitted car against the logs at the alignments found with it.
+  {
+    const std::vector<LogPoints> points = points_at(al);
+    std::vector<std::size_t> at(1, 0);
+    for (const auto& p : points) at.push_back(at.back() + p.at.size());
+    Residuals final_points(car, params, points, options.step, options.threads);
+    std::vector<double> r1(final_points.count());
+    if (!final_points.residuals(x, r1.data()))
+      throw InvalidInput("fit", broken_rule("", "the fitted car cannot lap a track"));
+    out.laps_solved += final_points.laps();
+    for (std::size_t l = 0; l + 1 < at.size(); ++l)
+      out.rms_after_mps.push_back(rms_kph(r1, at[l], at[l + 1]) * units::kph);
+    out.rms_after_mps_all = rms_kph(r1, 0, r1.size()) * units::kph;
+  }
+
+  // What the figures must be read with, per log, then of the fit.
+  for (std::size_t k = 0; k < logs.size(); ++k) {
+    const std::string& name = logs[k].log->source;
+    std::vector<std::string> w = alignment_warnings(out.alignments[k]);
+    if (w.empty()) w = alignment_warnings(al[k]);
+    const LogOnMesh on = log_on_mesh(*logs[k].log, logs[k].circuit->mesh, al[k]);
+    if (!on.gaps_m.empty()) {
+      double gap_m = 0.0;
+      for (const auto& g : on.gaps_m) gap_m += g.second - g.first;
+      w.push_back("the log has gaps (up to " + fixed(on.longest_gap_s, 1) +
+                  " s without a row): " + fixed(gap_m, 0) + " m of the track not fitted");
+    }
+    if (on.full_laps > 1)
+      w.push_back("the log holds " + std::to_string(on.full_laps) +
+                  " laps (line to line); the one from the log's distance " +
+                  fixed(on.lap_start_d, 1) + " m is fitted");
+    for (const std::string& s : w) out.warnings.push_back(name + ": " + s);
+  }
+  if (!out.settled)
+    out.warnings.push_back(
+        "the alignment still moved " + fixed(moved_m, 2) + " m (scale " + fixed(moved_scale, 4) +
+        ") in the last of " + std::to_string(options.alignment_rounds) +
+        " rounds of fit and alignment: the factors are fitted to the last round's alignment, "
+        "the RMS after is at the newest; a log far off the starting car's alignment fits better "
+        "from a car nearer the logged one");
+  if (out.rms_after_mps_all > out.rms_before_mps_all)
+    out.warnings.push_back(
+        "the RMS error after the fit, " + fixed(units::to_kph(out.rms_after_mps_all), 2) +
+        " km/h, is above the one before, " + fixed(units::to_kph(out.rms_before_mps_all), 2) +
+        " km/h: the fit lowers the Huber loss (" + fixed(options.huber_kph, 1) +
+        " km/h), in which points far off the model (a lock-up, traffic, a missed apex) weigh "
+        "less than in the RMS; the logs hold such points (correlate's largest errors show them), "
+        "and the factors follow the rest of the lap");
 
   // Covariance of the parameters: Ceres gives (J^T J)^-1 for unit-variance residuals; scaled by
   // the residuals' variance, s^2 = 2 cost / (N - P) (cost = 1/2 sum rho(r^2), the robust one).

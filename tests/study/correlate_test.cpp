@@ -27,14 +27,16 @@ ConfiguredCar medium() {
   return load_car(test::source_path("cars/pellion-fr2.yaml")).configured(1);
 }
 
-// A logged lap made from a solved one: every `every` mesh points, at log distance
-// d = stretch s + offset_m, with Gaussian noise of noise_kph on the speed.
+// A logged lap made from a solved one: every `every` mesh points and the last (the lap logged
+// to the line), at log distance d = stretch s + offset_m, with Gaussian noise of noise_kph on
+// the speed.
 LoggedSpeed log_of(const Lap& lap, const Mesh& mesh, double offset_m, double stretch,
                    double noise_kph, std::size_t every = 2) {
   LoggedSpeed l;
   l.source = "test log";
   test::Noise noise;
-  for (std::size_t i = 0; i < mesh.size(); i += every) {
+  const std::size_t last = mesh.size() - 1;
+  for (std::size_t i = 0; i <= last; i = i < last ? std::min(i + every, last) : last + 1) {
     l.distance_m.push_back(stretch * mesh.s_m[i] + offset_m);
     l.speed_mps.push_back(lap.speed_mps[i] + noise_kph * noise.gauss() * units::kph);
   }
@@ -64,6 +66,11 @@ TEST_CASE("a car's own log, 7 m off and noisy, correlates within its noise") {
   for (const SectorError& s : k.sectors) sim += s.sim_s, logged += s.log_s;
   CHECK(near(sim, k.lap_time_sim_s, 1e-9));
   CHECK(near(logged, k.lap_time_log_s, 1e-9));
+  // Each sector's simulated time is run's (its boundaries, 1150 and 2100 m, fall between mesh
+  // points: an interval across one is shared by length, as run reads the time there).
+  REQUIRE(k.sectors.size() == run.summary.sectors_s.size());
+  for (std::size_t j = 0; j < k.sectors.size(); ++j)
+    CHECK(near(k.sectors[j].sim_s, run.summary.sectors_s[j], 1e-9));
   REQUIRE(k.corners.size() == c.corners.size());
   for (const CornerError& e : k.corners) {
     // Smoothed over 5 m (about 3 log rows), the noise of an apex falls to ~0.3 km/h: 1 km/h.
@@ -175,13 +182,180 @@ TEST_CASE("a log that hardly correlates with the lap at its best alignment is wa
   const LapRun run = run_lap(medium(), c);
   LoggedSpeed flat;
   flat.source = "constant";
-  for (int i = 0; i <= 1500; ++i) {
+  // Two laps long: whatever offset the flat correlation lands on, one lap line to line is in it.
+  for (int i = 0; i <= 3000; ++i) {
     flat.distance_m.push_back(2.0 * i);
     flat.speed_mps.push_back(150.0 * units::kph);
   }
   const Alignment a = align_log(flat, c.mesh, run.lap.speed_mps);
-  REQUIRE(alignment_warning(a).has_value());
-  CHECK(alignment_warning(a)->find("not to be trusted") != std::string::npos);
+  // First the correlation's (a flat log has no best scale either: the edge's may follow).
+  REQUIRE_FALSE(alignment_warnings(a).empty());
+  CHECK(alignment_warnings(a)[0].find("the log's speed correlates with the lap's at only") == 0);
+  CHECK(alignment_warnings(a)[0].find("not to be trusted") != std::string::npos);
   const LoggedSpeed own = log_of(run.lap, c.mesh, 7.0, 1.0, 0.5);
-  CHECK_FALSE(alignment_warning(align_log(own, c.mesh, run.lap.speed_mps)).has_value());
+  CHECK(alignment_warnings(align_log(own, c.mesh, run.lap.speed_mps)).empty());
+}
+
+namespace {
+
+// The log of log_of without its rows between two of its distances (a dropout of the logger).
+LoggedSpeed without_rows(const LoggedSpeed& l, double from_m, double to_m) {
+  LoggedSpeed out;
+  out.source = l.source;
+  for (std::size_t i = 0; i < l.distance_m.size(); ++i)
+    if (l.distance_m[i] < from_m || l.distance_m[i] > to_m) {
+      out.distance_m.push_back(l.distance_m[i]);
+      out.speed_mps.push_back(l.speed_mps[i]);
+    }
+  return out;
+}
+
+}  // namespace
+
+TEST_CASE("a log's gap is not covered: 300 m is refused at the row after it, 40 m is warned of") {
+  // lapwing's own rule (README, "Correlating with your data"): neighbouring rows more than 0.5 s
+  // and 4 median intervals apart leave the track between them unlogged. The car's own lap at
+  // 2 m rows, exact, the line at 7 m of its distance.
+  const Circuit c = brannock();
+  const LapRun run = run_lap(medium(), c);
+  const LoggedSpeed log = log_of(run.lap, c.mesh, 7.0, 1.0, 0.0);
+  // 300 m without a row: 89 % covered, under the 98 % rule; named at the first row after it.
+  const LoggedSpeed gap300 = without_rows(log, 1007.0, 1307.0);
+  try {
+    (void)align_log(gap300, c.mesh, run.lap.speed_mps);
+    FAIL("no error");
+  } catch (const InvalidInput& e) {
+    const std::string what = e.what();
+    CAPTURE(what);
+    CHECK(what.find("covers 89.") != std::string::npos);
+    CHECK(what.find("gaps of the log") != std::string::npos);
+    std::size_t after = 0;
+    while (gap300.distance_m[after] < 1007.0) ++after;
+    CHECK(e.violation().where() == "distance_m[" + std::to_string(after) + "]");
+  }
+  // 40 m (1.5 %): aligned, but not covered there, not compared there, and said.
+  const LoggedSpeed gap40 = without_rows(log, 1007.0, 1047.0);
+  const Correlation k = correlate(run.lap, c, gap40);
+  CHECK(near(k.alignment.offset_m, 7.0, 0.0, 0.1));
+  // The rows around the gap, on the track: the mesh points strictly between them are not
+  // covered (one either way: the alignment's 0.1 m), and the lap times leave out that length.
+  std::size_t b = 0;
+  while (gap40.distance_m[b] < 1007.0) ++b;
+  const double from = gap40.distance_m[b - 1] - 7.0, to = gap40.distance_m[b] - 7.0;
+  REQUIRE(to - from > 40.0);
+  double inside = 0.0;
+  for (std::size_t i = 0; i < c.mesh.size(); ++i)
+    if (c.mesh.s_m[i] > from + 0.5 && c.mesh.s_m[i] < to - 0.5) {
+      CHECK_FALSE(k.covered[i]);
+      inside += 1.0;
+    }
+  const double n = static_cast<double>(c.mesh.size());
+  CHECK(k.coverage <= 1.0 - inside / n);
+  CHECK(k.coverage >= 1.0 - (inside + 2.0) / n);
+  CHECK(near(k.covered_length_m, c.mesh.length_m - (to - from), 0.0, 2.0 * c.mesh.step_m));
+  REQUIRE_FALSE(k.warnings.empty());
+  CHECK(k.warnings.back().find("the log has gaps") != std::string::npos);
+}
+
+TEST_CASE("a log that stops short of the line is not filled from the lap before") {
+  // The log starts 1300 m before the line, on an out-lap at 80 % of the speed, and stops 300 m
+  // before the next line: its flying lap covers 89 % of the track. The out-lap's rows a lap
+  // earlier are not the lap's end (they were used for it, and 100 % read).
+  const Circuit c = brannock();
+  const LapRun run = run_lap(medium(), c);
+  const double L = c.mesh.length_m;
+  LoggedSpeed log;
+  log.source = "stops short";
+  for (std::size_t i = 0; i < c.mesh.size(); i += 2)
+    if (c.mesh.s_m[i] >= L - 1300.0 && c.mesh.s_m[i] < L) {
+      log.distance_m.push_back(c.mesh.s_m[i] - (L - 1300.0));
+      log.speed_mps.push_back(0.8 * run.lap.speed_mps[i]);
+    }
+  for (std::size_t i = 0; i < c.mesh.size(); i += 2)
+    if (c.mesh.s_m[i] <= L - 300.0) {
+      log.distance_m.push_back(c.mesh.s_m[i] + 1300.0);
+      log.speed_mps.push_back(run.lap.speed_mps[i]);
+    }
+  try {
+    (void)align_log(log, c.mesh, run.lap.speed_mps);
+    FAIL("no error");
+  } catch (const InvalidInput& e) {
+    CAPTURE(std::string(e.what()));
+    CHECK(std::string(e.what()).find("covers 89.") != std::string::npos);
+  }
+  // The same log run on 301 m past the line: the whole lap, from its own rows.
+  LoggedSpeed whole = log;
+  for (std::size_t i = 0; i < c.mesh.size(); i += 2)
+    if (c.mesh.s_m[i] > L - 300.0) {
+      whole.distance_m.push_back(c.mesh.s_m[i] + 1300.0);
+      whole.speed_mps.push_back(run.lap.speed_mps[i]);
+    }
+  whole.distance_m.push_back(L + 1301.0);
+  whole.speed_mps.push_back(run.lap.speed_mps[1]);
+  const Correlation k = correlate(run.lap, c, whole);
+  CHECK(k.coverage == doctest::Approx(1.0));
+  CHECK(near(k.alignment.offset_m, 1300.0, 0.0, 0.1));
+  CHECK(units::to_kph(k.rms_speed_error_mps) < 0.1);  // the flying lap's own rows: exact
+}
+
+TEST_CASE("a scale found at the edge of the search is warned of") {
+  // A distance reading 4.5 % long needs a scale of 1 / 1.045 = 0.957, beyond the 4 % searched:
+  // the best alignment sits on the edge, 0.9600, and says so. 3.5 % is found and not warned of.
+  const Circuit c = brannock();
+  const LapRun run = run_lap(medium(), c);
+  const Alignment edge =
+      align_log(log_of(run.lap, c.mesh, 7.0, 1.045, 0.0), c.mesh, run.lap.speed_mps);
+  CHECK(near(edge.scale, 0.96, 1e-9));
+  const std::vector<std::string> w = alignment_warnings(edge);
+  REQUIRE(w.size() == 1);
+  CHECK(w[0].find("edge of its search") != std::string::npos);
+  const Alignment inside =
+      align_log(log_of(run.lap, c.mesh, 7.0, 1.035, 0.0), c.mesh, run.lap.speed_mps);
+  CHECK(near(inside.scale, 1.0 / 1.035, 0.0, 2e-4));
+  CHECK(alignment_warnings(inside).empty());
+}
+
+TEST_CASE("a braking point before the line is found round it on a closed lap") {
+  // README: a braking point is where the speed peaks between the previous corner's apex and
+  // this one's; on a closed lap the first corner's previous corner is the last. Brannock Park
+  // laid out from 250 m along its first straight (corner 1's braking zone; the lap is the same
+  // closed loop) gives the same braking points, 250 m earlier: negative, before the line.
+  Track t = load_track(test::source_path("tracks/brannock-park.yaml"));
+  t.mesh_m = 1.0;
+  const Circuit c = lay_out(t, make_air(t.air));
+  Track r = t;
+  REQUIRE(r.segments.front().kind == Segment::Kind::straight);
+  REQUIRE(r.segments.front().length_m == doctest::Approx(300.0));
+  Segment tail = r.segments.front();
+  tail.length_m = 250.0;
+  r.segments.front().length_m = 50.0;
+  r.segments.push_back(tail);
+  r.sectors_m = {0.0};
+  const Circuit rc = lay_out(r, make_air(r.air));
+  const ConfiguredCar grippier = medium().changed([](Car& k, AeroConfig&) {
+    k.tyres.mu_lat *= 1.03;
+    k.tyres.mu_long *= 1.03;
+  });
+  auto first_corner = [&](const Circuit& circuit) {
+    const Lap lap = run_lap(medium(), circuit).lap;
+    const LoggedSpeed log = log_of(run_lap(grippier, circuit).lap, circuit.mesh, 7.0, 1.0, 0.0);
+    const Correlation k = correlate(lap, circuit, log);
+    REQUIRE_FALSE(k.corners.empty());
+    return k.corners.front();
+  };
+  const CornerError plain = first_corner(c), rotated = first_corner(rc);
+  REQUIRE(plain.sim_braking_m);
+  REQUIRE(plain.log_braking_m);
+  REQUIRE(rotated.sim_braking_m);
+  REQUIRE(rotated.log_braking_m);
+  // Before 250 m on the plain lap (216 m), so before the rotated line. The simulated point to
+  // 1 m, the mesh step; the logged one to 2 m, its rows' spacing (its peak is read from rows
+  // that lie elsewhere on the rotated lap's mesh: 1.0 m apart, measured), and the error so.
+  CHECK(*plain.sim_braking_m < 250.0);
+  CHECK(near(*rotated.sim_braking_m, *plain.sim_braking_m - 250.0, 0.0, 1.0));
+  CHECK(near(*rotated.log_braking_m, *plain.log_braking_m - 250.0, 0.0, 2.0));
+  CHECK(near(*rotated.braking_error_m(), *plain.braking_error_m(), 0.0, 2.0));
+  // Not found at the line, as the search from the line found it (0 m for both).
+  CHECK(*rotated.sim_braking_m < -10.0);
+  CHECK(*rotated.log_braking_m < -10.0);
 }

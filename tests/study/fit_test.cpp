@@ -254,3 +254,63 @@ TEST_CASE("grip with grip_lat and grip_long is refused: three factors that are t
     }
   }
 }
+
+TEST_CASE("fit checks each log's alignment as correlate does: another track's log is warned of") {
+  // A lap of Cairnholt given as a lap of Brannock Park: correlate warns that its speed hardly
+  // correlates (r under 0.5 at the best alignment); fit, which shares the alignment, must too
+  // (it once fitted the torque x1.43 to it without a word).
+  const Circuit bp = circuit("tracks/brannock-park.yaml", 2.0);
+  const Circuit ch = circuit("tracks/cairnholt.yaml", 2.0);
+  // Two laps of it, so that a whole lap of Brannock Park's length, line to line, is in it
+  // wherever the line lands (one lap of Cairnholt may be refused as covering under 98 %).
+  const SpeedLogFile one = written_log(medium(), ch, "fit_other_track.csv");
+  LoggedSpeed other = one.speed;
+  const double lap_d = one.speed.distance_m.back() - one.speed.distance_m.front() + 2.0;
+  for (std::size_t i = 0; i < one.speed.distance_m.size(); ++i) {
+    other.distance_m.push_back(one.speed.distance_m[i] + lap_d);
+    other.speed_mps.push_back(one.speed.speed_mps[i]);
+  }
+  const Alignment a = align_log(other, bp.mesh, run_lap(medium(), bp).lap.speed_mps);
+  REQUIRE(a.correlation < correlate_min_trusted_correlation);
+  FitOptions quick;
+  quick.max_iterations = 5;
+  const FitResult r = fit(medium(), {{&bp, &other}}, {FitParameter::power}, quick);
+  CHECK(r.final_alignments[0].correlation < correlate_min_trusted_correlation);
+  bool warned = false;
+  for (const std::string& w : r.warnings)
+    warned = warned || (w.find(other.source + ": the log's speed correlates") == 0 &&
+                        w.find("not to be trusted") != std::string::npos);
+  CHECK(warned);
+  // The car's own log is not warned of.
+  const SpeedLogFile own = written_log(medium(), bp, "fit_own_track.csv");
+  CHECK(fit(medium(), {{&bp, &own.speed}}, {FitParameter::power}).warnings.empty());
+}
+
+TEST_CASE("fit aligns again until the alignment settles, and says when it does not") {
+  // Saltmere Flats, a car with 30 % more power and 20 % less drag and downforce than the
+  // starting one: the starting car's braking points pull the alignment metres off the log's 7 m,
+  // and each round's search moves it 4.6 m at most. Three rounds (the old limit) left it 2.8 m
+  // off and the RMS after at 0.78 km/h; settled, it is the log's 7 m and the RMS its noise.
+  const Circuit c = circuit("tracks/saltmere-flats.yaml", 2.0);
+  const ConfiguredCar truth = true_car(1.0, 1.3, 0.8).changed([](Car&, AeroConfig& a) {
+    for (double& v : a.cla_m2) v *= 0.8;
+  });
+  const SpeedLogFile log = written_log(truth, c, "fit_far.csv");
+  const std::vector<FitParameter> free{FitParameter::power, FitParameter::cda, FitParameter::cla};
+  const FitResult r = fit(medium(), {{&c, &log.speed}}, free);
+  MESSAGE("far: " << r.rounds << " rounds, start offset " << r.alignments[0].offset_m << ", final "
+                  << r.final_alignments[0].offset_m << ", RMS after "
+                  << units::to_kph(r.rms_after_mps_all) << " km/h");
+  CHECK(r.settled);
+  CHECK(r.rounds > 1);
+  // 0.5 m: the refinement's grid against the log's noise (the first test's bound).
+  CHECK(near(r.final_alignments[0].offset_m, 7.0, 0.0, 0.5));
+  CHECK(units::to_kph(r.rms_after_mps_all) < 0.7);  // the noise, 0.5 km/h (first test's bound)
+  // A cap of one round: the alignment still moved, and the fit says so.
+  FitOptions one;
+  one.alignment_rounds = 1;
+  const FitResult capped = fit(medium(), {{&c, &log.speed}}, free, one);
+  CHECK_FALSE(capped.settled);
+  REQUIRE_FALSE(capped.warnings.empty());
+  CHECK(capped.warnings.back().find("the alignment still moved") == 0);
+}

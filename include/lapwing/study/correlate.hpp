@@ -6,6 +6,7 @@
 #include <cstdint>
 #include <optional>
 #include <string>
+#include <utility>
 #include <vector>
 
 #include "lapwing/path/logged_speed.hpp"
@@ -16,7 +17,8 @@ namespace lapwing {
 
 /// Where a log's rows lie on the track: a row logged at distance d is at track distance
 /// s = scale (d - offset_m). offset_m is the log's distance at the start line (7 m for a log
-/// that starts counting 7 m before it); scale corrects a distance channel that reads long or
+/// that starts counting 7 m before it; on a closed track, the line of the lap compared,
+/// log_on_mesh); scale corrects a distance channel that reads long or
 /// short (a wheel-speed distance off by the tyre's rolling radius, a GPS path cut or widened).
 struct Alignment {
   double offset_m = 0.0;
@@ -37,8 +39,23 @@ inline constexpr double correlate_max_speed_ratio = 1.45;
 /// (another track, a log of constant speed): the alignment, and every comparison made on it, is
 /// warned of. A log of another car on the right track correlates above 0.9 (tested).
 inline constexpr double correlate_min_trusted_correlation = 0.5;
-/// The warning for an alignment below correlate_min_trusted_correlation, or nothing.
-std::optional<std::string> alignment_warning(const Alignment& a);
+/// The warnings an alignment calls for: a correlation below correlate_min_trusted_correlation,
+/// and a scale at the edge of its search (alignment_max_scale_error: the distance reads that much
+/// off or more, and the search stopped there). Empty when neither.
+std::vector<std::string> alignment_warnings(const Alignment& a);
+
+/// A log's gaps (lapwing's own rule, README "Correlating with your data"): two neighbouring rows
+/// further apart in time than log_gap_min_s, and than log_gap_median_factor times the log's
+/// median interval, leave the track between them unlogged: it is not compared, nor drawn, nor
+/// counted as covered. A row's interval in time is the time column's, or from a distance column
+/// 2 ds / (v_a + v_b) (the same figure: the time column's distance is integrated so). 0.5 s is
+/// 5 rows of a 10 Hz logger (the README's least rate) and 40 m at 290 km/h; the median factor
+/// keeps a sparser logger's own spacing from reading as gaps (its rows are told apart by
+/// README's advice, not by this rule).
+inline constexpr double log_gap_min_s = 0.5;
+inline constexpr double log_gap_median_factor = 4.0;
+/// Per interval of the log (row i to row i + 1): 1 where it is a gap.
+std::vector<std::uint8_t> log_gaps(const LoggedSpeed& log);
 
 /// The alignment that maximises the correlation of the log's speed with `speed_mps` (the
 /// simulated speed at each mesh point): a search over every offset (the whole lap for a closed
@@ -47,8 +64,8 @@ std::optional<std::string> alignment_warning(const Alignment& a);
 /// 0.01 %).
 /// InvalidInput (subject: the log's source) when the log is read in a wrong unit (its median
 /// speed more than correlate_max_speed_ratio from the simulated lap's: "speed_mps[i]" at the
-/// fastest row) or, aligned, covers less than correlate_min_coverage of the track
-/// ("distance_m[last]").
+/// fastest row) or, aligned, covers less than correlate_min_coverage of the track (log_on_mesh:
+/// "distance_m[i]" at the row after the longest gap, or at the last row when there is none).
 Alignment align_log(const LoggedSpeed& log, const Mesh& mesh, const std::vector<double>& speed_mps);
 
 /// align_log's refinement alone, around `start` (offsets within 4.6 m, scales within 0.46 %),
@@ -56,18 +73,30 @@ Alignment align_log(const LoggedSpeed& log, const Mesh& mesh, const std::vector<
 Alignment refine_alignment(const LoggedSpeed& log, const Mesh& mesh,
                            const std::vector<double>& speed_mps, const Alignment& start);
 
-/// The log's speed at each mesh point under an alignment (a closed lap's log wraps round the
-/// line), and whether the log covers the point.
+/// The log's speed at each mesh point under an alignment, and whether the log covers the point:
+/// a point is covered where it lies between two neighbouring rows that are not a gap (log_gaps).
+/// A closed track's lap is one lap of the log from a line crossing to the next (the crossings
+/// at d = offset + k L / scale): the one of them that covers the most points, the first on a
+/// tie. Points the log misses in that lap are not filled from another lap (a log that stops
+/// short of the line covers less than the whole lap).
 struct LogOnMesh {
   std::vector<double> speed_mps;  // 0 where not covered
   std::vector<std::uint8_t> covered;
   std::size_t covered_points = 0;
+  double lap_start_d = 0.0;  // the log's distance at the start of the lap compared
+  int full_laps = 0;         // laps of the log (line to line) covering correlate_min_coverage
+  /// The gaps inside the lap, as track distances [from, to] (m), and the rows around the
+  /// longest (its first row's index; none when there is no gap).
+  std::vector<std::pair<double, double>> gaps_m;
+  std::optional<std::size_t> longest_gap_row;
+  double longest_gap_s = 0.0;
 };
 LogOnMesh log_on_mesh(const LoggedSpeed& log, const Mesh& mesh, const Alignment& a);
 
 struct SectorError {
   double start_m, end_m;
-  double sim_s, log_s, error_s;  // error = sim - log
+  double sim_s, log_s, error_s;  // error = sim - log, over the length the log covers
+  double covered_m = 0.0;        // of the sector's length, what the log covers
 };
 
 /// A corner's speeds, simulated and logged (the logged speed smoothed over 5 m, so that the
@@ -80,6 +109,9 @@ struct CornerError {
   double apex_m;
   double sim_entry_mps, sim_apex_mps, sim_exit_mps;
   double log_entry_mps, log_apex_mps, log_exit_mps;
+  /// Along the lap, except a closed track's first corner braked before the line (the search
+  /// runs from the last corner's apex round the line): negative then, metres before the line,
+  /// so that the difference of two points is their distance apart.
   std::optional<double> sim_braking_m, log_braking_m;
   /// sim - log, of the braking points when both brake (> 0: the simulated car brakes later).
   std::optional<double> braking_error_m() const {
@@ -113,6 +145,9 @@ struct Correlation {
   std::vector<SectorError> sectors;
   std::vector<CornerError> corners;  // the corners the log covers
   std::vector<ErrorPeak> peaks;      // largest |error| first
+  /// What the figures above must be read with (alignment_warnings, the log's gaps, a log of
+  /// more than one lap): the text, correlate.json and the report print them.
+  std::vector<std::string> warnings;
 };
 
 /// `lap` (solved round `circuit`) against the log, aligned by align_log, or as given.

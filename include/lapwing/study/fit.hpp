@@ -15,6 +15,15 @@
 
 namespace lapwing {
 
+/// Rounds of fit then alignment at most (the alignment found again with the fitted car, until
+/// it settles: fit_alignment_settled_m and fit_alignment_settled_scale). Each later round's
+/// search moves an offset 4.6 m at most (refine_alignment), so that ten rounds reach an offset
+/// 40 m off the starting car's; a fit that ends here with the alignment still moving is warned
+/// of.
+inline constexpr int fit_alignment_rounds = 10;
+inline constexpr double fit_alignment_settled_m = 0.05;      // the finest offset step
+inline constexpr double fit_alignment_settled_scale = 1e-4;  // the finest scale step
+
 /// What a fit may free. Each but `balance` scales the car's values by a factor (start 1):
 /// `grip` mu_long and mu_lat together, `grip_lat` mu_lat, `grip_long` mu_long, `power` the
 /// engine's torque at every speed (constant power), `cda` and `cla` every drag and downforce area
@@ -53,15 +62,15 @@ struct FitOptions {
   /// points carry the same information.
   double residual_spacing_m = 5.0;
   int max_iterations = 30;
+  /// Rounds of fit and alignment at most (fit_alignment_rounds).
+  int alignment_rounds = fit_alignment_rounds;
   unsigned threads = 0;  // laps solved at once (0: all cores); the result does not depend on it
   /// |correlation| above it: the two parameters are not separable by these logs.
   double separable_limit = 0.9;
-  /// Step, loss and spacing positive, iterations 1 to 200, limit in (0, 1) (key paths: members).
+  /// Step, loss and spacing positive, iterations 1 to 200, rounds 1 to 50, limit in (0, 1) (key
+  /// paths: members).
   std::optional<Violation> validate() const;
 };
-
-/// Rounds of fit then alignment at most (the alignment found again with the fitted car).
-inline constexpr int fit_alignment_rounds = 3;
 
 struct FitResult {
   std::vector<FitParameter> params;
@@ -70,8 +79,11 @@ struct FitResult {
   std::vector<std::vector<double>> correlation;  // params x params; NaN when not found
   bool covariance_found = false;            // false: the Jacobian is rank-deficient (not separable)
   std::vector<Alignment> alignments;        // per log, with the starting car
-  std::vector<Alignment> final_alignments;  // per log, the last round's (RMS after uses them)
-  int rounds = 0;                           // of fit, then alignment
+  /// Per log, found with the fitted car after the last round (RMS after uses them); their
+  /// `correlation` is the check correlate makes (alignment_warnings).
+  std::vector<Alignment> final_alignments;
+  int rounds = 0;        // of fit, then alignment
+  bool settled = false;  // the last round moved no alignment (false: fit_alignment_rounds hit)
   std::vector<double> rms_before_mps, rms_after_mps;         // per log
   double rms_before_mps_all = 0.0, rms_after_mps_all = 0.0;  // over every log's points
   int iterations = 0;
@@ -85,6 +97,11 @@ struct FitResult {
     std::string advice;  // what extra data would separate them
   };
   std::vector<Pair> inseparable;
+  /// What the figures must be read with: per log (named by its source) the alignment's warnings
+  /// (alignment_warnings, with the starting car as correlate makes them, and with the fitted
+  /// one), its gaps and laps (log_on_mesh, as correlate says them); the alignment not settled
+  /// within fit_alignment_rounds; an RMS after above the RMS before.
+  std::vector<std::string> warnings;
 };
 
 /// Fits `params` (each once, at least one) of `car` to the logs, jointly. Each log is aligned
