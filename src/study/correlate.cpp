@@ -291,6 +291,47 @@ Alignment refine_alignment(const LoggedSpeed& log, const Mesh& mesh,
   return best;
 }
 
+namespace {
+
+// The log on the mesh for the lap whose line lies at the log's distance lap_start_d: d = s /
+// scale + lap_start_d, covered between rows that are not a gap.
+LogOnMesh log_lap(const LoggedSpeed& log, const std::vector<std::uint8_t>& gaps, const Mesh& mesh,
+                  double scale, double lap_start_d) {
+  const double d0 = log.distance_m.front(), d1 = log.distance_m.back();
+  LogOnMesh out;
+  out.speed_mps.assign(mesh.size(), 0.0);
+  out.covered.assign(mesh.size(), 0);
+  out.lap_start_d = lap_start_d;
+  AxisWalk walk(log.distance_m);
+  std::size_t gap_from = mesh.size();  // the first point of the gap being passed
+  for (std::size_t i = 0; i < mesh.size(); ++i) {
+    const double d = mesh.s_m[i] / scale + lap_start_d;
+    if (d < d0 || d > d1) continue;
+    const Bracket b = walk.at(d);
+    if (gaps[b.i] && b.w > 0.0 && b.w < 1.0) {
+      if (gap_from == mesh.size()) gap_from = i;
+      const double dt = interval_s(log, b.i);
+      if (!out.longest_gap_row || dt > out.longest_gap_s) {
+        out.longest_gap_row = b.i;
+        out.longest_gap_s = dt;
+      }
+      continue;
+    }
+    if (gap_from < mesh.size()) {
+      out.gaps_m.push_back({mesh.s_m[gap_from - (gap_from > 0)], mesh.s_m[i]});
+      gap_from = mesh.size();
+    }
+    out.speed_mps[i] = at(log.speed_mps, b);
+    out.covered[i] = 1;
+    ++out.covered_points;
+  }
+  if (gap_from < mesh.size())
+    out.gaps_m.push_back({mesh.s_m[gap_from - (gap_from > 0)], mesh.s_m.back()});
+  return out;
+}
+
+}  // namespace
+
 LogOnMesh log_on_mesh(const LoggedSpeed& log, const Mesh& mesh, const Alignment& a) {
   const std::vector<std::uint8_t> gaps = log_gaps(log);
   const double d0 = log.distance_m.front(), d1 = log.distance_m.back();
@@ -302,36 +343,7 @@ LogOnMesh log_on_mesh(const LoggedSpeed& log, const Mesh& mesh, const Alignment&
     k_hi = static_cast<long>(std::floor((d1 - a.offset_m) / lap_d));
   }
   auto lap = [&](long k) {
-    LogOnMesh out;
-    out.speed_mps.assign(mesh.size(), 0.0);
-    out.covered.assign(mesh.size(), 0);
-    out.lap_start_d = a.offset_m + static_cast<double>(k) * lap_d;
-    AxisWalk walk(log.distance_m);
-    std::size_t gap_from = mesh.size();  // the first point of the gap being passed
-    for (std::size_t i = 0; i < mesh.size(); ++i) {
-      const double d = mesh.s_m[i] / a.scale + out.lap_start_d;  // d = s / scale + offset
-      if (d < d0 || d > d1) continue;
-      const Bracket b = walk.at(d);
-      if (gaps[b.i] && b.w > 0.0 && b.w < 1.0) {
-        if (gap_from == mesh.size()) gap_from = i;
-        const double dt = interval_s(log, b.i);
-        if (!out.longest_gap_row || dt > out.longest_gap_s) {
-          out.longest_gap_row = b.i;
-          out.longest_gap_s = dt;
-        }
-        continue;
-      }
-      if (gap_from < mesh.size()) {
-        out.gaps_m.push_back({mesh.s_m[gap_from - (gap_from > 0)], mesh.s_m[i]});
-        gap_from = mesh.size();
-      }
-      out.speed_mps[i] = at(log.speed_mps, b);
-      out.covered[i] = 1;
-      ++out.covered_points;
-    }
-    if (gap_from < mesh.size())
-      out.gaps_m.push_back({mesh.s_m[gap_from - (gap_from > 0)], mesh.s_m.back()});
-    return out;
+    return log_lap(log, gaps, mesh, a.scale, a.offset_m + static_cast<double>(k) * lap_d);
   };
   LogOnMesh best = lap(k_lo);
   const auto full = [&](const LogOnMesh& l) {
@@ -426,6 +438,15 @@ Correlation correlate(const Lap& lap, const Circuit& circuit, const LoggedSpeed&
   // Corners: entry, apex, exit as the lap summary takes them (summarize), on the logged speed
   // smoothed over corner_smoothing_m.
   const std::vector<double> vls = smoothed(vl, c.covered, mesh, corner_smoothing_m);
+  // A closed track's first corner may be braked for before the line: there the log's rows
+  // before the lap's line (the approach driven, the lap before's end), not the lap's own end.
+  LogOnMesh before;
+  std::vector<double> vls_before;
+  if (mesh.closed) {
+    before = log_lap(log, log_gaps(log), mesh, alignment.scale,
+                     on.lap_start_d - mesh.length_m / alignment.scale);
+    vls_before = smoothed(before.speed_mps, before.covered, mesh, corner_smoothing_m);
+  }
   // Braking points on both traces smoothed alike: a moving average moves a peak whose two sides
   // differ in slope (drive gentler than braking), and so moves both peaks the same way.
   const std::vector<std::uint8_t> all_points(n, 1);
@@ -461,9 +482,15 @@ Correlation correlate(const Lap& lap, const Circuit& circuit, const LoggedSpeed&
                   vs[sa],      vs[span.end],  vls[span.start],
                   vls[la],     vls[span.end], braking_point(vss, mesh, sim_span),
                   std::nullopt};
+    // Indices past the apex are round the line, before it: read from the rows before the line.
+    std::vector<double> v_log = vls;
     bool from_covered = true;
-    for (const std::size_t i : log_span) from_covered = from_covered && c.covered[i];
-    if (from_covered) e.log_braking_m = braking_point(vls, mesh, log_span);
+    for (const std::size_t i : log_span) {
+      const bool pre = i > la;
+      from_covered = from_covered && (pre ? before.covered[i] : c.covered[i]);
+      if (pre && from_covered) v_log[i] = vls_before[i];
+    }
+    if (from_covered) e.log_braking_m = braking_point(v_log, mesh, log_span);
     c.corners.push_back(e);
   }
   // The largest errors, each at least correlate_peak_separation_m from the ones before.
