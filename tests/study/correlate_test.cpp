@@ -372,3 +372,23 @@ TEST_CASE("a braking point before the line is found round it on a closed lap") {
   CHECK(*rotated.sim_braking_m < -10.0);
   CHECK(*rotated.log_braking_m < -10.0);
 }
+
+TEST_CASE("a log that ends at the line covers it at an alignment within the search's resolution") {
+  // The alignment's finest steps are 0.05 m and 0.01 % of scale: a scale 0.004 % off places the
+  // line 0.11 m past an exact log's last row (2741 m x 4e-5). That is the alignment's resolution,
+  // not a log stopping short: the whole lap is covered, and its time is run's.
+  const Circuit c = brannock();
+  const LapRun run = run_lap(medium(), c);
+  const LoggedSpeed log = log_of(run.lap, c.mesh, 0.0, 1.0, 0.0);
+  const Correlation k = correlate(run.lap, c, log, Alignment{0.0, 1.0 - 4e-5, 1.0});
+  CHECK(k.coverage == 1.0);
+  CHECK(near(k.lap_time_sim_s, run.summary.lap_time_s, 1e-9));
+  // A log that stops 5 m short is not covered there (nor anything filled in).
+  LoggedSpeed short_log = log;
+  while (short_log.distance_m.back() > c.mesh.length_m - 5.0) {
+    short_log.distance_m.pop_back();
+    short_log.speed_mps.pop_back();
+  }
+  const Correlation s = correlate(run.lap, c, short_log, Alignment{0.0, 1.0, 1.0});
+  CHECK(s.coverage < 1.0 - 4.0 / static_cast<double>(c.mesh.size()));
+}
