@@ -53,6 +53,16 @@ Document load_document(const std::string& file);
 /// Parses YAML text held in memory (`file` is the name used in errors).
 Document parse_document(const std::string& text, const std::string& file);
 
+namespace detail {
+/// The two readers behind parse_document, for the tests that hold them against each other (text
+/// already checked as UTF-8 without NUL). The fast reader takes a plain subset of YAML (block maps
+/// and lists, one-line flow maps and lists, plain and simple quoted scalars, comments) and returns
+/// nothing for any other text, and for any error, so that yaml-cpp reads it instead.
+std::optional<Node> read_simple_yaml(std::string_view text);
+/// yaml-cpp's event parser: any YAML; InputError on what lapwing refuses.
+Node read_yaml(const std::string& text, const std::string& file);
+}  // namespace detail
+
 /// Takes keys out of one map node. Call finish() after the last read: any key not read is an
 /// unknown key and an error.
 class Reader {
