@@ -1,5 +1,6 @@
-// An input file as a tree of nodes that remember where they stand (file, line, column), read with
-// yaml-cpp's event parser so that duplicate keys and aliases can be refused, plus a Reader that
+// An input file as a tree of nodes that remember where they stand (file, line, column), read by
+// a fast reader of plain YAML or, for any other text, with yaml-cpp's event parser so that
+// duplicate keys and aliases can be refused (both build the same tree), plus a Reader that
 // takes keys out of a map by name, converts them to SI, checks ranges, and refuses unknown keys
 // with a "did you mean" suggestion. Every error is an InputError with FILE:LINE:COL and key path.
 #pragma once
