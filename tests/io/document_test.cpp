@@ -236,6 +236,10 @@ TEST_CASE("the fast YAML reader agrees with yaml-cpp on tricky texts, or gives u
        true},
       {"m: {rpm: [2000, 4000], power: [150 kW, 300 kW]}\n", true},
       {"m: [{a: 1}, [b, c], 'd', \"e\"]\n", true},
+      {"m: [ 1 , 2 ]\nn: { k: v , w: [ ] }\no: [[], {}, [[x]]]\n", true},
+      {"m: [.nan, -1.5e-3, 0x1F, yes, a -b, x.y/z]\nn: .inf\n", true},
+      {"- a:\n    b: 1\n", false},  // a list at the root: yaml-cpp's path refuses it
+      {"r:\n- a:\n    b: 1\n  c: 2\n-   - x\n    - y\nd:\n", true},
       {"m: {a: 1,\n  b: 2}\n", false},  // a flow map over two lines
       // Keys at odd indentation.
       {"a:\n   b: 1\n   c:\n         d: 2\ne: 3\n", true},
@@ -370,7 +374,7 @@ TEST_CASE("whatever the fast YAML reader takes, yaml-cpp reads to the same tree 
   };
   const std::string indicators = ":-?[]{},#&*!|>'\"%@` \t\r\n~\\.";
   int handled = 0, plain_handled = 0, plain_total = 0;
-  for (int doc = 0; doc < 3000; ++doc) {
+  for (int doc = 0; doc < 6000; ++doc) {
     std::string text = block_map(0, 0);
     if (chance(0.1)) {  // CRLF line ends throughout
       std::string crlf;
@@ -406,9 +410,13 @@ TEST_CASE("whatever the fast YAML reader takes, yaml-cpp reads to the same tree 
       plain_handled += v.handled;
     }
   }
-  MESSAGE("fast reader took " << handled << " of 3000 texts, " << plain_handled << " of "
+  MESSAGE("fast reader took " << handled << " of 6000 texts, " << plain_handled << " of "
                               << plain_total << " unmutated");
-  // Not a vacuous test: the fast reader must take many of the texts it is compared on (most
-  // unmutated ones; those it leaves hold a duplicate key, "null" or "Null", or no final line end).
-  CHECK(handled > 600);
+  // Not a vacuous test: the fast reader must take many of the texts it is compared on. With this
+  // seed it takes 2264 texts, 1600 of the 2383 unmutated (those it leaves hold, in the ones looked
+  // at, a "null" key, a "Null" value, a repeated key or a null at the end of a text without a
+  // final line end); the bounds leave room for a change of generator, none for a reader that
+  // gives up on most texts.
+  CHECK(handled > 1200);
+  CHECK(plain_handled * 2 > plain_total);
 }
