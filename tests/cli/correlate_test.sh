@@ -39,8 +39,9 @@ grep -q '^largest speed errors' "$tmp/c.txt" && ok || bad "correlate prints no l
   bad "non-finite number in correlate's files"
 
 # A gap in the log (its rows from 30.0 s to 30.8 s removed: a dropout of 0.8 s, more than the
-# 0.5 s of README's rule, about 1.5 % of the lap): warned of, and the report's three traces
-# (simulated, logged, their time difference) each break there instead of drawing across it.
+# 0.5 s of the rule in README, "Correlating with your data"; about 1.5 % of the lap): warned of,
+# and the report's three traces (simulated, logged, their time difference) each break there
+# instead of drawing across it.
 awk -F, '/^#/ { print; next } !h { h = 1; for (i = 1; i <= NF; i++) if ($i == "time_s") t = i
   print; next } $t < 30.0 || $t > 30.8' "$log" > "$tmp/gap.csv"
 "$bin" correlate "${common[@]}" --log "$tmp/gap.csv" --time time_s --out "$tmp/gap" > "$tmp/gap.txt" 2>&1

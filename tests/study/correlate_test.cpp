@@ -316,10 +316,11 @@ TEST_CASE("a scale found at the edge of the search is warned of") {
 }
 
 TEST_CASE("a braking point before the line is found round it on a closed lap") {
-  // README: a braking point is where the speed peaks between the previous corner's apex and
-  // this one's; on a closed lap the first corner's previous corner is the last. Brannock Park
-  // laid out from 250 m along its first straight (corner 1's braking zone; the lap is the same
-  // closed loop) gives the same braking points, 250 m earlier: negative, before the line.
+  // README, "Correlating with your data": a braking point is where the speed peaks between the
+  // previous corner's apex and this one's; on a closed lap the first corner's previous corner is
+  // the last. Brannock Park laid out from 250 m along its first straight (corner 1's braking zone;
+  // the lap is the same closed loop) gives the same braking points, 250 m earlier: negative, before
+  // the line.
   Track t = load_track(test::source_path("tracks/brannock-park.yaml"));
   t.mesh_m = 1.0;
   const Circuit c = lay_out(t, make_air(t.air));

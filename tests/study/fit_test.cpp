@@ -318,9 +318,9 @@ TEST_CASE("fit aligns again until the alignment settles, and says when it does n
 TEST_CASE("an RMS after the fit above the one before is explained") {
   // The log of a car with 3 % more grip, in which 800 m of the lap (1200-2000 m) were driven in
   // traffic at 60 % of the speed. The starting car, slower, is nearer the traffic's speeds; the
-  // Huber loss (README) follows the clean 70 % of the lap towards grip 1.03, which moves the
-  // traffic points further off: the RMS rises though the fit follows the clean lap, and fit says
-  // why.
+  // Huber loss (README, "Correlating with your data") follows the clean 70 % of the lap towards
+  // grip 1.03, which moves the traffic points further off: the RMS rises though the fit follows the
+  // clean lap, and fit says why.
   const Circuit c = circuit("tracks/brannock-park.yaml", 2.0);
   const Lap truth = run_lap(true_car(1.03, 1.0, 1.0), c).lap;
   LoggedSpeed log;

@@ -44,14 +44,14 @@ inline constexpr double correlate_min_trusted_correlation = 0.5;
 /// off or more, and the search stopped there). Empty when neither.
 std::vector<std::string> alignment_warnings(const Alignment& a);
 
-/// A log's gaps (lapwing's own rule, README "Correlating with your data"): two neighbouring rows
+/// A log's gaps (lapwing's own rule, README, "Correlating with your data"): two neighbouring rows
 /// further apart in time than log_gap_min_s, and than log_gap_median_factor times the log's
 /// median interval, leave the track between them unlogged: it is not compared, nor drawn, nor
 /// counted as covered. A row's interval in time is the time column's, or from a distance column
 /// 2 ds / (v_a + v_b) (the same figure: the time column's distance is integrated so). 0.5 s is
-/// 5 rows of a 10 Hz logger (the README's least rate) and 40 m at 290 km/h; the median factor
+/// 5 rows of a 10 Hz logger (the least rate advised there) and 40 m at 290 km/h; the median factor
 /// keeps a sparser logger's own spacing from reading as gaps (its rows are told apart by
-/// README's advice, not by this rule).
+/// the advice on rates, not by this rule).
 inline constexpr double log_gap_min_s = 0.5;
 inline constexpr double log_gap_median_factor = 4.0;
 /// Per interval of the log (row i to row i + 1): 1 where it is a gap.
