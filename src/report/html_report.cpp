@@ -378,10 +378,18 @@ std::string correlation_section(const Circuit& c, const Lap& lap, const Correlat
               "Rising: the simulated car is slower there than the logged one; "
               "falling: faster.");
   std::vector<std::vector<std::string>> rows;
-  for (std::size_t i = 0; i < k.sectors.size(); ++i)
-    rows.push_back({std::to_string(i + 1), fixed(k.sectors[i].sim_s, 3),
-                    fixed(k.sectors[i].log_s, 3), signed_fixed(k.sectors[i].error_s, 3)});
-  o += "<h3>Sectors</h3>" + table(escaped({"sector", "sim s", "log s", "error s"}), rows);
+  for (std::size_t i = 0; i < k.sectors.size(); ++i) {
+    const SectorError& s = k.sectors[i];
+    // The share of the sector the log covers (the times are over that part), as the text's.
+    const double length = s.end_m - s.start_m;
+    const std::string logged = s.covered_m >= length - 1e-6 * std::max(1.0, length)
+                                   ? "100 %"
+                                   : fixed(std::min(99.9, 100.0 * s.covered_m / length), 1) + " %";
+    rows.push_back({std::to_string(i + 1), fixed(s.start_m, 0) + "-" + fixed(s.end_m, 0) + " m",
+                    logged, fixed(s.sim_s, 3), fixed(s.log_s, 3), signed_fixed(s.error_s, 3)});
+  }
+  o += "<h3>Sectors</h3>" +
+       table(escaped({"sector", "where", "logged", "sim s", "log s", "error s"}), rows);
   rows.clear();
   auto d = [](double mps) { return signed_fixed(units::to_kph(mps), 1); };
   for (const CornerError& e : k.corners) {

@@ -486,14 +486,30 @@ Correlation correlate(const Lap& lap, const Circuit& circuit, const LoggedSpeed&
                   vls[la],     vls[span.end], braking_point(vss, mesh, sim_span),
                   std::nullopt};
     // Indices past the apex are round the line, before it: read from the rows before the line.
+    // The log's search runs back from its apex while the log covers the track; the whole span
+    // must be covered, except before the line (a log that starts there, or at the line), where
+    // the peak must lie after the first covered point (before it the speed may have been higher).
     std::vector<double> v_log = vls;
-    bool from_covered = true;
-    for (const std::size_t i : log_span) {
+    std::vector<std::size_t> logged_span;
+    bool whole = true;
+    for (std::size_t p = log_span.size(); p-- > 0;) {
+      const std::size_t i = log_span[p];
       const bool pre = i > la;
-      from_covered = from_covered && (pre ? before.covered[i] : c.covered[i]);
-      if (pre && from_covered) v_log[i] = vls_before[i];
+      if (!(pre ? before.covered[i] : c.covered[i])) {
+        whole = false;
+        break;
+      }
+      if (pre) v_log[i] = vls_before[i];
+      logged_span.insert(logged_span.begin(), i);
     }
-    if (from_covered) e.log_braking_m = braking_point(v_log, mesh, log_span);
+    const bool partial_before_line =
+        !whole && logged_span.size() > 1 && (logged_span.front() > la || logged_span.front() == 0);
+    if (whole || partial_before_line) {
+      e.log_braking_m = braking_point(v_log, mesh, logged_span);
+      const std::size_t first = logged_span.front();
+      if (!whole && e.log_braking_m == mesh.s_m[first] - (first > la ? mesh.length_m : 0.0))
+        e.log_braking_m.reset();
+    }
     c.corners.push_back(e);
   }
   // The largest errors, each at least correlate_peak_separation_m from the ones before.

@@ -339,17 +339,17 @@ TEST_CASE("a braking point before the line is found round it on a closed lap") {
   });
   // The logs start 400 m before the line (the lap before's end: a closed lap is periodic), so
   // that the approach to the first corner is logged for the lap compared.
-  auto first_corner = [&](const Circuit& circuit) {
+  auto first_corner = [&](const Circuit& circuit, double before_m = 400.0) {
     const Lap lap = run_lap(medium(), circuit).lap;
     const Lap logged = run_lap(grippier, circuit).lap;
     const Mesh& m = circuit.mesh;
     LoggedSpeed log;
     for (std::size_t i = 0; i + 1 < m.size(); i += 2)
-      if (m.s_m[i] > m.length_m - 400.0) {
-        log.distance_m.push_back(m.s_m[i] - m.length_m + 400.0);
+      if (m.s_m[i] > m.length_m - before_m) {
+        log.distance_m.push_back(m.s_m[i] - m.length_m + before_m);
         log.speed_mps.push_back(logged.speed_mps[i]);
       }
-    const LoggedSpeed lap_rows = log_of(logged, m, 400.0, 1.0, 0.0);
+    const LoggedSpeed lap_rows = log_of(logged, m, before_m, 1.0, 0.0);
     log.distance_m.insert(log.distance_m.end(), lap_rows.distance_m.begin(),
                           lap_rows.distance_m.end());
     log.speed_mps.insert(log.speed_mps.end(), lap_rows.speed_mps.begin(), lap_rows.speed_mps.end());
@@ -372,6 +372,11 @@ TEST_CASE("a braking point before the line is found round it on a closed lap") {
   // Not found at the line, as the search from the line found it (0 m for both).
   CHECK(*rotated.sim_braking_m < -10.0);
   CHECK(*rotated.log_braking_m < -10.0);
+  // Logs that start at the line: on the plain lap the braking zone is logged (216 m), on the
+  // rotated one it began before the log did: no logged braking point, rather than the log's first
+  // row read as the peak.
+  CHECK(first_corner(c, 0.0).log_braking_m.has_value());
+  CHECK_FALSE(first_corner(rc, 0.0).log_braking_m.has_value());
 }
 
 TEST_CASE("a log that ends at the line covers it at an alignment within the search's resolution") {
