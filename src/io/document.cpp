@@ -208,6 +208,276 @@ class TreeBuilder : public YAML::EventHandler {
   bool done_ = false;
 };
 
+// The fast reader: a plain subset of YAML read line by line into the same Node tree as
+// TreeBuilder builds from yaml-cpp's events (same kinds, marks, texts and order; tests/io hold
+// the two against each other). Anything outside the subset, or any doubt, and it gives up
+// (GiveUp, caught in read()): yaml-cpp then reads the text and reports whatever is wrong.
+class SimpleYaml {
+ public:
+  explicit SimpleYaml(std::string_view text) : text_(text) {}
+
+  std::optional<Node> read() {
+    try {
+      split_lines();
+      // An empty document, a root that is not a block map or that is indented: yaml-cpp's.
+      if (lines_.empty() || lines_[0].indent != lines_[0].begin) give_up();
+      if (!key_at(lines_[0], lines_[0].indent)) give_up();
+      Node root = block_node();
+      if (at_ != lines_.size()) give_up();
+      return root;
+    } catch (const GiveUp&) {
+      return std::nullopt;
+    }
+  }
+
+ private:
+  struct GiveUp {};
+  [[noreturn]] static void give_up() { throw GiveUp{}; }
+
+  // A line that holds something (not blank, not only a comment): its number, the offsets of its
+  // first byte and of the end of its text (before "\r\n" or "\n"), and where the node read next
+  // on it starts (its indentation, then past a "- " or a key once they are read).
+  struct Line {
+    int number = 0;
+    std::size_t begin = 0, end = 0, indent = 0;
+  };
+
+  Mark mark(const Line& l, std::size_t at) const {
+    return Mark{l.number, static_cast<int>(at - l.begin) + 1};
+  }
+
+  void split_lines() {
+    // Printable ASCII and line ends only (no tab, no other control, no byte above 0x7F: yaml-cpp
+    // counts columns and breaks lines in ways this reader does not copy); a CR only before LF.
+    for (std::size_t i = 0; i < text_.size(); ++i) {
+      const auto c = static_cast<unsigned char>(text_[i]);
+      if (c == '\n') continue;
+      if (c == '\r' && i + 1 < text_.size() && text_[i + 1] == '\n') continue;
+      if (c < 0x20 || c > 0x7e) give_up();
+    }
+    int number = 1;
+    for (std::size_t at = 0; at < text_.size(); ++number) {
+      std::size_t next = text_.find('\n', at);
+      std::size_t end = next == std::string_view::npos ? text_.size() : next;
+      next = next == std::string_view::npos ? text_.size() : next + 1;
+      if (end > at && text_[end - 1] == '\r') --end;
+      std::size_t first = at;
+      while (first < end && text_[first] == ' ') ++first;
+      if (first < end && text_[first] != '#') lines_.push_back(Line{number, at, end, first});
+      at = next;
+    }
+    // Where yaml-cpp puts a null met at the end of the text: the start of the line after the
+    // last line end. Without a final line end it puts it elsewhere: not followed here.
+    if (!text_.empty() && text_.back() == '\n') end_mark_ = Mark{number, 1};
+  }
+
+  static bool key_char(char c) {
+    return (c >= 'a' && c <= 'z') || (c >= 'A' && c <= 'Z') || (c >= '0' && c <= '9') || c == '_';
+  }
+  static bool alnum(char c) {
+    return (c >= 'a' && c <= 'z') || (c >= 'A' && c <= 'Z') || (c >= '0' && c <= '9');
+  }
+  // Characters of a plain scalar (after its first): letters, digits, space and a few marks that
+  // are no YAML indicator inside a scalar. No ':', '#', ',' or brackets (they end or break one).
+  static bool plain_char(char c) {
+    return alnum(c) || c == ' ' || c == '.' || c == '+' || c == '-' || c == '_' || c == '/' ||
+           c == '%' || c == '(' || c == ')';
+  }
+  // yaml-cpp reads these plain scalars as null, not as text.
+  static bool null_word(std::string_view s) { return s == "null" || s == "Null" || s == "NULL"; }
+
+  // The end of a plain key "word:" starting at `at` (the offset of ':'), if one stands there:
+  // [A-Za-z0-9_]+ then ':' then a space or the end of the line.
+  std::optional<std::size_t> key_at(const Line& l, std::size_t at) const {
+    std::size_t i = at;
+    while (i < l.end && key_char(text_[i])) ++i;
+    if (i == at || i >= l.end || text_[i] != ':') return std::nullopt;
+    if (i + 1 < l.end && text_[i + 1] != ' ') return std::nullopt;
+    return i;
+  }
+  // A "- " (or a lone "-") list entry at `at`.
+  bool dash_at(const Line& l, std::size_t at) const {
+    return at < l.end && text_[at] == '-' && (at + 1 == l.end || text_[at + 1] == ' ');
+  }
+  std::size_t skip_spaces(const Line& l, std::size_t at) const {
+    while (at < l.end && text_[at] == ' ') ++at;
+    return at;
+  }
+  // Nothing but spaces and perhaps a comment (a '#' after a space) from `at` to the line's end.
+  bool rest_empty(const Line& l, std::size_t at) const {
+    const std::size_t i = skip_spaces(l, at);
+    return i == l.end || (text_[i] == '#' && i > at);
+  }
+
+  // A block map or list starting at the current line's `indent`.
+  Node block_node() {
+    const Line& l = lines_[at_];
+    if (dash_at(l, l.indent)) return block_list();
+    if (key_at(l, l.indent)) return block_map();
+    give_up();
+  }
+
+  // The value after a key or a "- " whose own line holds nothing more: the block node on the
+  // lines below when they are indented deeper than `column` (or a list at `column` under a key,
+  // which YAML allows), else a null where the next token stands.
+  Node value_below(std::size_t column, bool in_map) {
+    ++at_;
+    if (at_ == lines_.size()) {
+      if (end_mark_.line == 0) give_up();
+      Node n;
+      n.mark = end_mark_;
+      return n;
+    }
+    Line& l = lines_[at_];
+    const std::size_t indent = l.indent - l.begin;
+    if (indent > column || (in_map && indent == column && dash_at(l, l.indent)))
+      return block_node();
+    Node n;
+    n.mark = mark(l, l.indent);
+    return n;
+  }
+
+  // A value that starts on its key's or its "- "'s line at `at`, then the next line. After a
+  // "- " it may be a block node of its own ("- key: value", "- - item"); after a key YAML
+  // refuses one ("a: b: c").
+  Node value_here(std::size_t at, bool in_list) {
+    Line& l = lines_[at_];
+    if (dash_at(l, at) || key_at(l, at)) {
+      if (!in_list) give_up();
+      l.indent = at;
+      return block_node();
+    }
+    Node n = flow_or_scalar(l, at, false);
+    if (!rest_empty(l, at_end_)) give_up();
+    ++at_;
+    return n;
+  }
+
+  // The indentation of the next line, or nothing at the end of the text.
+  std::optional<std::size_t> next_indent() const {
+    if (at_ == lines_.size()) return std::nullopt;
+    return lines_[at_].indent - lines_[at_].begin;
+  }
+
+  Node block_map() {
+    Node map;
+    map.kind = Node::Kind::map;
+    const std::size_t column = lines_[at_].indent - lines_[at_].begin;
+    map.mark = mark(lines_[at_], lines_[at_].indent);
+    for (;;) {
+      Line& l = lines_[at_];
+      const auto colon = key_at(l, l.indent);
+      if (!colon) give_up();
+      std::string key(text_.substr(l.indent, *colon - l.indent));
+      if (null_word(key)) give_up();
+      for (const auto& e : map.entries)
+        if (e.key == key) give_up();  // a duplicate: yaml-cpp's path reports it
+      map.key_marks.push_back(mark(l, l.indent));
+      const std::size_t value = skip_spaces(l, *colon + 1);
+      Node v = rest_empty(l, *colon + 1) ? value_below(column, true) : value_here(value, false);
+      map.entries.push_back({std::move(key), std::move(v)});
+      const auto next = next_indent();
+      if (!next || *next < column) return map;
+      if (*next > column) give_up();
+      if (dash_at(lines_[at_], lines_[at_].indent)) give_up();
+    }
+  }
+
+  Node block_list() {
+    Node list;
+    list.kind = Node::Kind::sequence;
+    const std::size_t column = lines_[at_].indent - lines_[at_].begin;
+    list.mark = mark(lines_[at_], lines_[at_].indent);
+    for (;;) {
+      Line& l = lines_[at_];
+      if (!dash_at(l, l.indent)) give_up();
+      const std::size_t after = l.indent + 1;
+      list.items.push_back(rest_empty(l, after) ? value_below(column, false)
+                                                : value_here(skip_spaces(l, after), true));
+      const auto next = next_indent();
+      if (!next || *next < column) return list;
+      if (*next > column) give_up();
+      if (!dash_at(lines_[at_], lines_[at_].indent)) return list;  // the map around goes on
+    }
+  }
+
+  // A scalar, or a flow map or list closed on the same line, starting at `at`; at_end_ is set to
+  // the offset just past it.
+  Node flow_or_scalar(const Line& l, std::size_t at, bool in_flow) {
+    if (at >= l.end) give_up();
+    Node n;
+    n.mark = mark(l, at);
+    const char c = text_[at];
+    if (c == '{' || c == '[') {
+      n.kind = c == '{' ? Node::Kind::map : Node::Kind::sequence;
+      const char close = c == '{' ? '}' : ']';
+      std::size_t i = skip_spaces(l, at + 1);
+      if (i < l.end && text_[i] == close) {
+        at_end_ = i + 1;
+        return n;
+      }
+      for (;;) {
+        if (n.kind == Node::Kind::map) {
+          const auto colon = key_at(l, i);
+          if (!colon || *colon + 1 >= l.end) give_up();
+          std::string key(text_.substr(i, *colon - i));
+          if (null_word(key)) give_up();
+          for (const auto& e : n.entries)
+            if (e.key == key) give_up();
+          n.key_marks.push_back(mark(l, i));
+          Node v = flow_or_scalar(l, skip_spaces(l, *colon + 1), true);
+          n.entries.push_back({std::move(key), std::move(v)});
+        } else {
+          n.items.push_back(flow_or_scalar(l, i, true));
+        }
+        i = skip_spaces(l, at_end_);
+        if (i >= l.end) give_up();
+        if (text_[i] == close) {
+          at_end_ = i + 1;
+          return n;
+        }
+        if (text_[i] != ',') give_up();
+        i = skip_spaces(l, i + 1);
+      }
+    }
+    n.kind = Node::Kind::scalar;
+    if (c == '"' || c == '\'') {
+      std::size_t i = at + 1;
+      while (i < l.end && text_[i] != c && !(c == '"' && text_[i] == '\\')) ++i;
+      if (i >= l.end || text_[i] != c) give_up();  // a backslash, or not closed on this line
+      if (c == '\'' && i + 1 < l.end && text_[i + 1] == '\'') give_up();  // '' inside
+      n.scalar = std::string(text_.substr(at + 1, i - at - 1));
+      at_end_ = i + 1;
+      return n;
+    }
+    // A plain scalar: it starts with a letter or a digit, or a sign or point before one.
+    if (!alnum(c) &&
+        !((c == '-' || c == '+' || c == '.') && at + 1 < l.end && alnum(text_[at + 1])))
+      give_up();
+    std::size_t i = at + 1;
+    while (i < l.end && plain_char(text_[i])) ++i;
+    std::size_t end = i;
+    while (text_[end - 1] == ' ') --end;
+    if (i < l.end) {
+      // What stops it: in a flow a ',', ']' or '}'; else a comment after a space.
+      const char stop = text_[i];
+      const bool ok = in_flow ? (stop == ',' || stop == ']' || stop == '}')
+                              : (stop == '#' && text_[i - 1] == ' ');
+      if (!ok) give_up();
+    }
+    n.scalar = std::string(text_.substr(at, end - at));
+    if (null_word(n.scalar)) give_up();
+    at_end_ = end;
+    return n;
+  }
+
+  std::string_view text_;
+  std::vector<Line> lines_;
+  std::size_t at_ = 0;      // the current line
+  std::size_t at_end_ = 0;  // just past the last flow node or scalar read
+  Mark end_mark_{0, 0};     // where a null at the end of the text stands; line 0: give up
+};
+
 }  // namespace
 
 Document parse_document(const std::string& text, const std::string& file) {
@@ -228,6 +498,21 @@ Document parse_document(const std::string& text, const std::string& file) {
     throw InputError(file, Mark{at.line, at.col},
                      "a NUL byte (byte " + std::to_string(nul + 1) + "): not a text file");
   }
+  if (auto root = detail::read_simple_yaml(text))
+    doc.root = std::move(*root);
+  else
+    doc.root = detail::read_yaml(text, file);
+  if (doc.root.kind != Node::Kind::map)
+    throw InputError(file, doc.root.mark, "the file must be a map of keys");
+  return doc;
+}
+
+std::optional<Node> detail::read_simple_yaml(std::string_view text) {
+  return SimpleYaml(text).read();
+}
+
+Node detail::read_yaml(const std::string& text, const std::string& file) {
+  Node root;
   std::istringstream in(text);
   TreeBuilder builder(file);
   TreeBuilder rest(file);
@@ -236,7 +521,7 @@ Document parse_document(const std::string& text, const std::string& file) {
     YAML::Parser parser(in);
     if (!parser.HandleNextDocument(builder))
       throw InputError(file, Mark{1, 1}, "the file is empty");
-    doc.root = builder.take();
+    root = builder.take();
     reading = &rest;
     if (parser.HandleNextDocument(rest))
       throw InputError(file, rest.start(), "more than one YAML document in the file");
@@ -262,9 +547,7 @@ Document parse_document(const std::string& text, const std::string& file) {
     }
     throw InputError(file, to_mark(e.mark), "YAML syntax: " + e.msg + tab, path);
   }
-  if (doc.root.kind != Node::Kind::map)
-    throw InputError(file, doc.root.mark, "the file must be a map of keys");
-  return doc;
+  return root;
 }
 
 Document load_document(const std::string& file) {

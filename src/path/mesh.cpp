@@ -396,11 +396,15 @@ Mesh build_mesh(const Track& track, double step_m, unsigned threads) {
   const bool bank =
       lapped || std::any_of(track.segments.begin(), track.segments.end(),
                             [](const Segment& g) { return g.signed_bank_rad() != 0.0; });
-  for (auto* v : {&m.s_m, &m.x_m, &m.y_m, &m.heading_rad, &m.curvature_1pm})
-    resize_ready(*v, n + 1);
-  if (graded)
-    for (auto* v : {&m.grade, &m.elevation_m}) resize_ready(*v, n + 1);
-  if (bank) resize_ready(m.bank_rad, n + 1);
+  // A long mesh is laid out on two threads where there are two (the halves are the same either
+  // way); its buffers are made ready on both.
+  if (threads == 0)
+    threads = n + 1 >= points_apart && std::thread::hardware_concurrency() >= 2 ? 2 : 1;
+  const std::unique_ptr<SecondThread> second =
+      threads >= 2 ? SecondThread::try_start() : nullptr;  // none to be had: one thread
+  resize_ready({&m.s_m, &m.x_m, &m.y_m, &m.heading_rad, &m.curvature_1pm}, n + 1, second.get());
+  if (graded) resize_ready({&m.grade, &m.elevation_m}, n + 1, second.get());
+  if (bank) resize_ready({&m.bank_rad}, n + 1, second.get());
   m.trim_zone.assign(n + 1, 1);
   const bool widths = track.has_widths() || (lapped && !lapped->width_left_m.empty());
   if (widths)
@@ -453,10 +457,6 @@ Mesh build_mesh(const Track& track, double step_m, unsigned threads) {
         if (widths) m.width_left_m[i] = m.width_right_m[i] = 0.5 * st.width;
       }
     };
-    if (threads == 0)
-      threads = n + 1 >= points_apart && std::thread::hardware_concurrency() >= 2 ? 2 : 1;
-    const std::unique_ptr<SecondThread> second =
-        threads >= 2 ? SecondThread::try_start() : nullptr;  // none to be had: one thread
     in_halves(n + 1, second.get(), points);
   }
   if (lapped) {

@@ -270,7 +270,7 @@ namespace {
 
 void steady_halves(const Envelope& env, const Mesh& mesh, SteadyProfile& p, SecondThread* second) {
   const std::size_t n = mesh.size();
-  resize_ready(p.speed_mps, n);
+  resize_ready({&p.speed_mps}, n, second);
   p.limit.resize(n);
   in_halves(n, second,
             [&](std::size_t lo, std::size_t hi) { steady_points(env, mesh, p, lo, hi); });
@@ -1100,7 +1100,7 @@ void LapSolver::speed_pass(const Envelope& env, const Mesh& mesh, double start_s
     both(0, start_speed_mps, n - 1, steady[n - 1]);
   }
 
-  resize_ready(lap.speed_mps, n);
+  resize_ready({&lap.speed_mps, &lap.time_s}, n, second);
   lap.phase.resize(n);
   for (std::size_t i = 0; i < n; ++i) {
     const double v = std::min(fwd.speed_mps[i], bwd.speed_mps[i]);
@@ -1112,7 +1112,6 @@ void LapSolver::speed_pass(const Envelope& env, const Mesh& mesh, double start_s
 
   // Time: sum of 2 ds / (v_i + v_{i+1}), exact for a constant acceleration over each step
   // (ds / mean speed; README, "Physics and assumptions").
-  resize_ready(lap.time_s, n);
   lap.time_s[0] = 0.0;
   for (std::size_t i = 0; i + 1 < n; ++i) {
     const double vsum = lap.speed_mps[i] + lap.speed_mps[i + 1];
@@ -1175,12 +1174,20 @@ void LapSolver::channels_pass(const Envelope& env, const Mesh& mesh, ChannelSet 
   // Channels along the lap.
   const Car& car = env.car();
   const double m = env.mass_kg(), wb = car.wheelbase_m;
-  for (auto* v : {&lap.long_accel_mps2, &lap.lat_accel_mps2, &lap.drag_n, &lap.downforce_n,
-                  &lap.front_load_n, &lap.rear_load_n})
-    resize_ready(*v, n);
+  SecondThread* const second = second_thread(n);
+  if (all)
+    resize_ready({&lap.long_accel_mps2, &lap.lat_accel_mps2, &lap.drag_n, &lap.downforce_n,
+                  &lap.front_load_n, &lap.rear_load_n, &lap.engine_radps, &lap.aero_balance_eff,
+                  &lap.front_usage, &lap.rear_usage},
+                 n, second);
+  else
+    resize_ready({&lap.long_accel_mps2, &lap.lat_accel_mps2, &lap.drag_n, &lap.downforce_n,
+                  &lap.front_load_n, &lap.rear_load_n},
+                 n, second);
   lap.trimmed.resize(n);
-  for (auto* v : {&lap.engine_radps, &lap.aero_balance_eff, &lap.front_usage, &lap.rear_usage})
-    all ? resize_ready(*v, n) : v->clear();
+  if (!all)
+    for (auto* v : {&lap.engine_radps, &lap.aero_balance_eff, &lap.front_usage, &lap.rear_usage})
+      v->clear();
   if (!all) lap.gear.clear();
   // The acceleration at a point: d(v^2)/(2 ds) by the central difference
   // (v_{i+1}^2 - v_{i-1}^2) / (4 ds) (through the seam of a closed lap; one-sided at the ends of
@@ -1303,7 +1310,7 @@ void LapSolver::channels_pass(const Envelope& env, const Mesh& mesh, ChannelSet 
   };
   // Always the same two halves, whatever the threads (the hints start afresh at the second), so
   // that the channels are the same bit for bit on one thread or two.
-  in_halves(n, second_thread(n), points);
+  in_halves(n, second, points);
 }
 
 Lap LapSolver::take() {

@@ -6,7 +6,10 @@
 #pragma once
 
 #include <cstddef>
+#include <initializer_list>
 #include <vector>
+
+#include "lapwing/base/halves.hpp"
 
 namespace lapwing {
 
@@ -23,6 +26,26 @@ void resize_ready(std::vector<T>& v, std::size_t n) {
     populate(v.data(), n * sizeof(T));
   }
   v.resize(n);
+}
+
+/// resize_ready for several buffers at once, their new storage made ready in two halves of the
+/// points, [0, n/2) and [n/2, n), the second on `second` where there is one. Readying the pages
+/// is the system's work and most of a fresh buffer's cost; on two cores two threads do it in
+/// about 0.6 of the time one takes (README, "Performance"). The same contents either way.
+template <typename T>
+void resize_ready(std::initializer_list<std::vector<T>*> buffers, std::size_t n,
+                  SecondThread* second) {
+  std::vector<T*> fresh;
+  for (std::vector<T>* v : buffers)
+    if (n > v->capacity() && n * sizeof(T) >= (std::size_t{1} << 16)) {
+      v->reserve(n);
+      fresh.push_back(v->data());
+    }
+  if (!fresh.empty())
+    in_halves(n, second, [&](std::size_t lo, std::size_t hi) {
+      for (T* p : fresh) populate(p + lo, (hi - lo) * sizeof(T));
+    });
+  for (std::vector<T>* v : buffers) v->resize(n);
 }
 
 }  // namespace lapwing

@@ -1,5 +1,6 @@
-// An input file as a tree of nodes that remember where they stand (file, line, column), read with
-// yaml-cpp's event parser so that duplicate keys and aliases can be refused, plus a Reader that
+// An input file as a tree of nodes that remember where they stand (file, line, column), read by
+// a fast reader of plain YAML or, for any other text, with yaml-cpp's event parser so that
+// duplicate keys and aliases can be refused (both build the same tree), plus a Reader that
 // takes keys out of a map by name, converts them to SI, checks ranges, and refuses unknown keys
 // with a "did you mean" suggestion. Every error is an InputError with FILE:LINE:COL and key path.
 #pragma once
@@ -52,6 +53,16 @@ Document load_document(const std::string& file);
 
 /// Parses YAML text held in memory (`file` is the name used in errors).
 Document parse_document(const std::string& text, const std::string& file);
+
+namespace detail {
+/// The two readers behind parse_document, for the tests that hold them against each other (text
+/// already checked as UTF-8 without NUL). The fast reader takes a plain subset of YAML (block maps
+/// and lists, one-line flow maps and lists, plain and simple quoted scalars, comments) and returns
+/// nothing for any other text, and for any error, so that yaml-cpp reads it instead.
+std::optional<Node> read_simple_yaml(std::string_view text);
+/// yaml-cpp's event parser: any YAML; InputError on what lapwing refuses.
+Node read_yaml(const std::string& text, const std::string& file);
+}  // namespace detail
 
 /// Takes keys out of one map node. Call finish() after the last read: any key not read is an
 /// unknown key and an error.
