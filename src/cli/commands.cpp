@@ -781,8 +781,9 @@ namespace lapwing::cli {
 int track_from_log(const FromLogOptions& o) {
   if (o.distance.empty() == o.time.empty())
     throw UsageError{"give one of --distance COL and --time COL"};
-  if (o.lat_accel.empty() && o.yaw_rate.empty())
-    throw UsageError{"give --lat-accel COL (or --yaw-rate COL)"};
+  // The curvature comes from one channel: two given would leave one unread without a word.
+  if (o.lat_accel.empty() == o.yaw_rate.empty())
+    throw UsageError{"give one of --lat-accel COL and --yaw-rate COL"};
   const std::filesystem::path out(o.out);
   if (out.extension() != ".yaml") throw UsageError{"--out must name a .yaml track file"};
   LogOptions l;
@@ -830,6 +831,17 @@ int track_from_log(const FromLogOptions& o) {
                           ")"
                     : std::string(" (given)"))
             << "\n";
+  // The spacing of the log's rows, which the track's data-quality verdict judges: the track is
+  // resampled every 0.5 m, but draws no more than its rows (README, "Tracks from data").
+  const Verdict by_spacing = verdict_of(t.row_spacing_m, std::nullopt);
+  std::cout << "rows    " << fixed(t.row_spacing_m, 1) << " m apart (median): data-quality verdict "
+            << verdict_name(by_spacing) << " by its spacing\n";
+  if (by_spacing == Verdict::poor)
+    std::cout << "warning: the log's rows are more than " << fixed(quality_usable_spacing_m, 0)
+              << " m apart: they cannot draw a hairpin, and the track rounds its tight corners "
+                 "(it laps fast); log at 10 Hz or more\n";
+  for (const auto& n : t.notes) std::cout << "note    " << n << "\n";
+  for (const auto& w : t.warnings) std::cout << "warning: " << w << "\n";
   return 0;
 }
 
@@ -1016,6 +1028,7 @@ int correlate(const CorrelateOptions& o, Inputs& in) {
   out +=
       "track   " + t.track.name + " (" + t.track.file + "), " + fixed(t.mesh.length_m, 1) + " m\n";
   out += "log     " + o.log + ", " + std::to_string(logs.front().table.rows()) + " rows\n";
+  for (const auto& n : logs.front().notes) out += "note    " + n + "\n";
   out += correlate_text(t, c);
   if (!o.out.empty()) {
     std::vector<OutputFile> files;
@@ -1122,8 +1135,10 @@ int fit(const FitOptions& o, Inputs& in) {
   std::string out;
   out += "car     " + car.name + " (" + car.file + "), config " + car.configs[ci].name + ", " +
          model_name(car) + " model\n";
-  for (std::size_t i = 0; i < logs.size(); ++i)
+  for (std::size_t i = 0; i < logs.size(); ++i) {
     out += "log     " + o.logs[i] + " on " + track_names[i] + "\n";
+    for (const auto& n : logs[i].notes) out += "note    " + n + "\n";
+  }
   out += "\n" + fit_text(r, o.logs);
   if (!o.out.empty()) {
     // The input car with the fitted values written in, and a header saying what was fitted to

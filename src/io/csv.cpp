@@ -1,6 +1,7 @@
 #include "lapwing/io/csv.hpp"
 
 #include <fstream>
+#include <limits>
 
 #include "lapwing/base/error.hpp"
 #include "lapwing/base/text.hpp"
@@ -22,17 +23,55 @@ const std::vector<double>& CsvTable::column(const std::string& name) const {
     for (const auto& n : names) have += (have.empty() ? "" : ", ") + n;
     throw InputError(file, Mark{1, 1}, "no column '" + name + "' (the header has " + have + ")");
   }
-  return columns[static_cast<std::size_t>(i)];
+  const auto c = static_cast<std::size_t>(i);
+  if (c < bad.size() && bad[c])
+    throw InputError(file, Mark{bad[c]->line, bad[c]->col},
+                     "'" + bad[c]->text + "' is not a number (column " + name + ")");
+  return columns[c];
 }
 
 namespace {
-std::vector<std::string> split(const std::string& line, std::vector<int>& starts) {
+// The fields of a line, and the column each starts at (from 1). A field whose first character
+// other than blanks is a double quote is quoted (RFC 4180, section 2): its text runs to the
+// quote that closes it, a doubled quote standing for one, commas included; blanks may follow.
+// `unclosed`: the column of a quote that is not closed on the line, or of text after a closing
+// quote (0: none).
+std::vector<std::string> split(const std::string& line, std::vector<int>& starts,
+                               int* unclosed = nullptr) {
   std::vector<std::string> out;
   starts.clear();
+  if (unclosed) *unclosed = 0;
   std::size_t at = 0;
   while (true) {
-    const std::size_t comma = line.find(',', at);
     starts.push_back(static_cast<int>(at) + 1);
+    std::size_t q = at;
+    while (q < line.size() && (line[q] == ' ' || line[q] == '\t')) ++q;
+    if (q < line.size() && line[q] == '"') {
+      std::string text;
+      std::size_t i = q + 1;
+      bool closed = false;
+      for (; i < line.size(); ++i) {
+        if (line[i] != '"') {
+          text.push_back(line[i]);
+        } else if (i + 1 < line.size() && line[i + 1] == '"') {
+          text.push_back('"');
+          ++i;
+        } else {
+          closed = true;
+          ++i;
+          break;
+        }
+      }
+      while (i < line.size() && (line[i] == ' ' || line[i] == '\t')) ++i;
+      if (unclosed && *unclosed == 0 && (!closed || (i < line.size() && line[i] != ',')))
+        *unclosed = static_cast<int>(closed ? i : q) + 1;
+      out.push_back(text);
+      const std::size_t comma = line.find(',', i);
+      if (comma == std::string::npos) break;
+      at = comma + 1;
+      continue;
+    }
+    const std::size_t comma = line.find(',', at);
     out.push_back(line.substr(at, comma == std::string::npos ? std::string::npos : comma - at));
     if (comma == std::string::npos) break;
     at = comma + 1;
@@ -122,7 +161,12 @@ CsvTable read_csv(const std::string& file, std::size_t min_rows) {
         if (line.find('\t') != std::string::npos)
           throw InputError(file, Mark{n, 1}, "the file looks tab-separated; lapwing reads commas");
       }
-      const auto header = split(line, starts);
+      int unclosed = 0;
+      const auto header = split(line, starts, &unclosed);
+      if (unclosed)
+        throw InputError(file, Mark{n, unclosed + bom},
+                         "a quoted column name must end with its closing quote before the next "
+                         "comma (a quote inside one is doubled: RFC 4180)");
       for (auto name : header) {
         name = trim(name);
         if (name.empty() || parse_number(name)) {
@@ -145,19 +189,24 @@ CsvTable read_csv(const std::string& file, std::size_t min_rows) {
       }
       t.header_line = n;
       t.columns.resize(t.names.size());
+      t.bad.resize(t.names.size());
       continue;
     }
-    const auto fields = split(line, starts);
+    int unclosed = 0;
+    const auto fields = split(line, starts, &unclosed);
+    if (unclosed)
+      throw InputError(file, Mark{n, unclosed},
+                       "a quoted field must end with its closing quote before the next comma (a "
+                       "quote inside one is doubled: RFC 4180)");
     if (fields.size() != t.names.size())
       throw InputError(file, Mark{n, 1},
                        "expected " + std::to_string(t.names.size()) + " fields, got " +
                            std::to_string(fields.size()));
     for (std::size_t c = 0; c < fields.size(); ++c) {
       const auto v = parse_number(fields[c]);
-      if (!v)
-        throw InputError(file, Mark{n, starts[c]},
-                         "'" + trim(fields[c]) + "' is not a number (column " + t.names[c] + ")");
-      t.columns[c].push_back(*v);
+      // No number: refused when the column is read (CsvTable::column), at its first such field.
+      if (!v && !t.bad[c]) t.bad[c] = CsvTable::BadField{n, starts[c], trim(fields[c])};
+      t.columns[c].push_back(v ? *v : std::numeric_limits<double>::quiet_NaN());
     }
     t.lines.push_back(n);
   }

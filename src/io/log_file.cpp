@@ -1,5 +1,6 @@
 #include "lapwing/io/log_file.hpp"
 
+#include <algorithm>
 #include <cmath>
 #include <cstdio>
 #include <filesystem>
@@ -48,6 +49,52 @@ constexpr CsvColumn<ProfileRow> profile_columns[] = {
     {"curvature_1pm", [](std::string& o, const ProfileRow& r) { csv_number(o, r.curvature_1pm); }},
 };
 
+// A log that begins (or ends) with the car standing still (a standing start, a log begun in the
+// pit box): the rows before the car first moves are left out but the last of them (the start,
+// at rest), and likewise after it last stops, with a note naming them. At rest between two rows:
+// the distance does not move (given), or the speed is 0 at both (time: the distance integrated
+// from the speed does not move). A log in which the car never moves is left whole (its own
+// errors follow). The table keeps its rows' file lines, so later errors still name the file's.
+void drop_standstill(CsvTable& t, const std::string& speed, const std::string& distance,
+                     const std::string& time, std::vector<std::string>& notes) {
+  if (t.find(speed) < 0 || t.find(distance.empty() ? time : distance) < 0) return;  // named later
+  const std::vector<double>& v = t.column(speed);
+  const std::vector<double>* d = distance.empty() ? nullptr : &t.column(distance);
+  const std::size_t n = t.rows();
+  auto at_rest = [&](std::size_t i) {  // between rows i and i + 1
+    return d ? (*d)[i + 1] == (*d)[i] : v[i] == 0.0 && v[i + 1] == 0.0;
+  };
+  std::size_t first = 0, last = n - 1;
+  while (first + 1 < n && at_rest(first)) ++first;
+  if (first + 1 >= n) return;  // never moves
+  while (last > first && at_rest(last - 1)) --last;
+  if (first == 0 && last == n - 1) return;
+  auto lines = [&](std::size_t a, std::size_t b) {
+    return a == b ? "line " + std::to_string(t.lines[a])
+                  : "lines " + std::to_string(t.lines[a]) + " to " + std::to_string(t.lines[b]);
+  };
+  if (first > 0)
+    notes.push_back("the car stands still before it moves: " + lines(0, first - 1) +
+                    " left out (the log starts at line " + std::to_string(t.lines[first]) +
+                    ", the last row at rest)");
+  if (last < n - 1)
+    notes.push_back("the car stands still after it stops: " + lines(last + 1, n - 1) +
+                    " left out (the log ends at line " + std::to_string(t.lines[last]) +
+                    ", the first row at rest)");
+  const auto keep = [&](auto& rows) {
+    rows.erase(rows.begin() + static_cast<std::ptrdiff_t>(last + 1), rows.end());
+    rows.erase(rows.begin(), rows.begin() + static_cast<std::ptrdiff_t>(first));
+  };
+  for (auto& c : t.columns) keep(c);
+  keep(t.lines);
+  if (t.rows() < log_min_samples)
+    throw InputError(t.file, Mark{t.lines.back(), 1},
+                     "only " + std::to_string(t.rows()) +
+                         " rows where the car moves (those where it stands still left out); at "
+                         "least " +
+                         std::to_string(log_min_samples) + " are needed");
+}
+
 }  // namespace
 
 std::optional<Violation> LogOptions::validate() const {
@@ -59,8 +106,8 @@ std::optional<Violation> LogOptions::validate() const {
       .rule(!speed.empty(), "speed", "give the speed column")
       .rule(distance.empty() != time.empty(), "distance",
             "give one of the distance and time columns")
-      .rule(!lat_accel.empty() || by_yaw, "lat_accel",
-            "give the lateral acceleration column (or the yaw rate column)")
+      .rule(lat_accel.empty() == by_yaw, "lat_accel",
+            "give one of the lateral acceleration and yaw rate columns")
       // The unit of each channel used (an option for a channel not used is not read).
       .rule(speed_scale(speed_unit).has_value(), "speed_unit",
             [&] { return unit("speed", speed_unit); })
@@ -79,9 +126,11 @@ std::optional<Violation> LogOptions::validate() const {
 }
 
 LogTrack track_from_log(const LogOptions& o, const std::string& csv_name) {
-  const CsvTable t = read_csv(o.log, 10);
+  CsvTable t = read_csv(o.log, 10);
   // Bad options are this log's error, as a whole (they name no row).
   if (const auto v = o.validate()) throw InputError(o.log, Mark{}, v->message());
+  std::vector<std::string> notes;
+  drop_standstill(t, o.speed, o.distance, o.time, notes);
   auto kph_text = [](double mps) {
     char buf[32];
     std::snprintf(buf, sizeof buf, "%.1f", mps / units::kph);
@@ -155,11 +204,26 @@ LogTrack track_from_log(const LogOptions& o, const std::string& csv_name) {
   // turn reads about 9.81 (57.3 for a yaw rate) times one turn, or that part of one; near a
   // whole number the units are right and the gap is the log's own (within a factor of 1.5 of
   // each: 3.6^2 = 13 turns, a speed in km/h read as m/s with a yaw rate, is none of them).
+  // A gap in the rows much wider than their median spacing (a dropout): what it does to the
+  // lap is named at the row after it.
+  auto has_gap = [&] {
+    return lc.largest_gap_m > std::max(log_sparse_spacing_m, 4.0 * lc.row_spacing_m);
+  };
   auto closure_hint = [&](double turns) {
     const double factor = by_yaw ? 57.3 : 9.81;
     const auto about = [](double x, double target) { return x > target / 1.5 && x < target * 1.5; };
     if (about(turns, factor)) return unit_hint(true);
     if (about(turns, 1.0 / factor)) return unit_hint(false);
+    // Units right, the rows too few to draw the lap: a dropout, or a log too sparse throughout.
+    if (has_gap())
+      return "the log has a gap here: rows " + fixed(lc.largest_gap_m, 1) +
+             " m apart where the median is " + fixed(lc.row_spacing_m, 2) +
+             " m (a dropout); the curvature across it is a straight guess, so the lap cannot "
+             "close: give a log without the gap";
+    if (lc.row_spacing_m > log_sparse_spacing_m)
+      return "the log's rows are " + fixed(lc.row_spacing_m, 1) +
+             " m apart (median): too sparse to draw the corners, so the lap cannot close: log "
+             "at 10 Hz or more";
     if (turns >= 0.5 && std::abs(turns - std::round(turns)) < 0.1)
       return std::string(
           "the turns are close to a whole number, so the units look right: the log may not start "
@@ -190,7 +254,9 @@ LogTrack track_from_log(const LogOptions& o, const std::string& csv_name) {
        << " m from its start, more than " << 100 * log_max_closure_fraction << " % of the lap's "
        << lc.length_m << " m (its curvature adds up to " << lc.turns
        << " turns where a lap makes a whole number): " << closure_hint(std::abs(lc.turns));
-    throw InputError(o.log, Mark{t.lines.back(), 1}, os.str());  // the end that misses
+    // The end that misses; or the gap, when the rows have one and no unit explains the miss.
+    const bool at_gap = os.str().find("the log has a gap here") != std::string::npos;
+    throw InputError(o.log, Mark{t.lines[at_gap ? lc.largest_gap_row : t.rows() - 1], 1}, os.str());
   }
   // What it writes must load: no turn tighter than any track's 1 m radius (issue 19, finding 12:
   // a lap closed over a few metres, a slow log's a_y / v^2).
@@ -211,6 +277,54 @@ LogTrack track_from_log(const LogOptions& o, const std::string& csv_name) {
   out.closure_gap_m = lc.closure_gap_m;
   out.smoothing_m = lc.smoothing_m;
   out.smoothing = lc.smoothing;
+  out.row_spacing_m = lc.row_spacing_m;
+  out.overlap_m = lc.overlap_m;
+  out.turns = lc.turns;
+  out.notes = std::move(notes);
+  if (lc.overlap_m > 0.0)
+    out.notes.push_back("the log runs " + fixed(lc.overlap_m, 1) +
+                        " m past the line through its start (where its path crosses it again): "
+                        "that part is left out, as a lap ends at the line");
+  if (has_gap())
+    out.warnings.push_back("rows " + fixed(lc.largest_gap_m, 1) + " m apart at line " +
+                           std::to_string(t.lines[lc.largest_gap_row]) + " (the median is " +
+                           fixed(lc.row_spacing_m, 2) +
+                           " m): a dropout; the track across it is a straight guess of its "
+                           "curvature");
+  // A closed lap turns a whole number of times. With the speed and the turning channel right,
+  // the distance scales the turns its curvature adds up to: a channel that reads long or short
+  // shows there (README, "Commands": track from-log).
+  if (o.closed) {
+    const double whole = std::round(lc.turns);
+    const double implied = whole != 0.0 ? lc.turns / whole : 1.0;
+    if (std::abs(implied - 1.0) > log_turns_warning_fraction) {
+      const double pct = 100.0 * (implied - 1.0);
+      const std::string by = fixed(std::abs(pct), 2) + " %";
+      const std::string turning = by_yaw ? "yaw rate" : "lateral acceleration";
+      const std::string figures = "the lap's curvature adds up to " + fixed(lc.turns, 4) +
+                                  " turns where a lap makes " + fixed(whole, 0) + " (" +
+                                  fixed(lc.closure_heading_deg, 2) +
+                                  " deg of heading, spread along it)";
+      out.warnings.push_back(
+          figures +
+          // Rows too sparse to draw the corners miss heading of their own: the sampling is
+          // the first suspect, not a channel's scale.
+          (lc.row_spacing_m > log_sparse_spacing_m
+               ? std::string(": rows " + fixed(lc.row_spacing_m, 1) +
+                             " m apart draw the corners short, which may explain it; a channel "
+                             "that reads " +
+                             by + " off would too")
+           : o.distance.empty()
+               ? ": the channels disagree by " + by + ". With the " + turning +
+                     " right, the speed reads " + by + (pct > 0 ? " low" : " high") +
+                     " (a wheel speed's rolling radius)"
+               : ": the channels disagree by " + by + ". With the speed and the " + turning +
+                     " right, the distance reads " + by + (pct > 0 ? " long" : " short") +
+                     ": the track is " + fixed(lc.length_m, 1) + " m, and scaled by 1/" +
+                     fixed(implied, 4) + " it would be " + fixed(lc.length_m / implied, 1) +
+                     " m (a wheel's rolling radius; check the distance channel)"));
+    }
+  }
   CsvWriter<ProfileRow> csv(profile_columns, lc.s_m.size());
   for (std::size_t j = 0; j < lc.s_m.size(); ++j) csv.add({lc.s_m[j], lc.curvature_1pm[j]});
   std::ostringstream y_out;
@@ -224,12 +338,15 @@ LogTrack track_from_log(const LogOptions& o, const std::string& csv_name) {
         << printable(std::filesystem::path(o.log).filename().string()) << ": curvature from "
         << (by_yaw ? "yaw rate / speed" : "lateral acceleration / speed^2") << ", filtered over "
         << fixed(lc.smoothing_m, 1) << " m"
-        << (lc.smoothing.automatic ? " (auto: generalised cross-validation)" : "") << ".\n";
+        << (lc.smoothing.automatic ? " (auto: generalised cross-validation)" : "")
+        << "; the log's rows are " << fixed(lc.row_spacing_m, 2)
+        << " m apart (median), the spacing the data-quality verdict judges (source_spacing).\n";
   y_out << "format: 1\nname: " << json_quote(name) << "\nclosed: " << (o.closed ? "true" : "false")
         << "\n";
   if (!o.closed) y_out << "start_speed: " << format_number(v0) << " m/s  # the log's first\n";
   y_out << air_yaml(o.air);
-  y_out << "mesh: 0.5 m\ncurvature: {file: " << json_quote(csv_name) << "}\n";
+  y_out << "mesh: 0.5 m\ncurvature: {file: " << json_quote(csv_name)
+        << ", source_spacing: " << format_number(lc.row_spacing_m) << " m}\n";
   out.yaml = y_out.str();
   out.csv = csv.take();
   return out;
@@ -249,6 +366,7 @@ SpeedLogFile read_speed_log(const SpeedLogOptions& o) {
   if (const auto v = o.validate()) throw InputError(o.log, Mark{}, v->message());
   SpeedLogFile f;
   f.table = read_csv(o.log, log_min_samples);
+  drop_standstill(f.table, o.speed, o.distance, o.time, f.notes);
   const CsvTable& t = f.table;
   LoggedSpeed& log = f.speed;
   log.source = o.log;
@@ -274,6 +392,19 @@ SpeedLogFile read_speed_log(const SpeedLogOptions& o) {
   if (!o.distance.empty()) {
     require_increasing(t, o.distance);
     log.distance_m = t.column(o.distance);
+    // A speed of 0 at two rows between which the distance moves on is a dropout of the speed
+    // channel (the car cannot cover ground at rest): named at its row.
+    for (std::size_t i = 1; i < log.distance_m.size(); ++i)
+      if (log.speed_mps[i] == 0.0 && log.speed_mps[i - 1] == 0.0) {
+        char buf[32];
+        std::snprintf(buf, sizeof buf, "%.2f", log.distance_m[i] - log.distance_m[i - 1]);
+        throw InputError(o.log, Mark{t.lines[i], 1},
+                         std::string("the logged speed is 0 at this row and the one before, yet "
+                                     "the distance moves on ") +
+                             buf +
+                             " m between them: a dropout of the speed channel (give a log "
+                             "without it, or its speed)");
+      }
   } else {
     require_increasing(t, o.time);
     log.distance_m = distance_from_time(t.column(o.time), log.speed_mps);

@@ -18,6 +18,10 @@ namespace lapwing {
 
 namespace {
 
+// A curvature profile's source_spacing: (0, 10 km] (points further apart than that are no
+// track's data).
+constexpr Range source_spacing_range{0.0, 10000.0, true, false};
+
 double turn_sign(Reader& r) {
   return r.choice("turn", {"left", "right"}) == "left" ? 1.0 : -1.0;
 }
@@ -155,11 +159,18 @@ TrackFile read_track_file(const std::string& file) {
     out.sources.data("centerline", f, std::move(data.lines));
   } else if (r.has("curvature")) {
     Reader c = r.map("curvature");
-    c.keys({"file"});
+    c.keys({"file", "source_spacing"});
     const std::string f = data_file(c);
+    // The spacing of the data the rows were resampled from (a log's: `track from-log`), which
+    // the data-quality verdict judges instead of the rows'.
+    const std::optional<double> source_spacing =
+        c.has("source_spacing") ? std::optional<double>(c.quantity(
+                                      "source_spacing", Quantity::length, source_spacing_range))
+                                : std::nullopt;
     c.finish();
     ProfileFile data = read_curvature_file(f);
     t.profile = std::move(data.profile);
+    if (source_spacing) t.profile->source_spacing_m = *source_spacing;
     out.sources.data("curvature", f, std::move(data.lines));
   } else {
     const Node& segs = r.require("segments");

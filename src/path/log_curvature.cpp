@@ -24,7 +24,7 @@ std::optional<Violation> LogCurvatureOptions::validate() const {
 
 LogCurvature log_curvature(const LogChannels& log, const LogCurvatureOptions& o) {
   require_valid(o.validate(), "log options");
-  const std::vector<double>& v = log.speed_mps;
+  std::vector<double> v = log.speed_mps;  // a copy: an overlap past the line is cut off
   const bool by_distance = !log.distance_m.empty(), by_yaw = !log.yaw_rate_radps.empty();
   const std::vector<double>& along = by_distance ? log.distance_m : log.time_s;
   const std::vector<double>& turning = by_yaw ? log.yaw_rate_radps : log.lat_accel_mps2;
@@ -93,6 +93,43 @@ LogCurvature log_curvature(const LogChannels& log, const LogCurvatureOptions& o)
                          broken_rule("", "no row is fast enough to read curvature from"));
     for (std::size_t j = last + 1; j < k.size(); ++j) k[j] = k[last];
   }
+  // The median row spacing (what the log can draw) and the widest gap between rows.
+  auto median_spacing = [&] {
+    std::vector<double> gaps(s.size() - 1);
+    for (std::size_t i = 1; i < s.size(); ++i) gaps[i - 1] = s[i] - s[i - 1];
+    std::nth_element(gaps.begin(), gaps.begin() + static_cast<std::ptrdiff_t>(gaps.size() / 2),
+                     gaps.end());
+    return gaps[gaps.size() / 2];
+  };
+  double overlap = 0.0;
+  if (o.closed && s.size() >= 3 && std::isfinite(s.back())) {
+    // A closed lap's log that runs on past the line (a logger stopped some way after it) would
+    // make a track as much too long. The rows' own path (their curvature integrated, heading 0
+    // at the first row, so the line through the start is x = 0) says where the lap crosses the
+    // line again: searched back from the end over the log's last 10 %, moving forward, within
+    // 2 % of the length of the start. Cut there when that is more than 2 row spacings (and 2 m)
+    // before the end: within that the end is the line, as near as the rows can say.
+    std::vector<double> x, y, th;
+    integrate_path(s, k, x, y, &th);
+    const double total = s.back(), spacing = median_spacing();
+    for (std::size_t j = s.size() - 1; j >= 2 && s[j] > 0.9 * total; --j) {
+      if (!(x[j - 1] < 0.0 && x[j] >= 0.0)) continue;
+      if (std::cos(th[j]) > 0.5 && std::abs(y[j]) < 0.02 * total) {
+        const double w = -x[j - 1] / (x[j] - x[j - 1]);
+        const double cut = lerp(s[j - 1], s[j], w);
+        if (total - cut > std::max(2.0, 2.0 * spacing)) {
+          overlap = total - cut;
+          k[j] = lerp(k[j - 1], k[j], w);
+          v[j] = lerp(v[j - 1], v[j], w);
+          s[j] = cut;
+          s.resize(j + 1);
+          k.resize(j + 1);
+          v.resize(j + 1);
+        }
+      }
+      break;
+    }
+  }
   // Resample evenly and filter.
   const double length = s.back();
   if (!(length <= PathProfile::max_length_m))
@@ -125,6 +162,13 @@ LogCurvature log_curvature(const LogChannels& log, const LogCurvatureOptions& o)
   }
   LogCurvature out;
   out.length_m = length;
+  out.overlap_m = overlap;
+  // The log's median row spacing: what its data can draw (the filter's search starts there,
+  // and the track's data-quality verdict judges it, not the 0.5 m resampling).
+  out.row_spacing_m = median_spacing();
+  for (std::size_t i = 1; i < s.size(); ++i)
+    if (s[i] - s[i - 1] > out.largest_gap_m)
+      out.largest_gap_m = s[i] - s[i - 1], out.largest_gap_row = i;
   // The filter's length: given, or chosen by GCV on the curvature resampled at the log's own
   // median row spacing (so that the samples are about the rows and their noise stays
   // independent from one to the next, as GCV assumes). Second differences, as the filter; a
@@ -133,12 +177,8 @@ LogCurvature log_curvature(const LogChannels& log, const LogCurvatureOptions& o)
   if (o.smoothing_m) {
     out.smoothing_m = *o.smoothing_m;
   } else {
-    std::vector<double> gaps(s.size() - 1);
-    for (std::size_t i = 1; i < s.size(); ++i) gaps[i - 1] = s[i] - s[i - 1];
-    std::nth_element(gaps.begin(), gaps.begin() + static_cast<std::ptrdiff_t>(gaps.size() / 2),
-                     gaps.end());
     const std::size_t nr = std::max<std::size_t>(
-        10, static_cast<std::size_t>(std::llround(length / gaps[gaps.size() / 2])));
+        10, static_cast<std::size_t>(std::llround(length / out.row_spacing_m)));
     const double hr = length / static_cast<double>(nr);
     std::vector<double> kr;
     std::size_t at = 0;

@@ -32,7 +32,9 @@ std::string findings(const TrackQuality& q) {
   if (q.segments) return "segments (exact geometry)";
   std::string o = source_name(q);
   if (q.spacing_m)
-    o += std::string(q.source == PathProfile::Source::curvature ? ", rows " : ", points ") +
+    o += std::string(q.source_spacing                             ? ", from data rows "
+                     : q.source == PathProfile::Source::curvature ? ", rows "
+                                                                  : ", points ") +
          fixed(*q.spacing_m, 1) + " m apart";
   if (q.noise_m)
     o += ", noise " + fixed(1000 * *q.noise_m, 0) + " mm rms" +

@@ -326,6 +326,40 @@ SweepStore::SweepStore(const std::string& file, const StudyRecord& study, const 
     throw OutputError(file +
                       " holds another study (other inputs, sets, design or configs); give a "
                       "new --out, or the same command to resume it");
+  {
+    // The shards the file holds ("K/N"; a merged file's "1/4,2/4"). A run that splits the study
+    // another way (another N; no --shard is 1/1) would add its points under a label that does
+    // not say so: refused. A shard of the same split not yet held joins the list, as a merge's.
+    std::string held;
+    {
+      Statement s(c, "SELECT shard FROM study");
+      if (s.step()) held = s.text(0);
+    }
+    const auto of_n = [](const std::string& k_n) { return k_n.substr(k_n.find('/') + 1); };
+    std::set<std::string> each;
+    for (std::size_t x = 0; x <= held.size();) {
+      const std::size_t y = std::min(held.find(',', x), held.size());
+      if (y > x) each.insert(held.substr(x, y - x));
+      x = y + 1;
+    }
+    for (const auto& one : each)
+      if (of_n(one) != of_n(study.shard))
+        throw OutputError(file + " holds shard " + held + " of this study, and --shard " +
+                          study.shard +
+                          " splits it another way (another N; no --shard is 1/1): give "
+                          "--shard of the same split to resume it, or a new --out");
+    if (each.insert(study.shard).second) {
+      std::string list;
+      for (const auto& one : each) list += (list.empty() ? "" : ",") + one;
+      c.exec("BEGIN");
+      {
+        Statement upd(c, "UPDATE study SET shard = ?");
+        upd.bind(1, list);
+        upd.step();
+      }
+      c.exec("COMMIT");
+    }
+  }
   Statement s(c, "SELECT DISTINCT point FROM laps");
   while (s.step()) {
     const std::int64_t p = s.integer(0);

@@ -85,12 +85,14 @@ TrackQuality assess_track(const Circuit& c, const SmoothingVariants& v, const Co
     q.noise_estimated = p->smoothing.automatic;
     q.noise_m = p->smoothing.automatic ? p->smoothing.noise_rms : p->fit_residual_rms_m;
   } else {
-    // A curvature profile's rows, as given.
+    // A curvature profile's rows, as given; or, when it was resampled from data further
+    // apart (a log's rows: `track from-log`), that data's spacing, which is what it can draw.
+    q.source_spacing = p->source_spacing_m > 0.0;
     std::vector<double> gaps;
     for (std::size_t i = 1; i < p->s_m.size(); ++i) gaps.push_back(p->s_m[i] - p->s_m[i - 1]);
     std::nth_element(gaps.begin(), gaps.begin() + static_cast<std::ptrdiff_t>(gaps.size() / 2),
                      gaps.end());
-    q.spacing_m = gaps[gaps.size() / 2];
+    q.spacing_m = q.source_spacing ? p->source_spacing_m : gaps[gaps.size() / 2];
   }
   q.notes = v.notes;
   auto lap_of = [&](const std::optional<Circuit>& variant, const char* name,

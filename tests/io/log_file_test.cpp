@@ -199,6 +199,10 @@ TEST_CASE("log options name the first missing column, unknown unit or bad value"
   yaw.yaw_unit = "rpm";
   CHECK(test::describe(yaw.validate()) == "none");
   yaw.yaw_rate = "r";
+  // One of the two channels (the project's own rule: two would leave one unread in silence).
+  CHECK(test::describe(yaw.validate()) ==
+        "lat_accel: give one of the lateral acceleration and yaw rate columns");
+  yaw.lat_accel.clear();
   CHECK(test::describe(yaw.validate()) == "yaw_unit: unknown yaw unit 'rpm'");
   LogOptions smooth = o;
   smooth.smoothing_m = 0.5;

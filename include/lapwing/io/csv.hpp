@@ -1,11 +1,13 @@
 // Strict CSV reading for data files (centerlines, curvature profiles, logs): a header line of
-// column names (after any '#' comment lines), commas between fields, numbers in every field. BOM
-// and CRLF are accepted; a file that looks semicolon- or tab-separated, a column named twice, a
-// wrong field count, a non-number or a byte that is not UTF-8 is an InputError with file, line and
-// column (a header that was commented out with '#' is named as such). Read line by line (large logs
-// are streamed, not slurped).
+// column names (after any '#' comment lines), commas between fields, numbers in every field of a
+// column read (a column not read may hold anything). A field in double quotes is its text, a
+// doubled quote inside one quote (RFC 4180, section 2). BOM and CRLF are accepted; a file that
+// looks semicolon- or tab-separated, a column named twice, a wrong field count, a non-number or a
+// byte that is not UTF-8 is an InputError with file, line and column (a header that was commented
+// out with '#' is named as such). Read line by line (large logs are streamed, not slurped).
 #pragma once
 
+#include <optional>
 #include <string>
 #include <vector>
 
@@ -15,15 +17,23 @@ namespace lapwing {
 
 struct CsvTable {
   std::string file;
-  std::vector<std::string> names;
-  std::vector<std::vector<double>> columns;  // one per name
+  std::vector<std::string> names;            // as written, or the text of a quoted name
+  std::vector<std::vector<double>> columns;  // one per name (NaN for a field not a number)
+  // Per column, the first field that is no number (empty, or text), refused when the column is
+  // read: a column lapwing does not read may hold anything (a logger's marker or lap column).
+  struct BadField {
+    int line = 0, col = 0;
+    std::string text;
+  };
+  std::vector<std::optional<BadField>> bad;
   std::vector<int> lines;                    // file line of each row (for later errors)
   int header_line = 1;                       // file line of the header
 
   std::size_t rows() const { return lines.size(); }
   /// Index of column `name`, or -1.
   int find(const std::string& name) const;
-  /// The column named `name`; an InputError (line 1, naming the columns there are) if absent.
+  /// The column named `name`; an InputError (line 1, naming the columns there are) if absent,
+  /// or at its first field that is no number.
   const std::vector<double>& column(const std::string& name) const;
 };
 

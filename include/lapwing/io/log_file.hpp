@@ -5,6 +5,7 @@
 
 #include <optional>
 #include <string>
+#include <vector>
 
 #include "lapwing/base/range.hpp"
 #include "lapwing/base/violation.hpp"
@@ -38,6 +39,15 @@ struct LogOptions {
 inline constexpr double log_max_lateral_g = 8.0;          // no car corners harder
 inline constexpr double log_max_closure_fraction = 0.02;  // of the lap's length
 inline constexpr double log_max_start_speed_mps = 150.0;  // a track's start_speed range
+/// Rows further apart than this cannot draw a hairpin (the data-quality verdict's `poor`:
+/// README, "Tracks from data"; study/track_quality.hpp's quality_usable_spacing_m).
+inline constexpr double log_sparse_spacing_m = 10.0;
+/// A closed lap whose curvature adds up to more than 0.3 % off a whole number of turns (1.1 deg
+/// a turn) draws a warning: the project's own rule, above what clean logs show (from 5 Hz up,
+/// the bundled car's own laps close within 0.3 deg, 0.08 %; 10 Hz with noise 0.37 deg) and
+/// below a distance channel 0.6 % long (2.2 deg) and the bundled log whose distance reads long
+/// (logs/brannock-park-survey-lap.csv: 1.4 deg).
+inline constexpr double log_turns_warning_fraction = 0.003;
 
 /// The track file (YAML text) and its curvature CSV. Curvature = a_y / v^2 (a_y positive to the
 /// left), or yaw rate / v when a yaw-rate column is named; filtered; for a closed lap the
@@ -54,6 +64,11 @@ struct LogTrack {
   SmoothingInfo smoothing;                              // how it was set
   double start_speed_mps;                               // open logs: the first logged speed
   double peak_lateral_g;  // the largest |curvature| v^2 / g0 along the filtered log
+  double row_spacing_m;   // the log's median row spacing: the verdict's (source_spacing)
+  double overlap_m;       // a closed lap's log past its start, cut off (0: none)
+  double turns;           // a closed lap's curvature, added up, before its heading is closed
+  std::vector<std::string> notes;     // rows left out (a standstill before or after the lap)
+  std::vector<std::string> warnings;  // doubts about the data: its spacing, its distance
 };
 LogTrack track_from_log(const LogOptions& o, const std::string& csv_name);
 
@@ -71,13 +86,17 @@ struct SpeedLogOptions {
 struct SpeedLogFile {
   LoggedSpeed speed;
   CsvTable table;
+  std::vector<std::string> notes;  // rows left out (a standstill before or after the lap)
 };
 
 /// Reads a log's speed against distance (given, or integrated from time). InputError at the
 /// place: a missing column (naming those there are), fewer than 10 rows, a distance or time
 /// that does not increase strictly, a speed below 0 or beyond 900 km/h in the unit given (with
 /// the unit option that would make it plausible), a car that does not move between two rows, a
-/// log longer than 200 km (a track's most).
+/// speed of 0 at two rows between which the distance moves on (a dropout), a log longer than
+/// 200 km (a track's most). Rows at rest before the car first moves and after it last stops are
+/// left out but the one next to the moving rows, with a note (track_from_log reads logs so too).
+/// Other rows are the table's rows (fewer than the file's when rows at rest are left out).
 SpeedLogFile read_speed_log(const SpeedLogOptions& o);
 
 }  // namespace lapwing

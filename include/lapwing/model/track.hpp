@@ -104,6 +104,10 @@ struct PathProfile {
   double smoothing_m = 0.0, elevation_smoothing_m = 0.0;  // centerline fits
   SmoothingInfo smoothing;
   double sample_spacing_m = 0.0;  // a centerline fit's resampling step
+  // A curvature profile made from data further apart than its rows (a log's, resampled by
+  // `track from-log`: `curvature: {source_spacing}`): the data's median spacing, which the
+  // data-quality verdict judges instead of the rows'. 0: the rows are the data.
+  double source_spacing_m = 0.0;
   // Distance from the path to each edge, left and right in the direction of travel, per sample
   // (empty when the track has no widths).
   std::vector<double> width_left_m, width_right_m;

@@ -46,6 +46,14 @@ struct LogCurvatureOptions {
 struct LogCurvature {
   std::vector<double> s_m, curvature_1pm;  // every 0.5 m or so, filtered (closure spread)
   double length_m = 0.0;
+  double row_spacing_m = 0.0;  // the log's median row spacing (along the distance)
+  // The widest gap between consecutive rows (a dropout bridges the curvature across it) and the
+  // row after it.
+  double largest_gap_m = 0.0;
+  std::size_t largest_gap_row = 0;
+  // A closed lap's log that runs on past its start: the length cut off its end, where the path
+  // crosses the line through its start again (0: none).
+  double overlap_m = 0.0;
   double smoothing_m = 0.0;  // the filter's length: given, or chosen by GCV
   SmoothingInfo smoothing;   // how it was set
   /// The largest |curvature| v^2 / g0 along the filtered log (before any closure is spread),
@@ -66,8 +74,10 @@ struct LogCurvature {
 /// periodic for a closed lap) over the given length, or one chosen by generalised
 /// cross-validation on the curvature at the log's own median row spacing; for a closed lap the
 /// heading closed by a constant curvature change and the position by heading changes
-/// a sin(pi s / L) + b sin(2 pi s / L) that vanish at both ends. InvalidInput (subject: the
-/// source) for bad options, a row beyond the limits above ("speed_mps[i]", "lat_accel_mps2[i]",
+/// a sin(pi s / L) + b sin(2 pi s / L) that vanish at both ends; a closed lap's log that runs
+/// on past its start (its rows' path crosses the line through its start again, within 2 % of the
+/// length of it, more than 2 row spacings and 2 m before its end) cut there. InvalidInput (subject:
+/// the source) for bad options, a row beyond the limits above ("speed_mps[i]", "lat_accel_mps2[i]",
 /// "yaw_rate_radps[i]"), a car that does not move between two rows ("time_s[i]"), no row at
 /// min_speed or faster, or a log over 200 km ("speed_mps[last row]") or too short for
 /// log_min_samples.

@@ -10,7 +10,8 @@
 //   poor    otherwise (points over 10 m apart cannot draw a hairpin; a spread over 2 % means
 //           the lap depends on the smoothing more than on the car)
 // spread = (lap at half strength - lap at double strength) / lap, in absolute value.
-// Segment tracks are exact (good); a curvature profile is taken as given, judged by its spacing.
+// Segment tracks are exact (good); a curvature profile is taken as given, judged by its spacing
+// (or by its source's, when it was resampled from data further apart: a log's rows).
 #pragma once
 
 #include <optional>
@@ -46,6 +47,7 @@ struct TrackQuality {
   PathProfile::Source source = PathProfile::Source::centerline;
   bool segments = false;            // exact geometry: no data to judge
   std::optional<double> spacing_m;  // the data's median point (or row) spacing
+  bool source_spacing = false;      // a curvature profile's: its source's (a log's rows)
   std::optional<double> noise_m;    // a centerline's: GCV's estimate (auto) or the fit's
                                     // residual rms (a length given)
   bool noise_estimated = false;     // noise_m is GCV's estimate
