@@ -128,8 +128,10 @@ std::vector<double> smoothed(const std::vector<double>& v, const std::vector<std
 // (the last point, the line again, left out: point 0 stands for it).
 std::vector<std::size_t> span_to_apex(const Mesh& mesh, std::size_t from, std::size_t apex) {
   std::vector<std::size_t> out;
-  if (from > apex && mesh.closed) {
-    for (std::size_t i = from; i + 1 < mesh.size(); ++i) out.push_back(i);
+  if (from >= apex && mesh.closed) {
+    // Round the line. A closed lap's lone corner is its own previous corner: the span is the
+    // whole lap before its apex (from the point after it), not the apex alone.
+    for (std::size_t i = from == apex ? apex + 1 : from; i + 1 < mesh.size(); ++i) out.push_back(i);
     from = 0;
   }
   for (std::size_t i = std::min(from, apex); i <= apex; ++i) out.push_back(i);

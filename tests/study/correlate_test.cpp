@@ -3,10 +3,14 @@
 #include <doctest/doctest.h>
 
 #include <cmath>
+#include <cstdio>
+#include <fstream>
+#include <sstream>
 
 #include "lapwing/base/error.hpp"
 #include "lapwing/base/units.hpp"
 #include "lapwing/io/car_file.hpp"
+#include "lapwing/io/track_data.hpp"
 #include "lapwing/io/track_file.hpp"
 #include "lapwing/study/correlate.hpp"
 #include "test_support.hpp"
@@ -397,4 +401,43 @@ TEST_CASE("a log that ends at the line covers it at an alignment within the sear
   }
   const Correlation s = correlate(run.lap, c, short_log, Alignment{0.0, 1.0, 1.0});
   CHECK(s.coverage < 1.0 - 4.0 / static_cast<double>(c.mesh.size()));
+}
+
+TEST_CASE("a closed lap with one corner finds its braking point round the whole lap") {
+  // README, "Correlating with your data": a braking point is where the speed peaks between the
+  // previous corner's apex and this one's. A closed lap's lone corner is its own previous
+  // corner: the search is the whole lap before its apex. (Before, it was the apex alone: no
+  // braking point, '-', on a lap the car brakes into from 290 km/h.) A curvature profile: 400 m
+  // straight, a 20 m hairpin, then a 1 500 m bend (curvature below the corner finder's 1/800 m):
+  // one corner.
+  std::ostringstream os;
+  os.precision(12);
+  os << "distance_m,curvature_1pm\n";
+  double s0 = 0.0;
+  for (const auto& [length, k] : std::vector<std::pair<double, double>>{
+           {400.0, 0.0}, {units::pi * 20.0, 1.0 / 20.0}, {units::pi * 1500.0, 1.0 / 1500.0}}) {
+    const int n = static_cast<int>(std::lround(length));
+    for (int i = 0; i < n; ++i) os << s0 + length * i / n << "," << k << "\n";
+    s0 += length;
+  }
+  os << s0 << ",0\n";
+  const std::string file = test::scratch_file("one_corner.csv", os.str());
+  Track t = test::straight_track(1.0, 1.0, 0.0);
+  t.segments.clear();
+  t.closed = true;
+  t.profile = import_curvature(file);
+  const Circuit c = lay_out(t, make_air(t.air));
+  REQUIRE(c.corners.size() == 1);
+  const Lap lap = run_lap(medium(), c).lap;
+  const Correlation k = correlate(lap, c, log_of(lap, c.mesh, 0.0, 1.0, 0.0));
+  REQUIRE(k.corners.size() == 1);
+  const CornerError& e = k.corners.front();
+  // The car brakes from its top speed on the straight into the hairpin: the peak lies on the
+  // straight (its last 150 m), before the corner's apex at about 430 m.
+  REQUIRE(e.sim_braking_m);
+  REQUIRE(e.log_braking_m);
+  CHECK(*e.sim_braking_m > 250.0);
+  CHECK(*e.sim_braking_m < 400.0);
+  // The car's own lap logged every 2 m: the same point to a row's spacing.
+  CHECK(near(*e.log_braking_m, *e.sim_braking_m, 0.0, 2.0));
 }
