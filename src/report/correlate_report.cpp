@@ -52,6 +52,12 @@ std::string sector_logged(const SectorError& s) {
              : fixed(std::min(99.9, 100.0 * s.covered_m / length), 1) + " %";
 }
 
+// The share of the track the log covers: "100.0 %" only when all of it, at most 99.9 % when
+// any is missing (0.99985 rounds to 100.0 and read as whole beside a lap over less).
+std::string coverage_text(double coverage) {
+  return fixed(coverage >= 1.0 ? 100.0 : std::min(99.9, 100.0 * coverage), 1) + " %";
+}
+
 // A number, or null where it is not a number (a standard error not found).
 void number_or_null(JsonWriter& w, std::string_view key, double v) {
   optional_field(w, key, std::isfinite(v) ? std::optional<double>(v) : std::nullopt);
@@ -65,7 +71,7 @@ std::string correlate_text(const Circuit& circuit, const Correlation& c) {
        " m (the log's distance at the line), "
        "scale " +
        fixed(c.alignment.scale, 4) + ", speed correlation " + fixed(c.alignment.correlation, 4) +
-       ", " + fixed(100.0 * c.coverage, 1) + " % of the track covered\n";
+       ", " + coverage_text(c.coverage) + " of the track covered\n";
   for (const std::string& w : c.warnings) o += "warning: " + w + "\n";
   o += "lap      simulated " + fixed(c.lap_time_sim_s, 3) + " s, logged " +
        fixed(c.lap_time_log_s, 3) + " s, difference " +

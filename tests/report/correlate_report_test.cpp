@@ -6,6 +6,7 @@
 #include <limits>
 
 #include "lapwing/report/correlate_report.hpp"
+#include "test_support.hpp"
 
 using namespace lapwing;
 
@@ -54,4 +55,17 @@ TEST_CASE(
 TEST_CASE("a fitted value reads as a factor, the balance as a shift in %") {
   CHECK(fit_value_text(FitParameter::cda, 1.05) == "x1.0500");
   CHECK(fit_value_text(FitParameter::balance, -0.012) == "-1.20 % (added)");
+}
+
+TEST_CASE("the headline's coverage reads 100.0 % only when the log covers the whole track") {
+  // 0.5 m short of Cairnholt's 3 799.5 m is 99.987 %, which one decimal rounds to 100.0: beside
+  // "over the 3799.0 m the log covers" it read as whole. At most 99.9 % when any is missing.
+  const Circuit c = test::bundled_circuit("tracks/cairnholt.yaml");
+  Correlation k;
+  k.coverage = 3799.0 / 3799.5;
+  CHECK(correlate_text(c, k).find("99.9 % of the track covered") != std::string::npos);
+  k.coverage = 1.0;
+  CHECK(correlate_text(c, k).find("100.0 % of the track covered") != std::string::npos);
+  k.coverage = 0.5;
+  CHECK(correlate_text(c, k).find("50.0 % of the track covered") != std::string::npos);
 }
