@@ -285,6 +285,12 @@ LogTrack track_from_log(const LogOptions& o, const std::string& csv_name) {
     out.notes.push_back("the log runs " + fixed(lc.overlap_m, 1) +
                         " m past the line through its start (where its path crosses it again): "
                         "that part is left out, as a lap ends at the line");
+  if (lc.crossing_before_end_m > 0.0)
+    out.warnings.push_back(
+        "the log's path crosses the line through its start " + fixed(lc.crossing_before_end_m, 1) +
+        " m before its end: a log that runs on past the line, or a turning channel a little off "
+        "(the path then closes early; see the turns below); under 0.5 % of the lap the two "
+        "cannot be told apart, and nothing is cut");
   if (has_gap())
     out.warnings.push_back("rows " + fixed(lc.largest_gap_m, 1) + " m apart at line " +
                            std::to_string(t.lines[lc.largest_gap_row]) + " (the median is " +
@@ -314,15 +320,20 @@ LogTrack track_from_log(const LogOptions& o, const std::string& csv_name) {
                              " m apart draw the corners short, which may explain it; a channel "
                              "that reads " +
                              by + " off would too")
-           : o.distance.empty()
-               ? ": the channels disagree by " + by + ". With the " + turning +
-                     " right, the speed reads " + by + (pct > 0 ? " low" : " high") +
-                     " (a wheel speed's rolling radius)"
-               : ": the channels disagree by " + by + ". With the speed and the " + turning +
-                     " right, the distance reads " + by + (pct > 0 ? " long" : " short") +
-                     ": the track is " + fixed(lc.length_m, 1) + " m, and scaled by 1/" +
-                     fixed(implied, 4) + " it would be " + fixed(lc.length_m / implied, 1) +
-                     " m (a wheel's rolling radius; check the distance channel)"));
+           : o.distance.empty() && by_yaw
+               // Turns from the yaw rate over time do not depend on the speed.
+               ? ": the yaw rate reads " + by + (pct > 0 ? " high" : " low") +
+                     " (its scale or a bias), or the time channel runs " + by +
+                     (pct > 0 ? " fast" : " slow")
+               : o.distance.empty()
+                     ? ": the channels disagree by " + by + ". With the " + turning +
+                           " right, the speed reads " + by + (pct > 0 ? " low" : " high") +
+                           " (a wheel speed's rolling radius)"
+                     : ": the channels disagree by " + by + ". With the speed and the " + turning +
+                           " right, the distance reads " + by + (pct > 0 ? " long" : " short") +
+                           ": the track is " + fixed(lc.length_m, 1) + " m, and scaled by 1/" +
+                           fixed(implied, 4) + " it would be " + fixed(lc.length_m / implied, 1) +
+                           " m (a wheel's rolling radius; check the distance channel)"));
     }
   }
   CsvWriter<ProfileRow> csv(profile_columns, lc.s_m.size());

@@ -282,6 +282,13 @@ Alignment refine_alignment(const LoggedSpeed& log, const Mesh& mesh,
       why += "; " + fixed(gap_m, 0) + " m of it lie in gaps of the log, the longest " +
              fixed(on.longest_gap_s, 1) + " s without a row before this one";
     }
+    // A closed lap's log as long as a lap that starts and ends mid-lap holds no lap from line
+    // to line, and nothing is taken from another lap: say so.
+    if (mesh.closed &&
+        (log.distance_m.back() - log.distance_m.front()) * best.scale >= correlate_min_coverage * L)
+      why +=
+          "; the log is a lap long, but a closed lap is compared from one crossing of the "
+          "line to the next: log from before one crossing to past the next";
     throw InvalidInput(
         log.source,
         broken_rule("",

@@ -302,6 +302,37 @@ TEST_CASE("a log that stops short of the line is not filled from the lap before"
   CHECK(units::to_kph(k.rms_speed_error_mps) < 0.1);  // the flying lap's own rows: exact
 }
 
+TEST_CASE("a lap's length logged from mid-lap to mid-lap is refused, saying why") {
+  // The car's own lap logged from 1000 m to the line and on to 1000 m of the next lap: a lap's
+  // length, but no lap from one crossing of the line to the next (nothing is taken from another
+  // lap). Refused by the 98 % rule, and the message says what to log (it said only "a whole lap",
+  // which this is).
+  const Circuit c = brannock();
+  const LapRun run = run_lap(medium(), c);
+  const double L = c.mesh.length_m;
+  LoggedSpeed log;
+  log.source = "mid-lap";
+  for (std::size_t i = 0; i + 1 < c.mesh.size(); i += 2)
+    if (c.mesh.s_m[i] >= 1000.0) {
+      log.distance_m.push_back(c.mesh.s_m[i] - 1000.0);
+      log.speed_mps.push_back(run.lap.speed_mps[i]);
+    }
+  for (std::size_t i = 0; i < c.mesh.size(); i += 2)
+    if (c.mesh.s_m[i] <= 1000.0) {
+      log.distance_m.push_back(c.mesh.s_m[i] + L - 1000.0);
+      log.speed_mps.push_back(run.lap.speed_mps[i]);
+    }
+  try {
+    (void)align_log(log, c.mesh, run.lap.speed_mps);
+    FAIL("no error");
+  } catch (const InvalidInput& e) {
+    CAPTURE(std::string(e.what()));
+    CHECK(std::string(e.what()).find("must cover 98 %") != std::string::npos);
+    CHECK(std::string(e.what()).find("from one crossing of the line to the next") !=
+          std::string::npos);
+  }
+}
+
 TEST_CASE("a scale found at the edge of the search is warned of") {
   // A distance reading 4.5 % long needs a scale of 1 / 1.045 = 0.957, beyond the 4 % searched:
   // the best alignment sits on the edge, 0.9600, and says so. 3.5 % is found and not warned of.

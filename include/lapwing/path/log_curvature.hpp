@@ -54,6 +54,10 @@ struct LogCurvature {
   // A closed lap's log that runs on past its start: the length cut off its end, where the path
   // crosses the line through its start again (0: none).
   double overlap_m = 0.0;
+  // A closed lap's log whose path crosses the line through its start this far before its end,
+  // too little to cut (within 0.5 % of the lap: a turning channel's closure error does as much),
+  // left in (0: none).
+  double crossing_before_end_m = 0.0;
   double smoothing_m = 0.0;  // the filter's length: given, or chosen by GCV
   SmoothingInfo smoothing;   // how it was set
   /// The largest |curvature| v^2 / g0 along the filtered log (before any closure is spread),
