@@ -6,10 +6,12 @@
 
 #include <algorithm>
 #include <cerrno>
+#include <charconv>
 #include <cstring>
 #include <filesystem>
 #include <optional>
 #include <set>
+#include <string_view>
 
 #include "lapwing/base/error.hpp"
 #include "lapwing/base/format.hpp"
@@ -330,34 +332,54 @@ SweepStore::SweepStore(const std::string& file, const StudyRecord& study, const 
     // The shards the file holds ("K/N"; a merged file's "1/4,2/4"). A run that splits the study
     // another way (another N; no --shard is 1/1) would add its points under a label that does
     // not say so: refused. A shard of the same split not yet held joins the list, as a merge's.
+    // A file that holds every shard of its split (1/N to N/N: the whole study, a complete merge)
+    // is the study whatever the split: any run resumes it (it finds every point there).
     std::string held;
     {
       Statement s(c, "SELECT shard FROM study");
       if (s.step()) held = s.text(0);
     }
-    const auto of_n = [](const std::string& k_n) { return k_n.substr(k_n.find('/') + 1); };
-    std::set<std::string> each;
+    // "K/N" as (N, K); (0, 0) where a label is not one (no split this run can share).
+    const auto parse = [](std::string_view k_n) {
+      unsigned k = 0, n = 0;
+      const std::size_t slash = k_n.find('/');
+      if (slash == std::string_view::npos) return std::pair<unsigned, unsigned>{0, 0};
+      const char* b = k_n.data();
+      const auto rk = std::from_chars(b, b + slash, k);
+      const auto rn = std::from_chars(b + slash + 1, b + k_n.size(), n);
+      if (rk.ec != std::errc() || rk.ptr != b + slash || rn.ec != std::errc() ||
+          rn.ptr != b + k_n.size() || n == 0 || k == 0 || k > n)
+        return std::pair<unsigned, unsigned>{0, 0};
+      return std::pair<unsigned, unsigned>{n, k};
+    };
+    std::set<std::pair<unsigned, unsigned>> each;  // (N, K): in K's order within a split
     for (std::size_t x = 0; x <= held.size();) {
       const std::size_t y = std::min(held.find(',', x), held.size());
-      if (y > x) each.insert(held.substr(x, y - x));
+      if (y > x) each.insert(parse(std::string_view(held).substr(x, y - x)));
       x = y + 1;
     }
-    for (const auto& one : each)
-      if (of_n(one) != of_n(study.shard))
-        throw OutputError(file + " holds shard " + held + " of this study, and --shard " +
-                          study.shard +
-                          " splits it another way (another N; no --shard is 1/1): give "
-                          "--shard of the same split to resume it, or a new --out");
-    if (each.insert(study.shard).second) {
-      std::string list;
-      for (const auto& one : each) list += (list.empty() ? "" : ",") + one;
-      c.exec("BEGIN");
-      {
-        Statement upd(c, "UPDATE study SET shard = ?");
-        upd.bind(1, list);
-        upd.step();
+    const unsigned n_held = each.empty() ? 0 : each.begin()->first;
+    const bool whole = n_held > 0 && each.size() == n_held && each.rbegin()->first == n_held;
+    const std::pair<unsigned, unsigned> mine = parse(study.shard);
+    if (!whole) {
+      for (const auto& one : each)
+        if (one.first != mine.first || mine.first == 0)
+          throw OutputError(file + " holds shard " + held + " of this study, and --shard " +
+                            study.shard +
+                            " splits it another way (another N; no --shard is 1/1): give "
+                            "--shard of the same split to resume it, or a new --out");
+      if (each.insert(mine).second) {
+        std::string list;
+        for (const auto& [n, k] : each)
+          list += (list.empty() ? "" : ",") + std::to_string(k) + "/" + std::to_string(n);
+        c.exec("BEGIN");
+        {
+          Statement upd(c, "UPDATE study SET shard = ?");
+          upd.bind(1, list);
+          upd.step();
+        }
+        c.exec("COMMIT");
       }
-      c.exec("COMMIT");
     }
   }
   Statement s(c, "SELECT DISTINCT point FROM laps");

@@ -183,6 +183,15 @@ cp "$tmp/sh.sqlite" "$tmp/sh0.sqlite"
   "$bin" sweep export "$tmp/sh.sqlite" --csv "$tmp/sh.csv" && [ "$(wc -l < "$tmp/sh.csv")" -eq 3 ] &&
   [ "$(python3 -c 'import sqlite3, sys; print(sqlite3.connect(sys.argv[1]).execute("SELECT shard FROM study").fetchone()[0])' "$tmp/sh.sqlite")" = 1/3,2/3 ] &&
   ok || bad "sweep's other shard of the same split"
+# With its last shard the file holds the whole study (1/3 to 3/3): a run of the study split any
+# way, or not at all, resumes it, finds every point there and adds none (it was refused: "holds
+# shard 1/3,2/3,3/3 ... splits it another way").
+"$bin" sweep "${S[@]}" --shard 3/3 --out "$tmp/sh.sqlite" > /dev/null &&
+  "$bin" sweep "${S[@]}" --out "$tmp/sh.sqlite" > /dev/null 2> "$tmp/err.txt" &&
+  "$bin" sweep "${S[@]}" --shard 1/2 --out "$tmp/sh.sqlite" > /dev/null 2>> "$tmp/err.txt" &&
+  "$bin" sweep export "$tmp/sh.sqlite" --csv "$tmp/sh3.csv" && [ "$(wc -l < "$tmp/sh3.csv")" -eq 4 ] &&
+  [ "$(python3 -c 'import sqlite3, sys; print(sqlite3.connect(sys.argv[1]).execute("SELECT shard FROM study").fetchone()[0])' "$tmp/sh.sqlite")" = 1/3,2/3,3/3 ] &&
+  ok || bad "a whole study's file resumed without --shard: $(cat "$tmp/err.txt")"
 
 echo "fromlog_test: $pass passed, $fail failed"
 [ "$fail" -eq 0 ]
