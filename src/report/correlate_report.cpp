@@ -44,18 +44,17 @@ std::string where(const ErrorPeak& p) {
   return "before the line";
 }
 
-// The share of a sector the log covers, "100 %" when all of it (to the metre).
-std::string sector_logged(const SectorError& s) {
-  const double length = s.end_m - s.start_m;
-  return s.covered_m >= length - 1e-6 * std::max(1.0, length)
-             ? "100 %"
-             : fixed(std::min(99.9, 100.0 * s.covered_m / length), 1) + " %";
-}
-
 // The share of the track the log covers: "100.0 %" only when all of it, at most 99.9 % when
 // any is missing (0.99985 rounds to 100.0 and read as whole beside a lap over less).
 std::string coverage_text(double coverage) {
   return fixed(coverage >= 1.0 ? 100.0 : std::min(99.9, 100.0 * coverage), 1) + " %";
+}
+
+// The share of a sector the log covers, "100 %" when all of it (to the metre).
+std::string sector_logged(const SectorError& s) {
+  const double length = s.end_m - s.start_m;
+  return s.covered_m >= length - 1e-6 * std::max(1.0, length) ? "100 %"
+                                                              : coverage_text(s.covered_m / length);
 }
 
 // A number, or null where it is not a number (a standard error not found).

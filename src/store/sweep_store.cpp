@@ -12,6 +12,7 @@
 #include <optional>
 #include <set>
 #include <string_view>
+#include <tuple>
 
 #include "lapwing/base/error.hpp"
 #include "lapwing/base/format.hpp"
@@ -315,6 +316,38 @@ void create_store(const std::string& file, const StudyRecord& study, const Sweep
   fresh.place();
 }
 
+// A file's shards: each label "K/N" as (N, K, its text), (0, 0, text) where a label is not one
+// (no split a run can share); in N's then K's order, so that a list reads 1/12,2/12,...,10/12.
+using ShardLabels = std::set<std::tuple<unsigned, unsigned, std::string>>;
+
+// Adds the labels of a shard list ("1/4,2/4"; one label, or "").
+void add_shards(ShardLabels& to, std::string_view list) {
+  for (std::size_t x = 0; x <= list.size();) {
+    const std::size_t y = std::min(list.find(',', x), list.size());
+    if (y > x) {
+      const std::string_view k_n = list.substr(x, y - x);
+      unsigned k = 0, n = 0;
+      const std::size_t slash = k_n.find('/');
+      const char* b = k_n.data();
+      const bool ok = slash != std::string_view::npos && [&] {
+        const auto rk = std::from_chars(b, b + slash, k);
+        const auto rn = std::from_chars(b + slash + 1, b + k_n.size(), n);
+        return rk.ec == std::errc() && rk.ptr == b + slash && rn.ec == std::errc() &&
+               rn.ptr == b + k_n.size() && n > 0 && k > 0 && k <= n;
+      }();
+      to.emplace(ok ? n : 0, ok ? k : 0, std::string(k_n));
+    }
+    x = y + 1;
+  }
+}
+
+// The labels as a shard list, each once.
+std::string shard_list(const ShardLabels& labels) {
+  std::string list;
+  for (const auto& one : labels) list += (list.empty() ? "" : ",") + std::get<2>(one);
+  return list;
+}
+
 }  // namespace
 
 SweepStore::SweepStore(const std::string& file, const StudyRecord& study, const SweepPlan& plan)
@@ -339,43 +372,26 @@ SweepStore::SweepStore(const std::string& file, const StudyRecord& study, const 
       Statement s(c, "SELECT shard FROM study");
       if (s.step()) held = s.text(0);
     }
-    // "K/N" as (N, K); (0, 0) where a label is not one (no split this run can share).
-    const auto parse = [](std::string_view k_n) {
-      unsigned k = 0, n = 0;
-      const std::size_t slash = k_n.find('/');
-      if (slash == std::string_view::npos) return std::pair<unsigned, unsigned>{0, 0};
-      const char* b = k_n.data();
-      const auto rk = std::from_chars(b, b + slash, k);
-      const auto rn = std::from_chars(b + slash + 1, b + k_n.size(), n);
-      if (rk.ec != std::errc() || rk.ptr != b + slash || rn.ec != std::errc() ||
-          rn.ptr != b + k_n.size() || n == 0 || k == 0 || k > n)
-        return std::pair<unsigned, unsigned>{0, 0};
-      return std::pair<unsigned, unsigned>{n, k};
-    };
-    std::set<std::pair<unsigned, unsigned>> each;  // (N, K): in K's order within a split
-    for (std::size_t x = 0; x <= held.size();) {
-      const std::size_t y = std::min(held.find(',', x), held.size());
-      if (y > x) each.insert(parse(std::string_view(held).substr(x, y - x)));
-      x = y + 1;
-    }
-    const unsigned n_held = each.empty() ? 0 : each.begin()->first;
-    const bool whole = n_held > 0 && each.size() == n_held && each.rbegin()->first == n_held;
-    const std::pair<unsigned, unsigned> mine = parse(study.shard);
+    ShardLabels each, mine;
+    add_shards(each, held);
+    add_shards(mine, study.shard);
+    const unsigned n_held = each.empty() ? 0 : std::get<0>(*each.begin());
+    const bool whole = n_held > 0 && each.size() == n_held && std::get<0>(*each.rbegin()) == n_held;
     if (!whole) {
+      const unsigned n_mine = mine.empty() ? 0 : std::get<0>(*mine.begin());
       for (const auto& one : each)
-        if (one.first != mine.first || mine.first == 0)
+        if (std::get<0>(one) != n_mine || n_mine == 0)
           throw OutputError(file + " holds shard " + held + " of this study, and --shard " +
                             study.shard +
                             " splits it another way (another N; no --shard is 1/1): give "
                             "--shard of the same split to resume it, or a new --out");
-      if (each.insert(mine).second) {
-        std::string list;
-        for (const auto& [n, k] : each)
-          list += (list.empty() ? "" : ",") + std::to_string(k) + "/" + std::to_string(n);
+      const std::size_t before = each.size();
+      each.insert(mine.begin(), mine.end());
+      if (each.size() != before) {
         c.exec("BEGIN");
         {
           Statement upd(c, "UPDATE study SET shard = ?");
-          upd.bind(1, list);
+          upd.bind(1, shard_list(each));
           upd.step();
         }
         c.exec("COMMIT");
@@ -572,17 +588,10 @@ void merge_stores(const std::string& out, const std::vector<std::string>& inputs
       if (s.step()) shards.insert(s.text(0));
     }
     // The shards the file now holds, each once ("1/4,2/4,...").
-    std::set<std::string> each;
-    for (const auto& sh : shards)
-      for (std::size_t x = 0; x <= sh.size();) {
-        const std::size_t y = std::min(sh.find(',', x), sh.size());
-        if (y > x) each.insert(sh.substr(x, y - x));
-        x = y + 1;
-      }
-    std::string list;
-    for (const auto& one : each) list += (list.empty() ? "" : ",") + one;
+    ShardLabels each;
+    for (const auto& sh : shards) add_shards(each, sh);
     Statement upd(c, "UPDATE study SET shard = ?");
-    upd.bind(1, list);
+    upd.bind(1, shard_list(each));
     upd.step();
     c.exec("COMMIT");
   }
