@@ -13,6 +13,7 @@
 #include <vector>
 
 #include "lapwing/base/error.hpp"
+#include "lapwing/base/format.hpp"
 #include "lapwing/base/halves.hpp"
 #include "lapwing/base/interpolate.hpp"
 #include "lapwing/base/memory.hpp"
@@ -285,6 +286,43 @@ double closure_position_tolerance_m(const Track& track) {
   if (!p) return by_length;
   if (p->source == PathProfile::Source::curvature) return std::numeric_limits<double>::infinity();
   return std::max(closure_spacings * p->point_spacing_m, by_length);
+}
+
+double closure_elevation_tolerance_m(const Track& track) {
+  return std::max(closure_elevation_floor_m, closure_elevation_fraction * track.length_m());
+}
+
+std::vector<std::string> track_warnings(const Track& track) {
+  std::vector<std::string> out;
+  if (track.closed) {
+    const Closure c = closure(track);
+    const PathProfile* lapped = lapped_profile(track);
+    const double length = track.length_m();
+    if (lapped && lapped->source == PathProfile::Source::curvature) {
+      const double tolerance = closure_position_fraction * length;
+      if (c.position_gap_m > tolerance)
+        out.push_back("the closed curvature profile's end is " + fixed(c.position_gap_m, 1) +
+                      " m from its start (tolerance " + fixed(100 * closure_position_fraction, 1) +
+                      " % of the length = " + fixed(tolerance, 1) +
+                      " m), where a closed lap ends where it starts; likely rows missing at an "
+                      "end (a cut or truncated export: the lap is then that much short), or a "
+                      "distance or curvature column that reads long or short");
+    }
+    const double tolerance = closure_elevation_tolerance_m(track);
+    if (std::abs(c.elevation_gap_m) > tolerance)
+      out.push_back(
+          "the closed lap ends " + fixed(std::abs(c.elevation_gap_m), 2) + " m " +
+          (c.elevation_gap_m > 0 ? "above" : "below") + " its start (tolerance max(" +
+          fixed(closure_elevation_floor_m, 0) + " m, " +
+          fixed(100 * closure_elevation_fraction, 1) +
+          " % of the length) = " + fixed(tolerance, 2) + " m): every lap " +
+          (c.elevation_gap_m > 0 ? "climbs" : "descends") +
+          " that much net, which no circuit does; likely a grade typed with the wrong sign, or "
+          "grades or heights that do not add up");
+  }
+  if (track.profile)
+    for (const std::string& w : track.profile->warnings) out.push_back(w);
+  return out;
 }
 
 namespace {

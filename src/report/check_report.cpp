@@ -122,6 +122,7 @@ std::string track_text(const Car& car, double rated_w, const Circuit& t, const T
            "\n";
     for (const auto& n : p.notes) out += "       note: " + n + "\n";
   }
+  for (const auto& w : tc.warnings) out += "       warning: " + w + "\n";
   if (t.track.line_path) out += "       " + line_text(t.track) + "\n";
   out += "       engine (" + label(car.powertrain.aspiration) + ") in this air: " +
          fixed(tc.engine_power_ratio * rated_w / 1000, 1) + " kW of " + fixed(rated_w / 1000, 1) +
@@ -238,6 +239,9 @@ void track_json(JsonWriter& j, const Circuit& t, const TrackCheck& tc) {
   j.key("notes").begin_array();
   if (t.track.profile)
     for (const auto& n : t.track.profile->notes) j.value(n);
+  j.end_array();
+  j.key("warnings").begin_array();
+  for (const auto& w : tc.warnings) j.value(w);
   j.end_array();
   j.key("configs").begin_array();
   for (const TrackConfigCheck& c : tc.configs)

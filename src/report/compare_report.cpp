@@ -102,6 +102,8 @@ std::string compare_table(const Car& car, const Comparison& c,
     const LapSummary& best = pt.entries[pt.best].run.summary;
     o += "\ntrack   " + circuits[t].track.name + " (" + circuits[t].track.file + "), air " +
          fixed(circuits[t].air.density_kg_m3, 4) + " kg/m3\n";
+    // The track's own doubts (a closure gap, a dropout): every config's lap carries them.
+    for (const std::string& w : track_warnings(circuits[t].track)) o += "warning: " + w + "\n";
     o += "best    " + best.config +
          (pt.entries.size() > 1 ? " by " + fixed(pt.margin_s, 3) + " s" : std::string()) + "\n";
     std::vector<std::vector<std::string>> rows;

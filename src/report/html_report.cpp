@@ -1080,6 +1080,11 @@ std::string html_report(const ReportInput& in) {
          table(escaped({"track", "config", "lap s", "s per +0.1 m2 ClA", "s per +0.1 m2 CdA",
                         "s per +10 kg", "s per +1 % power", "CdA m2 one m2 of ClA may cost"}),
                rows);
+    // The tracks' warnings (a closure gap, a dropout), as the terminal gives them.
+    for (const Circuit& c : circuits)
+      for (const std::string& w : track_warnings(c.track))
+        o += "<p class=\"quality\"><strong>warning (" + escape(c.track.name) + "):</strong> " +
+             escape(w) + "</p>\n";
     // Where each config change's lap time comes from: the terminal's table.
     const TextTable a = attribution_table(car, t, circuits);
     if (!a.rows.empty()) {

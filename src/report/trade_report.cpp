@@ -49,6 +49,10 @@ std::string trade_json(const Car& car, const Trade& t, const std::vector<Circuit
       w.value(*s.breakeven_dcda_per_dcla);
     else
       w.null();
+    // The track's warnings, as summary.json gives a lap's (the trade's laps share them).
+    w.key("warnings").begin_array();
+    for (const std::string& text : track_warnings(circuits[s.track].track)) w.value(text);
+    w.end_array();
     w.end_object();
   }
   w.end_array();
@@ -120,6 +124,9 @@ std::string trade_table(const Car& car, const Trade& t, const std::vector<Circui
                          rows);
   o += "\nexchange rate: +1 m2 of ClA pays while it costs less than the last column in CdA (-: no "
        "exchange, where downforce does not pay or drag does not cost)\n";
+  for (const Circuit& c : circuits)
+    for (const std::string& w : track_warnings(c.track))
+      o += "warning: " + c.track.id + ": " + w + "\n";
   const TextTable a = attribution_table(car, t, circuits);
   if (!a.rows.empty()) o += "\n" + attribution_caption() + "\n" + text_table(a.header, a.rows);
   return o;

@@ -361,7 +361,9 @@ LapSummary summarize(const Lap& lap, const Mesh& mesh, const Track& track,
   s.full_throttle_fraction = full / lap.lap_time_s;
   s.braking_fraction = brake / lap.lap_time_s;
   if (full_detail) {
-    s.warnings = lap_range_warnings(env, lap, mesh);
+    // The track's own doubts first (a closure gap, a dropout), then the lap's.
+    s.warnings = track_warnings(track);
+    for (std::string& w : lap_range_warnings(env, lap, mesh)) s.warnings.push_back(std::move(w));
     if (std::optional<std::string> w = over_usage_warning(env, lap, mesh)) s.warnings.push_back(*w);
     if (std::optional<std::string> w = tyre_peak_warning(env, lap, mesh)) s.warnings.push_back(*w);
   }

@@ -120,6 +120,7 @@ ConfigCheck check_config(const Car& car, std::size_t index, const Air& air) {
 TrackCheck check_track(const Car& car, const Circuit& t) {
   TrackCheck out;
   out.closure = closure(t.track);
+  out.warnings = track_warnings(t.track);
   out.corner_count = t.corners.size();
   out.engine_power_ratio = engine_power_ratio(car.powertrain, t.air.pressure_pa,
                                               t.air.temperature_k, t.air.relative_humidity);

@@ -539,5 +539,29 @@ mkdir -p "$tmp/sparse" &&
   grep -q "<strong>warning:</strong> track data: centerline, points 26.0 m apart" "$tmp/sparse/out/report.html" &&
   ok || bad "a poor track is not warned of: $(cat "$tmp/sparse.txt")"
 
+# 19. Doubts about a track that are no error, warned of in every lap (a tester's findings).
+#     Cairnholt with one grade's sign flipped (the 250 m straight at -6 % typed 6 %) ends 29.98 m
+#     above its start (closed form: its own -0.02 m plus 2 x 6 % x 250 m; check printed it, and
+#     nothing else did): run, compare and trade warn, in the text, summary.json, trade.json and
+#     the report; the lap itself is laid as given (exit 0).
+grep -q "grade: -6 %" tracks/cairnholt.yaml || bad "cairnholt has no -6 % grade to flip"
+sed '0,/grade: -6 %/s//grade: 6 %/' tracks/cairnholt.yaml > "$tmp/cairnholt-typo.yaml"
+gap_warning="the closed lap ends 29.98 m above its start (tolerance max(1 m, 0.1 % of the length) = 3.80 m)"
+"$bin" run --car cars/pellion-fr2.yaml --track "$tmp/cairnholt-typo.yaml" --out "$tmp/typo-run" > "$tmp/typo.txt" &&
+  grep -qF "warning: $gap_warning" "$tmp/typo.txt" &&
+  grep -qF "\"$gap_warning" "$tmp/typo-run/summary.json" &&
+  grep -qF "$gap_warning" "$tmp/typo-run/report.html" && ok || bad "elevation gap not warned of in run: $(cat "$tmp/typo.txt")"
+"$bin" compare --car cars/pellion-fr2.yaml --track "$tmp/cairnholt-typo.yaml" --config low --config high \
+  --out "$tmp/typo-compare" > "$tmp/typo.txt" &&
+  grep -qF "warning: $gap_warning" "$tmp/typo.txt" &&
+  [ "$(grep -cF "\"$gap_warning" "$tmp/typo-compare/summary.json")" -eq 2 ] && ok ||
+  bad "elevation gap not warned of in compare: $(cat "$tmp/typo.txt")"
+"$bin" trade --car cars/pellion-fr2.yaml --track "$tmp/cairnholt-typo.yaml" --config low --grid 3 \
+  --out "$tmp/typo-trade" > "$tmp/typo.txt" &&
+  grep -qF "warning: cairnholt-typo: $gap_warning" "$tmp/typo.txt" &&
+  grep -qF "\"$gap_warning" "$tmp/typo-trade/trade.json" &&
+  grep -qF "$gap_warning" "$tmp/typo-trade/report.html" && ok || bad "elevation gap not warned of in trade: $(cat "$tmp/typo.txt")"
+"$bin" run --car cars/pellion-fr2.yaml --track tracks/cairnholt.yaml > "$tmp/typo.txt" &&
+  ! grep -q "^warning: the closed lap" "$tmp/typo.txt" && ok || bad "cairnholt as bundled warned of a gap"
 echo "cli: $pass passed, $fail failed"
 [ "$fail" -eq 0 ]

@@ -8,6 +8,7 @@
 #include "lapwing/base/error.hpp"
 #include "lapwing/base/units.hpp"
 #include "lapwing/path/centerline.hpp"
+#include "lapwing/path/curvature_profile.hpp"
 #include "lapwing/path/mesh.hpp"
 #include "test_support.hpp"
 
@@ -188,4 +189,107 @@ TEST_CASE("a mesh laid out on two threads is the mesh on one, bit for bit") {
       CHECK(m->width_left_m == one.width_left_m);
     }
   }
+}
+
+namespace {
+// A closed circle of radius R in two half arcs climbing at grades g1 and g2: its end is
+// (g1 + g2) pi R above its start (elevation integrates the grade over the plan distance).
+Track climbing_circle(double radius, double g1, double g2) {
+  Track t = test::circle_track(radius, 0.5);
+  t.segments = {test::arc(radius, units::pi, true), test::arc(radius, units::pi, true)};
+  t.segments[0].grade = g1;
+  t.segments[1].grade = g2;
+  return t;
+}
+bool has(const std::vector<std::string>& texts, const std::string& part) {
+  for (const auto& t : texts)
+    if (t.find(part) != std::string::npos) return true;
+  return false;
+}
+}  // namespace
+
+TEST_CASE("a closed lap whose end is above its start warns beyond max(1 m, 0.1 % of the length)") {
+  // Closed form: gap = (g1 + g2) pi R. R 50 m (length 314 m: the 1 m floor rules): 1 % up all
+  // the way ends 3.14 m above, 1 % down 3.14 m below; up then down ends level; 0.3 % up all
+  // the way ends 0.94 m above, under the floor.
+  {
+    const Track t = climbing_circle(50.0, 0.01, 0.01);
+    CHECK(near(closure(t).elevation_gap_m, 0.02 * units::pi * 50.0, 1e-9));
+    CHECK(near(closure_elevation_tolerance_m(t), 1.0, 1e-15));
+    const auto w = track_warnings(t);
+    REQUIRE(w.size() == 1);
+    CHECK(w[0].rfind("the closed lap ends 3.14 m above its start (tolerance max(1 m, 0.1 % of the "
+                     "length) = 1.00 m): every lap climbs that much net",
+                     0) == 0);
+    CHECK(w[0].find("a grade typed with the wrong sign") != std::string::npos);
+  }
+  CHECK(has(track_warnings(climbing_circle(50.0, -0.01, -0.01)), "3.14 m below its start"));
+  CHECK(track_warnings(climbing_circle(50.0, 0.01, -0.01)).empty());
+  CHECK(track_warnings(climbing_circle(50.0, 0.003, 0.003)).empty());  // 0.94 m
+  // R 1000 m (length 6283 m: 0.1 % is 6.28 m, over the floor): 0.09 % all the way ends 5.65 m
+  // above (no warning), 0.11 % 6.91 m above (a warning).
+  {
+    const Track t = climbing_circle(1000.0, 0.0011, 0.0011);
+    CHECK(near(closure_elevation_tolerance_m(t), 0.001 * 2 * units::pi * 1000.0, 1e-12));
+    CHECK(has(track_warnings(t), "6.91 m above its start"));
+    CHECK(track_warnings(climbing_circle(1000.0, 0.0009, 0.0009)).empty());
+  }
+  // An open track rises as it may: no warning.
+  Track open = climbing_circle(50.0, 0.01, 0.01);
+  open.closed = false;
+  CHECK(track_warnings(open).empty());
+}
+
+namespace {
+// A closed stadium as a curvature profile, rows about 0.5 m apart: a straight of `first` m, a
+// half circle of radius R, a straight of `second` m, a half circle, a last row. Each half
+// circle's rows span pi R - h, and the rows either side of it are h away at zero curvature, so
+// that the ramps between rows (curvature is linear between them) add h / 2R each: each half turns
+// pi exactly. With equal straights the second half is the first turned by pi, and the profile
+// closes; a second straight d shorter moves every point after it by d along it, so the end
+// misses the start by d (closed form).
+Track stadium_profile(double first, double second, double radius) {
+  const double h = 0.5;
+  std::vector<double> s, k;
+  auto run = [&](double length, double curvature) {
+    const auto steps = static_cast<std::size_t>(std::ceil(length / h));
+    const double from = s.empty() ? 0.0 : s.back() + h;
+    for (std::size_t i = 0; i <= steps; ++i) {
+      s.push_back(from + length * static_cast<double>(i) / static_cast<double>(steps));
+      k.push_back(curvature);
+    }
+  };
+  run(first, 0.0);
+  run(units::pi * radius - h, 1.0 / radius);
+  run(second, 0.0);
+  run(units::pi * radius - h, 1.0 / radius);
+  s.push_back(s.back() + h);
+  k.push_back(0.0);
+  Track t = test::circle_track(radius, 0.5);
+  t.segments.clear();
+  t.profile = profile_from_curvature("stadium.csv", s, k, {});
+  return t;
+}
+}  // namespace
+
+TEST_CASE(
+    "a closed curvature profile whose end misses its start warns beyond 0.5 % of the length") {
+  // Straights of 100 m, R 50 m (with the four 0.5 m ramps and the last row: 515.2 m). The
+  // second straight cut by 20 m (a truncated export) leaves a 20 m gap, over 0.5 % of the 495.2 m
+  // (2.48 m): a warning stating it; cut by 2 m, within 0.5 % of 513.2 m (2.57 m): none; uncut:
+  // none.
+  {
+    const Track t = stadium_profile(100.0, 80.0, 50.0);
+    CHECK(near(closure(t).position_gap_m, 20.0, 0.0, 1e-6));
+    CHECK(std::abs(closure(t).heading_gap_rad) < 1e-9);
+    const auto w = track_warnings(t);
+    REQUIRE(w.size() == 1);
+    CHECK(w[0].rfind("the closed curvature profile's end is 20.0 m from its start (tolerance "
+                     "0.5 % of the length = 2.5 m)",
+                     0) == 0);
+    CHECK(w[0].find("rows missing at an end") != std::string::npos);
+  }
+  CHECK(near(closure(stadium_profile(100.0, 100.0, 50.0)).position_gap_m, 0.0, 0.0, 1e-6));
+  CHECK(track_warnings(stadium_profile(100.0, 100.0, 50.0)).empty());
+  CHECK(track_warnings(stadium_profile(100.0, 98.0, 50.0)).empty());
 }

@@ -7,9 +7,12 @@
 #include <sstream>
 
 #include "lapwing/base/error.hpp"
+#include "lapwing/base/units.hpp"
 #include "lapwing/io/car_file.hpp"
 #include "lapwing/model/car.hpp"
+#include "lapwing/report/compare_report.hpp"
 #include "lapwing/report/trade_report.hpp"
+#include "lapwing/study/compare.hpp"
 #include "lapwing/study/trade.hpp"
 #include "test_support.hpp"
 
@@ -339,4 +342,32 @@ TEST_CASE("the trade grid spans every config of the car with a margin, so each c
   CHECK(near(g.lap_time_s[2 * 3 + 0], run_lap(node, circuits[0]).summary.lap_time_s, 1e-12));
   // Each config's own lap time comes with its operating point.
   CHECK(near(t.own_lap_time_s[traded], t.sensitivities.front().lap_time_s, 0.0));
+}
+
+TEST_CASE("a closed lap that ends above its start warns in every lap: run, compare and trade") {
+  // A circle of R 50 m climbing 1 % all the way: its end is 0.01 x 2 pi 50 = 3.14 m above its
+  // start (closed form), over max(1 m, 0.1 % of its 314 m): the track's warning (path/mesh.hpp,
+  // track_warnings) is each lap's first, in the lap summary (run's text and summary.json),
+  // compare's table and trade's table and trade.json.
+  Track track = test::circle_track(50.0, 0.5);
+  track.segments = {test::arc(50.0, units::pi, true), test::arc(50.0, units::pi, true)};
+  for (Segment& s : track.segments) s.grade = 0.01;
+  const std::vector<Circuit> circuits{lay_out(track, make_air(track.air))};
+  const Car car = test::plain_car();
+  const std::string warning = "the closed lap ends 3.14 m above its start";
+  const LapSummary s = run_lap(test::configured(car), circuits.front()).summary;
+  REQUIRE_FALSE(s.warnings.empty());
+  CHECK(s.warnings.front().rfind(warning, 0) == 0);
+  const Comparison c = compare(car, {0}, circuits, 1);
+  CHECK(compare_table(car, c, circuits).find("warning: " + warning) != std::string::npos);
+  const Trade t = trade(car, {0}, circuits, TradeOptions{0.02, 3, 0.15}, 1);
+  CHECK(trade_table(car, t, circuits).find("warning: circle: " + warning) != std::string::npos);
+  CHECK(trade_json(car, t, circuits).find("\"warnings\": [\n        \"" + warning) !=
+        std::string::npos);
+  // Level: none of them warns.
+  for (Segment& seg : track.segments) seg.grade = 0.0;
+  const std::vector<Circuit> level{lay_out(track, make_air(track.air))};
+  CHECK(run_lap(test::configured(car), level.front()).summary.warnings.empty());
+  CHECK(trade_table(car, trade(car, {0}, level, TradeOptions{0.02, 3, 0.15}, 1), level)
+            .find("warning") == std::string::npos);
 }

@@ -129,6 +129,9 @@ struct PathProfile {
   /// Things about the data the user should know that are no error (an unused column): printed
   /// by `check` and `run`.
   std::vector<std::string> notes;
+  /// Doubts about the data that a lap on it must be read with (a centerline's dropout, named by
+  /// its file's line): the lap's warnings (track_warnings, path/mesh.hpp).
+  std::vector<std::string> warnings;
 
   /// A path longer than 200 km is no circuit: bad data (a stray point, a unit read wrong).
   static constexpr double max_length_m = 200e3;

@@ -3,6 +3,7 @@
 
 #include <cstddef>
 #include <cstdint>
+#include <string>
 #include <vector>
 
 #include "lapwing/model/track.hpp"
@@ -119,5 +120,23 @@ inline constexpr double closure_spacings = 3.0;
 /// max(3 x the median point spacing, 0.5 % of the length) for a centerline; none (infinity) for
 /// a curvature profile, whose positions are integrated and whose drift is shown, not refused.
 double closure_position_tolerance_m(const Track& track);
+
+/// A closed lap's end above or below its start by more than
+/// max(closure_elevation_floor_m, closure_elevation_fraction x the length) is warned of (not
+/// refused: a survey's heights may not add up to zero). Each lap then climbs that much net,
+/// as if the whole lap rose at a mean grade of gap / length: 0.1 % is above what rounding
+/// every grade to 0.1 % leaves (errors of either sign, which partly cancel), and 1 m is room
+/// for a survey's heights on a short track. (README, "Track".)
+inline constexpr double closure_elevation_fraction = 0.001;
+inline constexpr double closure_elevation_floor_m = 1.0;
+double closure_elevation_tolerance_m(const Track& track);
+
+/// What a lap on `track` is to be read with although it is no error (the lap's warnings, in
+/// run, compare and trade; check prints them too): a closed track whose elevation gap exceeds
+/// closure_elevation_tolerance_m; a closed curvature profile whose position gap exceeds
+/// closure_position_fraction of the length (the tolerance a segment track is held to); and the
+/// data's own (PathProfile::warnings: a centerline's dropouts, by line). Each names the gap and
+/// its likely cause.
+std::vector<std::string> track_warnings(const Track& track);
 
 }  // namespace lapwing

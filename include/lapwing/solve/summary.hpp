@@ -111,7 +111,8 @@ struct LapSummary {
   double full_throttle_fraction;      // share of lap time under full drive (accelerate, top_speed)
   double braking_fraction;            // share of lap time under braking
   double trimmed_fraction;            // share of lap time with the straight-line trim in use
-  std::vector<std::string> warnings;  // range notes the lap reaches (lap_range_warnings)
+  std::vector<std::string> warnings;  // the track's (track_warnings), then the range notes
+                                      // the lap reaches (lap_range_warnings) and the others
   std::vector<double> sectors_s;
   std::vector<CornerResult> corners;
   BalanceSummary balance;

@@ -107,6 +107,7 @@ struct SmoothingStudy {
 
 struct TrackCheck {
   Closure closure{};  // path/mesh.hpp: closure()
+  std::vector<std::string> warnings;  // path/mesh.hpp: track_warnings(), as every lap has them
   std::size_t corner_count = 0;
   std::vector<TrackConfigCheck> configs;    // every config of the car, in the car's order
   std::vector<TrackQuality> qualities;      // every config that lapped, in the car's order
