@@ -15,6 +15,7 @@
 #include "lapwing/io/json.hpp"
 #include "lapwing/io/line_track.hpp"
 #include "lapwing/model/track.hpp"
+#include "lapwing/path/centerline.hpp"
 #include "lapwing/path/log_curvature.hpp"
 #include "lapwing/path/logged_speed.hpp"
 
@@ -206,9 +207,7 @@ LogTrack track_from_log(const LogOptions& o, const std::string& csv_name) {
   // each: 3.6^2 = 13 turns, a speed in km/h read as m/s with a yaw rate, is none of them).
   // A gap in the rows much wider than their median spacing (a dropout): what it does to the
   // lap is named at the row after it.
-  auto has_gap = [&] {
-    return lc.largest_gap_m > std::max(log_sparse_spacing_m, 4.0 * lc.row_spacing_m);
-  };
+  auto has_gap = [&] { return is_dropout(lc.largest_gap_m, lc.row_spacing_m); };
   auto closure_hint = [&](double turns) {
     const double factor = by_yaw ? 57.3 : 9.81;
     const auto about = [](double x, double target) { return x > target / 1.5 && x < target * 1.5; };

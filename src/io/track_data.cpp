@@ -1,6 +1,7 @@
 #include "lapwing/io/track_data.hpp"
 
 #include <algorithm>
+#include <cmath>
 
 #include "lapwing/base/error.hpp"
 #include "lapwing/base/format.hpp"
@@ -44,6 +45,39 @@ std::vector<double> bank_column(const CsvTable& t) {
   return out;
 }
 
+// Dropouts in a centerline's points (is_dropout: the rule for a log's rows), named by the
+// file's lines: the widest, and how many more (a closed centerline's last point to its first
+// too, which the fit bridges as it bridges any other gap).
+void warn_of_dropouts(const CsvTable& t, const CenterlinePoints& points, bool closed,
+                      PathProfile& p) {
+  const std::size_t n = points.x_m.size();
+  struct Gap {
+    double m;
+    std::size_t before, after;  // rows
+  };
+  std::vector<Gap> gaps;
+  auto look = [&](std::size_t a, std::size_t b) {
+    const double d = std::hypot(points.x_m[b] - points.x_m[a], points.y_m[b] - points.y_m[a]);
+    if (is_dropout(d, p.point_spacing_m)) gaps.push_back({d, a, b});
+  };
+  for (std::size_t i = 1; i < n; ++i) look(i - 1, i);
+  if (closed && n > 1) look(n - 1, 0);
+  if (gaps.empty()) return;
+  const Gap& widest = *std::max_element(gaps.begin(), gaps.end(),
+                                        [](const Gap& a, const Gap& b) { return a.m < b.m; });
+  std::string more;
+  if (gaps.size() > 1)
+    more = " (and " + std::to_string(gaps.size() - 1) + " more such gap" +
+           (gaps.size() > 2 ? "s" : "") + ")";
+  p.warnings.push_back(
+      t.file + ": points " + fixed(widest.m, 1) + " m apart from line " +
+      std::to_string(t.lines[widest.before]) + " to line " + std::to_string(t.lines[widest.after]) +
+      " (the median is " + fixed(p.point_spacing_m, 2) + " m)" + more + ": a dropout (over " +
+      fixed(dropout_min_gap_m, 0) + " m and " + fixed(dropout_spacings, 0) +
+      " times the median); the track across it is the fit's guess, not the road: add the "
+      "missing points");
+}
+
 }  // namespace
 
 ProfileFile read_centerline_file(const std::string& file, bool closed, const CenterlineOptions& o) {
@@ -85,6 +119,7 @@ ProfileFile read_centerline_file(const std::string& file, bool closed, const Cen
     if (t.find("bank_deg") >= 0) points.bank_rad = bank_column(t);
     ProfileFile out{fit_centerline(points, closed, o), t.lines};
     out.profile.geodetic = geodetic;
+    warn_of_dropouts(t, points, closed, out.profile);
     note_unused_columns(
         t,
         geodetic ? std::vector<std::string>{"lat_deg", "lon_deg", "alt_m", "width_left_m",

@@ -563,5 +563,12 @@ gap_warning="the closed lap ends 29.98 m above its start (tolerance max(1 m, 0.1
   grep -qF "$gap_warning" "$tmp/typo-trade/report.html" && ok || bad "elevation gap not warned of in trade: $(cat "$tmp/typo.txt")"
 "$bin" run --car cars/pellion-fr2.yaml --track tracks/cairnholt.yaml > "$tmp/typo.txt" &&
   ! grep -q "^warning: the closed lap" "$tmp/typo.txt" && ok || bad "cairnholt as bundled warned of a gap"
+# The bundled survey with rows 162-181 left out (a 30.2 m hole at the first hairpin, 15 times the
+# 2 m median): a dropout warning naming the lines either side, as track from-log names a log's.
+mkdir -p "$tmp/drop" && cp tracks/brannock-park-survey.yaml "$tmp/drop/" &&
+  sed '162,181d' tracks/brannock-park-survey.csv > "$tmp/drop/brannock-park-survey.csv"
+"$bin" run --car cars/caldra-gt.yaml --track "$tmp/drop/brannock-park-survey.yaml" > "$tmp/drop.txt" &&
+  grep -qF "warning: $tmp/drop/brannock-park-survey.csv: points 30.2 m apart from line 161 to line 162 (the median is 2.00 m): a dropout" "$tmp/drop.txt" &&
+  ok || bad "a centerline dropout is not named: $(cat "$tmp/drop.txt")"
 echo "cli: $pass passed, $fail failed"
 [ "$fail" -eq 0 ]

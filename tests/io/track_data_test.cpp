@@ -171,3 +171,50 @@ TEST_CASE("columns a data file has but lapwing does not read are named in a note
   CHECK(import_centerline(h, false, CenterlineOptions{}).notes.empty());
   std::remove(h.c_str());
 }
+
+TEST_CASE("a hole in a centerline's points is a dropout warning naming its lines (the log rule)") {
+  // A ring of radius 50 m, a point every 2 deg (chords 2 R sin(1 deg) = 1.745 m, the median),
+  // closed. Rows 100 to 129 of 180 left out: the points either side, 62 deg apart, are
+  // 2 R sin(31 deg) = 51.5 m apart (chord, closed form), over max(10 m, 4 x 1.745 m): a warning
+  // naming the lines (header on line 1: point i is on line i + 2). The same rule as a log's rows
+  // (README, "Tracks from data"); the ring whole, or with one point missing (3.5 m), has none.
+  const double radius = 50.0;
+  auto ring = [&](int skip_from, int skip_to) {
+    std::vector<double> x, y;
+    for (int i = 0; i < 180; ++i) {
+      if (i >= skip_from && i < skip_to) continue;
+      const double a = 2 * units::pi * i / 180;
+      x.push_back(radius * std::sin(a));
+      y.push_back(radius * (1 - std::cos(a)));
+    }
+    return write("ring_dropout.csv", points_csv(x, y));
+  };
+  {
+    const PathProfile p = import_centerline(ring(100, 130), true, CenterlineOptions{});
+    REQUIRE(p.warnings.size() == 1);
+    const double chord = 2 * radius * std::sin(31 * units::pi / 180);
+    CHECK(near(chord, 51.5, 0.0, 0.05));
+    CHECK(p.warnings[0] ==
+          "ring_dropout.csv: points 51.5 m apart from line 101 to line 102 (the median is 1.75 "
+          "m): a dropout (over 10 m and 4 times the median); the track across it is the fit's "
+          "guess, not the road: add the missing points");
+  }
+  CHECK(import_centerline(ring(0, 0), true, CenterlineOptions{}).warnings.empty());
+  CHECK(import_centerline(ring(50, 51), true, CenterlineOptions{}).warnings.empty());
+  // Two holes: the widest named, the other counted.
+  {
+    std::vector<double> x, y;
+    for (int i = 0; i < 180; ++i) {
+      if ((i >= 20 && i < 30) || (i >= 100 && i < 130)) continue;
+      const double a = 2 * units::pi * i / 180;
+      x.push_back(radius * std::sin(a));
+      y.push_back(radius * (1 - std::cos(a)));
+    }
+    const PathProfile p =
+        import_centerline(write("ring_dropout.csv", points_csv(x, y)), true, CenterlineOptions{});
+    REQUIRE(p.warnings.size() == 1);
+    CHECK(p.warnings[0].find("51.5 m apart from line 91 to line 92") != std::string::npos);
+    CHECK(p.warnings[0].find("(and 1 more such gap)") != std::string::npos);
+  }
+  std::remove("ring_dropout.csv");
+}

@@ -7,6 +7,7 @@
 // Matrix Iterative Analysis, 1962, from memory), so widths given positive stay positive.
 #pragma once
 
+#include <algorithm>
 #include <memory>
 #include <optional>
 #include <string>
@@ -20,6 +21,17 @@ namespace lapwing {
 
 /// The fewest points a centerline is fitted from (its file's rows).
 inline constexpr std::size_t min_centerline_points = 10;
+
+/// A gap between consecutive rows of data (a log's, a centerline's points) wider than
+/// dropout_min_gap_m and dropout_spacings times their median spacing: a dropout, warned of by
+/// its line (README, "Tracks from data"). 10 m is where rows can no longer draw a hairpin (the
+/// verdict's poor spacing); 4 spacings keep the uneven steps of a survey or a logger's jitter
+/// out of it.
+inline constexpr double dropout_min_gap_m = 10.0;
+inline constexpr double dropout_spacings = 4.0;
+inline bool is_dropout(double gap_m, double median_spacing_m) {
+  return gap_m > std::max(dropout_min_gap_m, dropout_spacings * median_spacing_m);
+}
 
 struct CenterlineOptions {
   std::optional<double> smoothing_m;     // wavelength the x/y fit halves; none: auto (GCV)
