@@ -919,14 +919,32 @@ int track_line(const TrackLineOptions& o, Inputs& in) {
   }
   Track lined = described;
   lined.line_path = line;
-  if (configured) {
-    LapSolver solver;  // the lap times alone: no channel is read here
-    solver.set_threads(lone_lap_threads());
-    centerline_lap = lap_time(*configured, lapwing::lay_out(described, a), solver);
-    if (!line_lap) line_lap = lap_time(*configured, lapwing::lay_out(lined, a), solver);
+  // The source's data-quality verdict: printed, and carried into the track written (its
+  // `source_verdict`), which reads no better: the line's own points are 1 m apart and clean.
+  // With a car, the full verdict (the lap spread between half and double smoothing); without,
+  // the data's spacing alone.
+  TrackQuality source_quality;
+  {
+    const Circuit source = lapwing::lay_out(described, a);
+    if (configured) {
+      LapSolver solver;  // the lap times alone: no channel is read here
+      solver.set_threads(lone_lap_threads());
+      centerline_lap = lap_time(*configured, source, solver);
+      if (!line_lap) line_lap = lap_time(*configured, lapwing::lay_out(lined, a), solver);
+      source_quality = assess_track(source, smoothing_variants(source), *configured,
+                                    car->configs[ci].name, *centerline_lap);
+    } else {
+      source_quality = assess_track_data(source);
+      if (!source_quality.segments && source_quality.source != PathProfile::Source::curvature)
+        source_quality.notes.push_back(
+            "no --car: the source's verdict is by its spacing alone (the lap spread between "
+            "half and double smoothing needs a car)");
+    }
   }
   const LineTrackFiles files =
-      line_track_files(described, line, air_spec, o.method, spec, csv_name);
+      line_track_files(described, line, air_spec, o.method, spec, csv_name,
+                       SourceQuality{std::string(verdict_name(source_quality.verdict)),
+                                     quality_line(source_quality)});
   // The line's file is a centerline, which needs 10 points to be read back (a line is laid a
   // point a metre or so): a track too short for that would be written and then refused.
   const auto rows = static_cast<std::size_t>(std::count(files.csv.begin(), files.csv.end(), '\n'));
@@ -942,6 +960,14 @@ int track_line(const TrackLineOptions& o, Inputs& in) {
   for (std::size_t i = 0; i < line.offset_m.size(); ++i)
     if (std::abs(line.offset_m[i]) > std::abs(line.offset_m[widest])) widest = i;
   std::string text = "track   " + o.out + " and " + (dir / csv_name).string() + "\n";
+  text += "source  " + quality_line(source_quality) + "\n";
+  for (const auto& n : source_quality.notes) text += "note    " + n + "\n";
+  // The source's doubts are the line's too: it is drawn from that data (and its track reads
+  // no better, source_verdict).
+  for (const auto& w : track_warnings(described)) text += "warning: the source's data: " + w + "\n";
+  if (source_quality.verdict == Verdict::poor)
+    text += "warning: " + quality_warning(source_quality) +
+            "; the track written carries it (source_verdict: poor)\n";
   text += "line    " + o.method + ", vehicle " + fixed(spec.vehicle_width_m, 2) +
           " m wide, margin " + fixed(spec.margin_m, 2) + " m: " + fixed(line.s_m.back(), 1) +
           " m long (the centerline " + fixed(described.length_m(), 1) + " m), largest offset " +

@@ -51,7 +51,8 @@ std::string air_yaml(const AirSpec& air) {
 
 LineTrackFiles line_track_files(const Track& source, const PathProfile& line, const AirSpec& air,
                                 const std::string& method, const LineSpec& spec,
-                                const std::string& csv_name) {
+                                const std::string& csv_name,
+                                const std::optional<SourceQuality>& source_quality) {
   assert(line.source == PathProfile::Source::line && !line.width_left_m.empty());
   // A closed line's last sample is its first again: the file holds each point once.
   const std::size_t n = source.closed ? line.x_m.size() - 1 : line.x_m.size();
@@ -81,6 +82,9 @@ LineTrackFiles line_track_files(const Track& source, const PathProfile& line, co
     << " line for a vehicle " << format_number(spec.vehicle_width_m) << " m wide with a margin of "
     << format_number(spec.margin_m)
     << " m each side.\n# Widths are measured from the line; lapping this track laps the line.\n";
+  // The source's verdict: the line is drawn from its data, and reads no better (a poor source
+  // would otherwise come back good: the line's points are 1 m apart and hold no noise).
+  if (source_quality) y << "# The source's " << source_quality->text << "\n";
   y << "format: 1\nname: " << json_quote(source.name + " (" + method + " line)")
     << "\nclosed: " << (source.closed ? "true" : "false") << "\n";
   if (!source.closed) y << "start_speed: " << format_number(source.start_speed_mps) << " m/s\n";
@@ -89,7 +93,8 @@ LineTrackFiles line_track_files(const Track& source, const PathProfile& line, co
   // The line's points are 1 m apart and hold no noise: smoothing auto finds that and fits them
   // at the shortest length. The elevation was the source's, exact: kept within 10 m.
   y << "centerline: {file: " << json_quote(csv_name)
-    << (climbs ? ", elevation_smoothing: 10 m" : "") << "}\n";
+    << (climbs ? ", elevation_smoothing: 10 m" : "")
+    << (source_quality ? ", source_verdict: " + source_quality->verdict : std::string()) << "}\n";
   if (source.wind)
     y << "wind: {speed: " << format_number(source.wind->speed_mps)
       << " m/s, from: " << format_number(source.wind->from_rad / units::deg) << " deg}\n";

@@ -141,9 +141,13 @@ TrackFile read_track_file(const std::string& file) {
   };
   if (r.has("centerline")) {
     Reader c = r.map("centerline");
-    c.keys({"file", "smoothing", "elevation_smoothing"});
+    c.keys({"file", "smoothing", "elevation_smoothing", "source_verdict"});
     CenterlineOptions o;
     const std::string f = data_file(c);
+    // The data-quality verdict of the data the points were made from (`track line` writes its
+    // source's): the track's own verdict is held to it at best.
+    const std::string source_verdict =
+        c.has("source_verdict") ? c.choice("source_verdict", {"good", "usable", "poor"}) : "";
     // `smoothing: auto` (the default) lets generalised cross-validation choose; a length
     // overrides, in the file's range (the fit takes any positive length).
     if (const Node* sm = c.get("smoothing");
@@ -156,6 +160,7 @@ TrackFile read_track_file(const std::string& file) {
     c.finish();
     ProfileFile data = read_centerline_file(f, t.closed, o);
     t.profile = std::move(data.profile);
+    t.profile->source_verdict = source_verdict;
     out.sources.data("centerline", f, std::move(data.lines));
   } else if (r.has("curvature")) {
     Reader c = r.map("curvature");

@@ -44,6 +44,9 @@ std::string findings(const TrackQuality& q) {
     o += ", lap " + fixed(100 * *q.spread, 2) + " % apart between half and double smoothing";
   else
     o += ", lap spread between half and double smoothing unknown (see the notes)";
+  if (q.source_verdict)
+    o += ", made from data whose verdict is " + std::string(verdict_name(*q.source_verdict)) +
+         " (source_verdict: this track reads no better)";
   return o;
 }
 }  // namespace
@@ -104,6 +107,11 @@ void write_track_quality(JsonWriter& w, const TrackQuality& q) {
   optional("lap_half_smoothing_s", q.lap_half_s);
   optional("lap_double_smoothing_s", q.lap_double_s);
   optional("spread", q.spread);
+  w.key("source_verdict");
+  if (q.source_verdict)
+    w.value(std::string(verdict_name(*q.source_verdict)));
+  else
+    w.null();
   w.key("notes").begin_array();
   for (const auto& n : q.notes) w.value(n);
   w.end_array().end_object();

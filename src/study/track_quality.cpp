@@ -29,6 +29,12 @@ Verdict verdict_of(std::optional<double> spacing, std::optional<double> spread) 
   return Verdict::good;
 }
 
+std::optional<Verdict> verdict_named(std::string_view name) {
+  for (Verdict v : {Verdict::good, Verdict::usable, Verdict::poor})
+    if (verdict_name(v) == name) return v;
+  return std::nullopt;
+}
+
 namespace {
 
 // Third differences for a centerline's x and y: half lambda is the length x 2^(-1/6).
@@ -64,13 +70,10 @@ SmoothingVariants smoothing_variants(const Circuit& c) {
   return v;
 }
 
-TrackQuality assess_track(const Circuit& c, const SmoothingVariants& v, const ConfiguredCar& car,
-                          const std::string& config, double lap_s) {
+TrackQuality assess_track_data(const Circuit& c) {
   TrackQuality q;
   q.track_id = c.track.id;
   q.track_name = c.track.name;
-  q.config = config;
-  q.lap_s = lap_s;
   const PathProfile* p = data_profile(c.track);
   if (!p) {
     q.segments = true;
@@ -94,6 +97,19 @@ TrackQuality assess_track(const Circuit& c, const SmoothingVariants& v, const Co
                      gaps.end());
     q.spacing_m = q.source_spacing ? p->source_spacing_m : gaps[gaps.size() / 2];
   }
+  q.verdict = verdict_of(q.spacing_m, std::nullopt);
+  // Made from other data: no better than that data's verdict.
+  q.source_verdict = verdict_named(p->source_verdict);
+  if (q.source_verdict) q.verdict = std::max(q.verdict, *q.source_verdict);
+  return q;
+}
+
+TrackQuality assess_track(const Circuit& c, const SmoothingVariants& v, const ConfiguredCar& car,
+                          const std::string& config, double lap_s) {
+  TrackQuality q = assess_track_data(c);
+  q.config = config;
+  q.lap_s = lap_s;
+  if (q.segments) return q;
   q.notes = v.notes;
   auto lap_of = [&](const std::optional<Circuit>& variant, const char* name,
                     double length) -> std::optional<double> {
@@ -116,6 +132,7 @@ TrackQuality assess_track(const Circuit& c, const SmoothingVariants& v, const Co
   q.lap_double_s = lap_of(v.twice, "double", v.double_length_m);
   if (q.lap_half_s && q.lap_double_s) q.spread = std::abs(*q.lap_half_s - *q.lap_double_s) / lap_s;
   q.verdict = verdict_of(q.spacing_m, q.spread);
+  if (q.source_verdict) q.verdict = std::max(q.verdict, *q.source_verdict);
   return q;
 }
 

@@ -570,5 +570,20 @@ mkdir -p "$tmp/drop" && cp tracks/brannock-park-survey.yaml "$tmp/drop/" &&
 "$bin" run --car cars/caldra-gt.yaml --track "$tmp/drop/brannock-park-survey.yaml" > "$tmp/drop.txt" &&
   grep -qF "warning: $tmp/drop/brannock-park-survey.csv: points 30.2 m apart from line 161 to line 162 (the median is 2.00 m): a dropout" "$tmp/drop.txt" &&
   ok || bad "a centerline dropout is not named: $(cat "$tmp/drop.txt")"
+# track line over that survey prints the source's verdict (poor) and carries it into the track it
+# writes, which then reads poor too (it read good: its own points are 1 m apart and clean).
+"$bin" track line --track "$tmp/drop/brannock-park-survey.yaml" --car cars/caldra-gt.yaml \
+  --out "$tmp/drop/line.yaml" > "$tmp/drop.txt" &&
+  grep -q "^source  track data: centerline, points 2.0 m apart, .*: poor (" "$tmp/drop.txt" &&
+  grep -q "^warning: track data poor: " "$tmp/drop.txt" &&
+  grep -q "^centerline: {file: \"line.csv\", source_verdict: poor}$" "$tmp/drop/line.yaml" &&
+  "$bin" run --car cars/caldra-gt.yaml --track "$tmp/drop/line.yaml" > "$tmp/drop-line.txt" &&
+  grep -q "^track data: centerline, points 1.0 m apart, .*made from data whose verdict is poor .*: poor" "$tmp/drop-line.txt" &&
+  grep -q "^warning: track data poor: " "$tmp/drop-line.txt" &&
+  ok || bad "track line launders a poor source: $(cat "$tmp/drop.txt" "$tmp/drop-line.txt")"
+"$bin" track line --track tracks/brannock-park-survey.yaml --out "$tmp/drop/clean.yaml" > "$tmp/drop.txt" &&
+  grep -q "^source  track data: centerline, points 2.0 m apart, .*: good" "$tmp/drop.txt" &&
+  grep -q "^note    no --car: the source's verdict is by its spacing alone" "$tmp/drop.txt" &&
+  grep -q "source_verdict: good}$" "$tmp/drop/clean.yaml" && ok || bad "track line on a good survey: $(cat "$tmp/drop.txt")"
 echo "cli: $pass passed, $fail failed"
 [ "$fail" -eq 0 ]

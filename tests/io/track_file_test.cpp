@@ -136,3 +136,20 @@ TEST_CASE("a closure error found when the track is laid out names the data file'
                                 " line 254) is 955.3 m from its first") != std::string::npos);
   }
 }
+
+TEST_CASE("a centerline's source_verdict is read (good, usable or poor)") {
+  const std::string path = "track_test_source_verdict.yaml";
+  for (const char* given : {"", "good", "usable", "poor"}) {
+    {
+      std::ofstream f(path);
+      f << "format: 1\nname: t\nclosed: true\ncenterline: {file: "
+        << test::source_path("tracks/brannock-park-survey.csv")
+        << (*given ? std::string(", source_verdict: ") + given : std::string()) << "}\n";
+    }
+    CAPTURE(given);
+    const Track t = load_track(path);
+    REQUIRE(t.profile);
+    CHECK(t.profile->source_verdict == given);
+  }
+  std::remove(path.c_str());
+}

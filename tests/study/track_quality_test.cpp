@@ -5,6 +5,7 @@
 #include <cmath>
 
 #include "lapwing/io/car_file.hpp"
+#include "lapwing/path/curvature_profile.hpp"
 #include "lapwing/study/track_quality.hpp"
 #include "test_support.hpp"
 
@@ -56,4 +57,50 @@ TEST_CASE("a segment track is exact: good, with no variants") {
   CHECK(q.segments);
   CHECK(q.verdict == Verdict::good);
   CHECK_FALSE(q.spread);
+}
+
+TEST_CASE("a centerline made from other data reads no better than that data's verdict") {
+  // `track line` writes its source's verdict as `centerline: {source_verdict}`: the line's own
+  // points are 1 m apart and clean (good by the thresholds above), and without it a poor source
+  // came back good (the tester's survey with a 34 m hole: poor, its line good). The verdict is
+  // the worse of the two; a better source verdict does not lift a worse one.
+  Circuit c = test::bundled_circuit("tracks/brannock-park-survey.yaml");
+  const ConfiguredCar car = load_car(test::source_path("cars/caldra-gt.yaml")).configured(0);
+  const SmoothingVariants v = smoothing_variants(c);
+  const double lap = run_lap(car, c).summary.lap_time_s;
+  REQUIRE(assess_track(c, v, car, "low_drag", lap).verdict == Verdict::good);
+  REQUIRE_FALSE(assess_track(c, v, car, "low_drag", lap).source_verdict);
+  for (const auto& [given, expected] :
+       {std::pair{"good", Verdict::good}, std::pair{"usable", Verdict::usable},
+        std::pair{"poor", Verdict::poor}}) {
+    c.track.profile->source_verdict = given;
+    CAPTURE(given);
+    const TrackQuality q = assess_track(c, v, car, "low_drag", lap);
+    REQUIRE(q.source_verdict);
+    CHECK(*q.source_verdict == expected);
+    CHECK(q.verdict == expected);
+    CHECK(q.spread);  // the data's own figures are still measured
+    // Without a car (track line without --car): the spacing and the source verdict.
+    CHECK(assess_track_data(c).verdict == expected);
+    CHECK_FALSE(assess_track_data(c).spread);
+  }
+  // A source verdict better than the data's own changes nothing: a circle of R 100 m as a
+  // curvature profile with rows 12.08 m apart (2 pi R / 52) is poor by its spacing (over 10 m),
+  // and stays poor with a good source.
+  {
+    std::vector<double> s, k;
+    for (int i = 0; i <= 52; ++i) {
+      s.push_back(2 * 3.14159265358979323846 * 100.0 * i / 52);
+      k.push_back(0.01);
+    }
+    Track t = test::circle_track(100.0, 0.5);
+    t.segments.clear();
+    t.profile = profile_from_curvature("circle.csv", s, k, {});
+    t.profile->source_verdict = "good";
+    const TrackQuality q = assess_track_data(lay_out(t, make_air(t.air)));
+    CHECK(near(*q.spacing_m, 12.08, 0.0, 0.005));
+    CHECK(q.source_verdict == Verdict::good);
+    CHECK(q.verdict == Verdict::poor);
+  }
+  CHECK_FALSE(verdict_named("fair"));
 }

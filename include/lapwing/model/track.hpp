@@ -108,6 +108,10 @@ struct PathProfile {
   // `track from-log`: `curvature: {source_spacing}`): the data's median spacing, which the
   // data-quality verdict judges instead of the rows'. 0: the rows are the data.
   double source_spacing_m = 0.0;
+  // A centerline made from other data (a racing line `track line` wrote: `centerline:
+  // {source_verdict}`): that data's data-quality verdict, `good`, `usable` or `poor`, which
+  // the track's own verdict cannot better. Empty: the points are the data.
+  std::string source_verdict;
   // Distance from the path to each edge, left and right in the direction of travel, per sample
   // (empty when the track has no widths).
   std::vector<double> width_left_m, width_right_m;

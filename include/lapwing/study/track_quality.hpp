@@ -11,11 +11,14 @@
 //           the lap depends on the smoothing more than on the car)
 // spread = (lap at half strength - lap at double strength) / lap, in absolute value.
 // Segment tracks are exact (good); a curvature profile is taken as given, judged by its spacing
-// (or by its source's, when it was resampled from data further apart: a log's rows).
+// (or by its source's, when it was resampled from data further apart: a log's rows). A
+// centerline made from other data (a racing line `track line` wrote) reads no better than that
+// data's verdict, which it carries (`centerline: {source_verdict}`).
 #pragma once
 
 #include <optional>
 #include <string>
+#include <string_view>
 #include <vector>
 
 #include "lapwing/model/car.hpp"
@@ -31,6 +34,8 @@ inline constexpr double quality_usable_spread = 0.02;
 enum class Verdict { good, usable, poor };
 std::string_view verdict_name(Verdict v);
 Verdict verdict_of(std::optional<double> spacing_m, std::optional<double> spread);
+/// The verdict named `name` (`good`, `usable`, `poor`); none for any other text.
+std::optional<Verdict> verdict_named(std::string_view name);
 
 /// A data track refitted at half and at double its smoothing strength and laid out (its racing
 /// line laid again over each): the variants every config of a quality study laps. Empty for
@@ -48,6 +53,9 @@ struct TrackQuality {
   bool segments = false;            // exact geometry: no data to judge
   std::optional<double> spacing_m;  // the data's median point (or row) spacing
   bool source_spacing = false;      // a curvature profile's: its source's (a log's rows)
+  // A centerline made from other data (`track line`): that data's verdict, which `verdict`
+  // is held to at best (PathProfile::source_verdict).
+  std::optional<Verdict> source_verdict;
   std::optional<double> noise_m;    // a centerline's: GCV's estimate (auto) or the fit's
                                     // residual rms (a length given)
   bool noise_estimated = false;     // noise_m is GCV's estimate
@@ -64,6 +72,11 @@ struct TrackQuality {
 TrackQuality assess_track(const Circuit& circuit, const SmoothingVariants& variants,
                           const ConfiguredCar& configured_car, const std::string& config,
                           double lap_s);
+
+/// The verdict on `circuit`'s data alone: its spacing, noise and any source verdict, without
+/// the lap spread (which needs a car; `spread` stays empty): what `track line` without --car
+/// can say of its source.
+TrackQuality assess_track_data(const Circuit& circuit);
 
 /// The worst verdict of several (check: one per config).
 Verdict worst(const std::vector<TrackQuality>& qualities);
