@@ -989,6 +989,18 @@ int track_line(const TrackLineOptions& o, Inputs& in) {
     else
       text += ", line " + fixed(*line_lap, 3) + " s" + delta(*line_lap);
     text += "\n";
+    // A line of less curvature is longer: where that costs more than its speed gains, it laps
+    // slower than the path it replaces, and the min-time refinement, which starts from it and
+    // keeps only what gains, need not get back below the centerline (README, "The racing line").
+    if (*line_lap > *centerline_lap)
+      text += "note    the " + o.method + " line laps " + fixed(*line_lap - *centerline_lap, 3) +
+              " s slower than the centerline: its extra length costs more than its lower "
+              "curvature gains here (on a ring at the grip limit the lap grows as the square "
+              "root of the radius)" +
+              (min_time ? std::string(", and the refinement starts from the minimum-curvature "
+                                      "line and keeps only what gains on it")
+                        : std::string()) +
+              "; lap the centerline instead\n";
   }
   std::cout << text;
   return 0;

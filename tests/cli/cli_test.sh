@@ -585,5 +585,21 @@ mkdir -p "$tmp/drop" && cp tracks/brannock-park-survey.yaml "$tmp/drop/" &&
   grep -q "^source  track data: centerline, points 2.0 m apart, .*: good" "$tmp/drop.txt" &&
   grep -q "^note    no --car: the source's verdict is by its spacing alone" "$tmp/drop.txt" &&
   grep -q "source_verdict: good}$" "$tmp/drop/clean.yaml" && ok || bad "track line on a good survey: $(cat "$tmp/drop.txt")"
+# A 12 m wide ring of radius 50 m, a point mass without drag or rolling resistance (mu_lat 1.4):
+# the lines run out to R 54.5 m, and a flat circle at the grip limit laps in 2 pi sqrt(R / mu g)
+# (closed form): 12.519 s against the centerline's 11.991 s. track line notes that the line laps
+# slower than the centerline (it said nothing); on Brannock Park (faster) it notes nothing.
+{ sed 's/^format: 1$/format: 1\nmodel: point-mass/; s/rolling_radius: 0.3}/rolling_radius: 0.3, rolling_resistance: 0}/' \
+    tests/data/no-aero-car.yaml; } > "$tmp/pm-car.yaml"
+printf 'format: 1\nname: "Ring"\nclosed: true\nmesh: 0.25 m\nwidth: 12 m\nsegments:\n  - arc: {radius: 50 m, angle: 360 deg, turn: left}\n' > "$tmp/ring.yaml"
+for method in min-curvature min-time; do
+  "$bin" track line --track "$tmp/ring.yaml" --car "$tmp/pm-car.yaml" --method $method \
+    --out "$tmp/line/ring-$method.yaml" > "$tmp/ring.txt" &&
+    grep -q "^lap     no-aero test car, config bare: centerline 11.991 s, .*12.519 s (+4.41 %)" "$tmp/ring.txt" &&
+    grep -q "^note    the $method line laps 0.528 s slower than the centerline: " "$tmp/ring.txt" &&
+    ok || bad "track line $method on a ring: no note that it laps slower: $(cat "$tmp/ring.txt")"
+done
+! grep -q "slower than the centerline" "$tmp/mt.txt" && ok || bad "track line notes a faster line as slower"
+
 echo "cli: $pass passed, $fail failed"
 [ "$fail" -eq 0 ]
