@@ -370,7 +370,7 @@ void check_closure(const Track& track, const Closure& c) {
 
 }  // namespace
 
-PointRun longest_straight(const Mesh& mesh, double straight_below_1pm) {
+std::optional<PointRun> longest_straight(const Mesh& mesh, double straight_below_1pm) {
   PointRun best, run;
   bool in = false;
   for (std::size_t i = 0; i < mesh.size(); ++i) {
@@ -383,6 +383,7 @@ PointRun longest_straight(const Mesh& mesh, double straight_below_1pm) {
       in = false;
     }
   }
+  if (best.last == best.first) return std::nullopt;
   return best;
 }
 

@@ -62,14 +62,20 @@ std::string config_text(const ConfigCheck& c, const Car& car) {
                     ", drag height " + fixed(c.drag_height_m, 3) + " m, top speed " +
                     fixed(units::to_kph(c.top_speed_mps), 1) + " km/h (" +
                     limit_text(c.top_speed_limit, car) + ")\n";
-  if (c.tyre_peak_load_n)
-    out +=
-        "       tyre force peak (load sensitivity): " + fixed(*c.tyre_peak_load_n, 0) +
-        " N a tyre, " +
-        (c.tyre_peak_speed_mps ? "reached at " + fixed(units::to_kph(*c.tyre_peak_speed_mps), 1) +
-                                     " km/h (level straight): faster, more load gives less force"
-                               : std::string("not within the envelope (level straight)")) +
-        "\n";
+  if (c.tyre_peak_load_n) {
+    // A peak beyond the level top speed is not reached on a level straight: said so, with the
+    // top speed beside it (the speed is where the aero load alone would get there).
+    std::string at = "not within the envelope (level straight)";
+    if (c.tyre_peak_speed_mps && *c.tyre_peak_speed_mps > c.top_speed_mps)
+      at = "a level road would reach it at " + fixed(units::to_kph(*c.tyre_peak_speed_mps), 1) +
+           " km/h, above this config's level top speed (" +
+           fixed(units::to_kph(c.top_speed_mps), 1) + " km/h): no level straight gets there";
+    else if (c.tyre_peak_speed_mps)
+      at = "reached at " + fixed(units::to_kph(*c.tyre_peak_speed_mps), 1) +
+           " km/h (level straight): faster, more load gives less force";
+    out += "       tyre force peak (load sensitivity): " + fixed(*c.tyre_peak_load_n, 0) +
+           " N a tyre, " + at + "\n";
+  }
   auto percent = [](const std::optional<double>& v) {
     return v ? fixed(100 * *v, 1) : std::string("-");
   };
@@ -128,12 +134,14 @@ std::string track_text(const Car& car, double rated_w, const Circuit& t, const T
          fixed(tc.engine_power_ratio * rated_w / 1000, 1) + " kW of " + fixed(rated_w / 1000, 1) +
          " kW rated (" + fixed(100 * tc.engine_power_ratio, 1) + " %)\n";
   if (t.track.wind) {
-    const double head = tc.head_wind_longest_straight_mps;
     out += "       wind " + fixed(t.track.wind->speed_mps, 1) + " m/s from " +
-           fixed(t.track.wind->from_rad / units::deg, 0) + " deg: " +
-           (head >= 0 ? "head" : "tail") + " wind " + fixed(std::abs(head), 1) +
-           " m/s on the longest straight (" + fixed(tc.straight_start_m, 0) + " to " +
-           fixed(tc.straight_end_m, 0) + " m)\n";
+           fixed(t.track.wind->from_rad / units::deg, 0) + " deg: ";
+    if (const std::optional<double> head = tc.head_wind_longest_straight_mps)
+      out += std::string(*head >= 0 ? "head" : "tail") + " wind " + fixed(std::abs(*head), 1) +
+             " m/s on the longest straight (" + fixed(tc.straight_start_m, 0) + " to " +
+             fixed(tc.straight_end_m, 0) + " m)\n";
+    else
+      out += "no straight (no two points with |curvature| under 1/800 m) to read it on\n";
   }
   if (!t.track.trim_zones.empty())
     out += "       trim zones: " + std::to_string(t.track.trim_zones.size()) + ", " +
@@ -233,9 +241,9 @@ void track_json(JsonWriter& j, const Circuit& t, const TrackCheck& tc) {
         .field("rise_m", cl.elevation_gap_m);
   j.field("corner_count", static_cast<int>(tc.corner_count))
       .field("air_density_kg_m3", t.air.density_kg_m3)
-      .field("engine_power_ratio", tc.engine_power_ratio)
-      .field("head_wind_longest_straight_mps", tc.head_wind_longest_straight_mps)
-      .field("trim_zone_share", tc.trim_zone_share);
+      .field("engine_power_ratio", tc.engine_power_ratio);
+  optional_value(j, "head_wind_longest_straight_mps", tc.head_wind_longest_straight_mps);
+  j.field("trim_zone_share", tc.trim_zone_share);
   j.key("notes").begin_array();
   if (t.track.profile)
     for (const auto& n : t.track.profile->notes) j.value(n);

@@ -125,13 +125,14 @@ TrackCheck check_track(const Car& car, const Circuit& t) {
   out.engine_power_ratio = engine_power_ratio(car.powertrain, t.air.pressure_pa,
                                               t.air.temperature_k, t.air.relative_humidity);
   // The wind's head component on the longest straight, and the trim zones' share.
-  const PointRun straight = longest_straight(t.mesh);
-  double head = 0.0;
-  for (std::size_t i = straight.first; i <= straight.last; ++i) head += t.mesh.head_wind_at(i);
-  out.head_wind_longest_straight_mps =
-      head / static_cast<double>(straight.last - straight.first + 1);
-  out.straight_start_m = t.mesh.s_m[straight.first];
-  out.straight_end_m = t.mesh.s_m[straight.last];
+  if (const std::optional<PointRun> straight = longest_straight(t.mesh)) {
+    double head = 0.0;
+    for (std::size_t i = straight->first; i <= straight->last; ++i) head += t.mesh.head_wind_at(i);
+    out.head_wind_longest_straight_mps =
+        head / static_cast<double>(straight->last - straight->first + 1);
+    out.straight_start_m = t.mesh.s_m[straight->first];
+    out.straight_end_m = t.mesh.s_m[straight->last];
+  }
   if (!t.track.trim_zones.empty()) {
     std::size_t zoned = 0;
     for (std::size_t i = 0; i + 1 < t.mesh.size(); ++i) zoned += t.mesh.trim_zone[i];

@@ -3,6 +3,7 @@
 
 #include <cstddef>
 #include <cstdint>
+#include <optional>
 #include <string>
 #include <vector>
 
@@ -52,12 +53,13 @@ struct Mesh {
 };
 
 /// The longest run of points whose |curvature| stays below `straight_below_1pm` (default 1/800 m,
-/// where the corner finder ends a corner): first and last index; {0, 0} when there is none.
+/// where the corner finder ends a corner): first and last index; none when no two consecutive
+/// points are that straight (a lone point is no straight).
 /// (A closed lap's run does not wrap through the start.)
 struct PointRun {
   std::size_t first = 0, last = 0;
 };
-PointRun longest_straight(const Mesh& mesh, double straight_below_1pm = 1.0 / 800.0);
+std::optional<PointRun> longest_straight(const Mesh& mesh, double straight_below_1pm = 1.0 / 800.0);
 
 /// How far the end of the path is from its start (what a closed track must bring to zero).
 struct Closure {

@@ -120,8 +120,9 @@ struct TrackCheck {
   // SAE J1349 for natural and turbo engines; 1 for fixed).
   double engine_power_ratio = 1.0;
   // The wind's head component (m/s, negative: tail) averaged over the longest straight, from
-  // straight_start_m to straight_end_m (0 without wind).
-  double head_wind_longest_straight_mps = 0.0;
+  // straight_start_m to straight_end_m (0 without wind); none when the track has no straight
+  // (path/mesh.hpp: longest_straight).
+  std::optional<double> head_wind_longest_straight_mps;
   double straight_start_m = 0.0, straight_end_m = 0.0;
   // The share of the lap's steps inside trim zones (1 without zones: the trim may open anywhere).
   double trim_zone_share = 1.0;
