@@ -120,15 +120,16 @@ inline constexpr double closure_spacings = 3.0;
 
 /// The position gap a closed track may have: 0.5 % of the length for segments;
 /// max(3 x the median point spacing, 0.5 % of the length) for a centerline; none (infinity) for
-/// a curvature profile, whose positions are integrated and whose drift is shown, not refused.
+/// a curvature profile, whose positions are integrated and whose drift is not refused (beyond
+/// 0.5 % of the length it is a warning: track_warnings).
 double closure_position_tolerance_m(const Track& track);
 
 /// A closed lap's end above or below its start by more than
 /// max(closure_elevation_floor_m, closure_elevation_fraction x the length) is warned of (not
 /// refused: a survey's heights may not add up to zero). Each lap then climbs that much net,
-/// as if the whole lap rose at a mean grade of gap / length: 0.1 % is above what rounding
-/// every grade to 0.1 % leaves (errors of either sign, which partly cancel), and 1 m is room
-/// for a survey's heights on a short track. (README, "Track".)
+/// as if the whole lap rose at a mean grade of gap / length: 0.1 % is twice what rounding
+/// every grade to 0.1 % can leave at worst (0.05 % of the length, every rounding one way), and
+/// 1 m is room for a survey's heights on a short track. (README, "Track".)
 inline constexpr double closure_elevation_fraction = 0.001;
 inline constexpr double closure_elevation_floor_m = 1.0;
 double closure_elevation_tolerance_m(const Track& track);
