@@ -83,7 +83,10 @@ ConfiguredCar varied(const ConfiguredCar& car, Knob knob, double r) {
 namespace {
 // How `varied` moves a config, in words: "ClA +2.0 %" (or "+0.020 m2" for a zero area).
 std::string perturbation_text(const AeroConfig& a, Knob knob, double r) {
-  const char* name = knob == Knob::cla ? "ClA" : knob == Knob::cda ? "CdA" : knob == Knob::mass ? "mass" : "power";
+  const char* name = knob == Knob::cla    ? "ClA"
+                     : knob == Knob::cda  ? "CdA"
+                     : knob == Knob::mass ? "mass"
+                                          : "power";
   const std::string sign = r >= 0.0 ? "+" : "-";
   if ((knob == Knob::cla || knob == Knob::cda) && zero_area(a, knob))
     return std::string(name) + " " + sign + fixed(std::abs(r), 3) + " m2";
@@ -163,7 +166,8 @@ Trade trade(const Car& car, const std::vector<std::size_t>& configs,
       for (Knob k : knobs)
         for (double sign : {1.0, -1.0})
           jobs.push_back({t, varied(base, k, sign * o.step), false,
-                          "the study's lap with " + perturbation_text(base.aero(), k, sign * o.step) +
+                          "the study's lap with " +
+                              perturbation_text(base.aero(), k, sign * o.step) +
                               " (run laps the config as given)"});
     }
   }
