@@ -23,7 +23,8 @@ namespace lapwing {
 struct Alignment {
   double offset_m = 0.0;
   double scale = 1.0;
-  double correlation = 0.0;  // of the speed traces at this alignment (Pearson's r, -1 .. 1)
+  double correlation = 0.0;  // of the speed traces at this alignment (Pearson's r, -1 .. 1),
+                             // over the lap compared on a closed track
 };
 
 /// Scales searched: a distance channel within 4 % of the track's (a tyre's rolling radius grows
@@ -61,7 +62,11 @@ std::vector<std::uint8_t> log_gaps(const LoggedSpeed& log);
 /// simulated speed at each mesh point): a search over every offset (the whole lap for a closed
 /// track, half the track either way for an open one) on a 2 m grid at scales 0.4 % apart, then
 /// offset and scale refined on finer grids around the best (0.5 m and 0.05 %, then 0.05 m and
-/// 0.01 %).
+/// 0.01 %). On a closed track the correlation is of the lap compared (log_on_mesh) alone: the
+/// first search, over the whole log, finds that lap, and a log holding more than it is searched
+/// again over the lap (offsets within 10 m and 0.2 % of the log's length of the first), and
+/// refined over the lap; its other laps, driven otherwise or drifting at a scale between the
+/// first search's, do not pull the alignment.
 /// InvalidInput (subject: the log's source) when the log is read in a wrong unit (its median
 /// speed more than correlate_max_speed_ratio from the simulated lap's: "speed_mps[i]" at the
 /// fastest row) or, aligned, covers less than correlate_min_coverage of the track (log_on_mesh:
@@ -69,7 +74,9 @@ std::vector<std::uint8_t> log_gaps(const LoggedSpeed& log);
 Alignment align_log(const LoggedSpeed& log, const Mesh& mesh, const std::vector<double>& speed_mps);
 
 /// align_log's refinement alone, around `start` (offsets within 4.6 m, scales within 0.46 %),
-/// with align_log's checks: for a car whose speed trace has moved little (a fit's next round).
+/// over the lap compared under `start` (again over the lap compared under the result when that
+/// is another, at most twice), with align_log's checks: for a car whose speed trace has moved
+/// little (a fit's next round).
 Alignment refine_alignment(const LoggedSpeed& log, const Mesh& mesh,
                            const std::vector<double>& speed_mps, const Alignment& start);
 
