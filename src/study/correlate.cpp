@@ -10,6 +10,7 @@
 #include "lapwing/base/format.hpp"
 #include "lapwing/base/interpolate.hpp"
 #include "lapwing/base/units.hpp"
+#include "lapwing/study/track_quality.hpp"
 
 namespace lapwing {
 
@@ -176,6 +177,45 @@ std::vector<std::string> alignment_warnings(const Alignment& a) {
   return out;
 }
 
+double log_row_spacing_m(const LoggedSpeed& log, double scale) {
+  std::vector<double> ds;
+  for (std::size_t i = 0; i + 1 < log.distance_m.size(); ++i)
+    if (log.distance_m[i + 1] > log.distance_m[i])
+      ds.push_back(scale * (log.distance_m[i + 1] - log.distance_m[i]));
+  return ds.empty() ? 0.0 : median(ds);
+}
+
+std::optional<std::string> log_spacing_warning(const LoggedSpeed& log, const Alignment& a) {
+  const double spacing = log_row_spacing_m(log, a.scale);
+  const Verdict v = verdict_of(spacing, std::nullopt);
+  if (v == Verdict::good) return std::nullopt;
+  // The log's rate (its median interval in time, over the rows that move) and the rate that
+  // puts its rows quality_good_spacing_m apart at the same speeds; 10 Hz at least (the least
+  // rate README, "Correlating with your data" advises).
+  std::vector<double> dt;
+  for (std::size_t i = 0; i + 1 < log.distance_m.size(); ++i)
+    if (log.distance_m[i + 1] > log.distance_m[i] && std::isfinite(interval_s(log, i)))
+      dt.push_back(interval_s(log, i));
+  double need_hz = 10.0;
+  if (!dt.empty() && median(dt) > 0.0)
+    need_hz = std::max(need_hz, std::ceil(spacing / quality_good_spacing_m / median(dt)));
+  std::string w = "the log's rows are " + fixed(spacing, 1) +
+                  " m apart along the track (median): the data-quality verdict's spacing rule "
+                  "reads that as " +
+                  std::string(verdict_name(v)) + " (over " +
+                  fixed(v == Verdict::poor ? quality_usable_spacing_m : quality_good_spacing_m, 0) +
+                  " m";
+  if (v == Verdict::poor)
+    w += ": rows that far apart cannot draw a hairpin); the braking points, apex speeds, lap and "
+         "sector times and the RMS error read from it are the sampling's artefacts as much as "
+         "the car's differences";
+  else
+    w += "); the braking points read from it may be off by up to a row's spacing, and the apex "
+         "speeds and the RMS error carry the straight line drawn between rows";
+  return w + ": log at " + fixed(need_hz, 0) + " Hz or more (rows " +
+         fixed(quality_good_spacing_m, 0) + " m apart or closer)";
+}
+
 std::vector<std::uint8_t> log_gaps(const LoggedSpeed& log) {
   const std::size_t m = log.distance_m.size() - 1;
   std::vector<double> dt(m);
@@ -313,8 +353,8 @@ Alignment align_log(const LoggedSpeed& log, const Mesh& mesh, const std::vector<
     const Scored lap = scored(lc, log, mesh, best);
     if (lap.one_lap && lap.samples.d.size() < lc.d.size()) {
       const double band = 0.002 * (d1 - d0) + 10.0;
-      best = coarse_search(lap.samples, coarse, mesh, lap.lap_start_d - band,
-                           lap.lap_start_d + band);
+      best =
+          coarse_search(lap.samples, coarse, mesh, lap.lap_start_d - band, lap.lap_start_d + band);
     }
   }
   return refine_alignment(log, mesh, speed, best);
@@ -466,6 +506,7 @@ Correlation correlate(const Lap& lap, const Circuit& circuit, const LoggedSpeed&
   c.covered = std::move(on.covered);
   c.coverage = static_cast<double>(on.covered_points) / static_cast<double>(n);
   c.warnings = alignment_warnings(alignment);
+  if (auto w = log_spacing_warning(log, alignment)) c.warnings.push_back(std::move(*w));
   if (!on.gaps_m.empty()) {
     std::string at;
     for (const auto& g : on.gaps_m)

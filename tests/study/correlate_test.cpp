@@ -480,8 +480,8 @@ namespace {
 // `from_m` before that line to `to_m` after it, at log distance d = stretch (g + from_m) (g the
 // distance run from lap 0's line). The truth, by construction: offset stretch from_m (the log's
 // distance at lap 0's line), scale 1 / stretch.
-LoggedSpeed laps_of(const Lap& own, const Lap& other, const Mesh& mesh, double from_m,
-                    double to_m, double stretch, std::size_t every = 2) {
+LoggedSpeed laps_of(const Lap& own, const Lap& other, const Mesh& mesh, double from_m, double to_m,
+                    double stretch, std::size_t every = 2) {
   LoggedSpeed l;
   l.source = "laps";
   const double L = mesh.length_m;
@@ -507,9 +507,9 @@ TEST_CASE("a log of more than one lap aligns its lap compared as that lap alone 
   const Circuit c = brannock();
   const Lap own = run_lap(medium(), c).lap;
   const Lap other = run_lap(medium().changed([](Car& k, AeroConfig& a) {
-                              for (double& t : k.powertrain.torque_nm) t *= 1.3;
-                              for (double& v : a.cda_m2) v *= 0.8;
-                            }),
+                      for (double& t : k.powertrain.torque_nm) t *= 1.3;
+                      for (double& v : a.cda_m2) v *= 0.8;
+                    }),
                             c)
                         .lap;
   const double L = c.mesh.length_m, stretch = 1.002;
@@ -535,4 +535,39 @@ TEST_CASE("a log of more than one lap aligns its lap compared as that lap alone 
              0.02));
   // The lap compared is the car's own, the only whole one.
   CHECK(k3.coverage == doctest::Approx(1.0));
+}
+
+TEST_CASE("a log whose rows are far apart along the track is warned of, not refused") {
+  // The car's own lap logged every 20 m, 7 m and 2 m of track (rows of log_of, every 20, 7 and 2
+  // mesh points of 1 m): the data-quality verdict's spacing rule (README, "Tracks from data":
+  // good to 5 m, usable to 10 m, poor beyond) reads them poor, usable and good. Poor and usable
+  // are warned of with the spacing and the rate to log at (rows 5 m apart at this lap's median
+  // speed, about 40 m/s: 8 Hz, so the least README, "Correlating with your data" advises,
+  // 10 Hz); the figures are still given.
+  const Circuit c = brannock();
+  const LapRun run = run_lap(medium(), c);
+  const auto spacing_warning = [](const Correlation& k) {
+    for (const std::string& w : k.warnings)
+      if (w.find("the log's rows are ") == 0) return w;
+    return std::string();
+  };
+  const Correlation k20 = correlate(run.lap, c, log_of(run.lap, c.mesh, 7.0, 1.0, 0.0, 20));
+  const std::string w20 = spacing_warning(k20);
+  CAPTURE(w20);
+  // (the mesh's step: the lap's length over a whole number of steps, near 1 m)
+  CHECK(near(log_row_spacing_m(log_of(run.lap, c.mesh, 7.0, 1.0, 0.0, 20), 1.0),
+             20.0 * c.mesh.step_m, 1e-9));
+  CHECK(w20.find("20.0 m apart along the track (median)") != std::string::npos);
+  CHECK(w20.find("poor (over 10 m") != std::string::npos);
+  CHECK(w20.find("log at 10 Hz or more (rows 5 m apart or closer)") != std::string::npos);
+  CHECK(k20.coverage == doctest::Approx(1.0));  // compared all the same
+  const std::string w7 =
+      spacing_warning(correlate(run.lap, c, log_of(run.lap, c.mesh, 7.0, 1.0, 0.0, 7)));
+  CAPTURE(w7);
+  CHECK(w7.find("7.0 m apart along the track (median)") != std::string::npos);
+  CHECK(w7.find("usable (over 5 m)") != std::string::npos);
+  CHECK(spacing_warning(correlate(run.lap, c, log_of(run.lap, c.mesh, 7.0, 1.0, 0.0, 2))).empty());
+  // Along the track: a distance read 10 % long spaces 5.5 m rows 5 m apart on the track (good).
+  CHECK(near(log_row_spacing_m(log_of(run.lap, c.mesh, 7.0, 1.1, 0.0, 5), 1.0 / 1.1),
+             5.0 * c.mesh.step_m, 1e-9));
 }

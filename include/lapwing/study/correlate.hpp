@@ -58,6 +58,18 @@ inline constexpr double log_gap_median_factor = 4.0;
 /// Per interval of the log (row i to row i + 1): 1 where it is a gap.
 std::vector<std::uint8_t> log_gaps(const LoggedSpeed& log);
 
+/// The log's median row spacing along the track (m): its rows' distances apart read at the
+/// alignment's scale (rows at one place, a car standing, left out), 0 for none.
+double log_row_spacing_m(const LoggedSpeed& log, double scale);
+/// A warning when the log's rows are too far apart for the figures correlate and fit read from
+/// it (braking points, apex speeds, the speed error between rows): by the data-quality
+/// verdict's spacing rule (study/track_quality.hpp, README, "Tracks from data"), over
+/// quality_good_spacing_m (5 m: usable, braking points off by up to a row's spacing) and over
+/// quality_usable_spacing_m (10 m: poor, rows that cannot draw a hairpin), with the rate to log
+/// at instead (rows 5 m apart at the log's median speed, 10 Hz at least). None when good. Not a
+/// refusal: the figures are printed, with the warning.
+std::optional<std::string> log_spacing_warning(const LoggedSpeed& log, const Alignment& a);
+
 /// The alignment that maximises the correlation of the log's speed with `speed_mps` (the
 /// simulated speed at each mesh point): a search over every offset (the whole lap for a closed
 /// track, half the track either way for an open one) on a 2 m grid at scales 0.4 % apart, then
@@ -152,8 +164,9 @@ struct Correlation {
   std::vector<SectorError> sectors;
   std::vector<CornerError> corners;  // the corners the log covers
   std::vector<ErrorPeak> peaks;      // largest |error| first
-  /// What the figures above must be read with (alignment_warnings, the log's gaps, a log of
-  /// more than one lap): the text, correlate.json and the report print them.
+  /// What the figures above must be read with (alignment_warnings, rows too far apart:
+  /// log_spacing_warning, the log's gaps, a log of more than one lap): the text,
+  /// correlate.json and the report print them.
   std::vector<std::string> warnings;
 };
 
