@@ -84,6 +84,24 @@ head -n 1 "$tmp/f1/car.yaml" | grep -q "^# Fitted by 'lapwing fit'" && ok || bad
 "$bin" check --car "$tmp/f1/car.yaml" > "$tmp/check.txt" 2>&1 && ok || bad "the fitted car does not load"
 grep -q "not separable" "$tmp/f1.txt" && ok || bad "fit gives no separability warning for power and cda"
 
+# fit in air the options give records it (the fitted factors hold in that air) as run states
+# it: in the text, car.yaml's header and fit.json. 35 C at 600 m: ISO 2533's pressure there,
+# 101325 Pa (1 - 2.25577e-5 x 600)^5.25588 = 943.2 hPa, and the ideal gas law for dry air,
+# 94322 / (287.058 x 308.15) = 1.0663 kg/m3.
+"$bin" fit "${common[@]}" --log "$log" --time time_s --free power --altitude 600m \
+  --temperature "35 C" --out "$tmp/fair" > "$tmp/fair.txt" 2>&1
+rc=$?
+air_words="1.0663 kg/m3 (35.0 C, 943.2 hPa, 0 % humidity at 600 m)"
+run_air=$("$bin" run --car "$car" --track "$track" --config medium --altitude 600m \
+  --temperature "35 C" | grep '^air ')
+[ $rc -eq 0 ] && [ "$run_air" = "air     $air_words" ] && grep -qF "$run_air" "$tmp/fair.txt" &&
+  head -n 1 "$tmp/fair/car.yaml" | grep -qF "on Brannock Park (surveyed centerline) in air of $air_words." &&
+  python3 -c "import json, sys
+l = json.load(open(sys.argv[1]))['logs'][0]
+sys.exit(not (abs(l['air_density_kg_m3'] - 1.0663) < 1e-4 and l['air'] == sys.argv[2]))" \
+    "$tmp/fair/fit.json" "$air_words" && ok ||
+  bad "fit in other air: exit $rc, run: $run_air, $(head -c 400 "$tmp/fair/car.yaml")"
+
 # A fit whose covariance cannot be found (the balance does nothing to a point mass) says so in
 # lapwing's words on stdout; Ceres's own log lines (glog: "WARNING: Logging before
 # InitGoogleLogging()", "covariance_impl.cc:...] Error: ...") do not reach stderr.
