@@ -38,8 +38,10 @@ inline constexpr double correlate_min_coverage = 0.98;
 inline constexpr double correlate_max_speed_ratio = 1.45;
 /// Below this speed correlation at the best alignment the log and the lap hardly share a shape
 /// (another track, a log of constant speed): the alignment, and every comparison made on it, is
-/// warned of. A log of another car on the right track correlates above 0.9 (tested).
-inline constexpr double correlate_min_trusted_correlation = 0.5;
+/// warned of. A log of another car on the right track correlates above 0.9 (tested); one lap of
+/// Cairnholt given as a lap of Brannock Park, scored on the lap compared, 0.50 to 0.53 (tested):
+/// the bound lies between (it was 0.5 while the whole log was scored, which let that pair by).
+inline constexpr double correlate_min_trusted_correlation = 0.8;
 /// The warnings an alignment calls for: a correlation below correlate_min_trusted_correlation,
 /// and a scale at the edge of its search (alignment_max_scale_error: the distance reads that much
 /// off or more, and the search stopped there). Empty when neither.
