@@ -4,6 +4,7 @@
 
 #include <cstdint>
 #include <iterator>
+#include <new>
 
 namespace lapwing {
 
@@ -85,8 +86,13 @@ void BigBlocks::deallocate(void* p) {
     release(from, top_);
     top_ = from;
   } else {
-    free_.emplace(from, to - from);
     release(from, to);
+    try {
+      free_.emplace(from, to - from);
+    } catch (const std::bad_alloc&) {
+      // Out of memory for the record: the extent is lost to the arena (its huge pages were
+      // given back above), not an error of the program's.
+    }
   }
 }
 

@@ -42,8 +42,12 @@ lapwing::BigBlocks* arena() {
 
 // nullptr where neither can give it.
 void* take(std::size_t n, std::size_t alignment) noexcept {
-  if (n >= big && alignment <= lapwing::BigBlocks::page)
-    if (void* p = arena()->allocate(n)) return p;
+  if (n >= big && alignment <= lapwing::BigBlocks::page) {
+    try {  // the arena's bookkeeping allocates too: out of memory, the C library decides
+      if (void* p = arena()->allocate(n)) return p;
+    } catch (const std::bad_alloc&) {
+    }
+  }
   if (n == 0) n = 1;
   if (alignment <= __STDCPP_DEFAULT_NEW_ALIGNMENT__) return std::malloc(n);
   return std::aligned_alloc(alignment, (n + alignment - 1) / alignment * alignment);

@@ -30,13 +30,14 @@ class BigBlocks {
   BigBlocks& operator=(const BigBlocks&) = delete;
 
   /// A block of at least `bytes`, aligned to a 4 KB page; nullptr where the arena cannot give
-  /// one (empty, or full): the caller takes it elsewhere.
+  /// one (empty, or full): the caller takes it elsewhere. Throws std::bad_alloc only where its
+  /// own bookkeeping finds no memory.
   void* allocate(std::size_t bytes);
   /// Whether p lies in the arena's range (a block of allocate()'s).
   bool owns(const void* p) const {
     return static_cast<const char*>(p) >= base_ && static_cast<const char*>(p) < base_ + size_;
   }
-  /// Frees a block of allocate()'s.
+  /// Frees a block of allocate()'s (its whole huge pages back to the system at once).
   void deallocate(void* p);
 
   /// The reserved range's size (0: none).
