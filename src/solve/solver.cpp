@@ -96,6 +96,9 @@ struct PathForces {
                                                      const Envelope::Rows& rows, double v2,
                                                      double abs_curvature, const Road& road) {
   const Envelope::RoadForces f = env.road_forces(rows, v2, abs_curvature, road);
+  // No load on the road (off camber, faster than the bank lets the tyres touch): no grip. The
+  // limits of a negative load are negative, and the ellipse's squares would lose their sign.
+  if (!(f.normal_n > 0.0)) return {0.0, f.resistance_n, f.drive_n};
   const TyreModel::Limits lim = env.tyres().limits(f.normal_n);
   return {env.tyres().long_force_left(lim, f.lateral_n), f.resistance_n, f.drive_n};
 }
@@ -222,6 +225,12 @@ double grip_excess(const Envelope& env, bool axle, double v, double curv, const 
   if (axle) return axle_steady_excess(env, v, curv, road, trimmed);
   const TyreModel& tyres = env.tyres();
   const Envelope::RoadForces f = env.road_forces(env.rows(trimmed), v * v, curv, road);
+  // No load on the road: the tyres hold nothing (as axle_usage reads a lifted axle). Above the
+  // speed where an off-camber bank steeper than atan(1/mu) lifts the car, the ratios' signs
+  // would otherwise cancel in the ellipse's squares (or read 0 in its powers) and call a car
+  // with no load on its tyres held: the search then took the top of the table.
+  if (!(f.normal_n > 0.0))
+    return f.lateral_n == 0.0 && f.resistance_n == 0.0 ? -1.0 : lifted_axle_usage;
   return tyres.usage(std::abs(f.resistance_n) / tyres.fx_max(f.normal_n),
                      std::abs(f.lateral_n) / tyres.fy_max(f.normal_n)) -
          1.0;

@@ -146,3 +146,44 @@ TEST_CASE("trim zones: a zone over one of two equal straights halves the trim's 
   CHECK(everywhere < none);
   CHECK(near(none - in_zone, 0.5 * (none - everywhere), 1e-3));
 }
+
+TEST_CASE("off camber past -atan(1/mu): the banked circle's speed, not the top of the tables") {
+  // REFERENCES, banked road, with the downforce q ClA added to the normal load (no drag, so no
+  // longitudinal force): m (v^2 k cos b - g sin b) = mu (m g cos b + m v^2 k sin b + c v^2),
+  // c = rho ClA / 2, so v^2 = m g (sin b + mu cos b) / (m k (cos b - mu sin b) - mu c); c = 0 is
+  // the Banking formula of README, "Physics and assumptions". Off camber (b < 0) the normal
+  // load falls with the speed and reaches zero: the tyres hold nothing beyond, and the limit above
+  // is the only one. The point mass took a bank steeper than -atan(1/mu) (-39.8 deg at mu 1.2) at
+  // the top of its tables: its search read the ratios of a negative load squared. Banks either side
+  // of that angle, a left and a right turn (a segment's bank is relative to its turn: -b is off
+  // camber both ways), without and with downforce (balance = front weight share: both axles alike,
+  // so the axle model has the point mass's limit).
+  const double radius = 30.0, mu = 1.2, m = 700.0;
+  for (const double cla : {0.0, 1.5}) {
+    for (const double bank_deg : {-30.0, -39.0, -41.0, -45.0}) {
+      for (const bool left : {true, false}) {
+        for (const VehicleModel model : {VehicleModel::point_mass, VehicleModel::axle}) {
+          CAPTURE(cla);
+          CAPTURE(bank_deg);
+          CAPTURE(left);
+          Car car = test::plain_car(m, mu);
+          car.model = model;
+          car.configs.front().cla_m2 = {cla};
+          Track t = test::circle_track(radius, 0.5);
+          t.segments.front() = test::arc(radius, 2 * units::pi, left);
+          t.segments.front().bank_rad = bank_deg * units::deg;
+          const Circuit c = lay_out(t, sea_level);
+          const Lap& lap = run_lap(test::configured(car), c).lap;
+          const double b = bank_deg * units::deg, k = 1.0 / radius;
+          const double q = 0.5 * sea_level.density_kg_m3 * cla;
+          const double v = std::sqrt(m * units::g0 * (std::sin(b) + mu * std::cos(b)) /
+                                     (m * k * (std::cos(b) - mu * std::sin(b)) - mu * q));
+          // As the banked circle above: the root finder's 2^-36 on a polygon of 0.5 m chords.
+          const auto [lo, hi] = speed_range(lap);
+          CHECK(near(lo, v, 1e-6));
+          CHECK(near(hi, v, 1e-6));
+        }
+      }
+    }
+  }
+}
