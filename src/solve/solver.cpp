@@ -250,6 +250,31 @@ double extrapolated_grip(double k, double k1, double v1, double k0, double v0) {
 // The bracket tried first around an extrapolated guess.
 constexpr double extrapolated_width = 2e-4;
 
+// The axle model's lift limit at a point of curvature |k| and its road, on the rows given: the
+// highest speed at which both axle loads at a_x = 0 (axle_loads) stay above zero, and the axle
+// whose load reaches zero there (the lighter one at the tables' top). {v_max, grip} where
+// neither reaches zero up to the tables' top: one evaluation, as on every road of the bundled
+// cars.
+LevelLift lift_speed(const Envelope& env, const Envelope::Rows& rows, double k, const Road& road) {
+  const Car& car = env.car();
+  auto loads = [&](double v) {
+    const Envelope::RoadForces f = env.road_forces(rows, v * v, k, road);
+    return axle_loads(car, f.drag_n, f.downforce_n, f.balance, f.normal_share, road.sin_slope, 0.0);
+  };
+  const double v_max = env.max_speed_mps();
+  const AxleLoads top = loads(v_max);
+  if (top.front_n > 0.0 && top.rear_n > 0.0) return {v_max, SteadyLimit::grip};
+  const SteadyLimit axle =
+      top.front_n <= top.rear_n ? SteadyLimit::front_lift : SteadyLimit::rear_lift;
+  const double v = highest_feasible(
+      [&](double s) {
+        const AxleLoads l = loads(s);
+        return -std::min(l.front_n, l.rear_n);
+      },
+      v_max, 0.0);
+  return {v, axle};
+}
+
 }  // namespace
 
 namespace {
@@ -295,8 +320,9 @@ void steady_points(const Envelope& env, const Mesh& mesh, SteadyProfile& p, std:
   double last_curv = std::nan("");
   Road last_road{std::nan(""), 0.0, 0.0, 0.0, 0.0};
   bool last_trimmed = false;
-  double v_engine = 0.0, v_grip = 0.0;
-  double prev_curv = 0.0, prev_grip = 0.0;  // the point before the last whose grip was solved
+  double v_engine = 0.0, v_grip = 0.0, v_lift = 0.0;
+  SteadyLimit lift_axle = SteadyLimit::grip;  // grip: no axle lifts below the tables' top
+  double prev_curv = 0.0, prev_grip = 0.0;    // the point before the last whose grip was solved
   bool have_two = false;
   RoadReader road_at(mesh);
   for (std::size_t i = lo; i < hi; ++i) {
@@ -326,6 +352,12 @@ void steady_points(const Envelope& env, const Mesh& mesh, SteadyProfile& p, std:
             return f.resistance_n - f.drive_n;
           },
           v_max, v_engine);
+      // Axles (axle model): the highest speed at which both keep some load at a_x = 0.
+      if (axle) {
+        const LevelLift l = lift_speed(env, rows, curv, road);
+        v_lift = l.speed_mps;
+        lift_axle = l.axle;
+      }
     }
     last_trimmed = trimmed;
     if (road_changed || curv != last_curv) {
@@ -358,16 +390,30 @@ void steady_points(const Envelope& env, const Mesh& mesh, SteadyProfile& p, std:
       p.speed_mps[i] = v_engine;
       p.limit[i] = SteadyLimit::engine;
     }
+    // Only strictly below the others: where an axle asked for a lateral force lifts, the tyres'
+    // limit is the same speed (axle_usage reads the lifted axle), and stays `grip`.
+    if (lift_axle != SteadyLimit::grip && v_lift < p.speed_mps[i]) {
+      p.speed_mps[i] = v_lift;
+      p.limit[i] = lift_axle;
+    }
     if (!(p.speed_mps[i] > 0.0))
       throw CannotMove("the car cannot hold any speed at " + where(mesh, i) + " (" +
                        (p.limit[i] == SteadyLimit::engine
                             ? "drive never exceeds the resistance on this grade"
+                        : lift_limit(p.limit[i])
+                            ? (p.limit[i] == SteadyLimit::front_lift ? "the front" : "the rear") +
+                                  std::string(" axle has no load on this grade")
                             : "the tyres cannot hold the car on this grade") +
                        ")");
   }
 }
 
 }  // namespace
+
+LevelLift level_lift_speed(const Envelope& env) {
+  if (env.car().model != VehicleModel::axle) return {env.max_speed_mps(), SteadyLimit::grip};
+  return lift_speed(env, env.rows(env.has_trim()), 0.0, Road{});
+}
 
 double level_traction_speed_mps(const Envelope& env) {
   const Road level{};
@@ -1111,12 +1157,19 @@ void LapSolver::speed_pass(const Envelope& env, const Mesh& mesh, double start_s
 
   resize_ready({&lap.speed_mps, &lap.time_s}, n, second);
   lap.phase.resize(n);
+  lap.lift_hold = {};
+  bool held_before = false;
   for (std::size_t i = 0; i < n; ++i) {
     const double v = std::min(fwd.speed_mps[i], bwd.speed_mps[i]);
     lap.speed_mps[i] = v;
+    const bool on_limit = v >= steady[i] * (1.0 - phase_on_limit);
     lap.phase[i] =
-        classify_phase(v >= steady[i] * (1.0 - phase_on_limit), bwd.speed_mps[i] < fwd.speed_mps[i],
-                       steady_.limit[i], fwd.cut[i]);
+        classify_phase(on_limit, bwd.speed_mps[i] < fwd.speed_mps[i], steady_.limit[i], fwd.cut[i]);
+    const bool held = on_limit && lift_limit(steady_.limit[i]);
+    if (held && !lap.lift_hold.held)
+      lap.lift_hold = {true, steady_.limit[i] == SteadyLimit::front_lift, i, 0.0};
+    if (i > 0) lap.lift_hold.length_m += 0.5 * mesh.step_m * (held + held_before);
+    held_before = held;
   }
 
   // Time: sum of 2 ds / (v_i + v_{i+1}), exact for a constant acceleration over each step

@@ -187,3 +187,54 @@ TEST_CASE("off camber past -atan(1/mu): the banked circle's speed, not the top o
     }
   }
 }
+
+TEST_CASE("a drag moment that unloads the front axle holds the axle model at the lift speed") {
+  // Moments about the rear contact patch (README, "Physics and assumptions", axle loads, a_x = 0,
+  // no downforce): front = W f - D z_D / L, zero at q CdA = W f L / z_D, v^2 = 2 W f L / (rho CdA
+  // z_D). Faster, the car would pitch over on its rear axle: the axle model's steady limit, phase
+  // top_speed, and a warning in the lap's summary. The engine alone would go faster (P = q CdA v:
+  // 60 m/s at 400 kW), the rear tyres carry the drag to spare.
+  const double m = 640.0, cda = 3.0, zd = 2.5;
+  Car car = test::plain_car(m, 1.5, 400e3);
+  car.model = VehicleModel::axle;
+  car.drag_height_m = zd;
+  car.configs.front().cda_m2 = {cda};
+  const double rho = sea_level.density_kg_m3;
+  const double v =
+      std::sqrt(2.0 * m * units::g0 * car.front_weight * car.wheelbase_m / (rho * cda * zd));
+  REQUIRE(v < 0.8 * std::cbrt(2.0 * 400e3 / (rho * cda)));
+  const Circuit c = lay_out(test::straight_track(3000.0, 0.5, 0.0), sea_level);
+  const Envelope env(test::configured(car), sea_level);
+  const SteadyProfile p = steady_profile(env, c.mesh);
+  CHECK(p.limit[100] == SteadyLimit::front_lift);
+  // A bracketing root (TOMS 748 to 2^-36) of the same moment balance on the envelope's rows:
+  // 1e-9.
+  CHECK(near(p.speed_mps[100], v, 1e-9));
+  const LevelLift lift = level_lift_speed(env);
+  CHECK(lift.axle == SteadyLimit::front_lift);
+  CHECK(near(lift.speed_mps, v, 1e-9));
+
+  const LapRun r = run_lap(test::configured(car), c);
+  // The approach to the limit is exponential (the front's bound on a_x falls linearly in v^2,
+  // some 60 m per e-fold here): reached within 1e-9 and clipped to it long before 3 km.
+  CHECK(near(*std::max_element(r.lap.speed_mps.begin(), r.lap.speed_mps.end()), v, 1e-9));
+  CHECK(r.lap.phase.back() == Phase::top_speed);
+  CHECK(r.lap.lift_hold.held);
+  CHECK(r.lap.lift_hold.front);
+  int warned = 0;
+  for (const std::string& w : r.summary.warnings)
+    warned += w.rfind("the front axle has no load left at ", 0) == 0;
+  CHECK(warned == 1);
+
+  // The point mass shares the load over four tyres: no lift limit, the engine's top speed.
+  car.model = VehicleModel::point_mass;
+  const LapRun pm = run_lap(test::configured(car), c);
+  CHECK_FALSE(pm.lap.lift_hold.held);
+  CHECK(*std::max_element(pm.lap.speed_mps.begin(), pm.lap.speed_mps.end()) > 1.2 * v);
+  // Nor does an ordinary car (drag height 0.3 m): no hold, no warning.
+  car.model = VehicleModel::axle;
+  car.drag_height_m = 0.3;
+  const LapRun plain = run_lap(test::configured(car), c);
+  CHECK_FALSE(plain.lap.lift_hold.held);
+  for (const std::string& w : plain.summary.warnings) CHECK(w.find("no load left") == w.npos);
+}
