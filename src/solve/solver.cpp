@@ -284,9 +284,12 @@ namespace {
 // (measured), what a few hundred points of a sweep take.
 constexpr std::size_t min_points_apart = 2000;
 
-void steady_halves(const Envelope& env, const Mesh& mesh, SteadyProfile& p, SecondThread* second);
+// `engine` false leaves the engine's limit out (the tyres' and the axles' alone: what a flying
+// start above the engine's top speed is held to, LapSolver::speed_pass).
+void steady_halves(const Envelope& env, const Mesh& mesh, SteadyProfile& p, SecondThread* second,
+                   bool engine = true);
 void steady_points(const Envelope& env, const Mesh& mesh, SteadyProfile& p, std::size_t lo,
-                   std::size_t hi);
+                   std::size_t hi, bool engine);
 
 }  // namespace
 
@@ -302,18 +305,19 @@ void steady_profile(const Envelope& env, const Mesh& mesh, SteadyProfile& p) {
 
 namespace {
 
-void steady_halves(const Envelope& env, const Mesh& mesh, SteadyProfile& p, SecondThread* second) {
+void steady_halves(const Envelope& env, const Mesh& mesh, SteadyProfile& p, SecondThread* second,
+                   bool engine) {
   const std::size_t n = mesh.size();
   resize_ready({&p.speed_mps}, n, second);
   p.limit.resize(n);
   in_halves(n, second,
-            [&](std::size_t lo, std::size_t hi) { steady_points(env, mesh, p, lo, hi); });
+            [&](std::size_t lo, std::size_t hi) { steady_points(env, mesh, p, lo, hi, engine); });
 }
 
 // The steady limits of points lo to hi (not included), each half of the mesh from a fresh start
 // (no answer carried in from the point before lo).
 void steady_points(const Envelope& env, const Mesh& mesh, SteadyProfile& p, std::size_t lo,
-                   std::size_t hi) {
+                   std::size_t hi, bool engine) {
   const double v_max = env.max_speed_mps();
   const bool axle = env.car().model == VehicleModel::axle;
   const LevelTables* tables = axle ? env.level_tables() : nullptr;
@@ -346,12 +350,14 @@ void steady_points(const Envelope& env, const Mesh& mesh, SteadyProfile& p, std:
     if (road_changed || trimmed != last_trimmed || (road.sin_bank != 0.0 && curv != last_curv)) {
       // Engine: drive in the best gear >= resistance, the top speed on this road.
       const Envelope::Rows rows = env.rows(trimmed);
-      v_engine = highest_feasible(
-          [&](double v) {
-            const Envelope::RoadForces f = env.road_forces(rows, v * v, curv, road);
-            return f.resistance_n - f.drive_n;
-          },
-          v_max, v_engine);
+      v_engine = engine ? highest_feasible(
+                              [&](double v) {
+                                const Envelope::RoadForces f =
+                                    env.road_forces(rows, v * v, curv, road);
+                                return f.resistance_n - f.drive_n;
+                              },
+                              v_max, v_engine)
+                        : std::numeric_limits<double>::infinity();
       // Axles (axle model): the highest speed at which both keep some load at a_x = 0.
       if (axle) {
         const LevelLift l = lift_speed(env, rows, curv, road);
@@ -1125,34 +1131,52 @@ void LapSolver::speed_pass(const Envelope& env, const Mesh& mesh, double start_s
 
   const std::shared_ptr<const StepTables> tables =
       step_tables_for(env, mesh, integrator_, quick_steps_);
-  auto both = [&](std::size_t f0, double vf, std::size_t b0, double vb) {
+  auto both = [&](const std::vector<double>& limit, std::size_t f0, double vf, std::size_t b0,
+                  double vb) {
     dispatch(env, integrator_, [&]<bool Axle, Integrator I>() {
       if (second)
-        sweep_apart<Axle, I>(env, mesh, steady, f0, vf, b0, vb, fwd, bwd, tables.get(),
-                             quick_steps_, *second);
+        sweep_apart<Axle, I>(env, mesh, limit, f0, vf, b0, vb, fwd, bwd, tables.get(), quick_steps_,
+                             *second);
       else
-        sweep_both<Axle, I>(env, mesh, steady, f0, vf, b0, vb, fwd, bwd, tables.get(),
-                            quick_steps_);
+        sweep_both<Axle, I>(env, mesh, limit, f0, vf, b0, vb, fwd, bwd, tables.get(), quick_steps_);
     });
   };
-  auto again = [&](Sweep direction, std::size_t start, double v) {
+  auto again = [&](const std::vector<double>& limit, Sweep direction, std::size_t start, double v) {
     return dispatch(env, integrator_, [&]<bool Axle, Integrator I>() {
-      return sweep_one<Axle, I>(env, mesh, direction, steady, start, v, tables.get(), quick_steps_);
+      return sweep_one<Axle, I>(env, mesh, direction, limit, start, v, tables.get(), quick_steps_);
     });
   };
+  start_limit_mps_ = steady.front();
   if (mesh.closed) {
     // Periodic lap: start both sweeps at the slowest steady point, where the speed is known.
     const std::size_t period = n - 1;
     const std::size_t i0 = static_cast<std::size_t>(
         std::min_element(steady.begin(), steady.begin() + static_cast<std::ptrdiff_t>(period)) -
         steady.begin());
-    both(i0, steady[i0], i0, steady[i0]);
+    both(steady, i0, steady[i0], i0, steady[i0]);
     // A sweep that comes round slower than it started (it could not regain the start speed)
     // runs once more from the speed it arrived at, so that the lap is periodic.
-    if (fwd.speed_mps[i0] < steady[i0]) fwd = again(Sweep::forward, i0, fwd.speed_mps[i0]);
-    if (bwd.speed_mps[i0] < steady[i0]) bwd = again(Sweep::backward, i0, bwd.speed_mps[i0]);
+    if (fwd.speed_mps[i0] < steady[i0]) fwd = again(steady, Sweep::forward, i0, fwd.speed_mps[i0]);
+    if (bwd.speed_mps[i0] < steady[i0]) bwd = again(steady, Sweep::backward, i0, bwd.speed_mps[i0]);
+  } else if (start_speed_mps > steady.front() * (1.0 + 1e-9) &&
+             steady_.limit.front() == SteadyLimit::engine) {
+    // A flying start above the engine's steady limit (`start_speed`; the speed profile of
+    // README, "Physics and assumptions"): the car is faster than its drive holds on that road
+    // and slows (drag and resistance against the drive, full throttle) until it is back on
+    // that limit. Over that stretch the sweeps are held to the tyres' and the axles' limits
+    // alone (the engine's left out); from the first point where the car is within
+    // phase_on_limit of the engine's limit, to the steady limits as every other lap is. The
+    // start itself is held to the tyres' limit (start_limit_mps).
+    steady_halves(env, mesh, flying_, second, false);
+    std::vector<double>& limit = flying_.speed_mps;
+    start_limit_mps_ = limit.front();
+    fwd = again(limit, Sweep::forward, 0, start_speed_mps);
+    std::size_t k = 0;
+    while (k < n && fwd.speed_mps[k] > steady[k] * (1.0 + phase_on_limit)) ++k;
+    for (std::size_t i = k; i < n; ++i) limit[i] = steady[i];
+    both(limit, 0, start_speed_mps, n - 1, limit[n - 1]);
   } else {
-    both(0, start_speed_mps, n - 1, steady[n - 1]);
+    both(steady, 0, start_speed_mps, n - 1, steady[n - 1]);
   }
 
   resize_ready({&lap.speed_mps, &lap.time_s}, n, second);
@@ -1219,6 +1243,7 @@ Lap LapSolver::take_with_channels(const Envelope& env, const Mesh& mesh) {
   forward_ = {};
   backward_ = {};
   steady_ = {};
+  flying_ = {};
   channels_pass(env, mesh);
   return take();
 }

@@ -238,3 +238,37 @@ TEST_CASE("a drag moment that unloads the front axle holds the axle model at the
   CHECK_FALSE(plain.lap.lift_hold.held);
   for (const std::string& w : plain.summary.warnings) CHECK(w.find("no load left") == w.npos);
 }
+
+TEST_CASE("a flying start above the top speed slows by drag: m v dv/ds = P / v - k v^2") {
+  // Constant power P against drag k v^2 (k = rho CdA / 2, no rolling resistance, efficiency 1,
+  // no rotating inertia): m v^2 dv / (P - k v^3) = ds integrates to
+  // k v^3 = P + (k v0^3 - P) exp(-3 k s / m) (closed form). A start 10 % above the top speed
+  // v_top = (P / k)^(1/3) on a straight is no error: the car slows towards v_top.
+  const double m = 700.0, power = 300e3, cda = 1.0;
+  Car car = test::plain_car(m, 1.5, power);
+  car.configs.front().cda_m2 = {cda};
+  const double k = 0.5 * sea_level.density_kg_m3 * cda;
+  const double v_top = std::cbrt(power / k), v0 = 1.1 * v_top;
+  const Circuit c = lay_out(test::straight_track(3000.0, 0.5, v0), sea_level);
+  const LapRun r = run_lap(test::configured(car), c);
+  CHECK(r.lap.speed_mps.front() == v0);
+  // Above the engine's steady limit at full drive: `top_speed` (README, "Physics and assumptions",
+  // Phases).
+  CHECK(r.lap.phase[10] == Phase::top_speed);
+  for (const double s : {50.0, 200.0, 600.0}) {
+    const auto i = static_cast<std::size_t>(std::lround(s / c.mesh.step_m));
+    const double x = c.mesh.s_m[i];
+    const double v = std::cbrt((power + (k * v0 * v0 * v0 - power) * std::exp(-3 * k * x / m)) / k);
+    CAPTURE(x);
+    // The exponential step is second order where the drive P / v is not affine in v^2:
+    // 1e-6 at a 0.5 m mesh (the lap's own mesh error, README, "Performance").
+    CHECK(near(r.lap.speed_mps[i], v, 1e-6));
+  }
+  // Slowing all the way, never below the top speed (the engine's steady limit, 0.01 %: its
+  // root on the envelope's tables).
+  bool slowing = true;
+  for (std::size_t i = 1; i < r.lap.speed_mps.size(); ++i)
+    slowing = slowing && r.lap.speed_mps[i] <= r.lap.speed_mps[i - 1];
+  CHECK(slowing);
+  CHECK(near(r.lap.speed_mps.back(), v_top, 1e-3));
+}

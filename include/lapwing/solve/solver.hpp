@@ -239,6 +239,11 @@ class LapSolver {
   /// The steady limits of the last speed solve (working state of the solve, not part of the
   /// lap: a lap kept or written out does not carry them). Valid until the next solve.
   const SteadyProfile& steady() const { return steady_; }
+  /// The highest start speed the last speed solve could hold on an open mesh: the steady limit
+  /// at the first point, or for a flying start above the engine's steady limit there (the car
+  /// slows to it) the tyres' and the axles' limit alone. A start above it is clipped to it, and
+  /// is the track's error (run_lap).
+  double start_limit_mps() const { return start_limit_mps_; }
 
  private:
   /// The speed solve into lap_, its channels left as they were (has_channels false).
@@ -254,6 +259,8 @@ class LapSolver {
   std::unique_ptr<SecondThread> second_;
   Lap lap_;
   SteadyProfile steady_;
+  SteadyProfile flying_;  // a flying start's limits (speed_pass), used only for one
+  double start_limit_mps_ = 0.0;
   SweepResult forward_, backward_;
 };
 
