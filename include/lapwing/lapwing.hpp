@@ -10,6 +10,7 @@
 #pragma once
 
 // base
+#include "lapwing/base/big_blocks.hpp"
 #include "lapwing/base/error.hpp"
 #include "lapwing/base/format.hpp"
 #include "lapwing/base/halves.hpp"

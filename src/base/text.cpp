@@ -1,5 +1,6 @@
 #include "lapwing/base/text.hpp"
 
+#include <algorithm>
 #include <cstdio>
 
 namespace lapwing {
@@ -124,6 +125,44 @@ std::string valid_utf8(std::string_view text) {
       i += n;
     }
   }
+  return out;
+}
+
+std::string shell_word(std::string_view word) {
+  const auto plain = [](char c) {
+    return (c >= 'a' && c <= 'z') || (c >= 'A' && c <= 'Z') || (c >= '0' && c <= '9') ||
+           std::string_view("_@%+=:,./-").find(c) != std::string_view::npos;
+  };
+  if (!word.empty() && std::all_of(word.begin(), word.end(), plain)) return std::string(word);
+  std::string out = "'";
+  for (const char c : word) out += c == '\'' ? std::string("'\\''") : std::string(1, c);
+  return out + "'";
+}
+
+std::vector<std::string> shell_words(std::string_view command) {
+  std::vector<std::string> out;
+  std::string word;
+  bool in_word = false;
+  for (std::size_t i = 0; i < command.size(); ++i) {
+    const char c = command[i];
+    if (c == ' ') {
+      if (in_word) out.push_back(word);
+      word.clear();
+      in_word = false;
+    } else if (c == '\'') {
+      const std::size_t end = command.find('\'', i + 1);
+      word += command.substr(i + 1, (end == std::string_view::npos ? command.size() : end) - i - 1);
+      i = end == std::string_view::npos ? command.size() : end;
+      in_word = true;
+    } else if (c == '\\' && i + 1 < command.size()) {
+      word += command[++i];
+      in_word = true;
+    } else {
+      word += c;
+      in_word = true;
+    }
+  }
+  if (in_word) out.push_back(word);
   return out;
 }
 

@@ -1129,14 +1129,20 @@ int fit(const FitOptions& o, Inputs& in) {
   }
   const ConfiguredCar start = car.configured(ci);
   const FitResult r = at_log_rows(logs, [&] { return lapwing::fit(start, fit_logs, params, fo); });
+  // Each log's track and the air its laps were solved in (the track's, or the air options'):
+  // the fitted factors hold in that air, so the text, car.yaml's header and fit.json say it.
   std::vector<std::string> track_names;
-  for (std::size_t i = 0; i < logs.size(); ++i)
+  std::vector<Air> airs;
+  for (std::size_t i = 0; i < logs.size(); ++i) {
     track_names.push_back(circuits[track_of[i]].track.name);
+    airs.push_back(circuits[track_of[i]].air);
+  }
   std::string out;
   out += "car     " + car.name + " (" + car.file + "), config " + car.configs[ci].name + ", " +
          model_name(car) + " model\n";
   for (std::size_t i = 0; i < logs.size(); ++i) {
     out += "log     " + o.logs[i] + " on " + track_names[i] + "\n";
+    out += "air     " + air_text(airs[i]) + "\n";
     for (const auto& n : logs[i].notes) out += "note    " + n + "\n";
   }
   out += "\n" + fit_text(r, o.logs);
@@ -1148,7 +1154,7 @@ int fit(const FitOptions& o, Inputs& in) {
                          car.configs[ci].name + ", " + model_name(car) + " model, to ";
     for (std::size_t i = 0; i < logs.size(); ++i)
       header += (i ? "; " : "") + printable(std::filesystem::path(o.logs[i]).filename().string()) +
-                " on " + printable(track_names[i]);
+                " on " + printable(track_names[i]) + " in air of " + air_text(airs[i]);
     header += ".\n# Fitted:";
     for (std::size_t i = 0; i < params.size(); ++i)
       header += std::string(i ? "," : "") + " " + std::string(fit_parameter_name(params[i])) + " " +
@@ -1163,7 +1169,8 @@ int fit(const FitOptions& o, Inputs& in) {
                        e.message() + " (" + e.key_path() + ")"};
     }
     std::vector<OutputFile> files;
-    files.push_back({"fit.json", fit_json(car.name, car.configs[ci].name, o.logs, track_names, r)});
+    files.push_back(
+        {"fit.json", fit_json(car.name, car.configs[ci].name, o.logs, track_names, airs, r)});
     files.push_back({"car.yaml", text});
     write_outputs(o.out, files);
   }

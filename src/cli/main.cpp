@@ -282,7 +282,8 @@ int main(int argc, char** argv) {
 
   cli::SweepOptions sweep_o;
   // The command as typed, stored with the results, without --threads: the store's bytes do not
-  // depend on the thread count (README, "Sweep").
+  // depend on the thread count (README, "Sweep"). Each word quoted where a shell needs it
+  // (--temperature '35 C'), so that the command stored runs again as it stands.
   for (int i = 0; i < argc; ++i) {
     const std::string a = argv[i];
     if (a == "--threads") {
@@ -290,7 +291,7 @@ int main(int argc, char** argv) {
       continue;
     }
     if (a.rfind("--threads=", 0) == 0) continue;
-    sweep_o.command += (sweep_o.command.empty() ? "" : " ") + a;
+    sweep_o.command += (sweep_o.command.empty() ? "" : " ") + shell_word(a);
   }
   auto* sweep = app.add_subcommand(
       "sweep", "Laps over any values of the car (a grid or samples) into an SQLite results store");

@@ -92,6 +92,18 @@ void remove_leftovers(const fs::path& folder, const std::string& prefix) {
   }
 }
 
+// Whether `path` still names the file `fd` has open. A writer makes its temporary before it can
+// lock it, and another run's remove_leftovers can take that lock between the two steps and
+// remove the temporary (two runs given the same --out at once): then the writer holds a file
+// or folder no name leads to, and makes another (the remover's lock is gone by then).
+bool still_named(int fd, const std::string& path) {
+  struct stat a, b;
+  return ::fstat(fd, &a) == 0 && ::lstat(path.c_str(), &b) == 0 && a.st_dev == b.st_dev &&
+         a.st_ino == b.st_ino;
+}
+// Tries a temporary's making before giving up (each lost only to another run's removal).
+constexpr int temporary_attempts = 8;
+
 // A path that ends at one of this process's own descriptors (/dev/stdout -> /proc/self/fd/1):
 // that descriptor. Writing to it keeps the shell's redirection and its offset, where opening the
 // path again would start a second offset at 0 (or, renamed over, detach the shell's file).
@@ -217,12 +229,20 @@ class PendingFile {
     folders_.emplace(folder, shown_.string());
     const std::string prefix = "." + target.filename().string() + ".tmp.";
     remove_leftovers(folder, prefix);
-    std::string name = (folder / (prefix + "XXXXXX")).string();
-    fd_ = ::mkstemp(name.data());
-    if (fd_ < 0) fail("cannot write " + shown_.string(), errno);
-    tmp_ = name;
-    if (::flock(fd_, LOCK_EX) != 0 || ::fchmod(fd_, mode) != 0 || !write_all(fd_, content_) ||
-        ::fsync(fd_) != 0) {
+    for (int attempt = 1;; ++attempt) {
+      std::string name = (folder / (prefix + "XXXXXX")).string();
+      fd_ = ::mkstemp(name.data());
+      if (fd_ < 0) fail("cannot write " + shown_.string(), errno);
+      if (::flock(fd_, LOCK_EX) == 0 && still_named(fd_, name)) {
+        tmp_ = name;
+        break;
+      }
+      const int err = errno;
+      ::close(fd_);
+      fd_ = -1;
+      if (attempt == temporary_attempts) fail("cannot write " + shown_.string(), err);
+    }
+    if (::fchmod(fd_, mode) != 0 || !write_all(fd_, content_) || ::fsync(fd_) != 0) {
       const int err = errno;
       ::unlink(tmp_.c_str());
       tmp_.clear();
@@ -387,12 +407,21 @@ void write_outputs(const fs::path& dir, const std::vector<OutputFile>& files) {
 
   const std::string prefix = "." + target.filename().string() + ".lapwing-stage.";
   remove_leftovers(parent, prefix);
-  std::string stage = (parent / (prefix + "XXXXXX")).string();
-  if (!::mkdtemp(stage.data())) fail("cannot create " + shown, errno);
-  const Fd folder(::open(stage.c_str(), O_RDONLY | O_DIRECTORY | O_CLOEXEC));
+  std::string stage;
+  const Fd folder = [&] {
+    for (int attempt = 1;; ++attempt) {
+      stage = (parent / (prefix + "XXXXXX")).string();
+      if (!::mkdtemp(stage.data())) fail("cannot create " + shown, errno);
+      Fd f(::open(stage.c_str(), O_RDONLY | O_DIRECTORY | O_CLOEXEC));
+      if (f.get() >= 0 && ::flock(f.get(), LOCK_EX) == 0 && still_named(f.get(), stage)) return f;
+      const int err = errno;
+      std::error_code ignored;
+      if (f.get() >= 0 && still_named(f.get(), stage)) fs::remove_all(stage, ignored);
+      if (attempt == temporary_attempts) fail("cannot create " + shown, err);
+    }
+  }();
   try {
-    if (folder.get() < 0 || ::flock(folder.get(), LOCK_EX) != 0 ||
-        ::fchmod(folder.get(), exists ? st.st_mode & 07777 : created_mode(0777)) != 0)
+    if (::fchmod(folder.get(), exists ? st.st_mode & 07777 : created_mode(0777)) != 0)
       fail("cannot create " + shown, errno);
     const OutputFile marker{output_folder_marker,
                             "A folder lapwing wrote: the next lapwing run with --out here "
@@ -413,16 +442,15 @@ void write_outputs(const fs::path& dir, const std::vector<OutputFile>& files) {
     if (::fsync(folder.get()) != 0) fail("cannot write " + shown, errno);
 
     // The one step a reader or a kill sees: the old folder and the new trade places.
-    bool swapped = false;
+    const auto replace = [&] {
+      bool swapped = false;
 #ifdef RENAME_EXCHANGE
-    if (exists) {
       if (::renameat2(AT_FDCWD, stage.c_str(), AT_FDCWD, target.c_str(), RENAME_EXCHANGE) == 0)
         swapped = true;
       else if (errno != EINVAL && errno != ENOSYS)
         fail("cannot replace " + shown, errno);
-    }
 #endif
-    if (!swapped && exists) {
+      if (swapped) return;
       // A file system without the exchange: the old folder aside under a staging name (removed
       // by the next run if this one dies before it is), then the new one in. Between the two, no
       // folder stands at the name; never a mix.
@@ -434,9 +462,23 @@ void write_outputs(const fs::path& dir, const std::vector<OutputFile>& files) {
         fail("cannot replace " + shown, err);
       }
       stage = old;
-    } else if (!swapped) {
-      if (::rename(stage.c_str(), target.c_str()) != 0) fail("cannot create " + shown, errno);
+    };
+    if (exists) {
+      replace();
+    } else if (::rename(stage.c_str(), target.c_str()) == 0) {
       stage.clear();
+    } else {
+      const int err = errno;
+      // Another run made the folder since this one looked (two runs given the same new --out
+      // at once): replaced as a folder lapwing wrote is, if it is one (the last run to finish
+      // leaves its outputs, as where the folder stood before); anything else stays.
+      struct stat now;
+      const bool raced = (err == ENOTEMPTY || err == EEXIST) &&
+                         ::lstat(target.c_str(), &now) == 0 && S_ISDIR(now.st_mode) &&
+                         fs::exists(target / output_folder_marker, ec) &&
+                         foreign_entry(target, files).empty();
+      if (!raced) fail("cannot create " + shown, err);
+      replace();
     }
   } catch (...) {
     if (!stage.empty()) fs::remove_all(stage, ec);

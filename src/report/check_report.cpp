@@ -184,9 +184,11 @@ void config_json(JsonWriter& j, const ConfigCheck& c) {
       .field("name", c.name)
       .field("form", form_name(c.form))
       .field("cda_m2", c.cda_m2)
-      .field("cla_m2", c.cla_m2)
-      .field("lift_to_drag", c.lift_to_drag.value_or(0.0))
-      .field("aero_balance", c.aero_balance)
+      .field("cla_m2", c.cla_m2);
+  // null where CdA is 0: the ratio is undefined or infinite (the text's "-"), and 0 would read
+  // as the worst of all.
+  optional_value(j, "lift_to_drag", c.lift_to_drag);
+  j.field("aero_balance", c.aero_balance)
       .field("drag_height_m", c.drag_height_m)
       .field("top_speed_kph", units::to_kph(c.top_speed_mps))
       .field("top_speed_limit", top_speed_limit_name(c.top_speed_limit));

@@ -7,6 +7,7 @@
 #include "lapwing/base/version.hpp"
 #include "lapwing/io/csv_writer.hpp"
 #include "lapwing/io/json.hpp"
+#include "lapwing/report/check_report.hpp"
 #include "lapwing/report/lap_files.hpp"
 #include "lapwing/report/text_table.hpp"
 
@@ -240,7 +241,8 @@ std::string fit_text(const FitResult& r, const std::vector<std::string>& log_nam
 
 std::string fit_json(const std::string& car_name, const std::string& config,
                      const std::vector<std::string>& log_names,
-                     const std::vector<std::string>& track_names, const FitResult& r) {
+                     const std::vector<std::string>& track_names, const std::vector<Air>& airs,
+                     const FitResult& r) {
   JsonWriter w;
   w.begin_object().field("lapwing", version()).field("car", car_name).field("config", config);
   w.key("parameters").begin_object();
@@ -265,6 +267,8 @@ std::string fit_json(const std::string& car_name, const std::string& config,
     w.begin_object()
         .field("log", log_names[l])
         .field("track", track_names[l])
+        .field("air_density_kg_m3", airs[l].density_kg_m3)
+        .field("air", air_text(airs[l]))
         .field("offset_m", r.final_alignments[l].offset_m)
         .field("scale", r.final_alignments[l].scale)
         .field("speed_correlation", r.final_alignments[l].correlation)

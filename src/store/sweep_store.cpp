@@ -16,6 +16,7 @@
 
 #include "lapwing/base/error.hpp"
 #include "lapwing/base/format.hpp"
+#include "lapwing/base/text.hpp"
 #include "lapwing/io/csv_writer.hpp"
 #include "lapwing/io/input_file.hpp"
 #include "lapwing/io/output.hpp"
@@ -533,6 +534,38 @@ StoreCounts store_counts(const std::string& file) {
           static_cast<std::size_t>(s.integer(2))};
 }
 
+namespace {
+// The command of a merged store: its shards' sweep command (the first input's) without
+// `--shard K/N`, its `--out` the merged file as merge was given it: the command that reruns the
+// whole study, or resumes the merged file (README, "Sweep").
+std::string merged_command(const std::string& shard_command, const std::string& out) {
+  const std::vector<std::string> words = shell_words(shard_command);
+  std::string command;
+  const auto add = [&](const std::string& w) {
+    command += (command.empty() ? "" : " ") + shell_word(w);
+  };
+  bool has_out = false;
+  for (std::size_t i = 0; i < words.size(); ++i) {
+    const std::string& w = words[i];
+    const bool shard = w == "--shard" || w.rfind("--shard=", 0) == 0;
+    const bool out_option = w == "--out" || w.rfind("--out=", 0) == 0;
+    if (w == "--shard" || w == "--out") ++i;  // its value, the next word
+    if (out_option) {
+      add("--out");
+      add(out);
+      has_out = true;
+    } else if (!shard) {
+      add(w);
+    }
+  }
+  if (!has_out) {
+    add("--out");
+    add(out);
+  }
+  return command;
+}
+}  // namespace
+
 void merge_stores(const std::string& out, const std::vector<std::string>& inputs) {
   if (out.empty()) throw OutputError("sweep merge: the name of the store to write is empty");
   if (inputs.empty()) throw OutputError("sweep merge: give the results stores to merge");
@@ -593,6 +626,15 @@ void merge_stores(const std::string& out, const std::vector<std::string>& inputs
     Statement upd(c, "UPDATE study SET shard = ?");
     upd.bind(1, shard_list(each));
     upd.step();
+    // The command: not a shard's (its --shard and --out), the whole study's into this file.
+    std::string command;
+    {
+      Statement s(c, "SELECT command FROM study");
+      if (s.step()) command = s.text(0);
+    }
+    Statement cmd(c, "UPDATE study SET command = ?");
+    cmd.bind(1, merged_command(command, out));
+    cmd.step();
     c.exec("COMMIT");
   }
   if (fresh) fresh->place();

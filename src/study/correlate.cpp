@@ -10,6 +10,7 @@
 #include "lapwing/base/format.hpp"
 #include "lapwing/base/interpolate.hpp"
 #include "lapwing/base/units.hpp"
+#include "lapwing/study/track_quality.hpp"
 
 namespace lapwing {
 
@@ -176,6 +177,45 @@ std::vector<std::string> alignment_warnings(const Alignment& a) {
   return out;
 }
 
+double log_row_spacing_m(const LoggedSpeed& log, double scale) {
+  std::vector<double> ds;
+  for (std::size_t i = 0; i + 1 < log.distance_m.size(); ++i)
+    if (log.distance_m[i + 1] > log.distance_m[i])
+      ds.push_back(scale * (log.distance_m[i + 1] - log.distance_m[i]));
+  return ds.empty() ? 0.0 : median(ds);
+}
+
+std::optional<std::string> log_spacing_warning(const LoggedSpeed& log, const Alignment& a) {
+  const double spacing = log_row_spacing_m(log, a.scale);
+  const Verdict v = verdict_of(spacing, std::nullopt);
+  if (v == Verdict::good) return std::nullopt;
+  // The log's rate (its median interval in time, over the rows that move) and the rate that
+  // puts its rows quality_good_spacing_m apart at the same speeds; 10 Hz at least (the least
+  // rate README, "Correlating with your data" advises).
+  std::vector<double> dt;
+  for (std::size_t i = 0; i + 1 < log.distance_m.size(); ++i)
+    if (log.distance_m[i + 1] > log.distance_m[i] && std::isfinite(interval_s(log, i)))
+      dt.push_back(interval_s(log, i));
+  double need_hz = 10.0;
+  if (!dt.empty() && median(dt) > 0.0)
+    need_hz = std::max(need_hz, std::ceil(spacing / quality_good_spacing_m / median(dt)));
+  std::string w = "the log's rows are " + fixed(spacing, 1) +
+                  " m apart along the track (median): the data-quality verdict's spacing rule "
+                  "reads that as " +
+                  std::string(verdict_name(v)) + " (over " +
+                  fixed(v == Verdict::poor ? quality_usable_spacing_m : quality_good_spacing_m, 0) +
+                  " m";
+  if (v == Verdict::poor)
+    w += ": rows that far apart cannot draw a hairpin); the braking points, apex speeds, lap and "
+         "sector times and the RMS error read from it are the sampling's artefacts as much as "
+         "the car's differences";
+  else
+    w += "); the braking points read from it may be off by up to a row's spacing, and the apex "
+         "speeds and the RMS error carry the straight line drawn between rows";
+  return w + ": log at " + fixed(need_hz, 0) + " Hz or more (rows " +
+         fixed(quality_good_spacing_m, 0) + " m apart or closer)";
+}
+
 std::vector<std::uint8_t> log_gaps(const LoggedSpeed& log) {
   const std::size_t m = log.distance_m.size() - 1;
   std::vector<double> dt(m);
@@ -185,6 +225,89 @@ std::vector<std::uint8_t> log_gaps(const LoggedSpeed& log) {
   for (std::size_t i = 0; i < m; ++i) gaps[i] = !(dt[i] <= limit);
   return gaps;
 }
+
+namespace {
+
+// A stretch of the log's distance [from, to] that an alignment is scored on.
+struct Window {
+  double from, to;
+};
+
+LogSamples within(const LogSamples& l, Window w) {
+  LogSamples out;
+  for (std::size_t j = 0; j < l.d.size(); ++j)
+    if (l.d[j] >= w.from && l.d[j] <= w.to) {
+      out.d.push_back(l.d[j]);
+      out.v.push_back(l.v[j]);
+    }
+  return out;
+}
+
+// What an alignment is scored on: on a closed track, the lap compared under `a` (log_on_mesh:
+// from its line to the next, in the log's distance), not the log's other laps, which another
+// drive of the lap (a driver's, a car's) would pull the alignment towards, and over which a
+// distance read at the wrong scale drifts further than the coarse search allows; the whole log
+// for an open track (it is one run), or when the lap holds too few samples to score.
+struct Scored {
+  LogSamples samples;
+  bool one_lap = false;
+  double lap_start_d = 0.0;  // the lap's line, in the log's distance (one_lap)
+};
+Scored scored(const LogSamples& all, const LoggedSpeed& log, const Mesh& mesh, const Alignment& a) {
+  if (mesh.closed) {
+    const double start = log_on_mesh(log, mesh, a).lap_start_d;
+    Scored lap{within(all, {start, start + mesh.length_m / a.scale}), true, start};
+    if (lap.samples.d.size() >= 3) return lap;
+  }
+  return {all, false, 0.0};
+}
+
+// Stage 1: offsets from lo to hi on a 2 m grid at scales 0.4 % apart: at the nearest scale the
+// samples drift at most 0.2 % of their length from the track, which the correlation's peak
+// survives over a lap.
+Alignment coarse_search(const LogSamples& l, const Grid& coarse, const Mesh& mesh, double lo,
+                        double hi) {
+  Alignment best;
+  best.correlation = -2.0;
+  // An open track's candidates must lay most of the log on the track.
+  const double min_overlap = mesh.closed ? 0.0 : 0.5;
+  const int n_scales = static_cast<int>(std::lround(alignment_max_scale_error / 0.004));
+  for (int k = -n_scales; k <= n_scales; ++k) {
+    const double sc = 1.0 + 0.004 * k;
+    for (double off = lo; off < hi; off += 2.0) {
+      const Score s = score(l, coarse, off, sc);
+      if (s.overlap >= min_overlap && s.r > best.correlation) best = {off, sc, s.r};
+    }
+  }
+  return best;
+}
+
+// Stages 2 and 3: offset and scale together, around `start`, on finer grids.
+Alignment refine_search(const LogSamples& l, const Grid& fine, const Mesh& mesh,
+                        const Alignment& start) {
+  const double min_overlap = mesh.closed ? 0.0 : 0.5;
+  Alignment best = start;
+  best.correlation = score(l, fine, best.offset_m, best.scale).r;
+  struct Stage {
+    double offset_span, offset_step, scale_span, scale_step;
+  };
+  for (const Stage st : {Stage{4.0, 0.5, 0.004, 0.0005}, Stage{0.6, 0.05, 0.0006, 0.0001}}) {
+    const Alignment centre = best;
+    const int no = static_cast<int>(std::lround(st.offset_span / st.offset_step));
+    const int ns = static_cast<int>(std::lround(st.scale_span / st.scale_step));
+    for (int i = -no; i <= no; ++i)
+      for (int k = -ns; k <= ns; ++k) {
+        const double off = centre.offset_m + i * st.offset_step;
+        const double sc = centre.scale + k * st.scale_step;
+        if (std::abs(sc - 1.0) > alignment_max_scale_error + 1e-12) continue;
+        const Score s = score(l, fine, off, sc);
+        if (s.overlap >= min_overlap && s.r > best.correlation) best = {off, sc, s.r};
+      }
+  }
+  return best;
+}
+
+}  // namespace
 
 Alignment align_log(const LoggedSpeed& log, const Mesh& mesh, const std::vector<double>& speed) {
   assert(speed.size() == mesh.size() && log.distance_m.size() >= 2);
@@ -214,23 +337,24 @@ Alignment align_log(const LoggedSpeed& log, const Mesh& mesh, const std::vector<
                     row("speed_mps", fastest)));
   }
   const double L = mesh.length_m;
-  const double d0 = log.distance_m.front();
-  // Stage 1: every offset on a 2 m grid (a closed lap's offsets repeat after L) at scales 0.4 %
-  // apart: at the nearest scale the log drifts at most 0.2 % of the lap from the track, which
-  // the correlation's peak survives.
+  const double d0 = log.distance_m.front(), d1 = log.distance_m.back();
   const Grid coarse = sim_grid(mesh, speed, 2.0);
-  const LogSamples lc = log_samples(log, gaps, 2.0);
-  Alignment best;
-  best.correlation = -2.0;
-  const double lo = mesh.closed ? d0 : d0 - 0.5 * L, hi = mesh.closed ? d0 + L : d0 + 0.5 * L;
-  // An open track's candidates must lay most of the log on the track.
-  const double min_overlap = mesh.closed ? 0.0 : 0.5;
-  const int n_scales = static_cast<int>(std::lround(alignment_max_scale_error / 0.004));
-  for (int k = -n_scales; k <= n_scales; ++k) {
-    const double sc = 1.0 + 0.004 * k;
-    for (double off = lo; off < hi; off += 2.0) {
-      const Score s = score(lc, coarse, off, sc);
-      if (s.overlap >= min_overlap && s.r > best.correlation) best = {off, sc, s.r};
+  const LogSamples& lc = by_distance;  // the log on the same 2 m grid
+  // Every offset (a closed lap's offsets repeat after L; an open track's, half the track either
+  // way), scored over the whole log: it finds the lap compared.
+  Alignment best = mesh.closed ? coarse_search(lc, coarse, mesh, d0, d0 + L)
+                               : coarse_search(lc, coarse, mesh, d0 - 0.5 * L, d0 + 0.5 * L);
+  // A closed track's log that holds more than that lap is searched again on the lap alone, at
+  // offsets near the first's: the whole log's peak stands off the lap's by the drift at the
+  // nearest scale over the log (0.2 % of its length) and by the pull of laps driven otherwise,
+  // up to 7 m in the logs of two and three laps it was tried on (of cars whose laps differ):
+  // 10 m is left for it.
+  if (mesh.closed) {
+    const Scored lap = scored(lc, log, mesh, best);
+    if (lap.one_lap && lap.samples.d.size() < lc.d.size()) {
+      const double band = 0.002 * (d1 - d0) + 10.0;
+      best =
+          coarse_search(lap.samples, coarse, mesh, lap.lap_start_d - band, lap.lap_start_d + band);
     }
   }
   return refine_alignment(log, mesh, speed, best);
@@ -240,27 +364,22 @@ Alignment refine_alignment(const LoggedSpeed& log, const Mesh& mesh,
                            const std::vector<double>& speed, const Alignment& start) {
   const double L = mesh.length_m;
   const double d0 = log.distance_m.front();
-  const double min_overlap = mesh.closed ? 0.0 : 0.5;
-  Alignment best = start;
-  // Stages 2 and 3: offset and scale together, around the best, on finer grids.
   const Grid fine = sim_grid(mesh, speed, 0.5);
   const LogSamples lf = log_samples(log, log_gaps(log), 0.5);
-  best.correlation = score(lf, fine, best.offset_m, best.scale).r;
-  struct Stage {
-    double offset_span, offset_step, scale_span, scale_step;
-  };
-  for (const Stage st : {Stage{4.0, 0.5, 0.004, 0.0005}, Stage{0.6, 0.05, 0.0006, 0.0001}}) {
-    const Alignment centre = best;
-    const int no = static_cast<int>(std::lround(st.offset_span / st.offset_step));
-    const int ns = static_cast<int>(std::lround(st.scale_span / st.scale_step));
-    for (int i = -no; i <= no; ++i)
-      for (int k = -ns; k <= ns; ++k) {
-        const double off = centre.offset_m + i * st.offset_step;
-        const double sc = centre.scale + k * st.scale_step;
-        if (std::abs(sc - 1.0) > alignment_max_scale_error + 1e-12) continue;
-        const Score s = score(lf, fine, off, sc);
-        if (s.overlap >= min_overlap && s.r > best.correlation) best = {off, sc, s.r};
-      }
+  // Scored on the lap compared under `start`, its offset named at that lap's line (where the
+  // scale's steps turn about); when the refined alignment compares another lap (two laps that
+  // tied on coverage no longer do), refined again on that one.
+  Alignment best = start;
+  std::optional<double> last_start;
+  for (int pass = 0; pass < 3; ++pass) {
+    const Scored l = scored(lf, log, mesh, best);
+    if (l.one_lap) {
+      if (last_start && std::abs(l.lap_start_d - *last_start) < 0.5 * L / best.scale) break;
+      best.offset_m = l.lap_start_d;
+      last_start = l.lap_start_d;
+    }
+    best = refine_search(l.samples, fine, mesh, best);
+    if (!l.one_lap) break;
   }
   // A closed lap's offset is named within one lap after the log's start.
   if (mesh.closed)
@@ -387,6 +506,7 @@ Correlation correlate(const Lap& lap, const Circuit& circuit, const LoggedSpeed&
   c.covered = std::move(on.covered);
   c.coverage = static_cast<double>(on.covered_points) / static_cast<double>(n);
   c.warnings = alignment_warnings(alignment);
+  if (auto w = log_spacing_warning(log, alignment)) c.warnings.push_back(std::move(*w));
   if (!on.gaps_m.empty()) {
     std::string at;
     for (const auto& g : on.gaps_m)

@@ -449,6 +449,7 @@ FitResult fit(const ConfiguredCar& car, const std::vector<FitLog>& logs,
     const std::string& name = logs[k].log->source;
     std::vector<std::string> w = alignment_warnings(out.alignments[k]);
     if (w.empty()) w = alignment_warnings(al[k]);
+    if (auto sparse = log_spacing_warning(*logs[k].log, al[k])) w.push_back(std::move(*sparse));
     const LogOnMesh on = log_on_mesh(*logs[k].log, logs[k].circuit->mesh, al[k]);
     if (!on.gaps_m.empty()) {
       double gap_m = 0.0;

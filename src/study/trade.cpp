@@ -3,8 +3,10 @@
 #include <algorithm>
 #include <cassert>
 #include <cmath>
+#include <string>
 
 #include "lapwing/base/error.hpp"
+#include "lapwing/base/format.hpp"
 #include "lapwing/solve/envelope.hpp"
 #include "lapwing/study/thread_pool.hpp"
 
@@ -78,6 +80,20 @@ ConfiguredCar varied(const ConfiguredCar& car, Knob knob, double r) {
   return scaled(car, knob, 1.0 + r);
 }
 
+namespace {
+// How `varied` moves a config, in words: "ClA +2.0 %" (or "+0.020 m2" for a zero area).
+std::string perturbation_text(const AeroConfig& a, Knob knob, double r) {
+  const char* name = knob == Knob::cla    ? "ClA"
+                     : knob == Knob::cda  ? "CdA"
+                     : knob == Knob::mass ? "mass"
+                                          : "power";
+  const std::string sign = r >= 0.0 ? "+" : "-";
+  if ((knob == Knob::cla || knob == Knob::cda) && zero_area(a, knob))
+    return std::string(name) + " " + sign + fixed(std::abs(r), 3) + " m2";
+  return std::string(name) + " " + sign + fixed(100.0 * std::abs(r), 1) + " %";
+}
+}  // namespace
+
 std::optional<Violation> TradeOptions::validate() const {
   return FirstViolation()
       .range("step", step, step_range, Quantity::fraction)
@@ -133,16 +149,26 @@ Trade trade(const Car& car, const std::vector<std::size_t>& configs,
     std::size_t track;
     ConfiguredCar car;
     bool own;  // a config's own lap: its operating point is wanted too
+    // What the lap is, for a message where it cannot be completed: a config's own lap (every
+    // config's is needed: the grids span their operating points), a perturbed one, a grid node.
+    std::string what;
   };
   std::vector<Job> jobs;
   const Knob knobs[] = {Knob::cla, Knob::cda, Knob::mass, Knob::power};
   const int g = o.grid_points;
   for (std::size_t t = 0; t < nt; ++t) {
-    for (std::size_t c = 0; c < ncfg; ++c) jobs.push_back({t, car.configured(c), true});
+    for (std::size_t c = 0; c < ncfg; ++c)
+      jobs.push_back({t, car.configured(c), true,
+                      "its own lap, which the study needs for every config (the grids span "
+                      "their operating points)"});
     for (std::size_t c : configs) {
       const ConfiguredCar base = car.configured(c);
       for (Knob k : knobs)
-        for (double sign : {1.0, -1.0}) jobs.push_back({t, varied(base, k, sign * o.step), false});
+        for (double sign : {1.0, -1.0})
+          jobs.push_back({t, varied(base, k, sign * o.step), false,
+                          "the study's lap with " +
+                              perturbation_text(base.aero(), k, sign * o.step) +
+                              " (run laps the config as given)"});
     }
   }
   auto solve = [&](std::vector<double>& times, std::vector<AeroOperatingPoint>& ops) {
@@ -158,7 +184,8 @@ Trade trade(const Car& car, const std::vector<std::size_t>& configs,
         times[k] = lap.lap_time_s;
       } catch (const CannotMove& e) {
         const Track& track = circuits[jobs[k].track].track;
-        throw cannot_move_in(e, track.name, track.file, jobs[k].car.aero().name);
+        throw cannot_move_in(e, track.name, track.file,
+                             jobs[k].car.aero().name + ", " + jobs[k].what);
       }
     });
   };
@@ -192,7 +219,9 @@ Trade trade(const Car& car, const std::vector<std::size_t>& configs,
           grid_jobs.push_back({t,
                                moved_to(moved_to(base, Knob::cla, p0.cla_m2, zero_cla, cla),
                                         Knob::cda, p0.cda_m2, zero_cda, cda),
-                               false});
+                               false,
+                               "the trade grid's lap at ClA " + fixed(cla, 3) + " m2, CdA " +
+                                   fixed(cda, 3) + " m2"});
       grids.push_back(std::move(grid));
     }
     jobs = std::move(grid_jobs);

@@ -4,6 +4,7 @@
 #include <doctest/doctest.h>
 
 #include <string>
+#include <vector>
 
 #include "lapwing/base/error.hpp"
 #include "lapwing/base/text.hpp"
@@ -63,4 +64,23 @@ TEST_CASE("an input error is one printable line whatever its key, value or file 
   CHECK(what == "dir\\n/x.yaml:3:5: error: unknown key 'a\\nb' (a\\nb)");
   const InvalidInput i("car 'x\xFF'", broken_rule("name", "bad\rname"));
   CHECK(std::string(i.what()) == "car 'x\\xFF': error: bad\\rname (name)");
+}
+
+TEST_CASE("a command's words are quoted as a POSIX shell reads them back, and split again") {
+  // POSIX Shell Command Language, 2.2.3: inside single quotes every character stands for itself,
+  // so a quote is written by ending the quotes, an escaped quote, and quotes again: '\''.
+  CHECK(shell_word("--out") == "--out");
+  CHECK(shell_word("tyres.mu_lat=1.5,1.7") == "tyres.mu_lat=1.5,1.7");
+  CHECK(shell_word("35 C") == "'35 C'");
+  CHECK(shell_word("") == "''");
+  CHECK(shell_word("it's") == "'it'\\''s'");
+  CHECK(shell_word("$HOME*") == "'$HOME*'");
+  // 2.2.1: a backslash outside quotes keeps the next character as it is.
+  CHECK(shell_words("a 'b c'  d\\ e 'it'\\''s' ''") ==
+        std::vector<std::string>{"a", "b c", "d e", "it's", ""});
+  const std::vector<std::string> words{"lapwing", "--temperature", "35 C",
+                                       "--out",   "a b/it's.x",    ""};
+  std::string line;
+  for (const std::string& w : words) line += (line.empty() ? "" : " ") + shell_word(w);
+  CHECK(shell_words(line) == words);
 }

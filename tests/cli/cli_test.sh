@@ -360,6 +360,10 @@ grep -q "note: the centerline at half strength (13.4 m) cannot be solved with co
 "$bin" check --car tests/data/no-aero-car.yaml --json "$tmp/noaero.json" > "$tmp/noaero.txt"
 grep -q "top speed 900.0 km/h (table ceiling)" "$tmp/noaero.txt" &&
   grep -q '"top_speed_limit": "table ceiling"' "$tmp/noaero.json" && ok || bad "check: ceiling not named"
+# With CdA 0 the lift-to-drag ratio is undefined: the text's "-", null in JSON (it read 0, the
+# worst of all, so a script ranking configs by it put a drag-free wing last).
+grep -q '"lift_to_drag": null' "$tmp/noaero.json" && ! grep -q '"lift_to_drag": 0' "$tmp/noaero.json" &&
+  ok || bad "check --json: lift_to_drag of a config without drag"
 # A speed table typed without units is in m/s (100 m/s = 360 km/h): every speed of the lap lies
 # below its first row, and run (and compare's summary.json) says so at once, with the share.
 sed 's/speed: *\[100 km\/h, 150 km\/h, 200 km\/h, 250 km\/h, 300 km\/h\]/speed: [100, 150, 200, 250, 300]/' \

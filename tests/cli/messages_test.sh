@@ -79,10 +79,21 @@ expect 2 "$car:$((at + 1)):5: error: no config named 'LOW'; did you mean 'low'? 
 # 5. A car that cannot move in compare or trade: which track and config.
 sed 's/^  mu_long: 1.55$/  mu_long: 0.3/' $car > "$tmp/lowmu.yaml"
 printf 'format: 1\nname: "Wall"\nclosed: false\nmesh: 0.5 m\nsegments:\n  - straight: 10 m\n  - straight: {length: 100 m, grade: 50 %%}\n' > "$tmp/wall.yaml"
-for cmd in compare trade; do
-  expect 3 "lapwing: error: the car cannot complete the track: track Wall ($tmp/wall.yaml), config low: the car cannot hold any speed at 10 m (the tyres cannot hold the car on this grade)" \
-    $cmd --car "$tmp/lowmu.yaml" --track $track --track "$tmp/wall.yaml" --config low
-done
+expect 3 "lapwing: error: the car cannot complete the track: track Wall ($tmp/wall.yaml), config low: the car cannot hold any speed at 10 m (the tyres cannot hold the car on this grade)" \
+  compare --car "$tmp/lowmu.yaml" --track $track --track "$tmp/wall.yaml" --config low
+# trade says which of its laps failed: a config's own lap (every config's is needed), or one of
+# its perturbed laps, which run does not lap (a car at the edge of a climb with 2 % more mass).
+expect 3 "lapwing: error: the car cannot complete the track: track Wall ($tmp/wall.yaml), config low, its own lap, which the study needs for every config (the grids span their operating points): the car cannot hold any speed at 10 m (the tyres cannot hold the car on this grade)" \
+  trade --car "$tmp/lowmu.yaml" --track $track --track "$tmp/wall.yaml" --config low
+# The weak engine and the low config alone (the other configs' own laps would fail first).
+sed 's/torque: \[330, 390, 420, 395, 350\]/torque: [57.5, 80, 90, 80, 70]/' $car |
+  awk '{print} /^    low:/ {exit}' > "$tmp/edge.yaml"
+grep -q "torque: \[57.5," "$tmp/edge.yaml" && [ "$(tail -n 1 "$tmp/edge.yaml" | cut -c1-8)" = "    low:" ] ||
+  bad "edge car not made"
+printf 'format: 1\nname: "Steep"\nclosed: false\nstart_speed: 0 km/h\nmesh: 0.5 m\nsegments:\n  - straight: 100 m\n  - straight: {length: 300 m, grade: 30 %%}\n' > "$tmp/steep.yaml"
+"$bin" run --car "$tmp/edge.yaml" --track "$tmp/steep.yaml" > /dev/null && ok || bad "the edge car cannot climb the steep track"
+expect 3 "lapwing: error: the car cannot complete the track: track Steep ($tmp/steep.yaml), config low, the study's lap with mass +2.0 % (run laps the config as given): the car cannot hold any speed at 100 m (drive never exceeds the resistance on this grade)" \
+  trade --car "$tmp/edge.yaml" --track "$tmp/steep.yaml"
 
 # 6. track from-log: the bundled log starts about 12 m before the line and runs on past it (its
 #    lap ends 63 m before its last row, where its path crosses the line through its start again)

@@ -59,6 +59,27 @@ done
   grep -q ": 40 of 40 laps of the study (complete)" "$tmp/merge.txt" && ok || bad "merge: $(cat "$tmp/merge.txt")"
 export_csv "$tmp/merged.sqlite" "$tmp/merged.csv"
 cmp -s "$tmp/t1.csv" "$tmp/merged.csv" && ok || bad "merged shards differ from the unsharded study"
+# The merged file's command is the study's, not the first shard's: no --shard, its --out the
+# merged file (README, "Sweep"); here the unsharded run's with its --out replaced. A word a
+# shell would split is quoted ('35 C', a folder with a space), and the command read back by the
+# shell (bash's eval: POSIX quoting) resumes the merged study, with nothing left to run.
+command_of() { python3 -c "import sqlite3, sys
+print(sqlite3.connect(sys.argv[1]).execute('SELECT command FROM study').fetchone()[0])" "$1"; }
+[ "$(command_of "$tmp/merged.sqlite")" = "$(command_of "$tmp/t1.sqlite" | sed "s|--out $tmp/t.sqlite\$|--out $tmp/merged.sqlite|")" ] &&
+  ok || bad "merged command: $(command_of "$tmp/merged.sqlite")"
+mkdir -p "$tmp/a b"
+for k in 1 2; do
+  "$bin" sweep "${study[@]}" --temperature "35 C" --shard $k/2 --out "$tmp/a b/q$k.sqlite" > /dev/null 2>&1 ||
+    bad "shard $k/2 in 35 C"
+done
+"$bin" sweep merge "$tmp/a b/m.sqlite" "$tmp/a b/q2.sqlite" "$tmp/a b/q1.sqlite" > /dev/null 2>&1 || bad "merge into 'a b'"
+merged=$(command_of "$tmp/a b/m.sqlite")
+case "$merged" in
+  *"--temperature '35 C'"*"--out '$tmp/a b/m.sqlite'") ! grep -q -- "--shard" <<< "$merged" && ok || bad "merged command: $merged" ;;
+  *) bad "merged command: $merged" ;;
+esac
+(eval "$merged") > "$tmp/rerun.txt" 2>&1 && grep -q "points 0 run, 10 already in $tmp/a b/m.sqlite" "$tmp/rerun.txt" &&
+  ok || bad "the merged command, run again: $(cat "$tmp/rerun.txt")"
 # Two shards alone are not the whole study.
 "$bin" sweep merge "$tmp/part.sqlite" "$tmp/s1.sqlite" "$tmp/s2.sqlite" > "$tmp/merge.txt" 2>&1
 grep -q "(incomplete: run the missing shards" "$tmp/merge.txt" && ok || bad "partial merge: $(cat "$tmp/merge.txt")"

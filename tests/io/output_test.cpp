@@ -13,6 +13,9 @@
 #include <fstream>
 #include <set>
 #include <sstream>
+#include <string>
+#include <thread>
+#include <vector>
 
 #include "lapwing/base/error.hpp"
 #include "lapwing/io/input_file.hpp"
@@ -130,6 +133,39 @@ TEST_CASE("a staging folder a live run holds is left alone") {
   write_outputs(base / "out", {{"summary.json", "new"}});
   CHECK(fs::is_directory(stage));
   ::close(fd);
+}
+
+TEST_CASE("runs given the same new folder or file at once all finish, and one run's set stands") {
+  // Three writers start together on a folder that does not exist yet: the first to finish
+  // creates it and the others replace it, as they would a folder lapwing wrote before (two of
+  // three failed with "Directory not empty"). Each also removes leftovers beside it, which must
+  // not take another live writer's staging folder in the moment between its making and its
+  // lock ("No such file or directory"). The same for a single file.
+  const fs::path base = fresh("racing");
+  for (int round = 0; round < 30; ++round) {
+    const fs::path out = base / ("out" + std::to_string(round));
+    const fs::path file = base / ("check" + std::to_string(round) + ".json");
+    std::vector<std::string> errors(3);
+    std::vector<std::thread> writers;
+    for (int w = 0; w < 3; ++w)
+      writers.emplace_back([&, w] {
+        try {
+          const std::string tag = "writer " + std::to_string(w);
+          write_outputs(out, {{"summary.json", tag}, {"trace.csv", tag}});
+          write_file_atomic(file, tag);
+        } catch (const std::exception& e) {
+          errors[static_cast<std::size_t>(w)] = e.what();
+        }
+      });
+    for (auto& t : writers) t.join();
+    for (const auto& e : errors) CHECK_MESSAGE(e.empty(), e);
+    // One writer's set, whole.
+    CHECK(read(out / "summary.json") == read(out / "trace.csv"));
+    CHECK(read(out / "summary.json").rfind("writer ", 0) == 0);
+  }
+  // Nothing left beside them: every staging folder and temporary was removed by its writer.
+  for (const auto& e : fs::directory_iterator(base))
+    CHECK_MESSAGE(e.path().filename().string()[0] != '.', e.path().string());
 }
 
 TEST_CASE(

@@ -5,6 +5,7 @@
 #include <cmath>
 #include <limits>
 
+#include "lapwing/model/air.hpp"
 #include "lapwing/report/correlate_report.hpp"
 #include "test_support.hpp"
 
@@ -35,15 +36,23 @@ FitResult two_parameters(bool covariance) {
 TEST_CASE(
     "fit.json names each parameter's scale (the balance's shift) and writes null for a "
     "figure not found") {
-  const std::string found = fit_json("car", "medium", {"a.csv"}, {"Track"}, two_parameters(true));
+  // ISO 2533's sea level: 1.2250 kg/m3 (the standard's own table).
+  const std::vector<Air> sea_level{make_air(AirSpec{})};
+  const std::string found =
+      fit_json("car", "medium", {"a.csv"}, {"Track"}, sea_level, two_parameters(true));
   CHECK(found.find("\"grip\": {\n      \"scale\": 1.02") != std::string::npos);
   CHECK(found.find("\"shift\": -0.01") != std::string::npos);
   // 2 and 0.5 m/s are 7.2 and 1.8 km/h, give or take the last digit of a division by 1/3.6.
-  for (const std::string key : {"\"rms_before_kph\": 7.", "\"rms_after_kph\": 1.",
-                                "\"correlation\"", "\"not_separable\"", "\"offset_m\": 7"})
+  // The air each log's laps were solved in, as run states it (README, "Correlating with your
+  // data"): its density and its text.
+  for (const std::string key :
+       {"\"rms_before_kph\": 7.", "\"rms_after_kph\": 1.", "\"correlation\"", "\"not_separable\"",
+        "\"offset_m\": 7", "\"air_density_kg_m3\": 1.225",
+        "\"air\": \"1.2250 kg/m3 (ISO 2533 at 0 m)\""})
     CHECK_MESSAGE(found.find(key) != std::string::npos, key);
   // Without a covariance: null, not a NaN (JSON has none; the writer throws on one).
-  const std::string none = fit_json("car", "medium", {"a.csv"}, {"Track"}, two_parameters(false));
+  const std::string none =
+      fit_json("car", "medium", {"a.csv"}, {"Track"}, sea_level, two_parameters(false));
   CHECK(none.find("\"std_error\": null") != std::string::npos);
   CHECK(none.find("nan") == std::string::npos);
   CHECK(fit_text(two_parameters(false), {"a.csv"}).find("no standard errors") != std::string::npos);

@@ -8,6 +8,7 @@
 #include <optional>
 #include <string>
 #include <string_view>
+#include <vector>
 
 namespace lapwing {
 
@@ -35,5 +36,14 @@ std::string printable(std::string_view text);
 /// `text` as valid UTF-8: each byte that is not part of a valid sequence replaced by U+FFFD
 /// (the replacement character, Unicode ch. 3.9), the rest unchanged.
 std::string valid_utf8(std::string_view text);
+
+/// A word of a command line as a POSIX shell reads it back (Shell Command Language, 2.2.3: inside
+/// single quotes every character stands for itself): unchanged when it is not empty and holds
+/// only letters, digits and _@%+=:,./-, else in single quotes, a quote in it written '\''.
+std::string shell_word(std::string_view word);
+/// The words of a command line made of shell_word's words and spaces: split at spaces outside
+/// quotes, a single-quoted part read as it stands, a backslash outside quotes taking the next
+/// character as it is (Shell Command Language, 2.2.1 and 2.2.3). Double quotes are not read.
+std::vector<std::string> shell_words(std::string_view command);
 
 }  // namespace lapwing

@@ -29,9 +29,12 @@ std::string fit_value_text(FitParameter p, double value);
 /// RMS before and after per log, and the pairs the logs cannot separate with what would.
 std::string fit_text(const FitResult& r, const std::vector<std::string>& log_names);
 /// fit.json: parameters {NAME: {scale | shift, std_error}}, rms_before_kph, rms_after_kph,
-/// correlation (rows in the order of "free"), and per log its alignment and RMS.
+/// correlation (rows in the order of "free"), and per log its track, the air its laps were
+/// solved in (`airs`, one per log: air_density_kg_m3, and air as run prints it), its alignment
+/// and RMS.
 std::string fit_json(const std::string& car_name, const std::string& config,
                      const std::vector<std::string>& log_names,
-                     const std::vector<std::string>& track_names, const FitResult& r);
+                     const std::vector<std::string>& track_names, const std::vector<Air>& airs,
+                     const FitResult& r);
 
 }  // namespace lapwing
