@@ -164,6 +164,10 @@ TEST_CASE("corner options out of range are a typed error naming the option") {
   o.min_length_m = -1.0;
   CHECK(test::describe(o.validate()) ==
         "min_length_m: value -1 is out of range: must be >= 0 in SI units");
+  o = CornerOptions{};
+  o.sharp_turn_deg = -1.0;
+  CHECK(test::describe(o.validate()) == "sharp_turn_deg: value -1 is out of range: must be >= 0");
+  o.min_length_m = -1.0;
   o.enter_curvature_1pm = 0.0;
   CHECK(o.validate()->field == "enter_curvature_1pm");  // the first in order
   const Mesh m = build_mesh(test::circle_track(50.0, 0.5), 0.5);
