@@ -48,6 +48,8 @@ std::string limit_text(TopSpeedLimit l, const Car& car) {
   if (l == TopSpeedLimit::traction)
     s += car.model == VehicleModel::axle ? " (axle model: driven axle)"
                                          : " (point mass: four tyres)";
+  if (l == TopSpeedLimit::front_lift || l == TopSpeedLimit::rear_lift)
+    s += " (axle model: no load left on the axle at a steady speed)";
   return s;
 }
 

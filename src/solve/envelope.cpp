@@ -35,6 +35,10 @@ const char* top_speed_limit_name(TopSpeedLimit l) {
       return "table ceiling";
     case TopSpeedLimit::traction:
       return "traction";
+    case TopSpeedLimit::front_lift:
+      return "front lift";
+    case TopSpeedLimit::rear_lift:
+      return "rear lift";
   }
   return "drag";
 }

@@ -96,6 +96,9 @@ struct PathForces {
                                                      const Envelope::Rows& rows, double v2,
                                                      double abs_curvature, const Road& road) {
   const Envelope::RoadForces f = env.road_forces(rows, v2, abs_curvature, road);
+  // No load on the road (off camber, faster than the bank lets the tyres touch): no grip. The
+  // limits of a negative load are negative, and the ellipse's squares would lose their sign.
+  if (!(f.normal_n > 0.0)) return {0.0, f.resistance_n, f.drive_n};
   const TyreModel::Limits lim = env.tyres().limits(f.normal_n);
   return {env.tyres().long_force_left(lim, f.lateral_n), f.resistance_n, f.drive_n};
 }
@@ -222,6 +225,12 @@ double grip_excess(const Envelope& env, bool axle, double v, double curv, const 
   if (axle) return axle_steady_excess(env, v, curv, road, trimmed);
   const TyreModel& tyres = env.tyres();
   const Envelope::RoadForces f = env.road_forces(env.rows(trimmed), v * v, curv, road);
+  // No load on the road: the tyres hold nothing (as axle_usage reads a lifted axle). Above the
+  // speed where an off-camber bank steeper than atan(1/mu) lifts the car, the ratios' signs
+  // would otherwise cancel in the ellipse's squares (or read 0 in its powers) and call a car
+  // with no load on its tyres held: the search then took the top of the table.
+  if (!(f.normal_n > 0.0))
+    return f.lateral_n == 0.0 && f.resistance_n == 0.0 ? -1.0 : lifted_axle_usage;
   return tyres.usage(std::abs(f.resistance_n) / tyres.fx_max(f.normal_n),
                      std::abs(f.lateral_n) / tyres.fy_max(f.normal_n)) -
          1.0;
@@ -241,6 +250,31 @@ double extrapolated_grip(double k, double k1, double v1, double k0, double v0) {
 // The bracket tried first around an extrapolated guess.
 constexpr double extrapolated_width = 2e-4;
 
+// The axle model's lift limit at a point of curvature |k| and its road, on the rows given: the
+// highest speed at which both axle loads at a_x = 0 (axle_loads) stay above zero, and the axle
+// whose load reaches zero there (the lighter one at the tables' top). {v_max, grip} where
+// neither reaches zero up to the tables' top: one evaluation, as on every road of the bundled
+// cars.
+LevelLift lift_speed(const Envelope& env, const Envelope::Rows& rows, double k, const Road& road) {
+  const Car& car = env.car();
+  auto loads = [&](double v) {
+    const Envelope::RoadForces f = env.road_forces(rows, v * v, k, road);
+    return axle_loads(car, f.drag_n, f.downforce_n, f.balance, f.normal_share, road.sin_slope, 0.0);
+  };
+  const double v_max = env.max_speed_mps();
+  const AxleLoads top = loads(v_max);
+  if (top.front_n > 0.0 && top.rear_n > 0.0) return {v_max, SteadyLimit::grip};
+  const SteadyLimit axle =
+      top.front_n <= top.rear_n ? SteadyLimit::front_lift : SteadyLimit::rear_lift;
+  const double v = highest_feasible(
+      [&](double s) {
+        const AxleLoads l = loads(s);
+        return -std::min(l.front_n, l.rear_n);
+      },
+      v_max, 0.0);
+  return {v, axle};
+}
+
 }  // namespace
 
 namespace {
@@ -250,9 +284,12 @@ namespace {
 // (measured), what a few hundred points of a sweep take.
 constexpr std::size_t min_points_apart = 2000;
 
-void steady_halves(const Envelope& env, const Mesh& mesh, SteadyProfile& p, SecondThread* second);
+// `engine` false leaves the engine's limit out (the tyres' and the axles' alone: what a flying
+// start above the engine's top speed is held to, LapSolver::speed_pass).
+void steady_halves(const Envelope& env, const Mesh& mesh, SteadyProfile& p, SecondThread* second,
+                   bool engine = true);
 void steady_points(const Envelope& env, const Mesh& mesh, SteadyProfile& p, std::size_t lo,
-                   std::size_t hi);
+                   std::size_t hi, bool engine);
 
 }  // namespace
 
@@ -268,26 +305,28 @@ void steady_profile(const Envelope& env, const Mesh& mesh, SteadyProfile& p) {
 
 namespace {
 
-void steady_halves(const Envelope& env, const Mesh& mesh, SteadyProfile& p, SecondThread* second) {
+void steady_halves(const Envelope& env, const Mesh& mesh, SteadyProfile& p, SecondThread* second,
+                   bool engine) {
   const std::size_t n = mesh.size();
   resize_ready({&p.speed_mps}, n, second);
   p.limit.resize(n);
   in_halves(n, second,
-            [&](std::size_t lo, std::size_t hi) { steady_points(env, mesh, p, lo, hi); });
+            [&](std::size_t lo, std::size_t hi) { steady_points(env, mesh, p, lo, hi, engine); });
 }
 
 // The steady limits of points lo to hi (not included), each half of the mesh from a fresh start
 // (no answer carried in from the point before lo).
 void steady_points(const Envelope& env, const Mesh& mesh, SteadyProfile& p, std::size_t lo,
-                   std::size_t hi) {
+                   std::size_t hi, bool engine) {
   const double v_max = env.max_speed_mps();
   const bool axle = env.car().model == VehicleModel::axle;
   const LevelTables* tables = axle ? env.level_tables() : nullptr;
   double last_curv = std::nan("");
   Road last_road{std::nan(""), 0.0, 0.0, 0.0, 0.0};
   bool last_trimmed = false;
-  double v_engine = 0.0, v_grip = 0.0;
-  double prev_curv = 0.0, prev_grip = 0.0;  // the point before the last whose grip was solved
+  double v_engine = 0.0, v_grip = 0.0, v_lift = 0.0;
+  SteadyLimit lift_axle = SteadyLimit::grip;  // grip: no axle lifts below the tables' top
+  double prev_curv = 0.0, prev_grip = 0.0;    // the point before the last whose grip was solved
   bool have_two = false;
   RoadReader road_at(mesh);
   for (std::size_t i = lo; i < hi; ++i) {
@@ -311,12 +350,20 @@ void steady_points(const Envelope& env, const Mesh& mesh, SteadyProfile& p, std:
     if (road_changed || trimmed != last_trimmed || (road.sin_bank != 0.0 && curv != last_curv)) {
       // Engine: drive in the best gear >= resistance, the top speed on this road.
       const Envelope::Rows rows = env.rows(trimmed);
-      v_engine = highest_feasible(
-          [&](double v) {
-            const Envelope::RoadForces f = env.road_forces(rows, v * v, curv, road);
-            return f.resistance_n - f.drive_n;
-          },
-          v_max, v_engine);
+      v_engine = engine ? highest_feasible(
+                              [&](double v) {
+                                const Envelope::RoadForces f =
+                                    env.road_forces(rows, v * v, curv, road);
+                                return f.resistance_n - f.drive_n;
+                              },
+                              v_max, v_engine)
+                        : std::numeric_limits<double>::infinity();
+      // Axles (axle model): the highest speed at which both keep some load at a_x = 0.
+      if (axle) {
+        const LevelLift l = lift_speed(env, rows, curv, road);
+        v_lift = l.speed_mps;
+        lift_axle = l.axle;
+      }
     }
     last_trimmed = trimmed;
     if (road_changed || curv != last_curv) {
@@ -349,16 +396,30 @@ void steady_points(const Envelope& env, const Mesh& mesh, SteadyProfile& p, std:
       p.speed_mps[i] = v_engine;
       p.limit[i] = SteadyLimit::engine;
     }
+    // Only strictly below the others: where an axle asked for a lateral force lifts, the tyres'
+    // limit is the same speed (axle_usage reads the lifted axle), and stays `grip`.
+    if (lift_axle != SteadyLimit::grip && v_lift < p.speed_mps[i]) {
+      p.speed_mps[i] = v_lift;
+      p.limit[i] = lift_axle;
+    }
     if (!(p.speed_mps[i] > 0.0))
       throw CannotMove("the car cannot hold any speed at " + where(mesh, i) + " (" +
                        (p.limit[i] == SteadyLimit::engine
                             ? "drive never exceeds the resistance on this grade"
+                        : lift_limit(p.limit[i])
+                            ? (p.limit[i] == SteadyLimit::front_lift ? "the front" : "the rear") +
+                                  std::string(" axle has no load on this grade")
                             : "the tyres cannot hold the car on this grade") +
                        ")");
   }
 }
 
 }  // namespace
+
+LevelLift level_lift_speed(const Envelope& env) {
+  if (env.car().model != VehicleModel::axle) return {env.max_speed_mps(), SteadyLimit::grip};
+  return lift_speed(env, env.rows(env.has_trim()), 0.0, Road{});
+}
 
 double level_traction_speed_mps(const Envelope& env) {
   const Road level{};
@@ -1070,44 +1131,69 @@ void LapSolver::speed_pass(const Envelope& env, const Mesh& mesh, double start_s
 
   const std::shared_ptr<const StepTables> tables =
       step_tables_for(env, mesh, integrator_, quick_steps_);
-  auto both = [&](std::size_t f0, double vf, std::size_t b0, double vb) {
+  auto both = [&](const std::vector<double>& limit, std::size_t f0, double vf, std::size_t b0,
+                  double vb) {
     dispatch(env, integrator_, [&]<bool Axle, Integrator I>() {
       if (second)
-        sweep_apart<Axle, I>(env, mesh, steady, f0, vf, b0, vb, fwd, bwd, tables.get(),
-                             quick_steps_, *second);
+        sweep_apart<Axle, I>(env, mesh, limit, f0, vf, b0, vb, fwd, bwd, tables.get(), quick_steps_,
+                             *second);
       else
-        sweep_both<Axle, I>(env, mesh, steady, f0, vf, b0, vb, fwd, bwd, tables.get(),
-                            quick_steps_);
+        sweep_both<Axle, I>(env, mesh, limit, f0, vf, b0, vb, fwd, bwd, tables.get(), quick_steps_);
     });
   };
-  auto again = [&](Sweep direction, std::size_t start, double v) {
+  auto again = [&](const std::vector<double>& limit, Sweep direction, std::size_t start, double v) {
     return dispatch(env, integrator_, [&]<bool Axle, Integrator I>() {
-      return sweep_one<Axle, I>(env, mesh, direction, steady, start, v, tables.get(), quick_steps_);
+      return sweep_one<Axle, I>(env, mesh, direction, limit, start, v, tables.get(), quick_steps_);
     });
   };
+  start_limit_mps_ = steady.front();
   if (mesh.closed) {
     // Periodic lap: start both sweeps at the slowest steady point, where the speed is known.
     const std::size_t period = n - 1;
     const std::size_t i0 = static_cast<std::size_t>(
         std::min_element(steady.begin(), steady.begin() + static_cast<std::ptrdiff_t>(period)) -
         steady.begin());
-    both(i0, steady[i0], i0, steady[i0]);
+    both(steady, i0, steady[i0], i0, steady[i0]);
     // A sweep that comes round slower than it started (it could not regain the start speed)
     // runs once more from the speed it arrived at, so that the lap is periodic.
-    if (fwd.speed_mps[i0] < steady[i0]) fwd = again(Sweep::forward, i0, fwd.speed_mps[i0]);
-    if (bwd.speed_mps[i0] < steady[i0]) bwd = again(Sweep::backward, i0, bwd.speed_mps[i0]);
+    if (fwd.speed_mps[i0] < steady[i0]) fwd = again(steady, Sweep::forward, i0, fwd.speed_mps[i0]);
+    if (bwd.speed_mps[i0] < steady[i0]) bwd = again(steady, Sweep::backward, i0, bwd.speed_mps[i0]);
+  } else if (start_speed_mps > steady.front() * (1.0 + 1e-9) &&
+             steady_.limit.front() == SteadyLimit::engine) {
+    // A flying start above the engine's steady limit (`start_speed`; the speed profile of
+    // README, "Physics and assumptions"): the car is faster than its drive holds on that road
+    // and slows (drag and resistance against the drive, full throttle) until it is back on
+    // that limit. Over that stretch the sweeps are held to the tyres' and the axles' limits
+    // alone (the engine's left out); from the first point where the car is within
+    // phase_on_limit of the engine's limit, to the steady limits as every other lap is. The
+    // start itself is held to the tyres' limit (start_limit_mps).
+    steady_halves(env, mesh, flying_, second, false);
+    std::vector<double>& limit = flying_.speed_mps;
+    start_limit_mps_ = limit.front();
+    fwd = again(limit, Sweep::forward, 0, start_speed_mps);
+    std::size_t k = 0;
+    while (k < n && fwd.speed_mps[k] > steady[k] * (1.0 + phase_on_limit)) ++k;
+    for (std::size_t i = k; i < n; ++i) limit[i] = steady[i];
+    both(limit, 0, start_speed_mps, n - 1, limit[n - 1]);
   } else {
-    both(0, start_speed_mps, n - 1, steady[n - 1]);
+    both(steady, 0, start_speed_mps, n - 1, steady[n - 1]);
   }
 
   resize_ready({&lap.speed_mps, &lap.time_s}, n, second);
   lap.phase.resize(n);
+  lap.lift_hold = {};
+  bool held_before = false;
   for (std::size_t i = 0; i < n; ++i) {
     const double v = std::min(fwd.speed_mps[i], bwd.speed_mps[i]);
     lap.speed_mps[i] = v;
+    const bool on_limit = v >= steady[i] * (1.0 - phase_on_limit);
     lap.phase[i] =
-        classify_phase(v >= steady[i] * (1.0 - phase_on_limit), bwd.speed_mps[i] < fwd.speed_mps[i],
-                       steady_.limit[i], fwd.cut[i]);
+        classify_phase(on_limit, bwd.speed_mps[i] < fwd.speed_mps[i], steady_.limit[i], fwd.cut[i]);
+    const bool held = on_limit && lift_limit(steady_.limit[i]);
+    if (held && !lap.lift_hold.held)
+      lap.lift_hold = {true, steady_.limit[i] == SteadyLimit::front_lift, i, 0.0};
+    if (i > 0) lap.lift_hold.length_m += 0.5 * mesh.step_m * (held + held_before);
+    held_before = held;
   }
 
   // Time: sum of 2 ds / (v_i + v_{i+1}), exact for a constant acceleration over each step
@@ -1157,6 +1243,7 @@ Lap LapSolver::take_with_channels(const Envelope& env, const Mesh& mesh) {
   forward_ = {};
   backward_ = {};
   steady_ = {};
+  flying_ = {};
   channels_pass(env, mesh);
   return take();
 }

@@ -129,6 +129,23 @@ std::optional<std::string> tyre_peak_warning(const Envelope& env, const Lap& lap
                 env.tyres().load_sensitivity(), 100.0 * length / mesh.length_m);
   return std::string(buf);
 }
+
+// The warning for a lap held on an axle's lift limit somewhere (Lap::lift_hold; nothing if
+// nowhere): at a steady speed the drag moment (and the aero balance) leave that axle no load,
+// so the car holds that speed at 0 g under drive (phase top_speed), however much power is left.
+std::optional<std::string> lift_hold_warning(const Lap& lap, const Mesh& mesh) {
+  const Lap::LiftHold& h = lap.lift_hold;
+  if (!h.held) return std::nullopt;
+  char buf[400];
+  std::snprintf(buf, sizeof buf,
+                "the %s axle has no load left at %s km/h at a steady speed (from %.0f m): the "
+                "drag moment and the aero balance take it all, and faster the car would pitch "
+                "over, so it is held there at 0 g (phase top_speed) on %.1f %% of the lap "
+                "distance; check gives this as the top speed's limit",
+                h.front ? "front" : "rear", kph_text(lap.speed_mps[h.first]).c_str(),
+                mesh.s_m[h.first], 100.0 * h.length_m / mesh.length_m);
+  return std::string(buf);
+}
 }  // namespace
 
 std::vector<RangeNote> range_notes(const Envelope& env) {
@@ -167,6 +184,8 @@ std::vector<RangeNote> range_notes(const Envelope& env) {
     }
     case TopSpeedLimit::ceiling:
     case TopSpeedLimit::traction:  // not a table's top (check's alone)
+    case TopSpeedLimit::front_lift:
+    case TopSpeedLimit::rear_lift:
       why = "the ceiling of the tables";
       break;
   }
@@ -366,6 +385,7 @@ LapSummary summarize(const Lap& lap, const Mesh& mesh, const Track& track,
     for (std::string& w : lap_range_warnings(env, lap, mesh)) s.warnings.push_back(std::move(w));
     if (std::optional<std::string> w = over_usage_warning(env, lap, mesh)) s.warnings.push_back(*w);
     if (std::optional<std::string> w = tyre_peak_warning(env, lap, mesh)) s.warnings.push_back(*w);
+    if (std::optional<std::string> w = lift_hold_warning(lap, mesh)) s.warnings.push_back(*w);
   }
 
   const std::vector<double> sectors = full_detail ? lapped_sectors_m(track) : std::vector<double>{};

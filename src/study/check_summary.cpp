@@ -23,14 +23,21 @@ EnvelopeOptions without_level_tables() {
 }
 
 // The level-road top speed of the car's model: the least of the engine's (drag, rev limit or
-// the tables' ceiling) and the tyres' (the speed beyond which the driven axle, or the point
+// the tables' ceiling), the tyres' (the speed beyond which the driven axle, or the point
 // mass's four tyres, cannot carry the resistance: a low mu_long, or tyres loaded past their
-// force's peak by downforce). A lap on a long enough straight reaches it, not the engine's.
+// force's peak by downforce) and, on the axle model, the axles' (the speed at which the drag
+// moment or the aero balance leaves an axle no load: level_lift_speed). A lap on a long enough
+// straight reaches it, not the engine's.
 std::pair<double, TopSpeedLimit> level_top_speed(const Envelope& env) {
   const double engine = env.top_speed_level_mps();
   const double tyres = level_traction_speed_mps(env);
-  if (tyres < engine) return {tyres, TopSpeedLimit::traction};
-  return {engine, env.top_speed_limit()};
+  const LevelLift lift = level_lift_speed(env);
+  std::pair<double, TopSpeedLimit> top{engine, env.top_speed_limit()};
+  if (tyres < top.first) top = {tyres, TopSpeedLimit::traction};
+  if (lift.axle != SteadyLimit::grip && lift.speed_mps < top.first)
+    top = {lift.speed_mps, lift.axle == SteadyLimit::front_lift ? TopSpeedLimit::front_lift
+                                                                : TopSpeedLimit::rear_lift};
+  return top;
 }
 // Where the heaviest tyre on a level straight at steady speed (a_x = 0, no lateral force)
 // reaches the load of its force's peak: scanned in steps of 0.5 m/s up to the tables' top, the

@@ -32,13 +32,16 @@ Circuit lay_out(const Track& track, const Air& air) {
 }
 
 namespace {
-// An open track's start speed above what the car can hold there is bad input (the track's).
-void check_start_speed(const Circuit& c, const SteadyProfile& steady) {
-  if (!c.track.closed && c.track.start_speed_mps > steady.speed_mps.front() * (1 + 1e-9)) {
+// An open track's start speed above what the car can hold there is bad input (the track's):
+// above the tyres' limit at the start (or an axle's lift, or the top of the car's tables). A
+// start above the engine's steady limit alone is a flying start: the car slows to it
+// (LapSolver::start_limit_mps).
+void check_start_speed(const Circuit& c, const LapSolver& solver) {
+  if (!c.track.closed && c.track.start_speed_mps > solver.start_limit_mps() * (1 + 1e-9)) {
     char buf[160];
     std::snprintf(buf, sizeof buf,
                   "start_speed %.1f km/h is more than the car can hold at the start (%.1f km/h)",
-                  c.track.start_speed_mps / units::kph, steady.speed_mps.front() / units::kph);
+                  c.track.start_speed_mps / units::kph, solver.start_limit_mps() / units::kph);
     throw InvalidInput(c.track.subject(), broken_rule("start_speed", buf));
   }
 }
@@ -47,14 +50,14 @@ void check_start_speed(const Circuit& c, const SteadyProfile& steady) {
 LapRun run_lap(const ConfiguredCar& car, const Circuit& c, LapSolver& solver) {
   const Envelope env(car, c.air);
   const Lap& lap = solver.solve(env, c.mesh, c.track.start_speed_mps);
-  check_start_speed(c, solver.steady());
+  check_start_speed(c, solver);
   LapRun r{lap, summarize(lap, c.mesh, c.track, c.corners, env)};
   return r;
 }
 
 const Lap& solve_speed_only(const Envelope& env, const Circuit& c, LapSolver& solver) {
   const Lap& lap = solver.solve_speed(env, c.mesh, c.track.start_speed_mps);
-  check_start_speed(c, solver.steady());
+  check_start_speed(c, solver);
   return lap;
 }
 

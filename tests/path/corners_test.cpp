@@ -85,6 +85,42 @@ TEST_CASE("a run turning less than 5 deg is a wiggle, not a corner") {
 }
 
 TEST_CASE(
+    "a hairpin over 5 m is a corner wherever the mesh points fall (README, \"Physics and "
+    "assumptions\")") {
+  // Arc length R theta (the geometry): 3 m x 110 deg = 5.76 m, over the 5 m floor. Measured
+  // between its first and last mesh points it read 4.996 m at a 0.5 m mesh (11 points) and was
+  // dropped; its points' cells measure 11 steps (5.5 m). The straight before it moves the
+  // points along the arc by a tenth of a step at a time; meshes from 0.1 m to 0.5 m.
+  for (const double mesh : {0.1, 0.25, 0.4, 0.5}) {
+    for (const double lead : {200.0, 200.05, 200.1, 200.15, 200.2, 200.25, 200.3, 200.35, 200.4}) {
+      CAPTURE(mesh);
+      CAPTURE(lead);
+      Track t = test::straight_track(1.0, mesh, 0.0);
+      t.segments = {test::straight(lead), test::arc(3.0, 110 * units::deg, true),
+                    test::straight(100)};
+      const Mesh m = build_mesh(t, mesh);
+      const auto c = find_corners(m);
+      REQUIRE(c.size() == 1);
+      CHECK(c[0].direction == 1);
+    }
+  }
+}
+
+TEST_CASE("a short run that turns sharply is a corner; a short gentle one is a kink") {
+  // 70 deg at radius 4 m: 4.89 m of arc (R theta), under the 5 m floor, but a turn of 70 deg
+  // is no kink (README, "Physics and assumptions", Corners: runs under 5 m stay corners from 30
+  // deg). 20 deg at radius 10 m: 3.49 m, and under 30 deg: a kink, dropped.
+  const Mesh sharp =
+      laid({test::straight(200), test::arc(4.0, 70 * units::deg, false), test::straight(100)});
+  const auto c = find_corners(sharp);
+  REQUIRE(c.size() == 1);
+  CHECK(c[0].direction == -1);
+  const Mesh kink =
+      laid({test::straight(200), test::arc(10.0, 20 * units::deg, true), test::straight(100)});
+  CHECK(find_corners(kink).empty());
+}
+
+TEST_CASE(
     "a short opposite wiggle inside one corner does not split it (README, \"Physics\", corners)") {
   // Right at radius 40 m for 60 m (86 deg), a 3 m left kink at radius 60 m (2.9 deg: a wiggle,
   // under both 5 m and 5 deg), then right again for 60 m. The two right runs are 3 m apart,
@@ -128,6 +164,10 @@ TEST_CASE("corner options out of range are a typed error naming the option") {
   o.min_length_m = -1.0;
   CHECK(test::describe(o.validate()) ==
         "min_length_m: value -1 is out of range: must be >= 0 in SI units");
+  o = CornerOptions{};
+  o.sharp_turn_deg = -1.0;
+  CHECK(test::describe(o.validate()) == "sharp_turn_deg: value -1 is out of range: must be >= 0");
+  o.min_length_m = -1.0;
   o.enter_curvature_1pm = 0.0;
   CHECK(o.validate()->field == "enter_curvature_1pm");  // the first in order
   const Mesh m = build_mesh(test::circle_track(50.0, 0.5), 0.5);

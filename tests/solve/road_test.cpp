@@ -146,3 +146,129 @@ TEST_CASE("trim zones: a zone over one of two equal straights halves the trim's 
   CHECK(everywhere < none);
   CHECK(near(none - in_zone, 0.5 * (none - everywhere), 1e-3));
 }
+
+TEST_CASE("off camber past -atan(1/mu): the banked circle's speed, not the top of the tables") {
+  // REFERENCES, banked road, with the downforce q ClA added to the normal load (no drag, so no
+  // longitudinal force): m (v^2 k cos b - g sin b) = mu (m g cos b + m v^2 k sin b + c v^2),
+  // c = rho ClA / 2, so v^2 = m g (sin b + mu cos b) / (m k (cos b - mu sin b) - mu c); c = 0 is
+  // the Banking formula of README, "Physics and assumptions". Off camber (b < 0) the normal
+  // load falls with the speed and reaches zero: the tyres hold nothing beyond, and the limit above
+  // is the only one. The point mass took a bank steeper than -atan(1/mu) (-39.8 deg at mu 1.2) at
+  // the top of its tables: its search read the ratios of a negative load squared. Banks either side
+  // of that angle, a left and a right turn (a segment's bank is relative to its turn: -b is off
+  // camber both ways), without and with downforce (balance = front weight share: both axles alike,
+  // so the axle model has the point mass's limit).
+  const double radius = 30.0, mu = 1.2, m = 700.0;
+  for (const double cla : {0.0, 1.5}) {
+    for (const double bank_deg : {-30.0, -39.0, -41.0, -45.0}) {
+      for (const bool left : {true, false}) {
+        for (const VehicleModel model : {VehicleModel::point_mass, VehicleModel::axle}) {
+          CAPTURE(cla);
+          CAPTURE(bank_deg);
+          CAPTURE(left);
+          Car car = test::plain_car(m, mu);
+          car.model = model;
+          car.configs.front().cla_m2 = {cla};
+          Track t = test::circle_track(radius, 0.5);
+          t.segments.front() = test::arc(radius, 2 * units::pi, left);
+          t.segments.front().bank_rad = bank_deg * units::deg;
+          const Circuit c = lay_out(t, sea_level);
+          const Lap& lap = run_lap(test::configured(car), c).lap;
+          const double b = bank_deg * units::deg, k = 1.0 / radius;
+          const double q = 0.5 * sea_level.density_kg_m3 * cla;
+          const double v = std::sqrt(m * units::g0 * (std::sin(b) + mu * std::cos(b)) /
+                                     (m * k * (std::cos(b) - mu * std::sin(b)) - mu * q));
+          // As the banked circle above: the root finder's 2^-36 on a polygon of 0.5 m chords.
+          const auto [lo, hi] = speed_range(lap);
+          CHECK(near(lo, v, 1e-6));
+          CHECK(near(hi, v, 1e-6));
+        }
+      }
+    }
+  }
+}
+
+TEST_CASE("a drag moment that unloads the front axle holds the axle model at the lift speed") {
+  // Moments about the rear contact patch (README, "Physics and assumptions", axle loads, a_x = 0,
+  // no downforce): front = W f - D z_D / L, zero at q CdA = W f L / z_D, v^2 = 2 W f L / (rho CdA
+  // z_D). Faster, the car would pitch over on its rear axle: the axle model's steady limit, phase
+  // top_speed, and a warning in the lap's summary. The engine alone would go faster (P = q CdA v:
+  // 60 m/s at 400 kW), the rear tyres carry the drag to spare.
+  const double m = 640.0, cda = 3.0, zd = 2.5;
+  Car car = test::plain_car(m, 1.5, 400e3);
+  car.model = VehicleModel::axle;
+  car.drag_height_m = zd;
+  car.configs.front().cda_m2 = {cda};
+  const double rho = sea_level.density_kg_m3;
+  const double v =
+      std::sqrt(2.0 * m * units::g0 * car.front_weight * car.wheelbase_m / (rho * cda * zd));
+  REQUIRE(v < 0.8 * std::cbrt(2.0 * 400e3 / (rho * cda)));
+  const Circuit c = lay_out(test::straight_track(3000.0, 0.5, 0.0), sea_level);
+  const Envelope env(test::configured(car), sea_level);
+  const SteadyProfile p = steady_profile(env, c.mesh);
+  CHECK(p.limit[100] == SteadyLimit::front_lift);
+  // A bracketing root (TOMS 748 to 2^-36) of the same moment balance on the envelope's rows:
+  // 1e-9.
+  CHECK(near(p.speed_mps[100], v, 1e-9));
+  const LevelLift lift = level_lift_speed(env);
+  CHECK(lift.axle == SteadyLimit::front_lift);
+  CHECK(near(lift.speed_mps, v, 1e-9));
+
+  const LapRun r = run_lap(test::configured(car), c);
+  // The approach to the limit is exponential (the front's bound on a_x falls linearly in v^2,
+  // some 60 m per e-fold here): reached within 1e-9 and clipped to it long before 3 km.
+  CHECK(near(*std::max_element(r.lap.speed_mps.begin(), r.lap.speed_mps.end()), v, 1e-9));
+  CHECK(r.lap.phase.back() == Phase::top_speed);
+  CHECK(r.lap.lift_hold.held);
+  CHECK(r.lap.lift_hold.front);
+  int warned = 0;
+  for (const std::string& w : r.summary.warnings)
+    warned += w.rfind("the front axle has no load left at ", 0) == 0;
+  CHECK(warned == 1);
+
+  // The point mass shares the load over four tyres: no lift limit, the engine's top speed.
+  car.model = VehicleModel::point_mass;
+  const LapRun pm = run_lap(test::configured(car), c);
+  CHECK_FALSE(pm.lap.lift_hold.held);
+  CHECK(*std::max_element(pm.lap.speed_mps.begin(), pm.lap.speed_mps.end()) > 1.2 * v);
+  // Nor does an ordinary car (drag height 0.3 m): no hold, no warning.
+  car.model = VehicleModel::axle;
+  car.drag_height_m = 0.3;
+  const LapRun plain = run_lap(test::configured(car), c);
+  CHECK_FALSE(plain.lap.lift_hold.held);
+  for (const std::string& w : plain.summary.warnings) CHECK(w.find("no load left") == w.npos);
+}
+
+TEST_CASE("a flying start above the top speed slows by drag: m v dv/ds = P / v - k v^2") {
+  // Constant power P against drag k v^2 (k = rho CdA / 2, no rolling resistance, efficiency 1,
+  // no rotating inertia): m v^2 dv / (P - k v^3) = ds integrates to
+  // k v^3 = P + (k v0^3 - P) exp(-3 k s / m) (closed form). A start 10 % above the top speed
+  // v_top = (P / k)^(1/3) on a straight is no error: the car slows towards v_top.
+  const double m = 700.0, power = 300e3, cda = 1.0;
+  Car car = test::plain_car(m, 1.5, power);
+  car.configs.front().cda_m2 = {cda};
+  const double k = 0.5 * sea_level.density_kg_m3 * cda;
+  const double v_top = std::cbrt(power / k), v0 = 1.1 * v_top;
+  const Circuit c = lay_out(test::straight_track(3000.0, 0.5, v0), sea_level);
+  const LapRun r = run_lap(test::configured(car), c);
+  CHECK(r.lap.speed_mps.front() == v0);
+  // Above the engine's steady limit at full drive: `top_speed` (README, "Physics and assumptions",
+  // Phases).
+  CHECK(r.lap.phase[10] == Phase::top_speed);
+  for (const double s : {50.0, 200.0, 600.0}) {
+    const auto i = static_cast<std::size_t>(std::lround(s / c.mesh.step_m));
+    const double x = c.mesh.s_m[i];
+    const double v = std::cbrt((power + (k * v0 * v0 * v0 - power) * std::exp(-3 * k * x / m)) / k);
+    CAPTURE(x);
+    // The exponential step is second order where the drive P / v is not affine in v^2:
+    // 1e-6 at a 0.5 m mesh (the lap's own mesh error, README, "Performance").
+    CHECK(near(r.lap.speed_mps[i], v, 1e-6));
+  }
+  // Slowing all the way, never below the top speed (the engine's steady limit, 0.01 %: its
+  // root on the envelope's tables).
+  bool slowing = true;
+  for (std::size_t i = 1; i < r.lap.speed_mps.size(); ++i)
+    slowing = slowing && r.lap.speed_mps[i] <= r.lap.speed_mps[i - 1];
+  CHECK(slowing);
+  CHECK(near(r.lap.speed_mps.back(), v_top, 1e-3));
+}

@@ -4,6 +4,7 @@
 #include <doctest/doctest.h>
 
 #include <cmath>
+#include <string>
 
 #include "lapwing/base/units.hpp"
 #include "lapwing/io/car_file.hpp"
@@ -224,6 +225,37 @@ TEST_CASE("check's top speed is the tyres' where they cannot carry the resistanc
   const ConfigCheck axle = check_config(car, 0, air);
   CHECK(axle.top_speed_limit == TopSpeedLimit::traction);
   CHECK(axle.top_speed_mps < 0.9 * v);
+}
+
+TEST_CASE("check's top speed is the front lift's where the drag moment unloads the front axle") {
+  // Moments about the rear contact patch (REFERENCES.md, "Longitudinal load transfer"; the
+  // axle loads of README, "Physics and assumptions", at a_x = 0): front = W f + DF bal -
+  // D z_D / L. Without downforce it is zero at v^2 = 2 W f L / (rho CdA z_D) (closed form):
+  // faster, the car would pitch over. The tester's car lapped at that speed while check gave the
+  // engine's, 3.2 x higher.
+  const double cda = 3.0, zd = 2.5;
+  Car car = aero_car(cda, 0.0, 0.45, zd);
+  car.model = VehicleModel::axle;
+  const Air air = make_air(AirSpec{});
+  const double v = std::sqrt(2.0 * car.mass_kg * units::g0 * car.front_weight * car.wheelbase_m /
+                             (air.density_kg_m3 * cda * zd));
+  REQUIRE(v < 0.8 * top_speed(400e3, air.density_kg_m3, cda));
+  const ConfigCheck c = check_config(car, 0, air);
+  CHECK(c.top_speed_limit == TopSpeedLimit::front_lift);
+  CHECK(std::string(top_speed_limit_name(c.top_speed_limit)) == "front lift");
+  // 1e-9: a bracketing root (TOMS 748 to 2^-36 relative) of the same moment balance.
+  CHECK(near(c.top_speed_mps, v, 1e-9));
+  // The point mass does not share load between axles: the engine's top speed (0.1 %, its root
+  // on the speed table).
+  car.model = VehicleModel::point_mass;
+  const ConfigCheck pm = check_config(car, 0, air);
+  CHECK(pm.top_speed_limit == TopSpeedLimit::drag);
+  CHECK(near(pm.top_speed_mps, top_speed(400e3, air.density_kg_m3, cda), 1e-3));
+  // A drag height of 0.3 m leaves the front loaded to the top of the tables: the rear tyres'
+  // traction sets the top speed (mu 1.5 x their load < the drag at 60 m/s), as before.
+  car.model = VehicleModel::axle;
+  car.drag_height_m = 0.3;
+  CHECK(check_config(car, 0, air).top_speed_limit == TopSpeedLimit::traction);
 }
 
 TEST_CASE("check places the load where a tyre's force peaks: Fn (1 + s) / (2 s) (closed form)") {

@@ -16,7 +16,8 @@ struct CornerOptions {
   double enter_curvature_1pm = 1.0 / 500.0;  // a corner starts where the radius falls below 500 m
   double exit_curvature_1pm = 1.0 / 800.0;   // ... and ends where it rises above 800 m
   double merge_gap_m = 20.0;                 // same-direction corners closer than this merge
-  double min_length_m = 5.0;                 // shorter runs are kinks, not corners
+  double min_length_m = 5.0;                 // shorter runs are kinks, not corners, ...
+  double sharp_turn_deg = 30.0;              // ... unless they turn this much (a tight hairpin)
   double min_turn_deg = 5.0;                 // runs turning less are wiggles (survey noise)
 
   /// Positive curvatures, the exit one at most the entry one (hysteresis), lengths and the

@@ -45,13 +45,15 @@ struct EnvelopeOptions {
 
 /// What sets the top of an Envelope's tables, and so the level-road top speed check reports.
 enum class TopSpeedLimit {
-  drag,       // drive equals drag + rolling resistance below the tables' top
-  rev_limit,  // the rev limit in top gear: the engine turns no faster (the tables' top)
-  ceiling,    // EnvelopeOptions::speed_ceiling_mps: no finite top speed below it
-  traction    // check only (level_traction_speed_mps): the tyres cannot carry the resistance
-              // beyond; never an Envelope's own limit
+  drag,        // drive equals drag + rolling resistance below the tables' top
+  rev_limit,   // the rev limit in top gear: the engine turns no faster (the tables' top)
+  ceiling,     // EnvelopeOptions::speed_ceiling_mps: no finite top speed below it
+  traction,    // check only (level_traction_speed_mps): the tyres cannot carry the resistance
+               // beyond; never an Envelope's own limit
+  front_lift,  // check only (level_lift_speed, axle model): the front axle's load at a_x = 0
+  rear_lift    // (or the rear's) reaches zero beyond; never an Envelope's own limit
 };
-/// "drag", "rev limit", "table ceiling", "traction".
+/// "drag", "rev limit", "table ceiling", "traction", "front lift", "rear lift".
 const char* top_speed_limit_name(TopSpeedLimit l);
 
 /// A car with one config applied (ConfiguredCar) in one air, tabulated over speed.

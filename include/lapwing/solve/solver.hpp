@@ -18,8 +18,13 @@ namespace lapwing {
 enum class Phase : std::uint8_t { accelerate, brake, corner, shift, top_speed };
 std::string_view phase_name(Phase p);
 
-/// Why the steady speed at a point is what it is.
-enum class SteadyLimit : std::uint8_t { grip, engine };
+/// Why the steady speed at a point is what it is: the tyres, the engine, or (axle model) an
+/// axle's load at a_x = 0 reaching zero (the drag moment and the aero balance lift it: faster,
+/// the car would pitch over on that axle).
+enum class SteadyLimit : std::uint8_t { grip, engine, front_lift, rear_lift };
+constexpr bool lift_limit(SteadyLimit l) {
+  return l == SteadyLimit::front_lift || l == SteadyLimit::rear_lift;
+}
 
 /// A point whose speed is within this share of its steady limit is on that limit, whichever
 /// sweep set it (0.05 km/h at 100 km/h; the corner table's tie, summary.cpp): a limit that
@@ -30,8 +35,9 @@ inline constexpr double phase_on_limit = 5e-4;
 
 /// The phase at a point, the one classification: on the steady limit (`on_limit`: within
 /// phase_on_limit of it), `corner` when the tyres set that limit and `top_speed` when the engine
-/// does; else `brake` where the backward sweep is the slower (`braking`); else `shift` where the
-/// drive was cut for an upshift; else `accelerate`.
+/// or an axle's lift does (the most the car can hold on that road under drive); else `brake` where
+/// the backward sweep is the slower (`braking`); else `shift` where the drive was cut for an
+/// upshift; else `accelerate`.
 constexpr Phase classify_phase(bool on_limit, bool braking, SteadyLimit limit, bool cut) {
   if (on_limit) return limit == SteadyLimit::grip ? Phase::corner : Phase::top_speed;
   if (braking) return Phase::brake;
@@ -48,7 +54,8 @@ constexpr bool full_drive(Phase p) {
 constexpr bool under_drive(Phase p) {
   return full_drive(p) || p == Phase::shift;
 }
-/// On a steady limit: the speed the tyres (corner) or the engine (top_speed) can hold.
+/// On a steady limit: the speed the tyres (corner) or the engine or an axle's lift (top_speed)
+/// can hold.
 constexpr bool on_steady_limit(Phase p) {
   return p == Phase::corner || p == Phase::top_speed;
 }
@@ -70,6 +77,17 @@ SteadyProfile steady_profile(const Envelope& env, const Mesh& mesh);
 /// max_speed_mps() where they carry it all the way to the tables' top. On the straight-line
 /// trim's rows where the config has one (as top_speed_level_mps).
 double level_traction_speed_mps(const Envelope& env);
+/// The axle model's lift limit on a level straight in still air (as steady_profile finds it):
+/// the highest speed at which both axle loads at a_x = 0 stay above zero (model/loads.hpp,
+/// axle_loads: front = W f + DF bal - D z_D / L), and the axle that lifts beyond it. Faster
+/// than that the car cannot hold its speed: the drag moment (or the aero balance) would pitch
+/// it over. {max_speed_mps(), grip} where neither axle lifts up to the tables' top, and for the
+/// point mass, whose four tyres share the load equally.
+struct LevelLift {
+  double speed_mps;
+  SteadyLimit axle;  // front_lift, rear_lift, or grip for none
+};
+LevelLift level_lift_speed(const Envelope& env);
 /// The same, into `out` (its storage reused). The mesh's two halves are each solved from a fresh
 /// start (the root searches' guesses are not carried across the middle), as a lap on two
 /// threads solves them (LapSolver::set_threads): the same limits.
@@ -131,6 +149,16 @@ struct Lap {
   std::vector<Phase> phase;
   std::vector<std::uint8_t> trimmed;  // straight-line trim in use
   double lap_time_s = 0.0;
+  // Where the speed is held on an axle's lift limit (SteadyLimit::front_lift or rear_lift: the
+  // axle has no load left at a_x = 0, phase top_speed): the first such point, the distance
+  // held (m: each interval's half at each end, as the lap's shares count), and the axle (the
+  // first point's). `held` false: nowhere.
+  struct LiftHold {
+    bool held = false, front = true;
+    std::size_t first = 0;
+    double length_m = 0.0;
+  };
+  LiftHold lift_hold;
   bool has_channels = false;  // accelerations, gear, forces, loads, usage filled
   bool has_loads = false;     // accelerations, forces, loads and trim filled (ChannelSet::loads)
   // The accelerations, aero forces and axle loads are filled where the speed is at least this,
@@ -211,6 +239,11 @@ class LapSolver {
   /// The steady limits of the last speed solve (working state of the solve, not part of the
   /// lap: a lap kept or written out does not carry them). Valid until the next solve.
   const SteadyProfile& steady() const { return steady_; }
+  /// The highest start speed the last speed solve could hold on an open mesh: the steady limit
+  /// at the first point, or for a flying start above the engine's steady limit there (the car
+  /// slows to it) the tyres' and the axles' limit alone. A start above it is clipped to it, and
+  /// is the track's error (run_lap).
+  double start_limit_mps() const { return start_limit_mps_; }
 
  private:
   /// The speed solve into lap_, its channels left as they were (has_channels false).
@@ -226,6 +259,8 @@ class LapSolver {
   std::unique_ptr<SecondThread> second_;
   Lap lap_;
   SteadyProfile steady_;
+  SteadyProfile flying_;  // a flying start's limits (speed_pass), used only for one
+  double start_limit_mps_ = 0.0;
   SweepResult forward_, backward_;
 };
 
