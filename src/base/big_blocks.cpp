@@ -2,7 +2,9 @@
 
 #include <sys/mman.h>
 
+#include <algorithm>
 #include <cstdint>
+#include <cstdlib>
 #include <iterator>
 #include <new>
 
@@ -17,8 +19,10 @@ std::size_t round_up(std::size_t n, std::size_t to) {
 BigBlocks::BigBlocks(std::size_t reserve_bytes) {
   const std::size_t size = round_up(reserve_bytes, huge_page);
   // One huge page more than asked, so that a huge-page-aligned range of `size` lies inside.
-  // MAP_NORESERVE: address space only; a page takes memory when first written.
-  void* raw = ::mmap(nullptr, size + huge_page, PROT_READ | PROT_WRITE,
+  // Address space only, not readable or writable (PROT_NONE): it counts against no memory limit
+  // or commit charge (strict overcommit included) and a core dump writes none of it; allocate()
+  // opens it for reading and writing as the top grows (commit).
+  void* raw = ::mmap(nullptr, size + huge_page, PROT_NONE,
                      MAP_PRIVATE | MAP_ANONYMOUS | MAP_NORESERVE, -1, 0);
   if (raw == MAP_FAILED) return;
   const auto at = reinterpret_cast<std::uintptr_t>(raw);
@@ -31,9 +35,28 @@ BigBlocks::BigBlocks(std::size_t reserve_bytes) {
   size_ = size;
 #ifdef MADV_HUGEPAGE
   // Refused where the kernel has no transparent huge pages: the blocks are then of small pages,
-  // as the C library's would be.
+  // as the C library's would be. The flag stays with the parts mprotect opens.
   ::madvise(base_, size_, MADV_HUGEPAGE);
 #endif
+}
+
+bool BigBlocks::commit(std::size_t to) {
+  if (to <= committed_) return true;
+  // In steps of 32 MB at least (a system call per step), never beyond the range.
+  const std::size_t want =
+      std::min(size_, std::max(round_up(to, huge_page), committed_ + commit_step));
+  if (::mprotect(base_ + committed_, want - committed_, PROT_READ | PROT_WRITE) != 0) {
+    // The system refuses the memory (a limit on data, strict overcommit): a step of just what
+    // is asked for, else none.
+    const std::size_t least = round_up(to, huge_page);
+    if (least >= want ||
+        ::mprotect(base_ + committed_, least - committed_, PROT_READ | PROT_WRITE) != 0)
+      return false;
+    committed_ = least;
+    return true;
+  }
+  committed_ = want;
+  return true;
 }
 
 BigBlocks::~BigBlocks() {
@@ -54,7 +77,7 @@ void* BigBlocks::allocate(std::size_t bytes) {
       break;
     }
   if (offset == size_) {
-    if (n > size_ - top_) return nullptr;
+    if (n > size_ - top_ || !commit(top_ + n)) return nullptr;
     offset = top_;
     top_ += n;
   }
@@ -65,7 +88,9 @@ void* BigBlocks::allocate(std::size_t bytes) {
 void BigBlocks::deallocate(void* p) {
   const std::lock_guard lock(mutex_);
   const auto it = used_.find(static_cast<std::size_t>(static_cast<char*>(p) - base_));
-  if (it == used_.end()) return;  // not a block of this arena's: nothing to free
+  // Not the start of a block handed out (freed twice, or never allocated): a program error,
+  // stopped here as the C library's free stops one.
+  if (it == used_.end()) std::abort();
   std::size_t from = it->first, to = it->first + it->second;
   used_.erase(it);
   // Coalesced with the free extents either side.

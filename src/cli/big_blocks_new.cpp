@@ -1,10 +1,11 @@
 // The lapwing executable's operator new and delete: requests of 64 KB or more (a lap's per-point
-// buffers, the mesh's) from an arena in transparent huge pages (base/big_blocks.hpp), the rest
-// from the C library as before. Only this program's: the library and the Python module allocate
-// as their host does. Left out under AddressSanitizer, whose own operator new checks every block.
+// buffers, the mesh's; from any code in the process) from an arena in transparent huge pages
+// (base/big_blocks.hpp), the rest from the C library as before. Only this program's: the Python
+// module and lapwing_bench allocate as their host does. Left out under the sanitizers, whose own
+// operator new checks every block (GCC says so by __SANITIZE_ADDRESS__ and __SANITIZE_THREAD__,
+// clang by __has_feature).
 #include <sys/resource.h>
 
-#include <algorithm>
 #include <atomic>
 #include <cstddef>
 #include <cstdlib>
@@ -12,7 +13,19 @@
 
 #include "lapwing/base/big_blocks.hpp"
 
-#if !defined(__SANITIZE_ADDRESS__)
+#if defined(__SANITIZE_ADDRESS__) || defined(__SANITIZE_THREAD__)
+#define LAPWING_BIG_BLOCKS 0
+#elif defined(__has_feature)
+#if __has_feature(address_sanitizer) || __has_feature(hwaddress_sanitizer) || \
+    __has_feature(memory_sanitizer) || __has_feature(thread_sanitizer)
+#define LAPWING_BIG_BLOCKS 0
+#endif
+#endif
+#ifndef LAPWING_BIG_BLOCKS
+#define LAPWING_BIG_BLOCKS 1
+#endif
+
+#if LAPWING_BIG_BLOCKS
 
 namespace {
 
@@ -25,15 +38,14 @@ std::atomic<lapwing::BigBlocks*> made{nullptr};
 // destructor after main returns.
 lapwing::BigBlocks* arena() {
   alignas(lapwing::BigBlocks) static unsigned char storage[sizeof(lapwing::BigBlocks)];
-  // 64 GB of address space (room for a mesh of tens of millions of points, and no memory until
-  // written), or half of what a limit on the process's address space allows (ulimit -v), so
-  // that the C library keeps the other half.
+  // 64 GB of address space: room for a mesh of tens of millions of points, and no memory until
+  // used. None under a limit on the process's address space (ulimit -v): the reservation counts
+  // against it whole, and what it took the C library, thread stacks and libraries would miss
+  // (a trade on 8 threads under such a limit ran out of room for its threads).
   static lapwing::BigBlocks* const a = [] {
-    std::size_t want = std::size_t{64} << 30;
     rlimit limit{};
-    if (::getrlimit(RLIMIT_AS, &limit) == 0 && limit.rlim_cur != RLIM_INFINITY)
-      want = std::min<std::size_t>(want, static_cast<std::size_t>(limit.rlim_cur / 2));
-    auto* b = new (storage) lapwing::BigBlocks(want);
+    const bool limited = ::getrlimit(RLIMIT_AS, &limit) != 0 || limit.rlim_cur != RLIM_INFINITY;
+    auto* b = new (storage) lapwing::BigBlocks(limited ? 0 : std::size_t{64} << 30);
     made.store(b, std::memory_order_release);
     return b;
   }();

@@ -233,11 +233,14 @@ class PendingFile {
       std::string name = (folder / (prefix + "XXXXXX")).string();
       fd_ = ::mkstemp(name.data());
       if (fd_ < 0) fail("cannot write " + shown_.string(), errno);
-      if (::flock(fd_, LOCK_EX) == 0 && still_named(fd_, name)) {
+      const bool locked = ::flock(fd_, LOCK_EX) == 0;
+      const int err = errno;
+      const bool named = still_named(fd_, name);
+      if (locked && named) {
         tmp_ = name;
         break;
       }
-      const int err = errno;
+      if (named) ::unlink(name.c_str());  // the lock failed: nothing of it is left behind
       ::close(fd_);
       fd_ = -1;
       if (attempt == temporary_attempts) fail("cannot write " + shown_.string(), err);

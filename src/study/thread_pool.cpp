@@ -4,6 +4,7 @@
 #include <atomic>
 #include <exception>
 #include <mutex>
+#include <system_error>
 #include <thread>
 #include <vector>
 
@@ -39,8 +40,18 @@ void parallel_for(std::size_t count, unsigned threads,
   if (threads <= 1) {
     worker();
   } else {
+    // A thread the system cannot start (no room for its stack under a memory limit) is one
+    // fewer: the jobs go to the threads that did start, or to this one (each job's result is
+    // its own, whichever thread runs it). Unwinding with threads running would end the program.
     std::vector<std::thread> pool;
-    for (unsigned t = 0; t < threads; ++t) pool.emplace_back(worker);
+    for (unsigned t = 0; t < threads; ++t) {
+      try {
+        pool.emplace_back(worker);
+      } catch (const std::system_error&) {
+        break;
+      }
+    }
+    if (pool.empty()) worker();
     for (auto& t : pool) t.join();
   }
   if (failure) std::rethrow_exception(failure);

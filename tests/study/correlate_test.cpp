@@ -116,6 +116,10 @@ TEST_CASE("another car's lap does not correlate within the noise, and the time d
   CHECK(near(k.time_delta_s.back(), k.lap_time_sim_s - k.lap_time_log_s, 1e-9));
   // The slower car is slower at every apex.
   for (const CornerError& e : k.corners) CHECK(e.sim_apex_mps < e.log_apex_mps);
+  // Yet its speed has the lap's shape: it correlates above 0.9, clear of the bound under which
+  // an alignment is warned of (correlate_min_trusted_correlation), and nothing is warned of.
+  CHECK(k.alignment.correlation > 0.9);
+  CHECK(alignment_warnings(k.alignment).empty());
 }
 
 TEST_CASE("a log in the wrong unit or too short for the track is refused at a row") {

@@ -7,8 +7,9 @@
 // library's allocator does not give blocks of a few hundred KB. BigBlocks keeps one reserved
 // range so marked and hands out page-aligned blocks from it, first fit, freed blocks coalesced
 // and their whole huge pages given back to the system (so that a long study's memory follows
-// what it holds). The lapwing executable's operator new sends large requests here
-// (cli/big_blocks_new.cpp); the library itself allocates as it always did.
+// what it holds). The lapwing executable's operator new sends every request of 64 KB or more
+// here, the library's code in it included (cli/big_blocks_new.cpp); other programs linking the
+// library (the Python module, lapwing_bench) allocate as their host does.
 #pragma once
 
 #include <cstddef>
@@ -22,8 +23,9 @@ class BigBlocks {
   static constexpr std::size_t page = std::size_t{4} << 10;
   static constexpr std::size_t huge_page = std::size_t{2} << 20;
   /// Reserves `reserve_bytes` of address space (no memory: pages come when first written), a
-  /// whole number of huge pages, huge-page aligned. Where the system refuses the reservation
-  /// (an address-space limit) the arena is empty and allocate() says so.
+  /// whole number of huge pages, huge-page aligned, opened for use as blocks are handed out.
+  /// Where the system refuses the reservation (an address-space limit) the arena is empty and
+  /// allocate() says so, as it does where the system refuses to open more of it.
   explicit BigBlocks(std::size_t reserve_bytes);
   ~BigBlocks();
   BigBlocks(const BigBlocks&) = delete;
@@ -37,7 +39,9 @@ class BigBlocks {
   bool owns(const void* p) const {
     return static_cast<const char*>(p) >= base_ && static_cast<const char*>(p) < base_ + size_;
   }
-  /// Frees a block of allocate()'s (its whole huge pages back to the system at once).
+  /// Frees a block of allocate()'s (its whole huge pages back to the system at once). Any other
+  /// pointer in the range (freed twice, never allocated) aborts the program, as the C library
+  /// does.
   void deallocate(void* p);
 
   /// The reserved range's size (0: none).
@@ -48,11 +52,14 @@ class BigBlocks {
 
  private:
   void release(std::size_t from, std::size_t to);  // whole huge pages of [from, to) to the system
+  bool commit(std::size_t to);  // [0, to) readable and writable (false: the system refused)
+  static constexpr std::size_t commit_step = std::size_t{32} << 20;
 
   char* base_ = nullptr;
   std::size_t size_ = 0;
   mutable std::mutex mutex_;
   std::size_t top_ = 0;                      // bytes from base_ ever handed out above
+  std::size_t committed_ = 0;                // bytes from base_ open for reading and writing
   std::map<std::size_t, std::size_t> free_;  // offset -> length, coalesced, below top_
   std::map<std::size_t, std::size_t> used_;  // offset -> length of blocks handed out
 };
