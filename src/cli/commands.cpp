@@ -683,6 +683,11 @@ int sweep(const SweepOptions& o, Inputs& in) {
             << "laps    " << r.laps << " in " << fixed(secs, 1) << " s ("
             << fixed(secs > 0 ? static_cast<double>(r.laps) / secs : 0.0, 1) << " laps/s); points "
             << r.run << " run, " << r.skipped << " already in " << o.out << "\n";
+  // The tracks' own warnings (a closure gap, a dropout in the data), once each: a sweep's rows
+  // keep no warnings, and every lap on such a track carries the fault.
+  for (const Circuit& c : circuits)
+    for (const std::string& w : track_warnings(c.track))
+      std::cout << "warning: " << c.track.name << ": " << w << "\n";
   const StoreCounts counts = store_counts(o.out);
   if (counts.not_ok)
     std::cout << "note    " << counts.not_ok

@@ -291,5 +291,16 @@ assert len({r["mass"] for r in rows}) == 7
 EOF
 done
 
+# A track's own fault is said once by the sweep (its rows keep no warnings): Cairnholt with its
+# first downhill grade typed uphill ends about 30 m above its start, every lap climbing it.
+sed '0,/grade: -6 %/s//grade: 6 %/' tracks/cairnholt.yaml > "$tmp/flip.yaml"
+"$bin" sweep --car "$car" --track "$tmp/flip.yaml" --config medium --set mass=700kg:720kg:2 \
+  --out "$tmp/flip.sqlite" > "$tmp/flip.txt" 2>&1
+[ "$(grep -c "^warning: Cairnholt Hill Circuit: the closed lap ends 29.98 m above its start" "$tmp/flip.txt")" = 1 ] &&
+  ok || bad "sweep: the track's closure gap not said once: $(cat "$tmp/flip.txt")"
+"$bin" sweep --car "$car" --track tracks/cairnholt.yaml --config medium --set mass=700kg:720kg:2 \
+  --out "$tmp/sound.sqlite" > "$tmp/sound.txt" 2>&1
+grep -q "^warning:" "$tmp/sound.txt" && bad "sweep: a warning on a sound track: $(cat "$tmp/sound.txt")" || ok
+
 echo "sweep: $pass passed, $fail failed"
 [ "$fail" = 0 ]
