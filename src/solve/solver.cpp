@@ -11,6 +11,7 @@
 #include <sstream>
 #include <stdexcept>
 #include <tuple>
+#include <type_traits>
 #include <utility>
 
 #include "lapwing/base/error.hpp"
@@ -1288,9 +1289,33 @@ void LapSolver::channels_pass(const Envelope& env, const Mesh& mesh, ChannelSet 
   const bool tables = axle_model && env.level_tables();
   // The points from lo to hi (not included). The axle model's hints go from point to point, as
   // in the sweeps, and start afresh at lo.
-  const auto points = [&](std::size_t lo_point, std::size_t hi_point) {
+  // `every`: std::true_type for every channel, std::false_type for the loads alone, so that
+  // each loop is compiled for its own set.
+  const auto points = [&](auto every, std::size_t lo_point, std::size_t hi_point) {
+    constexpr bool All = decltype(every)::value;
     AxleHints drive_hints, brake_hints;
-    const auto point_accel = [&](std::size_t i, const Road& road) {
+    // The axle loads at acceleration ax on the forces f (an axle at its lift limit rounded to
+    // 0 N, below), and what each axle carries there (`usage`).
+    const auto loads_at = [&](const Envelope::RoadForces& f, const Road& road, double ax) {
+      AxleLoads loads =
+          axle_loads(car, f.drag_n, f.downforce_n, f.balance, f.normal_share, road.sin_slope, ax);
+      // An axle at its lift limit (a rear-driven car's front at front_bound with no lateral
+      // force to hold: axle.cpp) carries 0 N, which the sum above rounds to some -1e-12 N: within
+      // 1e-12 of the total load it is written 0. A larger negative load stays as it is (a
+      // defect to see, not to hide).
+      const double rounding = 1e-12 * std::abs(loads.front_n + loads.rear_n);
+      for (double* axle_n : {&loads.front_n, &loads.rear_n})
+        if (*axle_n < 0.0 && *axle_n >= -rounding) *axle_n = 0.0;
+      return loads;
+    };
+    const auto usage = [&](const Envelope::RoadForces& f, const AxleLoads& loads, double ax) {
+      return axle_usage(env, loads, m * ax + f.resistance_n, std::abs(f.lateral_n));
+    };
+    // The acceleration at point i (above) on forces f, read in the state the channels show
+    // (`trimmed`), and, where it was worked on the way, what the axles carry there (`use`,
+    // `used` true).
+    const auto point_accel = [&](std::size_t i, const Road& road, const Envelope::RoadForces& f,
+                                 bool trimmed, AxleUsage& use, bool& used) {
       std::size_t lo = i, hi = i;
       if (i > 0)
         lo = i - 1;
@@ -1313,8 +1338,23 @@ void LapSolver::channels_pass(const Envelope& env, const Mesh& mesh, ChannelSet 
       if (diff == 0.0 && on_steady_limit(lap.phase[i])) return 0.0;
       const double k = std::abs(mesh.curvature_1pm[i]);
       const bool straight = tables && k == 0.0 && level_in_still_air(road);
+      const bool trims = diff >= 0.0 && env.trims(k) && mesh.trim_zone[i];
+      // The axle model off the straight-line tables: where both axles carry what the
+      // difference asks (usage <= 1 on each, at the loads it sets) and, under drive, the engine
+      // gives it, the model's limit is at or above it (its feasible accelerations are an
+      // interval: axle.cpp), and the answer is the difference itself, without the model's
+      // fixed point (two to five evaluations of the ellipse's powers where this test takes
+      // two). It agrees with the model's answer to the model's tolerance (1e-9 m/s^2), where
+      // the difference lies that close under the limit. Only where the channels read the
+      // state the model would (the same trim).
+      if (axle_model && !straight && trims == trimmed) {
+        use = usage(f, loads_at(f, road, diff), diff);
+        const bool engine =
+            diff < 0.0 || diff <= (f.drive_n - f.resistance_n) / env.effective_mass_kg();
+        used = engine && use.front_usage <= 1.0 && use.rear_usage <= 1.0;
+        if (used) return diff;
+      }
       if (diff >= 0.0) {
-        const bool trims = env.trims(k) && mesh.trim_zone[i];
         const Envelope::Rows rows = env.rows(trims);
         return std::min(diff, axle_model
                                   ? drive_accel<true>(env, rows, u, k, road, trims, 1.0, inv,
@@ -1340,31 +1380,25 @@ void LapSolver::channels_pass(const Envelope& env, const Mesh& mesh, ChannelSet 
         continue;
       }
       const Road road = road_at(i);
-      const double ax = point_accel(i, road);
-      lap.long_accel_mps2[i] = ax;
       // Lateral acceleration in the road's plane, signed as the curvature: F_y / m (v^2 kappa on
       // a flat road; less the weight's part down a bank).
       const Envelope::RoadForces f = env.road_forces(env.rows(trimmed), v * v, k, road);
+      AxleUsage tested;
+      bool used = false;
+      const double ax = point_accel(i, road, f, trimmed, tested, used);
+      lap.long_accel_mps2[i] = ax;
       lap.lat_accel_mps2[i] = (mesh.curvature_1pm[i] < 0.0 ? -1.0 : 1.0) * f.lateral_n / m;
       lap.drag_n[i] = f.drag_n;
       lap.downforce_n[i] = f.downforce_n;
       // Axle loads and what each axle carries (axle.hpp): the tyre force along the path is what
       // accelerates the car's mass m plus the resistance (the rotating parts' spin-up is torque
       // inside the driveline, not road force).
-      AxleLoads loads =
-          axle_loads(car, f.drag_n, f.downforce_n, f.balance, f.normal_share, road.sin_slope, ax);
-      // An axle at its lift limit (a rear-driven car's front at front_bound with no lateral
-      // force to hold: axle.cpp) carries 0 N, which the sum above rounds to some -1e-12 N: within
-      // 1e-12 of the total load it is written 0. A larger negative load stays as it is (a
-      // defect to see, not to hide).
-      const double rounding = 1e-12 * std::abs(loads.front_n + loads.rear_n);
-      for (double* axle_n : {&loads.front_n, &loads.rear_n})
-        if (*axle_n < 0.0 && *axle_n >= -rounding) *axle_n = 0.0;
+      const AxleLoads loads = used ? tested.loads : loads_at(f, road, ax);
       lap.front_load_n[i] = loads.front_n;
       lap.rear_load_n[i] = loads.rear_n;
       // The rest for every channel alone (ChannelSet::all): gear and engine speed, the aero
       // balance with the drag moment, the axles' usage (the ellipse's powers).
-      if (!all) continue;
+      if constexpr (!All) continue;
       // Under drive the gear the forward sweep engaged (held through a shift's cut; lap.gear holds
       // it on entry); under braking the best gear for the speed.
       // The gear tables hold a row's gear up to the next row (Envelope::gear), so the point
@@ -1390,14 +1424,18 @@ void LapSolver::channels_pass(const Envelope& env, const Mesh& mesh, ChannelSet 
       lap.aero_balance_eff[i] =
           aero_balance_with_drag_moment(f.lift_coef, f.drag_coef, f.balance, car.drag_height_m, wb)
               .value_or(std::numeric_limits<double>::quiet_NaN());
-      const AxleUsage use = axle_usage(env, loads, m * ax + f.resistance_n, std::abs(f.lateral_n));
+      const AxleUsage use = used ? tested : usage(f, loads, ax);
       lap.front_usage[i] = use.front_usage;
       lap.rear_usage[i] = use.rear_usage;
     }
   };
   // Always the same two halves, whatever the threads (the hints start afresh at the second), so
   // that the channels are the same bit for bit on one thread or two.
-  in_halves(n, second, points);
+  if (all)
+    in_halves(n, second, [&](std::size_t lo, std::size_t hi) { points(std::true_type{}, lo, hi); });
+  else
+    in_halves(n, second,
+              [&](std::size_t lo, std::size_t hi) { points(std::false_type{}, lo, hi); });
 }
 
 Lap LapSolver::take() {
