@@ -538,8 +538,13 @@ class Sweeper {
     const double k0 = std::abs(mesh_.curvature_1pm[i]);
     const double k = k0 + (std::abs(mesh_.curvature_1pm[j]) - k0) / ds_ * xm;
     const Road road = road_at_(j);
-    const double r = env_.road_forces(env_.rows(false), std::max(um, 0.0), k, road).resistance_n;
-    if (!(r * inv_mass_.m > held_margin_mps2)) return false;
+    // The last held step's state stands for this one where it is the same (an arc or a top
+    // speed held: the limit, the curvature and the road the same step after step).
+    if (!(held_.valid && um == held_.um && k == held_.k && same_road(road, held_.road))) {
+      const double r = env_.road_forces(env_.rows(false), std::max(um, 0.0), k, road).resistance_n;
+      if (!(r * inv_mass_.m > held_margin_mps2)) return false;
+      held_ = {um, k, road, true};
+    }
     j_ = j;
     u1 = u0;
     return true;
@@ -684,6 +689,13 @@ class Sweeper {
     bool valid = false;
   };
   mutable Memo memo_;
+  // The last step held_step took: its state at the midpoint (the resistance there decelerates).
+  struct Held {
+    double um = 0.0, k = 0.0;
+    Road road{};
+    bool valid = false;
+  };
+  Held held_;
   Road memo_road_{std::numeric_limits<double>::quiet_NaN(), 0.0, 0.0, 0.0, 0.0};
   bool memo_trimmed_ = false, memo_straight_ = false;
 };
