@@ -1,0 +1,56 @@
+// x^p for one exponent p fixed in advance (the friction ellipse's n and 1/n), by a table instead
+// of the library's 2^(p log2 x).
+#pragma once
+
+#include <array>
+#include <bit>
+#include <cmath>
+#include <cstdint>
+
+namespace lapwing {
+
+/// x^p for x >= 0 and a fixed p > 0. With x = 2^e m, m in [1, 2): x^p = 2^(e p) m^p, the first
+/// factor read from a table over e, the second from one of 64 Taylor polynomials of degree 8
+/// about the middles of m's 64 equal intervals: (c + d)^p = sum_k C(p, k) c^(p - k) d^k with
+/// |d| <= 1/128, whose first left-out term, |C(p, 9)| (1/128)^9 c^(p - 9), is below 1e-17 of
+/// c^p for p up to 10 (|C(p, 9)| <= 10 there, (1/128)^9 = 1.1e-19). Coefficients and table are
+/// worked in long double. Measured against 50-digit
+/// arithmetic (Boost.Multiprecision) in fixed_power_test: within 3 ulp for p in [0.1, 10],
+/// where the library's exp2(p log2 x) is off by up to |p log2 x| ulp (58 at p = 10 for small
+/// ratios). Outside the table's exponents (x below 2^-64 or from 2^8 up, subnormal, infinite)
+/// the library's form answers. About 25 instructions where the two library calls take some 90.
+class FixedPower {
+ public:
+  explicit FixedPower(double p);
+
+  double exponent() const { return p_; }
+
+  double operator()(double x) const {
+    if (!(x > 0.0)) return 0.0;
+    const std::uint64_t bits = std::bit_cast<std::uint64_t>(x);
+    const int e = static_cast<int>(bits >> 52) - 1023;  // x > 0: no sign bit
+    if (e < min_exponent || e > max_exponent) return std::exp2(p_ * std::log2(x));
+    const std::uint64_t mantissa = bits & ((std::uint64_t{1} << 52) - 1);
+    const double m = std::bit_cast<double>(mantissa | (std::uint64_t{1023} << 52));  // [1, 2)
+    const std::size_t j = static_cast<std::size_t>(mantissa >> (52 - interval_bits));
+    const double* c = &coefficients_[j * row];
+    const double d = m - c[0];
+    const double poly =
+        c[1] +
+        d * (c[2] + d * (c[3] + d * (c[4] + d * (c[5] + d * (c[6] + d * (c[7] + d * (c[8] + d * c[9])))))));
+    return poly * scale_[static_cast<std::size_t>(e - min_exponent)];
+  }
+
+  static constexpr int interval_bits = 6;
+  static constexpr int degree = 8;
+  static constexpr int min_exponent = -64, max_exponent = 7;
+
+ private:
+  static constexpr std::size_t intervals = std::size_t{1} << interval_bits;
+  static constexpr std::size_t row = degree + 2;  // the middle, then the coefficients
+  double p_;
+  std::array<double, intervals * row> coefficients_{};
+  std::array<double, max_exponent - min_exponent + 1> scale_{};
+};
+
+}  // namespace lapwing

@@ -1,0 +1,28 @@
+#include "lapwing/base/fixed_power.hpp"
+
+#include <stdexcept>
+
+namespace lapwing {
+
+FixedPower::FixedPower(double p) : p_(p) {
+  if (!(p > 0.0) || !std::isfinite(p)) throw std::invalid_argument("FixedPower: p must be > 0");
+  const long double lp = p;
+  for (std::size_t j = 0; j < intervals; ++j) {
+    // The middle of m's j-th interval, exact in binary: 1 + (j + 1/2) / 64.
+    const long double c = 1.0L + (static_cast<long double>(j) + 0.5L) / intervals;
+    double* out = &coefficients_[j * row];
+    out[0] = static_cast<double>(c);
+    // C(p, k) c^(p - k), k = 0 .. degree: the binomial by its recurrence, the power by powl.
+    long double binomial = 1.0L, term = std::pow(c, lp);
+    for (int k = 0; k <= degree; ++k) {
+      out[1 + k] = static_cast<double>(binomial * term);
+      binomial *= (lp - k) / (k + 1);
+      term /= c;
+    }
+  }
+  for (int e = min_exponent; e <= max_exponent; ++e)
+    scale_[static_cast<std::size_t>(e - min_exponent)] =
+        static_cast<double>(std::exp2(static_cast<long double>(e) * lp));
+}
+
+}  // namespace lapwing
