@@ -466,7 +466,8 @@ class Sweeper {
         shift_time_(env.car().powertrain.shift_time_s),
         steps_(steps),
         i_(start),
-        v_(v_start) {
+        v_(v_start),
+        u_(v_start * v_start) {
     resize_ready(r_.speed_mps, n_);  // every point is written on the way
     r_.speed_mps[start] = v_;
     if (forward_) {
@@ -508,7 +509,7 @@ class Sweeper {
       if (cut_left_s_ > 0.0) return false;
       table = env_.trims(0.0) && mesh_.trim_zone[i] ? &steps_->drive_trimmed : &steps_->drive;
     }
-    const double u0 = v_ * v_;
+    const double u0 = u_;
     // The step reads the model at u0 and at most this far from it (exponential_step's secant).
     const double reach = ds_ * steps_->slope_bound + slope_spread * std::max(u0, 1.0);
     if (!(u0 >= reach && u0 + reach <= std::min(limit_[i] * limit_[i], limit_[j] * limit_[j])))
@@ -531,7 +532,7 @@ class Sweeper {
     // As begin_step and exponential_step work the limit over the step, to the same rounding.
     const double ulim0 = limit_[i] * limit_[i];
     const double dulim = (limit_[j] * limit_[j] - ulim0) / ds_;
-    const double u0 = v_ * v_;
+    const double u0 = u_;
     if (!(u0 >= ulim0 + dulim * ds_)) return false;
     const double xm = 0.5 * ds_;
     const double um = std::min(u0, ulim0 + dulim * xm);
@@ -585,7 +586,7 @@ class Sweeper {
       memo_trimmed_ = trimmed_;
       memo_straight_ = straight_;
     }
-    return v_ * v_;
+    return u_;
   }
 
   /// d(v^2)/dx = 2 a at u = v^2, a distance x (0 .. ds) into the step, along the sweep's own
@@ -619,10 +620,11 @@ class Sweeper {
     if (!(u > 0.0))
       throw CannotMove("the car stops at " + where(mesh_, j) +
                        ": drive cannot overcome the resistance there");
-    double v_next = std::sqrt(u);
-    // Where the limit, not the integration, gives the speed.
-    const bool clipped = v_next >= limit_[j] * (1.0 - clip_tolerance);
-    if (clipped) v_next = limit_[j];
+    // Where the limit, not the integration, gives the speed: sqrt(u) >= the limit less
+    // clip_tolerance, compared in u so that the next step need not wait for the root.
+    const double clip_from = limit_[j] * (1.0 - clip_tolerance);
+    const bool clipped = u >= clip_from * clip_from;
+    const double v_next = clipped ? limit_[j] : std::sqrt(u);
     if (forward_) {
       const double dt = 2.0 * ds_ / (v_ + v_next);
       if (cut_left_s_ > 0.0) {
@@ -644,6 +646,7 @@ class Sweeper {
     }
     r_.speed_mps[j] = v_next;
     v_ = v_next;
+    u_ = clipped ? v_next * v_next : u;
     i_ = j;
   }
 
@@ -671,6 +674,10 @@ class Sweeper {
   const StepTables* const steps_;  // null: every step is the integrator's
   std::size_t i_;
   double v_;
+  // u = v^2 at the current point: the step's own u where the limit did not clip it (not
+  // sqrt(u)^2: the square root is then off the chain of dependent arithmetic from step to step,
+  // which sets a sweep's pace), the limit's square where it did.
+  double u_;
   // The step in progress.
   std::size_t j_ = 0;
   double k0_ = 0.0, dk_ = 0.0, drive_share_ = 1.0;
