@@ -96,6 +96,19 @@ class Walker {
     return out;
   }
 
+  /// segment_walk(t).end.elevation alone, without the positions: the same rises (rise) in the
+  /// same order, to the last bit.
+  static double end_elevation(const Track& t) {
+    double z = 0.0, seg_start = 0.0;
+    for (std::size_t k = 0; k + 1 < t.segments.size(); ++k) {
+      z += rise(t.segments[k], 0.0, t.segments[k].length_m);
+      seg_start += t.segments[k].length_m;
+    }
+    // at(length): the last segment from its start to max(0, length - its start).
+    z += rise(t.segments.back(), 0.0, std::max(0.0, t.length_m() - seg_start));
+    return z;
+  }
+
   // Advances to distance s (not before the current one) and returns the state there.
   State at(double s) {
     // Move into the segment holding s; the last segment holds everything beyond.
@@ -135,6 +148,8 @@ class Walker {
     heading0_ = st.heading;
   }
   const Segment& seg() const { return track_.segments[seg_]; }
+  // The elevation gained along segment g from u0 to u1 (into it).
+  static double rise(const Segment& g, double u0, double u1) { return g.grade * (u1 - u0); }
   double curvature(double u) const {
     const Segment& g = seg();
     return g.curvature_start_1pm + (g.curvature_end_1pm - g.curvature_start_1pm) * u / g.length_m;
@@ -166,7 +181,7 @@ class Walker {
         x_ += (d1.sin - d0.sin) / k;
         y_ += (d0.cos - d1.cos) / k;
       }
-      z_ += g.grade * (u1 - u_);
+      z_ += rise(g, u_, u1);
       u_ = u1;
       return;
     }
@@ -200,7 +215,7 @@ class Walker {
       x_ += h * (ct * cs - st * sn);
       y_ += h * (st * cs + ct * sn);
     }
-    z_ += seg().grade * (u1 - u_);
+    z_ += rise(g, u_, u1);
     u_ = u1;
   }
 
@@ -295,8 +310,10 @@ double closure_elevation_tolerance_m(const Track& track) {
 std::vector<std::string> track_warnings(const Track& track) {
   std::vector<std::string> out;
   if (track.closed) {
-    const Closure c = closure(track);
     const PathProfile* lapped = lapped_profile(track);
+    // A segment track's warning reads the elevation gap alone: no positions walked for it.
+    const Closure c =
+        lapped ? closure(track) : Closure{0.0, 0.0, Walker::end_elevation(track), 0.0};
     const double length = track.length_m();
     if (lapped && lapped->source == PathProfile::Source::curvature) {
       const double tolerance = closure_position_fraction * length;
