@@ -156,16 +156,17 @@ class Walker {
   const Segment& seg() const { return track_.segments[seg_]; }
   // The elevation gained along segment g from u0 to u1 (into it).
   static double rise(const Segment& g, double u0, double u1) { return g.grade * (u1 - u0); }
-  double curvature(double u) const {
-    const Segment& g = seg();
+  // kappa(u) = k0 + (k1 - k0) u / L
+  static double curvature_at(const Segment& g, double u) {
     return g.curvature_start_1pm + (g.curvature_end_1pm - g.curvature_start_1pm) * u / g.length_m;
   }
+  double curvature(double u) const { return curvature_at(seg(), u); }
   // theta(u) = theta0 + k0 u + (k1 - k0) u^2 / (2 L)
-  double heading(double u) const {
-    const Segment& g = seg();
-    return heading0_ + g.curvature_start_1pm * u +
+  static double heading_at(const Segment& g, double theta0, double u) {
+    return theta0 + g.curvature_start_1pm * u +
            (g.curvature_end_1pm - g.curvature_start_1pm) * u * u / (2.0 * g.length_m);
   }
+  double heading(double u) const { return heading_at(seg(), heading0_, u); }
   // heading(u_), kept from the step that reached u_ (worked once a point, not once a use).
   double heading_here() {
     if (!heading_known_) {
@@ -177,8 +178,6 @@ class Walker {
   // Walks on to distance u1 into the current segment.
   void advance_to(double u1) {
     assert(u1 >= u_);
-    // Pieces of at most max_piece_m keep the 5-point rule at round-off level however long the
-    // walk (closure() walks whole segments at once).
     const Segment& g = seg();
     if (g.curvature_start_1pm == g.curvature_end_1pm) {
       // Straight or arc: the closed form, no quadrature. A straight moves along its heading;
@@ -204,17 +203,36 @@ class Walker {
       u_ = u1;
       return;
     }
-    const int pieces = std::max(1, static_cast<int>(std::ceil((u1 - u_) / max_piece_m)));
-    const double piece = (u1 - u_) / pieces;
+    const Plane p = clothoid_walk(g, heading0_, u_, u1, {x_, y_});
+    x_ = p.x;
+    y_ = p.y;
+    z_ += rise(g, u_, u1);
+    u_ = u1;
+    heading_known_ = false;
+  }
+
+  // A position in the plane.
+  struct Plane {
+    double x, y;
+  };
+  // From p at u0 on to u1 along clothoid g (heading theta0 at its start). Apart from the walker
+  // (it is handed what it reads), so that the walker's state can stay in registers through a
+  // mesh point's step; out of line, as it is the rare and long step. Pieces of at most
+  // max_piece_m keep the 5-point rule at round-off level however long the walk (closure() walks
+  // whole segments at once).
+  [[gnu::noinline]] static Plane clothoid_walk(const Segment& g, double theta0, double u0,
+                                               double u1, Plane p) {
+    const int pieces = std::max(1, static_cast<int>(std::ceil((u1 - u0) / max_piece_m)));
+    const double piece = (u1 - u0) / pieces;
     // Over a piece the heading is theta_c + psi(d), d from the piece's middle c, psi(d) =
     // kappa_c d + q d^2 exactly (q = (k1 - k0) / (2 L)): the nodes' directions are the middle's
     // turned by psi, whose cosine and sine are short series where |psi| is small (one sincos
     // a piece, not five).
     const double q = (g.curvature_end_1pm - g.curvature_start_1pm) / (2.0 * g.length_m);
-    for (int p = 0; p < pieces; ++p) {
-      const double a = u_ + p * piece;
+    for (int j = 0; j < pieces; ++j) {
+      const double a = u0 + j * piece;
       const double h = 0.5 * piece, c = a + h;
-      const double kc = curvature(c);
+      const double kc = curvature_at(g, c);
       double cs = 0.0, sn = 0.0;  // sum of w_k cos psi_k and w_k sin psi_k
       if (std::abs(kc) * h + std::abs(q) * h * h <= small_turn_rad) {
         for (std::size_t k = 0; k < gl_nodes.size(); ++k) {
@@ -236,13 +254,11 @@ class Walker {
           sn += gl_weights[k] * std::sin(psi);
         }
       }
-      const double th = heading(c), ct = std::cos(th), st = std::sin(th);
-      x_ += h * (ct * cs - st * sn);
-      y_ += h * (st * cs + ct * sn);
+      const double th = heading_at(g, theta0, c), ct = std::cos(th), st = std::sin(th);
+      p.x += h * (ct * cs - st * sn);
+      p.y += h * (st * cs + ct * sn);
     }
-    z_ += rise(g, u_, u1);
-    u_ = u1;
-    heading_known_ = false;
+    return p;
   }
 
   // cos and sin of a heading, the last one kept (a step's end is the next one's start).
