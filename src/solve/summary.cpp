@@ -51,11 +51,18 @@ std::optional<std::string> over_usage_warning(const Envelope& env, const Lap& la
                                               const Mesh& mesh) {
   const std::size_t n = mesh.size();
   if (lap.front_usage.size() != n || lap.rear_usage.size() != n) return std::nullopt;
+  auto over_at = [&](std::size_t i) {
+    return std::max(lap.front_usage[i], lap.rear_usage[i]) > usage_over;
+  };
+  // The usual lap has no reading over: nothing to warn of, and no more to work out.
+  std::size_t first = 0;
+  while (first < n && !over_at(first)) ++first;
+  if (first == n) return std::nullopt;
   std::size_t worst = 0;
   bool front = true;
   double highest = 0.0, length = 0.0;
   // Each point's reading once: this point's `over` is the last one's `over_next`.
-  bool over = n > 0 && std::max(lap.front_usage[0], lap.rear_usage[0]) > usage_over;
+  bool over = over_at(0);
   for (std::size_t i = 0; i < n; ++i) {
     const double u = std::max(lap.front_usage[i], lap.rear_usage[i]);
     if (u > highest) {
@@ -64,7 +71,7 @@ std::optional<std::string> over_usage_warning(const Envelope& env, const Lap& la
       front = lap.front_usage[i] >= lap.rear_usage[i];
     }
     if (i + 1 < n) {
-      const bool over_next = std::max(lap.front_usage[i + 1], lap.rear_usage[i + 1]) > usage_over;
+      const bool over_next = over_at(i + 1);
       length += half_interval_share(mesh, i, over + over_next);
       over = over_next;
     }
@@ -115,10 +122,14 @@ std::optional<std::string> tyre_peak_warning(const Envelope& env, const Lap& lap
     return std::max(std::min(front, 0.5 * front + d.front * fy),
                     std::min(rear, 0.5 * rear + d.rear * fy));
   };
+  // Before the first point past the peak nothing counts (no highest, no length): the walk
+  // starts there, as it stood there (the usual lap has none, and nothing to warn of).
+  std::size_t first = 0;
+  while (first < n && !(heaviest(first) > peak)) ++first;
   std::size_t worst = 0;
   double highest = 0.0, length = 0.0;
   bool past_before = false;
-  for (std::size_t i = 0; i < n; ++i) {
+  for (std::size_t i = first; i < n; ++i) {
     const double load = heaviest(i);  // NaN below the loads' floor: never past
     const bool past = load > peak;
     if (past && load > highest) {
@@ -250,6 +261,11 @@ double range_note_share(const Envelope& env, const RangeNote& note, const Lap& l
 std::vector<std::string> lap_range_warnings(const Envelope& env, const Lap& lap, const Mesh& mesh) {
   std::vector<std::string> out;
   for (const RangeNote& n : range_notes(env)) {
+    // A note that applies nowhere has no share (0): most notes on most laps.
+    const bool anywhere = with_note_test(env, n, [&](const auto& applies) {
+      return std::any_of(lap.speed_mps.begin(), lap.speed_mps.end(), applies);
+    });
+    if (!anywhere) continue;
     const double share = range_note_share(env, n, lap, mesh);
     if (!(share > 0.0)) continue;
     char buf[48];
