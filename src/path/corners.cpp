@@ -27,12 +27,14 @@ std::vector<CornerSpan> find_corners(const Mesh& mesh, const CornerOptions& o) {
   const std::size_t n = mesh.size();
   bool in = false;
   CornerSpan cur{0, 0, 0, 0};
+  // The direction of a turn of curvature k: +1 left, -1 right, 0 none (read only where a corner
+  // is in or about to be: most points are on neither).
+  auto direction_of = [](double k) { return k > 0 ? 1 : (k < 0 ? -1 : 0); };
   for (std::size_t i = 0; i < n; ++i) {
     const double k = mesh.curvature_1pm[i];
-    const int dir = k > 0 ? 1 : (k < 0 ? -1 : 0);
     if (in) {
       // Hysteresis: stay in until |k| drops below the exit threshold or the direction changes.
-      if (std::abs(k) < o.exit_curvature_1pm || dir != cur.direction) {
+      if (std::abs(k) < o.exit_curvature_1pm || direction_of(k) != cur.direction) {
         cur.end = i - 1;
         raw.push_back(cur);
         in = false;
@@ -42,7 +44,7 @@ std::vector<CornerSpan> find_corners(const Mesh& mesh, const CornerOptions& o) {
     }
     if (std::abs(k) >= o.enter_curvature_1pm) {
       in = true;
-      cur = {0, i, i, dir};
+      cur = {0, i, i, direction_of(k)};
     }
   }
   if (in) {

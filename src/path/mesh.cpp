@@ -58,7 +58,7 @@ class Walker {
   };
 
   /// A walk from the track's start, each segment walked to its end before the next.
-  explicit Walker(const Track& t) : track_(t) {}
+  explicit Walker(const Track& t) : track_(t) { segment_changed(); }
   /// A walk that takes each segment's start from `starts` (segment_walk) instead of walking
   /// the segment before to its end: it may start anywhere, and where it passes a point it
   /// finds the same state as any other such walk that steps to that point from the same
@@ -86,41 +86,40 @@ class Walker {
     // `end` is what a walk from the start to the end finds (closure() reads it).
     for (std::size_t k = 0; k + 1 < t.segments.size(); ++k) {
       w.advance_to(w.seg().length_m);
-      out.starts.push_back({w.x_, w.y_, w.z_, w.heading(w.seg().length_m)});
-      w.heading0_ = out.starts.back().heading;
-      w.seg_start_ += w.seg().length_m;
-      ++w.seg_;
-      w.u_ = 0.0;
+      w.next_segment();
+      out.starts.push_back({w.x_, w.y_, w.z_, w.heading0_});
     }
     out.end = w.at(t.length_m());
     return out;
   }
 
+  /// segment_walk(t).end.elevation alone, without the positions: the same rises (rise) in the
+  /// same order, to the last bit.
+  static double end_elevation(const Track& t) {
+    double z = 0.0, seg_start = 0.0;
+    for (std::size_t k = 0; k + 1 < t.segments.size(); ++k) {
+      z += rise(t.segments[k], 0.0, t.segments[k].length_m);
+      seg_start += t.segments[k].length_m;
+    }
+    // at(length): the last segment from its start to max(0, length - its start).
+    z += rise(t.segments.back(), 0.0, std::max(0.0, t.length_m() - seg_start));
+    return z;
+  }
+
   // Advances to distance s (not before the current one) and returns the state there.
   State at(double s) {
     // Move into the segment holding s; the last segment holds everything beyond.
-    while (seg_ + 1 < track_.segments.size() && s >= seg_start_ + seg().length_m) {
+    while (!last_segment_ && s >= seg_end_) {
       if (starts_) {
         seg_start_ += seg().length_m;
         enter(seg_ + 1);
         continue;
       }
       advance_to(seg().length_m);
-      heading0_ = heading(seg().length_m);
-      seg_start_ += seg().length_m;
-      ++seg_;
-      u_ = 0.0;
+      next_segment();
     }
     advance_to(std::max(u_, s - seg_start_));
-    const Segment& g = seg();
-    return {x_,
-            y_,
-            heading(u_),
-            curvature(u_),
-            z_,
-            g.grade,
-            g.width_m.value_or(track_.width_m.value_or(0.0)),
-            g.signed_bank_rad()};
+    return {x_, y_, heading_here(), curvature(u_), z_, seg().grade, width_, bank_};
   }
 
  private:
@@ -133,23 +132,52 @@ class Walker {
     y_ = st.y;
     z_ = st.z;
     heading0_ = st.heading;
+    segment_changed();
+  }
+  // On into the next segment from the end of this one (walked to it): its start heading is
+  // this one's end heading.
+  void next_segment() {
+    heading0_ = heading(seg().length_m);
+    seg_start_ += seg().length_m;
+    ++seg_;
+    u_ = 0.0;
+    segment_changed();
+  }
+  // What holds along the whole of the segment now walked, read once on entering it.
+  void segment_changed() {
+    heading_known_ = false;
+    if (track_.segments.empty()) return;  // nothing to walk (Track::validate refuses it)
+    const Segment& g = seg();
+    seg_end_ = seg_start_ + g.length_m;
+    last_segment_ = seg_ + 1 >= track_.segments.size();
+    width_ = g.width_m.value_or(track_.width_m.value_or(0.0));
+    bank_ = g.signed_bank_rad();
   }
   const Segment& seg() const { return track_.segments[seg_]; }
-  double curvature(double u) const {
-    const Segment& g = seg();
+  // The elevation gained along segment g from u0 to u1 (into it).
+  static double rise(const Segment& g, double u0, double u1) { return g.grade * (u1 - u0); }
+  // kappa(u) = k0 + (k1 - k0) u / L
+  static double curvature_at(const Segment& g, double u) {
     return g.curvature_start_1pm + (g.curvature_end_1pm - g.curvature_start_1pm) * u / g.length_m;
   }
+  double curvature(double u) const { return curvature_at(seg(), u); }
   // theta(u) = theta0 + k0 u + (k1 - k0) u^2 / (2 L)
-  double heading(double u) const {
-    const Segment& g = seg();
-    return heading0_ + g.curvature_start_1pm * u +
+  static double heading_at(const Segment& g, double theta0, double u) {
+    return theta0 + g.curvature_start_1pm * u +
            (g.curvature_end_1pm - g.curvature_start_1pm) * u * u / (2.0 * g.length_m);
+  }
+  double heading(double u) const { return heading_at(seg(), heading0_, u); }
+  // heading(u_), kept from the step that reached u_ (worked once a point, not once a use).
+  double heading_here() {
+    if (!heading_known_) {
+      heading_here_ = heading(u_);
+      heading_known_ = true;
+    }
+    return heading_here_;
   }
   // Walks on to distance u1 into the current segment.
   void advance_to(double u1) {
     assert(u1 >= u_);
-    // Pieces of at most max_piece_m keep the 5-point rule at round-off level however long the
-    // walk (closure() walks whole segments at once).
     const Segment& g = seg();
     if (g.curvature_start_1pm == g.curvature_end_1pm) {
       // Straight or arc: the closed form, no quadrature. A straight moves along its heading;
@@ -157,33 +185,63 @@ class Walker {
       // (cos t0 - cos t1) / k) (the integral of (cos t, sin t) ds with dt = k ds). The cosine
       // and sine at a step's end are the next step's start (one sincos a mesh point).
       const double k = g.curvature_start_1pm;
-      const Direction d0 = direction(heading(u_));
+      const Direction d0 = direction(heading_here());
       if (k == 0.0) {
+        // A straight's heading(u) is theta0 + 0 u + 0 u^2 / (2 L) for every u >= 0, the same
+        // to the last bit (a zero's sign does not depend on u): heading_here() still holds.
         x_ += (u1 - u_) * d0.cos;
         y_ += (u1 - u_) * d0.sin;
       } else {
-        const Direction d1 = direction(heading(u1));
+        const double t1 = heading(u1);
+        const Direction d1 = direction(t1);
         x_ += (d1.sin - d0.sin) / k;
         y_ += (d0.cos - d1.cos) / k;
+        heading_here_ = t1;
+        heading_known_ = true;
       }
-      z_ += g.grade * (u1 - u_);
+      z_ += rise(g, u_, u1);
       u_ = u1;
       return;
     }
-    const int pieces = std::max(1, static_cast<int>(std::ceil((u1 - u_) / max_piece_m)));
-    const double piece = (u1 - u_) / pieces;
+    const Plane p = clothoid_walk(g, heading0_, u_, u1, {x_, y_});
+    x_ = p.x;
+    y_ = p.y;
+    z_ += rise(g, u_, u1);
+    u_ = u1;
+    heading_known_ = false;
+  }
+
+  // A position in the plane.
+  struct Plane {
+    double x, y;
+  };
+  // From p at u0 on to u1 along clothoid g (heading theta0 at its start). Apart from the walker
+  // (it is handed what it reads), so that the walker's state can stay in registers through a
+  // mesh point's step; out of line, as it is the rare and long step. Pieces of at most
+  // max_piece_m keep the 5-point rule at round-off level however long the walk (closure() walks
+  // whole segments at once).
+  [[gnu::noinline]] static Plane clothoid_walk(const Segment& g, double theta0, double u0,
+                                               double u1, Plane p) {
+    const int pieces = std::max(1, static_cast<int>(std::ceil((u1 - u0) / max_piece_m)));
+    const double piece = (u1 - u0) / pieces;
     // Over a piece the heading is theta_c + psi(d), d from the piece's middle c, psi(d) =
     // kappa_c d + q d^2 exactly (q = (k1 - k0) / (2 L)): the nodes' directions are the middle's
     // turned by psi, whose cosine and sine are short series where |psi| is small (one sincos
     // a piece, not five).
     const double q = (g.curvature_end_1pm - g.curvature_start_1pm) / (2.0 * g.length_m);
-    for (int p = 0; p < pieces; ++p) {
-      const double a = u_ + p * piece;
+    for (int j = 0; j < pieces; ++j) {
+      const double a = u0 + j * piece;
       const double h = 0.5 * piece, c = a + h;
-      const double kc = curvature(c);
+      const double kc = curvature_at(g, c);
       double cs = 0.0, sn = 0.0;  // sum of w_k cos psi_k and w_k sin psi_k
       if (std::abs(kc) * h + std::abs(q) * h * h <= small_turn_rad) {
         for (std::size_t k = 0; k < gl_nodes.size(); ++k) {
+          // The middle node turns by psi = +-0: cos 1 and sin +-0 exactly, which adds w_k to
+          // cs and leaves sn as it is (a sum from +0 is never -0).
+          if (gl_nodes[k] == 0.0) {
+            cs += gl_weights[k];
+            continue;
+          }
           const double d = h * gl_nodes[k];
           const TurnBy t = small_turn((kc + q * d) * d);
           cs += gl_weights[k] * t.cos;
@@ -196,12 +254,11 @@ class Walker {
           sn += gl_weights[k] * std::sin(psi);
         }
       }
-      const double th = heading(c), ct = std::cos(th), st = std::sin(th);
-      x_ += h * (ct * cs - st * sn);
-      y_ += h * (st * cs + ct * sn);
+      const double th = heading_at(g, theta0, c), ct = std::cos(th), st = std::sin(th);
+      p.x += h * (ct * cs - st * sn);
+      p.y += h * (st * cs + ct * sn);
     }
-    z_ += seg().grade * (u1 - u_);
-    u_ = u1;
+    return p;
   }
 
   // cos and sin of a heading, the last one kept (a step's end is the next one's start).
@@ -223,7 +280,12 @@ class Walker {
   const std::vector<Start>* starts_ = nullptr;
   std::size_t seg_ = 0;
   double seg_start_ = 0.0;  // distance at the segment's start
-  double u_ = 0.0;          // distance into the segment already walked
+  double seg_end_ = 0.0;    // seg_start_ + its length: where at() moves on to the next
+  bool last_segment_ = false;
+  double width_ = 0.0, bank_ = 0.0;  // the segment's width and signed bank
+  double heading_here_ = 0.0;        // heading(u_) where heading_known_
+  bool heading_known_ = false;
+  double u_ = 0.0;  // distance into the segment already walked
   double x_ = 0.0, y_ = 0.0, z_ = 0.0, heading0_ = 0.0;
 };
 
@@ -295,8 +357,10 @@ double closure_elevation_tolerance_m(const Track& track) {
 std::vector<std::string> track_warnings(const Track& track) {
   std::vector<std::string> out;
   if (track.closed) {
-    const Closure c = closure(track);
     const PathProfile* lapped = lapped_profile(track);
+    // A segment track's warning reads the elevation gap alone: no positions walked for it.
+    const Closure c =
+        lapped ? closure(track) : Closure{0.0, 0.0, Walker::end_elevation(track), 0.0};
     const double length = track.length_m();
     if (lapped && lapped->source == PathProfile::Source::curvature) {
       const double tolerance = closure_position_fraction * length;

@@ -32,6 +32,13 @@ constexpr double apex_tie = 5e-4;  // relative: 0.05 km/h at 100 km/h
 // a table shows (1e-9 of 100 km/h is 1e-7 km/h).
 constexpr double apex_plateau = 1e-9;
 
+// An interval's length counted half for each of its ends where something holds (`ends`: 0, 1
+// or 2), as the shares of the lap distance below add it up: 0.5 (s_{i+1} - s_i) ends. None
+// at neither end: the sum is left as it is, as adding the product (+0) leaves it.
+inline double half_interval_share(const Mesh& mesh, std::size_t i, int ends) {
+  return ends == 0 ? 0.0 : 0.5 * (mesh.s_m[i + 1] - mesh.s_m[i]) * ends;
+}
+
 // An axle's usage above this reads as asking more of its tyres than they hold. The axle model
 // holds each axle within it (README, "Physics and assumptions": its traces stay within 1 + 0.02
 // where braking meets a rear axle's steady limit); the point mass limits the car as a whole,
@@ -44,12 +51,18 @@ std::optional<std::string> over_usage_warning(const Envelope& env, const Lap& la
                                               const Mesh& mesh) {
   const std::size_t n = mesh.size();
   if (lap.front_usage.size() != n || lap.rear_usage.size() != n) return std::nullopt;
+  auto over_at = [&](std::size_t i) {
+    return std::max(lap.front_usage[i], lap.rear_usage[i]) > usage_over;
+  };
+  // The usual lap has no reading over: nothing to warn of, and no more to work out.
+  std::size_t first = 0;
+  while (first < n && !over_at(first)) ++first;
+  if (first == n) return std::nullopt;
   std::size_t worst = 0;
   bool front = true;
   double highest = 0.0, length = 0.0;
-  auto over = [&](std::size_t i) {
-    return std::max(lap.front_usage[i], lap.rear_usage[i]) > usage_over;
-  };
+  // Each point's reading once: this point's `over` is the last one's `over_next`.
+  bool over = over_at(0);
   for (std::size_t i = 0; i < n; ++i) {
     const double u = std::max(lap.front_usage[i], lap.rear_usage[i]);
     if (u > highest) {
@@ -57,7 +70,11 @@ std::optional<std::string> over_usage_warning(const Envelope& env, const Lap& la
       worst = i;
       front = lap.front_usage[i] >= lap.rear_usage[i];
     }
-    if (i + 1 < n) length += 0.5 * (mesh.s_m[i + 1] - mesh.s_m[i]) * (over(i) + over(i + 1));
+    if (i + 1 < n) {
+      const bool over_next = over_at(i + 1);
+      length += half_interval_share(mesh, i, over + over_next);
+      over = over_next;
+    }
   }
   if (!(highest > usage_over)) return std::nullopt;
   char buf[200];
@@ -105,17 +122,21 @@ std::optional<std::string> tyre_peak_warning(const Envelope& env, const Lap& lap
     return std::max(std::min(front, 0.5 * front + d.front * fy),
                     std::min(rear, 0.5 * rear + d.rear * fy));
   };
+  // Before the first point past the peak nothing counts (no highest, no length): the walk
+  // starts there, as it stood there (the usual lap has none, and nothing to warn of).
+  std::size_t first = 0;
+  while (first < n && !(heaviest(first) > peak)) ++first;
   std::size_t worst = 0;
   double highest = 0.0, length = 0.0;
   bool past_before = false;
-  for (std::size_t i = 0; i < n; ++i) {
+  for (std::size_t i = first; i < n; ++i) {
     const double load = heaviest(i);  // NaN below the loads' floor: never past
     const bool past = load > peak;
     if (past && load > highest) {
       highest = load;
       worst = i;
     }
-    if (i > 0) length += 0.5 * (mesh.s_m[i] - mesh.s_m[i - 1]) * (past + past_before);
+    if (i > 0) length += half_interval_share(mesh, i - 1, past + past_before);
     past_before = past;
   }
   if (!(highest > peak)) return std::nullopt;
@@ -195,39 +216,56 @@ std::vector<RangeNote> range_notes(const Envelope& env) {
   return notes;
 }
 
-bool range_note_applies(const Envelope& env, const RangeNote& note, double v) {
+namespace {
+// Calls `f` with the note's test of a speed (m/s), a callable bool(double): the one place that
+// says where each note applies. The kind is read once, not at every speed tested.
+template <typename F>
+decltype(auto) with_note_test(const Envelope& env, const RangeNote& note, F&& f) {
   const AeroConfig& a = env.aero();
   switch (note.kind) {
     case RangeNote::Kind::below_speed_table:
-      return v < a.speed_mps.front();
+      return f([first = a.speed_mps.front()](double v) { return v < first; });
     case RangeNote::Kind::above_speed_table:
-      return v > a.speed_mps.back();
+      return f([last = a.speed_mps.back()](double v) { return v > last; });
     case RangeNote::Kind::off_map:
-      return env.aero_point(v).off_map;
+      return f([&env](double v) { return env.aero_point(v).off_map; });
     case RangeNote::Kind::grounded:
-      return env.aero_point(v).grounded;
+      return f([&env](double v) { return env.aero_point(v).grounded; });
     case RangeNote::Kind::table_top:
-      return v >= env.max_speed_mps() * (1.0 - at_top_rel);
+      break;
   }
-  return false;
+  return f([top = env.max_speed_mps() * (1.0 - at_top_rel)](double v) { return v >= top; });
+}
+}  // namespace
+
+bool range_note_applies(const Envelope& env, const RangeNote& note, double v) {
+  return with_note_test(env, note, [v](const auto& applies) { return applies(v); });
 }
 
 double range_note_share(const Envelope& env, const RangeNote& note, const Lap& lap,
                         const Mesh& mesh) {
   // Share of distance: each interval counts half for each end point the note applies at.
-  double length = 0.0;
-  bool here = range_note_applies(env, note, lap.speed_mps[0]);
-  for (std::size_t i = 0; i + 1 < mesh.size(); ++i) {
-    const bool next = range_note_applies(env, note, lap.speed_mps[i + 1]);
-    length += 0.5 * (mesh.s_m[i + 1] - mesh.s_m[i]) * (here + next);
-    here = next;
-  }
+  const double length = with_note_test(env, note, [&](const auto& applies) {
+    double sum = 0.0;
+    bool here = applies(lap.speed_mps[0]);
+    for (std::size_t i = 0; i + 1 < mesh.size(); ++i) {
+      const bool next = applies(lap.speed_mps[i + 1]);
+      sum += half_interval_share(mesh, i, here + next);
+      here = next;
+    }
+    return sum;
+  });
   return length / mesh.length_m;
 }
 
 std::vector<std::string> lap_range_warnings(const Envelope& env, const Lap& lap, const Mesh& mesh) {
   std::vector<std::string> out;
   for (const RangeNote& n : range_notes(env)) {
+    // A note that applies nowhere has no share (0): most notes on most laps.
+    const bool anywhere = with_note_test(env, n, [&](const auto& applies) {
+      return std::any_of(lap.speed_mps.begin(), lap.speed_mps.end(), applies);
+    });
+    if (!anywhere) continue;
     const double share = range_note_share(env, n, lap, mesh);
     if (!(share > 0.0)) continue;
     char buf[48];
@@ -275,19 +313,20 @@ BalanceWindowResult check_balance_window(const BalanceWindow& w, const Lap& lap,
   };
   double outside_s = 0.0, brake_s = 0.0, brake_sum = 0.0, drive_s = 0.0, drive_sum = 0.0;
   std::optional<std::size_t> worst;
+  double worst_share = 0.0;  // front_share(lap, *worst)
   for (std::size_t i = 0; i < n; ++i) {
+    // Only points above the window's speed count, here and in the window (in_window).
+    if (!(lap.speed_mps[i] > w.above_mps)) continue;
     // This point's time: half of each interval it ends (an open track's ends have one).
     const double dt = 0.5 * ((i > 0 ? lap.time_s[i] - lap.time_s[i - 1] : 0.0) +
                              (i + 1 < n ? lap.time_s[i + 1] - lap.time_s[i] : 0.0));
     const double share = front_share(lap, i);
-    if (lap.speed_mps[i] > w.above_mps) {
-      if (lap.phase[i] == Phase::brake) {
-        brake_s += dt;
-        brake_sum += dt * share;
-      } else if (lap.phase[i] == Phase::accelerate || lap.phase[i] == Phase::top_speed) {
-        drive_s += dt;
-        drive_sum += dt * share;
-      }
+    if (lap.phase[i] == Phase::brake) {
+      brake_s += dt;
+      brake_sum += dt * share;
+    } else if (lap.phase[i] == Phase::accelerate || lap.phase[i] == Phase::top_speed) {
+      drive_s += dt;
+      drive_sum += dt * share;
     }
     if (!in_window(i)) continue;
     r.time_s += dt;
@@ -295,14 +334,17 @@ BalanceWindowResult check_balance_window(const BalanceWindow& w, const Lap& lap,
     if (e != 0.0) outside_s += dt;
     if (!worst) {
       worst = i;
+      worst_share = share;
       r.lowest_share = r.highest_share = share;
     }
     r.lowest_share = std::min(r.lowest_share, share);
     r.highest_share = std::max(r.highest_share, share);
-    const double we = excursion(front_share(lap, *worst));
+    const double we = excursion(worst_share);
     if (std::abs(e) > std::abs(we) ||
-        (e == 0.0 && we == 0.0 && margin(share) < margin(front_share(lap, *worst))))
+        (e == 0.0 && we == 0.0 && margin(share) < margin(worst_share))) {
       worst = i;
+      worst_share = share;
+    }
   }
   if (brake_s > 0.0) r.braking_share = brake_sum / brake_s;
   if (drive_s > 0.0) r.accelerating_share = drive_sum / drive_s;
@@ -368,10 +410,14 @@ LapSummary summarize(const Lap& lap, const Mesh& mesh, const Track& track,
     return lap.phase[before] != p && lap.phase[after] != p;
   };
   double full = 0.0, brake = 0.0, trimmed = 0.0;
+  // Each point's touch once: this interval's start is the last one's end.
+  bool touch_a = n > 1 && touch(0);
   for (std::size_t i = 0; i + 1 < n; ++i) {
     const double half = 0.5 * (lap.time_s[i + 1] - lap.time_s[i]);
-    const Phase a = touch(i) ? lap.phase[i + 1] : lap.phase[i];
-    const Phase b = touch(i + 1) ? lap.phase[i] : lap.phase[i + 1];
+    const bool touch_b = touch(i + 1);
+    const Phase a = touch_a ? lap.phase[i + 1] : lap.phase[i];
+    const Phase b = touch_b ? lap.phase[i] : lap.phase[i + 1];
+    touch_a = touch_b;
     full += half * (full_drive(a) + full_drive(b));
     brake += half * ((a == Phase::brake) + (b == Phase::brake));
     trimmed += half * (lap.trimmed[i] + lap.trimmed[i + 1]);
@@ -465,11 +511,18 @@ LapSummary summarize(const Lap& lap, const Mesh& mesh, const Track& track,
     if (c.apex_axle == Axle::front) b.front_limited_corners.push_back(c.id);
   b.threshold = balance_index_threshold;
   b.front_limited_length_m = 0.0;
-  for (std::size_t i = 0; usage && i + 1 < mesh.size(); ++i) {
-    // Each interval counts half for each end above the threshold.
-    const double over = 0.5 * ((lap.front_usage[i] - lap.rear_usage[i] > b.threshold) +
-                               (lap.front_usage[i + 1] - lap.rear_usage[i + 1] > b.threshold));
-    b.front_limited_length_m += over * mesh.step_m;
+  if (usage) {
+    // Each interval counts half for each end above the threshold (each point read once; none
+    // at neither end: the sum is left as adding 0 leaves it).
+    auto above = [&](std::size_t i) {
+      return lap.front_usage[i] - lap.rear_usage[i] > b.threshold;
+    };
+    bool here = above(0);
+    for (std::size_t i = 0; i + 1 < mesh.size(); ++i) {
+      const bool next = above(i + 1);
+      if (here || next) b.front_limited_length_m += 0.5 * (here + next) * mesh.step_m;
+      here = next;
+    }
   }
   if (car.balance_window) b.window = check_balance_window(*car.balance_window, lap, mesh, spans);
   return s;

@@ -240,6 +240,24 @@ TEST_CASE("a closed lap whose end is above its start warns beyond max(1 m, 0.1 %
   CHECK(track_warnings(open).empty());
 }
 
+TEST_CASE("a segment track's end elevation is the sum of grade x length, clothoids and all") {
+  // Closed form: the end is sum(g_k L_k) above the start. Lengths and grades in powers of two,
+  // exact in binary: a straight of 64 m at 1/32 (2 m), a clothoid of 32 m at 1/16 (2 m), a
+  // level arc, and a last straight of 16 m at 1/8 (2 m): 6 m. The last straight is reached as
+  // the length less the segments before it, which carry the arc's inexact length: 1e-12 m.
+  Track t = test::circle_track(50.0, 0.5);
+  t.segments = {test::straight(64.0, 1.0 / 32), test::clothoid(32.0, 0.0, 1.0 / 50.0),
+                test::arc(50.0, units::pi / 2, true), test::straight(16.0, 1.0 / 8)};
+  t.segments[1].grade = 1.0 / 16;
+  CHECK(near(closure(t).elevation_gap_m, 6.0, 1e-12));
+  // The warning reads the same gap without walking the positions (they do not close here, and
+  // need not: only the elevation is warned of).
+  CHECK(has(track_warnings(t), "the closed lap ends 6.00 m above its start"));
+  t.segments[3].grade = -1.0 / 8;  // 2 m up, 2 m up, 2 m down: 2 m
+  CHECK(near(closure(t).elevation_gap_m, 2.0, 1e-12));
+  CHECK(has(track_warnings(t), "the closed lap ends 2.00 m above its start"));
+}
+
 namespace {
 // A closed stadium as a curvature profile, rows about 0.5 m apart: a straight of `first` m, a
 // half circle of radius R, a straight of `second` m, a half circle, a last row. Each half
