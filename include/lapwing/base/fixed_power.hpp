@@ -31,6 +31,9 @@ class FixedPower {
     const int e = static_cast<int>(bits >> 52) - 1023;  // x > 0: no sign bit
     if (e < min_exponent || e > max_exponent) return std::exp2(p_ * std::log2(x));
     const std::uint64_t mantissa = bits & ((std::uint64_t{1} << 52) - 1);
+    // A power of two (m = 1): 2^(e p) alone, correctly rounded; 1 at x = 1, as the ellipse
+    // reads a direction with nothing asked of the other (1 - 0^n)^(1/n).
+    if (mantissa == 0) return scale_[static_cast<std::size_t>(e - min_exponent)];
     const double m = std::bit_cast<double>(mantissa | (std::uint64_t{1023} << 52));  // [1, 2)
     const std::size_t j = static_cast<std::size_t>(mantissa >> (52 - interval_bits));
     const double* c = &coefficients_[j * row];
