@@ -1370,7 +1370,11 @@ void LapSolver::channels_pass(const Envelope& env, const Mesh& mesh, ChannelSet 
         use = usage(f, loads_at(f, road, diff), diff);
         const bool engine =
             diff < 0.0 || diff <= (f.drive_n - f.resistance_n) / env.effective_mass_kg();
-        used = engine && use.front_usage <= 1.0 && use.rear_usage <= 1.0;
+        // An axle lifted by the difference (its load below 0 beyond rounding: loads_at) reads
+        // usage 0 where it is asked for nothing (a rear-driven car's front on a straight), though
+        // the model bounds the acceleration there (axle_drive_accel's front_bound).
+        used = engine && use.front_usage <= 1.0 && use.rear_usage <= 1.0 &&
+               use.loads.front_n >= 0.0 && use.loads.rear_n >= 0.0;
         if (used) return diff;
       }
       if (diff >= 0.0) {
