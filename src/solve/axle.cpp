@@ -131,10 +131,15 @@ std::optional<double> newton_upper_root(Phi phi) {
 // side: g is concave, its tangents lie above it), the evaluation that would confirm it is
 // skipped. Measured on Brannock Park (sports car, exponent 2.2): the warm starts' steps run
 // 1e-2, 2e-7, 1e-15 m/s^2, so the third of three evaluations goes.
-inline bool settled(double step, double last_step) {
+// The estimate holds only where g' is smooth over the last step: across a kink (an inner tyre
+// that lifts, mu at its floor) or near an axle's saturation (its force left falls to 0 with an
+// infinite slope) the step ratio is no measure of the error, so g' must have moved by at most
+// 1e-3 of itself over the last step (it moves by g'' s there, C s of itself).
+inline bool settled(double step, double last_step, double dg, double last_dg) {
   constexpr double predicted_error = 1e-13;
   return std::isfinite(last_step) && step <= 1e-3 * last_step &&
-         step * step * step <= predicted_error * last_step * last_step;
+         step * step * step <= predicted_error * last_step * last_step &&
+         std::abs(dg - last_dg) <= 1e-3 * std::abs(dg);
 }
 
 // Warm start: the same Newton iteration from the last answer of this axle's fixed point (the
@@ -150,7 +155,7 @@ std::optional<double> newton_from(Phi phi, double& hint) {
   constexpr double inf = std::numeric_limits<double>::infinity();
   std::optional<double> r;
   if (hint > 0.0 && std::isfinite(hint)) {
-    double lo = -inf, hi = inf, a = hint, last_step = inf;
+    double lo = -inf, hi = inf, a = hint, last_step = inf, last_dg = 0.0;
     for (int k = 0; k < 8; ++k) {
       const PhiSlope p = phi(a);
       const double g = p.phi - a, dg = p.slope - 1.0;
@@ -163,13 +168,14 @@ std::optional<double> newton_from(Phi phi, double& hint) {
       if (!(dg < 0.0)) break;
       const double next = a - g / dg;
       const double step = std::abs(next - a);
-      if (step <= step_tolerance || settled(step, last_step)) {
+      if (step <= step_tolerance || settled(step, last_step, dg, last_dg)) {
         r = std::max(lo, next - feasible_side);
         break;
       }
       if (!(next > lo && next < hi)) break;
       a = next;
       last_step = step;
+      last_dg = dg;
     }
   }
   if (!r) r = newton_upper_root(phi);
