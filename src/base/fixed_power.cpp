@@ -5,7 +5,8 @@
 namespace lapwing {
 
 FixedPower::FixedPower(double p) : p_(p) {
-  if (!(p > 0.0) || !std::isfinite(p)) throw std::invalid_argument("FixedPower: p must be > 0");
+  // Above 15 the table's 2^(-64 p) would fall below the normal doubles (2^-1022) and lose digits.
+  if (!(p > 0.0 && p <= max_p)) throw std::invalid_argument("FixedPower: p must be in (0, 15]");
   const long double lp = p;
   for (std::size_t j = 0; j < intervals; ++j) {
     // The middle of m's j-th interval, exact in binary: 1 + (j + 1/2) / 64.

@@ -281,7 +281,8 @@ TEST_CASE("with no load sensitivity lateral transfer changes nothing: the axle m
         run_lap(test::configured(car), c).summary.lap_time_s + 0.05);
 }
 
-TEST_CASE("a rear-driven car that lifts its front on a graded straight: no axle reads a load below 0") {
+TEST_CASE(
+    "a rear-driven car that lifts its front on a graded straight: no axle reads a load below 0") {
   // An invented wheelie-limited car (rear drive, cg 1 m over a 1.8 m wheelbase, 30 % on the
   // front) up an 8 % straight from rest. Under drive the front axle is asked for no force, and
   // the acceleration is bounded where it would lift (a <= front load x L / (m h): axle.cpp's

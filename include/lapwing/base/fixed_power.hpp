@@ -9,16 +9,16 @@
 
 namespace lapwing {
 
-/// x^p for x >= 0 and a fixed p > 0. With x = 2^e m, m in [1, 2): x^p = 2^(e p) m^p, the first
-/// factor read from a table over e, the second from one of 64 Taylor polynomials of degree 8
-/// about the middles of m's 64 equal intervals: (c + d)^p = sum_k C(p, k) c^(p - k) d^k with
-/// |d| <= 1/128, whose first left-out term, |C(p, 9)| (1/128)^9 c^(p - 9), is below 1e-17 of
-/// c^p for p up to 10 (|C(p, 9)| <= 10 there, (1/128)^9 = 1.1e-19). Coefficients and table are
-/// worked in long double. Against 50-digit arithmetic (Boost.Multiprecision;
-/// fixed_power_test): at most 2.5 ulp for p from 0.1 to 10 over the table's range, where the
-/// library's exp2(p log2 x) is off by up to about |p log2 x| / 2 ulp (measured: 21 ulp for
-/// ratios in [0, 1) at p = 2.2, 95 at p = 10). Outside the table's exponents (x below 2^-64 or
-/// from 2^8 up, subnormal, infinite) the library's form answers; a power of two (x = 1 among
+/// x^p for x >= 0 and a fixed p in (0, 15] (the ellipse's n and 1/n lie in [0.1, 10]). With x = 2^e
+/// m, m in [1, 2): x^p = 2^(e p) m^p, the first factor read from a table over e, the second from
+/// one of 64 Taylor polynomials of degree 8 about the middles of m's 64 equal intervals: (c + d)^p
+/// = sum_k C(p, k) c^(p - k) d^k with |d| <= 1/128, whose first left-out term, |C(p, 9)| (1/128)^9
+/// c^(p - 9), is below 1e-17 of c^p for p up to 10 (|C(p, 9)| <= 10 there, (1/128)^9 = 1.1e-19).
+/// Coefficients and table are worked in long double. Against 50-digit arithmetic
+/// (Boost.Multiprecision; fixed_power_test): at most 2.5 ulp for p from 0.1 to 10 over the table's
+/// range, where the library's exp2(p log2 x) is off by up to about |p log2 x| / 2 ulp (measured: 21
+/// ulp for ratios in [0, 1) at p = 2.2, 95 at p = 10). Outside the table's exponents (x below 2^-64
+/// or from 2^8 up, subnormal, infinite) the library's form answers; a power of two (x = 1 among
 /// them, exactly 1) is the exponent's table alone. About 25 instructions where the two library
 /// calls take some 90 (callgrind), about half the time (measured: 4.6 against 9.2 ns a call).
 class FixedPower {
@@ -42,13 +42,16 @@ class FixedPower {
     const double d = m - c[0];
     const double poly =
         c[1] +
-        d * (c[2] + d * (c[3] + d * (c[4] + d * (c[5] + d * (c[6] + d * (c[7] + d * (c[8] + d * c[9])))))));
+        d * (c[2] +
+             d * (c[3] +
+                  d * (c[4] + d * (c[5] + d * (c[6] + d * (c[7] + d * (c[8] + d * c[9])))))));
     return poly * scale_[static_cast<std::size_t>(e - min_exponent)];
   }
 
   static constexpr int interval_bits = 6;
   static constexpr int degree = 8;
   static constexpr int min_exponent = -64, max_exponent = 7;
+  static constexpr double max_p = 15.0;
 
  private:
   static constexpr std::size_t intervals = std::size_t{1} << interval_bits;
