@@ -34,7 +34,6 @@ class TyreModel {
         nominal_n_(t.nominal_load_n),
         sensitivity_per_n_(t.load_sensitivity / t.nominal_load_n),
         n_(t.ellipse_exponent),
-        inv_n_(1.0 / t.ellipse_exponent),
         quadratic_(t.ellipse_exponent == 2.0),
         long_per_lat_(t.mu_long / t.mu_lat),
         pow_n_(t.ellipse_exponent),
@@ -232,7 +231,7 @@ class TyreModel {
  private:
   double mu_long0_, mu_lat0_, nominal_n_;
   double sensitivity_per_n_;  // load_sensitivity / nominal_load (no division per call)
-  double n_, inv_n_;
+  double n_;
   bool quadratic_;
   double long_per_lat_;
   /// The ellipse's powers x^n and x^(1/n), x >= 0 (0 at x = 0), from tables made once
