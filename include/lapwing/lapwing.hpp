@@ -12,6 +12,7 @@
 // base
 #include "lapwing/base/big_blocks.hpp"
 #include "lapwing/base/error.hpp"
+#include "lapwing/base/ellipse_shape.hpp"
 #include "lapwing/base/fixed_power.hpp"
 #include "lapwing/base/format.hpp"
 #include "lapwing/base/halves.hpp"

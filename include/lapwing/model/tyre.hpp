@@ -7,6 +7,7 @@
 #include <limits>
 #include <optional>
 
+#include "lapwing/base/ellipse_shape.hpp"
 #include "lapwing/base/fixed_power.hpp"
 #include "lapwing/base/violation.hpp"
 
@@ -37,7 +38,7 @@ class TyreModel {
         quadratic_(t.ellipse_exponent == 2.0),
         long_per_lat_(t.mu_long / t.mu_lat),
         pow_n_(t.ellipse_exponent),
-        pow_inv_n_(1.0 / t.ellipse_exponent) {}
+        shape_(t.ellipse_exponent) {}
 
   /// Load sensitivity, linear in the per-tyre load (common practice; README, "Physics and
   /// assumptions", tyres): mu(Fz) = mu0 (1 - s (Fz - Fn) / Fn), never below 0.1 mu0.
@@ -137,7 +138,7 @@ class TyreModel {
   double long_share_left(double lateral_ratio) const {
     if (lateral_ratio >= 1.0) return 0.0;
     if (quadratic_) return std::sqrt(1.0 - lateral_ratio * lateral_ratio);
-    return pow_inv_n_(1.0 - pow_n_(lateral_ratio));
+    return shape_(lateral_ratio).y;
   }
 
   /// Longitudinal force left by the ellipse at lateral force |fy| <= ... (0 beyond Fy_max).
@@ -196,9 +197,8 @@ class TyreModel {
     }
     const double r = std::abs(fy_n) / fy_max;
     if (r >= 1.0) return {0.0, 0.0};
-    const double rest = 1.0 - pow_n_(r);  // 1 - r^n
-    const double share = pow_inv_n_(rest);
-    return {mu_long0_ * f * share, mu_long0_ * share / rest * df};
+    const EllipseShape::Point shape = shape_(r);  // share (1 - r^n)^(1/n), rest 1 - r^n
+    return {mu_long0_ * f * shape.y, mu_long0_ * shape.y / shape.rest * df};
   }
 
   /// Whether an axle at load L, `transfer_n` moved to its outer tyre and carrying lateral force
@@ -234,11 +234,12 @@ class TyreModel {
   double n_;
   bool quadratic_;
   double long_per_lat_;
-  /// The ellipse's powers x^n and x^(1/n), x >= 0 (0 at x = 0), from tables made once
+  /// The ellipse's power x^n, x >= 0 (0 at x = 0), from tables made once
   /// (base/fixed_power.hpp): within 3 ulp of 50-digit arithmetic where the library's
   /// 2^(n log2 x) reached 21 ulp for ratios in [0, 1) at n = 2.2 and 95 at n = 10, in about
-  /// half its time.
-  FixedPower pow_n_, pow_inv_n_;
+  /// half its time; and its shape (1 - x^n)^(1/n) with 1 - x^n (base/ellipse_shape.hpp).
+  FixedPower pow_n_;
+  EllipseShape shape_;
 };
 
 }  // namespace lapwing
