@@ -1201,28 +1201,39 @@ void LapSolver::speed_pass(const Envelope& env, const Mesh& mesh, double start_s
 
   resize_ready({&lap.speed_mps, &lap.time_s}, n, second);
   lap.phase.resize(n);
+  // Each point's speed and phase, and each step's time 2 ds / (v_i + v_(i+1)), exact for a
+  // constant acceleration over the step (ds / mean speed; README, "Physics and assumptions"),
+  // into time_s[i + 1]: in halves of the points, the second on the second thread where there
+  // is one. A half stops at its first point that does not move; the first half's error is the
+  // one rethrown (in_halves), the first such point of the lap.
+  const double two_ds = 2.0 * mesh.step_m;
+  in_halves(n, second, [&](std::size_t lo, std::size_t hi) {
+    for (std::size_t i = lo; i < hi; ++i) {
+      const double v = std::min(fwd.speed_mps[i], bwd.speed_mps[i]);
+      lap.speed_mps[i] = v;
+      const bool on_limit = v >= steady[i] * (1.0 - phase_on_limit);
+      lap.phase[i] = classify_phase(on_limit, bwd.speed_mps[i] < fwd.speed_mps[i], steady_.limit[i],
+                                    fwd.cut[i]);
+      if (i + 1 < n) {
+        const double vsum = v + std::min(fwd.speed_mps[i + 1], bwd.speed_mps[i + 1]);
+        if (!(vsum > 0.0)) throw CannotMove("the car does not move at " + where(mesh, i));
+        lap.time_s[i + 1] = two_ds / vsum;
+      }
+    }
+  });
+  // Then in order: the time as the running sum of the steps' (the same additions in the same
+  // order whatever the threads), and the stretch held on a lift limit.
   lap.lift_hold = {};
   bool held_before = false;
+  lap.time_s[0] = 0.0;
   for (std::size_t i = 0; i < n; ++i) {
-    const double v = std::min(fwd.speed_mps[i], bwd.speed_mps[i]);
-    lap.speed_mps[i] = v;
-    const bool on_limit = v >= steady[i] * (1.0 - phase_on_limit);
-    lap.phase[i] =
-        classify_phase(on_limit, bwd.speed_mps[i] < fwd.speed_mps[i], steady_.limit[i], fwd.cut[i]);
-    const bool held = on_limit && lift_limit(steady_.limit[i]);
+    if (i > 0) lap.time_s[i] = lap.time_s[i - 1] + lap.time_s[i];
+    const bool held =
+        lift_limit(steady_.limit[i]) && lap.speed_mps[i] >= steady[i] * (1.0 - phase_on_limit);
     if (held && !lap.lift_hold.held)
       lap.lift_hold = {true, steady_.limit[i] == SteadyLimit::front_lift, i, 0.0};
     if (i > 0) lap.lift_hold.length_m += 0.5 * mesh.step_m * (held + held_before);
     held_before = held;
-  }
-
-  // Time: sum of 2 ds / (v_i + v_{i+1}), exact for a constant acceleration over each step
-  // (ds / mean speed; README, "Physics and assumptions").
-  lap.time_s[0] = 0.0;
-  for (std::size_t i = 0; i + 1 < n; ++i) {
-    const double vsum = lap.speed_mps[i] + lap.speed_mps[i + 1];
-    if (!(vsum > 0.0)) throw CannotMove("the car does not move at " + where(mesh, i));
-    lap.time_s[i + 1] = lap.time_s[i] + 2.0 * mesh.step_m / vsum;
   }
   lap.lap_time_s = lap.time_s[n - 1];
 }
