@@ -3,7 +3,6 @@
 // reference library). Errors in units in the last place (ulp) of the exact value.
 #include <doctest/doctest.h>
 
-#include <boost/multiprecision/cpp_bin_float.hpp>
 #include <boost/random/mersenne_twister.hpp>
 #include <boost/random/uniform_real_distribution.hpp>
 
@@ -13,18 +12,14 @@
 #include <stdexcept>
 #include <vector>
 
+#include "exact_ulps.hpp"
 #include "lapwing/base/ellipse_shape.hpp"
 
 using namespace lapwing;
-using Exact = boost::multiprecision::cpp_bin_float_50;
+using test::Exact;
+using test::ulps;
 
 namespace {
-
-double ulps(double y, const Exact& exact) {
-  const double e = exact.convert_to<double>();
-  const double spacing = std::nextafter(e, std::numeric_limits<double>::infinity()) - e;
-  return static_cast<double>(boost::multiprecision::abs(Exact(y) - exact) / Exact(spacing));
-}
 
 // x over [0, 1): uniform (a fixed seed), 1 - 2^-k up to k = 50 (rest down to 1e-15 of 1, where
 // the old 1 - x^n kept no digit), and either side of 1/2 and of each table interval's edge.

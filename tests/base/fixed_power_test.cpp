@@ -4,7 +4,6 @@
 // value.
 #include <doctest/doctest.h>
 
-#include <boost/multiprecision/cpp_bin_float.hpp>
 #include <boost/random/mersenne_twister.hpp>
 #include <boost/random/uniform_real_distribution.hpp>
 
@@ -13,19 +12,17 @@
 #include <stdexcept>
 #include <vector>
 
+#include "exact_ulps.hpp"
 #include "lapwing/base/fixed_power.hpp"
 
 using namespace lapwing;
-using Exact = boost::multiprecision::cpp_bin_float_50;
+using test::Exact;
 
 namespace {
 
 // |y - x^p| in ulp of the exact x^p (the spacing of doubles at that value).
 double ulp_error(double y, double x, double p) {
-  const Exact exact = boost::multiprecision::pow(Exact(x), Exact(p));
-  const double e = exact.convert_to<double>();
-  const double spacing = std::nextafter(e, std::numeric_limits<double>::infinity()) - e;
-  return static_cast<double>(boost::multiprecision::abs(Exact(y) - exact) / Exact(spacing));
+  return test::ulps(y, boost::multiprecision::pow(Exact(x), Exact(p)));
 }
 
 // Points x over the table's range [2^-64, 2^8): log-uniform (a fixed seed), every power of two,
