@@ -39,8 +39,9 @@ std::vector<double> points() {
 
 }  // namespace
 
-TEST_CASE("the ellipse's shape: y within 5 ulp and 1 - x^n within 4 ulp of 50-digit arithmetic") {
-  // Measured: at most 4.5 and 3.3 ulp (n = 3.7 and 10).
+TEST_CASE("the ellipse's shape: y within 6 ulp and 1 - x^n within 4.5 ulp of 50-digit arithmetic") {
+  // Measured on this sample: at most 4.5 and 3.3 ulp (n = 3.7 and 10); a denser sweep found
+  // 5.84 and 4.07 (the header), so the bounds are 6 and 4.5.
   const std::vector<double> xs = points();
   for (double n : {1.0, 1.5, 2.0, 2.2, 3.0, 3.7, 6.5, 10.0}) {
     const EllipseShape shape(n);
@@ -55,8 +56,8 @@ TEST_CASE("the ellipse's shape: y within 5 ulp and 1 - x^n within 4 ulp of 50-di
       worst_y = std::max(worst_y, ulps(p.y, y));
     }
     INFO("n = " << n << ": worst y " << worst_y << " ulp, rest " << worst_rest << " ulp");
-    CHECK(worst_y <= 5.0);
-    CHECK(worst_rest <= 4.0);
+    CHECK(worst_y <= 6.0);
+    CHECK(worst_rest <= 4.5);
   }
 }
 
@@ -75,21 +76,21 @@ TEST_CASE("the ellipse's shape at its ends and out of range") {
 TEST_CASE("the ellipse's shape: the stated bounds at points a denser sweep found") {
   // Found by a sweep of 150000 points of [1/2, 1) per exponent (a review's probe, not the
   // fixed sample above): the class's y and rest against 50-digit arithmetic (Boost
-  // .Multiprecision's cpp_bin_float_50, as above). The header states y within 5 ulp and rest
-  // within 4 ulp for n in [1, 10] over [0, 1); here they measured 5.53 and 4.01.
+  // .Multiprecision's cpp_bin_float_50, as above): 5.53 and 4.01 ulp measured, within the
+  // header's 6 and 4.5 (beyond the 5 and 4 it first stated).
   {
     const double n = 9.5, x = 0.78928528316097801;
     const Exact rest = 1 - boost::multiprecision::pow(Exact(x), Exact(n));
     const Exact y = boost::multiprecision::pow(rest, Exact(1.0 / n));
     const double err = ulps(EllipseShape(n)(x).y, y);
     INFO("n = 9.5, x = " << x << ": y off by " << err << " ulp");
-    CHECK(err <= 5.0);
+    CHECK(err <= 6.0);
   }
   {
     const double n = 1.01, x = 0.51568619495711754;
     const Exact rest = 1 - boost::multiprecision::pow(Exact(x), Exact(n));
     const double err = ulps(EllipseShape(n)(x).rest, rest);
     INFO("n = 1.01, x = " << x << ": rest off by " << err << " ulp");
-    CHECK(err <= 4.0);
+    CHECK(err <= 4.5);
   }
 }
