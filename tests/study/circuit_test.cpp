@@ -49,3 +49,28 @@ TEST_CASE("config indices must name the car's configs, once each") {
         "configs: config index 1 is not one of the car's (it has 1)");
   CHECK(test::describe(configs_violation(car, {0, 0})) == "configs: config index 0 is given twice");
 }
+
+#if defined(__linux__)
+#include <sched.h>
+
+TEST_CASE("a lone lap takes one thread where the process may run on one processor only") {
+  // The second thread's hand-over spins (base/halves.hpp): with the process held to one
+  // processor (taskset, a cpuset, a batch job's one core) two threads share it and each pass
+  // pays the spin (lapwing_bench, Brannock Park, taskset -c 0: one lap on 2 threads 472 ns a
+  // point against 104 on 1). The expected count is the affinity mask set here: one processor.
+  cpu_set_t saved;
+  CPU_ZERO(&saved);
+  REQUIRE(sched_getaffinity(0, sizeof saved, &saved) == 0);
+  int first = -1;
+  for (int c = 0; c < CPU_SETSIZE && first < 0; ++c)
+    if (CPU_ISSET(c, &saved)) first = c;
+  REQUIRE(first >= 0);
+  cpu_set_t one;
+  CPU_ZERO(&one);
+  CPU_SET(first, &one);
+  REQUIRE(sched_setaffinity(0, sizeof one, &one) == 0);
+  const unsigned threads = lone_lap_threads();
+  REQUIRE(sched_setaffinity(0, sizeof saved, &saved) == 0);
+  CHECK(threads == 1);
+}
+#endif
