@@ -1,8 +1,13 @@
 #include "lapwing/base/halves.hpp"
 
+#include <algorithm>
 #include <chrono>
 #include <system_error>
 #include <utility>
+
+#if defined(__linux__)
+#include <sched.h>
+#endif
 
 namespace lapwing {
 
@@ -27,6 +32,18 @@ bool spin_until(const Ready& ready) {
   }
 }
 }  // namespace
+
+unsigned usable_processors() {
+#if defined(__linux__)
+  cpu_set_t set;
+  CPU_ZERO(&set);
+  if (sched_getaffinity(0, sizeof set, &set) == 0) {
+    const int count = CPU_COUNT(&set);
+    if (count > 0) return static_cast<unsigned>(count);
+  }
+#endif
+  return std::max(1u, std::thread::hardware_concurrency());
+}
 
 SecondThread::SecondThread() : thread_([this] { loop(); }) {}
 

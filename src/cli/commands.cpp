@@ -15,6 +15,7 @@
 #include <thread>
 
 #include "lapwing/base/error.hpp"
+#include "lapwing/base/halves.hpp"
 #include "lapwing/base/format.hpp"
 #include "lapwing/base/hash.hpp"
 #include "lapwing/base/named_value.hpp"
@@ -225,7 +226,7 @@ void require_memory(const std::string& option, const std::vector<Inputs::Loaded>
   MemoryPlan plan;
   plan.laps_kept = laps_kept;
   plan.channels = channels;
-  if (threads == 0) threads = std::max(1u, std::thread::hardware_concurrency());
+  if (threads == 0) threads = usable_processors();
   plan.solvers = static_cast<unsigned>(std::clamp<std::size_t>(jobs, 1, threads));
   std::size_t largest = 0;
   for (std::size_t i = 0; i < tracks.size(); ++i) {

@@ -502,7 +502,7 @@ Mesh build_mesh(const Track& track, double step_m, unsigned threads) {
   // A long mesh is laid out on two threads where there are two (the halves are the same either
   // way); its buffers are made ready on both.
   if (threads == 0)
-    threads = n + 1 >= points_apart && std::thread::hardware_concurrency() >= 2 ? 2 : 1;
+    threads = n + 1 >= points_apart && usable_processors() >= 2 ? 2 : 1;
   const std::unique_ptr<SecondThread> second =
       threads >= 2 ? SecondThread::try_start() : nullptr;  // none to be had: one thread
   resize_ready({&m.s_m, &m.x_m, &m.y_m, &m.heading_rad, &m.curvature_1pm}, n + 1, second.get());

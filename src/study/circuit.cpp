@@ -5,6 +5,7 @@
 #include <thread>
 
 #include "lapwing/base/error.hpp"
+#include "lapwing/base/halves.hpp"
 #include "lapwing/base/units.hpp"
 
 namespace lapwing {
@@ -83,7 +84,7 @@ LapRun run_lap(const ConfiguredCar& car, const Circuit& c) {
 }
 
 unsigned lone_lap_threads() {
-  return std::thread::hardware_concurrency() >= 2 ? 2 : 1;
+  return usable_processors() >= 2 ? 2 : 1;
 }
 
 }  // namespace lapwing

@@ -8,11 +8,13 @@
 #include <thread>
 #include <vector>
 
+#include "lapwing/base/halves.hpp"
+
 namespace lapwing {
 
 void parallel_for(std::size_t count, unsigned threads,
                   const std::function<void(std::size_t, LapSolver&)>& job) {
-  if (threads == 0) threads = std::max(1u, std::thread::hardware_concurrency());
+  if (threads == 0) threads = usable_processors();
   // Fewer laps than threads (a compare of one config on one track): a lap takes two of the
   // threads it leaves idle (LapSolver::set_threads; the same lap whatever it takes).
   const unsigned per_lap = count == 1 && threads >= 2 ? 2 : 1;

@@ -57,6 +57,12 @@ class SecondThread {
   std::thread thread_;  // last: it starts once the rest is built
 };
 
+/// The processors this process may run on: its affinity mask's count where the system tells it
+/// (taskset, a cpuset, a batch job's cores), else std::thread::hardware_concurrency (at least
+/// 1). A second thread on a processor shared with its caller pays SecondThread's spin on every
+/// hand-over.
+unsigned usable_processors();
+
 /// A pass over points 0 to n-1 worked as two halves, [0, n/2) and [n/2, n), each from a fresh
 /// start: `half(lo, hi)`. With a second thread the second half runs there. The halves are the
 /// same either way, so the pass's results are too; where both halves throw, the first half's

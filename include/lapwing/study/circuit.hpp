@@ -47,7 +47,8 @@ const Lap& solve_speed_only(const Envelope& env, const Circuit& circuit, LapSolv
 /// The same in a solver of its own, on lone_lap_threads() threads.
 LapRun run_lap(const ConfiguredCar& car, const Circuit& circuit);
 /// Threads a lap solved alone, outside a pool of threads, may use (LapSolver::set_threads): 2
-/// where the machine has two cores or more, else 1. The lap is the same either way.
+/// where the process may run on two processors or more (usable_processors), else 1. The lap is
+/// the same either way.
 unsigned lone_lap_threads();
 
 }  // namespace lapwing
