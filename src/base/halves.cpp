@@ -3,6 +3,7 @@
 #include <algorithm>
 #include <chrono>
 #include <system_error>
+#include <thread>
 #include <utility>
 
 #if defined(__linux__)
@@ -29,6 +30,9 @@ bool spin_until(const Ready& ready) {
 #endif
     }
     if (std::chrono::steady_clock::now() >= end) return ready();
+    // Let a thread that shares this processor run (the other side of the hand-over among them,
+    // on a machine busy with other work).
+    std::this_thread::yield();
   }
 }
 }  // namespace
@@ -113,7 +117,7 @@ void SecondThread::loop() {
       error = std::current_exception();
     }
     lock.lock();
-    error_ = error;
+    error_ = std::move(error);
     done_.store(seen, std::memory_order_release);
     lock.unlock();
     wake_.notify_all();

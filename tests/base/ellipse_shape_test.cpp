@@ -94,3 +94,13 @@ TEST_CASE("the ellipse's shape: the stated bounds at points a denser sweep found
     CHECK(err <= 4.5);
   }
 }
+
+TEST_CASE("the ellipse's shape outside [0, 1): a NaN as before, 1 and above spent") {
+  // No undefined conversion of a NaN or a negative s to an index (UBSan in tools/test).
+  const EllipseShape shape(2.2);
+  const double nan = std::numeric_limits<double>::quiet_NaN();
+  CHECK(shape(nan).y == 1.0);  // FixedPower reads a NaN as 0: (1 - 0)^(1/n)
+  CHECK(shape(nan).rest == 1.0);
+  CHECK(shape(1.0).y == 0.0);
+  CHECK(shape(1.5).rest == 0.0);
+}

@@ -36,12 +36,15 @@ class EllipseShape {
     double rest;  // 1 - x^n
   };
 
-  /// x in [0, 1).
+  /// x in [0, 1). (A NaN reads as below 1/2 did before this class: y 1, rest 1, as FixedPower
+  /// takes a NaN for 0; x from 1 up reads y 0 and rest 0, the ellipse spent. Callers keep to
+  /// [0, 1): TyreModel answers x >= 1 itself.)
   Point operator()(double x) const {
-    if (x < 0.5) {
+    if (!(x >= 0.5)) {
       const double rest = 1.0 - pow_n_(x);
       return {pow_inv_n_(rest), rest};
     }
+    if (!(x < 1.0)) return {0.0, 0.0};
     const double s = 1.0 - x;
     const std::size_t j = std::min(static_cast<std::size_t>(s * (2 * intervals)), intervals - 1);
     const double* c = &tables_->coefficients[j * row];
