@@ -1,8 +1,8 @@
 #include "lapwing/base/fixed_power.hpp"
 
-#include <map>
-#include <mutex>
 #include <stdexcept>
+
+#include "lapwing/base/once_per_key.hpp"
 
 namespace lapwing {
 
@@ -15,31 +15,27 @@ FixedPower::FixedPower(double p) : p_(p) {
 std::shared_ptr<const FixedPower::Tables> FixedPower::tables_for(double p) {
   // One set per exponent for the process's life (a car file has one or two; a sweep over the
   // exponent a few hundred, 6 KB each), the same bits whichever thread made them.
-  static std::mutex mutex;
-  static std::map<double, std::shared_ptr<const Tables>> made;
-  const std::lock_guard<std::mutex> lock(mutex);
-  std::shared_ptr<const Tables>& slot = made[p];
-  if (slot) return slot;
-  auto t = std::make_shared<Tables>();
-  const long double lp = p;
-  for (std::size_t j = 0; j < intervals; ++j) {
-    // The middle of m's j-th interval, exact in binary: 1 + (j + 1/2) / 64.
-    const long double c = 1.0L + (static_cast<long double>(j) + 0.5L) / intervals;
-    double* out = &t->coefficients[j * row];
-    out[0] = static_cast<double>(c);
-    // C(p, k) c^(p - k), k = 0 .. degree: the binomial by its recurrence, the power by powl.
-    long double binomial = 1.0L, term = std::pow(c, lp);
-    for (int k = 0; k <= degree; ++k) {
-      out[1 + k] = static_cast<double>(binomial * term);
-      binomial *= (lp - k) / (k + 1);
-      term /= c;
+  return once_per_key<Tables>(p, [p] {
+    auto t = std::make_shared<Tables>();
+    const long double lp = p;
+    for (std::size_t j = 0; j < intervals; ++j) {
+      // The middle of m's j-th interval, exact in binary: 1 + (j + 1/2) / 64.
+      const long double c = 1.0L + (static_cast<long double>(j) + 0.5L) / intervals;
+      double* out = &t->coefficients[j * row];
+      out[0] = static_cast<double>(c);
+      // C(p, k) c^(p - k), k = 0 .. degree: the binomial by its recurrence, the power by powl.
+      long double binomial = 1.0L, term = std::pow(c, lp);
+      for (int k = 0; k <= degree; ++k) {
+        out[1 + k] = static_cast<double>(binomial * term);
+        binomial *= (lp - k) / (k + 1);
+        term /= c;
+      }
     }
-  }
-  for (int e = min_exponent; e <= max_exponent; ++e)
-    t->scale[static_cast<std::size_t>(e - min_exponent)] =
-        static_cast<double>(std::exp2(static_cast<long double>(e) * lp));
-  slot = t;
-  return slot;
+    for (int e = min_exponent; e <= max_exponent; ++e)
+      t->scale[static_cast<std::size_t>(e - min_exponent)] =
+          static_cast<double>(std::exp2(static_cast<long double>(e) * lp));
+    return t;
+  });
 }
 
 }  // namespace lapwing

@@ -1207,11 +1207,14 @@ void LapSolver::speed_pass(const Envelope& env, const Mesh& mesh, double start_s
   // is one. A half stops at its first point that does not move; the first half's error is the
   // one rethrown (in_halves), the first such point of the lap.
   const double two_ds = 2.0 * mesh.step_m;
+  const auto on_limit_at = [&](std::size_t i, double v) {
+    return v >= steady[i] * (1.0 - phase_on_limit);
+  };
   in_halves(n, second, [&](std::size_t lo, std::size_t hi) {
     for (std::size_t i = lo; i < hi; ++i) {
       const double v = std::min(fwd.speed_mps[i], bwd.speed_mps[i]);
       lap.speed_mps[i] = v;
-      const bool on_limit = v >= steady[i] * (1.0 - phase_on_limit);
+      const bool on_limit = on_limit_at(i, v);
       lap.phase[i] = classify_phase(on_limit, bwd.speed_mps[i] < fwd.speed_mps[i], steady_.limit[i],
                                     fwd.cut[i]);
       if (i + 1 < n) {
@@ -1228,8 +1231,7 @@ void LapSolver::speed_pass(const Envelope& env, const Mesh& mesh, double start_s
   lap.time_s[0] = 0.0;
   for (std::size_t i = 0; i < n; ++i) {
     if (i > 0) lap.time_s[i] = lap.time_s[i - 1] + lap.time_s[i];
-    const bool held =
-        lift_limit(steady_.limit[i]) && lap.speed_mps[i] >= steady[i] * (1.0 - phase_on_limit);
+    const bool held = lift_limit(steady_.limit[i]) && on_limit_at(i, lap.speed_mps[i]);
     if (held && !lap.lift_hold.held)
       lap.lift_hold = {true, steady_.limit[i] == SteadyLimit::front_lift, i, 0.0};
     if (i > 0) lap.lift_hold.length_m += 0.5 * mesh.step_m * (held + held_before);
