@@ -15,6 +15,7 @@
 #include <utility>
 
 #include "lapwing/base/error.hpp"
+#include "lapwing/base/exp_ratio.hpp"
 #include "lapwing/base/halves.hpp"
 #include "lapwing/base/memory.hpp"
 #include "lapwing/base/units.hpp"
@@ -843,17 +844,11 @@ double split_step(Sw& s, double u0, double x0, double h, const StageCheck& flagg
 // typical 1e-3 per m).
 // slope_spread and secant_reach: above the Sweeper (its table steps bound the step's reach).
 
-// phi1(z) = (e^z - 1) / z, 1 at z = 0. expm1 keeps full relative accuracy for small |z|, where
-// e^z - 1 would cancel; for z -> -inf phi1 -> -1 / z.
-inline double phi1(double z) {
-  return z == 0.0 ? 1.0 : std::expm1(z) / z;
-}
-
 template <class Sw, std::size_t N>
 [[gnu::always_inline]] inline std::array<double, N> exponential_step(
     const std::array<Sw*, N>& s, const std::array<double, N>& u0, double h) {
   const double xm = 0.5 * h;
-  std::array<double, N> um, fm, ud, u1;
+  std::array<double, N> um, fm, ud, inv_du, u1;
   std::array<bool, N> clipped;
   for (std::size_t c = 0; c < N; ++c) {
     um[c] = std::min(u0[c], s[c]->cap(xm));
@@ -863,13 +858,16 @@ template <class Sw, std::size_t N>
         std::max(secant_reach * h * std::abs(fm[c]), slope_spread * std::max(um[c], 1.0));
     const double ahead = fm[c] >= 0.0 ? um[c] + d : um[c] - d;
     ud[c] = ahead >= 0.0 && ahead <= s[c]->cap(xm) ? ahead : (fm[c] >= 0.0 ? um[c] - d : um[c] + d);
+    // Worked while the model is read at ud: the secant's division off the chain from step to
+    // step.
+    inv_du[c] = 1.0 / (um[c] - ud[c]);
   }
   for (std::size_t c = 0; c < N; ++c) {
     if (clipped[c]) {
       u1[c] = u0[c] + h * fm[c];
       continue;
     }
-    const double j = (fm[c] - s[c]->rhs(ud[c], xm)) / (um[c] - ud[c]);
+    const double j = (fm[c] - s[c]->rhs(ud[c], xm)) * inv_du[c];
     u1[c] = u0[c] + h * phi1(h * j) * (fm[c] + j * (u0[c] - um[c]));
   }
   return u1;
