@@ -91,9 +91,21 @@ double transfer_fixed_point(Phi phi) {
 // search's feasible end), never below lo. Three to five evaluations on the common path where
 // the bracket search and TOMS 748 took ten to twenty. nullopt where g(0) < 0 or 60 steps do not
 // settle: the caller takes the bracketing search.
+// phi(a) and its slope as a quotient, slope_num / slope_den (slope_den > 0:
+// TyreModel::LeftAndSlope), so that the Newton step a - g / g' with g' = (num - den) / den is
+// a - g den / (num - den): one division on the chain from one iterate to the next, where the
+// slope and then the step took one each. g' itself (for the tests on its sign and on how it
+// moved) is worked beside it.
 struct PhiSlope {
-  double phi, slope;
+  double phi, slope_num, slope_den;
 };
+struct Step {
+  double g, dg, next;
+};
+inline Step newton_step(const PhiSlope& p, double a) {
+  const double g = p.phi - a, dg_num = p.slope_num - p.slope_den;
+  return {g, dg_num / p.slope_den, a - g * p.slope_den / dg_num};
+}
 template <typename Phi>
 std::optional<double> newton_upper_root(Phi phi) {
   constexpr double step_tolerance = 0.1 * transfer_tolerance_mps2;
@@ -101,7 +113,7 @@ std::optional<double> newton_upper_root(Phi phi) {
   double lo = 0.0, hi = std::numeric_limits<double>::infinity(), a = 0.0;
   for (int k = 0; k < 60; ++k) {
     const PhiSlope p = phi(a);
-    const double g = p.phi - a, dg = p.slope - 1.0;
+    const auto [g, dg, newton] = newton_step(p, a);
     if (g >= 0.0) {
       if (k == 0 && g == 0.0 && !(dg > 0.0)) return 0.0;
       lo = std::max(lo, a);
@@ -113,7 +125,7 @@ std::optional<double> newton_upper_root(Phi phi) {
     if (hi - lo <= transfer_tolerance_mps2) return lo;
     double next;
     if (dg < 0.0) {
-      next = a - g / dg;
+      next = newton;
       if (std::abs(next - a) <= step_tolerance) return std::max(lo, next - feasible_side);
     } else {
       next = std::isfinite(hi) ? 0.5 * (lo + hi) : std::max(2.0 * std::max(a, p.phi), 1e-3);
@@ -157,8 +169,7 @@ std::optional<double> newton_from(Phi phi, double& hint) {
   if (hint > 0.0 && std::isfinite(hint)) {
     double lo = -inf, hi = inf, a = hint, last_step = inf, last_dg = 0.0;
     for (int k = 0; k < 8; ++k) {
-      const PhiSlope p = phi(a);
-      const double g = p.phi - a, dg = p.slope - 1.0;
+      const auto [g, dg, next] = newton_step(phi(a), a);
       if (g >= 0.0)
         lo = std::max(lo, a);
       else if (g < 0.0)
@@ -166,7 +177,6 @@ std::optional<double> newton_from(Phi phi, double& hint) {
       else
         break;
       if (!(dg < 0.0)) break;
-      const double next = a - g / dg;
       const double step = std::abs(next - a);
       if (step <= step_tolerance || settled(step, last_step, dg, last_dg)) {
         r = std::max(lo, next - feasible_side);
@@ -322,12 +332,13 @@ double axle_drive_accel(const Envelope& env, double u, double k, const Road& roa
             const double load = load0 + per_a * ax;
             const TyreModel::LeftAndSlope s = t.axle_long_left(load, d, fy_axle);
             if (!by_load)
-              return PhiSlope{(s.left_n - a.resistance) * inv_m, s.per_load * per_a * inv_m};
+              return PhiSlope{(s.left_n - a.resistance) * inv_m, s.slope_num * per_a * inv_m,
+                              s.slope_den};
             // All-wheel drive: the total this axle allows, left total / load.
-            if (!(load > 0.0)) return PhiSlope{-a.resistance * inv_m, 0.0};
+            if (!(load > 0.0)) return PhiSlope{-a.resistance * inv_m, 0.0, 1.0};
             const double q = total / load;
             return PhiSlope{(s.left_n * q - a.resistance) * inv_m,
-                            (s.per_load * q - s.left_n * q / load) * per_a * inv_m};
+                            (s.per_load() * q - s.left_n * q / load) * per_a * inv_m, 1.0};
           },
           // phi(a) >= a: the axle leaves m a + R (its load's share of it, all-wheel drive).
           [&, load0, per_a, d, fy_axle](double ax) {
@@ -408,10 +419,9 @@ double axle_brake_accel(const Envelope& env, double u, double k, const Road& roa
     auto axle = [&](double load0, double per_a, double d, double fy_axle, double share) {
       return term(
           [&, load0, per_a, d, fy_axle, inv_share = 1.0 / share](double decel) {
-            const TyreModel::LeftAndSlope s =
-                t.axle_long_left(load0 + per_a * decel, d, fy_axle);
+            const TyreModel::LeftAndSlope s = t.axle_long_left(load0 + per_a * decel, d, fy_axle);
             return PhiSlope{(s.left_n * inv_share + a.resistance) * inv_m,
-                            s.per_load * per_a * inv_share * inv_m};
+                            s.slope_num * per_a * inv_share * inv_m, s.slope_den};
           },
           // phi(decel) >= decel: the axle leaves its share of m decel - R.
           [&, load0, per_a, d, fy_axle, share](double decel) {

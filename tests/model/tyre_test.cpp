@@ -162,3 +162,37 @@ TEST_CASE("the least axle load for a lateral force with a transfer past the tyre
   // The axle's own capacity at that load (inner tyre lifted) is fy (1e-12: rounding).
   CHECK(near(t.axle_limits(load, d).fy_max, fy, 1e-12));
 }
+
+TEST_CASE("the force an axle has left and its slope with the load: the slope is the derivative") {
+  // axle_long_left's slope (the Newton step's, as slope_num / slope_den) against a central
+  // difference of its force left, (left(L + h) - left(L - h)) / 2h: for a smooth function the
+  // difference's error is h^2 f''' / 6: with h = 1e-3 L it read 5e-5 of the slope at r = 0.95
+  // (measured; f''' grows as r -> 1), so h = 1e-5 L, 1e-4 of that, and the difference's
+  // rounding (1e-16 of a force of a few kN, over 2h) is below 1e-10 of a slope near 1 N/N: 1e-6
+  // allowed. Away from the kinks (an inner tyre at the point of lifting, mu at its floor) and
+  // from r = 1, where the slope has no bound.
+  for (const double n : {2.0, 2.2, 3.0}) {
+    const TyreModel t(Tyres{1.5, 1.7, 1600.0, 0.08, n, 0.33, 0.0});
+    for (const double load : {1500.0, 3200.0, 9000.0})
+      for (const double transfer : {0.0, 300.0})
+        for (const double ratio : {0.0, 0.3, 0.7, 0.95}) {
+          const double fy = t.axle_limits(load, transfer).fy_max * ratio;
+          const TyreModel::LeftAndSlope s = t.axle_long_left(load, transfer, fy);
+          REQUIRE(s.slope_den > 0.0);
+          const double h = 1e-5 * load;
+          const double diff = (t.axle_long_left(load + h, transfer, fy).left_n -
+                               t.axle_long_left(load - h, transfer, fy).left_n) /
+                              (2.0 * h);
+          INFO("n " << n << ", load " << load << ", transfer " << transfer << ", ratio " << ratio);
+          CHECK(std::abs(s.per_load() - diff) <= 1e-6 * std::abs(diff) + 1e-9);
+        }
+  }
+  // No load, or the ellipse spent: nothing left and no slope, with a positive denominator.
+  const TyreModel t(Tyres{1.5, 1.7, 1600.0, 0.08, 2.2, 0.33, 0.0});
+  const TyreModel::LeftAndSlope none = t.axle_long_left(0.0, 0.0, 0.0);
+  CHECK(none.left_n == 0.0);
+  CHECK(none.per_load() == 0.0);
+  const TyreModel::LeftAndSlope spent = t.axle_long_left(3200.0, 0.0, 1e6);
+  CHECK(spent.left_n == 0.0);
+  CHECK(spent.per_load() == 0.0);
+}

@@ -162,11 +162,15 @@ class TyreModel {
   /// 0 and 1 once the inner tyre has lifted. n = 2: left = (mu_long0 / mu_lat0)
   /// sqrt(Fy_max^2 - fy^2), slope (mu_long0 / mu_lat0) Fy_max mu_lat0 dF/dL / sqrt(...). Zero
   /// (and slope 0) for an unloaded axle or where fy uses the whole ellipse.
+  /// The slope comes as a quotient, slope_num / slope_den (slope_den > 0), so that a Newton step
+  /// on it can take one division where the slope and then the step took one each (the step
+  /// waits on them: the axle model's iteration is a chain of dependent arithmetic).
   struct LeftAndSlope {
-    double left_n, per_load;
+    double left_n, slope_num, slope_den;
+    double per_load() const { return slope_num / slope_den; }
   };
   LeftAndSlope axle_long_left(double axle_load_n, double transfer_n, double fy_n) const {
-    if (!(axle_load_n > 0.0)) return {0.0, 0.0};
+    if (!(axle_load_n > 0.0)) return {0.0, 0.0, 1.0};
     // mu(Fz) Fz and its slope for one tyre.
     auto tyre = [this](double fz, double& slope) {
       const double m = 1.0 - sensitivity_per_n_ * (fz - nominal_n_);
@@ -191,14 +195,14 @@ class TyreModel {
     const double fy_max = mu_lat0_ * f;
     if (quadratic_) {
       const double d = fy_max * fy_max - fy_n * fy_n;
-      if (!(d > 0.0)) return {0.0, 0.0};
+      if (!(d > 0.0)) return {0.0, 0.0, 1.0};
       const double root = std::sqrt(d);
-      return {long_per_lat_ * root, long_per_lat_ * fy_max * mu_lat0_ * df / root};
+      return {long_per_lat_ * root, long_per_lat_ * fy_max * mu_lat0_ * df, root};
     }
     const double r = std::abs(fy_n) / fy_max;
-    if (r >= 1.0) return {0.0, 0.0};
+    if (r >= 1.0) return {0.0, 0.0, 1.0};
     const EllipseShape::Point shape = shape_(r);  // share (1 - r^n)^(1/n), rest 1 - r^n
-    return {mu_long0_ * f * shape.y, mu_long0_ * shape.y / shape.rest * df};
+    return {mu_long0_ * f * shape.y, mu_long0_ * shape.y * df, shape.rest};
   }
 
   /// Whether an axle at load L, `transfer_n` moved to its outer tyre and carrying lateral force
