@@ -229,9 +229,11 @@ std::optional<double> lower_to(const Phi& phi, double& hint, double bound) {
 
 }  // namespace
 
-AxleUsage axle_usage(const Envelope& env, const AxleLoads& loads, double fx, double fy) {
-  const Car& car = env.car();
-  const TyreModel& t = env.tyres();
+namespace {
+
+// The forces each axle carries (usage 0 yet): fx >= 0 by the driven axle(s), all-wheel drive
+// by load; braking by the brakes' front bias; fy by the static weight share.
+AxleUsage split_forces(const Car& car, const AxleLoads& loads, double fx, double fy) {
   AxleUsage u{loads, 0, 0, 0, 0, 0, 0};
   const double total = loads.front_n + loads.rear_n;
   if (fx >= 0.0) {
@@ -253,6 +255,23 @@ AxleUsage axle_usage(const Envelope& env, const AxleLoads& loads, double fx, dou
   }
   u.front_fy_n = fy * car.front_weight;
   u.rear_fy_n = fy - u.front_fy_n;
+  return u;
+}
+
+}  // namespace
+
+bool axle_surely_within(const Envelope& env, const AxleLoads& loads, double fx, double fy) {
+  const AxleUsage u = split_forces(env.car(), loads, fx, fy);
+  const TyreModel& t = env.tyres();
+  const TransferPerNewton& d = env.transfer();
+  return t.surely_leaves(loads.front_n, d.front * std::abs(fy), u.front_fy_n,
+                         std::abs(u.front_fx_n)) &&
+         t.surely_leaves(loads.rear_n, d.rear * std::abs(fy), u.rear_fy_n, std::abs(u.rear_fx_n));
+}
+
+AxleUsage axle_usage(const Envelope& env, const AxleLoads& loads, double fx, double fy) {
+  const TyreModel& t = env.tyres();
+  AxleUsage u = split_forces(env.car(), loads, fx, fy);
   const TransferPerNewton& d = env.transfer();
   auto usage = [&t](double load, double transfer, double fxa, double fya) {
     // An axle with no load (lifted, or at 0 to rounding: a rear-driven car's front at the

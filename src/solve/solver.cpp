@@ -1378,9 +1378,18 @@ void LapSolver::channels_pass(const Envelope& env, const Mesh& mesh, ChannelSet 
       // the difference lies that close under the limit. Only where the channels read the
       // state the model would (the same trim).
       if (axle_model && !straight && trims == trimmed) {
-        use = usage(f, loads_at(f, road, diff), diff);
+        const AxleLoads loads = loads_at(f, road, diff);
         const bool engine =
             diff < 0.0 || diff <= (f.drive_n - f.resistance_n) / env.effective_mass_kg();
+        // The loads alone keep no usage: where both axles surely carry the difference (inside
+        // the ellipse by a margin, told without its powers), the test below would say so too.
+        if (!All && engine &&
+            axle_surely_within(env, loads, m * diff + f.resistance_n, std::abs(f.lateral_n))) {
+          use = AxleUsage{loads, 0.0, 0.0, 0.0, 0.0, 0.0, 0.0};
+          used = true;
+          return diff;
+        }
+        use = usage(f, loads, diff);
         // An axle lifted by the difference (its load below 0 beyond rounding: loads_at) reads
         // usage 0 where it is asked for nothing (a rear-driven car's front on a straight), though
         // the model bounds the acceleration there (axle_drive_accel's front_bound).

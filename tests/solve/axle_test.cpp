@@ -362,3 +362,44 @@ TEST_CASE("a braking solve started next to its answer stays on the feasible side
   CHECK(usage(warm) <= 1.0 + 1e-9);
   CHECK(std::abs(warm - cold) <= 1e-8);
 }
+
+TEST_CASE("axles 'surely within' the ellipse only where their usage reads at most 1") {
+  // axle_surely_within stands for axle_usage's "both at most 1" in the loads-only channels pass
+  // (solver.cpp): it must never say true where either axle's usage (the ellipse with its
+  // powers, the closed form of README, "Physics and assumptions") is above 1, and it must say
+  // true on much of the inside, or it saves nothing. A grid of speeds, curvatures and
+  // longitudinal forces, driving and braking, for the bundled cars (rear-driven and with
+  // exponents 2 and 2.2, as the test car) and an all-wheel-drive variant.
+  std::vector<Car> cars{load_car(test::source_path("cars/pellion-fr2.yaml")),
+                        load_car(test::source_path("cars/caldra-gt.yaml")),
+                        load_car(test::source_path("tests/data/caldra-gt-exponent-2.2.yaml"))};
+  Car awd = cars[0];
+  awd.powertrain.driven = DrivenAxle::all;
+  cars.push_back(awd);
+  for (const Car& car : cars) {
+    const Envelope env(car.configured(0), make_air(AirSpec{}));
+    int sure = 0, inside = 0;
+    for (const double v : {15.0, 40.0, 70.0})
+      for (const double k : {0.0, 0.002, 0.01, 0.05})
+        for (int j = -30; j <= 30; ++j) {
+          const Envelope::RoadForces f = env.road_forces(env.rows(false), v * v, k, Road{});
+          const double ax = 0.5 * j;  // m/s^2, from -15 to 15
+          const AxleLoads l =
+              axle_loads(env.car(), f.drag_n, f.downforce_n, f.balance, f.normal_share, 0.0, ax);
+          const double fx = env.mass_kg() * ax + f.resistance_n, fy = std::abs(f.lateral_n);
+          const AxleUsage u = axle_usage(env, l, fx, fy);
+          const bool within = u.front_usage <= 1.0 && u.rear_usage <= 1.0;
+          if (axle_surely_within(env, l, fx, fy)) {
+            CAPTURE(v);
+            CAPTURE(k);
+            CAPTURE(ax);
+            CHECK(within);
+            ++sure;
+          }
+          if (std::max(u.front_usage, u.rear_usage) <= 0.99) ++inside;
+        }
+    CAPTURE(car.name);
+    CHECK(inside > 0);
+    CHECK(sure > inside / 2);
+  }
+}

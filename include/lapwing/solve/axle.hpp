@@ -30,6 +30,10 @@ struct AxleUsage {
   double front_usage, rear_usage;
 };
 AxleUsage axle_usage(const Envelope& env, const AxleLoads& loads, double fx_n, double fy_n);
+/// Whether both axles surely carry what axle_usage gives them, usage <= 1 on each, told without
+/// the ellipse's powers (TyreModel::surely_leaves): true only where axle_usage would read both
+/// at most 1; false where it cannot tell (near the ellipse, an axle without load).
+bool axle_surely_within(const Envelope& env, const AxleLoads& loads, double fx_n, double fy_n);
 
 /// The axle model's accelerations (m/s^2) at u = v^2 on a point of curvature |k|, both positive
 /// along the sweep's direction of travel:
