@@ -1208,8 +1208,12 @@ void LapSolver::speed_pass(const Envelope& env, const Mesh& mesh, double start_s
   const auto on_limit_at = [&](std::size_t i, double v) {
     return v >= steady[i] * (1.0 - phase_on_limit);
   };
+  // Whether each half has a point whose steady limit is an axle's lift (most laps have none).
+  std::array<bool, 2> lift_limited{false, false};
   in_halves(n, second, [&](std::size_t lo, std::size_t hi) {
+    bool lift = false;
     for (std::size_t i = lo; i < hi; ++i) {
+      lift |= lift_limit(steady_.limit[i]);
       const double v = std::min(fwd.speed_mps[i], bwd.speed_mps[i]);
       lap.speed_mps[i] = v;
       const bool on_limit = on_limit_at(i, v);
@@ -1221,14 +1225,17 @@ void LapSolver::speed_pass(const Envelope& env, const Mesh& mesh, double start_s
         lap.time_s[i + 1] = two_ds / vsum;
       }
     }
+    lift_limited[lo == 0 ? 0 : 1] = lift;
   });
   // Then in order: the time as the running sum of the steps' (the same additions in the same
-  // order whatever the threads), and the stretch held on a lift limit.
+  // order whatever the threads), and the stretch held on a lift limit, where there is one to
+  // hold (a point held there is on a lift limit; without one the stretch is none, as the loop
+  // would find).
+  lap.time_s[0] = 0.0;
+  for (std::size_t i = 1; i < n; ++i) lap.time_s[i] = lap.time_s[i - 1] + lap.time_s[i];
   lap.lift_hold = {};
   bool held_before = false;
-  lap.time_s[0] = 0.0;
-  for (std::size_t i = 0; i < n; ++i) {
-    if (i > 0) lap.time_s[i] = lap.time_s[i - 1] + lap.time_s[i];
+  for (std::size_t i = 0; i < n && (lift_limited[0] || lift_limited[1]); ++i) {
     const bool held = lift_limit(steady_.limit[i]) && on_limit_at(i, lap.speed_mps[i]);
     if (held && !lap.lift_hold.held)
       lap.lift_hold = {true, steady_.limit[i] == SteadyLimit::front_lift, i, 0.0};
