@@ -464,6 +464,14 @@ double axle_brake_accel(const Envelope& env, double u, double k, const Road& roa
         h.rear_binds = !rear_first;
         return *r2;
       }
+    } else {
+      // The first axle has no upper root the Newton iteration finds: its force left grows
+      // faster than the deceleration asks (with no load sensitivity the front's capacity grows
+      // with the load it gains, beyond 1 m/s^2 per m/s^2 where mu h / (L bias) > 1), so the
+      // other axle bounds the answer. The next solve starts there, where this one fails after
+      // sixty doublings on every call (found in review: a front-driven car with cg 0.8 m, bias
+      // 0.4 and no load sensitivity took three times as long a point).
+      h.rear_binds = !rear_first;
     }
   }
   return transfer_fixed_point([&](double decel) {

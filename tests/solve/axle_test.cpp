@@ -403,3 +403,40 @@ TEST_CASE("axles 'surely within' the ellipse only where their usage reads at mos
     CHECK(sure > inside / 2);
   }
 }
+
+TEST_CASE(
+    "braking where the front's capacity outgrows the load it gains: the rear is solved first") {
+  // Found in review: with no load sensitivity the front axle's braking capacity grows with the
+  // load the deceleration moves onto it, mu h / (L bias) per m/s^2 (here 1.5 x 0.8 / (2.7 x
+  // 0.4) = 1.1 > 1), so the front's fixed point has no upper root and the Newton iteration on
+  // it failed after sixty doublings on every call, the bracketing search deciding (three times
+  // as long a point on Brannock Park). After one such call the hints must start at the rear,
+  // and the fast path's answer must be the bracketing search's to the model's tolerance
+  // (1e-9 m/s^2; 1e-8 allowed for the two searches' sides), on its feasible side (usage at most
+  // 1 + 1e-9). An invented variant of the bundled Caldra GT: front drive, cg 0.8 m, brake bias
+  // 0.4, no load sensitivity, braking at 40 m/s on a 0.005 1/m curve (0.8 g lateral).
+  Car car = load_car(test::source_path("cars/caldra-gt.yaml"));
+  car.powertrain.driven = DrivenAxle::front;
+  car.cg_height_m = 0.8;
+  car.brake_front_bias = 0.4;
+  car.tyres.load_sensitivity = 0.0;
+  const Envelope env(car.configured(0), make_air(AirSpec{}));
+  const double u = 1600.0, k = 0.005;
+  REQUIRE(axle_steady_excess(env, 40.0, k, Road{}) < 0.0);  // within the steady limit
+  AxleHints hints;  // rear_binds false: the front is tried first
+  const double first = axle_brake_accel(env, u, k, Road{}, &hints);
+  CHECK(hints.rear_binds);
+  const double second = axle_brake_accel(env, u, k, Road{}, &hints);
+  CHECK(std::abs(second - first) <= 1e-8);
+  const Envelope::RoadForces f = env.road_forces(env.rows(false), u, k, Road{});
+  const AxleLoads l =
+      axle_loads(env.car(), f.drag_n, f.downforce_n, f.balance, f.normal_share, 0.0, -second);
+  const AxleUsage a =
+      axle_usage(env, l, -env.mass_kg() * second + f.resistance_n, std::abs(f.lateral_n));
+  CAPTURE(first);
+  CAPTURE(second);
+  CAPTURE(a.front_usage);
+  CAPTURE(a.rear_usage);
+  CHECK(std::max(a.front_usage, a.rear_usage) <= 1.0 + 1e-9);
+  CHECK(a.rear_usage >= 1.0 - 1e-6);  // the rear sets it
+}
