@@ -1125,12 +1125,15 @@ const Lap& LapSolver::solve(const Envelope& env, const Mesh& mesh, double start_
 const Lap& LapSolver::solve_speed(const Envelope& env, const Mesh& mesh, double start_speed_mps) {
   speed_pass(env, mesh, start_speed_mps);
   // Speed, phase and time only: what a study that needs the lap time reads. The channels of an
-  // earlier lap go, so that none is read against this lap's speeds.
+  // earlier lap go, so that none is read against this lap's speeds; their storage waits in
+  // spare_channels_ for the next channels pass (where the lap held none, the spare it takes
+  // in exchange is emptied).
   Lap& lap = lap_;
-  for (auto* v : {&lap.long_accel_mps2, &lap.lat_accel_mps2, &lap.engine_radps, &lap.drag_n,
-                  &lap.downforce_n, &lap.front_load_n, &lap.rear_load_n, &lap.aero_balance_eff,
-                  &lap.front_usage, &lap.rear_usage})
-    v->clear();
+  const auto channels = double_channels(lap);
+  for (std::size_t c = 0; c < channels.size(); ++c) {
+    if (!channels[c]->empty()) std::swap(*channels[c], spare_channels_[c]);
+    channels[c]->clear();
+  }
   lap.gear.clear();
   lap.trimmed.clear();
   return lap;
@@ -1300,6 +1303,14 @@ void LapSolver::channels_pass(const Envelope& env, const Mesh& mesh, ChannelSet 
   const Car& car = env.car();
   const double m = env.mass_kg(), wb = car.wheelbase_m;
   SecondThread* const second = second_thread(n);
+  // A channel the pass writes takes its storage back from spare_channels_ (solve_speed) where
+  // that is at the mesh's size: every value is overwritten below, with no fill before it.
+  {
+    const auto channels = double_channels(lap);
+    for (std::size_t c = 0; c < channels.size(); ++c)
+      if (channels[c]->empty() && spare_channels_[c].size() == n)
+        std::swap(*channels[c], spare_channels_[c]);
+  }
   if (all)
     resize_ready({&lap.long_accel_mps2, &lap.lat_accel_mps2, &lap.drag_n, &lap.downforce_n,
                   &lap.front_load_n, &lap.rear_load_n, &lap.engine_radps, &lap.aero_balance_eff,
@@ -1486,6 +1497,12 @@ void LapSolver::channels_pass(const Envelope& env, const Mesh& mesh, ChannelSet 
   else
     in_halves(n, second,
               [&](std::size_t lo, std::size_t hi) { points(std::false_type{}, lo, hi); });
+}
+
+std::array<std::vector<double>*, 10> LapSolver::double_channels(Lap& lap) {
+  return {&lap.long_accel_mps2, &lap.lat_accel_mps2, &lap.engine_radps, &lap.drag_n,
+          &lap.downforce_n,     &lap.front_load_n,   &lap.rear_load_n,  &lap.aero_balance_eff,
+          &lap.front_usage,     &lap.rear_usage};
 }
 
 Lap LapSolver::take() {

@@ -8,6 +8,7 @@
 #include <bit>
 #include <cmath>
 #include <cstdint>
+#include <cstring>
 #include <stdexcept>
 #include <string>
 #include <type_traits>
@@ -316,6 +317,53 @@ TEST_CASE("the speed solve fills no channel; the channels pass adds them, as sol
   // A later speed solve drops the channels it would otherwise leave behind from this lap.
   CHECK_FALSE(solver.solve_speed(env, c.mesh, c.track.start_speed_mps).has_channels);
   CHECK(solver.solve_speed(env, c.mesh).front_load_n.empty());
+}
+
+TEST_CASE("a solver reused lap after lap keeps no channel value of an earlier lap") {
+  // The speed solve keeps the channels' storage aside and the next channels pass takes it back
+  // at the mesh's size, overwriting it with no fill (LapSolver::spare_channels_). Laps on two
+  // meshes of different sizes, the full and the loads-only pass in turn, some loads from a
+  // floor speed (NaN below it), each against a fresh solver's: the same bits in every channel.
+  const Car car = load_car(test::source_path("cars/pellion-fr2.yaml"));
+  const Circuit a = test::bundled_circuit("tracks/brannock-park.yaml");
+  const Circuit b = test::bundled_circuit("tracks/saltmere-flats.yaml");
+  REQUIRE(a.mesh.size() != b.mesh.size());
+  const auto same_bits = [](const std::vector<double>& x, const std::vector<double>& y) {
+    return x.size() == y.size() &&
+           (x.empty() || std::memcmp(x.data(), y.data(), x.size() * sizeof(double)) == 0);
+  };
+  const double floor = summary_loads_above_mps(car);
+  struct Lap_ {
+    const Circuit* c;
+    std::size_t config;
+    ChannelSet set;
+    double floor;
+  };
+  LapSolver reused;
+  for (const Lap_& l : {Lap_{&a, 0, ChannelSet::all, 0.0}, Lap_{&b, 1, ChannelSet::loads, floor},
+                        Lap_{&a, 1, ChannelSet::loads, floor}, Lap_{&a, 0, ChannelSet::loads, 0.0},
+                        Lap_{&b, 0, ChannelSet::all, 0.0}, Lap_{&a, 1, ChannelSet::all, 0.0}}) {
+    INFO(l.c->track.name << " config " << l.config << (l.set == ChannelSet::all ? " all" : " loads")
+                         << " floor " << l.floor);
+    const Envelope env(car.configured(l.config), l.c->air);
+    LapSolver fresh;
+    fresh.solve_speed(env, l.c->mesh, l.c->track.start_speed_mps);
+    const Lap& want = fresh.add_channels(env, l.c->mesh, l.set, l.floor);
+    CHECK(reused.solve_speed(env, l.c->mesh, l.c->track.start_speed_mps).front_load_n.empty());
+    const Lap& got = reused.add_channels(env, l.c->mesh, l.set, l.floor);
+    CHECK(same_bits(got.long_accel_mps2, want.long_accel_mps2));
+    CHECK(same_bits(got.lat_accel_mps2, want.lat_accel_mps2));
+    CHECK(same_bits(got.drag_n, want.drag_n));
+    CHECK(same_bits(got.downforce_n, want.downforce_n));
+    CHECK(same_bits(got.front_load_n, want.front_load_n));
+    CHECK(same_bits(got.rear_load_n, want.rear_load_n));
+    CHECK(same_bits(got.engine_radps, want.engine_radps));
+    CHECK(same_bits(got.aero_balance_eff, want.aero_balance_eff));
+    CHECK(same_bits(got.front_usage, want.front_usage));
+    CHECK(same_bits(got.rear_usage, want.rear_usage));
+    CHECK(got.trimmed == want.trimmed);
+    CHECK(got.gear == want.gear);
+  }
 }
 
 TEST_CASE("the loads alone are the full pass's loads, and summarise to the same sweep figures") {

@@ -4,6 +4,7 @@
 // Tsiotras, J. Optimization Theory and Applications 138 (2008)).
 #pragma once
 
+#include <array>
 #include <cstdint>
 #include <memory>
 #include <string_view>
@@ -262,6 +263,13 @@ class LapSolver {
   SteadyProfile flying_;  // a flying start's limits (speed_pass), used only for one
   double start_limit_mps_ = 0.0;
   SweepResult forward_, backward_;
+  /// The double channels' storage while a speed solve leaves the lap without them
+  /// (solve_speed): the next channels pass takes it back at the mesh's size, so that it
+  /// overwrites the values instead of zero-filling a fresh buffer first (every lap of a study,
+  /// README, "Performance"). Contents stale: never read.
+  std::array<std::vector<double>, 10> spare_channels_;
+  /// The channels in the order spare_channels_ keeps them.
+  static std::array<std::vector<double>*, 10> double_channels(Lap& lap);
 };
 
 }  // namespace lapwing
