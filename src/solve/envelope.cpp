@@ -6,11 +6,13 @@
 #include <cassert>
 #include <cmath>
 #include <functional>
+#include <memory>
 #include <stdexcept>
 #include <string>
 
 #include "lapwing/base/error.hpp"
 #include "lapwing/base/interpolate.hpp"
+#include "lapwing/base/once_per_key.hpp"
 #include "lapwing/base/units.hpp"
 #include "lapwing/model/powertrain.hpp"
 #include "lapwing/solve/level_tables.hpp"
@@ -98,6 +100,57 @@ double level_top_speed_bound(const ConfiguredCar& configured, double rho, double
   return 0.0;
 }
 
+// The drive force at the wheels (before the air's power ratio) and the gear at each of an
+// Envelope's rows: u = k du for k < n - 1, the last row at v_max. They depend on the
+// powertrain, the rolling radius and the rows' speeds alone, and take a fifth of an Envelope's
+// set-up (8 001 rows x the gears, DriveWalk); a sweep's cars mostly share them (an aero, mass or
+// set-up sweep), so the rows are kept for the last few powertrains asked (recent_per_key) and
+// copied from there, the same bits as built afresh.
+struct DriveRows {
+  std::vector<double> force_n;
+  std::vector<int> gear;
+};
+struct DriveRowsKey {
+  bool ideal;
+  double constant_power_w;
+  std::vector<double> engine_radps, torque_nm, gears;
+  double rev_limit_radps, final_drive, efficiency;
+  double rolling_radius_m, v_max, du;
+  std::size_t n;
+  bool operator==(const DriveRowsKey&) const = default;
+};
+std::shared_ptr<const DriveRows> drive_rows(const Powertrain& p, double r, double v_max, double du,
+                                            std::size_t n) {
+  // Rows kept for this many powertrains: a sweep over cars of several (a gear-ratio sweep) builds
+  // its own each car, as before; some 100 kB each.
+  constexpr std::size_t kept = 8;
+  DriveRowsKey key{p.ideal,
+                   p.constant_power_w,
+                   p.engine_radps,
+                   p.torque_nm,
+                   p.gears,
+                   p.rev_limit_radps,
+                   p.final_drive,
+                   p.efficiency,
+                   r,
+                   v_max,
+                   du,
+                   n};
+  return recent_per_key<DriveRows, kept>(key, [&] {
+    auto rows = std::make_shared<DriveRows>();
+    rows->force_n.resize(n);
+    rows->gear.resize(n);
+    DriveWalk drive_at(p, r);
+    for (std::size_t k = 0; k < n; ++k) {
+      const double v = k + 1 == n ? v_max : std::sqrt(static_cast<double>(k) * du);
+      const Drive d = drive_at.at(v);
+      rows->force_n[k] = d.force_n;
+      rows->gear[k] = d.gear;
+    }
+    return std::shared_ptr<const DriveRows>(std::move(rows));
+  });
+}
+
 }  // namespace
 
 Envelope::Envelope(const ConfiguredCar& car, const Air& air, EnvelopeOptions options)
@@ -174,14 +227,14 @@ Envelope::Envelope(Unchecked, const ConfiguredCar& configured, const Car& car, c
     trim_rows_.resize(n);
     trim_below_curvature_ = a.trim->below_curvature_1pm;
   }
-  DriveWalk drive_at(p, r);
+  const std::shared_ptr<const DriveRows> drive = drive_rows(p, r, v_max_, du_, n);
   for (std::size_t k = 0; k < n; ++k) {
     const double v = k + 1 == n ? v_max_ : std::sqrt(static_cast<double>(k) * du_);
-    Drive d = drive_at.at(v);
-    d.force_n *= power_ratio_;  // the engine in this air (SAE J1349 for natural and turbo)
+    // The engine in this air (SAE J1349 for natural and turbo).
+    const double drive_n = drive->force_n[k] * power_ratio_;
     const AeroPoint c = aero_at(v);
-    rows_[k] = {d.force_n, 0.5 * rho_ * c.cda_m2, 0.5 * rho_ * c.cla_m2, c.balance};
-    gear_[k] = d.gear;
+    rows_[k] = {drive_n, 0.5 * rho_ * c.cda_m2, 0.5 * rho_ * c.cla_m2, c.balance};
+    gear_[k] = drive->gear[k];
     if (a.trim) {
       const StraightTrim& t = *a.trim;
       const double cda = c.cda_m2 + t.dcda_m2, cla = c.cla_m2 + t.dcla_m2,
@@ -194,7 +247,7 @@ Envelope::Envelope(Unchecked, const ConfiguredCar& configured, const Car& car, c
                                            std::to_string(cda) + ", ClA " + std::to_string(cla) +
                                            ", balance " + std::to_string(bal) + ")",
                                        "aero.configs." + a.name));
-      trim_rows_[k] = {d.force_n, 0.5 * rho_ * cda, 0.5 * rho_ * cla, bal};
+      trim_rows_[k] = {drive_n, 0.5 * rho_ * cda, 0.5 * rho_ * cla, bal};
     }
   }
   // Top speed on the level: the one speed where drive = resistance (REFERENCES: the cubic

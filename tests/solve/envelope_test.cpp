@@ -3,6 +3,8 @@
 
 #include <Eigen/Eigenvalues>
 #include <cmath>
+#include <utility>
+#include <vector>
 
 #include "lapwing/base/error.hpp"
 #include "lapwing/base/units.hpp"
@@ -118,4 +120,36 @@ TEST_CASE("envelope options and the air are checked too") {
   Air thin = air;
   thin.density_kg_m3 = 0.0;
   CHECK_THROWS_AS(Envelope(test::configured(car), thin), InvalidInput);
+}
+
+TEST_CASE("an Envelope's drive rows are the same kept for its powertrain as built afresh") {
+  // The drive force and gear rows are kept for the last few powertrains (recent_per_key, eight)
+  // and shared by the Envelopes of cars with an equal one (a sweep's cars): an Envelope that
+  // reads them kept must read what one that built them reads, bit for bit. Built first, then
+  // read kept by a heavier car of the same powertrain, then built again after nine other
+  // final drives pushed them out.
+  Car car = load_car(test::source_path("cars/caldra-gt.yaml"));
+  const Air air = make_air(AirSpec{});
+  auto rows = [&](const Car& c) {
+    const Envelope env(c.configured(0), air);
+    std::vector<double> drive;
+    std::vector<int> gear;
+    for (int k = 0; k <= 2000; ++k) {
+      const double v = env.max_speed_mps() * k / 2000.0;
+      drive.push_back(env.drive_n(v));
+      gear.push_back(env.gear(v));
+    }
+    return std::pair{drive, gear};
+  };
+  const auto built = rows(car);
+  Car heavier = car;
+  heavier.mass_kg += 100.0;
+  CHECK(rows(heavier) == built);  // kept: the same powertrain
+  for (int k = 1; k <= 9; ++k) {
+    Car other = car;
+    other.powertrain.final_drive = car.powertrain.final_drive * (1.0 + 0.01 * k);
+    const auto o = rows(other);
+    CHECK(o.first != built.first);  // a powertrain of its own: rows of its own
+  }
+  CHECK(rows(car) == built);  // built again
 }
