@@ -1304,12 +1304,18 @@ void LapSolver::channels_pass(const Envelope& env, const Mesh& mesh, ChannelSet 
   const double m = env.mass_kg(), wb = car.wheelbase_m;
   SecondThread* const second = second_thread(n);
   // A channel the pass writes takes its storage back from spare_channels_ (solve_speed) where
-  // that is at the mesh's size: every value is overwritten below, with no fill before it.
+  // that holds the mesh's points: every value is overwritten below, with no fill before it at
+  // the same mesh's size (resize_ready shortens it, or fills only the points it adds, for a
+  // mesh of another size). Nothing stays aside beside the lap's own storage: a solver that
+  // takes two meshes in turn (a sweep over two tracks) would hold both sizes' channels, more
+  // than the memory estimate counts a solver (study/memory.hpp), and fill them every lap.
   {
     const auto channels = double_channels(lap);
-    for (std::size_t c = 0; c < channels.size(); ++c)
-      if (channels[c]->empty() && spare_channels_[c].size() == n)
-        std::swap(*channels[c], spare_channels_[c]);
+    for (std::size_t c = 0; c < channels.size(); ++c) {
+      std::vector<double>& spare = spare_channels_[c];
+      if (channels[c]->empty() && spare.capacity() >= n) std::swap(*channels[c], spare);
+      std::vector<double>().swap(spare);
+    }
   }
   if (all)
     resize_ready({&lap.long_accel_mps2, &lap.lat_accel_mps2, &lap.drag_n, &lap.downforce_n,

@@ -366,6 +366,36 @@ TEST_CASE("a solver reused lap after lap keeps no channel value of an earlier la
   }
 }
 
+TEST_CASE("a solver reused over meshes of two sizes in turn keeps one set of channel storage") {
+  // A sweep over two tracks solves them in turn on each thread's solver. The storage the speed
+  // solve keeps aside (LapSolver::spare_channels_) must go back to the lap whatever the next
+  // mesh's size, not be held beside a second set the pass allocates for the other mesh: the
+  // memory estimate (study/memory.hpp) counts one lap's channels a solver. Seen here by the
+  // storage itself: a lap on the smaller mesh fits in the larger's and reuses it, and so does
+  // the larger's next lap, for the loads alone (a sweep's rows) and for every channel.
+  const Car car = load_car(test::source_path("cars/pellion-fr2.yaml"));
+  const Circuit a = test::bundled_circuit("tracks/brannock-park.yaml");
+  const Circuit b = test::bundled_circuit("tracks/saltmere-flats.yaml");
+  const Circuit& large = a.mesh.size() > b.mesh.size() ? a : b;
+  const Circuit& small = a.mesh.size() > b.mesh.size() ? b : a;
+  REQUIRE(small.mesh.size() < large.mesh.size());
+  for (const ChannelSet set : {ChannelSet::loads, ChannelSet::all}) {
+    INFO(std::string(set == ChannelSet::all ? "every channel" : "the loads alone"));
+    LapSolver solver;
+    const auto lap_on = [&](const Circuit& c) -> const Lap& {
+      const Envelope env(car.configured(0), c.air);
+      solver.solve_speed(env, c.mesh, c.track.start_speed_mps);
+      return solver.add_channels(env, c.mesh, set);
+    };
+    const double* const storage = lap_on(large).front_load_n.data();
+    CHECK(lap_on(small).front_load_n.data() == storage);
+    CHECK(lap_on(large).front_load_n.data() == storage);
+    const Lap& last = lap_on(small);
+    CHECK(last.front_load_n.data() == storage);
+    CHECK(last.front_load_n.size() == small.mesh.size());
+  }
+}
+
 TEST_CASE("the loads alone are the full pass's loads, and summarise to the same sweep figures") {
   // ChannelSet::loads (a sweep's laps) leaves out the gear, the engine speed, the aero balance
   // with the drag moment and the usage; what it fills is the full pass's to the last bit, and

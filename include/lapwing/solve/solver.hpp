@@ -264,9 +264,9 @@ class LapSolver {
   double start_limit_mps_ = 0.0;
   SweepResult forward_, backward_;
   /// The double channels' storage while a speed solve leaves the lap without them
-  /// (solve_speed): the next channels pass takes it back at the mesh's size, so that it
-  /// overwrites the values instead of zero-filling a fresh buffer first (every lap of a study,
-  /// README, "Performance"). Contents stale: never read.
+  /// (solve_speed): the next channels pass takes it back where it holds the mesh's points (and
+  /// frees it where not), so that it overwrites the values instead of zero-filling a fresh
+  /// buffer first (every lap of a study, README, "Performance"). Contents stale: never read.
   std::array<std::vector<double>, 10> spare_channels_;
   /// The channels in the order spare_channels_ keeps them.
   static std::array<std::vector<double>*, 10> double_channels(Lap& lap);
