@@ -1144,6 +1144,7 @@ void LapSolver::speed_pass(const Envelope& env, const Mesh& mesh, double start_s
   assert(n >= 3);
   Lap& lap = lap_;
   lap.has_channels = lap.has_loads = false;  // none of this lap yet (also if the solve throws)
+  speed_solved_ = false;
   SecondThread* const second = second_thread(n);
   steady_halves(env, mesh, steady_, second);
   const auto& steady = steady_.speed_mps;
@@ -1246,13 +1247,14 @@ void LapSolver::speed_pass(const Envelope& env, const Mesh& mesh, double start_s
     held_before = held;
   }
   lap.lap_time_s = lap.time_s[n - 1];
+  speed_solved_ = true;
 }
 
 const Lap& LapSolver::add_channels(const Envelope& env, const Mesh& mesh, ChannelSet set,
                                    double loads_above_mps) {
   const std::size_t n = mesh.size();
   Lap& lap = lap_;
-  if (lap.speed_mps.size() != n || forward_.gear.size() != n)
+  if (!speed_solved_ || lap.speed_mps.size() != n || forward_.gear.size() != n)
     throw std::logic_error("LapSolver::add_channels: no speed solve on this mesh");
   if (lap.has_channels ||
       (set == ChannelSet::loads && lap.has_loads && lap.loads_above_mps <= loads_above_mps))
@@ -1269,7 +1271,7 @@ Lap LapSolver::solve_once(const Envelope& env, const Mesh& mesh, double start_sp
 }
 
 Lap LapSolver::take_with_channels(const Envelope& env, const Mesh& mesh) {
-  if (lap_.speed_mps.size() != mesh.size() || forward_.gear.size() != mesh.size())
+  if (!speed_solved_ || lap_.speed_mps.size() != mesh.size() || forward_.gear.size() != mesh.size())
     throw std::logic_error("LapSolver::take_with_channels: no speed solve on this mesh");
   // The channels pass reads the forward sweep's gears alone: the lap takes them, and the rest
   // of the solver's state goes before the channels are made (README, "Memory").

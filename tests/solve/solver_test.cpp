@@ -233,6 +233,29 @@ TEST_CASE("a grade the car cannot climb is reported, not solved") {
   CHECK_THROWS_AS(solve(car, t), CannotMove);
 }
 
+TEST_CASE("no channels from a speed solve that threw, though the mesh's size matches") {
+  // A solver that laps a flat 200 m, then throws CannotMove on a grade of the same length (the
+  // same points): its speeds are the flat lap's, or half-written, and the channels pass must
+  // refuse them (std::logic_error, as with no speed solve at all), not make channels of them.
+  // Found in review.
+  const Car car = test::constant_force_car(800.0, 2000.0, 1.5);  // 2 kN < m g sin(24 deg)
+  const Envelope env(test::configured(car), sea_level);
+  Track flat = test::straight_track(200.0, 0.5, 0.0);
+  Track steep = flat;
+  steep.segments = {test::straight(100.0), test::straight(100.0, 0.45)};
+  const Mesh a = build_mesh(flat, flat.mesh_m), b = build_mesh(steep, steep.mesh_m);
+  REQUIRE(a.size() == b.size());
+  LapSolver solver;
+  solver.solve_speed(env, a, flat.start_speed_mps);
+  CHECK(solver.add_channels(env, a).has_channels);
+  CHECK_THROWS_AS(solver.solve_speed(env, b, steep.start_speed_mps), CannotMove);
+  CHECK_THROWS_AS(solver.add_channels(env, b), std::logic_error);
+  CHECK_THROWS_AS(solver.take_with_channels(env, b), std::logic_error);
+  // A speed solve that ends makes them again.
+  solver.solve_speed(env, a, flat.start_speed_mps);
+  CHECK(solver.add_channels(env, a).has_channels);
+}
+
 TEST_CASE("an upshift cuts the drive for shift_time and costs time") {
   Car car = load_car(test::source_path("cars/pellion-fr2.yaml")).configured(1).car();
   const Track track = test::straight_track(1000.0, 0.25, 0.0);

@@ -262,6 +262,10 @@ class LapSolver {
   SteadyProfile steady_;
   SteadyProfile flying_;  // a flying start's limits (speed_pass), used only for one
   double start_limit_mps_ = 0.0;
+  // The last speed solve ran to its end: false from its start, so that the channels are never
+  // made from the speeds of a solve that threw part of the way (they would be an earlier lap's,
+  // or a sweep's half-written ones) where the mesh's size happens to match.
+  bool speed_solved_ = false;
   SweepResult forward_, backward_;
   /// The double channels' storage while a speed solve leaves the lap without them
   /// (solve_speed): the next channels pass takes it back where it holds the mesh's points (and
