@@ -106,6 +106,11 @@ double level_top_speed_bound(const ConfiguredCar& configured, double rho, double
 // set-up (8 001 rows x the gears, DriveWalk); a sweep's cars mostly share them (an aero, mass or
 // set-up sweep), so the rows are kept for the last few powertrains asked (recent_per_key) and
 // copied from there, the same bits as built afresh.
+// The speed of an Envelope's row k of n: u = k du, the last row at v_max exactly.
+double row_speed(std::size_t k, std::size_t n, double v_max, double du) {
+  return k + 1 == n ? v_max : std::sqrt(static_cast<double>(k) * du);
+}
+
 struct DriveRows {
   std::vector<double> force_n;
   std::vector<int> gear;
@@ -142,8 +147,7 @@ std::shared_ptr<const DriveRows> drive_rows(const Powertrain& p, double r, doubl
     rows->gear.resize(n);
     DriveWalk drive_at(p, r);
     for (std::size_t k = 0; k < n; ++k) {
-      const double v = k + 1 == n ? v_max : std::sqrt(static_cast<double>(k) * du);
-      const Drive d = drive_at.at(v);
+      const Drive d = drive_at.at(row_speed(k, n, v_max, du));
       rows->force_n[k] = d.force_n;
       rows->gear[k] = d.gear;
     }
@@ -229,7 +233,7 @@ Envelope::Envelope(Unchecked, const ConfiguredCar& configured, const Car& car, c
   }
   const std::shared_ptr<const DriveRows> drive = drive_rows(p, r, v_max_, du_, n);
   for (std::size_t k = 0; k < n; ++k) {
-    const double v = k + 1 == n ? v_max_ : std::sqrt(static_cast<double>(k) * du_);
+    const double v = row_speed(k, n, v_max_, du_);
     // The engine in this air (SAE J1349 for natural and turbo).
     const double drive_n = drive->force_n[k] * power_ratio_;
     const AeroPoint c = aero_at(v);

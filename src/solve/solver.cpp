@@ -1125,9 +1125,9 @@ const Lap& LapSolver::solve(const Envelope& env, const Mesh& mesh, double start_
 const Lap& LapSolver::solve_speed(const Envelope& env, const Mesh& mesh, double start_speed_mps) {
   speed_pass(env, mesh, start_speed_mps);
   // Speed, phase and time only: what a study that needs the lap time reads. The channels of an
-  // earlier lap go, so that none is read against this lap's speeds; their storage waits in
-  // spare_channels_ for the next channels pass (where the lap held none, the spare it takes
-  // in exchange is emptied).
+  // earlier lap go, so that none is read against this lap's speeds; the storage of those it
+  // held waits in spare_channels_ for the next channels pass (a channel it did not hold leaves
+  // its spare as it is).
   Lap& lap = lap_;
   const auto channels = double_channels(lap);
   for (std::size_t c = 0; c < channels.size(); ++c) {
