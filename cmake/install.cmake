@@ -36,4 +36,6 @@ install(FILES ${PROJECT_BINARY_DIR}/lapwingConfig.cmake
 
 if(LAPWING_BUILD_CLI)
   install(TARGETS lapwing RUNTIME DESTINATION ${CMAKE_INSTALL_BINDIR})
+  # `lapwing fit` looks for its module in <prefix>/<libdir>/lapwing (src/cli/fit_loader.cpp).
+  install(TARGETS lapwing_fit LIBRARY DESTINATION ${CMAKE_INSTALL_LIBDIR}/lapwing)
 endif()

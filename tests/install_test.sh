@@ -29,6 +29,15 @@ for f in include/lapwing/lapwing.hpp include/lapwing/solve/solver.hpp \
   lib/cmake/lapwing/lapwingTargets.cmake; do
   [ -e "$prefix/$f" ] || { echo "FAIL: the install lacks $f"; fail=1; }
 done
+# The command line and fit's module, which the installed binary finds in lib/lapwing.
+for f in bin/lapwing lib/lapwing/liblapwing_fit.so; do
+  [ -e "$prefix/$f" ] || { echo "FAIL: the install lacks $f"; fail=1; }
+done
+"$prefix/bin/lapwing" fit --car "$src/cars/pellion-fr2.yaml" \
+  --track "$src/tracks/brannock-park-survey.yaml" --config medium \
+  --log "$src/logs/brannock-park-survey-lap.csv" --speed speed_kph --time time_s --free power \
+  --out "$tmp/fit" > "$tmp/fit.txt" 2>&1 && [ -s "$tmp/fit/fit.json" ] ||
+  { echo "FAIL: the installed lapwing fit: $(tail -3 "$tmp/fit.txt")"; fail=1; }
 for layer in base model path io solve study store report; do
   [ -e "$prefix/lib/liblapwing_$layer.a" ] || { echo "FAIL: no lib/liblapwing_$layer.a"; fail=1; }
 done

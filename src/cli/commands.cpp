@@ -1,4 +1,5 @@
 #include "commands.hpp"
+#include "fit_module.hpp"
 
 #include <unistd.h>
 
@@ -15,8 +16,8 @@
 #include <thread>
 
 #include "lapwing/base/error.hpp"
-#include "lapwing/base/halves.hpp"
 #include "lapwing/base/format.hpp"
+#include "lapwing/base/halves.hpp"
 #include "lapwing/base/hash.hpp"
 #include "lapwing/base/named_value.hpp"
 #include "lapwing/base/text.hpp"
@@ -809,8 +810,8 @@ int track_from_log(const FromLogOptions& o) {
         *option_value(o.smoothing, "--smoothing", Quantity::length, LogOptions::smoothing_range);
   const AirOverride air = parse_air(o.air);
   l.air = apply(AirSpec{}, air);
-  (void)air_of(AirSpec{}, air);  // air no air can be: the options' error
-  require_options(l.validate());              // a unit or column option: the option's error
+  (void)air_of(AirSpec{}, air);   // air no air can be: the options' error
+  require_options(l.validate());  // a unit or column option: the option's error
   const std::string csv_name = out.stem().string() + ".csv";
   const LogTrack t = lapwing::track_from_log(l, csv_name);
   const std::filesystem::path dir = out.parent_path().empty() ? "." : out.parent_path();
@@ -1142,6 +1143,9 @@ int fit(const FitOptions& o, Inputs& in) {
                          "small"};
   const std::vector<FitParameter> params = parse_free(o.free);
   const AirOverride air = parse_air(o.air);
+  // The solve's module (fit_module.hpp), loaded before any input is read: where it is missing,
+  // fit stops here, having written nothing.
+  const FitFunction fit_solve = fit_function();
   Car car = in.car(o.car);
   apply_model(o.model, car);
   const std::size_t ci = pick_config(car, o.config);
@@ -1172,7 +1176,7 @@ int fit(const FitOptions& o, Inputs& in) {
     (void)edited_car_text(o.car, fitted_edits(car, ci, neutral));
   }
   const ConfiguredCar start = car.configured(ci);
-  const FitResult r = at_log_rows(logs, [&] { return lapwing::fit(start, fit_logs, params, fo); });
+  const FitResult r = at_log_rows(logs, [&] { return fit_solve(start, fit_logs, params, fo); });
   // Each log's track and the air its laps were solved in (the track's, or the air options'):
   // the fitted factors hold in that air, so the text, car.yaml's header and fit.json say it.
   std::vector<std::string> track_names;

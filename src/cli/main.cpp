@@ -10,6 +10,7 @@
 #include <vector>
 
 #include "commands.hpp"
+#include "fit_module.hpp"
 #include "lapwing/base/error.hpp"
 #include "lapwing/base/text.hpp"
 #include "lapwing/base/version.hpp"
@@ -64,8 +65,9 @@ std::optional<std::string> check_command_line(CLI::App& app, int argc, char** ar
       const std::string name = word.substr(0, eq);
       const CLI::Option* opt = at->get_option_no_throw(name);
       const bool takes_value = opt && opt->get_items_expected_max() >= 1;
-      const bool empty = eq != std::string::npos ? eq + 1 == word.size()
-                                                 : (takes_value && i + 1 < argc && argv[i + 1][0] == '\0');
+      const bool empty = eq != std::string::npos
+                             ? eq + 1 == word.size()
+                             : (takes_value && i + 1 < argc && argv[i + 1][0] == '\0');
       if (takes_value && empty) return name + " is given an empty value";
     }
     word = word.substr(0, word.find('='));
@@ -370,6 +372,9 @@ int main(int argc, char** argv) {
     std::cerr << "lapwing: error: the car cannot complete the track: " << printable(e.what())
               << "\n";
     return 3;
+  } catch (const cli::FitModuleMissing& e) {
+    std::cerr << "lapwing: error: " << printable(e.what()) << "\n";
+    return 1;
   } catch (const std::exception& e) {
     std::cerr << "lapwing: internal error: " << printable(e.what()) << "\n";
     return 1;

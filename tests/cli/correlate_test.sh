@@ -183,5 +183,26 @@ rc=$?
 [ $rc -eq 2 ] && grep -qE "^$car:[0-9]+:[0-9]+: error: the file holds no value at this key path" \
   "$tmp/err.txt" && [ ! -e "$tmp/nowhere" ] && ok || bad "fit of a family's cla: rc $rc, $(cat "$tmp/err.txt")"
 
+# 5. fit's module (src/cli/fit_module.hpp): a binary without liblapwing_fit.so beside it (and no
+# install's lib/lapwing above it) says so, exit 1, and writes nothing; so does one beside a
+# shared object that is not the module. The other commands do not need it.
+mkdir -p "$tmp/alone/bin"
+cp "$bin" "$tmp/alone/bin/lapwing"
+"$tmp/alone/bin/lapwing" fit "${common[@]}" --log "$log" --time time_s --free power \
+  --out "$tmp/alone/f" > "$tmp/alone.txt" 2>&1
+rc=$?
+[ $rc -eq 1 ] && grep -q "^lapwing: error: fit needs its module, liblapwing_fit.so" "$tmp/alone.txt" &&
+  grep -q "liblapwing_fit.so: not found" "$tmp/alone.txt" && [ ! -e "$tmp/alone/f" ] && ok ||
+  bad "fit without its module: exit $rc, $(cat "$tmp/alone.txt")"
+sqlite_lib=$(ldd "$bin" | awk '/libsqlite3/ { print $3 }')
+cp "$sqlite_lib" "$tmp/alone/bin/liblapwing_fit.so"
+"$tmp/alone/bin/lapwing" fit "${common[@]}" --log "$log" --time time_s --free power \
+  --out "$tmp/alone/f" > "$tmp/alone.txt" 2>&1
+rc=$?
+[ $rc -eq 1 ] && grep -q "has no lapwing_fit_module (not lapwing's fit module)" "$tmp/alone.txt" &&
+  [ ! -e "$tmp/alone/f" ] && ok || bad "fit with another library as its module: exit $rc, $(cat "$tmp/alone.txt")"
+"$tmp/alone/bin/lapwing" correlate "${common[@]}" --log "$log" --time time_s > "$tmp/alone.txt" 2>&1 &&
+  ok || bad "correlate without the fit module: $(cat "$tmp/alone.txt")"
+
 echo "correlate_test: $pass passed, $fail failed"
 [ $fail -eq 0 ]
