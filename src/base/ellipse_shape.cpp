@@ -19,7 +19,7 @@ std::shared_ptr<const EllipseShape::Tables> EllipseShape::tables_for(double n) {
   // One set per exponent for the process's life (9 KB each), as FixedPower keeps its tables.
   return once_per_key<Tables>(n, [n] {
     auto tables = std::make_shared<Tables>();
-    const long double ln = n;
+    const long double ln = static_cast<long double>(n);
     // P(s) = (1 - (1 - s)^n) / s = -expm1(n log1p(-s)) / s: no cancellation as s -> 0.
     const auto p_of = [ln](long double s) { return -std::expm1(ln * std::log1p(-s)) / s; };
     for (std::size_t j = 0; j < intervals; ++j) {

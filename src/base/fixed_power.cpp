@@ -17,7 +17,7 @@ std::shared_ptr<const FixedPower::Tables> FixedPower::tables_for(double p) {
   // exponent a few hundred, 6 KB each), the same bits whichever thread made them.
   return once_per_key<Tables>(p, [p] {
     auto t = std::make_shared<Tables>();
-    const long double lp = p;
+    const long double lp = static_cast<long double>(p);
     for (std::size_t j = 0; j < intervals; ++j) {
       // The middle of m's j-th interval, exact in binary: 1 + (j + 1/2) / 64.
       const long double c = 1.0L + (static_cast<long double>(j) + 0.5L) / intervals;

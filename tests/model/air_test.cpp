@@ -102,7 +102,8 @@ TEST_CASE("the documented ends of the air's ranges are inside in every unit (REA
        {std::tuple{"300 hPa", Quantity::pressure, AirSpec::pressure_range},
         std::tuple{"1100 hPa", Quantity::pressure, AirSpec::pressure_range},
         std::tuple{"100 %", Quantity::fraction, AirSpec::humidity_range}}) {
-    CAPTURE(text);
+    const std::string given = text;  // a copy: clang 14's lambdas (CAPTURE) take no binding
+    CAPTURE(given);
     std::string error;
     CHECK(parse_named_value(text, "x", q, r, error));
   }

@@ -74,7 +74,8 @@ TEST_CASE("a centerline made from other data reads no better than that data's ve
        {std::pair{"good", Verdict::good}, std::pair{"usable", Verdict::usable},
         std::pair{"poor", Verdict::poor}}) {
     c.track.profile->source_verdict = given;
-    CAPTURE(given);
+    const std::string verdict = given;  // a copy: clang 14's lambdas (CAPTURE) take no binding
+    CAPTURE(verdict);
     const TrackQuality q = assess_track(c, v, car, "low_drag", lap);
     REQUIRE(q.source_verdict);
     CHECK(*q.source_verdict == expected);
