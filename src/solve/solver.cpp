@@ -1204,18 +1204,23 @@ void LapSolver::speed_pass(const Envelope& env, const Mesh& mesh, double start_s
   resize_ready({&lap.speed_mps, &lap.time_s}, n, second);
   lap.phase.resize(n);
   // Each point's speed and phase, and each step's time 2 ds / (v_i + v_(i+1)), exact for a
-  // constant acceleration over the step (ds / mean speed; README, "Physics and assumptions"),
-  // into time_s[i + 1]: in halves of the points, the second on the second thread where there
-  // is one. A half stops at its first point that does not move; the first half's error is the
-  // one rethrown (in_halves), the first such point of the lap.
+  // constant acceleration over the step (ds / mean speed; README, "Physics and assumptions"):
+  // in halves of the points, the second on the second thread where there is one. The first
+  // half adds its steps' times up as it goes (time_s[i + 1], the time at point i + 1); the
+  // second half, which cannot know the time at its first point yet, keeps each step's own in
+  // time_s[i + 1], added up after. A half stops at its first point that does not move; the
+  // first half's error is the one rethrown (in_halves), the first such point of the lap.
   const double two_ds = 2.0 * mesh.step_m;
   const auto on_limit_at = [&](std::size_t i, double v) {
     return v >= steady[i] * (1.0 - phase_on_limit);
   };
   // Whether each half has a point whose steady limit is an axle's lift (most laps have none).
   std::array<bool, 2> lift_limited{false, false};
+  lap.time_s[0] = 0.0;
   in_halves(n, second, [&](std::size_t lo, std::size_t hi) {
     bool lift = false;
+    const bool first = lo == 0;
+    double t = 0.0;  // the first half's running time
     for (std::size_t i = lo; i < hi; ++i) {
       lift |= lift_limit(steady_.limit[i]);
       const double v = std::min(fwd.speed_mps[i], bwd.speed_mps[i]);
@@ -1226,17 +1231,20 @@ void LapSolver::speed_pass(const Envelope& env, const Mesh& mesh, double start_s
       if (i + 1 < n) {
         const double vsum = v + std::min(fwd.speed_mps[i + 1], bwd.speed_mps[i + 1]);
         if (!(vsum > 0.0)) throw CannotMove("the car does not move at " + where(mesh, i));
-        lap.time_s[i + 1] = two_ds / vsum;
+        const double dt = two_ds / vsum;
+        if (first) t += dt;
+        lap.time_s[i + 1] = first ? t : dt;
       }
     }
-    lift_limited[lo == 0 ? 0 : 1] = lift;
+    lift_limited[first ? 0 : 1] = lift;
   });
-  // Then in order: the time as the running sum of the steps' (the same additions in the same
-  // order whatever the threads), and the stretch held on a lift limit, where there is one to
+  // Then in order: the second half's running time on from the first's (the same additions in
+  // the same order as one running sum over the lap, whatever the threads: time_s[i] =
+  // time_s[i - 1] + the step's), and the stretch held on a lift limit, where there is one to
   // hold (a point held there is on a lift limit; without one the stretch is none, as the loop
   // would find).
-  lap.time_s[0] = 0.0;
-  for (std::size_t i = 1; i < n; ++i) lap.time_s[i] = lap.time_s[i - 1] + lap.time_s[i];
+  // (in_halves splits at n / 2: the first half wrote time_s[1] to time_s[n / 2].)
+  for (std::size_t i = n / 2 + 1; i < n; ++i) lap.time_s[i] = lap.time_s[i - 1] + lap.time_s[i];
   lap.lift_hold = {};
   bool held_before = false;
   for (std::size_t i = 0; i < n && (lift_limited[0] || lift_limited[1]); ++i) {
