@@ -50,9 +50,10 @@ FitFunction load() {
                            ec.message() + ")");
   const fs::path dir = exe.parent_path();
   const fs::path libdir = LAPWING_INSTALL_LIBDIR;
-  const fs::path places[] = {
-      dir / module_name,
-      (libdir.is_absolute() ? libdir : dir / ".." / libdir) / "lapwing" / module_name};
+  // The install's <libdir>/lapwing, from the binary's <bindir> (CMakeLists.txt): relative to it,
+  // or absolute.
+  const fs::path installed = LAPWING_FIT_MODULE_DIR;
+  const fs::path places[] = {dir / module_name, (dir / installed) / module_name};
   std::string tried;
   for (const fs::path& p : places) {
     FitFunction f = nullptr;

@@ -39,8 +39,8 @@ struct FitModuleMissing : std::runtime_error {
 };
 
 // The module's lapwing::fit, loaded on the first call (beside the binary, as in the build tree;
-// then in <libdir>/lapwing of the install, from the binary's <prefix>/bin). Throws
-// FitModuleMissing.
+// then in <libdir>/lapwing of the install, from the binary's <bindir>, whatever their depths).
+// Throws FitModuleMissing.
 FitFunction fit_function();
 
 }  // namespace lapwing::cli
