@@ -203,6 +203,14 @@ rc=$?
   [ ! -e "$tmp/alone/f" ] && ok || bad "fit with another library as its module: exit $rc, $(cat "$tmp/alone.txt")"
 "$tmp/alone/bin/lapwing" correlate "${common[@]}" --log "$log" --time time_s > "$tmp/alone.txt" 2>&1 &&
   ok || bad "correlate without the fit module: $(cat "$tmp/alone.txt")"
+# The binary loads none of Ceres's libraries at its start (ldd: its DT_NEEDED, and theirs), and the
+# module exports its entry alone (nm -D: the dynamic symbols it defines; the layers' and the
+# templates its own source instantiates kept local, so that nothing of it can be bound to another
+# object's copy or the binary's).
+! ldd "$bin" | grep -qiE 'ceres|glog|gflags|cholmod|lapack|blas' && ok ||
+  bad "the binary needs Ceres's libraries: $(ldd "$bin" | grep -iE 'ceres|glog')"
+exports=$(nm -D --defined-only "$(dirname "$bin")/liblapwing_fit.so" | awk '{ print $3 }')
+[ "$exports" = "lapwing_fit_module" ] && ok || bad "the fit module exports more than its entry: $exports"
 
 echo "correlate_test: $pass passed, $fail failed"
 [ $fail -eq 0 ]
