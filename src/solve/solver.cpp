@@ -1216,6 +1216,7 @@ void LapSolver::speed_pass(const Envelope& env, const Mesh& mesh, double start_s
   };
   // Whether each half has a point whose steady limit is an axle's lift (most laps have none).
   std::array<bool, 2> lift_limited{false, false};
+  std::size_t first_end = 0;  // the first half's last point + 1 (time_s is a running sum to it)
   lap.time_s[0] = 0.0;
   in_halves(n, second, [&](std::size_t lo, std::size_t hi) {
     bool lift = false;
@@ -1237,14 +1238,14 @@ void LapSolver::speed_pass(const Envelope& env, const Mesh& mesh, double start_s
       }
     }
     lift_limited[first ? 0 : 1] = lift;
+    if (first) first_end = hi;
   });
   // Then in order: the second half's running time on from the first's (the same additions in
   // the same order as one running sum over the lap, whatever the threads: time_s[i] =
   // time_s[i - 1] + the step's), and the stretch held on a lift limit, where there is one to
   // hold (a point held there is on a lift limit; without one the stretch is none, as the loop
   // would find).
-  // (in_halves splits at n / 2: the first half wrote time_s[1] to time_s[n / 2].)
-  for (std::size_t i = n / 2 + 1; i < n; ++i) lap.time_s[i] = lap.time_s[i - 1] + lap.time_s[i];
+  for (std::size_t i = first_end + 1; i < n; ++i) lap.time_s[i] = lap.time_s[i - 1] + lap.time_s[i];
   lap.lift_hold = {};
   bool held_before = false;
   for (std::size_t i = 0; i < n && (lift_limited[0] || lift_limited[1]); ++i) {
