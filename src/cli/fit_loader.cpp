@@ -34,9 +34,8 @@ std::string try_module(const fs::path& path, FitFunction& out) {
   const FitModule* m = entry();
   if (version() != m->version)
     return "it is of lapwing " + std::string(m->version) + ", this binary is " + version();
-  for (std::size_t i = 0; i < 4; ++i)
-    if (m->sizes[i] != fit_module_sizes[i])
-      return "it is of another build of lapwing " + version() + " (its types' sizes differ)";
+  if (m->sizes != fit_module_sizes)
+    return "it is of another build of lapwing " + version() + " (its types' sizes differ)";
   out = m->fit;
   return {};
 }
@@ -49,22 +48,22 @@ FitFunction load() {
                            ") cannot be looked for: the binary's own path is unknown (" +
                            ec.message() + ")");
   const fs::path dir = exe.parent_path();
-  const fs::path libdir = LAPWING_INSTALL_LIBDIR;
   // The install's <libdir>/lapwing, from the binary's <bindir> (CMakeLists.txt): relative to it,
   // or absolute.
   const fs::path installed = LAPWING_FIT_MODULE_DIR;
   const fs::path places[] = {dir / module_name, (dir / installed) / module_name};
   std::string tried;
-  for (const fs::path& p : places) {
+  for (const fs::path& place : places) {
+    const fs::path p = place.lexically_normal();
     FitFunction f = nullptr;
-    const std::string why = try_module(p.lexically_normal(), f);
+    const std::string why = try_module(p, f);
     if (why.empty()) return f;
-    tried += (tried.empty() ? "" : "; ") + p.lexically_normal().string() + ": " + why;
+    tried += (tried.empty() ? "" : "; ") + p.string() + ": " + why;
   }
   throw FitModuleMissing("fit needs its module, " + std::string(module_name) +
-                         ", beside the binary or in the install's " +
-                         (libdir / "lapwing").string() +
-                         " (build or install lapwing again): " + tried);
+                         ", beside the binary or in the install's <libdir>/lapwing (build or "
+                         "install lapwing again): " +
+                         tried);
 }
 
 }  // namespace

@@ -6,10 +6,7 @@
 
 extern "C" [[gnu::visibility("default")]] const lapwing::cli::FitModule* lapwing_fit_module() {
   static const std::string version = lapwing::version();
-  static const lapwing::cli::FitModule module{
-      version.c_str(),
-      {lapwing::cli::fit_module_sizes[0], lapwing::cli::fit_module_sizes[1],
-       lapwing::cli::fit_module_sizes[2], lapwing::cli::fit_module_sizes[3]},
-      &lapwing::fit};
+  static const lapwing::cli::FitModule module{version.c_str(), lapwing::cli::fit_module_sizes,
+                                              &lapwing::fit};
   return &module;
 }

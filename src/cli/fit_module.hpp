@@ -4,6 +4,7 @@
 // command, whose start they slowed by some 6 ms (DEVELOPERS.md, "The fit module").
 #pragma once
 
+#include <array>
 #include <cstddef>
 #include <stdexcept>
 #include <vector>
@@ -23,12 +24,12 @@ using FitFunction = lapwing::FitResult (*)(const lapwing::ConfiguredCar&,
 // rather than called with another layout).
 struct FitModule {
   const char* version;
-  std::size_t sizes[4];
+  std::array<std::size_t, 4> sizes;
   FitFunction fit;
 };
 
 // The sizes FitModule::sizes holds, worked where this header is compiled.
-inline constexpr std::size_t fit_module_sizes[4] = {
+inline constexpr std::array<std::size_t, 4> fit_module_sizes = {
     sizeof(lapwing::ConfiguredCar), sizeof(lapwing::FitLog), sizeof(lapwing::FitOptions),
     sizeof(lapwing::FitResult)};
 
