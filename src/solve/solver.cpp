@@ -124,6 +124,10 @@ struct InverseMass {
 // table's tolerance. Within `straight_margin` of each other, or where the table has no cell, the
 // model decides.
 constexpr double straight_margin = 1e-6;  // m/s^2: 100 x LevelTables::tolerance_mps2
+// No grade, bank or head wind anywhere on the mesh (the Sweeper's `Level`).
+bool level_mesh(const Mesh& m) {
+  return m.grade.empty() && m.bank_rad.empty() && m.head_wind_mps.empty();
+}
 bool level_in_still_air(const Road& r) {
   return r.sin_slope == 0.0 && r.sin_bank == 0.0 && r.cos_slope == 1.0 && r.cos_bank == 1.0 &&
          r.head_wind_mps == 0.0;
@@ -446,7 +450,10 @@ constexpr double held_margin_mps2 = 1e-6;
 // lockstep: two independent chains of dependent arithmetic keep the processor busier than one
 // (each RK4 stage waits on the last). Forward and backward differ only in the acceleration.
 // `Axle` picks the vehicle model at compile time (one branch per lap, none per stage).
-template <bool Axle>
+// `Level`: the mesh has no grade, bank or head wind anywhere (level_mesh): every point's road
+// is the level one in still air, known without reading the mesh, and every step's road the
+// same as the last.
+template <bool Axle, bool Level>
 class Sweeper {
   SweepResult& r_;
 
@@ -504,7 +511,7 @@ class Sweeper {
     const std::size_t i = i_, j = next(i);
     if (mesh_.curvature_1pm[i] != 0.0 || mesh_.curvature_1pm[j] != 0.0) return false;
     const std::size_t p = forward_ ? i : j;  // where begin_step reads the road
-    if (!mesh_.level_in_still_air(p)) return false;
+    if (!Level && !mesh_.level_in_still_air(p)) return false;
     const CellCubics* table = &steps_->brake;
     if (forward_) {
       if (cut_left_s_ > 0.0) return false;
@@ -539,10 +546,11 @@ class Sweeper {
     const double um = std::min(u0, ulim0 + dulim * xm);
     const double k0 = std::abs(mesh_.curvature_1pm[i]);
     const double k = k0 + (std::abs(mesh_.curvature_1pm[j]) - k0) / ds_ * xm;
-    const Road road = road_at_(j);
+    const Road road = road_at(j);
     // The last held step's state stands for this one where it is the same (an arc or a top
     // speed held: the limit, the curvature and the road the same step after step).
-    if (!(held_.valid && um == held_.um && k == held_.k && same_road(road, held_.road))) {
+    if (!(held_.valid && um == held_.um && k == held_.k &&
+          (Level || same_road(road, held_.road)))) {
       const double r = env_.road_forces(env_.rows(false), std::max(um, 0.0), k, road).resistance_n;
       if (!(r * inv_mass_.m > held_margin_mps2)) return false;
       held_ = {um, k, road, true};
@@ -563,9 +571,9 @@ class Sweeper {
     // The limit in u = v^2 over the step, linear between its ends: no stage state goes above it.
     ulim0_ = limit_[i] * limit_[i];
     dulim_ = (limit_[j_] * limit_[j_] - ulim0_) / ds_;
-    road_ = road_at_(forward_ ? i : j_);
-    straight_ =
-        Axle && env_.level_tables() && k0_ == 0.0 && dk_ == 0.0 && level_in_still_air(road_);
+    road_ = road_at(forward_ ? i : j_);
+    straight_ = Axle && env_.level_tables() && k0_ == 0.0 && dk_ == 0.0 &&
+                (Level || level_in_still_air(road_));
     const bool trims_now = forward_ && env_.trims(k0_) && mesh_.trim_zone[i];
     // Under drive, movable aero trims where the step starts on a straight enough piece (inside
     // a trim zone, where the track has them); under braking it does not.
@@ -580,8 +588,8 @@ class Sweeper {
     }
     // The last answer stands for a stage of the same state (memo_): the same road, trim, drive
     // share and table choice as the step it came from.
-    if (!(same_road(road_, memo_road_) && trimmed_ == memo_trimmed_ && drive_share_ == last_share &&
-          straight_ == memo_straight_)) {
+    if (!((Level || same_road(road_, memo_road_)) && trimmed_ == memo_trimmed_ &&
+          drive_share_ == last_share && straight_ == memo_straight_)) {
       memo_.valid = false;
       memo_road_ = road_;
       memo_trimmed_ = trimmed_;
@@ -609,6 +617,14 @@ class Sweeper {
     return f;
   }
 
+  /// The road at point i: RoadReader's, or on a Level mesh the level road in still air as
+  /// RoadReader gives it there (its bank's sine a zero of the turn's sign).
+  [[gnu::always_inline]] Road road_at(std::size_t i) {
+    if constexpr (Level)
+      return {1.0, 0.0, 1.0, (mesh_.curvature_1pm[i] < 0.0 ? -1.0 : 1.0) * 0.0, 0.0};
+    else
+      return road_at_(i);
+  }
   /// The limit in u = v^2 a distance x into the step (linear between the step's ends).
   double cap(double x) const { return ulim0_ + dulim_ * x; }
   /// Curvature and limit the same at both ends (an arc or a straight on its steady limit):
@@ -902,11 +918,11 @@ template <Integrator I, class Sw>
 
 // One sweep into `r`. `at` counts its steps as they go: where a step throws, the step it was
 // (the constructor's throw leaves it at -1).
-template <bool Axle, Integrator I>
-void sweep_into(const Envelope& env, const Mesh& mesh, Sweep direction,
-                const std::vector<double>& limit, std::size_t start, double v_start, SweepResult& r,
-                const StepTables* steps, bool quick, std::ptrdiff_t& at) {
-  using Sw = Sweeper<Axle>;
+template <bool Axle, Integrator I, bool Level>
+void sweep_into_as(const Envelope& env, const Mesh& mesh, Sweep direction,
+                   const std::vector<double>& limit, std::size_t start, double v_start,
+                   SweepResult& r, const StepTables* steps, bool quick, std::ptrdiff_t& at) {
+  using Sw = Sweeper<Axle, Level>;
   at = -1;
   Sw s(env, mesh, direction, limit, start, v_start, r, steps);
   const double h = mesh.step_m;
@@ -917,6 +933,15 @@ void sweep_into(const Envelope& env, const Mesh& mesh, Sweep direction,
     s.end_step(u1);
   }
   s.finish();
+}
+template <bool Axle, Integrator I>
+void sweep_into(const Envelope& env, const Mesh& mesh, Sweep direction,
+                const std::vector<double>& limit, std::size_t start, double v_start, SweepResult& r,
+                const StepTables* steps, bool quick, std::ptrdiff_t& at) {
+  if (level_mesh(mesh))
+    sweep_into_as<Axle, I, true>(env, mesh, direction, limit, start, v_start, r, steps, quick, at);
+  else
+    sweep_into_as<Axle, I, false>(env, mesh, direction, limit, start, v_start, r, steps, quick, at);
 }
 
 template <bool Axle, Integrator I>
@@ -931,11 +956,11 @@ SweepResult sweep_one(const Envelope& env, const Mesh& mesh, Sweep direction,
 
 // Both sweeps in lockstep: a step of each from the tables where they hold it, the others
 // together.
-template <bool Axle, Integrator I>
-void sweep_both(const Envelope& env, const Mesh& mesh, const std::vector<double>& limit,
-                std::size_t f0, double vf, std::size_t b0, double vb, SweepResult& fwd,
-                SweepResult& bwd, const StepTables* steps, bool quick) {
-  using Sw = Sweeper<Axle>;
+template <bool Axle, Integrator I, bool Level>
+void sweep_both_as(const Envelope& env, const Mesh& mesh, const std::vector<double>& limit,
+                   std::size_t f0, double vf, std::size_t b0, double vb, SweepResult& fwd,
+                   SweepResult& bwd, const StepTables* steps, bool quick) {
+  using Sw = Sweeper<Axle, Level>;
   Sw f(env, mesh, Sweep::forward, limit, f0, vf, fwd, steps);
   Sw b(env, mesh, Sweep::backward, limit, b0, vb, bwd, steps);
   assert(f.steps() == b.steps());
@@ -958,6 +983,15 @@ void sweep_both(const Envelope& env, const Mesh& mesh, const std::vector<double>
   }
   f.finish();
   b.finish();
+}
+template <bool Axle, Integrator I>
+void sweep_both(const Envelope& env, const Mesh& mesh, const std::vector<double>& limit,
+                std::size_t f0, double vf, std::size_t b0, double vb, SweepResult& fwd,
+                SweepResult& bwd, const StepTables* steps, bool quick) {
+  if (level_mesh(mesh))
+    sweep_both_as<Axle, I, true>(env, mesh, limit, f0, vf, b0, vb, fwd, bwd, steps, quick);
+  else
+    sweep_both_as<Axle, I, false>(env, mesh, limit, f0, vf, b0, vb, fwd, bwd, steps, quick);
 }
 
 // Both sweeps side by side: the backward sweep on the second thread, the forward on this one.
