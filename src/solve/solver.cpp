@@ -1099,10 +1099,21 @@ std::shared_ptr<const StepTables> step_tables_for(const Envelope& env, const Mes
   if (!wanted || integrator != Integrator::exponential || !env.level_tables()) return nullptr;
   // Steps the tables can answer: curvature 0 at both ends, level and in still air at the first
   // (a count that decides whether to build, not which step reads the tables).
+  // Counted in blocks of points, each block's count a loop without a branch (which the
+  // compiler vectorises on a level mesh), until the count is reached.
   std::size_t straight = 0;
-  const auto& k = mesh.curvature_1pm;
-  for (std::size_t i = 0; i + 1 < k.size() && straight < min_straight_steps; ++i)
-    straight += k[i] == 0.0 && k[i + 1] == 0.0 && mesh.level_in_still_air(i);
+  const double* const k = mesh.curvature_1pm.data();
+  const std::size_t steps = mesh.size() == 0 ? 0 : mesh.size() - 1;
+  const bool level = level_mesh(mesh);
+  constexpr std::size_t block = 512;
+  for (std::size_t lo = 0; lo < steps && straight < min_straight_steps; lo += block) {
+    const std::size_t hi = std::min(steps, lo + block);
+    if (level)
+      for (std::size_t i = lo; i < hi; ++i) straight += k[i] == 0.0 && k[i + 1] == 0.0;
+    else
+      for (std::size_t i = lo; i < hi; ++i)
+        straight += k[i] == 0.0 && k[i + 1] == 0.0 && mesh.level_in_still_air(i);
+  }
   if (straight < min_straight_steps) return nullptr;
   const double h = mesh.step_m;
   return env.level_tables()->steps->get(h, [&] { return build_step_tables(env, h); });
