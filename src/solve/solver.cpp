@@ -321,9 +321,10 @@ void steady_halves(const Envelope& env, const Mesh& mesh, SteadyProfile& p, Seco
 }
 
 // The steady limits of points lo to hi (not included), each half of the mesh from a fresh start
-// (no answer carried in from the point before lo).
-void steady_points(const Envelope& env, const Mesh& mesh, SteadyProfile& p, std::size_t lo,
-                   std::size_t hi, bool engine) {
+// (no answer carried in from the point before lo). `Level`: as the Sweeper's (level_mesh).
+template <bool Level>
+void steady_points_as(const Envelope& env, const Mesh& mesh, SteadyProfile& p, std::size_t lo,
+                      std::size_t hi, bool engine) {
   const double v_max = env.max_speed_mps();
   const bool axle = env.car().model == VehicleModel::axle;
   const LevelTables* tables = axle ? env.level_tables() : nullptr;
@@ -340,8 +341,9 @@ void steady_points(const Envelope& env, const Mesh& mesh, SteadyProfile& p, std:
     // zone: most points of a straight or an arc) has the same limit; the loop below would find
     // nothing changed there.
     if (i > lo && mesh.curvature_1pm[i] == mesh.curvature_1pm[i - 1] &&
-        mesh.grade_at(i) == mesh.grade_at(i - 1) && mesh.bank_at(i) == mesh.bank_at(i - 1) &&
-        mesh.head_wind_at(i) == mesh.head_wind_at(i - 1) &&
+        (Level ||
+         (mesh.grade_at(i) == mesh.grade_at(i - 1) && mesh.bank_at(i) == mesh.bank_at(i - 1) &&
+          mesh.head_wind_at(i) == mesh.head_wind_at(i - 1))) &&
         mesh.trim_zone[i] == mesh.trim_zone[i - 1]) {
       p.speed_mps[i] = p.speed_mps[i - 1];
       p.limit[i] = p.limit[i - 1];
@@ -418,6 +420,13 @@ void steady_points(const Envelope& env, const Mesh& mesh, SteadyProfile& p, std:
                             : "the tyres cannot hold the car on this grade") +
                        ")");
   }
+}
+void steady_points(const Envelope& env, const Mesh& mesh, SteadyProfile& p, std::size_t lo,
+                   std::size_t hi, bool engine) {
+  if (level_mesh(mesh))
+    steady_points_as<true>(env, mesh, p, lo, hi, engine);
+  else
+    steady_points_as<false>(env, mesh, p, lo, hi, engine);
 }
 
 }  // namespace
