@@ -482,6 +482,7 @@ class Sweeper {
         inv_mass_{1.0 / env.mass_kg(), 1.0 / env.effective_mass_kg()},
         shift_time_(env.car().powertrain.shift_time_s),
         steps_(steps),
+        reach_base_(steps ? ds_ * steps->slope_bound : 0.0),
         i_(start),
         v_(v_start),
         u_(v_start * v_start) {
@@ -528,7 +529,7 @@ class Sweeper {
     }
     const double u0 = u_;
     // The step reads the model at u0 and at most this far from it (exponential_step's secant).
-    const double reach = ds_ * steps_->slope_bound + slope_spread * std::max(u0, 1.0);
+    const double reach = reach_base_ + slope_spread * std::max(u0, 1.0);
     if (!(u0 >= reach && u0 + reach <= std::min(limit_[i] * limit_[i], limit_[j] * limit_[j])))
       return false;
     if (!table->at(u0, u1)) return false;
@@ -698,6 +699,7 @@ class Sweeper {
   const InverseMass inv_mass_;
   const double shift_time_;
   const StepTables* const steps_;  // null: every step is the integrator's
+  const double reach_base_;        // table_step's reach without its floor
   std::size_t i_;
   double v_;
   // u = v^2 at the current point: the step's own u where the limit did not clip it (not
