@@ -1412,8 +1412,11 @@ void LapSolver::channels_pass(const Envelope& env, const Mesh& mesh, ChannelSet 
   // in the sweeps, and start afresh at lo.
   // `every`: std::true_type for every channel, std::false_type for the loads alone, so that
   // each loop is compiled for its own set.
-  const auto points = [&](auto every, std::size_t lo_point, std::size_t hi_point) {
+  // `level`: std::true_type on a level mesh (level_mesh: the Sweeper's `Level`), whose every
+  // point's road is the level one in still air, known without reading the mesh.
+  const auto points = [&](auto every, auto level, std::size_t lo_point, std::size_t hi_point) {
     constexpr bool All = decltype(every)::value;
+    constexpr bool Level = decltype(level)::value;
     AxleHints drive_hints, brake_hints;
     // The axle loads at acceleration ax on the forces f (an axle at its lift limit rounded to
     // 0 N, below), and what each axle carries there (`usage`).
@@ -1458,7 +1461,7 @@ void LapSolver::channels_pass(const Envelope& env, const Mesh& mesh, ChannelSet 
       // Over half the curved points of a lap are such points (Brannock Park: 716 of 1268).
       if (diff == 0.0 && on_steady_limit(lap.phase[i])) return 0.0;
       const double k = std::abs(mesh.curvature_1pm[i]);
-      const bool straight = tables && k == 0.0 && level_in_still_air(road);
+      const bool straight = tables && k == 0.0 && (Level || level_in_still_air(road));
       const bool trims = diff >= 0.0 && env.trims(k) && mesh.trim_zone[i];
       // The axle model off the straight-line tables: where both axles carry what the
       // difference asks (usage <= 1 on each, at the loads it sets) and, under drive, the engine
@@ -1513,7 +1516,10 @@ void LapSolver::channels_pass(const Envelope& env, const Mesh& mesh, ChannelSet 
           (*c)[i] = nan;
         continue;
       }
-      const Road road = road_at(i);
+      // As RoadReader gives the level road (its bank's sine a zero of the turn's sign).
+      const Road road =
+          Level ? Road{1.0, 0.0, 1.0, (mesh.curvature_1pm[i] < 0.0 ? -1.0 : 1.0) * 0.0, 0.0}
+                : road_at(i);
       // Lateral acceleration in the road's plane, signed as the curvature: F_y / m (v^2 kappa on
       // a flat road; less the weight's part down a bank).
       const Envelope::RoadForces f = env.road_forces(env.rows(trimmed), v * v, k, road);
@@ -1565,11 +1571,17 @@ void LapSolver::channels_pass(const Envelope& env, const Mesh& mesh, ChannelSet 
   };
   // Always the same two halves, whatever the threads (the hints start afresh at the second), so
   // that the channels are the same bit for bit on one thread or two.
-  if (all)
-    in_halves(n, second, [&](std::size_t lo, std::size_t hi) { points(std::true_type{}, lo, hi); });
-  else
-    in_halves(n, second,
-              [&](std::size_t lo, std::size_t hi) { points(std::false_type{}, lo, hi); });
+  const bool level = level_mesh(mesh);
+  in_halves(n, second, [&](std::size_t lo, std::size_t hi) {
+    if (all && level)
+      points(std::true_type{}, std::true_type{}, lo, hi);
+    else if (all)
+      points(std::true_type{}, std::false_type{}, lo, hi);
+    else if (level)
+      points(std::false_type{}, std::true_type{}, lo, hi);
+    else
+      points(std::false_type{}, std::false_type{}, lo, hi);
+  });
 }
 
 std::array<std::vector<double>*, 10> LapSolver::double_channels(Lap& lap) {
