@@ -1146,6 +1146,16 @@ decltype(auto) dispatch(const Envelope& env, Integrator integrator, F&& f) {
 SweepResult sweep(const Envelope& env, const Mesh& mesh, Sweep direction,
                   const std::vector<double>& limit, std::size_t start, double v_start,
                   Integrator integrator) {
+  const std::size_t n = mesh.size();
+  if (limit.size() != n)
+    throw std::invalid_argument("sweep: a limit of " + std::to_string(limit.size()) +
+                                " points for a mesh of " + std::to_string(n));
+  if (start >= n)
+    throw std::out_of_range("sweep: start " + std::to_string(start) +
+                            " is not a point of a mesh of " + std::to_string(n));
+  // A closed mesh's last point is its first (the seam): the sweep from it is the sweep from
+  // point 0 (a forward sweep would otherwise step past the mesh's end).
+  if (mesh.closed && start == n - 1) start = 0;
   return dispatch(env, integrator, [&]<bool Axle, Integrator I>() {
     return sweep_one<Axle, I>(env, mesh, direction, limit, start, v_start);
   });

@@ -958,3 +958,27 @@ TEST_CASE("the trace's rpm is the speed's in its gear, within the rev limit (kin
     CHECK(past == 0);
   }
 }
+
+TEST_CASE("a sweep from a closed mesh's seam is the sweep from its first point") {
+  // A closed mesh's last point is its first (Mesh: the seam, point n-1 == point 0), so a sweep
+  // started there is the one started at 0, bit for bit, in either direction. Found in review:
+  // a forward sweep from n-1 stepped to point n, past the buffers' end. A start off the mesh
+  // and a limit of another length are errors of the caller, said as such.
+  const Car car = load_car(test::source_path("cars/caldra-gt.yaml"));
+  const Circuit c = test::bundled_circuit("tracks/brannock-park.yaml");
+  REQUIRE(c.mesh.closed);
+  const Envelope env(car.configured(0), c.air);
+  const SteadyProfile steady = steady_profile(env, c.mesh);
+  const std::size_t n = c.mesh.size();
+  const double v0 = steady.speed_mps[0];
+  for (Sweep d : {Sweep::forward, Sweep::backward}) {
+    const SweepResult seam = sweep(env, c.mesh, d, steady.speed_mps, n - 1, v0);
+    const SweepResult first = sweep(env, c.mesh, d, steady.speed_mps, 0, v0);
+    CHECK(seam.speed_mps == first.speed_mps);
+    CHECK(seam.gear == first.gear);
+    CHECK(seam.cut == first.cut);
+  }
+  CHECK_THROWS_AS(sweep(env, c.mesh, Sweep::forward, steady.speed_mps, n, v0), std::out_of_range);
+  std::vector<double> shorter(steady.speed_mps.begin(), steady.speed_mps.end() - 1);
+  CHECK_THROWS_AS(sweep(env, c.mesh, Sweep::forward, shorter, 0, v0), std::invalid_argument);
+}

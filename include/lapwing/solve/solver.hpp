@@ -114,7 +114,10 @@ inline constexpr Integrator default_integrator = Integrator::exponential;
 
 /// Integrates u = v^2 along the mesh in one direction: forward under drive (with the drive cut
 /// for shift_time after each upshift), backward under braking. Every point is clipped to
-/// `limit`. `start` is the mesh index to begin at and `v_start` its speed; closed meshes wrap.
+/// `limit` (one value a mesh point). `start` is the mesh index to begin at and `v_start` its
+/// speed; closed meshes wrap, and their last point is their first (start n-1 is start 0).
+/// Throws std::invalid_argument where `limit` is not one value a point, std::out_of_range
+/// where `start` is not a point of the mesh.
 /// `cut[i]` is set where the drive was cut for a shift over the step that reached i (forward
 /// only).
 /// `gear[i]` is the gear engaged on reaching i (forward only). A backward sweep leaves `cut`
