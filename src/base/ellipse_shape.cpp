@@ -22,6 +22,17 @@ std::shared_ptr<const EllipseShape::Tables> EllipseShape::tables_for(double n) {
     const long double ln = static_cast<long double>(n);
     // P(s) = (1 - (1 - s)^n) / s = -expm1(n log1p(-s)) / s: no cancellation as s -> 0.
     const auto p_of = [ln](long double s) { return -std::expm1(ln * std::log1p(-s)) / s; };
+    // The Chebyshev points and the polynomials T_k at them are the same for every interval:
+    // worked once (the same expressions on the same values as in the loop below, so the same
+    // long doubles).
+    std::array<long double, terms> t_at{};
+    std::array<std::array<long double, terms>, terms> t_k_at{};  // T_k(t_i)
+    for (std::size_t i = 0; i < terms; ++i)
+      t_at[i] = std::cos((2.0L * static_cast<long double>(i) + 1.0L) *
+                         std::numbers::pi_v<long double> / (2.0L * terms));
+    for (std::size_t k = 0; k < terms; ++k)
+      for (std::size_t i = 0; i < terms; ++i)
+        t_k_at[k][i] = std::cos(static_cast<long double>(k) * std::acos(t_at[i]));
     for (std::size_t j = 0; j < intervals; ++j) {
       // The middle of s's j-th interval, exact in binary: (j + 1/2) / 128; s = middle + t / 256.
       const long double middle = (static_cast<long double>(j) + 0.5L) / (2 * intervals);
@@ -32,10 +43,8 @@ std::shared_ptr<const EllipseShape::Tables> EllipseShape::tables_for(double n) {
       // 2nd ed., sec. 5.8; from memory), then the monomial ones, T_k's own coefficients by their
       // recurrence T_(k+1) = 2 t T_k - T_(k-1). (Solving the Vandermonde system instead left a few
       // ulp at the intervals' ends.)
-      std::array<long double, terms> t_at{}, p_at{}, q_at{};
+      std::array<long double, terms> p_at{}, q_at{};
       for (std::size_t i = 0; i < terms; ++i) {
-        t_at[i] = std::cos((2.0L * static_cast<long double>(i) + 1.0L) *
-                           std::numbers::pi_v<long double> / (2.0L * terms));
         p_at[i] = p_of(middle + t_at[i] / (4 * intervals));
         q_at[i] = std::pow(p_at[i], 1.0L / ln);
       }
@@ -45,10 +54,8 @@ std::shared_ptr<const EllipseShape::Tables> EllipseShape::tables_for(double n) {
       for (std::size_t k = 0; k < terms; ++k) {
         long double pa = 0.0L, qa = 0.0L;
         for (std::size_t i = 0; i < terms; ++i) {
-          const long double tk =
-              std::cos(static_cast<long double>(k) * std::acos(t_at[i]));  // T_k(t_i)
-          pa += p_at[i] * tk;
-          qa += q_at[i] * tk;
+          pa += p_at[i] * t_k_at[k][i];
+          qa += q_at[i] * t_k_at[k][i];
         }
         const long double w = (k == 0 ? 1.0L : 2.0L) / terms;
         for (std::size_t m = 0; m < terms; ++m) {
