@@ -66,6 +66,12 @@ class RoadReader {
     const double turn = m_.curvature_1pm[i] < 0.0 ? -1.0 : 1.0;
     return {cos_slope_, sin_slope_, cos_bank_, turn * sin_bank_, m_.head_wind_at(i)};
   }
+  /// What operator() gives at point i of a level mesh (level_mesh: no grade, bank or head wind
+  /// anywhere), without reading the mesh but for the turn's sign: the level road in still air,
+  /// its bank's sine a zero of that sign.
+  [[gnu::always_inline]] Road level(std::size_t i) const {
+    return {1.0, 0.0, 1.0, (m_.curvature_1pm[i] < 0.0 ? -1.0 : 1.0) * 0.0, 0.0};
+  }
 
  private:
   const Mesh& m_;
@@ -627,11 +633,10 @@ class Sweeper {
     return f;
   }
 
-  /// The road at point i: RoadReader's, or on a Level mesh the level road in still air as
-  /// RoadReader gives it there (its bank's sine a zero of the turn's sign).
+  /// The road at point i (RoadReader; on a Level mesh its level road).
   [[gnu::always_inline]] Road road_at(std::size_t i) {
     if constexpr (Level)
-      return {1.0, 0.0, 1.0, (mesh_.curvature_1pm[i] < 0.0 ? -1.0 : 1.0) * 0.0, 0.0};
+      return road_at_.level(i);
     else
       return road_at_(i);
   }
@@ -1526,10 +1531,7 @@ void LapSolver::channels_pass(const Envelope& env, const Mesh& mesh, ChannelSet 
           (*c)[i] = nan;
         continue;
       }
-      // As RoadReader gives the level road (its bank's sine a zero of the turn's sign).
-      const Road road =
-          Level ? Road{1.0, 0.0, 1.0, (mesh.curvature_1pm[i] < 0.0 ? -1.0 : 1.0) * 0.0, 0.0}
-                : road_at(i);
+      const Road road = Level ? road_at.level(i) : road_at(i);
       // Lateral acceleration in the road's plane, signed as the curvature: F_y / m (v^2 kappa on
       // a flat road; less the weight's part down a bank).
       const Envelope::RoadForces f = env.road_forces(env.rows(trimmed), v * v, k, road);
