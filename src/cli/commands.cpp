@@ -138,17 +138,21 @@ class Inputs {
     const Air a = air_of(t.air, air);
     return {std::move(t), a};
   }
-  Circuit lay_out(const std::string& file, const AirOverride& air) {
+  // Laid out with the mesh's positions where a command draws or writes them (a map, a trace,
+  // a line), without them where it reads laps alone (MeshPositions).
+  Circuit lay_out(const std::string& file, const AirOverride& air, MeshPositions positions) {
     const Loaded l = load(file, air);
-    return lapwing::lay_out(l.track, l.air);
+    return lapwing::lay_out(l.track, l.air, positions);
   }
   std::vector<Loaded> load_all(const std::vector<std::string>& files, const AirOverride& air);
-  std::vector<Circuit> lay_out_all(const std::vector<std::string>& files, const AirOverride& air) {
-    return lay_out_each(load_all(files, air));
+  std::vector<Circuit> lay_out_all(const std::vector<std::string>& files, const AirOverride& air,
+                                   MeshPositions positions) {
+    return lay_out_each(load_all(files, air), positions);
   }
-  static std::vector<Circuit> lay_out_each(const std::vector<Loaded>& tracks) {
+  static std::vector<Circuit> lay_out_each(const std::vector<Loaded>& tracks,
+                                           MeshPositions positions) {
     std::vector<Circuit> out;
-    for (const Loaded& l : tracks) out.push_back(lapwing::lay_out(l.track, l.air));
+    for (const Loaded& l : tracks) out.push_back(lapwing::lay_out(l.track, l.air, positions));
     return out;
   }
   InputError error(const InvalidInput& e) const { return sources_.error(e); }
@@ -156,6 +160,12 @@ class Inputs {
  private:
   SourceMaps sources_;
 };
+
+// A command that writes files (--out DIR) draws the track's map and writes traces with
+// positions; one that prints its table alone reads laps only.
+MeshPositions positions_for(const std::string& out_dir) {
+  return out_dir.empty() ? MeshPositions::left_out : MeshPositions::laid_out;
+}
 
 // Runs a command with its Inputs; an InvalidInput becomes the input error at its place.
 template <typename Options>
@@ -307,7 +317,7 @@ namespace {
 int check(const CheckOptions& o, Inputs& in) {
   const AirOverride air = parse_air(o.air);
   const Car car = in.car(o.car);
-  const std::vector<Circuit> tracks = in.lay_out_all(o.tracks, air);
+  const std::vector<Circuit> tracks = in.lay_out_all(o.tracks, air, MeshPositions::left_out);
   // The car's own figures in ISO 2533 sea-level air, or in the air the options give.
   const CheckSummary summary = check_summary(car, tracks, air_of(AirSpec{}, air));
   // Bad input a lap found is worded at its place in the file that gave it.
@@ -345,7 +355,7 @@ int run(const RunOptions& o, Inputs& in) {
   loaded.push_back(in.load(o.track, air));
   require_out_keeps_inputs(o.out);
   require_memory(o.memory_limit, loaded, 0, true, 1, 1, true);
-  std::vector<Circuit> circuits = Inputs::lay_out_each(loaded);
+  std::vector<Circuit> circuits = Inputs::lay_out_each(loaded, positions_for(o.out));
   loaded.clear();
   const Circuit& t = circuits.front();
   const ConfiguredCar configured = car.configured(ci);
@@ -429,7 +439,7 @@ int compare(const CompareOptions& o, Inputs& in) {
   // The verdicts (with --out) lay a fitted centerline out twice more.
   require_memory(o.memory_limit, loaded, configs.size(), true, o.threads,
                  loaded.size() * configs.size(), !o.out.empty());
-  const std::vector<Circuit> circuits = Inputs::lay_out_each(loaded);
+  const std::vector<Circuit> circuits = Inputs::lay_out_each(loaded, positions_for(o.out));
   loaded.clear();
   if (!o.out.empty()) require_unique(compare_files(car, configs, circuits));
   const Comparison c = lapwing::compare(car, configs, circuits, o.threads);
@@ -496,7 +506,7 @@ int trade(const TradeOptions& o, Inputs& in) {
   require_out_keeps_inputs(o.out);
   // Speed and time only; no lap kept; many laps per track (the differences and the grid).
   require_memory(o.memory_limit, loaded, 0, false, o.threads, std::size_t{1} << 20, false);
-  const std::vector<Circuit> circuits = Inputs::lay_out_each(loaded);
+  const std::vector<Circuit> circuits = Inputs::lay_out_each(loaded, positions_for(o.out));
   loaded.clear();
   if (!o.out.empty()) {
     std::vector<PlannedFile> planned;
@@ -592,7 +602,7 @@ int sweep(const SweepOptions& o, Inputs& in) {
   for (std::size_t i = 0; i < configs.size(); ++i)
     for (std::size_t j = 0; j < i; ++j)
       if (configs[i] == configs[j]) throw UsageError{"--config " + configs[i] + " is given twice"};
-  const std::vector<Circuit> circuits = in.lay_out_all(o.tracks, air);
+  const std::vector<Circuit> circuits = in.lay_out_all(o.tracks, air, MeshPositions::left_out);
 
   const auto car_at = [&](std::size_t point) {
     Document d = doc;
@@ -1061,7 +1071,7 @@ int correlate(const CorrelateOptions& o, Inputs& in) {
   std::vector<SpeedLogFile> logs;
   logs.push_back(read_speed_log(speed_log_options(o.log, o.columns)));
   std::vector<Circuit> circuits;
-  circuits.push_back(in.lay_out(o.track, air));
+  circuits.push_back(in.lay_out(o.track, air, MeshPositions::laid_out));
   require_out_keeps_inputs(o.out);
   const Circuit& t = circuits.front();
   const LapRun r = run_lap(car.configured(ci), t);
@@ -1159,7 +1169,7 @@ int fit(const FitOptions& o, Inputs& in) {
   }
   std::vector<SpeedLogFile> logs;
   for (const auto& l : o.logs) logs.push_back(read_speed_log(speed_log_options(l, o.columns)));
-  const std::vector<Circuit> circuits = in.lay_out_all(unique_tracks, air);
+  const std::vector<Circuit> circuits = in.lay_out_all(unique_tracks, air, MeshPositions::laid_out);
   require_out_keeps_inputs(o.out);
   std::vector<FitLog> fit_logs;
   for (std::size_t i = 0; i < logs.size(); ++i)

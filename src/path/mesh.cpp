@@ -8,6 +8,7 @@
 #include <memory>
 #include <optional>
 #include <sstream>
+#include <stdexcept>
 #include <string>
 #include <thread>
 #include <vector>
@@ -107,7 +108,10 @@ class Walker {
   }
 
   // Advances to distance s (not before the current one) and returns the state there.
-  State at(double s) {
+  State at(double s) { return at(s, true); }
+  /// The same without walking the position (x and y stay at the segment's start): elevation,
+  /// heading and the rest are worked as at(s) works them, to the same bits.
+  State at(double s, bool positions) {
     // Move into the segment holding s; the last segment holds everything beyond.
     while (!last_segment_ && s >= seg_end_) {
       if (starts_) {
@@ -118,7 +122,10 @@ class Walker {
       advance_to(seg().length_m);
       next_segment();
     }
-    advance_to(std::max(u_, s - seg_start_));
+    if (positions)
+      advance_to(std::max(u_, s - seg_start_));
+    else
+      skip_to(std::max(u_, s - seg_start_));
     return {x_, y_, heading_here(), curvature(u_), z_, seg().grade, width_, bank_};
   }
 
@@ -176,6 +183,15 @@ class Walker {
     return heading_here_;
   }
   // Walks on to distance u1 into the current segment.
+  // advance_to without the position: the elevation as it adds it, the heading left to
+  // heading_here (which advance_to's arcs set to the same heading(u1)).
+  void skip_to(double u1) {
+    assert(u1 >= u_);
+    z_ += rise(seg(), u_, u1);
+    if (u1 != u_) heading_known_ = false;
+    u_ = u1;
+  }
+
   void advance_to(double u1) {
     assert(u1 >= u_);
     const Segment& g = seg();
@@ -476,7 +492,13 @@ double DescribedBank::at(double s) const {
   return track_.segments[std::min(k, segment_end_m_.size() - 1)].signed_bank_rad();
 }
 
-Mesh build_mesh(const Track& track, double step_m, unsigned threads) {
+void require_positions(const Mesh& mesh, const char* reader) {
+  if (!mesh.has_positions())
+    throw std::logic_error(std::string(reader) +
+                           " reads the mesh's positions, and it was laid out without them");
+}
+
+Mesh build_mesh(const Track& track, double step_m, unsigned threads, MeshPositions positions) {
   require_valid(track.validate(), track.subject());
   require_valid(
       FirstViolation().range("step_m", step_m, Track::mesh_range, Quantity::length).result(),
@@ -501,11 +523,14 @@ Mesh build_mesh(const Track& track, double step_m, unsigned threads) {
                             [](const Segment& g) { return g.signed_bank_rad() != 0.0; });
   // A long mesh is laid out on two threads where there are two (the halves are the same either
   // way); its buffers are made ready on both.
-  if (threads == 0)
-    threads = n + 1 >= points_apart && usable_processors() >= 2 ? 2 : 1;
+  if (threads == 0) threads = n + 1 >= points_apart && usable_processors() >= 2 ? 2 : 1;
   const std::unique_ptr<SecondThread> second =
       threads >= 2 ? SecondThread::try_start() : nullptr;  // none to be had: one thread
-  resize_ready({&m.s_m, &m.x_m, &m.y_m, &m.heading_rad, &m.curvature_1pm}, n + 1, second.get());
+  const bool xy = positions == MeshPositions::laid_out;
+  const bool headings = xy || track.wind.has_value();
+  resize_ready({&m.s_m, &m.curvature_1pm}, n + 1, second.get());
+  if (xy) resize_ready({&m.x_m, &m.y_m}, n + 1, second.get());
+  if (headings) resize_ready({&m.heading_rad}, n + 1, second.get());
   if (graded) resize_ready({&m.grade, &m.elevation_m}, n + 1, second.get());
   if (bank) resize_ready({&m.bank_rad}, n + 1, second.get());
   m.trim_zone.assign(n + 1, 1);
@@ -522,8 +547,10 @@ Mesh build_mesh(const Track& track, double step_m, unsigned threads) {
       const double s = (i == n) ? length : static_cast<double>(i) * m.step_m;
       const Bracket b = walk.at(s);
       m.s_m[i] = s;
-      m.x_m[i] = at(p.x_m, b);
-      m.y_m[i] = at(p.y_m, b);
+      if (xy) {
+        m.x_m[i] = at(p.x_m, b);
+        m.y_m[i] = at(p.y_m, b);
+      }
       m.curvature_1pm[i] = at(p.curvature_1pm, b);
       m.grade[i] = at(p.grade, b);
       m.elevation_m[i] = at(p.elevation_m, b);
@@ -532,7 +559,7 @@ Mesh build_mesh(const Track& track, double step_m, unsigned threads) {
         m.width_right_m[i] = at(p.width_right_m, b);
       }
       if (i) heading += 0.5 * (m.curvature_1pm[i - 1] + m.curvature_1pm[i]) * m.step_m;
-      m.heading_rad[i] = heading;
+      if (headings) m.heading_rad[i] = heading;
     }
   }
   if (!lapped) {
@@ -546,11 +573,13 @@ Mesh build_mesh(const Track& track, double step_m, unsigned threads) {
       Walker w(track, starts);
       for (std::size_t i = lo; i < hi; ++i) {
         const double s = (i == n) ? length : static_cast<double>(i) * m.step_m;
-        const auto st = w.at(s);
+        const auto st = w.at(s, xy);
         m.s_m[i] = s;
-        m.x_m[i] = st.x;
-        m.y_m[i] = st.y;
-        m.heading_rad[i] = st.heading;
+        if (xy) {
+          m.x_m[i] = st.x;
+          m.y_m[i] = st.y;
+        }
+        if (headings) m.heading_rad[i] = st.heading;
         m.curvature_1pm[i] = st.curvature;
         if (graded) {
           m.elevation_m[i] = st.elevation;

@@ -575,6 +575,7 @@ std::string trace_data(const TrackView& v) {
 std::string map_plot(const TrackView& v) {
   const Lap& lap = v.pt.entries[v.pt.best].run.lap;
   const Mesh& mesh = v.c.mesh;
+  require_positions(mesh, "the report's map");
   Plot p("map-" + v.id,
          "Track map coloured by speed (" + shorten_middle(v.names[v.pt.best], 24) + ")", "x (m)",
          "y (m)", 640, 520);
@@ -797,9 +798,10 @@ std::string trade_plot(const Circuit& c, const TradeGrid& g, const Trade& t, con
             "</g>\n");
   p.add(marks);
   // The break-even line is drawn only where there is an exchange (Sensitivity).
-  const bool breakeven = std::any_of(t.sensitivities.begin(), t.sensitivities.end(), [&](const auto& s) {
-    return s.track == g.track && s.config == g.config && s.breakeven_dcda_per_dcla.has_value();
-  });
+  const bool breakeven =
+      std::any_of(t.sensitivities.begin(), t.sensitivities.end(), [&](const auto& s) {
+        return s.track == g.track && s.config == g.config && s.breakeven_dcda_per_dcla.has_value();
+      });
   if (breakeven)
     p.key({"break-even: " + car.configs[g.config].name,
            "<line x1=\"0\" y1=\"5\" x2=\"16\" y2=\"5\" class=\"breakeven\"/>"});
@@ -812,8 +814,7 @@ std::string trade_plot(const Circuit& c, const TradeGrid& g, const Trade& t, con
           " with its ClA and CdA moved over the map (light: faster; thin lines join "
           "equal lap times, labelled in s). Every config is marked at its operating point "
           "with its own lap time; the others differ from " +
-          car.configs[g.config].name +
-          " in more than ClA and CdA (balance, mass)." +
+          car.configs[g.config].name + " in more than ClA and CdA (balance, mass)." +
           (breakeven ? " The dashed line is the break-even through " + car.configs[g.config].name +
                            ": above it extra downforce costs more drag than it pays."
                      : " No break-even line: here downforce does not pay or drag does not cost."));

@@ -276,6 +276,7 @@ std::span<const TraceChannel> trace_channels() {
 }
 
 void trace_csv(const Lap& lap, const Mesh& mesh, const OutputSink& sink) {
+  require_positions(mesh, "a trace");
   CsvWriter<TraceRow> w(trace_columns);
   for (std::size_t i = 0; i < mesh.size(); ++i) {
     w.add({lap, mesh, i});

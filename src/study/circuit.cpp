@@ -26,8 +26,8 @@ std::optional<Violation> configs_violation(const Car& car,
   return f.result();
 }
 
-Circuit lay_out(const Track& track, const Air& air) {
-  Circuit c{track, build_mesh(track, track.mesh_m), air, {}};
+Circuit lay_out(const Track& track, const Air& air, MeshPositions positions) {
+  Circuit c{track, build_mesh(track, track.mesh_m, 0, positions), air, {}};
   c.corners = find_corners(c.mesh);
   return c;
 }

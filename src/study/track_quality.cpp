@@ -58,7 +58,7 @@ SmoothingVariants smoothing_variants(const Circuit& c) {
       Track t = c.track;
       t.profile = refit_centerline(*p, t.closed, f);
       if (t.line) lay_racing_line(t);
-      return lay_out(t, c.air);
+      return lay_out(t, c.air, MeshPositions::left_out);  // its lap time alone is read
     } catch (const InvalidInput& e) {
       v.notes.push_back(std::string("the centerline at ") + name + " strength (" +
                         fixed(p->smoothing_m * f, 1) + " m) cannot be laid out: " + e.message());

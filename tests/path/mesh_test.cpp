@@ -311,3 +311,60 @@ TEST_CASE(
   CHECK(track_warnings(stadium_profile(100.0, 100.0, 50.0)).empty());
   CHECK(track_warnings(stadium_profile(100.0, 98.0, 50.0)).empty());
 }
+
+TEST_CASE("a mesh laid out without positions is the same mesh for a lap, bit for bit") {
+  // MeshPositions::left_out skips the positions (an arc's sine and cosine, a clothoid's
+  // quadrature) and keeps everything a lap reads: what the solver and the summary see is the
+  // same bit for bit, so a study without a map or trace laps as it did (README, "Performance").
+  // Every bundled track (segments with clothoids, grades and banks, a surveyed centerline,
+  // trim zones, widths), and Cairnholt in a wind, whose head wind needs the headings.
+  std::vector<Track> tracks;
+  for (const char* file :
+       {"tracks/brannock-park.yaml", "tracks/brannock-park-survey.yaml", "tracks/cairnholt.yaml",
+        "tracks/saltmere-flats.yaml", "tracks/skidpad.yaml", "tracks/acceleration.yaml",
+        "tests/data/sprint-wiggle.yaml"})
+    tracks.push_back(load_track(test::source_path(file)));
+  Track windy = tracks[2];
+  windy.wind = Wind{6.0, 1.0};
+  for (std::size_t k = 0; k < windy.segments.size(); k += 3)
+    windy.segments[k].bank_rad = 5.0 * units::deg;  // banked here and there too
+  tracks.push_back(windy);
+  for (const Track& track : tracks) {
+    CAPTURE(track.name);
+    const bool wind = track.wind.has_value();
+    for (unsigned threads : {1u, 2u}) {
+      const Mesh full = build_mesh(track, track.mesh_m, threads);
+      const Mesh bare = build_mesh(track, track.mesh_m, threads, MeshPositions::left_out);
+      CHECK(full.has_positions());
+      CHECK_FALSE(bare.has_positions());
+      CHECK(bare.x_m.empty());
+      CHECK(bare.y_m.empty());
+      // Headings only where the wind needs them, and then the same.
+      CHECK(bare.heading_rad == (wind ? full.heading_rad : std::vector<double>{}));
+      CHECK(bare.closed == full.closed);
+      CHECK(bare.length_m == full.length_m);
+      CHECK(bare.step_m == full.step_m);
+      CHECK(bare.s_m == full.s_m);
+      CHECK(bare.curvature_1pm == full.curvature_1pm);
+      CHECK(bare.grade == full.grade);
+      CHECK(bare.elevation_m == full.elevation_m);
+      CHECK(bare.bank_rad == full.bank_rad);
+      CHECK(bare.head_wind_mps == full.head_wind_mps);
+      CHECK(bare.trim_zone == full.trim_zone);
+      CHECK(bare.width_left_m == full.width_left_m);
+      CHECK(bare.width_right_m == full.width_right_m);
+    }
+  }
+  // The cases the list is for are in it: a graded track, and one banked in a wind.
+  CHECK_FALSE(build_mesh(tracks[2], 1.0).grade.empty());
+  const Mesh banked = build_mesh(windy, 1.0, 1, MeshPositions::left_out);
+  CHECK_FALSE(banked.bank_rad.empty());
+  CHECK_FALSE(banked.head_wind_mps.empty());
+}
+
+TEST_CASE("what reads positions refuses a mesh laid out without them") {
+  const Track track = load_track(test::source_path("tracks/brannock-park.yaml"));
+  const Mesh bare = build_mesh(track, 1.0, 1, MeshPositions::left_out);
+  CHECK_THROWS_AS(require_positions(bare, "a trace"), std::logic_error);
+  CHECK_NOTHROW(require_positions(build_mesh(track, 1.0, 1), "a trace"));
+}

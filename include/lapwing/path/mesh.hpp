@@ -18,6 +18,8 @@ struct Mesh {
   bool closed = true;
   double length_m = 0.0;
   double step_m = 0.0;
+  // Positions and headings are laid out only where asked (MeshPositions): empty otherwise, and
+  // headings then laid out only where a wind needs them (has_positions).
   std::vector<double> s_m, x_m, y_m, heading_rad, curvature_1pm;
   // Grade: tan of the slope angle (the solver works its cos and sin where the grade changes);
   // empty where it is zero at every point, as on a level segment track (read it by grade_at).
@@ -38,6 +40,8 @@ struct Mesh {
   std::vector<double> width_left_m, width_right_m;
 
   std::size_t size() const { return s_m.size(); }
+  /// Whether x_m, y_m and heading_rad are laid out (MeshPositions::laid_out).
+  bool has_positions() const { return x_m.size() == s_m.size() && !s_m.empty(); }
   double grade_at(std::size_t i) const { return grade.empty() ? 0.0 : grade[i]; }
   double bank_at(std::size_t i) const { return bank_rad.empty() ? 0.0 : bank_rad[i]; }
   double elevation_at(std::size_t i) const { return elevation_m.empty() ? 0.0 : elevation_m[i]; }
@@ -103,7 +107,18 @@ std::vector<double> lapped_sectors_m(const Track& track);
 /// A track of segments is laid out in two halves of its points, on two threads where the mesh
 /// has 20 000 points or more and the machine two cores (`threads` 0), or as `threads` says (1
 /// or 2): the mesh is the same bit for bit either way.
-Mesh build_mesh(const Track& track, double step_m, unsigned threads = 0);
+/// `positions`: left_out lays out no positions (x_m, y_m empty) and no headings unless the
+/// track's wind needs them: what a lap's solve and summary read is the same bit for bit, at a
+/// fraction of the layout's work (an arc's point takes a sine and cosine, a clothoid's a
+/// quadrature). Maps, traces and racing lines need them laid out.
+enum class MeshPositions { laid_out, left_out };
+Mesh build_mesh(const Track& track, double step_m, unsigned threads = 0,
+                MeshPositions positions = MeshPositions::laid_out);
+
+/// Throws std::logic_error, naming `reader`, where `mesh` was laid out without positions
+/// (MeshPositions::left_out): a map, a trace or a line read them, and reading an empty array
+/// would be out of bounds. A caller's defect, not bad input.
+void require_positions(const Mesh& mesh, const char* reader);
 
 /// The number of points build_mesh lays `track` out on at `step_m`: n + 1 for n = the nearest
 /// whole number of steps in the length (at least 2). Known before the mesh is built, so that a

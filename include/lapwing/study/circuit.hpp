@@ -20,14 +20,17 @@ namespace lapwing {
 /// given twice (key path "configs").
 std::optional<Violation> configs_violation(const Car& car, const std::vector<std::size_t>& configs);
 
-/// A track laid out for study: its mesh, the air it is run in, its corners.
+/// A track laid out for study: its mesh, the air it is run in, its corners. Its mesh's
+/// positions as `positions` says (build_mesh): a study that writes no map, trace or line
+/// leaves them out.
 struct Circuit {
   Track track;
   Mesh mesh;
   Air air;
   std::vector<CornerSpan> corners;
 };
-Circuit lay_out(const Track& track, const Air& air);
+Circuit lay_out(const Track& track, const Air& air,
+                MeshPositions positions = MeshPositions::laid_out);
 
 /// One solved lap and what it comes to.
 struct LapRun {

@@ -27,8 +27,8 @@ struct MemoryPlan {
 /// counted member by member from the structures (path/mesh.hpp, solve/solver.hpp):
 /// - Mesh: s, x, y, heading, curvature, elevation, grade, bank, head wind (9 doubles) and the
 ///   trim-zone flag: the most it holds without widths (a flat track keeps no bank and no
-///   elevation, still air no head wind; the two edges' widths, where a track has them, are not
-///   counted);
+///   elevation, still air no head wind, a mesh laid out without positions no x, y or heading:
+///   MeshPositions; the two edges' widths, where a track has them, are not counted);
 /// - Lap with every channel: speed, time, two accelerations, engine speed, drag, downforce, two
 ///   axle loads, effective aero balance, two axle usages (12 doubles), gear (int), phase, trim
 ///   flag (the front share is worked from the axle loads where it is read);
