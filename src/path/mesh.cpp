@@ -182,7 +182,6 @@ class Walker {
     }
     return heading_here_;
   }
-  // Walks on to distance u1 into the current segment.
   // advance_to without the position: the elevation as it adds it, the heading left to
   // heading_here (which advance_to's arcs set to the same heading(u1)).
   void skip_to(double u1) {
@@ -192,6 +191,7 @@ class Walker {
     u_ = u1;
   }
 
+  // Walks on to distance u1 into the current segment.
   void advance_to(double u1) {
     assert(u1 >= u_);
     const Segment& g = seg();
