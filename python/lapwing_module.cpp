@@ -115,8 +115,8 @@ std::optional<std::vector<std::string>> optional_texts(const py::object& v,
 // numbers.Real or __float__ makes one; not bool, not str) as a double, NaN and infinities as
 // they are. An integer beyond a double's range is refused as too large, not cast into an error.
 double real_number(const py::handle& v, const std::string& what) {
-  const bool real = py::isinstance(v, py::module_::import("numbers").attr("Real")) ||
-                    py::hasattr(v, "__float__");
+  const bool real =
+      py::isinstance(v, py::module_::import("numbers").attr("Real")) || py::hasattr(v, "__float__");
   const std::string type = type_name(v);
   if (py::isinstance<py::bool_>(v) || type == "bool_" || py::isinstance<py::str>(v) ||
       py::isinstance<py::bytes>(v) || !real)
@@ -202,7 +202,7 @@ AirOverride parse_air(const std::optional<py::dict>& air) {
       if (name == c.name) key = &c;
     if (!key)
       throw BadArgument("air: unknown key '" + name +
-                            "' (keys: altitude, temperature, pressure, humidity)");
+                        "' (keys: altitude, temperature, pressure, humidity)");
     const std::string what = "air['" + name + "']";
     const std::string text = value_text(v, what);
     std::string error;
@@ -286,8 +286,7 @@ CarHandle read_car(const Document& doc) {
 // A path with a NUL character would be opened cut at it (the C library's end of a name): refused.
 void check_path(const std::string& path) {
   if (path.find('\0') != std::string::npos)
-    throw BadArgument("path '" + printable(path) +
-                      "': a file name cannot hold a NUL character");
+    throw BadArgument("path '" + printable(path) + "': a file name cannot hold a NUL character");
 }
 
 // A path as Python gives it: a str, bytes or any os.PathLike (pathlib.Path), as open() takes
@@ -361,6 +360,7 @@ PyLap run(const CarHandle& car_handle, const TrackHandle& track_handle,
   const Lap& lap = solved.run.lap;
   const Mesh& mesh = solved.circuit.mesh;
   const std::size_t n = mesh.size();
+  require_positions(mesh, "the trace's arrays");  // x_m and y_m among them
   for (const TraceChannel& c : trace_channels()) {
     const std::string name(c.name);
     if (c.kind == TraceChannel::Kind::phase) {
@@ -409,10 +409,9 @@ double fraction(const py::handle& v, const std::string& what, const Range& range
 }
 
 py::object trade(const CarHandle& car_handle, const std::vector<TrackHandle>& tracks,
-                 const py::object& config_arg, const py::object& step,
-                 const py::object& span, const py::object& grid,
-                 const py::object& model_arg, const std::optional<py::dict>& air_dict,
-                 const py::object& threads_arg) {
+                 const py::object& config_arg, const py::object& step, const py::object& span,
+                 const py::object& grid, const py::object& model_arg,
+                 const std::optional<py::dict>& air_dict, const py::object& threads_arg) {
   const std::optional<std::string> config = optional_text(config_arg, "config");
   const std::optional<std::string> model = optional_text(model_arg, "model");
   const unsigned threads = count_in(threads_arg, "threads", 0, 256);

@@ -10,6 +10,7 @@
 #include "lapwing/path/centerline.hpp"
 #include "lapwing/path/curvature_profile.hpp"
 #include "lapwing/path/mesh.hpp"
+#include "lapwing/path/racing_line.hpp"
 #include "test_support.hpp"
 
 using namespace lapwing;
@@ -329,6 +330,18 @@ TEST_CASE("a mesh laid out without positions is the same mesh for a lap, bit for
   for (std::size_t k = 0; k < windy.segments.size(); k += 3)
     windy.segments[k].bank_rad = 5.0 * units::deg;  // banked here and there too
   tracks.push_back(windy);
+  // The lapped forms read in a wind too: a fitted centerline (headings integrated from the
+  // curvature) and a racing line laid over a segment track (line_path, trim zones and bank read
+  // where the line passes).
+  Track survey_wind = tracks[1];
+  survey_wind.wind = Wind{5.0, 3.5};
+  tracks.push_back(survey_wind);
+  Track lined = tracks[0];
+  lined.wind = Wind{7.0, -2.0};
+  lined.line = LineSpec{};
+  lined.trim_zones = {TrimZone{10.0, 250.0}};
+  lay_racing_line(lined);
+  tracks.push_back(lined);
   for (const Track& track : tracks) {
     CAPTURE(track.name);
     const bool wind = track.wind.has_value();

@@ -18,8 +18,8 @@ struct Mesh {
   bool closed = true;
   double length_m = 0.0;
   double step_m = 0.0;
-  // Positions and headings are laid out only where asked (MeshPositions): empty otherwise, and
-  // headings then laid out only where a wind needs them (has_positions).
+  // Positions and headings are laid out only where asked (MeshPositions, has_positions):
+  // x_m and y_m empty otherwise, and heading_rad then laid out only where a wind needs it.
   std::vector<double> s_m, x_m, y_m, heading_rad, curvature_1pm;
   // Grade: tan of the slope angle (the solver works its cos and sin where the grade changes);
   // empty where it is zero at every point, as on a level segment track (read it by grade_at).
