@@ -219,11 +219,38 @@ bool feasible(const T& t, double a) {
 // itself where the term allows it (g(bound) >= 0: bound lies in [lower root, upper root]),
 // else the term's upper root found by newton_from, when that is below `bound`. nullopt where
 // neither holds: the caller takes the bracketing search.
+//
+// `below` (the axle's flag in AxleHints): the last such call on this axle gave its root, below
+// `bound` (a driven axle at its traction limit on a corner's exit, where the engine's bound
+// lies above). Then the root comes first: the test of `bound`, which would fail (its power
+// of the ellipse read for nothing: one evaluation in four there), is taken only where the root
+// lies above `bound` or within `bound_margin` under it, and the answer is the same, to the bit,
+// with the hint as the other order leaves it. With the feasible set an interval (g concave)
+// whose top r* lies within newton_from's 2e-10 m/s^2 step to the feasible side (and its
+// tolerance) above the root r it returns, g(bound) >= 0 with bound > r needs bound <= r*:
+// bound more than bound_margin above r is infeasible for sure.
+constexpr double bound_margin_mps2 = 1e-6;
 template <typename Phi>
-std::optional<double> lower_to(const Phi& phi, double& hint, double bound) {
+std::optional<double> lower_to(const Phi& phi, double& hint, double bound, bool* below = nullptr) {
+  if (below && *below && std::isfinite(bound)) {
+    const double before = hint;
+    const std::optional<double> r = newton_from(phi, hint);
+    if (r && *r <= bound - bound_margin_mps2) return r;
+    if (feasible(phi, bound)) {
+      hint = before;  // the other order never solves for the root
+      *below = false;
+      return bound;
+    }
+    if (r && *r <= bound) return r;
+    *below = false;
+    return std::nullopt;
+  }
   if (std::isfinite(bound) && feasible(phi, bound)) return bound;
   const std::optional<double> r = newton_from(phi, hint);
-  if (r && *r <= bound) return r;
+  if (r && *r <= bound) {
+    if (below) *below = true;
+    return r;
+  }
   return std::nullopt;
 }
 
@@ -372,15 +399,15 @@ double axle_drive_accel(const Envelope& env, double u, double k, const Road& roa
     std::optional<double> r;
     switch (car.powertrain.driven) {
       case DrivenAxle::rear:
-        r = lower_to(rear, h.rear, bound);
+        r = lower_to(rear, h.rear, bound, &h.rear_below);
         break;
       case DrivenAxle::front:
-        r = lower_to(front, h.front, bound);
+        r = lower_to(front, h.front, bound, &h.front_below);
         break;
       case DrivenAxle::all: {
-        const std::optional<double> rf = lower_to(front, h.front, bound);
+        const std::optional<double> rf = lower_to(front, h.front, bound, &h.front_below);
         if (rf) {
-          r = lower_to(rear, h.rear, *rf);
+          r = lower_to(rear, h.rear, *rf, &h.rear_below);
           if (r && *r != *rf && !feasible(front, *r)) r.reset();
         }
         break;

@@ -440,3 +440,51 @@ TEST_CASE(
   CHECK(std::max(a.front_usage, a.rear_usage) <= 1.0 + 1e-9);
   CHECK(a.rear_usage >= 1.0 - 1e-6);  // the rear sets it
 }
+
+TEST_CASE("a drive solve gives the same answer and hints whichever limit it tries first") {
+  // axle_drive_accel tries a driven axle's own root before the engine's (or the front's) bound
+  // where the last call on that axle found the root below it (AxleHints' front_below and
+  // rear_below), and the bound first otherwise (axle.cpp, lower_to). The order is a matter of
+  // speed only: the answer and the hints left for the next call must be the same to the bit
+  // (==, no tolerance) as with the bound always tried first (the flags cleared before each
+  // call), where the guess holds and where it fails. A sweep's sequences of calls (speed up
+  // and down through traction-, engine- and front-limited ones) on a level road and on curves,
+  // for the bundled cars (rear-driven, exponents 2 and 2.2) and front- and all-wheel-drive
+  // variants.
+  std::vector<Car> cars{load_car(test::source_path("cars/pellion-fr2.yaml")),
+                        load_car(test::source_path("cars/caldra-gt.yaml")),
+                        load_car(test::source_path("tests/data/caldra-gt-exponent-2.2.yaml"))};
+  for (const DrivenAxle d : {DrivenAxle::front, DrivenAxle::all}) {
+    Car c = cars[2];
+    c.powertrain.driven = d;
+    cars.push_back(c);
+  }
+  for (const Car& car : cars) {
+    const Envelope env(car.configured(0), make_air(AirSpec{}));
+    AxleHints guessed, plain;
+    int root_first = 0, bound = 0;
+    for (const double k : {0.0, 0.004, 0.012, 0.03})
+      for (int j = 0; j <= 160; ++j) {
+        // Up from 5 m/s to 85 m/s and back down, in steps of 1 m/s.
+        const double v = 5.0 + (j <= 80 ? j : 160 - j);
+        const double u = v * v;
+        if (axle_steady_excess(env, v, k, Road{}) > 0.0) continue;  // beyond the steady limit
+        const double drive_n = env.rows(false).at(u).drive_n;
+        const bool guess = guessed.front_below || guessed.rear_below;
+        plain.front_below = plain.rear_below = false;
+        const double a = axle_drive_accel(env, u, k, Road{}, drive_n, false, &guessed);
+        const double b = axle_drive_accel(env, u, k, Road{}, drive_n, false, &plain);
+        CAPTURE(car.name);
+        CAPTURE(v);
+        CAPTURE(k);
+        CHECK(a == b);
+        CHECK(guessed.front == plain.front);
+        CHECK(guessed.rear == plain.rear);
+        root_first += guess;
+        bound += !guess;
+      }
+    CAPTURE(car.name);
+    CHECK(root_first > 0);  // both orders were taken
+    CHECK(bound > 0);
+  }
+}

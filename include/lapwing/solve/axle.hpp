@@ -52,6 +52,8 @@ bool axle_surely_within(const Envelope& env, const AxleLoads& loads, double fx_n
 struct AxleHints {
   double front = 0.0, rear = 0.0;  // m/s^2; 0: none yet
   bool rear_binds = false;         // braking: the rear axle set the last answer
+  // Drive: the axle's own limit set the last answer, below the engine's (or the front's) bound.
+  bool front_below = false, rear_below = false;
 };
 double axle_drive_accel(const Envelope& env, double u, double abs_curvature, const Road& road,
                         double drive_n, bool trimmed, AxleHints* hints = nullptr);
