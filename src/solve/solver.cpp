@@ -633,6 +633,70 @@ class Sweeper {
     return f;
   }
 
+  // The axle model's hints (AxleHints: each axle's last root, where its next Newton solve
+  // starts) at the exponential step's two readings. A sweep's readings on a corner's entry or
+  // exit move from step to step and between a step's two readings by more than the solve
+  // takes in one evaluation (0.3 to 1 m/s^2 on Brannock Park's entries, where the ellipse is
+  // nearly full and the Newton iteration converges slowly), so the hints are moved first:
+  //  - the first reading (at the step's start) from the axle's roots at the first readings of
+  //    the last three steps, where those were exponential steps in a row that solved that axle,
+  //    extrapolated by the quadratic through them (the linear one from two);
+  //  - the second (the secant's, du further on in u at the same point) from the first's root
+  //    along the slope d(2a)/du the last two steps' secants extrapolate to.
+  // Only where they stay above 0 (a warm start needs a positive hint). An axle that a reading
+  // did not solve (its bound held, a table or the memo answered) keeps its hint as it was
+  // before the move and starts its trail again. A hint changes where the solve starts, not
+  // the root it converges to (to its 1e-9 m/s^2 tolerance): lap times move by 1e-12 relative
+  // at most over the bundled laps (tools/lap-times), and the evaluations of the ellipse a lap
+  // takes fall by a fifth (README, "Performance").
+  [[gnu::always_inline]] void predict_hints() const {
+    const bool in_row = trail_at_ == i_;
+    double* const hint[2] = {&hints_.front, &hints_.rear};
+    for (int q = 0; q < 2; ++q) {
+      Trail& t = trail_[q];
+      if (!in_row) t.n = 0;
+      moved_[q] = before_[q] = *hint[q];
+      if (t.n < 2) continue;
+      const double a = t.n >= 3 ? 3.0 * (t.a[0] - t.a[1]) + t.a[2] : 2.0 * t.a[0] - t.a[1];
+      if (a > 0.0) *hint[q] = moved_[q] = a;
+    }
+  }
+  [[gnu::always_inline]] void note_first_reading() {
+    double* const hint[2] = {&hints_.front, &hints_.rear};
+    for (int q = 0; q < 2; ++q) {
+      Trail& t = trail_[q];
+      if (*hint[q] == moved_[q]) {  // not solved
+        *hint[q] = before_[q];
+        t.n = 0;
+        continue;
+      }
+      t.a[2] = t.a[1];
+      t.a[1] = t.a[0];
+      t.a[0] = *hint[q];
+      t.n = std::min(t.n + 1, 3);
+    }
+    trail_at_ = j_;
+  }
+  [[gnu::always_inline]] void nudge_hints(double du) const {
+    double* const hint[2] = {&hints_.front, &hints_.rear};
+    const bool slope = slope_at_ == i_ && slopes_ > 0;
+    const double shift =
+        slope ? 0.5 * (slopes_ >= 2 ? 2.0 * slope_[0] - slope_[1] : slope_[0]) * du : 0.0;
+    for (int q = 0; q < 2; ++q) {
+      moved_[q] = before_[q] = *hint[q];
+      if (slope && *hint[q] + shift > 0.0) *hint[q] = moved_[q] = *hint[q] + shift;
+    }
+  }
+  [[gnu::always_inline]] void note_second_reading(double j) {
+    double* const hint[2] = {&hints_.front, &hints_.rear};
+    for (int q = 0; q < 2; ++q)
+      if (*hint[q] == moved_[q]) *hint[q] = before_[q];  // not solved
+    slopes_ = slope_at_ == i_ ? std::min(slopes_ + 1, 2) : 1;
+    slope_[1] = slope_[0];
+    slope_[0] = j;
+    slope_at_ = j_;
+  }
+
   /// The road at point i (RoadReader; on a Level mesh its level road).
   [[gnu::always_inline]] Road road_at(std::size_t i) {
     if constexpr (Level)
@@ -736,6 +800,19 @@ class Sweeper {
     bool valid = false;
   };
   Held held_;
+  // The hints' moves (predict_hints and nudge_hints): each axle's roots at the first readings
+  // of the steps in a row that solved it (latest first; n of them hold), the point the last
+  // such step ended at, the last two secants, and each axle's hint before a move and after it.
+  struct Trail {
+    double a[3] = {0.0, 0.0, 0.0};
+    int n = 0;
+  };
+  mutable std::array<Trail, 2> trail_{};
+  std::size_t trail_at_ = std::numeric_limits<std::size_t>::max();
+  std::array<double, 2> slope_{};
+  int slopes_ = 0;
+  std::size_t slope_at_ = std::numeric_limits<std::size_t>::max();
+  mutable std::array<double, 2> before_{}, moved_{};
   Road memo_road_{std::numeric_limits<double>::quiet_NaN(), 0.0, 0.0, 0.0, 0.0};
   bool memo_trimmed_ = false, memo_straight_ = false;
 };
@@ -884,7 +961,9 @@ template <class Sw, std::size_t N>
   std::array<bool, N> clipped;
   for (std::size_t c = 0; c < N; ++c) {
     um[c] = std::min(u0[c], s[c]->cap(xm));
+    s[c]->predict_hints();
     fm[c] = s[c]->rhs(um[c], xm);
+    s[c]->note_first_reading();
     clipped[c] = fm[c] > 0.0 && u0[c] >= s[c]->cap(h);
     const double d =
         std::max(secant_reach * h * std::abs(fm[c]), slope_spread * std::max(um[c], 1.0));
@@ -899,7 +978,9 @@ template <class Sw, std::size_t N>
       u1[c] = u0[c] + h * fm[c];
       continue;
     }
+    s[c]->nudge_hints(ud[c] - um[c]);
     const double j = (fm[c] - s[c]->rhs(ud[c], xm)) * inv_du[c];
+    s[c]->note_second_reading(j);
     u1[c] = u0[c] + h * phi1(h * j) * (fm[c] + j * (u0[c] - um[c]));
   }
   return u1;
@@ -1048,6 +1129,11 @@ struct FreeLane {
   InverseMass inv;
   mutable AxleHints hints;
   double cap(double) const { return std::numeric_limits<double>::infinity(); }
+  // The sweeps' moves of the hints (Sweeper::predict_hints) are not the tables': none here.
+  void predict_hints() const {}
+  void note_first_reading() const {}
+  void nudge_hints(double) const {}
+  void note_second_reading(double) const {}
   double rhs(double u, double) const {
     const double u0 = std::max(u, 0.0);
     const Road level{};
