@@ -138,6 +138,12 @@ LevelTables build_level_tables(const Envelope& env) {
                                  : 0.5 * (a[i] + a[i + 1]);
         return lateral((static_cast<double>(i) + 0.5) * t.lateral_du, guess);
       });
+  t.lateral_falls = true;
+  for (std::size_t i = 1; i < lc && t.lateral_falls; ++i) {
+    const double here = a[i] / (static_cast<double>(i) * t.lateral_du);
+    const double next = a[i + 1] / (static_cast<double>(i + 1) * t.lateral_du);
+    t.lateral_falls = here > 0.0 && next <= here * (1.0 - 1e-12);
+  }
   return t;
 }
 
@@ -156,7 +162,7 @@ std::size_t StepTableCache::kept() {
   return kept_.size();
 }
 
-bool LevelTables::steady_grip_speed(double k, double& v) const {
+bool LevelTables::steady_grip_speed(double k, double& v, std::size_t* cell) const {
   if (!(k > 0.0) || lateral_nodes.empty()) return false;
   const std::size_t n = lateral_nodes.size() - 1;
   auto holds = [&](std::size_t i) {  // A(u_i) >= k u_i
@@ -165,10 +171,32 @@ bool LevelTables::steady_grip_speed(double k, double& v) const {
   // The limit is the top speed, or below the first node: the search's.
   if (holds(n) || !holds(1)) return false;
   std::size_t lo = 1, hi = n;  // holds(lo), !holds(hi)
+  // Where the nodes fall (lateral_falls) the node sought is the single one with holds(lo) and
+  // !holds(lo + 1): any bracket of it narrows to it. The last call's node and its neighbours
+  // first.
+  if (cell && lateral_falls && *cell >= 1 && *cell < n) {
+    const std::size_t c = *cell;
+    if (holds(c)) {
+      lo = c;
+      if (!holds(c + 1))
+        hi = c + 1;
+      else if (c + 2 <= n) {
+        lo = c + 1;
+        if (!holds(c + 2)) hi = c + 2;
+      }
+    } else {
+      hi = c;  // c >= 2: holds(1)
+      if (holds(c - 1))
+        lo = c - 1;
+      else
+        hi = c - 1;
+    }
+  }
   while (hi - lo > 1) {
     const std::size_t mid = (lo + hi) / 2;
     (holds(mid) ? lo : hi) = mid;
   }
+  if (cell) *cell = lo;
   const std::array<double, 4>* c = lateral_limit.cubic(lo);
   if (!c) return false;
   // g(t) = A(t) - k u(t) over the cell, g(0) >= 0 > g(1): Newton, kept inside the bracket.

@@ -131,10 +131,17 @@ struct LevelTables {
   CellCubics lateral_limit;
   std::vector<double> lateral_nodes;  // A(u) at the nodes, u = i lateral_du
   double lateral_du = 0.0;
+  /// Whether A(u_i) / u_i falls from node to node (by more than rounding: 1e-12 of itself) over
+  /// nodes 1 to the last, so that at any |kappa| the nodes where A(u) >= |kappa| u are the
+  /// ones up to a single last node: then that node can be looked for from a guess and is the
+  /// one the bisection finds (the bundled cars: the grip grows slower than u).
+  bool lateral_falls = false;
   /// The grip limit at |kappa| into `v`; false where the table does not settle it: a straight,
   /// a limit at the top speed or below the first node's, or in a cell without a cubic (the
-  /// caller searches).
-  bool steady_grip_speed(double abs_curvature, double& v) const;
+  /// caller searches). `cell` (optional): the last call's node, where the search looks first
+  /// when the nodes fall (lateral_falls: the same node, to the bit, as without it; a mesh's
+  /// clothoid asks curvature after curvature within a node or two); set to this call's.
+  bool steady_grip_speed(double abs_curvature, double& v, std::size_t* cell = nullptr) const;
 
   /// The step tables by step length (built by the sweeps, solve/solver.cpp).
   std::shared_ptr<StepTableCache> steps = std::make_shared<StepTableCache>();
