@@ -341,7 +341,6 @@ void steady_points_as(const Envelope& env, const Mesh& mesh, SteadyProfile& p, s
   SteadyLimit lift_axle = SteadyLimit::grip;  // grip: no axle lifts below the tables' top
   double prev_curv = 0.0, prev_grip = 0.0;    // the point before the last whose grip was solved
   bool have_two = false;
-  std::size_t grip_cell = 0;  // LevelTables::steady_grip_speed's last node (0: none yet)
   RoadReader road_at(mesh);
   for (std::size_t i = lo; i < hi; ++i) {
     // A point in the same state as the one before it (the same signed curvature, road and trim
@@ -395,6 +394,13 @@ void steady_points_as(const Envelope& env, const Mesh& mesh, SteadyProfile& p, s
       // Tyres (grip_excess). On a level road in still air the axle model's Envelope has the
       // grip limit in a table (LevelTables::steady_grip_speed).
       double v_table = 0.0;
+      // The table's search starts at the guess's node (nodes lateral_du apart in u = v^2; a
+      // guess beyond the last node, none).
+      std::size_t grip_cell = 0;
+      const double u_guess = hint * hint;
+      if (tables && hint > 0.0 &&
+          u_guess < static_cast<double>(tables->lateral_nodes.size()) * tables->lateral_du)
+        grip_cell = static_cast<std::size_t>(u_guess / tables->lateral_du);
       if (tables && level_in_still_air(road) &&
           tables->steady_grip_speed(curv, v_table, &grip_cell))
         v_grip = v_table;

@@ -138,9 +138,9 @@ struct LevelTables {
   bool lateral_falls = false;
   /// The grip limit at |kappa| into `v`; false where the table does not settle it: a straight,
   /// a limit at the top speed or below the first node's, or in a cell without a cubic (the
-  /// caller searches). `cell` (optional): the last call's node, where the search looks first
-  /// when the nodes fall (lateral_falls: the same node, to the bit, as without it; a mesh's
-  /// clothoid asks curvature after curvature within a node or two); set to this call's.
+  /// caller searches). `cell` (optional): a node to look at first (with its neighbours) when
+  /// the nodes fall (lateral_falls: the same node, to the bit, as without it), the steady
+  /// limits' guess's (extrapolated along a clothoid: within a node or two); set to this call's.
   bool steady_grip_speed(double abs_curvature, double& v, std::size_t* cell = nullptr) const;
 
   /// The step tables by step length (built by the sweeps, solve/solver.cpp).
