@@ -341,6 +341,8 @@ void steady_points_as(const Envelope& env, const Mesh& mesh, SteadyProfile& p, s
   SteadyLimit lift_axle = SteadyLimit::grip;  // grip: no axle lifts below the tables' top
   double prev_curv = 0.0, prev_grip = 0.0;    // the point before the last whose grip was solved
   bool have_two = false;
+  double speed = 0.0;                     // the last point's limit (p.speed_mps[i - 1])
+  SteadyLimit limit = SteadyLimit::grip;  // and its kind (p.limit[i - 1])
   RoadReader road_at(mesh);
   for (std::size_t i = lo; i < hi; ++i) {
     // A point in the same state as the one before it (the same signed curvature, road and trim
@@ -351,8 +353,9 @@ void steady_points_as(const Envelope& env, const Mesh& mesh, SteadyProfile& p, s
          (mesh.grade_at(i) == mesh.grade_at(i - 1) && mesh.bank_at(i) == mesh.bank_at(i - 1) &&
           mesh.head_wind_at(i) == mesh.head_wind_at(i - 1))) &&
         mesh.trim_zone[i] == mesh.trim_zone[i - 1]) {
-      p.speed_mps[i] = p.speed_mps[i - 1];
-      p.limit[i] = p.limit[i - 1];
+      // From registers: a copy from the point before would wait on that point's store.
+      p.speed_mps[i] = speed;
+      p.limit[i] = limit;
       continue;
     }
     const double curv = std::abs(mesh.curvature_1pm[i]);
@@ -424,6 +427,8 @@ void steady_points_as(const Envelope& env, const Mesh& mesh, SteadyProfile& p, s
       p.speed_mps[i] = v_lift;
       p.limit[i] = lift_axle;
     }
+    speed = p.speed_mps[i];
+    limit = p.limit[i];
     if (!(p.speed_mps[i] > 0.0))
       throw CannotMove("the car cannot hold any speed at " + where(mesh, i) + " (" +
                        (p.limit[i] == SteadyLimit::engine
