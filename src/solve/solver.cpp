@@ -503,8 +503,7 @@ class Sweeper {
         steps_(steps),
         reach_base_(steps ? ds_ * steps->slope_bound : 0.0),
         i_(start),
-        v_(v_start),
-        u_(v_start * v_start) {
+        v_(v_start) {
     resize_ready(r_.speed_mps, n_);  // every point is written on the way
     r_.speed_mps[start] = v_;
     if (forward_) {
@@ -524,6 +523,14 @@ class Sweeper {
     return forward_ ? n_ - 1 - i_ : i_;
   }
 
+  /// u = v^2 at the start. From there the caller carries u from step to step (end_step
+  /// returns it; table_step, held_step and begin_step take it): the step's own u where the
+  /// limit did not clip it (not sqrt(u)^2: the square root is then off the chain of dependent
+  /// arithmetic from step to step, which sets a sweep's pace), the limit's square where it
+  /// did. In a local of the loop it stays in a register, where a member of the Sweeper (whose
+  /// address the axle model's hints take out of line) went through memory at every step.
+  double start_u() const { return v_ * v_; }
+
   /// The next point along the sweep; a closed mesh wraps through its seam (point n-1 == 0).
   std::size_t next(std::size_t i) const {
     if (forward_) return (i + 1 == period_ && mesh_.closed) ? 0 : i + 1;
@@ -535,7 +542,7 @@ class Sweeper {
   /// and the limit further above the start than the step reads the model (so that the step is
   /// the one the tables hold, unlimited), in a cell with a cubic. Then u at the next point goes
   /// into `u1` (for end_step) and true; otherwise the step is the integrator's (begin_step).
-  [[gnu::always_inline]] bool table_step(double& u1) {
+  [[gnu::always_inline]] bool table_step(double u0, double& u1) {
     if (!steps_) return false;
     const std::size_t i = i_, j = next(i);
     if (mesh_.curvature_1pm[i] != 0.0 || mesh_.curvature_1pm[j] != 0.0) return false;
@@ -546,7 +553,6 @@ class Sweeper {
       if (cut_left_s_ > 0.0) return false;
       table = env_.trims(0.0) && mesh_.trim_zone[i] ? &steps_->drive_trimmed : &steps_->drive;
     }
-    const double u0 = u_;
     // The step reads the model at u0 and at most this far from it (exponential_step's secant).
     const double reach = reach_base_ + slope_spread * std::max(u0, 1.0);
     if (!(u0 >= reach && u0 + reach <= std::min(limit_[i] * limit_[i], limit_[j] * limit_[j])))
@@ -563,13 +569,12 @@ class Sweeper {
   /// decelerates by more than `held_margin`, the step's reading is positive, and the step ends
   /// on the limit whatever its size (end_step clips it there). Then `u1` (at or above the limit,
   /// for end_step) and true; otherwise the step is the integrator's.
-  [[gnu::always_inline]] bool held_step(double& u1) {
+  [[gnu::always_inline]] bool held_step(double u0, double& u1) {
     if (forward_) return false;
     const std::size_t i = i_, j = next(i);
     // As begin_step and exponential_step work the limit over the step, to the same rounding.
     const double ulim0 = limit_[i] * limit_[i];
     const double dulim = (limit_[j] * limit_[j] - ulim0) / ds_;
-    const double u0 = u_;
     if (!(u0 >= ulim0 + dulim * ds_)) return false;
     const double xm = 0.5 * ds_;
     const double um = std::min(u0, ulim0 + dulim * xm);
@@ -590,7 +595,7 @@ class Sweeper {
   }
 
   /// Prepares the step from the current point to the next; returns u = v^2 there.
-  [[gnu::always_inline]] double begin_step() {
+  [[gnu::always_inline]] double begin_step(double u0) {
     const std::size_t i = i_;
     j_ = next(i);
     // Curvature varies linearly over the step; the grade is that of the step's first point in
@@ -624,7 +629,7 @@ class Sweeper {
       memo_trimmed_ = trimmed_;
       memo_straight_ = straight_;
     }
-    return u_;
+    return u0;
   }
 
   /// d(v^2)/dx = 2 a at u = v^2, a distance x (0 .. ds) into the step, along the sweep's own
@@ -724,7 +729,7 @@ class Sweeper {
   bool uniform() const { return dk_ == 0.0 && dulim_ == 0.0; }
 
   /// Takes the integrated u at the next point: clips it to the limit and moves there.
-  [[gnu::always_inline]] void end_step(double u) {
+  [[gnu::always_inline]] double end_step(double u) {
     const std::size_t j = j_;
     if (!(u > 0.0))
       throw CannotMove("the car stops at " + where(mesh_, j) +
@@ -755,8 +760,8 @@ class Sweeper {
     }
     r_.speed_mps[j] = v_next;
     v_ = v_next;
-    u_ = clipped ? v_next * v_next : u;
     i_ = j;
+    return clipped ? v_next * v_next : u;
   }
 
   void finish() {
@@ -784,10 +789,6 @@ class Sweeper {
   const double reach_base_;        // table_step's reach without its floor
   std::size_t i_;
   double v_;
-  // u = v^2 at the current point: the step's own u where the limit did not clip it (not
-  // sqrt(u)^2: the square root is then off the chain of dependent arithmetic from step to step,
-  // which sets a sweep's pace), the limit's square where it did.
-  double u_;
   // The step in progress.
   std::size_t j_ = 0;
   double k0_ = 0.0, dk_ = 0.0, drive_share_ = 1.0;
@@ -1019,9 +1020,9 @@ template <Integrator I, class Sw, std::size_t N>
 // A step the exponential step's sweeps take without it: from the step tables, or held on the
 // limit (RK4 takes every step itself).
 template <Integrator I, class Sw>
-[[gnu::always_inline]] inline bool quick_step(Sw& s, double& u1, bool quick) {
+[[gnu::always_inline]] inline bool quick_step(Sw& s, double u0, double& u1, bool quick) {
   if constexpr (I == Integrator::exponential)
-    return quick && (s.table_step(u1) || s.held_step(u1));
+    return quick && (s.table_step(u0, u1) || s.held_step(u0, u1));
   else
     return false;
 }
@@ -1036,11 +1037,12 @@ void sweep_into_as(const Envelope& env, const Mesh& mesh, Sweep direction,
   at = -1;
   Sw s(env, mesh, direction, limit, start, v_start, r, steps);
   const double h = mesh.step_m;
+  double u = s.start_u();
   for (std::size_t k = 0, n = s.steps(); k < n; ++k) {
     at = static_cast<std::ptrdiff_t>(k);
     double u1 = 0.0;
-    if (!quick_step<I>(s, u1, quick)) u1 = step<I, Sw, 1>({&s}, {s.begin_step()}, h)[0];
-    s.end_step(u1);
+    if (!quick_step<I>(s, u, u1, quick)) u1 = step<I, Sw, 1>({&s}, {s.begin_step(u)}, h)[0];
+    u = s.end_step(u1);
   }
   s.finish();
 }
@@ -1076,20 +1078,22 @@ void sweep_both_as(const Envelope& env, const Mesh& mesh, const std::vector<doub
   assert(f.steps() == b.steps());
   const std::array<Sw*, 2> both{&f, &b};
   const double h = mesh.step_m;
+  double u_f = f.start_u(), u_b = b.start_u();
   for (std::size_t k = 0, n = f.steps(); k < n; ++k) {
     double uf = 0.0, ub = 0.0;
-    const bool tf = quick_step<I>(f, uf, quick), tb = quick_step<I>(b, ub, quick);
+    const bool tf = quick_step<I>(f, u_f, uf, quick), tb = quick_step<I>(b, u_b, ub, quick);
     if (!tf && !tb) {
-      const std::array<double, 2> u1 = step<I, Sw, 2>(both, {f.begin_step(), b.begin_step()}, h);
+      const std::array<double, 2> u1 =
+          step<I, Sw, 2>(both, {f.begin_step(u_f), b.begin_step(u_b)}, h);
       uf = u1[0];
       ub = u1[1];
     } else if (!tf) {
-      uf = step<I, Sw, 1>({&f}, {f.begin_step()}, h)[0];
+      uf = step<I, Sw, 1>({&f}, {f.begin_step(u_f)}, h)[0];
     } else if (!tb) {
-      ub = step<I, Sw, 1>({&b}, {b.begin_step()}, h)[0];
+      ub = step<I, Sw, 1>({&b}, {b.begin_step(u_b)}, h)[0];
     }
-    f.end_step(uf);
-    b.end_step(ub);
+    u_f = f.end_step(uf);
+    u_b = b.end_step(ub);
   }
   f.finish();
   b.finish();
