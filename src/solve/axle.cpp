@@ -228,14 +228,22 @@ bool feasible(const T& t, double a) {
 // with the hint as the other order leaves it. With the feasible set an interval (g concave)
 // whose top r* lies within newton_from's 2e-10 m/s^2 step to the feasible side (and its
 // tolerance) above the root r it returns, g(bound) >= 0 with bound > r needs bound <= r*:
-// bound more than bound_margin above r is infeasible for sure.
+// bound more than bound_margin above r is infeasible for sure. g is not concave everywhere
+// (where an inner tyre lifts, at the mu floor, and where the axle has nothing left and phi is
+// flat at -R / m), and a warm start from well above the root can settle on that flat part's
+// root, a = -R / m < 0 (found in review: invented cars with a 1 m centre of gravity); a root
+// below 0 is never taken first, so the bound-first order decides there as well.
 constexpr double bound_margin_mps2 = 1e-6;
 template <typename Phi>
 std::optional<double> lower_to(const Phi& phi, double& hint, double bound, bool* below = nullptr) {
   if (below && *below && std::isfinite(bound)) {
     const double before = hint;
     const std::optional<double> r = newton_from(phi, hint);
-    if (r && *r <= bound - bound_margin_mps2) return r;
+    // Only a root at or above 0 is the upper root of the interval that holds 0 (newton_upper_root
+    // never goes below 0): the warm start can also settle on a root where the axle has nothing
+    // left (phi = -R / m, a = -R / m < 0: a saturated axle's flat phi, g not concave there), with
+    // a feasible bound above it, which the bound-first order returns.
+    if (r && *r >= 0.0 && *r <= bound - bound_margin_mps2) return r;
     if (feasible(phi, bound)) {
       hint = before;  // the other order never solves for the root
       *below = false;

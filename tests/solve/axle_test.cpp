@@ -450,7 +450,8 @@ TEST_CASE("a drive solve gives the same answer and hints whichever limit it trie
   // call), where the guess holds and where it fails. A sweep's sequences of calls (speed up
   // and down through traction-, engine- and front-limited ones) on a level road and on curves,
   // for the bundled cars (rear-driven, exponents 2 and 2.2) and front- and all-wheel-drive
-  // variants.
+  // variants; from the hints the calls leave, and from hints 30 % above the root with the
+  // bound just above it.
   std::vector<Car> cars{load_car(test::source_path("cars/pellion-fr2.yaml")),
                         load_car(test::source_path("cars/caldra-gt.yaml")),
                         load_car(test::source_path("tests/data/caldra-gt-exponent-2.2.yaml"))};
@@ -459,11 +460,26 @@ TEST_CASE("a drive solve gives the same answer and hints whichever limit it trie
     c.powertrain.driven = d;
     cars.push_back(c);
   }
+  // Found in review: invented cars with a tall centre of gravity (1 m), where a warm start from
+  // well above the root can settle where the driven axle has nothing left (phi flat at -R / m,
+  // a = -R / m < 0) while the bound above is feasible: the bound-first order answers the bound.
+  {
+    Car tall = cars[0];  // the Pellion, cg 0.29 m
+    tall.cg_height_m = 1.0;
+    cars.push_back(tall);
+    Car awd = cars[1];  // the Caldra GT
+    awd.cg_height_m = 1.0;
+    awd.powertrain.driven = DrivenAxle::all;
+    awd.tyres.load_sensitivity = 0.35;
+    awd.tyres.ellipse_exponent = 3.0;
+    if (awd.roll) awd.roll->roll_centre_front_m = awd.roll->roll_centre_rear_m = 0.0;
+    cars.push_back(awd);
+  }
   for (const Car& car : cars) {
     const Envelope env(car.configured(0), make_air(AirSpec{}));
     AxleHints guessed, plain;
     int root_first = 0, bound = 0;
-    for (const double k : {0.0, 0.004, 0.012, 0.03})
+    for (const double k : {0.0, 0.002, 0.004, 0.012, 0.03})
       for (int j = 0; j <= 160; ++j) {
         // Up from 5 m/s to 85 m/s and back down, in steps of 1 m/s.
         const double v = 5.0 + (j <= 80 ? j : 160 - j);
@@ -482,6 +498,29 @@ TEST_CASE("a drive solve gives the same answer and hints whichever limit it trie
         CHECK(guessed.rear == plain.rear);
         root_first += guess;
         bound += !guess;
+        // The same from hints 30 % above the traction limit's root, with the engine's bound
+        // just under that root (1e-5 m/s^2) and just above it (1e-3), on the level and up an
+        // 8 % grade: the root first against the bound first.
+        for (const double grade : {0.0, 0.08}) {
+          Road road;
+          road.sin_slope = grade;
+          road.cos_slope = std::sqrt(1.0 - grade * grade);
+          const double root = axle_drive_accel(env, u, k, road, 1e9, false, nullptr);
+          const double resistance = env.road_forces(env.rows(false), u, k, road).resistance_n;
+          for (const double off : {-1e-5, 1e-3}) {
+            const double near_root_n = resistance + (root + off) * env.effective_mass_kg();
+            AxleHints far_guessed, far_plain;
+            far_guessed.front = far_guessed.rear = far_plain.front = far_plain.rear = 1.3 * root;
+            far_guessed.front_below = far_guessed.rear_below = true;
+            const double c = axle_drive_accel(env, u, k, road, near_root_n, false, &far_guessed);
+            const double d = axle_drive_accel(env, u, k, road, near_root_n, false, &far_plain);
+            CAPTURE(grade);
+            CAPTURE(off);
+            CHECK(c == d);
+            CHECK(far_guessed.front == far_plain.front);
+            CHECK(far_guessed.rear == far_plain.rear);
+          }
+        }
       }
     CAPTURE(car.name);
     CHECK(root_first > 0);  // both orders were taken
