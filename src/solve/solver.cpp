@@ -657,16 +657,21 @@ class Sweeper {
   // takes in one evaluation (0.3 to 1 m/s^2 on Brannock Park's entries, where the ellipse is
   // nearly full and the Newton iteration converges slowly), so the hints are moved first:
   //  - the first reading (at the step's start) from the axle's roots at the first readings of
-  //    the last three steps, where those were exponential steps in a row that solved that axle,
-  //    extrapolated by the quadratic through them (the linear one from two);
+  //    the last two steps, where those were exponential steps in a row that solved that axle,
+  //    extrapolated by the line through them;
   //  - the second (the secant's, du further on in u at the same point) from the first's root
   //    along the slope d(2a)/du the last two steps' secants extrapolate to.
   // Only where they stay above 0 (a warm start needs a positive hint). An axle that a reading
   // did not solve (its bound held, a table or the memo answered) keeps its hint as it was
-  // before the move and starts its trail again. A hint changes where the solve starts, not
-  // the root it converges to (to its 1e-9 m/s^2 tolerance): lap times move by 1e-12 relative
-  // at most over the bundled laps (tools/lap-times), and the evaluations of the ellipse a lap
-  // takes fall by a fifth (README, "Performance").
+  // before the move and starts its trail again. Where g = phi(a) - a is concave (axle.cpp) a
+  // hint changes where the solve starts, not the root it converges to (to its 1e-9 m/s^2
+  // tolerance): lap times move by 3e-12 relative at most over the bundled laps
+  // (tools/lap-times) and 174 laps of invented cars at the edges of the inputs, and the
+  // evaluations of the ellipse a lap takes fall by a fifth (README, "Performance"). Where g is
+  // not concave (an inner tyre lifts, mu reaches its floor) it can have more than one root,
+  // and the one a warm start settles on depends on the start, moved or not: the quadratic
+  // through three roots, tried first, overshot into such a place on an invented car with a 1 m
+  // centre of gravity and moved its lap by 5.6e-6 (found in review), the line does not.
   [[gnu::always_inline]] void predict_hints() const {
     const bool in_row = trail_at_ == i_;
     double* const hint[2] = {&hints_.front, &hints_.rear};
@@ -675,7 +680,7 @@ class Sweeper {
       if (!in_row) t.n = 0;
       moved_[q] = before_[q] = *hint[q];
       if (t.n < 2) continue;
-      const double a = t.n >= 3 ? 3.0 * (t.a[0] - t.a[1]) + t.a[2] : 2.0 * t.a[0] - t.a[1];
+      const double a = 2.0 * t.a[0] - t.a[1];
       if (a > 0.0) *hint[q] = moved_[q] = a;
     }
   }
@@ -688,10 +693,9 @@ class Sweeper {
         t.n = 0;
         continue;
       }
-      t.a[2] = t.a[1];
       t.a[1] = t.a[0];
       t.a[0] = *hint[q];
-      t.n = std::min(t.n + 1, 3);
+      t.n = std::min(t.n + 1, 2);
     }
     trail_at_ = j_;
   }
@@ -818,7 +822,7 @@ class Sweeper {
   // of the steps in a row that solved it (latest first; n of them hold), the point the last
   // such step ended at, the last two secants, and each axle's hint before a move and after it.
   struct Trail {
-    double a[3] = {0.0, 0.0, 0.0};
+    double a[2] = {0.0, 0.0};
     int n = 0;
   };
   mutable std::array<Trail, 2> trail_{};
