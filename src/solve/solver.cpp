@@ -1423,7 +1423,15 @@ void LapSolver::speed_pass(const Envelope& env, const Mesh& mesh, double start_s
   // time_s[i - 1] + the step's), and the stretch held on a lift limit, where there is one to
   // hold (a point held there is on a lift limit; without one the stretch is none, as the loop
   // would find).
-  for (std::size_t i = first_end + 1; i < n; ++i) lap.time_s[i] = lap.time_s[i - 1] + lap.time_s[i];
+  // The sum carried in a register: read back from time_s[i - 1], each addition waited on the
+  // store before it.
+  if (first_end + 1 < n) {
+    double t = lap.time_s[first_end];
+    for (std::size_t i = first_end + 1; i < n; ++i) {
+      t = t + lap.time_s[i];
+      lap.time_s[i] = t;
+    }
+  }
   lap.lift_hold = {};
   bool held_before = false;
   for (std::size_t i = 0; i < n && (lift_limited[0] || lift_limited[1]); ++i) {
