@@ -172,8 +172,8 @@ bool LevelTables::steady_grip_speed(double k, double& v, std::size_t* cell) cons
   if (holds(n) || !holds(1)) return false;
   std::size_t lo = 1, hi = n;  // holds(lo), !holds(hi)
   // Where the nodes fall (lateral_falls) the node sought is the single one with holds(lo) and
-  // !holds(lo + 1): any bracket of it narrows to it. The last call's node and its neighbours
-  // first.
+  // !holds(lo + 1): any bracket of it narrows to it. The node given (the caller's guess) and
+  // its neighbours first.
   if (cell && lateral_falls && *cell >= 1 && *cell < n) {
     const std::size_t c = *cell;
     if (holds(c)) {

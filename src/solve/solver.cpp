@@ -672,51 +672,60 @@ class Sweeper {
   // and the one a warm start settles on depends on the start, moved or not: the quadratic
   // through three roots, tried first, overshot into such a place on an invented car with a 1 m
   // centre of gravity and moved its lap by 5.6e-6 (found in review), the line does not.
-  [[gnu::always_inline]] void predict_hints() const {
+  // (The point mass reads no hints: the moves are the axle model's alone.)
+  [[gnu::always_inline]] void predict_hints() {
+    if constexpr (!Axle) return;
     const bool in_row = trail_at_ == i_;
-    double* const hint[2] = {&hints_.front, &hints_.rear};
     for (int q = 0; q < 2; ++q) {
       Trail& t = trail_[q];
       if (!in_row) t.n = 0;
-      moved_[q] = before_[q] = *hint[q];
-      if (t.n < 2) continue;
-      const double a = 2.0 * t.a[0] - t.a[1];
-      if (a > 0.0) *hint[q] = moved_[q] = a;
+      move_hint(q, t.n >= 2 ? 2.0 * t.a[0] - t.a[1] : 0.0);
     }
   }
   [[gnu::always_inline]] void note_first_reading() {
-    double* const hint[2] = {&hints_.front, &hints_.rear};
+    if constexpr (!Axle) return;
     for (int q = 0; q < 2; ++q) {
       Trail& t = trail_[q];
-      if (*hint[q] == moved_[q]) {  // not solved
-        *hint[q] = before_[q];
+      if (!solved(q)) {
         t.n = 0;
         continue;
       }
       t.a[1] = t.a[0];
-      t.a[0] = *hint[q];
+      t.a[0] = hint(q);
       t.n = std::min(t.n + 1, 2);
     }
     trail_at_ = j_;
   }
-  [[gnu::always_inline]] void nudge_hints(double du) const {
-    double* const hint[2] = {&hints_.front, &hints_.rear};
+  [[gnu::always_inline]] void nudge_hints(double du) {
+    if constexpr (!Axle) return;
     const bool slope = slope_at_ == i_ && slopes_ > 0;
     const double shift =
         slope ? 0.5 * (slopes_ >= 2 ? 2.0 * slope_[0] - slope_[1] : slope_[0]) * du : 0.0;
-    for (int q = 0; q < 2; ++q) {
-      moved_[q] = before_[q] = *hint[q];
-      if (slope && *hint[q] + shift > 0.0) *hint[q] = moved_[q] = *hint[q] + shift;
-    }
+    for (int q = 0; q < 2; ++q) move_hint(q, slope ? hint(q) + shift : 0.0);
   }
   [[gnu::always_inline]] void note_second_reading(double j) {
-    double* const hint[2] = {&hints_.front, &hints_.rear};
-    for (int q = 0; q < 2; ++q)
-      if (*hint[q] == moved_[q]) *hint[q] = before_[q];  // not solved
+    if constexpr (!Axle) return;
+    for (int q = 0; q < 2; ++q) solved(q);
     slopes_ = slope_at_ == i_ ? std::min(slopes_ + 1, 2) : 1;
     slope_[1] = slope_[0];
     slope_[0] = j;
     slope_at_ = j_;
+  }
+  // Axle q's hint (0 front, 1 rear).
+  double& hint(int q) { return q == 0 ? hints_.front : hints_.rear; }
+  // Moves axle q's hint to `to` where that is above 0, keeping it as it was for solved().
+  void move_hint(int q, double to) {
+    double& h = hint(q);
+    before_[q] = moved_[q] = h;
+    if (to > 0.0) h = moved_[q] = to;
+  }
+  // Whether the reading since move_hint solved axle q (its hint is no longer the moved one);
+  // where it did not, the hint goes back to what it was.
+  bool solved(int q) {
+    double& h = hint(q);
+    if (h != moved_[q]) return true;
+    h = before_[q];
+    return false;
   }
 
   /// The road at point i (RoadReader; on a Level mesh its level road).
@@ -825,12 +834,12 @@ class Sweeper {
     double a[2] = {0.0, 0.0};
     int n = 0;
   };
-  mutable std::array<Trail, 2> trail_{};
+  std::array<Trail, 2> trail_{};
   std::size_t trail_at_ = std::numeric_limits<std::size_t>::max();
   std::array<double, 2> slope_{};
   int slopes_ = 0;
   std::size_t slope_at_ = std::numeric_limits<std::size_t>::max();
-  mutable std::array<double, 2> before_{}, moved_{};
+  std::array<double, 2> before_{}, moved_{};
   Road memo_road_{std::numeric_limits<double>::quiet_NaN(), 0.0, 0.0, 0.0, 0.0};
   bool memo_trimmed_ = false, memo_straight_ = false;
 };
