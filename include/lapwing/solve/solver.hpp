@@ -133,6 +133,20 @@ SweepResult sweep(const Envelope& env, const Mesh& mesh, Sweep direction,
                   const std::vector<double>& limit, std::size_t start, double v_start,
                   Integrator integrator = default_integrator);
 
+/// Where the forward sweep of a closed lap from its start i0 (the slowest steady point) splits
+/// in two: the steps of its first part, or the period (mesh.size() - 1: every step) for none.
+/// The second part starts afresh at the point those steps reach, on its limit there, and is
+/// taken where the first part arrives on its limit with no drive cut (else the first part goes
+/// on): the same speeds to the axle model's tolerance, from a start that needs nothing of the
+/// first part, so that on two threads it runs beside the backward sweep (LapSolver). The point
+/// is the slowest steady point 80 to 90 % of the way round to which the limit falls from the
+/// point before (a corner's apex, or the first point of its arc), where the first part likely
+/// arrives held on its limit. Open meshes, meshes of under 2 000 points and laps with no such
+/// point keep the sweep whole. It depends on the mesh and the limits alone, never on threads.
+/// Throws std::invalid_argument where `steady` is not one value a point, std::out_of_range
+/// where i0 is not a point of a closed mesh's period.
+std::size_t forward_split(const Mesh& mesh, const std::vector<double>& steady, std::size_t i0);
+
 /// The exponential step on a level straight in still air with no limit near: u = v^2 a step h
 /// on from u0, forward under full drive (on the straight-line trim's rows where `trimmed`) or
 /// backward under braking, as the sweeps take it there. What the step tables hold.
@@ -270,6 +284,8 @@ class LapSolver {
   // or a sweep's half-written ones) where the mesh's size happens to match.
   bool speed_solved_ = false;
   SweepResult forward_, backward_;
+  // A closed lap's forward sweep's second part, where it splits (solver.cpp, forward_split).
+  SweepResult forward_part_;
   /// The double channels' storage while a speed solve leaves the lap without them
   /// (solve_speed): the next channels pass takes it back where it holds the mesh's points (and
   /// frees it where not), so that it overwrites the values instead of zero-filling a fresh
