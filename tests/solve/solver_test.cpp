@@ -873,6 +873,103 @@ TEST_CASE("where both sweeps or both halves stop, two threads report the error o
   CHECK(a == b);
 }
 
+namespace {
+// A closed rounded rectangle (invented, built here): the lap's slowest corner (radius 10 m,
+// where the lap starts: forward_split's i0), long sides of 220 m, short ones of 120, the last
+// corner (radius 11 m), a straight of `before_chicane_m`, a chicane of three arcs of radius 60 m
+// (0.3, -0.6 and 0.3 rad: no net turn), and the straight that closes the lap. The chicane's
+// first point is the lap's only steady point 80 to 90 % of the way round to which the limit
+// falls from the point before; after a short straight the car reaches it below its limit.
+Track chicane_loop(double before_chicane_m) {
+  const double quarter = units::pi / 2, r = 60.0, a = 0.3;
+  // The chicane's advance and offset, heading along x (closed forms of the arcs).
+  double x = 0.0, y = 0.0, heading = 0.0;
+  for (const auto& [k, length] :
+       {std::pair{1.0 / r, r * a}, std::pair{-1.0 / r, 2 * r * a}, std::pair{1.0 / r, r * a}}) {
+    const double turn = k * length;
+    x += (std::sin(heading + turn) - std::sin(heading)) / k;
+    y += (std::cos(heading) - std::cos(heading + turn)) / k;
+    heading += turn;
+  }
+  Track t = test::circle_track(10.0, 0.25);
+  t.name = t.id = "chicane loop";
+  // Closure: x 10 - 30 - 120 - 30 + 11 + before + x + last = 0; y 10 + 220 + 30 - 30 - side - 11
+  // + y = 0 (the corners' radii as they turn the heading a quarter each).
+  t.segments = {test::arc(10.0, quarter, true), test::straight(220.0),
+                test::arc(30.0, quarter, true), test::straight(120.0),
+                test::arc(30.0, quarter, true), test::straight(219.0 + y),
+                test::arc(11.0, quarter, true), test::straight(before_chicane_m),
+                test::arc(r, a, true),          test::arc(r, 2 * a, false),
+                test::arc(r, a, true),          test::straight(159.0 - x - before_chicane_m)};
+  return t;
+}
+}  // namespace
+
+TEST_CASE("a closed lap's forward sweep in two parts is the whole sweep to the model's tolerance") {
+  // forward_split (solver.hpp): the second part starts afresh on the limit at the split point
+  // and is taken where the whole sweep arrives there on its limit with no cut; else the sweep
+  // goes on whole. Against the whole sweeps (`sweep`, no step tables, as LapSolver without its
+  // quick steps): where the part is not taken the lap is min(forward, backward) bit for bit;
+  // where it is, the same to 1e-9 relative (the axle model's solves stop within 1e-9 m/s^2 of
+  // their root, and the fresh start's solves start elsewhere; measured 1e-14). On one thread or
+  // two, the same lap bit for bit. A short straight before the chicane leaves the car below
+  // its limit there (not taken), a long one brings it onto it (taken).
+  int taken = 0, whole = 0;
+  for (const double before_chicane : {10.0, 60.0}) {
+    const Track t = chicane_loop(before_chicane);
+    const Mesh mesh = build_mesh(t, t.mesh_m);
+    REQUIRE(mesh.size() >= 2000);
+    const std::size_t period = mesh.size() - 1;
+    for (const char* file : {"cars/caldra-gt.yaml", "cars/pellion-fr2.yaml"}) {
+      for (const VehicleModel model : {VehicleModel::axle, VehicleModel::point_mass}) {
+        Car car = load_car(test::source_path(file)).configured(0).car();
+        car.model = model;
+        INFO(file << " model " << static_cast<int>(model) << " straight " << before_chicane);
+        const Envelope env(test::configured(car), make_air(t.air));
+        const std::vector<double> steady = steady_profile(env, mesh).speed_mps;
+        const std::size_t i0 = static_cast<std::size_t>(
+            std::min_element(steady.begin(), steady.begin() + static_cast<std::ptrdiff_t>(period)) -
+            steady.begin());
+        const std::size_t split = forward_split(mesh, steady, i0);
+        const std::size_t j = (i0 + split) % period;
+        // The rule: 80 to 90 % of the way round, the limit falling to it from the point before.
+        REQUIRE(split >= period * 8 / 10);
+        REQUIRE(split < period * 9 / 10);
+        CHECK(steady[j] < steady[j - 1]);
+        const SweepResult forward = sweep(env, mesh, Sweep::forward, steady, i0, steady[i0]);
+        const SweepResult backward = sweep(env, mesh, Sweep::backward, steady, i0, steady[i0]);
+        REQUIRE(forward.speed_mps[i0] == steady[i0]);  // comes round on the limit: no second run
+        const bool on_limit = forward.speed_mps[j] == steady[j] && forward.cut[j] == 0;
+        (on_limit ? taken : whole) += 1;
+        LapSolver one(default_integrator, false), two(default_integrator, false);
+        two.set_threads(2);
+        const Lap& lap = one.solve_speed(env, mesh);
+        check_same_lap(lap, two.solve_speed(env, mesh));
+        double worst = 0.0;
+        for (std::size_t i = 0; i < mesh.size(); ++i) {
+          const double v = std::min(forward.speed_mps[i], backward.speed_mps[i]);
+          if (on_limit)
+            worst = std::max(worst, std::abs(lap.speed_mps[i] - v) / v);
+          else if (lap.speed_mps[i] != v)
+            worst = 1.0;
+        }
+        CHECK(worst <= 1e-9);
+      }
+    }
+  }
+  CHECK(taken == 4);  // the long straight, every car and model
+  CHECK(whole == 4);  // the short one
+  // Open meshes, meshes under 2 000 points and limits of the wrong size.
+  const Track open = test::straight_track(1500.0, 0.5, 0.0);
+  const Mesh straight = build_mesh(open, 0.5);
+  CHECK(forward_split(straight, std::vector<double>(straight.size(), 30.0), 0) ==
+        straight.size() - 1);
+  const Mesh small = build_mesh(test::circle_track(50.0, 0.5), 0.5);
+  REQUIRE(small.size() < 2000);
+  CHECK(forward_split(small, std::vector<double>(small.size(), 20.0), 0) == small.size() - 1);
+  CHECK_THROWS_AS(forward_split(small, std::vector<double>(3, 20.0), 0), std::invalid_argument);
+}
+
 TEST_CASE(
     "a point held on its steady limit at the speed of both its neighbours does not accelerate") {
   // Speed unchanged from the point before to the point after: dv/dt = 0, no longitudinal load
