@@ -970,6 +970,81 @@ TEST_CASE("a closed lap's forward sweep in two parts is the whole sweep to the m
   CHECK_THROWS_AS(forward_split(small, std::vector<double>(3, 20.0), 0), std::invalid_argument);
 }
 
+TEST_CASE("where a closed lap's forward sweep stops in its second part, both threads say so") {
+  // join_parts: of the forward sweep, its second part's error where that was taken; of it and
+  // the backward sweep's, the lower step's along each sweep. A closed rounded rectangle
+  // (invented, built here) for the test car of the test above (grip 0.3, a first gear that
+  // tops out at some 3 m/s, 2 s shift cuts): a 2.5 m hairpin at the lap's slowest, long sides
+  // of 300 m, a 3 m corner 86 % of the way round (the split), then a climb of grade 0.25 in which
+  // the upshift's cut stops the car (the second part); and a descent of -0.5 where braking
+  // cannot hold the car (the backward sweep stops), early in the lap (late in the backward
+  // sweep: the forward sweep's error first) or late (the backward's first).
+  int forward_first = 0, backward_first = 0;
+  for (const bool descent_early : {true, false}) {
+    const double quarter = units::pi / 2;
+    Track t = test::circle_track(10.0, 0.25);
+    t.name = t.id = "climb loop";
+    // The descent (60 m at -0.5, into an S-bend of 3.2 m radius, 0.5 rad each way, where the
+    // backward sweep's speed is low) and a gentle climb (171 m at 0.1) on the long sides, the one
+    // or the other first; with the climb after the split they close the lap's elevation. The
+    // S-bend moves the line across by 0.8 m, within the closure's tolerance.
+    const double bend = 2 * 3.2 * std::sin(0.5);  // its advance
+    const std::vector<Segment> descent{test::straight(20.0), test::straight(60.0, -0.5),
+                                       test::arc(3.2, 0.5, true), test::arc(3.2, 0.5, false),
+                                       test::straight(220.0 - bend)},
+        climb{test::straight(171.0, 0.1), test::straight(129.0)};
+    std::vector<Segment> north = descent_early ? descent : climb;
+    std::vector<Segment> south = descent_early ? climb : descent;
+    south.back().length_m -= 0.5;
+    // Closure: x 2.5 - 30 - 60 - 30 + 3 + 114.5 = 0; y 2.5 + 300 + 30 - 30 - 299.5 - 3 = 0.
+    t.segments = {test::arc(2.5, quarter, true)};
+    t.segments.insert(t.segments.end(), north.begin(), north.end());
+    t.segments.insert(t.segments.end(), {test::arc(30.0, quarter, true), test::straight(60.0),
+                                         test::arc(30.0, quarter, true)});
+    t.segments.insert(t.segments.end(), south.begin(), south.end());
+    t.segments.insert(t.segments.end(), {test::arc(3.0, quarter, true), test::straight(40.0, 0.25),
+                                         test::straight(74.5)});
+    Car car = test::constant_force_car(800.0, 4000.0, 0.3);
+    car.configs[0].cla_m2 = {5.0};
+    car.powertrain.engine_radps = {1000 * units::rpm, 6000 * units::rpm};
+    car.powertrain.rev_limit_radps = 6000 * units::rpm;
+    car.powertrain.gears = {20.0, 1.0};
+    car.powertrain.shift_time_s = 2.0;
+    const Mesh mesh = build_mesh(t, t.mesh_m);
+    REQUIRE(mesh.size() >= 2000);
+    const std::size_t period = mesh.size() - 1;
+    const Envelope env(test::configured(car), make_air(t.air));
+    const std::vector<double> steady = steady_profile(env, mesh).speed_mps;
+    const std::size_t i0 = static_cast<std::size_t>(
+        std::min_element(steady.begin(), steady.begin() + static_cast<std::ptrdiff_t>(period)) -
+        steady.begin());
+    const std::size_t split = forward_split(mesh, steady, i0), j = (i0 + split) % period;
+    INFO("descent early " << descent_early << " i0 " << i0 << " split " << split << " of "
+                          << period);
+    REQUIRE(split < period);
+    // Each whole sweep stops; the forward one after the split, which it reaches on its limit.
+    const std::string forward =
+        cannot_move_error([&] { sweep(env, mesh, Sweep::forward, steady, i0, steady[i0]); });
+    const std::string backward =
+        cannot_move_error([&] { sweep(env, mesh, Sweep::backward, steady, i0, steady[i0]); });
+    REQUIRE(!forward.empty());
+    REQUIRE(!backward.empty());
+    // The forward sweep stops past the split point (in the climb after it).
+    const std::size_t at = forward.find("stops at ");
+    REQUIRE(at != std::string::npos);
+    CHECK(std::stod(forward.substr(at + 9)) > mesh.s_m[j]);
+    LapSolver one, two;
+    two.set_threads(2);
+    const std::string a = cannot_move_error([&] { one.solve(env, mesh); }),
+                      b = cannot_move_error([&] { two.solve(env, mesh); });
+    CHECK(a == b);
+    forward_first += a == forward;
+    backward_first += a == backward;
+  }
+  CHECK(forward_first == 1);
+  CHECK(backward_first == 1);
+}
+
 TEST_CASE(
     "a point held on its steady limit at the speed of both its neighbours does not accelerate") {
   // Speed unchanged from the point before to the point after: dv/dt = 0, no longitudinal load
