@@ -1196,6 +1196,25 @@ std::size_t split_point(const Mesh& mesh, std::size_t f0, std::size_t split) {
   return (f0 + split) % (mesh.size() - 1);
 }
 
+// The forward sweep's second part (steps `split` to `n`), afresh on the limit at its start, its
+// Sweeper made in `s`, writing into `part`.
+template <class Sw>
+Lane<Sw> second_part(std::optional<Sw>& s, const Envelope& env, const Mesh& mesh,
+                     const std::vector<double>& limit, std::size_t f0, std::size_t split,
+                     std::size_t n, SweepResult& part, const StepTables* steps) {
+  const std::size_t j = split_point(mesh, f0, split);
+  s.emplace(env, mesh, Sweep::forward, limit, j, limit[j], part, steps);
+  return Lane<Sw>(*s, split, n, n);
+}
+
+// Two parts in lockstep, then each alone to its end (or its hand-over's test).
+template <Integrator I, class Sw>
+void both_then_alone(Lane<Sw>& a, Lane<Sw>& b, double h, bool quick) {
+  lockstep<I>(a, b, h, quick);
+  alone<I>(a, h, quick);
+  alone<I>(b, h, quick);
+}
+
 // After the parts: the second part's points (after its start, the last the lap's start again)
 // taken into the forward sweep's result where it was taken, the seam written again
 // (Sweeper::finish), and the error the lockstep of the whole sweeps would have met first
@@ -1238,14 +1257,10 @@ void sweep_both_as(const Envelope& env, const Mesh& mesh, const std::vector<doub
   std::optional<Sw> second;
   lockstep<I>(f1, lb, h, quick);
   if (f1.taken && !f1.error) {
-    const std::size_t j = split_point(mesh, f0, split);
-    second.emplace(env, mesh, Sweep::forward, limit, j, limit[j], part, steps);
-    f2 = Lane<Sw>(*second, split, n, n);
-    lockstep<I>(f2, lb, h, quick);
-    alone<I>(f2, h, quick);
+    f2 = second_part(second, env, mesh, limit, f0, split, n, part, steps);
+    both_then_alone<I>(f2, lb, h, quick);
   }
-  alone<I>(f1, h, quick);
-  alone<I>(lb, h, quick);
+  both_then_alone<I>(f1, lb, h, quick);
   f.finish();
   b.finish();
   join_parts(mesh, f0, f1, f2, lb, fwd, part);
@@ -1288,14 +1303,8 @@ void sweep_apart_as(const Envelope& env, const Mesh& mesh, const std::vector<dou
       const std::size_t n = b.steps();
       std::optional<Sw> s2;
       Lane<Sw> back(b, 0, n, n), fore;
-      if (split < n) {
-        const std::size_t j = split_point(mesh, f0, split);
-        s2.emplace(env, mesh, Sweep::forward, limit, j, limit[j], part, steps);
-        fore = Lane<Sw>(*s2, split, n, n);
-      }
-      lockstep<I>(fore, back, h, quick);
-      alone<I>(fore, h, quick);
-      alone<I>(back, h, quick);
+      if (split < n) fore = second_part(s2, env, mesh, limit, f0, split, n, part, steps);
+      both_then_alone<I>(fore, back, h, quick);
       b.finish();
       f2 = fore;
       lb = back;

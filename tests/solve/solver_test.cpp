@@ -808,6 +808,21 @@ TEST_CASE("a lap on two threads is the lap on one, bit for bit, and fails the sa
   CHECK(one_error == two_error);
 }
 
+namespace {
+// The test car with grip 0.3, a little downforce, a first gear that tops out at some 3 m/s and
+// 2 s shift cuts: an upshift on a climb stops it, and braking cannot hold it on a grade of -0.5
+// at low speed (scenarios from a second reader's review; invented data).
+Car stalling_car() {
+  Car car = test::constant_force_car(800.0, 4000.0, 0.3);
+  car.configs[0].cla_m2 = {5.0};
+  car.powertrain.engine_radps = {1000 * units::rpm, 6000 * units::rpm};
+  car.powertrain.rev_limit_radps = 6000 * units::rpm;
+  car.powertrain.gears = {20.0, 1.0};
+  car.powertrain.shift_time_s = 2.0;
+  return car;
+}
+}  // namespace
+
 TEST_CASE("where both sweeps or both halves stop, two threads report the error one thread does") {
   // On one thread the sweeps advance in lockstep and stop at the first step that throws (the
   // forward sweep's first at the same step); on two each runs to its own end and the lower step
@@ -822,12 +837,7 @@ TEST_CASE("where both sweeps or both halves stop, two threads report the error o
       Track t = test::straight_track(1500.0, 0.5, 0.0);
       t.segments = {test::straight(200.0, up), test::straight(300.0), test::straight(600.0, -0.5),
                     test::arc(20.0, angle, true)};
-      Car car = test::constant_force_car(800.0, 4000.0, 0.3);
-      car.configs[0].cla_m2 = {5.0};
-      car.powertrain.engine_radps = {1000 * units::rpm, 6000 * units::rpm};
-      car.powertrain.rev_limit_radps = 6000 * units::rpm;
-      car.powertrain.gears = {20.0, 1.0};
-      car.powertrain.shift_time_s = 2.0;
+      const Car car = stalling_car();
       const Circuit c = lay_out(t, make_air(t.air));
       REQUIRE(c.mesh.size() >= 2000);
       const Envelope env(test::configured(car), c.air);
@@ -973,8 +983,7 @@ TEST_CASE("a closed lap's forward sweep in two parts is the whole sweep to the m
 TEST_CASE("where a closed lap's forward sweep stops in its second part, both threads say so") {
   // join_parts: of the forward sweep, its second part's error where that was taken; of it and
   // the backward sweep's, the lower step's along each sweep. A closed rounded rectangle
-  // (invented, built here) for the test car of the test above (grip 0.3, a first gear that
-  // tops out at some 3 m/s, 2 s shift cuts): a 2.5 m hairpin at the lap's slowest, long sides
+  // (invented, built here) for stalling_car: a 2.5 m hairpin at the lap's slowest, long sides
   // of 300 m, a 3 m corner 86 % of the way round (the split), then a climb of grade 0.25 in which
   // the upshift's cut stops the car (the second part); and a descent of -0.5 where braking
   // cannot hold the car (the backward sweep stops), early in the lap (late in the backward
@@ -1004,12 +1013,7 @@ TEST_CASE("where a closed lap's forward sweep stops in its second part, both thr
     t.segments.insert(t.segments.end(), south.begin(), south.end());
     t.segments.insert(t.segments.end(), {test::arc(3.0, quarter, true), test::straight(40.0, 0.25),
                                          test::straight(74.5)});
-    Car car = test::constant_force_car(800.0, 4000.0, 0.3);
-    car.configs[0].cla_m2 = {5.0};
-    car.powertrain.engine_radps = {1000 * units::rpm, 6000 * units::rpm};
-    car.powertrain.rev_limit_radps = 6000 * units::rpm;
-    car.powertrain.gears = {20.0, 1.0};
-    car.powertrain.shift_time_s = 2.0;
+    const Car car = stalling_car();
     const Mesh mesh = build_mesh(t, t.mesh_m);
     REQUIRE(mesh.size() >= 2000);
     const std::size_t period = mesh.size() - 1;
