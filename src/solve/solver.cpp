@@ -778,13 +778,13 @@ class Sweeper {
     return clipped ? v_next * v_next : u;
   }
 
-  /// Whether the sweep stands on its limit at the current point with no drive cut running or
-  /// counted there: the state a sweep started afresh at that point on its limit begins in (the
-  /// speed, the gear the limit's speed engages, no cut), but for the axle model's hints and the
-  /// memos, which move where a solve starts, not its answer beyond its tolerance.
-  bool on_limit_afresh() const {
-    return v_ == limit_[i_] && cut_left_s_ == 0.0 && (!forward_ || r_.cut[i_] == 0);
-  }
+  /// Whether the sweep stands on its limit at the current point with no drive cut left to run:
+  /// the state a sweep started afresh at that point on its limit begins in (the speed, the gear
+  /// the limit's speed engages: end_step engages it where it clips; no cut), but for the axle
+  /// model's hints and the memos, which move where a solve starts, not its answer beyond its
+  /// tolerance. (The point's own cut flag, from the step that reached it, stays the first
+  /// part's: nothing after it reads it.)
+  bool on_limit_afresh() const { return v_ == limit_[i_] && cut_left_s_ == 0.0; }
 
   void finish() {
     if (mesh_.closed) {
@@ -1121,6 +1121,13 @@ struct Lane {
   }
   // Steps it takes before its hand-over's test or its end (once ready).
   std::size_t run() const { return (k < split ? std::min(split, end) : end) - k; }
+  // What the part leaves (its steps, hand-over and error), without its Sweeper, which does not
+  // outlive it.
+  Lane outcome() const {
+    Lane l = *this;
+    l.s = nullptr;
+    return l;
+  }
   // Ends a step at u1 (the integrator's u at its end), catching what Sweeper::end_step throws
   // (where u1 stops the car): the part then stops with its error, the step in `at`.
   void end_step(double u1) {
@@ -1197,13 +1204,23 @@ std::size_t split_point(const Mesh& mesh, std::size_t f0, std::size_t split) {
 }
 
 // The forward sweep's second part (steps `split` to `n`), afresh on the limit at its start, its
-// Sweeper made in `s`, writing into `part`.
+// Sweeper made in `s`, writing into `part`. A Sweeper that cannot be made (its buffers) is the
+// part's error, at the step before its first, as a step's would be: reported only where the part
+// is taken (join_parts), on one thread or two.
 template <class Sw>
 Lane<Sw> second_part(std::optional<Sw>& s, const Envelope& env, const Mesh& mesh,
                      const std::vector<double>& limit, std::size_t f0, std::size_t split,
                      std::size_t n, SweepResult& part, const StepTables* steps) {
   const std::size_t j = split_point(mesh, f0, split);
-  s.emplace(env, mesh, Sweep::forward, limit, j, limit[j], part, steps);
+  try {
+    s.emplace(env, mesh, Sweep::forward, limit, j, limit[j], part, steps);
+  } catch (...) {
+    Lane<Sw> failed;
+    failed.k = failed.end = failed.split = split;
+    failed.at = static_cast<std::ptrdiff_t>(split) - 1;
+    failed.error = std::current_exception();
+    return failed;
+  }
   return Lane<Sw>(*s, split, n, n);
 }
 
@@ -1296,7 +1313,7 @@ void sweep_apart_as(const Envelope& env, const Mesh& mesh, const std::vector<dou
   // side by side on one line, written every step by the two processors, made both sweeps some
   // 15 % slower in the processes whose stack put them there; README, "Performance").
   Lane<Sw> f1, f2, lb;
-  std::exception_ptr failed;  // a Sweeper that could not be made (its buffers)
+  std::exception_ptr failed;  // the backward sweep's Sweeper could not be made (its buffers)
   second.start([&] {
     try {
       Sw b(env, mesh, Sweep::backward, limit, b0, vb, bwd, steps);
@@ -1306,8 +1323,8 @@ void sweep_apart_as(const Envelope& env, const Mesh& mesh, const std::vector<dou
       if (split < n) fore = second_part(s2, env, mesh, limit, f0, split, n, part, steps);
       both_then_alone<I>(fore, back, h, quick);
       b.finish();
-      f2 = fore;
-      lb = back;
+      f2 = fore.outcome();
+      lb = back.outcome();
     } catch (...) {
       failed = std::current_exception();
     }
@@ -1317,7 +1334,7 @@ void sweep_apart_as(const Envelope& env, const Mesh& mesh, const std::vector<dou
     Lane<Sw> fore(f, 0, f.steps(), split);
     alone<I>(fore, h, quick);
     f.finish();
-    f1 = fore;
+    f1 = fore.outcome();
   } catch (...) {
     second.wait_quietly();
     throw;
@@ -1483,10 +1500,11 @@ std::size_t forward_split(const Mesh& mesh, const std::vector<double>& steady, s
   if (steady.size() != n)
     throw std::invalid_argument("forward_split: " + std::to_string(steady.size()) +
                                 " steady limits for " + std::to_string(n) + " points");
-  if (!mesh.closed || n < min_points_apart) return period;
+  if (!mesh.closed) return period;
   if (i0 >= period)
     throw std::out_of_range("forward_split: start " + std::to_string(i0) + " is not a point of " +
                             "the lap's period (" + std::to_string(period) + " points)");
+  if (n < min_points_apart) return period;
   std::size_t split = period;
   double slowest = std::numeric_limits<double>::infinity();
   for (std::size_t k = period * 8 / 10, end = period * 9 / 10; k < end; ++k) {
