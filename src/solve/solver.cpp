@@ -1505,6 +1505,16 @@ std::size_t forward_split(const Mesh& mesh, const std::vector<double>& steady, s
     throw std::out_of_range("forward_split: start " + std::to_string(i0) + " is not a point of " +
                             "the lap's period (" + std::to_string(period) + " points)");
   if (n < min_points_apart) return period;
+  // A track of segments (arcs and straights; clothoids between) has the curvature of the point
+  // before at most points; a surveyed or logged centerline at almost none, and its limit
+  // ripples: there the backward sweep brakes at every ripple and is the longer (Brannock Park's
+  // survey: 1 330 against 818 microseconds), and a forward part beside it would lengthen the
+  // longer thread (282 to 307 ns a point). Split only where at least half the points repeat
+  // the curvature before them (the bundled segment tracks: 90 to 91 %; the survey: 0).
+  std::size_t repeats = 0, changes = 0;
+  for (std::size_t i = 1; i < n && 2 * repeats < period && 2 * changes <= period; ++i)
+    (mesh.curvature_1pm[i] == mesh.curvature_1pm[i - 1] ? repeats : changes) += 1;
+  if (2 * repeats < period) return period;
   std::size_t split = period;
   double slowest = std::numeric_limits<double>::infinity();
   for (std::size_t k = period * 8 / 10, end = period * 9 / 10; k < end; ++k) {

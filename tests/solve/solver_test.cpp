@@ -978,6 +978,20 @@ TEST_CASE("a closed lap's forward sweep in two parts is the whole sweep to the m
   REQUIRE(small.size() < 2000);
   CHECK(forward_split(small, std::vector<double>(small.size(), 20.0), 0) == small.size() - 1);
   CHECK_THROWS_AS(forward_split(small, std::vector<double>(3, 20.0), 0), std::invalid_argument);
+  // A surveyed centerline (its curvature new at every point) keeps the sweep whole; the same
+  // circuit laid out from segments splits.
+  for (const char* track : {"tracks/brannock-park-survey.yaml", "tracks/brannock-park.yaml"}) {
+    const Circuit c = test::bundled_circuit(track);
+    REQUIRE(c.mesh.size() >= 2000);
+    const Envelope env(load_car(test::source_path("cars/caldra-gt.yaml")).configured(0), c.air);
+    const std::vector<double> steady = steady_profile(env, c.mesh).speed_mps;
+    const std::size_t period = c.mesh.size() - 1;
+    const std::size_t i0 = static_cast<std::size_t>(
+        std::min_element(steady.begin(), steady.begin() + static_cast<std::ptrdiff_t>(period)) -
+        steady.begin());
+    const bool survey = std::string(track).find("survey") != std::string::npos;
+    CHECK((forward_split(c.mesh, steady, i0) == period) == survey);
+  }
 }
 
 TEST_CASE("where a closed lap's forward sweep stops in its second part, both threads say so") {

@@ -141,7 +141,9 @@ SweepResult sweep(const Envelope& env, const Mesh& mesh, Sweep direction,
 /// first part, so that on two threads it runs beside the backward sweep (LapSolver). The point
 /// is the slowest steady point 80 to 90 % of the way round to which the limit falls from the
 /// point before (a corner's apex, or the first point of its arc), where the first part likely
-/// arrives held on its limit. Open meshes, meshes of under 2 000 points and laps with no such
+/// arrives held on its limit. Open meshes, meshes of under 2 000 points, meshes where fewer
+/// than half the points have the curvature of the point before (a surveyed or logged
+/// centerline, whose rippling limit makes the backward sweep the longer) and laps with no such
 /// point keep the sweep whole. It depends on the mesh and the limits alone, never on threads.
 /// Throws std::invalid_argument where `steady` is not one value a point, std::out_of_range
 /// where i0 is not a point of a closed mesh's period.
