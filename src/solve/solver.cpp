@@ -1080,8 +1080,8 @@ SweepResult sweep_one(const Envelope& env, const Mesh& mesh, Sweep direction,
 
 // A closed lap's forward sweep in two parts (forward_split): the first from the lap's start,
 // the second afresh from the point the first part's steps end at, on the limit there. The
-// second part is taken where the first part arrives there on its limit with no drive cut
-// (Sweeper::on_limit_afresh: the state the fresh start begins in, but for the axle model's
+// second part is taken where the first part arrives there on its limit with no drive cut left
+// to run (Sweeper::on_limit_afresh: the state the fresh start begins in, but for the axle model's
 // hints and memos, which move where a solve starts, not its answer beyond its tolerance);
 // else the first part goes on to the sweep's end. On two threads the second part runs beside
 // the backward sweep while the first runs alone (sweep_apart), so that the threads' shares

@@ -136,7 +136,7 @@ SweepResult sweep(const Envelope& env, const Mesh& mesh, Sweep direction,
 /// Where the forward sweep of a closed lap from its start i0 (the slowest steady point) splits
 /// in two: the steps of its first part, or the period (mesh.size() - 1: every step) for none.
 /// The second part starts afresh at the point those steps reach, on its limit there, and is
-/// taken where the first part arrives on its limit with no drive cut (else the first part goes
+/// taken where the first part arrives on its limit with no drive cut left to run (else it goes
 /// on): the same speeds to the axle model's tolerance, from a start that needs nothing of the
 /// first part, so that on two threads it runs beside the backward sweep (LapSolver). The point
 /// is the slowest steady point 80 to 90 % of the way round to which the limit falls from the
