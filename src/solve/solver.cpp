@@ -1078,16 +1078,21 @@ SweepResult sweep_one(const Envelope& env, const Mesh& mesh, Sweep direction,
   return r;
 }
 
-// A closed lap's forward sweep in two parts (forward_split): the first from the lap's start,
-// the second afresh from the point the first part's steps end at, on the limit there. The
-// second part is taken where the first part arrives there on its limit with no drive cut left
-// to run (Sweeper::on_limit_afresh: the state the fresh start begins in, but for the axle model's
-// hints and memos, which move where a solve starts, not its answer beyond its tolerance);
-// else the first part goes on to the sweep's end. On two threads the second part runs beside
-// the backward sweep while the first runs alone (sweep_apart), so that the threads' shares
+// A closed lap's sweep in two parts (forward_split, backward_split): the first from the lap's
+// start, the second afresh from the point the first part's steps end at, on the limit there.
+// The second part is taken where the first part arrives there on its limit with no drive cut
+// left to run (Sweeper::on_limit_afresh: the state the fresh start begins in, but for the axle
+// model's hints and memos, which move where a solve starts, not its answer beyond its
+// tolerance); else the first part goes on to the sweep's end. On two threads each sweep's
+// second part runs beside the other sweep's first (sweep_apart), so that the threads' shares
 // are about even; on one the same parts are taken in turn (sweep_both): the same lap bit for
 // bit.
 //
+// Each sweep's first part's steps (its steps: no split; forward_split, backward_split).
+struct SweepSplits {
+  std::size_t forward, backward;
+};
+
 // A sweep (or part) in progress: its Sweeper, u carried from step to step, the next step and
 // the step it ends before, and its error where a step threw (the step it was in `at`). Where
 // `split` < `end`, the part tests the hand-over at that step (`taken`: it stops there; else it
@@ -1198,22 +1203,24 @@ void alone(Lane<Sw>& a, double h, bool quick) {
   }
 }
 
-// The point where the forward sweep's second part starts.
-std::size_t split_point(const Mesh& mesh, std::size_t f0, std::size_t split) {
-  return (f0 + split) % (mesh.size() - 1);
+// The point where a sweep's second part starts: `split` steps on from its start s0.
+std::size_t split_point(const Mesh& mesh, Sweep direction, std::size_t s0, std::size_t split) {
+  const std::size_t period = mesh.size() - 1;
+  return direction == Sweep::forward ? (s0 + split) % period
+                                     : (s0 + period - split % period) % period;
 }
 
-// The forward sweep's second part (steps `split` to `n`), afresh on the limit at its start, its
-// Sweeper made in `s`, writing into `part`. A Sweeper that cannot be made (its buffers) is the
-// part's error, at the step before its first, as a step's would be: reported only where the part
-// is taken (join_parts), on one thread or two.
+// A sweep's second part (steps `split` to `n`), afresh on the limit at its start, its Sweeper
+// made in `s`, writing into `part`. A Sweeper that cannot be made (its buffers) is the part's
+// error, at the step before its first, as a step's would be: reported only where the part is
+// taken (join_parts), on one thread or two.
 template <class Sw>
-Lane<Sw> second_part(std::optional<Sw>& s, const Envelope& env, const Mesh& mesh,
-                     const std::vector<double>& limit, std::size_t f0, std::size_t split,
+Lane<Sw> second_part(std::optional<Sw>& s, const Envelope& env, const Mesh& mesh, Sweep direction,
+                     const std::vector<double>& limit, std::size_t s0, std::size_t split,
                      std::size_t n, SweepResult& part, const StepTables* steps) {
-  const std::size_t j = split_point(mesh, f0, split);
+  const std::size_t j = split_point(mesh, direction, s0, split);
   try {
-    s.emplace(env, mesh, Sweep::forward, limit, j, limit[j], part, steps);
+    s.emplace(env, mesh, direction, limit, j, limit[j], part, steps);
   } catch (...) {
     Lane<Sw> failed;
     failed.k = failed.end = failed.split = split;
@@ -1232,128 +1239,165 @@ void both_then_alone(Lane<Sw>& a, Lane<Sw>& b, double h, bool quick) {
   alone<I>(b, h, quick);
 }
 
-// After the parts: the second part's points (after its start, the last the lap's start again)
-// taken into the forward sweep's result where it was taken, the seam written again
-// (Sweeper::finish), and the error the lockstep of the whole sweeps would have met first
-// rethrown: the forward sweep's first part's, else its second part's where that was taken;
-// of that and the backward sweep's, the lower step's (counted along each sweep from its
-// start), the forward sweep's at the same step.
-template <class Sw>
-void join_parts(const Mesh& mesh, std::size_t f0, const Lane<Sw>& f1, const Lane<Sw>& f2,
-                const Lane<Sw>& b, SweepResult& fwd, const SweepResult& part) {
-  const Lane<Sw>& f = f1.error || !f1.taken ? f1 : f2;
-  if (f.error && (!b.error || f.at <= b.at)) std::rethrow_exception(f.error);
-  if (b.error) std::rethrow_exception(b.error);
-  if (!f1.taken) return;
+// A second part's points (after its start, the last the lap's start again) into its sweep's
+// result, and the seam written again (Sweeper::finish).
+void take_part(const Mesh& mesh, Sweep direction, std::size_t s0, std::size_t split,
+               const SweepResult& part, SweepResult& r) {
   const std::size_t period = mesh.size() - 1;
-  for (std::size_t c = f1.split, i = split_point(mesh, f0, f1.split); c < f2.end; ++c) {
-    i = i + 1 == period ? 0 : i + 1;
-    fwd.speed_mps[i] = part.speed_mps[i];
-    fwd.cut[i] = part.cut[i];
-    fwd.gear[i] = part.gear[i];
+  const bool forward = direction == Sweep::forward;
+  for (std::size_t c = split, i = split_point(mesh, direction, s0, split); c < period; ++c) {
+    i = forward ? (i + 1 == period ? 0 : i + 1) : (i == 0 ? period - 1 : i - 1);
+    r.speed_mps[i] = part.speed_mps[i];
+    if (forward) {
+      r.cut[i] = part.cut[i];
+      r.gear[i] = part.gear[i];
+    }
   }
-  fwd.speed_mps[period] = fwd.speed_mps[0];
-  fwd.cut[period] = fwd.cut[0];
-  fwd.gear[period] = fwd.gear[0];
+  r.speed_mps[period] = r.speed_mps[0];
+  if (forward) {
+    r.cut[period] = r.cut[0];
+    r.gear[period] = r.gear[0];
+  }
 }
 
-// Both sweeps on one thread in lockstep: the forward sweep's first part beside the backward
-// sweep, then its second part where that is taken.
+// After the parts: the error the lockstep of the whole sweeps would have met first rethrown (of
+// each sweep, its first part's, else its second part's where that was taken; of the two, the
+// lower step's, counted along each sweep from its start, the forward sweep's at the same step),
+// else the second parts taken into the sweeps' results.
+template <class Sw>
+void join_parts(const Mesh& mesh, std::size_t f0, std::size_t b0, const Lane<Sw>& f1,
+                const Lane<Sw>& f2, const Lane<Sw>& b1, const Lane<Sw>& b2, SweepResult& fwd,
+                SweepResult& bwd, const SweepResult& f_part, const SweepResult& b_part) {
+  const Lane<Sw>& f = f1.error || !f1.taken ? f1 : f2;
+  const Lane<Sw>& b = b1.error || !b1.taken ? b1 : b2;
+  if (f.error && (!b.error || f.at <= b.at)) std::rethrow_exception(f.error);
+  if (b.error) std::rethrow_exception(b.error);
+  if (f1.taken) take_part(mesh, Sweep::forward, f0, f1.split, f_part, fwd);
+  if (b1.taken) take_part(mesh, Sweep::backward, b0, b1.split, b_part, bwd);
+}
+
+// Both sweeps on one thread in lockstep: their first parts side by side, each followed by its
+// second part where that is taken.
 template <bool Axle, Integrator I, bool Level>
 void sweep_both_as(const Envelope& env, const Mesh& mesh, const std::vector<double>& limit,
-                   std::size_t f0, double vf, std::size_t b0, double vb, std::size_t split,
-                   SweepResult& fwd, SweepResult& bwd, SweepResult& part, const StepTables* steps,
-                   bool quick) {
+                   std::size_t f0, double vf, std::size_t b0, double vb, SweepSplits split,
+                   SweepResult& fwd, SweepResult& bwd, SweepResult& f_part, SweepResult& b_part,
+                   const StepTables* steps, bool quick) {
   using Sw = Sweeper<Axle, Level>;
   Sw f(env, mesh, Sweep::forward, limit, f0, vf, fwd, steps);
   Sw b(env, mesh, Sweep::backward, limit, b0, vb, bwd, steps);
   assert(f.steps() == b.steps());
   const std::size_t n = f.steps();
   const double h = mesh.step_m;
-  Lane<Sw> f1(f, 0, n, split), lb(b, 0, n, n), f2;
-  std::optional<Sw> second;
-  lockstep<I>(f1, lb, h, quick);
-  if (f1.taken && !f1.error) {
-    f2 = second_part(second, env, mesh, limit, f0, split, n, part, steps);
-    both_then_alone<I>(f2, lb, h, quick);
-  }
-  both_then_alone<I>(f1, lb, h, quick);
+  Lane<Sw> f1(f, 0, n, split.forward), b1(b, 0, n, split.backward), f2, b2;
+  std::optional<Sw> fs, bs;
+  Lane<Sw>* fl = &f1;
+  Lane<Sw>* bl = &b1;
+  // A first part that stopped at its hand-over goes on as its second part.
+  const auto second_parts = [&] {
+    bool moved = false;
+    if (fl == &f1 && f1.taken) {
+      f2 = second_part(fs, env, mesh, Sweep::forward, limit, f0, split.forward, n, f_part, steps);
+      fl = &f2;
+      moved = true;
+    }
+    if (bl == &b1 && b1.taken) {
+      b2 = second_part(bs, env, mesh, Sweep::backward, limit, b0, split.backward, n, b_part, steps);
+      bl = &b2;
+      moved = true;
+    }
+    return moved;
+  };
+  do lockstep<I>(*fl, *bl, h, quick);
+  while (second_parts());
+  do {
+    alone<I>(*fl, h, quick);
+    alone<I>(*bl, h, quick);
+  } while (second_parts());
   f.finish();
   b.finish();
-  join_parts(mesh, f0, f1, f2, lb, fwd, part);
+  join_parts(mesh, f0, b0, f1, f2, b1, b2, fwd, bwd, f_part, b_part);
 }
 template <bool Axle, Integrator I>
 void sweep_both(const Envelope& env, const Mesh& mesh, const std::vector<double>& limit,
-                std::size_t f0, double vf, std::size_t b0, double vb, std::size_t split,
-                SweepResult& fwd, SweepResult& bwd, SweepResult& part, const StepTables* steps,
-                bool quick) {
+                std::size_t f0, double vf, std::size_t b0, double vb, SweepSplits split,
+                SweepResult& fwd, SweepResult& bwd, SweepResult& f_part, SweepResult& b_part,
+                const StepTables* steps, bool quick) {
   if (level_mesh(mesh))
-    sweep_both_as<Axle, I, true>(env, mesh, limit, f0, vf, b0, vb, split, fwd, bwd, part, steps,
-                                 quick);
+    sweep_both_as<Axle, I, true>(env, mesh, limit, f0, vf, b0, vb, split, fwd, bwd, f_part, b_part,
+                                 steps, quick);
   else
-    sweep_both_as<Axle, I, false>(env, mesh, limit, f0, vf, b0, vb, split, fwd, bwd, part, steps,
-                                  quick);
+    sweep_both_as<Axle, I, false>(env, mesh, limit, f0, vf, b0, vb, split, fwd, bwd, f_part, b_part,
+                                  steps, quick);
 }
 
-// Both sweeps side by side: the forward sweep's first part on this thread, alone (going on
-// where its second part is not taken), and its second part beside the backward sweep on the
-// other, in lockstep (it runs whether or not it is taken: that is known only when the first
-// part arrives). Each part takes the steps it takes in sweep_both (the parts share nothing but
-// the Envelope, the mesh, the limits and the step tables, all read only), so the results and
-// the error rethrown (join_parts) are the same bit for bit.
+// Both sweeps side by side: on this thread the forward sweep's first part (going on where its
+// second part is not taken) beside the backward sweep's second part, on the other the backward
+// sweep's first part beside the forward sweep's second, each pair in lockstep (a second part
+// runs whether or not it is taken: that is known only when its first part arrives). A sweep
+// that does not split has all its steps in its first part. Each part takes the steps it takes
+// in sweep_both (the parts share nothing but the Envelope, the mesh, the limits and the step
+// tables, all read only), so the results and the error rethrown (join_parts) are the same bit
+// for bit.
 template <bool Axle, Integrator I, bool Level>
 void sweep_apart_as(const Envelope& env, const Mesh& mesh, const std::vector<double>& limit,
-                    std::size_t f0, double vf, std::size_t b0, double vb, std::size_t split,
-                    SweepResult& fwd, SweepResult& bwd, SweepResult& part, const StepTables* steps,
-                    bool quick, SecondThread& second) {
+                    std::size_t f0, double vf, std::size_t b0, double vb, SweepSplits split,
+                    SweepResult& fwd, SweepResult& bwd, SweepResult& f_part, SweepResult& b_part,
+                    const StepTables* steps, bool quick, SecondThread& second) {
   using Sw = Sweeper<Axle, Level>;
   const double h = mesh.step_m;
   // Each thread works its parts in its own stack's locals and hands them over once at the end:
   // nothing either writes as it steps shares a cache line with the other's (two step counts
   // side by side on one line, written every step by the two processors, made both sweeps some
   // 15 % slower in the processes whose stack put them there; README, "Performance").
-  Lane<Sw> f1, f2, lb;
+  Lane<Sw> f1, f2, b1, b2;
+  // A thread's share: sweep d's first part beside the other sweep's second part (the forward's
+  // first in the lockstep, as on one thread), handed over into `first` and `second_of_other`.
+  const auto share = [&](Sweep d, Lane<Sw>& first, Lane<Sw>& second_of_other) {
+    const bool forward = d == Sweep::forward;
+    Sw s(env, mesh, d, limit, forward ? f0 : b0, forward ? vf : vb, forward ? fwd : bwd, steps);
+    const std::size_t n = s.steps();
+    const std::size_t own = forward ? split.forward : split.backward;
+    const std::size_t other = forward ? split.backward : split.forward;
+    std::optional<Sw> s2;
+    Lane<Sw> a(s, 0, n, own), b;
+    if (other < n)
+      b = second_part(s2, env, mesh, forward ? Sweep::backward : Sweep::forward, limit,
+                      forward ? b0 : f0, other, n, forward ? b_part : f_part, steps);
+    both_then_alone<I>(forward ? a : b, forward ? b : a, h, quick);
+    s.finish();
+    first = a.outcome();
+    second_of_other = b.outcome();
+  };
   std::exception_ptr failed;  // the backward sweep's Sweeper could not be made (its buffers)
   second.start([&] {
     try {
-      Sw b(env, mesh, Sweep::backward, limit, b0, vb, bwd, steps);
-      const std::size_t n = b.steps();
-      std::optional<Sw> s2;
-      Lane<Sw> back(b, 0, n, n), fore;
-      if (split < n) fore = second_part(s2, env, mesh, limit, f0, split, n, part, steps);
-      both_then_alone<I>(fore, back, h, quick);
-      b.finish();
-      f2 = fore.outcome();
-      lb = back.outcome();
+      share(Sweep::backward, b1, f2);
     } catch (...) {
       failed = std::current_exception();
     }
   });
   try {
-    Sw f(env, mesh, Sweep::forward, limit, f0, vf, fwd, steps);
-    Lane<Sw> fore(f, 0, f.steps(), split);
-    alone<I>(fore, h, quick);
-    f.finish();
-    f1 = fore.outcome();
+    share(Sweep::forward, f1, b2);
   } catch (...) {
     second.wait_quietly();
     throw;
   }
   second.wait();
   if (failed) std::rethrow_exception(failed);
-  join_parts(mesh, f0, f1, f2, lb, fwd, part);
+  join_parts(mesh, f0, b0, f1, f2, b1, b2, fwd, bwd, f_part, b_part);
 }
 template <bool Axle, Integrator I>
 void sweep_apart(const Envelope& env, const Mesh& mesh, const std::vector<double>& limit,
-                 std::size_t f0, double vf, std::size_t b0, double vb, std::size_t split,
-                 SweepResult& fwd, SweepResult& bwd, SweepResult& part, const StepTables* steps,
-                 bool quick, SecondThread& second) {
+                 std::size_t f0, double vf, std::size_t b0, double vb, SweepSplits split,
+                 SweepResult& fwd, SweepResult& bwd, SweepResult& f_part, SweepResult& b_part,
+                 const StepTables* steps, bool quick, SecondThread& second) {
   if (level_mesh(mesh))
-    sweep_apart_as<Axle, I, true>(env, mesh, limit, f0, vf, b0, vb, split, fwd, bwd, part, steps,
-                                  quick, second);
+    sweep_apart_as<Axle, I, true>(env, mesh, limit, f0, vf, b0, vb, split, fwd, bwd, f_part, b_part,
+                                  steps, quick, second);
   else
-    sweep_apart_as<Axle, I, false>(env, mesh, limit, f0, vf, b0, vb, split, fwd, bwd, part, steps,
-                                   quick, second);
+    sweep_apart_as<Axle, I, false>(env, mesh, limit, f0, vf, b0, vb, split, fwd, bwd, f_part,
+                                   b_part, steps, quick, second);
 }
 
 // The exponential step with no limit on a level straight in still air, as the sweeps take it
@@ -1488,44 +1532,57 @@ SweepResult sweep(const Envelope& env, const Mesh& mesh, Sweep direction,
   });
 }
 
-// The window and the rule (solver.hpp) from measurement: the forward sweep takes some 40 % longer
-// than the backward one (Brannock Park, the Caldra GT with ellipse exponent 2.2: 226 against 159
-// microseconds), and a stretch of it beside the backward sweep (in lockstep, the two chains'
-// waits overlapping) costs less than alone. On that lap (lapwing_bench, two threads) the split
-// 84 % of the way round gave 47 ns a point against 52 whole; at 78 % (the corner before), 52
-// (the second thread then the longer); a split of the backward sweep as well, its second part
-// beside the forward sweep's first, 47 to 49 (not kept).
-std::size_t forward_split(const Mesh& mesh, const std::vector<double>& steady, std::size_t i0) {
+namespace {
+
+// forward_split and backward_split (solver.hpp): the slowest point 80 to 90 % of the way round
+// along the sweep to which the limit falls from the point before it along the sweep, on a closed
+// mesh of min_points_apart points or more whose curvature repeats at half its points or more
+// (forward) or at fewer (backward). The rule from measurement (lapwing_bench, two threads, lap
+// time only; README, "The two-thread lap's sweeps evened out"): on the tracks of segments the
+// forward sweep is the longer (Brannock Park, the Caldra GT with ellipse exponent 2.2: 226
+// against 159 microseconds) and its split 84 % round gave 47 ns a point against 52 whole (78 %,
+// the corner before: 52, the second thread then the longer; the backward sweep split as well:
+// 47 to 49); on the surveyed centerline the backward sweep brakes at every ripple of its limit
+// and is the longer (1 330 against 818), the forward split made it slower (282 to 307) and the
+// backward one 85 % round faster (231; 70 to 80 %: 255, 60 to 70 %: 287, 85 to 95 %: 253).
+std::size_t split_at(const Mesh& mesh, const std::vector<double>& steady, std::size_t i0,
+                     Sweep direction) {
   const std::size_t n = mesh.size(), period = n - 1;
   if (steady.size() != n)
-    throw std::invalid_argument("forward_split: " + std::to_string(steady.size()) +
+    throw std::invalid_argument("forward_split / backward_split: " + std::to_string(steady.size()) +
                                 " steady limits for " + std::to_string(n) + " points");
   if (!mesh.closed) return period;
   if (i0 >= period)
-    throw std::out_of_range("forward_split: start " + std::to_string(i0) + " is not a point of " +
-                            "the lap's period (" + std::to_string(period) + " points)");
+    throw std::out_of_range("forward_split / backward_split: start " + std::to_string(i0) +
+                            " is not a point of the lap's period (" + std::to_string(period) +
+                            " points)");
   if (n < min_points_apart) return period;
-  // A track of segments (arcs and straights; clothoids between) has the curvature of the point
-  // before at most points; a surveyed or logged centerline at almost none, and its limit
-  // ripples: there the backward sweep brakes at every ripple and is the longer (Brannock Park's
-  // survey: 1 330 against 818 microseconds), and a forward part beside it would lengthen the
-  // longer thread (282 to 307 ns a point). Split only where at least half the points repeat
-  // the curvature before them (the bundled segment tracks: 90 to 91 %; the survey: 0).
   std::size_t repeats = 0, changes = 0;
   for (std::size_t i = 1; i < n && 2 * repeats < period && 2 * changes <= period; ++i)
     (mesh.curvature_1pm[i] == mesh.curvature_1pm[i - 1] ? repeats : changes) += 1;
-  if (2 * repeats < period) return period;
+  const bool forward = direction == Sweep::forward;
+  if ((2 * repeats >= period) != forward) return period;
   std::size_t split = period;
   double slowest = std::numeric_limits<double>::infinity();
   for (std::size_t k = period * 8 / 10, end = period * 9 / 10; k < end; ++k) {
-    const std::size_t i = (i0 + k) % period;
+    const std::size_t i = forward ? (i0 + k) % period : (i0 + period - k) % period;
     const std::size_t before = i == 0 ? period - 1 : i - 1, after = i + 1 == period ? 0 : i + 1;
-    if (steady[i] < steady[before] && steady[i] <= steady[after] && steady[i] < slowest) {
+    const std::size_t from = forward ? before : after, to = forward ? after : before;
+    if (steady[i] < steady[from] && steady[i] <= steady[to] && steady[i] < slowest) {
       slowest = steady[i];
       split = k;
     }
   }
   return split;
+}
+
+}  // namespace
+
+std::size_t forward_split(const Mesh& mesh, const std::vector<double>& steady, std::size_t i0) {
+  return split_at(mesh, steady, i0, Sweep::forward);
+}
+std::size_t backward_split(const Mesh& mesh, const std::vector<double>& steady, std::size_t i0) {
+  return split_at(mesh, steady, i0, Sweep::backward);
 }
 
 LapSolver::LapSolver(Integrator integrator, bool quick_steps)
@@ -1587,14 +1644,14 @@ void LapSolver::speed_pass(const Envelope& env, const Mesh& mesh, double start_s
   const std::shared_ptr<const StepTables> tables =
       step_tables_for(env, mesh, integrator_, quick_steps_);
   auto both = [&](const std::vector<double>& limit, std::size_t f0, double vf, std::size_t b0,
-                  double vb, std::size_t split) {
+                  double vb, SweepSplits split) {
     dispatch(env, integrator_, [&]<bool Axle, Integrator I>() {
       if (second)
         sweep_apart<Axle, I>(env, mesh, limit, f0, vf, b0, vb, split, fwd, bwd, forward_part_,
-                             tables.get(), quick_steps_, *second);
+                             backward_part_, tables.get(), quick_steps_, *second);
       else
         sweep_both<Axle, I>(env, mesh, limit, f0, vf, b0, vb, split, fwd, bwd, forward_part_,
-                            tables.get(), quick_steps_);
+                            backward_part_, tables.get(), quick_steps_);
     });
   };
   auto again = [&](const std::vector<double>& limit, Sweep direction, std::size_t start, double v) {
@@ -1609,7 +1666,8 @@ void LapSolver::speed_pass(const Envelope& env, const Mesh& mesh, double start_s
     const std::size_t i0 = static_cast<std::size_t>(
         std::min_element(steady.begin(), steady.begin() + static_cast<std::ptrdiff_t>(period)) -
         steady.begin());
-    both(steady, i0, steady[i0], i0, steady[i0], forward_split(mesh, steady, i0));
+    both(steady, i0, steady[i0], i0, steady[i0],
+         {forward_split(mesh, steady, i0), backward_split(mesh, steady, i0)});
     // A sweep that comes round slower than it started (it could not regain the start speed)
     // runs once more from the speed it arrived at, so that the lap is periodic.
     if (fwd.speed_mps[i0] < steady[i0]) fwd = again(steady, Sweep::forward, i0, fwd.speed_mps[i0]);
@@ -1630,9 +1688,9 @@ void LapSolver::speed_pass(const Envelope& env, const Mesh& mesh, double start_s
     std::size_t k = 0;
     while (k < n && fwd.speed_mps[k] > steady[k] * (1.0 + phase_on_limit)) ++k;
     for (std::size_t i = k; i < n; ++i) limit[i] = steady[i];
-    both(limit, 0, start_speed_mps, n - 1, limit[n - 1], n);
+    both(limit, 0, start_speed_mps, n - 1, limit[n - 1], {n, n});
   } else {
-    both(steady, 0, start_speed_mps, n - 1, steady[n - 1], n);
+    both(steady, 0, start_speed_mps, n - 1, steady[n - 1], {n, n});
   }
 
   resize_ready({&lap.speed_mps, &lap.time_s}, n, second);
@@ -1736,6 +1794,7 @@ Lap LapSolver::take_with_channels(const Envelope& env, const Mesh& mesh) {
     if (to->capacity() < mesh.size()) *to = std::move(*from);
   forward_ = {};
   forward_part_ = {};
+  backward_part_ = {};
   backward_ = {};
   steady_ = {};
   flying_ = {};

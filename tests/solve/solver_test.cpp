@@ -915,7 +915,7 @@ Track chicane_loop(double before_chicane_m) {
 }
 }  // namespace
 
-TEST_CASE("a closed lap's forward sweep in two parts is the whole sweep to the model's tolerance") {
+TEST_CASE("a closed lap's sweeps in two parts are the whole sweeps to the model's tolerance") {
   // forward_split (solver.hpp): the second part starts afresh on the limit at the split point
   // and is taken where the whole sweep arrives there on its limit with no cut; else the sweep
   // goes on whole. Against the whole sweeps (`sweep`, no step tables, as LapSolver without its
@@ -978,19 +978,51 @@ TEST_CASE("a closed lap's forward sweep in two parts is the whole sweep to the m
   REQUIRE(small.size() < 2000);
   CHECK(forward_split(small, std::vector<double>(small.size(), 20.0), 0) == small.size() - 1);
   CHECK_THROWS_AS(forward_split(small, std::vector<double>(3, 20.0), 0), std::invalid_argument);
-  // A surveyed centerline (its curvature new at every point) keeps the sweep whole; the same
-  // circuit laid out from segments splits.
+  CHECK_THROWS_AS(backward_split(small, std::vector<double>(3, 20.0), 0), std::invalid_argument);
+  // A surveyed centerline (its curvature new at every point) splits its backward sweep, the
+  // same circuit laid out from segments its forward sweep. On the survey, as above against the
+  // whole sweeps: the lap within 1e-9 where the backward sweep's second part is taken, bit for
+  // bit where not; one thread or two the same to the bit.
   for (const char* track : {"tracks/brannock-park-survey.yaml", "tracks/brannock-park.yaml"}) {
     const Circuit c = test::bundled_circuit(track);
     REQUIRE(c.mesh.size() >= 2000);
-    const Envelope env(load_car(test::source_path("cars/caldra-gt.yaml")).configured(0), c.air);
-    const std::vector<double> steady = steady_profile(env, c.mesh).speed_mps;
     const std::size_t period = c.mesh.size() - 1;
-    const std::size_t i0 = static_cast<std::size_t>(
-        std::min_element(steady.begin(), steady.begin() + static_cast<std::ptrdiff_t>(period)) -
-        steady.begin());
     const bool survey = std::string(track).find("survey") != std::string::npos;
-    CHECK((forward_split(c.mesh, steady, i0) == period) == survey);
+    for (const VehicleModel model : {VehicleModel::axle, VehicleModel::point_mass}) {
+      Car car = load_car(test::source_path("cars/caldra-gt.yaml")).configured(0).car();
+      car.model = model;
+      INFO(track << " model " << static_cast<int>(model));
+      const Envelope env(test::configured(car), c.air);
+      const std::vector<double> steady = steady_profile(env, c.mesh).speed_mps;
+      const std::size_t i0 = static_cast<std::size_t>(
+          std::min_element(steady.begin(), steady.begin() + static_cast<std::ptrdiff_t>(period)) -
+          steady.begin());
+      const std::size_t forward = forward_split(c.mesh, steady, i0),
+                        backward = backward_split(c.mesh, steady, i0);
+      CHECK((forward == period) == survey);
+      CHECK((backward == period) != survey);
+      if (!survey) continue;
+      REQUIRE(backward >= period * 8 / 10);
+      REQUIRE(backward < period * 9 / 10);
+      const std::size_t j = (i0 + period - backward) % period;
+      CHECK(steady[j] < steady[(j + 1) % period]);  // the limit falls to it along the sweep
+      const SweepResult whole_forward = sweep(env, c.mesh, Sweep::forward, steady, i0, steady[i0]);
+      const SweepResult whole_backward =
+          sweep(env, c.mesh, Sweep::backward, steady, i0, steady[i0]);
+      REQUIRE(whole_forward.speed_mps[i0] == steady[i0]);  // no second run
+      const bool on_limit = whole_backward.speed_mps[j] == steady[j];
+      CHECK(on_limit);  // taken, on this lap
+      LapSolver one(default_integrator, false), two(default_integrator, false);
+      two.set_threads(2);
+      const Lap& lap = one.solve_speed(env, c.mesh, c.track.start_speed_mps);
+      check_same_lap(lap, two.solve_speed(env, c.mesh, c.track.start_speed_mps));
+      double worst = 0.0;
+      for (std::size_t i = 0; i < c.mesh.size(); ++i) {
+        const double v = std::min(whole_forward.speed_mps[i], whole_backward.speed_mps[i]);
+        worst = std::max(worst, std::abs(lap.speed_mps[i] - v) / v);
+      }
+      CHECK(worst <= 1e-9);
+    }
   }
 }
 

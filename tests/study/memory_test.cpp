@@ -67,8 +67,8 @@ TEST_CASE("bytes per mesh point: every vector a mesh, a lap and a sweep hold is 
   CHECK(static_cast<double>(lap_bytes(speed_only.solve_speed(env, m))) / n ==
         speed_lap_bytes_per_point);
 
-  // A solver's own state: its steady limits, its two sweeps and the forward sweep's second part
-  // (a closed lap's, forward_split: a forward sweep's buffers).
+  // A solver's own state: its steady limits, its two sweeps and their second parts (a closed
+  // lap's, forward_split and backward_split: each a sweep's buffers).
   const SteadyProfile& steady = full.steady();
   const std::vector<double>& limit = steady.speed_mps;
   auto sweep_bytes = [](const SweepResult& s) {
@@ -77,7 +77,8 @@ TEST_CASE("bytes per mesh point: every vector a mesh, a lap and a sweep hold is 
   const std::size_t state = bytes(steady.speed_mps) + bytes(steady.limit) +
                             sweep_bytes(sweep(env, m, Sweep::forward, limit, 0, 10)) +
                             sweep_bytes(sweep(env, m, Sweep::backward, limit, m.size() - 1, 10)) +
-                            sweep_bytes(sweep(env, m, Sweep::forward, limit, 0, 10));
+                            sweep_bytes(sweep(env, m, Sweep::forward, limit, 0, 10)) +
+                            sweep_bytes(sweep(env, m, Sweep::backward, limit, m.size() - 1, 10));
   CHECK(static_cast<double>(state) / n == solver_bytes_per_point);
 }
 

@@ -148,6 +148,13 @@ SweepResult sweep(const Envelope& env, const Mesh& mesh, Sweep direction,
 /// Throws std::invalid_argument where `steady` is not one value a point, std::out_of_range
 /// where i0 is not a point of a closed mesh's period.
 std::size_t forward_split(const Mesh& mesh, const std::vector<double>& steady, std::size_t i0);
+/// The same for the backward sweep from i0 (its steps run backward round the lap), on the
+/// meshes the forward sweep keeps whole for their curvature (fewer than half the points repeat
+/// the curvature of the point before: a surveyed or logged centerline, where the backward sweep
+/// brakes at every ripple of the limit and is the longer): the slowest steady point 80 to 90 %
+/// of its way round to which the limit falls from the point after it (its point before), the
+/// second part beside the forward sweep on the first thread. Throws as forward_split.
+std::size_t backward_split(const Mesh& mesh, const std::vector<double>& steady, std::size_t i0);
 
 /// The exponential step on a level straight in still air with no limit near: u = v^2 a step h
 /// on from u0, forward under full drive (on the straight-line trim's rows where `trimmed`) or
@@ -286,8 +293,8 @@ class LapSolver {
   // or a sweep's half-written ones) where the mesh's size happens to match.
   bool speed_solved_ = false;
   SweepResult forward_, backward_;
-  // A closed lap's forward sweep's second part, where it splits (solver.cpp, forward_split).
-  SweepResult forward_part_;
+  // A closed lap's sweeps' second parts, where they split (forward_split, backward_split).
+  SweepResult forward_part_, backward_part_;
   /// The double channels' storage while a speed solve leaves the lap without them
   /// (solve_speed): the next channels pass takes it back where it holds the mesh's points (and
   /// frees it where not), so that it overwrites the values instead of zero-filling a fresh
