@@ -1534,10 +1534,11 @@ SweepResult sweep(const Envelope& env, const Mesh& mesh, Sweep direction,
 
 namespace {
 
-// forward_split and backward_split (solver.hpp): the slowest point 80 to 90 % of the way round
-// along the sweep to which the limit falls from the point before it along the sweep, on a closed
-// mesh of min_points_apart points or more whose curvature repeats at half its points or more
-// (forward) or at fewer (backward). The rule from measurement (lapwing_bench, two threads, lap
+// forward_split and backward_split (solver.hpp), worked together (one scan of the curvature):
+// the slowest point 80 to 90 % of the way round along the sweep to which the limit falls from
+// the point before it along the sweep, on a closed mesh of min_points_apart points or more,
+// for the forward sweep where its curvature repeats at half its points or more, else for the
+// backward one. The rule from measurement (lapwing_bench, two threads, lap
 // time only; README, "The two-thread lap's sweeps evened out"): on the tracks of segments the
 // forward sweep is the longer (Brannock Park, the Caldra GT with ellipse exponent 2.2: 226
 // against 159 microseconds) and its split 84 % round gave 47 ns a point against 52 whole (78 %,
@@ -1545,23 +1546,21 @@ namespace {
 // 47 to 49); on the surveyed centerline the backward sweep brakes at every ripple of its limit
 // and is the longer (1 330 against 818), the forward split made it slower (282 to 307) and the
 // backward one 85 % round faster (231; 70 to 80 %: 255, 60 to 70 %: 287, 85 to 95 %: 253).
-std::size_t split_at(const Mesh& mesh, const std::vector<double>& steady, std::size_t i0,
-                     Sweep direction) {
+SweepSplits lap_splits(const Mesh& mesh, const std::vector<double>& steady, std::size_t i0) {
   const std::size_t n = mesh.size(), period = n - 1;
   if (steady.size() != n)
     throw std::invalid_argument("forward_split / backward_split: " + std::to_string(steady.size()) +
                                 " steady limits for " + std::to_string(n) + " points");
-  if (!mesh.closed) return period;
+  if (!mesh.closed) return {period, period};
   if (i0 >= period)
     throw std::out_of_range("forward_split / backward_split: start " + std::to_string(i0) +
                             " is not a point of the lap's period (" + std::to_string(period) +
                             " points)");
-  if (n < min_points_apart) return period;
+  if (n < min_points_apart) return {period, period};
   std::size_t repeats = 0, changes = 0;
   for (std::size_t i = 1; i < n && 2 * repeats < period && 2 * changes <= period; ++i)
     (mesh.curvature_1pm[i] == mesh.curvature_1pm[i - 1] ? repeats : changes) += 1;
-  const bool forward = direction == Sweep::forward;
-  if ((2 * repeats >= period) != forward) return period;
+  const bool forward = 2 * repeats >= period;  // which sweep splits; the other stays whole
   std::size_t split = period;
   double slowest = std::numeric_limits<double>::infinity();
   for (std::size_t k = period * 8 / 10, end = period * 9 / 10; k < end; ++k) {
@@ -1573,16 +1572,16 @@ std::size_t split_at(const Mesh& mesh, const std::vector<double>& steady, std::s
       split = k;
     }
   }
-  return split;
+  return forward ? SweepSplits{split, period} : SweepSplits{period, split};
 }
 
 }  // namespace
 
 std::size_t forward_split(const Mesh& mesh, const std::vector<double>& steady, std::size_t i0) {
-  return split_at(mesh, steady, i0, Sweep::forward);
+  return lap_splits(mesh, steady, i0).forward;
 }
 std::size_t backward_split(const Mesh& mesh, const std::vector<double>& steady, std::size_t i0) {
-  return split_at(mesh, steady, i0, Sweep::backward);
+  return lap_splits(mesh, steady, i0).backward;
 }
 
 LapSolver::LapSolver(Integrator integrator, bool quick_steps)
@@ -1666,8 +1665,7 @@ void LapSolver::speed_pass(const Envelope& env, const Mesh& mesh, double start_s
     const std::size_t i0 = static_cast<std::size_t>(
         std::min_element(steady.begin(), steady.begin() + static_cast<std::ptrdiff_t>(period)) -
         steady.begin());
-    both(steady, i0, steady[i0], i0, steady[i0],
-         {forward_split(mesh, steady, i0), backward_split(mesh, steady, i0)});
+    both(steady, i0, steady[i0], i0, steady[i0], lap_splits(mesh, steady, i0));
     // A sweep that comes round slower than it started (it could not regain the start speed)
     // runs once more from the speed it arrived at, so that the lap is periodic.
     if (fwd.speed_mps[i0] < steady[i0]) fwd = again(steady, Sweep::forward, i0, fwd.speed_mps[i0]);
