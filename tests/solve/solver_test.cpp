@@ -20,6 +20,7 @@
 #include "lapwing/io/car_file.hpp"
 #include "lapwing/model/car.hpp"
 #include "lapwing/model/track.hpp"
+#include "lapwing/path/curvature_profile.hpp"
 #include "lapwing/path/mesh.hpp"
 #include "lapwing/solve/envelope.hpp"
 #include "lapwing/solve/solver.hpp"
@@ -1103,6 +1104,129 @@ TEST_CASE("where a closed lap's forward sweep stops in its second part, both thr
   CHECK(backward_first == 1);
 }
 
+namespace {
+// A closed loop (invented, built here) given as a curvature profile, the kind of path a surveyed
+// or logged lap gives: the curvature of a rounded rectangle of segments, read every 0.02 m and
+// rippled by +-1e-7 /m from row to row, so that no mesh point repeats the curvature of the point
+// before and the backward sweep is the one that splits (backward_split). For stalling_car: a
+// 2.5 m hairpin at the lap's slowest, then `lead_m` of level road, a descent of 60 m at -0.5
+// where braking cannot hold the car, an S-bend of 3.2 m radius at its foot (the backward
+// sweep's split point, about 11 % of the way round from the hairpin: 89 % of the backward
+// sweep's way), a kink of 8 m radius, long sides of 400 m, and a 3 m corner; with
+// `climb`, 0.5 m after that corner a climb of 40 m at 0.25 where an upshift's cut stops the
+// forward sweep. A gentle climb on the far side closes the elevation.
+Track stalling_profile_loop(double lead_m, bool climb) {
+  const double quarter = units::pi / 2, side = 400.0;
+  const double bend = 2 * 3.2 * std::sin(0.5), kink = 2 * 8.0 * std::sin(0.4);  // their advance
+  Track t = test::circle_track(10.0, 0.5);
+  t.name = t.id = "profile loop";
+  t.segments = {test::arc(2.5, quarter, true),
+                test::straight(lead_m),
+                test::straight(60.0, -0.5),
+                test::arc(3.2, 0.5, true),
+                test::arc(3.2, 0.5, false),
+                test::straight(40.0),
+                test::arc(8.0, 0.4, false),
+                test::arc(8.0, 0.4, true),
+                test::straight(side - lead_m - 60.0 - bend - 40.0 - kink),
+                test::arc(30.0, quarter, true),
+                test::straight(60.0),
+                test::arc(30.0, quarter, true),
+                test::straight(side - 0.5, (30.0 - (climb ? 10.0 : 0.0)) / (side - 0.5)),
+                test::arc(3.0, quarter, true)};
+  if (climb)
+    t.segments.insert(t.segments.end(),
+                      {test::straight(0.5), test::straight(40.0, 0.25), test::straight(74.0)});
+  else
+    t.segments.push_back(test::straight(114.5));
+  const Mesh fine = build_mesh(t, 0.02);
+  std::vector<double> curvature(fine.size()), grade(fine.size());
+  for (std::size_t i = 0; i < fine.size(); ++i) {
+    curvature[i] = fine.curvature_1pm[i] + (i % 2 ? 1e-7 : -1e-7);
+    grade[i] = fine.grade_at(i);
+  }
+  t.profile = profile_from_curvature("profile loop", fine.s_m, curvature, grade);
+  t.segments.clear();
+  return t;
+}
+
+// The mesh index of the point a CannotMove error names ("... stops at S m: ...").
+std::size_t stop_index(const Mesh& mesh, const std::string& error) {
+  const std::size_t at = error.find("stops at ");
+  REQUIRE(at != std::string::npos);
+  return static_cast<std::size_t>(std::lround(std::stod(error.substr(at + 9)) / mesh.step_m));
+}
+}  // namespace
+
+TEST_CASE("where a closed lap's backward sweep stops in its second part, both threads say so") {
+  // join_parts for the backward sweep: its second part's error where that was taken; of it and
+  // the forward sweep's, the lower step's along each sweep (the forward's at a tie). On
+  // stalling_profile_loop the backward sweep's second part starts at the S-bend (taken: the
+  // first part arrives there on its limit) and stops on the descent before it; the forward sweep
+  // runs to its end, or (with the climb) stops at the climb near the lap's end, after the
+  // backward's stop in steps (the descent 55 m from the hairpin) or before it (50 m).
+  int backward_alone = 0, forward_first = 0, backward_first = 0;
+  for (const double lead : {50.0, 55.0}) {
+    for (const bool climb : {false, true}) {
+      const Track t = stalling_profile_loop(lead, climb);
+      const Mesh mesh = build_mesh(t, t.mesh_m);
+      REQUIRE(mesh.size() >= 2000);
+      const std::size_t period = mesh.size() - 1;
+      const Envelope env(test::configured(stalling_car()), make_air(t.air));
+      const std::vector<double> steady = steady_profile(env, mesh).speed_mps;
+      const std::size_t i0 = static_cast<std::size_t>(
+          std::min_element(steady.begin(), steady.begin() + static_cast<std::ptrdiff_t>(period)) -
+          steady.begin());
+      const std::size_t split = backward_split(mesh, steady, i0);
+      const std::size_t j = (i0 + period - split) % period;
+      INFO("lead " << lead << " climb " << climb << " i0 " << i0 << " split " << split << " of "
+                   << period);
+      REQUIRE(forward_split(mesh, steady, i0) == period);
+      REQUIRE(split < period);
+      // The whole backward sweep stops between the lap's start and the split point: in the part
+      // after the split.
+      const std::string backward =
+          cannot_move_error([&] { sweep(env, mesh, Sweep::backward, steady, i0, steady[i0]); });
+      const std::string forward =
+          cannot_move_error([&] { sweep(env, mesh, Sweep::forward, steady, i0, steady[i0]); });
+      REQUIRE(!backward.empty());
+      REQUIRE(forward.empty() != climb);
+      const std::size_t b_stop = stop_index(mesh, backward);
+      CHECK(b_stop > i0);
+      CHECK(b_stop < j);
+      // The second part is taken: the sweep arrives at the split point on its limit. (On a copy
+      // of the mesh without the descent, which the sweep reaches only after the split point,
+      // the same steps up to there, run to the end.)
+      Mesh no_descent = mesh;
+      for (double& grade : no_descent.grade) grade = std::max(grade, 0.0);
+      const SweepResult arrived = sweep(env, no_descent, Sweep::backward, steady, i0, steady[i0]);
+      CHECK(arrived.speed_mps[j] == steady[j]);
+      // The error the lap reports: the backward sweep's alone, or the lower step's of the two.
+      std::string expected = backward;
+      if (climb) {
+        const std::size_t f_steps = (stop_index(mesh, forward) + period - i0) % period,
+                          b_steps = (i0 + period - b_stop) % period;
+        expected = f_steps <= b_steps ? forward : backward;
+        (f_steps <= b_steps ? forward_first : backward_first) += 1;
+      } else {
+        ++backward_alone;
+      }
+      for (const Integrator integrator : {default_integrator, Integrator::rk4})
+        for (const bool quick : {true, false}) {
+          LapSolver one(integrator, quick), two(integrator, quick);
+          two.set_threads(2);
+          const std::string a = cannot_move_error([&] { one.solve(env, mesh); }),
+                            b = cannot_move_error([&] { two.solve(env, mesh); });
+          CHECK(!a.empty());
+          CHECK(a == b);
+          if (integrator == default_integrator && quick) CHECK(a == expected);
+        }
+    }
+  }
+  CHECK(backward_alone == 2);
+  CHECK(forward_first == 1);
+  CHECK(backward_first == 1);
+}
 TEST_CASE(
     "a point held on its steady limit at the speed of both its neighbours does not accelerate") {
   // Speed unchanged from the point before to the point after: dv/dt = 0, no longitudinal load
