@@ -139,13 +139,15 @@ bool level_in_still_air(const Road& r) {
   return r.sin_slope == 0.0 && r.sin_bank == 0.0 && r.cos_slope == 1.0 && r.cos_bank == 1.0 &&
          r.head_wind_mps == 0.0;
 }
-[[gnu::always_inline]] inline bool straight_drive(const Envelope& env, const Envelope::Rows& rows,
-                                                  double u, const Road& road, bool trimmed,
-                                                  double drive_share, double& out) {
+// The same where the forces at u are known (`f`: Envelope::road_forces on the rows of `trimmed`
+// at curvature 0 on the straight's road), as the channels pass has them at each point.
+[[gnu::always_inline]] inline bool straight_drive_on(const Envelope& env,
+                                                     const Envelope::RoadForces& f, double u,
+                                                     bool trimmed, double drive_share,
+                                                     double& out) {
   const LevelTables& t = *env.level_tables();
   double grip;
   if (!(trimmed ? t.grip_trimmed : t.grip).at(u, grip)) return false;
-  const Envelope::RoadForces f = env.road_forces(rows, u, 0.0, road);
   const double engine = (drive_share * f.drive_n - f.resistance_n) / env.effective_mass_kg();
   if (engine >= 0.0 && engine <= grip - straight_margin) {
     out = engine;  // as axle_drive_accel: the engine's limit, which the tyres allow
@@ -156,6 +158,11 @@ bool level_in_still_air(const Road& r) {
     return true;
   }
   return false;
+}
+[[gnu::always_inline]] inline bool straight_drive(const Envelope& env, const Envelope::Rows& rows,
+                                                  double u, const Road& road, bool trimmed,
+                                                  double drive_share, double& out) {
+  return straight_drive_on(env, env.road_forces(rows, u, 0.0, road), u, trimmed, drive_share, out);
 }
 template <bool Axle>
 [[gnu::always_inline]] inline double drive_accel(const Envelope& env, const Envelope::Rows& rows,
@@ -1936,6 +1943,11 @@ void LapSolver::channels_pass(const Envelope& env, const Mesh& mesh, ChannelSet 
         if (used) return diff;
       }
       if (diff >= 0.0) {
+        // On a straight the forces at the point are those worked for its channels where the
+        // trim is the same (the rows the drive reads).
+        double a;
+        if (straight && trims == trimmed && straight_drive_on(env, f, u, trims, 1.0, a))
+          return std::min(diff, a);
         const Envelope::Rows rows = env.rows(trims);
         return std::min(diff, axle_model
                                   ? drive_accel<true>(env, rows, u, k, road, trims, 1.0, inv,
