@@ -26,7 +26,8 @@ for layer in "${!may[@]}"; do
     [ -e "$f" ] || continue
     checked=$((checked + 1))
     while IFS= read -r inc; do
-      used=$(sed -n 's/^#include "lapwing\/\([a-z]*\)\/.*/\1/p' <<< "$inc")
+      used=""  # the layer an include names (a bash match: no process per line)
+      if [[ "$inc" =~ ^#include\ \"lapwing/([a-z]*)/ ]]; then used=${BASH_REMATCH[1]}; fi
       if [ -n "$used" ] && [[ " ${may[$layer]} " != *" $used "* ]]; then
         echo "FAIL: $f ($layer) includes $used: $inc"
         fail=1
