@@ -1027,6 +1027,42 @@ TEST_CASE("a closed lap's sweeps in two parts are the whole sweeps to the model'
   }
 }
 
+namespace {
+// The errors of a closed lap's whole sweeps from its slowest point i0 (`sweep`), forward and
+// backward: "" where a sweep runs to its end.
+std::pair<std::string, std::string> whole_sweep_errors(const Envelope& env, const Mesh& mesh,
+                                                       const std::vector<double>& steady,
+                                                       std::size_t i0) {
+  return {cannot_move_error([&] { sweep(env, mesh, Sweep::forward, steady, i0, steady[i0]); }),
+          cannot_move_error([&] { sweep(env, mesh, Sweep::backward, steady, i0, steady[i0]); })};
+}
+
+// The error a lap's solve reports on one thread and on two, which must be the same (and not
+// none) for both integrators with and without step tables: the one of the default solve, with
+// its step tables, as `run` takes it.
+std::string lap_error_on_one_and_two_threads(const Envelope& env, const Mesh& mesh) {
+  std::string reported;
+  for (const Integrator integrator : {default_integrator, Integrator::rk4})
+    for (const bool quick : {true, false}) {
+      LapSolver one(integrator, quick), two(integrator, quick);
+      two.set_threads(2);
+      const std::string a = cannot_move_error([&] { one.solve(env, mesh); }),
+                        b = cannot_move_error([&] { two.solve(env, mesh); });
+      CHECK(!a.empty());
+      CHECK(a == b);
+      if (integrator == default_integrator && quick) reported = a;
+    }
+  return reported;
+}
+
+// The mesh index of the point a CannotMove error names ("... stops at S m: ...").
+std::size_t stop_index(const Mesh& mesh, const std::string& error) {
+  const std::size_t at = error.find("stops at ");
+  REQUIRE(at != std::string::npos);
+  return static_cast<std::size_t>(std::lround(std::stod(error.substr(at + 9)) / mesh.step_m));
+}
+}  // namespace
+
 TEST_CASE("where a closed lap's forward sweep stops in its second part, both threads say so") {
   // join_parts: of the forward sweep, its second part's error where that was taken; of it and
   // the backward sweep's, the lower step's along each sweep. A closed rounded rectangle
@@ -1074,31 +1110,15 @@ TEST_CASE("where a closed lap's forward sweep stops in its second part, both thr
                           << period);
     REQUIRE(split < period);
     // Each whole sweep stops; the forward one after the split, which it reaches on its limit.
-    const std::string forward =
-        cannot_move_error([&] { sweep(env, mesh, Sweep::forward, steady, i0, steady[i0]); });
-    const std::string backward =
-        cannot_move_error([&] { sweep(env, mesh, Sweep::backward, steady, i0, steady[i0]); });
+    const auto [forward, backward] = whole_sweep_errors(env, mesh, steady, i0);
     REQUIRE(!forward.empty());
     REQUIRE(!backward.empty());
     // The forward sweep stops past the split point (in the climb after it).
-    const std::size_t at = forward.find("stops at ");
-    REQUIRE(at != std::string::npos);
-    CHECK(std::stod(forward.substr(at + 9)) > mesh.s_m[j]);
-    // The lap's solve (with its step tables, as `run` takes it) reports the lower step's error
-    // of the whole sweeps; RK4 and the solve without step tables report the same on one thread
-    // and two.
-    for (const Integrator integrator : {default_integrator, Integrator::rk4})
-      for (const bool quick : {true, false}) {
-        LapSolver one(integrator, quick), two(integrator, quick);
-        two.set_threads(2);
-        const std::string a = cannot_move_error([&] { one.solve(env, mesh); }),
-                          b = cannot_move_error([&] { two.solve(env, mesh); });
-        CHECK(!a.empty());
-        CHECK(a == b);
-        if (integrator != default_integrator || !quick) continue;
-        forward_first += a == forward;
-        backward_first += a == backward;
-      }
+    CHECK(stop_index(mesh, forward) > j);
+    // The lap's solve reports the lower step's error of the whole sweeps, on one thread and two.
+    const std::string a = lap_error_on_one_and_two_threads(env, mesh);
+    forward_first += a == forward;
+    backward_first += a == backward;
   }
   CHECK(forward_first == 1);
   CHECK(backward_first == 1);
@@ -1149,13 +1169,6 @@ Track stalling_profile_loop(double lead_m, bool climb) {
   t.segments.clear();
   return t;
 }
-
-// The mesh index of the point a CannotMove error names ("... stops at S m: ...").
-std::size_t stop_index(const Mesh& mesh, const std::string& error) {
-  const std::size_t at = error.find("stops at ");
-  REQUIRE(at != std::string::npos);
-  return static_cast<std::size_t>(std::lround(std::stod(error.substr(at + 9)) / mesh.step_m));
-}
 }  // namespace
 
 TEST_CASE("where a closed lap's backward sweep stops in its second part, both threads say so") {
@@ -1185,10 +1198,7 @@ TEST_CASE("where a closed lap's backward sweep stops in its second part, both th
       REQUIRE(split < period);
       // The whole backward sweep stops between the lap's start and the split point: in the part
       // after the split.
-      const std::string backward =
-          cannot_move_error([&] { sweep(env, mesh, Sweep::backward, steady, i0, steady[i0]); });
-      const std::string forward =
-          cannot_move_error([&] { sweep(env, mesh, Sweep::forward, steady, i0, steady[i0]); });
+      const auto [forward, backward] = whole_sweep_errors(env, mesh, steady, i0);
       REQUIRE(!backward.empty());
       REQUIRE(forward.empty() != climb);
       const std::size_t b_stop = stop_index(mesh, backward);
@@ -1211,22 +1221,14 @@ TEST_CASE("where a closed lap's backward sweep stops in its second part, both th
       } else {
         ++backward_alone;
       }
-      for (const Integrator integrator : {default_integrator, Integrator::rk4})
-        for (const bool quick : {true, false}) {
-          LapSolver one(integrator, quick), two(integrator, quick);
-          two.set_threads(2);
-          const std::string a = cannot_move_error([&] { one.solve(env, mesh); }),
-                            b = cannot_move_error([&] { two.solve(env, mesh); });
-          CHECK(!a.empty());
-          CHECK(a == b);
-          if (integrator == default_integrator && quick) CHECK(a == expected);
-        }
+      CHECK(lap_error_on_one_and_two_threads(env, mesh) == expected);
     }
   }
   CHECK(backward_alone == 2);
   CHECK(forward_first == 1);
   CHECK(backward_first == 1);
 }
+
 TEST_CASE(
     "a point held on its steady limit at the speed of both its neighbours does not accelerate") {
   // Speed unchanged from the point before to the point after: dv/dt = 0, no longitudinal load
