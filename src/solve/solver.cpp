@@ -752,9 +752,15 @@ class Sweeper {
   /// Takes the integrated u at the next point: clips it to the limit and moves there.
   [[gnu::always_inline]] double end_step(double u) {
     const std::size_t j = j_;
+    // Forward, the speed falls to nothing under full drive; backward, the speed the car may
+    // have to arrive at the next point does (braking there is less than the grade or the wind
+    // pushes it on: even from a standstill it would arrive too fast).
     if (!(u > 0.0))
-      throw CannotMove("the car stops at " + where(mesh_, j) +
-                       ": drive cannot overcome the resistance there");
+      throw CannotMove(forward_ ? "the car stops at " + where(mesh_, j) +
+                                      ": drive cannot overcome the resistance there"
+                                : "the car cannot be slowed in time at " + where(mesh_, j) +
+                                      ": braking cannot hold it against the grade or the wind "
+                                      "there");
     // Where the limit, not the integration, gives the speed: sqrt(u) >= the limit less
     // clip_tolerance, compared in u so that the next step need not wait for the root.
     const double clip_from = limit_[j] * (1.0 - clip_tolerance);
@@ -1945,13 +1951,14 @@ void LapSolver::channels_pass(const Envelope& env, const Mesh& mesh, ChannelSet 
       if (diff >= 0.0) {
         // On a straight the forces at the point are those worked for its channels where the
         // trim is the same (the rows the drive reads).
+        // (Where that finds no answer, the model's, as drive_accel would come to.)
         double a;
-        if (straight && trims == trimmed && straight_drive_on(env, f, u, trims, 1.0, a))
-          return std::min(diff, a);
+        const bool tried = straight && trims == trimmed;
+        if (tried && straight_drive_on(env, f, u, trims, 1.0, a)) return std::min(diff, a);
         const Envelope::Rows rows = env.rows(trims);
         return std::min(diff, axle_model
                                   ? drive_accel<true>(env, rows, u, k, road, trims, 1.0, inv,
-                                                      &drive_hints, straight)
+                                                      &drive_hints, straight && !tried)
                                   : drive_accel<false>(env, rows, u, k, road, trims, 1.0, inv));
       }
       const Envelope::Rows rows = env.rows(false);
