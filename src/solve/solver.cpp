@@ -1062,35 +1062,6 @@ template <Integrator I, class Sw>
     return false;
 }
 
-// One sweep into `r`, whole (throwing where it stops the car).
-template <bool Axle, Integrator I, bool Level>
-void sweep_into_as(const Envelope& env, const Mesh& mesh, Sweep direction,
-                   const std::vector<double>& limit, std::size_t start, double v_start,
-                   SweepResult& r, const StepTables* steps, bool quick) {
-  using Sw = Sweeper<Axle, Level>;
-  Sw s(env, mesh, direction, limit, start, v_start, r, steps);
-  const double h = mesh.step_m;
-  double u = s.start_u();
-  for (std::size_t k = 0, n = s.steps(); k < n; ++k) {
-    double u1 = 0.0;
-    if (!quick_step<I>(s, u, u1, quick)) u1 = step<I, Sw, 1>({&s}, {s.begin_step(u)}, h)[0];
-    u = s.end_step(u1);
-  }
-  s.finish();
-}
-
-template <bool Axle, Integrator I>
-SweepResult sweep_one(const Envelope& env, const Mesh& mesh, Sweep direction,
-                      const std::vector<double>& limit, std::size_t start, double v_start,
-                      const StepTables* steps = nullptr, bool quick = false) {
-  SweepResult r;
-  if (level_mesh(mesh))
-    sweep_into_as<Axle, I, true>(env, mesh, direction, limit, start, v_start, r, steps, quick);
-  else
-    sweep_into_as<Axle, I, false>(env, mesh, direction, limit, start, v_start, r, steps, quick);
-  return r;
-}
-
 // A closed lap's sweep in two parts (forward_split, backward_split): the first from the lap's
 // start, the second afresh from the point the first part's steps end at, on the limit there.
 // The second part is taken where the first part arrives there on its limit with no drive cut
@@ -1214,6 +1185,31 @@ void alone(Lane<Sw>& a, double h, bool quick) {
     a.k += c;
     if (c < m) a.end_step(u1);
   }
+}
+
+// One sweep into `r`, whole (throwing where it stops the car): one part alone.
+template <bool Axle, Integrator I, bool Level>
+void sweep_into_as(const Envelope& env, const Mesh& mesh, Sweep direction,
+                   const std::vector<double>& limit, std::size_t start, double v_start,
+                   SweepResult& r, const StepTables* steps, bool quick) {
+  using Sw = Sweeper<Axle, Level>;
+  Sw s(env, mesh, direction, limit, start, v_start, r, steps);
+  Lane<Sw> whole(s, 0, s.steps(), s.steps());
+  alone<I>(whole, mesh.step_m, quick);
+  if (whole.error) std::rethrow_exception(whole.error);
+  s.finish();
+}
+
+template <bool Axle, Integrator I>
+SweepResult sweep_one(const Envelope& env, const Mesh& mesh, Sweep direction,
+                      const std::vector<double>& limit, std::size_t start, double v_start,
+                      const StepTables* steps = nullptr, bool quick = false) {
+  SweepResult r;
+  if (level_mesh(mesh))
+    sweep_into_as<Axle, I, true>(env, mesh, direction, limit, start, v_start, r, steps, quick);
+  else
+    sweep_into_as<Axle, I, false>(env, mesh, direction, limit, start, v_start, r, steps, quick);
+  return r;
 }
 
 // The point where a sweep's second part starts: `split` steps on from its start s0.
@@ -1950,8 +1946,8 @@ void LapSolver::channels_pass(const Envelope& env, const Mesh& mesh, ChannelSet 
       }
       if (diff >= 0.0) {
         // On a straight the forces at the point are those worked for its channels where the
-        // trim is the same (the rows the drive reads).
-        // (Where that finds no answer, the model's, as drive_accel would come to.)
+        // trim is the same (the rows the drive reads); where the tables give no answer from
+        // them, the model's (drive_accel, without trying the tables again).
         double a;
         const bool tried = straight && trims == trimmed;
         if (tried && straight_drive_on(env, f, u, trims, 1.0, a)) return std::min(diff, a);
