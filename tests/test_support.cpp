@@ -13,6 +13,8 @@
 
 namespace lapwing::test {
 
+const Air sea_level = make_air(AirSpec{});
+
 bool near(double a, double b, double rel, double abs) {
   return std::abs(a - b) <= rel * std::max(std::abs(a), std::abs(b)) + abs;
 }
@@ -53,6 +55,15 @@ std::string scratch_file(const std::string& name, const std::string& text) {
   out << text;
   if (!out) throw std::runtime_error("cannot write " + path);
   return path;
+}
+
+std::string write_file(const std::string& path, const std::string& text) {
+  std::ofstream(path) << text;
+  return path;
+}
+
+ConfiguredCar pellion_medium() {
+  return load_car(source_path("cars/pellion-fr2.yaml")).configured(1);
 }
 
 Circuit bundled_circuit(const std::string& relative) {

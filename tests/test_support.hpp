@@ -37,6 +37,9 @@ bool near(double a, double b, double rel, double abs = 0.0);
 /// "KEY.PATH: MESSAGE" of a violation (SI values as the library words them), or "none".
 std::string describe(const std::optional<Violation>& v);
 
+/// Sea-level air of the standard atmosphere (AirSpec's defaults).
+extern const Air sea_level;
+
 /// The bundled files.
 std::string source_path(const std::string& relative);
 
@@ -45,6 +48,13 @@ std::string source_path(const std::string& relative);
 std::string scratch_dir();
 /// `text` written to scratch_dir()/name (replacing any earlier file of that name); its path.
 std::string scratch_file(const std::string& name, const std::string& text);
+
+/// `text` written to `path` (a relative path: in the test's working folder), replacing any file
+/// there; the path.
+std::string write_file(const std::string& path, const std::string& text);
+
+/// The bundled Pellion FR-2 in its second config ("medium").
+ConfiguredCar pellion_medium();
 
 /// A bundled track file laid out in its own air.
 Circuit bundled_circuit(const std::string& relative);

@@ -23,7 +23,7 @@ namespace {
 
 // x over [0, 1): uniform (a fixed seed), 1 - 2^-k up to k = 50 (rest down to 1e-15 of 1, where
 // the old 1 - x^n kept no digit), and either side of 1/2 and of each table interval's edge.
-std::vector<double> points() {
+std::vector<double> shape_points() {
   std::vector<double> xs;
   boost::random::mt19937 gen(20261203);
   boost::random::uniform_real_distribution<double> u(0.0, 1.0);
@@ -42,7 +42,7 @@ std::vector<double> points() {
 TEST_CASE("the ellipse's shape: y within 6 ulp and 1 - x^n within 4.5 ulp of 50-digit arithmetic") {
   // Measured on this sample: at most 4.5 and 3.3 ulp (n = 3.7 and 10); a denser sweep found
   // 5.84 and 4.07 (the header), so the bounds are 6 and 4.5.
-  const std::vector<double> xs = points();
+  const std::vector<double> xs = shape_points();
   for (double n : {1.0, 1.5, 2.0, 2.2, 3.0, 3.7, 6.5, 10.0}) {
     const EllipseShape shape(n);
     double worst_y = 0.0, worst_rest = 0.0;

@@ -27,7 +27,7 @@ double ulp_error(double y, double x, double p) {
 
 // Points x over the table's range [2^-64, 2^8): log-uniform (a fixed seed), every power of two,
 // and either side of each interval's edge in [1, 2) (where the table's polynomial changes).
-std::vector<double> points() {
+std::vector<double> power_points() {
   std::vector<double> xs;
   boost::random::mt19937 gen(20261203);
   boost::random::uniform_real_distribution<double> log2x(-64.0, 8.0);
@@ -51,7 +51,7 @@ TEST_CASE(
   // 2.2 among them.
   const std::vector<double> exponents{0.1, 1.0 / 2.2, 1.0 / 3.0, 0.5, 0.7, 1.0,
                                       1.5, 2.0,       2.2,       3.7, 6.5, 10.0};
-  const std::vector<double> xs = points();
+  const std::vector<double> xs = power_points();
   for (double p : exponents) {
     const FixedPower pow_p(p);
     double worst = 0.0;

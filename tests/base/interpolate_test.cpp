@@ -28,9 +28,9 @@ TEST_CASE("a straight line sampled on an uneven axis is reproduced between the n
 }
 
 TEST_CASE("lerp is a + w (b - a): exact at w = 0, and the midpoint of a and b at w = 0.5") {
-  CHECK(lerp(0.1, 0.7, 0.0) == 0.1);
-  CHECK(lerp(2.0, 6.0, 0.5) == 4.0);
-  CHECK(lerp(2.0, 6.0, 0.25) == 3.0);
+  CHECK(lapwing::lerp(0.1, 0.7, 0.0) == 0.1);
+  CHECK(lapwing::lerp(2.0, 6.0, 0.5) == 4.0);
+  CHECK(lapwing::lerp(2.0, 6.0, 0.25) == 3.0);
 }
 
 TEST_CASE("bracket, the even grid and the walk find the same interval and share") {

@@ -145,13 +145,13 @@ std::string tree_difference(const Node& a, const Node& b, const std::string& at)
   return "";
 }
 
-struct Verdict {
+struct ReaderVerdict {
   bool handled = false;  // the fast reader took the text
   std::string problem;   // when it did: "" if yaml-cpp read the same tree, else what differs
 };
 
-Verdict both_readers(const std::string& text) {
-  Verdict v;
+ReaderVerdict both_readers(const std::string& text) {
+  ReaderVerdict v;
   const std::optional<Node> fast = detail::read_simple_yaml(text);
   v.handled = fast.has_value();
   if (!v.handled) return v;
@@ -187,7 +187,7 @@ TEST_CASE(
   int handled = 0;
   for (const auto& f : files) {
     CAPTURE(f.string());
-    const Verdict v = both_readers(read_file(f));
+    const ReaderVerdict v = both_readers(read_file(f));
     CHECK(v.problem == "");
     handled += v.handled;
     // The files lapwing ships and the benchmark reads: the fast reader is for these.
@@ -276,7 +276,7 @@ TEST_CASE("the fast YAML reader agrees with yaml-cpp on tricky texts, or gives u
   };
   for (const Case& c : cases) {
     CAPTURE(std::string(c.text));
-    const Verdict v = both_readers(c.text);
+    const ReaderVerdict v = both_readers(c.text);
     CHECK(v.handled == c.handled);
     CHECK(v.problem == "");
   }
@@ -402,7 +402,7 @@ TEST_CASE("whatever the fast YAML reader takes, yaml-cpp reads to the same tree 
       }
     }
     CAPTURE(text);
-    const Verdict v = both_readers(text);
+    const ReaderVerdict v = both_readers(text);
     CHECK(v.problem == "");
     handled += v.handled;
     if (!mutated) {

@@ -23,7 +23,7 @@ std::string load_error(const std::string& file) {
   }
   return "";
 }
-std::string csv_error(const std::string& file) {
+std::string csv_file_error(const std::string& file) {
   try {
     read_csv(file, 1);
   } catch (const InputError& e) {
@@ -48,14 +48,15 @@ TEST_CASE("a file that cannot be opened gives the system's reason, without a pos
   // library's, as every program on the system prints them).
   CHECK(load_error(missing) ==
         missing + ": error: cannot open the file: No such file or directory");
-  CHECK(csv_error(missing) == missing + ": error: cannot open the file: No such file or directory");
+  CHECK(csv_file_error(missing) ==
+        missing + ": error: cannot open the file: No such file or directory");
   CHECK(unreadable(missing).value_or("") == "cannot open the file: No such file or directory");
 }
 
 TEST_CASE("a directory is named as one, not read as an empty file") {
   const std::string dir = test::scratch_dir();
   CHECK(load_error(dir) == dir + ": error: is a directory, not a file");
-  CHECK(csv_error(dir) == dir + ": error: is a directory, not a file");
+  CHECK(csv_file_error(dir) == dir + ": error: is a directory, not a file");
   CHECK(unreadable(dir).value_or("") == "is a directory, not a file");
   CHECK(!unreadable(test::source_path("cars/pellion-fr2.yaml")));
 }
@@ -70,20 +71,22 @@ TEST_CASE("a NUL byte makes a file binary: refused where it stands, not called e
         "x.yaml:1:4: error: the text is not valid UTF-8 (byte 0xE9)");
   const std::string csv =
       test::scratch_file("input_file_nul.csv", std::string("x_m,y_m\n1,\0\n", 12));
-  CHECK(csv_error(csv) == csv + ":2:3: error: a NUL byte (byte 11): not a text file");
+  CHECK(csv_file_error(csv) == csv + ":2:3: error: a NUL byte (byte 11): not a text file");
 }
 
 TEST_CASE("a special file with no end is refused at once or at the cap, not read for ever") {
   // /dev/zero (POSIX: an endless source of NUL bytes): the first one refuses it.
   if (std::filesystem::exists("/dev/zero")) {
     CHECK(load_error("/dev/zero") == "/dev/zero:1:1: error: a NUL byte (byte 1): not a text file");
-    CHECK(csv_error("/dev/zero") == "/dev/zero:1:1: error: a NUL byte (byte 1): not a text file");
+    CHECK(csv_file_error("/dev/zero") ==
+          "/dev/zero:1:1: error: a NUL byte (byte 1): not a text file");
   }
   // A CSV line longer than the cap (1 MiB) is refused at that line.
   const std::string file = test::scratch_file(
       "input_file_long_line.csv", "x_m,y_m\n" + std::string(max_line_bytes + 1, '1') + "\n");
-  CHECK(csv_error(file) == file + ":2:1: error: the line is longer than 1 MiB (lapwing's longest " +
-                               "CSV row): not a CSV file of numbers");
+  CHECK(csv_file_error(file) ==
+        file + ":2:1: error: the line is longer than 1 MiB (lapwing's longest " +
+            "CSV row): not a CSV file of numbers");
   std::filesystem::remove(file);
 }
 

@@ -18,15 +18,6 @@
 using namespace lapwing;
 using lapwing::test::near;
 
-namespace {
-
-std::string write(const std::string& name, const std::string& text) {
-  std::ofstream(name) << text;
-  return name;
-}
-
-}  // namespace
-
 TEST_CASE("a clean lap rebuilt from its own log laps within 0.1 % of the original") {
   const Car car = load_car(test::source_path("cars/pellion-fr2.yaml")).configured(1).car();
   const Track original = load_track(test::source_path("tracks/brannock-park.yaml"));
@@ -39,7 +30,7 @@ TEST_CASE("a clean lap rebuilt from its own log laps within 0.1 % of the origina
   for (std::size_t i = 0; i < c.mesh.size(); i += 2)
     log << c.mesh.s_m[i] << "," << run.lap.speed_mps[i] / units::kph << ","
         << run.lap.lat_accel_mps2[i] / units::g0 << "\n";
-  const std::string f = write("import_log.csv", log.str());
+  const std::string f = test::write_file("import_log.csv", log.str());
   LogOptions o;
   o.log = f;
   o.speed = "speed_kph";
@@ -47,8 +38,8 @@ TEST_CASE("a clean lap rebuilt from its own log laps within 0.1 % of the origina
   o.distance = "distance_m";
   o.closed = true;
   const LogTrack t = track_from_log(o, "import_log_track.csv");
-  write("import_log_track.yaml", t.yaml);
-  write("import_log_track.csv", t.csv);
+  test::write_file("import_log_track.yaml", t.yaml);
+  test::write_file("import_log_track.csv", t.csv);
   const Track rebuilt = load_track("import_log_track.yaml");
   const Circuit c2 = lay_out(rebuilt, make_air(original.air));
   // Issue 13's target: smoothing auto (GCV on the log's rows, 1 m apart) keeps the lap within
@@ -79,7 +70,7 @@ std::string brannock_log(const std::string& name, double* first_speed_mps = null
     log << c.mesh.s_m[i] << "," << run.lap.speed_mps[i] / units::kph << ","
         << run.lap.lat_accel_mps2[i] / units::g0 << "," << run.lap.lat_accel_mps2[i] << "\n";
   if (first_speed_mps) *first_speed_mps = run.lap.speed_mps[0];
-  return write(name, log.str());
+  return test::write_file(name, log.str());
 }
 
 LogOptions log_options(const std::string& file, const std::string& column,
@@ -142,7 +133,7 @@ TEST_CASE("a lap that does not close but turns once is not blamed on the acceler
   while (std::getline(in, line))
     if (std::stod(line.substr(0, line.find(','))) >= 150.0) cut << line << "\n";
   in.close();
-  write(f, cut.str());
+  test::write_file(f, cut.str());
   const std::string e = error_of(log_options(f, "lat_g", "g"));
   CAPTURE(e);
   CHECK(e.find("the lap does not close") != std::string::npos);
@@ -160,8 +151,8 @@ TEST_CASE("an open log keeps its first speed as start_speed; the air given goes 
   o.air.altitude_m = 1200.0;
   o.air.temperature_k = 304.15;
   const LogTrack t = track_from_log(o, "import_open_log_track.csv");
-  write("import_open_log_track.yaml", t.yaml);
-  write("import_open_log_track.csv", t.csv);
+  test::write_file("import_open_log_track.yaml", t.yaml);
+  test::write_file("import_open_log_track.csv", t.csv);
   const Track track = load_track("import_open_log_track.yaml");
   CHECK_FALSE(track.closed);
   // The log's speed went through km/h and back: equal to round-off (1e-12 relative).

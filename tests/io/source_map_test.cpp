@@ -11,7 +11,7 @@
 using namespace lapwing;
 
 namespace {
-const char* text =
+const char* yaml_text =
     "mass: 640 kg\n"                                                // line 1
     "tyres:\n"                                                      // line 2
     "  mu_lat: 3.5\n"                                               // line 3, value at column 11
@@ -21,7 +21,7 @@ const char* text =
 }  // namespace
 
 TEST_CASE("a violation is placed at its value, with the value as the file wrote it") {
-  const SourceMap map(parse_document(text, "car.yaml"));
+  const SourceMap map(parse_document(yaml_text, "car.yaml"));
   const InputError e =
       map.error(out_of_range("tyres.mu_lat", 3.5, Range{0.0, 3.0, true, false}, Quantity::number));
   CHECK(std::string(e.what()) ==
@@ -34,7 +34,7 @@ TEST_CASE("a violation is placed at its value, with the value as the file wrote 
 }
 
 TEST_CASE("a key the file leaves to its default is placed at the map that holds it") {
-  const SourceMap map(parse_document(text, "car.yaml"));
+  const SourceMap map(parse_document(yaml_text, "car.yaml"));
   CHECK(map.mark("tyres.mu_long").line == 3);  // the tyres map starts with its first key
   CHECK(map.mark("tyres").line == 3);
   CHECK(map.mark("nowhere.at.all").line == 1);  // the root
@@ -42,7 +42,7 @@ TEST_CASE("a key the file leaves to its default is placed at the map that holds 
 }
 
 TEST_CASE("an alias puts the model's torque curve at the file's power curve") {
-  SourceMap map(parse_document(text, "car.yaml"));
+  SourceMap map(parse_document(yaml_text, "car.yaml"));
   map.alias("powertrain.torque_curve", "powertrain.power_curve");
   map.alias("powertrain.torque_curve.torque", "powertrain.power_curve.power");
   CHECK(map.file_path("powertrain.torque_curve.rpm[1]") == "powertrain.power_curve.rpm[1]");
@@ -60,7 +60,7 @@ TEST_CASE("an alias puts the model's torque curve at the file's power curve") {
 }
 
 TEST_CASE("a data point named in a rule becomes its data file and line") {
-  SourceMap map(parse_document(text, "track.yaml"));
+  SourceMap map(parse_document(yaml_text, "track.yaml"));
   map.data("centerline", "c.csv", {2, 3, 7});
   Violation v = broken_rule("centerline", "its last point ({point}) is far from its first");
   v.point = "centerline.points[2]";
@@ -74,7 +74,7 @@ TEST_CASE("a data point named in a rule becomes its data file and line") {
 
 TEST_CASE("an InvalidInput is placed in the file of its subject, or said without a position") {
   SourceMaps maps;
-  maps.add(SourceMap(parse_document(text, "car.yaml")));
+  maps.add(SourceMap(parse_document(yaml_text, "car.yaml")));
   const InvalidInput found("car.yaml", broken_rule("mass", "too heavy"));
   CHECK(std::string(maps.error(found).what()) == "car.yaml:1:7: error: too heavy (mass)");
   const InvalidInput other("other.yaml", broken_rule("mass", "too heavy"));
@@ -89,7 +89,7 @@ TEST_CASE("a key path's last index is read only from digits in brackets") {
   CHECK_FALSE(last_index("x_m[1a]").has_value());
   CHECK_FALSE(last_index("x_m").has_value());
   // A malformed point names no line: the library's words stay.
-  SourceMap map(parse_document(text, "track.yaml"));
+  SourceMap map(parse_document(yaml_text, "track.yaml"));
   map.data("centerline", "c.csv", {2, 3, 7});
   Violation v = broken_rule("centerline", "point ({point})");
   v.point = "centerline.points[x]";

@@ -20,11 +20,6 @@ using lapwing::test::Noise;
 
 namespace {
 
-std::string write(const std::string& name, const std::string& text) {
-  std::ofstream(name) << text;
-  return name;
-}
-
 std::string points_csv(const std::vector<double>& x, const std::vector<double>& y) {
   std::ostringstream os;
   os.precision(12);
@@ -114,8 +109,8 @@ TEST_CASE("a centerline with 0.5 m of noise laps within 3 % of the clean one (sm
     nx.push_back(c.mesh.x_m[i] + 0.5 * noise.gauss());
     ny.push_back(c.mesh.y_m[i] + 0.5 * noise.gauss());
   }
-  const std::string clean_csv = write("import_clean_2m.csv", points_csv(x, y));
-  const std::string noisy_csv = write("import_noisy_2m.csv", points_csv(nx, ny));
+  const std::string clean_csv = test::write_file("import_clean_2m.csv", points_csv(x, y));
+  const std::string noisy_csv = test::write_file("import_noisy_2m.csv", points_csv(nx, ny));
   Track clean = twin, noisy = twin;
   clean.segments.clear();
   noisy.segments.clear();
@@ -145,7 +140,7 @@ TEST_CASE("columns a data file has but lapwing does not read are named in a note
   std::ostringstream os;
   os << "x_m,y_m,width_m\n";
   for (int i = 0; i < 20; ++i) os << 10 * i << ",0,12\n";
-  const std::string f = write("import_extra_column.csv", os.str());
+  const std::string f = test::write_file("import_extra_column.csv", os.str());
   const PathProfile p = import_centerline(f, false, CenterlineOptions{});
   REQUIRE(p.notes.size() == 1);
   CHECK(p.notes[0].find("column 'width_m' not used") != std::string::npos);
@@ -154,7 +149,7 @@ TEST_CASE("columns a data file has but lapwing does not read are named in a note
   std::ostringstream k;
   k << "distance_m,curvature_1pm,speed_kph,bank_deg\n";
   for (int i = 0; i < 20; ++i) k << 10 * i << ",0.01,100,2\n";
-  const std::string g = write("import_extra_column_k.csv", k.str());
+  const std::string g = test::write_file("import_extra_column_k.csv", k.str());
   const PathProfile q = import_curvature(g);
   REQUIRE(q.notes.size() == 1);
   CHECK(q.notes[0].find("column 'speed_kph' not used") != std::string::npos);
@@ -167,7 +162,7 @@ TEST_CASE("columns a data file has but lapwing does not read are named in a note
   std::ostringstream plain;
   plain << "x_m,y_m\n";
   for (int i = 0; i < 20; ++i) plain << 10 * i << ",0\n";
-  const std::string h = write("import_no_extra.csv", plain.str());
+  const std::string h = test::write_file("import_no_extra.csv", plain.str());
   CHECK(import_centerline(h, false, CenterlineOptions{}).notes.empty());
   std::remove(h.c_str());
 }
@@ -187,7 +182,7 @@ TEST_CASE("a hole in a centerline's points is a dropout warning naming its lines
       x.push_back(radius * std::sin(a));
       y.push_back(radius * (1 - std::cos(a)));
     }
-    return write("ring_dropout.csv", points_csv(x, y));
+    return test::write_file("ring_dropout.csv", points_csv(x, y));
   };
   {
     const PathProfile p = import_centerline(ring(100, 130), true, CenterlineOptions{});
@@ -210,8 +205,8 @@ TEST_CASE("a hole in a centerline's points is a dropout warning naming its lines
       x.push_back(radius * std::sin(a));
       y.push_back(radius * (1 - std::cos(a)));
     }
-    const PathProfile p =
-        import_centerline(write("ring_dropout.csv", points_csv(x, y)), true, CenterlineOptions{});
+    const PathProfile p = import_centerline(test::write_file("ring_dropout.csv", points_csv(x, y)),
+                                            true, CenterlineOptions{});
     REQUIRE(p.warnings.size() == 1);
     CHECK(p.warnings[0].find("51.5 m apart from line 91 to line 92") != std::string::npos);
     CHECK(p.warnings[0].find("(and 1 more such gap)") != std::string::npos);

@@ -37,9 +37,9 @@ TEST_CASE(
     "fit.json names each parameter's scale (the balance's shift) and writes null for a "
     "figure not found") {
   // ISO 2533's sea level: 1.2250 kg/m3 (the standard's own table).
-  const std::vector<Air> sea_level{make_air(AirSpec{})};
+  const std::vector<Air> airs{make_air(AirSpec{})};
   const std::string found =
-      fit_json("car", "medium", {"a.csv"}, {"Track"}, sea_level, two_parameters(true));
+      fit_json("car", "medium", {"a.csv"}, {"Track"}, airs, two_parameters(true));
   CHECK(found.find("\"grip\": {\n      \"scale\": 1.02") != std::string::npos);
   CHECK(found.find("\"shift\": -0.01") != std::string::npos);
   // 2 and 0.5 m/s are 7.2 and 1.8 km/h, give or take the last digit of a division by 1/3.6.
@@ -52,7 +52,7 @@ TEST_CASE(
     CHECK_MESSAGE(found.find(key) != std::string::npos, key);
   // Without a covariance: null, not a NaN (JSON has none; the writer throws on one).
   const std::string none =
-      fit_json("car", "medium", {"a.csv"}, {"Track"}, sea_level, two_parameters(false));
+      fit_json("car", "medium", {"a.csv"}, {"Track"}, airs, two_parameters(false));
   CHECK(none.find("\"std_error\": null") != std::string::npos);
   CHECK(none.find("nan") == std::string::npos);
   CHECK(fit_text(two_parameters(false), {"a.csv"}).find("no standard errors") != std::string::npos);

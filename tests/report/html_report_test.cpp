@@ -104,17 +104,12 @@ std::set<std::string> parse_xml(const std::string& s) {
   return ids;
 }
 
-Circuit circuit(const std::string& file) {
-  const Track t = load_track(test::source_path(file));
-  return lay_out(t, make_air(t.air));
-}
-
 }  // namespace
 
 TEST_CASE("the compare and trade report is well-formed, holds every plot, and fetches nothing") {
   const Car car = load_car(test::source_path("cars/caldra-gt.yaml"));
-  const std::vector<Circuit> circuits{circuit("tracks/brannock-park.yaml"),
-                                      circuit("tracks/cairnholt.yaml")};
+  const std::vector<Circuit> circuits{test::bundled_circuit("tracks/brannock-park.yaml"),
+                                      test::bundled_circuit("tracks/cairnholt.yaml")};
   const Comparison cmp = compare(car, {0, 1}, circuits, 2);
   const Trade tr = trade(car, {0}, circuits, TradeOptions{0.02, 5, 0.15}, 2);
   const std::string html = html_report({&car, &circuits, &cmp, &tr, "test"});
@@ -149,7 +144,7 @@ TEST_CASE("the compare and trade report is well-formed, holds every plot, and fe
 
 TEST_CASE("a run report has its plots and no delta or trade map") {
   const Car car = load_car(test::source_path("cars/pellion-fr2.yaml"));
-  const Circuit c = circuit("tracks/skidpad.yaml");
+  const Circuit c = test::bundled_circuit("tracks/skidpad.yaml");
   const std::vector<Circuit> circuits{c};
   const Comparison one = single_lap_comparison(0, run_lap(car.configured(0), c), c);
   const std::set<std::string> ids = parse_xml(html_report({&car, &circuits, &one, nullptr, "run"}));
@@ -164,7 +159,7 @@ TEST_CASE("a track without corners says 'no corners' where the table would be, n
   // The acceleration run (a straight, bundled) has no corner: the page once showed the
   // table's header over no rows.
   const Car car = load_car(test::source_path("cars/pellion-fr2.yaml"));
-  const Circuit c = circuit("tracks/acceleration.yaml");
+  const Circuit c = test::bundled_circuit("tracks/acceleration.yaml");
   const std::vector<Circuit> circuits{c};
   const LapRun r = run_lap(car.configured(0), c);
   REQUIRE(r.summary.corners.empty());
@@ -183,7 +178,7 @@ TEST_CASE("a lap's warnings are on its report as in the text, each once, marked 
   // and summary.json do, and stays well-formed.
   Car car = load_car(test::source_path("cars/pellion-fr2.yaml"));
   car.model = VehicleModel::point_mass;
-  const Circuit c = circuit("tracks/brannock-park.yaml");
+  const Circuit c = test::bundled_circuit("tracks/brannock-park.yaml");
   const std::vector<Circuit> circuits{c};
   const Comparison one = single_lap_comparison(0, run_lap(car.configured(0), c), c);
   const std::vector<std::string>& warnings = one.tracks[0].entries[0].run.summary.warnings;
@@ -199,7 +194,7 @@ TEST_CASE("a lap's warnings are on its report as in the text, each once, marked 
 
 TEST_CASE("run's single-lap page: speed, map, balance, g-g and the corners table; no bars of one") {
   const Car car = load_car(test::source_path("cars/caldra-gt.yaml"));
-  const Circuit c = circuit("tracks/brannock-park.yaml");
+  const Circuit c = test::bundled_circuit("tracks/brannock-park.yaml");
   const std::vector<Circuit> circuits{c};
   const LapRun r = run_lap(car.configured(1), c);
   const Comparison one = single_lap_comparison(1, r, c);

@@ -16,10 +16,6 @@ using namespace lapwing;
 using lapwing::test::near;
 
 namespace {
-Circuit circuit(const std::string& file) {
-  const Track t = load_track(test::source_path(file));
-  return lay_out(t, make_air(t.air));
-}
 Car formula(std::size_t config) {
   return load_car(test::source_path("cars/pellion-fr2.yaml")).configured(config).car();
 }
@@ -50,7 +46,7 @@ TEST_CASE("the axle model of a balanced all-wheel-drive car is the point mass (1
   car.roll.reset();                      // both tyres of an axle alike, as the point mass's four
   car.model = VehicleModel::point_mass;  // the file's default is the axle model
   for (const char* track : {"tracks/brannock-park.yaml", "tracks/cairnholt.yaml"}) {
-    const Circuit c = circuit(track);
+    const Circuit c = test::bundled_circuit(track);
     Car axle = car;
     axle.model = VehicleModel::axle;
     const double point = run_lap(test::configured(car), c).summary.lap_time_s;
@@ -64,11 +60,11 @@ TEST_CASE(
   forward.model = rearward.model = VehicleModel::axle;
   rearward.front_weight = 0.38;
   // A standing start is traction-limited from the line.
-  const Circuit accel = circuit("tracks/acceleration.yaml");
+  const Circuit accel = test::bundled_circuit("tracks/acceleration.yaml");
   CHECK(run_lap(test::configured(rearward), accel).summary.lap_time_s <
         run_lap(test::configured(forward), accel).summary.lap_time_s);
   // The exit of Brannock Park's first hairpin: from its apex to 150 m on.
-  const Circuit tight = circuit("tracks/brannock-park.yaml");
+  const Circuit tight = test::bundled_circuit("tracks/brannock-park.yaml");
   const LapRun a = run_lap(test::configured(forward), tight),
                b = run_lap(test::configured(rearward), tight);
   const CornerResult& hairpin = a.summary.corners.front();
@@ -88,7 +84,7 @@ TEST_CASE("more drag height lowers the front share at top speed by exactly drag 
   low.model = VehicleModel::point_mass;
   Car tall = low;
   tall.drag_height_m = low.drag_height_m + 0.2;
-  const Circuit c = circuit("tracks/saltmere-flats.yaml");
+  const Circuit c = test::bundled_circuit("tracks/saltmere-flats.yaml");
   const LapRun a = run_lap(test::configured(low), c), b = run_lap(test::configured(tall), c);
   const auto top = static_cast<std::size_t>(
       std::max_element(a.lap.speed_mps.begin(), a.lap.speed_mps.end()) - a.lap.speed_mps.begin());
@@ -121,7 +117,7 @@ TEST_CASE(
   CHECK(near(*b, 0.42 - 1.2 * 0.42 / 2.9 / 3.6, 1e-15));
   // The forces' ratio at any speed is the coefficients' ratio: the trace's channel agrees.
   const Car car = formula(1);
-  const Circuit c = circuit("tracks/cairnholt.yaml");
+  const Circuit c = test::bundled_circuit("tracks/cairnholt.yaml");
   const LapRun r = run_lap(test::configured(car), c);
   const std::size_t i = r.lap.speed_mps.size() / 3;
   const double df = r.lap.downforce_n[i], d = r.lap.drag_n[i];
@@ -131,7 +127,7 @@ TEST_CASE(
   // No downforce: a share of no load is undefined, whatever the drag.
   CHECK_FALSE(aero_balance_with_drag_moment(0.0, 0.9, 0.45, 0.5, 2.6));
   const Car bare = load_car(test::source_path("tests/data/drag-only-car.yaml")).configured(0).car();
-  const LapRun nr = run_lap(test::configured(bare), circuit("tracks/skidpad.yaml"));
+  const LapRun nr = run_lap(test::configured(bare), test::bundled_circuit("tracks/skidpad.yaml"));
   CHECK(std::isnan(nr.lap.aero_balance_eff[10]));
   CHECK_FALSE(nr.summary.balance.aero_balance_eff_150);
   CHECK_FALSE(nr.summary.balance.aero_balance_eff_250);
@@ -176,7 +172,7 @@ TEST_CASE("axle model: no point of any bundled lap uses more than either axle's 
     for (const char* track_file :
          {"tracks/brannock-park.yaml", "tracks/saltmere-flats.yaml", "tracks/cairnholt.yaml",
           "tracks/brannock-park-survey.yaml", "tracks/skidpad.yaml", "tracks/acceleration.yaml"}) {
-      const Circuit c = circuit(track_file);
+      const Circuit c = test::bundled_circuit(track_file);
       for (std::size_t config = 0; config < file.configs.size(); ++config) {
         Car car = file.configured(config).car();
         car.model = VehicleModel::axle;
@@ -204,7 +200,7 @@ TEST_CASE("axle model: front-, rear- and all-wheel drive keep both axles within 
       Car car = load_car(test::source_path("cars/caldra-gt.yaml")).configured(1).car();
       car.model = VehicleModel::axle;
       car.powertrain.driven = driven;
-      const LapRun r = run_lap(test::configured(car), circuit(track_file));
+      const LapRun r = run_lap(test::configured(car), test::bundled_circuit(track_file));
       CAPTURE(static_cast<int>(driven));
       CAPTURE(std::string(track_file));
       CHECK(*std::max_element(r.lap.front_usage.begin(), r.lap.front_usage.end()) <= 1.0 + tol);
@@ -270,13 +266,13 @@ TEST_CASE("with no load sensitivity lateral transfer changes nothing: the axle m
   Car rolling = car;
   rolling.roll = RollGeometry{1.6, 1.55, 0.55, 0.03, 0.06};
   for (const char* track : {"tracks/brannock-park.yaml", "tracks/cairnholt.yaml"}) {
-    const Circuit c = circuit(track);
+    const Circuit c = test::bundled_circuit(track);
     CHECK(near(run_lap(test::configured(rolling), c).summary.lap_time_s,
                run_lap(test::configured(car), c).summary.lap_time_s, 1e-9));
   }
   // With load sensitivity it does: the loaded outer tyre gains less than the inner loses.
   car.tyres.load_sensitivity = rolling.tyres.load_sensitivity = 0.08;
-  const Circuit c = circuit("tracks/brannock-park.yaml");
+  const Circuit c = test::bundled_circuit("tracks/brannock-park.yaml");
   CHECK(run_lap(test::configured(rolling), c).summary.lap_time_s >
         run_lap(test::configured(car), c).summary.lap_time_s + 0.05);
 }

@@ -13,9 +13,9 @@
 
 using namespace lapwing;
 using lapwing::test::near;
+using lapwing::test::sea_level;
 
 namespace {
-const Air sea_level = make_air(AirSpec{});
 
 // The slowest and fastest speed of a lap.
 std::pair<double, double> speed_range(const Lap& lap) {

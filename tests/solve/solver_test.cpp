@@ -30,9 +30,9 @@
 
 using namespace lapwing;
 using lapwing::test::near;
+using lapwing::test::sea_level;
 
 namespace {
-const Air sea_level = make_air(AirSpec{});
 constexpr double g = units::g0;
 
 Lap solve(const Car& car, const Track& track) {

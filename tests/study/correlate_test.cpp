@@ -27,10 +27,6 @@ Circuit brannock() {
   return lay_out(t, make_air(t.air));
 }
 
-ConfiguredCar medium() {
-  return load_car(test::source_path("cars/pellion-fr2.yaml")).configured(1);
-}
-
 // A logged lap made from a solved one: every `every` mesh points and the last (the lap logged
 // to the line), at log distance d = stretch s + offset_m, with Gaussian noise of noise_kph on
 // the speed.
@@ -51,7 +47,7 @@ LoggedSpeed log_of(const Lap& lap, const Mesh& mesh, double offset_m, double str
 
 TEST_CASE("a car's own log, 7 m off and noisy, correlates within its noise") {
   const Circuit c = brannock();
-  const LapRun run = run_lap(medium(), c);
+  const LapRun run = run_lap(test::pellion_medium(), c);
   const LoggedSpeed log = log_of(run.lap, c.mesh, 7.0, 1.0, 0.5);
   const Correlation k = correlate(run.lap, c, log);
   // The offset to within the grid's last step and the noise's pull (0.1 m); the scale to 0.05 %
@@ -89,7 +85,7 @@ TEST_CASE("a car's own log, 7 m off and noisy, correlates within its noise") {
 
 TEST_CASE("a log whose distance reads 1 % long is scaled back") {
   const Circuit c = brannock();
-  const LapRun run = run_lap(medium(), c);
+  const LapRun run = run_lap(test::pellion_medium(), c);
   const LoggedSpeed log = log_of(run.lap, c.mesh, 30.0, 1.01, 0.5);
   const Alignment a = align_log(log, c.mesh, run.lap.speed_mps);
   // s = scale (d - offset) with d = 1.01 s + 30: scale 1 / 1.01, offset 30 m.
@@ -101,10 +97,10 @@ TEST_CASE("a log whose distance reads 1 % long is scaled back") {
 
 TEST_CASE("another car's lap does not correlate within the noise, and the time delta says so") {
   const Circuit c = brannock();
-  const LapRun truth = run_lap(medium(), c);
+  const LapRun truth = run_lap(test::pellion_medium(), c);
   const LoggedSpeed log = log_of(truth.lap, c.mesh, 7.0, 1.0, 0.5);
   // 10 % less grip: slower in every corner.
-  const ConfiguredCar slower = medium().changed([](Car& k, AeroConfig&) {
+  const ConfiguredCar slower = test::pellion_medium().changed([](Car& k, AeroConfig&) {
     k.tyres.mu_lat *= 0.9;
     k.tyres.mu_long *= 0.9;
   });
@@ -124,7 +120,7 @@ TEST_CASE("another car's lap does not correlate within the noise, and the time d
 
 TEST_CASE("a log in the wrong unit or too short for the track is refused at a row") {
   const Circuit c = brannock();
-  const LapRun run = run_lap(medium(), c);
+  const LapRun run = run_lap(test::pellion_medium(), c);
   LoggedSpeed log = log_of(run.lap, c.mesh, 7.0, 1.0, 0.0);
   // Speeds in m/s read as km/h: 3.6 times too slow.
   LoggedSpeed slow = log;
@@ -156,7 +152,7 @@ TEST_CASE("a log sampled in time with mph read as km/h is refused, its ratio tol
   // a log in mph read as km/h (1.609 times too fast: 1 mi = 1.609344 km, NIST SP 811) stands out
   // against the 1.45 bound, and one 1.609 times too slow says 0.62, not 1.61.
   const Circuit c = brannock();
-  const LapRun run = run_lap(medium(), c);
+  const LapRun run = run_lap(test::pellion_medium(), c);
   LoggedSpeed timed;
   timed.source = "timed log";
   double t_next = 0.0;
@@ -187,7 +183,7 @@ TEST_CASE("a log that hardly correlates with the lap at its best alignment is wa
   // A log of constant speed has no shape to align: Pearson's r with any lap is 0 (a constant
   // has no variance). The car's own lap correlates near 1 (above), and is not warned of.
   const Circuit c = brannock();
-  const LapRun run = run_lap(medium(), c);
+  const LapRun run = run_lap(test::pellion_medium(), c);
   LoggedSpeed flat;
   flat.source = "constant";
   // Two laps long: whatever offset the flat correlation lands on, one lap line to line is in it.
@@ -225,7 +221,7 @@ TEST_CASE("a log's gap is not covered: 300 m is refused at the row after it, 40 
   // and 4 median intervals apart leave the track between them unlogged. The car's own lap at
   // 2 m rows, exact, the line at 7 m of its distance.
   const Circuit c = brannock();
-  const LapRun run = run_lap(medium(), c);
+  const LapRun run = run_lap(test::pellion_medium(), c);
   const LoggedSpeed log = log_of(run.lap, c.mesh, 7.0, 1.0, 0.0);
   // 300 m without a row: 89 % covered, under the 98 % rule; named at the first row after it.
   const LoggedSpeed gap300 = without_rows(log, 1007.0, 1307.0);
@@ -270,7 +266,7 @@ TEST_CASE("a log that stops short of the line is not filled from the lap before"
   // before the next line: its flying lap covers 89 % of the track. The out-lap's rows a lap
   // earlier are not the lap's end (they were used for it, and 100 % read).
   const Circuit c = brannock();
-  const LapRun run = run_lap(medium(), c);
+  const LapRun run = run_lap(test::pellion_medium(), c);
   const double L = c.mesh.length_m;
   LoggedSpeed log;
   log.source = "stops short";
@@ -312,7 +308,7 @@ TEST_CASE("a lap's length logged from mid-lap to mid-lap is refused, saying why"
   // lap). Refused by the 98 % rule, and the message says what to log (it said only "a whole lap",
   // which this is).
   const Circuit c = brannock();
-  const LapRun run = run_lap(medium(), c);
+  const LapRun run = run_lap(test::pellion_medium(), c);
   const double L = c.mesh.length_m;
   LoggedSpeed log;
   log.source = "mid-lap";
@@ -341,7 +337,7 @@ TEST_CASE("a scale found at the edge of the search is warned of") {
   // A distance reading 4.5 % long needs a scale of 1 / 1.045 = 0.957, beyond the 4 % searched:
   // the best alignment sits on the edge, 0.9600, and says so. 3.5 % is found and not warned of.
   const Circuit c = brannock();
-  const LapRun run = run_lap(medium(), c);
+  const LapRun run = run_lap(test::pellion_medium(), c);
   const Alignment edge =
       align_log(log_of(run.lap, c.mesh, 7.0, 1.045, 0.0), c.mesh, run.lap.speed_mps);
   CHECK(near(edge.scale, 0.96, 1e-9));
@@ -372,14 +368,14 @@ TEST_CASE("a braking point before the line is found round it on a closed lap") {
   r.segments.push_back(tail);
   r.sectors_m = {0.0};
   const Circuit rc = lay_out(r, make_air(r.air));
-  const ConfiguredCar grippier = medium().changed([](Car& k, AeroConfig&) {
+  const ConfiguredCar grippier = test::pellion_medium().changed([](Car& k, AeroConfig&) {
     k.tyres.mu_lat *= 1.03;
     k.tyres.mu_long *= 1.03;
   });
   // The logs start 400 m before the line (the lap before's end: a closed lap is periodic), so
   // that the approach to the first corner is logged for the lap compared.
   auto first_corner = [&](const Circuit& circuit, double before_m = 400.0) {
-    const Lap lap = run_lap(medium(), circuit).lap;
+    const Lap lap = run_lap(test::pellion_medium(), circuit).lap;
     const Lap logged = run_lap(grippier, circuit).lap;
     const Mesh& m = circuit.mesh;
     LoggedSpeed log;
@@ -423,7 +419,7 @@ TEST_CASE("a log that ends at the line covers it at an alignment within the sear
   // line 0.11 m past an exact log's last row (2741 m x 4e-5). That is the alignment's resolution,
   // not a log stopping short: the whole lap is covered, and its time is run's.
   const Circuit c = brannock();
-  const LapRun run = run_lap(medium(), c);
+  const LapRun run = run_lap(test::pellion_medium(), c);
   const LoggedSpeed log = log_of(run.lap, c.mesh, 0.0, 1.0, 0.0);
   const Correlation k = correlate(run.lap, c, log, Alignment{0.0, 1.0 - 4e-5, 1.0});
   CHECK(k.coverage == 1.0);
@@ -463,7 +459,7 @@ TEST_CASE("a closed lap with one corner finds its braking point round the whole 
   t.profile = import_curvature(file);
   const Circuit c = lay_out(t, make_air(t.air));
   REQUIRE(c.corners.size() == 1);
-  const Lap lap = run_lap(medium(), c).lap;
+  const Lap lap = run_lap(test::pellion_medium(), c).lap;
   const Correlation k = correlate(lap, c, log_of(lap, c.mesh, 0.0, 1.0, 0.0));
   REQUIRE(k.corners.size() == 1);
   const CornerError& e = k.corners.front();
@@ -491,9 +487,9 @@ LoggedSpeed laps_of(const Lap& own, const Lap& other, const Mesh& mesh, double f
   const double L = mesh.length_m;
   for (int k = -1; k <= 2; ++k)
     for (std::size_t i = 0; i + 1 < mesh.size(); i += every) {
-      const double g = k * L + mesh.s_m[i];
-      if (g < -from_m || g > to_m) continue;
-      l.distance_m.push_back(stretch * (g + from_m));
+      const double s_lap = k * L + mesh.s_m[i];
+      if (s_lap < -from_m || s_lap > to_m) continue;
+      l.distance_m.push_back(stretch * (s_lap + from_m));
       l.speed_mps.push_back((k == 0 ? own : other).speed_mps[i]);
     }
   return l;
@@ -509,8 +505,8 @@ TEST_CASE("a log of more than one lap aligns its lap compared as that lap alone 
   // off, an RMS error of 1.19 km/h where the lap alone reads 0.11 (measured). Scored on the lap
   // compared, it aligns as the lap alone.
   const Circuit c = brannock();
-  const Lap own = run_lap(medium(), c).lap;
-  const Lap other = run_lap(medium().changed([](Car& k, AeroConfig& a) {
+  const Lap own = run_lap(test::pellion_medium(), c).lap;
+  const Lap other = run_lap(test::pellion_medium().changed([](Car& k, AeroConfig& a) {
                       for (double& t : k.powertrain.torque_nm) t *= 1.3;
                       for (double& v : a.cda_m2) v *= 0.8;
                     }),
@@ -549,7 +545,7 @@ TEST_CASE("a log whose rows are far apart along the track is warned of, not refu
   // speed, about 40 m/s: 8 Hz, so the least README, "Correlating with your data" advises,
   // 10 Hz); the figures are still given.
   const Circuit c = brannock();
-  const LapRun run = run_lap(medium(), c);
+  const LapRun run = run_lap(test::pellion_medium(), c);
   const auto spacing_warning = [](const Correlation& k) {
     for (const std::string& w : k.warnings)
       if (w.find("the log's rows are ") == 0) return w;

@@ -30,13 +30,9 @@ Circuit circuit(const char* file, double mesh_m) {
   return lay_out(t, make_air(t.air));
 }
 
-ConfiguredCar medium() {
-  return load_car(test::source_path("cars/pellion-fr2.yaml")).configured(1);
-}
-
 // The true car, made without the code under test: each value scaled in place.
 ConfiguredCar true_car(double grip, double power, double cda, double ellipse_exponent = 2.0) {
-  return medium().changed([&](Car& k, AeroConfig& a) {
+  return test::pellion_medium().changed([&](Car& k, AeroConfig& a) {
     k.tyres.mu_lat *= grip;
     k.tyres.mu_long *= grip;
     k.tyres.ellipse_exponent = ellipse_exponent;
@@ -78,7 +74,7 @@ TEST_CASE("fit recovers the grip, power and drag area of the car that wrote a no
   CHECK(units::to_kph(k.rms_speed_error_mps) < 1.0);
   CHECK(near(k.alignment.offset_m, 7.0, 0.0, 0.5));
   const auto t0 = std::chrono::steady_clock::now();
-  const FitResult r = fit(medium(), {{&c, &log.speed}}, grip_power_cda);
+  const FitResult r = fit(test::pellion_medium(), {{&c, &log.speed}}, grip_power_cda);
   MESSAGE("fit: " << std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count()
                   << " s, " << r.laps_solved << " laps; grip " << r.values[0] << ", power "
                   << r.values[1] << ", cda " << r.values[2] << "; RMS "
@@ -112,7 +108,7 @@ TEST_CASE("with a tyre model the true car does not share, fit still more than ha
   // The true car's friction ellipse is squarer (exponent 2.6 against the model's 2): it
   // combines braking and cornering better than any scaling of the model's mu can copy.
   const SpeedLogFile log = written_log(true_car(1.04, 0.95, 1.06, 2.6), c, "fit_mismatch.csv");
-  const FitResult r = fit(medium(), {{&c, &log.speed}}, grip_power_cda);
+  const FitResult r = fit(test::pellion_medium(), {{&c, &log.speed}}, grip_power_cda);
   MESSAGE("mismatch: RMS " << units::to_kph(r.rms_before_mps_all) << " -> "
                            << units::to_kph(r.rms_after_mps_all) << " km/h");
   CHECK(r.rms_after_mps_all < 0.5 * r.rms_before_mps_all);
@@ -124,8 +120,8 @@ TEST_CASE("logs of two circuits are fitted jointly, each with its own alignment"
   const ConfiguredCar truth = true_car(1.03, 1.0, 1.05);
   const SpeedLogFile la = written_log(truth, a, "fit_joint_a.csv");
   const SpeedLogFile lb = written_log(truth, b, "fit_joint_b.csv");
-  const FitResult r =
-      fit(medium(), {{&a, &la.speed}, {&b, &lb.speed}}, {FitParameter::grip, FitParameter::cda});
+  const FitResult r = fit(test::pellion_medium(), {{&a, &la.speed}, {&b, &lb.speed}},
+                          {FitParameter::grip, FitParameter::cda});
   REQUIRE(r.rms_after_mps.size() == 2);
   CHECK(near(r.values[0], 1.03, 0.01));
   CHECK(near(r.values[1], 1.05, 0.03));
@@ -146,12 +142,12 @@ TEST_CASE("a log of three laps is fitted on its lap compared, aligned as that la
   log.source = "three laps";
   for (int k = -1; k <= 1; ++k)
     for (std::size_t i = 0; i + 1 < c.mesh.size(); ++i) {
-      const double g = k * L + c.mesh.s_m[i];
-      if (g < -1000.0 || g > 2.0 * L - 600.0) continue;
-      log.distance_m.push_back(stretch * (g + 1000.0));
+      const double s_lap = k * L + c.mesh.s_m[i];
+      if (s_lap < -1000.0 || s_lap > 2.0 * L - 600.0) continue;
+      log.distance_m.push_back(stretch * (s_lap + 1000.0));
       log.speed_mps.push_back((k == 0 ? own : other).speed_mps[i]);
     }
-  const FitResult r = fit(medium(), {{&c, &log}}, grip_power_cda);
+  const FitResult r = fit(test::pellion_medium(), {{&c, &log}}, grip_power_cda);
   CAPTURE(r.final_alignments[0].offset_m);
   CAPTURE(r.values[1]);
   CAPTURE(r.values[2]);
@@ -165,7 +161,7 @@ TEST_CASE("a log of three laps is fitted on its lap compared, aligned as that la
 }
 
 TEST_CASE("fitted_car scales what each parameter names, and shifts the balance") {
-  const ConfiguredCar car = medium();
+  const ConfiguredCar car = test::pellion_medium();
   const ConfiguredCar f =
       fitted_car(car,
                  {FitParameter::grip_lat, FitParameter::grip_long, FitParameter::power,
@@ -184,9 +180,10 @@ TEST_CASE("fitted_car scales what each parameter names, and shifts the balance")
 TEST_CASE("fit refuses no parameter and a parameter freed twice") {
   const Circuit c = circuit("tracks/brannock-park.yaml", 2.0);
   LoggedSpeed none;
-  CHECK_THROWS_AS(fit(medium(), {{&c, &none}}, {}), InvalidInput);
-  CHECK_THROWS_AS(fit(medium(), {{&c, &none}}, {FitParameter::grip, FitParameter::grip}),
-                  InvalidInput);
+  CHECK_THROWS_AS(fit(test::pellion_medium(), {{&c, &none}}, {}), InvalidInput);
+  CHECK_THROWS_AS(
+      fit(test::pellion_medium(), {{&c, &none}}, {FitParameter::grip, FitParameter::grip}),
+      InvalidInput);
   CHECK(fit_parameter("grip_lat") == FitParameter::grip_lat);
   CHECK(!fit_parameter("downforce"));
 }
@@ -233,7 +230,7 @@ TEST_CASE(
   const ConfiguredCar truth = true_car(1.03, 1.0, 1.0);
   const SpeedLogFile ls = written_log(truth, slow, "fit_sep_slow.csv");
   const std::vector<FitParameter> grip_cla{FitParameter::grip, FitParameter::cla};
-  const FitResult one = fit(medium(), {{&slow, &ls.speed}}, grip_cla);
+  const FitResult one = fit(test::pellion_medium(), {{&slow, &ls.speed}}, grip_cla);
   // In slow corners downforce is small against weight: more mu or more ClA raise the same
   // speeds (common practice: the classic confound of a slow-circuit correlation).
   REQUIRE(one.covariance_found);
@@ -243,7 +240,8 @@ TEST_CASE(
   CHECK(one.inseparable[0].advice.find("fast corners") != std::string::npos);
   // With a fast circuit's log too, downforce's speed-squared growth tells them apart better.
   const SpeedLogFile lf = written_log(truth, fast, "fit_sep_fast.csv");
-  const FitResult both = fit(medium(), {{&slow, &ls.speed}, {&fast, &lf.speed}}, grip_cla);
+  const FitResult both =
+      fit(test::pellion_medium(), {{&slow, &ls.speed}, {&fast, &lf.speed}}, grip_cla);
   MESSAGE("grip-cla correlation, slow and fast circuits: " << both.correlation[0][1]);
   CHECK(std::abs(both.correlation[0][1]) < std::abs(one.correlation[0][1]));
   CHECK(near(both.values[0], 1.03, 0.01));
@@ -255,7 +253,7 @@ TEST_CASE("a freed factor with no effect on the lap has no standard error, not a
   // rank-deficient Jacobian when null_space_rank is 0). The fit must say it cannot tell, not
   // report cla as known to 0 %.
   const Circuit c = circuit("tracks/brannock-park.yaml", 2.0);
-  const ConfiguredCar flat = medium().changed([](Car&, AeroConfig& a) {
+  const ConfiguredCar flat = test::pellion_medium().changed([](Car&, AeroConfig& a) {
     for (double& v : a.cla_m2) v = 0.0;
   });
   const SpeedLogFile log = written_log(flat, c, "fit_flat.csv");
@@ -271,13 +269,13 @@ TEST_CASE("grip with grip_lat and grip_long is refused: three factors that are t
   // reported finite standard errors (0.026, 0.023, 0.023) for them, the central differences'
   // noise read as information. Refused before any lap is run, naming why.
   const Circuit c = circuit("tracks/brannock-park.yaml", 2.0);
-  const SpeedLogFile log = written_log(medium(), c, "fit_three_grips.csv");
+  const SpeedLogFile log = written_log(test::pellion_medium(), c, "fit_three_grips.csv");
   for (const auto& free : {std::vector<FitParameter>{FitParameter::grip, FitParameter::grip_lat,
                                                      FitParameter::grip_long},
                            std::vector<FitParameter>{FitParameter::grip_long, FitParameter::cda,
                                                      FitParameter::grip_lat, FitParameter::grip}}) {
     try {
-      fit(medium(), {{&c, &log.speed}}, free);
+      fit(test::pellion_medium(), {{&c, &log.speed}}, free);
       FAIL("expected an InvalidInput");
     } catch (const InvalidInput& e) {
       CHECK(e.subject() == "fit");
@@ -297,7 +295,7 @@ TEST_CASE("fit checks each log's alignment as correlate does: another track's lo
   // wherever the line lands (one lap of Cairnholt may be refused as covering under 98 %). One
   // lap of Brannock Park's length of it correlates at 0.50 to 0.53 where the line lands
   // (measured): the alignment is scored on the lap compared.
-  const SpeedLogFile one = written_log(medium(), ch, "fit_other_track.csv");
+  const SpeedLogFile one = written_log(test::pellion_medium(), ch, "fit_other_track.csv");
   LoggedSpeed other = one.speed;
   const std::size_t n = one.speed.speed_mps.size();
   const double lap_d = one.speed.distance_m.back() - one.speed.distance_m.front() + 2.0;
@@ -305,11 +303,11 @@ TEST_CASE("fit checks each log's alignment as correlate does: another track's lo
     other.distance_m.push_back(one.speed.distance_m[i] + lap_d);
     other.speed_mps.push_back(other.speed_mps[i]);
   }
-  const Alignment a = align_log(other, bp.mesh, run_lap(medium(), bp).lap.speed_mps);
+  const Alignment a = align_log(other, bp.mesh, run_lap(test::pellion_medium(), bp).lap.speed_mps);
   REQUIRE(a.correlation < correlate_min_trusted_correlation);
   FitOptions quick;
   quick.max_iterations = 5;
-  const FitResult r = fit(medium(), {{&bp, &other}}, {FitParameter::power}, quick);
+  const FitResult r = fit(test::pellion_medium(), {{&bp, &other}}, {FitParameter::power}, quick);
   CHECK(r.final_alignments[0].correlation < correlate_min_trusted_correlation);
   bool warned = false;
   for (const std::string& w : r.warnings)
@@ -317,8 +315,8 @@ TEST_CASE("fit checks each log's alignment as correlate does: another track's lo
                         w.find("not to be trusted") != std::string::npos);
   CHECK(warned);
   // The car's own log is not warned of.
-  const SpeedLogFile own = written_log(medium(), bp, "fit_own_track.csv");
-  CHECK(fit(medium(), {{&bp, &own.speed}}, {FitParameter::power}).warnings.empty());
+  const SpeedLogFile own = written_log(test::pellion_medium(), bp, "fit_own_track.csv");
+  CHECK(fit(test::pellion_medium(), {{&bp, &own.speed}}, {FitParameter::power}).warnings.empty());
 }
 
 TEST_CASE("fit aligns again until the alignment settles, and says when it does not") {
@@ -332,7 +330,7 @@ TEST_CASE("fit aligns again until the alignment settles, and says when it does n
   });
   const SpeedLogFile log = written_log(truth, c, "fit_far.csv");
   const std::vector<FitParameter> free{FitParameter::power, FitParameter::cda, FitParameter::cla};
-  const FitResult r = fit(medium(), {{&c, &log.speed}}, free);
+  const FitResult r = fit(test::pellion_medium(), {{&c, &log.speed}}, free);
   MESSAGE("far: " << r.rounds << " rounds, start offset " << r.alignments[0].offset_m << ", final "
                   << r.final_alignments[0].offset_m << ", RMS after "
                   << units::to_kph(r.rms_after_mps_all) << " km/h");
@@ -344,7 +342,7 @@ TEST_CASE("fit aligns again until the alignment settles, and says when it does n
   // A cap of one round: the alignment still moved, and the fit says so.
   FitOptions one;
   one.alignment_rounds = 1;
-  const FitResult capped = fit(medium(), {{&c, &log.speed}}, free, one);
+  const FitResult capped = fit(test::pellion_medium(), {{&c, &log.speed}}, free, one);
   CHECK_FALSE(capped.settled);
   REQUIRE_FALSE(capped.warnings.empty());
   CHECK(capped.warnings.back().find("the alignment still moved") == 0);
@@ -365,7 +363,7 @@ TEST_CASE("an RMS after the fit above the one before is explained") {
     log.distance_m.push_back(s + 7.0);
     log.speed_mps.push_back(truth.speed_mps[i] * (s > 1200.0 && s < 2000.0 ? 0.6 : 1.0));
   }
-  const FitResult r = fit(medium(), {{&c, &log}}, {FitParameter::grip});
+  const FitResult r = fit(test::pellion_medium(), {{&c, &log}}, {FitParameter::grip});
   MESSAGE("traffic: grip " << r.values[0] << ", RMS " << units::to_kph(r.rms_before_mps_all)
                            << " -> " << units::to_kph(r.rms_after_mps_all) << " km/h");
   // Towards the clean lap's 1.03 (1.019 measured: the traffic's points, each at the Huber
