@@ -33,7 +33,7 @@ using lapwing::test::near;
 using lapwing::test::sea_level;
 
 namespace {
-constexpr double g = units::g0;
+using units::g0;
 
 Lap solve(const Car& car, const Track& track) {
   const Envelope env(test::configured(car), sea_level);
@@ -45,7 +45,7 @@ TEST_CASE("steady circle speed matches sqrt(mu g R) without aero (Milliken; 0.1 
   for (double radius : {9.125, 50.0, 200.0}) {
     const Car car = test::plain_car(600.0, 1.5);
     const Lap lap = solve(car, test::circle_track(radius, 0.25));
-    const double v = std::sqrt(1.5 * g * radius);
+    const double v = std::sqrt(1.5 * g0 * radius);
     CHECK(near(lap.speed_mps[lap.speed_mps.size() / 2], v, 1e-3));
     // Lap time 2 pi R / v (REFERENCES, steady circle).
     CHECK(near(lap.lap_time_s, 2 * units::pi * radius / v, 1e-3));
@@ -58,7 +58,7 @@ TEST_CASE(
   car.configs.front().cla_m2 = {3.0};
   const double radius = 50.0, rho = sea_level.density_kg_m3;
   const Lap lap = solve(car, test::circle_track(radius, 0.25));
-  const double v2 = 1.5 * g * radius / (1.0 - 1.5 * rho * 3.0 * radius / (2.0 * 600.0));
+  const double v2 = 1.5 * g0 * radius / (1.0 - 1.5 * rho * 3.0 * radius / (2.0 * 600.0));
   CHECK(near(lap.speed_mps[10], std::sqrt(v2), 1e-3));
   CHECK(near(lap.lap_time_s, 2 * units::pi * radius / std::sqrt(v2), 1e-3));
 }
@@ -74,7 +74,7 @@ TEST_CASE("braking distance on the level is v^2 / (2 mu g) (Gillespie; 0.2 %)") 
   const SweepResult b = sweep(env, mesh, Sweep::backward, free, mesh.size() - 1, 0.0);
   for (std::size_t i = 0; i + 1 < mesh.size(); i += 97) {
     const double v = b.speed_mps[i];
-    CHECK(near(v * v / (2 * mu * g), length - mesh.s_m[i], 2e-3));
+    CHECK(near(v * v / (2 * mu * g0), length - mesh.s_m[i], 2e-3));
   }
 }
 
@@ -84,8 +84,8 @@ TEST_CASE(
   const Car car = test::plain_car(m, mu, power);
   const Lap lap = solve(car, test::straight_track(length, 0.1, 0.0));
   // Below v* = P / (m mu g) the tyres limit: a = mu g, v^2 = 2 mu g s, t = v / (mu g).
-  const double v_star = power / (m * mu * g);
-  const double s_star = v_star * v_star / (2 * mu * g), t_star = v_star / (mu * g);
+  const double v_star = power / (m * mu * g0);
+  const double s_star = v_star * v_star / (2 * mu * g0), t_star = v_star / (mu * g0);
   const double v_end = std::cbrt(std::pow(v_star, 3) + 3 * power * (length - s_star) / m);
   // Above it: t = t* + m (v^2 - v*^2) / (2 P).
   const double t_end = t_star + m * (v_end * v_end - v_star * v_star) / (2 * power);
@@ -93,7 +93,7 @@ TEST_CASE(
   CHECK(near(lap.lap_time_s, t_end, 2e-3));
   // Mid-way through the traction-limited part.
   const std::size_t i = static_cast<std::size_t>(0.5 * s_star / 0.1);
-  CHECK(near(lap.speed_mps[i], std::sqrt(2 * mu * g * 0.1 * static_cast<double>(i)), 2e-3));
+  CHECK(near(lap.speed_mps[i], std::sqrt(2 * mu * g0 * 0.1 * static_cast<double>(i)), 2e-3));
 }
 
 TEST_CASE("constant force against quadratic drag follows the tanh law (Taylor 2.4; 0.2 %)") {
@@ -140,7 +140,7 @@ TEST_CASE(
   const double k = 0.5 * sea_level.density_kg_m3 * cda;
   double v = 300.0;
   for (int i = 0; i < 60; ++i)
-    v -= (k * v * v * v + crr * m * g * v - eta * power) / (3 * k * v * v + crr * m * g);
+    v -= (k * v * v * v + crr * m * g0 * v - eta * power) / (3 * k * v * v + crr * m * g0);
   REQUIRE(v > 150.0);
   const Envelope env(test::configured(car), sea_level);
   CHECK(env.top_speed_limit() == TopSpeedLimit::drag);
@@ -540,7 +540,7 @@ TEST_CASE(
     // an inertia factor wrongly applied.
     for (std::size_t i = 0; i + 1 < mesh.size(); i += 97) {
       const double v = b.speed_mps[i];
-      CHECK(near(v * v / (2 * mu * g), length - mesh.s_m[i], 1e-3));
+      CHECK(near(v * v / (2 * mu * g0), length - mesh.s_m[i], 1e-3));
     }
   }
 }
@@ -554,15 +554,15 @@ TEST_CASE(
   const double m_eff = m * (1 + f);
   const Lap lap = solve(car, test::straight_track(length, 0.1, 0.0));
   // The tyres limit while P / v over m_eff exceeds mu g over m: a = mu g, v^2 = 2 mu g s.
-  const double v_star = power / (m_eff * mu * g);
-  const double s_star = v_star * v_star / (2 * mu * g), t_star = v_star / (mu * g);
+  const double v_star = power / (m_eff * mu * g0);
+  const double s_star = v_star * v_star / (2 * mu * g0), t_star = v_star / (mu * g0);
   // Then m_eff v dv/dt = P: v^3 = v*^3 + 3 P (s - s*) / m_eff, t = t* + m_eff (v^2 - v*^2) / 2P.
   const double v_end = std::cbrt(std::pow(v_star, 3) + 3 * power * (length - s_star) / m_eff);
   const double t_end = t_star + m_eff * (v_end * v_end - v_star * v_star) / (2 * power);
   CHECK(near(lap.speed_mps.back(), v_end, 2e-3));
   CHECK(near(lap.lap_time_s, t_end, 2e-3));
   const std::size_t i = static_cast<std::size_t>(0.5 * s_star / 0.1);
-  CHECK(near(lap.speed_mps[i], std::sqrt(2 * mu * g * 0.1 * static_cast<double>(i)), 2e-3));
+  CHECK(near(lap.speed_mps[i], std::sqrt(2 * mu * g0 * 0.1 * static_cast<double>(i)), 2e-3));
 }
 
 // Hairpins at the grip limit (issue 10, item 3). In a slow corner d(v^2)/ds is stiff where the
@@ -672,7 +672,7 @@ TEST_CASE(
     if (i > 0) rk4_worst = std::max(rk4_worst, std::abs(f4.speed_mps[i] * f4.speed_mps[i] / u - 1));
   }
   CHECK(rk4_worst > 1e-6);  // RK4 on the same mesh is not exact
-  const double v_end = 20.0, c = mu * g;
+  const double v_end = 20.0, c = mu * g0;
   const SweepResult r =
       sweep(env, mesh, Sweep::backward, free, n - 1, v_end, Integrator::exponential);
   for (std::size_t i = 0; i < n; ++i) {
