@@ -990,6 +990,9 @@ double split_step(Sw& s, double u0, double x0, double h, const StageCheck& flagg
 // whose closed form is u(x) = A/B + (u0 - A/B) e^{-2 B x}. For z = h J -> -inf, u1 ->
 // u_m - f_m / J: the root of the linearisation, where the sweep settles at the grip limit, for
 // any step (no substeps: phi1 is bounded by 1 for z <= 0).
+// Where z = h J is beyond exponential_jump_z (16), J is a secant across a jump in the model,
+// not a slope, and the step takes f_m alone (base/exp_ratio.hpp, exponential_update): phi1
+// would overflow beyond z = 709.8 and make the speed a NaN.
 //
 // J is the difference quotient of two evaluations at the midpoint, the second a reach
 // d = max(2/3 h |f_m|, 1e-5 max(u_m, 1 m^2/s^2)) from u_m the way the sweep moves (the other
@@ -1030,7 +1033,7 @@ template <class Sw, std::size_t N>
     s[c]->nudge_hints(ud[c] - um[c]);
     const double j = (fm[c] - s[c]->rhs(ud[c], xm)) * inv_du[c];
     s[c]->note_second_reading(j);
-    u1[c] = u0[c] + h * phi1(h * j) * (fm[c] + j * (u0[c] - um[c]));
+    u1[c] = exponential_update(u0[c], um[c], fm[c], j, h);
   }
   return u1;
 }

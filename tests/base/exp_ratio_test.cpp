@@ -1,7 +1,8 @@
 // phi1(z) = (e^z - 1) / z (base/exp_ratio.hpp), the exponential step's factor, against 50-digit
 // arithmetic: Boost.Multiprecision's cpp_bin_float_50 (a general-purpose reference library), its
 // expm1 correct far beyond double's 16 digits. The error is counted in units in the last place
-// (ulp) of the exact value.
+// (ulp) of the exact value. And the exponential step's end built on it, against the closed form
+// of its linear equation in the same arithmetic.
 #include <doctest/doctest.h>
 
 #include <boost/random/mersenne_twister.hpp>
@@ -67,4 +68,47 @@ TEST_CASE("phi1 beyond the series' range is expm1(z) / z, 1 at 0, and tends to -
   CHECK(std::abs(above - below) <= 4.0 * std::numeric_limits<double>::epsilon());
   // A NaN stays a NaN.
   CHECK(std::isnan(phi1(std::numeric_limits<double>::quiet_NaN())));
+}
+
+TEST_CASE(
+    "the exponential step's end solves u' = f_m + J (u - u_m) exactly, and a jump stays finite") {
+  // The linear equation's closed form in another arrangement (w = u - u_m + f_m / J has
+  // w' = J w, so u(h) = u_m - f_m / J + (u0 - u_m + f_m / J) e^(h J)), in 50-digit arithmetic.
+  // The step's own form rounds a few times on the increment h phi1 (f_m + J (u0 - u_m)) (phi1
+  // within 1 ulp, four roundings after it) and once on the sum: 8 ulp of the larger of u0 and
+  // u1 allowed, with f_m and J (u0 - u_m) of one sign or apart in size (no cancellation between
+  // them). Values: u = v^2 from 5 to 80 m/s, f_m = 2 a for a car's accelerations (-40 to +40
+  // m^2/s^2 per m), slopes from a car's 1e-3 per metre to the grip limit's steep ones.
+  double worst = 0.0;
+  for (double u0 : {25.0, 900.0, 6400.0})
+    for (double dm : {0.0, 3.0})
+      for (double fm : {-40.0, 5.0, 20.0})
+        for (double j : {-1e4, -100.0, -1.0, -0.0025, 0.0025, 0.5, 1.0, 30.0})
+          for (double h : {0.25, 0.5, 2.0}) {
+            if (h * j > exponential_jump_z) continue;
+            const double um = u0 - dm;
+            const double u1 = exponential_update(u0, um, fm, j, h);
+            const Exact J(j), w0 = Exact(u0) - Exact(um) + Exact(fm) / J;
+            const Exact exact =
+                Exact(um) - Exact(fm) / J + w0 * boost::multiprecision::exp(Exact(h) * J);
+            const double err =
+                static_cast<double>(abs(Exact(u1) - exact)) /
+                (std::numeric_limits<double>::epsilon() * std::max(std::abs(u0), std::abs(u1)));
+            worst = std::max(worst, err);
+          }
+  INFO("worst " << worst << " ulp of max(|u0|, |u1|)");
+  CHECK(worst <= 8.0);
+  // A secant across a jump in the model (h J beyond exponential_jump_z): the step on the
+  // midpoint's reading alone, finite where phi1 alone would overflow (h J > 709.8) and read
+  // inf x 0 as a NaN where f_m + J (u0 - u_m) is 0.
+  for (double j : {33.0, 1500.0, 1e300, std::numeric_limits<double>::infinity()}) {
+    CHECK(exponential_update(400.0, 400.0, 12.0, j, 0.5) == 400.0 + 0.5 * 12.0);
+    CHECK(std::isfinite(exponential_update(400.0, 400.0 + 12.0 / j, 12.0, j, 0.5)));
+  }
+  // Just under the threshold the exact solution stands (e^15.5 growth, finite).
+  CHECK(exponential_update(400.0, 400.0, 12.0, 31.0, 0.5) ==
+        doctest::Approx(400.0 + 0.5 * phi1(15.5) * 12.0).epsilon(1e-15));
+  // A NaN slope stays a NaN.
+  CHECK(std::isnan(
+      exponential_update(400.0, 400.0, 12.0, std::numeric_limits<double>::quiet_NaN(), 0.5)));
 }

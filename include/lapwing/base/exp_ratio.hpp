@@ -33,4 +33,23 @@ inline double phi1(double z) {
   return 1.0 + z * q;
 }
 
+/// The exponential step's growth beyond which its slope is a jump, not a slope: h J above 16
+/// (u would grow e^16, 9 million-fold, over one step). A smooth model's slope gives |h J| far
+/// below 1 (J some 1e-3 per metre for a car, steps of 0.5 m: |h J| under 0.25 on every step of
+/// the bundled cars and tracks, under 0.8 on every step of the tests, counted once); a secant
+/// across a jump in the model between its two readings (the axle model's fixed point taking
+/// another root there: README, "Limitations and cautions") can reach any size, and beyond
+/// h J = 709.8 phi1 overflows to infinity (and inf x 0 is a NaN).
+inline constexpr double exponential_jump_z = 16.0;
+
+/// The exponential step's end (solve/solver.cpp): the linear equation u' = f_m + J (u - u_m)
+/// solved exactly from u0 over a step h, u1 = u0 + h phi1(h J) (f_m + J (u0 - u_m)). Where h J
+/// is beyond exponential_jump_z, the slope is taken as 0: u1 = u0 + h f_m (the step on its
+/// midpoint's reading alone, which the sweep's limit then clips as any step), finite wherever
+/// u0, f_m and h are. A NaN slope stays a NaN.
+inline double exponential_update(double u0, double um, double fm, double j, double h) {
+  if (h * j > exponential_jump_z) return u0 + h * fm;
+  return u0 + h * phi1(h * j) * (fm + j * (u0 - um));
+}
+
 }  // namespace lapwing
