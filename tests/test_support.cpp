@@ -57,11 +57,6 @@ std::string scratch_file(const std::string& name, const std::string& text) {
   return path;
 }
 
-std::string write_file(const std::string& path, const std::string& text) {
-  std::ofstream(path) << text;
-  return path;
-}
-
 ConfiguredCar pellion_medium() {
   return load_car(source_path("cars/pellion-fr2.yaml")).configured(1);
 }

@@ -49,10 +49,6 @@ std::string scratch_dir();
 /// `text` written to scratch_dir()/name (replacing any earlier file of that name); its path.
 std::string scratch_file(const std::string& name, const std::string& text);
 
-/// `text` written to `path` (a relative path: in the test's working folder), replacing any file
-/// there; the path.
-std::string write_file(const std::string& path, const std::string& text);
-
 /// The bundled Pellion FR-2 in its second config ("medium").
 ConfiguredCar pellion_medium();
 

@@ -30,7 +30,7 @@ TEST_CASE("a clean lap rebuilt from its own log laps within 0.1 % of the origina
   for (std::size_t i = 0; i < c.mesh.size(); i += 2)
     log << c.mesh.s_m[i] << "," << run.lap.speed_mps[i] / units::kph << ","
         << run.lap.lat_accel_mps2[i] / units::g0 << "\n";
-  const std::string f = test::write_file("import_log.csv", log.str());
+  const std::string f = test::scratch_file("import_log.csv", log.str());
   LogOptions o;
   o.log = f;
   o.speed = "speed_kph";
@@ -38,9 +38,9 @@ TEST_CASE("a clean lap rebuilt from its own log laps within 0.1 % of the origina
   o.distance = "distance_m";
   o.closed = true;
   const LogTrack t = track_from_log(o, "import_log_track.csv");
-  test::write_file("import_log_track.yaml", t.yaml);
-  test::write_file("import_log_track.csv", t.csv);
-  const Track rebuilt = load_track("import_log_track.yaml");
+  test::scratch_file("import_log_track.yaml", t.yaml);
+  test::scratch_file("import_log_track.csv", t.csv);
+  const Track rebuilt = load_track(test::scratch_dir() + "/import_log_track.yaml");
   const Circuit c2 = lay_out(rebuilt, make_air(original.air));
   // Issue 13's target: smoothing auto (GCV on the log's rows, 1 m apart) keeps the lap within
   // 0.1 % (measured 0.02 %; at the old fixed 20 m it came out 0.47 % fast: the hairpins rounded
@@ -51,8 +51,6 @@ TEST_CASE("a clean lap rebuilt from its own log laps within 0.1 % of the origina
   const Closure cl = closure(rebuilt);
   CHECK(std::abs(cl.heading_gap_rad) < 1e-6);
   CHECK(cl.position_gap_m < 0.5);
-  for (const char* name : {"import_log.csv", "import_log_track.yaml", "import_log_track.csv"})
-    std::remove(name);
 }
 
 namespace {
@@ -70,7 +68,7 @@ std::string brannock_log(const std::string& name, double* first_speed_mps = null
     log << c.mesh.s_m[i] << "," << run.lap.speed_mps[i] / units::kph << ","
         << run.lap.lat_accel_mps2[i] / units::g0 << "," << run.lap.lat_accel_mps2[i] << "\n";
   if (first_speed_mps) *first_speed_mps = run.lap.speed_mps[0];
-  return test::write_file(name, log.str());
+  return test::scratch_file(name, log.str());
 }
 
 LogOptions log_options(const std::string& file, const std::string& column,
@@ -116,7 +114,6 @@ TEST_CASE("a log read in the wrong acceleration unit is refused, naming --accel-
   CAPTURE(large);
   CHECK(large.find("more than the 8 g") != std::string::npos);
   CHECK(large.find("give --accel-unit m/s2") != std::string::npos);
-  std::remove(f.c_str());
 }
 
 TEST_CASE("a lap that does not close but turns once is not blamed on the acceleration unit") {
@@ -133,14 +130,13 @@ TEST_CASE("a lap that does not close but turns once is not blamed on the acceler
   while (std::getline(in, line))
     if (std::stod(line.substr(0, line.find(','))) >= 150.0) cut << line << "\n";
   in.close();
-  test::write_file(f, cut.str());
+  test::scratch_file("import_cut_log.csv", cut.str());
   const std::string e = error_of(log_options(f, "lat_g", "g"));
   CAPTURE(e);
   CHECK(e.find("the lap does not close") != std::string::npos);
   CHECK(e.find("9.81") == std::string::npos);
   CHECK(e.find("the units look right") != std::string::npos);
   CHECK(e.find("the log may not start and end at the same place") != std::string::npos);
-  std::remove(f.c_str());
 }
 
 TEST_CASE("an open log keeps its first speed as start_speed; the air given goes into the track") {
@@ -151,9 +147,9 @@ TEST_CASE("an open log keeps its first speed as start_speed; the air given goes 
   o.air.altitude_m = 1200.0;
   o.air.temperature_k = 304.15;
   const LogTrack t = track_from_log(o, "import_open_log_track.csv");
-  test::write_file("import_open_log_track.yaml", t.yaml);
-  test::write_file("import_open_log_track.csv", t.csv);
-  const Track track = load_track("import_open_log_track.yaml");
+  test::scratch_file("import_open_log_track.yaml", t.yaml);
+  test::scratch_file("import_open_log_track.csv", t.csv);
+  const Track track = load_track(test::scratch_dir() + "/import_open_log_track.yaml");
   CHECK_FALSE(track.closed);
   // The log's speed went through km/h and back: equal to round-off (1e-12 relative).
   CHECK(near(track.start_speed_mps, first, 1e-12));
@@ -167,9 +163,6 @@ TEST_CASE("an open log keeps its first speed as start_speed; the air given goes 
   const std::string fast = error_of(o);
   CAPTURE(fast);
   CHECK(fast.find("read with --speed-unit m/s") != std::string::npos);
-  for (const char* name :
-       {"import_open_log.csv", "import_open_log_track.yaml", "import_open_log_track.csv"})
-    std::remove(name);
 }
 
 TEST_CASE("log options name the first missing column, unknown unit or bad value") {

@@ -109,8 +109,8 @@ TEST_CASE("a centerline with 0.5 m of noise laps within 3 % of the clean one (sm
     nx.push_back(c.mesh.x_m[i] + 0.5 * noise.gauss());
     ny.push_back(c.mesh.y_m[i] + 0.5 * noise.gauss());
   }
-  const std::string clean_csv = test::write_file("import_clean_2m.csv", points_csv(x, y));
-  const std::string noisy_csv = test::write_file("import_noisy_2m.csv", points_csv(nx, ny));
+  const std::string clean_csv = test::scratch_file("import_clean_2m.csv", points_csv(x, y));
+  const std::string noisy_csv = test::scratch_file("import_noisy_2m.csv", points_csv(nx, ny));
   Track clean = twin, noisy = twin;
   clean.segments.clear();
   noisy.segments.clear();
@@ -132,39 +132,34 @@ TEST_CASE("a centerline with 0.5 m of noise laps within 3 % of the clean one (sm
     // ... and the noise makes no extra corners.
     CHECK(b.summary.corners.size() == a.summary.corners.size());
   }
-  std::remove(clean_csv.c_str());
-  std::remove(noisy_csv.c_str());
 }
 
 TEST_CASE("columns a data file has but lapwing does not read are named in a note") {
   std::ostringstream os;
   os << "x_m,y_m,width_m\n";
   for (int i = 0; i < 20; ++i) os << 10 * i << ",0,12\n";
-  const std::string f = test::write_file("import_extra_column.csv", os.str());
+  const std::string f = test::scratch_file("import_extra_column.csv", os.str());
   const PathProfile p = import_centerline(f, false, CenterlineOptions{});
   REQUIRE(p.notes.size() == 1);
   CHECK(p.notes[0].find("column 'width_m' not used") != std::string::npos);
-  std::remove(f.c_str());
 
   std::ostringstream k;
   k << "distance_m,curvature_1pm,speed_kph,bank_deg\n";
   for (int i = 0; i < 20; ++i) k << 10 * i << ",0.01,100,2\n";
-  const std::string g = test::write_file("import_extra_column_k.csv", k.str());
+  const std::string g = test::scratch_file("import_extra_column_k.csv", k.str());
   const PathProfile q = import_curvature(g);
   REQUIRE(q.notes.size() == 1);
   CHECK(q.notes[0].find("column 'speed_kph' not used") != std::string::npos);
   // bank_deg is read, in rad, one per row (+ helping a left turn).
   REQUIRE(q.bank_rad.size() == 20);
   CHECK(q.bank_rad[5] == doctest::Approx(2 * units::deg));
-  std::remove(g.c_str());
 
   // Only the columns read: no note.
   std::ostringstream plain;
   plain << "x_m,y_m\n";
   for (int i = 0; i < 20; ++i) plain << 10 * i << ",0\n";
-  const std::string h = test::write_file("import_no_extra.csv", plain.str());
+  const std::string h = test::scratch_file("import_no_extra.csv", plain.str());
   CHECK(import_centerline(h, false, CenterlineOptions{}).notes.empty());
-  std::remove(h.c_str());
 }
 
 TEST_CASE("a hole in a centerline's points is a dropout warning naming its lines (the log rule)") {
@@ -182,17 +177,18 @@ TEST_CASE("a hole in a centerline's points is a dropout warning naming its lines
       x.push_back(radius * std::sin(a));
       y.push_back(radius * (1 - std::cos(a)));
     }
-    return test::write_file("ring_dropout.csv", points_csv(x, y));
+    return test::scratch_file("ring_dropout.csv", points_csv(x, y));
   };
   {
-    const PathProfile p = import_centerline(ring(100, 130), true, CenterlineOptions{});
+    const std::string f = ring(100, 130);
+    const PathProfile p = import_centerline(f, true, CenterlineOptions{});
     REQUIRE(p.warnings.size() == 1);
     const double chord = 2 * radius * std::sin(31 * units::pi / 180);
     CHECK(near(chord, 51.5, 0.0, 0.05));
     CHECK(p.warnings[0] ==
-          "ring_dropout.csv: points 51.5 m apart from line 101 to line 102 (the median is 1.75 "
-          "m): a dropout (over 10 m and 4 times the median); the track across it is the fit's "
-          "guess, not the road: add the missing points");
+          f + ": points 51.5 m apart from line 101 to line 102 (the median is 1.75 "
+              "m): a dropout (over 10 m and 4 times the median); the track across it is the fit's "
+              "guess, not the road: add the missing points");
   }
   CHECK(import_centerline(ring(0, 0), true, CenterlineOptions{}).warnings.empty());
   CHECK(import_centerline(ring(50, 51), true, CenterlineOptions{}).warnings.empty());
@@ -205,11 +201,10 @@ TEST_CASE("a hole in a centerline's points is a dropout warning naming its lines
       x.push_back(radius * std::sin(a));
       y.push_back(radius * (1 - std::cos(a)));
     }
-    const PathProfile p = import_centerline(test::write_file("ring_dropout.csv", points_csv(x, y)),
-                                            true, CenterlineOptions{});
+    const PathProfile p = import_centerline(
+        test::scratch_file("ring_dropout.csv", points_csv(x, y)), true, CenterlineOptions{});
     REQUIRE(p.warnings.size() == 1);
     CHECK(p.warnings[0].find("51.5 m apart from line 91 to line 92") != std::string::npos);
     CHECK(p.warnings[0].find("(and 1 more such gap)") != std::string::npos);
   }
-  std::remove("ring_dropout.csv");
 }
