@@ -38,9 +38,9 @@ TEST_CASE("a clean lap rebuilt from its own log laps within 0.1 % of the origina
   o.distance = "distance_m";
   o.closed = true;
   const LogTrack t = track_from_log(o, "import_log_track.csv");
-  test::scratch_file("import_log_track.yaml", t.yaml);
+  const std::string yaml = test::scratch_file("import_log_track.yaml", t.yaml);
   test::scratch_file("import_log_track.csv", t.csv);
-  const Track rebuilt = load_track(test::scratch_dir() + "/import_log_track.yaml");
+  const Track rebuilt = load_track(yaml);
   const Circuit c2 = lay_out(rebuilt, make_air(original.air));
   // Issue 13's target: smoothing auto (GCV on the log's rows, 1 m apart) keeps the lap within
   // 0.1 % (measured 0.02 %; at the old fixed 20 m it came out 0.47 % fast: the hairpins rounded
@@ -130,7 +130,7 @@ TEST_CASE("a lap that does not close but turns once is not blamed on the acceler
   while (std::getline(in, line))
     if (std::stod(line.substr(0, line.find(','))) >= 150.0) cut << line << "\n";
   in.close();
-  test::scratch_file("import_cut_log.csv", cut.str());
+  REQUIRE(test::scratch_file("import_cut_log.csv", cut.str()) == f);  // the log, cut
   const std::string e = error_of(log_options(f, "lat_g", "g"));
   CAPTURE(e);
   CHECK(e.find("the lap does not close") != std::string::npos);
@@ -147,9 +147,9 @@ TEST_CASE("an open log keeps its first speed as start_speed; the air given goes 
   o.air.altitude_m = 1200.0;
   o.air.temperature_k = 304.15;
   const LogTrack t = track_from_log(o, "import_open_log_track.csv");
-  test::scratch_file("import_open_log_track.yaml", t.yaml);
+  const std::string yaml = test::scratch_file("import_open_log_track.yaml", t.yaml);
   test::scratch_file("import_open_log_track.csv", t.csv);
-  const Track track = load_track(test::scratch_dir() + "/import_open_log_track.yaml");
+  const Track track = load_track(yaml);
   CHECK_FALSE(track.closed);
   // The log's speed went through km/h and back: equal to round-off (1e-12 relative).
   CHECK(near(track.start_speed_mps, first, 1e-12));
