@@ -6,6 +6,7 @@
 #include <cassert>
 #include <cmath>
 #include <functional>
+#include <limits>
 #include <memory>
 #include <stdexcept>
 #include <string>
@@ -272,6 +273,13 @@ Envelope::Envelope(Unchecked, const ConfiguredCar& configured, const Car& car, c
                                           boost::math::tools::eps_tolerance<double>(48), iters);
     v_top_ = 0.5 * (lo + hi);
   }
+  // The least resistance on a level road in still air: crr W + u (drag_coef + crr lift_coef),
+  // the coefficients linear in u between rows, so at least crr W wherever the sum is at least 0
+  // at every row.
+  double least_coef = std::numeric_limits<double>::infinity();
+  for (const Sample& row : rows_)
+    least_coef = std::min(least_coef, row.drag_coef + crr_ * row.lift_coef);
+  level_resistance_floor_mps2_ = least_coef >= 0.0 ? crr_ * weight_ / mass_ : 0.0;
   if (options.level_tables && car.model == VehicleModel::axle)
     level_ = std::make_shared<const LevelTables>(build_level_tables(*this));
 }

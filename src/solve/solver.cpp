@@ -481,6 +481,14 @@ constexpr double secant_reach = 2.0 / 3.0;
 // surely positive: a thousand times the axle model's tolerance (1e-9 m/s^2) and thirty times
 // the straight-line tables' (3e-8 m/s^2), so that neither can turn it.
 constexpr double held_margin_mps2 = 1e-6;
+// The backward sweep's steps over a stretch where it is above the forward sweep
+// (Sweeper::skippable): taken at once where braking on the level decelerates by at least this
+// much at any speed (Envelope::level_resistance_floor_mps2; some 0.13 m/s^2 for the bundled
+// cars, whose rolling resistance is 0.013): every step then raises u by 2 x 0.01 x the step
+// or more, 1e-2 m^2/s^2 at 0.5 m, some 5 000 times the straight-line step tables' error and
+// far beyond the integrator's. And the relative margin on the speeds compared there.
+constexpr double skip_floor_mps2 = 0.01;
+constexpr double skip_margin = 1e-12;
 
 // One sweep, one step at a time, so that the forward and the backward sweep can advance in
 // lockstep: two independent chains of dependent arithmetic keep the processor busier than one
@@ -799,6 +807,55 @@ class Sweeper {
   /// part's: nothing after it reads it.)
   bool on_limit_afresh() const { return v_ == limit_[i_] && cut_left_s_ == 0.0; }
 
+  /// A backward sweep on a level mesh beside the forward sweep's final speeds (`forward`),
+  /// which it may step over where it is above them (skippable); null: it takes every step.
+  void set_above(const std::vector<double>* forward) { above_ = forward; }
+  bool skips() const { return above_ != nullptr; }
+  /// Steps the backward sweep can take at once from the current point at speed v: the count to
+  /// the first point j whose limit is at or below v, where no point before j has a forward
+  /// speed at or above v (0 where there is none within `max_steps`; `scanned`: the steps looked
+  /// at). Braking on a level road decelerates by at least the resistance's floor
+  /// (Envelope::level_resistance_floor_mps2, at least skip_floor_mps2 where set_above is
+  /// called), so the sweep's speed only rises step by step from v (u by some 0.1 m^2/s^2 a
+  /// step, far beyond the steps' errors): at every point before j it stays at or above v
+  /// (or its limit there, which is above v), above the forward sweep, and the lap's speed
+  /// there is the forward sweep's whatever the backward sweep's exact value; at j it is
+  /// clipped to the limit (Sweeper::end_step), exactly as the steps would leave it. The margin
+  /// (skip_margin) covers the rounding of the speeds' square roots.
+  std::size_t skippable(std::size_t max_steps, std::size_t& scanned) const {
+    const std::vector<double>& forward = *above_;
+    const double v = v_ * (1.0 - skip_margin);
+    std::size_t i = i_;
+    scanned = 1;
+    if (!(forward[i] < v)) return 0;
+    for (std::size_t c = 1; c <= max_steps; ++c) {
+      i = next(i);
+      if (limit_[i] <= v) return c;
+      if (!(forward[i] < v)) {
+        scanned = c;
+        return 0;
+      }
+    }
+    scanned = std::max<std::size_t>(max_steps, 1);
+    return 0;
+  }
+  /// Takes the `c` steps skippable found: the points on the way keep the speed at the start
+  /// (at or below what the steps would give them, above the forward sweep's), the last its
+  /// limit. Returns u there, for the next step.
+  double skip(std::size_t c) {
+    const double v = v_;
+    std::size_t i = i_;
+    for (std::size_t k = 1; k < c; ++k) {
+      i = next(i);
+      r_.speed_mps[i] = v;
+    }
+    i = next(i);
+    v_ = limit_[i];
+    r_.speed_mps[i] = v_;
+    i_ = i;
+    return v_ * v_;
+  }
+
   void finish() {
     if (mesh_.closed) {
       // The seam: point n-1 is point 0 again.
@@ -849,6 +906,7 @@ class Sweeper {
     bool valid = false;
   };
   Held held_;
+  const std::vector<double>* above_ = nullptr;  // set_above
   // The hints' moves (predict_hints and nudge_hints): each axle's roots at the first readings
   // of the steps in a row that solved it (latest first; n of them hold), the point the last
   // such step ended at, the last two secants, and each axle's hint before a move and after it.
@@ -1092,6 +1150,8 @@ struct Lane {
   bool taken = false;
   std::ptrdiff_t at = -1;
   std::exception_ptr error;
+  std::size_t scan_at = 0;    // the step from which try_skip looks again
+  std::size_t scan_wait = 1;  // steps to wait after a look that found nothing (doubling)
 
   Lane() = default;
   Lane(Sw& sweeper, std::size_t from, std::size_t to, std::size_t split_at)
@@ -1100,7 +1160,31 @@ struct Lane {
         k(from),
         end(to),
         split(split_at),
-        at(static_cast<std::ptrdiff_t>(from) - 1) {}
+        at(static_cast<std::ptrdiff_t>(from) - 1),
+        scan_at(from) {}
+  // Whether the part may skip steps (Sweeper::set_above), and looks for a stretch to skip at
+  // the step it is at.
+  bool scans() const { return s->skips(); }
+  bool scan_due(std::size_t c) const { return k + c >= scan_at; }
+  // Once ready: the steps Sweeper::skippable finds taken at once (no further than the
+  // hand-over's test or the end). Where it finds none, the next look waits for the point the
+  // scan stopped at, and at least 1, 2, 4 ... up to max_scan_wait steps after looks that found
+  // nothing in a row (a braking zone, where the backward sweep is below the forward one step
+  // after step: a look at every step would cost more than the steps).
+  static constexpr std::size_t max_scan_wait = 64;
+  void try_skip() {
+    if (!scans() || !scan_due(0)) return;
+    std::size_t scanned = 0;
+    if (const std::size_t c = s->skippable(run(), scanned)) {
+      at = static_cast<std::ptrdiff_t>(k + c - 1);
+      u = s->skip(c);
+      k += c;
+      scan_wait = 1;
+    } else {
+      scan_at = k + std::max(scanned, scan_wait);
+      scan_wait = std::min(2 * scan_wait, max_scan_wait);
+    }
+  }
   // Whether the part has a step to take (testing the hand-over where it is due).
   bool ready() {
     if (!s || error || k >= end) return false;
@@ -1140,12 +1224,19 @@ struct Lane {
 template <Integrator I, class Sw>
 void lockstep(Lane<Sw>& a, Lane<Sw>& b, double h, bool quick) {
   while (a.ready() && b.ready()) {
+    // A stretch a part skips (try_skip) can end on its hand-over's test or its end.
+    a.try_skip();
+    b.try_skip();
+    if (!a.ready() || !b.ready()) break;
     Sw& sa = *a.s;
     Sw& sb = *b.s;
+    const bool scan_a = a.scans(), scan_b = b.scans();
     const std::size_t m = std::min(a.run(), b.run());
     double u_a = a.u, u_b = b.u, ua = 0.0, ub = 0.0;
     std::size_t c = 0;
+    bool stopped = false;
     for (; c < m; ++c) {
+      if ((scan_a && a.scan_due(c)) || (scan_b && b.scan_due(c))) break;
       const bool ta = quick_step<I>(sa, u_a, ua, quick), tb = quick_step<I>(sb, u_b, ub, quick);
       if (!ta && !tb) {
         const std::array<double, 2> u1 =
@@ -1157,7 +1248,10 @@ void lockstep(Lane<Sw>& a, Lane<Sw>& b, double h, bool quick) {
       } else if (!tb) {
         ub = step<I, Sw, 1>({&sb}, {sb.begin_step(u_b)}, h)[0];
       }
-      if (!(ua > 0.0) || !(ub > 0.0)) break;  // Sweeper::end_step throws there
+      if (!(ua > 0.0) || !(ub > 0.0)) {  // Sweeper::end_step throws there
+        stopped = true;
+        break;
+      }
       u_a = sa.end_step(ua);
       u_b = sb.end_step(ub);
     }
@@ -1165,7 +1259,7 @@ void lockstep(Lane<Sw>& a, Lane<Sw>& b, double h, bool quick) {
     b.u = u_b;
     a.k += c;
     b.k += c;
-    if (c < m) {  // a step that stops the car, in either part or both
+    if (stopped) {  // a step that stops the car, in either part or both
       a.end_step(ua);
       b.end_step(ub);
     }
@@ -1175,18 +1269,26 @@ void lockstep(Lane<Sw>& a, Lane<Sw>& b, double h, bool quick) {
 template <Integrator I, class Sw>
 void alone(Lane<Sw>& a, double h, bool quick) {
   while (a.ready()) {
+    a.try_skip();
+    if (!a.ready()) break;
     Sw& sa = *a.s;
+    const bool scan = a.scans();
     const std::size_t m = a.run();
     double u = a.u, u1 = 0.0;
     std::size_t c = 0;
+    bool stopped = false;
     for (; c < m; ++c) {
+      if (scan && a.scan_due(c)) break;
       if (!quick_step<I>(sa, u, u1, quick)) u1 = step<I, Sw, 1>({&sa}, {sa.begin_step(u)}, h)[0];
-      if (!(u1 > 0.0)) break;  // Sweeper::end_step throws there
+      if (!(u1 > 0.0)) {  // Sweeper::end_step throws there
+        stopped = true;
+        break;
+      }
       u = sa.end_step(u1);
     }
     a.u = u;
     a.k += c;
-    if (c < m) a.end_step(u1);
+    if (stopped) a.end_step(u1);
   }
 }
 
@@ -1412,6 +1514,83 @@ void sweep_apart(const Envelope& env, const Mesh& mesh, const std::vector<double
                                    b_part, steps, quick, second);
 }
 
+// A closed lap's sweeps on a level mesh, in two phases (README, "Performance", "The backward
+// sweep over the stretches above the forward one"): the forward sweep first, then the backward
+// sweep beside the forward sweep's final speeds, stepping at once over the stretches where it
+// stands above them (Sweeper::skippable): there the lap's speed is the forward sweep's, and the
+// stretch ends where the backward sweep is clipped to its limit, as the steps would leave it.
+// Each sweep in two parts, its second afresh on the limit at its split point (phase_splits),
+// as sweep_apart's: side by side in lockstep on one thread, one on each of two, the same steps
+// either way, so that the lap is the same bit for bit. A forward sweep that stops the car, or
+// must run again from the speed it came round at (speed_pass), leaves the backward sweep to
+// take every step (its final speeds are not there yet); the error rethrown is join_parts'.
+template <bool Axle, Integrator I>
+void sweep_phases(const Envelope& env, const Mesh& mesh, const std::vector<double>& limit,
+                  std::size_t i0, SweepSplits split, SweepResult& fwd, SweepResult& bwd,
+                  SweepResult& f_part, SweepResult& b_part, const StepTables* steps, bool quick,
+                  SecondThread* second) {
+  using Sw = Sweeper<Axle, true>;
+  const double h = mesh.step_m;
+  const double v0 = limit[i0];
+  // One sweep's parts into `first` and `other` (what they leave: Lane::outcome). On two
+  // threads each part's Sweeper is made on its own thread's stack: nothing either writes as it
+  // steps shares a cache line with the other's (sweep_apart).
+  const auto phase = [&](Sweep d, std::size_t at, SweepResult& r, SweepResult& part,
+                         const std::vector<double>* above, Lane<Sw>& first, Lane<Sw>& other) {
+    const auto second_of = [&](std::optional<Sw>& s2, std::size_t n) {
+      Lane<Sw> b = second_part(s2, env, mesh, d, limit, i0, at, n, part, steps);
+      if (s2) s2->set_above(above);
+      return b;
+    };
+    Sw s(env, mesh, d, limit, i0, v0, r, steps);
+    s.set_above(above);
+    const std::size_t n = s.steps();
+    Lane<Sw> a(s, 0, n, at);
+    if (at < n && second) {
+      std::exception_ptr failed;
+      second->start([&] {
+        try {
+          std::optional<Sw> s2;
+          Lane<Sw> b = second_of(s2, n);
+          alone<I>(b, h, quick);
+          other = b.outcome();
+        } catch (...) {
+          failed = std::current_exception();
+        }
+      });
+      try {
+        alone<I>(a, h, quick);
+      } catch (...) {
+        second->wait_quietly();
+        throw;
+      }
+      second->wait();
+      if (failed) std::rethrow_exception(failed);
+    } else {
+      std::optional<Sw> s2;
+      Lane<Sw> b = at < n ? second_of(s2, n) : Lane<Sw>();
+      both_then_alone<I>(a, b, h, quick);
+      other = b.outcome();
+    }
+    s.finish();
+    first = a.outcome();
+  };
+  Lane<Sw> f1, f2, b1, b2;
+  phase(Sweep::forward, split.forward, fwd, f_part, nullptr, f1, f2);
+  const Lane<Sw>& f = f1.error || !f1.taken ? f1 : f2;
+  bool final_forward = !f.error;
+  if (final_forward) {
+    if (f1.taken) take_part(mesh, Sweep::forward, i0, f1.split, f_part, fwd);
+    final_forward = !(fwd.speed_mps[i0] < limit[i0]);
+  }
+  phase(Sweep::backward, split.backward, bwd, b_part, final_forward ? &fwd.speed_mps : nullptr, b1,
+        b2);
+  const Lane<Sw>& b = b1.error || !b1.taken ? b1 : b2;
+  if (f.error && (!b.error || f.at <= b.at)) std::rethrow_exception(f.error);
+  if (b.error) std::rethrow_exception(b.error);
+  if (b1.taken) take_part(mesh, Sweep::backward, i0, b1.split, b_part, bwd);
+}
+
 // The exponential step with no limit on a level straight in still air, as the sweeps take it
 // there (Sweeper::rhs at curvature 0 on a level road): the lane the step tables are built from.
 struct FreeLane {
@@ -1488,11 +1667,10 @@ namespace {
 
 // The step tables for a lap on `mesh` with the exponential step, where the Envelope has
 // straight-line tables and the mesh enough straight steps; else null.
-std::shared_ptr<const StepTables> step_tables_for(const Envelope& env, const Mesh& mesh,
-                                                  Integrator integrator, bool wanted) {
-  if (!wanted || integrator != Integrator::exponential || !env.level_tables()) return nullptr;
-  // Steps the tables can answer: curvature 0 at both ends, level and in still air at the first
-  // (a count that decides whether to build, not which step reads the tables).
+// Whether a mesh has at least min_straight_steps steps the step tables can answer: curvature 0
+// at both ends, level and in still air at the first (a count that decides whether to build
+// them, and which order a closed lap's sweeps take, not which step reads the tables).
+bool many_straight_steps(const Mesh& mesh) {
   // Counted in blocks of points, each block's count a loop without a branch (which the
   // compiler vectorises on a level mesh), until the count is reached.
   std::size_t straight = 0;
@@ -1508,7 +1686,14 @@ std::shared_ptr<const StepTables> step_tables_for(const Envelope& env, const Mes
       for (std::size_t i = lo; i < hi; ++i)
         straight += k[i] == 0.0 && k[i + 1] == 0.0 && mesh.level_in_still_air(i);
   }
-  if (straight < min_straight_steps) return nullptr;
+  return straight >= min_straight_steps;
+}
+
+std::shared_ptr<const StepTables> step_tables_for(const Envelope& env, const Mesh& mesh,
+                                                  Integrator integrator, bool wanted) {
+  if (!wanted || integrator != Integrator::exponential || !env.level_tables() ||
+      !many_straight_steps(mesh))
+    return nullptr;
   const double h = mesh.step_m;
   return env.level_tables()->steps->get(h, [&] { return build_step_tables(env, h); });
 }
@@ -1585,6 +1770,29 @@ SweepSplits lap_splits(const Mesh& mesh, const std::vector<double>& steady, std:
     }
   }
   return forward ? SweepSplits{split, period} : SweepSplits{period, split};
+}
+
+// The splits of sweep_phases: each sweep's at the slowest point (as lap_splits picks it) in
+// the middle fifth of its steps from i0, so that the two parts of each phase are about even;
+// a sweep with no such point, or on a mesh too short to share, stays whole.
+SweepSplits phase_splits(const Mesh& mesh, const std::vector<double>& steady, std::size_t i0) {
+  const std::size_t n = mesh.size(), period = n - 1;
+  if (!mesh.closed || n < min_points_apart) return {period, period};
+  const auto split_of = [&](bool forward) {
+    std::size_t split = period;
+    double slowest = std::numeric_limits<double>::infinity();
+    for (std::size_t k = period * 4 / 10, end = period * 6 / 10; k < end; ++k) {
+      const std::size_t i = forward ? (i0 + k) % period : (i0 + period - k) % period;
+      const std::size_t before = i == 0 ? period - 1 : i - 1, after = i + 1 == period ? 0 : i + 1;
+      const std::size_t from = forward ? before : after, to = forward ? after : before;
+      if (steady[i] < steady[from] && steady[i] <= steady[to] && steady[i] < slowest) {
+        slowest = steady[i];
+        split = k;
+      }
+    }
+    return split;
+  };
+  return {split_of(true), split_of(false)};
 }
 
 }  // namespace
@@ -1677,7 +1885,14 @@ void LapSolver::speed_pass(const Envelope& env, const Mesh& mesh, double start_s
     const std::size_t i0 = static_cast<std::size_t>(
         std::min_element(steady.begin(), steady.begin() + static_cast<std::ptrdiff_t>(period)) -
         steady.begin());
-    both(steady, i0, steady[i0], i0, steady[i0], lap_splits(mesh, steady, i0));
+    if (quick_steps_ && level_mesh(mesh) && !many_straight_steps(mesh) &&
+        env.level_resistance_floor_mps2() >= skip_floor_mps2)
+      dispatch(env, integrator_, [&]<bool Axle, Integrator I>() {
+        sweep_phases<Axle, I>(env, mesh, steady, i0, phase_splits(mesh, steady, i0), fwd, bwd,
+                              forward_part_, backward_part_, tables.get(), quick_steps_, second);
+      });
+    else
+      both(steady, i0, steady[i0], i0, steady[i0], lap_splits(mesh, steady, i0));
     // A sweep that comes round slower than it started (it could not regain the start speed)
     // runs once more from the speed it arrived at, so that the lap is periodic.
     if (fwd.speed_mps[i0] < steady[i0]) fwd = again(steady, Sweep::forward, i0, fwd.speed_mps[i0]);

@@ -160,6 +160,12 @@ class Envelope {
   /// point mass or where EnvelopeOptions::level_tables is off.
   const LevelTables* level_tables() const { return level_.get(); }
   double rolling_resistance() const { return crr_; }
+  /// A floor under the resistance's deceleration (m/s^2) on a level road in still air at any
+  /// speed of the tables: rolling resistance on the weight, where drag and rolling resistance
+  /// on the downforce add to it at every speed (they do unless a ride-height map's lift or
+  /// drag turns negative); else 0. Braking on such a road decelerates by at least this much
+  /// (the tyres' force left is never negative).
+  double level_resistance_floor_mps2() const { return level_resistance_floor_mps2_; }
 
   /// The forces on the road at u = v^2 on a point of curvature |k| (model/loads.hpp): the
   /// aero forces at the airspeed (airspeed_squared), the share of the weight the road carries
@@ -215,6 +221,7 @@ class Envelope {
   double power_ratio_ = 1.0;
   TransferPerNewton transfer_;
   double mass_, mass_eff_, weight_, crr_, rho_;
+  double level_resistance_floor_mps2_ = 0.0;
   double v_max_, v_top_, du_, inv_du_;
   TopSpeedLimit top_limit_ = TopSpeedLimit::drag, table_top_ = TopSpeedLimit::drag;
   double table_margin_;
