@@ -807,29 +807,36 @@ class Sweeper {
   /// part's: nothing after it reads it.)
   bool on_limit_afresh() const { return v_ == limit_[i_] && cut_left_s_ == 0.0; }
 
-  /// A backward sweep on a level mesh beside the forward sweep's final speeds (`forward`),
+  /// A backward sweep beside the forward sweep's final speeds (`forward`),
   /// which it may step over where it is above them (skippable); null: it takes every step.
   void set_above(const std::vector<double>* forward) { above_ = forward; }
   bool skips() const { return above_ != nullptr; }
   /// Steps the backward sweep can take at once from the current point at speed v: the count to
   /// the first point j whose limit is at or below v, where no point before j has a forward
   /// speed at or above v (0 where there is none within `max_steps`; `scanned`: the steps looked
-  /// at). Braking on a level road decelerates by at least the resistance's floor
-  /// (Envelope::level_resistance_floor_mps2, at least skip_floor_mps2 where set_above is
-  /// called), so the sweep's speed only rises step by step from v (u by some 0.1 m^2/s^2 a
+  /// at). Braking decelerates by at least the resistance, whose floor on a level road in still
+  /// air (Envelope::level_resistance_floor_mps2) is at least skip_floor_mps2 where set_above is
+  /// called, so the sweep's speed only rises step by step from v (u by some 0.1 m^2/s^2 a
   /// step, far beyond the steps' errors): at every point before j it stays at or above v
   /// (or its limit there, which is above v), above the forward sweep, and the lap's speed
   /// there is the forward sweep's whatever the backward sweep's exact value; at j it is
   /// clipped to the limit (Sweeper::end_step), exactly as the steps would leave it. The margin
   /// (skip_margin) covers the rounding of the speeds' square roots.
-  std::size_t skippable(std::size_t max_steps, std::size_t& scanned) const {
+  /// Off a level mesh the floor holds for a step only where its road's grade and bank leave
+  /// it (surely_decelerates).
+  std::size_t skippable(std::size_t max_steps, std::size_t& scanned) {
     const std::vector<double>& forward = *above_;
     const double v = v_ * (1.0 - skip_margin);
     std::size_t i = i_;
     scanned = 1;
     if (!(forward[i] < v)) return 0;
     for (std::size_t c = 1; c <= max_steps; ++c) {
+      const std::size_t from = i;
       i = next(i);
+      if (!Level && !surely_decelerates(from, i)) {
+        scanned = c;
+        return 0;
+      }
       if (limit_[i] <= v) return c;
       if (!(forward[i] < v)) {
         scanned = c;
@@ -838,6 +845,29 @@ class Sweeper {
     }
     scanned = std::max<std::size_t>(max_steps, 1);
     return 0;
+  }
+  /// Whether braking surely decelerates by skip_floor_mps2 over the backward step from point
+  /// `from` to the next, `to`, at any speed it can have there (up to the higher of the two
+  /// limits): R = u (drag_coef + crr lift_coef) + crr W c + W sin(slope) on the step's road (the
+  /// one at `to`, as begin_step reads it), whose first term is not negative (the Envelope's
+  /// floor is set) and whose share of the weight on the road c = cos(slope) cos(bank) +
+  /// (u |k| / g) sin(bank) (body_loads) is least at the highest u and |k| on a bank that falls
+  /// away from the turn, at the lowest (0) on one that rises to it. A head wind (a tail wind
+  /// can make the drag push) ends the stretch.
+  bool surely_decelerates(std::size_t from, std::size_t to) {
+    const Road road = road_at(to);
+    if (road.head_wind_mps != 0.0) return false;
+    double share = road.cos_slope * road.cos_bank;
+    if (road.sin_bank < 0.0) {
+      const double top = std::max(limit_[from] * limit_[from], limit_[to] * limit_[to]);
+      const double k =
+          std::max(std::abs(mesh_.curvature_1pm[from]), std::abs(mesh_.curvature_1pm[to]));
+      share += top * k * road.sin_bank * (1.0 / units::g0);
+    }
+    const double weight = env_.weight_n();
+    const double floor =
+        (env_.rolling_resistance() * weight * share + weight * road.sin_slope) * inv_mass_.m;
+    return floor >= skip_floor_mps2;
   }
   /// Takes the `c` steps skippable found: the points on the way keep the speed at the start
   /// (at or below what the steps would give them, above the forward sweep's), the last its
@@ -1514,22 +1544,23 @@ void sweep_apart(const Envelope& env, const Mesh& mesh, const std::vector<double
                                    b_part, steps, quick, second);
 }
 
-// A closed lap's sweeps on a level mesh, in two phases (README, "Performance", "The backward
-// sweep over the stretches above the forward one"): the forward sweep first, then the backward
-// sweep beside the forward sweep's final speeds, stepping at once over the stretches where it
-// stands above them (Sweeper::skippable): there the lap's speed is the forward sweep's, and the
-// stretch ends where the backward sweep is clipped to its limit, as the steps would leave it.
+// A closed lap's sweeps in two phases, where few of its steps are level straight ones
+// (README, "Performance", "The backward sweep over the stretches above the forward one"): the
+// forward sweep first, then the backward sweep beside the forward sweep's final speeds,
+// stepping at once over the stretches where it stands above them (Sweeper::skippable): there
+// the lap's speed is the forward sweep's, and the stretch ends where the backward sweep is
+// clipped to its limit, as the steps would leave it.
 // Each sweep in two parts, its second afresh on the limit at its split point (phase_splits),
 // as sweep_apart's: side by side in lockstep on one thread, one on each of two, the same steps
 // either way, so that the lap is the same bit for bit. A forward sweep that stops the car, or
 // must run again from the speed it came round at (speed_pass), leaves the backward sweep to
 // take every step (its final speeds are not there yet); the error rethrown is join_parts'.
-template <bool Axle, Integrator I>
-void sweep_phases(const Envelope& env, const Mesh& mesh, const std::vector<double>& limit,
-                  std::size_t i0, SweepSplits split, SweepResult& fwd, SweepResult& bwd,
-                  SweepResult& f_part, SweepResult& b_part, const StepTables* steps, bool quick,
-                  SecondThread* second) {
-  using Sw = Sweeper<Axle, true>;
+template <bool Axle, Integrator I, bool Level>
+void sweep_phases_as(const Envelope& env, const Mesh& mesh, const std::vector<double>& limit,
+                     std::size_t i0, SweepSplits split, SweepResult& fwd, SweepResult& bwd,
+                     SweepResult& f_part, SweepResult& b_part, const StepTables* steps, bool quick,
+                     SecondThread* second) {
+  using Sw = Sweeper<Axle, Level>;
   const double h = mesh.step_m;
   const double v0 = limit[i0];
   // One sweep's parts into `first` and `other` (what they leave: Lane::outcome). On two
@@ -1589,6 +1620,18 @@ void sweep_phases(const Envelope& env, const Mesh& mesh, const std::vector<doubl
   if (f.error && (!b.error || f.at <= b.at)) std::rethrow_exception(f.error);
   if (b.error) std::rethrow_exception(b.error);
   if (b1.taken) take_part(mesh, Sweep::backward, i0, b1.split, b_part, bwd);
+}
+template <bool Axle, Integrator I>
+void sweep_phases(const Envelope& env, const Mesh& mesh, const std::vector<double>& limit,
+                  std::size_t i0, SweepSplits split, SweepResult& fwd, SweepResult& bwd,
+                  SweepResult& f_part, SweepResult& b_part, const StepTables* steps, bool quick,
+                  SecondThread* second) {
+  if (level_mesh(mesh))
+    sweep_phases_as<Axle, I, true>(env, mesh, limit, i0, split, fwd, bwd, f_part, b_part, steps,
+                                   quick, second);
+  else
+    sweep_phases_as<Axle, I, false>(env, mesh, limit, i0, split, fwd, bwd, f_part, b_part, steps,
+                                    quick, second);
 }
 
 // The exponential step with no limit on a level straight in still air, as the sweeps take it
@@ -1885,7 +1928,7 @@ void LapSolver::speed_pass(const Envelope& env, const Mesh& mesh, double start_s
     const std::size_t i0 = static_cast<std::size_t>(
         std::min_element(steady.begin(), steady.begin() + static_cast<std::ptrdiff_t>(period)) -
         steady.begin());
-    if (quick_steps_ && level_mesh(mesh) && !many_straight_steps(mesh) &&
+    if (quick_steps_ && !many_straight_steps(mesh) &&
         env.level_resistance_floor_mps2() >= skip_floor_mps2)
       dispatch(env, integrator_, [&]<bool Axle, Integrator I>() {
         sweep_phases<Axle, I>(env, mesh, steady, i0, phase_splits(mesh, steady, i0), fwd, bwd,

@@ -154,8 +154,8 @@ std::size_t forward_split(const Mesh& mesh, const std::vector<double>& steady, s
 /// brakes at every ripple of the limit and is the longer): the slowest steady point 80 to 90 %
 /// of its way round to which the limit falls from the point after it (its point before), the
 /// second part beside the forward sweep on the first thread. Throws as forward_split.
-/// (A closed level mesh with fewer than 2 000 straight steps, such a centerline laid flat,
-/// takes its sweeps one after the other instead, each split near half way; see
+/// (A closed mesh with fewer than 2 000 level straight steps, a fitted centerline or a graded
+/// circuit, takes its sweeps one after the other instead, each split near half way; see
 /// README, "Performance", "The backward sweep over the stretches above the forward one".
 /// LapSolver without its quick steps keeps the splits above.)
 std::size_t backward_split(const Mesh& mesh, const std::vector<double>& steady, std::size_t i0);
