@@ -1774,6 +1774,26 @@ SweepResult sweep(const Envelope& env, const Mesh& mesh, Sweep direction,
 
 namespace {
 
+// The step count k in [lo, hi) from i0 along a sweep (forward or backward round a period of
+// `period` points) of the slowest steady point to which the limit falls from the point before
+// it along the sweep and no faster point follows (a corner's apex, or the first point of its
+// arc); `period` where there is none.
+std::size_t slowest_split(const std::vector<double>& steady, std::size_t i0, std::size_t period,
+                          bool forward, std::size_t lo, std::size_t hi) {
+  std::size_t split = period;
+  double slowest = std::numeric_limits<double>::infinity();
+  for (std::size_t k = lo; k < hi; ++k) {
+    const std::size_t i = forward ? (i0 + k) % period : (i0 + period - k) % period;
+    const std::size_t before = i == 0 ? period - 1 : i - 1, after = i + 1 == period ? 0 : i + 1;
+    const std::size_t from = forward ? before : after, to = forward ? after : before;
+    if (steady[i] < steady[from] && steady[i] <= steady[to] && steady[i] < slowest) {
+      slowest = steady[i];
+      split = k;
+    }
+  }
+  return split;
+}
+
 // forward_split and backward_split (solver.hpp), worked together (one scan of the curvature):
 // the slowest point 80 to 90 % of the way round along the sweep to which the limit falls from
 // the point before it along the sweep, on a closed mesh of min_points_apart points or more,
@@ -1801,17 +1821,8 @@ SweepSplits lap_splits(const Mesh& mesh, const std::vector<double>& steady, std:
   for (std::size_t i = 1; i < n && 2 * repeats < period && 2 * changes <= period; ++i)
     (mesh.curvature_1pm[i] == mesh.curvature_1pm[i - 1] ? repeats : changes) += 1;
   const bool forward = 2 * repeats >= period;  // which sweep splits; the other stays whole
-  std::size_t split = period;
-  double slowest = std::numeric_limits<double>::infinity();
-  for (std::size_t k = period * 8 / 10, end = period * 9 / 10; k < end; ++k) {
-    const std::size_t i = forward ? (i0 + k) % period : (i0 + period - k) % period;
-    const std::size_t before = i == 0 ? period - 1 : i - 1, after = i + 1 == period ? 0 : i + 1;
-    const std::size_t from = forward ? before : after, to = forward ? after : before;
-    if (steady[i] < steady[from] && steady[i] <= steady[to] && steady[i] < slowest) {
-      slowest = steady[i];
-      split = k;
-    }
-  }
+  const std::size_t split =
+      slowest_split(steady, i0, period, forward, period * 8 / 10, period * 9 / 10);
   return forward ? SweepSplits{split, period} : SweepSplits{period, split};
 }
 
@@ -1821,21 +1832,9 @@ SweepSplits lap_splits(const Mesh& mesh, const std::vector<double>& steady, std:
 SweepSplits phase_splits(const Mesh& mesh, const std::vector<double>& steady, std::size_t i0) {
   const std::size_t n = mesh.size(), period = n - 1;
   if (!mesh.closed || n < min_points_apart) return {period, period};
-  const auto split_of = [&](bool forward) {
-    std::size_t split = period;
-    double slowest = std::numeric_limits<double>::infinity();
-    for (std::size_t k = period * 4 / 10, end = period * 6 / 10; k < end; ++k) {
-      const std::size_t i = forward ? (i0 + k) % period : (i0 + period - k) % period;
-      const std::size_t before = i == 0 ? period - 1 : i - 1, after = i + 1 == period ? 0 : i + 1;
-      const std::size_t from = forward ? before : after, to = forward ? after : before;
-      if (steady[i] < steady[from] && steady[i] <= steady[to] && steady[i] < slowest) {
-        slowest = steady[i];
-        split = k;
-      }
-    }
-    return split;
-  };
-  return {split_of(true), split_of(false)};
+  const std::size_t lo = period * 4 / 10, hi = period * 6 / 10;
+  return {slowest_split(steady, i0, period, true, lo, hi),
+          slowest_split(steady, i0, period, false, lo, hi)};
 }
 
 }  // namespace
