@@ -1,10 +1,15 @@
 #include "lapwing/study/track_quality.hpp"
 
 #include <algorithm>
+#include <array>
 #include <cmath>
+#include <memory>
+#include <string>
+#include <vector>
 
 #include "lapwing/base/error.hpp"
 #include "lapwing/base/format.hpp"
+#include "lapwing/base/halves.hpp"
 #include "lapwing/path/centerline.hpp"
 #include "lapwing/path/racing_line.hpp"
 
@@ -53,20 +58,32 @@ SmoothingVariants smoothing_variants(const Circuit& c) {
   const double factor = std::pow(2.0, 1.0 / (2 * centerline_order));
   v.half_length_m = p->smoothing_m / factor;
   v.double_length_m = p->smoothing_m * factor;
-  auto variant = [&](double f, const char* name) -> std::optional<Circuit> {
+  // Each variant with the notes it leaves; the two are independent (a refit and a layout of
+  // their own), so they are made side by side where there are two processors, and their
+  // notes kept in the same order either way.
+  std::array<std::vector<std::string>, 2> notes;
+  auto variant = [&](double f, const char* name,
+                     std::vector<std::string>& said) -> std::optional<Circuit> {
     try {
       Track t = c.track;
       t.profile = refit_centerline(*p, t.closed, f);
       if (t.line) lay_racing_line(t);
       return lay_out(t, c.air, MeshPositions::left_out);  // its lap time alone is read
     } catch (const InvalidInput& e) {
-      v.notes.push_back(std::string("the centerline at ") + name + " strength (" +
-                        fixed(p->smoothing_m * f, 1) + " m) cannot be laid out: " + e.message());
+      said.push_back(std::string("the centerline at ") + name + " strength (" +
+                     fixed(p->smoothing_m * f, 1) + " m) cannot be laid out: " + e.message());
     }
     return std::nullopt;
   };
-  v.half = variant(1.0 / factor, "half");
-  v.twice = variant(factor, "double");
+  const std::unique_ptr<SecondThread> second =
+      usable_processors() >= 2 ? SecondThread::try_start() : nullptr;
+  in_halves(2, second.get(), [&](std::size_t which, std::size_t) {
+    if (which == 0)
+      v.half = variant(1.0 / factor, "half", notes[0]);
+    else
+      v.twice = variant(factor, "double", notes[1]);
+  });
+  for (const auto& said : notes) v.notes.insert(v.notes.end(), said.begin(), said.end());
   return v;
 }
 
