@@ -1180,6 +1180,7 @@ struct Lane {
   bool taken = false;
   std::ptrdiff_t at = -1;
   std::exception_ptr error;
+  std::size_t skipped = 0;    // steps try_skip took at once
   std::size_t scan_at = 0;    // the step from which try_skip looks again
   std::size_t scan_wait = 1;  // steps to wait after a look that found nothing (doubling)
 
@@ -1209,6 +1210,7 @@ struct Lane {
       at = static_cast<std::ptrdiff_t>(k + c - 1);
       u = s->skip(c);
       k += c;
+      skipped += c;
       scan_wait = 1;
     } else {
       scan_at = k + std::max(scanned, scan_wait);
@@ -1559,7 +1561,7 @@ template <bool Axle, Integrator I, bool Level>
 void sweep_phases_as(const Envelope& env, const Mesh& mesh, const std::vector<double>& limit,
                      std::size_t i0, SweepSplits split, SweepResult& fwd, SweepResult& bwd,
                      SweepResult& f_part, SweepResult& b_part, const StepTables* steps, bool quick,
-                     SecondThread* second) {
+                     SecondThread* second, std::size_t& skipped) {
   using Sw = Sweeper<Axle, Level>;
   const double h = mesh.step_m;
   const double v0 = limit[i0];
@@ -1620,18 +1622,19 @@ void sweep_phases_as(const Envelope& env, const Mesh& mesh, const std::vector<do
   if (f.error && (!b.error || f.at <= b.at)) std::rethrow_exception(f.error);
   if (b.error) std::rethrow_exception(b.error);
   if (b1.taken) take_part(mesh, Sweep::backward, i0, b1.split, b_part, bwd);
+  skipped = b1.skipped + (b1.taken ? b2.skipped : 0);
 }
 template <bool Axle, Integrator I>
 void sweep_phases(const Envelope& env, const Mesh& mesh, const std::vector<double>& limit,
                   std::size_t i0, SweepSplits split, SweepResult& fwd, SweepResult& bwd,
                   SweepResult& f_part, SweepResult& b_part, const StepTables* steps, bool quick,
-                  SecondThread* second) {
+                  SecondThread* second, std::size_t& skipped) {
   if (level_mesh(mesh))
     sweep_phases_as<Axle, I, true>(env, mesh, limit, i0, split, fwd, bwd, f_part, b_part, steps,
-                                   quick, second);
+                                   quick, second, skipped);
   else
     sweep_phases_as<Axle, I, false>(env, mesh, limit, i0, split, fwd, bwd, f_part, b_part, steps,
-                                    quick, second);
+                                    quick, second, skipped);
 }
 
 // The exponential step with no limit on a level straight in still air, as the sweeps take it
@@ -1896,6 +1899,7 @@ void LapSolver::speed_pass(const Envelope& env, const Mesh& mesh, double start_s
   Lap& lap = lap_;
   lap.has_channels = lap.has_loads = false;  // none of this lap yet (also if the solve throws)
   speed_solved_ = false;
+  skipped_steps_ = 0;
   SecondThread* const second = second_thread(n);
   steady_halves(env, mesh, steady_, second);
   const auto& steady = steady_.speed_mps;
@@ -1931,7 +1935,8 @@ void LapSolver::speed_pass(const Envelope& env, const Mesh& mesh, double start_s
         env.level_resistance_floor_mps2() >= skip_floor_mps2)
       dispatch(env, integrator_, [&]<bool Axle, Integrator I>() {
         sweep_phases<Axle, I>(env, mesh, steady, i0, phase_splits(mesh, steady, i0), fwd, bwd,
-                              forward_part_, backward_part_, tables.get(), quick_steps_, second);
+                              forward_part_, backward_part_, tables.get(), quick_steps_, second,
+                              skipped_steps_);
       });
     else
       both(steady, i0, steady[i0], i0, steady[i0], lap_splits(mesh, steady, i0));

@@ -275,6 +275,10 @@ class LapSolver {
   /// slows to it) the tyres' and the axles' limit alone. A start above it is clipped to it, and
   /// is the track's error (run_lap).
   double start_limit_mps() const { return start_limit_mps_; }
+  /// The backward sweep's steps the last speed solve took at once, over its stretches above the
+  /// forward sweep (README, "Performance", "The backward sweep over the stretches above the
+  /// forward one"); 0 where it took every step. A figure of the solve's work, not of the lap.
+  std::size_t skipped_steps() const { return skipped_steps_; }
 
  private:
   /// The speed solve into lap_, its channels left as they were (has_channels false).
@@ -287,6 +291,7 @@ class LapSolver {
   Integrator integrator_;
   bool quick_steps_;
   unsigned threads_ = 1;
+  std::size_t skipped_steps_ = 0;
   std::unique_ptr<SecondThread> second_;
   Lap lap_;
   SteadyProfile steady_;
