@@ -1406,18 +1406,28 @@ void take_part(const Mesh& mesh, Sweep direction, std::size_t s0, std::size_t sp
   }
 }
 
-// After the parts: the error the lockstep of the whole sweeps would have met first rethrown (of
-// each sweep, its first part's, else its second part's where that was taken; of the two, the
-// lower step's, counted along each sweep from its start, the forward sweep's at the same step),
-// else the second parts taken into the sweeps' results.
+// The part whose outcome stands for a sweep: its first part's where that failed or went on to
+// the end, else its second part's.
+template <class Sw>
+const Lane<Sw>& sweep_outcome(const Lane<Sw>& first, const Lane<Sw>& second) {
+  return first.error || !first.taken ? first : second;
+}
+// The error the lockstep of the whole sweeps would have met first rethrown, where either sweep
+// (sweep_outcome) has one: of the two, the lower step's, counted along each sweep from its
+// start, the forward sweep's at the same step.
+template <class Sw>
+void rethrow_first_error(const Lane<Sw>& f, const Lane<Sw>& b) {
+  if (f.error && (!b.error || f.at <= b.at)) std::rethrow_exception(f.error);
+  if (b.error) std::rethrow_exception(b.error);
+}
+
+// After the parts: the first error rethrown (rethrow_first_error), else the second parts taken
+// into the sweeps' results.
 template <class Sw>
 void join_parts(const Mesh& mesh, std::size_t f0, std::size_t b0, const Lane<Sw>& f1,
                 const Lane<Sw>& f2, const Lane<Sw>& b1, const Lane<Sw>& b2, SweepResult& fwd,
                 SweepResult& bwd, const SweepResult& f_part, const SweepResult& b_part) {
-  const Lane<Sw>& f = f1.error || !f1.taken ? f1 : f2;
-  const Lane<Sw>& b = b1.error || !b1.taken ? b1 : b2;
-  if (f.error && (!b.error || f.at <= b.at)) std::rethrow_exception(f.error);
-  if (b.error) std::rethrow_exception(b.error);
+  rethrow_first_error(sweep_outcome(f1, f2), sweep_outcome(b1, b2));
   if (f1.taken) take_part(mesh, Sweep::forward, f0, f1.split, f_part, fwd);
   if (b1.taken) take_part(mesh, Sweep::backward, b0, b1.split, b_part, bwd);
 }
@@ -1610,7 +1620,7 @@ void sweep_phases_as(const Envelope& env, const Mesh& mesh, const std::vector<do
   };
   Lane<Sw> f1, f2, b1, b2;
   phase(Sweep::forward, split.forward, fwd, f_part, nullptr, f1, f2);
-  const Lane<Sw>& f = f1.error || !f1.taken ? f1 : f2;
+  const Lane<Sw>& f = sweep_outcome(f1, f2);
   bool final_forward = !f.error;
   if (final_forward) {
     if (f1.taken) take_part(mesh, Sweep::forward, i0, f1.split, f_part, fwd);
@@ -1618,9 +1628,7 @@ void sweep_phases_as(const Envelope& env, const Mesh& mesh, const std::vector<do
   }
   phase(Sweep::backward, split.backward, bwd, b_part, final_forward ? &fwd.speed_mps : nullptr, b1,
         b2);
-  const Lane<Sw>& b = b1.error || !b1.taken ? b1 : b2;
-  if (f.error && (!b.error || f.at <= b.at)) std::rethrow_exception(f.error);
-  if (b.error) std::rethrow_exception(b.error);
+  rethrow_first_error(f, sweep_outcome(b1, b2));
   if (b1.taken) take_part(mesh, Sweep::backward, i0, b1.split, b_part, bwd);
   skipped = b1.skipped + (b1.taken ? b2.skipped : 0);
 }
@@ -1735,10 +1743,11 @@ bool many_straight_steps(const Mesh& mesh) {
   return straight >= min_straight_steps;
 }
 
+// `straight`: many_straight_steps(mesh), counted once for the solve.
 std::shared_ptr<const StepTables> step_tables_for(const Envelope& env, const Mesh& mesh,
-                                                  Integrator integrator, bool wanted) {
-  if (!wanted || integrator != Integrator::exponential || !env.level_tables() ||
-      !many_straight_steps(mesh))
+                                                  Integrator integrator, bool wanted,
+                                                  bool straight) {
+  if (!wanted || integrator != Integrator::exponential || !env.level_tables() || !straight)
     return nullptr;
   const double h = mesh.step_m;
   return env.level_tables()->steps->get(h, [&] { return build_step_tables(env, h); });
@@ -1906,8 +1915,11 @@ void LapSolver::speed_pass(const Envelope& env, const Mesh& mesh, double start_s
   SweepResult& fwd = forward_;
   SweepResult& bwd = backward_;
 
+  // Counted once for the solve: whether the step tables pay and which order a closed lap's
+  // sweeps take (both only with the quick steps).
+  const bool straight = quick_steps_ && many_straight_steps(mesh);
   const std::shared_ptr<const StepTables> tables =
-      step_tables_for(env, mesh, integrator_, quick_steps_);
+      step_tables_for(env, mesh, integrator_, quick_steps_, straight);
   auto both = [&](const std::vector<double>& limit, std::size_t f0, double vf, std::size_t b0,
                   double vb, SweepSplits split) {
     dispatch(env, integrator_, [&]<bool Axle, Integrator I>() {
@@ -1931,8 +1943,7 @@ void LapSolver::speed_pass(const Envelope& env, const Mesh& mesh, double start_s
     const std::size_t i0 = static_cast<std::size_t>(
         std::min_element(steady.begin(), steady.begin() + static_cast<std::ptrdiff_t>(period)) -
         steady.begin());
-    if (quick_steps_ && !many_straight_steps(mesh) &&
-        env.level_resistance_floor_mps2() >= skip_floor_mps2)
+    if (quick_steps_ && !straight && env.level_resistance_floor_mps2() >= skip_floor_mps2)
       dispatch(env, integrator_, [&]<bool Axle, Integrator I>() {
         sweep_phases<Axle, I>(env, mesh, steady, i0, phase_splits(mesh, steady, i0), fwd, bwd,
                               forward_part_, backward_part_, tables.get(), quick_steps_, second,
