@@ -2,10 +2,11 @@
 // per Envelope, so that the sweeps read a braking zone or a traction-limited launch from a table
 // instead of solving the load-transfer fixed point at every stage (README, "Performance"). There
 // the accelerations depend on u alone. Each cell of the table is the cubic
-// through the four nearest nodes, kept only where it matches the model at the cell's middle to
-// within `tolerance_mps2` (and its neighbours' too); elsewhere (a kink where the binding axle
-// changes, the breaks of a ride-height map's speeds) the caller asks the model itself. The
-// answers stay the model's to 3e-8 m/s^2, a few billionths of a braking deceleration.
+// through the four nearest nodes, kept only where its nodes' fourth differences are small or it
+// matches the model at the cell's middle to within `tolerance_mps2` (and its neighbours' too);
+// elsewhere (a kink where the binding axle changes, the breaks of a ride-height map's speeds)
+// the caller asks the model itself. The answers stay the model's to 3e-8 m/s^2, a few
+// billionths of a braking deceleration.
 #pragma once
 
 #include <array>
@@ -25,9 +26,10 @@ class CellCubics {
  public:
   CellCubics() = default;
   /// Cubics from node values f(i h), i = 0..n-1 (n >= 4): cell i's the cubic through the four
-  /// nodes nearest it (i-1..i+2, shifted inwards at the ends). `exact_mid(i)` is f at the
-  /// middle of cell i; a cell whose cubic misses it by more than `tolerance` goes, with its
-  /// two neighbours (their stencils share the cell's nodes).
+  /// nodes nearest it (i-1..i+2, shifted inwards at the ends). A cell whose nodes' fourth
+  /// differences are small is kept as it is (level_tables.cpp); for the others `exact_mid(i)`
+  /// is f at the middle of cell i, and a cell whose cubic misses it by more than a quarter of
+  /// `tolerance` goes, with its two neighbours (their stencils share the cell's nodes).
   CellCubics(const std::vector<double>& nodes, double h, double tolerance,
              const std::function<double(std::size_t)>& exact_mid);
 
@@ -38,6 +40,9 @@ class CellCubics {
   }
   std::size_t cells() const { return cells_.size(); }
   std::size_t kept_cells() const;
+  /// Cells whose middle the build asked `exact_mid` for (the others were sure from their
+  /// nodes' fourth differences: level_tables.cpp).
+  std::size_t mid_checks() const { return mid_checks_; }
   /// f(x) by its cell's cubic into `out`; false outside the grid or in a cell without one.
   [[gnu::always_inline]] bool at(double x, double& out) const {
     const double f = x * inv_h_;
@@ -53,6 +58,7 @@ class CellCubics {
  private:
   std::vector<std::array<double, 4>> cells_;  // monomial coefficients in t = x / h - i
   double inv_h_ = 0.0, top_ = 0.0;
+  std::size_t mid_checks_ = 0;
 };
 
 /// The sweeps' step itself on a level straight in still air, tabulated over the speed squared
