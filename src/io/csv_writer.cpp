@@ -7,11 +7,11 @@
 namespace lapwing {
 
 void csv_number(std::string& out, double v) {
-  out += format_number(v);
+  append_number(out, v);
 }
 
 void csv_number_or_empty(std::string& out, double v) {
-  if (!std::isnan(v)) out += format_number(v);
+  if (!std::isnan(v)) append_number(out, v);
 }
 
 void csv_text(std::string& out, std::string_view s) {

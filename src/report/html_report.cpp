@@ -130,7 +130,7 @@ std::string js_numbers(const Y& v, const std::vector<std::size_t>& at, double sc
   std::string o = "[";
   for (std::size_t k = 0; k < at.size(); ++k) {
     if (k) o += ',';
-    o += fixed(value_at(v, at[k]) * scale, decimals);
+    append_fixed(o, value_at(v, at[k]) * scale, decimals, MinusZero::fold);
   }
   return o + "]";
 }
@@ -600,7 +600,6 @@ std::string map_plot(const TrackView& v) {
   const double vmax = *std::max_element(lap.speed_mps.begin(), lap.speed_mps.end());
   const svg::Scale sx = p.x_scale(), sy = p.y_scale();
   std::string cells;
-  char buf[200];
   if (edges) {
     // The track's edges: left and right of the path lapped along its normal, x - w sin(heading),
     // y + w cos(heading) to the left; thin grey lines either side of the path.
@@ -608,10 +607,10 @@ std::string map_plot(const TrackView& v) {
       cells += "<polyline fill=\"none\" stroke=\"#8a8a8a\" stroke-width=\"1\" points=\"";
       for (std::size_t i : at) {
         const double w = side > 0 ? mesh.width_left_m[i] : -mesh.width_right_m[i];
-        std::snprintf(buf, sizeof buf, "%.1f,%.1f ",
-                      sx(mesh.x_m[i] - w * std::sin(mesh.heading_rad[i])),
-                      sy(mesh.y_m[i] + w * std::cos(mesh.heading_rad[i])));
-        cells += buf;
+        append_fixed(cells, sx(mesh.x_m[i] - w * std::sin(mesh.heading_rad[i])), 1);
+        cells += ',';
+        append_fixed(cells, sy(mesh.y_m[i] + w * std::cos(mesh.heading_rad[i])), 1);
+        cells += ' ';
       }
       cells += "\"/>";
     }
@@ -621,12 +620,19 @@ std::string map_plot(const TrackView& v) {
   for (std::size_t a = 0; a + 1 < at.size(); ++a) {
     const std::size_t i = at[a], j = at[a + 1];
     const double t = vmax > vmin ? (lap.speed_mps[i] - vmin) / (vmax - vmin) : 0.5;
-    std::snprintf(buf, sizeof buf,
-                  "<line x1=\"%.1f\" y1=\"%.1f\" x2=\"%.1f\" y2=\"%.1f\" stroke=\"%s\" "
-                  "stroke-width=\"%s\" stroke-linecap=\"round\"/>",
-                  sx(mesh.x_m[i]), sy(mesh.y_m[i]), sx(mesh.x_m[j]), sy(mesh.y_m[j]),
-                  svg::ramp_colour(t).c_str(), path_width);
-    cells += buf;
+    cells += "<line x1=\"";
+    append_fixed(cells, sx(mesh.x_m[i]), 1);
+    cells += "\" y1=\"";
+    append_fixed(cells, sy(mesh.y_m[i]), 1);
+    cells += "\" x2=\"";
+    append_fixed(cells, sx(mesh.x_m[j]), 1);
+    cells += "\" y2=\"";
+    append_fixed(cells, sy(mesh.y_m[j]), 1);
+    cells += "\" stroke=\"";
+    cells += svg::ramp_colour(t);
+    cells += "\" stroke-width=\"";
+    cells += path_width;
+    cells += "\" stroke-linecap=\"round\"/>";
   }
   p.underlay(cells + "\n");
   // The colour bar in the right margin: speed in km/h, fast (light) at the top.

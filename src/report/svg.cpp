@@ -5,18 +5,22 @@
 #include <cstdio>
 #include <limits>
 
-#include "lapwing/report/text_table.hpp"
+#include "lapwing/base/format.hpp"
 #include "lapwing/base/interpolate.hpp"
+#include "lapwing/report/text_table.hpp"
 
 namespace lapwing::svg {
 
 namespace {
 
+// Pixel coordinates to 0.1 px: enough for a screen, small files, same bytes every time.
+void add_num(std::string& o, double v) {
+  append_fixed(o, std::abs(v) < 0.05 ? 0.0 : v, 1);
+}
 std::string num(double v) {
-  // Pixel coordinates to 0.1 px: enough for a screen, small files, same bytes every time.
-  char buf[32];
-  std::snprintf(buf, sizeof buf, "%.1f", std::abs(v) < 0.05 ? 0.0 : v);
-  return buf;
+  std::string s;
+  add_num(s, v);
+  return s;
 }
 
 std::string tick_text(double v, double step) {
@@ -220,16 +224,27 @@ std::string Plot::render() const {
     const std::string& c = series_colour(s.colour);
     if (s.points) {
       o += "<g fill=\"" + c + "\" fill-opacity=\"" + (s.radius > 2.0 ? "0.9" : "0.45") + "\">";
-      for (std::size_t i = 0; i < s.x.size(); ++i)
-        o += "<circle cx=\"" + num(sx(s.x[i])) + "\" cy=\"" + num(sy(s.y[i])) + "\" r=\"" +
-             num(s.radius) + "\"/>";
+      const std::string radius = num(s.radius);
+      for (std::size_t i = 0; i < s.x.size(); ++i) {
+        o += "<circle cx=\"";
+        add_num(o, sx(s.x[i]));
+        o += "\" cy=\"";
+        add_num(o, sy(s.y[i]));
+        o += "\" r=\"";
+        o += radius;
+        o += "\"/>";
+      }
       o += "</g>\n";
     } else {
       o += "<polyline fill=\"none\" stroke=\"" + c + "\" stroke-width=\"" + num(s.width) +
            (s.opacity < 1.0 ? "\" stroke-opacity=\"" + num(s.opacity) : std::string()) +
            "\" stroke-linejoin=\"round\" points=\"";
-      for (std::size_t i = 0; i < s.x.size(); ++i)
-        o += (i ? " " : "") + num(sx(s.x[i])) + "," + num(sy(s.y[i]));
+      for (std::size_t i = 0; i < s.x.size(); ++i) {
+        if (i) o += ' ';
+        add_num(o, sx(s.x[i]));
+        o += ',';
+        add_num(o, sy(s.y[i]));
+      }
       o += "\"/>\n";
     }
   }

@@ -75,3 +75,42 @@ TEST_CASE("fixed decimals agree with the C library's printf for any double") {
                    -std::numeric_limits<double>::infinity()})
     CHECK(fixed(x, 2) == printf_fixed(x, 2));
 }
+
+TEST_CASE("the appending forms write what the string forms return, after what is there") {
+  // append_fixed keeps printf's sign of a minus zero ("%.1f" of -0.04 is "-0.0": C11 7.21.6.1)
+  // unless asked to fold it, as fixed() does; the text already in the string is left alone,
+  // whatever it ends with.
+  const auto printf_fixed = [](double v, int d) {
+    char buf[512];
+    std::snprintf(buf, sizeof buf, "%.*f", d, v);
+    return std::string(buf);
+  };
+  std::mt19937_64 random(20261204);
+  int differ = 0;
+  for (int k = 0; k < 20000; ++k) {
+    const double v = std::ldexp(static_cast<double>(random() % 2000001) - 1e6,
+                                static_cast<int>(random() % 40) - 30);
+    const int d = static_cast<int>(random() % 6);
+    std::string kept = "x-0", folded = "y-", number = "z,";
+    append_fixed(kept, v, d);
+    append_fixed(folded, v, d, MinusZero::fold);
+    append_number(number, v);
+    differ += kept != "x-0" + printf_fixed(v, d);
+    differ += folded != "y-" + fixed(v, d);
+    differ += number != "z," + format_number(v);
+  }
+  CHECK(differ == 0);
+  std::string s = "-0";
+  append_fixed(s, -0.04, 1);
+  CHECK(s == "-0-0.0");
+  append_fixed(s, -0.04, 1, MinusZero::fold);
+  CHECK(s == "-0-0.00.0");
+  append_fixed(s, std::numeric_limits<double>::infinity(), 1);
+  CHECK(s == "-0-0.00.0inf");
+  std::string big;
+  append_fixed(big, -1.7976931348623157e308, 100);  // 411 characters: printf's own, past 400
+  CHECK(big.size() == 411);
+  CHECK(big == printf_fixed(-1.7976931348623157e308, 100));
+  std::string bad;
+  CHECK_THROWS_AS(append_number(bad, std::nan("")), std::logic_error);
+}
