@@ -2048,12 +2048,25 @@ const Lap& LapSolver::add_channels(const Envelope& env, const Mesh& mesh, Channe
   Lap& lap = lap_;
   if (!speed_solved_ || lap.speed_mps.size() != n || forward_.gear.size() != n)
     throw std::logic_error("LapSolver::add_channels: no speed solve on this mesh");
-  if (lap.has_channels ||
-      (set == ChannelSet::loads && lap.has_loads && lap.loads_above_mps <= loads_above_mps))
+  if (lap.has_channels || (set == ChannelSet::loads && lap.has_loads && !lap.row_loads &&
+                           lap.loads_above_mps <= loads_above_mps))
     return lap;
   // A copy: the forward sweep keeps its buffer for the next lap.
   lap.gear.assign(forward_.gear.begin(), forward_.gear.end());
   channels_pass(env, mesh, set, set == ChannelSet::loads ? loads_above_mps : 0.0);
+  return lap;
+}
+
+const Lap& LapSolver::add_row_loads(const Envelope& env, const Mesh& mesh, const RowLoads& want) {
+  const std::size_t n = mesh.size();
+  Lap& lap = lap_;
+  if (!speed_solved_ || lap.speed_mps.size() != n || forward_.gear.size() != n)
+    throw std::logic_error("LapSolver::add_row_loads: no speed solve on this mesh");
+  const double floor_mps = std::min(want.drive_above_mps, want.turning_above_mps);
+  if (lap.has_channels || (lap.has_loads && !lap.row_loads && lap.loads_above_mps <= floor_mps))
+    return lap;
+  lap.gear.assign(forward_.gear.begin(), forward_.gear.end());
+  channels_pass(env, mesh, ChannelSet::loads, floor_mps, &want);
   return lap;
 }
 
@@ -2086,7 +2099,7 @@ Lap LapSolver::take_with_channels(const Envelope& env, const Mesh& mesh) {
 }
 
 void LapSolver::channels_pass(const Envelope& env, const Mesh& mesh, ChannelSet set,
-                              double loads_above_mps) {
+                              double loads_above_mps, const RowLoads* row) {
   const std::size_t n = mesh.size();
   Lap& lap = lap_;
   assert(lap.speed_mps.size() == n && lap.gear.size() == n);
@@ -2094,6 +2107,7 @@ void LapSolver::channels_pass(const Envelope& env, const Mesh& mesh, ChannelSet 
   lap.has_channels = all;
   lap.has_loads = true;
   lap.loads_above_mps = all ? 0.0 : loads_above_mps;
+  lap.row_loads = !all && row;
   const double floor_mps = lap.loads_above_mps;
   // Channels along the lap.
   const Car& car = env.car();
@@ -2255,13 +2269,22 @@ void LapSolver::channels_pass(const Envelope& env, const Mesh& mesh, ChannelSet 
       // Lateral acceleration in the road's plane, signed as the curvature: F_y / m (v^2 kappa on
       // a flat road; less the weight's part down a bank).
       const Envelope::RoadForces f = env.road_forces(env.rows(trimmed), v * v, k, road);
+      const double lat = (mesh.curvature_1pm[i] < 0.0 ? -1.0 : 1.0) * f.lateral_n / m;
+      lap.lat_accel_mps2[i] = lat;
+      lap.drag_n[i] = f.drag_n;
+      lap.downforce_n[i] = f.downforce_n;
+      // A sweep's row reads the loads only under full drive at speed and in the window's turns.
+      if (!All && row &&
+          !((v > row->drive_above_mps && full_drive(lap.phase[i])) ||
+            (v > row->turning_above_mps && std::abs(lat) > row->turning_mps2))) {
+        const double nan = std::numeric_limits<double>::quiet_NaN();
+        lap.long_accel_mps2[i] = lap.front_load_n[i] = lap.rear_load_n[i] = nan;
+        continue;
+      }
       AxleUsage tested;
       bool used = false;
       const double ax = point_accel(i, road, f, trimmed, tested, used);
       lap.long_accel_mps2[i] = ax;
-      lap.lat_accel_mps2[i] = (mesh.curvature_1pm[i] < 0.0 ? -1.0 : 1.0) * f.lateral_n / m;
-      lap.drag_n[i] = f.drag_n;
-      lap.downforce_n[i] = f.downforce_n;
       // Axle loads and what each axle carries (axle.hpp): the tyre force along the path is what
       // accelerates the car's mass m plus the resistance (the rotating parts' spin-up is torque
       // inside the driveline, not road force).

@@ -293,21 +293,55 @@ double summary_loads_above_mps(const Car& car) {
   return car.balance_window ? std::min(fast, car.balance_window->above_mps) : fast;
 }
 
+RowLoads summary_row_loads(const Car& car) {
+  return {
+      fast_acceleration_kph * units::kph,
+      car.balance_window ? car.balance_window->above_mps : std::numeric_limits<double>::infinity(),
+      balance_window_lateral_g * units::g0};
+}
+
+namespace {
+// The balance window's rules, read by check_balance_window and window_verdict alike.
+// A point of the window: above its speed, cornering harder than balance_window_lateral_g.
+bool in_window(const BalanceWindow& w, const Lap& lap, std::size_t i) {
+  return lap.speed_mps[i] > w.above_mps &&
+         std::abs(lap.lat_accel_mps2[i]) > balance_window_lateral_g * units::g0;
+}
+// Signed excursion beyond the nearer edge (0 inside).
+double excursion(const BalanceWindow& w, double share) {
+  return share < w.front_share_min   ? share - w.front_share_min
+         : share > w.front_share_max ? share - w.front_share_max
+                                     : 0.0;
+}
+// Point i's time: half of each interval it ends (an open track's ends have one).
+double point_time(const Lap& lap, std::size_t i, std::size_t n) {
+  return 0.5 * ((i > 0 ? lap.time_s[i] - lap.time_s[i - 1] : 0.0) +
+                (i + 1 < n ? lap.time_s[i + 1] - lap.time_s[i] : 0.0));
+}
+}  // namespace
+
+WindowResult window_verdict(const BalanceWindow& w, const Lap& lap, const Mesh& mesh) {
+  const std::size_t n = mesh.size();
+  double time_s = 0.0;
+  bool outside = false;
+  for (std::size_t i = 0; i < n; ++i) {
+    if (!in_window(w, lap, i)) continue;
+    time_s += point_time(lap, i, n);
+    outside = outside || excursion(w, front_share(lap, i)) != 0.0;
+  }
+  return !(time_s > 0.0) ? WindowResult::not_reached
+         : outside       ? WindowResult::fail
+                         : WindowResult::pass;
+}
+
 BalanceWindowResult check_balance_window(const BalanceWindow& w, const Lap& lap, const Mesh& mesh,
                                          const std::vector<CornerSpan>& corners) {
   BalanceWindowResult r;
   r.window = w;
   const std::size_t n = mesh.size();
-  const double lateral_mps2 = balance_window_lateral_g * units::g0;
-  auto in_window = [&](std::size_t i) {
-    return lap.speed_mps[i] > w.above_mps && std::abs(lap.lat_accel_mps2[i]) > lateral_mps2;
-  };
-  // Signed excursion beyond the nearer edge (0 inside), and the distance to it inside.
-  auto excursion = [&](double share) {
-    return share < w.front_share_min   ? share - w.front_share_min
-           : share > w.front_share_max ? share - w.front_share_max
-                                       : 0.0;
-  };
+  auto in_window = [&](std::size_t i) { return lapwing::in_window(w, lap, i); };
+  auto excursion = [&](double share) { return lapwing::excursion(w, share); };
+  // The distance to the nearer edge inside.
   auto margin = [&](double share) {
     return std::min(share - w.front_share_min, w.front_share_max - share);
   };
@@ -317,9 +351,7 @@ BalanceWindowResult check_balance_window(const BalanceWindow& w, const Lap& lap,
   for (std::size_t i = 0; i < n; ++i) {
     // Only points above the window's speed count, here and in the window (in_window).
     if (!(lap.speed_mps[i] > w.above_mps)) continue;
-    // This point's time: half of each interval it ends (an open track's ends have one).
-    const double dt = 0.5 * ((i > 0 ? lap.time_s[i] - lap.time_s[i - 1] : 0.0) +
-                             (i + 1 < n ? lap.time_s[i + 1] - lap.time_s[i] : 0.0));
+    const double dt = point_time(lap, i, n);
     const double share = front_share(lap, i);
     if (lap.phase[i] == Phase::brake) {
       brake_s += dt;
@@ -524,7 +556,8 @@ LapSummary summarize(const Lap& lap, const Mesh& mesh, const Track& track,
       here = next;
     }
   }
-  if (car.balance_window) b.window = check_balance_window(*car.balance_window, lap, mesh, spans);
+  if (car.balance_window && full_detail)
+    b.window = check_balance_window(*car.balance_window, lap, mesh, spans);
   return s;
 }
 

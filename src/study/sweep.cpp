@@ -5,8 +5,8 @@
 #include <algorithm>
 #include <cctype>
 #include <charconv>
-#include <cmath>
 #include <chrono>
+#include <cmath>
 #include <limits>
 #include <random>
 
@@ -304,15 +304,14 @@ SweepOutcome run_sweep(const SweepPlan& plan, const std::vector<Circuit>& circui
           r.track = t;
           r.config = c;
           try {
-            // The lowest front share at speed and the balance window read the front-share
-            // channel, so a point needs both passes, the second for the loads alone (no usage:
-            // a row keeps no corner's axle) and only at the speeds those figures read; the lap
-            // is summarised in the solver's buffers (run_lap would copy it out) and nothing is
-            // written but the figures below.
+            // The lowest front share at speed and the balance window's verdict read the front
+            // share, so a point needs both passes, the second for the loads alone (no usage: a
+            // row keeps no corner's axle) and only at the points those figures read (full drive
+            // at speed, the window's turns); the lap is summarised in the solver's buffers
+            // (run_lap would copy it out) and nothing is written but the figures below.
             const Envelope env(configured, circuits[t].air);
             solve_speed_only(env, circuits[t], solver);
-            const Lap& lap = solver.add_channels(env, circuits[t].mesh, ChannelSet::loads,
-                                                 summary_loads_above_mps(car));
+            const Lap& lap = solver.add_row_loads(env, circuits[t].mesh, summary_row_loads(car));
             const LapSummary s = summarize(lap, circuits[t].mesh, circuits[t].track,
                                            circuits[t].corners, env, SummaryDetail::row_figures);
             r.lap_time_s = s.lap_time_s;
@@ -322,7 +321,8 @@ SweepOutcome run_sweep(const SweepPlan& plan, const std::vector<Circuit>& circui
             r.braking_fraction = s.braking_fraction;
             if (s.balance.has_fast_acceleration)
               r.lowest_front_share_fast = s.balance.lowest_front_share_fast;
-            if (s.balance.window) r.window = window_result(*s.balance.window);
+            if (car.balance_window)
+              r.window = window_verdict(*car.balance_window, lap, circuits[t].mesh);
           } catch (const CannotMove& e) {
             // A point that cannot lap is a result of the study, not a stop (README, "Sweep").
             r.ok = false;

@@ -514,6 +514,87 @@ TEST_CASE("the loads alone are the full pass's loads, and summarise to the same 
   }
 }
 
+TEST_CASE(
+    "a sweep row's loads pass works the loads only where the row reads them, to the same figures") {
+  // LapSolver::add_row_loads fills the axle loads under full drive above 200 km/h and at the
+  // balance window's points (above its speed, cornering harder than 0.5 g), NaN elsewhere; where
+  // filled they are the full pass's to the model's rounding (its Newton hints go from filled
+  // point to filled point: the axle model's fixed point is solved to 1e-9 m/s^2, 1e-10 of a
+  // front share here, as the test above). The row's figures agree with the full summary's: the
+  // lowest front share at speed to that rounding, and window_verdict with window_result of the
+  // full check, for the car's window and for a tight one (fails), a wide one (passes) and one
+  // above the car's top speed (not reached). The Pellion FR-2 and the bench's test car have
+  // windows; three bundled circuits, every config.
+  int verdicts[3] = {0, 0, 0};
+  for (const char* file : {"cars/pellion-fr2.yaml", "tests/data/caldra-gt-exponent-2.2.yaml"}) {
+    const Car base = load_car(test::source_path(file));
+    REQUIRE(base.balance_window);
+    for (const char* track :
+         {"tracks/brannock-park.yaml", "tracks/saltmere-flats.yaml", "tracks/cairnholt.yaml"}) {
+      const Circuit c = test::bundled_circuit(track);
+      const auto spans = find_corners(c.mesh);
+      for (const BalanceWindow w :
+           {*base.balance_window, BalanceWindow{0.49, 0.51, 20.0}, BalanceWindow{0.0, 1.0, 40.0},
+            BalanceWindow{0.0, 0.5, 200.0}}) {
+        Car car = base;
+        car.balance_window = w;
+        for (std::size_t k = 0; k < car.configs.size(); ++k) {
+          INFO(file << " " << track << " config " << k << " window above " << w.above_mps);
+          const Envelope env(car.configured(k), c.air);
+          LapSolver all_solver, row_solver;
+          all_solver.solve_speed(env, c.mesh, c.track.start_speed_mps);
+          const Lap& all = all_solver.add_channels(env, c.mesh);
+          row_solver.solve_speed(env, c.mesh, c.track.start_speed_mps);
+          const RowLoads want = summary_row_loads(car);
+          const Lap& row = row_solver.add_row_loads(env, c.mesh, want);
+          CHECK(row.row_loads);
+          const double floor = std::min(want.drive_above_mps, want.turning_above_mps);
+          std::size_t filled = 0, above_floor = 0;
+          for (std::size_t i = 0; i < c.mesh.size(); ++i) {
+            if (row.speed_mps[i] < floor) continue;
+            ++above_floor;
+            CHECK(row.lat_accel_mps2[i] == all.lat_accel_mps2[i]);
+            CHECK(row.drag_n[i] == all.drag_n[i]);
+            const bool wanted =
+                (row.speed_mps[i] > want.drive_above_mps && full_drive(row.phase[i])) ||
+                (row.speed_mps[i] > want.turning_above_mps &&
+                 std::abs(row.lat_accel_mps2[i]) > want.turning_mps2);
+            if (!wanted) {
+              CHECK(std::isnan(row.front_load_n[i]));
+              continue;
+            }
+            ++filled;
+            CHECK(near(row.front_load_n[i], all.front_load_n[i], 1e-10));
+            CHECK(near(front_share(row, i), front_share(all, i), 1e-10));
+          }
+          const LapSummary a = summarize(all, c.mesh, c.track, spans, env),
+                           r = summarize(row, c.mesh, c.track, spans, env,
+                                         SummaryDetail::row_figures);
+          CHECK(r.lap_time_s == a.lap_time_s);
+          CHECK(r.full_throttle_fraction == a.full_throttle_fraction);
+          CHECK(r.braking_fraction == a.braking_fraction);
+          CHECK(r.balance.has_fast_acceleration == a.balance.has_fast_acceleration);
+          CHECK(near(r.balance.lowest_front_share_fast, a.balance.lowest_front_share_fast, 1e-10));
+          CHECK_FALSE(r.balance.window);  // the verdict is window_verdict's
+          REQUIRE(a.balance.window);
+          const WindowResult v = window_verdict(w, row, c.mesh);
+          CHECK(v == window_result(*a.balance.window));
+          ++verdicts[static_cast<int>(v)];
+          // A test of the test: the row's pass leaves points above its floor unfilled where the
+          // car's own window is that low (a straight's braking zone).
+          if (w.above_mps < 50.0) CHECK(filled < above_floor);
+        }
+      }
+    }
+  }
+  CAPTURE(verdicts[0]);
+  CAPTURE(verdicts[1]);
+  CAPTURE(verdicts[2]);
+  CHECK(verdicts[static_cast<int>(WindowResult::pass)] > 0);
+  CHECK(verdicts[static_cast<int>(WindowResult::fail)] > 0);
+  CHECK(verdicts[static_cast<int>(WindowResult::not_reached)] > 0);
+}
+
 // Rotating inertia (issue 10, item 4). At the tyre limit the road force acts on the car's mass m:
 // the brakes (or the engine) supply the torque that spins the wheels down (or up) (Gillespie,
 // Fundamentals of Vehicle Dynamics, ch. 2-3). Only drive that the engine limits spins up the

@@ -195,6 +195,8 @@ struct Lap {
   // The accelerations, aero forces and axle loads are filled where the speed is at least this,
   // NaN below it (LapSolver::add_channels' `loads_above_mps`; 0: everywhere). The trim, always.
   double loads_above_mps = 0.0;
+  // The accelerations and axle loads only at a sweep's row's points (LapSolver::add_row_loads).
+  bool row_loads = false;
 };
 
 /// The front axle's share of the load at point i of a lap with channels: its load over both
@@ -208,6 +210,16 @@ inline double front_share(const Lap& lap, std::size_t i) {
 /// read), without the gear and engine speed, the axles' usage and the aero balance with the drag
 /// moment. A study that keeps only those figures (a sweep's rows) saves the ellipse's powers.
 enum class ChannelSet { all, loads };
+
+/// The points whose axle loads a sweep's row reads (LapSolver::add_row_loads): under full drive
+/// above `drive_above_mps` (the lowest front share at speed) and where the lateral acceleration
+/// exceeds `turning_mps2` above `turning_above_mps` (the balance window's points; infinity: no
+/// window). summary_row_loads (summary.hpp) makes it from the car.
+struct RowLoads {
+  double drive_above_mps = 0.0;
+  double turning_above_mps = 0.0;
+  double turning_mps2 = 0.0;
+};
 
 /// Solves one lap. Closed meshes are periodic (both sweeps start at the slowest steady point);
 /// open ones start at `start_speed_mps` and end free. Throws CannotMove when the car cannot
@@ -254,6 +266,12 @@ class LapSolver {
   /// rounding (its Newton hints go from filled point to filled point).
   const Lap& add_channels(const Envelope& env, const Mesh& mesh, ChannelSet set = ChannelSet::all,
                           double loads_above_mps = 0.0);
+  /// A loads pass (ChannelSet::loads) for a sweep's row: the lateral acceleration, aero forces
+  /// and trim from the lower of the two speeds up, the longitudinal acceleration and the axle
+  /// loads only at the points `want` names, NaN elsewhere (a straight's braking zone, the slow
+  /// turns): the model's answers a row never reads are not asked for. Where filled, the full
+  /// pass's to the model's rounding, as with `loads_above_mps` (Lap::row_loads true).
+  const Lap& add_row_loads(const Envelope& env, const Mesh& mesh, const RowLoads& want);
   /// Both passes, as solve_lap: solve_speed, then add_channels.
   const Lap& solve(const Envelope& env, const Mesh& mesh, double start_speed_mps = 0.0);
   /// Both passes for a lap solved once (solve_lap), moved out: solve_speed, then
@@ -285,7 +303,7 @@ class LapSolver {
   void speed_pass(const Envelope& env, const Mesh& mesh, double start_speed_mps);
   /// The channels pass over the last speed solve, lap_.gear holding the forward sweep's gears.
   void channels_pass(const Envelope& env, const Mesh& mesh, ChannelSet set = ChannelSet::all,
-                     double loads_above_mps = 0.0);
+                     double loads_above_mps = 0.0, const RowLoads* row = nullptr);
   /// The second thread of a lap on two, started on first use (nullptr: none yet, or one thread).
   SecondThread* second_thread(std::size_t points);
   Integrator integrator_;

@@ -77,6 +77,10 @@ struct BalanceWindowResult {
 /// than balance_window_lateral_g), so nothing was tested. The one place that decides it.
 enum class WindowResult { pass, fail, not_reached };
 WindowResult window_result(const BalanceWindowResult& r);
+/// window_result(check_balance_window(w, lap, ...)) without the rest of the check: the verdict
+/// alone, from the window's points' front shares (a sweep's row: the loads of
+/// LapSolver::add_row_loads hold them).
+WindowResult window_verdict(const BalanceWindow& w, const Lap& lap, const Mesh& mesh);
 
 /// The balance of one lap: where the front axle's share of the load goes, and where the front
 /// saturates first (balance_index = front usage - rear usage > 0: an understeer tendency).
@@ -120,7 +124,8 @@ struct LapSummary {
 
 /// How much of a lap summarize reads: everything, or the figures a sweep's row keeps (lap time,
 /// top and lowest speed, the time shares, the balance; no warnings, sectors or corners, whose
-/// lists stay empty, and no corner the front limits).
+/// lists stay empty, no corner the front limits, and no balance window: its verdict is
+/// window_verdict's).
 enum class SummaryDetail { full, row_figures };
 
 LapSummary summarize(const Lap& lap, const Mesh& mesh, const Track& track,
@@ -135,6 +140,10 @@ inline constexpr double fast_acceleration_kph = 200.0;
 /// are filled from there up (LapSolver::add_channels' `loads_above_mps`) summarises to the same
 /// figures, to the model's rounding.
 double summary_loads_above_mps(const Car& car);
+/// The points whose loads a sweep's row reads (LapSolver::add_row_loads): under full drive above
+/// fast_acceleration_kph (the lowest front share at speed) and the balance window's points
+/// (window_verdict), where the car has one.
+RowLoads summary_row_loads(const Car& car);
 
 /// A place where the car's data is used beyond its range, as a set of speeds: below or above
 /// a speed table's rows (the end rows' values are held), a ride height off the map (its edge
