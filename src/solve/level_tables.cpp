@@ -63,11 +63,16 @@ CellCubics::CellCubics(const std::vector<double>& nodes, double h, double tolera
     // Sure from the nodes alone where the fourth differences around the cell are small
     // (fourth_difference_share); else the model at the cell's middle decides.
     if (i >= 3 && i + 5 <= n) {
-      double d4 = 0.0;
-      for (std::size_t w = i - 3; w <= i; ++w)
-        d4 = std::max(d4, std::abs(nodes[w] - 4.0 * nodes[w + 1] + 6.0 * nodes[w + 2] -
-                                   4.0 * nodes[w + 3] + nodes[w + 4]));
-      if (fourth_difference_share * d4 <= check_share * tolerance) continue;
+      // A node without a value (NaN: the lateral table's search found none) leaves the cell
+      // to its check (the comparison fails), which drops it and its neighbours where its own
+      // cubic reads the node, as before.
+      bool sure = true;
+      for (std::size_t w = i - 3; w <= i && sure; ++w)
+        sure =
+            fourth_difference_share * std::abs(nodes[w] - 4.0 * nodes[w + 1] + 6.0 * nodes[w + 2] -
+                                               4.0 * nodes[w + 3] + nodes[w + 4]) <=
+            check_share * tolerance;
+      if (sure) continue;
     }
     ++mid_checks_;
     const double mid = c[0] + 0.5 * (c[1] + 0.5 * (c[2] + 0.5 * c[3]));

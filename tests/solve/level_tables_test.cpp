@@ -167,6 +167,20 @@ TEST_CASE("a cell is kept without its middle's check only where its fourth diffe
   CHECK(k.mid_checks() < 30);
   CHECK(k.kept_cells() < 200);
   CHECK(worst_miss(k, 10.0, 20000, kink) <= 1e-4);
+  // A node without a value (NaN) drops the cells whose cubic reads it and their neighbours, as
+  // the check at every middle did: node 100 is read by cells 98 to 101, so 97 to 102 go.
+  const auto hole = [](double x) {
+    return std::abs(x - 5.0) < 1e-9 ? std::numeric_limits<double>::quiet_NaN() : std::sin(x);
+  };
+  const CellCubics h = from(hole, 201, 0.05, 1e-4);
+  CHECK(h.kept_cells() == 194);
+  double y = 0.0;
+  for (const double x : {4.86, 4.91, 4.96, 5.01, 5.06, 5.11}) {
+    CAPTURE(x);
+    CHECK_FALSE(h.at(x, y));
+  }
+  CHECK(h.at(4.84, y));
+  CHECK(h.at(5.16, y));
 }
 
 TEST_CASE("the tables give the axle model's straight-line accelerations to 1e-8 m/s^2") {
