@@ -29,7 +29,14 @@ struct Grid {
   // The value at s, or nothing off an open trace.
   bool at(double s, double& out) const {
     if (periodic) {
-      s = std::fmod(s, length);
+      // fmod's remainder, worked without it where it is one subtraction or none: s - length is
+      // exact for s in [length, 2 length) (Sterbenz's lemma), and it is what fmod returns there
+      // (the exact remainder), as s itself is for |s| < length; most alignments read within a
+      // lap of the line.
+      if (s >= length && s < 2.0 * length)
+        s -= length;
+      else if (!(s > -length && s < length))
+        s = std::fmod(s, length);
       if (s < 0.0) s += length;
     } else if (s < 0.0 || s > length) {
       return false;
@@ -59,9 +66,18 @@ Grid sim_grid(const Mesh& mesh, const std::vector<double>& speed, double h) {
   return g;
 }
 
-// The log's samples on a grid of step h along its own distance.
+// The log's samples on a grid of step h along its own distance, with the sums of their speeds
+// and squared speeds in order (sum_all: what score adds where every sample is on the track).
 struct LogSamples {
   std::vector<double> d, v;
+  double sa = 0.0, saa = 0.0;
+  void sum_all() {
+    sa = saa = 0.0;
+    for (const double a : v) {
+      sa += a;
+      saa += a * a;
+    }
+  }
 };
 // Nothing is sampled inside the log's gaps (log_gaps): a line drawn across one is not logged.
 LogSamples log_samples(const LoggedSpeed& log, const std::vector<std::uint8_t>& gaps, double h) {
@@ -74,6 +90,7 @@ LogSamples log_samples(const LoggedSpeed& log, const std::vector<std::uint8_t>& 
     out.d.push_back(d);
     out.v.push_back(at(log.speed_mps, b));
   }
+  out.sum_all();
   return out;
 }
 
@@ -84,16 +101,32 @@ struct Score {
 };
 Score score(const LogSamples& l, const Grid& g, double offset, double scale) {
   double n = 0, sa = 0, sb = 0, saa = 0, sbb = 0, sab = 0;
-  for (std::size_t j = 0; j < l.d.size(); ++j) {
-    double b;
-    if (!g.at(scale * (l.d[j] - offset), b)) continue;
-    const double a = l.v[j];
-    n += 1;
-    sa += a;
-    sb += b;
-    saa += a * a;
-    sbb += b * b;
-    sab += a * b;
+  if (g.periodic) {
+    // On a closed track every sample reads the grid: the log's own sums are those of all its
+    // samples in order, the same additions as below.
+    n = static_cast<double>(l.d.size());
+    sa = l.sa;
+    saa = l.saa;
+    for (std::size_t j = 0; j < l.d.size(); ++j) {
+      double b;
+      g.at(scale * (l.d[j] - offset), b);
+      const double a = l.v[j];
+      sb += b;
+      sbb += b * b;
+      sab += a * b;
+    }
+  } else {
+    for (std::size_t j = 0; j < l.d.size(); ++j) {
+      double b;
+      if (!g.at(scale * (l.d[j] - offset), b)) continue;
+      const double a = l.v[j];
+      n += 1;
+      sa += a;
+      sb += b;
+      saa += a * a;
+      sbb += b * b;
+      sab += a * b;
+    }
   }
   Score s;
   s.overlap = n / static_cast<double>(l.d.size());
@@ -240,6 +273,7 @@ LogSamples within(const LogSamples& l, Window w) {
       out.d.push_back(l.d[j]);
       out.v.push_back(l.v[j]);
     }
+  out.sum_all();
   return out;
 }
 
