@@ -24,6 +24,9 @@ std::string row(const char* column, std::size_t i) {
 // track's length for a closed track.
 struct Grid {
   double h = 1.0, length = 0.0;
+  // 1 / h where h is a power of two (the search's 2 m and 0.5 m): s / h is then s times it,
+  // the same double (both are the exact quotient, correctly rounded), without a division.
+  double inv_h = 0.0;
   bool periodic = false;
   std::vector<double> v;
   // The value at s, or nothing off an open trace.
@@ -41,7 +44,7 @@ struct Grid {
     } else if (s < 0.0 || s > length) {
       return false;
     }
-    const Bracket b = even_bracket(s / h, v.size() - 1);
+    const Bracket b = even_bracket(inv_h != 0.0 ? s * inv_h : s / h, v.size() - 1);
     out = lerp(v[b.i], v[b.i + 1], b.w);
     return true;
   }
@@ -51,6 +54,8 @@ struct Grid {
 Grid sim_grid(const Mesh& mesh, const std::vector<double>& speed, double h) {
   Grid g;
   g.h = h;
+  int e = 0;
+  if (std::frexp(h, &e) == 0.5) g.inv_h = 1.0 / h;
   g.length = mesh.length_m;
   g.periodic = mesh.closed;
   const std::size_t n = static_cast<std::size_t>(std::ceil(mesh.length_m / h));
