@@ -36,7 +36,7 @@ constexpr double check_share = 0.25;
 constexpr double fourth_difference_share = 2.0;
 
 CellCubics::CellCubics(const std::vector<double>& nodes, double h, double tolerance,
-                       const std::function<double(std::size_t)>& exact_mid)
+                       const std::function<double(std::size_t)>& exact_mid, bool screen)
     : inv_h_(1.0 / h) {
   const std::size_t n = nodes.size();
   if (n < 4) return;
@@ -62,7 +62,7 @@ CellCubics::CellCubics(const std::vector<double>& nodes, double h, double tolera
     c[3] = a3;
     // Sure from the nodes alone where the fourth differences around the cell are small
     // (fourth_difference_share); else the model at the cell's middle decides.
-    if (i >= 3 && i + 5 <= n) {
+    if (screen && i >= 3 && i + 5 <= n) {
       // A node without a value (NaN: the lateral table's search found none) leaves the cell
       // to its check (the comparison fails), which drops it and its neighbours where its own
       // cubic reads the node, as before.
@@ -102,13 +102,16 @@ LevelTables build_level_tables(const Envelope& env) {
   const double top = env.max_speed_mps() * env.max_speed_mps();
   const std::size_t cells = LevelTables::cell_count;
   const double h = top / static_cast<double>(cells);
+  // The fourth differences' screen (CellCubics), off with a ride-height map.
+  const bool screen = !env.has_map();
   constexpr double unlimited = std::numeric_limits<double>::infinity();
   auto table = [&](auto f) {
     AxleHints hints;  // node to node, as a sweep's steps
     std::vector<double> nodes(cells + 1);
     for (std::size_t i = 0; i <= cells; ++i) nodes[i] = f(static_cast<double>(i) * h, hints);
-    return CellCubics(nodes, h, LevelTables::tolerance_mps2,
-                      [&](std::size_t i) { return f((static_cast<double>(i) + 0.5) * h, hints); });
+    return CellCubics(
+        nodes, h, LevelTables::tolerance_mps2,
+        [&](std::size_t i) { return f((static_cast<double>(i) + 0.5) * h, hints); }, screen);
   };
   t.brake = table(
       [&](double u, AxleHints& hints) { return axle_brake_accel(env, u, 0.0, level, &hints); });
@@ -161,13 +164,15 @@ LevelTables build_level_tables(const Envelope& env) {
     const double guess = i >= 2 ? 2.0 * a[i - 1] - a[i - 2] : (i == 1 ? a[0] : 0.0);
     a[i] = lateral((i == 0 ? 1e-3 : static_cast<double>(i)) * t.lateral_du, guess);
   }
-  t.lateral_limit =
-      CellCubics(a, t.lateral_du, LevelTables::lateral_tolerance_mps2, [&](std::size_t i) {
+  t.lateral_limit = CellCubics(
+      a, t.lateral_du, LevelTables::lateral_tolerance_mps2,
+      [&](std::size_t i) {
         const double guess = i >= 1 && i + 2 <= lc
                                  ? (9.0 * (a[i] + a[i + 1]) - a[i - 1] - a[i + 2]) / 16.0
                                  : 0.5 * (a[i] + a[i + 1]);
         return lateral((static_cast<double>(i) + 0.5) * t.lateral_du, guess);
-      });
+      },
+      screen);
   t.lateral_falls = true;
   for (std::size_t i = 1; i < lc && t.lateral_falls; ++i) {
     const double here = a[i] / (static_cast<double>(i) * t.lateral_du);

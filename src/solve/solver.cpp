@@ -1706,9 +1706,10 @@ StepTables build_step_tables(const Envelope& env, double h) {
     auto step_from = [&](double u0) { return exponential_step<FreeLane, 1>({l}, {u0}, h)[0]; };
     std::vector<double> nodes(cells + 1);
     for (std::size_t i = 0; i <= cells; ++i) nodes[i] = step_from(static_cast<double>(i) * du);
-    return CellCubics(nodes, du, StepTables::check_per_m * h, [&](std::size_t i) {
-      return step_from((static_cast<double>(i) + 0.5) * du);
-    });
+    return CellCubics(
+        nodes, du, StepTables::check_per_m * h,
+        [&](std::size_t i) { return step_from((static_cast<double>(i) + 0.5) * du); },
+        !env.has_map());  // the fourth differences' screen, off with a ride-height map
   };
   t.brake = table(false, false);
   t.drive = table(true, false);
@@ -1907,6 +1908,8 @@ void LapSolver::speed_pass(const Envelope& env, const Mesh& mesh, double start_s
   assert(n >= 3);
   Lap& lap = lap_;
   lap.has_channels = lap.has_loads = false;  // none of this lap yet (also if the solve throws)
+  lap.row_loads = false;
+  lap.loads_above_mps = 0.0;
   speed_solved_ = false;
   skipped_steps_ = 0;
   SecondThread* const second = second_thread(n);

@@ -311,7 +311,8 @@ SweepOutcome run_sweep(const SweepPlan& plan, const std::vector<Circuit>& circui
             // (run_lap would copy it out) and nothing is written but the figures below.
             const Envelope env(configured, circuits[t].air);
             solve_speed_only(env, circuits[t], solver);
-            const Lap& lap = solver.add_row_loads(env, circuits[t].mesh, summary_row_loads(car));
+            const Lap& lap =
+                solver.add_row_loads(env, circuits[t].mesh, summary_row_loads(env.car()));
             const LapSummary s = summarize(lap, circuits[t].mesh, circuits[t].track,
                                            circuits[t].corners, env, SummaryDetail::row_figures);
             r.lap_time_s = s.lap_time_s;
@@ -321,8 +322,8 @@ SweepOutcome run_sweep(const SweepPlan& plan, const std::vector<Circuit>& circui
             r.braking_fraction = s.braking_fraction;
             if (s.balance.has_fast_acceleration)
               r.lowest_front_share_fast = s.balance.lowest_front_share_fast;
-            if (car.balance_window)
-              r.window = window_verdict(*car.balance_window, lap, circuits[t].mesh);
+            if (env.car().balance_window)
+              r.window = window_verdict(*env.car().balance_window, lap, circuits[t].mesh);
           } catch (const CannotMove& e) {
             // A point that cannot lap is a result of the study, not a stop (README, "Sweep").
             r.ok = false;

@@ -561,6 +561,8 @@ TEST_CASE(
                  std::abs(row.lat_accel_mps2[i]) > want.turning_mps2);
             if (!wanted) {
               CHECK(std::isnan(row.front_load_n[i]));
+              CHECK(std::isnan(row.rear_load_n[i]));
+              CHECK(std::isnan(row.long_accel_mps2[i]));
               continue;
             }
             ++filled;
@@ -583,6 +585,23 @@ TEST_CASE(
           // A test of the test: the row's pass leaves points above its floor unfilled where the
           // car's own window is that low (a straight's braking zone).
           if (w.above_mps < 50.0) CHECK(filled < above_floor);
+          // The same solver then asked for the loads from the floor up fills every point there
+          // as a fresh solver's loads pass does, to the bit (the row's lap is not taken for it),
+          // and the row's pass after that keeps the fuller lap.
+          const auto same_bits = [](const std::vector<double>& x, const std::vector<double>& y) {
+            return x.size() == y.size() &&
+                   (x.empty() || std::memcmp(x.data(), y.data(), x.size() * sizeof(double)) == 0);
+          };
+          LapSolver loads_solver;
+          loads_solver.solve_speed(env, c.mesh, c.track.start_speed_mps);
+          const Lap& fresh = loads_solver.add_channels(env, c.mesh, ChannelSet::loads, floor);
+          const Lap& again = row_solver.add_channels(env, c.mesh, ChannelSet::loads, floor);
+          CHECK_FALSE(again.row_loads);
+          CHECK(same_bits(again.front_load_n, fresh.front_load_n));
+          CHECK(same_bits(again.long_accel_mps2, fresh.long_accel_mps2));
+          const Lap& kept = row_solver.add_row_loads(env, c.mesh, want);
+          CHECK_FALSE(kept.row_loads);
+          CHECK(same_bits(kept.front_load_n, fresh.front_load_n));
         }
       }
     }

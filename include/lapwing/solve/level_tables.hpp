@@ -26,12 +26,18 @@ class CellCubics {
  public:
   CellCubics() = default;
   /// Cubics from node values f(i h), i = 0..n-1 (n >= 4): cell i's the cubic through the four
-  /// nodes nearest it (i-1..i+2, shifted inwards at the ends). A cell whose nodes' fourth
-  /// differences are small is kept as it is (level_tables.cpp); for the others `exact_mid(i)`
-  /// is f at the middle of cell i, and a cell whose cubic misses it by more than a quarter of
-  /// `tolerance` goes, with its two neighbours (their stencils share the cell's nodes).
+  /// nodes nearest it (i-1..i+2, shifted inwards at the ends). With `screen`, a cell whose
+  /// nodes' fourth differences are small is kept as it is (level_tables.cpp); for the others
+  /// `exact_mid(i)` is f at the middle of cell i, and a cell whose cubic misses it by more than a
+  /// quarter of `tolerance` goes, with its two neighbours (their stencils share the cell's
+  /// nodes). `exact_mid` is asked in increasing order of i, for only the cells the screen leaves
+  /// (every cell without it): where it carries state from call to call (the model's Newton hints),
+  /// its answers depend on which cells were asked, to the model's rounding. The screen cannot see
+  /// what leaves every node alike (a bump narrower than a cell, or a cell's middle without a
+  /// value where its nodes have one): the builds leave it off where the Envelope has a
+  /// ride-height map, whose joins every 0.5 m/s can fall several to a few cells.
   CellCubics(const std::vector<double>& nodes, double h, double tolerance,
-             const std::function<double(std::size_t)>& exact_mid);
+             const std::function<double(std::size_t)>& exact_mid, bool screen = true);
 
   bool empty() const { return cells_.empty(); }
   /// Cell i's cubic in t = x / h - i (monomial coefficients), or nullptr where it has none.

@@ -195,7 +195,9 @@ struct Lap {
   // The accelerations, aero forces and axle loads are filled where the speed is at least this,
   // NaN below it (LapSolver::add_channels' `loads_above_mps`; 0: everywhere). The trim, always.
   double loads_above_mps = 0.0;
-  // The accelerations and axle loads only at a sweep's row's points (LapSolver::add_row_loads).
+  // The longitudinal acceleration and the axle loads only at a sweep's row's points, NaN at the
+  // other points above the floor (LapSolver::add_row_loads); the lateral acceleration, the aero
+  // forces and the trim as with `loads_above_mps`.
   bool row_loads = false;
 };
 
