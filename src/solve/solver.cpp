@@ -2047,29 +2047,30 @@ void LapSolver::speed_pass(const Envelope& env, const Mesh& mesh, double start_s
 
 const Lap& LapSolver::add_channels(const Envelope& env, const Mesh& mesh, ChannelSet set,
                                    double loads_above_mps) {
-  const std::size_t n = mesh.size();
-  Lap& lap = lap_;
-  if (!speed_solved_ || lap.speed_mps.size() != n || forward_.gear.size() != n)
-    throw std::logic_error("LapSolver::add_channels: no speed solve on this mesh");
-  if (lap.has_channels || (set == ChannelSet::loads && lap.has_loads && !lap.row_loads &&
-                           lap.loads_above_mps <= loads_above_mps))
-    return lap;
-  // A copy: the forward sweep keeps its buffer for the next lap.
-  lap.gear.assign(forward_.gear.begin(), forward_.gear.end());
-  channels_pass(env, mesh, set, set == ChannelSet::loads ? loads_above_mps : 0.0);
-  return lap;
+  return fill_channels(env, mesh, set, set == ChannelSet::loads ? loads_above_mps : 0.0, nullptr,
+                       "add_channels");
 }
 
 const Lap& LapSolver::add_row_loads(const Envelope& env, const Mesh& mesh, const RowLoads& want) {
+  return fill_channels(env, mesh, ChannelSet::loads,
+                       std::min(want.drive_above_mps, want.turning_above_mps), &want,
+                       "add_row_loads");
+}
+
+const Lap& LapSolver::fill_channels(const Envelope& env, const Mesh& mesh, ChannelSet set,
+                                    double floor_mps, const RowLoads* row, const char* caller) {
   const std::size_t n = mesh.size();
   Lap& lap = lap_;
   if (!speed_solved_ || lap.speed_mps.size() != n || forward_.gear.size() != n)
-    throw std::logic_error("LapSolver::add_row_loads: no speed solve on this mesh");
-  const double floor_mps = std::min(want.drive_above_mps, want.turning_above_mps);
-  if (lap.has_channels || (lap.has_loads && !lap.row_loads && lap.loads_above_mps <= floor_mps))
+    throw std::logic_error(std::string("LapSolver::") + caller + ": no speed solve on this mesh");
+  // A lap that already holds what is asked stays: every channel, or the loads at every point
+  // from this floor or a lower one up (a row's loads hold fewer).
+  if (lap.has_channels || (set == ChannelSet::loads && lap.has_loads && !lap.row_loads &&
+                           lap.loads_above_mps <= floor_mps))
     return lap;
+  // A copy: the forward sweep keeps its buffer for the next lap.
   lap.gear.assign(forward_.gear.begin(), forward_.gear.end());
-  channels_pass(env, mesh, ChannelSet::loads, floor_mps, &want);
+  channels_pass(env, mesh, set, floor_mps, row);
   return lap;
 }
 

@@ -303,6 +303,10 @@ class LapSolver {
  private:
   /// The speed solve into lap_, its channels left as they were (has_channels false).
   void speed_pass(const Envelope& env, const Mesh& mesh, double start_speed_mps);
+  /// add_channels and add_row_loads: the channels pass with its floor and its row's points,
+  /// unless the lap already holds what is asked (`caller` names the one asked, in the error).
+  const Lap& fill_channels(const Envelope& env, const Mesh& mesh, ChannelSet set, double floor_mps,
+                           const RowLoads* row, const char* caller);
   /// The channels pass over the last speed solve, lap_.gear holding the forward sweep's gears.
   void channels_pass(const Envelope& env, const Mesh& mesh, ChannelSet set = ChannelSet::all,
                      double loads_above_mps = 0.0, const RowLoads* row = nullptr);
