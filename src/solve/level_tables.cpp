@@ -100,7 +100,8 @@ LevelTables build_level_tables(const Envelope& env) {
   LevelTables t;
   const Road level{};
   const double top = env.max_speed_mps() * env.max_speed_mps();
-  const std::size_t cells = LevelTables::cell_count;
+  const bool over_speed = env.has_map() || env.aero().speed_mps.size() > 1;
+  const std::size_t cells = over_speed ? LevelTables::fine_cell_count : LevelTables::cell_count;
   const double h = top / static_cast<double>(cells);
   // The fourth differences' screen (CellCubics), off with a ride-height map.
   const bool screen = !env.has_map();

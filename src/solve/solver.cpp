@@ -1692,7 +1692,7 @@ StepTables build_step_tables(const Envelope& env, double h) {
   if (!env.level_tables()) return t;
   t.h = h;
   const double top = env.max_speed_mps() * env.max_speed_mps();
-  const std::size_t cells = LevelTables::cell_count;
+  const std::size_t cells = StepTables::cell_count;
   const double du = top / static_cast<double>(cells);
   const InverseMass inv{1.0 / env.mass_kg(), 1.0 / env.effective_mass_kg()};
   // The bound on |f| first (from the nodes and cell middles, with a quarter to spare for

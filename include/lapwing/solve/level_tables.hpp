@@ -73,6 +73,10 @@ class CellCubics {
 /// exponential (README, "Performance"). Built by the sweeps on the first lap of an Envelope
 /// and a mesh step that has enough straight steps to pay for it.
 struct StepTables {
+  /// Cells over [0, the Envelope's top speed squared]. The drive table's cells at the engine's
+  /// gear changes go without a cubic (58 of 1 024 for the bench car): fewer, wider cells would
+  /// leave wider stretches of speed to the integrator.
+  static constexpr std::size_t cell_count = 1024;
   /// The build keeps a cell whose cubic meets the step at the cell's middle to a quarter of
   /// `check_per_m` x h (in u = v^2, m^2/s^2), with its neighbours (CellCubics).
   static constexpr double check_per_m = 1e-6;
@@ -119,8 +123,19 @@ struct LevelTables {
   /// model, Pellion FR-2 medium_table). Against braking and drive of several m/s^2 it moves a
   /// lap time by some 1e-11 (tools/lap-times, all bundled cases).
   static constexpr double tolerance_mps2 = 3e-8;
-  /// Cells over [0, the Envelope's top speed squared].
-  static constexpr std::size_t cell_count = 1024;
+  /// Cells over [0, the Envelope's top speed squared]: `cell_count` where the aero coefficients
+  /// are the same at every speed (a constant or a parts-table config, with or without its
+  /// straight-line trim), `fine_cell_count` where they vary with speed (a speed table; a
+  /// ride-height map, whose operating point is solved every 0.5 m/s). The first are smooth here
+  /// but for a kink where the binding axle changes: with 256 cells their largest miss is 9.2e-10
+  /// m/s^2 (2.6e-10 with 1 024), at least 251 cells of 256 kept
+  /// (tests/solve/level_tables_test.cpp, 4 000 speeds per table, every bundled car; measured
+  /// 2026-12-05). Coefficients over speed are joined by straight lines, and each join is a kink
+  /// (a map's every 0.5 m/s): with 256 cells (dv up to some 0.3 m/s at the top speed) a speed
+  /// table's kept cells fell to 84 % (the Pellion FR-2's medium_table), a map's joins would
+  /// fall in most of them; those Envelopes keep 1 024 cells.
+  static constexpr std::size_t cell_count = 256;
+  static constexpr std::size_t fine_cell_count = 1024;
   CellCubics brake;         // axle_brake_accel
   CellCubics grip;          // axle_drive_accel with no limit from the engine, untrimmed rows
   CellCubics grip_trimmed;  // the same on the straight-line trim's rows (empty without one)
