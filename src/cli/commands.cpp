@@ -605,10 +605,10 @@ int sweep(const SweepOptions& o, Inputs& in) {
   const std::vector<Circuit> circuits = in.lay_out_all(o.tracks, air, MeshPositions::left_out);
 
   const auto car_at = [&](std::size_t point) {
-    Document d = doc;
+    auto d = std::make_shared<Document>(doc);
     for (std::size_t s = 0; s < paths.size(); ++s)
-      set_car_value(d, paths[s], plan.value(point, s).text);
-    Car car = read_car_document(d).car;
+      set_car_value(*d, paths[s], plan.value(point, s).text);
+    Car car = read_car_document(std::shared_ptr<const Document>(std::move(d))).car;
     apply_model(o.model, car);
     return car;
   };

@@ -364,15 +364,10 @@ BalanceWindow read_balance_window(Reader w) {
   return b;
 }
 
-}  // namespace
-
-CarFile read_car_file(const std::string& file) {
-  return read_car_document(load_document(file));
-}
-
-CarFile read_car_document(const Document& doc) {
+// The car of `doc`, its values' places in `sources` (doc's).
+CarFile read_from(const Document& doc, SourceMap sources) {
   const std::string& file = doc.file;
-  CarFile out{Car{}, SourceMap(doc)};
+  CarFile out{Car{}, std::move(sources)};
   Car& car = out.car;
   const Checker check{out.sources};
   Reader r(doc, doc.root, "");
@@ -422,6 +417,21 @@ CarFile read_car_document(const Document& doc) {
   aero.finish();
   r.finish();
   return out;
+}
+
+}  // namespace
+
+CarFile read_car_file(const std::string& file) {
+  return read_car_document(std::make_shared<const Document>(load_document(file)));
+}
+
+CarFile read_car_document(const Document& doc) {
+  return read_from(doc, SourceMap(doc));
+}
+
+CarFile read_car_document(std::shared_ptr<const Document> doc) {
+  const Document& d = *doc;
+  return read_from(d, SourceMap(std::move(doc)));
 }
 
 Car load_car(const std::string& file) {

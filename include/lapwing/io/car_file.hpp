@@ -1,6 +1,7 @@
 // Reading a car file (README, "Car") into a Car.
 #pragma once
 
+#include <memory>
 #include <string>
 #include <string_view>
 #include <vector>
@@ -24,6 +25,10 @@ CarFile read_car_file(const std::string& file);
 
 /// Reads a car from a parsed car file (one with values set by a sweep, say), as read_car_file.
 CarFile read_car_document(const Document& doc);
+/// The same with the document kept by the car's SourceMap, which indexes its key paths only
+/// when a position or a text is asked for (an error): a sweep reads a car for every point and
+/// keeps none of its positions (the index was some 450 000 instructions a car, measured).
+CarFile read_car_document(std::shared_ptr<const Document> doc);
 
 /// The key path a sweep's key names in this car file: a wing family's name (README, "Wing
 /// families") stands for its setting, "aero.families.NAME.at"; any other key is a key path as
