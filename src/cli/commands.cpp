@@ -11,6 +11,7 @@
 #include <filesystem>
 #include <fstream>
 #include <iostream>
+#include <optional>
 #include <sstream>
 #include <system_error>
 #include <thread>
@@ -545,19 +546,22 @@ std::string read_bytes(const std::string& file) {
 // A point's car refused by the car file's rules, said as the set (or the point's values) that
 // made it: "--set mass=500kg:700kg:3: value 500 kg: ... (mass)".
 UsageError point_error(const SweepPlan& plan, const std::vector<std::string>& paths,
-                       std::size_t point, const InputError& e) {
+                       std::size_t point, const std::string& k, const std::string& message) {
   for (std::size_t s = 0; s < paths.size(); ++s) {
     const std::string& p = paths[s];
-    const std::string& k = e.key_path();
     if (k == p || k.rfind(p + ".", 0) == 0 || k.rfind(p + "[", 0) == 0)
       return UsageError{"--set " + plan.sets()[s].text + ": at " + plan.value(point, s).text +
-                        ": " + e.message() + " (" + k + ")"};
+                        ": " + message + " (" + k + ")"};
   }
   std::string values;
   for (std::size_t s = 0; s < paths.size(); ++s)
     values += (values.empty() ? "" : ", ") + plan.sets()[s].key + " = " + plan.value(point, s).text;
-  return UsageError{"--set: the point " + values + ": " + e.message() +
-                    (e.key_path().empty() ? "" : " (" + e.key_path() + ")")};
+  return UsageError{"--set: the point " + values + ": " + message +
+                    (k.empty() ? "" : " (" + k + ")")};
+}
+UsageError point_error(const SweepPlan& plan, const std::vector<std::string>& paths,
+                       std::size_t point, const InputError& e) {
+  return point_error(plan, paths, point, e.key_path(), e.message());
 }
 
 int sweep(const SweepOptions& o, Inputs& in) {
@@ -660,7 +664,8 @@ int sweep(const SweepOptions& o, Inputs& in) {
         throw UsageError{"--track: two tracks share the name '" + study.tracks[t] +
                          "' (the results name tracks by file name)"};
 
-  SweepStore store(o.out, study, plan);
+  std::optional<SweepStore> store;
+  store.emplace(o.out, study, plan);
   lapwing::SweepOptions run;
   run.shard = shard;
   run.threads = o.threads;
@@ -679,7 +684,20 @@ int sweep(const SweepOptions& o, Inputs& in) {
   const auto start = std::chrono::steady_clock::now();
   SweepOutcome r;
   try {
-    r = run_sweep(plan, circuits, configs, car_at, store, run);
+    r = run_sweep(plan, circuits, configs, car_at, *store, run);
+  } catch (const SweepPointInvalid& e) {
+    // A point's car refused where its laps are set up (its Envelope: a rule the air or the
+    // speed range breaks), said as the set that made it, as a refusal of the point's car file
+    // is before any lap. A store this run made goes, as no output is made from a refused input;
+    // a resumed one keeps the points it held and those done before the refused one.
+    std::signal(SIGINT, previous);
+    const bool made = store->created();
+    store.reset();
+    if (made) {
+      std::error_code ec;
+      std::filesystem::remove(o.out, ec);
+    }
+    throw point_error(plan, paths, e.point(), e.violation().field, e.message());
   } catch (...) {
     std::signal(SIGINT, previous);
     throw;

@@ -354,7 +354,10 @@ std::string shard_list(const ShardLabels& labels) {
 SweepStore::SweepStore(const std::string& file, const StudyRecord& study, const SweepPlan& plan)
     : plan_(&plan), study_(study), done_(plan.points(), false) {
   require_not_input(file);
-  if (!std::filesystem::exists(file)) create_store(file, study, plan);
+  if (!std::filesystem::exists(file)) {
+    create_store(file, study, plan);
+    created_ = true;
+  }
   db_ = std::make_unique<Db>(file, false);
   Connection& c = db_->c;
   c.exec("PRAGMA synchronous = FULL");

@@ -328,6 +328,10 @@ SweepOutcome run_sweep(const SweepPlan& plan, const std::vector<Circuit>& circui
             // A point that cannot lap is a result of the study, not a stop (README, "Sweep").
             r.ok = false;
             r.message = e.what();
+          } catch (const SweepPointInvalid&) {
+            throw;
+          } catch (const InvalidInput& e) {
+            throw SweepPointInvalid(point, e);
           }
         }
       }

@@ -193,6 +193,23 @@ expect_refused "--set mass=-10kg:600kg:3: at -10 kg: value -10 kg is out of rang
 expect_refused "--set front_flap=5deg:22deg:4: at 5 deg:" --set front_flap=5deg:22deg:4
 expect_refused "did you mean 'medium'?" --set aero.configs.meduim.cla=3,4
 expect_refused "one unit" --set mass=600kg:0.7t:3
+
+# A point whose car passes the car file's rules but is refused where its laps are set up (a
+# ride-height map's straight-line trim that leaves no downforce at some speed: known only when
+# the map is solved over speed) is said as the point that made it, exit 2, and the store the
+# run made goes (a second reader found the file's own line given and the store left).
+sed 's/^\(      ride_height_map:\)$/      straight_trim: {cda: 0 m2, cla: -3.0 m2, balance: 0.0, below_curvature: 0.002}\n\1/' \
+  "$car" > "$tmp/map-trim.yaml"
+"$bin" sweep --car "$tmp/map-trim.yaml" --track tracks/skidpad.yaml --config high_map \
+  --set aero.configs.high_map.straight_trim.cla=-3.0m2:-3.95m2:4 --out "$tmp/late.sqlite" \
+  > "$tmp/out.txt" 2> "$tmp/err.txt"
+rc=$?
+if [ $rc = 2 ] && grep -qF -- "--set: the point aero.configs.high_map.straight_trim.cla = -3.95 m2: straight_trim takes" "$tmp/err.txt" &&
+  [ ! -e "$tmp/late.sqlite" ]; then
+  ok
+else
+  bad "refused where its laps are set up: rc $rc, $(cat "$tmp/err.txt"), $(ls "$tmp"/late* 2>&1)"
+fi
 expect_refused "no config named 'hihg'" --set mass=600,610 --config hihg
 expect_refused "lhs:N" --set mass=600:610 --design lhs
 expect_refused "1 <= K <= N" --set mass=600,610 --shard 4/3

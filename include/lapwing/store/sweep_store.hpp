@@ -48,6 +48,8 @@ class SweepStore : public SweepSink {
   SweepStore& operator=(const SweepStore&) = delete;
 
   bool has(std::size_t point) const override;
+  /// Whether this store made the file (it did not hold the study before).
+  bool created() const { return created_; }
   /// One transaction: every row, with the point's set values (plan.value) as columns.
   void commit(const std::vector<SweepRow>& rows) override;
 
@@ -57,6 +59,7 @@ class SweepStore : public SweepSink {
   const SweepPlan* plan_;
   StudyRecord study_;
   std::vector<bool> done_;
+  bool created_ = false;
 };
 
 /// The fastest point of a track in a results store (status ok), any config.

@@ -15,6 +15,7 @@
 #include <string_view>
 #include <vector>
 
+#include "lapwing/base/error.hpp"
 #include "lapwing/model/car.hpp"
 #include "lapwing/study/circuit.hpp"
 
@@ -143,10 +144,23 @@ struct SweepOutcome {
   bool stopped = false;
 };
 
+/// A point's car refused where its laps are set up (its Envelope: a rule that only the air or
+/// the speed range can break, as a straight-line trim that would leave no downforce at some
+/// speed), said with the point it came from (the plan's index).
+class SweepPointInvalid : public InvalidInput {
+ public:
+  SweepPointInvalid(std::size_t point, const InvalidInput& e) : InvalidInput(e), point_(point) {}
+  std::size_t point() const { return point_; }
+
+ private:
+  std::size_t point_;
+};
+
 /// Runs the plan's points of the shard that the sink does not hold: for each point the car
 /// `car_at(point)` (a valid car), each config of `configs` (names of its configs) round each
-/// circuit. A car that cannot complete a track is a row with ok = false; any other error stops
-/// the run (rows committed so far stay).
+/// circuit. A car that cannot complete a track is a row with ok = false; a car refused when its
+/// laps are set up stops the run as SweepPointInvalid; any other error stops it as it is (rows
+/// committed so far stay).
 SweepOutcome run_sweep(const SweepPlan& plan, const std::vector<Circuit>& circuits,
                        const std::vector<std::string>& configs,
                        const std::function<Car(std::size_t point)>& car_at, SweepSink& sink,
