@@ -101,18 +101,27 @@ LevelTables build_level_tables(const Envelope& env) {
   const Road level{};
   const double top = env.max_speed_mps() * env.max_speed_mps();
   const bool over_speed = env.has_map() || env.aero().speed_mps.size() > 1;
-  const std::size_t cells = over_speed ? LevelTables::fine_cell_count : LevelTables::cell_count;
-  const double h = top / static_cast<double>(cells);
   // The fourth differences' screen (CellCubics), off with a ride-height map.
   const bool screen = !env.has_map();
   constexpr double unlimited = std::numeric_limits<double>::infinity();
-  auto table = [&](auto f) {
+  auto table_of = [&](std::size_t cells, auto f) {
+    const double h = top / static_cast<double>(cells);
     AxleHints hints;  // node to node, as a sweep's steps
     std::vector<double> nodes(cells + 1);
     for (std::size_t i = 0; i <= cells; ++i) nodes[i] = f(static_cast<double>(i) * h, hints);
     return CellCubics(
         nodes, h, LevelTables::tolerance_mps2,
         [&](std::size_t i) { return f((static_cast<double>(i) + 0.5) * h, hints); }, screen);
+  };
+  // A table in `cell_count` cells where that keeps at least LevelTables::min_kept_share of
+  // them, else in `fine_cell_count` (LevelTables::cell_count).
+  auto table = [&](auto f) {
+    if (over_speed) return table_of(LevelTables::fine_cell_count, f);
+    CellCubics coarse = table_of(LevelTables::cell_count, f);
+    if (static_cast<double>(coarse.kept_cells()) >=
+        LevelTables::min_kept_share * static_cast<double>(coarse.cells()))
+      return coarse;
+    return table_of(LevelTables::fine_cell_count, f);
   };
   t.brake = table(
       [&](double u, AxleHints& hints) { return axle_brake_accel(env, u, 0.0, level, &hints); });

@@ -133,9 +133,14 @@ struct LevelTables {
   /// 2026-12-05). Coefficients over speed are joined by straight lines, and each join is a kink
   /// (a map's every 0.5 m/s): with 256 cells (dv up to some 0.3 m/s at the top speed) a speed
   /// table's kept cells fell to 84 % (the Pellion FR-2's medium_table), a map's joins would
-  /// fall in most of them; those Envelopes keep 1 024 cells.
+  /// fall in most of them; those Envelopes keep 1 024 cells. So does a table whose 256 cells
+  /// keep fewer than `min_kept_share` of them: a car far from the bundled ones can bend more
+  /// (a second reader's Pellion FR-2 with a load sensitivity of 0.95 and a ClA of 12 m^2 kept 65
+  /// to 94 % of 256 cells, 93 to 99.5 % of 1 024), and a dropped cell is the model's work at
+  /// every step in its speed range.
   static constexpr std::size_t cell_count = 256;
   static constexpr std::size_t fine_cell_count = 1024;
+  static constexpr double min_kept_share = 0.95;
   CellCubics brake;         // axle_brake_accel
   CellCubics grip;          // axle_drive_accel with no limit from the engine, untrimmed rows
   CellCubics grip_trimmed;  // the same on the straight-line trim's rows (empty without one)
