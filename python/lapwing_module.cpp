@@ -279,8 +279,8 @@ std::vector<std::size_t> pick_configs(const CarHandle& car_handle, const Car& ca
 }
 
 CarHandle read_car(const Document& doc) {
-  return {std::make_shared<const Document>(doc),
-          std::make_shared<const CarFile>(read_car_document(doc))};
+  auto kept = std::make_shared<const Document>(doc);
+  return {kept, std::make_shared<const CarFile>(read_car_document(kept))};
 }
 
 // A path with a NUL character would be opened cut at it (the C library's end of a name): refused.
