@@ -233,11 +233,15 @@ Envelope::Envelope(Unchecked, const ConfiguredCar& configured, const Car& car, c
     trim_below_curvature_ = a.trim->below_curvature_1pm;
   }
   const std::shared_ptr<const DriveRows> drive = drive_rows(p, r, v_max_, du_, n);
+  // A config of one row (constant coefficients, a parts table) has them at every speed: read
+  // once, not through aero_at at each of the rows.
+  const bool one_row = !a.map && a.speed_mps.size() <= 1;
+  const AeroPoint fixed = one_row ? table_point(a, 0.0) : AeroPoint{};
   for (std::size_t k = 0; k < n; ++k) {
     const double v = row_speed(k, n, v_max_, du_);
     // The engine in this air (SAE J1349 for natural and turbo).
     const double drive_n = drive->force_n[k] * power_ratio_;
-    const AeroPoint c = aero_at(v);
+    const AeroPoint c = one_row ? fixed : aero_at(v);
     rows_[k] = {drive_n, 0.5 * rho_ * c.cda_m2, 0.5 * rho_ * c.cla_m2, c.balance};
     gear_[k] = drive->gear[k];
     if (a.trim) {
