@@ -235,7 +235,7 @@ Envelope::Envelope(Unchecked, const ConfiguredCar& configured, const Car& car, c
   const std::shared_ptr<const DriveRows> drive = drive_rows(p, r, v_max_, du_, n);
   // A config of one row (constant coefficients, a parts table) has them at every speed: read
   // once, not through aero_at at each of the rows.
-  const bool one_row = !a.map && a.speed_mps.size() <= 1;
+  const bool one_row = a.one_row();
   const AeroPoint fixed = one_row ? table_point(a, 0.0) : AeroPoint{};
   for (std::size_t k = 0; k < n; ++k) {
     const double v = row_speed(k, n, v_max_, du_);

@@ -100,7 +100,7 @@ LevelTables build_level_tables(const Envelope& env) {
   LevelTables t;
   const Road level{};
   const double top = env.max_speed_mps() * env.max_speed_mps();
-  const bool over_speed = env.has_map() || env.aero().speed_mps.size() > 1;
+  const bool over_speed = !env.aero().one_row();
   // The fourth differences' screen (CellCubics), off with a ride-height map.
   const bool screen = !env.has_map();
   constexpr double unlimited = std::numeric_limits<double>::infinity();

@@ -132,6 +132,10 @@ struct AeroConfig {
   // drag_height_m from its parts.
   std::optional<double> mass_kg, inertia_factor, cg_height_m, front_weight, drag_height_m;
 
+  /// Whether the coefficients are the same at every speed: one row (a constant config, a parts
+  /// table reduced on load), no ride-height map.
+  bool one_row() const { return !map && speed_mps.size() <= 1; }
+
   /// The first value of the aero data that breaks a rule, in the order of the config's keys in
   /// a car file (key paths relative to the config: "cda", "speed_table.cla[2]",
   /// "straight_trim"). The overrides are the car's values: Car::validate checks them.
