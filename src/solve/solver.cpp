@@ -412,8 +412,10 @@ void steady_points_as(const Envelope& env, const Mesh& mesh, SteadyProfile& p, s
       if (tables && hint > 0.0 &&
           u_guess < static_cast<double>(tables->lateral_nodes.size()) * tables->lateral_du)
         grip_cell = static_cast<std::size_t>(u_guess / tables->lateral_du);
-      if (tables && level_in_still_air(road) &&
-          tables->steady_grip_speed(curv, v_table, &grip_cell))
+      const bool level_road = tables && level_in_still_air(road);
+      if (level_road && tables->grip_holds_at_top(curv))
+        v_grip = v_max;  // what the search finds there (LevelTables::grip_holds_at_top)
+      else if (level_road && tables->steady_grip_speed(curv, v_table, &grip_cell))
         v_grip = v_table;
       else
         v_grip =

@@ -330,6 +330,47 @@ TEST_CASE("the lateral-limit search from the last node finds the node the bisect
   CHECK(2 * static_cast<std::size_t>(falling) >= cars().size());  // measured: all 45
 }
 
+TEST_CASE("where the top node holds a curvature, the tyres hold it at the top speed") {
+  // LevelTables::grip_holds_at_top answers the steady limits' search (its usage at the top
+  // speed at most 1: the top speed) without it. The premise: the top node's u is the top speed
+  // squared to the bit (the cells are a power of two in number), and the steady usage grows with
+  // the curvature at a given speed (more lateral demand, more load moved to the outer tyre).
+  // Checked against the model (axle_steady_excess, the search's own test) at curvatures from 1e-7
+  // 1/m to ten times the top node's A(u) / u and within 1e-3 to 1e-12 of it on both sides: wherever
+  // it says yes the model's usage is at most 1. A test of the test: it says yes and no for every
+  // car (the edge is crossed).
+  const Road level{};
+  for (const ConfiguredCar& car : cars()) {
+    const Envelope env(car, make_air(AirSpec{}));
+    const LevelTables& t = *env.level_tables();
+    const std::size_t n = t.lateral_nodes.size() - 1;
+    const double v_max = env.max_speed_mps();
+    const double u_top = static_cast<double>(n) * t.lateral_du;
+    INFO(car.car().name << " " << car.aero().name);
+    CHECK(u_top == v_max * v_max);
+    REQUIRE(t.lateral_nodes[n] > 0.0);
+    const double edge = t.lateral_nodes[n] / u_top;
+    std::vector<double> curvatures;
+    for (int j = 0; j <= 80; ++j) curvatures.push_back(1e-7 * std::pow(10.0, j / 10.0));
+    for (int j = 3; j <= 12; ++j)
+      for (const double side : {-1.0, 1.0})
+        curvatures.push_back(edge * (1.0 + side * std::pow(10.0, -j)));
+    int yes = 0, no = 0;
+    for (const double k : curvatures) {
+      if (!(k <= 10.0 * edge)) continue;
+      if (t.grip_holds_at_top(k)) {
+        ++yes;
+        CAPTURE(k);
+        CHECK(axle_steady_excess(env, v_max, k, level) <= 0.0);
+      } else {
+        ++no;
+      }
+    }
+    CHECK(yes > 0);
+    CHECK(no > 0);
+  }
+}
+
 TEST_CASE("the step tables hold the sweeps' straight step to their tolerance") {
   // StepTables' promise (tolerance_per_m x h in u = v^2), checked between the build's own check
   // points: 40,000 speeds per table against free_straight_step, the step the sweeps take on a

@@ -174,6 +174,20 @@ struct LevelTables {
   /// the nodes fall (lateral_falls: the same node, to the bit, as without it), the steady
   /// limits' guess's (extrapolated along a clothoid: within a node or two); set to this call's.
   bool steady_grip_speed(double abs_curvature, double& v, std::size_t* cell = nullptr) const;
+  /// Whether the tyres surely hold the car at the top speed (the Envelope's max_speed_mps, whose
+  /// square is the top node's u) at |kappa|: the top node's A(u), the feasible end of its
+  /// search, is above kappa u by more than 1e-12 of it. The steady usage grows with the lateral
+  /// demand (more demand, more load moved to the outer tyre, less capacity), so the steady
+  /// limits' search at that point would find its usage at the top speed at most 1 and answer the
+  /// top speed: the same answer without the search. Where the top node holds kappa by less, or
+  /// has no value, false (the search decides). A surveyed or logged centerline's near-straights
+  /// (no point of curvature 0, each point its own) are such points.
+  bool grip_holds_at_top(double abs_curvature) const {
+    if (lateral_nodes.empty()) return false;
+    const std::size_t n = lateral_nodes.size() - 1;
+    const double demand = abs_curvature * (static_cast<double>(n) * lateral_du);
+    return demand * (1.0 + 1e-12) < lateral_nodes[n];
+  }
 
   /// The step tables by step length (built by the sweeps, solve/solver.cpp).
   std::shared_ptr<StepTableCache> steps = std::make_shared<StepTableCache>();
