@@ -183,9 +183,12 @@ TEST_CASE("a cell is kept without its middle's check only where its fourth diffe
   CHECK(h.at(5.16, y));
 }
 
-TEST_CASE("the tables give the axle model's straight-line accelerations to 1e-8 m/s^2") {
-  // The stand-in's promise (LevelTables::tolerance_mps2), checked between the build's own
-  // check points: 4,000 speeds per table, against axle_brake_accel and axle_drive_accel (no
+TEST_CASE(
+    "the tables give the axle model's straight-line accelerations to 3e-8 m/s^2 (6e-8, a map)") {
+  // The stand-in's promise (LevelTables::tolerance_mps2; map_tolerance_mps2 with a ride-height
+  // map), checked between the build's own check points: 40,000 speeds per table, 400,000 with
+  // a map (whose misses peak near its joins: 2.3e-8 at 4,000 speeds, 4.4e-8 at 40,000, 4.6e-8
+  // at 400,000), against axle_brake_accel and axle_drive_accel (no
   // limit from the engine) on a level road in still air at curvature 0. The cells kept must be
   // most of them, or the tables would buy nothing: at least 90 % (a kink where the binding axle
   // changes costs a few cells; measured 96 to 100 %), except with a ride-height map, whose
@@ -203,7 +206,9 @@ TEST_CASE("the tables give the axle model's straight-line accelerations to 1e-8 
       ++tables;
       if (!car.aero().map) CHECK(c.kept_cells() >= 9 * c.cells() / 10);
       INFO(car.car().name << " " << car.aero().name);
-      CHECK(worst_miss(c, top, 4000, model) <= LevelTables::tolerance_mps2);
+      const bool map = car.aero().map.has_value();
+      CHECK(worst_miss(c, top, map ? 400000 : 40000, model) <=
+            (map ? LevelTables::map_tolerance_mps2 : LevelTables::tolerance_mps2));
     };
     check(t->brake, [&](double u) { return axle_brake_accel(env, u, 0.0, level); });
     check(t->grip, [&](double u) { return axle_drive_accel(env, u, 0.0, level, inf, false); });
@@ -217,8 +222,8 @@ TEST_CASE("the tables give the axle model's straight-line accelerations to 1e-8 
 }
 
 TEST_CASE("laps with the level tables are the model's laps (5e-9 relative)") {
-  // The tables change the accelerations by at most 3e-8 m/s^2, against braking and drive of
-  // several m/s^2, and the steady grip limits by at most twice
+  // The tables change the accelerations by at most 3e-8 m/s^2 (6e-8 with a ride-height map),
+  // against braking and drive of several m/s^2, and the steady grip limits by at most twice
   // LevelTables::steady_speed_share (4e-9), towards the slow side: lap times move by no more
   // than that and the accelerations' share, 5e-9 (measured: 2.0e-9 at most over the bundled
   // cars, configs and tracks, on the skid pad, whose lap is all at the steady limit;

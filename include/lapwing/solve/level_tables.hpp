@@ -6,7 +6,7 @@
 // matches the model at the cell's middle to within `tolerance_mps2` (and its neighbours' too);
 // elsewhere (a kink where the binding axle changes, the breaks of a ride-height map's speeds)
 // the caller asks the model itself. The answers stay the model's to 3e-8 m/s^2, a few
-// billionths of a braking deceleration.
+// billionths of a braking deceleration (6e-8 with a ride-height map: `map_tolerance_mps2`).
 #pragma once
 
 #include <array>
@@ -123,6 +123,14 @@ struct LevelTables {
   /// model, Pellion FR-2 medium_table). Against braking and drive of several m/s^2 it moves a
   /// lap time by some 1e-11 (tools/lap-times, all bundled cases).
   static constexpr double tolerance_mps2 = 3e-8;
+  /// How far from the model a table of a config with a ride-height map may read between the
+  /// build's checks (m/s^2): the map's operating point is solved every 0.5 m/s and joined by
+  /// straight lines, and a join inside a cell kinks the model where the cell's middle, the one
+  /// point the build checks there, can miss the worst of it. Measured: 2.3e-8 at 4 000 speeds a
+  /// table, 4.4e-8 at 40 000 and 4.6e-8 at 400 000 (the Pellion FR-2's high_map, drive, rear
+  /// and all-wheel drive); this bound keeps a quarter to spare. Still some 1e-8 of a braking
+  /// deceleration, and twenty times under held_margin (solver.cpp, 1e-6).
+  static constexpr double map_tolerance_mps2 = 6e-8;
   /// Cells over [0, the Envelope's top speed squared]: `cell_count` where the aero coefficients
   /// are the same at every speed (a constant or a parts-table config, with or without its
   /// straight-line trim), `fine_cell_count` where they vary with speed (a speed table; a
