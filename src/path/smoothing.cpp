@@ -8,6 +8,7 @@
 #include <memory>
 #include <variant>
 
+#include "lapwing/base/fft.hpp"
 #include "lapwing/base/halves.hpp"
 #include "lapwing/base/units.hpp"
 
@@ -74,11 +75,11 @@ struct Envelope {
   }
 };
 
-// Samples from which GCV's candidate strengths are worked on two threads (choose_smoothing):
-// each candidate is a factorisation of n rows and a solve for each series (and each trace
-// probe of an open track), most in binary128: some 1.5 ms a candidate on the surveyed
-// Brannock Park (measured: 55 candidates in about 80 ms), where a thread's start costs some
-// 0.1 ms.
+// Samples from which an open path's GCV candidate strengths are worked on two threads
+// (choose_smoothing): each candidate is a factorisation of n rows and a solve for each series
+// and each trace probe, most in binary128: some 1.5 ms a candidate on 2 742 samples (measured
+// on the surveyed Brannock Park, before a closed path's candidates were read from the
+// spectrum: 55 candidates in about 80 ms), where a thread's start costs some 0.1 ms.
 constexpr std::size_t candidates_apart = 500;
 
 // lambda 4^d below which double precision is enough: eps 1e5 = 2e-11 relative error.
@@ -230,8 +231,33 @@ SmoothingChoice choose_smoothing(const std::vector<std::vector<double>>& series,
     }
   }
 
+  // Closed: the residuals' sum of squares in the DFT's basis, where the penalty is diagonal
+  // (the eigenvalues above): RSS = (1 / n) sum_k P_k (lambda e_k / (1 + lambda e_k))^2, P_k the
+  // series' power spectra summed (Parseval). Each candidate in O(n) and double precision, each
+  // factor at most 1: no system to factor, where binary128 took some 1.5 ms a candidate. The
+  // search's comparisons read these; the choice's own figures are the solve's (below).
+  std::vector<double> power;
+  if (periodic) {
+    power.assign(n, 0.0);
+    for (const auto& y : series) {
+      const std::vector<double> p = power_spectrum(y);
+      for (std::size_t k = 0; k < n; ++k) power[k] += p[k];
+    }
+  }
+
   struct Eval {
     double length, lambda, gcv, rss, trace;
+  };
+  auto evaluate_spectral = [&](double length) {
+    Eval e{length, smoothing_lambda(h, length, order), 0.0, 0.0, 0.0};
+    for (std::size_t k = 0; k < n; ++k) {
+      const double le = e.lambda * eig[k], r = le / (1.0 + le);
+      e.rss += power[k] * r * r;
+      e.trace += 1.0 / (1.0 + le);
+    }
+    e.rss /= nd;
+    e.gcv = nd * e.rss / std::pow(std::max(nd - e.trace, 1e-9), 2);
+    return e;
   };
   auto evaluate_with = [&](PenalisedSystem& solver, double length) {
     Eval e{length, smoothing_lambda(h, length, order), 0.0, 0.0, 0.0};
@@ -247,25 +273,33 @@ SmoothingChoice choose_smoothing(const std::vector<std::vector<double>>& series,
     e.gcv = nd * e.rss / std::pow(std::max(nd - e.trace, 1e-9), 2);
     return e;
   };
-  auto evaluate = [&](double length) { return evaluate_with(system, length); };
+  auto evaluate = [&](double length) {
+    return periodic ? evaluate_spectral(length) : evaluate_with(system, length);
+  };
 
   // Log-spaced candidates, then golden-section search in log(length) inside the best bracket.
-  // The candidates are independent of each other: the even ones and the odd ones, on two
-  // threads where the series are long enough to pay for one (each share with a system of its
-  // own; the same evaluations either way, so the same choice to the bit). Alternate, not
-  // halves: the short lengths' weak penalties factor in double precision, the long ones' in
-  // binary128 at some ten times the cost.
+  // A closed path's candidates from the spectrum (a few microseconds each). An open path's are
+  // independent of each other: the even ones and the odd ones, on two threads where the series
+  // are long enough to pay for one (each share with a system of its own; the same evaluations
+  // either way, so the same choice to the bit). Alternate, not halves: the short lengths' weak
+  // penalties factor in double precision, the long ones' in binary128 at some ten times the
+  // cost.
   constexpr int candidates = 41;
   const double lo = std::log(min_length), hi = std::log(max_length);
   std::vector<Eval> grid(candidates);
-  const std::unique_ptr<SecondThread> second =
-      n >= candidates_apart && usable_processors() >= 2 ? SecondThread::try_start() : nullptr;
-  in_halves(2, second.get(), [&](std::size_t share, std::size_t) {
-    PenalisedSystem own(n, order, periodic);
-    for (int k = static_cast<int>(share); k < candidates; k += 2)
-      grid[static_cast<std::size_t>(k)] =
-          evaluate_with(own, std::exp(lo + (hi - lo) * k / (candidates - 1)));
-  });
+  const auto length_at = [&](int k) { return std::exp(lo + (hi - lo) * k / (candidates - 1)); };
+  if (periodic) {
+    for (int k = 0; k < candidates; ++k)
+      grid[static_cast<std::size_t>(k)] = evaluate_spectral(length_at(k));
+  } else {
+    const std::unique_ptr<SecondThread> second =
+        n >= candidates_apart && usable_processors() >= 2 ? SecondThread::try_start() : nullptr;
+    in_halves(2, second.get(), [&](std::size_t share, std::size_t) {
+      PenalisedSystem own(n, order, periodic);
+      for (int k = static_cast<int>(share); k < candidates; k += 2)
+        grid[static_cast<std::size_t>(k)] = evaluate_with(own, length_at(k));
+    });
+  }
   std::size_t best = 0;
   for (std::size_t k = 1; k < grid.size(); ++k)
     if (grid[k].gcv < grid[best].gcv) best = k;
@@ -289,6 +323,9 @@ SmoothingChoice choose_smoothing(const std::vector<std::vector<double>>& series,
     for (const Eval& e : {ec, ed})
       if (e.gcv < chosen.gcv) chosen = e;
   }
+  // The chosen strength's figures (its residuals, trace and noise) from the solve itself, as
+  // the fit that follows makes it.
+  if (periodic) chosen = evaluate_with(system, chosen.length);
   SmoothingChoice out;
   out.length_m = chosen.length;
   out.lambda = chosen.lambda;

@@ -11,6 +11,7 @@
 #include <cstdint>
 #include <vector>
 
+#include "lapwing/base/fft.hpp"
 #include "lapwing/base/units.hpp"
 #include "lapwing/path/smoothing.hpp"
 #include "test_support.hpp"
@@ -76,6 +77,36 @@ TEST_CASE("on a closed path the circulant trace equals the dense hat matrix's tr
   const SmoothingChoice c = choose_smoothing({x, y}, 2.0, 3, true, 4.0, 200.0);
   CHECK(c.exact_trace);
   CHECK(near(c.equivalent_dof, dense_trace(n, 3, true, c.lambda), 1e-10));
+}
+
+TEST_CASE("on a closed path the residuals' spectral sum equals the solve's") {
+  // choose_smoothing reads a closed path's candidates from the series' power spectrum:
+  // ||y - H y||^2 = (1 / n) sum_k |Y_k|^2 (lambda e_k / (1 + lambda e_k))^2, e_k = (2 - 2 cos(2
+  // pi k / n))^d the circulant D'D's eigenvalues (Parseval's theorem on a circulant hat matrix).
+  // Checked against the smoother's own solve (binary128 where lambda is large) on a noisy
+  // circuit-like series (a large mean and swing, as coordinates have), from the weakest
+  // strength searched to a hundred times the strongest: within 1e-9 of each other.
+  const int n = 2742, order = 3;
+  const double h = 1.0;
+  Noise noise{0x9E3779B97F4A7C15ull};
+  std::vector<double> y = signal(n, h);
+  for (auto& v : y) v = 10.0 * v + 500.0 + 0.2 * noise.gauss();
+  const std::vector<double> p = power_spectrum(y);
+  for (const double length : {2.0, 20.0, 200.0, 2000.0, 20000.0}) {
+    const double lambda = smoothing_lambda(h, length, order);
+    const std::vector<double> f = smooth_lambda(y, lambda, order, true);
+    double solve = 0.0, spectral = 0.0;
+    for (std::size_t i = 0; i < y.size(); ++i) solve += (y[i] - f[i]) * (y[i] - f[i]);
+    for (std::size_t k = 0; k < y.size(); ++k) {
+      const double e =
+          std::pow(2.0 - 2.0 * std::cos(2.0 * units::pi * static_cast<double>(k) / n), order);
+      const double r = lambda * e / (1.0 + lambda * e);
+      spectral += p[k] * r * r;
+    }
+    spectral /= n;
+    CAPTURE(length);
+    CHECK(std::abs(spectral - solve) <= 1e-9 * solve);
+  }
 }
 
 TEST_CASE("on an open path the stochastic trace estimate is within 1 % of n - tr H") {
