@@ -253,8 +253,9 @@ PathProfile fit_centerline(std::shared_ptr<const CenterlinePoints> given, bool c
     const double lo = gcv_min_spacings * h0;
     const double hi = std::max(lo, std::min(gcv_max_spacings * h0, 0.5 * total));
     const SmoothingChoice g = choose_smoothing({pts.x_m, pts.y_m}, h0, xy_order, closed, lo, hi);
-    const auto gx = smooth_lambda(pts.x_m, g.lambda, xy_order, closed);
-    const auto gy = smooth_lambda(pts.y_m, g.lambda, xy_order, closed);
+    const auto gxy = smooth_lambda_all({pts.x_m, pts.y_m}, g.lambda, xy_order, closed);
+    const std::vector<double>& gx = gxy[0];
+    const std::vector<double>& gy = gxy[1];
     double fitted = 0.0;
     for (std::size_t i = 1; i < m + (closed ? 1 : 0); ++i)
       fitted += std::hypot(gx[i % m] - gx[i - 1], gy[i % m] - gy[i - 1]);
@@ -270,8 +271,9 @@ PathProfile fit_centerline(std::shared_ptr<const CenterlinePoints> given, bool c
   const double h = r.h;
   p.sample_spacing_m = h;
   const std::size_t samples = r.size();
-  const auto fx = smooth(r.x, h, length, xy_order, closed);
-  const auto fy = smooth(r.y, h, length, xy_order, closed);
+  const auto fxy = smooth_all({r.x, r.y}, h, length, xy_order, closed);
+  const std::vector<double>& fx = fxy[0];
+  const std::vector<double>& fy = fxy[1];
   std::vector<double> res(samples);
   for (std::size_t j = 0; j < samples; ++j) res[j] = std::hypot(r.x[j] - fx[j], r.y[j] - fy[j]);
   p.fit_residual_rms_m = rms(res, std::vector<double>(samples, 0.0));
@@ -343,13 +345,25 @@ PathProfile fit_centerline(std::shared_ptr<const CenterlinePoints> given, bool c
                          broken_rule("", os.str(), "z_m[" + std::to_string(r.nearest[j]) + "]"));
     }
   }
+  // The widths and the bank alike, from one factorisation: smoothed over the path's smoothing
+  // length (a survey's bank is as noisy as its edges).
+  std::vector<std::vector<double>> sides;
   if (!r.wl.empty()) {
-    p.width_left_m = smooth(r.wl, h, length, 1, closed);
-    p.width_right_m = smooth(r.wr, h, length, 1, closed);
+    sides.push_back(r.wl);
+    sides.push_back(r.wr);
   }
-  // The bank as the widths: smoothed over the path's smoothing length (a survey's bank is as
-  // noisy as its edges).
-  if (!r.bank.empty()) p.bank_rad = smooth(r.bank, h, length, 1, closed);
+  if (!r.bank.empty()) sides.push_back(r.bank);
+  if (!sides.empty()) {
+    std::vector<std::vector<double>> smoothed = smooth_all(sides, h, length, 1, closed);
+    if (!r.bank.empty()) {
+      p.bank_rad = std::move(smoothed.back());
+      smoothed.pop_back();
+    }
+    if (!r.wl.empty()) {
+      p.width_left_m = std::move(smoothed[0]);
+      p.width_right_m = std::move(smoothed[1]);
+    }
+  }
   // The profile along the fitted path's own length.
   p.s_m.assign(samples, 0.0);
   for (std::size_t j = 1; j < samples; ++j)

@@ -6,6 +6,8 @@
 #include <cstdint>
 #include <limits>
 #include <memory>
+#include <stdexcept>
+#include <string>
 #include <variant>
 
 #include "lapwing/base/fft.hpp"
@@ -193,10 +195,30 @@ std::vector<double> smooth(const std::vector<double>& y, double h, double length
 
 std::vector<double> smooth_lambda(const std::vector<double>& y, double lambda, int order,
                                   bool periodic) {
-  if (y.size() < static_cast<std::size_t>(order) + 2) return y;
-  PenalisedSystem system(y.size(), order, periodic);
+  return smooth_lambda_all({y}, lambda, order, periodic).front();
+}
+
+std::vector<std::vector<double>> smooth_all(const std::vector<std::vector<double>>& ys, double h,
+                                            double length, int order, bool periodic) {
+  if (length <= 0.0) return ys;
+  return smooth_lambda_all(ys, smoothing_lambda(h, length, order), order, periodic);
+}
+
+std::vector<std::vector<double>> smooth_lambda_all(const std::vector<std::vector<double>>& ys,
+                                                   double lambda, int order, bool periodic) {
+  if (ys.empty()) return {};
+  const std::size_t n = ys.front().size();
+  for (const auto& y : ys)
+    if (y.size() != n)
+      throw std::invalid_argument("smooth_lambda_all: series of " + std::to_string(y.size()) +
+                                  " and " + std::to_string(n) + " samples");
+  if (n < static_cast<std::size_t>(order) + 2) return ys;
+  PenalisedSystem system(n, order, periodic);
   system.factor(lambda);
-  return system.solve(y);
+  std::vector<std::vector<double>> out;
+  out.reserve(ys.size());
+  for (const auto& y : ys) out.push_back(system.solve(y));
+  return out;
 }
 
 SmoothingChoice choose_smoothing(const std::vector<std::vector<double>>& series, double h,

@@ -37,6 +37,13 @@ std::vector<double> smooth(const std::vector<double>& y, double spacing_m, doubl
 /// The same with lambda given.
 std::vector<double> smooth_lambda(const std::vector<double>& y, double lambda, int order,
                                   bool periodic);
+/// Several series of one length smoothed alike (x and y of a path, its two edges): each the
+/// same as smooth() gives it, from one factorisation of the system for all of them.
+std::vector<std::vector<double>> smooth_all(const std::vector<std::vector<double>>& ys,
+                                            double spacing_m, double length_m, int order,
+                                            bool periodic);
+std::vector<std::vector<double>> smooth_lambda_all(const std::vector<std::vector<double>>& ys,
+                                                   double lambda, int order, bool periodic);
 
 /// What generalised cross-validation chose for a set of series smoothed with one lambda (x and y
 /// of a path, so that the fit does not depend on the axes' directions).
