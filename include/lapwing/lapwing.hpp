@@ -14,6 +14,7 @@
 #include "lapwing/base/error.hpp"
 #include "lapwing/base/ellipse_shape.hpp"
 #include "lapwing/base/exp_ratio.hpp"
+#include "lapwing/base/fft.hpp"
 #include "lapwing/base/fixed_power.hpp"
 #include "lapwing/base/once_per_key.hpp"
 #include "lapwing/base/format.hpp"
