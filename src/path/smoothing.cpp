@@ -308,7 +308,8 @@ SmoothingChoice choose_smoothing(const std::vector<std::vector<double>>& series,
   // (the eigenvalues above): RSS = (1 / n) sum_k P_k (lambda e_k / (1 + lambda e_k))^2, P_k the
   // series' power spectra summed (Parseval). Each candidate in O(n) and double precision, each
   // factor at most 1: no system to factor, where binary128 took some 1.5 ms a candidate. The
-  // search's comparisons read these; the choice's own figures are the solve's (below).
+  // search's comparisons read these, and the choice's figures (its noise, its equivalent degrees
+  // of freedom) come from them too.
   std::vector<double> power;
   if (periodic) {
     power.assign(n, 0.0);
@@ -336,12 +337,8 @@ SmoothingChoice choose_smoothing(const std::vector<std::vector<double>>& series,
     Eval e{length, smoothing_lambda(h, length, order), 0.0, 0.0, 0.0};
     solver.factor(e.lambda);
     for (const auto& y : series) e.rss += squared_distance(y, solver.solve(y));
-    if (periodic) {
-      for (double ek : eig) e.trace += 1.0 / (1.0 + e.lambda * ek);
-    } else {
-      for (const auto& v : z) e.trace += dot(v, solver.solve(v));
-      e.trace /= probes;
-    }
+    for (const auto& v : z) e.trace += dot(v, solver.solve(v));  // an open path's alone
+    e.trace /= probes;
     // GCV = n RSS / (n - tr H)^2 (Craven & Wahba 1979), RSS summed over the series.
     e.gcv = nd * e.rss / std::pow(std::max(nd - e.trace, 1e-9), 2);
     return e;

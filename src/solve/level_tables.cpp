@@ -183,6 +183,22 @@ LevelTables build_level_tables(const Envelope& env) {
         return lateral((static_cast<double>(i) + 0.5) * t.lateral_du, guess);
       },
       screen);
+  // The steady usage grows with the curvature at the top speed, up to the top node's edge, where
+  // no tyre there reaches the mu floor (LevelTables::top_usage_grows): each axle's load at a_x =
+  // 0 on the level at the top speed, its outer tyre's at the top node's lateral force (half the
+  // axle's load and the transfer, at most the whole of it: an inner tyre lifted).
+  {
+    const Envelope::RoadForces f = env.road_forces(env.rows(false), top, 0.0, level);
+    const AxleLoads at_top =
+        axle_loads(env.car(), f.drag_n, f.downforce_n, f.balance, f.normal_share, 0.0, 0.0);
+    const double fy = env.mass_kg() * a[lc];  // NaN where the top node has no value
+    const double onset = env.tyres().floor_onset_load_n();
+    const auto outer = [fy](double axle_n, double transfer_per_n) {
+      return std::min(axle_n, 0.5 * axle_n + transfer_per_n * fy);
+    };
+    t.top_usage_grows = fy == fy && outer(at_top.front_n, env.transfer().front) < onset &&
+                        outer(at_top.rear_n, env.transfer().rear) < onset;
+  }
   t.lateral_falls = true;
   for (std::size_t i = 1; i < lc && t.lateral_falls; ++i) {
     const double here = a[i] / (static_cast<double>(i) * t.lateral_du);

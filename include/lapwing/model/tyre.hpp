@@ -58,6 +58,14 @@ class TyreModel {
     return nominal_n_ * (1.0 + s) / (2.0 * s);
   }
   double load_sensitivity() const { return sensitivity_per_n_ * nominal_n_; }
+  /// The per-tyre load from which mu(Fz) is held at its floor (0.1 mu0): 1 - s (Fz - Fn) / Fn
+  /// = 0.1 at Fz = Fn + 0.9 Fn / s; infinity without load sensitivity. Below it a tyre's peak
+  /// force mu(Fz) Fz is concave in its load (a parabola); the floor's straight line beyond it
+  /// is not, so from there more load moved to the outer tyre can give an axle more capacity.
+  double floor_onset_load_n() const {
+    if (!(sensitivity_per_n_ > 0.0)) return std::numeric_limits<double>::infinity();
+    return nominal_n_ + (1.0 - floor_fraction) / sensitivity_per_n_;
+  }
 
   /// Peak longitudinal and lateral force of the whole car at total vertical load N (four tyres
   /// sharing N equally).

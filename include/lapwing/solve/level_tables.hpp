@@ -133,9 +133,10 @@ struct LevelTables {
   /// build's checks (m/s^2): the map's operating point is solved every 0.5 m/s and joined by
   /// straight lines, and a join inside a cell kinks the model where the cell's middle, the one
   /// point the build checks there, can miss the worst of it. Measured: 2.3e-8 at 4 000 speeds a
-  /// table, 4.4e-8 at 40 000 and 4.6e-8 at 400 000 (the Pellion FR-2's high_map, drive, rear
-  /// and all-wheel drive); this bound keeps a quarter to spare. Still some 1e-8 of a braking
-  /// deceleration, and twenty times under held_margin (solver.cpp, 1e-6).
+  /// table, 4.4e-8 at 40 000 and 4.6e-8 at 400 000 (the Pellion FR-2's high_map, drive, with
+  /// all-wheel drive; 4.2e-8 with front drive, 1.1e-8 with rear: a second reader's figures at
+  /// 4e6 speeds, 4.61e-8 at most); this bound keeps a quarter to spare. Still some 1e-8 of a
+  /// braking deceleration, and some sixteen times under held_margin (solver.cpp, 1e-6).
   static constexpr double map_tolerance_mps2 = 6e-8;
   /// Cells over [0, the Envelope's top speed squared]: `cell_count` where the aero coefficients
   /// are the same at every speed (a constant or a parts-table config, with or without its
@@ -188,16 +189,24 @@ struct LevelTables {
   /// the nodes fall (lateral_falls: the same node, to the bit, as without it), the steady
   /// limits' guess's (extrapolated along a clothoid: within a node or two); set to this call's.
   bool steady_grip_speed(double abs_curvature, double& v, std::size_t* cell = nullptr) const;
+  /// Whether the steady usage at the top speed grows with the curvature: no tyre there can
+  /// reach the mu floor (each axle's load at the top speed, all of it on one tyre, below
+  /// TyreModel::floor_onset_load_n), so that every tyre's peak force is concave in its load and
+  /// moving load to the outer tyre never adds capacity. Not so for a car whose tyres run beyond
+  /// it (a second reader's invented car with load sensitivity 0.99 and its rear tyres at four
+  /// times their nominal load: its usage at the top speed falls again over a band of
+  /// curvatures, as the inner tyre comes off the floor).
+  bool top_usage_grows = false;
   /// Whether the tyres surely hold the car at the top speed (the Envelope's max_speed_mps, whose
-  /// square is the top node's u) at |kappa|: the top node's A(u), the feasible end of its
-  /// search, is above kappa u by more than 1e-12 of it. The steady usage grows with the lateral
-  /// demand (more demand, more load moved to the outer tyre, less capacity), so the steady
-  /// limits' search at that point would find its usage at the top speed at most 1 and answer the
-  /// top speed: the same answer without the search. Where the top node holds kappa by less, or
-  /// has no value, false (the search decides). A surveyed or logged centerline's near-straights
-  /// (no point of curvature 0, each point its own) are such points.
+  /// square is the top node's u) at |kappa|: the usage there grows with the lateral demand
+  /// (top_usage_grows: more demand, more load moved to the outer tyre, less capacity), and the
+  /// top node's A(u), the feasible end of its search, is above kappa u by more than 1e-12 of it.
+  /// The steady limits' search at that point would then find its usage at the top speed at most
+  /// 1 and answer the top speed: the same answer without the search. Otherwise false (the
+  /// search decides). A surveyed or logged centerline's near-straights (no point of curvature
+  /// 0, each point its own) are such points.
   bool grip_holds_at_top(double abs_curvature) const {
-    if (lateral_nodes.empty()) return false;
+    if (!top_usage_grows || lateral_nodes.empty()) return false;
     const std::size_t n = lateral_nodes.size() - 1;
     const double demand = abs_curvature * (static_cast<double>(n) * lateral_du);
     return demand * (1.0 + 1e-12) < lateral_nodes[n];
