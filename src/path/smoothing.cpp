@@ -310,11 +310,18 @@ SmoothingChoice choose_smoothing(const std::vector<std::vector<double>>& series,
   // factor at most 1: no system to factor, where binary128 took some 1.5 ms a candidate. The
   // search's comparisons read these, and the choice's figures (its noise, its equivalent degrees
   // of freedom) come from them too.
+  // Each series' mean taken out first (its k = 0 term, which lambda e_0 = 0 leaves out of the
+  // residuals anyway), so that the transform's rounding scales with its swing, not its place.
   std::vector<double> power;
   if (periodic) {
     power.assign(n, 0.0);
     for (const auto& y : series) {
-      const std::vector<double> p = power_spectrum(y);
+      double mean = 0.0;
+      for (const double v : y) mean += v;
+      mean /= nd;
+      std::vector<double> centred(y);
+      for (double& v : centred) v -= mean;
+      const std::vector<double> p = power_spectrum(centred);
       for (std::size_t k = 0; k < n; ++k) power[k] += p[k];
     }
   }
