@@ -36,7 +36,7 @@ bool power_of_two(std::size_t n) {
 // own length m (n, or Bluestein's power of two), and for Bluestein the chirp and its
 // conjugate's transform.
 struct Plan {
-  std::size_t n = 0, m = 0;
+  std::size_t m = 0;
   std::vector<cplx> roots;   // exp(-2 pi i k / m), k < m / 2
   std::vector<cplx> chirp;   // exp(-pi i j^2 / n), j < n (Bluestein)
   std::vector<cplx> kernel;  // the transform of conj(chirp), wrapped to length m
@@ -68,7 +68,6 @@ void radix2(std::vector<cplx>& a, const std::vector<cplx>& roots, bool inverse) 
 std::shared_ptr<const Plan> plan_for(std::size_t n) {
   return recent_per_key<Plan, 4>(n, [n] {
     auto p = std::make_shared<Plan>();
-    p->n = n;
     p->m = 1;
     if (power_of_two(n))
       p->m = n;

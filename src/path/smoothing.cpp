@@ -89,14 +89,14 @@ constexpr std::size_t candidates_apart = 500;
 // lambda 4^d below which double precision is enough: eps 1e5 = 2e-11 relative error.
 constexpr double double_precision_limit = 1e5;
 
-// (I + lambda D'D) f = y for one operator D (order d on n samples, periodic or not) and any
+// (I + lambda D'D) f = y for one operator D (order d on n samples of an open path) and any
 // lambda: factored once per lambda, solved for as many right-hand sides as wanted. Every solve of
 // an open path's smoother, fixed strength or GCV's search, goes through here, so each has the
-// precision above. A closed path's go through the transform instead (smooth_closed).
+// precision above. A closed path's go through the transform instead (smooth_closed), whose
+// circulant system it diagonalises.
 class PenalisedSystem {
  public:
-  PenalisedSystem(std::size_t n, int order, bool periodic)
-      : n_(n), d_(static_cast<std::size_t>(order)), periodic_(periodic) {
+  PenalisedSystem(std::size_t n, int order) : n_(n), d_(static_cast<std::size_t>(order)) {
     // Binomial coefficients of the d-th difference: (-1)^(d-k) C(d, k).
     coef_.resize(d_ + 1);
     for (std::size_t k = 0; k <= d_; ++k) {
@@ -105,11 +105,9 @@ class PenalisedSystem {
         c = c * static_cast<double>(d_ - j) / static_cast<double>(j + 1);
       coef_[k] = ((d_ - k) % 2 ? -1.0 : 1.0) * c;
     }
-    // The envelope of I + lambda D'D: a band of half-width d; a periodic D also joins the last d
-    // rows to the first columns (the wrap), which makes those rows full.
+    // The envelope of I + lambda D'D: a band of half-width d.
     first_.resize(n);
-    for (std::size_t i = 0; i < n; ++i)
-      first_[i] = periodic && i + d_ >= n ? 0 : (i > d_ ? i - d_ : 0);
+    for (std::size_t i = 0; i < n; ++i) first_[i] = i > d_ ? i - d_ : 0;
   }
 
   // Factors I + lambda D'D in T: binary128 when double precision would lose more than about
@@ -143,12 +141,11 @@ class PenalisedSystem {
   template <typename T>
   Factored<T> build(double lambda) const {
     Factored<T> m(first_);
-    // Row r of D has coef[k] at column (r + k) mod n: (D'D)_ij = sum_r D_ri D_rj.
-    const std::size_t rows = periodic_ ? n_ : n_ - d_;
-    for (std::size_t r = 0; r < rows; ++r)
+    // Row r of D has coef[k] at column r + k: (D'D)_ij = sum_r D_ri D_rj.
+    for (std::size_t r = 0; r + d_ < n_; ++r)
       for (std::size_t k1 = 0; k1 <= d_; ++k1)
         for (std::size_t k2 = 0; k2 <= d_; ++k2) {
-          const std::size_t i = (r + k1) % n_, j = (r + k2) % n_;
+          const std::size_t i = r + k1, j = r + k2;
           if (j <= i) m.at(i, j) += T(lambda) * T(coef_[k1] * coef_[k2]);
         }
     for (std::size_t i = 0; i < n_; ++i) m.at(i, i) += T(1);
@@ -157,7 +154,6 @@ class PenalisedSystem {
   }
 
   std::size_t n_, d_;
-  bool periodic_;
   std::vector<double> coef_;
   std::vector<std::size_t> first_;
   std::variant<Factored<double>, Factored<wide>> m_{Factored<double>(std::vector<std::size_t>{})};
@@ -264,7 +260,7 @@ std::vector<std::vector<double>> smooth_lambda_all(const std::vector<std::vector
                                   " and " + std::to_string(n) + " samples");
   if (n < static_cast<std::size_t>(order) + 2) return ys;
   if (periodic) return smooth_closed(ys, lambda, order);
-  PenalisedSystem system(n, order, periodic);
+  PenalisedSystem system(n, order);
   system.factor(lambda);
   std::vector<std::vector<double>> out;
   out.reserve(ys.size());
@@ -278,7 +274,7 @@ SmoothingChoice choose_smoothing(const std::vector<std::vector<double>>& series,
   const std::size_t n = series.front().size();
   assert(n >= static_cast<std::size_t>(order) + 3 && min_length > 0.0 && max_length >= min_length);
   const double nd = static_cast<double>(n);
-  PenalisedSystem system(n, order, periodic);
+  PenalisedSystem system(n, order);  // an open path's (a closed path's search needs none)
 
   // Closed: the eigenvalues of the periodic D'D, (2 - 2 cos(2 pi k / n))^d.
   std::vector<double> eig;
@@ -372,7 +368,7 @@ SmoothingChoice choose_smoothing(const std::vector<std::vector<double>>& series,
     const std::unique_ptr<SecondThread> second =
         n >= candidates_apart && usable_processors() >= 2 ? SecondThread::try_start() : nullptr;
     in_halves(2, second.get(), [&](std::size_t share, std::size_t) {
-      PenalisedSystem own(n, order, periodic);
+      PenalisedSystem own(n, order);
       for (int k = static_cast<int>(share); k < candidates; k += 2)
         grid[static_cast<std::size_t>(k)] = evaluate_with(own, length_at(k));
     });
