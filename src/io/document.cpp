@@ -1,5 +1,6 @@
 #include "lapwing/io/document.hpp"
 
+#include <yaml-cpp/depthguard.h>
 #include <yaml-cpp/eventhandler.h>
 #include <yaml-cpp/exceptions.h>
 #include <yaml-cpp/mark.h>
@@ -234,6 +235,21 @@ class SimpleYaml {
   struct GiveUp {};
   [[noreturn]] static void give_up() { throw GiveUp{}; }
 
+  // Maps and lists nest at most this deep here (lapwing's files nest four or five); deeper, and
+  // yaml-cpp reads the text (it refuses nesting beyond its own limit). Each level is a call of
+  // block_node or flow_or_scalar: a file of 20 000 '[' overflowed the stack (found by fuzzing).
+  static constexpr int max_depth = 64;
+  int depth_ = 0;
+  struct Deeper {
+    explicit Deeper(int& depth) : d(depth) {
+      if (++d > max_depth) give_up();
+    }
+    ~Deeper() { --d; }
+    Deeper(const Deeper&) = delete;
+    Deeper& operator=(const Deeper&) = delete;
+    int& d;
+  };
+
   // A line that holds something (not blank, not only a comment): its number, the offsets of its
   // first byte and of the end of its text (before "\r\n" or "\n"), and where the node read next
   // on it starts (its indentation, then past a "- " or a key once they are read).
@@ -311,6 +327,7 @@ class SimpleYaml {
 
   // A block map or list starting at the current line's `indent`.
   Node block_node() {
+    const Deeper deeper(depth_);
     const Line& l = lines_[at_];
     if (dash_at(l, l.indent)) return block_list();
     if (key_at(l, l.indent)) return block_map();
@@ -409,6 +426,7 @@ class SimpleYaml {
     n.mark = mark(l, at);
     const char c = text_[at];
     if (c == '{' || c == '[') {
+      const Deeper deeper(depth_);
       n.kind = c == '{' ? Node::Kind::map : Node::Kind::sequence;
       const char close = c == '{' ? '}' : ']';
       std::size_t i = skip_spaces(l, at + 1);
@@ -531,6 +549,14 @@ Node detail::read_yaml(const std::string& text, const std::string& file) {
     // over).
     std::string path = reading->path();
     if (path.empty()) path = block_path(text, e.mark.line + 1);
+    // A path through lists nested thousands deep (yaml-cpp's limit, below) is named by its
+    // start: the key it hangs from.
+    constexpr std::size_t longest_path = 80;
+    if (path.size() > longest_path) path = path.substr(0, longest_path) + "...";
+    if (dynamic_cast<const YAML::DeepRecursion*>(&e))
+      throw InputError(
+          file, to_mark(e.mark),
+          "YAML syntax: maps and lists nested too deep (lapwing's files nest a few levels)", path);
     // A tab in the line's indentation is the likely cause (YAML 1.2, 6.1: tabs must not indent).
     std::string tab;
     {

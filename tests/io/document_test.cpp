@@ -9,6 +9,7 @@
 #include <optional>
 #include <sstream>
 #include <string>
+#include <utility>
 #include <vector>
 
 #include "lapwing/base/error.hpp"
@@ -196,6 +197,31 @@ TEST_CASE(
   }
   // Most of the test files are plain too (the bad ones' faults are mostly in their values).
   CHECK(handled * 2 > static_cast<int>(files.size()));
+}
+
+TEST_CASE("lists nested thousands deep are an input error, not a crash") {
+  // A robustness campaign's file (20 000 '[' after a key) overflowed the fast reader's stack:
+  // it now leaves anything nested over 64 deep to yaml-cpp, which refuses nesting deeper than
+  // its limit (some 500 flow lists here), and the error names the key it hangs from, shortened.
+  const auto nested = [](std::size_t depth, const char* open, const char* close) {
+    std::string t = "mass: 640\nzz: ";
+    for (std::size_t i = 0; i < depth; ++i) t += open;
+    for (std::size_t i = 0; i < depth; ++i) t += close;
+    return t + "\n";
+  };
+  for (const auto& [open, close] : {std::pair{"[", "]"}, std::pair{"{a: ", "}"}}) {
+    const std::string deep = error_of(nested(20000, open, close));
+    CAPTURE(deep.substr(0, 200));
+    CHECK(deep.find("x.yaml:2:") == 0);
+    CHECK(deep.find("nested too deep") != std::string::npos);
+    CHECK(deep.size() < 300);  // the key's path, not 20 000 of its levels
+    // Deeper than the fast reader goes, within yaml-cpp's limit: read, and the key is unknown.
+    CHECK(error_of(nested(100, open, close)) == "x.yaml:2:1: error: unknown key 'zz' (zz)");
+  }
+  // Block maps nested deeper than 64: yaml-cpp's tree, the same as the fast reader's would be.
+  std::string block = "mass: 640\n";
+  for (int i = 0; i < 80; ++i) block += std::string(static_cast<std::size_t>(i), ' ') + "k:\n";
+  CHECK(error_of(block) == "x.yaml:2:1: error: unknown key 'k' (k)");
 }
 
 TEST_CASE("the fast YAML reader agrees with yaml-cpp on tricky texts, or gives up on them") {
