@@ -126,11 +126,30 @@ TEST_CASE(
              1e-12));
   // No downforce: a share of no load is undefined, whatever the drag.
   CHECK_FALSE(aero_balance_with_drag_moment(0.0, 0.9, 0.45, 0.5, 2.6));
+  // Nor where the downforce is zero to the user beside the drag moment (a robustness campaign's
+  // ClA of 2.2e-308 m^2 printed -inf %, a subnormal one stopped the lap with a non-finite
+  // channel): a share beyond a million in size is none. A small real ClA keeps its share
+  // (0.001 m^2: 0.45 - 0.9 x 0.5 / 2.6 / 0.001 = -172.6).
+  CHECK_FALSE(aero_balance_with_drag_moment(2.2250738585072014e-308, 0.9, 0.45, 0.5, 2.6));
+  CHECK_FALSE(aero_balance_with_drag_moment(5e-324, 0.9, 0.45, 0.5, 2.6));
+  CHECK_FALSE(aero_balance_with_drag_moment(1e-9, 0.9, 0.45, 0.5, 2.6));
+  const auto small = aero_balance_with_drag_moment(0.001, 0.9, 0.45, 0.5, 2.6);
+  REQUIRE(small);
+  CHECK(near(*small, 0.45 - 0.9 * 0.5 / 2.6 / 0.001, 1e-12));
   const Car bare = load_car(test::source_path("tests/data/drag-only-car.yaml")).configured(0).car();
   const LapRun nr = run_lap(test::configured(bare), test::bundled_circuit("tracks/skidpad.yaml"));
   CHECK(std::isnan(nr.lap.aero_balance_eff[10]));
   CHECK_FALSE(nr.summary.balance.aero_balance_eff_150);
   CHECK_FALSE(nr.summary.balance.aero_balance_eff_250);
+  // A subnormal ClA laps as none: no share anywhere (its channel was -inf at every point, and
+  // the lap stopped at the output's check for non-finite numbers).
+  Car faint = load_car(test::source_path("tests/data/drag-only-car.yaml"));
+  for (double& cla : faint.configs[0].cla_m2) cla = 5e-324;
+  const LapRun fr = run_lap(test::configured(faint.configured(0).car()),
+                            test::bundled_circuit("tracks/skidpad.yaml"));
+  CHECK(std::none_of(fr.lap.aero_balance_eff.begin(), fr.lap.aero_balance_eff.end(),
+                     [](double x) { return std::isinf(x) || (x == x); }));
+  CHECK_FALSE(fr.summary.balance.aero_balance_eff_150);
   // Nor the share alone (README, "Output files": null without downforce; it once read the config's
   // balance, 0.45, for a share of nothing), and the tables say "-" for both.
   CHECK_FALSE(nr.summary.balance.aero_balance_150);

@@ -128,12 +128,20 @@ inline AxleLoads aero_axle_loads(double downforce_n, double balance, double drag
 /// downforce, (DF bal - D z_D / L) / DF = (ClA bal - CdA z_D / L) / ClA, the same at every speed
 /// since both forces scale with q = rho v^2 / 2 (so coefficients or forces may be given).
 /// Without downforce (ClA <= 0) the share of no load is undefined: nullopt (the drag moment then
-/// only unloads the front axle, by D z_D / L, which aero_axle_loads gives).
+/// only unloads the front axle, by D z_D / L, which aero_axle_loads gives). So too where the
+/// downforce is so small beside the drag moment that the share would exceed
+/// max_drag_moment_share in size (a ClA of 1e-9 m^2 beside a CdA of 0.8 m^2 reads -1.6e8): a
+/// ClA that is zero to the user, whose share is the division's noise, and which printed as a
+/// percentage overflowed to -inf (a robustness campaign's finding: ClA 2.2e-308 m^2).
+inline constexpr double max_drag_moment_share = 1e6;
 inline std::optional<double> aero_balance_with_drag_moment(double cla_m2, double cda_m2,
                                                            double balance, double drag_height_m,
                                                            double wheelbase_m) {
   if (!(cla_m2 > 0.0)) return std::nullopt;
-  return aero_axle_loads(cla_m2, balance, cda_m2, drag_height_m, wheelbase_m).front_n / cla_m2;
+  const double share =
+      aero_axle_loads(cla_m2, balance, cda_m2, drag_height_m, wheelbase_m).front_n / cla_m2;
+  if (!(std::abs(share) <= max_drag_moment_share)) return std::nullopt;
+  return share;
 }
 
 /// Lateral load transfer per newton of lateral force, per axle (Milliken & Milliken, Race Car
