@@ -8,7 +8,10 @@ std::optional<Violation> Tyres::validate() const {
   return FirstViolation()
       .range("mu_long", mu_long, friction, Quantity::number)
       .range("mu_lat", mu_lat, friction, Quantity::number)
-      .range("nominal_load", nominal_load_n, positive(), Quantity::force)
+      // At least 1 N: a kart's tyre is nominally loaded some 400 N; below 1 N is no car's (a
+      // unit slip), and a subnormal load made the load sensitivity per newton infinite (a
+      // robustness campaign's finding: an internal error from the lateral table's search).
+      .range("nominal_load", nominal_load_n, Range{1.0, 1e308}, Quantity::force)
       .range("load_sensitivity", load_sensitivity, Range{0.0, 1.0, false, true}, Quantity::number)
       .range("ellipse_exponent", ellipse_exponent, Range{1.0, 10.0}, Quantity::number)
       // A kart's wheel is some 0.13 m in radius: below 0.05 m is no car's (or a unit slip).

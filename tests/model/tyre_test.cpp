@@ -63,7 +63,11 @@ TEST_CASE("tyres name the first value out of its range (README, \"Car\", tyres)"
       {[](Tyres& t) { t.mu_lat = std::nan(""); },
        "mu_lat: value nan is out of range: must be (0, 3]"},
       {[](Tyres& t) { t.nominal_load_n = -1.0; },
-       "nominal_load: value -1 is out of range: must be > 0 in SI units"},
+       "nominal_load: value -1 is out of range: must be >= 1 in SI units"},
+      // A subnormal load (a robustness campaign's: the search's internal error, not an input
+      // error) is below the floor too.
+      {[](Tyres& t) { t.nominal_load_n = 5e-324; },
+       "nominal_load: value 4.94065645841e-324 is out of range: must be >= 1 in SI units"},
       {[](Tyres& t) { t.load_sensitivity = 1.0; },
        "load_sensitivity: value 1 is out of range: must be [0, 1)"},
       {[](Tyres& t) { t.ellipse_exponent = 0.5; },
