@@ -319,7 +319,10 @@ void create_store(const std::string& file, const StudyRecord& study, const Sweep
 
 // A file's shards: each label "K/N" as (N, K, its text), (0, 0, text) where a label is not one
 // (no split a run can share); in N's then K's order, so that a list reads 1/12,2/12,...,10/12.
-using ShardLabels = std::set<std::tuple<unsigned, unsigned, std::string>>;
+// N and K as wide as the study's own (Shard: std::size_t): read as 32-bit numbers, a --shard of
+// N >= 2^32 did not parse back from the file it had just written (a robustness campaign's
+// finding), and the run refused its own split.
+using ShardLabels = std::set<std::tuple<std::size_t, std::size_t, std::string>>;
 
 // Adds the labels of a shard list ("1/4,2/4"; one label, or "").
 void add_shards(ShardLabels& to, std::string_view list) {
@@ -327,7 +330,7 @@ void add_shards(ShardLabels& to, std::string_view list) {
     const std::size_t y = std::min(list.find(',', x), list.size());
     if (y > x) {
       const std::string_view k_n = list.substr(x, y - x);
-      unsigned k = 0, n = 0;
+      std::size_t k = 0, n = 0;
       const std::size_t slash = k_n.find('/');
       const char* b = k_n.data();
       const bool ok = slash != std::string_view::npos && [&] {
@@ -358,6 +361,21 @@ SweepStore::SweepStore(const std::string& file, const StudyRecord& study, const 
     create_store(file, study, plan);
     created_ = true;
   }
+  // A store this run made goes where it cannot be opened as the study's (no output from a
+  // refused run); one that was there stays as it was.
+  try {
+    open(file, study, plan);
+  } catch (...) {
+    db_.reset();
+    if (created_) {
+      std::error_code ec;
+      std::filesystem::remove(file, ec);
+    }
+    throw;
+  }
+}
+
+void SweepStore::open(const std::string& file, const StudyRecord& study, const SweepPlan& plan) {
   db_ = std::make_unique<Db>(file, false);
   Connection& c = db_->c;
   c.exec("PRAGMA synchronous = FULL");
@@ -379,10 +397,10 @@ SweepStore::SweepStore(const std::string& file, const StudyRecord& study, const 
     ShardLabels each, mine;
     add_shards(each, held);
     add_shards(mine, study.shard);
-    const unsigned n_held = each.empty() ? 0 : std::get<0>(*each.begin());
+    const std::size_t n_held = each.empty() ? 0 : std::get<0>(*each.begin());
     const bool whole = n_held > 0 && each.size() == n_held && std::get<0>(*each.rbegin()) == n_held;
     if (!whole) {
-      const unsigned n_mine = mine.empty() ? 0 : std::get<0>(*mine.begin());
+      const std::size_t n_mine = mine.empty() ? 0 : std::get<0>(*mine.begin());
       for (const auto& one : each)
         if (std::get<0>(one) != n_mine || n_mine == 0)
           throw OutputError(file + " holds shard " + held + " of this study, and --shard " +

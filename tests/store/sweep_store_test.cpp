@@ -105,6 +105,29 @@ TEST_CASE("another study is refused by the store and by merge, and nothing is wr
   CHECK_FALSE(std::filesystem::exists(s.file("m.sqlite")));
 }
 
+TEST_CASE(
+    "a shard of a split into 2^32 parts or more reopens as its own; a store refused is gone") {
+  // A robustness campaign's: the shard's N read back from the file as a 32-bit number, so a
+  // run with --shard 1/4294967297 refused the split it had just written, and the file it made
+  // stayed behind. N as wide as the study's (std::size_t), and a file the store made goes
+  // where it refuses it.
+  const Scratch s;
+  const SweepPlan plan({parse_set("mass=600kg:700kg:3")}, {});
+  {
+    SweepStore big(s.file("big.sqlite"), record("00000000000000dd", "1/4294967297"), plan);
+    CHECK(big.created());
+  }
+  CHECK_NOTHROW(SweepStore(s.file("big.sqlite"), record("00000000000000dd", "1/4294967297"), plan));
+  // A label that is no split (no run can share it): refused, and the new file removed.
+  CHECK_THROWS_AS(SweepStore(s.file("odd.sqlite"), record("00000000000000ee", "one of two"), plan),
+                  OutputError);
+  CHECK_FALSE(std::filesystem::exists(s.file("odd.sqlite")));
+  // A file that was there before stays, refused or not.
+  CHECK_THROWS_AS(SweepStore(s.file("big.sqlite"), record("00000000000000dd", "1/3"), plan),
+                  OutputError);
+  CHECK(std::filesystem::exists(s.file("big.sqlite")));
+}
+
 TEST_CASE("merge joins the shards of one study, each row once") {
   const Scratch s;
   const SweepPlan plan({parse_set("mass=600kg:700kg:3")}, {});

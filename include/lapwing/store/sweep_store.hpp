@@ -41,7 +41,8 @@ class SweepStore : public SweepSink {
   /// Opens `file` for the study: creates it, or, when it holds this study already, opens it to
   /// resume (has() then says which points are stored). A file of another study, or one that is
   /// no results store, or an input of the command (require_not_input), is an OutputError;
-  /// nothing is changed then. A new store's missing folders are made.
+  /// nothing is changed then (a file this call made is removed). A new store's missing folders
+  /// are made.
   SweepStore(const std::string& file, const StudyRecord& study, const SweepPlan& plan);
   ~SweepStore() override;
   SweepStore(const SweepStore&) = delete;
@@ -55,6 +56,8 @@ class SweepStore : public SweepSink {
 
  private:
   struct Db;
+  /// The constructor's part after the file is there: opened, its study and shards checked.
+  void open(const std::string& file, const StudyRecord& study, const SweepPlan& plan);
   std::unique_ptr<Db> db_;
   const SweepPlan* plan_;
   StudyRecord study_;
