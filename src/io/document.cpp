@@ -516,6 +516,17 @@ Document parse_document(const std::string& text, const std::string& file) {
     throw InputError(file, Mark{at.line, at.col},
                      "a NUL byte (byte " + std::to_string(nul + 1) + "): not a text file");
   }
+  // Lines ended by a CR alone (old Mac text): YAML reads a lone CR as no line break, so the
+  // parser saw one long line and said the file was empty (its first line a comment) or called
+  // some value illegal (a robustness campaign's finding). Named at the first such CR, where
+  // the text has no LF at all.
+  if (const std::size_t cr = text.find('\r');
+      cr != std::string::npos && text.find('\n') == std::string::npos && cr + 1 < text.size()) {
+    const TextPosition at = position_of(text, cr);
+    throw InputError(file, Mark{at.line, at.col},
+                     "the lines end with a CR alone (old Mac line ends): save the file with LF "
+                     "or CR LF line ends");
+  }
   if (auto root = detail::read_simple_yaml(text))
     doc.root = std::move(*root);
   else

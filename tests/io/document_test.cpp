@@ -199,6 +199,18 @@ TEST_CASE(
   CHECK(handled * 2 > static_cast<int>(files.size()));
 }
 
+TEST_CASE("a file whose lines end with a CR alone is named so, at its first CR") {
+  // A robustness campaign's: YAML reads a lone CR as no line break, and such a file read as one
+  // line said it was empty (its first line a comment) or called a value illegal.
+  const std::string want =
+      "error: the lines end with a CR alone (old Mac line ends): save the file with LF or CR LF "
+      "line ends";
+  CHECK(error_of("mass: 640\rtyres:\r  mu_lat: 1.2\r") == "x.yaml:1:10: " + want);
+  CHECK(error_of("# a car\rmass: 640\r") == "x.yaml:1:8: " + want);
+  // CR LF is a line end, and so is a last CR with nothing after it (the parser's business).
+  CHECK(error_of("mass: 640\r\ntyres:\r\n  mu_lat: 1.2\r\n") == "");
+}
+
 TEST_CASE("lists nested thousands deep are an input error, not a crash") {
   // A robustness campaign's file (20 000 '[' after a key) overflowed the fast reader's stack:
   // it now leaves anything nested over 64 deep to yaml-cpp, which refuses nesting deeper than
