@@ -552,8 +552,17 @@ Node detail::read_yaml(const std::string& text, const std::string& file) {
       throw InputError(file, Mark{1, 1}, "the file is empty");
     root = builder.take();
     reading = &rest;
-    if (parser.HandleNextDocument(rest))
+    if (parser.HandleNextDocument(rest)) {
+      // An indented first key ends its map at the first key of column 1, which yaml-cpp reads as
+      // a second document: said so, where it was called a second document (a robustness
+      // campaign's finding).
+      if (root.mark.col > 1 && rest.start().col < root.mark.col)
+        throw InputError(file, rest.start(),
+                         "this key is left of the file's first key (column " +
+                             std::to_string(root.mark.col) +
+                             "): the top level's keys must start in one column");
       throw InputError(file, rest.start(), "more than one YAML document in the file");
+    }
   } catch (const YAML::Exception& e) {
     // Named by the key whose value was being read; else by the indentation around the error
     // (the parser reads ahead: a tab in an indentation is met before the key above is handed

@@ -211,6 +211,16 @@ TEST_CASE("a file whose lines end with a CR alone is named so, at its first CR")
   CHECK(error_of("mass: 640\r\ntyres:\r\n  mu_lat: 1.2\r\n") == "");
 }
 
+TEST_CASE("an indented first key is named as such, not as a second document") {
+  // yaml-cpp ends an indented first key's map at the next key of column 1 and reads a second
+  // document there (a robustness campaign's: "more than one YAML document" for one indent).
+  CHECK(error_of("# c\n  mass: 640\ntyres:\n  mu_lat: 1.2\n") ==
+        "x.yaml:3:1: error: this key is left of the file's first key (column 3): the top "
+        "level's keys must start in one column");
+  CHECK(error_of("mass: 640\n---\ntyres: {}\n") ==
+        "x.yaml:2:1: error: more than one YAML document in the file");
+}
+
 TEST_CASE("lists nested thousands deep are an input error, not a crash") {
   // A robustness campaign's file (20 000 '[' after a key) overflowed the fast reader's stack:
   // it now leaves anything nested over 64 deep to yaml-cpp, which refuses nesting deeper than
