@@ -221,19 +221,30 @@ PathProfile fit_centerline(std::shared_ptr<const CenterlinePoints> given, bool c
   }
   const std::vector<double> c = chord_lengths(pts, closed);
   const double total = c.back();
-  if (total > PathProfile::max_length_m) {
-    // Name the widest gap between points: a stray point is the usual cause.
+  if (!(total <= PathProfile::max_length_m)) {
+    // Name the widest gap between points (the first of the widest): a stray point is the usual
+    // cause. Each gap on its own, as the sum can overflow where no gap does (coordinates near
+    // 1e308: a robustness campaign's, which read "inf km long ... inf m from the one before").
     std::size_t worst = 1;
-    for (std::size_t i = 1; i < c.size(); ++i)
-      if (c[i] - c[i - 1] > c[worst] - c[worst - 1]) worst = i;
+    double widest = -1.0;
+    for (std::size_t i = 1; i < c.size(); ++i) {
+      const std::size_t a = i - 1, b = i % m;
+      const double gap = std::hypot(pts.x_m[b] - pts.x_m[a], pts.y_m[b] - pts.y_m[a]);
+      if (gap > widest) {
+        widest = gap;
+        worst = i;
+      }
+    }
     const std::size_t row = std::min(worst, m - 1);
-    throw InvalidInput(
-        pts.source,
-        broken_rule("",
-                    "the centerline is " + format_readable(total / 1000.0) +
-                        " km long (at most 200 km); this point is " +
-                        format_readable(c[worst] - c[worst - 1]) + " m from the one before",
-                    "x_m[" + std::to_string(row) + "]"));
+    const std::string length = std::isfinite(total) ? format_readable(total / 1000.0) + " km long"
+                                                    : "longer than a double can hold";
+    const std::string gap =
+        std::isfinite(widest) ? format_readable(widest) + " m" : "further than a double can hold";
+    throw InvalidInput(pts.source, broken_rule("",
+                                               "the centerline is " + length +
+                                                   " (at most 200 km); this point is " + gap +
+                                                   " from the one before",
+                                               "x_m[" + std::to_string(row) + "]"));
   }
   auto samples_at = [&](double step) {
     return std::max<std::size_t>(10, static_cast<std::size_t>(std::llround(total / step)));

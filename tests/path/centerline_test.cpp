@@ -5,6 +5,7 @@
 #include <algorithm>
 #include <cmath>
 #include <cstdint>
+#include <tuple>
 
 #include "lapwing/base/error.hpp"
 #include "lapwing/base/units.hpp"
@@ -190,6 +191,28 @@ TEST_CASE("the fit's options and points are checked, a stray point named by its 
     CHECK(e.subject() == "survey.csv");
     CHECK(e.violation().at == "x_m[7]");  // the point after the widest gap
     CHECK(e.message().rfind("the centerline is 600.", 0) == 0);
+  }
+  // A point near the doubles' top (a robustness campaign's): the sum of the gaps overflows
+  // where each gap is finite, and the message said "inf km long ... inf m". Named as the stray
+  // point still, its gap as it is; a gap that overflows on its own is said so.
+  for (const auto& [y7, y8, at, gap] :
+       {std::tuple{1e308, 0.0, "x_m[7]", "this point is 1e+308 m from the one before"},
+        std::tuple{-1e308, 1e308, "x_m[8]",
+                   "this point is further than a double can hold from the one before"}}) {
+    CenterlinePoints q{"survey.csv", {}, {}, {}, {}, {}};
+    for (int i = 0; i < 12; ++i) {
+      q.x_m.push_back(10.0 * i);
+      q.y_m.push_back(i == 7 ? y7 : i == 8 ? y8 : 0.0);
+    }
+    try {
+      fit_centerline(q, false, CenterlineOptions{});
+      FAIL("expected an InvalidInput");
+    } catch (const InvalidInput& e) {
+      CHECK(e.violation().at == at);
+      CHECK(e.message() ==
+            std::string("the centerline is longer than a double can hold (at most 200 km); ") +
+                gap);
+    }
   }
   p.x_m.resize(5);
   p.y_m.resize(5);
