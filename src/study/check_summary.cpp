@@ -88,7 +88,10 @@ ConfigCheck check_config(const Car& car, std::size_t index, const Air& air) {
   c.cda_m2 = rest.cda_m2;
   c.cla_m2 = rest.cla_m2;
   c.aero_balance = rest.balance;
-  if (rest.cda_m2 > 0) c.lift_to_drag = rest.cla_m2 / rest.cda_m2;
+  // None without drag, nor where the drag is too small for the ratio to be a number (a
+  // subnormal CdA: a robustness campaign's, whose infinite L/D stopped check --json with exit 1).
+  if (rest.cda_m2 > 0 && std::isfinite(rest.cla_m2 / rest.cda_m2))
+    c.lift_to_drag = rest.cla_m2 / rest.cda_m2;
   c.has_map = env.has_map();
   c.speed_table = !a.speed_mps.empty();
   c.drag_height_m = cc.drag_height_m;

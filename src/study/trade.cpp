@@ -38,11 +38,15 @@ ConfiguredCar scaled(const ConfiguredCar& car, Knob knob, double f) {
 
 bool zero_area(const AeroConfig& a, Knob knob) {
   assert(knob == Knob::cla || knob == Knob::cda);
+  // An area of a square millimetre or less is none: scaled to the grid's other configs (by
+  // their area over it) a subnormal one overflowed to infinity, and the trade stopped inside
+  // the solver (a robustness campaign's finding).
+  const auto nil = [](double v) { return std::abs(v) <= negligible_area_m2; };
   const auto& rows = knob == Knob::cla ? a.cla_m2 : a.cda_m2;
-  const bool rows_zero = std::all_of(rows.begin(), rows.end(), [](double v) { return v == 0.0; });
+  const bool rows_zero = std::all_of(rows.begin(), rows.end(), nil);
   if (!a.map) return rows_zero;
   const std::vector<double>& m = (knob == Knob::cla ? a.map->cla_m2 : a.map->cda_m2).values();
-  return std::all_of(m.begin(), m.end(), [](double v) { return v == 0.0; });
+  return std::all_of(m.begin(), m.end(), nil);
 }
 
 AeroOperatingPoint operating_point(const Envelope& env, const Lap& lap) {

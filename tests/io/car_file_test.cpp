@@ -70,8 +70,8 @@ TEST_CASE("a file's value that breaks a rule is the library's violation, placed 
   const InputError mass = file_error("tests/data/bad/car-negative-mass.yaml");
   car = load_car(test::source_path("cars/pellion-fr2.yaml"));
   car.mass_kg = -640.0;
-  CHECK(mass.message() == "value -640 kg is out of range: must be (0, 100000] in SI units");
-  CHECK(car.validate()->message() == "value -640 is out of range: must be (0, 100000] in SI units");
+  CHECK(mass.message() == "value -640 kg is out of range: must be [1, 100000] in SI units");
+  CHECK(car.validate()->message() == "value -640 is out of range: must be [1, 100000] in SI units");
   CHECK(car.validate()->field == mass.key_path());
 }
 

@@ -36,7 +36,10 @@ TEST_CASE("a car names its first bad value by its key path in a car file") {
   };
   const Case cases[] = {
       {[](Car& c) { c.mass_kg = -5.0; },
-       "mass: value -5 is out of range: must be (0, 100000] in SI units"},
+       "mass: value -5 is out of range: must be [1, 100000] in SI units"},
+      // A subnormal mass (a robustness campaign's: a trade's non-finite output) is below 1 kg.
+      {[](Car& c) { c.mass_kg = 5e-324; },
+       "mass: value 4.94065645841e-324 is out of range: must be [1, 100000] in SI units"},
       {[](Car& c) { c.inertia_factor = 1.0; },
        "inertia_factor: value 1 is out of range: must be [0, 1)"},
       {[](Car& c) { c.wheelbase_m = 0.2; },
@@ -60,7 +63,7 @@ TEST_CASE("a car names its first bad value by its key path in a car file") {
       {[](Car& c) { c.configs.front().balance = {1.5}; },
        "aero.configs.none.balance: value 1.5 is out of range: must be [0, 1]"},
       {[](Car& c) { c.configs.front().mass_kg = 0.0; },
-       "aero.configs.none.mass: value 0 is out of range: must be (0, 100000] in SI units"},
+       "aero.configs.none.mass: value 0 is out of range: must be [1, 100000] in SI units"},
       {[](Car& c) { c.configs.front().cg_height_m = 2.8; },
        "aero.configs.none.cg_height: cg_height must be below the wheelbase"},
       {[](Car& c) { c.configs.clear(); }, "aero.configs: at least one aero config is needed"},

@@ -89,9 +89,9 @@ TEST_CASE("a car built in code with a negative mass is a typed error, not a nons
   } catch (const InvalidInput& e) {
     CHECK(e.subject() == "car 'Pellion FR-2'");
     CHECK(e.violation().field == "mass");
-    CHECK(e.message() == "value -5 is out of range: must be (0, 100000] in SI units");
+    CHECK(e.message() == "value -5 is out of range: must be [1, 100000] in SI units");
     CHECK(std::string(e.what()) ==
-          "car 'Pellion FR-2': error: value -5 is out of range: must be (0, 100000] in SI units "
+          "car 'Pellion FR-2': error: value -5 is out of range: must be [1, 100000] in SI units "
           "(mass)");
   }
 }

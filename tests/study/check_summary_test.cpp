@@ -100,6 +100,14 @@ TEST_CASE(
   }
   // No drag either (the plain car): L/D is undefined.
   CHECK_FALSE(check_config(test::plain_car(), 0, air).lift_to_drag);
+  // Nor where the drag is too small for the ratio to be a number (a robustness campaign's
+  // subnormal CdA, whose infinite L/D stopped check --json: "a non-finite number"), and a
+  // downforce that small beside the drag moment has no share.
+  const ConfigCheck faint = check_config(aero_car(5e-324, 2.0, 0.45, zd), 0, air);
+  CHECK_FALSE(faint.lift_to_drag);
+  const ConfigCheck no_df = check_config(aero_car(cda, 5e-324, 0.45, zd), 0, air);
+  CHECK(no_df.no_downforce);
+  for (const AeroAtSpeed& p : no_df.at_speeds) CHECK_FALSE(p.front_share_with_drag_moment);
 }
 
 TEST_CASE("a track's top speed is in its own air: thinner air, faster by the cube root") {

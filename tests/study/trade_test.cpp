@@ -283,6 +283,28 @@ TEST_CASE("a car without aero still has aero sensitivities (zero areas move by t
   }
 }
 
+TEST_CASE("an area of a square millimetre or less trades as none (moved in m2, not scaled)") {
+  // A robustness campaign's: a config with a subnormal CdA (or ClA) was scaled to the grid's
+  // other configs by their area over it, which overflowed, and the trade stopped in the solver.
+  Car car = load_car(test::source_path("cars/caldra-gt.yaml"));
+  for (double& cda : car.configs[0].cda_m2) cda = 5e-324;
+  CHECK(zero_area(car.configs[0], Knob::cda));
+  CHECK_FALSE(zero_area(car.configs[0], Knob::cla));
+  car.configs[0].cda_m2.front() = 2e-6;  // two square millimetres: an area to scale
+  CHECK_FALSE(zero_area(car.configs[0], Knob::cda));
+  for (double& cla : car.configs[1].cla_m2) cla = 1e-300;
+  CHECK(zero_area(car.configs[1], Knob::cla));
+  car.configs[0].cda_m2.front() = 5e-324;
+  const std::vector<Circuit> circuits{test::bundled_circuit("tracks/brannock-park.yaml")};
+  const Trade t = trade(car, {0, 1}, circuits, TradeOptions{0.02, 3, 0.15}, 2);
+  for (const Sensitivity& s : t.sensitivities) {
+    CHECK(std::isfinite(s.dt_dcla_s_per_m2));
+    CHECK(std::isfinite(s.dt_dcda_s_per_m2));
+  }
+  for (const TradeGrid& g : t.grids)
+    for (double v : g.lap_time_s) CHECK(std::isfinite(v));
+}
+
 TEST_CASE("trade options out of range are a typed error, not a failure inside the root finder") {
   // Issue 11: TradeOptions{grid_points = 1} divided by grid_points - 1 = 0.
   CHECK(test::describe(TradeOptions{}.validate()) == "none");

@@ -25,8 +25,9 @@ ConfiguredCar shifted(const ConfiguredCar& car, Knob knob, double delta_m2);
 /// x + r m2 (so that a car without downforce still has a downforce sensitivity).
 ConfiguredCar varied(const ConfiguredCar& car, Knob knob, double r);
 
-/// Whether every ClA (or CdA) value of the config is zero: `varied` then shifts the area by
-/// r m2 instead of scaling it.
+/// Whether every ClA (or CdA) value of the config is zero, or at most negligible_area_m2 in
+/// size: `varied` then shifts the area by r m2 instead of scaling it.
+inline constexpr double negligible_area_m2 = 1e-6;  // a square millimetre
 bool zero_area(const AeroConfig& a, Knob knob);
 
 /// The ClA and CdA a trade's per-m2 figures and attributions refer to. A constant (or parts)
