@@ -207,6 +207,13 @@ std::string where(const Mesh& mesh, std::size_t i) {
 // point's, or one extrapolated from the last two; 0 for none) first tries a bracket of
 // +-`width` of itself, then one of +-2 %, which neighbouring points nearly always share; the
 // narrower the bracket, the fewer steps TOMS 748 takes to 2^-36 of the answer.
+// Where f > 0 at 0 (the car cannot hold a standstill there: its drive with the clutch slipping
+// below the resistance of a steep grade or of a very heavy car, or tyres that hold it only with
+// downforce) it may still hold a speed higher up: `infeasible_start_samples` speeds from v_max
+// down are tried, and the highest that holds is the foot of the bracket (0, none holding). It
+// answered 0 there, and a flying start at a speed the car holds was refused as "cannot hold
+// any speed" (a robustness campaign's finding: a torque curve weak below 5 000 rpm only).
+constexpr int infeasible_start_samples = 64;
 template <typename F>
 double highest_feasible(F f, double v_max, double hint, double width = 0.02) {
   namespace tools = boost::math::tools;
@@ -228,7 +235,20 @@ double highest_feasible(F f, double v_max, double hint, double width = 0.02) {
     }
   }
   const double f_lo = f(0.0);
-  if (f_lo > 0.0) return 0.0;
+  if (f_lo > 0.0) {
+    double above = v_max, f_above = f_hi;
+    for (int k = infeasible_start_samples - 1; k >= 1; --k) {
+      const double v = v_max * k / infeasible_start_samples;
+      const double fv = f(v);
+      if (fv <= 0.0)
+        return tools::toms748_solve(f, v, above, fv, f_above,
+                                    tools::eps_tolerance<double>(steady_bits), iters)
+            .first;
+      above = v;
+      f_above = fv;
+    }
+    return 0.0;
+  }
   // The feasible end of the final bracket.
   return tools::toms748_solve(f, 0.0, v_max, f_lo, f_hi, tools::eps_tolerance<double>(steady_bits),
                               iters)
