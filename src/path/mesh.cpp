@@ -402,6 +402,15 @@ std::vector<std::string> track_warnings(const Track& track) {
   }
   if (track.profile)
     for (const std::string& w : track.profile->warnings) out.push_back(w);
+  // A mesh coarser than the coarsest of the convergence tables (README, "Performance": lap
+  // times within 9e-4 at 2 m) steps over a tight corner in a point or two: a robustness
+  // campaign's 10 m mesh read an apex of Brannock Park at half its grip limit, and lap times
+  // were off by a percent either way, with nothing said.
+  if (track.mesh_m > coarsest_checked_mesh_m)
+    out.push_back("the mesh step, " + format_number(track.mesh_m) + " m, is coarser than " +
+                  format_number(coarsest_checked_mesh_m) +
+                  " m, the coarsest whose convergence lapwing shows: lap times can be off by a "
+                  "percent and a tight corner's speed by far more; give a mesh of 2 m or finer");
   return out;
 }
 

@@ -209,6 +209,21 @@ bool has(const std::vector<std::string>& texts, const std::string& part) {
 }
 }  // namespace
 
+TEST_CASE("a mesh coarser than 2 m, beyond the convergence tables, is warned of") {
+  // A robustness campaign's: a 10 m mesh (allowed, up to 10 m) read an apex of Brannock Park at
+  // half its grip limit and lap times a percent off either way, with no warning.
+  Track t = climbing_circle(50.0, 0.0, 0.0);
+  t.mesh_m = 2.0;
+  CHECK(track_warnings(t).empty());
+  t.mesh_m = 2.5;
+  const auto w = track_warnings(t);
+  REQUIRE(w.size() == 1);
+  CHECK(w[0] ==
+        "the mesh step, 2.5 m, is coarser than 2 m, the coarsest whose convergence lapwing shows: "
+        "lap times can be off by a percent and a tight corner's speed by far more; give a mesh "
+        "of 2 m or finer");
+}
+
 TEST_CASE("a closed lap whose end is above its start warns beyond max(1 m, 0.1 % of the length)") {
   // Closed form: gap = (g1 + g2) pi R. R 50 m (length 314 m: the 1 m floor rules): 1 % up all
   // the way ends 3.14 m above, 1 % down 3.14 m below; up then down ends level; 0.3 % up all

@@ -153,8 +153,11 @@ double closure_elevation_tolerance_m(const Track& track);
 /// run, compare and trade; check prints them too): a closed track whose elevation gap exceeds
 /// closure_elevation_tolerance_m; a closed curvature profile whose position gap exceeds
 /// closure_position_fraction of the length (the tolerance a segment track is held to); and the
-/// data's own (PathProfile::warnings: a centerline's dropouts, by line). Each names the gap and
-/// its likely cause.
+/// data's own (PathProfile::warnings: a centerline's dropouts, by line); a mesh step coarser
+/// than coarsest_checked_mesh_m. Each names the gap and its likely cause.
 std::vector<std::string> track_warnings(const Track& track);
+/// The coarsest mesh step of the convergence tables (README, "Performance"), above which a lap
+/// carries a warning.
+inline constexpr double coarsest_checked_mesh_m = 2.0;
 
 }  // namespace lapwing
