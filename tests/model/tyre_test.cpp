@@ -167,6 +167,35 @@ TEST_CASE("the least axle load for a lateral force with a transfer past the tyre
   CHECK(near(t.axle_limits(load, d).fy_max, fy, 1e-12));
 }
 
+TEST_CASE("the least axle load for a lateral force is the least: no lower load holds it") {
+  // The capacity with transfer (axle_limits: each tyre at its own load, the inner lifted past
+  // L / 2 = d) is the closed form the answer inverts; the answer is the least load that holds
+  // the force: the capacity there is fy (1e-10, a quadratic's root), and at every load below it
+  // (1e-6 less, and 400 loads from 0 up) it is short of fy (the floor's load aside, where the
+  // formulas' parabolas reach no root).
+  // A robustness campaign's narrow-tracked car had the two-tyre root (19.6 kN) where the outer
+  // tyre alone held its 4.7 kN at 2.95 kN (fy 4726.96 N, d 9373.31 N, the Pellion's tyres).
+  const TyreModel t(Tyres{1.55, 1.70, 1600.0, 0.08, 2.2, 0.33, 0.012});
+  const double floor_per_n = 0.1 * 1.70;
+  int checked = 0;
+  for (const double fy : {500.0, 2000.0, 4726.96, 8000.0, 12000.0, 18000.0})
+    for (const double d : {100.0, 1000.0, 3000.0, 6000.0, 9373.31, 15000.0}) {
+      CAPTURE(fy);
+      CAPTURE(d);
+      const double load = t.axle_load_for_lateral(fy, d);
+      if (near(load, fy / floor_per_n, 1e-12)) continue;  // the floor's load
+      ++checked;
+      CHECK(near(t.axle_limits(load, d).fy_max, fy, 1e-10));
+      // No lower load holds it: 1e-6 below, and at 400 loads from 0 up to it.
+      CHECK(t.axle_limits(load * (1.0 - 1e-6), d).fy_max < fy);
+      for (int k = 1; k < 400; ++k) CHECK(t.axle_limits(load * k / 400.0, d).fy_max < fy);
+    }
+  CHECK(checked >= 30);
+  const double load = t.axle_load_for_lateral(4726.96, 9373.31);
+  CHECK(load < 2.0 * 9373.31);  // the inner tyre lifted
+  CHECK(load < 3000.0);
+}
+
 TEST_CASE("the force an axle has left and its slope with the load: the slope is the derivative") {
   // axle_long_left's slope (the Newton step's, as slope_num / slope_den) against a central
   // difference of its force left, (left(L + h) - left(L - h)) / 2h: for a smooth function the
