@@ -126,24 +126,24 @@ class TyreModel {
       const double disc = b * b - 4.0 * a * c;
       return disc < 0.0 ? c0 / floor_fraction : 2.0 * c / (b + std::sqrt(disc));
     };
-    // The outer tyre alone first: where its root lies below 2 d (the inner tyre lifted there)
-    // no lower load holds fy (below that root the one tyre's force is short of it, and both
-    // tyres are down only from 2 d up). Taking the two-tyre root first where both existed read
-    // the larger load: a robustness campaign's narrow-tracked car (0.3 m, all its roll
-    // stiffness at the front) read 19.6 kN for a front axle that held its 4.7 kN at 3 kN, at
-    // one speed of a corner (the two-tyre root appearing there), and a rear-driven car's front
-    // bound at that point said -24 g.
-    if (b * b - 4.0 * s * c0 >= 0.0) {
-      const double lifted = root(s, c0);
-      if (lifted <= 2.0 * transfer_n) return lifted;
-    }
     const double c2 = c0 + 2.0 * s * transfer_n * transfer_n;
     if (b * b - 2.0 * s * c2 < 0.0) {  // no root with both tyres down
       const double lifted = root(s, c0);
       return lifted <= 2.0 * transfer_n ? lifted : c0 / floor_fraction;
     }
     const double both = root(0.5 * s, c2);
-    if (both >= 2.0 * transfer_n) return both;
+    if (both >= 2.0 * transfer_n) {
+      // Both tyres down (from 2 d up) hold fy from `both`, their smaller root, and at 2 d (the
+      // two forms agree there: the inner tyre just off) they do not. The outer tyre alone holds it
+      // at a lower load where 2 d lies past its force's vertex Fn (1 + s) / (2 s) (4 s d > b per
+      // newton) and its parabola reaches fy: its smaller root, below that vertex, so below 2 d and
+      // `both`. The two-tyre root was read there (a robustness campaign's narrow-tracked car:
+      // 19.6 kN for a front axle that held its 4.7 kN at 2.95 kN with the inner tyre lifted,
+      // at the one speed of a corner where the two-tyre root appears; the rear-driven car's
+      // front bound then said -24 g).
+      if (4.0 * s * transfer_n > b && b * b - 4.0 * s * c0 >= 0.0) return root(s, c0);
+      return both;
+    }
     return root(s, c0);
   }
 
