@@ -61,3 +61,15 @@ TEST_CASE("an empty CSV file or one of comments alone is an error at 1:1 (issue 
   CHECK(csv_error("# nothing but a note\n") ==
         ":1:1: error: the file has no header line (only comments)");
 }
+
+TEST_CASE("a CSV file whose lines end with a CR alone is named so at its first CR") {
+  // A robustness campaign's: such a file read as one line, "no header line (only comments)"
+  // where its first line was a comment, or one long header.
+  const std::string want =
+      "error: the lines end with a CR alone (old Mac line ends): save the file with LF or CR LF "
+      "line ends";
+  CHECK(csv_error("# a survey\rx_m,y_m\r1,2\r3,4\r") == ":1:11: " + want);
+  CHECK(csv_error("x_m,y_m\r1,2\r3,4\r") == ":1:8: " + want);
+  // CR LF line ends are lines (the BOM and CRLF file above).
+  CHECK(csv_error("x_m,y_m\r\n1,2\r\n") == "");
+}
