@@ -144,9 +144,7 @@ CsvTable read_csv(const std::string& file, std::size_t min_rows) {
     // was all comments or one long header (a robustness campaign's finding: "the file has no
     // header line"). Named at the first.
     if (const std::size_t cr = line.find('\r'); cr != std::string::npos)
-      throw InputError(file, Mark{n, static_cast<int>(cr) + 1},
-                       "the lines end with a CR alone (old Mac line ends): save the file with LF "
-                       "or CR LF line ends");
+      throw InputError(file, Mark{n, static_cast<int>(cr) + 1}, lone_cr_message);
     int bom = 0;  // bytes of a BOM taken off the line (columns count from the file's first byte)
     if (n == 1 && line.rfind("\xEF\xBB\xBF", 0) == 0) line.erase(0, bom = 3);  // UTF-8 BOM
     // Text is UTF-8: a byte that is not is refused where it stands (a name read from the header

@@ -523,9 +523,7 @@ Document parse_document(const std::string& text, const std::string& file) {
   if (const std::size_t cr = text.find('\r');
       cr != std::string::npos && text.find('\n') == std::string::npos && cr + 1 < text.size()) {
     const TextPosition at = position_of(text, cr);
-    throw InputError(file, Mark{at.line, at.col},
-                     "the lines end with a CR alone (old Mac line ends): save the file with LF "
-                     "or CR LF line ends");
+    throw InputError(file, Mark{at.line, at.col}, lone_cr_message);
   }
   if (auto root = detail::read_simple_yaml(text))
     doc.root = std::move(*root);

@@ -26,6 +26,10 @@ TextPosition position_of(std::string_view text, std::size_t offset);
 /// "the text is not valid UTF-8 (byte 0xNN)": the sentence an input error gives for the byte at
 /// `offset`.
 std::string invalid_utf8_message(std::string_view text, std::size_t offset);
+/// The error for a text whose lines end with a CR alone (old Mac line ends), which a reader
+/// would take as one line: said by the YAML and the CSV readers at the first such CR.
+inline constexpr const char* lone_cr_message =
+    "the lines end with a CR alone (old Mac line ends): save the file with LF or CR LF line ends";
 
 /// `text` on one printable line: control characters escaped (\n, \r, \t, other C0 and DEL as
 /// \xNN, C1 controls and the line and paragraph separators U+2028, U+2029 as \uNNNN) and bytes
