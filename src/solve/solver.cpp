@@ -324,12 +324,13 @@ namespace {
 // (measured), what a few hundred points of a sweep take.
 constexpr std::size_t min_points_apart = 2000;
 
-// `engine` false leaves the engine's limit out (the tyres' and the axles' alone: what a flying
-// start above the engine's top speed is held to, LapSolver::speed_pass).
-void steady_halves(const Envelope& env, const Mesh& mesh, SteadyProfile& p, SecondThread* second,
+// `engine` false leaves the engine's limit out (the tyres' and the axles' alone: what a car
+// above the engine's top speed is held to, LapSolver::speed_pass). Returns whether the engine's
+// limit at some point is below the limit at the point before it (`drops`, steady_points).
+bool steady_halves(const Envelope& env, const Mesh& mesh, SteadyProfile& p, SecondThread* second,
                    bool engine = true);
 void steady_points(const Envelope& env, const Mesh& mesh, SteadyProfile& p, std::size_t lo,
-                   std::size_t hi, bool engine);
+                   std::size_t hi, bool engine, bool& drops);
 
 }  // namespace
 
@@ -345,20 +346,30 @@ void steady_profile(const Envelope& env, const Mesh& mesh, SteadyProfile& p) {
 
 namespace {
 
-void steady_halves(const Envelope& env, const Mesh& mesh, SteadyProfile& p, SecondThread* second,
+bool steady_halves(const Envelope& env, const Mesh& mesh, SteadyProfile& p, SecondThread* second,
                    bool engine) {
   const std::size_t n = mesh.size();
   resize_ready({&p.speed_mps}, n, second);
   p.limit.resize(n);
-  in_halves(n, second,
-            [&](std::size_t lo, std::size_t hi) { steady_points(env, mesh, p, lo, hi, engine); });
+  std::array<bool, 2> drops{false, false};  // each half's own (the halves may run apart)
+  in_halves(n, second, [&](std::size_t lo, std::size_t hi) {
+    steady_points(env, mesh, p, lo, hi, engine, drops[lo == 0 ? 0 : 1]);
+  });
+  // And where the halves meet.
+  const std::size_t mid = n / 2;
+  return drops[0] || drops[1] ||
+         (mid > 0 && mid < n && p.limit[mid] == SteadyLimit::engine &&
+          p.speed_mps[mid] < p.speed_mps[mid - 1]);
 }
 
 // The steady limits of points lo to hi (not included), each half of the mesh from a fresh start
 // (no answer carried in from the point before lo). `Level`: as the Sweeper's (level_mesh).
+// `drops` is set where a point's limit is the engine's and below the limit at the point before
+// it (a steeper grade, a trim zone's end, a head wind): a car there may arrive faster than its
+// drive holds (LapSolver::speed_pass).
 template <bool Level>
 void steady_points_as(const Envelope& env, const Mesh& mesh, SteadyProfile& p, std::size_t lo,
-                      std::size_t hi, bool engine) {
+                      std::size_t hi, bool engine, bool& drops) {
   const double v_max = env.max_speed_mps();
   const bool axle = env.car().model == VehicleModel::axle;
   const LevelTables* tables = axle ? env.level_tables() : nullptr;
@@ -457,6 +468,7 @@ void steady_points_as(const Envelope& env, const Mesh& mesh, SteadyProfile& p, s
       p.speed_mps[i] = v_lift;
       p.limit[i] = lift_axle;
     }
+    if (i > lo && p.limit[i] == SteadyLimit::engine && p.speed_mps[i] < speed) drops = true;
     speed = p.speed_mps[i];
     limit = p.limit[i];
     if (!(p.speed_mps[i] > 0.0))
@@ -471,11 +483,11 @@ void steady_points_as(const Envelope& env, const Mesh& mesh, SteadyProfile& p, s
   }
 }
 void steady_points(const Envelope& env, const Mesh& mesh, SteadyProfile& p, std::size_t lo,
-                   std::size_t hi, bool engine) {
+                   std::size_t hi, bool engine, bool& drops) {
   if (level_mesh(mesh))
-    steady_points_as<true>(env, mesh, p, lo, hi, engine);
+    steady_points_as<true>(env, mesh, p, lo, hi, engine, drops);
   else
-    steady_points_as<false>(env, mesh, p, lo, hi, engine);
+    steady_points_as<false>(env, mesh, p, lo, hi, engine, drops);
 }
 
 }  // namespace
@@ -503,6 +515,12 @@ constexpr double secant_reach = 2.0 / 3.0;
 // surely positive: a thousand times the axle model's tolerance (1e-9 m/s^2) and thirty times
 // the straight-line tables' (3e-8 m/s^2), so that neither can turn it.
 constexpr double held_margin_mps2 = 1e-6;
+// How far above the engine's steady limit (relative) a car slowing at full drive towards it
+// must be for the sweeps to leave that limit out (LapSolver::speed_pass): 1e-7, ten thousand
+// times the steady limits' root tolerance (steady_bits), so that no rounding starts a stretch,
+// and where the stretch ends the sweeps hold the car down to the limit by at most that much
+// (some 1e-4 g over a 0.5 m step at 300 km/h, against the 1e-3 g of the slowing there).
+constexpr double engine_above_tolerance = 1e-7;
 // The backward sweep's steps over a stretch where it is above the forward sweep
 // (Sweeper::skippable): taken at once where braking on the level decelerates by at least this
 // much at any speed (Envelope::level_resistance_floor_mps2; some 0.13 m/s^2 for the bundled
@@ -1944,7 +1962,7 @@ void LapSolver::speed_pass(const Envelope& env, const Mesh& mesh, double start_s
   speed_solved_ = false;
   skipped_steps_ = 0;
   SecondThread* const second = second_thread(n);
-  steady_halves(env, mesh, steady_, second);
+  const bool engine_drops = steady_halves(env, mesh, steady_, second);
   const auto& steady = steady_.speed_mps;
   SweepResult& fwd = forward_;
   SweepResult& bwd = backward_;
@@ -1971,43 +1989,82 @@ void LapSolver::speed_pass(const Envelope& env, const Mesh& mesh, double start_s
     });
   };
   start_limit_mps_ = steady.front();
+  // Where the sweeps start: a closed lap at its slowest steady point, where the speed is known
+  // (periodic), an open one at its first point at `start_speed`.
+  std::size_t i0 = 0;
   if (mesh.closed) {
-    // Periodic lap: start both sweeps at the slowest steady point, where the speed is known.
     const std::size_t period = n - 1;
-    const std::size_t i0 = static_cast<std::size_t>(
+    i0 = static_cast<std::size_t>(
         std::min_element(steady.begin(), steady.begin() + static_cast<std::ptrdiff_t>(period)) -
         steady.begin());
-    if (quick_steps_ && !straight && env.level_resistance_floor_mps2() >= skip_floor_mps2)
-      dispatch(env, integrator_, [&]<bool Axle, Integrator I>() {
-        sweep_phases<Axle, I>(env, mesh, steady, i0, phase_splits(mesh, steady, i0), fwd, bwd,
-                              forward_part_, backward_part_, tables.get(), quick_steps_, second,
-                              skipped_steps_);
-      });
-    else
-      both(steady, i0, steady[i0], i0, steady[i0], lap_splits(mesh, steady, i0));
-    // A sweep that comes round slower than it started (it could not regain the start speed)
-    // runs once more from the speed it arrived at, so that the lap is periodic.
-    if (fwd.speed_mps[i0] < steady[i0]) fwd = again(steady, Sweep::forward, i0, fwd.speed_mps[i0]);
-    if (bwd.speed_mps[i0] < steady[i0]) bwd = again(steady, Sweep::backward, i0, bwd.speed_mps[i0]);
-  } else if (start_speed_mps > steady.front() * (1.0 + 1e-9) &&
-             steady_.limit.front() == SteadyLimit::engine) {
-    // A flying start above the engine's steady limit (`start_speed`; the speed profile of
-    // README, "Physics and assumptions"): the car is faster than its drive holds on that road
-    // and slows (drag and resistance against the drive, full throttle) until it is back on
-    // that limit. Over that stretch the sweeps are held to the tyres' and the axles' limits
-    // alone (the engine's left out); from the first point where the car is within
-    // phase_on_limit of the engine's limit, to the steady limits as every other lap is. The
-    // start itself is held to the tyres' limit (start_limit_mps).
+  }
+  // Both sweeps within `limit`, each point's speed held at or under it.
+  auto sweeps = [&](const std::vector<double>& limit) {
+    if (mesh.closed) {
+      if (quick_steps_ && !straight && env.level_resistance_floor_mps2() >= skip_floor_mps2)
+        dispatch(env, integrator_, [&]<bool Axle, Integrator I>() {
+          sweep_phases<Axle, I>(env, mesh, limit, i0, phase_splits(mesh, limit, i0), fwd, bwd,
+                                forward_part_, backward_part_, tables.get(), quick_steps_, second,
+                                skipped_steps_);
+        });
+      else
+        both(limit, i0, limit[i0], i0, limit[i0], lap_splits(mesh, limit, i0));
+      // A sweep that comes round slower than it started (it could not regain the start speed)
+      // runs once more from the speed it arrived at, so that the lap is periodic.
+      if (fwd.speed_mps[i0] < limit[i0]) fwd = again(limit, Sweep::forward, i0, fwd.speed_mps[i0]);
+      if (bwd.speed_mps[i0] < limit[i0]) bwd = again(limit, Sweep::backward, i0, bwd.speed_mps[i0]);
+    } else {
+      both(limit, 0, start_speed_mps, n - 1, limit[n - 1], {n, n});
+    }
+  };
+  // The engine's steady limit is where drive and resistance balance (or the rev limit): a car
+  // that arrives there faster (a flying start, the foot of a downhill, a trim zone's end, a
+  // steeper climb) slows at full drive until it is back on it, as the drive and the resistance
+  // have it; the limit is not a speed to brake to. The sweeps hold every point to its steady
+  // limit, which is right wherever the car reaches the engine's from below (its drive then
+  // approaches it, and a backward sweep held there changes nothing: README, "Physics and
+  // assumptions"). Where it would arrive above it, the sweeps are held to the tyres' and the
+  // axles' limits alone at every point where a forward sweep within those alone is above the
+  // engine's limit by more than engine_above_tolerance, and to the steady limits elsewhere.
+  const bool flying = !mesh.closed && start_speed_mps > steady.front() * (1.0 + 1e-9) &&
+                      steady_.limit.front() == SteadyLimit::engine;
+  // Whether the forward sweep came to a point whose limit is the engine's faster than that
+  // limit (and was held down to it there): only where that limit drops.
+  const auto arrived_above_engine = [&]() {
+    for (std::size_t i = 1; i < n; ++i)
+      if (steady_.limit[i] == SteadyLimit::engine &&
+          fwd.speed_mps[i - 1] > steady[i] * (1.0 + engine_above_tolerance))
+        return true;
+    return false;
+  };
+  above_engine_ = false;
+  if (!flying) sweeps(steady);
+  if (flying || (engine_drops && arrived_above_engine())) {
+    above_engine_ = true;
     steady_halves(env, mesh, flying_, second, false);
     std::vector<double>& limit = flying_.speed_mps;
-    start_limit_mps_ = limit.front();
-    fwd = again(limit, Sweep::forward, 0, start_speed_mps);
-    std::size_t k = 0;
-    while (k < n && fwd.speed_mps[k] > steady[k] * (1.0 + phase_on_limit)) ++k;
-    for (std::size_t i = k; i < n; ++i) limit[i] = steady[i];
-    both(limit, 0, start_speed_mps, n - 1, limit[n - 1], {n, n});
-  } else {
-    both(steady, 0, start_speed_mps, n - 1, steady[n - 1], {n, n});
+    if (flying) start_limit_mps_ = limit.front();  // the start held to the tyres' limit
+    // The forward sweep within the tyres' and the axles' limits alone ("free"), from the same
+    // start; the stretches where the engine's limit is left out, in the sweep's order: each
+    // from a flying start or a point where the engine's limit drops with the free sweep above
+    // it, to the first point where the free sweep is within engine_above_tolerance of the
+    // steady limit (the sweeps then hold the car to it from there, as on any straight; the
+    // free sweep can come above it elsewhere only by a step's overshoot at a rev limit, where
+    // the drive stops).
+    const SweepResult free =
+        again(limit, Sweep::forward, i0, mesh.closed ? steady[i0] : start_speed_mps);
+    const std::size_t period = mesh.closed ? n - 1 : n;
+    bool lifted = flying;
+    if (!lifted) limit[i0] = steady[i0];
+    for (std::size_t c = 1; c < period; ++c) {
+      const std::size_t i = (i0 + c) % period, before = (i0 + c - 1) % period;
+      const bool above = free.speed_mps[i] > steady[i] * (1.0 + engine_above_tolerance);
+      const bool drop = steady_.limit[i] == SteadyLimit::engine && steady[i] < steady[before];
+      lifted = above && (lifted || drop);
+      if (!lifted) limit[i] = steady[i];
+    }
+    if (mesh.closed) limit[n - 1] = limit[0];  // the seam: point n-1 is point 0 again
+    sweeps(limit);
   }
 
   resize_ready({&lap.speed_mps, &lap.time_s}, n, second);

@@ -147,6 +147,71 @@ TEST_CASE("trim zones: a zone over one of two equal straights halves the trim's 
   CHECK(near(none - in_zone, 0.5 * (none - everywhere), 1e-3));
 }
 
+TEST_CASE("above its top speed at a trim zone's end or a downhill's foot the car slows, unbraked") {
+  // Constant power P against drag k v^2 (plain_car: no rolling resistance, efficiency 1, no
+  // rotating inertia), as the flying start above: past a trim zone's end, where the drag area
+  // goes from the trim's back to the config's, or at the foot of a 12 % downhill, the car is
+  // above its top speed on the level and slows by m v dv/ds = P / v - k v^2, so
+  // k v^3 = P + (k v0^3 - P) exp(-3 k (s - s0) / m) (closed form) from the speed v0 it has at
+  // the first point past the zone or the hill, s0. The engine's steady limit there is where
+  // P = k v^3: a speed the car slows towards, not one to brake to (the sweeps once held the car
+  // to it: 4 to 5 g of braking over the last metres before s0; README, "Physics and
+  // assumptions").
+  const double m = 700.0, power = 300e3, cda = 1.0;
+  Car car = test::plain_car(m, 1.5, power);
+  car.configs.front().cda_m2 = {cda};
+  car.configs.front().trim = StraightTrim{-0.35, 0.0, 0.0, 1e-3};
+  const double k = 0.5 * sea_level.density_kg_m3 * cda;
+  const double v_trim = std::cbrt(power / (0.5 * sea_level.density_kg_m3 * (cda - 0.35)));
+  const double v_top = std::cbrt(power / k);
+  // A flying start just under the trim's top speed, a zone over the first 1 000 m of 3 000.
+  Track zone = test::straight_track(3000.0, 0.5, 0.999 * v_trim);
+  zone.trim_zones = {TrimZone{0.0, 1000.0}};
+  // 2 500 m down at 12 % (some 6.5 times the distance m / (3 k) over which the speed settles),
+  // then 2 000 m level; the car without its trim.
+  Track hill = test::straight_track(4500.0, 0.5, 0.999 * v_top);
+  hill.segments = {test::straight(2500.0, -0.12), test::straight(2000.0, 0.0)};
+  for (const Track* t : {&zone, &hill}) {
+    const Circuit c = lay_out(*t, sea_level);
+    const bool by_zone = t == &zone;
+    if (!by_zone) car.configs.front().trim.reset();
+    for (const VehicleModel model : {VehicleModel::point_mass, VehicleModel::axle}) {
+      car.model = model;
+      INFO((by_zone ? "the zone's end" : "the hill's foot")
+           << ", model " << static_cast<int>(model));
+      const LapRun r = run_lap(test::configured(car), c);
+      const Lap& lap = r.lap;
+      std::size_t s0 = 1;
+      while (by_zone ? c.mesh.trim_zone[s0] != 0 : c.mesh.grade_at(s0 - 1) != 0.0) ++s0;
+      CAPTURE(c.mesh.s_m[s0]);
+      REQUIRE(c.mesh.s_m[s0] > (by_zone ? 999.0 : 2499.0));
+      const double v0 = lap.speed_mps[s0];
+      // Near the trim's or the hill's top speed there, well above the level one's.
+      if (by_zone) CHECK(v0 > 0.999 * v_trim);
+      CHECK(v0 > 1.05 * v_top);
+      // No braking anywhere; the step into s0 is the zone's or the hill's last: from s0 on,
+      // each step slows (at full drive: `top_speed`, README, "Physics and assumptions").
+      CHECK(std::find(lap.phase.begin(), lap.phase.end(), Phase::brake) == lap.phase.end());
+      bool slowing = true;
+      for (std::size_t i = s0 + 1; i < lap.speed_mps.size(); ++i) {
+        slowing = slowing && lap.speed_mps[i] <= lap.speed_mps[i - 1];
+        if (i < s0 + 200) CHECK(lap.phase[i] == Phase::top_speed);
+      }
+      CHECK(slowing);
+      for (const double ds : {20.0, 200.0, 1000.0, 1900.0}) {
+        const auto i = s0 + static_cast<std::size_t>(std::lround(ds / c.mesh.step_m));
+        const double x = c.mesh.s_m[i] - c.mesh.s_m[s0];
+        const double v =
+            std::cbrt((power + (k * v0 * v0 * v0 - power) * std::exp(-3 * k * x / m)) / k);
+        CAPTURE(x);
+        // As the flying start's: the exponential step's second-order error where P / v is not
+        // affine in v^2, 1e-6 at a 0.5 m mesh.
+        CHECK(near(lap.speed_mps[i], v, 1e-6));
+      }
+    }
+  }
+}
+
 TEST_CASE("off camber past -atan(1/mu): the banked circle's speed, not the top of the tables") {
   // REFERENCES, banked road, with the downforce q ClA added to the normal load (no drag, so no
   // longitudinal force): m (v^2 k cos b - g sin b) = mu (m g cos b + m v^2 k sin b + c v^2),

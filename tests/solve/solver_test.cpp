@@ -1135,19 +1135,25 @@ namespace {
 std::size_t check_skipped_lap(const Envelope& env, const Mesh& mesh) {
   const std::size_t period = mesh.size() - 1;
   const SteadyProfile steady = steady_profile(env, mesh);
-  const std::vector<double>& limit = steady.speed_mps;
   const std::size_t i0 = static_cast<std::size_t>(
-      std::min_element(limit.begin(), limit.begin() + static_cast<std::ptrdiff_t>(period)) -
-      limit.begin());
-  const SweepResult forward = sweep(env, mesh, Sweep::forward, limit, i0, limit[i0]);
-  const SweepResult backward = sweep(env, mesh, Sweep::backward, limit, i0, limit[i0]);
-  REQUIRE(forward.speed_mps[i0] == limit[i0]);  // comes round on the limit: no second run
-  REQUIRE(backward.speed_mps[i0] == limit[i0]);
+      std::min_element(steady.speed_mps.begin(),
+                       steady.speed_mps.begin() + static_cast<std::ptrdiff_t>(period)) -
+      steady.speed_mps.begin());
   LapSolver one, two;
   two.set_threads(2);
   const Lap& lap = one.solve_speed(env, mesh);
   check_same_lap(lap, two.solve_speed(env, mesh));
   CHECK(one.skipped_steps() == two.skipped_steps());
+  CHECK(one.steady().speed_mps == steady.speed_mps);
+  // The whole sweeps within the limits the solve's sweeps held the points to (the steady limits,
+  // or where the car comes to the engine's limit faster than it, the tyres' alone there).
+  const std::vector<double> limit = one.sweep_limits();
+  CHECK(limit == two.sweep_limits());
+  REQUIRE(limit[i0] == steady.speed_mps[i0]);
+  const SweepResult forward = sweep(env, mesh, Sweep::forward, limit, i0, limit[i0]);
+  const SweepResult backward = sweep(env, mesh, Sweep::backward, limit, i0, limit[i0]);
+  REQUIRE(forward.speed_mps[i0] == limit[i0]);  // comes round on the limit: no second run
+  REQUIRE(backward.speed_mps[i0] == limit[i0]);
   double worst = 0.0;
   std::size_t above = 0, phases = 0;
   for (std::size_t i = 0; i < mesh.size(); ++i) {
@@ -1156,7 +1162,7 @@ std::size_t check_skipped_lap(const Envelope& env, const Mesh& mesh) {
     worst = std::max(worst, std::abs(lap.speed_mps[i] - v) / v);
     above += b > f;
     if (std::abs(b - f) > 1e-9 * v) {
-      const bool on_limit = v >= limit[i] * (1.0 - phase_on_limit);
+      const bool on_limit = v >= steady.speed_mps[i] * (1.0 - phase_on_limit);
       phases +=
           lap.phase[i] == classify_phase(on_limit, b < f, steady.limit[i], forward.cut[i] != 0);
     } else {

@@ -295,6 +295,14 @@ class LapSolver {
   /// slows to it) the tyres' and the axles' limit alone. A start above it is clipped to it, and
   /// is the track's error (run_lap).
   double start_limit_mps() const { return start_limit_mps_; }
+  /// The limits the last speed solve's sweeps held each point to: its steady limits, but over
+  /// the stretches where the car comes to the engine's limit faster than it (a flying start,
+  /// the foot of a downhill, a trim zone's end, a steeper climb: it slows at full drive, it
+  /// does not brake) the tyres' and the axles' alone (README, "Physics and assumptions").
+  /// Valid until the next solve.
+  const std::vector<double>& sweep_limits() const {
+    return above_engine_ ? flying_.speed_mps : steady_.speed_mps;
+  }
   /// The backward sweep's steps the last speed solve took at once, over its stretches above the
   /// forward sweep (README, "Performance", "The backward sweep over the stretches above the
   /// forward one"); 0 where it took every step. A figure of the solve's work, not of the lap.
@@ -319,7 +327,10 @@ class LapSolver {
   std::unique_ptr<SecondThread> second_;
   Lap lap_;
   SteadyProfile steady_;
-  SteadyProfile flying_;  // a flying start's limits (speed_pass), used only for one
+  // The sweeps' limits where the car comes to the engine's limit faster than it (speed_pass),
+  // used only then (above_engine_).
+  SteadyProfile flying_;
+  bool above_engine_ = false;
   double start_limit_mps_ = 0.0;
   // The last speed solve ran to its end: false from its start, so that the channels are never
   // made from the speeds of a solve that threw part of the way (they would be an earlier lap's,
