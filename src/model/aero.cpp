@@ -91,6 +91,9 @@ namespace {
 
 // The ranges of a config's coefficients (README, "Car").
 constexpr Range cda_range{0.0, 20.0}, cla_range{0.0, 30.0}, balance_range{0.0, 1.0};
+// A speed table's rows: from standstill to 250 m/s (900 km/h), the top of a lap's tables
+// (EnvelopeOptions::speed_ceiling_mps): no lap reads a row beyond it.
+constexpr Range table_speed_range{0.0, 250.0};
 
 std::string index_path(const std::string& key, std::size_t i) {
   return key + "[" + std::to_string(i) + "]";
@@ -181,7 +184,7 @@ std::optional<Violation> AeroConfig::validate() const {
     case Form::speed_table: {
       const std::string speed = "speed_table.speed";
       const std::size_t n = speed_mps.size();
-      f.each(speed, speed_mps, non_negative(), Quantity::speed)
+      f.each(speed, speed_mps, table_speed_range, Quantity::speed)
           .rule(n >= 2, speed, "a table needs at least 2 rows")
           .order(speed, speed_mps, true);
       struct Column {

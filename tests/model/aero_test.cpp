@@ -312,6 +312,15 @@ TEST_CASE("an aero config names its first bad value by the key of its form") {
   t.balance[2] = 1.2;
   CHECK(test::describe(t.validate()) ==
         "speed_table.balance[2]: value 1.2 is out of range: must be [0, 1]");
+  // A row beyond the top of a lap's tables (250 m/s) is never read: refused, where 1e308 m/s
+  // once read "inf km/h" in check's note and 1e307 a 31-digit number (a fuzz campaign).
+  t.balance[2] = 0.42;
+  t.speed_mps = {20.0, 250.0};
+  t.cda_m2 = t.cla_m2 = t.balance = {1.0, 1.0};
+  CHECK(test::describe(t.validate()) == "none");
+  t.speed_mps[1] = 1e308;
+  CHECK(test::describe(t.validate()) ==
+        "speed_table.speed[1]: value 1e+308 is out of range: must be [0, 250] in SI units");
   // Reduced from parts: the parts' words.
   AeroConfig f = c;
   f.form = AeroConfig::Form::forces;
