@@ -7,6 +7,7 @@
 #include <stdexcept>
 #include <string>
 
+#include "lapwing/base/format.hpp"
 #include "lapwing/base/interpolate.hpp"
 #include "lapwing/model/loads.hpp"
 
@@ -29,28 +30,35 @@ MapCoefficients map_coefficients(const RideHeightMap& map, double front_m, doubl
           f_off || r_off};
 }
 
-AeroPoint solve_ride_heights(const RideHeightMap& map, double v, double rho, double z_drag,
-                             double wheelbase, double guess_front, double guess_rear) {
-  const double q = 0.5 * rho * v * v;
-  // Residual G(h) = h - (h0 - F(h) / k), zero at the operating point.
-  auto residual = [&](const Eigen::Vector2d& h) {
-    const MapCoefficients c = map_coefficients(map, h[0], h[1]);
-    const AxleLoads f = aero_axle_loads(q * c.cla_m2, c.balance, q * c.cda_m2, z_drag, wheelbase);
-    return Eigen::Vector2d(h[0] - (map.static_front_m - f.front_n / map.stiffness_front_npm),
-                           h[1] - (map.static_rear_m - f.rear_n / map.stiffness_rear_npm));
-  };
-  constexpr double tolerance_m = 1e-10;  // far below any map's resolution
-  constexpr int max_iterations = 60;
-  constexpr double fd_step_m = 1e-7;
-  Eigen::Vector2d h(guess_front, guess_rear);
+namespace {
+
+// The residual of the ride heights h = (front, rear): G(h) = h - (h0 - F(h) / k), zero at the
+// operating point, F the aero load on each axle at heights h. `coefficients` gives the map's
+// coefficients at h.
+template <typename Coefficients>
+Eigen::Vector2d ride_residual(const RideHeightMap& map, double q, double z_drag, double wheelbase,
+                              const Eigen::Vector2d& h, const Coefficients& coefficients) {
+  const MapCoefficients c = coefficients(h);
+  const AxleLoads f = aero_axle_loads(q * c.cla_m2, c.balance, q * c.cda_m2, z_drag, wheelbase);
+  return Eigen::Vector2d(h[0] - (map.static_front_m - f.front_n / map.stiffness_front_npm),
+                         h[1] - (map.static_rear_m - f.rear_n / map.stiffness_rear_npm));
+}
+
+constexpr double ride_tolerance_m = 1e-10;  // far below any map's resolution
+constexpr double ride_fd_step_m = 1e-7;
+
+// Damped Newton from h on G (`residual`), the Jacobian by forward differences of `fd_step`:
+// the residual's norm left.
+template <typename Residual>
+double ride_newton(const Residual& residual, Eigen::Vector2d& h, double fd_step,
+                   int max_iterations) {
   Eigen::Vector2d g = residual(h);
-  for (int it = 0; it < max_iterations && g.norm() > tolerance_m; ++it) {
-    // Jacobian by forward differences (the map is piecewise bilinear, so this is its slope).
+  for (int it = 0; it < max_iterations && g.norm() > ride_tolerance_m; ++it) {
     Eigen::Matrix2d jac;
     for (int k = 0; k < 2; ++k) {
       Eigen::Vector2d hk = h;
-      hk[k] += fd_step_m;
-      jac.col(k) = (residual(hk) - g) / fd_step_m;
+      hk[k] += fd_step;
+      jac.col(k) = (residual(hk) - g) / fd_step;
     }
     Eigen::Vector2d step = jac.fullPivLu().solve(-g);
     if (!step.allFinite()) step = -g;  // singular: a plain fixed-point step
@@ -62,12 +70,111 @@ AeroPoint solve_ride_heights(const RideHeightMap& map, double v, double rho, dou
       next = h + t * step;
       g_next = residual(next);
     }
+    if (!next.allFinite()) break;
     h = next;
     g = g_next;
   }
-  if (!(g.norm() <= tolerance_m) || !h.allFinite())
-    throw std::runtime_error("the ride heights do not converge (residual " +
-                             std::to_string(g.norm()) + " m)");
+  return g.norm();
+}
+
+// A region of one axis of n nodes: the interval from node a to a + 1, or beyond the ends (a = -1
+// below the first node, n - 1 above the last, where the map holds its end values); its bracket
+// is not held to it (the region's own linear weight, which runs on past its edges).
+struct AxisRegion {
+  const std::vector<double>& axis;
+  long a;  // -1 .. n - 1
+  double lo() const { return a < 0 ? -HUGE_VAL : axis[static_cast<std::size_t>(a)]; }
+  double hi() const {
+    return a + 1 >= static_cast<long>(axis.size()) ? HUGE_VAL
+                                                   : axis[static_cast<std::size_t>(a + 1)];
+  }
+  Bracket at(double x) const {
+    const std::size_t n = axis.size();
+    if (a < 0) return {0, 0.0};
+    if (a + 1 >= static_cast<long>(n)) return {n - 2, 1.0};
+    const std::size_t i = static_cast<std::size_t>(a);
+    return {i, (x - axis[i]) / (axis[i + 1] - axis[i])};
+  }
+  // A start inside the region: its middle (k = 0), its low end (1) or its high end (2); a
+  // region beyond the axis's end from x held to it.
+  double start(double x, int k) const {
+    if (a >= 0 && a + 1 < static_cast<long>(axis.size()))
+      return k == 0 ? 0.5 * (lo() + hi()) : (k == 1 ? lo() : hi());
+    return std::clamp(x, lo(), hi());
+  }
+  bool holds(double x) const {
+    const double width = a >= 0 && a + 1 < static_cast<long>(axis.size()) ? hi() - lo() : 1.0;
+    const double slack = 1e-9 * width;
+    return x >= lo() - slack && x <= hi() + slack;
+  }
+};
+
+}  // namespace
+
+AeroPoint solve_ride_heights(const RideHeightMap& map, double v, double rho, double z_drag,
+                             double wheelbase, double guess_front, double guess_rear) {
+  const double q = 0.5 * rho * v * v;
+  const auto on_map = [&](const Eigen::Vector2d& h) { return map_coefficients(map, h[0], h[1]); };
+  const auto residual = [&](const Eigen::Vector2d& h) {
+    return ride_residual(map, q, z_drag, wheelbase, h, on_map);
+  };
+  // Damped Newton on the whole map from the guess (continuation from the last speed).
+  Eigen::Vector2d h(guess_front, guess_rear);
+  double left = ride_newton(residual, h, ride_fd_step_m, 60);
+  if (!(left <= ride_tolerance_m) || !h.allFinite()) {
+    // The map is bilinear in each of its cells (and held beyond its edges), so G is smooth in
+    // each and kinks between them, where a Newton iteration over the whole map can cycle (a
+    // map whose cells change steeply: a fuzz campaign's ClA of 3 to 6.7 m2 between neighbouring
+    // cells, residual 3.4e-5 m). So region by region: Newton on the region's own polynomial
+    // (its bilinear weights run on past its edges), from its middle, a root kept where it lies
+    // in the region. G is continuous, so a root of the map is a root of the region it lies in;
+    // of several (more than one operating point), the one nearest the guess.
+    const std::size_t nf = map.front_m.size(), nr = map.rear_m.size();
+    const Eigen::Vector2d guess(guess_front, guess_rear);
+    bool found = false;
+    Eigen::Vector2d best(0.0, 0.0);
+    for (long a = -1; a + 1 <= static_cast<long>(nf); ++a)
+      for (long b = -1; b + 1 <= static_cast<long>(nr); ++b) {
+        const AxisRegion rf{map.front_m, a}, rr{map.rear_m, b};
+        const auto in_region = [&](const Eigen::Vector2d& x) {
+          const Bracket f = rf.at(x[0]), r = rr.at(x[1]);
+          const auto lin = [&](const MapGrid& m) {
+            const std::size_t i = f.i, j = r.i;
+            return lerp(lerp(m(i, j), m(i, j + 1), r.w), lerp(m(i + 1, j), m(i + 1, j + 1), r.w),
+                        f.w);
+          };
+          return MapCoefficients{lin(map.cda_m2), lin(map.cla_m2), lin(map.balance), false};
+        };
+        const auto g = [&](const Eigen::Vector2d& x) {
+          return ride_residual(map, q, z_drag, wheelbase, x, in_region);
+        };
+        // The step of the differences: within the region's width (some maps' axes are close).
+        double step = ride_fd_step_m;
+        if (a >= 0 && a + 1 < static_cast<long>(nf))
+          step = std::min(step, 1e-3 * (rf.hi() - rf.lo()));
+        if (b >= 0 && b + 1 < static_cast<long>(nr))
+          step = std::min(step, 1e-3 * (rr.hi() - rr.lo()));
+        // From the region's middle, then from its corners (Newton on the region's polynomial
+        // can run to a root of it beyond the region).
+        constexpr int starts[5][2] = {{0, 0}, {1, 1}, {1, 2}, {2, 1}, {2, 2}};
+        for (const auto& s : starts) {
+          Eigen::Vector2d x(rf.start(guess_front, s[0]), rr.start(guess_rear, s[1]));
+          if (!(ride_newton(g, x, step, 60) <= ride_tolerance_m) || !x.allFinite() ||
+              !rf.holds(x[0]) || !rr.holds(x[1]) || !(residual(x).norm() <= ride_tolerance_m))
+            continue;
+          if (!found || (x - guess).norm() < (best - guess).norm()) best = x;
+          found = true;
+          break;
+        }
+      }
+    if (found) {
+      h = best;
+      left = residual(h).norm();
+    }
+  }
+  if (!(left <= ride_tolerance_m) || !h.allFinite())
+    throw std::runtime_error("the ride heights do not converge (residual " + format_readable(left) +
+                             " m)");
   const MapCoefficients c = map_coefficients(map, h[0], h[1]);
   return {c.cda_m2, c.cla_m2, c.balance, h[0], h[1], c.off, h[0] <= 0.0 || h[1] <= 0.0};
 }

@@ -366,9 +366,17 @@ grep -q '"lift_to_drag": null' "$tmp/noaero.json" && ! grep -q '"lift_to_drag": 
   ok || bad "check --json: lift_to_drag of a config without drag"
 # A speed table typed without units is in m/s (100 m/s = 360 km/h): every speed of the lap lies
 # below its first row, and run (and compare's summary.json) says so at once, with the share.
+# (A row above 250 m/s, the top of a lap's tables, is an error at its key: the 300 of the same
+# table typed in km/h without units.)
 sed 's/speed: *\[100 km\/h, 150 km\/h, 200 km\/h, 250 km\/h, 300 km\/h\]/speed: [100, 150, 200, 250, 300]/' \
+  cars/pellion-fr2.yaml > "$tmp/mps-300.yaml"
+grep -q "speed: \[100, 150, 200, 250, 300\]" "$tmp/mps-300.yaml" || bad "mps-300 car not made"
+"$bin" check --car "$tmp/mps-300.yaml" > /dev/null 2> "$tmp/stderr"
+[ $? -eq 2 ] && grep -q "^$tmp/mps-300.yaml:[0-9]*:[0-9]*: error: value 300 is out of range: must be \[0, 250\] in SI units (aero.configs.medium_table.speed_table.speed\[4\])$" "$tmp/stderr" &&
+  ok || bad "a speed table's row above 250 m/s not refused at its key"
+sed 's/speed: *\[100 km\/h, 150 km\/h, 200 km\/h, 250 km\/h, 300 km\/h\]/speed: [100, 150, 200, 220, 240]/' \
   cars/pellion-fr2.yaml > "$tmp/mps-table.yaml"
-grep -q "speed: \[100, 150, 200, 250, 300\]" "$tmp/mps-table.yaml" || bad "mps-table car not made"
+grep -q "speed: \[100, 150, 200, 220, 240\]" "$tmp/mps-table.yaml" || bad "mps-table car not made"
 want="below the speed table's first row (360.0 km/h) its values are held: 100.0 % of the lap distance"
 "$bin" run --car "$tmp/mps-table.yaml" --track tracks/brannock-park.yaml --config medium_table \
   --out "$tmp/mps" > "$tmp/mps.txt" && grep -qF "warning: $want" "$tmp/mps.txt" &&
