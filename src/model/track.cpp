@@ -187,7 +187,21 @@ std::optional<Violation> Track::validate() const {
     const TrimZone& z = trim_zones[i];
     f.range(at + "[0]", z.start_m, Range{0.0, length, false, true}, Quantity::length)
         .range(at + "[1]", z.end_m, Range{0.0, length}, Quantity::length)
-        .rule(z.end_m > z.start_m, at, "a trim zone ends after it starts", at + "[1]")
+        .rule(
+            z.end_m > z.start_m, at,
+            [&] {
+              std::string m = "a trim zone must end after it starts: its end, " +
+                              format_readable(z.end_m) + " m, is not after its start, " +
+                              format_readable(z.start_m) + " m";
+              // A lap's zone meant across the start line is two zones (its end cut to 0.1 m
+              // within the length, so that the advice is valid as it reads).
+              if (closed && z.end_m < z.start_m)
+                m += " (for a zone across the start line give two: [" + format_readable(z.start_m) +
+                     " m, " + fixed(std::floor(length * 10.0) / 10.0, 1) + " m] and [0 m, " +
+                     format_readable(z.end_m) + " m])";
+              return m;
+            },
+            at + "[1]")
         .rule(i == 0 || z.start_m >= trim_zones[i - 1].end_m, at,
               "trim zones must be in order along the track and must not overlap", at + "[0]");
   }
