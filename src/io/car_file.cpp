@@ -452,6 +452,29 @@ std::string car_key_path(const Document& doc, std::string_view key) {
 }
 
 namespace {
+// A key path's part: its key and the indices after it, as numbers and as typed ("cla[1][0]": cla,
+// 1 and 0, a list of lists' item); nullopt where the part is not a key followed by [INDEX]
+// groups (an index too large for a number is no item either: last_index).
+struct KeyPart {
+  std::string key;
+  std::vector<std::size_t> indices;
+  std::vector<std::string> typed;
+};
+std::optional<KeyPart> key_part(const std::string& part) {
+  const std::size_t open = part.find('[');
+  KeyPart k{part.substr(0, open), {}, {}};
+  for (std::size_t a = open; a < part.size();) {
+    const std::size_t close = part.find(']', a);
+    if (part[a] != '[' || close == std::string::npos) return std::nullopt;
+    const auto i = last_index(std::string_view(part).substr(a, close - a + 1));
+    if (!i) return std::nullopt;
+    k.indices.push_back(*i);
+    k.typed.push_back(part.substr(a + 1, close - a - 1));
+    a = close + 1;
+  }
+  return k;
+}
+
 [[noreturn]] void no_key(const Document& doc, const Node& at, const std::string& what,
                          const std::string& key_path) {
   throw InputError(doc.file, at.mark, what, key_path);
@@ -472,17 +495,11 @@ void set_car_value(Document& doc, std::string_view key_path, const std::string& 
   while (true) {
     const std::size_t dot = path.find('.', a);
     std::string part = path.substr(a, dot == std::string::npos ? dot : dot - a);
-    // "gears[2]": a key, then an index into the list it holds.
-    std::optional<std::size_t> index;
-    std::string index_text;  // as typed (an index too large for a number is no item either)
-    if (const std::size_t open = part.find('['); open != std::string::npos) {
-      const auto i = last_index(part);
-      if (!i || part.back() != ']')
-        no_key(doc, *node, "'" + part + "' is not a key or key[INDEX]", path);
-      index = i;
-      index_text = part.substr(open + 1, part.size() - open - 2);
-      part = part.substr(0, open);
-    }
+    // "gears[2]": a key, then an index into the list it holds ("cla[1][0]": a list of lists').
+    const std::optional<KeyPart> kp = key_part(part);
+    if (!kp) no_key(doc, *node, "'" + part + "' is not a key or key[INDEX]", path);
+    part = kp->key;
+    const bool index = !kp->indices.empty();
     if (part.empty()) no_key(doc, *node, "empty key in '" + path + "'", path);
     if (node->kind != Node::Kind::map)
       no_key(doc, *node, "'" + walked + "' holds no keys (it is a value)", path);
@@ -490,7 +507,7 @@ void set_car_value(Document& doc, std::string_view key_path, const std::string& 
     Node* child = nullptr;
     for (auto& [k, n] : node->entries)
       if (k == part) child = &n;
-    const std::string here = walked.empty() ? part : walked + "." + part;
+    std::string here = walked.empty() ? part : walked + "." + part;
     if (!child) {
       if (!last || index) {
         const std::string near = closest(part, map_keys(*node));
@@ -508,15 +525,16 @@ void set_car_value(Document& doc, std::string_view key_path, const std::string& 
       node->key_marks.push_back(node->mark);
       return;
     }
-    if (index) {
-      if (child->kind != Node::Kind::sequence || *index >= child->items.size())
+    for (std::size_t q = 0; q < kp->indices.size(); ++q) {
+      if (child->kind != Node::Kind::sequence || kp->indices[q] >= child->items.size())
         no_key(doc, *child,
-               "'" + here + "' has no item " + index_text +
+               "'" + here + "' has no item " + kp->typed[q] +
                    (child->kind == Node::Kind::sequence
                         ? " (it has " + std::to_string(child->items.size()) + ")"
                         : " (it is not a list)"),
                path);
-      child = &child->items[*index];
+      child = &child->items[kp->indices[q]];
+      here += "[" + kp->typed[q] + "]";
     }
     walked = path.substr(0, last ? path.size() : dot);
     if (last) {
@@ -545,20 +563,15 @@ void scalars_at(Node& root, const std::string& path, std::vector<Node*>& out) {
   std::size_t a = 0;
   while (a <= path.size()) {
     const std::size_t dot = std::min(path.find('.', a), path.size());
-    std::string part = path.substr(a, dot - a);
-    std::optional<std::size_t> index;
-    if (const std::size_t open = part.find('['); open != std::string::npos) {
-      index = last_index(part);
-      part = part.substr(0, open);
-    }
-    if (node->kind != Node::Kind::map) return;
+    const std::optional<KeyPart> kp = key_part(path.substr(a, dot - a));
+    if (!kp || node->kind != Node::Kind::map) return;
     Node* child = nullptr;
     for (auto& [k, n] : node->entries)
-      if (k == part) child = &n;
+      if (k == kp->key) child = &n;
     if (!child) return;
-    if (index) {
-      if (child->kind != Node::Kind::sequence || *index >= child->items.size()) return;
-      child = &child->items[*index];
+    for (const std::size_t index : kp->indices) {
+      if (child->kind != Node::Kind::sequence || index >= child->items.size()) return;
+      child = &child->items[index];
     }
     node = child;
     a = dot + 1;

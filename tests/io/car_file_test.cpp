@@ -148,6 +148,15 @@ TEST_CASE("a value set in the car's document is read like the file's own, units 
   // Unset keys the schema knows are added: the default inertia factor of a car without one.
   set_car_value(doc, "tyres.load_sensitivity", "0.1");
   CHECK(read_car_document(doc).car.tyres.load_sensitivity == 0.1);
+  // A ride-height map's cell: an item of a list of lists, one index after the other (the
+  // first index was dropped: cla[1][2] set cla[2], a list, and refused).
+  set_car_value(doc, "aero.configs.high_map.ride_height_map.cla[1][2]", "4.75");
+  const Car m = read_car_document(doc).car;
+  const AeroConfig& high_map = m.configs[5];
+  REQUIRE(high_map.name == "high_map");
+  REQUIRE(high_map.map);
+  CHECK(high_map.map->cla_m2(1, 2) == 4.75);
+  CHECK(high_map.map->cla_m2(2, 1) == 4.3);  // the file's (the other indices' cell) unchanged
 }
 
 TEST_CASE("a bad key or value set in the car's document is the car file's error") {
@@ -161,6 +170,16 @@ TEST_CASE("a bad key or value set in the car's document is the car file's error"
   CHECK(set_error("tyres", "1").find("is a map") != std::string::npos);
   CHECK(set_error("powertrain.gears[9]", "1").find("has no item 9 (it has 7)") !=
         std::string::npos);
+  // A list of lists: each index names its list; an index past a value is no item of it.
+  const std::string cell = "aero.configs.high_map.ride_height_map.cla";
+  CHECK(set_error(cell + "[1]", "3").find("'" + cell + "[1]' is a list; set one of its items") ==
+        0);
+  CHECK(set_error(cell + "[1][9]", "3").find("'" + cell + "[1]' has no item 9 (it has 4)") == 0);
+  CHECK(set_error(cell + "[1][2][0]", "3")
+            .find("'" + cell + "[1][2]' has no item 0 (it is not a list)") == 0);
+  CHECK(set_error("powertrain.gears[1][0]", "1")
+            .find("'powertrain.gears[1]' has no item 0 (it is not a list)") == 0);
+  CHECK(set_error(cell + "[1]x", "3").find("is not a key or key[INDEX]") != std::string::npos);
   // An index past what a 64-bit size holds does not wrap round to a small one (2^64 + 1 was
   // item 1): it is no item, named as typed.
   CHECK(set_error("powertrain.gears[18446744073709551617]", "1")
