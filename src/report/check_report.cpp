@@ -43,7 +43,11 @@ std::vector<std::string> config_notes(const ConfigCheck& c) {
 
 // The top speed's limit word; `traction` names the model whose tyres set it (the axle model's
 // driven axle, or the point mass's four tyres).
-std::string limit_text(TopSpeedLimit l, const Car& car) {
+std::string limit_text(TopSpeedLimit l, const Car& car, double top_speed_mps) {
+  // No speed at all: the drive never exceeds the rolling resistance, at standstill already
+  // (where there is no drag to name).
+  if (top_speed_mps <= 0.0 && l == TopSpeedLimit::drag)
+    return "rolling resistance: the drive never exceeds it, the car cannot move on the level";
   std::string s = top_speed_limit_name(l);
   if (l == TopSpeedLimit::traction)
     s += car.model == VehicleModel::axle ? " (axle model: driven axle)"
@@ -63,7 +67,7 @@ std::string config_text(const ConfigCheck& c, const Car& car) {
                                      : "") +
                     ", drag height " + fixed(c.drag_height_m, 3) + " m, top speed " +
                     fixed(units::to_kph(c.top_speed_mps), 1) + " km/h (" +
-                    limit_text(c.top_speed_limit, car) + ")\n";
+                    limit_text(c.top_speed_limit, car, c.top_speed_mps) + ")\n";
   if (c.tyre_peak_load_n) {
     // A peak beyond the level top speed is not reached on a level straight: said so, with the
     // top speed beside it (the speed is where the aero load alone would get there).
@@ -132,9 +136,9 @@ std::string track_text(const Car& car, double rated_w, const Circuit& t, const T
   }
   for (const auto& w : tc.warnings) out += "       warning: " + w + "\n";
   if (t.track.line_path) out += "       " + line_text(t.track) + "\n";
-  out += "       engine (" + label(car.powertrain.aspiration) + ") in this air: " +
-         fixed(tc.engine_power_ratio * rated_w / 1000, 1) + " kW of " + fixed(rated_w / 1000, 1) +
-         " kW rated (" + fixed(100 * tc.engine_power_ratio, 1) + " %)\n";
+  out += "       engine (" + label(car.powertrain.aspiration) +
+         ") in this air: " + fixed(tc.engine_power_ratio * rated_w / 1000, 1) + " kW of " +
+         fixed(rated_w / 1000, 1) + " kW rated (" + fixed(100 * tc.engine_power_ratio, 1) + " %)\n";
   if (t.track.wind) {
     out += "       wind " + fixed(t.track.wind->speed_mps, 1) + " m/s from " +
            fixed(t.track.wind->from_rad / units::deg, 0) + " deg: ";
@@ -174,8 +178,8 @@ std::string track_text(const Car& car, double rated_w, const Circuit& t, const T
   if (tc.shown) out += "       " + quality_line(tc.qualities[*tc.shown]) + "\n";
   std::vector<std::vector<std::string>> trows;
   for (const TrackConfigCheck& c : tc.configs)
-    trows.push_back(
-        {c.config, fixed(units::to_kph(c.top_speed_mps), 1), limit_text(c.top_speed_limit, car)});
+    trows.push_back({c.config, fixed(units::to_kph(c.top_speed_mps), 1),
+                     limit_text(c.top_speed_limit, car, c.top_speed_mps)});
   out += text_table({"config", "top speed km/h (this air, level)", "limit"}, trows);
   return out;
 }

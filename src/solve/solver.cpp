@@ -364,6 +364,15 @@ bool steady_halves(const Envelope& env, const Mesh& mesh, SteadyProfile& p, Seco
 
 // The steady limits of points lo to hi (not included), each half of the mesh from a fresh start
 // (no answer carried in from the point before lo). `Level`: as the Sweeper's (level_mesh).
+// Where a car cannot hold any speed: "on this grade" where the road has one, "even on the level"
+// where it is level (a bank or a head wind named where there is one).
+std::string road_words(const Road& road) {
+  if (road.sin_slope != 0.0) return "on this grade";
+  if (road.sin_bank != 0.0) return "on this bank";
+  if (road.head_wind_mps != 0.0) return "in this wind";
+  return "even on the level";
+}
+
 // `drops` is set where a point's limit is the engine's and below the limit at the point before
 // it (a steeper grade, a trim zone's end, a head wind): a car there may arrive faster than its
 // drive holds (LapSolver::speed_pass).
@@ -474,11 +483,11 @@ void steady_points_as(const Envelope& env, const Mesh& mesh, SteadyProfile& p, s
     if (!(p.speed_mps[i] > 0.0))
       throw CannotMove("the car cannot hold any speed at " + where(mesh, i) + " (" +
                        (p.limit[i] == SteadyLimit::engine
-                            ? "drive never exceeds the resistance on this grade"
+                            ? "drive never exceeds the resistance " + road_words(road)
                         : lift_limit(p.limit[i])
                             ? (p.limit[i] == SteadyLimit::front_lift ? "the front" : "the rear") +
-                                  std::string(" axle has no load on this grade")
-                            : "the tyres cannot hold the car on this grade") +
+                                  std::string(" axle has no load ") + road_words(road)
+                            : "the tyres cannot hold the car " + road_words(road)) +
                        ")");
   }
 }

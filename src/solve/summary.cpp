@@ -200,7 +200,9 @@ std::vector<RangeNote> range_notes(const Envelope& env) {
     case TopSpeedLimit::drag: {
       char buf[32];
       std::snprintf(buf, sizeof buf, "%.2f", env.table_margin());
-      why = std::string(buf) + " x the level-road top speed";
+      // The top speed found on a 0.5 m/s grid (the first grid speed the drive falls short
+      // at: Envelope): above the top speed itself, by up to a step.
+      why = std::string(buf) + " x the level-road top speed, taken up to a 0.5 m/s step";
       break;
     }
     case TopSpeedLimit::ceiling:

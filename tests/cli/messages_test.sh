@@ -81,6 +81,15 @@ sed 's/^  mu_long: 1.55$/  mu_long: 0.3/' $car > "$tmp/lowmu.yaml"
 printf 'format: 1\nname: "Wall"\nclosed: false\nmesh: 0.5 m\nsegments:\n  - straight: 10 m\n  - straight: {length: 100 m, grade: 50 %%}\n' > "$tmp/wall.yaml"
 expect 3 "lapwing: error: the car cannot complete the track: track Wall ($tmp/wall.yaml), config low: the car cannot hold any speed at 10 m (the tyres cannot hold the car on this grade)" \
   compare --car "$tmp/lowmu.yaml" --track $track --track "$tmp/wall.yaml" --config low
+# A car whose drive never exceeds its rolling resistance, on a level track: said so as level
+# (it read "on this grade" where there was none), and check names the rolling resistance as the
+# limit of its top speed of 0 km/h (it read "drag", which is nothing at standstill).
+sed 's/torque: \[330, 390, 420, 395, 350\]/torque: [1, 1, 1, 1, 1]/' $car > "$tmp/weak.yaml"
+grep -q "torque: \[1, 1, 1, 1, 1\]" "$tmp/weak.yaml" || bad "weak car not made"
+expect 3 "lapwing: error: the car cannot complete the track: the car cannot hold any speed at 0 m (drive never exceeds the resistance even on the level)" \
+  run --car "$tmp/weak.yaml" --track $track
+"$bin" check --car "$tmp/weak.yaml" | grep -q "top speed 0.0 km/h (rolling resistance: the drive never exceeds it, the car cannot move on the level)" &&
+  ok || bad "check: a car that cannot move named drag-limited"
 # trade says which of its laps failed: a config's own lap (every config's is needed), or one of
 # its perturbed laps, which run does not lap (a car at the edge of a climb with 2 % more mass).
 expect 3 "lapwing: error: the car cannot complete the track: track Wall ($tmp/wall.yaml), config low, its own lap, which the study needs for every config (the grids span their operating points): the car cannot hold any speed at 10 m (the tyres cannot hold the car on this grade)" \
