@@ -6,6 +6,8 @@
 #include <cmath>
 #include <stdexcept>
 #include <string>
+#include <utility>
+#include <vector>
 
 #include "lapwing/base/format.hpp"
 #include "lapwing/base/interpolate.hpp"
@@ -128,45 +130,66 @@ AeroPoint solve_ride_heights(const RideHeightMap& map, double v, double rho, dou
     // cells, residual 3.4e-5 m). So region by region: Newton on the region's own polynomial
     // (its bilinear weights run on past its edges), from its middle, a root kept where it lies
     // in the region. G is continuous, so a root of the map is a root of the region it lies in;
-    // of several (more than one operating point), the one nearest the guess.
-    const std::size_t nf = map.front_m.size(), nr = map.rear_m.size();
+    // of several (more than one operating point), the one nearest the guess among the regions
+    // near the guess and where the iteration stopped, else among all.
+    const long nf = static_cast<long>(map.front_m.size()),
+               nr = static_cast<long>(map.rear_m.size());
     const Eigen::Vector2d guess(guess_front, guess_rear);
     bool found = false;
     Eigen::Vector2d best(0.0, 0.0);
-    for (long a = -1; a + 1 <= static_cast<long>(nf); ++a)
-      for (long b = -1; b + 1 <= static_cast<long>(nr); ++b) {
-        const AxisRegion rf{map.front_m, a}, rr{map.rear_m, b};
-        const auto in_region = [&](const Eigen::Vector2d& x) {
-          const Bracket f = rf.at(x[0]), r = rr.at(x[1]);
-          const auto lin = [&](const MapGrid& m) {
-            const std::size_t i = f.i, j = r.i;
-            return lerp(lerp(m(i, j), m(i, j + 1), r.w), lerp(m(i + 1, j), m(i + 1, j + 1), r.w),
-                        f.w);
-          };
-          return MapCoefficients{lin(map.cda_m2), lin(map.cla_m2), lin(map.balance), false};
+    // Region (a, b)'s root, if it has one, into best where it is the nearest to the guess yet.
+    const auto try_region = [&](long a, long b) {
+      const AxisRegion rf{map.front_m, a}, rr{map.rear_m, b};
+      const auto in_region = [&](const Eigen::Vector2d& x) {
+        const Bracket f = rf.at(x[0]), r = rr.at(x[1]);
+        const auto lin = [&](const MapGrid& m) {
+          const std::size_t i = f.i, j = r.i;
+          return lerp(lerp(m(i, j), m(i, j + 1), r.w), lerp(m(i + 1, j), m(i + 1, j + 1), r.w),
+                      f.w);
         };
-        const auto g = [&](const Eigen::Vector2d& x) {
-          return ride_residual(map, q, z_drag, wheelbase, x, in_region);
-        };
-        // The step of the differences: within the region's width (some maps' axes are close).
-        double step = ride_fd_step_m;
-        if (a >= 0 && a + 1 < static_cast<long>(nf))
-          step = std::min(step, 1e-3 * (rf.hi() - rf.lo()));
-        if (b >= 0 && b + 1 < static_cast<long>(nr))
-          step = std::min(step, 1e-3 * (rr.hi() - rr.lo()));
-        // From the region's middle, then from its corners (Newton on the region's polynomial
-        // can run to a root of it beyond the region).
-        constexpr int starts[5][2] = {{0, 0}, {1, 1}, {1, 2}, {2, 1}, {2, 2}};
-        for (const auto& s : starts) {
-          Eigen::Vector2d x(rf.start(guess_front, s[0]), rr.start(guess_rear, s[1]));
-          if (!(ride_newton(g, x, step, 60) <= ride_tolerance_m) || !x.allFinite() ||
-              !rf.holds(x[0]) || !rr.holds(x[1]) || !(residual(x).norm() <= ride_tolerance_m))
-            continue;
-          if (!found || (x - guess).norm() < (best - guess).norm()) best = x;
-          found = true;
-          break;
-        }
+        return MapCoefficients{lin(map.cda_m2), lin(map.cla_m2), lin(map.balance), false};
+      };
+      const auto g = [&](const Eigen::Vector2d& x) {
+        return ride_residual(map, q, z_drag, wheelbase, x, in_region);
+      };
+      // The step of the differences: within the region's width (some maps' axes are close).
+      double step = ride_fd_step_m;
+      if (a >= 0 && a + 1 < nf) step = std::min(step, 1e-3 * (rf.hi() - rf.lo()));
+      if (b >= 0 && b + 1 < nr) step = std::min(step, 1e-3 * (rr.hi() - rr.lo()));
+      // From the region's middle, then from its corners (Newton on the region's polynomial
+      // can run to a root of it beyond the region).
+      constexpr int starts[5][2] = {{0, 0}, {1, 1}, {1, 2}, {2, 1}, {2, 2}};
+      for (const auto& s : starts) {
+        Eigen::Vector2d x(rf.start(guess_front, s[0]), rr.start(guess_rear, s[1]));
+        if (!(ride_newton(g, x, step, 60) <= ride_tolerance_m) || !x.allFinite() ||
+            !rf.holds(x[0]) || !rr.holds(x[1]) || !(residual(x).norm() <= ride_tolerance_m))
+          continue;
+        if (!found || (x - guess).norm() < (best - guess).norm()) best = x;
+        found = true;
+        return;
       }
+    };
+    // The region of x on an axis of n nodes (-1 below the first node, n - 1 from the last).
+    const auto region_of = [](const std::vector<double>& axis, double x) {
+      return static_cast<long>(std::upper_bound(axis.begin(), axis.end(), x) - axis.begin()) - 1;
+    };
+    // First the regions within two of the guess's and of where the Newton iteration stopped
+    // (the cycle is between neighbouring cells), then, where none holds a root, every region.
+    std::vector<std::pair<long, long>> near;
+    for (const Eigen::Vector2d& p : {guess, h}) {
+      if (!p.allFinite()) continue;
+      const long pa = region_of(map.front_m, p[0]), pb = region_of(map.rear_m, p[1]);
+      for (long a = std::max(-1L, pa - 2); a <= std::min(nf - 1, pa + 2); ++a)
+        for (long b = std::max(-1L, pb - 2); b <= std::min(nr - 1, pb + 2); ++b)
+          if (std::find(near.begin(), near.end(), std::pair{a, b}) == near.end())
+            near.emplace_back(a, b);
+    }
+    std::sort(near.begin(), near.end());
+    for (const auto& [a, b] : near) try_region(a, b);
+    if (!found)
+      for (long a = -1; a < nf; ++a)
+        for (long b = -1; b < nr; ++b)
+          if (!std::binary_search(near.begin(), near.end(), std::pair{a, b})) try_region(a, b);
     if (found) {
       h = best;
       left = residual(h).norm();
