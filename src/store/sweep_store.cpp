@@ -9,13 +9,16 @@
 #include <charconv>
 #include <cstring>
 #include <filesystem>
+#include <fstream>
 #include <optional>
 #include <set>
+#include <sstream>
 #include <string_view>
 #include <tuple>
 
 #include "lapwing/base/error.hpp"
 #include "lapwing/base/format.hpp"
+#include "lapwing/base/hash.hpp"
 #include "lapwing/base/text.hpp"
 #include "lapwing/io/csv_writer.hpp"
 #include "lapwing/io/input_file.hpp"
@@ -666,6 +669,21 @@ void export_csv(const std::string& file, const std::string& csv_file) {
   note_input(file);
   Connection c(file, false);
   study_id_of(c);
+  {
+    // The files the study was made from (its inputs), where they are still there with the same
+    // bytes: the export replaces none of them either (`--csv car.yaml` once wrote the table
+    // over the study's own car file).
+    Statement in(c, "SELECT file, fnv1a64 FROM inputs");
+    while (in.step()) {
+      const std::string input = in.text(0), hash = in.text(1);
+      std::error_code ec;
+      if (!std::filesystem::is_regular_file(input, ec)) continue;
+      std::ifstream is(input, std::ios::binary);
+      std::ostringstream bytes;
+      bytes << is.rdbuf();
+      if (hex64(fnv1a64(bytes.str())) == hash) note_input(input);
+    }
+  }
   Statement s(c,
               "SELECT laps.* FROM laps JOIN tracks USING (track) "
               "ORDER BY point, track_index, config");

@@ -107,6 +107,19 @@ for target in "$tmp/s1.sqlite" "$tmp/link.csv"; do
     bad "export over its own store ($target): $(cat "$tmp/err.txt")"
 done
 [ "$(sha256sum < "$tmp/s1.sqlite")" = "$before" ] && ok || bad "the store changed"
+# Nor over a file the study was made from, while it holds the bytes the store recorded (the
+# export does not read it: `--csv car.yaml` once wrote the table over the study's car file); a
+# file of that name with other bytes is the user's to replace.
+mkdir -p "$tmp/own" && cp "$car" "$tmp/own/car.yaml"
+"$bin" sweep --car "$tmp/own/car.yaml" --track tracks/skidpad.yaml --set mass=600kg,610kg \
+  --out "$tmp/own/s.sqlite" > /dev/null || bad "own study"
+mine=$(sha256sum < "$tmp/own/car.yaml")
+"$bin" sweep export "$tmp/own/s.sqlite" --csv "$tmp/own/car.yaml" 2> "$tmp/err.txt"
+[ $? = 2 ] && grep -qF "cannot write $tmp/own/car.yaml: it would replace $tmp/own/car.yaml" "$tmp/err.txt" &&
+  [ "$(sha256sum < "$tmp/own/car.yaml")" = "$mine" ] && ok || bad "export over the study's car: $(cat "$tmp/err.txt")"
+echo "# edited" >> "$tmp/own/car.yaml"
+export_csv "$tmp/own/s.sqlite" "$tmp/own/car.yaml" && head -n 1 "$tmp/own/car.yaml" | grep -q "^point,track," &&
+  ok || bad "export over an edited file of the study's car's name"
 # Nor may another study resume into a results store.
 "$bin" sweep --car "$car" --track tracks/skidpad.yaml --set mass=600kg,610kg --out "$tmp/t1.sqlite" \
   > /dev/null 2> "$tmp/err.txt"
