@@ -1998,14 +1998,23 @@ void LapSolver::speed_pass(const Envelope& env, const Mesh& mesh, double start_s
     });
   };
   start_limit_mps_ = steady.front();
-  // Where the sweeps start: a closed lap at its slowest steady point, where the speed is known
-  // (periodic), an open one at its first point at `start_speed`.
+  // Where the sweeps start: a closed lap at its slowest steady point that the tyres or an
+  // axle's lift set, where the car is on its limit however it comes (periodic; an engine's
+  // limit is no such point: the car may come to it faster, at a climb's foot or into a head
+  // wind), else at its slowest point of all; an open one at its first point at `start_speed`.
   std::size_t i0 = 0;
+  bool engine_only = false;  // a closed lap whose every point's limit is the engine's
   if (mesh.closed) {
     const std::size_t period = n - 1;
-    i0 = static_cast<std::size_t>(
-        std::min_element(steady.begin(), steady.begin() + static_cast<std::ptrdiff_t>(period)) -
-        steady.begin());
+    i0 = period;
+    for (std::size_t i = 0; i < period; ++i)
+      if (steady_.limit[i] != SteadyLimit::engine && (i0 == period || steady[i] < steady[i0]))
+        i0 = i;
+    engine_only = i0 == period;
+    if (engine_only)
+      i0 = static_cast<std::size_t>(
+          std::min_element(steady.begin(), steady.begin() + static_cast<std::ptrdiff_t>(period)) -
+          steady.begin());
   }
   // Both sweeps within `limit`, each point's speed held at or under it.
   auto sweeps = [&](const std::vector<double>& limit) {
@@ -2038,11 +2047,15 @@ void LapSolver::speed_pass(const Envelope& env, const Mesh& mesh, double start_s
   const bool flying = !mesh.closed && start_speed_mps > steady.front() * (1.0 + 1e-9) &&
                       steady_.limit.front() == SteadyLimit::engine;
   // Whether the forward sweep came to a point whose limit is the engine's faster than that
-  // limit (and was held down to it there): only where that limit drops.
+  // limit (and was held down to it there) where the backward sweep is on that limit too (so
+  // that the limit, not braking for a corner ahead, sets the lap's speed there: where the
+  // backward sweep is below it the forward sweep's speed changes nothing of the lap up to the
+  // corner, since braking slows the car faster than drive can): only where that limit drops.
   const auto arrived_above_engine = [&]() {
     for (std::size_t i = 1; i < n; ++i)
       if (steady_.limit[i] == SteadyLimit::engine &&
-          fwd.speed_mps[i - 1] > steady[i] * (1.0 + engine_above_tolerance))
+          fwd.speed_mps[i - 1] > steady[i] * (1.0 + engine_above_tolerance) &&
+          bwd.speed_mps[i] >= steady[i] * (1.0 - engine_above_tolerance))
         return true;
     return false;
   };
@@ -2060,10 +2073,19 @@ void LapSolver::speed_pass(const Envelope& env, const Mesh& mesh, double start_s
     // steady limit (the sweeps then hold the car to it from there, as on any straight; the
     // free sweep can come above it elsewhere only by a step's overshoot at a rev limit, where
     // the drive stops).
-    const SweepResult free =
-        again(limit, Sweep::forward, i0, mesh.closed ? steady[i0] : start_speed_mps);
+    SweepResult free = again(limit, Sweep::forward, i0, mesh.closed ? steady[i0] : start_speed_mps);
+    // A closed lap with no limit but the engine's starts where the car need not be on its limit
+    // (it may come to i0 from above): the free sweep again from the speed it came round at,
+    // until it comes round at the speed it started (the start's effect fades by exp(-3 k s /
+    // m) over a lap: two or three passes).
+    for (int pass = 0; engine_only && pass < 8; ++pass) {
+      const double start = free.speed_mps[i0];
+      free = again(limit, Sweep::forward, i0, start);
+      if (std::abs(free.speed_mps[i0] - start) <= engine_above_tolerance * start) break;
+    }
     const std::size_t period = mesh.closed ? n - 1 : n;
-    bool lifted = flying;
+    bool lifted =
+        flying || (engine_only && free.speed_mps[i0] > steady[i0] * (1.0 + engine_above_tolerance));
     if (!lifted) limit[i0] = steady[i0];
     for (std::size_t c = 1; c < period; ++c) {
       const std::size_t i = (i0 + c) % period, before = (i0 + c - 1) % period;
@@ -2072,6 +2094,9 @@ void LapSolver::speed_pass(const Envelope& env, const Mesh& mesh, double start_s
       lifted = above && (lifted || drop);
       if (!lifted) limit[i] = steady[i];
     }
+    // There the sweeps start at the speed the free sweep comes round at (no braking sets a speed
+    // on such a lap: the lap is the forward sweep's).
+    if (engine_only) limit[i0] = std::min(limit[i0], free.speed_mps[i0]);
     if (mesh.closed) limit[n - 1] = limit[0];  // the seam: point n-1 is point 0 again
     sweeps(limit);
   }
@@ -2101,9 +2126,9 @@ void LapSolver::speed_pass(const Envelope& env, const Mesh& mesh, double start_s
       lift |= lift_limit(steady_.limit[i]);
       const double v = std::min(fwd.speed_mps[i], bwd.speed_mps[i]);
       lap.speed_mps[i] = v;
-      const bool on_limit = on_limit_at(i, v);
-      lap.phase[i] = classify_phase(on_limit, bwd.speed_mps[i] < fwd.speed_mps[i], steady_.limit[i],
-                                    fwd.cut[i]);
+      const bool braking = bwd.speed_mps[i] < fwd.speed_mps[i];
+      lap.phase[i] = classify_phase(on_limit_for_phase(v, steady[i], braking, fwd.speed_mps[i]),
+                                    braking, steady_.limit[i], fwd.cut[i]);
       if (i + 1 < n) {
         const double vsum = v + std::min(fwd.speed_mps[i + 1], bwd.speed_mps[i + 1]);
         if (!(vsum > 0.0)) throw CannotMove("the car does not move at " + where(mesh, i));

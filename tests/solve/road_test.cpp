@@ -212,6 +212,49 @@ TEST_CASE("above its top speed at a trim zone's end or a downhill's foot the car
   }
 }
 
+TEST_CASE("a closed lap the engine limits everywhere: no braking at a climb's foot, any start") {
+  // A loop of fast arcs (radius 800 m: the tyres never bind) with a 15 % climb and a 15 %
+  // descent (a second reader's case): at the climb's foot the car comes to the engine's limit
+  // on the climb faster than it, and slows at full drive. The lap once started at its slowest
+  // steady point, on the climb, as if the car were on its limit there, and braked at 4 to 5 g
+  // before it; and the lap time depended on where the loop starts. Both starts of the same loop
+  // (the segments rotated: the line halfway up the climb) lap alike to the mesh's resolution
+  // (the start moves the points by up to a step: 1e-5), with no braking anywhere.
+  Car car = test::plain_car(700.0, 1.5, 300e3);
+  car.configs.front().cda_m2 = {1.0};
+  const double quarter = units::pi / 2.0;
+  Track loop;
+  loop.name = "climb loop";
+  loop.file = "loop.yaml";
+  loop.closed = true;
+  loop.mesh_m = 0.5;
+  loop.sectors_m = {0.0};
+  loop.segments = {test::straight(1000.0, 0.0),  test::arc(800.0, quarter, true),
+                   test::straight(400.0, 0.15),  test::arc(800.0, quarter, true),
+                   test::straight(1000.0, 0.0),  test::arc(800.0, quarter, true),
+                   test::straight(400.0, -0.15), test::arc(800.0, quarter, true)};
+  Track mid = loop;
+  mid.segments = {test::straight(200.0, 0.15),  test::arc(800.0, quarter, true),
+                  test::straight(1000.0, 0.0),  test::arc(800.0, quarter, true),
+                  test::straight(400.0, -0.15), test::arc(800.0, quarter, true),
+                  test::straight(1000.0, 0.0),  test::arc(800.0, quarter, true),
+                  test::straight(200.0, 0.15)};
+  double laps[2] = {0.0, 0.0};
+  int k = 0;
+  for (const Track* t : {&loop, &mid}) {
+    for (const VehicleModel model : {VehicleModel::point_mass, VehicleModel::axle}) {
+      car.model = model;
+      INFO((t == &loop ? "from the level straight" : "from halfway up the climb")
+           << ", model " << static_cast<int>(model));
+      const LapRun r = run_lap(test::configured(car), lay_out(*t, sea_level));
+      CHECK(std::find(r.lap.phase.begin(), r.lap.phase.end(), Phase::brake) == r.lap.phase.end());
+      CHECK(std::find(r.lap.phase.begin(), r.lap.phase.end(), Phase::corner) == r.lap.phase.end());
+      if (model == VehicleModel::axle) laps[k++] = r.lap.lap_time_s;
+    }
+  }
+  CHECK(near(laps[0], laps[1], 1e-5));
+}
+
 TEST_CASE("off camber past -atan(1/mu): the banked circle's speed, not the top of the tables") {
   // REFERENCES, banked road, with the downforce q ClA added to the normal load (no drag, so no
   // longitudinal force): m (v^2 k cos b - g sin b) = mu (m g cos b + m v^2 k sin b + c v^2),

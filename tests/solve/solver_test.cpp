@@ -294,6 +294,17 @@ TEST_CASE("the phase tests: a shift is under drive but not full drive; the trim 
   CHECK(classify_phase(true, false, SteadyLimit::engine, false) == Phase::top_speed);
   CHECK(classify_phase(false, false, SteadyLimit::grip, true) == Phase::shift);
   CHECK(classify_phase(false, false, SteadyLimit::engine, false) == Phase::accelerate);
+  // On the limit for the phases: within 0.05 % of it whichever sweep sets the speed where both
+  // follow it; above it at full drive (slowing towards the engine's limit); but braking from a
+  // speed above the limit down through it is braking (a second reader's case: one point of a
+  // 5 g stop read `top_speed` and its channels took the trim open, usage 1.2 and a warning).
+  CHECK(on_limit_for_phase(99.96, 100.0, false, 99.96));
+  CHECK_FALSE(on_limit_for_phase(99.94, 100.0, false, 99.94));
+  CHECK(on_limit_for_phase(102.0, 100.0, false, 102.0));
+  CHECK(on_limit_for_phase(99.99, 100.0, true, 100.0));  // the first point braking from the limit
+  CHECK(on_limit_for_phase(100.02, 100.0, true, 100.04));
+  CHECK_FALSE(on_limit_for_phase(100.0, 100.0, true, 102.0));
+  CHECK_FALSE(on_limit_for_phase(101.0, 100.0, true, 102.0));
   // On a lap with a trimmed config: the trace's trim is on only under drive and on straight
   // enough points, and the shifts on the straights keep it.
   const Car file = load_car(test::source_path("cars/pellion-fr2.yaml"));
@@ -1162,7 +1173,7 @@ std::size_t check_skipped_lap(const Envelope& env, const Mesh& mesh) {
     worst = std::max(worst, std::abs(lap.speed_mps[i] - v) / v);
     above += b > f;
     if (std::abs(b - f) > 1e-9 * v) {
-      const bool on_limit = v >= steady.speed_mps[i] * (1.0 - phase_on_limit);
+      const bool on_limit = on_limit_for_phase(v, steady.speed_mps[i], b < f, f);
       phases +=
           lap.phase[i] == classify_phase(on_limit, b < f, steady.limit[i], forward.cut[i] != 0);
     } else {

@@ -34,6 +34,18 @@ constexpr bool lift_limit(SteadyLimit l) {
 /// (a circle lapped at 116.18 km/h read 66 % full throttle with a 1e-6 ripple, 0 % without).
 inline constexpr double phase_on_limit = 5e-4;
 
+/// Whether a point's speed v counts as on its steady limit for the phases (classify_phase):
+/// within phase_on_limit of it or above it, where the forward sweep sets the speed (above: a
+/// car slowing at full drive towards the engine's limit from above, README, "Physics and
+/// assumptions"); where the backward sweep sets it (`braking`), only where the forward sweep's
+/// speed there (`forward`) is within phase_on_limit of the limit too (both sweeps following a
+/// limit that ripples), not where the car brakes from a speed above it (a downhill's, down
+/// through the engine's limit of the level road after it).
+constexpr bool on_limit_for_phase(double v, double steady, bool braking, double forward) {
+  return v >= steady * (1.0 - phase_on_limit) &&
+         (!braking || forward <= steady * (1.0 + phase_on_limit));
+}
+
 /// The phase at a point, the one classification: on the steady limit (`on_limit`: within
 /// phase_on_limit of it), `corner` when the tyres set that limit and `top_speed` when the engine
 /// or an axle's lift does (the most the car can hold on that road under drive); else `brake` where
