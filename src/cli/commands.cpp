@@ -1154,16 +1154,14 @@ int fit(const FitOptions& o, Inputs& in) {
   if (o.tracks.size() != o.logs.size())
     throw UsageError{"give one --log per --track, in pairs (" + std::to_string(o.tracks.size()) +
                      " --track, " + std::to_string(o.logs.size()) + " --log)"};
-  // The same lap twice would count its points twice (standard errors sqrt 2 too small).
-  const auto same_file = [](const std::string& a, const std::string& b) {
-    std::error_code ea, eb;
-    const auto ca = std::filesystem::weakly_canonical(a, ea);
-    const auto cb = std::filesystem::weakly_canonical(b, eb);
-    return a == b || (!ea && !eb && ca == cb);
+  // The same lap twice would count its points twice (standard errors sqrt 2 too small): one
+  // file however it is named (a symlink, another spelling, a hard link: input_file.hpp).
+  const auto one_file = [](const std::string& a, const std::string& b) {
+    return a == b || same_file(a, b);
   };
   for (std::size_t i = 0; i < o.logs.size(); ++i)
     for (std::size_t j = 0; j < i; ++j)
-      if (same_file(o.logs[i], o.logs[j]) && same_file(o.tracks[i], o.tracks[j]))
+      if (one_file(o.logs[i], o.logs[j]) && one_file(o.tracks[i], o.tracks[j]))
         throw UsageError{"--log " + o.logs[i] + " on --track " + o.tracks[i] +
                          " is given twice (pairs " + std::to_string(j + 1) + " and " +
                          std::to_string(i + 1) +

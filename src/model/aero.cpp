@@ -220,7 +220,6 @@ PartsReduction reduce_parts(const std::vector<AeroPart>& parts, double v, double
 namespace {
 
 // The ranges of a config's coefficients (README, "Car").
-constexpr Range cda_range{0.0, 20.0}, cla_range{0.0, 30.0}, balance_range{0.0, 1.0};
 // A speed table's rows: from standstill to 250 m/s (900 km/h), the top of a lap's tables
 // (EnvelopeOptions::speed_ceiling_mps): no lap reads a row beyond it.
 constexpr Range table_speed_range{0.0, 250.0};

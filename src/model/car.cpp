@@ -12,9 +12,6 @@ namespace lapwing {
 namespace {
 
 // The ranges of the car-level values (README, "Car"), which a config may override.
-// At least 1 kg: no car is lighter (a unit slip), and a subnormal mass made 1 / m infinite (a
-// trade's non-finite output: a robustness campaign's finding).
-constexpr Range mass_range{1.0, 1e5, false, false};
 // The drag force's line of action: at most as high as the aero force points may be (3 m, the
 // aero points' z); a height typed in mm as m (420) is refused, not a car that tips.
 constexpr Range drag_height_range{0.0, 3.0};

@@ -3,11 +3,9 @@
 namespace lapwing {
 
 std::optional<Violation> Tyres::validate() const {
-  // Peak friction up to 3: beyond any tyre on a dry road (common practice).
-  constexpr Range friction{0.0, 3.0, true, false};
   return FirstViolation()
-      .range("mu_long", mu_long, friction, Quantity::number)
-      .range("mu_lat", mu_lat, friction, Quantity::number)
+      .range("mu_long", mu_long, friction_range, Quantity::number)
+      .range("mu_lat", mu_lat, friction_range, Quantity::number)
       // At least 1 N: a kart's tyre is nominally loaded some 400 N; below 1 N is no car's (a
       // unit slip), and a subnormal load made the load sensitivity per newton infinite (a
       // robustness campaign's finding: an internal error from the lateral table's search).

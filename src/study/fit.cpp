@@ -2,7 +2,10 @@
 // fit_solve.cpp (Ceres Solver).
 #include "lapwing/study/fit.hpp"
 
+#include <algorithm>
 #include <cassert>
+#include <limits>
+#include <utility>
 
 #include "lapwing/base/error.hpp"
 #include "lapwing/study/trade.hpp"
@@ -89,6 +92,47 @@ ConfiguredCar fitted_car(const ConfiguredCar& car, const std::vector<FitParamete
     }
   }
   return c;
+}
+
+FitBounds fit_bounds(const ConfiguredCar& car, FitParameter p) {
+  const Car& c = car.car();
+  const AeroConfig& a = car.aero();
+  constexpr double inf = std::numeric_limits<double>::infinity();
+  constexpr double least_factor = 0.01;  // grip and power: above 1 % of the car's own
+  // The largest and least of a coefficient over the config's rows and map cells.
+  const auto extremes = [&](const std::vector<double>& rows, const MapGrid* grid) {
+    std::vector<double> all = rows;
+    if (grid) all.insert(all.end(), grid->values().begin(), grid->values().end());
+    if (all.empty()) return std::pair{0.0, 0.0};
+    const auto [lo, hi] = std::minmax_element(all.begin(), all.end());
+    return std::pair{*lo, *hi};
+  };
+  const auto up_to = [&](double limit, double largest) {
+    return largest > 0.0 ? limit / largest : inf;
+  };
+  switch (p) {
+    case FitParameter::grip:
+      return {least_factor, friction_range.hi / std::max(c.tyres.mu_lat, c.tyres.mu_long)};
+    case FitParameter::grip_lat:
+      return {least_factor, friction_range.hi / c.tyres.mu_lat};
+    case FitParameter::grip_long:
+      return {least_factor, friction_range.hi / c.tyres.mu_long};
+    case FitParameter::power:
+      return {least_factor, inf};
+    case FitParameter::cda:
+      return {0.0,
+              up_to(cda_range.hi, extremes(a.cda_m2, a.map ? &a.map->cda_m2 : nullptr).second)};
+    case FitParameter::cla:
+      return {0.0,
+              up_to(cla_range.hi, extremes(a.cla_m2, a.map ? &a.map->cla_m2 : nullptr).second)};
+    case FitParameter::mass:
+      return {mass_range.lo / c.mass_kg, mass_range.hi / c.mass_kg};
+    case FitParameter::balance: {
+      const auto [lo, hi] = extremes(a.balance, a.map ? &a.map->balance : nullptr);
+      return {balance_range.lo - lo, balance_range.hi - hi};
+    }
+  }
+  return {-inf, inf};
 }
 
 std::optional<Violation> FitOptions::validate() const {

@@ -5,6 +5,7 @@
 #include <ceres/ceres.h>
 #include <ceres/covariance.h>
 #include <glog/logging.h>
+#include <Eigen/Dense>
 
 #include <algorithm>
 #include <cassert>
@@ -42,8 +43,14 @@ struct LogPoints {
 class Residuals {
  public:
   Residuals(const ConfiguredCar& car, const std::vector<FitParameter>& params,
-            std::vector<LogPoints> points, double step, unsigned threads)
-      : car_(car), params_(params), points_(std::move(points)), step_(step), threads_(threads) {
+            std::vector<LogPoints> points, double step, unsigned threads,
+            std::vector<FitBounds> bounds = {})
+      : car_(car),
+        params_(params),
+        points_(std::move(points)),
+        step_(step),
+        threads_(threads),
+        bounds_(std::move(bounds)) {
     for (const auto& p : points_) count_ += p.at.size();
   }
   std::size_t count() const { return count_; }
@@ -106,16 +113,25 @@ class Residuals {
     return std::all_of(ok.begin(), ok.end(), [](std::uint8_t b) { return b != 0; });
   }
 
-  // dr/dx_j = (r(x + h e_j) - r(x - h e_j)) / 2h, h = step max(1, |x_j|).
+  // dr/dx_j = (r(x + h e_j) - r(x - h e_j)) / 2h, h = step max(1, |x_j|); one-sided, from x,
+  // where a side would leave the parameter's bounds (a fit at a bound: the car past it may not
+  // lap, a negative area).
   bool jacobian_at(const std::vector<double>& x, Eval& e) {
     const std::size_t np = params_.size();
     std::vector<std::vector<double>> xs;
-    std::vector<double> h(np);
+    std::vector<double> width(np);
     for (std::size_t j = 0; j < np; ++j) {
-      h[j] = step_ * std::max(1.0, std::abs(x[j]));
-      for (const double sign : {1.0, -1.0}) {
+      const double h = step_ * std::max(1.0, std::abs(x[j]));
+      double up = x[j] + h, down = x[j] - h;
+      if (j < bounds_.size()) {
+        if (up > bounds_[j].hi) up = x[j];
+        if (down < bounds_[j].lo) down = x[j];
+      }
+      if (up == down) up = x[j] + h;  // a range narrower than the step: as before
+      width[j] = up - down;
+      for (const double v : {up, down}) {
         xs.push_back(x);
-        xs.back()[j] += sign * h[j];
+        xs.back()[j] = v;
       }
     }
     std::vector<std::vector<double>> rs;
@@ -123,7 +139,7 @@ class Residuals {
     e.J.assign(count_ * np, 0.0);
     for (std::size_t j = 0; j < np; ++j)
       for (std::size_t k = 0; k < count_; ++k)
-        e.J[k * np + j] = (rs[2 * j][k] - rs[2 * j + 1][k]) / (2.0 * h[j]);
+        e.J[k * np + j] = (rs[2 * j][k] - rs[2 * j + 1][k]) / width[j];
     return true;
   }
 
@@ -132,6 +148,7 @@ class Residuals {
   std::vector<LogPoints> points_;
   double step_;
   unsigned threads_;
+  std::vector<FitBounds> bounds_;  // per parameter (none: central differences everywhere)
   std::size_t count_ = 0;
   int laps_ = 0;
   std::map<std::vector<double>, Eval> cache_;
@@ -252,6 +269,11 @@ FitResult fit(const ConfiguredCar& car, const std::vector<FitLog>& logs,
   };
   std::vector<double> x(np);
   for (std::size_t j = 0; j < np; ++j) x[j] = start_value(params[j]);
+  // Each parameter within the range that keeps the fitted car one the car file allows (a
+  // factor on a CdA or a ClA once went below 0: a campaign's log of a car with twice the
+  // torque, fitted by its drag alone, read CdA x-0.31).
+  std::vector<FitBounds> bounds;
+  for (const FitParameter p : params) bounds.push_back(fit_bounds(car, p));
   std::vector<Alignment> al = aligned(car, nullptr);  // checked: the car the user gave
   std::unique_ptr<Residuals> all;
   std::unique_ptr<ceres::Problem> problem;
@@ -266,8 +288,8 @@ FitResult fit(const ConfiguredCar& car, const std::vector<FitLog>& logs,
     std::vector<LogPoints> points = points_at(al);
     first.assign(1, 0);
     for (const auto& p : points) first.push_back(first.back() + p.at.size());
-    all =
-        std::make_unique<Residuals>(car, params, std::move(points), options.step, options.threads);
+    all = std::make_unique<Residuals>(car, params, std::move(points), options.step, options.threads,
+                                      bounds);
     n = all->count();
     if (n <= np)
       throw InvalidInput("fit",
@@ -289,6 +311,11 @@ FitResult fit(const ConfiguredCar& car, const std::vector<FitLog>& logs,
     for (std::size_t k = 0; k < n; ++k)
       problem->AddResidualBlock(new PointCost(*all, k, static_cast<int>(np)),
                                 new ceres::HuberLoss(options.huber_kph), x.data());
+    for (std::size_t j = 0; j < np; ++j) {
+      const int at = static_cast<int>(j);
+      if (std::isfinite(bounds[j].lo)) problem->SetParameterLowerBound(x.data(), at, bounds[j].lo);
+      if (std::isfinite(bounds[j].hi)) problem->SetParameterUpperBound(x.data(), at, bounds[j].hi);
+    }
     ceres::Solver::Options so;
     so.linear_solver_type = ceres::DENSE_QR;
     so.minimizer_type = ceres::TRUST_REGION;
@@ -305,6 +332,7 @@ FitResult fit(const ConfiguredCar& car, const std::vector<FitLog>& logs,
     out.iterations += static_cast<int>(summary.iterations.size());
     out.laps_solved += all->laps();
     out.termination = summary.message;
+    out.iteration_cap = summary.termination_type == ceres::NO_CONVERGENCE;
     const std::vector<Alignment> next = aligned(fitted_car(car, params, x), &al);
     moved_m = moved_scale = 0.0;
     for (std::size_t k = 0; k < al.size(); ++k) {
@@ -370,6 +398,27 @@ FitResult fit(const ConfiguredCar& car, const std::vector<FitLog>& logs,
         "less than in the RMS; the logs hold such points (correlate's largest errors show them), "
         "and the factors follow the rest of the lap");
 
+  if (out.iteration_cap)
+    out.warnings.push_back(
+        "the fit's last round stopped at its limit of " + std::to_string(options.max_iterations) +
+        " iterations, short of its tolerances: the factors had not settled (they are where the "
+        "fit had moved them); free fewer factors, or start from a car nearer the logged one");
+  // A factor at its bound: the logs ask for more than it can give within the car file's rules.
+  for (std::size_t j = 0; j < np; ++j) {
+    const FitBounds& b = bounds[j];
+    const double slack = 1e-9 * std::max(1.0, std::abs(x[j]));
+    const bool low = x[j] <= b.lo + slack, high = x[j] >= b.hi - slack;
+    if (!low && !high) continue;
+    const bool shift = params[j] == FitParameter::balance;
+    out.warnings.push_back(
+        std::string(fit_parameter_name(params[j])) + " ended at its " +
+        (low ? "least" : "largest") + " value within the car file's rules (" +
+        (shift ? "a shift of " : "x") + fixed(x[j], 4) +
+        "): the logs ask for more than it can give; another factor is likely off (free it, "
+        "or check the car: its power, mass, grip), or the logs are of another car or config; "
+        "its standard error does not hold at a bound");
+  }
+
   // Covariance of the parameters: Ceres gives (J^T J)^-1 for unit-variance residuals; scaled by
   // the residuals' variance, s^2 = 2 cost / (N - P) (cost = 1/2 sum rho(r^2), the robust one).
   const double nan = std::numeric_limits<double>::quiet_NaN();
@@ -410,6 +459,41 @@ FitResult fit(const ConfiguredCar& car, const std::vector<FitLog>& logs,
       if (!out.covariance_found || std::abs(rho) > options.separable_limit)
         out.inseparable.push_back({i, j, rho, separation_advice(params[i], params[j])});
     }
+  // Three or more factors can be inseparable together where no pair is (a campaign's seven
+  // factors fitted to a log of a car with twice the drag: power, CdA, ClA and mass moved along
+  // one valley, each pair's |correlation| under the limit, their standard errors a hundredth
+  // of their errors): each factor's multiple correlation with all the others, R^2 = 1 - 1 /
+  // (C^-1)_jj for the correlation matrix C (the variance inflation factor's; Belsley, Kuh &
+  // Welsch, Regression Diagnostics, 1980), beyond the same limit.
+  if (out.covariance_found && np >= 3) {
+    Eigen::MatrixXd corr(np, np);
+    for (std::size_t i = 0; i < np; ++i)
+      for (std::size_t j = 0; j < np; ++j)
+        corr(static_cast<Eigen::Index>(i), static_cast<Eigen::Index>(j)) = out.correlation[i][j];
+    const Eigen::FullPivLU<Eigen::MatrixXd> lu(corr);
+    const Eigen::MatrixXd inv = lu.inverse();
+    std::string together;
+    double worst = 0.0;
+    for (std::size_t j = 0; j < np; ++j) {
+      const double d = inv(static_cast<Eigen::Index>(j), static_cast<Eigen::Index>(j));
+      const double r = d >= 1.0 ? std::sqrt(1.0 - 1.0 / d) : 0.0;
+      if (!(r > options.separable_limit) && std::isfinite(d)) continue;
+      bool paired = false;
+      for (const auto& pair : out.inseparable) paired = paired || pair.a == j || pair.b == j;
+      if (paired) continue;
+      together +=
+          std::string(together.empty() ? "" : ", ") + std::string(fit_parameter_name(params[j]));
+      worst = std::max(worst, std::isfinite(d) ? r : 1.0);
+    }
+    if (!together.empty())
+      out.warnings.push_back(
+          together + (together.find(',') == std::string::npos ? " is" : " are each") +
+          " nearly a combination of the other factors (multiple correlation up to " +
+          fixed(worst, 3) + ", beyond " + fixed(options.separable_limit, 2) +
+          ", though no pair with them is): these logs cannot tell them apart together, and their "
+          "standard errors understate how far off they can be; fix some of them (the car "
+          "weighed, its power measured) or add logs that weigh them differently");
+  }
   return out;
 }
 

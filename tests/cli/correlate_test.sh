@@ -187,6 +187,10 @@ usage "one of --distance COL and --time COL" correlate "${common[@]}" --log "$lo
 # also by another path to the same file.
 usage "is given twice (pairs 1 and 2)" fit "${common[@]}" --track "$track" --log "$log" \
   --log "./$log" --time time_s --free grip
+# A hard link is the same file too (it was taken as a second lap: a campaign's finding).
+cp "$log" "$tmp/lap.csv" && ln "$tmp/lap.csv" "$tmp/hard-link.csv" || bad "hard link not made"
+usage "is given twice (pairs 1 and 2)" fit "${common[@]}" --track "$track" --log "$tmp/lap.csv" \
+  --log "$tmp/hard-link.csv" --time time_s --free grip
 # An option's rule is the option's error, not the log file's (nor "fit: error").
 usage "lapwing: error: --speed-unit: unknown speed unit 'knots'" correlate "${common[@]}" \
   --log "$log" --time time_s --speed-unit knots

@@ -263,6 +263,78 @@ TEST_CASE("a freed factor with no effect on the lap has no standard error, not a
   REQUIRE(r.inseparable.size() == 1);  // the one pair, flagged
 }
 
+TEST_CASE("fit keeps each factor within the car file's rules, and says when it ends at one") {
+  // The bounds: the rules of README, "Car" over the config's own values (the bundled formula
+  // car, config medium: mu_lat 1.75, mu_long 1.65, CdA 1.2, ClA 3.6, balance 0.42, 640 kg).
+  const ConfiguredCar car = test::pellion_medium();
+  const Car& k = car.car();
+  const AeroConfig& a = car.aero();
+  CHECK(fit_bounds(car, FitParameter::grip).hi == 3.0 / std::max(k.tyres.mu_lat, k.tyres.mu_long));
+  CHECK(fit_bounds(car, FitParameter::grip_long).hi == 3.0 / k.tyres.mu_long);
+  CHECK(fit_bounds(car, FitParameter::cda).lo == 0.0);
+  CHECK(fit_bounds(car, FitParameter::cda).hi == 20.0 / a.cda_m2.front());
+  CHECK(fit_bounds(car, FitParameter::cla).hi == 30.0 / a.cla_m2.front());
+  CHECK(fit_bounds(car, FitParameter::mass).lo == 1.0 / k.mass_kg);
+  CHECK(fit_bounds(car, FitParameter::balance).lo == -a.balance.front());
+  CHECK(fit_bounds(car, FitParameter::balance).hi == 1.0 - a.balance.front());
+  // A log of the car with twice its torque fitted by its drag area alone: only less drag than
+  // none would match it. The fit once read CdA x-0.31 (a campaign's finding), a car no file
+  // may hold; now it stops at 0 and says so.
+  const Circuit c = circuit("tracks/brannock-park.yaml", 2.0);
+  const SpeedLogFile log = written_log(true_car(1.0, 2.0, 1.0), c, "fit_bound.csv");
+  const FitResult r = fit(car, {{&c, &log.speed}}, {FitParameter::cda});
+  REQUIRE(r.values.size() == 1);
+  CHECK(r.values[0] >= 0.0);
+  CHECK(r.values[0] <= 1e-9);
+  bool said = false;
+  for (const std::string& w : r.warnings)
+    said = said || w.find("cda ended at its least value within the car file's rules") == 0;
+  CHECK(said);
+}
+
+TEST_CASE("a fit that stops at its iteration limit, or whose factors are a group, says so") {
+  const Circuit c = circuit("tracks/brannock-park.yaml", 2.0);
+  const auto warned = [](const FitResult& r, const std::string& words) {
+    bool said = false;
+    for (const std::string& w : r.warnings) said = said || w.find(words) != std::string::npos;
+    return said;
+  };
+  // One iteration a round, one round: the fit is stopped short of its tolerances (a campaign's
+  // seven-factor fit ran out of its 30 iterations and said nothing of it).
+  const SpeedLogFile grippy = written_log(true_car(1.1, 1.0, 1.0), c, "fit_cap.csv");
+  FitOptions one;
+  one.max_iterations = 1;
+  one.alignment_rounds = 1;
+  const FitResult capped = fit(test::pellion_medium(), {{&c, &grippy.speed}},
+                               {FitParameter::grip, FitParameter::power}, one);
+  CHECK(capped.iteration_cap);
+  CHECK(warned(capped, "stopped at its limit of 1 iterations"));
+  const FitResult full =
+      fit(test::pellion_medium(), {{&c, &grippy.speed}}, {FitParameter::grip, FitParameter::power});
+  CHECK_FALSE(full.iteration_cap);
+  CHECK_FALSE(warned(full, "iterations"));
+  // Seven factors on one log of the car with twice its drag area: grip, power, drag, downforce
+  // and mass move together, though no pair's |correlation| passes 0.9 on this circuit (the
+  // balance is told apart: Brannock Park's fast corners against its slow ones): each factor's
+  // multiple correlation with the rest is checked too, and each of the six is named (or in a
+  // flagged pair), where the pairs alone said nothing.
+  const SpeedLogFile draggy = written_log(true_car(1.0, 1.0, 2.0), c, "fit_group.csv");
+  const std::vector<FitParameter> seven{
+      FitParameter::grip_lat, FitParameter::grip_long, FitParameter::power,  FitParameter::cda,
+      FitParameter::cla,      FitParameter::mass,      FitParameter::balance};
+  const FitResult group = fit(test::pellion_medium(), {{&c, &draggy.speed}}, seven);
+  std::string named;
+  for (const std::string& w : group.warnings)
+    if (w.find("nearly a combination of the other factors") != std::string::npos) named = w;
+  CHECK_FALSE(named.empty());
+  for (std::size_t j = 0; j + 1 < seven.size(); ++j) {  // all but the balance
+    bool paired = false;
+    for (const auto& p : group.inseparable) paired = paired || p.a == j || p.b == j;
+    CAPTURE(fit_parameter_name(seven[j]));
+    CHECK((paired || named.find(fit_parameter_name(seven[j])) != std::string::npos));
+  }
+}
+
 TEST_CASE("grip with grip_lat and grip_long is refused: three factors that are two") {
   // mu_lat = grip x grip_lat and mu_long = grip x grip_long (README, "Correlating with your
   // data"): any grip is undone by the other two, so no log separates them. The fit once

@@ -14,6 +14,10 @@
 
 namespace lapwing {
 
+/// A config's coefficients: drag and downforce areas (m2) and the front share of downforce
+/// (README, "Car").
+inline constexpr Range cda_range{0.0, 20.0}, cla_range{0.0, 30.0}, balance_range{0.0, 1.0};
+
 /// Values over a grid of front x rear ride height: rows() front heights x cols() rear ones,
 /// read (front, rear). A plain grid (no linear algebra is done on it), so that the headers that
 /// carry a car need no matrix library.

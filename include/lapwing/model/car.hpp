@@ -16,6 +16,10 @@
 
 namespace lapwing {
 
+/// A car's mass (kg): at least 1 kg, no car is lighter (a unit slip), and a subnormal mass made
+/// 1 / m infinite (a trade's non-finite output: a robustness campaign's finding); at most 100 t.
+inline constexpr Range mass_range{1.0, 1e5, false, false};
+
 /// Where the limits come from: the whole car's tyres as one (point mass), or the axle that
 /// saturates first, with drive limited to what the driven axle's load can transmit (the
 /// default: README, "Physics and assumptions").

@@ -13,6 +13,10 @@
 
 namespace lapwing {
 
+/// A tyre's peak friction, mu_lat and mu_long: up to 3, beyond any tyre on a dry road (common
+/// practice).
+inline constexpr Range friction_range{0.0, 3.0, true, false};
+
 /// A tyre set as the car file describes it (per tyre; all four alike).
 struct Tyres {
   double mu_long;           // peak longitudinal friction coefficient at nominal load

@@ -41,6 +41,17 @@ std::string fit_parameter_names();
 ConfiguredCar fitted_car(const ConfiguredCar& car, const std::vector<FitParameter>& params,
                          const std::vector<double>& values);
 
+/// The range a parameter may take in a fit: where the fitted car stays one the car file's rules
+/// allow (README, "Car"): mu at most 3 (friction_range) and above 1 % of its own; CdA and ClA
+/// at least 0 and at most 20 and 30 m2 (cda_range, cla_range) at every row or cell of the
+/// config; the mass 1 kg to 100 t (mass_range); the balance within [0, 1] at every row or cell;
+/// the power above 1 % of its own (no rule above). A fit ending at a bound is warned of
+/// (FitResult::warnings): the logs ask for more than the factor can give there.
+struct FitBounds {
+  double lo, hi;
+};
+FitBounds fit_bounds(const ConfiguredCar& car, FitParameter p);
+
 /// One logged lap of one circuit.
 struct FitLog {
   const Circuit* circuit;
@@ -77,8 +88,8 @@ struct FitResult {
   std::vector<double> values;      // factors (balance: the shift added)
   std::vector<double> std_errors;  // from the covariance at the optimum; NaN when not found
   std::vector<std::vector<double>> correlation;  // params x params; NaN when not found
-  bool covariance_found = false;            // false: the Jacobian is rank-deficient (not separable)
-  std::vector<Alignment> alignments;        // per log, with the starting car
+  bool covariance_found = false;      // false: the Jacobian is rank-deficient (not separable)
+  std::vector<Alignment> alignments;  // per log, with the starting car
   /// Per log, found with the fitted car after the last round (RMS after uses them); their
   /// `correlation` is the check correlate makes (alignment_warnings).
   std::vector<Alignment> final_alignments;
@@ -88,7 +99,8 @@ struct FitResult {
   double rms_before_mps_all = 0.0, rms_after_mps_all = 0.0;  // over every log's points
   int iterations = 0;
   int laps_solved = 0;
-  std::string termination;  // Ceres' reason in words
+  std::string termination;     // Ceres' reason in words
+  bool iteration_cap = false;  // the last round stopped at options.max_iterations
   /// Pairs not separable by these logs: |correlation| > separable_limit, or every pair when the
   /// covariance could not be found.
   struct Pair {
