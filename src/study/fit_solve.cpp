@@ -449,7 +449,10 @@ FitResult fit(const ConfiguredCar& car, const std::vector<FitLog>& logs,
       for (std::size_t i = 0; i < np; ++i)
         for (std::size_t j = 0; j < np; ++j) {
           const double d = std::sqrt(c[i * np + i] * c[j * np + j]);
-          out.correlation[i][j] = i == j ? 1.0 : d > 0 ? c[i * np + j] / d : 0.0;
+          // The covariance's two halves averaged: Ceres's differ in the last bits, and a
+          // correlation matrix is symmetric (fit.json's differed in its last digit).
+          const double cij = 0.5 * (c[i * np + j] + c[j * np + i]);
+          out.correlation[i][j] = i == j ? 1.0 : d > 0 ? cij / d : 0.0;
         }
     }
   }

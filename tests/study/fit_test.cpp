@@ -100,7 +100,9 @@ TEST_CASE("fit recovers the grip, power and drag area of the car that wrote a no
     CHECK(std::abs(r.values[i] - factors[i]) < std::max(5 * r.std_errors[i], 0.005 * factors[i]));
     CHECK(r.correlation[i][i] == doctest::Approx(1.0));
   }
-  CHECK(r.correlation[0][1] == doctest::Approx(r.correlation[1][0]));
+  // Symmetric to the bit (Ceres's covariance halves differ in their last bits: averaged).
+  for (std::size_t i = 0; i < 3; ++i)
+    for (std::size_t j = 0; j < 3; ++j) CHECK(r.correlation[i][j] == r.correlation[j][i]);
 }
 
 TEST_CASE("with a tyre model the true car does not share, fit still more than halves the RMS") {
