@@ -142,7 +142,18 @@ LogTrack track_from_log(const LogOptions& o, const std::string& csv_name) {
   const double vs = *speed_scale(o.speed_unit);
   const auto& vcol = t.column(o.speed);
   log.speed_mps.resize(vcol.size());
-  for (std::size_t i = 0; i < vcol.size(); ++i) log.speed_mps[i] = vcol[i] * vs;
+  for (std::size_t i = 0; i < vcol.size(); ++i) {
+    log.speed_mps[i] = vcol[i] * vs;
+    // As fit and correlate read a log (read_speed_log): no speed below 0 (a campaign's -5 km/h
+    // row made a track without a word, its curvature a / v^2 read as if it were +5).
+    if ((i > 0 || o.closed) && log.speed_mps[i] < 0.0) {
+      char buf[64];
+      std::snprintf(buf, sizeof buf, "%.6g", vcol[i]);
+      throw InputError(o.log, Mark{t.lines[i], 1},
+                       std::string("speed ") + buf + " " + o.speed_unit +
+                           " is negative: a logged speed is at least 0");
+    }
+  }
   const double v0 = log.speed_mps[0];
   if (!o.closed && v0 < 0.0)
     throw InputError(o.log, Mark{t.lines[0], 1},

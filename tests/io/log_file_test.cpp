@@ -240,6 +240,15 @@ TEST_CASE("a row beyond what a car logs is refused at its line, not overflowed (
   });
   CHECK(error_of(small_options(g, false)) ==
         g + ":7:1: error: a speed beyond 900 km/h: no car logs one; is the unit right?");
+  // Nor one below 0, at any row of a lap (a -5 km/h row once made a track without a word, its
+  // curvature a / v^2 as if at +5), as fit and correlate refuse it.
+  const std::string n = small_log("negative.csv", 40, [](int i) {
+    return std::to_string(2.0 * i) + "," + (i == 9 ? "-5" : "100") + ",0.1";
+  });
+  CHECK(error_of(small_options(n, false)) ==
+        n + ":11:1: error: speed -5 km/h is negative: a logged speed is at least 0");
+  CHECK(error_of(small_options(n, true)) ==
+        n + ":11:1: error: speed -5 km/h is negative: a logged speed is at least 0");
 }
 
 TEST_CASE("what track from-log writes loads again: no turn tighter than 1 m (issue 19, 12)") {
