@@ -462,6 +462,14 @@ Alignment refine_alignment(const LoggedSpeed& log, const Mesh& mesh,
       why +=
           "; the log is a lap long, but a closed lap is compared from one crossing of the "
           "line to the next: log from before one crossing to past the next";
+    // An alignment the speeds do not vouch for (a log of constant speed, of another track)
+    // gives a coverage that says little: say so rather than leave the crossing's advice alone
+    // (a campaign's constant-speed log read "covers 73.1 %").
+    if (!(best.correlation >= correlate_min_trusted_correlation))
+      why += "; the log's speed follows the car's lap poorly at this alignment (r = " +
+             fixed(best.correlation, 2) +
+             "), so the alignment and this share are unsure: is the log of this track, and its "
+             "distance or time channel right?";
     throw InvalidInput(
         log.source,
         broken_rule("",

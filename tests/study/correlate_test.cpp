@@ -143,6 +143,19 @@ TEST_CASE("a log in the wrong unit or too short for the track is refused at a ro
     CHECK(std::string(e.what()).find("covers") != std::string::npos);
     CHECK(e.violation().where() ==
           "distance_m[" + std::to_string(half.distance_m.size() - 1) + "]");
+    // Half of this track's own lap: its alignment is sure, and nothing says otherwise.
+    CHECK(std::string(e.what()).find("follows the car's lap poorly") == std::string::npos);
+  }
+  // A lap long but at one speed throughout: no shape to align by, so the coverage an alignment
+  // gives says little (a campaign's log read "covers 73.1 %" and advised about the line alone).
+  LoggedSpeed flat = log;
+  for (double& v : flat.speed_mps) v = 150.0 * units::kph;
+  try {
+    (void)align_log(flat, c.mesh, run.lap.speed_mps);
+    FAIL("no error");
+  } catch (const InvalidInput& e) {
+    CHECK(std::string(e.what()).find("follows the car's lap poorly at this alignment (r = ") !=
+          std::string::npos);
   }
 }
 
