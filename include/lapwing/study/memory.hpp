@@ -35,12 +35,16 @@ struct MemoryPlan {
 /// - Lap of speed and time only: speed, time, phase;
 /// - a solver's own state: its steady limits (SteadyProfile: a double and a limit) and its two
 ///   sweeps: speed (double) each, the forward one's cut (flag) and gear (int); and each sweep's
-///   second part on a closed lap (forward_split, backward_split): the same again;
+///   second part on a closed lap (forward_split, backward_split): the same again; and on a lap
+///   whose engine limit drops where the car comes to it faster (LapSolver::sweep_limits), the
+///   sweeps' own limits (a second SteadyProfile) and a forward sweep within the tyres' limits
+///   while it runs;
 /// - while a delta file is written, its trace: one double.
 inline constexpr std::size_t mesh_bytes_per_point = 9 * 8 + 1;
 inline constexpr std::size_t lap_bytes_per_point = 12 * 8 + 4 + 1 + 1;
 inline constexpr std::size_t speed_lap_bytes_per_point = 2 * 8 + 1;
-inline constexpr std::size_t solver_bytes_per_point = (8 + 1) + 2 * (2 * 8 + 1 + 4);
+inline constexpr std::size_t solver_bytes_per_point =
+    (8 + 1) + 2 * (2 * 8 + 1 + 4) + (8 + 1) + (8 + 1 + 4);
 inline constexpr std::size_t delta_bytes_per_point = 8;
 /// What does not grow with the mesh: the program, its libraries, the car's tables, the
 /// summaries and the small output files (a 64 KB piece of a streamed trace among them). 16 MiB:
