@@ -289,7 +289,10 @@ std::string fit_json(const std::string& car_name, const std::string& config,
   for (const std::string& warning : r.warnings) w.value(warning);
   w.end_array();
   w.field("rounds", r.rounds).field("settled", r.settled);
-  w.field("iterations", r.iterations).end_object();
+  w.field("iterations", r.iterations)
+      .field("iteration_limit", r.iteration_cap)
+      .field("termination", r.termination)
+      .end_object();
   return w.str();
 }
 

@@ -94,7 +94,7 @@ done
 cmp -s "$tmp/f1/fit.json" "$tmp/f2/fit.json" && cmp -s "$tmp/f1/car.yaml" "$tmp/f2/car.yaml" && ok ||
   bad "fit's files differ between 1 and 2 threads"
 for key in parameters scale std_error rms_before_kph rms_after_kph correlation speed_correlation \
-  warnings rounds settled; do
+  warnings rounds settled iterations iteration_limit termination; do
   grep -q "\"$key\"" "$tmp/f1/fit.json" && ok || bad "fit.json lacks $key"
 done
 head -n 1 "$tmp/f1/car.yaml" | grep -q "^# Fitted by 'lapwing fit'" && ok || bad "car.yaml header"
