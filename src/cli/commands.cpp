@@ -1239,6 +1239,10 @@ int fit(const FitOptions& o, Inputs& in) {
     try {
       read_car_document(parse_document(text, "car.yaml"));
     } catch (const InputError& e) {
+      // The fit itself is printed first (a factor past a rule the bounds do not hold: grip with
+      // grip_lat multiplies two factors each within its own bound), then the error: nothing
+      // written.
+      std::cout << out << std::flush;
       throw UsageError{"the fitted car breaks a rule of a car file, so car.yaml is not written: " +
                        e.message() + " (" + e.key_path() + ")"};
     }

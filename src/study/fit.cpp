@@ -107,9 +107,18 @@ FitBounds fit_bounds(const ConfiguredCar& car, FitParameter p) {
     const auto [lo, hi] = std::minmax_element(all.begin(), all.end());
     return std::pair{*lo, *hi};
   };
-  const auto up_to = [&](double limit, double largest) {
-    return largest > 0.0 ? limit / largest : inf;
+  // A straight-line trim adds to every row where it opens (the factor scales the rows, not
+  // the trim): f x + d within [lo, hi] at the rows' extremes.
+  const StraightTrim trim = a.trim.value_or(StraightTrim{});
+  const auto scaled_within = [&](const Range& r, double d, std::pair<double, double> rows,
+                                 double least) {
+    double lo = least, hi = inf;
+    if (rows.first > 0.0) lo = std::max(lo, (r.lo - std::min(d, 0.0)) / rows.first);
+    if (rows.second > 0.0) hi = (r.hi - std::max(d, 0.0)) / rows.second;
+    return FitBounds{lo, hi};
   };
+  // A config of parts: their downforce must sum above 0 (net lift is not modelled).
+  const double least_area = a.form == AeroConfig::Form::forces ? 1e-3 : 0.0;
   switch (p) {
     case FitParameter::grip:
       return {least_factor, friction_range.hi / std::max(c.tyres.mu_lat, c.tyres.mu_long)};
@@ -120,16 +129,17 @@ FitBounds fit_bounds(const ConfiguredCar& car, FitParameter p) {
     case FitParameter::power:
       return {least_factor, inf};
     case FitParameter::cda:
-      return {0.0,
-              up_to(cda_range.hi, extremes(a.cda_m2, a.map ? &a.map->cda_m2 : nullptr).second)};
+      return scaled_within(cda_range, trim.dcda_m2,
+                           extremes(a.cda_m2, a.map ? &a.map->cda_m2 : nullptr), 0.0);
     case FitParameter::cla:
-      return {0.0,
-              up_to(cla_range.hi, extremes(a.cla_m2, a.map ? &a.map->cla_m2 : nullptr).second)};
+      return scaled_within(cla_range, trim.dcla_m2,
+                           extremes(a.cla_m2, a.map ? &a.map->cla_m2 : nullptr), least_area);
     case FitParameter::mass:
       return {mass_range.lo / c.mass_kg, mass_range.hi / c.mass_kg};
     case FitParameter::balance: {
       const auto [lo, hi] = extremes(a.balance, a.map ? &a.map->balance : nullptr);
-      return {balance_range.lo - lo, balance_range.hi - hi};
+      const double d = trim.dbalance;
+      return {balance_range.lo - lo - std::min(d, 0.0), balance_range.hi - hi - std::max(d, 0.0)};
     }
   }
   return {-inf, inf};

@@ -128,7 +128,8 @@ class Residuals {
         if (down < bounds_[j].lo) down = x[j];
       }
       if (up == down) up = x[j] + h;  // a range narrower than the step: as before
-      width[j] = up - down;
+      // 2h where neither side is held (as before bounds: (x + h) - (x - h) is not 2h to the bit).
+      width[j] = up == x[j] + h && down == x[j] - h ? 2.0 * h : up - down;
       for (const double v : {up, down}) {
         xs.push_back(x);
         xs.back()[j] = v;
@@ -309,7 +310,9 @@ FitResult fit(const ConfiguredCar& car, const std::vector<FitLog>& logs,
     int rounds = 0, iterations = 0, laps = 0;
     bool settled = false, cap = false;
     std::string termination;
-    double rms_after = 0.0;  // over every log's points, at the alignment found last
+    double rms_after = 0.0;           // over every log's points, at the alignment found last
+    std::vector<double> r_after;      // those residuals (km/h), log after log
+    std::vector<std::size_t> at_log;  // where each log's start in r_after (and the end)
   };
   const QuietCeres quiet;
   // `bounded`: each factor held within its bounds (Ceres's bounds, one-sided differences at a
@@ -372,28 +375,33 @@ FitResult fit(const ConfiguredCar& car, const std::vector<FitLog>& logs,
       if (a->settled) break;
     }
     a->laps += static_cast<int>(logs.size()) * (a->rounds + 1);  // the alignments' laps
-    Residuals final_points(car, params, points_at(a->al), options.step, options.threads, held);
-    std::vector<double> r1(final_points.count());
-    if (!final_points.residuals(x, r1.data()))
+    const std::vector<LogPoints> points = points_at(a->al);
+    a->at_log.assign(1, 0);
+    for (const auto& p : points) a->at_log.push_back(a->at_log.back() + p.at.size());
+    Residuals final_points(car, params, points, options.step, options.threads, held);
+    a->r_after.resize(final_points.count());
+    if (!final_points.residuals(x, a->r_after.data()))
       throw InvalidInput("fit", broken_rule("", "the fitted car cannot lap a track"));
     a->laps += final_points.laps();
-    a->rms_after = rms_kph(r1, 0, r1.size());
+    a->rms_after = rms_kph(a->r_after, 0, a->r_after.size());
     return a;
   };
-  // A fit first without bounds; where it ends beyond one, again with them from its end held
-  // within them.
+  // A fit first without bounds; where it ends beyond one, or where the car could not be lapped
+  // at a step it took (a value past a rule the Envelope refuses: a trim's ClA below 0), again
+  // with them from its end held within them. Its iterations and laps count in both.
   const auto fitted_from = [&](const std::vector<double>& from) {
     std::unique_ptr<Attempt> a = attempt(from, false);
-    bool outside = false;
+    bool outside = a->summary.termination_type == ceres::FAILURE;
     std::vector<double> held = a->x;
     for (std::size_t j = 0; j < np; ++j) {
       outside = outside || !(held[j] >= bounds[j].lo && held[j] <= bounds[j].hi);
-      held[j] = std::clamp(held[j], bounds[j].lo, bounds[j].hi);
+      held[j] = std::isfinite(held[j]) ? std::clamp(held[j], bounds[j].lo, bounds[j].hi) : from[j];
     }
     if (!outside) return a;
-    const int laps = a->laps;
+    const int laps = a->laps, iterations = a->iterations;
     a = attempt(held, true);
     a->laps += laps;
+    a->iterations += iterations;
     return a;
   };
   std::unique_ptr<Attempt> best = fitted_from(x0);
@@ -429,7 +437,8 @@ FitResult fit(const ConfiguredCar& car, const std::vector<FitLog>& logs,
       from[j] = shift_at;
       std::unique_ptr<Attempt> other = fitted_from(from);
       if (other->rms_after < best->rms_after) std::swap(best, other);
-      out.laps_solved += other->laps;  // the fit not kept: its laps were solved too
+      out.laps_solved += other->laps;  // the fit not kept: its laps and iterations count too
+      out.iterations += other->iterations;
     }
   }
   out.laps_solved += best->laps;
@@ -447,20 +456,12 @@ FitResult fit(const ConfiguredCar& car, const std::vector<FitLog>& logs,
   out.final_alignments = al;
   out.values = x;
 
-  // RMS after: the fitted car against the logs at the alignments found with it.
-  {
-    const std::vector<LogPoints> points = points_at(al);
-    std::vector<std::size_t> at(1, 0);
-    for (const auto& p : points) at.push_back(at.back() + p.at.size());
-    Residuals final_points(car, params, points, options.step, options.threads);
-    std::vector<double> r1(final_points.count());
-    if (!final_points.residuals(x, r1.data()))
-      throw InvalidInput("fit", broken_rule("", "the fitted car cannot lap a track"));
-    // (Its laps are the attempt's own last ones, counted there: the same car on the same points.)
-    for (std::size_t l = 0; l + 1 < at.size(); ++l)
-      out.rms_after_mps.push_back(rms_kph(r1, at[l], at[l + 1]) * units::kph);
-    out.rms_after_mps_all = rms_kph(r1, 0, r1.size()) * units::kph;
-  }
+  // RMS after: the fitted car against the logs at the alignments found with it (the kept
+  // fit's last residuals).
+  for (std::size_t l = 0; l + 1 < best->at_log.size(); ++l)
+    out.rms_after_mps.push_back(rms_kph(best->r_after, best->at_log[l], best->at_log[l + 1]) *
+                                units::kph);
+  out.rms_after_mps_all = best->rms_after * units::kph;
 
   // What the figures must be read with, per log, then of the fit.
   for (std::size_t k = 0; k < logs.size(); ++k) {
@@ -497,6 +498,12 @@ FitResult fit(const ConfiguredCar& car, const std::vector<FitLog>& logs,
         "less than in the RMS; the logs hold such points (correlate's largest errors show them), "
         "and the factors follow the rest of the lap");
 
+  if (summary.termination_type == ceres::FAILURE)
+    out.warnings.push_back(
+        "the fit stopped where the car could not be lapped at a step it tried (" + out.termination +
+        "): the factors are where it stopped, not a best fit; a factor may be beyond what the "
+        "car's file allows with its other values (a straight-line trim's ClA, a balance near 0 "
+        "or 1)");
   if (out.iteration_cap)
     out.warnings.push_back(
         "the fit's last round stopped at its limit of " + std::to_string(options.max_iterations) +

@@ -279,6 +279,19 @@ TEST_CASE("fit keeps each factor within the car file's rules, and says when it e
   CHECK(fit_bounds(car, FitParameter::mass).lo == 1.0 / k.mass_kg);
   CHECK(fit_bounds(car, FitParameter::balance).lo == -a.balance.front());
   CHECK(fit_bounds(car, FitParameter::balance).hi == 1.0 - a.balance.front());
+  // With a straight-line trim the trimmed rows are held too (high_trim: ClA 4.3 m2, trim -0.9
+  // m2, balance 0.43 + 0.03): f 4.3 - 0.9 >= 0 and 0.43 + s + 0.03 <= 1 (a second reader's
+  // finding: past them the Envelope refused the car and the fit stopped where it started).
+  const Car file = load_car(test::source_path("cars/pellion-fr2.yaml"));
+  const ConfiguredCar trimmed = file.configured(6);
+  REQUIRE(trimmed.aero().name == "high_trim");
+  CHECK(fit_bounds(trimmed, FitParameter::cla).lo == doctest::Approx(0.9 / 4.3).epsilon(1e-15));
+  CHECK(fit_bounds(trimmed, FitParameter::balance).hi ==
+        doctest::Approx(1.0 - 0.43 - 0.03).epsilon(1e-15));
+  // A config of parts: their downforce must sum above 0, so its ClA factor stays above 0.
+  const ConfiguredCar parts = file.configured(4);
+  REQUIRE(parts.aero().name == "high_tunnel");
+  CHECK(fit_bounds(parts, FitParameter::cla).lo > 0.0);
   // A log of the car with twice its torque fitted by its drag area alone: only less drag than
   // none would match it. The fit once read CdA x-0.31 (a campaign's finding), a car no file
   // may hold; now it stops at 0 and says so.
