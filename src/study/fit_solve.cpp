@@ -275,6 +275,13 @@ FitResult fit(const ConfiguredCar& car, const std::vector<FitLog>& logs,
   // torque, fitted by its drag alone, read CdA x-0.31).
   std::vector<FitBounds> bounds;
   for (const FitParameter p : params) bounds.push_back(fit_bounds(car, p));
+  // More residual points than parameters, at every alignment.
+  const auto require_more_points = [&](std::size_t count) {
+    if (count <= np)
+      throw InvalidInput(
+          "fit", broken_rule("log", "the logs give " + std::to_string(count) + " points for " +
+                                        std::to_string(np) + " parameters"));
+  };
   const std::vector<Alignment> al0 = aligned(car, nullptr);  // checked: the car the user gave
   out.alignments = al0;
   {
@@ -284,10 +291,7 @@ FitResult fit(const ConfiguredCar& car, const std::vector<FitLog>& logs,
     for (const auto& p : points) at.push_back(at.back() + p.at.size());
     Residuals given(car, params, points, options.step, options.threads, bounds);
     const std::size_t count = given.count();
-    if (count <= np)
-      throw InvalidInput(
-          "fit", broken_rule("log", "the logs give " + std::to_string(count) + " points for " +
-                                        std::to_string(np) + " parameters"));
+    require_more_points(count);
     std::vector<double> r0(count);
     if (!given.residuals(x0, r0.data()))
       throw InvalidInput("fit", broken_rule("", "the starting car cannot lap a track"));
@@ -329,10 +333,7 @@ FitResult fit(const ConfiguredCar& car, const std::vector<FitLog>& logs,
       a->all = std::make_unique<Residuals>(car, params, points_at(a->al), options.step,
                                            options.threads, held);
       a->n = a->all->count();
-      if (a->n <= np)
-        throw InvalidInput(
-            "fit", broken_rule("log", "the logs give " + std::to_string(a->n) + " points for " +
-                                          std::to_string(np) + " parameters"));
+      require_more_points(a->n);
       ceres::Problem::Options po;
       po.cost_function_ownership = ceres::TAKE_OWNERSHIP;
       po.loss_function_ownership = ceres::TAKE_OWNERSHIP;
