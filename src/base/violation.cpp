@@ -1,6 +1,9 @@
 #include "lapwing/base/violation.hpp"
 
+#include <cmath>
+
 #include "lapwing/base/format.hpp"
+#include "lapwing/base/units.hpp"
 
 namespace lapwing {
 
@@ -65,6 +68,23 @@ Violation out_of_range(std::string field, double value, const Range& r, bool si_
 }
 
 Violation out_of_range(std::string field, double value, const Range& r, Quantity q) {
+  // An angle's range in degrees and a temperature's in C, the units their keys default to and
+  // the ones typed most: "[0.12217304764, 0.296705972839] in SI units" read as if 0.2 (degrees)
+  // lay inside it, "[223.15, 343.15]" beside 71 C (helpers' findings). The value too, where no
+  // typed text stands for it; the ends shown to a millionth (a range of 4 pi plus its
+  // rounding's margin reads 720, not 720.000000001).
+  if (q == Quantity::angle || q == Quantity::temperature) {
+    const bool angle = q == Quantity::angle;
+    const auto shown = [angle](double x) {  // the unbounded ends stay unbounded
+      if (std::abs(x) >= 1e308) return x;
+      return std::round((angle ? x / units::deg : x - units::celsius_zero_k) * 1e6) / 1e6;
+    };
+    Violation v =
+        out_of_range(std::move(field), angle ? value / units::deg : value - units::celsius_zero_k,
+                     Range{shown(r.lo), shown(r.hi), r.lo_open, r.hi_open}, false);
+    v.rule += angle ? " deg" : " C";
+    return v;
+  }
   return out_of_range(std::move(field), value, r, q != Quantity::number && q != Quantity::fraction);
 }
 

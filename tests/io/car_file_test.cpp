@@ -188,4 +188,9 @@ TEST_CASE("a bad key or value set in the car's document is the car file's error"
             .find("has no item 99999999999999999999 (it has 7)") != std::string::npos);
   CHECK(set_error("front_flap", "30 deg").find("(aero.families.front_flap.at)") !=
         std::string::npos);
+  // Its range in degrees, the family's settings as the file gives them (7 to 22 deg), where it
+  // read "[0.12217304764, 0.383972435439] in SI units" beside the 30 deg typed.
+  CHECK(
+      set_error("front_flap", "30 deg").find("value 30 deg is out of range: must be [7, 22] deg") !=
+      std::string::npos);
 }

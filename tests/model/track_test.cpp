@@ -22,7 +22,7 @@ TEST_CASE("a segment's radius and angle are 1 / |curvature| and length x |curvat
   CHECK(test::describe(test::arc(200e3, 0.1, true).validate()) ==
         "arc.radius: value 200000 is out of range: must be [1, 100000] in SI units");
   CHECK(test::describe(test::arc(20.0, 5 * units::pi, true).validate()) ==
-        "arc.angle: value 15.7079632679 is out of range: must be (0, 12.5663706144] in SI units");
+        "arc.angle: value 900 is out of range: must be (0, 720] deg");  // an angle in degrees
   CHECK(test::describe(test::straight(0.0).validate()) ==
         "straight.length: value 0 is out of range: must be (0, 100000] in SI units");
   CHECK(test::describe(test::straight(100.0, 0.6).validate()) ==
@@ -98,8 +98,7 @@ TEST_CASE("a track names its first bad value by its key path in a track file") {
       {[](Track& t) { t.segments.clear(); },
        ": give exactly one of segments, centerline, curvature"},
       {[](Track& t) { t.segments.push_back(test::arc(-30.0, 1.0, true)); },
-       "segments[1].arc.angle: value -1 is out of range: must be (0, 12.5663706144] in SI "
-       "units"},
+       "segments[1].arc.angle: value -57.2957795131 is out of range: must be (0, 720] deg"},
       {[](Track& t) {
          t.mesh_m = 0.01,
          t.segments = {test::straight(99e3), test::straight(99e3), test::straight(99e3)};
