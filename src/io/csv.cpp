@@ -1,9 +1,11 @@
 #include "lapwing/io/csv.hpp"
 
+#include <filesystem>
 #include <fstream>
 #include <limits>
 
 #include "lapwing/base/error.hpp"
+#include "lapwing/base/format.hpp"
 #include "lapwing/base/text.hpp"
 #include "lapwing/base/units.hpp"
 #include "lapwing/io/input_file.hpp"
@@ -125,6 +127,27 @@ bool next_line(std::istream& in, std::string& line, std::size_t& read, const std
 }
 }  // namespace
 
+Mark CsvTable::at(std::size_t row, const std::string& name) const {
+  const Mark line_only{row < lines.size() ? lines[row] : header_line, 1};
+  const int c = find(name);
+  std::error_code ec;
+  if (c < 0 || row >= lines.size() || !std::filesystem::is_regular_file(file, ec)) return line_only;
+  std::ifstream in(file, std::ios::binary);
+  std::string line;
+  std::size_t read = 0;
+  try {
+    for (int n = 1; n <= lines[row]; ++n)
+      if (!next_line(in, line, read, file, n)) return line_only;
+  } catch (const InputError&) {
+    return line_only;
+  }
+  if (!line.empty() && line.back() == '\r') line.pop_back();
+  std::vector<int> starts;
+  const auto fields = split(line, starts);
+  if (fields.size() != names.size()) return line_only;  // the file changed since it was read
+  return Mark{lines[row], starts[static_cast<std::size_t>(c)]};
+}
+
 CsvTable read_csv(const std::string& file, std::size_t min_rows) {
   std::ifstream in = open_input(file);
   CsvTable t;
@@ -230,9 +253,9 @@ void require_increasing(const CsvTable& t, const std::string& column) {
   const int c = t.find(column);
   for (std::size_t i = 1; i < v.size(); ++i)
     if (!(v[i] > v[i - 1]))
-      throw InputError(t.file, Mark{t.lines[i], 1},
-                       column + " must increase strictly: " + std::to_string(v[i]) + " after " +
-                           std::to_string(v[i - 1]) + " (column " + std::to_string(c + 1) + ")");
+      throw InputError(t.file, t.at(i, column),
+                       column + " must increase strictly: " + format_readable(v[i]) + " after " +
+                           format_readable(v[i - 1]) + " (column " + std::to_string(c + 1) + ")");
 }
 
 void require_no_duplicates(const CsvTable& t, const std::vector<std::string>& columns) {
@@ -250,9 +273,12 @@ void require_no_duplicates(const CsvTable& t, const std::vector<std::string>& co
 
 InputError row_error(const CsvTable& t, const InvalidInput& e) {
   // The data row "COLUMN[i]" the violation points at is the table's row i.
-  const std::optional<std::size_t> i = last_index(e.violation().where());
-  // A rule of the data as a whole names the header, the nearest place to it.
-  const Mark mark = i && *i < t.lines.size() ? Mark{t.lines[*i], 1} : Mark{t.header_line, 1};
+  const std::string& where = e.violation().where();
+  const std::optional<std::size_t> i = last_index(where);
+  // A rule of the data as a whole names the header, the nearest place to it; a row's, the
+  // field of its column where the path names one of the table's.
+  const Mark mark = i && *i < t.lines.size() ? t.at(*i, where.substr(0, where.find('[')))
+                                             : Mark{t.header_line, 1};
   return InputError(t.file, mark, e.message());
 }
 

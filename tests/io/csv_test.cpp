@@ -29,6 +29,32 @@ TEST_CASE("a rule about row i of a table is reported at that row's file line") {
   CHECK(whole.mark().col == 1);
 }
 
+TEST_CASE("a row's error points at its column's field, read again from the file") {
+  // A quoted first field with a comma inside it, and blanks: the field's first byte, counted
+  // as the reading counts it (read_csv's columns; no reference beyond the file's own bytes).
+  const std::string file = test::scratch_file(
+      "csv_at_test.csv", "name,distance_m, speed\n\"a,b\",0,1\n\"c\",5, 2\nd,4,3\n");
+  const CsvTable t = read_csv(file, 1);
+  CHECK(t.at(1, "speed").line == 3);
+  CHECK(t.at(1, "speed").col == 7);  // '"c",5, 2': the field ' 2' starts at its blank
+  CHECK(t.at(0, "distance_m").col == 7);
+  CHECK(t.at(0, "name").col == 1);
+  // No such column, or no such row: the line alone (column 1), the header for a row beyond.
+  CHECK(t.at(2, "no_such").col == 1);
+  CHECK(t.at(9, "speed").line == t.header_line);
+  try {
+    require_increasing(t, "distance_m");
+    FAIL("a falling distance was accepted");
+  } catch (const InputError& e) {
+    CHECK(e.mark().line == 4);
+    CHECK(e.mark().col == 3);  // 'd,4,3'
+  }
+  // A library rule naming COLUMN[i] is placed at that field; a path that names no column of
+  // the table (a point list), at the row's line.
+  CHECK(row_error(t, InvalidInput(t.file, broken_rule("", "bad", "speed[2]"))).mark().col == 5);
+  CHECK(row_error(t, InvalidInput(t.file, broken_rule("", "bad", "points[2]"))).mark().col == 1);
+}
+
 namespace {
 // The error text of reading `text` as a CSV file (written to a scratch file), or "".
 std::string csv_error(const std::string& text) {

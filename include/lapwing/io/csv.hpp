@@ -26,8 +26,8 @@ struct CsvTable {
     std::string text;
   };
   std::vector<std::optional<BadField>> bad;
-  std::vector<int> lines;                    // file line of each row (for later errors)
-  int header_line = 1;                       // file line of the header
+  std::vector<int> lines;  // file line of each row (for later errors)
+  int header_line = 1;     // file line of the header
 
   std::size_t rows() const { return lines.size(); }
   /// Index of column `name`, or -1.
@@ -35,6 +35,11 @@ struct CsvTable {
   /// The column named `name`; an InputError (line 1, naming the columns there are) if absent,
   /// or at its first field that is no number.
   const std::vector<double>& column(const std::string& name) const;
+  /// Where row `row`'s field of column `name` stands in the file: its line, and the column its
+  /// field starts at. The table keeps no field's place (a log of a million rows would keep
+  /// one for each), so the line is read again from the file for an error; where it cannot be
+  /// (not a regular file, or no longer the same line), or no such column, column 1.
+  Mark at(std::size_t row, const std::string& name) const;
 };
 
 /// Reads `file`. `min_rows` rows at least (an InputError otherwise).
