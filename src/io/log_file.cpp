@@ -1,6 +1,7 @@
 #include "lapwing/io/log_file.hpp"
 
 #include <algorithm>
+#include <array>
 #include <cmath>
 #include <cstdio>
 #include <filesystem>
@@ -149,18 +150,18 @@ LogTrack track_from_log(const LogOptions& o, const std::string& csv_name) {
     if ((i > 0 || o.closed) && log.speed_mps[i] < 0.0) {
       char buf[64];
       std::snprintf(buf, sizeof buf, "%.6g", vcol[i]);
-      throw InputError(o.log, Mark{t.lines[i], 1},
+      throw InputError(o.log, t.at(i, o.speed),
                        std::string("speed ") + buf + " " + o.speed_unit +
                            " is negative: a logged speed is at least 0");
     }
   }
   const double v0 = log.speed_mps[0];
   if (!o.closed && v0 < 0.0)
-    throw InputError(o.log, Mark{t.lines[0], 1},
+    throw InputError(o.log, t.at(0, o.speed),
                      "the first logged speed is negative (" + kph_text(v0) +
                          " km/h): an open log's first speed becomes the track's start_speed");
   if (!o.closed && v0 > log_max_start_speed_mps)
-    throw InputError(o.log, Mark{t.lines[0], 1},
+    throw InputError(o.log, t.at(0, o.speed),
                      "the first logged speed, " + kph_text(v0) + " km/h read with --speed-unit " +
                          o.speed_unit +
                          ", is more than a track's start_speed may be (540 km/h); is the speed "
@@ -181,6 +182,39 @@ LogTrack track_from_log(const LogOptions& o, const std::string& csv_name) {
     channel.resize(c.size());
     for (std::size_t i = 0; i < c.size(); ++i) channel[i] = c[i] * scale;
   }
+  // A row of the lateral acceleration that jumps from its neighbours by more than
+  // log_spike_mps2 (their median: the two rows each side) is a spike in the channel, not the
+  // car: no car's lateral acceleration changes by 2 g from one row to the next and back. The
+  // largest, for the warning below and for the 8 g error, whose cause it then is rather than a
+  // unit (a helper's finding: one row of 45 g was refused with "give --accel-unit m/s2", wrong
+  // for the other 670 rows; one of 7.5 g bent the track with no word of it).
+  struct Spike {
+    std::size_t row = 0, count = 0;
+    double jump = 0.0, neighbours = 0.0;
+  } spike;
+  if (!by_yaw) {
+    const std::vector<double>& a = log.lat_accel_mps2;
+    for (std::size_t i = 2; i + 2 < a.size(); ++i) {
+      std::array<double, 4> n{a[i - 2], a[i - 1], a[i + 1], a[i + 2]};
+      std::sort(n.begin(), n.end());
+      const double median = 0.5 * (n[1] + n[2]);
+      const double jump = std::abs(a[i] - median);
+      if (!(jump > log_spike_mps2)) continue;
+      ++spike.count;
+      if (jump > spike.jump) spike = {i, spike.count, jump, median};
+    }
+  }
+  const auto spike_text = [&] {
+    const double g = units::g0;
+    return "line " + std::to_string(t.lines[spike.row]) + " reads " +
+           fixed(log.lat_accel_mps2[spike.row] / g, 2) + " g where the rows about it read " +
+           fixed(spike.neighbours / g, 2) + " g (their median)" +
+           (spike.count > 1 ? ", and " + std::to_string(spike.count - 1) + " more row" +
+                                  (spike.count > 2 ? "s" : "") + " jump so"
+                            : std::string()) +
+           ": a spike in the lateral acceleration, not the car (no car's changes by " +
+           fixed(log_spike_mps2 / g, 0) + " g from one row to the next and back)";
+  };
   LogCurvatureOptions co;
   co.closed = o.closed;
   co.smoothing_m = o.smoothing_m;
@@ -252,7 +286,17 @@ LogTrack track_from_log(const LogOptions& o, const std::string& csv_name) {
     os.precision(3);
     os << "the log implies a lateral acceleration of " << lc.peak_lateral_g
        << " g here (curvature x speed^2, filtered over " << lc.smoothing_m << " m), more than the "
-       << log_max_lateral_g << " g no car exceeds: " << unit_hint(true);
+       << log_max_lateral_g << " g no car exceeds: ";
+    // A spike within the filter's reach of the peak is its cause: named, at its own row.
+    const bool by_spike = spike.count > 0 && std::abs(static_cast<double>(spike.row) -
+                                                      static_cast<double>(lc.peak_row)) *
+                                                     lc.row_spacing_m <=
+                                                 lc.smoothing_m;
+    if (by_spike) {
+      os << spike_text() << "; mend or remove the row";
+      throw InputError(o.log, t.at(spike.row, o.lat_accel), os.str());
+    }
+    os << unit_hint(true);
     throw InputError(o.log, Mark{t.lines[lc.peak_row], 1}, os.str());
   }
   // A lap logged right closes to within the drift of its sensors; a gap that is a good part of
@@ -301,6 +345,10 @@ LogTrack track_from_log(const LogOptions& o, const std::string& csv_name) {
         " m before its end: a log that runs on past the line, or a turning channel a little off "
         "(the path then closes early; see the turns below); under 0.5 % of the lap the two "
         "cannot be told apart, and nothing is cut");
+  if (spike.count > 0)
+    out.warnings.push_back(spike_text() + ": the track bends there, its curvature the filter's " +
+                           fixed(lc.smoothing_m, 1) + " m spread of the spike; mend or remove " +
+                           (spike.count > 1 ? "those rows" : "the row"));
   if (has_gap())
     out.warnings.push_back("rows " + fixed(lc.largest_gap_m, 1) + " m apart at line " +
                            std::to_string(t.lines[lc.largest_gap_row]) + " (the median is " +
@@ -310,6 +358,25 @@ LogTrack track_from_log(const LogOptions& o, const std::string& csv_name) {
   // A closed lap turns a whole number of times. With the speed and the turning channel right,
   // the distance scales the turns its curvature adds up to: a channel that reads long or short
   // shows there (README, "Commands": track from-log).
+  // Over time with the lateral acceleration, the curvature a / v^2 and the distance v dt make
+  // the turns scale as 1 / f where the speed reads f times its true value: f = 1 / implied
+  // (a helper's finding: a speed 25 % high read "19.99 % high", 1 - turns).
+  const auto speed_off = [](double implied) {
+    const double f = 1.0 / implied;
+    return fixed(100.0 * std::abs(f - 1.0), 2) + (f > 1.0 ? " % high" : " % low");
+  };
+  // Where that factor is another unit's ratio to --speed-unit's (within 2 %), the unit is the
+  // likelier fault than a rolling radius.
+  const auto unit_hint_for = [&](double implied) {
+    const double f = 1.0 / implied, given = *speed_scale(o.speed_unit);
+    for (const char* u : {"km/h", "m/s", "mph"}) {
+      const double ratio = given / *speed_scale(u);  // the speed read in `given` over `u`
+      if (std::abs(ratio - 1.0) > 1e-9 && std::abs(f / ratio - 1.0) < 0.02)
+        return std::string(", or a log in ") + u + " read as " + o.speed_unit +
+               ": check --speed-unit";
+    }
+    return std::string();
+  };
   if (o.closed) {
     const double whole = std::round(lc.turns);
     const double implied = whole != 0.0 ? lc.turns / whole : 1.0;
@@ -337,8 +404,8 @@ LogTrack track_from_log(const LogOptions& o, const std::string& csv_name) {
                      (pct > 0 ? " fast" : " slow")
                : o.distance.empty()
                      ? ": the channels disagree by " + by + ". With the " + turning +
-                           " right, the speed reads " + by + (pct > 0 ? " low" : " high") +
-                           " (a wheel speed's rolling radius)"
+                           " right, the speed reads " + speed_off(implied) +
+                           " (a wheel speed's rolling radius" + unit_hint_for(implied) + ")"
                      : ": the channels disagree by " + by + ". With the speed and the " + turning +
                            " right, the distance reads " + by + (pct > 0 ? " long" : " short") +
                            ": the track is " + fixed(lc.length_m, 1) + " m, and scaled by 1/" +
@@ -402,7 +469,7 @@ SpeedLogFile read_speed_log(const SpeedLogOptions& o) {
       char buf[64];
       std::snprintf(buf, sizeof buf, "%.6g", vcol[i]);
       throw InputError(
-          o.log, Mark{t.lines[i], 1},
+          o.log, t.at(i, o.speed),
           std::string("speed ") + buf + " " + o.speed_unit +
               (log.speed_mps[i] < 0.0 ? " is negative: a logged speed is at least 0"
                                       : " is beyond 900 km/h, which no car logs: is the speed in "
@@ -419,7 +486,7 @@ SpeedLogFile read_speed_log(const SpeedLogOptions& o) {
       if (log.speed_mps[i] == 0.0 && log.speed_mps[i - 1] == 0.0) {
         char buf[32];
         std::snprintf(buf, sizeof buf, "%.2f", log.distance_m[i] - log.distance_m[i - 1]);
-        throw InputError(o.log, Mark{t.lines[i], 1},
+        throw InputError(o.log, t.at(i, o.speed),
                          std::string("the logged speed is 0 at this row and the one before, yet "
                                      "the distance moves on ") +
                              buf +
@@ -431,7 +498,7 @@ SpeedLogFile read_speed_log(const SpeedLogOptions& o) {
     log.distance_m = distance_from_time(t.column(o.time), log.speed_mps);
     for (std::size_t i = 1; i < log.distance_m.size(); ++i)
       if (!(log.distance_m[i] > log.distance_m[i - 1]))
-        throw InputError(o.log, Mark{t.lines[i], 1},
+        throw InputError(o.log, t.at(i, o.speed),
                          "the car does not move between this row and the one before (speed 0 "
                          "at both): a log's distance must increase");
   }

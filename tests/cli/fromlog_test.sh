@@ -96,11 +96,14 @@ for channel in time_s distance_m; do
 done
 
 # 4. Errors at the row that causes them, naming the cause. A speed of 0 over three rows while the
-# distance moves on (a dropout) is refused at its second row, line 401 (row 400 of the data).
+# distance moves on (a dropout) is refused at its second row, line 401 (row 400 of the data),
+# at its speed field (the third: its first byte counted with awk from the line itself).
 awk -F, 'BEGIN { OFS = "," } NR >= 400 && NR <= 402 { $3 = 0 } { print }' "$tmp/hz20.csv" > "$tmp/dropout.csv"
 "$bin" correlate --car "$car" --track tracks/brannock-park.yaml --config medium --log "$tmp/dropout.csv" \
   --distance distance_m --speed speed_kph > /dev/null 2> "$tmp/err.txt"
-[ $? -eq 2 ] && grep -q "dropout.csv:401:1: error: the logged speed is 0 at this row and the one before" "$tmp/err.txt" &&
+rc=$?
+speed_col=$(awk -F, 'NR == 401 { print length($1) + length($2) + 3 }' "$tmp/dropout.csv")
+[ $rc -eq 2 ] && grep -q "dropout.csv:401:$speed_col: error: the logged speed is 0 at this row and the one before" "$tmp/err.txt" &&
   ok || bad "zero-speed dropout: $(cat "$tmp/err.txt")"
 # A 60 m gap of rows in a closed lap: named at the row after the gap, not blamed on units.
 awk -F, 'NR == 1 || $2 < 1000 || $2 > 1060' "$tmp/hz20.csv" > "$tmp/gap.csv"
@@ -145,6 +148,22 @@ awk -F, 'BEGIN { OFS = "," } NR == 1 { print; next } { $4 = 0.99 * $4; print }' 
   awk -v l="$(sed -n 's/^length  \([0-9.]*\) m.*/\1/p' "$tmp/lat099.txt")" \
     -v t="$(tail -1 "$trace" | cut -d, -f1)" 'BEGIN { exit !(l - t < 1 && t - l < 1) }' &&
   ok || bad "a turning channel 1 % low cut as a run past the line: $(cat "$tmp/lat099.txt")"
+# Over time with the lateral acceleration, a speed that reads f times its true value makes the
+# distance f times and the curvature a / v^2 1/f^2 times its own: the turns are 1/f of a lap's
+# (closed form). A speed 5 % high gives 1/1.05 = 0.952 turns and is named 5 % high (it read
+# "4.76 % high", 1 - turns); a log in km/h read as mph (f = 1.609) is named as a unit.
+# On a circle (R 50 m at 72 km/h: a_y = v^2 / R = 8 m/s^2, once round in 2 pi R / v = 15.708 s,
+# 20 Hz) the heading closed along the lap leaves a circle again, so the lap closes at any f.
+awk -v f=1.05 'BEGIN { print "time_s,speed_kph,lat_accel_g"
+  for (i = 0; i <= 314; i++) printf "%.2f,%.6f,%.6f\n", i * 0.05, f * 72, 8 / 9.80665 }' > "$tmp/c105.csv"
+"$bin" "${fromlog[@]}" --log "$tmp/c105.csv" --time time_s --out "$tmp/t/c105.yaml" > "$tmp/c105.txt" 2>&1 &&
+  grep -q "^warning: the lap's curvature adds up to 0.95[0-9]* turns.*the speed reads 5.[01][0-9] % high (a wheel speed's rolling radius)$" "$tmp/c105.txt" &&
+  ok || bad "a speed 5 % high, by time: $(cat "$tmp/c105.txt")"
+awk 'BEGIN { print "time_s,speed_kph,lat_accel_g"
+  for (i = 0; i <= 314; i++) printf "%.2f,%.6f,%.6f\n", i * 0.05, 72, 8 / 9.80665 }' > "$tmp/c100.csv"
+"$bin" "${fromlog[@]}" --log "$tmp/c100.csv" --time time_s --speed-unit mph --out "$tmp/t/cmph.yaml" > "$tmp/cmph.txt" 2>&1 &&
+  grep -q "the speed reads 6[01].[0-9]* % high (a wheel speed's rolling radius, or a log in km/h read as mph: check --speed-unit)" "$tmp/cmph.txt" &&
+  ok || bad "a km/h log read as mph, by time: $(cat "$tmp/cmph.txt")"
 # With the yaw rate and the time, the turns are the yaw rate's integral over time, whatever the
 # speed: a yaw rate read 1 % high is named (the warning blamed the speed, which cannot cause it).
 awk -F, 'BEGIN { OFS = "," } NR == 1 { print "time_s", "speed_kph", "yaw_degps"; next }

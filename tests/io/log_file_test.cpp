@@ -245,10 +245,11 @@ TEST_CASE("a row beyond what a car logs is refused at its line, not overflowed (
   const std::string n = small_log("negative.csv", 40, [](int i) {
     return std::to_string(2.0 * i) + "," + (i == 9 ? "-5" : "100") + ",0.1";
   });
+  // At its field: "18.000000,-5,0.1", the speed from column 11.
   CHECK(error_of(small_options(n, false)) ==
-        n + ":11:1: error: speed -5 km/h is negative: a logged speed is at least 0");
+        n + ":11:11: error: speed -5 km/h is negative: a logged speed is at least 0");
   CHECK(error_of(small_options(n, true)) ==
-        n + ":11:1: error: speed -5 km/h is negative: a logged speed is at least 0");
+        n + ":11:11: error: speed -5 km/h is negative: a logged speed is at least 0");
 }
 
 TEST_CASE("what track from-log writes loads again: no turn tighter than 1 m (issue 19, 12)") {
@@ -299,4 +300,39 @@ TEST_CASE("a newline in the log's file name cannot write keys into the track (is
   CHECK(r.boolean_or("closed", true) == false);  // from the log's being open, once only
   CHECK(r.quantity("mesh", Quantity::length) == 0.5);
   CHECK(t.yaml.find("\nmesh: 9 m") == std::string::npos);
+}
+
+TEST_CASE("a row of the lateral acceleration that jumps from its neighbours is named a spike") {
+  // An open log at 100 km/h on a 200 m radius (a_y = v^2 / R = 0.39 g, closed form), rows 2 m
+  // apart, with one row far off its neighbours: 6 g the track takes with a warning at that row
+  // (the curvature it bends by is the filter's spread of one row), 45 g the 8 g check refuses,
+  // and its error names the spike at the row's field, not a unit (the other rows are in g).
+  const double v = 100.0 * units::kph, ay_g = v * v / 200.0 / units::g0;
+  auto spiked = [&](const std::string& name, double spike_g) {
+    return small_log(name, 120, [&](int i) {
+      std::ostringstream os;
+      os.precision(17);
+      os << 2.0 * i << ",100," << (i == 60 ? spike_g : ay_g);
+      return os.str();
+    });
+  };
+  const LogTrack t = track_from_log(small_options(spiked("spike6.csv", 6.0), false), "s6.csv");
+  const auto w = std::find_if(t.warnings.begin(), t.warnings.end(), [](const std::string& s) {
+    return s.find("a spike in the lateral acceleration") != std::string::npos;
+  });
+  REQUIRE(w != t.warnings.end());
+  CHECK(w->rfind("line 62 reads 6.00 g where the rows about it read 0.39 g", 0) == 0);
+  const std::string f = spiked("spike45.csv", 45.0);
+  LogOptions short_filter = small_options(f, false);
+  short_filter.smoothing_m = 4.0;  // two rows: the spike's 45 g read some 20 g filtered
+  const std::string e = error_of(short_filter);
+  CAPTURE(e);
+  // "120,100,45": the field from column 9.
+  CHECK(e.rfind(f + ":62:9: error: the log implies a lateral acceleration of", 0) == 0);
+  CHECK(e.find("line 62 reads 45.00 g") != std::string::npos);
+  CHECK(e.find("--accel-unit") == std::string::npos);
+  // The same log without the spike: no such warning.
+  const LogTrack clean = track_from_log(small_options(spiked("clean.csv", ay_g), false), "c.csv");
+  CHECK(std::none_of(clean.warnings.begin(), clean.warnings.end(),
+                     [](const std::string& s) { return s.find("spike") != std::string::npos; }));
 }

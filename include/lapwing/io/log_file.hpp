@@ -38,6 +38,11 @@ struct LogOptions {
 /// Plausibility limits on a log (a unit read wrong scales every curvature by 9.81, 57.3 or 3.6^2).
 inline constexpr double log_max_lateral_g = 8.0;          // no car corners harder
 inline constexpr double log_max_closure_fraction = 0.02;  // of the lap's length
+/// A row of the lateral acceleration further than this from the median of the two rows each
+/// side is a spike in the channel (the project's own rule, 2 g: a car's lateral acceleration
+/// does not jump that far from one row to the next and back; the bundled log's largest such
+/// jump, at 20 Hz, is 1.15 g, where its invented track's curvature steps at an arc's entry).
+inline constexpr double log_spike_mps2 = 2.0 * 9.80665;
 inline constexpr double log_max_start_speed_mps = 150.0;  // a track's start_speed range
 /// Rows further apart than this cannot draw a hairpin (the data-quality verdict's `poor`:
 /// README, "Tracks from data"; study/track_quality.hpp's quality_usable_spacing_m).
