@@ -388,6 +388,26 @@ std::string_view form_name(AeroConfig::Form f) {
   return "constant";
 }
 
+namespace {
+// For each of a's parts, the index of b's part of the same name (the k-th of a name with the
+// k-th): a family blends a part with its namesake, in whatever order the two configs list them
+// (a helper's finding: configs of the same parts in the opposite order were blended front wing
+// with diffuser, a balance of 52.3 % where both configs read 48.8). Empty where the names differ.
+std::vector<std::size_t> namesakes(const PartsTable& a, const PartsTable& b) {
+  std::vector<std::size_t> out;
+  if (a.parts.size() != b.parts.size()) return out;
+  std::vector<bool> taken(b.parts.size(), false);
+  for (const AeroPart& pa : a.parts) {
+    std::size_t j = 0;
+    while (j < b.parts.size() && (taken[j] || b.parts[j].name != pa.name)) ++j;
+    if (j == b.parts.size()) return {};
+    taken[j] = true;
+    out.push_back(j);
+  }
+  return out;
+}
+}  // namespace
+
 std::optional<std::string> blend_mismatch(const AeroConfig& a, const AeroConfig& b) {
   if (a.form != b.form)
     return "'" + a.name + "' is " + std::string(form_name(a.form)) + " and '" + b.name + "' is " +
@@ -397,6 +417,9 @@ std::optional<std::string> blend_mismatch(const AeroConfig& a, const AeroConfig&
   if (a.parts) {
     if (a.parts->parts.size() != b.parts->parts.size())
       return "'" + a.name + "' and '" + b.name + "' have different numbers of parts";
+    if (namesakes(*a.parts, *b.parts).empty())
+      return "'" + a.name + "' and '" + b.name +
+             "' name different parts (a family blends each part with its namesake)";
   }
   if (a.map && (a.map->front_m != b.map->front_m || a.map->rear_m != b.map->rear_m))
     return "'" + a.name + "' and '" + b.name + "' have different ride-height axes";
@@ -453,8 +476,9 @@ AeroConfig blend(const AeroConfig& a, const AeroConfig& b, double t, double whee
     const double qa = 0.5 * a.parts->density_kg_m3 * a.parts->speed_mps * a.parts->speed_mps;
     const double qb = 0.5 * b.parts->density_kg_m3 * b.parts->speed_mps * b.parts->speed_mps;
     PartsTable& p = *c.parts;
+    const std::vector<std::size_t> in_b = namesakes(*a.parts, *b.parts);
     for (std::size_t i = 0; i < p.parts.size(); ++i) {
-      const AeroPart &pa = a.parts->parts[i], &pb = b.parts->parts[i];
+      const AeroPart &pa = a.parts->parts[i], &pb = b.parts->parts[in_b[i]];
       p.parts[i].drag_n = qa * lerp(pa.drag_n / qa, pb.drag_n / qb, t);
       p.parts[i].downforce_n = qa * lerp(pa.downforce_n / qa, pb.downforce_n / qb, t);
       p.parts[i].x_m = lerp(pa.x_m, pb.x_m, t);

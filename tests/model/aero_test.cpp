@@ -462,6 +462,33 @@ TEST_CASE("a parts family blends each part, so the balance follows the parts' po
   CHECK(std::abs(c.balance.front() - mean_balance) > 1e-3);
 }
 
+TEST_CASE("a parts family blends each part with its namesake, in any order the configs list them") {
+  // The same two parts in the opposite order: every blend is the parts' own reduction (the
+  // configs are one car), where pairing by position blended the front wing with the diffuser.
+  const Car car = car_with(
+      "    a:\n      forces:\n        speed: 40 m/s\n        density: 1.2\n        parts:\n"
+      "          - {name: front wing, drag: 200 N, downforce: 1000 N, x: -0.5 m, z: 0.2 m}\n"
+      "          - {name: diffuser, drag: 600 N, downforce: 2000 N, x: 3.5 m, z: 1.0 m}\n"
+      "    b:\n      forces:\n        speed: 40 m/s\n        density: 1.2\n        parts:\n"
+      "          - {name: diffuser, drag: 600 N, downforce: 2000 N, x: 3.5 m, z: 1.0 m}\n"
+      "          - {name: front wing, drag: 200 N, downforce: 1000 N, x: -0.5 m, z: 0.2 m}\n"
+      "    c:\n      forces:\n        speed: 40 m/s\n        density: 1.2\n        parts:\n"
+      "          - {name: front wing, drag: 200 N, downforce: 1000 N, x: -0.5 m, z: 0.2 m}\n"
+      "          - {name: beam wing, drag: 600 N, downforce: 2000 N, x: 3.5 m, z: 1.0 m}\n",
+      "parts_order");
+  REQUIRE_FALSE(blend_mismatch(car.configs[0], car.configs[1]));
+  for (const double t : {0.0, 0.3, 0.5, 1.0}) {
+    const AeroConfig c = blend(car.configs[0], car.configs[1], t, car.wheelbase_m);
+    CHECK(near(c.balance.front(), car.configs[0].balance.front(), 1e-12));
+    CHECK(near(c.cla_m2.front(), car.configs[0].cla_m2.front(), 1e-12));
+    CHECK(near(*c.drag_height_m, *car.configs[0].drag_height_m, 1e-12));
+  }
+  // Configs that name different parts do not blend.
+  const auto why = blend_mismatch(car.configs[0], car.configs[2]);
+  REQUIRE(why);
+  CHECK(why->find("name different parts") != std::string::npos);
+}
+
 TEST_CASE("configs of different forms do not blend") {
   const Car car = car_with(
       "    a: {cda: 1.1 m2, cla: 3.2 m2, balance: 0.40}\n"
