@@ -122,6 +122,37 @@ Samples resample(const CenterlinePoints& p, bool closed, const std::vector<doubl
   return r;
 }
 
+// Where smoothing the widths made the track wider than its survey by more than
+// widened_note_m (a narrowing shorter than the smoothing length: a kerb, a pit wall's nose),
+// a note with the place and the figures: a racing line (track line) is bounded by the smoothed
+// widths and may pass outside the surveyed edge there (a helper's finding: one row 1 m from
+// the edge, and the line passed 1.33 m beyond it). The lap on the centerline is not affected.
+constexpr double widened_note_m = 0.25;
+void note_widened(const Samples& r, PathProfile& p, double smoothing_m) {
+  double worst = widened_note_m, at_s = 0.0, raw = 0.0, smooth = 0.0;
+  const char* side = nullptr;
+  for (std::size_t j = 0; j < r.wl.size(); ++j)
+    for (const bool left : {true, false}) {
+      const double given = left ? r.wl[j] : r.wr[j];
+      const double made = left ? p.width_left_m[j] : p.width_right_m[j];
+      if (made - given > worst) {
+        worst = made - given;
+        at_s = static_cast<double>(j) * r.h;
+        raw = given;
+        smooth = made;
+        side = left ? "left" : "right";
+      }
+    }
+  if (!side) return;
+  p.notes.push_back("the widths are smoothed over " + fixed(smoothing_m, 1) + " m: at " +
+                    fixed(at_s, 1) + " m along the points the " + side + " edge is " +
+                    fixed(raw, 2) + " m from the centerline as surveyed and " + fixed(smooth, 2) +
+                    " m after smoothing, the most any edge moves out: a racing line there may "
+                    "pass up to " +
+                    fixed(worst, 2) +
+                    " m beyond the surveyed edge (a narrowing shorter than the smoothing)");
+}
+
 constexpr int xy_order = 3;  // third differences: curvature (a second derivative) stays smooth
 
 }  // namespace
@@ -373,6 +404,7 @@ PathProfile fit_centerline(std::shared_ptr<const CenterlinePoints> given, bool c
     if (!r.wl.empty()) {
       p.width_left_m = std::move(smoothed[0]);
       p.width_right_m = std::move(smoothed[1]);
+      note_widened(r, p, length);
     }
   }
   // The profile along the fitted path's own length.

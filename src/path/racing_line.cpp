@@ -145,6 +145,28 @@ LineReference line_reference(const Track& track, double spacing_m) {
                          m.width_right_m.begin() + static_cast<std::ptrdiff_t>(n));
   r.elevation_m.resize(n);
   for (std::size_t i = 0; i < n; ++i) r.elevation_m[i] = m.elevation_at(i);
+  // Where the file gives the narrowest point's width; a file with a line of its own (`line:`,
+  // its vehicle and margin) keeps that key, the line asked for there.
+  if (n > 0 && !track.line) {
+    const double at = r.s_m[r.narrowest()];
+    if (track.profile) {
+      r.narrowest_key = "centerline";
+      r.narrowest_detail = " (the data's widths smoothed over " +
+                           metres(track.profile->smoothing_m, 1) +
+                           " m: a narrowing shorter than that reads wider than surveyed)";
+    } else {
+      r.narrowest_key = "width";
+      double end = 0.0;
+      for (std::size_t k = 0; k < track.segments.size(); ++k) {
+        end += track.segments[k].length_m;
+        if (at <= end + 1e-9) {
+          if (track.segments[k].width_m)
+            r.narrowest_key = "segments[" + std::to_string(k) + "].width";
+          break;
+        }
+      }
+    }
+  }
   return r;
 }
 
@@ -165,11 +187,12 @@ RacingLine min_curvature_line(const LineReference& ref, const LineOptions& o,
   // No room somewhere: named at the narrowest point.
   if (const std::size_t i = ref.narrowest(); line.lower_m[i] > line.upper_m[i])
     throw InvalidInput(
-        ref.subject, broken_rule("line", "the track is " + metres(ref.width_m(i), 2) +
-                                             " m wide at " + metres(ref.s_m[i], 1) +
-                                             " m, its narrowest, less than the vehicle's " +
-                                             metres(o.vehicle_width_m, 2) + " m and a margin of " +
-                                             metres(o.margin_m, 2) + " m each side"));
+        ref.subject,
+        broken_rule(ref.narrowest_key, "the track is " + metres(ref.width_m(i), 2) + " m wide at " +
+                                           metres(ref.s_m[i], 1) + " m, its narrowest" +
+                                           ref.narrowest_detail + ", less than the vehicle's " +
+                                           metres(o.vehicle_width_m, 2) + " m and a margin of " +
+                                           metres(o.margin_m, 2) + " m each side"));
   const std::vector<double> w = o.weights.empty() ? std::vector<double>(n, 1.0) : o.weights;
   std::vector<double> alpha(n);
   for (std::size_t i = 0; i < n; ++i)
@@ -229,9 +252,14 @@ RacingLine min_curvature_line(const LineReference& ref, const LineOptions& o,
     if (cand.objective <= st.objective) {
       alpha = next;
       st = cand;
+      const bool least_damped = mu <= mu_min;
       mu = std::max(mu / 10.0, mu_min);
-      // Converged: a whole linearised step (its QP solved, not cut short) below the tolerance.
-      if (step < o.tolerance_m && qp.converged) {
+      // Converged: a whole linearised step (its QP solved, not cut short) below the tolerance,
+      // taken at the least damping. A step under the tolerance at a higher damping is the
+      // damping's, not the line's: on a track of gentle bends only (radii of 500 m and more)
+      // the first step, at 1e-6 of the scale, moved the line by 4 mm and it stopped on the
+      // centerline, where offsets of metres lower the sum (a helper's finding).
+      if (step < o.tolerance_m && qp.converged && least_damped) {
         line.converged = true;
         ++line.iterations;
         break;

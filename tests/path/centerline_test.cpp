@@ -358,3 +358,38 @@ TEST_CASE("a centerline steeper than a segment's +-50 % grade is refused at a po
     }
   }
 }
+
+TEST_CASE("widths the smoothing widens beyond their survey by over 0.25 m are a note") {
+  // A ring of radius 50 m, points every 1 m, 5 m to each edge; at one point the right edge is
+  // 1 m from the centerline (a pit wall's nose). A 10 m smoothing averages that point with
+  // its neighbours, so the track there reads wider than surveyed by some metres: the line
+  // (track line) is bounded by the smoothed width, and the note gives the place and both
+  // figures. Without the narrowing no edge moves out and there is no note.
+  auto ring = [](bool pinch) {
+    CenterlinePoints p{"ring", {}, {}, {}, {}, {}};
+    for (int i = 0; i < 314; ++i) {
+      const double t = 2 * units::pi * i / 314.0;
+      p.x_m.push_back(50.0 * std::cos(t));
+      p.y_m.push_back(50.0 * std::sin(t));
+      p.width_left_m.push_back(5.0);
+      p.width_right_m.push_back(pinch && i == 100 ? 1.0 : 5.0);
+    }
+    return fit_centerline(p, true, CenterlineOptions{10.0, 100.0, 1.0});
+  };
+  const PathProfile pinched = ring(true);
+  const auto note = std::find_if(pinched.notes.begin(), pinched.notes.end(), [](const auto& n) {
+    return n.rfind("the widths are smoothed over 10.0 m", 0) == 0;
+  });
+  REQUIRE(note != pinched.notes.end());
+  CHECK(note->find("the right edge is 1.00 m from the centerline as surveyed") !=
+        std::string::npos);
+  // Where: point 100 of 314 on a 314.16 m ring, 100.05 m along (to the 0.1 m printed).
+  CHECK(note->find("at 100.0 m along the points") != std::string::npos);
+  // The smoothed width there is the note's other figure, and the excess the gap between them.
+  const std::size_t at = static_cast<std::size_t>(std::lround(100.05 / (pinched.s_m[1])));
+  CHECK(pinched.width_right_m[at] - 1.0 > 0.25);
+  const PathProfile plain = ring(false);
+  CHECK(std::none_of(plain.notes.begin(), plain.notes.end(), [](const auto& n) {
+    return n.find("widths are smoothed") != std::string::npos;
+  }));
+}

@@ -118,27 +118,34 @@ TEST_CASE("on a ring of constant width the line is the circle on the outer bound
   // Centerline radius 50 m, 10 m wide, a 2 m car with 0.5 m margins: the line may go 3.5 m
   // either side, and the closed form says the circle of radius 53.5 m (REFERENCES.md). The
   // left normal of a left-hand circle points to its centre, so the outer bound is alpha = -3.5.
-  const double radius = 50.0, width = 10.0;
-  const LineReference ref = line_reference(ring(radius, width));
-  LineOptions o;
-  const RacingLine line = min_curvature_line(ref, o);
-  CHECK(line.converged);
-  const double outer = radius + width / 2 - o.vehicle_width_m / 2 - o.margin_m;
-  for (std::size_t i = 0; i < ref.size(); ++i) {
-    CAPTURE(i);
-    // The solve stops when no offset moves by 1 cm; on the bound it is exact.
-    CHECK(near(line.offset_m[i], -(outer - radius), 0.0, 0.01));
-    CHECK(near(std::hypot(line.x_m[i], line.y_m[i] - radius), outer, 0.0, 0.01));
-    // Curvature of points about 1 m apart on a circle: 1 / (R cos^2(d/2)) (see above), d/2 =
-    // 0.5 / 53.5 rad adding 9e-5; to the offsets' 1 cm (2e-4 of R).
-    CHECK(near(line.curvature_1pm[i], 1.0 / outer, 3e-4));
+  // The same on a ring of 2 km, where the gain of the outer circle is small (the sum of
+  // curvatures squared falls by 3.5 / 2003.5 of itself) but real: the first, heavily damped
+  // step moved the line by under 1 cm there, and the solve stopped on the centerline as if
+  // converged (a helper's finding on tracks of radii above 500 m).
+  const double width = 10.0;
+  for (const double radius : {50.0, 2000.0}) {
+    CAPTURE(radius);
+    const LineReference ref = line_reference(ring(radius, width));
+    LineOptions o;
+    const RacingLine line = min_curvature_line(ref, o);
+    CHECK(line.converged);
+    const double outer = radius + width / 2 - o.vehicle_width_m / 2 - o.margin_m;
+    for (std::size_t i = 0; i < ref.size(); ++i) {
+      CAPTURE(i);
+      // The solve stops when no offset moves by 1 cm; on the bound it is exact.
+      CHECK(near(line.offset_m[i], -(outer - radius), 0.0, 0.01));
+      CHECK(near(std::hypot(line.x_m[i], line.y_m[i] - radius), outer, 0.0, 0.01));
+      // Curvature of points about 1 m apart on a circle: 1 / (R cos^2(d/2)) (see above), d/2 =
+      // 0.5 / 53.5 rad adding 9e-5; to the offsets' 1 cm (2e-4 of R).
+      CHECK(near(line.curvature_1pm[i], 1.0 / outer, 3e-4));
+    }
+    // Laid out, the line's length is 2 pi R (points on the circle joined by chords: the chord's
+    // shortfall is (h / R)^2 / 24 = 1.4e-5 of it).
+    const PathProfile p = line_profile(ref, line);
+    CHECK(near(p.s_m.back(), 2 * units::pi * outer, 1e-4));
+    // Widths measured from the line: 1.5 m + half the car to the outer edge.
+    CHECK(near(p.width_right_m[7], width / 2 - (outer - radius), 0.0, 0.01));
   }
-  // Laid out, the line's length is 2 pi R (points on the circle joined by chords: the chord's
-  // shortfall is (h / R)^2 / 24 = 1.4e-5 of it).
-  const PathProfile p = line_profile(ref, line);
-  CHECK(near(p.s_m.back(), 2 * units::pi * outer, 1e-4));
-  // Widths measured from the line: 1.5 m + half the car to the outer edge.
-  CHECK(near(p.width_right_m[7], width / 2 - (outer - radius), 0.0, 0.01));
 }
 
 TEST_CASE("through a 90 deg corner between straights the line goes edge to apex to edge") {
@@ -191,7 +198,22 @@ TEST_CASE("a track narrower than the vehicle and its margins, or without widths,
     FAIL("expected an InvalidInput");
   } catch (const InvalidInput& e) {
     CHECK(e.message().find("2.90 m wide at 0.0 m") != std::string::npos);
-    CHECK(e.violation().where() == "line");
+    CHECK(e.violation().where() == "width");  // the track's width, where the file gives it
+  }
+  // A segment's own width, where that segment is the narrowest: the error is at its key (a
+  // helper's finding: it named "line", a key no track file has, at 1:1).
+  {
+    Track two = test::circle_track(50.0, 0.5);
+    two.width_m = 10.0;
+    two.segments = {test::arc(50.0, units::pi, true), test::arc(50.0, units::pi, true)};
+    two.segments[1].width_m = 2.5;
+    try {
+      min_curvature_line(line_reference(two), LineOptions{});
+      FAIL("expected an InvalidInput");
+    } catch (const InvalidInput& e) {
+      CHECK(e.violation().where() == "segments[1].width");
+      CHECK(e.message().find("2.50 m wide at") != std::string::npos);
+    }
   }
   // Narrower further on: the error names the narrowest point, not the first too narrow (a
   // made-up reference: 2.9 m everywhere but 2.5 m at the 10th point).

@@ -39,6 +39,10 @@ struct LineReference {
   bool closed = true;
   double spacing_m = 0.0;
   std::vector<double> s_m, x_m, y_m, heading_rad, width_left_m, width_right_m, elevation_m;
+  // Where the track file gives the narrowest point's width (a key path: the segment's `width`,
+  // the track's, or its `centerline` data), and what to add of it (a centerline's smoothing),
+  // for the error of a track too narrow for the vehicle.
+  std::string narrowest_key = "line", narrowest_detail;
   std::size_t size() const { return x_m.size(); }
   /// Edge to edge at point i (m).
   double width_m(std::size_t i) const { return width_left_m[i] + width_right_m[i]; }
