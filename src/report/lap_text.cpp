@@ -26,10 +26,14 @@ std::string balance_text(const BalanceSummary& b) {
     o += "         the car does not accelerate above 200 km/h on this lap\n";
   std::string ids;
   for (int id : b.front_limited_corners) ids += (ids.empty() ? "" : ", ") + std::to_string(id);
-  o +=
-      "         front limits at the apex of corners: " + (ids.empty() ? std::string("none") : ids) +
-      "; front ahead of the rear by more than " + fixed(b.threshold, 2) + " of usage over " +
-      fixed(b.front_limited_length_m, 0) + " m of the lap\n";
+  // Named as corners, so that a single id does not read as a count ("corners: 2").
+  const std::size_t fronts = b.front_limited_corners.size();
+  o += "         front limits at the apex of " +
+       (fronts == 0   ? std::string("no corner")
+        : fronts == 1 ? "corner " + ids
+                      : "corners " + ids) +
+       "; front ahead of the rear by more than " + fixed(b.threshold, 2) + " of usage over " +
+       fixed(b.front_limited_length_m, 0) + " m of the lap\n";
   if (b.window) {
     const BalanceWindowResult& w = *b.window;
     const auto cells = window_cells(w);

@@ -215,11 +215,42 @@ Envelope::Envelope(Unchecked, const ConfiguredCar& configured, const Car& car, c
     const std::size_t steps = static_cast<std::size_t>(std::ceil(v_max_ / map_step_mps));
     map_dv_ = v_max_ / static_cast<double>(steps);
     double hf = a.map->static_front_m, hr = a.map->static_rear_m;
+    // Where a flag changes between two solved speeds, the speed it changes at, by bisection
+    // from the lower one's heights (a note's "from 163.7 km/h" read the grid's next speed, up
+    // to 1.8 km/h late, and a car whose static height is above the map read "from 0.0 km/h"
+    // where it was off the map only below 246 km/h: a helper's finding).
+    // (at_v0: the flag at v0, as solved there; the bisection starts from v0's heights.)
+    const auto edge = [&](double v0, double v1, double hf0, double hr0, bool AeroPoint::*flag,
+                          bool at_v0) {
+      for (int it = 0; it < 60 && v1 - v0 > 1e-6; ++it) {
+        const double mid = 0.5 * (v0 + v1);
+        double front = hf0, rear = hr0;
+        ((map_point(car, a, mid, rho_, front, rear).*flag) == at_v0 ? v0 : v1) = mid;
+      }
+      return v1;
+    };
+    const auto note = [&](std::vector<SpeedSpan>& spans, bool was, bool is, double v0, double v1,
+                          double hf0, double hr0, bool AeroPoint::*flag) {
+      if (was == is) return;
+      const double at = edge(v0, v1, hf0, hr0, flag, was);
+      if (is)
+        spans.push_back({at, std::numeric_limits<double>::infinity()});
+      else
+        spans.back().hi_mps = at;
+    };
     for (std::size_t k = 0; k <= steps; ++k) {
       const double v = static_cast<double>(k) * map_dv_;
+      const double hf0 = hf, hr0 = hr;
       const AeroPoint pt = map_point(car, a, v, rho_, hf, hr);
-      if (pt.off_map && off_map_speed_ < 0.0) off_map_speed_ = v;
-      if (pt.grounded && grounded_speed_ < 0.0) grounded_speed_ = v;
+      if (k == 0) {
+        if (pt.off_map) off_map_spans_.push_back({0.0, std::numeric_limits<double>::infinity()});
+        if (pt.grounded) grounded_spans_.push_back({0.0, std::numeric_limits<double>::infinity()});
+      } else {
+        const AeroPoint& last = map_points_.back();
+        const double v0 = v - map_dv_;
+        note(off_map_spans_, last.off_map, pt.off_map, v0, v, hf0, hr0, &AeroPoint::off_map);
+        note(grounded_spans_, last.grounded, pt.grounded, v0, v, hf0, hr0, &AeroPoint::grounded);
+      }
       map_points_.push_back(pt);
     }
     aero_at = [this](double v) { return aero_point(v); };

@@ -2441,10 +2441,14 @@ void LapSolver::channels_pass(const Envelope& env, const Mesh& mesh, ChannelSet 
       lap.gear[i] = gear;
       lap.engine_radps[i] = pt.ideal ? 0.0 : std::max(engine_in(gear), pt.engine_radps.front());
       // Front share of the aero load with the drag moment (axle.hpp; the coefficients' rho / 2
-      // cancels); NaN, written as an empty field, where there is no downforce to share.
-      lap.aero_balance_eff[i] =
-          aero_balance_with_drag_moment(f.lift_coef, f.drag_coef, f.balance, car.drag_height_m, wb)
-              .value_or(std::numeric_limits<double>::quiet_NaN());
+      // cancels); NaN, written as an empty field, where there is no downforce to share. The drag
+      // pulls backwards only while the air flows past the car from the front: a tail wind faster
+      // than the car turns it, and its moment loads the front (a helper's finding: the share
+      // took the moment off the front there, where the axle loads beside it had it right).
+      const double drag_sign = f.drag_n < 0.0 ? -1.0 : 1.0;
+      lap.aero_balance_eff[i] = aero_balance_with_drag_moment(f.lift_coef, drag_sign * f.drag_coef,
+                                                              f.balance, car.drag_height_m, wb)
+                                    .value_or(std::numeric_limits<double>::quiet_NaN());
       const AxleUsage use = used ? tested : usage(f, loads, ax);
       lap.front_usage[i] = use.front_usage;
       lap.rear_usage[i] = use.rear_usage;

@@ -169,6 +169,21 @@ std::optional<std::string> lift_hold_warning(const Lap& lap, const Mesh& mesh) {
 }
 }  // namespace
 
+std::vector<std::string> lap_warnings(const Envelope& env, const Lap& lap, const Mesh& mesh) {
+  std::vector<std::string> out = lap_range_warnings(env, lap, mesh);
+  if (std::optional<std::string> w = over_usage_warning(env, lap, mesh)) out.push_back(*w);
+  if (std::optional<std::string> w = tyre_peak_warning(env, lap, mesh)) out.push_back(*w);
+  if (std::optional<std::string> w = lift_hold_warning(lap, mesh)) out.push_back(*w);
+  return out;
+}
+
+std::vector<std::string> lap_speed_warnings(const Envelope& env, const Lap& lap, const Mesh& mesh,
+                                            std::optional<SpeedRange> speeds) {
+  std::vector<std::string> out = lap_range_warnings(env, lap, mesh, speeds);
+  if (std::optional<std::string> w = lift_hold_warning(lap, mesh)) out.push_back(*w);
+  return out;
+}
+
 std::vector<RangeNote> range_notes(const Envelope& env) {
   std::vector<RangeNote> notes;
   const AeroConfig& a = env.aero();
@@ -182,14 +197,27 @@ std::vector<RangeNote> range_notes(const Envelope& env) {
                                                              " km/h) its values are held"});
   }
   if (env.has_map()) {
-    if (env.off_map_speed_mps() >= 0.0)
-      notes.push_back({RangeNote::Kind::off_map,
-                       "a ride height is off the map (from " + kph_text(env.off_map_speed_mps()) +
-                           " km/h): the map's edge values are held there"});
-    if (env.grounded_speed_mps() >= 0.0)
-      notes.push_back({RangeNote::Kind::grounded, "a ride height is at or below zero (from " +
-                                                      kph_text(env.grounded_speed_mps()) +
-                                                      " km/h)"});
+    // The speeds a span covers: "below 246.1 km/h", "from 162.4 km/h", "from A to B km/h".
+    const auto speeds = [](const std::vector<Envelope::SpeedSpan>& spans) {
+      std::string out;
+      for (const Envelope::SpeedSpan& sp : spans) {
+        out += out.empty() ? "" : ", ";
+        if (sp.lo_mps <= 0.0 && std::isfinite(sp.hi_mps))
+          out += "below " + kph_text(sp.hi_mps) + " km/h";
+        else if (!std::isfinite(sp.hi_mps))
+          out += "from " + kph_text(sp.lo_mps) + " km/h";
+        else
+          out += "from " + kph_text(sp.lo_mps) + " to " + kph_text(sp.hi_mps) + " km/h";
+      }
+      return out;
+    };
+    if (!env.off_map_spans().empty())
+      notes.push_back({RangeNote::Kind::off_map, "a ride height is off the map (" +
+                                                     speeds(env.off_map_spans()) +
+                                                     "): the map's edge values are held there"});
+    if (!env.grounded_spans().empty())
+      notes.push_back({RangeNote::Kind::grounded,
+                       "a ride height is at or below zero (" + speeds(env.grounded_spans()) + ")"});
   }
   const double top = env.max_speed_mps();
   std::string why;
@@ -219,6 +247,14 @@ std::vector<RangeNote> range_notes(const Envelope& env) {
 }
 
 namespace {
+// Whether speed v lies in one of the spans (an off-map or grounded note's speeds, their ends
+// found between the map's solved speeds).
+bool in_spans(const std::vector<Envelope::SpeedSpan>& spans, double v) {
+  for (const Envelope::SpeedSpan& sp : spans)
+    if (v >= sp.lo_mps && v < sp.hi_mps) return true;
+  return false;
+}
+
 // Calls `f` with the note's test of a speed (m/s), a callable bool(double): the one place that
 // says where each note applies. The kind is read once, not at every speed tested.
 template <typename F>
@@ -230,9 +266,9 @@ decltype(auto) with_note_test(const Envelope& env, const RangeNote& note, F&& f)
     case RangeNote::Kind::above_speed_table:
       return f([last = a.speed_mps.back()](double v) { return v > last; });
     case RangeNote::Kind::off_map:
-      return f([&env](double v) { return env.aero_point(v).off_map; });
+      return f([&env](double v) { return in_spans(env.off_map_spans(), v); });
     case RangeNote::Kind::grounded:
-      return f([&env](double v) { return env.aero_point(v).grounded; });
+      return f([&env](double v) { return in_spans(env.grounded_spans(), v); });
     case RangeNote::Kind::table_top:
       break;
   }
@@ -260,13 +296,19 @@ double range_note_share(const Envelope& env, const RangeNote& note, const Lap& l
   return length / mesh.length_m;
 }
 
-std::vector<std::string> lap_range_warnings(const Envelope& env, const Lap& lap, const Mesh& mesh) {
+std::vector<std::string> lap_range_warnings(const Envelope& env, const Lap& lap, const Mesh& mesh,
+                                            std::optional<SpeedRange> speeds) {
   std::vector<std::string> out;
   for (const RangeNote& n : range_notes(env)) {
-    // A note that applies nowhere has no share (0): most notes on most laps.
-    const bool anywhere = with_note_test(env, n, [&](const auto& applies) {
-      return std::any_of(lap.speed_mps.begin(), lap.speed_mps.end(), applies);
-    });
+    // A note that applies nowhere has no share (0): most notes on most laps. A note set by a
+    // speed alone applies somewhere exactly where it applies at the lowest or the highest.
+    const bool by_speed = n.kind != RangeNote::Kind::off_map && n.kind != RangeNote::Kind::grounded;
+    const bool anywhere = speeds && by_speed ? range_note_applies(env, n, speeds->lowest_mps) ||
+                                                   range_note_applies(env, n, speeds->highest_mps)
+                                             : with_note_test(env, n, [&](const auto& applies) {
+                                                 return std::any_of(lap.speed_mps.begin(),
+                                                                    lap.speed_mps.end(), applies);
+                                               });
     if (!anywhere) continue;
     const double share = range_note_share(env, n, lap, mesh);
     if (!(share > 0.0)) continue;
@@ -462,10 +504,7 @@ LapSummary summarize(const Lap& lap, const Mesh& mesh, const Track& track,
   if (full_detail) {
     // The track's own doubts first (a closure gap, a dropout), then the lap's.
     s.warnings = track_warnings(track);
-    for (std::string& w : lap_range_warnings(env, lap, mesh)) s.warnings.push_back(std::move(w));
-    if (std::optional<std::string> w = over_usage_warning(env, lap, mesh)) s.warnings.push_back(*w);
-    if (std::optional<std::string> w = tyre_peak_warning(env, lap, mesh)) s.warnings.push_back(*w);
-    if (std::optional<std::string> w = lift_hold_warning(lap, mesh)) s.warnings.push_back(*w);
+    for (std::string& w : lap_warnings(env, lap, mesh)) s.warnings.push_back(std::move(w));
   }
 
   const std::vector<double> sectors = full_detail ? lapped_sectors_m(track) : std::vector<double>{};
@@ -484,6 +523,17 @@ LapSummary summarize(const Lap& lap, const Mesh& mesh, const Track& track,
     for (std::size_t i = c.start; i <= c.end; ++i) lowest = std::min(lowest, lap.speed_mps[i]);
     std::size_t apex = c.start;
     while (lap.speed_mps[apex] > lowest * (1.0 + apex_plateau)) ++apex;
+    // On a plateau, the first point at steady cornering: the least longitudinal acceleration in
+    // size over the plateau's points from its first on (the first of equals). The plateau's first
+    // point is where the braking before it ends, and its acceleration (the speeds' central
+    // difference across that kink) is half the braking's, which its axle reading took in (a
+    // helper's review: an arc at 0 g read `rear` at the apex where all 376 points after it read
+    // `front`). A single lowest point is the apex itself.
+    if (lap.long_accel_mps2.size() == lap.speed_mps.size())
+      for (std::size_t i = apex + 1, steadiest = apex;
+           i <= c.end && lap.speed_mps[i] <= lowest * (1.0 + apex_plateau); ++i)
+        if (std::abs(lap.long_accel_mps2[i]) < std::abs(lap.long_accel_mps2[steadiest]))
+          apex = steadiest = i;
     r.start_m = mesh.s_m[c.start];
     r.apex_m = mesh.s_m[apex];
     r.end_m = mesh.s_m[c.end];

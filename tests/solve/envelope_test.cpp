@@ -8,9 +8,11 @@
 
 #include "lapwing/base/error.hpp"
 #include "lapwing/base/units.hpp"
+#include "lapwing/io/car_file.hpp"
 #include "lapwing/model/powertrain.hpp"
 #include "lapwing/solve/envelope.hpp"
 #include "lapwing/solve/solver.hpp"
+#include "lapwing/solve/summary.hpp"
 #include "test_support.hpp"
 
 using namespace lapwing;
@@ -152,4 +154,41 @@ TEST_CASE("an Envelope's drive rows are the same kept for its powertrain as buil
     CHECK(o.first != built.first);  // a powertrain of its own: rows of its own
   }
   CHECK(rows(car) == built);  // built again
+}
+
+TEST_CASE("a ride-height map's off-map speeds are spans whose ends the map's own solve confirms") {
+  // The FR-2's high_map on springs a fifth as stiff: its ride heights leave the map's grid at
+  // speed. Each span's finite end is where solve_ride_heights (model/aero.hpp, from the static
+  // heights) turns its off-map flag, to the bisection's 1e-6 m/s: 1e-3 m/s either side of it
+  // the flags differ. The note names the spans; its share of a lap reads the same test.
+  const Car file = load_car(test::source_path("cars/pellion-fr2.yaml"));
+  const ConfiguredCar soft =
+      file.configured(static_cast<std::size_t>(file.config_index("high_map")))
+          .changed([](Car&, AeroConfig& a) {
+            a.map->stiffness_front_npm /= 5.0;
+            a.map->stiffness_rear_npm /= 5.0;
+          });
+  const Envelope env(soft, test::sea_level);
+  REQUIRE_FALSE(env.off_map_spans().empty());
+  const RideHeightMap& m = *soft.aero().map;
+  const auto off = [&](double v) {
+    return solve_ride_heights(m, v, test::sea_level.density_kg_m3, soft.car().drag_height_m,
+                              soft.car().wheelbase_m, m.static_front_m, m.static_rear_m)
+        .off_map;
+  };
+  for (const Envelope::SpeedSpan& sp : env.off_map_spans()) {
+    if (sp.lo_mps > 0.0) {
+      CHECK_FALSE(off(sp.lo_mps - 1e-3));
+      CHECK(off(sp.lo_mps + 1e-3));
+    }
+    if (std::isfinite(sp.hi_mps)) {
+      CHECK(off(sp.hi_mps - 1e-3));
+      CHECK_FALSE(off(sp.hi_mps + 1e-3));
+    }
+  }
+  bool noted = false;
+  for (const RangeNote& n : range_notes(env))
+    noted = noted || (n.kind == RangeNote::Kind::off_map &&
+                      n.text.find("a ride height is off the map (from ") == 0);
+  CHECK(noted);
 }

@@ -99,6 +99,38 @@ TEST_CASE("a straight into a head wind tops out where P = k (v + w)^2 v (REFEREN
   }
 }
 
+TEST_CASE("a tail wind faster than the car turns its drag, and the drag moment loads the front") {
+  // A standing start with a 20 m/s tail wind: at the start the air flows from behind, drag =
+  // -q CdA (q = rho w^2 / 2) pushes the car on, and its moment about the ground, D z_D / L, moves
+  // load to the front: the front share of the aero load is (L bal - D z_D / L) / L, above bal
+  // (the axle loads' moment balance: README, "Physics and assumptions"). It read bal - |D|
+  // z_D / (L L) whatever the drag's sign (a helper's finding), where the trace's own axle loads
+  // had it right.
+  Car car = test::plain_car(700.0, 1.6, 300e3);
+  AeroConfig& a = car.configs.front();
+  a.cda_m2 = {1.2};
+  a.cla_m2 = {3.6};
+  a.balance = {0.42};
+  car.drag_height_m = 0.42;
+  Track t = test::straight_track(75.0, 0.1, 0.0);
+  t.wind = Wind{20.0, 270.0 * units::deg};  // from -x: a tail wind on a heading of +x
+  const Circuit c = lay_out(t, sea_level);
+  const LapRun run = run_lap(test::configured(car), c);
+  const Lap& lap = run.lap;
+  const double q = 0.5 * sea_level.density_kg_m3 * 20.0 * 20.0;
+  REQUIRE(near(lap.drag_n[0], -q * 1.2, 1e-12));
+  REQUIRE(near(lap.downforce_n[0], q * 3.6, 1e-12));
+  const double wb = car.wheelbase_m;
+  const double lift = lap.downforce_n[0], drag = lap.drag_n[0];
+  CHECK(near(lap.aero_balance_eff[0], (lift * 0.42 - drag * 0.42 / wb) / lift, 1e-12));
+  CHECK(lap.aero_balance_eff[0] > 0.42);
+  // Once the car outruns the wind the drag pulls back again and the moment unloads the front.
+  const std::size_t fast = lap.speed_mps.size() - 1;
+  REQUIRE(lap.speed_mps[fast] > 20.0);
+  CHECK(lap.drag_n[fast] > 0.0);
+  CHECK(lap.aero_balance_eff[fast] < 0.42);
+}
+
 TEST_CASE("a natural engine at 2000 m tops out at its J1349 power: v^3 = P / (CF k)") {
   // SAE J1349 (June 1990): P_site = P_ref / CF, CF = 1.18 (99 kPa / p_dry) sqrt(T / 298) - 0.18,
   // in the ISO 2533 air at 2000 m (dry); drag only, so P_site = k v^3 with k = rho CdA / 2.

@@ -16,6 +16,29 @@
 using namespace lapwing;
 using lapwing::test::near;
 
+namespace {
+// A lap of a bundled car's first config on the axle model, and its summary.
+struct AxleLap {
+  Track track;
+  Mesh mesh;
+  Lap lap;
+  std::vector<CornerSpan> spans;
+  LapSummary summary;
+};
+AxleLap axle_lap(const std::string& car_file, const std::string& track_file) {
+  Car car = load_car(test::source_path(car_file)).configured(0).car();
+  car.model = VehicleModel::axle;
+  AxleLap a;
+  a.track = load_track(test::source_path(track_file));
+  const Envelope env(test::configured(car), make_air(a.track.air));
+  a.mesh = build_mesh(a.track, a.track.mesh_m);
+  a.lap = solve_lap(env, a.mesh);
+  a.spans = find_corners(a.mesh);
+  a.summary = summarize(a.lap, a.mesh, a.track, a.spans, env);
+  return a;
+}
+}  // namespace
+
 TEST_CASE("sector times add up to the lap; corners hold their apex; shares are fractions") {
   const Car car = load_car(test::source_path("cars/caldra-gt.yaml")).configured(1).car();
   const Track track = load_track(test::source_path("tracks/saltmere-flats.yaml"));
@@ -51,13 +74,10 @@ TEST_CASE("the limiting axle is front, rear or both within the neutral band, bes
   CHECK(limiting_axle(-0.0201) == Axle::rear);
   // On a lap each corner's labels are read from the trace's balance_index at the same points.
   // The axle model, where each axle's usage sets the limits and the labels matter most.
-  Car car = load_car(test::source_path("cars/caldra-gt.yaml")).configured(0).car();
-  car.model = VehicleModel::axle;
-  const Track track = load_track(test::source_path("tracks/brannock-park.yaml"));
-  const Envelope env(test::configured(car), make_air(track.air));
-  const Mesh mesh = build_mesh(track, track.mesh_m);
-  const Lap lap = solve_lap(env, mesh);
-  const LapSummary s = summarize(lap, mesh, track, find_corners(mesh), env);
+  const AxleLap a = axle_lap("cars/pellion-fr2.yaml", "tracks/brannock-park.yaml");
+  const Mesh& mesh = a.mesh;
+  const Lap& lap = a.lap;
+  const LapSummary& s = a.summary;
   REQUIRE(!s.corners.empty());
   int both = 0;
   for (const auto& c : s.corners) {
@@ -71,8 +91,8 @@ TEST_CASE("the limiting axle is front, rear or both within the neutral band, bes
     CHECK(c.exit_axle == limiting_axle(c.exit_balance_index));
     both += c.apex_axle == Axle::both;
   }
-  // The sports car's apexes on this track sit near neutral: some fall inside the band (what the
-  // old two-way label called "front" or "rear" on a coin toss of 0.001).
+  // The single-seater's apexes on this track sit near neutral in two corners: they fall inside
+  // the band (what the old two-way label called "front" or "rear" on a coin toss of 0.001).
   CHECK(both > 0);
   // Front-limited corners are those whose apex the front axle limits beyond the band.
   for (const auto& c : s.corners) {
@@ -302,6 +322,43 @@ TEST_CASE("an arc held on its limit has its apex where the plateau starts, whate
     CHECK(summarize(moved, mesh, track, spans, env).corners[k].apex_m == mesh.s_m[later]);
   }
   CHECK(plateaus >= 3);
+}
+
+TEST_CASE("an arc's apex readings are its steady cornering's, not the braking's that ends there") {
+  // The braking before an arc taken on its limit ends at the plateau's first point, whose
+  // longitudinal acceleration (the speeds' central difference) is half the braking's: the axle
+  // reading there is neither the braking's nor the arc's. The apex is the first point of the
+  // plateau at steady cornering, and its readings are those of the arc's other points (the same
+  // speed, curvature and acceleration: the same usage, to rounding).
+  const AxleLap a = axle_lap("cars/caldra-gt.yaml", "tracks/brannock-park.yaml");
+  const Mesh& mesh = a.mesh;
+  const Lap& lap = a.lap;
+  const auto& spans = a.spans;
+  const LapSummary& s = a.summary;
+  const double g = units::g0;
+  int braked_into = 0;
+  for (std::size_t k = 0; k < spans.size(); ++k) {
+    const CornerSpan& c = spans[k];
+    std::size_t first = c.start;
+    for (std::size_t i = c.start; i <= c.end; ++i)
+      if (lap.speed_mps[i] < lap.speed_mps[first]) first = i;
+    std::size_t last = first;
+    while (last + 1 <= c.end && lap.speed_mps[last + 1] == lap.speed_mps[first]) ++last;
+    if (last < first + 10) continue;  // not an arc held on its limit
+    const std::size_t middle = (first + last) / 2;
+    const double steady = lap.front_usage[middle] - lap.rear_usage[middle];
+    CHECK(std::abs(lap.long_accel_mps2[middle]) < 1e-9);
+    CHECK(s.corners[k].apex_m > mesh.s_m[first]);
+    CHECK(s.corners[k].apex_m < mesh.s_m[middle]);
+    CHECK(near(s.corners[k].apex_balance_index, steady, 1e-9));
+    CHECK(s.corners[k].apex_axle == limiting_axle(steady));
+    // The first point's reading, braking, is off the arc's by more than the labels' band.
+    braked_into += lap.long_accel_mps2[first] < -0.02 * g &&
+                   std::abs(lap.front_usage[first] - lap.rear_usage[first] - steady) > 0.02;
+  }
+  // The case the rule is for (this lap: eight arcs whose first point reads -0.04 to -0.09 g,
+  // its balance index 0.05 to 0.10 off the arc's).
+  CHECK(braked_into >= 3);
 }
 
 TEST_CASE(

@@ -141,13 +141,18 @@ class Envelope {
     return !trim_rows_.empty() && abs_curvature_1pm < trim_below_curvature_;
   }
 
-  /// Ride-height map: the operating point at speed v (interpolated between solved speeds), and
-  /// the first speeds at which a ride height leaves the map or reaches zero (negative: never
-  /// within the table). Without a map: the config's coefficients, heights 0.
+  /// Ride-height map: the operating point at speed v (interpolated between solved speeds).
+  /// Without a map: the config's coefficients, heights 0.
   bool has_map() const { return !map_points_.empty(); }
   AeroPoint aero_point(double v) const;
-  double off_map_speed_mps() const { return off_map_speed_; }
-  double grounded_speed_mps() const { return grounded_speed_; }
+  /// The speeds at which a ride height is off the map (or at or below zero), as spans [lo, hi)
+  /// in m/s, their ends found by bisection between the map's solved speeds (to 1e-6 m/s): a
+  /// span from 0 is "below hi", one to the tables' top has hi = infinity.
+  struct SpeedSpan {
+    double lo_mps, hi_mps;
+  };
+  const std::vector<SpeedSpan>& off_map_spans() const { return off_map_spans_; }
+  const std::vector<SpeedSpan>& grounded_spans() const { return grounded_spans_; }
 
   double drive_n(double v) const { return sample(v).drive_n; }
   int gear(double v) const { return gear_[index(v)]; }
@@ -230,7 +235,7 @@ class Envelope {
   double trim_below_curvature_ = 0.0;
   std::vector<AeroPoint> map_points_;  // ride-height solutions every map_dv_ (empty: no map)
   double map_dv_ = 0.0;
-  double off_map_speed_ = -1.0, grounded_speed_ = -1.0;
+  std::vector<SpeedSpan> off_map_spans_, grounded_spans_;
   std::vector<int> gear_;
   std::shared_ptr<const LevelTables> level_;  // shared by copies: the same car and air
 };

@@ -164,7 +164,23 @@ double range_note_share(const Envelope& env, const RangeNote& note, const Lap& l
                         const Mesh& mesh);
 /// The notes that apply anywhere on the lap, each as a warning with the share of the lap
 /// distance it applies on ("...: 12.3 % of the lap distance"). One producer for check and run.
-std::vector<std::string> lap_range_warnings(const Envelope& env, const Lap& lap, const Mesh& mesh);
+/// `speeds`: the lap's lowest and highest speed where known (LapSummary's), so that a note set by
+/// a speed alone (a speed table's ends, the tables' top) is found to apply nowhere without a pass
+/// over the lap.
+struct SpeedRange {
+  double lowest_mps, highest_mps;
+};
+std::vector<std::string> lap_range_warnings(const Envelope& env, const Lap& lap, const Mesh& mesh,
+                                            std::optional<SpeedRange> speeds = std::nullopt);
+
+/// The lap's own warnings, as summarize lists them after the track's: the range notes it
+/// reaches (lap_range_warnings), an axle asked beyond its grip, the tyres past their peak, an
+/// axle held at its lift limit. The middle two read the lap's channels (ChannelSet::all).
+std::vector<std::string> lap_warnings(const Envelope& env, const Lap& lap, const Mesh& mesh);
+/// Of those, the ones a lap's speeds tell (the range notes, a lift hold), in the same order: a
+/// lap without its channels (a sweep's row) gets them whole.
+std::vector<std::string> lap_speed_warnings(const Envelope& env, const Lap& lap, const Mesh& mesh,
+                                            std::optional<SpeedRange> speeds = std::nullopt);
 
 /// Time at distance s along the lap, linear between mesh points.
 double time_at(const Lap& lap, const Mesh& mesh, double s_m);
