@@ -25,7 +25,7 @@ constexpr CsvColumn<GridRow> grid_columns[] = {
 }  // namespace
 
 std::string attribution_note(const Attribution& a) {
-  return a.first_order_reliable ? std::string() : "first-order split not reliable for this step";
+  return a.first_order_reliable ? std::string() : "first-order split not reliable for this pair";
 }
 
 std::string trade_json(const Car& car, const Trade& t, const std::vector<Circuit>& circuits) {
@@ -49,9 +49,12 @@ std::string trade_json(const Car& car, const Trade& t, const std::vector<Circuit
       w.value(*s.breakeven_dcda_per_dcla);
     else
       w.null();
-    // The track's warnings, as summary.json gives a lap's (the trade's laps share them).
+    // The track's warnings, then the config's own lap's, as summary.json gives a lap's (the
+    // trade's laps share the track's; its perturbed laps are this lap moved a little).
     w.key("warnings").begin_array();
     for (const std::string& text : track_warnings(circuits[s.track].track)) w.value(text);
+    for (const std::string& text : t.own_warnings[s.track * car.configs.size() + s.config])
+      w.value(text);
     w.end_array();
     w.end_object();
   }
@@ -124,9 +127,15 @@ std::string trade_table(const Car& car, const Trade& t, const std::vector<Circui
                          rows);
   o += "\nexchange rate: +1 m2 of ClA pays while it costs less than the last column in CdA (-: no "
        "exchange, where downforce does not pay or drag does not cost)\n";
-  for (const Circuit& c : circuits)
+  for (std::size_t k = 0; k < circuits.size(); ++k) {
+    const Circuit& c = circuits[k];
     for (const std::string& w : track_warnings(c.track))
       o += "warning: " + c.track.id + ": " + w + "\n";
+    // Each config's own lap's (every config's is laped: the attributions read them all).
+    for (std::size_t cfg = 0; cfg < car.configs.size(); ++cfg)
+      for (const std::string& w : t.own_warnings[k * car.configs.size() + cfg])
+        o += "warning: " + c.track.id + ", " + car.configs[cfg].name + ": " + w + "\n";
+  }
   const TextTable a = attribution_table(car, t, circuits);
   if (!a.rows.empty()) o += "\n" + attribution_caption() + "\n" + text_table(a.header, a.rows);
   return o;

@@ -8,6 +8,8 @@
 #include "lapwing/base/error.hpp"
 #include "lapwing/base/format.hpp"
 #include "lapwing/solve/envelope.hpp"
+#include "lapwing/solve/summary.hpp"
+#include "lapwing/study/fit.hpp"
 #include "lapwing/study/thread_pool.hpp"
 
 namespace lapwing {
@@ -108,13 +110,27 @@ std::optional<Violation> TradeOptions::validate() const {
 
 namespace {
 
+// The least value of a grid axis the traded config can take and stay a car: its rows scaled
+// (moved_to) so that a straight-line trim's change keeps them within the car file's rules
+// (fit_bounds' factors: a trim of -0.9 m2 ClA once met an axis down to 0 and the trade failed
+// with the car file's error at 0 km/h, naming no grid: a helper's finding); a zero area, moved
+// in m2, at least the trim's change.
+double axis_floor(const ConfiguredCar& base, Knob knob, double at, bool zero) {
+  const FitParameter p = knob == Knob::cla ? FitParameter::cla : FitParameter::cda;
+  if (zero) {
+    const StraightTrim trim = base.aero().trim.value_or(StraightTrim{});
+    return std::max(0.0, -(knob == Knob::cla ? trim.dcla_m2 : trim.dcda_m2));
+  }
+  return at * fit_bounds(base, p).lo;
+}
+
 // The grid's axis for one coefficient on one track: every config's operating point and +-span
 // around the traded config's, widened by grid_margin of that range on each side. A zero area
 // (a car without downforce) is moved in m2 as `varied` moves it: up to span m2 above zero. No
 // axis goes below zero (a negative ClA or CdA is no car), and drag areas stay above half the
 // smallest config's (a car with no drag has no top speed).
 std::vector<double> grid_axis(double base, bool zero, const std::vector<double>& configs,
-                              const TradeOptions& o, bool is_drag) {
+                              const TradeOptions& o, bool is_drag, double floor) {
   double lo = zero ? 0.0 : base * (1.0 - o.grid_span);
   double hi = zero ? o.grid_span : base * (1.0 + o.grid_span);
   for (double v : configs) {
@@ -125,7 +141,7 @@ std::vector<double> grid_axis(double base, bool zero, const std::vector<double>&
   lo -= pad;
   hi += pad;
   const double smallest = *std::min_element(configs.begin(), configs.end());
-  lo = std::max(lo, is_drag ? std::max(0.0, 0.5 * smallest) : 0.0);
+  lo = std::max({lo, is_drag ? std::max(0.0, 0.5 * smallest) : 0.0, floor});
   std::vector<double> axis;
   const int g = o.grid_points;
   for (int i = 0; i < g; ++i) axis.push_back(lo + (hi - lo) * i / (g - 1));
@@ -175,17 +191,26 @@ Trade trade(const Car& car, const std::vector<std::size_t>& configs,
                               " (run laps the config as given)"});
     }
   }
-  auto solve = [&](std::vector<double>& times, std::vector<AeroOperatingPoint>& ops) {
+  // Per job: a config's own lap's warnings.
+  using Warnings = std::vector<std::vector<std::string>>;
+  auto solve = [&](std::vector<double>& times, std::vector<AeroOperatingPoint>& ops,
+                   Warnings& warnings) {
     times.assign(jobs.size(), 0.0);
     ops.assign(jobs.size(), AeroOperatingPoint{0.0, 0.0});
+    warnings.assign(jobs.size(), {});
     parallel_for(jobs.size(), threads, [&](std::size_t k, LapSolver& solver) {
-      // The lap time alone (no channels), and for a config's own lap its operating point.
+      // The lap time alone (no channels), and for a config's own lap its operating point and
+      // its warnings (with its channels: an axle beyond its grip reads them), as run gives them.
       // The base car is valid (checked above); its variations may leave the files' ranges.
       try {
-        const Envelope env(Envelope::Unchecked{}, jobs[k].car, circuits[jobs[k].track].air);
-        const Lap& lap = solve_speed_only(env, circuits[jobs[k].track], solver);
-        if (jobs[k].own) ops[k] = operating_point(env, lap);
+        const Circuit& circuit = circuits[jobs[k].track];
+        const Envelope env(Envelope::Unchecked{}, jobs[k].car, circuit.air);
+        const Lap& lap = solve_speed_only(env, circuit, solver);
         times[k] = lap.lap_time_s;
+        if (jobs[k].own) {
+          ops[k] = operating_point(env, lap);
+          warnings[k] = lap_warnings(env, solver.add_channels(env, circuit.mesh), circuit.mesh);
+        }
       } catch (const CannotMove& e) {
         const Track& track = circuits[jobs[k].track].track;
         throw cannot_move_in(e, track.name, track.file,
@@ -195,7 +220,8 @@ Trade trade(const Car& car, const std::vector<std::size_t>& configs,
   };
   std::vector<double> times;
   std::vector<AeroOperatingPoint> ops;
-  solve(times, ops);
+  Warnings warnings;
+  solve(times, ops, warnings);
   const std::size_t per_track = ncfg + 8 * configs.size();
 
   // The grids: per track, the first traded config moved over ClA x CdA.
@@ -215,8 +241,10 @@ Trade trade(const Car& car, const std::vector<std::size_t>& configs,
       const AeroOperatingPoint& p0 = ops[t * per_track + c0];
       TradeGrid grid{t,
                      c0,
-                     grid_axis(p0.cla_m2, zero_cla, clas, o, false),
-                     grid_axis(p0.cda_m2, zero_cda, cdas, o, true),
+                     grid_axis(p0.cla_m2, zero_cla, clas, o, false,
+                               axis_floor(base, Knob::cla, p0.cla_m2, zero_cla)),
+                     grid_axis(p0.cda_m2, zero_cda, cdas, o, true,
+                               axis_floor(base, Knob::cda, p0.cda_m2, zero_cda)),
                      {}};
       for (double cla : grid.cla_m2)
         for (double cda : grid.cda_m2)
@@ -231,7 +259,8 @@ Trade trade(const Car& car, const std::vector<std::size_t>& configs,
     jobs = std::move(grid_jobs);
     std::vector<double> grid_times;
     std::vector<AeroOperatingPoint> unused;
-    solve(grid_times, unused);
+    Warnings none;
+    solve(grid_times, unused, none);
     const std::size_t nodes = static_cast<std::size_t>(g) * static_cast<std::size_t>(g);
     for (std::size_t t = 0; t < nt; ++t)
       grids[t].lap_time_s.assign(grid_times.begin() + static_cast<std::ptrdiff_t>(t * nodes),
@@ -249,6 +278,7 @@ Trade trade(const Car& car, const std::vector<std::size_t>& configs,
                                              ops.begin() + static_cast<std::ptrdiff_t>(k + ncfg));
     out.operating.insert(out.operating.end(), op.begin(), op.end());
     out.own_lap_time_s.insert(out.own_lap_time_s.end(), own.begin(), own.end());
+    for (std::size_t c = 0; c < ncfg; ++c) out.own_warnings.push_back(warnings[k + c]);
     k += ncfg;
     std::vector<Sensitivity> here;
     for (std::size_t c : configs) {

@@ -235,7 +235,7 @@ TEST_CASE("trade prints no shares of a total under 0.05 s and flags a split the 
   CHECK(line_of("a -> b").find('%') == std::string::npos);
   CHECK(line_of("a -> c").find('%') != std::string::npos);
   CHECK(line_of("a -> c").find("not reliable") == std::string::npos);
-  CHECK(line_of("a -> d").find("first-order split not reliable for this step") !=
+  CHECK(line_of("a -> d").find("first-order split not reliable for this pair") !=
         std::string::npos);
   // Only the changes to or from the traded config (a) are printed, and the caption says so
   // and where the rest are (README, "Commands"); trade.json holds all six pairs.
@@ -248,7 +248,7 @@ TEST_CASE("trade prints no shares of a total under 0.05 s and flags a split the 
   // trade.json: the same flag as a boolean and the words.
   const std::string json = trade_json(car, t, circuits);
   CHECK(json.find("\"first_order_reliable\": false") != std::string::npos);
-  CHECK(json.find("\"note\": \"first-order split not reliable for this step\"") !=
+  CHECK(json.find("\"note\": \"first-order split not reliable for this pair\"") !=
         std::string::npos);
 }
 
@@ -392,4 +392,49 @@ TEST_CASE("a closed lap that ends above its start warns in every lap: run, compa
   CHECK(run_lap(test::configured(car), level.front()).summary.warnings.empty());
   CHECK(trade_table(car, trade(car, {0}, level, TradeOptions{0.02, 3, 0.15}, 1), level)
             .find("warning") == std::string::npos);
+}
+
+TEST_CASE("trade carries each config's own lap's warnings, as run gives them") {
+  // The point mass on Cairnholt: every config's rear axle reads beyond its grip (the point
+  // mass's warning, summary.cpp), and the speed table's config runs below its first row. A trade
+  // stands on those laps (its perturbed laps are them moved by the step), so it says what run
+  // says of each: in its text for every config, in trade.json beside the traded one's figures.
+  Car car = load_car(test::source_path("cars/pellion-fr2.yaml"));
+  car.model = VehicleModel::point_mass;
+  const std::vector<Circuit> circuits{test::bundled_circuit("tracks/cairnholt.yaml")};
+  const std::size_t table = static_cast<std::size_t>(car.config_index("medium_table"));
+  const Trade t = trade(car, {table}, circuits, TradeOptions{0.02, 3, 0.15}, 2);
+  REQUIRE(t.own_warnings.size() == car.configs.size());
+  const std::string text = trade_table(car, t, circuits);
+  const std::string json = trade_json(car, t, circuits);
+  std::size_t warned = 0;
+  for (std::size_t c = 0; c < car.configs.size(); ++c) {
+    const LapSummary s = run_lap(car.configured(c), circuits.front()).summary;
+    const std::size_t from_track = track_warnings(circuits.front().track).size();
+    const std::vector<std::string> own(s.warnings.begin() + static_cast<std::ptrdiff_t>(from_track),
+                                       s.warnings.end());
+    CHECK(t.own_warnings[c] == own);
+    for (const std::string& w : own) {
+      CHECK(text.find("warning: cairnholt, " + car.configs[c].name + ": " + w) !=
+            std::string::npos);
+      if (c == table) CHECK(json.find("\"" + w + "\"") != std::string::npos);
+    }
+    warned += !own.empty();
+  }
+  CHECK(warned == car.configs.size());
+  CHECK(t.own_warnings[table].size() >= 2);  // the table's range and the axle beyond its grip
+}
+
+TEST_CASE("the trade grid keeps a straight-line trim's car within the file's rules") {
+  // high_trim: ClA 4.3 m2 and a trim of -0.9 m2 on the straights. A grid of span 90 % reached
+  // down to ClA 0, where the trimmed ClA is below 0: the trade failed with the car file's error
+  // at 0 km/h and named no grid (a helper's finding). Its ClA axis now starts where the trimmed
+  // rows stay at 0 or above, 0.9 m2 (4.3 f - 0.9 >= 0, closed form), and the trade runs.
+  const Car car = load_car(test::source_path("cars/pellion-fr2.yaml"));
+  const std::size_t trim = static_cast<std::size_t>(car.config_index("high_trim"));
+  const std::vector<Circuit> circuits{test::bundled_circuit("tracks/skidpad.yaml")};
+  const Trade t = trade(car, {trim}, circuits, TradeOptions{0.02, 3, 0.9}, 2);
+  REQUIRE(t.grids.size() == 1);
+  CHECK(near(t.grids[0].cla_m2.front(), 0.9, 1e-12));
+  for (double lap : t.grids[0].lap_time_s) CHECK(std::isfinite(lap));
 }

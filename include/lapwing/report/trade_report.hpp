@@ -10,7 +10,7 @@
 
 namespace lapwing {
 
-/// "first-order split not reliable for this step" for an attribution whose residual exceeds
+/// "first-order split not reliable for this pair" for an attribution whose residual exceeds
 /// attribution_residual_limit of its total; empty otherwise.
 std::string attribution_note(const Attribution& a);
 /// trade.json: {"lapwing", "car", "step", "results": [...], "attributions": [...]}.

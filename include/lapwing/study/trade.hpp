@@ -89,7 +89,7 @@ struct Attribution {
   double total_s, from_cla_s, from_cda_s, residual_s;
   double delta_cla_m2, delta_cda_m2;  // ClA_b - ClA_a, CdA_b - CdA_a
   /// |residual| <= attribution_residual_limit |total|; otherwise the first-order split does not
-  /// explain this step ("first-order split not reliable for this step").
+  /// explain this pair of configs ("first-order split not reliable for this pair").
   bool first_order_reliable;
 };
 /// A residual above this share of the total marks the split as not reliable.
@@ -104,6 +104,9 @@ struct Trade {
   std::vector<Attribution> attributions;      // every pair of the car's configs, per track
   std::vector<AeroOperatingPoint> operating;  // per track, every config of the car (track-major)
   std::vector<double> own_lap_time_s;         // the same configs' own lap times
+  // The same configs' own laps' warnings (lap_warnings: what run prints for that lap, beyond
+  // the track's): the sensitivities of a lap read beyond its data stand on that lap.
+  std::vector<std::vector<std::string>> own_warnings;
 };
 
 /// The trade of `configs` (indices into car.configs, the first also the grid's). Bad options
