@@ -552,10 +552,11 @@ StoreCounts store_counts(const std::string& file) {
               "SELECT (SELECT count(*) FROM laps), "
               "(SELECT coalesce(sum(status != 'ok'), 0) FROM laps), "
               "(SELECT points FROM study) * (SELECT count(*) FROM tracks) * "
-              "(SELECT count(*) FROM configs)");
+              "(SELECT count(*) FROM configs), "
+              "(SELECT coalesce(sum(status = 'ok' AND message != ''), 0) FROM laps)");
   s.step();
   return {static_cast<std::size_t>(s.integer(0)), static_cast<std::size_t>(s.integer(1)),
-          static_cast<std::size_t>(s.integer(2))};
+          static_cast<std::size_t>(s.integer(2)), static_cast<std::size_t>(s.integer(3))};
 }
 
 namespace {
@@ -685,8 +686,8 @@ void export_csv(const std::string& file, const std::string& csv_file) {
     }
   }
   Statement s(c,
-              "SELECT laps.* FROM laps JOIN tracks USING (track) "
-              "ORDER BY point, track_index, config");
+              "SELECT laps.* FROM laps JOIN tracks USING (track) JOIN configs USING (config) "
+              "ORDER BY point, track_index, config_index");
   std::string out;
   for (int i = 0; i < s.columns(); ++i) {
     if (i) out += ',';

@@ -117,6 +117,21 @@ SweepSet parse_set(std::string_view text) {
     if (b == std::string_view::npos) break;
     a = b + 1;
   }
+  // The set's column holds each value's number (README, "Sweep"): numbers in two units, or some
+  // with a unit and some without, would sit in one column as if in one (a review's finding:
+  // mass=700kg,1550lb stored 700 and 1550). As a range's ends, every number in one unit.
+  std::optional<std::string> unit;
+  for (const std::string& item : s.items)
+    if (const auto num = split_number(item)) {
+      if (unit && *unit != num->unit)
+        bad(subject,
+            "give every number of the list in one unit ('" + *unit + "' and '" + num->unit +
+                "'; a number without a unit is in the key's own): the set's column holds the "
+                "numbers as typed",
+            s.key);
+      unit = num->unit;
+    }
+  s.unit = unit.value_or("");  // the list's one unit, as a range's (the table's header, the store)
   return s;
 }
 
@@ -324,6 +339,11 @@ SweepOutcome run_sweep(const SweepPlan& plan, const std::vector<Circuit>& circui
               r.lowest_front_share_fast = s.balance.lowest_front_share_fast;
             if (env.car().balance_window)
               r.window = window_verdict(*env.car().balance_window, lap, circuits[t].mesh);
+            // The lap's warnings its speeds tell (a table's rows left behind, a lift hold), as
+            // run gives them: a row of a lap read beyond its data says so.
+            for (const std::string& w : lap_speed_warnings(
+                     env, lap, circuits[t].mesh, SpeedRange{s.min_speed_mps, s.top_speed_mps}))
+              r.message += (r.message.empty() ? "" : "; ") + w;
           } catch (const CannotMove& e) {
             // A point that cannot lap is a result of the study, not a stop (README, "Sweep").
             r.ok = false;

@@ -33,6 +33,10 @@ export_csv "$tmp/t1.sqlite" "$tmp/t1.csv" && export_csv "$tmp/t2.sqlite" "$tmp/t
 [ "$(wc -l < "$tmp/t1.csv")" = 41 ] && ok || bad "expected 41 lines, got $(wc -l < "$tmp/t1.csv")"
 [ "$(head -n 1 "$tmp/t1.csv")" = "point,track,config,mass,tyres.mu_lat,lap_time_s,top_speed_kph,min_speed_kph,full_throttle_fraction,braking_fraction,min_front_share_200kph,balance_window,status,message" ] &&
   ok || bad "csv header: $(head -n 1 "$tmp/t1.csv")"
+# Rows by point, then track and config each in the study's order (--config low --config high:
+# low first, where the names' own order puts high first).
+[ "$(sed -n 2,5p "$tmp/t1.csv" | cut -d, -f1-3 | tr '\n' ' ')" = "0,skidpad,low 0,skidpad,high 0,acceleration,low 0,acceleration,high " ] &&
+  ok || bad "export's row order: $(sed -n 2,5p "$tmp/t1.csv" | cut -d, -f1-3 | tr '\n' ' ')"
 cmp -s "$tmp/t1.csv" "$tmp/t2.csv" && ok || bad "threads change the rows"
 cmp "$tmp/t1.sqlite" "$tmp/t2.sqlite" && ok || bad "the results stores of --threads 1 and 2 differ"
 # --threads=2 is left out too, and the command is otherwise the one typed.
@@ -331,6 +335,24 @@ sed '0,/grade: -6 %/s//grade: 6 %/' tracks/cairnholt.yaml > "$tmp/flip.yaml"
 "$bin" sweep --car "$car" --track tracks/cairnholt.yaml --config medium --set mass=700kg:720kg:2 \
   --out "$tmp/sound.sqlite" > "$tmp/sound.txt" 2>&1
 grep -q "^warning:" "$tmp/sound.txt" && bad "sweep: a warning on a sound track: $(cat "$tmp/sound.txt")" || ok
+
+# A set of a config's key where that config is not run, nor blended into a run family: every
+# point's laps alike, warned of; with the config run, or a family of it (front_flap blends
+# flap7), no warning.
+"$bin" sweep --car cars/pellion-fr2.yaml --track tracks/skidpad.yaml \
+  --set aero.configs.medium.cla=3.0:4.0:2 --out "$tmp/idle.sqlite" > "$tmp/idle.txt" 2>&1 &&
+  grep -q "^warning: --set aero.configs.medium.cla=3.0:4.0:2 changes config medium, which this sweep does not run (configs: low)" "$tmp/idle.txt" &&
+  ok || bad "a set of a config not run: $(cat "$tmp/idle.txt")"
+for run in "--config medium" "--config front_flap --set aero.configs.flap7.cla=3.5"; do
+  rm -f "$tmp/used.sqlite"
+  # shellcheck disable=SC2086
+  "$bin" sweep --car cars/pellion-fr2.yaml --track tracks/skidpad.yaml \
+    --set aero.configs.medium.cla=3.0:4.0:2 $run --out "$tmp/used.sqlite" > "$tmp/used.txt" 2>&1
+  case "$run" in
+    *front_flap*) grep -q "changes config flap7" "$tmp/used.txt" && bad "a family's config warned of: $(cat "$tmp/used.txt")" || ok ;;
+    *) grep -q "changes config" "$tmp/used.txt" && bad "a config run warned of: $(cat "$tmp/used.txt")" || ok ;;
+  esac
+done
 
 echo "sweep: $pass passed, $fail failed"
 [ "$fail" = 0 ]

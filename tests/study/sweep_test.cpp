@@ -12,6 +12,8 @@
 #include <vector>
 
 #include "lapwing/base/error.hpp"
+#include "lapwing/io/car_file.hpp"
+#include "lapwing/solve/summary.hpp"
 #include "lapwing/study/sweep.hpp"
 #include "test_support.hpp"
 
@@ -33,11 +35,11 @@ TEST_CASE("a range with units gives count values from start to stop, ends as typ
 }
 
 TEST_CASE("a list keeps each value's unit, and a word stays a word") {
-  const SweepSet s = parse_set("aero.configs.medium.cla = 3.0, 3.5 m2,axle");
+  const SweepSet s = parse_set("aero.configs.medium.cla = 3.0 m2, 3.5 m2,axle");
   CHECK(s.key == "aero.configs.medium.cla");
   const std::vector<SetValue> v = grid_values(s);
   REQUIRE(v.size() == 3);
-  CHECK(v[0].text == "3");
+  CHECK(v[0].text == "3 m2");
   CHECK(v[1].text == "3.5 m2");
   CHECK_FALSE(v[2].number);
   CHECK(v[2].text == "axle");
@@ -56,6 +58,14 @@ TEST_CASE("bad sets, designs and shards are refused with the text given") {
   CHECK(message([] { parse_set("mass=600kg:0.7t:3"); }).find("one unit") != std::string::npos);
   CHECK(message([] { parse_set("mass=600:700:0"); }).find("whole number") != std::string::npos);
   CHECK(message([] { parse_set("mass=600,,700"); }).find("empty value") != std::string::npos);
+  // A list's numbers in one unit, as a range's ends: its column holds them as typed (700 kg
+  // and 1550 lb would read 700 and 1550 there), and a number without a unit is in the key's.
+  CHECK(message([] { parse_set("mass=700kg,1550lb"); }).find("one unit ('kg' and 'lb'") !=
+        std::string::npos);
+  CHECK(message([] { parse_set("mass=700,710kg"); }).find("one unit ('' and 'kg'") !=
+        std::string::npos);
+  CHECK(message([] { parse_set("model=axle,point-mass"); }) == "no error");
+  CHECK(message([] { parse_set("mass=700 kg,axle,710kg"); }) == "no error");
   CHECK(message([] { parse_design("lhs"); }).find("number of points") != std::string::npos);
   CHECK(message([] { parse_design("random:4"); }).find("grid, lhs:N") != std::string::npos);
   CHECK(message([] { parse_shard("5/4"); }).find("1 <= K <= N") != std::string::npos);
@@ -229,4 +239,36 @@ TEST_CASE("each row holds the lap against the car's balance window: pass, fail, 
         std::vector<std::optional<WindowResult>>{WindowResult::not_reached});
   // No window: no result (a NULL in the store).
   CHECK(window_rows(std::nullopt) == std::vector<std::optional<WindowResult>>{std::nullopt});
+}
+
+TEST_CASE("an ok row's message holds the warnings run gives its lap from its speeds") {
+  // The Pellion FR-2's speed-table config on Brannock Park: its table begins at 100 km/h and
+  // the lap's hairpins are slower, so run warns that the first row's values are held below it
+  // (summary.cpp, lap_range_warnings). A sweep's row of the same car says the same in its
+  // message; a config of constant coefficients has none.
+  struct Sink : SweepSink {
+    std::vector<SweepRow> got;
+    bool has(std::size_t) const override { return false; }
+    void commit(const std::vector<SweepRow>& r) override {
+      got.insert(got.end(), r.begin(), r.end());
+    }
+  } sink;
+  const Circuit circuit = test::bundled_circuit("tracks/brannock-park.yaml");
+  const Car car = load_car(test::source_path("cars/pellion-fr2.yaml"));
+  const SweepPlan plan({parse_set("mass=640kg")}, {});
+  run_sweep(plan, {circuit}, {"medium_table", "medium"}, [&](std::size_t) { return car; }, sink,
+            {});
+  REQUIRE(sink.got.size() == 2);
+  for (const SweepRow& row : sink.got) {
+    REQUIRE(row.ok);
+    const std::size_t c =
+        static_cast<std::size_t>(car.config_index(row.config == 0 ? "medium_table" : "medium"));
+    const LapSummary s = run_lap(car.configured(c), circuit).summary;
+    std::string want;
+    for (std::size_t k = track_warnings(circuit.track).size(); k < s.warnings.size(); ++k)
+      want += (want.empty() ? "" : "; ") + s.warnings[k];
+    CHECK(row.message == want);
+  }
+  CHECK(sink.got[0].message.find("below the speed table's first row") != std::string::npos);
+  CHECK(sink.got[1].message.empty());
 }

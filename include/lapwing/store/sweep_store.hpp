@@ -87,6 +87,7 @@ std::vector<BestPoint> best_points(const std::string& file);
 /// (points x tracks x configs).
 struct StoreCounts {
   std::size_t rows = 0, not_ok = 0, expected = 0;
+  std::size_t warned = 0;  // ok laps with a warning (their message)
 };
 StoreCounts store_counts(const std::string& file);
 

@@ -31,7 +31,7 @@ struct SweepSet {
   std::vector<std::string> items;  // list: each value's text as given (trimmed)
   double start = 0.0, stop = 0.0;  // range: the ends, in `unit`
   int count = 0;                   // range: values on a grid (0: not given)
-  std::string unit;                // range: the ends' unit ("" for none)
+  std::string unit;                // the ends' unit, or the list's numbers' ("" for none)
 };
 /// Parses "KEY=VALUES". Bad text is an InvalidInput whose subject is "--set TEXT".
 SweepSet parse_set(std::string_view text);
@@ -109,7 +109,7 @@ std::vector<double> sobol_points(std::size_t n, std::size_t dims);
 struct SweepRow {
   std::size_t point, track, config;  // indices: the plan's point, the circuit, the config list
   bool ok = true;                    // false: the car cannot complete the track (message says)
-  std::string message;
+  std::string message;  // why it cannot, or an ok lap's warnings ("; " between; "" for none)
   double lap_time_s = 0, top_speed_kph = 0, min_speed_kph = 0;
   double full_throttle_fraction = 0, braking_fraction = 0;
   std::optional<double> lowest_front_share_fast;  // accelerating above 200 km/h, when it does
