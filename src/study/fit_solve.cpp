@@ -526,6 +526,25 @@ FitResult fit(const ConfiguredCar& car, const std::vector<FitLog>& logs,
         "its standard error does not hold at a bound");
   }
 
+  // A fit that still misses the logs by far, or a factor far from the file's: figures to read
+  // with doubt (a helper's campaign: a log 30 % faster fitted with mass x0.344, 220 kg for a
+  // 640 kg car, and RMS 7.4 km/h after, without a word; grip alone x1.67 and 14.6 km/h).
+  if (units::to_kph(out.rms_after_mps_all) > fit_poor_rms_kph)
+    out.warnings.push_back(
+        "the fitted car still misses the logs by " +
+        fixed(units::to_kph(out.rms_after_mps_all), 2) + " km/h RMS (over " +
+        fixed(fit_poor_rms_kph, 0) +
+        " km/h): these factors do not make the car the logged one; the logs may be of another "
+        "car, config or track, or a factor not freed is off (correlate shows where the laps "
+        "part)");
+  for (std::size_t j = 0; j < np; ++j)
+    if (params[j] != FitParameter::balance && std::abs(x[j] - 1.0) > fit_far_factor)
+      out.warnings.push_back(std::string(fit_parameter_name(params[j])) + " moved to x" +
+                             fixed(x[j], 3) + " of the car file's, more than " +
+                             fixed(100.0 * fit_far_factor, 0) +
+                             " % off: beyond a set-up change; check that the logs are of this "
+                             "car and config and the files' units before using the fitted car");
+
   // Covariance of the parameters: Ceres gives (J^T J)^-1 for unit-variance residuals; scaled by
   // the residuals' variance, s^2 = 2 cost / (N - P) (cost = 1/2 sum rho(r^2), the robust one).
   const double nan = std::numeric_limits<double>::quiet_NaN();

@@ -103,6 +103,11 @@ TEST_CASE("fit recovers the grip, power and drag area of the car that wrote a no
   // Symmetric to the bit (Ceres's covariance halves differ in their last bits: averaged).
   for (std::size_t i = 0; i < 3; ++i)
     for (std::size_t j = 0; j < 3; ++j) CHECK(r.correlation[i][j] == r.correlation[j][i]);
+  // A good fit near the file's car: no doubt about the result's size or its misfit.
+  for (const std::string& w : r.warnings) {
+    CHECK(w.find("moved to x") == std::string::npos);
+    CHECK(w.find("still misses the logs") == std::string::npos);
+  }
 }
 
 TEST_CASE("with a tyre model the true car does not share, fit still more than halves the RMS") {
@@ -301,10 +306,16 @@ TEST_CASE("fit keeps each factor within the car file's rules, and says when it e
   REQUIRE(r.values.size() == 1);
   CHECK(r.values[0] >= 0.0);
   CHECK(r.values[0] <= 1e-9);
-  bool said = false;
-  for (const std::string& w : r.warnings)
+  bool said = false, far = false, poor = false;
+  for (const std::string& w : r.warnings) {
     said = said || w.find("cda ended at its least value within the car file's rules") == 0;
+    // And a factor that far from the file's is warned of as such, with the RMS it leaves.
+    far = far || w.find("cda moved to x0.000 of the car file's, more than 30 % off") == 0;
+    poor = poor || w.find("the fitted car still misses the logs by") == 0;
+  }
   CHECK(said);
+  CHECK(far);
+  CHECK(poor == (units::to_kph(r.rms_after_mps_all) > fit_poor_rms_kph));
 }
 
 TEST_CASE("a fit that stops at its iteration limit, or whose factors are a group, says so") {

@@ -58,6 +58,14 @@ struct FitLog {
   const LoggedSpeed* log;
 };
 
+/// What a fit's result is read with: an RMS speed error after the fit beyond fit_poor_rms_kph
+/// (the bundled log's fits leave 0.5 km/h; a logged speed's noise is some 0.5 km/h, common
+/// practice, from memory), or a factor moved by more than fit_far_factor of the file's value
+/// (more than a set-up change or a car's spread: another car, track or unit is likelier), is a
+/// warning. The project's own limits.
+inline constexpr double fit_poor_rms_kph = 3.0;
+inline constexpr double fit_far_factor = 0.3;
+
 struct FitOptions {
   /// Relative step of the central differences, df/dp = (f(p + h) - f(p - h)) / 2h at h = 1 %
   /// of the factor (0.01 added to the balance): the speed trace moves in steps where the
