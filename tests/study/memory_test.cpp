@@ -105,6 +105,31 @@ TEST_CASE("the estimate adds the parts: meshes, laps kept, solvers at the larges
   CHECK(estimate_peak_bytes(p) < want);
 }
 
+TEST_CASE("a study's check against a limit: the plan of its tracks, and what makes the need") {
+  // Two circles (points from mesh_point_count), two laps kept, channels, 4 threads over 3 jobs:
+  // 3 solvers at the larger mesh; the verdict's variants counted for a fitted centerline alone.
+  const Track a = test::circle_track(100.0, 0.5), b = test::circle_track(300.0, 0.5);
+  const std::vector<const Track*> both{&a, &b};
+  MemoryPlan p;
+  p.mesh_points = {mesh_point_count(a, 0.5), mesh_point_count(b, 0.5)};
+  p.laps_kept = 2;
+  p.solvers = 3;
+  const double need = estimate_peak_bytes(p);
+  const MemoryVerdict under = check_memory(both, 2, true, 4, 3, true, need);
+  CHECK(under.need == need);
+  CHECK_FALSE(under.over);
+  CHECK(under.largest == 1);
+  CHECK(under.largest_points == p.mesh_points[1]);
+  CHECK(under.solvers == 3);
+  CHECK(under.what.rfind("the largest mesh, of " + b.subject() + ", has " +
+                             std::to_string(p.mesh_points[1]) + " points",
+                         0) == 0);
+  CHECK(under.what.find("with 2 laps kept per track, 3 laps solved at once") != std::string::npos);
+  CHECK(check_memory(both, 2, true, 4, 3, true, need * (1 - 1e-12)).over);
+  // No limit known (0): never over.
+  CHECK_FALSE(check_memory(both, 2, true, 4, 3, true, 0.0).over);
+}
+
 TEST_CASE("sizes read in decimal units, three figures") {
   CHECK(describe_bytes(6.5e9) == "6.50 GB");
   CHECK(describe_bytes(480e6) == "480 MB");

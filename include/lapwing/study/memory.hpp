@@ -57,6 +57,25 @@ inline constexpr std::size_t fixed_bytes = std::size_t{16} << 20;
 /// the largest mesh.
 double estimate_peak_bytes(const MemoryPlan& plan);
 
+struct Track;
+
+/// A study's estimate against a memory limit, for the command line's --memory-limit and the
+/// Python module's calls alike: `laps_kept` per track, `channels`, `threads` (0: all) over
+/// `jobs`, `verdict` (a fitted centerline's data-quality variants laid out). `need` and the
+/// largest mesh (its index and points) name a refusal; `over` where need > limit.
+struct MemoryVerdict {
+  double need = 0.0;
+  bool over = false;
+  std::size_t largest = 0, largest_points = 0;
+  unsigned solvers = 1;
+  /// "the mesh of T has N points (L m at a step of S m)[, with K laps kept per track], J laps
+  /// solved at once": what the need is made of, for the refusal's text.
+  std::string what;
+};
+MemoryVerdict check_memory(const std::vector<const Track*>& tracks, std::size_t laps_kept,
+                           bool channels, unsigned threads, std::size_t jobs, bool verdict,
+                           double limit);
+
 /// The machine's memory in bytes: the physical memory (sysconf), or the control group's limit
 /// (cgroup v2 memory.max) where that is lower. 0 when neither can be read.
 double machine_memory_bytes();
