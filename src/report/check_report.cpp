@@ -68,6 +68,19 @@ std::string config_text(const ConfigCheck& c, const Car& car) {
                     ", drag height " + fixed(c.drag_height_m, 3) + " m, top speed " +
                     fixed(units::to_kph(c.top_speed_mps), 1) + " km/h (" +
                     limit_text(c.top_speed_limit, car, c.top_speed_mps) + ")\n";
+  // The car-level values the config overrides, which its laps use (a helper's finding: check
+  // showed none of them).
+  const int index = car.config_index(c.name);
+  if (index >= 0) {
+    const AeroConfig& a = car.configs[static_cast<std::size_t>(index)];
+    std::string own;
+    const auto add = [&own](const std::string& what) { own += (own.empty() ? "" : ", ") + what; };
+    if (a.mass_kg) add("mass " + fixed(*a.mass_kg, 1) + " kg");
+    if (a.cg_height_m) add("cg height " + fixed(*a.cg_height_m, 3) + " m");
+    if (a.front_weight) add("front weight " + fixed(100 * *a.front_weight, 1) + " %");
+    if (a.inertia_factor) add("inertia factor " + fixed(*a.inertia_factor, 3));
+    if (!own.empty()) out += "       the car's values this config overrides: " + own + "\n";
+  }
   if (c.tyre_peak_load_n) {
     // A peak beyond the level top speed is not reached on a level straight: said so, with the
     // top speed beside it (the speed is where the aero load alone would get there).

@@ -128,8 +128,9 @@ std::string compare_table(const Car& car, const Comparison& c,
         brows.push_back(row);
       }
       o += "\nbalance (aero balance % alone / with the drag moment; front share of the load)\n" +
-           text_table({"config", "aero 150 km/h", "aero 250 km/h", "lowest front % > 200 km/h",
-                       "front-limited corners", "front-limited m"},
+           text_table({"config", "aero 150 km/h", "aero 250 km/h",
+                       "lowest front % accelerating > 200 km/h", "front-limited corners",
+                       "front-limited m"},
                       brows);
     }
     // The balance window per config.

@@ -2,6 +2,7 @@
 
 #include <algorithm>
 #include <array>
+#include <cctype>
 #include <cmath>
 #include <cstdio>
 #include <functional>
@@ -278,6 +279,28 @@ std::vector<double> spikes_kept(const R& raw, const T& trend, const std::vector<
           std::abs(value_at(raw, best) - value_at(trend, best)))
         best = i;
     out.push_back(value_at(raw, best));
+  }
+  return out;
+}
+
+// An element id made from a track's id (its file's stem, which may hold a space or any text):
+// every byte outside [A-Za-z0-9-] written _XX (its hex), so that two track ids stay two element
+// ids and url(#...) references resolve (an id with a space broke the map's colour bar and the
+// plots' clipping: a helper's finding).
+std::string html_id(const std::string& s) {
+  static const char hex[] = "0123456789ABCDEF";
+  std::string out;
+  for (const char ch : s) {
+    const auto u = static_cast<unsigned char>(ch);
+    if (std::isalnum(u) != 0 && u < 0x80) {
+      out.push_back(ch);
+    } else if (ch == '-') {
+      out.push_back(ch);
+    } else {
+      out.push_back('_');
+      out.push_back(hex[u >> 4]);
+      out.push_back(hex[u & 0xF]);
+    }
   }
   return out;
 }
@@ -676,8 +699,8 @@ std::string gg_plot(const TrackView& v) {
 }
 
 std::string trade_plot(const Circuit& c, const TradeGrid& g, const Trade& t, const Car& car) {
-  Plot p("trade-map-" + c.track.id, "Trade map: lap time over ClA x CdA", "ClA (m2)", "CdA (m2)",
-         700, 560);
+  Plot p("trade-map-" + html_id(c.track.id), "Trade map: lap time over ClA x CdA", "ClA (m2)",
+         "CdA (m2)", 700, 560);
   p.x_range(g.cla_m2.front(), g.cla_m2.back());
   p.y_range(g.cda_m2.front(), g.cda_m2.back());
   const svg::Scale sx = p.x_scale(), sy = p.y_scale();
@@ -800,7 +823,7 @@ std::string trade_plot(const Circuit& c, const TradeGrid& g, const Trade& t, con
                   box[3] - 2.5);
     config_labels += buf + svg::text_with_title(text, 40) + "</text>";
   }
-  p.overlay("<g clip-path=\"url(#trade-map-" + escape(c.track.id) + "-clip)\">" + config_labels +
+  p.overlay("<g clip-path=\"url(#trade-map-" + html_id(c.track.id) + "-clip)\">" + config_labels +
             "</g>\n");
   p.add(marks);
   // The break-even line is drawn only where there is an exchange (Sensitivity).
@@ -812,8 +835,8 @@ std::string trade_plot(const Circuit& c, const TradeGrid& g, const Trade& t, con
     p.key({"break-even: " + car.configs[g.config].name,
            "<line x1=\"0\" y1=\"5\" x2=\"16\" y2=\"5\" class=\"breakeven\"/>"});
   p.key({"equal lap time (s)", "<line x1=\"0\" y1=\"5\" x2=\"16\" y2=\"5\" class=\"contour\"/>"});
-  p.overlay(svg::colour_bar("trade-map-" + c.track.id + "-ramp", sx.p1 + 16, sy.p1 + 90, 14, 200,
-                            tmin, tmax, false, "lap time (s)"));
+  p.overlay(svg::colour_bar("trade-map-" + html_id(c.track.id) + "-ramp", sx.p1 + 16, sy.p1 + 90,
+                            14, 200, tmin, tmax, false, "lap time (s)"));
   return figure(
       p.render(),
       shorten_middle(c.track.name, 60) + ": lap time of " + car.configs[g.config].name +
@@ -893,7 +916,7 @@ std::string html_report(const ReportInput& in) {
     if (car.balance_window)
       rows.push_back({"balance window", "", escape(window_text(*car.balance_window)), ""});
     o += "<section id=\"inputs\"><h2>Inputs</h2>" +
-         table({"", "file", "name", ""}, rows, "", {1, 2}) + "</section>\n";
+         table({"", "file", "name", "length, air"}, rows, "", {1, 2}) + "</section>\n";
   }
 
   if (in.comparison) {
@@ -929,8 +952,8 @@ std::string html_report(const ReportInput& in) {
     for (std::size_t t = 0; t < cmp.tracks.size(); ++t) {
       const Circuit& c = circuits[t];
       const auto& pt = cmp.tracks[t];
-      const TrackView v{c, pt, names, c.track.id};
-      const std::string id = escape(c.track.id);
+      const TrackView v{c, pt, names, html_id(c.track.id)};
+      const std::string id = html_id(c.track.id);
       o += "<section id=\"track-" + id + "\"><h2>" + escape(c.track.name) + "</h2>\n";
       // The data's verdict: the worst of the configs' (they differ only in the lap spread).
       if (in.qualities) {
@@ -1051,8 +1074,9 @@ std::string html_report(const ReportInput& in) {
       }
       o += "<h3 id=\"balance-" + id + "\">Balance</h3>" +
            table(escaped({"config", "static front %", "aero 150 km/h % (with drag moment)",
-                          "aero 250 km/h % (with drag moment)", "lowest front share > 200 km/h",
-                          "front-limited corners", "front-limited m"}),
+                          "aero 250 km/h % (with drag moment)",
+                          "lowest front share accelerating > 200 km/h", "front-limited corners",
+                          "front-limited m"}),
                  brows);
       if (const BalanceWindowResult* w = window_of(pt.entries[pt.best])) {
         std::vector<std::vector<std::string>> wrows;
@@ -1079,19 +1103,27 @@ std::string html_report(const ReportInput& in) {
     std::vector<std::vector<std::string>> rows;
     for (const auto& s : t.sensitivities)
       rows.push_back({nm(circuits[s.track].track.name, track_chars), nm(car.configs[s.config].name),
-                      fixed(s.lap_time_s, 3), fixed(0.1 * s.dt_dcla_s_per_m2, 4),
-                      fixed(0.1 * s.dt_dcda_s_per_m2, 4), fixed(10 * s.dt_dmass_s_per_kg, 4),
-                      fixed(s.dt_dpower_s_per_percent, 4),
+                      fixed(s.lap_time_s, 3), signed_fixed(0.1 * s.dt_dcla_s_per_m2, 4),
+                      signed_fixed(0.1 * s.dt_dcda_s_per_m2, 4),
+                      signed_fixed(10 * s.dt_dmass_s_per_kg, 4),
+                      signed_fixed(s.dt_dpower_s_per_percent, 4),
                       s.breakeven_dcda_per_dcla ? fixed(*s.breakeven_dcda_per_dcla, 3) : "-"});
     o += "<section id=\"trade\"><h2>Sensitivities</h2>" +
          table(escaped({"track", "config", "lap s", "s per +0.1 m2 ClA", "s per +0.1 m2 CdA",
                         "s per +10 kg", "s per +1 % power", "CdA m2 one m2 of ClA may cost"}),
                rows);
-    // The tracks' warnings (a closure gap, a dropout), as the terminal gives them.
-    for (const Circuit& c : circuits)
+    // The tracks' warnings (a closure gap, a dropout), then each config's own lap's, as the
+    // terminal gives them.
+    for (std::size_t k = 0; k < circuits.size(); ++k) {
+      const Circuit& c = circuits[k];
       for (const std::string& w : track_warnings(c.track))
         o += "<p class=\"quality\"><strong>warning (" + escape(c.track.name) + "):</strong> " +
              escape(w) + "</p>\n";
+      for (std::size_t cfg = 0; cfg < car.configs.size(); ++cfg)
+        for (const std::string& w : t.own_warnings[k * car.configs.size() + cfg])
+          o += "<p class=\"quality\"><strong>warning (" + escape(c.track.name) + ", " +
+               escape(car.configs[cfg].name) + "):</strong> " + escape(w) + "</p>\n";
+    }
     // Where each config change's lap time comes from: the terminal's table.
     const TextTable a = attribution_table(car, t, circuits);
     if (!a.rows.empty()) {

@@ -155,6 +155,40 @@ TEST_CASE("a run report has its plots and no delta or trade map") {
   CHECK(ids.count("trade-map-skidpad") == 0);
 }
 
+TEST_CASE("a track whose id holds a space or any text gives element ids that references find") {
+  // An element id may not hold a space (HTML Living Standard, "The id attribute"; from memory):
+  // "map-my track-ramp" left the map's colour bar black and the plots unclipped (a helper's
+  // finding). Every url(#X) and href="#X" on the page must name an id the page has, and no id
+  // holds a space; two tracks whose ids differ only by such bytes keep two ids.
+  const Car car = load_car(test::source_path("cars/pellion-fr2.yaml"));
+  Circuit spaced = test::bundled_circuit("tracks/skidpad.yaml");
+  spaced.track.id = "my track";
+  Circuit dashed = test::bundled_circuit("tracks/skidpad.yaml");
+  dashed.track.id = "my_track";
+  const std::vector<Circuit> circuits{spaced, dashed};
+  const Comparison cmp = compare(car, {0, 1}, circuits, 2);
+  const Trade tr = trade(car, {0}, circuits, TradeOptions{0.02, 3, 0.15}, 2);
+  const std::string html = html_report({&car, &circuits, &cmp, &tr, "test"});
+  std::set<std::string> ids;
+  REQUIRE_NOTHROW(ids = parse_xml(html));
+  for (const std::string& id : ids) CHECK(id.find(' ') == std::string::npos);
+  std::size_t refs = 0;
+  for (const std::string open : {"url(#", "href=\"#"}) {
+    const char close = open[0] == 'u' ? ')' : '"';
+    for (std::size_t at = html.find(open); at != std::string::npos; at = html.find(open, at + 1)) {
+      const std::size_t from = at + open.size(), to = html.find(close, from);
+      const std::string target = html.substr(from, to - from);
+      if (target.find('\'') != std::string::npos) continue;  // the script's own, made at run time
+      CAPTURE(target);
+      CHECK(ids.count(target) == 1);
+      ++refs;
+    }
+  }
+  CHECK(refs > 10);
+  CHECK(ids.count("map-my_20track") == 1);
+  CHECK(ids.count("map-my_5Ftrack") == 1);
+}
+
 TEST_CASE("a track without corners says 'no corners' where the table would be, not an empty one") {
   // The acceleration run (a straight, bundled) has no corner: the page once showed the
   // table's header over no rows.
