@@ -5,6 +5,7 @@
 
 #include <algorithm>
 #include <atomic>
+#include <cctype>
 #include <chrono>
 #include <cmath>
 #include <csignal>
@@ -235,33 +236,15 @@ void require_memory(const std::string& option, const std::vector<Inputs::Loaded>
                     bool verdict) {
   const double limit = option.empty() ? machine_memory_bytes() / 2 : parse_memory_limit(option);
   if (!(limit > 0)) return;  // the machine's memory unknown: no default limit
-  MemoryPlan plan;
-  plan.laps_kept = laps_kept;
-  plan.channels = channels;
-  if (threads == 0) threads = usable_processors();
-  plan.solvers = static_cast<unsigned>(std::clamp<std::size_t>(jobs, 1, threads));
-  std::size_t largest = 0;
-  for (std::size_t i = 0; i < tracks.size(); ++i) {
-    plan.mesh_points.push_back(mesh_point_count(tracks[i].track, tracks[i].track.mesh_m));
-    if (plan.mesh_points[i] > plan.mesh_points[largest]) largest = i;
-    // A fitted centerline's verdict lays it out again at half and double the strength.
-    const auto& p = tracks[i].track.profile;
-    if (verdict && p && p->source == PathProfile::Source::centerline) plan.variant_meshes = 2;
-  }
-  const double need = estimate_peak_bytes(plan);
-  if (need <= limit) return;
-  const Track& t = tracks[largest].track;
-  throw UsageError{
-      "needs about " + describe_bytes(need) + " of memory, more than --memory-limit " +
-      describe_bytes(limit) + (option.empty() ? " (half the machine's memory)" : "") + ": " +
-      (tracks.size() > 1 ? "the largest mesh, of " + t.subject() + ", has "
-                         : "the mesh of " + t.subject() + " has ") +
-      std::to_string(plan.mesh_points[largest]) + " points (" + fixed(t.length_m(), 1) +
-      " m at a step of " + format_number(t.mesh_m) + " m)" +
-      (laps_kept > 1 ? ", with " + std::to_string(laps_kept) + " laps kept per track" : "") + ", " +
-      std::to_string(plan.solvers) + (plan.solvers > 1 ? " laps" : " lap") +
-      " solved at once; give a coarser mesh, fewer configs or --threads, or a higher "
-      "--memory-limit"};
+  std::vector<const Track*> ts;
+  for (const auto& t : tracks) ts.push_back(&t.track);
+  const MemoryVerdict v = check_memory(ts, laps_kept, channels, threads, jobs, verdict, limit);
+  if (!v.over) return;
+  throw UsageError{"needs about " + describe_bytes(v.need) +
+                   " of memory, more than --memory-limit " + describe_bytes(limit) +
+                   (option.empty() ? " (half the machine's memory)" : "") + ": " + v.what +
+                   "; give a coarser mesh, fewer configs or --threads, or a higher "
+                   "--memory-limit"};
 }
 
 // Output file names, made from a track file's stem and config names: one function per kind, used
@@ -284,13 +267,23 @@ struct PlannedFile {
 // Names are unique by construction: two inputs that would give one output file the same name
 // (tracks of the same file stem, "a/t.yaml" and "b/t.yaml"; config names joined by '-', "x" +
 // "y-z" and "x-y" + "z") are a usage error naming both, found before anything is solved or
-// written.
+// written. Names that differ only in the case of their letters count as one: on a file system
+// that ignores case (as those of two common desktop systems do) one file would replace the
+// other once the folder is copied there (a helper's finding: t.yaml and T.yaml).
 void require_unique(const std::vector<PlannedFile>& files) {
+  const auto folded = [](std::string s) {
+    for (char& c : s) c = static_cast<char>(std::tolower(static_cast<unsigned char>(c)));
+    return s;
+  };
   for (std::size_t i = 0; i < files.size(); ++i)
     for (std::size_t j = 0; j < i; ++j)
-      if (files[i].name == files[j].name)
-        throw UsageError{"two outputs would be named " + files[i].name + ": " + files[j].from +
-                         ", and " + files[i].from +
+      if (folded(files[i].name) == folded(files[j].name))
+        throw UsageError{"two outputs would be named " + files[j].name +
+                         (files[i].name == files[j].name ? ""
+                                                         : " and " + files[i].name +
+                                                               " (one name where case is not "
+                                                               "told apart)") +
+                         ": " + files[j].from + ", and " + files[i].from +
                          " (rename a track file or a config, or write them to separate --out "
                          "folders)"};
 }
@@ -607,6 +600,32 @@ int sweep(const SweepOptions& o, Inputs& in) {
     for (std::size_t j = 0; j < i; ++j)
       if (configs[i] == configs[j]) throw UsageError{"--config " + configs[i] + " is given twice"};
   const std::vector<Circuit> circuits = in.lay_out_all(o.tracks, air, MeshPositions::left_out);
+  // A set of a config's key where that config is not run, nor blended into a family that is:
+  // its values change nothing the sweep laps, and every point's rows come out alike (a helper's
+  // finding: --set aero.configs.medium.cla without --config medium lapped the first config).
+  std::vector<std::string> idle_sets;
+  const Node* aero_node = doc.root.find("aero");
+  const Node* families = aero_node ? aero_node->find("families") : nullptr;
+  for (std::size_t s = 0; s < paths.size(); ++s) {
+    const std::string prefix = "aero.configs.";
+    if (paths[s].rfind(prefix, 0) != 0) continue;
+    const std::size_t dot = paths[s].find('.', prefix.size());
+    const std::string name = paths[s].substr(prefix.size(), dot - prefix.size());
+    bool used = std::find(configs.begin(), configs.end(), name) != configs.end();
+    for (const std::string& c : configs) {
+      const Node* family = families ? families->find(c) : nullptr;
+      const Node* list = family ? family->find("configs") : nullptr;
+      if (list)
+        for (const Node& item : list->items) used = used || item.scalar == name;
+    }
+    if (!used) {
+      std::string run;
+      for (const std::string& c : configs) run += (run.empty() ? "" : ", ") + c;
+      idle_sets.push_back("--set " + plan.sets()[s].text + " changes config " + name +
+                          ", which this sweep does not run (configs: " + run +
+                          "): every point's laps are alike; give --config " + name);
+    }
+  }
 
   const auto car_at = [&](std::size_t point) {
     auto d = std::make_shared<Document>(doc);
@@ -713,15 +732,20 @@ int sweep(const SweepOptions& o, Inputs& in) {
             << "laps    " << r.laps << " in " << fixed(secs, 1) << " s ("
             << fixed(secs > 0 ? static_cast<double>(r.laps) / secs : 0.0, 1) << " laps/s); points "
             << r.run << " run, " << r.skipped << " already in " << o.out << "\n";
-  // The tracks' own warnings (a closure gap, a dropout in the data), once each: a sweep's rows
-  // keep no warnings, and every lap on such a track carries the fault.
+  // The tracks' own warnings (a closure gap, a dropout in the data), once each: every lap on
+  // such a track carries the fault, and the rows do not repeat them.
   for (const Circuit& c : circuits)
     for (const std::string& w : track_warnings(c.track))
       std::cout << "warning: " << c.track.name << ": " << w << "\n";
+  for (const std::string& w : idle_sets) std::cout << "warning: " << w << "\n";
   const StoreCounts counts = store_counts(o.out);
   if (counts.not_ok)
     std::cout << "note    " << counts.not_ok
               << " laps cannot complete their track (status cannot-move in the laps table)\n";
+  if (counts.warned)
+    std::cout << "warning: " << counts.warned << " of " << counts.rows
+              << " laps carry a warning, as run gives it (a table's rows left behind, an axle "
+                 "at its lift limit): their message in the laps table\n";
   std::vector<std::string> header{"track", "config", "lap s"};
   for (const auto& s : plan.sets()) header.push_back(s.key + (s.unit.empty() ? "" : " " + s.unit));
   header.push_back("point");
@@ -996,6 +1020,10 @@ int track_line(const TrackLineOptions& o, Inputs& in) {
     if (std::abs(line.offset_m[i]) > std::abs(line.offset_m[widest])) widest = i;
   std::string text = "track   " + o.out + " and " + (dir / csv_name).string() + "\n";
   text += "source  " + quality_line(source_quality) + "\n";
+  // The source's own notes (as run prints them): a narrowing the widths' smoothing widened
+  // bounds the line here.
+  if (described.profile)
+    for (const auto& n : described.profile->notes) text += "note    " + n + "\n";
   for (const auto& n : source_quality.notes) text += "note    " + n + "\n";
   // The source's doubts are the line's too: it is drawn from that data (and its track reads
   // no better, source_verdict).
