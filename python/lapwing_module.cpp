@@ -42,6 +42,11 @@ struct CarHandle {
 
 struct TrackHandle {
   std::shared_ptr<const TrackFile> file;
+  // The file's place when it was loaded (its canonical path then), the track's identity for
+  // "given twice": a relative path read again later names whatever file the working directory
+  // then holds (a helper's finding: two files of one name in two folders, each loaded from its
+  // folder, were refused as one file given twice).
+  std::string identity;
   const Track& track() const { return file->track; }
 };
 
@@ -233,19 +238,33 @@ std::vector<Circuit> lay_out_all(const std::vector<TrackHandle>& tracks, const A
   return out;
 }
 
-// The tracks of compare and trade: at least one, none twice (by file, as --track is checked).
+// A call whose estimated peak memory is over half the machine's (the command line's default
+// --memory-limit, study/memory.hpp) is refused before any mesh is laid out, as the command line
+// refuses it (a helper's finding: a 19.8-million-point ring ran for 19 s under a 4 GB limit
+// before a MemoryError; without one it would have asked for some 31 GB of a 24 GB machine).
+void require_memory(const std::vector<TrackHandle>& tracks, std::size_t laps_kept, bool channels,
+                    unsigned threads, std::size_t jobs) {
+  const double limit = machine_memory_bytes() / 2;
+  if (!(limit > 0)) return;  // the machine's memory unknown: no limit
+  std::vector<const Track*> ts;
+  for (const TrackHandle& t : tracks) ts.push_back(&t.track());
+  const MemoryVerdict v = check_memory(ts, laps_kept, channels, threads, jobs, true, limit);
+  if (v.over)
+    throw BadArgument("needs about " + describe_bytes(v.need) +
+                      " of memory, more than half the "
+                      "machine's (" +
+                      describe_bytes(limit) + "): " + v.what +
+                      "; give a coarser mesh, fewer configs or threads");
+}
+
+// The tracks of compare and trade: at least one, none twice (by the file each was loaded from, as
+// --track is checked).
 void check_tracks(const std::vector<TrackHandle>& tracks) {
   if (tracks.empty()) throw BadArgument("tracks is required: give at least one track");
   for (std::size_t i = 0; i < tracks.size(); ++i)
-    for (std::size_t j = 0; j < i; ++j) {
-      const std::string& a = tracks[i].track().file;
-      const std::string& b = tracks[j].track().file;
-      std::error_code e1, e2;
-      const auto ca = std::filesystem::weakly_canonical(a, e1);
-      const auto cb = std::filesystem::weakly_canonical(b, e2);
-      if (tracks[i].file == tracks[j].file || a == b || (!e1 && !e2 && ca == cb))
-        throw BadArgument("tracks: " + a + " is given twice");
-    }
+    for (std::size_t j = 0; j < i; ++j)
+      if (tracks[i].file == tracks[j].file || tracks[i].identity == tracks[j].identity)
+        throw BadArgument("tracks: " + tracks[i].track().file + " is given twice");
 }
 
 // A config by name; an unknown name is the car file's error at its aero.configs, as the command
@@ -285,6 +304,9 @@ CarHandle read_car(const Document& doc) {
 
 // A path with a NUL character would be opened cut at it (the C library's end of a name): refused.
 void check_path(const std::string& path) {
+  // As the command line's --car and --track: an empty path is no file (it read ": error: cannot
+  // open the file", naming none: a helper's finding).
+  if (path.empty()) throw BadArgument("path is given an empty value");
   if (path.find('\0') != std::string::npos)
     throw BadArgument("path '" + printable(path) + "': a file name cannot hold a NUL character");
 }
@@ -307,19 +329,34 @@ CarHandle load_car_file(const py::object& path_object) {
 TrackHandle load_track_file(const py::object& path_object) {
   const std::string path = path_text(path_object);
   check_path(path);
-  return {std::make_shared<const TrackFile>(read_track_file(path))};
+  auto file = std::make_shared<const TrackFile>(read_track_file(path));
+  std::error_code ec;
+  const std::filesystem::path where = std::filesystem::weakly_canonical(path, ec);
+  return {std::move(file), ec ? std::filesystem::absolute(path, ec).string() : where.string()};
 }
 
 // car.with_values({"mass": 650, "aero.configs.medium.cla": 3.8}): each key set in the car file's
 // text and the car read again from it, as `sweep --set` makes each point's car, so the keys,
 // units and rules are the file's.
+// An error of the car read with the values is named by them, as `sweep --set` names the point:
+// its place in the file is the original value's line, which holds another value (a helper's
+// finding: straight_trim.cla -4.31 was reported at the line that reads -0.9 m2).
 CarHandle with_values(const CarHandle& car, const py::dict& values) {
   Document doc = *car.doc;
+  std::string set;
   for (const auto& [k, v] : values) {
     const std::string key = utf8(k, "with_values key");
-    set_car_value(doc, car_key_path(doc, key), value_text(v, key));
+    const std::string text = value_text(v, key);
+    set_car_value(doc, car_key_path(doc, key), text);
+    set += (set.empty() ? "" : ", ") + key + " = " + text;
   }
-  return read_car(doc);
+  try {
+    return read_car(doc);
+  } catch (const InputError& e) {
+    if (set.empty()) throw;
+    throw BadArgument("with_values " + set + ": " + e.message() +
+                      (e.key_path().empty() ? "" : " (" + e.key_path() + ")"));
+  }
 }
 
 // What `run` computes for one lap: the lap, its summary with the data's verdict (a poor one is a
@@ -340,6 +377,7 @@ PyLap run(const CarHandle& car_handle, const TrackHandle& track_handle,
   const std::size_t ci =
       config ? config_of(car_handle, car, *config, "config") : pick_config(car, "");
   const std::vector<TrackHandle> tracks{track_handle};
+  require_memory(tracks, 0, true, 1, 1);
   SolvedLap solved = solve_unlocked(maps_of(car_handle, tracks), [&] {
     std::vector<Circuit> circuits = lay_out_all(tracks, air);
     SolvedLap s{{}, std::move(circuits.front()), {}};
@@ -393,6 +431,7 @@ py::object compare(const CarHandle& car_handle, const std::vector<TrackHandle>& 
   const AirOverride air = parse_air(air_dict);
   const Car car = with_model(car_handle.car(), model);
   const std::vector<std::size_t> picked = pick_configs(car_handle, car, configs);
+  require_memory(tracks, picked.size(), true, threads, tracks.size() * picked.size());
   const std::string text = solve_unlocked(maps_of(car_handle, tracks), [&] {
     const std::vector<Circuit> circuits = lay_out_all(tracks, air);
     return compare_json(car, lapwing::compare(car, picked, circuits, threads), circuits);
@@ -429,6 +468,7 @@ py::object trade(const CarHandle& car_handle, const std::vector<TrackHandle>& tr
     configs.push_back(config_of(car_handle, car, *config, "config"));
   else
     configs = pick_configs(car_handle, car, std::nullopt);
+  require_memory(tracks, 0, false, threads, std::size_t{1} << 20);
   const std::string text = solve_unlocked(maps_of(car_handle, tracks), [&] {
     const std::vector<Circuit> circuits = lay_out_all(tracks, air);
     return trade_json(car, lapwing::trade(car, configs, circuits, options, threads), circuits);
@@ -500,7 +540,7 @@ PYBIND11_MODULE(lapwing, m) {
       .def_property_readonly("length_m", [](const TrackHandle& t) { return t.track().length_m(); })
       .def_property_readonly(
           "mesh_m", [](const TrackHandle& t) { return t.track().mesh_m; },
-          "The solver step the file asks for (adjusted to divide the length).")
+          "The solver step the file asks for (the lap's mesh adjusts it to divide the length).")
       .def("__repr__", [](const TrackHandle& t) {
         return "<lapwing.Track '" + t.track().name + "' from " + t.track().file + ">";
       });
