@@ -95,7 +95,7 @@ TEST_CASE("a log whose distance reads 1 % long is scaled back") {
   CHECK(units::to_kph(k.rms_speed_error_mps) < 1.0);
 }
 
-TEST_CASE("a standing start's own log aligns at its own scale, where the search's windows stopped short") {
+TEST_CASE("a standing start's own log aligns at its own scale, where the windows stopped short") {
   // The bundled 75 m acceleration strip, a standing start: a speed trace with no corner whose
   // shape, v ~ sqrt(s) off the line, changes little with the distance's scale, so that the
   // coarse search's best (offset 0.5 m: its 2 m offsets run from half the track before the log,
