@@ -3,7 +3,8 @@
   docs_test.py SOURCE_DIR
 
 - No comment cites "SPEC" (a contract that is not in the repository); the README is cited as
-  README, "Heading"  and the heading exists (its first words), so that a reader finds the place.
+  README, "Heading"  and the heading exists (its first words), so that a reader finds the place;
+  so too the record of the speed work, cited as  docs/performance.md, "Heading".
 - Every key the car and track loaders read (src/io/car_file.cpp, track_file.cpp), each of a key's
   choices, and every unit spelling they accept (src/base/units.cpp) is named in README's
   "Input formats"; every option of the command line (src/cli/main.cpp), every JSON key written
@@ -40,6 +41,9 @@ code_files = [p for d in code_dirs for p in (root / d).rglob("*") if p.is_file()
 
 # 1. Citations.
 headings = [h.strip() for h in re.findall(r"^#+ (.*)$", readme, re.M)]
+# The record of the speed work, cited as  docs/performance.md, "Heading".
+perf_doc = (root / "docs/performance.md").read_text()
+perf_headings = [h.strip() for h in re.findall(r"^#+ (.*)$", perf_doc, re.M)]
 for p in code_files:
     try:
         text = p.read_text()
@@ -52,6 +56,10 @@ for p in code_files:
         for cited in re.findall(r'README, \\?"([^"\\]+)\\?"', line):
             if not any(h.startswith(cited) for h in headings):
                 failures.append(f'{p.relative_to(root)}:{n}: README has no heading "{cited}"')
+        for cited in re.findall(r'docs/performance\.md, \\?"([^"\\]+)\\?"', line):
+            if not any(h.startswith(cited) for h in perf_headings):
+                failures.append(
+                    f'{p.relative_to(root)}:{n}: docs/performance.md has no heading "{cited}"')
         if re.search(r'README(?!\.md|, \\?")', line):
             failures.append(f'{p.relative_to(root)}:{n}: cite the README as README, "Heading"')
 

@@ -732,7 +732,7 @@ class Sweeper {
   // hint changes where the solve starts, not the root it converges to (to its 1e-9 m/s^2
   // tolerance): lap times move by 3e-12 relative at most over the bundled laps
   // (tools/lap-times) and 174 laps of invented cars at the edges of the inputs, and the
-  // evaluations of the ellipse a lap takes fall by a fifth (README, "Performance"). Where g is
+  // evaluations of the ellipse a lap takes fall by a fifth (docs/performance.md, "Nearer starts for the axle model's solves"). Where g is
   // not concave (an inner tyre lifts, mu reaches its floor) it can have more than one root,
   // and the one a warm start settles on depends on the start, moved or not: the quadratic
   // through three roots, tried first, overshot into such a place on an invented car with a 1 m
@@ -1554,7 +1554,7 @@ void sweep_apart_as(const Envelope& env, const Mesh& mesh, const std::vector<dou
   // Each thread works its parts in its own stack's locals and hands them over once at the end:
   // nothing either writes as it steps shares a cache line with the other's (two step counts
   // side by side on one line, written every step by the two processors, made both sweeps some
-  // 15 % slower in the processes whose stack put them there; README, "Performance").
+  // 15 % slower in the processes whose stack put them there; docs/performance.md, "The two-thread lap's sweeps evened out").
   Lane<Sw> f1, f2, b1, b2;
   // A thread's share: sweep d's first part beside the other sweep's second part (the forward's
   // first in the lockstep, as on one thread), handed over into `first` and `second_of_other`.
@@ -1606,7 +1606,7 @@ void sweep_apart(const Envelope& env, const Mesh& mesh, const std::vector<double
 }
 
 // A closed lap's sweeps in two phases, where few of its steps are level straight ones
-// (README, "Performance", "The backward sweep over the stretches above the forward one"): the
+// (docs/performance.md, "The backward sweep over the stretches above the forward one"): the
 // forward sweep first, then the backward sweep beside the forward sweep's final speeds,
 // stepping at once over the stretches where it stands above them (Sweeper::skippable): there
 // the lap's speed is the forward sweep's, and the stretch ends where the backward sweep is
@@ -1724,7 +1724,7 @@ struct FreeLane {
 
 // A step table needs this many level still-air straight steps on a lap's mesh to be built: building
 // costs about 2 million instructions and a straight step read from the tables saves about 570 over
-// both sweeps (measured; README, "Performance"), so one lap of a mesh with fewer straight steps
+// both sweeps (measured; docs/performance.md, "Straight steps from a table"), so one lap of a mesh with fewer straight steps
 // would pay more than it gains.
 constexpr std::size_t min_straight_steps = 2000;
 
@@ -1870,7 +1870,7 @@ std::size_t slowest_split(const std::vector<double>& steady, std::size_t i0, std
 // the point before it along the sweep, on a closed mesh of min_points_apart points or more,
 // for the forward sweep where its curvature repeats at half its points or more, else for the
 // backward one. The rule from measurement (lapwing_bench, two threads, lap
-// time only; README, "The two-thread lap's sweeps evened out"): on the tracks of segments the
+// time only; docs/performance.md, "The two-thread lap's sweeps evened out"): on the tracks of segments the
 // forward sweep is the longer (Brannock Park, the Caldra GT with ellipse exponent 2.2: 226
 // against 159 microseconds) and its split 84 % round gave 47 ns a point against 52 whole (78 %,
 // the corner before: 52, the second thread then the longer; the backward sweep split as well:
@@ -2209,7 +2209,7 @@ Lap LapSolver::take_with_channels(const Envelope& env, const Mesh& mesh) {
   lap_.gear = std::move(forward_.gear);
   // Three channels take the storage of the sweeps' and the steady limits' speeds, already
   // touched: the first touch of a page costs more than the channels pass's writes to it
-  // (README, "A lone lap on two threads"). The channels pass overwrites every value.
+  // (docs/performance.md, "A lone lap on two threads"). The channels pass overwrites every value.
   for (auto [to, from] : {std::pair{&lap_.long_accel_mps2, &forward_.speed_mps},
                           std::pair{&lap_.lat_accel_mps2, &backward_.speed_mps},
                           std::pair{&lap_.engine_radps, &steady_.speed_mps}})

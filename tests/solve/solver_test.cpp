@@ -1191,7 +1191,7 @@ std::size_t check_skipped_lap(const Envelope& env, const Mesh& mesh) {
 
 TEST_CASE("a backward sweep that steps over its stretches above the forward one keeps the lap") {
   // On a closed mesh with few level straight steps (solver.cpp, sweep_phases;
-  // README, "Performance") the forward sweep runs first and the backward sweep then takes each
+  // docs/performance.md, "The backward sweep over the stretches above the forward one") the forward sweep runs first and the backward sweep then takes each
   // stretch at once where it stands above the forward sweep's final speeds, up to the point whose
   // limit is at or below its speed: braking decelerates by at least the resistance, whose floor
   // is the rolling resistance on the weight on a level road (read step by step off one), so

@@ -2,7 +2,7 @@
 // the system some 2.6 microseconds on this project's virtual machine (base/memory.hpp), a fifth
 // of a whole run's time on a long track; a 2 MB huge page costs about what its 512 small pages'
 // clearing does: 8 MB made ready took 3.5 ms in small pages and 0.27 ms in huge ones, measured
-// here (README, "Performance"). Huge pages need 2 MB-aligned ranges marked for them
+// here (docs/performance.md, "Large buffers in huge pages"). Huge pages need 2 MB-aligned ranges marked for them
 // (madvise(MADV_HUGEPAGE), Linux 2.6.38: transparent huge pages in "madvise" mode), which the C
 // library's allocator does not give blocks of a few hundred KB. BigBlocks keeps one reserved
 // range so marked and hands out page-aligned blocks from it, first fit, freed blocks coalesced

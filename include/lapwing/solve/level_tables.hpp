@@ -1,6 +1,6 @@
 // The axle model's accelerations on a level straight in still air, tabulated over u = v^2 once
 // per Envelope, so that the sweeps read a braking zone or a traction-limited launch from a table
-// instead of solving the load-transfer fixed point at every stage (README, "Performance"). There
+// instead of solving the load-transfer fixed point at every stage (docs/performance.md, "Speed targets and where the time goes"). There
 // the accelerations depend on u alone. Each cell of the table is the cubic
 // through the four nearest nodes, kept only where its nodes' fourth differences are small or it
 // matches the model at the cell's middle to within `tolerance_mps2` (and its neighbours' too);
@@ -70,7 +70,7 @@ class CellCubics {
 /// The sweeps' step itself on a level straight in still air, tabulated over the speed squared
 /// at the step's start for one step length h (solve/solver.cpp): there the step's end depends
 /// on its start alone, so a step is one cubic read instead of two readings of the model and an
-/// exponential (README, "Performance"). Built by the sweeps on the first lap of an Envelope
+/// exponential (docs/performance.md, "Straight steps from a table"). Built by the sweeps on the first lap of an Envelope
 /// and a mesh step that has enough straight steps to pay for it.
 struct StepTables {
   /// Cells over [0, the Envelope's top speed squared]. The drive table's cells at the engine's
@@ -87,7 +87,7 @@ struct StepTables {
   /// speeds per table (tests/solve/level_tables_test.cpp: the bundled cars, three step
   /// lengths). As an acceleration over the step (u1 - u0 = 2 a h) that is 2e-6 m/s^2, a
   /// ten-millionth of a braking deceleration; measured on every bundled case it moves no lap
-  /// time by more than 1e-10 (README, "Performance").
+  /// time by more than 1e-10 (docs/performance.md, "Straight steps from a table").
   static constexpr double tolerance_per_m = 4e-6;
   double h = 0.0;                          // the step length (m) the tables are of
   CellCubics drive, drive_trimmed, brake;  // u at the step's end from u at its start

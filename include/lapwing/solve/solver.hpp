@@ -168,7 +168,7 @@ std::size_t forward_split(const Mesh& mesh, const std::vector<double>& steady, s
 /// second part beside the forward sweep on the first thread. Throws as forward_split.
 /// (A closed mesh with fewer than 2 000 level straight steps, a fitted centerline or a graded
 /// circuit, takes its sweeps one after the other instead, each split near half way; see
-/// README, "Performance", "The backward sweep over the stretches above the forward one".
+/// docs/performance.md, "The backward sweep over the stretches above the forward one".
 /// LapSolver without its quick steps keeps the splits above.)
 std::size_t backward_split(const Mesh& mesh, const std::vector<double>& steady, std::size_t i0);
 
@@ -316,7 +316,7 @@ class LapSolver {
     return above_engine_ ? flying_.speed_mps : steady_.speed_mps;
   }
   /// The backward sweep's steps the last speed solve took at once, over its stretches above the
-  /// forward sweep (README, "Performance", "The backward sweep over the stretches above the
+  /// forward sweep (docs/performance.md, "The backward sweep over the stretches above the
   /// forward one"); 0 where it took every step. A figure of the solve's work, not of the lap.
   std::size_t skipped_steps() const { return skipped_steps_; }
 
@@ -354,7 +354,7 @@ class LapSolver {
   /// The double channels' storage while a speed solve leaves the lap without them
   /// (solve_speed): the next channels pass takes it back where it holds the mesh's points (and
   /// frees it where not), so that it overwrites the values instead of zero-filling a fresh
-  /// buffer first (every lap of a study, README, "Performance"). Contents stale: never read.
+  /// buffer first (every lap of a study, docs/performance.md). Contents stale: never read.
   std::array<std::vector<double>, 10> spare_channels_;
   /// The channels in the order spare_channels_ keeps them.
   static std::array<std::vector<double>*, 10> double_channels(Lap& lap);
