@@ -49,17 +49,26 @@ for p in code_files:
         text = p.read_text()
     except UnicodeDecodeError:
         continue
+    # A citation may run over two comment lines: the lines are joined (each next line's comment
+    # marker and indent read as one space) and each citation found in the whole, at its line.
+    joined, line_at = [], []
+    for n, line in enumerate(text.splitlines(), 1):
+        part = re.sub(r"^\s*(?:///?|#)\s?", "", line) if joined else line
+        joined.append(" " + part if joined else part)
+        line_at.extend([n] * len(joined[-1]))
+    joined = "".join(joined)
+    # README, "Heading" (the quotes escaped inside a C++ string: a test's name).
+    for m in re.finditer(r'README, \\?"([^"\\]+)\\?"', joined):
+        if not any(h.startswith(m.group(1)) for h in headings):
+            failures.append(f'{p.relative_to(root)}:{line_at[m.start()]}: README has no heading '
+                            f'"{m.group(1)}"')
+    for m in re.finditer(r'docs/performance\.md, \\?"([^"\\]+)\\?"', joined):
+        if not any(h.startswith(m.group(1)) for h in perf_headings):
+            failures.append(f'{p.relative_to(root)}:{line_at[m.start()]}: docs/performance.md '
+                            f'has no heading "{m.group(1)}"')
     for n, line in enumerate(text.splitlines(), 1):
         if re.search(r"\bSPEC\b", line):
             failures.append(f"{p.relative_to(root)}:{n}: cites SPEC, which is not in the repository")
-        # README, "Heading" (the quotes escaped inside a C++ string: a test's name).
-        for cited in re.findall(r'README, \\?"([^"\\]+)\\?"', line):
-            if not any(h.startswith(cited) for h in headings):
-                failures.append(f'{p.relative_to(root)}:{n}: README has no heading "{cited}"')
-        for cited in re.findall(r'docs/performance\.md, \\?"([^"\\]+)\\?"', line):
-            if not any(h.startswith(cited) for h in perf_headings):
-                failures.append(
-                    f'{p.relative_to(root)}:{n}: docs/performance.md has no heading "{cited}"')
         if re.search(r'README(?!\.md|, \\?")', line):
             failures.append(f'{p.relative_to(root)}:{n}: cite the README as README, "Heading"')
 

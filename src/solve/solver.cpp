@@ -732,12 +732,12 @@ class Sweeper {
   // hint changes where the solve starts, not the root it converges to (to its 1e-9 m/s^2
   // tolerance): lap times move by 3e-12 relative at most over the bundled laps
   // (tools/lap-times) and 174 laps of invented cars at the edges of the inputs, and the
-  // evaluations of the ellipse a lap takes fall by a fifth (docs/performance.md, "Nearer starts for the axle model's solves"). Where g is
-  // not concave (an inner tyre lifts, mu reaches its floor) it can have more than one root,
-  // and the one a warm start settles on depends on the start, moved or not: the quadratic
-  // through three roots, tried first, overshot into such a place on an invented car with a 1 m
-  // centre of gravity and moved its lap by 5.6e-6 (found in review), the line does not.
-  // (The point mass reads no hints: the moves are the axle model's alone.)
+  // evaluations of the ellipse a lap takes fall by a fifth (docs/performance.md, "Nearer starts for
+  // the axle model's solves"). Where g is not concave (an inner tyre lifts, mu reaches its floor)
+  // it can have more than one root, and the one a warm start settles on depends on the start, moved
+  // or not: the quadratic through three roots, tried first, overshot into such a place on an
+  // invented car with a 1 m centre of gravity and moved its lap by 5.6e-6 (found in review), the
+  // line does not. (The point mass reads no hints: the moves are the axle model's alone.)
   [[gnu::always_inline]] void predict_hints() {
     if constexpr (!Axle) return;
     const bool in_row = trail_at_ == i_;
@@ -1554,7 +1554,8 @@ void sweep_apart_as(const Envelope& env, const Mesh& mesh, const std::vector<dou
   // Each thread works its parts in its own stack's locals and hands them over once at the end:
   // nothing either writes as it steps shares a cache line with the other's (two step counts
   // side by side on one line, written every step by the two processors, made both sweeps some
-  // 15 % slower in the processes whose stack put them there; docs/performance.md, "The two-thread lap's sweeps evened out").
+  // 15 % slower in the processes whose stack put them there; docs/performance.md, "The two-thread
+  // lap's sweeps evened out").
   Lane<Sw> f1, f2, b1, b2;
   // A thread's share: sweep d's first part beside the other sweep's second part (the forward's
   // first in the lockstep, as on one thread), handed over into `first` and `second_of_other`.
@@ -1724,8 +1725,8 @@ struct FreeLane {
 
 // A step table needs this many level still-air straight steps on a lap's mesh to be built: building
 // costs about 2 million instructions and a straight step read from the tables saves about 570 over
-// both sweeps (measured; docs/performance.md, "Straight steps from a table"), so one lap of a mesh with fewer straight steps
-// would pay more than it gains.
+// both sweeps (measured; docs/performance.md, "Straight steps from a table"), so one lap of a mesh
+// with fewer straight steps would pay more than it gains.
 constexpr std::size_t min_straight_steps = 2000;
 
 }  // namespace
@@ -1870,9 +1871,9 @@ std::size_t slowest_split(const std::vector<double>& steady, std::size_t i0, std
 // the point before it along the sweep, on a closed mesh of min_points_apart points or more,
 // for the forward sweep where its curvature repeats at half its points or more, else for the
 // backward one. The rule from measurement (lapwing_bench, two threads, lap
-// time only; docs/performance.md, "The two-thread lap's sweeps evened out"): on the tracks of segments the
-// forward sweep is the longer (Brannock Park, the Caldra GT with ellipse exponent 2.2: 226
-// against 159 microseconds) and its split 84 % round gave 47 ns a point against 52 whole (78 %,
+// time only; docs/performance.md, "The two-thread lap's sweeps evened out"): on the tracks of
+// segments the forward sweep is the longer (Brannock Park, the Caldra GT with ellipse exponent 2.2:
+// 226 against 159 microseconds) and its split 84 % round gave 47 ns a point against 52 whole (78 %,
 // the corner before: 52, the second thread then the longer; the backward sweep split as well:
 // 47 to 49); on the surveyed centerline the backward sweep brakes at every ripple of its limit
 // and is the longer (1 330 against 818), the forward split made it slower (282 to 307) and the

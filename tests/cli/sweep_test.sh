@@ -230,8 +230,9 @@ fi
 expect_refused "no config named 'hihg'" --set mass=600,610 --config hihg
 expect_refused "lhs:N" --set mass=600:610 --design lhs
 expect_refused "1 <= K <= N" --set mass=600,610 --shard 4/3
-# Option errors are usage errors, prefixed as every command's (README, "lapwing: error: ... for a
-# bad option"); these once printed "--shard 0/2: error: ...", the form of a file's error.
+# Option errors are usage errors, prefixed as every command's (README, "Output files", its exit
+# codes: `lapwing: error: ...` for a bad option); these once printed "--shard 0/2: error: ...",
+# the form of a file's error.
 expect_refused "lapwing: error: --shard 0/2: expected K/N" --set mass=600,610 --shard 0/2
 expect_refused "lapwing: error: --design lhs:0: lhs needs its number of points" --set mass=600:610:3 --design lhs:0
 expect_refused "lapwing: error: --set mass=: no values after '='" --set mass=

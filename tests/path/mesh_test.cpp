@@ -331,9 +331,10 @@ TEST_CASE(
 TEST_CASE("a mesh laid out without positions is the same mesh for a lap, bit for bit") {
   // MeshPositions::left_out skips the positions (an arc's sine and cosine, a clothoid's
   // quadrature) and keeps everything a lap reads: what the solver and the summary see is the
-  // same bit for bit, so a study without a map or trace laps as it did (docs/performance.md, "Positions only where they are drawn").
-  // Every bundled track (segments with clothoids, grades and banks, a surveyed centerline,
-  // trim zones, widths), and Cairnholt in a wind, whose head wind needs the headings.
+  // same bit for bit, so a study without a map or trace laps as it did (docs/performance.md,
+  // "Positions only where they are drawn"). Every bundled track (segments with clothoids, grades
+  // and banks, a surveyed centerline, trim zones, widths), and Cairnholt in a wind, whose head wind
+  // needs the headings.
   std::vector<Track> tracks;
   for (const char* file :
        {"tracks/brannock-park.yaml", "tracks/brannock-park-survey.yaml", "tracks/cairnholt.yaml",

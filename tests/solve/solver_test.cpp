@@ -1191,17 +1191,17 @@ std::size_t check_skipped_lap(const Envelope& env, const Mesh& mesh) {
 
 TEST_CASE("a backward sweep that steps over its stretches above the forward one keeps the lap") {
   // On a closed mesh with few level straight steps (solver.cpp, sweep_phases;
-  // docs/performance.md, "The backward sweep over the stretches above the forward one") the forward sweep runs first and the backward sweep then takes each
-  // stretch at once where it stands above the forward sweep's final speeds, up to the point whose
-  // limit is at or below its speed: braking decelerates by at least the resistance, whose floor
-  // is the rolling resistance on the weight on a level road (read step by step off one), so
-  // its speed only rises over the stretch, the lap's speed there is the forward sweep's, and at
-  // that point it is clipped to its limit as the steps would leave it. Against the whole sweeps
-  // (check_skipped_lap; measured 5e-15 on the bundled lap times). Every bundled car and config,
-  // both models, on Brannock Park's surveyed centerline (level, its curvature new at every
-  // point) and on Cairnholt (graded: there a stretch also ends where the grade could push the
-  // car on under braking); then the survey with invented banks, some falling away from the
-  // turn, and a head wind and a tail wind (either ends a stretch).
+  // docs/performance.md, "The backward sweep over the stretches above the forward one") the forward
+  // sweep runs first and the backward sweep then takes each stretch at once where it stands above
+  // the forward sweep's final speeds, up to the point whose limit is at or below its speed: braking
+  // decelerates by at least the resistance, whose floor is the rolling resistance on the weight on
+  // a level road (read step by step off one), so its speed only rises over the stretch, the lap's
+  // speed there is the forward sweep's, and at that point it is clipped to its limit as the steps
+  // would leave it. Against the whole sweeps (check_skipped_lap; measured 5e-15 on the bundled lap
+  // times). Every bundled car and config, both models, on Brannock Park's surveyed centerline
+  // (level, its curvature new at every point) and on Cairnholt (graded: there a stretch also ends
+  // where the grade could push the car on under braking); then the survey with invented banks, some
+  // falling away from the turn, and a head wind and a tail wind (either ends a stretch).
   for (const char* track : {"tracks/brannock-park-survey.yaml", "tracks/cairnholt.yaml"}) {
     const Circuit c = test::bundled_circuit(track);
     REQUIRE(c.mesh.size() >= 2000);

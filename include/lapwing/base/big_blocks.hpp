@@ -2,13 +2,13 @@
 // the system some 2.6 microseconds on this project's virtual machine (base/memory.hpp), a fifth
 // of a whole run's time on a long track; a 2 MB huge page costs about what its 512 small pages'
 // clearing does: 8 MB made ready took 3.5 ms in small pages and 0.27 ms in huge ones, measured
-// here (docs/performance.md, "Large buffers in huge pages"). Huge pages need 2 MB-aligned ranges marked for them
-// (madvise(MADV_HUGEPAGE), Linux 2.6.38: transparent huge pages in "madvise" mode), which the C
-// library's allocator does not give blocks of a few hundred KB. BigBlocks keeps one reserved
-// range so marked and hands out page-aligned blocks from it, first fit, freed blocks coalesced
-// and their whole huge pages given back to the system (so that a long study's memory follows
-// what it holds). The lapwing executable's operator new sends every request of 64 KB or more
-// here, the library's code in it included (cli/big_blocks_new.cpp); other programs linking the
+// here (docs/performance.md, "Large buffers in huge pages"). Huge pages need 2 MB-aligned ranges
+// marked for them (madvise(MADV_HUGEPAGE), Linux 2.6.38: transparent huge pages in "madvise" mode),
+// which the C library's allocator does not give blocks of a few hundred KB. BigBlocks keeps one
+// reserved range so marked and hands out page-aligned blocks from it, first fit, freed blocks
+// coalesced and their whole huge pages given back to the system (so that a long study's memory
+// follows what it holds). The lapwing executable's operator new sends every request of 64 KB or
+// more here, the library's code in it included (cli/big_blocks_new.cpp); other programs linking the
 // library (the Python module, lapwing_bench) allocate as their host does.
 #pragma once
 

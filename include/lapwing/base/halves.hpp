@@ -22,9 +22,9 @@ namespace lapwing {
 /// Both sides spin a short while before they sleep: the thread for its next job after each
 /// one (a lap hands it three to five jobs, a few to a few hundred microseconds apart), the
 /// caller for the job's end. A wake-up through the condition variable took tens of
-/// microseconds on this machine's virtual processors (docs/performance.md, "A lone lap on two threads"),
-/// as long as half a short lap's steady limits. The spin is bounded (spin_limit): a thread
-/// with no work sleeps.
+/// microseconds on this machine's virtual processors (docs/performance.md, "A lone lap on two
+/// threads"), as long as half a short lap's steady limits. The spin is bounded (spin_limit): a
+/// thread with no work sleeps.
 class SecondThread {
  public:
   SecondThread();

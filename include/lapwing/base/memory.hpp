@@ -2,7 +2,8 @@
 // when first touched; on this project's virtual machine 2.6 microseconds a 4 KB page (0.64 ns a
 // byte, ten times writing the byte afterwards), and a lap's buffers are ~190 bytes a mesh point.
 // madvise(MADV_POPULATE_WRITE) (Linux 5.14) makes a range's pages ready in one call, without a
-// fault each: 1.75 microseconds a page measured here (docs/performance.md, "A lone lap on two threads").
+// fault each: 1.75 microseconds a page measured here (docs/performance.md, "A lone lap on two
+// threads").
 #pragma once
 
 #include <cstddef>
@@ -31,7 +32,8 @@ void resize_ready(std::vector<T>& v, std::size_t n) {
 /// resize_ready for several buffers at once, their new storage made ready in two halves of the
 /// points, [0, n/2) and [n/2, n), the second on `second` where there is one. Readying the pages
 /// is the system's work and most of a fresh buffer's cost; on two cores two threads do it in
-/// about 0.6 of the time one takes (docs/performance.md, "A lone lap on two threads"). The same contents either way.
+/// about 0.6 of the time one takes (docs/performance.md, "A lone lap on two threads"). The same
+/// contents either way.
 template <typename T>
 void resize_ready(std::initializer_list<std::vector<T>*> buffers, std::size_t n,
                   SecondThread* second) {

@@ -1,11 +1,11 @@
 // The axle model's accelerations on a level straight in still air, tabulated over u = v^2 once
 // per Envelope, so that the sweeps read a braking zone or a traction-limited launch from a table
-// instead of solving the load-transfer fixed point at every stage (docs/performance.md, "Speed targets and where the time goes"). There
-// the accelerations depend on u alone. Each cell of the table is the cubic
-// through the four nearest nodes, kept only where its nodes' fourth differences are small or it
-// matches the model at the cell's middle to within `tolerance_mps2` (and its neighbours' too);
-// elsewhere (a kink where the binding axle changes, the breaks of a ride-height map's speeds)
-// the caller asks the model itself. The answers stay the model's to 3e-8 m/s^2, a few
+// instead of solving the load-transfer fixed point at every stage (docs/performance.md, "Speed
+// targets and where the time goes"). There the accelerations depend on u alone. Each cell of the
+// table is the cubic through the four nearest nodes, kept only where its nodes' fourth differences
+// are small or it matches the model at the cell's middle to within `tolerance_mps2` (and its
+// neighbours' too); elsewhere (a kink where the binding axle changes, the breaks of a ride-height
+// map's speeds) the caller asks the model itself. The answers stay the model's to 3e-8 m/s^2, a few
 // billionths of a braking deceleration (6e-8 with a ride-height map: `map_tolerance_mps2`).
 #pragma once
 
@@ -70,8 +70,8 @@ class CellCubics {
 /// The sweeps' step itself on a level straight in still air, tabulated over the speed squared
 /// at the step's start for one step length h (solve/solver.cpp): there the step's end depends
 /// on its start alone, so a step is one cubic read instead of two readings of the model and an
-/// exponential (docs/performance.md, "Straight steps from a table"). Built by the sweeps on the first lap of an Envelope
-/// and a mesh step that has enough straight steps to pay for it.
+/// exponential (docs/performance.md, "Straight steps from a table"). Built by the sweeps on the
+/// first lap of an Envelope and a mesh step that has enough straight steps to pay for it.
 struct StepTables {
   /// Cells over [0, the Envelope's top speed squared]. The drive table's cells at the engine's
   /// gear changes go without a cubic (58 of 1 024 for the bench car): fewer, wider cells would
