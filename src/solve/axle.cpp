@@ -363,11 +363,13 @@ double axle_drive_accel(const Envelope& env, double u, double k, const Road& roa
       axle_loads(car, a.drag, a.down, a.balance, a.normal_share, road.sin_slope, 0.0);
   // The front axle of a rear-driven car carries no drive but its share of the lateral force, on
   // a load that acceleration takes away (front = front(0) - m a h / L): it holds only while
-  // front(a) >= the least load for fy_front, so a <= (front(0) - that load) L / (m h). The
-  // rear of a front-driven car gains load under power: no bound there.
+  // front(a) stays in the stretch of loads around front(0) that hold fy_front, down to its least
+  // (TyreModel::axle_load_holding_lateral), so a <= (front(0) - that load) L / (m h). The rear
+  // of a front-driven car gains load under power: no bound there.
   double front_bound = std::numeric_limits<double>::infinity();
   if (car.powertrain.driven == DrivenAxle::rear && car.cg_height_m > 0.0)
-    front_bound = (static_loads.front_n - t.axle_load_for_lateral(fy_front, d_front)) *
+    front_bound = (static_loads.front_n -
+                   t.axle_load_holding_lateral(fy_front, d_front, static_loads.front_n)) *
                   car.wheelbase_m / (car.mass_kg * car.cg_height_m);
   // Fast path: the answer is the least of the engine's limit, the front's bound and each
   // driven axle's own fixed point (the upper root of a minimum of concave terms, where their

@@ -229,3 +229,82 @@ TEST_CASE("the force an axle has left and its slope with the load: the slope is 
   CHECK(spent.left_n == 0.0);
   CHECK(spent.per_load() == 0.0);
 }
+
+namespace {
+// The reference for axle_load_holding_lateral, read off the capacity itself (axle_limits(L, d),
+// each tyre's mu held at its floor) without its pieces: from load_n down (or, where the axle
+// does not hold fy there, up) in steps of load_n / 4000 to the first step whose end changes
+// whether it holds, then bisection to 1e-14 of the load. A stretch narrower than a step would be
+// missed; the loads below keep the pieces wider than that.
+double stretch_least_by_walking(const TyreModel& t, double fy, double d, double load_n) {
+  const auto holds = [&](double l) { return t.axle_limits(l, d).fy_max >= fy; };
+  const double step = load_n / 4000.0;
+  double a = load_n, b = load_n;  // `holds` differs between a (lower) and b (upper)
+  if (holds(load_n)) {
+    while (a > 0.0 && holds(std::max(a - step, 0.0))) a = std::max(a - step, 0.0);
+    if (a == 0.0) return 0.0;
+    b = a;
+    a = std::max(a - step, 0.0);
+  } else {
+    while (!holds(b + step)) b += step;
+    a = b;
+    b += step;
+  }
+  while (b - a > 1e-14 * b) {
+    const double m = 0.5 * (a + b);
+    (holds(m) ? b : a) = m;
+  }
+  return b;
+}
+}  // namespace
+
+TEST_CASE("the load stretch that holds a lateral force around the axle's load, floor included") {
+  // axle_load_holding_lateral against a walk along the capacity itself (above): the least load
+  // of the stretch around load_n over which the axle holds fy, or the least above load_n where
+  // it does not hold it there. Load sensitivities up to 0.95 put a tyre on its floor (0.1 mu0)
+  // within the loads asked; transfers up to 9 kN lift the inner tyre. 1e-9 of the load: the
+  // answer is a quadratic's root, the walk's bisection stops at 1e-14.
+  int on_floor = 0, checked = 0;
+  for (const double s : {0.0, 0.08, 0.3, 0.625, 0.95}) {
+    const TyreModel t(Tyres{1.204, 1.826, 1828.0, s, 1.43, 0.33, 0.0});
+    for (const double d : {0.0, 300.0, 1500.0, 4000.0, 9000.0})
+      for (const double fy : {500.0, 3000.0, 6000.0, 9000.0})
+        for (const double load : {2000.0, 7000.0, 12000.0, 25000.0}) {
+          CAPTURE(s);
+          CAPTURE(d);
+          CAPTURE(fy);
+          CAPTURE(load);
+          const double got = t.axle_load_holding_lateral(fy, d, load);
+          CHECK(near(got, stretch_least_by_walking(t, fy, d, load), 1e-9));
+          // The axle holds fy there, to the root's rounding.
+          CHECK(near(t.axle_limits(got, d).fy_max, fy, 1e-9));
+          on_floor += 0.5 * got + d > t.floor_onset_load_n();
+          ++checked;
+        }
+  }
+  CHECK(checked == 400);
+  CHECK(on_floor > 20);  // the floor's pieces are exercised
+}
+
+TEST_CASE("a front axle whose outer tyre is on its floor holds its lateral force at its load") {
+  // A monotonicity campaign's invented front-heavy, rear-driven car (mu_lat 1.826, nominal load
+  // 1 828 N, load sensitivity 0.625) at 31.86 km/h on a 15 m arc: the front axle's static load
+  // (0.619 of 1 196 kg) carries its share of m v^2 / R with 3 001 N of transfer per g of lateral
+  // acceleration (`lapwing check`'s figure for that car), its outer tyre past the floor's load.
+  // The least load of the stretch it is in is where the inner tyre's parabola and the outer's
+  // floor line together hold the force: some 6.1 kN (the campaign's scan of the tyre law in 10 N
+  // steps: 6 140 N). The parabolas' floor load, |fy| / (0.1 mu0) = 21.2 kN, was read before:
+  // above the axle's load, a front bound of -4.9 g on a lap that braked every 9 m on the arc.
+  const TyreModel t(Tyres{1.204, 1.826, 1828.0, 0.625, 1.43, 0.33, 0.0121});
+  const double g = 9.80665, v = 31.86 / 3.6;
+  const double fy_total = 1196.0 * v * v / 15.0;
+  const double fy = 0.619 * fy_total, d = 3001.0 / (1196.0 * g) * fy_total;
+  const double load = 0.619 * 1196.0 * g;
+  REQUIRE(t.axle_limits(load, d).fy_max > fy);       // the axle holds it at its load
+  REQUIRE(0.5 * load + d > t.floor_onset_load_n());  // its outer tyre on the floor
+  const double least = t.axle_load_holding_lateral(fy, d, load);
+  CHECK(least > 6130.0);
+  CHECK(least < 6150.0);
+  CHECK(near(least, stretch_least_by_walking(t, fy, d, load), 1e-9));
+  CHECK(near(t.axle_load_for_lateral(fy, d), fy / (0.1 * 1.826), 1e-12));  // the old reading
+}

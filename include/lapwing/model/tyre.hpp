@@ -41,6 +41,9 @@ class TyreModel {
         n_(t.ellipse_exponent),
         quadratic_(t.ellipse_exponent == 2.0),
         long_per_lat_(t.mu_long / t.mu_lat),
+        floor_onset_n_(sensitivity_per_n_ > 0.0
+                           ? nominal_n_ + (1.0 - floor_fraction) / sensitivity_per_n_
+                           : std::numeric_limits<double>::infinity()),
         pow_n_(t.ellipse_exponent),
         shape_(t.ellipse_exponent) {}
 
@@ -66,10 +69,7 @@ class TyreModel {
   /// = 0.1 at Fz = Fn + 0.9 Fn / s; infinity without load sensitivity. Below it a tyre's peak
   /// force mu(Fz) Fz is concave in its load (a parabola); the floor's straight line beyond it
   /// is not, so from there more load moved to the outer tyre can give an axle more capacity.
-  double floor_onset_load_n() const {
-    if (!(sensitivity_per_n_ > 0.0)) return std::numeric_limits<double>::infinity();
-    return nominal_n_ + (1.0 - floor_fraction) / sensitivity_per_n_;
-  }
+  double floor_onset_load_n() const { return floor_onset_n_; }
 
   /// Peak longitudinal and lateral force of the whole car at total vertical load N (four tyres
   /// sharing N equally).
@@ -123,20 +123,71 @@ class TyreModel {
   /// -10 kN, on Brannock Park).
   double axle_load_for_lateral(double fy_n, double transfer_n) const {
     if (transfer_n <= 0.0) return axle_load_for_lateral(fy_n);
+    return parabola_load_for_lateral(fy_n, transfer_n)
+        .value_or(std::abs(fy_n) / mu_lat0_ / floor_fraction);
+  }
+
+  /// The least load of the stretch of axle loads around `load_n` over which the axle's
+  /// lateral peak (axle_limits(L, transfer_n), each tyre at its own load, mu never below its
+  /// floor) holds |fy_n|: where the axle holds it at `load_n`, the lowest load down to which it
+  /// goes on holding it; where it does not, the lowest load above `load_n` at which it does. A
+  /// rear-driven car's front bound reads it (axle.cpp): the front keeps its lateral force while
+  /// acceleration takes load off it down to there. The capacity is not monotonic in the load:
+  /// past its vertex a tyre's parabola falls, and from the floor's load on it grows again (0.1
+  /// mu0 Fz), so the loads that hold a force can be more than one stretch, and the least of them
+  /// all can lie below a stretch that the axle's load is in. axle_load_for_lateral's parabolas
+  /// answer where the stretch lies off the floor; else the capacity is read piece by piece
+  /// (axle_load_holding_lateral_by_pieces). Reading the floor's load |fy| / (0.1 mu0) there instead
+  /// (with the outer tyre on its floor, the inner's parabola and the floor's line hold the force
+  /// at a far lower load) made a front bound of -4.9 g at a point the front held with usage
+  /// 0.83, and a lap that braked every 9 m on a 15 m arc (a monotonicity campaign's
+  /// front-heavy car with load sensitivity 0.625: more grip, a slower lap).
+  double axle_load_holding_lateral(double fy_n, double transfer_n, double load_n) const {
+    const double d = std::max(transfer_n, 0.0);
+    const double fy = std::abs(fy_n);
+    // Where a tyre's branch changes along the axle's load L: the inner tyre lifts below 2 d, the
+    // outer one reaches its floor at L = onset (the inner lifted) or 2 (onset - d), the inner at
+    // 2 (onset + d). Between them the capacity is one quadratic in L, concave.
+    const double onset = floor_onset_load_n();  // per tyre; infinity without load sensitivity
+    const double outer_onset = onset <= 2.0 * d ? onset : 2.0 * (onset - d);
+    // The parabolas' answer r (axle_load_for_lateral) is the least load of all that holds fy
+    // where the outer tyre is off its floor at r (below r both tyres are on their parabolas,
+    // which that answer inverts). It is the stretch's where load_n lies below it (nothing
+    // lower holds fy), or where the axle holds fy at load_n and at each change of branch
+    // between: each piece between is concave, and holds fy at both its ends.
+    const std::optional<double> r =
+        d > 0.0 ? parabola_load_for_lateral(fy, d) : std::optional(axle_load_for_lateral(fy));
+    if (r && *r <= outer_onset) {
+      if (load_n <= *r) return *r;
+      const auto holds = [&](double l) { return axle_limits(l, d).fy_max >= fy; };
+      bool stretch = holds(load_n);
+      for (const double kink : {2.0 * d, outer_onset, 2.0 * (onset + d)})
+        if (kink > *r && kink < load_n) stretch = stretch && holds(kink);
+      if (stretch) return *r;
+    }
+    return axle_load_holding_lateral_by_pieces(fy, d, load_n);
+  }
+
+ private:
+  /// axle_load_holding_lateral piece by piece (tyre.cpp): fy >= 0, d >= 0.
+  double axle_load_holding_lateral_by_pieces(double fy, double d, double load_n) const;
+  /// axle_load_for_lateral's two-tyre and lifted roots of the parabolas (no floor): nullopt
+  /// where neither holds |fy_n| (the floor's load then, for axle_load_for_lateral).
+  std::optional<double> parabola_load_for_lateral(double fy_n, double transfer_n) const {
     const double s = sensitivity_per_n_;
     const double c0 = std::abs(fy_n) / mu_lat0_;
     const double b = 1.0 + s * nominal_n_;
     auto root = [&](double a, double c) {
       const double disc = b * b - 4.0 * a * c;
-      return disc < 0.0 ? c0 / floor_fraction : 2.0 * c / (b + std::sqrt(disc));
+      return disc < 0.0 ? std::optional<double>() : 2.0 * c / (b + std::sqrt(disc));
     };
     const double c2 = c0 + 2.0 * s * transfer_n * transfer_n;
     if (b * b - 2.0 * s * c2 < 0.0) {  // no root with both tyres down
-      const double lifted = root(s, c0);
-      return lifted <= 2.0 * transfer_n ? lifted : c0 / floor_fraction;
+      const std::optional<double> lifted = root(s, c0);
+      return lifted && *lifted <= 2.0 * transfer_n ? lifted : std::nullopt;
     }
-    const double both = root(0.5 * s, c2);
-    if (both >= 2.0 * transfer_n) {
+    const std::optional<double> both = root(0.5 * s, c2);
+    if (both && *both >= 2.0 * transfer_n) {
       // Both tyres down (from 2 d up) hold fy from `both`, their smaller root, and at 2 d (the
       // two forms agree there: the inner tyre just off) they do not. The outer tyre alone holds it
       // at a lower load where 2 d lies past its force's vertex Fn (1 + s) / (2 s) (4 s d > b per
@@ -151,6 +202,7 @@ class TyreModel {
     return root(s, c0);
   }
 
+ public:
   Limits limits(double load_n) const {
     const double f = mu_factor(0.25 * load_n) * load_n;
     return {mu_long0_ * f, mu_lat0_ * f};
@@ -261,6 +313,7 @@ class TyreModel {
   double n_;
   bool quadratic_;
   double long_per_lat_;
+  double floor_onset_n_;  // floor_onset_load_n()
   /// The ellipse's power x^n, x >= 0 (0 at x = 0), from tables made once
   /// (base/fixed_power.hpp): within 3 ulp of 50-digit arithmetic where the library's
   /// 2^(n log2 x) reached 21 ulp for ratios in [0, 1) at n = 2.2 and 95 at n = 10, in about
