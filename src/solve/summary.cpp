@@ -485,7 +485,7 @@ LapSummary summarize(const Lap& lap, const Mesh& mesh, const Track& track,
     }
     return lap.phase[before] != p && lap.phase[after] != p;
   };
-  double full = 0.0, brake = 0.0, trimmed = 0.0;
+  double full = 0.0, brake = 0.0;
   // Each point's touch once: this interval's start is the last one's end.
   bool touch_a = n > 1 && touch(0);
   for (std::size_t i = 0; i + 1 < n; ++i) {
@@ -496,9 +496,14 @@ LapSummary summarize(const Lap& lap, const Mesh& mesh, const Track& track,
     touch_a = touch_b;
     full += half * (full_drive(a) + full_drive(b));
     brake += half * ((a == Phase::brake) + (b == Phase::brake));
-    trimmed += half * (lap.trimmed[i] + lap.trimmed[i + 1]);
   }
-  s.trimmed_fraction = trimmed / lap.lap_time_s;
+  // The trim's share (a sweep's row keeps none: 8 instructions a point of its summary).
+  if (full_detail) {
+    double trimmed = 0.0;
+    for (std::size_t i = 0; i + 1 < n; ++i)
+      trimmed += 0.5 * (lap.time_s[i + 1] - lap.time_s[i]) * (lap.trimmed[i] + lap.trimmed[i + 1]);
+    s.trimmed_fraction = trimmed / lap.lap_time_s;
+  }
   s.full_throttle_fraction = full / lap.lap_time_s;
   s.braking_fraction = brake / lap.lap_time_s;
   if (full_detail) {

@@ -114,7 +114,7 @@ struct LapSummary {
   double top_speed_mps, min_speed_mps;
   double full_throttle_fraction;      // share of lap time under full drive (accelerate, top_speed)
   double braking_fraction;            // share of lap time under braking
-  double trimmed_fraction;            // share of lap time with the straight-line trim in use
+  double trimmed_fraction = 0.0;      // share of lap time with the straight-line trim in use
   std::vector<std::string> warnings;  // the track's (track_warnings), then the range notes
                                       // the lap reaches (lap_range_warnings) and the others
   std::vector<double> sectors_s;
@@ -123,9 +123,9 @@ struct LapSummary {
 };
 
 /// How much of a lap summarize reads: everything, or the figures a sweep's row keeps (lap time,
-/// top and lowest speed, the time shares, the balance; no warnings, sectors or corners, whose
-/// lists stay empty, no corner the front limits, and no balance window: its verdict is
-/// window_verdict's).
+/// top and lowest speed, the full-drive and braking shares, the balance; no warnings, sectors or
+/// corners, whose lists stay empty, no trim's share (0), no corner the front limits, and no
+/// balance window: its verdict is window_verdict's).
 enum class SummaryDetail { full, row_figures };
 
 LapSummary summarize(const Lap& lap, const Mesh& mesh, const Track& track,
