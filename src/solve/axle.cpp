@@ -364,8 +364,9 @@ double axle_drive_accel(const Envelope& env, double u, double k, const Road& roa
   // The front axle of a rear-driven car carries no drive but its share of the lateral force, on
   // a load that acceleration takes away (front = front(0) - m a h / L): it holds only while
   // front(a) stays in the stretch of loads around front(0) that hold fy_front, down to its least
-  // (TyreModel::axle_load_holding_lateral), so a <= (front(0) - that load) L / (m h). The rear
-  // of a front-driven car gains load under power: no bound there.
+  // (TyreModel::axle_load_holding_lateral), so a <= (front(0) - that load) L / (m h); where
+  // front(0) holds no such force, the least load above it, a deceleration. The rear of a
+  // front-driven car gains load under power: no bound there.
   double front_bound = std::numeric_limits<double>::infinity();
   if (car.powertrain.driven == DrivenAxle::rear && car.cg_height_m > 0.0)
     front_bound = (static_loads.front_n -

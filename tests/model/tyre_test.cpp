@@ -308,3 +308,21 @@ TEST_CASE("a front axle whose outer tyre is on its floor holds its lateral force
   CHECK(near(least, stretch_least_by_walking(t, fy, d, load), 1e-9));
   CHECK(near(t.axle_load_for_lateral(fy, d), fy / (0.1 * 1.826), 1e-12));  // the old reading
 }
+
+TEST_CASE("the load stretch that holds a lateral force where no tyre is on its floor") {
+  // A second reader's case: past a tyre's vertex the capacity also grows again where the inner
+  // tyre touches down (L = 2 d), so the loads that hold a force are more than one stretch with
+  // no tyre on its floor (mu0 1, Fn 2 000 N, s 0.9: the floor from 4 000 N a tyre, the outer's
+  // at L = 5 000 N; d 1 500 N, fy 1 900 N: stretches from some 1 627, 3 604 and 5 093 N). At
+  // 4 000 N the axle is in the second: its least, 3 603.6 N (the reader's reference), not the
+  // parabolas' least load of all, 1 626.8 N, where the old reading put the front bound.
+  const TyreModel t(Tyres{1.0, 1.0, 2000.0, 0.9, 2.0, 0.3, 0.0});
+  const double fy = 1900.0, d = 1500.0, load = 4000.0;
+  REQUIRE(0.5 * load + d < t.floor_onset_load_n());  // the outer tyre off its floor
+  const double least = t.axle_load_holding_lateral(fy, d, load);
+  CHECK(near(least, 3603.58, 1e-5));
+  CHECK(near(least, stretch_least_by_walking(t, fy, d, load), 1e-9));
+  CHECK(near(t.axle_load_for_lateral(fy, d), 1626.79, 1e-5));
+  // Just below the stretch the axle does not hold the force.
+  CHECK(t.axle_limits(least * (1.0 - 1e-6), d).fy_max < fy);
+}

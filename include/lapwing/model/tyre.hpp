@@ -132,16 +132,20 @@ class TyreModel {
   /// floor) holds |fy_n|: where the axle holds it at `load_n`, the lowest load down to which it
   /// goes on holding it; where it does not, the lowest load above `load_n` at which it does. A
   /// rear-driven car's front bound reads it (axle.cpp): the front keeps its lateral force while
-  /// acceleration takes load off it down to there. The capacity is not monotonic in the load:
-  /// past its vertex a tyre's parabola falls, and from the floor's load on it grows again (0.1
-  /// mu0 Fz), so the loads that hold a force can be more than one stretch, and the least of them
-  /// all can lie below a stretch that the axle's load is in. axle_load_for_lateral's parabolas
-  /// answer where the stretch lies off the floor; else the capacity is read piece by piece
-  /// (axle_load_holding_lateral_by_pieces). Reading the floor's load |fy| / (0.1 mu0) there instead
-  /// (with the outer tyre on its floor, the inner's parabola and the floor's line hold the force
-  /// at a far lower load) made a front bound of -4.9 g at a point the front held with usage
-  /// 0.83, and a lap that braked every 9 m on a 15 m arc (a monotonicity campaign's
-  /// front-heavy car with load sensitivity 0.625: more grip, a slower lap).
+  /// acceleration takes load off it down to there; where it does not hold the force at a = 0
+  /// the bound is a deceleration (a stretch further below, which a larger acceleration could
+  /// reach, is not taken: the bound is one upper limit). The capacity is not monotonic in the
+  /// load once a tyre is past its force's vertex: its parabola falls there, and grows again
+  /// where the inner tyre touches down (2 d) and along the floor (0.1 mu0 Fz from the floor's
+  /// load), so the loads that hold a force can be more than one stretch, and the least of them
+  /// all can lie below the stretch that the axle's load is in. The parabolas' least load (below)
+  /// answers where no change of branch between it and `load_n` leaves a gap; else the capacity
+  /// is read piece by piece (axle_load_holding_lateral_by_pieces). Reading the parabolas'
+  /// answer, or their floor load |fy| / (0.1 mu0), there instead (with the outer tyre on its
+  /// floor, the inner's parabola and the floor's line hold the force at a far lower load) made
+  /// a front bound of -4.9 g at a point the front held with usage 0.83, and a lap that braked
+  /// every 9 m on a 15 m arc (a monotonicity campaign's front-heavy car with load sensitivity
+  /// 0.625: more grip, a slower lap).
   double axle_load_holding_lateral(double fy_n, double transfer_n, double load_n) const {
     const double d = std::max(transfer_n, 0.0);
     const double fy = std::abs(fy_n);
@@ -150,11 +154,13 @@ class TyreModel {
     // 2 (onset + d). Between them the capacity is one quadratic in L, concave.
     const double onset = floor_onset_load_n();  // per tyre; infinity without load sensitivity
     const double outer_onset = onset <= 2.0 * d ? onset : 2.0 * (onset - d);
-    // The parabolas' answer r (axle_load_for_lateral) is the least load of all that holds fy
-    // where the outer tyre is off its floor at r (below r both tyres are on their parabolas,
-    // which that answer inverts). It is the stretch's where load_n lies below it (nothing
-    // lower holds fy), or where the axle holds fy at load_n and at each change of branch
-    // between: each piece between is concave, and holds fy at both its ends.
+    // The parabolas' least load r (parabola_load_for_lateral; with no transfer,
+    // axle_load_for_lateral, whose floor load goes to the pieces) is the least load of all that
+    // holds fy where the outer tyre is off its floor at r (below r both tyres are on their
+    // parabolas, which r inverts). It is the stretch's where load_n lies below it (nothing lower
+    // holds fy), or where the axle holds fy at load_n and at each change of branch between
+    // (one to four readings of the capacity): each piece between is concave, and holds fy at
+    // both its ends.
     const std::optional<double> r =
         d > 0.0 ? parabola_load_for_lateral(fy, d) : std::optional(axle_load_for_lateral(fy));
     if (r && *r <= outer_onset) {
