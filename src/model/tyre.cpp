@@ -32,11 +32,10 @@ namespace {
 struct Quadratic {
   double a = 0.0, b = 0.0, c = 0.0;
 };
-void add_tyre(Quadratic& q, double alpha, double beta, bool on_floor, double b1, double k,
-              double floor_fraction) {
+void add_tyre(Quadratic& q, double alpha, double beta, bool on_floor, double b1, double k) {
   if (on_floor) {
-    q.b += floor_fraction * alpha;
-    q.c += floor_fraction * beta;
+    q.b += TyreModel::floor_fraction * alpha;
+    q.c += TyreModel::floor_fraction * beta;
   } else {
     q.a -= k * alpha * alpha;
     q.b += b1 * alpha - 2.0 * k * alpha * beta;
@@ -47,13 +46,12 @@ void add_tyre(Quadratic& q, double alpha, double beta, bool on_floor, double b1,
 
 double TyreModel::axle_load_holding_lateral_by_pieces(double fy, double d, double load_n) const {
   const double onset = floor_onset_load_n();
-  const double outer_onset = onset <= 2.0 * d ? onset : 2.0 * (onset - d);
-  const double inner_onset = 2.0 * (onset + d);
+  const BranchChanges at = branch_changes(d);
   // Piece by piece: each piece's loads that hold fy (where its concave quadratic is >= 0), the
   // stretches joined where they meet at a piece's end.
   const double c0 = fy / mu_lat0_;
   const double k = sensitivity_per_n_, b1 = 1.0 + sensitivity_per_n_ * nominal_n_;
-  std::array<double, 5> ends{0.0, 2.0 * d, outer_onset, inner_onset,
+  std::array<double, 5> ends{0.0, at.lift, at.outer_floor, at.inner_floor,
                              std::numeric_limits<double>::infinity()};
   std::sort(ends.begin(), ends.end());
   struct Stretch {
@@ -68,10 +66,10 @@ double TyreModel::axle_load_holding_lateral_by_pieces(double fy, double d, doubl
     Quadratic q;
     q.c = -c0;
     if (mid > 2.0 * d) {
-      add_tyre(q, 0.5, -d, 0.5 * mid - d > onset, b1, k, floor_fraction);
-      add_tyre(q, 0.5, d, 0.5 * mid + d > onset, b1, k, floor_fraction);
+      add_tyre(q, 0.5, -d, 0.5 * mid - d > onset, b1, k);
+      add_tyre(q, 0.5, d, 0.5 * mid + d > onset, b1, k);
     } else {
-      add_tyre(q, 1.0, 0.0, mid > onset, b1, k, floor_fraction);
+      add_tyre(q, 1.0, 0.0, mid > onset, b1, k);
     }
     // The piece's loads with A L^2 + B L + C >= 0 (A <= 0: an interval).
     double from = lo, to = hi;

@@ -149,11 +149,7 @@ class TyreModel {
   double axle_load_holding_lateral(double fy_n, double transfer_n, double load_n) const {
     const double d = std::max(transfer_n, 0.0);
     const double fy = std::abs(fy_n);
-    // Where a tyre's branch changes along the axle's load L: the inner tyre lifts below 2 d, the
-    // outer one reaches its floor at L = onset (the inner lifted) or 2 (onset - d), the inner at
-    // 2 (onset + d). Between them the capacity is one quadratic in L, concave.
-    const double onset = floor_onset_load_n();  // per tyre; infinity without load sensitivity
-    const double outer_onset = onset <= 2.0 * d ? onset : 2.0 * (onset - d);
+    const BranchChanges at = branch_changes(d);
     // The parabolas' least load r (parabola_load_for_lateral; with no transfer,
     // axle_load_for_lateral, whose floor load goes to the pieces) is the least load of all that
     // holds fy where the outer tyre is off its floor at r (below r both tyres are on their
@@ -163,11 +159,11 @@ class TyreModel {
     // both its ends.
     const std::optional<double> r =
         d > 0.0 ? parabola_load_for_lateral(fy, d) : std::optional(axle_load_for_lateral(fy));
-    if (r && *r <= outer_onset) {
+    if (r && *r <= at.outer_floor) {
       if (load_n <= *r) return *r;
       const auto holds = [&](double l) { return axle_limits(l, d).fy_max >= fy; };
       bool stretch = holds(load_n);
-      for (const double kink : {2.0 * d, outer_onset, 2.0 * (onset + d)})
+      for (const double kink : {at.lift, at.outer_floor, at.inner_floor})
         if (kink > *r && kink < load_n) stretch = stretch && holds(kink);
       if (stretch) return *r;
     }
@@ -175,6 +171,17 @@ class TyreModel {
   }
 
  private:
+  /// Where a tyre's branch changes along the axle's load L with `d` moved to the outer tyre: the
+  /// inner tyre lifts below 2 d, the outer one reaches its floor at L = onset (the inner lifted)
+  /// or 2 (onset - d), the inner at 2 (onset + d) (onset per tyre: floor_onset_load_n, infinity
+  /// without load sensitivity). Between them the capacity is one quadratic in L, concave.
+  struct BranchChanges {
+    double lift, outer_floor, inner_floor;
+  };
+  BranchChanges branch_changes(double d) const {
+    const double onset = floor_onset_n_;
+    return {2.0 * d, onset <= 2.0 * d ? onset : 2.0 * (onset - d), 2.0 * (onset + d)};
+  }
   /// axle_load_holding_lateral piece by piece (tyre.cpp): fy >= 0, d >= 0.
   double axle_load_holding_lateral_by_pieces(double fy, double d, double load_n) const;
   /// axle_load_for_lateral's two-tyre and lifted roots of the parabolas (no floor): nullopt
