@@ -159,7 +159,13 @@ inline bool settled(double step, double last_step, double dg, double last_dg) {
 // known sign brackets nothing yet on the other side. Two evaluations mostly (`settled` skips
 // the one that would confirm the second), instead of four or five from a = 0. Where the iterate
 // would leave what is known (an unbounded side, a step at g' >= 0 without a feasible point to
-// its left), the cold start from a = 0 decides.
+// its left), the cold start from a = 0 decides; so does an iterate below 0, the cold start's
+// floor. The answer is the upper root of the feasible stretch that holds a = 0, and a hint
+// from well above it can take a step past it into the stretch where the axle has nothing left
+// (phi flat at the resistance's R / m, g not concave there), whose own root is no answer: a
+// differential campaign's stale front hint of 8 m/s^2 settled on d = R / m = -0.30 m/s^2 down a
+// 5 % slope, the front axle's usage 1.0022 with no braking force asked, where the answer from
+// a = 0 is 1.89 (axle_test).
 template <typename Phi>
 std::optional<double> newton_from(Phi phi, double& hint) {
   constexpr double step_tolerance = 0.1 * transfer_tolerance_mps2;
@@ -180,9 +186,10 @@ std::optional<double> newton_from(Phi phi, double& hint) {
       const double step = std::abs(next - a);
       if (step <= step_tolerance || settled(step, last_step, dg, last_dg)) {
         r = std::max(lo, next - feasible_side);
+        if (*r < 0.0) r.reset();
         break;
       }
-      if (!(next > lo && next < hi)) break;
+      if (!(next >= 0.0 && next > lo && next < hi)) break;
       a = next;
       last_step = step;
       last_dg = dg;
@@ -230,19 +237,21 @@ bool feasible(const T& t, double a) {
 // tolerance) above the root r it returns, g(bound) >= 0 with bound > r needs bound <= r*:
 // bound more than bound_margin above r is infeasible for sure. g is not concave everywhere
 // (where an inner tyre lifts, at the mu floor, and where the axle has nothing left and phi is
-// flat at -R / m), and a warm start from well above the root can settle on that flat part's
-// root, a = -R / m < 0 (found in review: invented cars with a 1 m centre of gravity); a root
-// below 0 is never taken first, so the bound-first order decides there as well.
+// flat at -R / m), and a warm start from well above the root could settle on that flat part's
+// root, a = -R / m < 0 (found in review: invented cars with a 1 m centre of gravity); newton_from
+// now starts afresh from 0 where its iterate would go below 0, and a root below 0 is never taken
+// first, so the bound-first order decides there as well.
 constexpr double bound_margin_mps2 = 1e-6;
 template <typename Phi>
 std::optional<double> lower_to(const Phi& phi, double& hint, double bound, bool* below = nullptr) {
   if (below && *below && std::isfinite(bound)) {
     const double before = hint;
     const std::optional<double> r = newton_from(phi, hint);
-    // Only a root at or above 0 is the upper root of the interval that holds 0 (newton_upper_root
-    // never goes below 0): the warm start can also settle on a root where the axle has nothing
-    // left (phi = -R / m, a = -R / m < 0: a saturated axle's flat phi, g not concave there), with
-    // a feasible bound above it, which the bound-first order returns.
+    // Only a root at or above 0 is the upper root of the interval that holds 0 (neither
+    // newton_from nor newton_upper_root answers below 0; the test stays as the guard it was
+    // before newton_from's iterates were kept at or above 0): a root where the axle has nothing
+    // left (phi = -R / m, a = -R / m < 0: a saturated axle's flat phi, g not concave there) is
+    // none, and a feasible bound above it is what the bound-first order returns.
     if (r && *r >= 0.0 && *r <= bound - bound_margin_mps2) return r;
     if (feasible(phi, bound)) {
       hint = before;  // the other order never solves for the root

@@ -602,3 +602,65 @@ segments:
     CHECK(worst > -0.5 / 3.6);
   }
 }
+
+TEST_CASE("a braking solve from a hint far above its answer does not settle below zero") {
+  // A differential campaign's finding (a brute-force scan of the deceleration against the tyre
+  // law, helper session): a warm start from a stale front hint (8 m/s^2, left by seven steps of
+  // a sweep along an arc where the rear set the answers) took one Newton step past the answer
+  // into the stretch where the front has nothing left for braking (its lateral force takes it
+  // all: phi flat at R / m), and settled on that flat part's root, d = R / m = -0.30 m/s^2 down
+  // a 5 % slope: the car "braking" by accelerating, its front axle's usage 1.0022 with no
+  // braking force asked. From no hint the solve answers 1.89 m/s^2, the front on its limit.
+  // Inside the steady limit the answer is the top of the feasible stretch that holds a
+  // deceleration of 0 (README, "Physics and assumptions"), never below 0, whatever the hint;
+  // hints only move where the solve starts. An invented car: tall (cg 0.88 m over a 3 m
+  // wheelbase), front-heavy (65 %), load sensitivity 0.28, ellipse exponent 2.2, no roll
+  // geometry, braking at 9.6 m/s on a 7.9 m radius down a 5 % slope.
+  const Car car = load_car(test::scratch_file("downhill-braking.yaml", R"(format: 1
+name: "invented downhill braking car"
+mass: 775 kg
+cg_height: 0.88 m
+wheelbase: 3.0 m
+front_weight: 0.65
+tyres: {mu_long: 1.15, mu_lat: 1.56, nominal_load: 1311 N, load_sensitivity: 0.28,
+        ellipse_exponent: 2.2, rolling_radius: 0.33 m, rolling_resistance: 0.012}
+powertrain: {constant_power: 500 kW, driven_axle: rear}
+brakes: {front_bias: 0.6}
+aero:
+  drag_height: 0.9 m
+  configs:
+    c: {cda: 0.94 m2, cla: 4.16 m2, balance: 0.357}
+)"));
+  const Envelope env(car.configured(0), make_air(AirSpec{}));
+  Road road;
+  road.sin_slope = -0.05;
+  road.cos_slope = std::sqrt(1 - 0.05 * 0.05);
+  const double u = 92.0, k = 0.126;
+  REQUIRE(axle_steady_excess(env, std::sqrt(u), k, road) < 0.0);  // inside the steady limit
+  const Envelope::RoadForces f = env.road_forces(env.rows(false), u, k, road);
+  const auto usage = [&](double decel) {
+    const AxleLoads l = axle_loads(env.car(), f.drag_n, f.downforce_n, f.balance, f.normal_share,
+                                   road.sin_slope, -decel);
+    const AxleUsage a =
+        axle_usage(env, l, -env.mass_kg() * decel + f.resistance_n, std::abs(f.lateral_n));
+    return std::max(a.front_usage, a.rear_usage);
+  };
+  const double cold = axle_brake_accel(env, u, k, road, nullptr);
+  CAPTURE(cold);
+  CHECK(cold > 1.0);
+  CHECK(usage(cold) <= 1.0 + 1e-9);
+  CHECK(usage(cold) >= 1.0 - 1e-6);  // an axle on its limit
+  for (const double front : {0.5, 1.0, 3.0, 5.0, 8.0, 12.0, 20.0})
+    for (const bool rear_binds : {false, true}) {
+      AxleHints hints;
+      hints.front = front;
+      hints.rear = 1.0;
+      hints.rear_binds = rear_binds;
+      const double warm = axle_brake_accel(env, u, k, road, &hints);
+      CAPTURE(front);
+      CAPTURE(rear_binds);
+      CAPTURE(warm);
+      CHECK(std::abs(warm - cold) <= 1e-8);  // the two searches' sides: 1e-8 (as above)
+      CHECK(usage(warm) <= 1.0 + 1e-9);
+    }
+}
