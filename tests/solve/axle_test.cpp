@@ -19,6 +19,16 @@ namespace {
 Car formula(std::size_t config) {
   return load_car(test::source_path("cars/pellion-fr2.yaml")).configured(config).car();
 }
+// The larger axle usage (axle_usage) braking at `decel` (m/s^2) at u = v^2 on a point of
+// curvature k and its road, at the loads that deceleration sets.
+double braking_usage(const Envelope& env, double u, double k, const Road& road, double decel) {
+  const Envelope::RoadForces f = env.road_forces(env.rows(false), u, k, road);
+  const AxleLoads l = axle_loads(env.car(), f.drag_n, f.downforce_n, f.balance, f.normal_share,
+                                 road.sin_slope, -decel);
+  const AxleUsage a =
+      axle_usage(env, l, -env.mass_kg() * decel + f.resistance_n, std::abs(f.lateral_n));
+  return std::max(a.front_usage, a.rear_usage);
+}
 }  // namespace
 
 TEST_CASE("with no aero, no drag height and no acceleration the shares are the static split") {
@@ -360,14 +370,7 @@ TEST_CASE("a braking solve started next to its answer stays on the feasible side
   road.sin_slope = 0.12;
   road.cos_slope = std::sqrt(1 - 0.12 * 0.12);
   const double u = 64.0, k = 0.25501002443187554;
-  const auto usage = [&](double decel) {
-    const Envelope::RoadForces f = env.road_forces(env.rows(false), u, k, road);
-    const AxleLoads l = axle_loads(env.car(), f.drag_n, f.downforce_n, f.balance, f.normal_share,
-                                   road.sin_slope, -decel);
-    const AxleUsage a =
-        axle_usage(env, l, -env.mass_kg() * decel + f.resistance_n, std::abs(f.lateral_n));
-    return std::max(a.front_usage, a.rear_usage);
-  };
+  const auto usage = [&](double decel) { return braking_usage(env, u, k, road, decel); };
   const double cold = axle_brake_accel(env, u, k, road, nullptr);
   CHECK(usage(cold) <= 1.0 + 1e-9);
   AxleHints hints;
@@ -637,14 +640,7 @@ aero:
   road.cos_slope = std::sqrt(1 - 0.05 * 0.05);
   const double u = 92.0, k = 0.126;
   REQUIRE(axle_steady_excess(env, std::sqrt(u), k, road) < 0.0);  // inside the steady limit
-  const Envelope::RoadForces f = env.road_forces(env.rows(false), u, k, road);
-  const auto usage = [&](double decel) {
-    const AxleLoads l = axle_loads(env.car(), f.drag_n, f.downforce_n, f.balance, f.normal_share,
-                                   road.sin_slope, -decel);
-    const AxleUsage a =
-        axle_usage(env, l, -env.mass_kg() * decel + f.resistance_n, std::abs(f.lateral_n));
-    return std::max(a.front_usage, a.rear_usage);
-  };
+  const auto usage = [&](double decel) { return braking_usage(env, u, k, road, decel); };
   const double cold = axle_brake_accel(env, u, k, road, nullptr);
   CAPTURE(cold);
   CHECK(cold > 1.0);
