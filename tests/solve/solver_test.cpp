@@ -1570,3 +1570,80 @@ TEST_CASE("a sweep from a closed mesh's seam is the sweep from its first point")
   std::vector<double> shorter(steady.speed_mps.begin(), steady.speed_mps.end() - 1);
   CHECK_THROWS_AS(sweep(env, c.mesh, Sweep::forward, shorter, 0, v0), std::invalid_argument);
 }
+
+TEST_CASE("a road with two top speeds takes the one a car reaches from rest as its engine limit") {
+  // A differential campaign's finding (a brute-force scan of drive against resistance, helper
+  // session, 2026-12-05): an invented car whose torque dips at 7 500 rpm and recovers by 8 500
+  // (and whose invented speed table's drag falls at high speed) holds a 4.8 % downhill bend at
+  // full drive up to some 78 m/s and again above some 89; the steady limit took the upper top
+  // speed (the engine holding the tables' top) and read the tyres' 78.85 m/s, `grip`, where the
+  // drive fell 166 N short of the resistance. The reference here is the definition itself: the
+  // first speed from rest, scanned every 0.01 m/s and then bisected, at which the drive in the
+  // best gear falls short of the resistance (Envelope::road_forces, as the solver reads them).
+  // The limit there must be that speed, within the root finder's 2^-36 and the bisection's
+  // 1e-9 m/s (1e-8 relative allowed), labelled `engine`.
+  const Car car = load_car(test::scratch_file("torque-dip.yaml", R"(format: 1
+name: "invented torque-dip car"
+mass: 1019 kg
+inertia_factor: 0.074
+cg_height: 0.223 m
+wheelbase: 2.452 m
+front_weight: 0.372
+tyres: {mu_long: 1.726, mu_lat: 1.351, nominal_load: 3572 N, load_sensitivity: 0.1326,
+        ellipse_exponent: 2.2, rolling_radius: 0.34 m, rolling_resistance: 0.02839}
+powertrain:
+  torque_curve: {rpm: [2000, 4000, 6000, 7500, 8500], torque: [576.9, 470.1, 491.5, 250.2, 375.0]}
+  rev_limit: 8500 rpm
+  gears: [3.4518, 2.4810, 1.9416, 1.5641, 1.2944, 1.0787]
+  final_drive: 3.1
+  shift_time: 0.08 s
+  efficiency: 0.9
+  driven_axle: front
+brakes: {front_bias: 0.7107}
+aero:
+  drag_height: 0.676 m
+  configs:
+    c:
+      speed_table:
+        speed: [10.30 m/s, 46.33 m/s, 85.54 m/s, 115.56 m/s, 125.79 m/s, 149.47 m/s, 166.19 m/s]
+        cda: [0.5945, 0.7412, 0.6420, 0.6663, 0.6029, 1.0569, 0.8363]
+        cla: [3.0721, 2.4973, 1.7231, 1.8487, 1.8574, 1.8820, 1.8741]
+        balance: [0.5346, 0.4243, 0.5786, 0.6339, 0.5247, 0.3966, 0.2448]
+)"));
+  const Track track = load_track(test::scratch_file("downhill-bend.yaml", R"(format: 1
+name: "invented downhill bend"
+closed: false
+start_speed: 0 km/h
+mesh: 1 m
+segments:
+  - straight: 20 m
+  - arc: {radius: 309 m, angle: 20 deg, turn: left, grade: -4.8 %}
+)"));
+  const Envelope env(car.configured(0), make_air(track.air));
+  const Mesh mesh = build_mesh(track, 1.0);
+  const SteadyProfile p = steady_profile(env, mesh);
+  const std::size_t i = mesh.size() / 2;  // on the bend
+  REQUIRE(mesh.grade_at(i) < 0.0);
+  // The slope from the grade (tan of the angle), as the solver reads the road there.
+  const double grade = mesh.grade_at(i), cos_slope = 1.0 / std::sqrt(1.0 + grade * grade);
+  const Road road{cos_slope, grade * cos_slope, 1.0, 0.0, 0.0};
+  const double k = std::abs(mesh.curvature_1pm[i]);
+  const auto short_n = [&](double v) {
+    const Envelope::RoadForces f = env.road_forces(env.rows(false), v * v, k, road);
+    return f.resistance_n - f.drive_n;
+  };
+  double lo = 0.0;
+  while (lo < env.max_speed_mps() && short_n(lo + 0.01) <= 0.0) lo += 0.01;
+  double hi = lo + 0.01;
+  while (hi - lo > 1e-9) (short_n(0.5 * (lo + hi)) <= 0.0 ? lo : hi) = 0.5 * (lo + hi);
+  // The road does have a second top speed above the first (what the campaign found).
+  bool holds_again = false;
+  for (double v = hi + 1.0; v < env.max_speed_mps() && !holds_again; v += 0.01)
+    holds_again = short_n(v) <= 0.0;
+  REQUIRE(holds_again);
+  CAPTURE(lo);
+  CAPTURE(p.speed_mps[i]);
+  CHECK(p.speed_mps[i] == doctest::Approx(lo).epsilon(1e-8));
+  CHECK(p.limit[i] == SteadyLimit::engine);
+  CHECK(short_n(p.speed_mps[i]) <= 0.0);
+}
