@@ -272,18 +272,13 @@ Envelope::Envelope(Unchecked, const ConfiguredCar& configured, const Car& car, c
   net_floor_.resize(n);
   if (a.trim) trim_net_floor_.resize(n);
   double least = std::numeric_limits<double>::infinity(), trim_least = least;
-  const auto follow = [this](double& floor, std::size_t k, const Sample& row) {
-    return floor =
-               std::min(floor, row.drive_n - (row.drag_coef + crr_ * row.lift_coef) *
-                                                 (static_cast<double>(k) * du_));  // net_drive's
-  };
   for (std::size_t k = 0; k < n; ++k) {
     const double v = row_speed(k, n, v_max_, du_);
     // The engine in this air (SAE J1349 for natural and turbo).
     const double drive_n = drive->force_n[k] * power_ratio_;
     const AeroPoint c = one_row ? fixed : aero_at(v);
     rows_[k] = {drive_n, 0.5 * rho_ * c.cda_m2, 0.5 * rho_ * c.cla_m2, c.balance};
-    net_floor_[k] = follow(least, k, rows_[k]);
+    net_floor_[k] = least = std::min(least, net_drive(false, k));
     gear_[k] = drive->gear[k];
     if (a.trim) {
       const StraightTrim& t = *a.trim;
@@ -298,7 +293,7 @@ Envelope::Envelope(Unchecked, const ConfiguredCar& configured, const Car& car, c
                                            ", balance " + std::to_string(bal) + ")",
                                        "aero.configs." + a.name));
       trim_rows_[k] = {drive_n, 0.5 * rho_ * cda, 0.5 * rho_ * cla, bal};
-      trim_net_floor_[k] = follow(trim_least, k, trim_rows_[k]);
+      trim_net_floor_[k] = trim_least = std::min(trim_least, net_drive(true, k));
     }
   }
   // Top speed on the level: the one speed where drive = resistance (REFERENCES: the cubic

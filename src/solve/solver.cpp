@@ -296,7 +296,7 @@ constexpr double extrapolated_width = 2e-4;
 // the last point's answer brackets it), which a car accelerating from below never reaches: a
 // differential campaign against a scan of drive and resistance (2026-12-05) found a bend's limit
 // read `grip` at 78.85 m/s where the drive fell 166 N short, the engine holding up to 77.97 and
-// again from 89.41. Where the road has no bank and the air is still (Envelope::net_drive) and
+// again from 89.41. Where the road has no bank and the air is still (Envelope::net_drive_floor) and
 // the car holds a standstill, a row below `found` whose drive falls short moves the answer to
 // the first crossing from rest: the root in the cell of the first row whose net drive falls
 // below the resistance at rest, c = W (crr cos(slope) + sin(slope)). Elsewhere, and where no row
@@ -307,20 +307,19 @@ double engine_from_rest(const Envelope& env, bool trimmed, const Road& road, F s
                         double found) {
   namespace tools = boost::math::tools;
   if (road.sin_bank != 0.0 || road.head_wind_mps != 0.0) return found;
-  const std::size_t rows = env.rows_count();
+  const std::vector<double>& floor = env.net_drive_floor(trimmed);
   const double c = env.weight_n() * (env.rolling_resistance() * road.cos_slope + road.sin_slope);
   // A car that cannot hold a standstill: found's search from the top speed down stands.
-  if (rows < 2 || !(env.net_drive(trimmed, 0) >= c)) return found;
+  if (floor.size() < 2 || !(floor.front() >= c)) return found;
   const double inv_du = env.rows(trimmed).inv_du;
   // The last row strictly below found.
   const double at = found * found * inv_du;
-  const std::size_t below =
-      std::min(at >= 1.0 ? static_cast<std::size_t>(std::ceil(at)) - 1 : std::size_t{0}, rows - 1);
-  const std::vector<double>& floor = env.net_drive_floor(trimmed);
+  const std::size_t below = std::min(
+      at >= 1.0 ? static_cast<std::size_t>(std::ceil(at)) - 1 : std::size_t{0}, floor.size() - 1);
   if (floor[below] >= c) return found;
   const auto first = std::partition_point(floor.begin(), floor.begin() + below + 1,
                                           [c](double least) { return least >= c; });
-  const auto k = static_cast<std::size_t>(first - floor.begin());  // >= 1: net_drive(0) >= c
+  const auto k = static_cast<std::size_t>(first - floor.begin());  // >= 1: floor[0] >= c
   const double lo = std::sqrt(static_cast<double>(k - 1) / inv_du),
                hi = std::sqrt(static_cast<double>(k) / inv_du);
   const double f_lo = short_n(lo), f_hi = short_n(hi);

@@ -171,22 +171,16 @@ class Envelope {
   /// drag turns negative); else 0. Braking on such a road decelerates by at least this much
   /// (the tyres' force left is never negative).
   double level_resistance_floor_mps2() const { return level_resistance_floor_mps2_; }
-  /// The net drive at row k (u = k du) of the plain or the trimmed rows, h = drive - (drag_coef
-  /// + crr lift_coef) u: where the wind is still and the road has no bank the resistance less
-  /// the drive is c - h(u), c = W (crr cos(slope) + sin(slope)) (road_forces), so the first row
-  /// whose h falls below c is the first whose drive falls short from rest up (steady_points: the
-  /// engine's limit from rest where a dip in the drive gives a road two top speeds).
-  double net_drive(bool trimmed, std::size_t k) const {
-    const Sample& row = (trimmed ? trim_rows_ : rows_)[k];
-    return row.drive_n - (row.drag_coef + crr_ * row.lift_coef) * (static_cast<double>(k) * du_);
-  }
-  /// Row by row, the least net drive over the rows from the first to that one (a car's net
-  /// drive rises in each gear below its torque's peak and falls from gear to gear, so this is
-  /// where a dip below the resistance at rest shows first).
+  /// Row by row (row k at u = k du), the least net drive h = drive - (drag_coef + crr lift_coef)
+  /// u over the rows from the first to that one, on the plain or the trimmed rows: where the
+  /// wind is still and the road has no bank the resistance less the drive is c - h(u), c = W
+  /// (crr cos(slope) + sin(slope)) (road_forces), so the first row at which this falls below c
+  /// is the first whose drive falls short from rest up (steady_points: the engine's limit from
+  /// rest where a dip in the drive gives a road two top speeds). A car's net drive rises in
+  /// each gear below its torque's peak and falls from gear to gear.
   const std::vector<double>& net_drive_floor(bool trimmed) const {
     return trimmed ? trim_net_floor_ : net_floor_;
   }
-  std::size_t rows_count() const { return rows_.size(); }
 
   /// The forces on the road at u = v^2 on a point of curvature |k| (model/loads.hpp): the
   /// aero forces at the airspeed (airspeed_squared), the share of the weight the road carries
@@ -229,6 +223,11 @@ class Envelope {
   }
 
  private:
+  /// The net drive h at row k of the plain or the trimmed rows (net_drive_floor).
+  double net_drive(bool trimmed, std::size_t k) const {
+    const Sample& row = (trimmed ? trim_rows_ : rows_)[k];
+    return row.drive_n - (row.drag_coef + crr_ * row.lift_coef) * (static_cast<double>(k) * du_);
+  }
   /// The row at or below v: the gear in use up to the speed where the next one takes over.
   std::size_t index(double v) const {
     const double f = std::clamp(v * v * inv_du_, 0.0, static_cast<double>(rows_.size() - 1));
