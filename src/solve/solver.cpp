@@ -2060,7 +2060,8 @@ void LapSolver::speed_pass(const Envelope& env, const Mesh& mesh, double start_s
   // Both sweeps within `limit`, each point's speed held at or under it.
   auto sweeps = [&](const std::vector<double>& limit) {
     if (mesh.closed) {
-      if (quick_steps_ && !straight && env.level_resistance_floor_mps2() >= skip_floor_mps2)
+      if (quick_steps_ && (!straight || order_ == Order::phases) &&
+          env.level_resistance_floor_mps2() >= skip_floor_mps2)
         dispatch(env, integrator_, [&]<bool Axle, Integrator I>() {
           sweep_phases<Axle, I>(env, mesh, limit, i0, phase_splits(mesh, limit, i0), fwd, bwd,
                                 forward_part_, backward_part_, tables.get(), quick_steps_, second,

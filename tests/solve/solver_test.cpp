@@ -920,6 +920,48 @@ TEST_CASE("a lap on two threads is the lap on one, bit for bit, and fails the sa
   CHECK(one_error == two_error);
 }
 
+TEST_CASE("a study's laps in two phases are the lone lap's to the model's tolerance") {
+  // LapSolver::Order::phases (a study's solvers, parallel_for): on a level track of segments a
+  // closed lap's backward sweep goes after the forward one and steps at once over its stretches
+  // above it, where a lone lap runs the two side by side. Each order is the same lap bit for
+  // bit on one thread or two (the project's rule on threads); the two orders agree to the axle
+  // model's tolerance: its solves stop within 1e-9 m/s^2 of their root and start from other
+  // hints after a stretch taken at once, which moves a speed by some 1e-15 relative (measured:
+  // 6.1e-15 at most in lap time over the bundled laps); 1e-12 leaves room for that and fails
+  // at any change of the lap itself. The point mass takes no hints: its laps are the same.
+  for (const char* track : {"tracks/brannock-park.yaml", "tracks/saltmere-flats.yaml"}) {
+    const Circuit c = test::bundled_circuit(track);
+    REQUIRE(c.mesh.size() >= 2000);
+    for (const char* file : {"cars/caldra-gt.yaml", "cars/pellion-fr2.yaml"}) {
+      for (VehicleModel model : {VehicleModel::axle, VehicleModel::point_mass}) {
+        Car car = load_car(test::source_path(file));
+        car.model = model;
+        for (std::size_t k = 0; k < car.configs.size(); ++k) {
+          INFO(track << " " << file << " config " << k << " model " << static_cast<int>(model));
+          const Envelope env(car.configured(k), c.air);
+          LapSolver lone, one, two;
+          one.set_order(LapSolver::Order::phases);
+          two.set_order(LapSolver::Order::phases);
+          two.set_threads(2);
+          const Lap& side = lone.solve_speed(env, c.mesh, c.track.start_speed_mps);
+          const Lap& phases = one.solve_speed(env, c.mesh, c.track.start_speed_mps);
+          check_same_lap(phases, two.solve_speed(env, c.mesh, c.track.start_speed_mps));
+          CHECK(lone.skipped_steps() == 0);
+          CHECK(one.skipped_steps() > 0);  // the stretches were in fact taken at once
+          CHECK(one.skipped_steps() == two.skipped_steps());
+          CHECK(std::abs(phases.lap_time_s - side.lap_time_s) <= 1e-12 * side.lap_time_s);
+          double worst = 0.0;
+          for (std::size_t i = 0; i < c.mesh.size(); ++i)
+            worst = std::max(worst,
+                             std::abs(phases.speed_mps[i] - side.speed_mps[i]) / side.speed_mps[i]);
+          CHECK(worst <= 1e-12);
+          CHECK(phases.phase == side.phase);
+        }
+      }
+    }
+  }
+}
+
 namespace {
 // The test car with grip 0.3, a little downforce, a first gear that tops out at some 3 m/s and
 // 2 s shift cuts: an upshift on a climb stops it, and braking cannot hold it on a grade of -0.5

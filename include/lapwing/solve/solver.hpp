@@ -264,6 +264,22 @@ class LapSolver {
   /// The second thread starts with the first lap that uses it and lives as long as the solver.
   void set_threads(unsigned threads) { threads_ = threads; }
   unsigned threads() const { return threads_; }
+  /// How a closed lap's two sweeps are taken on a level track of segments (its straight steps
+  /// read from the step tables: many_straight_steps), where either way is the lap:
+  ///  - side_by_side (the default: a lap solved alone): both sweeps in lockstep, on two threads
+  ///    each split in two parts that run beside the other sweep's (sweep_apart), the quicker
+  ///    way for one lap on two threads;
+  ///  - phases (a study's laps, parallel_for): the forward sweep first, then the backward sweep
+  ///    beside its final speeds, stepping at once over the stretches where it stands above them
+  ///    (sweep_phases), the quicker way for a lap on one thread
+  ///    (docs/performance.md, "A study's laps in two phases").
+  /// Other closed laps (a fitted centerline, a graded circuit: few straight steps) take the
+  /// phases either way, open ones side by side. The two ways give the same lap to the axle
+  /// model's tolerance, not always to the bit (its solves start from other hints): some 1e-14
+  /// relative in lap time. Each is the same bit for bit on one thread or two.
+  enum class Order : std::uint8_t { side_by_side, phases };
+  void set_order(Order order) { order_ = order; }
+  Order order() const { return order_; }
   /// The speed solve: the steady limits, both sweeps, and the speed, phase and time traces
   /// (lap_time_s). No channel is filled (has_channels false): a study that needs lap times
   /// stops here. The result stays valid until the next solve.
@@ -335,6 +351,7 @@ class LapSolver {
   Integrator integrator_;
   bool quick_steps_;
   unsigned threads_ = 1;
+  Order order_ = Order::side_by_side;
   std::size_t skipped_steps_ = 0;
   std::unique_ptr<SecondThread> second_;
   Lap lap_;
