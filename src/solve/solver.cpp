@@ -2435,20 +2435,24 @@ void LapSolver::channels_pass(const Envelope& env, const Mesh& mesh, ChannelSet 
       }
       const Road road = Level ? road_at.level(i) : road_at(i);
       // Lateral acceleration in the road's plane, signed as the curvature: F_y / m (v^2 kappa on
-      // a flat road; less the weight's part down a bank).
-      const Envelope::RoadForces f = env.road_forces(env.rows(trimmed), v * v, k, road);
-      const double lat = (mesh.curvature_1pm[i] < 0.0 ? -1.0 : 1.0) * f.lateral_n / m;
+      // a flat road; less the weight's part down a bank). The body's loads alone (what
+      // road_forces works it from, the same to the bit), without the aero tables' read.
+      const double lat = (mesh.curvature_1pm[i] < 0.0 ? -1.0 : 1.0) *
+                         body_loads(env.mass_kg(), v * v, k, road).lateral_n / m;
       lap.lat_accel_mps2[i] = lat;
-      lap.drag_n[i] = f.drag_n;
-      lap.downforce_n[i] = f.downforce_n;
-      // A sweep's row reads the loads only under full drive at speed and in the window's turns.
+      // A sweep's row reads the loads and the aero forces only under full drive at speed and in
+      // the window's turns.
       if (!All && row &&
           !((v > row->drive_above_mps && full_drive(lap.phase[i])) ||
             (v > row->turning_above_mps && std::abs(lat) > row->turning_mps2))) {
         const double nan = std::numeric_limits<double>::quiet_NaN();
         lap.long_accel_mps2[i] = lap.front_load_n[i] = lap.rear_load_n[i] = nan;
+        lap.drag_n[i] = lap.downforce_n[i] = nan;
         continue;
       }
+      const Envelope::RoadForces f = env.road_forces(env.rows(trimmed), v * v, k, road);
+      lap.drag_n[i] = f.drag_n;
+      lap.downforce_n[i] = f.downforce_n;
       AxleUsage tested;
       bool used = false;
       const double ax = point_accel(i, road, f, trimmed, tested, used);

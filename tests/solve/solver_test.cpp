@@ -527,8 +527,9 @@ TEST_CASE("the loads alone are the full pass's loads, and summarise to the same 
 
 TEST_CASE(
     "a sweep row's loads pass works the loads only where the row reads them, to the same figures") {
-  // LapSolver::add_row_loads fills the axle loads under full drive above 200 km/h and at the
-  // balance window's points (above its speed, cornering harder than 0.5 g), NaN elsewhere; where
+  // LapSolver::add_row_loads fills the axle loads and the aero forces under full drive above
+  // 200 km/h and at the balance window's points (above its speed, cornering harder than 0.5 g),
+  // NaN elsewhere (the lateral acceleration from the floor up, as the full pass's); where
   // filled they are the full pass's to the model's rounding (its Newton hints go from filled
   // point to filled point: the axle model's fixed point is solved to 1e-9 m/s^2, 1e-10 of a
   // front share here, as the test above). The row's figures agree with the full summary's: the
@@ -565,7 +566,6 @@ TEST_CASE(
             if (row.speed_mps[i] < floor) continue;
             ++above_floor;
             CHECK(row.lat_accel_mps2[i] == all.lat_accel_mps2[i]);
-            CHECK(row.drag_n[i] == all.drag_n[i]);
             const bool wanted =
                 (row.speed_mps[i] > want.drive_above_mps && full_drive(row.phase[i])) ||
                 (row.speed_mps[i] > want.turning_above_mps &&
@@ -574,9 +574,13 @@ TEST_CASE(
               CHECK(std::isnan(row.front_load_n[i]));
               CHECK(std::isnan(row.rear_load_n[i]));
               CHECK(std::isnan(row.long_accel_mps2[i]));
+              CHECK(std::isnan(row.drag_n[i]));
+              CHECK(std::isnan(row.downforce_n[i]));
               continue;
             }
             ++filled;
+            CHECK(row.drag_n[i] == all.drag_n[i]);
+            CHECK(row.downforce_n[i] == all.downforce_n[i]);
             CHECK(near(row.front_load_n[i], all.front_load_n[i], 1e-10));
             CHECK(near(front_share(row, i), front_share(all, i), 1e-10));
           }

@@ -208,8 +208,8 @@ struct Lap {
   // NaN below it (LapSolver::add_channels' `loads_above_mps`; 0: everywhere). The trim, always.
   double loads_above_mps = 0.0;
   // The longitudinal acceleration and the axle loads only at a sweep's row's points, NaN at the
-  // other points above the floor (LapSolver::add_row_loads); the lateral acceleration, the aero
-  // forces and the trim as with `loads_above_mps`.
+  // other points above the floor (LapSolver::add_row_loads), and so the aero forces; the
+  // lateral acceleration and the trim as with `loads_above_mps`.
   bool row_loads = false;
 };
 
@@ -296,10 +296,10 @@ class LapSolver {
   /// rounding (its Newton hints go from filled point to filled point).
   const Lap& add_channels(const Envelope& env, const Mesh& mesh, ChannelSet set = ChannelSet::all,
                           double loads_above_mps = 0.0);
-  /// A loads pass (ChannelSet::loads) for a sweep's row: the lateral acceleration, aero forces
-  /// and trim from the lower of the two speeds up, the longitudinal acceleration and the axle
-  /// loads only at the points `want` names, NaN elsewhere (a straight's braking zone, the slow
-  /// turns): the model's answers a row never reads are not asked for. Where filled, the full
+  /// A loads pass (ChannelSet::loads) for a sweep's row: the lateral acceleration and trim
+  /// from the lower of the two speeds up, the longitudinal acceleration, the aero forces and
+  /// the axle loads only at the points `want` names, NaN elsewhere (a straight's braking zone,
+  /// the slow turns): the model's answers a row never reads are not asked for. Where filled, the full
   /// pass's to the model's rounding, as with `loads_above_mps` (Lap::row_loads true).
   const Lap& add_row_loads(const Envelope& env, const Mesh& mesh, const RowLoads& want);
   /// Both passes, as solve_lap: solve_speed, then add_channels.
