@@ -299,8 +299,8 @@ class LapSolver {
   /// A loads pass (ChannelSet::loads) for a sweep's row: the lateral acceleration and trim
   /// from the lower of the two speeds up, the longitudinal acceleration, the aero forces and
   /// the axle loads only at the points `want` names, NaN elsewhere (a straight's braking zone,
-  /// the slow turns): the model's answers a row never reads are not asked for. Where filled, the full
-  /// pass's to the model's rounding, as with `loads_above_mps` (Lap::row_loads true).
+  /// the slow turns): the model's answers a row never reads are not asked for. Where filled, the
+  /// full pass's to the model's rounding, as with `loads_above_mps` (Lap::row_loads true).
   const Lap& add_row_loads(const Envelope& env, const Mesh& mesh, const RowLoads& want);
   /// Both passes, as solve_lap: solve_speed, then add_channels.
   const Lap& solve(const Envelope& env, const Mesh& mesh, double start_speed_mps = 0.0);
