@@ -612,9 +612,13 @@ class Sweeper {
     resize_ready(r_.speed_mps, n_);  // every point is written on the way
     r_.speed_mps[start] = v_;
     if (forward_) {
-      r_.cut.assign(n_, 0);
-      r_.gear.assign(n_, 0);
+      // Every point the sweep reaches is written (end_step writes both at each step, finish the
+      // seam), and a part's are read only over the steps it took (take_part): no fill first,
+      // where a solver's buffers of the last lap hold the mesh's points already.
+      r_.cut.resize(n_);
+      r_.gear.resize(n_);
       gear_ = ideal_ ? 0 : env.gear(v_);
+      r_.cut[start] = 0;
       r_.gear[start] = gear_;
     } else {  // no shift under braking: the backward sweep keeps no cut or gear
       r_.cut = {};
@@ -865,13 +869,15 @@ class Sweeper {
     const double v_next = clipped ? limit_[j] : std::sqrt(u);
     if (forward_) {
       const double dt = 2.0 * ds_ / (v_ + v_next);
+      bool cut = false;
       if (cut_left_s_ > 0.0) {
         // The point counts as cut when the drive was off for at least half of the step that
         // reached it: the cut's share of the lap is then the same on any mesh (rounded to the
         // nearest step, not up to the next).
-        r_.cut[j] = cut_left_s_ >= 0.5 * dt;
+        cut = cut_left_s_ >= 0.5 * dt;
         cut_left_s_ = std::max(0.0, cut_left_s_ - dt);
       }
+      r_.cut[j] = cut;
       if (!ideal_) {
         // An upshift cuts the drive. The speed lost in the cut must not shift back down (that
         // would hunt at the shift point): under drive the engaged gear only goes up; it
