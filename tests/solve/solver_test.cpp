@@ -880,6 +880,27 @@ void check_same_lap(const Lap& a, const Lap& b) {
   CHECK(same_bits(a.phase, b.phase));
   CHECK(same_bits(a.trimmed, b.trimmed));
 }
+
+// Every config of each car file, with both vehicle models, on each bundled track (each above
+// the 2 000 points a lap on two threads needs): `f(circuit, envelope)` for each lap.
+template <class F>
+void each_bundled_lap(std::initializer_list<const char*> tracks,
+                      std::initializer_list<const char*> files, F f) {
+  for (const char* track : tracks) {
+    const Circuit c = test::bundled_circuit(track);
+    REQUIRE(c.mesh.size() >= 2000);
+    for (const char* file : files) {
+      for (VehicleModel model : {VehicleModel::axle, VehicleModel::point_mass}) {
+        Car car = load_car(test::source_path(file));
+        car.model = model;
+        for (std::size_t k = 0; k < car.configs.size(); ++k) {
+          INFO(track << " " << file << " config " << k << " model " << static_cast<int>(model));
+          f(c, Envelope(car.configured(k), c.air));
+        }
+      }
+    }
+  }
+}
 }  // namespace
 
 TEST_CASE("a lap on two threads is the lap on one, bit for bit, and fails the same way") {
@@ -887,28 +908,18 @@ TEST_CASE("a lap on two threads is the lap on one, bit for bit, and fails the sa
   // halves apart; the lap must not depend on it (STYLE: outputs byte-identical whatever the
   // number of threads). Every bundled car, config and model on four tracks above the
   // 2 000-point threshold, every trace compared bit for bit, with and without the channels.
-  for (const char* track : {"tracks/brannock-park.yaml", "tracks/brannock-park-survey.yaml",
-                            "tracks/cairnholt.yaml", "tracks/saltmere-flats.yaml"}) {
-    const Circuit c = test::bundled_circuit(track);
-    REQUIRE(c.mesh.size() >= 2000);
-    for (const char* file : {"cars/caldra-gt.yaml", "cars/pellion-fr2.yaml",
-                             "tests/data/caldra-gt-exponent-2.2.yaml"}) {
-      for (VehicleModel model : {VehicleModel::axle, VehicleModel::point_mass}) {
-        Car car = load_car(test::source_path(file));
-        car.model = model;
-        for (std::size_t k = 0; k < car.configs.size(); ++k) {
-          INFO(track << " " << file << " config " << k << " model " << static_cast<int>(model));
-          const Envelope env(car.configured(k), c.air);
-          LapSolver one, two;
-          two.set_threads(2);
-          check_same_lap(one.solve_speed(env, c.mesh, c.track.start_speed_mps),
-                         two.solve_speed(env, c.mesh, c.track.start_speed_mps));
-          check_same_lap(one.solve(env, c.mesh, c.track.start_speed_mps),
-                         two.solve(env, c.mesh, c.track.start_speed_mps));
-        }
-      }
-    }
-  }
+  each_bundled_lap(
+      {"tracks/brannock-park.yaml", "tracks/brannock-park-survey.yaml", "tracks/cairnholt.yaml",
+       "tracks/saltmere-flats.yaml"},
+      {"cars/caldra-gt.yaml", "cars/pellion-fr2.yaml", "tests/data/caldra-gt-exponent-2.2.yaml"},
+      [](const Circuit& c, const Envelope& env) {
+        LapSolver one, two;
+        two.set_threads(2);
+        check_same_lap(one.solve_speed(env, c.mesh, c.track.start_speed_mps),
+                       two.solve_speed(env, c.mesh, c.track.start_speed_mps));
+        check_same_lap(one.solve(env, c.mesh, c.track.start_speed_mps),
+                       two.solve(env, c.mesh, c.track.start_speed_mps));
+      });
   // A grade the car cannot climb, on a mesh long enough for two threads: the same error.
   Track t = test::straight_track(1500.0, 0.5, 0.0);
   t.segments = {test::straight(1000.0), test::straight(500.0, 0.45)};
@@ -932,38 +943,28 @@ TEST_CASE("a study's laps in two phases are the lone lap's to the model's tolera
   // model's tolerance: its solves stop within 1e-9 m/s^2 of their root and start from other
   // hints after a stretch taken at once, which moves a speed by some 1e-15 relative (measured:
   // 6.1e-15 at most in lap time over the bundled laps); 1e-12 leaves room for that and fails
-  // at any change of the lap itself. The point mass takes no hints: its laps are the same.
-  for (const char* track : {"tracks/brannock-park.yaml", "tracks/saltmere-flats.yaml"}) {
-    const Circuit c = test::bundled_circuit(track);
-    REQUIRE(c.mesh.size() >= 2000);
-    for (const char* file : {"cars/caldra-gt.yaml", "cars/pellion-fr2.yaml"}) {
-      for (VehicleModel model : {VehicleModel::axle, VehicleModel::point_mass}) {
-        Car car = load_car(test::source_path(file));
-        car.model = model;
-        for (std::size_t k = 0; k < car.configs.size(); ++k) {
-          INFO(track << " " << file << " config " << k << " model " << static_cast<int>(model));
-          const Envelope env(car.configured(k), c.air);
-          LapSolver lone, one, two;
-          one.set_order(LapSolver::Order::phases);
-          two.set_order(LapSolver::Order::phases);
-          two.set_threads(2);
-          const Lap& side = lone.solve_speed(env, c.mesh, c.track.start_speed_mps);
-          const Lap& phases = one.solve_speed(env, c.mesh, c.track.start_speed_mps);
-          check_same_lap(phases, two.solve_speed(env, c.mesh, c.track.start_speed_mps));
-          CHECK(lone.skipped_steps() == 0);
-          CHECK(one.skipped_steps() > 0);  // the stretches were in fact taken at once
-          CHECK(one.skipped_steps() == two.skipped_steps());
-          CHECK(std::abs(phases.lap_time_s - side.lap_time_s) <= 1e-12 * side.lap_time_s);
-          double worst = 0.0;
-          for (std::size_t i = 0; i < c.mesh.size(); ++i)
-            worst = std::max(worst,
-                             std::abs(phases.speed_mps[i] - side.speed_mps[i]) / side.speed_mps[i]);
-          CHECK(worst <= 1e-12);
-          CHECK(phases.phase == side.phase);
-        }
-      }
-    }
-  }
+  // at any change of the lap itself.
+  each_bundled_lap(
+      {"tracks/brannock-park.yaml", "tracks/saltmere-flats.yaml"},
+      {"cars/caldra-gt.yaml", "cars/pellion-fr2.yaml"}, [](const Circuit& c, const Envelope& env) {
+        LapSolver lone, one, two;
+        one.set_order(LapSolver::Order::phases);
+        two.set_order(LapSolver::Order::phases);
+        two.set_threads(2);
+        const Lap& side = lone.solve_speed(env, c.mesh, c.track.start_speed_mps);
+        const Lap& phases = one.solve_speed(env, c.mesh, c.track.start_speed_mps);
+        check_same_lap(phases, two.solve_speed(env, c.mesh, c.track.start_speed_mps));
+        CHECK(lone.skipped_steps() == 0);
+        CHECK(one.skipped_steps() > 0);  // the stretches were in fact taken at once
+        CHECK(one.skipped_steps() == two.skipped_steps());
+        CHECK(std::abs(phases.lap_time_s - side.lap_time_s) <= 1e-12 * side.lap_time_s);
+        double worst = 0.0;
+        for (std::size_t i = 0; i < c.mesh.size(); ++i)
+          worst = std::max(worst,
+                           std::abs(phases.speed_mps[i] - side.speed_mps[i]) / side.speed_mps[i]);
+        CHECK(worst <= 1e-12);
+        CHECK(phases.phase == side.phase);
+      });
 }
 
 namespace {
