@@ -314,6 +314,14 @@ Envelope::Envelope(Unchecked, const ConfiguredCar& configured, const Car& car, c
                                           boost::math::tools::eps_tolerance<double>(48), iters);
     v_top_ = 0.5 * (lo + hi);
   }
+  // The one a car reaches from rest where a dip in the drive gives the level road two
+  // (engine_from_rest: the search above can take the upper one, or the tables' top).
+  if (v_top_ > 0.0) {
+    const double found = v_top_;
+    v_top_ = engine_from_rest(
+        *this, trimmed, Road{}, [&](double v) { return -excess(v); }, found, 48);
+    if (v_top_ != found) top_limit_ = TopSpeedLimit::drag;
+  }
   // The least resistance on a level road in still air: crr W + u (drag_coef + crr lift_coef),
   // the coefficients linear in u between rows, so at least crr W wherever the sum is at least 0
   // at every row.
@@ -335,6 +343,35 @@ AeroPoint Envelope::aero_point(double v) const {
           mix(p.balance, q.balance),         mix(p.front_ride_m, q.front_ride_m),
           mix(p.rear_ride_m, q.rear_ride_m), p.off_map || q.off_map,
           p.grounded || q.grounded};
+}
+
+// engine_from_rest (envelope.hpp).
+double engine_from_rest(const Envelope& env, bool trimmed, const Road& road,
+                        const std::function<double(double)>& short_n, double found, int bits) {
+  namespace tools = boost::math::tools;
+  if (road.sin_bank != 0.0 || road.head_wind_mps != 0.0) return found;
+  const std::vector<double>& floor = env.net_drive_floor(trimmed);
+  const double c = env.weight_n() * (env.rolling_resistance() * road.cos_slope + road.sin_slope);
+  // A car that cannot hold a standstill: found's search from the top speed down stands.
+  if (floor.size() < 2 || !(floor.front() >= c)) return found;
+  const double inv_du = env.rows(trimmed).inv_du;
+  // The last row strictly below found.
+  const double at = found * found * inv_du;
+  const std::size_t below = std::min(
+      at >= 1.0 ? static_cast<std::size_t>(std::ceil(at)) - 1 : std::size_t{0}, floor.size() - 1);
+  if (floor[below] >= c) return found;
+  const auto first = std::partition_point(floor.begin(), floor.begin() + below + 1,
+                                          [c](double least) { return least >= c; });
+  const auto k = static_cast<std::size_t>(first - floor.begin());  // >= 1: floor[0] >= c
+  const double lo = std::sqrt(static_cast<double>(k - 1) / inv_du),
+               hi = std::sqrt(static_cast<double>(k) / inv_du);
+  const double f_lo = short_n(lo), f_hi = short_n(hi);
+  if (!(f_lo <= 0.0 && f_hi > 0.0)) return found;  // a row's rounding: the search's answer
+  std::uintmax_t iters = 100;
+  const double v =
+      tools::toms748_solve(short_n, lo, hi, f_lo, f_hi, tools::eps_tolerance<double>(bits), iters)
+          .first;
+  return v < found * (1.0 - 1e-9) ? v : found;
 }
 
 }  // namespace lapwing

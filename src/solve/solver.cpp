@@ -290,47 +290,6 @@ double extrapolated_grip(double k, double k1, double v1, double k0, double v0) {
 // The bracket tried first around an extrapolated guess.
 constexpr double extrapolated_width = 2e-4;
 
-// The engine's limit from rest up. Where a dip in the drive gives a road two top speeds (the
-// drive in the best gear falls short of the resistance, then exceeds it again higher up),
-// highest_feasible's answer `found` can be the upper one (the engine holds the tables' top, or
-// the last point's answer brackets it), which a car accelerating from below never reaches: a
-// differential campaign against a scan of drive and resistance (2026-12-05) found a bend's limit
-// read `grip` at 78.85 m/s where the drive fell 166 N short, the engine holding up to 77.97 and
-// again from 89.41. Where the road has no bank and the air is still (Envelope::net_drive_floor) and
-// the car holds a standstill, a row below `found` whose drive falls short moves the answer to
-// the first crossing from rest: the root in the cell of the first row whose net drive falls
-// below the resistance at rest, c = W (crr cos(slope) + sin(slope)). Elsewhere, and where no row
-// below `found` falls short (one crossing: every bundled car; Envelope::net_drive_floor tells it
-// at once), `found` as it was; so too where the two differ by no more than the rows' rounding.
-template <typename F>
-double engine_from_rest(const Envelope& env, bool trimmed, const Road& road, F short_n,
-                        double found) {
-  namespace tools = boost::math::tools;
-  if (road.sin_bank != 0.0 || road.head_wind_mps != 0.0) return found;
-  const std::vector<double>& floor = env.net_drive_floor(trimmed);
-  const double c = env.weight_n() * (env.rolling_resistance() * road.cos_slope + road.sin_slope);
-  // A car that cannot hold a standstill: found's search from the top speed down stands.
-  if (floor.size() < 2 || !(floor.front() >= c)) return found;
-  const double inv_du = env.rows(trimmed).inv_du;
-  // The last row strictly below found.
-  const double at = found * found * inv_du;
-  const std::size_t below = std::min(
-      at >= 1.0 ? static_cast<std::size_t>(std::ceil(at)) - 1 : std::size_t{0}, floor.size() - 1);
-  if (floor[below] >= c) return found;
-  const auto first = std::partition_point(floor.begin(), floor.begin() + below + 1,
-                                          [c](double least) { return least >= c; });
-  const auto k = static_cast<std::size_t>(first - floor.begin());  // >= 1: floor[0] >= c
-  const double lo = std::sqrt(static_cast<double>(k - 1) / inv_du),
-               hi = std::sqrt(static_cast<double>(k) / inv_du);
-  const double f_lo = short_n(lo), f_hi = short_n(hi);
-  if (!(f_lo <= 0.0 && f_hi > 0.0)) return found;  // a row's rounding: the search's answer
-  std::uintmax_t iters = 100;
-  const double v = tools::toms748_solve(short_n, lo, hi, f_lo, f_hi,
-                                        tools::eps_tolerance<double>(steady_bits), iters)
-                       .first;
-  return v < found * (1.0 - 1e-9) ? v : found;
-}
-
 // The axle model's lift limit at a point of curvature |k| and its road, on the rows given: the
 // highest speed at which both axle loads at a_x = 0 (axle_loads) stay above zero, and the axle
 // whose load reaches zero there (the lighter one at the tables' top). {v_max, grip} where
@@ -461,7 +420,7 @@ void steady_points_as(const Envelope& env, const Mesh& mesh, SteadyProfile& p, s
         return f.resistance_n - f.drive_n;
       };
       v_engine = engine ? engine_from_rest(env, trimmed, road, short_n,
-                                           highest_feasible(short_n, v_max, v_engine))
+                                           highest_feasible(short_n, v_max, v_engine), steady_bits)
                         : std::numeric_limits<double>::infinity();
       // Axles (axle model): the highest speed at which both keep some load at a_x = 0.
       if (axle) {

@@ -1618,18 +1618,11 @@ TEST_CASE("a sweep from a closed mesh's seam is the sweep from its first point")
   CHECK_THROWS_AS(sweep(env, c.mesh, Sweep::forward, shorter, 0, v0), std::invalid_argument);
 }
 
-TEST_CASE("a road with two top speeds takes the one a car reaches from rest as its engine limit") {
-  // A differential campaign's finding (a brute-force scan of drive against resistance, helper
-  // session, 2026-12-05): an invented car whose torque dips at 7 500 rpm and recovers by 8 500
-  // (and whose invented speed table's drag falls at high speed) holds a 4.8 % downhill bend at
-  // full drive up to some 78 m/s and again above some 89; the steady limit took the upper top
-  // speed (the engine holding the tables' top) and read the tyres' 78.85 m/s, `grip`, where the
-  // drive fell 166 N short of the resistance. The reference here is the definition itself: the
-  // first speed from rest, scanned every 0.01 m/s and then bisected, at which the drive in the
-  // best gear falls short of the resistance (Envelope::road_forces, as the solver reads them).
-  // The limit there must be that speed, within the root finder's 2^-36 and the bisection's
-  // 1e-9 m/s (1e-8 relative allowed), labelled `engine`.
-  const Car car = load_car(test::scratch_file("torque-dip.yaml", R"(format: 1
+namespace {
+// An invented car whose torque dips at 7 500 rpm and recovers by 8 500 (`torque_8500`, N m there),
+// with an invented speed table whose drag falls at high speed (a differential campaign's case).
+Car torque_dip_car(const std::string& torque_8500) {
+  return load_car(test::scratch_file("torque-dip-" + torque_8500 + ".yaml", R"(format: 1
 name: "invented torque-dip car"
 mass: 1019 kg
 inertia_factor: 0.074
@@ -1639,7 +1632,8 @@ front_weight: 0.372
 tyres: {mu_long: 1.726, mu_lat: 1.351, nominal_load: 3572 N, load_sensitivity: 0.1326,
         ellipse_exponent: 2.2, rolling_radius: 0.34 m, rolling_resistance: 0.02839}
 powertrain:
-  torque_curve: {rpm: [2000, 4000, 6000, 7500, 8500], torque: [576.9, 470.1, 491.5, 250.2, 375.0]}
+  torque_curve: {rpm: [2000, 4000, 6000, 7500, 8500], torque: [576.9, 470.1, 491.5, 250.2, )" +
+                                                                                torque_8500 + R"(]}
   rev_limit: 8500 rpm
   gears: [3.4518, 2.4810, 1.9416, 1.5641, 1.2944, 1.0787]
   final_drive: 3.1
@@ -1657,6 +1651,21 @@ aero:
         cla: [3.0721, 2.4973, 1.7231, 1.8487, 1.8574, 1.8820, 1.8741]
         balance: [0.5346, 0.4243, 0.5786, 0.6339, 0.5247, 0.3966, 0.2448]
 )"));
+}
+}  // namespace
+
+TEST_CASE("a road with two top speeds takes the one a car reaches from rest as its engine limit") {
+  // A differential campaign's finding (a brute-force scan of drive against resistance, helper
+  // session, 2026-12-05): an invented car whose torque dips at 7 500 rpm and recovers by 8 500
+  // (and whose invented speed table's drag falls at high speed) holds a 4.8 % downhill bend at
+  // full drive up to some 78 m/s and again above some 89; the steady limit took the upper top
+  // speed (the engine holding the tables' top) and read the tyres' 78.85 m/s, `grip`, where the
+  // drive fell 166 N short of the resistance. The reference here is the definition itself: the
+  // first speed from rest, scanned every 0.01 m/s and then bisected, at which the drive in the
+  // best gear falls short of the resistance (Envelope::road_forces, as the solver reads them).
+  // The limit there must be that speed, within the root finder's 2^-36 and the bisection's
+  // 1e-9 m/s (1e-8 relative allowed), labelled `engine`.
+  const Car car = torque_dip_car("375.0");
   const Track track = load_track(test::scratch_file("downhill-bend.yaml", R"(format: 1
 name: "invented downhill bend"
 closed: false
@@ -1693,4 +1702,38 @@ segments:
   CHECK(p.speed_mps[i] == doctest::Approx(lo).epsilon(1e-8));
   CHECK(p.limit[i] == SteadyLimit::engine);
   CHECK(short_n(p.speed_mps[i]) <= 0.0);
+}
+
+TEST_CASE("a level road with two top speeds: the car's top speed is the one it reaches from rest") {
+  // The torque-dip car with 500 N m at 8 500 rpm: on the level in still air its drive falls
+  // short of the resistance from some 75.5 m/s and exceeds it again from some 85.4, up to the
+  // tables' top (the rev limit in top gear, 90.5 m/s). `check` prints Envelope's level top
+  // speed; it read the tables' top (`rev_limit`), which a car accelerating from rest never
+  // reaches. The reference is the definition, as in the test above: the first speed from rest,
+  // scanned every 0.01 m/s and bisected to 1e-9 m/s, where the drive in the best gear falls
+  // short of the resistance. The top speed must be that speed (the root finder's 2^-48 and the
+  // bisection's 1e-9 m/s: 1e-8 relative allowed), limited by `drag`, and a lap's steady limit on
+  // a level straight the same speed.
+  const Car car = torque_dip_car("500");
+  const Air air = make_air(AirSpec{});
+  const Envelope env(car.configured(0), air);
+  const Road level{};
+  const auto short_n = [&](double v) {
+    const Envelope::RoadForces f = env.road_forces(env.rows(false), v * v, 0.0, level);
+    return f.resistance_n - f.drive_n;
+  };
+  double lo = 0.0;
+  while (lo < env.max_speed_mps() && short_n(lo + 0.01) <= 0.0) lo += 0.01;
+  double hi = lo + 0.01;
+  while (hi - lo > 1e-9) (short_n(0.5 * (lo + hi)) <= 0.0 ? lo : hi) = 0.5 * (lo + hi);
+  // The level road does hold again higher up, to the tables' top.
+  REQUIRE(short_n(env.max_speed_mps()) <= 0.0);
+  CAPTURE(lo);
+  CHECK(env.top_speed_level_mps() == doctest::Approx(lo).epsilon(1e-8));
+  CHECK(env.top_speed_limit() == TopSpeedLimit::drag);
+  const Track t = test::straight_track(400.0, 0.5, 0.0);
+  const Mesh mesh = build_mesh(t, 0.5);
+  const SteadyProfile p = steady_profile(env, mesh);
+  CHECK(p.speed_mps[mesh.size() / 2] == doctest::Approx(lo).epsilon(1e-8));
+  CHECK(p.limit[mesh.size() / 2] == SteadyLimit::engine);
 }
