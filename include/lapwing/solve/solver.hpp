@@ -276,7 +276,8 @@ class LapSolver {
   /// Other closed laps (a fitted centerline, a graded circuit: few straight steps) take the
   /// phases either way, open ones side by side. The two ways give the same lap to the axle
   /// model's tolerance, not always to the bit (its solves start from other hints): some 1e-14
-  /// relative in lap time. Each is the same bit for bit on one thread or two.
+  /// relative in lap time (README, "Limitations and cautions": a car that hunts between gears,
+  /// 1.6e-6). Each is the same bit for bit on one thread or two.
   enum class Order : std::uint8_t { side_by_side, phases };
   void set_order(Order order) { order_ = order; }
   Order order() const { return order_; }
