@@ -1859,14 +1859,17 @@ std::size_t slowest_split(const std::vector<double>& steady, std::size_t i0, std
                           bool forward, std::size_t lo, std::size_t hi) {
   std::size_t split = period;
   double slowest = std::numeric_limits<double>::infinity();
+  if (lo >= hi) return split;
+  // Point i of step k, moved on by one a step (a division a point cost more than the test).
+  std::size_t i = forward ? (i0 + lo) % period : (i0 + period - lo) % period;
   for (std::size_t k = lo; k < hi; ++k) {
-    const std::size_t i = forward ? (i0 + k) % period : (i0 + period - k) % period;
     const std::size_t before = i == 0 ? period - 1 : i - 1, after = i + 1 == period ? 0 : i + 1;
     const std::size_t from = forward ? before : after, to = forward ? after : before;
     if (steady[i] < steady[from] && steady[i] <= steady[to] && steady[i] < slowest) {
       slowest = steady[i];
       split = k;
     }
+    i = forward ? after : before;
   }
   return split;
 }
