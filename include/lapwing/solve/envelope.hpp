@@ -261,10 +261,9 @@ class Envelope {
 /// drive in the best gear falls short of the resistance, then exceeds it again higher up), a
 /// search's answer `found` (the steady limits' from the top down, the Envelope's own level top
 /// speed) can be the upper one (the engine holds the tables' top, or the last point's answer
-/// brackets it), which a car accelerating from below never reaches: a
-/// differential campaign against a scan of drive and resistance (2026-12-05) found a bend's limit
-/// read `grip` at 78.85 m/s where the drive fell 166 N short, the engine holding up to 77.97 and
-/// again from 89.41. Where the road has no bank and the air is still (Envelope::net_drive_floor)
+/// brackets it), which a car accelerating from below never reaches: a differential campaign
+/// against a scan of drive and resistance (2026-12-05) found a bend's limit read `grip` at 78.85
+/// m/s where the drive fell 166 N short, the engine holding up to 77.97 and again from 89.41. Where the road has no bank and the air is still (Envelope::net_drive_floor)
 /// and the car holds a standstill, a row below `found` whose drive falls short moves the answer to
 /// the first crossing from rest: the root in the cell of the first row whose net drive falls
 /// below the resistance at rest, c = W (crr cos(slope) + sin(slope)). Elsewhere, and where no row
