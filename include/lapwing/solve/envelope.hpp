@@ -263,14 +263,15 @@ class Envelope {
 /// speed) can be the upper one (the engine holds the tables' top, or the last point's answer
 /// brackets it), which a car accelerating from below never reaches: a differential campaign
 /// against a scan of drive and resistance (2026-12-05) found a bend's limit read `grip` at 78.85
-/// m/s where the drive fell 166 N short, the engine holding up to 77.97 and again from 89.41. Where the road has no bank and the air is still (Envelope::net_drive_floor)
-/// and the car holds a standstill, a row below `found` whose drive falls short moves the answer to
-/// the first crossing from rest: the root in the cell of the first row whose net drive falls
-/// below the resistance at rest, c = W (crr cos(slope) + sin(slope)). Elsewhere, and where no row
-/// below `found` falls short (one crossing: every bundled car; Envelope::net_drive_floor tells it
-/// at once), `found` as it was; so too where the two differ by no more than the rows' rounding.
-/// `short_n(v)`: the resistance less the drive in the best gear at v on that road; `bits`: the
-/// root's tolerance (Boost's eps_tolerance).
+/// m/s where the drive fell 166 N short, the engine holding up to 77.97 and again from 89.41. Where
+/// the road has no bank and the air is still (Envelope::net_drive_floor) and the car holds a
+/// standstill, a row below `found` whose drive falls short moves the answer to the first crossing
+/// from rest: the root in the cell of the first row whose net drive falls below the resistance at
+/// rest, c = W (crr cos(slope) + sin(slope)). Elsewhere, and where no row below `found` falls short
+/// (one crossing: every bundled car; Envelope::net_drive_floor tells it at once), `found` as it
+/// was; so too where the two differ by no more than the rows' rounding. `short_n(v)`: the
+/// resistance less the drive in the best gear at v on that road; `bits`: the root's tolerance
+/// (Boost's eps_tolerance).
 double engine_from_rest(const Envelope& env, bool trimmed, const Road& road,
                         const std::function<double(double)>& short_n, double found, int bits);
 
