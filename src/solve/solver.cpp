@@ -2129,23 +2129,49 @@ void LapSolver::speed_pass(const Envelope& env, const Mesh& mesh, double start_s
   std::size_t first_end = 0;  // the first half's last point + 1 (time_s is a running sum to it)
   lap.time_s[0] = 0.0;
   in_halves(n, second, [&](std::size_t lo, std::size_t hi) {
-    bool lift = false;
     const bool first = lo == 0;
-    double t = 0.0;  // the first half's running time
+    const double* const f = fwd.speed_mps.data();
+    const double* const b = bwd.speed_mps.data();
+    double* const speed = lap.speed_mps.data();
+    double* const time = lap.time_s.data();
+    const double step_twice = two_ds;  // a local: a stored time might alias the captured one
+    // In loops of one kind each, the first two without a branch (the compiler vectorises them):
+    // the speeds, the steps' times, the running sum, then the phases. The same operations in the
+    // same order as a point at a time, so the same bits.
+    for (std::size_t i = lo; i < hi; ++i) speed[i] = std::min(f[i], b[i]);
+    // The step from each point of the half to the next (the last one's to the other half's
+    // first point, whose speed is read from the sweeps: the other half writes it).
+    // `moves` falls to 0 at a step whose speeds do not add up to more than 0 (a select, not a
+    // count: the compiler vectorises the one and not the other).
+    double moves = 1.0;
+    for (std::size_t i = lo + 1; i < hi; ++i) {
+      const double vsum = speed[i - 1] + speed[i];
+      moves = vsum > 0.0 ? moves : 0.0;
+      time[i] = step_twice / vsum;
+    }
+    const double v_after = hi < n ? std::min(f[hi], b[hi]) : 0.0;
+    if (hi < n) {
+      const double vsum = speed[hi - 1] + v_after;
+      moves = vsum > 0.0 ? moves : 0.0;
+      time[hi] = step_twice / vsum;
+    }
+    if (moves == 0.0)
+      for (std::size_t i = lo; i < hi && i + 1 < n; ++i)
+        if (!(speed[i] + (i + 1 < hi ? speed[i + 1] : v_after) > 0.0))
+          throw CannotMove("the car does not move at " + where(mesh, i));
+    if (first) {
+      double t = 0.0;  // the first half's running time
+      for (std::size_t i = lo; i < hi && i + 1 < n; ++i) {
+        t += time[i + 1];
+        time[i + 1] = t;
+      }
+    }
+    bool lift = false;
     for (std::size_t i = lo; i < hi; ++i) {
       lift |= lift_limit(steady_.limit[i]);
-      const double v = std::min(fwd.speed_mps[i], bwd.speed_mps[i]);
-      lap.speed_mps[i] = v;
-      const bool braking = bwd.speed_mps[i] < fwd.speed_mps[i];
-      lap.phase[i] = classify_phase(on_limit_for_phase(v, steady[i], braking, fwd.speed_mps[i]),
-                                    braking, steady_.limit[i], fwd.cut[i]);
-      if (i + 1 < n) {
-        const double vsum = v + std::min(fwd.speed_mps[i + 1], bwd.speed_mps[i + 1]);
-        if (!(vsum > 0.0)) throw CannotMove("the car does not move at " + where(mesh, i));
-        const double dt = two_ds / vsum;
-        if (first) t += dt;
-        lap.time_s[i + 1] = first ? t : dt;
-      }
+      const bool braking = b[i] < f[i];
+      lap.phase[i] = classify_phase(on_limit_for_phase(speed[i], steady[i], braking, f[i]), braking,
+                                    steady_.limit[i], fwd.cut[i]);
     }
     lift_limited[first ? 0 : 1] = lift;
     if (first) first_end = hi;
