@@ -2226,8 +2226,12 @@ const Lap& LapSolver::fill_channels(const Envelope& env, const Mesh& mesh, Chann
   if (lap.has_channels || (set == ChannelSet::loads && lap.has_loads && !lap.row_loads &&
                            lap.loads_above_mps <= floor_mps))
     return lap;
-  // A copy: the forward sweep keeps its buffer for the next lap.
-  lap.gear.assign(forward_.gear.begin(), forward_.gear.end());
+  // A copy: the forward sweep keeps its buffer for the next lap. The loads alone do not read
+  // the gears (channels_pass clears them).
+  if (set == ChannelSet::all)
+    lap.gear.assign(forward_.gear.begin(), forward_.gear.end());
+  else
+    lap.gear.clear();
   channels_pass(env, mesh, set, floor_mps, row);
   return lap;
 }
@@ -2264,8 +2268,8 @@ void LapSolver::channels_pass(const Envelope& env, const Mesh& mesh, ChannelSet 
                               double loads_above_mps, const RowLoads* row) {
   const std::size_t n = mesh.size();
   Lap& lap = lap_;
-  assert(lap.speed_mps.size() == n && lap.gear.size() == n);
   const bool all = set == ChannelSet::all;
+  assert(lap.speed_mps.size() == n && (!all || lap.gear.size() == n));
   lap.has_channels = all;
   lap.has_loads = true;
   lap.loads_above_mps = all ? 0.0 : loads_above_mps;
