@@ -263,7 +263,12 @@ bool LevelTables::steady_grip_speed(double k, double& v, std::size_t* cell) cons
   // g(t) = A(t) - k u(t) over the cell, g(0) >= 0 > g(1): Newton, kept inside the bracket.
   const double u0 = static_cast<double>(lo) * lateral_du, ku = k * lateral_du;
   const auto& a = *c;
-  double tl = 0.0, th = 1.0, t = 0.5;
+  // The first iterate where the chord through the cell's ends crosses 0 (g is nearly linear
+  // over a cell: two or three Newton steps from there, where the cell's middle took four to
+  // six); the middle where the ends do not bracket (rounding at a node).
+  const double g0 = a[0] - k * u0, g1 = ((a[0] + a[1]) + (a[2] + a[3])) - k * u0 - ku;
+  const double chord = g0 / (g0 - g1);
+  double tl = 0.0, th = 1.0, t = chord > 0.0 && chord < 1.0 ? chord : 0.5;
   for (int it = 0; it < 60; ++it) {
     const double g = a[0] + t * (a[1] + t * (a[2] + t * a[3])) - k * u0 - ku * t;
     const double dg = a[1] + t * (2.0 * a[2] + 3.0 * t * a[3]) - ku;
