@@ -808,6 +808,11 @@ class Sweeper {
   /// Curvature and limit the same at both ends (an arc or a straight on its steady limit):
   /// every stage held at the limit reads the same state.
   bool uniform() const { return dk_ == 0.0 && dulim_ == 0.0; }
+  /// Whether end_step clips u at the step in progress's end to the limit there (its own test).
+  bool clips(double u) const {
+    const double clip_from = limit_[j_] * (1.0 - clip_tolerance);
+    return u >= clip_from * clip_from;
+  }
 
   /// Takes the integrated u at the next point: clips it to the limit and moves there.
   [[gnu::always_inline]] double end_step(double u) {
@@ -1147,18 +1152,36 @@ double split_step(Sw& s, double u0, double x0, double h, const StageCheck& flagg
 // typical 1e-3 per m).
 // slope_spread and secant_reach: above the Sweeper (its table steps bound the step's reach).
 
+//
+// A step whose end is clipped to the limit whatever its second reading takes the first alone
+// (`clipped`, `held`): the lap is the same, the second reading's cost is not paid. With
+// delta = u0 - u_m >= 0 and f_m <= 0, u1 = u0 + h phi1(z) f_m + delta (e^z - 1), z = h J, is at
+// least u_m + h f_m for every J: for z <= 0, phi1(z) is in (0, 1] and e^z - 1 >= -1; for
+// 0 < z <= exponential_jump_z, phi1(z) <= e^z gives u1 >= u_m + e^z (delta + h f_m), at least
+// u_m where delta >= h |f_m|; beyond it, u1 = u0 + h f_m. So where delta >= h |f_m| and
+// end_step clips u_m + h f_m (both with held_bound_margin for the rounding of phi1 and of the
+// sums, within an ulp or two), the step ends on the limit, as the second reading would have
+// it: a forward step at a corner's entry, on a limit that falls faster than drive slows the
+// car (docs/performance.md, "The speed pass in loops of one kind, and what a corner's entry
+// costs the forward sweep"). The speeds are the same; the axle model's hints are not moved by
+// a second reading, so later solves start elsewhere, to their tolerance.
+constexpr double held_bound_margin = 1e-9;
+
 template <class Sw, std::size_t N>
 [[gnu::always_inline]] inline std::array<double, N> exponential_step(
     const std::array<Sw*, N>& s, const std::array<double, N>& u0, double h) {
   const double xm = 0.5 * h;
   std::array<double, N> um, fm, ud, inv_du, u1;
-  std::array<bool, N> clipped;
+  std::array<bool, N> clipped, held;
   for (std::size_t c = 0; c < N; ++c) {
     um[c] = std::min(u0[c], s[c]->cap(xm));
     s[c]->predict_hints();
     fm[c] = s[c]->rhs(um[c], xm);
     s[c]->note_first_reading();
     clipped[c] = fm[c] > 0.0 && u0[c] >= s[c]->cap(h);
+    const double fall = -h * fm[c] * (1.0 + held_bound_margin);  // h |f_m|, and a margin
+    held[c] = !clipped[c] && fm[c] <= 0.0 && u0[c] - um[c] >= fall &&
+              s[c]->clips((um[c] - fall) * (1.0 - held_bound_margin));
     const double d =
         std::max(secant_reach * h * std::abs(fm[c]), slope_spread * std::max(um[c], 1.0));
     const double ahead = fm[c] >= 0.0 ? um[c] + d : um[c] - d;
@@ -1170,6 +1193,10 @@ template <class Sw, std::size_t N>
   for (std::size_t c = 0; c < N; ++c) {
     if (clipped[c]) {
       u1[c] = u0[c] + h * fm[c];
+      continue;
+    }
+    if (held[c]) {  // end_step clips it to the limit, as it would the step's own end
+      u1[c] = um[c] - (-h * fm[c] * (1.0 + held_bound_margin));
       continue;
     }
     s[c]->nudge_hints(ud[c] - um[c]);
@@ -1709,6 +1736,7 @@ struct FreeLane {
   InverseMass inv;
   mutable AxleHints hints;
   double cap(double) const { return std::numeric_limits<double>::infinity(); }
+  bool clips(double) const { return false; }  // no limit
   // The sweeps' moves of the hints (Sweeper::predict_hints) are not the tables': none here.
   void predict_hints() const {}
   void note_first_reading() const {}

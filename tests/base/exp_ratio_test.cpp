@@ -112,3 +112,35 @@ TEST_CASE(
   CHECK(std::isnan(
       exponential_update(400.0, 400.0, 12.0, std::numeric_limits<double>::quiet_NaN(), 0.5)));
 }
+
+TEST_CASE(
+    "the exponential step's end is at least u_m + h f_m wherever f_m <= 0 and u0 - u_m >= h "
+    "|f_m|") {
+  // The bound the sweeps' held exponential steps rest on (solver.cpp, held_bound_margin): with
+  // delta = u0 - u_m >= h |f_m| and f_m <= 0, u1 >= u_m + h f_m for every slope J, derived
+  // there from phi1 <= 1 for z <= 0 and phi1(z) <= e^z for z > 0 (a closed-form inequality
+  // checked here on the step's own arithmetic), less the margin the solver takes for rounding.
+  // Values as above; slopes from -1e6 to +1e6 per metre, across the jump threshold and beyond
+  // the overflow of phi1.
+  constexpr double margin = 1e-9;  // held_bound_margin
+  int checked = 0;
+  for (double u0 : {25.0, 900.0, 6400.0})
+    for (double fm : {-40.0, -5.0, -0.3, 0.0})
+      for (double h : {0.25, 0.5, 2.0})
+        for (double extra : {0.0, 1e-6, 0.5, 3.0, 200.0}) {
+          const double fall = -h * fm * (1.0 + margin);
+          const double um = u0 - (fall + extra);
+          if (!(um > 0.0)) continue;
+          for (double j : {-1e6, -1e4, -100.0, -1.0, -0.0025, 0.0, 0.0025, 0.5, 1.0, 7.9, 8.1, 31.9,
+                           32.1, 1e3, 1e6}) {
+            const double u1 = exponential_update(u0, um, fm, j, h);
+            INFO("u0 " << u0 << " u_m " << um << " f_m " << fm << " J " << j << " h " << h);
+            CHECK(u1 >= (um - fall) * (1.0 - margin));
+            ++checked;
+          }
+        }
+  CHECK(checked > 800);
+  // Where u0 - u_m falls short of h |f_m| the bound fails for a steep positive slope (the
+  // condition is needed): z = 15, u1 = u_m + e^z (delta + h f_m) nearly.
+  CHECK(exponential_update(900.0, 899.0, -40.0, 30.0, 0.5) < 899.0 - 20.0);
+}
