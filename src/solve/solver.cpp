@@ -2256,10 +2256,7 @@ const Lap& LapSolver::fill_channels(const Envelope& env, const Mesh& mesh, Chann
     return lap;
   // A copy: the forward sweep keeps its buffer for the next lap. The loads alone do not read
   // the gears (channels_pass clears them).
-  if (set == ChannelSet::all)
-    lap.gear.assign(forward_.gear.begin(), forward_.gear.end());
-  else
-    lap.gear.clear();
+  if (set == ChannelSet::all) lap.gear.assign(forward_.gear.begin(), forward_.gear.end());
   channels_pass(env, mesh, set, floor_mps, row);
   return lap;
 }
